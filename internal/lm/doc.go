@@ -1,0 +1,12 @@
+// Package lm minimises a sum of squared residuals by the
+// Levenberg-Marquardt method, with an analytic Jacobian supplied by the
+// caller column by column, and returns (J'J)^-1 at the solution for
+// standard errors.
+//
+// References:
+//
+//	Marquardt, D. W. (1963). An algorithm for least-squares estimation of
+//	nonlinear parameters. J. SIAM 11(2), 431-441. doi:10.1137/0111030
+//	Nielsen, H. B. (1999). Damping parameter in Marquardt's method.
+//	IMM-REP-1999-05, Technical University of Denmark.
+package lm

@@ -1,0 +1,315 @@
+package lm
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// Problem is a least-squares problem in N parameters with M residuals.
+//
+// Eval writes the residuals at x into r (length M). When jac is not nil it
+// also writes the Jacobian: jac[j][i] = d r_i / d x_j, one column of length
+// M per parameter. Eval returns an error when x is not admissible (for
+// example an unstable filter); the solver then treats the point as worse
+// than any other. Eval must not keep x, r or jac.
+type Problem struct {
+	M, N int
+	Eval func(x, r []float64, jac [][]float64) error
+}
+
+// Settings tunes Minimize. The zero value gives the defaults.
+type Settings struct {
+	// MaxIter bounds the number of iterations (accepted or rejected
+	// steps). Zero means 500.
+	MaxIter int
+	// FTol stops when the relative reduction of the sum of squares in an
+	// accepted step is below it. Zero means 1e-14.
+	FTol float64
+	// XTol stops when every step component is below XTol*(|x_j| + XTol).
+	// Zero means 1e-12.
+	XTol float64
+	// GTol stops when the largest scaled gradient component
+	// |J_j'r| / (||J_j|| ||r||) is below it. Zero means 1e-12.
+	GTol float64
+}
+
+// Reason says why Minimize stopped.
+type Reason int
+
+const (
+	// SmallReduction: the sum of squares stopped decreasing (FTol).
+	SmallReduction Reason = iota + 1
+	// SmallStep: the step became negligible (XTol).
+	SmallStep
+	// SmallGradient: the gradient vanished (GTol), or the residuals are zero.
+	SmallGradient
+	// IterationLimit: MaxIter reached before convergence.
+	IterationLimit
+	// Stalled: no step reduced the sum of squares although the damping
+	// reached its upper limit.
+	Stalled
+	// Canceled: the context was done; the best point so far is returned.
+	Canceled
+)
+
+// Converged reports whether r is one of the convergence reasons.
+func (r Reason) Converged() bool {
+	return r == SmallReduction || r == SmallStep || r == SmallGradient
+}
+
+func (r Reason) String() string {
+	switch r {
+	case SmallReduction:
+		return "converged: relative reduction of the sum of squares below tolerance"
+	case SmallStep:
+		return "converged: step below tolerance"
+	case SmallGradient:
+		return "converged: gradient below tolerance"
+	case IterationLimit:
+		return "not converged: iteration limit reached"
+	case Stalled:
+		return "not converged: no further reduction possible"
+	case Canceled:
+		return "not converged: canceled"
+	}
+	return fmt.Sprintf("Reason(%d)", int(r))
+}
+
+// Result is the outcome of Minimize.
+type Result struct {
+	X      []float64     // best point reached
+	SSQ    float64       // sum of squared residuals at X
+	Resid  []float64     // residuals at X (length M)
+	Iter   int           // iterations taken
+	Evals  int           // calls of Eval
+	Reason Reason        // why it stopped
+	JTJInv *mat.SymDense // (J'J)^-1 at X; nil when J'J is singular
+}
+
+// ErrStart is returned when Eval fails at the start point.
+var ErrStart = errors.New("lm: residuals cannot be computed at the start point")
+
+// Minimize runs Levenberg-Marquardt from x0 (not modified). On
+// non-convergence it returns the best point reached with its Reason and a
+// nil error; an error is returned only when the start point fails or the
+// problem is malformed.
+//
+// Each iteration solves (J'J + mu D) dx = -J'r, D = diag(J'J), by Cholesky
+// and accepts the step when the sum of squares falls; mu follows Nielsen's
+// update.
+func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result, error) {
+	if p.M <= 0 || p.N <= 0 || len(x0) != p.N || p.Eval == nil {
+		return Result{}, fmt.Errorf("lm: malformed problem (M=%d, N=%d, len(x0)=%d)", p.M, p.N, len(x0))
+	}
+	var set Settings
+	if s != nil {
+		set = *s
+	}
+	if set.MaxIter == 0 {
+		set.MaxIter = 500
+	}
+	if set.FTol == 0 {
+		set.FTol = 1e-14
+	}
+	if set.XTol == 0 {
+		set.XTol = 1e-12
+	}
+	if set.GTol == 0 {
+		set.GTol = 1e-12
+	}
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	m, n := p.M, p.N
+	x := append([]float64(nil), x0...)
+	r := make([]float64, m)
+	jac := newCols(n, m)
+	tr := make([]float64, m)
+	tjac := newCols(n, m)
+	res := Result{}
+	if err := p.Eval(x, r, jac); err != nil {
+		return Result{}, fmt.Errorf("%w: %v", ErrStart, err)
+	}
+	res.Evals++
+	f := ssq(r)
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return Result{}, fmt.Errorf("%w: sum of squares is %v", ErrStart, f)
+	}
+	a := mat.NewSymDense(n, nil)
+	g := make([]float64, n)
+	normal(a, g, jac, r)
+	mu := 0.0
+	for j := 0; j < n; j++ {
+		mu = math.Max(mu, a.At(j, j))
+	}
+	mu *= 1e-3
+	if mu == 0 {
+		mu = 1e-3
+	}
+	nu := 2.0
+	dx := make([]float64, n)
+	xt := make([]float64, n)
+	aug := mat.NewSymDense(n, nil)
+	var chol mat.Cholesky
+	reason := IterationLimit
+	for it := 0; it < set.MaxIter; it++ {
+		if ctx.Err() != nil {
+			reason = Canceled
+			break
+		}
+		res.Iter = it + 1
+		if f == 0 || gradSmall(a, g, f, set.GTol) {
+			reason = SmallGradient
+			break
+		}
+		aug.CopySym(a)
+		for j := 0; j < n; j++ {
+			d := a.At(j, j)
+			if d == 0 {
+				d = 1
+			}
+			aug.SetSym(j, j, a.At(j, j)+mu*d)
+		}
+		if !chol.Factorize(aug) {
+			mu *= nu
+			nu *= 2
+			if mu > 1e30 {
+				reason = Stalled
+				break
+			}
+			continue
+		}
+		rhs := mat.NewVecDense(n, nil)
+		for j := range g {
+			rhs.SetVec(j, -g[j])
+		}
+		sol := mat.NewVecDense(n, dx)
+		if err := chol.SolveVecTo(sol, rhs); err != nil {
+			mu *= nu
+			nu *= 2
+			continue
+		}
+		small := true
+		for j := range x {
+			xt[j] = x[j] + dx[j]
+			if math.Abs(dx[j]) > set.XTol*(math.Abs(x[j])+set.XTol) {
+				small = false
+			}
+		}
+		if small {
+			reason = SmallStep
+			break
+		}
+		// Predicted reduction of the linear model: -dx'g - 0.5 dx'(J'J)dx
+		// = 0.5 dx'(mu D dx - g).
+		pred := 0.0
+		for j := range dx {
+			d := a.At(j, j)
+			if d == 0 {
+				d = 1
+			}
+			pred += 0.5 * dx[j] * (mu*d*dx[j] - g[j])
+		}
+		var ft float64
+		err := p.Eval(xt, tr, tjac)
+		res.Evals++
+		if err == nil {
+			ft = ssq(tr)
+		}
+		if err != nil || math.IsNaN(ft) || math.IsInf(ft, 0) || ft >= f {
+			mu *= nu
+			nu *= 2
+			if mu > 1e30 {
+				reason = Stalled
+				break
+			}
+			continue
+		}
+		rho := (f - ft) / math.Max(pred, math.SmallestNonzeroFloat64)
+		mu *= math.Max(1.0/3, 1-math.Pow(2*rho-1, 3))
+		nu = 2
+		rel := (f - ft) / f
+		x, xt = xt, x
+		r, tr = tr, r
+		jac, tjac = tjac, jac
+		f = ft
+		normal(a, g, jac, r)
+		if rel < set.FTol {
+			reason = SmallReduction
+			break
+		}
+	}
+	res.X = x
+	res.SSQ = f
+	res.Resid = r
+	res.Reason = reason
+	var c mat.Cholesky
+	if c.Factorize(a) {
+		inv := mat.NewSymDense(n, nil)
+		if err := c.InverseTo(inv); err == nil {
+			res.JTJInv = inv
+		}
+	}
+	return res, nil
+}
+
+func newCols(n, m int) [][]float64 {
+	back := make([]float64, n*m)
+	c := make([][]float64, n)
+	for j := range c {
+		c[j] = back[j*m : (j+1)*m : (j+1)*m]
+	}
+	return c
+}
+
+func ssq(r []float64) float64 {
+	s := 0.0
+	for _, v := range r {
+		s += v * v
+	}
+	return s
+}
+
+// normal writes J'J into a and J'r into g.
+func normal(a *mat.SymDense, g []float64, jac [][]float64, r []float64) {
+	for j, cj := range jac {
+		g[j] = dot(cj, r)
+		for k := j; k < len(jac); k++ {
+			a.SetSym(j, k, dot(cj, jac[k]))
+		}
+	}
+}
+
+func dot(a, b []float64) float64 {
+	b = b[:len(a)]
+	var s0, s1, s2, s3 float64
+	i := 0
+	for ; i+4 <= len(a); i += 4 {
+		s0 += a[i] * b[i]
+		s1 += a[i+1] * b[i+1]
+		s2 += a[i+2] * b[i+2]
+		s3 += a[i+3] * b[i+3]
+	}
+	for ; i < len(a); i++ {
+		s0 += a[i] * b[i]
+	}
+	return (s0 + s1) + (s2 + s3)
+}
+
+func gradSmall(a *mat.SymDense, g []float64, f, tol float64) bool {
+	rn := math.Sqrt(f)
+	for j, v := range g {
+		d := math.Sqrt(a.At(j, j))
+		if d == 0 {
+			continue
+		}
+		if math.Abs(v)/(d*rn) > tol {
+			return false
+		}
+	}
+	return true
+}

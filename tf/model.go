@@ -1,0 +1,110 @@
+package tf
+
+import (
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/sym"
+)
+
+// Pos is a position in a spec text: 1-based Line and Column (bytes) and a
+// 0-based byte Offset. The zero Pos means the value was built in code.
+type Pos = sym.Pos
+
+// Coef is one coefficient of a model polynomial: a fixed number (empty
+// Name), a free named parameter to be estimated (Value is its start value
+// or estimate), or a named parameter held at Value.
+type Coef = sym.Coef
+
+// Term is one signed summand Coef B^Power of a factor.
+type Term = sym.Term
+
+// Factor is a sum of terms raised to a whole power.
+type Factor = sym.Factor
+
+// Poly is a polynomial in B written as a product of factors.
+type Poly = sym.Poly
+
+// Input is one input term of a model,
+//
+//	Num(B) / Den(B) * B^Delay * Diff(B) x_t
+//
+// with x the series named Series: Num is omega(B), Den is delta(B) with
+// constant term 1, Delay the dead time b in samples, Diff the differencing
+// applied to the input (empty for none).
+type Input struct {
+	Series string
+	Diff   Poly
+	Num    Poly
+	Den    Poly
+	Delay  int
+	Pos    Pos
+}
+
+// Interval is the sample interval of a model: Value in Unit, one of "s",
+// "min", "h", "d". The zero Interval means the interval is not given and
+// times are reported in samples only.
+type Interval struct {
+	Value float64
+	Unit  string
+}
+
+// Model is a whole transfer-function-noise model,
+//
+//	Diff(B) y_t = c + sum_i Num_i(B)/Den_i(B) B^b_i Diff_i(B) x_i,t + theta(B)/phi(B) a_t
+//
+// Output names y; Const is the constant c (nil for none); Noise is the
+// noise term (nil for a noise-free model, the zero arma.Noise for white
+// noise).
+type Model struct {
+	Output   string
+	Diff     Poly
+	Const    *Coef
+	Inputs   []Input
+	Noise    *arma.Noise
+	Interval Interval
+}
+
+// Clone returns a deep copy of m that shares nothing with it.
+func (m Model) Clone() Model {
+	c := Model{Output: m.Output, Diff: m.Diff.Clone(), Interval: m.Interval}
+	if m.Const != nil {
+		k := *m.Const
+		c.Const = &k
+	}
+	if m.Inputs != nil {
+		c.Inputs = make([]Input, len(m.Inputs))
+		for i, in := range m.Inputs {
+			c.Inputs[i] = Input{Series: in.Series, Diff: in.Diff.Clone(), Num: in.Num.Clone(),
+				Den: in.Den.Clone(), Delay: in.Delay, Pos: in.Pos}
+		}
+	}
+	if m.Noise != nil {
+		n := m.Noise.Clone()
+		c.Noise = &n
+	}
+	return c
+}
+
+// Equal reports whether m and o are the same model as written: names,
+// structure, coefficients (values exactly), freedom and interval,
+// ignoring positions in the spec text.
+func (m Model) Equal(o Model) bool {
+	if m.Output != o.Output || m.Interval != o.Interval || !m.Diff.Equal(o.Diff) ||
+		len(m.Inputs) != len(o.Inputs) || (m.Const == nil) != (o.Const == nil) ||
+		(m.Noise == nil) != (o.Noise == nil) {
+		return false
+	}
+	if m.Const != nil && !m.Const.Equal(*o.Const) {
+		return false
+	}
+	if m.Noise != nil && !m.Noise.Equal(*o.Noise) {
+		return false
+	}
+	for i, a := range m.Inputs {
+		b := o.Inputs[i]
+		if a.Series != b.Series || a.Delay != b.Delay || !a.Diff.Equal(b.Diff) ||
+			!a.Num.Equal(b.Num) || !a.Den.Equal(b.Den) {
+			return false
+		}
+	}
+	return true
+}
