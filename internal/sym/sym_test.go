@@ -1,0 +1,130 @@
+package sym
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"gonum.org/v1/gonum/floats"
+)
+
+func named(name string, v float64, neg bool, pow int) Term {
+	return Term{Neg: neg, Coef: Coef{Name: name, Value: v, Free: true}, Power: pow}
+}
+
+func fixed(v float64, neg bool, pow int) Term {
+	return Term{Neg: neg, Coef: Coef{Value: v}, Power: pow}
+}
+
+// (1 - p1 B)(1 - P1 B^12) expands to 1 - p1 B - P1 B^12 + p1 P1 B^13:
+// multiplication of polynomials (common practice).
+func TestCoeffsSeasonalProduct(t *testing.T) {
+	p := Poly{Factors: []Factor{
+		{Terms: []Term{fixed(1, false, 0), named("p1", 0.5, true, 1)}, Exp: 1},
+		{Terms: []Term{fixed(1, false, 0), named("P1", 0.3, true, 12)}, Exp: 1},
+	}}
+	want := make([]float64, 14)
+	want[0], want[1], want[12], want[13] = 1, -0.5, -0.3, 0.15
+	if got := p.Coeffs(); !floats.EqualApprox(got, want, 1e-15) {
+		t.Fatalf("Coeffs = %v, want %v", got, want)
+	}
+	if d := p.Degree(); d != 13 {
+		t.Fatalf("Degree = %d, want 13", d)
+	}
+}
+
+// (1 - B)^2 = 1 - 2B + B^2 (binomial theorem).
+func TestCoeffsPower(t *testing.T) {
+	p := Poly{Factors: []Factor{{Terms: []Term{fixed(1, false, 0), fixed(1, true, 1)}, Exp: 2}}}
+	if got, want := p.Coeffs(), []float64{1, -2, 1}; !floats.Equal(got, want) {
+		t.Fatalf("Coeffs = %v, want %v", got, want)
+	}
+}
+
+func TestFromCoeffsRoundTrip(t *testing.T) {
+	c := []float64{1, -0.25, 0, 1.5}
+	p := FromCoeffs(c)
+	if got := p.Coeffs(); !floats.Equal(got, c) {
+		t.Fatalf("Coeffs = %v, want %v", got, c)
+	}
+	if len(p.Factors[0].Terms) != 3 || !p.Factors[0].Terms[1].Neg {
+		t.Fatalf("FromCoeffs terms = %+v, want zero left out and a Neg term", p.Factors[0].Terms)
+	}
+	if q := FromCoeffs(nil); !q.IsOne() || len(q.Coeffs()) != 1 {
+		t.Fatalf("FromCoeffs(nil) = %+v, want the constant 1", q)
+	}
+}
+
+// Grad against central finite differences (common practice: step 1e-6,
+// error O(h^2) ~ 1e-12 times the third derivative, so 1e-7 absolute is
+// generous for coefficients of order one).
+func TestGradFiniteDifference(t *testing.T) {
+	rnd := rand.New(rand.NewPCG(3, 4))
+	names := []string{"a", "b", "c"}
+	idx := func(s string) int {
+		for i, n := range names {
+			if n == s {
+				return i
+			}
+		}
+		return -1
+	}
+	for trial := 0; trial < 50; trial++ {
+		var p Poly
+		nf := 1 + rnd.IntN(3)
+		for f := 0; f < nf; f++ {
+			fa := Factor{Exp: 1 + rnd.IntN(3), Terms: []Term{fixed(1, false, 0)}}
+			nt := 1 + rnd.IntN(3)
+			for k := 0; k < nt; k++ {
+				pow := 1 + rnd.IntN(4)
+				if rnd.IntN(4) == 0 {
+					fa.Terms = append(fa.Terms, fixed(rnd.Float64(), rnd.IntN(2) == 0, pow))
+				} else {
+					fa.Terms = append(fa.Terms, named(names[rnd.IntN(3)], rnd.Float64()-0.5, rnd.IntN(2) == 0, pow))
+				}
+			}
+			p.Factors = append(p.Factors, fa)
+		}
+		c, d := p.Grad(idx, len(names))
+		if !floats.Equal(c, p.Coeffs()) {
+			t.Fatalf("Grad coefficients differ from Coeffs")
+		}
+		for k, name := range names {
+			const h = 1e-6
+			up, dn := p.Clone(), p.Clone()
+			up.Each(func(c *Coef) {
+				if c.Name == name {
+					c.Value += h
+				}
+			})
+			dn.Each(func(c *Coef) {
+				if c.Name == name {
+					c.Value -= h
+				}
+			})
+			cu, cd := up.Coeffs(), dn.Coeffs()
+			for m := range c {
+				fd := (cu[m] - cd[m]) / (2 * h)
+				var g float64
+				if d[k] != nil {
+					g = d[k][m]
+				}
+				if math.Abs(fd-g) > 1e-7 {
+					t.Fatalf("trial %d: d coef[%d]/d %s = %v, finite difference %v", trial, m, name, g, fd)
+				}
+			}
+		}
+	}
+}
+
+func TestCloneIsDeep(t *testing.T) {
+	p := Poly{Factors: []Factor{{Terms: []Term{fixed(1, false, 0), named("a", 0.5, true, 1)}, Exp: 1}}}
+	q := p.Clone()
+	q.Each(func(c *Coef) { c.Value = 9 })
+	if p.Factors[0].Terms[1].Coef.Value != 0.5 {
+		t.Fatal("Clone shares terms with the original")
+	}
+	if p.Equal(q) || !p.Equal(p.Clone()) {
+		t.Fatal("Equal does not compare values")
+	}
+}
