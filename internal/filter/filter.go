@@ -3,68 +3,117 @@ package filter
 // Run writes into dst the output of the filter b(B)/a(B) applied to x,
 // with pre-sample x and y taken as zero:
 //
-//	y_t = (sum_{k=0..q} b_k x_{t-k} - sum_{k=1..p} a_k y_{t-k}) / a_0
+//	y_t = (sum_{k=0..q} b_k x_{t-k} - sum_{k=p..1} a_k y_{t-k}) / a_0
 //
-// dst and x must have the same length and may be the same slice. a must
-// be non-empty with a[0] != 0; Run panics otherwise (a programmer error:
-// callers validate polynomials before filtering).
+// The sums are formed in the order written (numerator terms by rising k,
+// then denominator terms by falling k), the same order Stream uses, so
+// that batch and streaming outputs agree to the last bit. dst and x must
+// have the same length and may be the same slice (but must not overlap
+// otherwise). b may be empty (output zero). a must be non-empty with
+// a[0] != 0; Run panics otherwise (a programmer error: callers validate
+// polynomials before filtering).
 func Run(dst, b, a, x []float64) {
+	RunInit(dst, b, a, x, nil, nil)
+}
+
+// RunInit is Run with initial conditions: xHist and yHist hold the input
+// and output values before x, oldest first, so that the last element of
+// each is the value at t = -1. Values older than the histories supply are
+// taken as zero; longer histories are fine (only the last len(b)-1 inputs
+// and len(a)-1 outputs are used). RunInit reads the histories and never
+// modifies them. Its panics are those of Run.
+func RunInit(dst, b, a, x, xHist, yHist []float64) {
 	if len(a) == 0 || a[0] == 0 {
 		panic("filter: a[0] must be non-zero")
 	}
 	if len(dst) != len(x) {
 		panic("filter: dst and x lengths differ")
 	}
-	n := len(x)
-	if n == 0 {
-		return
-	}
-	inv := 1 / a[0]
-	if inv != 1 || len(b) > 0 && &dst[0] == &x[0] {
-		// General path for a[0] != 1 or in-place filtering with a numerator:
-		// keep the input history in a small ring so x may alias dst.
-		runGeneral(dst, b, a, x)
+	if len(x) == 0 {
 		return
 	}
 	q, p := len(b)-1, len(a)-1
-	for t := 0; t < n; t++ {
-		s := 0.0
-		m := min(q, t)
-		for k := 0; k <= m; k++ {
-			s += b[k] * x[t-k]
+	if a[0] == 1 {
+		switch {
+		case q <= 1 && p <= 1:
+			var c [2]float64
+			var d [2]float64
+			copy(c[:], b)
+			copy(d[:], a)
+			run11(dst, x, c[0], c[1], d[1], hist(xHist, 1), hist(yHist, 1))
+			return
+		case q <= 2 && p <= 2:
+			var c [3]float64
+			var d [3]float64
+			copy(c[:], b)
+			copy(d[:], a)
+			run22(dst, x, c, d, hist(xHist, 1), hist(xHist, 2), hist(yHist, 1), hist(yHist, 2))
+			return
+		case q <= 4 && p <= 4:
+			var c [5]float64
+			var d [5]float64
+			copy(c[:], b)
+			copy(d[:], a)
+			var xh, yh [4]float64
+			for k := range xh {
+				xh[k] = hist(xHist, k+1)
+				yh[k] = hist(yHist, k+1)
+			}
+			run44(dst, x, &c, &d, xh, yh)
+			return
 		}
-		m = min(p, t)
-		for k := 1; k <= m; k++ {
-			s -= a[k] * dst[t-k]
-		}
-		dst[t] = s
+	}
+	s := NewStream(b, a, 0)
+	s.SetHistory(xHist, yHist)
+	s.run(dst, x)
+}
+
+// hist returns the value k steps before t = 0 from a history whose last
+// element is t = -1, or 0 when the history is shorter.
+func hist(h []float64, k int) float64 {
+	if k <= len(h) {
+		return h[len(h)-k]
+	}
+	return 0
+}
+
+// run11 is the kernel for q <= 1, p <= 1, a_0 = 1. x1 and y1 are x_{-1}
+// and y_{-1}. The previous input and output live in registers, which also
+// makes dst == x safe.
+func run11(dst, x []float64, b0, b1, a1, x1, y1 float64) {
+	x = x[:len(dst)]
+	for i, x0 := range x {
+		y := b0*x0 + b1*x1 - a1*y1
+		dst[i] = y
+		x1, y1 = x0, y
 	}
 }
 
-func runGeneral(dst, b, a, x []float64) {
-	q, p := len(b)-1, len(a)-1
-	inv := 1 / a[0]
-	// hist holds x_{t}, x_{t-1}, ..., x_{t-q} (q is small: model degree).
-	var small [65]float64
-	hist := small[:0]
-	if q+1 <= len(small) {
-		hist = small[:q+1]
-	} else {
-		hist = make([]float64, q+1)
+// run22 is the kernel for q <= 2, p <= 2, a_0 = 1 (zero-padded
+// coefficients add exact zeros and leave the sums unchanged).
+func run22(dst, x []float64, b, a [3]float64, x1, x2, y1, y2 float64) {
+	b0, b1, b2 := b[0], b[1], b[2]
+	a1, a2 := a[1], a[2]
+	x = x[:len(dst)]
+	for i, x0 := range x {
+		y := b0*x0 + b1*x1 + b2*x2 - a2*y2 - a1*y1
+		dst[i] = y
+		x2, x1 = x1, x0
+		y2, y1 = y1, y
 	}
-	for t := range x {
-		copy(hist[1:], hist[:len(hist)-1])
-		if len(hist) > 0 {
-			hist[0] = x[t]
-		}
-		s := 0.0
-		for k := 0; k <= q; k++ {
-			s += b[k] * hist[k]
-		}
-		m := min(p, t)
-		for k := 1; k <= m; k++ {
-			s -= a[k] * dst[t-k]
-		}
-		dst[t] = s * inv
+}
+
+// run44 is the kernel for q <= 4, p <= 4, a_0 = 1.
+func run44(dst, x []float64, b, a *[5]float64, xh, yh [4]float64) {
+	b0, b1, b2, b3, b4 := b[0], b[1], b[2], b[3], b[4]
+	a1, a2, a3, a4 := a[1], a[2], a[3], a[4]
+	x1, x2, x3, x4 := xh[0], xh[1], xh[2], xh[3]
+	y1, y2, y3, y4 := yh[0], yh[1], yh[2], yh[3]
+	x = x[:len(dst)]
+	for i, x0 := range x {
+		y := b0*x0 + b1*x1 + b2*x2 + b3*x3 + b4*x4 - a4*y4 - a3*y3 - a2*y2 - a1*y1
+		dst[i] = y
+		x4, x3, x2, x1 = x3, x2, x1, x0
+		y4, y3, y2, y1 = y3, y2, y1, y
 	}
 }

@@ -1,0 +1,64 @@
+// Package tf holds transfer-function models in the backshift operator B
+// (B x_t = x_{t-1}): rational terms omega(B)/delta(B) B^b, their responses,
+// poles, zeros, stability, gain and frequency response, composition,
+// step-response metrics, conversion from continuous-time process models,
+// streaming simulation, and the whole transfer-function-noise model with
+// its estimation, diagnostics and forecasts.
+//
+// # The rational term
+//
+// A Rational is
+//
+//	G(B) = omega(B) / delta(B) * B^b,   y_t = G(B) x_t,
+//
+// with omega(B) = omega_0 + omega_1 B + ... + omega_s B^s the numerator,
+// delta(B) = 1 + delta_1 B + ... + delta_r B^r the denominator and b >= 0
+// the dead time in whole samples. As a difference equation,
+//
+//	y_t = -delta_1 y_{t-1} - ... - delta_r y_{t-r} + omega_0 x_{t-b} + ... + omega_s x_{t-b-s}.
+//
+// # Conventions
+//
+// Polynomials are []float64 in ascending powers of B: index k holds the
+// coefficient of B^k. Signs are kept as written: the first-order
+// denominator (1 - 0.8 B) is {1, -0.8}, and a model written with a minus
+// sign in the numerator keeps that minus sign in the coefficient.
+//
+// Poles and zeros are reported in the z-plane, z = 1/B, as engineers read
+// them: a pole is a root z of z^r delta(1/z), so the term above has its
+// pole at z = 0.8. The term is stable when every pole lies strictly inside
+// the unit circle, equivalently when every root of delta(B) lies outside
+// it. A pole at z = 1 is an integrator (no steady-state gain); a zero
+// outside the unit circle gives an inverse response (non-minimum phase).
+//
+// Frequencies are in radians per sample, 0..pi; the frequency response is
+// G evaluated at B = e^{-i w}.
+//
+// # Causality
+//
+// Causality is structural: b >= 0 and delta_0 != 0, so y_t depends only on
+// inputs up to x_{t-b} and on past outputs. With b = 0 and omega_0 != 0 the
+// output responds within the same sample (direct feedthrough); a
+// closed-loop simulation that feeds y_t back into x_t then has an
+// algebraic loop, and should use a dead time of at least one sample or
+// act on y_{t-1} (see Plant).
+//
+// # Time units
+//
+// Dead time, rise time, settling time and time constants are in samples.
+// Where a sample interval T is given, they are also reported in its units.
+// Continuous-time models (first and second order plus dead time) are
+// converted under a zero-order hold, exactly, including dead time that is
+// not a whole number of samples (modified z-transform).
+//
+// # Cautions
+//
+// An identified model is an approximation, valid near the operating
+// conditions of the data it was fitted to: the range of the inputs, the
+// throughput, the season, the state of the equipment. Outside them its
+// gains, time constants and dead time may be wrong. A controller tuned on
+// such a model must be commissioned under the site's safety procedures,
+// with independent interlocks and trips that do not rely on the model, and
+// by people qualified to do so; defer to local codes and licensed
+// engineering practice. Nothing in this package is a safety function.
+package tf

@@ -1,0 +1,226 @@
+package tf
+
+import (
+	"math"
+
+	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/poly"
+)
+
+// MaxDegree is the largest degree accepted for the numerator omega(B) and
+// the denominator delta(B) of a Rational.
+const MaxDegree = 64
+
+// MaxDelay is the largest dead time, in samples, accepted by NewRational.
+const MaxDelay = 10000
+
+// Rational is the discrete transfer function
+//
+//	G(B) = omega(B) / delta(B) * B^b
+//
+// with omega the numerator, delta the denominator (constant term 1) and b
+// >= 0 the dead time in samples. Polynomials are in ascending powers of B:
+// index k holds the coefficient of B^k, with signs as written, so the
+// first-order term 0.5 B^2 / (1 - 0.8 B) has numerator {0.5}, denominator
+// {1, -0.8} and dead time 2. As a difference equation,
+//
+//	y_t = 0.8 y_{t-1} + 0.5 x_{t-2}.
+//
+// A Rational is an immutable value, safe for concurrent use; the zero
+// Rational is the zero transfer function (numerator {0}, denominator {1}).
+// Build one with NewRational.
+type Rational struct {
+	num   []float64
+	den   []float64
+	delay int
+}
+
+// NewRational returns the transfer function num(B)/den(B) * B^delay. The
+// slices are copied, never kept or modified. The result is normalised so
+// that den[0] = 1 (both polynomials divided by den[0]), and exact zero
+// coefficients at the high-power end are dropped (a numerator of zeros
+// becomes {0}).
+//
+// It returns a *CoefError for an empty polynomial, a denominator with a
+// zero constant term, a NaN or infinite coefficient, or a degree (after
+// dropping trailing zeros) above MaxDegree; and a *DelayError for a
+// delay outside 0..MaxDelay. On error the returned Rational is the zero
+// value.
+func NewRational(num, den []float64, delay int) (Rational, error) {
+	if err := ratCheckPoly("num", num); err != nil {
+		return Rational{}, err
+	}
+	if err := ratCheckPoly("den", den); err != nil {
+		return Rational{}, err
+	}
+	if den[0] == 0 {
+		return Rational{}, &CoefError{Poly: "den", Index: 0, Value: 0, Err: ErrZeroConstant}
+	}
+	if delay < 0 || delay > MaxDelay {
+		return Rational{}, &DelayError{Delay: delay}
+	}
+	n := ratTrim(num)
+	d := ratTrim(den)
+	if len(n)-1 > MaxDegree {
+		return Rational{}, &CoefError{Poly: "num", Index: len(n) - 1, Value: n[len(n)-1], Err: ErrDegree}
+	}
+	if len(d)-1 > MaxDegree {
+		return Rational{}, &CoefError{Poly: "den", Index: len(d) - 1, Value: d[len(d)-1], Err: ErrDegree}
+	}
+	if d0 := d[0]; d0 != 1 {
+		for k := range n {
+			n[k] /= d0
+		}
+		for k := range d {
+			d[k] /= d0
+		}
+		d[0] = 1
+		if err := ratCheckPoly("num", n); err != nil { // overflow by the scaling
+			return Rational{}, err
+		}
+		if err := ratCheckPoly("den", d); err != nil {
+			return Rational{}, err
+		}
+	}
+	return Rational{num: n, den: d, delay: delay}, nil
+}
+
+// MustRational is NewRational for fixed coefficients written in code; it
+// panics on error.
+func MustRational(num, den []float64, delay int) Rational {
+	r, err := NewRational(num, den, delay)
+	if err != nil {
+		panic(err)
+	}
+	return r
+}
+
+func ratCheckPoly(name string, c []float64) error {
+	if len(c) == 0 {
+		return &CoefError{Poly: name, Index: -1, Err: ErrEmpty}
+	}
+	for k, v := range c {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return &CoefError{Poly: name, Index: k, Value: v, Err: ErrNotFinite}
+		}
+	}
+	return nil
+}
+
+// ratTrim returns a copy of c without exact zeros at the high-power end,
+// keeping at least one coefficient.
+func ratTrim(c []float64) []float64 {
+	n := len(c)
+	for n > 1 && c[n-1] == 0 {
+		n--
+	}
+	return append([]float64(nil), c[:n]...)
+}
+
+// Num returns a copy of the numerator omega(B), ascending powers of B.
+func (r Rational) Num() []float64 {
+	if r.den == nil {
+		return []float64{0}
+	}
+	return append([]float64(nil), r.num...)
+}
+
+// Den returns a copy of the denominator delta(B), ascending powers of B,
+// with constant term 1.
+func (r Rational) Den() []float64 {
+	if r.den == nil {
+		return []float64{1}
+	}
+	return append([]float64(nil), r.den...)
+}
+
+// Delay returns the dead time b in samples.
+func (r Rational) Delay() int { return r.delay }
+
+// NumDegree returns the degree s of the numerator.
+func (r Rational) NumDegree() int { return max(len(r.num)-1, 0) }
+
+// DenDegree returns the degree r of the denominator.
+func (r Rational) DenDegree() int { return max(len(r.den)-1, 0) }
+
+// coefs returns the internal polynomials, mapping the zero value to 0/1.
+func (r Rational) coefs() (num, den []float64) {
+	if r.den == nil {
+		return []float64{0}, []float64{1}
+	}
+	return r.num, r.den
+}
+
+// Impulse returns the impulse response h_0..h_{n-1}, the output for the
+// input 1, 0, 0, ... from rest: h_k = 0 exactly for k < b, then the power
+// series of omega(B)/delta(B). It returns nil for n <= 0.
+func (r Rational) Impulse(n int) []float64 {
+	if n <= 0 {
+		return nil
+	}
+	num, den := r.coefs()
+	h := make([]float64, n)
+	if r.delay < n {
+		// den[0] = 1 by construction, so DivideTo cannot fail.
+		_ = poly.DivideTo(h[r.delay:], num, den)
+	}
+	return h
+}
+
+// Step returns the unit step response y_0..y_{n-1}, the output for the
+// input 1, 1, 1, ... from rest: zero for k < b. It is computed by the
+// difference equation itself (not by summing the impulse response), so
+// it has the rounding of Filter. It returns nil for n <= 0.
+func (r Rational) Step(n int) []float64 {
+	if n <= 0 {
+		return nil
+	}
+	x := make([]float64, n)
+	for i := range x {
+		x[i] = 1
+	}
+	r.filterTo(x, x)
+	return x
+}
+
+// Filter returns the output of the transfer function for the input series
+// x (index 0 oldest), with zero initial conditions: inputs and outputs
+// before index 0 are taken as zero. The output at t depends on inputs up
+// to t - b only. It returns a *SampleError (Series "input") for a NaN or
+// infinite sample, and nil output.
+func (r Rational) Filter(x []float64) ([]float64, error) {
+	if err := ratCheckSeries("input", x); err != nil {
+		return nil, err
+	}
+	y := make([]float64, len(x))
+	r.filterTo(y, x)
+	return y, nil
+}
+
+// filterTo writes the zero-state response to x into dst (same length,
+// may be the same slice).
+func (r Rational) filterTo(dst, x []float64) {
+	num, den := r.coefs()
+	n := len(x)
+	b := min(r.delay, n)
+	if b == 0 {
+		filter.Run(dst, num, den, x)
+		return
+	}
+	// Shift the input by the dead time: dst[b:] = G0 x[:n-b] where G0 is
+	// the rational part. Run works in place, so copy first.
+	copy(dst[b:], x[:n-b])
+	for i := 0; i < b; i++ {
+		dst[i] = 0
+	}
+	filter.Run(dst[b:], num, den, dst[b:])
+}
+
+func ratCheckSeries(name string, x []float64) error {
+	for i, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return &SampleError{Series: name, Index: i, Value: v}
+		}
+	}
+	return nil
+}
