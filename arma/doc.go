@@ -1,0 +1,34 @@
+// Package arma holds ARMA and ARIMA noise models: the model type with
+// multiplicative seasonal factors and differencing, stationarity and
+// invertibility checks, psi and pi weights, seeded simulation, sample
+// autocorrelation and partial autocorrelation, the Ljung-Box test, AR
+// fitting by Yule-Walker with the order chosen by AIC, Hannan-Rissanen
+// start values, conditional least-squares fitting, order selection and
+// forecasts with intervals.
+//
+// # Conventions
+//
+// Series are []float64 with index 0 the oldest sample. Polynomials are
+// []float64 in ascending powers of the backshift operator B with constant
+// term 1: {1, -0.5} is 1 - 0.5 B. The ARIMA model is
+//
+//	phi(B) Phi(B^s) (1-B)^d (1-B^s)^D (y_t - x_t'beta) = mu' + theta(B) Theta(B^s) a_t
+//
+// written in this package as phi(B) Phi(B^s) (w_t - mu) = theta(B) Theta(B^s) a_t
+// with w_t = (1-B)^d (1-B^s)^D (y_t - x_t'beta) the differenced series and mu
+// its mean. Coefficients follow the Box-Jenkins signs:
+//
+//	phi(B)   = 1 - phi_1 B - ... - phi_p B^p
+//	theta(B) = 1 - theta_1 B - ... - theta_q B^q
+//
+// so a positive theta_1 is a negative coefficient of B in theta(B). Some
+// statistics libraries write the moving-average polynomial as
+// 1 + theta_1 B; their theta_1 is minus ours.
+//
+// Roots are reported in the z-plane, z = 1/B: a model is stationary when
+// every root z of the AR polynomial lies strictly inside the unit circle
+// and invertible when every root of the MA polynomial does.
+//
+// Functions never modify their inputs, return typed errors (inspect them
+// with errors.As) for bad data and are safe for concurrent use.
+package arma

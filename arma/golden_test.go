@@ -1,0 +1,80 @@
+package arma
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// Reference files written by testdata/arma/make_golden.R (R 4.2.2, base
+// stats). JSON null (R's NA) decodes to NaN through jnum.
+
+type jnum float64
+
+func (j *jnum) UnmarshalJSON(b []byte) error {
+	if string(b) == "null" {
+		*j = jnum(math.NaN())
+		return nil
+	}
+	var f float64
+	if err := json.Unmarshal(b, &f); err != nil {
+		return err
+	}
+	*j = jnum(f)
+	return nil
+}
+
+func floats(v []jnum) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[i] = float64(x)
+	}
+	return out
+}
+
+func readJSON(t testing.TB, name string, v any) {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join("..", "testdata", "arma", name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(b, v); err != nil {
+		t.Fatalf("%s: %v", name, err)
+	}
+}
+
+// datasets returns the series exported from R's datasets package (lh,
+// LakeHuron, Nile, WWWusage) and the simulated "sim".
+func datasets(t testing.TB) map[string][]float64 {
+	var raw map[string][]jnum
+	readJSON(t, "datasets.json", &raw)
+	out := make(map[string][]float64, len(raw))
+	for k, v := range raw {
+		out[k] = floats(v)
+	}
+	return out
+}
+
+// close reports whether got agrees with want within rel relative to
+// max(|want|, floor).
+func closeTo(got, want, rel, floor float64) bool {
+	if math.IsNaN(got) || math.IsNaN(want) {
+		return math.IsNaN(got) && math.IsNaN(want)
+	}
+	return math.Abs(got-want) <= rel*math.Max(math.Abs(want), floor)
+}
+
+func checkSlice(t *testing.T, what string, got, want []float64, rel, floor float64) {
+	t.Helper()
+	if len(got) != len(want) {
+		t.Errorf("%s: length %d, want %d", what, len(got), len(want))
+		return
+	}
+	for i := range got {
+		if !closeTo(got[i], want[i], rel, floor) {
+			t.Errorf("%s[%d] = %.15g, want %.15g (rel tol %g)", what, i, got[i], want[i], rel)
+		}
+	}
+}

@@ -1,0 +1,90 @@
+package arma
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// HannanRissanen returns start values for an ARMA(p, q) model of w by the
+// Hannan-Rissanen two-step method:
+//
+//  1. fit a long autoregression of order longAR by Yule-Walker to w
+//     (centred by its sample mean) and take its residuals ehat_t;
+//  2. regress w_t on w_{t-1..t-p} and ehat_{t-1..t-q} by ordinary least
+//     squares over t = longAR+q .. n-1.
+//
+// longAR = 0 means max(p+q+1, min(floor(10 log10 n), n/4)). The result is
+// returned as stored polynomials phi(B) = {1, -phi_1, ..., -phi_p} and
+// theta(B) = {1, -theta_1, ..., -theta_q}; the regression coefficient of
+// ehat_{t-j} is -theta_j. Roots on or outside the unit circle are pulled
+// inside (to |z| = 0.95) so that the start is stationary and invertible,
+// as an optimiser needs; pure AR orders (q = 0) use the Yule-Walker fit of
+// order p directly.
+//
+// Errors: *ArgError for negative orders, *ShortError when n is too small
+// for the regression, and the errors of ACF for bad data.
+//
+// References: Hannan, E. J. and Rissanen, J. (1982). Recursive estimation
+// of mixed autoregressive-moving average order. Biometrika 69(1), 81-94.
+func HannanRissanen(w []float64, p, q, longAR int) (phi, theta []float64, err error) {
+	if p < 0 || q < 0 {
+		return nil, nil, &ArgError{Arg: "order", Msg: "p and q must not be negative"}
+	}
+	n := len(w)
+	if q == 0 {
+		f, err := YuleWalkerOrder(w, p)
+		if err != nil {
+			return nil, nil, err
+		}
+		return shrinkInside(f.Poly(), 0.95), []float64{1}, nil
+	}
+	if longAR == 0 {
+		longAR = max(p+q+1, min(int(math.Floor(10*math.Log10(float64(n)))), n/4))
+	}
+	first := longAR + q
+	rows := n - first
+	k := p + q
+	if rows < k+1 {
+		return nil, nil, &ShortError{N: n, Need: first + k + 1, What: "a Hannan-Rissanen start of an ARMA(" + itoa(p) + "," + itoa(q) + ")"}
+	}
+	long, err := YuleWalkerOrder(w, longAR)
+	if err != nil {
+		return nil, nil, err
+	}
+	e := long.Residuals(w)
+	m := long.Mean
+	a := mat.NewDense(rows, k, nil)
+	b := mat.NewVecDense(rows, nil)
+	for i := 0; i < rows; i++ {
+		t := first + i
+		b.SetVec(i, w[t]-m)
+		for j := 1; j <= p; j++ {
+			a.Set(i, j-1, w[t-j]-m)
+		}
+		for j := 1; j <= q; j++ {
+			a.Set(i, p+j-1, e[t-j])
+		}
+	}
+	var qr mat.QR
+	qr.Factorize(a)
+	var beta mat.VecDense
+	if err := qr.SolveVecTo(&beta, false, b); err != nil {
+		// Collinear regressors (for example an over-parameterised model
+		// of white noise): start from zero coefficients.
+		phi = make([]float64, p+1)
+		theta = make([]float64, q+1)
+		phi[0], theta[0] = 1, 1
+		return phi, theta, nil
+	}
+	phi = make([]float64, p+1)
+	theta = make([]float64, q+1)
+	phi[0], theta[0] = 1, 1
+	for j := 1; j <= p; j++ {
+		phi[j] = -beta.AtVec(j - 1)
+	}
+	for j := 1; j <= q; j++ {
+		theta[j] = beta.AtVec(p + j - 1)
+	}
+	return shrinkInside(phi, 0.95), shrinkInside(theta, 0.95), nil
+}

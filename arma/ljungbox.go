@@ -1,0 +1,53 @@
+package arma
+
+import (
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Portmanteau is the result of the Ljung-Box test.
+type Portmanteau struct {
+	// Q is the statistic n (n+2) sum_{k=1}^{Lags} r_k^2 / (n-k), with r_k
+	// the sample autocorrelations (divisor n, mean removed).
+	Q float64
+	// Lags is the number of autocorrelations summed.
+	Lags int
+	// DF = Lags - fitdf, the degrees of freedom of the reference
+	// chi-squared distribution.
+	DF int
+	// P is the upper-tail probability of Q under chi-squared(DF)
+	// (gonum distuv.ChiSquared).
+	P float64
+}
+
+// LjungBox tests whether resid is white noise up to lag lags. fitdf is
+// the number of fitted ARMA coefficients, subtracted from lags for the
+// degrees of freedom (0 for a raw series; p+q for ARMA residuals).
+//
+// Fit residuals start with NaN over the conditioning samples: pass
+// res.Resid[res.Start:]. NaN or infinite values give a *DataError; lags
+// < 1 or lags <= fitdf an *ArgError; lags >= len(resid) a *ShortError;
+// a constant series a *ConstantError.
+//
+// References: Ljung, G. M. and Box, G. E. P. (1978). On a measure of lack
+// of fit in time series models. Biometrika 65(2), 297-303.
+func LjungBox(resid []float64, lags, fitdf int) (Portmanteau, error) {
+	if lags < 1 {
+		return Portmanteau{}, &ArgError{Arg: "lags", Msg: "must be at least 1"}
+	}
+	if fitdf < 0 || fitdf >= lags {
+		return Portmanteau{}, &ArgError{Arg: "fitdf", Msg: "must be in 0..lags-1"}
+	}
+	c, err := ACF(resid, lags)
+	if err != nil {
+		return Portmanteau{}, err
+	}
+	n := float64(c.N)
+	q := 0.0
+	for k := 1; k <= lags; k++ {
+		q += c.R[k] * c.R[k] / (n - float64(k))
+	}
+	q *= n * (n + 2)
+	df := lags - fitdf
+	p := distuv.ChiSquared{K: float64(df)}.Survival(q)
+	return Portmanteau{Q: q, Lags: lags, DF: df, P: p}, nil
+}

@@ -1,0 +1,99 @@
+package arma
+
+import (
+	"math"
+	"math/cmplx"
+
+	"github.com/backshift/backshift/internal/poly"
+)
+
+// Psi returns the first n psi weights of the ARMA model ar(B) w_t =
+// ma(B) a_t, the coefficients of the power series ma(B)/ar(B):
+//
+//	w_t = sum_{j>=0} psi_j a_{t-j},  psi_0 = ma[0]/ar[0] (1 for monic polynomials)
+//
+// ar and ma are polynomials as stored (ascending powers of B, signs
+// included: ar = {1, -0.5} for 1 - 0.5 B); an empty ma is the constant 1.
+// Multiply seasonal factors first (Model.ARPoly does). For an ARIMA model
+// pass ar(B) times the differencing polynomial. It returns an *ArgError
+// when ar is empty or ar[0] is zero, or n < 0.
+func Psi(ar, ma []float64, n int) ([]float64, error) {
+	return weights(ar, ma, n, "ar")
+}
+
+// Pi returns the first n pi weights, the coefficients of ar(B)/ma(B), so
+// that a_t = sum_{j>=0} pi_j w_{t-j}. (Some texts define pi_j with the
+// opposite sign for j >= 1; here they are the plain series coefficients.)
+// It returns an *ArgError when ma is empty or ma[0] is zero, or n < 0.
+func Pi(ar, ma []float64, n int) ([]float64, error) {
+	return weights(ma, ar, n, "ma")
+}
+
+func weights(den, num []float64, n int, which string) ([]float64, error) {
+	if n < 0 {
+		return nil, &ArgError{Arg: "n", Msg: "must not be negative"}
+	}
+	if len(den) == 0 || den[0] == 0 {
+		return nil, &ArgError{Arg: which, Msg: "constant term must be non-zero"}
+	}
+	if len(num) == 0 {
+		num = []float64{1}
+	}
+	for _, v := range append(append([]float64(nil), den...), num...) {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, &ArgError{Arg: which, Msg: "coefficients must be finite"}
+		}
+	}
+	return poly.Divide(num, den, n)
+}
+
+// zRoots returns the z-plane roots (z = 1/B) of a polynomial in B with a
+// non-zero constant term: the roots of its reciprocal.
+func zRoots(a []float64) ([]complex128, error) {
+	d := poly.Degree(a)
+	if d <= 0 {
+		return nil, nil
+	}
+	return poly.Roots(poly.Reciprocal(a[:d+1]))
+}
+
+// outside returns the z-plane roots of a with |z| >= 1 - tol (on or
+// outside the unit circle), nil when all are strictly inside, and an
+// error when the root finder fails.
+func outside(a []float64, tol float64) ([]complex128, error) {
+	zs, err := zRoots(a)
+	if err != nil {
+		return nil, err
+	}
+	var bad []complex128
+	for _, z := range zs {
+		if cmplx.Abs(z) >= 1-tol {
+			bad = append(bad, z)
+		}
+	}
+	return bad, nil
+}
+
+// shrinkInside scales the coefficients c_k of a (constant 1) by r^k,
+// which scales every z-plane root by r, until all roots have |z| <= lim.
+// It returns a new slice.
+func shrinkInside(a []float64, lim float64) []float64 {
+	zs, err := zRoots(a)
+	if err != nil {
+		out := make([]float64, len(a))
+		out[0] = 1
+		return out
+	}
+	m := poly.MaxAbsRoot(zs)
+	out := append([]float64(nil), a...)
+	if m <= lim {
+		return out
+	}
+	r := lim / m
+	s := 1.0
+	for k := 1; k < len(out); k++ {
+		s *= r
+		out[k] *= s
+	}
+	return out
+}

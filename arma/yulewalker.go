@@ -1,0 +1,128 @@
+package arma
+
+import (
+	"math"
+	"strconv"
+)
+
+// ARFit is an autoregression fitted by the Yule-Walker equations,
+//
+//	x_t - Mean = sum_{k=1}^{Order} Phi[k-1] (x_{t-k} - Mean) + e_t,  var(e_t) = Var.
+type ARFit struct {
+	// Order is the chosen order p (0 for white noise around the mean).
+	Order int
+	// Phi holds phi_1..phi_p (Box-Jenkins signs: phi(B) = 1 - sum phi_k B^k).
+	Phi []float64
+	// Var is the innovation variance estimate
+	//
+	//	c_0 prod_{k=1}^{p} (1 - pacf_k^2) * n / (n - (p+1))
+	//
+	// that is the Durbin-Levinson prediction-error variance with a
+	// small-sample correction for the p coefficients and the mean. This is
+	// the convention of R's stats::ar(method = "yule-walker") var.pred.
+	Var float64
+	// Mean is the sample mean removed before fitting.
+	Mean float64
+	// AIC[k] = n log(v_k) + 2k for k = 0..MaxOrder, v_k the uncorrected
+	// prediction-error variance of order k. The chosen Order minimises it
+	// (the lowest order on ties). Nil for YuleWalkerOrder.
+	AIC []float64
+	// PACF holds the partial autocorrelations at lags 1..MaxOrder (or
+	// 1..Order for YuleWalkerOrder).
+	PACF []float64
+	// N is the number of samples.
+	N int
+}
+
+// Poly returns phi(B) = {1, -phi_1, ..., -phi_p}.
+func (f ARFit) Poly() []float64 {
+	c := make([]float64, f.Order+1)
+	c[0] = 1
+	for k, v := range f.Phi {
+		c[k+1] = -v
+	}
+	return c
+}
+
+// Residuals returns e_t = phi(B)(x_t - Mean) for a series x (the fitted
+// one or another, as when prewhitening an output with an input's filter).
+// The first Order values, which need samples before the start, are NaN.
+// x is not modified; NaN in x propagates.
+func (f ARFit) Residuals(x []float64) []float64 {
+	e := make([]float64, len(x))
+	for t := range x {
+		if t < f.Order {
+			e[t] = math.NaN()
+			continue
+		}
+		s := x[t] - f.Mean
+		for k, v := range f.Phi {
+			s -= v * (x[t-k-1] - f.Mean)
+		}
+		e[t] = s
+	}
+	return e
+}
+
+// YuleWalker fits autoregressions of orders 0..maxOrder to x by the
+// Yule-Walker equations (sample autocovariances with divisor n, mean
+// removed, solved by Durbin-Levinson) and keeps the order with the
+// smallest AIC = n log(v_k) + 2k. maxOrder = 0 means
+// min(n-1, floor(10 log10 n)). The results agree with R's
+// stats::ar(x, aic = TRUE, order.max = maxOrder, method = "yule-walker").
+//
+// Errors: *ArgError for maxOrder < 0, *ShortError when maxOrder >= n,
+// *DataError for NaN/Inf samples, *ConstantError for a constant series.
+func YuleWalker(x []float64, maxOrder int) (ARFit, error) {
+	n := len(x)
+	if maxOrder < 0 {
+		return ARFit{}, &ArgError{Arg: "maxOrder", Msg: "must not be negative"}
+	}
+	if maxOrder == 0 {
+		maxOrder = min(n-1, int(math.Floor(10*math.Log10(float64(n)))))
+		if maxOrder < 1 {
+			return ARFit{}, &ShortError{N: n, Need: 2, What: "a Yule-Walker fit"}
+		}
+	}
+	return ywFit(x, maxOrder, -1)
+}
+
+// YuleWalkerOrder fits an autoregression of the given order (>= 0) to x
+// by the Yule-Walker equations, with the conventions of YuleWalker but no
+// order search.
+func YuleWalkerOrder(x []float64, order int) (ARFit, error) {
+	if order < 0 {
+		return ARFit{}, &ArgError{Arg: "order", Msg: "must not be negative"}
+	}
+	return ywFit(x, order, order)
+}
+
+func ywFit(x []float64, maxOrder, fixed int) (ARFit, error) {
+	n := len(x)
+	if maxOrder >= n {
+		return ARFit{}, &ShortError{N: n, Need: maxOrder + 1, What: "an autoregression of order " + strconv.Itoa(maxOrder)}
+	}
+	c, err := ACF(x, maxOrder)
+	if err != nil {
+		return ARFit{}, err
+	}
+	pa, v := durbinLevinson(c.Cov, maxOrder)
+	f := ARFit{Mean: c.Mean, N: n, PACF: pa}
+	order := fixed
+	if fixed < 0 {
+		f.AIC = make([]float64, maxOrder+1)
+		order = 0
+		for k := range f.AIC {
+			f.AIC[k] = float64(n)*math.Log(v[k]) + 2*float64(k)
+			if f.AIC[k] < f.AIC[order] {
+				order = k
+			}
+		}
+	}
+	f.Order = order
+	if order > 0 {
+		_, _, f.Phi = levinson(c.Cov, order, order)
+	}
+	f.Var = v[order] * float64(n) / float64(n-(order+1))
+	return f, nil
+}

@@ -1,0 +1,164 @@
+# make_golden.R: reference values for package arma from R's base stats.
+#
+# Run from the repository root:   Rscript testdata/arma/make_golden.R
+# (R 4.2.2, Debian r-base-core; base packages stats and datasets only.)
+#
+# Writes into testdata/arma/:
+#   datasets.json   the series lh, LakeHuron, Nile, WWWusage exactly as shipped in R's
+#                   "datasets" package (documented sources: lh, Diggle 1990; LakeHuron,
+#                   Brockwell & Davis 1991; Nile, Cobb 1978 / Balke 1993; WWWusage,
+#                   Durbin & Koopman 2001), and one simulated ARMA(2,1) series "sim"
+#                   (arima.sim with set.seed(20261201)).
+#   corr.json       stats::acf, stats::pacf, stats::Box.test(type = "Ljung-Box") values.
+#   ar.json         stats::ar(method = "yule-walker", aic = TRUE) fits.
+#   css.json        stats::arima(method = "CSS") fits rerun with a tight optimiser
+#                   tolerance, a Gauss-Newton polish of the same CSS objective, Gauss-Newton
+#                   standard errors sigma^2 (J'J)^-1 with J by central differences of the CSS
+#                   residuals, and stats::predict forecasts with standard errors.
+#
+# R's CSS conventions (stats::arima): the MA polynomial is 1 + ma1 B + ...; the series
+# (minus xreg %*% beta, the intercept being one xreg column when include.mean) is
+# differenced, residuals are computed from index ncond = d + D s + p + P s (0-based) with
+# pre-sample innovations zero; sigma2 = SSQ / (n - ncond). Its standard errors come from a
+# numerical Hessian of 0.5 log(SSQ/nu) scaled by n.used = n - d - D s; predict() runs a
+# Kalman filter over the data with the fitted coefficients.
+
+num <- function(x) {
+  x <- as.numeric(x)
+  s <- ifelse(is.na(x), "null", sprintf("%.17g", x))
+  paste0("[", paste(s, collapse = ","), "]")
+}
+obj <- function(...) {
+  a <- list(...)
+  paste0("{", paste(sprintf("\"%s\":%s", names(a), unlist(a)), collapse = ","), "}")
+}
+str <- function(s) sprintf("\"%s\"", s)
+out <- function(file, txt) writeLines(txt, file.path("testdata", "arma", file))
+
+set.seed(20261201)
+sim <- as.numeric(arima.sim(list(ar = c(0.6, -0.3), ma = 0.4), n = 400)) + 10
+series <- list(lh = as.numeric(lh), LakeHuron = as.numeric(LakeHuron),
+               Nile = as.numeric(Nile), WWWusage = as.numeric(WWWusage), sim = sim)
+out("datasets.json", paste0("{", paste(sprintf("\"%s\":%s", names(series),
+    sapply(series, num)), collapse = ","), "}"))
+
+# ---- correlation functions and Ljung-Box -------------------------------------------
+corr <- c()
+for (nm in names(series)) {
+  x <- series[[nm]]
+  L <- 20
+  a <- acf(x, lag.max = L, plot = FALSE, demean = TRUE)$acf[, 1, 1]
+  cv <- acf(x, lag.max = L, type = "covariance", plot = FALSE, demean = TRUE)$acf[, 1, 1]
+  p <- pacf(x, lag.max = L, plot = FALSE)$acf[, 1, 1]
+  b0 <- Box.test(x, lag = 10, type = "Ljung-Box", fitdf = 0)
+  b2 <- Box.test(x, lag = 15, type = "Ljung-Box", fitdf = 2)
+  corr <- c(corr, sprintf("\"%s\":%s", nm, obj(lag_max = L, acf = num(a), acov = num(cv),
+    pacf = num(p),
+    box = paste0("[", obj(lag = 10, fitdf = 0, q = num(b0$statistic), df = num(b0$parameter),
+                          p = num(b0$p.value)), ",",
+                      obj(lag = 15, fitdf = 2, q = num(b2$statistic), df = num(b2$parameter),
+                          p = num(b2$p.value)), "]"))))
+}
+out("corr.json", paste0("{", paste(corr, collapse = ","), "}"))
+
+# ---- Yule-Walker AR with AIC order choice ------------------------------------------
+ars <- c()
+for (nm in names(series)) {
+  for (om in c(0, 10)) {
+    x <- series[[nm]]
+    f <- if (om == 0) ar(x, method = "yule-walker", aic = TRUE) else
+      ar(x, method = "yule-walker", aic = TRUE, order.max = om)
+    ars <- c(ars, obj(series = str(nm), order_max_arg = om, order_max = f$order.max,
+      order = f$order, ar = num(f$ar), var_pred = num(f$var.pred), x_mean = num(f$x.mean),
+      aic = num(f$aic), partialacf = num(f$partialacf), resid = num(f$resid)))
+  }
+}
+out("ar.json", paste0("[", paste(ars, collapse = ","), "]"))
+
+# ---- CSS fits ----------------------------------------------------------------------
+# Plain-R CSS residuals, written from the definition above (checked below against
+# residuals() of the arima fit).
+css_resid <- function(par, x, p, d, q, xreg) {
+  n <- length(x)
+  if (!is.null(xreg)) x <- x - drop(xreg %*% par[p + q + seq_len(ncol(xreg))])
+  w <- x
+  if (d > 0) for (i in seq_len(d)) w <- c(NA, diff(w))
+  phi <- par[seq_len(p)]; theta <- par[p + seq_len(q)]
+  ncond <- d + p
+  e <- numeric(n)
+  for (l in (ncond + 1):n) {
+    tmp <- w[l]
+    if (p > 0) for (j in 1:p) tmp <- tmp - phi[j] * w[l - j]
+    if (q > 0) for (j in seq_len(min(l - ncond - 1, q))) tmp <- tmp - theta[j] * e[l - j]
+    e[l] <- tmp
+  }
+  e[(ncond + 1):n]
+}
+fd_jac <- function(par, ...) {
+  h <- 1e-6 * pmax(abs(par), 1e-2)
+  J <- sapply(seq_along(par), function(k) {
+    up <- par; dn <- par; up[k] <- up[k] + h[k]; dn[k] <- dn[k] - h[k]
+    (css_resid(up, ...) - css_resid(dn, ...)) / (2 * h[k])
+  })
+  J
+}
+cases <- list(
+  list(name = "lh_100", series = "lh", order = c(1, 0, 0), xreg = "mean", h = 12),
+  list(name = "LakeHuron_200_trend", series = "LakeHuron", order = c(2, 0, 0), xreg = "trend", h = 10),
+  list(name = "Nile_101", series = "Nile", order = c(1, 0, 1), xreg = "mean", h = 10),
+  list(name = "WWWusage_111", series = "WWWusage", order = c(1, 1, 1), xreg = "none", h = 10)
+)
+fits <- c()
+for (cs in cases) {
+  x <- series[[cs$series]]
+  n <- length(x); p <- cs$order[1]; d <- cs$order[2]; q <- cs$order[3]
+  ctl <- list(reltol = 1e-14, maxit = 10000)
+  if (cs$xreg == "trend") {
+    tt <- seq_len(n)
+    fit <- arima(x, order = cs$order, xreg = tt, method = "CSS", optim.control = ctl)
+    fit0 <- arima(x, order = cs$order, xreg = tt, method = "CSS")
+    X <- cbind(1, tt)
+    pr <- predict(fit, n.ahead = cs$h, newxreg = n + seq_len(cs$h))
+  } else {
+    im <- cs$xreg == "mean"
+    fit <- arima(x, order = cs$order, include.mean = im, method = "CSS", optim.control = ctl)
+    fit0 <- arima(x, order = cs$order, include.mean = im, method = "CSS")
+    X <- if (im) matrix(1, n, 1) else NULL
+    pr <- predict(fit, n.ahead = cs$h)
+  }
+  par <- as.numeric(coef(fit))
+  ncond <- d + p
+  e <- css_resid(par, x, p, d, q, X)
+  rres <- as.numeric(residuals(fit))[(ncond + 1):n]
+  stopifnot(max(abs(e - rres)) < 1e-8 * max(abs(rres)))
+  ssq_r <- sum(e^2)
+  # Gauss-Newton polish of the same objective (finite-difference Jacobian).
+  gp <- par
+  for (it in 1:50) {
+    J <- fd_jac(gp, x, p, d, q, X)
+    r <- css_resid(gp, x, p, d, q, X)
+    step <- -qr.solve(J, r)
+    trial <- gp + step
+    if (sum(css_resid(trial, x, p, d, q, X)^2) > sum(r^2)) break
+    gp <- trial
+    if (max(abs(step) / pmax(abs(gp), 1e-8)) < 1e-13) break
+  }
+  eg <- css_resid(gp, x, p, d, q, X)
+  ssq_gn <- sum(eg^2)
+  J <- fd_jac(gp, x, p, d, q, X)
+  nu <- n - ncond
+  s2 <- ssq_gn / nu
+  cov_gn <- s2 * solve(crossprod(J))
+  fits <- c(fits, obj(name = str(cs$name), series = str(cs$series), p = p, d = d, q = q,
+    xreg = str(cs$xreg), coef_names = paste0("[", paste(str(names(coef(fit))), collapse = ","), "]"),
+    coef_tight = num(par), ssq_tight = num(ssq_r), sigma2_tight = num(fit$sigma2),
+    coef_default = num(coef(fit0)), ssq_default = num(sum(css_resid(as.numeric(coef(fit0)), x, p, d, q, X)^2)),
+    se_r = num(sqrt(diag(fit$var.coef))), loglik_r = num(fit$loglik),
+    coef_gn = num(gp), ssq_gn = num(ssq_gn), sigma2_gn = num(s2), se_gn = num(sqrt(diag(cov_gn))),
+    ncond = ncond, nu = nu, resid_tight = num(rres),
+    h = cs$h, pred = num(pr$pred), pred_se = num(pr$se),
+    box10 = num(Box.test(rres, lag = 10, type = "Ljung-Box", fitdf = p + q)$statistic),
+    box10_p = num(Box.test(rres, lag = 10, type = "Ljung-Box", fitdf = p + q)$p.value)))
+}
+out("css.json", paste0("[", paste(fits, collapse = ","), "]"))
+cat("wrote testdata/arma/{datasets,corr,ar,css}.json\n")
