@@ -1,0 +1,290 @@
+package greenhouse
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"math/rand/v2"
+	"strconv"
+)
+
+// Path is one first-order input path of the true model,
+//
+//	Omega B^Delay / (1 - Delta B) x_t
+//
+// with x the series named Series, in Unit; Delay is the dead time in
+// samples (minutes).
+type Path struct {
+	Series string
+	Unit   string
+	Omega  float64
+	Delta  float64
+	Delay  int
+}
+
+// Gain returns the steady-state gain Omega/(1 - Delta) in degC per unit
+// of the input.
+func (p Path) Gain() float64 { return p.Omega / (1 - p.Delta) }
+
+// TimeConstant returns the time constant of the path in minutes,
+// -1/ln(Delta) (the continuous first-order lag whose samples decay by
+// Delta each minute).
+func (p Path) TimeConstant() float64 { return -1 / math.Log(p.Delta) }
+
+// Truth holds the numbers of the model that generates the data:
+//
+//	temp_t = Const + Valve path + Outdoor path + (1 + Theta B)/(1 - Phi B) a_t
+//
+// with a_t white Gaussian noise of standard deviation Sigma (degC).
+type Truth struct {
+	Const   float64
+	Valve   Path
+	Outdoor Path
+	Theta   float64
+	Phi     float64
+	Sigma   float64
+}
+
+// True is the model that generates the demo data: the valve acts after
+// 3 min with gain 0.2 degC/% and a time constant of about 19.5 min; the
+// outdoor temperature after 1 min with gain 0.5 and a time constant of
+// about 9.5 min; the disturbance is ARMA(1,1) noise.
+var True = Truth{
+	Const:   6,
+	Valve:   Path{Series: "valve", Unit: "%", Omega: 0.01, Delta: 0.95, Delay: 3},
+	Outdoor: Path{Series: "outdoor", Unit: "degC", Omega: 0.05, Delta: 0.9, Delay: 1},
+	Theta:   0.3,
+	Phi:     0.8,
+	Sigma:   0.03,
+}
+
+// TrueSpec is [True] written in the spec language, with every
+// coefficient fixed.
+const TrueSpec = "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + 0.05 / (1 - 0.9 B) B outdoor + (1 + 0.3 B) / (1 - 0.8 B) a"
+
+// Interval is the sample interval of the data in minutes.
+const Interval = 1.0
+
+// Names of the series (and of the CSV columns that hold them).
+const (
+	Output   = "temp"
+	Valve    = "valve"
+	Outdoor  = "outdoor"
+	Setpoint = "setpoint"
+	Minute   = "minute"
+)
+
+// Settings chooses what Generate produces. The zero value gives the
+// default demo: 4 days (5760 samples) from seed 7.
+type Settings struct {
+	// Days is the length of the record in days (1440 samples a day);
+	// 0 means 4.
+	Days int
+	// Seed seeds the weather, the test signal and the noise; 0 means 7.
+	Seed uint64
+	// DitherAmplitude is the amplitude of the test signal in % valve
+	// opening; 0 means 5, a negative value switches it off.
+	DitherAmplitude float64
+}
+
+// Controller tuning used while the data were logged: a PI controller in
+// velocity form, gain Kc in % per degC, integral time Ti in minutes,
+// acting on the measurement of the previous minute.
+const (
+	Kc = 3.0
+	Ti = 30.0
+)
+
+// Data is one generated record. All series have the same length; index
+// t is minute t from the start (midnight of the first day).
+type Data struct {
+	Minute   []float64 // minutes from the start
+	Setpoint []float64 // degC
+	Valve    []float64 // % opening, 0..100
+	Outdoor  []float64 // degC
+	Temp     []float64 // degC, the output
+}
+
+// Len returns the number of samples.
+func (d Data) Len() int { return len(d.Temp) }
+
+// Series returns the named series (one of Output, Valve, Outdoor,
+// Setpoint, Minute) and whether the name is known. The slice is the
+// record's own: copy it before changing it.
+func (d Data) Series(name string) ([]float64, bool) {
+	switch name {
+	case Output:
+		return d.Temp, true
+	case Valve:
+		return d.Valve, true
+	case Outdoor:
+		return d.Outdoor, true
+	case Setpoint:
+		return d.Setpoint, true
+	case Minute:
+		return d.Minute, true
+	}
+	return nil, false
+}
+
+// Default returns the default demo record (Generate with zero Settings).
+func Default() Data { return Generate(Settings{}) }
+
+// warmup is the number of minutes simulated before the record starts, so
+// that the record begins in a settled operating state.
+const warmup = 720
+
+// Generate simulates the greenhouse under its controller. It is
+// deterministic given the settings.
+func Generate(s Settings) Data {
+	days := s.Days
+	if days <= 0 {
+		days = 4
+	}
+	seed := s.Seed
+	if seed == 0 {
+		seed = 7
+	}
+	amp := s.DitherAmplitude
+	if amp == 0 {
+		amp = 10
+	} else if amp < 0 {
+		amp = 0
+	}
+	n := days * 1440
+	total := n + warmup
+	rng := rand.New(rand.NewPCG(seed, 0x6772656e))
+	tr := True
+
+	d := Data{
+		Minute:   make([]float64, n),
+		Setpoint: make([]float64, n),
+		Valve:    make([]float64, n),
+		Outdoor:  make([]float64, n),
+		Temp:     make([]float64, n),
+	}
+
+	// Weather: a slow front component (AR(1), time scale about 1.4 days),
+	// fast gusts and sun/cloud changes (AR(1), time scale about 5 min).
+	front := 0.0
+	gust := 0.0
+	// Plant states: the two first-order lags and the ARMA noise.
+	xv, xo := 0.0, 0.0
+	noise, aPrev := 0.0, 0.0
+	// Histories for the dead times.
+	uHist := make([]float64, tr.Valve.Delay+1)
+	oHist := make([]float64, tr.Outdoor.Delay+1)
+	// Controller state.
+	pi := 60.0 // PI part of the valve opening, %
+	ePrev := 0.0
+	yPrev := 18.0
+	lfsr := uint16(0x5a)
+	bit := 1.0
+
+	// Start the lags at the steady state of the first minute's inputs.
+	o0 := outdoorBase(-warmup)
+	xo = tr.Outdoor.Gain() * o0
+	xv = tr.Valve.Gain() * pi
+	for i := range uHist {
+		uHist[i] = pi
+	}
+	for i := range oHist {
+		oHist[i] = o0
+	}
+	yPrev = tr.Const + xv + xo
+
+	for k := 0; k < total; k++ {
+		m := k - warmup // minute from the start of the record
+		sp := setpoint(m)
+
+		// Outdoor temperature.
+		front = 0.9995*front + 0.06*rng.NormFloat64()
+		gust = 0.8*gust + 0.25*rng.NormFloat64()
+		out := outdoorBase(m) + front + gust
+
+		// Controller: velocity-form PI on last minute's measurement.
+		e := sp - yPrev
+		pi += Kc * (e - ePrev + e/Ti)
+		pi = clamp(pi, 0, 100)
+		ePrev = e
+		// Test signal: 7-bit maximum-length shift register, clocked
+		// every 2 minutes.
+		if amp > 0 && m%1 == 0 {
+			fb := (lfsr>>6 ^ lfsr>>5) & 1
+			lfsr = (lfsr<<1 | fb) & 0x7f
+			bit = float64(lfsr&1)*2 - 1
+		}
+		u := clamp(pi+amp*bit, 0, 100)
+
+		// Plant.
+		copy(uHist[1:], uHist[:len(uHist)-1])
+		uHist[0] = u
+		copy(oHist[1:], oHist[:len(oHist)-1])
+		oHist[0] = out
+		xv = tr.Valve.Delta*xv + tr.Valve.Omega*uHist[tr.Valve.Delay]
+		xo = tr.Outdoor.Delta*xo + tr.Outdoor.Omega*oHist[tr.Outdoor.Delay]
+		a := tr.Sigma * rng.NormFloat64()
+		noise = tr.Phi*noise + a + tr.Theta*aPrev
+		aPrev = a
+		y := tr.Const + xv + xo + noise
+		yPrev = y
+
+		if m >= 0 {
+			d.Minute[m] = float64(m)
+			d.Setpoint[m] = sp
+			d.Valve[m] = u
+			d.Outdoor[m] = out
+			d.Temp[m] = y
+		}
+	}
+	return d
+}
+
+// setpoint returns the air temperature setpoint at minute m: 16 degC at
+// night, a day value from 06:00 to 20:00 that differs from day to day.
+func setpoint(m int) float64 {
+	if m < 0 {
+		return 16
+	}
+	day := m / 1440
+	h := float64(m%1440) / 60
+	if h >= 6 && h < 20 {
+		return [...]float64{20, 21, 19, 20.5}[day%4]
+	}
+	return 16
+}
+
+// outdoorBase returns the deterministic part of the outdoor temperature
+// at minute m: a daily cycle of +-5 degC around 4 degC with its maximum at
+// 15:00, and a cold front that lowers it by 5 degC over three hours from
+// 18:00 on the second day.
+func outdoorBase(m int) float64 {
+	t := float64(m)
+	cycle := 4 + 5*math.Cos(2*math.Pi*(t/1440-15.0/24))
+	front := -5 / (1 + math.Exp(-(t-(1440+18*60+90))/30))
+	return cycle + front
+}
+
+func clamp(v, lo, hi float64) float64 { return math.Min(math.Max(v, lo), hi) }
+
+// WriteCSV writes the record as CSV with a header line: minute,
+// setpoint, valve, outdoor, temp (units: min, degC, %, degC, degC).
+func (d Data) WriteCSV(w io.Writer) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "%s,%s,%s,%s,%s\n", Minute, Setpoint, Valve, Outdoor, Output)
+	var buf []byte
+	for t := range d.Temp {
+		buf = buf[:0]
+		buf = strconv.AppendFloat(buf, d.Minute[t], 'f', -1, 64)
+		for _, v := range [...]float64{d.Setpoint[t], d.Valve[t], d.Outdoor[t], d.Temp[t]} {
+			buf = append(buf, ',')
+			buf = strconv.AppendFloat(buf, v, 'f', 4, 64)
+		}
+		buf = append(buf, '\n')
+		if _, err := bw.Write(buf); err != nil {
+			return err
+		}
+	}
+	return bw.Flush()
+}
