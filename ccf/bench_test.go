@@ -1,0 +1,66 @@
+package ccf
+
+import (
+	"math/rand/v2"
+	"strconv"
+	"testing"
+)
+
+func benchSeries(n int) (x, y []float64) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	x = make([]float64, n)
+	y = make([]float64, n)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		y[i] = rng.NormFloat64()
+		if i > 0 {
+			x[i] += 0.5 * x[i-1]
+		}
+	}
+	return x, y
+}
+
+// BenchmarkCross times Cross on both paths: K = 40 lags (direct) and
+// K = 2000 lags (FFT), n = 10^3..10^6. The peer figures come from
+// testdata/peer/ccf_numpy.py on the same sizes.
+func BenchmarkCross(b *testing.B) {
+	x, y := benchSeries(1_000_000)
+	for _, tc := range []struct {
+		m Method
+		K int
+	}{{Direct, 40}, {FFT, 40}, {FFT, 2000}} {
+		for _, n := range []int{1_000, 10_000, 100_000, 1_000_000} {
+			if n <= tc.K {
+				continue
+			}
+			b.Run(tc.m.String()+"/K="+strconv.Itoa(tc.K)+"/n="+strconv.Itoa(n), func(b *testing.B) {
+				b.ReportAllocs()
+				s := &Settings{Method: tc.m}
+				for b.Loop() {
+					if _, err := Cross(x[:n], y[:n], tc.K, s); err != nil {
+						b.Fatal(err)
+					}
+				}
+			})
+		}
+	}
+}
+
+// BenchmarkCrossover times both paths at n = 10^5 over K = 5..160, the
+// measurement behind chooseMethod.
+func BenchmarkCrossover(b *testing.B) {
+	x, y := benchSeries(100_000)
+	for _, K := range []int{5, 10, 20, 40, 80, 160} {
+		for _, m := range []Method{Direct, FFT} {
+			b.Run(m.String()+"/K="+strconv.Itoa(K), func(b *testing.B) {
+				b.ReportAllocs()
+				s := &Settings{Method: m}
+				for b.Loop() {
+					if _, err := Cross(x, y, K, s); err != nil {
+						b.Fatal(err)
+					}
+				}
+			})
+		}
+	}
+}

@@ -1,0 +1,159 @@
+package ccf
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+	"strconv"
+	"testing"
+)
+
+// naiveCross is the definition written out, for the agreement checks.
+func naiveCross(x, y []float64, K int) []float64 {
+	n := len(x)
+	mx, my := 0.0, 0.0
+	for i := range x {
+		mx += x[i]
+		my += y[i]
+	}
+	mx /= float64(n)
+	my /= float64(n)
+	var sxx, syy float64
+	for i := range x {
+		sxx += (x[i] - mx) * (x[i] - mx)
+		syy += (y[i] - my) * (y[i] - my)
+	}
+	r := make([]float64, 2*K+1)
+	for k := -K; k <= K; k++ {
+		s := 0.0
+		for t := 0; t < n; t++ {
+			if t+k >= 0 && t+k < n {
+				s += (x[t] - mx) * (y[t+k] - my)
+			}
+		}
+		r[K+k] = s / math.Sqrt(sxx*syy)
+	}
+	return r
+}
+
+func TestCrossAgainstR(t *testing.T) {
+	// Source: R 4.2.2 stats::ccf(a, b, lag.max = 20, plot = FALSE), written
+	// by testdata/ccf/reference.R. R's lag k estimates cor(a[t+k], b[t]);
+	// ours at lag k is cor(a[t], b[t+k]), so r_ours(k) = r_R(-k).
+	// Tolerance 1e-10 (absolute, on correlations of magnitude <= 1): both
+	// sides sum the same 200 products in double precision.
+	cols := readColumns(t, "../testdata/ccf/series.csv", "x", "y", "z")
+	series := map[byte][]float64{'x': cols[0], 'y': cols[1], 'z': cols[2]}
+	_, rows := readCSV(t, "../testdata/ccf/ccf.csv")
+	want := map[string]map[int]float64{}
+	for _, row := range rows {
+		lag, _ := strconv.Atoi(row[1])
+		v, _ := strconv.ParseFloat(row[2], 64)
+		if want[row[0]] == nil {
+			want[row[0]] = map[int]float64{}
+		}
+		want[row[0]][lag] = v
+	}
+	for pair, w := range want {
+		for _, m := range []Method{Direct, FFT, Auto} {
+			c, err := Cross(series[pair[0]], series[pair[1]], 20, &Settings{Method: m})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for k := -20; k <= 20; k++ {
+				if got := c.At(k); math.Abs(got-w[-k]) > 1e-10 {
+					t.Errorf("%s %v lag %d: got %.15g, R ccf at lag %d gives %.15g", pair, m, k, got, -k, w[-k])
+				}
+			}
+		}
+	}
+}
+
+func TestCrossDirectFFTAgree(t *testing.T) {
+	// Both paths against the definition, to 1e-12 absolute in r.
+	rng := rand.New(rand.NewPCG(1, 2))
+	for _, tc := range []struct{ n, K int }{
+		{2, 0}, {2, 1}, {3, 2}, {10, 9}, {50, 7}, {257, 40}, {1000, 3}, {3000, 500}, {5000, 2000}, {20011, 130},
+	} {
+		x := make([]float64, tc.n)
+		y := make([]float64, tc.n)
+		for i := range x {
+			x[i] = 5 + rng.NormFloat64()
+			y[i] = -3 + 0.5*rng.NormFloat64()
+			if i > 2 {
+				y[i] += 0.8 * x[i-3]
+			}
+		}
+		want := naiveCross(x, y, tc.K)
+		for _, m := range []Method{Direct, FFT} {
+			c, err := Cross(x, y, tc.K, &Settings{Method: m})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, w := range want {
+				if d := math.Abs(c.R[i] - w); d > 1e-12 {
+					t.Fatalf("n=%d K=%d %v lag %d: got %.16g want %.16g (diff %g)", tc.n, tc.K, m, i-tc.K, c.R[i], w, d)
+				}
+			}
+		}
+	}
+}
+
+func TestCrossBands(t *testing.T) {
+	x := []float64{1, 3, 2, 5, 4, 6, 5, 8, 7, 9, 8, 11, 10, 12, 11, 14}
+	y := []float64{2, 1, 4, 3, 6, 5, 7, 6, 9, 8, 10, 9, 12, 11, 13, 12}
+	c, err := Cross(x, y, 3, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// z_{0.975} = 1.959963984540054 (R 4.2.2 qnorm(0.975)); n = 16.
+	if got, want := c.Band(0.95), 1.959963984540054/4; math.Abs(got-want) > 1e-14 {
+		t.Errorf("Band(0.95) = %.16g, want %.16g", got, want)
+	}
+	if got := c.SE(); got != 0.25 {
+		t.Errorf("SE = %g, want 0.25", got)
+	}
+	for _, k := range c.Significant(0.95) {
+		if math.Abs(c.At(k)) <= c.Band(0.95) {
+			t.Errorf("lag %d reported significant with r = %g", k, c.At(k))
+		}
+	}
+}
+
+func TestCrossBadInput(t *testing.T) {
+	good := []float64{1, 2, 4, 3, 5, 7, 6}
+	nan := append([]float64(nil), good...)
+	nan[4] = math.NaN()
+	inf := append([]float64(nil), good...)
+	inf[2] = math.Inf(-1)
+	names := &Settings{Names: [2]string{"burner", "temp"}}
+	var le *LengthError
+	if _, err := Cross(good, good[:5], 2, names); !errors.As(err, &le) || le.Lens != [2]int{7, 5} || le.Names[1] != "temp" {
+		t.Errorf("unequal lengths: got %v", err)
+	}
+	var se *ShortError
+	if _, err := Cross(good, good, 7, names); !errors.As(err, &se) || se.Need != 8 || se.Name != "burner" {
+		t.Errorf("too short: got %v", err)
+	}
+	var ce *ConstantError
+	if _, err := Cross(good, []float64{3, 3, 3, 3, 3, 3, 3}, 2, names); !errors.As(err, &ce) || ce.Name != "temp" || ce.Value != 3 {
+		t.Errorf("constant: got %v", err)
+	}
+	var ve *ValueError
+	if _, err := Cross(nan, good, 2, names); !errors.As(err, &ve) || ve.Index != 4 || ve.Name != "burner" {
+		t.Errorf("NaN: got %v", err)
+	}
+	if _, err := Cross(good, inf, 2, names); !errors.As(err, &ve) || ve.Index != 2 || ve.Name != "temp" || !math.IsInf(ve.Value, -1) {
+		t.Errorf("Inf: got %v", err)
+	}
+	var ae *ArgError
+	if _, err := Cross(good, good, -1, nil); !errors.As(err, &ae) {
+		t.Errorf("negative lag: got %v", err)
+	}
+	if _, err := Cross(good, good, 1, &Settings{Method: 9}); !errors.As(err, &ae) {
+		t.Errorf("bad method: got %v", err)
+	}
+	if good[4] != 5 || !math.IsNaN(nan[4]) {
+		t.Error("inputs modified")
+	}
+}

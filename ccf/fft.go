@@ -1,0 +1,99 @@
+package ccf
+
+import (
+	"math/bits"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// fftLen returns the block FFT length used for K lags: the power of two
+// at least 8(2K+1) and at least 256, so that each block of L = M - 2K
+// samples carries most of the transform.
+func fftLen(K int) int {
+	need := max(8*(2*K+1), 256)
+	return 1 << bits.Len(uint(need-1))
+}
+
+// crossFFT writes the unnormalised lag sums n*c_xy(k) into r (r[K+k],
+// k = -K..K) and returns the sums of squares of the centred series.
+//
+// The series are cut into blocks of L = M - 2K samples of x; block j
+// contributes sum_{t in block} x_t y_{t+k} for all |k| <= K, the circular
+// cross-correlation of the zero-padded x block with the y segment that
+// starts K samples before it, which fits in M points without wrapping.
+// The products conj(X_j) Y_j are summed over blocks and transformed back
+// once.
+func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
+	n := len(x)
+	M := fftLen(K)
+	if M > 2*(n+K) {
+		// Short series: one block covering everything.
+		M = 1 << bits.Len(uint(n+2*K-1))
+	}
+	L := M - 2*K
+	fft := fourier.NewFFT(M)
+	xb := make([]float64, M)
+	ys := make([]float64, M)
+	X := make([]complex128, M/2+1)
+	Y := make([]complex128, M/2+1)
+	acc := make([]complex128, M/2+1)
+	for i, v := range x {
+		d := v - mx
+		sxx += d * d
+		_ = i
+	}
+	for _, v := range y {
+		d := v - my
+		syy += d * d
+	}
+	for j := 0; j < n; j += L {
+		// x block, centred and zero padded.
+		e := min(j+L, n)
+		k := 0
+		for i := j; i < e; i++ {
+			xb[k] = x[i] - mx
+			k++
+		}
+		for ; k < M; k++ {
+			xb[k] = 0
+		}
+		// y segment y[j-K .. j-K+M), centred, zero outside 0..n-1.
+		for m := 0; m < M; m++ {
+			idx := j - K + m
+			if idx >= 0 && idx < n {
+				ys[m] = y[idx] - my
+			} else {
+				ys[m] = 0
+			}
+		}
+		fft.Coefficients(X, xb)
+		fft.Coefficients(Y, ys)
+		for f, xv := range X {
+			yv := Y[f]
+			// conj(xv) * yv
+			acc[f] += complex(real(xv)*real(yv)+imag(xv)*imag(yv), real(xv)*imag(yv)-imag(xv)*real(yv))
+		}
+	}
+	cc := fft.Sequence(xb, acc)
+	inv := 1 / float64(M)
+	for d := 0; d <= 2*K; d++ {
+		r[d] = cc[d] * inv
+	}
+	return sxx, syy
+}
+
+// chooseMethod returns Direct or FFT for n samples and K lags by the
+// measured crossover: direct costs about n(2K+1) multiply-adds, the
+// blocked FFT about 2 n/L real transforms of M points.
+func chooseMethod(n, K int) Method {
+	M := fftLen(K)
+	lg := bits.Len(uint(M))
+	if 2*K+1 <= crossoverFactor*lg {
+		return Direct
+	}
+	return FFT
+}
+
+// crossoverFactor is measured with BenchmarkCrossover; see the comment
+// there.
+const crossoverFactor = 8
