@@ -224,3 +224,75 @@ func ratCheckSeries(name string, x []float64) error {
 	}
 	return nil
 }
+
+// Past is the history of a term before the first sample of a series,
+// oldest first, so that the last element of each slice is the value at
+// t = -1. Input holds past inputs x_t and Output past outputs y_t. Values
+// older than a slice supplies are taken as zero; a term uses the last
+// b+s inputs and the last r outputs. The zero Past is rest.
+type Past struct {
+	Input  []float64
+	Output []float64
+}
+
+// SteadyPast returns the history of the steady state for the constant
+// input u: b+s past inputs equal to u and r past outputs equal to
+// Gain()*u. Filtering the constant u from it gives the constant output
+// Gain()*u. It returns a *GainError when the gain does not exist (pole at
+// z = 1) and a *SampleError for a non-finite u.
+func (r Rational) SteadyPast(u float64) (Past, error) {
+	if math.IsNaN(u) || math.IsInf(u, 0) {
+		return Past{}, &SampleError{Series: "steady input", Index: 0, Value: u}
+	}
+	g, err := r.Gain()
+	if err != nil {
+		return Past{}, err
+	}
+	xh, yh := ratSteadyHistory(r, u, g*u)
+	return Past{Input: xh, Output: yh}, nil
+}
+
+// FilterFrom returns the output for the input series x continuing from
+// the history p (see Past), by the difference equation with no
+// approximation. With the zero Past it equals Filter. It returns a
+// *SampleError (Series "input", "past input" or "past output") for a NaN
+// or infinite value. p is read, never modified.
+func (r Rational) FilterFrom(x []float64, p Past) ([]float64, error) {
+	if err := ratCheckSeries("input", x); err != nil {
+		return nil, err
+	}
+	if err := ratCheckSeries("past input", p.Input); err != nil {
+		return nil, err
+	}
+	if err := ratCheckSeries("past output", p.Output); err != nil {
+		return nil, err
+	}
+	num, den := r.coefs()
+	n, b := len(x), r.delay
+	y := make([]float64, n)
+	if b == 0 {
+		filter.RunInit(y, num, den, x, p.Input, p.Output)
+		return y, nil
+	}
+	// The rational part sees v_t = x_{t-b}: its history is the past input
+	// without its last b values, and its first b samples come from the
+	// last b past inputs (zero where not given).
+	v := y // reuse the output buffer for the shifted input (in place is fine)
+	for t := 0; t < n; t++ {
+		k := t - b
+		switch {
+		case k >= 0:
+			v[t] = x[k]
+		case len(p.Input)+k >= 0:
+			v[t] = p.Input[len(p.Input)+k]
+		default:
+			v[t] = 0
+		}
+	}
+	var vh []float64
+	if len(p.Input) > b {
+		vh = p.Input[:len(p.Input)-b]
+	}
+	filter.RunInit(y, num, den, v, vh, p.Output)
+	return y, nil
+}

@@ -1,0 +1,365 @@
+package tf
+
+import (
+	"math"
+)
+
+// FOPDT is the continuous-time first-order-plus-dead-time process model
+//
+//	G(s) = Gain e^{-DeadTime s} / (TimeConstant s + 1),
+//
+// with TimeConstant and DeadTime in the time unit of the sample interval
+// used with it.
+type FOPDT struct {
+	Gain         float64
+	TimeConstant float64
+	DeadTime     float64
+}
+
+// StepAt returns the continuous unit step response at time t (step
+// applied at t = 0): Gain (1 - e^{-(t-DeadTime)/TimeConstant}) for
+// t > DeadTime, else 0.
+func (p FOPDT) StepAt(t float64) float64 {
+	if !(t > p.DeadTime) {
+		return 0
+	}
+	return -p.Gain * math.Expm1(-(t-p.DeadTime)/p.TimeConstant)
+}
+
+// Discretize returns the exact zero-order-hold equivalent of p for the
+// sample interval T: the input is held constant over each interval
+// [kT, (k+1)T) and the output sampled at kT. With DeadTime = (d + f) T,
+// d whole and 0 <= f < 1, and a = e^{-T/tau} (modified z-transform),
+//
+//	G(B) = Gain (b1 + b2 B) / (1 - a B) * B^(d+1),
+//	b1 = 1 - e^{-(1-f) T/tau},  b2 = e^{-(1-f) T/tau} - a,
+//
+// so b1 + b2 = 1 - a and the gain is exact; for a whole number of samples
+// (f = 0) b2 = 0. The extra sample of dead time (d+1) is the hold's: the
+// input applied at sample k first shows in the output at sample k+1. A
+// fractional part within 1e-12 of 0 or 1 is rounded to the whole sample.
+//
+// It returns an *ArgError for a non-finite gain, a time constant or
+// interval that is not positive and finite, a negative dead time, or a
+// dead time of more than MaxDelay-1 samples.
+func (p FOPDT) Discretize(T float64) (Rational, error) {
+	if err := ratCheckFinite("Gain", p.Gain); err != nil {
+		return Rational{}, err
+	}
+	if err := ratCheckPositive("TimeConstant", p.TimeConstant); err != nil {
+		return Rational{}, err
+	}
+	d, f, err := ratSplitDelay(p.DeadTime, T)
+	if err != nil {
+		return Rational{}, err
+	}
+	tau := p.TimeConstant
+	a := math.Exp(-T / tau)
+	h := (1 - f) * T // time from the delayed input's switch to the next sample
+	b1 := -math.Expm1(-h / tau)
+	b2 := 0.0
+	if f > 0 {
+		b2 = -math.Exp(-h/tau) * math.Expm1(-f*T/tau)
+	}
+	return NewRational([]float64{p.Gain * b1, p.Gain * b2}, []float64{1, -a}, d+1)
+}
+
+// AsFOPDT converts a discrete first-order term back to the continuous
+// first-order-plus-dead-time model whose zero-order-hold equivalent for
+// the interval T it is (the inverse of FOPDT.Discretize): the term must
+// have denominator 1 - a B with 0 < a < 1, a numerator of one or two
+// coefficients (b1 + b2 B, leading zero coefficients counting as dead
+// time) and dead time b >= 1. Then
+//
+//	Gain = (b1 + b2)/(1 - a),  TimeConstant = -T/ln(a),
+//	DeadTime = (b - 1) T + f T,  f = 1 + (TimeConstant/T) ln(1 - (1-a) b1/(b1+b2)),
+//
+// so that f = 0 for b2 = 0. A fitted term whose numerator split lies within 1e-9 of the
+// admissible range [0, 1) of f is clamped into it.
+//
+// It returns an *ArgError when the term is not of this form (other
+// orders, a pole outside (0, 1), a zero gain, no dead time, or a
+// numerator split that no fractional dead time produces), or when T is
+// not positive and finite.
+func (r Rational) AsFOPDT(T float64) (FOPDT, error) {
+	if err := ratCheckPositive("interval", T); err != nil {
+		return FOPDT{}, err
+	}
+	num, den := r.coefs()
+	b := r.delay
+	for len(num) > 1 && num[0] == 0 {
+		num = num[1:]
+		b++
+	}
+	if len(den) != 2 {
+		return FOPDT{}, &ArgError{Arg: "denominator degree", Value: float64(len(den) - 1), Rule: "must be 1 for a first-order term"}
+	}
+	if len(num) > 2 {
+		return FOPDT{}, &ArgError{Arg: "numerator degree", Value: float64(len(num) - 1), Rule: "must be 0 or 1 for a first-order term"}
+	}
+	a := -den[1]
+	if !(a > 0 && a < 1) {
+		return FOPDT{}, &ArgError{Arg: "pole", Value: a, Rule: "must lie in (0, 1) for a first-order lag"}
+	}
+	b1 := num[0]
+	b2 := 0.0
+	if len(num) == 2 {
+		b2 = num[1]
+	}
+	if b1+b2 == 0 {
+		return FOPDT{}, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero"}
+	}
+	if b < 1 {
+		return FOPDT{}, &ArgError{Arg: "dead time", Value: float64(b), Rule: "must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
+	}
+	tau := -T / math.Log(a)
+	// Fraction of the first response step: b1/(b1+b2) = (1 - e^{-(1-f)T/tau})/(1 - a).
+	frac := b1 / (b1 + b2)
+	const slack = 1e-9
+	if frac < -slack || frac > 1+slack {
+		return FOPDT{}, &ArgError{Arg: "numerator split b1/(b1+b2)", Value: frac, Rule: "must lie in [0, 1] for a fractional dead time"}
+	}
+	frac = min(max(frac, 0), 1)
+	f := 0.0
+	if frac < 1 {
+		// (1-f) T/tau = -ln(1 - frac (1-a)).
+		f = 1 + tau/T*math.Log1p(-frac*(1-a))
+		f = min(max(f, 0), 1)
+	}
+	return FOPDT{Gain: (b1 + b2) / (1 - a), TimeConstant: tau, DeadTime: float64(b-1)*T + f*T}, nil
+}
+
+// SOPDT is the continuous-time second-order-plus-dead-time model with two
+// real time constants,
+//
+//	G(s) = Gain e^{-DeadTime s} / ((Tau1 s + 1)(Tau2 s + 1)),
+//
+// in the time unit of the sample interval used with it. Tau1 = Tau2 (to
+// 1e-6 relative) is treated as a double pole.
+type SOPDT struct {
+	Gain     float64
+	Tau1     float64
+	Tau2     float64
+	DeadTime float64
+}
+
+// SecondOrder is the continuous-time second-order-plus-dead-time model in
+// natural frequency and damping,
+//
+//	G(s) = Gain wn^2 e^{-DeadTime s} / (s^2 + 2 zeta wn s + wn^2),
+//
+// with NaturalFrequency wn in radians per time unit and Damping zeta >= 0
+// (below 1 oscillatory, 1 critically damped, above 1 two real time
+// constants).
+type SecondOrder struct {
+	Gain             float64
+	NaturalFrequency float64
+	Damping          float64
+	DeadTime         float64
+}
+
+// ratSecond is a second-order lag in one of three closed forms.
+type ratSecond struct {
+	kind     int // 0 distinct real, 1 double real, 2 oscillatory
+	k, theta float64
+	t1, t2   float64 // time constants (kind 0, 1)
+	zw, wd   float64 // zeta wn and damped frequency (kind 2)
+	zr       float64 // zeta / sqrt(1 - zeta^2)
+}
+
+func (p SOPDT) second() (ratSecond, error) {
+	if err := ratCheckFinite("Gain", p.Gain); err != nil {
+		return ratSecond{}, err
+	}
+	if err := ratCheckPositive("Tau1", p.Tau1); err != nil {
+		return ratSecond{}, err
+	}
+	if err := ratCheckPositive("Tau2", p.Tau2); err != nil {
+		return ratSecond{}, err
+	}
+	s := ratSecond{k: p.Gain, theta: p.DeadTime, t1: p.Tau1, t2: p.Tau2}
+	if math.Abs(p.Tau1-p.Tau2) <= 1e-6*max(p.Tau1, p.Tau2) {
+		s.kind = 1
+		s.t1 = math.Sqrt(p.Tau1 * p.Tau2)
+		s.t2 = s.t1
+	}
+	return s, nil
+}
+
+func (p SecondOrder) second() (ratSecond, error) {
+	if err := ratCheckFinite("Gain", p.Gain); err != nil {
+		return ratSecond{}, err
+	}
+	if err := ratCheckPositive("NaturalFrequency", p.NaturalFrequency); err != nil {
+		return ratSecond{}, err
+	}
+	z, wn := p.Damping, p.NaturalFrequency
+	if !(z >= 0) || math.IsInf(z, 0) {
+		return ratSecond{}, &ArgError{Arg: "Damping", Value: z, Rule: "must be finite and >= 0"}
+	}
+	if z >= 1 {
+		// Real time constants 1/(wn (zeta -+ sqrt(zeta^2 - 1))), the second
+		// formed without cancellation from t1 t2 = 1/wn^2.
+		q := math.Sqrt(z*z - 1)
+		t1 := 1 / (wn * (z - q))
+		return SOPDT{Gain: p.Gain, Tau1: t1, Tau2: 1 / (wn * wn * t1), DeadTime: p.DeadTime}.second()
+	}
+	q := math.Sqrt(1 - z*z)
+	return ratSecond{kind: 2, k: p.Gain, theta: p.DeadTime, zw: z * wn, wd: wn * q, zr: z / q}, nil
+}
+
+// step returns the unit step response at t (step at 0).
+func (s ratSecond) step(t float64) float64 {
+	u := t - s.theta
+	if !(u > 0) {
+		return 0
+	}
+	switch s.kind {
+	case 0:
+		return s.k * (1 - (s.t1*math.Exp(-u/s.t1)-s.t2*math.Exp(-u/s.t2))/(s.t1-s.t2))
+	case 1:
+		return s.k * (1 - (1+u/s.t1)*math.Exp(-u/s.t1))
+	default:
+		return s.k * (1 - math.Exp(-s.zw*u)*(math.Cos(s.wd*u)+s.zr*math.Sin(s.wd*u)))
+	}
+}
+
+// discretize returns the exact ZOH equivalent: denominator from the
+// sampled poles, numerator from the sampled step response Y_k = y(kT) by
+// G(B) = (1 - B) Y(B), that is omega = delta (1 - B) Y truncated to the
+// three terms a second-order lag with fractional dead time has.
+func (s ratSecond) discretize(T float64) (Rational, error) {
+	d, f, err := ratSplitDelay(s.theta, T)
+	if err != nil {
+		return Rational{}, err
+	}
+	var den [3]float64
+	den[0] = 1
+	switch s.kind {
+	case 0, 1:
+		a1, a2 := math.Exp(-T/s.t1), math.Exp(-T/s.t2)
+		den[1], den[2] = -(a1 + a2), a1*a2
+	default:
+		e := math.Exp(-s.zw * T)
+		den[1], den[2] = -2*e*math.Cos(s.wd*T), e*e
+	}
+	// Sample times relative to the whole-sample part of the dead time, so
+	// that the fractional part is handled exactly: Y at sample d+j is the
+	// response j T - f T after the delayed step.
+	shifted := s
+	shifted.theta = f * T
+	y := func(j int) float64 { return shifted.step(float64(j) * T) }
+	dy := func(j int) float64 { return y(j) - y(j-1) }
+	var num [3]float64
+	for j := 0; j < 3; j++ {
+		for i := 0; i <= j; i++ {
+			num[j] += den[i] * dy(1+j-i)
+		}
+	}
+	if f == 0 {
+		num[2] = 0
+	}
+	return NewRational(num[:], den[:], d+1)
+}
+
+// StepAt returns the continuous unit step response at time t (step at
+// t = 0), in closed form (common practice):
+// Gain (1 - (Tau1 e^{-u/Tau1} - Tau2 e^{-u/Tau2})/(Tau1 - Tau2)) with
+// u = t - DeadTime > 0, Gain (1 - (1 + u/tau) e^{-u/tau}) for a double pole,
+// and 0 for u <= 0. It returns NaN for invalid parameters.
+func (p SOPDT) StepAt(t float64) float64 {
+	s, err := p.second()
+	if err != nil {
+		return math.NaN()
+	}
+	return s.step(t)
+}
+
+// Discretize returns the exact zero-order-hold equivalent of p for the
+// sample interval T, including a dead time that is not a whole number of
+// samples: DeadTime = (d + f) T gives
+//
+//	G(B) = (w0 + w1 B + w2 B^2) / ((1 - a1 B)(1 - a2 B)) * B^(d+1),  a_i = e^{-T/Tau_i},
+//
+// with w2 = 0 when f = 0. The numerator is (1 - B) delta(B) Y(B) for the
+// sampled step response Y, which a zero-order hold reproduces exactly at
+// the sampling instants. Numerator coefficients carry an absolute
+// rounding error of a few eps times |Gain|, which is relatively large
+// only when T is much shorter than the time constants.
+//
+// It returns an *ArgError for a non-finite gain, a time constant or
+// interval that is not positive and finite, or a dead time that is
+// negative or over MaxDelay-1 samples.
+func (p SOPDT) Discretize(T float64) (Rational, error) {
+	s, err := p.second()
+	if err != nil {
+		return Rational{}, err
+	}
+	return s.discretize(T)
+}
+
+// StepAt returns the continuous unit step response at time t (step at
+// t = 0), in closed form (common practice); for Damping < 1, with
+// u = t - DeadTime > 0 and wd = wn sqrt(1 - zeta^2),
+// Gain (1 - e^{-zeta wn u} (cos(wd u) + zeta/sqrt(1-zeta^2) sin(wd u))).
+// It returns NaN for invalid parameters.
+func (p SecondOrder) StepAt(t float64) float64 {
+	s, err := p.second()
+	if err != nil {
+		return math.NaN()
+	}
+	return s.step(t)
+}
+
+// Discretize returns the exact zero-order-hold equivalent of p for the
+// sample interval T, as SOPDT.Discretize does; for Damping < 1 the
+// denominator is 1 - 2 e^{-zeta wn T} cos(wd T) B + e^{-2 zeta wn T} B^2.
+// Its errors are those of SOPDT.Discretize, plus an *ArgError for a
+// negative or non-finite Damping.
+func (p SecondOrder) Discretize(T float64) (Rational, error) {
+	s, err := p.second()
+	if err != nil {
+		return Rational{}, err
+	}
+	return s.discretize(T)
+}
+
+// ratSplitDelay splits theta = (d + f) T, rounding f within 1e-12 of 0
+// or 1 to the whole sample.
+func ratSplitDelay(theta, T float64) (d int, f float64, err error) {
+	if err := ratCheckPositive("interval", T); err != nil {
+		return 0, 0, err
+	}
+	if !(theta >= 0) || math.IsInf(theta, 0) {
+		return 0, 0, &ArgError{Arg: "DeadTime", Value: theta, Rule: "must be finite and >= 0"}
+	}
+	x := theta / T
+	if x > MaxDelay-1 {
+		return 0, 0, &ArgError{Arg: "DeadTime", Value: theta, Rule: "must be at most MaxDelay-1 samples"}
+	}
+	fl := math.Floor(x)
+	f = x - fl
+	d = int(fl)
+	switch {
+	case f < 1e-12:
+		f = 0
+	case f > 1-1e-12:
+		f = 0
+		d++
+	}
+	return d, f, nil
+}
+
+func ratCheckFinite(name string, v float64) error {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return &ArgError{Arg: name, Value: v, Rule: "must be finite"}
+	}
+	return nil
+}
+
+func ratCheckPositive(name string, v float64) error {
+	if !(v > 0) || math.IsInf(v, 0) {
+		return &ArgError{Arg: name, Value: v, Rule: "must be positive and finite"}
+	}
+	return nil
+}

@@ -1,0 +1,76 @@
+package tf
+
+import (
+	"math"
+	"strconv"
+
+	"github.com/backshift/backshift/internal/poly"
+)
+
+// Constant returns the static gain k as a Rational (numerator {k},
+// denominator {1}, no dead time); Constant(1) is the unity feedback path.
+// It returns a *CoefError for a non-finite k.
+func Constant(k float64) (Rational, error) {
+	return NewRational([]float64{k}, []float64{1}, 0)
+}
+
+// Series returns the series connection g*h (the output of h feeds g, or
+// the other way round; the product commutes): numerators and denominators
+// multiplied, dead times added. No pole-zero cancellation is attempted.
+// It returns a *CoefError (ErrDegree) when a product's degree exceeds
+// MaxDegree and a *DelayError when the dead times add up past MaxDelay.
+func Series(g, h Rational) (Rational, error) {
+	gn, gd := g.coefs()
+	hn, hd := h.coefs()
+	return NewRational(poly.Mul(gn, hn), poly.Mul(gd, hd), g.delay+h.delay)
+}
+
+// Parallel returns the parallel connection g + h over the common
+// denominator delta_g delta_h:
+//
+//	(omega_g B^(b_g-b) delta_h + omega_h B^(b_h-b) delta_g) / (delta_g delta_h) * B^b,  b = min(b_g, b_h).
+//
+// A difference in dead time enters the numerator as a power of B, so it
+// counts toward the degree limit. It returns a *CoefError (ErrDegree) when
+// a degree exceeds MaxDegree.
+func Parallel(g, h Rational) (Rational, error) {
+	gn, gd := g.coefs()
+	hn, hd := h.coefs()
+	b := min(g.delay, h.delay)
+	if d := max(g.delay, h.delay) - b; d+max(len(gn)+len(hd), len(hn)+len(gd))-2 > MaxDegree {
+		return Rational{}, &CoefError{Poly: "num", Index: d + max(len(gn)+len(hd), len(hn)+len(gd)) - 2, Err: ErrDegree}
+	}
+	num := poly.Add(poly.Shift(poly.Mul(gn, hd), g.delay-b), poly.Shift(poly.Mul(hn, gd), h.delay-b))
+	return NewRational(num, poly.Mul(gd, hd), b)
+}
+
+// Feedback returns the negative-feedback closed loop g/(1 + g h), with g in
+// the forward path and h in the feedback path:
+//
+//	omega_g delta_h B^(b_g) / (delta_g delta_h + omega_g omega_h B^(b_g+b_h)).
+//
+// For a controller c and a plant p, the response of the output to the
+// set-point is Feedback(Series(c, p), Constant(1)), and the response of
+// the output to a load entering at the plant input is Feedback(p, c).
+// The loop dead time b_g + b_h enters the denominator as a power of B, so
+// loops with long dead times may exceed MaxDegree (an *ErrDegree
+// CoefError); simulate such loops with two Plants instead.
+//
+// It returns a *CoefError with ErrZeroConstant when the loop is
+// ill-posed (b_g + b_h = 0 and 1 + g_0 h_0 = 0, where g_0 and h_0 are the
+// feedthrough gains): the loop equation then has no solution.
+func Feedback(g, h Rational) (Rational, error) {
+	gn, gd := g.coefs()
+	hn, hd := h.coefs()
+	lb := g.delay + h.delay
+	if lb+len(gn)+len(hn)-2 > MaxDegree {
+		return Rational{}, &CoefError{Poly: "den", Index: lb + len(gn) + len(hn) - 2, Err: ErrDegree}
+	}
+	den := poly.Add(poly.Mul(gd, hd), poly.Shift(poly.Mul(gn, hn), lb))
+	if den[0] == 0 || math.Abs(den[0]) <= 8*ratEps*(math.Abs(gd[0]*hd[0])+math.Abs(gn[0]*hn[0])) {
+		return Rational{}, &CoefError{Poly: "den", Index: 0, Value: den[0], Err: ErrZeroConstant}
+	}
+	return NewRational(poly.Mul(gn, hd), den, g.delay)
+}
+
+func ratFormat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }

@@ -1,0 +1,217 @@
+package tf
+
+import (
+	"math"
+	"math/cmplx"
+)
+
+// Span is a duration in samples and, when a sample interval was given, in
+// the interval's time units (Time = Samples * interval; 0 when no interval
+// was given).
+type Span struct {
+	Samples float64
+	Time    float64
+}
+
+// StepOptions tunes StepMetrics. The zero value gives the defaults.
+type StepOptions struct {
+	// Band is the settling band as a fraction of the final value; 0 means
+	// 0.02 (2 %). It must lie in (0, 1).
+	Band float64
+	// Interval is the sample interval in the caller's time unit; 0 means
+	// not given (times reported in samples only). It must be >= 0.
+	Interval float64
+	// Horizon is the number of samples of the step response examined; 0
+	// chooses it from the slowest pole (long enough for that mode to decay
+	// to 1e-3 of the band, at least 4 time constants past the dead time
+	// and numerator), capped at 10^6 samples.
+	Horizon int
+}
+
+// StepInfo describes the unit step response of a stable term, for people
+// tuning controllers. Times count samples from the step at t = 0 (the
+// input is 1 from sample 0 on); rise and settling times are interpolated
+// linearly between samples.
+type StepInfo struct {
+	// Final is the final value, the steady-state gain.
+	Final float64
+	// Rise is the 10 % to 90 % rise time: from the first crossing of 10 %
+	// of Final to the first crossing of 90 %; NaN when 90 % is not reached
+	// within the horizon.
+	Rise Span
+	// Settling is the time after which the response stays within
+	// Band*|Final| of Final until the end of the horizon; NaN when the
+	// last sample of the horizon is still outside the band.
+	Settling Span
+	// Peak is the extreme value in the direction of Final (the maximum for
+	// a positive gain), PeakTime the sample where it is first reached.
+	Peak     float64
+	PeakTime Span
+	// Overshoot is (Peak - Final)/Final as a fraction (0.25 = 25 %), 0
+	// when the response never passes Final.
+	Overshoot float64
+	// Undershoot is the largest excursion opposite to Final as a fraction
+	// of |Final| (inverse response of a non-minimum-phase term), 0 when
+	// there is none.
+	Undershoot float64
+	// Band is the settling band used; Horizon the samples examined.
+	Band    float64
+	Horizon int
+}
+
+// StepMetrics returns rise time, settling time, overshoot and peak of the
+// unit step response (see StepInfo), computed on the exact sampled step
+// response. It returns an *UnstableError for a term that is not stable,
+// an *ArgError for a bad option or a zero gain (no step to measure), and
+// a *GainError when the gain does not exist.
+func (r Rational) StepMetrics(o StepOptions) (StepInfo, error) {
+	band := o.Band
+	if band == 0 {
+		band = 0.02
+	}
+	if !(band > 0 && band < 1) {
+		return StepInfo{}, &ArgError{Arg: "Band", Value: o.Band, Rule: "must lie in (0, 1)"}
+	}
+	if !(o.Interval >= 0) || math.IsInf(o.Interval, 0) {
+		return StepInfo{}, &ArgError{Arg: "Interval", Value: o.Interval, Rule: "must be finite and >= 0"}
+	}
+	if o.Horizon < 0 || o.Horizon > 1e7 {
+		return StepInfo{}, &ArgError{Arg: "Horizon", Value: float64(o.Horizon), Rule: "must lie in 0..10^7"}
+	}
+	rho := r.MaxPoleMagnitude()
+	if !(rho < 1) {
+		return StepInfo{}, &UnstableError{What: "step metrics", MaxPole: rho}
+	}
+	g, err := r.Gain()
+	if err != nil {
+		return StepInfo{}, err
+	}
+	if g == 0 {
+		return StepInfo{}, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero for step metrics"}
+	}
+	n := o.Horizon
+	if n == 0 {
+		base := r.delay + r.NumDegree() + r.DenDegree() + 2
+		n = base
+		if rho > 0 {
+			tau := -1 / math.Log(rho)
+			n += int(math.Ceil(math.Max(math.Log(band*1e-3)/math.Log(rho), 4*tau)))
+		}
+		n = min(n, 1000000)
+	}
+	y := r.Step(n)
+	info := StepInfo{Final: g, Band: band, Horizon: n}
+	span := func(s float64) Span { return Span{Samples: s, Time: s * o.Interval} }
+	// Work on the normalised response u = y/g, which rises toward 1.
+	cross := func(level float64) float64 {
+		prev := 0.0 // the response before the step is 0
+		for k, v := range y {
+			u := v / g
+			if u >= level {
+				if k == 0 {
+					return 0
+				}
+				return float64(k-1) + (level-prev)/(u-prev)
+			}
+			prev = u
+		}
+		return math.NaN()
+	}
+	t10, t90 := cross(0.1), cross(0.9)
+	info.Rise = span(t90 - t10)
+	peak, kPeak, under := 0.0, 0, 0.0
+	for k, v := range y {
+		u := v / g
+		if u > peak {
+			peak, kPeak = u, k
+		}
+		under = max(under, -u)
+	}
+	info.Peak = peak * g
+	info.PeakTime = span(float64(kPeak))
+	info.Overshoot = max(peak-1, 0)
+	info.Undershoot = under
+	// Settling: last sample outside the band, then interpolate the entry.
+	last := -1
+	for k := len(y) - 1; k >= 0; k-- {
+		if math.Abs(y[k]/g-1) > band {
+			last = k
+			break
+		}
+	}
+	switch {
+	case last < 0:
+		info.Settling = span(0)
+	case last == len(y)-1:
+		info.Settling = span(math.NaN())
+	default:
+		e0, e1 := math.Abs(y[last]/g-1), math.Abs(y[last+1]/g-1)
+		info.Settling = span(float64(last) + (e0-band)/(e0-e1))
+	}
+	return info, nil
+}
+
+// Mode describes one pole of a term as engineers read it, through the
+// continuous-time equivalent s = ln(z)/T of the pole z for sample
+// interval T (T = 1 when no interval is given, so times are in samples).
+type Mode struct {
+	// Pole is the z-plane pole. For a complex pair only the member with
+	// positive imaginary part is listed.
+	Pole complex128
+	// Kind is "real" for a real pole in (0, 1), "complex" for a complex
+	// pair, "integrator" for z = 1, "alternating" for a real pole in
+	// (-1, 0) (a sign-alternating mode with no continuous equivalent),
+	// "zero" for z = 0 (a pure delay) and "unstable" for |z| >= 1 other
+	// than z = 1.
+	Kind string
+	// TimeConstant tau = -T/ln(z) of a real pole in (0, 1): in samples
+	// and time units.
+	TimeConstant Span
+	// NaturalFrequency |s| (radians per sample, and per time unit in
+	// NaturalFrequencyTime) and Damping -Re(s)/|s| of a complex pair.
+	NaturalFrequency     float64
+	NaturalFrequencyTime float64
+	Damping              float64
+}
+
+// Modes returns one Mode per real pole and per complex-conjugate pair, in
+// the order of Poles. interval is the sample interval in the caller's
+// time unit, or 0 when not given. It returns an *ArgError for a negative
+// or non-finite interval.
+func (r Rational) Modes(interval float64) ([]Mode, error) {
+	if !(interval >= 0) || math.IsInf(interval, 0) {
+		return nil, &ArgError{Arg: "interval", Value: interval, Rule: "must be finite and >= 0"}
+	}
+	var out []Mode
+	for _, z := range r.Poles() {
+		if imag(z) < 0 {
+			continue
+		}
+		m := Mode{Pole: z}
+		a := cmplx.Abs(z)
+		switch {
+		case z == 0:
+			m.Kind = "zero"
+		case z == 1:
+			m.Kind = "integrator"
+		case a >= 1:
+			m.Kind = "unstable"
+		case imag(z) == 0 && real(z) < 0:
+			m.Kind = "alternating"
+		case imag(z) == 0:
+			m.Kind = "real"
+			tau := -1 / math.Log(real(z))
+			m.TimeConstant = Span{Samples: tau, Time: tau * interval}
+		default:
+			m.Kind = "complex"
+			s := cmplx.Log(z) // per sample
+			m.NaturalFrequency = cmplx.Abs(s)
+			m.Damping = -real(s) / cmplx.Abs(s)
+			if interval > 0 {
+				m.NaturalFrequencyTime = m.NaturalFrequency / interval
+			}
+		}
+		out = append(out, m)
+	}
+	return out, nil
+}
