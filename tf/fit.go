@@ -1,0 +1,769 @@
+package tf
+
+import (
+	"context"
+	"errors"
+	"math"
+	"sort"
+	"strconv"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/lm"
+)
+
+// FitSettings tunes Fit. The zero value (or a nil pointer) gives the
+// defaults.
+type FitSettings struct {
+	// MaxIter bounds the Levenberg-Marquardt iterations of each start.
+	// Zero means 200.
+	MaxIter int
+	// Starts is the number of start points refined by Levenberg-Marquardt
+	// after screening the candidates by their sum of squares. Zero means 2
+	// when the model has a free denominator or moving-average coefficient
+	// (surfaces that can have several minima) and 1 otherwise.
+	Starts int
+	// First, when larger than the automatic first residual index (see
+	// Conditioning), sums the residuals from First instead, for example to
+	// compare models of different orders over the same residuals.
+	First int
+	// IgnoreExtra accepts data holding series the model does not use.
+	// By default such series are an error (ExtraSeries), because they
+	// usually mean a misspelt input name.
+	IgnoreExtra bool
+}
+
+// Conditioning states the start-up convention of the conditional least
+// squares fit, with indices into the data (0 = oldest sample). See Fit.
+type Conditioning struct {
+	// OutputDiff is the degree of the output differencing D(B): w_t =
+	// D(B) y_t exists from this index on.
+	OutputDiff int
+	// NoiseStart is the first index at which the noise series n_t is
+	// used: max(OutputDiff, max over inputs of d_i + b_i + s_i).
+	NoiseStart int
+	// First is the first index whose residual enters the sum of squares:
+	// NoiseStart + p (p the degree of phi(B)), or FitSettings.First when
+	// larger.
+	First int
+}
+
+// Param is one estimated parameter.
+type Param struct {
+	// Name is the coefficient's name in the model.
+	Name string
+	// Value is the estimate; Start the start value of the best start.
+	Value, Start float64
+	// SE is the standard error from sigma^2 (J'J)^-1, NaN when J'J is
+	// singular; T = Value/SE.
+	SE, T float64
+}
+
+// Estimate is the result of Fit.
+type Estimate struct {
+	// Model is the model with every free coefficient set to its estimate
+	// (still marked free, so that it prints as a spec with the estimates
+	// and can be refitted from them).
+	Model Model
+	// Params lists the free parameters in order of first appearance
+	// (constant, inputs' numerators and denominators, noise MA, noise AR).
+	Params []Param
+	// Cov and Corr are the covariance sigma^2 (J'J)^-1 and the correlation
+	// matrix of the estimates, in the order of Params (NaN entries when
+	// J'J is singular).
+	Cov, Corr [][]float64
+	// SSQ is the sum of squared residuals; Sigma2 = SSQ/(N - k) with k
+	// free parameters.
+	SSQ, Sigma2 float64
+	// LogLik is the conditional Gaussian log-likelihood at the maximum
+	// over sigma^2, -N/2 (log(2 pi SSQ/N) + 1); AIC = -2 LogLik + 2 (k+1)
+	// and BIC = -2 LogLik + (k+1) log N count sigma^2 as a parameter.
+	LogLik, AIC, BIC float64
+	// N is the number of residuals summed, n - Conditioning.First.
+	N int
+	// Conditioning is the start-up convention used.
+	Conditioning Conditioning
+	// Resid holds the residuals a_t aligned to the data index (length n),
+	// NaN before Conditioning.First.
+	Resid []float64
+	// Iter and Evals count Levenberg-Marquardt iterations and residual
+	// evaluations of the best start; StartsTried counts the candidate
+	// start points screened.
+	Iter, Evals, StartsTried int
+	// Converged reports whether the best start met a convergence test;
+	// Reason says which, or why it stopped.
+	Converged bool
+	Reason    string
+	// Warnings lists problems found with the estimates; empty when none.
+	Warnings []Warning
+}
+
+// Fit estimates the free coefficients of m from data by conditional least
+// squares over all of them jointly. data maps series names to samples
+// (index 0 oldest), all of one length n, with an entry for m.Output and
+// for every input's Series. m and data are not modified.
+//
+// # Residuals and conditioning
+//
+// With w_t = D(B) y_t and z_i,t = D_i(B) x_i,t the differenced series,
+//
+//	u_i,t = omega_i(B)/delta_i(B) B^b_i z_i,t
+//	n_t   = w_t - c - sum_i u_i,t
+//	a_t   = phi(B)/theta(B) n_t.
+//
+// The input filters run from index 0 with z_i,t = 0 before index d_i
+// (the degree of D_i) and u_i,t = 0 before the start (zero pre-sample
+// values after differencing). n_t is used from NoiseStart = max(d,
+// max_i(d_i + b_i + s_i)), where d is the degree of D and s_i that of
+// omega_i, so that every numerator sees only real data. The noise
+// recursion theta(B) a_t = phi(B) n_t starts at First = NoiseStart + p
+// with a_t = 0 for t < First and the actual n_{t-1..t-p}. The sum of
+// squares is sum_{t=First}^{n-1} a_t^2 over N = n - First residuals.
+//
+// # Jacobian
+//
+// Each derivative of a_t is itself a filtered series. Writing g_k(B) for
+// the derivative of a polynomial's expanded coefficients with respect to
+// parameter k (through products and powers of factors by the product
+// rule, sym.Poly.Grad):
+//
+//	omega_i:  d n_t = -g_k(B)/delta_i(B) B^b_i z_i,t          (numerator)
+//	delta_i:  d n_t = +g_k(B)/delta_i(B) u_i,t                (d(1/delta) = -g/delta^2)
+//	c:        d n_t = -1
+//	then      d a_t = phi(B)/theta(B) d n_t
+//	phi:      d a_t = +g_k(B)/theta(B) n_t
+//	theta:    d a_t = -g_k(B)/theta(B) a_t                    (from theta a = phi n)
+//
+// with the same conditioning (derivatives zero before First, the
+// moving-average recursion started at First). The sums of contributions
+// give each Jacobian column; all are computed with the recursive filter
+// kernel without allocation per sample.
+//
+// # Start values and starts
+//
+// A polynomial whose free coefficients all have Value 0 gets computed
+// start values; one with any non-zero free Value is started from the
+// values as written (the spec's start values). Computed starts: the
+// impulse-response weights of each input by least squares of w_t on
+// c and z_i,t-b_i-k, k = 0..s_i+3r_i+2 (over at most the last 20000
+// samples), turned into delta_i from the weights beyond lag s_i and into
+// omega_i = delta_i v_i (truncated) (Box, Jenkins & Reinsel, chapter on
+// transfer-function identification); the noise by Hannan-Rissanen on the
+// implied n_t. A polynomial with several factors or powers is matched to
+// the target coefficients by least squares. Further candidates (noise at
+// zero, denominators scaled by 0.5 and 1.5 when stable) are screened by
+// their sum of squares and the best FitSettings.Starts refined; the
+// lowest sum of squares wins.
+//
+// # Errors
+//
+// *FitError for missing, extra or unequal series, too few observations
+// (N must exceed the number of free parameters), a model with nothing
+// free, free differencing coefficients, a zero constant term in a
+// denominator; *SampleError for a NaN or infinite sample (series and
+// index). When ctx is done the best point so far is returned with
+// Converged false and Reason saying so, and a nil error. A fit that does
+// not converge also returns its best point, with a warning.
+//
+// References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
+// G. M. (2015). Time Series Analysis: Forecasting and Control, 5th ed.,
+// Wiley: chapters on identification, fitting and checking of
+// transfer-function models.
+func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+	var set FitSettings
+	if s != nil {
+		set = *s
+	}
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	w, err := fitPrepare(m, data, set)
+	if err != nil {
+		return nil, err
+	}
+	return w.run(ctx, set)
+}
+
+// fitInput is the working state of one input term.
+type fitInput struct {
+	in         *Input // into the working model clone
+	z          []float64
+	s, u, q    []float64
+	numC, denC []float64
+	numD, denD [][]float64
+	denFree    bool
+	d          int
+}
+
+// fitWork is the working state of one fit; nothing in it is shared.
+type fitWork struct {
+	m       Model // working clone whose coefficient values are set per evaluation
+	names   []string
+	coefs   [][]*Coef
+	index   map[string]int
+	n       int
+	cond    Conditioning
+	w       []float64
+	ins     []fitInput
+	ar, ma  Poly
+	arC     []float64
+	maC     []float64
+	arD     [][]float64
+	maD     [][]float64
+	nn, a   []float64
+	dn, col []float64
+	mone    []float64
+	scratch []float64
+}
+
+var fitOne = []float64{1}
+
+func (w *fitWork) idx(name string) int {
+	if k, ok := w.index[name]; ok {
+		return k
+	}
+	return -1
+}
+
+// fitPrepare validates m and data and builds the working state.
+func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
+	if m.Output == "" {
+		return nil, &FitError{Problem: NoOutput}
+	}
+	w := &fitWork{m: m.Clone(), index: map[string]int{}}
+	held := map[string]bool{}
+	add := func(c *Coef) {
+		if c.Name == "" {
+			return
+		}
+		if !c.Free {
+			held[c.Name] = true
+			return
+		}
+		k, ok := w.index[c.Name]
+		if !ok {
+			k = len(w.names)
+			w.index[c.Name] = k
+			w.names = append(w.names, c.Name)
+			w.coefs = append(w.coefs, nil)
+		}
+		w.coefs[k] = append(w.coefs[k], c)
+	}
+	var diffErr error
+	noFree := func(p Poly) {
+		p.Each(func(c *Coef) {
+			if c.Name != "" && c.Free && diffErr == nil {
+				diffErr = &FitError{Problem: FixedDifferencing, Series: c.Name}
+			}
+		})
+	}
+	noFree(w.m.Diff)
+	if w.m.Const != nil {
+		add(w.m.Const)
+	}
+	for i := range w.m.Inputs {
+		in := &w.m.Inputs[i]
+		noFree(in.Diff)
+		in.Num.Each(add)
+		in.Den.Each(add)
+	}
+	if w.m.Noise != nil {
+		w.ma, w.ar = w.m.Noise.MA, w.m.Noise.AR
+		w.ma.Each(add)
+		w.ar.Each(add)
+	}
+	if diffErr != nil {
+		return nil, diffErr
+	}
+	for name := range held {
+		if _, ok := w.index[name]; ok {
+			return nil, &FitError{Problem: MixedFreedom, Series: name}
+		}
+	}
+	if len(w.names) == 0 {
+		return nil, &FitError{Problem: NothingFree}
+	}
+	// Data: presence, extras, lengths, finiteness.
+	y, ok := data[m.Output]
+	if !ok {
+		return nil, &FitError{Problem: MissingSeries, Series: m.Output, Detail: "output"}
+	}
+	used := map[string]bool{m.Output: true}
+	for _, in := range m.Inputs {
+		if _, ok := data[in.Series]; !ok {
+			return nil, &FitError{Problem: MissingSeries, Series: in.Series, Detail: "input"}
+		}
+		used[in.Series] = true
+	}
+	if !set.IgnoreExtra {
+		var extra []string
+		for name := range data {
+			if !used[name] {
+				extra = append(extra, name)
+			}
+		}
+		if len(extra) > 0 {
+			sort.Strings(extra)
+			return nil, &FitError{Problem: ExtraSeries, Series: extra[0]}
+		}
+	}
+	n := len(y)
+	names := make([]string, 0, len(used))
+	for name := range used {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		x := data[name]
+		if len(x) != n {
+			return nil, &FitError{Problem: UnequalLengths, Series: name, Len: len(x), Want: n}
+		}
+		for t, v := range x {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, &SampleError{Series: name, Index: t, Value: v}
+			}
+		}
+	}
+	if err := fitCheckConst(w.m); err != nil {
+		return nil, err
+	}
+	// Conditioning.
+	dc := w.m.Diff.Coeffs()
+	d := len(dc) - 1
+	ts := d
+	w.ins = make([]fitInput, len(w.m.Inputs))
+	for i := range w.m.Inputs {
+		in := &w.m.Inputs[i]
+		fi := &w.ins[i]
+		fi.in = in
+		fi.d = in.Diff.Degree()
+		ts = max(ts, fi.d+in.Delay+in.Num.Degree())
+		in.Den.Each(func(c *Coef) {
+			if w.idx(c.Name) >= 0 {
+				fi.denFree = true
+			}
+		})
+	}
+	p := w.ar.Degree()
+	t0 := max(ts+p, set.First)
+	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0}
+	nres := n - t0
+	if nres <= len(w.names) {
+		return nil, &FitError{Problem: TooFewObservations, Series: m.Output, Len: max(nres, 0), Want: len(w.names) + 1,
+			Detail: "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"}
+	}
+	w.n = n
+	// Differenced series (fixed), zero before the differencing degree.
+	w.w = fitDiff(y, dc)
+	for i := range w.ins {
+		fi := &w.ins[i]
+		fi.z = fitDiff(data[fi.in.Series], fi.in.Diff.Coeffs())
+		fi.s = make([]float64, n)
+		fi.u = make([]float64, n)
+		if fi.denFree {
+			fi.q = make([]float64, n)
+		}
+	}
+	w.nn = make([]float64, n)
+	w.a = make([]float64, n)
+	w.dn = make([]float64, n)
+	w.col = make([]float64, nres)
+	w.mone = make([]float64, n)
+	for t := range w.mone {
+		w.mone[t] = -1
+	}
+	return w, nil
+}
+
+// fitCheckConst reports a zero constant term in a denominator or noise
+// polynomial as written.
+func fitCheckConst(m Model) error {
+	chk := func(p Poly, what string) error {
+		if c := p.Coeffs(); c[0] == 0 {
+			return &FitError{Problem: BadDenominator, Series: what}
+		}
+		return nil
+	}
+	for _, in := range m.Inputs {
+		if err := chk(in.Den, in.Series); err != nil {
+			return err
+		}
+	}
+	if m.Noise != nil {
+		if err := chk(m.Noise.MA, "noise MA"); err != nil {
+			return err
+		}
+		if err := chk(m.Noise.AR, "noise AR"); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// fitDiff returns D(B) x over the full length with zeros before index
+// deg D.
+func fitDiff(x, dc []float64) []float64 {
+	out := make([]float64, len(x))
+	d := len(dc) - 1
+	for t := d; t < len(x); t++ {
+		s := 0.0
+		for k, c := range dc {
+			s += c * x[t-k]
+		}
+		out[t] = s
+	}
+	return out
+}
+
+// set writes the parameter vector into the working model.
+func (w *fitWork) set(x []float64) {
+	for k, cs := range w.coefs {
+		for _, c := range cs {
+			c.Value = x[k]
+		}
+	}
+}
+
+// params returns the current parameter vector.
+func (w *fitWork) params() []float64 {
+	x := make([]float64, len(w.names))
+	for k, cs := range w.coefs {
+		x[k] = cs[0].Value
+	}
+	return x
+}
+
+var errFitFilter = errors.New("tf: filter output not finite")
+
+// noiseSeries computes u_i and n_t for the current values; it fills the
+// polynomial coefficients and derivatives.
+func (w *fitWork) noiseSeries() {
+	n := w.n
+	ts := w.cond.NoiseStart
+	k := len(w.names)
+	for i := range w.ins {
+		fi := &w.ins[i]
+		fi.numC, fi.numD = fi.in.Num.Grad(w.idx, k)
+		fi.denC, fi.denD = fi.in.Den.Grad(w.idx, k)
+		b := fi.in.Delay
+		clear(fi.s[:min(b, n)])
+		if b < n {
+			filter.Run(fi.s[b:], fitOne, fi.denC, fi.z[:n-b])
+		}
+		filter.Run(fi.u, fi.numC, fitOne, fi.s)
+		if fi.denFree {
+			filter.Run(fi.q, fitOne, fi.denC, fi.u)
+		}
+	}
+	c := 0.0
+	if w.m.Const != nil {
+		c = w.m.Const.Value
+	}
+	nn := w.nn
+	copy(nn[ts:], w.w[ts:])
+	for t := ts; t < n; t++ {
+		nn[t] -= c
+	}
+	for i := range w.ins {
+		u := w.ins[i].u[ts:n]
+		v := nn[ts:n]
+		for t := range v {
+			v[t] -= u[t]
+		}
+	}
+}
+
+// resid computes a_t from n_t; it returns the sum of squares.
+func (w *fitWork) resid() float64 {
+	k := len(w.names)
+	w.arC, w.arD = w.ar.Grad(w.idx, k)
+	w.maC, w.maD = w.ma.Grad(w.idx, k)
+	ts, t0 := w.cond.NoiseStart, w.cond.First
+	filter.RunInit(w.a[t0:], w.arC, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
+	s := 0.0
+	for _, v := range w.a[t0:] {
+		s += v * v
+	}
+	return s
+}
+
+// eval is the lm residual function.
+func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
+	w.set(x)
+	w.noiseSeries()
+	f := w.resid()
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return errFitFilter
+	}
+	t0 := w.cond.First
+	copy(r, w.a[t0:])
+	if jac == nil {
+		return nil
+	}
+	w.jacobian(jac)
+	return nil
+}
+
+// jacobian fills the columns d a_t / d x_k for t >= First.
+func (w *fitWork) jacobian(jac [][]float64) {
+	ts, t0 := w.cond.NoiseStart, w.cond.First
+	n := w.n
+	for k := range jac {
+		col := jac[k]
+		first := true
+		addCol := func(src []float64) {
+			if first {
+				copy(col, src)
+				first = false
+				return
+			}
+			for t, v := range src {
+				col[t] += v
+			}
+		}
+		// Input-side contributions: d n_t over [ts, n).
+		dnSet := false
+		dn := w.dn
+		addDn := func(g []float64, src []float64) {
+			if !dnSet {
+				filter.RunInit(dn[ts:], g, fitOne, src[ts:], src[:ts], nil)
+				dnSet = true
+				return
+			}
+			tmp := w.scratchN(n - ts)
+			filter.RunInit(tmp, g, fitOne, src[ts:], src[:ts], nil)
+			d := dn[ts:]
+			for t, v := range tmp {
+				d[t] += v
+			}
+		}
+		if w.m.Const != nil && w.idx(w.m.Const.Name) == k {
+			if !dnSet {
+				copy(dn[ts:], w.mone[ts:])
+				dnSet = true
+			} else {
+				for t := ts; t < n; t++ {
+					dn[t]--
+				}
+			}
+		}
+		for i := range w.ins {
+			fi := &w.ins[i]
+			if g := fi.numD[k]; g != nil {
+				addDn(fitNeg(g), fi.s)
+			}
+			if g := fi.denD[k]; g != nil {
+				addDn(g, fi.q)
+			}
+		}
+		if dnSet {
+			if first {
+				filter.RunInit(col, w.arC, w.maC, dn[t0:], dn[ts:t0], nil)
+				first = false
+			} else {
+				tmp := w.scratchN(n - t0)
+				filter.RunInit(tmp, w.arC, w.maC, dn[t0:], dn[ts:t0], nil)
+				addCol(tmp)
+			}
+		}
+		if g := w.arD[k]; g != nil {
+			tmp := col
+			if !first {
+				tmp = w.scratchN(n - t0)
+			}
+			filter.RunInit(tmp, g, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
+			if !first {
+				addCol(tmp)
+			}
+			first = false
+		}
+		if g := w.maD[k]; g != nil {
+			tmp := col
+			if !first {
+				tmp = w.scratchN(n - t0)
+			}
+			filter.Run(tmp, fitNeg(g), w.maC, w.a[t0:])
+			if !first {
+				addCol(tmp)
+			}
+			first = false
+		}
+		if first {
+			clear(col)
+		}
+	}
+}
+
+func (w *fitWork) scratchN(m int) []float64 {
+	if cap(w.scratch) < m {
+		w.scratch = make([]float64, m)
+	}
+	return w.scratch[:m]
+}
+
+func fitNeg(g []float64) []float64 {
+	out := make([]float64, len(g))
+	for i, v := range g {
+		out[i] = -v
+	}
+	return out
+}
+
+// run performs the starts, the refinements and builds the Estimate.
+func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
+	cands := w.startCandidates()
+	nStarts := set.Starts
+	if nStarts <= 0 {
+		nStarts = 1
+		if w.multimodal() {
+			nStarts = 2
+		}
+	}
+	type scored struct {
+		x []float64
+		f float64
+	}
+	var sc []scored
+	for _, x := range cands {
+		w.set(x)
+		w.noiseSeries()
+		f := w.resid()
+		if math.IsNaN(f) || math.IsInf(f, 0) {
+			continue
+		}
+		sc = append(sc, scored{x, f})
+	}
+	if len(sc) == 0 {
+		// No candidate is admissible: fall back to all zeros but
+		// constant terms, which always filters.
+		x := make([]float64, len(w.names))
+		sc = append(sc, scored{x, math.Inf(1)})
+	}
+	sort.SliceStable(sc, func(i, j int) bool { return sc[i].f < sc[j].f })
+	maxIter := set.MaxIter
+	if maxIter <= 0 {
+		maxIter = 200
+	}
+	nres := w.n - w.cond.First
+	prob := lm.Problem{M: nres, N: len(w.names), Eval: w.eval}
+	var best *lm.Result
+	var bestStart []float64
+	var firstErr error
+	for i := 0; i < len(sc) && i < nStarts; i++ {
+		res, err := lm.Minimize(ctx, prob, sc[i].x, &lm.Settings{MaxIter: maxIter})
+		if err != nil {
+			if firstErr == nil {
+				firstErr = err
+			}
+			continue
+		}
+		if best == nil || res.SSQ < best.SSQ {
+			r := res
+			best = &r
+			bestStart = sc[i].x
+		}
+		if res.Reason == lm.Canceled {
+			break
+		}
+	}
+	if best == nil {
+		return nil, &FitError{Problem: TooFewObservations, Series: w.m.Output, Len: nres, Want: len(w.names) + 1,
+			Detail: "no admissible start point: " + firstErr.Error()}
+	}
+	return w.estimate(best, bestStart, len(sc)), nil
+}
+
+// multimodal reports whether the model has free denominator or MA
+// coefficients.
+func (w *fitWork) multimodal() bool {
+	for _, fi := range w.ins {
+		if fi.denFree {
+			return true
+		}
+	}
+	found := false
+	w.ma.Each(func(c *Coef) {
+		if w.idx(c.Name) >= 0 {
+			found = true
+		}
+	})
+	return found
+}
+
+// estimate builds the result from the best lm result.
+func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate {
+	k := len(w.names)
+	w.set(res.X)
+	w.noiseSeries()
+	ssq := w.resid()
+	t0 := w.cond.First
+	nres := w.n - t0
+	e := &Estimate{
+		Model:        w.m.Clone(),
+		SSQ:          ssq,
+		N:            nres,
+		Conditioning: w.cond,
+		Iter:         res.Iter,
+		Evals:        res.Evals,
+		StartsTried:  tried,
+		Converged:    res.Reason.Converged(),
+		Reason:       res.Reason.String(),
+	}
+	e.Sigma2 = ssq / float64(nres-k)
+	ml := ssq / float64(nres)
+	e.LogLik = -0.5 * float64(nres) * (math.Log(2*math.Pi*ml) + 1)
+	e.AIC = -2*e.LogLik + 2*float64(k+1)
+	e.BIC = -2*e.LogLik + float64(k+1)*math.Log(float64(nres))
+	e.Resid = make([]float64, w.n)
+	for t := range e.Resid {
+		if t < t0 {
+			e.Resid[t] = math.NaN()
+		} else {
+			e.Resid[t] = w.a[t]
+		}
+	}
+	e.Cov = make([][]float64, k)
+	e.Corr = make([][]float64, k)
+	for i := range e.Cov {
+		e.Cov[i] = make([]float64, k)
+		e.Corr[i] = make([]float64, k)
+		for j := range e.Cov[i] {
+			if res.JTJInv != nil {
+				e.Cov[i][j] = e.Sigma2 * res.JTJInv.At(i, j)
+			} else {
+				e.Cov[i][j] = math.NaN()
+			}
+		}
+	}
+	e.Params = make([]Param, k)
+	for i, name := range w.names {
+		se := math.Sqrt(e.Cov[i][i])
+		if math.IsNaN(e.Cov[i][i]) || e.Cov[i][i] < 0 {
+			se = math.NaN()
+		}
+		e.Params[i] = Param{Name: name, Value: res.X[i], Start: start[i], SE: se, T: res.X[i] / se}
+	}
+	for i := range e.Corr {
+		for j := range e.Corr[i] {
+			e.Corr[i][j] = e.Cov[i][j] / (e.Params[i].SE * e.Params[j].SE)
+		}
+	}
+	e.Warnings = fitWarnings(e, res.JTJInv == nil)
+	return e
+}
+
+// Param returns the estimate named name and whether it exists.
+func (e *Estimate) Param(name string) (Param, bool) {
+	for _, p := range e.Params {
+		if p.Name == name {
+			return p, true
+		}
+	}
+	return Param{}, false
+}
+
+// fitARMA is a convenience used by the start values: Hannan-Rissanen on
+// a window of n_t, NaN-free.
+func fitARMA(x []float64, p, q int) (phi, theta []float64, err error) {
+	return arma.HannanRissanen(x, p, q, 0)
+}

@@ -1,0 +1,375 @@
+package tf
+
+import (
+	"context"
+	"math"
+	"math/cmplx"
+
+	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/poly"
+	"gonum.org/v1/gonum/mat"
+)
+
+// fitStartWindow caps the samples used for computed start values.
+const fitStartWindow = 20000
+
+// fitNeedsStart reports whether p has free coefficients that are all zero.
+func (w *fitWork) fitNeedsStart(p Poly) bool {
+	free, nonzero := false, false
+	p.Each(func(c *Coef) {
+		if w.idx(c.Name) >= 0 {
+			free = true
+			if c.Value != 0 {
+				nonzero = true
+			}
+		}
+	})
+	return free && !nonzero
+}
+
+// startCandidates returns the candidate start vectors, the primary first.
+func (w *fitWork) startCandidates() [][]float64 {
+	constStart := w.m.Const != nil && w.idx(w.m.Const.Name) >= 0 && w.m.Const.Value == 0
+	needIn := constStart
+	for i := range w.ins {
+		in := w.ins[i].in
+		if w.fitNeedsStart(in.Num) || w.fitNeedsStart(in.Den) {
+			needIn = true
+		}
+	}
+	if needIn {
+		w.fitImpulseStart(constStart)
+	}
+	noiseFree := false
+	w.ma.Each(func(c *Coef) { noiseFree = noiseFree || w.idx(c.Name) >= 0 })
+	w.ar.Each(func(c *Coef) { noiseFree = noiseFree || w.idx(c.Name) >= 0 })
+	if w.fitNeedsStart(w.ar) || w.fitNeedsStart(w.ma) {
+		w.fitNoiseStart()
+	}
+	primary := w.params()
+	cands := [][]float64{primary}
+	if noiseFree {
+		x := append([]float64(nil), primary...)
+		zero := func(c *Coef) {
+			if k := w.idx(c.Name); k >= 0 {
+				x[k] = 0
+			}
+		}
+		w.ma.Each(zero)
+		w.ar.Each(zero)
+		cands = append(cands, x)
+	}
+	for _, f := range []float64{0.5, 1.5} {
+		x := append([]float64(nil), primary...)
+		changed := false
+		for i := range w.ins {
+			if !w.ins[i].denFree {
+				continue
+			}
+			w.ins[i].in.Den.Each(func(c *Coef) {
+				if k := w.idx(c.Name); k >= 0 {
+					x[k] = primary[k] * f
+					changed = changed || primary[k] != 0
+				}
+			})
+		}
+		if !changed {
+			continue
+		}
+		w.set(x)
+		ok := true
+		for i := range w.ins {
+			if fitMaxZ(w.ins[i].in.Den.Coeffs()) >= 0.99 {
+				ok = false
+			}
+		}
+		if ok {
+			cands = append(cands, x)
+		}
+	}
+	w.set(primary)
+	return cands
+}
+
+// fitMaxZ returns the largest magnitude of the z-plane roots (1/roots in
+// B) of the polynomial c, 0 for a constant.
+func fitMaxZ(c []float64) float64 {
+	m := 0.0
+	for _, z := range fitZRoots(c) {
+		m = math.Max(m, cmplx.Abs(z))
+	}
+	return m
+}
+
+// fitZRoots returns the z-plane roots of c: the roots of B^deg c(1/B).
+func fitZRoots(c []float64) []complex128 {
+	c = poly.Trim(c, 0)
+	if len(c) <= 1 {
+		return nil
+	}
+	zs, err := poly.Roots(poly.Reciprocal(c))
+	if err != nil {
+		return nil
+	}
+	return zs
+}
+
+// fitImpulseStart sets start values of the inputs' polynomials (and the
+// constant) from least-squares impulse-response weights.
+func (w *fitWork) fitImpulseStart(constStart bool) {
+	n := w.n
+	lags := make([]int, len(w.ins))
+	for attempt := 0; attempt < 2; attempt++ {
+		tr := w.cond.OutputDiff
+		p := 0
+		if w.m.Const != nil {
+			p = 1
+		}
+		for i := range w.ins {
+			in := w.ins[i].in
+			s, r := in.Num.Degree(), in.Den.Degree()
+			if attempt == 0 {
+				lags[i] = min(s+3*r+2, 40)
+			} else {
+				lags[i] = s + r
+			}
+			tr = max(tr, w.ins[i].d+in.Delay+lags[i])
+			p += lags[i] + 1
+		}
+		tr = max(tr, n-fitStartWindow)
+		if n-tr < p+5 {
+			continue
+		}
+		coef, ok := fitOLS(w, tr, lags, p)
+		if !ok {
+			continue
+		}
+		off := 0
+		if w.m.Const != nil {
+			if constStart {
+				w.set(w.withValue(w.m.Const.Name, coef[0]))
+			}
+			off = 1
+		}
+		for i := range w.ins {
+			in := w.ins[i].in
+			v := coef[off : off+lags[i]+1]
+			off += lags[i] + 1
+			num, den := fitPade(v, in.Num.Degree(), in.Den.Degree())
+			if w.fitNeedsStart(in.Den) {
+				w.fitMatch(in.Den, den)
+			}
+			if w.fitNeedsStart(in.Num) {
+				w.fitMatch(in.Num, num)
+			}
+		}
+		return
+	}
+}
+
+// withValue returns the parameter vector with parameter name set to v.
+func (w *fitWork) withValue(name string, v float64) []float64 {
+	x := w.params()
+	if k := w.idx(name); k >= 0 {
+		x[k] = v
+	}
+	return x
+}
+
+// fitOLS regresses w_t on [1,] z_i,t-b_i-k (k = 0..lags[i]) over t in
+// [tr, n) and returns the coefficients.
+func fitOLS(w *fitWork, tr int, lags []int, p int) ([]float64, bool) {
+	n := w.n
+	xtx := mat.NewSymDense(p, nil)
+	xty := make([]float64, p)
+	row := make([]float64, p)
+	for t := tr; t < n; t++ {
+		j := 0
+		if w.m.Const != nil {
+			row[0] = 1
+			j = 1
+		}
+		for i := range w.ins {
+			z := w.ins[i].z
+			b := w.ins[i].in.Delay
+			for k := 0; k <= lags[i]; k++ {
+				row[j] = z[t-b-k]
+				j++
+			}
+		}
+		y := w.w[t]
+		for a := 0; a < p; a++ {
+			ra := row[a]
+			xty[a] += ra * y
+			for b := a; b < p; b++ {
+				xtx.SetSym(a, b, xtx.At(a, b)+ra*row[b])
+			}
+		}
+	}
+	// A small ridge keeps collinear lag sets solvable.
+	for a := 0; a < p; a++ {
+		xtx.SetSym(a, a, xtx.At(a, a)*(1+1e-9)+1e-300)
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(xtx) {
+		return nil, false
+	}
+	sol := mat.NewVecDense(p, nil)
+	if err := ch.SolveVecTo(sol, mat.NewVecDense(p, xty)); err != nil {
+		return nil, false
+	}
+	out := make([]float64, p)
+	for a := range out {
+		out[a] = sol.AtVec(a)
+		if math.IsNaN(out[a]) || math.IsInf(out[a], 0) {
+			return nil, false
+		}
+	}
+	return out, true
+}
+
+// fitPade turns impulse-response weights v_0..v_K (from the dead time on)
+// into numerator (degree s) and denominator (degree r) coefficients as
+// stored: sum_{l=0..r} den_l v_{j-l} = 0 for j > s (least squares over
+// j = s+1..K), num_j = sum_{l=0..min(j,r)} den_l v_{j-l} for j <= s. An
+// unstable or unsolvable denominator falls back to 1.
+func fitPade(v []float64, s, r int) (num, den []float64) {
+	den = make([]float64, r+1)
+	den[0] = 1
+	vk := func(j int) float64 {
+		if j < 0 || j >= len(v) {
+			return 0
+		}
+		return v[j]
+	}
+	if r > 0 && len(v) > s+1 {
+		a := mat.NewSymDense(r, nil)
+		g := make([]float64, r)
+		for j := s + 1; j < len(v); j++ {
+			for l := 1; l <= r; l++ {
+				g[l-1] -= vk(j-l) * vk(j)
+				for m := l; m <= r; m++ {
+					a.SetSym(l-1, m-1, a.At(l-1, m-1)+vk(j-l)*vk(j-m))
+				}
+			}
+		}
+		var ch mat.Cholesky
+		sol := mat.NewVecDense(r, nil)
+		if ch.Factorize(a) && ch.SolveVecTo(sol, mat.NewVecDense(r, g)) == nil {
+			for l := 1; l <= r; l++ {
+				den[l] = sol.AtVec(l - 1)
+			}
+			if fitMaxZ(den) >= 0.98 || math.IsNaN(den[1]) {
+				clear(den[1:])
+			}
+		}
+	}
+	num = make([]float64, s+1)
+	for j := 0; j <= s; j++ {
+		for l := 0; l <= min(j, r); l++ {
+			num[j] += den[l] * vk(j-l)
+		}
+	}
+	return num, den
+}
+
+// fitNoiseStart sets the noise polynomials' start values by
+// Hannan-Rissanen on n_t implied by the current input values.
+func (w *fitWork) fitNoiseStart() {
+	w.noiseSeries()
+	lo := max(w.cond.NoiseStart, w.n-fitStartWindow)
+	x := w.nn[lo:w.n]
+	mean := 0.0
+	for _, v := range x {
+		mean += v
+	}
+	mean /= float64(len(x))
+	xc := make([]float64, len(x))
+	for i, v := range x {
+		xc[i] = v - mean
+	}
+	phi, theta, err := fitARMA(xc, w.ar.Degree(), w.ma.Degree())
+	if err != nil {
+		return
+	}
+	before := w.params()
+	if w.fitNeedsStart(w.ar) {
+		w.fitMatch(w.ar, phi)
+	}
+	if w.fitNeedsStart(w.ma) {
+		w.fitMatch(w.ma, theta)
+	}
+	if fitMaxZ(w.ar.Coeffs()) >= 0.99 || fitMaxZ(w.ma.Coeffs()) >= 0.99 {
+		w.set(before)
+	}
+}
+
+// fitMatch sets the free coefficients of p so that its expanded
+// coefficients match target (index k = B^k) in least squares. Parameters
+// not in p are unchanged.
+func (w *fitWork) fitMatch(p Poly, target []float64) {
+	local := map[string]int{}
+	var ids []int
+	p.Each(func(c *Coef) {
+		k := w.idx(c.Name)
+		if k < 0 {
+			return
+		}
+		if _, ok := local[c.Name]; !ok {
+			local[c.Name] = len(ids)
+			ids = append(ids, k)
+		}
+	})
+	if len(ids) == 0 {
+		return
+	}
+	m := p.Degree() + 1
+	orig := w.params()
+	x := w.params()
+	x0 := make([]float64, len(ids))
+	for j, k := range ids {
+		x0[j] = x[k]
+	}
+	li := func(name string) int {
+		if j, ok := local[name]; ok {
+			return j
+		}
+		return -1
+	}
+	prob := lm.Problem{M: m, N: len(ids), Eval: func(xl, r []float64, jac [][]float64) error {
+		for j, k := range ids {
+			x[k] = xl[j]
+		}
+		w.set(x)
+		c, d := p.Grad(li, len(ids))
+		for i := range r {
+			t := 0.0
+			if i < len(target) {
+				t = target[i]
+			}
+			r[i] = 0
+			if i < len(c) {
+				r[i] = c[i]
+			}
+			r[i] -= t
+		}
+		for j := range jac {
+			for i := range jac[j] {
+				jac[j][i] = 0
+				if d[j] != nil && i < len(d[j]) {
+					jac[j][i] = d[j][i]
+				}
+			}
+		}
+		return nil
+	}}
+	res, err := lm.Minimize(context.Background(), prob, x0, &lm.Settings{MaxIter: 100})
+	if err != nil {
+		w.set(orig)
+		return
+	}
+	for j, k := range ids {
+		x[k] = res.X[j]
+	}
+	w.set(x)
+}
