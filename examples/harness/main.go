@@ -1,0 +1,105 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+)
+
+func main() {
+	if err := run(os.Stdout); err != nil {
+		fmt.Fprintln(os.Stderr, "harness:", err)
+		os.Exit(1)
+	}
+}
+
+// Tuning under test: gain 8 %/degC, integral time 20 min (about the
+// valve path's time constant, from the identified model).
+const (
+	tuneKc = 8.0
+	tuneTi = 20.0
+)
+
+// SetpointStep is the morning setpoint change: 16 -> 20 degC at minute
+// 60, outdoor steady at 2 degC.
+func SetpointStep() Scenario {
+	return Scenario{
+		Name: "setpoint step 16 -> 20 degC", Minutes: 360, Seed: 1,
+		Setpoint: func(k int) float64 {
+			if k < 60 {
+				return 16
+			}
+			return 20
+		},
+		Outdoor: func(int) float64 { return 2 },
+	}
+}
+
+// DisturbanceStep is a cold front: the outdoor temperature falls from 4
+// to -4 degC at minute 60 while the setpoint stays at 18 degC.
+func DisturbanceStep() Scenario {
+	return Scenario{
+		Name: "outdoor step 4 -> -4 degC", Minutes: 360, Seed: 2,
+		Setpoint: func(int) float64 { return 18 },
+		Outdoor: func(k int) float64 {
+			if k < 60 {
+				return 4
+			}
+			return -4
+		},
+	}
+}
+
+// steadyValve is the valve opening that holds temp at sp with outdoor
+// temperature out, by the model's gains.
+func steadyValve(sp, out float64) float64 {
+	return (sp - plantConst - plantOutdoorGain*out) / plantValveGain
+}
+
+// newPI returns the controller under test, starting at valve u0 (%).
+func newPI(u0 float64) (*PI, error) { return NewPI(tuneKc, tuneTi, 1, 0, 100, u0) }
+
+// runWithPI runs sc with the PI under test starting at valve u0.
+func runWithPI(sc Scenario, u0 float64) (Trace, error) {
+	pi, err := newPI(u0)
+	if err != nil {
+		return Trace{}, err
+	}
+	return Run(sc, pi, u0)
+}
+
+func run(w io.Writer) error {
+	sc := SetpointStep()
+	tr, err := runWithPI(sc, steadyValve(16, 2))
+	if err != nil {
+		return err
+	}
+	m := Measure(tr.Temp, 60, 16, 20, 0.2, 1)
+	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min):\n", sc.Name, tuneKc, tuneTi)
+	fmt.Fprintf(w, "  settling to +-0.2 degC  %5.0f min\n", m.Settling)
+	fmt.Fprintf(w, "  overshoot               %5.1f %%\n", 100*m.Overshoot)
+	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", m.SteadyError)
+	fmt.Fprintf(w, "  valve at its limit      %5d min\n", atLimit(tr.Valve))
+
+	sc = DisturbanceStep()
+	tr, err = runWithPI(sc, steadyValve(18, 4))
+	if err != nil {
+		return err
+	}
+	m = Measure(tr.Temp, 60, 18, 18, 0.2, 1)
+	fmt.Fprintf(w, "%s:\n", sc.Name)
+	fmt.Fprintf(w, "  peak deviation          %5.2f degC\n", m.PeakDeviation)
+	fmt.Fprintf(w, "  back within +-0.2 degC  %5.0f min\n", m.Settling)
+	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", m.SteadyError)
+	return nil
+}
+
+func atLimit(u []float64) int {
+	n := 0
+	for _, v := range u {
+		if v <= 0 || v >= 100 {
+			n++
+		}
+	}
+	return n
+}
