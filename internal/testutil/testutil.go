@@ -1,0 +1,86 @@
+package testutil
+
+import (
+	"encoding/json"
+	"math"
+	"math/cmplx"
+	"os"
+	"path/filepath"
+	"runtime"
+	"testing"
+)
+
+// Root returns the repository root, found from this file's location, so
+// that tests in any package can open testdata/ files.
+func Root() string {
+	_, file, _, _ := runtime.Caller(0)
+	return filepath.Join(filepath.Dir(file), "..", "..")
+}
+
+// ReadJSON decodes the JSON file at path (relative to the repository
+// root) into v, failing the test on error.
+func ReadJSON(t testing.TB, path string, v any) {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(Root(), path))
+	if err != nil {
+		t.Fatalf("reading reference file: %v", err)
+	}
+	if err := json.Unmarshal(b, v); err != nil {
+		t.Fatalf("decoding %s: %v", path, err)
+	}
+}
+
+// RunningRelErr returns the largest |got_k - want_k| / max_{j<=k} |want_j|
+// (with the denominator floored at tiny to avoid division by zero), the
+// error measure for recursively computed series, whose rounding scales
+// with the largest value produced so far. Lengths must agree; a length
+// mismatch returns +Inf.
+func RunningRelErr(got, want []float64) float64 {
+	if len(got) != len(want) {
+		return math.Inf(1)
+	}
+	const tiny = 1e-300
+	scale, worst := tiny, 0.0
+	for k := range want {
+		scale = math.Max(scale, math.Abs(want[k]))
+		e := math.Abs(got[k]-want[k]) / scale
+		if math.IsNaN(e) {
+			return math.Inf(1)
+		}
+		worst = math.Max(worst, e)
+	}
+	return worst
+}
+
+// RootsErr returns the largest distance from each wanted root to a
+// distinct got root, matching greedily by nearest distance, relative to
+// max(1, |want|); +Inf when the counts differ.
+func RootsErr(got, want []complex128) float64 {
+	if len(got) != len(want) {
+		return math.Inf(1)
+	}
+	used := make([]bool, len(got))
+	worst := 0.0
+	for _, w := range want {
+		best, bi := math.Inf(1), -1
+		for i, g := range got {
+			if !used[i] {
+				if d := cmplx.Abs(g - w); d < best {
+					best, bi = d, i
+				}
+			}
+		}
+		used[bi] = true
+		worst = math.Max(worst, best/math.Max(1, cmplx.Abs(w)))
+	}
+	return worst
+}
+
+// Complex zips real and imaginary parts.
+func Complex(re, im []float64) []complex128 {
+	c := make([]complex128, len(re))
+	for i := range re {
+		c[i] = complex(re[i], im[i])
+	}
+	return c
+}
