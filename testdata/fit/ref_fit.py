@@ -1,0 +1,235 @@
+#!/usr/bin/python3
+"""Independent conditional-least-squares fits of transfer-function-noise models.
+
+Run with Debian's interpreter (scipy 1.10.1, numpy 1.24.2):
+
+    cd testdata/fit && /usr/bin/python3 ref_fit.py
+
+It simulates three datasets of our own (sim1.csv, sim2.csv with two inputs,
+sim3.csv with differencing and a product of MA factors; fixed seeds), reads
+the BJsales export (../bjsales/bjsales.csv, R datasets package, Series M of
+Box, Jenkins & Reinsel), fits every model with scipy.optimize.least_squares
+(method "lm", MINPACK, finite-difference Jacobian) on residuals computed
+with scipy.signal.lfilter, and writes ref_fit.json: for each case the model
+description (read by the Go tests to build the same tf.Model), the data
+file, the estimates, the sum of squares, the number of residuals and the
+first residual index.
+
+Conditioning (the same as tf.Fit, written independently here):
+  w_t = D(B) y_t for t >= d (zero before), z_i,t = D_i(B) x_i,t (zero before d_i);
+  u_i = omega_i/delta_i applied to B^b_i z_i by lfilter with zero initial state;
+  n_t = w_t - c - sum_i u_i,t used from ts = max(d, max_i d_i + b_i + s_i);
+  a_t = 0 for t < t0 = ts + p; for t >= t0, theta(B) a_t = phi(B) n_t with the
+  actual n_{t-1..t-p} and a pre-sample of zeros.
+"""
+import json
+import os
+
+import numpy as np
+from scipy.optimize import least_squares
+from scipy.signal import lfilter
+
+HERE = os.path.dirname(os.path.abspath(__file__))
+
+
+# A polynomial is a list of factors {"exp": e, "terms": [{"power", "neg", "name", "value"}]}.
+def T(power, name="", value=1.0, neg=False):
+    return {"power": power, "neg": neg, "name": name, "value": value}
+
+
+def F(*terms, exp=1):
+    return {"exp": exp, "terms": list(terms)}
+
+
+ONE_MINUS_B = [F(T(0), T(1, neg=True))]
+
+
+def coeffs(p, par):
+    c = np.array([1.0])
+    for f in p:
+        deg = max(t["power"] for t in f["terms"])
+        base = np.zeros(deg + 1)
+        for t in f["terms"]:
+            v = par[t["name"]] if t["name"] else t["value"]
+            base[t["power"]] += -v if t["neg"] else v
+        for _ in range(f["exp"]):
+            c = np.convolve(c, base)
+    return c
+
+
+def degree(p):
+    return sum(max(t["power"] for t in f["terms"]) * f["exp"] for f in p)
+
+
+def names_of(model):
+    out = []
+
+    def add(p):
+        for f in p:
+            for t in f["terms"]:
+                if t["name"] and t["name"] not in out:
+                    out.append(t["name"])
+
+    if model["const"]:
+        out.append(model["const"])
+    for inp in model["inputs"]:
+        add(inp["num"])
+        add(inp["den"])
+    add(model["ma"])
+    add(model["ar"])
+    return out
+
+
+def diffed(x, p):
+    d = degree(p)
+    w = lfilter(coeffs(p, {}), [1.0], x)
+    w[:d] = 0.0
+    return w
+
+
+def conditioning(model):
+    ts = degree(model["diff"])
+    for inp in model["inputs"]:
+        ts = max(ts, degree(inp["diff"]) + inp["delay"] + degree(inp["num"]))
+    return ts, ts + degree(model["ar"])
+
+
+def residuals(model, data, par):
+    y = data[model["output"]]
+    n = len(y)
+    ts, t0 = conditioning(model)
+    nn = diffed(y, model["diff"])
+    if model["const"]:
+        nn = nn - par[model["const"]]
+    for inp in model["inputs"]:
+        z = diffed(data[inp["series"]], inp["diff"])
+        b = inp["delay"]
+        zb = np.concatenate([np.zeros(b), z[: n - b]])
+        nn = nn - lfilter(coeffs(inp["num"], par), coeffs(inp["den"], par), zb)
+    phi = coeffs(model["ar"], par)
+    theta = coeffs(model["ma"], par)
+    v = np.zeros(n - t0)
+    for k, c in enumerate(phi):
+        v += c * nn[t0 - k : n - k]
+    return lfilter([1.0], theta, v)
+
+
+def fit(model, data, start):
+    names = names_of(model)
+    x0 = np.array([start[k] for k in names])
+
+    def f(x):
+        return residuals(model, data, dict(zip(names, x)))
+
+    res = least_squares(f, x0, method="lm", xtol=1e-15, ftol=1e-15, gtol=1e-15, max_nfev=20000)
+    r = f(res.x)
+    return dict(zip(names, res.x.tolist())), float(r @ r), len(r), res
+
+
+def write_csv(path, cols):
+    keys = list(cols)
+    with open(path, "w") as fh:
+        fh.write(",".join(keys) + "\n")
+        for i in range(len(cols[keys[0]])):
+            fh.write(",".join(repr(float(cols[k][i])) for k in keys) + "\n")
+
+
+def arma_noise(rng, n, ar, ma, sd, burn=500):
+    e = sd * rng.standard_normal(n + burn)
+    return lfilter(ma, ar, e)[burn:]
+
+
+def simulate():
+    sims = {}
+    # sim1: one input, b=2, s=1, r=1, ARMA(1,1) noise, constant, n = 500.
+    rng = np.random.default_rng(20261201)
+    n = 500
+    x = arma_noise(rng, n, [1, -0.5], [1], 1.0)
+    u = lfilter([2.0, -0.8], [1, -0.6], np.concatenate([np.zeros(2), x[: n - 2]]))
+    y = 10.0 + u + arma_noise(rng, n, [1, -0.7], [1, -0.4], 0.5)
+    sims["sim1"] = {"y": y, "x": x}
+    # sim2: two inputs, x1 b=1 s=0 r=1, x2 b=4 s=1 r=0, AR(2) noise, n = 600.
+    rng = np.random.default_rng(20261202)
+    n = 600
+    x1 = arma_noise(rng, n, [1, -0.3], [1], 1.0)
+    x2 = rng.standard_normal(n)
+    u1 = lfilter([1.5], [1, -0.8], np.concatenate([np.zeros(1), x1[: n - 1]]))
+    u2 = lfilter([-0.7, 0.5], [1], np.concatenate([np.zeros(4), x2[: n - 4]]))
+    y = -3.0 + u1 + u2 + arma_noise(rng, n, [1, -1.1, 0.3], [1], 0.4)
+    sims["sim2"] = {"y": y, "x1": x1, "x2": x2}
+    # sim3: (1-B) y = w(B)/delta(B) B^2 (1-B) x + (1 - t1 B)(1 - T1 B^4) a,
+    # s = 1, r = 2 (oscillatory poles), n = 800, no constant.
+    rng = np.random.default_rng(20261203)
+    n = 800
+    x = np.cumsum(rng.standard_normal(n))
+    z = np.concatenate([[0.0], np.diff(x)])
+    u = lfilter([0.9, 0.4], [1, -1.2, 0.5], np.concatenate([np.zeros(2), z[: n - 2]]))
+    noise = arma_noise(rng, n, [1], np.convolve([1, -0.5], [1, 0, 0, 0, -0.3]), 0.3)
+    y = np.cumsum(u + noise)
+    sims["sim3"] = {"y": y, "x": x}
+    return sims
+
+
+def main():
+    cases = []
+    # BJsales: (1 - B) sales = c + w0 B^3/(1 - d1 B) (1 - B) lead + (1 - t1 B) a.
+    bj = np.loadtxt(os.path.join(HERE, "..", "bjsales", "bjsales.csv"), delimiter=",", skiprows=1)
+    bjdata = {"sales": bj[:, 1], "lead": bj[:, 2]}
+    cases.append({
+        "name": "bjsales",
+        "file": "../bjsales/bjsales.csv",
+        "model": {"output": "sales", "diff": ONE_MINUS_B, "const": "c",
+                  "inputs": [{"series": "lead", "diff": ONE_MINUS_B, "delay": 3,
+                              "num": [F(T(0, "w0", 0.0))], "den": [F(T(0), T(1, "d1", 0.0, neg=True))]}],
+                  "ma": [F(T(0), T(1, "t1", 0.0, neg=True))], "ar": []},
+        "start": {"c": 0.03, "w0": 4.0, "d1": 0.6, "t1": 0.4},
+        "data": bjdata,
+    })
+    sims = simulate()
+    for name, cols in sims.items():
+        write_csv(os.path.join(HERE, name + ".csv"), cols)
+    cases.append({
+        "name": "sim1", "file": "sim1.csv",
+        "model": {"output": "y", "diff": [], "const": "c",
+                  "inputs": [{"series": "x", "diff": [], "delay": 2,
+                              "num": [F(T(0, "w0", 0.0), T(1, "w1", 0.0, neg=True))],
+                              "den": [F(T(0), T(1, "d1", 0.0, neg=True))]}],
+                  "ma": [F(T(0), T(1, "t1", 0.0, neg=True))], "ar": [F(T(0), T(1, "p1", 0.0, neg=True))]},
+        "start": {"c": 9.0, "w0": 1.5, "w1": 0.5, "d1": 0.5, "t1": 0.2, "p1": 0.5},
+        "data": sims["sim1"],
+    })
+    cases.append({
+        "name": "sim2", "file": "sim2.csv",
+        "model": {"output": "y", "diff": [], "const": "c",
+                  "inputs": [{"series": "x1", "diff": [], "delay": 1,
+                              "num": [F(T(0, "a0", 0.0))], "den": [F(T(0), T(1, "a1", 0.0, neg=True))]},
+                             {"series": "x2", "diff": [], "delay": 4,
+                              "num": [F(T(0, "b0", 0.0), T(1, "b1", 0.0))], "den": []}],
+                  "ma": [], "ar": [F(T(0), T(1, "p1", 0.0, neg=True), T(2, "p2", 0.0, neg=True))]},
+        "start": {"c": -2.0, "a0": 1.0, "a1": 0.5, "b0": -0.5, "b1": 0.3, "p1": 0.8, "p2": -0.1},
+        "data": sims["sim2"],
+    })
+    cases.append({
+        "name": "sim3", "file": "sim3.csv",
+        "model": {"output": "y", "diff": ONE_MINUS_B, "const": "",
+                  "inputs": [{"series": "x", "diff": ONE_MINUS_B, "delay": 2,
+                              "num": [F(T(0, "w0", 0.0), T(1, "w1", 0.0))],
+                              "den": [F(T(0), T(1, "d1", 0.0, neg=True), T(2, "d2", 0.0, neg=True))]}],
+                  "ma": [F(T(0), T(1, "t1", 0.0, neg=True)), F(T(0), T(4, "T1", 0.0, neg=True))], "ar": []},
+        "start": {"w0": 0.7, "w1": 0.2, "d1": 1.0, "d2": -0.4, "t1": 0.3, "T1": 0.1},
+        "data": sims["sim3"],
+    })
+    out = []
+    for c in cases:
+        est, ssq, nres, res = fit(c["model"], c["data"], c["start"])
+        ts, t0 = conditioning(c["model"])
+        print(c["name"], est, "ssq", ssq, "N", nres, "status", res.status, "nfev", res.nfev)
+        out.append({"name": c["name"], "file": c["file"], "model": c["model"], "estimates": est,
+                    "ssq": ssq, "n_resid": nres, "first": t0, "noise_start": ts,
+                    "source": "scipy 1.10.1 optimize.least_squares(method='lm') on signal.lfilter residuals"})
+    with open(os.path.join(HERE, "ref_fit.json"), "w") as fh:
+        json.dump(out, fh, indent=1)
+
+
+if __name__ == "__main__":
+    main()

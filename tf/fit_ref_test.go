@@ -1,0 +1,191 @@
+package tf
+
+import (
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"testing"
+
+	"github.com/backshift/backshift/arma"
+	"gonum.org/v1/gonum/floats/scalar"
+)
+
+// fitRefCase is one entry of testdata/fit/ref_fit.json, written by
+// testdata/fit/ref_fit.py (scipy 1.10.1 optimize.least_squares on
+// signal.lfilter residuals with the conditioning of Fit).
+type fitRefCase struct {
+	Name  string `json:"name"`
+	File  string `json:"file"`
+	Model struct {
+		Output string      `json:"output"`
+		Diff   []fitRefFac `json:"diff"`
+		Const  string      `json:"const"`
+		Inputs []fitRefIn  `json:"inputs"`
+		MA     []fitRefFac `json:"ma"`
+		AR     []fitRefFac `json:"ar"`
+	} `json:"model"`
+	Estimates  map[string]float64 `json:"estimates"`
+	SSQ        float64            `json:"ssq"`
+	NResid     int                `json:"n_resid"`
+	First      int                `json:"first"`
+	NoiseStart int                `json:"noise_start"`
+}
+
+type fitRefIn struct {
+	Series string      `json:"series"`
+	Diff   []fitRefFac `json:"diff"`
+	Delay  int         `json:"delay"`
+	Num    []fitRefFac `json:"num"`
+	Den    []fitRefFac `json:"den"`
+}
+
+type fitRefFac struct {
+	Exp   int `json:"exp"`
+	Terms []struct {
+		Power int     `json:"power"`
+		Neg   bool    `json:"neg"`
+		Name  string  `json:"name"`
+		Value float64 `json:"value"`
+	} `json:"terms"`
+}
+
+func fitRefPoly(fs []fitRefFac) Poly {
+	var p Poly
+	for _, f := range fs {
+		fac := Factor{Exp: f.Exp}
+		for _, t := range f.Terms {
+			fac.Terms = append(fac.Terms, fitTerm(t.Neg, t.Name, t.Value, t.Power))
+		}
+		p.Factors = append(p.Factors, fac)
+	}
+	return p
+}
+
+func (c fitRefCase) model() Model {
+	m := Model{Output: c.Model.Output, Diff: fitRefPoly(c.Model.Diff)}
+	if c.Model.Const != "" {
+		m.Const = &Coef{Name: c.Model.Const, Free: true}
+	}
+	for _, in := range c.Model.Inputs {
+		m.Inputs = append(m.Inputs, Input{Series: in.Series, Diff: fitRefPoly(in.Diff), Delay: in.Delay,
+			Num: fitRefPoly(in.Num), Den: fitRefPoly(in.Den)})
+	}
+	m.Noise = &arma.Noise{MA: fitRefPoly(c.Model.MA), AR: fitRefPoly(c.Model.AR)}
+	return m
+}
+
+func fitReadRef(t testing.TB) []fitRefCase {
+	b, err := os.ReadFile(filepath.Join("..", "testdata", "fit", "ref_fit.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var cs []fitRefCase
+	if err := json.Unmarshal(b, &cs); err != nil {
+		t.Fatal(err)
+	}
+	return cs
+}
+
+// fitReadCSV reads a CSV with a header into columns by name.
+func fitReadCSV(t testing.TB, path string) map[string][]float64 {
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := map[string][]float64{}
+	for _, row := range rows[1:] {
+		for j, name := range rows[0] {
+			v, err := strconv.ParseFloat(row[j], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			out[name] = append(out[name], v)
+		}
+	}
+	return out
+}
+
+func (c fitRefCase) data(t testing.TB) map[string][]float64 {
+	d := fitReadCSV(t, filepath.Join("..", "testdata", "fit", c.File))
+	delete(d, "t")
+	return d
+}
+
+// TestFitAgainstScipy fits the models of ref_fit.json from our own
+// computed start values (the spec's free values are all zero) and
+// compares with the independent scipy 1.10.1 least_squares fits started
+// elsewhere: estimates and sum of squares agree to 1e-6 relative (both
+// optimisers stop at relative sum-of-squares changes near 1e-15, which
+// places the estimates within ~1e-7 of the minimum in units of their own
+// scale).
+func TestFitAgainstScipy(t *testing.T) {
+	for _, c := range fitReadRef(t) {
+		t.Run(c.Name, func(t *testing.T) {
+			data := c.data(t)
+			est, err := Fit(context.Background(), c.model(), data, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if est.N != c.NResid || est.Conditioning.First != c.First || est.Conditioning.NoiseStart != c.NoiseStart {
+				t.Errorf("conditioning: N %d first %d start %d, scipy script N %d first %d start %d",
+					est.N, est.Conditioning.First, est.Conditioning.NoiseStart, c.NResid, c.First, c.NoiseStart)
+			}
+			if !scalar.EqualWithinRel(est.SSQ, c.SSQ, 1e-6) {
+				t.Errorf("SSQ %.12g, scipy %.12g", est.SSQ, c.SSQ)
+			}
+			for name, want := range c.Estimates {
+				p, ok := est.Param(name)
+				if !ok {
+					t.Fatalf("no parameter %s", name)
+				}
+				if !scalar.EqualWithinAbsOrRel(p.Value, want, 1e-9, 1e-6) {
+					t.Errorf("%s = %.10g, scipy %.10g (diff %.3g, SE %.3g)", name, p.Value, want, p.Value-want, p.SE)
+				}
+			}
+			if !est.Converged {
+				t.Errorf("not converged: %s", est.Reason)
+			}
+			t.Logf("%s: SSQ %.10g iter %d evals %d starts %d", c.Name, est.SSQ, est.Iter, est.Evals, est.StartsTried)
+		})
+	}
+}
+
+// TestFitBJsalesPublished compares the BJsales fit with the estimates
+// published for Series M (Box, Jenkins & Reinsel), recalled from memory:
+// c ~ 0.035, w0 ~ 4.82, d1 ~ 0.72, t1 ~ 0.54. d1 must agree within 0.01
+// and c within one standard error. w0 and t1 depend on the estimation
+// method and start-up convention (the MA coefficient moves by about 0.1
+// between reasonable conventions); they are checked against scipy in
+// TestFitAgainstScipy and only recorded here.
+func TestFitBJsalesPublished(t *testing.T) {
+	var c fitRefCase
+	for _, k := range fitReadRef(t) {
+		if k.Name == "bjsales" {
+			c = k
+		}
+	}
+	est, err := Fit(context.Background(), c.model(), c.data(t), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d1, _ := est.Param("d1")
+	cc, _ := est.Param("c")
+	if math.Abs(d1.Value-0.72) > 0.01 {
+		t.Errorf("d1 = %.4f, published 0.72 (from memory)", d1.Value)
+	}
+	if math.Abs(cc.Value-0.035) > cc.SE {
+		t.Errorf("c = %.4f (SE %.4f), published 0.035 (from memory)", cc.Value, cc.SE)
+	}
+	w0, _ := est.Param("w0")
+	t1, _ := est.Param("t1")
+	t.Logf("w0 = %.3f (published ~4.82, from memory), t1 = %.3f (published ~0.54, from memory)", w0.Value, t1.Value)
+}
