@@ -1,0 +1,154 @@
+package tf_test
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/tf"
+)
+
+func discretizeKind(t *testing.T, kind string, p map[string]float64, theta, T float64) tf.Rational {
+	t.Helper()
+	var r tf.Rational
+	var err error
+	switch kind {
+	case "fopdt":
+		r, err = tf.FOPDT{Gain: p["K"], TimeConstant: p["tau"], DeadTime: theta}.Discretize(T)
+	case "sopdt":
+		r, err = tf.SOPDT{Gain: p["K"], Tau1: p["tau1"], Tau2: p["tau2"], DeadTime: theta}.Discretize(T)
+	case "second":
+		r, err = tf.SecondOrder{Gain: p["K"], NaturalFrequency: p["wn"], Damping: p["zeta"], DeadTime: theta}.Discretize(T)
+	default:
+		t.Fatalf("unknown kind %q", kind)
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// TestDiscretizeScipyZOH compares the dead-time-free discretisations with
+// scipy.signal.cont2discrete(method='zoh') 1.10.1. scipy's numerator in
+// descending powers of z is {0, w0, w1, ...}: the leading zero is the
+// hold's one-sample delay, our Delay() == 1. Tolerance 1e-12 relative to
+// the largest coefficient: scipy forms the result by a matrix exponential
+// and ss2tf, we by closed forms; both are accurate to a few ulps at these
+// sample intervals (T between 1/30 and 1/2 of the time constants).
+func TestDiscretizeScipyZOH(t *testing.T) {
+	g := readGolden(t)
+	for _, c := range g.C2D {
+		t.Run(c.Name, func(t *testing.T) {
+			r := discretizeKind(t, c.Kind, c.Params, 0, c.T)
+			if r.Delay() != 1 {
+				t.Errorf("delay %d, want 1 (the hold)", r.Delay())
+			}
+			wantNum := c.NumZ[1:]
+			num := r.Num()
+			for len(num) < len(wantNum) {
+				num = append(num, 0)
+			}
+			scale := 0.0
+			for _, v := range wantNum {
+				scale = math.Max(scale, math.Abs(v))
+			}
+			for k := range wantNum {
+				if math.Abs(num[k]-wantNum[k]) > 1e-12*scale {
+					t.Errorf("num[%d] = %v, scipy.signal.cont2discrete %v", k, num[k], wantNum[k])
+				}
+			}
+			den := r.Den()
+			if len(den) != len(c.DenZ) {
+				t.Fatalf("den %v, scipy %v", den, c.DenZ)
+			}
+			for k := range den {
+				if math.Abs(den[k]-c.DenZ[k]) > 1e-12*math.Max(1, math.Abs(c.DenZ[k])) {
+					t.Errorf("den[%d] = %v, scipy.signal.cont2discrete %v", k, den[k], c.DenZ[k])
+				}
+			}
+		})
+	}
+}
+
+// TestDiscretizeFractionalDeadTime compares the discrete step response
+// with the continuous step response with dead time sampled at kT, which a
+// zero-order hold reproduces exactly (the step input is constant between
+// samples). Reference: scipy.linalg.expm on scipy.signal.tf2ss 1.10.1,
+// y(u) = C A^-1 (e^{Au} - I) B at u = kT - theta. Tolerance 1e-11 |K|:
+// coefficient rounding of a few eps |K| accumulated over 40 samples.
+func TestDiscretizeFractionalDeadTime(t *testing.T) {
+	g := readGolden(t)
+	for _, c := range g.Steps {
+		t.Run(c.Name, func(t *testing.T) {
+			r := discretizeKind(t, c.Kind, c.Params, c.Theta, c.T)
+			y := r.Step(len(c.Y))
+			k := math.Abs(c.Params["K"])
+			for i := range y {
+				if math.Abs(y[i]-c.Y[i]) > 1e-11*k {
+					t.Errorf("t=%g: step %v, scipy.linalg.expm %v", float64(i)*c.T, y[i], c.Y[i])
+				}
+			}
+		})
+	}
+}
+
+// TestFOPDTAnalytic checks the ZOH FOPDT with fractional dead time against
+// the closed-form continuous step response K (1 - exp(-(t-theta)/tau))
+// for t > theta, sampled at t = kT (common practice: the step response of
+// a first-order lag). Tolerance 1e-13 |K| over 200 samples.
+func TestFOPDTAnalytic(t *testing.T) {
+	for _, c := range []struct{ K, tau, theta, T float64 }{
+		{2, 5, 2.3, 1},
+		{-0.7, 0.3, 0.6, 0.25},
+		{1, 12, 0, 1},
+		{4.5, 30, 17.75, 2.5},
+		{1, 1, 0.999, 1},
+		{1, 3, 7, 1}, // whole samples
+	} {
+		r, err := tf.FOPDT{Gain: c.K, TimeConstant: c.tau, DeadTime: c.theta}.Discretize(c.T)
+		if err != nil {
+			t.Fatal(err)
+		}
+		y := r.Step(200)
+		for k, v := range y {
+			tk := float64(k) * c.T
+			want := 0.0
+			if tk > c.theta {
+				want = c.K * (1 - math.Exp(-(tk-c.theta)/c.tau))
+			}
+			if math.Abs(v-want) > 1e-13*math.Abs(c.K) {
+				t.Errorf("%+v: y(%g) = %v, want %v", c, tk, v, want)
+				break
+			}
+		}
+		// And back: the discrete term returns the continuous parameters.
+		back, err := r.AsFOPDT(c.T)
+		if err != nil {
+			t.Fatalf("%+v: AsFOPDT: %v", c, err)
+		}
+		if math.Abs(back.Gain-c.K) > 1e-12*math.Abs(c.K) || math.Abs(back.TimeConstant-c.tau) > 1e-10*c.tau ||
+			math.Abs(back.DeadTime-c.theta) > 1e-9*c.T {
+			t.Errorf("%+v: round trip %+v", c, back)
+		}
+	}
+}
+
+func TestAsFOPDTRejects(t *testing.T) {
+	for _, c := range []struct {
+		name     string
+		num, den []float64
+		delay    int
+	}{
+		{"second order", []float64{1}, []float64{1, -1.1, 0.3}, 1},
+		{"negative pole", []float64{1}, []float64{1, 0.5}, 1},
+		{"no dead time", []float64{1}, []float64{1, -0.5}, 0},
+		{"numerator split outside", []float64{1, -0.6}, []float64{1, -0.5}, 1},
+		{"integrator", []float64{1}, []float64{1, -1}, 1},
+	} {
+		r := tf.MustRational(c.num, c.den, c.delay)
+		var ae *tf.ArgError
+		if _, err := r.AsFOPDT(1); !errors.As(err, &ae) {
+			t.Errorf("%s: err %v, want *tf.ArgError", c.name, err)
+		}
+	}
+}
