@@ -142,15 +142,13 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	a := mat.NewSymDense(n, nil)
 	g := make([]float64, n)
 	normal(a, g, jac, r)
-	mu := 0.0
-	for j := 0; j < n; j++ {
-		mu = math.Max(mu, a.At(j, j))
-	}
-	mu *= 1e-3
-	if mu == 0 {
-		mu = 1e-3
-	}
+	// The damping multiplies D = diag(J'J) (Marquardt's scaling), so mu
+	// is dimensionless and starts small: the first step is nearly
+	// Gauss-Newton.
+	mu := 1e-3
 	nu := 2.0
+	lastRel := math.Inf(1)
+	var gnChol mat.Cholesky
 	dx := make([]float64, n)
 	xt := make([]float64, n)
 	aug := mat.NewSymDense(n, nil)
@@ -164,6 +162,14 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 		res.Iter = it + 1
 		if f == 0 || gradSmall(a, g, f, set.GTol) {
 			reason = SmallGradient
+			break
+		}
+		// The last accepted step reduced the sum of squares by less than
+		// FTol (relative): stop if a full Gauss-Newton step would not do
+		// better either, so that a slow damped step in a flat valley is not
+		// taken for convergence.
+		if lastRel < set.FTol && gnSmall(&gnChol, a, g, f, set.FTol) {
+			reason = SmallReduction
 			break
 		}
 		aug.CopySym(a)
@@ -238,10 +244,7 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 		jac, tjac = tjac, jac
 		f = ft
 		normal(a, g, jac, r)
-		if rel < set.FTol {
-			reason = SmallReduction
-			break
-		}
+		lastRel = rel
 	}
 	res.X = x
 	res.SSQ = f
@@ -312,4 +315,22 @@ func gradSmall(a *mat.SymDense, g []float64, f, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// gnSmall reports whether the Gauss-Newton step from the current point,
+// dx = -(J'J)^-1 J'r, predicts a relative reduction of the sum of squares
+// (0.5 g'(J'J)^-1 g / f with g = J'r) below tol. When J'J is not
+// positive definite the prediction is unavailable and gnSmall reports true.
+func gnSmall(c *mat.Cholesky, a *mat.SymDense, g []float64, f, tol float64) bool {
+	if !c.Factorize(a) {
+		return true
+	}
+	n := len(g)
+	gv := mat.NewVecDense(n, append([]float64(nil), g...))
+	var d mat.VecDense
+	if err := c.SolveVecTo(&d, gv); err != nil {
+		return true
+	}
+	pred := 0.5 * mat.Dot(gv, &d)
+	return pred <= tol*f
 }

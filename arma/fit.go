@@ -1,0 +1,752 @@
+package arma
+
+import (
+	"context"
+	"errors"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+
+	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/poly"
+	"github.com/backshift/backshift/internal/sym"
+)
+
+// MeanMode says whether Fit includes the mean of the differenced series.
+type MeanMode int
+
+const (
+	// MeanAuto estimates the mean when the model has no differencing and
+	// leaves it out (zero) otherwise.
+	MeanAuto MeanMode = iota
+	// MeanNone leaves the mean out (zero), unless Options.Fixed holds
+	// "mean".
+	MeanNone
+	// MeanFree always estimates the mean of the differenced series; with
+	// differencing it is a drift (a trend of slope Mean per sample for
+	// D = 1).
+	MeanFree
+)
+
+// Options tunes Fit and FitNoise. The zero value gives the defaults.
+type Options struct {
+	// Name names the series in errors; empty means "series".
+	Name string
+	// Mean says whether the mean of the differenced series is estimated
+	// (parameter name "mean"). Default MeanAuto.
+	Mean MeanMode
+	// X holds regressor columns, each of the series' length: the model is
+	// for z_t = y_t - sum_k beta_k X[k][t]. The regression coefficients
+	// are estimated jointly with the ARMA coefficients; the columns are
+	// differenced with the series. A linear trend is X = {0, 1, 2, ...}.
+	X [][]float64
+	// XNames names the regression coefficients (default "x1", "x2", ...).
+	XNames []string
+	// Fixed holds parameters at given values instead of estimating them,
+	// by name: "phi1".."phip", "Phi1".. (seasonal AR), "theta1"..,
+	// "Theta1".. (seasonal MA), "mean" and the regressor names. Unknown
+	// names are an *ArgError.
+	Fixed map[string]float64
+	// Init overrides start values by name (default: Hannan-Rissanen for
+	// the ordinary ARMA part, zero for seasonal coefficients, least
+	// squares for the mean and regressors).
+	Init map[string]float64
+	// Start is the index of the first residual in the sum of squares.
+	// Zero means the conditional default: the degree of the expanded AR
+	// polynomial (P + SP*Period) plus that of the differencing
+	// (D + SD*Period). Smaller nonzero values are an *ArgError.
+	Start int
+	// MaxIter bounds the optimiser's iterations; zero means 500.
+	MaxIter int
+	// Tol is the relative reduction of the sum of squares below which the
+	// optimiser stops; zero means 1e-14.
+	Tol float64
+}
+
+// Boundary flags a fitted polynomial with z-plane roots on or outside the
+// unit circle: modulus at least 1 - 1e-6. Part is "AR" (not stationary)
+// or "MA" (not invertible).
+type Boundary struct {
+	Part  string
+	Roots []complex128
+}
+
+// Result is the outcome of a conditional least-squares fit.
+type Result struct {
+	// Order is the order that was fitted (zero for FitNoise).
+	Order Order
+	// Model holds the fitted coefficients, Mean and Sigma2 (for FitNoise
+	// only Mean and Sigma2 are set; use Noise and the polynomials).
+	Model Model
+	// Noise is the fitted noise term with the estimates as values.
+	Noise Noise
+	// AR and MA are the fitted expanded polynomials phi(B)Phi(B^s) and
+	// theta(B)Theta(B^s); Diff is the differencing polynomial.
+	AR, MA, Diff []float64
+	// Beta holds the regression coefficients (fixed ones included), in
+	// the order of Options.X.
+	Beta []float64
+	// Names, Est, SE and T list the estimated (free) parameters: ARMA
+	// coefficients in written order, then "mean", then the regressors.
+	// SE are sqrt(diag(Sigma2 (J'J)^-1)) with J the Jacobian of the
+	// residuals at the estimate (Gauss-Newton), T = Est/SE. SE is NaN when
+	// J'J is singular.
+	Names      []string
+	Est, SE, T []float64
+	// Cov and Corr are the covariance and correlation matrices of Est
+	// (nil when J'J is singular).
+	Cov, Corr *mat.SymDense
+	// SSQ is the conditional sum of squares sum_{t >= Start} a_t^2.
+	SSQ float64
+	// Sigma2 = SSQ / NUsed, the innovation variance estimate (the
+	// convention of R's arima(method = "CSS"): no correction for the
+	// number of parameters).
+	Sigma2 float64
+	// N is the series length, Start the first summed residual, NUsed =
+	// N - Start the number of residuals summed.
+	N, Start, NUsed int
+	// Resid holds the residuals a_t aligned with the input: Resid[t] for
+	// t >= Start, NaN before Start (the conditioning samples).
+	Resid []float64
+	// LogLik is the Gaussian log-likelihood of the NUsed residuals,
+	// conditional on the first Start samples and zero pre-sample
+	// innovations, at sigma^2 = Sigma2:
+	//
+	//	LogLik = -NUsed/2 (log(2 pi Sigma2) + 1)
+	LogLik float64
+	// K is the number of estimated parameters including sigma^2.
+	K int
+	// AIC = -2 LogLik + 2K, AICc = AIC + 2K(K+1)/(NUsed-K-1),
+	// BIC = -2 LogLik + K log(NUsed).
+	AIC, AICc, BIC float64
+	// Iter and Evals count optimiser iterations and residual evaluations.
+	Iter, Evals int
+	// Converged reports convergence; Reason says why the optimiser stopped.
+	Converged bool
+	Reason    string
+	// Boundary lists polynomials with roots on or outside the unit circle.
+	Boundary []Boundary
+
+	// Forecast state: the last values of z = y - X beta and of the
+	// residuals.
+	zTail, aTail []float64
+}
+
+// Fit estimates a seasonal ARIMA model of y by conditional least squares
+// (CLS).
+//
+// Conditioning: the series is differenced, w_t = (1-B)^D (1-B^s)^SD z_t
+// with z_t = y_t - X_t'beta, and the residuals follow the recursion
+//
+//	a_t = phi*(B) (w_t - mu) - sum_{j>=1} theta*_j a_{t-j},   t >= Start,
+//
+// phi* and theta* the expanded AR and MA polynomials, with a_t = 0 for t
+// < Start (pre-sample innovations zero). Start defaults to the degree of
+// phi* plus the degree of the differencing, the first index whose AR
+// lags are all observed. The sum of squares of a_Start..a_{n-1} is
+// minimised by Levenberg-Marquardt (internal/lm) with the Jacobian
+// computed exactly by filtering: for a coefficient c,
+//
+//	theta*(B) da_t/dc = (dphi*/dc)(B) (w_t - mu) - (dtheta*/dc)(B) a_t,
+//
+// again from zero at Start; for the mean and regressors the right side is
+// -phi*(B) of the (differenced) constant or column. This is the
+// conditioning of R's arima(method = "CSS").
+//
+// Errors: *ArgError for a bad order or options, *DataError for NaN/Inf
+// in y or X, *ShortError when fewer residuals than parameters + 1
+// remain, *ConstantError when the differenced series is constant. When
+// the optimiser stops without converging Fit returns the best point as a
+// valid *Result together with a *ConvergenceError. ctx cancels the fit
+// (the best point so far is returned with a *ConvergenceError).
+func Fit(ctx context.Context, y []float64, ord Order, opt *Options) (*Result, error) {
+	if err := ord.validate(); err != nil {
+		return nil, err
+	}
+	s := max(ord.Period, 1)
+	ar := factors(make([]float64, ord.P), make([]float64, ord.SP), "phi", "Phi", s)
+	ma := factors(make([]float64, ord.Q), make([]float64, ord.SQ), "theta", "Theta", s)
+	res, err := fitCore(ctx, y, Noise{AR: ar, MA: ma}, diffPoly(ord.D, ord.SD, s), ord.D+ord.SD > 0, opt, &ord)
+	if res != nil {
+		res.Order = ord
+		m := Model{D: ord.D, SD: ord.SD, Period: ord.Period, Mean: res.Model.Mean, Sigma2: res.Sigma2}
+		m.AR, m.SAR = coefsOf(res.Noise.AR, ord.P, ord.SP)
+		m.MA, m.SMA = coefsOf(res.Noise.MA, ord.Q, ord.SQ)
+		if ord.SP+ord.SD+ord.SQ == 0 {
+			m.Period = 0
+		}
+		res.Model = m
+	}
+	return res, err
+}
+
+// coefsOf reads back the values of factors built by factors().
+func coefsOf(p sym.Poly, n, sn int) (c, sc []float64) {
+	i := 0
+	read := func(k int) []float64 {
+		if k == 0 {
+			return nil
+		}
+		f := p.Factors[i]
+		i++
+		out := make([]float64, k)
+		for j := range out {
+			out[j] = f.Terms[j+1].Coef.Value
+		}
+		return out
+	}
+	c = read(n)
+	sc = read(sn)
+	return c, sc
+}
+
+// FitNoise estimates a noise model written as factors with named
+// coefficients (subset and multiplicative models, shared names) by the
+// same conditional least squares as Fit. Free named coefficients are
+// estimated from their Values as start values (Options.Init overrides);
+// unnamed or non-free coefficients are held. diff is the differencing
+// polynomial applied to the series (nil for none); MeanAuto estimates the
+// mean when diff has degree 0. noise is not modified.
+func FitNoise(ctx context.Context, y []float64, noise Noise, diff []float64, opt *Options) (*Result, error) {
+	if len(diff) == 0 {
+		diff = []float64{1}
+	}
+	if diff[0] == 0 {
+		return nil, &ArgError{Arg: "diff", Msg: "constant term must be non-zero"}
+	}
+	return fitCore(ctx, y, noise.Clone(), diff, poly.Degree(diff) > 0, opt, nil)
+}
+
+type coefRef struct {
+	c *sym.Coef
+	k int
+}
+
+// engine holds one fit's data and scratch space; it is used by one
+// goroutine.
+type engine struct {
+	n, t0, m int
+	ar, ma   sym.Poly
+	refs     []coefRef
+	index    map[string]int
+	narma    int
+	kmu      int // index of the mean in x, -1 when held
+	mu       float64
+	kb       []int // index in x of each regressor, -1 when held
+	beta     []float64
+	wy       []float64   // differenced y minus held regressors
+	wx       [][]float64 // differenced free regressor columns
+	w        []float64   // scratch: current w - mu
+	one      []float64
+}
+
+func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, differenced bool, opt *Options, ord *Order) (*Result, error) {
+	var o Options
+	if opt != nil {
+		o = *opt
+	}
+	n := len(y)
+	if err := checkFinite(o.Name, y); err != nil {
+		return nil, err
+	}
+	for k, x := range o.X {
+		if len(x) != n {
+			return nil, &ArgError{Arg: "X", Msg: "regressor " + itoa(k+1) + " has length " + itoa(len(x)) + ", the series " + itoa(n)}
+		}
+		if err := checkFinite(xName(o, k), x); err != nil {
+			return nil, err
+		}
+	}
+	if len(o.XNames) != 0 && len(o.XNames) != len(o.X) {
+		return nil, &ArgError{Arg: "XNames", Msg: "needs one name per regressor"}
+	}
+	e := &engine{n: n, ar: noise.AR, ma: noise.MA, index: map[string]int{}, kmu: -1, one: []float64{1}}
+	// Collect the free ARMA coefficients in written order.
+	var names []string
+	fixedUsed := map[string]bool{}
+	collect := func(c *sym.Coef) {
+		if c.Name == "" {
+			return
+		}
+		if v, ok := o.Fixed[c.Name]; ok {
+			c.Value, c.Free = v, false
+			fixedUsed[c.Name] = true
+			return
+		}
+		if !c.Free {
+			return
+		}
+		k, ok := e.index[c.Name]
+		if !ok {
+			k = len(names)
+			e.index[c.Name] = k
+			names = append(names, c.Name)
+		}
+		e.refs = append(e.refs, coefRef{c: c, k: k})
+	}
+	e.ar.Each(collect)
+	e.ma.Each(collect)
+	e.narma = len(names)
+	for _, nm := range []string{"mean"} {
+		if _, dup := e.index[nm]; dup {
+			return nil, &ArgError{Arg: "noise", Msg: "coefficient name " + nm + " is reserved"}
+		}
+	}
+	phi0 := e.ar.Coeffs()
+	th0 := e.ma.Coeffs()
+	if phi0[0] == 0 || th0[0] == 0 {
+		return nil, &ArgError{Arg: "noise", Msg: "AR and MA polynomials need a non-zero constant term"}
+	}
+	degAR, degMA := len(phi0)-1, len(th0)-1
+	if degAR > MaxLag || degMA > MaxLag {
+		return nil, &ArgError{Arg: "noise", Msg: "polynomial degree above MaxLag"}
+	}
+	dd := poly.Degree(diff)
+	e.t0 = dd + degAR
+	if o.Start != 0 {
+		if o.Start < e.t0 {
+			return nil, &ArgError{Arg: "Start", Msg: "must be at least " + itoa(e.t0) + " (AR degree plus differencing)"}
+		}
+		e.t0 = o.Start
+	}
+	// Mean and regressors.
+	meanVal, meanFixed := o.Fixed["mean"]
+	hasMean := meanFixed || o.Mean == MeanFree || (o.Mean == MeanAuto && !differenced)
+	if meanFixed {
+		fixedUsed["mean"] = true
+		e.mu = meanVal
+	}
+	if hasMean && !meanFixed {
+		e.kmu = len(names)
+		names = append(names, "mean")
+	}
+	e.beta = make([]float64, len(o.X))
+	e.kb = make([]int, len(o.X))
+	for k := range o.X {
+		nm := xName(o, k)
+		if _, dup := e.index[nm]; dup || nm == "mean" {
+			return nil, &ArgError{Arg: "XNames", Msg: "name " + nm + " used twice"}
+		}
+		e.index[nm] = -1
+		if v, ok := o.Fixed[nm]; ok {
+			fixedUsed[nm] = true
+			e.beta[k] = v
+			e.kb[k] = -1
+			continue
+		}
+		e.kb[k] = len(names)
+		names = append(names, nm)
+	}
+	for nm := range o.Fixed {
+		if !fixedUsed[nm] {
+			return nil, &ArgError{Arg: "Fixed", Msg: "no parameter named " + nm}
+		}
+	}
+	np := len(names)
+	e.m = n - e.t0
+	if e.m < np+1 || e.m < 1 {
+		return nil, &ShortError{Series: o.Name, N: n, Need: e.t0 + np + 1, What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
+	}
+	// Differenced series and free regressor columns.
+	z := append([]float64(nil), y...)
+	for k, x := range o.X {
+		if e.kb[k] < 0 {
+			for t := range z {
+				z[t] -= e.beta[k] * x[t]
+			}
+		}
+	}
+	e.wy = applyDiff(diff, z)
+	for k, x := range o.X {
+		if e.kb[k] >= 0 {
+			e.wx = append(e.wx, applyDiff(diff, x))
+		} else {
+			e.wx = append(e.wx, nil)
+		}
+	}
+	if constantFrom(e.wy, dd) && len(o.X) == 0 {
+		return nil, &ConstantError{Series: o.Name, N: n}
+	}
+	e.w = make([]float64, n)
+	if testEngineHook != nil {
+		testEngineHook(e)
+	}
+	x0, err := e.start(names, o, ord, dd)
+	if err != nil {
+		return nil, err
+	}
+	for nm, v := range o.Init {
+		k, ok := e.index[nm]
+		if nm == "mean" && e.kmu >= 0 {
+			k, ok = e.kmu, true
+		}
+		for j, b := range e.kb {
+			if b >= 0 && xName(o, j) == nm {
+				k, ok = b, true
+			}
+		}
+		if !ok || k < 0 {
+			return nil, &ArgError{Arg: "Init", Msg: "no free parameter named " + nm}
+		}
+		x0[k] = v
+	}
+	res := &Result{N: n, Start: e.t0, NUsed: e.m, Names: names, Diff: diff}
+	var lres lm.Result
+	var cerr error
+	if np == 0 {
+		r := make([]float64, e.m)
+		if err := e.eval(nil, r, nil); err != nil {
+			return nil, err
+		}
+		lres = lm.Result{X: nil, SSQ: dot(r, r), Resid: r, Reason: lm.SmallGradient}
+	} else {
+		prob := lm.Problem{M: e.m, N: np, Eval: e.eval}
+		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
+		if err != nil {
+			return nil, &ArgError{Arg: "start", Msg: err.Error()}
+		}
+	}
+	e.set(lres.X)
+	res.Noise = Noise{AR: e.ar, MA: e.ma}
+	res.AR = e.ar.Coeffs()
+	res.MA = e.ma.Coeffs()
+	res.Est = append([]float64(nil), lres.X...)
+	res.SSQ = lres.SSQ
+	res.Sigma2 = lres.SSQ / float64(e.m)
+	res.Iter, res.Evals = lres.Iter, lres.Evals
+	res.Converged = lres.Reason.Converged()
+	res.Reason = lres.Reason.String()
+	if !res.Converged {
+		cerr = &ConvergenceError{Reason: res.Reason, Iter: lres.Iter}
+	}
+	res.Model.Mean = e.mu
+	if e.kmu >= 0 {
+		res.Model.Mean = lres.X[e.kmu]
+	}
+	res.Model.Sigma2 = res.Sigma2
+	res.Beta = append([]float64(nil), e.beta...)
+	for k, b := range e.kb {
+		if b >= 0 {
+			res.Beta[k] = lres.X[b]
+		}
+	}
+	res.Resid = make([]float64, n)
+	for t := 0; t < e.t0; t++ {
+		res.Resid[t] = math.NaN()
+	}
+	copy(res.Resid[e.t0:], lres.Resid)
+	// Uncertainty.
+	res.SE = make([]float64, np)
+	res.T = make([]float64, np)
+	for k := range res.SE {
+		res.SE[k], res.T[k] = math.NaN(), math.NaN()
+	}
+	if lres.JTJInv != nil {
+		res.Cov = mat.NewSymDense(np, nil)
+		res.Cov.ScaleSym(res.Sigma2, lres.JTJInv)
+		res.Corr = mat.NewSymDense(np, nil)
+		for i := 0; i < np; i++ {
+			res.SE[i] = math.Sqrt(res.Cov.At(i, i))
+			res.T[i] = res.Est[i] / res.SE[i]
+		}
+		for i := 0; i < np; i++ {
+			for j := i; j < np; j++ {
+				res.Corr.SetSym(i, j, res.Cov.At(i, j)/(res.SE[i]*res.SE[j]))
+			}
+		}
+	}
+	nu := float64(e.m)
+	res.K = np + 1
+	res.LogLik = -nu / 2 * (math.Log(2*math.Pi*res.Sigma2) + 1)
+	k := float64(res.K)
+	res.AIC = -2*res.LogLik + 2*k
+	res.AICc = math.Inf(1)
+	if nu-k-1 > 0 {
+		res.AICc = res.AIC + 2*k*(k+1)/(nu-k-1)
+	}
+	res.BIC = -2*res.LogLik + k*math.Log(nu)
+	for _, part := range []struct {
+		name string
+		c    []float64
+	}{{"AR", res.AR}, {"MA", res.MA}} {
+		if bad, err := outside(part.c, 1e-6); err == nil && len(bad) > 0 {
+			res.Boundary = append(res.Boundary, Boundary{Part: part.name, Roots: bad})
+		}
+	}
+	// Forecast state.
+	zf := append([]float64(nil), y...)
+	for k, x := range o.X {
+		for t := range zf {
+			zf[t] -= res.Beta[k] * x[t]
+		}
+	}
+	full := poly.Mul(res.AR, diff)
+	res.zTail = append([]float64(nil), zf[max(0, n-(len(full)-1)):]...)
+	res.aTail = make([]float64, len(res.MA)-1)
+	for j := range res.aTail {
+		t := n - len(res.aTail) + j
+		if t >= e.t0 {
+			res.aTail[j] = res.Resid[t]
+		}
+	}
+	return res, cerr
+}
+
+func xName(o Options, k int) string {
+	if k < len(o.XNames) {
+		return o.XNames[k]
+	}
+	return "x" + itoa(k+1)
+}
+
+// applyDiff returns diff(B) x with the first deg(diff) values (which need
+// pre-sample data) set to zero; they are never used.
+func applyDiff(diff, x []float64) []float64 {
+	dd := poly.Degree(diff)
+	w := make([]float64, len(x))
+	for t := dd; t < len(x); t++ {
+		s := 0.0
+		for j, c := range diff[:dd+1] {
+			if c != 0 {
+				s += c * x[t-j]
+			}
+		}
+		w[t] = s
+	}
+	return w
+}
+
+func constantFrom(w []float64, from int) bool {
+	if from >= len(w) {
+		return true
+	}
+	for _, v := range w[from:] {
+		if v != w[from] {
+			return false
+		}
+	}
+	return true
+}
+
+// set writes x into the engine's coefficient values.
+func (e *engine) set(x []float64) {
+	for _, r := range e.refs {
+		r.c.Value = x[r.k]
+	}
+}
+
+// eval computes the residuals a_t0..a_{n-1} into r and, when jac is not
+// nil, their derivatives by filtering.
+func (e *engine) eval(x, r []float64, jac [][]float64) error {
+	e.set(x)
+	phi, dphi := e.ar.Grad(e.lookup, e.narma)
+	theta, dtheta := e.ma.Grad(e.lookup, e.narma)
+	mu := e.mu
+	if e.kmu >= 0 {
+		mu = x[e.kmu]
+	}
+	w := e.w
+	for t, v := range e.wy {
+		w[t] = v - mu
+	}
+	for k, b := range e.kb {
+		if b < 0 {
+			continue
+		}
+		beta, col := x[b], e.wx[k]
+		for t := range w {
+			w[t] -= beta * col[t]
+		}
+	}
+	t0 := e.t0
+	lagApply(r, phi, w, t0, 0)
+	maOne := len(theta) == 1 && theta[0] == 1
+	if !maOne {
+		filter.Run(r, e.one, theta, r)
+	}
+	if jac == nil {
+		return nil
+	}
+	for k := 0; k < e.narma; k++ {
+		col := jac[k]
+		clear(col)
+		if dphi[k] != nil {
+			lagApply(col, dphi[k], w, t0, 1)
+		}
+		if dtheta[k] != nil {
+			lagSub(col, dtheta[k], r)
+		}
+		if !maOne {
+			filter.Run(col, e.one, theta, col)
+		}
+	}
+	if e.kmu >= 0 {
+		col := jac[e.kmu]
+		s := 0.0
+		for _, c := range phi {
+			s += c
+		}
+		for i := range col {
+			col[i] = -s
+		}
+		if !maOne {
+			filter.Run(col, e.one, theta, col)
+		}
+	}
+	for k, b := range e.kb {
+		if b < 0 {
+			continue
+		}
+		col := jac[b]
+		lagApply(col, phi, e.wx[k], t0, 0)
+		for i := range col {
+			col[i] = -col[i]
+		}
+		if !maOne {
+			filter.Run(col, e.one, theta, col)
+		}
+	}
+	return nil
+}
+
+func (e *engine) lookup(name string) int {
+	k, ok := e.index[name]
+	if !ok {
+		return -1
+	}
+	return k
+}
+
+// lagApply writes dst[i] = sum_j c_j src[t0+i-j] over the non-zero c_j;
+// acc = 1 adds to dst instead of overwriting (dst was cleared).
+func lagApply(dst, c, src []float64, t0 int, acc int) {
+	var idx [MaxLag + 1]int
+	var val [MaxLag + 1]float64
+	nz := 0
+	for j, v := range c {
+		if v != 0 {
+			idx[nz], val[nz] = j, v
+			nz++
+		}
+	}
+	m := len(dst)
+	switch {
+	case nz == 1 && idx[0] == 0 && val[0] == 1 && acc == 0:
+		copy(dst, src[t0:t0+m])
+	case nz == 1 && acc == 0:
+		v, s := val[0], src[t0-idx[0]:t0-idx[0]+m]
+		for i := range dst {
+			dst[i] = v * s[i]
+		}
+	case nz == 3 && acc == 0:
+		v0, v1, v2 := val[0], val[1], val[2]
+		s0 := src[t0-idx[0] : t0-idx[0]+m]
+		s1 := src[t0-idx[1] : t0-idx[1]+m]
+		s2 := src[t0-idx[2] : t0-idx[2]+m]
+		for i := range dst {
+			dst[i] = v0*s0[i] + v1*s1[i] + v2*s2[i]
+		}
+	default:
+		if acc == 0 {
+			clear(dst)
+		}
+		for q := 0; q < nz; q++ {
+			v, s := val[q], src[t0-idx[q]:t0-idx[q]+m]
+			for i := range dst {
+				dst[i] += v * s[i]
+			}
+		}
+	}
+}
+
+// lagSub subtracts sum_j c_j a_{i-j} (a zero before index 0) from dst.
+func lagSub(dst, c, a []float64) {
+	m := len(dst)
+	for j, v := range c {
+		if v == 0 || j >= m {
+			continue
+		}
+		d, s := dst[j:], a[:m-j]
+		for i := range d {
+			d[i] -= v * s[i]
+		}
+	}
+}
+
+// start returns the start vector: Hannan-Rissanen for the ordinary ARMA
+// part of an Order fit, the written values for FitNoise, least squares
+// for the mean and regressors.
+func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64, error) {
+	x0 := make([]float64, len(names))
+	for _, r := range e.refs {
+		x0[r.k] = r.c.Value
+	}
+	// Regression part by OLS of w on the free differenced columns (+1).
+	w := e.wy[dd:]
+	var cols [][]float64
+	var ks []int
+	if e.kmu >= 0 {
+		ones := make([]float64, len(w))
+		for i := range ones {
+			ones[i] = 1
+		}
+		cols = append(cols, ones)
+		ks = append(ks, e.kmu)
+	}
+	for k, b := range e.kb {
+		if b >= 0 {
+			cols = append(cols, e.wx[k][dd:])
+			ks = append(ks, b)
+		}
+	}
+	resid := append([]float64(nil), w...)
+	for i := range resid {
+		resid[i] -= e.mu // zero unless the mean is held at a value
+	}
+	if len(cols) > 0 && len(w) > len(cols) {
+		a := mat.NewDense(len(w), len(cols), nil)
+		for j, c := range cols {
+			for i, v := range c {
+				a.Set(i, j, v)
+			}
+		}
+		var qr mat.QR
+		qr.Factorize(a)
+		var beta mat.VecDense
+		if err := qr.SolveVecTo(&beta, false, mat.NewVecDense(len(resid), append([]float64(nil), resid...))); err == nil {
+			for j := range cols {
+				x0[ks[j]] = beta.AtVec(j)
+				for i := range resid {
+					resid[i] -= beta.AtVec(j) * cols[j][i]
+				}
+			}
+		}
+	}
+	if ord == nil || ord.P+ord.Q == 0 {
+		return x0, nil
+	}
+	phi, theta, err := HannanRissanen(resid, ord.P, ord.Q, 0)
+	if err != nil {
+		var se *ShortError
+		var ce *ConstantError
+		if errors.As(err, &se) || errors.As(err, &ce) {
+			return x0, nil // too short for the long AR: start from zero
+		}
+		return nil, err
+	}
+	for j := 1; j <= ord.P; j++ {
+		if k, ok := e.index["phi"+itoa(j)]; ok {
+			x0[k] = -phi[j]
+		}
+	}
+	for j := 1; j <= ord.Q; j++ {
+		if k, ok := e.index["theta"+itoa(j)]; ok {
+			x0[k] = -theta[j]
+		}
+	}
+	return x0, nil
+}
+
+// testEngineHook lets tests reach the engine of a fit (nil otherwise).
+var testEngineHook func(*engine)

@@ -1,0 +1,100 @@
+package arma
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/backshift/backshift/internal/poly"
+)
+
+// Forecast holds forecasts of the series h = 1..H steps after its last
+// sample.
+type Forecast struct {
+	// Mean[h-1] is the minimum mean-square-error forecast of y_{n-1+h}
+	// given the data (with the conditioning of the fit: innovations before
+	// the fit's Start index taken as zero).
+	Mean []float64
+	// SE[h-1] = sqrt(Sigma2 sum_{j<h} psi_j^2), the forecast standard
+	// error for known coefficients (psi weights of the ARIMA model,
+	// differencing included).
+	SE []float64
+	// Lower and Upper bound the two-sided interval Mean -+ z SE at Level,
+	// z the standard normal quantile (1+Level)/2.
+	Lower, Upper []float64
+	// Level is the interval's coverage probability.
+	Level float64
+}
+
+// Forecast returns forecasts h = 1..steps after the end of the fitted
+// series, with standard errors and intervals at the given level (0 means
+// 0.95). The recursion is
+//
+//	phi*(B) D(B) z_t = phi*(1) mu + theta*(B) a_t,  z_t = y_t - X_t'beta,
+//
+// run forward with future innovations zero and past ones the fit's
+// residuals; the regression part is added back from futureX, which must
+// hold one column of length steps per regressor of the fit (nil when the
+// fit had none).
+//
+// Errors: *ArgError for steps < 1, level outside (0, 1) or futureX of the
+// wrong shape or non-finite.
+func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Forecast, error) {
+	if steps < 1 {
+		return Forecast{}, &ArgError{Arg: "steps", Msg: "must be at least 1"}
+	}
+	if level == 0 {
+		level = 0.95
+	}
+	if !(level > 0 && level < 1) {
+		return Forecast{}, &ArgError{Arg: "level", Msg: "must be in (0, 1)"}
+	}
+	if len(futureX) != len(r.Beta) {
+		return Forecast{}, &ArgError{Arg: "futureX", Msg: "needs " + itoa(len(r.Beta)) + " regressor columns"}
+	}
+	for k, c := range futureX {
+		if len(c) != steps {
+			return Forecast{}, &ArgError{Arg: "futureX", Msg: "column " + itoa(k+1) + " needs " + itoa(steps) + " values"}
+		}
+		if err := checkFinite("futureX", c); err != nil {
+			return Forecast{}, &ArgError{Arg: "futureX", Msg: err.Error()}
+		}
+	}
+	full := poly.Mul(r.AR, r.Diff)
+	c := poly.EvalReal(r.AR, 1) * r.Model.Mean
+	pz, qa := len(full)-1, len(r.MA)-1
+	// Histories: z oldest first then forecasts; a past then zeros.
+	z := make([]float64, pz+steps)
+	copy(z[pz-len(r.zTail):pz], r.zTail)
+	a := make([]float64, qa+steps)
+	copy(a[:qa], r.aTail)
+	f := Forecast{Mean: make([]float64, steps), SE: make([]float64, steps),
+		Lower: make([]float64, steps), Upper: make([]float64, steps), Level: level}
+	for h := 0; h < steps; h++ {
+		s := c
+		for k := 1; k <= pz; k++ {
+			s -= full[k] * z[pz+h-k]
+		}
+		for j := 1; j <= qa; j++ {
+			s += r.MA[j] * a[qa+h-j]
+		}
+		z[pz+h] = s
+		f.Mean[h] = s
+		for k, col := range futureX {
+			f.Mean[h] += r.Beta[k] * col[h]
+		}
+	}
+	psi, err := Psi(full, r.MA, steps)
+	if err != nil {
+		return Forecast{}, err
+	}
+	q := distuv.UnitNormal.Quantile((1 + level) / 2)
+	acc := 0.0
+	for h := 0; h < steps; h++ {
+		acc += psi[h] * psi[h]
+		f.SE[h] = math.Sqrt(r.Sigma2 * acc)
+		f.Lower[h] = f.Mean[h] - q*f.SE[h]
+		f.Upper[h] = f.Mean[h] + q*f.SE[h]
+	}
+	return f, nil
+}

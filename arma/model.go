@@ -1,0 +1,189 @@
+package arma
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/backshift/backshift/internal/poly"
+	"github.com/backshift/backshift/internal/sym"
+)
+
+// Order is the structure of a seasonal ARIMA(P, D, Q) x (SP, SD, SQ)_Period
+// model: P autoregressive and Q moving-average lags, D ordinary
+// differences (1-B), and the seasonal counterparts in B^Period. Period is
+// ignored (and may be 0) when SP = SD = SQ = 0.
+type Order struct {
+	P, D, Q    int
+	SP, SD, SQ int
+	Period     int
+}
+
+// String returns the order as "(P,D,Q)" or "(P,D,Q)x(SP,SD,SQ)_s".
+func (o Order) String() string {
+	if o.SP == 0 && o.SD == 0 && o.SQ == 0 {
+		return fmt.Sprintf("(%d,%d,%d)", o.P, o.D, o.Q)
+	}
+	return fmt.Sprintf("(%d,%d,%d)x(%d,%d,%d)_%d", o.P, o.D, o.Q, o.SP, o.SD, o.SQ, o.Period)
+}
+
+func (o Order) validate() error {
+	if o.P < 0 || o.D < 0 || o.Q < 0 || o.SP < 0 || o.SD < 0 || o.SQ < 0 {
+		return &ArgError{Arg: "order", Msg: "orders must not be negative: " + o.String()}
+	}
+	if (o.SP > 0 || o.SD > 0 || o.SQ > 0) && o.Period < 2 {
+		return &ArgError{Arg: "order", Msg: "a seasonal part needs Period >= 2: " + o.String()}
+	}
+	if o.P+o.SP*o.Period > MaxLag || o.Q+o.SQ*o.Period > MaxLag || o.D+o.SD*o.Period > MaxLag {
+		return &ArgError{Arg: "order", Msg: "polynomial degree above MaxLag: " + o.String()}
+	}
+	return nil
+}
+
+// MaxLag bounds the degree of each expanded polynomial of a model (AR,
+// MA, differencing), to keep fits and root finding meaningful.
+const MaxLag = 256
+
+// Model is a seasonal ARIMA model with numeric coefficients:
+//
+//	phi(B) Phi(B^s) (w_t - Mean) = theta(B) Theta(B^s) a_t,
+//	w_t = (1-B)^D (1-B^s)^SD z_t,   var(a_t) = Sigma2,
+//
+// where z_t is the modelled series (after subtracting any regression
+// part). The coefficient slices use the Box-Jenkins signs:
+//
+//	phi(B)   = 1 - AR[0] B - ... - AR[p-1] B^p
+//	Phi(B^s) = 1 - SAR[0] B^s - ... - SAR[P-1] B^(P s)
+//	theta(B) = 1 - MA[0] B - ... - MA[q-1] B^q
+//	Theta(B^s) = 1 - SMA[0] B^s - ...
+//
+// The zero Model is white noise with zero mean and variance zero.
+type Model struct {
+	AR, MA   []float64
+	SAR, SMA []float64
+	D, SD    int
+	Period   int
+	Mean     float64
+	Sigma2   float64
+}
+
+// Order returns the orders of m.
+func (m Model) Order() Order {
+	return Order{P: len(m.AR), D: m.D, Q: len(m.MA), SP: len(m.SAR), SD: m.SD, SQ: len(m.SMA), Period: m.Period}
+}
+
+// lagPoly returns 1 - sum c_k B^(k*step).
+func lagPoly(c []float64, step int) []float64 {
+	p := make([]float64, len(c)*step+1)
+	p[0] = 1
+	for k, v := range c {
+		p[(k+1)*step] = -v
+	}
+	return p
+}
+
+// ARPoly returns the expanded stationary AR polynomial phi(B) Phi(B^s)
+// (ascending powers of B, constant 1).
+func (m Model) ARPoly() []float64 {
+	return poly.Mul(lagPoly(m.AR, 1), lagPoly(m.SAR, max(m.Period, 1)))
+}
+
+// MAPoly returns the expanded MA polynomial theta(B) Theta(B^s).
+func (m Model) MAPoly() []float64 {
+	return poly.Mul(lagPoly(m.MA, 1), lagPoly(m.SMA, max(m.Period, 1)))
+}
+
+// DiffPoly returns the differencing polynomial (1-B)^D (1-B^s)^SD.
+func (m Model) DiffPoly() []float64 {
+	return diffPoly(m.D, m.SD, m.Period)
+}
+
+func diffPoly(d, sd, s int) []float64 {
+	c := poly.Pow([]float64{1, -1}, d)
+	if sd > 0 {
+		seas := make([]float64, s+1)
+		seas[0], seas[s] = 1, -1
+		c = poly.Mul(c, poly.Pow(seas, sd))
+	}
+	return c
+}
+
+// Stationary reports whether every z-plane root of phi(z^-1) Phi(z^-s)
+// lies strictly inside the unit circle, and returns the offending roots
+// (|z| >= 1) otherwise. The differencing is not part of this check. An
+// error is returned only when the root finder fails.
+func (m Model) Stationary() (bool, []complex128, error) {
+	bad, err := outside(m.ARPoly(), 0)
+	return err == nil && len(bad) == 0, bad, err
+}
+
+// Invertible reports whether every z-plane root of the MA polynomial lies
+// strictly inside the unit circle, and returns the offending roots.
+func (m Model) Invertible() (bool, []complex128, error) {
+	bad, err := outside(m.MAPoly(), 0)
+	return err == nil && len(bad) == 0, bad, err
+}
+
+// Psi returns the first n psi weights of the model including its
+// differencing: the coefficients of theta(B)Theta(B^s) / (phi(B)Phi(B^s)
+// (1-B)^D (1-B^s)^SD), so that the h-step forecast error variance is
+// Sigma2 sum_{j<h} psi_j^2.
+func (m Model) Psi(n int) ([]float64, error) {
+	return Psi(poly.Mul(m.ARPoly(), m.DiffPoly()), m.MAPoly(), n)
+}
+
+// Pi returns the first n pi weights of the stationary part (differencing
+// excluded): the coefficients of phi(B)Phi(B^s) / (theta(B)Theta(B^s)).
+func (m Model) Pi(n int) ([]float64, error) {
+	return Pi(m.ARPoly(), m.MAPoly(), n)
+}
+
+// Noise returns the model's noise term as named factors, the form used in
+// whole-model specs: (1 - phi1 B - ...)(1 - Phi1 B^s - ...) for AR and
+// (1 - theta1 B - ...)(1 - Theta1 B^s - ...) for MA, every coefficient
+// Free with its value set. Empty parts are left out.
+func (m Model) Noise() Noise {
+	return Noise{
+		AR: factors(m.AR, m.SAR, "phi", "Phi", m.Period),
+		MA: factors(m.MA, m.SMA, "theta", "Theta", m.Period),
+	}
+}
+
+func factors(c, sc []float64, name, sname string, s int) sym.Poly {
+	var p sym.Poly
+	if len(c) > 0 {
+		p.Factors = append(p.Factors, namedFactor(c, name, 1))
+	}
+	if len(sc) > 0 {
+		p.Factors = append(p.Factors, namedFactor(sc, sname, s))
+	}
+	return p
+}
+
+// namedFactor returns 1 - name1 B^step - name2 B^(2 step) - ... with the
+// values of c.
+func namedFactor(c []float64, name string, step int) sym.Factor {
+	f := sym.Factor{Exp: 1, Terms: []sym.Term{{Coef: sym.Coef{Value: 1}}}}
+	for k, v := range c {
+		f.Terms = append(f.Terms, sym.Term{Neg: true, Power: (k + 1) * step,
+			Coef: sym.Coef{Name: name + itoa(k+1), Value: v, Free: true}})
+	}
+	return f
+}
+
+// validate checks that the coefficients are finite.
+func (m Model) validate() error {
+	if err := m.Order().validate(); err != nil {
+		return err
+	}
+	for _, c := range [][]float64{m.AR, m.MA, m.SAR, m.SMA, {m.Mean, m.Sigma2}} {
+		for _, v := range c {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return &ArgError{Arg: "model", Msg: "coefficients must be finite"}
+			}
+		}
+	}
+	if m.Sigma2 < 0 {
+		return &ArgError{Arg: "model", Msg: "Sigma2 must not be negative"}
+	}
+	return nil
+}
