@@ -107,8 +107,31 @@ func TestFitCSSR(t *testing.T) {
 		}
 		// SE order: ours lists ARMA then mean then regressors, as R.
 		checkSlice(t, ref.Name+" SE vs Gauss-Newton", res.SE, floats(ref.SEGN), 1e-5, 0)
-		sc := math.Sqrt(res.Sigma2)
-		checkSlice(t, ref.Name+" resid", res.Resid[res.Start:], floats(ref.Resid), 1e-6, sc)
+		// Residual recursion at R's coefficients (all held by Fixed):
+		// R's residuals to 1e-10 of their scale.
+		fixed := Options{X: opt.X, Mean: opt.Mean, Fixed: map[string]float64{}}
+		for i, nm := range ref.CoefNames {
+			v := float64(ref.CoefTight[i])
+			switch {
+			case nm == "intercept":
+				fixed.Fixed["mean"] = v
+			case nm == "tt":
+				fixed.Fixed["x1"] = v
+			case nm[:2] == "ar":
+				fixed.Fixed["phi"+nm[2:]] = v
+			case nm[:2] == "ma":
+				fixed.Fixed["theta"+nm[2:]] = -v
+			}
+		}
+		held, err := Fit(context.Background(), y, Order{P: ref.PP, D: ref.DD, Q: ref.QQ}, &fixed)
+		if err != nil {
+			t.Fatalf("%s fixed: %v", ref.Name, err)
+		}
+		sc := math.Sqrt(held.Sigma2)
+		checkSlice(t, ref.Name+" resid at R's coefficients", held.Resid[held.Start:], floats(ref.Resid), 1e-10, sc)
+		if !closeTo(held.SSQ, ssqR, 1e-12, 0) || len(held.Est) != 0 {
+			t.Errorf("%s: SSQ at R's coefficients %.15g, want %.15g", ref.Name, held.SSQ, ssqR)
+		}
 		// R's CSS loglik counts n - d residuals at sigma2 = SSQ/(n-d-p);
 		// ours counts the NUsed summed ones. Check R's value through its
 		// formula to pin the difference down.
