@@ -1,0 +1,178 @@
+package tf_test
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/tf"
+)
+
+func TestNewRationalBadInput(t *testing.T) {
+	long := make([]float64, tf.MaxDegree+2)
+	long[0], long[len(long)-1] = 1, 0.1
+	okLong := make([]float64, tf.MaxDegree+1)
+	okLong[0], okLong[len(okLong)-1] = 1, 0.1
+	padded := append(append([]float64(nil), long[:tf.MaxDegree+1]...), 0, 0) // trailing zeros are dropped
+	padded[tf.MaxDegree] = 0.1
+	nan, inf := math.NaN(), math.Inf(1)
+	for _, c := range []struct {
+		name     string
+		num, den []float64
+		delay    int
+		poly     string // CoefError.Poly; "" for a DelayError
+		index    int
+		problem  error
+		msg      string
+	}{
+		{"zero leading denominator", []float64{1}, []float64{0, 1}, 0, "den", 0, tf.ErrZeroConstant,
+			"tf: den coefficient 0 (B^0) = 0: constant term is zero"},
+		{"NaN numerator", []float64{1, nan}, []float64{1}, 0, "num", 1, tf.ErrNotFinite,
+			"tf: num coefficient 1 (B^1) = NaN: value is NaN or infinite"},
+		{"Inf denominator", []float64{1}, []float64{1, -0.5, inf}, 0, "den", 2, tf.ErrNotFinite,
+			"tf: den coefficient 2 (B^2) = +Inf: value is NaN or infinite"},
+		{"-Inf leading denominator", []float64{1}, []float64{math.Inf(-1)}, 0, "den", 0, tf.ErrNotFinite,
+			"tf: den coefficient 0 (B^0) = -Inf: value is NaN or infinite"},
+		{"empty numerator", nil, []float64{1}, 0, "num", -1, tf.ErrEmpty, "tf: num: no coefficients"},
+		{"empty denominator", []float64{1}, []float64{}, 0, "den", -1, tf.ErrEmpty, "tf: den: no coefficients"},
+		{"numerator degree past limit", long, []float64{1}, 0, "num", tf.MaxDegree + 1, tf.ErrDegree,
+			"tf: num has degree 65: degree above tf.MaxDegree (64)"},
+		{"denominator degree past limit", []float64{1}, long, 0, "den", tf.MaxDegree + 1, tf.ErrDegree,
+			"tf: den has degree 65: degree above tf.MaxDegree (64)"},
+		{"negative dead time", []float64{1}, []float64{1}, -1, "", 0, nil, "tf: dead time -1 samples outside 0..10000"},
+		{"huge dead time", []float64{1}, []float64{1}, tf.MaxDelay + 1, "", 0, nil, "tf: dead time 10001 samples outside 0..10000"},
+		{"overflow by normalisation", []float64{1e300}, []float64{1e-300}, 0, "num", 0, tf.ErrNotFinite,
+			"tf: num coefficient 0 (B^0) = +Inf: value is NaN or infinite"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			r, err := tf.NewRational(c.num, c.den, c.delay)
+			if err == nil {
+				t.Fatalf("no error; got %v", r)
+			}
+			if err.Error() != c.msg {
+				t.Errorf("message %q, want %q", err.Error(), c.msg)
+			}
+			if c.poly == "" {
+				var de *tf.DelayError
+				if !errors.As(err, &de) || de.Delay != c.delay {
+					t.Errorf("err %#v, want *tf.DelayError{%d}", err, c.delay)
+				}
+				return
+			}
+			var ce *tf.CoefError
+			if !errors.As(err, &ce) {
+				t.Fatalf("err %T, want *tf.CoefError", err)
+			}
+			if ce.Poly != c.poly || ce.Index != c.index || !errors.Is(err, c.problem) {
+				t.Errorf("got %+v, want poly %s index %d problem %v", *ce, c.poly, c.index, c.problem)
+			}
+		})
+	}
+	// The limits themselves are accepted, and trailing zeros do not count.
+	for _, c := range [][2][]float64{{okLong, {1}}, {{1}, okLong}, {padded, {1}}} {
+		if _, err := tf.NewRational(c[0], c[1], tf.MaxDelay); err != nil {
+			t.Errorf("degree %d/%d, delay MaxDelay: %v", len(c[0])-1, len(c[1])-1, err)
+		}
+	}
+}
+
+func TestBadSamplesAndArguments(t *testing.T) {
+	g := tf.MustRational([]float64{0.5}, []float64{1, -0.5}, 1)
+	integ := tf.MustRational([]float64{1}, []float64{1, -1}, 1)
+	unst := tf.MustRational([]float64{1}, []float64{1, -1.2}, 0)
+	sample := func(series string, index int) func(error) bool {
+		return func(err error) bool {
+			var se *tf.SampleError
+			return errors.As(err, &se) && se.Series == series && se.Index == index && errors.Is(err, tf.ErrNotFinite)
+		}
+	}
+	isArg := func(arg string) func(error) bool {
+		return func(err error) bool {
+			var ae *tf.ArgError
+			return errors.As(err, &ae) && ae.Arg == arg
+		}
+	}
+	isGain := func(err error) bool { var ge *tf.GainError; return errors.As(err, &ge) }
+	isUnstable := func(err error) bool { var ue *tf.UnstableError; return errors.As(err, &ue) }
+	isCoef := func(p error) func(error) bool {
+		return func(err error) bool { var ce *tf.CoefError; return errors.As(err, &ce) && errors.Is(err, p) }
+	}
+	first := func(_ any, err error) error { return err }
+	second := func(_, _ any, err error) error { return err }
+	for _, c := range []struct {
+		name string
+		err  error
+		ok   func(error) bool
+	}{
+		{"NaN input sample", first(g.Filter([]float64{1, 2, math.NaN()})), sample("input", 2)},
+		{"Inf input sample", first(g.FilterFrom([]float64{math.Inf(-1)}, tf.Past{})), sample("input", 0)},
+		{"NaN past input", first(g.FilterFrom([]float64{1}, tf.Past{Input: []float64{0, math.NaN()}})), sample("past input", 1)},
+		{"NaN past output", first(g.FilterFrom([]float64{1}, tf.Past{Output: []float64{math.NaN()}})), sample("past output", 0)},
+		{"NaN steady input", first(g.SteadyPast(math.NaN())), sample("steady input", 0)},
+		{"plant NaN history", tf.NewPlant(g).SetHistory([]float64{math.Inf(1)}, nil), sample("past input", 0)},
+		{"integrator gain", first(integ.Gain()), isGain},
+		{"integrator steady start", tf.NewPlant(integ).SetSteady(1), isGain},
+		{"unstable BIBO", first(unst.BIBOBound()), isUnstable},
+		{"integrator BIBO", first(integ.BIBOBound()), isUnstable},
+		{"unstable step metrics", first(unst.StepMetrics(tf.StepOptions{})), isUnstable},
+		{"bad band", first(g.StepMetrics(tf.StepOptions{Band: 1.5})), isArg("Band")},
+		{"negative interval", first(g.StepMetrics(tf.StepOptions{Interval: -1})), isArg("Interval")},
+		{"integrator on the unit circle", second(integ.Bode([]float64{0, 1})), isUnstable},
+		{"decreasing frequencies", second(g.Bode([]float64{1, 0.5})), isArg("frequency")},
+		{"NaN frequency", second(g.Bode([]float64{math.NaN()})), isArg("frequency")},
+		{"modes negative interval", first(g.Modes(-1)), isArg("interval")},
+		{"FOPDT zero tau", first(tf.FOPDT{Gain: 1, TimeConstant: 0, DeadTime: 1}.Discretize(1)), isArg("TimeConstant")},
+		{"FOPDT NaN gain", first(tf.FOPDT{Gain: math.NaN(), TimeConstant: 1}.Discretize(1)), isArg("Gain")},
+		{"FOPDT negative dead time", first(tf.FOPDT{Gain: 1, TimeConstant: 1, DeadTime: -0.5}.Discretize(1)), isArg("DeadTime")},
+		{"FOPDT huge dead time", first(tf.FOPDT{Gain: 1, TimeConstant: 1, DeadTime: 1e9}.Discretize(1)), isArg("DeadTime")},
+		{"FOPDT zero interval", first(tf.FOPDT{Gain: 1, TimeConstant: 1}.Discretize(0)), isArg("interval")},
+		{"SOPDT negative tau", first(tf.SOPDT{Gain: 1, Tau1: 1, Tau2: -2}.Discretize(1)), isArg("Tau2")},
+		{"second order negative damping", first(tf.SecondOrder{Gain: 1, NaturalFrequency: 1, Damping: -0.1}.Discretize(1)), isArg("Damping")},
+		{"ill-posed loop", first(tf.Feedback(tf.MustRational([]float64{1}, []float64{1}, 0), tf.MustRational([]float64{-1}, []float64{1}, 0))), isCoef(tf.ErrZeroConstant)},
+		{"loop dead time past degree limit", first(tf.Feedback(tf.MustRational([]float64{1}, []float64{1, -0.5}, 60), tf.MustRational([]float64{1}, []float64{1}, 10))), isCoef(tf.ErrDegree)},
+		{"series degree past limit", first(tf.Series(tf.MustRational([]float64{1}, make40(), 0), tf.MustRational([]float64{1}, make40(), 0))), isCoef(tf.ErrDegree)},
+		{"series dead time past limit", first(tf.Series(tf.MustRational([]float64{1}, []float64{1}, tf.MaxDelay), g)), func(err error) bool { var de *tf.DelayError; return errors.As(err, &de) }},
+		{"parallel dead-time difference past degree limit", first(tf.Parallel(tf.MustRational([]float64{1}, []float64{1}, 100), g)), isCoef(tf.ErrDegree)},
+		{"constant NaN", first(tf.Constant(math.NaN())), isCoef(tf.ErrNotFinite)},
+	} {
+		if c.err == nil || !c.ok(c.err) {
+			t.Errorf("%s: err = %v (%T)", c.name, c.err, c.err)
+		}
+	}
+}
+
+func make40() []float64 {
+	d := make([]float64, 41)
+	d[0], d[40] = 1, 0.5
+	return d
+}
+
+// TestInputsNotModified checks that constructors and methods never write
+// to caller slices.
+func TestInputsNotModified(t *testing.T) {
+	num := []float64{2, 1}
+	den := []float64{2, -1}
+	r := tf.MustRational(num, den, 1)
+	if num[0] != 2 || den[0] != 2 || den[1] != -1 {
+		t.Fatalf("NewRational modified its arguments: %v %v", num, den)
+	}
+	if got := r.Den(); got[0] != 1 || got[1] != -0.5 {
+		t.Errorf("normalised den %v, want [1 -0.5]", got)
+	}
+	r.Num()[0] = 99
+	if r.Num()[0] != 1 {
+		t.Errorf("Num() returned internal storage")
+	}
+	x := []float64{1, 2, 3}
+	past := tf.Past{Input: []float64{4, 5}, Output: []float64{6}}
+	if _, err := r.FilterFrom(x, past); err != nil {
+		t.Fatal(err)
+	}
+	if x[0] != 1 || x[2] != 3 || past.Input[0] != 4 || past.Input[1] != 5 || past.Output[0] != 6 {
+		t.Errorf("FilterFrom modified its arguments: %v %+v", x, past)
+	}
+	var zero tf.Rational
+	if h := zero.Impulse(3); h[0] != 0 || len(h) != 3 {
+		t.Errorf("zero Rational impulse %v", h)
+	}
+}
