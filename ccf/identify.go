@@ -1,0 +1,221 @@
+package ccf
+
+import (
+	"math"
+	"slices"
+	"sort"
+	"strconv"
+)
+
+// IdentifySettings tunes Identify. The zero value gives the defaults.
+type IdentifySettings struct {
+	// Level is the significance level of the dead-time rule; zero means
+	// 0.99. A lag counts as the start of the response when its weight
+	// is significant at Level and either the next or the one after is
+	// significant at 0.95, or the weight is significant at
+	// 1 - (1-Level)/10 on its own (a lone spike must be strong).
+	Level float64
+	// MaxR and MaxS bound the orders of delta and omega tried; zero
+	// means 2. Set a negative value to allow order zero only.
+	MaxR, MaxS int
+	// Input is the series name written in the spec texts; empty means
+	// the weights' Input, or "x".
+	Input string
+	// Prefix is put before every coefficient name in the spec texts
+	// (w0, w1, .. for omega; d1, d2, .. for delta), so that the terms of
+	// several inputs can share one model; empty for none.
+	Prefix string
+	// Penalty is the score added per free coefficient when ranking the
+	// forms; zero means 2 (the AIC weight).
+	Penalty float64
+}
+
+// Identification is the result of Identify for one input.
+type Identification struct {
+	// Input is the input's name as written in the spec texts.
+	Input string
+	// DeadTime is the dead time b in samples.
+	DeadTime int
+	// Offset is the level subtracted from the weights before the
+	// dead-time rule: the median of the cross-correlation at negative
+	// lags times the weight scale, when that median is itself outside
+	// the 95 % band (a common level left by incomplete prewhitening),
+	// and 0 otherwise. The forms are fitted to the weights minus Offset.
+	Offset float64
+	// Weights are the weights used.
+	Weights *Weights
+	// Candidates are the fitted forms, best (lowest Score) first.
+	Candidates []Candidate
+	// Corner is the corner-method table of the weights (nil when there
+	// are too few lags), and CornerR, CornerS the orders it points to
+	// (-1 when it cannot tell).
+	Corner           *CornerTable
+	CornerR, CornerS int
+}
+
+// Candidate is one proposed input term B^b omega(B)/delta(B) x_t.
+type Candidate struct {
+	// Delay is the dead time b, R = deg delta, S = deg omega.
+	Delay, R, S int
+	// Num is omega(B), Den is delta(B) (Den[0] = 1), ascending powers of
+	// B, signs as stored, fitted to the weights.
+	Num, Den []float64
+	// Chi2 is sum_k ((v_k - vhat_k)/se_k)^2 over lags b..K, Score is
+	// Chi2 plus Penalty times the number of coefficients (R+S+1).
+	Chi2, Score float64
+	// Corner reports whether the corner method points to these orders.
+	Corner bool
+	// Term is the input term as spec text with free coefficients, for
+	// example "(w0 + w1 B) / (1 - d1 B) B^3 x": omega written with plus
+	// signs (w_k = Num[k]), delta with minus signs (d_i = -Den[i]).
+	Term string
+	// Starts maps each coefficient name of Term to its start value.
+	Starts map[string]float64
+	// Names lists the coefficient names of Term in written order.
+	Names []string
+}
+
+// Identify proposes the dead time and ranked (r, s) forms for an input
+// from its impulse-response weights (see the package documentation).
+//
+// It returns a *NoResponseError when no lag passes the dead-time rule, an
+// *ArgError for settings out of range, and a *ShortError when w has fewer
+// than two lags.
+func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
+	var set IdentifySettings
+	if s != nil {
+		set = *s
+	}
+	if set.Level == 0 {
+		set.Level = 0.99
+	}
+	if !(set.Level > 0 && set.Level < 1) {
+		return nil, &ArgError{Arg: "IdentifySettings.Level", Value: strconv.FormatFloat(set.Level, 'g', -1, 64), Want: "in (0, 1)"}
+	}
+	if set.Penalty == 0 {
+		set.Penalty = 2
+	}
+	if set.Penalty < 0 || math.IsNaN(set.Penalty) {
+		return nil, &ArgError{Arg: "IdentifySettings.Penalty", Value: strconv.FormatFloat(set.Penalty, 'g', -1, 64), Want: ">= 0"}
+	}
+	maxR, maxS := orderBound(set.MaxR), orderBound(set.MaxS)
+	if w == nil {
+		return nil, &ArgError{Arg: "w", Value: "nil", Want: "weights"}
+	}
+	name := set.Input
+	if name == "" {
+		name = w.Input
+	}
+	if name == "" {
+		name = "x"
+	}
+	if len(w.V) < 2 || len(w.SE) != len(w.V) {
+		return nil, &ShortError{Name: name, Len: len(w.V), Need: 2, Why: "weights (lags 0 and 1)"}
+	}
+	for k := range w.V {
+		if err := checkSeries(name+" weights", w.V); err != nil {
+			return nil, err
+		}
+		if !(w.SE[k] > 0) || math.IsInf(w.SE[k], 0) {
+			return nil, &ValueError{Name: name + " weight standard errors", Index: k, Value: w.SE[k]}
+		}
+	}
+	id := &Identification{Input: name, Weights: w, CornerR: -1, CornerS: -1}
+	v := w.V
+	if off := negativeLevel(w); off != 0 {
+		id.Offset = off
+		v = make([]float64, len(w.V))
+		for k := range v {
+			v[k] = w.V[k] - off
+		}
+	}
+	b, err := deadTime(v, w.SE, set.Level)
+	if err != nil {
+		e := err.(*NoResponseError)
+		e.Input = name
+		return nil, e
+	}
+	id.DeadTime = b
+	wv := &Weights{Input: w.Input, V: v, SE: w.SE, N: w.N}
+	id.Corner = Corner(wv, min(len(v), b+8), 4)
+	if id.Corner != nil {
+		id.CornerR, id.CornerS = id.Corner.pick(b, maxR, maxS)
+	}
+	for r := 0; r <= maxR; r++ {
+		for sd := 0; sd <= maxS; sd++ {
+			f := fitRational(v, w.SE, b, r, sd)
+			if f.num == nil {
+				continue
+			}
+			c := Candidate{Delay: b, R: r, S: sd, Num: f.num, Den: f.den, Chi2: f.chi2,
+				Score: f.chi2 + set.Penalty*float64(r+sd+1), Corner: r == id.CornerR && sd == id.CornerS}
+			c.Term, c.Names, c.Starts = termText(name, set.Prefix, b, c.Num, c.Den)
+			id.Candidates = append(id.Candidates, c)
+		}
+	}
+	sort.SliceStable(id.Candidates, func(i, j int) bool {
+		a, c := id.Candidates[i], id.Candidates[j]
+		if a.Score != c.Score {
+			return a.Score < c.Score
+		}
+		return a.R+a.S < c.R+c.S
+	})
+	return id, nil
+}
+
+func orderBound(m int) int {
+	switch {
+	case m == 0:
+		return 2
+	case m < 0:
+		return 0
+	}
+	return m
+}
+
+// deadTime applies the dead-time rule of IdentifySettings.Level to the
+// weights' t-ratios.
+func deadTime(v, se []float64, level float64) (int, error) {
+	z := normalQuantile((1 + level) / 2)
+	zStrong := normalQuantile(1 - (1-level)/20)
+	z95 := normalQuantile(0.975)
+	best, bestLag := 0.0, 0
+	for k := range v {
+		t := math.Abs(v[k] / se[k])
+		if t > best {
+			best, bestLag = t, k
+		}
+		if t <= z {
+			continue
+		}
+		if t > zStrong {
+			return k, nil
+		}
+		for j := k + 1; j <= k+2 && j < len(v); j++ {
+			if math.Abs(v[j]/se[j]) > z95 {
+				return k, nil
+			}
+		}
+	}
+	return 0, &NoResponseError{MaxLag: len(v) - 1, Level: level, Largest: best, Lag: bestLag}
+}
+
+// negativeLevel returns the common level of the cross-correlation at
+// negative lags, scaled to weight units, when it is clearly non-zero.
+func negativeLevel(w *Weights) float64 {
+	c := w.Corr
+	if c == nil || c.MaxLag < 8 {
+		return 0
+	}
+	neg := slices.Clone(c.R[:c.MaxLag])
+	sort.Float64s(neg)
+	m := len(neg)
+	med := neg[m/2]
+	if m%2 == 0 {
+		med = (neg[m/2-1] + neg[m/2]) / 2
+	}
+	if math.Abs(med) <= c.Band(0.95) {
+		return 0
+	}
+	return med * c.SDY / c.SDX
+}

@@ -1,0 +1,104 @@
+package ccf
+
+import (
+	"strconv"
+	"strings"
+)
+
+// termText writes the input term B^b omega(B)/delta(B) x with free
+// coefficients named prefix+"w0".. (omega, plus signs) and prefix+"d1"..
+// (delta, minus signs), and returns it with the names in written order
+// and their start values.
+func termText(input, prefix string, b int, num, den []float64) (string, []string, map[string]float64) {
+	starts := map[string]float64{}
+	var names []string
+	var sb strings.Builder
+	wname := func(k int) string { return prefix + "w" + strconv.Itoa(k) }
+	dname := func(k int) string { return prefix + "d" + strconv.Itoa(k) }
+	if len(num) == 1 {
+		sb.WriteString(wname(0))
+	} else {
+		sb.WriteString("(")
+		for k := range num {
+			if k > 0 {
+				sb.WriteString(" + ")
+			}
+			sb.WriteString(wname(k))
+			sb.WriteString(bPower(k))
+		}
+		sb.WriteString(")")
+	}
+	for k, v := range num {
+		names = append(names, wname(k))
+		starts[wname(k)] = v
+	}
+	if len(den) > 1 {
+		sb.WriteString(" / (1")
+		for k := 1; k < len(den); k++ {
+			sb.WriteString(" - ")
+			sb.WriteString(dname(k))
+			sb.WriteString(bPower(k))
+			names = append(names, dname(k))
+			starts[dname(k)] = -den[k]
+		}
+		sb.WriteString(")")
+	}
+	if b > 0 {
+		sb.WriteString(" " + strings.TrimPrefix(bPower(b), " "))
+	}
+	sb.WriteString(" " + input)
+	return sb.String(), names, starts
+}
+
+// bPower returns " B^k" (" B" for k = 1, "" for k = 0).
+func bPower(k int) string {
+	switch k {
+	case 0:
+		return ""
+	case 1:
+		return " B"
+	}
+	return " B^" + strconv.Itoa(k)
+}
+
+// Spec returns a whole model spec with this candidate as its only input
+// term,
+//
+//	output = Term + noise where w0 ~ ..., d1 ~ ...
+//
+// with the start values rounded to 6 significant digits. noise is the
+// noise term as spec text; empty means "a" (white noise). Use Term and
+// Starts to assemble models with several inputs.
+func (c Candidate) Spec(output, noise string) string {
+	if noise == "" {
+		noise = "a"
+	}
+	var sb strings.Builder
+	sb.WriteString(output)
+	sb.WriteString(" = ")
+	sb.WriteString(c.Term)
+	sb.WriteString(" + ")
+	sb.WriteString(noise)
+	sb.WriteString(StartClause(c.Names, c.Starts))
+	return sb.String()
+}
+
+// StartClause returns " where n1 ~ v1, n2 ~ v2" for the given names in
+// order, with values from starts rounded to 6 significant digits, or ""
+// when names is empty.
+func StartClause(names []string, starts map[string]float64) string {
+	if len(names) == 0 {
+		return ""
+	}
+	var sb strings.Builder
+	sb.WriteString(" where ")
+	for i, n := range names {
+		if i > 0 {
+			sb.WriteString(", ")
+		}
+		sb.WriteString(n)
+		sb.WriteString(" ~ ")
+		sb.WriteString(strconv.FormatFloat(starts[n], 'g', 6, 64))
+	}
+	return sb.String()
+}

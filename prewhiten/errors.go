@@ -1,0 +1,93 @@
+package prewhiten
+
+import (
+	"fmt"
+	"strconv"
+)
+
+// ValueError reports a NaN or infinite sample: series Name at Index (0 =
+// oldest) holds Value.
+type ValueError struct {
+	Name  string
+	Index int
+	Value float64
+}
+
+func (e *ValueError) Error() string {
+	return fmt.Sprintf("prewhiten: series %q has %v at index %d", e.Name, e.Value, e.Index)
+}
+
+// LengthError reports two series that must have equal lengths but do not.
+type LengthError struct {
+	Names [2]string
+	Lens  [2]int
+}
+
+func (e *LengthError) Error() string {
+	return fmt.Sprintf("prewhiten: series %q has %d samples but %q has %d; they must be of equal length",
+		e.Names[0], e.Lens[0], e.Names[1], e.Lens[1])
+}
+
+// ShortError reports a series of Len samples where Need are required for
+// the reason Why.
+type ShortError struct {
+	Name string
+	Len  int
+	Need int
+	Why  string
+}
+
+func (e *ShortError) Error() string {
+	return fmt.Sprintf("prewhiten: series %q has %d samples, need at least %d %s", e.Name, e.Len, e.Need, e.Why)
+}
+
+// ConstantError reports a series that is constant after its differencing,
+// so that no filter can be fitted to it.
+type ConstantError struct {
+	Name string
+}
+
+func (e *ConstantError) Error() string {
+	return fmt.Sprintf("prewhiten: series %q is constant after differencing; it cannot be prewhitened", e.Name)
+}
+
+// ArgError reports a setting out of range.
+type ArgError struct {
+	Arg, Value, Want string
+}
+
+func (e *ArgError) Error() string {
+	return fmt.Sprintf("prewhiten: %s = %s, want %s", e.Arg, e.Value, e.Want)
+}
+
+// NotWhiteError is returned together with a valid result when the
+// prewhitened input still fails the Ljung-Box test: the filter did not
+// whiten it, and cross-correlations computed from it can mislead. Try a
+// larger MaxOrder, differencing, or an ARMA filter.
+type NotWhiteError struct {
+	Name string
+	// Q, DF and P are the Ljung-Box statistic, its degrees of freedom and
+	// p-value; Lags the number of autocorrelations tested; Level the
+	// threshold P fell below.
+	Q     float64
+	DF    int
+	P     float64
+	Lags  int
+	Level float64
+}
+
+func (e *NotWhiteError) Error() string {
+	return fmt.Sprintf("prewhiten: series %q is not white after prewhitening: Ljung-Box Q = %.4g on %d df over %d lags, p = %.3g < %g",
+		e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
+}
+
+func checkSeries(name string, x []float64) error {
+	for i, v := range x {
+		if v-v != 0 {
+			return &ValueError{Name: name, Index: i, Value: v}
+		}
+	}
+	return nil
+}
+
+func itoa(k int) string { return strconv.Itoa(k) }

@@ -1,0 +1,92 @@
+package prewhiten
+
+import (
+	"strconv"
+
+	"github.com/backshift/backshift/arma"
+)
+
+// Result is a prewhitened input-output pair.
+type Result struct {
+	// Filter is the filter fitted to the input.
+	Filter Filter
+	// Alpha is the prewhitened input and Beta the output through the same
+	// filter, both of the original length with NaN before Start.
+	Alpha, Beta []float64
+	// Start is the first valid index of Alpha and Beta.
+	Start int
+	// Check is the Ljung-Box test of Alpha[Start:] with fitdf = p + q.
+	Check arma.Portmanteau
+	// White reports whether Check.P is at least the settings' Level.
+	White bool
+}
+
+// Pair fits a filter to the input x (see Fit) and applies it to x and to
+// the output y, which must have the same length. It then tests
+// Alpha[Start:] for whiteness with Ljung-Box. When the test fails, Pair
+// returns the complete result together with a *NotWhiteError (use
+// errors.As); all other errors come with a nil result: *LengthError,
+// *ValueError naming "x"/"y" or the names given (Settings.Name for x,
+// yName for y), *ShortError, *ConstantError, *ArgError.
+func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
+	name := s.name()
+	if yName == "" {
+		yName = "y"
+	}
+	if len(x) != len(y) {
+		return nil, &LengthError{Names: [2]string{name, yName}, Lens: [2]int{len(x), len(y)}}
+	}
+	if err := checkSeries(yName, y); err != nil {
+		return nil, err
+	}
+	f, err := Fit(x, s)
+	if err != nil {
+		return nil, err
+	}
+	alpha, start, err := f.Apply(x, name)
+	if err != nil {
+		return nil, err
+	}
+	beta, _, err := f.Apply(y, yName)
+	if err != nil {
+		return nil, err
+	}
+	res := &Result{Filter: f, Alpha: alpha, Beta: beta, Start: start}
+	var set Settings
+	if s != nil {
+		set = *s
+	}
+	m := len(alpha) - start
+	lags := set.Lags
+	if lags == 0 {
+		lags = min(20, m/5)
+	}
+	fitdf := len(f.AR) - 1 + len(f.MA) - 1
+	level := set.Level
+	if level == 0 {
+		level = 0.01
+	}
+	if !(level > 0 && level < 1) {
+		return nil, &ArgError{Arg: "Settings.Level", Value: strconv.FormatFloat(level, 'g', -1, 64), Want: "in (0, 1)"}
+	}
+	if lags <= fitdf {
+		// Too few samples to test beyond the fitted coefficients: test
+		// with the smallest meaningful number of lags.
+		lags = fitdf + 1
+	}
+	if lags >= m {
+		return nil, &ShortError{Name: name, Len: len(x), Need: start + lags + 1, Why: "to check the prewhitened input for whiteness"}
+	}
+	if isConstant(alpha[start:]) {
+		return nil, &ConstantError{Name: name}
+	}
+	res.Check, err = arma.LjungBox(alpha[start:], lags, fitdf)
+	if err != nil {
+		return nil, err
+	}
+	res.White = res.Check.P >= level
+	if !res.White {
+		return res, &NotWhiteError{Name: name, Q: res.Check.Q, DF: res.Check.DF, P: res.Check.P, Lags: lags, Level: level}
+	}
+	return res, nil
+}
