@@ -1,0 +1,143 @@
+package tf_test
+
+import (
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/tf"
+)
+
+// TestStepMetricsFirstOrder: a first-order lag of time constant tau has
+// the 10-90 % rise time tau ln 9 and the 2 % settling time tau ln 50
+// (common practice: solve 1 - e^{-t/tau} = level). The discretised lag
+// reproduces the continuous response at the samples; linear interpolation
+// between samples shifts a crossing by about 1/(8 tau) samples, hence the
+// tolerance of 0.01 samples for tau = 20.
+func TestStepMetricsFirstOrder(t *testing.T) {
+	const tau = 20.0
+	r, err := tf.FOPDT{Gain: 3, TimeConstant: tau}.Discretize(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	info, err := r.StepMetrics(tf.StepOptions{Interval: 0.5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(info.Rise.Samples-tau*math.Log(9)) > 0.01 {
+		t.Errorf("rise %v samples, want %v", info.Rise.Samples, tau*math.Log(9))
+	}
+	if math.Abs(info.Rise.Time-0.5*info.Rise.Samples) > 1e-12 {
+		t.Errorf("rise time %v, want samples*0.5", info.Rise.Time)
+	}
+	if math.Abs(info.Settling.Samples-tau*math.Log(50)) > 0.01 {
+		t.Errorf("settling %v samples, want %v", info.Settling.Samples, tau*math.Log(50))
+	}
+	if info.Overshoot != 0 || info.Undershoot != 0 || math.Abs(info.Final-3) > 1e-12 {
+		t.Errorf("overshoot %v undershoot %v final %v", info.Overshoot, info.Undershoot, info.Final)
+	}
+	// A 5 % band settles at tau ln 20.
+	info5, _ := r.StepMetrics(tf.StepOptions{Band: 0.05})
+	if math.Abs(info5.Settling.Samples-tau*math.Log(20)) > 0.01 {
+		t.Errorf("5 %% settling %v, want %v", info5.Settling.Samples, tau*math.Log(20))
+	}
+	modes, err := r.Modes(0.5)
+	if err != nil || len(modes) != 1 || modes[0].Kind != "real" {
+		t.Fatalf("modes %+v, %v", modes, err)
+	}
+	if math.Abs(modes[0].TimeConstant.Samples-tau) > 1e-10 || math.Abs(modes[0].TimeConstant.Time-tau/2) > 1e-10 {
+		t.Errorf("time constant %+v, want %v samples", modes[0].TimeConstant, tau)
+	}
+}
+
+// TestStepMetricsUnderdamped: the standard second-order lag overshoots by
+// exp(-pi zeta / sqrt(1 - zeta^2)) at the peak time pi/wd (common
+// practice). Sampling 300 times per period keeps the sampled peak within
+// 1e-3 of the continuous one and its time within a sample.
+func TestStepMetricsUnderdamped(t *testing.T) {
+	const zeta, wn = 0.3, 0.02 // wn in rad/sample (T = 1)
+	r, err := tf.SecondOrder{Gain: -2, NaturalFrequency: wn, Damping: zeta}.Discretize(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	info, err := r.StepMetrics(tf.StepOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantOS := math.Exp(-math.Pi * zeta / math.Sqrt(1-zeta*zeta))
+	if math.Abs(info.Overshoot-wantOS) > 1e-3 {
+		t.Errorf("overshoot %v, want %v", info.Overshoot, wantOS)
+	}
+	wd := wn * math.Sqrt(1-zeta*zeta)
+	if math.Abs(info.PeakTime.Samples-math.Pi/wd) > 1 {
+		t.Errorf("peak time %v, want %v", info.PeakTime.Samples, math.Pi/wd)
+	}
+	if math.Abs(info.Peak-(-2)*(1+wantOS)) > 2e-3 {
+		t.Errorf("peak %v for a negative gain, want %v", info.Peak, -2*(1+wantOS))
+	}
+	if info.Band != 0.02 || math.IsNaN(info.Settling.Samples) {
+		t.Errorf("band %v settling %v", info.Band, info.Settling)
+	}
+	modes, err := r.Modes(2)
+	if err != nil || len(modes) != 1 || modes[0].Kind != "complex" {
+		t.Fatalf("modes %+v, %v", modes, err)
+	}
+	// z = e^{sT} exactly, so s = ln z recovers wn and zeta to rounding.
+	m := modes[0]
+	if math.Abs(m.Damping-zeta) > 1e-9 || math.Abs(m.NaturalFrequency-wn) > 1e-12 || math.Abs(m.NaturalFrequencyTime-wn/2) > 1e-12 {
+		t.Errorf("mode %+v, want zeta %v wn %v", m, zeta, wn)
+	}
+}
+
+// TestStepMetricsInverseResponse: omega = -0.5 + 0.9 B over
+// 1 - 1.3 B + 0.42 B^2 starts at -0.5 while its gain is 0.4/0.12, so the
+// undershoot is 0.5/(10/3) = 0.15 exactly, by hand.
+func TestStepMetricsInverseResponse(t *testing.T) {
+	r := tf.MustRational([]float64{-0.5, 0.9}, []float64{1, -1.3, 0.42}, 0)
+	info, err := r.StepMetrics(tf.StepOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(info.Undershoot-0.15) > 1e-12 {
+		t.Errorf("undershoot %v, want 0.15", info.Undershoot)
+	}
+	if r.IsMinimumPhase() {
+		t.Errorf("zero at z = 1.8 reported minimum phase")
+	}
+}
+
+// TestBodeLongDeadTime: B^300 has unit magnitude and phase -300 w exactly
+// (by hand); on a grid of spacing 0.1 rad/sample a wrapped phase would
+// jump, the exact dead-time term does not.
+func TestBodeLongDeadTime(t *testing.T) {
+	r := tf.MustRational([]float64{1}, []float64{1}, 300)
+	w := []float64{0, 0.1, 0.2, 0.3, 1, 2, 3}
+	mag, ph, err := r.Bode(w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range w {
+		if math.Abs(mag[i]-1) > 1e-15 || math.Abs(ph[i]+300*w[i]) > 1e-12 {
+			t.Errorf("w=%v: mag %v phase %v, want 1 and %v", w[i], mag[i], ph[i], -300*w[i])
+		}
+	}
+	h := r.Freq([]float64{0.1})
+	if math.Abs(real(h[0])-math.Cos(30)) > 1e-12 || math.Abs(imag(h[0])+math.Sin(30)) > 1e-12 {
+		t.Errorf("G(e^{-0.1i}) = %v, want e^{-30i}", h[0])
+	}
+}
+
+// TestBIBOFirstOrder: for 0.5/(1 - a B) with 0 < a < 1 the weights are
+// 0.5 a^k, so sum |h_k| = 0.5/(1-a); for a < 0 the same with |a| (by hand).
+func TestBIBOFirstOrder(t *testing.T) {
+	for _, a := range []float64{0.5, 0.99, -0.9, 0.999} {
+		r := tf.MustRational([]float64{0.5}, []float64{1, -a}, 2)
+		b, err := r.BIBOBound()
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := 0.5 / (1 - math.Abs(a))
+		if !(b.Sum <= want*(1+1e-12) && b.Sum+b.Tail >= want*(1-1e-12)) || b.Tail > 1e-5*want {
+			t.Errorf("a=%v: bound %+v, want sum %v", a, b, want)
+		}
+	}
+}
