@@ -1,0 +1,85 @@
+package prewhiten_test
+
+import (
+	"encoding/csv"
+	"os"
+	"strconv"
+	"testing"
+
+	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/prewhiten"
+)
+
+// readColumns reads named numeric columns of a CSV file with a header.
+func readColumns(t *testing.T, path string, names ...string) [][]float64 {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rd := csv.NewReader(f)
+	rd.FieldsPerRecord = -1
+	all, err := rd.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := make([][]float64, len(names))
+	for i, name := range names {
+		col := -1
+		for j, h := range all[0] {
+			if h == name {
+				col = j
+			}
+		}
+		if col < 0 {
+			t.Fatalf("%s: no column %q", path, name)
+		}
+		for _, row := range all[1:] {
+			if col >= len(row) {
+				continue
+			}
+			v, err := strconv.ParseFloat(row[col], 64)
+			if err != nil {
+				t.Fatalf("%s: %v", path, err)
+			}
+			out[i] = append(out[i], v)
+		}
+	}
+	return out
+}
+
+// TestBJSales identifies sales from the leading indicator, both first
+// differenced: R 4.2.2 datasets BJsales (output) and BJsales.lead
+// (input), documented as Series M of Box, Jenkins & Reinsel, Time Series
+// Analysis: Forecasting and Control (exported by
+// testdata/bjsales/export.R). The published identification is a dead
+// time of 3 samples, one denominator term and no further numerator terms
+// (b = 3, r = 1, s = 0); our top candidate must agree.
+func TestBJSales(t *testing.T) {
+	cols := readColumns(t, "../testdata/bjsales/bjsales.csv", "sales", "lead")
+	sales, lead := cols[0], cols[1]
+	pw, err := prewhiten.Pair(lead, sales, "sales", &prewhiten.Settings{Name: "lead", Diff: []float64{1, -1}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("filter: %v (Ljung-Box p = %.3f)", pw.Filter, pw.Check.P)
+	w, err := ccf.ImpulseWeights(pw.Alpha[pw.Start:], pw.Beta[pw.Start:], 15, "lead", nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k := range w.V {
+		t.Logf("v_%d = %8.4f  (t = %6.2f)", k, w.V[k], w.T(k))
+	}
+	id, err := ccf.Identify(w, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, c := range id.Candidates {
+		t.Logf("%d: b=%d r=%d s=%d score %.2f corner %v  %s", i, c.Delay, c.R, c.S, c.Score, c.Corner, c.Spec("sales", ""))
+	}
+	c := id.Candidates[0]
+	if id.DeadTime != 3 || c.R != 1 || c.S != 0 {
+		t.Errorf("top candidate b=%d r=%d s=%d, want the published b=3 r=1 s=0", id.DeadTime, c.R, c.S)
+	}
+}
