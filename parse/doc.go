@@ -1,0 +1,185 @@
+// Package parse reads model specs: one short text, written the way an
+// engineer writes a transfer-function-noise model on paper, that becomes
+// a typed tf.Model. The model prints back to canonical spec text with
+// tf.Model.String, and parse.Model(m.String()) is equal to m.
+//
+//	# kiln: burner firing rate (%) -> chamber temperature (degC)
+//	temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (1 - t1 B) / (1 - p1 B) a
+//	where w0 ~ 2, d1 ~ 0.6
+//	every 30 s
+//
+// reads: the temperature is a constant 21.5 plus the burner rate passed
+// through (w0 + w1 B) / (1 - d1 B) with a dead time of four samples, plus
+// noise that is white noise a_t filtered by (1 - t1 B) / (1 - p1 B); the
+// coefficients w0, w1, d1, t1 and p1 are free (to be estimated), w0
+// starting at 2 and d1 at 0.6, the others at 0; one sample is 30 seconds.
+//
+// # The model
+//
+// A spec describes, in the backshift operator B (B x_t = x_{t-1}),
+//
+//	D(B) y_t = c + sum_i omega_i(B) / delta_i(B) B^b_i D_i(B) x_i,t + theta(B) / phi(B) a_t
+//
+// one output series y with optional differencing D(B); an optional
+// constant c; one or more input terms, each a numerator omega(B), a
+// denominator delta(B) (constant term 1), a dead time of b samples and an
+// optional differencing D_i(B) of the input series x_i; and at most one
+// noise term. See package tf for the typed values.
+//
+// # Coefficients
+//
+// A coefficient is a number (fixed) or a name (a parameter). A name is
+// free, to be estimated, starting at 0, unless the where clause says
+// otherwise:
+//
+//	where d1 ~ 0.8    free, starting at 0.8 ("about 0.8")
+//	where d1 = 0.8    held at 0.8 (not estimated)
+//
+// The same name in several places is one parameter. Signs are kept as
+// written: in (1 - d1 B) the coefficient of B is -d1.
+//
+// # Polynomials and factors
+//
+// A polynomial in B is written in parentheses as signed terms: a
+// coefficient, a coefficient times a power of B, or a power of B alone:
+// (w0 + w1 B - w2 B^2), (1 - 0.5 B), (1 - B^12). The '*' between a
+// coefficient and B, and between factors, is optional: (w1*B), w0 * B^3 x.
+// Factors multiply when written side by side, (1 - p1 B)(1 - P1 B^12),
+// and take whole powers, (1 - B)^2. A product may also be grouped in
+// parentheses: / ((1 - d1 B)(1 - d2 B)) divides by both factors.
+//
+// An input term is a run of operators followed by its series name:
+//
+//	w0 x                       gain w0 (a lone coefficient needs no parentheses)
+//	w0 B^3 x                   gain w0, dead time 3 samples (B alone: 1 sample)
+//	(w0 + w1 B) / (1 - d1 B) x numerator and denominator
+//	w0 / (1 - d1 B) / (1 - d2 B) B^2 x   two denominator factors
+//	1 x                        unit gain (a lone name is the constant)
+//	w0 ((1 - B) x)             the input differenced once before the filter
+//
+// '/' divides by the one factor after it; the numerator comes first,
+// then the denominator factors, each after its own '/' (or grouped in
+// parentheses), so that no factor is left whose side is in doubt. B^k
+// anywhere among the operators adds k samples of dead time. A term that is a number or a name alone is the constant; a
+// negative constant is written with '-' (y = -4.2 + ...). An input term
+// cannot be subtracted: put the sign in its numerator, (-w0) x.
+//
+// # Differencing
+//
+// Differencing operators are polynomials of fixed numbers with constant
+// term 1, written before the output name and, for an input, with the
+// series inside parentheses:
+//
+//	(1 - B) temp = w0 ((1 - B) burner) + a
+//	(1 - B)(1 - B^12) sales = w0 B^2 ((1 - B)(1 - B^12) lead) + a
+//
+// # Noise
+//
+// The noise term ends with the white-noise symbol a:
+//
+//	a                           white noise only
+//	(1 - t1 B) / (1 - p1 B) a   ARMA(1, 1) noise, written out
+//	1 / (1 - p1 B) a            AR(1) noise
+//	(1 - t1 B) / (1 - p1 B) / (1 - P1 B^12) a   a seasonal AR factor
+//
+// Without a noise term the model is noise free (tf.Model.Noise is nil);
+// with a alone it is white noise (a zero arma.Noise). The shorthands
+//
+//	AR(p)       1 / (1 - phi1 B - ... - phip B^p) a
+//	MA(q)       (1 - theta1 B - ... - thetaq B^q) a
+//	ARMA(p, q)  (1 - theta1 B - ... - thetaq B^q) / (1 - phi1 B - ... - phip B^p) a
+//
+// stand alone as the noise term and expand to free coefficients named
+// phi1..phip and theta1..thetaq, with the Box-Jenkins signs shown (minus
+// signs on both polynomials; so the noise satisfies
+// N_t = phi1 N_{t-1} + ... + a_t - theta1 a_{t-1} - ...). ARMA(0, 0)
+// is white noise. Give them start values or hold them in the where
+// clause like any name: ARMA(1, 1) where phi1 ~ 0.5.
+//
+// # Sample interval
+//
+// "every 30 s" gives the sample interval, with unit s, min, h or d, so
+// that responses can be reported in time as well as in samples. Without
+// it times are in samples.
+//
+// # Layout
+//
+// Spaces, tabs and line breaks may appear between any two tokens; '#'
+// starts a comment to the end of the line. The where and every clauses
+// follow the equation in any order, each optionally after ';'. Names
+// are ASCII letters, digits and '_', not starting with a digit; B, a,
+// AR, MA, ARMA, where and every are reserved. Numbers are decimal, with
+// an optional exponent: 2, 0.5, .5, 1e-3, 2.5E+4.
+//
+// # Grammar
+//
+// In EBNF (as in the Go specification: [ ] optional, { } repeated, | or):
+//
+//	spec        = equation { [ ";" ] clause } [ ";" ] .
+//	equation    = { factor } name "=" [ "-" ] term { ( "+" | "-" ) term } .
+//	term        = constant | input | noise .
+//	constant    = number | name .
+//	input       = { numerator [ "*" ] } { denominator [ "*" ] } series .
+//	numerator   = coefficient | factor | delay .
+//	denominator = "/" factor | delay .
+//	delay       = "B" [ "^" whole ] .
+//	series      = name | "(" factor { factor } name ")" .
+//	noise       = [ "1" ] { factor } { "/" factor } "a"
+//	            | "AR" "(" whole ")" | "MA" "(" whole ")"
+//	            | "ARMA" "(" whole "," whole ")" .
+//	factor      = "(" ( polynomial | factor { [ "*" ] factor } ) ")" [ "^" whole ] .
+//	polynomial  = [ sign ] monomial { sign monomial } .
+//	monomial    = coefficient [ [ "*" ] "B" [ "^" whole ] ] | "B" [ "^" whole ] .
+//	coefficient = number | name .
+//	sign        = "+" | "-" .
+//	clause      = "where" binding { "," binding } | "every" number unit .
+//	binding     = name ( "~" | "=" ) [ "-" ] number .
+//	unit        = "s" | "min" | "h" | "d" .
+//	whole       = digit { digit } .
+//	number      = ( digit { digit } [ "." { digit } ] | "." digit { digit } )
+//	              [ ( "e" | "E" ) [ "+" | "-" ] digit { digit } ] .
+//	name        = letter { letter | digit } .   (not a reserved word)
+//	letter      = "A" … "Z" | "a" … "z" | "_" .
+//
+// plus the rules the grammar cannot say: an input has at least one
+// operator (a lone name is the constant); the first term may carry '-'
+// only when it is a number (the constant); at most one constant and one
+// noise term; at least one input; each denominator and noise factor has
+// constant term 1 (the number 1, not a name); differencing holds numbers
+// only, with constant term 1; one term per power of B in a polynomial.
+//
+// # Errors
+//
+// Model returns an ErrorList of *Error values, each with a position
+// (1-based line and column; columns count bytes), a message in the
+// spec's terms and the offending line, printed as
+//
+//	1:23: the constant term of the denominator must be 1, not 2; divide the numerator and the denominator by 2
+//	    temp = (w0 + w1 B) / (2 - d1 B) burner
+//	                         ^
+//
+// Every *Error wraps ErrSyntax (not written in the language), ErrModel
+// (written correctly but not a valid model: denominator constant term,
+// dead time not a whole non-negative number, an input named twice, the
+// output used as an input, a name used as both a series and a
+// coefficient, a name in a differencing operator, an unknown unit, ...)
+// or ErrLimit.
+//
+// # Limits
+//
+// A spec is at most MaxSpecLen (64 KiB) long; each polynomial has degree
+// at most MaxDegree (64); a dead time is at most MaxDelay (10000)
+// samples; a model has at most MaxInputs (64) inputs; parentheses nest at
+// most MaxNesting (8) deep. Length and nesting are checked before
+// parsing, so that Model takes time and memory linear in the length of
+// any text, hostile or not.
+//
+// # Implementation
+//
+// The grammar is written for participle (github.com/alecthomas/participle
+// v2), slightly wider than the language so that the checks after parsing
+// can give precise messages; a hand-written recursive-descent parser
+// builds the same syntax tree about ten times faster, and the participle
+// parser runs when it fails, to locate and explain the error. Tests and
+// the fuzz target check that the two agree.
+package parse

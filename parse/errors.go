@@ -1,0 +1,133 @@
+package parse
+
+import (
+	"errors"
+	"fmt"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/backshift/backshift/tf"
+)
+
+// Kinds of spec errors. Every *Error wraps one of them, so that callers
+// may test the kind with errors.Is.
+var (
+	// ErrSyntax marks text that is not written in the spec language.
+	ErrSyntax = errors.New("parse: syntax error")
+	// ErrModel marks a spec that is well formed but does not describe a
+	// valid model (a denominator whose constant term is not 1, an input
+	// named twice, ...).
+	ErrModel = errors.New("parse: invalid model")
+	// ErrLimit marks a spec over one of the documented limits (length,
+	// degree, dead time, number of inputs, nesting).
+	ErrLimit = errors.New("parse: over a limit")
+)
+
+// Error is one problem in a spec, at a position in its text.
+//
+// Error() prints it as
+//
+//	line:col: message
+//	    the offending line of the spec
+//	    ^ (a caret under column col)
+//
+// Line and column are 1-based; the column counts bytes from the start of
+// the line (the caret is placed by characters, so it sits under the right
+// character in a line with non-ASCII text).
+type Error struct {
+	Pos  tf.Pos // where the problem is
+	Msg  string // what is wrong, in the spec's own words
+	Text string // the line of the spec that holds Pos, without its line break
+	Kind error  // ErrSyntax, ErrModel or ErrLimit
+}
+
+// Error returns "line:col: message" followed by the spec line and a caret.
+func (e *Error) Error() string {
+	var b strings.Builder
+	b.WriteString(strconv.Itoa(e.Pos.Line))
+	b.WriteByte(':')
+	b.WriteString(strconv.Itoa(e.Pos.Column))
+	b.WriteString(": ")
+	b.WriteString(e.Msg)
+	if e.Text != "" || e.Pos.Column > 0 {
+		b.WriteString("\n    ")
+		b.WriteString(e.Text)
+		b.WriteString("\n    ")
+		b.WriteString(caretPad(e.Text, e.Pos.Column-1))
+		b.WriteByte('^')
+	}
+	return b.String()
+}
+
+// Unwrap returns the kind of the error (ErrSyntax, ErrModel or ErrLimit).
+func (e *Error) Unwrap() error { return e.Kind }
+
+// caretPad returns the blanks that put a caret under byte column n of
+// line: one blank per character, tabs kept as tabs.
+func caretPad(line string, n int) string {
+	if n > len(line) {
+		return strings.Repeat(" ", utf8.RuneCountInString(line)+n-len(line))
+	}
+	var b strings.Builder
+	for _, r := range line[:max(n, 0)] {
+		if r == '\t' {
+			b.WriteByte('\t')
+		} else {
+			b.WriteByte(' ')
+		}
+	}
+	return b.String()
+}
+
+// ErrorList is the list of problems found in one spec, in the order of
+// their positions. Model returns an ErrorList holding at least one
+// *Error; errors.As(err, &e) with e a *Error yields the first one.
+type ErrorList []*Error
+
+// Error prints the first error, followed by "(and N more errors)" when
+// there are more.
+func (l ErrorList) Error() string {
+	switch len(l) {
+	case 0:
+		return "no errors"
+	case 1:
+		return l[0].Error()
+	}
+	return fmt.Sprintf("%s\n(and %d more errors)", l[0].Error(), len(l)-1)
+}
+
+// Unwrap returns the errors of the list, for errors.Is and errors.As.
+func (l ErrorList) Unwrap() []error {
+	out := make([]error, len(l))
+	for i, e := range l {
+		out[i] = e
+	}
+	return out
+}
+
+// maxErrors caps how many problems one spec reports.
+const maxErrors = 10
+
+// quoteChar quotes the first character of s for a message; a byte that
+// is not UTF-8 is shown in hex.
+func quoteChar(s string) string {
+	r, n := utf8.DecodeRuneInString(s)
+	if r == utf8.RuneError && n <= 1 {
+		return fmt.Sprintf("byte 0x%02x", s[0])
+	}
+	return strconv.QuoteRune(r)
+}
+
+// lineAt returns the line of src that holds byte offset off.
+func lineAt(src string, off int) string {
+	off = min(max(off, 0), len(src))
+	start := strings.LastIndexByte(src[:off], '\n') + 1
+	end := strings.IndexByte(src[off:], '\n')
+	if end < 0 {
+		end = len(src)
+	} else {
+		end += off
+	}
+	return strings.TrimSuffix(src[start:end], "\r")
+}

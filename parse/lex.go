@@ -1,0 +1,146 @@
+package parse
+
+import (
+	"io"
+	"strings"
+
+	"github.com/alecthomas/participle/v2/lexer"
+)
+
+// Token types of the spec lexer. Keywords (B, a, AR, MA, ARMA, where,
+// every) have their own type so that a name in the grammar never matches
+// one.
+const (
+	tokNumber lexer.TokenType = iota + 1
+	tokIdent
+	tokKeyword
+	tokPunct
+)
+
+var keywords = map[string]bool{
+	"B": true, "a": true, "AR": true, "MA": true, "ARMA": true, "where": true, "every": true,
+}
+
+// specLexer is the participle lexer definition for spec text. It lexes
+// the whole string into a token slice in one linear pass.
+type specLexer struct{}
+
+func (specLexer) Symbols() map[string]lexer.TokenType {
+	return map[string]lexer.TokenType{
+		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct,
+	}
+}
+
+func (d specLexer) Lex(filename string, r io.Reader) (lexer.Lexer, error) {
+	var b strings.Builder
+	if _, err := io.Copy(&b, r); err != nil {
+		return nil, err
+	}
+	return d.LexString(filename, b.String())
+}
+
+func (specLexer) LexString(_ string, s string) (lexer.Lexer, error) {
+	toks, err := lexSpec(s)
+	if err != nil {
+		return nil, err
+	}
+	return &sliceLexer{toks: toks}, nil
+}
+
+// sliceLexer hands out tokens lexed beforehand.
+type sliceLexer struct {
+	toks []lexer.Token
+	i    int
+}
+
+func (l *sliceLexer) Next() (lexer.Token, error) {
+	t := l.toks[l.i]
+	if l.i < len(l.toks)-1 {
+		l.i++
+	}
+	return t, nil
+}
+
+// lexError is a lexing failure at a byte offset, turned into an *Error by
+// the caller, which has the source text.
+type lexError struct {
+	pos lexer.Position
+	msg string
+}
+
+func (e *lexError) Error() string { return e.msg }
+
+const punct = "=~+-*/^(),;"
+
+// lexSpec splits s into tokens, skipping spaces, line breaks and #
+// comments, and appends an EOF token. Columns count bytes, 1-based.
+func lexSpec(s string) ([]lexer.Token, error) {
+	toks := make([]lexer.Token, 0, len(s)/3+2)
+	line, lineStart := 1, 0
+	i := 0
+	for i < len(s) {
+		c := s[i]
+		switch {
+		case c == '\n':
+			i++
+			line, lineStart = line+1, i
+			continue
+		case c == ' ' || c == '\t' || c == '\r':
+			i++
+			continue
+		case c == '#':
+			for i < len(s) && s[i] != '\n' {
+				i++
+			}
+			continue
+		}
+		pos := lexer.Position{Offset: i, Line: line, Column: i - lineStart + 1}
+		start := i
+		var typ lexer.TokenType
+		switch {
+		case isDigit(c) || c == '.' && i+1 < len(s) && isDigit(s[i+1]):
+			typ = tokNumber
+			for i < len(s) && isDigit(s[i]) {
+				i++
+			}
+			if i < len(s) && s[i] == '.' {
+				i++
+				for i < len(s) && isDigit(s[i]) {
+					i++
+				}
+			}
+			if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+				j := i + 1
+				if j < len(s) && (s[j] == '+' || s[j] == '-') {
+					j++
+				}
+				if j < len(s) && isDigit(s[j]) {
+					for j < len(s) && isDigit(s[j]) {
+						j++
+					}
+					i = j
+				}
+			}
+		case isLetter(c):
+			typ = tokIdent
+			for i < len(s) && (isLetter(s[i]) || isDigit(s[i])) {
+				i++
+			}
+			if keywords[s[start:i]] {
+				typ = tokKeyword
+			}
+		case strings.IndexByte(punct, c) >= 0:
+			typ = tokPunct
+			i++
+		default:
+			return nil, &lexError{pos: pos, msg: "unexpected character " + quoteChar(s[i:])}
+		}
+		toks = append(toks, lexer.Token{Type: typ, Value: s[start:i], Pos: pos})
+	}
+	toks = append(toks, lexer.Token{Type: lexer.EOF,
+		Pos: lexer.Position{Offset: len(s), Line: line, Column: len(s) - lineStart + 1}})
+	return toks, nil
+}
+
+func isDigit(c byte) bool  { return '0' <= c && c <= '9' }
+func isLetter(c byte) bool { return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' || c == '_' }

@@ -1,0 +1,296 @@
+package tf
+
+import (
+	"math"
+	"strconv"
+	"strings"
+)
+
+// String returns m as canonical spec text, on one line, which package
+// parse reads back to a model equal to m (Model.Equal):
+//
+//	(1 - B) temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (1 - theta1 B) a; where w0 ~ 0.5, d1 = 0.8; every 30 s
+//
+// The layout: the output's differencing factors and name, '=', the
+// constant, the input terms in order (numerator factors, '/' and each
+// denominator factor, B^k for the dead time, then the series, written
+// ((1 - B) x) when the input is differenced), the noise term
+// theta(B) / phi(B) a (a alone for white noise, nothing when Noise is
+// nil), then a where clause with every named coefficient that is held
+// (name = value) or free with a non-zero start value (name ~ value), in
+// order of first use, and the sample interval.
+//
+// Numbers print in the shortest form that reads back to the same float64
+// (strconv 'g', precision -1). The text is exact for models as package
+// parse builds them; for a model built in code it assumes that each name
+// has one value and one freedom wherever it is used (the first use is
+// printed), that unnamed coefficients are fixed and that values are
+// finite; a negative unnamed value prints with its sign folded into the
+// term's sign.
+func (m Model) String() string {
+	var b strings.Builder
+	b.Grow(64 + 48*len(m.Inputs))
+	m.prAppend(&b)
+	return b.String()
+}
+
+func (m Model) prAppend(b *strings.Builder) {
+	if !m.Diff.IsOne() {
+		prPoly(b, m.Diff)
+		b.WriteByte(' ')
+	}
+	b.WriteString(m.Output)
+	b.WriteString(" =")
+	first := true
+	sep := func() {
+		if first {
+			b.WriteByte(' ')
+			first = false
+		} else {
+			b.WriteString(" + ")
+		}
+	}
+	if m.Const != nil {
+		sep()
+		if m.Const.Name != "" {
+			b.WriteString(m.Const.Name)
+		} else {
+			prNum(b, m.Const.Value)
+		}
+	}
+	for _, in := range m.Inputs {
+		sep()
+		in.prAppend(b)
+	}
+	if m.Noise != nil {
+		sep()
+		switch {
+		case m.Noise.IsWhite():
+		case m.Noise.MA.IsOne():
+			b.WriteString("1 ")
+		default:
+			prPoly(b, m.Noise.MA)
+			b.WriteByte(' ')
+		}
+		for _, f := range m.Noise.AR.Factors {
+			b.WriteString("/ ")
+			prFactor(b, f)
+			b.WriteByte(' ')
+		}
+		b.WriteByte('a')
+	}
+	m.prWhere(b)
+	if m.Interval != (Interval{}) {
+		b.WriteString("; every ")
+		b.WriteString(m.Interval.String())
+	}
+}
+
+// prWhere writes the where clause: each name once, at its first use,
+// when it is held or has a non-zero start value.
+func (m Model) prWhere(b *strings.Builder) {
+	var done map[string]struct{}
+	n := 0
+	fn := func(c *Coef) {
+		if c.Name == "" {
+			return
+		}
+		if _, ok := done[c.Name]; ok {
+			return
+		}
+		if done == nil {
+			done = make(map[string]struct{}, 8)
+		}
+		done[c.Name] = struct{}{}
+		if c.Free && c.Value == 0 {
+			return
+		}
+		if n == 0 {
+			b.WriteString("; where ")
+		} else {
+			b.WriteString(", ")
+		}
+		n++
+		b.WriteString(c.Name)
+		if c.Free {
+			b.WriteString(" ~ ")
+		} else {
+			b.WriteString(" = ")
+		}
+		prNum(b, c.Value)
+	}
+	if m.Const != nil {
+		c := *m.Const
+		fn(&c)
+	}
+	for _, in := range m.Inputs {
+		prEach(in.Num, fn)
+		prEach(in.Den, fn)
+	}
+	if m.Noise != nil {
+		prEach(m.Noise.MA, fn)
+		prEach(m.Noise.AR, fn)
+	}
+}
+
+// prEach calls fn with a copy of every coefficient of p, in written order.
+func prEach(p Poly, fn func(c *Coef)) {
+	for _, f := range p.Factors {
+		for _, t := range f.Terms {
+			c := t.Coef
+			fn(&c)
+		}
+	}
+}
+
+// String returns the input term as spec text, such as
+// "(w0 + w1 B) / (1 - d1 B) B^4 burner" or "1 ((1 - B) feed)".
+func (in Input) String() string {
+	var b strings.Builder
+	in.prAppend(&b)
+	return b.String()
+}
+
+func (in Input) prAppend(b *strings.Builder) {
+	n := 0
+	for _, f := range in.Num.Factors {
+		if n > 0 {
+			b.WriteByte(' ')
+		}
+		prNumFactor(b, f)
+		n++
+	}
+	for _, f := range in.Den.Factors {
+		if n > 0 {
+			b.WriteByte(' ')
+		} else {
+			b.WriteString("1 ")
+		}
+		b.WriteString("/ ")
+		prFactor(b, f)
+		n++
+	}
+	if in.Delay > 0 {
+		if n > 0 {
+			b.WriteByte(' ')
+		}
+		b.WriteByte('B')
+		if in.Delay > 1 {
+			b.WriteByte('^')
+			b.WriteString(strconv.Itoa(in.Delay))
+		}
+		n++
+	}
+	if n == 0 && in.Diff.IsOne() {
+		// A lone name reads as the constant: give the unit gain.
+		b.WriteString("1")
+		n++
+	}
+	if n > 0 {
+		b.WriteByte(' ')
+	}
+	if in.Diff.IsOne() {
+		b.WriteString(in.Series)
+		return
+	}
+	b.WriteByte('(')
+	prPoly(b, in.Diff)
+	b.WriteByte(' ')
+	b.WriteString(in.Series)
+	b.WriteByte(')')
+}
+
+// String returns the interval as spec text, such as "30 s", or "" for the
+// zero Interval.
+func (iv Interval) String() string {
+	if iv == (Interval{}) {
+		return ""
+	}
+	return strconv.FormatFloat(iv.Value, 'g', -1, 64) + " " + iv.Unit
+}
+
+// FormatPoly returns p as spec text: its factors side by side, each in
+// parentheses with its power, such as "(1 - p1 B)(1 - P1 B^12)" or
+// "(1 - B)^2"; the constant 1 (no factors) prints as "1".
+func FormatPoly(p Poly) string {
+	if p.IsOne() {
+		return "1"
+	}
+	var b strings.Builder
+	prPoly(&b, p)
+	return b.String()
+}
+
+func prPoly(b *strings.Builder, p Poly) {
+	for _, f := range p.Factors {
+		prFactor(b, f)
+	}
+}
+
+// prNumFactor writes a numerator factor: a lone coefficient without
+// parentheses when that reads back the same (a name, or a number other
+// than 1, with no sign and power 1), else in parentheses.
+func prNumFactor(b *strings.Builder, f Factor) {
+	if f.Exp == 1 && len(f.Terms) == 1 {
+		t := f.Terms[0]
+		c := t.Coef
+		if t.Power == 0 && !t.Neg && (c.Name != "" || (c.Value != 1 && c.Value >= 0 && !math.Signbit(c.Value))) {
+			if c.Name != "" {
+				b.WriteString(c.Name)
+			} else {
+				prNum(b, c.Value)
+			}
+			return
+		}
+	}
+	prFactor(b, f)
+}
+
+func prFactor(b *strings.Builder, f Factor) {
+	b.WriteByte('(')
+	for i, t := range f.Terms {
+		neg := t.Neg
+		c := t.Coef
+		v := c.Value
+		if c.Name == "" && math.Signbit(v) {
+			neg, v = !neg, -v
+		}
+		switch {
+		case i == 0 && neg:
+			b.WriteByte('-')
+		case i > 0 && neg:
+			b.WriteString(" - ")
+		case i > 0:
+			b.WriteString(" + ")
+		}
+		coef := true
+		if c.Name != "" {
+			b.WriteString(c.Name)
+		} else if v == 1 && t.Power > 0 {
+			coef = false
+		} else {
+			prNum(b, v)
+		}
+		if t.Power > 0 {
+			if coef {
+				b.WriteByte(' ')
+			}
+			b.WriteByte('B')
+			if t.Power > 1 {
+				b.WriteByte('^')
+				b.WriteString(strconv.Itoa(t.Power))
+			}
+		}
+	}
+	b.WriteByte(')')
+	if f.Exp > 1 {
+		b.WriteByte('^')
+		b.WriteString(strconv.Itoa(f.Exp))
+	}
+}
+
+// prNum writes v in the shortest form that reads back exactly.
+func prNum(b *strings.Builder, v float64) {
+	var buf [32]byte
+	b.Write(strconv.AppendFloat(buf[:0], v, 'g', -1, 64))
+}
