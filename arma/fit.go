@@ -48,9 +48,9 @@ type Options struct {
 	// "Theta1".. (seasonal MA), "mean" and the regressor names. Unknown
 	// names are an *ArgError.
 	Fixed map[string]float64
-	// Init overrides start values by name (default: Hannan-Rissanen for
-	// the ordinary ARMA part, zero for seasonal coefficients, least
-	// squares for the mean and regressors).
+	// Init overrides start values by name (default: Hannan-Rissanen on
+	// the last 20000 samples for the ordinary ARMA part, zero for seasonal
+	// coefficients, least squares for the mean and regressors).
 	Init map[string]float64
 	// Start is the index of the first residual in the sum of squares.
 	// Zero means the conditional default: the degree of the expanded AR
@@ -726,6 +726,10 @@ func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64
 	if ord == nil || ord.P+ord.Q == 0 {
 		return x0, nil
 	}
+	// Start values need no more than the last hrMax samples.
+	if len(resid) > hrMax {
+		resid = resid[len(resid)-hrMax:]
+	}
 	phi, theta, err := HannanRissanen(resid, ord.P, ord.Q, 0)
 	if err != nil {
 		var se *ShortError
@@ -747,6 +751,9 @@ func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64
 	}
 	return x0, nil
 }
+
+// hrMax bounds the samples used for Hannan-Rissanen start values.
+const hrMax = 20000
 
 // testEngineHook lets tests reach the engine of a fit (nil otherwise).
 var testEngineHook func(*engine)

@@ -1,6 +1,7 @@
 package arma
 
 import (
+	"fmt"
 	"math"
 	"math/cmplx"
 
@@ -96,4 +97,22 @@ func shrinkInside(a []float64, lim float64) []float64 {
 		out[k] *= s
 	}
 	return out
+}
+
+func cabs(z complex128) float64 { return cmplx.Abs(z) }
+
+// rootList formats roots for messages.
+func rootList(zs []complex128) string {
+	s := ""
+	for i, z := range zs {
+		if i > 0 {
+			s += ", "
+		}
+		if imag(z) == 0 {
+			s += fmt.Sprintf("%.6g", real(z))
+		} else {
+			s += fmt.Sprintf("%.6g", z)
+		}
+	}
+	return s
 }

@@ -27,7 +27,10 @@ type Settings struct {
 	// steps). Zero means 500.
 	MaxIter int
 	// FTol stops when the relative reduction of the sum of squares in an
-	// accepted step is below it. Zero means 1e-14.
+	// accepted step is below it and a Gauss-Newton step would not reduce
+	// it by more, or a following step fails; the tolerance used is at
+	// least 10 eps sqrt(M), the rounding floor of a sum of M squares.
+	// Zero means 1e-14.
 	FTol float64
 	// XTol stops when every step component is below XTol*(|x_j| + XTol).
 	// Zero means 1e-12.
@@ -90,6 +93,8 @@ type Result struct {
 	JTJInv *mat.SymDense // (J'J)^-1 at X; nil when J'J is singular
 }
 
+const epsilon = 0x1p-52
+
 // ErrStart is returned when Eval fails at the start point.
 var ErrStart = errors.New("lm: residuals cannot be computed at the start point")
 
@@ -115,6 +120,10 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	if set.FTol == 0 {
 		set.FTol = 1e-14
 	}
+	// Below the rounding floor of a sum of M squares (random-walk growth
+	// of rounding errors, ~sqrt(M) eps relative, with a margin of 10)
+	// reductions are noise.
+	set.FTol = math.Max(set.FTol, 10*epsilon*math.Sqrt(float64(p.M)))
 	if set.XTol == 0 {
 		set.XTol = 1e-12
 	}
@@ -147,7 +156,7 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	// Gauss-Newton.
 	mu := 1e-3
 	nu := 2.0
-	lastRel := math.Inf(1)
+	lastRel, prevRel := math.Inf(1), math.Inf(1)
 	var gnChol mat.Cholesky
 	dx := make([]float64, n)
 	xt := make([]float64, n)
@@ -168,7 +177,9 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 		// FTol (relative): stop if a full Gauss-Newton step would not do
 		// better either, so that a slow damped step in a flat valley is not
 		// taken for convergence.
-		if lastRel < set.FTol && gnSmall(&gnChol, a, g, f, set.FTol) {
+		// Two successive small reductions also stop: the sum of squares is
+		// then at its rounding floor, where the prediction is noise too.
+		if lastRel < set.FTol && (prevRel < set.FTol || gnSmall(&gnChol, a, g, f, set.FTol)) {
 			reason = SmallReduction
 			break
 		}
@@ -227,6 +238,12 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 			ft = ssq(tr)
 		}
 		if err != nil || math.IsNaN(ft) || math.IsInf(ft, 0) || ft >= f {
+			if err == nil && lastRel < set.FTol && ft-f <= set.FTol*f {
+				// A tiny reduction followed by a step that cannot reduce
+				// further: the sum of squares is at its rounding floor.
+				reason = SmallReduction
+				break
+			}
 			mu *= nu
 			nu *= 2
 			if mu > 1e30 {
@@ -244,7 +261,7 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 		jac, tjac = tjac, jac
 		f = ft
 		normal(a, g, jac, r)
-		lastRel = rel
+		prevRel, lastRel = lastRel, rel
 	}
 	res.X = x
 	res.SSQ = f

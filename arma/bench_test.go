@@ -1,0 +1,58 @@
+package arma
+
+import (
+	"context"
+	"strconv"
+	"testing"
+)
+
+// benchModel is the ARMA(2,1) of the benchmarks and of the peer script
+// testdata/peer/arma_peer.R: phi = (0.6, -0.3), theta1 = -0.4 (R's ma1 =
+// 0.4), mean 10, unit innovation variance.
+var benchModel = Model{AR: []float64{0.6, -0.3}, MA: []float64{-0.4}, Mean: 10, Sigma2: 1}
+
+func BenchmarkFitARMA21(b *testing.B) {
+	for _, n := range []int{10_000, 100_000, 1_000_000} {
+		y, err := Simulate(benchModel, n, &SimSettings{Seed1: 1, Seed2: uint64(n)})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				res, err := Fit(context.Background(), y, Order{P: 2, Q: 1}, nil)
+				if err != nil {
+					b.Fatal(err)
+				}
+				b.ReportMetric(float64(res.Iter), "iter")
+			}
+		})
+	}
+}
+
+func BenchmarkACF40(b *testing.B) {
+	for _, n := range []int{10_000, 100_000, 1_000_000} {
+		y, _ := Simulate(benchModel, n, &SimSettings{Seed1: 2, Seed2: uint64(n)})
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := ACF(y, 40); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+func BenchmarkSimulate(b *testing.B) {
+	for _, n := range []int{10_000, 100_000, 1_000_000} {
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Simulate(benchModel, n, &SimSettings{Seed1: 3, Seed2: 4}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

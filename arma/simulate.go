@@ -1,0 +1,108 @@
+package arma
+
+import (
+	"math"
+	"math/rand/v2"
+
+	"github.com/backshift/backshift/internal/filter"
+)
+
+// SimSettings tunes Simulate. The zero value gives the defaults.
+type SimSettings struct {
+	// Seed1 and Seed2 seed the PCG source (math/rand/v2) of the Gaussian
+	// innovations; equal seeds give equal series.
+	Seed1, Seed2 uint64
+	// BurnIn is the number of samples simulated and discarded before the
+	// returned series, so that its stationary part starts in (very
+	// nearly) its stationary distribution. Zero means automatic: enough
+	// samples for the slowest AR mode to decay by 1e-12, at least 100 +
+	// the AR and MA degrees, at most 10^6. Negative means none (start
+	// from zero pre-sample values).
+	BurnIn int
+	// Innovations, when not nil, is used as the innovation series a_t
+	// (length n) instead of Gaussian draws; no burn-in is applied and
+	// pre-sample values are zero. Model.Sigma2 is then ignored.
+	Innovations []float64
+}
+
+// Simulate returns n samples of the ARIMA model m driven by Gaussian
+// innovations of variance m.Sigma2:
+//
+//	phi(B)Phi(B^s) (w_t - Mean) = theta(B)Theta(B^s) a_t,
+//	(1-B)^D (1-B^s)^SD y_t = w_t
+//
+// The stationary part w is simulated with a burn-in (see SimSettings);
+// the integration of the differences starts from zero pre-sample values
+// (an integrated series has no stationary distribution).
+//
+// Errors: *ArgError for n < 0, non-finite coefficients, Innovations of
+// the wrong length or with NaN, or, when a burn-in is requested, an AR
+// part that is not stationary (the message gives the offending roots).
+func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
+	var set SimSettings
+	if s != nil {
+		set = *s
+	}
+	if n < 0 {
+		return nil, &ArgError{Arg: "n", Msg: "must not be negative"}
+	}
+	if err := m.validate(); err != nil {
+		return nil, err
+	}
+	ar, ma, diff := m.ARPoly(), m.MAPoly(), m.DiffPoly()
+	burn := 0
+	var a []float64
+	if set.Innovations != nil {
+		if len(set.Innovations) != n {
+			return nil, &ArgError{Arg: "Innovations", Msg: "needs " + itoa(n) + " values"}
+		}
+		if err := checkFinite("innovations", set.Innovations); err != nil {
+			return nil, err
+		}
+		a = append([]float64(nil), set.Innovations...)
+	} else {
+		if set.BurnIn >= 0 {
+			bad, err := outside(ar, 0)
+			if err != nil || len(bad) > 0 {
+				return nil, &ArgError{Arg: "model", Msg: "AR part not stationary (z-plane roots " + rootList(bad) + "); use BurnIn < 0"}
+			}
+			burn = set.BurnIn
+			if burn == 0 {
+				burn = autoBurn(ar, len(ma)-1)
+			}
+		}
+		a = make([]float64, burn+n)
+		rng := rand.New(rand.NewPCG(set.Seed1, set.Seed2))
+		sd := math.Sqrt(m.Sigma2)
+		for i := range a {
+			a[i] = sd * rng.NormFloat64()
+		}
+	}
+	filter.Run(a, ma, ar, a)
+	y := a[burn:]
+	for i := range y {
+		y[i] += m.Mean
+	}
+	if len(diff) > 1 {
+		filter.Run(y, []float64{1}, diff, y)
+	}
+	return y, nil
+}
+
+// autoBurn returns the burn-in for an AR polynomial with z-plane roots
+// inside the unit circle.
+func autoBurn(ar []float64, q int) int {
+	p := len(ar) - 1
+	b := 100 + p + q
+	zs, err := zRoots(ar)
+	if err == nil && len(zs) > 0 {
+		r := 0.0
+		for _, z := range zs {
+			r = math.Max(r, cabs(z))
+		}
+		if r > 0 {
+			b = max(b, int(math.Ceil(math.Log(1e-12)/math.Log(r)))+p+q)
+		}
+	}
+	return min(b, 1_000_000)
+}
