@@ -61,7 +61,7 @@ var True = Truth{
 
 // TrueSpec is [True] written in the spec language, with every
 // coefficient fixed.
-const TrueSpec = "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + 0.05 / (1 - 0.9 B) B outdoor + (1 + 0.3 B) / (1 - 0.8 B) a"
+const TrueSpec = "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + 0.05 / (1 - 0.9 B) B outdoor + (1 + 0.3 B) / (1 - 0.8 B) a; every 1 min"
 
 // Interval is the sample interval of the data in minutes.
 const Interval = 1.0
@@ -84,7 +84,7 @@ type Settings struct {
 	// Seed seeds the weather, the test signal and the noise; 0 means 7.
 	Seed uint64
 	// DitherAmplitude is the amplitude of the test signal in % valve
-	// opening; 0 means 5, a negative value switches it off.
+	// opening; 0 means 10, a negative value switches it off.
 	DitherAmplitude float64
 }
 
@@ -179,7 +179,7 @@ func Generate(s Settings) Data {
 	pi := 60.0 // PI part of the valve opening, %
 	ePrev := 0.0
 	yPrev := 18.0
-	lfsr := uint16(0x5a)
+	lfsr := uint16(0x2b5a)
 	bit := 1.0
 
 	// Start the lags at the steady state of the first minute's inputs.
@@ -208,11 +208,12 @@ func Generate(s Settings) Data {
 		pi += Kc * (e - ePrev + e/Ti)
 		pi = clamp(pi, 0, 100)
 		ePrev = e
-		// Test signal: 7-bit maximum-length shift register, clocked
-		// every 2 minutes.
-		if amp > 0 && m%1 == 0 {
-			fb := (lfsr>>6 ^ lfsr>>5) & 1
-			lfsr = (lfsr<<1 | fb) & 0x7f
+		// Test signal: a 15-bit maximum-length shift register
+		// (x^15 + x^14 + 1, period 32767 minutes, longer than any
+		// record), one bit a minute.
+		if amp > 0 {
+			fb := (lfsr>>14 ^ lfsr>>13) & 1
+			lfsr = (lfsr<<1 | fb) & 0x7fff
 			bit = float64(lfsr&1)*2 - 1
 		}
 		u := clamp(pi+amp*bit, 0, 100)
