@@ -189,12 +189,40 @@ func (r Rational) Step(n int) []float64 {
 // to t - b only. It returns a *SampleError (Series "input") for a NaN or
 // infinite sample, and nil output.
 func (r Rational) Filter(x []float64) ([]float64, error) {
-	if err := ratCheckSeries("input", x); err != nil {
+	y := make([]float64, len(x))
+	if err := r.FilterTo(y, x); err != nil {
 		return nil, err
 	}
-	y := make([]float64, len(x))
-	r.filterTo(y, x)
 	return y, nil
+}
+
+// FilterTo is Filter writing into dst, which must have the length of x
+// (FilterTo panics otherwise, a programmer error) and may be x itself,
+// but must not overlap it otherwise.
+// It allocates nothing. On a *SampleError dst holds unspecified values.
+func (r Rational) FilterTo(dst, x []float64) error {
+	if len(dst) != len(x) {
+		panic("tf: FilterTo: dst and x lengths differ")
+	}
+	num, den := r.coefs()
+	n := len(x)
+	b := min(r.delay, n)
+	ok := true
+	if b == 0 || n == 0 || &dst[0] != &x[0] {
+		// The finiteness check runs inside the filter loop; the last b
+		// inputs, which do not reach the output, are checked here.
+		ok = filter.RunChecked(dst[b:], num, den, x[:n-b]) && filter.FirstNonFinite(x[n-b:]) < 0
+		clear(dst[:b])
+	} else {
+		if err := ratCheckSeries("input", x); err != nil {
+			return err
+		}
+		r.filterTo(dst, x)
+	}
+	if !ok {
+		return ratCheckSeries("input", x)
+	}
+	return nil
 }
 
 // filterTo writes the zero-state response to x into dst (same length,
@@ -217,10 +245,8 @@ func (r Rational) filterTo(dst, x []float64) {
 }
 
 func ratCheckSeries(name string, x []float64) error {
-	for i, v := range x {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return &SampleError{Series: name, Index: i, Value: v}
-		}
+	if i := filter.FirstNonFinite(x); i >= 0 {
+		return &SampleError{Series: name, Index: i, Value: x[i]}
 	}
 	return nil
 }

@@ -1,5 +1,7 @@
 package filter
 
+import "math"
+
 // Run writes into dst the output of the filter b(B)/a(B) applied to x,
 // with pre-sample x and y taken as zero:
 //
@@ -13,7 +15,15 @@ package filter
 // a[0] != 0; Run panics otherwise (a programmer error: callers validate
 // polynomials before filtering).
 func Run(dst, b, a, x []float64) {
-	RunInit(dst, b, a, x, nil, nil)
+	runInit(dst, b, a, x, nil, nil)
+}
+
+// RunChecked is Run that also reports whether every sample of x is finite
+// (neither NaN nor infinite), checked inside the filter loop at almost no
+// cost. When it returns false, dst holds the (non-finite) filter output
+// and the caller should locate the bad sample with FirstNonFinite.
+func RunChecked(dst, b, a, x []float64) bool {
+	return runInit(dst, b, a, x, nil, nil)>>63 == 0
 }
 
 // RunInit is Run with initial conditions: xHist and yHist hold the input
@@ -23,6 +33,12 @@ func Run(dst, b, a, x []float64) {
 // and len(a)-1 outputs are used). RunInit reads the histories and never
 // modifies them. Its panics are those of Run.
 func RunInit(dst, b, a, x, xHist, yHist []float64) {
+	runInit(dst, b, a, x, xHist, yHist)
+}
+
+// runInit filters and returns the OR over samples of finiteBits(x_t),
+// whose top bit is set when some x_t is NaN or infinite.
+func runInit(dst, b, a, x, xHist, yHist []float64) uint64 {
 	if len(a) == 0 || a[0] == 0 {
 		panic("filter: a[0] must be non-zero")
 	}
@@ -30,7 +46,7 @@ func RunInit(dst, b, a, x, xHist, yHist []float64) {
 		panic("filter: dst and x lengths differ")
 	}
 	if len(x) == 0 {
-		return
+		return 0
 	}
 	q, p := len(b)-1, len(a)-1
 	if a[0] == 1 {
@@ -40,15 +56,13 @@ func RunInit(dst, b, a, x, xHist, yHist []float64) {
 			var d [2]float64
 			copy(c[:], b)
 			copy(d[:], a)
-			run11(dst, x, c[0], c[1], d[1], hist(xHist, 1), hist(yHist, 1))
-			return
+			return run11(dst, x, c[0], c[1], d[1], hist(xHist, 1), hist(yHist, 1))
 		case q <= 2 && p <= 2:
 			var c [3]float64
 			var d [3]float64
 			copy(c[:], b)
 			copy(d[:], a)
-			run22(dst, x, c, d, hist(xHist, 1), hist(xHist, 2), hist(yHist, 1), hist(yHist, 2))
-			return
+			return run22(dst, x, c, d, hist(xHist, 1), hist(xHist, 2), hist(yHist, 1), hist(yHist, 2))
 		case q <= 4 && p <= 4:
 			var c [5]float64
 			var d [5]float64
@@ -59,13 +73,43 @@ func RunInit(dst, b, a, x, xHist, yHist []float64) {
 				xh[k] = hist(xHist, k+1)
 				yh[k] = hist(yHist, k+1)
 			}
-			run44(dst, x, &c, &d, xh, yh)
-			return
+			return run44(dst, x, &c, &d, xh, yh)
 		}
 	}
 	s := NewStream(b, a, 0)
 	s.SetHistory(xHist, yHist)
-	s.run(dst, x)
+	return s.run(dst, x)
+}
+
+// expMask selects the exponent bits of a float64.
+const expMask = 0x7ff0000000000000
+
+// finiteBits returns a value whose top bit is set exactly when v is NaN
+// or infinite: the exponent field plus one in its lowest bit carries into
+// bit 63 only when the field is all ones.
+func finiteBits(v float64) uint64 {
+	return math.Float64bits(v)&expMask + 1<<52
+}
+
+// FirstNonFinite returns the index of the first NaN or infinite value in
+// x, or -1 when all are finite.
+func FirstNonFinite(x []float64) int {
+	const block = 256
+	for i := 0; i < len(x); i += block {
+		end := min(i+block, len(x))
+		acc := uint64(0)
+		for _, v := range x[i:end] {
+			acc |= finiteBits(v)
+		}
+		if acc>>63 != 0 {
+			for j := i; j < end; j++ {
+				if finiteBits(x[j])>>63 != 0 {
+					return j
+				}
+			}
+		}
+	}
+	return -1
 }
 
 // hist returns the value k steps before t = 0 from a history whose last
@@ -80,40 +124,49 @@ func hist(h []float64, k int) float64 {
 // run11 is the kernel for q <= 1, p <= 1, a_0 = 1. x1 and y1 are x_{-1}
 // and y_{-1}. The previous input and output live in registers, which also
 // makes dst == x safe.
-func run11(dst, x []float64, b0, b1, a1, x1, y1 float64) {
+func run11(dst, x []float64, b0, b1, a1, x1, y1 float64) uint64 {
 	x = x[:len(dst)]
+	acc := uint64(0)
 	for i, x0 := range x {
 		y := b0*x0 + b1*x1 - a1*y1
 		dst[i] = y
+		acc |= finiteBits(x0)
 		x1, y1 = x0, y
 	}
+	return acc
 }
 
 // run22 is the kernel for q <= 2, p <= 2, a_0 = 1 (zero-padded
 // coefficients add exact zeros and leave the sums unchanged).
-func run22(dst, x []float64, b, a [3]float64, x1, x2, y1, y2 float64) {
+func run22(dst, x []float64, b, a [3]float64, x1, x2, y1, y2 float64) uint64 {
 	b0, b1, b2 := b[0], b[1], b[2]
 	a1, a2 := a[1], a[2]
 	x = x[:len(dst)]
+	acc := uint64(0)
 	for i, x0 := range x {
 		y := b0*x0 + b1*x1 + b2*x2 - a2*y2 - a1*y1
 		dst[i] = y
+		acc |= finiteBits(x0)
 		x2, x1 = x1, x0
 		y2, y1 = y1, y
 	}
+	return acc
 }
 
 // run44 is the kernel for q <= 4, p <= 4, a_0 = 1.
-func run44(dst, x []float64, b, a *[5]float64, xh, yh [4]float64) {
+func run44(dst, x []float64, b, a *[5]float64, xh, yh [4]float64) uint64 {
 	b0, b1, b2, b3, b4 := b[0], b[1], b[2], b[3], b[4]
 	a1, a2, a3, a4 := a[1], a[2], a[3], a[4]
 	x1, x2, x3, x4 := xh[0], xh[1], xh[2], xh[3]
 	y1, y2, y3, y4 := yh[0], yh[1], yh[2], yh[3]
 	x = x[:len(dst)]
+	acc := uint64(0)
 	for i, x0 := range x {
 		y := b0*x0 + b1*x1 + b2*x2 + b3*x3 + b4*x4 - a4*y4 - a3*y3 - a2*y2 - a1*y1
 		dst[i] = y
+		acc |= finiteBits(x0)
 		x4, x3, x2, x1 = x3, x2, x1, x0
 		y4, y3, y2, y1 = y3, y2, y1, y
 	}
+	return acc
 }

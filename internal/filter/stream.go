@@ -119,11 +119,14 @@ func (s *Stream) Step(x float64) float64 {
 
 // run filters a whole series through the stream, continuing from its
 // current state. dst may be x.
-func (s *Stream) run(dst, x []float64) {
+func (s *Stream) run(dst, x []float64) uint64 {
 	x = x[:len(dst)]
+	acc := uint64(0)
 	for i, v := range x {
 		dst[i] = s.Step(v)
+		acc |= finiteBits(v)
 	}
+	return acc
 }
 
 // Clone returns an independent copy of s in its current state.
