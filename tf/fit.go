@@ -27,6 +27,12 @@ type FitSettings struct {
 	// Conditioning), sums the residuals from First instead, for example to
 	// compare models of different orders over the same residuals.
 	First int
+	// Tol stops the optimiser when an accepted step (and the full
+	// Gauss-Newton step) reduce the sum of squares by less than Tol
+	// relative. Zero means 1e-16 N clamped to [1e-14, 1e-10] for N
+	// residuals, which leaves the estimates within about 1e-8 N standard
+	// errors of the minimum (and near the rounding level of the sum).
+	Tol float64
 	// IgnoreExtra accepts data holding series the model does not use.
 	// By default such series are an error (ExtraSeries), because they
 	// usually mean a misspelt input name.
@@ -187,10 +193,12 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 // fitInput is the working state of one input term.
 type fitInput struct {
 	in         *Input // into the working model clone
+	x          []float64 // the input as given (not modified)
 	z          []float64
 	s, u, q    []float64
 	numC, denC []float64
 	numD, denD [][]float64
+	e, f       []float64 // phi(B) s and phi(B) q from First - fitExt on (Jacobian)
 	denFree    bool
 	d          int
 }
@@ -202,6 +210,7 @@ type fitWork struct {
 	coefs   [][]*Coef
 	index   map[string]int
 	n       int
+	y       []float64 // the output as given (not modified)
 	cond    Conditioning
 	w       []float64
 	ins     []fitInput
@@ -211,8 +220,6 @@ type fitWork struct {
 	arD     [][]float64
 	maD     [][]float64
 	nn, a   []float64
-	dn, col []float64
-	mone    []float64
 	scratch []float64
 }
 
@@ -355,23 +362,22 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	w.n = n
 	// Differenced series (fixed), zero before the differencing degree.
 	w.w = fitDiff(y, dc)
+	w.y = y
 	for i := range w.ins {
 		fi := &w.ins[i]
-		fi.z = fitDiff(data[fi.in.Series], fi.in.Diff.Coeffs())
+		fi.x = data[fi.in.Series]
+		fi.z = fitDiff(fi.x, fi.in.Diff.Coeffs())
 		fi.s = make([]float64, n)
 		fi.u = make([]float64, n)
+		ext := fi.in.Num.Degree() + fi.in.Den.Degree()
+		fi.e = make([]float64, nres+ext)
 		if fi.denFree {
 			fi.q = make([]float64, n)
+			fi.f = make([]float64, nres+ext)
 		}
 	}
 	w.nn = make([]float64, n)
 	w.a = make([]float64, n)
-	w.dn = make([]float64, n)
-	w.col = make([]float64, nres)
-	w.mone = make([]float64, n)
-	for t := range w.mone {
-		w.mone[t] = -1
-	}
 	return w, nil
 }
 
@@ -448,9 +454,13 @@ func (w *fitWork) noiseSeries() {
 		b := fi.in.Delay
 		clear(fi.s[:min(b, n)])
 		if b < n {
-			filter.Run(fi.s[b:], fitOne, fi.denC, fi.z[:n-b])
+			if fitIsOne(fi.denC) {
+				copy(fi.s[b:], fi.z[:n-b])
+			} else {
+				filter.Run(fi.s[b:], fitOne, fi.denC, fi.z[:n-b])
+			}
 		}
-		filter.Run(fi.u, fi.numC, fitOne, fi.s)
+		fitFIR(fi.u, fi.numC, fi.s, 0, false)
 		if fi.denFree {
 			filter.Run(fi.q, fitOne, fi.denC, fi.u)
 		}
@@ -459,16 +469,15 @@ func (w *fitWork) noiseSeries() {
 	if w.m.Const != nil {
 		c = w.m.Const.Value
 	}
-	nn := w.nn
-	copy(nn[ts:], w.w[ts:])
-	for t := ts; t < n; t++ {
+	nn := w.nn[ts:n]
+	copy(nn, w.w[ts:n])
+	for t := range nn {
 		nn[t] -= c
 	}
 	for i := range w.ins {
 		u := w.ins[i].u[ts:n]
-		v := nn[ts:n]
-		for t := range v {
-			v[t] -= u[t]
+		for t := range nn {
+			nn[t] -= u[t]
 		}
 	}
 }
@@ -479,7 +488,11 @@ func (w *fitWork) resid() float64 {
 	w.arC, w.arD = w.ar.Grad(w.idx, k)
 	w.maC, w.maD = w.ma.Grad(w.idx, k)
 	ts, t0 := w.cond.NoiseStart, w.cond.First
-	filter.RunInit(w.a[t0:], w.arC, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
+	if fitIsOne(w.maC) {
+		fitFIR(w.a[t0:], w.arC, w.nn, t0, false)
+	} else {
+		filter.RunInit(w.a[t0:], w.arC, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
+	}
 	s := 0.0
 	for _, v := range w.a[t0:] {
 		s += v * v
@@ -504,92 +517,71 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 	return nil
 }
 
-// jacobian fills the columns d a_t / d x_k for t >= First.
+// jacobian fills the columns d a_t / d x_k for t >= First. Each column is
+// (1/theta(B)) applied to a sum of moving-average filters of series
+// already computed (see Fit):
+//
+//	-g_k (phi s_i), +g_k (phi q_i), -phi(1), +g_k n, -g_k a
+//
+// for numerator, denominator, constant, AR and MA parameters. phi s_i
+// and phi q_i are formed once per evaluation over First - (s_i + r_i) ..
+// n-1, so that a numerator or denominator column whose g_k is a single
+// power of B (the usual case) is a shifted copy.
 func (w *fitWork) jacobian(jac [][]float64) {
-	ts, t0 := w.cond.NoiseStart, w.cond.First
-	n := w.n
+	t0 := w.cond.First
+	maOne := fitIsOne(w.maC)
+	for i := range w.ins {
+		fi := &w.ins[i]
+		ext := len(fi.e) - (w.n - t0)
+		fitFIR(fi.e, w.arC, fi.s, t0-ext, false)
+		if fi.denFree {
+			fitFIR(fi.f, w.arC, fi.q, t0-ext, false)
+		}
+	}
+	phi1 := 0.0
+	for _, v := range w.arC {
+		phi1 += v
+	}
 	for k := range jac {
 		col := jac[k]
+		dst := col
+		if !maOne {
+			dst = w.scratchN(len(col))
+		}
 		first := true
-		addCol := func(src []float64) {
-			if first {
-				copy(col, src)
-				first = false
-				return
-			}
-			for t, v := range src {
-				col[t] += v
-			}
-		}
-		// Input-side contributions: d n_t over [ts, n).
-		dnSet := false
-		dn := w.dn
-		addDn := func(g []float64, src []float64) {
-			if !dnSet {
-				filter.RunInit(dn[ts:], g, fitOne, src[ts:], src[:ts], nil)
-				dnSet = true
-				return
-			}
-			tmp := w.scratchN(n - ts)
-			filter.RunInit(tmp, g, fitOne, src[ts:], src[:ts], nil)
-			d := dn[ts:]
-			for t, v := range tmp {
-				d[t] += v
-			}
-		}
 		if w.m.Const != nil && w.idx(w.m.Const.Name) == k {
-			if !dnSet {
-				copy(dn[ts:], w.mone[ts:])
-				dnSet = true
-			} else {
-				for t := ts; t < n; t++ {
-					dn[t]--
-				}
+			for t := range dst {
+				dst[t] = -phi1
 			}
+			first = false
 		}
 		for i := range w.ins {
 			fi := &w.ins[i]
+			ext := len(fi.e) - len(col)
+			// fi.e[j] holds (phi s)_{t0-ext+j}; filter it as a series whose
+			// index origin is t0-ext.
 			if g := fi.numD[k]; g != nil {
-				addDn(fitNeg(g), fi.s)
+				fitFIR(dst, fitNeg(g), fi.e, ext, !first)
+				first = false
 			}
 			if g := fi.denD[k]; g != nil {
-				addDn(g, fi.q)
-			}
-		}
-		if dnSet {
-			if first {
-				filter.RunInit(col, w.arC, w.maC, dn[t0:], dn[ts:t0], nil)
+				fitFIR(dst, g, fi.f, ext, !first)
 				first = false
-			} else {
-				tmp := w.scratchN(n - t0)
-				filter.RunInit(tmp, w.arC, w.maC, dn[t0:], dn[ts:t0], nil)
-				addCol(tmp)
 			}
 		}
 		if g := w.arD[k]; g != nil {
-			tmp := col
-			if !first {
-				tmp = w.scratchN(n - t0)
-			}
-			filter.RunInit(tmp, g, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
-			if !first {
-				addCol(tmp)
-			}
+			fitFIR(dst, g, w.nn, t0, !first)
 			first = false
 		}
 		if g := w.maD[k]; g != nil {
-			tmp := col
-			if !first {
-				tmp = w.scratchN(n - t0)
-			}
-			filter.Run(tmp, fitNeg(g), w.maC, w.a[t0:])
-			if !first {
-				addCol(tmp)
-			}
+			fitFIR(dst, fitNeg(g), w.a, t0, !first)
 			first = false
 		}
 		if first {
-			clear(col)
+			clear(dst)
+		}
+		if !maOne {
+			filter.Run(col, fitOne, w.maC, dst)
 		}
 	}
 }
@@ -609,8 +601,65 @@ func fitNeg(g []float64) []float64 {
 	return out
 }
 
+// Staging: a long series is first fitted on its last fitStageWindow
+// samples (start values, screening and all starts), and the full series
+// is then refined from that estimate by a single Levenberg-Marquardt run,
+// which from so close a start takes a few iterations.
+const (
+	fitStageWindow = 4000
+	fitStageMin    = 40000
+)
+
 // run performs the starts, the refinements and builds the Estimate.
 func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
+	maxIter := set.MaxIter
+	if maxIter <= 0 {
+		maxIter = 200
+	}
+	if w.n-w.cond.First >= fitStageMin {
+		sub := w.window(fitStageWindow + w.cond.First)
+		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true}); err == nil {
+			if best, start, tried, err := ws.search(ctx, set, maxIter); err == nil {
+				res, err := lm.Minimize(ctx, w.problem(), best.X, w.lmSettings(set, maxIter))
+				if err == nil {
+					return w.estimate(&res, start, tried), nil
+				}
+			}
+		}
+	}
+	best, start, tried, err := w.search(ctx, set, maxIter)
+	if err != nil {
+		return nil, err
+	}
+	return w.estimate(best, start, tried), nil
+}
+
+// window returns the last m samples of every series of the fit.
+func (w *fitWork) window(m int) map[string][]float64 {
+	out := map[string][]float64{}
+	out[w.m.Output] = w.y[w.n-m:]
+	for i := range w.ins {
+		out[w.ins[i].in.Series] = w.ins[i].x[w.n-m:]
+	}
+	return out
+}
+
+func (w *fitWork) lmSettings(set FitSettings, maxIter int) *lm.Settings {
+	tol := set.Tol
+	if tol <= 0 {
+		tol = min(max(1e-16*float64(w.n-w.cond.First), 1e-14), 1e-10)
+	}
+	return &lm.Settings{MaxIter: maxIter, FTol: tol}
+}
+
+func (w *fitWork) problem() lm.Problem {
+	return lm.Problem{M: w.n - w.cond.First, N: len(w.names), Eval: w.eval}
+}
+
+// search computes the start candidates, screens them by their sum of
+// squares and refines the best ones; it returns the best result, its
+// start point and the number of candidates screened.
+func (w *fitWork) search(ctx context.Context, set FitSettings, maxIter int) (*lm.Result, []float64, int, error) {
 	cands := w.startCandidates()
 	nStarts := set.Starts
 	if nStarts <= 0 {
@@ -634,23 +683,16 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		sc = append(sc, scored{x, f})
 	}
 	if len(sc) == 0 {
-		// No candidate is admissible: fall back to all zeros but
-		// constant terms, which always filters.
-		x := make([]float64, len(w.names))
-		sc = append(sc, scored{x, math.Inf(1)})
+		// No candidate filters to finite values: fall back to all zeros.
+		sc = append(sc, scored{make([]float64, len(w.names)), math.Inf(1)})
 	}
 	sort.SliceStable(sc, func(i, j int) bool { return sc[i].f < sc[j].f })
-	maxIter := set.MaxIter
-	if maxIter <= 0 {
-		maxIter = 200
-	}
-	nres := w.n - w.cond.First
-	prob := lm.Problem{M: nres, N: len(w.names), Eval: w.eval}
+	prob := w.problem()
 	var best *lm.Result
 	var bestStart []float64
 	var firstErr error
 	for i := 0; i < len(sc) && i < nStarts; i++ {
-		res, err := lm.Minimize(ctx, prob, sc[i].x, &lm.Settings{MaxIter: maxIter})
+		res, err := lm.Minimize(ctx, prob, sc[i].x, w.lmSettings(set, maxIter))
 		if err != nil {
 			if firstErr == nil {
 				firstErr = err
@@ -667,10 +709,11 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		}
 	}
 	if best == nil {
-		return nil, &FitError{Problem: TooFewObservations, Series: w.m.Output, Len: nres, Want: len(w.names) + 1,
+		nres := w.n - w.cond.First
+		return nil, nil, 0, &FitError{Problem: TooFewObservations, Series: w.m.Output, Len: nres, Want: len(w.names) + 1,
 			Detail: "no admissible start point: " + firstErr.Error()}
 	}
-	return w.estimate(best, bestStart, len(sc)), nil
+	return best, bestStart, len(sc), nil
 }
 
 // multimodal reports whether the model has free denominator or MA

@@ -1,0 +1,92 @@
+// Command fitpeer times tf.Fit on CSV files written by
+// testdata/peer/fit_scipy.py; see that script for how to run it.
+package main
+
+import (
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"os"
+	"strconv"
+	"time"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/tf"
+)
+
+func main() {
+	reps := flag.Int("reps", 3, "timed repetitions (the best is reported)")
+	flag.Parse()
+	for _, path := range flag.Args() {
+		data, err := readCSV(path)
+		if err != nil {
+			fmt.Fprintln(os.Stderr, err)
+			os.Exit(1)
+		}
+		m := model()
+		var best time.Duration
+		var est *tf.Estimate
+		for r := 0; r < *reps; r++ {
+			t0 := time.Now()
+			est, err = tf.Fit(context.Background(), m, data, nil)
+			el := time.Since(t0)
+			if err != nil {
+				fmt.Fprintln(os.Stderr, err)
+				os.Exit(1)
+			}
+			if r == 0 || el < best {
+				best = el
+			}
+		}
+		par := map[string]float64{}
+		for _, p := range est.Params {
+			par[p.Name] = p.Value
+		}
+		out, _ := json.Marshal(map[string]any{"file": path, "seconds": best.Seconds(), "ssq": est.SSQ,
+			"n_resid": est.N, "params": par, "iter": est.Iter, "converged": est.Converged})
+		fmt.Println(string(out))
+	}
+}
+
+// model is y_t = c + (w0 + w1 B + w2 B^2)/(1 - d1 B) B^3 x_t + 1/(1 - p1 B - p2 B^2) a_t,
+// every free coefficient started at 0 (tf.Fit computes the start values).
+func model() tf.Model {
+	free := func(neg bool, name string, pow int) tf.Term {
+		return tf.Term{Neg: neg, Coef: tf.Coef{Name: name, Free: true}, Power: pow}
+	}
+	one := tf.Term{Coef: tf.Coef{Value: 1}}
+	c := tf.Coef{Name: "c", Free: true}
+	return tf.Model{
+		Output: "y",
+		Const:  &c,
+		Inputs: []tf.Input{{Series: "x", Delay: 3,
+			Num: tf.Poly{Factors: []tf.Factor{{Exp: 1, Terms: []tf.Term{free(false, "w0", 0), free(false, "w1", 1), free(false, "w2", 2)}}}},
+			Den: tf.Poly{Factors: []tf.Factor{{Exp: 1, Terms: []tf.Term{one, free(true, "d1", 1)}}}}}},
+		Noise: &arma.Noise{AR: tf.Poly{Factors: []tf.Factor{{Exp: 1, Terms: []tf.Term{one, free(true, "p1", 1), free(true, "p2", 2)}}}}},
+	}
+}
+
+func readCSV(path string) (map[string][]float64, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	rows, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		return nil, err
+	}
+	out := map[string][]float64{}
+	for _, row := range rows[1:] {
+		for j, name := range rows[0] {
+			v, err := strconv.ParseFloat(row[j], 64)
+			if err != nil {
+				return nil, err
+			}
+			out[name] = append(out[name], v)
+		}
+	}
+	return out, nil
+}
