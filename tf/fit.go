@@ -192,7 +192,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 
 // fitInput is the working state of one input term.
 type fitInput struct {
-	in         *Input // into the working model clone
+	in         *Input    // into the working model clone
 	x          []float64 // the input as given (not modified)
 	z          []float64
 	s, u, q    []float64
