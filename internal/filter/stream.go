@@ -9,6 +9,9 @@ package filter
 // recent values is one contiguous slice), which makes a step cost
 // O(p + q) with no allocation and no modulo. Sums are formed in the same
 // order as Run, so a Stream from rest reproduces Run bit for bit.
+// Filters with a_0 = 1 and degrees up to 2 (the common process models)
+// take a shorter path: the previous two values of the delayed input and
+// of the output live in fields, and the dead time in a plain ring.
 //
 // A Stream is not safe for concurrent use; Clone it for each goroutine.
 type Stream struct {
@@ -18,6 +21,14 @@ type Stream struct {
 	lx, ly     int
 	xpos, ypos int
 	a0         float64
+
+	// Short path for a_0 = 1, len(b) <= 3, len(a) <= 3.
+	small          bool
+	c0, c1, c2     float64 // b, zero padded
+	e1, e2         float64 // a_1, a_2, zero padded
+	x1, x2, y1, y2 float64 // delayed inputs and outputs one and two back
+	ring           []float64
+	rpos           int
 }
 
 // NewStream returns a Stream at rest (all past values zero) for b/a with
@@ -41,6 +52,16 @@ func NewStream(b, a []float64, d int) *Stream {
 	rest := buf[len(b)+len(a):]
 	s.xbuf = rest[: 2*s.lx : 2*s.lx]
 	s.ybuf = rest[2*s.lx:]
+	if a[0] == 1 && len(b) <= 3 && len(a) <= 3 {
+		s.small = true
+		var c, e [3]float64
+		copy(c[:], b)
+		copy(e[:], a)
+		s.c0, s.c1, s.c2, s.e1, s.e2 = c[0], c[1], c[2], e[1], e[2]
+		if d > 0 {
+			s.ring = make([]float64, d)
+		}
+	}
 	return s
 }
 
@@ -49,6 +70,9 @@ func (s *Stream) Reset() {
 	clear(s.xbuf)
 	clear(s.ybuf)
 	s.xpos, s.ypos = 0, 0
+	clear(s.ring)
+	s.rpos = 0
+	s.x1, s.x2, s.y1, s.y2 = 0, 0, 0, 0
 }
 
 // SetHistory sets the past: xHist and yHist hold the inputs and outputs
@@ -69,11 +93,36 @@ func (s *Stream) SetHistory(xHist, yHist []float64) {
 	// and writes there; by the doubling, the values set above then sit at
 	// window indices 1, 2, ... as they should.
 	s.xpos, s.ypos = 0, 0
+	if s.small {
+		// ring[i] holds x_{-d+i}, read oldest first; x1, x2 are the
+		// delayed inputs x_{-1-d}, x_{-2-d}.
+		for i := range s.ring {
+			s.ring[i] = hist(xHist, s.d-i)
+		}
+		s.x1, s.x2 = hist(xHist, s.d+1), hist(xHist, s.d+2)
+		s.y1, s.y2 = hist(yHist, 1), hist(yHist, 2)
+	}
 }
 
 // Step feeds input x_t and returns y_t. With d = 0 and b_0 != 0 the
 // output depends on the input of the same step.
 func (s *Stream) Step(x float64) float64 {
+	if s.small {
+		v := x
+		if len(s.ring) > 0 {
+			r := s.rpos
+			v, s.ring[r] = s.ring[r], x
+			r++
+			if r == len(s.ring) {
+				r = 0
+			}
+			s.rpos = r
+		}
+		y := s.c0*v + s.c1*s.x1 + s.c2*s.x2 - s.e2*s.y2 - s.e1*s.y1
+		s.x2, s.x1 = s.x1, v
+		s.y2, s.y1 = s.y1, y
+		return y
+	}
 	lx := s.lx
 	p := s.xpos - 1
 	if p < 0 {
@@ -135,5 +184,8 @@ func (s *Stream) Clone() *Stream {
 	copy(c.xbuf, s.xbuf)
 	copy(c.ybuf, s.ybuf)
 	c.xpos, c.ypos = s.xpos, s.ypos
+	copy(c.ring, s.ring)
+	c.rpos = s.rpos
+	c.x1, c.x2, c.y1, c.y2 = s.x1, s.x2, s.y1, s.y2
 	return c
 }
