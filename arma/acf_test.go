@@ -30,8 +30,8 @@ func TestACFPACFLjungBoxR(t *testing.T) {
 	ds := datasets(t)
 	var ref map[string]corrRef
 	readJSON(t, "corr.json", &ref)
-	if len(ref) != 5 {
-		t.Fatalf("corr.json holds %d series, want 5", len(ref))
+	if len(ref) != 6 {
+		t.Fatalf("corr.json holds %d series, want 6", len(ref))
 	}
 	for name, r := range ref {
 		x := ds[name]

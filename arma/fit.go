@@ -131,6 +131,7 @@ type Result struct {
 	// Forecast state: the last values of z = y - X beta and of the
 	// residuals.
 	zTail, aTail []float64
+	z            []float64 // y - X beta, for the exact forecast state
 }
 
 // Fit estimates a seasonal ARIMA model of y by conditional least squares
@@ -482,6 +483,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 	}
 	full := poly.Mul(res.AR, diff)
+	res.z = zf
 	res.zTail = append([]float64(nil), zf[max(0, n-(len(full)-1)):]...)
 	res.aTail = make([]float64, len(res.MA)-1)
 	for j := range res.aTail {

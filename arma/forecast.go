@@ -24,18 +24,33 @@ type Forecast struct {
 	Lower, Upper []float64
 	// Level is the interval's coverage probability.
 	Level float64
+	// Exact reports whether the forecasts come from the exact state of
+	// the stationary part (true whenever the fitted AR part is
+	// stationary) rather than the conditional recursion.
+	Exact bool
 }
 
 // Forecast returns forecasts h = 1..steps after the end of the fitted
 // series, with standard errors and intervals at the given level (0 means
-// 0.95). The recursion is
+// 0.95), for the fitted coefficients taken as known.
 //
-//	phi*(B) D(B) z_t = phi*(1) mu + theta*(B) a_t,  z_t = y_t - X_t'beta,
+// When the fitted AR part is stationary the forecasts are the exact
+// conditional expectations given all observed differences: a Kalman
+// filter of the stationary ARMA part, started from its stationary
+// distribution, runs over w_t = D(B) z_t (z_t = y_t - X_t'beta), and the
+// forecasts of w are integrated with the last observed z (a diffuse start
+// for the differencing). The standard errors add the remaining state
+// uncertainty to Sigma2 sum_{j<h} psi_j^2 (psi weights of the ARIMA
+// model). This is how R's predict() treats arima fits. Otherwise
+// (Forecast.Exact false) the conditional recursion of the fit is used,
 //
-// run forward with future innovations zero and past ones the fit's
-// residuals; the regression part is added back from futureX, which must
-// hold one column of length steps per regressor of the fit (nil when the
-// fit had none).
+//	phi*(B) D(B) z_t = phi*(1) mu + theta*(B) a_t,
+//
+// with future innovations zero and past ones the fit's residuals. The
+// two agree closely unless the MA part has roots near the unit circle.
+// The regression part is added back from futureX, which must hold one
+// column of length steps per regressor of the fit (nil when the fit had
+// none).
 //
 // Errors: *ArgError for steps < 1, level outside (0, 1) or futureX of the
 // wrong shape or non-finite.
@@ -60,6 +75,22 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 			return Forecast{}, &ArgError{Arg: "futureX", Msg: err.Error()}
 		}
 	}
+	q := distuv.UnitNormal.Quantile((1 + level) / 2)
+	f := Forecast{Mean: make([]float64, steps), SE: make([]float64, steps),
+		Lower: make([]float64, steps), Upper: make([]float64, steps), Level: level}
+	if mean, vr, ok := r.exactForecast(steps); ok {
+		f.Exact = true
+		for h := range mean {
+			f.Mean[h] = mean[h]
+			for k, col := range futureX {
+				f.Mean[h] += r.Beta[k] * col[h]
+			}
+			f.SE[h] = math.Sqrt(r.Sigma2 * vr[h])
+			f.Lower[h] = f.Mean[h] - q*f.SE[h]
+			f.Upper[h] = f.Mean[h] + q*f.SE[h]
+		}
+		return f, nil
+	}
 	full := poly.Mul(r.AR, r.Diff)
 	c := poly.EvalReal(r.AR, 1) * r.Model.Mean
 	pz, qa := len(full)-1, len(r.MA)-1
@@ -68,8 +99,6 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 	copy(z[pz-len(r.zTail):pz], r.zTail)
 	a := make([]float64, qa+steps)
 	copy(a[:qa], r.aTail)
-	f := Forecast{Mean: make([]float64, steps), SE: make([]float64, steps),
-		Lower: make([]float64, steps), Upper: make([]float64, steps), Level: level}
 	for h := 0; h < steps; h++ {
 		s := c
 		for k := 1; k <= pz; k++ {
@@ -88,7 +117,6 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 	if err != nil {
 		return Forecast{}, err
 	}
-	q := distuv.UnitNormal.Quantile((1 + level) / 2)
 	acc := 0.0
 	for h := 0; h < steps; h++ {
 		acc += psi[h] * psi[h]

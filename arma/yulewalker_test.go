@@ -29,8 +29,8 @@ func TestYuleWalkerR(t *testing.T) {
 	ds := datasets(t)
 	var refs []arRef
 	readJSON(t, "ar.json", &refs)
-	if len(refs) != 10 {
-		t.Fatalf("ar.json holds %d fits, want 10", len(refs))
+	if len(refs) != 12 {
+		t.Fatalf("ar.json holds %d fits, want 12", len(refs))
 	}
 	for _, r := range refs {
 		x := ds[r.Series]

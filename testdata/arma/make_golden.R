@@ -4,11 +4,12 @@
 # (R 4.2.2, Debian r-base-core; base packages stats and datasets only.)
 #
 # Writes into testdata/arma/:
-#   datasets.json   the series lh, LakeHuron, Nile, WWWusage exactly as shipped in R's
-#                   "datasets" package (documented sources: lh, Diggle 1990; LakeHuron,
-#                   Brockwell & Davis 1991; Nile, Cobb 1978 / Balke 1993; WWWusage,
-#                   Durbin & Koopman 2001), and one simulated ARMA(2,1) series "sim"
-#                   (arima.sim with set.seed(20261201)).
+#   datasets.json   the series lh, LakeHuron, Nile, WWWusage and log(AirPassengers) exactly
+#                   as shipped in R's "datasets" package (documented sources: lh, Diggle
+#                   1990; LakeHuron, Brockwell & Davis 1991; Nile, Cobb 1978 / Balke 1993;
+#                   WWWusage, Durbin & Koopman 2001; AirPassengers, Box & Jenkins 1976
+#                   Series G), and one simulated ARMA(2,1) series "sim" (arima.sim with
+#                   set.seed(20261201)).
 #   corr.json       stats::acf, stats::pacf, stats::Box.test(type = "Ljung-Box") values.
 #   ar.json         stats::ar(method = "yule-walker", aic = TRUE) fits.
 #   css.json        stats::arima(method = "CSS") fits rerun with a tight optimiser
@@ -38,7 +39,8 @@ out <- function(file, txt) writeLines(txt, file.path("testdata", "arma", file))
 set.seed(20261201)
 sim <- as.numeric(arima.sim(list(ar = c(0.6, -0.3), ma = 0.4), n = 400)) + 10
 series <- list(lh = as.numeric(lh), LakeHuron = as.numeric(LakeHuron),
-               Nile = as.numeric(Nile), WWWusage = as.numeric(WWWusage), sim = sim)
+               Nile = as.numeric(Nile), WWWusage = as.numeric(WWWusage), sim = sim,
+               logAirPassengers = log(as.numeric(AirPassengers)))
 out("datasets.json", paste0("{", paste(sprintf("\"%s\":%s", names(series),
     sapply(series, num)), collapse = ","), "}"))
 
@@ -77,19 +79,29 @@ out("ar.json", paste0("[", paste(ars, collapse = ","), "]"))
 
 # ---- CSS fits ----------------------------------------------------------------------
 # Plain-R CSS residuals, written from the definition above (checked below against
-# residuals() of the arima fit).
-css_resid <- function(par, x, p, d, q, xreg) {
-  n <- length(x)
-  if (!is.null(xreg)) x <- x - drop(xreg %*% par[p + q + seq_len(ncol(xreg))])
+# residuals() of the arima fit). ord = c(p, d, q), sea = c(P, D, Q), period s; par holds
+# ar, ma, sar, sma, then the xreg coefficients (R's order of coef()).
+css_resid <- function(par, x, ord, sea, s, xreg) {
+  n <- length(x); p <- ord[1]; d <- ord[2]; q <- ord[3]
+  P <- sea[1]; D <- sea[2]; Q <- sea[3]
+  narma <- p + q + P + Q
+  if (!is.null(xreg)) x <- x - drop(xreg %*% par[narma + seq_len(ncol(xreg))])
   w <- x
   if (d > 0) for (i in seq_len(d)) w <- c(NA, diff(w))
-  phi <- par[seq_len(p)]; theta <- par[p + seq_len(q)]
-  ncond <- d + p
+  if (D > 0) for (i in seq_len(D)) w <- c(rep(NA, s), diff(w, lag = s))
+  ar <- par[seq_len(p)]; ma <- par[p + seq_len(q)]
+  sar <- par[p + q + seq_len(P)]; sma <- par[p + q + P + seq_len(Q)]
+  # full polynomials as coefficients of B^1.. in R's convention
+  phi <- c(1, -ar); if (P > 0) { sp <- numeric(P * s + 1); sp[1] <- 1; sp[1 + s * seq_len(P)] <- -sar; phi <- convolve(phi, rev(sp), type = "open") }
+  theta <- c(1, ma); if (Q > 0) { sq <- numeric(Q * s + 1); sq[1] <- 1; sq[1 + s * seq_len(Q)] <- sma; theta <- convolve(theta, rev(sq), type = "open") }
+  phi <- -phi[-1]; theta <- theta[-1]
+  pp <- length(phi); qq <- length(theta)
+  ncond <- d + D * s + pp
   e <- numeric(n)
   for (l in (ncond + 1):n) {
     tmp <- w[l]
-    if (p > 0) for (j in 1:p) tmp <- tmp - phi[j] * w[l - j]
-    if (q > 0) for (j in seq_len(min(l - ncond - 1, q))) tmp <- tmp - theta[j] * e[l - j]
+    if (pp > 0) for (j in 1:pp) tmp <- tmp - phi[j] * w[l - j]
+    if (qq > 0) for (j in seq_len(min(l - ncond - 1, qq))) tmp <- tmp - theta[j] * e[l - j]
     e[l] <- tmp
   }
   e[(ncond + 1):n]
@@ -106,59 +118,64 @@ cases <- list(
   list(name = "lh_100", series = "lh", order = c(1, 0, 0), xreg = "mean", h = 12),
   list(name = "LakeHuron_200_trend", series = "LakeHuron", order = c(2, 0, 0), xreg = "trend", h = 10),
   list(name = "Nile_101", series = "Nile", order = c(1, 0, 1), xreg = "mean", h = 10),
-  list(name = "WWWusage_111", series = "WWWusage", order = c(1, 1, 1), xreg = "none", h = 10)
+  list(name = "WWWusage_111", series = "WWWusage", order = c(1, 1, 1), xreg = "none", h = 10),
+  list(name = "logAirPassengers_011x011_12", series = "logAirPassengers", order = c(0, 1, 1),
+       seasonal = c(0, 1, 1), period = 12, xreg = "none", h = 24)
 )
 fits <- c()
 for (cs in cases) {
   x <- series[[cs$series]]
   n <- length(x); p <- cs$order[1]; d <- cs$order[2]; q <- cs$order[3]
+  sea <- if (is.null(cs$seasonal)) c(0, 0, 0) else cs$seasonal
+  s <- if (is.null(cs$period)) 1 else cs$period
   ctl <- list(reltol = 1e-14, maxit = 10000)
+  sl <- list(order = sea, period = if (is.null(cs$period)) NA else s)
   if (cs$xreg == "trend") {
     tt <- seq_len(n)
-    fit <- arima(x, order = cs$order, xreg = tt, method = "CSS", optim.control = ctl)
-    fit0 <- arima(x, order = cs$order, xreg = tt, method = "CSS")
+    fit <- arima(x, order = cs$order, seasonal = sl, xreg = tt, method = "CSS", optim.control = ctl)
+    fit0 <- arima(x, order = cs$order, seasonal = sl, xreg = tt, method = "CSS")
     X <- cbind(1, tt)
     pr <- predict(fit, n.ahead = cs$h, newxreg = n + seq_len(cs$h))
   } else {
     im <- cs$xreg == "mean"
-    fit <- arima(x, order = cs$order, include.mean = im, method = "CSS", optim.control = ctl)
-    fit0 <- arima(x, order = cs$order, include.mean = im, method = "CSS")
+    fit <- arima(x, order = cs$order, seasonal = sl, include.mean = im, method = "CSS", optim.control = ctl)
+    fit0 <- arima(x, order = cs$order, seasonal = sl, include.mean = im, method = "CSS")
     X <- if (im) matrix(1, n, 1) else NULL
     pr <- predict(fit, n.ahead = cs$h)
   }
   par <- as.numeric(coef(fit))
-  ncond <- d + p
-  e <- css_resid(par, x, p, d, q, X)
+  ncond <- d + sea[2] * s + p + sea[1] * s
+  e <- css_resid(par, x, cs$order, sea, s, X)
   rres <- as.numeric(residuals(fit))[(ncond + 1):n]
   stopifnot(max(abs(e - rres)) < 1e-8 * max(abs(rres)))
   ssq_r <- sum(e^2)
   # Gauss-Newton polish of the same objective (finite-difference Jacobian).
   gp <- par
   for (it in 1:50) {
-    J <- fd_jac(gp, x, p, d, q, X)
-    r <- css_resid(gp, x, p, d, q, X)
+    J <- fd_jac(gp, x, cs$order, sea, s, X)
+    r <- css_resid(gp, x, cs$order, sea, s, X)
     step <- -qr.solve(J, r)
     trial <- gp + step
-    if (sum(css_resid(trial, x, p, d, q, X)^2) > sum(r^2)) break
+    if (sum(css_resid(trial, x, cs$order, sea, s, X)^2) > sum(r^2)) break
     gp <- trial
     if (max(abs(step) / pmax(abs(gp), 1e-8)) < 1e-13) break
   }
-  eg <- css_resid(gp, x, p, d, q, X)
+  eg <- css_resid(gp, x, cs$order, sea, s, X)
   ssq_gn <- sum(eg^2)
-  J <- fd_jac(gp, x, p, d, q, X)
+  J <- fd_jac(gp, x, cs$order, sea, s, X)
   nu <- n - ncond
   s2 <- ssq_gn / nu
   cov_gn <- s2 * solve(crossprod(J))
   fits <- c(fits, obj(name = str(cs$name), series = str(cs$series), p = p, d = d, q = q,
+    sp = sea[1], sd = sea[2], sq = sea[3], period = if (is.null(cs$period)) 0 else s,
     xreg = str(cs$xreg), coef_names = paste0("[", paste(str(names(coef(fit))), collapse = ","), "]"),
     coef_tight = num(par), ssq_tight = num(ssq_r), sigma2_tight = num(fit$sigma2),
-    coef_default = num(coef(fit0)), ssq_default = num(sum(css_resid(as.numeric(coef(fit0)), x, p, d, q, X)^2)),
+    coef_default = num(coef(fit0)), ssq_default = num(sum(css_resid(as.numeric(coef(fit0)), x, cs$order, sea, s, X)^2)),
     se_r = num(sqrt(diag(fit$var.coef))), loglik_r = num(fit$loglik),
     coef_gn = num(gp), ssq_gn = num(ssq_gn), sigma2_gn = num(s2), se_gn = num(sqrt(diag(cov_gn))),
-    ncond = ncond, nu = nu, resid_tight = num(rres),
+    ncond = ncond, nu = nu, n_used = n - d - sea[2] * s, resid_tight = num(rres),
     h = cs$h, pred = num(pr$pred), pred_se = num(pr$se),
-    box10 = num(Box.test(rres, lag = 10, type = "Ljung-Box", fitdf = p + q)$statistic),
-    box10_p = num(Box.test(rres, lag = 10, type = "Ljung-Box", fitdf = p + q)$p.value)))
+    box10 = num(Box.test(rres, lag = 10, type = "Ljung-Box", fitdf = length(par) - ncol(rbind(X, NULL)))$statistic)))
 }
 out("css.json", paste0("[", paste(fits, collapse = ","), "]"))
 cat("wrote testdata/arma/{datasets,corr,ar,css}.json\n")

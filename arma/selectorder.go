@@ -1,0 +1,158 @@
+package arma
+
+import (
+	"context"
+	"errors"
+	"math"
+	"runtime"
+	"sort"
+	"sync"
+)
+
+// Criterion is the information criterion that ranks candidate orders.
+type Criterion int
+
+const (
+	// ByAICc ranks by the small-sample corrected AIC (the default).
+	ByAICc Criterion = iota
+	// ByBIC ranks by the Bayesian (Schwarz) criterion.
+	ByBIC
+	// ByAIC ranks by Akaike's criterion.
+	ByAIC
+)
+
+func (c Criterion) String() string {
+	switch c {
+	case ByAICc:
+		return "AICc"
+	case ByBIC:
+		return "BIC"
+	case ByAIC:
+		return "AIC"
+	}
+	return "Criterion(" + itoa(int(c)) + ")"
+}
+
+// Grid is the set of orders Select tries: every (p, q) with 0 <= p <=
+// MaxP and 0 <= q <= MaxQ, with the same differencing D and seasonal part
+// (SP, SD, SQ, Period) for all.
+type Grid struct {
+	MaxP, MaxQ int
+	D          int
+	SP, SD, SQ int
+	Period     int
+	Criterion  Criterion
+	// Workers bounds the number of fits run at once; zero means
+	// runtime.GOMAXPROCS(0).
+	Workers int
+}
+
+// Candidate is one fitted order of a Select grid.
+type Candidate struct {
+	Order Order
+	// Score is the criterion value (+Inf when the fit failed).
+	Score float64
+	// Result is the fit (nil when Err is not a *ConvergenceError).
+	Result *Result
+	// Err is the fit's error, nil on success.
+	Err error
+}
+
+// Select fits every order of the grid to y by conditional least squares
+// (Fit, with opt for every candidate) on a bounded number of goroutines
+// and returns all candidates ranked: converged fits by increasing score,
+// then fits that stopped without converging, then failures.
+//
+// So that the criteria compare likelihoods of the same residuals, every
+// candidate sums its residuals from the same index: the largest default
+// start of the grid (MaxP + SP*Period + D + SD*Period), or opt.Start if
+// larger.
+//
+// The error is non-nil only for an invalid grid or when ctx is done
+// (candidates fitted so far are still returned).
+func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate, error) {
+	if g.MaxP < 0 || g.MaxQ < 0 {
+		return nil, &ArgError{Arg: "grid", Msg: "MaxP and MaxQ must not be negative"}
+	}
+	top := Order{P: g.MaxP, D: g.D, Q: g.MaxQ, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}
+	if err := top.validate(); err != nil {
+		return nil, err
+	}
+	var o Options
+	if opt != nil {
+		o = *opt
+	}
+	s := max(g.Period, 1)
+	o.Start = max(o.Start, g.MaxP+g.SP*s+g.D+g.SD*s)
+	workers := g.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	var cands []Candidate
+	for p := 0; p <= g.MaxP; p++ {
+		for q := 0; q <= g.MaxQ; q++ {
+			cands = append(cands, Candidate{Order: Order{P: p, D: g.D, Q: q, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}})
+		}
+	}
+	jobs := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < min(workers, len(cands)); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range jobs {
+				c := &cands[i]
+				oc := o
+				res, err := Fit(ctx, y, c.Order, &oc)
+				c.Result, c.Err, c.Score = res, err, math.Inf(1)
+				if res != nil {
+					c.Score = score(res, g.Criterion)
+				}
+			}
+		}()
+	}
+	var cerr error
+feed:
+	for i := range cands {
+		select {
+		case jobs <- i:
+		case <-ctx.Done():
+			cerr = ctx.Err()
+			for j := i; j < len(cands); j++ {
+				cands[j].Err, cands[j].Score = cerr, math.Inf(1)
+			}
+			break feed
+		}
+	}
+	close(jobs)
+	wg.Wait()
+	sort.SliceStable(cands, func(i, j int) bool {
+		ri, rj := rank(cands[i].Err), rank(cands[j].Err)
+		if ri != rj {
+			return ri < rj
+		}
+		return cands[i].Score < cands[j].Score
+	})
+	return cands, cerr
+}
+
+func score(r *Result, c Criterion) float64 {
+	switch c {
+	case ByBIC:
+		return r.BIC
+	case ByAIC:
+		return r.AIC
+	}
+	return r.AICc
+}
+
+func rank(err error) int {
+	if err == nil {
+		return 0
+	}
+	var ce *ConvergenceError
+	if errors.As(err, &ce) {
+		return 1
+	}
+	return 2
+}
