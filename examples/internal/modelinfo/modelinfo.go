@@ -25,6 +25,10 @@ type Path struct {
 	// why there are none.
 	Step tf.StepInfo
 	Err  error
+	// Slope is, for an integrating path (output differenced once by
+	// (1 - B)), the rise of the output per sample for a unit step of the
+	// input once the ramp is established; NaN otherwise.
+	Slope float64
 }
 
 // Paths summarises every input path of m. interval is the sample
@@ -34,11 +38,17 @@ type Path struct {
 func Paths(m tf.Model, interval float64) ([]Path, error) {
 	var out []Path
 	for _, in := range m.Inputs {
-		r, err := rational(in)
+		r, err := rational(in, m.Diff)
 		if err != nil {
 			return nil, fmt.Errorf("input %s: %w", in.Series, err)
 		}
-		p := Path{Input: in.Series, Rational: r, DeadTime: r.Delay(), Stable: r.Stable(), Gain: math.NaN()}
+		p := Path{Input: in.Series, Rational: r, DeadTime: r.Delay(), Stable: r.Stable(), Gain: math.NaN(), Slope: math.NaN()}
+		if c := m.Diff.Coeffs(); len(c) == 2 && c[0] == 1 && c[1] == -1 {
+			// y = G(B)/(1 - B) x: the ramp rate of a step is G's gain.
+			if g, err := rational(in, tf.Poly{}); err == nil {
+				p.Slope, _ = g.Gain()
+			}
+		}
 		if g, err := r.Gain(); err == nil {
 			p.Gain = g
 		}
@@ -74,6 +84,13 @@ func Write(w io.Writer, m tf.Model) error {
 		fmt.Fprintf(w, "  %s -> %s\n", p.Input, m.Output)
 		if math.IsNaN(p.Gain) {
 			fmt.Fprintf(w, "    gain             none (integrating: pole at z = 1)\n")
+			if !math.IsNaN(p.Slope) {
+				if iv > 0 {
+					fmt.Fprintf(w, "    ramp rate        %.4g per %s per unit input (%.4g per sample)\n", p.Slope/iv, unit, p.Slope)
+				} else {
+					fmt.Fprintf(w, "    ramp rate        %.4g per sample per unit input\n", p.Slope)
+				}
+			}
 		} else {
 			fmt.Fprintf(w, "    gain             %.4g\n", p.Gain)
 		}
@@ -93,9 +110,12 @@ func Write(w io.Writer, m tf.Model) error {
 				fmt.Fprintf(w, "    %-16s pole %s\n", md.Kind+" mode", zstr(md.Pole))
 			}
 		}
-		if p.Stable {
+		switch {
+		case p.Stable:
 			fmt.Fprintf(w, "    stable           yes (largest pole magnitude %.4f)\n", p.Rational.MaxPoleMagnitude())
-		} else {
+		case !math.IsNaN(p.Slope):
+			fmt.Fprintf(w, "    stable           no: integrating (pole at z = 1; bounded input, unbounded output)\n")
+		default:
 			fmt.Fprintf(w, "    stable           NO (largest pole magnitude %.4f)\n", p.Rational.MaxPoleMagnitude())
 		}
 		if p.Err != nil {
@@ -121,6 +141,9 @@ func span(samples, t float64, unit string) string {
 	if samples == t {
 		return fmt.Sprintf("%.3g %s", t, unit)
 	}
+	if samples == 1 {
+		return fmt.Sprintf("%.3g %s (1 sample)", t, unit)
+	}
 	return fmt.Sprintf("%.3g %s (%.3g samples)", t, unit, samples)
 }
 
@@ -131,20 +154,26 @@ func zstr(z complex128) string {
 	return strings.TrimSpace(fmt.Sprintf("%.4f +- %.4fi (|z| %.4f)", real(z), math.Abs(imag(z)), cmplx.Abs(z)))
 }
 
-// rational returns the input path as a transfer function: the numerator
-// times the input's differencing, over the denominator, with its dead
-// time.
-func rational(in tf.Input) (tf.Rational, error) {
-	num := in.Num.Coeffs()
+// rational returns the input path from x to y as a transfer function:
+// the numerator times the input's differencing, over the denominator
+// times the output's differencing outDiff, with its dead time.
+func rational(in tf.Input, outDiff tf.Poly) (tf.Rational, error) {
+	num, den := in.Num.Coeffs(), in.Den.Coeffs()
 	if !in.Diff.IsOne() {
-		d := in.Diff.Coeffs()
-		prod := make([]float64, len(num)+len(d)-1)
-		for i, a := range num {
-			for j, b := range d {
-				prod[i+j] += a * b
-			}
-		}
-		num = prod
+		num = mul(num, in.Diff.Coeffs())
 	}
-	return tf.NewRational(num, in.Den.Coeffs(), in.Delay)
+	if !outDiff.IsOne() {
+		den = mul(den, outDiff.Coeffs())
+	}
+	return tf.NewRational(num, den, in.Delay)
+}
+
+func mul(a, b []float64) []float64 {
+	prod := make([]float64, len(a)+len(b)-1)
+	for i, x := range a {
+		for j, y := range b {
+			prod[i+j] += x * y
+		}
+	}
+	return prod
 }

@@ -1,0 +1,15 @@
+// Command config keeps a site's process models in a JSON file whose
+// fields are model specs, loads and validates it, and prints what each
+// model says about the plant: gain, dead time, time constants, stability
+// and step-response metrics, in the model's time unit.
+//
+//	go run ./examples/config                 # the built-in example, then a broken one
+//	go run ./examples/config -file site.json
+//
+// Each "spec" field is a parse.Spec, which implements
+// encoding.TextUnmarshaler, so encoding/json turns the text into a typed
+// model while it decodes the file. Problems are reported with the file's
+// own line and column, also for an error inside a spec string: the
+// position the spec parser gives inside the string is mapped back to the
+// file, so the caret points at the character to fix.
+package main
