@@ -175,8 +175,12 @@ func validatePair(x, y []float64, maxLag int, names [2]string) error {
 		}
 	}
 	for i, v := range [2][]float64{x, y} {
-		if err := checkSeries(names[i], v); err != nil {
-			return err
+		if s := sum4(v); s-s != 0 {
+			// A NaN or Inf sample (or an overflowing sum): find it.
+			if err := checkSeries(names[i], v); err != nil {
+				return err
+			}
+			return &ArgError{Arg: names[i], Value: "samples whose sum overflows", Want: "magnitudes below about 1e300"}
 		}
 	}
 	for i, v := range [2][]float64{x, y} {
@@ -199,14 +203,33 @@ func isConstant(x []float64) bool {
 // mean returns the sample mean with one correction pass, which keeps it
 // accurate for series with a large offset.
 func mean(x []float64) float64 {
-	s := 0.0
-	for _, v := range x {
-		s += v
+	m := sum4(x) / float64(len(x))
+	var e0, e1, e2, e3 float64
+	i := 0
+	for ; i+4 <= len(x); i += 4 {
+		e0 += x[i] - m
+		e1 += x[i+1] - m
+		e2 += x[i+2] - m
+		e3 += x[i+3] - m
 	}
-	m := s / float64(len(x))
-	e := 0.0
-	for _, v := range x {
-		e += v - m
+	for ; i < len(x); i++ {
+		e0 += x[i] - m
 	}
-	return m + e/float64(len(x))
+	return m + ((e0+e1)+(e2+e3))/float64(len(x))
+}
+
+// sum4 returns the sum of x with four accumulators.
+func sum4(x []float64) float64 {
+	var s0, s1, s2, s3 float64
+	i := 0
+	for ; i+4 <= len(x); i += 4 {
+		s0 += x[i]
+		s1 += x[i+1]
+		s2 += x[i+2]
+		s3 += x[i+3]
+	}
+	for ; i < len(x); i++ {
+		s0 += x[i]
+	}
+	return (s0 + s1) + (s2 + s3)
 }

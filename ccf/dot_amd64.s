@@ -1,0 +1,93 @@
+//go:build !purego
+
+#include "textflag.h"
+
+// func dot8FMA(a, b *float64, n int, out *[8]float64)
+//
+// out[q] = sum_{i<n} a[i] * b[i+q] for q = 0..7; n > 0 and a multiple of
+// 4; b must hold n+7 values (and 4 more are never read beyond n+7+... :
+// the last load reads b[n-4+7 .. n-1+7]). Eight AVX2 accumulators, one per
+// lag, each over four consecutive i.
+TEXT ·dot8FMA(SB), NOSPLIT, $0-32
+	MOVQ a+0(FP), SI
+	MOVQ b+8(FP), DI
+	MOVQ n+16(FP), CX
+	MOVQ out+24(FP), DX
+	VXORPD Y0, Y0, Y0
+	VXORPD Y1, Y1, Y1
+	VXORPD Y2, Y2, Y2
+	VXORPD Y3, Y3, Y3
+	VXORPD Y4, Y4, Y4
+	VXORPD Y5, Y5, Y5
+	VXORPD Y6, Y6, Y6
+	VXORPD Y7, Y7, Y7
+	XORQ AX, AX
+
+loop:
+	VMOVUPD (SI)(AX*8), Y8
+	VFMADD231PD (DI)(AX*8), Y8, Y0
+	VFMADD231PD 8(DI)(AX*8), Y8, Y1
+	VFMADD231PD 16(DI)(AX*8), Y8, Y2
+	VFMADD231PD 24(DI)(AX*8), Y8, Y3
+	VFMADD231PD 32(DI)(AX*8), Y8, Y4
+	VFMADD231PD 40(DI)(AX*8), Y8, Y5
+	VFMADD231PD 48(DI)(AX*8), Y8, Y6
+	VFMADD231PD 56(DI)(AX*8), Y8, Y7
+	ADDQ $4, AX
+	CMPQ AX, CX
+	JLT  loop
+
+	// Horizontal sums: lanes of Yq -> out[q].
+	VEXTRACTF128 $1, Y0, X8
+	VADDPD       X8, X0, X0
+	VHADDPD      X0, X0, X0
+	VMOVSD       X0, 0(DX)
+	VEXTRACTF128 $1, Y1, X8
+	VADDPD       X8, X1, X1
+	VHADDPD      X1, X1, X1
+	VMOVSD       X1, 8(DX)
+	VEXTRACTF128 $1, Y2, X8
+	VADDPD       X8, X2, X2
+	VHADDPD      X2, X2, X2
+	VMOVSD       X2, 16(DX)
+	VEXTRACTF128 $1, Y3, X8
+	VADDPD       X8, X3, X3
+	VHADDPD      X3, X3, X3
+	VMOVSD       X3, 24(DX)
+	VEXTRACTF128 $1, Y4, X8
+	VADDPD       X8, X4, X4
+	VHADDPD      X4, X4, X4
+	VMOVSD       X4, 32(DX)
+	VEXTRACTF128 $1, Y5, X8
+	VADDPD       X8, X5, X5
+	VHADDPD      X5, X5, X5
+	VMOVSD       X5, 40(DX)
+	VEXTRACTF128 $1, Y6, X8
+	VADDPD       X8, X6, X6
+	VHADDPD      X6, X6, X6
+	VMOVSD       X6, 48(DX)
+	VEXTRACTF128 $1, Y7, X8
+	VADDPD       X8, X7, X7
+	VHADDPD      X7, X7, X7
+	VMOVSD       X7, 56(DX)
+	VZEROUPPER
+	RET
+
+// func cpuid(eaxArg, ecxArg uint32) (eax, ebx, ecx, edx uint32)
+TEXT ·cpuid(SB), NOSPLIT, $0-24
+	MOVL eaxArg+0(FP), AX
+	MOVL ecxArg+4(FP), CX
+	CPUID
+	MOVL AX, eax+8(FP)
+	MOVL BX, ebx+12(FP)
+	MOVL CX, ecx+16(FP)
+	MOVL DX, edx+20(FP)
+	RET
+
+// func xgetbv() (eax, edx uint32)
+TEXT ·xgetbv(SB), NOSPLIT, $0-8
+	MOVL $0, CX
+	XGETBV
+	MOVL AX, eax+0(FP)
+	MOVL DX, edx+4(FP)
+	RET
