@@ -97,6 +97,7 @@ func chooseMethod(n, K int) Method {
 // crossoverFactor is measured with BenchmarkCrossover; see the comment
 // there.
 const crossoverFactor = 8
+
 // fftFactor sets the block length: 16 was the fastest of 4, 8, 16, 32 for
 // K = 2000 at n = 10^6 (BenchmarkCross on the development machine).
 const fftFactor = 16
