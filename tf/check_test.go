@@ -7,6 +7,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/filter"
+	"gonum.org/v1/gonum/floats/scalar"
 )
 
 // TestCheckBJsales runs the diagnostic checks on the BJsales fit (R
@@ -84,5 +85,43 @@ func TestCheckDetectsMisfit(t *testing.T) {
 		if d.Residual.Pass != tc.residOK || d.Cross[0].Pass != tc.crossOK || d.Pass != (tc.residOK && tc.crossOK) {
 			t.Errorf("%s: residual p %.3g, cross p %.3g", tc.name, d.Residual.P, d.Cross[0].P)
 		}
+	}
+}
+
+// TestCheckAgainstScipy compares the diagnostic statistics with those the
+// reference script testdata/fit/ref_fit.py computes at the scipy
+// estimates (Ljung-Box by formula with numpy and scipy.stats.chi2 1.10.1;
+// prewhitening by a numpy Durbin-Levinson Yule-Walker fit with AIC order
+// choice). The estimates agree to ~1e-7, so the statistics agree to 1e-5
+// relative.
+func TestCheckAgainstScipy(t *testing.T) {
+	for _, c := range fitReadRef(t) {
+		t.Run(c.Name, func(t *testing.T) {
+			data := c.data(t)
+			est, err := Fit(context.Background(), c.model(), data, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			d, err := Check(est, data, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := c.Checks
+			r := d.Residual
+			if r.Lags != want.LBLags || r.DF != want.LBDF || !scalar.EqualWithinRel(r.Q, want.LBQ, 1e-5) || !scalar.EqualWithinAbsOrRel(r.P, want.LBP, 1e-6, 1e-5) {
+				t.Errorf("Ljung-Box: K %d df %d Q %.8g p %.6g; scipy K %d df %d Q %.8g p %.6g", r.Lags, r.DF, r.Q, r.P, want.LBLags, want.LBDF, want.LBQ, want.LBP)
+			}
+			if len(d.Cross) != len(want.Cross) {
+				t.Fatalf("%d cross checks, want %d", len(d.Cross), len(want.Cross))
+			}
+			for i, w := range want.Cross {
+				g := d.Cross[i]
+				if g.Input != w.Input || g.Prewhiten.Order() != w.AROrder || g.Lags != w.Lags || g.M != w.M || g.DF != w.DF ||
+					!scalar.EqualWithinRel(g.S, w.S, 1e-5) || !scalar.EqualWithinAbsOrRel(g.P, w.P, 1e-6, 1e-5) {
+					t.Errorf("cross %s: AR %d K %d M %d df %d S %.8g p %.6g; scipy AR %d K %d M %d df %d S %.8g p %.6g",
+						g.Input, g.Prewhiten.Order(), g.Lags, g.M, g.DF, g.S, g.P, w.AROrder, w.Lags, w.M, w.DF, w.S, w.P)
+				}
+			}
+		})
 	}
 }

@@ -33,6 +33,21 @@ type fitRefCase struct {
 	NResid     int                `json:"n_resid"`
 	First      int                `json:"first"`
 	NoiseStart int                `json:"noise_start"`
+	Checks     struct {
+		LBLags int     `json:"lb_lags"`
+		LBDF   int     `json:"lb_df"`
+		LBQ    float64 `json:"lb_q"`
+		LBP    float64 `json:"lb_p"`
+		Cross  []struct {
+			Input   string  `json:"input"`
+			AROrder int     `json:"ar_order"`
+			Lags    int     `json:"lags"`
+			M       int     `json:"m"`
+			S       float64 `json:"S"`
+			DF      int     `json:"df"`
+			P       float64 `json:"p"`
+		} `json:"cross"`
+	} `json:"checks"`
 }
 
 type fitRefIn struct {

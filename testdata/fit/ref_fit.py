@@ -13,7 +13,12 @@ Box, Jenkins & Reinsel), fits every model with scipy.optimize.least_squares
 with scipy.signal.lfilter, and writes ref_fit.json: for each case the model
 description (read by the Go tests to build the same tf.Model), the data
 file, the estimates, the sum of squares, the number of residuals and the
-first residual index.
+first residual index, and the diagnostic statistics at the scipy
+estimates: the Ljung-Box Q of the residuals (K = max(min(24, N/4), noise
+parameters + 1), df K - noise parameters, scipy.stats.chi2) and, per
+input, S = M sum_{k=0..K} r_k^2 of the residuals against the input
+prewhitened by a Yule-Walker autoregression with AIC order choice
+(Durbin-Levinson written here with numpy), df K + 1 - (r + s + 1).
 
 Conditioning (the same as tf.Fit, written independently here):
   w_t = D(B) y_t for t >= d (zero before), z_i,t = D_i(B) x_i,t (zero before d_i);
@@ -28,6 +33,7 @@ import os
 import numpy as np
 from scipy.optimize import least_squares
 from scipy.signal import lfilter
+from scipy.stats import chi2
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 
@@ -124,6 +130,69 @@ def fit(model, data, start):
     res = least_squares(f, x0, method="lm", xtol=1e-15, ftol=1e-15, gtol=1e-15, max_nfev=20000)
     r = f(res.x)
     return dict(zip(names, res.x.tolist())), float(r @ r), len(r), res
+
+
+def levinson(acov, m):
+    """Durbin-Levinson: AR coefficients and prediction variances up to order m."""
+    phi = np.zeros(0)
+    v = [acov[0]]
+    out = [phi]
+    for k in range(1, m + 1):
+        a = (acov[k] - np.dot(phi, acov[1:k][::-1])) / v[-1]
+        phi = np.concatenate([phi - a * phi[::-1], [a]])
+        v.append(v[-1] * (1 - a * a))
+        out.append(phi)
+    return out, v
+
+
+def prewhiten(x, diff):
+    """AR prewhitening by Yule-Walker with AIC order choice (divisor n, mean removed)."""
+    d = degree(diff)
+    z = diffed(x, diff)[d:]
+    n = len(z)
+    zc = z - z.mean()
+    m = min(n - 1, int(np.floor(10 * np.log10(n))))
+    acov = np.array([np.dot(zc[: n - k], zc[k:]) / n for k in range(m + 1)])
+    phis, v = levinson(acov, m)
+    aic = [n * np.log(v[k]) + 2 * k for k in range(m + 1)]
+    p = int(np.argmin(aic))
+    phi = phis[p]
+    alpha = np.full(len(x), np.nan)
+    full = np.concatenate([np.zeros(d), zc])
+    for t in range(d + p, len(x)):
+        alpha[t] = full[t] - np.dot(phi, full[t - p : t][::-1]) if p else full[t]
+    return alpha, d + p, p
+
+
+def checks(model, data, par, first):
+    """Ljung-Box Q of the residuals and the residual-input portmanteau S."""
+    a = residuals(model, data, par)
+    nres = len(a)
+    noise_par = len([k for k in names_of({"const": "", "inputs": [], "ma": model["ma"], "ar": model["ar"]})])
+    lags = max(min(24, nres // 4), noise_par + 1)
+    ac = a - a.mean()
+    c0 = ac @ ac / nres
+    r = np.array([ac[: nres - k] @ ac[k:] / nres / c0 for k in range(1, lags + 1)])
+    q = nres * (nres + 2) * np.sum(r ** 2 / (nres - np.arange(1, lags + 1)))
+    out = {"lb_lags": lags, "lb_df": lags - noise_par, "lb_q": float(q),
+           "lb_p": float(chi2.sf(q, lags - noise_par)), "cross": []}
+    n = len(data[model["output"]])
+    resid = np.concatenate([np.zeros(first), a])
+    for inp in model["inputs"]:
+        alpha, start, p = prewhiten(data[inp["series"]], inp["diff"])
+        t0 = max(start, first)
+        xa = alpha[t0:] - alpha[t0:].mean()
+        ya = resid[t0:] - resid[t0:].mean()
+        m = len(xa)
+        k = min(lags, m - 2)
+        den = np.sqrt((xa @ xa / m) * (ya @ ya / m))
+        rr = np.array([xa[: m - j] @ ya[j:] / m / den for j in range(k + 1)])
+        S = m * np.sum(rr ** 2)
+        npar = len(names_of({"const": "", "inputs": [inp], "ma": [], "ar": []}))
+        df = max(k + 1 - npar, 1)
+        out["cross"].append({"input": inp["series"], "ar_order": p, "lags": k, "m": m, "S": float(S),
+                             "df": df, "p": float(chi2.sf(S, df))})
+    return out
 
 
 def write_csv(path, cols):
@@ -226,6 +295,7 @@ def main():
         print(c["name"], est, "ssq", ssq, "N", nres, "status", res.status, "nfev", res.nfev)
         out.append({"name": c["name"], "file": c["file"], "model": c["model"], "estimates": est,
                     "ssq": ssq, "n_resid": nres, "first": t0, "noise_start": ts,
+                    "checks": checks(c["model"], c["data"], est, t0),
                     "source": "scipy 1.10.1 optimize.least_squares(method='lm') on signal.lfilter residuals"})
     with open(os.path.join(HERE, "ref_fit.json"), "w") as fh:
         json.dump(out, fh, indent=1)
