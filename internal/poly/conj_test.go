@@ -1,0 +1,38 @@
+package poly
+
+import (
+	"math/cmplx"
+	"math/rand/v2"
+	"testing"
+)
+
+// TestRootsConjugatePairs: the roots of a real polynomial come in exact
+// conjugate pairs (z and its conjugate bit for bit), so that polynomials
+// rebuilt from them are real and pole lists print symmetrically.
+func TestRootsConjugatePairs(t *testing.T) {
+	rng := rand.New(rand.NewPCG(12, 34))
+	for trial := 0; trial < 300; trial++ {
+		a := make([]float64, 2+rng.IntN(40))
+		for i := range a {
+			a[i] = rng.NormFloat64()
+		}
+		r, err := Roots(a)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, z := range r {
+			if imag(z) == 0 {
+				continue
+			}
+			n := 0
+			for _, w := range r {
+				if w == cmplx.Conj(z) {
+					n++
+				}
+			}
+			if n == 0 {
+				t.Fatalf("trial %d: root %v has no exact conjugate among %v", trial, z, r)
+			}
+		}
+	}
+}
