@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 	"strconv"
+	"strings"
 
 	"github.com/alecthomas/participle/v2/lexer"
 	"github.com/backshift/backshift/arma"
@@ -55,7 +56,7 @@ func (b *builder) build(g *gSpec) {
 	for i := range eq.Terms {
 		b.term(&eq.Terms[i], i == 0)
 	}
-	if len(b.m.Inputs) == 0 && len(eq.Terms) > 0 {
+	if len(b.m.Inputs) == 0 && len(eq.Terms) > 0 && len(b.errs) == 0 {
 		b.fail(eq.Terms[0].Pos, ErrModel, "the model has no input term; write at least one, such as w0 B x")
 	}
 	var binds []gBind
@@ -107,23 +108,27 @@ func (b *builder) number(x *gExp) (float64, bool) {
 	return v, true
 }
 
-// whole reads a whole number in lo..hi; what names it in messages.
-func (b *builder) whole(x *gExp, lo, hi int, what string, kindOver error) (int, bool) {
+// whole reads a whole number in lo..hi; what names it in messages and
+// unit, when not empty, follows the limit.
+func (b *builder) whole(x *gExp, lo, hi int, what, unit string, kindOver error) (int, bool) {
 	v, err := strconv.ParseFloat(x.Num, 64)
-	if x.Neg {
-		v = -v
-	}
 	text := x.Num
 	if x.Neg {
-		text = "-" + text
+		v, text = -v, "-"+text
+	}
+	of := ""
+	if unit != "" {
+		of, unit = " of "+unit, " "+unit
 	}
 	switch {
 	case err == nil && v != math.Trunc(v):
-		b.fail(x.Pos, ErrModel, what+" must be a whole number, not "+text)
+		b.fail(x.Pos, ErrModel, what+" must be a whole number"+of+", not "+text)
+	case err == nil && v < 0 && lo == 0:
+		b.fail(x.Pos, ErrModel, what+" cannot be negative, and here it is "+text)
 	case err == nil && v < float64(lo):
 		b.fail(x.Pos, ErrModel, what+" must be at least "+strconv.Itoa(lo)+", not "+text)
 	case err != nil || v > float64(hi):
-		b.fail(x.Pos, kindOver, what+" "+text+" is over the limit of "+strconv.Itoa(hi))
+		b.fail(x.Pos, kindOver, what+" is "+text+", over the limit of "+strconv.Itoa(hi)+unit)
 	default:
 		return int(v), true
 	}
@@ -289,7 +294,7 @@ func (b *builder) shorthand(s *gShort) (arma.Noise, bool) {
 	}
 	ords := make([]int, want)
 	for i, a := range s.Args {
-		v, ok := b.whole(a, 0, MaxDegree, "the order", ErrLimit)
+		v, ok := b.whole(a, 0, MaxDegree, "the order", "", ErrLimit)
 		if !ok {
 			return arma.Noise{}, false
 		}
@@ -361,7 +366,7 @@ func (b *builder) input(t *gTerm, ops []*gItem, series string, diff tf.Poly) {
 		case it.B != nil:
 			k := 1
 			if it.B.Exp != nil {
-				v, ok := b.whole(it.B.Exp, 0, MaxDelay, "the dead time", ErrLimit)
+				v, ok := b.whole(it.B.Exp, 0, MaxDelay, "the dead time", "samples", ErrLimit)
 				if !ok {
 					delayOK = false
 					continue
@@ -369,7 +374,7 @@ func (b *builder) input(t *gTerm, ops []*gItem, series string, diff tf.Poly) {
 				k = v
 			}
 			if delay+k > MaxDelay && delayOK {
-				b.fail(it.Pos, ErrLimit, "the dead time "+strconv.Itoa(delay+k)+" is over the limit of "+strconv.Itoa(MaxDelay)+" samples")
+				b.fail(it.Pos, ErrLimit, "the dead time adds up to "+strconv.Itoa(delay+k)+", over the limit of "+strconv.Itoa(MaxDelay)+" samples")
 				delayOK = false
 				continue
 			}
@@ -447,7 +452,7 @@ func (b *builder) polyFactors(g *gGroup, dst *tf.Poly, what string, unit bool) {
 func (b *builder) groupFactors(g *gGroup, exp int, dst *tf.Poly, what string, unit bool) {
 	e := 1
 	if g.Exp != nil {
-		v, ok := b.whole(g.Exp, 1, MaxDegree, "the power of a factor", ErrLimit)
+		v, ok := b.whole(g.Exp, 1, MaxDegree, "the power of a factor", "", ErrLimit)
 		if !ok {
 			return
 		}
@@ -489,9 +494,14 @@ func (b *builder) groupFactors(g *gGroup, exp int, dst *tf.Poly, what string, un
 		}
 		if c0 != 1 {
 			msg := "the constant term of the " + what + " must be 1, not " + strconv.FormatFloat(c0, 'g', -1, 64)
-			if c0 != 0 && !math.IsInf(c0, 0) {
+			switch {
+			case what == "noise numerator":
+				msg += "; the noise has no gain (its scale is its variance): write (1 - t1 B ...)"
+			case strings.HasPrefix(what, "differencing"):
+				msg += "; a differencing operator starts with 1, as in (1 - B) or (1 - B^12)"
+			case c0 != 0 && !math.IsInf(c0, 0):
 				msg += "; divide the numerator and the denominator by " + strconv.FormatFloat(c0, 'g', -1, 64)
-			} else {
+			default:
 				msg += "; write it as (1 + ...)"
 			}
 			b.fail(g.Pos, ErrModel, msg)
@@ -592,7 +602,7 @@ func (b *builder) sum(g *gGroup, what string) (tf.Factor, bool) {
 			}
 			cur.Power = 1
 			if it.B.Exp != nil {
-				k, ok := b.whole(it.B.Exp, 0, MaxDegree, "the power of B", ErrLimit)
+				k, ok := b.whole(it.B.Exp, 0, MaxDegree, "the power of B", "", ErrLimit)
 				if !ok {
 					return f, false
 				}

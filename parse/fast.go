@@ -8,11 +8,13 @@ import "github.com/alecthomas/participle/v2/lexer"
 // participle parser on the same tokens for the position and the message
 // of the error. Tests (TestFastMatchesGrammar and FuzzParse) check that
 // both parsers accept the same texts and build equal trees.
-func fastParse(toks []lexer.Token) (*gSpec, bool) {
+//
+// On failure it returns the index of the token where it stopped.
+func fastParse(toks []lexer.Token) (*gSpec, int, bool) {
 	p := fastParser{toks: toks}
 	g := &gSpec{}
 	if !p.equation(&g.Eq) {
-		return nil, false
+		return nil, p.i, false
 	}
 	for !p.atEOF() {
 		if p.isPunct(";") {
@@ -21,11 +23,11 @@ func fastParse(toks []lexer.Token) (*gSpec, bool) {
 		}
 		var c gClause
 		if !p.clause(&c) {
-			return nil, false
+			return nil, p.i, false
 		}
 		g.Clauses = append(g.Clauses, c)
 	}
-	return g, true
+	return g, 0, true
 }
 
 type fastParser struct {

@@ -41,13 +41,14 @@ func Model(spec string) (tf.Model, error) {
 		b.fail(toks[0].Pos, ErrSyntax, "the spec is empty; write a model such as y = w0 B x + a")
 		return tf.Model{}, b.errs
 	}
-	g, ok := fastParse(toks)
+	g, stop, ok := fastParse(toks)
 	if !ok {
-		// The participle grammar is the reference: it says where and why
-		// the text fails.
+		// The participle grammar is the reference for what parses; the
+		// message is worded from the furthest token either parser
+		// reached.
 		var err error
 		if g, err = grammarParse(toks); err != nil {
-			b.syntax(toks, err)
+			b.syntax(toks, err, stop)
 			return tf.Model{}, b.errs
 		}
 	}
@@ -91,16 +92,14 @@ func checkNesting(toks []lexer.Token) *lexError {
 
 // syntax turns a participle error into our own message, worded from the
 // token where parsing stopped and the one before it.
-func (b *builder) syntax(toks []lexer.Token, err error) {
+func (b *builder) syntax(toks []lexer.Token, err error, stop int) {
 	var pe participle.Error
 	off := len(b.src)
 	if errors.As(err, &pe) {
 		off = pe.Position().Offset
 	}
 	i, _ := slices.BinarySearchFunc(toks, off, func(t lexer.Token, off int) int { return t.Pos.Offset - off })
-	i = min(i, len(toks)-1)
-	// The parser reports the offset of the token it could not use; an
-	// EOF token shares its offset with nothing else.
+	i = min(max(i, stop), len(toks)-1)
 	cur := toks[i]
 	b.fail(cur.Pos, ErrSyntax, syntaxMessage(toks, i))
 }

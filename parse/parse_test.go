@@ -1,0 +1,468 @@
+package parse
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"runtime"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/tf"
+)
+
+// goodSpecs parse; each is used by several tests.
+var goodSpecs = []string{
+	"temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (1 - t1 B) / (1 - p1 B) a",
+	"temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (v0 - v1 B) B^2 feed + ARMA(2, 1) where w0 ~ 0.5, d1 ~ 0.7 every 30 s",
+	"(1 - B) y = w0 ((1 - B) x) + a",
+	"(1 - B)(1 - B^12) sales = w0 B^3 ((1 - B)(1 - B^12) lead) + (1 - theta1 B) / (1 - Phi1 B^12) a",
+	"(1 - B)^2 y = -3 + 1 x + B z + (w0 B) / ((1 - d1 B)(1 + d2 B^2))^2 ((1 - B) q) + 1 / (1 - p B) a where p = 0.5, d2 ~ -1e-7 every 1.5 min",
+	"y = c + 2 x + a",
+	"y = w0*B^2*x",
+	"y = (w1*B + w2*B^2) x; every 2 h;",
+	"# comment only line\n\ny = w0 x # trailing\n+ AR(3)\n; where phi1 ~ 0.4\n",
+	"y = w0 x + MA(2)",
+	"y = w0 x + ARMA(0, 0)",
+	"y = w0 / (1 - d B) / (1 - e B) x",
+	"y=.5x+2.5E+3 B^0 z-1e-3+a",
+	"flow = 1 / ((1 - d1 B)(1 - d2 B)) B^10000 rain + a every 1 d",
+}
+
+func TestGoodSpecs(t *testing.T) {
+	for _, s := range goodSpecs {
+		m, err := Model(s)
+		if err != nil {
+			t.Errorf("%q: %v", s, err)
+			continue
+		}
+		p := m.String()
+		m2, err := Model(p)
+		if err != nil {
+			t.Errorf("%q printed as %q: %v", s, p, err)
+			continue
+		}
+		if !m2.Equal(m) {
+			t.Errorf("%q printed as %q reads back differently", s, p)
+		}
+		if p2 := m2.String(); p2 != p {
+			t.Errorf("printing is not stable: %q then %q", p, p2)
+		}
+	}
+}
+
+// TestModelValues checks the typed values of one spec field by field.
+func TestModelValues(t *testing.T) {
+	m := MustModel("(1 - B) temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + w2 ((1 - B^12) feed) + ARMA(1, 1) where w0 ~ 2, d1 = 0.6 every 30 s")
+	c := func(name string, v float64, free bool) tf.Coef { return tf.Coef{Name: name, Value: v, Free: free} }
+	num := func(v float64) tf.Coef { return tf.Coef{Value: v} }
+	f := func(terms ...tf.Term) tf.Factor { return tf.Factor{Terms: terms, Exp: 1} }
+	want := tf.Model{
+		Output: "temp",
+		Diff:   tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: num(1), Power: 1})}},
+		Const:  &tf.Coef{Value: 21.5},
+		Inputs: []tf.Input{
+			{Series: "burner", Delay: 4,
+				Num: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: c("w0", 2, true)}, tf.Term{Coef: c("w1", 0, true), Power: 1})}},
+				Den: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: c("d1", 0.6, false), Power: 1})}}},
+			{Series: "feed",
+				Num:  tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: c("w2", 0, true)})}},
+				Diff: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: num(1), Power: 12})}}},
+		},
+		Noise: &arma.Noise{
+			MA: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: c("theta1", 0, true), Power: 1})}},
+			AR: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: c("phi1", 0, true), Power: 1})}},
+		},
+		Interval: tf.Interval{Value: 30, Unit: "s"},
+	}
+	if !m.Equal(want) {
+		t.Fatalf("got  %v\nwant %v", m, want)
+	}
+	// Positions point at the text: the '(' of the burner numerator, the
+	// name d1.
+	if p := m.Inputs[0].Num.Factors[0].Pos; p.Line != 1 || p.Column != 23 {
+		t.Errorf("numerator factor at %d:%d, want 1:23", p.Line, p.Column)
+	}
+	if p := m.Inputs[0].Den.Factors[0].Terms[1].Coef.Pos; p.Column != 42 {
+		t.Errorf("d1 at column %d, want 42", p.Column)
+	}
+	// Noise-free and white-noise models.
+	if m := MustModel("y = w0 x"); m.Noise != nil {
+		t.Errorf("no noise term gave %v", m.Noise)
+	}
+	if m := MustModel("y = w0 x + a"); m.Noise == nil || !m.Noise.IsWhite() {
+		t.Errorf("white noise gave %v", m.Noise)
+	}
+}
+
+func TestErrorFormat(t *testing.T) {
+	_, err := Model("# kiln\ntemp =\n\t(w0 + w1 B) / (2 - d1 B) burner")
+	want := "3:16: the constant term of the denominator must be 1, not 2; divide the numerator and the denominator by 2\n" +
+		"    \t(w0 + w1 B) / (2 - d1 B) burner\n" +
+		"    \t              ^"
+	if err == nil || err.Error() != want {
+		t.Errorf("got\n%v\nwant\n%s", err, want)
+	}
+	// Columns count bytes; the caret is placed by characters.
+	_, err = Model("y = w0 x # température\n+ é")
+	want = "2:3: unexpected character 'é'\n    + é\n      ^"
+	if err == nil || err.Error() != want {
+		t.Errorf("got\n%v\nwant\n%s", err, want)
+	}
+	_, err = Model("t = w0 \xff")
+	if e := new(Error); !errors.As(err, &e) || e.Msg != "unexpected character byte 0xff" || e.Pos.Column != 8 {
+		t.Errorf("bad byte: %v", err)
+	}
+	// Several errors: the first, then a count.
+	_, err = Model("y = w0 / (2 - d B) x + w1 / (3 - e B) z + w2 x")
+	var l ErrorList
+	if !errors.As(err, &l) || len(l) != 3 {
+		t.Fatalf("want 3 errors, got %v", err)
+	}
+	if !strings.HasSuffix(err.Error(), "\n(and 2 more errors)") || l[1].Pos.Column != 29 || l[2].Pos.Column != 43 {
+		t.Errorf("list: %v", err)
+	}
+	if !errors.Is(err, ErrModel) {
+		t.Error("errors.Is(ErrModel) fails on the list")
+	}
+}
+
+func TestLimits(t *testing.T) {
+	big := "y = w0 x #" + strings.Repeat("-", MaxSpecLen)
+	_, err := Model(big)
+	if !errors.Is(err, ErrLimit) || !strings.Contains(err.Error(), "over the limit of 65536") {
+		t.Errorf("long spec: %v", err)
+	}
+	exact := "y = w0 x #"
+	exact += strings.Repeat("-", MaxSpecLen-len(exact))
+	if _, err := Model(exact); err != nil {
+		t.Errorf("spec of exactly %d bytes: %v", MaxSpecLen, err)
+	}
+	deep := "y = " + strings.Repeat("(", MaxNesting) + "1 - B" + strings.Repeat(")", MaxNesting) + " x"
+	if m, err := Model(deep); err != nil || m.Inputs[0].Num.Degree() != 1 {
+		t.Errorf("nesting %d: %v", MaxNesting, err)
+	}
+	deeper := "y = " + strings.Repeat("(", MaxNesting+1) + "1 - B" + strings.Repeat(")", MaxNesting+1) + " x"
+	if _, err := Model(deeper); !errors.Is(err, ErrLimit) {
+		t.Errorf("nesting %d: %v", MaxNesting+1, err)
+	}
+	inputs := func(n int) string {
+		var b strings.Builder
+		b.WriteString("y = w0 x0")
+		for i := 1; i < n; i++ {
+			b.WriteString(" + w" + strconv.Itoa(i) + " x" + strconv.Itoa(i))
+		}
+		return b.String()
+	}
+	if _, err := Model(inputs(MaxInputs)); err != nil {
+		t.Errorf("%d inputs: %v", MaxInputs, err)
+	}
+	_, err = Model(inputs(MaxInputs + 1))
+	if e := new(Error); !errors.As(err, &e) || e.Msg != "more than 64 input terms" || !errors.Is(err, ErrLimit) {
+		t.Errorf("%d inputs: %v", MaxInputs+1, err)
+	}
+	if _, err := Model("y = w0 / (1 - d B)^32 / (1 - e B^2)^16 x"); err != nil {
+		t.Errorf("degree 64: %v", err)
+	}
+	_, err = Model("y = w0 / (1 - d B)^32 / (1 - e B^2)^16 / (1 - f B) x")
+	if e := new(Error); !errors.As(err, &e) || e.Msg != "the denominator has degree 65, over the limit of 64" || e.Pos.Column != 42 {
+		t.Errorf("degree 65: %v", err)
+	}
+	_, err = Model("y = w0 B^5000 B^5001 x")
+	if e := new(Error); !errors.As(err, &e) || e.Msg != "the dead time adds up to 10001, over the limit of 10000 samples" {
+		t.Errorf("dead time sum: %v", err)
+	}
+}
+
+// TestHostileLinear checks that memory grows linearly with the length
+// of hostile texts: the bytes allocated for a text four times as long
+// are at most six times as many (linear growth gives four; the margin
+// covers slice doubling). No timing is measured.
+func TestHostileLinear(t *testing.T) {
+	kinds := map[string]func(n int) string{
+		"open parens":   func(n int) string { return strings.Repeat("(", n) },
+		"many factors":  func(n int) string { return "y = " + strings.Repeat("(1 - B)", n/7) + " x" },
+		"many inputs":   func(n int) string { return "y = " + strings.Repeat("w x + ", n/6) + "a" },
+		"long product":  func(n int) string { return "y = " + strings.Repeat("w ", n/2) + "x" },
+		"where list":    func(n int) string { return "y = w x where " + strings.Repeat("w = 1, ", n/7) + "w = 1" },
+		"signs":         func(n int) string { return "y = (" + strings.Repeat("1 - ", n/4) + "B) x" },
+		"nested groups": func(n int) string { return "y = " + strings.Repeat("((((((((1))))))))", n/17) + " x" },
+	}
+	alloc := func(s string) uint64 {
+		var a, b runtime.MemStats
+		runtime.ReadMemStats(&a)
+		Model(s)
+		runtime.ReadMemStats(&b)
+		return b.TotalAlloc - a.TotalAlloc
+	}
+	for name, gen := range kinds {
+		small, large := gen(12000), gen(48000)
+		alloc(small) // warm up
+		as, al := alloc(small), alloc(large)
+		if float64(al) > 6*float64(as)+64<<10 {
+			t.Errorf("%s: %d bytes for %d bytes of text, %d for %d", name, as, len(small), al, len(large))
+		}
+	}
+}
+
+// TestFastMatchesGrammar checks that the hand-written parser accepts
+// exactly the texts the participle grammar accepts and builds the same
+// tree, on the test specs and on token-level mutations of them.
+func TestFastMatchesGrammar(t *testing.T) {
+	var corpus []string
+	corpus = append(corpus, goodSpecs...)
+	for _, c := range errorCases {
+		corpus = append(corpus, c.spec)
+	}
+	rng := rand.New(rand.NewPCG(3, 4))
+	for range 200 {
+		corpus = append(corpus, randomModel(rng).String())
+	}
+	pieces := []string{"(", ")", "+", "-", "*", "/", "^", "=", "~", ",", ";", "B", "a", "x", "w", "2", "ARMA", "AR", "where", "every", "s"}
+	n := len(corpus)
+	mutations := 20
+	if testing.Short() {
+		mutations = 4
+	}
+	for i := range n {
+		toks, err := lexSpec(corpus[i])
+		if err != nil {
+			continue
+		}
+		for range mutations {
+			parts := make([]string, 0, len(toks)+1)
+			for _, tk := range toks[:len(toks)-1] {
+				parts = append(parts, tk.Value)
+			}
+			k := rng.IntN(len(parts) + 1)
+			switch rng.IntN(3) {
+			case 0:
+				if k < len(parts) {
+					parts = append(parts[:k], parts[k+1:]...)
+				}
+			case 1:
+				parts = append(parts[:k], append([]string{pieces[rng.IntN(len(pieces))]}, parts[k:]...)...)
+			default:
+				if k < len(parts) {
+					parts[k] = pieces[rng.IntN(len(pieces))]
+				}
+			}
+			corpus = append(corpus, strings.Join(parts, " "))
+		}
+	}
+	accepted := 0
+	for _, s := range corpus {
+		if ok, msg := sameTree(s); !ok {
+			t.Errorf("%q: %s", s, msg)
+		} else if msg == "" {
+			accepted++
+		}
+	}
+	if accepted < len(corpus)/10 {
+		t.Errorf("only %d of %d texts parse: the mutations test little", accepted, len(corpus))
+	}
+}
+
+// sameTree runs both parsers on s; msg is "" when both accept it and
+// "rejected" when both reject it.
+func sameTree(s string) (ok bool, msg string) {
+	toks, err := lexSpec(s)
+	if err != nil || checkNesting(toks) != nil {
+		return true, "rejected"
+	}
+	fg, _, fok := fastParse(toks)
+	gg, gerr := grammarParse(toks)
+	switch {
+	case fok != (gerr == nil):
+		return false, "fast parser ok=" + strconv.FormatBool(fok) + ", grammar error: " + errString(gerr)
+	case !fok:
+		return true, "rejected"
+	case !reflect.DeepEqual(fg, gg):
+		return false, "trees differ"
+	}
+	return true, ""
+}
+
+func errString(err error) string {
+	if err == nil {
+		return "none"
+	}
+	return err.Error()
+}
+
+// TestRoundTrip prints random models and reads them back: the result is
+// equal (values exactly) and prints to the same text.
+func TestRoundTrip(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for i := range 3000 {
+		m := randomModel(rng)
+		s := m.String()
+		m2, err := Model(s)
+		if err != nil {
+			t.Fatalf("model %d prints as %q, which does not parse: %v", i, s, err)
+		}
+		if !m2.Equal(m) {
+			t.Fatalf("model %d prints as %q, which reads back as %q", i, s, m2.String())
+		}
+		if s2 := m2.String(); s2 != s {
+			t.Fatalf("model %d: printing not stable: %q then %q", i, s, s2)
+		}
+		var sp Spec
+		if err := sp.UnmarshalText([]byte(s)); err != nil || !sp.Model.Equal(m) {
+			t.Fatalf("Spec.UnmarshalText(%q): %v", s, err)
+		}
+		if txt, _ := sp.MarshalText(); string(txt) != s {
+			t.Fatalf("Spec.MarshalText: %q, want %q", txt, s)
+		}
+	}
+}
+
+func TestSpecZero(t *testing.T) {
+	var sp Spec
+	if txt, err := sp.MarshalText(); err != nil || len(txt) != 0 {
+		t.Errorf("zero Spec marshals to %q, %v", txt, err)
+	}
+	sp.Model = MustModel("y = w0 x")
+	if err := sp.UnmarshalText([]byte("  # none\n")); err != nil || !sp.IsZero() {
+		t.Errorf("blank text: %v, %v", sp, err)
+	}
+	sp.Model = MustModel("y = w0 x")
+	if err := sp.UnmarshalText([]byte("y = w0 / (2 - d B) x")); err == nil || sp.Model.Output != "y" {
+		t.Errorf("bad text: err %v, spec changed to %v", err, sp)
+	}
+}
+
+// randomModel draws a model as the parser builds it: coefficient values
+// non-negative with the sign in Term.Neg, constant terms 1 where the
+// language requires them, one value and freedom per name, names and
+// series disjoint.
+func randomModel(rng *rand.Rand) tf.Model {
+	type state struct {
+		v    float64
+		free bool
+	}
+	names := map[string]state{}
+	coefName := func() string {
+		n := []string{"w", "d", "t", "p", "c", "omega", "delta_", "k"}[rng.IntN(8)] + strconv.Itoa(rng.IntN(12))
+		if _, ok := names[n]; !ok {
+			st := state{free: rng.IntN(3) > 0}
+			if !st.free || rng.IntN(2) == 0 {
+				st.v = randValue(rng, true)
+			}
+			names[n] = st
+		}
+		return n
+	}
+	coef := func(named bool) tf.Coef {
+		if named {
+			n := coefName()
+			return tf.Coef{Name: n, Value: names[n].v, Free: names[n].free}
+		}
+		return tf.Coef{Value: randValue(rng, false)}
+	}
+	factor := func(unit, numbersOnly bool, maxPow int) tf.Factor {
+		f := tf.Factor{Exp: 1}
+		if rng.IntN(4) == 0 {
+			f.Exp = 1 + rng.IntN(3)
+		}
+		powers := rng.Perm(maxPow + 1)[:1+rng.IntN(min(maxPow+1, 4))]
+		if unit {
+			f.Terms = append(f.Terms, tf.Term{Coef: tf.Coef{Value: 1}})
+			powers = slicesDelete(powers, 0)
+			if len(powers) == 0 {
+				powers = []int{1 + rng.IntN(maxPow)}
+			}
+		}
+		for _, k := range powers {
+			f.Terms = append(f.Terms, tf.Term{Neg: rng.IntN(2) == 0, Coef: coef(!numbersOnly && rng.IntN(3) > 0), Power: k})
+		}
+		return f
+	}
+	poly := func(n int, unit, numbersOnly bool) tf.Poly {
+		var p tf.Poly
+		for range n {
+			p.Factors = append(p.Factors, factor(unit, numbersOnly, 1+rng.IntN(5)))
+		}
+		return p
+	}
+	m := tf.Model{Output: []string{"y", "temp", "flow_out", "Y2"}[rng.IntN(4)]}
+	if rng.IntN(3) == 0 {
+		m.Diff = poly(1+rng.IntN(2), true, true)
+	}
+	switch rng.IntN(4) {
+	case 1:
+		c := tf.Coef{Value: randValue(rng, true)}
+		m.Const = &c
+	case 2:
+		c := coef(true)
+		m.Const = &c
+	}
+	nin := 1 + rng.IntN(4)
+	for i := range nin {
+		in := tf.Input{Series: "x" + strconv.Itoa(i)}
+		for range rng.IntN(3) {
+			if rng.IntN(2) == 0 {
+				in.Num.Factors = append(in.Num.Factors, tf.Factor{Exp: 1, Terms: []tf.Term{{Neg: rng.IntN(4) == 0, Coef: coef(rng.IntN(2) == 0)}}})
+			} else {
+				in.Num.Factors = append(in.Num.Factors, factor(false, false, 1+rng.IntN(4)))
+			}
+		}
+		in.Den = poly(rng.IntN(3), true, false)
+		if rng.IntN(2) == 0 {
+			in.Delay = rng.IntN(30)
+		}
+		if rng.IntN(4) == 0 {
+			in.Diff = poly(1, true, true)
+		}
+		m.Inputs = append(m.Inputs, in)
+	}
+	switch rng.IntN(3) {
+	case 1:
+		m.Noise = &arma.Noise{}
+	case 2:
+		m.Noise = &arma.Noise{MA: poly(rng.IntN(3), true, false), AR: poly(rng.IntN(3), true, false)}
+	}
+	if rng.IntN(2) == 0 {
+		m.Interval = tf.Interval{Value: randValue(rng, false) + 1e-3, Unit: []string{"s", "min", "h", "d"}[rng.IntN(4)]}
+	}
+	return m
+}
+
+func slicesDelete(s []int, v int) []int {
+	out := s[:0]
+	for _, x := range s {
+		if x != v {
+			out = append(out, x)
+		}
+	}
+	return out
+}
+
+// randValue draws a finite float64: often a plain decimal, sometimes any
+// bit pattern (subnormals, huge and tiny values) to test exact reading
+// back. Signed values only when signed is set.
+func randValue(rng *rand.Rand, signed bool) float64 {
+	var v float64
+	switch rng.IntN(4) {
+	case 0:
+		v = float64(rng.IntN(100)) / 10
+	case 1:
+		v = rng.Float64() * 3
+	case 2:
+		for {
+			v = math.Float64frombits(rng.Uint64() &^ (1 << 63))
+			if !math.IsInf(v, 0) && !math.IsNaN(v) {
+				break
+			}
+		}
+	default:
+		v = 1
+	}
+	if signed && rng.IntN(2) == 0 {
+		v = -v
+	}
+	return v
+}
