@@ -91,6 +91,14 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 		}
 		return f, nil
 	}
+	return r.conditionalForecast(steps, level, futureX), nil
+}
+
+// conditionalForecast runs the conditional recursion (arguments checked).
+func (r *Result) conditionalForecast(steps int, level float64, futureX [][]float64) Forecast {
+	q := distuv.UnitNormal.Quantile((1 + level) / 2)
+	f := Forecast{Mean: make([]float64, steps), SE: make([]float64, steps),
+		Lower: make([]float64, steps), Upper: make([]float64, steps), Level: level}
 	full := poly.Mul(r.AR, r.Diff)
 	c := poly.EvalReal(r.AR, 1) * r.Model.Mean
 	pz, qa := len(full)-1, len(r.MA)-1
@@ -113,10 +121,7 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 			f.Mean[h] += r.Beta[k] * col[h]
 		}
 	}
-	psi, err := Psi(full, r.MA, steps)
-	if err != nil {
-		return Forecast{}, err
-	}
+	psi, _ := Psi(full, r.MA, steps) // full[0] = 1: cannot fail
 	acc := 0.0
 	for h := 0; h < steps; h++ {
 		acc += psi[h] * psi[h]
@@ -124,5 +129,5 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 		f.Lower[h] = f.Mean[h] - q*f.SE[h]
 		f.Upper[h] = f.Mean[h] + q*f.SE[h]
 	}
-	return f, nil
+	return f
 }

@@ -12,6 +12,8 @@
 #                   set.seed(20261201)).
 #   corr.json       stats::acf, stats::pacf, stats::Box.test(type = "Ljung-Box") values.
 #   ar.json         stats::ar(method = "yule-walker", aic = TRUE) fits.
+#   weights.json    stats::ARMAtoMA psi weights, polyroot AR roots, stats::filter output for
+#                   a given innovation series.
 #   css.json        stats::arima(method = "CSS") fits rerun with a tight optimiser
 #                   tolerance, a Gauss-Newton polish of the same CSS objective, Gauss-Newton
 #                   standard errors sigma^2 (J'J)^-1 with J by central differences of the CSS
@@ -178,4 +180,25 @@ for (cs in cases) {
     box10 = num(Box.test(rres, lag = 10, type = "Ljung-Box", fitdf = length(par) - ncol(rbind(X, NULL)))$statistic)))
 }
 out("css.json", paste0("[", paste(fits, collapse = ","), "]"))
-cat("wrote testdata/arma/{datasets,corr,ar,css}.json\n")
+
+# ---- psi weights, z-plane AR roots, filtering of given innovations ----------------
+# stats::ARMAtoMA (R's MA sign: 1 + ma1 B), polyroot on phi(B) (z = 1/root), and
+# stats::filter of a given innovation series (pre-sample values zero), cumsum for d = 1.
+set.seed(7)
+e <- rnorm(200)
+wmods <- list(list(ar = c(0.6, -0.3), ma = 0.4, d = 0, mean = 10),
+              list(ar = c(1.2, -0.5, 0.1), ma = c(-0.3, 0.2), d = 1, mean = 0.5),
+              list(ar = 0.9, ma = numeric(0), d = 0, mean = 0))
+ws <- c()
+for (m in wmods) {
+  psi <- ARMAtoMA(ar = m$ar, ma = m$ma, lag.max = 30)
+  roots <- polyroot(c(1, -m$ar))
+  q <- length(m$ma)
+  xma <- if (q > 0) as.numeric(stats::filter(c(rep(0, q), e), c(1, m$ma), sides = 1))[-(1:q)] else e
+  w <- as.numeric(stats::filter(xma, m$ar, method = "recursive")) + m$mean
+  y <- if (m$d == 1) cumsum(w) else w
+  ws <- c(ws, obj(ar = num(m$ar), ma = num(m$ma), d = m$d, mean = m$mean, psi = num(psi),
+    zmod = num(sort(1 / Mod(roots))), y = num(y)))
+}
+out("weights.json", paste0("{\"innov\":", num(e), ",\"models\":[", paste(ws, collapse = ","), "]}"))
+cat("wrote testdata/arma/{datasets,corr,ar,css,weights}.json\n")

@@ -1,0 +1,62 @@
+package arma_test
+
+import (
+	"context"
+	"fmt"
+
+	"github.com/backshift/backshift/arma"
+)
+
+// A noise model is simulated, its order chosen by BIC, fitted by
+// conditional least squares, checked by Ljung-Box and used to forecast.
+func Example() {
+	truth := arma.Model{AR: []float64{0.7}, MA: []float64{-0.3}, Mean: 50, Sigma2: 0.25}
+	y, err := arma.Simulate(truth, 3000, &arma.SimSettings{Seed1: 1, Seed2: 2})
+	if err != nil {
+		panic(err)
+	}
+	cands, err := arma.Select(context.Background(), y, arma.Grid{MaxP: 2, MaxQ: 2, Criterion: arma.ByBIC}, nil)
+	if err != nil {
+		panic(err)
+	}
+	fmt.Println("chosen order:", cands[0].Order)
+	res, err := arma.Fit(context.Background(), y, cands[0].Order, nil)
+	if err != nil {
+		panic(err)
+	}
+	for i, name := range res.Names {
+		fmt.Printf("%-6s %7.3f  se %.3f\n", name, res.Est[i], res.SE[i])
+	}
+	lb, _ := arma.LjungBox(res.Resid[res.Start:], 20, 2)
+	fmt.Printf("Ljung-Box Q(20) = %.1f on %d df, p = %.2f\n", lb.Q, lb.DF, lb.P)
+	fc, _ := res.Forecast(3, 0.95, nil)
+	for h := range fc.Mean {
+		fmt.Printf("h=%d %.2f [%.2f, %.2f]\n", h+1, fc.Mean[h], fc.Lower[h], fc.Upper[h])
+	}
+	// Output:
+	// chosen order: (1,0,1)
+	// phi1     0.712  se 0.016
+	// theta1  -0.264  se 0.021
+	// mean    50.036  se 0.040
+	// Ljung-Box Q(20) = 20.3 on 18 df, p = 0.32
+	// h=1 49.88 [48.91, 50.85]
+	// h=2 49.92 [48.57, 51.28]
+	// h=3 49.96 [48.44, 51.47]
+}
+
+// The autocorrelations of a series with Bartlett bands, and the
+// Yule-Walker autoregression chosen by AIC.
+func ExampleYuleWalker() {
+	y, _ := arma.Simulate(arma.Model{AR: []float64{0.5, 0.3}, Sigma2: 1}, 2000, &arma.SimSettings{Seed1: 3, Seed2: 4})
+	c, _ := arma.ACF(y, 3)
+	for k := 1; k <= 3; k++ {
+		fmt.Printf("lag %d: r = %.3f (Bartlett se %.3f)\n", k, c.R[k], c.Bartlett[k])
+	}
+	f, _ := arma.YuleWalker(y, 10)
+	fmt.Printf("AR(%d): phi = %.3f, var = %.3f\n", f.Order, f.Phi, f.Var)
+	// Output:
+	// lag 1: r = 0.685 (Bartlett se 0.022)
+	// lag 2: r = 0.613 (Bartlett se 0.031)
+	// lag 3: r = 0.496 (Bartlett se 0.037)
+	// AR(2): phi = [0.498 0.272], var = 0.983
+}

@@ -1,0 +1,145 @@
+package arma
+
+import (
+	"errors"
+	"math"
+	"math/cmplx"
+	"sort"
+	"testing"
+)
+
+type weightsRef struct {
+	Innov  []jnum `json:"innov"`
+	Models []struct {
+		AR   []jnum  `json:"ar"`
+		MA   []jnum  `json:"ma"`
+		D    int     `json:"d"`
+		Mean float64 `json:"mean"`
+		Psi  []jnum  `json:"psi"`
+		ZMod []jnum  `json:"zmod"`
+		Y    []jnum  `json:"y"`
+	} `json:"models"`
+}
+
+// rModel converts R's coefficients (MA written 1 + ma1 B) to a Model.
+func rModel(ar, ma []float64, d int, mean float64) Model {
+	m := Model{AR: ar, D: d, Mean: mean, Sigma2: 1}
+	for _, v := range ma {
+		m.MA = append(m.MA, -v)
+	}
+	return m
+}
+
+// TestWeightsRootsFilterR checks psi weights against R 4.2.2
+// stats::ARMAtoMA, the z-plane AR roots against 1/polyroot, and Simulate
+// with given innovations against stats::filter (convolution then
+// recursive, pre-sample zero) and cumsum for d = 1. Tolerances 1e-12
+// relative: the same recursions in double precision.
+func TestWeightsRootsFilterR(t *testing.T) {
+	var ref weightsRef
+	readJSON(t, "weights.json", &ref)
+	e := floats(ref.Innov)
+	for i, r := range ref.Models {
+		m := rModel(floats(r.AR), floats(r.MA), r.D, r.Mean)
+		psi, err := Psi(m.ARPoly(), m.MAPoly(), 31)
+		if err != nil {
+			t.Fatal(err)
+		}
+		checkSlice(t, "psi", psi[1:], floats(r.Psi), 1e-12, 1e-14)
+		zs, err := zRoots(m.ARPoly())
+		if err != nil {
+			t.Fatal(err)
+		}
+		mods := make([]float64, len(zs))
+		for k, z := range zs {
+			mods[k] = cmplx.Abs(z)
+		}
+		sort.Float64s(mods)
+		checkSlice(t, "AR root moduli", mods, floats(r.ZMod), 1e-12, 0)
+		y, err := Simulate(m, len(e), &SimSettings{Innovations: e})
+		if err != nil {
+			t.Fatal(err)
+		}
+		checkSlice(t, "simulated from innovations "+itoa(i), y, floats(r.Y), 1e-12, 1)
+	}
+}
+
+func TestStationaryInvertible(t *testing.T) {
+	m := Model{AR: []float64{1.2, -0.2}, MA: []float64{1.5}}
+	// phi(B) = 1 - 1.2B + 0.2B^2 = (1-B)(1-0.2B): z-plane roots 1 and 0.2.
+	ok, bad, err := m.Stationary()
+	if err != nil || ok || len(bad) != 1 || math.Abs(real(bad[0])-1) > 1e-12 {
+		t.Errorf("Stationary = %v %v %v, want false with root 1", ok, bad, err)
+	}
+	// theta(B) = 1 - 1.5B: z-plane root 1.5.
+	ok, bad, err = m.Invertible()
+	if err != nil || ok || len(bad) != 1 || math.Abs(real(bad[0])-1.5) > 1e-12 {
+		t.Errorf("Invertible = %v %v %v, want false with root 1.5", ok, bad, err)
+	}
+	good := Model{AR: []float64{0.5}, SAR: []float64{0.3}, MA: []float64{-0.4}, Period: 4}
+	if ok, _, _ := good.Stationary(); !ok {
+		t.Error("stationary seasonal model reported non-stationary")
+	}
+	// The seasonal product is expanded: (1-0.5B)(1-0.3B^4).
+	want := []float64{1, -0.5, 0, 0, -0.3, 0.15}
+	checkSlice(t, "ARPoly", good.ARPoly(), want, 1e-15, 1)
+	// Simulation of a non-stationary model needs BurnIn < 0.
+	var ae *ArgError
+	if _, err := Simulate(m, 10, nil); !errors.As(err, &ae) {
+		t.Errorf("Simulate non-stationary: %v", err)
+	}
+	if _, err := Simulate(m, 10, &SimSettings{BurnIn: -1}); err != nil {
+		t.Errorf("Simulate without burn-in: %v", err)
+	}
+}
+
+// TestPiInvertsPsi checks that pi and psi weights are inverse power
+// series: sum_j pi_j psi_{k-j} = [k == 0] (common practice: Box, Jenkins &
+// Reinsel, sec. 3.1).
+func TestPiInvertsPsi(t *testing.T) {
+	m := Model{AR: []float64{0.6, -0.3}, MA: []float64{-0.4, 0.2}, SMA: []float64{0.5}, Period: 3}
+	psi, _ := Psi(m.ARPoly(), m.MAPoly(), 40)
+	pi, _ := m.Pi(40)
+	for k := 0; k < 40; k++ {
+		s := 0.0
+		for j := 0; j <= k; j++ {
+			s += pi[j] * psi[k-j]
+		}
+		want := 0.0
+		if k == 0 {
+			want = 1
+		}
+		if math.Abs(s-want) > 1e-12 {
+			t.Fatalf("convolution at %d = %g, want %g", k, s, want)
+		}
+	}
+}
+
+func TestSimulateDeterministic(t *testing.T) {
+	m := Model{AR: []float64{0.6, -0.3}, MA: []float64{-0.4}, Mean: 10, Sigma2: 2}
+	a, _ := Simulate(m, 1000, &SimSettings{Seed1: 1, Seed2: 2})
+	b, _ := Simulate(m, 1000, &SimSettings{Seed1: 1, Seed2: 2})
+	c, _ := Simulate(m, 1000, &SimSettings{Seed1: 1, Seed2: 3})
+	for i := range a {
+		if a[i] != b[i] {
+			t.Fatal("equal seeds gave different series")
+		}
+	}
+	if a[0] == c[0] {
+		t.Error("different seeds gave the same first sample")
+	}
+	// Stationary start: the sample variance of a long series matches
+	// the model's, sigma^2 sum psi_j^2, within 5 % (n = 1e5, relative SE
+	// of a variance estimate of an ARMA series ~ 1 %).
+	long, _ := Simulate(m, 100000, &SimSettings{Seed1: 5, Seed2: 6})
+	c2, _ := ACF(long, 0)
+	psi, _ := m.Psi(200)
+	v := 0.0
+	for _, p := range psi {
+		v += p * p
+	}
+	v *= m.Sigma2
+	if math.Abs(c2.Cov[0]/v-1) > 0.05 || math.Abs(c2.Mean-10) > 0.05 {
+		t.Errorf("variance %g (model %g), mean %g", c2.Cov[0], v, c2.Mean)
+	}
+}

@@ -1,0 +1,154 @@
+package arma
+
+import (
+	"context"
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/internal/sym"
+)
+
+// TestSelectFindsOrder fits a (p, q) grid to a simulated ARMA(2,1) and
+// expects the true order ranked first by BIC (n = 2000: BIC is
+// consistent, and the true order wins by a wide margin at this length;
+// a fact of the trade, common practice).
+func TestSelectFindsOrder(t *testing.T) {
+	y, _ := Simulate(benchModel, 2000, &SimSettings{Seed1: 11, Seed2: 12})
+	cands, err := Select(context.Background(), y, Grid{MaxP: 3, MaxQ: 2, Criterion: ByBIC, Workers: 2}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(cands) != 12 {
+		t.Fatalf("%d candidates, want 12", len(cands))
+	}
+	best := cands[0]
+	if best.Order.P != 2 || best.Order.Q != 1 {
+		for _, c := range cands {
+			t.Logf("%v %.2f %v", c.Order, c.Score, c.Err)
+		}
+		t.Fatalf("best order %v, want (2,0,1)", best.Order)
+	}
+	for i := 1; i < len(cands); i++ {
+		if cands[i].Err == nil && cands[i-1].Err == nil && cands[i].Score < cands[i-1].Score {
+			t.Fatal("candidates not ranked")
+		}
+		if cands[i].Result != nil && cands[i].Result.Start != 3 {
+			t.Fatalf("candidate %v starts at %d, want the common start 3", cands[i].Order, cands[i].Result.Start)
+		}
+	}
+}
+
+// TestFitNoiseSubset fits a subset AR model (1 - a1 B - a3 B^3) through
+// FitNoise and checks it equals the Order fit of AR(3) with phi2 fixed
+// at zero (same conditioning, same objective).
+func TestFitNoiseSubset(t *testing.T) {
+	m := Model{AR: []float64{0.5, 0, -0.3}, Sigma2: 1}
+	y, _ := Simulate(m, 3000, &SimSettings{Seed1: 3, Seed2: 4})
+	noise := Noise{AR: sym.Poly{Factors: []sym.Factor{{Exp: 1, Terms: []sym.Term{
+		{Coef: sym.Coef{Value: 1}},
+		{Neg: true, Power: 1, Coef: sym.Coef{Name: "a1", Free: true}},
+		{Neg: true, Power: 3, Coef: sym.Coef{Name: "a3", Free: true}},
+	}}}}}
+	orig := noise.Clone()
+	r1, err := FitNoise(context.Background(), y, noise, nil, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !noise.Equal(orig) {
+		t.Fatal("FitNoise modified its input")
+	}
+	r2, err := Fit(context.Background(), y, Order{P: 3}, &Options{Fixed: map[string]float64{"phi2": 0}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Tolerance 1e-7: two optimiser paths to the same minimum.
+	if r1.Names[0] != "a1" || !closeTo(r1.Est[0], r2.Est[0], 1e-7, 0) || !closeTo(r1.Est[1], r2.Est[1], 1e-7, 0) ||
+		!closeTo(r1.SSQ, r2.SSQ, 1e-12, 0) {
+		t.Errorf("FitNoise %v %v, Fit %v %v", r1.Names, r1.Est, r2.Names, r2.Est)
+	}
+	if r2.Model.AR[1] != 0 || len(r2.Names) != 3 {
+		t.Errorf("held phi2: AR %v names %v", r2.Model.AR, r2.Names)
+	}
+}
+
+func TestFitErrors(t *testing.T) {
+	ctx := context.Background()
+	y, _ := Simulate(benchModel, 200, &SimSettings{Seed1: 1, Seed2: 1})
+	var ae *ArgError
+	var se *ShortError
+	var de *DataError
+	var ce *ConstantError
+	if _, err := Fit(ctx, y[:5], Order{P: 2, Q: 2}, nil); !errors.As(err, &se) {
+		t.Errorf("short: %v", err)
+	}
+	bad := append([]float64(nil), y...)
+	bad[17] = math.Inf(1)
+	if _, err := Fit(ctx, bad, Order{P: 1}, &Options{Name: "flow"}); !errors.As(err, &de) || de.Index != 17 || de.Series != "flow" {
+		t.Errorf("Inf: %v", err)
+	}
+	if _, err := Fit(ctx, make([]float64, 50), Order{P: 1}, nil); !errors.As(err, &ce) {
+		t.Errorf("constant: %v", err)
+	}
+	if _, err := Fit(ctx, y, Order{P: -1}, nil); !errors.As(err, &ae) {
+		t.Errorf("negative order: %v", err)
+	}
+	if _, err := Fit(ctx, y, Order{P: 1}, &Options{Fixed: map[string]float64{"theta7": 1}}); !errors.As(err, &ae) {
+		t.Errorf("unknown fixed: %v", err)
+	}
+	if _, err := Fit(ctx, y, Order{P: 1}, &Options{X: [][]float64{{1, 2}}}); !errors.As(err, &ae) {
+		t.Errorf("short regressor: %v", err)
+	}
+	if _, err := Fit(ctx, y, Order{P: 2}, &Options{Start: 1}); !errors.As(err, &ae) {
+		t.Errorf("start before the AR lags: %v", err)
+	}
+	// Non-convergence: one iteration allowed; the best point comes back.
+	res, err := Fit(ctx, y, Order{P: 2, Q: 1}, &Options{MaxIter: 1})
+	var conv *ConvergenceError
+	if !errors.As(err, &conv) || res == nil || res.Converged || len(res.Est) != 4 || !(res.SSQ > 0) {
+		t.Errorf("non-convergence: %v", err)
+	}
+	// Boundary: an over-differenced white noise has theta1 near 1; held
+	// at exactly 1 the MA root lies on the unit circle and is flagged.
+	w, _ := Simulate(Model{Sigma2: 1}, 400, &SimSettings{Seed1: 9, Seed2: 9})
+	res, err = Fit(ctx, w, Order{D: 1, Q: 1, P: 1}, &Options{Fixed: map[string]float64{"theta1": 1}})
+	if err != nil || len(res.Boundary) != 1 || res.Boundary[0].Part != "MA" || math.Abs(real(res.Boundary[0].Roots[0])-1) > 1e-12 {
+		t.Errorf("boundary flags %v (%v)", res.Boundary, err)
+	}
+}
+
+// TestForecastConditionalAgrees checks the exact (Kalman) forecasts
+// against the conditional recursion on a long series with an invertible
+// MA part, where the two must agree (initial-condition effects decay as
+// 0.4^n): 1e-9 relative.
+func TestForecastConditionalAgrees(t *testing.T) {
+	m := Model{AR: []float64{0.6, -0.3}, MA: []float64{-0.4}, D: 1, Sigma2: 1}
+	y, _ := Simulate(m, 1000, &SimSettings{Seed1: 21, Seed2: 22})
+	res, err := Fit(context.Background(), y, Order{P: 2, D: 1, Q: 1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ex, err := res.Forecast(20, 0.9, nil)
+	if err != nil || !ex.Exact {
+		t.Fatal(err, ex.Exact)
+	}
+	co := res.conditionalForecast(20, 0.9, nil)
+	checkSlice(t, "mean", ex.Mean, co.Mean, 1e-9, 0)
+	checkSlice(t, "SE", ex.SE, co.SE, 1e-9, 0)
+	if !(ex.Lower[0] < ex.Mean[0] && ex.Mean[0] < ex.Upper[0]) {
+		t.Error("interval does not bracket the forecast")
+	}
+}
+
+// TestNoiseOfModel checks the named-factor form of a fitted model.
+func TestNoiseOfModel(t *testing.T) {
+	m := Model{AR: []float64{0.5}, SMA: []float64{0.3}, Period: 12}
+	n := m.Noise()
+	checkSlice(t, "AR", n.AR.Coeffs(), []float64{1, -0.5}, 1e-15, 1)
+	want := make([]float64, 13)
+	want[0], want[12] = 1, -0.3
+	checkSlice(t, "MA", n.MA.Coeffs(), want, 1e-15, 1)
+	if n.AR.Factors[0].Terms[1].Coef.Name != "phi1" || n.MA.Factors[0].Terms[1].Coef.Name != "Theta1" {
+		t.Errorf("names %+v", n)
+	}
+}
