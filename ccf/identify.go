@@ -1,6 +1,7 @@
 package ccf
 
 import (
+	"fmt"
 	"math"
 	"slices"
 	"sort"
@@ -28,6 +29,12 @@ type IdentifySettings struct {
 	// Penalty is the score added per free coefficient when ranking the
 	// forms; zero means 2 (the AIC weight).
 	Penalty float64
+	// InputDiff is the differencing applied to the input before the
+	// weights were estimated, ascending powers of B with fixed numbers
+	// ({1, -1} for 1 - B); the spec texts then read the input as
+	// "((1 - B) x)". Nil for none. The output's differencing belongs in
+	// the output text given to Candidate.Spec, as in "(1 - B) y".
+	InputDiff []float64
 }
 
 // Identification is the result of Identify for one input.
@@ -99,6 +106,15 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 		return nil, &ArgError{Arg: "IdentifySettings.Penalty", Value: strconv.FormatFloat(set.Penalty, 'g', -1, 64), Want: ">= 0"}
 	}
 	maxR, maxS := orderBound(set.MaxR), orderBound(set.MaxS)
+	if d := set.InputDiff; d != nil {
+		ok := len(d) > 0 && d[0] == 1
+		for _, v := range d {
+			ok = ok && v-v == 0
+		}
+		if !ok {
+			return nil, &ArgError{Arg: "IdentifySettings.InputDiff", Value: fmt.Sprint(d), Want: "finite coefficients with constant term 1"}
+		}
+	}
 	if w == nil {
 		return nil, &ArgError{Arg: "w", Value: "nil", Want: "weights"}
 	}
@@ -119,6 +135,10 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 		if !(w.SE[k] > 0) || math.IsInf(w.SE[k], 0) {
 			return nil, &ValueError{Name: name + " weight standard errors", Index: k, Value: w.SE[k]}
 		}
+	}
+	series := name
+	if len(set.InputDiff) > 1 {
+		series = "(" + diffText(set.InputDiff) + " " + name + ")"
 	}
 	id := &Identification{Input: name, Weights: w, CornerR: -1, CornerS: -1}
 	v := w.V
@@ -149,7 +169,7 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 			}
 			c := Candidate{Delay: b, R: r, S: sd, Num: f.num, Den: f.den, Chi2: f.chi2,
 				Score: f.chi2 + set.Penalty*float64(r+sd+1), Corner: r == id.CornerR && sd == id.CornerS}
-			c.Term, c.Names, c.Starts = termText(name, set.Prefix, b, c.Num, c.Den)
+			c.Term, c.Names, c.Starts = termText(series, set.Prefix, b, c.Num, c.Den)
 			id.Candidates = append(id.Candidates, c)
 		}
 	}

@@ -102,3 +102,29 @@ func StartClause(names []string, starts map[string]float64) string {
 	}
 	return sb.String()
 }
+
+// diffText writes a differencing polynomial of fixed numbers, "(1 - B)",
+// "(1 - B^12)", "(1 - 2 B + B^2)".
+func diffText(c []float64) string {
+	var sb strings.Builder
+	sb.WriteString("(")
+	sb.WriteString(strconv.FormatFloat(c[0], 'g', -1, 64))
+	for k := 1; k < len(c); k++ {
+		v := c[k]
+		if v == 0 {
+			continue
+		}
+		if v < 0 {
+			sb.WriteString(" - ")
+			v = -v
+		} else {
+			sb.WriteString(" + ")
+		}
+		if v != 1 {
+			sb.WriteString(strconv.FormatFloat(v, 'g', -1, 64) + " ")
+		}
+		sb.WriteString(strings.TrimPrefix(bPower(k), " "))
+	}
+	sb.WriteString(")")
+	return sb.String()
+}
