@@ -1,0 +1,175 @@
+package lm
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+type refProblem struct {
+	Name   string      `json:"name"`
+	X      []float64   `json:"x"`
+	Y      []float64   `json:"y"`
+	X0     []float64   `json:"x0"`
+	Sol    []float64   `json:"sol"`
+	SSQ    float64     `json:"ssq"`
+	JTJInv [][]float64 `json:"jtj_inv"`
+}
+
+// models holds the residual functions of the problems in lm.json with
+// their analytic Jacobians (columns).
+var models = map[string]func(b, x, y, r []float64, jac [][]float64){
+	"expdecay": func(b, x, y, r []float64, jac [][]float64) {
+		for i, t := range x {
+			e := math.Exp(-b[1] * t)
+			r[i] = b[0]*e + b[2] - y[i]
+			if jac != nil {
+				jac[0][i], jac[1][i], jac[2][i] = e, -b[0]*t*e, 1
+			}
+		}
+	},
+	"saturation": func(b, x, y, r []float64, jac [][]float64) {
+		for i, t := range x {
+			e := math.Exp(-b[1] * t)
+			r[i] = b[0]*(1-e) - y[i]
+			if jac != nil {
+				jac[0][i], jac[1][i] = 1-e, b[0]*t*e
+			}
+		}
+	},
+	"twoexp": func(b, x, y, r []float64, jac [][]float64) {
+		for i, t := range x {
+			e1, e2 := math.Exp(-b[1]*t), math.Exp(-b[3]*t)
+			r[i] = b[0]*e1 + b[2]*e2 - y[i]
+			if jac != nil {
+				jac[0][i], jac[1][i], jac[2][i], jac[3][i] = e1, -b[0]*t*e1, e2, -b[2]*t*e2
+			}
+		}
+	},
+}
+
+// TestAgainstScipy solves three nonlinear regressions (data and
+// reference from testdata/arma/lm_scipy.py: scipy 1.10.1
+// optimize.least_squares(method = "lm"), MINPACK, tolerances 1e-15) and
+// compares the solution to 1e-7 relative, the sum of squares to 1e-12
+// relative (ours must not be larger by more) and (J'J)^-1 to 1e-6
+// relative (it depends on the solution through J).
+func TestAgainstScipy(t *testing.T) {
+	b, err := os.ReadFile(filepath.Join("..", "..", "testdata", "arma", "lm.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Problems []refProblem `json:"problems"`
+	}
+	if err := json.Unmarshal(b, &ref); err != nil {
+		t.Fatal(err)
+	}
+	if len(ref.Problems) != 3 {
+		t.Fatalf("%d problems, want 3", len(ref.Problems))
+	}
+	for _, p := range ref.Problems {
+		f := models[p.Name]
+		prob := Problem{M: len(p.X), N: len(p.X0), Eval: func(x, r []float64, jac [][]float64) error {
+			f(x, p.X, p.Y, r, jac)
+			return nil
+		}}
+		res, err := Minimize(context.Background(), prob, p.X0, nil)
+		if err != nil {
+			t.Fatal(p.Name, err)
+		}
+		if !res.Reason.Converged() {
+			t.Errorf("%s: %v", p.Name, res.Reason)
+		}
+		for j := range p.Sol {
+			if math.Abs(res.X[j]-p.Sol[j]) > 1e-7*math.Abs(p.Sol[j]) {
+				t.Errorf("%s: x[%d] = %.12g, scipy %.12g", p.Name, j, res.X[j], p.Sol[j])
+			}
+		}
+		if res.SSQ > p.SSQ*(1+1e-12) {
+			t.Errorf("%s: SSQ %.15g > scipy %.15g", p.Name, res.SSQ, p.SSQ)
+		}
+		for i := range p.JTJInv {
+			for j := range p.JTJInv[i] {
+				if got := res.JTJInv.At(i, j); math.Abs(got-p.JTJInv[i][j]) > 1e-6*math.Abs(p.JTJInv[i][j]) {
+					t.Errorf("%s: (J'J)^-1[%d,%d] = %.10g, scipy %.10g", p.Name, i, j, got, p.JTJInv[i][j])
+				}
+			}
+		}
+		t.Logf("%s: %d iterations, %d evaluations, %v", p.Name, res.Iter, res.Evals, res.Reason)
+	}
+}
+
+// TestRosenbrock: the zero-residual problem r = (10(x2 - x1^2), 1 - x1)
+// from (-1.2, 1) has its minimum at (1, 1) with SSQ 0 (Rosenbrock 1960,
+// a classic test; common practice).
+func TestRosenbrock(t *testing.T) {
+	prob := Problem{M: 2, N: 2, Eval: func(x, r []float64, jac [][]float64) error {
+		r[0], r[1] = 10*(x[1]-x[0]*x[0]), 1-x[0]
+		if jac != nil {
+			jac[0][0], jac[0][1] = -20*x[0], -1
+			jac[1][0], jac[1][1] = 10, 0
+		}
+		return nil
+	}}
+	x0 := []float64{-1.2, 1}
+	res, err := Minimize(context.Background(), prob, x0, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(res.X[0]-1) > 1e-10 || math.Abs(res.X[1]-1) > 1e-10 || res.SSQ > 1e-20 {
+		t.Errorf("got %v SSQ %g (%v)", res.X, res.SSQ, res.Reason)
+	}
+	if x0[0] != -1.2 || x0[1] != 1 {
+		t.Error("x0 modified")
+	}
+}
+
+// TestInadmissibleRegion: Eval errors (here for x < 0.5) are treated as
+// worse points; the solver ends at the constrained minimum's boundary
+// side without failing. And an error at the start is ErrStart.
+func TestInadmissibleRegion(t *testing.T) {
+	prob := Problem{M: 1, N: 1, Eval: func(x, r []float64, jac [][]float64) error {
+		if x[0] < 0.5 {
+			return errors.New("inadmissible")
+		}
+		r[0] = x[0]
+		if jac != nil {
+			jac[0][0] = 1
+		}
+		return nil
+	}}
+	res, err := Minimize(context.Background(), prob, []float64{3}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.X[0] < 0.5 || res.X[0] > 0.51 {
+		t.Errorf("x = %v (%v)", res.X, res.Reason)
+	}
+	if _, err := Minimize(context.Background(), prob, []float64{0}, nil); !errors.Is(err, ErrStart) {
+		t.Errorf("start error: %v", err)
+	}
+	if _, err := Minimize(context.Background(), Problem{M: 1, N: 2}, []float64{0}, nil); err == nil {
+		t.Error("malformed problem accepted")
+	}
+}
+
+func TestCanceled(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	prob := Problem{M: 1, N: 1, Eval: func(x, r []float64, jac [][]float64) error {
+		r[0] = x[0] - 2
+		if jac != nil {
+			jac[0][0] = 1
+		}
+		return nil
+	}}
+	res, err := Minimize(ctx, prob, []float64{0}, nil)
+	if err != nil || res.Reason != Canceled || res.Reason.Converged() || res.X[0] != 0 {
+		t.Errorf("got %v %v %v", res.X, res.Reason, err)
+	}
+}
