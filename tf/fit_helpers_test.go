@@ -49,3 +49,5 @@ func fitSimAR1(rng *rand.Rand, n int, phi float64) []float64 {
 }
 
 var _ = arma.Noise{}
+
+func fitRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, seed+1)) }

@@ -33,7 +33,13 @@ type fitRefCase struct {
 	NResid     int                `json:"n_resid"`
 	First      int                `json:"first"`
 	NoiseStart int                `json:"noise_start"`
-	Checks     struct {
+	Forecast   struct {
+		Origin int       `json:"origin"`
+		H      int       `json:"h"`
+		Mean   []float64 `json:"mean"`
+		SE     []float64 `json:"se"`
+	} `json:"forecast"`
+	Checks struct {
 		LBLags int     `json:"lb_lags"`
 		LBDF   int     `json:"lb_df"`
 		LBQ    float64 `json:"lb_q"`

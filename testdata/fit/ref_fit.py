@@ -100,7 +100,7 @@ def conditioning(model):
     return ts, ts + degree(model["ar"])
 
 
-def residuals(model, data, par):
+def residuals(model, data, par, want_noise=False):
     y = data[model["output"]]
     n = len(y)
     ts, t0 = conditioning(model)
@@ -117,7 +117,44 @@ def residuals(model, data, par):
     v = np.zeros(n - t0)
     for k, c in enumerate(phi):
         v += c * nn[t0 - k : n - k]
-    return lfilter([1.0], theta, v)
+    a = lfilter([1.0], theta, v)
+    if want_noise:
+        return a, nn
+    return a
+
+
+def forecast(model, hist, future, par, sigma2, h):
+    """Forecasts of the output in its own units with known future inputs."""
+    y = hist[model["output"]]
+    n = len(y)
+    ts, t0 = conditioning(model)
+    a, nn = residuals(model, hist, par, want_noise=True)
+    L = n + h
+    what = np.full(h, par[model["const"]] if model["const"] else 0.0)
+    for inp in model["inputs"]:
+        xe = np.concatenate([hist[inp["series"]], future[inp["series"]][:h]])
+        z = diffed(xe, inp["diff"])
+        b = inp["delay"]
+        zb = np.concatenate([np.zeros(b), z[: L - b]])
+        what += lfilter(coeffs(inp["num"], par), coeffs(inp["den"], par), zb)[n:]
+    phi = coeffs(model["ar"], par)
+    theta = coeffs(model["ma"], par)
+    ne = np.zeros(L)
+    ne[ts:n] = nn[ts:n]
+    ae = np.zeros(L)
+    ae[t0:n] = a
+    for t in range(n, L):
+        ne[t] = -sum(phi[k] * ne[t - k] for k in range(1, len(phi))) + sum(theta[k] * ae[t - k] for k in range(1, len(theta)))
+        what[t - n] += ne[t]
+    dc = coeffs(model["diff"], {})
+    ye = np.concatenate([y, np.zeros(h)])
+    for t in range(n, L):
+        ye[t] = what[t - n] - sum(dc[k] * ye[t - k] for k in range(1, len(dc)))
+    imp = np.zeros(h)
+    imp[0] = 1.0
+    psi = lfilter(theta, np.convolve(phi, dc), imp)
+    se = np.sqrt(sigma2 * np.cumsum(psi ** 2))
+    return ye[n:].tolist(), se.tolist()
 
 
 def fit(model, data, start):
@@ -193,6 +230,18 @@ def checks(model, data, par, first):
         out["cross"].append({"input": inp["series"], "ar_order": p, "lags": k, "m": m, "S": float(S),
                              "df": df, "p": float(chi2.sf(S, df))})
     return out
+
+
+FC_H = 10
+
+
+def forecast_case(c, est, sigma2):
+    """Forecast from origin n - FC_H of the data, future inputs known."""
+    n = len(c["data"][c["model"]["output"]])
+    hist = {k: v[: n - FC_H] for k, v in c["data"].items()}
+    fut = {k: v[n - FC_H :] for k, v in c["data"].items()}
+    mean, se = forecast(c["model"], hist, fut, est, sigma2, FC_H)
+    return {"origin": n - FC_H, "h": FC_H, "mean": mean, "se": se}
 
 
 def write_csv(path, cols):
@@ -296,6 +345,7 @@ def main():
         out.append({"name": c["name"], "file": c["file"], "model": c["model"], "estimates": est,
                     "ssq": ssq, "n_resid": nres, "first": t0, "noise_start": ts,
                     "checks": checks(c["model"], c["data"], est, t0),
+                    "forecast": forecast_case(c, est, ssq / (nres - len(est))),
                     "source": "scipy 1.10.1 optimize.least_squares(method='lm') on signal.lfilter residuals"})
     with open(os.path.join(HERE, "ref_fit.json"), "w") as fh:
         json.dump(out, fh, indent=1)

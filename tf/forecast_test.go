@@ -1,0 +1,111 @@
+package tf
+
+import (
+	"context"
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/arma"
+	"gonum.org/v1/gonum/floats/scalar"
+)
+
+// TestForecastAgainstScipy compares forecasts from origin n - 10 with the
+// future inputs known (the model fitted on all n samples) with the
+// independent numpy/scipy.signal.lfilter 1.10.1 implementation in
+// testdata/fit/ref_fit.py at the scipy estimates. The estimates agree to
+// ~1e-7 relative, so means and standard errors agree to 1e-6 relative.
+func TestForecastAgainstScipy(t *testing.T) {
+	for _, c := range fitReadRef(t) {
+		t.Run(c.Name, func(t *testing.T) {
+			data := c.data(t)
+			est, err := Fit(context.Background(), c.model(), data, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			o := c.Forecast.Origin
+			hist := map[string][]float64{}
+			fut := map[string][]float64{}
+			for k, v := range data {
+				hist[k] = v[:o]
+				fut[k] = v[o:]
+			}
+			fc, err := est.Forecast(hist, c.Forecast.H, &ForecastSettings{Future: fut})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if fc.Origin != o {
+				t.Errorf("origin %d, want %d", fc.Origin, o)
+			}
+			for j := range c.Forecast.Mean {
+				if !scalar.EqualWithinRel(fc.Mean[j], c.Forecast.Mean[j], 1e-6) || !scalar.EqualWithinRel(fc.SE[j], c.Forecast.SE[j], 1e-6) {
+					t.Errorf("step %d: %.10g (SE %.8g), scipy %.10g (SE %.8g)", j+1, fc.Mean[j], fc.SE[j], c.Forecast.Mean[j], c.Forecast.SE[j])
+				}
+			}
+		})
+	}
+}
+
+// TestForecastRandomWalk checks the textbook case (common practice): for
+// (1 - B) y_t = a_t the forecast is the last value at every horizon with
+// standard error sigma sqrt(h), and the 95 % interval is -/+ 1.959964 SE.
+// The drift is estimated by Levenberg-Marquardt, whose damped last step
+// leaves a relative error near 1e-9 even on this linear problem, hence
+// the 1e-8 tolerance on the drift and the means.
+func TestForecastRandomWalk(t *testing.T) {
+	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
+	c := Coef{Name: "c", Free: true}
+	m := Model{Output: "y", Diff: fitDiff1, Const: &c, Noise: &arma.Noise{}}
+	est, err := Fit(context.Background(), m, map[string][]float64{"y": y}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The drift c is the mean difference, (3.4 - 0)/11.
+	if !scalar.EqualWithinAbsOrRel(est.Params[0].Value, 3.4/11, 1e-12, 1e-8) {
+		t.Errorf("drift %v, want %v", est.Params[0].Value, 3.4/11)
+	}
+	fc, err := est.Forecast(map[string][]float64{"y": y}, 4, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for j := 0; j < 4; j++ {
+		want := 3.4 + float64(j+1)*3.4/11
+		se := math.Sqrt(est.Sigma2 * float64(j+1))
+		if !scalar.EqualWithinAbsOrRel(fc.Mean[j], want, 1e-12, 1e-8) || !scalar.EqualWithinRel(fc.SE[j], se, 1e-12) ||
+			!scalar.EqualWithinRel(fc.Upper[j]-fc.Mean[j], 1.959963984540054*se, 1e-9) {
+			t.Errorf("h=%d: %v (SE %v), want %v (SE %v)", j+1, fc.Mean[j], fc.SE[j], want, se)
+		}
+	}
+}
+
+// TestForecastErrors checks the typed errors of Forecast.
+func TestForecastErrors(t *testing.T) {
+	est, data := fitMCEstimate(t)
+	if _, err := est.Forecast(data, 0, nil); !errors.As(err, new(*ArgError)) {
+		t.Errorf("h = 0: %v", err)
+	}
+	if _, err := est.Forecast(data, 3, &ForecastSettings{Level: 1.5}); !errors.As(err, new(*ArgError)) {
+		t.Errorf("level 1.5: %v", err)
+	}
+	var fe *FitError
+	_, err := est.Forecast(data, 5, &ForecastSettings{Future: map[string][]float64{"x": {1, 2}}})
+	if !errors.As(err, &fe) || fe.Problem != BadFuture || fe.Len != 2 || fe.Want != 5 {
+		t.Errorf("short future: %v", err)
+	}
+	var se *SampleError
+	_, err = est.Forecast(data, 2, &ForecastSettings{Future: map[string][]float64{"x": {1, math.NaN()}}})
+	if !errors.As(err, &se) || se.Index != 1 || se.Series != "future x" {
+		t.Errorf("NaN future: %v", err)
+	}
+}
+
+func fitMCEstimate(t *testing.T) (*Estimate, map[string][]float64) {
+	t.Helper()
+	y, x := fitMCSim(fitRand(5), 300)
+	data := map[string][]float64{"y": y, "x": x}
+	est, err := Fit(context.Background(), fitMCModel(), data, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return est, data
+}
