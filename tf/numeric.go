@@ -1,0 +1,86 @@
+package tf
+
+// Numeric views of the symbolic model: the polynomials of a Model or an
+// Input expanded to coefficients in ascending powers of B, every
+// coefficient at its Value (a free coefficient at its start value or
+// estimate).
+
+// Rational returns the transfer function of the input term,
+//
+//	Num(B) / Den(B) * B^Delay,
+//
+// with every coefficient at its Value. The input's differencing is not
+// part of it: the term acts on the differenced series Diff(B) x_t (see
+// DiffCoeffs). It returns NewRational's errors (*CoefError for a NaN or
+// infinite value, a denominator whose constant term is zero or a degree
+// above MaxDegree; *DelayError for a dead time outside 0..MaxDelay).
+func (in Input) Rational() (Rational, error) {
+	return NewRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
+}
+
+// DiffCoeffs returns the expanded differencing of the input series,
+// {1} when it is not differenced; for example {1, -1} for (1 - B).
+func (in Input) DiffCoeffs() []float64 { return in.Diff.Coeffs() }
+
+// DiffCoeffs returns the expanded differencing D(B) of the output, {1}
+// when it is not differenced; for example {1, -2, 1} for (1 - B)^2.
+func (m Model) DiffCoeffs() []float64 { return m.Diff.Coeffs() }
+
+// ConstValue returns the value of the constant c, 0 when the model has
+// none.
+func (m Model) ConstValue() float64 {
+	if m.Const == nil {
+		return 0
+	}
+	return m.Const.Value
+}
+
+// NoiseCoeffs returns the expanded noise polynomials theta(B) (ma) and
+// phi(B) (ar), each with constant term 1 as written, and ok = true; for
+// a noise-free model (Noise nil) it returns nil, nil, false. White noise
+// gives {1}, {1}.
+func (m Model) NoiseCoeffs() (ma, ar []float64, ok bool) {
+	if m.Noise == nil {
+		return nil, nil, false
+	}
+	return m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), true
+}
+
+// NoiseRational returns the noise filter theta(B) / phi(B) (dead time
+// 0) as a Rational, for its psi weights (Impulse), poles (the AR roots
+// in the z-plane) and stationarity (Stable). A noise-free model (Noise
+// nil) gives the zero Rational. Errors are NewRational's.
+func (m Model) NoiseRational() (Rational, error) {
+	if m.Noise == nil {
+		return Rational{}, nil
+	}
+	return NewRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
+}
+
+// Params returns the named coefficients of m, one per name in order of
+// first use (constant, then each input's numerator and denominator, then
+// the noise's MA and AR polynomials), as found at that first use.
+// Differencing holds no names.
+func (m Model) Params() []Coef {
+	var out []Coef
+	seen := map[string]bool{}
+	add := func(c *Coef) {
+		if c.Name != "" && !seen[c.Name] {
+			seen[c.Name] = true
+			out = append(out, *c)
+		}
+	}
+	if m.Const != nil {
+		c := *m.Const
+		add(&c)
+	}
+	for _, in := range m.Inputs {
+		prEach(in.Num, add)
+		prEach(in.Den, add)
+	}
+	if m.Noise != nil {
+		prEach(m.Noise.MA, add)
+		prEach(m.Noise.AR, add)
+	}
+	return out
+}

@@ -1,0 +1,105 @@
+package tf
+
+import (
+	"math"
+	"strconv"
+)
+
+// Simulate returns the output series of the whole model,
+//
+//	D(B) y_t = c + sum_i Num_i(B)/Den_i(B) B^b_i D_i(B) x_i,t + theta(B)/phi(B) a_t,
+//
+// for the input series given by name (every input of m; other series in
+// inputs are ignored; all the same length n, which is the length of the
+// result). Every coefficient is taken at its Value. Pre-sample values of
+// the inputs, the innovations and the output are zero, unless s.Steady
+// starts the input paths at the steady state of their first samples and
+// s.BurnIn warms up the noise. The innovations are s.Innovations, or
+// Gaussian draws of standard deviation s.Sigma from the seeded source
+// (none when Sigma is 0); s may be nil for a noise-free run from rest.
+// Neither m nor the input series are modified.
+//
+// Simulate gives exactly the outputs of a System fed the same samples,
+// and, for a model without differencing or noise, exactly the sum of
+// c and each input's Rational().Filter.
+//
+// Errors: those of NewSystem; a *SimError for a missing input series,
+// series of different lengths, Innovations of the wrong length, or
+// Steady for an input path without a steady state; a *SampleError naming
+// the series and index of a NaN or infinite sample.
+func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64, error) {
+	var set SimSettings
+	if s != nil {
+		set = *s
+	}
+	if set.Innovations != nil {
+		set.Sigma, set.BurnIn = 0, 0
+	}
+	sys, err := NewSystem(m, &set)
+	if err != nil {
+		return nil, err
+	}
+	xs := make([][]float64, len(m.Inputs))
+	n := -1
+	for i, in := range m.Inputs {
+		x, ok := inputs[in.Series]
+		if !ok {
+			return nil, &SimError{Part: "series " + in.Series, Problem: "missing from the inputs"}
+		}
+		if n >= 0 && len(x) != n {
+			return nil, &SimError{Part: "series " + in.Series, Problem: "has " + strconv.Itoa(len(x)) +
+				" samples, but series " + m.Inputs[0].Series + " has " + strconv.Itoa(n)}
+		}
+		n = len(x)
+		if err := simCheck(in.Series, x); err != nil {
+			return nil, err
+		}
+		xs[i] = x
+	}
+	if set.Innovations != nil {
+		if len(set.Innovations) != n {
+			return nil, &SimError{Part: "innovations", Problem: "has " + strconv.Itoa(len(set.Innovations)) +
+				" samples for " + strconv.Itoa(n) + " input samples"}
+		}
+		if err := simCheck("innovations", set.Innovations); err != nil {
+			return nil, err
+		}
+		if m.Noise == nil {
+			return nil, &SimError{Part: "noise", Problem: "Innovations given but the model has no noise term"}
+		}
+	}
+	y := make([]float64, n)
+	if n == 0 {
+		return y, nil
+	}
+	u := make([]float64, len(xs))
+	if set.Steady {
+		for i, x := range xs {
+			u[i] = x[0]
+		}
+		if err := sys.SetSteady(u); err != nil {
+			return nil, err
+		}
+	}
+	for t := range y {
+		for i, x := range xs {
+			u[i] = x[t]
+		}
+		if set.Innovations != nil {
+			y[t] = sys.StepWith(u, set.Innovations[t])
+		} else {
+			y[t] = sys.Step(u)
+		}
+	}
+	return y, nil
+}
+
+// simCheck returns a *SampleError for the first NaN or infinite sample.
+func simCheck(name string, x []float64) error {
+	for i, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return &SampleError{Series: name, Index: i, Value: v}
+		}
+	}
+	return nil
+}

@@ -1,0 +1,295 @@
+package tf
+
+import (
+	"math"
+	"math/rand/v2"
+	"strconv"
+)
+
+// SimSettings tunes Model.Simulate and NewSystem. The zero value gives a
+// noise-free run from rest (all pre-sample values zero).
+type SimSettings struct {
+	// Seed1 and Seed2 seed the PCG source (math/rand/v2) of the Gaussian
+	// innovations a_t; equal seeds give equal series.
+	Seed1, Seed2 uint64
+	// Sigma is the standard deviation of the innovations a_t. Zero (the
+	// default) draws no noise: the output is the deterministic part of
+	// the model. A positive Sigma needs a model with a noise term.
+	Sigma float64
+	// BurnIn is the number of innovations drawn and run through the
+	// noise filter theta(B)/phi(B) before the first sample, so that the
+	// noise starts near its stationary state instead of from rest. Zero
+	// means none. A positive BurnIn needs a stationary noise model (AR
+	// poles strictly inside the unit circle).
+	BurnIn int
+	// Steady, for Model.Simulate, starts each input path at the steady
+	// state of that input's first sample, as if the input had been
+	// constant at x_0 before the record (see System.SetSteady). Without
+	// it pre-sample inputs are zero, which gives a start-up transient when
+	// the inputs are far from zero.
+	Steady bool
+	// Innovations, for Model.Simulate, when not nil, is the innovation
+	// series a_t itself (one value per sample), used instead of Gaussian
+	// draws; Sigma, the seeds and BurnIn are then ignored.
+	Innovations []float64
+}
+
+// SimError reports a model or data that cannot be simulated: Part names
+// the part of the model or the series concerned ("input burner",
+// "noise", "series feed", ...), Problem says what is wrong, and Err is
+// the underlying error, if any (for example a *CoefError).
+type SimError struct {
+	Part    string
+	Problem string
+	Err     error
+}
+
+// Error describes the problem in one line.
+func (e *SimError) Error() string {
+	s := "tf: " + e.Part + ": " + e.Problem
+	if e.Err != nil {
+		s += ": " + e.Err.Error()
+	}
+	return s
+}
+
+// Unwrap returns the underlying error.
+func (e *SimError) Unwrap() error { return e.Err }
+
+// System is a streaming simulator of a whole model,
+//
+//	D(B) y_t = c + sum_i Num_i(B)/Den_i(B) B^b_i D_i(B) x_i,t + theta(B)/phi(B) a_t,
+//
+// fed one sample of every input per Step. Each input path is a Plant
+// (the differencing D_i as one Plant, then the rational term as
+// another), the noise is a Plant on seeded Gaussian innovations, and the
+// output differencing is undone by integrating through 1/D(B), all from
+// rest unless SetSteady is called. Every coefficient is taken at its
+// Value. A Step does no allocation and costs O(total degree) operations;
+// Model.Simulate gives the same numbers in one call.
+//
+// A System is not safe for concurrent use; use Clone to give each
+// goroutine its own copy.
+type System struct {
+	names []string
+	diff  []*Plant // nil where the input is not differenced
+	path  []*Plant
+	noise *Plant // nil for a noise-free model
+	integ *Plant // nil when the output is not differenced
+	c     float64
+	sigma float64
+	burn  int
+	seed1 uint64
+	seed2 uint64
+	src   *rand.PCG
+	rng   *rand.Rand
+}
+
+// NewSystem returns a System for m at rest (after the noise burn-in, when
+// s asks for one); s may be nil for the defaults. The model is copied.
+//
+// Errors: a *SimError for a model with no inputs, a coefficient that
+// makes a polynomial invalid (wrapping NewRational's *CoefError or
+// *DelayError), Sigma > 0 without a noise term, or BurnIn > 0 with a
+// noise model that is not stationary; an *ArgError for a negative or
+// non-finite Sigma or a negative BurnIn.
+func NewSystem(m Model, s *SimSettings) (*System, error) {
+	var set SimSettings
+	if s != nil {
+		set = *s
+	}
+	if !(set.Sigma >= 0) || math.IsInf(set.Sigma, 0) {
+		return nil, &ArgError{Arg: "Sigma", Value: set.Sigma, Rule: "must be finite and >= 0"}
+	}
+	if set.BurnIn < 0 {
+		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be >= 0"}
+	}
+	if len(m.Inputs) == 0 {
+		return nil, &SimError{Part: "model " + m.Output, Problem: "has no input term"}
+	}
+	sys := &System{
+		names: make([]string, len(m.Inputs)),
+		diff:  make([]*Plant, len(m.Inputs)),
+		path:  make([]*Plant, len(m.Inputs)),
+		c:     m.ConstValue(),
+		sigma: set.Sigma,
+		burn:  set.BurnIn,
+		seed1: set.Seed1,
+		seed2: set.Seed2,
+	}
+	if math.IsNaN(sys.c) || math.IsInf(sys.c, 0) {
+		return nil, &SimError{Part: "constant", Problem: "is " + strconv.FormatFloat(sys.c, 'g', -1, 64)}
+	}
+	for i, in := range m.Inputs {
+		part := "input " + in.Series
+		sys.names[i] = in.Series
+		r, err := in.Rational()
+		if err != nil {
+			return nil, &SimError{Part: part, Problem: "invalid transfer function", Err: err}
+		}
+		sys.path[i] = NewPlant(r)
+		if !in.Diff.IsOne() {
+			d, err := NewRational(in.DiffCoeffs(), []float64{1}, 0)
+			if err != nil {
+				return nil, &SimError{Part: part, Problem: "invalid differencing", Err: err}
+			}
+			sys.diff[i] = NewPlant(d)
+		}
+	}
+	if !m.Diff.IsOne() {
+		d, err := NewRational([]float64{1}, m.DiffCoeffs(), 0)
+		if err != nil {
+			return nil, &SimError{Part: "output " + m.Output, Problem: "invalid differencing", Err: err}
+		}
+		sys.integ = NewPlant(d)
+	}
+	if m.Noise != nil {
+		r, err := m.NoiseRational()
+		if err != nil {
+			return nil, &SimError{Part: "noise", Problem: "invalid noise model", Err: err}
+		}
+		sys.noise = NewPlant(r)
+		if set.BurnIn > 0 && !r.Stable() {
+			return nil, &SimError{Part: "noise", Problem: "a burn-in needs a stationary noise model, and phi(B) has a root on or inside the unit circle"}
+		}
+	} else if set.Sigma > 0 {
+		return nil, &SimError{Part: "noise", Problem: "Sigma > 0 but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
+	}
+	sys.Reset()
+	return sys, nil
+}
+
+// Inputs returns the input series names in the order Step expects their
+// samples (the model's order).
+func (s *System) Inputs() []string { return append([]string(nil), s.names...) }
+
+// Step applies the input samples u (one per input, in the order of
+// Inputs) at the current sample, draws the innovation a_t = Sigma * N(0,
+// 1) and returns the output y_t, then advances time by one sample. It
+// panics when len(u) differs from the number of inputs (a programmer
+// error). Non-finite samples are not checked (see Plant.Step).
+func (s *System) Step(u []float64) float64 {
+	a := 0.0
+	if s.sigma > 0 {
+		a = s.sigma * s.rng.NormFloat64()
+	}
+	return s.StepWith(u, a)
+}
+
+// StepWith is Step with the innovation a_t given (ignored by a
+// noise-free model); the seeded source is not used.
+func (s *System) StepWith(u []float64, a float64) float64 {
+	if len(u) != len(s.path) {
+		panic("tf: System.Step: got " + strconv.Itoa(len(u)) + " input samples for " + strconv.Itoa(len(s.path)) + " inputs")
+	}
+	w := s.c
+	for i, p := range s.path {
+		x := u[i]
+		if d := s.diff[i]; d != nil {
+			x = d.Step(x)
+		}
+		w += p.Step(x)
+	}
+	if s.noise != nil {
+		w += s.noise.Step(a)
+	}
+	if s.integ != nil {
+		return s.integ.Step(w)
+	}
+	return w
+}
+
+// Reset returns the system to its state after NewSystem: every plant at
+// rest, the innovation source reseeded and the burn-in run again, so
+// that the same inputs give the same outputs.
+func (s *System) Reset() {
+	for i, p := range s.path {
+		p.Reset()
+		if d := s.diff[i]; d != nil {
+			d.Reset()
+		}
+	}
+	if s.integ != nil {
+		s.integ.Reset()
+	}
+	s.src = rand.NewPCG(s.seed1, s.seed2)
+	s.rng = rand.New(s.src)
+	if s.noise != nil {
+		s.noise.Reset()
+		if s.sigma > 0 {
+			for range s.burn {
+				s.noise.Step(s.sigma * s.rng.NormFloat64())
+			}
+		}
+	}
+}
+
+// SetSteady puts every input path at the steady state of the constant
+// input samples u (one per input, in the order of Inputs): the
+// differencing plant at rest on u_i, the rational term at rest on the
+// differenced value D_i(1) u_i (which is 0 for differencing with a unit
+// root). The noise and the output integration are left as they are.
+// It returns a *SimError wrapping a *GainError when a path with a pole at
+// z = 1 would need a non-zero steady input, and a *SampleError for a
+// non-finite sample; the system is then left as it was. It panics when
+// len(u) differs from the number of inputs.
+func (s *System) SetSteady(u []float64) error {
+	if len(u) != len(s.path) {
+		panic("tf: System.SetSteady: got " + strconv.Itoa(len(u)) + " input samples for " + strconv.Itoa(len(s.path)) + " inputs")
+	}
+	level := make([]float64, len(u))
+	for i, x := range u {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return &SampleError{Series: s.names[i], Index: 0, Value: x}
+		}
+		level[i] = x
+		if d := s.diff[i]; d != nil {
+			g, _ := d.Rational().Gain() // a differencing plant has denominator 1
+			level[i] = g * x
+		}
+		if level[i] != 0 {
+			if _, err := s.path[i].Rational().Gain(); err != nil {
+				return &SimError{Part: "input " + s.names[i], Problem: "has no steady state for a non-zero input", Err: err}
+			}
+		}
+	}
+	for i, x := range u {
+		if d := s.diff[i]; d != nil {
+			if err := d.SetSteady(x); err != nil {
+				return err
+			}
+		}
+		if level[i] == 0 {
+			s.path[i].Reset()
+		} else if err := s.path[i].SetSteady(level[i]); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// Clone returns an independent copy of s in its current state, including
+// the state of its innovation source, so that both give the same future
+// outputs for the same inputs.
+func (s *System) Clone() *System {
+	c := *s
+	c.names = append([]string(nil), s.names...)
+	c.diff = make([]*Plant, len(s.diff))
+	c.path = make([]*Plant, len(s.path))
+	for i := range s.path {
+		c.path[i] = s.path[i].Clone()
+		if s.diff[i] != nil {
+			c.diff[i] = s.diff[i].Clone()
+		}
+	}
+	if s.noise != nil {
+		c.noise = s.noise.Clone()
+	}
+	if s.integ != nil {
+		c.integ = s.integ.Clone()
+	}
+	src := *s.src
+	c.src = &src
+	c.rng = rand.New(c.src)
+	return &c
+}
