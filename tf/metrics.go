@@ -151,6 +151,28 @@ func (r Rational) StepMetrics(o StepOptions) (StepInfo, error) {
 	return info, nil
 }
 
+// ModeKind classifies a pole for Mode.
+type ModeKind string
+
+// The kinds of Mode.
+const (
+	// ModeReal is a real pole in (0, 1): a first-order lag.
+	ModeReal ModeKind = "real"
+	// ModeComplex is a complex pair inside the unit circle: an
+	// oscillatory second-order mode.
+	ModeComplex ModeKind = "complex"
+	// ModeIntegrator is a pole at z = 1.
+	ModeIntegrator ModeKind = "integrator"
+	// ModeAlternating is a real pole in (-1, 0): a sign-alternating mode
+	// with no continuous-time equivalent (often a sign of over-fitting or
+	// of sampling too slowly).
+	ModeAlternating ModeKind = "alternating"
+	// ModeZero is a pole at z = 0: a pure delay of one sample.
+	ModeZero ModeKind = "zero"
+	// ModeUnstable is a pole with |z| >= 1 other than z = 1.
+	ModeUnstable ModeKind = "unstable"
+)
+
 // Mode describes one pole of a term as engineers read it, through the
 // continuous-time equivalent s = ln(z)/T of the pole z for sample
 // interval T (T = 1 when no interval is given, so times are in samples).
@@ -158,12 +180,8 @@ type Mode struct {
 	// Pole is the z-plane pole. For a complex pair only the member with
 	// positive imaginary part is listed.
 	Pole complex128
-	// Kind is "real" for a real pole in (0, 1), "complex" for a complex
-	// pair, "integrator" for z = 1, "alternating" for a real pole in
-	// (-1, 0) (a sign-alternating mode with no continuous equivalent),
-	// "zero" for z = 0 (a pure delay) and "unstable" for |z| >= 1 other
-	// than z = 1.
-	Kind string
+	// Kind classifies the pole.
+	Kind ModeKind
 	// TimeConstant tau = -T/ln(z) of a real pole in (0, 1): in samples
 	// and time units.
 	TimeConstant Span
@@ -191,19 +209,19 @@ func (r Rational) Modes(interval float64) ([]Mode, error) {
 		a := cmplx.Abs(z)
 		switch {
 		case z == 0:
-			m.Kind = "zero"
+			m.Kind = ModeZero
 		case z == 1:
-			m.Kind = "integrator"
+			m.Kind = ModeIntegrator
 		case a >= 1:
-			m.Kind = "unstable"
+			m.Kind = ModeUnstable
 		case imag(z) == 0 && real(z) < 0:
-			m.Kind = "alternating"
+			m.Kind = ModeAlternating
 		case imag(z) == 0:
-			m.Kind = "real"
+			m.Kind = ModeReal
 			tau := -1 / math.Log(real(z))
 			m.TimeConstant = Span{Samples: tau, Time: tau * interval}
 		default:
-			m.Kind = "complex"
+			m.Kind = ModeComplex
 			s := cmplx.Log(z) // per sample
 			m.NaturalFrequency = cmplx.Abs(s)
 			m.Damping = -real(s) / cmplx.Abs(s)

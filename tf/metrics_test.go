@@ -41,7 +41,7 @@ func TestStepMetricsFirstOrder(t *testing.T) {
 		t.Errorf("5 %% settling %v, want %v", info5.Settling.Samples, tau*math.Log(20))
 	}
 	modes, err := r.Modes(0.5)
-	if err != nil || len(modes) != 1 || modes[0].Kind != "real" {
+	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeReal {
 		t.Fatalf("modes %+v, %v", modes, err)
 	}
 	if math.Abs(modes[0].TimeConstant.Samples-tau) > 1e-10 || math.Abs(modes[0].TimeConstant.Time-tau/2) > 1e-10 {
@@ -78,7 +78,7 @@ func TestStepMetricsUnderdamped(t *testing.T) {
 		t.Errorf("band %v settling %v", info.Band, info.Settling)
 	}
 	modes, err := r.Modes(2)
-	if err != nil || len(modes) != 1 || modes[0].Kind != "complex" {
+	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeComplex {
 		t.Fatalf("modes %+v, %v", modes, err)
 	}
 	// z = e^{sT} exactly, so s = ln z recovers wn and zeta to rounding.

@@ -176,3 +176,42 @@ func TestInputsNotModified(t *testing.T) {
 		t.Errorf("zero Rational impulse %v", h)
 	}
 }
+
+// TestConcurrentUse runs the read-only methods of one Rational from
+// several goroutines (meaningful under go test -race).
+func TestConcurrentUse(t *testing.T) {
+	r := tf.MustRational([]float64{0.2, 0.1}, []float64{1, -1.1, 0.3}, 2)
+	x := make([]float64, 500)
+	for i := range x {
+		x[i] = float64(i % 7)
+	}
+	want, _ := r.Filter(x)
+	done := make(chan error, 4)
+	for g := 0; g < 4; g++ {
+		go func() {
+			for i := 0; i < 20; i++ {
+				y, err := r.Filter(x)
+				if err != nil {
+					done <- err
+					return
+				}
+				for k := range y {
+					if y[k] != want[k] {
+						done <- errors.New("concurrent Filter differs")
+						return
+					}
+				}
+				_ = r.Poles()
+				_, _ = r.StepMetrics(tf.StepOptions{})
+				p := tf.NewPlant(r)
+				p.Step(1)
+			}
+			done <- nil
+		}()
+	}
+	for g := 0; g < 4; g++ {
+		if err := <-done; err != nil {
+			t.Fatal(err)
+		}
+	}
+}
