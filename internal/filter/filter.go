@@ -153,16 +153,18 @@ func run22(dst, x []float64, b, a [3]float64, x1, x2, y1, y2 float64) uint64 {
 	return acc
 }
 
-// run44 is the kernel for q <= 4, p <= 4, a_0 = 1.
+// run44 is the kernel for q <= 4, p <= 4, a_0 = 1. The coefficients are
+// read from the arrays inside the loop (L1 loads off the critical path)
+// so that the eight state values keep their registers: with all of them
+// in locals the compiler spills y_{t-1} to the stack, which puts a
+// store-to-load delay on the recursion.
 func run44(dst, x []float64, b, a *[5]float64, xh, yh [4]float64) uint64 {
-	b0, b1, b2, b3, b4 := b[0], b[1], b[2], b[3], b[4]
-	a1, a2, a3, a4 := a[1], a[2], a[3], a[4]
 	x1, x2, x3, x4 := xh[0], xh[1], xh[2], xh[3]
 	y1, y2, y3, y4 := yh[0], yh[1], yh[2], yh[3]
 	x = x[:len(dst)]
 	acc := uint64(0)
 	for i, x0 := range x {
-		y := b0*x0 + b1*x1 + b2*x2 + b3*x3 + b4*x4 - a4*y4 - a3*y3 - a2*y2 - a1*y1
+		y := b[0]*x0 + b[1]*x1 + b[2]*x2 + b[3]*x3 + b[4]*x4 - a[4]*y4 - a[3]*y3 - a[2]*y2 - a[1]*y1
 		dst[i] = y
 		acc |= finiteBits(x0)
 		x4, x3, x2, x1 = x3, x2, x1, x0
