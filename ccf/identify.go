@@ -128,10 +128,10 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if len(w.V) < 2 || len(w.SE) != len(w.V) {
 		return nil, &ShortError{Name: name, Len: len(w.V), Need: 2, Why: "weights (lags 0 and 1)"}
 	}
+	if err := checkSeries(name+" weights", w.V); err != nil {
+		return nil, err
+	}
 	for k := range w.V {
-		if err := checkSeries(name+" weights", w.V); err != nil {
-			return nil, err
-		}
 		if !(w.SE[k] > 0) || math.IsInf(w.SE[k], 0) {
 			return nil, &ValueError{Name: name + " weight standard errors", Index: k, Value: w.SE[k]}
 		}

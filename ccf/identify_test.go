@@ -1,0 +1,131 @@
+package ccf
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+func TestIdentifyBadInput(t *testing.T) {
+	v := []float64{0, 0, 1, 0.5, 0.25, 0.12, 0.06, 0.03}
+	se := []float64{0.05, 0.05, 0.05, 0.05, 0.05, 0.05, 0.05, 0.05}
+	var ae *ArgError
+	if _, err := Identify(nil, nil); !errors.As(err, &ae) {
+		t.Errorf("nil weights: %v", err)
+	}
+	if _, err := Identify(&Weights{V: v, SE: se}, &IdentifySettings{Level: 1.5}); !errors.As(err, &ae) {
+		t.Errorf("level: %v", err)
+	}
+	if _, err := Identify(&Weights{V: v, SE: se}, &IdentifySettings{InputDiff: []float64{0, 1}}); !errors.As(err, &ae) {
+		t.Errorf("diff: %v", err)
+	}
+	var sh *ShortError
+	if _, err := Identify(&Weights{V: v[:1], SE: se[:1]}, nil); !errors.As(err, &sh) {
+		t.Errorf("short: %v", err)
+	}
+	bad := append([]float64(nil), v...)
+	bad[3] = math.NaN()
+	var ve *ValueError
+	if _, err := Identify(&Weights{Input: "valve", V: bad, SE: se}, nil); !errors.As(err, &ve) || ve.Index != 3 {
+		t.Errorf("NaN weight: %v", err)
+	}
+	var nr *NoResponseError
+	flat := []float64{0.01, -0.02, 0.03, 0.0, 0.01, -0.01, 0.02, 0.0}
+	if _, err := Identify(&Weights{Input: "valve", V: flat, SE: se}, nil); !errors.As(err, &nr) || nr.Input != "valve" {
+		t.Errorf("no response: %v", err)
+	}
+	// A lone moderate spike at lag 1 (t = 3, below the lone-spike
+	// threshold 3.29 at Level 0.99) before the real response at lag 4.
+	spike := []float64{0, 0.15, 0, 0, 1, 0.6, 0.36, 0.2, 0.1, 0.05}
+	se10 := make([]float64, len(spike))
+	for i := range se10 {
+		se10[i] = 0.05
+	}
+	id, err := Identify(&Weights{V: spike, SE: se10}, nil)
+	if err != nil || id.DeadTime != 4 {
+		t.Errorf("lone spike: dead time %v, %v; want 4", id, err)
+	}
+	// Exactly rational weights: the fit and the corner method recover them.
+	exact := []float64{0, 0, 2, 1.6, 0.96, 0.576, 0.3456, 0.20736, 0.124416, 0.0746496, 0.04478976}
+	se11 := make([]float64, len(exact))
+	for i := range se11 {
+		se11[i] = 0.01
+	}
+	id, err = Identify(&Weights{V: exact, SE: se11}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := id.Candidates[0]
+	// 2 (1 + 0.2 B) / (1 - 0.6 B) B^2: v_2 = 2, v_3 = 0.6*2 + 0.4 = 1.6, then *0.6.
+	if c.R != 1 || c.S != 1 || math.Abs(c.Num[0]-2) > 1e-8 || math.Abs(c.Num[1]-0.4) > 1e-8 || math.Abs(c.Den[1]+0.6) > 1e-8 {
+		t.Errorf("exact weights: got r=%d s=%d num %v den %v", c.R, c.S, c.Num, c.Den)
+	}
+	if id.CornerR != 1 || id.CornerS != 1 {
+		t.Errorf("corner method on exact weights: (%d,%d), want (1,1)", id.CornerR, id.CornerS)
+	}
+}
+
+func TestNoiseSeries(t *testing.T) {
+	x := []float64{1, 2, 0, -1, 3, 2, 1, 0}
+	y := make([]float64, len(x))
+	for i := range y {
+		y[i] = 5
+		if i >= 1 {
+			y[i] += 0.5 * x[i-1]
+		}
+		if i >= 2 {
+			y[i] += 0.25 * x[i-2]
+		}
+	}
+	w := &Weights{Input: "x", V: []float64{0, 0.5, 0.25}, SE: []float64{1, 1, 1}}
+	n, start, err := NoiseSeries(y, [][]float64{x}, []*Weights{w})
+	if err != nil || start != 2 {
+		t.Fatal(err, start)
+	}
+	for i := start; i < len(n); i++ {
+		if math.Abs(n[i]-5) > 1e-14 {
+			t.Errorf("noise[%d] = %g, want 5", i, n[i])
+		}
+	}
+	if !math.IsNaN(n[0]) || !math.IsNaN(n[1]) {
+		t.Error("noise before start must be NaN")
+	}
+	var le *LengthError
+	if _, _, err := NoiseSeries(y, [][]float64{x[:5]}, []*Weights{w}); !errors.As(err, &le) || le.Names[1] != "x" {
+		t.Errorf("lengths: %v", err)
+	}
+	var ae *ArgError
+	if _, _, err := NoiseSeries(y, [][]float64{x}, nil); !errors.As(err, &ae) {
+		t.Errorf("missing weights: %v", err)
+	}
+	var sh *ShortError
+	long := &Weights{V: make([]float64, 12), SE: make([]float64, 12)}
+	if _, _, err := NoiseSeries(y, [][]float64{x}, []*Weights{long}); !errors.As(err, &sh) {
+		t.Errorf("short: %v", err)
+	}
+}
+
+func TestImpulseWeightsScale(t *testing.T) {
+	// v_k = r(k) s_y / s_x: for y = 3 x delayed by one (x white-ish),
+	// v_1 = 3 exactly up to end effects of the divisor-n estimate.
+	x := []float64{1, -1, 2, 0, -2, 1, 1, -1, 0, 2, -1, -1}
+	y := make([]float64, len(x))
+	for i := 1; i < len(x); i++ {
+		y[i] = 3 * x[i-1]
+	}
+	w, err := ImpulseWeights(x, y, 3, "x", &Settings{Method: Direct})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, _ := Cross(x, y, 3, nil)
+	if got, want := w.V[1], c.At(1)*c.SDY/c.SDX; math.Abs(got-want) > 1e-14 {
+		t.Errorf("v_1 = %g, want r(1) s_y/s_x = %g", got, want)
+	}
+	if got, want := w.SE[0], c.SDY/c.SDX/math.Sqrt(12); math.Abs(got-want) > 1e-14 {
+		t.Errorf("se = %g, want %g", got, want)
+	}
+	var ce *ConstantError
+	if _, err := ImpulseWeights(x, make([]float64, len(x)), 2, "x", nil); !errors.As(err, &ce) {
+		t.Errorf("constant output: %v", err)
+	}
+}
