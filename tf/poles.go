@@ -1,6 +1,7 @@
 package tf
 
 import (
+	"math"
 	"math/cmplx"
 
 	"github.com/backshift/backshift/internal/poly"
@@ -54,9 +55,27 @@ func (r Rational) MaxPoleMagnitude() float64 {
 
 // Stable reports whether every pole lies strictly inside the unit circle,
 // equivalently every root of delta(B) strictly outside it. A pole on the
-// circle (an integrator) is not stable. A constant denominator is stable.
+// circle (an integrator) is not stable: besides |z| < 1 for the computed
+// poles, delta(1) and delta(-1) must not vanish to within rounding (the
+// test of Gain), so that a pole at z = 1 or -1 computed as 1 - 1e-16 is
+// not taken as stable. A constant denominator is stable.
 func (r Rational) Stable() bool {
+	_, den := r.coefs()
+	if len(den) > 1 && (ratVanishesAt(den, 1) || ratVanishesAt(den, -1)) {
+		return false
+	}
 	return r.MaxPoleMagnitude() < 1
+}
+
+// ratVanishesAt reports whether c(x) is zero to within 8 eps of the
+// rounding of its evaluation (scaled by sum |c_k| |x|^k), for |x| = 1.
+func ratVanishesAt(c []float64, x float64) bool {
+	v := poly.EvalReal(c, x)
+	scale := 0.0
+	for _, ck := range c {
+		scale += math.Abs(ck)
+	}
+	return math.Abs(v) <= 8*ratEps*scale
 }
 
 // IsMinimumPhase reports whether every zero lies strictly inside the unit

@@ -215,3 +215,28 @@ func TestConcurrentUse(t *testing.T) {
 		}
 	}
 }
+
+// TestStableIntegrators: integrators built by multiplying out factors
+// (by hand: (1 - B)(1 - 0.9 B)(1 + 0.3 B + 0.2 B^2) and (1 + B)(1 - 0.5 B))
+// are not stable whatever the rounding of their computed poles.
+func TestStableIntegrators(t *testing.T) {
+	mul := func(a, b []float64) []float64 {
+		c := make([]float64, len(a)+len(b)-1)
+		for i, x := range a {
+			for j, y := range b {
+				c[i+j] += x * y
+			}
+		}
+		return c
+	}
+	for _, den := range [][]float64{
+		mul(mul([]float64{1, -1}, []float64{1, -0.9}), []float64{1, 0.3, 0.2}),
+		mul([]float64{1, 1}, []float64{1, -0.5}),
+		mul(mul([]float64{1, -1}, []float64{1, -1}), []float64{1, -0.7}),
+	} {
+		r := tf.MustRational([]float64{1}, den, 0)
+		if r.Stable() {
+			t.Errorf("den %v with a pole on the unit circle reported stable (poles %v)", den, r.Poles())
+		}
+	}
+}

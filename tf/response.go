@@ -19,14 +19,10 @@ import (
 func (r Rational) Gain() (float64, error) {
 	num, den := r.coefs()
 	n1, d1 := poly.EvalReal(num, 1), poly.EvalReal(den, 1)
-	scale := 0.0
-	for _, v := range den {
-		scale += math.Abs(v)
-	}
 	// delta(1) within a few roundings of zero is a pole at z = 1 that the
-	// coefficients cannot resolve: 8 ratEps times the sum of |delta_k| bounds
+	// coefficients cannot resolve: 8 eps times the sum of |delta_k| bounds
 	// the rounding of the sum that forms delta(1).
-	if math.Abs(d1) <= 8*ratEps*scale || math.IsInf(n1/d1, 0) {
+	if ratVanishesAt(den, 1) || math.IsInf(n1/d1, 0) {
 		return 0, &GainError{Num1: n1, Den1: d1}
 	}
 	return n1 / d1, nil
