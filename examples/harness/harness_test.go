@@ -1,10 +1,12 @@
 package main
 
 // This file is the template: a controller test is a closed-loop
-// simulation against a known model with seeded noise, followed by plain
-// assertions on the response. Copy it, put your controller where the PI
-// is, your identified model where the greenhouse is, and your plant's
-// requirements in the limits below.
+// simulation against a known model, followed by plain assertions on the
+// response. The response itself (settling, overshoot, offset) is judged
+// on a noise-free run, so that the test is about the controller and not
+// about one noise draw; robustness is judged on many seeded noisy runs.
+// Copy it, put your controller where the PI is, your identified model in
+// PlantSpec, and your plant's requirements in the limits below.
 
 import (
 	"bytes"
@@ -14,18 +16,21 @@ import (
 
 // Requirements for the greenhouse heating loop (our own, of the kind a
 // grower states): after the morning setpoint rise the air temperature is
-// within 0.2 degC of the setpoint in under 90 minutes, overshoots by less
-// than 10 % of the step (0.4 degC), and has no lasting offset; a sudden
-// 8 degC fall of the outdoor temperature, which would cool the house by
-// 4 degC without control, moves it by less than 2.5 degC and it is back
-// within 0.2 degC in under 120 minutes.
+// within 0.05 degC of the setpoint in under 90 minutes without noise
+// (within the noise band of 0.2 degC with it), overshoots by less than
+// 10 % of the step (0.4 degC), and has no lasting offset; a sudden 8 degC
+// fall of the outdoor temperature, which would cool the house by 4 degC
+// without control, moves it by less than 2.5 degC and it is back within
+// 0.05 degC in under 120 minutes.
 const (
 	maxSettling      = 90.0 // min
 	maxOvershoot     = 0.10 // fraction of the step
-	maxSteadyError   = 0.05 // degC; the noise SD is ~0.06 degC, its mean over 75 min ~0.02
+	maxSteadyError   = 0.02 // degC, noise-free
+	maxNoisyError    = 0.05 // degC: mean over 75 min of noise with SD 0.063 degC and lag-1 correlation 0.84 has SE ~0.02
 	maxPeakDev       = 2.5  // degC
 	maxRecovery      = 120.0
-	settleBand       = 0.2 // degC, about 3 noise standard deviations
+	settleBand       = 0.05 // degC, noise-free runs
+	noisyRuns        = 20
 	stepAt           = 60  // minute of the step in both scenarios
 	setpointBefore   = 16.0
 	setpointAfter    = 20.0
@@ -34,6 +39,7 @@ const (
 
 func TestSetpointStep(t *testing.T) {
 	sc := SetpointStep()
+	sc.NoiseSD = 0
 	tr, err := runWithPI(sc, steadyValve(setpointBefore, 2))
 	if err != nil {
 		t.Fatal(err)
@@ -57,8 +63,45 @@ func TestSetpointStep(t *testing.T) {
 	}
 }
 
+// TestSetpointStepWithNoise repeats the step with the plant's noise for
+// many seeds: every run must settle within the noise band
+// (PlantSettleBand) in time, not overshoot past the step limit plus the
+// band, and have no offset on average.
+func TestSetpointStepWithNoise(t *testing.T) {
+	meanErr := 0.0
+	for seed := uint64(1); seed <= noisyRuns; seed++ {
+		sc := SetpointStep()
+		sc.Seed = seed
+		tr, err := runWithPI(sc, steadyValve(setpointBefore, 2))
+		if err != nil {
+			t.Fatal(err)
+		}
+		// Settled: first entry into the noise band (the noise leaves it
+		// now and then, which is not the controller's doing).
+		entered := -1
+		for k := stepAt; k < len(tr.Temp); k++ {
+			if abs(tr.Temp[k]-setpointAfter) <= PlantSettleBand {
+				entered = k - stepAt
+				break
+			}
+		}
+		m := Measure(tr.Temp, stepAt, setpointBefore, setpointAfter, PlantSettleBand, 1)
+		if entered < 0 || float64(entered) > maxSettling {
+			t.Errorf("seed %d: entered +-%.1f degC after %d min, want < %.0f", seed, PlantSettleBand, entered, maxSettling)
+		}
+		if m.Overshoot*(setpointAfter-setpointBefore) > maxOvershoot*(setpointAfter-setpointBefore)+PlantSettleBand {
+			t.Errorf("seed %d: overshoot %.2f degC", seed, m.Overshoot*(setpointAfter-setpointBefore))
+		}
+		meanErr += m.SteadyError / noisyRuns
+	}
+	if abs(meanErr) > maxNoisyError/3 {
+		t.Errorf("mean steady-state error over %d noisy runs %+.3f degC", noisyRuns, meanErr)
+	}
+}
+
 func TestDisturbanceStep(t *testing.T) {
 	sc := DisturbanceStep()
+	sc.NoiseSD = 0
 	tr, err := runWithPI(sc, steadyValve(disturbedSetting, 4))
 	if err != nil {
 		t.Fatal(err)
@@ -69,7 +112,7 @@ func TestDisturbanceStep(t *testing.T) {
 		t.Errorf("peak deviation %.2f degC, want < %.1f", m.PeakDeviation, maxPeakDev)
 	}
 	if m.Settling > maxRecovery {
-		t.Errorf("back within %.1f degC after %.0f min, want < %.0f", settleBand, m.Settling, maxRecovery)
+		t.Errorf("back within %.2f degC after %.0f min, want < %.0f", settleBand, m.Settling, maxRecovery)
 	}
 	if abs(m.SteadyError) > maxSteadyError {
 		t.Errorf("steady-state error %+.3f degC, want within +-%.2f", m.SteadyError, maxSteadyError)
@@ -84,6 +127,7 @@ func TestDisturbanceStep(t *testing.T) {
 // overshoot the setpoint by less than the step limit.
 func TestAntiWindup(t *testing.T) {
 	sc := DisturbanceStep()
+	sc.NoiseSD = 0
 	sc.Setpoint = func(int) float64 { return 20 }
 	sc.Outdoor = func(k int) float64 {
 		if k >= stepAt && k < stepAt+120 {

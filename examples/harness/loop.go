@@ -2,27 +2,92 @@ package main
 
 import (
 	"fmt"
-	"math/rand/v2"
 
+	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
-// Process is the simulated greenhouse: air temperature (degC) from valve
-// opening (%) and outdoor temperature (degC), with ARMA noise drawn from
-// a seeded generator.
+// PlantSpec is the process under test: the greenhouse air temperature
+// (degC) from the valve opening (%) and the outdoor temperature (degC),
+// as identified from data (here the demo's true model). Put your own
+// identified spec here.
+const PlantSpec = "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + 0.05 / (1 - 0.9 B) B outdoor + (1 + 0.3 B) / (1 - 0.8 B) a; every 1 min"
+
+// NoiseSD is the standard deviation of the innovations a_t of the
+// plant's noise term (degC), as estimated with the model.
+const NoiseSD = 0.03
+
+// PlantSettleBand is how far (degC) the noisy plant wanders from a
+// steady setpoint: about 3 standard deviations of the noise term
+// (1 + 0.3 B)/(1 - 0.8 B) a with sd(a) = NoiseSD, whose own standard
+// deviation is 2.09 NoiseSD (from the ARMA(1,1) variance formula).
+const PlantSettleBand = 0.2
+
+// Process is the simulated plant: a streaming tf.System built from
+// PlantSpec with seeded noise, plus the model's numbers the tests need.
 type Process struct {
-	c       float64
-	valve   *tf.Plant
-	outdoor *tf.Plant
-	noise   *tf.Plant
-	sigma   float64
-	rng     *rand.Rand
+	sys   *tf.System
+	model tf.Model
+	gains []float64 // steady-state gain of each input path
+	c     float64
+}
+
+// NewProcess parses PlantSpec and returns the process at the steady
+// state of the inputs u0 (valve %, outdoor degC; nil for rest), its
+// noise of innovation standard deviation sd (degC, 0 for none) drawn from
+// seed after a burn-in.
+func NewProcess(seed uint64, sd float64, u0 []float64) (*Process, error) {
+	m, err := parse.Model(PlantSpec)
+	if err != nil {
+		return nil, err
+	}
+	p := &Process{model: m}
+	if m.Const != nil {
+		p.c = m.Const.Value
+	}
+	for _, in := range m.Inputs {
+		r, err := in.Rational()
+		if err != nil {
+			return nil, err
+		}
+		g, err := r.Gain()
+		if err != nil {
+			return nil, fmt.Errorf("harness: input %s: %w", in.Series, err)
+		}
+		p.gains = append(p.gains, g)
+	}
+	set := &tf.SimSettings{Seed1: seed, Seed2: 1, Sigma: sd}
+	if sd > 0 {
+		set.BurnIn = 500
+	}
+	if p.sys, err = tf.NewSystem(m, set); err != nil {
+		return nil, err
+	}
+	if u0 != nil {
+		if err := p.sys.SetSteady(u0); err != nil {
+			return nil, err
+		}
+	}
+	return p, nil
 }
 
 // Step applies the valve opening and outdoor temperature of the current
 // minute and returns the air temperature of that minute.
 func (p *Process) Step(valve, outdoor float64) float64 {
-	return p.c + p.valve.Step(valve) + p.outdoor.Step(outdoor) + p.noise.Step(p.sigma*p.rng.NormFloat64())
+	return p.sys.Step([]float64{valve, outdoor})
+}
+
+// Steady returns the noise-free steady-state temperature for constant
+// inputs.
+func (p *Process) Steady(valve, outdoor float64) float64 {
+	return p.c + p.gains[0]*valve + p.gains[1]*outdoor
+}
+
+// ValveFor returns the valve opening that holds temp at sp with the
+// outdoor temperature out, by the model's gains (it may lie outside
+// 0..100 % when the heating cannot do it).
+func (p *Process) ValveFor(sp, out float64) float64 {
+	return (sp - p.c - p.gains[1]*out) / p.gains[0]
 }
 
 // Scenario is one closed-loop test.
@@ -33,8 +98,10 @@ type Scenario struct {
 	// temperature (degC) at minute k.
 	Setpoint func(k int) float64
 	Outdoor  func(k int) float64
-	// Seed seeds the process noise.
-	Seed uint64
+	// Seed seeds the process noise and NoiseSD is the standard deviation
+	// of its innovations (degC); zero NoiseSD gives a noise-free run.
+	Seed    uint64
+	NoiseSD float64
 }
 
 // Controller is what the harness tests: anything that, once a minute,
@@ -56,7 +123,7 @@ type Trace struct {
 // minute 0; the controller should start at u0 too. The valve is clamped
 // to 0..100 % whatever the controller asks (the actuator's travel).
 func Run(sc Scenario, c Controller, u0 float64) (Trace, error) {
-	p, err := newProcess(sc.Outdoor(0), u0, sc.Seed)
+	p, err := NewProcess(sc.Seed, sc.NoiseSD, []float64{u0, sc.Outdoor(0)})
 	if err != nil {
 		return Trace{}, err
 	}
@@ -66,7 +133,7 @@ func Run(sc Scenario, c Controller, u0 float64) (Trace, error) {
 		Valve:    make([]float64, sc.Minutes),
 		Outdoor:  make([]float64, sc.Minutes),
 	}
-	y := steadyTemp(u0, sc.Outdoor(0))
+	y := p.Steady(u0, sc.Outdoor(0))
 	for k := range sc.Minutes {
 		sp := sc.Setpoint(k)
 		u := min(max(c.Update(sp, y), 0), 100)
@@ -77,37 +144,3 @@ func Run(sc Scenario, c Controller, u0 float64) (Trace, error) {
 	return tr, nil
 }
 
-func steadyTemp(u, out float64) float64 { return plantConst + plantValveGain*u + plantOutdoorGain*out }
-
-// The greenhouse model as identified from the demo data would be used
-// here; the true one keeps the template self-contained.
-const (
-	plantConst       = 6.0
-	plantValveGain   = 0.2
-	plantOutdoorGain = 0.5
-	plantSigma       = 0.03
-)
-
-func newProcess(out0, u0 float64, seed uint64) (*Process, error) {
-	v, err := tf.NewRational([]float64{0.01}, []float64{1, -0.95}, 3)
-	if err != nil {
-		return nil, err
-	}
-	o, err := tf.NewRational([]float64{0.05}, []float64{1, -0.9}, 1)
-	if err != nil {
-		return nil, err
-	}
-	n, err := tf.NewRational([]float64{1, 0.3}, []float64{1, -0.8}, 0)
-	if err != nil {
-		return nil, err
-	}
-	p := &Process{c: plantConst, valve: tf.NewPlant(v), outdoor: tf.NewPlant(o), noise: tf.NewPlant(n),
-		sigma: plantSigma, rng: rand.New(rand.NewPCG(seed, 1))}
-	if err := p.valve.SetSteady(u0); err != nil {
-		return nil, fmt.Errorf("harness: %w", err)
-	}
-	if err := p.outdoor.SetSteady(out0); err != nil {
-		return nil, fmt.Errorf("harness: %w", err)
-	}
-	return p, nil
-}

@@ -24,7 +24,7 @@ const (
 // 60, outdoor steady at 2 degC.
 func SetpointStep() Scenario {
 	return Scenario{
-		Name: "setpoint step 16 -> 20 degC", Minutes: 360, Seed: 1,
+		Name: "setpoint step 16 -> 20 degC", Minutes: 360, Seed: 1, NoiseSD: NoiseSD,
 		Setpoint: func(k int) float64 {
 			if k < 60 {
 				return 16
@@ -39,7 +39,7 @@ func SetpointStep() Scenario {
 // to -4 degC at minute 60 while the setpoint stays at 18 degC.
 func DisturbanceStep() Scenario {
 	return Scenario{
-		Name: "outdoor step 4 -> -4 degC", Minutes: 360, Seed: 2,
+		Name: "outdoor step 4 -> -4 degC", Minutes: 360, Seed: 2, NoiseSD: NoiseSD,
 		Setpoint: func(int) float64 { return 18 },
 		Outdoor: func(k int) float64 {
 			if k < 60 {
@@ -51,9 +51,13 @@ func DisturbanceStep() Scenario {
 }
 
 // steadyValve is the valve opening that holds temp at sp with outdoor
-// temperature out, by the model's gains.
+// temperature out, by the plant model's gains.
 func steadyValve(sp, out float64) float64 {
-	return (sp - plantConst - plantOutdoorGain*out) / plantValveGain
+	p, err := NewProcess(0, 0, nil)
+	if err != nil {
+		panic(err) // PlantSpec is a constant: a programmer error
+	}
+	return p.ValveFor(sp, out)
 }
 
 // newPI returns the controller under test, starting at valve u0 (%).
