@@ -31,7 +31,7 @@ const (
 	maxRecovery      = 120.0
 	settleBand       = 0.05 // degC, noise-free runs
 	noisyRuns        = 20
-	stepAt           = 60  // minute of the step in both scenarios
+	stepAt           = 60 // minute of the step in both scenarios
 	setpointBefore   = 16.0
 	setpointAfter    = 20.0
 	disturbedSetting = 18.0

@@ -143,4 +143,3 @@ func Run(sc Scenario, c Controller, u0 float64) (Trace, error) {
 	}
 	return tr, nil
 }
-
