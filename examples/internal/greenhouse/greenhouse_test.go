@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/parse"
 )
 
 func TestGenerateDeterministic(t *testing.T) {
@@ -140,5 +141,15 @@ func TestPathNumbers(t *testing.T) {
 	}
 	if tc := True.Valve.TimeConstant(); math.Abs(tc-19.5) > 0.05 {
 		t.Errorf("valve time constant %v min", tc)
+	}
+}
+
+func TestTrueSpecIsTheTypedModel(t *testing.T) {
+	m, err := parse.Model(TrueSpec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !m.Equal(True.Model()) {
+		t.Errorf("TrueSpec parses to\n%v\nbut the typed truth prints as\n%v", m, True.Model())
 	}
 }

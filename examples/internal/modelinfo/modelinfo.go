@@ -97,9 +97,9 @@ func Write(w io.Writer, m tf.Model) error {
 		fmt.Fprintf(w, "    dead time        %s\n", span(float64(p.DeadTime), float64(p.DeadTime)*iv, unit))
 		for _, md := range p.Modes {
 			switch md.Kind {
-			case "real":
+			case tf.ModeReal:
 				fmt.Fprintf(w, "    time constant    %s (pole %.4f)\n", span(md.TimeConstant.Samples, md.TimeConstant.Time, unit), real(md.Pole))
-			case "complex":
+			case tf.ModeComplex:
 				wn := md.NaturalFrequency
 				wu := "rad/sample"
 				if iv > 0 {
