@@ -94,6 +94,13 @@ type Result struct {
 	// J'J is singular.
 	Names      []string
 	Est, SE, T []float64
+	// SEHessian are standard errors from the observed Hessian of the sum
+	// of squares, sqrt(diag(Sigma2 (J'J + sum_t a_t d^2 a_t)^-1)), which
+	// differs from SE when the second-derivative term matters (MA
+	// coefficients, small samples). NaN when that matrix is not positive
+	// definite. R's arima(method = "CSS") reports these (from a numerical
+	// Hessian) scaled by sqrt(NUsed/(N - D - SD*Period)).
+	SEHessian []float64
 	// Cov and Corr are the covariance and correlation matrices of Est
 	// (nil when J'J is singular).
 	Cov, Corr *mat.SymDense
@@ -457,6 +464,22 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			}
 		}
 	}
+	res.SEHessian = make([]float64, np)
+	for k := range res.SEHessian {
+		res.SEHessian[k] = math.NaN()
+	}
+	if h, ok := e.hessian(lres.X); ok {
+		var c mat.Cholesky
+		if c.Factorize(h) {
+			inv := mat.NewSymDense(np, nil)
+			if c.InverseTo(inv) == nil {
+				for k := range res.SEHessian {
+					res.SEHessian[k] = math.Sqrt(res.Sigma2 * inv.At(k, k))
+				}
+			}
+		}
+	}
+	e.set(lres.X)
 	nu := float64(e.m)
 	res.K = np + 1
 	res.LogLik = -nu / 2 * (math.Log(2*math.Pi*res.Sigma2) + 1)

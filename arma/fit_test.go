@@ -135,6 +135,17 @@ func TestFitCSSR(t *testing.T) {
 			t.Errorf("%s: sigma2 %.15g, want %.15g", ref.Name, res.Sigma2, ref.Sigma2Tight[0])
 		}
 		checkSlice(t, ref.Name+" SE vs Gauss-Newton", inR(res, ref, true), floats(ref.SEGN), 1e-5, 0)
+		// R's own SEs come from optim's numerical Hessian (step 1e-3) of
+		// 0.5 log(SSQ/nu), scaled by n.used = n - d - D s: compare our
+		// analytic-Hessian SEs, rescaled to that convention, within 1e-4
+		// relative (observed differences up to 6e-5: the accuracy of a
+		// difference Hessian with that step).
+		hse := inR(&Result{Names: res.Names, SE: res.SEHessian}, ref, true)
+		nUsed := float64(n - ref.DD - ref.SD*ref.Period)
+		for i := range hse {
+			hse[i] *= math.Sqrt(float64(res.NUsed) / nUsed)
+		}
+		checkSlice(t, ref.Name+" Hessian SE vs R", hse, floats(ref.SER), 1e-4, 0)
 		// Residual recursion at R's coefficients (all held by Fixed):
 		// R's residuals to 1e-10 of their scale.
 		fixed := Options{X: opt.X, Mean: opt.Mean, Fixed: map[string]float64{}}
