@@ -29,6 +29,14 @@ type IdentifySettings struct {
 	// Penalty is the score added per free coefficient when ranking the
 	// forms; zero means 2 (the AIC weight).
 	Penalty float64
+	// MinFraction is the smallest |v_k|, as a fraction of the largest
+	// |v_k| over all lags, that the dead-time rule accepts as the start
+	// of the response; zero means 0.1, a negative value means no such
+	// bound. In long records tiny weights are statistically significant
+	// although negligible (in closed-loop data a small bias at the lags
+	// before the dead time is typical); this keeps them from being read
+	// as the dead time.
+	MinFraction float64
 	// InputDiff is the differencing applied to the input before the
 	// weights were estimated, ascending powers of B with fixed numbers
 	// ({1, -1} for 1 - B); the spec texts then read the input as
@@ -149,7 +157,16 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 			v[k] = w.V[k] - off
 		}
 	}
-	b, err := deadTime(v, w.SE, set.Level)
+	frac := set.MinFraction
+	switch {
+	case frac == 0:
+		frac = 0.1
+	case frac < 0:
+		frac = 0
+	case frac >= 1 || math.IsNaN(frac):
+		return nil, &ArgError{Arg: "IdentifySettings.MinFraction", Value: strconv.FormatFloat(frac, 'g', -1, 64), Want: "below 1"}
+	}
+	b, err := deadTime(v, w.SE, set.Level, frac)
 	if err != nil {
 		e := err.(*NoResponseError)
 		e.Input = name
@@ -195,8 +212,13 @@ func orderBound(m int) int {
 
 // deadTime applies the dead-time rule of IdentifySettings.Level to the
 // weights' t-ratios.
-func deadTime(v, se []float64, level float64) (int, error) {
+func deadTime(v, se []float64, level, frac float64) (int, error) {
 	z := normalQuantile((1 + level) / 2)
+	vmax := 0.0
+	for _, x := range v {
+		vmax = math.Max(vmax, math.Abs(x))
+	}
+	small := frac * vmax
 	zStrong := normalQuantile(1 - (1-level)/20)
 	z95 := normalQuantile(0.975)
 	best, bestLag := 0.0, 0
@@ -205,14 +227,14 @@ func deadTime(v, se []float64, level float64) (int, error) {
 		if t > best {
 			best, bestLag = t, k
 		}
-		if t <= z {
+		if t <= z || math.Abs(v[k]) < small {
 			continue
 		}
 		if t > zStrong {
 			return k, nil
 		}
 		for j := k + 1; j <= k+2 && j < len(v); j++ {
-			if math.Abs(v[j]/se[j]) > z95 {
+			if math.Abs(v[j]/se[j]) > z95 && math.Abs(v[j]) >= small {
 				return k, nil
 			}
 		}
