@@ -37,7 +37,8 @@ type StepInfo struct {
 	Final float64
 	// Rise is the 10 % to 90 % rise time: from the first crossing of 10 %
 	// of Final to the first crossing of 90 %; NaN when 90 % is not reached
-	// within the horizon.
+	// within the horizon. A level already reached at sample 0 (direct
+	// feedthrough) counts as crossed at 0.
 	Rise Span
 	// Settling is the time after which the response stays within
 	// Band*|Final| of Final until the end of the horizon; NaN when the

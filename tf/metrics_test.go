@@ -141,3 +141,59 @@ func TestBIBOFirstOrder(t *testing.T) {
 		}
 	}
 }
+
+// TestModeKinds classifies poles chosen by hand.
+func TestModeKinds(t *testing.T) {
+	// Denominator (1 - B)(1 + 0.5 B)(1 - 1.5 B) with poles 1, -0.5 and
+	// 1.5, multiplied out here.
+	den := []float64{1}
+	for _, z := range []float64{1, -0.5, 1.5} {
+		n := make([]float64, len(den)+1)
+		for k, v := range den {
+			n[k] += v
+			n[k+1] -= z * v
+		}
+		den = n
+	}
+	r := tf.MustRational([]float64{1}, den, 0)
+	modes, err := r.Modes(0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	kinds := map[tf.ModeKind]int{}
+	for _, m := range modes {
+		kinds[m.Kind]++
+	}
+	if kinds[tf.ModeIntegrator] != 1 || kinds[tf.ModeAlternating] != 1 || kinds[tf.ModeUnstable] != 1 || len(modes) != 3 {
+		t.Errorf("modes %+v", modes)
+	}
+	// A pure FIR term has no modes.
+	fir := tf.MustRational([]float64{0.25, 0.25, 0.25, 0.25}, []float64{1}, 0)
+	if m, _ := fir.Modes(1); len(m) != 0 {
+		t.Errorf("FIR modes %+v", m)
+	}
+	// Step metrics of the FIR moving average: reaches 1 at sample 3, no
+	// overshoot, settled (within 2 %) from sample 3 on, interpolated
+	// entry between samples 2 (0.75) and 3 (1.0): 2 + (0.25-0.02)/0.25.
+	info, err := fir.StepMetrics(tf.StepOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(info.Settling.Samples-(2+0.23/0.25)) > 1e-12 || info.Overshoot != 0 || info.PeakTime.Samples != 3 {
+		t.Errorf("FIR step info %+v", info)
+	}
+	// 10 % is already exceeded at sample 0 (0.25, direct feedthrough),
+	// which counts as a crossing at 0; 90 % is crossed between samples 2
+	// (0.75) and 3 (1.0).
+	t10 := 0.0
+	t90 := 2 + (0.9-0.75)/0.25
+	if math.Abs(info.Rise.Samples-(t90-t10)) > 1e-12 {
+		t.Errorf("FIR rise %v, want %v", info.Rise.Samples, t90-t10)
+	}
+	// A horizon too short to settle reports NaN settling.
+	slow := tf.MustRational([]float64{0.01}, []float64{1, -0.99}, 0)
+	short, err := slow.StepMetrics(tf.StepOptions{Horizon: 50})
+	if err != nil || !math.IsNaN(short.Settling.Samples) || !math.IsNaN(short.Rise.Samples) {
+		t.Errorf("short horizon: %+v, %v", short, err)
+	}
+}
