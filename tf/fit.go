@@ -33,6 +33,10 @@ type FitSettings struct {
 	// residuals, which leaves the estimates within about 1e-8 N standard
 	// errors of the minimum (and near the rounding level of the sum).
 	Tol float64
+	// ZeroPreSample takes inputs without differencing as zero before
+	// their first sample instead of held at it (see Fit), the textbook
+	// convention for inputs that vary about zero.
+	ZeroPreSample bool
 	// IgnoreExtra accepts data holding series the model does not use.
 	// By default such series are an error (ExtraSeries), because they
 	// usually mean a misspelt input name.
@@ -117,9 +121,16 @@ type Estimate struct {
 //	n_t   = w_t - c - sum_i u_i,t
 //	a_t   = phi(B)/theta(B) n_t.
 //
-// The input filters run from index 0 with z_i,t = 0 before index d_i
-// (the degree of D_i) and u_i,t = 0 before the start (zero pre-sample
-// values after differencing). n_t is used from NoiseStart = max(d,
+// The input filters run from index 0. An input without differencing is
+// taken as held at its first value x_i,0 before the record, with u_i at
+// its steady state omega_i(1)/delta_i(1) x_i,0 (the process settled at
+// the input's first level, so that an input far from zero gives no
+// start-up transient): u_i = omega_i/delta_i B^b_i (x_i - x_i,0) from
+// rest plus omega_i(1)/delta_i(1) x_i,0. A differenced input z_i (which
+// varies about zero) is taken as zero before index d_i, the degree of
+// D_i, with u_i zero before the start (zero pre-sample values after
+// differencing). FitSettings.ZeroPreSample takes every input as zero
+// before its record. n_t is used from NoiseStart = max(d,
 // max_i(d_i + b_i + s_i)), where d is the degree of D and s_i that of
 // omega_i, so that every numerator sees only real data. The noise
 // recursion theta(B) a_t = phi(B) n_t starts at First = NoiseStart + p
@@ -141,7 +152,9 @@ type Estimate struct {
 //	theta:    d a_t = -g_k(B)/theta(B) a_t                    (from theta a = phi n)
 //
 // with the same conditioning (derivatives zero before First, the
-// moving-average recursion started at First). The sums of contributions
+// moving-average recursion started at First); the steady pre-sample
+// level adds the constants -g_k(1)/delta_i(1) z_i,d_i (numerator) and
+// +omega_i(1) g_k(1)/delta_i(1)^2 z_i,d_i (denominator) to d n_t. The sums of contributions
 // give each Jacobian column; all are computed with the recursive filter
 // kernel without allocation per sample.
 //
@@ -194,6 +207,9 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 type fitInput struct {
 	in         *Input    // into the working model clone
 	x          []float64 // the input as given (not modified)
+	zc         []float64 // z - z0 from index d on, 0 before
+	z0         float64   // pre-sample level of z: x_0 without differencing, else 0
+	gain       float64   // omega(1)/delta(1) at the current values
 	z          []float64
 	s, u, q    []float64
 	numC, denC []float64
@@ -367,6 +383,13 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		fi := &w.ins[i]
 		fi.x = data[fi.in.Series]
 		fi.z = fitDiff(fi.x, fi.in.Diff.Coeffs())
+		fi.zc = make([]float64, n)
+		if !set.ZeroPreSample && fi.d == 0 && n > 0 {
+			fi.z0 = fi.z[fi.d]
+		}
+		for t := fi.d; t < n; t++ {
+			fi.zc[t] = fi.z[t] - fi.z0
+		}
 		fi.s = make([]float64, n)
 		fi.u = make([]float64, n)
 		ext := fi.in.Num.Degree() + fi.in.Den.Degree()
@@ -455,14 +478,18 @@ func (w *fitWork) noiseSeries() {
 		clear(fi.s[:min(b, n)])
 		if b < n {
 			if fitIsOne(fi.denC) {
-				copy(fi.s[b:], fi.z[:n-b])
+				copy(fi.s[b:], fi.zc[:n-b])
 			} else {
-				filter.Run(fi.s[b:], fitOne, fi.denC, fi.z[:n-b])
+				filter.Run(fi.s[b:], fitOne, fi.denC, fi.zc[:n-b])
 			}
 		}
 		fitFIR(fi.u, fi.numC, fi.s, 0, false)
 		if fi.denFree {
 			filter.Run(fi.q, fitOne, fi.denC, fi.u)
+		}
+		fi.gain = 0
+		if fi.z0 != 0 {
+			fi.gain = fitSum(fi.numC) / fitSum(fi.denC)
 		}
 	}
 	c := 0.0
@@ -476,8 +503,9 @@ func (w *fitWork) noiseSeries() {
 	}
 	for i := range w.ins {
 		u := w.ins[i].u[ts:n]
+		off := w.ins[i].gain * w.ins[i].z0
 		for t := range nn {
-			nn[t] -= u[t]
+			nn[t] -= u[t] + off
 		}
 	}
 }
@@ -549,9 +577,29 @@ func (w *fitWork) jacobian(jac [][]float64) {
 			dst = w.scratchN(len(col))
 		}
 		first := true
+		// kappa is the constant part of d n_t: -1 for the constant and,
+		// for a steady pre-sample level z0, the derivative of
+		// -omega(1)/delta(1) z0.
+		kappa := 0.0
 		if w.m.Const != nil && w.idx(w.m.Const.Name) == k {
+			kappa = -1
+		}
+		for i := range w.ins {
+			fi := &w.ins[i]
+			if fi.z0 == 0 {
+				continue
+			}
+			d1 := fitSum(fi.denC)
+			if g := fi.numD[k]; g != nil {
+				kappa -= fitSum(g) * fi.z0 / d1
+			}
+			if g := fi.denD[k]; g != nil {
+				kappa += fi.gain * fitSum(g) * fi.z0 / d1
+			}
+		}
+		if kappa != 0 {
 			for t := range dst {
-				dst[t] = -phi1
+				dst[t] = kappa * phi1
 			}
 			first = false
 		}
@@ -591,6 +639,14 @@ func (w *fitWork) scratchN(m int) []float64 {
 		w.scratch = make([]float64, m)
 	}
 	return w.scratch[:m]
+}
+
+func fitSum(c []float64) float64 {
+	s := 0.0
+	for _, v := range c {
+		s += v
+	}
+	return s
 }
 
 func fitNeg(g []float64) []float64 {

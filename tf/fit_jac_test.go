@@ -42,7 +42,13 @@ func TestFitJacobianFiniteDifference(t *testing.T) {
 			data[k][i] = rng.NormFloat64() + 0.01*float64(i)
 		}
 	}
-	w, err := fitPrepare(fitJacModel(), data, FitSettings{})
+	for _, zero := range []bool{false, true} {
+		fitJacCheck(t, data, FitSettings{ZeroPreSample: zero})
+	}
+}
+
+func fitJacCheck(t *testing.T, data map[string][]float64, set FitSettings) {
+	w, err := fitPrepare(fitJacModel(), data, set)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -76,7 +82,7 @@ func TestFitJacobianFiniteDifference(t *testing.T) {
 		for i := range r {
 			fd := (rp[i] - rm[i]) / (2 * h)
 			if math.Abs(fd-jac[k][i]) > 1e-6*math.Max(scale, 1) {
-				t.Fatalf("%s: residual %d: analytic %v, finite difference %v", name, i, jac[k][i], fd)
+				t.Fatalf("%s (zero pre-sample %v): residual %d: analytic %v, finite difference %v", name, set.ZeroPreSample, i, jac[k][i], fd)
 			}
 		}
 	}

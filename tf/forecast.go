@@ -67,7 +67,8 @@ type Forecast struct {
 // Forecast returns h-step forecasts of the output from the end of data
 // (the series of the fit, or newer data with the same series; residuals
 // are recomputed from data with the estimates and the fit's
-// conditioning). Inputs whose future is given in s.Future are used as
+// conditioning, including the steady pre-sample level of each input
+// taken from the first sample of data). Inputs whose future is given in s.Future are used as
 // known; the others are forecast from their own ARMA models and their
 // forecast errors enter the variance.
 //
@@ -196,6 +197,9 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		fc.Inputs = append(fc.Inputs, ifc)
 		// u over the extended series with the fitted filter, as in Fit.
 		ze := fitDiff(xe, dx)
+		for t := fi.d; t < L; t++ {
+			ze[t] -= fi.z0
+		}
 		se := make([]float64, L)
 		if in.Delay < L {
 			filter.Run(se[in.Delay:], fitOne, fi.denC, ze[:L-in.Delay])
@@ -203,7 +207,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		ue := make([]float64, L)
 		fitFIR(ue, fi.numC, se, 0, false)
 		for j := 0; j < h; j++ {
-			what[j] += ue[n+j]
+			what[j] += ue[n+j] + fi.gain*fi.z0
 		}
 	}
 	// Noise forecast: phi(B) n_t = theta(B) a_t, future a = 0.

@@ -21,8 +21,11 @@ prewhitened by a Yule-Walker autoregression with AIC order choice
 (Durbin-Levinson written here with numpy), df K + 1 - (r + s + 1).
 
 Conditioning (the same as tf.Fit, written independently here):
-  w_t = D(B) y_t for t >= d (zero before), z_i,t = D_i(B) x_i,t (zero before d_i);
-  u_i = omega_i/delta_i applied to B^b_i z_i by lfilter with zero initial state;
+  w_t = D(B) y_t for t >= d (zero before), z_i,t = D_i(B) x_i,t for t >= d_i;
+  an input without differencing is held at its first value z0 = x_i,0 before
+  the record (the process settled at the input's first level), a differenced
+  one is zero before (z0 = 0): u_i = lfilter(omega_i, delta_i, B^b_i (z_i - z0))
+  from rest plus omega_i(1)/delta_i(1) z0;
   n_t = w_t - c - sum_i u_i,t used from ts = max(d, max_i d_i + b_i + s_i);
   a_t = 0 for t < t0 = ts + p; for t >= t0, theta(B) a_t = phi(B) n_t with the
   actual n_{t-1..t-p} and a pre-sample of zeros.
@@ -93,6 +96,22 @@ def diffed(x, p):
     return w
 
 
+def input_term(inp, x, par):
+    """u = omega/delta B^b z. An input without differencing is held at its
+    first value z0 before the record: omega/delta B^b (z - z0) from rest
+    plus omega(1)/delta(1) z0; a differenced one is zero before (z0 = 0)."""
+    d = degree(inp["diff"])
+    z = diffed(x, inp["diff"])
+    z0 = z[0] if d == 0 else 0.0
+    zc = z - z0
+    zc[:d] = 0.0
+    b = inp["delay"]
+    n = len(x)
+    zb = np.concatenate([np.zeros(b), zc[: n - b]])
+    num, den = coeffs(inp["num"], par), coeffs(inp["den"], par)
+    return lfilter(num, den, zb) + num.sum() / den.sum() * z0
+
+
 def conditioning(model):
     ts = degree(model["diff"])
     for inp in model["inputs"]:
@@ -108,10 +127,7 @@ def residuals(model, data, par, want_noise=False):
     if model["const"]:
         nn = nn - par[model["const"]]
     for inp in model["inputs"]:
-        z = diffed(data[inp["series"]], inp["diff"])
-        b = inp["delay"]
-        zb = np.concatenate([np.zeros(b), z[: n - b]])
-        nn = nn - lfilter(coeffs(inp["num"], par), coeffs(inp["den"], par), zb)
+        nn = nn - input_term(inp, data[inp["series"]], par)
     phi = coeffs(model["ar"], par)
     theta = coeffs(model["ma"], par)
     v = np.zeros(n - t0)
@@ -133,10 +149,7 @@ def forecast(model, hist, future, par, sigma2, h):
     what = np.full(h, par[model["const"]] if model["const"] else 0.0)
     for inp in model["inputs"]:
         xe = np.concatenate([hist[inp["series"]], future[inp["series"]][:h]])
-        z = diffed(xe, inp["diff"])
-        b = inp["delay"]
-        zb = np.concatenate([np.zeros(b), z[: L - b]])
-        what += lfilter(coeffs(inp["num"], par), coeffs(inp["den"], par), zb)[n:]
+        what += input_term(inp, xe, par)[n:]
     phi = coeffs(model["ar"], par)
     theta = coeffs(model["ma"], par)
     ne = np.zeros(L)

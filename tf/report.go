@@ -1,0 +1,158 @@
+package tf
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// String returns a plain-text report of the fit for people: the fitted
+// model as a spec (which package parse reads back, estimates as start
+// values), the conditioning, a table of estimates with standard errors
+// and t ratios, the fit statistics, the correlations of the estimates,
+// for each input its dead time, poles, zeros and steady-state gain, and
+// the warnings. Numbers are rounded for reading; the fields of Estimate
+// hold full precision.
+func (e *Estimate) String() string {
+	var b strings.Builder
+	n := e.N + e.Conditioning.First
+	fmt.Fprintf(&b, "Fit of %s by conditional least squares\n", e.Model.Output)
+	fmt.Fprintf(&b, "  spec:       %s\n", e.Model.String())
+	fmt.Fprintf(&b, "  data:       %d samples; residuals summed from index %d (N = %d)\n", n, e.Conditioning.First, e.N)
+	status := "converged"
+	if !e.Converged {
+		status = "NOT converged"
+	}
+	fmt.Fprintf(&b, "  optimiser:  %s after %d iterations (%d evaluations, %d start points screened)\n",
+		status, e.Iter, e.Evals, e.StartsTried)
+	fmt.Fprintf(&b, "              %s\n\n", e.Reason)
+	w := 9
+	for _, p := range e.Params {
+		w = max(w, len(p.Name))
+	}
+	fmt.Fprintf(&b, "  %-*s  %12s  %10s  %8s\n", w, "parameter", "estimate", "std error", "t")
+	for _, p := range e.Params {
+		fmt.Fprintf(&b, "  %-*s  %12s  %10s  %8s\n", w, p.Name, fitNum(p.Value, 5), fitNum(p.SE, 3), fitFixed(p.T, 2))
+	}
+	fmt.Fprintf(&b, "\n  residual variance sigma^2 = %s (SSQ %s over N - k = %d)\n", fitNum(e.Sigma2, 5), fitNum(e.SSQ, 6), e.N-len(e.Params))
+	fmt.Fprintf(&b, "  conditional log-likelihood %s   AIC %s   BIC %s\n", fitFixed(e.LogLik, 2), fitFixed(e.AIC, 2), fitFixed(e.BIC, 2))
+	if len(e.Params) > 1 {
+		b.WriteString("\n  correlations of the estimates\n")
+		for i := 1; i < len(e.Params); i++ {
+			fmt.Fprintf(&b, "  %-*s", w, e.Params[i].Name)
+			for j := 0; j < i; j++ {
+				fmt.Fprintf(&b, " %6s", fitFixed(e.Corr[i][j], 2))
+			}
+			b.WriteByte('\n')
+		}
+		fmt.Fprintf(&b, "  %-*s", w, "")
+		for j := 0; j < len(e.Params)-1; j++ {
+			fmt.Fprintf(&b, " %6s", fitTrunc(e.Params[j].Name, 6))
+		}
+		b.WriteByte('\n')
+	}
+	for _, in := range e.Model.Inputs {
+		fmt.Fprintf(&b, "\n  input %s: dead time %d samples", in.Series, in.Delay)
+		if e.Model.Interval.Value > 0 {
+			fmt.Fprintf(&b, " (%s %s)", fitNum(float64(in.Delay)*e.Model.Interval.Value, 4), e.Model.Interval.Unit)
+		}
+		b.WriteByte('\n')
+		poles := fitZRoots(in.Den.Coeffs())
+		zeros := fitZRoots(in.Num.Coeffs())
+		fmt.Fprintf(&b, "    poles (z): %s\n", fitRoots(poles))
+		fmt.Fprintf(&b, "    zeros (z): %s\n", fitRoots(zeros))
+		if r, err := in.Rational(); err == nil {
+			if g, err := r.Gain(); err == nil {
+				fmt.Fprintf(&b, "    steady-state gain of the (differenced) input term: %s\n", fitNum(g, 4))
+			} else {
+				fmt.Fprintf(&b, "    steady-state gain: none (%v)\n", err)
+			}
+		}
+	}
+	if e.Model.Noise != nil && !e.Model.Noise.IsWhite() {
+		fmt.Fprintf(&b, "\n  noise: AR roots (z) %s; MA roots (z) %s\n",
+			fitRoots(fitZRoots(e.Model.Noise.AR.Coeffs())), fitRoots(fitZRoots(e.Model.Noise.MA.Coeffs())))
+	}
+	if len(e.Warnings) == 0 {
+		b.WriteString("\n  warnings: none\n")
+	} else {
+		b.WriteString("\n  warnings:\n")
+		for _, wr := range e.Warnings {
+			fmt.Fprintf(&b, "    - %s\n", wr.Message)
+		}
+	}
+	return b.String()
+}
+
+// String returns a plain-text report of the checks with their verdicts.
+func (d *Diagnostics) String() string {
+	var b strings.Builder
+	verdict := func(ok bool) string {
+		if ok {
+			return "pass"
+		}
+		return "FAIL"
+	}
+	fmt.Fprintf(&b, "Diagnostic checks at the %s level: %s\n", fitNum(d.Alpha, 3), map[bool]string{true: "all pass", false: "some FAIL"}[d.Pass])
+	r := d.Residual
+	fmt.Fprintf(&b, "  residual autocorrelation, lags 1..%d: Ljung-Box Q = %s, df %d, p = %s  %s\n",
+		r.Lags, fitFixed(r.Q, 2), r.DF, fitNum(r.P, 3), verdict(r.Pass))
+	var big []string
+	for k, v := range r.ACF {
+		if math.Abs(v) > r.Band {
+			big = append(big, fmt.Sprintf("%d (%s)", k+1, fitFixed(v, 2)))
+		}
+	}
+	if len(big) > 0 {
+		fmt.Fprintf(&b, "    lags beyond -/+%s: %s\n", fitFixed(r.Band, 3), strings.Join(big, ", "))
+	}
+	for _, c := range d.Cross {
+		fmt.Fprintf(&b, "  residuals vs prewhitened %s (AR(%d) filter), lags 0..%d: S = %s, df %d, p = %s  %s\n",
+			c.Input, c.Prewhiten.Order(), c.Lags, fitFixed(c.S, 2), c.DF, fitNum(c.P, 3), verdict(c.Pass))
+		big = big[:0]
+		for k, v := range c.CCF {
+			if math.Abs(v) > c.Band {
+				big = append(big, fmt.Sprintf("%d (%s)", k, fitFixed(v, 2)))
+			}
+		}
+		if len(big) > 0 {
+			fmt.Fprintf(&b, "    lags beyond -/+%s: %s\n", fitFixed(c.Band, 3), strings.Join(big, ", "))
+		}
+	}
+	return b.String()
+}
+
+// fitNum formats v with sig significant digits.
+func fitNum(v float64, sig int) string {
+	if math.IsNaN(v) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(v, 'g', sig, 64)
+}
+
+// fitFixed formats v with dec decimals.
+func fitFixed(v float64, dec int) string {
+	if math.IsNaN(v) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(v, 'f', dec, 64)
+}
+
+func fitTrunc(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	return s[:n]
+}
+
+func fitRoots(zs []complex128) string {
+	if len(zs) == 0 {
+		return "none"
+	}
+	parts := make([]string, len(zs))
+	for i, z := range zs {
+		parts[i] = fitFmtC(z)
+	}
+	return strings.Join(parts, ", ")
+}
