@@ -247,6 +247,9 @@ type engine struct {
 	wx       [][]float64 // differenced free regressor columns
 	w        []float64   // scratch: current w - mu
 	one      []float64
+	// curvature scratch, allocated on first use
+	hr, hlam []float64
+	hjac     [][]float64
 }
 
 func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, differenced bool, opt *Options, ord *Order) (*Result, error) {
@@ -415,13 +418,70 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			return nil, &ArgError{Arg: "start", Msg: err.Error()}
 		}
 	}
-	e.set(lres.X)
+	// Newton polish with the exact Hessian (after convergence only): in
+	// flat valleys Gauss-Newton converges linearly; a Newton step lands on
+	// the minimum. Steps are kept while the sum of squares does not rise
+	// above its rounding floor. The last curvature gives the SEs.
+	x := append([]float64(nil), lres.X...)
+	f := lres.SSQ
+	var hess, jtj *mat.SymDense
+	if np > 0 {
+		floor := 10 * 0x1p-52 * math.Sqrt(float64(e.m))
+		trialR := make([]float64, e.m)
+		for it := 0; it < 4; it++ {
+			h, jj, g, fx, ok := e.curvature(x)
+			if !ok {
+				break
+			}
+			hess, jtj, f = h, jj, fx
+			if !lres.Reason.Converged() || it == 3 {
+				break
+			}
+			var c mat.Cholesky
+			if !c.Factorize(h) {
+				break
+			}
+			var dx mat.VecDense
+			if c.SolveVecTo(&dx, mat.NewVecDense(np, append([]float64(nil), g...))) != nil {
+				break
+			}
+			trial := make([]float64, np)
+			small := true
+			for k := range x {
+				d := -dx.AtVec(k)
+				trial[k] = x[k] + d
+				if math.Abs(d) > 1e-10*(math.Abs(x[k])+1e-10) {
+					small = false
+				}
+			}
+			if small {
+				break
+			}
+			if e.eval(trial, trialR, nil) != nil {
+				break
+			}
+			ft := dot(trialR, trialR)
+			if !(ft <= f*(1+floor)) {
+				break
+			}
+			x = trial
+		}
+	}
+	finalR := lres.Resid
+	if np > 0 {
+		finalR = make([]float64, e.m)
+		if err := e.eval(x, finalR, nil); err != nil {
+			x, finalR = lres.X, lres.Resid
+		}
+	}
+	f = dot(finalR, finalR)
+	e.set(x)
 	res.Noise = Noise{AR: e.ar, MA: e.ma}
 	res.AR = e.ar.Coeffs()
 	res.MA = e.ma.Coeffs()
-	res.Est = append([]float64(nil), lres.X...)
-	res.SSQ = lres.SSQ
-	res.Sigma2 = lres.SSQ / float64(e.m)
+	res.Est = x
+	res.SSQ = f
+	res.Sigma2 = f / float64(e.m)
 	res.Iter, res.Evals = lres.Iter, lres.Evals
 	res.Converged = lres.Reason.Converged()
 	res.Reason = lres.Reason.String()
@@ -430,29 +490,30 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	res.Model.Mean = e.mu
 	if e.kmu >= 0 {
-		res.Model.Mean = lres.X[e.kmu]
+		res.Model.Mean = x[e.kmu]
 	}
 	res.Model.Sigma2 = res.Sigma2
 	res.Beta = append([]float64(nil), e.beta...)
 	for k, b := range e.kb {
 		if b >= 0 {
-			res.Beta[k] = lres.X[b]
+			res.Beta[k] = x[b]
 		}
 	}
 	res.Resid = make([]float64, n)
 	for t := 0; t < e.t0; t++ {
 		res.Resid[t] = math.NaN()
 	}
-	copy(res.Resid[e.t0:], lres.Resid)
+	copy(res.Resid[e.t0:], finalR)
 	// Uncertainty.
 	res.SE = make([]float64, np)
 	res.T = make([]float64, np)
+	res.SEHessian = make([]float64, np)
 	for k := range res.SE {
-		res.SE[k], res.T[k] = math.NaN(), math.NaN()
+		res.SE[k], res.T[k], res.SEHessian[k] = math.NaN(), math.NaN(), math.NaN()
 	}
-	if lres.JTJInv != nil {
+	if inv := invSym(jtj); inv != nil {
 		res.Cov = mat.NewSymDense(np, nil)
-		res.Cov.ScaleSym(res.Sigma2, lres.JTJInv)
+		res.Cov.ScaleSym(res.Sigma2, inv)
 		res.Corr = mat.NewSymDense(np, nil)
 		for i := 0; i < np; i++ {
 			res.SE[i] = math.Sqrt(res.Cov.At(i, i))
@@ -464,22 +525,11 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			}
 		}
 	}
-	res.SEHessian = make([]float64, np)
-	for k := range res.SEHessian {
-		res.SEHessian[k] = math.NaN()
-	}
-	if h, ok := e.hessian(lres.X); ok {
-		var c mat.Cholesky
-		if c.Factorize(h) {
-			inv := mat.NewSymDense(np, nil)
-			if c.InverseTo(inv) == nil {
-				for k := range res.SEHessian {
-					res.SEHessian[k] = math.Sqrt(res.Sigma2 * inv.At(k, k))
-				}
-			}
+	if inv := invSym(hess); inv != nil {
+		for k := range res.SEHessian {
+			res.SEHessian[k] = math.Sqrt(res.Sigma2 * inv.At(k, k))
 		}
 	}
-	e.set(lres.X)
 	nu := float64(e.m)
 	res.K = np + 1
 	res.LogLik = -nu / 2 * (math.Log(2*math.Pi*res.Sigma2) + 1)
@@ -712,11 +762,7 @@ func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64
 	var cols [][]float64
 	var ks []int
 	if e.kmu >= 0 {
-		ones := make([]float64, len(w))
-		for i := range ones {
-			ones[i] = 1
-		}
-		cols = append(cols, ones)
+		cols = append(cols, nil) // the constant column, filled below if needed
 		ks = append(ks, e.kmu)
 	}
 	for k, b := range e.kb {
@@ -729,11 +775,22 @@ func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64
 	for i := range resid {
 		resid[i] -= e.mu // zero unless the mean is held at a value
 	}
-	if len(cols) > 0 && len(w) > len(cols) {
+	if len(cols) == 1 && e.kmu >= 0 {
+		// Mean only: the least-squares start is the average.
+		mu := meanOf(resid)
+		x0[e.kmu] = mu
+		for i := range resid {
+			resid[i] -= mu
+		}
+	} else if len(cols) > 0 && len(w) > len(cols) {
 		a := mat.NewDense(len(w), len(cols), nil)
 		for j, c := range cols {
-			for i, v := range c {
-				a.Set(i, j, v)
+			for i := range w {
+				if c == nil {
+					a.Set(i, j, 1)
+				} else {
+					a.Set(i, j, c[i])
+				}
 			}
 		}
 		var qr mat.QR
@@ -743,7 +800,11 @@ func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64
 			for j := range cols {
 				x0[ks[j]] = beta.AtVec(j)
 				for i := range resid {
-					resid[i] -= beta.AtVec(j) * cols[j][i]
+					if cols[j] == nil {
+						resid[i] -= beta.AtVec(j)
+					} else {
+						resid[i] -= beta.AtVec(j) * cols[j][i]
+					}
 				}
 			}
 		}
@@ -782,3 +843,20 @@ const hrMax = 20000
 
 // testEngineHook lets tests reach the engine of a fit (nil otherwise).
 var testEngineHook func(*engine)
+
+// invSym returns the inverse of a positive definite matrix, nil when a is
+// nil or not positive definite.
+func invSym(a *mat.SymDense) *mat.SymDense {
+	if a == nil {
+		return nil
+	}
+	var c mat.Cholesky
+	if !c.Factorize(a) {
+		return nil
+	}
+	inv := mat.NewSymDense(a.SymmetricDim(), nil)
+	if c.InverseTo(inv) != nil {
+		return nil
+	}
+	return inv
+}

@@ -94,7 +94,8 @@ func inR(r *Result, ref cssRef, se bool) []float64 {
 // Tolerances: our SSQ must not exceed R's tight SSQ by more than 1e-9
 // relative; estimates within 1e-4 relative of R's (the CSS objective is
 // flat near its minimum: R's BFGS stops where the SSQ has converged to
-// ~1e-12 relative but the coefficients only to ~1e-6); SEs within 1e-5
+// ~1e-12 relative but the coefficients only to ~1e-6) and within 1e-8 of
+// the script's Gauss-Newton polish of the same objective; SEs within 1e-5
 // relative of the Gauss-Newton reference sigma^2 (J'J)^-1 computed in the
 // script with J by central differences at the Gauss-Newton-polished
 // minimum (difference error ~1e-8); residuals to 1e-6 of their scale.
@@ -130,7 +131,16 @@ func TestFitCSSR(t *testing.T) {
 			t.Errorf("%s: start %d nused %d, want %d %d", ref.Name, res.Start, res.NUsed, ref.NCond, ref.NU)
 		}
 		checkSlice(t, ref.Name+" coef vs R tight", inR(res, ref, false), floats(ref.CoefTight), 1e-4, 0)
-		checkSlice(t, ref.Name+" coef vs Gauss-Newton polish", inR(res, ref, false), floats(ref.CoefGN), 1e-6, 0)
+		// Against the script's Gauss-Newton polish: 1e-8 relative, except
+		// for the trend fit (2e-7): there the script's difference Jacobian
+		// (step 1e-8 on the slope) meets residual rounding of a series at
+		// level 580, which moves its fixed point by ~1e-7 relative, while
+		// our gradient there is exact (its Newton step is below 1e-12).
+		gnTol := 1e-8
+		if ref.Xreg == "trend" {
+			gnTol = 2e-7
+		}
+		checkSlice(t, ref.Name+" coef vs Gauss-Newton polish", inR(res, ref, false), floats(ref.CoefGN), gnTol, 0)
 		if !closeTo(res.Sigma2, float64(ref.Sigma2Tight[0]), 1e-8, 0) {
 			t.Errorf("%s: sigma2 %.15g, want %.15g", ref.Name, res.Sigma2, ref.Sigma2Tight[0])
 		}

@@ -21,9 +21,15 @@ import (
 // factors of a product, or for powers) are taken by central differences
 // of Grad, exact for factors of degree <= 2 in each coefficient.
 func (e *engine) hessian(x []float64) (*mat.SymDense, bool) {
+	h, _, _, _, ok := e.curvature(x)
+	return h, ok
+}
+
+// curvature returns H, J'J, the gradient J'r and the sum of squares at x.
+func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f float64, ok bool) {
 	np := len(x)
 	if np == 0 {
-		return nil, false
+		return nil, nil, nil, 0, false
 	}
 	na := e.narma
 	// Second derivatives of the AR and MA polynomials by differences of
@@ -46,21 +52,25 @@ func (e *engine) hessian(x []float64) (*mat.SymDense, bool) {
 		d2th[k] = diffPolys(tp, tm, 2*h)
 	}
 	m := e.m
-	r := make([]float64, m)
-	jac := make([][]float64, np)
-	back := make([]float64, np*m)
-	for j := range jac {
-		jac[j] = back[j*m : (j+1)*m]
+	if e.hr == nil {
+		e.hr = make([]float64, m)
+		e.hlam = make([]float64, m)
+		e.hjac = make([][]float64, np)
+		back := make([]float64, np*m)
+		for j := range e.hjac {
+			e.hjac[j] = back[j*m : (j+1)*m]
+		}
 	}
+	r, jac := e.hr, e.hjac
 	if err := e.eval(x, r, jac); err != nil {
-		return nil, false
+		return nil, nil, nil, 0, false
 	}
 	phi, dphi := e.ar.Grad(e.lookup, na)
 	theta, dtheta := e.ma.Grad(e.lookup, na)
 	v := e.w
 	t0 := e.t0
 	// lambda = T^-T r: the MA filter run backwards in time.
-	lam := make([]float64, m)
+	lam := e.hlam
 	for i := range r {
 		lam[i] = r[m-1-i]
 	}
@@ -92,25 +102,40 @@ func (e *engine) hessian(x []float64) (*mat.SymDense, bool) {
 	}
 	// v_k: derivative of v with respect to a regression parameter k:
 	// -1 for the mean, -wx for a regressor (nil for ARMA parameters).
+	// (full() of a constant -1 is -sum(c) sum(lambda); of -wx it is
+	// minus full() of wx.)
 	vk := make([][]float64, np)
+	vsign := make([]bool, np) // true: the series is the constant -1
 	if e.kmu >= 0 {
-		ones := make([]float64, len(v))
-		for i := range ones {
-			ones[i] = -1
-		}
-		vk[e.kmu] = ones
+		vsign[e.kmu] = true
 	}
 	for k, b := range e.kb {
 		if b >= 0 {
-			c := make([]float64, len(v))
-			for i, val := range e.wx[k] {
-				c[i] = -val
-			}
-			vk[b] = c
+			vk[b] = e.wx[k]
 		}
 	}
-	H := mat.NewSymDense(np, nil)
+	sumLam := 0.0
+	for _, l := range lam {
+		sumLam += l
+	}
+	vfull := func(c []float64, k int) float64 {
+		if vsign[k] {
+			s := 0.0
+			for _, cl := range c {
+				s += cl
+			}
+			return -s * sumLam
+		}
+		if vk[k] == nil {
+			return 0
+		}
+		return -full(c, vk[k])
+	}
+	H = mat.NewSymDense(np, nil)
+	jtj = mat.NewSymDense(np, nil)
+	g = make([]float64, np)
 	for j := 0; j < np; j++ {
+		g[j] = dot(jac[j], r)
 		for k := j; k < np; k++ {
 			q := 0.0
 			if j < na && k < na {
@@ -121,11 +146,11 @@ func (e *engine) hessian(x []float64) (*mat.SymDense, bool) {
 					q -= win(c, r)
 				}
 			}
-			if j < na && dphi[j] != nil && vk[k] != nil {
-				q += full(dphi[j], vk[k])
+			if j < na && dphi[j] != nil {
+				q += vfull(dphi[j], k)
 			}
-			if k < na && dphi[k] != nil && vk[j] != nil {
-				q += full(dphi[k], vk[j])
+			if k < na && dphi[k] != nil {
+				q += vfull(dphi[k], j)
 			}
 			if j < na && dtheta[j] != nil {
 				q -= win(dtheta[j], jac[k])
@@ -133,11 +158,13 @@ func (e *engine) hessian(x []float64) (*mat.SymDense, bool) {
 			if k < na && dtheta[k] != nil {
 				q -= win(dtheta[k], jac[j])
 			}
-			H.SetSym(j, k, dot(jac[j], jac[k])+q)
+			jj := dot(jac[j], jac[k])
+			jtj.SetSym(j, k, jj)
+			H.SetSym(j, k, jj+q)
 		}
 	}
 	_ = phi
-	return H, true
+	return H, jtj, g, dot(r, r), true
 }
 
 // diffPolys returns (a[k] - b[k]) / h for each parameter k (nil when
