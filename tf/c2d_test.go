@@ -152,3 +152,55 @@ func TestAsFOPDTRejects(t *testing.T) {
 		}
 	}
 }
+
+// TestDiscretizeContinuity: the three closed forms (oscillatory, double
+// pole, two real poles) join continuously at critical damping, and the
+// SOPDT switch to the double-pole form at Tau1 ~ Tau2 is continuous: step
+// responses for damping 1 -+ 1e-7 and time constants 1e-7 apart agree
+// with the critical case to 1e-6 |K| (first-order in the perturbation).
+func TestDiscretizeContinuity(t *testing.T) {
+	const wn, T, theta = 0.5, 0.7, 1.3
+	ref, err := tf.SecondOrder{Gain: 2, NaturalFrequency: wn, Damping: 1, DeadTime: theta}.Discretize(T)
+	if err != nil {
+		t.Fatal(err)
+	}
+	yr := ref.Step(80)
+	for _, z := range []float64{1 - 1e-7, 1 + 1e-7, 1 - 1e-3} {
+		r, err := tf.SecondOrder{Gain: 2, NaturalFrequency: wn, Damping: z, DeadTime: theta}.Discretize(T)
+		if err != nil {
+			t.Fatal(err)
+		}
+		tol := 1e-6 * 2
+		if z == 1-1e-3 {
+			tol = 1e-2 // a real change of damping, only a sanity bound
+		}
+		for k, v := range r.Step(80) {
+			if math.Abs(v-yr[k]) > tol {
+				t.Fatalf("damping %v: y[%d] = %v, critical %v", z, k, v, yr[k])
+			}
+		}
+	}
+	tau := 1 / wn
+	for _, d := range []float64{1e-7, 1e-5} {
+		r, err := tf.SOPDT{Gain: 2, Tau1: tau * (1 + d), Tau2: tau, DeadTime: theta}.Discretize(T)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k, v := range r.Step(80) {
+			if math.Abs(v-yr[k]) > 10*d*2 {
+				t.Fatalf("tau ratio 1+%v: y[%d] = %v, double pole %v", d, k, v, yr[k])
+			}
+		}
+	}
+	// Undamped (zeta = 0) oscillates between 0 and 2K around K forever:
+	// y = K (1 - cos(wn u)) at the samples (common practice).
+	r, err := tf.SecondOrder{Gain: 1, NaturalFrequency: 0.3, Damping: 0}.Discretize(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, v := range r.Step(100) {
+		if want := 1 - math.Cos(0.3*float64(k)); math.Abs(v-want) > 1e-12 {
+			t.Fatalf("undamped y[%d] = %v, want %v", k, v, want)
+		}
+	}
+}
