@@ -15,6 +15,7 @@ type DataError struct {
 	Value  float64
 }
 
+// Error implements the error interface.
 func (e *DataError) Error() string {
 	name := e.Series
 	if name == "" {
@@ -32,6 +33,7 @@ type ShortError struct {
 	What   string
 }
 
+// Error implements the error interface.
 func (e *ShortError) Error() string {
 	name := e.Series
 	if name == "" {
@@ -48,6 +50,7 @@ type ConstantError struct {
 	N      int
 }
 
+// Error implements the error interface.
 func (e *ConstantError) Error() string {
 	name := e.Series
 	if name == "" {
@@ -64,6 +67,7 @@ type ArgError struct {
 	Msg string
 }
 
+// Error implements the error interface.
 func (e *ArgError) Error() string { return fmt.Sprintf("arma: %s: %s", e.Arg, e.Msg) }
 
 // ConvergenceError is returned by Fit together with a valid *Result when
@@ -74,6 +78,7 @@ type ConvergenceError struct {
 	Iter   int
 }
 
+// Error implements the error interface.
 func (e *ConvergenceError) Error() string {
 	return fmt.Sprintf("arma: fit not converged after %d iterations: %s", e.Iter, e.Reason)
 }

@@ -21,6 +21,7 @@ const (
 	ByAIC
 )
 
+// String returns the criterion's usual name ("AICc", "BIC", "AIC").
 func (c Criterion) String() string {
 	switch c {
 	case ByAICc:
@@ -37,11 +38,15 @@ func (c Criterion) String() string {
 // MaxP and 0 <= q <= MaxQ, with the same differencing D and seasonal part
 // (SP, SD, SQ, Period) for all.
 type Grid struct {
+	// MaxP and MaxQ bound the ordinary AR and MA orders tried.
 	MaxP, MaxQ int
-	D          int
+	// D is the ordinary differencing of every candidate.
+	D int
+	// SP, SD, SQ and Period give the seasonal part of every candidate.
 	SP, SD, SQ int
 	Period     int
-	Criterion  Criterion
+	// Criterion ranks the candidates (default ByAICc).
+	Criterion Criterion
 	// Workers bounds the number of fits run at once; zero means
 	// runtime.GOMAXPROCS(0).
 	Workers int

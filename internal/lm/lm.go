@@ -64,6 +64,7 @@ func (r Reason) Converged() bool {
 	return r == SmallReduction || r == SmallStep || r == SmallGradient
 }
 
+// String says in words why the solver stopped.
 func (r Reason) String() string {
 	switch r {
 	case SmallReduction:
