@@ -72,6 +72,7 @@ func (p *fastParser) equation(eq *gEquation) bool {
 			t.Sign = p.peek().Value
 			p.i++
 		}
+		t.Items = make([]gItem, 0, 4)
 		n := 0
 		for {
 			var it gItem

@@ -3,6 +3,7 @@ package parse
 import (
 	"io"
 	"strings"
+	"sync"
 
 	"github.com/alecthomas/participle/v2/lexer"
 )
@@ -75,7 +76,11 @@ const punct = "=~+-*/^(),;"
 // lexSpec splits s into tokens, skipping spaces, line breaks and #
 // comments, and appends an EOF token. Columns count bytes, 1-based.
 func lexSpec(s string) ([]lexer.Token, error) {
-	toks := make([]lexer.Token, 0, len(s)/3+2)
+	return lexAppend(make([]lexer.Token, 0, min(len(s)/3+2, 128)), s)
+}
+
+// lexAppend is lexSpec appending to toks.
+func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 	line, lineStart := 1, 0
 	i := 0
 	for i < len(s) {
@@ -144,3 +149,14 @@ func lexSpec(s string) ([]lexer.Token, error) {
 
 func isDigit(c byte) bool  { return '0' <= c && c <= '9' }
 func isLetter(c byte) bool { return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' || c == '_' }
+
+// tokPool recycles token buffers between calls of Model: nothing in a
+// returned model or error points into them (token values are substrings
+// of the spec).
+var tokPool = sync.Pool{New: func() any {
+	b := make([]lexer.Token, 0, 128)
+	return &b
+}}
+
+// maxPooled is the largest token buffer kept for reuse.
+const maxPooled = 4096

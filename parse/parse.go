@@ -26,7 +26,14 @@ func Model(spec string) (tf.Model, error) {
 			Msg: "the spec is " + strconv.Itoa(len(spec)) + " bytes long, over the limit of " + strconv.Itoa(MaxSpecLen)})
 		return tf.Model{}, b.errs
 	}
-	toks, err := lexSpec(spec)
+	buf := tokPool.Get().(*[]lexer.Token)
+	toks, err := lexAppend((*buf)[:0], spec)
+	defer func() {
+		if cap(toks) <= maxPooled {
+			*buf = toks[:0]
+			tokPool.Put(buf)
+		}
+	}()
 	if err != nil {
 		var le *lexError
 		errors.As(err, &le)

@@ -1,0 +1,71 @@
+package parse
+
+import (
+	"testing"
+)
+
+// benchSpec is a typical two-input spec with ARMA(2, 1) noise, start
+// values and a sample interval.
+const benchSpec = "temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (v0 - v1 B) B^2 feed + ARMA(2, 1) where w0 ~ 0.5, d1 ~ 0.7 every 30 s"
+
+func BenchmarkModel(b *testing.B) {
+	b.ReportAllocs()
+	b.SetBytes(int64(len(benchSpec)))
+	for b.Loop() {
+		if _, err := Model(benchSpec); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkString(b *testing.B) {
+	m := MustModel(benchSpec)
+	b.ReportAllocs()
+	for b.Loop() {
+		_ = m.String()
+	}
+}
+
+// BenchmarkModelError measures a spec whose error goes through the
+// participle parser.
+func BenchmarkModelError(b *testing.B) {
+	bad := "temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (v0 - v1 B B^2 feed + ARMA(2, 1)"
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Model(bad); err == nil {
+			b.Fatal("no error")
+		}
+	}
+}
+
+// BenchmarkModelLong parses specs of growing length (inputs repeated up
+// to the limit, then comment padding) to show linear cost.
+func BenchmarkModelLong(b *testing.B) {
+	for _, n := range []int{1000, 10000, 60000} {
+		s := "y = w0 x"
+		for len(s) < n {
+			s += " # padding to grow the text linearly\n"
+		}
+		b.Run(itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			b.SetBytes(int64(len(s)))
+			for b.Loop() {
+				Model(s)
+			}
+		})
+	}
+}
+
+func itoa(n int) string {
+	if n >= 1000 {
+		return itoa(n/1000) + "k"
+	}
+	s := ""
+	for {
+		s = string(rune('0'+n%10)) + s
+		n /= 10
+		if n == 0 {
+			return s
+		}
+	}
+}

@@ -1,0 +1,61 @@
+package tf_test
+
+import (
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/sym"
+	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf"
+)
+
+// TestPrintCodeBuilt prints models built in code (not by the parser) and
+// checks the exact text and that it reads back to an equal model.
+func TestPrintCodeBuilt(t *testing.T) {
+	fixed := func(v float64) tf.Coef { return tf.Coef{Value: v} }
+	m := tf.Model{
+		Output: "temp",
+		Const:  &tf.Coef{Value: -4.25},
+		Inputs: []tf.Input{
+			{Series: "burner", Num: sym.FromCoeffs([]float64{0.5, 0.25}), Den: sym.FromCoeffs([]float64{1, -0.8}), Delay: 4},
+			{Series: "feed", Num: tf.Poly{Factors: []tf.Factor{{Terms: []tf.Term{{Coef: fixed(1)}}, Exp: 1}}}},
+			{Series: "air"},
+			{Series: "flow", Diff: sym.FromCoeffs([]float64{1, -1}), Delay: 1},
+			{Series: "level", Num: tf.Poly{Factors: []tf.Factor{{Terms: []tf.Term{{Coef: tf.Coef{Name: "k", Value: 2, Free: false}}}, Exp: 1}}}},
+		},
+		Noise:    &arma.Noise{AR: sym.FromCoeffs([]float64{1, -0.5, 0.25})},
+		Interval: tf.Interval{Value: 0.5, Unit: "min"},
+	}
+	want := "temp = -4.25 + (0.5 + 0.25 B) / (1 - 0.8 B) B^4 burner + (1) feed + 1 air + B ((1 - B) flow) + k level + 1 / (1 - 0.5 B + 0.25 B^2) a; where k = 2; every 0.5 min"
+	if got := m.String(); got != want {
+		t.Fatalf("got  %s\nwant %s", got, want)
+	}
+	back, err := parse.Model(want)
+	if err != nil || !back.Equal(m) {
+		t.Errorf("reads back as %v, %v", back, err)
+	}
+	// A negative unnamed value prints with its sign folded into the
+	// term's sign: the same polynomial, written as by hand.
+	neg := tf.Poly{Factors: []tf.Factor{{Terms: []tf.Term{{Coef: fixed(1)}, {Coef: fixed(-0.3), Power: 1}}, Exp: 2}}}
+	if got := tf.FormatPoly(neg); got != "(1 - 0.3 B)^2" {
+		t.Errorf("FormatPoly: %s", got)
+	}
+	if got := tf.FormatPoly(tf.Poly{}); got != "1" {
+		t.Errorf("FormatPoly of 1: %s", got)
+	}
+	// Values print in the shortest form that reads back exactly.
+	for _, v := range []float64{0.1, 1.0 / 3, 5e-324, math.MaxFloat64, 123456789012345680, 1e21, 2.5e-8} {
+		m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: sym.FromCoeffs([]float64{v})}}}
+		back, err := parse.Model(m.String())
+		if err != nil || back.Inputs[0].Num.Coeffs()[0] != v {
+			t.Errorf("%v prints as %q, reads back %v, %v", v, m.String(), back.Inputs[0].Num.Coeffs(), err)
+		}
+	}
+	if s := (tf.Interval{}).String(); s != "" {
+		t.Errorf("zero interval prints %q", s)
+	}
+	if s := m.Inputs[3].String(); s != "B ((1 - B) flow)" {
+		t.Errorf("Input.String: %q", s)
+	}
+}
