@@ -1,0 +1,131 @@
+package tf
+
+import (
+	"context"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+// TestFitBadInput checks the typed errors of Fit and their messages.
+func TestFitBadInput(t *testing.T) {
+	y, x := fitMCSim(fitRand(9), 60)
+	good := func() map[string][]float64 {
+		return map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
+	}
+	fixed := fitMCModel()
+	fixed.Const = &Coef{Value: 2}
+	fixed.Inputs[0].Num = fitP(fitFac(fitTerm(false, "", 1.5, 0)))
+	fixed.Inputs[0].Den = fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "", 0.6, 1)))
+	fixed.Noise.AR = fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "", 0.5, 1)))
+	freeDiff := fitMCModel()
+	freeDiff.Diff = fitOneMinus("k", 1)
+	mixed := fitMCModel()
+	mixed.Noise.AR = fitP(fitFac(fitTerm(false, "", 1, 0), Term{Neg: true, Coef: Coef{Name: "d1", Value: 0.5}, Power: 1}))
+	zeroDen := fitMCModel()
+	zeroDen.Inputs[0].Den = fitP(fitFac(fitTerm(false, "", 0, 0), fitTerm(true, "d1", 0, 1)))
+	noOut := fitMCModel()
+	noOut.Output = ""
+	for _, tc := range []struct {
+		name    string
+		m       Model
+		data    func() map[string][]float64
+		problem FitProblem
+		series  string
+		msg     string
+	}{
+		{"missing output", fitMCModel(), func() map[string][]float64 { d := good(); delete(d, "y"); return d },
+			MissingSeries, "y", `tf: series missing from the data: "y" (output)`},
+		{"missing input", fitMCModel(), func() map[string][]float64 { d := good(); delete(d, "x"); return d },
+			MissingSeries, "x", `tf: series missing from the data: "x" (input)`},
+		{"extra series", fitMCModel(), func() map[string][]float64 { d := good(); d["xx"] = x; return d },
+			ExtraSeries, "xx", `tf: series in the data not used by the model: "xx"`},
+		{"unequal lengths", fitMCModel(), func() map[string][]float64 { d := good(); d["x"] = d["x"][:50]; return d },
+			UnequalLengths, "x", `tf: series lengths differ: "x" has 50 samples, the output 60`},
+		{"too few observations", fitMCModel(), func() map[string][]float64 {
+			d := good()
+			d["x"], d["y"] = d["x"][:9], d["y"][:9]
+			return d
+		}, TooFewObservations, "y", `tf: too few observations: "y": 4 residuals, at least 6 needed (residuals are summed from index 5 of 9 samples)`},
+		{"nothing free", fixed, good, NothingFree, "", `tf: nothing free to estimate`},
+		{"free differencing", freeDiff, good, FixedDifferencing, "k", `tf: differencing must be fixed numbers: "k"`},
+		{"mixed freedom", mixed, good, MixedFreedom, "d1", `tf: parameter is free in one place and held in another: "d1"`},
+		{"zero denominator constant", zeroDen, good, BadDenominator, "x", `tf: constant term of a denominator is zero: "x"`},
+		{"no output", noOut, good, NoOutput, "", `tf: model names no output series`},
+	} {
+		_, err := Fit(context.Background(), tc.m, tc.data(), nil)
+		var fe *FitError
+		if !errors.As(err, &fe) || fe.Problem != tc.problem || fe.Series != tc.series {
+			t.Errorf("%s: got %v, want problem %v on %q", tc.name, err, tc.problem, tc.series)
+			continue
+		}
+		if err.Error() != tc.msg {
+			t.Errorf("%s: message\n%s\nwant\n%s", tc.name, err.Error(), tc.msg)
+		}
+	}
+	// NaN and Inf give a *SampleError with the series and index.
+	for _, tc := range []struct {
+		series string
+		index  int
+		v      float64
+	}{{"x", 7, math.NaN()}, {"y", 0, math.Inf(1)}, {"y", 59, math.Inf(-1)}} {
+		d := good()
+		d[tc.series][tc.index] = tc.v
+		_, err := Fit(context.Background(), fitMCModel(), d, nil)
+		var se *SampleError
+		if !errors.As(err, &se) || se.Series != tc.series || se.Index != tc.index || !errors.Is(err, ErrNotFinite) {
+			t.Errorf("%v at %s[%d]: got %v", tc.v, tc.series, tc.index, err)
+		}
+	}
+	// Extra series are accepted on request.
+	d := good()
+	d["xx"] = x
+	if _, err := Fit(context.Background(), fitMCModel(), d, &FitSettings{IgnoreExtra: true}); err != nil {
+		t.Errorf("IgnoreExtra: %v", err)
+	}
+}
+
+// TestFitDoesNotModify checks that Fit leaves the model and the data as
+// they were.
+func TestFitDoesNotModify(t *testing.T) {
+	y, x := fitMCSim(fitRand(10), 200)
+	data := map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
+	m := fitMCModel()
+	m0 := m.Clone()
+	est, err := Fit(context.Background(), m, data, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !m.Equal(m0) {
+		t.Error("model modified")
+	}
+	for i := range y {
+		if data["y"][i] != y[i] || data["x"][i] != x[i] {
+			t.Fatal("data modified")
+		}
+	}
+	// The fitted model carries the estimates, still free, and prints as a spec.
+	p, _ := est.Param("d1")
+	if v := est.Model.Inputs[0].Den.Factors[0].Terms[1].Coef; v.Value != p.Value || !v.Free {
+		t.Errorf("fitted model holds %+v, estimate %v", v, p.Value)
+	}
+	if s := est.Model.String(); !strings.Contains(s, "d1 ~ ") {
+		t.Errorf("fitted spec %q lacks the estimate", s)
+	}
+}
+
+// TestFitCancel checks that a done context stops the fit with the best
+// point so far and says so.
+func TestFitCancel(t *testing.T) {
+	y, x := fitMCSim(fitRand(11), 400)
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	est, err := Fit(ctx, fitMCModel(), map[string][]float64{"y": y, "x": x}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if est.Converged || !strings.Contains(est.Reason, "cancel") || len(est.Warnings) == 0 || est.Warnings[0].Kind != NotConverged {
+		t.Errorf("canceled fit: converged %v, reason %q, warnings %v", est.Converged, est.Reason, est.Warnings)
+	}
+}
