@@ -468,7 +468,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 	}
 	finalR := lres.Resid
-	if np > 0 {
+	if np > 0 && !equalSlices(x, lres.X) {
 		finalR = make([]float64, e.m)
 		if err := e.eval(x, finalR, nil); err != nil {
 			x, finalR = lres.X, lres.Resid
@@ -645,9 +645,10 @@ func (e *engine) eval(x, r []float64, jac [][]float64) error {
 	}
 	for k := 0; k < e.narma; k++ {
 		col := jac[k]
-		clear(col)
 		if dphi[k] != nil {
-			lagApply(col, dphi[k], w, t0, 1)
+			lagApply(col, dphi[k], w, t0, 0)
+		} else {
+			clear(col)
 		}
 		if dtheta[k] != nil {
 			lagSub(col, dtheta[k], r)
@@ -859,4 +860,16 @@ func invSym(a *mat.SymDense) *mat.SymDense {
 		return nil
 	}
 	return inv
+}
+
+func equalSlices(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }
