@@ -128,7 +128,8 @@ func normalQuantile(p float64) float64 {
 // BenchmarkCross). Both agree to about 1e-13 in r.
 func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	names := s.names()
-	if err := validatePair(x, y, maxLag, names); err != nil {
+	sums, err := validatePair(x, y, maxLag, names)
+	if err != nil {
 		return nil, err
 	}
 	n := len(x)
@@ -143,7 +144,7 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	default:
 		return nil, &ArgError{Arg: "Settings.Method", Value: method.String(), Want: "Auto, Direct or FFT"}
 	}
-	mx, my := mean(x), mean(y)
+	mx, my := sums[0]/float64(n), sums[1]/float64(n)
 	c := &Correlation{N: n, MaxLag: maxLag, R: make([]float64, 2*maxLag+1), MeanX: mx, MeanY: my, Method: method}
 	var sxx, syy float64
 	if method == Direct {
@@ -160,35 +161,37 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	return c, nil
 }
 
-// validatePair checks the inputs of Cross.
-func validatePair(x, y []float64, maxLag int, names [2]string) error {
+// validatePair checks the inputs of Cross and returns the sums of x and
+// y.
+func validatePair(x, y []float64, maxLag int, names [2]string) (sums [2]float64, err error) {
 	if maxLag < 0 {
-		return &ArgError{Arg: "maxLag", Value: strconv.Itoa(maxLag), Want: ">= 0"}
+		return sums, &ArgError{Arg: "maxLag", Value: strconv.Itoa(maxLag), Want: ">= 0"}
 	}
 	if len(x) != len(y) {
-		return &LengthError{Names: names, Lens: [2]int{len(x), len(y)}}
+		return sums, &LengthError{Names: names, Lens: [2]int{len(x), len(y)}}
 	}
 	need := max(maxLag+1, 2)
 	for i, v := range [2][]float64{x, y} {
 		if len(v) < need {
-			return &ShortError{Name: names[i], Len: len(v), Need: need, Why: "for lags up to " + strconv.Itoa(maxLag)}
+			return sums, &ShortError{Name: names[i], Len: len(v), Need: need, Why: "for lags up to " + strconv.Itoa(maxLag)}
 		}
 	}
 	for i, v := range [2][]float64{x, y} {
-		if s := sum4(v); s-s != 0 {
+		sums[i] = accurateSum(v)
+		if s := sums[i]; s-s != 0 {
 			// A NaN or Inf sample (or an overflowing sum): find it.
 			if err := checkSeries(names[i], v); err != nil {
-				return err
+				return sums, err
 			}
-			return &ArgError{Arg: names[i], Value: "samples whose sum overflows", Want: "magnitudes below about 1e300"}
+			return sums, &ArgError{Arg: names[i], Value: "samples whose sum overflows", Want: "magnitudes below about 1e300"}
 		}
 	}
 	for i, v := range [2][]float64{x, y} {
 		if isConstant(v) {
-			return &ConstantError{Name: names[i], Value: v[0]}
+			return sums, &ConstantError{Name: names[i], Value: v[0]}
 		}
 	}
-	return nil
+	return sums, nil
 }
 
 func isConstant(x []float64) bool {
@@ -200,36 +203,31 @@ func isConstant(x []float64) bool {
 	return true
 }
 
-// mean returns the sample mean with one correction pass, which keeps it
-// accurate for series with a large offset.
-func mean(x []float64) float64 {
-	m := sum4(x) / float64(len(x))
-	var e0, e1, e2, e3 float64
+// accurateSum returns the sum of x by compensated summation (the
+// error-free two-sum of each addition is accumulated separately, in two
+// interleaved lanes), accurate to a few units in the last place even for
+// series with a large offset. It is NaN or infinite when x holds a NaN or
+// an infinity.
+func accurateSum(x []float64) float64 {
+	var s0, s1, c0, c1 float64
 	i := 0
-	for ; i+4 <= len(x); i += 4 {
-		e0 += x[i] - m
-		e1 += x[i+1] - m
-		e2 += x[i+2] - m
-		e3 += x[i+3] - m
+	for ; i+2 <= len(x); i += 2 {
+		v, w := x[i], x[i+1]
+		t := s0 + v
+		bp := t - s0
+		c0 += (s0 - (t - bp)) + (v - bp)
+		s0 = t
+		u := s1 + w
+		bq := u - s1
+		c1 += (s1 - (u - bq)) + (w - bq)
+		s1 = u
 	}
-	for ; i < len(x); i++ {
-		e0 += x[i] - m
+	if i < len(x) {
+		v := x[i]
+		t := s0 + v
+		bp := t - s0
+		c0 += (s0 - (t - bp)) + (v - bp)
+		s0 = t
 	}
-	return m + ((e0+e1)+(e2+e3))/float64(len(x))
-}
-
-// sum4 returns the sum of x with four accumulators.
-func sum4(x []float64) float64 {
-	var s0, s1, s2, s3 float64
-	i := 0
-	for ; i+4 <= len(x); i += 4 {
-		s0 += x[i]
-		s1 += x[i+1]
-		s2 += x[i+2]
-		s3 += x[i+3]
-	}
-	for ; i < len(x); i++ {
-		s0 += x[i]
-	}
-	return (s0 + s1) + (s2 + s3)
+	return (s0 + s1) + (c0 + c1)
 }

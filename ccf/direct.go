@@ -1,75 +1,98 @@
 package ccf
 
-import "sync"
-
 // directChunk is the number of samples per cache block of the direct
-// path: two blocks of 8 bytes per sample stay in the first-level cache.
+// path: the centred blocks of x and y (8 bytes per sample each, plus K
+// lags) stay in the first-level cache for small K.
 const directChunk = 2048
 
 // crossDirect writes the unnormalised lag sums n*c_xy(k) into r
 // (r[K+k], k = -K..K) and returns the sums of squares of the centred x and
 // y.
+//
+// The series are processed in blocks of C samples of t: each block of x
+// and of y, extended by K+8 samples (zero past the end), is centred into a
+// small buffer, and the block's contributions sum_t x_t y_{t+k} (k >= 0)
+// and sum_t y_t x_{t+k} (c_xy(-k) = c_yx(k)) are added for every lag.
+// The series are read once; nothing of their length is allocated.
 func crossDirect(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
 	n := len(x)
-	// Centred copies, zero padded by K so that every lag sums over t < n
-	// without a tail case.
-	buf := getBuf(2 * (n + K))
-	defer putBuf(buf)
-	xc := (*buf)[: n+K : n+K]
-	yc := (*buf)[n+K:]
-	sxx = center(xc, x, mx)
-	syy = center(yc, y, my)
-	lagSums(r[K:], xc, yc, n) // k = 0..K
-	if K > 0 {
-		var small [64]float64
-		neg := small[:0]
-		if K+1 <= len(small) {
-			neg = small[:K+1]
-		} else {
-			neg = make([]float64, K+1)
-		}
-		lagSums(neg, yc, xc, n) // c_yx(j) = c_xy(-j)
-		for j := 1; j <= K; j++ {
-			r[K-j] = neg[j]
-		}
+	C := max(directChunk, K)
+	pad := K + 8
+	bx := make([]float64, C+pad)
+	by := make([]float64, C+pad)
+	pos := make([]float64, K+8)
+	neg := make([]float64, K+8)
+	for t0 := 0; t0 < n; t0 += C {
+		m := min(C, n-t0)
+		e := min(t0+m+pad, n)
+		sxx += center(bx[:m+pad], x[t0:e], mx, m)
+		syy += center(by[:m+pad], y[t0:e], my, m)
+		lagBlock(pos, bx[:m], by[:m+pad])
+		lagBlock(neg, by[:m], bx[:m+pad])
+	}
+	copy(r[K:], pos[:K+1])
+	for j := 1; j <= K; j++ {
+		r[K-j] = neg[j]
 	}
 	return sxx, syy
 }
 
-// lagSums sets out[j] = sum_{t=0..n-1} a[t] b[t+j] for j = 0..len(out)-1.
-// b must hold at least n+len(out)-1 samples. The loop runs over cache
-// blocks of t and, within a block, over groups of eight lags that share
-// each load of a[t] with the AVX2/FMA kernel where the processor has it
-// (dot_amd64.s), and groups of four lags in Go otherwise or for the rest
-// (four independent accumulators keep the adder busy).
-func lagSums(out, a, b []float64, n int) {
-	for j := range out {
-		out[j] = 0
+// center writes src - mu into dst (zero past len(src)) and returns the
+// sum of squares of the first m centred values.
+func center(dst, src []float64, mu float64, m int) float64 {
+	var s0, s1 float64
+	d := dst[:len(src)]
+	i := 0
+	for ; i+2 <= len(d); i += 2 {
+		a, b := src[i]-mu, src[i+1]-mu
+		d[i], d[i+1] = a, b
+	}
+	for ; i < len(d); i++ {
+		d[i] = src[i] - mu
+	}
+	clear(dst[len(src):])
+	c := dst[:m]
+	i = 0
+	for ; i+2 <= m; i += 2 {
+		s0 += c[i] * c[i]
+		s1 += c[i+1] * c[i+1]
+	}
+	for ; i < m; i++ {
+		s0 += c[i] * c[i]
+	}
+	return s0 + s1
+}
+
+// lagBlock adds sum_{i<len(a)} a[i] b[i+j] to out[j] for j = 0..len(out)-1,
+// where len(out) is a multiple of 8 at least the lags wanted and b holds
+// at least len(a)+len(out)-1 values. It uses the AVX2/FMA kernel for
+// groups of eight lags where the processor has it (dot_amd64.s), and
+// groups of four lags in Go otherwise (four independent accumulators keep
+// the adder busy).
+func lagBlock(out, a, b []float64) {
+	m := len(a)
+	if m == 0 {
+		return
 	}
 	L := len(out)
-	for t0 := 0; t0 < n; t0 += directChunk {
-		t1 := min(t0+directChunk, n)
-		aa := a[t0:t1]
-		m := len(aa)
-		j := 0
-		if hasFMA {
-			for ; j+8 <= L; j += 8 {
-				s := dot8(aa, b[t0+j:t0+j+m+7])
-				for q, v := range s {
-					out[j+q] += v
-				}
-			}
-		}
-		for ; j+4 <= L; j += 4 {
-			bb := b[t0+j : t0+j+m+3]
-			s := dot4(aa, bb)
+	j := 0
+	if hasFMA {
+		for ; j+8 <= L; j += 8 {
+			s := dot8(a, b[j:j+m+7])
 			for q, v := range s {
 				out[j+q] += v
 			}
 		}
-		for ; j < L; j++ {
-			out[j] += dot1(aa, b[t0+j:t0+j+m])
+		return
+	}
+	for ; j+4 <= L; j += 4 {
+		s := dot4(a, b[j:j+m+3])
+		for q, v := range s {
+			out[j+q] += v
 		}
+	}
+	for ; j < L; j++ {
+		out[j] += dot1(a, b[j:j+m])
 	}
 }
 
@@ -103,41 +126,3 @@ func dot1(a, b []float64) float64 {
 	}
 	return (s0 + s1) + (s2 + s3)
 }
-
-// center writes x - m into dst[:len(x)], zeroes the rest of dst, and
-// returns the sum of squares of the centred values.
-func center(dst, x []float64, m float64) float64 {
-	dst = dst[:len(dst)]
-	var s0, s1 float64
-	n := len(x)
-	d := dst[:n]
-	i := 0
-	for ; i+2 <= n; i += 2 {
-		a, b := x[i]-m, x[i+1]-m
-		d[i], d[i+1] = a, b
-		s0 += a * a
-		s1 += b * b
-	}
-	for ; i < n; i++ {
-		a := x[i] - m
-		d[i] = a
-		s0 += a * a
-	}
-	clear(dst[n:])
-	return s0 + s1
-}
-
-// bufPool recycles the centred copies of the direct path, so that
-// repeated calls do not clear megabytes of fresh memory each time.
-var bufPool sync.Pool
-
-func getBuf(n int) *[]float64 {
-	if p, ok := bufPool.Get().(*[]float64); ok && cap(*p) >= n {
-		*p = (*p)[:n]
-		return p
-	}
-	b := make([]float64, n)
-	return &b
-}
-
-func putBuf(p *[]float64) { bufPool.Put(p) }

@@ -35,12 +35,12 @@ var hasFMA = func() bool {
 func dot8(a, b []float64) [8]float64 {
 	var s [8]float64
 	m := len(a)
-	m4 := m &^ 3
-	if m4 > 0 {
-		_ = b[m4+6] // the kernel reads b[0 .. m4+6]
-		dot8FMA(&a[0], &b[0], m4, &s)
+	m8 := m &^ 7
+	if m8 > 0 {
+		_ = b[m8+6] // the kernel reads b[0 .. m8+6]
+		dot8FMA(&a[0], &b[0], m8, &s)
 	}
-	for i := m4; i < m; i++ {
+	for i := m8; i < m; i++ {
 		av := a[i]
 		for q := range s {
 			s[q] += av * b[i+q]
