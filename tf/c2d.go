@@ -363,3 +363,132 @@ func ratCheckPositive(name string, v float64) error {
 	}
 	return nil
 }
+
+// AsSecondOrder converts a discrete second-order term back to the
+// continuous second-order-plus-dead-time model whose zero-order-hold
+// equivalent for the interval T it is (the inverse of
+// SecondOrder.Discretize and SOPDT.Discretize). The term must have a
+// denominator of degree 2 with stable poles that are real in (0, 1) or a
+// complex pair, a numerator of at most three coefficients (leading zero
+// coefficients counting as dead time) and dead time b >= 1.
+//
+// The poles give the continuous poles s = ln(z)/T, hence NaturalFrequency
+// and Damping (Damping >= 1 for two real poles; their time constants are
+// 1/(wn (zeta -+ sqrt(zeta^2 - 1)))); the gain is Gain(). The fractional
+// part f of the dead time DeadTime = (b - 1 + f) T is the one for which
+// the first numerator coefficient equals the continuous unit step
+// response at (1 - f) T, times the gain (found by bisection; the response
+// rises monotonically there when T is below half the damped period).
+// For an exact image the other numerator coefficients then agree too; for
+// a fitted term they need not, and mismatch returns the relative
+// difference |w - w(model)| / |w| of the numerator coefficients, so that
+// callers can judge how well the continuous model describes the term.
+//
+// It returns an *ArgError when the term is not of this form, when the
+// first coefficient lies outside what a fractional dead time produces (by
+// more than 1e-9 relative; it is clamped otherwise), or when T is not
+// positive and finite or not below half the damped period.
+func (r Rational) AsSecondOrder(T float64) (p SecondOrder, mismatch float64, err error) {
+	if err := ratCheckPositive("interval", T); err != nil {
+		return SecondOrder{}, 0, err
+	}
+	num, den := r.coefs()
+	b := r.delay
+	for len(num) > 1 && num[0] == 0 {
+		num = num[1:]
+		b++
+	}
+	if len(den) != 3 {
+		return SecondOrder{}, 0, &ArgError{Arg: "denominator degree", Value: float64(len(den) - 1), Rule: "must be 2 for a second-order term"}
+	}
+	if len(num) > 3 {
+		return SecondOrder{}, 0, &ArgError{Arg: "numerator degree", Value: float64(len(num) - 1), Rule: "must be at most 2 for a second-order term"}
+	}
+	if b < 1 {
+		return SecondOrder{}, 0, &ArgError{Arg: "dead time", Value: float64(b), Rule: "must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
+	}
+	poles := r.Poles()
+	if len(poles) != 2 {
+		return SecondOrder{}, 0, &ArgError{Arg: "poles", Value: float64(len(poles)), Rule: "need two poles"}
+	}
+	z1, z2 := poles[0], poles[1]
+	var wn, zeta float64
+	if imag(z1) == 0 {
+		a1, a2 := real(z1), real(z2)
+		if !(a1 > 0 && a1 < 1 && a2 > 0 && a2 < 1) {
+			return SecondOrder{}, 0, &ArgError{Arg: "pole", Value: math.Min(a1, a2), Rule: "real poles must lie in (0, 1)"}
+		}
+		t1, t2 := -T/math.Log(a1), -T/math.Log(a2)
+		wn = 1 / math.Sqrt(t1*t2)
+		zeta = (t1 + t2) / (2 * math.Sqrt(t1*t2))
+	} else {
+		m := math.Hypot(real(z1), imag(z1))
+		if !(m < 1) {
+			return SecondOrder{}, 0, &ArgError{Arg: "pole magnitude", Value: m, Rule: "must be below 1"}
+		}
+		// s = ln(z)/T = (ln|z| + i arg z)/T.
+		re, im := math.Log(m)/T, math.Abs(math.Atan2(imag(z1), real(z1)))/T
+		wn = math.Hypot(re, im)
+		zeta = -re / wn
+		if !(im*T < math.Pi) {
+			return SecondOrder{}, 0, &ArgError{Arg: "interval", Value: T, Rule: "must be below half the damped period"}
+		}
+	}
+	k, err := r.Gain()
+	if err != nil {
+		return SecondOrder{}, 0, err
+	}
+	if k == 0 {
+		return SecondOrder{}, 0, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero"}
+	}
+	unit := SecondOrder{Gain: 1, NaturalFrequency: wn, Damping: zeta}
+	s, err := unit.second()
+	if err != nil {
+		return SecondOrder{}, 0, err
+	}
+	if s.kind == 2 && !(s.wd*T < math.Pi) {
+		return SecondOrder{}, 0, &ArgError{Arg: "interval", Value: T, Rule: "must be below half the damped period"}
+	}
+	w0 := num[0] / k
+	top := s.step(T)
+	const slack = 1e-9
+	if w0 < -slack*top || w0 > top*(1+slack) {
+		return SecondOrder{}, 0, &ArgError{Arg: "first numerator coefficient / gain", Value: w0,
+			Rule: "must lie in [0, " + ratFormat(top) + "] (the unit step response after one interval) for a fractional dead time"}
+	}
+	// Bisection on f in [0, 1]: step((1-f)T) decreases from top to 0.
+	lo, hi := 0.0, 1.0
+	for it := 0; it < 200 && hi-lo > 1e-15; it++ {
+		mid := 0.5 * (lo + hi)
+		if s.step((1-mid)*T) > w0 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	f := 0.5 * (lo + hi)
+	if f < 1e-12 {
+		f = 0
+	}
+	p = SecondOrder{Gain: k, NaturalFrequency: wn, Damping: zeta, DeadTime: (float64(b-1) + f) * T}
+	img, err := p.Discretize(T)
+	if err != nil {
+		return SecondOrder{}, 0, err
+	}
+	// Compare numerators aligned on the same total delay.
+	got := make([]float64, 4)
+	want := make([]float64, 4)
+	gn, _ := img.coefs()
+	for j, v := range gn {
+		if i := img.delay - b + j; i >= 0 && i < 4 {
+			got[i] = v
+		}
+	}
+	copy(want, num)
+	d, nw := 0.0, 0.0
+	for i := range want {
+		d += (got[i] - want[i]) * (got[i] - want[i])
+		nw += want[i] * want[i]
+	}
+	return p, math.Sqrt(d / nw), nil
+}

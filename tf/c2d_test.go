@@ -204,3 +204,41 @@ func TestDiscretizeContinuity(t *testing.T) {
 		}
 	}
 }
+
+// TestAsSecondOrderRoundTrip: discretising a continuous second-order
+// model and converting back returns its parameters (to 1e-8 relative;
+// the poles pass through a root finder and a logarithm) with a numerator
+// mismatch at rounding level.
+func TestAsSecondOrderRoundTrip(t *testing.T) {
+	for _, c := range []tf.SecondOrder{
+		{Gain: 1.2, NaturalFrequency: 0.8, Damping: 0.3, DeadTime: 3.3},
+		{Gain: -0.5, NaturalFrequency: 2, Damping: 0.05, DeadTime: 0.1},
+		{Gain: 3, NaturalFrequency: 0.5, Damping: 1, DeadTime: 0.9},
+		{Gain: 1, NaturalFrequency: 0.6, Damping: 2.5, DeadTime: 2},
+		{Gain: 7, NaturalFrequency: 0.05, Damping: 0.7, DeadTime: 17.25},
+	} {
+		const T = 0.5
+		r, err := c.Discretize(T)
+		if err != nil {
+			t.Fatal(err)
+		}
+		back, mis, err := r.AsSecondOrder(T)
+		if err != nil {
+			t.Fatalf("%+v: %v", c, err)
+		}
+		rel := func(a, b float64) float64 { return math.Abs(a-b) / math.Max(math.Abs(b), 1e-300) }
+		if rel(back.Gain, c.Gain) > 1e-10 || rel(back.NaturalFrequency, c.NaturalFrequency) > 1e-8 ||
+			math.Abs(back.Damping-c.Damping) > 1e-8*math.Max(1, c.Damping) || math.Abs(back.DeadTime-c.DeadTime) > 1e-8*T || mis > 1e-9 {
+			t.Errorf("%+v: back %+v, mismatch %.3g", c, back, mis)
+		}
+	}
+	// A fitted-looking term that is not an exact image: the mismatch says so.
+	r := tf.MustRational([]float64{0.1, 0.3, -0.05}, []float64{1, -1.2, 0.4}, 2)
+	if _, mis, err := r.AsSecondOrder(1); err != nil || !(mis > 0.01) {
+		t.Errorf("inexact term: mismatch %v, %v", mis, err)
+	}
+	var ae *tf.ArgError
+	if _, _, err := tf.MustRational([]float64{1}, []float64{1, -0.5}, 1).AsSecondOrder(1); !errors.As(err, &ae) {
+		t.Errorf("first-order term: %v", err)
+	}
+}
