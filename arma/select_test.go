@@ -152,3 +152,19 @@ func TestNoiseOfModel(t *testing.T) {
 		t.Errorf("names %+v", n)
 	}
 }
+
+// TestCanceledFit: a done context stops the fit at its start point with
+// a *ConvergenceError and a usable result; Select reports ctx.Err().
+func TestCanceledFit(t *testing.T) {
+	y, _ := Simulate(benchModel, 500, &SimSettings{Seed1: 41, Seed2: 42})
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	res, err := Fit(ctx, y, Order{P: 2, Q: 1}, nil)
+	var ce *ConvergenceError
+	if !errors.As(err, &ce) || res == nil || res.Converged || len(res.Est) != 4 {
+		t.Errorf("canceled fit: %v", err)
+	}
+	if _, err := Select(ctx, y, Grid{MaxP: 1, MaxQ: 1}, nil); !errors.Is(err, context.Canceled) {
+		t.Errorf("canceled select: %v", err)
+	}
+}

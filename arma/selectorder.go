@@ -76,6 +76,9 @@ type Candidate struct {
 // The error is non-nil only for an invalid grid or when ctx is done
 // (candidates fitted so far are still returned).
 func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate, error) {
+	if ctx == nil {
+		ctx = context.Background()
+	}
 	if g.MaxP < 0 || g.MaxQ < 0 {
 		return nil, &ArgError{Arg: "grid", Msg: "MaxP and MaxQ must not be negative"}
 	}
@@ -131,6 +134,9 @@ feed:
 	}
 	close(jobs)
 	wg.Wait()
+	if cerr == nil {
+		cerr = ctx.Err()
+	}
 	sort.SliceStable(cands, func(i, j int) bool {
 		ri, rj := rank(cands[i].Err), rank(cands[j].Err)
 		if ri != rj {
