@@ -2,9 +2,11 @@ package tf
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/poly"
+	"github.com/backshift/backshift/internal/sym"
 )
 
 // MaxDegree is the largest degree accepted for the numerator omega(B) and
@@ -321,4 +323,23 @@ func (r Rational) FilterFrom(x []float64, p Past) ([]float64, error) {
 	}
 	filter.RunInit(y, num, den, v, vh, p.Output)
 	return y, nil
+}
+
+// String returns r for reading, in the notation of the spec language with
+// numbers for coefficients: numerator, then "/ denominator" unless it is
+// 1, then B^b for the dead time, such as "(0.5) / (1 - 0.8 B) B^2".
+// Coefficients print in full precision.
+func (r Rational) String() string {
+	num, den := r.coefs()
+	s := FormatPoly(sym.FromCoeffs(num))
+	if len(den) > 1 {
+		s += " / " + FormatPoly(sym.FromCoeffs(den))
+	}
+	switch {
+	case r.delay == 1:
+		s += " B"
+	case r.delay > 1:
+		s += " B^" + strconv.Itoa(r.delay)
+	}
+	return s
 }

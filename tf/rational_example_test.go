@@ -82,3 +82,12 @@ func ExamplePlant() {
 	// Output:
 	// 2.500 2.500 2.500 3.000
 }
+
+// Printing a term.
+func ExampleRational_String() {
+	fmt.Println(tf.MustRational([]float64{0.5, -0.2}, []float64{1, -0.8}, 2))
+	fmt.Println(tf.MustRational([]float64{1.5}, []float64{1}, 7))
+	// Output:
+	// (0.5 - 0.2 B) / (1 - 0.8 B) B^2
+	// (1.5) B^7
+}
