@@ -3,6 +3,16 @@
 //
 //	a_0 y_t + a_1 y_{t-1} + ... + a_p y_{t-p} = b_0 x_t + ... + b_q x_{t-q}
 //
-// run forward over a series, with values before the start taken as zero.
-// It allocates nothing and modifies only dst.
+// run forward over a series (Run, with values before the start taken as
+// zero; RunInit, continuing from given past inputs and outputs;
+// RunChecked, which also reports non-finite inputs), or fed one sample at
+// a time (Stream, with an optional input delay).
+//
+// Orders up to 4 with a_0 = 1 run in specialised loops that keep the
+// recursion state in registers and have no bounds checks; other filters
+// use the general Stream loop. Every path forms the sums in the same
+// order (numerator terms by rising power, then denominator terms by
+// falling power), so batch and streaming results agree bit for bit. The
+// batch functions modify only dst and allocate nothing for orders up to
+// 4 (two small buffers per call otherwise); Stream.Step never allocates.
 package filter
