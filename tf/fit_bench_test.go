@@ -52,3 +52,17 @@ func BenchmarkFit(b *testing.B) {
 		})
 	}
 }
+
+func BenchmarkIdentify(b *testing.B) {
+	for _, n := range []int{10000} {
+		data := fitBenchData(n, 2)
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Identify(context.Background(), "y", []string{"x"}, data, nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -1,0 +1,370 @@
+package tf
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"sort"
+	"strconv"
+	"sync"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/sym"
+	"github.com/backshift/backshift/prewhiten"
+)
+
+// IdentifySettings tunes Identify. The zero value (or nil) gives the
+// defaults.
+type IdentifySettings struct {
+	// OutputDiff is the differencing D(B) of the output, ascending powers
+	// of B ({1, -1} for 1 - B); nil for none.
+	OutputDiff []float64
+	// InputDiff gives the differencing of each input by name; an input
+	// without an entry is differenced like the output (the usual
+	// practice, so that both sides of the model are stationary).
+	InputDiff map[string][]float64
+	// MaxLag is the largest lag of the impulse-response weights. Zero
+	// means max(10, min(36, n/6)).
+	MaxLag int
+	// MaxR and MaxS bound the denominator and numerator degrees tried
+	// (ccf.Identify); zero means 2.
+	MaxR, MaxS int
+	// Forms is the number of (b, r, s) forms kept per input; zero
+	// means 2.
+	Forms int
+	// MaxP and MaxQ bound the noise AR and MA orders tried
+	// (prewhiten.IdentifyNoise); zero means 2.
+	MaxP, MaxQ int
+	// NoiseOrders is the number of noise orders kept; zero means 2.
+	NoiseOrders int
+	// MaxCandidates caps the number of models fitted; zero means 24.
+	MaxCandidates int
+	// ByAIC ranks the candidates by AIC instead of BIC.
+	ByAIC bool
+	// Workers is the number of concurrent fits; zero means GOMAXPROCS.
+	Workers int
+	// Fit and Check are passed to Fit and Check for every candidate
+	// (Fit.First is overridden so that all candidates sum the same
+	// residuals).
+	Fit   *FitSettings
+	Check *CheckSettings
+}
+
+// Candidate is one model proposed and fitted by Identify.
+type Candidate struct {
+	// Rank is the position in the ranking, 1 for the best.
+	Rank int
+	// Model is the model as proposed, start values from the
+	// identification as the free coefficients' values.
+	Model Model
+	// Estimate is the fit (nil when Err is not nil) and Diagnostics its
+	// checks (nil when they could not run; CheckErr says why).
+	Estimate    *Estimate
+	Diagnostics *Diagnostics
+	CheckErr    error
+	// Score is the criterion (BIC, or AIC with ByAIC) of the fit, +Inf
+	// when the fit failed.
+	Score float64
+	// Err is the fit's error, nil on success.
+	Err error
+}
+
+// String returns a one-line summary followed by the fit's and the
+// checks' reports.
+func (c Candidate) String() string {
+	if c.Err != nil {
+		return fmt.Sprintf("#%d %s\n  fit failed: %v\n", c.Rank, c.Model.String(), c.Err)
+	}
+	s := fmt.Sprintf("#%d score %.2f  %s\n", c.Rank, c.Score, c.Model.String()) + c.Estimate.String()
+	if c.Diagnostics != nil {
+		s += c.Diagnostics.String()
+	} else if c.CheckErr != nil {
+		s += "checks failed to run: " + c.CheckErr.Error() + "\n"
+	}
+	return s
+}
+
+// Identify goes from named series to a ranked list of fitted candidate
+// models in one call. For each input it prewhitens the input with an
+// autoregression and applies the same filter to the output
+// (prewhiten.Pair, after the differencing in s), estimates the
+// impulse-response weights from the prewhitened pair
+// (ccf.ImpulseWeights), and takes the best s.Forms (b, r, s) forms with
+// start values (ccf.Identify). The best forms give a preliminary model,
+// fitted with white noise; its residuals, a first estimate of the noise,
+// give the noise orders (prewhiten.IdentifyNoise). Every combination of
+// forms and noise orders (at most s.MaxCandidates, lowest form scores
+// first) is fitted with a constant on s.Workers goroutines, all summing
+// the residuals from the same index so that the criteria compare, and
+// checked (Check). The candidates are returned ranked by BIC (or AIC),
+// failed fits last; each carries its report.
+//
+// Coefficients are named w0.., d1.. (with the input name and "_" before
+// them when there are several inputs), phi1.., theta1.. and c.
+//
+// Errors: the data errors of Fit; the errors of packages prewhiten and
+// ccf when an input shows no response (*ccf.NoResponseError) or a series
+// is too short; ctx's error when it is done before any candidate is
+// fitted. A prewhitening filter that leaves the input visibly coloured
+// does not stop the identification.
+func Identify(ctx context.Context, output string, inputs []string, data map[string][]float64, s *IdentifySettings) ([]Candidate, error) {
+	var set IdentifySettings
+	if s != nil {
+		set = *s
+	}
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	idfDefault := func(v *int, d int) {
+		if *v == 0 {
+			*v = d
+		}
+	}
+	idfDefault(&set.MaxR, 2)
+	idfDefault(&set.MaxS, 2)
+	idfDefault(&set.Forms, 2)
+	idfDefault(&set.MaxP, 2)
+	idfDefault(&set.MaxQ, 2)
+	idfDefault(&set.NoiseOrders, 2)
+	idfDefault(&set.MaxCandidates, 24)
+	if set.Workers <= 0 {
+		set.Workers = runtime.GOMAXPROCS(0)
+	}
+	if err := idfValidate(output, inputs, data); err != nil {
+		return nil, err
+	}
+	y := data[output]
+	n := len(y)
+	maxLag := set.MaxLag
+	if maxLag <= 0 {
+		maxLag = max(10, min(36, n/6))
+	}
+	outDiff := sym.FromCoeffs(set.OutputDiff)
+	if len(set.OutputDiff) <= 1 {
+		outDiff = Poly{}
+	}
+	// Forms per input.
+	forms := make([][]Input, len(inputs))
+	scores := make([][]float64, len(inputs))
+	for i, name := range inputs {
+		diff, ok := set.InputDiff[name]
+		if !ok {
+			diff = set.OutputDiff
+		}
+		if len(diff) <= 1 {
+			diff = nil
+		}
+		pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
+		var nw *prewhiten.NotWhiteError
+		if err != nil && !errors.As(err, &nw) {
+			return nil, err
+		}
+		w, err := ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
+		if err != nil {
+			return nil, err
+		}
+		prefix := ""
+		if len(inputs) > 1 {
+			prefix = name + "_"
+		}
+		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Prefix: prefix, InputDiff: diff})
+		if err != nil {
+			return nil, err
+		}
+		dp := Poly{}
+		if diff != nil {
+			dp = sym.FromCoeffs(diff)
+		}
+		for k, c := range id.Candidates {
+			if k >= set.Forms {
+				break
+			}
+			forms[i] = append(forms[i], idfInput(name, prefix, dp, c))
+			scores[i] = append(scores[i], c.Score)
+		}
+	}
+	combos := idfCombos(scores, set.MaxCandidates)
+	// Noise orders from the residuals of the best forms with white noise.
+	c0 := Coef{Name: "c", Free: true}
+	pre := Model{Output: output, Diff: outDiff, Const: &c0, Noise: &arma.Noise{}}
+	for i := range inputs {
+		pre.Inputs = append(pre.Inputs, forms[i][0])
+	}
+	fs := FitSettings{IgnoreExtra: true}
+	if set.Fit != nil {
+		fs = *set.Fit
+		fs.IgnoreExtra = true
+	}
+	noises := []*arma.Noise{{}}
+	if est, err := Fit(ctx, pre, data, &fs); err == nil {
+		r := est.Resid[est.Conditioning.First:]
+		nid, err := prewhiten.IdentifyNoise(ctx, r, &prewhiten.NoiseSettings{MaxP: set.MaxP, MaxQ: set.MaxQ})
+		if err == nil {
+			noises = noises[:0]
+			for _, c := range nid.Candidates {
+				if c.Err != nil || len(noises) >= set.NoiseOrders {
+					continue
+				}
+				noises = append(noises, idfNoise(c.Order.P, c.Order.Q))
+			}
+			if len(noises) == 0 {
+				noises = append(noises, &arma.Noise{})
+			}
+		}
+	}
+	var models []Model
+	for _, cb := range combos {
+		for _, nz := range noises {
+			if len(models) >= set.MaxCandidates {
+				break
+			}
+			c := Coef{Name: "c", Free: true}
+			nc := nz.Clone()
+			m := Model{Output: output, Diff: outDiff.Clone(), Const: &c, Noise: &nc}
+			for i, k := range cb {
+				in := forms[i][k]
+				m.Inputs = append(m.Inputs, Input{Series: in.Series, Diff: in.Diff.Clone(), Num: in.Num.Clone(), Den: in.Den.Clone(), Delay: in.Delay})
+			}
+			models = append(models, m)
+		}
+	}
+	// A common first residual index so that the criteria compare.
+	first := fs.First
+	for _, m := range models {
+		if w, err := fitPrepare(m, data, FitSettings{IgnoreExtra: true}); err == nil {
+			first = max(first, w.cond.First)
+		}
+	}
+	fs.First = first
+	out := make([]Candidate, len(models))
+	var wg sync.WaitGroup
+	sem := make(chan struct{}, set.Workers)
+	for k := range models {
+		wg.Add(1)
+		go func(k int) {
+			defer wg.Done()
+			sem <- struct{}{}
+			defer func() { <-sem }()
+			c := Candidate{Model: models[k], Score: math.Inf(1)}
+			if err := ctx.Err(); err != nil {
+				c.Err = err
+				out[k] = c
+				return
+			}
+			f := fs
+			est, err := Fit(ctx, models[k], data, &f)
+			if err != nil {
+				c.Err = err
+				out[k] = c
+				return
+			}
+			c.Estimate = est
+			c.Score = est.BIC
+			if set.ByAIC {
+				c.Score = est.AIC
+			}
+			c.Diagnostics, c.CheckErr = Check(est, data, set.Check)
+			out[k] = c
+		}(k)
+	}
+	wg.Wait()
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
+	for i := range out {
+		out[i].Rank = i + 1
+	}
+	if len(out) > 0 && out[0].Err != nil {
+		return out, out[0].Err
+	}
+	return out, nil
+}
+
+// idfValidate checks presence, lengths and finiteness of the series.
+func idfValidate(output string, inputs []string, data map[string][]float64) error {
+	if output == "" {
+		return &FitError{Problem: NoOutput}
+	}
+	y, ok := data[output]
+	if !ok {
+		return &FitError{Problem: MissingSeries, Series: output, Detail: "output"}
+	}
+	for _, name := range append([]string{output}, inputs...) {
+		x, ok := data[name]
+		if !ok {
+			return &FitError{Problem: MissingSeries, Series: name, Detail: "input"}
+		}
+		if len(x) != len(y) {
+			return &FitError{Problem: UnequalLengths, Series: name, Len: len(x), Want: len(y)}
+		}
+		for t, v := range x {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return &SampleError{Series: name, Index: t, Value: v}
+			}
+		}
+	}
+	return nil
+}
+
+// idfInput builds the input term of a ccf candidate: omega with plus
+// signs (w_k = Num[k]) and delta with minus signs (d_k = -Den[k]), the
+// candidate's values as start values.
+func idfInput(series, prefix string, diff Poly, c ccf.Candidate) Input {
+	nf := Factor{Exp: 1}
+	for k, v := range c.Num {
+		nf.Terms = append(nf.Terms, Term{Coef: Coef{Name: prefix + "w" + strconv.Itoa(k), Value: v, Free: true}, Power: k})
+	}
+	in := Input{Series: series, Diff: diff.Clone(), Num: Poly{Factors: []Factor{nf}}, Delay: c.Delay}
+	if len(c.Den) > 1 {
+		df := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
+		for k := 1; k < len(c.Den); k++ {
+			df.Terms = append(df.Terms, Term{Neg: true, Coef: Coef{Name: prefix + "d" + strconv.Itoa(k), Value: -c.Den[k], Free: true}, Power: k})
+		}
+		in.Den = Poly{Factors: []Factor{df}}
+	}
+	return in
+}
+
+// idfNoise returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a with
+// free coefficients (start values computed by Fit).
+func idfNoise(p, q int) *arma.Noise {
+	mk := func(name string, deg int) Poly {
+		if deg == 0 {
+			return Poly{}
+		}
+		f := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
+		for k := 1; k <= deg; k++ {
+			f.Terms = append(f.Terms, Term{Neg: true, Coef: Coef{Name: name + strconv.Itoa(k), Free: true}, Power: k})
+		}
+		return Poly{Factors: []Factor{f}}
+	}
+	return &arma.Noise{MA: mk("theta", q), AR: mk("phi", p)}
+}
+
+// idfCombos returns index combinations (one form per input) ordered by
+// the sum of the forms' scores, at most limit of them.
+func idfCombos(scores [][]float64, limit int) [][]int {
+	combos := [][]int{{}}
+	for _, sc := range scores {
+		var next [][]int
+		for _, c := range combos {
+			for k := range sc {
+				next = append(next, append(append([]int(nil), c...), k))
+			}
+		}
+		combos = next
+	}
+	sum := func(c []int) float64 {
+		s := 0.0
+		for i, k := range c {
+			s += scores[i][k]
+		}
+		return s
+	}
+	sort.SliceStable(combos, func(i, j int) bool { return sum(combos[i]) < sum(combos[j]) })
+	if len(combos) > limit {
+		combos = combos[:limit]
+	}
+	return combos
+}

@@ -1,0 +1,69 @@
+package tf
+
+import (
+	"context"
+	"errors"
+	"math"
+	"testing"
+)
+
+// TestIdentifyBJsales runs the one-call identification on BJsales (R
+// datasets package, Series M of Box, Jenkins & Reinsel) with both series
+// differenced once. The identification published for Series M is a dead
+// time of 3 samples with a first-order denominator and no numerator
+// lags (b = 3, r = 1, s = 0; from memory); the best-ranked candidate must
+// have that transfer function and pass its checks, and all candidates
+// must be ranked by BIC over the same residuals.
+func TestIdentifyBJsales(t *testing.T) {
+	var c fitRefCase
+	for _, k := range fitReadRef(t) {
+		if k.Name == "bjsales" {
+			c = k
+		}
+	}
+	data := c.data(t)
+	cands, err := Identify(context.Background(), "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(cands) < 2 {
+		t.Fatalf("%d candidates", len(cands))
+	}
+	best := cands[0]
+	in := best.Model.Inputs[0]
+	if best.Rank != 1 || in.Delay != 3 || in.Num.Degree() != 0 || in.Den.Degree() != 1 {
+		t.Errorf("best candidate %s", best.Model.String())
+	}
+	if best.Diagnostics == nil || !best.Diagnostics.Pass {
+		t.Errorf("best candidate fails its checks: %v", best.CheckErr)
+	}
+	for i := 1; i < len(cands); i++ {
+		if cands[i].Score < cands[i-1].Score || cands[i].Rank != i+1 {
+			t.Errorf("ranking not by BIC at %d", i)
+		}
+		if cands[i].Err == nil && cands[i].Estimate.Conditioning.First != best.Estimate.Conditioning.First {
+			t.Errorf("candidate %d sums residuals from %d, the best from %d", i, cands[i].Estimate.Conditioning.First, best.Estimate.Conditioning.First)
+		}
+	}
+	for _, cd := range cands {
+		t.Logf("%d %.2f %s", cd.Rank, cd.Score, cd.Model.String())
+	}
+}
+
+// TestIdentifyErrors checks the typed data errors of Identify.
+func TestIdentifyErrors(t *testing.T) {
+	y, x := fitMCSim(fitRand(3), 100)
+	var fe *FitError
+	if _, err := Identify(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || fe.Problem != MissingSeries || fe.Series != "u" {
+		t.Errorf("missing input: %v", err)
+	}
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x[:90]}, nil); !errors.As(err, &fe) || fe.Problem != UnequalLengths {
+		t.Errorf("unequal: %v", err)
+	}
+	x2 := append([]float64(nil), x...)
+	x2[4] = math.NaN()
+	var se *SampleError
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x2}, nil); !errors.As(err, &se) || se.Index != 4 {
+		t.Errorf("NaN: %v", err)
+	}
+}
