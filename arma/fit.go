@@ -139,6 +139,8 @@ type Result struct {
 	// residuals.
 	zTail, aTail []float64
 	z            []float64 // y - X beta, for the exact forecast state
+	narma        int       // free ARMA coefficients (degrees of freedom used)
+	byOrder      bool      // fitted by Fit (an Order) rather than FitNoise
 }
 
 // Fit estimates a seasonal ARIMA model of y by conditional least squares
@@ -178,6 +180,7 @@ func Fit(ctx context.Context, y []float64, ord Order, opt *Options) (*Result, er
 	res, err := fitCore(ctx, y, Noise{AR: ar, MA: ma}, diffPoly(ord.D, ord.SD, s), ord.D+ord.SD > 0, opt, &ord)
 	if res != nil {
 		res.Order = ord
+		res.byOrder = true
 		m := Model{D: ord.D, SD: ord.SD, Period: ord.Period, Mean: res.Model.Mean, Sigma2: res.Sigma2}
 		m.AR, m.SAR = coefsOf(res.Noise.AR, ord.P, ord.SP)
 		m.MA, m.SMA = coefsOf(res.Noise.MA, ord.Q, ord.SQ)
@@ -402,7 +405,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 		x0[k] = v
 	}
-	res := &Result{N: n, Start: e.t0, NUsed: e.m, Names: names, Diff: diff}
+	res := &Result{N: n, Start: e.t0, NUsed: e.m, Names: names, Diff: diff, narma: e.narma}
 	var lres lm.Result
 	var cerr error
 	if np == 0 {

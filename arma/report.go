@@ -1,0 +1,50 @@
+package arma
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// LjungBox tests the fit's residuals (from Start) for whiteness up to lag
+// lags, with the degrees of freedom reduced by the number of estimated
+// ARMA coefficients (the mean and regressors do not count). Errors are
+// those of the package-level LjungBox.
+func (r *Result) LjungBox(lags int) (Portmanteau, error) {
+	return LjungBox(r.Resid[r.Start:], lags, r.narma)
+}
+
+// String returns a short report for people: the model, the estimates
+// with standard errors and t ratios, the innovation variance, the
+// criteria, the optimiser's outcome and any boundary flags. Numbers are
+// rounded for reading; use the fields for computation.
+func (r *Result) String() string {
+	var b strings.Builder
+	what := "noise model"
+	if r.byOrder {
+		what = "ARIMA" + r.Order.String()
+	}
+	fmt.Fprintf(&b, "%s fitted by conditional least squares to %d samples (residuals %d..%d, %d summed)\n",
+		what, r.N, r.Start, r.N-1, r.NUsed)
+	if len(r.Names) > 0 {
+		fmt.Fprintf(&b, "  %-10s %12s %12s %8s\n", "parameter", "estimate", "std. error", "t")
+		for i, nm := range r.Names {
+			fmt.Fprintf(&b, "  %-10s %12.5g %12.3g %8.2f\n", nm, r.Est[i], r.SE[i], r.T[i])
+		}
+	}
+	fmt.Fprintf(&b, "  sigma^2 %.5g (SSQ %.6g)  log-likelihood %.2f  AIC %.2f  AICc %.2f  BIC %.2f\n",
+		r.Sigma2, r.SSQ, r.LogLik, r.AIC, r.AICc, r.BIC)
+	fmt.Fprintf(&b, "  %s after %d iterations\n", r.Reason, r.Iter)
+	for _, f := range r.Boundary {
+		part := "AR part not stationary"
+		if f.Part == "MA" {
+			part = "MA part not invertible"
+		}
+		mods := make([]string, len(f.Roots))
+		for i, z := range f.Roots {
+			mods[i] = fmt.Sprintf("%.4g", math.Hypot(real(z), imag(z)))
+		}
+		fmt.Fprintf(&b, "  warning: %s: z-plane roots of modulus %s\n", part, strings.Join(mods, ", "))
+	}
+	return b.String()
+}
