@@ -154,7 +154,7 @@
 // (1-based line and column; columns count bytes), a message in the
 // spec's terms and the offending line, printed as
 //
-//	1:23: the constant term of the denominator must be 1, not 2; divide the numerator and the denominator by 2
+//	1:22: the constant term of the denominator must be 1, not 2; divide the numerator and the denominator by 2
 //	    temp = (w0 + w1 B) / (2 - d1 B) burner
 //	                         ^
 //

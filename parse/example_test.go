@@ -5,6 +5,7 @@ import (
 	"fmt"
 
 	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf"
 )
 
 func ExampleModel() {
@@ -19,10 +20,12 @@ func ExampleModel() {
 	}
 	in := m.Inputs[0]
 	fmt.Println(in.Series, "dead time", in.Delay, "samples;", m.Interval)
+	fmt.Println("noise", tf.FormatPoly(m.Noise.MA), "/", tf.FormatPoly(m.Noise.AR))
 	fmt.Println(m)
 	// Output:
 	// burner dead time 4 samples; 30 s
-	// temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (1 - theta1 B) / (1 - phi1 B) a; where d1 ~ 0.6, phi1 = 0.3; every 30 s
+	// noise (1 - theta1 B) / (1 - phi1 B)
+	// temp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + ARMA(1, 1); where d1 ~ 0.6, phi1 = 0.3; every 30 s
 }
 
 func ExampleModel_error() {
@@ -48,5 +51,5 @@ func ExampleSpec() {
 	fmt.Println(string(out))
 	// Output:
 	// rain 2
-	// {"model":"flow = w0 B^2 rain + 1 / (1 - phi1 B) a"}
+	// {"model":"flow = w0 B^2 rain + AR(1)"}
 }

@@ -223,7 +223,7 @@ func TestFastMatchesGrammar(t *testing.T) {
 	}
 	pieces := []string{"(", ")", "+", "-", "*", "/", "^", "=", "~", ",", ";", "B", "a", "x", "w", "2", "ARMA", "AR", "where", "every", "s"}
 	n := len(corpus)
-	mutations := 20
+	mutations := 12
 	if testing.Short() {
 		mutations = 4
 	}
@@ -419,11 +419,27 @@ func randomModel(rng *rand.Rand) tf.Model {
 		}
 		m.Inputs = append(m.Inputs, in)
 	}
-	switch rng.IntN(3) {
+	// shorthand builds the factor AR(p) or MA(q) expands to.
+	shorthand := func(name string, k int) tf.Poly {
+		if k == 0 {
+			return tf.Poly{}
+		}
+		f := tf.Factor{Exp: 1, Terms: []tf.Term{{Coef: tf.Coef{Value: 1}}}}
+		for i := 1; i <= k; i++ {
+			n := name + strconv.Itoa(i)
+			st := state{free: rng.IntN(2) == 0, v: randValue(rng, true)}
+			names[n] = st
+			f.Terms = append(f.Terms, tf.Term{Neg: true, Coef: tf.Coef{Name: n, Value: st.v, Free: st.free}, Power: i})
+		}
+		return tf.Poly{Factors: []tf.Factor{f}}
+	}
+	switch rng.IntN(4) {
 	case 1:
 		m.Noise = &arma.Noise{}
 	case 2:
 		m.Noise = &arma.Noise{MA: poly(rng.IntN(3), true, false), AR: poly(rng.IntN(3), true, false)}
+	case 3:
+		m.Noise = &arma.Noise{MA: shorthand("theta", rng.IntN(3)), AR: shorthand("phi", rng.IntN(4))}
 	}
 	if rng.IntN(2) == 0 {
 		m.Interval = tf.Interval{Value: randValue(rng, false) + 1e-3, Unit: []string{"s", "min", "h", "d"}[rng.IntN(4)]}
@@ -465,4 +481,71 @@ func randValue(rng *rand.Rand, signed bool) float64 {
 		v = -v
 	}
 	return v
+}
+
+// TestConcurrent parses good and bad specs from several goroutines at
+// once (run with -race): results equal those of a sequential run.
+func TestConcurrent(t *testing.T) {
+	specs := append([]string(nil), goodSpecs...)
+	for _, c := range errorCases[:20] {
+		specs = append(specs, c.spec)
+	}
+	want := make([]string, len(specs))
+	for i, s := range specs {
+		m, err := Model(s)
+		want[i] = m.String() + errString(err)
+	}
+	done := make(chan string, 4)
+	for g := range 4 {
+		go func() {
+			for r := range 20 {
+				for k := range specs {
+					i := (k + g*7 + r) % len(specs)
+					m, err := Model(specs[i])
+					if got := m.String() + errString(err); got != want[i] {
+						done <- "spec " + strconv.Itoa(i) + ": " + got
+						return
+					}
+				}
+			}
+			done <- ""
+		}()
+	}
+	for range 4 {
+		if msg := <-done; msg != "" {
+			t.Error(msg)
+		}
+	}
+}
+
+// TestDocExamples parses the examples of the package documentation.
+func TestDocExamples(t *testing.T) {
+	for _, s := range []string{
+		"# kiln: burner firing rate (%) -> chamber temperature (degC)\ntemp = 21.5 + (w0 + w1 B) / (1 - d1 B) B^4 burner + (1 - t1 B) / (1 - p1 B) a\nwhere w0 ~ 2, d1 ~ 0.6\nevery 30 s",
+		"y = w0 x + 0.5 / (1 - d1 B) z where d1 = 0.8, w0 ~ 0.8",
+		"y = (w0 + w1 B - w2 B^2) x + (1 - 0.5 B) z + (1 - B^12) v",
+		"y = (w1*B) x + w0 * B^3 z",
+		"y = w0 / ((1 - d1 B)(1 - d2 B)) x + (1 - p1 B)(1 - P1 B^12) z + (1 - B)^2 v",
+		"y = w0 x",
+		"y = w0 B^3 x",
+		"y = (w0 + w1 B) / (1 - d1 B) x",
+		"y = w0 / (1 - d1 B) / (1 - d2 B) B^2 x",
+		"y = 1 x",
+		"y = w0 ((1 - B) x)",
+		"y = -4.2 + (-w0) x",
+		"(1 - B) temp = w0 ((1 - B) burner) + a",
+		"(1 - B)(1 - B^12) sales = w0 B^2 ((1 - B)(1 - B^12) lead) + a",
+		"y = w0 x + a",
+		"y = w0 x + (1 - t1 B) / (1 - p1 B) a",
+		"y = w0 x + 1 / (1 - p1 B) a",
+		"y = w0 x + (1 - t1 B) / (1 - p1 B) / (1 - P1 B^12) a",
+		"y = w0 x + AR(2)", "y = w0 x + MA(1)", "y = w0 x + ARMA(2, 1)", "y = w0 x + ARMA(0, 0)",
+		"y = w0 x + ARMA(1, 1) where phi1 ~ 0.5",
+		"y = w0 x every 30 s",
+		"y = 2 x + 0.5 z + .5 v + 1e-3 u + 2.5E+4 q",
+	} {
+		if _, err := Model(s); err != nil {
+			t.Errorf("%q: %v", s, err)
+		}
+	}
 }

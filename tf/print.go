@@ -16,7 +16,8 @@ import (
 // denominator factor, B^k for the dead time, then the series, written
 // ((1 - B) x) when the input is differenced), the noise term
 // theta(B) / phi(B) a (a alone for white noise, nothing when Noise is
-// nil), then a where clause with every named coefficient that is held
+// nil; AR(p), MA(q) or ARMA(p, q) when the noise is written exactly as
+// that shorthand expands), then a where clause with every named coefficient that is held
 // (name = value) or free with a non-zero start value (name ~ value), in
 // order of first use, and the sample interval.
 //
@@ -64,8 +65,22 @@ func (m Model) prAppend(b *strings.Builder) {
 	}
 	if m.Noise != nil {
 		sep()
+		p, okAR := prShorthand(m.Noise.AR, "phi")
+		q, okMA := prShorthand(m.Noise.MA, "theta")
 		switch {
 		case m.Noise.IsWhite():
+		case okAR && okMA:
+			switch {
+			case q == 0:
+				b.WriteString("AR(" + strconv.Itoa(p) + ")")
+			case p == 0:
+				b.WriteString("MA(" + strconv.Itoa(q) + ")")
+			default:
+				b.WriteString("ARMA(" + strconv.Itoa(p) + ", " + strconv.Itoa(q) + ")")
+			}
+			m.prWhere(b)
+			m.prEvery(b)
+			return
 		case m.Noise.MA.IsOne():
 			b.WriteString("1 ")
 		default:
@@ -80,10 +95,36 @@ func (m Model) prAppend(b *strings.Builder) {
 		b.WriteByte('a')
 	}
 	m.prWhere(b)
+	m.prEvery(b)
+}
+
+func (m Model) prEvery(b *strings.Builder) {
 	if m.Interval != (Interval{}) {
 		b.WriteString("; every ")
 		b.WriteString(m.Interval.String())
 	}
+}
+
+// prShorthand reports whether p is written as the AR(p) or MA(q)
+// shorthand expands: no factors (order 0), or the one factor
+// (1 - name1 B - ... - namek B^k) with the names in order.
+func prShorthand(p Poly, name string) (int, bool) {
+	if p.IsOne() {
+		return 0, true
+	}
+	if len(p.Factors) != 1 || p.Factors[0].Exp != 1 {
+		return 0, false
+	}
+	ts := p.Factors[0].Terms
+	if len(ts) < 2 || ts[0].Neg || ts[0].Power != 0 || ts[0].Coef.Name != "" || ts[0].Coef.Value != 1 {
+		return 0, false
+	}
+	for k, t := range ts[1:] {
+		if !t.Neg || t.Power != k+1 || t.Coef.Name != name+strconv.Itoa(k+1) {
+			return 0, false
+		}
+	}
+	return len(ts) - 1, true
 }
 
 // prWhere writes the where clause: each name once, at its first use,
