@@ -1,6 +1,7 @@
 package tf_test
 
 import (
+	"strconv"
 	"testing"
 
 	"github.com/backshift/backshift/tf"
@@ -34,17 +35,26 @@ func TestPlantAllocs(t *testing.T) {
 	}
 }
 
-// BenchmarkPlantStep times one Plant.Step of a (2,2) term with dead time
-// 3; 10^3..10^6 steps per op so that the per-step cost is reported.
+// BenchmarkPlantStep times Plant.Step for a (2,2) term with dead time 3,
+// n = 10^3..10^6 steps per op; ns/step is reported (target <= 10, 0
+// allocs).
 func BenchmarkPlantStep(b *testing.B) {
 	p := tf.NewPlant(tf.MustRational([]float64{0.2, 0.1, 0.05}, []float64{1, -1.2, 0.5}, 3))
-	b.ReportAllocs()
-	u, s := 1.0, 0.0
-	for b.Loop() {
-		s += p.Step(u)
-		u = -u
-	}
-	if s == 12345 {
-		b.Log(s)
+	for n := 1000; n <= 1_000_000; n *= 10 {
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			s := 0.0
+			for b.Loop() {
+				u := 1.0
+				for i := 0; i < n; i++ {
+					s += p.Step(u)
+					u = -u
+				}
+			}
+			if s == 12345 {
+				b.Log(s)
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n), "ns/step")
+		})
 	}
 }
