@@ -244,6 +244,7 @@ type engine struct {
 	narma    int
 	kmu      int // index of the mean in x, -1 when held
 	mu       float64
+	shift    float64 // level removed from wy when the mean is free (accuracy)
 	kb       []int // index in x of each regressor, -1 when held
 	beta     []float64
 	wy       []float64   // differenced y minus held regressors
@@ -382,6 +383,15 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	if constantFrom(e.wy, dd) && len(o.X) == 0 {
 		return nil, &ConstantError{Series: o.Name, N: n}
 	}
+	if e.kmu >= 0 {
+		// Estimate the mean as a deviation from the sample level, so that
+		// residuals of a series far from zero are not formed by cancelling
+		// large numbers (the reported mean adds the level back).
+		e.shift = meanOf(e.wy[dd:])
+		for t := dd; t < n; t++ {
+			e.wy[t] -= e.shift
+		}
+	}
 	e.w = make([]float64, n)
 	if testEngineHook != nil {
 		testEngineHook(e)
@@ -402,6 +412,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 		if !ok || k < 0 {
 			return nil, &ArgError{Arg: "Init", Msg: "no free parameter named " + nm}
+		}
+		if k == e.kmu {
+			v -= e.shift
 		}
 		x0[k] = v
 	}
@@ -482,7 +495,10 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	res.Noise = Noise{AR: e.ar, MA: e.ma}
 	res.AR = e.ar.Coeffs()
 	res.MA = e.ma.Coeffs()
-	res.Est = x
+	res.Est = append([]float64(nil), x...)
+	if e.kmu >= 0 {
+		res.Est[e.kmu] += e.shift
+	}
 	res.SSQ = f
 	res.Sigma2 = f / float64(e.m)
 	res.Iter, res.Evals = lres.Iter, lres.Evals
@@ -493,7 +509,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	res.Model.Mean = e.mu
 	if e.kmu >= 0 {
-		res.Model.Mean = x[e.kmu]
+		res.Model.Mean = res.Est[e.kmu]
 	}
 	res.Model.Sigma2 = res.Sigma2
 	res.Beta = append([]float64(nil), e.beta...)
