@@ -163,7 +163,7 @@
 // dead time not a whole non-negative number, an input named twice, the
 // output used as an input, a name used as both a series and a
 // coefficient, a name in a differencing operator, an unknown unit, ...)
-// or ErrLimit.
+// or ErrLimit. Check applies the same rules to a model built in code.
 //
 // # Limits
 //

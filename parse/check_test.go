@@ -1,0 +1,53 @@
+package parse
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/tf"
+)
+
+func TestCheck(t *testing.T) {
+	m := MustModel("temp = c + (w0 + w1 B) / (1 - d1 B) B^4 burner + w0 feed + ARMA(1, 1) where c ~ 20")
+	if err := Check(m); err != nil {
+		t.Fatalf("valid model: %v", err)
+	}
+	// An estimator writes estimates in: still valid.
+	est := m.Clone()
+	est.Inputs[0].Den.Factors[0].Terms[1].Coef.Value = 0.7
+	if err := Check(est); err != nil {
+		t.Errorf("with estimates: %v", err)
+	}
+	cases := []struct {
+		edit func(m *tf.Model)
+		msg  string
+	}{
+		{func(m *tf.Model) { m.Output = "" }, "the model has no output name"},
+		{func(m *tf.Model) { m.Inputs[0].Num.Factors[0].Terms[1].Coef.Value = math.NaN() },
+			"the coefficient w1 of the numerator of input burner is NaN"},
+		{func(m *tf.Model) { m.Inputs[1].Num.Factors[0].Terms[0].Coef.Value = 2 },
+			"the coefficient w0 of the numerator of input feed differs from its use in the numerator of input burner (free from 2 against free from 0); one name is one parameter"},
+		{func(m *tf.Model) { m.Inputs[0].Den.Factors[0].Terms[0].Coef.Value = 2 },
+			"the constant term of the denominator must be 1, not 2; divide the numerator and the denominator by 2"},
+		{func(m *tf.Model) { m.Inputs[1].Series = "burner" },
+			"input burner appears twice; combine its terms into one transfer function"},
+		{func(m *tf.Model) { m.Interval = tf.Interval{Value: 3, Unit: "fortnight"} },
+			`unknown unit "fortnight" for the sample interval; use s, min, h or d`},
+	}
+	for _, c := range cases {
+		bad := m.Clone()
+		c.edit(&bad)
+		err := Check(bad)
+		var e *Error
+		if !errors.As(err, &e) || e.Msg != c.msg {
+			t.Errorf("got %v\nwant %s", err, c.msg)
+		}
+	}
+	// Check does not modify the model.
+	before := m.String()
+	Check(m)
+	if m.String() != before {
+		t.Error("Check modified the model")
+	}
+}
