@@ -1,0 +1,85 @@
+package tf
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/arma"
+)
+
+func fitHasWarning(ws []Warning, k WarningKind) bool {
+	for _, w := range ws {
+		if w.Kind == k {
+			return true
+		}
+	}
+	return false
+}
+
+// TestFitWarningsRules checks each warning rule on estimates built by
+// hand: a pole at z = 1.0 (integrator) and an AR root at 1.2, an MA zero
+// at 1.0, a numerator zero at 0.52 beside a pole at 0.5, a correlation of
+// 0.97, and a fit that did not converge.
+func TestFitWarningsRules(t *testing.T) {
+	m := fitMCModel()
+	set := func(p Poly, v float64) {
+		p.Each(func(c *Coef) {
+			if c.Name != "" {
+				c.Value = v
+			}
+		})
+	}
+	set(m.Inputs[0].Num, 1) // w0 = 1, then w1 = 0.52: zero at z = 0.52
+	m.Inputs[0].Num.Factors[0].Terms[1].Coef.Value = 0.52
+	set(m.Inputs[0].Den, 1.0) // pole at z = 1
+	set(m.Noise.AR, 1.2)      // AR root at z = 1.2
+	m.Noise.MA = fitOneMinus("t1", 1)
+	set(m.Noise.MA, 1.0) // MA zero at z = 1
+	e := &Estimate{Model: m, Converged: false, Reason: "not converged: iteration limit reached",
+		Params: []Param{{Name: "w0"}, {Name: "d1"}},
+		Corr:   [][]float64{{1, 0.97}, {0.97, 1}}}
+	ws := fitWarnings(e, false)
+	for _, k := range []WarningKind{UnstableDenominator, NonStationaryNoise, NonInvertibleNoise, HighCorrelation, NotConverged} {
+		if !fitHasWarning(ws, k) {
+			t.Errorf("missing %v warning: %v", k, ws)
+		}
+	}
+	if fitHasWarning(ws, CancellingRoots) {
+		// zero 0.52 vs pole 1.0 are far apart
+		t.Errorf("unexpected cancellation warning: %v", ws)
+	}
+	set(m.Inputs[0].Den, 0.5)
+	ws = fitWarnings(e, true)
+	if !fitHasWarning(ws, CancellingRoots) || !fitHasWarning(ws, SingularInformation) || fitHasWarning(ws, UnstableDenominator) {
+		t.Errorf("zero 0.52 beside pole 0.5, singular J'J: %v", ws)
+	}
+}
+
+// TestFitWarnsRedundant fits a first-order numerator and denominator to
+// data with a pure gain and white noise: the fitted zero and pole cancel
+// and the estimates correlate near 1, and the fit says so.
+func TestFitWarnsRedundant(t *testing.T) {
+	rng := fitRand(21)
+	n := 500
+	x := fitSimAR1(rng, n, 0.3)
+	y := make([]float64, n)
+	for i := 1; i < n; i++ {
+		y[i] = 2*x[i-1] + 0.3*rng.NormFloat64()
+	}
+	num := fitP(fitFac(fitTerm(false, "w0", 0, 0), fitTerm(true, "w1", 0, 1)))
+	m := Model{Output: "y", Inputs: []Input{{Series: "x", Num: num, Den: fitOneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
+	est, err := Fit(context.Background(), m, map[string][]float64{"y": y, "x": x}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w1, _ := est.Param("w1")
+	d1, _ := est.Param("d1")
+	w0, _ := est.Param("w0")
+	if math.Abs(w1.Value/w0.Value-d1.Value) < fitCancelDist && !fitHasWarning(est.Warnings, CancellingRoots) {
+		t.Errorf("zero %v and pole %v cancel without a warning: %v", w1.Value/w0.Value, d1.Value, est.Warnings)
+	}
+	if !fitHasWarning(est.Warnings, CancellingRoots) || !fitHasWarning(est.Warnings, HighCorrelation) {
+		t.Errorf("warnings %v (w0 %v w1 %v d1 %v)", est.Warnings, w0.Value, w1.Value, d1.Value)
+	}
+}
