@@ -74,8 +74,8 @@ func (p FOPDT) Discretize(T float64) (Rational, error) {
 //	Gain = (b1 + b2)/(1 - a),  TimeConstant = -T/ln(a),
 //	DeadTime = (b - 1) T + f T,  f = 1 + (TimeConstant/T) ln(1 - (1-a) b1/(b1+b2)),
 //
-// so that f = 0 for b2 = 0. A fitted term whose numerator split lies within 1e-9 of the
-// admissible range [0, 1) of f is clamped into it.
+// so that f = 0 for b2 = 0. A fitted term whose split b1/(b1+b2) lies
+// outside [0, 1] by at most 1e-9 is clamped into it.
 //
 // It returns an *ArgError when the term is not of this form (other
 // orders, a pole outside (0, 1), a zero gain, no dead time, or a

@@ -53,8 +53,8 @@ func Parallel(g, h Rational) (Rational, error) {
 // set-point is Feedback(Series(c, p), Constant(1)), and the response of
 // the output to a load entering at the plant input is Feedback(p, c).
 // The loop dead time b_g + b_h enters the denominator as a power of B, so
-// loops with long dead times may exceed MaxDegree (an *ErrDegree
-// CoefError); simulate such loops with two Plants instead.
+// loops with long dead times may exceed MaxDegree (a *CoefError with
+// ErrDegree); simulate such loops with two Plants instead.
 //
 // It returns a *CoefError with ErrZeroConstant when the loop is
 // ill-posed (b_g + b_h = 0 and 1 + g_0 h_0 = 0, where g_0 and h_0 are the

@@ -67,7 +67,9 @@ type Bound struct {
 //
 // which is the returned Tail; Sum adds |h_k| for k <= N + M. It returns an
 // *UnstableError for a term with a pole on or outside the unit circle, or
-// poles so close to it (|z| > 1 - 1e-7) that M would exceed 2^26.
+// with poles so close to it that M would exceed 2^22 samples (|z| above
+// about 1 - 3e-6), where the impulse response would not fit in a
+// reasonable amount of memory.
 func (r Rational) BIBOBound() (Bound, error) {
 	num, den := r.coefs()
 	rho := r.MaxPoleMagnitude()
@@ -95,7 +97,7 @@ func (r Rational) BIBOBound() (Bound, error) {
 	m := 1
 	q := mat.Norm(a, math.Inf(1))
 	for q > 1e-6 {
-		if m >= 1<<26 {
+		if m >= 1<<22 {
 			return Bound{}, &UnstableError{What: "BIBO bound (poles too close to the unit circle)", MaxPole: rho}
 		}
 		a.Mul(a, a)
