@@ -46,11 +46,11 @@ func BenchmarkCross(b *testing.B) {
 	}
 }
 
-// BenchmarkCrossover times both paths at n = 10^5 over K = 5..160, the
+// BenchmarkCrossover times both paths at n = 10^5 over K = 10..640, the
 // measurement behind chooseMethod.
 func BenchmarkCrossover(b *testing.B) {
 	x, y := benchSeries(100_000)
-	for _, K := range []int{5, 10, 20, 40, 80, 160} {
+	for _, K := range []int{10, 20, 40, 80, 160, 320, 640} {
 		for _, m := range []Method{Direct, FFT} {
 			b.Run(m.String()+"/K="+strconv.Itoa(K), func(b *testing.B) {
 				b.ReportAllocs()

@@ -1,10 +1,6 @@
 package ccf
 
-import (
-	"math/bits"
-
-	"gonum.org/v1/gonum/dsp/fourier"
-)
+import "math/bits"
 
 // fftLen returns the block FFT length used for K lags: the power of two
 // at least fftFactor(2K+1) and at least 256, so that each block of
@@ -22,16 +18,17 @@ func fftLen(K int) int {
 // cross-correlation of the zero-padded x block with the y segment that
 // starts K samples before it, which fits in M points without wrapping.
 // The products conj(X_j) Y_j are summed over blocks and transformed back
-// once.
+// once. The transforms are the package's radix-2 real FFT (rfft.go),
+// checked against gonum dsp/fourier.
 func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
 	n := len(x)
 	M := fftLen(K)
 	if M > 2*(n+K) {
 		// Short series: one block covering everything.
-		M = 1 << bits.Len(uint(n+2*K-1))
+		M = max(8, 1<<bits.Len(uint(n+2*K-1)))
 	}
 	L := M - 2*K
-	fft := fourier.NewFFT(M)
+	fft := newRFFT(M)
 	xb := make([]float64, M)
 	ys := make([]float64, M)
 	X := make([]complex128, M/2+1)
@@ -66,15 +63,16 @@ func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
 				ys[m] = 0
 			}
 		}
-		fft.Coefficients(X, xb)
-		fft.Coefficients(Y, ys)
+		fft.forward(X, xb)
+		fft.forward(Y, ys)
 		for f, xv := range X {
 			yv := Y[f]
 			// conj(xv) * yv
 			acc[f] += complex(real(xv)*real(yv)+imag(xv)*imag(yv), real(xv)*imag(yv)-imag(xv)*real(yv))
 		}
 	}
-	cc := fft.Sequence(xb, acc)
+	fft.inverse(xb, acc)
+	cc := xb
 	inv := 1 / float64(M)
 	for d := 0; d <= 2*K; d++ {
 		r[d] = cc[d] * inv
@@ -84,20 +82,30 @@ func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
 
 // chooseMethod returns Direct or FFT for n samples and K lags by the
 // measured crossover: direct costs about n(2K+1) multiply-adds, the
-// blocked FFT about 2 n/L real transforms of M points.
+// blocked FFT about 2 n/L real transforms of M points, that is a cost per
+// sample proportional to log2 M. BenchmarkCrossover (n = 10^5, K =
+// 10..640) put the crossover near K = 250 with the AVX2/FMA kernel and
+// near K = 25 in pure Go; the factors below place the switch there.
 func chooseMethod(n, K int) Method {
 	M := fftLen(K)
 	lg := bits.Len(uint(M))
-	if 2*K+1 <= crossoverFactor*lg {
+	f := crossoverPureGo
+	if hasFMA {
+		f = crossoverFMA
+	}
+	if 2*K+1 <= f*lg {
 		return Direct
 	}
 	return FFT
 }
 
-// crossoverFactor is measured with BenchmarkCrossover; see the comment
-// there.
-const crossoverFactor = 8
+// Crossover factors of chooseMethod: Direct while 2K+1 <= factor*log2(M).
+const (
+	crossoverFMA    = 40
+	crossoverPureGo = 4
+)
 
-// fftFactor sets the block length: 16 was the fastest of 4, 8, 16, 32 for
-// K = 2000 at n = 10^6 (BenchmarkCross on the development machine).
-const fftFactor = 16
+// fftFactor sets the block length: with the package's FFT, 8 was the
+// fastest of 2, 4, 8, 16 over K = 40 and K = 2000 at n = 10^6 (measured
+// on the development machine).
+const fftFactor = 8
