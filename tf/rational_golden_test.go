@@ -19,6 +19,8 @@ type golden struct {
 		Delay   int       `json:"delay"`
 		Impulse []float64 `json:"impulse"`
 		Step    []float64 `json:"step"`
+		DImp    []float64 `json:"dimpulse"`
+		DStep   []float64 `json:"dstep"`
 		Input   []float64 `json:"input"`
 		Output  []float64 `json:"output"`
 		ZerosRe []float64 `json:"zeros_re"`
@@ -85,6 +87,13 @@ func TestRationalGoldenScipy(t *testing.T) {
 			}
 			if e := testutil.RunningRelErr(r.Step(len(m.Step)), m.Step); !(e <= respTol) {
 				t.Errorf("step: relative error %.3g vs scipy.signal.lfilter", e)
+			}
+			// scipy.signal.dimpulse/dstep 1.10.1 (state-space simulation).
+			if e := testutil.RunningRelErr(r.Impulse(len(m.DImp)), m.DImp); !(e <= respTol) {
+				t.Errorf("impulse: relative error %.3g vs scipy.signal.dimpulse", e)
+			}
+			if e := testutil.RunningRelErr(r.Step(len(m.DStep)), m.DStep); !(e <= respTol) {
+				t.Errorf("step: relative error %.3g vs scipy.signal.dstep", e)
 			}
 			y, err := r.Filter(m.Input)
 			if err != nil {

@@ -11,6 +11,7 @@ powers of B (= z^-1), the dead time is a count of leading zero numerator
 coefficients. Functions used:
 
 - scipy.signal.lfilter: impulse and step responses, a filtered random input
+- scipy.signal.dimpulse, dstep: the same responses from a state-space form
 - scipy.signal.tf2zpk: zeros and poles in the z-plane
 - scipy.signal.freqz: frequency response on a grid in rad/sample, with
   numpy.unwrap for the phase
@@ -52,6 +53,13 @@ def model(name, num, den, delay):
         "input": x.tolist(),
         "output": sig.lfilter(b, a, x).tolist(),
     }
+    # The same responses by scipy.signal.dimpulse/dstep, which simulate a
+    # state-space realisation (an algorithm independent of lfilter's):
+    # H(z) = z^-L B(z)/z^-L A(z) with both padded to L + 1 = max length.
+    L = max(len(b), len(a))
+    sysd = (b + [0.0] * (L - len(b)), a + [0.0] * (L - len(a)), 1.0)
+    out["dimpulse"] = np.ravel(sig.dimpulse(sysd, n=N_RESP)[1][0]).tolist()
+    out["dstep"] = np.ravel(sig.dstep(sysd, n=N_RESP)[1][0]).tolist()
     # Zeros and poles in z: omega and delta read as descending powers of z
     # are z^s omega(1/z) and z^r delta(1/z).
     z, p, _ = sig.tf2zpk(num, den)
