@@ -57,7 +57,12 @@ func (b *builder) build(g *gSpec) {
 		b.term(&eq.Terms[i], i == 0)
 	}
 	if len(b.m.Inputs) == 0 && len(eq.Terms) > 0 && len(b.errs) == 0 {
-		b.fail(eq.Terms[0].Pos, ErrModel, "the model has no input term; write at least one, such as w0 B x")
+		if c := b.m.Const; c != nil && c.Name != "" {
+			b.failAt(c.Pos, ErrModel, "the model has no input term: a lone name such as "+c.Name+
+				" is the constant; write w0 "+c.Name+" (or 1 "+c.Name+" for unit gain) to make it an input")
+		} else {
+			b.fail(eq.Terms[0].Pos, ErrModel, "the model has no input term; write at least one, such as w0 B x")
+		}
 	}
 	var binds []gBind
 	everySeen := false

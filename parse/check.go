@@ -30,12 +30,12 @@ func Check(m tf.Model) error {
 	seen := map[string]use{}
 	visit := func(where string) func(c *tf.Coef) {
 		return func(c *tf.Coef) {
-			name := c.Name
-			if name == "" {
-				name = "a number"
+			what := "the coefficient " + c.Name
+			if c.Name == "" {
+				what = "a coefficient"
 			}
 			if math.IsNaN(c.Value) || math.IsInf(c.Value, 0) {
-				b.failAt(c.Pos, ErrModel, "the coefficient "+name+" of the "+where+" is "+strconv.FormatFloat(c.Value, 'g', -1, 64))
+				b.failAt(c.Pos, ErrModel, what+" of the "+where+" is "+strconv.FormatFloat(c.Value, 'g', -1, 64))
 				return
 			}
 			if c.Name == "" {

@@ -51,3 +51,10 @@ func TestCheck(t *testing.T) {
 		t.Error("Check modified the model")
 	}
 }
+
+func TestCheckErrorText(t *testing.T) {
+	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: tf.Poly{Factors: []tf.Factor{{Exp: 1, Terms: []tf.Term{{Coef: tf.Coef{Value: math.Inf(1)}}}}}}}}}
+	if err := Check(m); err == nil || err.Error() != "a coefficient of the numerator of input x is +Inf" {
+		t.Errorf("got %v", err)
+	}
+}

@@ -42,8 +42,13 @@ type Error struct {
 	Kind error  // ErrSyntax, ErrModel or ErrLimit
 }
 
-// Error returns "line:col: message" followed by the spec line and a caret.
+// Error returns "line:col: message" followed by the spec line and a caret,
+// or the message alone when Pos is the zero Pos (a problem found by Check
+// in a model built in code).
 func (e *Error) Error() string {
+	if !e.Pos.IsValid() {
+		return e.Msg
+	}
 	var b strings.Builder
 	b.WriteString(strconv.Itoa(e.Pos.Line))
 	b.WriteByte(':')

@@ -138,3 +138,15 @@ func TestErrorTable(t *testing.T) {
 		}
 	}
 }
+
+func init() {
+	errorCases = append(errorCases, []struct {
+		spec      string
+		line, col int
+		kind      error
+		msg       string
+	}{
+		{"temp = burner", 1, 8, ErrModel, "the model has no input term: a lone name such as burner is the constant; write w0 burner (or 1 burner for unit gain) to make it an input"},
+		{"temp = 4 + burner + a", 1, 12, ErrModel, "a second constant term; a model has at most one (a lone name is a constant: to feed series burner with unit gain write 1 burner)"},
+	}...)
+}
