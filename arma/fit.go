@@ -57,6 +57,13 @@ type Options struct {
 	// polynomial (P + SP*Period) plus that of the differencing
 	// (D + SD*Period). Smaller nonzero values are an *ArgError.
 	Start int
+	// AllowNonInvertible lets the optimiser leave the invertible region
+	// of the MA polynomial. By default, when the start is invertible,
+	// steps to MA roots on or outside the unit circle (z-plane) are
+	// refused, so that an estimate that wants to cross ends on the
+	// boundary and is flagged there (Result.Boundary). Conditional least
+	// squares itself is defined on both sides.
+	AllowNonInvertible bool
 	// MaxIter bounds the optimiser's iterations; zero means 500.
 	MaxIter int
 	// Tol is the relative reduction of the sum of squares below which the
@@ -251,6 +258,7 @@ type engine struct {
 	wx       [][]float64 // differenced free regressor columns
 	w        []float64   // scratch: current w - mu
 	one      []float64
+	keepInvertible bool // refuse non-invertible MA polynomials in eval
 	// curvature scratch, allocated on first use
 	hr, hlam []float64
 	hjac     [][]float64
@@ -428,6 +436,10 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 		lres = lm.Result{X: nil, SSQ: dot(r, r), Resid: r, Reason: lm.SmallGradient}
 	} else {
+		if !o.AllowNonInvertible && e.narma > 0 {
+			e.set(x0)
+			e.keepInvertible = schurStable(e.ma.Coeffs())
+		}
 		prob := lm.Problem{M: e.m, N: np, Eval: e.eval}
 		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
@@ -636,6 +648,9 @@ func (e *engine) eval(x, r []float64, jac [][]float64) error {
 	e.set(x)
 	phi, dphi := e.ar.Grad(e.lookup, e.narma)
 	theta, dtheta := e.ma.Grad(e.lookup, e.narma)
+	if e.keepInvertible && !schurStable(theta) {
+		return errNonInvertible
+	}
 	mu := e.mu
 	if e.kmu >= 0 {
 		mu = x[e.kmu]
@@ -889,6 +904,43 @@ func equalSlices(a, b []float64) bool {
 		if a[i] != b[i] {
 			return false
 		}
+	}
+	return true
+}
+
+var errNonInvertible = errors.New("arma: MA polynomial not invertible")
+
+// schurStable reports whether every root in B of a (a[0] != 0) lies
+// strictly outside the unit circle (every z-plane root strictly inside),
+// by the Schur-Cohn step-down recursion: the reflection coefficients must
+// all have modulus below 1. It allocates only for degrees above 32.
+func schurStable(a []float64) bool {
+	m := len(a) - 1
+	for m > 0 && a[m] == 0 {
+		m--
+	}
+	if m == 0 {
+		return true
+	}
+	var buf [2][33]float64
+	cur, nxt := buf[0][:m+1], buf[1][:m+1]
+	if m > 32 {
+		cur, nxt = make([]float64, m+1), make([]float64, m+1)
+	}
+	for j := 0; j <= m; j++ {
+		cur[j] = a[j] / a[0]
+	}
+	for k := m; k >= 1; k-- {
+		kap := cur[k]
+		if !(math.Abs(kap) < 1) {
+			return false
+		}
+		d := 1 - kap*kap
+		nxt[0] = 1
+		for j := 1; j < k; j++ {
+			nxt[j] = (cur[j] - kap*cur[k-j]) / d
+		}
+		cur, nxt = nxt, cur
 	}
 	return true
 }

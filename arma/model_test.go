@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"math/cmplx"
+	"math/rand/v2"
 	"sort"
 	"testing"
 )
@@ -141,5 +142,33 @@ func TestSimulateDeterministic(t *testing.T) {
 	v *= m.Sigma2
 	if math.Abs(c2.Cov[0]/v-1) > 0.05 || math.Abs(c2.Mean-10) > 0.05 {
 		t.Errorf("variance %g (model %g), mean %g", c2.Cov[0], v, c2.Mean)
+	}
+}
+
+// TestSchurStable compares the step-down test with the root finder on
+// random polynomials of degree 1..8 (common practice: Schur-Cohn).
+func TestSchurStable(t *testing.T) {
+	rng := rand.New(rand.NewPCG(51, 52))
+	for it := 0; it < 2000; it++ {
+		d := 1 + it%8
+		a := make([]float64, d+1)
+		a[0] = 1
+		for j := 1; j <= d; j++ {
+			a[j] = rng.NormFloat64() * 0.6
+		}
+		bad, err := outside(a, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		zs, _ := zRoots(a)
+		near := false
+		for _, z := range zs {
+			if math.Abs(cmplx.Abs(z)-1) < 1e-9 {
+				near = true
+			}
+		}
+		if !near && schurStable(a) != (len(bad) == 0) {
+			t.Fatalf("%v: schurStable %v, roots %v", a, schurStable(a), zs)
+		}
 	}
 }

@@ -66,7 +66,9 @@ type Candidate struct {
 // Select fits every order of the grid to y by conditional least squares
 // (Fit, with opt for every candidate) on a bounded number of goroutines
 // and returns all candidates ranked: converged fits by increasing score,
-// then fits that stopped without converging, then failures.
+// then converged fits with boundary flags (roots on or outside the unit
+// circle: typically cancelling, over-parameterised models), then fits
+// that stopped without converging, then failures.
 //
 // So that the criteria compare likelihoods of the same residuals, every
 // candidate sums its residuals from the same index: the largest default
@@ -138,7 +140,7 @@ feed:
 		cerr = ctx.Err()
 	}
 	sort.SliceStable(cands, func(i, j int) bool {
-		ri, rj := rank(cands[i].Err), rank(cands[j].Err)
+		ri, rj := rank(cands[i]), rank(cands[j])
 		if ri != rj {
 			return ri < rj
 		}
@@ -157,13 +159,16 @@ func score(r *Result, c Criterion) float64 {
 	return r.AICc
 }
 
-func rank(err error) int {
-	if err == nil {
+func rank(c Candidate) int {
+	if c.Err == nil {
+		if len(c.Result.Boundary) > 0 {
+			return 1
+		}
 		return 0
 	}
 	var ce *ConvergenceError
-	if errors.As(err, &ce) {
-		return 1
+	if errors.As(c.Err, &ce) {
+		return 2
 	}
-	return 2
+	return 3
 }
