@@ -244,20 +244,20 @@ type coefRef struct {
 // engine holds one fit's data and scratch space; it is used by one
 // goroutine.
 type engine struct {
-	n, t0, m int
-	ar, ma   sym.Poly
-	refs     []coefRef
-	index    map[string]int
-	narma    int
-	kmu      int // index of the mean in x, -1 when held
-	mu       float64
-	shift    float64 // level removed from wy when the mean is free (accuracy)
-	kb       []int // index in x of each regressor, -1 when held
-	beta     []float64
-	wy       []float64   // differenced y minus held regressors
-	wx       [][]float64 // differenced free regressor columns
-	w        []float64   // scratch: current w - mu
-	one      []float64
+	n, t0, m       int
+	ar, ma         sym.Poly
+	refs           []coefRef
+	index          map[string]int
+	narma          int
+	kmu            int // index of the mean in x, -1 when held
+	mu             float64
+	shift          float64 // level removed from wy when the mean is free (accuracy)
+	kb             []int   // index in x of each regressor, -1 when held
+	beta           []float64
+	wy             []float64   // differenced y minus held regressors
+	wx             [][]float64 // differenced free regressor columns
+	w              []float64   // scratch: current w - mu
+	one            []float64
 	keepInvertible bool // refuse non-invertible MA polynomials in eval
 	// curvature scratch, allocated on first use
 	hr, hlam []float64
