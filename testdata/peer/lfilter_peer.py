@@ -11,8 +11,9 @@ Both sides filter the same sizes (10^3..10^7 samples of standard normal
 noise) through the same (s, r) = (1,1), (2,2), (4,4) terms with the same
 coefficients (see benchTerms in tf/rational_bench_test.go), each allocating
 its output. scipy is timed by the best of five rounds of repeated
-scipy.signal.lfilter(b, a, x) calls; Go by testing.B, best of -count 3. Printed: ns/sample for
-each and the ratio Go/scipy (target for (2,2) at 10^7: <= 0.5).
+scipy.signal.lfilter(b, a, x) calls; Go by testing.B, best of -count 3.
+Printed: ns/sample for each and the ratio Go/scipy (target for (2,2) at
+10^7: <= 0.5).
 Machines are shared: run it when the machine is quiet, and expect a few
 per cent of noise.
 """
