@@ -12,6 +12,13 @@ import "github.com/alecthomas/participle/v2/lexer"
 // On failure it returns the index of the token where it stopped.
 func fastParse(toks []lexer.Token) (*gSpec, int, bool) {
 	p := fastParser{toks: toks}
+	nParen := 0
+	for i := range toks {
+		if t := &toks[i]; t.Type == tokPunct && t.Value == "(" {
+			nParen++
+		}
+	}
+	p.groups = make([]gGroup, 0, nParen)
 	g := &gSpec{}
 	if !p.equation(&g.Eq) {
 		return nil, p.i, false
@@ -31,8 +38,28 @@ func fastParse(toks []lexer.Token) (*gSpec, int, bool) {
 }
 
 type fastParser struct {
-	toks []lexer.Token
-	i    int
+	toks   []lexer.Token
+	i      int
+	items  []gItem  // slab for the items inside parentheses
+	groups []gGroup // slab for groups
+}
+
+// newItem hands out a zeroed item from the slab.
+func (p *fastParser) newItem() *gItem {
+	if len(p.items) == cap(p.items) {
+		p.items = make([]gItem, 0, 16)
+	}
+	p.items = p.items[:len(p.items)+1]
+	return &p.items[len(p.items)-1]
+}
+
+// newGroup hands out a zeroed group from the slab.
+func (p *fastParser) newGroup() *gGroup {
+	if len(p.groups) == cap(p.groups) {
+		p.groups = make([]gGroup, 0, 16)
+	}
+	p.groups = p.groups[:len(p.groups)+1]
+	return &p.groups[len(p.groups)-1]
 }
 
 func (p *fastParser) peek() *lexer.Token { return &p.toks[p.i] }
@@ -50,7 +77,7 @@ func (p *fastParser) isKeyword(v string) bool {
 
 func (p *fastParser) equation(eq *gEquation) bool {
 	for p.isPunct("(") {
-		g := &gGroup{}
+		g := p.newGroup()
 		if !p.group(g) {
 			return false
 		}
@@ -145,10 +172,10 @@ func (p *fastParser) item(it *gItem) (ok, matched bool) {
 			if !p.isPunct("(") {
 				return false, true
 			}
-			it.Slash = &gGroup{}
+			it.Slash = p.newGroup()
 			return p.group(it.Slash), true
 		case "(":
-			it.Group = &gGroup{}
+			it.Group = p.newGroup()
 			return p.group(it.Group), true
 		}
 	}
@@ -221,7 +248,7 @@ func (p *fastParser) group(g *gGroup) bool {
 			g.Elems = append(g.Elems, el)
 			continue
 		}
-		it := &gItem{}
+		it := p.newItem()
 		ok, matched := p.item(it)
 		if !ok {
 			return false
