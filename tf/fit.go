@@ -497,15 +497,33 @@ func (w *fitWork) noiseSeries() {
 		c = w.m.Const.Value
 	}
 	nn := w.nn[ts:n]
-	copy(nn, w.w[ts:n])
-	for t := range nn {
-		nn[t] -= c
-	}
+	off := c
 	for i := range w.ins {
-		u := w.ins[i].u[ts:n]
-		off := w.ins[i].gain * w.ins[i].z0
+		off += w.ins[i].gain * w.ins[i].z0
+	}
+	ww := w.w[ts:n]
+	switch len(w.ins) {
+	case 0:
 		for t := range nn {
-			nn[t] -= u[t] + off
+			nn[t] = ww[t] - off
+		}
+	case 1:
+		u := w.ins[0].u[ts:n]
+		u = u[:len(nn)]
+		ww = ww[:len(nn)]
+		for t := range nn {
+			nn[t] = ww[t] - off - u[t]
+		}
+	default:
+		for t := range nn {
+			nn[t] = ww[t] - off
+		}
+		for i := range w.ins {
+			u := w.ins[i].u[ts:n]
+			u = u[:len(nn)]
+			for t := range nn {
+				nn[t] -= u[t]
+			}
 		}
 	}
 }
@@ -703,7 +721,7 @@ func (w *fitWork) window(m int) map[string][]float64 {
 func (w *fitWork) lmSettings(set FitSettings, maxIter int) *lm.Settings {
 	tol := set.Tol
 	if tol <= 0 {
-		tol = min(max(1e-16*float64(w.n-w.cond.First), 1e-14), 1e-10)
+		tol = min(max(1e-15*float64(w.n-w.cond.First), 1e-14), 1e-10)
 	}
 	return &lm.Settings{MaxIter: maxIter, FTol: tol}
 }

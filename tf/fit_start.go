@@ -180,7 +180,7 @@ func (w *fitWork) withValue(name string, v float64) []float64 {
 // [tr, n) and returns the coefficients.
 func fitOLS(w *fitWork, tr int, lags []int, p int) ([]float64, bool) {
 	n := w.n
-	xtx := mat.NewSymDense(p, nil)
+	acc := make([]float64, p*p)
 	xty := make([]float64, p)
 	row := make([]float64, p)
 	for t := tr; t < n; t++ {
@@ -201,9 +201,16 @@ func fitOLS(w *fitWork, tr int, lags []int, p int) ([]float64, bool) {
 		for a := 0; a < p; a++ {
 			ra := row[a]
 			xty[a] += ra * y
+			ac := acc[a*p : a*p+p]
 			for b := a; b < p; b++ {
-				xtx.SetSym(a, b, xtx.At(a, b)+ra*row[b])
+				ac[b] += ra * row[b]
 			}
+		}
+	}
+	xtx := mat.NewSymDense(p, nil)
+	for a := 0; a < p; a++ {
+		for b := a; b < p; b++ {
+			xtx.SetSym(a, b, acc[a*p+b])
 		}
 	}
 	// A small ridge keeps collinear lag sets solvable.
