@@ -30,7 +30,7 @@ func TestSelectFindsOrder(t *testing.T) {
 		t.Fatalf("best order %v, want (2,0,1)", best.Order)
 	}
 	for i := 1; i < len(cands); i++ {
-		if cands[i].Err == nil && cands[i-1].Err == nil && cands[i].Score < cands[i-1].Score {
+		if rank(cands[i]) == rank(cands[i-1]) && cands[i].Score < cands[i-1].Score || rank(cands[i]) < rank(cands[i-1]) {
 			t.Fatal("candidates not ranked")
 		}
 		if cands[i].Result != nil && cands[i].Result.Start != 3 {
