@@ -12,12 +12,13 @@ import (
 // sample.
 type Forecast struct {
 	// Mean[h-1] is the minimum mean-square-error forecast of y_{n-1+h}
-	// given the data (with the conditioning of the fit: innovations before
-	// the fit's Start index taken as zero).
+	// given the data and the fitted coefficients (see Result.Forecast for
+	// the two ways it is computed).
 	Mean []float64
-	// SE[h-1] = sqrt(Sigma2 sum_{j<h} psi_j^2), the forecast standard
-	// error for known coefficients (psi weights of the ARIMA model,
-	// differencing included).
+	// SE[h-1] is the forecast standard error for known coefficients: at
+	// least sqrt(Sigma2 sum_{j<h} psi_j^2) (psi weights of the ARIMA
+	// model, differencing included), plus the uncertainty of the state at
+	// the end of the data when Exact.
 	SE []float64
 	// Lower and Upper bound the two-sided interval Mean -+ z SE at Level,
 	// z the standard normal quantile (1+Level)/2.
