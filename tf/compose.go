@@ -2,6 +2,7 @@ package tf
 
 import (
 	"math"
+	"math/cmplx"
 	"strconv"
 
 	"github.com/backshift/backshift/internal/poly"
@@ -74,3 +75,58 @@ func Feedback(g, h Rational) (Rational, error) {
 }
 
 func ratFormat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// Cancel returns r with the pole-zero pairs that lie within tol of each
+// other (|p - z| <= tol max(1, |p|)) removed, as after composing a
+// controller with a plant whose dynamics it cancels. Each pole is paired
+// with its nearest unpaired zero; complex pairs cancel pairwise. The
+// result keeps the dead time, the leading zero coefficients of the
+// numerator (extra delay) and its first non-zero coefficient, and is
+// rebuilt from the remaining poles and zeros:
+//
+//	omega(B) = c B^m prod (1 - z_i B),   delta(B) = prod (1 - p_i B),
+//
+// so its coefficients carry the rounding of the root finder (about 1e-12
+// relative for well separated roots). tol must lie in [0, 1); Cancel
+// returns an *ArgError otherwise, and r itself when nothing cancels.
+func (r Rational) Cancel(tol float64) (Rational, error) {
+	if !(tol >= 0 && tol < 1) {
+		return Rational{}, &ArgError{Arg: "tol", Value: tol, Rule: "must lie in [0, 1)"}
+	}
+	num, _ := r.coefs()
+	poles, zeros := r.Poles(), r.Zeros()
+	usedZ := make([]bool, len(zeros))
+	keepP := make([]complex128, 0, len(poles))
+	cancelled := 0
+	for _, p := range poles {
+		best, bi := math.Inf(1), -1
+		for i, z := range zeros {
+			if !usedZ[i] {
+				if d := cmplx.Abs(p - z); d < best {
+					best, bi = d, i
+				}
+			}
+		}
+		if bi >= 0 && best <= tol*math.Max(1, cmplx.Abs(p)) {
+			usedZ[bi] = true
+			cancelled++
+			continue
+		}
+		keepP = append(keepP, p)
+	}
+	if cancelled == 0 {
+		return r, nil
+	}
+	keepZ := make([]complex128, 0, len(zeros))
+	for i, z := range zeros {
+		if !usedZ[i] {
+			keepZ = append(keepZ, z)
+		}
+	}
+	m := 0
+	for m < len(num)-1 && num[m] == 0 {
+		m++
+	}
+	n := poly.Shift(poly.Scale(num[m], poly.FromInverseRoots(keepZ)), m)
+	return NewRational(n, poly.FromInverseRoots(keepP), r.delay)
+}

@@ -1,0 +1,65 @@
+package tf_test
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
+	"github.com/backshift/backshift/tf"
+)
+
+// TestCancel: a controller zero placed on the plant pole at 0.8 cancels
+// it (by hand: 0.5 B^2/((1 - 0.8 B)(1 - 0.5 B)) times 2 (1 - 0.8 B)/(1 - B)
+// is B^2/((1 - 0.5 B)(1 - B)) = B^2/(1 - 1.5 B + 0.5 B^2)), and a
+// cancelled complex pair leaves the impulse response unchanged.
+func TestCancel(t *testing.T) {
+	p := tf.MustRational([]float64{0.5}, []float64{1, -1.3, 0.4}, 2)
+	c := tf.MustRational([]float64{2, -1.6}, []float64{1, -1}, 0)
+	pc, err := tf.Series(p, c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	min, err := pc.Cancel(1e-9)
+	if err != nil {
+		t.Fatal(err)
+	}
+	num, den := min.Num(), min.Den()
+	if len(num) != 1 || math.Abs(num[0]-1) > 1e-12 || len(den) != 3 ||
+		math.Abs(den[1]+1.5) > 1e-12 || math.Abs(den[2]-0.5) > 1e-12 || min.Delay() != 2 {
+		t.Errorf("cancelled %v, want (1) / (1 - 1.5 B + 0.5 B^2) B^2", min)
+	}
+	// Complex pair 0.6 +- 0.3i in both numerator and denominator, with a
+	// leading zero numerator coefficient (extra delay) that is kept.
+	pair := []float64{1, -1.2, 0.45}
+	g := tf.MustRational([]float64{0, 0.3, -0.36, 0.135}, mulP(pair, []float64{1, -0.9}), 1)
+	h, err := g.Cancel(1e-9)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if h.DenDegree() != 1 || h.NumDegree() != 1 {
+		t.Errorf("complex pair not cancelled: %v", h)
+	}
+	if e := testutil.RunningRelErr(h.Impulse(80), g.Impulse(80)); e > 1e-12 {
+		t.Errorf("impulse changed by cancellation: %.3g", e)
+	}
+	// Nothing within tolerance: r itself.
+	same, _ := p.Cancel(1e-9)
+	if same.String() != p.String() {
+		t.Errorf("Cancel changed %v to %v", p, same)
+	}
+	var ae *tf.ArgError
+	if _, err := p.Cancel(-1); !errors.As(err, &ae) {
+		t.Errorf("negative tol: %v", err)
+	}
+}
+
+func mulP(a, b []float64) []float64 {
+	c := make([]float64, len(a)+len(b)-1)
+	for i, x := range a {
+		for j, y := range b {
+			c[i+j] += x * y
+		}
+	}
+	return c
+}
