@@ -1,0 +1,139 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/backshift/backshift/tf"
+)
+
+// planStep is one change of a planned input: from sample From (counted
+// from the end of the record) the input is Value.
+type planStep struct {
+	From  int
+	Value float64
+}
+
+// parsePlan reads "0:55,60:75,120:60".
+func parsePlan(s string) ([]planStep, error) {
+	var out []planStep
+	for _, f := range strings.Split(s, ",") {
+		f = strings.TrimSpace(f)
+		if f == "" {
+			continue
+		}
+		a, b, ok := strings.Cut(f, ":")
+		from, err1 := strconv.Atoi(strings.TrimSpace(a))
+		v, err2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
+		if !ok || err1 != nil || err2 != nil || from < 0 {
+			return nil, fmt.Errorf("plan %q: want from:value pairs such as 0:55,60:75 (from in samples after the record)", s)
+		}
+		out = append(out, planStep{from, v})
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].From < out[j].From })
+	return out, nil
+}
+
+// schedule expands plan over h samples; before the first step the last
+// observed value last holds.
+func schedule(plan []planStep, h int, last float64) []float64 {
+	u := make([]float64, h)
+	v := last
+	k := 0
+	for j := range u {
+		for k < len(plan) && plan[k].From <= j {
+			v = plan[k].Value
+			k++
+		}
+		u[j] = v
+	}
+	return u
+}
+
+// forecastResult is kept for the picture.
+type forecastResult struct {
+	f       *tf.Forecast
+	planned string
+	plan    []float64
+	h       int
+}
+
+// forecast prints the forecast of the output for the planned schedule of
+// the first input, the other inputs forecast from their own models.
+func forecast(est *tf.Estimate, ds *dataset, o Options, w io.Writer, out *Outcome) error {
+	h := o.Horizon
+	if h <= 0 {
+		return nil
+	}
+	first := ds.inputs[0]
+	x := ds.data[first]
+	plan, err := parsePlan(o.Plan)
+	if err != nil {
+		return err
+	}
+	u := schedule(plan, h, x[len(x)-1])
+	f, err := est.Forecast(ds.data, h, &tf.ForecastSettings{Future: map[string][]float64{first: u}})
+	if err != nil {
+		return fmt.Errorf("forecast: %w", err)
+	}
+	out.forecast = &forecastResult{f: f, planned: first, plan: u, h: h}
+	unit := ds.timeUnit()
+	dt := ds.step()
+	fmt.Fprintf(w, "\nForecast of %s for the planned %s (%s), %.0f %% intervals:\n", ds.output, first, o.Plan, 100*f.Level)
+	var others []string
+	for _, in := range f.Inputs {
+		if !in.Known {
+			others = append(others, in.Series)
+		}
+	}
+	if len(others) > 0 {
+		fmt.Fprintf(w, "  (%s forecast from its own ARMA model; its uncertainty is in the intervals)\n", strings.Join(others, ", "))
+	}
+	fmt.Fprintf(w, "  %8s  %10s  %10s  %21s\n", "ahead ("+unit+")", first, ds.output, "interval")
+	stepEvery := max(1, h/12)
+	for j := stepEvery - 1; j < h; j += stepEvery {
+		fmt.Fprintf(w, "  %8g  %10.2f  %10.2f  [%8.2f, %8.2f]\n", float64(j+1)*dt, u[j], f.Mean[j], f.Lower[j], f.Upper[j])
+	}
+	return nil
+}
+
+// plotForecastFrom draws the last part of the record, the forecast with
+// its interval and the planned input below.
+func plotForecastFrom(path string, ds *dataset, fr *forecastResult) error {
+	dt := ds.step()
+	unit := ds.timeUnit()
+	y := ds.data[ds.output]
+	x := ds.data[fr.planned]
+	n := len(y)
+	past := min(n, 2*fr.h)
+	var tp, yp, tf, ti, ui []float64
+	for i := n - past; i < n; i++ {
+		t := float64(i-n+1) * dt
+		tp = append(tp, t)
+		yp = append(yp, y[i])
+		ti = append(ti, t)
+		ui = append(ui, x[i])
+	}
+	for j := range fr.h {
+		t := float64(j+1) * dt
+		tf = append(tf, t)
+		ti = append(ti, t)
+		ui = append(ui, fr.plan[j])
+	}
+	f := fr.f
+	return plotForecast(path, tp, yp, tf, f.Mean, f.Lower, f.Upper, f.Level, fr.planned, ti, ui,
+		"time from the end of the record ("+unit+")", ds.output+outputUnit(ds), inputUnit(ds, fr.planned))
+}
+
+func inputUnit(ds *dataset, input string) string {
+	if ds.builtin {
+		if input == "valve" {
+			return "valve opening (%)"
+		}
+		return input + " (degC)"
+	}
+	return input
+}

@@ -1,0 +1,69 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/backshift/backshift/tf"
+)
+
+// identify runs the one-call identification, prints the ranked
+// candidates and returns the best one's estimate.
+func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progress) (*tf.Estimate, error) {
+	pr.say("identifying: prewhitening %d inputs, impulse-response weights, (b, r, s) forms, noise orders, fitting the candidates concurrently", len(ds.inputs))
+	set := &tf.IdentifySettings{
+		// Six (b, r, s) forms per input and every combination with the
+		// two best noise orders: about 70 fits, a few seconds on two
+		// cores, so that the simplest adequate form is among them.
+		Forms:         6,
+		MaxCandidates: 72,
+		Fit:           &tf.FitSettings{First: skip},
+	}
+	cands, err := tf.Identify(ctx, ds.output, ds.inputs, ds.data, set)
+	if err != nil {
+		return nil, fmt.Errorf("identification: %w", err)
+	}
+	pr.say("fitted %d candidate models", len(cands))
+	fmt.Fprintf(w, "Candidate models, best first (ranked by BIC; checks at the 5 %% level; %d fitted):\n", len(cands))
+	fmt.Fprintf(w, "  %4s  %10s  %10s  %6s  %-6s  %s\n", "rank", "BIC", "AIC", "params", "checks", "structure")
+	for i, c := range cands {
+		if i == shownCandidates && len(cands) > shownCandidates+1 {
+			last := cands[len(cands)-1]
+			fmt.Fprintf(w, "  ... %d more, down to BIC %.1f\n", len(cands)-shownCandidates, last.Score)
+			break
+		}
+		if c.Err != nil {
+			fmt.Fprintf(w, "  %4d  %10s  %10s  %6s  %-6s  %s (fit failed: %v)\n", c.Rank, "-", "-", "-", "-", structure(c.Model), c.Err)
+			continue
+		}
+		e := c.Estimate
+		checks := "n/a"
+		if c.Diagnostics != nil {
+			checks = map[bool]string{true: "pass", false: "FAIL"}[c.Diagnostics.Pass]
+		}
+		fmt.Fprintf(w, "  %4d  %10.1f  %10.1f  %6d  %-6s  %s\n", c.Rank, e.BIC, e.AIC, len(e.Params), checks, structure(c.Model))
+	}
+	if cands[0].Estimate == nil {
+		return nil, fmt.Errorf("identification: no candidate could be fitted")
+	}
+	return cands[0].Estimate, nil
+}
+
+// structure describes a model's form in the trade's terms: (b, r, s) per
+// input and the noise ARMA(p, q) orders.
+func structure(m tf.Model) string {
+	var parts []string
+	for _, in := range m.Inputs {
+		parts = append(parts, fmt.Sprintf("%s (b=%d, r=%d, s=%d)", in.Series, in.Delay, in.Den.Degree(), in.Num.Degree()))
+	}
+	noise := "no noise term"
+	if m.Noise != nil {
+		noise = fmt.Sprintf("noise ARMA(%d, %d)", m.Noise.AR.Degree(), m.Noise.MA.Degree())
+	}
+	return strings.Join(parts, ", ") + ", " + noise
+}
+
+// shownCandidates is the number of candidates listed.
+const shownCandidates = 10

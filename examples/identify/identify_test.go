@@ -1,0 +1,169 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"image/png"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// runDefault runs the program as `go run ./examples/identify -pictures
+// DIR` does.
+func runDefault(t *testing.T, pictures string) (*Outcome, string) {
+	t.Helper()
+	o := DefaultOptions()
+	o.Pictures = pictures
+	var out bytes.Buffer
+	res, err := Run(context.Background(), o, &out, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res, out.String()
+}
+
+// TestDemoRecoversTheTruth is the issue's check: on the built-in
+// greenhouse record the identified model has the true dead times exactly
+// and gains within 10 % of the true ones (greenhouse.True).
+func TestDemoRecoversTheTruth(t *testing.T) {
+	dir := t.TempDir()
+	res, out := runDefault(t, dir)
+	if len(res.Recovery) != 2 {
+		t.Fatalf("recovery table has %d rows, want 2:\n%s", len(res.Recovery), out)
+	}
+	for _, r := range res.Recovery {
+		t.Logf("%s: dead time %d (true %d), gain %.4f (true %.4f, %+.1f %%), time constant %.1f min (true %.1f)",
+			r.Input, r.Delay, r.TrueDelay, r.Gain, r.TrueGain, 100*r.GainErr, r.Tau, r.TrueTau)
+		if r.Delay != r.TrueDelay {
+			t.Errorf("%s: dead time %d min, true %d", r.Input, r.Delay, r.TrueDelay)
+		}
+		if math.Abs(r.GainErr) > 0.10 {
+			t.Errorf("%s: gain %.4f, true %.4f (%+.1f %%, want within 10 %%)", r.Input, r.Gain, r.TrueGain, 100*r.GainErr)
+		}
+	}
+	for _, want := range []string{"Estimates", "Diagnostic checks", "Forecast of temp", "How close the identified model is"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q", want)
+		}
+	}
+	// Every picture is a readable PNG of a sensible size.
+	want := []string{"ccf", "weights", "residual-acf", "step", "fit", "forecast"}
+	if len(res.Pictures) != len(want) {
+		t.Fatalf("pictures %v, want %v", res.Pictures, want)
+	}
+	for i, name := range want {
+		if filepath.Base(res.Pictures[i]) != name+".png" {
+			t.Errorf("picture %d is %s, want %s.png", i, res.Pictures[i], name)
+		}
+		f, err := os.Open(res.Pictures[i])
+		if err != nil {
+			t.Fatal(err)
+		}
+		img, err := png.Decode(f)
+		f.Close()
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if b := img.Bounds(); b.Dx() < 600 || b.Dy() < 250 {
+			t.Errorf("%s is only %dx%d pixels", name, b.Dx(), b.Dy())
+		}
+	}
+}
+
+// TestSpecAndCSV writes the built-in record as CSV, reads it back with
+// the file flags and fits the true structure given as a spec.
+func TestSpecAndCSV(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "greenhouse.csv")
+	var buf bytes.Buffer
+	if _, err := Run(context.Background(), Options{WriteData: path}, &buf, nil); err != nil {
+		t.Fatal(err)
+	}
+	o := DefaultOptions()
+	o.Data = path
+	o.Interval, o.Unit = 1, "min"
+	o.Spec = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
+	buf.Reset()
+	res, err := Run(context.Background(), o, &buf, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Recovery != nil {
+		t.Error("a CSV file has no known truth, but a recovery table was made")
+	}
+	// The CSV holds 4 decimals, so the fit matches the true gains
+	// closely but not exactly (0.2 and 0.5, greenhouse.True).
+	for i, g := range []float64{0.2, 0.5} {
+		if p := res.Paths[i]; math.Abs(p.Gain/g-1) > 0.05 || p.DeadTime != []int{3, 1}[i] {
+			t.Errorf("path %s: gain %.4f dead time %d", p.Input, p.Gain, p.DeadTime)
+		}
+	}
+	if !strings.Contains(buf.String(), "interval 1 min") {
+		t.Errorf("interval not reported:\n%s", buf.String())
+	}
+}
+
+func TestBadSpecIsReported(t *testing.T) {
+	o := DefaultOptions()
+	o.Spec = "temp = w0 / (2 - d1 B) B^3 valve + a"
+	_, err := Run(context.Background(), o, &bytes.Buffer{}, nil)
+	if err == nil || !strings.Contains(err.Error(), "1:13: the constant term of the denominator must be 1") {
+		t.Errorf("error %v", err)
+	}
+}
+
+func TestReadCSVErrors(t *testing.T) {
+	for _, c := range []struct{ in, want string }{
+		{"", "f.csv: the file is empty"},
+		{"a,b\n", "f.csv: no data lines"},
+		{"a,b\n1,2\n3,x\n", `f.csv:3: column "b": "x" is not a finite number`},
+		{"a,b\n1,2\n3\n", "f.csv:3: wrong number of fields"},
+		{"a,a\n1,2\n", `f.csv:1: column "a": column names must be unique`},
+		{"a,b\n1,NaN\n", `f.csv:2: column "b": "NaN" is not a finite number`},
+	} {
+		_, err := ReadCSV("f.csv", strings.NewReader(c.in))
+		var ce *CSVError
+		if !errors.As(err, &ce) || !strings.HasPrefix(err.Error(), c.want) {
+			t.Errorf("%q: got %v, want %s", c.in, err, c.want)
+		}
+	}
+	tb, err := ReadCSV("f.csv", strings.NewReader("# comment\nt, y\n1, 2.5\n2, 3\n"))
+	if err != nil || tb.Columns["y"][0] != 2.5 || len(tb.Columns["t"]) != 2 {
+		t.Errorf("%+v %v", tb, err)
+	}
+	if _, err := tb.Select("y", "u"); err == nil || !strings.Contains(err.Error(), `no column "u"`) {
+		t.Errorf("select: %v", err)
+	}
+}
+
+func TestPlanAndInterval(t *testing.T) {
+	p, err := parsePlan("60:75, 0:55")
+	if err != nil {
+		t.Fatal(err)
+	}
+	u := schedule(p, 62, 40)
+	if u[0] != 55 || u[59] != 55 || u[60] != 75 || u[61] != 75 {
+		t.Errorf("schedule %v", u)
+	}
+	if u := schedule(nil, 3, 40); u[2] != 40 {
+		t.Errorf("empty plan should hold the last value: %v", u)
+	}
+	for _, bad := range []string{"x", "1:", "-1:5"} {
+		if _, err := parsePlan(bad); err == nil {
+			t.Errorf("plan %q accepted", bad)
+		}
+	}
+	for in, want := range map[string]float64{"1min": 1, "10 s": 10, "0.5h": 0.5} {
+		if v, _, err := parseInterval(in); err != nil || v != want {
+			t.Errorf("%q: %v %v", in, v, err)
+		}
+	}
+	for _, bad := range []string{"min", "1 minute", "-1s", "0s"} {
+		if _, _, err := parseInterval(bad); err == nil {
+			t.Errorf("interval %q accepted", bad)
+		}
+	}
+}

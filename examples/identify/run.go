@@ -1,0 +1,274 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"time"
+
+	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf"
+)
+
+// Outcome is what one run found, for tests and for callers that embed
+// the program.
+type Outcome struct {
+	// Estimate is the chosen (or the given spec's) fitted model.
+	Estimate *tf.Estimate
+	// Paths summarises each input path of the fitted model.
+	Paths []modelinfo.Path
+	// Recovery compares each path with the truth (built-in data only).
+	Recovery []Recovery
+	// Pictures lists the files written.
+	Pictures []string
+	// Diagnostics are the checks of the chosen model.
+	Diagnostics *tf.Diagnostics
+	// Elapsed is the wall time of the run.
+	Elapsed time.Duration
+
+	forecast *forecastResult
+}
+
+// Recovery compares an identified input path with the true one.
+type Recovery struct {
+	Input                string
+	TrueDelay, Delay     int
+	TrueGain, Gain       float64
+	TrueTau, Tau         float64 // minutes; NaN when the fitted path has no real pole
+	GainErr              float64 // relative
+	DelayExact, GainIn10 bool
+}
+
+// dataset is the record being worked on.
+type dataset struct {
+	name     string
+	data     map[string][]float64
+	output   string
+	inputs   []string
+	interval float64 // in unit; 0 when only samples are known
+	unit     string
+	builtin  bool
+	n        int
+}
+
+// Run does the whole job described in the package documentation and
+// writes results to stdout and progress to stderr (nil for none).
+func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, error) {
+	start := time.Now()
+	pr := &progress{w: stderr, start: start}
+	if o.Quiet {
+		pr.w = nil
+	}
+	if o.WriteData != "" {
+		return &Outcome{}, writeBuiltin(o.WriteData, stdout)
+	}
+	ds, err := load(o)
+	if err != nil {
+		return nil, err
+	}
+	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
+	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
+
+	skip := o.Skip
+	if skip < 0 {
+		skip = min(ds.n/20, 500)
+	}
+	var est *tf.Estimate
+	if o.Spec != "" {
+		est, err = fitSpec(ctx, o.Spec, ds, skip, pr)
+	} else {
+		est, err = identify(ctx, ds, skip, stdout, pr)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if est.Model.Interval.Value == 0 && ds.interval > 0 {
+		est.Model.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
+	}
+	out := &Outcome{Estimate: est}
+	if err := report(ctx, est, ds, stdout, pr, out); err != nil {
+		return nil, err
+	}
+	pr.say("checking the model")
+	if out.Diagnostics, err = diagnostics(est, ds, stdout); err != nil {
+		return nil, err
+	}
+	if err := forecast(est, ds, o, stdout, out); err != nil {
+		return nil, err
+	}
+	if ds.builtin {
+		out.Recovery = recovery(out.Paths)
+		writeRecovery(stdout, out.Recovery)
+	}
+	if o.Pictures != "" {
+		pr.say("writing pictures to %s", o.Pictures)
+		files, err := pictures(o.Pictures, est, ds, out)
+		if err != nil {
+			return nil, fmt.Errorf("pictures: %w", err)
+		}
+		out.Pictures = files
+		fmt.Fprintf(stdout, "\nPictures written to %s:\n", o.Pictures)
+		for _, f := range files {
+			fmt.Fprintf(stdout, "  %s\n", f)
+		}
+	}
+	out.Elapsed = time.Since(start)
+	pr.say("done in %.1f s", out.Elapsed.Seconds())
+	return out, nil
+}
+
+func writeBuiltin(path string, stdout io.Writer) error {
+	f, err := os.Create(path)
+	if err != nil {
+		return err
+	}
+	if err := greenhouse.Default().WriteCSV(f); err != nil {
+		f.Close()
+		return err
+	}
+	if err := f.Close(); err != nil {
+		return err
+	}
+	fmt.Fprintf(stdout, "wrote %s: %d samples at 1 min of %s, %s, %s, %s\n", path, greenhouse.Default().Len(),
+		greenhouse.Setpoint, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Output)
+	return nil
+}
+
+// load reads the record named by o.
+func load(o Options) (*dataset, error) {
+	ds := &dataset{output: o.Output, inputs: o.Inputs, interval: o.Interval, unit: o.Unit}
+	if len(ds.inputs) == 0 {
+		return nil, errors.New("no input columns named (-inputs)")
+	}
+	if o.Data == "" {
+		g := greenhouse.Default()
+		ds.name = "built-in greenhouse record (4 days, PI control with a test signal)"
+		ds.builtin = true
+		ds.data = map[string][]float64{}
+		for _, n := range append([]string{ds.output}, ds.inputs...) {
+			s, ok := g.Series(n)
+			if !ok || n == greenhouse.Minute {
+				return nil, fmt.Errorf("the built-in record has no series %q (it has %s, %s, %s, %s)", n,
+					greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint)
+			}
+			ds.data[n] = s
+		}
+		if ds.interval == 0 {
+			ds.interval, ds.unit = greenhouse.Interval, "min"
+		}
+		// The truth is known only for the demo's own output and inputs.
+		ds.builtin = ds.output == greenhouse.Output && len(ds.inputs) == 2 &&
+			ds.inputs[0] == greenhouse.Valve && ds.inputs[1] == greenhouse.Outdoor
+	} else {
+		t, err := ReadCSVFile(o.Data)
+		if err != nil {
+			return nil, err
+		}
+		ds.name = o.Data
+		if ds.data, err = t.Select(append([]string{ds.output}, ds.inputs...)...); err != nil {
+			return nil, err
+		}
+	}
+	ds.n = len(ds.data[ds.output])
+	if ds.unit == "" {
+		ds.unit = "samples"
+	}
+	return ds, nil
+}
+
+func intervalText(ds *dataset) string {
+	if ds.interval == 0 {
+		return "not given (times in samples)"
+	}
+	return fmt.Sprintf("%g %s", ds.interval, ds.unit)
+}
+
+// timeUnit is the unit times are printed in.
+func (ds *dataset) timeUnit() string {
+	if ds.interval == 0 {
+		return "samples"
+	}
+	return ds.unit
+}
+
+// step returns the sample interval in time units (1 when none).
+func (ds *dataset) step() float64 {
+	if ds.interval == 0 {
+		return 1
+	}
+	return ds.interval
+}
+
+// fitSpec parses spec and fits it.
+func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, pr *progress) (*tf.Estimate, error) {
+	m, err := parse.Model(spec)
+	if err != nil {
+		return nil, fmt.Errorf("the spec does not parse:\n%w", err)
+	}
+	if m.Interval.Value == 0 && ds.interval > 0 {
+		m.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
+	}
+	pr.say("fitting %s", m)
+	est, err := tf.Fit(ctx, m, ds.data, &tf.FitSettings{IgnoreExtra: true, First: skip})
+	if err != nil {
+		return nil, err
+	}
+	pr.say("fitted in %d iterations (%s)", est.Iter, est.Reason)
+	return est, nil
+}
+
+// recovery compares the fitted paths with the greenhouse truth.
+func recovery(paths []modelinfo.Path) []Recovery {
+	var out []Recovery
+	for _, p := range paths {
+		var tp greenhouse.Path
+		switch p.Input {
+		case greenhouse.Valve:
+			tp = greenhouse.True.Valve
+		case greenhouse.Outdoor:
+			tp = greenhouse.True.Outdoor
+		default:
+			continue
+		}
+		r := Recovery{Input: p.Input, TrueDelay: tp.Delay, Delay: p.DeadTime, TrueGain: tp.Gain(), Gain: p.Gain,
+			TrueTau: tp.TimeConstant(), Tau: math.NaN()}
+		for _, md := range p.Modes {
+			if md.Kind == tf.ModeReal {
+				r.Tau = math.Max(nanToZero(r.Tau), md.TimeConstant.Time)
+			}
+		}
+		r.GainErr = (r.Gain - r.TrueGain) / r.TrueGain
+		r.DelayExact = r.Delay == r.TrueDelay
+		r.GainIn10 = math.Abs(r.GainErr) <= 0.10
+		out = append(out, r)
+	}
+	return out
+}
+
+func nanToZero(x float64) float64 {
+	if math.IsNaN(x) {
+		return 0
+	}
+	return x
+}
+
+func writeRecovery(w io.Writer, rs []Recovery) {
+	ok := func(b bool) string {
+		if b {
+			return "ok"
+		}
+		return "MISSED"
+	}
+	fmt.Fprintf(w, "\nHow close the identified model is to the true one (the demo data's generator):\n")
+	fmt.Fprintf(w, "  %-8s  %-19s  %-33s  %s\n", "", "dead time (min)", "gain (degC per % or per degC)", "time constant (min)")
+	fmt.Fprintf(w, "  %-8s  %4s %5s %-8s  %6s %6s %8s %-9s  %5s %6s\n", "input", "true", "found", "", "true", "found", "error", "", "true", "found")
+	for _, r := range rs {
+		fmt.Fprintf(w, "  %-8s  %4d %5d %-8s  %6.3f %6.3f %+7.1f%% %-9s  %5.1f %6.1f\n", r.Input, r.TrueDelay, r.Delay, ok(r.DelayExact),
+			r.TrueGain, r.Gain, 100*r.GainErr, ok(r.GainIn10)+" (10%)", r.TrueTau, r.Tau)
+	}
+}
