@@ -122,7 +122,9 @@ cases <- list(
   list(name = "Nile_101", series = "Nile", order = c(1, 0, 1), xreg = "mean", h = 10),
   list(name = "WWWusage_111", series = "WWWusage", order = c(1, 1, 1), xreg = "none", h = 10),
   list(name = "logAirPassengers_011x011_12", series = "logAirPassengers", order = c(0, 1, 1),
-       seasonal = c(0, 1, 1), period = 12, xreg = "none", h = 24)
+       seasonal = c(0, 1, 1), period = 12, xreg = "none", h = 24),
+  list(name = "logAirPassengers_110x110_12", series = "logAirPassengers", order = c(1, 1, 0),
+       seasonal = c(1, 1, 0), period = 12, xreg = "none", h = 24)
 )
 fits <- c()
 for (cs in cases) {
