@@ -97,24 +97,33 @@ func Corner(w *Weights, rows, cols int) *CornerTable {
 
 // pick returns the orders (r, s) whose corner fits the table best for
 // dead time b, with r <= maxR and s <= maxS, or (-1, -1) when the table is
-// too small. The fit counts, for each candidate, the cells of the 2-by-2
-// block at the corner that are zero, the cells of the row above it and
-// the column left of it that are non-zero, and prefers fewer parameters
-// on ties.
+// too small. For each candidate, with the corner at row f0 = b+s+1 and
+// column g0 = r+1, it counts the cells of the 2-by-2 block at the corner
+// that are zero, and the cells that must be non-zero: the row above the
+// block (f0-1, columns g0 and g0+1) and, when r >= 1, the column left of
+// it (column r, rows f0 and f0+1). The best fraction wins; ties go to
+// fewer coefficients (r+s), then to the smaller sum of |T| over the zero
+// block.
 func (c *CornerTable) pick(b, maxR, maxS int) (int, int) {
-	bestR, bestS, best := -1, -1, -1.0
+	bestR, bestS := -1, -1
+	best, bestOrd, bestSum := -1.0, 0, 0.0
 	rows := len(c.Det)
 	cols := 0
 	if rows > 0 {
 		cols = len(c.Det[0])
 	}
+	in := func(f, g int) bool { return f >= 0 && f < rows && g >= 1 && g <= cols }
 	for s := 0; s <= maxS; s++ {
 		for r := 0; r <= maxR; r++ {
 			f0, g0 := b+s+1, r+1
-			score, cells := 0.0, 0.0
-			for f := f0; f < f0+2 && f < rows; f++ {
-				for g := g0; g < g0+2 && g <= cols; g++ {
+			score, cells, sum := 0.0, 0.0, 0.0
+			for f := f0; f < f0+2; f++ {
+				for g := g0; g < g0+2; g++ {
+					if !in(f, g) {
+						continue
+					}
 					cells++
+					sum += math.Abs(c.T[f][g-1])
 					if c.Zero(f, g) {
 						score++
 					}
@@ -123,23 +132,24 @@ func (c *CornerTable) pick(b, maxR, maxS int) (int, int) {
 			if cells == 0 {
 				continue
 			}
-			// Row above the corner: non-zero at g = r+1 (it is row b+s).
-			if f := f0 - 1; f >= 0 && f < rows && g0 <= cols {
-				cells++
-				if !c.Zero(f, g0) {
-					score++
+			var nz [][2]int
+			nz = append(nz, [2]int{f0 - 1, g0}, [2]int{f0 - 1, g0 + 1})
+			if r >= 1 {
+				nz = append(nz, [2]int{f0, r}, [2]int{f0 + 1, r})
+			}
+			for _, fg := range nz {
+				if in(fg[0], fg[1]) {
+					cells++
+					if !c.Zero(fg[0], fg[1]) {
+						score++
+					}
 				}
 			}
-			// Column left of the corner: non-zero at row f0 when r >= 1.
-			if r >= 1 && f0 < rows {
-				cells++
-				if !c.Zero(f0, r) {
-					score++
-				}
-			}
-			frac := score / cells
-			if frac > best+1e-12 {
-				bestR, bestS, best = r, s, frac
+			frac, ord := score/cells, r+s
+			better := frac > best+1e-12 ||
+				math.Abs(frac-best) <= 1e-12 && (ord < bestOrd || ord == bestOrd && sum < bestSum)
+			if better {
+				bestR, bestS, best, bestOrd, bestSum = r, s, frac, ord, sum
 			}
 		}
 	}

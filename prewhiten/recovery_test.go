@@ -72,6 +72,7 @@ func TestRecovery(t *testing.T) {
 	var bOK, top3, top1, corner int
 	var conf [9][9]int // true (r,s) -> first candidate (r,s), index 3r+s
 	var confB [7][8]int
+	var confC [9][10]int // true (r,s) -> corner pick, column 9 = none
 	for i := 0; i < reps; i++ {
 		b, rs := i%7, i%9
 		r, s := rs/3, rs%3
@@ -97,6 +98,11 @@ func TestRecovery(t *testing.T) {
 		if id.CornerR == r && id.CornerS == s {
 			corner++
 		}
+		if id.CornerR < 0 {
+			confC[rs][9]++
+		} else {
+			confC[rs][3*id.CornerR+id.CornerS]++
+		}
 		c0 := id.Candidates[0]
 		conf[rs][3*c0.R+c0.S]++
 		if c0.R == r && c0.S == s {
@@ -117,6 +123,17 @@ func TestRecovery(t *testing.T) {
 		fmt.Fprintf(&sb, "\n(%d,%d)", i/3, i%3)
 		for j := 0; j < 9; j++ {
 			fmt.Fprintf(&sb, " %5d", conf[i][j])
+		}
+	}
+	sb.WriteString("\nconfusion of (r,s): rows true, columns the corner method's pick (last: none)\n     ")
+	for j := 0; j < 9; j++ {
+		fmt.Fprintf(&sb, " (%d,%d)", j/3, j%3)
+	}
+	sb.WriteString("  none")
+	for i := 0; i < 9; i++ {
+		fmt.Fprintf(&sb, "\n(%d,%d)", i/3, i%3)
+		for j := 0; j < 10; j++ {
+			fmt.Fprintf(&sb, " %5d", confC[i][j])
 		}
 	}
 	sb.WriteString("\nconfusion of b: rows true, columns found (7 = 7+ or none)\n   ")
