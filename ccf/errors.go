@@ -12,6 +12,7 @@ type LengthError struct {
 	Lens  [2]int
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *LengthError) Error() string {
 	return fmt.Sprintf("ccf: series %q has %d samples but %q has %d; they must be of equal length",
 		e.Names[0], e.Lens[0], e.Names[1], e.Lens[1])
@@ -26,6 +27,7 @@ type ShortError struct {
 	Why  string
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ShortError) Error() string {
 	return fmt.Sprintf("ccf: series %q has %d samples, need at least %d %s", e.Name, e.Len, e.Need, e.Why)
 }
@@ -38,6 +40,7 @@ type ConstantError struct {
 	Value float64
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ConstantError) Error() string {
 	return fmt.Sprintf("ccf: series %q is constant (every sample is %g), its correlations are undefined", e.Name, e.Value)
 }
@@ -50,6 +53,7 @@ type ValueError struct {
 	Value float64
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ValueError) Error() string {
 	return fmt.Sprintf("ccf: series %q has %v at index %d", e.Name, e.Value, e.Index)
 }
@@ -65,6 +69,7 @@ type ArgError struct {
 	Want string
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ArgError) Error() string {
 	return fmt.Sprintf("ccf: %s = %s, want %s", e.Arg, e.Value, e.Want)
 }
@@ -82,6 +87,7 @@ type NoResponseError struct {
 	Lag     int
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *NoResponseError) Error() string {
 	return fmt.Sprintf("ccf: no significant response of the output to input %q at lags 0..%d (level %g; largest |t| = %.2f at lag %d)",
 		e.Input, e.MaxLag, e.Level, e.Largest, e.Lag)
@@ -95,6 +101,7 @@ type SingularError struct {
 	Inputs []string
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *SingularError) Error() string {
 	return fmt.Sprintf("ccf: the distributed-lag regression on inputs %s is singular (an input is a linear combination of the lags of the others)",
 		strings.Join(e.Inputs, ", "))

@@ -13,6 +13,7 @@ type ValueError struct {
 	Value float64
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ValueError) Error() string {
 	return fmt.Sprintf("prewhiten: series %q has %v at index %d", e.Name, e.Value, e.Index)
 }
@@ -23,6 +24,7 @@ type LengthError struct {
 	Lens  [2]int
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *LengthError) Error() string {
 	return fmt.Sprintf("prewhiten: series %q has %d samples but %q has %d; they must be of equal length",
 		e.Names[0], e.Lens[0], e.Names[1], e.Lens[1])
@@ -37,6 +39,7 @@ type ShortError struct {
 	Why  string
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ShortError) Error() string {
 	return fmt.Sprintf("prewhiten: series %q has %d samples, need at least %d %s", e.Name, e.Len, e.Need, e.Why)
 }
@@ -47,6 +50,7 @@ type ConstantError struct {
 	Name string
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ConstantError) Error() string {
 	return fmt.Sprintf("prewhiten: series %q is constant after differencing; it cannot be prewhitened", e.Name)
 }
@@ -56,6 +60,7 @@ type ArgError struct {
 	Arg, Value, Want string
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *ArgError) Error() string {
 	return fmt.Sprintf("prewhiten: %s = %s, want %s", e.Arg, e.Value, e.Want)
 }
@@ -76,6 +81,7 @@ type NotWhiteError struct {
 	Level float64
 }
 
+// Error describes the problem in one line, naming the series and values involved.
 func (e *NotWhiteError) Error() string {
 	return fmt.Sprintf("prewhiten: series %q is not white after prewhitening: Ljung-Box Q = %.4g on %d df over %d lags, p = %.3g < %g",
 		e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
