@@ -149,6 +149,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	// Forms per input.
 	forms := make([][]Input, len(inputs))
 	scores := make([][]float64, len(inputs))
+	diffs := make([][]float64, len(inputs))
 	for i, name := range inputs {
 		diff, ok := set.InputDiff[name]
 		if !ok {
@@ -157,20 +158,43 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		if len(diff) <= 1 {
 			diff = nil
 		}
-		pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
-		var nw *prewhiten.NotWhiteError
-		if err != nil && !errors.As(err, &nw) {
-			return nil, err
-		}
-		w, err := ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
+		diffs[i] = diff
+	}
+	var joint []*ccf.Weights
+	if len(inputs) > 1 {
+		// Several inputs: weights estimated jointly, valid when the
+		// inputs are correlated with one another.
+		var err error
+		joint, err = idfJointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
 		if err != nil {
 			return nil, err
+		}
+	}
+	for i, name := range inputs {
+		diff := diffs[i]
+		var w *ccf.Weights
+		if joint != nil {
+			w = joint[i]
+		} else {
+			pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
+			var nw *prewhiten.NotWhiteError
+			if err != nil && !errors.As(err, &nw) {
+				return nil, err
+			}
+			w, err = ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
+			if err != nil {
+				return nil, err
+			}
 		}
 		prefix := ""
 		if len(inputs) > 1 {
 			prefix = name + "_"
 		}
-		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Prefix: prefix, InputDiff: diff})
+		penalty := math.Log(float64(n)) // BIC-like weight, as the final ranking
+		if set.ByAIC {
+			penalty = 2
+		}
+		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Prefix: prefix, InputDiff: diff, Penalty: penalty})
 		if err != nil {
 			return nil, err
 		}
@@ -279,6 +303,33 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		return out, out[0].Err
 	}
 	return out, nil
+}
+
+// idfJointWeights estimates the impulse-response weights of several
+// inputs jointly (ccf.DistributedLag with AR(1) noise) on the
+// differenced series, all starting at the largest differencing degree.
+func idfJointWeights(output string, inputs []string, data map[string][]float64, outDiff []float64, diffs [][]float64, maxLag int) ([]*ccf.Weights, error) {
+	d := max(len(outDiff)-1, 0)
+	for _, dd := range diffs {
+		d = max(d, len(dd)-1)
+	}
+	cut := func(x, dc []float64) []float64 {
+		if len(dc) == 0 {
+			dc = []float64{1}
+		}
+		return fitDiff(x, dc)[d:]
+	}
+	y := cut(data[output], outDiff)
+	xs := make([][]float64, len(inputs))
+	for i, name := range inputs {
+		xs[i] = cut(data[name], diffs[i])
+	}
+	lags := min(maxLag, max(1, len(y)/(4*len(inputs))))
+	r, err := ccf.DistributedLag(y, xs, &ccf.DistributedLagSettings{Lags: lags, Names: inputs, Output: output})
+	if err != nil {
+		return nil, err
+	}
+	return r.Weights, nil
 }
 
 // idfValidate checks presence, lengths and finiteness of the series.
