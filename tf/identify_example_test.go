@@ -1,0 +1,52 @@
+package tf_test
+
+import (
+	"context"
+	"encoding/csv"
+	"fmt"
+	"os"
+	"strconv"
+
+	"github.com/backshift/backshift/tf"
+)
+
+// ExampleIdentify identifies a model for BJsales (R's datasets package,
+// Series M of Box, Jenkins & Reinsel: sales and a leading indicator)
+// with both series differenced once, and prints the ranked candidates.
+func ExampleIdentify() {
+	f, err := os.Open("../testdata/bjsales/bjsales.csv")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	defer f.Close()
+	rows, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	data := map[string][]float64{}
+	for _, row := range rows[1:] {
+		for j, name := range rows[0][1:] {
+			v, _ := strconv.ParseFloat(row[j+1], 64)
+			data[name] = append(data[name], v)
+		}
+	}
+	cands, err := tf.Identify(context.Background(), "sales", []string{"lead"}, data,
+		&tf.IdentifySettings{OutputDiff: []float64{1, -1}})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, c := range cands {
+		in := c.Model.Inputs[0]
+		ma, ar, _ := c.Model.NoiseCoeffs()
+		fmt.Printf("#%d BIC %6.2f  b=%d r=%d s=%d  noise AR(%d) MA(%d)  checks pass: %v\n", c.Rank, c.Score,
+			in.Delay, in.Den.Degree(), in.Num.Degree(), len(ar)-1, len(ma)-1, c.Diagnostics.Pass)
+	}
+	// Output:
+	// #1 BIC  -7.79  b=3 r=1 s=0  noise AR(0) MA(1)  checks pass: true
+	// #2 BIC  -3.25  b=3 r=1 s=0  noise AR(1) MA(1)  checks pass: true
+	// #3 BIC  -2.84  b=3 r=1 s=1  noise AR(0) MA(1)  checks pass: true
+	// #4 BIC   1.72  b=3 r=1 s=1  noise AR(1) MA(1)  checks pass: true
+}
