@@ -1,6 +1,7 @@
 package parse
 
 import (
+	"strings"
 	"testing"
 )
 
@@ -67,5 +68,20 @@ func itoa(n int) string {
 		if n == 0 {
 			return s
 		}
+	}
+}
+
+// BenchmarkModelHostile parses long products of constant factors, the
+// longest work a spec can ask for, to show linear cost.
+func BenchmarkModelHostile(b *testing.B) {
+	for _, n := range []int{1000, 10000, 60000} {
+		s := "y = w / (" + strings.Repeat("(1)", n/3) + ") x"
+		b.Run(itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			b.SetBytes(int64(len(s)))
+			for b.Loop() {
+				Model(s)
+			}
+		})
 	}
 }

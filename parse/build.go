@@ -21,6 +21,7 @@ type builder struct {
 	coefs  map[string]tf.Pos // first use of each coefficient name
 	series map[string]tf.Pos // output and inputs
 	noise  bool
+	deg    map[*tf.Poly]int // degree so far of each polynomial being built
 }
 
 // errMaxed is returned internally once maxErrors errors are collected.
@@ -513,7 +514,15 @@ func (b *builder) groupFactors(g *gGroup, exp int, dst *tf.Poly, what string, un
 			return
 		}
 	}
-	deg := dst.Degree()
+	// The degree so far is kept per polynomial, so that a long product
+	// costs linear time.
+	if b.deg == nil {
+		b.deg = make(map[*tf.Poly]int, 8)
+	}
+	deg, ok := b.deg[dst]
+	if !ok {
+		deg = dst.Degree()
+	}
 	top := 0
 	for _, t := range f.Terms {
 		top = max(top, t.Power)
@@ -522,6 +531,7 @@ func (b *builder) groupFactors(g *gGroup, exp int, dst *tf.Poly, what string, un
 		b.fail(g.Pos, ErrLimit, "the "+what+" has degree "+strconv.Itoa(deg+top*f.Exp)+", over the limit of "+strconv.Itoa(MaxDegree))
 		return
 	}
+	b.deg[dst] = deg + top*f.Exp
 	dst.Factors = append(dst.Factors, f)
 }
 

@@ -237,7 +237,7 @@ func (p *fastParser) short(s *gShort) bool {
 func (p *fastParser) group(g *gGroup) bool {
 	g.Pos = p.peek().Pos
 	p.i++ // "("
-	g.Elems = make([]gElem, 0, 6)
+	g.Elems = make([]gElem, 0, 4)
 	for {
 		t := p.peek()
 		var el gElem

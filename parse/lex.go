@@ -140,6 +140,11 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 		default:
 			return nil, &lexError{pos: pos, msg: "unexpected character " + quoteChar(s[i:])}
 		}
+		if len(toks) == cap(toks) {
+			// Double (append grows large slices by only 1.25), so that the
+			// copying stays within twice the final size.
+			toks = append(make([]lexer.Token, 0, 2*cap(toks)+16), toks...)
+		}
 		toks = append(toks, lexer.Token{Type: typ, Value: s[start:i], Pos: pos})
 	}
 	toks = append(toks, lexer.Token{Type: lexer.EOF,

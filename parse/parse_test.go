@@ -185,6 +185,8 @@ func TestHostileLinear(t *testing.T) {
 	kinds := map[string]func(n int) string{
 		"open parens":   func(n int) string { return strings.Repeat("(", n) },
 		"many factors":  func(n int) string { return "y = " + strings.Repeat("(1 - B)", n/7) + " x" },
+		"unit factors":  func(n int) string { return "y = w " + strings.Repeat("(1)", n/3) + " x" },
+		"unit product":  func(n int) string { return "y = w / (" + strings.Repeat("(1)", n/3) + ") x" },
 		"many inputs":   func(n int) string { return "y = " + strings.Repeat("w x + ", n/6) + "a" },
 		"long product":  func(n int) string { return "y = " + strings.Repeat("w ", n/2) + "x" },
 		"where list":    func(n int) string { return "y = w x where " + strings.Repeat("w = 1, ", n/7) + "w = 1" },
