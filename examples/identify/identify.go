@@ -21,7 +21,9 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 		MaxCandidates: 72,
 		Fit:           &tf.FitSettings{First: skip},
 	}
+	stop := pr.ticker("still identifying")
 	cands, err := tf.Identify(ctx, ds.output, ds.inputs, ds.data, set)
+	stop()
 	if err != nil {
 		return nil, fmt.Errorf("identification: %w", err)
 	}

@@ -116,3 +116,31 @@ func (p *progress) say(format string, args ...any) {
 	}
 	fmt.Fprintf(p.w, "[%5.1fs] %s\n", time.Since(p.start).Seconds(), fmt.Sprintf(format, args...))
 }
+
+// ticker prints msg with the elapsed time every second until the
+// returned stop function is called, for steps that report no progress of
+// their own.
+func (p *progress) ticker(msg string) (stop func()) {
+	if p.w == nil {
+		return func() {}
+	}
+	done := make(chan struct{})
+	finished := make(chan struct{})
+	go func() {
+		defer close(finished)
+		t := time.NewTicker(time.Second)
+		defer t.Stop()
+		for {
+			select {
+			case <-done:
+				return
+			case <-t.C:
+				p.say("%s ...", msg)
+			}
+		}
+	}()
+	return func() {
+		close(done)
+		<-finished
+	}
+}
