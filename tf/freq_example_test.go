@@ -51,3 +51,20 @@ func ExampleRational_Modes() {
 	// lag: tau 15.0 samples = 30.0 s
 	// rise 60 s, settling (2 %) 120 s, overshoot 0.0 %
 }
+
+// Margins of the heater under a PI controller, open loop L = C G.
+func ExampleRational_Margins() {
+	plant := tf.MustRational([]float64{0.5}, []float64{1, -0.8}, 2)
+	pi := tf.MustRational([]float64{0.6 * 1.25, -0.6}, []float64{1, -1}, 0)
+	loop, _ := tf.Series(pi, plant)
+	m, err := loop.Margins()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("gain margin %.2f (%.1f dB) at %.3f rad/sample\n", m.GainMargin, m.GainMarginDB(), m.PhaseCrossover)
+	fmt.Printf("phase margin %.1f deg at %.3f rad/sample\n", m.PhaseMargin*180/math.Pi, m.GainCrossover)
+	// Output:
+	// gain margin 2.67 (8.5 dB) at 1.047 rad/sample
+	// phase margin 57.6 deg at 0.377 rad/sample
+}

@@ -17,6 +17,7 @@ coefficients. Functions used:
   numpy.unwrap for the phase
 - scipy.signal.cont2discrete(method='zoh'): zero-order-hold equivalents of
   continuous first- and second-order lags (no dead time)
+- numpy (dense frequency grid): stability margins of open loops
 - scipy.linalg.expm: continuous step responses of the state-space form
   (scipy.signal.tf2ss), y(u) = C A^-1 (e^{A u} - I) B, sampled at
   t = kT - theta for dead times that are not a whole number of samples
@@ -156,11 +157,59 @@ add_step("second order underdamped", "second", {"K": 1.2, "wn": 0.8, "zeta": 0.3
 add_step("second order overdamped", "second", {"K": 1.0, "wn": 0.6, "zeta": 2.5},
          [0.36], [1.0, 3.0, 0.36], 1.0, 0.25)
 
+# Stability margins of open loops, from numpy on a dense grid (2^21 points
+# in (0, pi]) with linear interpolation of the crossings: the phase
+# crossover (unwrapped phase = -pi mod 2 pi) with the smallest gain margin
+# 1/|L|, and the gain crossover (|L| = 1) with the smallest phase margin.
+margins = []
+
+
+def add_margins(num, den, delay):
+    w = np.linspace(0, np.pi, 2**21 + 1)[1:]
+    z = np.exp(-1j * w)
+    L = np.polyval(num[::-1], z) / np.polyval(den[::-1], z) * z**delay
+    mag = np.abs(L)
+    ph = np.unwrap(np.angle(np.polyval(num[::-1], z) / np.polyval(den[::-1], z))) - delay * w
+    out = {"num": num, "den": den, "delay": delay}
+    gm, wpc = None, None
+    # Levels -pi - 2 pi k crossed between neighbours.
+    for k in range(-2, 2 + int(delay) + 2 * len(den)):
+        lev = -np.pi - 2 * np.pi * k
+        s = np.sign(ph - lev)
+        idx = np.nonzero(s[:-1] * s[1:] < 0)[0]
+        for i in idx:
+            t = (lev - ph[i]) / (ph[i + 1] - ph[i])
+            wc = w[i] + t * (w[i + 1] - w[i])
+            m = mag[i] + t * (mag[i + 1] - mag[i])
+            if gm is None or 1 / m < gm:
+                gm, wpc = 1 / m, wc
+        # A crossing exactly at the Nyquist frequency (L(-1) real negative).
+        if abs(ph[-1] - lev) < 1e-9 and (gm is None or 1 / mag[-1] < gm):
+            gm, wpc = 1 / mag[-1], np.pi
+    pm, wgc = None, None
+    s = np.sign(mag - 1)
+    for i in np.nonzero(s[:-1] * s[1:] < 0)[0]:
+        t = (1 - mag[i]) / (mag[i + 1] - mag[i])
+        wc = w[i] + t * (w[i + 1] - w[i])
+        p = ph[i] + t * (ph[i + 1] - ph[i])
+        v = np.remainder(p + np.pi + np.pi, 2 * np.pi) - np.pi
+        if pm is None or v < pm:
+            pm, wgc = v, wc
+    out.update({"gain_margin": gm, "phase_crossover": wpc, "phase_margin": pm, "gain_crossover": wgc})
+    margins.append(out)
+
+
+add_margins([0.5], [1.0, -0.8], 3)
+add_margins([0.2, 0.1], [1.0, -1.3, 0.42], 2)
+add_margins([0.05], [1.0, -1.9, 0.9], 1)
+add_margins([0.3, -0.2], [1.0, -1.2, 0.72], 4)
+
 doc = {
     "source": f"scipy {scipy.__version__}, numpy {np.__version__}: testdata/scipy/make_golden.py",
     "models": models,
     "c2d": c2d,
     "steps": steps,
+    "margins": margins,
 }
 path = os.path.join(os.path.dirname(os.path.abspath(__file__)), "golden.json")
 with open(path, "w") as f:
