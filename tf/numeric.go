@@ -84,3 +84,23 @@ func (m Model) Params() []Coef {
 	}
 	return out
 }
+
+// Seconds returns the sample interval in seconds (units s = 1 s, min =
+// 60 s, h = 3600 s, d = 86400 s) and ok = true, or 0 and false for the
+// zero Interval or an unknown unit.
+func (iv Interval) Seconds() (float64, bool) {
+	var f float64
+	switch iv.Unit {
+	case "s":
+		f = 1
+	case "min":
+		f = 60
+	case "h":
+		f = 3600
+	case "d":
+		f = 86400
+	default:
+		return 0, false
+	}
+	return iv.Value * f, true
+}

@@ -433,3 +433,22 @@ func TestNumericViews(t *testing.T) {
 		t.Errorf("Params: %s", got)
 	}
 }
+
+func TestIntervalSeconds(t *testing.T) {
+	for _, c := range []struct {
+		spec string
+		want float64
+		ok   bool
+	}{
+		{"y = w x every 30 s", 30, true},
+		{"y = w x every 1.5 min", 90, true},
+		{"y = w x every 2 h", 7200, true},
+		{"y = w x every 1 d", 86400, true},
+		{"y = w x", 0, false},
+	} {
+		got, ok := parse.MustModel(c.spec).Interval.Seconds()
+		if got != c.want || ok != c.ok {
+			t.Errorf("%s: %v %v", c.spec, got, ok)
+		}
+	}
+}
