@@ -14,9 +14,17 @@
 // checks. It prints the ranked candidate table, the chosen model's
 // report (estimates with standard errors, diagnostics with verdicts,
 // gains and time constants in minutes), and a forecast for a planned
-// valve schedule. With -spec it fits the given model instead. On the
-// built-in demo data, whose true model is known, it also prints how close
-// the identified model is to the truth.
+// valve schedule (-plan, -horizon; the other inputs are forecast from
+// their own ARMA models and their uncertainty enters the intervals). With
+// -spec it fits the given model instead. On the built-in demo data, whose
+// true model is known, it also prints how close the identified model is
+// to the truth.
+//
+// The fits leave the first -skip samples (by default 5 % of the record,
+// at most 500) out of the sums of squares: the input filters start from
+// the first input values, and on a record that begins in motion (here a
+// dithered valve under feedback) the start-up transient would otherwise
+// be read as slow noise.
 //
 // Pictures (-pictures DIR): ccf.png (prewhitened cross-correlation with
 // 95 % bands), weights.png (impulse-response weights with +-2 standard
