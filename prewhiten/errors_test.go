@@ -91,7 +91,7 @@ func TestNotWhite(t *testing.T) {
 		x[i] = 1.2*x[i-1] - 0.6*x[i-2] + rng.NormFloat64()
 	}
 	// 1.2, -0.6: an AR(1) fit leaves strong lag-2 correlation.
-	res, err := prewhiten.Pair(x, x, "y", &prewhiten.Settings{MaxOrder: 1})
+	res, err := prewhiten.Pair(x, x, "y", &prewhiten.Settings{MaxOrder: 1, KeepAR: true})
 	var nw *prewhiten.NotWhiteError
 	if !errors.As(err, &nw) || res == nil || res.White {
 		t.Fatalf("want a NotWhiteError with the result, got %v", err)
@@ -146,4 +146,34 @@ func TestARMAFilter(t *testing.T) {
 	if got := f.String(); got != "(1 - 0.6 B) / (1 - 0.3 B) x" {
 		t.Errorf("String() = %q", got)
 	}
+}
+
+// TestARIMAFallback: an integrated input with a strong MA term,
+// (1 - B) x = (1 - 0.85 B) a, is not whitened by an AR of order <= 2; Pair
+// falls back to an ARIMA(1,1,1) filter that whitens it, and with KeepAR
+// reports the failure instead.
+func TestARIMAFallback(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2, 8))
+	n := 800
+	x := make([]float64, n)
+	prev := 0.0
+	for i := 1; i < n; i++ {
+		a := rng.NormFloat64()
+		x[i] = x[i-1] + a - 0.85*prev
+		prev = a
+	}
+	var nw *prewhiten.NotWhiteError
+	if _, err := prewhiten.Pair(x, x, "y", &prewhiten.Settings{MaxOrder: 2, KeepAR: true}); !errors.As(err, &nw) {
+		t.Fatalf("AR(<=2) only: want NotWhiteError, got %v", err)
+	}
+	res, err := prewhiten.Pair(x, x, "y", &prewhiten.Settings{MaxOrder: 2})
+	if err != nil {
+		t.Fatalf("with the ARIMA fallback: %v", err)
+	}
+	// Either fallback may win (ARIMA(1,1,1), or ARIMA(1,0,1) with its AR
+	// root near 1): both carry the MA term the AR could not.
+	if len(res.Filter.MA) != 2 || !res.White {
+		t.Errorf("fallback filter %v, white %v", res.Filter, res.White)
+	}
+	t.Logf("fallback filter %v (Ljung-Box p = %.3f)", res.Filter, res.Check.P)
 }

@@ -1,6 +1,7 @@
 package prewhiten
 
 import (
+	"context"
 	"errors"
 	"math"
 	"strconv"
@@ -25,6 +26,13 @@ type Settings struct {
 	// level: a near-integrated input (common practice, a heuristic rather
 	// than a unit-root test).
 	AutoDiff bool
+	// Order, when not nil (and ARMA is nil), fits an ARIMA model of these
+	// orders to the input by conditional least squares (arma.Fit) and
+	// uses it as the filter, instead of the autoregression by AIC: for
+	// inputs that an AR of moderate order does not whiten, such as an
+	// integrated input under feedback, for which ARIMA(1,1,1) is a common
+	// choice. Its differencing is used unless Diff is set.
+	Order *arma.Order
 	// ARMA, when not nil, is used as the filter instead of fitting one:
 	// phi(B) = ARMA.ARPoly(), theta(B) = ARMA.MAPoly(), the differencing
 	// ARMA.DiffPoly() (unless Diff is set). Its Mean and Sigma2 are kept.
@@ -38,6 +46,9 @@ type Settings struct {
 	// Level is the p-value below which the check reports a
 	// *NotWhiteError; zero means 0.01.
 	Level float64
+	// KeepAR stops Pair from trying ARIMA filters when the
+	// autoregression does not whiten the input.
+	KeepAR bool
 }
 
 func (s *Settings) name() string {
@@ -150,6 +161,23 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 	}
 	if err := checkPoly("Settings.Diff", set.Diff); err != nil {
 		return Filter{}, err
+	}
+	if set.ARMA == nil && set.Order != nil {
+		ord := *set.Order
+		if set.Diff != nil {
+			ord.D, ord.SD = 0, 0
+		}
+		w := x
+		if set.Diff != nil {
+			d := len(set.Diff) - 1
+			w = applyFIR(x, set.Diff)[d:]
+		}
+		res, err := arma.Fit(context.Background(), w, ord, &arma.Options{Name: name})
+		if res == nil {
+			return Filter{}, err
+		}
+		m := res.Model
+		set.ARMA = &m
 	}
 	if set.ARMA != nil {
 		return fromARMA(x, name, set)
