@@ -28,7 +28,7 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 		return nil, fmt.Errorf("identification: %w", err)
 	}
 	pr.say("fitted %d candidate models", len(cands))
-	fmt.Fprintf(w, "Candidate models, best first (ranked by BIC; checks at the 5 %% level; %d fitted):\n", len(cands))
+	fmt.Fprintf(w, "\nCandidate models, best first (ranked by BIC; checks at the 5 %% level; %d fitted):\n", len(cands))
 	fmt.Fprintf(w, "  %4s  %10s  %10s  %6s  %-6s  %s\n", "rank", "BIC", "AIC", "params", "checks", "structure")
 	for i, c := range cands {
 		if i == shownCandidates && len(cands) > shownCandidates+1 {

@@ -15,7 +15,8 @@ import (
 type Options struct {
 	// Data is a CSV file; empty means the built-in greenhouse record.
 	Data string
-	// Output and Inputs name the columns of the output and the inputs.
+	// Output and Inputs name the columns of the output and the inputs
+	// (ignored with Spec: the spec names them).
 	Output string
 	Inputs []string
 	// Spec, when not empty, is a model to fit instead of identifying one.

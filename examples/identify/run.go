@@ -72,7 +72,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 		return nil, err
 	}
 	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
-	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
+	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
 
 	skip := o.Skip
 	if skip < 0 {
@@ -139,9 +139,23 @@ func writeBuiltin(path string, stdout io.Writer) error {
 	return nil
 }
 
-// load reads the record named by o.
+// load reads the record named by o. With a spec, the output and inputs
+// are the spec's series.
 func load(o Options) (*dataset, error) {
 	ds := &dataset{output: o.Output, inputs: o.Inputs, interval: o.Interval, unit: o.Unit}
+	if o.Spec != "" {
+		m, err := parse.Model(o.Spec)
+		if err != nil {
+			return nil, fmt.Errorf("the spec does not parse:\n%w", err)
+		}
+		ds.output, ds.inputs = m.Output, nil
+		for _, in := range m.Inputs {
+			ds.inputs = append(ds.inputs, in.Series)
+		}
+		if ds.interval == 0 && m.Interval.Value > 0 {
+			ds.interval, ds.unit = m.Interval.Value, m.Interval.Unit
+		}
+	}
 	if len(ds.inputs) == 0 {
 		return nil, errors.New("no input columns named (-inputs)")
 	}
@@ -161,9 +175,11 @@ func load(o Options) (*dataset, error) {
 		if ds.interval == 0 {
 			ds.interval, ds.unit = greenhouse.Interval, "min"
 		}
-		// The truth is known only for the demo's own output and inputs.
-		ds.builtin = ds.output == greenhouse.Output && len(ds.inputs) == 2 &&
-			ds.inputs[0] == greenhouse.Valve && ds.inputs[1] == greenhouse.Outdoor
+		// The truth is known for the demo's own output and inputs.
+		ds.builtin = ds.output == greenhouse.Output
+		for _, in := range ds.inputs {
+			ds.builtin = ds.builtin && (in == greenhouse.Valve || in == greenhouse.Outdoor)
+		}
 	} else {
 		t, err := ReadCSVFile(o.Data)
 		if err != nil {
