@@ -85,3 +85,29 @@ func BenchmarkModelHostile(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkTree compares the two parsers on the tokens of benchSpec: the
+// hand-written one that Model uses and the participle grammar it is
+// checked against.
+func BenchmarkTree(b *testing.B) {
+	toks, err := lexSpec(benchSpec)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.Run("fast", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			if _, _, ok := fastParse(toks); !ok {
+				b.Fatal("fast parser failed")
+			}
+		}
+	})
+	b.Run("participle", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			if _, err := grammarParse(toks); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+}

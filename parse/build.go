@@ -130,7 +130,7 @@ func (b *builder) whole(x *gExp, lo, hi int, what, unit string, kindOver error) 
 	case err == nil && v != math.Trunc(v):
 		b.fail(x.Pos, ErrModel, what+" must be a whole number"+of+", not "+text)
 	case err == nil && v < 0 && lo == 0:
-		b.fail(x.Pos, ErrModel, what+" cannot be negative, and here it is "+text)
+		b.fail(x.Pos, ErrModel, what+" cannot be negative (here "+text+")")
 	case err == nil && v < float64(lo):
 		b.fail(x.Pos, ErrModel, what+" must be at least "+strconv.Itoa(lo)+", not "+text)
 	case err != nil || v > float64(hi):

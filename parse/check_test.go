@@ -2,7 +2,10 @@ package parse
 
 import (
 	"errors"
+	"flag"
+	"io"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/tf"
@@ -56,5 +59,23 @@ func TestCheckErrorText(t *testing.T) {
 	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: tf.Poly{Factors: []tf.Factor{{Exp: 1, Terms: []tf.Term{{Coef: tf.Coef{Value: math.Inf(1)}}}}}}}}}
 	if err := Check(m); err == nil || err.Error() != "a coefficient of the numerator of input x is +Inf" {
 		t.Errorf("got %v", err)
+	}
+}
+
+// TestSpecFlag uses Spec as a command-line flag through flag.TextVar.
+func TestSpecFlag(t *testing.T) {
+	fs := flag.NewFlagSet("sim", flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	var sp Spec
+	fs.TextVar(&sp, "model", Spec{}, "model spec")
+	if err := fs.Parse([]string{"-model", "flow = w0 B^2 rain + a every 1 h"}); err != nil {
+		t.Fatal(err)
+	}
+	if sp.Model.Inputs[0].Delay != 2 || sp.Model.Interval.Unit != "h" {
+		t.Errorf("flag gave %v", sp)
+	}
+	err := fs.Parse([]string{"-model", "flow = w0 B^-2 rain"})
+	if err == nil || !strings.Contains(err.Error(), "1:13: the dead time cannot be negative (here -2)") {
+		t.Errorf("bad flag: %v", err)
 	}
 }
