@@ -76,9 +76,81 @@ func runInit(dst, b, a, x, xHist, yHist []float64) uint64 {
 			return run44(dst, x, &c, &d, xh, yh)
 		}
 	}
-	s := NewStream(b, a, 0)
-	s.SetHistory(xHist, yHist)
-	return s.run(dst, x)
+	if q > 0 && &dst[0] == &x[0] {
+		// In place with a numerator: past inputs are overwritten, so keep
+		// them in the stream's ring.
+		s := NewStream(b, a, 0)
+		s.SetHistory(xHist, yHist)
+		return s.run(dst, x)
+	}
+	return runSparse(dst, b, a, x, xHist, yHist)
+}
+
+// runSparse is the general loop for dst not aliasing x (or q = 0): it
+// visits only the non-zero coefficients, which makes seasonal polynomials
+// such as (1 - 0.5 B)(1 - 0.4 B^12) cost 4 terms instead of 14, and reads
+// past values straight from x and dst once the histories are passed.
+// Skipping a zero coefficient leaves the sum bit for bit unchanged (it
+// adds an exact zero), so the result equals the dense loops' for finite
+// data.
+func runSparse(dst, b, a, x, xHist, yHist []float64) uint64 {
+	var kb, ka [16]int
+	var cb, ca [16]float64
+	bk, bc := kb[:0], cb[:0]
+	ak, ac := ka[:0], ca[:0]
+	for k, v := range b {
+		if v != 0 {
+			bk, bc = append(bk, k), append(bc, v)
+		}
+	}
+	for k := len(a) - 1; k >= 1; k-- {
+		if a[k] != 0 {
+			ak, ac = append(ak, k), append(ac, a[k])
+		}
+	}
+	a0 := a[0]
+	n := len(x)
+	m := min(max(len(b)-1, len(a)-1), n)
+	acc := uint64(0)
+	// Warm-up: values before t = 0 come from the histories.
+	for t := 0; t < m; t++ {
+		s := 0.0
+		for j, k := range bk {
+			if i := t - k; i >= 0 {
+				s += bc[j] * x[i]
+			} else {
+				s += bc[j] * hist(xHist, -i)
+			}
+		}
+		for j, k := range ak {
+			if i := t - k; i >= 0 {
+				s -= ac[j] * dst[i]
+			} else {
+				s -= ac[j] * hist(yHist, -i)
+			}
+		}
+		if a0 != 1 {
+			s /= a0
+		}
+		dst[t] = s
+		acc |= finiteBits(x[t])
+	}
+	x = x[:len(dst)]
+	for t := m; t < n; t++ {
+		s := 0.0
+		for j, k := range bk {
+			s += bc[j] * x[t-k]
+		}
+		for j, k := range ak {
+			s -= ac[j] * dst[t-k]
+		}
+		if a0 != 1 {
+			s /= a0
+		}
+		dst[t] = s
+		acc |= finiteBits(x[t])
+	}
+	return acc
 }
 
 // expMask selects the exponent bits of a float64.

@@ -83,6 +83,17 @@ func TestRunMatchesNaive(t *testing.T) {
 			b = nil // empty numerator: output zero
 		}
 		a := randStableDen(rng, p)
+		if rng.IntN(3) == 0 {
+			// Seasonal-looking sparse polynomials: (1 + c1 B)(1 + c12 B^s).
+			sp := 2 + rng.IntN(13)
+			a = make([]float64, sp+2)
+			c1, cs := 0.8*(2*rng.Float64()-1), 0.8*(2*rng.Float64()-1)
+			a[0], a[1], a[sp], a[sp+1] = 1, c1, cs, c1*cs
+			if rng.IntN(2) == 0 {
+				b = make([]float64, sp+1)
+				b[0], b[sp] = 1, -0.5
+			}
+		}
 		if rng.IntN(4) == 0 {
 			s := 0.5 + rng.Float64()
 			for k := range a {
@@ -102,7 +113,7 @@ func TestRunMatchesNaive(t *testing.T) {
 		check := func(what string, got []float64) {
 			for i := range want {
 				if exact && got[i] != want[i] || !exact && math.Abs(got[i]-want[i]) > 1e-13*(1+math.Abs(want[i])) {
-					t.Fatalf("trial %d (q=%d p=%d a0=%v) %s: y[%d] = %v, want %v", trial, q, p, a[0], what, i, got[i], want[i])
+					t.Fatalf("trial %d (b=%v a=%v) %s: y[%d] = %v, want %v", trial, b, a, what, i, got[i], want[i])
 				}
 			}
 		}
@@ -201,7 +212,7 @@ func TestStepAllocs(t *testing.T) {
 	}
 	x := make([]float64, 1000)
 	y := make([]float64, 1000)
-	for _, ord := range [][2]int{{1, 1}, {2, 2}, {4, 4}, {6, 6}} {
+	for _, ord := range [][2]int{{1, 1}, {2, 2}, {4, 4}, {6, 6}, {0, 13}} {
 		b := make([]float64, ord[0]+1)
 		a := make([]float64, ord[1]+1)
 		a[0] = 1
@@ -210,6 +221,25 @@ func TestStepAllocs(t *testing.T) {
 		if n := testing.AllocsPerRun(10, func() { Run(y, b, a, x) }); n > 2 || ord[0] <= 4 && n != 0 {
 			t.Errorf("Run order %v allocates %v times per call", ord, n)
 		}
+	}
+}
+
+// BenchmarkRunSeasonal filters through the sparse seasonal denominator
+// (1 - 0.5 B)(1 - 0.4 B^12), the shape of seasonal ARMA residual filters.
+func BenchmarkRunSeasonal(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	x := randPoly(rng, 1_000_000, 1)
+	y := make([]float64, len(x))
+	a := make([]float64, 14)
+	a[0], a[1], a[12], a[13] = 1, -0.5, -0.4, 0.2
+	for n := 1000; n <= len(x); n *= 10 {
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				Run(y[:n], []float64{1}, a, x[:n])
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n), "ns/sample")
+		})
 	}
 }
 
