@@ -10,9 +10,11 @@
 //
 // Orders up to 4 with a_0 = 1 run in specialised loops that keep the
 // recursion state in registers and have no bounds checks; other filters
-// use the general Stream loop. Every path forms the sums in the same
-// order (numerator terms by rising power, then denominator terms by
+// run a general loop over the non-zero coefficients only (seasonal
+// polynomials are sparse), or the Stream loop when filtering in place
+// with a numerator of degree above 4. Every path forms the sums in the
+// same order (numerator terms by rising power, then denominator terms by
 // falling power), so batch and streaming results agree bit for bit. The
-// batch functions modify only dst and allocate nothing for orders up to
-// 4 (two small buffers per call otherwise); Stream.Step never allocates.
+// batch functions modify only dst and allocate at most two small buffers
+// per call (none for orders up to 4); Stream.Step never allocates.
 package filter
