@@ -25,19 +25,26 @@ func Example() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	est, err := tf.Fit(context.Background(), m, data, nil)
+	est, err := tf.Fit(context.Background(), m, data, &tf.FitSettings{First: 300}) // sum residuals after the start-up
+
 	if err != nil {
 		log.Fatal(err)
 	}
-	w0, _ := est.Param("w0")
-	d1, _ := est.Param("d1")
-	fmt.Printf("valve gain %.2f degC/%%, dead time %d min\n", w0.Value/(1-d1.Value), est.Model.Inputs[0].Delay)
+	for _, p := range est.Params {
+		fmt.Printf("%-2s = %7.4g  (SE %.2g)\n", p.Name, p.Value, p.SE)
+	}
 	fc, err := est.Forecast(data, 60, &tf.ForecastSettings{Future: map[string][]float64{"valve": plan}})
 	if err != nil {
 		log.Fatal(err)
 	}
 	fmt.Printf("in 1 h: %.1f degC (95 %% interval %.1f to %.1f)\n", fc.Mean[59], fc.Lower[59], fc.Upper[59])
 	// Output:
-	// valve gain 0.20 degC/%, dead time 3 min
+	// c  =   5.971  (SE 0.021)
+	// w0 = 0.009988  (SE 3.6e-05)
+	// d1 =  0.9502  (SE 0.00019)
+	// v0 = 0.04906  (SE 0.00086)
+	// e1 =  0.9021  (SE 0.0017)
+	// t1 =  0.3033  (SE 0.015)
+	// p1 =  0.7928  (SE 0.0093)
 	// in 1 h: 17.0 degC (95 % interval 15.9 to 18.0)
 }
