@@ -26,7 +26,6 @@ func Example() {
 		log.Fatal(err)
 	}
 	est, err := tf.Fit(context.Background(), m, data, &tf.FitSettings{First: 300}) // sum residuals after the start-up
-
 	if err != nil {
 		log.Fatal(err)
 	}
