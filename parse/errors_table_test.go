@@ -150,3 +150,16 @@ func init() {
 		{"temp = 4 + burner + a", 1, 12, ErrModel, "a second constant term; a model has at most one (a lone name is a constant: to feed series burner with unit gain write 1 burner)"},
 	}...)
 }
+
+func init() {
+	errorCases = append(errorCases, []struct {
+		spec      string
+		line, col int
+		kind      error
+		msg       string
+	}{
+		{"temp = w0 b^2 x", 1, 12, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '^' (the backshift operator is written B, upper case)"},
+		{"temp = w0 x + arma(1, 1)", 1, 21, ErrSyntax, "unexpected ',' inside parentheses (write ARMA in upper case)"},
+		{"temp = w0 x Where w0 ~ 1", 1, 22, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '~' (write where in lower case)"},
+	}...)
+}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"slices"
 	"strconv"
+	"strings"
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
@@ -111,8 +112,27 @@ func (b *builder) syntax(toks []lexer.Token, err error, stop int) {
 	b.fail(cur.Pos, ErrSyntax, syntaxMessage(toks, i))
 }
 
-// syntaxMessage explains why token i cannot stand where it is.
+// syntaxMessage explains why token i cannot stand where it is, with a
+// hint when a reserved word seems to be written in the wrong case.
 func syntaxMessage(toks []lexer.Token, i int) string {
+	msg := syntaxReason(toks, i)
+	for _, t := range toks[:i+1] {
+		if t.Type != tokIdent {
+			continue
+		}
+		switch {
+		case t.Value == "b":
+			return msg + " (the backshift operator is written B, upper case)"
+		case strings.EqualFold(t.Value, "where") || strings.EqualFold(t.Value, "every"):
+			return msg + " (write " + strings.ToLower(t.Value) + " in lower case)"
+		case isShort(strings.ToUpper(t.Value)):
+			return msg + " (write " + strings.ToUpper(t.Value) + " in upper case)"
+		}
+	}
+	return msg
+}
+
+func syntaxReason(toks []lexer.Token, i int) string {
 	cur := toks[i]
 	found := describe(cur)
 	// Where are we: before '=', in the equation, in a where or every clause;
