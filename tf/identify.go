@@ -46,6 +46,15 @@ type IdentifySettings struct {
 	ByAIC bool
 	// Workers is the number of concurrent fits; zero means GOMAXPROCS.
 	Workers int
+	// NoRefine skips the second round, in which the lower-order
+	// neighbours of the best fit (one numerator, denominator or noise
+	// coefficient fewer, started from its estimates) are fitted and
+	// ranked with the others.
+	NoRefine bool
+	// Progress, when not nil, is called after every fit with the
+	// number of fits done and the number planned (which may grow by the
+	// second round); calls do not overlap.
+	Progress func(done, total int)
 	// Fit and Check are passed to Fit and Check for every candidate
 	// (Fit.First is overridden so that all candidates sum the same
 	// residuals).
@@ -99,8 +108,11 @@ func (c Candidate) String() string {
 // forms and noise orders (at most s.MaxCandidates, lowest form scores
 // first) is fitted with a constant on s.Workers goroutines, all summing
 // the residuals from the same index so that the criteria compare, and
-// checked (Check). The candidates are returned ranked by BIC (or AIC),
-// failed fits last; each carries its report.
+// checked (Check). A second round fits the lower-order neighbours of
+// the best fit (one coefficient of one polynomial fewer, started from
+// its estimates), so that a form the weights missed can still win. The
+// candidates are returned ranked by BIC (or AIC), failed fits last;
+// each carries its report.
 //
 // Coefficients are named w0.., d1.. (with the input name and "_" before
 // them when there are several inputs), phi1.., theta1.. and c.
@@ -263,6 +275,68 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		}
 	}
 	fs.First = first
+	total := len(models)
+	if !set.NoRefine {
+		total += 2 * (len(inputs) + 1)
+	}
+	prog := &idfProgress{fn: set.Progress, total: total}
+	out := idfFitAll(ctx, models, data, fs, set, prog)
+	if !set.NoRefine && ctx.Err() == nil {
+		// Lower-order neighbours of the best fit, started from its
+		// estimates: drop the highest-power coefficient of one
+		// numerator, denominator or noise polynomial at a time.
+		seen := map[string]bool{}
+		for _, m := range models {
+			seen[idfKey(m)] = true
+		}
+		var more []Model
+		if b := idfBest(out); b != nil {
+			for _, m := range idfNeighbours(b.Estimate.Model) {
+				if k := idfKey(m); !seen[k] {
+					seen[k] = true
+					more = append(more, m)
+				}
+			}
+		}
+		prog.setTotal(len(models) + len(more))
+		out = append(out, idfFitAll(ctx, more, data, fs, set, prog)...)
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
+	for i := range out {
+		out[i].Rank = i + 1
+	}
+	if len(out) > 0 && out[0].Err != nil {
+		return out, out[0].Err
+	}
+	return out, nil
+}
+
+// idfProgress reports finished fits to the caller's callback, one call
+// at a time.
+type idfProgress struct {
+	mu          sync.Mutex
+	fn          func(done, total int)
+	done, total int
+}
+
+func (p *idfProgress) setTotal(t int) {
+	p.mu.Lock()
+	p.total = t
+	p.mu.Unlock()
+}
+
+func (p *idfProgress) tick() {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.done++
+	if p.fn != nil {
+		p.fn(p.done, max(p.total, p.done))
+	}
+}
+
+// idfFitAll fits and checks the models on at most set.Workers
+// goroutines.
+func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *idfProgress) []Candidate {
 	out := make([]Candidate, len(models))
 	var wg sync.WaitGroup
 	sem := make(chan struct{}, set.Workers)
@@ -272,6 +346,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			defer wg.Done()
 			sem <- struct{}{}
 			defer func() { <-sem }()
+			defer prog.tick()
 			c := Candidate{Model: models[k], Score: math.Inf(1)}
 			if err := ctx.Err(); err != nil {
 				c.Err = err
@@ -295,14 +370,80 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		}(k)
 	}
 	wg.Wait()
-	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
-	for i := range out {
-		out[i].Rank = i + 1
+	return out
+}
+
+// idfBest returns the candidate with the lowest score, nil if none fitted.
+func idfBest(cs []Candidate) *Candidate {
+	var b *Candidate
+	for i := range cs {
+		if cs[i].Err == nil && (b == nil || cs[i].Score < b.Score) {
+			b = &cs[i]
+		}
 	}
-	if len(out) > 0 && out[0].Err != nil {
-		return out, out[0].Err
+	return b
+}
+
+// idfKey describes the structure of a model: per input its dead time and
+// degrees, and the noise degrees.
+func idfKey(m Model) string {
+	k := ""
+	for _, in := range m.Inputs {
+		k += fmt.Sprintf("%s:%d,%d,%d;", in.Series, in.Delay, in.Den.Degree(), in.Num.Degree())
 	}
-	return out, nil
+	if m.Noise != nil {
+		k += fmt.Sprintf("n:%d,%d", m.Noise.AR.Degree(), m.Noise.MA.Degree())
+	}
+	return k
+}
+
+// idfNeighbours returns copies of m (single-factor polynomials as
+// Identify builds them) with the highest-power term of one numerator
+// (s >= 1), denominator (r >= 1) or noise polynomial removed.
+func idfNeighbours(m Model) []Model {
+	drop := func(p Poly) (Poly, bool) {
+		if len(p.Factors) != 1 || len(p.Factors[0].Terms) < 2 {
+			return p, false
+		}
+		q := p.Clone()
+		f := &q.Factors[0]
+		f.Terms = f.Terms[:len(f.Terms)-1]
+		if len(f.Terms) == 1 && f.Terms[0].Coef.Name == "" && f.Terms[0].Power == 0 && f.Terms[0].Value() == 1 {
+			return Poly{}, true // the denominator or noise polynomial became 1
+		}
+		return q, true
+	}
+	var out []Model
+	for i := range m.Inputs {
+		for _, den := range []bool{false, true} {
+			c := m.Clone()
+			in := &c.Inputs[i]
+			var ok bool
+			if den {
+				in.Den, ok = drop(in.Den)
+			} else {
+				in.Num, ok = drop(in.Num)
+			}
+			if ok {
+				out = append(out, c)
+			}
+		}
+	}
+	if m.Noise != nil {
+		for _, ar := range []bool{false, true} {
+			c := m.Clone()
+			var ok bool
+			if ar {
+				c.Noise.AR, ok = drop(c.Noise.AR)
+			} else {
+				c.Noise.MA, ok = drop(c.Noise.MA)
+			}
+			if ok {
+				out = append(out, c)
+			}
+		}
+	}
+	return out
 }
 
 // idfJointWeights estimates the impulse-response weights of several

@@ -12,7 +12,10 @@ import (
 
 // ExampleIdentify identifies a model for BJsales (R's datasets package,
 // Series M of Box, Jenkins & Reinsel: sales and a leading indicator)
-// with both series differenced once, and prints the ranked candidates.
+// with both series differenced once, and prints the ranked candidates:
+// the forms and noise orders proposed, then the lower-order neighbours
+// of the best fit (white noise, no denominator), which fail their
+// checks.
 func ExampleIdentify() {
 	f, err := os.Open("../testdata/bjsales/bjsales.csv")
 	if err != nil {
@@ -49,4 +52,6 @@ func ExampleIdentify() {
 	// #2 BIC  -3.25  b=3 r=1 s=0  noise AR(1) MA(1)  checks pass: true
 	// #3 BIC  -2.84  b=3 r=1 s=1  noise AR(0) MA(1)  checks pass: true
 	// #4 BIC   1.72  b=3 r=1 s=1  noise AR(1) MA(1)  checks pass: true
+	// #5 BIC  29.87  b=3 r=1 s=0  noise AR(0) MA(0)  checks pass: false
+	// #6 BIC 369.53  b=3 r=0 s=0  noise AR(0) MA(1)  checks pass: false
 }

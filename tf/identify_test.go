@@ -67,3 +67,35 @@ func TestIdentifyErrors(t *testing.T) {
 		t.Errorf("NaN: %v", err)
 	}
 }
+
+// TestIdentifyProgressAndCancel checks the progress callback and that a
+// done context stops the identification with its error.
+func TestIdentifyProgressAndCancel(t *testing.T) {
+	var c fitRefCase
+	for _, k := range fitReadRef(t) {
+		if k.Name == "bjsales" {
+			c = k
+		}
+	}
+	data := c.data(t)
+	calls, last := 0, 0
+	cands, err := Identify(context.Background(), "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1},
+		Progress: func(done, total int) {
+			calls++
+			if done != calls || total < done {
+				t.Errorf("progress %d/%d at call %d", done, total, calls)
+			}
+			last = total
+		}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if calls != len(cands) || last != len(cands) {
+		t.Errorf("%d progress calls (last total %d) for %d candidates", calls, last, len(cands))
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, err := Identify(ctx, "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1}}); !errors.Is(err, context.Canceled) {
+		t.Errorf("canceled: %v", err)
+	}
+}

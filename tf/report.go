@@ -39,21 +39,29 @@ func (e *Estimate) String() string {
 	fmt.Fprintf(&b, "  conditional log-likelihood %s   AIC %s   BIC %s\n", fitFixed(e.LogLik, 2), fitFixed(e.AIC, 2), fitFixed(e.BIC, 2))
 	if len(e.Params) > 1 {
 		b.WriteString("\n  correlations of the estimates\n")
+		cw := 5
+		for _, p := range e.Params[:len(e.Params)-1] {
+			cw = max(cw, len(p.Name))
+		}
 		for i := 1; i < len(e.Params); i++ {
 			fmt.Fprintf(&b, "  %-*s", w, e.Params[i].Name)
 			for j := 0; j < i; j++ {
-				fmt.Fprintf(&b, " %6s", fitFixed(e.Corr[i][j], 2))
+				fmt.Fprintf(&b, " %*s", cw, fitFixed(e.Corr[i][j], 2))
 			}
 			b.WriteByte('\n')
 		}
 		fmt.Fprintf(&b, "  %-*s", w, "")
 		for j := 0; j < len(e.Params)-1; j++ {
-			fmt.Fprintf(&b, " %6s", fitTrunc(e.Params[j].Name, 6))
+			fmt.Fprintf(&b, " %*s", cw, e.Params[j].Name)
 		}
 		b.WriteByte('\n')
 	}
 	for _, in := range e.Model.Inputs {
-		fmt.Fprintf(&b, "\n  input %s: dead time %d samples", in.Series, in.Delay)
+		unit := "samples"
+		if in.Delay == 1 {
+			unit = "sample"
+		}
+		fmt.Fprintf(&b, "\n  input %s: dead time %d %s", in.Series, in.Delay, unit)
 		if e.Model.Interval.Value > 0 {
 			fmt.Fprintf(&b, " (%s %s)", fitNum(float64(in.Delay)*e.Model.Interval.Value, 4), e.Model.Interval.Unit)
 		}
@@ -137,13 +145,6 @@ func fitFixed(v float64, dec int) string {
 		return "n/a"
 	}
 	return strconv.FormatFloat(v, 'f', dec, 64)
-}
-
-func fitTrunc(s string, n int) string {
-	if len(s) <= n {
-		return s
-	}
-	return s[:n]
 }
 
 func fitRoots(zs []complex128) string {
