@@ -29,14 +29,26 @@ type FitSettings struct {
 	First int
 	// Tol stops the optimiser when an accepted step (and the full
 	// Gauss-Newton step) reduce the sum of squares by less than Tol
-	// relative. Zero means 1e-16 N clamped to [1e-14, 1e-10] for N
-	// residuals, which leaves the estimates within about 1e-8 N standard
-	// errors of the minimum (and near the rounding level of the sum).
+	// relative. Zero means 1e-14 N clamped to [1e-14, 1e-9] for N
+	// residuals. The excess of the sum of squares over its minimum before
+	// the last step is then below Tol SSQ, that is the estimates are
+	// within sqrt(Tol N) standard errors of the minimum (at most 0.03
+	// for N = 10^6), and the last Gauss-Newton step reduces that by
+	// orders of magnitude.
 	Tol float64
 	// ZeroPreSample takes inputs without differencing as zero before
 	// their first sample instead of held at it (see Fit), the textbook
 	// convention for inputs that vary about zero.
 	ZeroPreSample bool
+	// Settle, after a converged fit, moves the first residual index to
+	// NoiseStart + p + k, k the number of samples in which the slowest
+	// estimated input pole or noise MA zero decays to 1 % (ln 0.01 /
+	// ln |z|), capped at n/10, and refits from the estimates, so that
+	// the start-up transient of the pre-sample assumption (an input that
+	// was not settled at its first value, as in closed-loop records) is
+	// left out of the sum of squares. Conditioning reports the index
+	// used.
+	Settle bool
 	// IgnoreExtra accepts data holding series the model does not use.
 	// By default such series are an error (ExtraSeries), because they
 	// usually mean a misspelt input name.
@@ -200,7 +212,52 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	if err != nil {
 		return nil, err
 	}
-	return w.run(ctx, set)
+	e, err := w.run(ctx, set)
+	if err != nil || !set.Settle || !e.Converged {
+		return e, err
+	}
+	// Settle: move First past the start-up transient of the estimated
+	// input poles and MA zeros, and refit from the estimates.
+	k := fitSettleSamples(e.Model)
+	first := min(e.Conditioning.NoiseStart+w.ar.Degree()+k, w.n/10)
+	if first <= e.Conditioning.First {
+		return e, nil
+	}
+	s2 := set
+	s2.First = first
+	s2.Settle = false
+	w2, err := fitPrepare(e.Model, data, s2)
+	if err != nil {
+		return e, nil
+	}
+	e2, err := w2.run(ctx, s2)
+	if err != nil {
+		return e, nil
+	}
+	for i := range e2.Params {
+		e2.Params[i].Start = e.Params[i].Start
+	}
+	return e2, nil
+}
+
+// fitSettleSamples returns the number of samples after which the slowest
+// estimated input pole or noise MA zero has decayed to 1 %: ln 0.01 /
+// ln |z|max (0 when all are zero, a large number near the unit circle).
+func fitSettleSamples(m Model) int {
+	z := 0.0
+	for _, in := range m.Inputs {
+		z = math.Max(z, fitMaxZ(in.Den.Coeffs()))
+	}
+	if m.Noise != nil {
+		z = math.Max(z, fitMaxZ(m.Noise.MA.Coeffs()))
+	}
+	if z <= 0 {
+		return 0
+	}
+	if z >= 1 {
+		return math.MaxInt32
+	}
+	return int(math.Ceil(math.Log(0.01) / math.Log(z)))
 }
 
 // fitInput is the working state of one input term.
@@ -721,7 +778,7 @@ func (w *fitWork) window(m int) map[string][]float64 {
 func (w *fitWork) lmSettings(set FitSettings, maxIter int) *lm.Settings {
 	tol := set.Tol
 	if tol <= 0 {
-		tol = min(max(1e-15*float64(w.n-w.cond.First), 1e-14), 1e-10)
+		tol = min(max(1e-14*float64(w.n-w.cond.First), 1e-14), 1e-9)
 	}
 	return &lm.Settings{MaxIter: maxIter, FTol: tol}
 }

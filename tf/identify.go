@@ -46,6 +46,10 @@ type IdentifySettings struct {
 	ByAIC bool
 	// Workers is the number of concurrent fits; zero means GOMAXPROCS.
 	Workers int
+	// Settle moves the common first residual index past the start-up
+	// transient of the preliminary fit's poles (see FitSettings.Settle),
+	// capped at n/10.
+	Settle bool
 	// NoRefine skips the second round, in which the lower-order
 	// neighbours of the best fit (one numerator, denominator or noise
 	// coefficient fewer, started from its estimates) are fitted and
@@ -235,7 +239,12 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		fs.IgnoreExtra = true
 	}
 	noises := []*arma.Noise{{}}
+	settleFirst := 0
 	if est, err := Fit(ctx, pre, data, &fs); err == nil {
+		if set.Settle {
+			k := fitSettleSamples(est.Model)
+			settleFirst = min(est.Conditioning.NoiseStart+set.MaxP+k, n/10)
+		}
 		r := est.Resid[est.Conditioning.First:]
 		nid, err := prewhiten.IdentifyNoise(ctx, r, &prewhiten.NoiseSettings{MaxP: set.MaxP, MaxQ: set.MaxQ})
 		if err == nil {
@@ -274,7 +283,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			first = max(first, w.cond.First)
 		}
 	}
-	fs.First = first
+	fs.First = max(first, settleFirst)
 	total := len(models)
 	if !set.NoRefine {
 		total += 2 * (len(inputs) + 1)
