@@ -105,7 +105,7 @@ func (b *builder) every(e *gEvery) {
 func (b *builder) number(x *gExp) (float64, bool) {
 	v, err := strconv.ParseFloat(x.Num, 64)
 	if err != nil {
-		b.fail(x.Pos, ErrSyntax, "number "+x.Num+" is out of range")
+		b.fail(x.Pos, ErrSyntax, "number "+clip(x.Num)+" is out of range")
 		return 0, false
 	}
 	if x.Neg {
@@ -118,7 +118,7 @@ func (b *builder) number(x *gExp) (float64, bool) {
 // unit, when not empty, follows the limit.
 func (b *builder) whole(x *gExp, lo, hi int, what, unit string, kindOver error) (int, bool) {
 	v, err := strconv.ParseFloat(x.Num, 64)
-	text := x.Num
+	text := clip(x.Num)
 	if x.Neg {
 		v, text = -v, "-"+text
 	}
@@ -673,7 +673,15 @@ func elemText(el *gElem) string {
 	return ""
 }
 
-func quoteTok(s string) string { return "'" + s + "'" }
+func quoteTok(s string) string { return "'" + clip(s) + "'" }
+
+// clip shortens a very long token for a message.
+func clip(s string) string {
+	if len(s) <= 40 {
+		return s
+	}
+	return s[:32] + "... (" + strconv.Itoa(len(s)) + " characters)"
+}
 
 // checkNames reports series/coefficient clashes, an input named twice and
 // the output used as an input.

@@ -163,3 +163,16 @@ func init() {
 		{"temp = w0 x Where w0 ~ 1", 1, 22, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '~' (write where in lower case)"},
 	}...)
 }
+
+func init() {
+	long := strings.Repeat("9", 400)
+	errorCases = append(errorCases, []struct {
+		spec      string
+		line, col int
+		kind      error
+		msg       string
+	}{
+		{"temp = w0 x + 1e" + long, 1, 15, ErrSyntax, "number 1e" + long[:30] + "... (402 characters) is out of range"},
+		{"temp = w0 x where " + long, 1, 19, ErrSyntax, "expected a coefficient name after 'where', found number " + long[:32] + "... (400 characters)"},
+	}...)
+}

@@ -253,9 +253,9 @@ func describe(t lexer.Token) string {
 	case lexer.EOF:
 		return "the end of the spec"
 	case tokNumber:
-		return "number " + t.Value
+		return "number " + clip(t.Value)
 	case tokIdent:
-		return "name " + t.Value
+		return "name " + clip(t.Value)
 	case tokKeyword:
 		return "'" + t.Value + "'"
 	}
