@@ -26,7 +26,8 @@
 // dithered valve under feedback) the start-up transient would otherwise
 // be read as slow noise.
 //
-// Pictures (-pictures DIR): ccf.png (prewhitened cross-correlation with
+// Pictures (-pictures DIR): data.png (the record: output with its
+// setpoint on the demo, and each input), ccf.png (prewhitened cross-correlation with
 // 95 % bands), weights.png (impulse-response weights with +-2 standard
 // errors), residual-acf.png (residual autocorrelation with bands),
 // step.png (step responses in minutes with the dead time and settling

@@ -77,6 +77,30 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		delays[in.Series] = in.Delay
 	}
 
+	// The record itself.
+	if err := add("data", func(path string) error {
+		y := ds.data[ds.output]
+		t := make([]float64, len(y))
+		for i := range t {
+			t[i] = float64(i) * dt
+		}
+		out := seriesPanel{Title: "Output: " + ds.output, YLabel: ds.output + outputUnit(ds),
+			Lines: []namedLine{{Name: ds.output, Y: y, Color: colData, Width: 0.8}}}
+		if ds.builtin {
+			if sp, ok := ds.setpoint(); ok {
+				out.Lines = append(out.Lines, namedLine{Name: "setpoint", Y: sp, Color: colBand, Width: 1.2})
+			}
+		}
+		panels := []seriesPanel{out}
+		for _, name := range ds.inputs {
+			panels = append(panels, seriesPanel{Title: "Input: " + name, YLabel: inputUnit(ds, name),
+				Lines: []namedLine{{Name: name, Y: ds.data[name], Color: colModel, Width: 0.6}}})
+		}
+		return plotSeries(path, t, panels, "time ("+unit+")")
+	}); err != nil {
+		return nil, err
+	}
+
 	// Prewhitened cross-correlation with the 95 % band.
 	if err := add("ccf", func(path string) error {
 		var panels []corrPanel
@@ -182,6 +206,11 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		}
 	}
 	return files, nil
+}
+
+// setpoint returns the demo record's setpoint series.
+func (ds *dataset) setpoint() ([]float64, bool) {
+	return greenhouse.Default().Series(greenhouse.Setpoint)
 }
 
 func outputUnit(ds *dataset) string {

@@ -460,3 +460,37 @@ func plotForecast(path string, tPast, yPast, tFut, yFut, lo, hi []float64, level
 	q.X.Min, q.X.Max = p.X.Min, p.X.Max
 	return savePanels(path, []*plot.Plot{p, q}, 18, 7)
 }
+
+// seriesPanel is one panel of the record overview.
+type seriesPanel struct {
+	Title, YLabel string
+	Lines         []namedLine
+}
+
+type namedLine struct {
+	Name  string
+	Y     []float64
+	Color color.Color
+	Width float64
+}
+
+// plotSeries writes the record overview: one panel per series group
+// against time.
+func plotSeries(path string, t []float64, panels []seriesPanel, xlabel string) error {
+	var ps []*plot.Plot
+	for _, sp := range panels {
+		p := newPlot(sp.Title, xlabel, sp.YLabel)
+		for _, nl := range sp.Lines {
+			l, err := line(p, t, nl.Y, nl.Color, nl.Width)
+			if err != nil {
+				return err
+			}
+			if len(sp.Lines) > 1 {
+				p.Legend.Add(nl.Name, l)
+			}
+		}
+		p.Legend.Top = false
+		ps = append(ps, p)
+	}
+	return savePanels(path, ps, 18, 5.5)
+}
