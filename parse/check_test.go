@@ -5,6 +5,7 @@ import (
 	"flag"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -77,5 +78,37 @@ func TestSpecFlag(t *testing.T) {
 	err := fs.Parse([]string{"-model", "flow = w0 B^-2 rain"})
 	if err == nil || !strings.Contains(err.Error(), "1:13: the dead time cannot be negative (here -2)") {
 		t.Errorf("bad flag: %v", err)
+	}
+}
+
+// TestLongLineSnippet checks that an error in a very long line prints a
+// window of the line around the caret.
+func TestLongLineSnippet(t *testing.T) {
+	var sb strings.Builder
+	sb.WriteString("y = w0 x")
+	for i := range 30 {
+		sb.WriteString(" + w x" + strconv.Itoa(i))
+	}
+	sb.WriteString(" + (1 - ) z")
+	for i := range 30 {
+		sb.WriteString(" + w v" + strconv.Itoa(i))
+	}
+	spec := sb.String()
+	_, err := Model(spec)
+	var e *Error
+	if !errors.As(err, &e) {
+		t.Fatal(err)
+	}
+	lines := strings.Split(err.Error(), "\n")
+	if len(lines) != 3 || len(lines[1]) > 4+3+110+3 || !strings.HasPrefix(lines[1], "    ...") || !strings.HasSuffix(lines[1], "...") {
+		t.Fatalf("snippet:\n%s", err)
+	}
+	// The caret sits under the ')' that follows "(1 - ".
+	c := strings.Index(lines[2], "^")
+	if c < 0 || lines[1][c] != ')' || lines[1][c-4:c] != "1 - " {
+		t.Errorf("caret misplaced:\n%s", err)
+	}
+	if e.Text != spec {
+		t.Error("Text is not the whole line")
 	}
 }

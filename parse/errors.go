@@ -56,13 +56,45 @@ func (e *Error) Error() string {
 	b.WriteString(": ")
 	b.WriteString(e.Msg)
 	if e.Text != "" || e.Pos.Column > 0 {
+		line, col := snippet(e.Text, e.Pos.Column-1)
 		b.WriteString("\n    ")
-		b.WriteString(e.Text)
+		b.WriteString(line)
 		b.WriteString("\n    ")
-		b.WriteString(caretPad(e.Text, e.Pos.Column-1))
+		b.WriteString(caretPad(line, col))
 		b.WriteByte('^')
 	}
 	return b.String()
+}
+
+// snippetLen is the longest spec line printed whole under an error;
+// longer lines are cut to a window around the column.
+const snippetLen = 120
+
+// snippet returns the part of line to print and the byte column of the
+// caret in it: the whole line when it is short, else about 60 bytes
+// before and 50 after the column, cut at character boundaries and marked
+// with "...".
+func snippet(line string, col int) (string, int) {
+	if len(line) <= snippetLen {
+		return line, col
+	}
+	col = min(max(col, 0), len(line))
+	lo, hi := max(col-60, 0), min(col+50, len(line))
+	for lo > 0 && !utf8.RuneStart(line[lo]) {
+		lo--
+	}
+	for hi < len(line) && !utf8.RuneStart(line[hi]) {
+		hi++
+	}
+	out := line[lo:hi]
+	if lo > 0 {
+		out = "..." + out
+		col = col - lo + 3
+	}
+	if hi < len(line) {
+		out += "..."
+	}
+	return out, col
 }
 
 // Unwrap returns the kind of the error (ErrSyntax, ErrModel or ErrLimit).
