@@ -54,6 +54,7 @@ func (p *Problem) Error() string {
 // Problems is every problem found in one file, in file order.
 type Problems []*Problem
 
+// Error prints every problem, one after the other.
 func (ps Problems) Error() string {
 	s := make([]string, len(ps))
 	for i, p := range ps {

@@ -26,6 +26,7 @@ type CSVError struct {
 	Msg    string
 }
 
+// Error prints file:line: column "name": message.
 func (e *CSVError) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)

@@ -54,6 +54,7 @@ func newPlot(title, x, y string) *plot.Plot {
 // (2500, not 2500.00).
 type plainTicks struct{}
 
+// Ticks returns the default ticks with plain labels.
 func (plainTicks) Ticks(lo, hi float64) []plot.Tick {
 	ts := plot.DefaultTicks{}.Ticks(lo, hi)
 	for i := range ts {
