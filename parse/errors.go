@@ -34,7 +34,8 @@ var (
 //
 // Line and column are 1-based; the column counts bytes from the start of
 // the line (the caret is placed by characters, so it sits under the right
-// character in a line with non-ASCII text).
+// character in a line with non-ASCII text). A line longer than 120 bytes
+// is printed as a window around the column, marked with "...".
 type Error struct {
 	Pos  tf.Pos // where the problem is
 	Msg  string // what is wrong, in the spec's own words
