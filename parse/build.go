@@ -262,7 +262,7 @@ func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
 		case it.Number == "1":
 			// 1 / phi(B) a: a unit numerator, nothing to store.
 		case it.Number != "" || it.Name != "":
-			b.fail(it.Pos, ErrModel, "the noise term takes no gain (its scale is the noise variance); write theta(B) / phi(B) a")
+			b.fail(it.Pos, ErrModel, "the noise term takes no gain (its scale is the noise variance; a is the white-noise symbol, not a series); write theta(B) / phi(B) a")
 			return
 		case it.B != nil:
 			b.fail(it.Pos, ErrModel, "the noise term takes no dead time")
