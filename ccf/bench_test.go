@@ -4,7 +4,15 @@ import (
 	"math/rand/v2"
 	"strconv"
 	"testing"
+	"time"
 )
+
+// reportCPU reports the CPU time per operation since c0 as "cpu-ns/op".
+func reportCPU(b *testing.B, c0 time.Duration) {
+	if b.N > 0 {
+		b.ReportMetric(float64(cpuTime()-c0)/float64(b.N), "cpu-ns/op")
+	}
+}
 
 func benchSeries(n int) (x, y []float64) {
 	rng := rand.New(rand.NewPCG(3, 4))
@@ -36,11 +44,13 @@ func BenchmarkCross(b *testing.B) {
 			b.Run(tc.m.String()+"/K="+strconv.Itoa(tc.K)+"/n="+strconv.Itoa(n), func(b *testing.B) {
 				b.ReportAllocs()
 				s := &Settings{Method: tc.m}
+				c0 := cpuTime()
 				for b.Loop() {
 					if _, err := Cross(x[:n], y[:n], tc.K, s); err != nil {
 						b.Fatal(err)
 					}
 				}
+				reportCPU(b, c0)
 			})
 		}
 	}

@@ -128,8 +128,7 @@ func normalQuantile(p float64) float64 {
 // Go). Both agree with the definition to 1e-12 in r (tested).
 func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	names := s.names()
-	sums, err := validatePair(x, y, maxLag, names)
-	if err != nil {
+	if err := validatePair(x, y, maxLag, names); err != nil {
 		return nil, err
 	}
 	n := len(x)
@@ -144,13 +143,29 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	default:
 		return nil, &ArgError{Arg: "Settings.Method", Value: method.String(), Want: "Auto, Direct or FFT"}
 	}
-	mx, my := sums[0]/float64(n), sums[1]/float64(n)
-	c := &Correlation{N: n, MaxLag: maxLag, R: make([]float64, 2*maxLag+1), MeanX: mx, MeanY: my, Method: method}
+	c := &Correlation{N: n, MaxLag: maxLag, R: make([]float64, 2*maxLag+1), Method: method}
 	var sxx, syy float64
 	if method == Direct {
-		sxx, syy = crossDirect(c.R, x, y, mx, my, maxLag)
+		sxx, syy, c.MeanX, c.MeanY = crossDirect(c.R, x, y, maxLag)
 	} else {
-		sxx, syy = crossFFT(c.R, x, y, mx, my, maxLag)
+		// The means as a provisional level plus a small correction, so
+		// that centring keeps full precision for series with a large
+		// offset (as in crossDirect).
+		px, py := headMean(x), headMean(y)
+		dx, dy := shiftedSum(x, px)/float64(n), shiftedSum(y, py)/float64(n)
+		c.MeanX, c.MeanY = px+dx, py+dy
+		if finite(c.MeanX + c.MeanY) {
+			sxx, syy = crossFFT(c.R, x, y, [2]float64{px, dx}, [2]float64{py, dy}, maxLag)
+		}
+	}
+	if !finite(sxx + syy + c.MeanX + c.MeanY) {
+		// A NaN or Inf sample, or magnitudes whose squares overflow.
+		for i, v := range [2][]float64{x, y} {
+			if err := checkSeries(names[i], v); err != nil {
+				return nil, err
+			}
+		}
+		return nil, &ArgError{Arg: names[0] + ", " + names[1], Value: "samples whose squares overflow", Want: "magnitudes below about 1e150"}
 	}
 	fn := float64(n)
 	c.SDX, c.SDY = math.Sqrt(sxx/fn), math.Sqrt(syy/fn)
@@ -161,38 +176,32 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	return c, nil
 }
 
-// validatePair checks the inputs of Cross and returns the sums of x and
-// y.
-func validatePair(x, y []float64, maxLag int, names [2]string) (sums [2]float64, err error) {
+// validatePair checks the lengths and the lag bound, and that neither
+// series is constant. Finiteness is checked by Cross from the sums it
+// computes anyway.
+func validatePair(x, y []float64, maxLag int, names [2]string) error {
 	if maxLag < 0 {
-		return sums, &ArgError{Arg: "maxLag", Value: strconv.Itoa(maxLag), Want: ">= 0"}
+		return &ArgError{Arg: "maxLag", Value: strconv.Itoa(maxLag), Want: ">= 0"}
 	}
 	if len(x) != len(y) {
-		return sums, &LengthError{Names: names, Lens: [2]int{len(x), len(y)}}
+		return &LengthError{Names: names, Lens: [2]int{len(x), len(y)}}
 	}
 	need := max(maxLag+1, 2)
 	for i, v := range [2][]float64{x, y} {
 		if len(v) < need {
-			return sums, &ShortError{Name: names[i], Len: len(v), Need: need, Why: "for lags up to " + strconv.Itoa(maxLag)}
-		}
-	}
-	for i, v := range [2][]float64{x, y} {
-		sums[i] = accurateSum(v)
-		if s := sums[i]; s-s != 0 {
-			// A NaN or Inf sample (or an overflowing sum): find it.
-			if err := checkSeries(names[i], v); err != nil {
-				return sums, err
-			}
-			return sums, &ArgError{Arg: names[i], Value: "samples whose sum overflows", Want: "magnitudes below about 1e300"}
+			return &ShortError{Name: names[i], Len: len(v), Need: need, Why: "for lags up to " + strconv.Itoa(maxLag)}
 		}
 	}
 	for i, v := range [2][]float64{x, y} {
 		if isConstant(v) {
-			return sums, &ConstantError{Name: names[i], Value: v[0]}
+			return &ConstantError{Name: names[i], Value: v[0]}
 		}
 	}
-	return sums, nil
+	return nil
 }
+
+// finite reports whether v is neither NaN nor infinite.
+func finite(v float64) bool { return v-v == 0 }
 
 func isConstant(x []float64) bool {
 	for _, v := range x[1:] {
@@ -203,31 +212,68 @@ func isConstant(x []float64) bool {
 	return true
 }
 
-// accurateSum returns the sum of x by compensated summation (the
-// error-free two-sum of each addition is accumulated separately, in two
-// interleaved lanes), accurate to a few units in the last place even for
-// series with a large offset. It is NaN or infinite when x holds a NaN or
-// an infinity.
+// accurateSum returns the sum of x, summed in blocks of 512 samples with
+// eight accumulators each and the block sums added with compensation
+// (Neumaier), so that the rounding error stays near that of pairwise
+// summation at the speed of a plain loop. It is NaN or infinite when x
+// holds a NaN or an infinity.
 func accurateSum(x []float64) float64 {
-	var s0, s1, c0, c1 float64
+	var s, c float64
+	for len(x) > 0 {
+		blk := x[:min(512, len(x))]
+		x = x[len(blk):]
+		var a0, a1, a2, a3, a4, a5, a6, a7 float64
+		i := 0
+		for ; i+8 <= len(blk); i += 8 {
+			q := blk[i : i+8 : i+8]
+			a0 += q[0]
+			a1 += q[1]
+			a2 += q[2]
+			a3 += q[3]
+			a4 += q[4]
+			a5 += q[5]
+			a6 += q[6]
+			a7 += q[7]
+		}
+		for ; i < len(blk); i++ {
+			a0 += blk[i]
+		}
+		v := ((a0 + a1) + (a2 + a3)) + ((a4 + a5) + (a6 + a7))
+		t := s + v
+		if abs(s) >= abs(v) {
+			c += (s - t) + v
+		} else {
+			c += (v - t) + s
+		}
+		s = t
+	}
+	return s + c
+}
+
+// shiftedSum returns sum_i (x_i - p) with eight accumulators.
+func shiftedSum(x []float64, p float64) float64 {
+	var a0, a1, a2, a3, a4, a5, a6, a7 float64
 	i := 0
-	for ; i+2 <= len(x); i += 2 {
-		v, w := x[i], x[i+1]
-		t := s0 + v
-		bp := t - s0
-		c0 += (s0 - (t - bp)) + (v - bp)
-		s0 = t
-		u := s1 + w
-		bq := u - s1
-		c1 += (s1 - (u - bq)) + (w - bq)
-		s1 = u
+	for ; i+8 <= len(x); i += 8 {
+		q := x[i : i+8 : i+8]
+		a0 += q[0] - p
+		a1 += q[1] - p
+		a2 += q[2] - p
+		a3 += q[3] - p
+		a4 += q[4] - p
+		a5 += q[5] - p
+		a6 += q[6] - p
+		a7 += q[7] - p
 	}
-	if i < len(x) {
-		v := x[i]
-		t := s0 + v
-		bp := t - s0
-		c0 += (s0 - (t - bp)) + (v - bp)
-		s0 = t
+	for ; i < len(x); i++ {
+		a0 += x[i] - p
 	}
-	return (s0 + s1) + (c0 + c1)
+	return ((a0 + a1) + (a2 + a3)) + ((a4 + a5) + (a6 + a7))
+}
+
+func abs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
 }

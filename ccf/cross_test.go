@@ -3,6 +3,7 @@ package ccf
 import (
 	"errors"
 	"math"
+	"math/big"
 	"math/rand/v2"
 	"strconv"
 	"testing"
@@ -18,6 +19,15 @@ func naiveCross(x, y []float64, K int) []float64 {
 	}
 	mx /= float64(n)
 	my /= float64(n)
+	// Second pass: the correction that makes the mean accurate for series
+	// with a large offset.
+	var ex, ey float64
+	for i := range x {
+		ex += x[i] - mx
+		ey += y[i] - my
+	}
+	mx += ex / float64(n)
+	my += ey / float64(n)
 	var sxx, syy float64
 	for i := range x {
 		sxx += (x[i] - mx) * (x[i] - mx)
@@ -32,6 +42,44 @@ func naiveCross(x, y []float64, K int) []float64 {
 			}
 		}
 		r[K+k] = s / math.Sqrt(sxx*syy)
+	}
+	return r
+}
+
+// bigCross is the definition evaluated with 200-bit floats.
+func bigCross(x, y []float64, K int) []float64 {
+	const prec = 200
+	n := len(x)
+	nf := func() *big.Float { return new(big.Float).SetPrec(prec) }
+	mean := func(v []float64) *big.Float {
+		s := nf()
+		for _, a := range v {
+			s.Add(s, nf().SetFloat64(a))
+		}
+		return s.Quo(s, nf().SetInt64(int64(n)))
+	}
+	mx, my := mean(x), mean(y)
+	xc := make([]*big.Float, n)
+	yc := make([]*big.Float, n)
+	for i := range x {
+		xc[i] = nf().Sub(nf().SetFloat64(x[i]), mx)
+		yc[i] = nf().Sub(nf().SetFloat64(y[i]), my)
+	}
+	dot := func(a, b []*big.Float, k int) *big.Float {
+		s := nf()
+		for t := 0; t < n; t++ {
+			if t+k >= 0 && t+k < n {
+				s.Add(s, nf().Mul(a[t], b[t+k]))
+			}
+		}
+		return s
+	}
+	sxx, _ := dot(xc, xc, 0).Float64()
+	syy, _ := dot(yc, yc, 0).Float64()
+	r := make([]float64, 2*K+1)
+	for k := -K; k <= K; k++ {
+		c, _ := dot(xc, yc, k).Float64()
+		r[K+k] = c / math.Sqrt(sxx*syy)
 	}
 	return r
 }
@@ -93,6 +141,46 @@ func TestCrossDirectFFTAgree(t *testing.T) {
 			for i, w := range want {
 				if d := math.Abs(c.R[i] - w); d > 1e-12 {
 					t.Fatalf("n=%d K=%d %v lag %d: got %.16g want %.16g (diff %g)", tc.n, tc.K, m, i-tc.K, c.R[i], w, d)
+				}
+			}
+		}
+	}
+}
+
+// TestCrossAwkwardLevels checks the direct path's provisional centring
+// (on the mean of the first 4096 samples) on series whose head is far
+// from their mean: a step after the head, a steep trend, and a large
+// offset with small variation. Both paths against the definition
+// evaluated in 200-bit floating point (math/big), to 1e-12.
+func TestCrossAwkwardLevels(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 5))
+	n := 6000
+	cases := map[string]func(i int) float64{
+		"step":   func(i int) float64 { return map[bool]float64{true: 50, false: 0}[i >= 4096] + rng.NormFloat64() },
+		"trend":  func(i int) float64 { return 0.01*float64(i) + rng.NormFloat64() },
+		"offset": func(i int) float64 { return 1e6 + 1e-3*rng.NormFloat64() },
+	}
+	for name, f := range cases {
+		x := make([]float64, n)
+		y := make([]float64, n)
+		for i := range x {
+			x[i] = f(i)
+		}
+		for i := range y {
+			y[i] = rng.NormFloat64()
+			if i >= 5 {
+				y[i] += 0.3 * (x[i-5] - x[0])
+			}
+		}
+		want := bigCross(x, y, 30)
+		for _, m := range []Method{Direct, FFT} {
+			c, err := Cross(x, y, 30, &Settings{Method: m})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, w := range want {
+				if d := math.Abs(c.R[i] - w); d > 1e-12 {
+					t.Fatalf("%s %v lag %d: got %.16g want %.16g (diff %g)", name, m, i-30, c.R[i], w, d)
 				}
 			}
 		}

@@ -20,7 +20,11 @@ func fftLen(K int) int {
 // The products conj(X_j) Y_j are summed over blocks and transformed back
 // once. The transforms are the package's radix-2 real FFT (rfft.go),
 // checked against gonum dsp/fourier.
-func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
+//
+// mx and my are the means as a level and a correction, {p, d}: a sample
+// is centred as (x - p) - d, which is exact to rounding of the small
+// difference.
+func crossFFT(r, x, y []float64, mx, my [2]float64, K int) (sxx, syy float64) {
 	n := len(x)
 	M := fftLen(K)
 	if M > 2*(n+K) {
@@ -34,13 +38,12 @@ func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
 	X := make([]complex128, M/2+1)
 	Y := make([]complex128, M/2+1)
 	acc := make([]complex128, M/2+1)
-	for i, v := range x {
-		d := v - mx
+	for _, v := range x {
+		d := (v - mx[0]) - mx[1]
 		sxx += d * d
-		_ = i
 	}
 	for _, v := range y {
-		d := v - my
+		d := (v - my[0]) - my[1]
 		syy += d * d
 	}
 	for j := 0; j < n; j += L {
@@ -48,7 +51,7 @@ func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
 		e := min(j+L, n)
 		k := 0
 		for i := j; i < e; i++ {
-			xb[k] = x[i] - mx
+			xb[k] = (x[i] - mx[0]) - mx[1]
 			k++
 		}
 		for ; k < M; k++ {
@@ -58,7 +61,7 @@ func crossFFT(r, x, y []float64, mx, my float64, K int) (sxx, syy float64) {
 		for m := 0; m < M; m++ {
 			idx := j - K + m
 			if idx >= 0 && idx < n {
-				ys[m] = y[idx] - my
+				ys[m] = (y[idx] - my[0]) - my[1]
 			} else {
 				ys[m] = 0
 			}

@@ -1,10 +1,15 @@
 #!/usr/bin/python3
 """Peer timing for backshift's ccf.Cross: numpy on the same problem sizes.
 
-How to run (Debian's interpreter, which has numpy):
+How to run (Debian's interpreter, which has numpy), from the repository root:
 
-    /usr/bin/python3 testdata/peer/ccf_numpy.py
-    go test ./ccf -run '^$' -bench 'Cross$' -benchtime 10x
+    /usr/bin/python3 testdata/peer/ccf_numpy.py          # numpy only
+    /usr/bin/python3 testdata/peer/ccf_numpy.py --go     # side by side
+
+With --go the script alternates numpy and `go test ./ccf -run '^$' -bench
+'^BenchmarkCross$/(direct/K=40|fft/K=2000)/n=1000000$'` three times (so
+that both see the same machine load) and prints the best time of each and
+the ratio Go/numpy. Targets (issue 5): direct <= 0.5, fft <= 1.
 
 Both compute the sample cross-correlation r_xy(k), k = -K..K, divisor n,
 means removed, normalised by sqrt(c_xx(0) c_yy(0)), on n = 10^6 samples:
@@ -52,7 +57,20 @@ def best(f, *args, reps=5):
     return min(t)
 
 
+def go_bench(sub, benchtime):
+    """Runs one Go sub-benchmark of BenchmarkCross, returns seconds per op."""
+    import re
+    import subprocess
+    out = subprocess.run(
+        ["go", "test", "./ccf", "-run", "^$", "-bench", "^BenchmarkCross$/" + sub,
+         "-benchtime", benchtime, "-count", "1"],
+        check=True, capture_output=True, text=True).stdout
+    m = re.search(r"\s(\d+(?:\.\d+)?) ns/op", out)
+    return float(m.group(1)) * 1e-9
+
+
 def main():
+    import sys
     rng = np.random.default_rng(12)
     n = 1_000_000
     x = rng.standard_normal(n)
@@ -62,8 +80,20 @@ def main():
     b = ccf_fft(x[:5000], y[:5000], 40)
     assert np.max(np.abs(a - b)) < 1e-12, np.max(np.abs(a - b))
     print("numpy", np.__version__)
-    print("direct K=40   n=1e6: %.1f ms" % (1e3 * best(ccf_direct, x, y, 40)))
-    print("fft    K=2000 n=1e6: %.1f ms" % (1e3 * best(ccf_fft, x, y, 2000)))
+    if "--go" not in sys.argv:
+        print("direct K=40   n=1e6: %.1f ms" % (1e3 * best(ccf_direct, x, y, 40)))
+        print("fft    K=2000 n=1e6: %.1f ms" % (1e3 * best(ccf_fft, x, y, 2000)))
+        return
+    res = {"direct": [[], []], "fft": [[], []]}
+    for _ in range(3):
+        res["direct"][0].append(best(ccf_direct, x, y, 40))
+        res["direct"][1].append(go_bench("direct/K=40/n=1000000$", "20x"))
+        res["fft"][0].append(best(ccf_fft, x, y, 2000))
+        res["fft"][1].append(go_bench("fft/K=2000/n=1000000$", "5x"))
+    for name, K in (("direct", 40), ("fft", 2000)):
+        a, b = min(res[name][0]), min(res[name][1])
+        print("%-6s K=%-4d n=1e6: numpy %7.1f ms   go %7.1f ms   go/numpy %.2f"
+              % (name, K, 1e3 * a, 1e3 * b, b / a))
 
 
 if __name__ == "__main__":
