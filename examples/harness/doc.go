@@ -14,6 +14,11 @@
 // your identified model.
 //
 //	go run ./examples/harness
+//	go run ./examples/harness -noise 0.03 -spec 'temp = 5.97 + 0.009989 / (1 - 0.9502 B) B^3 valve + ...'
+//
+// The second form tests the controller on another model, such as the one
+// examples/identify prints for the demo record; it needs an input named
+// valve (%) and may have one named outdoor (degC).
 //
 // A model identified from data is an approximation valid near the
 // operating conditions of that data. A controller that passes these tests

@@ -218,3 +218,20 @@ func abs(x float64) float64 {
 	}
 	return x
 }
+
+// TestOtherPlant runs the program on a model as examples/identify prints
+// it (the greenhouse identified from the demo record, rounded) and
+// rejects a spec without a valve.
+func TestOtherPlant(t *testing.T) {
+	var buf bytes.Buffer
+	spec := "temp = 5.97 + 0.009989 / (1 - 0.9502 B) B^3 valve + 0.04907 / (1 - 0.9021 B) B outdoor + (1 + 0.3037 B) / (1 - 0.7926 B) a; every 1 min"
+	if err := runWith(&buf, spec, NoiseSD); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(buf.String(), "plant: "+spec) {
+		t.Errorf("summary does not name the plant:\n%s", buf.String())
+	}
+	if err := runWith(&buf, "temp = 0.2 B^3 outdoor + a", NoiseSD); err == nil || !strings.Contains(err.Error(), "no input named valve") {
+		t.Errorf("error %v", err)
+	}
+}

@@ -23,29 +23,34 @@ const NoiseSD = 0.03
 // deviation is 2.09 NoiseSD (from the ARMA(1,1) variance formula).
 const PlantSettleBand = 0.2
 
-// Process is the simulated plant: a streaming tf.System built from
-// PlantSpec with seeded noise, plus the model's numbers the tests need.
+// Process is the simulated plant: a streaming tf.System built from a
+// spec with seeded noise, plus the model's numbers the tests need. The
+// spec must have an input named valve (%); an input named outdoor (degC)
+// is fed the scenario's outdoor temperature, and any other input is held
+// at 0.
 type Process struct {
-	sys   *tf.System
-	model tf.Model
-	gains []float64 // steady-state gain of each input path
-	c     float64
+	sys          *tf.System
+	model        tf.Model
+	u            []float64 // input samples in the model's order
+	valve, out   int       // indices of valve and outdoor in u (-1: absent)
+	gainV, gainO float64
+	c            float64
 }
 
-// NewProcess parses PlantSpec and returns the process at the steady
-// state of the inputs u0 (valve %, outdoor degC; nil for rest), its
-// noise of innovation standard deviation sd (degC, 0 for none) drawn from
-// seed after a burn-in.
-func NewProcess(seed uint64, sd float64, u0 []float64) (*Process, error) {
-	m, err := parse.Model(PlantSpec)
+// NewProcess parses spec and returns the process at rest, its noise of
+// innovation standard deviation sd (degC, 0 for none) drawn from seed
+// after a burn-in. It returns an error when the spec does not parse, has
+// no valve input, or has a path without a steady-state gain.
+func NewProcess(spec string, seed uint64, sd float64) (*Process, error) {
+	m, err := parse.Model(spec)
 	if err != nil {
 		return nil, err
 	}
-	p := &Process{model: m}
+	p := &Process{model: m, valve: -1, out: -1, u: make([]float64, len(m.Inputs))}
 	if m.Const != nil {
 		p.c = m.Const.Value
 	}
-	for _, in := range m.Inputs {
+	for i, in := range m.Inputs {
 		r, err := in.Rational()
 		if err != nil {
 			return nil, err
@@ -54,7 +59,15 @@ func NewProcess(seed uint64, sd float64, u0 []float64) (*Process, error) {
 		if err != nil {
 			return nil, fmt.Errorf("harness: input %s: %w", in.Series, err)
 		}
-		p.gains = append(p.gains, g)
+		switch in.Series {
+		case "valve":
+			p.valve, p.gainV = i, g
+		case "outdoor":
+			p.out, p.gainO = i, g
+		}
+	}
+	if p.valve < 0 {
+		return nil, fmt.Errorf("harness: the plant spec has no input named valve: %s", spec)
 	}
 	set := &tf.SimSettings{Seed1: seed, Seed2: 1, Sigma: sd}
 	if sd > 0 {
@@ -63,31 +76,40 @@ func NewProcess(seed uint64, sd float64, u0 []float64) (*Process, error) {
 	if p.sys, err = tf.NewSystem(m, set); err != nil {
 		return nil, err
 	}
-	if u0 != nil {
-		if err := p.sys.SetSteady(u0); err != nil {
-			return nil, err
-		}
-	}
 	return p, nil
+}
+
+// inputs fills p.u with the valve and outdoor samples.
+func (p *Process) inputs(valve, outdoor float64) []float64 {
+	p.u[p.valve] = valve
+	if p.out >= 0 {
+		p.u[p.out] = outdoor
+	}
+	return p.u
+}
+
+// SetSteady puts the plant at the steady state of constant inputs.
+func (p *Process) SetSteady(valve, outdoor float64) error {
+	return p.sys.SetSteady(p.inputs(valve, outdoor))
 }
 
 // Step applies the valve opening and outdoor temperature of the current
 // minute and returns the air temperature of that minute.
 func (p *Process) Step(valve, outdoor float64) float64 {
-	return p.sys.Step([]float64{valve, outdoor})
+	return p.sys.Step(p.inputs(valve, outdoor))
 }
 
 // Steady returns the noise-free steady-state temperature for constant
 // inputs.
 func (p *Process) Steady(valve, outdoor float64) float64 {
-	return p.c + p.gains[0]*valve + p.gains[1]*outdoor
+	return p.c + p.gainV*valve + p.gainO*outdoor
 }
 
 // ValveFor returns the valve opening that holds temp at sp with the
 // outdoor temperature out, by the model's gains (it may lie outside
 // 0..100 % when the heating cannot do it).
 func (p *Process) ValveFor(sp, out float64) float64 {
-	return (sp - p.c - p.gains[1]*out) / p.gains[0]
+	return (sp - p.c - p.gainO*out) / p.gainV
 }
 
 // Scenario is one closed-loop test.
@@ -102,6 +124,15 @@ type Scenario struct {
 	// of its innovations (degC); zero NoiseSD gives a noise-free run.
 	Seed    uint64
 	NoiseSD float64
+	// Spec is the plant model; empty means PlantSpec.
+	Spec string
+}
+
+func (sc Scenario) spec() string {
+	if sc.Spec == "" {
+		return PlantSpec
+	}
+	return sc.Spec
 }
 
 // Controller is what the harness tests: anything that, once a minute,
@@ -123,8 +154,11 @@ type Trace struct {
 // minute 0; the controller should start at u0 too. The valve is clamped
 // to 0..100 % whatever the controller asks (the actuator's travel).
 func Run(sc Scenario, c Controller, u0 float64) (Trace, error) {
-	p, err := NewProcess(sc.Seed, sc.NoiseSD, []float64{u0, sc.Outdoor(0)})
+	p, err := NewProcess(sc.spec(), sc.Seed, sc.NoiseSD)
 	if err != nil {
+		return Trace{}, err
+	}
+	if err := p.SetSteady(u0, sc.Outdoor(0)); err != nil {
 		return Trace{}, err
 	}
 	tr := Trace{

@@ -1,14 +1,18 @@
 package main
 
 import (
+	"flag"
 	"fmt"
 	"io"
 	"os"
 )
 
 func main() {
-	if err := run(os.Stdout); err != nil {
-		fmt.Fprintln(os.Stderr, "harness:", err)
+	spec := flag.String("spec", PlantSpec, "plant model spec with inputs valve (%) and optionally outdoor (degC), e.g. the one examples/identify prints")
+	noise := flag.Float64("noise", NoiseSD, "standard deviation of the plant's noise innovations (degC)")
+	flag.Parse()
+	if err := runWith(os.Stdout, *spec, *noise); err != nil {
+		fmt.Fprintln(os.Stderr, err)
 		os.Exit(1)
 	}
 }
@@ -51,9 +55,9 @@ func DisturbanceStep() Scenario {
 }
 
 // steadyValve is the valve opening that holds temp at sp with outdoor
-// temperature out, by the plant model's gains.
+// temperature out, by PlantSpec's gains.
 func steadyValve(sp, out float64) float64 {
-	p, err := NewProcess(0, 0, nil)
+	p, err := NewProcess(PlantSpec, 0, 0)
 	if err != nil {
 		panic(err) // PlantSpec is a constant: a programmer error
 	}
@@ -72,9 +76,20 @@ func runWithPI(sc Scenario, u0 float64) (Trace, error) {
 	return Run(sc, pi, u0)
 }
 
-func run(w io.Writer) error {
+// run runs both scenarios on PlantSpec and prints the summary.
+func run(w io.Writer) error { return runWith(w, PlantSpec, NoiseSD) }
+
+// runWith runs both scenarios on the plant spec with noise sd and prints
+// the summary.
+func runWith(w io.Writer, spec string, sd float64) error {
+	p, err := NewProcess(spec, 0, 0)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "plant: %s\n\n", spec)
 	sc := SetpointStep()
-	tr, err := runWithPI(sc, steadyValve(16, 2))
+	sc.Spec, sc.NoiseSD = spec, sd
+	tr, err := runWithPI(sc, p.ValveFor(16, 2))
 	if err != nil {
 		return err
 	}
@@ -86,7 +101,8 @@ func run(w io.Writer) error {
 	fmt.Fprintf(w, "  valve at its limit      %5d min\n", atLimit(tr.Valve))
 
 	sc = DisturbanceStep()
-	tr, err = runWithPI(sc, steadyValve(18, 4))
+	sc.Spec, sc.NoiseSD = spec, sd
+	tr, err = runWithPI(sc, p.ValveFor(18, 4))
 	if err != nil {
 		return err
 	}

@@ -104,6 +104,8 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if ds.builtin {
 		out.Recovery = recovery(out.Paths)
 		writeRecovery(stdout, out.Recovery)
+		fmt.Fprintf(stdout, "\nTo test a controller on the identified model:\n  go run ./examples/harness -noise %.3g -spec '%s'\n",
+			math.Sqrt(est.Sigma2), rounded(est.Model))
 	}
 	if o.Pictures != "" {
 		pr.say("writing pictures to %s", o.Pictures)
