@@ -732,12 +732,13 @@ func fitNeg(g []float64) []float64 {
 	return out
 }
 
-// Staging: a long series is first fitted on its last fitStageWindow
-// samples (start values, screening and all starts), and the full series
+// Staging: a long series is first fitted on its last
+// max(fitStageWindow, fitStagePerParam k) samples (start values, screening and all starts), and the full series
 // is then refined from that estimate by a single Levenberg-Marquardt run,
 // which from so close a start takes a few iterations.
 const (
-	fitStageWindow = 4000
+	fitStageWindow   = 2500
+	fitStagePerParam = 400
 	fitStageMin    = 40000
 )
 
@@ -748,7 +749,7 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		maxIter = 200
 	}
 	if w.n-w.cond.First >= fitStageMin {
-		sub := w.window(fitStageWindow + w.cond.First)
+		sub := w.window(max(fitStageWindow, fitStagePerParam*len(w.names)) + w.cond.First)
 		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true}); err == nil {
 			if best, start, tried, err := ws.search(ctx, set, maxIter); err == nil {
 				res, err := lm.Minimize(ctx, w.problem(), best.X, w.lmSettings(set, maxIter))

@@ -38,6 +38,8 @@ type fitRefCase struct {
 		H      int       `json:"h"`
 		Mean   []float64 `json:"mean"`
 		SE     []float64 `json:"se"`
+		MeanAR []float64 `json:"mean_ar_inputs"`
+		SEAR   []float64 `json:"se_ar_inputs"`
 	} `json:"forecast"`
 	Checks struct {
 		LBLags int     `json:"lb_lags"`

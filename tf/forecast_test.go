@@ -15,6 +15,10 @@ import (
 // independent numpy/scipy.signal.lfilter 1.10.1 implementation in
 // testdata/fit/ref_fit.py at the scipy estimates. The estimates agree to
 // ~1e-7 relative, so means and standard errors agree to 1e-6 relative.
+// The same holds with every input forecast from a Yule-Walker/AIC
+// autoregression of its differenced series (numpy Durbin-Levinson in the
+// script, R's var.pred convention), the input forecast errors entering
+// the variance.
 func TestForecastAgainstScipy(t *testing.T) {
 	for _, c := range fitReadRef(t) {
 		t.Run(c.Name, func(t *testing.T) {
@@ -40,6 +44,16 @@ func TestForecastAgainstScipy(t *testing.T) {
 			for j := range c.Forecast.Mean {
 				if !scalar.EqualWithinRel(fc.Mean[j], c.Forecast.Mean[j], 1e-6) || !scalar.EqualWithinRel(fc.SE[j], c.Forecast.SE[j], 1e-6) {
 					t.Errorf("step %d: %.10g (SE %.8g), scipy %.10g (SE %.8g)", j+1, fc.Mean[j], fc.SE[j], c.Forecast.Mean[j], c.Forecast.SE[j])
+				}
+			}
+			// Inputs forecast from their own Yule-Walker/AIC autoregressions.
+			fa, err := est.Forecast(hist, c.Forecast.H, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for j := range c.Forecast.MeanAR {
+				if !scalar.EqualWithinRel(fa.Mean[j], c.Forecast.MeanAR[j], 1e-6) || !scalar.EqualWithinRel(fa.SE[j], c.Forecast.SEAR[j], 1e-6) {
+					t.Errorf("AR inputs, step %d: %.10g (SE %.8g), numpy %.10g (SE %.8g)", j+1, fa.Mean[j], fa.SE[j], c.Forecast.MeanAR[j], c.Forecast.SEAR[j])
 				}
 			}
 		})

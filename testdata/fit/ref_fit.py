@@ -18,7 +18,11 @@ estimates: the Ljung-Box Q of the residuals (K = max(min(24, N/4), noise
 parameters + 1), df K - noise parameters, scipy.stats.chi2) and, per
 input, S = M sum_{k=0..K} r_k^2 of the residuals against the input
 prewhitened by a Yule-Walker autoregression with AIC order choice
-(Durbin-Levinson written here with numpy), df K + 1 - (r + s + 1).
+(Durbin-Levinson written here with numpy), df K + 1 - (r + s + 1); and
+10-step forecasts from origin n - 10 with their standard errors, once with
+the future inputs known and once with every input forecast from a
+Yule-Walker/AIC autoregression of its differenced series (its forecast
+errors added to the variance through omega B^b / (delta phi_x D)).
 
 Conditioning (the same as tf.Fit, written independently here):
   w_t = D(B) y_t for t >= d (zero before), z_i,t = D_i(B) x_i,t for t >= d_i;
@@ -139,16 +143,56 @@ def residuals(model, data, par, want_noise=False):
     return a
 
 
+def ar_input_forecast(x, diff, h):
+    """Forecast an input h steps from an AR model of its differenced series
+    fitted by Yule-Walker with AIC order choice (as R's ar(): divisor n,
+    var.pred = c0 prod(1 - pacf^2) n / (n - (p + 1)))."""
+    d = degree(diff)
+    z = diffed(x, diff)[d:]
+    n = len(z)
+    mean = z.mean()
+    zc = z - mean
+    m = min(n - 1, int(np.floor(10 * np.log10(n))))
+    acov = np.array([np.dot(zc[: n - k], zc[k:]) / n for k in range(m + 1)])
+    phis, v = levinson(acov, m)
+    aic = [n * np.log(v[k]) + 2 * k for k in range(m + 1)]
+    p = int(np.argmin(aic))
+    phi = phis[p]
+    var_pred = v[p] * n / (n - (p + 1))
+    ext = list(zc)
+    for _ in range(h):
+        ext.append(sum(phi[k] * ext[-1 - k] for k in range(p)))
+    zf = np.array(ext[n:]) + mean
+    dc = coeffs(diff, {})
+    xe = list(x)
+    for j in range(h):
+        xe.append((zf[j] - sum(dc[k] * xe[-k] for k in range(1, len(dc)))) / dc[0])
+    return np.array(xe[len(x):]), np.concatenate([[1.0], -phi]), var_pred
+
+
 def forecast(model, hist, future, par, sigma2, h):
-    """Forecasts of the output in its own units with known future inputs."""
+    """Forecasts of the output in its own units, with known future inputs
+    (future given) or inputs forecast from their own AR models (future
+    None), the latter adding their forecast errors to the variance."""
     y = hist[model["output"]]
     n = len(y)
     ts, t0 = conditioning(model)
     a, nn = residuals(model, hist, par, want_noise=True)
     L = n + h
     what = np.full(h, par[model["const"]] if model["const"] else 0.0)
+    dc = coeffs(model["diff"], {})
+    imp = np.zeros(h)
+    imp[0] = 1.0
+    extra = np.zeros(h)
     for inp in model["inputs"]:
-        xe = np.concatenate([hist[inp["series"]], future[inp["series"]][:h]])
+        if future is None:
+            xf, arx, vx = ar_input_forecast(hist[inp["series"]], inp["diff"], h)
+            num = np.concatenate([np.zeros(inp["delay"]), coeffs(inp["num"], par)])
+            den = np.convolve(np.convolve(coeffs(inp["den"], par), arx), dc)
+            extra += vx * np.cumsum(lfilter(num, den, imp) ** 2)
+        else:
+            xf = future[inp["series"]][:h]
+        xe = np.concatenate([hist[inp["series"]], xf])
         what += input_term(inp, xe, par)[n:]
     phi = coeffs(model["ar"], par)
     theta = coeffs(model["ma"], par)
@@ -159,14 +203,11 @@ def forecast(model, hist, future, par, sigma2, h):
     for t in range(n, L):
         ne[t] = -sum(phi[k] * ne[t - k] for k in range(1, len(phi))) + sum(theta[k] * ae[t - k] for k in range(1, len(theta)))
         what[t - n] += ne[t]
-    dc = coeffs(model["diff"], {})
     ye = np.concatenate([y, np.zeros(h)])
     for t in range(n, L):
         ye[t] = what[t - n] - sum(dc[k] * ye[t - k] for k in range(1, len(dc)))
-    imp = np.zeros(h)
-    imp[0] = 1.0
     psi = lfilter(theta, np.convolve(phi, dc), imp)
-    se = np.sqrt(sigma2 * np.cumsum(psi ** 2))
+    se = np.sqrt(sigma2 * np.cumsum(psi ** 2) + extra)
     return ye[n:].tolist(), se.tolist()
 
 
@@ -254,7 +295,9 @@ def forecast_case(c, est, sigma2):
     hist = {k: v[: n - FC_H] for k, v in c["data"].items()}
     fut = {k: v[n - FC_H :] for k, v in c["data"].items()}
     mean, se = forecast(c["model"], hist, fut, est, sigma2, FC_H)
-    return {"origin": n - FC_H, "h": FC_H, "mean": mean, "se": se}
+    mean_x, se_x = forecast(c["model"], hist, None, est, sigma2, FC_H)
+    return {"origin": n - FC_H, "h": FC_H, "mean": mean, "se": se,
+            "mean_ar_inputs": mean_x, "se_ar_inputs": se_x}
 
 
 def write_csv(path, cols):
