@@ -15,7 +15,8 @@ with x an AR(1) series (phi 0.6) and sigma = 0.5, writes it to a CSV file
 in a temporary directory, fits it by conditional least squares with
 scipy.optimize.least_squares (default trust-region method, 2-point
 finite-difference Jacobian, default tolerances) on residuals computed with
-scipy.signal.lfilter under the same conditioning as tf.Fit (see
+scipy.signal.lfilter under the same conditioning as tf.Fit (x held at its
+first value before the record, residuals from index 7; see
 testdata/fit/ref_fit.py), started from a fixed point near the truth, and
 then runs `go run ./testdata/peer/fitpeer FILE` on the same file (tf.Fit
 from its own computed start values). It prints both times (best of 3
@@ -45,18 +46,22 @@ def simulate(n, seed):
     return 1.0 + u + e, x
 
 
-def residuals(p, y, xb):
+def residuals(p, y, xb, x0):
     c, w0, w1, w2, d1, p1, p2 = p
-    nn = y - c - lfilter([w0, w1, w2], [1.0, -d1], xb)
+    # x held at its first value x0 before the record (tf.Fit's default for
+    # an input without differencing): filter x - x0 from rest, add the
+    # steady state omega(1)/delta(1) x0.
+    nn = y - c - lfilter([w0, w1, w2], [1.0, -d1], xb) - (w0 + w1 + w2) / (1 - d1) * x0
     # ts = b + s = 5, t0 = ts + 2
     t0 = 7
     return nn[t0:] - p1 * nn[t0 - 1 : -1] - p2 * nn[t0 - 2 : -2]
 
 
 def scipy_fit(y, x):
-    xb = np.concatenate([np.zeros(3), x[: len(x) - 3]])
-    res = least_squares(residuals, START, args=(y, xb))
-    r = residuals(res.x, y, xb)
+    x0 = x[0]
+    xb = np.concatenate([np.zeros(3), x[: len(x) - 3] - x0])
+    res = least_squares(residuals, START, args=(y, xb, x0))
+    r = residuals(res.x, y, xb, x0)
     return res, float(r @ r)
 
 
