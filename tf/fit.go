@@ -739,7 +739,7 @@ func fitNeg(g []float64) []float64 {
 const (
 	fitStageWindow   = 2500
 	fitStagePerParam = 400
-	fitStageMin    = 40000
+	fitStageMin      = 40000
 )
 
 // run performs the starts, the refinements and builds the Estimate.
@@ -749,8 +749,9 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		maxIter = 200
 	}
 	if w.n-w.cond.First >= fitStageMin {
-		sub := w.window(max(fitStageWindow, fitStagePerParam*len(w.names)) + w.cond.First)
-		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true}); err == nil {
+		auto := w.cond.NoiseStart + w.ar.Degree()
+		sub := w.window(max(fitStageWindow, fitStagePerParam*len(w.names)) + auto)
+		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
 			if best, start, tried, err := ws.search(ctx, set, maxIter); err == nil {
 				res, err := lm.Minimize(ctx, w.problem(), best.X, w.lmSettings(set, maxIter))
 				if err == nil {
