@@ -164,11 +164,14 @@ type Estimate struct {
 //	theta:    d a_t = -g_k(B)/theta(B) a_t                    (from theta a = phi n)
 //
 // with the same conditioning (derivatives zero before First, the
-// moving-average recursion started at First); the steady pre-sample
-// level adds the constants -g_k(1)/delta_i(1) z_i,d_i (numerator) and
-// +omega_i(1) g_k(1)/delta_i(1)^2 z_i,d_i (denominator) to d n_t. The sums of contributions
+// moving-average recursion started at First), z_i and u_i standing for
+// their parts filtered from rest; an input held at x_i,0 adds the
+// constants -g_k(1)/delta_i(1) x_i,0 (numerator) and +omega_i(1) g_k(1)/
+// delta_i(1)^2 x_i,0 (denominator) to d n_t. The sums of contributions
 // give each Jacobian column; all are computed with the recursive filter
-// kernel without allocation per sample.
+// kernel and moving-average loops without allocation per sample, and a
+// numerator or AR column whose g_k is a single power of B is a shifted
+// copy of a series formed once per evaluation.
 //
 // # Start values and starts
 //
@@ -184,7 +187,11 @@ type Estimate struct {
 // the target coefficients by least squares. Further candidates (noise at
 // zero, denominators scaled by 0.5 and 1.5 when stable) are screened by
 // their sum of squares and the best FitSettings.Starts refined; the
-// lowest sum of squares wins.
+// lowest sum of squares wins. A long series (N >= 40000) goes through
+// all of this on its last max(2500, 400 k) samples only (k free
+// parameters), and the whole series is then refined from that estimate
+// by one Levenberg-Marquardt run, which takes a few iterations from so
+// close a start.
 //
 // # Errors
 //
