@@ -1,7 +1,8 @@
 // Package tf holds transfer-function models in the backshift operator B
 // (B x_t = x_{t-1}): rational terms omega(B)/delta(B) B^b, their responses,
-// poles, zeros, stability, gain and frequency response, composition,
-// step-response metrics, conversion from continuous-time process models,
+// poles, zeros, stability, gain and frequency response, composition and
+// stability margins of loops, step-response metrics, conversion from and
+// to continuous-time process models,
 // streaming simulation, and the whole transfer-function-noise model with
 // its estimation, diagnostics and forecasts.
 //
