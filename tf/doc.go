@@ -2,9 +2,9 @@
 // (B x_t = x_{t-1}): rational terms omega(B)/delta(B) B^b, their responses,
 // poles, zeros, stability, gain and frequency response, composition and
 // stability margins of loops, step-response metrics, conversion from and
-// to continuous-time process models,
-// streaming simulation, and the whole transfer-function-noise model with
-// its estimation, diagnostics and forecasts.
+// to continuous-time process models, streaming simulation, and the whole
+// transfer-function-noise model with its estimation, diagnostics and
+// forecasts.
 //
 // # The rational term
 //
