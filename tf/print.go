@@ -30,7 +30,7 @@ import (
 // term's sign.
 func (m Model) String() string {
 	var b strings.Builder
-	b.Grow(64 + 48*len(m.Inputs))
+	b.Grow(96 + 64*len(m.Inputs))
 	m.prAppend(&b)
 	return b.String()
 }
@@ -130,19 +130,36 @@ func prShorthand(p Poly, name string) (int, bool) {
 // prWhere writes the where clause: each name once, at its first use,
 // when it is held or has a non-zero start value.
 func (m Model) prWhere(b *strings.Builder) {
-	var done map[string]struct{}
+	// Names seen so far: a small array for the usual model, a map beyond.
+	var small [16]string
+	seen := small[:0]
+	var many map[string]struct{}
 	n := 0
 	fn := func(c *Coef) {
 		if c.Name == "" {
 			return
 		}
-		if _, ok := done[c.Name]; ok {
-			return
+		if many != nil {
+			if _, ok := many[c.Name]; ok {
+				return
+			}
+			many[c.Name] = struct{}{}
+		} else {
+			for _, s := range seen {
+				if s == c.Name {
+					return
+				}
+			}
+			if len(seen) < len(small) {
+				seen = append(seen, c.Name)
+			} else {
+				many = make(map[string]struct{}, 2*len(small))
+				for _, s := range seen {
+					many[s] = struct{}{}
+				}
+				many[c.Name] = struct{}{}
+			}
 		}
-		if done == nil {
-			done = make(map[string]struct{}, 8)
-		}
-		done[c.Name] = struct{}{}
 		if c.Free && c.Value == 0 {
 			return
 		}

@@ -2,6 +2,7 @@ package tf_test
 
 import (
 	"math"
+	"strconv"
 	"testing"
 
 	"github.com/backshift/backshift/arma"
@@ -57,5 +58,24 @@ func TestPrintCodeBuilt(t *testing.T) {
 	}
 	if s := m.Inputs[3].String(); s != "B ((1 - B) flow)" {
 		t.Errorf("Input.String: %q", s)
+	}
+}
+
+// TestPrintManyNames covers the where clause of a model with more names
+// than the printer's small table (16).
+func TestPrintManyNames(t *testing.T) {
+	spec := "y = w0 x0"
+	where := " where w0 ~ 1"
+	for i := 1; i < 40; i++ {
+		s := strconv.Itoa(i)
+		spec += " + (w" + s + " + w0 B) x" + s
+		if i%3 == 0 {
+			where += ", w" + s + " = " + s
+		}
+	}
+	m := parse.MustModel(spec + where)
+	back, err := parse.Model(m.String())
+	if err != nil || !back.Equal(m) || back.String() != m.String() {
+		t.Fatalf("%s\nreads back %v", m, err)
 	}
 }
