@@ -87,9 +87,13 @@ func TestSpecAndCSV(t *testing.T) {
 	o.Interval, o.Unit = 1, "min"
 	o.Spec = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
 	buf.Reset()
-	res, err := Run(context.Background(), o, &buf, nil)
+	var progress bytes.Buffer
+	res, err := Run(context.Background(), o, &buf, &progress)
 	if err != nil {
 		t.Fatal(err)
+	}
+	if !strings.Contains(progress.String(), "fitting temp = c + w0") || !strings.Contains(progress.String(), "done in") {
+		t.Errorf("progress on stderr:\n%s", progress.String())
 	}
 	if res.Recovery != nil {
 		t.Error("a CSV file has no known truth, but a recovery table was made")
