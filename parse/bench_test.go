@@ -111,3 +111,20 @@ func BenchmarkTree(b *testing.B) {
 		}
 	})
 }
+
+// BenchmarkModelHostileError parses long specs with an error at the end,
+// which sends them through the participle parser.
+func BenchmarkModelHostileError(b *testing.B) {
+	for _, n := range []int{1000, 10000, 60000} {
+		s := "y = " + strings.Repeat("w (1 - d B) x + ", n/16) + ")"
+		b.Run(itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			b.SetBytes(int64(len(s)))
+			for b.Loop() {
+				if _, err := Model(s); err == nil {
+					b.Fatal("no error")
+				}
+			}
+		})
+	}
+}

@@ -180,6 +180,8 @@
 // v2), slightly wider than the language so that the checks after parsing
 // can give precise messages; a hand-written recursive-descent parser
 // builds the same syntax tree more than ten times faster, and the participle
-// parser runs when it fails, to locate and explain the error. Tests and
-// the fuzz target check that the two agree.
+// parser runs when it fails, to locate and explain the error (for texts
+// of up to 2048 tokens; beyond, the hand-written parser's position is
+// used alone, to keep memory small). Tests and the fuzz target check
+// that the two parsers agree.
 package parse

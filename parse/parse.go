@@ -53,7 +53,12 @@ func Model(spec string) (tf.Model, error) {
 	if !ok {
 		// The participle grammar is the reference for what parses; the
 		// message is worded from the furthest token either parser
-		// reached.
+		// reached. Very long texts skip it: the participle parser needs
+		// about 3 KB per token, and the fast parser's stop is as good.
+		if len(toks) > maxGrammarTokens {
+			b.syntax(toks, nil, stop)
+			return tf.Model{}, b.errs
+		}
 		var err error
 		if g, err = grammarParse(toks); err != nil {
 			b.syntax(toks, err, stop)
@@ -67,6 +72,10 @@ func Model(spec string) (tf.Model, error) {
 	}
 	return b.m, nil
 }
+
+// maxGrammarTokens is the longest token stream given to the participle
+// parser to explain an error.
+const maxGrammarTokens = 2048
 
 // grammarParse runs the participle parser on lexed tokens.
 func grammarParse(toks []lexer.Token) (*gSpec, error) {
@@ -102,7 +111,7 @@ func checkNesting(toks []lexer.Token) *lexError {
 // token where parsing stopped and the one before it.
 func (b *builder) syntax(toks []lexer.Token, err error, stop int) {
 	var pe participle.Error
-	off := len(b.src)
+	off := 0
 	if errors.As(err, &pe) {
 		off = pe.Position().Offset
 	}
