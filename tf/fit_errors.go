@@ -36,6 +36,7 @@ const (
 	BadFuture
 )
 
+// String describes the problem in a few words.
 func (p FitProblem) String() string {
 	switch p {
 	case MissingSeries:

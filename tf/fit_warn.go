@@ -48,6 +48,7 @@ type Warning struct {
 	Params  []string
 }
 
+// String names the kind of warning in a few words.
 func (k WarningKind) String() string {
 	switch k {
 	case UnstableDenominator:
