@@ -88,6 +88,12 @@ type Candidate struct {
 	Starts map[string]float64
 	// Names lists the coefficient names of Term in written order.
 	Names []string
+	// Pattern names the shape of the fitted weights after the first S
+	// lags: "cut-off" (R = 0), "exponential decay" or "alternating decay"
+	// (one real pole z = -Den[1], positive or negative), "two-pole decay"
+	// (two real poles) or "damped oscillation" (a complex pair), as
+	// read from the z-plane poles of Den.
+	Pattern string
 }
 
 // Identify proposes the dead time and ranked (r, s) forms for an input
@@ -187,6 +193,7 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 			c := Candidate{Delay: b, R: r, S: sd, Num: f.num, Den: f.den, Chi2: f.chi2,
 				Score: f.chi2 + set.Penalty*float64(r+sd+1), Corner: r == id.CornerR && sd == id.CornerS}
 			c.Term, c.Names, c.Starts = termText(series, set.Prefix, b, c.Num, c.Den)
+			c.Pattern = pattern(c.Den)
 			id.Candidates = append(id.Candidates, c)
 		}
 	}
@@ -260,4 +267,24 @@ func negativeLevel(w *Weights) float64 {
 		return 0
 	}
 	return med * c.SDY / c.SDX
+}
+
+// pattern describes the decay of the weights of 1/den(B) from its
+// z-plane poles (the roots of z^r + den[1] z^(r-1) + ... + den[r]).
+func pattern(den []float64) string {
+	switch len(den) - 1 {
+	case 0:
+		return "cut-off"
+	case 1:
+		if -den[1] >= 0 {
+			return "exponential decay"
+		}
+		return "alternating decay"
+	case 2:
+		if den[1]*den[1]-4*den[2] < 0 {
+			return "damped oscillation"
+		}
+		return "two-pole decay"
+	}
+	return "decay of order " + strconv.Itoa(len(den)-1)
 }

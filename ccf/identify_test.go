@@ -129,3 +129,20 @@ func TestImpulseWeightsScale(t *testing.T) {
 		t.Errorf("constant output: %v", err)
 	}
 }
+
+func TestPattern(t *testing.T) {
+	for _, tc := range []struct {
+		den  []float64
+		want string
+	}{
+		{[]float64{1}, "cut-off"},
+		{[]float64{1, -0.6}, "exponential decay"},
+		{[]float64{1, 0.6}, "alternating decay"},
+		{[]float64{1, -1.0, 0.5}, "damped oscillation"}, // poles 0.5 +- 0.5i
+		{[]float64{1, -1.1, 0.28}, "two-pole decay"},    // poles 0.7, 0.4
+	} {
+		if got := pattern(tc.den); got != tc.want {
+			t.Errorf("pattern(%v) = %q, want %q", tc.den, got, tc.want)
+		}
+	}
+}

@@ -36,6 +36,7 @@ func (id *Identification) String() string {
 		fmt.Fprintf(&sb, "  corner method: r = %d, s = %d\n", id.CornerR, id.CornerS)
 	}
 	sb.WriteString("  rank  (b,r,s)  score    term\n")
+
 	for i, c := range id.Candidates {
 		mark := ""
 		if c.Corner {
