@@ -526,7 +526,7 @@ func (w *fitWork) params() []float64 {
 	return x
 }
 
-var errFitFilter = errors.New("tf: filter output not finite")
+var fitErrFilter = errors.New("tf: filter output not finite")
 
 // noiseSeries computes u_i and n_t for the current values; it fills the
 // polynomial coefficients and derivatives.
@@ -616,7 +616,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 	w.noiseSeries()
 	f := w.resid()
 	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return errFitFilter
+		return fitErrFilter
 	}
 	t0 := w.cond.First
 	copy(r, w.a[t0:])
