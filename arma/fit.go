@@ -453,16 +453,16 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	x := append([]float64(nil), lres.X...)
 	f := lres.SSQ
 	var hess, jtj *mat.SymDense
+	var polishedR []float64
 	if np > 0 {
 		floor := 10 * 0x1p-52 * math.Sqrt(float64(e.m))
-		trialR := make([]float64, e.m)
-		for it := 0; it < 4; it++ {
+		for it := 0; it < 3; it++ {
 			h, jj, g, fx, ok := e.curvature(x)
 			if !ok {
 				break
 			}
 			hess, jtj, f = h, jj, fx
-			if !lres.Reason.Converged() || it == 3 {
+			if !lres.Reason.Converged() || it == 2 {
 				break
 			}
 			var c mat.Cholesky
@@ -474,17 +474,16 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 				break
 			}
 			trial := make([]float64, np)
-			small := true
+			step := 0.0 // largest relative step component
 			for k := range x {
 				d := -dx.AtVec(k)
 				trial[k] = x[k] + d
-				if math.Abs(d) > 1e-10*(math.Abs(x[k])+1e-10) {
-					small = false
-				}
+				step = math.Max(step, math.Abs(d)/(math.Abs(x[k])+1e-10))
 			}
-			if small {
+			if step <= 1e-10 {
 				break
 			}
+			trialR := make([]float64, e.m)
 			if e.eval(trial, trialR, nil) != nil {
 				break
 			}
@@ -492,15 +491,17 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			if !(ft <= f*(1+floor)) {
 				break
 			}
-			x = trial
+			x, polishedR = trial, trialR
+			if step < 1e-6 {
+				// A tiny correction: the curvature (and so the SEs) at the
+				// new point is the same to that order.
+				break
+			}
 		}
 	}
 	finalR := lres.Resid
-	if np > 0 && !equalSlices(x, lres.X) {
-		finalR = make([]float64, e.m)
-		if err := e.eval(x, finalR, nil); err != nil {
-			x, finalR = lres.X, lres.Resid
-		}
+	if polishedR != nil {
+		finalR = polishedR
 	}
 	f = dot(finalR, finalR)
 	e.set(x)
@@ -894,18 +895,6 @@ func invSym(a *mat.SymDense) *mat.SymDense {
 		return nil
 	}
 	return inv
-}
-
-func equalSlices(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 var errNonInvertible = errors.New("arma: MA polynomial not invertible")
