@@ -101,8 +101,8 @@ func ExampleIdentification_String() {
 	//    10   0.04479     4.48 *
 	//   corner method: r = 1, s = 1
 	//   rank  (b,r,s)  score    term
-	//      1  (2,1,1)     6.00  (w0 + w1 B) / (1 - d1 B) B^2 burner  (corner)
-	//      2  (2,1,0)   693.50  w0 / (1 - d1 B) B^2 burner
-	//      3  (2,0,1)  14392.72  (w0 + w1 B) B^2 burner
-	//      4  (2,0,0)  39990.72  w0 B^2 burner
+	//      1  (2,1,1)     6.00  (w0 + w1 B) / (1 - d1 B) B^2 burner  [exponential decay]  (corner)
+	//      2  (2,1,0)   693.50  w0 / (1 - d1 B) B^2 burner  [exponential decay]
+	//      3  (2,0,1)  14392.72  (w0 + w1 B) B^2 burner  [cut-off]
+	//      4  (2,0,0)  39990.72  w0 B^2 burner  [cut-off]
 }

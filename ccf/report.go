@@ -42,7 +42,7 @@ func (id *Identification) String() string {
 		if c.Corner {
 			mark = "  (corner)"
 		}
-		fmt.Fprintf(&sb, "  %4d  (%d,%d,%d)  %7.2f  %s%s\n", i+1, c.Delay, c.R, c.S, c.Score, c.Term, mark)
+		fmt.Fprintf(&sb, "  %4d  (%d,%d,%d)  %7.2f  %s  [%s]%s\n", i+1, c.Delay, c.R, c.S, c.Score, c.Term, c.Pattern, mark)
 	}
 	return sb.String()
 }
