@@ -168,3 +168,34 @@ func TestCanceledFit(t *testing.T) {
 		t.Errorf("canceled select: %v", err)
 	}
 }
+
+// TestEdgeOrders: white noise around a mean (one parameter) and a random
+// walk with nothing to estimate (all fixed): the mean estimate is the
+// sample mean, the random-walk forecasts are the last value with SE
+// sigma sqrt(h) (common practice).
+func TestEdgeOrders(t *testing.T) {
+	y, _ := Simulate(Model{Mean: 4, Sigma2: 1}, 300, &SimSettings{Seed1: 61, Seed2: 62})
+	res, err := Fit(context.Background(), y, Order{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Est) != 1 || !closeTo(res.Est[0], meanOf(y), 1e-12, 0) {
+		t.Errorf("mean %v, sample mean %v", res.Est, meanOf(y))
+	}
+	rw, err := Fit(context.Background(), y, Order{D: 1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rw.Est) != 0 || rw.Start != 1 {
+		t.Fatalf("random walk: %v start %d", rw.Est, rw.Start)
+	}
+	fc, err := rw.Forecast(4, 0.95, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for h := range fc.Mean {
+		if fc.Mean[h] != y[len(y)-1] || !closeTo(fc.SE[h], math.Sqrt(rw.Sigma2*float64(h+1)), 1e-12, 0) {
+			t.Errorf("h=%d: %v %v", h+1, fc.Mean[h], fc.SE[h])
+		}
+	}
+}
