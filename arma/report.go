@@ -48,3 +48,47 @@ func (r *Result) String() string {
 	}
 	return b.String()
 }
+
+// Constant returns the constant c of the difference-equation form
+//
+//	phi*(B) w_t = c + theta*(B) a_t,  c = phi*(1) Mean,
+//
+// and its standard error by the delta method from Cov (NaN when Cov is
+// nil; zero when neither the mean nor any AR coefficient was estimated).
+func (r *Result) Constant() (c, se float64) {
+	idx := map[string]int{}
+	for i, nm := range r.Names {
+		idx[nm] = i
+	}
+	np := len(r.Names)
+	phi, d := r.Noise.AR.Grad(func(name string) int {
+		if k, ok := idx[name]; ok {
+			return k
+		}
+		return -1
+	}, np)
+	p1 := 0.0
+	for _, v := range phi {
+		p1 += v
+	}
+	c = p1 * r.Model.Mean
+	grad := make([]float64, np)
+	for k, dk := range d {
+		for _, v := range dk {
+			grad[k] += v * r.Model.Mean
+		}
+	}
+	if k, ok := idx["mean"]; ok {
+		grad[k] = p1
+	}
+	if r.Cov == nil {
+		return c, math.NaN()
+	}
+	v := 0.0
+	for i := range grad {
+		for j := range grad {
+			v += grad[i] * r.Cov.At(i, j) * grad[j]
+		}
+	}
+	return c, math.Sqrt(math.Max(v, 0))
+}

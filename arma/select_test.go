@@ -199,3 +199,33 @@ func TestEdgeOrders(t *testing.T) {
 		}
 	}
 }
+
+// TestConstant: for an AR(1) with mean, c = (1 - phi1) mean, and the
+// delta-method SE agrees with a direct fit of the linear form
+// y_t = c + phi1 y_{t-1} + a_t by ordinary least squares, whose
+// residuals are the same (CLS of an AR is least squares): 1e-6 relative.
+func TestConstant(t *testing.T) {
+	y, _ := Simulate(Model{AR: []float64{0.6}, Mean: 5, Sigma2: 1}, 500, &SimSettings{Seed1: 71, Seed2: 72})
+	res, err := Fit(context.Background(), y, Order{P: 1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, se := res.Constant()
+	// OLS of y_t on (1, y_{t-1}), t = 1..n-1, closed form.
+	n := float64(len(y) - 1)
+	var sx, sy, sxx, sxy float64
+	for i := 1; i < len(y); i++ {
+		x, v := y[i-1], y[i]
+		sx += x
+		sy += v
+		sxx += x * x
+		sxy += x * v
+	}
+	b := (n*sxy - sx*sy) / (n*sxx - sx*sx)
+	a := (sy - b*sx) / n
+	s2 := res.SSQ / n
+	seA := math.Sqrt(s2 * sxx / (n*sxx - sx*sx))
+	if !closeTo(c, a, 1e-6, 0) || !closeTo(se, seA, 1e-6, 0) || !closeTo(res.Est[0], b, 1e-6, 0) {
+		t.Errorf("constant %v se %v, OLS %v se %v", c, se, a, seA)
+	}
+}
