@@ -13,14 +13,7 @@ import (
 // candidates and returns the best one's estimate.
 func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progress) (*tf.Estimate, error) {
 	pr.say("identifying: prewhitening %d inputs, impulse-response weights, (b, r, s) forms, noise orders, fitting the candidates concurrently", len(ds.inputs))
-	set := &tf.IdentifySettings{
-		// Six (b, r, s) forms per input and every combination with the
-		// two best noise orders: about 70 fits, a few seconds on two
-		// cores, so that the simplest adequate form is among them.
-		Forms:         6,
-		MaxCandidates: 72,
-		Fit:           &tf.FitSettings{First: skip},
-	}
+	set := identifySettings(skip)
 	stop := pr.ticker("still identifying")
 	cands, err := tf.Identify(ctx, ds.output, ds.inputs, ds.data, set)
 	stop()
@@ -69,3 +62,11 @@ func structure(m tf.Model) string {
 
 // shownCandidates is the number of candidates listed.
 const shownCandidates = 10
+
+// identifySettings are the settings of the one-call identification: six
+// (b, r, s) forms per input and every combination with the two best
+// noise orders, about 70 fits (a few seconds on two cores), so that the
+// simplest adequate form is among them; residuals summed from skip.
+func identifySettings(skip int) *tf.IdentifySettings {
+	return &tf.IdentifySettings{Forms: 6, MaxCandidates: 72, Fit: &tf.FitSettings{First: skip}}
+}
