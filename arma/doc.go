@@ -29,6 +29,28 @@
 // every root z of the AR polynomial lies strictly inside the unit circle
 // and invertible when every root of the MA polynomial does.
 //
+// # Conditional least squares
+//
+// Fit differences the series (after subtracting any regressors), and
+// computes the residuals by the ARMA recursion from the index Start (the
+// AR degree plus the differencing degree, by default) with innovations
+// before Start taken as zero. The sum of squares of the residuals from
+// Start on is minimised by Levenberg-Marquardt with an exact Jacobian
+// obtained by filtering, then polished by Newton steps with the exact
+// Hessian. Sigma2 = SSQ/NUsed. Standard errors: SE from Sigma2 (J'J)^-1
+// (Gauss-Newton), SEHessian from the observed Hessian. These are the
+// conventions of R's arima(method = "CSS"), against which the package is
+// checked (testdata/arma).
+//
+// # Forecasts
+//
+// Result.Forecast gives the exact conditional expectations of the future
+// given the data for the fitted coefficients (a Kalman filter of the
+// stationary part started in its stationary distribution) when the AR
+// part is stationary, with standard errors that include the uncertainty
+// of the final state; otherwise it falls back to the conditional
+// recursion of the fit.
+//
 // Functions never modify their inputs, return typed errors (inspect them
 // with errors.As) for bad data and are safe for concurrent use.
 package arma
