@@ -4,6 +4,11 @@
 // regression, and proposals for the dead time b and the orders (r, s) of a
 // rational input term, each written out as a spec text with start values.
 //
+// Cross computes the sums directly for few lags (an AVX2/FMA kernel on
+// amd64 processors that have it, Go elsewhere) and by a blocked FFT for
+// many, switching at a measured crossover; both agree with the definition
+// to 1e-12.
+//
 // # Definitions and lag convention
 //
 // For series x and y of length n with means xbar and ybar,
@@ -38,7 +43,11 @@
 //
 // Identify reads the dead time b as the first non-negative lag with a
 // significant weight, ignoring a lone spike that is neither strong nor
-// followed by further significant weights. It then fits every rational form
+// followed by further significant weights, and weights too small to
+// matter next to the largest (closed-loop records show such a bias before
+// the dead time). A common level of the cross-correlation at negative
+// lags, left by incomplete prewhitening, is removed first. It then fits
+// every rational form
 //
 //	v(B) = B^b omega(B) / delta(B),  deg omega = s, deg delta = r
 //
