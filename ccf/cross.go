@@ -15,7 +15,7 @@ const (
 	Direct
 	// FFT accumulates the cross-spectrum of overlapping blocks with a real
 	// FFT (the package's radix-2 transform, checked against gonum
-	// dsp/fourier and about three times faster than it here) and
+	// dsp/fourier and more than twice as fast here) and
 	// transforms back once.
 	FFT
 )
