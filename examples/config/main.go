@@ -55,7 +55,11 @@ func show(w io.Writer, name string, raw []byte) error {
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "%s: %s, %d models, all valid\n", name, c.Site, len(c.Models))
+	plural := "s"
+	if len(c.Models) == 1 {
+		plural = ""
+	}
+	fmt.Fprintf(w, "%s: %s, %d model%s, all valid\n", name, c.Site, len(c.Models), plural)
 	for _, e := range c.Models {
 		fmt.Fprintf(w, "\n%s\n", e.Name)
 		if e.Notes != "" {

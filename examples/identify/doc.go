@@ -6,6 +6,7 @@
 //	go run ./examples/identify -pictures out        # also write PNG pictures to out/
 //	go run ./examples/identify -data plant.csv -output temp -inputs valve,outdoor -interval 1min
 //	go run ./examples/identify -spec 'temp = c + w0/(1 - d1 B) B^3 valve + (1 - t1 B) a'
+//	go run ./examples/identify -save fitted.json    # the fitted model as a config for examples/config
 //	go run ./examples/identify -write-data greenhouse.csv
 //
 // By default it identifies the model in one call: prewhitening, dead time

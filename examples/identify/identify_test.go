@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"image/png"
 	"math"
@@ -12,6 +13,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -128,6 +130,7 @@ func TestSpecAndCSV(t *testing.T) {
 	o.Data = path
 	o.Interval, o.Unit = 1, "min"
 	o.Spec = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
+	o.Save = filepath.Join(t.TempDir(), "fitted.json")
 	buf.Reset()
 	var progress bytes.Buffer
 	res, err := Run(context.Background(), o, &buf, &progress)
@@ -139,6 +142,23 @@ func TestSpecAndCSV(t *testing.T) {
 	}
 	if res.Recovery != nil {
 		t.Error("a CSV file has no known truth, but a recovery table was made")
+	}
+	// The saved config holds the fitted model with every coefficient
+	// fixed at its estimate, exactly (shortest round-trip decimals).
+	raw, err := os.ReadFile(o.Save)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var cfg struct {
+		Models []struct {
+			Spec parse.Spec `json:"spec"`
+		} `json:"models"`
+	}
+	if err := json.Unmarshal(raw, &cfg); err != nil {
+		t.Fatal(err)
+	}
+	if len(cfg.Models) != 1 || !cfg.Models[0].Spec.Model.Equal(fixed(res.Estimate.Model, -1)) {
+		t.Errorf("saved config %s does not hold the fitted model %v", raw, res.Estimate.Model)
 	}
 	// The CSV holds 4 decimals, so the fit matches the true gains
 	// closely but not exactly (0.2 and 0.5, greenhouse.True).

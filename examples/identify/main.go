@@ -28,6 +28,9 @@ type Options struct {
 	Unit     string
 	// Pictures is a folder to write PNG pictures to; empty for none.
 	Pictures string
+	// Save writes the fitted model as a one-model JSON config (the format
+	// of examples/config) to this file; empty for none.
+	Save string
 	// WriteData writes the built-in record as CSV to this file and stops.
 	WriteData string
 	// Horizon is the forecast horizon in samples; Plan the planned
@@ -59,6 +62,7 @@ func main() {
 	flag.StringVar(&o.Spec, "spec", "", "fit this model spec instead of identifying one")
 	flag.StringVar(&interval, "interval", "", "sample interval with a unit, e.g. 1min, 10s, 0.5h (default: 1min for the built-in data)")
 	flag.StringVar(&o.Pictures, "pictures", "", "write PNG pictures to this folder")
+	flag.StringVar(&o.Save, "save", "", "write the fitted model as a JSON config (the format of examples/config) to this file")
 	flag.StringVar(&o.WriteData, "write-data", "", "write the built-in greenhouse record as CSV to this file and exit")
 	flag.IntVar(&o.Horizon, "horizon", o.Horizon, "forecast horizon in samples")
 	flag.StringVar(&o.Plan, "plan", o.Plan, "planned first input after the record, as from:value pairs (samples from the end)")

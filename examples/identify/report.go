@@ -2,11 +2,15 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"fmt"
 	"io"
+	"math"
+	"os"
 	"strconv"
 
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -44,10 +48,15 @@ func diagnostics(est *tf.Estimate, ds *dataset, w io.Writer) (*tf.Diagnostics, e
 
 // rounded returns a copy of m with every coefficient fixed at its value
 // rounded to 4 significant digits, for reading.
-func rounded(m tf.Model) tf.Model {
+func rounded(m tf.Model) tf.Model { return fixed(m, 4) }
+
+// fixed returns a copy of m with every coefficient fixed (a number, not a
+// parameter) at its value rounded to digits significant digits (-1 for
+// full precision).
+func fixed(m tf.Model, digits int) tf.Model {
 	c := m.Clone()
 	fix := func(k *tf.Coef) {
-		v, _ := strconv.ParseFloat(strconv.FormatFloat(k.Value, 'g', 4, 64), 64)
+		v, _ := strconv.ParseFloat(strconv.FormatFloat(k.Value, 'g', digits, 64), 64)
 		*k = tf.Coef{Value: v}
 	}
 	if c.Const != nil {
@@ -62,4 +71,27 @@ func rounded(m tf.Model) tf.Model {
 		c.Noise.AR.Each(fix)
 	}
 	return c
+}
+
+// saveConfig writes the fitted model, every coefficient fixed at its
+// estimate, as a one-model config in the format of examples/config.
+func saveConfig(path string, est *tf.Estimate, ds *dataset) error {
+	type entry struct {
+		Name  string     `json:"name"`
+		Notes string     `json:"notes"`
+		Spec  parse.Spec `json:"spec"`
+	}
+	cfg := struct {
+		Site   string  `json:"site"`
+		Models []entry `json:"models"`
+	}{Site: ds.name, Models: []entry{{
+		Name:  ds.output + " (identified)",
+		Notes: fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2)),
+		Spec:  parse.Spec{Model: fixed(est.Model, -1)},
+	}}}
+	b, err := json.MarshalIndent(cfg, "", "  ")
+	if err != nil {
+		return err
+	}
+	return os.WriteFile(path, append(b, '\n'), 0o644)
 }

@@ -107,6 +107,12 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 		fmt.Fprintf(stdout, "\nTo test a controller on the identified model:\n  go run ./examples/harness -noise %.3g -spec '%s'\n",
 			math.Sqrt(est.Sigma2), rounded(est.Model))
 	}
+	if o.Save != "" {
+		if err := saveConfig(o.Save, est, ds); err != nil {
+			return nil, fmt.Errorf("save: %w", err)
+		}
+		fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
+	}
 	if o.Pictures != "" {
 		pr.say("writing pictures to %s", o.Pictures)
 		files, err := pictures(o.Pictures, est, ds, out)
