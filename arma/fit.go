@@ -288,7 +288,11 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	// Collect the free ARMA coefficients in written order.
 	var names []string
 	fixedUsed := map[string]bool{}
+	badValue := false
 	collect := func(c *sym.Coef) {
+		if math.IsNaN(c.Value) || math.IsInf(c.Value, 0) {
+			badValue = true
+		}
 		if c.Name == "" {
 			return
 		}
@@ -311,6 +315,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	e.ar.Each(collect)
 	e.ma.Each(collect)
 	e.narma = len(names)
+	if badValue {
+		return nil, &ArgError{Arg: "noise", Msg: "coefficient values must be finite"}
+	}
 	for _, nm := range []string{"mean"} {
 		if _, dup := e.index[nm]; dup {
 			return nil, &ArgError{Arg: "noise", Msg: "coefficient name " + nm + " is reserved"}
