@@ -281,6 +281,13 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			return nil, err
 		}
 	}
+	for _, m := range []map[string]float64{o.Fixed, o.Init} {
+		for nm, v := range m {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, &ArgError{Arg: "Fixed/Init", Msg: "value of " + nm + " must be finite"}
+			}
+		}
+	}
 	if len(o.XNames) != 0 && len(o.XNames) != len(o.X) {
 		return nil, &ArgError{Arg: "XNames", Msg: "needs one name per regressor"}
 	}
