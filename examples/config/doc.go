@@ -12,4 +12,15 @@
 // own line and column, also for an error inside a spec string: the
 // position the spec parser gives inside the string is mapped back to the
 // file, so the caret points at the character to fix.
+//
+// Conventions: polynomials in the backshift operator B with signs as
+// written; poles are reported in the z-plane (z = 1/root in B), and a
+// path is stable when every pole lies strictly inside the unit circle.
+// Gains are steady-state gains in output units per input unit; times are
+// in the spec's interval unit.
+//
+// A model in a config is an approximation valid near the operating
+// conditions of the data it was identified from; controllers designed on
+// it must be commissioned under the site's safety procedures, with
+// independent safety interlocks.
 package main
