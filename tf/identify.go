@@ -8,6 +8,7 @@ import (
 	"runtime"
 	"sort"
 	"strconv"
+	"strings"
 	"sync"
 
 	"github.com/backshift/backshift/arma"
@@ -46,14 +47,18 @@ type IdentifySettings struct {
 	ByAIC bool
 	// Workers is the number of concurrent fits; zero means GOMAXPROCS.
 	Workers int
-	// Settle moves the common first residual index past the start-up
-	// transient of the preliminary fit's poles (see FitSettings.Settle),
-	// capped at n/10.
-	Settle bool
-	// NoRefine skips the second round, in which the lower-order
+	// NoSettle keeps the automatic first residual index. By default the
+	// common first index is moved past the start-up transient of the
+	// preliminary fit's input poles (ln 0.01 / ln |z|max samples, see
+	// FitSettings.Settle), capped at n/10, which keeps a transient of
+	// the pre-sample assumption (typical of closed-loop records) out of
+	// the noise model.
+	NoSettle bool
+	// NoRefine skips the refinement rounds, in which the lower-order
 	// neighbours of the best fit (one numerator, denominator or noise
 	// coefficient fewer, started from its estimates) are fitted and
-	// ranked with the others.
+	// ranked with the others, again from the new best while the score
+	// improves (at most 4 rounds).
 	NoRefine bool
 	// Progress, when not nil, is called after every fit with the
 	// number of fits done and the number planned (which may grow by the
@@ -83,15 +88,49 @@ type Candidate struct {
 	Score float64
 	// Err is the fit's error, nil on success.
 	Err error
+	// Identification holds, per input, what the identification saw:
+	// the impulse-response weights, dead time and ranked forms
+	// (ccf.Identify). It is shared by all candidates of one call and
+	// must not be modified.
+	Identification []*ccf.Identification
+}
+
+// Label describes the candidate's structure in a few words, for
+// example "valve b=3 (r=1, s=0); outdoor b=1 (r=1, s=0); noise ARMA(1, 1)".
+func (c Candidate) Label() string {
+	var b strings.Builder
+	for i, in := range c.Model.Inputs {
+		if i > 0 {
+			b.WriteString("; ")
+		}
+		fmt.Fprintf(&b, "%s b=%d (r=%d, s=%d)", in.Series, in.Delay, in.Den.Degree(), in.Num.Degree())
+	}
+	if c.Model.Noise != nil {
+		p, q := c.Model.Noise.AR.Degree(), c.Model.Noise.MA.Degree()
+		if len(c.Model.Inputs) > 0 {
+			b.WriteString("; ")
+		}
+		switch {
+		case p == 0 && q == 0:
+			b.WriteString("white noise")
+		case q == 0:
+			fmt.Fprintf(&b, "noise AR(%d)", p)
+		case p == 0:
+			fmt.Fprintf(&b, "noise MA(%d)", q)
+		default:
+			fmt.Fprintf(&b, "noise ARMA(%d, %d)", p, q)
+		}
+	}
+	return b.String()
 }
 
 // String returns a one-line summary followed by the fit's and the
 // checks' reports.
 func (c Candidate) String() string {
 	if c.Err != nil {
-		return fmt.Sprintf("#%d %s\n  fit failed: %v\n", c.Rank, c.Model.String(), c.Err)
+		return fmt.Sprintf("#%d %s\n  fit failed: %v\n", c.Rank, c.Label(), c.Err)
 	}
-	s := fmt.Sprintf("#%d score %.2f  %s\n", c.Rank, c.Score, c.Model.String()) + c.Estimate.String()
+	s := fmt.Sprintf("#%d score %.2f  %s\n", c.Rank, c.Score, c.Label()) + c.Estimate.String()
 	if c.Diagnostics != nil {
 		s += c.Diagnostics.String()
 	} else if c.CheckErr != nil {
@@ -112,9 +151,10 @@ func (c Candidate) String() string {
 // forms and noise orders (at most s.MaxCandidates, lowest form scores
 // first) is fitted with a constant on s.Workers goroutines, all summing
 // the residuals from the same index so that the criteria compare, and
-// checked (Check). A second round fits the lower-order neighbours of
+// checked (Check). Refinement rounds fit the lower-order neighbours of
 // the best fit (one coefficient of one polynomial fewer, started from
-// its estimates), so that a form the weights missed can still win. The
+// its estimates), repeated from the new best while the score improves,
+// so that a simpler form the weights missed can still win. The
 // candidates are returned ranked by BIC (or AIC), failed fits last;
 // each carries its report.
 //
@@ -186,6 +226,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			return nil, err
 		}
 	}
+	var ids []*ccf.Identification
 	for i, name := range inputs {
 		diff := diffs[i]
 		var w *ccf.Weights
@@ -214,6 +255,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		if err != nil {
 			return nil, err
 		}
+		ids = append(ids, id)
 		dp := Poly{}
 		if diff != nil {
 			dp = sym.FromCoeffs(diff)
@@ -241,7 +283,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	noises := []*arma.Noise{{}}
 	settleFirst := 0
 	if est, err := Fit(ctx, pre, data, &fs); err == nil {
-		if set.Settle {
+		if !set.NoSettle {
 			k := fitSettleSamples(est.Model)
 			settleFirst = min(est.Conditioning.NoiseStart+set.MaxP+k, n/10)
 		}
@@ -290,35 +332,53 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	}
 	prog := &idfProgress{fn: set.Progress, total: total}
 	out := idfFitAll(ctx, models, data, fs, set, prog)
-	if !set.NoRefine && ctx.Err() == nil {
+	if !set.NoRefine {
 		// Lower-order neighbours of the best fit, started from its
 		// estimates: drop the highest-power coefficient of one
-		// numerator, denominator or noise polynomial at a time.
+		// numerator, denominator or noise polynomial at a time; repeat
+		// from the new best while that improves the score.
 		seen := map[string]bool{}
 		for _, m := range models {
 			seen[idfKey(m)] = true
 		}
-		var more []Model
-		if b := idfBest(out); b != nil {
+		planned := len(models)
+		for round := 0; round < idfRounds && ctx.Err() == nil; round++ {
+			b := idfBest(out)
+			if b == nil {
+				break
+			}
+			var more []Model
 			for _, m := range idfNeighbours(b.Estimate.Model) {
 				if k := idfKey(m); !seen[k] {
 					seen[k] = true
 					more = append(more, m)
 				}
 			}
+			if len(more) == 0 {
+				break
+			}
+			planned += len(more)
+			prog.setTotal(planned)
+			before := b.Score
+			out = append(out, idfFitAll(ctx, more, data, fs, set, prog)...)
+			if nb := idfBest(out); nb == nil || nb.Score >= before {
+				break
+			}
 		}
-		prog.setTotal(len(models) + len(more))
-		out = append(out, idfFitAll(ctx, more, data, fs, set, prog)...)
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
 	for i := range out {
 		out[i].Rank = i + 1
+		out[i].Identification = ids
 	}
 	if len(out) > 0 && out[0].Err != nil {
 		return out, out[0].Err
 	}
 	return out, nil
 }
+
+// idfRounds bounds the rounds of lower-order neighbours.
+const idfRounds = 4
 
 // idfProgress reports finished fits to the caller's callback, one call
 // at a time.

@@ -48,10 +48,10 @@ func ExampleIdentify() {
 			in.Delay, in.Den.Degree(), in.Num.Degree(), len(ar)-1, len(ma)-1, c.Diagnostics.Pass)
 	}
 	// Output:
-	// #1 BIC  -7.79  b=3 r=1 s=0  noise AR(0) MA(1)  checks pass: true
-	// #2 BIC  -3.25  b=3 r=1 s=0  noise AR(1) MA(1)  checks pass: true
-	// #3 BIC  -2.84  b=3 r=1 s=1  noise AR(0) MA(1)  checks pass: true
-	// #4 BIC   1.72  b=3 r=1 s=1  noise AR(1) MA(1)  checks pass: true
-	// #5 BIC  29.87  b=3 r=1 s=0  noise AR(0) MA(0)  checks pass: false
-	// #6 BIC 369.53  b=3 r=0 s=0  noise AR(0) MA(1)  checks pass: false
+	// #1 BIC  -5.99  b=3 r=1 s=0  noise AR(0) MA(1)  checks pass: true
+	// #2 BIC  -1.21  b=3 r=1 s=0  noise AR(1) MA(1)  checks pass: true
+	// #3 BIC  -1.09  b=3 r=1 s=1  noise AR(0) MA(1)  checks pass: true
+	// #4 BIC   3.70  b=3 r=1 s=1  noise AR(1) MA(1)  checks pass: true
+	// #5 BIC  32.17  b=3 r=1 s=0  noise AR(0) MA(0)  checks pass: false
+	// #6 BIC 353.54  b=3 r=0 s=0  noise AR(0) MA(1)  checks pass: false
 }

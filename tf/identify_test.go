@@ -37,6 +37,9 @@ func TestIdentifyBJsales(t *testing.T) {
 	if best.Diagnostics == nil || !best.Diagnostics.Pass {
 		t.Errorf("best candidate fails its checks: %v", best.CheckErr)
 	}
+	if len(best.Identification) != 1 || best.Identification[0].DeadTime != 3 {
+		t.Errorf("identification %+v", best.Identification)
+	}
 	for i := 1; i < len(cands); i++ {
 		if cands[i].Score < cands[i-1].Score || cands[i].Rank != i+1 {
 			t.Errorf("ranking not by BIC at %d", i)
@@ -97,5 +100,17 @@ func TestIdentifyProgressAndCancel(t *testing.T) {
 	cancel()
 	if _, err := Identify(ctx, "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1}}); !errors.Is(err, context.Canceled) {
 		t.Errorf("canceled: %v", err)
+	}
+}
+
+// TestCandidateLabel checks the structure labels.
+func TestCandidateLabel(t *testing.T) {
+	m := fitMCModel()
+	if got, want := (Candidate{Model: m}).Label(), "x b=3 (r=1, s=1); noise AR(1)"; got != want {
+		t.Errorf("label %q, want %q", got, want)
+	}
+	m.Noise.MA = fitOneMinus("t1", 1)
+	if got, want := (Candidate{Model: m}).Label(), "x b=3 (r=1, s=1); noise ARMA(1, 1)"; got != want {
+		t.Errorf("label %q, want %q", got, want)
 	}
 }
