@@ -32,8 +32,11 @@
 // 95 % bands), weights.png (impulse-response weights with +-2 standard
 // errors), residual-acf.png (residual autocorrelation with bands),
 // step.png (step responses in minutes with the dead time and settling
-// time marked), fit.png (observed against one-step-ahead fitted values)
-// and forecast.png (forecast with its interval, and the planned input).
+// time marked), fit.png (observed against one-step-ahead fitted values,
+// and the residuals), simulation.png (observed against the noise-free
+// simulation from the inputs alone, the part a controller acts on, and
+// their difference) and forecast.png (forecast with its interval, and the
+// planned input).
 //
 // Progress goes to standard error; results to standard output.
 //

@@ -56,7 +56,7 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 		}
 	}
 	// Every picture is a readable PNG of a sensible size.
-	want := []string{"data", "ccf", "weights", "residual-acf", "step", "fit", "forecast"}
+	want := []string{"data", "ccf", "weights", "residual-acf", "step", "fit", "simulation", "forecast"}
 	if len(res.Pictures) != len(want) {
 		t.Fatalf("pictures %v, want %v", res.Pictures, want)
 	}

@@ -199,6 +199,23 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		return nil, err
 	}
 
+	// Observed against the noise-free simulation from the inputs alone.
+	if out.Simulation != nil {
+		if err := add("simulation", func(path string) error {
+			// From the first summed residual on: before it the
+			// simulation is still starting up.
+			from := out.Simulation.From
+			y := ds.data[ds.output][from:]
+			t := make([]float64, len(y))
+			for i := range t {
+				t[i] = float64(i+from) * dt
+			}
+			return plotSimulation(path, t, y, out.Simulation.Y[from:], "time ("+unit+")", ds.output+outputUnit(ds))
+		}); err != nil {
+			return nil, err
+		}
+	}
+
 	// Forecast with its interval and the planned input.
 	if out.forecast != nil {
 		if err := add("forecast", func(path string) error { return plotForecastFrom(path, ds, out.forecast) }); err != nil {

@@ -495,3 +495,33 @@ func plotSeries(path string, t []float64, panels []seriesPanel, xlabel string) e
 	}
 	return savePanels(path, ps, 18, 5.5)
 }
+
+// plotSimulation writes the observed output against the model's
+// noise-free simulation from the inputs alone, and their difference (the
+// model's estimate of the disturbance).
+func plotSimulation(path string, t, obs, sim []float64, xlabel, ylabel string) error {
+	p := newPlot("Observed and simulated from the inputs alone (no noise model)", xlabel, ylabel)
+	lo, err := line(p, t, obs, colData, 1)
+	if err != nil {
+		return err
+	}
+	ls, err := line(p, t, sim, colModel, 1.3)
+	if err != nil {
+		return err
+	}
+	p.Legend.Add("observed", lo)
+	p.Legend.Add("simulated", ls)
+	p.Legend.Top = false
+	q := newPlot("Difference: the disturbance the noise model describes", xlabel, ylabel)
+	d := make([]float64, len(t))
+	for i := range d {
+		d[i] = obs[i] - sim[i]
+	}
+	if _, err := hline(q, 0, t[0], t[len(t)-1], color.Gray{Y: 120}, false); err != nil {
+		return err
+	}
+	if _, err := line(q, t, d, colData, 0.6); err != nil {
+		return err
+	}
+	return savePanels(path, []*plot.Plot{p, q}, 18, 6.5)
+}

@@ -26,6 +26,9 @@ type Outcome struct {
 	Recovery []Recovery
 	// Pictures lists the files written.
 	Pictures []string
+	// Simulation is the chosen model's noise-free simulation from the
+	// inputs alone, and how well it follows the output.
+	Simulation *Simulation
 	// Diagnostics are the checks of the chosen model.
 	Diagnostics *tf.Diagnostics
 	// Elapsed is the wall time of the run.
@@ -92,6 +95,9 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	out := &Outcome{Estimate: est}
 	if err := report(ctx, est, ds, stdout, pr, out); err != nil {
+		return nil, err
+	}
+	if out.Simulation, err = simulate(est, ds, skip, stdout); err != nil {
 		return nil, err
 	}
 	pr.say("checking the model")
@@ -295,4 +301,46 @@ func writeRecovery(w io.Writer, rs []Recovery) {
 		fmt.Fprintf(w, "  %-8s  %4d %5d %-8s  %6.3f %6.3f %+7.1f%% %-9s  %5.1f %6.1f\n", r.Input, r.TrueDelay, r.Delay, ok(r.DelayExact),
 			r.TrueGain, r.Gain, 100*r.GainErr, ok(r.GainIn10)+" (10%)", r.TrueTau, r.Tau)
 	}
+}
+
+// Simulation is the noise-free run of a fitted model from the recorded
+// inputs, started at the steady state of their first samples.
+type Simulation struct {
+	Y []float64
+	// RMS is the root-mean-square difference from the output and
+	// Explained the share of the output's variance it accounts for,
+	// 1 - var(y - sim)/var(y), both from the first summed residual on.
+	RMS, Explained float64
+	// From is the first sample compared.
+	From int
+}
+
+// simulate runs the fitted model without noise from the inputs and
+// prints how well it follows the output: the test that matters for
+// control, since a controller sees the deterministic part.
+func simulate(est *tf.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation, error) {
+	m := est.Model.Clone()
+	m.Noise = nil
+	y, err := m.Simulate(ds.data, &tf.SimSettings{Steady: true})
+	if err != nil {
+		return nil, fmt.Errorf("simulation: %w", err)
+	}
+	obs := ds.data[ds.output]
+	from := max(skip, est.Conditioning.First)
+	var sd, sy, my float64
+	k := 0
+	for t := from; t < len(obs); t++ {
+		my += obs[t]
+		k++
+	}
+	my /= float64(k)
+	for t := from; t < len(obs); t++ {
+		d := obs[t] - y[t]
+		sd += d * d
+		sy += (obs[t] - my) * (obs[t] - my)
+	}
+	s := &Simulation{Y: y, RMS: math.Sqrt(sd / float64(k)), Explained: 1 - sd/sy, From: from}
+	fmt.Fprintf(w, "\nSimulation from the inputs alone (noise-free, from sample %d): RMS error %.3g, %.1f %% of the output variance explained\n",
+		from, s.RMS, 100*s.Explained)
+	return s, nil
 }
