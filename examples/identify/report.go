@@ -28,7 +28,11 @@ func report(ctx context.Context, est *tf.Estimate, ds *dataset, w io.Writer, pr 
 	}
 	out.Paths = paths
 	fmt.Fprintf(w, "\nInput paths for control work (times in %s):\n", ds.timeUnit())
-	return modelinfo.Write(w, est.Model)
+	if err := modelinfo.Write(w, est.Model); err != nil {
+		return err
+	}
+	writeUncertainty(w, est, ds, paths)
+	return nil
 }
 
 // diagnostics runs the model checks and prints them with verdicts.

@@ -1,0 +1,111 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+
+	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/tf"
+)
+
+// withParam returns a copy of m with every coefficient named name set to
+// v.
+func withParam(m tf.Model, name string, v float64) tf.Model {
+	c := m.Clone()
+	set := func(k *tf.Coef) {
+		if k.Name == name {
+			k.Value = v
+		}
+	}
+	if c.Const != nil {
+		set(c.Const)
+	}
+	for _, in := range c.Inputs {
+		in.Num.Each(set)
+		in.Den.Each(set)
+	}
+	if c.Noise != nil {
+		c.Noise.MA.Each(set)
+		c.Noise.AR.Each(set)
+	}
+	return c
+}
+
+// deltaSE returns the standard error of f(estimates) by the delta
+// method, sqrt(g' Cov g) with g the gradient of f by central differences
+// (step 1e-6 times the parameter's size, at least 1e-9), and NaN when f
+// fails near the estimate or the covariance is not available.
+func deltaSE(est *tf.Estimate, f func(tf.Model) (float64, error)) float64 {
+	k := len(est.Params)
+	g := make([]float64, k)
+	for i, p := range est.Params {
+		h := math.Max(1e-6*math.Abs(p.Value), 1e-9)
+		up, err1 := f(withParam(est.Model, p.Name, p.Value+h))
+		dn, err2 := f(withParam(est.Model, p.Name, p.Value-h))
+		if err1 != nil || err2 != nil {
+			return math.NaN()
+		}
+		g[i] = (up - dn) / (2 * h)
+	}
+	v := 0.0
+	for i := range k {
+		for j := range k {
+			v += g[i] * est.Cov[i][j] * g[j]
+		}
+	}
+	if !(v >= 0) {
+		return math.NaN()
+	}
+	return math.Sqrt(v)
+}
+
+// pathGain returns the steady-state gain of input i of m.
+func pathGain(i int) func(tf.Model) (float64, error) {
+	return func(m tf.Model) (float64, error) {
+		ps, err := modelinfo.Paths(m, 0)
+		if err != nil {
+			return 0, err
+		}
+		if math.IsNaN(ps[i].Gain) {
+			return 0, fmt.Errorf("no gain")
+		}
+		return ps[i].Gain, nil
+	}
+}
+
+// pathTau returns the longest time constant (in samples) of input i of
+// m, from its real poles in (0, 1).
+func pathTau(i int) func(tf.Model) (float64, error) {
+	return func(m tf.Model) (float64, error) {
+		ps, err := modelinfo.Paths(m, 0)
+		if err != nil {
+			return 0, err
+		}
+		tau := math.NaN()
+		for _, md := range ps[i].Modes {
+			if md.Kind == tf.ModeReal {
+				tau = math.Max(nanToZero(tau), md.TimeConstant.Samples)
+			}
+		}
+		if math.IsNaN(tau) {
+			return 0, fmt.Errorf("no real pole")
+		}
+		return tau, nil
+	}
+}
+
+// writeUncertainty prints the gains and the longest time constants of
+// the input paths with their standard errors.
+func writeUncertainty(w io.Writer, est *tf.Estimate, ds *dataset, paths []modelinfo.Path) {
+	fmt.Fprintf(w, "\nGains and time constants with standard errors (delta method on the estimates' covariance;\ndead times are chosen by the identification, not estimated):\n")
+	for i, p := range paths {
+		g := deltaSE(est, pathGain(i))
+		fmt.Fprintf(w, "  %-8s gain %.4g +- %.2g", p.Input, p.Gain, g)
+		if tau, err := pathTau(i)(est.Model); err == nil {
+			se := deltaSE(est, pathTau(i))
+			fmt.Fprintf(w, ", time constant %.3g +- %.2g %s", tau*ds.step(), se*ds.step(), ds.timeUnit())
+		}
+		fmt.Fprintln(w)
+	}
+}
