@@ -877,10 +877,13 @@ func (w *fitWork) multimodal() bool {
 func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate {
 	k := len(w.names)
 	w.set(res.X)
-	w.noiseSeries()
-	ssq := w.resid()
 	t0 := w.cond.First
 	nres := w.n - t0
+	// The residuals at the best point come from the solver (len N).
+	ssq := 0.0
+	for _, v := range res.Resid {
+		ssq += v * v
+	}
 	e := &Estimate{
 		Model:        w.m.Clone(),
 		SSQ:          ssq,
@@ -902,7 +905,7 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 		if t < t0 {
 			e.Resid[t] = math.NaN()
 		} else {
-			e.Resid[t] = w.a[t]
+			e.Resid[t] = res.Resid[t-t0]
 		}
 	}
 	e.Cov = make([][]float64, k)
