@@ -10,6 +10,7 @@ package main
 
 import (
 	"bytes"
+	"math"
 	"strings"
 	"testing"
 )
@@ -233,5 +234,31 @@ func TestOtherPlant(t *testing.T) {
 	}
 	if err := runWith(&buf, "temp = 0.2 B^3 outdoor + a", NoiseSD); err == nil || !strings.Contains(err.Error(), "no input named valve") {
 		t.Errorf("error %v", err)
+	}
+}
+
+// TestMeasure checks the response metrics on trajectories with known
+// answers: a sampled first-order rise y = 4(1 - exp(-t/10)) from 16 to
+// 20 enters the 2 % band (0.08) when exp(-t/10) = 0.02, at t = 10 ln 50
+// = 39.1 (closed form), so at the first sample after it, t = 40; a
+// trajectory that peaks at 20.5 overshoots by 0.5/4 = 12.5 %.
+func TestMeasure(t *testing.T) {
+	y := make([]float64, 300)
+	for k := range y {
+		y[k] = 16
+		if k >= 10 {
+			y[k] = 20 - 4*math.Exp(-float64(k-10)/10)
+		}
+	}
+	m := Measure(y, 10, 16, 20, 0.08, 1)
+	if m.Settling != 40 || m.Overshoot != 0 || abs(m.SteadyError) > 1e-9 || abs(m.PeakDeviation-4) > 1e-12 {
+		t.Errorf("first-order rise: %+v", m)
+	}
+	y[100] = 20.5
+	if m := Measure(y, 10, 16, 20, 0.08, 2); abs(m.Overshoot-0.125) > 1e-12 || m.Settling != 2*91 {
+		t.Errorf("with a peak at minute 100: %+v", m)
+	}
+	if m := Measure(y[:50], 10, 16, 20, 0.001, 1); !math.IsInf(m.Settling, 1) {
+		t.Errorf("never settles within 0.001 in 40 samples, got %v", m.Settling)
 	}
 }

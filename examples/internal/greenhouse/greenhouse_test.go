@@ -2,7 +2,9 @@ package greenhouse
 
 import (
 	"bytes"
+	"encoding/json"
 	"math"
+	"os"
 	"slices"
 	"strings"
 	"testing"
@@ -47,20 +49,19 @@ func TestValveLimitsAndSaturation(t *testing.T) {
 	}
 }
 
-// TestRecordFollowsTrueModel rebuilds the noise from the record with the
-// library's recursive filter kernel (not the generator's own loop) and
-// checks that the innovations are white with the true standard deviation.
-func TestRecordFollowsTrueModel(t *testing.T) {
-	d := Default()
+// innovations rebuilds the innovations a_t from the record with the
+// library's recursive filter kernel (not the generator's own loop): the
+// input paths on deviations from the first sample (the record begins
+// after a settled warm-up), then (1 - 0.8 B)/(1 + 0.3 B) on the noise,
+// from sample 300 on with the mean removed (the noise carries the
+// unknown start levels as a constant).
+func innovations(d Data) []float64 {
 	n := d.Len()
 	lag := func(x []float64, k int) []float64 {
 		out := make([]float64, n)
 		copy(out[k:], x[:n-k])
 		return out
 	}
-	// The lags start at the steady state of the first sample (the record
-	// begins after a settled warm-up), so filter deviations from the first
-	// value and add the steady-state levels back.
 	dev := func(x []float64) []float64 {
 		out := make([]float64, n)
 		for i := range x {
@@ -69,23 +70,28 @@ func TestRecordFollowsTrueModel(t *testing.T) {
 		return out
 	}
 	vp := make([]float64, n)
-	filter.Run(vp, []float64{True.Valve.Omega}, []float64{1, -True.Valve.Delta}, lag(dev(d.Valve), 3))
+	filter.Run(vp, []float64{True.Valve.Omega}, []float64{1, -True.Valve.Delta}, lag(dev(d.Valve), True.Valve.Delay))
 	op := make([]float64, n)
-	filter.Run(op, []float64{True.Outdoor.Omega}, []float64{1, -True.Outdoor.Delta}, lag(dev(d.Outdoor), 1))
+	filter.Run(op, []float64{True.Outdoor.Omega}, []float64{1, -True.Outdoor.Delta}, lag(dev(d.Outdoor), True.Outdoor.Delay))
 	noise := make([]float64, n)
 	for i := range noise {
 		noise[i] = d.Temp[i] - vp[i] - op[i]
 	}
 	a := make([]float64, n)
 	filter.Run(a, []float64{1, -True.Phi}, []float64{1, True.Theta}, noise)
-	// Skip the start-up of the rebuilt paths (the warm-up history before
-	// the record is not known here): 300 samples is over 15 time constants.
+	// 300 samples is over 15 time constants of the slowest path.
 	a = a[300:]
-	// The noise level absorbs the unknown start levels as a constant.
 	mean, _ := meanSD(a)
 	for i := range a {
 		a[i] -= mean
 	}
+	return a
+}
+
+// TestRecordFollowsTrueModel checks that the innovations are white with
+// the true standard deviation.
+func TestRecordFollowsTrueModel(t *testing.T) {
+	a := innovations(Default())
 	_, sd := meanSD(a)
 	// With 5460 samples the sample SD of Gaussian noise is within
 	// 3*sigma/sqrt(2n) ~ 3 % of sigma (common practice: 3 standard errors).
@@ -100,6 +106,46 @@ func TestRecordFollowsTrueModel(t *testing.T) {
 	r1 /= float64(len(a)) * sd * sd
 	if math.Abs(r1) > 3/math.Sqrt(float64(len(a))) {
 		t.Errorf("innovations not white: lag-1 autocorrelation %.3f", r1)
+	}
+}
+
+// TestInnovationsAgainstScipy compares with the innovations that
+// testdata/innovations.py recovers with scipy.signal.lfilter 1.10.1 from
+// the record written as CSV (4 decimals).
+func TestInnovationsAgainstScipy(t *testing.T) {
+	raw, err := os.ReadFile("testdata/innovations.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		N     int
+		SD    float64
+		R1    float64
+		First []float64
+	}
+	if err := json.Unmarshal(raw, &ref); err != nil {
+		t.Fatal(err)
+	}
+	d := Default()
+	if d.Len() != ref.N {
+		t.Fatalf("record has %d samples, reference %d", d.Len(), ref.N)
+	}
+	a := innovations(d)
+	// The CSV rounds to 4 decimals (errors up to 5e-5); the noise filter
+	// amplifies them at most (1 + 0.8)/(1 - 0.3) ~ 2.6 times: 5e-4 is
+	// a safe absolute bound per innovation.
+	worst := 0.0
+	for i, want := range ref.First {
+		worst = math.Max(worst, math.Abs(a[i]-want))
+		if math.Abs(a[i]-want) > 5e-4 {
+			t.Errorf("a[%d] = %.6f, scipy %.6f", 300+i, a[i], want)
+		}
+	}
+	t.Logf("largest difference of the first %d innovations from scipy's: %.2g", len(ref.First), worst)
+	// Rounding adds variance ~ (2.6 * 5e-5)^2/3 ~ 6e-9 to 9e-4: 1e-3 relative.
+	_, sd := meanSD(a)
+	if math.Abs(sd/ref.SD-1) > 1e-3 {
+		t.Errorf("innovation SD %.6f, scipy %.6f", sd, ref.SD)
 	}
 }
 
