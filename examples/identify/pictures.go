@@ -194,7 +194,7 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 			t[i] = float64(i) * dt
 			fit[i] = y[i] - est.Resid[i] // NaN before the first residual
 		}
-		return plotFit(path, t, y, fit, int(180/dt), "time ("+unit+")", ds.output+outputUnit(ds))
+		return plotFit(path, t, y, fit, int(180/dt), est.Conditioning.First, "time ("+unit+")", ds.output+outputUnit(ds))
 	}); err != nil {
 		return nil, err
 	}

@@ -372,7 +372,7 @@ func plotSteps(path string, panels []stepPanel, xlabel string) error {
 // plotFit writes observed against fitted (one-step-ahead) values: the
 // whole record, a zoom on the last window with the observations as
 // dots, and the residuals of the whole record.
-func plotFit(path string, t, obs, fit []float64, window int, xlabel, ylabel string) error {
+func plotFit(path string, t, obs, fit []float64, window, first int, xlabel, ylabel string) error {
 	whole := newPlot("Observed and fitted (one step ahead), whole record", xlabel, ylabel)
 	lo, err := line(whole, t, obs, colData, 1.2)
 	if err != nil {
@@ -401,7 +401,7 @@ func plotFit(path string, t, obs, fit []float64, window int, xlabel, ylabel stri
 	}
 	zoom.Legend.Add("observed", sc)
 	zoom.Legend.Add("fitted", lf)
-	res := newPlot("Residuals (observed - fitted)", xlabel, ylabel)
+	res := newPlot(fmt.Sprintf("Residuals (observed - fitted), summed from sample %d on", first), xlabel, ylabel)
 	r := make([]float64, n)
 	for i := range r {
 		r[i] = obs[i] - fit[i]
