@@ -74,3 +74,27 @@ func BenchmarkCrossover(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkDistributedLag times the joint fit of two inputs with 24 lags
+// each and AR(1) noise, n = 10^3..10^6.
+func BenchmarkDistributedLag(b *testing.B) {
+	const N = 1_000_000
+	x1, x2 := benchSeries(N)
+	y := make([]float64, N)
+	e := 0.0
+	rng := rand.New(rand.NewPCG(5, 6))
+	for t := 3; t < N; t++ {
+		e = 0.6*e + rng.NormFloat64()
+		y[t] = 0.8*x1[t-2] + 0.5*x2[t-3] + 0.3*y[t-1] + e
+	}
+	for _, n := range []int{1_000, 10_000, 100_000, 1_000_000} {
+		b.Run("n="+strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := DistributedLag(y[:n], [][]float64{x1[:n], x2[:n]}, &DistributedLagSettings{Lags: 24}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -3,9 +3,12 @@ package ccf
 import (
 	"fmt"
 	"math"
+	"math/cmplx"
 	"slices"
 	"sort"
 	"strconv"
+
+	"github.com/backshift/backshift/internal/poly"
 )
 
 // IdentifySettings tunes Identify. The zero value gives the defaults.
@@ -88,6 +91,11 @@ type Candidate struct {
 	Starts map[string]float64
 	// Names lists the coefficient names of Term in written order.
 	Names []string
+	// Redundant reports a zero of omega within 0.05 of a pole of delta in
+	// the z-plane: the pair nearly cancels, so a form with one order less
+	// in each describes the same weights. Identify ranks redundant forms
+	// after all others.
+	Redundant bool
 	// Pattern names the shape of the fitted weights after the first S
 	// lags: "cut-off" (R = 0), "exponential decay" or "alternating decay"
 	// (one real pole z = -Den[1], positive or negative), "two-pole decay"
@@ -194,11 +202,15 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 				Score: f.chi2 + set.Penalty*float64(r+sd+1), Corner: r == id.CornerR && sd == id.CornerS}
 			c.Term, c.Names, c.Starts = termText(series, set.Prefix, b, c.Num, c.Den)
 			c.Pattern = pattern(c.Den)
+			c.Redundant = nearCancel(c.Num, c.Den, 0.05)
 			id.Candidates = append(id.Candidates, c)
 		}
 	}
 	sort.SliceStable(id.Candidates, func(i, j int) bool {
 		a, c := id.Candidates[i], id.Candidates[j]
+		if a.Redundant != c.Redundant {
+			return !a.Redundant
+		}
 		if a.Score != c.Score {
 			return a.Score < c.Score
 		}
@@ -287,4 +299,26 @@ func pattern(den []float64) string {
 		return "two-pole decay"
 	}
 	return "decay of order " + strconv.Itoa(len(den)-1)
+}
+
+// nearCancel reports whether a z-plane zero of num(B) lies within tol of a
+// z-plane pole of den(B) (z = 1/B: the roots of the reversed
+// coefficients).
+func nearCancel(num, den []float64, tol float64) bool {
+	if len(num) < 2 || len(den) < 2 {
+		return false
+	}
+	zs, err1 := poly.Roots(poly.Reciprocal(num))
+	ps, err2 := poly.Roots(poly.Reciprocal(den))
+	if err1 != nil || err2 != nil {
+		return false
+	}
+	for _, z := range zs {
+		for _, p := range ps {
+			if cmplx.Abs(z-p) < tol {
+				return true
+			}
+		}
+	}
+	return false
 }

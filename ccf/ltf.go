@@ -134,172 +134,273 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	if n > 0 && isConstant(y) {
 		return nil, &ConstantError{Name: out, Value: y[0]}
 	}
-	// Column j of the unfiltered design at row t (t = K..n-1).
-	col := func(j, t int) float64 {
-		if j == 0 {
-			return 1
-		}
-		i, k := (j-1)/(K+1), (j-1)%(K+1)
-		return xs[i][t-k]
+	f := ltfFit(y, xs, K, p, maxIter)
+	if f == nil {
+		return nil, &SingularError{Inputs: names}
 	}
-	phi := make([]float64, p) // n_t = sum phi_k n_{t-k} + a_t
-	beta := make([]float64, ncoef)
-	prev := make([]float64, ncoef)
-	noise := make([]float64, n)
-	X := mat.NewDense(n-K-p, ncoef, nil)
-	yv := mat.NewVecDense(n-K-p, nil)
-	var cov *mat.SymDense
-	var sigma2 float64
-	res := &DistributedLagResult{}
-	for it := 1; it <= maxIter; it++ {
-		// Filtered regression over t = K+p..n-1: phi(B) applied to y and
-		// to every column.
-		for r := 0; r < rows; r++ {
-			t := K + p + r
-			v := y[t]
-			for k := 1; k <= p; k++ {
-				v -= phi[k-1] * y[t-k]
-			}
-			yv.SetVec(r, v)
-			for j := 0; j < ncoef; j++ {
-				c := col(j, t)
-				for k := 1; k <= p; k++ {
-					c -= phi[k-1] * col(j, t-k)
-				}
-				X.Set(r, j, c)
-			}
-		}
-		b, c, ssq, ok := olsSolve(X, yv)
-		if !ok {
-			return nil, &SingularError{Inputs: names}
-		}
-		copy(beta, b)
-		cov = c
-		sigma2 = ssq / float64(rows-ncoef)
-		// Noise from the unfiltered model, then its autoregression.
-		for t := 0; t < K; t++ {
-			noise[t] = math.NaN()
-		}
-		for t := K; t < n; t++ {
-			v := y[t]
-			for j := 0; j < ncoef; j++ {
-				v -= beta[j] * col(j, t)
-			}
-			noise[t] = v
-		}
-		res.Iter = it
-		if p == 0 {
-			res.Converged = true
-			break
-		}
-		change := 0.0
-		scale := 0.0
-		for j := range beta {
-			change = math.Max(change, math.Abs(beta[j]-prev[j]))
-			scale = math.Max(scale, math.Abs(beta[j]))
-		}
-		if it > 1 && change <= 1e-10*math.Max(scale, 1e-300) {
-			res.Converged = true
-			break
-		}
-		copy(prev, beta)
-		phi = arLS(noise[K:], p)
-	}
-	res.Const = beta[0]
-	res.ConstSE = math.Sqrt(sigma2 * cov.At(0, 0))
+	res := &DistributedLagResult{Iter: f.iter, Converged: f.converged, Sigma2: f.sigma2, Start: K, Noise: f.noise}
+	res.Const, res.ConstSE = f.c, f.cSE
 	res.AR = make([]float64, p+1)
 	res.AR[0] = 1
 	for k := 1; k <= p; k++ {
-		res.AR[k] = -phi[k-1]
+		res.AR[k] = -f.phi[k-1]
 	}
-	res.Sigma2 = sigma2
-	res.Start = K
-	res.Noise = noise
 	for i := range xs {
 		w := &Weights{Input: names[i], V: make([]float64, K+1), SE: make([]float64, K+1), N: rows}
 		for k := 0; k <= K; k++ {
 			j := 1 + i*(K+1) + k
-			w.V[k] = beta[j]
-			w.SE[k] = math.Sqrt(sigma2 * cov.At(j, j))
+			w.V[k] = f.beta[j]
+			w.SE[k] = math.Sqrt(f.sigma2 * f.cov.At(j, j))
 		}
 		res.Weights = append(res.Weights, w)
 	}
 	return res, nil
 }
 
-// olsSolve returns the least-squares coefficients of y on X, (X'X)^-1,
-// and the residual sum of squares, by a Cholesky factorisation of the
-// column-scaled normal equations; ok is false when X is (numerically)
-// rank deficient.
-func olsSolve(X *mat.Dense, y *mat.VecDense) (b []float64, cov *mat.SymDense, ssq float64, ok bool) {
-	r, c := X.Dims()
-	// Column scales for conditioning.
-	sc := make([]float64, c)
-	for j := 0; j < c; j++ {
-		s := 0.0
-		for i := 0; i < r; i++ {
-			v := X.At(i, j)
-			s += v * v
-		}
-		if s == 0 {
-			return nil, nil, 0, false
-		}
-		sc[j] = 1 / math.Sqrt(s)
-	}
-	Xs := mat.NewDense(r, c, nil)
-	Xs.Apply(func(i, j int, v float64) float64 { return v * sc[j] }, X)
-	var xtx mat.SymDense
-	xtx.SymOuterK(1, Xs.T())
-	var ch mat.Cholesky
-	if !ch.Factorize(&xtx) || ch.Cond() > 1e12 {
-		return nil, nil, 0, false
-	}
-	var xty mat.VecDense
-	xty.MulVec(Xs.T(), y)
-	var bs mat.VecDense
-	if err := ch.SolveVecTo(&bs, &xty); err != nil {
-		return nil, nil, 0, false
-	}
-	var inv mat.SymDense
-	if err := ch.InverseTo(&inv); err != nil {
-		return nil, nil, 0, false
-	}
-	b = make([]float64, c)
-	for j := range b {
-		b[j] = bs.AtVec(j) * sc[j]
-	}
-	cov = mat.NewSymDense(c, nil)
-	for i := 0; i < c; i++ {
-		for j := i; j < c; j++ {
-			cov.SetSym(i, j, inv.At(i, j)*sc[i]*sc[j])
-		}
-	}
-	var fit mat.VecDense
-	fit.MulVec(X, mat.NewVecDense(c, b))
-	for i := 0; i < r; i++ {
-		d := y.AtVec(i) - fit.AtVec(i)
-		ssq += d * d
-	}
-	return b, cov, ssq, true
+// ltfResult is the outcome of ltfFit.
+type ltfResult struct {
+	beta      []float64 // constant of the centred model, then v_ik
+	cov       *mat.SymDense
+	sigma2    float64
+	c, cSE    float64 // constant of the model in the original units
+	phi       []float64
+	noise     []float64
+	iter      int
+	converged bool
 }
 
-// arLS fits n_t = sum_{k=1..p} phi_k n_{t-k} + a_t by least squares over
-// t = p..len(e)-1 (no mean: e are regression residuals with a constant
-// in the model). A singular system gives zeros.
-func arLS(e []float64, p int) []float64 {
-	A := make([]float64, p*p)
-	rhs := make([]float64, p)
-	for t := p; t < len(e); t++ {
-		for i := 0; i < p; i++ {
-			rhs[i] += e[t-1-i] * e[t]
-			for j := 0; j < p; j++ {
-				A[i*p+j] += e[t-1-i] * e[t-1-j]
+// ltfFit runs the iterated generalised least squares of DistributedLag.
+//
+// Every quantity an iteration needs is a quadratic form in the Gram
+// matrix M = E'E of one extended design E, built once: rows t = K+p..n-1,
+// columns the constant, y at lags 0..p and every x_i at lags 0..K+p (all
+// centred by their means). With c_0 = 1, c_q = -phi_q, the filtered
+// regressor phi(B) x_i,t-k is sum_q c_q x_i,t-k-q, a fixed combination of
+// columns of E; so the filtered normal equations, the residual sum of
+// squares and the lagged products of the noise for the AR update are all
+// W'MW for small combination matrices W. An iteration then costs nothing
+// that grows with n; only M and the final noise series do.
+func ltfFit(y []float64, xs [][]float64, K, p, maxIter int) *ltfResult {
+	n, m := len(y), len(xs)
+	L := K + p
+	T0 := L
+	Q := 1 + (p + 1) + m*(L+1)
+	yIdx := func(q int) int { return 1 + q }
+	xIdx := func(i, a int) int { return 2 + p + i*(L+1) + a }
+	my := accurateSum(y) / float64(n)
+	mx := make([]float64, m)
+	for i, x := range xs {
+		mx[i] = accurateSum(x) / float64(n)
+	}
+	// Gram matrix of the centred extended design, in blocks of rows.
+	M := mat.NewSymDense(Q, nil)
+	const blk = 1024
+	eb := mat.NewDense(blk, Q, nil)
+	for t0 := T0; t0 < n; t0 += blk {
+		rb := min(blk, n-t0)
+		e := eb
+		if rb < blk {
+			e = eb.Slice(0, rb, 0, Q).(*mat.Dense)
+		}
+		for r := 0; r < rb; r++ {
+			t := t0 + r
+			row := eb.RawRowView(r)
+			row[0] = 1
+			for q := 0; q <= p; q++ {
+				row[yIdx(q)] = y[t-q] - my
+			}
+			for i, x := range xs {
+				base := xIdx(i, 0)
+				for a := 0; a <= L; a++ {
+					row[base+a] = x[t-a] - mx[i]
+				}
+			}
+		}
+		M.SymRankK(M, 1, e.T())
+	}
+	ncoef := 1 + m*(K+1)
+	rows := n - T0
+	phi := make([]float64, p)
+	beta := make([]float64, ncoef)
+	prev := make([]float64, ncoef)
+	W := mat.NewDense(Q, ncoef, nil)
+	wy := mat.NewVecDense(Q, nil)
+	var G mat.Dense
+	var MW mat.Dense
+	var h, Mwy mat.VecDense
+	res := &ltfResult{}
+	for it := 1; it <= maxIter; it++ {
+		// Combination matrices for the filter c = (1, -phi_1, ..).
+		W.Zero()
+		wy.Zero()
+		csum := 1.0
+		for q := 1; q <= p; q++ {
+			csum -= phi[q-1]
+		}
+		W.Set(0, 0, csum)
+		for q := 0; q <= p; q++ {
+			cq := 1.0
+			if q > 0 {
+				cq = -phi[q-1]
+			}
+			wy.SetVec(yIdx(q), cq)
+			for i := 0; i < m; i++ {
+				for k := 0; k <= K; k++ {
+					W.Set(xIdx(i, k+q), 1+i*(K+1)+k, cq)
+				}
+			}
+		}
+		MW.Mul(M, W)
+		G.Mul(W.T(), &MW)
+		Mwy.MulVec(M, wy)
+		h.MulVec(W.T(), &Mwy)
+		zz := mat.Dot(wy, &Mwy)
+		b, cov, ok := gramSolve(&G, &h)
+		if !ok {
+			return nil
+		}
+		copy(beta, b)
+		// SSQ = z'z - 2 b'h + b'G b.
+		bv := mat.NewVecDense(ncoef, beta)
+		var Gb mat.VecDense
+		Gb.MulVec(&G, bv)
+		ssq := zz - 2*mat.Dot(bv, &h) + mat.Dot(bv, &Gb)
+		res.cov = cov
+		res.sigma2 = math.Max(ssq, 0) / float64(rows-ncoef)
+		res.iter = it
+		if p == 0 {
+			res.converged = true
+			break
+		}
+		change, scale := 0.0, 0.0
+		for j := range beta {
+			change = math.Max(change, math.Abs(beta[j]-prev[j]))
+			scale = math.Max(scale, math.Abs(beta[j]))
+		}
+		if it > 1 && change <= 1e-10*math.Max(scale, 1e-300) {
+			res.converged = true
+			break
+		}
+		copy(prev, beta)
+		// AR update: products of the unfiltered noise at lags q, r in
+		// 0..p over the same rows, n_{t-q} = w_q' E_t.
+		wn := make([]*mat.VecDense, p+1)
+		for q := 0; q <= p; q++ {
+			v := mat.NewVecDense(Q, nil)
+			v.SetVec(0, -beta[0])
+			v.SetVec(yIdx(q), 1)
+			for i := 0; i < m; i++ {
+				for k := 0; k <= K; k++ {
+					v.SetVec(xIdx(i, k+q), -beta[1+i*(K+1)+k])
+				}
+			}
+			wn[q] = v
+		}
+		A := make([]float64, p*p)
+		rhs := make([]float64, p)
+		var Mv mat.VecDense
+		for q := 0; q <= p; q++ {
+			Mv.MulVec(M, wn[q])
+			for r := 1; r <= p; r++ {
+				sqr := mat.Dot(wn[r], &Mv)
+				if q == 0 {
+					rhs[r-1] = sqr
+				} else {
+					A[(q-1)*p+(r-1)] = sqr
+				}
+			}
+		}
+		if ph, ok := solveSmall(A, rhs, p); ok {
+			phi = ph
+		} else {
+			phi = make([]float64, p)
+		}
+	}
+	res.beta = beta
+	res.phi = phi
+	// The constant in original units: y - my = c~ + sum v (x - mx).
+	g := make([]float64, ncoef)
+	g[0] = 1
+	c := my + beta[0]
+	for i := 0; i < m; i++ {
+		for k := 0; k <= K; k++ {
+			j := 1 + i*(K+1) + k
+			c -= beta[j] * mx[i]
+			g[j] = -mx[i]
+		}
+	}
+	res.c = c
+	gv := mat.NewVecDense(ncoef, g)
+	var Cg mat.VecDense
+	Cg.MulVec(res.cov, gv)
+	res.cSE = math.Sqrt(res.sigma2 * math.Max(mat.Dot(gv, &Cg), 0))
+	// The preliminary noise series.
+	noise := make([]float64, n)
+	for t := 0; t < K; t++ {
+		noise[t] = math.NaN()
+	}
+	for t := K; t < n; t++ {
+		noise[t] = y[t] - c
+	}
+	for i, x := range xs {
+		for k := 0; k <= K; k++ {
+			v := beta[1+i*(K+1)+k]
+			dst := noise[K:]
+			src := x[K-k : n-k]
+			for t := range dst {
+				dst[t] -= v * src[t]
 			}
 		}
 	}
-	phi, ok := solveSmall(A, rhs, p)
-	if !ok {
-		return make([]float64, p)
-	}
-	return phi
+	res.noise = noise
+	return res
 }
+
+// gramSolve solves the normal equations G b = h by a Cholesky
+// factorisation of the diagonally scaled G and returns b and G^-1; ok is
+// false when G is (numerically) singular.
+func gramSolve(G *mat.Dense, h *mat.VecDense) (b []float64, inv *mat.SymDense, ok bool) {
+	n, _ := G.Dims()
+	sc := make([]float64, n)
+	for j := 0; j < n; j++ {
+		d := G.At(j, j)
+		if !(d > 0) {
+			return nil, nil, false
+		}
+		sc[j] = 1 / math.Sqrt(d)
+	}
+	S := mat.NewSymDense(n, nil)
+	for i := 0; i < n; i++ {
+		for j := i; j < n; j++ {
+			S.SetSym(i, j, 0.5*(G.At(i, j)+G.At(j, i))*sc[i]*sc[j])
+		}
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(S) || ch.Cond() > 1e12 {
+		return nil, nil, false
+	}
+	hs := mat.NewVecDense(n, nil)
+	for j := 0; j < n; j++ {
+		hs.SetVec(j, h.AtVec(j)*sc[j])
+	}
+	var bs mat.VecDense
+	if err := ch.SolveVecTo(&bs, hs); err != nil {
+		return nil, nil, false
+	}
+	var si mat.SymDense
+	if err := ch.InverseTo(&si); err != nil {
+		return nil, nil, false
+	}
+	b = make([]float64, n)
+	for j := range b {
+		b[j] = bs.AtVec(j) * sc[j]
+	}
+	inv = mat.NewSymDense(n, nil)
+	for i := 0; i < n; i++ {
+		for j := i; j < n; j++ {
+			inv.SetSym(i, j, si.At(i, j)*sc[i]*sc[j])
+		}
+	}
+	return b, inv, true
+}
+
