@@ -403,4 +403,3 @@ func gramSolve(G *mat.Dense, h *mat.VecDense) (b []float64, inv *mat.SymDense, o
 	}
 	return b, inv, true
 }
-
