@@ -136,6 +136,31 @@ func runSparse(dst, b, a, x, xHist, yHist []float64) uint64 {
 		acc |= finiteBits(x[t])
 	}
 	x = x[:len(dst)]
+	if len(ak) > 0 && ak[len(ak)-1] == 1 && m >= 1 && m < n {
+		// The y_{t-1} term comes last: keep y_{t-1} in a register rather
+		// than reading back the value just stored (a store-to-load delay
+		// on the recursion).
+		c1 := ac[len(ac)-1]
+		ak, ac = ak[:len(ak)-1], ac[:len(ac)-1]
+		y1 := dst[m-1]
+		for t := m; t < n; t++ {
+			s := 0.0
+			for j, k := range bk {
+				s += bc[j] * x[t-k]
+			}
+			for j, k := range ak {
+				s -= ac[j] * dst[t-k]
+			}
+			s -= c1 * y1
+			if a0 != 1 {
+				s /= a0
+			}
+			dst[t] = s
+			y1 = s
+			acc |= finiteBits(x[t])
+		}
+		return acc
+	}
 	for t := m; t < n; t++ {
 		s := 0.0
 		for j, k := range bk {
