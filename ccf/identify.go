@@ -78,7 +78,9 @@ type Candidate struct {
 	// Num is omega(B), Den is delta(B) (Den[0] = 1), ascending powers of
 	// B, signs as stored, fitted to the weights.
 	Num, Den []float64
-	// Chi2 is sum_k ((v_k - vhat_k)/se_k)^2 over lags b..K, Score is
+	// Chi2 is sum_k ((v_k - vhat_k)/se_k)^2 over lags b..K (the
+	// generalised sum with the weights' correlations when Weights.Cov is
+	// set), Score is
 	// Chi2 plus Penalty times the number of coefficients (R+S+1).
 	Chi2, Score float64
 	// Corner reports whether the corner method points to these orders.
@@ -96,6 +98,12 @@ type Candidate struct {
 	// in each describes the same weights. Identify ranks redundant forms
 	// after all others.
 	Redundant bool
+	// TooSlow reports a pole so slow that its weights decay by less than
+	// half over the fitted lags (|z|^m > 0.5 for m = K-b+1 weights): the
+	// window cannot determine it, and such forms often stand in for a
+	// level offset or correlated errors. Identify ranks them after the
+	// others; lengthen the window (more lags) to consider slow poles.
+	TooSlow bool
 	// Pattern names the shape of the fitted weights after the first S
 	// lags: "cut-off" (R = 0), "exponential decay" or "alternating decay"
 	// (one real pole z = -Den[1], positive or negative), "two-pole decay"
@@ -192,9 +200,15 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if id.Corner != nil {
 		id.CornerR, id.CornerS = id.Corner.pick(b, maxR, maxS)
 	}
+	var corr func(i, j int) float64
+	if w.Cov != nil {
+		if n, _ := w.Cov.Dims(); n == len(w.V) {
+			corr = func(i, j int) float64 { return w.Cov.At(i, j) / (w.SE[i] * w.SE[j]) }
+		}
+	}
 	for r := 0; r <= maxR; r++ {
 		for sd := 0; sd <= maxS; sd++ {
-			f := fitRational(v, w.SE, b, r, sd)
+			f := fitRational(v, w.SE, corr, b, r, sd)
 			if f.num == nil {
 				continue
 			}
@@ -203,13 +217,14 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 			c.Term, c.Names, c.Starts = termText(series, set.Prefix, b, c.Num, c.Den)
 			c.Pattern = pattern(c.Den)
 			c.Redundant = nearCancel(c.Num, c.Den, 0.05)
+			c.TooSlow = tooSlow(c.Den, len(v)-b)
 			id.Candidates = append(id.Candidates, c)
 		}
 	}
 	sort.SliceStable(id.Candidates, func(i, j int) bool {
 		a, c := id.Candidates[i], id.Candidates[j]
-		if a.Redundant != c.Redundant {
-			return !a.Redundant
+		if ra, rc := a.Redundant || a.TooSlow, c.Redundant || c.TooSlow; ra != rc {
+			return !ra
 		}
 		if a.Score != c.Score {
 			return a.Score < c.Score
@@ -318,6 +333,23 @@ func nearCancel(num, den []float64, tol float64) bool {
 			if cmplx.Abs(z-p) < tol {
 				return true
 			}
+		}
+	}
+	return false
+}
+
+// tooSlow reports whether a z-plane pole of den(B) has |z|^m > 0.5.
+func tooSlow(den []float64, m int) bool {
+	if len(den) < 2 {
+		return false
+	}
+	ps, err := poly.Roots(poly.Reciprocal(den))
+	if err != nil {
+		return false
+	}
+	for _, p := range ps {
+		if math.Pow(cmplx.Abs(p), float64(m)) > 0.5 {
+			return true
 		}
 	}
 	return false

@@ -156,9 +156,8 @@ func TestNearCancel(t *testing.T) {
 	if nearCancel([]float64{1, 0.7}, []float64{1, -0.6}, 0.05) {
 		t.Error("zero -0.7 and pole 0.6 flagged")
 	}
-	// A complex pole pair 0.5 +- 0.5i against a zero at 0.52 + 0.49i is
-	// not real-valued; a numerator (1 - 1.02 B + 0.5105 B^2) has zeros
-	// 0.51 +- 0.5i, within 0.05 of the poles of (1 - B + 0.5 B^2).
+	// The numerator 1 - 1.02 B + 0.5101 B^2 has zeros 0.51 +- 0.5i, within
+	// 0.05 of the poles 0.5 +- 0.5i of 1 - B + 0.5 B^2.
 	if !nearCancel([]float64{1, -1.02, 0.5101}, []float64{1, -1, 0.5}, 0.05) {
 		t.Error("complex pair not flagged")
 	}

@@ -146,11 +146,15 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 		res.AR[k] = -f.phi[k-1]
 	}
 	for i := range xs {
-		w := &Weights{Input: names[i], V: make([]float64, K+1), SE: make([]float64, K+1), N: rows}
+		w := &Weights{Input: names[i], V: make([]float64, K+1), SE: make([]float64, K+1), N: rows,
+			Cov: mat.NewSymDense(K+1, nil)}
 		for k := 0; k <= K; k++ {
 			j := 1 + i*(K+1) + k
 			w.V[k] = f.beta[j]
 			w.SE[k] = math.Sqrt(f.sigma2 * f.cov.At(j, j))
+			for l := k; l <= K; l++ {
+				w.Cov.SetSym(k, l, f.sigma2*f.cov.At(j, 1+i*(K+1)+l))
+			}
 		}
 		res.Weights = append(res.Weights, w)
 	}

@@ -54,7 +54,11 @@ func stableDen(den []float64) bool {
 // fitRational fits B^b omega(B)/delta(B) with deg omega = s, deg delta = r
 // to v[b..] by weighted least squares (weights 1/se^2), starting from the
 // linear solution of the weight recursion, refined by Levenberg-Marquardt.
-func fitRational(v, se []float64, b, r, s int) ratFit {
+//
+// corr, when not nil, gives the correlation of the errors of v_i and v_j;
+// the sum of squares is then the generalised one, r' R^-1 r with r the
+// standardised residuals over lags b..K.
+func fitRational(v, se []float64, corr func(i, j int) float64, b, r, s int) ratFit {
 	m := len(v) - b // weights fitted
 	if m < r+s+1 {
 		return ratFit{chi2: math.Inf(1)}
@@ -74,6 +78,7 @@ func fitRational(v, se []float64, b, r, s int) ratFit {
 			x0[s+i] = 0
 		}
 	}
+	wh := newWhitener(corr, b, m)
 	vh := make([]float64, m)
 	g := make([]float64, m)
 	nb := make([]float64, s+1)
@@ -89,9 +94,15 @@ func fitRational(v, se []float64, b, r, s int) ratFit {
 		for k := range res {
 			res[k] = (w[k] - vh[k]) / sw[k]
 		}
+		wh.apply(res)
 		if jac == nil {
 			return nil
 		}
+		defer func() {
+			for _, col := range jac {
+				wh.apply(col)
+			}
+		}()
 		// d vhat / d omega_j = B^j / delta, impulse; g = 1/delta impulse.
 		ratImpulse(g, []float64{1}, db)
 		for j := 0; j <= s; j++ {
@@ -135,9 +146,13 @@ func fitRational(v, se []float64, b, r, s int) ratFit {
 		return fit
 	}
 	ratImpulse(vh, fit.num, fit.den)
+	d := make([]float64, m)
 	for k := range w {
-		d := (w[k] - vh[k]) / sw[k]
-		fit.chi2 += d * d
+		d[k] = (w[k] - vh[k]) / sw[k]
+	}
+	wh.apply(d)
+	for _, v := range d {
+		fit.chi2 += v * v
 	}
 	fit.ok = true
 	return fit
@@ -236,4 +251,53 @@ func solveSmall(A, b []float64, n int) (x []float64, ok bool) {
 		}
 	}
 	return x, true
+}
+
+// whitener applies L^-1, L the Cholesky factor of the correlation matrix
+// R_ij = corr(off+i, off+j) of the weight errors (i, j < m), so that
+// correlated errors count once in the sum of squares. A nil corr, or one
+// whose matrix is not positive definite, gives the identity.
+type whitener struct {
+	m int
+	l []float64 // row-major lower triangle, nil for the identity
+}
+
+func newWhitener(corr func(i, j int) float64, off, m int) whitener {
+	if corr == nil {
+		return whitener{m: m}
+	}
+	l := make([]float64, m*m)
+	for i := 0; i < m; i++ {
+		for j := 0; j <= i; j++ {
+			s := corr(off+i, off+j)
+			for k := 0; k < j; k++ {
+				s -= l[i*m+k] * l[j*m+k]
+			}
+			if i == j {
+				if !(s > 1e-12) {
+					return whitener{m: m}
+				}
+				l[i*m+i] = math.Sqrt(s)
+			} else {
+				l[i*m+j] = s / l[j*m+j]
+			}
+		}
+	}
+	return whitener{m: m, l: l}
+}
+
+// apply overwrites v with L^-1 v (forward substitution).
+func (w whitener) apply(v []float64) {
+	if w.l == nil {
+		return
+	}
+	m := w.m
+	for i := 0; i < m; i++ {
+		s := v[i]
+		row := w.l[i*m : i*m+i]
+		for k, lk := range row {
+			s -= lk * v[k]
+		}
+		v[i] = s / w.l[i*m+i]
+	}
 }

@@ -45,6 +45,9 @@ func (id *Identification) String() string {
 		if c.Redundant {
 			mark += "  (zero-pole pair cancels)"
 		}
+		if c.TooSlow {
+			mark += "  (pole too slow for the lags)"
+		}
 		fmt.Fprintf(&sb, "  %4d  (%d,%d,%d)  %7.2f  %s  [%s]%s\n", i+1, c.Delay, c.R, c.S, c.Score, c.Term, c.Pattern, mark)
 	}
 	return sb.String()

@@ -3,6 +3,8 @@ package ccf
 import (
 	"math"
 	"strconv"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // Weights are impulse-response weight estimates v_k of one input, for
@@ -18,6 +20,11 @@ type Weights struct {
 	// Corr is the cross-correlation of the prewhitened series the
 	// weights come from (nil for weights from DistributedLag).
 	Corr *Correlation
+	// Cov, when not nil, is the covariance matrix of V (lags 0..K), as
+	// from DistributedLag, whose weights of neighbouring lags are
+	// correlated; Identify then fits the forms by generalised least
+	// squares. Nil means independent errors with standard errors SE.
+	Cov *mat.SymDense
 	// Feedback lists the negative lags at which the prewhitened
 	// cross-correlation is significant at the 95 % level: the output
 	// appears to lead the input there, which hints at feedback (closed
