@@ -62,7 +62,8 @@ type Identification struct {
 	Offset float64
 	// Weights are the weights used.
 	Weights *Weights
-	// Candidates are the fitted forms, best (lowest Score) first.
+	// Candidates are the fitted forms, best first: by increasing Score,
+	// except that Redundant and TooSlow forms come after all others.
 	Candidates []Candidate
 	// Corner is the corner-method table of the weights (nil when there
 	// are too few lags), and CornerR, CornerS the orders it points to
@@ -80,8 +81,8 @@ type Candidate struct {
 	Num, Den []float64
 	// Chi2 is sum_k ((v_k - vhat_k)/se_k)^2 over lags b..K (the
 	// generalised sum with the weights' correlations when Weights.Cov is
-	// set), Score is
-	// Chi2 plus Penalty times the number of coefficients (R+S+1).
+	// set); Score is Chi2 plus Penalty times the number of coefficients
+	// (R+S+1), an information criterion of the AIC kind.
 	Chi2, Score float64
 	// Corner reports whether the corner method points to these orders.
 	Corner bool
