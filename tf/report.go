@@ -72,7 +72,11 @@ func (e *Estimate) String() string {
 		fmt.Fprintf(&b, "    zeros (z): %s\n", fitRoots(zeros))
 		if r, err := in.Rational(); err == nil {
 			if g, err := r.Gain(); err == nil {
-				fmt.Fprintf(&b, "    steady-state gain of the (differenced) input term: %s\n", fitNum(g, 4))
+				if in.Diff.IsOne() {
+					fmt.Fprintf(&b, "    steady-state gain: %s\n", fitNum(g, 4))
+				} else {
+					fmt.Fprintf(&b, "    steady-state gain on the differenced input: %s\n", fitNum(g, 4))
+				}
 			} else {
 				fmt.Fprintf(&b, "    steady-state gain: none (%v)\n", err)
 			}
