@@ -26,8 +26,12 @@ func (c *CornerTable) Zero(f, g int) bool { return math.Abs(c.T[f][g-1]) < c.Z }
 
 // Corner computes the corner table of w for rows f = 0..rows-1 and
 // columns g = 1..cols. Rows are cut to those for which every weight
-// needed (up to lag f+g-1) exists. It returns nil when no row fits.
+// needed (up to lag f+g-1) exists. It returns nil when no row fits or w
+// is nil. The weights' standard errors must be positive.
 func Corner(w *Weights, rows, cols int) *CornerTable {
+	if w == nil || len(w.SE) != len(w.V) {
+		return nil
+	}
 	K := len(w.V) - 1
 	rows = min(rows, K-cols+2)
 	if rows <= 0 || cols <= 0 {

@@ -165,3 +165,17 @@ func TestNearCancel(t *testing.T) {
 		t.Error("a constant numerator has no zeros")
 	}
 }
+
+func TestCornerEdges(t *testing.T) {
+	if Corner(nil, 5, 3) != nil {
+		t.Error("nil weights")
+	}
+	if Corner(&Weights{V: []float64{1}, SE: []float64{1}}, 5, 3) != nil {
+		t.Error("one weight cannot fill a 3-column table")
+	}
+	// Identify with the response at the last lag: only (0,0) fits.
+	id, err := Identify(&Weights{V: []float64{0, 0, 0, 5}, SE: []float64{0.1, 0.1, 0.1, 0.1}}, nil)
+	if err != nil || id.DeadTime != 3 || len(id.Candidates) != 1 || id.Candidates[0].Term != "w0 B^3 x" {
+		t.Errorf("response at the last lag: %+v, %v", id, err)
+	}
+}
