@@ -187,3 +187,9 @@ func (m Model) validate() error {
 	}
 	return nil
 }
+
+// Constant returns c = phi(1) Phi(1) Mean, the constant of the
+// difference-equation form phi(B)Phi(B^s) w_t = c + theta(B)Theta(B^s) a_t.
+func (m Model) Constant() float64 {
+	return poly.EvalReal(m.ARPoly(), 1) * m.Mean
+}

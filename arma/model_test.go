@@ -172,3 +172,11 @@ func TestSchurStable(t *testing.T) {
 		}
 	}
 }
+
+func TestModelConstant(t *testing.T) {
+	m := Model{AR: []float64{0.5}, SAR: []float64{0.2}, Period: 4, Mean: 10}
+	// (1 - 0.5)(1 - 0.2) * 10 = 4
+	if c := m.Constant(); math.Abs(c-4) > 1e-12 {
+		t.Errorf("Constant = %v, want 4", c)
+	}
+}
