@@ -317,36 +317,68 @@ func (f Filter) Apply(y []float64, name string) (out []float64, start int, err e
 	if len(y) < start+2 {
 		return nil, 0, &ShortError{Name: name, Len: len(y), Need: start + 2, Why: "for the prewhitening filter"}
 	}
+	// out holds w = D(B) y from index d, then phi(B)(w - mean) in place,
+	// computed from the end backwards so that every w_{t-k} is still
+	// unfiltered when it is read.
 	d := len(f.Diff) - 1
-	w := applyFIR(y, f.Diff)
-	m := 0.0
-	for _, v := range w[d:] {
-		m += v
-	}
-	m /= float64(len(w) - d)
-	e := 0.0
-	for _, v := range w[d:] {
-		e += v - m
-	}
-	m += e / float64(len(w)-d)
 	out = make([]float64, len(y))
+	if d == 0 {
+		copy(out, y)
+	} else {
+		for t := d; t < len(y); t++ {
+			v := y[t]
+			for k := 1; k <= d; k++ {
+				v += f.Diff[k] * y[t-k]
+			}
+			out[t] = v
+		}
+	}
+	w := out[d:]
+	m := meanOf(w)
+	p := len(f.AR) - 1
+	ar := f.AR
+	// phi(B)(w_t - m) = phi(B) w_t - m phi(1).
+	shift := 0.0
+	for _, a := range ar {
+		shift += a
+	}
+	shift *= m
+	for t := len(w) - 1; t >= p; t-- {
+		v := w[t] - shift
+		h := w[t-p : t : t]
+		for k, a := range ar[1:] {
+			v += a * h[p-1-k]
+		}
+		w[t] = v
+	}
 	for t := 0; t < start; t++ {
 		out[t] = math.NaN()
 	}
-	p := len(f.AR) - 1
-	ar := f.AR
-	src := w[d:]
 	dst := out[start:]
-	for i := range dst {
-		t := i + p // index in src
-		s := src[t] - m
-		for k := 1; k <= p; k++ {
-			s += ar[k] * (src[t-k] - m)
-		}
-		dst[i] = s
-	}
 	if len(f.MA) > 1 {
 		filter.Run(dst, []float64{1}, f.MA, dst)
 	}
 	return out, start, nil
+}
+
+// meanOf returns the mean of x with a correction pass (accurate for
+// series with a large offset), four accumulators each.
+func meanOf(x []float64) float64 {
+	sum := func(x []float64, c float64) float64 {
+		var s0, s1, s2, s3 float64
+		i := 0
+		for ; i+4 <= len(x); i += 4 {
+			s0 += x[i] - c
+			s1 += x[i+1] - c
+			s2 += x[i+2] - c
+			s3 += x[i+3] - c
+		}
+		for ; i < len(x); i++ {
+			s0 += x[i] - c
+		}
+		return (s0 + s1) + (s2 + s3)
+	}
+	n := float64(len(x))
+	m := sum(x, 0) / n
+	return m + sum(x, m)/n
 }
