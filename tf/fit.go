@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"sync"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/filter"
@@ -29,12 +30,13 @@ type FitSettings struct {
 	First int
 	// Tol stops the optimiser when an accepted step (and the full
 	// Gauss-Newton step) reduce the sum of squares by less than Tol
-	// relative. Zero means 1e-14 N clamped to [1e-14, 1e-9] for N
-	// residuals. The excess of the sum of squares over its minimum before
-	// the last step is then below Tol SSQ, that is the estimates are
-	// within sqrt(Tol N) standard errors of the minimum (at most 0.03
-	// for N = 10^6), and the last Gauss-Newton step reduces that by
-	// orders of magnitude.
+	// relative. Zero means 1e-14 (near the rounding floor of the sum)
+	// up to N = 10^4 residuals, rising as (N/10^4)^5 to 1e-9 at N = 10^5
+	// and beyond. The excess of the sum of squares over its minimum
+	// before the last step is then below Tol SSQ, that is the estimates
+	// are within sqrt(Tol N) standard errors of the minimum (1e-5 at
+	// N = 10^4, 0.03 at N = 10^6), and the last Gauss-Newton step reduces
+	// that by orders of magnitude.
 	Tol float64
 	// ZeroPreSample takes inputs without differencing as zero before
 	// their first sample instead of held at it (see Fit), the textbook
@@ -220,6 +222,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 		return nil, err
 	}
 	e, err := w.run(ctx, set)
+	w.release()
 	if err != nil || !set.Settle || !e.Converged {
 		return e, err
 	}
@@ -238,6 +241,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 		return e, nil
 	}
 	e2, err := w2.run(ctx, s2)
+	w2.release()
 	if err != nil {
 		return e, nil
 	}
@@ -301,6 +305,7 @@ type fitWork struct {
 	maD     [][]float64
 	nn, a   []float64
 	scratch []float64
+	slab    *fitSlab
 }
 
 var fitOne = []float64{1}
@@ -440,32 +445,86 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			Detail: "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"}
 	}
 	w.n = n
+	// All work series come from one slab, recycled between fits (see
+	// fitSlab); what the evaluations rely on being zero is cleared here.
+	size := 3 * n
+	for i := range w.ins {
+		fi := &w.ins[i]
+		ext := fi.in.Num.Degree() + fi.in.Den.Degree()
+		size += 4*n + nres + ext
+		if fi.denFree {
+			size += n + nres + ext
+		}
+	}
+	w.slab = fitGetSlab(size)
+	buf := w.slab.buf
+	take := func(m int) []float64 {
+		out := buf[:m:m]
+		buf = buf[m:]
+		return out
+	}
 	// Differenced series (fixed), zero before the differencing degree.
-	w.w = fitDiff(y, dc)
+	w.w = fitDiffTo(take(n), y, dc)
 	w.y = y
 	for i := range w.ins {
 		fi := &w.ins[i]
 		fi.x = data[fi.in.Series]
-		fi.z = fitDiff(fi.x, fi.in.Diff.Coeffs())
-		fi.zc = make([]float64, n)
+		fi.z = fitDiffTo(take(n), fi.x, fi.in.Diff.Coeffs())
+		fi.zc = take(n)
 		if !set.ZeroPreSample && fi.d == 0 && n > 0 {
 			fi.z0 = fi.z[fi.d]
 		}
+		clear(fi.zc[:min(fi.d, n)])
 		for t := fi.d; t < n; t++ {
 			fi.zc[t] = fi.z[t] - fi.z0
 		}
-		fi.s = make([]float64, n)
-		fi.u = make([]float64, n)
+		fi.s = take(n)
+		fi.u = take(n)
 		ext := fi.in.Num.Degree() + fi.in.Den.Degree()
-		fi.e = make([]float64, nres+ext)
+		fi.e = take(nres + ext)
 		if fi.denFree {
-			fi.q = make([]float64, n)
-			fi.f = make([]float64, nres+ext)
+			fi.q = take(n)
+			fi.f = take(nres + ext)
 		}
 	}
-	w.nn = make([]float64, n)
-	w.a = make([]float64, n)
+	w.nn = take(n)
+	w.a = take(n)
+	clear(w.a[:t0])
 	return w, nil
+}
+
+// fitSlab is the backing store of a fit's work series. Fit returns its
+// slab to fitSlabs when the Estimate no longer refers to it, so that
+// repeated fits (many series, many candidate models) reuse the memory
+// instead of allocating and clearing it again.
+type fitSlab struct{ buf []float64 }
+
+var fitSlabs sync.Pool
+
+// fitGetSlab returns a slab of m values (contents undefined).
+func fitGetSlab(m int) *fitSlab {
+	if s, ok := fitSlabs.Get().(*fitSlab); ok {
+		if cap(s.buf) >= m && cap(s.buf) <= 2*m+1024 {
+			s.buf = s.buf[:m]
+			return s
+		}
+		fitSlabs.Put(s)
+	}
+	return &fitSlab{buf: make([]float64, m)}
+}
+
+// release returns the work series to the pool; w must not be used
+// afterwards.
+func (w *fitWork) release() {
+	if w.slab != nil {
+		fitSlabs.Put(w.slab)
+		w.slab = nil
+		w.w, w.nn, w.a = nil, nil, nil
+		for i := range w.ins {
+			fi := &w.ins[i]
+			fi.z, fi.zc, fi.s, fi.u, fi.q, fi.e, fi.f = nil, nil, nil, nil, nil, nil, nil
+		}
+	}
 }
 
 // fitCheckConst reports a zero constant term in a denominator or noise
@@ -496,8 +555,14 @@ func fitCheckConst(m Model) error {
 // fitDiff returns D(B) x over the full length with zeros before index
 // deg D.
 func fitDiff(x, dc []float64) []float64 {
-	out := make([]float64, len(x))
+	return fitDiffTo(make([]float64, len(x)), x, dc)
+}
+
+// fitDiffTo writes D(B) x into out (len(x)), zeros before index deg D,
+// and returns out.
+func fitDiffTo(out, x, dc []float64) []float64 {
 	d := len(dc) - 1
+	clear(out[:min(d, len(x))])
 	for t := d; t < len(x); t++ {
 		s := 0.0
 		for k, c := range dc {
@@ -759,7 +824,9 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		auto := w.cond.NoiseStart + w.ar.Degree()
 		sub := w.window(max(fitStageWindow, fitStagePerParam*len(w.names)) + auto)
 		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
-			if best, start, tried, err := ws.search(ctx, set, maxIter); err == nil {
+			best, start, tried, err := ws.search(ctx, set, maxIter)
+			ws.release()
+			if err == nil {
 				res, err := lm.Minimize(ctx, w.problem(), best.X, w.lmSettings(set, maxIter))
 				if err == nil {
 					return w.estimate(&res, start, tried), nil
@@ -787,7 +854,8 @@ func (w *fitWork) window(m int) map[string][]float64 {
 func (w *fitWork) lmSettings(set FitSettings, maxIter int) *lm.Settings {
 	tol := set.Tol
 	if tol <= 0 {
-		tol = min(max(1e-14*float64(w.n-w.cond.First), 1e-14), 1e-9)
+		r := float64(w.n-w.cond.First) / 1e4
+		tol = min(max(1e-14*r*r*r*r*r, 1e-14), 1e-9)
 	}
 	return &lm.Settings{MaxIter: maxIter, FTol: tol}
 }
