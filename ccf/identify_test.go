@@ -179,3 +179,41 @@ func TestCornerEdges(t *testing.T) {
 		t.Errorf("response at the last lag: %+v, %v", id, err)
 	}
 }
+
+// TestNegativeLagLevel: a prewhitened cross-correlation that sits at
+// -0.1 at every lag before the response at lag 4 (a common level left by
+// incomplete prewhitening, n = 1000, band 0.062). Without removing that
+// level, lag 0 would pass the dead-time rule; Identify measures the
+// weights from the negative-lag median and finds lag 4.
+func TestNegativeLagLevel(t *testing.T) {
+	const n, K = 1000, 12
+	c := &Correlation{N: n, MaxLag: K, R: make([]float64, 2*K+1), SDX: 1, SDY: 2}
+	for k := -K; k <= K; k++ {
+		r := -0.1
+		if k >= 4 {
+			r += 0.5 * math.Pow(0.6, float64(k-4))
+		}
+		c.R[K+k] = r
+	}
+	w := &Weights{Input: "valve", V: make([]float64, K+1), SE: make([]float64, K+1), N: n, Corr: c}
+	for k := 0; k <= K; k++ {
+		w.V[k] = c.At(k) * 2
+		w.SE[k] = 2 / math.Sqrt(n)
+	}
+	id, err := Identify(w, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if id.DeadTime != 4 || math.Abs(id.Offset+0.2) > 1e-12 {
+		t.Errorf("dead time %d, offset %g; want 4 and -0.2 (-0.1 times s_y/s_x = 2)", id.DeadTime, id.Offset)
+	}
+	if c := id.Candidates[0]; c.R != 1 || c.S != 0 || math.Abs(c.Den[1]+0.6) > 1e-6 {
+		t.Errorf("top form r=%d s=%d den %v, want 1 - 0.6 B", c.R, c.S, c.Den)
+	}
+	// The same weights without the cross-correlation (no negative lags to
+	// read the level from) give the wrong dead time.
+	w.Corr = nil
+	if id, err := Identify(w, nil); err != nil || id.DeadTime != 0 {
+		t.Errorf("without the level: dead time %v, %v; want the misleading 0", id, err)
+	}
+}
