@@ -9,8 +9,8 @@
 # The script simulates each series in R (arima.sim, set.seed(1), ar = c(0.6, -0.3), ma = 0.4,
 # mean 10), writes it to a temporary CSV file, times arima(x, order = c(2, 0, 1),
 # method = "CSS") with R's default optimiser settings (what users get), then runs
-#     BACKSHIFT_ARMA_PEER=<files> go test ./arma -run TestPeerTiming -count=1 -v
-# which fits the same files with arma.Fit(Order{P: 2, Q: 1}) (mean estimated, the same
+#     go run ./testdata/peer/armapeer <files>
+# (a small program, not a test: timings are no business of go test), which fits the same files with arma.Fit(Order{P: 2, Q: 1}) (mean estimated, the same
 # conditioning as R: residuals from index p with zero pre-sample innovations) and prints
 # the best of three wall-clock times and the sum of squares. It prints both times, the
 # ratio R/Go and both sums of squares. Machine load from other processes affects both.
@@ -29,8 +29,7 @@ for (n in sizes) {
   rt <- c(rt, tm)
   rssq <- c(rssq, sum(residuals(fit)^2))
 }
-Sys.setenv(BACKSHIFT_ARMA_PEER = paste(files, collapse = ","))
-out <- system2("go", c("test", "./arma", "-run", "TestPeerTiming", "-count=1", "-v"), stdout = TRUE)
+out <- system2("go", c("run", "./testdata/peer/armapeer", files), stdout = TRUE)
 go <- grep("^PEER ", trimws(out), value = TRUE)
 if (length(go) != length(sizes)) { cat(out, sep = "\n"); stop("go side failed") }
 cat(sprintf("%-9s %10s %10s %8s %22s %22s\n", "n", "R (s)", "Go (s)", "R/Go", "SSQ R", "SSQ Go"))
