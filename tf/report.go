@@ -113,7 +113,7 @@ func (d *Diagnostics) String() string {
 	var big []string
 	for k, v := range r.ACF {
 		if math.Abs(v) > r.Band {
-			big = append(big, fmt.Sprintf("%d (%s)", k+1, fitFixed(v, 2)))
+			big = append(big, fmt.Sprintf("%d (%s)", k+1, fitFixed(v, 3)))
 		}
 	}
 	if len(big) > 0 {
@@ -125,7 +125,7 @@ func (d *Diagnostics) String() string {
 		big = big[:0]
 		for k, v := range c.CCF {
 			if math.Abs(v) > c.Band {
-				big = append(big, fmt.Sprintf("%d (%s)", k, fitFixed(v, 2)))
+				big = append(big, fmt.Sprintf("%d (%s)", k, fitFixed(v, 3)))
 			}
 		}
 		if len(big) > 0 {
