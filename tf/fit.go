@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"runtime"
 	"sort"
 	"strconv"
 	"sync"
@@ -289,23 +290,24 @@ type fitInput struct {
 
 // fitWork is the working state of one fit; nothing in it is shared.
 type fitWork struct {
-	m       Model // working clone whose coefficient values are set per evaluation
-	names   []string
-	coefs   [][]*Coef
-	index   map[string]int
-	n       int
-	y       []float64 // the output as given (not modified)
-	cond    Conditioning
-	w       []float64
-	ins     []fitInput
-	ar, ma  Poly
-	arC     []float64
-	maC     []float64
-	arD     [][]float64
-	maD     [][]float64
-	nn, a   []float64
-	scratch []float64
-	slab    *fitSlab
+	m        Model // working clone whose coefficient values are set per evaluation
+	names    []string
+	coefs    [][]*Coef
+	index    map[string]int
+	n        int
+	y        []float64 // the output as given (not modified)
+	cond     Conditioning
+	w        []float64
+	ins      []fitInput
+	ar, ma   Poly
+	arC      []float64
+	maC      []float64
+	arD      [][]float64
+	maD      [][]float64
+	nn, a    []float64
+	scratch  []float64
+	scratch2 []float64
+	slab     *fitSlab
 }
 
 var fitOne = []float64{1}
@@ -717,11 +719,40 @@ func (w *fitWork) jacobian(jac [][]float64) {
 	for _, v := range w.arC {
 		phi1 += v
 	}
-	for k := range jac {
+	if len(jac) >= 4 && len(jac[0]) >= fitParMin && runtime.GOMAXPROCS(0) > 1 {
+		// Long series: the columns are independent; compute the second
+		// half on another goroutine with its own scratch buffer.
+		h := len(jac) / 2
+		if cap(w.scratch2) < len(jac[0]) {
+			w.scratch2 = make([]float64, len(jac[0]))
+		}
+		var wg sync.WaitGroup
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			w.columns(jac, h, len(jac), maOne, phi1, w.scratch2[:len(jac[0])])
+		}()
+		w.columns(jac, 0, h, maOne, phi1, w.scratchN(len(jac[0])))
+		wg.Wait()
+		return
+	}
+	w.columns(jac, 0, len(jac), maOne, phi1, w.scratchN(len(jac[0])))
+}
+
+// fitParMin is the residual count from which the Jacobian columns are
+// computed on two goroutines.
+const fitParMin = 50000
+
+// columns fills the Jacobian columns lo..hi-1; scratch (len N) holds the
+// moving-average bracket when theta(B) is not 1. It only reads shared
+// state, so that disjoint column ranges may run concurrently.
+func (w *fitWork) columns(jac [][]float64, lo, hi int, maOne bool, phi1 float64, scratch []float64) {
+	t0 := w.cond.First
+	for k := lo; k < hi; k++ {
 		col := jac[k]
 		dst := col
 		if !maOne {
-			dst = w.scratchN(len(col))
+			dst = scratch
 		}
 		first := true
 		// kappa is the constant part of d n_t: -1 for the constant and,

@@ -1,0 +1,47 @@
+package tf
+
+import (
+	"context"
+	"testing"
+)
+
+// TestFitParallelColumns fits a series long enough for the Jacobian
+// columns to be computed on two goroutines and checks that the result
+// equals, bit for bit, an evaluation of the columns on one goroutine
+// (run it with -race to check the sharing).
+func TestFitParallelColumns(t *testing.T) {
+	data := fitBenchData(fitParMin+1000, 3)
+	w, err := fitPrepare(fitBenchModel(), data, FitSettings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}
+	m := w.n - w.cond.First
+	mk := func() [][]float64 {
+		j := make([][]float64, len(x))
+		for k := range j {
+			j[k] = make([]float64, m)
+		}
+		return j
+	}
+	r := make([]float64, m)
+	par, seq := mk(), mk()
+	if err := w.eval(x, r, par); err != nil {
+		t.Fatal(err)
+	}
+	phi1 := 0.0
+	for _, v := range w.arC {
+		phi1 += v
+	}
+	w.columns(seq, 0, len(seq), fitIsOne(w.maC), phi1, make([]float64, m))
+	for k := range par {
+		for i := range par[k] {
+			if par[k][i] != seq[k][i] {
+				t.Fatalf("column %d row %d: %v on two goroutines, %v on one", k, i, par[k][i], seq[k][i])
+			}
+		}
+	}
+	if _, err := Fit(context.Background(), fitBenchModel(), data, nil); err != nil {
+		t.Fatal(err)
+	}
+}
