@@ -196,6 +196,13 @@ type Estimate struct {
 // by one Levenberg-Marquardt run, which takes a few iterations from so
 // close a start.
 //
+// # Concurrency
+//
+// Fit may be called from many goroutines at once (for many series or
+// candidate models); fits share nothing but a pool of work buffers. For
+// N >= 50000 residuals one fit computes its Jacobian columns on two
+// goroutines when GOMAXPROCS > 1, with results identical to one.
+//
 // # Errors
 //
 // *FitError for missing, extra or unequal series, too few observations
