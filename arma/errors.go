@@ -6,9 +6,15 @@ import (
 	"strconv"
 )
 
-// DataError reports a sample that is NaN or infinite. Index is the
-// 0-based position in the series; Series names it when the caller gave a
-// name (Options.Name), and is empty otherwise.
+// MaxAbs is the largest magnitude accepted for a sample: beyond it the
+// squares and sums of squares that every correlation and fit computes
+// could overflow to +Inf (1e140 squared is 1e280, leaving room for sums
+// over 10^28 samples), and the results would be NaN without a word.
+const MaxAbs = 1e140
+
+// DataError reports a sample that is NaN, infinite or larger in magnitude
+// than MaxAbs. Index is the 0-based position in the series; Series names
+// it when the caller gave a name (Options.Name), and is empty otherwise.
 type DataError struct {
 	Series string
 	Index  int
@@ -20,6 +26,9 @@ func (e *DataError) Error() string {
 	name := e.Series
 	if name == "" {
 		name = "series"
+	}
+	if !math.IsNaN(e.Value) && !math.IsInf(e.Value, 0) {
+		return fmt.Sprintf("arma: %s sample %d is %v, beyond MaxAbs = %v", name, e.Index, e.Value, MaxAbs)
 	}
 	return fmt.Sprintf("arma: %s sample %d is %v", name, e.Index, e.Value)
 }
@@ -72,21 +81,29 @@ func (e *ArgError) Error() string { return fmt.Sprintf("arma: %s: %s", e.Arg, e.
 
 // ConvergenceError is returned by Fit together with a valid *Result when
 // the optimiser stopped before convergence. The result holds the best
-// point reached; Reason says why the optimiser stopped.
+// point reached; Reason says why the optimiser stopped and Iter after how
+// many iterations. When the stop was the caller's context, Err holds the
+// context's error (context.Canceled or context.DeadlineExceeded), so that
+// errors.Is(err, context.Canceled) works; otherwise Err is nil.
 type ConvergenceError struct {
 	Reason string
 	Iter   int
+	Err    error
 }
+
+// Unwrap returns the context's error for a cancelled fit, nil otherwise.
+func (e *ConvergenceError) Unwrap() error { return e.Err }
 
 // Error implements the error interface.
 func (e *ConvergenceError) Error() string {
 	return fmt.Sprintf("arma: fit not converged after %d iterations: %s", e.Iter, e.Reason)
 }
 
-// checkFinite returns a *DataError for the first NaN or infinite sample.
+// checkFinite returns a *DataError for the first NaN, infinite or
+// too large (|v| > MaxAbs) sample.
 func checkFinite(name string, x []float64) error {
 	for i, v := range x {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
+		if !(math.Abs(v) <= MaxAbs) {
 			return &DataError{Series: name, Index: i, Value: v}
 		}
 	}

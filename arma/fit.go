@@ -230,6 +230,11 @@ func FitNoise(ctx context.Context, y []float64, noise Noise, diff []float64, opt
 	if len(diff) == 0 {
 		diff = []float64{1}
 	}
+	for _, v := range diff {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, &ArgError{Arg: "diff", Msg: "coefficients must be finite"}
+		}
+	}
 	if diff[0] == 0 {
 		return nil, &ArgError{Arg: "diff", Msg: "constant term must be non-zero"}
 	}
@@ -287,6 +292,12 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 				return nil, &ArgError{Arg: "Fixed/Init", Msg: "value of " + nm + " must be finite"}
 			}
 		}
+	}
+	if o.MaxIter < 0 {
+		return nil, &ArgError{Arg: "MaxIter", Msg: "must not be negative (zero means the default)"}
+	}
+	if !(o.Tol >= 0 && o.Tol < 1) {
+		return nil, &ArgError{Arg: "Tol", Msg: "must be in [0, 1) (zero means the default)"}
 	}
 	if len(o.XNames) != 0 && len(o.XNames) != len(o.X) {
 		return nil, &ArgError{Arg: "XNames", Msg: "needs one name per regressor"}
@@ -532,7 +543,11 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	res.Converged = lres.Reason.Converged()
 	res.Reason = lres.Reason.String()
 	if !res.Converged {
-		cerr = &ConvergenceError{Reason: res.Reason, Iter: lres.Iter}
+		ce := &ConvergenceError{Reason: res.Reason, Iter: lres.Iter}
+		if lres.Reason == lm.Canceled {
+			ce.Err = ctx.Err()
+		}
+		cerr = ce
 	}
 	res.Model.Mean = e.mu
 	if e.kmu >= 0 {

@@ -109,16 +109,24 @@ func diffPoly(d, sd, s int) []float64 {
 
 // Stationary reports whether every z-plane root of phi(z^-1) Phi(z^-s)
 // lies strictly inside the unit circle, and returns the offending roots
-// (|z| >= 1) otherwise. The differencing is not part of this check. An
-// error is returned only when the root finder fails.
+// (|z| >= 1) otherwise. The differencing is not part of this check. It
+// returns false and an *ArgError for a NaN or infinite coefficient, and an
+// error when the root finder fails.
 func (m Model) Stationary() (bool, []complex128, error) {
+	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
+		return false, nil, err
+	}
 	bad, err := outside(m.ARPoly(), 0)
 	return err == nil && len(bad) == 0, bad, err
 }
 
 // Invertible reports whether every z-plane root of the MA polynomial lies
-// strictly inside the unit circle, and returns the offending roots.
+// strictly inside the unit circle, and returns the offending roots. Errors
+// as for Stationary.
 func (m Model) Invertible() (bool, []complex128, error) {
+	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
+		return false, nil, err
+	}
 	bad, err := outside(m.MAPoly(), 0)
 	return err == nil && len(bad) == 0, bad, err
 }
@@ -192,4 +200,17 @@ func (m Model) validate() error {
 // difference-equation form phi(B)Phi(B^s) w_t = c + theta(B)Theta(B^s) a_t.
 func (m Model) Constant() float64 {
 	return poly.EvalReal(m.ARPoly(), 1) * m.Mean
+}
+
+// finiteCoefs returns an *ArgError naming part when a coefficient of any
+// of the slices is NaN or infinite.
+func finiteCoefs(part string, cs ...[]float64) error {
+	for _, c := range cs {
+		for _, v := range c {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return &ArgError{Arg: part, Msg: "coefficients must be finite"}
+			}
+		}
+	}
+	return nil
 }

@@ -75,14 +75,21 @@ type Candidate struct {
 // start of the grid (MaxP + SP*Period + D + SD*Period), or opt.Start if
 // larger.
 //
-// The error is non-nil only for an invalid grid or when ctx is done
-// (candidates fitted so far are still returned).
+// The error is an *ArgError for an invalid grid (negative orders, an
+// unknown Criterion), the *DataError of Fit for a NaN, infinite or too
+// large sample (no candidate is fitted), ctx's error when ctx is done
+// (candidates fitted so far are still returned), and, when no candidate
+// produced a result at all (a series too short or constant, for example),
+// the error of the first candidate, with all candidates returned.
 func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate, error) {
 	if ctx == nil {
 		ctx = context.Background()
 	}
 	if g.MaxP < 0 || g.MaxQ < 0 {
 		return nil, &ArgError{Arg: "grid", Msg: "MaxP and MaxQ must not be negative"}
+	}
+	if g.Criterion < ByAICc || g.Criterion > ByAIC {
+		return nil, &ArgError{Arg: "grid", Msg: "unknown Criterion " + itoa(int(g.Criterion))}
 	}
 	top := Order{P: g.MaxP, D: g.D, Q: g.MaxQ, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}
 	if err := top.validate(); err != nil {
@@ -91,6 +98,9 @@ func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate
 	var o Options
 	if opt != nil {
 		o = *opt
+	}
+	if err := checkFinite(o.Name, y); err != nil {
+		return nil, err
 	}
 	s := max(g.Period, 1)
 	o.Start = max(o.Start, g.MaxP+g.SP*s+g.D+g.SD*s)
@@ -138,6 +148,15 @@ feed:
 	wg.Wait()
 	if cerr == nil {
 		cerr = ctx.Err()
+	}
+	if cerr == nil {
+		cerr = cands[0].Err
+		for _, c := range cands {
+			if c.Result != nil {
+				cerr = nil
+				break
+			}
+		}
 	}
 	sort.SliceStable(cands, func(i, j int) bool {
 		ri, rj := rank(cands[i]), rank(cands[j])

@@ -101,8 +101,9 @@ var ErrStart = errors.New("lm: residuals cannot be computed at the start point")
 
 // Minimize runs Levenberg-Marquardt from x0 (not modified). On
 // non-convergence it returns the best point reached with its Reason and a
-// nil error; an error is returned only when the start point fails or the
-// problem is malformed.
+// nil error; an error is returned only when the start point fails (ErrStart)
+// or the problem or the settings are malformed (sizes that disagree, a nil
+// Eval, a negative MaxIter, a negative or NaN tolerance).
 //
 // Each iteration solves (J'J + mu D) dx = -J'r, D = diag(J'J), by Cholesky
 // and accepts the step when the sum of squares falls; mu follows Nielsen's
@@ -114,6 +115,9 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	var set Settings
 	if s != nil {
 		set = *s
+	}
+	if set.MaxIter < 0 || !(set.FTol >= 0) || !(set.XTol >= 0) || !(set.GTol >= 0) {
+		return Result{}, fmt.Errorf("lm: malformed settings (MaxIter=%d, FTol=%v, XTol=%v, GTol=%v): negative or NaN", set.MaxIter, set.FTol, set.XTol, set.GTol)
 	}
 	if set.MaxIter == 0 {
 		set.MaxIter = 500

@@ -156,6 +156,11 @@ func TestInadmissibleRegion(t *testing.T) {
 	if _, err := Minimize(context.Background(), Problem{M: 1, N: 2}, []float64{0}, nil); err == nil {
 		t.Error("malformed problem accepted")
 	}
+	for _, set := range []Settings{{MaxIter: -1}, {FTol: -1}, {XTol: math.NaN()}, {GTol: -1e-9}} {
+		if _, err := Minimize(context.Background(), prob, []float64{3}, &set); err == nil {
+			t.Errorf("malformed settings %+v accepted", set)
+		}
+	}
 }
 
 func TestCanceled(t *testing.T) {
