@@ -112,21 +112,33 @@ func center(dst, src []float64, mu float64, m int) (sum, sumsq float64) {
 // groups of four lags in Go otherwise (four independent accumulators keep
 // the adder busy).
 func lagBlock(out, a, b []float64) {
-	m := len(a)
-	if m == 0 {
+	if len(a) == 0 {
 		return
 	}
+	if hasFMA {
+		lagBlockFMA(out, a, b)
+		return
+	}
+	lagBlockGo(out, a, b)
+}
+
+// lagBlockFMA is lagBlock with the AVX2/FMA kernel; only called when
+// hasFMA is true.
+func lagBlockFMA(out, a, b []float64) {
+	m := len(a)
+	for j := 0; j+8 <= len(out); j += 8 {
+		s := dot8(a, b[j:j+m+7])
+		for q, v := range s {
+			out[j+q] += v
+		}
+	}
+}
+
+// lagBlockGo is lagBlock in plain Go, on every platform.
+func lagBlockGo(out, a, b []float64) {
+	m := len(a)
 	L := len(out)
 	j := 0
-	if hasFMA {
-		for ; j+8 <= L; j += 8 {
-			s := dot8(a, b[j:j+m+7])
-			for q, v := range s {
-				out[j+q] += v
-			}
-		}
-		return
-	}
 	for ; j+4 <= L; j += 4 {
 		s := dot4(a, b[j:j+m+3])
 		for q, v := range s {
