@@ -59,7 +59,8 @@ func Parallel(g, h Rational) (Rational, error) {
 //
 // It returns a *CoefError with ErrZeroConstant when the loop is
 // ill-posed (b_g + b_h = 0 and 1 + g_0 h_0 = 0, where g_0 and h_0 are the
-// feedthrough gains): the loop equation then has no solution.
+// feedthrough gains): the loop equation then has no solution; and a
+// *CoefError with ErrNotFinite when a product of coefficients overflows.
 func Feedback(g, h Rational) (Rational, error) {
 	gn, gd := g.coefs()
 	hn, hd := h.coefs()
@@ -68,7 +69,13 @@ func Feedback(g, h Rational) (Rational, error) {
 		return Rational{}, &CoefError{Poly: "den", Index: lb + len(gn) + len(hn) - 2, Err: ErrDegree}
 	}
 	den := poly.Add(poly.Mul(gd, hd), poly.Shift(poly.Mul(gn, hn), lb))
-	if den[0] == 0 || math.Abs(den[0]) <= 8*ratEps*(math.Abs(gd[0]*hd[0])+math.Abs(gn[0]*hn[0])) {
+	// den[0] is 1 + g_0 h_0 only when the loop has no dead time; then a
+	// value within rounding of the two terms' size counts as zero.
+	scale := math.Abs(gd[0] * hd[0])
+	if lb == 0 {
+		scale += math.Abs(gn[0] * hn[0])
+	}
+	if d0 := den[0]; !math.IsNaN(d0) && !math.IsInf(d0, 0) && (d0 == 0 || math.Abs(d0) <= 8*ratEps*scale) {
 		return Rational{}, &CoefError{Poly: "den", Index: 0, Value: den[0], Err: ErrZeroConstant}
 	}
 	return NewRational(poly.Mul(gn, hd), den, g.delay)

@@ -189,7 +189,9 @@ func (r Rational) Step(n int) []float64 {
 // x (index 0 oldest), with zero initial conditions: inputs and outputs
 // before index 0 are taken as zero. The output at t depends on inputs up
 // to t - b only. It returns a *SampleError (Series "input") for a NaN or
-// infinite sample, and nil output.
+// infinite sample, and nil output. The output itself is not checked: an
+// unstable term (see Stable) grows without bound and may overflow to
+// +-Inf and then NaN within the series, as its difference equation does.
 func (r Rational) Filter(x []float64) ([]float64, error) {
 	y := make([]float64, len(x))
 	if err := r.FilterTo(y, x); err != nil {

@@ -129,6 +129,16 @@ func TestBadSamplesAndArguments(t *testing.T) {
 		{"SOPDT negative tau", first(tf.SOPDT{Gain: 1, Tau1: 1, Tau2: -2}.Discretize(1)), isArg("Tau2")},
 		{"second order negative damping", first(tf.SecondOrder{Gain: 1, NaturalFrequency: 1, Damping: -0.1}.Discretize(1)), isArg("Damping")},
 		{"ill-posed loop", first(tf.Feedback(tf.MustRational([]float64{1}, []float64{1}, 0), tf.MustRational([]float64{-1}, []float64{1}, 0))), isCoef(tf.ErrZeroConstant)},
+		// The loop has a dead time (b_g + b_h = 3), so den[0] = 1 however
+		// large omega_g(0) omega_h(0) is: well posed.
+		{"loop with dead time and a large product gain is well posed", func() error {
+			_, err := tf.Feedback(tf.MustRational([]float64{1}, []float64{1, -2}, 3), tf.MustRational([]float64{1e300}, []float64{1, 1e300}, 0))
+			if err != nil {
+				return nil // reported as a failure below
+			}
+			return errors.New("ok")
+		}(), func(err error) bool { return err.Error() == "ok" }},
+		{"loop coefficients overflow", first(tf.Feedback(tf.MustRational([]float64{1e300, 1e300}, []float64{1, 1e300}, 0), tf.MustRational([]float64{1e300}, []float64{1}, 0))), isCoef(tf.ErrNotFinite)},
 		{"loop dead time past degree limit", first(tf.Feedback(tf.MustRational([]float64{1}, []float64{1, -0.5}, 60), tf.MustRational([]float64{1}, []float64{1}, 10))), isCoef(tf.ErrDegree)},
 		{"series degree past limit", first(tf.Series(tf.MustRational([]float64{1}, make40(), 0), tf.MustRational([]float64{1}, make40(), 0))), isCoef(tf.ErrDegree)},
 		{"series dead time past limit", first(tf.Series(tf.MustRational([]float64{1}, []float64{1}, tf.MaxDelay), g)), func(err error) bool { var de *tf.DelayError; return errors.As(err, &de) }},
