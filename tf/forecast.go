@@ -15,7 +15,9 @@ import (
 //	AR(B) (z_t - Mean) = MA(B) e_t,  var(e_t) = Sigma2,
 //
 // AR and MA stored as ascending coefficients with constant term 1 (nil
-// for 1), signs as stored.
+// for 1), signs as stored. From an arma.Model m fitted to z_t itself
+// (no further differencing, m.D = m.SD = 0), use InputModel{AR:
+// m.ARPoly(), MA: m.MAPoly(), Mean: m.Mean, Sigma2: m.Sigma2}.
 type InputModel struct {
 	AR, MA []float64
 	Mean   float64
