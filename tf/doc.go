@@ -52,6 +52,31 @@
 // converted under a zero-order hold, exactly, including dead time that is
 // not a whole number of samples (modified z-transform).
 //
+// # Errors and inputs
+//
+// Functions and methods never modify the slices, maps and models they are
+// given, and never keep them: constructors copy. Bad data and bad
+// settings give typed errors, to be inspected with errors.As, that carry
+// the facts: *CoefError (which polynomial, which power of B, the value;
+// it wraps one of ErrEmpty, ErrZeroConstant, ErrNotFinite, ErrDegree),
+// *DelayError, *SampleError (series name, 0-based index, value; wraps
+// ErrNotFinite), *GainError (pole at z = 1), *UnstableError (a quantity
+// defined only for stable terms), *ArgError (an option outside its
+// range) and *SimError (a whole model that cannot be simulated). On error
+// the other results are zero values. Panics are kept for programmer
+// errors the types cannot exclude, each documented where it can happen
+// (a destination slice of the wrong length, a Step with the wrong number
+// of inputs). Limits: polynomial degree MaxDegree (64), dead time
+// MaxDelay (10000 samples).
+//
+// # Concurrency
+//
+// Rational values are immutable and safe for concurrent use. A Model may
+// be read (printed, simulated, converted) by several goroutines at once as
+// long as none of them modifies it; Model.Clone gives a private copy.
+// Plant and System hold the state of one simulation and are not safe for
+// concurrent use: give each goroutine its own Clone.
+//
 // # Cautions
 //
 // An identified model is an approximation, valid near the operating
