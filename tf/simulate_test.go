@@ -452,3 +452,53 @@ func TestIntervalSeconds(t *testing.T) {
 		}
 	}
 }
+
+// TestSimulateInputsUnchanged runs Simulate, NewSystem and Plant with
+// every caller-owned argument in use (model, input map, innovations,
+// histories) and checks that none is modified or kept: changing a
+// history slice after SetHistory must not change the plant's output.
+func TestSimulateInputsUnchanged(t *testing.T) {
+	m := parse.MustModel("(1 - B) y = 2 + (0.5 - 0.2 B) / (1 - 0.6 B) B^2 x + w ((1 - B) z) + (1 - t1 B) / (1 - p1 B) a where w = 0.3, t1 ~ 0.2, p1 ~ 0.5")
+	m0 := m.Clone()
+	x := []float64{1, 2, 3, 4, 5, 6, 7, 8}
+	z := []float64{8, 7, 6, 5, 4, 3, 2, 1}
+	a := []float64{0.1, -0.2, 0.3, 0, 0, 0.5, -0.1, 0.2}
+	x0, z0, a0 := append([]float64(nil), x...), append([]float64(nil), z...), append([]float64(nil), a...)
+	inputs := map[string][]float64{"x": x, "z": z}
+	y1, err := m.Simulate(inputs, &tf.SimSettings{Innovations: a, Steady: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sys, err := tf.NewSystem(m, &tf.SimSettings{Sigma: 1, Seed1: 1, Seed2: 2, BurnIn: 10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sys.Step([]float64{1, 2})
+	if !m.Equal(m0) || len(inputs) != 2 || !simEqual(x, x0) || !simEqual(z, z0) || !simEqual(a, a0) {
+		t.Fatal("Simulate or NewSystem modified the model, the input map, a series or the innovations")
+	}
+	y2, err := m.Simulate(inputs, &tf.SimSettings{Innovations: a, Steady: true})
+	if err != nil || !simEqual(y1, y2) {
+		t.Fatalf("second run differs: %v", err)
+	}
+	r := tf.MustRational([]float64{0.5, 0.1}, []float64{1, -0.7}, 1)
+	pastIn, pastOut := []float64{1, 2, 3}, []float64{4}
+	p := tf.NewPlant(r)
+	if err := p.SetHistory(pastIn, pastOut); err != nil {
+		t.Fatal(err)
+	}
+	q := p.Clone()
+	pastIn[2], pastOut[0] = 100, 100 // must not reach the plant
+	if pastIn[0] != 1 || pastIn[1] != 2 {
+		t.Fatal("SetHistory modified its arguments")
+	}
+	want, err := r.FilterFrom([]float64{1, 1, 1}, tf.Past{Input: []float64{1, 2, 3}, Output: []float64{4}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, w := range want {
+		if got, gotq := p.Step(1), q.Step(1); got != w || gotq != w {
+			t.Fatalf("step %d: plant %v, clone %v, FilterFrom %v (history slice kept?)", i, got, gotq, w)
+		}
+	}
+}
