@@ -27,7 +27,9 @@ import (
 // has one value and one freedom wherever it is used (the first use is
 // printed), that unnamed coefficients are fixed and that values are
 // finite; a negative unnamed value prints with its sign folded into the
-// term's sign.
+// term's sign. A model that is not valid (one that parse.Check rejects,
+// such as the zero Model, which has no output name and no input) prints
+// as text that does not parse back.
 func (m Model) String() string {
 	var b strings.Builder
 	b.Grow(96 + 64*len(m.Inputs))
