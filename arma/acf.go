@@ -154,7 +154,11 @@ func PACF(x []float64, maxLag int) (Partial, error) {
 
 // PACFFromACF returns the partial autocorrelations at lags 1..len(r)-1
 // from autocorrelations r (r[0] = 1) by the Durbin-Levinson recursion.
-// Autocovariances work as well: the result is scale free.
+// Autocovariances work as well: the result is scale free. It returns nil
+// for len(r) < 2. r is not checked: values that are not the
+// autocorrelations of some series (r[0] <= 0, NaN, a sequence that is not
+// positive definite) give NaN or values outside [-1, 1] from the lag
+// where the recursion breaks down; PACF validates its series.
 func PACFFromACF(r []float64) []float64 {
 	if len(r) < 2 {
 		return nil
