@@ -19,7 +19,7 @@ scipy.signal.lfilter under the same conditioning as tf.Fit (x held at its
 first value before the record, residuals from index 7; see
 testdata/fit/ref_fit.py), started from a fixed point near the truth, and
 then runs `go run ./testdata/peer/fitpeer FILE` on the same file (tf.Fit
-from its own computed start values). It prints both times (best of 3
+from its own computed start values). It prints both times (best of 5
 runs), both sums of squares and the ratio of the times.
 """
 import json
@@ -77,12 +77,12 @@ def main():
                 for a, b in zip(y, x):
                     fh.write(f"{a!r},{b!r}\n")
             times = []
-            for _ in range(3):
+            for _ in range(5):
                 t0 = time.perf_counter()
                 res, ssq = scipy_fit(y, x)
                 times.append(time.perf_counter() - t0)
             ts = min(times)
-            out = subprocess.run(["go", "run", "./testdata/peer/fitpeer", path], cwd=root,
+            out = subprocess.run(["go", "run", "./testdata/peer/fitpeer", "-reps", "5", path], cwd=root,
                                  capture_output=True, text=True, check=True)
             g = json.loads(out.stdout.strip().splitlines()[-1])
             print(f"n = {n}: scipy least_squares {ts:.3f} s (nfev {res.nfev}, SSQ {ssq:.10g}); "
