@@ -614,16 +614,26 @@ func (w *fitWork) noiseSeries() {
 		fi.denC, fi.denD = fi.in.Den.Grad(w.idx, k)
 		b := fi.in.Delay
 		clear(fi.s[:min(b, n)])
-		if b < n {
+		switch {
+		case b >= n:
+			clear(fi.u)
+			if fi.denFree {
+				clear(fi.q)
+			}
+		case len(fi.denC) == 2 && fi.denC[0] == 1 && len(fi.numC) <= 3 && fi.denFree:
+			// The common first-order denominator: s, u and q in one pass,
+			// whose two recursions overlap in the pipeline.
+			fitRun1(fi.s, fi.u, fi.q, fi.zc, b, fi.denC[1], fi.numC)
+		default:
 			if fitIsOne(fi.denC) {
 				copy(fi.s[b:], fi.zc[:n-b])
 			} else {
 				filter.Run(fi.s[b:], fitOne, fi.denC, fi.zc[:n-b])
 			}
-		}
-		fitFIR(fi.u, fi.numC, fi.s, 0, false)
-		if fi.denFree {
-			filter.Run(fi.q, fitOne, fi.denC, fi.u)
+			fitFIR(fi.u, fi.numC, fi.s, 0, false)
+			if fi.denFree {
+				filter.Run(fi.q, fitOne, fi.denC, fi.u)
+			}
 		}
 		fi.gain = 0
 		if fi.z0 != 0 {
@@ -663,6 +673,44 @@ func (w *fitWork) noiseSeries() {
 				nn[t] -= u[t]
 			}
 		}
+	}
+}
+
+// fitRun1 computes, for delta(B) = 1 + d1 B and omega(B) = c0 + c1 B +
+// c2 B^2 (c of length 1..3), from zero pre-sample values and dead time b
+// (< len(zc)), with the same operations in the same order as the
+// general path (filter.Run, fitFIR, filter.Run), so bit for bit alike:
+//
+//	s_t = zc_{t-b} - d1 s_{t-1},  u_t = c0 s_t + c1 s_{t-1} + c2 s_{t-2},
+//	q_t = u_t - d1 q_{t-1}.
+//
+// s[:b] must already be zero.
+func fitRun1(s, u, q, zc []float64, b int, d1 float64, c []float64) {
+	n := len(s)
+	var cc [3]float64
+	copy(cc[:], c)
+	c0, c1, c2 := cc[0], cc[1], cc[2]
+	var s1, s2, q1 float64
+	s = s[:n]
+	u = u[:n]
+	q = q[:n]
+	for t := 0; t < b; t++ {
+		u[t] = 0
+		q[t] = 0
+	}
+	x := zc[:n-b]
+	ss := s[b:]
+	us := u[b:]
+	qs := q[b:]
+	ss = ss[:len(x)]
+	us = us[:len(x)]
+	qs = qs[:len(x)]
+	for i, v := range x {
+		s0 := v - d1*s1
+		u0 := c0*s0 + c1*s1 + c2*s2
+		q0 := u0 - d1*q1
+		ss[i], us[i], qs[i] = s0, u0, q0
+		s2, s1, q1 = s1, s0, q0
 	}
 }
 

@@ -3,6 +3,8 @@ package tf
 import (
 	"context"
 	"testing"
+
+	"github.com/backshift/backshift/internal/filter"
 )
 
 // TestFitParallelColumns fits a series long enough for the Jacobian
@@ -43,5 +45,29 @@ func TestFitParallelColumns(t *testing.T) {
 	}
 	if _, err := Fit(context.Background(), fitBenchModel(), data, nil); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestFitRun1 checks the fused first-order kernel against the general
+// path (recursive filter, moving average, recursive filter) bit for bit.
+func TestFitRun1(t *testing.T) {
+	rng := fitRand(71)
+	n, b := 1000, 3
+	zc := make([]float64, n)
+	for i := range zc {
+		zc[i] = rng.NormFloat64()
+	}
+	for _, c := range [][]float64{{0.7}, {0.7, -0.2}, {0.7, -0.2, 0.1}} {
+		s1, u1, q1 := make([]float64, n), make([]float64, n), make([]float64, n)
+		fitRun1(s1, u1, q1, zc, b, -0.8, c)
+		s2, u2, q2 := make([]float64, n), make([]float64, n), make([]float64, n)
+		filter.Run(s2[b:], fitOne, []float64{1, -0.8}, zc[:n-b])
+		fitFIR(u2, c, s2, 0, false)
+		filter.Run(q2, fitOne, []float64{1, -0.8}, u2)
+		for i := 0; i < n; i++ {
+			if s1[i] != s2[i] || u1[i] != u2[i] || q1[i] != q2[i] {
+				t.Fatalf("omega %v, t=%d: fused (%v %v %v), general (%v %v %v)", c, i, s1[i], u1[i], q1[i], s2[i], u2[i], q2[i])
+			}
+		}
 	}
 }
