@@ -314,7 +314,10 @@ type fitWork struct {
 	nn, a    []float64
 	scratch  []float64
 	scratch2 []float64
-	slab     *fitSlab
+	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
+	// moving average of n_t and no column needs a_t.
+	maFixedOne bool
+	slab       *fitSlab
 }
 
 var fitOne = []float64{1}
@@ -499,6 +502,7 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	w.nn = take(n)
 	w.a = take(n)
 	clear(w.a[:t0])
+	w.maFixedOne = w.ma.IsOne()
 	return w, nil
 }
 
@@ -736,12 +740,25 @@ func (w *fitWork) resid() float64 {
 func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 	w.set(x)
 	w.noiseSeries()
-	f := w.resid()
+	t0 := w.cond.First
+	var f float64
+	if w.maFixedOne {
+		// No moving average: a_t = phi(B) n_t straight into r (a_t itself
+		// is needed only by the MA columns).
+		k := len(w.names)
+		w.arC, w.arD = w.ar.Grad(w.idx, k)
+		w.maC, w.maD = w.ma.Grad(w.idx, k)
+		fitFIR(r, w.arC, w.nn, t0, false)
+		for _, v := range r {
+			f += v * v
+		}
+	} else {
+		f = w.resid()
+		copy(r, w.a[t0:])
+	}
 	if math.IsNaN(f) || math.IsInf(f, 0) {
 		return fitErrFilter
 	}
-	t0 := w.cond.First
-	copy(r, w.a[t0:])
 	if jac == nil {
 		return nil
 	}
