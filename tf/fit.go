@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"math/bits"
 	"runtime"
 	"sort"
 	"strconv"
@@ -512,25 +513,25 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 // instead of allocating and clearing it again.
 type fitSlab struct{ buf []float64 }
 
-var fitSlabs sync.Pool
+// fitSlabs holds recycled slabs by size class: class c holds slabs of
+// capacity 1<<c.
+var fitSlabs [64]sync.Pool
 
 // fitGetSlab returns a slab of m values (contents undefined).
 func fitGetSlab(m int) *fitSlab {
-	if s, ok := fitSlabs.Get().(*fitSlab); ok {
-		if cap(s.buf) >= m && cap(s.buf) <= 2*m+1024 {
-			s.buf = s.buf[:m]
-			return s
-		}
-		fitSlabs.Put(s)
+	c := bits.Len(uint(max(m-1, 1)))
+	if s, ok := fitSlabs[c].Get().(*fitSlab); ok {
+		s.buf = s.buf[:m]
+		return s
 	}
-	return &fitSlab{buf: make([]float64, m)}
+	return &fitSlab{buf: make([]float64, m, 1<<c)}
 }
 
 // release returns the work series to the pool; w must not be used
 // afterwards.
 func (w *fitWork) release() {
 	if w.slab != nil {
-		fitSlabs.Put(w.slab)
+		fitSlabs[bits.Len(uint(cap(w.slab.buf)-1))].Put(w.slab)
 		w.slab = nil
 		w.w, w.nn, w.a = nil, nil, nil
 		for i := range w.ins {
@@ -791,24 +792,31 @@ func (w *fitWork) jacobian(jac [][]float64) {
 	for _, v := range w.arC {
 		phi1 += v
 	}
+	var sc1, sc2 []float64 // brackets for the moving-average recursion
+	if !maOne {
+		sc1 = w.scratchN(len(jac[0]))
+	}
 	if len(jac) >= 4 && len(jac[0]) >= fitParMin && runtime.GOMAXPROCS(0) > 1 {
 		// Long series: the columns are independent; compute the second
 		// half on another goroutine with its own scratch buffer.
 		h := len(jac) / 2
-		if cap(w.scratch2) < len(jac[0]) {
-			w.scratch2 = make([]float64, len(jac[0]))
+		if !maOne {
+			if cap(w.scratch2) < len(jac[0]) {
+				w.scratch2 = make([]float64, len(jac[0]))
+			}
+			sc2 = w.scratch2[:len(jac[0])]
 		}
 		var wg sync.WaitGroup
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			w.columns(jac, h, len(jac), maOne, phi1, w.scratch2[:len(jac[0])])
+			w.columns(jac, h, len(jac), maOne, phi1, sc2)
 		}()
-		w.columns(jac, 0, h, maOne, phi1, w.scratchN(len(jac[0])))
+		w.columns(jac, 0, h, maOne, phi1, sc1)
 		wg.Wait()
 		return
 	}
-	w.columns(jac, 0, len(jac), maOne, phi1, w.scratchN(len(jac[0])))
+	w.columns(jac, 0, len(jac), maOne, phi1, sc1)
 }
 
 // fitParMin is the residual count from which the Jacobian columns are
