@@ -71,3 +71,52 @@ func TestFitRun1(t *testing.T) {
 		}
 	}
 }
+
+// TestFitFusedMatchesGeneral checks that the one-pass evaluation (one
+// input, first-order denominator, AR noise) gives the residuals and the
+// Jacobian of the general path exactly, with the input held at its first
+// value and without.
+func TestFitFusedMatchesGeneral(t *testing.T) {
+	for _, zero := range []bool{false, true} {
+		for _, m := range []Model{fitMCModel(), fitBenchModel()} {
+			y, x := fitMCSim(fitRand(81), 500)
+			w, err := fitPrepare(m, map[string][]float64{"y": y, "x": x}, FitSettings{ZeroPreSample: zero})
+			if err != nil {
+				t.Fatal(err)
+			}
+			p := w.params()
+			for k := range p {
+				p[k] = 0.3 + 0.1*float64(k)
+			}
+			nr := w.n - w.cond.First
+			mk := func() [][]float64 {
+				j := make([][]float64, len(p))
+				for k := range j {
+					j[k] = make([]float64, nr)
+				}
+				return j
+			}
+			r1, r2 := make([]float64, nr), make([]float64, nr)
+			j1, j2 := mk(), mk()
+			if err := w.eval(p, r1, j1); err != nil || !w.efDone {
+				t.Fatalf("fused path not taken (%v)", err)
+			}
+			w.maFixedOne = false // force the general path
+			if err := w.eval(p, r2, j2); err != nil || w.efDone {
+				t.Fatalf("general path not taken (%v)", err)
+			}
+			for i := range r1 {
+				if r1[i] != r2[i] {
+					t.Fatalf("residual %d: fused %v, general %v", i, r1[i], r2[i])
+				}
+			}
+			for k := range j1 {
+				for i := range j1[k] {
+					if j1[k][i] != j2[k][i] {
+						t.Fatalf("%s row %d: fused %v, general %v", w.names[k], i, j1[k][i], j2[k][i])
+					}
+				}
+			}
+		}
+	}
+}
