@@ -318,8 +318,6 @@ type fitWork struct {
 	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
 	// moving average of n_t and no column needs a_t.
 	maFixedOne bool
-	// efDone: the evaluation already formed phi s and phi q.
-	efDone bool
 	slab   *fitSlab
 }
 
@@ -721,81 +719,6 @@ func fitRun1(s, u, q, zc []float64, b int, d1 float64, c []float64) {
 	}
 }
 
-// fitFusedOK reports whether the single input and the noise fit the
-// fused kernel: first-order denominator (free), numerator and AR
-// polynomial of degree at most 2. It fills the polynomial coefficients.
-func (w *fitWork) fitFusedOK() bool {
-	k := len(w.names)
-	fi := &w.ins[0]
-	fi.numC, fi.numD = fi.in.Num.Grad(w.idx, k)
-	fi.denC, fi.denD = fi.in.Den.Grad(w.idx, k)
-	w.arC, w.arD = w.ar.Grad(w.idx, k)
-	w.maC, w.maD = w.ma.Grad(w.idx, k)
-	return fi.denFree && len(fi.denC) == 2 && fi.denC[0] == 1 && len(fi.numC) <= 3 && len(w.arC) <= 3 &&
-		fi.in.Delay < w.n && len(fi.e)-(w.n-w.cond.First) == fi.in.Num.Degree()+1
-}
-
-// fused is one pass of everything an evaluation needs for one input with
-// a first-order denominator and AR(<= 2) noise without moving average:
-//
-//	s_t = zc_{t-b} - d1 s_{t-1}        u_t = omega(B) s_t
-//	q_t = u_t - d1 q_{t-1}             n_t = w_t - c - G z0 - u_t
-//	e = phi(B) s, f = phi(B) q (from First - ext on), r_t = phi(B) n_t (t >= First)
-//
-// with zero pre-sample values, the same operations in the same order as
-// the general path. It returns the sum of squares of r.
-func (w *fitWork) fused(r []float64) float64 {
-	fi := &w.ins[0]
-	n := w.n
-	b := fi.in.Delay
-	ts, t0 := w.cond.NoiseStart, w.cond.First
-	ext := len(fi.e) - (n - t0)
-	eo := t0 - ext // index of e[0]
-	var cn, ca [3]float64
-	copy(cn[:], fi.numC)
-	copy(ca[:], w.arC)
-	c0, c1, c2 := cn[0], cn[1], cn[2]
-	p0, p1, p2 := ca[0], ca[1], ca[2]
-	d1 := fi.denC[1]
-	fi.gain = 0
-	if fi.z0 != 0 {
-		fi.gain = fitSum(fi.numC) / fitSum(fi.denC)
-	}
-	off := fi.gain * fi.z0
-	if w.m.Const != nil {
-		off = w.m.Const.Value + off
-	}
-	s, u, q, e, f, nn, zc, ww := fi.s, fi.u, fi.q, fi.e, fi.f, w.nn, fi.zc, w.w
-	var s1, s2, q1, q2, n1, n2, ssq float64
-	for t := 0; t < n; t++ {
-		var s0 float64
-		if t >= b {
-			s0 = zc[t-b] - d1*s1
-		}
-		u0 := c0*s0 + c1*s1 + c2*s2
-		q0 := u0 - d1*q1
-		s[t], u[t], q[t] = s0, u0, q0
-		if t >= eo {
-			e[t-eo] = p0*s0 + p1*s1 + p2*s2
-			f[t-eo] = p0*q0 + p1*q1 + p2*q2
-		}
-		var n0 float64
-		if t >= ts {
-			n0 = ww[t] - off - u0
-			nn[t] = n0
-		}
-		if t >= t0 {
-			v := p0*n0 + p1*n1 + p2*n2
-			r[t-t0] = v
-			ssq += v * v
-		}
-		s2, s1 = s1, s0
-		q2, q1 = q1, q0
-		n2, n1 = n1, n0
-	}
-	return ssq
-}
-
 // resid computes a_t from n_t; it returns the sum of squares.
 func (w *fitWork) resid() float64 {
 	k := len(w.names)
@@ -820,11 +743,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 	w.noiseSeries()
 	t0 := w.cond.First
 	var f float64
-	w.efDone = false
-	if w.maFixedOne && len(w.ins) == 1 && w.fitFusedOK() {
-		f = w.fused(r)
-		w.efDone = true
-	} else if w.maFixedOne {
+	if w.maFixedOne {
 		// No moving average: a_t = phi(B) n_t straight into r (a_t itself
 		// is needed only by the MA columns).
 		k := len(w.names)
@@ -862,9 +781,6 @@ func (w *fitWork) jacobian(jac [][]float64) {
 	t0 := w.cond.First
 	maOne := fitIsOne(w.maC)
 	for i := range w.ins {
-		if w.efDone {
-			break
-		}
 		fi := &w.ins[i]
 		ext := len(fi.e) - (w.n - t0)
 		fitFIR(fi.e, w.arC, fi.s, t0-ext, false)
