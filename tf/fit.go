@@ -318,7 +318,7 @@ type fitWork struct {
 	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
 	// moving average of n_t and no column needs a_t.
 	maFixedOne bool
-	slab   *fitSlab
+	slab       *fitSlab
 }
 
 var fitOne = []float64{1}
