@@ -171,12 +171,25 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	}
 	fn := float64(n)
 	c.SDX, c.SDY = math.Sqrt(sxx/fn), math.Sqrt(syy/fn)
-	inv := 1 / math.Sqrt(sxx*syy)
+	if sxx < minSumSquares || syy < minSumSquares {
+		// Deviations so small that their squares lose precision or
+		// vanish: the normalisation would be wrong or infinite.
+		return nil, &ArgError{Arg: names[0] + ", " + names[1], Value: "deviations from the mean whose squares underflow",
+			Want: "standard deviations above about 1e-140"}
+	}
+	// Square roots taken separately: the product sxx*syy can overflow
+	// or underflow where each factor does not.
+	inv := 1 / (math.Sqrt(sxx) * math.Sqrt(syy))
 	for i := range c.R {
 		c.R[i] *= inv
 	}
 	return c, nil
 }
+
+// minSumSquares is the smallest centred sum of squares Cross accepts:
+// well inside the normal floating-point range (2^-1022 ~ 2.2e-308), so
+// that the squares summed keep their 53 bits.
+const minSumSquares = 1e-280
 
 // validatePair checks the lengths and the lag bound, and that neither
 // series is constant. Finiteness is checked by Cross from the sums it
@@ -188,7 +201,11 @@ func validatePair(x, y []float64, maxLag int, names [2]string) error {
 	if len(x) != len(y) {
 		return &LengthError{Names: names, Lens: [2]int{len(x), len(y)}}
 	}
-	need := max(maxLag+1, 2)
+	need := maxLag
+	if need < math.MaxInt {
+		need++ // n > maxLag, without overflowing at math.MaxInt
+	}
+	need = max(need, 2)
 	for i, v := range [2][]float64{x, y} {
 		if len(v) < need {
 			return &ShortError{Name: names[i], Len: len(v), Need: need, Why: "for lags up to " + strconv.Itoa(maxLag)}

@@ -241,6 +241,40 @@ func TestCrossBadInput(t *testing.T) {
 	if _, err := Cross(good, good, 1, &Settings{Method: 9}); !errors.As(err, &ae) {
 		t.Errorf("bad method: got %v", err)
 	}
+	// The largest lag representable must not overflow the length check.
+	for _, m := range []Method{Auto, Direct, FFT} {
+		if _, err := Cross(good, good, math.MaxInt, &Settings{Method: m}); !errors.As(err, &se) || se.Need != math.MaxInt {
+			t.Errorf("%v, maxLag = MaxInt: got %v", m, err)
+		}
+	}
+	// Deviations whose squares underflow: an error, not infinite r.
+	tiny := make([]float64, len(good))
+	big := make([]float64, len(good))
+	for i, v := range good {
+		tiny[i] = v * 1e-300
+		big[i] = v * 1e140
+	}
+	if _, err := Cross(tiny, good, 2, nil); !errors.As(err, &ae) {
+		t.Errorf("squares underflow: got %v", err)
+	}
+	// Both series near 1e140: each sum of squares is finite, their
+	// product is not; r must still equal that of the unscaled series
+	// (scale invariance of the definition), to 1e-14.
+	want, err := Cross(good, good, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range []Method{Direct, FFT} {
+		got, err := Cross(big, big, 2, &Settings{Method: m})
+		if err != nil {
+			t.Fatalf("%v, series near 1e140: %v", m, err)
+		}
+		for i := range want.R {
+			if math.Abs(got.R[i]-want.R[i]) > 1e-14 {
+				t.Errorf("%v, series near 1e140, lag %d: r = %g, want %g", m, i-2, got.R[i], want.R[i])
+			}
+		}
+	}
 	if good[4] != 5 || !math.IsNaN(nan[4]) {
 		t.Error("inputs modified")
 	}
