@@ -20,7 +20,8 @@ type IdentifySettings struct {
 	// 1 - (1-Level)/10 on its own (a lone spike must be strong).
 	Level float64
 	// MaxR and MaxS bound the orders of delta and omega tried; zero
-	// means 2. Set a negative value to allow order zero only.
+	// means 2. Set a negative value to allow order zero only. Bounds
+	// beyond the number of weights after the dead time are cut to it.
 	MaxR, MaxS int
 	// Input is the series name written in the spec texts; empty means
 	// the weights' Input, or "x".
@@ -133,8 +134,8 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if set.Penalty == 0 {
 		set.Penalty = 2
 	}
-	if set.Penalty < 0 || math.IsNaN(set.Penalty) {
-		return nil, &ArgError{Arg: "IdentifySettings.Penalty", Value: strconv.FormatFloat(set.Penalty, 'g', -1, 64), Want: ">= 0"}
+	if !(set.Penalty >= 0) || math.IsInf(set.Penalty, 1) {
+		return nil, &ArgError{Arg: "IdentifySettings.Penalty", Value: strconv.FormatFloat(set.Penalty, 'g', -1, 64), Want: "finite, >= 0"}
 	}
 	maxR, maxS := orderBound(set.MaxR), orderBound(set.MaxS)
 	if d := set.InputDiff; d != nil {
@@ -156,7 +157,10 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if name == "" {
 		name = "x"
 	}
-	if len(w.V) < 2 || len(w.SE) != len(w.V) {
+	if len(w.SE) != len(w.V) {
+		return nil, &LengthError{Names: [2]string{name + " weights", name + " weight standard errors"}, Lens: [2]int{len(w.V), len(w.SE)}}
+	}
+	if len(w.V) < 2 {
 		return nil, &ShortError{Name: name, Len: len(w.V), Need: 2, Why: "weights (lags 0 and 1)"}
 	}
 	if err := checkSeries(name+" weights", w.V); err != nil {
@@ -196,6 +200,10 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 		return nil, e
 	}
 	id.DeadTime = b
+	// No form can have more coefficients than there are weights from the
+	// dead time on: larger bounds are cut to that (and cannot make the
+	// loops below run for ever).
+	maxR, maxS = min(maxR, len(v)-b-1), min(maxS, len(v)-b-1)
 	wv := &Weights{Input: w.Input, V: v, SE: w.SE, N: w.N}
 	id.Corner = Corner(wv, min(len(v), b+8), 4)
 	if id.Corner != nil {

@@ -63,6 +63,20 @@ func TestIdentifyBadInput(t *testing.T) {
 	if id.CornerR != 1 || id.CornerS != 1 {
 		t.Errorf("corner method on exact weights: (%d,%d), want (1,1)", id.CornerR, id.CornerS)
 	}
+	// Order bounds far beyond the weights are cut to the lags after the
+	// dead time (9 here): the best form is still (1, 1), and the call
+	// returns (it used to loop over 2^40 x 2^40 orders).
+	id, err = Identify(&Weights{V: exact, SE: se11}, &IdentifySettings{MaxR: 1 << 40, MaxS: 1 << 40})
+	if err != nil || id.Candidates[0].R != 1 || id.Candidates[0].S != 1 {
+		t.Errorf("huge order bounds: %v, %v", id, err)
+	}
+	if _, err := Identify(&Weights{V: exact, SE: se11}, &IdentifySettings{Penalty: math.Inf(1)}); !errors.As(err, &ae) {
+		t.Errorf("infinite penalty: %v", err)
+	}
+	var le *LengthError
+	if _, err := Identify(&Weights{V: exact, SE: se11[:3]}, nil); !errors.As(err, &le) || le.Lens != [2]int{11, 3} {
+		t.Errorf("standard errors shorter than the weights: %v", err)
+	}
 }
 
 func TestNoiseSeries(t *testing.T) {
@@ -102,6 +116,12 @@ func TestNoiseSeries(t *testing.T) {
 	long := &Weights{V: make([]float64, 12), SE: make([]float64, 12)}
 	if _, _, err := NoiseSeries(y, [][]float64{x}, []*Weights{long}); !errors.As(err, &sh) {
 		t.Errorf("short: %v", err)
+	}
+	// A NaN weight is an error naming the lag, not a NaN noise series.
+	var ve *ValueError
+	nanw := &Weights{Input: "x", V: []float64{0, math.NaN(), 0.25}, SE: []float64{1, 1, 1}}
+	if _, _, err := NoiseSeries(y, [][]float64{x}, []*Weights{nanw}); !errors.As(err, &ve) || ve.Index != 1 {
+		t.Errorf("NaN weight: %v", err)
 	}
 }
 

@@ -122,6 +122,17 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	if p < 0 {
 		p = 0
 	}
+	// Lags and orders beyond the series cannot fit; checked here so that
+	// the counts below cannot overflow.
+	if K >= n {
+		return nil, &ShortError{Name: out, Len: n, Need: min(K, math.MaxInt-1) + 1, Why: "for lags up to " + strconv.Itoa(K)}
+	}
+	if p >= n {
+		return nil, &ArgError{Arg: "DistributedLagSettings.ARP", Value: strconv.Itoa(set.ARP), Want: "below the series length " + strconv.Itoa(n)}
+	}
+	if m > n {
+		return nil, &ShortError{Name: out, Len: n, Need: m, Why: "for " + strconv.Itoa(m) + " inputs"}
+	}
 	maxIter := set.MaxIter
 	if maxIter <= 0 {
 		maxIter = 50

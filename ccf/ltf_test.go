@@ -113,4 +113,13 @@ func TestDistributedLagBadInput(t *testing.T) {
 	if _, err := DistributedLag(y, [][]float64{make([]float64, 60)}, nil); !errors.As(err, &ce) {
 		t.Errorf("constant: %v", err)
 	}
+	// Lags and orders beyond the series: typed errors with sensible
+	// counts (the coefficient counts used to overflow into negative
+	// "need at least" figures).
+	if _, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{Lags: math.MaxInt}); !errors.As(err, &se) || se.Need != math.MaxInt {
+		t.Errorf("Lags = MaxInt: %v", err)
+	}
+	if _, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{ARP: math.MaxInt}); !errors.As(err, &ae) {
+		t.Errorf("ARP = MaxInt: %v", err)
+	}
 }

@@ -111,6 +111,11 @@ func NoiseSeries(y []float64, xs [][]float64, ws []*Weights) (noise []float64, s
 		if ws[i] == nil {
 			return nil, 0, &ArgError{Arg: "ws[" + strconv.Itoa(i) + "]", Value: "nil", Want: "weights"}
 		}
+		for k, v := range ws[i].V {
+			if !finite(v) {
+				return nil, 0, &ValueError{Name: name + " weights", Index: k, Value: v}
+			}
+		}
 		start = max(start, len(ws[i].V)-1)
 	}
 	if len(y) <= start {
