@@ -177,3 +177,52 @@ func TestARIMAFallback(t *testing.T) {
 	}
 	t.Logf("fallback filter %v (Ljung-Box p = %.3f)", res.Filter, res.Check.P)
 }
+
+// TestHostileSettings feeds settings and hand-built filters that used to
+// panic or give unbounded numbers: each must come back as a typed error,
+// and the series must be left as they were.
+func TestHostileSettings(t *testing.T) {
+	x := make([]float64, 200)
+	y := make([]float64, 200)
+	for i := 1; i < len(x); i++ {
+		x[i] = 0.7*x[i-1] + math.Sin(float64(i)*1.3)
+		y[i] = 0.5*x[i-1] + 0.2*math.Cos(float64(i)*0.7)
+	}
+	x0 := append([]float64(nil), x...)
+	y0 := append([]float64(nil), y...)
+	var se *prewhiten.ShortError
+	long := make([]float64, 300) // (1 - B^299), longer than the series
+	long[0], long[299] = 1, -1
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: long}); !errors.As(err, &se) || se.Need != 302 {
+		t.Errorf("differencing longer than the series: %v", err)
+	}
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{MaxOrder: math.MaxInt}); !errors.As(err, &se) || se.Need < len(x) {
+		t.Errorf("MaxOrder = MaxInt: %v", err)
+	}
+	if _, err := prewhiten.Pair(x, y, "y", &prewhiten.Settings{Lags: math.MaxInt}); !errors.As(err, &se) || se.Need < len(x) {
+		t.Errorf("Lags = MaxInt: %v", err)
+	}
+	var ae *prewhiten.ArgError
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &arma.Model{AR: []float64{math.NaN()}}}); !errors.As(err, &ae) {
+		t.Errorf("caller's ARMA with a NaN coefficient: %v", err)
+	}
+	f, err := prewhiten.Fit(x, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, g := range map[string]prewhiten.Filter{
+		"zero value":        {},
+		"NaN in AR":         {Diff: []float64{1}, AR: []float64{1, math.NaN()}, MA: []float64{1}},
+		"AR leading 2":      {Diff: []float64{1}, AR: []float64{2, 0.5}, MA: []float64{1}},
+		"non-invertible MA": {Diff: []float64{1}, AR: f.AR, MA: []float64{1, 3}}, // root B = -1/3
+	} {
+		if _, _, err := g.Apply(y, "y"); !errors.As(err, &ae) {
+			t.Errorf("Apply with a filter %s: %v", name, err)
+		}
+	}
+	for i := range x {
+		if x[i] != x0[i] || y[i] != y0[i] {
+			t.Fatalf("series modified at %d", i)
+		}
+	}
+}

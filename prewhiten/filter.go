@@ -4,11 +4,13 @@ import (
 	"context"
 	"errors"
 	"math"
+	"math/cmplx"
 	"strconv"
 	"strings"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/poly"
 )
 
 // Settings tunes Fit and Pair. The zero value gives the defaults.
@@ -162,6 +164,9 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 	if err := checkPoly("Settings.Diff", set.Diff); err != nil {
 		return Filter{}, err
 	}
+	if d := len(set.Diff) - 1; d > 0 && d+3 > len(x) {
+		return Filter{}, &ShortError{Name: name, Len: len(x), Need: d + 3, Why: "for the differencing " + strconv.Quote(polyText(set.Diff))}
+	}
 	if set.ARMA == nil && set.Order != nil {
 		ord := *set.Order
 		if set.Diff != nil {
@@ -205,8 +210,8 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 func fitAR(x []float64, name string, diff []float64, maxOrder int) (Filter, error) {
 	d := len(diff) - 1
 	w := applyFIR(x, diff)[d:]
-	need := max(3, maxOrder+2)
-	if len(w) < need {
+	if len(w) < 3 || maxOrder > len(w)-2 {
+		need := max(3, min(maxOrder, math.MaxInt-2-d)+2) // no overflow for huge MaxOrder
 		return Filter{}, &ShortError{Name: name, Len: len(x), Need: need + d, Why: "for the prewhitening autoregression"}
 	}
 	if isConstant(w) {
@@ -230,6 +235,11 @@ func fromARMA(x []float64, name string, set Settings) (Filter, error) {
 		diff = normPoly(m.DiffPoly())
 	}
 	f := Filter{Input: name, Diff: diff, AR: normPoly(m.ARPoly()), MA: normPoly(m.MAPoly()), Mean: m.Mean, Sigma2: m.Sigma2}
+	for _, c := range [][]float64{f.Diff, f.AR, f.MA, {1, f.Mean}} {
+		if err := checkPoly("Settings.ARMA", c); err != nil {
+			return Filter{}, err
+		}
+	}
 	if ok, _, err := m.Invertible(); err != nil || !ok {
 		return Filter{}, &ArgError{Arg: "Settings.ARMA", Value: "a non-invertible MA part", Want: "an invertible model (its inverse filters the input)"}
 	}
@@ -310,6 +320,9 @@ func (f Filter) Apply(y []float64, name string) (out []float64, start int, err e
 	if name == "" {
 		name = "y"
 	}
+	if err := f.check(); err != nil {
+		return nil, 0, err
+	}
 	if err := checkSeries(name, y); err != nil {
 		return nil, 0, err
 	}
@@ -359,6 +372,36 @@ func (f Filter) Apply(y []float64, name string) (out []float64, start int, err e
 		filter.Run(dst, []float64{1}, f.MA, dst)
 	}
 	return out, start, nil
+}
+
+// check validates a filter built by hand (Fit's filters always pass):
+// Diff, AR and MA present with constant term 1 and finite coefficients,
+// and an invertible MA part (every root of theta(B) outside the unit
+// circle), without which its inverse grows without bound.
+func (f Filter) check() error {
+	for _, p := range []struct {
+		arg string
+		c   []float64
+	}{{"Filter.Diff", f.Diff}, {"Filter.AR", f.AR}, {"Filter.MA", f.MA}} {
+		if p.c == nil {
+			return &ArgError{Arg: p.arg, Value: "nil", Want: "a polynomial with constant term 1 ({1} for none)"}
+		}
+		if err := checkPoly(p.arg, p.c); err != nil {
+			return err
+		}
+	}
+	if len(f.MA) > 1 {
+		roots, err := poly.Roots(f.MA)
+		if err != nil {
+			return &ArgError{Arg: "Filter.MA", Value: strconv.Quote(polyText(f.MA)), Want: "an invertible MA part: " + err.Error()}
+		}
+		for _, r := range roots {
+			if cmplx.Abs(r) <= 1 {
+				return &ArgError{Arg: "Filter.MA", Value: strconv.Quote(polyText(f.MA)), Want: "an invertible MA part (roots in B outside the unit circle)"}
+			}
+		}
+	}
+	return nil
 }
 
 // meanOf returns the mean of x with a correction pass (accurate for

@@ -1,6 +1,7 @@
 package prewhiten
 
 import (
+	"math"
 	"strconv"
 
 	"github.com/backshift/backshift/arma"
@@ -117,7 +118,7 @@ func pairWith(f Filter, x, y []float64, name, yName string, lags int, level floa
 		lags = fitdf + 1
 	}
 	if lags >= m {
-		return nil, &ShortError{Name: name, Len: len(x), Need: start + lags + 1, Why: "to check the prewhitened input for whiteness"}
+		return nil, &ShortError{Name: name, Len: len(x), Need: start + min(lags, math.MaxInt-start-1) + 1, Why: "to check the prewhitened input for whiteness"}
 	}
 	if isConstant(alpha[start:]) {
 		return nil, &ConstantError{Name: name}
