@@ -22,5 +22,6 @@
 // A model in a config is an approximation valid near the operating
 // conditions of the data it was identified from; controllers designed on
 // it must be commissioned under the site's safety procedures, with
-// independent safety interlocks.
+// independent safety interlocks; defer to local codes and licensed
+// practice.
 package main

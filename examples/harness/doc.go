@@ -23,5 +23,6 @@
 // A model identified from data is an approximation valid near the
 // operating conditions of that data. A controller that passes these tests
 // must still be commissioned on site under the site's safety procedures,
-// with independent safety interlocks.
+// with independent safety interlocks; defer to local codes and licensed
+// practice. The program says so at the end of its summary.
 package main

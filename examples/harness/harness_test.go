@@ -206,7 +206,7 @@ func TestMainOutput(t *testing.T) {
 	if err := run(&buf); err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"settling to +-0.2 degC", "overshoot", "peak deviation"} {
+	for _, want := range []string{"settling to +-0.2 degC", "overshoot", "peak deviation", "independent safety\ninterlocks", "licensed practice", "steady-state error      +0.00 degC"} {
 		if !strings.Contains(buf.String(), want) {
 			t.Errorf("summary lacks %q:\n%s", want, buf.String())
 		}

@@ -4,6 +4,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 )
 
@@ -97,7 +98,7 @@ func runWith(w io.Writer, spec string, sd float64) error {
 	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min):\n", sc.Name, tuneKc, tuneTi)
 	fmt.Fprintf(w, "  settling to +-0.2 degC  %5.0f min\n", m.Settling)
 	fmt.Fprintf(w, "  overshoot               %5.1f %%\n", 100*m.Overshoot)
-	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", m.SteadyError)
+	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
 	fmt.Fprintf(w, "  valve at its limit      %5d min\n", atLimit(tr.Valve))
 
 	sc = DisturbanceStep()
@@ -110,8 +111,25 @@ func runWith(w io.Writer, spec string, sd float64) error {
 	fmt.Fprintf(w, "%s:\n", sc.Name)
 	fmt.Fprintf(w, "  peak deviation          %5.2f degC\n", m.PeakDeviation)
 	fmt.Fprintf(w, "  back within +-0.2 degC  %5.0f min\n", m.Settling)
-	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", m.SteadyError)
+	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+	fmt.Fprint(w, "\n"+caution)
 	return nil
+}
+
+// caution closes the summary: passing these tests is not commissioning.
+const caution = `These tests check the controller against a model, which is an approximation
+valid near the operating conditions of the data it came from. Commission the
+controller on site under the site's safety procedures, with independent safety
+interlocks; defer to local codes and licensed practice.
+`
+
+// noNegZero returns v, or +0 when v rounds to zero at the given decimals
+// (so that a summary never shows -0.00).
+func noNegZero(v float64, decimals int) float64 {
+	if math.Abs(v) < 0.5*math.Pow(10, -float64(decimals)) {
+		return 0
+	}
+	return v
 }
 
 func atLimit(u []float64) int {

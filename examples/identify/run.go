@@ -113,6 +113,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 		fmt.Fprintf(stdout, "\nTo test a controller on the identified model:\n  go run ./examples/harness -noise %.3g -spec '%s'\n",
 			math.Sqrt(est.Sigma2), rounded(est.Model))
 	}
+	fmt.Fprint(stdout, "\n"+caution)
 	if o.Save != "" {
 		if err := saveConfig(o.Save, est, ds); err != nil {
 			return nil, fmt.Errorf("save: %w", err)
@@ -344,3 +345,10 @@ func simulate(est *tf.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation
 		from, s.RMS, 100*s.Explained)
 	return s, nil
 }
+
+// caution follows the report: what the identified model is good for.
+const caution = `Caution: the identified model is an approximation, valid near the operating
+conditions of this record. Commission any controller tuned on it under the
+site's safety procedures, with independent safety interlocks; defer to local
+codes and licensed practice.
+`
