@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"sort"
 	"strconv"
 	"strings"
@@ -28,7 +29,7 @@ func parsePlan(s string) ([]planStep, error) {
 		a, b, ok := strings.Cut(f, ":")
 		from, err1 := strconv.Atoi(strings.TrimSpace(a))
 		v, err2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
-		if !ok || err1 != nil || err2 != nil || from < 0 {
+		if !ok || err1 != nil || err2 != nil || from < 0 || math.IsNaN(v) || math.IsInf(v, 0) {
 			return nil, fmt.Errorf("plan %q: want from:value pairs such as 0:55,60:75 (from in samples after the record)", s)
 		}
 		out = append(out, planStep{from, v})

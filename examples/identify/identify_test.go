@@ -233,3 +233,30 @@ func TestPlanAndInterval(t *testing.T) {
 		}
 	}
 }
+
+// TestBadForecastFlags: a horizon beyond the record (which used to run
+// the machine out of memory at 10^11), a negative one and a plan with a
+// non-number or NaN are reported before the fit starts.
+func TestBadForecastFlags(t *testing.T) {
+	for _, c := range []struct {
+		horizon int
+		plan    string
+		want    string
+	}{
+		{100_000_000_000, "0:65", "horizon 100000000000: want 0 (no forecast) to 5760 samples"},
+		{-5, "0:65", "horizon -5"},
+		{180, "0:abc", `plan "0:abc"`},
+		{180, "0:NaN", `plan "0:NaN"`},
+	} {
+		o := DefaultOptions()
+		o.Horizon, o.Plan, o.Quiet = c.horizon, c.plan, true
+		var out bytes.Buffer
+		_, err := Run(context.Background(), o, &out, nil)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("horizon %d plan %q: error %v, want it to contain %q", c.horizon, c.plan, err, c.want)
+		}
+		if strings.Contains(out.String(), "Candidate models") {
+			t.Errorf("horizon %d plan %q: the fit ran before the flags were checked", c.horizon, c.plan)
+		}
+	}
+}

@@ -64,7 +64,7 @@ func main() {
 	flag.StringVar(&o.Pictures, "pictures", "", "write PNG pictures to this folder")
 	flag.StringVar(&o.Save, "save", "", "write the fitted model as a JSON config (the format of examples/config) to this file")
 	flag.StringVar(&o.WriteData, "write-data", "", "write the built-in greenhouse record as CSV to this file and exit")
-	flag.IntVar(&o.Horizon, "horizon", o.Horizon, "forecast horizon in samples")
+	flag.IntVar(&o.Horizon, "horizon", o.Horizon, "forecast horizon in samples (0: no forecast)")
 	flag.StringVar(&o.Plan, "plan", o.Plan, "planned first input after the record, as from:value pairs (samples from the end)")
 	flag.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500)")
 	flag.BoolVar(&o.Quiet, "quiet", false, "no progress messages on standard error")

@@ -74,6 +74,14 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if err != nil {
 		return nil, err
 	}
+	// The forecast settings are checked before the fit, which takes
+	// seconds: a mistyped flag should not wait for it.
+	if o.Horizon < 0 || o.Horizon > ds.n {
+		return nil, fmt.Errorf("horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
+	}
+	if _, err := parsePlan(o.Plan); err != nil {
+		return nil, err
+	}
 	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
 	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
 
