@@ -78,6 +78,6 @@ func ExampleResult_String() {
 	//   phi1            0.83097       0.0278    29.85
 	//   mean             20.228        0.289    70.06
 	//   sigma^2 0.95023 (SSQ 379.142)  log-likelihood -555.97  AIC 1117.94  AICc 1118.00  BIC 1129.91
-	//   converged: relative reduction of the sum of squares below tolerance after 6 iterations
+	//   converged: relative reduction of the sum of squares below tolerance after 3 iterations
 	// Ljung-Box Q(10) = 11.60 on 9 df
 }

@@ -91,7 +91,7 @@ type Result struct {
 	Iter   int           // iterations taken
 	Evals  int           // calls of Eval
 	Reason Reason        // why it stopped
-	JTJInv *mat.SymDense // (J'J)^-1 at X; nil when J'J is singular
+	JTJInv *mat.SymDense // (J'J)^-1 at X (or, after a final Gauss-Newton step predicted below FTol, at the point just before it); nil when J'J is singular
 }
 
 const epsilon = 0x1p-52
@@ -187,6 +187,31 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 		if lastRel < set.FTol && (prevRel < set.FTol || gnSmall(&gnChol, a, g, f, set.FTol)) {
 			reason = SmallReduction
 			break
+		}
+		// After an accepted step, a full Gauss-Newton step that predicts
+		// less than FTol (relative) from a positive definite J'J also
+		// stops: near the minimum the quadratic model is accurate, and
+		// taking that step would cost a whole evaluation (residuals and
+		// Jacobian) for a change below the tolerance.
+		// The step itself is still taken, with residuals only (no
+		// Jacobian), and kept when it does not increase the sum of squares.
+		if it > 0 && lastRel < math.Inf(1) {
+			if pred, ok := gnPredict(&gnChol, a, g, dx); ok && pred <= set.FTol*f {
+				for j := range x {
+					xt[j] = x[j] + dx[j]
+				}
+				err := p.Eval(xt, tr, nil)
+				res.Evals++
+				if err == nil {
+					if ft := ssq(tr); ft <= f {
+						x, xt = xt, x
+						r, tr = tr, r
+						f = ft
+					}
+				}
+				reason = SmallReduction
+				break
+			}
 		}
 		aug.CopySym(a)
 		for j := 0; j < n; j++ {
@@ -300,13 +325,55 @@ func ssq(r []float64) float64 {
 }
 
 // normal writes J'J into a and J'r into g.
+// Column j is read once for two products at a time (dot2), which halves
+// the loads of column j; each product is summed in the same order as dot,
+// so the result is bit-identical to computing the products one by one.
 func normal(a *mat.SymDense, g []float64, jac [][]float64, r []float64) {
+	n := len(jac)
 	for j, cj := range jac {
-		g[j] = dot(cj, r)
-		for k := j; k < len(jac); k++ {
+		// Products of column j with r, then with columns j..n-1.
+		k := j
+		var v0, v1 float64
+		if k < n {
+			g[j], v0 = dot2(cj, r, jac[k])
+			a.SetSym(j, k, v0)
+			k++
+		} else {
+			g[j] = dot(cj, r)
+		}
+		for ; k+1 < n; k += 2 {
+			v0, v1 = dot2(cj, jac[k], jac[k+1])
+			a.SetSym(j, k, v0)
+			a.SetSym(j, k+1, v1)
+		}
+		if k < n {
 			a.SetSym(j, k, dot(cj, jac[k]))
 		}
 	}
+}
+
+// dot2 returns (a.b, a.c), each summed exactly as dot sums it.
+func dot2(a, b, c []float64) (float64, float64) {
+	b = b[:len(a)]
+	c = c[:len(a)]
+	var s0, s1, s2, s3, t0, t1, t2, t3 float64
+	i := 0
+	for ; i+4 <= len(a); i += 4 {
+		a0, a1, a2, a3 := a[i], a[i+1], a[i+2], a[i+3]
+		s0 += a0 * b[i]
+		s1 += a1 * b[i+1]
+		s2 += a2 * b[i+2]
+		s3 += a3 * b[i+3]
+		t0 += a0 * c[i]
+		t1 += a1 * c[i+1]
+		t2 += a2 * c[i+2]
+		t3 += a3 * c[i+3]
+	}
+	for ; i < len(a); i++ {
+		s0 += a[i] * b[i]
+		t0 += a[i] * c[i]
+	}
+	return (s0 + s1) + (s2 + s3), (t0 + t1) + (t2 + t3)
 }
 
 func dot(a, b []float64) float64 {
@@ -337,6 +404,26 @@ func gradSmall(a *mat.SymDense, g []float64, f, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// gnPredict writes the full Gauss-Newton step dx = -(J'J)^-1 g into dx
+// and returns the reduction of the sum of squares it predicts,
+// 0.5 g'(J'J)^-1 g, and whether J'J was positive definite so that the
+// prediction exists.
+func gnPredict(c *mat.Cholesky, a *mat.SymDense, g, dx []float64) (float64, bool) {
+	if !c.Factorize(a) {
+		return 0, false
+	}
+	gv := mat.NewVecDense(len(g), append([]float64(nil), g...))
+	d := mat.NewVecDense(len(dx), dx)
+	if err := c.SolveVecTo(d, gv); err != nil {
+		return 0, false
+	}
+	pred := 0.5 * mat.Dot(gv, d)
+	for j := range dx {
+		dx[j] = -dx[j]
+	}
+	return pred, !math.IsNaN(pred)
 }
 
 // gnSmall reports whether the Gauss-Newton step from the current point,

@@ -8,6 +8,8 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 type refProblem struct {
@@ -176,5 +178,36 @@ func TestCanceled(t *testing.T) {
 	res, err := Minimize(ctx, prob, []float64{0}, nil)
 	if err != nil || res.Reason != Canceled || res.Reason.Converged() || res.X[0] != 0 {
 		t.Errorf("got %v %v %v", res.X, res.Reason, err)
+	}
+}
+
+// normal's paired products must equal the one-by-one dot products bit for
+// bit (the same summation order), for odd and even column counts and
+// lengths that are not multiples of the unrolling.
+func TestNormalMatchesDot(t *testing.T) {
+	for _, n := range []int{1, 2, 3, 6, 7} {
+		for _, m := range []int{1, 5, 103} {
+			jac := newCols(n, m)
+			r := make([]float64, m)
+			for i := range r {
+				r[i] = math.Sin(float64(3*i + 1))
+				for j := range jac {
+					jac[j][i] = math.Cos(float64(i*(j+2) + j))
+				}
+			}
+			a := mat.NewSymDense(n, nil)
+			g := make([]float64, n)
+			normal(a, g, jac, r)
+			for j := 0; j < n; j++ {
+				if g[j] != dot(jac[j], r) {
+					t.Fatalf("n=%d m=%d: g[%d] = %v, dot gives %v", n, m, j, g[j], dot(jac[j], r))
+				}
+				for k := j; k < n; k++ {
+					if want := dot(jac[j], jac[k]); a.At(j, k) != want {
+						t.Fatalf("n=%d m=%d: (J'J)[%d,%d] = %v, dot gives %v", n, m, j, k, a.At(j, k), want)
+					}
+				}
+			}
+		}
 	}
 }
