@@ -235,6 +235,15 @@ func TestOtherPlant(t *testing.T) {
 	if err := runWith(&buf, "temp = 0.2 B^3 outdoor + a", NoiseSD); err == nil || !strings.Contains(err.Error(), "no input named valve") {
 		t.Errorf("error %v", err)
 	}
+	// An unstable plant (pole 1.5): the loop diverges, and the summary
+	// says so instead of printing settling times of +Inf and overshoots
+	// of 10^60 %; the caution still closes it.
+	buf.Reset()
+	err := runWith(&buf, "temp = 0.01 / (1 - 1.5 B) B^3 valve + a", NoiseSD)
+	if err == nil || !strings.Contains(err.Error(), "diverged") || !strings.Contains(buf.String(), "the closed loop diverged") ||
+		strings.Contains(buf.String(), "Inf") || !strings.Contains(buf.String(), "licensed practice") {
+		t.Errorf("unstable plant: error %v, summary:\n%s", err, buf.String())
+	}
 }
 
 // TestMeasure checks the response metrics on trajectories with known

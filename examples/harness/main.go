@@ -96,7 +96,11 @@ func runWith(w io.Writer, spec string, sd float64) error {
 	}
 	m := Measure(tr.Temp, 60, 16, 20, 0.2, 1)
 	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min):\n", sc.Name, tuneKc, tuneTi)
-	fmt.Fprintf(w, "  settling to +-0.2 degC  %5.0f min\n", m.Settling)
+	if diverged(w, tr.Temp, 20) {
+		fmt.Fprint(w, "\n"+caution)
+		return fmt.Errorf("%s: the closed loop diverged", sc.Name)
+	}
+	fmt.Fprintf(w, "  settling to +-0.2 degC  %s\n", minutes(m.Settling))
 	fmt.Fprintf(w, "  overshoot               %5.1f %%\n", 100*m.Overshoot)
 	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
 	fmt.Fprintf(w, "  valve at its limit      %5d min\n", atLimit(tr.Valve))
@@ -109,8 +113,12 @@ func runWith(w io.Writer, spec string, sd float64) error {
 	}
 	m = Measure(tr.Temp, 60, 18, 18, 0.2, 1)
 	fmt.Fprintf(w, "%s:\n", sc.Name)
+	if diverged(w, tr.Temp, 18) {
+		fmt.Fprint(w, "\n"+caution)
+		return fmt.Errorf("%s: the closed loop diverged", sc.Name)
+	}
 	fmt.Fprintf(w, "  peak deviation          %5.2f degC\n", m.PeakDeviation)
-	fmt.Fprintf(w, "  back within +-0.2 degC  %5.0f min\n", m.Settling)
+	fmt.Fprintf(w, "  back within +-0.2 degC  %s\n", minutes(m.Settling))
 	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
 	fmt.Fprint(w, "\n"+caution)
 	return nil
@@ -122,6 +130,30 @@ valid near the operating conditions of the data it came from. Commission the
 controller on site under the site's safety procedures, with independent safety
 interlocks; defer to local codes and licensed practice.
 `
+
+// diverged reports, and says on w, when the temperature left any
+// plausible range (1000 degC from the setpoint sp, or not finite): the
+// loop is unstable with this controller or this plant, and settling
+// figures would be meaningless.
+func diverged(w io.Writer, temp []float64, sp float64) bool {
+	for k, v := range temp {
+		if !(math.Abs(v-sp) <= 1000) {
+			fmt.Fprintf(w, "  the closed loop diverged: the temperature is %.3g degC at minute %d\n"+
+				"  (an unstable plant, or a controller that destabilises it); no response figures\n", v, k)
+			return true
+		}
+	}
+	return false
+}
+
+// minutes formats a settling time, or says that the response did not
+// settle within the run.
+func minutes(v float64) string {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return "  not within the run"
+	}
+	return fmt.Sprintf("%5.0f min", v)
+}
 
 // noNegZero returns v, or +0 when v rounds to zero at the given decimals
 // (so that a summary never shows -0.00).
