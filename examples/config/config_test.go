@@ -17,7 +17,7 @@ func TestDemoRuns(t *testing.T) {
 		"greenhouse.json: Greenhouse 3, north block, 4 models, all valid",
 		// Gains, dead times and time constants of the first model: the
 		// closed forms w/(1-d) and -1/ln(d) min (common practice).
-		"gain             0.2\n", "dead time        3 min\n", "time constant    19.5 min",
+		"gain             0.2 temp per unit of valve\n", "dead time        3 min\n", "time constant    19.5 min",
 		"gain             none (integrating: pole at z = 1)",
 		"oscillatory mode",
 		"broken.json:6:34: the constant term of the denominator must be 1, not 2",

@@ -92,7 +92,7 @@ func Write(w io.Writer, m tf.Model) error {
 				}
 			}
 		} else {
-			fmt.Fprintf(w, "    gain             %.4g\n", p.Gain)
+			fmt.Fprintf(w, "    gain             %.4g %s per unit of %s\n", p.Gain, m.Output, p.Input)
 		}
 		fmt.Fprintf(w, "    dead time        %s\n", span(float64(p.DeadTime), float64(p.DeadTime)*iv, unit))
 		for _, md := range p.Modes {

@@ -44,7 +44,7 @@ func TestWrite(t *testing.T) {
 	if err := Write(&b, greenhouse.True.Model()); err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"valve -> temp", "gain             0.2\n", "dead time        3 min\n", "time constant    19.5 min"} {
+	for _, want := range []string{"valve -> temp", "gain             0.2 temp per unit of valve\n", "dead time        3 min\n", "time constant    19.5 min"} {
 		if !strings.Contains(b.String(), want) {
 			t.Errorf("summary lacks %q:\n%s", want, b.String())
 		}
