@@ -82,9 +82,10 @@ func (c *chart) setX(lo, hi float64) { c.xFixed, c.xmin, c.xmax = true, lo, hi }
 // setY fixes the y range.
 func (c *chart) setY(lo, hi float64) { c.yFixed, c.ymin, c.ymax = true, lo, hi }
 
-// xRange returns the x range drawn: the fixed one or that of the data.
+// xRange returns the x range drawn: the fixed one (when it is a finite,
+// non-empty interval) or that of the data.
 func (c *chart) xRange() (lo, hi float64) {
-	if c.xFixed {
+	if c.xFixed && finite(c.xmin) && finite(c.xmax) && c.xmin < c.xmax {
 		return c.xmin, c.xmax
 	}
 	lo, hi = math.Inf(1), math.Inf(-1)
@@ -95,10 +96,10 @@ func (c *chart) xRange() (lo, hi float64) {
 	return widen(lo, hi, 0)
 }
 
-// yRange returns the y range drawn: the fixed one or that of the data
-// with 4 % room above and below.
+// yRange returns the y range drawn: the fixed one (when it is a finite,
+// non-empty interval) or that of the data with 4 % room above and below.
 func (c *chart) yRange() (lo, hi float64) {
-	if c.yFixed {
+	if c.yFixed && finite(c.ymin) && finite(c.ymax) && c.ymin < c.ymax {
 		return c.ymin, c.ymax
 	}
 	lo, hi = math.Inf(1), math.Inf(-1)
@@ -158,7 +159,7 @@ func ticks(lo, hi float64) ([]float64, []string) {
 	dec := max(0, int(-math.Floor(math.Log10(step)+1e-9)))
 	var vs []float64
 	var ls []string
-	for i := math.Ceil(lo/step - 1e-9); i*step <= hi+step*1e-9; i++ {
+	for i := math.Ceil(lo/step - 1e-9); i*step <= hi+step*1e-9 && len(vs) < 20; i++ {
 		v := i * step
 		if math.Abs(v) < step*1e-9 {
 			v = 0

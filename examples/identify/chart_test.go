@@ -1,7 +1,12 @@
 package main
 
 import (
+	"image/png"
+	"math"
+	"os"
+	"path/filepath"
 	"slices"
+	"strconv"
 	"testing"
 )
 
@@ -23,5 +28,47 @@ func TestTicks(t *testing.T) {
 		if !slices.Equal(got, tc.want) {
 			t.Errorf("ticks(%g, %g) = %q, want %q", tc.lo, tc.hi, got, tc.want)
 		}
+	}
+}
+
+// TestChartDegenerate draws charts whose data or fixed ranges are empty,
+// single-valued or not finite: each must still be written (as a PNG with
+// default ranges) without hanging or panicking.
+func TestChartDegenerate(t *testing.T) {
+	nan := math.NaN()
+	dir := t.TempDir()
+	for i, c := range []*chart{
+		newPlot("empty", "x", "y"),
+		func() *chart {
+			p := newPlot("all NaN", "x", "y")
+			line(p, []float64{0, 1}, []float64{nan, nan}, colData, 1)
+			return p
+		}(),
+		func() *chart {
+			p := newPlot("one value", "x", "y")
+			line(p, []float64{2, 2}, []float64{5, 5}, colData, 1)
+			return p
+		}(),
+		func() *chart {
+			p := newPlot("bad fixed range", "x", "y")
+			line(p, []float64{0, 1}, []float64{0, 1}, colData, 1)
+			p.setY(0, nan)
+			p.setX(3, 3)
+			return p
+		}(),
+	} {
+		path := filepath.Join(dir, strconv.Itoa(i)+".png")
+		if err := savePanels(path, []*chart{c}, 10, 6); err != nil {
+			t.Errorf("%s: %v", c.Title, err)
+			continue
+		}
+		f, err := os.Open(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := png.Decode(f); err != nil {
+			t.Errorf("%s: %v", c.Title, err)
+		}
+		f.Close()
 	}
 }
