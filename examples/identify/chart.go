@@ -22,7 +22,7 @@ import (
 // and its raster back end (vg/vgimg) only. The gonum.org/v1/plot package
 // itself registers every back end (PDF, SVG, EPS, TeX) with their fonts
 // and encoders, which more than doubles the packages this program
-// compiles (232 against 176) and slows a first `go run` by several
+// compiles (232 against 168) and slowed a first `go run` by 3 to 10
 // seconds; the few chart elements the pictures need are drawn here.
 
 // chart is one panel: a title, two labelled axes with plain tick labels
