@@ -3,6 +3,8 @@ package arma
 import (
 	"math"
 	"strconv"
+
+	"github.com/backshift/backshift/internal/vec"
 )
 
 // Correlogram is the sample autocorrelation function of a series.
@@ -88,7 +90,7 @@ func AutocovTo(dst, x []float64) float64 {
 	}
 	inv := 1 / float64(n)
 	for k := range dst {
-		dst[k] = dot(d[:n-k], d[k:]) * inv
+		dst[k] = vec.Dot(d[:n-k], d[k:]) * inv
 	}
 	return m
 }
@@ -106,23 +108,6 @@ func meanOf(x []float64) float64 {
 		c += v - m
 	}
 	return m + c/float64(len(x))
-}
-
-// dot returns the inner product of a and b[:len(a)], four partial sums.
-func dot(a, b []float64) float64 {
-	b = b[:len(a)]
-	var s0, s1, s2, s3 float64
-	i := 0
-	for ; i+4 <= len(a); i += 4 {
-		s0 += a[i] * b[i]
-		s1 += a[i+1] * b[i+1]
-		s2 += a[i+2] * b[i+2]
-		s3 += a[i+3] * b[i+3]
-	}
-	for ; i < len(a); i++ {
-		s0 += a[i] * b[i]
-	}
-	return (s0 + s1) + (s2 + s3)
 }
 
 // Partial is the sample partial autocorrelation function.

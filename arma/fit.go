@@ -11,6 +11,8 @@ import (
 	"github.com/backshift/backshift/internal/lm"
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
+
+	"github.com/backshift/backshift/internal/vec"
 )
 
 // MeanMode says whether Fit includes the mean of the differenced series.
@@ -459,7 +461,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		if err := e.eval(nil, r, nil); err != nil {
 			return nil, err
 		}
-		lres = lm.Result{X: nil, SSQ: dot(r, r), Resid: r, Reason: lm.SmallGradient}
+		lres = lm.Result{X: nil, SSQ: vec.Dot(r, r), Resid: r, Reason: lm.SmallGradient}
 	} else {
 		if !o.AllowNonInvertible && e.narma > 0 {
 			e.set(x0)
@@ -512,7 +514,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			if e.eval(trial, trialR, nil) != nil {
 				break
 			}
-			ft := dot(trialR, trialR)
+			ft := vec.Dot(trialR, trialR)
 			if !(ft <= f*(1+floor)) {
 				break
 			}
@@ -528,7 +530,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	if polishedR != nil {
 		finalR = polishedR
 	}
-	f = dot(finalR, finalR)
+	f = vec.Dot(finalR, finalR)
 	e.set(x)
 	res.Noise = Noise{AR: e.ar, MA: e.ma}
 	res.AR = e.ar.Coeffs()

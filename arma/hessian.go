@@ -6,6 +6,8 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"github.com/backshift/backshift/internal/filter"
+
+	"github.com/backshift/backshift/internal/vec"
 )
 
 // hessian returns H = J'J + Q at x, half the Hessian of the sum of
@@ -86,7 +88,7 @@ func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f fl
 		tot := 0.0
 		for l, cl := range c {
 			if cl != 0 {
-				tot += cl * dot(lam, s[t0-l:t0-l+m])
+				tot += cl * vec.Dot(lam, s[t0-l:t0-l+m])
 			}
 		}
 		return tot
@@ -95,7 +97,7 @@ func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f fl
 		tot := 0.0
 		for l, cl := range c {
 			if cl != 0 && l < m {
-				tot += cl * dot(lam[l:], s[:m-l])
+				tot += cl * vec.Dot(lam[l:], s[:m-l])
 			}
 		}
 		return tot
@@ -135,7 +137,7 @@ func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f fl
 	jtj = mat.NewSymDense(np, nil)
 	g = make([]float64, np)
 	for j := 0; j < np; j++ {
-		g[j] = dot(jac[j], r)
+		g[j] = vec.Dot(jac[j], r)
 		for k := j; k < np; k++ {
 			q := 0.0
 			if j < na && k < na {
@@ -158,13 +160,13 @@ func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f fl
 			if k < na && dtheta[k] != nil {
 				q -= win(dtheta[k], jac[j])
 			}
-			jj := dot(jac[j], jac[k])
+			jj := vec.Dot(jac[j], jac[k])
 			jtj.SetSym(j, k, jj)
 			H.SetSym(j, k, jj+q)
 		}
 	}
 	_ = phi
-	return H, jtj, g, dot(r, r), true
+	return H, jtj, g, vec.Dot(r, r), true
 }
 
 // diffPolys returns (a[k] - b[k]) / h for each parameter k (nil when

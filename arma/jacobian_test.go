@@ -6,6 +6,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/backshift/backshift/internal/vec"
 )
 
 // TestJacobianFiniteDifference checks the analytic Jacobian (filtered
@@ -129,7 +131,7 @@ func TestHessianFiniteDifference(t *testing.T) {
 			eng.eval(x, r, jac)
 			g := make([]float64, np)
 			for k := range g {
-				g[k] = dot(jac[k], r)
+				g[k] = vec.Dot(jac[k], r)
 			}
 			return g
 		}

@@ -1,5 +1,7 @@
 package ccf
 
+import "github.com/backshift/backshift/internal/vec"
+
 // directChunk is the number of samples per cache block of the direct
 // path: the centred blocks of x and y (8 bytes per sample each, plus K
 // lags) stay in the first-level cache for small K.
@@ -146,7 +148,7 @@ func lagBlockGo(out, a, b []float64) {
 		}
 	}
 	for ; j < L; j++ {
-		out[j] += dot1(a, b[j:j+m])
+		out[j] += vec.Dot(a, b[j:j+m])
 	}
 }
 
@@ -162,21 +164,4 @@ func dot4(a, b []float64) [4]float64 {
 		s3 += av * b3[i]
 	}
 	return [4]float64{s0, s1, s2, s3}
-}
-
-// dot1 returns sum_i a[i] b[i]; len(b) = len(a).
-func dot1(a, b []float64) float64 {
-	var s0, s1, s2, s3 float64
-	b = b[:len(a)]
-	i := 0
-	for ; i+4 <= len(a); i += 4 {
-		s0 += a[i] * b[i]
-		s1 += a[i+1] * b[i+1]
-		s2 += a[i+2] * b[i+2]
-		s3 += a[i+3] * b[i+3]
-	}
-	for ; i < len(a); i++ {
-		s0 += a[i] * b[i]
-	}
-	return (s0 + s1) + (s2 + s3)
 }

@@ -7,6 +7,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/mat"
+
+	"github.com/backshift/backshift/internal/vec"
 )
 
 // Problem is a least-squares problem in N parameters with M residuals.
@@ -325,8 +327,8 @@ func ssq(r []float64) float64 {
 }
 
 // normal writes J'J into a and J'r into g.
-// Column j is read once for two products at a time (dot2), which halves
-// the loads of column j; each product is summed in the same order as dot,
+// Column j is read once for two products at a time (vec.Dot2), which halves
+// the loads of column j; each product is summed in the same order as vec.Dot,
 // so the result is bit-identical to computing the products one by one.
 func normal(a *mat.SymDense, g []float64, jac [][]float64, r []float64) {
 	n := len(jac)
@@ -335,61 +337,21 @@ func normal(a *mat.SymDense, g []float64, jac [][]float64, r []float64) {
 		k := j
 		var v0, v1 float64
 		if k < n {
-			g[j], v0 = dot2(cj, r, jac[k])
+			g[j], v0 = vec.Dot2(cj, r, jac[k])
 			a.SetSym(j, k, v0)
 			k++
 		} else {
-			g[j] = dot(cj, r)
+			g[j] = vec.Dot(cj, r)
 		}
 		for ; k+1 < n; k += 2 {
-			v0, v1 = dot2(cj, jac[k], jac[k+1])
+			v0, v1 = vec.Dot2(cj, jac[k], jac[k+1])
 			a.SetSym(j, k, v0)
 			a.SetSym(j, k+1, v1)
 		}
 		if k < n {
-			a.SetSym(j, k, dot(cj, jac[k]))
+			a.SetSym(j, k, vec.Dot(cj, jac[k]))
 		}
 	}
-}
-
-// dot2 returns (a.b, a.c), each summed exactly as dot sums it.
-func dot2(a, b, c []float64) (float64, float64) {
-	b = b[:len(a)]
-	c = c[:len(a)]
-	var s0, s1, s2, s3, t0, t1, t2, t3 float64
-	i := 0
-	for ; i+4 <= len(a); i += 4 {
-		a0, a1, a2, a3 := a[i], a[i+1], a[i+2], a[i+3]
-		s0 += a0 * b[i]
-		s1 += a1 * b[i+1]
-		s2 += a2 * b[i+2]
-		s3 += a3 * b[i+3]
-		t0 += a0 * c[i]
-		t1 += a1 * c[i+1]
-		t2 += a2 * c[i+2]
-		t3 += a3 * c[i+3]
-	}
-	for ; i < len(a); i++ {
-		s0 += a[i] * b[i]
-		t0 += a[i] * c[i]
-	}
-	return (s0 + s1) + (s2 + s3), (t0 + t1) + (t2 + t3)
-}
-
-func dot(a, b []float64) float64 {
-	b = b[:len(a)]
-	var s0, s1, s2, s3 float64
-	i := 0
-	for ; i+4 <= len(a); i += 4 {
-		s0 += a[i] * b[i]
-		s1 += a[i+1] * b[i+1]
-		s2 += a[i+2] * b[i+2]
-		s3 += a[i+3] * b[i+3]
-	}
-	for ; i < len(a); i++ {
-		s0 += a[i] * b[i]
-	}
-	return (s0 + s1) + (s2 + s3)
 }
 
 func gradSmall(a *mat.SymDense, g []float64, f, tol float64) bool {

@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
+
+	"github.com/backshift/backshift/internal/vec"
 )
 
 type refProblem struct {
@@ -199,11 +201,11 @@ func TestNormalMatchesDot(t *testing.T) {
 			g := make([]float64, n)
 			normal(a, g, jac, r)
 			for j := 0; j < n; j++ {
-				if g[j] != dot(jac[j], r) {
-					t.Fatalf("n=%d m=%d: g[%d] = %v, dot gives %v", n, m, j, g[j], dot(jac[j], r))
+				if g[j] != vec.Dot(jac[j], r) {
+					t.Fatalf("n=%d m=%d: g[%d] = %v, dot gives %v", n, m, j, g[j], vec.Dot(jac[j], r))
 				}
 				for k := j; k < n; k++ {
-					if want := dot(jac[j], jac[k]); a.At(j, k) != want {
+					if want := vec.Dot(jac[j], jac[k]); a.At(j, k) != want {
 						t.Fatalf("n=%d m=%d: (J'J)[%d,%d] = %v, dot gives %v", n, m, j, k, a.At(j, k), want)
 					}
 				}
