@@ -18,7 +18,7 @@ func (e *Estimate) String() string {
 	var b strings.Builder
 	n := e.N + e.Conditioning.First
 	fmt.Fprintf(&b, "Fit of %s by conditional least squares\n", e.Model.Output)
-	fmt.Fprintf(&b, "  spec:       %s\n", e.Model.String())
+	fmt.Fprintf(&b, "  spec:       %s\n", e.Model.String()) // full precision: the line reloads as the fitted model
 	fmt.Fprintf(&b, "  data:       %d samples; residuals summed from index %d (N = %d)\n", n, e.Conditioning.First, e.N)
 	status := "converged"
 	if !e.Converged {
@@ -113,11 +113,11 @@ func (d *Diagnostics) String() string {
 	var big []string
 	for k, v := range r.ACF {
 		if math.Abs(v) > r.Band {
-			big = append(big, fmt.Sprintf("%d (%s)", k+1, fitFixed(v, 3)))
+			big = append(big, fmt.Sprintf("lag %d (%s)", k+1, fitFixed(v, 3)))
 		}
 	}
 	if len(big) > 0 {
-		fmt.Fprintf(&b, "    lags beyond -/+%s: %s\n", fitFixed(r.Band, 3), strings.Join(big, ", "))
+		fmt.Fprintf(&b, "    outside -/+%s: %s\n", fitFixed(r.Band, 3), strings.Join(big, ", "))
 	}
 	for _, c := range d.Cross {
 		fmt.Fprintf(&b, "  residuals vs prewhitened %s (AR(%d) filter), lags 0..%d: S = %s, df %d, p = %s  %s\n",
@@ -125,11 +125,11 @@ func (d *Diagnostics) String() string {
 		big = big[:0]
 		for k, v := range c.CCF {
 			if math.Abs(v) > c.Band {
-				big = append(big, fmt.Sprintf("%d (%s)", k, fitFixed(v, 3)))
+				big = append(big, fmt.Sprintf("lag %d (%s)", k, fitFixed(v, 3)))
 			}
 		}
 		if len(big) > 0 {
-			fmt.Fprintf(&b, "    lags beyond -/+%s: %s\n", fitFixed(c.Band, 3), strings.Join(big, ", "))
+			fmt.Fprintf(&b, "    outside -/+%s: %s\n", fitFixed(c.Band, 3), strings.Join(big, ", "))
 		}
 	}
 	return b.String()
