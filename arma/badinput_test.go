@@ -183,3 +183,12 @@ func TestInputsNotModified(t *testing.T) {
 		t.Errorf("Psi modified its polynomials or failed: %v", err)
 	}
 }
+
+// An order of math.MaxInt is an error whose Need is not negative.
+func TestYuleWalkerHugeOrder(t *testing.T) {
+	_, err := YuleWalkerOrder([]float64{1, 2, 3, 2, 1}, math.MaxInt)
+	var se *ShortError
+	if !errors.As(err, &se) || se.Need <= 0 {
+		t.Fatalf("YuleWalkerOrder(MaxInt) = %v, want a ShortError with a positive Need", err)
+	}
+}
