@@ -12,11 +12,11 @@ type corrRef struct {
 	ACov   []jnum `json:"acov"`
 	PACF   []jnum `json:"pacf"`
 	Box    []struct {
-		Lag   int    `json:"lag"`
-		FitDF int    `json:"fitdf"`
-		Q     []jnum `json:"q"`
-		DF    []jnum `json:"df"`
-		P     []jnum `json:"p"`
+		Lag    int    `json:"lag"`
+		Fitted int    `json:"fitdf"` // R argument name in the reference file
+		Q      []jnum `json:"q"`
+		DF     []jnum `json:"df"`
+		P      []jnum `json:"p"`
 	} `json:"box"`
 }
 
@@ -47,7 +47,7 @@ func TestACFPACFLjungBoxR(t *testing.T) {
 		}
 		checkSlice(t, name+" pacf", p.R, floats(r.PACF), 1e-10, 1e-12)
 		for _, b := range r.Box {
-			lb, err := LjungBox(x, b.Lag, b.FitDF)
+			lb, err := LjungBox(x, b.Lag, b.Fitted)
 			if err != nil {
 				t.Fatal(name, err)
 			}
@@ -99,7 +99,7 @@ func TestACFErrors(t *testing.T) {
 	}
 	var ae *ArgError
 	if _, err := LjungBox([]float64{1, 2, 3, 5, 4}, 2, 2); !errors.As(err, &ae) {
-		t.Errorf("fitdf: got %v", err)
+		t.Errorf("fitted >= lags: got %v", err)
 	}
 	if _, err := PACF([]float64{1, 2, 3, 5, 4}, 0); !errors.As(err, &ae) {
 		t.Errorf("pacf lag 0: got %v", err)

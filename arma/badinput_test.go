@@ -75,7 +75,7 @@ func TestBadInputTyped(t *testing.T) {
 		{"ACF lag", func() error { _, err := ACF(good, 1<<30); return err }(), isShort},
 		{"PACF constant", func() error { _, err := PACF(constant, 5); return err }(), isConst},
 		{"LjungBox lag", func() error { _, err := LjungBox(good, -1, 0); return err }(), isArg},
-		{"LjungBox fitdf", func() error { _, err := LjungBox(good, 5, 1<<30); return err }(), isArg},
+		{"LjungBox fitted", func() error { _, err := LjungBox(good, 5, 1<<30); return err }(), isArg},
 		{"YuleWalker NaN", func() error { _, err := YuleWalker(withNaN, 3); return err }(), dataAt(17)},
 		{"HannanRissanen short", func() error { _, _, err := HannanRissanen(good[:5], 1, 1, 3); return err }(), isShort},
 		{"Stationary NaN", func() error { _, _, err := Model{AR: []float64{nan}}.Stationary(); return err }(), isArg},

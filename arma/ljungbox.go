@@ -11,7 +11,7 @@ type Portmanteau struct {
 	Q float64
 	// Lags is the number of autocorrelations summed.
 	Lags int
-	// DF = Lags - fitdf, the degrees of freedom of the reference
+	// DF = Lags - fitted, the degrees of freedom of the reference
 	// chi-squared distribution.
 	DF int
 	// P is the upper-tail probability of Q under chi-squared(DF)
@@ -19,23 +19,23 @@ type Portmanteau struct {
 	P float64
 }
 
-// LjungBox tests whether resid is white noise up to lag lags. fitdf is
-// the number of fitted ARMA coefficients, subtracted from lags for the
+// LjungBox tests whether resid is white noise up to lag lags. fitted is
+// the number of estimated ARMA coefficients, subtracted from lags for the
 // degrees of freedom (0 for a raw series; p+q for ARMA residuals).
 //
 // Fit residuals start with NaN over the conditioning samples: pass
 // res.Resid[res.Start:]. NaN or infinite values give a *DataError; lags
-// < 1 or lags <= fitdf an *ArgError; lags >= len(resid) a *ShortError;
+// < 1 or lags <= fitted an *ArgError; lags >= len(resid) a *ShortError;
 // a constant series a *ConstantError.
 //
 // References: Ljung, G. M. and Box, G. E. P. (1978). On a measure of lack
 // of fit in time series models. Biometrika 65(2), 297-303.
-func LjungBox(resid []float64, lags, fitdf int) (Portmanteau, error) {
+func LjungBox(resid []float64, lags, fitted int) (Portmanteau, error) {
 	if lags < 1 {
 		return Portmanteau{}, &ArgError{Arg: "lags", Msg: "must be at least 1"}
 	}
-	if fitdf < 0 || fitdf >= lags {
-		return Portmanteau{}, &ArgError{Arg: "fitdf", Msg: "must be in 0..lags-1"}
+	if fitted < 0 || fitted >= lags {
+		return Portmanteau{}, &ArgError{Arg: "fitted", Msg: "must be in 0..lags-1"}
 	}
 	c, err := ACF(resid, lags)
 	if err != nil {
@@ -47,7 +47,7 @@ func LjungBox(resid []float64, lags, fitdf int) (Portmanteau, error) {
 		q += c.R[k] * c.R[k] / (n - float64(k))
 	}
 	q *= n * (n + 2)
-	df := lags - fitdf
+	df := lags - fitted
 	p := distuv.ChiSquared{K: float64(df)}.Survival(q)
 	return Portmanteau{Q: q, Lags: lags, DF: df, P: p}, nil
 }
