@@ -8,6 +8,10 @@ import (
 
 // errorCases are malformed specs with the exact first error each must
 // give: position (line, byte column), kind and message.
+// longDigits is a 400-digit run, for numbers and names too long to quote
+// whole in a message.
+var longDigits = strings.Repeat("9", 400)
+
 var errorCases = []struct {
 	spec      string
 	line, col int
@@ -103,6 +107,13 @@ var errorCases = []struct {
 	{"temp = w0 x every s", 1, 19, ErrSyntax, "expected the sample interval as a number and a unit, as in every 30 s; found name s"},
 	{"temp = w0 x + a where a ~ 1", 1, 23, ErrSyntax, "expected a coefficient name after 'where', found 'a'"},
 	{"temp = w0 x; every 5 min; where w0 = 2; every 1 h", 1, 41, ErrModel, "the sample interval is given twice"},
+	{"temp = burner", 1, 8, ErrModel, "the model has no input term: a lone name such as burner is the constant; write w0 burner (or 1 burner for unit gain) to make it an input"},
+	{"temp = 4 + burner + a", 1, 12, ErrModel, "a second constant term; a model has at most one (a lone name is a constant: to feed series burner with unit gain write 1 burner)"},
+	{"temp = w0 b^2 x", 1, 12, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '^' (the backshift operator is written B, upper case)"},
+	{"temp = w0 x + arma(1, 1)", 1, 21, ErrSyntax, "unexpected ',' inside parentheses (write ARMA in upper case)"},
+	{"temp = w0 x Where w0 ~ 1", 1, 22, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '~' (write where in lower case)"},
+	{"temp = w0 x + 1e" + longDigits, 1, 15, ErrSyntax, "number 1e" + longDigits[:30] + "... (402 characters) is out of range"},
+	{"temp = w0 x where " + longDigits, 1, 19, ErrSyntax, "expected a coefficient name after 'where', found number " + longDigits[:32] + "... (400 characters)"},
 }
 
 func TestErrorTable(t *testing.T) {
@@ -137,42 +148,4 @@ func TestErrorTable(t *testing.T) {
 			}
 		}
 	}
-}
-
-func init() {
-	errorCases = append(errorCases, []struct {
-		spec      string
-		line, col int
-		kind      error
-		msg       string
-	}{
-		{"temp = burner", 1, 8, ErrModel, "the model has no input term: a lone name such as burner is the constant; write w0 burner (or 1 burner for unit gain) to make it an input"},
-		{"temp = 4 + burner + a", 1, 12, ErrModel, "a second constant term; a model has at most one (a lone name is a constant: to feed series burner with unit gain write 1 burner)"},
-	}...)
-}
-
-func init() {
-	errorCases = append(errorCases, []struct {
-		spec      string
-		line, col int
-		kind      error
-		msg       string
-	}{
-		{"temp = w0 b^2 x", 1, 12, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '^' (the backshift operator is written B, upper case)"},
-		{"temp = w0 x + arma(1, 1)", 1, 21, ErrSyntax, "unexpected ',' inside parentheses (write ARMA in upper case)"},
-		{"temp = w0 x Where w0 ~ 1", 1, 22, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '~' (write where in lower case)"},
-	}...)
-}
-
-func init() {
-	long := strings.Repeat("9", 400)
-	errorCases = append(errorCases, []struct {
-		spec      string
-		line, col int
-		kind      error
-		msg       string
-	}{
-		{"temp = w0 x + 1e" + long, 1, 15, ErrSyntax, "number 1e" + long[:30] + "... (402 characters) is out of range"},
-		{"temp = w0 x where " + long, 1, 19, ErrSyntax, "expected a coefficient name after 'where', found number " + long[:32] + "... (400 characters)"},
-	}...)
 }
