@@ -74,10 +74,11 @@ func ExampleResult_String() {
 	fmt.Printf("Ljung-Box Q(10) = %.2f on %d df\n", lb.Q, lb.DF)
 	// Output:
 	// ARIMA(1,0,0) fitted by conditional least squares to 400 samples (residuals 1..399, 399 summed)
-	//   parameter      estimate   std. error        t
-	//   phi1            0.83097       0.0278    29.85
-	//   mean             20.228        0.289    70.06
-	//   sigma^2 0.95023 (SSQ 379.142)  log-likelihood -555.97  AIC 1117.94  AICc 1118.00  BIC 1129.91
+	//   name              value    sd(value)  value/sd
+	//   phi1            0.83097       0.0278     29.85
+	//   mean             20.228        0.289     70.06
+	//   innovation variance 0.95023, sum of squares 379.142
+	//   log-likelihood -555.97; AIC 1117.94, AICc 1118.00, BIC 1129.91
 	//   converged: relative reduction of the sum of squares below tolerance after 3 iterations
 	// Ljung-Box Q(10) = 11.60 on 9 df
 }

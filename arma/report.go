@@ -15,7 +15,7 @@ func (r *Result) LjungBox(lags int) (Portmanteau, error) {
 }
 
 // String returns a short report for people: the model, the estimates
-// with standard errors and t ratios, the innovation variance, the
+// with standard errors (sd) and their ratios, the innovation variance, the
 // criteria, the optimiser's outcome and any boundary flags. Numbers are
 // rounded for reading; use the fields for computation.
 func (r *Result) String() string {
@@ -27,13 +27,13 @@ func (r *Result) String() string {
 	fmt.Fprintf(&b, "%s fitted by conditional least squares to %d samples (residuals %d..%d, %d summed)\n",
 		what, r.N, r.Start, r.N-1, r.NUsed)
 	if len(r.Names) > 0 {
-		fmt.Fprintf(&b, "  %-10s %12s %12s %8s\n", "parameter", "estimate", "std. error", "t")
+		fmt.Fprintf(&b, "  %-10s %12s %12s %9s\n", "name", "value", "sd(value)", "value/sd")
 		for i, nm := range r.Names {
-			fmt.Fprintf(&b, "  %-10s %12.5g %12.3g %8.2f\n", nm, r.Est[i], r.SE[i], r.T[i])
+			fmt.Fprintf(&b, "  %-10s %12.5g %12.3g %9.2f\n", nm, r.Est[i], r.SE[i], r.T[i])
 		}
 	}
-	fmt.Fprintf(&b, "  sigma^2 %.5g (SSQ %.6g)  log-likelihood %.2f  AIC %.2f  AICc %.2f  BIC %.2f\n",
-		r.Sigma2, r.SSQ, r.LogLik, r.AIC, r.AICc, r.BIC)
+	fmt.Fprintf(&b, "  innovation variance %.5g, sum of squares %.6g\n", r.Sigma2, r.SSQ)
+	fmt.Fprintf(&b, "  log-likelihood %.2f; AIC %.2f, AICc %.2f, BIC %.2f\n", r.LogLik, r.AIC, r.AICc, r.BIC)
 	fmt.Fprintf(&b, "  %s after %d iterations\n", r.Reason, r.Iter)
 	for _, f := range r.Boundary {
 		part := "AR part not stationary"
