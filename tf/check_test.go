@@ -15,17 +15,7 @@ import (
 // adequate there, so both the residual Ljung-Box test and the
 // residual-input cross-correlation test pass at the 5 % level.
 func TestCheckBJsales(t *testing.T) {
-	var c fitRefCase
-	for _, k := range fitReadRef(t) {
-		if k.Name == "bjsales" {
-			c = k
-		}
-	}
-	data := c.data(t)
-	est, err := Fit(context.Background(), c.model(), data, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est, data := fitRefNamed(t, "bjsales").fit(t)
 	d, err := Check(est, data, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -97,11 +87,7 @@ func TestCheckDetectsMisfit(t *testing.T) {
 func TestCheckAgainstScipy(t *testing.T) {
 	for _, c := range fitReadRef(t) {
 		t.Run(c.Name, func(t *testing.T) {
-			data := c.data(t)
-			est, err := Fit(context.Background(), c.model(), data, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
+			est, data := c.fit(t)
 			d, err := Check(est, data, nil)
 			if err != nil {
 				t.Fatal(err)

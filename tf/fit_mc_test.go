@@ -45,6 +45,21 @@ func fitMCSim(rng *rand.Rand, n int) (y, x []float64) {
 	return ya[burn:], xa[burn:]
 }
 
+// fitMCReplicate simulates n + h samples of fitMCModel and fits the
+// model to the first n, failing the test on error. It returns the whole
+// simulated series (the last h samples are the future), the estimate and
+// the fitted data.
+func fitMCReplicate(t *testing.T, rng *rand.Rand, n, h int) (y, x []float64, est *Estimate, data map[string][]float64) {
+	t.Helper()
+	y, x = fitMCSim(rng, n+h)
+	data = map[string][]float64{"y": y[:n], "x": x[:n]}
+	est, err := Fit(context.Background(), fitMCModel(), data, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return y, x, est, data
+}
+
 // TestFitMonteCarlo fits 100 replicates of n = 400 and checks that the
 // 95 % intervals estimate -/+ 1.96 SE cover the truth in 89-99 % of the
 // replicates for every parameter (the binomial(100, 0.95) range is about
@@ -58,12 +73,7 @@ func TestFitMonteCarlo(t *testing.T) {
 	cover := map[string]int{}
 	fcCover, fcTotal := 0, 0
 	for r := 0; r < reps; r++ {
-		y, x := fitMCSim(rng, n+h)
-		data := map[string][]float64{"y": y[:n], "x": x[:n]}
-		est, err := Fit(context.Background(), fitMCModel(), data, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		y, x, est, data := fitMCReplicate(t, rng, n, h)
 		for _, p := range est.Params {
 			if math.Abs(p.Value-fitMCTruth[p.Name]) <= 1.96*p.SE {
 				cover[p.Name]++
@@ -101,12 +111,7 @@ func TestForecastInputsForecast(t *testing.T) {
 	rng := rand.New(rand.NewPCG(77, 78))
 	in, total := 0, 0
 	for r := 0; r < reps; r++ {
-		y, x := fitMCSim(rng, n+h)
-		data := map[string][]float64{"y": y[:n], "x": x[:n]}
-		est, err := Fit(context.Background(), fitMCModel(), data, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		y, x, est, data := fitMCReplicate(t, rng, n, h)
 		fc, err := est.Forecast(data, h, nil)
 		if err != nil {
 			t.Fatal(err)

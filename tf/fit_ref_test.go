@@ -3,7 +3,6 @@ package tf
 import (
 	"context"
 	"encoding/csv"
-	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -11,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/testutil"
 	"gonum.org/v1/gonum/floats/scalar"
 )
 
@@ -101,20 +101,45 @@ func (c fitRefCase) model() Model {
 	return m
 }
 
+// fitReadRef reads every case of testdata/fit/ref_fit.json.
 func fitReadRef(t testing.TB) []fitRefCase {
-	b, err := os.ReadFile(filepath.Join("..", "testdata", "fit", "ref_fit.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
+	t.Helper()
 	var cs []fitRefCase
-	if err := json.Unmarshal(b, &cs); err != nil {
-		t.Fatal(err)
+	testutil.ReadJSON(t, "testdata/fit/ref_fit.json", &cs)
+	if len(cs) == 0 {
+		t.Fatal("testdata/fit/ref_fit.json holds no cases")
 	}
 	return cs
 }
 
+// fitRefNamed returns the case of ref_fit.json with the given name,
+// failing the test when there is none.
+func fitRefNamed(t testing.TB, name string) fitRefCase {
+	t.Helper()
+	for _, c := range fitReadRef(t) {
+		if c.Name == name {
+			return c
+		}
+	}
+	t.Fatalf("testdata/fit/ref_fit.json has no case %q", name)
+	return fitRefCase{}
+}
+
+// fit fits the case's model to its data with the default settings,
+// failing the test on error, and returns the estimate and the data.
+func (c fitRefCase) fit(t testing.TB) (*Estimate, map[string][]float64) {
+	t.Helper()
+	data := c.data(t)
+	est, err := Fit(context.Background(), c.model(), data, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return est, data
+}
+
 // fitReadCSV reads a CSV with a header into columns by name.
 func fitReadCSV(t testing.TB, path string) map[string][]float64 {
+	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)
@@ -138,7 +163,8 @@ func fitReadCSV(t testing.TB, path string) map[string][]float64 {
 }
 
 func (c fitRefCase) data(t testing.TB) map[string][]float64 {
-	d := fitReadCSV(t, filepath.Join("..", "testdata", "fit", c.File))
+	t.Helper()
+	d := fitReadCSV(t, filepath.Join(testutil.Root(), "testdata", "fit", c.File))
 	delete(d, "t")
 	return d
 }
@@ -153,11 +179,7 @@ func (c fitRefCase) data(t testing.TB) map[string][]float64 {
 func TestFitAgainstScipy(t *testing.T) {
 	for _, c := range fitReadRef(t) {
 		t.Run(c.Name, func(t *testing.T) {
-			data := c.data(t)
-			est, err := Fit(context.Background(), c.model(), data, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
+			est, _ := c.fit(t)
 			if est.N != c.NResid || est.Conditioning.First != c.First || est.Conditioning.NoiseStart != c.NoiseStart {
 				t.Errorf("conditioning: N %d first %d start %d, scipy script N %d first %d start %d",
 					est.N, est.Conditioning.First, est.Conditioning.NoiseStart, c.NResid, c.First, c.NoiseStart)
@@ -190,16 +212,7 @@ func TestFitAgainstScipy(t *testing.T) {
 // between reasonable conventions); they are checked against scipy in
 // TestFitAgainstScipy and only recorded here.
 func TestFitBJsalesPublished(t *testing.T) {
-	var c fitRefCase
-	for _, k := range fitReadRef(t) {
-		if k.Name == "bjsales" {
-			c = k
-		}
-	}
-	est, err := Fit(context.Background(), c.model(), c.data(t), nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est, _ := fitRefNamed(t, "bjsales").fit(t)
 	d1, _ := est.Param("d1")
 	cc, _ := est.Param("c")
 	if math.Abs(d1.Value-0.72) > 0.01 {

@@ -22,11 +22,7 @@ import (
 func TestForecastAgainstScipy(t *testing.T) {
 	for _, c := range fitReadRef(t) {
 		t.Run(c.Name, func(t *testing.T) {
-			data := c.data(t)
-			est, err := Fit(context.Background(), c.model(), data, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
+			est, data := c.fit(t)
 			o := c.Forecast.Origin
 			hist := map[string][]float64{}
 			fut := map[string][]float64{}

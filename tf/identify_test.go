@@ -15,13 +15,7 @@ import (
 // have that transfer function and pass its checks, and all candidates
 // must be ranked by BIC over the same residuals.
 func TestIdentifyBJsales(t *testing.T) {
-	var c fitRefCase
-	for _, k := range fitReadRef(t) {
-		if k.Name == "bjsales" {
-			c = k
-		}
-	}
-	data := c.data(t)
+	data := fitRefNamed(t, "bjsales").data(t)
 	cands, err := Identify(context.Background(), "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1}})
 	if err != nil {
 		t.Fatal(err)
@@ -74,13 +68,7 @@ func TestIdentifyErrors(t *testing.T) {
 // TestIdentifyProgressAndCancel checks the progress callback and that a
 // done context stops the identification with its error.
 func TestIdentifyProgressAndCancel(t *testing.T) {
-	var c fitRefCase
-	for _, k := range fitReadRef(t) {
-		if k.Name == "bjsales" {
-			c = k
-		}
-	}
-	data := c.data(t)
+	data := fitRefNamed(t, "bjsales").data(t)
 	calls, last := 0, 0
 	cands, err := Identify(context.Background(), "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1},
 		Progress: func(done, total int) {

@@ -10,13 +10,8 @@ import (
 // s = 1, AR(2) noise, n = 600): the best candidate has both forms and
 // passes its checks.
 func TestIdentifyTwoInputs(t *testing.T) {
-	var c fitRefCase
-	for _, k := range fitReadRef(t) {
-		if k.Name == "sim2" {
-			c = k
-		}
-	}
-	cands, err := Identify(context.Background(), "y", []string{"x1", "x2"}, c.data(t), nil)
+	data := fitRefNamed(t, "sim2").data(t)
+	cands, err := Identify(context.Background(), "y", []string{"x1", "x2"}, data, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
