@@ -58,21 +58,28 @@ func rounded(m tf.Model) tf.Model { return fixed(m, 4) }
 // parameter) at its value rounded to digits significant digits (-1 for
 // full precision).
 func fixed(m tf.Model, digits int) tf.Model {
-	c := m.Clone()
-	fix := func(k *tf.Coef) {
+	return mapCoefs(m, func(k *tf.Coef) {
 		v, _ := strconv.ParseFloat(strconv.FormatFloat(k.Value, 'g', digits, 64), 64)
 		*k = tf.Coef{Value: v}
-	}
+	})
+}
+
+// mapCoefs returns a copy of m with fn applied to each of its
+// coefficients: the constant, the numerator and denominator of every
+// input path, and the noise model's MA and AR polynomials (the
+// differencing operators are fixed by the spec and left alone).
+func mapCoefs(m tf.Model, fn func(*tf.Coef)) tf.Model {
+	c := m.Clone()
 	if c.Const != nil {
-		fix(c.Const)
+		fn(c.Const)
 	}
 	for _, in := range c.Inputs {
-		in.Num.Each(fix)
-		in.Den.Each(fix)
+		in.Num.Each(fn)
+		in.Den.Each(fn)
 	}
 	if c.Noise != nil {
-		c.Noise.MA.Each(fix)
-		c.Noise.AR.Each(fix)
+		c.Noise.MA.Each(fn)
+		c.Noise.AR.Each(fn)
 	}
 	return c
 }

@@ -12,24 +12,11 @@ import (
 // withParam returns a copy of m with every coefficient named name set to
 // v.
 func withParam(m tf.Model, name string, v float64) tf.Model {
-	c := m.Clone()
-	set := func(k *tf.Coef) {
+	return mapCoefs(m, func(k *tf.Coef) {
 		if k.Name == name {
 			k.Value = v
 		}
-	}
-	if c.Const != nil {
-		set(c.Const)
-	}
-	for _, in := range c.Inputs {
-		in.Num.Each(set)
-		in.Den.Each(set)
-	}
-	if c.Noise != nil {
-		c.Noise.MA.Each(set)
-		c.Noise.AR.Each(set)
-	}
-	return c
+	})
 }
 
 // deltaSE returns the standard error of f(estimates) by the delta
