@@ -226,8 +226,17 @@ func (b *builder) constant(t *gTerm, it *gItem) {
 	b.m.Const = &tf.Coef{Value: v, Pos: toPos(it.Pos)}
 }
 
-// afterDen explains why a numerator factor may not follow a denominator.
-const afterDen = "a numerator factor after a denominator is ambiguous: write the numerator first, then each denominator factor after its own '/', as in (w0) / (1 - d1 B) / (1 - d2 B) B x"
+// numAfterDen is the ordering rule shared by input and noise terms: when
+// a denominator came earlier in the term (sawDen) and it is a numerator
+// factor (a number, a coefficient name or a polynomial in parentheses),
+// it records an error saying why and reports true.
+func (b *builder) numAfterDen(sawDen bool, it *gItem) bool {
+	if sawDen && (it.Number != "" || it.Name != "" || it.Group != nil) {
+		b.fail(it.Pos, ErrModel, "a numerator factor after a denominator is ambiguous: write the numerator first, then each denominator factor after its own '/', as in (w0) / (1 - d1 B) / (1 - d2 B) B x")
+		return true
+	}
+	return false
+}
 
 // useCoef records a use of a coefficient name.
 func (b *builder) useCoef(name string, p lexer.Position) {
@@ -254,8 +263,7 @@ func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
 	}
 	sawDen := false
 	for _, it := range ops {
-		if sawDen && (it.Number != "" || it.Name != "" || it.Group != nil) {
-			b.fail(it.Pos, ErrModel, afterDen)
+		if b.numAfterDen(sawDen, it) {
 			return
 		}
 		switch {
@@ -349,8 +357,7 @@ func (b *builder) input(t *gTerm, ops []*gItem, series string, diff tf.Poly) {
 	delayOK := true
 	sawDen := false
 	for _, it := range ops {
-		if sawDen && (it.Number != "" || it.Name != "" || it.Group != nil) {
-			b.fail(it.Pos, ErrModel, afterDen)
+		if b.numAfterDen(sawDen, it) {
 			return
 		}
 		switch {
