@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/poly"
 )
 
 // ratFit is the fit of one rational form B^b omega(B)/delta(B) to the
@@ -16,18 +17,11 @@ type ratFit struct {
 }
 
 // ratImpulse writes into dst the weights of omega(B)/delta(B), dst[j] =
-// coefficient of B^j (j relative to the dead time).
+// coefficient of B^j (j relative to the dead time), by the power-series
+// division of internal/poly. den[0] is always 1 here, so the division
+// cannot fail and its results equal the plain recursion bit for bit.
 func ratImpulse(dst, num, den []float64) {
-	for j := range dst {
-		s := 0.0
-		if j < len(num) {
-			s = num[j]
-		}
-		for i := 1; i < len(den) && i <= j; i++ {
-			s -= den[i] * dst[j-i]
-		}
-		dst[j] = s
-	}
+	_ = poly.DivideTo(dst, num, den)
 }
 
 // stableDen reports whether delta(B) = 1 + den[1] B + den[2] B^2 has all

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/prewhiten"
 )
@@ -109,7 +110,7 @@ func TestBJSalesSpec(t *testing.T) {
 	// weights (lags 0..30).
 	ds, dl := diff(sales), diff(lead)
 	v := make([]float64, 31)
-	copy(v[best.Delay:], impulse(best.Num, best.Den, 31-best.Delay))
+	copy(v[best.Delay:], impulse(t, best.Num, best.Den, 31-best.Delay))
 	noise, _, err := ccf.NoiseSeries(ds, [][]float64{dl}, []*ccf.Weights{{Input: "lead", V: v, SE: v}})
 	if err != nil {
 		t.Fatal(err)
@@ -144,18 +145,13 @@ func diff(x []float64) []float64 {
 	return d
 }
 
-// impulse returns n weights of num(B)/den(B).
-func impulse(num, den []float64, n int) []float64 {
-	v := make([]float64, n)
-	for j := range v {
-		s := 0.0
-		if j < len(num) {
-			s = num[j]
-		}
-		for i := 1; i < len(den) && i <= j; i++ {
-			s -= den[i] * v[j-i]
-		}
-		v[j] = s
+// impulse returns n weights of num(B)/den(B) (den[0] = 1), by the
+// project's power-series division.
+func impulse(t *testing.T, num, den []float64, n int) []float64 {
+	t.Helper()
+	v, err := poly.Divide(num, den, n)
+	if err != nil {
+		t.Fatal(err)
 	}
 	return v
 }

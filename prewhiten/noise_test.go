@@ -52,7 +52,7 @@ func TestIdentifyNoise(t *testing.T) {
 		}
 		best := id.Candidates[0]
 		v := make([]float64, 31)
-		copy(v[best.Delay:], impulse(best.Num, best.Den, 31-best.Delay))
+		copy(v[best.Delay:], impulse(t, best.Num, best.Den, 31-best.Delay))
 		nz, _, err := ccf.NoiseSeries(y, [][]float64{x}, []*ccf.Weights{{Input: "x", V: v, SE: v}})
 		if err != nil {
 			t.Fatal(err)
