@@ -2,10 +2,7 @@ package tf_test
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
-	"os"
-	"strconv"
 
 	"github.com/backshift/backshift/tf"
 )
@@ -17,23 +14,10 @@ import (
 // of the best fit (white noise, no denominator), which fail their
 // checks.
 func ExampleIdentify() {
-	f, err := os.Open("../testdata/bjsales/bjsales.csv")
+	data, err := fitLoadBJsales() // columns "sales" and "lead"; see the Check example
 	if err != nil {
 		fmt.Println(err)
 		return
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	data := map[string][]float64{}
-	for _, row := range rows[1:] {
-		for j, name := range rows[0][1:] {
-			v, _ := strconv.ParseFloat(row[j+1], 64)
-			data[name] = append(data[name], v)
-		}
 	}
 	cands, err := tf.Identify(context.Background(), "sales", []string{"lead"}, data,
 		&tf.IdentifySettings{OutputDiff: []float64{1, -1}})
