@@ -38,9 +38,9 @@
 // Start on is minimised by Levenberg-Marquardt with an exact Jacobian
 // obtained by filtering, then polished by Newton steps with the exact
 // Hessian. Sigma2 = SSQ/NUsed. Standard errors: SE from Sigma2 (J'J)^-1
-// (Gauss-Newton), SEHessian from the observed Hessian. These are the
-// conventions of R's arima(method = "CSS"), against which the package is
-// checked (testdata/arma).
+// (Gauss-Newton), SEHessian from the observed Hessian. The package is
+// checked against reference values from general-purpose statistics
+// libraries (testdata/arma).
 //
 // # Forecasts
 //

@@ -107,17 +107,16 @@ type Result struct {
 	// of squares, sqrt(diag(Sigma2 (J'J + sum_t a_t d^2 a_t)^-1)), which
 	// differs from SE when the second-derivative term matters (MA
 	// coefficients, small samples). NaN when that matrix is not positive
-	// definite. R's arima(method = "CSS") reports these (from a numerical
-	// Hessian) scaled by sqrt(NUsed/(N - D - SD*Period)).
+	// definite. Multiply by sqrt(NUsed/(N - D - SD*Period)) for the
+	// scaling that divides SSQ by the length of the differenced series.
 	SEHessian []float64
 	// Cov and Corr are the covariance and correlation matrices of Est
 	// (nil when J'J is singular).
 	Cov, Corr *mat.SymDense
 	// SSQ is the conditional sum of squares sum_{t >= Start} a_t^2.
 	SSQ float64
-	// Sigma2 = SSQ / NUsed, the innovation variance estimate (the
-	// convention of R's arima(method = "CSS"): no correction for the
-	// number of parameters).
+	// Sigma2 = SSQ / NUsed, the innovation variance estimate (no
+	// correction for the number of parameters).
 	Sigma2 float64
 	// N is the series length, Start the first summed residual, NUsed =
 	// N - Start the number of residuals summed.
@@ -170,8 +169,7 @@ type Result struct {
 //	theta*(B) da_t/dc = (dphi*/dc)(B) (w_t - mu) - (dtheta*/dc)(B) a_t,
 //
 // again from zero at Start; for the mean and regressors the right side is
-// -phi*(B) of the (differenced) constant or column. This is the
-// conditioning of R's arima(method = "CSS").
+// -phi*(B) of the (differenced) constant or column.
 //
 // Errors: *ArgError for a bad order or options, *DataError for NaN/Inf
 // in y or X, *ShortError when fewer residuals than parameters + 1

@@ -42,7 +42,7 @@ type Forecast struct {
 // forecasts of w are integrated with the last observed z (a diffuse start
 // for the differencing). The standard errors add the remaining state
 // uncertainty to Sigma2 sum_{j<h} psi_j^2 (psi weights of the ARIMA
-// model). This is how R's predict() treats arima fits. Otherwise
+// model). Otherwise
 // (Forecast.Exact false) the conditional recursion of the fit is used,
 //
 //	phi*(B) D(B) z_t = phi*(1) mu + theta*(B) a_t,

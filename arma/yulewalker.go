@@ -18,8 +18,7 @@ type ARFit struct {
 	//	c_0 prod_{k=1}^{p} (1 - pacf_k^2) * n / (n - (p+1))
 	//
 	// that is the Durbin-Levinson prediction-error variance with a
-	// small-sample correction for the p coefficients and the mean. This is
-	// the convention of R's stats::ar(method = "yule-walker") var.pred.
+	// small-sample correction for the p coefficients and the mean.
 	Var float64
 	// Mean is the sample mean removed before fitting.
 	Mean float64
@@ -68,8 +67,7 @@ func (f ARFit) Residuals(x []float64) []float64 {
 // Yule-Walker equations (sample autocovariances with divisor n, mean
 // removed, solved by Durbin-Levinson) and keeps the order with the
 // smallest AIC = n log(v_k) + 2k. maxOrder = 0 means
-// min(n-1, floor(10 log10 n)). The results agree with R's
-// stats::ar(x, aic = TRUE, order.max = maxOrder, method = "yule-walker").
+// min(n-1, floor(10 log10 n)).
 //
 // Errors: *ArgError for maxOrder < 0, *ShortError when maxOrder >= n,
 // *DataError for NaN/Inf samples, *ConstantError for a constant series.
