@@ -42,16 +42,29 @@ func BenchmarkModelError(b *testing.B) {
 // BenchmarkModelLong parses specs of growing length (inputs repeated up
 // to the limit, then comment padding) to show linear cost.
 func BenchmarkModelLong(b *testing.B) {
-	for _, n := range []int{1000, 10000, 60000} {
+	benchLengths(b, func(n int) string {
 		s := "y = w0 x"
 		for len(s) < n {
 			s += " # padding to grow the text linearly\n"
 		}
+		return s
+	}, false)
+}
+
+// benchLengths runs one sub-benchmark of Model for each text length n in
+// 1000, 10000 and 60000 (near MaxSpecLen), on the spec mk(n) built
+// outside the timing, and fails when Model's error does not match
+// wantErr.
+func benchLengths(b *testing.B, mk func(n int) string, wantErr bool) {
+	for _, n := range []int{1000, 10000, 60000} {
+		s := mk(n)
 		b.Run(itoa(n), func(b *testing.B) {
 			b.ReportAllocs()
 			b.SetBytes(int64(len(s)))
 			for b.Loop() {
-				Model(s)
+				if _, err := Model(s); (err != nil) != wantErr {
+					b.Fatalf("spec of %d bytes: error %v, want an error: %v", len(s), err, wantErr)
+				}
 			}
 		})
 	}
@@ -74,16 +87,9 @@ func itoa(n int) string {
 // BenchmarkModelHostile parses long products of constant factors, the
 // longest work a spec can ask for, to show linear cost.
 func BenchmarkModelHostile(b *testing.B) {
-	for _, n := range []int{1000, 10000, 60000} {
-		s := "y = w / (" + strings.Repeat("(1)", n/3) + ") x"
-		b.Run(itoa(n), func(b *testing.B) {
-			b.ReportAllocs()
-			b.SetBytes(int64(len(s)))
-			for b.Loop() {
-				Model(s)
-			}
-		})
-	}
+	benchLengths(b, func(n int) string {
+		return "y = w / (" + strings.Repeat("(1)", n/3) + ") x"
+	}, false)
 }
 
 // BenchmarkTree compares the two parsers on the tokens of benchSpec: the
@@ -115,16 +121,7 @@ func BenchmarkTree(b *testing.B) {
 // BenchmarkModelHostileError parses long specs with an error at the end,
 // which sends them through the participle parser.
 func BenchmarkModelHostileError(b *testing.B) {
-	for _, n := range []int{1000, 10000, 60000} {
-		s := "y = " + strings.Repeat("w (1 - d B) x + ", n/16) + ")"
-		b.Run(itoa(n), func(b *testing.B) {
-			b.ReportAllocs()
-			b.SetBytes(int64(len(s)))
-			for b.Loop() {
-				if _, err := Model(s); err == nil {
-					b.Fatal("no error")
-				}
-			}
-		})
-	}
+	benchLengths(b, func(n int) string {
+		return "y = " + strings.Repeat("w (1 - d B) x + ", n/16) + ")"
+	}, true)
 }
