@@ -1,6 +1,7 @@
 package ccf
 
 import (
+	"math"
 	"strconv"
 	"strings"
 )
@@ -85,20 +86,24 @@ func (c Candidate) Spec(output, noise string) string {
 
 // StartClause returns " where n1 ~ v1, n2 ~ v2" for the given names in
 // order, with values from starts rounded to 6 significant digits, or ""
-// when names is empty.
+// when no name has a start. A name missing from starts, or whose start is
+// NaN or infinite, is left out of the clause, so that the parser's default
+// applies to it (free, starting at 0) instead of a made-up value.
 func StartClause(names []string, starts map[string]float64) string {
-	if len(names) == 0 {
-		return ""
-	}
 	var sb strings.Builder
-	sb.WriteString(" where ")
-	for i, n := range names {
-		if i > 0 {
+	for _, n := range names {
+		v, ok := starts[n]
+		if !ok || math.IsNaN(v) || math.IsInf(v, 0) {
+			continue
+		}
+		if sb.Len() == 0 {
+			sb.WriteString(" where ")
+		} else {
 			sb.WriteString(", ")
 		}
 		sb.WriteString(n)
 		sb.WriteString(" ~ ")
-		sb.WriteString(strconv.FormatFloat(starts[n], 'g', 6, 64))
+		sb.WriteString(strconv.FormatFloat(v, 'g', 6, 64))
 	}
 	return sb.String()
 }

@@ -92,3 +92,28 @@ func TestCandidateSpecsParse(t *testing.T) {
 		}
 	}
 }
+
+// TestStartClauseMissing checks that names without a usable start are
+// left out of the where clause instead of being written as 0, and that
+// the clause still parses (property of our own spec language).
+func TestStartClauseMissing(t *testing.T) {
+	starts := map[string]float64{"w0": 0.5, "d1": math.NaN(), "d2": math.Inf(1)}
+	for _, c := range []struct {
+		names []string
+		want  string
+	}{
+		{nil, ""},
+		{[]string{"zz"}, ""},
+		{[]string{"d1", "d2"}, ""},
+		{[]string{"zz", "w0"}, " where w0 ~ 0.5"},
+		{[]string{"w0", "d1", "zz"}, " where w0 ~ 0.5"},
+	} {
+		got := ccf.StartClause(c.names, starts)
+		if got != c.want {
+			t.Errorf("StartClause(%q) = %q, want %q", c.names, got, c.want)
+		}
+		if _, err := parse.Model("y = w0 x + a" + got); err != nil {
+			t.Errorf("%q does not parse: %v", got, err)
+		}
+	}
+}
