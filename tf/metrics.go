@@ -28,11 +28,11 @@ type StepOptions struct {
 	Horizon int
 }
 
-// StepInfo describes the unit step response of a stable term, for people
+// StepSummary describes the unit step response of a stable term, for people
 // tuning controllers. Times count samples from the step at t = 0 (the
 // input is 1 from sample 0 on); rise and settling times are interpolated
 // linearly between samples.
-type StepInfo struct {
+type StepSummary struct {
 	// Final is the final value, the steady-state gain.
 	Final float64
 	// Rise is the 10 % to 90 % rise time: from the first crossing of 10 %
@@ -60,35 +60,41 @@ type StepInfo struct {
 	Horizon int
 }
 
+// StepInfo is the former name of StepSummary.
+//
+// Deprecated: use StepSummary; StepInfo remains only until the callers
+// outside package tf have moved over.
+type StepInfo = StepSummary
+
 // StepMetrics returns rise time, settling time, overshoot and peak of the
-// unit step response (see StepInfo), computed on the exact sampled step
+// unit step response (see StepSummary), computed on the exact sampled step
 // response. It returns an *UnstableError for a term that is not stable,
 // an *ArgError for a bad option or a zero gain (no step to measure), and
 // a *GainError when the gain does not exist.
-func (r Rational) StepMetrics(o StepOptions) (StepInfo, error) {
+func (r Rational) StepMetrics(o StepOptions) (StepSummary, error) {
 	band := o.Band
 	if band == 0 {
 		band = 0.02
 	}
 	if !(band > 0 && band < 1) {
-		return StepInfo{}, &ArgError{Arg: "Band", Value: o.Band, Rule: "must lie in (0, 1)"}
+		return StepSummary{}, &ArgError{Arg: "Band", Value: o.Band, Rule: "must lie in (0, 1)"}
 	}
 	if !(o.Interval >= 0) || math.IsInf(o.Interval, 0) {
-		return StepInfo{}, &ArgError{Arg: "Interval", Value: o.Interval, Rule: "must be finite and >= 0"}
+		return StepSummary{}, &ArgError{Arg: "Interval", Value: o.Interval, Rule: "must be finite and >= 0"}
 	}
 	if o.Horizon < 0 || o.Horizon > 1e7 {
-		return StepInfo{}, &ArgError{Arg: "Horizon", Value: float64(o.Horizon), Rule: "must lie in 0..10^7"}
+		return StepSummary{}, &ArgError{Arg: "Horizon", Value: float64(o.Horizon), Rule: "must lie in 0..10^7"}
 	}
 	rho := r.MaxPoleMagnitude()
 	if !(rho < 1) {
-		return StepInfo{}, &UnstableError{What: "step metrics", MaxPole: rho}
+		return StepSummary{}, &UnstableError{What: "step metrics", MaxPole: rho}
 	}
 	g, err := r.Gain()
 	if err != nil {
-		return StepInfo{}, err
+		return StepSummary{}, err
 	}
 	if g == 0 {
-		return StepInfo{}, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero for step metrics"}
+		return StepSummary{}, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero for step metrics"}
 	}
 	n := o.Horizon
 	if n == 0 {
@@ -101,7 +107,7 @@ func (r Rational) StepMetrics(o StepOptions) (StepInfo, error) {
 		n = min(n, 1000000)
 	}
 	y := r.Step(n)
-	info := StepInfo{Final: g, Band: band, Horizon: n}
+	info := StepSummary{Final: g, Band: band, Horizon: n}
 	span := func(s float64) Span { return Span{Samples: s, Time: s * o.Interval} }
 	// Work on the normalised response u = y/g, which rises toward 1.
 	cross := func(level float64) float64 {
