@@ -27,7 +27,14 @@ func (c *CornerTable) Zero(f, g int) bool { return math.Abs(c.T[f][g-1]) < c.Z }
 // Corner computes the corner table of w for rows f = 0..rows-1 and
 // columns g = 1..cols. Rows are cut to those for which every weight
 // needed (up to lag f+g-1) exists. It returns nil when no row fits or w
-// is nil. The weights' standard errors must be positive.
+// is nil or its V and SE differ in length.
+//
+// The standard errors are taken as given. Where every weight a cell
+// depends on has a zero standard error, the cell's T is +Inf when its
+// determinant is non-zero (the cell is then never taken as zero) and 0
+// when the determinant is zero; Identify never passes zero standard
+// errors. The work grows as rows * cols^5 (cofactors of each g-by-g
+// determinant); Identify uses 4 columns.
 func Corner(w *Weights, rows, cols int) *CornerTable {
 	if w == nil || len(w.SE) != len(w.V) {
 		return nil

@@ -237,3 +237,23 @@ func TestNegativeLagLevel(t *testing.T) {
 		t.Errorf("without the level: dead time %v, %v; want the misleading 0", id, err)
 	}
 }
+
+// TestCornerZeroSE: with zero standard errors the t-values are +Inf for
+// a non-zero determinant and 0 for a zero one, as documented (closed
+// form: for v = (0, 2, 1) C(0, 1) = v_0 = 0, C(1, 1) = v_1 = 2,
+// C(1, 2) = v_1^2 - v_0 v_2 = 4).
+func TestCornerZeroSE(t *testing.T) {
+	c := Corner(&Weights{V: []float64{0, 2, 1}, SE: []float64{0, 0, 0}}, 2, 2)
+	if c == nil {
+		t.Fatal("nil table")
+	}
+	if c.T[0][0] != 0 || !c.Zero(0, 1) {
+		t.Errorf("C(0,1) = %g, T = %g; want 0 and 0 (zero)", c.Det[0][0], c.T[0][0])
+	}
+	if c.Det[1][0] != 2 || !math.IsInf(c.T[1][0], 1) || c.Zero(1, 1) {
+		t.Errorf("C(1,1) = %g, T = %g; want 2 and +Inf (non-zero)", c.Det[1][0], c.T[1][0])
+	}
+	if c.Det[1][1] != 4 || !math.IsInf(c.T[1][1], 1) {
+		t.Errorf("C(1,2) = %g, T = %g; want 4 and +Inf", c.Det[1][1], c.T[1][1])
+	}
+}
