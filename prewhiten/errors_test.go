@@ -226,3 +226,21 @@ func TestHostileSettings(t *testing.T) {
 		}
 	}
 }
+
+// TestZeroFilter: the zero Filter reports order 0 and start 0 (nil
+// polynomials count as {1}, as documented; was -1 and -2), and Apply
+// rejects it with an *ArgError naming Filter.Diff.
+func TestZeroFilter(t *testing.T) {
+	var f prewhiten.Filter
+	if f.Order() != 0 || f.Start() != 0 {
+		t.Errorf("zero Filter: order %d, start %d; want 0 and 0", f.Order(), f.Start())
+	}
+	f.AR = []float64{1, -0.5}
+	if f.Order() != 1 || f.Start() != 1 {
+		t.Errorf("AR only: order %d, start %d; want 1 and 1", f.Order(), f.Start())
+	}
+	var ae *prewhiten.ArgError
+	if _, _, err := (prewhiten.Filter{}).Apply([]float64{1, 2, 3}, "y"); !errors.As(err, &ae) || ae.Arg != "Filter.Diff" {
+		t.Errorf("Apply of the zero Filter: %v", err)
+	}
+}

@@ -76,12 +76,17 @@ type Filter struct {
 	Sigma2 float64
 }
 
-// Order returns the degree of phi(B).
-func (f Filter) Order() int { return len(f.AR) - 1 }
+// Order returns the degree of phi(B); a nil AR counts as {1}, order 0.
+func (f Filter) Order() int { return degree(f.AR) }
 
 // Start returns the first index of a filtered series that does not
-// depend on samples before the start: deg D + deg phi.
-func (f Filter) Start() int { return len(f.Diff) - 1 + len(f.AR) - 1 }
+// depend on samples before the start: deg D + deg phi. A nil polynomial
+// counts as {1} (degree 0), so the zero Filter gives 0; Apply still
+// rejects such a filter with an *ArgError.
+func (f Filter) Start() int { return degree(f.Diff) + degree(f.AR) }
+
+// degree returns len(c) - 1, or 0 for an empty c.
+func degree(c []float64) int { return max(len(c)-1, 0) }
 
 // String returns the filter as a spec fragment with the coefficients at
 // 4 significant digits, for example "(1 - 0.6431 B + 0.3558 B^2) (1 - B) x",
