@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 type corrRef struct {
@@ -29,7 +31,7 @@ type corrRef struct {
 func TestACFPACFLjungBoxR(t *testing.T) {
 	ds := datasets(t)
 	var ref map[string]corrRef
-	readJSON(t, "corr.json", &ref)
+	testutil.ReadJSON(t, "testdata/arma/corr.json", &ref)
 	if len(ref) != 6 {
 		t.Fatalf("corr.json holds %d series, want 6", len(ref))
 	}

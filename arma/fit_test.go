@@ -4,6 +4,8 @@ import (
 	"context"
 	"math"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 type cssRef struct {
@@ -103,7 +105,7 @@ func inR(r *Result, ref cssRef, se bool) []float64 {
 func TestFitCSSR(t *testing.T) {
 	ds := datasets(t)
 	var refs []cssRef
-	readJSON(t, "css.json", &refs)
+	testutil.ReadJSON(t, "testdata/arma/css.json", &refs)
 	if len(refs) != 6 {
 		t.Fatalf("css.json holds %d fits, want 6", len(refs))
 	}

@@ -3,9 +3,9 @@ package arma
 import (
 	"encoding/json"
 	"math"
-	"os"
-	"path/filepath"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // Reference files written by testdata/arma/make_golden.R (R 4.2.2, base
@@ -34,22 +34,11 @@ func floats(v []jnum) []float64 {
 	return out
 }
 
-func readJSON(t testing.TB, name string, v any) {
-	t.Helper()
-	b, err := os.ReadFile(filepath.Join("..", "testdata", "arma", name))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := json.Unmarshal(b, v); err != nil {
-		t.Fatalf("%s: %v", name, err)
-	}
-}
-
 // datasets returns the series exported from R's datasets package (lh,
 // LakeHuron, Nile, WWWusage) and the simulated "sim".
 func datasets(t testing.TB) map[string][]float64 {
 	var raw map[string][]jnum
-	readJSON(t, "datasets.json", &raw)
+	testutil.ReadJSON(t, "testdata/arma/datasets.json", &raw)
 	out := make(map[string][]float64, len(raw))
 	for k, v := range raw {
 		out[k] = floats(v)

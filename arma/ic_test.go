@@ -3,6 +3,8 @@ package arma
 import (
 	"context"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // TestInformationCriteriaR checks LogLik, K, AIC, AICc and BIC of CLS fits
@@ -24,7 +26,7 @@ func TestInformationCriteriaR(t *testing.T) {
 		AIC, AICc    float64
 		BIC          float64
 	}
-	readJSON(t, "ic.json", &refs)
+	testutil.ReadJSON(t, "testdata/arma/ic.json", &refs)
 	if len(refs) != 3 {
 		t.Fatalf("ic.json holds %d fits, want 3", len(refs))
 	}

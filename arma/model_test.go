@@ -7,6 +7,8 @@ import (
 	"math/rand/v2"
 	"sort"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 type weightsRef struct {
@@ -38,7 +40,7 @@ func rModel(ar, ma []float64, d int, mean float64) Model {
 // relative: the same recursions in double precision.
 func TestWeightsRootsFilterR(t *testing.T) {
 	var ref weightsRef
-	readJSON(t, "weights.json", &ref)
+	testutil.ReadJSON(t, "testdata/arma/weights.json", &ref)
 	e := floats(ref.Innov)
 	for i, r := range ref.Models {
 		m := rModel(floats(r.AR), floats(r.MA), r.D, r.Mean)

@@ -3,6 +3,8 @@ package arma
 import (
 	"math"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 type arRef struct {
@@ -28,7 +30,7 @@ type arRef struct {
 func TestYuleWalkerR(t *testing.T) {
 	ds := datasets(t)
 	var refs []arRef
-	readJSON(t, "ar.json", &refs)
+	testutil.ReadJSON(t, "testdata/arma/ar.json", &refs)
 	if len(refs) != 12 {
 		t.Fatalf("ar.json holds %d fits, want 12", len(refs))
 	}
