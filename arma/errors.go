@@ -23,10 +23,7 @@ type DataError struct {
 
 // Error implements the error interface.
 func (e *DataError) Error() string {
-	name := e.Series
-	if name == "" {
-		name = "series"
-	}
+	name := seriesName(e.Series)
 	if !math.IsNaN(e.Value) && !math.IsInf(e.Value, 0) {
 		return fmt.Sprintf("arma: %s sample %d is %v, beyond MaxAbs = %v", name, e.Index, e.Value, MaxAbs)
 	}
@@ -44,10 +41,7 @@ type ShortError struct {
 
 // Error implements the error interface.
 func (e *ShortError) Error() string {
-	name := e.Series
-	if name == "" {
-		name = "series"
-	}
+	name := seriesName(e.Series)
 	return fmt.Sprintf("arma: %s has %d samples, %s needs at least %d", name, e.N, e.What, e.Need)
 }
 
@@ -61,10 +55,7 @@ type ConstantError struct {
 
 // Error implements the error interface.
 func (e *ConstantError) Error() string {
-	name := e.Series
-	if name == "" {
-		name = "series"
-	}
+	name := seriesName(e.Series)
 	return fmt.Sprintf("arma: %s is constant over its %d samples", name, e.N)
 }
 
@@ -108,6 +99,15 @@ func checkFinite(name string, x []float64) error {
 		}
 	}
 	return nil
+}
+
+// seriesName is the name errors print for a series: the caller's
+// Options.Name, or "series" when none was given.
+func seriesName(s string) string {
+	if s == "" {
+		return "series"
+	}
+	return s
 }
 
 func itoa(k int) string { return strconv.Itoa(k) }
