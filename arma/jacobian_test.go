@@ -10,23 +10,44 @@ import (
 	"github.com/backshift/backshift/internal/vec"
 )
 
+// arxSeries returns n samples of y_t = level + gain x_t + e_t + ar y_{t-1}
+// (y_{-1} = 0) with x_t and e_t standard normal from the seeds, and x.
+func arxSeries(seed1, seed2 uint64, n int, level, gain, ar float64) (y, x []float64) {
+	rng := rand.New(rand.NewPCG(seed1, seed2))
+	y = make([]float64, n)
+	x = make([]float64, n)
+	for i := range y {
+		x[i] = rng.NormFloat64()
+		y[i] = level + gain*x[i] + rng.NormFloat64()
+		if i > 0 {
+			y[i] += ar * y[i-1]
+		}
+	}
+	return y, x
+}
+
+// fitEngine fits ord to y and returns the engine the fit built, so that a
+// test can probe eval and hessian directly. A non-converged fit is fine.
+func fitEngine(t *testing.T, name string, y []float64, ord Order, opt *Options) *engine {
+	t.Helper()
+	var eng *engine
+	testEngineHook = func(e *engine) { eng = e }
+	_, err := Fit(context.Background(), y, ord, opt)
+	testEngineHook = nil
+	var ce *ConvergenceError
+	if err != nil && !errors.As(err, &ce) {
+		t.Fatal(name, err)
+	}
+	return eng
+}
+
 // TestJacobianFiniteDifference checks the analytic Jacobian (filtered
 // derivative series) against central differences of the residuals for a
 // seasonal ARIMA with mean and a regressor, and for the Nile ARMA(1,1).
 // Tolerance 1e-6 relative to the column scale: central differences with
 // step 1e-6 have truncation error ~1e-12 and rounding ~1e-10.
 func TestJacobianFiniteDifference(t *testing.T) {
-	rng := rand.New(rand.NewPCG(7, 8))
-	n := 300
-	y := make([]float64, n)
-	xr := make([]float64, n)
-	for i := range y {
-		xr[i] = rng.NormFloat64()
-		y[i] = 5 + 0.3*xr[i] + rng.NormFloat64()
-		if i > 0 {
-			y[i] += 0.5 * y[i-1]
-		}
-	}
+	y, xr := arxSeries(7, 8, 300, 5, 0.3, 0.5)
 	cases := []struct {
 		name string
 		y    []float64
@@ -39,16 +60,7 @@ func TestJacobianFiniteDifference(t *testing.T) {
 		{"Nile", datasets(t)["Nile"], Order{P: 1, Q: 1}, Options{}, []float64{0.88, 0.6, 889}},
 	}
 	for _, c := range cases {
-		// Build the engine through a fit, then probe eval directly.
-		var eng *engine
-		probe := func(e *engine) { eng = e }
-		testEngineHook = probe
-		_, err := Fit(context.Background(), c.y, c.ord, &c.opt)
-		testEngineHook = nil
-		var ce *ConvergenceError
-		if err != nil && !errors.As(err, &ce) {
-			t.Fatal(c.name, err)
-		}
+		eng := fitEngine(t, c.name, c.y, c.ord, &c.opt)
 		np := len(c.x)
 		r := make([]float64, eng.m)
 		jac := make([][]float64, np)
@@ -88,17 +100,7 @@ func TestJacobianFiniteDifference(t *testing.T) {
 // for a seasonal ARIMA with a regressor and for a model with drift.
 // Tolerance 1e-5 relative to the largest entry (difference step 1e-6).
 func TestHessianFiniteDifference(t *testing.T) {
-	rng := rand.New(rand.NewPCG(17, 18))
-	n := 400
-	y := make([]float64, n)
-	xr := make([]float64, n)
-	for i := range y {
-		xr[i] = rng.NormFloat64()
-		y[i] = 2 + 0.4*xr[i] + rng.NormFloat64()
-		if i > 0 {
-			y[i] += 0.6 * y[i-1]
-		}
-	}
+	y, xr := arxSeries(17, 18, 400, 2, 0.4, 0.6)
 	cases := []struct {
 		name string
 		ord  Order
@@ -109,14 +111,7 @@ func TestHessianFiniteDifference(t *testing.T) {
 		{"drift", Order{P: 2, D: 1, Q: 1}, Options{Mean: MeanFree}, []float64{0.3, -0.2, 0.5, 0.01}},
 	}
 	for _, c := range cases {
-		var eng *engine
-		testEngineHook = func(e *engine) { eng = e }
-		_, err := Fit(context.Background(), y, c.ord, &c.opt)
-		testEngineHook = nil
-		var ce *ConvergenceError
-		if err != nil && !errors.As(err, &ce) {
-			t.Fatal(err)
-		}
+		eng := fitEngine(t, c.name, y, c.ord, &c.opt)
 		np := len(c.x)
 		H, ok := eng.hessian(c.x)
 		if !ok {
