@@ -45,16 +45,23 @@ func (e *ConstantError) Error() string {
 	return fmt.Sprintf("ccf: series %q is constant (every sample is %g), its correlations are undefined", e.Name, e.Value)
 }
 
-// ValueError reports a NaN or infinite sample: series Name at Index (0 =
-// oldest sample) holds Value.
+// ValueError reports a NaN or infinite sample, or a value outside what
+// the series allows (a standard error that is not positive): series Name
+// at Index (0 = oldest sample) holds Value.
 type ValueError struct {
 	Name  string
 	Index int
 	Value float64
+	// Want, when not empty, says what the series allows ("a positive
+	// finite number"); it is empty for a NaN or infinite sample.
+	Want string
 }
 
 // Error describes the problem in one line, naming the series and values involved.
 func (e *ValueError) Error() string {
+	if e.Want != "" {
+		return fmt.Sprintf("ccf: series %q has %v at index %d, want %s", e.Name, e.Value, e.Index, e.Want)
+	}
 	return fmt.Sprintf("ccf: series %q has %v at index %d", e.Name, e.Value, e.Index)
 }
 

@@ -168,7 +168,7 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	}
 	for k := range w.V {
 		if !(w.SE[k] > 0) || math.IsInf(w.SE[k], 0) {
-			return nil, &ValueError{Name: name + " weight standard errors", Index: k, Value: w.SE[k]}
+			return nil, &ValueError{Name: name + " weight standard errors", Index: k, Value: w.SE[k], Want: "a positive finite number"}
 		}
 	}
 	series := name

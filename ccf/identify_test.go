@@ -29,6 +29,12 @@ func TestIdentifyBadInput(t *testing.T) {
 	if _, err := Identify(&Weights{Input: "valve", V: bad, SE: se}, nil); !errors.As(err, &ve) || ve.Index != 3 {
 		t.Errorf("NaN weight: %v", err)
 	}
+	zse := append([]float64(nil), se...)
+	zse[5] = 0
+	if _, err := Identify(&Weights{Input: "valve", V: v, SE: zse}, nil); !errors.As(err, &ve) || ve.Index != 5 ||
+		err.Error() != `ccf: series "valve weight standard errors" has 0 at index 5, want a positive finite number` {
+		t.Errorf("zero standard error: %v", err)
+	}
 	var nr *NoResponseError
 	flat := []float64{0.01, -0.02, 0.03, 0.0, 0.01, -0.01, 0.02, 0.0}
 	if _, err := Identify(&Weights{Input: "valve", V: flat, SE: se}, nil); !errors.As(err, &nr) || nr.Input != "valve" {
