@@ -5,6 +5,10 @@ import (
 	"strings"
 )
 
+// The error types below mirror prewhiten's on purpose: each package's
+// errors carry its own message prefix and are distinct types for
+// errors.As, and DESIGN.md keeps ccf and prewhiten independent.
+
 // LengthError reports two series that must have equal lengths but do not.
 type LengthError struct {
 	// Names and Lens are the two series' names and lengths.
