@@ -1,15 +1,15 @@
 package tf_test
 
 import (
-	"encoding/json"
 	"errors"
 	"math"
 	"math/rand/v2"
-	"os"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
@@ -36,10 +36,6 @@ func simClose(got, want []float64, tol float64) (bool, int) {
 // stages are the same recursions, summed in a different order, over 300
 // samples; integrated outputs reach |y| ~ 100.
 func TestSimulateScipyWholeModel(t *testing.T) {
-	raw, err := os.ReadFile("../testdata/spec/sim.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var ref struct {
 		Cases []struct {
 			Name        string
@@ -49,9 +45,7 @@ func TestSimulateScipyWholeModel(t *testing.T) {
 			Output      []float64
 		}
 	}
-	if err := json.Unmarshal(raw, &ref); err != nil {
-		t.Fatal(err)
-	}
+	testutil.ReadJSON(t, "testdata/spec/sim.json", &ref)
 	if len(ref.Cases) < 5 {
 		t.Fatalf("%d cases", len(ref.Cases))
 	}
@@ -103,10 +97,6 @@ func TestSimulateScipyWholeModel(t *testing.T) {
 // do. Tolerance 1e-12 relative to 1 + |y| (1e-10 for the unstable model,
 // whose response grows to ~1e3): the same recursion, rounding only.
 func TestStepScipyGolden(t *testing.T) {
-	raw, err := os.ReadFile("../testdata/scipy/golden.json")
-	if err != nil {
-		t.Skip("no golden file from the foundation yet:", err)
-	}
 	var ref struct {
 		Models []struct {
 			Name          string
@@ -116,9 +106,7 @@ func TestStepScipyGolden(t *testing.T) {
 			Input, Output []float64
 		}
 	}
-	if err := json.Unmarshal(raw, &ref); err != nil {
-		t.Fatal(err)
-	}
+	testutil.ReadJSON(t, "testdata/scipy/golden.json", &ref)
 	if len(ref.Models) < 10 {
 		t.Fatalf("%d golden models", len(ref.Models))
 	}
@@ -226,23 +214,11 @@ func TestSimulateMatchesHandBuilt(t *testing.T) {
 	// The parsed polynomials are the hand-built ones.
 	r1, _ := m.Inputs[0].Rational()
 	r2, _ := m.Inputs[1].Rational()
-	if !simEqual(r1.Num(), g1.Num()) || !simEqual(r1.Den(), g1.Den()) || r1.Delay() != 3 ||
-		!simEqual(r2.Num(), g2.Num()) || !simEqual(r2.Den(), g2.Den()) {
+	if !slices.Equal(r1.Num(), g1.Num()) || !slices.Equal(r1.Den(), g1.Den()) || r1.Delay() != 3 ||
+		!slices.Equal(r2.Num(), g2.Num()) || !slices.Equal(r2.Den(), g2.Den()) {
 		t.Errorf("parsed %v/%v B^%d and %v/%v, hand-built %v/%v and %v/%v",
 			r1.Num(), r1.Den(), r1.Delay(), r2.Num(), r2.Den(), g1.Num(), g1.Den(), g2.Num(), g2.Den())
 	}
-}
-
-func simEqual(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 // TestSimulateNoise checks the seeded noise: reproducible, seed-
@@ -263,10 +239,10 @@ func TestSimulateNoise(t *testing.T) {
 	}
 	y2, _ := m.Simulate(map[string][]float64{"x": x}, s)
 	y3, _ := m.Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 7, Seed2: 9, Sigma: 0.5, BurnIn: 200})
-	if !simEqual(y1, y2) {
+	if !slices.Equal(y1, y2) {
 		t.Error("equal seeds gave different series")
 	}
-	if simEqual(y1, y3) {
+	if slices.Equal(y1, y3) {
 		t.Error("different seeds gave the same series")
 	}
 	mean, v := 0.0, 0.0
@@ -398,22 +374,22 @@ func TestSimulateErrors(t *testing.T) {
 
 func TestNumericViews(t *testing.T) {
 	m := parse.MustModel("(1 - B)^2 y = c + (w0 + w1 B) / ((1 - 0.5 B)(1 + 0.2 B)) B^4 x + ((1 - B^12) z) + (1 - t1 B) / (1 - p1 B) / (1 - P1 B^12) a where c ~ 3, w0 = 2, t1 ~ 0.3, p1 ~ 0.5, P1 ~ 0.2")
-	if d := m.DiffCoeffs(); !simEqual(d, []float64{1, -2, 1}) {
+	if d := m.DiffCoeffs(); !slices.Equal(d, []float64{1, -2, 1}) {
 		t.Errorf("output differencing %v", d)
 	}
 	if d := m.Inputs[1].DiffCoeffs(); len(d) != 13 || d[0] != 1 || d[12] != -1 || d[6] != 0 {
 		t.Errorf("input differencing %v", d)
 	}
-	if d := m.Inputs[0].DiffCoeffs(); !simEqual(d, []float64{1}) {
+	if d := m.Inputs[0].DiffCoeffs(); !slices.Equal(d, []float64{1}) {
 		t.Errorf("no differencing gives %v", d)
 	}
 	r, err := m.Inputs[0].Rational()
-	if err != nil || !simEqual(r.Num(), []float64{2}) || !simEqual(r.Den(), []float64{1, -0.3, -0.1}) || r.Delay() != 4 {
+	if err != nil || !slices.Equal(r.Num(), []float64{2}) || !slices.Equal(r.Den(), []float64{1, -0.3, -0.1}) || r.Delay() != 4 {
 		// w1 starts at 0, so the numerator trims to {2}.
 		t.Errorf("Rational: %v/%v B^%d, %v", r.Num(), r.Den(), r.Delay(), err)
 	}
 	ma, ar, ok := m.NoiseCoeffs()
-	if !ok || !simEqual(ma, []float64{1, -0.3}) || len(ar) != 14 || ar[1] != -0.5 || ar[12] != -0.2 || ar[13] != 0.1 {
+	if !ok || !slices.Equal(ma, []float64{1, -0.3}) || len(ar) != 14 || ar[1] != -0.5 || ar[12] != -0.2 || ar[13] != 0.1 {
 		t.Errorf("noise %v / %v", ma, ar)
 	}
 	if _, _, ok := parse.MustModel("y = w0 x").NoiseCoeffs(); ok {
@@ -474,11 +450,11 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 		t.Fatal(err)
 	}
 	sys.Step([]float64{1, 2})
-	if !m.Equal(m0) || len(inputs) != 2 || !simEqual(x, x0) || !simEqual(z, z0) || !simEqual(a, a0) {
+	if !m.Equal(m0) || len(inputs) != 2 || !slices.Equal(x, x0) || !slices.Equal(z, z0) || !slices.Equal(a, a0) {
 		t.Fatal("Simulate or NewSystem modified the model, the input map, a series or the innovations")
 	}
 	y2, err := m.Simulate(inputs, &tf.SimSettings{Innovations: a, Steady: true})
-	if err != nil || !simEqual(y1, y2) {
+	if err != nil || !slices.Equal(y1, y2) {
 		t.Fatalf("second run differs: %v", err)
 	}
 	r := tf.MustRational([]float64{0.5, 0.1}, []float64{1, -0.7}, 1)
