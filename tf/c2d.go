@@ -40,8 +40,9 @@ func (p FOPDT) StepAt(t float64) float64 {
 // fractional part within 1e-12 of 0 or 1 is rounded to the whole sample.
 //
 // It returns an *ArgError for a non-finite gain, a time constant or
-// interval that is not positive and finite, a negative dead time, or a
-// dead time of more than MaxDelay-1 samples.
+// interval that is not positive and finite, a time constant so long
+// against T that e^{-T/tau} rounds to 1 (about 2^53 intervals), a
+// negative dead time, or a dead time of more than MaxDelay-1 samples.
 func (p FOPDT) Discretize(T float64) (Rational, error) {
 	if err := ratCheckFinite("Gain", p.Gain); err != nil {
 		return Rational{}, err
@@ -55,6 +56,9 @@ func (p FOPDT) Discretize(T float64) (Rational, error) {
 	}
 	tau := p.TimeConstant
 	a := math.Exp(-T / tau)
+	if err := ratCheckPole("TimeConstant", tau, a); err != nil {
+		return Rational{}, err
+	}
 	h := (1 - f) * T // time from the delayed input's switch to the next sample
 	b1 := -math.Expm1(-h / tau)
 	b2 := 0.0
@@ -238,6 +242,12 @@ func (s ratSecond) discretize(T float64) (Rational, error) {
 	switch s.kind {
 	case 0, 1:
 		a1, a2 := math.Exp(-T/s.t1), math.Exp(-T/s.t2)
+		if err := ratCheckPole("time constant", s.t1, a1); err != nil {
+			return Rational{}, err
+		}
+		if err := ratCheckPole("time constant", s.t2, a2); err != nil {
+			return Rational{}, err
+		}
 		den[1], den[2] = -(a1 + a2), a1*a2
 	default:
 		e := math.Exp(-s.zw * T)
@@ -288,8 +298,9 @@ func (p SOPDT) StepAt(t float64) float64 {
 // only when T is much shorter than the time constants.
 //
 // It returns an *ArgError for a non-finite gain, a time constant or
-// interval that is not positive and finite, or a dead time that is
-// negative or over MaxDelay-1 samples.
+// interval that is not positive and finite, a time constant so long
+// against T that e^{-T/Tau_i} rounds to 1 (about 2^53 intervals), or a
+// dead time that is negative or over MaxDelay-1 samples.
 func (p SOPDT) Discretize(T float64) (Rational, error) {
 	s, err := p.second()
 	if err != nil {
@@ -348,6 +359,16 @@ func ratSplitDelay(theta, T float64) (d int, f float64, err error) {
 		d++
 	}
 	return d, f, nil
+}
+
+// ratCheckPole rejects a time constant tau so long against the sample
+// interval that its sampled pole a = e^{-T/tau} rounds to 1: the term
+// would come out as an integrator with the gain lost.
+func ratCheckPole(name string, tau, a float64) error {
+	if a == 1 {
+		return &ArgError{Arg: name, Value: tau, Rule: "must be under 2^53 sample intervals (the sampled pole e^{-T/tau} rounds to 1)"}
+	}
+	return nil
 }
 
 func ratCheckFinite(name string, v float64) error {

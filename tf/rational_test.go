@@ -126,6 +126,8 @@ func TestBadSamplesAndArguments(t *testing.T) {
 		{"FOPDT negative dead time", first(tf.FOPDT{Gain: 1, TimeConstant: 1, DeadTime: -0.5}.Discretize(1)), isArg("DeadTime")},
 		{"FOPDT huge dead time", first(tf.FOPDT{Gain: 1, TimeConstant: 1, DeadTime: 1e9}.Discretize(1)), isArg("DeadTime")},
 		{"FOPDT zero interval", first(tf.FOPDT{Gain: 1, TimeConstant: 1}.Discretize(0)), isArg("interval")},
+		{"FOPDT time constant 1e300 intervals", first(tf.FOPDT{Gain: 1, TimeConstant: 1e300}.Discretize(1)), isArg("TimeConstant")},
+		{"SOPDT time constant 1e300 intervals", first(tf.SOPDT{Gain: 1, Tau1: 1, Tau2: 1e300}.Discretize(1)), isArg("time constant")},
 		{"SOPDT negative tau", first(tf.SOPDT{Gain: 1, Tau1: 1, Tau2: -2}.Discretize(1)), isArg("Tau2")},
 		{"second order negative damping", first(tf.SecondOrder{Gain: 1, NaturalFrequency: 1, Damping: -0.1}.Discretize(1)), isArg("Damping")},
 		{"ill-posed loop", first(tf.Feedback(tf.MustRational([]float64{1}, []float64{1}, 0), tf.MustRational([]float64{-1}, []float64{1}, 0))), isCoef(tf.ErrZeroConstant)},
