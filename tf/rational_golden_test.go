@@ -33,21 +33,24 @@ type golden struct {
 		Phase   []float64 `json:"phase"`
 	} `json:"models"`
 	C2D []struct {
-		Name   string             `json:"name"`
-		Kind   string             `json:"kind"`
-		Params map[string]float64 `json:"params"`
-		T      float64            `json:"T"`
-		NumZ   []float64          `json:"num_z"`
-		DenZ   []float64          `json:"den_z"`
+		goldenContinuous
+		NumZ []float64 `json:"num_z"`
+		DenZ []float64 `json:"den_z"`
 	} `json:"c2d"`
 	Steps []struct {
-		Name   string             `json:"name"`
-		Kind   string             `json:"kind"`
-		Params map[string]float64 `json:"params"`
-		T      float64            `json:"T"`
-		Theta  float64            `json:"theta"`
-		Y      []float64          `json:"y"`
+		goldenContinuous
+		Theta float64   `json:"theta"`
+		Y     []float64 `json:"y"`
 	} `json:"steps"`
+}
+
+// goldenContinuous names a continuous-time model of golden.json: its kind
+// ("fopdt", "sopdt", "second"), its parameters and the sample interval T.
+type goldenContinuous struct {
+	Name   string             `json:"name"`
+	Kind   string             `json:"kind"`
+	Params map[string]float64 `json:"params"`
+	T      float64            `json:"T"`
 }
 
 func readGolden(t *testing.T) golden {
