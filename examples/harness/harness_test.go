@@ -271,3 +271,33 @@ func TestMeasure(t *testing.T) {
 		t.Errorf("never settles within 0.001 in 40 samples, got %v", m.Settling)
 	}
 }
+
+// TestBadFlags checks that bad -noise and -spec values are reported
+// before anything runs, naming the flag, and that nothing is printed.
+func TestBadFlags(t *testing.T) {
+	for _, c := range []struct {
+		spec string
+		sd   float64
+		want string
+	}{
+		{PlantSpec, -1, "-noise -1: the noise standard deviation must be a finite number >= 0"},
+		{PlantSpec, math.NaN(), "-noise NaN"},
+		{PlantSpec, math.Inf(1), "-noise +Inf"},
+		{"temp = 0.01 / (1 - 0.95 B) B^3 valve", NoiseSD, "has no noise term"},
+		{"temp 0.01 B^3 valve + a", NoiseSD, "harness: -spec: 1:6:"},
+	} {
+		var buf bytes.Buffer
+		err := runWith(&buf, c.spec, c.sd)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("spec %q, noise %v: error %v, want one containing %q", c.spec, c.sd, err, c.want)
+		}
+		if buf.Len() != 0 {
+			t.Errorf("spec %q, noise %v: printed %q before failing", c.spec, c.sd, buf.String())
+		}
+	}
+	// A noise-free plant runs with -noise 0.
+	var buf bytes.Buffer
+	if err := runWith(&buf, "temp = 0.01 / (1 - 0.95 B) B^3 valve", 0); err != nil {
+		t.Errorf("noise-free plant with -noise 0: %v", err)
+	}
+}

@@ -1,11 +1,14 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"math"
 	"os"
+
+	"github.com/backshift/backshift/parse"
 )
 
 func main() {
@@ -82,10 +85,25 @@ func run(w io.Writer) error { return runWith(w, PlantSpec, NoiseSD) }
 
 // runWith runs both scenarios on the plant spec with noise sd and prints
 // the summary.
+//
+// Problems with the flags are reported before anything runs: a spec
+// that does not parse (with its position), a noise standard deviation
+// that is negative or not finite, and noise asked of a spec that has no
+// noise term.
 func runWith(w io.Writer, spec string, sd float64) error {
+	if !(sd >= 0) || math.IsInf(sd, 1) {
+		return fmt.Errorf("harness: -noise %v: the noise standard deviation must be a finite number >= 0 (degC)", sd)
+	}
 	p, err := NewProcess(spec, 0, 0)
 	if err != nil {
+		var pe *parse.Error
+		if errors.As(err, &pe) {
+			return fmt.Errorf("harness: -spec: %w", err)
+		}
 		return err
+	}
+	if sd > 0 && p.model.Noise == nil {
+		return fmt.Errorf("harness: -noise %v but the plant spec has no noise term; end it with + a (or an ARMA term), or run with -noise 0", sd)
 	}
 	fmt.Fprintf(w, "plant: %s\n\n", spec)
 	sc := SetpointStep()
