@@ -13,6 +13,12 @@
 // position the spec parser gives inside the string is mapped back to the
 // file, so the caret points at the character to fix.
 //
+// Exit status: without -file the program shows the built-in config and
+// then the problems found in the built-in broken one, and exits with 0
+// when those problems are found as expected (1 if the broken config were
+// accepted). With -file it exits with 1 when the file cannot be read or
+// has any problem, printed on standard error.
+//
 // Conventions: polynomials in the backshift operator B with signs as
 // written; poles are reported in the z-plane (z = 1/root in B), and a
 // path is stable when every pole lies strictly inside the unit circle.
