@@ -60,12 +60,6 @@ type StepSummary struct {
 	Horizon int
 }
 
-// StepInfo is the former name of StepSummary.
-//
-// Deprecated: use StepSummary; StepInfo remains only until the callers
-// outside package tf have moved over.
-type StepInfo = StepSummary
-
 // StepMetrics returns rise time, settling time, overshoot and peak of the
 // unit step response (see StepSummary), computed on the exact sampled step
 // response. It returns an *UnstableError for a term that is not stable,

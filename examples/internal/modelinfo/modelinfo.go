@@ -23,7 +23,7 @@ type Path struct {
 	Stable   bool
 	// Step holds the step-response metrics of a stable path; Err says
 	// why there are none.
-	Step tf.StepInfo
+	Step tf.StepSummary
 	Err  error
 	// Slope is, for an integrating path (output differenced once by
 	// (1 - B)), the rise of the output per sample for a unit step of the
