@@ -49,6 +49,7 @@ func ReadCSV(name string, r io.Reader) (*Table, error) {
 	cr := csv.NewReader(r)
 	cr.TrimLeadingSpace = true
 	cr.Comment = '#'
+	cr.FieldsPerRecord = -1 // checked below, with the counts in the message
 	header, err := cr.Read()
 	if err != nil {
 		if errors.Is(err, io.EOF) {
@@ -77,6 +78,10 @@ func ReadCSV(name string, r io.Reader) (*Table, error) {
 				return nil, &CSVError{File: name, Line: pe.Line, Msg: pe.Err.Error()}
 			}
 			return nil, &CSVError{File: name, Line: line, Msg: err.Error()}
+		}
+		if len(rec) != len(t.Names) {
+			return nil, &CSVError{File: name, Line: line,
+				Msg: fmt.Sprintf("%d %s, but the header names %d columns (%s)", len(rec), plural(len(rec), "field", "fields"), len(t.Names), strings.Join(t.Names, ", "))}
 		}
 		for i, cell := range rec {
 			col := t.Names[i]
@@ -115,4 +120,12 @@ func (t *Table) Select(names ...string) (map[string][]float64, error) {
 		data[n] = c
 	}
 	return data, nil
+}
+
+// plural returns one when n is 1, else many.
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
 }

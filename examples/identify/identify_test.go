@@ -186,7 +186,8 @@ func TestReadCSVErrors(t *testing.T) {
 		{"", "f.csv: the file is empty"},
 		{"a,b\n", "f.csv: no data lines"},
 		{"a,b\n1,2\n3,x\n", `f.csv:3: column "b": "x" is not a finite number`},
-		{"a,b\n1,2\n3\n", "f.csv:3: wrong number of fields"},
+		{"a,b\n1,2\n3\n", "f.csv:3: 1 field, but the header names 2 columns (a, b)"},
+		{"a,b\n1,2\n3,4,5\n", "f.csv:3: 3 fields, but the header names 2 columns (a, b)"},
 		{"a,a\n1,2\n", `f.csv:1: column "a": column names must be unique`},
 		{"a,b\n1,NaN\n", `f.csv:2: column "b": "NaN" is not a finite number`},
 	} {
@@ -257,6 +258,32 @@ func TestBadForecastFlags(t *testing.T) {
 		}
 		if strings.Contains(out.String(), "Candidate models") {
 			t.Errorf("horizon %d plan %q: the fit ran before the flags were checked", c.horizon, c.plan)
+		}
+	}
+}
+
+// TestBadSeriesFlags checks that an output listed among the inputs, an
+// input listed twice and a -skip that leaves nothing to fit are
+// reported before the fit starts, naming the flag.
+func TestBadSeriesFlags(t *testing.T) {
+	for _, c := range []struct {
+		inputs []string
+		skip   int
+		want   string
+	}{
+		{[]string{"valve", "temp"}, -1, `-inputs names "temp", the output (-output)`},
+		{[]string{"valve", "valve"}, -1, `-inputs names "valve" twice`},
+		{[]string{"valve"}, 5760, "-skip 5760: want fewer samples than the record's 5760"},
+	} {
+		o := DefaultOptions()
+		o.Inputs, o.Skip, o.Quiet = c.inputs, c.skip, true
+		var out bytes.Buffer
+		_, err := Run(context.Background(), o, &out, nil)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("inputs %v skip %d: error %v, want it to contain %q", c.inputs, c.skip, err, c.want)
+		}
+		if strings.Contains(out.String(), "Candidate models") {
+			t.Errorf("inputs %v skip %d: the fit ran before the flags were checked", c.inputs, c.skip)
 		}
 	}
 }

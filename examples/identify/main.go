@@ -99,12 +99,12 @@ func parseInterval(s string) (float64, string, error) {
 	s = strings.TrimSpace(s)
 	i := strings.IndexFunc(s, func(r rune) bool { return r >= 'a' && r <= 'z' })
 	if i <= 0 {
-		return 0, "", fmt.Errorf("interval %q: want a number and a unit (s, min, h, d), e.g. 1min", s)
+		return 0, "", fmt.Errorf("-interval %q: want a number and a unit (s, min, h, d), e.g. 1min", s)
 	}
 	v, err := strconv.ParseFloat(strings.TrimSpace(s[:i]), 64)
 	u := s[i:]
 	if err != nil || !(v > 0) || (u != "s" && u != "min" && u != "h" && u != "d") {
-		return 0, "", fmt.Errorf("interval %q: want a positive number and a unit (s, min, h, d), e.g. 1min", s)
+		return 0, "", fmt.Errorf("-interval %q: want a positive number and a unit (s, min, h, d), e.g. 1min", s)
 	}
 	return v, u, nil
 }

@@ -89,6 +89,9 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if skip < 0 {
 		skip = min(ds.n/20, 500)
 	}
+	if skip >= ds.n {
+		return nil, fmt.Errorf("-skip %d: want fewer samples than the record's %d (-1: automatic)", o.Skip, ds.n)
+	}
 	var est *tf.Estimate
 	if o.Spec != "" {
 		est, err = fitSpec(ctx, o.Spec, ds, skip, pr)
@@ -181,6 +184,18 @@ func load(o Options) (*dataset, error) {
 	}
 	if len(ds.inputs) == 0 {
 		return nil, errors.New("no input columns named (-inputs)")
+	}
+	if o.Spec == "" {
+		seen := map[string]bool{ds.output: true}
+		for _, in := range ds.inputs {
+			if seen[in] {
+				if in == ds.output {
+					return nil, fmt.Errorf("-inputs names %q, the output (-output): a series cannot drive itself", in)
+				}
+				return nil, fmt.Errorf("-inputs names %q twice", in)
+			}
+			seen[in] = true
+		}
 	}
 	if o.Data == "" {
 		g := greenhouse.Default()
