@@ -16,7 +16,8 @@ type Result struct {
 	Alpha, Beta []float64
 	// Start is the first valid index of Alpha and Beta.
 	Start int
-	// Check is the Ljung-Box test of Alpha[Start:] with fitdf = p + q.
+	// Check is the Ljung-Box test of Alpha[Start:], its degrees of freedom
+	// reduced by the p + q fitted filter coefficients.
 	Check arma.Portmanteau
 	// White reports whether Check.P is at least the settings' Level.
 	White bool
@@ -111,11 +112,11 @@ func pairWith(f Filter, x, y []float64, name, yName string, lags int, level floa
 	if lags == 0 {
 		lags = min(20, m/5)
 	}
-	fitdf := len(f.AR) - 1 + len(f.MA) - 1
-	if lags <= fitdf {
+	fitted := len(f.AR) - 1 + len(f.MA) - 1
+	if lags <= fitted {
 		// Too few lags to test beyond the fitted coefficients: test with
 		// the smallest meaningful number.
-		lags = fitdf + 1
+		lags = fitted + 1
 	}
 	if lags >= m {
 		return nil, &ShortError{Name: name, Len: len(x), Need: start + min(lags, math.MaxInt-start-1) + 1, Why: "to check the prewhitened input for whiteness"}
@@ -123,7 +124,7 @@ func pairWith(f Filter, x, y []float64, name, yName string, lags int, level floa
 	if isConstant(alpha[start:]) {
 		return nil, &ConstantError{Name: name}
 	}
-	res.Check, err = arma.LjungBox(alpha[start:], lags, fitdf)
+	res.Check, err = arma.LjungBox(alpha[start:], lags, fitted)
 	if err != nil {
 		return nil, err
 	}
