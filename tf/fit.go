@@ -292,6 +292,7 @@ type fitInput struct {
 	numC, denC []float64
 	numD, denD [][]float64
 	e, f       []float64 // phi(B) s and phi(B) q from First - fitExt on (Jacobian)
+	numFree    bool      // a numerator coefficient is estimated: the Jacobian needs e
 	denFree    bool
 	d          int
 }
@@ -443,6 +444,11 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		fi.in = in
 		fi.d = in.Diff.Degree()
 		ts = max(ts, fi.d+in.Delay+in.Num.Degree())
+		in.Num.Each(func(c *Coef) {
+			if w.idx(c.Name) >= 0 {
+				fi.numFree = true
+			}
+		})
 		in.Den.Each(func(c *Coef) {
 			if w.idx(c.Name) >= 0 {
 				fi.denFree = true
@@ -783,7 +789,9 @@ func (w *fitWork) jacobian(jac [][]float64) {
 	for i := range w.ins {
 		fi := &w.ins[i]
 		ext := len(fi.e) - (w.n - t0)
-		fitFIR(fi.e, w.arC, fi.s, t0-ext, false)
+		if fi.numFree { // e is read only by numerator columns
+			fitFIR(fi.e, w.arC, fi.s, t0-ext, false)
+		}
 		if fi.denFree {
 			fitFIR(fi.f, w.arC, fi.q, t0-ext, false)
 		}
