@@ -443,6 +443,9 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		fi := &w.ins[i]
 		fi.in = in
 		fi.d = in.Diff.Degree()
+		if in.Delay < 0 || in.Delay > MaxDelay {
+			return nil, &DelayError{Delay: in.Delay}
+		}
 		ts = max(ts, fi.d+in.Delay+in.Num.Degree())
 		in.Num.Each(func(c *Coef) {
 			if w.idx(c.Name) >= 0 {

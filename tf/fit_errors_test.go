@@ -129,3 +129,21 @@ func TestFitCancel(t *testing.T) {
 		t.Errorf("canceled fit: converged %v, reason %q, warnings %v", est.Converged, est.Reason, est.Warnings)
 	}
 }
+
+// A dead time outside 0..MaxDelay in a model built in code is a typed
+// DelayError, not an index panic.
+func TestFitNegativeDelay(t *testing.T) {
+	x := make([]float64, 300)
+	y := make([]float64, 300)
+	for i := range x {
+		x[i] = float64(i % 7)
+		y[i] = float64(i % 5)
+	}
+	m := Model{Output: "y", Inputs: []Input{{Series: "x", Delay: -1,
+		Num: Poly{Factors: []Factor{{Exp: 1, Terms: []Term{{Coef: Coef{Name: "w0", Free: true}}}}}}}}}
+	_, err := Fit(context.Background(), m, map[string][]float64{"y": y, "x": x}, nil)
+	var de *DelayError
+	if !errors.As(err, &de) || de.Delay != -1 {
+		t.Fatalf("Fit with dead time -1: err = %v, want a *DelayError", err)
+	}
+}
