@@ -291,31 +291,35 @@ type fitInput struct {
 	s, u, q    []float64
 	numC, denC []float64
 	numD, denD [][]float64
-	e, f       []float64 // phi(B) s and phi(B) q from First - fitExt on (Jacobian)
-	numFree    bool      // a numerator coefficient is estimated: the Jacobian needs e
+	e, f       []float64   // phi(B) s and phi(B) q from First - fitExt on (Jacobian)
+	negNum     [][]float64 // -numD (Jacobian)
+	numFree    bool        // a numerator coefficient is estimated: the Jacobian needs e
 	denFree    bool
 	d          int
 }
 
 // fitWork is the working state of one fit; nothing in it is shared.
 type fitWork struct {
-	m        Model // working clone whose coefficient values are set per evaluation
-	names    []string
-	coefs    [][]*Coef
-	index    map[string]int
-	n        int
-	y        []float64 // the output as given (not modified)
-	cond     Conditioning
-	w        []float64
-	ins      []fitInput
-	ar, ma   Poly
-	arC      []float64
-	maC      []float64
-	arD      [][]float64
-	maD      [][]float64
-	nn, a    []float64
-	scratch  []float64
-	scratch2 []float64
+	m       Model // working clone whose coefficient values are set per evaluation
+	names   []string
+	coefs   [][]*Coef
+	index   map[string]int
+	n       int
+	y       []float64 // the output as given (not modified)
+	cond    Conditioning
+	w       []float64
+	ins     []fitInput
+	ar, ma  Poly
+	arC     []float64
+	maC     []float64
+	arD     [][]float64
+	maD     [][]float64
+	nn, a   []float64
+	scratch []float64
+	kappa   []float64   // constant part of each Jacobian column
+	negMA   [][]float64 // -maD
+	acc1    []float64   // the second half's products (normalEval)
+	blk     [2]fitBlock // block scratch of normalEval, one per goroutine
 	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
 	// moving average of n_t and no column needs a_t.
 	maFixedOne bool
@@ -785,10 +789,31 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 // for numerator, denominator, constant, AR and MA parameters. phi s_i
 // and phi q_i are formed once per evaluation over First - (s_i + r_i) ..
 // n-1, so that a numerator or denominator column whose g_k is a single
-// power of B (the usual case) is a shifted copy.
+// power of B (the usual case) is a shifted copy. The lm solver uses
+// normalEval, which forms the same columns a block of rows at a time;
+// jacobian is the stored form for the tests.
 func (w *fitWork) jacobian(jac [][]float64) {
-	t0 := w.cond.First
+	w.jacPrep()
 	maOne := fitIsOne(w.maC)
+	var sc []float64 // bracket for the moving-average recursion
+	if !maOne {
+		sc = w.scratchN(len(jac[0]))
+	}
+	for k := range jac {
+		dst := jac[k]
+		if !maOne {
+			dst = sc
+		}
+		w.colRows(k, 0, dst, jac[k], nil)
+	}
+}
+
+// jacPrep forms, for the current values, what every Jacobian column
+// reads: phi s_i and phi q_i, the constant part kappa_k of each column
+// and the negated numerator and MA derivative polynomials.
+func (w *fitWork) jacPrep() {
+	t0 := w.cond.First
+	k := len(w.names)
 	for i := range w.ins {
 		fi := &w.ins[i]
 		ext := len(fi.e) - (w.n - t0)
@@ -798,59 +823,23 @@ func (w *fitWork) jacobian(jac [][]float64) {
 		if fi.denFree {
 			fitFIR(fi.f, w.arC, fi.q, t0-ext, false)
 		}
+		fi.negNum = fitNegAll(fi.negNum, fi.numD)
 	}
+	w.negMA = fitNegAll(w.negMA, w.maD)
 	phi1 := 0.0
 	for _, v := range w.arC {
 		phi1 += v
 	}
-	var sc1, sc2 []float64 // brackets for the moving-average recursion
-	if !maOne {
-		sc1 = w.scratchN(len(jac[0]))
+	if cap(w.kappa) < k {
+		w.kappa = make([]float64, k)
 	}
-	if len(jac) >= 4 && len(jac[0]) >= fitParMin && runtime.GOMAXPROCS(0) > 1 {
-		// Long series: the columns are independent; compute the second
-		// half on another goroutine with its own scratch buffer.
-		h := len(jac) / 2
-		if !maOne {
-			if cap(w.scratch2) < len(jac[0]) {
-				w.scratch2 = make([]float64, len(jac[0]))
-			}
-			sc2 = w.scratch2[:len(jac[0])]
-		}
-		var wg sync.WaitGroup
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			w.columns(jac, h, len(jac), maOne, phi1, sc2)
-		}()
-		w.columns(jac, 0, h, maOne, phi1, sc1)
-		wg.Wait()
-		return
-	}
-	w.columns(jac, 0, len(jac), maOne, phi1, sc1)
-}
-
-// fitParMin is the residual count from which the Jacobian columns are
-// computed on two goroutines.
-const fitParMin = 50000
-
-// columns fills the Jacobian columns lo..hi-1; scratch (len N) holds the
-// moving-average bracket when theta(B) is not 1. It only reads shared
-// state, so that disjoint column ranges may run concurrently.
-func (w *fitWork) columns(jac [][]float64, lo, hi int, maOne bool, phi1 float64, scratch []float64) {
-	t0 := w.cond.First
-	for k := lo; k < hi; k++ {
-		col := jac[k]
-		dst := col
-		if !maOne {
-			dst = scratch
-		}
-		first := true
+	w.kappa = w.kappa[:k]
+	for j := range w.kappa {
 		// kappa is the constant part of d n_t: -1 for the constant and,
 		// for a steady pre-sample level z0, the derivative of
-		// -omega(1)/delta(1) z0.
+		// -omega(1)/delta(1) z0; the column's constant is kappa phi(1).
 		kappa := 0.0
-		if w.m.Const != nil && w.idx(w.m.Const.Name) == k {
+		if w.m.Const != nil && w.idx(w.m.Const.Name) == j {
 			kappa = -1
 		}
 		for i := range w.ins {
@@ -859,48 +848,201 @@ func (w *fitWork) columns(jac [][]float64, lo, hi int, maOne bool, phi1 float64,
 				continue
 			}
 			d1 := fitSum(fi.denC)
-			if g := fi.numD[k]; g != nil {
+			if g := fi.numD[j]; g != nil {
 				kappa -= fitSum(g) * fi.z0 / d1
 			}
-			if g := fi.denD[k]; g != nil {
+			if g := fi.denD[j]; g != nil {
 				kappa += fi.gain * fitSum(g) * fi.z0 / d1
 			}
 		}
-		if kappa != 0 {
-			for t := range dst {
-				dst[t] = kappa * phi1
-			}
+		w.kappa[j] = kappa * phi1
+	}
+}
+
+// colRows computes rows r0 .. r0+len(out)-1 of Jacobian column k into
+// out, with dst (the same length) holding the moving-average bracket when
+// theta(B) is not 1 (dst may be out when it is). yHist holds the
+// column's outputs before row r0 for the recursion 1/theta(B), oldest
+// first (nil: the recursion starts at rest, as at row 0). After jacPrep
+// it only reads shared state, so that disjoint rows or columns may run
+// concurrently. Rows computed in blocks are bit for bit those of one
+// pass over all rows.
+func (w *fitWork) colRows(k, r0 int, dst, out, yHist []float64) {
+	t0 := w.cond.First + r0
+	first := true
+	if c := w.kappa[k]; c != 0 {
+		for t := range dst {
+			dst[t] = c
+		}
+		first = false
+	}
+	m := w.n - w.cond.First
+	for i := range w.ins {
+		fi := &w.ins[i]
+		ext := len(fi.e) - m + r0
+		// fi.e[j] holds (phi s)_{First-ext0+j}; filter it as a series
+		// whose index origin is First-ext0.
+		if g := fi.negNum[k]; g != nil {
+			fitFIR(dst, g, fi.e, ext, !first)
 			first = false
 		}
-		for i := range w.ins {
-			fi := &w.ins[i]
-			ext := len(fi.e) - len(col)
-			// fi.e[j] holds (phi s)_{t0-ext+j}; filter it as a series whose
-			// index origin is t0-ext.
-			if g := fi.numD[k]; g != nil {
-				fitFIR(dst, fitNeg(g), fi.e, ext, !first)
-				first = false
-			}
-			if g := fi.denD[k]; g != nil {
-				fitFIR(dst, g, fi.f, ext, !first)
-				first = false
-			}
-		}
-		if g := w.arD[k]; g != nil {
-			fitFIR(dst, g, w.nn, t0, !first)
+		if g := fi.denD[k]; g != nil {
+			fitFIR(dst, g, fi.f, ext, !first)
 			first = false
-		}
-		if g := w.maD[k]; g != nil {
-			fitFIR(dst, fitNeg(g), w.a, t0, !first)
-			first = false
-		}
-		if first {
-			clear(dst)
-		}
-		if !maOne {
-			filter.Run(col, fitOne, w.maC, dst)
 		}
 	}
+	if g := w.arD[k]; g != nil {
+		fitFIR(dst, g, w.nn, t0, !first)
+		first = false
+	}
+	if g := w.negMA[k]; g != nil {
+		fitFIR(dst, g, w.a, t0, !first)
+		first = false
+	}
+	if first {
+		clear(dst)
+	}
+	if !fitIsOne(w.maC) {
+		filter.RunInit(out, fitOne, w.maC, dst, nil, yHist)
+	}
+}
+
+// normalEval is the lm Normal function: the residuals as eval computes
+// them, and J'J and J'r added into acc (lm's layout) a block of
+// lm.NormalBlock rows at a time. The columns of a block are formed by
+// colRows into a scratch block that stays in the first-level cache and
+// multiplied there, so the Jacobian is never stored: per evaluation the
+// series it is formed from are read once. The blocks are summed in the
+// order lm sums stored columns (the two halves separately from
+// lm.NormalSplit rows), so the result is that of eval and lm's own
+// products bit for bit. Without a moving-average part the two halves run
+// on two goroutines when GOMAXPROCS > 1; with one, the recursion
+// 1/theta(B) carries each column's state from block to block.
+func (w *fitWork) normalEval(x, r, acc []float64) error {
+	if err := w.eval(x, r, nil); err != nil {
+		return err
+	}
+	w.jacPrep()
+	m := len(r)
+	if m < lm.NormalSplit {
+		w.normalRows(acc, r, 0, m, &w.blk[0])
+		return nil
+	}
+	h := (m / 2) &^ (lm.NormalBlock - 1)
+	acc1 := w.scratchAcc(len(acc))
+	if fitIsOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
+		var wg sync.WaitGroup
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			w.normalRows(acc1, r, h, m, &w.blk[1])
+		}()
+		w.normalRows(acc, r, 0, h, &w.blk[0])
+		wg.Wait()
+	} else {
+		st := &w.blk[0]
+		w.normalRows(acc, r, 0, h, st)
+		w.normalRows(acc1, r, h, m, st)
+	}
+	for i := range acc {
+		acc[i] += acc1[i]
+	}
+	return nil
+}
+
+// fitBlock is the scratch of normalRows: one block of every column, the
+// moving-average bracket and each column's recursion history.
+type fitBlock struct {
+	back []float64
+	cols [][]float64
+	brk  []float64
+	hist [][]float64
+}
+
+// normalRows adds to acc the products of the Jacobian columns with
+// themselves and with r over rows lo..hi-1, block by block. With a
+// moving-average part the rows must come in order from row 0 through the
+// same st, which carries the recursion histories.
+func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
+	k := len(w.names)
+	L := lm.NormalBlock
+	maOne := fitIsOne(w.maC)
+	q := len(w.maC) - 1
+	if len(st.cols) != k || len(st.back) < k*L {
+		st.back = make([]float64, k*L)
+		st.brk = make([]float64, L)
+		st.cols = make([][]float64, k)
+		st.hist = make([][]float64, k)
+	}
+	for j := range st.hist {
+		if cap(st.hist[j]) < q {
+			st.hist[j] = make([]float64, q)
+		}
+		st.hist[j] = st.hist[j][:q]
+	}
+	blk := make([][]float64, k)
+	for b := lo; b < hi; b += L {
+		e := min(b+L, hi)
+		for j := 0; j < k; j++ {
+			out := st.back[j*L : j*L+e-b]
+			dst := out
+			if !maOne {
+				dst = st.brk[:e-b]
+			}
+			var yh []float64
+			if !maOne && b > 0 {
+				yh = st.hist[j]
+			}
+			w.colRows(j, b, dst, out, yh)
+			if !maOne {
+				fitPushHist(st.hist[j], out)
+			}
+			blk[j] = out
+		}
+		lm.AddBlock(acc, blk, r[b:e])
+	}
+}
+
+// fitPushHist shifts the last outputs y into h (oldest first), keeping
+// len(h) values.
+func fitPushHist(h, y []float64) {
+	q := len(h)
+	if len(y) >= q {
+		copy(h, y[len(y)-q:])
+		return
+	}
+	copy(h, h[len(y):])
+	copy(h[q-len(y):], y)
+}
+
+func (w *fitWork) scratchAcc(m int) []float64 {
+	if cap(w.acc1) < m {
+		w.acc1 = make([]float64, m)
+	}
+	w.acc1 = w.acc1[:m]
+	clear(w.acc1)
+	return w.acc1
+}
+
+// fitNegAll returns the negated polynomials of g (nil stays nil), reusing
+// dst's storage.
+func fitNegAll(dst, g [][]float64) [][]float64 {
+	if cap(dst) < len(g) {
+		dst = make([][]float64, len(g))
+	}
+	dst = dst[:len(g)]
+	for k, c := range g {
+		if c == nil {
+			dst[k] = nil
+			continue
+		}
+		d := dst[k][:0]
+		for _, v := range c {
+			d = append(d, -v)
+		}
+		dst[k] = d
+	}
+	return dst
 }
 
 func (w *fitWork) scratchN(m int) []float64 {
@@ -916,14 +1058,6 @@ func fitSum(c []float64) float64 {
 		s += v
 	}
 	return s
-}
-
-func fitNeg(g []float64) []float64 {
-	out := make([]float64, len(g))
-	for i, v := range g {
-		out[i] = -v
-	}
-	return out
 }
 
 // Staging: a long series is first fitted on its last
@@ -983,7 +1117,7 @@ func (w *fitWork) lmSettings(set FitSettings, maxIter int) *lm.Settings {
 }
 
 func (w *fitWork) problem() lm.Problem {
-	return lm.Problem{M: w.n - w.cond.First, N: len(w.names), Eval: w.eval}
+	return lm.Problem{M: w.n - w.cond.First, N: len(w.names), Eval: w.eval, Normal: w.normalEval, WritesAll: true}
 }
 
 // search computes the start candidates, screens them by their sum of

@@ -34,17 +34,22 @@ func fitJacModel() Model {
 // error is O(h^2) ~ 1e-12 relative and rounding ~ 1e-10, so 1e-6 relative
 // to the column's scale is a safe bound).
 func TestFitJacobianFiniteDifference(t *testing.T) {
+	data := fitJacData(300)
+	for _, zero := range []bool{false, true} {
+		fitJacCheck(t, data, FitSettings{ZeroPreSample: zero})
+	}
+}
+
+// fitJacData is n samples of noise with a trend in y, x1 and x2.
+func fitJacData(n int) map[string][]float64 {
 	rng := rand.New(rand.NewPCG(1, 2))
-	n := 300
 	data := map[string][]float64{"y": make([]float64, n), "x1": make([]float64, n), "x2": make([]float64, n)}
-	for k := range data {
+	for _, k := range []string{"y", "x1", "x2"} {
 		for i := range data[k] {
 			data[k][i] = rng.NormFloat64() + 0.01*float64(i)
 		}
 	}
-	for _, zero := range []bool{false, true} {
-		fitJacCheck(t, data, FitSettings{ZeroPreSample: zero})
-	}
+	return data
 }
 
 func fitJacCheck(t *testing.T, data map[string][]float64, set FitSettings) {

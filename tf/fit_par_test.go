@@ -2,50 +2,114 @@ package tf
 
 import (
 	"context"
+	"runtime"
 	"testing"
 
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/lm"
 )
 
-// TestFitParallelColumns fits a series long enough for the Jacobian
-// columns to be computed on two goroutines and checks that the result
-// equals, bit for bit, an evaluation of the columns on one goroutine
-// (run it with -race to check the sharing).
-func TestFitParallelColumns(t *testing.T) {
-	data := fitBenchData(fitParMin+1000, 3)
-	w, err := fitPrepare(fitBenchModel(), data, FitSettings{})
-	if err != nil {
-		t.Fatal(err)
+// TestFitNormalBlocked checks normalEval, which forms the Jacobian a
+// block of rows at a time and never stores it, against the stored
+// columns of eval multiplied out the way lm sums them (blocks of
+// lm.NormalBlock in row order; from lm.NormalSplit rows the two halves
+// separately, then added): J'J and J'r must agree bit for bit, with one
+// goroutine and with two. The cases cover no moving-average part (the
+// halves on two goroutines) and one (the recursion carried from block to
+// block), short and long series; the finite-difference test checks the
+// stored columns themselves. Run it with -race to check the sharing.
+func TestFitNormalBlocked(t *testing.T) {
+	ma := fitBenchModel()
+	ma.Noise.MA = fitOneMinus("t1", 1)
+	cases := []struct {
+		name string
+		m    Model
+		data map[string][]float64
+		x    []float64
+	}{
+		{"AR(2) long", fitBenchModel(), fitBenchData(lm.NormalSplit+1000, 3), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"AR(2) short", fitBenchModel(), fitBenchData(3000, 4), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"ARMA(2,1) long", ma, fitBenchData(lm.NormalSplit+777, 5), nil},
+		{"two inputs, MA factors", fitJacModel(), fitJacData(2000), nil},
 	}
-	x := []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}
-	m := w.n - w.cond.First
-	mk := func() [][]float64 {
-		j := make([][]float64, len(x))
-		for k := range j {
-			j[k] = make([]float64, m)
-		}
-		return j
-	}
-	r := make([]float64, m)
-	par, seq := mk(), mk()
-	if err := w.eval(x, r, par); err != nil {
-		t.Fatal(err)
-	}
-	phi1 := 0.0
-	for _, v := range w.arC {
-		phi1 += v
-	}
-	w.columns(seq, 0, len(seq), fitIsOne(w.maC), phi1, make([]float64, m))
-	for k := range par {
-		for i := range par[k] {
-			if par[k][i] != seq[k][i] {
-				t.Fatalf("column %d row %d: %v on two goroutines, %v on one", k, i, par[k][i], seq[k][i])
+	for _, c := range cases {
+		for _, procs := range []int{1, 2} {
+			old := runtime.GOMAXPROCS(procs)
+			w, err := fitPrepare(c.m, c.data, FitSettings{})
+			if err != nil {
+				t.Fatal(err)
 			}
+			x := c.x
+			if x == nil {
+				x = w.params()
+				for k := range x {
+					if x[k] == 0 {
+						x[k] = 0.3 // the MA coefficient: away from 1
+					}
+				}
+			}
+			m, k := w.n-w.cond.First, len(x)
+			r := make([]float64, m)
+			jac := make([][]float64, k)
+			for j := range jac {
+				jac[j] = make([]float64, m)
+			}
+			if err := w.eval(x, r, jac); err != nil {
+				t.Fatal(err)
+			}
+			want := fitStoredProducts(jac, r)
+			r2 := make([]float64, m)
+			got := make([]float64, k*(k+1))
+			if err := w.normalEval(x, r2, got); err != nil {
+				t.Fatal(err)
+			}
+			for i := range r {
+				if r[i] != r2[i] {
+					t.Fatalf("%s: residual %d: %v by eval, %v by normalEval", c.name, i, r[i], r2[i])
+				}
+			}
+			for j := 0; j < k; j++ {
+				for l := j; l <= k; l++ {
+					if g, e := got[j*(k+1)+l], want[j*(k+1)+l]; g != e {
+						t.Fatalf("%s, GOMAXPROCS %d: product (%d, %d) = %v blocked, %v from stored columns", c.name, procs, j, l, g, e)
+					}
+				}
+			}
+			w.release()
+			runtime.GOMAXPROCS(old)
 		}
 	}
-	if _, err := Fit(context.Background(), fitBenchModel(), data, nil); err != nil {
+	if _, err := Fit(context.Background(), fitBenchModel(), fitBenchData(lm.NormalSplit+1000, 3), nil); err != nil {
 		t.Fatal(err)
 	}
+}
+
+// fitStoredProducts multiplies stored columns out as lm does.
+func fitStoredProducts(jac [][]float64, r []float64) []float64 {
+	k, m := len(jac), len(r)
+	rows := func(acc []float64, lo, hi int) {
+		blk := make([][]float64, k)
+		for b := lo; b < hi; b += lm.NormalBlock {
+			e := min(b+lm.NormalBlock, hi)
+			for j := range jac {
+				blk[j] = jac[j][b:e]
+			}
+			lm.AddBlock(acc, blk, r[b:e])
+		}
+	}
+	acc := make([]float64, k*(k+1))
+	if m < lm.NormalSplit {
+		rows(acc, 0, m)
+		return acc
+	}
+	h := (m / 2) &^ (lm.NormalBlock - 1)
+	acc1 := make([]float64, len(acc))
+	rows(acc, 0, h)
+	rows(acc1, h, m)
+	for i := range acc {
+		acc[i] += acc1[i]
+	}
+	return acc
 }
 
 // TestFitRun1 checks the fused first-order kernel against the general

@@ -5,6 +5,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -18,9 +20,25 @@ import (
 // M per parameter. Eval returns an error when x is not admissible (for
 // example an unstable filter); the solver then treats the point as worse
 // than any other. Eval must not keep x, r or jac.
+//
+// The solver reuses its buffers across calls of Minimize. By default it
+// clears them before handing them to Eval, so Eval may write only the
+// non-zero entries; WritesAll promises that every call writes every entry
+// of r (and of every column of jac when jac is not nil), which saves the
+// clearing on long problems.
+//
+// Normal, when not nil, is used instead of Eval wherever the solver needs
+// the Jacobian: it writes the residuals at x into r and adds J'J and J'r
+// into acc (length N (N + 1), zeroed by the solver), row j holding
+// J_j'J_k at acc[j (N+1) + k] for k = j..N-1 and J_j'r at
+// acc[j (N+1) + N] (AddBlock adds one block of rows in this layout). A
+// problem that can form its Jacobian a block of rows at a time then never
+// stores it. Eval is still called for residuals alone (jac nil).
 type Problem struct {
-	M, N int
-	Eval func(x, r []float64, jac [][]float64) error
+	M, N      int
+	Eval      func(x, r []float64, jac [][]float64) error
+	Normal    func(x, r, acc []float64) error
+	WritesAll bool
 }
 
 // Settings tunes Minimize. The zero value gives the defaults.
@@ -142,12 +160,42 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	}
 	m, n := p.M, p.N
 	x := append([]float64(nil), x0...)
-	r := make([]float64, m)
-	jac := newCols(n, m)
-	tr := make([]float64, m)
-	tjac := newCols(n, m)
+	size := (2*n + 2) * m
+	if p.Normal != nil {
+		size = 2 * m
+	}
+	wk := getWork(size, !p.WritesAll)
+	defer workPool.Put(wk)
+	back := *wk
+	r, tr := back[:m:m], back[m:2*m:2*m]
+	var jac, tjac [][]float64
+	if p.Normal == nil {
+		jac, tjac = cols(back[2*m:], n, m), cols(back[(n+2)*m:], n, m)
+	}
+	acc := make([]float64, 2*n*(n+1))
+	a := mat.NewSymDense(n, nil)
+	g := make([]float64, n)
+	ta := mat.NewSymDense(n, nil)
+	tg := make([]float64, n)
+	// evalJ computes the residuals, J'J and J'r at x.
+	evalJ := func(x, r []float64, jac [][]float64, a *mat.SymDense, g []float64) error {
+		if p.Normal == nil {
+			if err := p.Eval(x, r, jac); err != nil {
+				return err
+			}
+			normal(a, g, jac, r, acc)
+			return nil
+		}
+		w := n * (n + 1)
+		clear(acc[:w])
+		if err := p.Normal(x, r, acc[:w]); err != nil {
+			return err
+		}
+		fromAcc(a, g, acc[:w])
+		return nil
+	}
 	res := Result{}
-	if err := p.Eval(x, r, jac); err != nil {
+	if err := evalJ(x, r, jac, a, g); err != nil {
 		return Result{}, fmt.Errorf("%w: %v", ErrStart, err)
 	}
 	res.Evals++
@@ -155,9 +203,6 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	if math.IsNaN(f) || math.IsInf(f, 0) {
 		return Result{}, fmt.Errorf("%w: sum of squares is %v", ErrStart, f)
 	}
-	a := mat.NewSymDense(n, nil)
-	g := make([]float64, n)
-	normal(a, g, jac, r)
 	// The damping multiplies D = diag(J'J) (Marquardt's scaling), so mu
 	// is dimensionless and starts small: the first step is nearly
 	// Gauss-Newton.
@@ -264,7 +309,7 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 			pred += 0.5 * dx[j] * (mu*d*dx[j] - g[j])
 		}
 		var ft float64
-		err := p.Eval(xt, tr, tjac)
+		err := evalJ(xt, tr, tjac, ta, tg)
 		res.Evals++
 		if err == nil {
 			ft = ssq(tr)
@@ -291,13 +336,14 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 		x, xt = xt, x
 		r, tr = tr, r
 		jac, tjac = tjac, jac
+		a, ta = ta, a
+		g, tg = tg, g
 		f = ft
-		normal(a, g, jac, r)
 		prevRel, lastRel = lastRel, rel
 	}
 	res.X = x
 	res.SSQ = f
-	res.Resid = r
+	res.Resid = append([]float64(nil), r...) // r is in the reused buffer
 	res.Reason = reason
 	var c mat.Cholesky
 	if c.Factorize(a) {
@@ -309,13 +355,43 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	return res, nil
 }
 
-func newCols(n, m int) [][]float64 {
-	back := make([]float64, n*m)
+// workPool holds the residual and Jacobian buffers of finished Minimize
+// calls (a *[]float64 each), so that repeated fits of long series do not
+// allocate, zero and page in tens of megabytes per call.
+var workPool sync.Pool
+
+// getWork returns a buffer of length size from workPool or a new one;
+// zero clears a reused buffer.
+func getWork(size int, zero bool) *[]float64 {
+	if v, ok := workPool.Get().(*[]float64); ok {
+		if cap(*v) >= size {
+			*v = (*v)[:size]
+			if zero {
+				clear(*v)
+			}
+			return v
+		}
+		if cap(*v) > 1<<16 {
+			// Too small for this problem: drop it rather than keep a
+			// buffer that every long problem would have to replace.
+			*v = nil
+		}
+	}
+	b := make([]float64, size)
+	return &b
+}
+
+// cols cuts n columns of length m from back.
+func cols(back []float64, n, m int) [][]float64 {
 	c := make([][]float64, n)
 	for j := range c {
 		c[j] = back[j*m : (j+1)*m : (j+1)*m]
 	}
 	return c
+}
+
+func newCols(n, m int) [][]float64 {
+	return cols(make([]float64, n*m), n, m)
 }
 
 func ssq(r []float64) float64 {
@@ -326,30 +402,113 @@ func ssq(r []float64) float64 {
 	return s
 }
 
-// normal writes J'J into a and J'r into g.
-// Column j is read once for two products at a time (vec.Dot2), which halves
-// the loads of column j; each product is summed in the same order as vec.Dot,
-// so the result is bit-identical to computing the products one by one.
-func normal(a *mat.SymDense, g []float64, jac [][]float64, r []float64) {
+// NormalBlock is the row block of normal. The rows of one block of every
+// column (8 columns of 256 rows = 16 KiB) stay in the first-level cache
+// while all their products are formed, so each column is read from
+// memory once per evaluation instead of once per product it enters.
+const NormalBlock = 256
+
+// NormalSplit is the row count from which normal sums the two halves of
+// the rows separately (the first half ending on a block boundary) and
+// adds the halves' sums; the halves run on two goroutines when
+// GOMAXPROCS > 1. The summation order depends only on the row count, so
+// the result is the same bit for bit with one goroutine or two.
+const NormalSplit = 50000
+
+// normal writes J'J into a and J'r into g. acc is scratch of length
+// 2 n (n + 1). Each product is summed block by block in row order (within
+// a block as vec.Dot sums); column j is read once for two products at a
+// time (vec.Dot2).
+func normal(a *mat.SymDense, g []float64, jac [][]float64, r []float64, acc []float64) {
 	n := len(jac)
-	for j, cj := range jac {
-		// Products of column j with r, then with columns j..n-1.
-		k := j
-		var v0, v1 float64
-		if k < n {
-			g[j], v0 = vec.Dot2(cj, r, jac[k])
-			a.SetSym(j, k, v0)
-			k++
+	m := len(r)
+	w := n * (n + 1)
+	acc0, acc1 := acc[:w], acc[w:2*w]
+	clear(acc0)
+	if m < NormalSplit {
+		normalRange(acc0, jac, r, 0, m)
+	} else {
+		h := (m / 2) &^ (NormalBlock - 1)
+		clear(acc1)
+		if runtime.GOMAXPROCS(0) > 1 {
+			var wg sync.WaitGroup
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				normalRange(acc1, jac, r, h, m)
+			}()
+			normalRange(acc0, jac, r, 0, h)
+			wg.Wait()
 		} else {
-			g[j] = vec.Dot(cj, r)
+			normalRange(acc0, jac, r, 0, h)
+			normalRange(acc1, jac, r, h, m)
 		}
-		for ; k+1 < n; k += 2 {
-			v0, v1 = vec.Dot2(cj, jac[k], jac[k+1])
-			a.SetSym(j, k, v0)
-			a.SetSym(j, k+1, v1)
+		for i := range acc0 {
+			acc0[i] += acc1[i]
 		}
-		if k < n {
-			a.SetSym(j, k, vec.Dot(cj, jac[k]))
+	}
+	fromAcc(a, g, acc0)
+}
+
+// fromAcc copies J'J and J'r out of the accumulator layout of normal.
+func fromAcc(a *mat.SymDense, g, acc []float64) {
+	n := len(g)
+	for j := 0; j < n; j++ {
+		for k := j; k < n; k++ {
+			a.SetSym(j, k, acc[j*(n+1)+k])
+		}
+		g[j] = acc[j*(n+1)+n]
+	}
+}
+
+// normalRange adds to acc[j (n+1) + k] the products of column j with
+// column k (k = j..n-1) and with r (k = n) over rows lo..hi-1, block by
+// block.
+func normalRange(acc []float64, jac [][]float64, r []float64, lo, hi int) {
+	blk := make([][]float64, len(jac))
+	for b := lo; b < hi; b += NormalBlock {
+		e := min(b+NormalBlock, hi)
+		for j := range jac {
+			blk[j] = jac[j][b:e]
+		}
+		AddBlock(acc, blk, r[b:e])
+	}
+}
+
+// AddBlock adds to acc[j (n+1) + k] the products of cols[j] with cols[k]
+// (k = j..n-1) and with r (k = n), n = len(cols), over the rows of one
+// block (every column as long as r). Each product is summed as vec.Dot
+// sums it; column j is read once for four products at a time (vec.Dot4,
+// with an AVX kernel on amd64), then two (vec.Dot2).
+// Summing blocks of NormalBlock rows in row order, and from NormalSplit
+// rows the two halves separately (the first ending on a block boundary)
+// with the halves then added, gives what Minimize computes from the
+// columns, bit for bit.
+func AddBlock(acc []float64, cols [][]float64, r []float64) {
+	n := len(cols)
+	col := func(k int) []float64 {
+		if k == n {
+			return r
+		}
+		return cols[k]
+	}
+	for j, cj := range cols {
+		row := acc[j*(n+1):]
+		k := j
+		for ; k+3 <= n; k += 4 {
+			v := vec.Dot4(cj, col(k), col(k+1), col(k+2), col(k+3))
+			row[k] += v[0]
+			row[k+1] += v[1]
+			row[k+2] += v[2]
+			row[k+3] += v[3]
+		}
+		for ; k+1 <= n; k += 2 {
+			v0, v1 := vec.Dot2(cj, col(k), col(k+1))
+			row[k] += v0
+			row[k+1] += v1
+		}
+		if k == n {
+			row[k] += vec.Dot(cj, r)
 		}
 	}
 }

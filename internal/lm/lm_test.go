@@ -4,9 +4,12 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
+	"math/big"
 	"os"
 	"path/filepath"
+	"runtime"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -183,12 +186,46 @@ func TestCanceled(t *testing.T) {
 	}
 }
 
-// normal's paired products must equal the one-by-one dot products bit for
-// bit (the same summation order), for odd and even column counts and
-// lengths that are not multiples of the unrolling.
-func TestNormalMatchesDot(t *testing.T) {
-	for _, n := range []int{1, 2, 3, 6, 7} {
-		for _, m := range []int{1, 5, 103} {
+// normal's blocked products must equal, bit for bit, the sums of vec.Dot
+// over the blocks in row order (and, from NormalSplit rows, over each half
+// separately, halves added), with one goroutine or two; and they must lie
+// within the rounding bound of the exact products (300-bit math/big sums;
+// the error of a recursive sum of m products is at most about
+// m eps sum|a_i b_i|, Higham, Accuracy and Stability of Numerical
+// Algorithms, 2nd ed., section 3.1). Column counts odd and even, lengths
+// not multiples of the block or the unrolling.
+func TestNormalBlocked(t *testing.T) {
+	blockSum := func(a, b []float64, lo, hi int) float64 {
+		s := 0.0
+		for i := lo; i < hi; i += NormalBlock {
+			e := min(i+NormalBlock, hi)
+			s += vec.Dot(a[i:e], b[i:e])
+		}
+		return s
+	}
+	want := func(a, b []float64) float64 {
+		m := len(a)
+		if m < NormalSplit {
+			return blockSum(a, b, 0, m)
+		}
+		h := (m / 2) &^ (NormalBlock - 1)
+		return blockSum(a, b, 0, h) + blockSum(a, b, h, m)
+	}
+	exact := func(a, b []float64) (float64, float64) {
+		s := new(big.Float).SetPrec(300)
+		abs := 0.0
+		for i := range a {
+			p := new(big.Float).SetPrec(300).SetFloat64(a[i])
+			s.Add(s, p.Mul(p, new(big.Float).SetPrec(300).SetFloat64(b[i])))
+			abs += math.Abs(a[i] * b[i])
+		}
+		v, _ := s.Float64()
+		return v, float64(len(a)+1) * epsilon * abs
+	}
+	for _, procs := range []int{1, 2} {
+		old := runtime.GOMAXPROCS(procs)
+		for _, c := range []struct{ n, m int }{{1, 1}, {2, 5}, {3, 103}, {6, 1000}, {7, 257}, {3, NormalSplit + 1}, {4, 2*NormalSplit + 77}} {
+			n, m := c.n, c.m
 			jac := newCols(n, m)
 			r := make([]float64, m)
 			for i := range r {
@@ -199,16 +236,86 @@ func TestNormalMatchesDot(t *testing.T) {
 			}
 			a := mat.NewSymDense(n, nil)
 			g := make([]float64, n)
-			normal(a, g, jac, r)
+			normal(a, g, jac, r, make([]float64, 2*n*(n+1)))
+			check := func(what string, got float64, x, y []float64) {
+				t.Helper()
+				if w := want(x, y); got != w {
+					t.Fatalf("procs=%d n=%d m=%d: %s = %v, blocked dot sums give %v", procs, n, m, what, got, w)
+				}
+				if m > 2000 {
+					return // the exact sums are slow; the small cases cover the bound
+				}
+				if e, tol := exact(x, y); math.Abs(got-e) > tol {
+					t.Fatalf("procs=%d n=%d m=%d: %s = %v, exact %v (tolerance %v)", procs, n, m, what, got, e, tol)
+				}
+			}
 			for j := 0; j < n; j++ {
-				if g[j] != vec.Dot(jac[j], r) {
-					t.Fatalf("n=%d m=%d: g[%d] = %v, dot gives %v", n, m, j, g[j], vec.Dot(jac[j], r))
-				}
+				check(fmt.Sprintf("g[%d]", j), g[j], jac[j], r)
 				for k := j; k < n; k++ {
-					if want := vec.Dot(jac[j], jac[k]); a.At(j, k) != want {
-						t.Fatalf("n=%d m=%d: (J'J)[%d,%d] = %v, dot gives %v", n, m, j, k, a.At(j, k), want)
-					}
+					check(fmt.Sprintf("(J'J)[%d,%d]", j, k), a.At(j, k), jac[j], jac[k])
 				}
+			}
+		}
+		runtime.GOMAXPROCS(old)
+	}
+}
+
+// A reused, dirty buffer must not leak into a problem that writes only
+// some entries (WritesAll false): two solves of the same problem, the
+// second after a solve that filled the pool with non-zero values, agree.
+func TestWorkBuffersCleared(t *testing.T) {
+	// r_i = x - i for even i only; odd entries are left as the buffer has them.
+	prob := Problem{M: 64, N: 1, Eval: func(x, r []float64, jac [][]float64) error {
+		for i := 0; i < len(r); i += 2 {
+			r[i] = x[0] - float64(i)
+			if jac != nil {
+				jac[0][i] = 1
+			}
+		}
+		return nil
+	}}
+	first, err := Minimize(context.Background(), prob, []float64{3}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dirty := Problem{M: 64, N: 1, WritesAll: true, Eval: func(x, r []float64, jac [][]float64) error {
+		for i := range r {
+			r[i] = x[0] - 1e6
+			if jac != nil {
+				jac[0][i] = 7
+			}
+		}
+		return nil
+	}}
+	if _, err := Minimize(context.Background(), dirty, []float64{0}, nil); err != nil {
+		t.Fatal(err)
+	}
+	second, err := Minimize(context.Background(), prob, []float64{3}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The mean of 0, 2, ..., 62 is 31 (least squares of x - i over even i).
+	if math.Abs(first.X[0]-31) > 1e-12 || second.X[0] != first.X[0] || second.SSQ != first.SSQ {
+		t.Fatalf("solves differ: first x=%v ssq=%v, second x=%v ssq=%v (want x = 31)", first.X, first.SSQ, second.X, second.SSQ)
+	}
+}
+
+// getWork with zero must hand out a zeroed buffer, whether it reuses a
+// dirty one from the pool or makes a new one.
+func TestGetWorkZeroes(t *testing.T) {
+	for rep := 0; rep < 20; rep++ {
+		b := make([]float64, 100)
+		for i := range b {
+			b[i] = 1
+		}
+		workPool.Put(&b)
+		w := getWork(50, true)
+		if len(*w) != 50 {
+			t.Fatalf("len %d, want 50", len(*w))
+		}
+		for i, v := range *w {
+			if v != 0 {
+				t.Fatalf("entry %d = %v after getWork(zero)", i, v)
 			}
 		}
 	}
