@@ -13,6 +13,7 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/vec"
 )
 
 // FitSettings tunes Fit. The zero value (or a nil pointer) gives the
@@ -590,6 +591,24 @@ func fitDiff(x, dc []float64) []float64 {
 func fitDiffTo(out, x, dc []float64) []float64 {
 	d := len(dc) - 1
 	clear(out[:min(d, len(x))])
+	switch {
+	case d == 0 && dc[0] == 1:
+		copy(out, x)
+		return out
+	case d == 1 && len(x) > 1:
+		// The same operations as the general loop, unrolled.
+		c0, c1 := dc[0], dc[1]
+		o, x0, x1 := out[1:len(x)], x[1:], x[:len(x)-1]
+		x0 = x0[:len(o)]
+		x1 = x1[:len(o)]
+		for t := range o {
+			s := 0.0
+			s += c0 * x0[t]
+			s += c1 * x1[t]
+			o[t] = s
+		}
+		return out
+	}
 	for t := d; t < len(x); t++ {
 		s := 0.0
 		for k, c := range dc {
@@ -743,11 +762,7 @@ func (w *fitWork) resid() float64 {
 	} else {
 		filter.RunInit(w.a[t0:], w.arC, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
 	}
-	s := 0.0
-	for _, v := range w.a[t0:] {
-		s += v * v
-	}
-	return s
+	return vec.Dot(w.a[t0:], w.a[t0:])
 }
 
 // eval is the lm residual function.
@@ -763,9 +778,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 		w.arC, w.arD = w.ar.Grad(w.idx, k)
 		w.maC, w.maD = w.ma.Grad(w.idx, k)
 		fitFIR(r, w.arC, w.nn, t0, false)
-		for _, v := range r {
-			f += v * v
-		}
+		f = vec.Dot(r, r)
 	} else {
 		f = w.resid()
 		copy(r, w.a[t0:])

@@ -54,7 +54,7 @@ func TestFitSpecRoundTrip(t *testing.T) {
 		}
 	}
 	if again.Iter > 3 {
-		t.Errorf("refit from the estimates took %d iterations", again.Iter)
+		t.Errorf("refit from the estimates took %d iterations (%s, %d evals; first fit %d iterations)", again.Iter, again.Reason, again.Evals, est.Iter)
 	}
 }
 

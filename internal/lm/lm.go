@@ -315,9 +315,11 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 			ft = ssq(tr)
 		}
 		if err != nil || math.IsNaN(ft) || math.IsInf(ft, 0) || ft >= f {
-			if err == nil && lastRel < set.FTol && ft-f <= set.FTol*f {
-				// A tiny reduction followed by a step that cannot reduce
-				// further: the sum of squares is at its rounding floor.
+			if err == nil && ft-f <= set.FTol*f && (lastRel < set.FTol || gnSmall(&gnChol, a, g, f, set.FTol)) {
+				// A step that cannot reduce the sum of squares, after a
+				// tiny reduction or where a full Gauss-Newton step
+				// predicts less than FTol (a start at the minimum): the
+				// sum of squares is at its rounding floor.
 				reason = SmallReduction
 				break
 			}
@@ -394,12 +396,9 @@ func newCols(n, m int) [][]float64 {
 	return cols(make([]float64, n*m), n, m)
 }
 
+// ssq is the sum of squares of r, in vec.Dot's order.
 func ssq(r []float64) float64 {
-	s := 0.0
-	for _, v := range r {
-		s += v * v
-	}
-	return s
+	return vec.Dot(r, r)
 }
 
 // NormalBlock is the row block of normal. The rows of one block of every
@@ -479,7 +478,7 @@ func normalRange(acc []float64, jac [][]float64, r []float64, lo, hi int) {
 // (k = j..n-1) and with r (k = n), n = len(cols), over the rows of one
 // block (every column as long as r). Each product is summed as vec.Dot
 // sums it; column j is read once for four products at a time (vec.Dot4,
-// with an AVX kernel on amd64), then two (vec.Dot2).
+// with an AVX kernel on amd64), then for the last three, two or one.
 // Summing blocks of NormalBlock rows in row order, and from NormalSplit
 // rows the two halves separately (the first ending on a block boundary)
 // with the halves then added, gives what Minimize computes from the
@@ -502,12 +501,19 @@ func AddBlock(acc []float64, cols [][]float64, r []float64) {
 			row[k+2] += v[2]
 			row[k+3] += v[3]
 		}
-		for ; k+1 <= n; k += 2 {
+		switch n + 1 - k {
+		case 3:
+			// Three left: one Dot4 with the last column twice beats a
+			// Dot2 and a Dot (each product is the same either way).
+			v := vec.Dot4(cj, col(k), col(k+1), col(k+2), col(k+2))
+			row[k] += v[0]
+			row[k+1] += v[1]
+			row[k+2] += v[2]
+		case 2:
 			v0, v1 := vec.Dot2(cj, col(k), col(k+1))
 			row[k] += v0
 			row[k+1] += v1
-		}
-		if k == n {
+		case 1:
 			row[k] += vec.Dot(cj, r)
 		}
 	}

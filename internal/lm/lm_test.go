@@ -108,6 +108,20 @@ func TestAgainstScipy(t *testing.T) {
 			}
 		}
 		t.Logf("%s: %d iterations, %d evaluations, %v", p.Name, res.Iter, res.Evals, res.Reason)
+		// Restarted at its own solution the solver must stay there and
+		// stop within a few iterations: at most two where the full
+		// Gauss-Newton step predicts below FTol (then a failing step
+		// means the rounding floor), and where the stopping point was
+		// still a few FTol from the exact minimum, rejected steps shrink
+		// below XTol quickly (at most 6 here; before the rounding-floor
+		// rule, a restart in tf took 8).
+		again, err := Minimize(context.Background(), prob, res.X, nil)
+		if err != nil {
+			t.Fatal(p.Name, err)
+		}
+		if !again.Reason.Converged() || again.Iter > 6 || again.SSQ > res.SSQ {
+			t.Errorf("%s: restart at the solution: %d iterations, %v, SSQ %v (first %v)", p.Name, again.Iter, again.Reason, again.SSQ, res.SSQ)
+		}
 	}
 }
 
