@@ -176,7 +176,10 @@ type Estimate struct {
 // give each Jacobian column; all are computed with the recursive filter
 // kernel and moving-average loops without allocation per sample, and a
 // numerator or AR column whose g_k is a single power of B is a shifted
-// copy of a series formed once per evaluation.
+// copy of a series formed once per evaluation. The Jacobian is never
+// stored: the solver needs only J'J and J'r, and each block of 256 rows
+// of every column is formed in cache and multiplied there (the
+// moving-average recursion carrying its state from block to block).
 //
 // # Start values and starts
 //
@@ -201,9 +204,12 @@ type Estimate struct {
 // # Concurrency
 //
 // Fit may be called from many goroutines at once (for many series or
-// candidate models); fits share nothing but a pool of work buffers. For
-// N >= 50000 residuals one fit computes its Jacobian columns on two
-// goroutines when GOMAXPROCS > 1, with results identical to one.
+// candidate models); fits share nothing but pools of work buffers. For
+// N >= 50000 residuals the products J'J and J'r are summed over the two
+// halves of the rows separately and then added; without a moving-average
+// part the halves run on two goroutines when GOMAXPROCS > 1. The
+// summation order depends only on N, so results are the same bit for bit
+// with one goroutine or two.
 //
 // # Errors
 //
