@@ -3,6 +3,7 @@ package tf
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/bits"
 	"runtime"
@@ -58,6 +59,24 @@ type FitSettings struct {
 	// By default such series are an error (ExtraSeries), because they
 	// usually mean a misspelt input name.
 	IgnoreExtra bool
+}
+
+// FitMaxMagnitude is the largest sample magnitude Fit accepts (1e150):
+// beyond it the squares of the residuals, and the products of the
+// Jacobian, can overflow float64. Rescale such series (change units).
+const FitMaxMagnitude = 1e150
+
+// check reports a negative or NaN setting as an *ArgError.
+func (s FitSettings) check() error {
+	for _, c := range []struct {
+		name string
+		v    float64
+	}{{"MaxIter", float64(s.MaxIter)}, {"Starts", float64(s.Starts)}, {"First", float64(s.First)}, {"Tol", s.Tol}} {
+		if !(c.v >= 0) {
+			return &ArgError{Arg: "FitSettings." + c.name, Value: c.v, Rule: "must be zero (the default) or positive"}
+		}
+	}
+	return nil
 }
 
 // Conditioning states the start-up convention of the conditional least
@@ -229,6 +248,9 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	var set FitSettings
 	if s != nil {
 		set = *s
+	}
+	if err := set.check(); err != nil {
+		return nil, err
 	}
 	if ctx == nil {
 		ctx = context.Background()
@@ -438,6 +460,10 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		for t, v := range x {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return nil, &SampleError{Series: name, Index: t, Value: v}
+			}
+			if math.Abs(v) > FitMaxMagnitude {
+				return nil, &ArgError{Arg: fmt.Sprintf("%s[%d]", name, t), Value: v,
+					Rule: "magnitude above 1e150: the sums of squares of the fit would overflow; rescale the series"}
 			}
 		}
 	}

@@ -147,3 +147,33 @@ func TestFitNegativeDelay(t *testing.T) {
 		t.Fatalf("Fit with dead time -1: err = %v, want a *DelayError", err)
 	}
 }
+
+// Negative or NaN settings, and a sample so large that its square
+// overflows, are *ArgError values naming the setting or the series and
+// index (a huge sample used to surface as "too few observations").
+func TestFitBadSettingsAndMagnitude(t *testing.T) {
+	y, x := fitMCSim(fitRand(9), 80)
+	data := map[string][]float64{"y": y, "x": x}
+	for _, tc := range []struct {
+		set FitSettings
+		msg string
+	}{
+		{FitSettings{MaxIter: -5}, "tf: FitSettings.MaxIter = -5: must be zero (the default) or positive"},
+		{FitSettings{Starts: -1}, "tf: FitSettings.Starts = -1: must be zero (the default) or positive"},
+		{FitSettings{First: -3}, "tf: FitSettings.First = -3: must be zero (the default) or positive"},
+		{FitSettings{Tol: math.NaN()}, "tf: FitSettings.Tol = NaN: must be zero (the default) or positive"},
+	} {
+		_, err := Fit(context.Background(), fitMCModel(), data, &tc.set)
+		var ae *ArgError
+		if !errors.As(err, &ae) || err.Error() != tc.msg {
+			t.Errorf("settings %+v: err = %v, want *ArgError %q", tc.set, err, tc.msg)
+		}
+	}
+	big := map[string][]float64{"y": append([]float64(nil), y...), "x": x}
+	big["y"][40] = -2e150
+	_, err := Fit(context.Background(), fitMCModel(), big, nil)
+	var ae *ArgError
+	if want := "tf: y[40] = -2e+150: magnitude above 1e150"; !errors.As(err, &ae) || !strings.HasPrefix(err.Error(), want) {
+		t.Fatalf("sample -2e150: err = %v, want *ArgError starting %q", err, want)
+	}
+}
