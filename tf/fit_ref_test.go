@@ -3,10 +3,12 @@ package tf
 import (
 	"context"
 	"encoding/csv"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/arma"
@@ -224,4 +226,31 @@ func TestFitBJsalesPublished(t *testing.T) {
 	w0, _ := est.Param("w0")
 	t1, _ := est.Param("t1")
 	t.Logf("w0 = %.3f (published ~4.82, from memory), t1 = %.3f (published ~0.54, from memory)", w0.Value, t1.Value)
+}
+
+// TestEstimateStringWording checks that the report of the BJsales fit
+// names the method, the columns of the coefficient table and the noise
+// variance with the counts it is formed from, and that every coefficient
+// has a row.
+func TestEstimateStringWording(t *testing.T) {
+	est, _ := fitRefNamed(t, "bjsales").fit(t)
+	s := est.String()
+	k := len(est.Params)
+	want := []string{
+		"Model of " + est.Model.Output + " with coefficients estimated by conditional least squares\n",
+		"  as a spec:  " + est.Model.String() + "\n",
+		fmt.Sprintf("the %d residuals from index %d on", est.N, est.Conditioning.First),
+		"coefficient", "value", "standard error", "value/se",
+		fmt.Sprintf("noise variance %s from %d residuals less %d coefficients (sum of squares %s / %d)",
+			fitNum(est.Sigma2, 5), est.N, k, fitNum(est.SSQ, 6), est.N-k),
+		"information criteria AIC",
+	}
+	for _, p := range est.Params {
+		want = append(want, "\n  "+p.Name+" ")
+	}
+	for _, w := range want {
+		if !strings.Contains(s, w) {
+			t.Errorf("report lacks %q:\n%s", w, s)
+		}
+	}
 }

@@ -9,34 +9,37 @@ import (
 
 // String returns a plain-text report of the fit for people: the fitted
 // model as a spec (which package parse reads back, estimates as start
-// values), the conditioning, a table of estimates with standard errors
-// and t ratios, the fit statistics, the correlations of the estimates,
+// values), the conditioning, a table of the coefficients with their
+// standard errors and the ratio of each value to its standard error, the
+// noise variance and information criteria, the correlations of the estimates,
 // for each input its dead time, poles, zeros and steady-state gain, and
 // the warnings. Numbers are rounded for reading; the fields of Estimate
 // hold full precision.
 func (e *Estimate) String() string {
 	var b strings.Builder
 	n := e.N + e.Conditioning.First
-	fmt.Fprintf(&b, "Fit of %s by conditional least squares\n", e.Model.Output)
-	fmt.Fprintf(&b, "  spec:       %s\n", e.Model.String()) // full precision: the line reloads as the fitted model
-	fmt.Fprintf(&b, "  data:       %d samples; residuals summed from index %d (N = %d)\n", n, e.Conditioning.First, e.N)
+	fmt.Fprintf(&b, "Model of %s with coefficients estimated by conditional least squares\n", e.Model.Output)
+	fmt.Fprintf(&b, "  as a spec:  %s\n", e.Model.String()) // full precision: the line reloads as the fitted model
+	fmt.Fprintf(&b, "  record:     %d samples; the sum of squares counts the %d residuals from index %d on\n", n, e.N, e.Conditioning.First)
 	status := "converged"
 	if !e.Converged {
 		status = "NOT converged"
 	}
-	fmt.Fprintf(&b, "  optimiser:  %s after %d iterations (%d evaluations, %d start points screened)\n",
+	fmt.Fprintf(&b, "  search:     %s after %d iterations (%d evaluations, %d start points screened)\n",
 		status, e.Iter, e.Evals, e.StartsTried)
 	fmt.Fprintf(&b, "              %s\n\n", e.Reason)
-	w := 9
+	w := len("coefficient")
 	for _, p := range e.Params {
 		w = max(w, len(p.Name))
 	}
-	fmt.Fprintf(&b, "  %-*s  %12s  %10s  %8s\n", w, "parameter", "estimate", "std error", "t")
+	fmt.Fprintf(&b, "  %-*s  %12s  %14s  %8s\n", w, "coefficient", "value", "standard error", "value/se")
 	for _, p := range e.Params {
-		fmt.Fprintf(&b, "  %-*s  %12s  %10s  %8s\n", w, p.Name, fitNum(p.Value, 5), fitNum(p.SE, 3), fitFixed(p.T, 2))
+		fmt.Fprintf(&b, "  %-*s  %12s  %14s  %8s\n", w, p.Name, fitNum(p.Value, 5), fitNum(p.SE, 3), fitFixed(p.T, 2))
 	}
-	fmt.Fprintf(&b, "\n  residual variance sigma^2 = %s (SSQ %s over N - k = %d)\n", fitNum(e.Sigma2, 5), fitNum(e.SSQ, 6), e.N-len(e.Params))
-	fmt.Fprintf(&b, "  conditional log-likelihood %s   AIC %s   BIC %s\n", fitFixed(e.LogLik, 2), fitFixed(e.AIC, 2), fitFixed(e.BIC, 2))
+	k := len(e.Params)
+	fmt.Fprintf(&b, "\n  noise variance %s from %d residuals less %d coefficients (sum of squares %s / %d)\n",
+		fitNum(e.Sigma2, 5), e.N, k, fitNum(e.SSQ, 6), e.N-k)
+	fmt.Fprintf(&b, "  conditional log-likelihood %s; information criteria AIC %s, BIC %s\n", fitFixed(e.LogLik, 2), fitFixed(e.AIC, 2), fitFixed(e.BIC, 2))
 	if len(e.Params) > 1 {
 		b.WriteString("\n  correlations of the estimates\n")
 		cw := 5

@@ -50,7 +50,7 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 			t.Errorf("%s: gain %.4f, true %.4f (%+.1f %%, want within 10 %%)", r.Input, r.Gain, r.TrueGain, 100*r.GainErr)
 		}
 	}
-	for _, want := range []string{"Candidate models, best first", "Fit of temp by conditional least squares", "std error", "Diagnostic checks", "verdict:", "time constant", "Forecast of temp", "How close the identified model is", "independent safety interlocks", "licensed practice"} {
+	for _, want := range []string{"Candidate models, best first", "Model of temp with coefficients estimated by conditional least squares", "coefficient", "standard error", "value/se", "noise variance", "Diagnostic checks", "verdict:", "time constant", "Forecast of temp", "How close the identified model is", "independent safety interlocks", "licensed practice"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("output lacks %q", want)
 		}
