@@ -478,3 +478,28 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 		}
 	}
 }
+
+// SetSteady with the wrong number of input samples is an *ArgError (it
+// used to panic), and an error leaves the system as it was.
+func TestSystemSetSteadyErrors(t *testing.T) {
+	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) B^2 valve + 0.3 / (1 - B) feed")
+	sys, err := tf.NewSystem(m, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ae *tf.ArgError
+	if err := sys.SetSteady([]float64{1}); !errors.As(err, &ae) || err.Error() != "tf: len(u) = 1: must equal the number of inputs, 2" {
+		t.Fatalf("SetSteady with 1 of 2 inputs: err = %v, want *ArgError", err)
+	}
+	ref := sys.Clone()
+	// feed passes an integrator (pole at z = 1): no steady state for a
+	// non-zero level, so valve must not be moved either.
+	if err := sys.SetSteady([]float64{2, 1}); err == nil {
+		t.Fatal("SetSteady through an integrator: no error")
+	}
+	for i := range 20 {
+		if a, b := sys.Step([]float64{2, 0}), ref.Step([]float64{2, 0}); a != b {
+			t.Fatalf("step %d after a failed SetSteady: %v, untouched copy %v", i, a, b)
+		}
+	}
+}

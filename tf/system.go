@@ -231,11 +231,12 @@ func (s *System) Reset() {
 // root). The noise and the output integration are left as they are.
 // It returns a *SimError wrapping a *GainError when a path with a pole at
 // z = 1 would need a non-zero steady input, and a *SampleError for a
-// non-finite sample; the system is then left as it was. It panics when
-// len(u) differs from the number of inputs.
+// non-finite sample, and an *ArgError when len(u) differs from the number
+// of inputs; the system is then left as it was (every path is set on a
+// copy first).
 func (s *System) SetSteady(u []float64) error {
 	if len(u) != len(s.path) {
-		panic("tf: System.SetSteady: got " + strconv.Itoa(len(u)) + " input samples for " + strconv.Itoa(len(s.path)) + " inputs")
+		return &ArgError{Arg: "len(u)", Value: float64(len(u)), Rule: "must equal the number of inputs, " + strconv.Itoa(len(s.path))}
 	}
 	level := make([]float64, len(u))
 	for i, x := range u {
@@ -253,17 +254,29 @@ func (s *System) SetSteady(u []float64) error {
 			}
 		}
 	}
+	// Set copies and keep them only when every path succeeds, so that an
+	// error leaves s unchanged.
+	diff := make([]*Plant, len(u))
+	path := make([]*Plant, len(u))
 	for i, x := range u {
 		if d := s.diff[i]; d != nil {
-			if err := d.SetSteady(x); err != nil {
+			diff[i] = d.Clone()
+			if err := diff[i].SetSteady(x); err != nil {
 				return err
 			}
 		}
+		path[i] = s.path[i].Clone()
 		if level[i] == 0 {
-			s.path[i].Reset()
-		} else if err := s.path[i].SetSteady(level[i]); err != nil {
+			path[i].Reset()
+		} else if err := path[i].SetSteady(level[i]); err != nil {
 			return err
 		}
+	}
+	for i := range u {
+		if diff[i] != nil {
+			s.diff[i] = diff[i]
+		}
+		s.path[i] = path[i]
 	}
 	return nil
 }
