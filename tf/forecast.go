@@ -9,6 +9,17 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
+// MaxHorizon is the largest forecast horizon h, in steps, accepted by
+// Forecast. Forecast allocates about a dozen float64 series of length
+// n+h and computes psi weights in O(h) per polynomial, so h is memory and
+// time the caller pays for; 2^20 steps (about 8 MiB per series) is far
+// past the horizon at which the forecast of a stationary model has
+// settled on its mean and its interval on the unconditional variance, and
+// past which an integrated model's interval is no longer informative,
+// while a mistaken huge h (such as 1<<40) fails at once with an error
+// instead of exhausting memory.
+const MaxHorizon = 1 << 20
+
 // InputModel is an ARMA model of an input's differenced series z_t =
 // D_i(B) x_t, used to forecast the input when its future is not known:
 //
@@ -84,7 +95,7 @@ type Forecast struct {
 // estimate is sigma^2. Point forecasts set future innovations to zero
 // and integrate the differencing with the observed outputs.
 //
-// Errors: *ArgError for h < 1 or a Level outside (0, 1); *FitError
+// Errors: *ArgError for h < 1 or h > MaxHorizon, or a Level outside (0, 1); *FitError
 // (BadFuture) for a Future shorter than h, *SampleError for a non-finite
 // future value; the data errors of Fit.
 //
@@ -98,6 +109,9 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	}
 	if h < 1 {
 		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at least 1"}
+	}
+	if h > MaxHorizon {
+		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at most tf.MaxHorizon (1048576 steps)"}
 	}
 	if set.Level == 0 {
 		set.Level = 0.95
