@@ -1,7 +1,10 @@
 // Package lm minimises a sum of squared residuals by the
 // Levenberg-Marquardt method, with an analytic Jacobian supplied by the
-// caller column by column, and returns (J'J)^-1 at the solution for
-// standard errors.
+// caller column by column (or, for long problems, as J'J and J'r summed
+// by the caller a block of rows at a time, so that the Jacobian is never
+// stored), and returns (J'J)^-1 at the solution for standard errors. The
+// products are summed in blocks of NormalBlock rows in a fixed order, so
+// results are deterministic and independent of the number of goroutines.
 //
 // References:
 //
