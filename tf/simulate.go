@@ -5,6 +5,15 @@ import (
 	"strconv"
 )
 
+// MaxBurnIn is the largest SimSettings.BurnIn accepted by Model.Simulate.
+// A burn-in only has to outlast the noise filter's transient, which
+// decays as rho^k for the AR root of largest modulus rho: even rho =
+// 1 - 1e-6 falls to 1e-7 of its start within about 1.6e7 draws, below
+// 2^24. Each draw costs a few nanoseconds per noise coefficient, so 2^24
+// draws take well under a second, while BurnIn = math.MaxInt would run
+// for centuries (and is repeated by every System.Reset).
+const MaxBurnIn = 1 << 24
+
 // Simulate returns the output series of the whole model,
 //
 //	D(B) y_t = c + sum_i Num_i(B)/Den_i(B) B^b_i D_i(B) x_i,t + theta(B)/phi(B) a_t,
@@ -23,7 +32,8 @@ import (
 // and, for a model without differencing or noise, exactly the sum of
 // c and each input's Rational().Filter.
 //
-// Errors: those of NewSystem; a *SimError for a missing input series,
+// Errors: an *ArgError for BurnIn above MaxBurnIn (when Innovations is
+// nil); those of NewSystem; a *SimError for a missing input series,
 // series of different lengths, Innovations of the wrong length, or
 // Steady for an input path without a steady state; a *SampleError naming
 // the series and index of a NaN or infinite sample.
@@ -34,6 +44,9 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 	}
 	if set.Innovations != nil {
 		set.Sigma, set.BurnIn = 0, 0
+	}
+	if set.BurnIn > MaxBurnIn {
+		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be at most tf.MaxBurnIn (16777216 draws)"}
 	}
 	sys, err := NewSystem(m, &set)
 	if err != nil {
