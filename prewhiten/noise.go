@@ -12,7 +12,9 @@ import (
 // NoiseSettings tunes IdentifyNoise. The zero value gives the defaults.
 type NoiseSettings struct {
 	// MaxP and MaxQ bound the ARMA orders tried; zero means 2 each, a
-	// negative value means order zero only.
+	// negative value means order zero only (so MaxP -1 tries pure MA
+	// models and white noise), the convention of ccf.IdentifySettings'
+	// MaxR and MaxS. A negative bound is therefore not an error.
 	MaxP, MaxQ int
 	// Lags is the number of autocorrelations reported; zero means
 	// min(24, n/4).
@@ -113,6 +115,7 @@ func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 	return id, nil
 }
 
+// bound returns the order bound m: 2 for zero, 0 for a negative value.
 func bound(m int) int {
 	switch {
 	case m == 0:

@@ -2,8 +2,10 @@ package prewhiten_test
 
 import (
 	"context"
+	"errors"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/ccf"
@@ -94,4 +96,76 @@ func merge(a, b map[string]float64) map[string]float64 {
 		m[k] = v
 	}
 	return m
+}
+
+// TestIdentifyNoiseNegativeBound pins the documented meaning of a
+// negative MaxP or MaxQ (order zero only, as ccf.IdentifySettings' MaxR
+// and MaxS): on an AR(1) series (phi 0.7, our own simulation) MaxP -1
+// tries exactly the pure MA orders q = 0..2, MaxQ -3 exactly the pure AR
+// orders p = 0..2, and both negative white noise alone, whose term is "a".
+func TestIdentifyNoiseNegativeBound(t *testing.T) {
+	rng := rand.New(rand.NewPCG(12, 34))
+	a := make([]float64, 300)
+	for i := range a {
+		a[i] = rng.NormFloat64()
+	}
+	y := make([]float64, 300)
+	filter.Run(y, []float64{1}, []float64{1, -0.7}, a)
+	cases := []struct {
+		name       string
+		maxP, maxQ int
+		want       map[[2]int]bool // the (p, q) orders tried
+	}{
+		{"MaxP -1", -1, 0, map[[2]int]bool{{0, 0}: true, {0, 1}: true, {0, 2}: true}},
+		{"MaxQ -3", 0, -3, map[[2]int]bool{{0, 0}: true, {1, 0}: true, {2, 0}: true}},
+		{"both -1", -1, -1, map[[2]int]bool{{0, 0}: true}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			nid, err := prewhiten.IdentifyNoise(context.Background(), y, &prewhiten.NoiseSettings{MaxP: c.maxP, MaxQ: c.maxQ})
+			if err != nil {
+				t.Fatalf("MaxP %d, MaxQ %d: %v", c.maxP, c.maxQ, err)
+			}
+			got := map[[2]int]bool{}
+			for _, cand := range nid.Candidates {
+				got[[2]int{cand.Order.P, cand.Order.Q}] = true
+			}
+			if len(got) != len(c.want) || len(nid.Candidates) != len(c.want) {
+				t.Errorf("orders tried %v, want %v", got, c.want)
+			}
+			for o := range c.want {
+				if !got[o] {
+					t.Errorf("order %v not tried (tried %v)", o, got)
+				}
+			}
+			if c.maxP < 0 && c.maxQ < 0 && (nid.Term != "a" || len(nid.Names) != 0) {
+				t.Errorf("white noise only: term %q, names %v", nid.Term, nid.Names)
+			}
+		})
+	}
+}
+
+// TestIdentifyNoiseBadLags: a Lags setting outside 1..n-1 (n the samples
+// after the leading NaN run) is an *ArgError naming NoiseSettings.Lags
+// with the value and the allowed range.
+func TestIdentifyNoiseBadLags(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	y := make([]float64, 52)
+	y[0], y[1] = math.NaN(), math.NaN()
+	for i := 2; i < len(y); i++ {
+		y[i] = rng.NormFloat64()
+	}
+	for _, c := range []struct {
+		lags int
+		want string
+	}{
+		{-1, "prewhiten: NoiseSettings.Lags = -1, want in 1..49"},
+		{50, "prewhiten: NoiseSettings.Lags = 50, want in 1..49"},
+	} {
+		_, err := prewhiten.IdentifyNoise(context.Background(), y, &prewhiten.NoiseSettings{Lags: c.lags})
+		var ae *prewhiten.ArgError
+		if !errors.As(err, &ae) || ae.Arg != "NoiseSettings.Lags" || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("Lags %d: %v, want an *ArgError %q", c.lags, err, c.want)
+		}
+	}
 }
