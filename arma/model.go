@@ -33,7 +33,18 @@ func (o Order) validate() error {
 	if (o.SP > 0 || o.SD > 0 || o.SQ > 0) && o.Period < 2 {
 		return &ArgError{Arg: "order", Msg: "a seasonal part needs Period >= 2: " + o.String()}
 	}
-	if o.P+o.SP*o.Period > MaxLag || o.Q+o.SQ*o.Period > MaxLag || o.D+o.SD*o.Period > MaxLag {
+	// Each term is bounded first so that the degrees below cannot
+	// overflow (SP*Period wraps to a negative degree for a huge Period).
+	s := 0
+	if o.SP > 0 || o.SD > 0 || o.SQ > 0 {
+		s = o.Period
+	}
+	for _, v := range []int{o.P, o.D, o.Q, o.SP, o.SD, o.SQ, s} {
+		if v > MaxLag {
+			return &ArgError{Arg: "order", Msg: "polynomial degree above MaxLag: " + o.String()}
+		}
+	}
+	if o.P+o.SP*s > MaxLag || o.Q+o.SQ*s > MaxLag || o.D+o.SD*s > MaxLag {
 		return &ArgError{Arg: "order", Msg: "polynomial degree above MaxLag: " + o.String()}
 	}
 	return nil
@@ -82,18 +93,30 @@ func lagPoly(c []float64, step int) []float64 {
 }
 
 // ARPoly returns the expanded stationary AR polynomial phi(B) Phi(B^s)
-// (ascending powers of B, constant 1).
+// (ascending powers of B, constant 1). Like MAPoly and DiffPoly it returns
+// nil for a model whose orders are invalid (a negative D or SD, a seasonal
+// part with Period < 2, a degree above MaxLag); Psi, Pi, Stationary,
+// Invertible and Simulate report those as an *ArgError.
 func (m Model) ARPoly() []float64 {
+	if m.Order().validate() != nil {
+		return nil
+	}
 	return poly.Mul(lagPoly(m.AR, 1), lagPoly(m.SAR, max(m.Period, 1)))
 }
 
 // MAPoly returns the expanded MA polynomial theta(B) Theta(B^s).
 func (m Model) MAPoly() []float64 {
+	if m.Order().validate() != nil {
+		return nil
+	}
 	return poly.Mul(lagPoly(m.MA, 1), lagPoly(m.SMA, max(m.Period, 1)))
 }
 
 // DiffPoly returns the differencing polynomial (1-B)^D (1-B^s)^SD.
 func (m Model) DiffPoly() []float64 {
+	if m.Order().validate() != nil {
+		return nil
+	}
 	return diffPoly(m.D, m.SD, m.Period)
 }
 
@@ -110,9 +133,13 @@ func diffPoly(d, sd, s int) []float64 {
 // Stationary reports whether every z-plane root of phi(z^-1) Phi(z^-s)
 // lies strictly inside the unit circle, and returns the offending roots
 // (|z| >= 1) otherwise. The differencing is not part of this check. It
-// returns false and an *ArgError for a NaN or infinite coefficient, and an
+// returns false and an *ArgError for invalid orders (see ARPoly) or a NaN
+// or infinite coefficient, and an
 // error when the root finder fails.
 func (m Model) Stationary() (bool, []complex128, error) {
+	if err := m.Order().validate(); err != nil {
+		return false, nil, err
+	}
 	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
 		return false, nil, err
 	}
@@ -124,6 +151,9 @@ func (m Model) Stationary() (bool, []complex128, error) {
 // strictly inside the unit circle, and returns the offending roots. Errors
 // as for Stationary.
 func (m Model) Invertible() (bool, []complex128, error) {
+	if err := m.Order().validate(); err != nil {
+		return false, nil, err
+	}
 	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
 		return false, nil, err
 	}
@@ -134,14 +164,22 @@ func (m Model) Invertible() (bool, []complex128, error) {
 // Psi returns the first n psi weights of the model including its
 // differencing: the coefficients of theta(B)Theta(B^s) / (phi(B)Phi(B^s)
 // (1-B)^D (1-B^s)^SD), so that the h-step forecast error variance is
-// Sigma2 sum_{j<h} psi_j^2.
+// Sigma2 sum_{j<h} psi_j^2. Errors as for the package-level Psi, and an
+// *ArgError for invalid orders (see ARPoly).
 func (m Model) Psi(n int) ([]float64, error) {
+	if err := m.Order().validate(); err != nil {
+		return nil, err
+	}
 	return Psi(poly.Mul(m.ARPoly(), m.DiffPoly()), m.MAPoly(), n)
 }
 
 // Pi returns the first n pi weights of the stationary part (differencing
 // excluded): the coefficients of phi(B)Phi(B^s) / (theta(B)Theta(B^s)).
+// Errors as for Model.Psi.
 func (m Model) Pi(n int) ([]float64, error) {
+	if err := m.Order().validate(); err != nil {
+		return nil, err
+	}
 	return Pi(m.ARPoly(), m.MAPoly(), n)
 }
 
@@ -198,7 +236,11 @@ func (m Model) validate() error {
 
 // Constant returns c = phi(1) Phi(1) Mean, the constant of the
 // difference-equation form phi(B)Phi(B^s) w_t = c + theta(B)Theta(B^s) a_t.
+// It is NaN for a model whose orders are invalid (see ARPoly).
 func (m Model) Constant() float64 {
+	if m.Order().validate() != nil {
+		return math.NaN()
+	}
 	return poly.EvalReal(m.ARPoly(), 1) * m.Mean
 }
 

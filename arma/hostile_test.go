@@ -1,0 +1,101 @@
+package arma
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+// hostileCase is one hostile call: err is its error, want the type's name
+// and sub a substring the message must hold.
+type hostileCase struct {
+	name string
+	err  error
+	want string // "arg", "short", "data"
+	sub  string
+}
+
+func checkHostile(t *testing.T, cases []hostileCase) {
+	t.Helper()
+	for _, c := range cases {
+		var ok bool
+		switch c.want {
+		case "arg":
+			var e *ArgError
+			ok = errors.As(c.err, &e)
+		case "short":
+			var e *ShortError
+			ok = errors.As(c.err, &e)
+		case "data":
+			var e *DataError
+			ok = errors.As(c.err, &e)
+		}
+		if !ok || !strings.Contains(c.err.Error(), c.sub) {
+			t.Errorf("%s: got %T %v, want a %s error containing %q", c.name, c.err, c.err, c.want, c.sub)
+		}
+	}
+}
+
+// catch runs f and turns a panic into an error, so that a table row
+// fails instead of the whole test.
+func catch(f func() error) (err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			err = errors.New("panic: " + strings.TrimSpace(strings.ReplaceAll(strings.ReplaceAll(
+				func() string { s, _ := r.(string); return s }(), "\n", " "), "\t", " ")))
+		}
+	}()
+	return f()
+}
+
+// TestHostileOrders: orders whose degree overflows int (SP*Period wraps
+// negative), negative differencing and huge periods in a Model were
+// panics, out-of-memory crashes or silently accepted.
+func TestHostileOrders(t *testing.T) {
+	y := make([]float64, 100)
+	for i := range y {
+		y[i] = math.Sin(float64(i) * 0.7)
+	}
+	m := func(mm Model) Model { return mm }
+	checkHostile(t, []hostileCase{
+		{"Order SP*Period overflow", catch(func() error { return Order{SP: 2, Period: 1 << 62}.validate() }), "arg", "above MaxLag"},
+		{"Order P MaxInt + seasonal", catch(func() error { return Order{P: math.MaxInt, SP: 1, Period: 2}.validate() }), "arg", "above MaxLag"},
+		{"Simulate overflow", catch(func() error {
+			_, err := Simulate(Model{SAR: []float64{0.1, 0.1}, Period: 1 << 62}, 3, nil)
+			return err
+		}), "arg", "above MaxLag"},
+		{"Select overflow", catch(func() error { _, err := Select(nil, y, Grid{SP: 2, Period: 1 << 62}, nil); return err }), "arg", "above MaxLag"},
+		{"Model.Psi D<0", catch(func() error { _, err := m(Model{D: -1}).Psi(3); return err }), "arg", "must not be negative"},
+		{"Model.Psi huge D", catch(func() error { _, err := m(Model{D: 1 << 40}).Psi(3); return err }), "arg", "above MaxLag"},
+		{"Model.Pi huge Period", catch(func() error { _, err := m(Model{SAR: []float64{0.5}, Period: 1 << 40}).Pi(3); return err }), "arg", "above MaxLag"},
+		{"Stationary huge Period", catch(func() error {
+			_, _, err := Model{SAR: []float64{0.5}, Period: 1 << 40}.Stationary()
+			return err
+		}), "arg", "above MaxLag"},
+		{"Stationary Period<0", catch(func() error { _, _, err := Model{SAR: []float64{0.5}, Period: -3}.Stationary(); return err }), "arg", "Period >= 2"},
+		{"Invertible Period<0", catch(func() error { _, _, err := Model{SMA: []float64{0.5}, Period: -3}.Invertible(); return err }), "arg", "Period >= 2"},
+	})
+	for name, p := range map[string][]float64{
+		"DiffPoly D<0":       catchPoly(func() []float64 { return Model{D: -1}.DiffPoly() }),
+		"DiffPoly Period<0":  catchPoly(func() []float64 { return Model{SD: 1, Period: -2}.DiffPoly() }),
+		"ARPoly Period<0":    catchPoly(func() []float64 { return Model{SAR: []float64{1}, Period: -2}.ARPoly() }),
+		"MAPoly huge Period": catchPoly(func() []float64 { return Model{SMA: []float64{1}, Period: 1 << 40}.MAPoly() }),
+	} {
+		if p != nil {
+			t.Errorf("%s = %v, want nil for invalid orders", name, p)
+		}
+	}
+	if c := (Model{D: -1, Mean: 1}).Constant(); !math.IsNaN(c) {
+		t.Errorf("Constant of an invalid model = %v, want NaN", c)
+	}
+}
+
+func catchPoly(f func() []float64) (p []float64) {
+	defer func() {
+		if recover() != nil {
+			p = []float64{math.NaN()} // a panic: not nil, so the row fails
+		}
+	}()
+	return f()
+}
