@@ -349,6 +349,7 @@ type fitWork struct {
 	negMA   [][]float64 // -maD
 	acc1    []float64   // the second half's products (normalEval)
 	blk     [2]fitBlock // block scratch of normalEval, one per goroutine
+	views   []fitView   // columns multiplied in place (normalRows)
 	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
 	// moving average of n_t and no column needs a_t.
 	maFixedOne bool
@@ -902,6 +903,74 @@ func (w *fitWork) jacPrep() {
 		}
 		w.kappa[j] = kappa * phi1
 	}
+	w.prepViews()
+}
+
+// fitView describes a Jacobian column that is a shifted copy, times +1 or
+// -1, of a series already formed: row i is sign * src[at+i].
+type fitView struct {
+	src  []float64
+	at   int
+	sign float64
+}
+
+// prepViews finds, for the current values, the columns that are shifted
+// copies (times +-1) of one series (the usual numerator, denominator and
+// AR columns of a model without a moving-average part): normalRows
+// multiplies those in place instead of copying them. A column with a
+// constant part, two contributions or a coefficient other than +-1 gets
+// an empty view and is formed by colRows.
+func (w *fitWork) prepViews() {
+	k := len(w.names)
+	if cap(w.views) < k {
+		w.views = make([]fitView, k)
+	}
+	w.views = w.views[:k]
+	m := w.n - w.cond.First
+	maOne := fitIsOne(w.maC)
+	for j := range w.views {
+		w.views[j] = fitView{}
+		if !maOne || w.kappa[j] != 0 {
+			continue
+		}
+		var v fitView
+		count := 0
+		try := func(g, src []float64, at int) {
+			if g == nil {
+				return
+			}
+			count++
+			l, c, ok := fitSinglePower(g)
+			if ok && (c == 1 || c == -1) && at-l >= 0 {
+				v = fitView{src: src, at: at - l, sign: c}
+			}
+		}
+		for i := range w.ins {
+			fi := &w.ins[i]
+			try(fi.negNum[j], fi.e, len(fi.e)-m)
+			try(fi.denD[j], fi.f, len(fi.f)-m)
+		}
+		try(w.arD[j], w.nn, w.cond.First)
+		if w.maD[j] != nil {
+			count++
+		}
+		if count == 1 && v.src != nil {
+			w.views[j] = v
+		}
+	}
+}
+
+// fitSinglePower reports whether g has exactly one non-zero coefficient,
+// and its power and value.
+func fitSinglePower(g []float64) (int, float64, bool) {
+	l, c, n := 0, 0.0, 0
+	for i, v := range g {
+		if v != 0 {
+			l, c = i, v
+			n++
+		}
+	}
+	return l, c, n == 1
 }
 
 // colRows computes rows r0 .. r0+len(out)-1 of Jacobian column k into
@@ -1002,6 +1071,7 @@ type fitBlock struct {
 	cols [][]float64
 	brk  []float64
 	hist [][]float64
+	tmp  []float64 // one block's products (columns with sign -1)
 }
 
 // normalRows adds to acc the products of the Jacobian columns with
@@ -1026,9 +1096,22 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 		st.hist[j] = st.hist[j][:q]
 	}
 	blk := make([][]float64, k)
+	signed := false
+	for _, v := range w.views {
+		if v.sign == -1 {
+			signed = true
+		}
+	}
+	if signed && len(st.tmp) != len(acc) {
+		st.tmp = make([]float64, len(acc))
+	}
 	for b := lo; b < hi; b += L {
 		e := min(b+L, hi)
 		for j := 0; j < k; j++ {
+			if v := w.views[j]; v.src != nil {
+				blk[j] = v.src[v.at+b : v.at+e]
+				continue
+			}
 			out := st.back[j*L : j*L+e-b]
 			dst := out
 			if !maOne {
@@ -1044,8 +1127,32 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 			}
 			blk[j] = out
 		}
-		lm.AddBlock(acc, blk, r[b:e])
+		if !signed {
+			lm.AddBlock(acc, blk, r[b:e])
+			continue
+		}
+		// Products of negated columns: the block's products from zero,
+		// then added with the signs; negation is exact, so this is what
+		// AddBlock gives on negated copies, bit for bit.
+		clear(st.tmp)
+		lm.AddBlock(st.tmp, blk, r[b:e])
+		for j := 0; j < k; j++ {
+			sj := w.sign(j)
+			row, trow := acc[j*(k+1):(j+1)*(k+1)], st.tmp[j*(k+1):(j+1)*(k+1)]
+			for l := j; l < k; l++ {
+				row[l] += sj * w.sign(l) * trow[l]
+			}
+			row[k] += sj * trow[k]
+		}
 	}
+}
+
+// sign is the sign of Jacobian column j's view (1 for a column without).
+func (w *fitWork) sign(j int) float64 {
+	if v := w.views[j]; v.src != nil {
+		return v.sign
+	}
+	return 1
 }
 
 // fitPushHist shifts the last outputs y into h (oldest first), keeping
