@@ -32,3 +32,43 @@ func TestHostileSimulateBurnIn(t *testing.T) {
 		t.Errorf("BurnIn ignored with Innovations: %v", err)
 	}
 }
+
+// TestHostileSimulateOverflow checks that an output that overflows
+// float64 is a *SimError for the output, naming the sample and the noise
+// scale, instead of +-Inf or NaN returned silently. Sigma = 1e308 times
+// a standard normal draw (|z| > 1.8 with probability 0.07 per draw)
+// overflows within the 200 samples for these seeds, and the AR filter
+// 1/(1 - 0.6 B) amplifies what does not; an input of 1e308 through the
+// gain 2 overflows at once.
+func TestHostileSimulateOverflow(t *testing.T) {
+	m := parse.MustModel("y = 0.5 x + 1 / (1 - 0.6 B) a")
+	x := make([]float64, 200)
+	for _, c := range []struct {
+		name string
+		s    tf.SimSettings
+		msg  string
+	}{
+		{"Sigma 1e308", tf.SimSettings{Sigma: 1e308, Seed1: 1, Seed2: 2},
+			"the output overflowed float64 (noise scale Sigma = 1e+308)"},
+		{"Sigma 1e308 with burn-in", tf.SimSettings{Sigma: 1e308, Seed1: 1, Seed2: 2, BurnIn: 500},
+			"tf: output y: sample 0 is "},
+		{"max float Sigma", tf.SimSettings{Sigma: math.MaxFloat64, Seed1: 3, Seed2: 4},
+			"(noise scale Sigma = 1.7976931348623157e+308)"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			y, err := m.Simulate(map[string][]float64{"x": x}, &c.s)
+			var se *tf.SimError
+			if !errors.As(err, &se) || se.Part != "output y" {
+				t.Fatalf("got %v, %v; want *tf.SimError for the output", y, err)
+			}
+			if !strings.Contains(err.Error(), c.msg) {
+				t.Errorf("message %q, want it to contain %q", err.Error(), c.msg)
+			}
+		})
+	}
+	big := parse.MustModel("y = 2 x")
+	_, err := big.Simulate(map[string][]float64{"x": {1, 1e308}}, nil)
+	if err == nil || err.Error() != "tf: output y: sample 1 is +Inf: the output overflowed float64 (the inputs, the innovations or an unstable term is too large)" {
+		t.Errorf("input overflow: %v", err)
+	}
+}

@@ -34,9 +34,12 @@ const MaxBurnIn = 1 << 24
 //
 // Errors: an *ArgError for BurnIn above MaxBurnIn (when Innovations is
 // nil); those of NewSystem; a *SimError for a missing input series,
-// series of different lengths, Innovations of the wrong length, or
-// Steady for an input path without a steady state; a *SampleError naming
-// the series and index of a NaN or infinite sample.
+// series of different lengths, Innovations of the wrong length, Steady
+// for an input path without a steady state, or an output sample that
+// comes out NaN or infinite (Part "output <name>"; the noise scale, the
+// innovations, the inputs or an unstable term overflowed float64, for
+// example Sigma near 1e308); a *SampleError naming the series and index
+// of a NaN or infinite sample.
 func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64, error) {
 	var set SimSettings
 	if s != nil {
@@ -103,8 +106,23 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 		} else {
 			y[t] = sys.Step(u)
 		}
+		if v := y[t]; math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, simOverflow(m.Output, t, v, set.Sigma)
+		}
 	}
 	return y, nil
+}
+
+// simOverflow returns the *SimError for the non-finite output v at
+// sample t, naming the noise scale when there is one.
+func simOverflow(output string, t int, v, sigma float64) error {
+	p := "sample " + strconv.Itoa(t) + " is " + strconv.FormatFloat(v, 'g', -1, 64) + ": the output overflowed float64"
+	if sigma > 0 {
+		p += " (noise scale Sigma = " + strconv.FormatFloat(sigma, 'g', -1, 64) + ")"
+	} else {
+		p += " (the inputs, the innovations or an unstable term is too large)"
+	}
+	return &SimError{Part: "output " + output, Problem: p}
 }
 
 // simCheck returns a *SampleError for the first NaN or infinite sample.
