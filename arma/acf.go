@@ -45,7 +45,7 @@ func ACF(x []float64, maxLag int) (Correlogram, error) {
 		return Correlogram{}, &ArgError{Arg: "maxLag", Msg: "must not be negative"}
 	}
 	if n < 2 || maxLag >= n {
-		return Correlogram{}, &ShortError{N: n, Need: max(2, maxLag+1), What: "an autocorrelation to lag " + strconv.Itoa(maxLag)}
+		return Correlogram{}, &ShortError{N: n, Need: max(2, addSat(maxLag, 1)), What: "an autocorrelation to lag " + strconv.Itoa(maxLag)}
 	}
 	if err := checkFinite("", x); err != nil {
 		return Correlogram{}, err

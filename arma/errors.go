@@ -110,4 +110,14 @@ func seriesName(s string) string {
 	return s
 }
 
+// addSat returns a+b for non-negative a and b, or math.MaxInt when the sum
+// overflows, so that a ShortError's Need for a huge lag or start stays
+// positive.
+func addSat(a, b int) int {
+	if a > math.MaxInt-b {
+		return math.MaxInt
+	}
+	return a + b
+}
+
 func itoa(k int) string { return strconv.Itoa(k) }

@@ -299,6 +299,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	if !(o.Tol >= 0 && o.Tol < 1) {
 		return nil, &ArgError{Arg: "Tol", Msg: "must be in [0, 1) (zero means the default)"}
 	}
+	if o.Mean < MeanAuto || o.Mean > MeanFree {
+		return nil, &ArgError{Arg: "Mean", Msg: "unknown MeanMode " + itoa(int(o.Mean))}
+	}
 	if len(o.XNames) != 0 && len(o.XNames) != len(o.X) {
 		return nil, &ArgError{Arg: "XNames", Msg: "needs one name per regressor"}
 	}
@@ -394,7 +397,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	np := len(names)
 	e.m = n - e.t0
 	if e.m < np+1 || e.m < 1 {
-		return nil, &ShortError{Series: o.Name, N: n, Need: e.t0 + np + 1, What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
+		return nil, &ShortError{Series: o.Name, N: n, Need: addSat(e.t0, np+1), What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
 	}
 	// Differenced series and free regressor columns.
 	z := append([]float64(nil), y...)

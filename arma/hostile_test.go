@@ -99,3 +99,37 @@ func catchPoly(f func() []float64) (p []float64) {
 	}()
 	return f()
 }
+
+// TestHostileLags: huge lags, orders and starts gave ShortErrors with a
+// negative or wrong Need (overflow of lag+1), Hannan-Rissanen panicked in
+// mat for p or q = MaxInt and misnamed a negative longAR, and an unknown
+// MeanMode was silently taken as "no mean".
+func TestHostileLags(t *testing.T) {
+	y := make([]float64, 200)
+	for i := range y {
+		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
+	}
+	maxS := itoa(math.MaxInt)
+	short := func(err error) error {
+		var e *ShortError
+		if errors.As(err, &e) && e.Need <= e.N {
+			return errors.New("Need " + itoa(e.Need) + " not above N: " + err.Error())
+		}
+		return err
+	}
+	hr := func(p, q, long int) error {
+		return catch(func() error { _, _, err := HannanRissanen(y, p, q, long); return short(err) })
+	}
+	checkHostile(t, []hostileCase{
+		{"ACF MaxInt", short(catch(func() error { _, err := ACF(y, math.MaxInt); return err })), "short", "needs at least " + maxS},
+		{"PACF MaxInt", short(catch(func() error { _, err := PACF(y, math.MaxInt); return err })), "short", "needs at least " + maxS},
+		{"LjungBox MaxInt", short(catch(func() error { _, err := LjungBox(y, math.MaxInt, 0); return err })), "short", "needs at least " + maxS},
+		{"HR p MaxInt", hr(math.MaxInt, 1, 0), "short", "ARMA(" + maxS + ",1) needs at least " + maxS},
+		{"HR q MaxInt", hr(1, math.MaxInt, 0), "short", "needs at least " + maxS},
+		{"HR longAR MaxInt", hr(1, 1, math.MaxInt), "short", "needs at least " + maxS},
+		{"HR longAR < 0", hr(1, 1, -5), "arg", "longAR: must not be negative"},
+		{"Fit Start MaxInt", short(catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Start: math.MaxInt}); return err })), "short", "needs at least " + maxS},
+		{"Fit Mean 99", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Mean: 99}); return err }), "arg", "Mean: unknown MeanMode 99"},
+		{"Fit Mean -1", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Mean: -1}); return err }), "arg", "Mean: unknown MeanMode -1"},
+	})
+}

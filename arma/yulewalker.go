@@ -98,11 +98,7 @@ func YuleWalkerOrder(x []float64, order int) (ARFit, error) {
 func ywFit(x []float64, maxOrder, fixed int) (ARFit, error) {
 	n := len(x)
 	if maxOrder >= n {
-		need := maxOrder
-		if need < math.MaxInt {
-			need++ // an order of MaxInt cannot be met either way; avoid the overflow
-		}
-		return ARFit{}, &ShortError{N: n, Need: need, What: "an autoregression of order " + strconv.Itoa(maxOrder)}
+		return ARFit{}, &ShortError{N: n, Need: addSat(maxOrder, 1), What: "an autoregression of order " + strconv.Itoa(maxOrder)}
 	}
 	c, err := ACF(x, maxOrder)
 	if err != nil {
