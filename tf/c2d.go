@@ -18,8 +18,15 @@ type FOPDT struct {
 
 // StepAt returns the continuous unit step response at time t (step
 // applied at t = 0): Gain (1 - e^{-(t-DeadTime)/TimeConstant}) for
-// t > DeadTime, else 0.
+// t > DeadTime, else 0. Like SOPDT.StepAt and SecondOrder.StepAt it
+// returns NaN for invalid parameters (a non-finite Gain, a TimeConstant
+// that is not positive and finite, a DeadTime that is negative or not
+// finite) and for t = NaN.
 func (p FOPDT) StepAt(t float64) float64 {
+	if ratCheckFinite("Gain", p.Gain) != nil || ratCheckPositive("TimeConstant", p.TimeConstant) != nil ||
+		!ratStepArgsOK(p.DeadTime, t) {
+		return math.NaN()
+	}
 	if !(t > p.DeadTime) {
 		return 0
 	}
@@ -276,10 +283,12 @@ func (s ratSecond) discretize(T float64) (Rational, error) {
 // t = 0), in closed form (common practice):
 // Gain (1 - (Tau1 e^{-u/Tau1} - Tau2 e^{-u/Tau2})/(Tau1 - Tau2)) with
 // u = t - DeadTime > 0, Gain (1 - (1 + u/tau) e^{-u/tau}) for a double pole,
-// and 0 for u <= 0. It returns NaN for invalid parameters.
+// and 0 for u <= 0. It returns NaN for invalid parameters (a non-finite
+// Gain, a time constant that is not positive and finite, a DeadTime that
+// is negative or not finite) and for t = NaN, as FOPDT.StepAt does.
 func (p SOPDT) StepAt(t float64) float64 {
 	s, err := p.second()
-	if err != nil {
+	if err != nil || !ratStepArgsOK(p.DeadTime, t) {
 		return math.NaN()
 	}
 	return s.step(t)
@@ -313,10 +322,13 @@ func (p SOPDT) Discretize(T float64) (Rational, error) {
 // t = 0), in closed form (common practice); for Damping < 1, with
 // u = t - DeadTime > 0 and wd = wn sqrt(1 - zeta^2),
 // Gain (1 - e^{-zeta wn u} (cos(wd u) + zeta/sqrt(1-zeta^2) sin(wd u))).
-// It returns NaN for invalid parameters.
+// It returns NaN for invalid parameters (a non-finite Gain, a
+// NaturalFrequency that is not positive and finite, a negative or
+// non-finite Damping, a DeadTime that is negative or not finite) and for
+// t = NaN, as FOPDT.StepAt does.
 func (p SecondOrder) StepAt(t float64) float64 {
 	s, err := p.second()
-	if err != nil {
+	if err != nil || !ratStepArgsOK(p.DeadTime, t) {
 		return math.NaN()
 	}
 	return s.step(t)
@@ -333,6 +345,12 @@ func (p SecondOrder) Discretize(T float64) (Rational, error) {
 		return Rational{}, err
 	}
 	return s.discretize(T)
+}
+
+// ratStepArgsOK reports whether a dead time theta (finite, >= 0, as
+// Discretize requires) and a time t (not NaN) give a step response value.
+func ratStepArgsOK(theta, t float64) bool {
+	return theta >= 0 && !math.IsInf(theta, 0) && !math.IsNaN(t)
 }
 
 // ratSplitDelay splits theta = (d + f) T, rounding f within 1e-12 of 0
