@@ -155,7 +155,14 @@ func (r Rational) coefs() (num, den []float64) {
 
 // Impulse returns the impulse response h_0..h_{n-1}, the output for the
 // input 1, 0, 0, ... from rest: h_k = 0 exactly for k < b, then the power
-// series of omega(B)/delta(B). It returns nil for n <= 0.
+// series of omega(B)/delta(B). It returns nil for n <= 0 (any negative
+// n included).
+//
+// n is the length of the result, so it must be a length the caller can
+// allocate (8n bytes): like make, Impulse panics with a runtime error for
+// a length no slice can have (such as math.MaxInt) and a length beyond
+// the memory at hand exhausts it. Callers choosing n from data should
+// bound it first; there is no error return to report it.
 func (r Rational) Impulse(n int) []float64 {
 	if n <= 0 {
 		return nil
@@ -172,7 +179,9 @@ func (r Rational) Impulse(n int) []float64 {
 // Step returns the unit step response y_0..y_{n-1}, the output for the
 // input 1, 1, 1, ... from rest: zero for k < b. It is computed by the
 // difference equation itself (not by summing the impulse response), so
-// it has the rounding of Filter. It returns nil for n <= 0.
+// it has the rounding of Filter. It returns nil for n <= 0 (any
+// negative n included). As for Impulse, n is the length of the result
+// and must be a length the caller can allocate.
 func (r Rational) Step(n int) []float64 {
 	if n <= 0 {
 		return nil
