@@ -2,55 +2,14 @@ package prewhiten_test
 
 import (
 	"context"
-	"encoding/csv"
-	"os"
-	"strconv"
 	"testing"
 
 	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/poly"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/prewhiten"
 )
-
-// readColumns reads named numeric columns of a CSV file with a header.
-func readColumns(t *testing.T, path string, names ...string) [][]float64 {
-	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rd := csv.NewReader(f)
-	rd.FieldsPerRecord = -1
-	all, err := rd.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	out := make([][]float64, len(names))
-	for i, name := range names {
-		col := -1
-		for j, h := range all[0] {
-			if h == name {
-				col = j
-			}
-		}
-		if col < 0 {
-			t.Fatalf("%s: no column %q", path, name)
-		}
-		for _, row := range all[1:] {
-			if col >= len(row) {
-				continue
-			}
-			v, err := strconv.ParseFloat(row[col], 64)
-			if err != nil {
-				t.Fatalf("%s: %v", path, err)
-			}
-			out[i] = append(out[i], v)
-		}
-	}
-	return out
-}
 
 // TestBJSales identifies sales from the leading indicator, both first
 // differenced: R 4.2.2 datasets BJsales (output) and BJsales.lead
@@ -60,8 +19,8 @@ func readColumns(t *testing.T, path string, names ...string) [][]float64 {
 // time of 3 samples, one denominator term and no further numerator terms
 // (b = 3, r = 1, s = 0); our top candidate must agree.
 func TestBJSales(t *testing.T) {
-	cols := readColumns(t, "../testdata/bjsales/bjsales.csv", "sales", "lead")
-	sales, lead := cols[0], cols[1]
+	bj := testutil.ReadCSV(t, "testdata/bjsales/bjsales.csv")
+	sales, lead := bj.Column(t, "sales"), bj.Column(t, "lead")
 	pw, err := prewhiten.Pair(lead, sales, "sales", &prewhiten.Settings{Name: "lead", Diff: []float64{1, -1}})
 	if err != nil {
 		t.Fatal(err)
@@ -91,8 +50,8 @@ func TestBJSales(t *testing.T) {
 // identification (differenced input and output, the noise proposed from
 // the preliminary noise series) and checks that it parses.
 func TestBJSalesSpec(t *testing.T) {
-	cols := readColumns(t, "../testdata/bjsales/bjsales.csv", "sales", "lead")
-	sales, lead := cols[0], cols[1]
+	bj := testutil.ReadCSV(t, "testdata/bjsales/bjsales.csv")
+	sales, lead := bj.Column(t, "sales"), bj.Column(t, "lead")
 	pw, err := prewhiten.Pair(lead, sales, "sales", &prewhiten.Settings{Name: "lead", Diff: []float64{1, -1}})
 	if err != nil {
 		t.Fatal(err)

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"testing"
 
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/prewhiten"
 )
 
@@ -21,10 +22,9 @@ import (
 // same autocovariances in double precision.
 func TestFitAgainstR(t *testing.T) {
 	series := map[string][]float64{}
-	c := readColumns(t, "../testdata/ccf/series.csv", "x")
-	series["x"] = c[0]
-	series["w"] = readColumns(t, "../testdata/ccf/white.csv", "w")[0]
-	series["lead"] = readColumns(t, "../testdata/bjsales/bjsales.csv", "lead")[0]
+	series["x"] = testutil.ReadCSV(t, "testdata/ccf/series.csv").Column(t, "x")
+	series["w"] = testutil.ReadCSV(t, "testdata/ccf/white.csv").Column(t, "w")
+	series["lead"] = testutil.ReadCSV(t, "testdata/bjsales/bjsales.csv").Column(t, "lead")
 
 	f, err := os.Open("../testdata/ccf/ar.csv")
 	if err != nil {
@@ -104,26 +104,15 @@ func close(a, b, rel float64) bool {
 	return math.Abs(a-b) <= rel*math.Max(1, math.Abs(b))
 }
 
+// residColumns reads R's ar()$resid from testdata/ccf/ar_resid.csv (one
+// line per series, order.max and time index; NA before the first
+// residual) into series keyed "name/order.max".
 func residColumns(t *testing.T) map[string][]float64 {
-	f, err := os.Open("../testdata/ccf/ar_resid.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	tb := testutil.ReadCSV(t, "testdata/ccf/ar_resid.csv", "series", "order_max")
+	names, orders, resid := tb.Text["series"], tb.Text["order_max"], tb.Column(t, "resid")
 	out := map[string][]float64{}
-	for _, row := range rows[1:] {
-		key := row[0] + "/" + row[1]
-		v := math.NaN()
-		if row[3] != "NA" {
-			v, err = strconv.ParseFloat(row[3], 64)
-			if err != nil {
-				t.Fatal(err)
-			}
-		}
+	for i, v := range resid {
+		key := names[i] + "/" + orders[i]
 		out[key] = append(out[key], v)
 	}
 	return out

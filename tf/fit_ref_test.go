@@ -2,12 +2,9 @@ package tf
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"testing"
 
@@ -139,34 +136,9 @@ func (c fitRefCase) fit(t testing.TB) (*Estimate, map[string][]float64) {
 	return est, data
 }
 
-// fitReadCSV reads a CSV with a header into columns by name.
-func fitReadCSV(t testing.TB, path string) map[string][]float64 {
-	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	out := map[string][]float64{}
-	for _, row := range rows[1:] {
-		for j, name := range rows[0] {
-			v, err := strconv.ParseFloat(row[j], 64)
-			if err != nil {
-				t.Fatal(err)
-			}
-			out[name] = append(out[name], v)
-		}
-	}
-	return out
-}
-
 func (c fitRefCase) data(t testing.TB) map[string][]float64 {
 	t.Helper()
-	d := fitReadCSV(t, filepath.Join(testutil.Root(), "testdata", "fit", c.File))
+	d := testutil.ReadCSV(t, filepath.Join("testdata", "fit", c.File)).Num
 	delete(d, "t")
 	return d
 }
