@@ -225,7 +225,8 @@ func coefsOf(p sym.Poly, n, sn int) (c, sc []float64) {
 // estimated from their Values as start values (Options.Init overrides);
 // unnamed or non-free coefficients are held. diff is the differencing
 // polynomial applied to the series (nil for none); MeanAuto estimates the
-// mean when diff has degree 0. noise is not modified.
+// mean when diff has degree 0; its degree is at most MaxLag (an
+// *ArgError otherwise). noise is not modified.
 func FitNoise(ctx context.Context, y []float64, noise Noise, diff []float64, opt *Options) (*Result, error) {
 	if len(diff) == 0 {
 		diff = []float64{1}
@@ -238,6 +239,11 @@ func FitNoise(ctx context.Context, y []float64, noise Noise, diff []float64, opt
 	if diff[0] == 0 {
 		return nil, &ArgError{Arg: "diff", Msg: "constant term must be non-zero"}
 	}
+	d := poly.Degree(diff)
+	if d > MaxLag {
+		return nil, &ArgError{Arg: "diff", Msg: "degree " + itoa(d) + " above MaxLag = " + itoa(MaxLag)}
+	}
+	diff = diff[:d+1] // trailing zeros would only cost time
 	return fitCore(ctx, y, noise.Clone(), diff, poly.Degree(diff) > 0, opt, nil)
 }
 

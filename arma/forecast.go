@@ -8,6 +8,15 @@ import (
 	"github.com/backshift/backshift/internal/poly"
 )
 
+// MaxHorizon is the largest number of steps accepted by Result.Forecast
+// and of weights by Psi and Pi. A forecast costs O(steps m^2) time and
+// O(steps m) memory for a stationary part of state dimension m (at most
+// MaxLag+1), so 2^16 steps is a few seconds and about 130 MiB in the worst
+// case; it is far past the horizon at which a stationary forecast has
+// settled on the mean and an integrated one's interval has stopped being
+// informative. Without the bound a horizon of 1<<40 exhausted memory.
+const MaxHorizon = 1 << 16
+
 // Forecast holds forecasts of the series h = 1..H steps after its last
 // sample.
 type Forecast struct {
@@ -53,11 +62,15 @@ type Forecast struct {
 // column of length steps per regressor of the fit (nil when the fit had
 // none).
 //
-// Errors: *ArgError for steps < 1, level outside (0, 1) or futureX of the
-// wrong shape or non-finite.
+// Errors: *ArgError for steps < 1 or above MaxHorizon, level outside
+// (0, 1), futureX of the wrong shape or non-finite, or r not a result of
+// Fit or FitNoise (nil or the zero Result).
 func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Forecast, error) {
-	if steps < 1 {
-		return Forecast{}, &ArgError{Arg: "steps", Msg: "must be at least 1"}
+	if r == nil || len(r.AR) == 0 || len(r.MA) == 0 || len(r.Diff) == 0 {
+		return Forecast{}, &ArgError{Arg: "result", Msg: "Forecast needs a result of Fit or FitNoise"}
+	}
+	if steps < 1 || steps > MaxHorizon {
+		return Forecast{}, &ArgError{Arg: "steps", Msg: "must be in 1..MaxHorizon = " + itoa(MaxHorizon) + ", got " + itoa(steps)}
 	}
 	if level == 0 {
 		level = 0.95

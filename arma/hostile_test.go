@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 	"testing"
+	"time"
 )
 
 // hostileCase is one hostile call: err is its error, want the type's name
@@ -132,4 +133,48 @@ func TestHostileLags(t *testing.T) {
 		{"Fit Mean 99", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Mean: 99}); return err }), "arg", "Mean: unknown MeanMode 99"},
 		{"Fit Mean -1", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Mean: -1}); return err }), "arg", "Mean: unknown MeanMode -1"},
 	})
+}
+
+// TestHostileSizes: horizons, weight counts and sample counts of 1<<40
+// exhausted memory, math.MaxInt panicked in makeslice, a horizon of 10^5
+// ran for minutes (the integration of the state was O(h^2)), and Forecast
+// on a nil or zero Result panicked.
+func TestHostileSizes(t *testing.T) {
+	y := make([]float64, 200)
+	for i := range y {
+		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
+	}
+	res, err := Fit(nil, y, Order{P: 1, D: 1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fc := func(r *Result, h int) error {
+		return catch(func() error { _, err := r.Forecast(h, 0, nil); return err })
+	}
+	longDiff := make([]float64, 1<<12)
+	longDiff[0], longDiff[len(longDiff)-1] = 1, -1
+	checkHostile(t, []hostileCase{
+		{"Forecast 1<<40", fc(res, 1<<40), "arg", "steps: must be in 1..MaxHorizon = 65536, got 1099511627776"},
+		{"Forecast MaxInt", fc(res, math.MaxInt), "arg", "MaxHorizon"},
+		{"Forecast nil", fc(nil, 3), "arg", "result: Forecast needs a result of Fit or FitNoise"},
+		{"Forecast zero", fc(&Result{}, 3), "arg", "result: Forecast needs a result of Fit or FitNoise"},
+		{"Psi 1<<40", catch(func() error { _, err := Psi([]float64{1}, nil, 1<<40); return err }), "arg", "n: must be in 0..MaxHorizon"},
+		{"Pi MaxInt", catch(func() error { _, err := Pi(nil, []float64{1}, math.MaxInt); return err }), "arg", "n: must be in 0..MaxHorizon"},
+		{"Psi long ar", catch(func() error { _, err := Psi(longDiff, nil, 3); return err }), "arg", "degree above 2 MaxLag = 512"},
+		{"Simulate 1<<40", catch(func() error { _, err := Simulate(Model{Sigma2: 1}, 1<<40, nil); return err }), "arg", "n: must be in 0..MaxSamples = 67108864"},
+		{"Simulate MaxInt", catch(func() error { _, err := Simulate(Model{Sigma2: 1}, math.MaxInt, nil); return err }), "arg", "MaxSamples"},
+		{"Simulate BurnIn MaxInt", catch(func() error {
+			_, err := Simulate(Model{Sigma2: 1}, 5, &SimSettings{BurnIn: math.MaxInt})
+			return err
+		}), "arg", "BurnIn: n + BurnIn = 5 + " + itoa(math.MaxInt) + " is above MaxSamples"},
+		{"FitNoise long diff", catch(func() error { _, err := FitNoise(nil, y, Noise{}, longDiff, nil); return err }), "arg", "diff: degree 4095 above MaxLag = 256"},
+	})
+	// The largest horizon is served quickly (it was O(h^2): minutes).
+	start := time.Now()
+	if err := fc(res, MaxHorizon); err != nil {
+		t.Fatal(err)
+	}
+	if d := time.Since(start); d > 5*time.Second {
+		t.Errorf("Forecast(MaxHorizon) took %v", d)
+	}
 }

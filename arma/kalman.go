@@ -149,11 +149,6 @@ func (r *Result) exactForecast(steps int) (mean, vr []float64, ok bool) {
 		return nil, nil, false
 	}
 	m := len(alpha)
-	// xi: coefficients of 1/Diff(B), integrating w forecasts into z.
-	xi, err := poly.Divide([]float64{1}, r.Diff, steps)
-	if err != nil {
-		return nil, nil, false
-	}
 	full := poly.Mul(r.AR, r.Diff)
 	psi, err := poly.Divide(r.MA, full, steps)
 	if err != nil {
@@ -189,15 +184,22 @@ func (r *Result) exactForecast(steps int) (mean, vr []float64, ok bool) {
 		mean[h] = s
 	}
 	vr = make([]float64, steps)
-	u := make([]float64, m)
+	// u_h = sum_{j=1}^h xi_{h-j} Z T^j, xi the coefficients of 1/Diff(B)
+	// (integrating w forecasts into z). Since Diff(B) xi(B) = 1, u_h =
+	// Z T^h - sum_{i=1}^{dd} Diff_i u_{h-i} (u_h = 0 for h < 1): O(m dd)
+	// per step instead of O(m h). us is a ring of the last dd+1 u's.
+	us := make([][]float64, dd+1)
+	for i := range us {
+		us[i] = make([]float64, m)
+	}
 	acc := 0.0
 	for h := 1; h <= steps; h++ {
-		// u_h = sum_{j=1}^h xi_{h-j} Z T^j
-		clear(u)
-		for j := 1; j <= h; j++ {
-			c := xi[h-j]
+		u := us[h%(dd+1)]
+		copy(u, rows[h])
+		for i := 1; i <= dd && i < h; i++ {
+			c, prev := r.Diff[i], us[(h-i)%(dd+1)]
 			for k := range u {
-				u[k] += c * rows[j][k]
+				u[k] -= c * prev[k]
 			}
 		}
 		quad := 0.0

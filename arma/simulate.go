@@ -7,6 +7,11 @@ import (
 	"github.com/backshift/backshift/internal/filter"
 )
 
+// MaxSamples bounds n plus the burn-in of Simulate: 2^26 samples are
+// 512 MiB per series, and Simulate holds two. A larger request (n = 1<<40
+// exhausted memory, math.MaxInt panicked) is an *ArgError.
+const MaxSamples = 1 << 26
+
 // SimSettings tunes Simulate. The zero value gives the defaults.
 type SimSettings struct {
 	// Seed1 and Seed2 seed the PCG source (math/rand/v2) of the Gaussian
@@ -35,7 +40,8 @@ type SimSettings struct {
 // the integration of the differences starts from zero pre-sample values
 // (an integrated series has no stationary distribution).
 //
-// Errors: *ArgError for n < 0, non-finite coefficients, Innovations of
+// Errors: *ArgError for n < 0, n plus the burn-in above MaxSamples,
+// non-finite coefficients, Innovations of
 // the wrong length or, when a burn-in is requested, an AR part that is
 // not stationary (the message gives the offending roots); *DataError
 // (Series "innovations", with the index) for a NaN or infinite
@@ -45,8 +51,8 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 	if s != nil {
 		set = *s
 	}
-	if n < 0 {
-		return nil, &ArgError{Arg: "n", Msg: "must not be negative"}
+	if n < 0 || n > MaxSamples {
+		return nil, &ArgError{Arg: "n", Msg: "must be in 0..MaxSamples = " + itoa(MaxSamples) + ", got " + itoa(n)}
 	}
 	if err := m.validate(); err != nil {
 		return nil, err
@@ -71,6 +77,9 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 			burn = set.BurnIn
 			if burn == 0 {
 				burn = autoBurn(ar, len(ma)-1)
+			}
+			if burn > MaxSamples-n {
+				return nil, &ArgError{Arg: "BurnIn", Msg: "n + BurnIn = " + itoa(n) + " + " + itoa(burn) + " is above MaxSamples = " + itoa(MaxSamples)}
 			}
 		}
 		a = make([]float64, burn+n)

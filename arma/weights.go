@@ -17,7 +17,9 @@ import (
 // included: ar = {1, -0.5} for 1 - 0.5 B); an empty ma is the constant 1.
 // Multiply seasonal factors first (Model.ARPoly does). For an ARIMA model
 // pass ar(B) times the differencing polynomial. It returns an *ArgError
-// when ar is empty or ar[0] is zero, or n < 0.
+// when ar is empty or ar[0] is zero, n < 0 or n > MaxHorizon, or a
+// polynomial of degree above 2 MaxLag (the degree of a model's AR part
+// times its differencing can reach 2 MaxLag).
 func Psi(ar, ma []float64, n int) ([]float64, error) {
 	return weights(ar, ma, n, "ar")
 }
@@ -25,14 +27,18 @@ func Psi(ar, ma []float64, n int) ([]float64, error) {
 // Pi returns the first n pi weights, the coefficients of ar(B)/ma(B), so
 // that a_t = sum_{j>=0} pi_j w_{t-j}. (Some texts define pi_j with the
 // opposite sign for j >= 1; here they are the plain series coefficients.)
-// It returns an *ArgError when ma is empty or ma[0] is zero, or n < 0.
+// It returns an *ArgError when ma is empty or ma[0] is zero, and for n and
+// degrees as Psi does.
 func Pi(ar, ma []float64, n int) ([]float64, error) {
 	return weights(ma, ar, n, "ma")
 }
 
 func weights(den, num []float64, n int, which string) ([]float64, error) {
-	if n < 0 {
-		return nil, &ArgError{Arg: "n", Msg: "must not be negative"}
+	if n < 0 || n > MaxHorizon {
+		return nil, &ArgError{Arg: "n", Msg: "must be in 0..MaxHorizon = " + itoa(MaxHorizon) + ", got " + itoa(n)}
+	}
+	if len(den) > 2*MaxLag+1 || len(num) > 2*MaxLag+1 {
+		return nil, &ArgError{Arg: "ar/ma", Msg: "polynomial degree above 2 MaxLag = " + itoa(2*MaxLag)}
 	}
 	if len(den) == 0 || den[0] == 0 {
 		return nil, &ArgError{Arg: which, Msg: "constant term must be non-zero"}
