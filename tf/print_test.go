@@ -3,6 +3,7 @@ package tf_test
 import (
 	"math"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/arma"
@@ -28,6 +29,11 @@ func TestPrintCodeBuilt(t *testing.T) {
 		Noise:    &arma.Noise{AR: sym.FromCoeffs([]float64{1, -0.5, 0.25})},
 		Interval: tf.Interval{Value: 0.5, Unit: "min"},
 	}
+	// The expected text is the package's own notation (the Model.String
+	// doc in print.go), not a numerical result: each number in it is a
+	// value set above printed by strconv 'g' precision -1, so the
+	// comparison is exact. By hand: AR {1, -0.5, 0.25} is
+	// phi(B) = 1 - 0.5 B + 0.25 B^2, and 0.5 min is the Interval.
 	want := "temp = -4.25 + (0.5 + 0.25 B) / (1 - 0.8 B) B^4 burner + (1) feed + 1 air + B ((1 - B) flow) + k level + 1 / (1 - 0.5 B + 0.25 B^2) a; where k = 2; every 0.5 min"
 	if got := m.String(); got != want {
 		t.Fatalf("got  %s\nwant %s", got, want)
@@ -45,12 +51,25 @@ func TestPrintCodeBuilt(t *testing.T) {
 	if got := tf.FormatPoly(tf.Poly{}); got != "1" {
 		t.Errorf("FormatPoly of 1: %s", got)
 	}
-	// Values print in the shortest form that reads back exactly.
+	// Values print in the shortest form that reads back exactly: the
+	// expected value is the input itself, compared exactly, because
+	// strconv.FormatFloat(v, 'g', -1, 64) uses "the minimal number of
+	// digits necessary to represent the value uniquely" (Go strconv
+	// doc) and strconv.ParseFloat rounds correctly. The values are edge
+	// cases of that format (common practice): a non-terminating binary
+	// fraction, 1/3, the smallest subnormal, the largest float64, an
+	// integer above 2^53, a power of ten and a small value, which 'g'
+	// writes as 1.2345678901234568e+17, 1e+21 and 2.5e-08 (checked
+	// with Go 1.26 strconv), so the parser must read signed exponents.
 	for _, v := range []float64{0.1, 1.0 / 3, 5e-324, math.MaxFloat64, 123456789012345680, 1e21, 2.5e-8} {
 		m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: sym.FromCoeffs([]float64{v})}}}
 		back, err := parse.Model(m.String())
-		if err != nil || back.Inputs[0].Num.Coeffs()[0] != v {
-			t.Errorf("%v prints as %q, reads back %v, %v", v, m.String(), back.Inputs[0].Num.Coeffs(), err)
+		if err != nil {
+			t.Errorf("%v prints as %q, which does not read back: %v", v, m.String(), err)
+			continue
+		}
+		if got := back.Inputs[0].Num.Coeffs(); len(got) != 1 || got[0] != v {
+			t.Errorf("%v prints as %q, reads back %v", v, m.String(), got)
 		}
 	}
 	if s := (tf.Interval{}).String(); s != "" {
@@ -74,8 +93,22 @@ func TestPrintManyNames(t *testing.T) {
 		}
 	}
 	m := parse.MustModel(spec + where)
-	back, err := parse.Model(m.String())
-	if err != nil || !back.Equal(m) || back.String() != m.String() {
+	// 40 names (w0..w39), so the printer's map path is the one used.
+	if n := len(m.Params()); n != 40 {
+		t.Fatalf("%d names, want 40 (more than the small table's 16)", n)
+	}
+	text := m.String()
+	back, err := parse.Model(text)
+	if err != nil || !back.Equal(m) || back.String() != text {
 		t.Fatalf("%s\nreads back %v", m, err)
+	}
+	// A read-back cannot see a name printed twice (both texts would
+	// carry it), so check the where clause itself: w0, used in every
+	// term, appears once, and the held names past the 16th are there.
+	if c := strings.Count(text, "w0 ~ 1"); c != 1 {
+		t.Errorf("w0 ~ 1 printed %d times in %s", c, text)
+	}
+	if !strings.HasSuffix(text, " where w0 ~ 1, w3 = 3, w6 = 6, w9 = 9, w12 = 12, w15 = 15, w18 = 18, w21 = 21, w24 = 24, w27 = 27, w30 = 30, w33 = 33, w36 = 36, w39 = 39") {
+		t.Errorf("where clause: %s", text)
 	}
 }
