@@ -63,8 +63,10 @@ type Forecast struct {
 // none).
 //
 // Errors: *ArgError for steps < 1 or above MaxHorizon, level outside
-// (0, 1), futureX of the wrong shape or non-finite, or r not a result of
-// Fit or FitNoise (nil or the zero Result).
+// (0, 1), futureX of the wrong shape or non-finite, r not a result of
+// Fit or FitNoise (nil or the zero Result), or forecasts that overflow
+// float64 (an explosive fitted AR part; the Forecast is still returned,
+// finite up to the step the message names).
 func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Forecast, error) {
 	if r == nil || len(r.AR) == 0 || len(r.MA) == 0 || len(r.Diff) == 0 {
 		return Forecast{}, &ArgError{Arg: "result", Msg: "Forecast needs a result of Fit or FitNoise"}
@@ -103,9 +105,21 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 			f.Lower[h] = f.Mean[h] - q*f.SE[h]
 			f.Upper[h] = f.Mean[h] + q*f.SE[h]
 		}
-		return f, nil
+		return f, checkForecast(f)
 	}
-	return r.conditionalForecast(steps, level, futureX), nil
+	f = r.conditionalForecast(steps, level, futureX)
+	return f, checkForecast(f)
+}
+
+// checkForecast returns an *ArgError when a forecast or its interval
+// overflowed (an explosive fitted AR part over a long horizon).
+func checkForecast(f Forecast) error {
+	for _, x := range [][]float64{f.Mean, f.SE, f.Lower, f.Upper} {
+		if k := firstNonFinite(x); k >= 0 {
+			return &ArgError{Arg: "steps", Msg: "forecast overflows at step " + itoa(k+1) + " (explosive fitted AR part); ask for fewer than " + itoa(k+1) + " steps"}
+		}
+	}
+	return nil
 }
 
 // conditionalForecast runs the conditional recursion (arguments checked).
@@ -135,7 +149,9 @@ func (r *Result) conditionalForecast(steps int, level float64, futureX [][]float
 			f.Mean[h] += r.Beta[k] * col[h]
 		}
 	}
-	psi, _ := Psi(full, r.MA, steps) // full[0] = 1: cannot fail
+	// full[0] = 1: cannot fail. Not Psi, which refuses weights that
+	// overflow: checkForecast reports those with the step.
+	psi, _ := poly.Divide(r.MA, full, steps)
 	acc := 0.0
 	for h := 0; h < steps; h++ {
 		acc += psi[h] * psi[h]

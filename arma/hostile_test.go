@@ -178,3 +178,40 @@ func TestHostileSizes(t *testing.T) {
 		t.Errorf("Forecast(MaxHorizon) took %v", d)
 	}
 }
+
+// TestHostileOverflow: explosive polynomials, a non-stationary
+// simulation without burn-in, a huge mean and a forecast from an
+// explosive fitted AR part returned +-Inf without a word.
+func TestHostileOverflow(t *testing.T) {
+	y := make([]float64, 200)
+	for i := range y {
+		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
+	}
+	res, err := Fit(nil, y, Order{P: 1}, &Options{Fixed: map[string]float64{"phi1": 3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkHostile(t, []hostileCase{
+		// 10^309 overflows: weight 309 of 1/(1 - 10B) is the first +Inf.
+		{"Psi explosive", catch(func() error { _, err := Psi([]float64{1, -10}, nil, 400); return err }), "arg", "ar: weight 309 overflows"},
+		{"Pi non-invertible", catch(func() error { _, err := Pi([]float64{1}, []float64{1, -2}, 2000); return err }), "arg", "ma: weight 1024 overflows"},
+		{"Model.Psi explosive", catch(func() error { _, err := (Model{AR: []float64{10}}).Psi(400); return err }), "arg", "weight 309 overflows"},
+		{"Simulate explosive", catch(func() error {
+			_, err := Simulate(Model{AR: []float64{1.5}, Sigma2: 1}, 5000, &SimSettings{BurnIn: -1})
+			return err
+		}), "arg", "model: simulated series overflows at sample"},
+		{"Simulate huge mean", catch(func() error { _, err := Simulate(Model{Mean: 1e308, D: 2, Sigma2: 1}, 50, nil); return err }), "arg", "overflows at sample 1 "},
+		{"Forecast explosive", fc1000(res), "arg", "steps: forecast overflows at step"},
+	})
+	// Finite requests are unchanged.
+	if _, err := Psi([]float64{1, -10}, nil, 300); err != nil {
+		t.Errorf("Psi of 300 weights: %v", err)
+	}
+	if _, err := res.Forecast(10, 0, nil); err != nil {
+		t.Errorf("Forecast of 10 steps: %v", err)
+	}
+}
+
+func fc1000(r *Result) error {
+	return catch(func() error { _, err := r.Forecast(1000, 0, nil); return err })
+}

@@ -97,6 +97,9 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 	if len(diff) > 1 {
 		filter.Run(y, []float64{1}, diff, y)
 	}
+	if k := firstNonFinite(y); k >= 0 {
+		return nil, &ArgError{Arg: "model", Msg: "simulated series overflows at sample " + itoa(k) + " (explosive AR part or huge Mean/Sigma2)"}
+	}
 	return y, nil
 }
 

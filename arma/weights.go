@@ -19,7 +19,9 @@ import (
 // pass ar(B) times the differencing polynomial. It returns an *ArgError
 // when ar is empty or ar[0] is zero, n < 0 or n > MaxHorizon, or a
 // polynomial of degree above 2 MaxLag (the degree of a model's AR part
-// times its differencing can reach 2 MaxLag).
+// times its differencing can reach 2 MaxLag). Weights that overflow
+// float64 (an explosive ar, roots far outside the unit circle, over many
+// weights) are an *ArgError too, not +-Inf.
 func Psi(ar, ma []float64, n int) ([]float64, error) {
 	return weights(ar, ma, n, "ar")
 }
@@ -51,7 +53,25 @@ func weights(den, num []float64, n int, which string) ([]float64, error) {
 			return nil, &ArgError{Arg: which, Msg: "coefficients must be finite"}
 		}
 	}
-	return poly.Divide(num, den, n)
+	w, err := poly.Divide(num, den, n)
+	if err != nil {
+		return nil, err
+	}
+	if k := firstNonFinite(w); k >= 0 {
+		return nil, &ArgError{Arg: which, Msg: "weight " + itoa(k) + " overflows (roots far outside the unit circle); ask for fewer than " + itoa(k) + " weights"}
+	}
+	return w, nil
+}
+
+// firstNonFinite returns the index of the first NaN or infinite value of
+// x, or -1.
+func firstNonFinite(x []float64) int {
+	for i, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return i
+		}
+	}
+	return -1
 }
 
 // zRoots returns the z-plane roots (z = 1/B) of a polynomial in B with a
