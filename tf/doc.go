@@ -58,7 +58,8 @@
 // given, and never keep them: constructors copy. Bad data and bad
 // settings give typed errors, to be inspected with errors.As, that carry
 // the facts: *CoefError (which polynomial, which power of B, the value;
-// it wraps one of ErrEmpty, ErrZeroConstant, ErrNotFinite, ErrDegree),
+// it wraps one of ErrEmpty, ErrZeroConstant, ErrNotFinite, ErrDegree,
+// ErrNormalise),
 // *DelayError, *SampleError (series name, 0-based index, value; wraps
 // ErrNotFinite), *GainError (pole at z = 1), *UnstableError (a quantity
 // defined only for stable terms), *ArgError (an option outside its

@@ -23,7 +23,7 @@ var (
 // polynomial ("num" for omega(B), "den" for delta(B)), the index of the
 // offending coefficient (power of B; -1 when the polynomial as a whole is
 // at fault, such as an empty one), its value, and the problem, one of
-// ErrEmpty, ErrZeroConstant, ErrNotFinite and ErrDegree.
+// ErrEmpty, ErrZeroConstant, ErrNotFinite, ErrDegree and ErrNormalise.
 type CoefError struct {
 	Poly  string
 	Index int

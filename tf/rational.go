@@ -1,6 +1,8 @@
 package tf
 
 import (
+	"errors"
+	"fmt"
 	"math"
 	"strconv"
 
@@ -44,8 +46,10 @@ type Rational struct {
 // becomes {0}).
 //
 // It returns a *CoefError for an empty polynomial, a denominator with a
-// zero constant term, a NaN or infinite coefficient, or a degree (after
-// dropping trailing zeros) above MaxDegree; and a *DelayError for a
+// zero constant term, a NaN or infinite coefficient, a degree (after
+// dropping trailing zeros) above MaxDegree, or a den[0] that the
+// normalisation cannot divide by (ErrNormalise, reported for den
+// coefficient 0 with its value); and a *DelayError for a
 // delay outside 0..MaxDelay. On error the returned Rational is the zero
 // value.
 func NewRational(num, den []float64, delay int) (Rational, error) {
@@ -70,21 +74,44 @@ func NewRational(num, den []float64, delay int) (Rational, error) {
 		return Rational{}, &CoefError{Poly: "den", Index: len(d) - 1, Value: d[len(d)-1], Err: ErrDegree}
 	}
 	if d0 := d[0]; d0 != 1 {
-		for k := range n {
-			n[k] /= d0
+		if err := ratNormalise("num", n, d0); err != nil {
+			return Rational{}, err
 		}
-		for k := range d {
-			d[k] /= d0
+		if err := ratNormalise("den", d[1:], d0); err != nil {
+			return Rational{}, err
 		}
 		d[0] = 1
-		if err := ratCheckPoly("num", n); err != nil { // overflow by the scaling
-			return Rational{}, err
-		}
-		if err := ratCheckPoly("den", d); err != nil {
-			return Rational{}, err
-		}
 	}
 	return Rational{num: n, den: d, delay: delay}, nil
+}
+
+// ErrNormalise says that dividing the coefficients by the denominator's
+// constant term den[0], which NewRational does to make it 1, takes a
+// coefficient out of float64 range: to +-Inf when den[0] is tiny against
+// it (den[0] = 1e-308 and a coefficient 10, say), or from non-zero to 0
+// when den[0] is huge against it. NewRational reports it as a *CoefError
+// for den coefficient 0, whose Err wraps ErrNormalise with the
+// coefficient concerned, so errors.Is(err, ErrNormalise) holds.
+var ErrNormalise = errors.New("normalising by den[0] (to make it 1) leaves float64 range")
+
+// ratNormalise divides c (polynomial name; for "den" c starts at the
+// coefficient of B^1) by d0 in place, returning a *CoefError for den[0]
+// wrapping ErrNormalise when a quotient overflows or a non-zero one
+// underflows to zero.
+func ratNormalise(name string, c []float64, d0 float64) error {
+	off := 0
+	if name == "den" {
+		off = 1
+	}
+	for k, v := range c {
+		q := v / d0
+		if math.IsInf(q, 0) || (q == 0 && v != 0) {
+			return &CoefError{Poly: "den", Index: 0, Value: d0, Err: fmt.Errorf("%w: %s coefficient %d = %v divided by it is %v",
+				ErrNormalise, name, k+off, v, q)}
+		}
+		c[k] = q
+	}
+	return nil
 }
 
 // MustRational is NewRational for fixed coefficients written in code; it

@@ -41,8 +41,8 @@ func TestNewRationalBadInput(t *testing.T) {
 			"tf: den has degree 65: degree above tf.MaxDegree (64)"},
 		{"negative dead time", []float64{1}, []float64{1}, -1, "", 0, nil, "tf: dead time -1 samples outside 0..10000"},
 		{"huge dead time", []float64{1}, []float64{1}, tf.MaxDelay + 1, "", 0, nil, "tf: dead time 10001 samples outside 0..10000"},
-		{"overflow by normalisation", []float64{1e300}, []float64{1e-300}, 0, "num", 0, tf.ErrNotFinite,
-			"tf: num coefficient 0 (B^0) = +Inf: value is NaN or infinite"},
+		{"overflow by normalisation", []float64{1e300}, []float64{1e-300}, 0, "den", 0, tf.ErrNormalise,
+			"tf: den coefficient 0 (B^0) = 1e-300: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 0 = 1e+300 divided by it is +Inf"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			r, err := tf.NewRational(c.num, c.den, c.delay)

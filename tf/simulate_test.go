@@ -503,3 +503,14 @@ func TestSystemSetSteadyErrors(t *testing.T) {
 		}
 	}
 }
+
+// NewSystem rejects a burn-in above tf.MaxBurnIn (it would loop for a
+// very long time) with an *ArgError, as Model.Simulate does.
+func TestNewSystemBurnInLimit(t *testing.T) {
+	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) u + (1 - 0.3 B) a")
+	var ae *tf.ArgError
+	_, err := tf.NewSystem(m, &tf.SimSettings{Sigma: 1, BurnIn: tf.MaxBurnIn + 1})
+	if !errors.As(err, &ae) || ae.Arg != "BurnIn" {
+		t.Fatalf("BurnIn = MaxBurnIn+1: err = %v, want *ArgError for BurnIn", err)
+	}
+}

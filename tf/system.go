@@ -92,7 +92,7 @@ type System struct {
 // makes a polynomial invalid (wrapping NewRational's *CoefError or
 // *DelayError), Sigma > 0 without a noise term, or BurnIn > 0 with a
 // noise model that is not stationary; an *ArgError for a negative or
-// non-finite Sigma or a negative BurnIn.
+// non-finite Sigma or a BurnIn that is negative or above MaxBurnIn.
 func NewSystem(m Model, s *SimSettings) (*System, error) {
 	var set SimSettings
 	if s != nil {
@@ -103,6 +103,9 @@ func NewSystem(m Model, s *SimSettings) (*System, error) {
 	}
 	if set.BurnIn < 0 {
 		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be >= 0"}
+	}
+	if set.BurnIn > MaxBurnIn {
+		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be at most tf.MaxBurnIn (16777216 draws)"}
 	}
 	if len(m.Inputs) == 0 {
 		return nil, &SimError{Part: "model " + m.Output, Problem: "has no input term"}
