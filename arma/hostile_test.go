@@ -215,3 +215,35 @@ func TestHostileOverflow(t *testing.T) {
 func fc1000(r *Result) error {
 	return catch(func() error { _, err := r.Forecast(1000, 0, nil); return err })
 }
+
+// TestHostileStructs: an ARFit or Result built by hand (or nil) made Poly,
+// Residuals, LjungBox, String and Constant panic with an index out of
+// range or a nil dereference.
+func TestHostileStructs(t *testing.T) {
+	var poly, resid []float64
+	err := catch(func() error {
+		poly = ARFit{Order: 0, Phi: []float64{0.5, 0.2}}.Poly()
+		resid = ARFit{Order: 0, Phi: []float64{0.5}}.Residuals([]float64{1, 2})
+		_ = ARFit{Order: -1}.Poly()
+		return nil
+	})
+	if err != nil || len(poly) != 3 || poly[1] != -0.5 || poly[2] != -0.2 || !math.IsNaN(resid[0]) || resid[1] != 1.5 {
+		t.Errorf("hand-built ARFit: err %v, Poly %v, Residuals %v; want {1, -0.5, -0.2} and {NaN, 1.5}", err, poly, resid)
+	}
+	var nilRes *Result
+	checkHostile(t, []hostileCase{
+		{"LjungBox nil", catch(func() error { _, err := nilRes.LjungBox(3); return err }), "arg", "result: LjungBox needs a result"},
+		{"LjungBox Start", catch(func() error { _, err := (&Result{Start: 5}).LjungBox(3); return err }), "arg", "result: LjungBox needs a result"},
+	})
+	if err := catch(func() error {
+		if s := nilRes.String(); s != "<nil arma.Result>" {
+			return errors.New("String = " + s)
+		}
+		if c, se := nilRes.Constant(); !math.IsNaN(c) || !math.IsNaN(se) {
+			return errors.New("Constant not NaN")
+		}
+		return nil
+	}); err != nil {
+		t.Error("nil Result:", err)
+	}
+}

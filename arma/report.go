@@ -9,16 +9,24 @@ import (
 // LjungBox tests the fit's residuals (from Start) for whiteness up to lag
 // lags, with the degrees of freedom reduced by the number of estimated
 // ARMA coefficients (the mean and regressors do not count). Errors are
-// those of the package-level LjungBox.
+// those of the package-level LjungBox, and an *ArgError for a nil Result
+// or one whose Start is outside its residuals.
 func (r *Result) LjungBox(lags int) (Portmanteau, error) {
+	if r == nil || r.Start < 0 || r.Start > len(r.Resid) {
+		return Portmanteau{}, &ArgError{Arg: "result", Msg: "LjungBox needs a result of Fit or FitNoise"}
+	}
 	return LjungBox(r.Resid[r.Start:], lags, r.narma)
 }
 
 // String returns a short report for people: the model, the estimates
 // with standard errors (sd) and their ratios, the innovation variance, the
 // criteria, the optimiser's outcome and any boundary flags. Numbers are
-// rounded for reading; use the fields for computation.
+// rounded for reading; use the fields for computation. A nil Result
+// prints as "<nil arma.Result>".
 func (r *Result) String() string {
+	if r == nil {
+		return "<nil arma.Result>"
+	}
 	var b strings.Builder
 	what := "noise model"
 	if r.byOrder {
@@ -55,7 +63,11 @@ func (r *Result) String() string {
 //
 // and its standard error by the delta method from Cov (NaN when Cov is
 // nil; zero when neither the mean nor any AR coefficient was estimated).
+// Both are NaN for a nil Result.
 func (r *Result) Constant() (c, se float64) {
+	if r == nil {
+		return math.NaN(), math.NaN()
+	}
 	idx := map[string]int{}
 	for i, nm := range r.Names {
 		idx[nm] = i

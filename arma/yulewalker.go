@@ -33,9 +33,11 @@ type ARFit struct {
 	N int
 }
 
-// Poly returns phi(B) = {1, -phi_1, ..., -phi_p}.
+// Poly returns phi(B) = {1, -phi_1, ..., -phi_p}, p = len(Phi) (the
+// Order of a fitted ARFit; an ARFit built by hand with another Order
+// still gets the polynomial of its coefficients).
 func (f ARFit) Poly() []float64 {
-	c := make([]float64, f.Order+1)
+	c := make([]float64, len(f.Phi)+1)
 	c[0] = 1
 	for k, v := range f.Phi {
 		c[k+1] = -v
@@ -46,11 +48,13 @@ func (f ARFit) Poly() []float64 {
 // Residuals returns e_t = phi(B)(x_t - Mean) for a series x (the fitted
 // one or another, as when prewhitening an output with an input's filter).
 // The first Order values, which need samples before the start, are NaN.
-// x is not modified; NaN in x propagates.
+// x is not modified; NaN in x propagates. (For an ARFit built by hand,
+// the first max(Order, len(Phi)) values are NaN.)
 func (f ARFit) Residuals(x []float64) []float64 {
 	e := make([]float64, len(x))
+	skip := max(f.Order, len(f.Phi))
 	for t := range x {
-		if t < f.Order {
+		if t < skip {
 			e[t] = math.NaN()
 			continue
 		}
