@@ -3,8 +3,10 @@ package ccf
 import (
 	"encoding/csv"
 	"os"
-	"strconv"
+	"path/filepath"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // readCSV reads a CSV file with a header row into a map from column name
@@ -25,28 +27,18 @@ func readCSV(t *testing.T, path string) (header []string, rows [][]string) {
 	return all[0], all[1:]
 }
 
-// readColumns reads the named numeric columns of a CSV file.
+// readColumns reads the named numeric columns of a CSV file with a
+// header line (internal/testutil.ReadCSV; path relative to this package).
 func readColumns(t *testing.T, path string, names ...string) [][]float64 {
 	t.Helper()
-	header, rows := readCSV(t, path)
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tb := testutil.ReadCSV(t, abs)
 	out := make([][]float64, len(names))
 	for i, name := range names {
-		col := -1
-		for j, h := range header {
-			if h == name {
-				col = j
-			}
-		}
-		if col < 0 {
-			t.Fatalf("%s: no column %q", path, name)
-		}
-		for _, row := range rows {
-			v, err := strconv.ParseFloat(row[col], 64)
-			if err != nil {
-				t.Fatalf("%s: %v", path, err)
-			}
-			out[i] = append(out[i], v)
-		}
+		out[i] = tb.Column(t, name)
 	}
 	return out
 }
