@@ -18,6 +18,13 @@ func TestArithmetic(t *testing.T) {
 			t.Errorf("%s = %v, want %v", name, got, want)
 		}
 	}
+	// By hand, a = 1 - 0.5 B, b = 2 + 0.25 B^2:
+	// a + b = 3 - 0.5 B + 0.25 B^2; a - b = -1 - 0.5 B - 0.25 B^2;
+	// a b = 2 - B + 0.25 B^2 - 0.125 B^3; a^2 = 1 - B + 0.25 B^2;
+	// B^2 a = B^2 - 0.5 B^3; b' = 0.5 B; B^2 b(1/B) = 0.25 + 2 B^2;
+	// (x - 2)(x - 0.5) = 1 - 2.5 x + x^2; (1 - 0.5 B)(1 - 0.25 B) =
+	// 1 - 0.75 B + 0.125 B^2; (1 - z B)(1 - conj(z) B) = 1 - 2 Re z B +
+	// |z|^2 B^2 = 1 - B + 0.5 B^2 for z = 0.5 + 0.5i. All exact dyadics.
 	eq("Add", Add(a, b), []float64{3, -0.5, 0.25})
 	eq("Sub", Sub(a, b), []float64{-1, -0.5, -0.25})
 	eq("Scale", Scale(-2, a), []float64{-2, 1})
@@ -38,6 +45,8 @@ func TestArithmetic(t *testing.T) {
 	if Degree([]float64{1, 2, 0, 0}) != 1 || Degree(nil) != -1 || Degree([]float64{0}) != -1 {
 		t.Errorf("Degree wrong")
 	}
+	// By hand: b(2) = 2 + 0.25*4 = 3; b(2i) = 2 + 0.25*(-4) = 1; the
+	// largest of |i|, |-3|, |2| is 3.
 	if v := EvalReal(b, 2); v != 3 {
 		t.Errorf("EvalReal = %v, want 3", v)
 	}
@@ -65,9 +74,15 @@ func TestArithmetic(t *testing.T) {
 	}
 }
 
-// TestDivide: 1/(1 - 0.5 B) = sum 0.5^k B^k and (1 + B)/(1 - B) =
-// 1 + 2 B + 2 B^2 + ... (by hand), and for random polynomials the
-// defining identity q * den = num up to degree n-1, to 1e-13.
+// TestDivide: 1/(1 - 0.5 B) = sum 0.5^k B^k (geometric series; powers of
+// two, so exact) and (1 + B)/(1 - B) = 1 + 2 B + 2 B^2 + ... (by hand:
+// q_0 = 1, q_1 = 1 + q_0 = 2, q_k = q_{k-1} = 2), and for random
+// polynomials the defining identity q * den = num up to degree n-1.
+// Tolerance 1e-13 times 1 + sum |den_j q_{k-j}|: forming q_k and then
+// (q * den)_k are two sums of at most six products and a division, so by
+// the standard bound for floating-point summation (about n eps times
+// the sum of magnitudes, common practice) they are off by at most about
+// 13 eps, 3e-15, times that sum; measured worst 1.5e-16 with this seed.
 func TestDivide(t *testing.T) {
 	q, err := Divide([]float64{1}, []float64{1, -0.5}, 6)
 	if err != nil {
@@ -111,7 +126,7 @@ func TestDivide(t *testing.T) {
 			for j := 0; j <= k && j < len(den); j++ {
 				scale += math.Abs(den[j] * q[k-j])
 			}
-			if math.Abs(p[k]-want) > 1e-13*scale {
+			if !(math.Abs(p[k]-want) <= 1e-13*scale) { // a NaN fails too
 				t.Fatalf("trial %d: (q*den)[%d] = %v, want %v", trial, k, p[k], want)
 			}
 		}
@@ -119,7 +134,11 @@ func TestDivide(t *testing.T) {
 }
 
 // TestFromRootsRoundTrip: expanding the roots found gives back the monic
-// polynomial within 1e-12 relative to its largest coefficient.
+// polynomial within 1e-12 relative to its largest coefficient (the
+// expected value is the input itself divided by its leading
+// coefficient). Measured worst with this seed (degrees up to 20):
+// 1.4e-14, so the margin is about 70; the loss comes from expanding up
+// to 20 factors whose roots are only backward-stable.
 func TestFromRootsRoundTrip(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 64))
 	for trial := 0; trial < 50; trial++ {
@@ -138,7 +157,7 @@ func TestFromRootsRoundTrip(t *testing.T) {
 			scale = math.Max(scale, math.Abs(v/a[n]))
 		}
 		for k := range a {
-			if math.Abs(got[k]-a[k]/a[n]) > 1e-12*scale {
+			if !(math.Abs(got[k]-a[k]/a[n]) <= 1e-12*scale) {
 				t.Fatalf("trial %d degree %d: coefficient %d = %v, want %v", trial, n, k, got[k], a[k]/a[n])
 			}
 		}

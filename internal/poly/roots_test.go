@@ -53,6 +53,10 @@ func backwardErr(a []float64, roots []complex128) float64 {
 //   - for random normal coefficients, whose roots crowd the unit circle
 //     and are less well conditioned as the degree grows: agreement with
 //     numpy.roots within 1e-9 relative.
+//
+// Measured over the 34 cases: backward error 6.2e-16, chosen roots
+// 1.5e-14 (both against the chosen values and numpy), random cases
+// 6.2e-15, so each bound has a margin of 15 or more.
 func TestRootsNumpy(t *testing.T) {
 	var f rootsFile
 	testutil.ReadJSON(t, "testdata/scipy/roots.json", &f)
@@ -67,7 +71,7 @@ func TestRootsNumpy(t *testing.T) {
 		if len(got) != len(c.Coef)-1 {
 			t.Fatalf("%s: %d roots, want %d", c.Name, len(got), len(c.Coef)-1)
 		}
-		if e := backwardErr(c.Coef, got); e > 1e-14 {
+		if e := backwardErr(c.Coef, got); !(e <= 1e-14) { // a NaN root fails too
 			t.Errorf("%s: backward error %.3g", c.Name, e)
 		}
 		tol := 1e-9
@@ -86,7 +90,9 @@ func TestRootsNumpy(t *testing.T) {
 }
 
 // TestRootsAnalytic: B^n - 2 has the roots 2^(1/n) e^{2 pi i k/n} (by
-// hand), well conditioned for every n; 1e-12 relative.
+// hand: the n-th roots of 2), well conditioned for every n (distinct
+// roots on one circle); 1e-12 relative, measured worst 1.2e-15 over
+// n = 1..64.
 func TestRootsAnalytic(t *testing.T) {
 	for n := 1; n <= 64; n++ {
 		a := make([]float64, n+1)
@@ -105,6 +111,7 @@ func TestRootsAnalytic(t *testing.T) {
 	}
 }
 
+// TestRootsSpecialCases: values by hand, noted at each case.
 func TestRootsSpecialCases(t *testing.T) {
 	if r, err := Roots(nil); r != nil || err != nil {
 		t.Errorf("empty: %v %v", r, err)
@@ -117,14 +124,17 @@ func TestRootsSpecialCases(t *testing.T) {
 	if err != nil || len(r) != 3 || r[0] != 0 || r[1] != 0 || r[2] != 0.5 {
 		t.Errorf("B^2 (B - 0.5): %v %v", r, err)
 	}
-	// Sorted by magnitude: (1 - 2B)(1 - 0.5B) has roots 0.5 and 2.
+	// Sorted by magnitude: (1 - 2B)(1 - 0.5B) = 1 - 2.5 B + B^2 has roots
+	// 0.5 and 2 (by hand). 1e-15 absolute is a few ulps (ulp(2) is
+	// 4.4e-16); measured: exact.
 	r, _ = Roots([]float64{1, -2.5, 1})
-	if math.Abs(real(r[0])-0.5) > 1e-15 || math.Abs(real(r[1])-2) > 1e-15 {
+	if len(r) != 2 || !(math.Abs(real(r[0])-0.5) <= 1e-15) || !(math.Abs(real(r[1])-2) <= 1e-15) || imag(r[0]) != 0 || imag(r[1]) != 0 {
 		t.Errorf("quadratic roots %v, want [0.5 2]", r)
 	}
-	// Complex quadratic 1 + B^2: roots -i, +i.
+	// Complex quadratic 1 + B^2: roots -i, +i (by hand: B^2 = -1); 1e-15
+	// absolute is about 4 ulps at |z| = 1; measured: exact.
 	r, _ = Roots([]float64{1, 0, 1})
-	if cmplx.Abs(r[0]-(-1i)) > 1e-15 || cmplx.Abs(r[1]-1i) > 1e-15 {
+	if len(r) != 2 || !(cmplx.Abs(r[0]-(-1i)) <= 1e-15) || !(cmplx.Abs(r[1]-1i) <= 1e-15) {
 		t.Errorf("1 + B^2 roots %v", r)
 	}
 	if _, err := Roots([]float64{1, math.NaN()}); !errors.Is(err, ErrRoots) {
@@ -135,10 +145,17 @@ func TestRootsSpecialCases(t *testing.T) {
 	if _, err := Roots(long); !errors.Is(err, ErrTooLong) {
 		t.Errorf("degree %d: %v", MaxDegree+1, err)
 	}
-	// Real polynomials give exact conjugate pairs.
+	// Real polynomials give exact conjugate pairs. This one has three
+	// complex pairs and no real root (checked with numpy 1.24.2
+	// numpy.roots: -0.809 +- 0.682i, 0.789 +- 0.677i, 0.131 +- 0.950i),
+	// so the loop below has six roots to check.
 	r, _ = Roots([]float64{1, -0.3, 0.8, 0.1, 0.5, -0.2, 0.9})
+	if len(r) != 6 {
+		t.Fatalf("degree 6: %d roots %v", len(r), r)
+	}
 	for _, z := range r {
 		if imag(z) == 0 {
+			t.Errorf("root %v is real; numpy.roots finds none", z)
 			continue
 		}
 		found := false
