@@ -114,12 +114,16 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 // checkForecast returns an *ArgError when a forecast or its interval
 // overflowed (an explosive fitted AR part over a long horizon).
 func checkForecast(f Forecast) error {
+	first := -1
 	for _, x := range [][]float64{f.Mean, f.SE, f.Lower, f.Upper} {
-		if k := firstNonFinite(x); k >= 0 {
-			return &ArgError{Arg: "steps", Msg: "forecast overflows at step " + itoa(k+1) + " (explosive fitted AR part); ask for fewer than " + itoa(k+1) + " steps"}
+		if k := firstNonFinite(x); k >= 0 && (first < 0 || k < first) {
+			first = k
 		}
 	}
-	return nil
+	if first < 0 {
+		return nil
+	}
+	return &ArgError{Arg: "steps", Msg: "forecast overflows at step " + itoa(first+1) + " (explosive fitted AR part); ask for fewer than " + itoa(first+1) + " steps"}
 }
 
 // conditionalForecast runs the conditional recursion (arguments checked).

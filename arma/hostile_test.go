@@ -247,3 +247,28 @@ func TestHostileStructs(t *testing.T) {
 		t.Error("nil Result:", err)
 	}
 }
+
+// The overflow step is the first non-finite value of any field: here the
+// interval overflows (step 324) long before the mean (step 647).
+func TestHostileForecastFirstStep(t *testing.T) {
+	y := make([]float64, 200)
+	for i := range y {
+		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
+	}
+	res, err := Fit(nil, y, Order{P: 1}, &Options{Fixed: map[string]float64{"phi1": 3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := res.Forecast(1000, 0, nil)
+	want := -1
+	for h := range f.SE {
+		if math.IsInf(f.SE[h], 0) || math.IsInf(f.Mean[h], 0) || math.IsNaN(f.Mean[h]) || math.IsNaN(f.SE[h]) ||
+			math.IsInf(f.Lower[h], 0) || math.IsInf(f.Upper[h], 0) || math.IsNaN(f.Lower[h]) || math.IsNaN(f.Upper[h]) {
+			want = h + 1
+			break
+		}
+	}
+	if want < 0 || err == nil || !strings.Contains(err.Error(), "overflows at step "+itoa(want)+" ") {
+		t.Errorf("got %v, want the overflow at step %d", err, want)
+	}
+}
