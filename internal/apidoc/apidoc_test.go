@@ -319,4 +319,40 @@ func ExampleU() {
 	if hasOutputExample(p) {
 		t.Error("examples with an empty or missing // Output: accepted")
 	}
+	// The other direction: an example with expected text counts, so a
+	// hasOutputExample that always said false would fail here too.
+	const goodSrc = `package demo_test
+
+import "fmt"
+
+func ExampleGood() {
+	fmt.Println("x")
+	// Output: x
+}
+`
+	gf, err := parser.ParseFile(p.fset, "good_test.go", goodSrc, parser.ParseComments)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.tests = []*ast.File{gf}
+	if !hasOutputExample(p) {
+		t.Error("an example with // Output: x not counted")
+	}
+	// The doc.go rule on doc.go itself: clean when it holds only the
+	// package comment, and each fault reported.
+	for _, c := range []struct{ src, want string }{
+		{"// Package demo is documented.\npackage demo\n", ""},
+		{"package demo\n", "demo/doc.go: no package comment"},
+		{"// Package demo is documented.\npackage demo\n\nvar X int\n", "demo/doc.go: holds declarations besides the package comment"},
+	} {
+		d := pkgDir{rel: "demo", fset: token.NewFileSet(), names: []string{"doc.go"}}
+		f, err := parser.ParseFile(d.fset, "doc.go", c.src, parser.ParseComments)
+		if err != nil {
+			t.Fatal(err)
+		}
+		d.files = []*ast.File{f}
+		if got := strings.Join(docFileProblems(d), "\n"); got != c.want {
+			t.Errorf("doc.go %q: got %q, want %q", c.src, got, c.want)
+		}
+	}
 }
