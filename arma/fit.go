@@ -173,7 +173,10 @@ type Result struct {
 //
 // Errors: *ArgError for a bad order or options, *DataError for NaN/Inf
 // in y or X, *ShortError when fewer residuals than parameters + 1
-// remain, *ConstantError when the differenced series is constant. When
+// remain, *ConstantError when the differenced series is constant, and an
+// *ArgError naming the series when the residual sum of squares is 0 (an
+// exact fit, or samples so small that their squares underflow) or
+// overflows, where Sigma2 and the criteria would not be finite. When
 // the optimiser stops without converging Fit returns the best point as a
 // valid *Result together with a *ConvergenceError. ctx cancels the fit
 // (the best point so far is returned with a *ConvergenceError).
@@ -548,6 +551,12 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	res.SSQ = f
 	res.Sigma2 = f / float64(e.m)
+	switch {
+	case res.Sigma2 == 0:
+		return nil, &ArgError{Arg: seriesName(o.Name), Msg: "residual sum of squares is 0: the model fits exactly or the samples are too small for their squares (below about 1e-150); rescale the series"}
+	case !(res.Sigma2 < math.Inf(1)):
+		return nil, &ArgError{Arg: seriesName(o.Name), Msg: "residual sum of squares overflows: a diff or Fixed coefficient too large for the series' scale"}
+	}
 	res.Iter, res.Evals = lres.Iter, lres.Evals
 	res.Converged = lres.Reason.Converged()
 	res.Reason = lres.Reason.String()

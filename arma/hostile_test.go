@@ -272,3 +272,21 @@ func TestHostileForecastFirstStep(t *testing.T) {
 		t.Errorf("got %v, want the overflow at step %d", err, want)
 	}
 }
+
+// TestHostileScale: a series scaled to 1e-200 (squares underflow) gave
+// Sigma2 = 0 and LogLik = +Inf without an error, and a diff coefficient
+// of 1e300 gave Sigma2 = +Inf.
+func TestHostileScale(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 500, &SimSettings{Seed1: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tiny := make([]float64, len(y))
+	for i := range y {
+		tiny[i] = y[i] * 1e-200
+	}
+	checkHostile(t, []hostileCase{
+		{"Fit 1e-200", catch(func() error { _, err := Fit(nil, tiny, Order{P: 1}, &Options{Name: "tiny"}); return err }), "arg", "tiny: residual sum of squares is 0"},
+		{"FitNoise diff 1e300", catch(func() error { _, err := FitNoise(nil, y, Noise{}, []float64{1, 1e300}, nil); return err }), "arg", "series: residual sum of squares overflows"},
+	})
+}
