@@ -56,3 +56,23 @@ func BenchmarkSimulate(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkForecastMaxHorizon forecasts an ARIMA(1,1,0) fit MaxHorizon
+// steps ahead (the exact forecast is O(h): it was O(h^2), minutes at
+// h = 10^5).
+func BenchmarkForecastMaxHorizon(b *testing.B) {
+	y, err := Simulate(benchModel, 2000, &SimSettings{Seed1: 3, Seed2: 4})
+	if err != nil {
+		b.Fatal(err)
+	}
+	res, err := Fit(context.Background(), y, Order{P: 1, D: 1}, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := res.Forecast(MaxHorizon, 0, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

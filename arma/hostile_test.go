@@ -5,7 +5,6 @@ import (
 	"math"
 	"strings"
 	"testing"
-	"time"
 )
 
 // hostileCase is one hostile call: err is its error, want the type's name
@@ -169,13 +168,11 @@ func TestHostileSizes(t *testing.T) {
 		}), "arg", "BurnIn: n + BurnIn = 5 + " + itoa(math.MaxInt) + " is above MaxSamples"},
 		{"FitNoise long diff", catch(func() error { _, err := FitNoise(nil, y, Noise{}, longDiff, nil); return err }), "arg", "diff: degree 4095 above MaxLag = 256"},
 	})
-	// The largest horizon is served quickly (it was O(h^2): minutes).
-	start := time.Now()
+	// The largest horizon itself is accepted (its cost, O(h) since the
+	// exact forecast was made a recursion, is measured by
+	// BenchmarkForecastMaxHorizon, not timed here).
 	if err := fc(res, MaxHorizon); err != nil {
 		t.Fatal(err)
-	}
-	if d := time.Since(start); d > 5*time.Second {
-		t.Errorf("Forecast(MaxHorizon) took %v", d)
 	}
 }
 
@@ -183,14 +180,7 @@ func TestHostileSizes(t *testing.T) {
 // simulation without burn-in, a huge mean and a forecast from an
 // explosive fitted AR part returned +-Inf without a word.
 func TestHostileOverflow(t *testing.T) {
-	y := make([]float64, 200)
-	for i := range y {
-		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
-	}
-	res, err := Fit(nil, y, Order{P: 1}, &Options{Fixed: map[string]float64{"phi1": 3}})
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, res := hostileExplosive(t)
 	checkHostile(t, []hostileCase{
 		// 10^309 overflows: weight 309 of 1/(1 - 10B) is the first +Inf.
 		{"Psi explosive", catch(func() error { _, err := Psi([]float64{1, -10}, nil, 400); return err }), "arg", "ar: weight 309 overflows"},
@@ -251,14 +241,7 @@ func TestHostileStructs(t *testing.T) {
 // The overflow step is the first non-finite value of any field: here the
 // interval overflows (step 324) long before the mean (step 647).
 func TestHostileForecastFirstStep(t *testing.T) {
-	y := make([]float64, 200)
-	for i := range y {
-		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
-	}
-	res, err := Fit(nil, y, Order{P: 1}, &Options{Fixed: map[string]float64{"phi1": 3}})
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, res := hostileExplosive(t)
 	f, err := res.Forecast(1000, 0, nil)
 	want := -1
 	for h := range f.SE {
@@ -289,4 +272,19 @@ func TestHostileScale(t *testing.T) {
 		{"Fit 1e-200", catch(func() error { _, err := Fit(nil, tiny, Order{P: 1}, &Options{Name: "tiny"}); return err }), "arg", "tiny: residual sum of squares is 0"},
 		{"FitNoise diff 1e300", catch(func() error { _, err := FitNoise(nil, y, Noise{}, []float64{1, 1e300}, nil); return err }), "arg", "series: residual sum of squares overflows"},
 	})
+}
+
+// hostileExplosive is a short series and its fit with phi1 held at 3 (an
+// explosive AR part).
+func hostileExplosive(t *testing.T) ([]float64, *Result) {
+	t.Helper()
+	y := make([]float64, 200)
+	for i := range y {
+		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
+	}
+	res, err := Fit(nil, y, Order{P: 1}, &Options{Fixed: map[string]float64{"phi1": 3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return y, res
 }
