@@ -37,7 +37,8 @@ type IdentifySettings struct {
 	// means 2.
 	Forms int
 	// MaxP and MaxQ bound the noise AR and MA orders tried
-	// (prewhiten.IdentifyNoise); zero means 2.
+	// (prewhiten.IdentifyNoise); zero means 2 and a negative value
+	// means order zero only (no AR, or no MA, part).
 	MaxP, MaxQ int
 	// NoiseOrders is the number of noise orders kept; zero means 2.
 	NoiseOrders int
@@ -285,7 +286,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if est, err := Fit(ctx, pre, data, &fs); err == nil {
 		if !set.NoSettle {
 			k := fitSettleSamples(est.Model)
-			settleFirst = min(est.Conditioning.NoiseStart+set.MaxP+k, n/10)
+			settleFirst = min(est.Conditioning.NoiseStart+max(set.MaxP, 0)+k, n/10)
 		}
 		r := est.Resid[est.Conditioning.First:]
 		nid, err := prewhiten.IdentifyNoise(ctx, r, &prewhiten.NoiseSettings{MaxP: set.MaxP, MaxQ: set.MaxQ})
