@@ -298,45 +298,23 @@ var (
 	if hasOutputExample(p) {
 		t.Error("a package without tests reported as having an example")
 	}
-	const testSrc = `package demo_test
-
-import "fmt"
-
-func ExampleGood() {
-	fmt.Println("x")
-	// Output:
-}
-
-func ExampleU() {
-	fmt.Println("y")
-}
-`
-	tf, err := parser.ParseFile(p.fset, "demo_test.go", testSrc, parser.ParseComments)
-	if err != nil {
-		t.Fatal(err)
-	}
-	p.tests = []*ast.File{tf}
-	if hasOutputExample(p) {
-		t.Error("examples with an empty or missing // Output: accepted")
-	}
-	// The other direction: an example with expected text counts, so a
-	// hasOutputExample that always said false would fail here too.
-	const goodSrc = `package demo_test
-
-import "fmt"
-
-func ExampleGood() {
-	fmt.Println("x")
-	// Output: x
-}
-`
-	gf, err := parser.ParseFile(p.fset, "good_test.go", goodSrc, parser.ParseComments)
-	if err != nil {
-		t.Fatal(err)
-	}
-	p.tests = []*ast.File{gf}
-	if !hasOutputExample(p) {
-		t.Error("an example with // Output: x not counted")
+	// Both directions: empty or missing // Output: does not count, expected
+	// text does (so a hasOutputExample that always said false fails too).
+	for _, c := range []struct {
+		body string
+		want bool
+	}{
+		{"func ExampleGood() {\n\tfmt.Println(\"x\")\n\t// Output:\n}\n\nfunc ExampleU() {\n\tfmt.Println(\"y\")\n}\n", false},
+		{"func ExampleGood() {\n\tfmt.Println(\"x\")\n\t// Output: x\n}\n", true},
+	} {
+		tf, err := parser.ParseFile(p.fset, "demo_test.go", "package demo_test\n\nimport \"fmt\"\n\n"+c.body, parser.ParseComments)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p.tests = []*ast.File{tf}
+		if got := hasOutputExample(p); got != c.want {
+			t.Errorf("hasOutputExample for %q: got %v, want %v", c.body, got, c.want)
+		}
 	}
 	// The doc.go rule on doc.go itself: clean when it holds only the
 	// package comment, and each fault reported.
