@@ -236,7 +236,9 @@ type Estimate struct {
 // (N must exceed the number of free parameters), a model with nothing
 // free, free differencing coefficients, a zero constant term in a
 // denominator; *SampleError for a NaN or infinite sample (series and
-// index). When ctx is done the best point so far is returned with
+// index); *ArgError for a negative or NaN setting (FitSettings.MaxIter,
+// Starts, First, Tol) or a sample above FitMaxMagnitude (series[index]).
+// When ctx is done the best point so far is returned with
 // Converged false and Reason saying so, and a nil error. A fit that does
 // not converge also returns its best point, with a warning.
 //
@@ -1027,8 +1029,7 @@ func (w *fitWork) colRows(k, r0 int, dst, out, yHist []float64) {
 // colRows into a scratch block that stays in the first-level cache and
 // multiplied there, so the Jacobian is never stored: per evaluation the
 // series it is formed from are read once. The blocks are summed in the
-// order lm sums stored columns (the two halves separately from
-// lm.NormalSplit rows), so the result is that of eval and lm's own
+// order lm sums stored columns (the halves of lm.SplitRow separately), so the result is that of eval and lm's own
 // products bit for bit. Without a moving-average part the two halves run
 // on two goroutines when GOMAXPROCS > 1; with one, the recursion
 // 1/theta(B) carries each column's state from block to block.
@@ -1038,11 +1039,11 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 	}
 	w.jacPrep()
 	m := len(r)
-	if m < lm.NormalSplit {
+	h := lm.SplitRow(m)
+	if h == 0 {
 		w.normalRows(acc, r, 0, m, &w.blk[0])
 		return nil
 	}
-	h := (m / 2) &^ (lm.NormalBlock - 1)
 	acc1 := w.scratchAcc(len(acc))
 	if fitIsOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
 		var wg sync.WaitGroup
@@ -1095,7 +1096,7 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 		}
 		st.hist[j] = st.hist[j][:q]
 	}
-	blk := make([][]float64, k)
+	blk := st.cols
 	signed := false
 	for _, v := range w.views {
 		if v.sign == -1 {

@@ -98,11 +98,11 @@ func fitStoredProducts(jac [][]float64, r []float64) []float64 {
 		}
 	}
 	acc := make([]float64, k*(k+1))
-	if m < lm.NormalSplit {
+	h := lm.SplitRow(m)
+	if h == 0 {
 		rows(acc, 0, m)
 		return acc
 	}
-	h := (m / 2) &^ (lm.NormalBlock - 1)
 	acc1 := make([]float64, len(acc))
 	rows(acc, 0, h)
 	rows(acc1, h, m)

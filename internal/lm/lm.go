@@ -373,11 +373,7 @@ func getWork(size int, zero bool) *[]float64 {
 			}
 			return v
 		}
-		if cap(*v) > 1<<16 {
-			// Too small for this problem: drop it rather than keep a
-			// buffer that every long problem would have to replace.
-			*v = nil
-		}
+		// Too small for this problem: dropped, a new one replaces it.
 	}
 	b := make([]float64, size)
 	return &b
@@ -414,20 +410,30 @@ const NormalBlock = 256
 // the result is the same bit for bit with one goroutine or two.
 const NormalSplit = 50000
 
+// SplitRow returns, for products over m rows, the first row of the
+// second half when the two halves are summed separately (m >=
+// NormalSplit; the first half ends on a block boundary), and 0 when the
+// rows are summed in one pass. Every summation of J'J and J'r, stored or
+// formed by a Normal function, splits the rows here.
+func SplitRow(m int) int {
+	if m < NormalSplit {
+		return 0
+	}
+	return (m / 2) &^ (NormalBlock - 1)
+}
+
 // normal writes J'J into a and J'r into g. acc is scratch of length
-// 2 n (n + 1). Each product is summed block by block in row order (within
-// a block as vec.Dot sums); column j is read once for two products at a
-// time (vec.Dot2).
+// 2 n (n + 1). Each product is summed block by block in row order
+// (AddBlock), the halves of SplitRow separately.
 func normal(a *mat.SymDense, g []float64, jac [][]float64, r []float64, acc []float64) {
 	n := len(jac)
 	m := len(r)
 	w := n * (n + 1)
 	acc0, acc1 := acc[:w], acc[w:2*w]
 	clear(acc0)
-	if m < NormalSplit {
+	if h := SplitRow(m); h == 0 {
 		normalRange(acc0, jac, r, 0, m)
 	} else {
-		h := (m / 2) &^ (NormalBlock - 1)
 		clear(acc1)
 		if runtime.GOMAXPROCS(0) > 1 {
 			var wg sync.WaitGroup
@@ -479,10 +485,9 @@ func normalRange(acc []float64, jac [][]float64, r []float64, lo, hi int) {
 // block (every column as long as r). Each product is summed as vec.Dot
 // sums it; column j is read once for four products at a time (vec.Dot4,
 // with an AVX kernel on amd64), then for the last three, two or one.
-// Summing blocks of NormalBlock rows in row order, and from NormalSplit
-// rows the two halves separately (the first ending on a block boundary)
-// with the halves then added, gives what Minimize computes from the
-// columns, bit for bit.
+// Summing blocks of NormalBlock rows in row order, the two halves of
+// SplitRow separately and then added, gives what Minimize computes from
+// the columns, bit for bit.
 func AddBlock(acc []float64, cols [][]float64, r []float64) {
 	n := len(cols)
 	col := func(k int) []float64 {

@@ -334,3 +334,14 @@ func TestGetWorkZeroes(t *testing.T) {
 		}
 	}
 }
+
+// SplitRow: one pass below NormalSplit; above it the first half ends on
+// a block boundary at or below m/2 (by hand: 50001/2 = 25000, rounded
+// down to a multiple of 256 is 24832; 100077/2 = 50038 -> 49920).
+func TestSplitRow(t *testing.T) {
+	for _, c := range []struct{ m, want int }{{1, 0}, {NormalSplit - 1, 0}, {NormalSplit + 1, 24832}, {2*NormalSplit + 77, 49920}} {
+		if got := SplitRow(c.m); got != c.want {
+			t.Errorf("SplitRow(%d) = %d, want %d", c.m, got, c.want)
+		}
+	}
+}
