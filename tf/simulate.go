@@ -48,10 +48,7 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 	if set.Innovations != nil {
 		set.Sigma, set.BurnIn = 0, 0
 	}
-	if set.BurnIn > MaxBurnIn {
-		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be at most tf.MaxBurnIn (16777216 draws)"}
-	}
-	sys, err := NewSystem(m, &set)
+	sys, err := NewSystem(m, &set) // checks BurnIn against MaxBurnIn too
 	if err != nil {
 		return nil, err
 	}
