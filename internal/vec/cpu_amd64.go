@@ -13,15 +13,19 @@ func dot4AVX(a, b0, b1, b2, b3 *float64, n int, out *[16]float64)
 
 // HasAVX reports whether the processor and the operating system support
 // AVX (CPUID leaf 1 ECX bits 27 OSXSAVE and 28 AVX; XCR0 bits 1-2 for
-// XMM and YMM state): Dot4 then runs its AVX kernel.
-var HasAVX, hasFMA3AVX2 = func() (bool, bool) {
+// XMM and YMM state): Dot4 then runs its AVX kernel. HasAVX2FMA reports
+// that they also support AVX2 (leaf 7 EBX bit 5) and FMA (leaf 1 ECX
+// bit 12), for the kernels of package ccf.
+var HasAVX, HasAVX2FMA = cpuFeatures()
+
+func cpuFeatures() (avx, avx2fma bool) {
 	maxID, _, _, _ := cpuid(0, 0)
 	if maxID < 1 {
 		return false, false
 	}
 	_, _, c1, _ := cpuid(1, 0)
-	const fma, osxsave, avx = 1 << 12, 1 << 27, 1 << 28
-	if c1&osxsave == 0 || c1&avx == 0 {
+	const fma, osxsave, avxBit = 1 << 12, 1 << 27, 1 << 28
+	if c1&osxsave == 0 || c1&avxBit == 0 {
 		return false, false
 	}
 	if x, _ := xgetbv(); x&6 != 6 {
@@ -32,12 +36,7 @@ var HasAVX, hasFMA3AVX2 = func() (bool, bool) {
 	}
 	_, b7, _, _ := cpuid(7, 0)
 	return true, b7&(1<<5) != 0
-}()
-
-// HasAVX2FMA reports whether the processor and the operating system also
-// support AVX2 (CPUID leaf 7 EBX bit 5) and FMA (leaf 1 ECX bit 12), for
-// the kernels of package ccf.
-var HasAVX2FMA = hasFMA3AVX2
+}
 
 // useAVX selects the AVX kernel of Dot4; tests flip it to run the Go loop.
 var useAVX = HasAVX
