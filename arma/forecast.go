@@ -148,13 +148,14 @@ func (r *Result) conditionalForecast(steps int, level float64, futureX [][]float
 		for j := 1; j <= qa; j++ {
 			s += r.MA[j] * a[qa+h-j]
 		}
+		s /= full[0] // Diff_0: FitNoise accepts any non-zero value
 		z[pz+h] = s
 		f.Mean[h] = s
 		for k, col := range futureX {
 			f.Mean[h] += r.Beta[k] * col[h]
 		}
 	}
-	// full[0] = 1: cannot fail. Not Psi, which refuses weights that
+	// full[0] != 0: cannot fail. Not Psi, which refuses weights that
 	// overflow: checkForecast reports those with the step.
 	psi, _ := poly.Divide(r.MA, full, steps)
 	acc := 0.0

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/sym"
 )
 
 // hostileCase is one hostile call: err is its error, want the type's name
@@ -287,4 +289,71 @@ func hostileExplosive(t *testing.T) ([]float64, *Result) {
 		t.Fatal(err)
 	}
 	return y, res
+}
+
+// TestForecastDiffScale: FitNoise accepts a differencing polynomial
+// whose constant term is not 1. By hand: 2(1-B) z_t = w_t is (1-B) z_t =
+// w_t/2, so diff {2, -2} must give the forecasts and standard errors of
+// diff {1, -1} (w, its mean and Sigma2 scale by 2, 2 and 4). The z
+// forecasts doubled at every step before both forecast paths divided by
+// the constant term.
+func TestForecastDiffScale(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.5}, D: 1, Mean: 0.3, Sigma2: 1}, 300, &SimSettings{Seed1: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	noise := Noise{AR: sym.Poly{Factors: []sym.Factor{{Exp: 1, Terms: []sym.Term{
+		{Coef: sym.Coef{Value: 1}},
+		{Neg: true, Power: 1, Coef: sym.Coef{Name: "a1", Value: 0.3, Free: true}},
+	}}}}}
+	var fits [2]*Result
+	for i, d := range [][]float64{{1, -1}, {2, -2}} {
+		if fits[i], err = FitNoise(nil, y, noise, d, &Options{Mean: MeanFree}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	near := func(a, b float64) bool { return math.Abs(a-b) <= 1e-6*(1+math.Abs(a)) }
+	for _, exact := range []bool{true, false} {
+		var f [2]Forecast
+		for i, r := range fits {
+			if exact {
+				if f[i], err = r.Forecast(8, 0, nil); err != nil || !f[i].Exact {
+					t.Fatalf("exact forecast: %v (Exact %v)", err, f[i].Exact)
+				}
+			} else {
+				f[i] = r.conditionalForecast(8, 0.95, nil)
+			}
+		}
+		for h := range f[0].Mean {
+			if !near(f[0].Mean[h], f[1].Mean[h]) || !near(f[0].SE[h], f[1].SE[h]) {
+				t.Errorf("exact %v, step %d: diff {2,-2} gives %v (se %v), diff {1,-1} %v (se %v)",
+					exact, h+1, f[1].Mean[h], f[1].SE[h], f[0].Mean[h], f[0].SE[h])
+			}
+		}
+	}
+	// A short series with a near-unit MA root keeps the state uncertain,
+	// so the integrated state term of the exact SE matters (it too was
+	// scaled wrongly).
+	short := []float64{0.3, 1.2, 0.7, 2.1, 1.5, 2.9, 2.2, 3.6}
+	ma := Noise{MA: sym.Poly{Factors: []sym.Factor{{Exp: 1, Terms: []sym.Term{
+		{Coef: sym.Coef{Value: 1}},
+		{Neg: true, Power: 1, Coef: sym.Coef{Name: "m1", Value: 0.95}},
+	}}}}}
+	var se [2][]float64
+	for i, d := range [][]float64{{1, -1}, {2, -2}} {
+		r, err := FitNoise(nil, short, ma, d, &Options{Mean: MeanFree})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := r.Forecast(4, 0, nil)
+		if err != nil || !f.Exact {
+			t.Fatalf("short series: %v (Exact %v)", err, f.Exact)
+		}
+		se[i] = f.SE
+	}
+	for h := range se[0] {
+		if !near(se[0][h], se[1][h]) {
+			t.Errorf("short series, step %d: se %v with diff {2,-2}, %v with {1,-1}", h+1, se[1][h], se[0][h])
+		}
+	}
 }

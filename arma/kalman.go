@@ -172,7 +172,9 @@ func (r *Result) exactForecast(steps int) (mean, vr []float64, ok bool) {
 	for j := 1; j <= steps; j++ {
 		wf[j-1] = r.Model.Mean + dotN(rows[j], alpha)
 	}
-	// Integrate: z_t = w_t - sum_{k>=1} Diff_k z_{t-k}.
+	// Integrate: z_t = (w_t - sum_{k>=1} Diff_k z_{t-k}) / Diff_0
+	// (FitNoise accepts any non-zero Diff_0).
+	d0 := r.Diff[0]
 	hist := append([]float64(nil), r.z[max(0, len(r.z)-dd):]...)
 	mean = make([]float64, steps)
 	for h := 0; h < steps; h++ {
@@ -180,14 +182,16 @@ func (r *Result) exactForecast(steps int) (mean, vr []float64, ok bool) {
 		for k := 1; k <= dd; k++ {
 			s -= r.Diff[k] * hist[len(hist)-k]
 		}
+		s /= d0
 		hist = append(hist, s)
 		mean[h] = s
 	}
 	vr = make([]float64, steps)
 	// u_h = sum_{j=1}^h xi_{h-j} Z T^j, xi the coefficients of 1/Diff(B)
 	// (integrating w forecasts into z). Since Diff(B) xi(B) = 1, u_h =
-	// Z T^h - sum_{i=1}^{dd} Diff_i u_{h-i} (u_h = 0 for h < 1): O(m dd)
-	// per step instead of O(m h). us is a ring of the last dd+1 u's.
+	// (Z T^h - sum_{i=1}^{dd} Diff_i u_{h-i}) / Diff_0 (u_h = 0 for h < 1):
+	// O(m dd) per step instead of O(m h). us is a ring of the last dd+1
+	// u's.
 	us := make([][]float64, dd+1)
 	for i := range us {
 		us[i] = make([]float64, m)
@@ -200,6 +204,11 @@ func (r *Result) exactForecast(steps int) (mean, vr []float64, ok bool) {
 			c, prev := r.Diff[i], us[(h-i)%(dd+1)]
 			for k := range u {
 				u[k] -= c * prev[k]
+			}
+		}
+		if d0 != 1 {
+			for k := range u {
+				u[k] /= d0
 			}
 		}
 		quad := 0.0
