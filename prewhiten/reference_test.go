@@ -40,8 +40,11 @@ func TestFitAgainstR(t *testing.T) {
 	resid := residColumns(t)
 	for _, row := range rows[1:] {
 		name := row[0]
-		maxOrder, _ := strconv.Atoi(row[1])
-		order, _ := strconv.Atoi(row[2])
+		maxOrder, err1 := strconv.Atoi(row[1])
+		order, err2 := strconv.Atoi(row[2])
+		if err1 != nil || err2 != nil {
+			t.Fatalf("ar.csv line %q: order_max or order is not an integer", row)
+		}
 		want := make([]float64, 0, len(row)-3)
 		for _, s := range row[3:] {
 			v, err := strconv.ParseFloat(s, 64)
