@@ -145,5 +145,4 @@ func csvLineErr(err error) error {
 		return fmt.Errorf("%d: %v", pe.Line, pe.Err)
 	}
 	return fmt.Errorf(" %w", err) // not a line's fault: an I/O error
-
 }
