@@ -2,6 +2,7 @@ package tf
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/filter"
@@ -111,7 +112,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at least 1"}
 	}
 	if h > MaxHorizon {
-		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at most tf.MaxHorizon (1048576 steps)"}
+		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at most tf.MaxHorizon (" + strconv.Itoa(MaxHorizon) + " steps)"}
 	}
 	if set.Level == 0 {
 		set.Level = 0.95

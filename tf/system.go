@@ -105,7 +105,7 @@ func NewSystem(m Model, s *SimSettings) (*System, error) {
 		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be >= 0"}
 	}
 	if set.BurnIn > MaxBurnIn {
-		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be at most tf.MaxBurnIn (16777216 draws)"}
+		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be at most tf.MaxBurnIn (" + strconv.Itoa(MaxBurnIn) + " draws)"}
 	}
 	if len(m.Inputs) == 0 {
 		return nil, &SimError{Part: "model " + m.Output, Problem: "has no input term"}
