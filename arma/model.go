@@ -101,7 +101,16 @@ func (m Model) ARPoly() []float64 {
 	if m.Order().validate() != nil {
 		return nil
 	}
+	return m.arPoly()
+}
+
+// arPoly and maPoly are ARPoly and MAPoly for orders already checked.
+func (m Model) arPoly() []float64 {
 	return poly.Mul(lagPoly(m.AR, 1), lagPoly(m.SAR, max(m.Period, 1)))
+}
+
+func (m Model) maPoly() []float64 {
+	return poly.Mul(lagPoly(m.MA, 1), lagPoly(m.SMA, max(m.Period, 1)))
 }
 
 // MAPoly returns the expanded MA polynomial theta(B) Theta(B^s).
@@ -109,7 +118,7 @@ func (m Model) MAPoly() []float64 {
 	if m.Order().validate() != nil {
 		return nil
 	}
-	return poly.Mul(lagPoly(m.MA, 1), lagPoly(m.SMA, max(m.Period, 1)))
+	return m.maPoly()
 }
 
 // DiffPoly returns the differencing polynomial (1-B)^D (1-B^s)^SD.
@@ -134,8 +143,7 @@ func diffPoly(d, sd, s int) []float64 {
 // lies strictly inside the unit circle, and returns the offending roots
 // (|z| >= 1) otherwise. The differencing is not part of this check. It
 // returns false and an *ArgError for invalid orders (see ARPoly) or a NaN
-// or infinite coefficient, and an
-// error when the root finder fails.
+// or infinite coefficient, and an error when the root finder fails.
 func (m Model) Stationary() (bool, []complex128, error) {
 	if err := m.Order().validate(); err != nil {
 		return false, nil, err
@@ -143,7 +151,7 @@ func (m Model) Stationary() (bool, []complex128, error) {
 	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
 		return false, nil, err
 	}
-	bad, err := outside(m.ARPoly(), 0)
+	bad, err := outside(m.arPoly(), 0)
 	return err == nil && len(bad) == 0, bad, err
 }
 
@@ -157,7 +165,7 @@ func (m Model) Invertible() (bool, []complex128, error) {
 	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
 		return false, nil, err
 	}
-	bad, err := outside(m.MAPoly(), 0)
+	bad, err := outside(m.maPoly(), 0)
 	return err == nil && len(bad) == 0, bad, err
 }
 
@@ -170,7 +178,7 @@ func (m Model) Psi(n int) ([]float64, error) {
 	if err := m.Order().validate(); err != nil {
 		return nil, err
 	}
-	return Psi(poly.Mul(m.ARPoly(), m.DiffPoly()), m.MAPoly(), n)
+	return Psi(poly.Mul(m.arPoly(), diffPoly(m.D, m.SD, m.Period)), m.maPoly(), n)
 }
 
 // Pi returns the first n pi weights of the stationary part (differencing
@@ -180,7 +188,7 @@ func (m Model) Pi(n int) ([]float64, error) {
 	if err := m.Order().validate(); err != nil {
 		return nil, err
 	}
-	return Pi(m.ARPoly(), m.MAPoly(), n)
+	return Pi(m.arPoly(), m.maPoly(), n)
 }
 
 // Noise returns the model's noise term as named factors, the form used in
@@ -241,7 +249,7 @@ func (m Model) Constant() float64 {
 	if m.Order().validate() != nil {
 		return math.NaN()
 	}
-	return poly.EvalReal(m.ARPoly(), 1) * m.Mean
+	return poly.EvalReal(m.arPoly(), 1) * m.Mean
 }
 
 // finiteCoefs returns an *ArgError naming part when a coefficient of any

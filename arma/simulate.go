@@ -57,7 +57,7 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 	if err := m.validate(); err != nil {
 		return nil, err
 	}
-	ar, ma, diff := m.ARPoly(), m.MAPoly(), m.DiffPoly()
+	ar, ma, diff := m.arPoly(), m.maPoly(), diffPoly(m.D, m.SD, m.Period) // orders checked by validate
 	burn := 0
 	var a []float64
 	if set.Innovations != nil {
