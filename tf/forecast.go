@@ -96,9 +96,9 @@ type Forecast struct {
 // estimate is sigma^2. Point forecasts set future innovations to zero
 // and integrate the differencing with the observed outputs.
 //
-// Errors: *ArgError for h < 1 or h > MaxHorizon, or a Level outside (0, 1); *FitError
-// (BadFuture) for a Future shorter than h, *SampleError for a non-finite
-// future value; the data errors of Fit.
+// Errors: *ArgError for h < 1 or h > MaxHorizon, or a Level outside
+// (0, 1); *FitError (BadFuture) for a Future shorter than h,
+// *SampleError for a non-finite future value; the data errors of Fit.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis, 5th ed., Wiley: the chapter on
