@@ -247,7 +247,7 @@ func FitNoise(ctx context.Context, y []float64, noise Noise, diff []float64, opt
 		return nil, &ArgError{Arg: "diff", Msg: "degree " + itoa(d) + " above MaxLag = " + itoa(MaxLag)}
 	}
 	diff = diff[:d+1] // trailing zeros would only cost time
-	return fitCore(ctx, y, noise.Clone(), diff, poly.Degree(diff) > 0, opt, nil)
+	return fitCore(ctx, y, noise.Clone(), diff, d > 0, opt, nil)
 }
 
 type coefRef struct {

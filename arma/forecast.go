@@ -11,11 +11,12 @@ import (
 // MaxHorizon is the largest number of steps accepted by Result.Forecast
 // and of weights by Psi and Pi. A forecast costs O(steps m^2) time and
 // O(steps m) memory for a stationary part of state dimension m (at most
-// MaxLag+1), so 2^16 steps take milliseconds for low orders and about 15
-// s and 130 MiB at m = 257 (where the filter over the data, which does
-// not depend on steps, takes longer still); it is far past the horizon at which a stationary forecast has
-// settled on the mean and an integrated one's interval has stopped being
-// informative. Without the bound a horizon of 1<<40 exhausted memory.
+// MaxLag+1), so 2^16 steps take milliseconds for low orders and about
+// 15 s and 130 MiB at m = 257 (where the filter over the data, which does
+// not depend on steps, takes longer still). That is far past the horizon
+// at which a stationary forecast has settled on the mean and an
+// integrated one's interval has stopped being informative. Without the
+// bound a horizon of 1<<40 exhausted memory.
 const MaxHorizon = 1 << 16
 
 // Forecast holds forecasts of the series h = 1..H steps after its last
