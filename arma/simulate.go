@@ -41,11 +41,11 @@ type SimSettings struct {
 // (an integrated series has no stationary distribution).
 //
 // Errors: *ArgError for n < 0, n plus the burn-in above MaxSamples,
-// non-finite coefficients, Innovations of
-// the wrong length or, when a burn-in is requested, an AR part that is
-// not stationary (the message gives the offending roots); *DataError
-// (Series "innovations", with the index) for a NaN or infinite
-// innovation.
+// non-finite coefficients, Innovations of the wrong length, when a
+// burn-in is requested an AR part that is not stationary (the message
+// gives the offending roots), and a simulated series that overflows
+// float64 (the message gives the first sample); *DataError (Series
+// "innovations", with the index) for a NaN or infinite innovation.
 func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 	var set SimSettings
 	if s != nil {
