@@ -185,12 +185,15 @@ func TestHostileOverflow(t *testing.T) {
 	checkHostile(t, []hostileCase{
 		// 10^309 overflows: weight 309 of 1/(1 - 10B) is the first +Inf.
 		{"Psi explosive", catch(func() error { _, err := Psi([]float64{1, -10}, nil, 400); return err }), "arg", "ar: weight 309 overflows"},
+		// By hand: the pi weights of 1/(1 - 2B) are 2^j, and 2^1024 is the
+		// first power of two above MaxFloat64 = (2 - 2^-52) 2^1023.
 		{"Pi non-invertible", catch(func() error { _, err := Pi([]float64{1}, []float64{1, -2}, 2000); return err }), "arg", "ma: weight 1024 overflows"},
 		{"Model.Psi explosive", catch(func() error { _, err := (Model{AR: []float64{10}}).Psi(400); return err }), "arg", "weight 309 overflows"},
 		{"Simulate explosive", catch(func() error {
 			_, err := Simulate(Model{AR: []float64{1.5}, Sigma2: 1}, 5000, &SimSettings{BurnIn: -1})
 			return err
 		}), "arg", "model: simulated series overflows at sample"},
+		// By hand: with D = 2, y_1 = w_1 + 2 y_0 holds about 3e308.
 		{"Simulate huge mean", catch(func() error { _, err := Simulate(Model{Mean: 1e308, D: 2, Sigma2: 1}, 50, nil); return err }), "arg", "overflows at sample 1 "},
 		{"Forecast explosive", fc1000(res), "arg", "steps: forecast overflows at step"},
 	})
@@ -218,6 +221,7 @@ func TestHostileStructs(t *testing.T) {
 		_ = ARFit{Order: -1}.Poly()
 		return nil
 	})
+	// By hand: e_1 = x_1 - 0.5 x_0 = 2 - 0.5 = 1.5 (Mean 0).
 	if err != nil || len(poly) != 3 || poly[1] != -0.5 || poly[2] != -0.2 || !math.IsNaN(resid[0]) || resid[1] != 1.5 {
 		t.Errorf("hand-built ARFit: err %v, Poly %v, Residuals %v; want {1, -0.5, -0.2} and {NaN, 1.5}", err, poly, resid)
 	}
@@ -240,7 +244,9 @@ func TestHostileStructs(t *testing.T) {
 }
 
 // The overflow step is the first non-finite value of any field: here the
-// interval overflows (step 324) long before the mean (step 647).
+// interval overflows long before the mean (by hand, for phi1 = 3: the mean
+// grows as 3^h and overflows near h = 308/log10(3) = 646, the variance
+// sums 9^j and overflows near half that).
 func TestHostileForecastFirstStep(t *testing.T) {
 	_, res := hostileExplosive(t)
 	f, err := res.Forecast(1000, 0, nil)
@@ -257,7 +263,8 @@ func TestHostileForecastFirstStep(t *testing.T) {
 	}
 }
 
-// TestHostileScale: a series scaled to 1e-200 (squares underflow) gave
+// TestHostileScale: a series scaled to 1e-200 (by hand: squares near
+// 1e-400, below the smallest subnormal float64, 4.9e-324, so they are 0) gave
 // Sigma2 = 0 and LogLik = +Inf without an error, and a diff coefficient
 // of 1e300 gave Sigma2 = +Inf.
 func TestHostileScale(t *testing.T) {
