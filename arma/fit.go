@@ -553,7 +553,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	res.Sigma2 = f / float64(e.m)
 	switch {
 	case res.Sigma2 == 0:
-		return nil, &ArgError{Arg: seriesName(o.Name), Msg: "residual sum of squares is 0: the model fits exactly or the samples are too small for their squares (below about 1e-150); rescale the series"}
+		return nil, &ArgError{Arg: seriesName(o.Name), Msg: "residual sum of squares is 0: the model fits exactly or the residuals are too small for their squares (below about 1e-162, whose square is under the smallest float64); rescale the series"}
 	case !(res.Sigma2 < math.Inf(1)):
 		return nil, &ArgError{Arg: seriesName(o.Name), Msg: "residual sum of squares overflows: a diff or Fixed coefficient too large for the series' scale"}
 	}
