@@ -5,8 +5,9 @@ import (
 	"math"
 	"math/big"
 	"math/rand/v2"
-	"strconv"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // naiveCross is the definition written out, for the agreement checks.
@@ -92,15 +93,14 @@ func TestCrossAgainstR(t *testing.T) {
 	// sides sum the same 200 products in double precision.
 	cols := readColumns(t, "../testdata/ccf/series.csv", "x", "y", "z")
 	series := map[byte][]float64{'x': cols[0], 'y': cols[1], 'z': cols[2]}
-	_, rows := readCSV(t, "../testdata/ccf/ccf.csv")
+	ref := testutil.ReadCSV(t, "testdata/ccf/ccf.csv", "pair")
+	lags, rs := ref.Column(t, "lag"), ref.Column(t, "r")
 	want := map[string]map[int]float64{}
-	for _, row := range rows {
-		lag, _ := strconv.Atoi(row[1])
-		v, _ := strconv.ParseFloat(row[2], 64)
-		if want[row[0]] == nil {
-			want[row[0]] = map[int]float64{}
+	for i, pair := range ref.Text["pair"] {
+		if want[pair] == nil {
+			want[pair] = map[int]float64{}
 		}
-		want[row[0]][lag] = v
+		want[pair][int(lags[i])] = rs[i]
 	}
 	for pair, w := range want {
 		for _, m := range []Method{Direct, FFT, Auto} {

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // TestDistributedLagAgainstR compares the joint distributed-lag fit with
@@ -20,11 +22,10 @@ import (
 // nearly orthogonal to the weights).
 func TestDistributedLagAgainstR(t *testing.T) {
 	cols := readColumns(t, "../testdata/ccf/ltf_series.csv", "x1", "x2", "y")
-	_, rows := readCSV(t, "../testdata/ccf/ltf_fit.csv")
+	ref := testutil.ReadCSV(t, "testdata/ccf/ltf_fit.csv", "name")
 	est, se := map[string]float64{}, map[string]float64{}
-	for _, r := range rows {
-		est[r[0]], _ = strconv.ParseFloat(r[1], 64)
-		se[r[0]], _ = strconv.ParseFloat(r[2], 64)
+	for i, name := range ref.Text["name"] {
+		est[name], se[name] = ref.Column(t, "estimate")[i], ref.Column(t, "se")[i]
 	}
 	res, err := DistributedLag(cols[2], [][]float64{cols[0], cols[1]}, &DistributedLagSettings{Lags: 8, Names: []string{"x1", "x2"}})
 	if err != nil {
