@@ -102,6 +102,9 @@ func TestCrossAgainstR(t *testing.T) {
 		}
 		want[pair][int(lags[i])] = rs[i]
 	}
+	if len(want) != 3 {
+		t.Fatalf("ccf.csv holds %d series pairs, want 3 (xy, yx, zy)", len(want))
+	}
 	for pair, w := range want {
 		for _, m := range []Method{Direct, FFT, Auto} {
 			c, err := Cross(series[pair[0]], series[pair[1]], 20, &Settings{Method: m})
