@@ -1,7 +1,9 @@
 package tf
 
 import (
+	"fmt"
 	"math"
+	"strings"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
@@ -77,7 +79,15 @@ type Diagnostics struct {
 	Residual ResidualCheck
 	// Cross holds one check per input, in the model's order.
 	Cross []CrossCheck
-	// Pass reports whether every check passed.
+	// Failures lists, in words, every reason the model must not be
+	// trusted: the fit did not converge, a standard error is not
+	// available, a serious warning of the estimate (WarningKind.Serious:
+	// roots on or outside the unit circle, too few residuals, an
+	// unexplained start-up transient, ...), and every failed check.
+	// Empty when the model passes.
+	Failures []string
+	// Pass reports whether every check passed and the estimate itself
+	// is sound: len(Failures) == 0.
 	Pass bool
 }
 
@@ -170,7 +180,42 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 		d.Pass = d.Pass && cc.Pass
 		d.Cross = append(d.Cross, cc)
 	}
+	d.Failures = append(chkEstimateFailures(e), d.Failures...)
+	if !d.Residual.Pass {
+		d.Failures = append(d.Failures, fmt.Sprintf("the residuals are autocorrelated (Ljung-Box p = %s below %s)", fitNum(d.Residual.P, 3), fitNum(set.Alpha, 3)))
+	}
+	for _, cc := range d.Cross {
+		if !cc.Pass {
+			d.Failures = append(d.Failures, fmt.Sprintf("the residuals correlate with input %q (p = %s below %s)", cc.Input, fitNum(cc.P, 3), fitNum(set.Alpha, 3)))
+		}
+	}
+	d.Pass = len(d.Failures) == 0
 	return d, nil
+}
+
+// chkEstimateFailures lists what makes e itself untrustworthy, whatever
+// its residuals look like: no convergence, standard errors that are not
+// finite and positive, and the serious warnings.
+func chkEstimateFailures(e *Estimate) []string {
+	var out []string
+	if !e.Converged {
+		out = append(out, "the fit did not converge ("+e.Reason+")")
+	}
+	var bad []string
+	for _, p := range e.Params {
+		if !(p.SE > 0) || math.IsInf(p.SE, 0) {
+			bad = append(bad, p.Name)
+		}
+	}
+	if len(bad) > 0 {
+		out = append(out, "no standard error for "+strings.Join(bad, ", "))
+	}
+	for _, w := range e.Warnings {
+		if w.Kind.Serious() && w.Kind != NotConverged && w.Kind != BadStandardError {
+			out = append(out, w.Message)
+		}
+	}
+	return out
 }
 
 // chkFreeNames returns the distinct free parameter names of the polys.
@@ -191,7 +236,7 @@ func chkFreeNames(ps ...Poly) []string {
 // chkResiduals returns the residuals of e's model on data (aligned to
 // the data index, zero before first) and the first residual index.
 func chkResiduals(e *Estimate, data map[string][]float64) ([]float64, int, error) {
-	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First})
+	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, 0, err
 	}

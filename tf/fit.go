@@ -92,6 +92,10 @@ type Conditioning struct {
 	// NoiseStart + p (p the degree of phi(B)), or FitSettings.First when
 	// larger.
 	First int
+	// ZeroPreSample reports that inputs were taken as zero before their
+	// first sample (FitSettings.ZeroPreSample) instead of held at it.
+	// Check and Forecast recompute residuals with the same convention.
+	ZeroPreSample bool
 }
 
 // Param is one estimated parameter.
@@ -500,7 +504,7 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	}
 	p := w.ar.Degree()
 	t0 := max(ts+p, set.First)
-	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0}
+	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample}
 	nres := n - t0
 	if nres <= len(w.names) {
 		return nil, &FitError{Problem: TooFewObservations, Series: m.Output, Len: max(nres, 0), Want: len(w.names) + 1,

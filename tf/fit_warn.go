@@ -31,7 +31,31 @@ const (
 	// SingularInformation: J'J is singular at the estimate, so standard
 	// errors do not exist (an unidentifiable parameter).
 	SingularInformation
+	// StartupTransient: the residuals at the start of the sum of squares
+	// are far larger than the rest, a start-up transient that the
+	// pre-sample convention does not explain (an input that was not
+	// settled at its first value); FitSettings.Settle or a larger
+	// FitSettings.First leaves it out.
+	StartupTransient
+	// FewResiduals: the number of residuals is small against the number
+	// of free coefficients, so the estimates and their standard errors
+	// are unreliable.
+	FewResiduals
+	// SlowPole: an estimated input pole or noise AR root is so slow that
+	// the record covers few of its time constants, so the gain and the
+	// time constant are poorly determined.
+	SlowPole
+	// BadStandardError: a standard error is NaN, infinite or zero.
+	BadStandardError
 )
+
+// Serious reports whether a warning of this kind means the estimate must
+// not be trusted (for control work or forecasts): every kind except
+// CancellingRoots and HighCorrelation, which point to a simpler model but
+// do not make the estimates wrong.
+func (k WarningKind) Serious() bool {
+	return k != CancellingRoots && k != HighCorrelation
+}
 
 // Thresholds of the warnings (common practice, not from a source).
 const (
@@ -65,6 +89,14 @@ func (k WarningKind) String() string {
 		return "not converged"
 	case SingularInformation:
 		return "singular information matrix"
+	case StartupTransient:
+		return "start-up transient"
+	case FewResiduals:
+		return "few residuals"
+	case SlowPole:
+		return "pole too slow for the record"
+	case BadStandardError:
+		return "standard error not available"
 	}
 	return fmt.Sprintf("WarningKind(%d)", int(k))
 }

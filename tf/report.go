@@ -135,6 +135,12 @@ func (d *Diagnostics) String() string {
 			fmt.Fprintf(&b, "    outside -/+%s: %s\n", fitFixed(c.Band, 3), strings.Join(big, ", "))
 		}
 	}
+	if len(d.Failures) > 0 {
+		b.WriteString("  not to be trusted:\n")
+		for _, f := range d.Failures {
+			fmt.Fprintf(&b, "    - %s\n", f)
+		}
+	}
 	return b.String()
 }
 
