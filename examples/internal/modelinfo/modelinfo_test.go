@@ -50,3 +50,32 @@ func TestWrite(t *testing.T) {
 		}
 	}
 }
+
+func TestValidityOutside(t *testing.T) {
+	v := &Validity{Samples: 10, Ranges: map[string][2]float64{"valve": {40, 60}}}
+	if s := v.Outside("valve", 45, 55); s != "" {
+		t.Errorf("inside the range: got %q", s)
+	}
+	want := "valve runs over 30..85, outside the range 40..60 seen in the record the model was fitted to; the model is an extrapolation there"
+	if s := v.Outside("valve", 30, 85); s != want {
+		t.Errorf("outside:\n got %q\nwant %q", s, want)
+	}
+	if s := v.Outside("outdoor", -100, 100); s != "" {
+		t.Errorf("a series with no range: got %q", s)
+	}
+	if s := (*Validity)(nil).Outside("valve", 0, 1); s != "" {
+		t.Errorf("nil record: got %q", s)
+	}
+}
+
+func TestValidityWrite(t *testing.T) {
+	var b strings.Builder
+	v := &Validity{Samples: 20, Interval: "1 min", Ranges: map[string][2]float64{"valve": {40, 60}, "temp": {15, 21.5}},
+		Verdict: VerdictFailed, Failures: []string{"the fit did not converge"}, Forced: true}
+	v.Write(&b, "  ")
+	want := "  fitted to 20 samples every 1 min\n    temp seen from 15 to 21.5\n    valve seen from 40 to 60\n" +
+		"  verdict when saved: failed\n    - the fit did not converge\n  SAVED DESPITE THE FAILED CHECKS on request: do not use it for control work\n"
+	if b.String() != want {
+		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
+	}
+}
