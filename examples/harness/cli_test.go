@@ -345,3 +345,60 @@ func rawFile(t *testing.T, body string) string {
 
 // emptyFile returns the path of a file holding only white space.
 func emptyFile(t *testing.T) string { return rawFile(t, " \n") }
+
+// TestNoiseReport checks the noisy half of the summary: the band is
+// three standard deviations of the noise term, at least
+// PlantSettleBand; -noise 0 prints no noisy figures; a noise the loop
+// cannot take is blamed on the noise, not the plant; a band as wide as
+// the step is called out.
+//
+// The noise term of PlantSpec, (1 + 0.3 B)/(1 - 0.8 B) a, has psi
+// weights 1, 1.1 * 0.8^(k-1), so its variance is sd^2 (1 + 1.21/(1 -
+// 0.64)) = 4.3611 sd^2 (the variance of a linear process, Box, Jenkins,
+// Reinsel & Ljung 2015, sec. 3.1; by hand): 3 SD is 0.18789 at sd 0.03
+// (below 0.2, so the band is 0.2) and 0.62650 at sd 0.1. The tolerance
+// 1e-9 covers the psi weights left out of the sum (below 1e-8 each).
+func TestNoiseReport(t *testing.T) {
+	p, err := NewProcess(PlantSpec, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct{ sd, want float64 }{{0, 0.2}, {0.03, 0.2}, {0.1, 0.3 * math.Sqrt(1+1.21/0.36)}} {
+		if got := p.noiseBand(c.sd); math.Abs(got-c.want) > 1e-9 {
+			t.Errorf("noise band at sd %v: %v, want %v", c.sd, got, c.want)
+		}
+	}
+	var buf bytes.Buffer
+	if err := runWith(&buf, options{spec: PlantSpec, noise: 0}); err != nil || strings.Contains(buf.String(), "with the plant's noise") {
+		t.Errorf("-noise 0: %v\n%s", err, buf.String())
+	}
+	buf.Reset()
+	if err := runWith(&buf, options{spec: PlantSpec, noise: 0.1}); err != nil ||
+		!strings.Contains(buf.String(), "with the plant's noise (innovations SD 0.1 degC, seed 1), band +-0.63 degC:\n    first within the band") {
+		t.Errorf("-noise 0.1: %v\n%s", err, buf.String())
+	}
+	buf.Reset()
+	if err := runWith(&buf, options{spec: PlantSpec, noise: 5}); err != nil ||
+		!strings.Contains(buf.String(), "(the band is as wide as the 4 degC step: these figures say little)") {
+		t.Errorf("-noise 5: %v\n%s", err, buf.String())
+	}
+	buf.Reset()
+	err = runWith(&buf, options{spec: PlantSpec, noise: 1e300})
+	if err == nil || err.Error() != "harness: setpoint step 16 -> 20 degC: the closed loop diverged with noise" ||
+		!strings.Contains(buf.String(), "the noise-free run did not: the noise asked with -noise is more than this loop can take") ||
+		!strings.Contains(buf.String(), "licensed practice") {
+		t.Errorf("-noise 1e300: %v\n%s", err, buf.String())
+	}
+	// The fraction outside the band and the first entry, on a series
+	// with known answers (by hand).
+	y := []float64{17, 19.9, 20.5, 20.1, 19.7}
+	if k := firstWithin(y, 20, 0.2); k != 1 {
+		t.Errorf("first within: %d, want 1", k)
+	}
+	if f := fractionOutside(y[1:], 20, 0.2); f != 0.5 {
+		t.Errorf("outside: %v, want 0.5 (20.5 and 19.7 of 4)", f)
+	}
+	if k := firstWithin(y, 30, 0.2); k != -1 || timeText(entryTime(k, 1), 1) != "  not reached within the run" {
+		t.Errorf("never within: %d, %q", k, timeText(entryTime(k, 1), 1))
+	}
+}

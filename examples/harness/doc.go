@@ -32,6 +32,19 @@
 // step; it is 0 when the temperature never leaves the band, and "not
 // reached within the run" when it is outside the band at the end.
 //
+// # Noise
+//
+// Each scenario runs twice. The response figures (settling, overshoot,
+// steady-state error, peak deviation, recovery) come from the run
+// without noise, so that they judge the controller and not one noise
+// draw, nor the number of samples (the last exit from a noise band comes
+// later the more samples a run has). The run with the plant's noise
+// (-noise, the SD of the innovations) reports the first entry into the
+// band and the share of time outside it afterwards, with a band of three
+// standard deviations of the noise term (from its psi weights), at least
+// 0.2 degC. A noisy run that diverges when the noise-free one did not is
+// blamed on the noise.
+//
 // # What plant it runs
 //
 // The scenarios are written for the greenhouse, so the spec must have

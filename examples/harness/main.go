@@ -227,23 +227,33 @@ func runWith(w io.Writer, o options) error {
 	}
 	fmt.Fprintf(w, "  sampled every %s; the PI acts once a sample\n\n", pl.proc.model.Interval)
 
+	band := pl.proc.noiseBand(o.noise)
 	sc := SetpointStep()
-	sc.Spec, sc.NoiseSD = pl.spec, o.noise
-	tr, err := runWithPI(sc, u1)
+	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min)\n", sc.Name, tuneKc, tuneTi)
+	clean, noisy, err := pl.runBoth(w, sc, u1, o.noise)
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min):\n", sc.Name, tuneKc, tuneTi)
-	if diverged(w, tr, 20) {
-		fmt.Fprint(w, "\n"+caution)
-		return fmt.Errorf("harness: %s: the closed loop diverged", sc.Name)
+	k0 := clean.Index(sc.StepAt)
+	m := Measure(clean.Temp, k0, 16, 20, PlantSettleBand, ts)
+	fmt.Fprintf(w, "  without noise:\n")
+	fmt.Fprintf(w, "    settling to +-%.1f degC  %s\n", PlantSettleBand, timeText(m.Settling, ts))
+	fmt.Fprintf(w, "    overshoot               %5.1f %%\n", 100*m.Overshoot)
+	fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+	fmt.Fprintf(w, "    valve at its limit      %s\n", minutesText(float64(atLimit(clean.Valve))*ts, ts))
+	if noisy != nil {
+		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
+		if band >= 20-16 {
+			fmt.Fprintf(w, "    (the band is as wide as the 4 degC step: these figures say little)\n")
+		}
+		first := firstWithin(noisy.Temp[k0:], 20, band)
+		fmt.Fprintf(w, "    first within the band   %s\n", timeText(entryTime(first, ts), ts))
+		if first >= 0 {
+			fmt.Fprintf(w, "    outside it afterwards   %5.1f %% of the time\n", 100*fractionOutside(noisy.Temp[k0+first:], 20, band))
+		}
+		fmt.Fprintf(w, "    valve at its limit      %s\n", minutesText(float64(atLimit(noisy.Valve))*ts, ts))
 	}
-	m := Measure(tr.Temp, tr.Index(sc.StepAt), 16, 20, PlantSettleBand, ts)
-	fmt.Fprintf(w, "  settling to +-%.1f degC  %s\n", PlantSettleBand, timeText(m.Settling, ts))
-	fmt.Fprintf(w, "  overshoot               %5.1f %%\n", 100*m.Overshoot)
-	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
-	fmt.Fprintf(w, "  valve at its limit      %s\n", minutesText(float64(atLimit(tr.Valve))*ts, ts))
-	warnOutside(w, pl, tr)
+	warnOutside(w, pl, clean, noisy)
 
 	if !pl.proc.HasOutdoor() {
 		fmt.Fprintf(w, "%s: not run, the plant has no input outdoor\n", DisturbanceStep().Name)
@@ -251,26 +261,94 @@ func runWith(w io.Writer, o options) error {
 		return nil
 	}
 	sc = DisturbanceStep()
-	sc.Spec, sc.NoiseSD = pl.spec, o.noise
-	if tr, err = runWithPI(sc, u2); err != nil {
+	fmt.Fprintf(w, "%s\n", sc.Name)
+	if clean, noisy, err = pl.runBoth(w, sc, u2, o.noise); err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "%s:\n", sc.Name)
-	if diverged(w, tr, 18) {
-		fmt.Fprint(w, "\n"+caution)
-		return fmt.Errorf("harness: %s: the closed loop diverged", sc.Name)
-	}
-	m = Measure(tr.Temp, tr.Index(sc.StepAt), 18, 18, PlantSettleBand, ts)
-	fmt.Fprintf(w, "  peak deviation          %5.2f degC\n", m.PeakDeviation)
+	k0 = clean.Index(sc.StepAt)
+	m = Measure(clean.Temp, k0, 18, 18, PlantSettleBand, ts)
+	fmt.Fprintf(w, "  without noise:\n")
+	fmt.Fprintf(w, "    peak deviation          %5.2f degC\n", m.PeakDeviation)
 	back := timeText(m.Settling, ts)
 	if m.Settling == 0 {
 		back += " (never left the band)"
 	}
-	fmt.Fprintf(w, "  back within +-%.1f degC  %s\n", PlantSettleBand, back)
-	fmt.Fprintf(w, "  steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
-	warnOutside(w, pl, tr)
+	fmt.Fprintf(w, "    back within +-%.1f degC  %s\n", PlantSettleBand, back)
+	fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+	if noisy != nil {
+		mn := Measure(noisy.Temp, k0, 18, 18, band, ts)
+		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
+		fmt.Fprintf(w, "    peak deviation          %5.2f degC\n", mn.PeakDeviation)
+		fmt.Fprintf(w, "    outside the band        %5.1f %% of the time after the step\n", 100*fractionOutside(noisy.Temp[k0:], 18, band))
+	}
+	warnOutside(w, pl, clean, noisy)
 	fmt.Fprint(w, "\n"+caution)
 	return nil
+}
+
+// runBoth runs sc with the PI under test from valve u0, without noise
+// and, when sd > 0, with noise of innovation SD sd (noisy is then not
+// nil). A run that diverges is said on w, followed by the caution, and
+// returned as an error.
+func (pl *plant) runBoth(w io.Writer, sc Scenario, u0, sd float64) (clean Trace, noisy *Trace, err error) {
+	sc.Spec, sc.NoiseSD = pl.spec, 0
+	if clean, err = runWithPI(sc, u0); err != nil {
+		return Trace{}, nil, err
+	}
+	final := sc.Setpoint(sc.Minutes)
+	if diverged(w, clean, final, "an unstable plant, or a controller that destabilises it") {
+		fmt.Fprint(w, "\n"+caution)
+		return Trace{}, nil, fmt.Errorf("harness: %s: the closed loop diverged", sc.Name)
+	}
+	if sd == 0 {
+		return clean, nil, nil
+	}
+	sc.NoiseSD = sd
+	tr, err := runWithPI(sc, u0)
+	if err != nil {
+		return Trace{}, nil, err
+	}
+	if diverged(w, tr, final, "the noise-free run did not: the noise asked with -noise is more than this loop can take") {
+		fmt.Fprint(w, "\n"+caution)
+		return Trace{}, nil, fmt.Errorf("harness: %s: the closed loop diverged with noise", sc.Name)
+	}
+	return clean, &tr, nil
+}
+
+// firstWithin returns the first index at which y is within band of
+// target, or -1 when it never is.
+func firstWithin(y []float64, target, band float64) int {
+	for k, v := range y {
+		if math.Abs(v-target) <= band {
+			return k
+		}
+	}
+	return -1
+}
+
+// entryTime returns the time of sample k (min) for an interval of ts
+// min, or +Inf when k < 0 (the band was never reached: printed "not
+// reached").
+func entryTime(k int, ts float64) float64 {
+	if k < 0 {
+		return math.Inf(1)
+	}
+	return float64(k) * ts
+}
+
+// fractionOutside returns the fraction of y outside band of target (0
+// for an empty y).
+func fractionOutside(y []float64, target, band float64) float64 {
+	if len(y) == 0 {
+		return 0
+	}
+	n := 0
+	for _, v := range y {
+		if !(math.Abs(v-target) <= band) {
+			n++
+		}
+	}
+	return float64(n) / float64(len(y))
 }
 
 // resolve checks the options and returns the plant they give, or a
@@ -352,23 +430,30 @@ func failures(v *modelinfo.Validity) string {
 	return s
 }
 
-// warnOutside says on w when the run took the valve, the outdoor
+// warnOutside says on w when a run took the valve, the outdoor
 // temperature or the output outside the ranges of the record the model
 // was fitted to (a model loaded with a validity record), and says once
 // more that a model run on after failing its checks proves nothing.
-func warnOutside(w io.Writer, pl *plant, tr Trace) {
+// noisy may be nil.
+func warnOutside(w io.Writer, pl *plant, clean Trace, noisy *Trace) {
 	if pl.validity == nil {
 		return
 	}
-	for _, s := range []struct {
-		name string
-		x    []float64
-	}{{valveName, tr.Valve}, {outdoorName, tr.Outdoor}, {outputName, tr.Temp}} {
-		if s.name == outdoorName && !pl.proc.HasOutdoor() {
+	runs := []Trace{clean}
+	if noisy != nil {
+		runs = append(runs, *noisy)
+	}
+	for _, name := range []string{valveName, outdoorName, outputName} {
+		if name == outdoorName && !pl.proc.HasOutdoor() {
 			continue
 		}
-		lo, hi := span(s.x)
-		if msg := pl.validity.Outside(s.name, lo, hi); msg != "" {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, tr := range runs {
+			x := map[string][]float64{valveName: tr.Valve, outdoorName: tr.Outdoor, outputName: tr.Temp}[name]
+			a, b := span(x)
+			lo, hi = min(lo, a), max(hi, b)
+		}
+		if msg := pl.validity.Outside(name, lo, hi); msg != "" {
 			fmt.Fprintf(w, "  WARNING: %s\n", msg)
 		}
 	}
@@ -386,14 +471,13 @@ with independent safety interlocks; defer to local codes and licensed practice.
 
 // diverged reports, and says on w, when the temperature left any
 // plausible range (1000 degC from the setpoint sp, or not finite): the
-// loop is unstable with this controller or this plant, and settling
-// figures would be meaningless.
-func diverged(w io.Writer, tr Trace, sp float64) bool {
+// loop is unstable with this controller or this plant (the likely cause
+// is given by why), and response figures would be meaningless.
+func diverged(w io.Writer, tr Trace, sp float64, why string) bool {
 	for k, v := range tr.Temp {
 		if !(math.Abs(v-sp) <= 1000) {
 			fmt.Fprintf(w, "  the closed loop diverged: the temperature is %.3g degC at minute %s\n"+
-				"  (an unstable plant, or a controller that destabilises it); no response figures\n",
-				v, trimmed(tr.Time[k]))
+				"  (%s); no response figures\n", v, trimmed(tr.Time[k]), why)
 			return true
 		}
 	}

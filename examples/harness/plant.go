@@ -297,6 +297,33 @@ func (p *Process) ValveFor(sp, out float64) float64 {
 	return (sp - p.c - p.gainO*out) / p.gainV
 }
 
+// noiseBand returns the half-width (degC) of the band that the plant's
+// noise, of innovation SD sd, keeps the temperature in at a steady
+// setpoint: three standard deviations of the noise term theta(B)/phi(B)
+// a_t (sd times the root of the sum of its squared psi weights, the
+// variance of a linear process: Box, Jenkins, Reinsel & Ljung, 2015,
+// sec. 3.1), and at least PlantSettleBand. The psi weights are summed
+// until the slowest pole's have decayed below 1e-8 (their squares below
+// 1e-16 of the first), at most a million.
+func (p *Process) noiseBand(sd float64) float64 {
+	if sd == 0 || p.model.Noise == nil {
+		return PlantSettleBand
+	}
+	r, err := p.model.NoiseRational()
+	if err != nil || !r.Stable() {
+		return PlantSettleBand // refused earlier: no burn-in without a stationary noise model
+	}
+	n := 1000
+	if rho := r.MaxPoleMagnitude(); rho > 0 {
+		n = max(n, min(int(math.Ceil(math.Log(1e-8)/math.Log(rho))), 1_000_000))
+	}
+	ss := 0.0
+	for _, v := range r.Impulse(n) {
+		ss += v * v
+	}
+	return max(PlantSettleBand, 3*sd*math.Sqrt(ss))
+}
+
 // startValve returns the valve opening that holds the scenario's
 // starting point, or a *PlantError when that opening lies outside the
 // valve's travel (the plant cannot be at the starting point, and the
