@@ -5,24 +5,79 @@
 // The process is the greenhouse of the demo (air temperature driven by
 // the heating valve and the outdoor temperature), given as a spec string
 // and simulated sample by sample with seeded ARMA noise. A PI controller
-// in velocity form with output limits and anti-windup closes the loop.
-// Two scenarios run: a setpoint step (16 -> 20 degC at 06:00) and a
-// disturbance step (a cold front: outdoor temperature down by 8 degC).
-// The program prints settling time, overshoot, steady-state error and
-// peak deviation; harness_test.go asserts them, and that file is the
-// part to copy: replace the PI with your controller and the spec with
-// your identified model.
+// in velocity form with output limits and anti-windup closes the loop,
+// acting once a sample. Two scenarios run, six hours each: a setpoint
+// step (16 -> 20 degC at minute 60) and a disturbance step (a cold
+// front: outdoor temperature down by 8 degC at minute 60). The program
+// prints settling time, overshoot, steady-state error and peak
+// deviation; harness_test.go asserts them, and that file is the part to
+// copy: replace the PI with your controller and the spec with your
+// identified model.
 //
 //	go run ./examples/harness
-//	go run ./examples/harness -noise 0.03 -spec 'temp = 5.97 + 0.009989 / (1 - 0.9502 B) B^3 valve + ...'
+//	go run ./examples/harness -noise 0.03 -spec 'temp = 5.97 + 0.009989 / (1 - 0.9502 B) B^3 valve + ...; every 1 min'
+//	go run ./examples/harness -config fitted.json -model 'temp (identified)'
 //
 // The second form tests the controller on another model, such as the one
-// examples/identify prints for the demo record; it needs an input named
-// valve (%) and may have one named outdoor (degC).
+// examples/identify prints for the demo record; the third reads it from
+// a config file that examples/identify -save wrote.
+//
+// # Times
+//
+// Every time is in minutes of real time, from the spec's sample
+// interval: the scenarios' lengths and steps, the PI's sample time
+// (its integral time is 20 min whatever the interval), and the printed
+// settling times. A spec sampled every 10 s runs each scenario in 2160
+// samples. Settling is measured from the first sample at or after the
+// step; it is 0 when the temperature never leaves the band, and "not
+// reached within the run" when it is outside the band at the end.
+//
+// # Noise
+//
+// Each scenario runs twice. The response figures (settling, overshoot,
+// steady-state error, peak deviation, recovery) come from the run
+// without noise, so that they judge the controller and not one noise
+// draw, nor the number of samples (the last exit from a noise band comes
+// later the more samples a run has). The run with the plant's noise
+// (-noise, the SD of the innovations) reports the first entry into the
+// band and the share of time outside it afterwards, with a band of three
+// standard deviations of the noise term (from its psi weights), at least
+// 0.2 degC. A noisy run that diverges when the noise-free one did not is
+// blamed on the noise.
+//
+// # What plant it runs
+//
+// The scenarios are written for the greenhouse, so the spec must have
+// the output temp (degC, not differenced: every scenario starts from a
+// steady state), an input valve (%), optionally an input outdoor (degC)
+// and no other input (it would be held at 0: a misspelt name is refused
+// with the likely fix), every coefficient a number or held with
+// "where name = value" (a free coefficient has no known value), and a
+// sample interval "every ..." from 0.1 s to 2 min. The longest is a tenth
+// of the PI's integral time (common practice: sample a PI loop at least
+// ten times per integral time); the shortest keeps a scenario at 216 000
+// samples. The valve path must raise the temperature (a positive
+// steady-state gain when it is stable), and the scenarios' starting
+// points must need a valve opening within 0..100 %. Without an outdoor
+// input the disturbance scenario is not run, and the summary says so.
+//
+// # Models from a config file
+//
+// With -config the plant is the model entry of the file named by -model
+// (the only one, when the file holds one). When the entry carries the
+// record of the data it was fitted to (its "validity" object), the
+// summary prints the record and warns whenever a scenario takes the
+// valve, the outdoor temperature or temp outside the ranges seen in it:
+// the model is an extrapolation there. A model whose verdict was
+// "failed" when it was saved is refused, unless -use-failed-model asks
+// for it; the summary then says that its figures prove nothing.
+//
+// # Caution
 //
 // A model identified from data is an approximation valid near the
-// operating conditions of that data. A controller that passes these tests
-// must still be commissioned on site under the site's safety procedures,
-// with independent safety interlocks; defer to local codes and licensed
-// practice. The program says so at the end of its summary.
+// operating conditions of that data. A controller and a tuning that pass
+// these tests must still be commissioned on the plant itself under the
+// site's safety procedures, with independent safety interlocks; defer to
+// local codes and licensed practice. The program says so at the end of
+// its summary.
 package main

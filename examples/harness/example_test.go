@@ -38,7 +38,7 @@ func ExampleRun() {
 		fmt.Println(err)
 		return
 	}
-	fmt.Printf("valve before %.0f %%, temperature 60 min after the step %.2f degC\n", u0, tr.Temp[60+60])
+	fmt.Printf("valve before %.0f %%, temperature 60 min after the step %.2f degC\n", u0, tr.Temp[tr.Index(60+60)])
 	// Output:
 	// valve before 45 %, temperature 60 min after the step 19.98 degC
 }

@@ -2,124 +2,29 @@ package main
 
 import (
 	"fmt"
-
-	"github.com/backshift/backshift/parse"
-	"github.com/backshift/backshift/tf"
+	"math"
 )
 
-// PlantSpec is the process under test: the greenhouse air temperature
-// (degC) from the valve opening (%) and the outdoor temperature (degC),
-// as identified from data (here the demo's true model). Put your own
-// identified spec here.
-const PlantSpec = "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + 0.05 / (1 - 0.9 B) B outdoor + (1 + 0.3 B) / (1 - 0.8 B) a; every 1 min"
+// maxRunSamples bounds the length of a run (five traces of 8-byte
+// samples: 400 MB at the bound), so that a mistyped length fails at once
+// instead of exhausting memory.
+const maxRunSamples = 10_000_000
 
-// NoiseSD is the standard deviation of the innovations a_t of the
-// plant's noise term (degC), as estimated with the model.
-const NoiseSD = 0.03
-
-// PlantSettleBand is how far (degC) the noisy plant wanders from a
-// steady setpoint: about 3 standard deviations of the noise term
-// (1 + 0.3 B)/(1 - 0.8 B) a with sd(a) = NoiseSD, whose own standard
-// deviation is 2.09 NoiseSD (from the ARMA(1,1) variance formula).
-const PlantSettleBand = 0.2
-
-// Process is the simulated plant: a streaming tf.System built from a
-// spec with seeded noise, plus the model's numbers the tests need. The
-// spec must have an input named valve (%); an input named outdoor (degC)
-// is fed the scenario's outdoor temperature, and any other input is held
-// at 0.
-type Process struct {
-	sys          *tf.System
-	model        tf.Model
-	u            []float64 // input samples in the model's order
-	valve, out   int       // indices of valve and outdoor in u (-1: absent)
-	gainV, gainO float64
-	c            float64
-}
-
-// NewProcess parses spec and returns the process at rest, its noise of
-// innovation standard deviation sd (degC, 0 for none) drawn from seed
-// after a burn-in. It returns an error when the spec does not parse, has
-// no valve input, or has a path without a steady-state gain.
-func NewProcess(spec string, seed uint64, sd float64) (*Process, error) {
-	m, err := parse.Model(spec)
-	if err != nil {
-		return nil, err
-	}
-	p := &Process{model: m, valve: -1, out: -1, u: make([]float64, len(m.Inputs))}
-	if m.Const != nil {
-		p.c = m.Const.Value
-	}
-	for i, in := range m.Inputs {
-		r, err := in.Rational()
-		if err != nil {
-			return nil, err
-		}
-		g, err := r.Gain()
-		if err != nil {
-			return nil, fmt.Errorf("harness: input %s: %w", in.Series, err)
-		}
-		switch in.Series {
-		case "valve":
-			p.valve, p.gainV = i, g
-		case "outdoor":
-			p.out, p.gainO = i, g
-		}
-	}
-	if p.valve < 0 {
-		return nil, fmt.Errorf("harness: the plant spec has no input named valve: %s", spec)
-	}
-	set := &tf.SimSettings{Seed1: seed, Seed2: 1, Sigma: sd}
-	if sd > 0 {
-		set.BurnIn = 500
-	}
-	if p.sys, err = tf.NewSystem(m, set); err != nil {
-		return nil, err
-	}
-	return p, nil
-}
-
-// inputs fills p.u with the valve and outdoor samples.
-func (p *Process) inputs(valve, outdoor float64) []float64 {
-	p.u[p.valve] = valve
-	if p.out >= 0 {
-		p.u[p.out] = outdoor
-	}
-	return p.u
-}
-
-// SetSteady puts the plant at the steady state of constant inputs.
-func (p *Process) SetSteady(valve, outdoor float64) error {
-	return p.sys.SetSteady(p.inputs(valve, outdoor))
-}
-
-// Step applies the valve opening and outdoor temperature of the current
-// minute and returns the air temperature of that minute.
-func (p *Process) Step(valve, outdoor float64) float64 {
-	return p.sys.Step(p.inputs(valve, outdoor))
-}
-
-// Steady returns the noise-free steady-state temperature for constant
-// inputs.
-func (p *Process) Steady(valve, outdoor float64) float64 {
-	return p.c + p.gainV*valve + p.gainO*outdoor
-}
-
-// ValveFor returns the valve opening that holds temp at sp with the
-// outdoor temperature out, by the model's gains (it may lie outside
-// 0..100 % when the heating cannot do it).
-func (p *Process) ValveFor(sp, out float64) float64 {
-	return (sp - p.c - p.gainO*out) / p.gainV
-}
-
-// Scenario is one closed-loop test.
+// Scenario is one closed-loop test. Its times are in minutes; Run turns
+// them into samples with the plant's sample interval (the spec's
+// "every"), so that a plant sampled every 10 s runs the same hours as
+// one sampled every minute, in six times as many samples.
 type Scenario struct {
-	Name    string
-	Minutes int
+	Name string
+	// Minutes is the length of the run (min).
+	Minutes float64
+	// StepAt is the time (min) of the scenario's step; the response is
+	// measured from the first sample at or after it (Trace.Index).
+	StepAt float64
 	// Setpoint and Outdoor give the setpoint (degC) and the outdoor
-	// temperature (degC) at minute k.
-	Setpoint func(k int) float64
-	Outdoor  func(k int) float64
+	// temperature (degC) at time t (min from the start of the run).
+	Setpoint func(t float64) float64
+	Outdoor  func(t float64) float64
 	// Seed seeds the process noise and NoiseSD is the standard deviation
 	// of its innovations (degC); zero NoiseSD gives a noise-free run.
 	Seed    uint64
@@ -135,24 +40,49 @@ func (sc Scenario) spec() string {
 	return sc.Spec
 }
 
-// Controller is what the harness tests: anything that, once a minute,
+// Controller is what the harness tests: anything that, once a sample,
 // turns the setpoint and the latest measurement (degC) into a valve
 // opening (%).
 type Controller interface {
 	Update(setpoint, measurement float64) float64
 }
 
-// Trace is the record of a closed-loop run, one value a minute.
+// Trace is the record of a closed-loop run, one value a sample.
 type Trace struct {
+	// Interval is the sample interval (min).
+	Interval float64
+	// Time is the time of each sample (min from the start of the run).
+	Time                           []float64
 	Setpoint, Temp, Valve, Outdoor []float64
 }
 
-// Run closes the loop for sc.Minutes minutes: at each minute the
-// controller sets the valve from the setpoint and the previous minute's
-// measurement, then the process advances one minute. The process starts
-// at steady state with the valve at u0 and the outdoor temperature of
-// minute 0; the controller should start at u0 too. The valve is clamped
-// to 0..100 % whatever the controller asks (the actuator's travel).
+// Index returns the first sample at or after time t (min), or len(Time)
+// when the run ends before t.
+func (tr Trace) Index(t float64) int {
+	for k, v := range tr.Time {
+		if v >= t {
+			return k
+		}
+	}
+	return len(tr.Time)
+}
+
+// sampleTime returns the time (min) of sample k for a sample interval of
+// sec seconds. It multiplies in seconds and divides by 60 last, so that
+// a time that is a whole number of minutes is exact (k*10 s = 3600 s
+// gives 60 min exactly, where k*(10/60) min gives 59.99999999999999)
+// and the scenario's step falls on the sample Trace.Index finds.
+func sampleTime(k int, sec float64) float64 { return float64(k) * sec / 60 }
+
+// Run closes the loop for sc.Minutes minutes: at each sample the
+// controller sets the valve from the setpoint and the previous sample's
+// measurement, then the process advances one sample of the spec's
+// interval. The process starts at steady state with the valve at u0 and
+// the outdoor temperature of time 0; the controller should start at u0
+// too. The valve is clamped to 0..100 % whatever the controller asks
+// (the actuator's travel). Errors are NewProcess's, SetSteady's for a
+// starting point the plant has no steady state for, and an error for a
+// length that is not positive or above maxRunSamples samples.
 func Run(sc Scenario, c Controller, u0 float64) (Trace, error) {
 	p, err := NewProcess(sc.spec(), sc.Seed, sc.NoiseSD)
 	if err != nil {
@@ -161,19 +91,43 @@ func Run(sc Scenario, c Controller, u0 float64) (Trace, error) {
 	if err := p.SetSteady(u0, sc.Outdoor(0)); err != nil {
 		return Trace{}, err
 	}
+	if !(sc.Minutes > 0) || sc.Minutes/p.ts > maxRunSamples {
+		return Trace{}, fmt.Errorf("harness: scenario %q: Minutes = %v, want a length above 0 of at most %d samples (%.4g min at this plant's interval)",
+			sc.Name, sc.Minutes, maxRunSamples, maxRunSamples*p.ts)
+	}
+	sec := p.ts * 60
+	n := 0
+	for sampleTime(n, sec) < sc.Minutes {
+		n++
+	}
 	tr := Trace{
-		Setpoint: make([]float64, sc.Minutes),
-		Temp:     make([]float64, sc.Minutes),
-		Valve:    make([]float64, sc.Minutes),
-		Outdoor:  make([]float64, sc.Minutes),
+		Interval: p.ts,
+		Time:     make([]float64, n),
+		Setpoint: make([]float64, n),
+		Temp:     make([]float64, n),
+		Valve:    make([]float64, n),
+		Outdoor:  make([]float64, n),
 	}
 	y := p.Steady(u0, sc.Outdoor(0))
-	for k := range sc.Minutes {
-		sp := sc.Setpoint(k)
+	for k := range n {
+		t := sampleTime(k, sec)
+		sp := sc.Setpoint(t)
 		u := min(max(c.Update(sp, y), 0), 100)
-		out := sc.Outdoor(k)
+		out := sc.Outdoor(t)
 		y = p.Step(u, out)
-		tr.Setpoint[k], tr.Temp[k], tr.Valve[k], tr.Outdoor[k] = sp, y, u, out
+		tr.Time[k], tr.Setpoint[k], tr.Temp[k], tr.Valve[k], tr.Outdoor[k] = t, sp, y, u, out
 	}
 	return tr, nil
+}
+
+// span returns the smallest and largest of x (NaN, NaN for none).
+func span(x []float64) (lo, hi float64) {
+	if len(x) == 0 {
+		return math.NaN(), math.NaN()
+	}
+	lo, hi = x[0], x[0]
+	for _, v := range x[1:] {
+		lo, hi = min(lo, v), max(hi, v)
+	}
+	return lo, hi
 }

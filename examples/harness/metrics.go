@@ -4,41 +4,51 @@ import "math"
 
 // StepMetrics describes how a closed-loop variable answered a step: the
 // time it took to enter and stay within a band around its final value,
-// how far it went past the final value, and the remaining error.
+// how far it went past the final value, and the remaining error. Every
+// field is defined for every record; a value that the record cannot
+// give is +Inf or NaN as documented, and the summary prints it as "not
+// reached".
 type StepMetrics struct {
-	// Settling is the time (minutes) from the step until the variable
-	// enters and stays within Band of the target; +Inf when it never
-	// settles within the record.
+	// Settling is the time (in the unit of the sample interval ts given
+	// to Measure) from the step until the variable enters and stays
+	// within the band of the target: 0 when it never leaves the band
+	// after the step, +Inf when it is outside the band at the end of the
+	// record (not reached within the run), NaN when the record has no
+	// sample at or after the step.
 	Settling float64
 	// Overshoot is the largest excursion past the target, as a fraction
-	// of the step size (0 when there is none).
+	// of the step size (0 when there is none); NaN when the target does
+	// not change (a disturbance step has no step size to compare with:
+	// see PeakDeviation) or there is no sample after the step.
 	Overshoot float64
 	// SteadyError is the mean of target - variable over the last
-	// quarter of the record after the step.
+	// quarter of the record after the step (at least its last sample);
+	// NaN when there is no sample after the step.
 	SteadyError float64
 	// PeakDeviation is the largest |target - variable| after the step
-	// (for a disturbance step: how far the disturbance pushed it).
+	// (for a disturbance step: how far the disturbance pushed it); NaN
+	// when there is no sample after the step.
 	PeakDeviation float64
 }
 
 // Measure computes StepMetrics for y answering a change of its target
-// from before to after at sample k0, with sample interval ts (minutes)
-// and band the half-width of the settling band in y's units. y is not
-// modified.
+// from before to after at sample k0, with sample interval ts and band
+// the half-width of the settling band in y's units. y is not modified.
 func Measure(y []float64, k0 int, before, after, band, ts float64) StepMetrics {
-	m := StepMetrics{Settling: math.Inf(1)}
+	nan := math.NaN()
 	if k0 < 0 || k0 >= len(y) {
-		return m
+		return StepMetrics{Settling: nan, Overshoot: nan, SteadyError: nan, PeakDeviation: nan}
 	}
+	var m StepMetrics
 	size := after - before
 	dir := 1.0
 	if size < 0 {
 		dir = -1
 	}
-	last := -1 // last sample outside the band
+	last := k0 - 1 // last sample outside the band; k0 - 1: none after the step
 	for k := k0; k < len(y); k++ {
 		dev := y[k] - after
-		if math.Abs(dev) > band {
+		if !(math.Abs(dev) <= band) {
 			last = k
 		}
 		m.PeakDeviation = math.Max(m.PeakDeviation, math.Abs(dev))
@@ -46,8 +56,12 @@ func Measure(y []float64, k0 int, before, after, band, ts float64) StepMetrics {
 			m.Overshoot = math.Max(m.Overshoot, dir*dev/math.Abs(size))
 		}
 	}
-	if last < len(y)-1 {
-		m.Settling = float64(last+1-k0) * ts
+	if size == 0 {
+		m.Overshoot = nan
+	}
+	m.Settling = float64(last+1-k0) * ts
+	if last == len(y)-1 {
+		m.Settling = math.Inf(1)
 	}
 	tail := y[k0+3*(len(y)-k0)/4:]
 	for _, v := range tail {
