@@ -125,11 +125,15 @@ func (b *builder) syntax(toks []lexer.Token, err error, stop int) {
 // hint when a reserved word seems to be written in the wrong case.
 func syntaxMessage(toks []lexer.Token, i int) string {
 	msg := syntaxReason(toks, i)
-	for _, t := range toks[:i+1] {
+	for k, t := range toks[:i+1] {
 		if t.Type != tokIdent {
 			continue
 		}
 		switch {
+		case (t.Value == "z" || t.Value == "q") && k+1 < len(toks) && toks[k+1].Value == "^":
+			return msg + " (the backshift operator is written B: B^3 x is x three samples back, what z^-3 or q^-3 means)"
+		case strings.EqualFold(t.Value, "ARIMA") || strings.EqualFold(t.Value, "SARIMA"):
+			return msg + " (" + t.Value + " is not a shorthand: write the differencing before the output name and the noise as ARMA(p, q), as in (1 - B) y = w0 B x + ARMA(1, 1))"
 		case t.Value == "b":
 			return msg + " (the backshift operator is written B, upper case)"
 		case strings.EqualFold(t.Value, "where") || strings.EqualFold(t.Value, "every"):
@@ -214,6 +218,9 @@ func syntaxReason(toks []lexer.Token, i int) string {
 	switch region {
 	case inLeft:
 		if hasPrev && prev.Type == tokIdent {
+			if isP(cur, "(") {
+				return "expected '=' after the output name " + pv + ", found " + found + " (write a series by its name alone: " + pv + ", not " + pv + "(t))"
+			}
 			return "expected '=' after the output name " + pv + ", found " + found
 		}
 		if cur.Type == tokKeyword && cur.Value != "where" && cur.Value != "every" {
@@ -226,6 +233,9 @@ func syntaxReason(toks []lexer.Token, i int) string {
 		}
 		if hasPrev && isP(prev, "*") {
 			return "expected a factor after '*', found " + found
+		}
+		if isP(cur, ",") {
+			return "expected '+', '-', where, every or the end of the spec after a term, found ',' (join terms with '+'; put where and every after a space or ';')"
 		}
 		return "expected '+', '-', where, every or the end of the spec after a term, found " + found
 	case inWhere:
@@ -243,7 +253,7 @@ func syntaxReason(toks []lexer.Token, i int) string {
 		case hasPrev && (prev.Value == "every" || isP(prev, "-")):
 			return "expected the sample interval as a number and a unit, as in every 30 s; found " + found
 		case hasPrev && prev.Type == tokNumber:
-			return "expected a unit (s, min, h or d) after the sample interval, found " + found
+			return "expected a unit after the sample interval " + clip(pv) + ", as in every " + clip(pv) + " min (units: s, min, h, d); found " + found
 		}
 		return "expected where, every or the end of the spec after the sample interval, found " + found
 	}
