@@ -167,3 +167,20 @@ func TestCheckGoodSpecs(t *testing.T) {
 		}
 	}
 }
+
+// TestMarshalRefusesInvalid checks that a Spec holding a model a spec
+// cannot say is not written: a negative dead time would print without
+// its B^k and read back as another model.
+func TestMarshalRefusesInvalid(t *testing.T) {
+	m := codeModel()
+	m.Inputs[0].Delay = -1
+	_, err := Spec{Model: m}.MarshalText()
+	var e *Error
+	if !errors.As(err, &e) || e.Path != "Inputs[0].Delay" {
+		t.Errorf("got %v", err)
+	}
+	b, err := Spec{Model: codeModel()}.AppendText([]byte("x: "))
+	if err != nil || string(b) != "x: "+codeModel().String() {
+		t.Errorf("valid model: %q, %v", b, err)
+	}
+}
