@@ -192,6 +192,9 @@ func (b *builder) term(t *gTerm, first bool) {
 		b.input(t, items[:len(items)-1], last.Name, tf.Poly{})
 	case last.Group != nil && isDiffTarget(last.Group):
 		b.diffInput(t, items[:len(items)-1], last.Group)
+	case len(items) >= 2 && items[len(items)-2].Name != "" && last.Group != nil && startsWithT(last.Group):
+		series := items[len(items)-2].Name
+		b.fail(last.Pos, ErrModel, "a series is written by its name alone, not "+series+"(t ...); x three samples back is B^3 x, as in w0 B^3 "+series)
 	default:
 		p := t.Items[len(t.Items)-1].Pos
 		b.fail(p, ErrModel, "this term has no input series: end it with the series name, as in (w0 + w1 B) B^2 x")
@@ -218,6 +221,12 @@ func (b *builder) items(in []gItem) ([]*gItem, bool) {
 		out = append(out, it)
 	}
 	return out, true
+}
+
+// startsWithT reports whether a group starts with the name t, as in
+// x(t - 3).
+func startsWithT(g *gGroup) bool {
+	return len(g.Elems) > 0 && g.Elems[0].Item != nil && g.Elems[0].Item.Name == "t"
 }
 
 func isDiffTarget(g *gGroup) bool {
@@ -735,6 +744,10 @@ func (b *builder) sum(g *gGroup, what string) (tf.Factor, bool) {
 				b.fail(el.Pos, ErrSyntax, hint)
 				return f, false
 			}
+			if it.Name == "s" && (st == stCoef || st == stStar) {
+				b.fail(el.Pos, ErrSyntax, "s is not an operator of the spec language: a spec is in the backshift operator B of discrete time; convert a continuous-time model first, as with tf.FOPDT.Discretize")
+				return f, false
+			}
 			if st == stB && prev == "B" && it.Number != "" && strings.Trim(it.Number, "0123456789") == "" {
 				b.fail(el.Pos, ErrSyntax, "B followed by "+clip(it.Number)+" is not a power of B: for the term in B^"+clip(it.Number)+" write B^"+clip(it.Number))
 				return f, false
@@ -846,7 +859,7 @@ func clip(s string) string {
 func (b *builder) checkNames() {
 	for i, in := range b.m.Inputs {
 		if in.Series == b.m.Output {
-			b.failAt(in.Pos, ErrModel, in.Series+" is the output; it cannot also be an input")
+			b.failAt(in.Pos, ErrModel, in.Series+" is the output; it cannot also be an input (past outputs enter through the denominators and the noise model, as in w0 / (1 - d1 B) x + 1 / (1 - p1 B) a)")
 			continue
 		}
 		dup := false

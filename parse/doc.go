@@ -124,9 +124,10 @@
 //	                    or AR1, MA2, ARMA11 without parentheses) would be the
 //	                    constant: write a, AR(1), ...
 //
-// and the messages of other slips (z^-3, B**3, b^3, every 1 minute,
-// every 5 without a unit, ARIMA(1, 1, 1), := in a where clause) name the
-// text to write instead.
+// and the messages of other slips (z^-3, B**3, b^3, x(t-3), a decimal
+// comma, a Laplace s, every 1 minute, every 5 without a unit,
+// ARIMA(1, 1, 1), := or "and" in a where clause) name the text to write
+// instead.
 //
 // # Grammar
 //

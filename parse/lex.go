@@ -159,7 +159,7 @@ func charHint(s string) string {
 	r, _ := utf8.DecodeRuneInString(s)
 	switch r {
 	case ':':
-		return " (a where clause gives a start value with '~' or holds a value with '=', as in where w0 ~ 1, d1 = 0.5)"
+		return " (the spec language has no ':'; write where w0 ~ 1 for a start value, where w0 = 1 to hold a value, every 30 s for the interval)"
 	case '{', '}':
 		return " (write a power without braces, as in B^12)"
 	case '[', ']':

@@ -125,6 +125,20 @@ func (b *builder) syntax(toks []lexer.Token, err error, stop int) {
 // hint when a reserved word seems to be written in the wrong case.
 func syntaxMessage(toks []lexer.Token, i int) string {
 	msg := syntaxReason(toks, i)
+	// A decimal comma: number ',' number with nothing between.
+	for k := 1; k < min(i+2, len(toks)-1); k++ {
+		a, c, d := toks[k-1], toks[k], toks[k+1]
+		if c.Value == "," && a.Type == tokNumber && d.Type == tokNumber &&
+			a.Pos.Offset+len(a.Value) == c.Pos.Offset && c.Pos.Offset+1 == d.Pos.Offset {
+			return msg + " (the decimal mark is '.': write " + clip(a.Value) + "." + clip(d.Value) + ", not " + clip(a.Value) + "," + clip(d.Value) + ")"
+		}
+	}
+	// A Laplace-domain model: s among the operators of the equation.
+	for _, t := range toks[:i+1] {
+		if t.Type == tokIdent && t.Value == "s" && inParens(toks, t) {
+			return msg + " (a spec is in the backshift operator B of discrete time, not in s; convert a continuous-time model first, as with tf.FOPDT.Discretize)"
+		}
+	}
 	for k, t := range toks[:i+1] {
 		if t.Type != tokIdent {
 			continue
@@ -246,6 +260,10 @@ func syntaxReason(toks []lexer.Token, i int) string {
 			return "expected '~' (start value) or '=' (held value) after " + pv + ", found " + found
 		case hasPrev && (isP(prev, "~") || isP(prev, "=") || isP(prev, "-")):
 			return "expected a number after '" + pv + "', found " + found
+		case hasPrev && isP(prev, ";") && cur.Type == tokIdent:
+			return "expected where, every or the end of the spec after ';', found " + found + " (';' ends the where clause: separate its bindings with ',', as in where w0 ~ 1, w1 ~ 2)"
+		case cur.Type == tokIdent && strings.EqualFold(cur.Value, "and"):
+			return "expected ',', where, every or the end of the spec after a value, found " + found + " (separate the bindings with ',', as in where w0 ~ 1, w1 ~ 2)"
 		}
 		return "expected ',', where, every or the end of the spec after a value, found " + found
 	default:
@@ -257,6 +275,23 @@ func syntaxReason(toks []lexer.Token, i int) string {
 		}
 		return "expected where, every or the end of the spec after the sample interval, found " + found
 	}
+}
+
+// inParens reports whether token t stands inside parentheses.
+func inParens(toks []lexer.Token, t lexer.Token) bool {
+	depth := 0
+	for _, u := range toks {
+		if u.Pos.Offset >= t.Pos.Offset {
+			break
+		}
+		switch {
+		case u.Type == tokPunct && u.Value == "(":
+			depth++
+		case u.Type == tokPunct && u.Value == ")":
+			depth = max(depth-1, 0)
+		}
+	}
+	return depth > 0
 }
 
 func isShort(s string) bool { return s == "AR" || s == "MA" || s == "ARMA" }
