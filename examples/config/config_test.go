@@ -396,8 +396,13 @@ func TestCommandLine(t *testing.T) {
 		t.Errorf("good file: exit %d, %q %q", code, out.String(), errOut.String())
 	}
 	errOut.Reset()
-	if code := run([]string{"-file", filepath.Join(dir, "none.json")}, &out, &errOut); code != 1 || !strings.Contains(errOut.String(), "no such file") {
+	if code := run([]string{"-file", filepath.Join(dir, "none.json")}, &out, &errOut); code != 1 ||
+		!strings.HasPrefix(errOut.String(), "-file: open ") || !strings.Contains(errOut.String(), "no such file") {
 		t.Errorf("missing file: exit %d, %q", code, errOut.String())
+	}
+	errOut.Reset()
+	if code := run([]string{"-file", dir}, &out, &errOut); code != 1 || errOut.String() != "-file "+dir+": a folder, not a config file\n" {
+		t.Errorf("folder: exit %d, %q", code, errOut.String())
 	}
 }
 

@@ -83,12 +83,15 @@ Flags:
 func showFile(stdout, stderr io.Writer, name string) error {
 	f, err := os.Open(name)
 	if err != nil {
-		return err
+		return fmt.Errorf("-file: %w", err)
 	}
 	defer f.Close()
+	if st, err := f.Stat(); err == nil && st.IsDir() {
+		return fmt.Errorf("-file %s: a folder, not a config file", name)
+	}
 	raw, err := io.ReadAll(io.LimitReader(f, maxFile+1))
 	if err != nil {
-		return fmt.Errorf("%s: %w", name, err)
+		return fmt.Errorf("-file %s: %w", name, err)
 	}
 	if len(raw) > maxFile {
 		return fmt.Errorf("%s: the file is over %d MiB; a config holds a few model specs: is it the right file?", name, maxFile>>20)
