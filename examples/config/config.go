@@ -321,7 +321,8 @@ func (l *loader) model(i int, e *jval, names map[string]int) {
 			}
 		}
 	}
-	if m := ks["notes"]; m != nil {
+	// The optional keys may hold null, read as absent.
+	if m := ks["notes"]; m != nil && m.val.kind != jNull {
 		l.want(m, what, jString, "a string")
 	}
 	var model *tf.Model
@@ -330,7 +331,7 @@ func (l *loader) model(i int, e *jval, names map[string]int) {
 	} else if l.want(m, what, jString, `a string holding a model spec, as in "spec": "y = w0 B x + a; every 1 min"`) {
 		model = l.spec(m.val, what)
 	}
-	if m := ks["validity"]; m != nil && l.want(m, what, jObject, `an object as examples/identify -save writes it: {"samples": ..., "ranges": {...}, "verdict": "passed"}`) {
+	if m := ks["validity"]; m != nil && m.val.kind != jNull && l.want(m, what, jObject, `an object as examples/identify -save writes it: {"samples": ..., "ranges": {...}, "verdict": "passed"}`) {
 		l.validity(m.val, what, model)
 	}
 }
@@ -368,7 +369,7 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 		l.missing(v, "samples", `%s has no "samples" (the number of samples of the record)`, what)
 	} else if l.want(m, what, jNumber, "a whole number of samples") {
 		if n, err := strconv.ParseInt(string(m.val.num), 10, 64); err != nil || n < 1 {
-			l.fail(m.val.start, `"samples" of %s is %s; it must be a whole number of samples, at least 1`, what, m.val.num)
+			l.fail(m.val.start, `"samples" of %s is %s; it must be a whole number of samples, at least 1, written without a decimal point or exponent`, what, m.val.num)
 		}
 	}
 	if m := ks["interval"]; m != nil && l.want(m, what, jString, `a string such as "1 min"`) && model != nil {

@@ -270,7 +270,9 @@ func TestValidityProblems(t *testing.T) {
 			`unknown key "verdcit" in the validity of model 1 ("m") (known: samples, interval, ranges, verdict, failures, forced); did you mean "verdict"?`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}}`, `{"samples"`, `the validity of model 1 ("m") has no "verdict"; it is "passed" or "failed"`},
 		{`{"samples": 0, "ranges": {"temp": [1, 2]}, "verdict": "passed"}`, `0,`,
-			`"samples" of the validity of model 1 ("m") is 0; it must be a whole number of samples, at least 1`},
+			`"samples" of the validity of model 1 ("m") is 0; it must be a whole number of samples, at least 1, written without a decimal point or exponent`},
+		{`{"samples": 5760.0, "ranges": {"temp": [1, 2]}, "verdict": "passed"}`, `5760.0`,
+			`"samples" of the validity of model 1 ("m") is 5760.0; it must be a whole number of samples, at least 1, written without a decimal point or exponent`},
 		{`{"samples": "100", "ranges": {"temp": [1, 2]}, "verdict": "passed"}`, `"100"`,
 			`"samples" of the validity of model 1 ("m") holds a string; it must be a whole number of samples`},
 		{`{"samples": 100, "interval": "10 s", "ranges": {"temp": [1, 2]}, "verdict": "passed"}`, `"10 s"`,
@@ -318,9 +320,14 @@ func TestValidityRoundTrip(t *testing.T) {
 	if got == nil || got.Samples != v.Samples || got.Verdict != v.Verdict || !got.Forced || len(got.Failures) != 1 || got.Ranges["valve"] != v.Ranges["valve"] {
 		t.Errorf("loaded %+v, saved %+v", got, v)
 	}
-	c, err = Load("old.json", []byte(`{"models": [{"name": "m", "spec": "temp = w0 B^3 valve + a; every 1 min"}]}`))
-	if err != nil || c.Models[0].Validity != nil {
-		t.Errorf("old file: %v, %+v", err, c)
+	for _, raw := range []string{
+		`{"models": [{"name": "m", "spec": "temp = w0 B^3 valve + a; every 1 min"}]}`,
+		`{"models": [{"name": "m", "spec": "temp = w0 B^3 valve + a; every 1 min", "validity": null, "notes": null}]}`,
+	} {
+		c, err = Load("old.json", []byte(raw))
+		if err != nil || c.Models[0].Validity != nil {
+			t.Errorf("%s: %v, %+v", raw, err, c)
+		}
 	}
 }
 
