@@ -92,13 +92,42 @@ func (b *builder) every(e *gEvery) {
 		b.fail(e.Val.Pos, ErrModel, "the sample interval must be a positive number")
 		return
 	}
-	switch e.Unit.Name {
-	case "s", "min", "h", "d":
-	default:
-		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(e.Unit.Name)+" for the sample interval; use s, min, h or d")
+	if !validUnit(e.Unit.Name) {
+		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Name))+" for the sample interval; use s, min, h or d"+unitHint(e.Unit.Name))
 		return
 	}
 	b.m.Interval = tf.Interval{Value: v, Unit: e.Unit.Name}
+}
+
+// validUnit reports whether u is a unit of the sample interval.
+func validUnit(u string) bool { return u == "s" || u == "min" || u == "h" || u == "d" }
+
+// unitAliases maps other spellings of the units, in lower case, to the
+// unit to write.
+var unitAliases = map[string]string{
+	"sec": "s", "secs": "s", "second": "s", "seconds": "s",
+	"m": "min", "mn": "min", "mins": "min", "minute": "min", "minutes": "min",
+	"hr": "h", "hrs": "h", "hour": "h", "hours": "h",
+	"day": "d", "days": "d",
+}
+
+// unitHint suggests the unit meant by an unknown unit u: " (for minutes
+// write min)", or "" when none is near.
+func unitHint(u string) string {
+	l := strings.ToLower(u)
+	if validUnit(l) {
+		return " (units are written in lower case: " + l + ")"
+	}
+	if to, ok := unitAliases[l]; ok {
+		return " (for " + map[string]string{"s": "seconds", "min": "minutes", "h": "hours", "d": "days"}[to] + " write " + to + ")"
+	}
+	switch l {
+	case "ms", "msec", "millisecond", "milliseconds":
+		return " (for milliseconds write the interval in seconds, as in every 0.1 s)"
+	case "w", "wk", "week", "weeks":
+		return " (for weeks write the interval in days, as in every 7 d)"
+	}
+	return ""
 }
 
 // number reads a signed number literal.
@@ -163,6 +192,9 @@ func (b *builder) term(t *gTerm, first bool) {
 		b.input(t, items[:len(items)-1], last.Name, tf.Poly{})
 	case last.Group != nil && isDiffTarget(last.Group):
 		b.diffInput(t, items[:len(items)-1], last.Group)
+	case len(items) >= 2 && items[len(items)-2].Name != "" && last.Group != nil && startsWithT(last.Group):
+		series := items[len(items)-2].Name
+		b.fail(last.Pos, ErrModel, "a series is written by its name alone, not "+series+"(t ...); x three samples back is B^3 x, as in w0 B^3 "+series)
 	default:
 		p := t.Items[len(t.Items)-1].Pos
 		b.fail(p, ErrModel, "this term has no input series: end it with the series name, as in (w0 + w1 B) B^2 x")
@@ -176,6 +208,10 @@ func (b *builder) items(in []gItem) ([]*gItem, bool) {
 	for i := range in {
 		it := &in[i]
 		if it.Star {
+			if i > 0 && in[i-1].Star && in[i-1].Pos.Offset+1 == it.Pos.Offset {
+				b.fail(in[i-1].Pos, ErrSyntax, "'**' is not a power here: write a power with '^', as in B^3")
+				return nil, false
+			}
 			if i == 0 || i == len(in)-1 || in[i-1].Star {
 				b.fail(it.Pos, ErrSyntax, "'*' must stand between two factors")
 				return nil, false
@@ -185,6 +221,12 @@ func (b *builder) items(in []gItem) ([]*gItem, bool) {
 		out = append(out, it)
 	}
 	return out, true
+}
+
+// startsWithT reports whether a group starts with the name t, as in
+// x(t - 3).
+func startsWithT(g *gGroup) bool {
+	return len(g.Elems) > 0 && g.Elems[0].Item != nil && g.Elems[0].Item.Name == "t"
 }
 
 func isDiffTarget(g *gGroup) bool {
@@ -202,6 +244,10 @@ func hasGroup(g *gGroup) bool {
 }
 
 func (b *builder) constant(t *gTerm, it *gItem) {
+	if hint := noiseLike(it.Name); hint != "" {
+		b.fail(it.Pos, ErrModel, hint)
+		return
+	}
 	if b.m.Const != nil {
 		msg := "a second constant term; a model has at most one"
 		if it.Name != "" {
@@ -226,6 +272,35 @@ func (b *builder) constant(t *gTerm, it *gItem) {
 	b.m.Const = &tf.Coef{Value: v, Pos: toPos(it.Pos)}
 }
 
+// noiseLike returns a message when a lone name, which the spec reads as
+// the constant, is most likely meant as the noise term: e, eps, noise,
+// a_t and the like, or a shorthand without its parentheses (AR1). It
+// returns "" for other names.
+func noiseLike(name string) string {
+	if name == "" {
+		return ""
+	}
+	switch strings.ToLower(name) {
+	case "e", "e_t", "et", "eps", "eps_t", "epsilon", "a_t", "at", "noise", "white", "whitenoise", "white_noise":
+		return "a lone name such as " + name + " is read as the constant, not as noise; the white-noise symbol is a, as in + a, + ARMA(1, 1) or + (1 - t1 B) / (1 - p1 B) a"
+	}
+	u := strings.ToUpper(name)
+	for _, s := range []string{"ARMA", "AR", "MA"} {
+		if rest, ok := strings.CutPrefix(u, s); ok && rest != "" && strings.Trim(rest, "0123456789") == "" {
+			form := s + "(" + rest + ")"
+			if s == "ARMA" {
+				if len(rest) != 2 {
+					form = "ARMA(p, q)"
+				} else {
+					form = "ARMA(" + rest[:1] + ", " + rest[1:] + ")"
+				}
+			}
+			return "a lone name such as " + name + " is read as the constant; for the noise shorthand write " + form
+		}
+	}
+	return ""
+}
+
 // numAfterDen is the ordering rule shared by input and noise terms: when
 // a denominator came earlier in the term (sawDen) and it is a numerator
 // factor (a number, a coefficient name or a polynomial in parentheses),
@@ -238,11 +313,53 @@ func (b *builder) numAfterDen(sawDen bool, it *gItem) bool {
 	return false
 }
 
-// useCoef records a use of a coefficient name.
+// useCoef records a use of a coefficient name; a name that reads as a
+// slip for a power of B (B3, w1B, d2B2) is an error.
 func (b *builder) useCoef(name string, p lexer.Position) {
 	if _, ok := b.coefs[name]; !ok {
 		b.coefs[name] = toPos(p)
 	}
+	if hint := glued(name); hint != "" {
+		b.fail(p, ErrSyntax, hint)
+	}
+}
+
+// glued returns a message when name looks like B and a power, or a
+// coefficient and B, written without the '^' or the space between them:
+// B3 (B^3), w1B (w1 B), d2B3 (d2 B^3). Such names are refused as
+// coefficient names, because a slip there would otherwise parse as a
+// product of coefficients with no dead time. It returns "" for any
+// other name.
+func glued(name string) string {
+	digits := func(s string) bool {
+		for i := 0; i < len(s); i++ {
+			if !isDigit(s[i]) {
+				return false
+			}
+		}
+		return true
+	}
+	if len(name) > 1 && name[0] == 'B' && digits(name[1:]) {
+		k := strings.TrimLeft(name[1:], "0")
+		if k == "" {
+			k = "0"
+		}
+		samples := " samples)"
+		if k == "1" {
+			samples = " sample)"
+		}
+		return name + " reads as a coefficient name; for B to the power " + k + " write B^" + k +
+			" (B^" + k + " x delays x by " + k + samples
+	}
+	i := strings.LastIndexByte(name, 'B')
+	if i < 2 || !isDigit(name[i-1]) || !digits(name[i+1:]) {
+		return ""
+	}
+	want := name[:i] + " B"
+	if i+1 < len(name) {
+		want += "^" + name[i+1:]
+	}
+	return name + " reads as one coefficient name; put a space between the coefficient and B, as in " + want
 }
 
 func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
@@ -356,7 +473,7 @@ func (b *builder) input(t *gTerm, ops []*gItem, series string, diff tf.Poly) {
 	delay := 0
 	delayOK := true
 	sawDen := false
-	for _, it := range ops {
+	for i, it := range ops {
 		if b.numAfterDen(sawDen, it) {
 			return
 		}
@@ -377,8 +494,20 @@ func (b *builder) input(t *gTerm, ops []*gItem, series string, diff tf.Poly) {
 			}
 			in.Num.Factors = append(in.Num.Factors, tf.Factor{Terms: []tf.Term{{Coef: c}}, Exp: 1, Pos: toPos(it.Pos)})
 		case it.B != nil:
+			if k := wholeAfter(ops, i); it.B.Exp == nil && k != "" {
+				next := ops[i+1]
+				b.fail(next.Pos, ErrSyntax, "B followed by "+clip(k)+" reads as a delay of one sample times the gain "+clip(k)+
+					"; for a dead time of "+clip(k)+" samples write B^"+clip(k))
+				return
+			}
 			k := 1
 			if it.B.Exp != nil {
+				if it.B.Exp.Neg {
+					b.fail(it.B.Exp.Pos, ErrModel, "the dead time cannot be negative (here -"+clip(it.B.Exp.Num)+
+						"); B^k delays a series by k samples, so write B^"+clip(it.B.Exp.Num)+" for a dead time of "+clip(it.B.Exp.Num)+" samples")
+					delayOK = false
+					continue
+				}
 				v, ok := b.whole(it.B.Exp, 0, MaxDelay, "the dead time", "samples", ErrLimit)
 				if !ok {
 					delayOK = false
@@ -415,6 +544,25 @@ func (b *builder) input(t *gTerm, ops []*gItem, series string, diff tf.Poly) {
 		return
 	}
 	b.m.Inputs = append(b.m.Inputs, in)
+}
+
+// wholeAfter returns the text of the item after ops[i] when it is a
+// whole number, alone or in parentheses with no power (3 or (3)), else "".
+func wholeAfter(ops []*gItem, i int) string {
+	if i+1 >= len(ops) {
+		return ""
+	}
+	it := ops[i+1]
+	k := it.Number
+	if g := it.Group; g != nil && g.Exp == nil && len(g.Elems) == 1 && g.Elems[0].Item != nil {
+		k = g.Elems[0].Item.Number
+	}
+	for j := 0; j < len(k); j++ {
+		if !isDigit(k[j]) {
+			return ""
+		}
+	}
+	return k
 }
 
 // diffInput builds an input term whose series is differenced:
@@ -592,6 +740,18 @@ func (b *builder) sum(g *gGroup, what string) (tf.Factor, bool) {
 				return f, false
 			}
 		case it.Number != "" || it.Name != "":
+			if hint := glued(it.Name); it.Name != "" && hint != "" {
+				b.fail(el.Pos, ErrSyntax, hint)
+				return f, false
+			}
+			if it.Name == "s" && (st == stCoef || st == stStar) {
+				b.fail(el.Pos, ErrSyntax, "s is not an operator of the spec language: a spec is in the backshift operator B of discrete time; convert a continuous-time model first, as with tf.FOPDT.Discretize")
+				return f, false
+			}
+			if st == stB && prev == "B" && it.Number != "" && strings.Trim(it.Number, "0123456789") == "" {
+				b.fail(el.Pos, ErrSyntax, "B followed by "+clip(it.Number)+" is not a power of B: for the term in B^"+clip(it.Number)+" write B^"+clip(it.Number))
+				return f, false
+			}
 			if st != stStart && st != stSign {
 				b.fail(el.Pos, ErrSyntax, "expected '+', '-' or ')' after "+quoteTok(prev)+": write a sign between the terms of a polynomial")
 				return f, false
@@ -608,6 +768,10 @@ func (b *builder) sum(g *gGroup, what string) (tf.Factor, bool) {
 			}
 			st = stCoef
 		case it.Star:
+			if i+1 < len(g.Elems) && g.Elems[i+1].Item != nil && g.Elems[i+1].Item.Star && g.Elems[i+1].Pos.Offset == el.Pos.Offset+1 {
+				b.fail(el.Pos, ErrSyntax, "'**' is not a power here: write a power with '^', as in B^3")
+				return f, false
+			}
 			if st != stCoef {
 				b.fail(el.Pos, ErrSyntax, "'*' must stand between a coefficient and B")
 				return f, false
@@ -695,7 +859,7 @@ func clip(s string) string {
 func (b *builder) checkNames() {
 	for i, in := range b.m.Inputs {
 		if in.Series == b.m.Output {
-			b.failAt(in.Pos, ErrModel, in.Series+" is the output; it cannot also be an input")
+			b.failAt(in.Pos, ErrModel, in.Series+" is the output; it cannot also be an input (past outputs enter through the denominators and the noise model, as in w0 / (1 - d1 B) x + 1 / (1 - p1 B) a)")
 			continue
 		}
 		dup := false

@@ -35,7 +35,7 @@ func TestCheck(t *testing.T) {
 		{func(m *tf.Model) { m.Inputs[0].Den.Factors[0].Terms[0].Coef.Value = 2 },
 			"the constant term of the denominator must be 1, not 2; divide the numerator and the denominator by 2"},
 		{func(m *tf.Model) { m.Inputs[1].Series = "burner" },
-			"input burner appears twice; combine its terms into one transfer function"},
+			"input burner appears twice (inputs 1 and 2); combine its terms into one transfer function"},
 		{func(m *tf.Model) { m.Interval = tf.Interval{Value: 3, Unit: "fortnight"} },
 			`unknown unit "fortnight" for the sample interval; use s, min, h or d`},
 	}
@@ -58,7 +58,7 @@ func TestCheck(t *testing.T) {
 
 func TestCheckErrorText(t *testing.T) {
 	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: tf.Poly{Factors: []tf.Factor{{Exp: 1, Terms: []tf.Term{{Coef: tf.Coef{Value: math.Inf(1)}}}}}}}}}
-	if err := Check(m); err == nil || err.Error() != "a coefficient of the numerator of input x is +Inf" {
+	if err := Check(m); err == nil || err.Error() != "Inputs[0].Num.Factors[0].Terms[0].Coef.Value: a coefficient of the numerator of input x is +Inf" {
 		t.Errorf("got %v", err)
 	}
 }

@@ -111,6 +111,24 @@
 // AR, MA, ARMA, where and every are reserved. Numbers are decimal, with
 // an optional exponent: 2, 0.5, .5, 1e-3, 2.5E+4.
 //
+// # Slips refused
+//
+// A few texts that would parse as something other than what was nearly
+// always meant are refused with a message that says what to write:
+//
+//	B3 x, (1 - B12)     a coefficient named B and digits: write B^3, B^12
+//	(w0 + w1B) x        a coefficient glued to B (a name ending in a digit
+//	                    and B, and optional digits): write w1 B, w1 B^2
+//	w0 B 3 x, w0 B(3) x B times a whole number: write B^3
+//	y = w0 x + e        a lone name meant as noise (e, eps, noise, a_t, ...,
+//	                    or AR1, MA2, ARMA11 without parentheses) would be the
+//	                    constant: write a, AR(1), ...
+//
+// and the messages of other slips (z^-3, B**3, b^3, x(t-3), a decimal
+// comma, a Laplace s, every 1 minute, every 5 without a unit,
+// ARIMA(1, 1, 1), := or "and" in a where clause) name the text to write
+// instead.
+//
 // # Grammar
 //
 // In EBNF (as in the Go specification: [ ] optional, { } repeated, | or):
@@ -163,7 +181,10 @@
 // dead time not a whole non-negative number, an input named twice, the
 // output used as an input, a name used as both a series and a
 // coefficient, a name in a differencing operator, an unknown unit, ...)
-// or ErrLimit. Check applies the same rules to a model built in code.
+// or ErrLimit. Check applies the same rules to a model built in code,
+// and also refuses what code can hold but text cannot say (a factor
+// power below 1, a negative dead time, a free coefficient without a
+// name, ...): those errors name the field in Error.Path.
 //
 // # Limits
 //

@@ -41,12 +41,26 @@ type Error struct {
 	Msg  string // what is wrong, in the spec's own words
 	Text string // the line of the spec that holds Pos, without its line break
 	Kind error  // ErrSyntax, ErrModel or ErrLimit
+	// Path is set by Check for a problem in the values of a model (not
+	// in spec text): the Go path of the offending field from the model,
+	// such as "Inputs[0].Num.Factors[1].Exp" or "Interval.Unit" ("." for
+	// the model as a whole). It is empty for errors in spec text.
+	Path string
 }
 
-// Error returns "line:col: message" followed by the spec line and a caret,
-// or the message alone when Pos is the zero Pos (a problem found by Check
-// in a model built in code).
+// Error returns "line:col: message" followed by the spec line and a caret.
+// For a problem Check found in a model's values it returns "path:
+// message", followed by " (written at line:col)" when the value came
+// from a spec; for an error with neither a path nor a position, the
+// message alone.
 func (e *Error) Error() string {
+	if e.Path != "" {
+		s := e.Path + ": " + e.Msg
+		if e.Pos.IsValid() {
+			s += " (written at " + strconv.Itoa(e.Pos.Line) + ":" + strconv.Itoa(e.Pos.Column) + ")"
+		}
+		return s
+	}
 	if !e.Pos.IsValid() {
 		return e.Msg
 	}

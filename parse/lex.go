@@ -4,6 +4,7 @@ import (
 	"io"
 	"strings"
 	"sync"
+	"unicode/utf8"
 
 	"github.com/alecthomas/participle/v2/lexer"
 )
@@ -138,7 +139,7 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 			typ = tokPunct
 			i++
 		default:
-			return nil, &lexError{pos: pos, msg: "unexpected character " + quoteChar(s[i:])}
+			return nil, &lexError{pos: pos, msg: "unexpected character " + quoteChar(s[i:]) + charHint(s[i:])}
 		}
 		if len(toks) == cap(toks) {
 			// Double (append grows large slices by only 1.25), so that the
@@ -150,6 +151,27 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 	toks = append(toks, lexer.Token{Type: lexer.EOF,
 		Pos: lexer.Position{Offset: len(s), Line: line, Column: len(s) - lineStart + 1}})
 	return toks, nil
+}
+
+// charHint suggests what to write instead of a character the spec
+// language does not use, or returns "".
+func charHint(s string) string {
+	r, _ := utf8.DecodeRuneInString(s)
+	switch r {
+	case ':':
+		return " (the spec language has no ':'; write where w0 ~ 1 for a start value, where w0 = 1 to hold a value, every 30 s for the interval)"
+	case '{', '}':
+		return " (write a power without braces, as in B^12)"
+	case '[', ']':
+		return " (group with parentheses)"
+	case '\u2212', '\u2013', '\u2014':
+		return " (write the minus sign as the ASCII '-')"
+	case '\u00d7', '\u00b7', '\u22c5':
+		return " (write a product with '*' or a space)"
+	case '"', '\'', '`':
+		return " (names are written without quotes)"
+	}
+	return ""
 }
 
 func isDigit(c byte) bool  { return '0' <= c && c <= '9' }

@@ -125,11 +125,29 @@ func (b *builder) syntax(toks []lexer.Token, err error, stop int) {
 // hint when a reserved word seems to be written in the wrong case.
 func syntaxMessage(toks []lexer.Token, i int) string {
 	msg := syntaxReason(toks, i)
+	// A decimal comma: number ',' number with nothing between.
+	for k := 1; k < min(i+2, len(toks)-1); k++ {
+		a, c, d := toks[k-1], toks[k], toks[k+1]
+		if c.Value == "," && a.Type == tokNumber && d.Type == tokNumber &&
+			a.Pos.Offset+len(a.Value) == c.Pos.Offset && c.Pos.Offset+1 == d.Pos.Offset {
+			return msg + " (the decimal mark is '.': write " + clip(a.Value) + "." + clip(d.Value) + ", not " + clip(a.Value) + "," + clip(d.Value) + ")"
+		}
+	}
+	// A Laplace-domain model: s among the operators of the equation.
 	for _, t := range toks[:i+1] {
+		if t.Type == tokIdent && t.Value == "s" && inParens(toks, t) {
+			return msg + " (a spec is in the backshift operator B of discrete time, not in s; convert a continuous-time model first, as with tf.FOPDT.Discretize)"
+		}
+	}
+	for k, t := range toks[:i+1] {
 		if t.Type != tokIdent {
 			continue
 		}
 		switch {
+		case (t.Value == "z" || t.Value == "q") && k+1 < len(toks) && toks[k+1].Value == "^":
+			return msg + " (the backshift operator is written B: B^3 x is x three samples back, what z^-3 or q^-3 means)"
+		case strings.EqualFold(t.Value, "ARIMA") || strings.EqualFold(t.Value, "SARIMA"):
+			return msg + " (" + t.Value + " is not a shorthand: write the differencing before the output name and the noise as ARMA(p, q), as in (1 - B) y = w0 B x + ARMA(1, 1))"
 		case t.Value == "b":
 			return msg + " (the backshift operator is written B, upper case)"
 		case strings.EqualFold(t.Value, "where") || strings.EqualFold(t.Value, "every"):
@@ -214,6 +232,9 @@ func syntaxReason(toks []lexer.Token, i int) string {
 	switch region {
 	case inLeft:
 		if hasPrev && prev.Type == tokIdent {
+			if isP(cur, "(") {
+				return "expected '=' after the output name " + pv + ", found " + found + " (write a series by its name alone: " + pv + ", not " + pv + "(t))"
+			}
 			return "expected '=' after the output name " + pv + ", found " + found
 		}
 		if cur.Type == tokKeyword && cur.Value != "where" && cur.Value != "every" {
@@ -227,6 +248,9 @@ func syntaxReason(toks []lexer.Token, i int) string {
 		if hasPrev && isP(prev, "*") {
 			return "expected a factor after '*', found " + found
 		}
+		if isP(cur, ",") {
+			return "expected '+', '-', where, every or the end of the spec after a term, found ',' (join terms with '+'; put where and every after a space or ';')"
+		}
 		return "expected '+', '-', where, every or the end of the spec after a term, found " + found
 	case inWhere:
 		switch {
@@ -236,6 +260,10 @@ func syntaxReason(toks []lexer.Token, i int) string {
 			return "expected '~' (start value) or '=' (held value) after " + pv + ", found " + found
 		case hasPrev && (isP(prev, "~") || isP(prev, "=") || isP(prev, "-")):
 			return "expected a number after '" + pv + "', found " + found
+		case hasPrev && isP(prev, ";") && cur.Type == tokIdent:
+			return "expected where, every or the end of the spec after ';', found " + found + " (';' ends the where clause: separate its bindings with ',', as in where w0 ~ 1, w1 ~ 2)"
+		case cur.Type == tokIdent && strings.EqualFold(cur.Value, "and"):
+			return "expected ',', where, every or the end of the spec after a value, found " + found + " (separate the bindings with ',', as in where w0 ~ 1, w1 ~ 2)"
 		}
 		return "expected ',', where, every or the end of the spec after a value, found " + found
 	default:
@@ -243,10 +271,27 @@ func syntaxReason(toks []lexer.Token, i int) string {
 		case hasPrev && (prev.Value == "every" || isP(prev, "-")):
 			return "expected the sample interval as a number and a unit, as in every 30 s; found " + found
 		case hasPrev && prev.Type == tokNumber:
-			return "expected a unit (s, min, h or d) after the sample interval, found " + found
+			return "expected a unit after the sample interval " + clip(pv) + ", as in every " + clip(pv) + " min (units: s, min, h, d); found " + found
 		}
 		return "expected where, every or the end of the spec after the sample interval, found " + found
 	}
+}
+
+// inParens reports whether token t stands inside parentheses.
+func inParens(toks []lexer.Token, t lexer.Token) bool {
+	depth := 0
+	for _, u := range toks {
+		if u.Pos.Offset >= t.Pos.Offset {
+			break
+		}
+		switch {
+		case u.Type == tokPunct && u.Value == "(":
+			depth++
+		case u.Type == tokPunct && u.Value == ")":
+			depth = max(depth-1, 0)
+		}
+	}
+	return depth > 0
 }
 
 func isShort(s string) bool { return s == "AR" || s == "MA" || s == "ARMA" }

@@ -20,13 +20,20 @@ type Spec struct {
 }
 
 // MarshalText returns the canonical spec text of s.Model (tf.Model.String),
-// or no text for the zero Spec. It never fails.
+// or no text for the zero Spec. It fails with the error of Check when the
+// model is not one a spec can say (a NaN coefficient, a negative dead
+// time, ...), so that no file is written that would read back as another
+// model or not at all.
 func (s Spec) MarshalText() ([]byte, error) { return s.AppendText(nil) }
 
-// AppendText appends the text MarshalText returns to b.
+// AppendText appends the text MarshalText returns to b; on error it
+// returns b unchanged.
 func (s Spec) AppendText(b []byte) ([]byte, error) {
 	if s.IsZero() {
 		return b, nil
+	}
+	if err := Check(s.Model); err != nil {
+		return b, err
 	}
 	return append(b, s.Model.String()...), nil
 }
