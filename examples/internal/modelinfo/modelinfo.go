@@ -53,9 +53,12 @@ func Paths(m tf.Model, interval float64) ([]Path, error) {
 			p.Gain = g
 		}
 		p.Modes, _ = r.Modes(interval)
-		if p.Stable {
+		switch {
+		case p.Stable && p.Gain == 0:
+			p.Err = fmt.Errorf("none: the path's gain is 0, so a step leaves the output where it was")
+		case p.Stable:
 			p.Step, p.Err = r.StepMetrics(tf.StepOptions{Interval: interval})
-		} else {
+		default:
 			p.Err = fmt.Errorf("no step metrics: the path is not stable")
 		}
 		out = append(out, p)

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/parse"
 )
 
 func TestPathsOfTheGreenhouse(t *testing.T) {
@@ -77,5 +78,23 @@ func TestValidityWrite(t *testing.T) {
 		"  verdict when saved: failed\n    - the fit did not converge\n  SAVED DESPITE THE FAILED CHECKS on request: do not use it for control work\n"
 	if b.String() != want {
 		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
+	}
+}
+
+// A path whose numerator sums to zero (1 - B: a pure rate effect) has a
+// zero gain; its step summary says so in the path's words instead of
+// passing on the step-metric error of package tf.
+func TestZeroGainPath(t *testing.T) {
+	m, err := parse.Model("y = (1 - B) / (1 - 0.5 B) x; every 1 min")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b bytes.Buffer
+	if err := Write(&b, m); err != nil {
+		t.Fatal(err)
+	}
+	want := "step response    none: the path's gain is 0, so a step leaves the output where it was"
+	if !strings.Contains(b.String(), want) {
+		t.Errorf("got\n%s\nwant a line %q", b.String(), want)
 	}
 }
