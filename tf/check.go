@@ -97,13 +97,18 @@ type Diagnostics struct {
 
 // Thresholds of the verdict.
 const (
-	// CheckMinResidualsPerCoef is the least number of residuals per
-	// free coefficient for a sound estimate: ten observations per
-	// estimated coefficient is a rule of thumb of regression practice
-	// (common practice, not from a source); with fewer, the estimates
-	// and their standard errors rest on too little data to be trusted
-	// even when the fit converges.
+	// CheckMinResidualsPerCoef and CheckMinResiduals set the least
+	// number of residuals N for a sound estimate with k free
+	// coefficients: N >= max(CheckMinResiduals, CheckMinResidualsPerCoef
+	// k), the rule of the fit's FewResiduals warning. Ten observations
+	// per estimated coefficient is a rule of thumb of regression
+	// practice (common practice, not from a source); at least 50
+	// observations is the least Box and Jenkins advise for
+	// identifying and fitting such models (from memory). With fewer,
+	// the estimates and their standard errors rest on too little data
+	// to be trusted even when the fit converges.
 	CheckMinResidualsPerCoef = 10
+	CheckMinResiduals        = 50
 	// CheckBoundaryZ is the root magnitude, in the z-plane, from which an
 	// estimated input pole, noise AR root or noise MA zero counts as on
 	// or outside the unit circle (0.999, the threshold of the fit's
@@ -268,8 +273,9 @@ func (s CheckSettings) validate() error {
 //     from the estimate's polynomials; a factor written with numbers
 //     only (such as a fixed integrator 1 - B) is the user's choice and
 //     does not count;
-//   - fewer than CheckMinResidualsPerCoef residuals per free
-//     coefficient (N < 10 k);
+//   - fewer residuals than max(CheckMinResiduals,
+//     CheckMinResidualsPerCoef k), that is N < max(50, 10 k) for k free
+//     coefficients;
 //   - any other serious warning of the fit (WarningKind.Serious).
 func (e *Estimate) Soundness() []string {
 	if e == nil {
@@ -299,10 +305,11 @@ func (e *Estimate) Soundness() []string {
 	}
 	out = append(out, chkRootFailures(e.Model)...)
 	k := len(e.Params)
-	few := k > 0 && e.N < CheckMinResidualsPerCoef*k
+	need := max(CheckMinResiduals, CheckMinResidualsPerCoef*k)
+	few := k > 0 && e.N < need
 	if few {
-		out = append(out, fmt.Sprintf("only %d residuals for %d free coefficients: fewer than %d per coefficient, too few to trust the estimates (use a longer record or fewer coefficients)",
-			e.N, k, CheckMinResidualsPerCoef))
+		out = append(out, fmt.Sprintf("only %d residuals for %d free coefficients: fewer than max(%d, %d per coefficient) = %d, too few to trust the estimates (use a longer record or fewer coefficients)",
+			e.N, k, CheckMinResiduals, CheckMinResidualsPerCoef, need))
 	}
 	for _, w := range e.Warnings {
 		switch {

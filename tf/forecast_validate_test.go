@@ -186,7 +186,7 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	}
 	found := false
 	for _, w := range fc.Warnings {
-		found = found || (w.Kind == UnsoundEstimate && strings.Contains(w.Message, "not to be trusted") && strings.Contains(w.Message, "fewer than 10 per coefficient"))
+		found = found || (w.Kind == UnsoundEstimate && strings.Contains(w.Message, "not to be trusted") && strings.Contains(w.Message, "fewer than max(50, 10 per coefficient) = 50"))
 	}
 	if !found {
 		t.Errorf("no unsound-estimate warning: %+v", fc.Warnings)
