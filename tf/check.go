@@ -18,10 +18,15 @@ import (
 type CheckSettings struct {
 	// Lags is the number K of residual autocorrelations in the Ljung-Box
 	// test. Zero means min(24, N/4), raised to the number of noise
-	// parameters + 1 when that is larger.
+	// parameters + 1 when that is larger (and at most N - 1). A K of
+	// N or more, or not above the number of free noise parameters, is an
+	// *ArgError. Every field: zero means the default, negative (or NaN)
+	// is an *ArgError naming the field.
 	Lags int
 	// CrossLags is K for the residual-input cross-correlations at lags
-	// 0..K. Zero means Lags.
+	// 0..K. Zero means Lags. K is cut to M - 2, M the number of samples
+	// where both the residuals and the prewhitened input exist
+	// (CrossCheck.Lags reports the K used).
 	CrossLags int
 	// Alpha is the significance level of every verdict: a check fails
 	// when its p-value is below Alpha. Zero means 0.05.

@@ -293,7 +293,8 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 // TestCheckSettingsTable gives every field of CheckSettings a bad value
 // and checks the *ArgError names the field; a nil estimate and one with
 // a coefficient that is not a number are *EstimateError; a constant
-// input is a *ConstantSeriesError naming the user's series.
+// input is a typed error naming the user's series; the reports of a nil
+// estimate, nil checks and a candidate without estimate do not panic.
 func TestCheckSettingsTable(t *testing.T) {
 	est, data := fitMCEstimate(t)
 	for _, tc := range []struct {
@@ -329,6 +330,12 @@ func TestCheckSettingsTable(t *testing.T) {
 	flat := map[string][]float64{"y": data["y"], "x": make([]float64, len(data["x"]))}
 	for i := range flat["x"] {
 		flat["x"][i] = 40
+	}
+	// Reports of nothing say so instead of panicking.
+	var ne *Estimate
+	var nd *Diagnostics
+	if ne.String() != "no estimate (nil)\n" || nd.String() != "no diagnostic checks (nil)\n" || !strings.Contains((Candidate{Model: est.Model}).String(), "fit failed") {
+		t.Errorf("nil reports: %q %q", ne.String(), nd.String())
 	}
 	// Refused by Check's own test, or by the data checks it shares with
 	// Fit; either way typed and naming the user's series.

@@ -142,7 +142,7 @@ func (c Candidate) Label() string {
 // String returns a one-line summary followed by the fit's and the
 // checks' reports.
 func (c Candidate) String() string {
-	if c.Err != nil {
+	if c.Err != nil || c.Estimate == nil {
 		return fmt.Sprintf("#%d %s\n  fit failed: %v\n", c.Rank, c.Label(), c.Err)
 	}
 	s := fmt.Sprintf("#%d score %.2f  %s\n", c.Rank, c.Score, c.Label()) + c.Estimate.String()

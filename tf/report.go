@@ -18,6 +18,9 @@ import (
 // sound one is not called adequate, which only the checks can say. Numbers are rounded for reading; the fields of Estimate
 // hold full precision.
 func (e *Estimate) String() string {
+	if e == nil {
+		return "no estimate (nil)\n"
+	}
 	var b strings.Builder
 	n := e.N + e.Conditioning.First
 	fmt.Fprintf(&b, "Model of %s with coefficients estimated by conditional least squares\n", e.Model.Output)
@@ -116,6 +119,9 @@ func (e *Estimate) String() string {
 // faults first, so that a model whose checks pass but whose estimate is
 // faulty is never reported as fine.
 func (d *Diagnostics) String() string {
+	if d == nil {
+		return "no diagnostic checks (nil)\n"
+	}
 	var b strings.Builder
 	verdict := func(ok bool) string {
 		if ok {
