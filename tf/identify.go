@@ -176,7 +176,9 @@ func (c Candidate) String() string {
 // Coefficients are named w0.., d1.. (with the input name and "_" before
 // them when there are several inputs), phi1.., theta1.. and c.
 //
-// Errors: the data errors of Fit; *InputListError for an input listed
+// Errors: the data errors of Fit; *ArgError for a sample above 1e140
+// in magnitude or a series that varies by less than 1e-140 (rescale
+// it); *InputListError for an input listed
 // twice, empty or equal to the output; *ArgError or
 // *UnknownInputError for a bad setting (see IdentifySettings);
 // *ConstantSeriesError naming the series when the output or an input is
@@ -646,10 +648,28 @@ func idfValidate(output string, inputs []string, data map[string][]float64) erro
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return &SampleError{Series: name, Index: t, Value: v}
 			}
+			if math.Abs(v) > idfMaxMagnitude {
+				return &ArgError{Arg: fmt.Sprintf("%s[%d]", name, t), Value: v,
+					Rule: "magnitude above 1e140: the correlations of the identification would overflow; rescale the series (change its units)"}
+			}
+		}
+		if lo, hi := fcRange(x); hi > lo && hi-lo < idfMinSpread {
+			return &ArgError{Arg: fmt.Sprintf("series %q", name), Value: hi - lo,
+				Rule: "varies by less than 1e-140 (the range shown): the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)"}
 		}
 	}
 	return nil
 }
+
+// idfMaxMagnitude and idfMinSpread bound the samples Identify accepts:
+// the ARMA fits of the prewhitening refuse magnitudes above 1e140, and
+// the correlations need squared deviations above the float64 underflow
+// (about 1e-308 for a square, so deviations above about 1e-140 leave
+// room for the sums).
+const (
+	idfMaxMagnitude = 1e140
+	idfMinSpread    = 1e-140
+)
 
 // idfInput builds the input term of a ccf candidate: omega with plus
 // signs (w_k = Num[k]) and delta with minus signs (d_k = -Den[k]), the

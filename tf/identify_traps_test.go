@@ -84,7 +84,9 @@ func TestIdentifySettingsTable(t *testing.T) {
 // "output (filtered)" with a rounding residue such as -2.22e-15), that a
 // constant input with no differencing asked is not said to be constant
 // "after differencing", that errors of inner steps name the step and
-// the series, and that a bad list of inputs is refused by name.
+// the series, that samples too large (above 1e140) or too little varied
+// (below 1e-140) are refused by the series' name, and that a bad list
+// of inputs is refused by name.
 func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 	data := idfTrapData()
 	n := len(data["y"])
@@ -120,6 +122,23 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 	if !errors.As(err, &nr) || !errors.As(err, &st) || !strings.Contains(err.Error(), `tf: Identify: estimating the impulse response of "y" to input "valve"`) &&
 		!strings.Contains(err.Error(), `tf: Identify: choosing the dead time and orders of input "valve"`) {
 		t.Errorf("no response: %v", err)
+	}
+	// Samples too large or too little varied for the correlations are
+	// refused by the user's series name before any inner step.
+	big := make([]float64, n)
+	tiny := make([]float64, n)
+	for i := range big {
+		big[i] = data["x"][i] * 1e200
+		tiny[i] = data["y"][i] * 1e-170
+	}
+	var ae *ArgError
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": data["y"], "x": big}, nil); !errors.As(err, &ae) ||
+		ae.Arg != "x[0]" || !strings.Contains(err.Error(), "magnitude above 1e140") {
+		t.Errorf("huge input: %v", err)
+	}
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": tiny, "x": data["x"]}, nil); !errors.As(err, &ae) ||
+		ae.Arg != `series "y"` || !strings.Contains(err.Error(), "varies by less than 1e-140") {
+		t.Errorf("tiny output: %v", err)
 	}
 	var le *InputListError
 	for _, tc := range []struct {
