@@ -469,7 +469,16 @@ func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, f
 			defer wg.Done()
 			sem <- struct{}{}
 			defer func() { <-sem }()
-			defer prog.tick()
+			defer func() {
+				// The caller's Progress callback runs here: a panic in it
+				// must not kill the process either.
+				defer func() {
+					if r := recover(); r != nil {
+						out[k] = Candidate{Model: models[k], Score: math.Inf(1), Err: &PanicError{Stage: "calling IdentifySettings.Progress", Value: r}}
+					}
+				}()
+				prog.tick()
+			}()
 			c := Candidate{Model: models[k], Score: math.Inf(1)}
 			stage := "fitting candidate " + c.Label()
 			// The last line of defence: a panic in this goroutine would

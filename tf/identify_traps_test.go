@@ -197,6 +197,28 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	if panicked == 0 || cands[0].Err != nil {
 		t.Errorf("%d panicked candidates; best %v", panicked, cands[0].Err)
 	}
+	// A panic in the caller's Progress callback, called from Identify's
+	// goroutines, is caught there too.
+	idfFit = Fit
+	calls := 0
+	var mu sync.Mutex
+	cands, err = Identify(context.Background(), "y", []string{"x"}, idfTrapData(), &IdentifySettings{Workers: 1, NoRefine: true,
+		Progress: func(done, total int) {
+			mu.Lock()
+			calls++
+			mu.Unlock()
+			if done == 2 {
+				panic("progress bar broke")
+			}
+		}})
+	found := false
+	for _, c := range cands {
+		var pe *PanicError
+		found = found || errors.As(c.Err, &pe) && strings.Contains(c.Err.Error(), "while calling IdentifySettings.Progress: progress bar broke")
+	}
+	if !found || calls != len(cands) {
+		t.Errorf("panicking Progress: %v, %d calls for %d candidates", err, calls, len(cands))
+	}
 	// A panic in the caller's goroutine (the preliminary fit) is an
 	// error too.
 	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
