@@ -3,10 +3,13 @@ package tf
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/poly"
+	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/prewhiten"
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -15,10 +18,15 @@ import (
 type CheckSettings struct {
 	// Lags is the number K of residual autocorrelations in the Ljung-Box
 	// test. Zero means min(24, N/4), raised to the number of noise
-	// parameters + 1 when that is larger.
+	// parameters + 1 when that is larger (and at most N - 1). A K of
+	// N or more, or not above the number of free noise parameters, is an
+	// *ArgError. Every field: zero means the default, negative (or NaN)
+	// is an *ArgError naming the field.
 	Lags int
 	// CrossLags is K for the residual-input cross-correlations at lags
-	// 0..K. Zero means Lags.
+	// 0..K. Zero means Lags. K is cut to M - 2, M the number of samples
+	// where both the residuals and the prewhitened input exist
+	// (CrossCheck.Lags reports the K used).
 	CrossLags int
 	// Alpha is the significance level of every verdict: a check fails
 	// when its p-value is below Alpha. Zero means 0.05.
@@ -80,20 +88,45 @@ type Diagnostics struct {
 	// Cross holds one check per input, in the model's order.
 	Cross []CrossCheck
 	// Failures lists, in words, every reason the model must not be
-	// trusted: the fit did not converge, a standard error is not
-	// available, a serious warning of the estimate (WarningKind.Serious:
-	// roots on or outside the unit circle, too few residuals, an
-	// unexplained start-up transient, ...), and every failed check.
-	// Empty when the model passes.
+	// trusted, the estimate's own first (see Soundness): the fit did not
+	// converge, a standard error or estimate is not finite, an
+	// estimated root lies on or outside the unit circle, too few
+	// residuals per coefficient, a serious warning of the estimate
+	// (WarningKind.Serious); then every failed check. Empty when the
+	// model passes.
 	Failures []string
 	// Pass reports whether every check passed and the estimate itself
 	// is sound: len(Failures) == 0.
 	Pass bool
 }
 
+// Thresholds of the verdict.
+const (
+	// CheckMinResidualsPerCoef and CheckMinResiduals set the least
+	// number of residuals N for a sound estimate with k free
+	// coefficients: N >= max(CheckMinResiduals, CheckMinResidualsPerCoef
+	// k), the rule of the fit's FewResiduals warning. Ten observations
+	// per estimated coefficient is a rule of thumb of regression
+	// practice (common practice, not from a source); at least 50
+	// observations is the least Box and Jenkins advise for
+	// identifying and fitting such models (from memory). With fewer,
+	// the estimates and their standard errors rest on too little data
+	// to be trusted even when the fit converges.
+	CheckMinResidualsPerCoef = 10
+	CheckMinResiduals        = 50
+	// CheckBoundaryZ is the root magnitude, in the z-plane, from which an
+	// estimated input pole, noise AR root or noise MA zero counts as on
+	// or outside the unit circle (0.999, the threshold of the fit's
+	// warnings, common practice): such a path is unstable or at the
+	// stability boundary (an estimate on the boundary of the admissible
+	// region), noise so estimated is not stationary or not invertible.
+	CheckBoundaryZ = 0.999
+)
+
 // Check runs the diagnostic checks of a fitted model on the data it was
 // fitted to, or other data with the same series (the residuals are
-// recomputed from data with the estimates and e's conditioning): the Ljung-Box
+// recomputed from data with the estimates and e's conditioning,
+// Conditioning.First and Conditioning.ZeroPreSample): the Ljung-Box
 // test of the residual autocorrelations, with degrees of freedom reduced
 // by the number of free noise parameters, and for each input the
 // portmanteau test of the cross-correlations between the residuals and
@@ -101,11 +134,16 @@ type Diagnostics struct {
 //
 //	S = M sum_{k=0}^{K} r_alpha,a(k)^2 ~ chi-squared(K + 1 - (r + s + 1)),
 //
-// with a verdict per check and overall. data is not modified.
+// with a verdict per check and overall. The overall verdict (Pass) also
+// requires a sound estimate (see Soundness). data is not modified.
 //
-// Errors: the *FitError and *SampleError of Fit for missing, unequal or
-// non-finite series; the errors of packages arma, prewhiten and ccf when
-// a series is too short or constant for its check.
+// Errors: *EstimateError for a nil estimate or a coefficient that is not
+// finite; *ArgError for a bad setting (CheckSettings.Lags, CrossLags,
+// Alpha); the *FitError and *SampleError of Fit for missing, unequal or
+// non-finite series; *NonFiniteResultError when the residuals overflow
+// (the model diverges on data); *ConstantSeriesError for an input that is
+// constant after its differencing; *StageError wrapping the error of the
+// prewhitening or correlation step otherwise.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis, 5th ed., Wiley: the chapter on
@@ -116,10 +154,16 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 	if s != nil {
 		set = *s
 	}
-	if set.Alpha <= 0 {
+	if err := set.validate(); err != nil {
+		return nil, err
+	}
+	if set.Alpha == 0 {
 		set.Alpha = 0.05
 	}
-	resid, first, err := chkResiduals(e, data)
+	if err := chkEstimateUsable("Check", e); err != nil {
+		return nil, err
+	}
+	resid, first, err := chkResiduals("Check", e, data)
 	if err != nil {
 		return nil, err
 	}
@@ -130,42 +174,56 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 		noisePar = len(chkFreeNames(e.Model.Noise.MA, e.Model.Noise.AR))
 	}
 	lags := set.Lags
-	if lags <= 0 {
+	if lags == 0 {
 		lags = max(min(24, nres/4), noisePar+1)
+		lags = min(lags, nres-1)
+	} else if lags >= nres {
+		return nil, &ArgError{Arg: "CheckSettings.Lags", Value: float64(set.Lags),
+			Rule: "must be below the number of residuals (" + strconv.Itoa(nres) + "); zero chooses min(24, N/4)"}
 	}
-	lags = max(lags, noisePar+1)
+	if lags < noisePar+1 {
+		if set.Lags > 0 {
+			return nil, &ArgError{Arg: "CheckSettings.Lags", Value: float64(set.Lags),
+				Rule: "must exceed the number of free noise coefficients (" + strconv.Itoa(noisePar) + ") so that the Ljung-Box test has a degree of freedom"}
+		}
+		return nil, &FitError{Problem: TooFewObservations, Series: e.Model.Output, Len: nres, Want: noisePar + 2,
+			Detail: "the Ljung-Box check needs more residuals than free noise coefficients + 1"}
+	}
 	d := &Diagnostics{Alpha: set.Alpha, Pass: true}
 	acf, err := arma.ACF(a, lags)
 	if err != nil {
-		return nil, err
+		return nil, &StageError{Func: "Check", Stage: "residual autocorrelations", Err: err}
 	}
 	lb, err := arma.LjungBox(a, lags, noisePar)
 	if err != nil {
-		return nil, err
+		return nil, &StageError{Func: "Check", Stage: "Ljung-Box test of the residuals", Err: err}
 	}
 	d.Residual = ResidualCheck{ACF: append([]float64(nil), acf.R[1:]...), Band: 1.96 / math.Sqrt(float64(nres)),
 		Q: lb.Q, Lags: lags, DF: lb.DF, P: lb.P, Pass: lb.P >= set.Alpha}
-	d.Pass = d.Pass && d.Residual.Pass
 	kx := set.CrossLags
 	if kx <= 0 {
 		kx = lags
 	}
 	for _, in := range e.Model.Inputs {
 		x := data[in.Series]
+		if v, ok := chkConstant(x, in.Diff.Coeffs()); ok {
+			return nil, &ConstantSeriesError{Func: "Check", Series: in.Series, Role: "input", Value: v, Diff: chkDiffText(in.Diff.Coeffs())}
+		}
+		stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
 		f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
 		if err != nil {
-			return nil, err
+			return nil, &StageError{Func: "Check", Stage: stage, Err: err}
 		}
 		alpha, start, err := f.Apply(x, in.Series)
 		if err != nil {
-			return nil, err
+			return nil, &StageError{Func: "Check", Stage: stage, Err: err}
 		}
 		t0 := max(start, first)
 		m := len(x) - t0
 		k := min(kx, m-2)
 		c, err := ccf.Cross(alpha[t0:], resid[t0:], k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
 		if err != nil {
-			return nil, err
+			return nil, &StageError{Func: "Check", Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
 		}
 		cc := CrossCheck{Input: in.Series, Prewhiten: f, M: c.N, Lags: k, Band: 1.96 / math.Sqrt(float64(c.N))}
 		cc.CCF = make([]float64, k+1)
@@ -177,10 +235,9 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 		cc.DF = max(k+1-len(chkFreeNames(in.Num, in.Den)), 1)
 		cc.P = distuv.ChiSquared{K: float64(cc.DF)}.Survival(cc.S)
 		cc.Pass = cc.P >= set.Alpha
-		d.Pass = d.Pass && cc.Pass
 		d.Cross = append(d.Cross, cc)
 	}
-	d.Failures = append(chkEstimateFailures(e), d.Failures...)
+	d.Failures = e.Soundness()
 	if !d.Residual.Pass {
 		d.Failures = append(d.Failures, fmt.Sprintf("the residuals are autocorrelated (Ljung-Box p = %s below %s)", fitNum(d.Residual.P, 3), fitNum(set.Alpha, 3)))
 	}
@@ -193,29 +250,205 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 	return d, nil
 }
 
-// chkEstimateFailures lists what makes e itself untrustworthy, whatever
-// its residuals look like: no convergence, standard errors that are not
-// finite and positive, and the serious warnings.
-func chkEstimateFailures(e *Estimate) []string {
+// validate reports a bad setting as an *ArgError naming the field. The
+// rule of every CheckSettings field: zero means the default, a negative
+// or NaN value is an error.
+func (s CheckSettings) validate() error {
+	if s.Lags < 0 {
+		return &ArgError{Arg: "CheckSettings.Lags", Value: float64(s.Lags), Rule: "must be zero (the default, min(24, N/4)) or positive"}
+	}
+	if s.CrossLags < 0 {
+		return &ArgError{Arg: "CheckSettings.CrossLags", Value: float64(s.CrossLags), Rule: "must be zero (the default, Lags) or positive"}
+	}
+	if !(s.Alpha >= 0 && s.Alpha < 1) {
+		return &ArgError{Arg: "CheckSettings.Alpha", Value: s.Alpha, Rule: "must lie in (0, 1), zero meaning 0.05"}
+	}
+	return nil
+}
+
+// Soundness lists, in words, what makes the estimate itself
+// untrustworthy whatever its residuals look like (empty when nothing
+// does); Check puts these first in Diagnostics.Failures:
+//
+//   - the fit did not converge;
+//   - a standard error is NaN, infinite or zero, or an estimate or the
+//     noise variance is not finite;
+//   - an estimated input pole, noise AR root or noise MA zero has
+//     |z| >= CheckBoundaryZ (on or outside the unit circle), computed
+//     from the estimate's polynomials; a factor written with numbers
+//     only (such as a fixed integrator 1 - B) is the user's choice and
+//     does not count;
+//   - fewer residuals than max(CheckMinResiduals,
+//     CheckMinResidualsPerCoef k), that is N < max(50, 10 k) for k free
+//     coefficients;
+//   - any other serious warning of the fit (WarningKind.Serious).
+func (e *Estimate) Soundness() []string {
+	if e == nil {
+		return []string{"there is no estimate"}
+	}
 	var out []string
 	if !e.Converged {
 		out = append(out, "the fit did not converge ("+e.Reason+")")
 	}
-	var bad []string
+	var bad, nonFinite []string
 	for _, p := range e.Params {
+		if math.IsNaN(p.Value) || math.IsInf(p.Value, 0) {
+			nonFinite = append(nonFinite, p.Name)
+		}
 		if !(p.SE > 0) || math.IsInf(p.SE, 0) {
 			bad = append(bad, p.Name)
 		}
 	}
+	if len(nonFinite) > 0 {
+		out = append(out, "the estimate of "+strings.Join(nonFinite, ", ")+" is not a finite number")
+	}
 	if len(bad) > 0 {
-		out = append(out, "no standard error for "+strings.Join(bad, ", "))
+		out = append(out, "no standard error for "+strings.Join(bad, ", ")+" (the coefficients are not determined by the data)")
+	}
+	if !(e.Sigma2 >= 0) || math.IsInf(e.Sigma2, 0) {
+		out = append(out, "the noise variance is "+fitNum(e.Sigma2, 4)+", not a finite number")
+	}
+	out = append(out, chkRootFailures(e.Model)...)
+	k := len(e.Params)
+	need := max(CheckMinResiduals, CheckMinResidualsPerCoef*k)
+	few := k > 0 && e.N < need
+	if few {
+		out = append(out, fmt.Sprintf("only %d residuals for %d free coefficients: fewer than max(%d, %d per coefficient) = %d, too few to trust the estimates (use a longer record or fewer coefficients)",
+			e.N, k, CheckMinResiduals, CheckMinResidualsPerCoef, need))
 	}
 	for _, w := range e.Warnings {
-		if w.Kind.Serious() && w.Kind != NotConverged && w.Kind != BadStandardError {
+		switch {
+		case !w.Kind.Serious():
+		case w.Kind == NotConverged, w.Kind == BadStandardError, w.Kind == SingularInformation:
+			// Reported above from the estimate itself.
+		case w.Kind == UnstableDenominator, w.Kind == NonStationaryNoise, w.Kind == NonInvertibleNoise:
+			// Checked above from the polynomials, factor by factor.
+		case w.Kind == FewResiduals && few:
+		default:
 			out = append(out, w.Message)
 		}
 	}
 	return out
+}
+
+// chkRootFailures checks every factor of the estimated input
+// denominators and noise polynomials that holds a free coefficient for a
+// root with |z| >= CheckBoundaryZ.
+func chkRootFailures(m Model) []string {
+	var out []string
+	check := func(p Poly, what, root, why string) {
+		for _, f := range p.Factors {
+			var names []string
+			seen := map[string]bool{}
+			for _, t := range f.Terms {
+				if t.Coef.Free && !seen[t.Coef.Name] {
+					seen[t.Coef.Name] = true
+					names = append(names, t.Coef.Name)
+				}
+			}
+			if len(names) == 0 {
+				continue
+			}
+			c := poly.Trim(Poly{Factors: []Factor{{Terms: f.Terms, Exp: 1}}}.Coeffs(), 0)
+			if len(c) <= 1 {
+				continue
+			}
+			var mz float64
+			finite := true
+			for _, v := range c {
+				finite = finite && !math.IsNaN(v) && !math.IsInf(v, 0)
+			}
+			zs, err := poly.Roots(poly.Reciprocal(c))
+			if !finite || err != nil {
+				out = append(out, fmt.Sprintf("%s (%s): its %ss cannot be computed from the estimates", what, strings.Join(names, ", "), root))
+				continue
+			}
+			mz = poly.MaxAbsRoot(zs)
+			if mz >= CheckBoundaryZ {
+				out = append(out, fmt.Sprintf("%s (%s) has a %s at |z| = %s, on or outside the unit circle: %s",
+					what, strings.Join(names, ", "), root, strconv.FormatFloat(mz, 'g', 5, 64), why))
+			}
+		}
+	}
+	for _, in := range m.Inputs {
+		check(in.Den, fmt.Sprintf("input %q: the estimated denominator", in.Series), "pole",
+			"the path is unstable or at the stability limit, so its gain and time constants are not to be trusted")
+	}
+	if m.Noise != nil {
+		check(m.Noise.AR, "the estimated noise AR", "root",
+			"the noise is not stationary (difference the output instead, or write the factor as fixed numbers such as 1 - B)")
+		check(m.Noise.MA, "the estimated noise MA", "zero",
+			"the noise is not invertible, so the residuals do not forget their start-up values")
+	}
+	return out
+}
+
+// chkEstimateUsable reports a nil estimate or a coefficient of its model
+// that is not finite.
+func chkEstimateUsable(fn string, e *Estimate) error {
+	if e == nil {
+		return &EstimateError{Func: fn, Field: "estimate", Problem: "the estimate is nil; pass the *Estimate that Fit returned"}
+	}
+	var err error
+	visit := func(c *Coef) {
+		if err == nil && (math.IsNaN(c.Value) || math.IsInf(c.Value, 0)) {
+			name := c.Name
+			if name == "" {
+				name = "fixed number"
+			}
+			err = &EstimateError{Func: fn, Field: "coefficient " + name, Value: c.Value, Problem: "not a finite number; refit the model"}
+		}
+	}
+	if e.Model.Const != nil {
+		visit(e.Model.Const)
+	}
+	for _, in := range e.Model.Inputs {
+		in.Num.Each(visit)
+		in.Den.Each(visit)
+	}
+	if e.Model.Noise != nil {
+		e.Model.Noise.MA.Each(visit)
+		e.Model.Noise.AR.Each(visit)
+	}
+	return err
+}
+
+// chkConstant reports whether x differenced by dc (from index deg dc on)
+// is constant, and its value: a spread within 1e-12 of the largest
+// magnitude of x (rounding of the differencing) counts as constant.
+func chkConstant(x, dc []float64) (float64, bool) {
+	if len(dc) == 0 {
+		dc = fitOne
+	}
+	d := len(dc) - 1
+	if len(x) <= d {
+		return 0, false
+	}
+	z := fitDiff(x, dc)[d:]
+	scale := 0.0
+	for _, v := range x {
+		scale = math.Max(scale, math.Abs(v))
+	}
+	lo, hi := z[0], z[0]
+	for _, v := range z {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	if hi-lo > 1e-12*scale {
+		return 0, false
+	}
+	v := z[0]
+	if math.Abs(v) <= 1e-12*scale {
+		v = 0
+	}
+	return v, true
+}
+
+// chkDiffText writes a differencing operator for messages, "" for none.
+func chkDiffText(dc []float64) string {
+	if len(dc) <= 1 {
+		return ""
+	}
+	return FormatPoly(sym.FromCoeffs(dc))
 }
 
 // chkFreeNames returns the distinct free parameter names of the polys.
@@ -234,8 +467,10 @@ func chkFreeNames(ps ...Poly) []string {
 }
 
 // chkResiduals returns the residuals of e's model on data (aligned to
-// the data index, zero before first) and the first residual index.
-func chkResiduals(e *Estimate, data map[string][]float64) ([]float64, int, error) {
+// the data index, zero before first) and the first residual index,
+// with e's conditioning; residuals that are not finite are a
+// *NonFiniteResultError.
+func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64, int, error) {
 	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, 0, err
@@ -243,5 +478,23 @@ func chkResiduals(e *Estimate, data map[string][]float64) ([]float64, int, error
 	w.set(w.params())
 	w.noiseSeries()
 	w.resid()
+	for t := w.cond.First; t < w.n; t++ {
+		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, 0, &NonFiniteResultError{Func: fn, Series: "residuals", Index: t, Value: v, Hint: chkDivergeHint(e)}
+		}
+	}
 	return w.a, w.cond.First, nil
+}
+
+// chkDivergeHint names the likely cause of residuals or forecasts that
+// overflow.
+func chkDivergeHint(e *Estimate) string {
+	if !e.Conditioning.ZeroPreSample {
+		for _, in := range e.Model.Inputs {
+			if in.Diff.IsOne() && math.Abs(fitSum(in.Den.Coeffs())) < 1e-12 {
+				return fmt.Sprintf("input %q has an integrating term (a pole at z = 1) and is taken as held at its first value before the record, a level it would integrate forever; fit with FitSettings.ZeroPreSample, or difference the input", in.Series)
+			}
+		}
+	}
+	return "the model with these estimates diverges on this data (a pole or noise root on or outside the unit circle, or samples far larger than in the fit)"
 }

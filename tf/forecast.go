@@ -1,8 +1,11 @@
 package tf
 
 import (
+	"fmt"
 	"math"
+	"sort"
 	"strconv"
+	"strings"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/filter"
@@ -42,14 +45,77 @@ type ForecastSettings struct {
 	// Level is the coverage of the intervals, in (0, 1). Zero means 0.95.
 	Level float64
 	// Future holds known future values of inputs (at least h values each,
-	// for indices n..n+h-1). Inputs without an entry are forecast from
-	// their own ARMA model.
+	// for indices n..n+h-1; values beyond h are not used). Inputs without
+	// an entry are forecast from their own ARMA model. An entry for the
+	// output is ignored (so that a map of all series' futures may be
+	// passed); any other name that is not an input of the model is an
+	// error (a misspelt name would otherwise leave the input to be
+	// forecast silently).
 	Future map[string][]float64
-	// InputModels gives the ARMA model of an input to forecast it with.
-	// Inputs with neither a Future nor a model get an autoregression
-	// fitted to their differenced series by Yule-Walker with AIC order
-	// choice (arma.YuleWalker).
+	// InputModels gives the ARMA model of an input to forecast it with
+	// (see InputModel for what a usable model is). Inputs with neither a
+	// Future nor a model get an autoregression fitted to their
+	// differenced series by Yule-Walker with AIC order choice
+	// (arma.YuleWalker). An input with both is taken as known (Future);
+	// its model is still validated.
 	InputModels map[string]InputModel
+}
+
+// validate reports a bad setting: the Level, a Future entry for a
+// series that is neither an input nor the output of m, an InputModels
+// entry for a series that is not an input, a Future shorter than h
+// or holding a NaN, infinite or too large value, an unusable
+// InputModel.
+func (s ForecastSettings) validate(m Model, h int) error {
+	if !(s.Level >= 0 && s.Level < 1) {
+		return &ArgError{Arg: "ForecastSettings.Level", Value: s.Level, Rule: "must lie in (0, 1), zero meaning 0.95"}
+	}
+	inputs := map[string]bool{}
+	var names []string
+	for _, in := range m.Inputs {
+		inputs[in.Series] = true
+		names = append(names, in.Series)
+	}
+	for _, name := range fcSortedKeys(s.Future) {
+		if name == m.Output {
+			continue // the output's own future (say, held-out data) is not used
+		}
+		if !inputs[name] {
+			return &UnknownInputError{Setting: "ForecastSettings.Future", Name: name, Inputs: names}
+		}
+		fut := s.Future[name]
+		if len(fut) < h {
+			return &FitError{Problem: BadFuture, Series: name, Len: len(fut), Want: h, Detail: "ForecastSettings.Future needs a value for every step of the horizon"}
+		}
+		for j, v := range fut[:h] {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return &SampleError{Series: "future " + name, Index: j, Value: v}
+			}
+			if math.Abs(v) > FitMaxMagnitude {
+				return &ArgError{Arg: fmt.Sprintf("ForecastSettings.Future[%q][%d]", name, j), Value: v, Rule: "magnitude above 1e150: the forecast would overflow; rescale the series"}
+			}
+		}
+	}
+	for _, name := range fcSortedKeys(s.InputModels) {
+		if !inputs[name] {
+			return &UnknownInputError{Setting: "ForecastSettings.InputModels", Name: name, Inputs: names}
+		}
+		if err := s.InputModels[name].validate(name); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// fcSortedKeys returns the keys of m in order, so that the first error
+// reported does not depend on map order.
+func fcSortedKeys[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
 }
 
 // InputForecast describes how one input's future was obtained.
@@ -62,6 +128,46 @@ type InputForecast struct {
 	// Values holds the input values used for indices n..n+h-1 (given or
 	// forecast), in the input's original units.
 	Values []float64
+	// RecordMin and RecordMax are the smallest and largest value of the
+	// input in the data the forecast starts from.
+	RecordMin, RecordMax float64
+}
+
+// ForecastWarningKind classifies a ForecastWarning.
+type ForecastWarningKind int
+
+const (
+	// PlanOutsideRecord: the known future values of an input leave the
+	// range of that input seen in the data, so the forecast extrapolates
+	// the model beyond what the record showed of it.
+	PlanOutsideRecord ForecastWarningKind = iota + 1
+	// UnsoundEstimate: the estimate fails one of the tests of
+	// Estimate.Soundness, so the forecast inherits its faults.
+	UnsoundEstimate
+)
+
+// String names the kind in a few words.
+func (k ForecastWarningKind) String() string {
+	switch k {
+	case PlanOutsideRecord:
+		return "planned input outside the record"
+	case UnsoundEstimate:
+		return "estimate not to be trusted"
+	}
+	return "ForecastWarningKind(" + strconv.Itoa(int(k)) + ")"
+}
+
+// ForecastWarning is one reason to doubt a forecast: its Kind, a
+// sentence for people, and for PlanOutsideRecord the input and the two
+// ranges.
+type ForecastWarning struct {
+	Kind    ForecastWarningKind
+	Message string
+	// Input names the input (PlanOutsideRecord).
+	Input string
+	// RecordMin, RecordMax are the range of the input in the data;
+	// PlanMin, PlanMax that of its known future values (PlanOutsideRecord).
+	RecordMin, RecordMax, PlanMin, PlanMax float64
 }
 
 // Forecast is the result of (*Estimate).Forecast: forecasts of the
@@ -76,15 +182,21 @@ type Forecast struct {
 	Level                  float64
 	// Inputs lists how every input's future was obtained, in model order.
 	Inputs []InputForecast
+	// Warnings lists reasons to doubt the forecast (known future inputs
+	// outside the range of the record, an unsound estimate); empty when
+	// none.
+	Warnings []ForecastWarning
 }
 
 // Forecast returns h-step forecasts of the output from the end of data
 // (the series of the fit, or newer data with the same series; residuals
-// are recomputed from data with the estimates and the fit's
-// conditioning, including the steady pre-sample level of each input
-// taken from the first sample of data). Inputs whose future is given in s.Future are used as
-// known; the others are forecast from their own ARMA models and their
-// forecast errors enter the variance.
+// are recomputed from data with the estimates and the fit's own
+// conditioning, Conditioning.First and Conditioning.ZeroPreSample: an
+// input without differencing is taken as held at the first sample of
+// data before it, or as zero when the fit took it so). Inputs whose
+// future is given in s.Future are used as known; the others are
+// forecast from their own ARMA models and their forecast errors enter
+// the variance.
 //
 // With psi_j the weights of theta(B)/(phi(B) D(B)) and, for an input
 // forecast from AR_i(B) z = MA_i(B) e, psi*_ij the weights of
@@ -96,9 +208,22 @@ type Forecast struct {
 // estimate is sigma^2. Point forecasts set future innovations to zero
 // and integrate the differencing with the observed outputs.
 //
-// Errors: *ArgError for h < 1 or h > MaxHorizon, or a Level outside
-// (0, 1); *FitError (BadFuture) for a Future shorter than h,
-// *SampleError for a non-finite future value; the data errors of Fit.
+// The result carries warnings (Forecast.Warnings) when a known future
+// input leaves the range of that input in data (PlanOutsideRecord,
+// naming the input and both ranges) and when the estimate is not sound
+// (UnsoundEstimate, see Estimate.Soundness).
+//
+// Errors: *ArgError for h < 1 or h > MaxHorizon, or a bad
+// ForecastSettings.Level; *EstimateError for a nil estimate, a
+// coefficient or Sigma2 that is not finite; *UnknownInputError for a Future
+// or InputModels entry naming a series that is not an input,
+// *FitError (BadFuture) for a Future shorter than h,
+// *SampleError for a non-finite future value, *ArgError for one above
+// FitMaxMagnitude; *InputModelError for an unusable input model
+// (InputModel); the data errors of Fit; *NonFiniteResultError when the
+// residuals or the forecast overflow float64 (never NaN or infinite
+// numbers with a nil error); *StageError wrapping the error of the
+// automatic input autoregression.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis, 5th ed., Wiley: the chapter on
@@ -114,19 +239,30 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	if h > MaxHorizon {
 		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at most tf.MaxHorizon (" + strconv.Itoa(MaxHorizon) + " steps)"}
 	}
+	if err := chkEstimateUsable("Forecast", e); err != nil {
+		return nil, err
+	}
+	if math.IsNaN(e.Sigma2) || math.IsInf(e.Sigma2, 0) || e.Sigma2 < 0 {
+		return nil, &EstimateError{Func: "Forecast", Field: "Sigma2", Value: e.Sigma2, Problem: "the noise variance must be zero or positive and finite"}
+	}
+	if err := set.validate(e.Model, h); err != nil {
+		return nil, err
+	}
 	if set.Level == 0 {
 		set.Level = 0.95
 	}
-	if !(set.Level > 0 && set.Level < 1) {
-		return nil, &ArgError{Arg: "Level", Value: set.Level, Rule: "must lie in (0, 1)"}
-	}
-	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First})
+	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, err
 	}
 	w.set(w.params())
 	w.noiseSeries()
 	w.resid()
+	for t := w.cond.First; t < w.n; t++ {
+		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, &NonFiniteResultError{Func: "Forecast", Series: "residuals", Index: t, Value: v, Hint: chkDivergeHint(e)}
+		}
+	}
 	n := w.n
 	L := n + h
 	fc := &Forecast{Origin: n, Level: set.Level, Mean: make([]float64, h), SE: make([]float64, h),
@@ -135,7 +271,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	psiDen := poly.Mul(w.arC, dc)
 	psi, err := poly.Divide(w.maC, psiDen, h)
 	if err != nil {
-		return nil, err
+		return nil, &StageError{Func: "Forecast", Stage: "psi weights of the noise model", Err: err}
 	}
 	vr := make([]float64, h)
 	acc := 0.0
@@ -155,26 +291,25 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		fi := &w.ins[i]
 		in := fi.in
 		ifc := InputForecast{Series: in.Series}
+		ifc.RecordMin, ifc.RecordMax = fcRange(fi.x)
 		xe := make([]float64, L)
 		copy(xe, fi.x)
 		dx := in.Diff.Coeffs()
 		if fut, ok := set.Future[in.Series]; ok {
-			if len(fut) < h {
-				return nil, &FitError{Problem: BadFuture, Series: in.Series, Len: len(fut), Want: h}
-			}
-			for j := 0; j < h; j++ {
-				if v := fut[j]; math.IsNaN(v) || math.IsInf(v, 0) {
-					return nil, &SampleError{Series: "future " + in.Series, Index: j, Value: v}
-				}
-			}
 			copy(xe[n:], fut[:h])
 			ifc.Known = true
+			if lo, hi := fcRange(fut[:h]); n > 0 && (lo < ifc.RecordMin || hi > ifc.RecordMax) {
+				fc.Warnings = append(fc.Warnings, ForecastWarning{Kind: PlanOutsideRecord, Input: in.Series,
+					RecordMin: ifc.RecordMin, RecordMax: ifc.RecordMax, PlanMin: lo, PlanMax: hi,
+					Message: fmt.Sprintf("input %q: the planned values span %s .. %s, outside the range %s .. %s seen in the record; the forecast extrapolates the model beyond what the data showed of it",
+						in.Series, fitNum(lo, 6), fitNum(hi, 6), fitNum(ifc.RecordMin, 6), fitNum(ifc.RecordMax, 6))})
+			}
 		} else {
 			im, ok := set.InputModels[in.Series]
 			if !ok {
 				yw, err := arma.YuleWalker(fi.z[fi.d:], 0)
 				if err != nil {
-					return nil, err
+					return nil, &StageError{Func: "Forecast", Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", in.Series), Err: err}
 				}
 				im = InputModel{AR: yw.Poly(), MA: []float64{1}, Mean: yw.Mean, Sigma2: yw.Var}
 			}
@@ -184,9 +319,8 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			if len(im.MA) == 0 {
 				im.MA = []float64{1}
 			}
-			if im.AR[0] == 0 || im.MA[0] == 0 {
-				return nil, &FitError{Problem: BadDenominator, Series: in.Series, Detail: "input model"}
-			}
+			im.AR = append([]float64(nil), im.AR...)
+			im.MA = append([]float64(nil), im.MA...)
 			ifc.Model = im
 			zf := fcARMA(fi.z, fi.d, im, h)
 			for j := 0; j < h; j++ {
@@ -196,13 +330,17 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 					v -= dx[k] * xe[t-k]
 				}
 				xe[t] = v / dx[0]
+				if math.IsNaN(xe[t]) || math.IsInf(xe[t], 0) {
+					return nil, &NonFiniteResultError{Func: "Forecast", Series: "forecast of input " + strconv.Quote(in.Series), Index: t, Value: xe[t],
+						Hint: "the input's forecast overflowed float64; give its future in ForecastSettings.Future or a stationary model in ForecastSettings.InputModels, or shorten the horizon"}
+				}
 			}
 			// Input forecast errors through omega B^b MA/(delta AR D).
 			num := poly.Mul(poly.Shift(fi.numC, in.Delay), im.MA)
 			den := poly.Mul(poly.Mul(fi.denC, im.AR), dc)
 			ps, err := poly.Divide(num, den, h)
 			if err != nil {
-				return nil, err
+				return nil, &StageError{Func: "Forecast", Stage: fmt.Sprintf("psi weights of input %q", in.Series), Err: err}
 			}
 			acc := 0.0
 			for j := 0; j < h; j++ {
@@ -260,8 +398,33 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		fc.SE[j] = math.Sqrt(vr[j])
 		fc.Lower[j] = fc.Mean[j] - z*fc.SE[j]
 		fc.Upper[j] = fc.Mean[j] + z*fc.SE[j]
+		for _, r := range []struct {
+			name string
+			v    float64
+		}{{"forecast mean", fc.Mean[j]}, {"forecast standard error", fc.SE[j]}, {"lower forecast limit", fc.Lower[j]}, {"upper forecast limit", fc.Upper[j]}} {
+			if math.IsNaN(r.v) || math.IsInf(r.v, 0) {
+				return nil, &NonFiniteResultError{Func: "Forecast", Series: r.name, Index: n + j, Value: r.v,
+					Hint: fmt.Sprintf("the forecast overflowed float64 at step %d; %s", j+1, chkDivergeHint(e))}
+			}
+		}
+	}
+	if bad := e.Soundness(); len(bad) > 0 {
+		fc.Warnings = append(fc.Warnings, ForecastWarning{Kind: UnsoundEstimate,
+			Message: "the estimate is not to be trusted, nor forecasts from it: " + strings.Join(bad, "; ")})
 	}
 	return fc, nil
+}
+
+// fcRange returns the smallest and largest value of x (0, 0 when empty).
+func fcRange(x []float64) (lo, hi float64) {
+	if len(x) == 0 {
+		return 0, 0
+	}
+	lo, hi = x[0], x[0]
+	for _, v := range x {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	return lo, hi
 }
 
 // fcARMA forecasts z (valid from index d) h steps ahead from its ARMA

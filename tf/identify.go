@@ -25,13 +25,16 @@ type IdentifySettings struct {
 	OutputDiff []float64
 	// InputDiff gives the differencing of each input by name; an input
 	// without an entry is differenced like the output (the usual
-	// practice, so that both sides of the model are stationary).
+	// practice, so that both sides of the model are stationary). A name
+	// that is not an input is an *UnknownInputError. Every differencing
+	// operator (OutputDiff too) must have finite coefficients, constant
+	// term 1 and a degree below half the record.
 	InputDiff map[string][]float64
 	// MaxLag is the largest lag of the impulse-response weights. Zero
 	// means max(10, min(36, n/6)).
 	MaxLag int
 	// MaxR and MaxS bound the denominator and numerator degrees tried
-	// (ccf.Identify); zero means 2.
+	// (ccf.Identify); zero means 2, a negative value order zero only.
 	MaxR, MaxS int
 	// Forms is the number of (b, r, s) forms kept per input; zero
 	// means 2.
@@ -39,6 +42,12 @@ type IdentifySettings struct {
 	// MaxP and MaxQ bound the noise AR and MA orders tried
 	// (prewhiten.IdentifyNoise); zero means 2 and a negative value
 	// means order zero only (no AR, or no MA, part).
+	//
+	// The rule for every number of IdentifySettings: zero means the
+	// default; a negative count (MaxLag, Forms, NoiseOrders,
+	// MaxCandidates, Workers) is an *ArgError naming the field, while a
+	// negative order bound (MaxR, MaxS, MaxP, MaxQ) means order zero
+	// only, as in packages ccf and prewhiten.
 	MaxP, MaxQ int
 	// NoiseOrders is the number of noise orders kept; zero means 2.
 	NoiseOrders int
@@ -67,7 +76,8 @@ type IdentifySettings struct {
 	Progress func(done, total int)
 	// Fit and Check are passed to Fit and Check for every candidate
 	// (Fit.First is overridden so that all candidates sum the same
-	// residuals).
+	// residuals); their bad fields are reported as
+	// IdentifySettings.Fit.X and IdentifySettings.Check.X.
 	Fit   *FitSettings
 	Check *CheckSettings
 }
@@ -87,7 +97,11 @@ type Candidate struct {
 	// Score is the criterion (BIC, or AIC with ByAIC) of the fit, +Inf
 	// when the fit failed.
 	Score float64
-	// Err is the fit's error, nil on success.
+	// Err is the fit's error, nil on success: a typed error of Fit, a
+	// *ScoreError when the criterion is not a finite number (so that
+	// such a fit is never ranked first), a *PanicError when the fit or
+	// its checks panicked, or ctx's error. Candidates with an Err are
+	// ranked last, their reason kept here.
 	Err error
 	// Identification holds, per input, what the identification saw:
 	// the impulse-response weights, dead time and ranked forms
@@ -128,7 +142,7 @@ func (c Candidate) Label() string {
 // String returns a one-line summary followed by the fit's and the
 // checks' reports.
 func (c Candidate) String() string {
-	if c.Err != nil {
+	if c.Err != nil || c.Estimate == nil {
 		return fmt.Sprintf("#%d %s\n  fit failed: %v\n", c.Rank, c.Label(), c.Err)
 	}
 	s := fmt.Sprintf("#%d score %.2f  %s\n", c.Rank, c.Score, c.Label()) + c.Estimate.String()
@@ -162,18 +176,38 @@ func (c Candidate) String() string {
 // Coefficients are named w0.., d1.. (with the input name and "_" before
 // them when there are several inputs), phi1.., theta1.. and c.
 //
-// Errors: the data errors of Fit; the errors of packages prewhiten and
-// ccf when an input shows no response (*ccf.NoResponseError) or a series
-// is too short; ctx's error when it is done before any candidate is
-// fitted. A prewhitening filter that leaves the input visibly coloured
-// does not stop the identification.
-func Identify(ctx context.Context, output string, inputs []string, data map[string][]float64, s *IdentifySettings) ([]Candidate, error) {
+// Errors: the data errors of Fit; *ArgError for a sample above 1e140
+// in magnitude or a series that varies by less than 1e-140 (rescale
+// it); *InputListError for an input listed
+// twice, empty or equal to the output; *ArgError or
+// *UnknownInputError for a bad setting (see IdentifySettings);
+// *ConstantSeriesError naming the series when the output or an input is
+// constant (after its differencing); *StageError wrapping the errors of
+// packages prewhiten and ccf, with the step and series in the caller's
+// words, when an input shows no response (*ccf.NoResponseError) or a
+// series is too short; when every candidate failed, the best-ranked
+// candidate's error. When ctx is done, Identify stops and returns ctx's
+// error with the candidates fitted so far (ranked, possibly none). A
+// prewhitening filter that leaves the input visibly coloured does not
+// stop the identification.
+func Identify(ctx context.Context, output string, inputs []string, data map[string][]float64, s *IdentifySettings) (cands []Candidate, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			cands, err = nil, &PanicError{Stage: "identifying " + strconv.Quote(output), Value: r}
+		}
+	}()
 	var set IdentifySettings
 	if s != nil {
 		set = *s
 	}
 	if ctx == nil {
 		ctx = context.Background()
+	}
+	if err := idfValidate(output, inputs, data); err != nil {
+		return nil, err
+	}
+	if err := set.validate(inputs, len(data[output])); err != nil {
+		return nil, err
 	}
 	idfDefault := func(v *int, d int) {
 		if *v == 0 {
@@ -187,14 +221,14 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	idfDefault(&set.MaxQ, 2)
 	idfDefault(&set.NoiseOrders, 2)
 	idfDefault(&set.MaxCandidates, 24)
-	if set.Workers <= 0 {
+	if set.Workers == 0 {
 		set.Workers = runtime.GOMAXPROCS(0)
-	}
-	if err := idfValidate(output, inputs, data); err != nil {
-		return nil, err
 	}
 	y := data[output]
 	n := len(y)
+	if v, ok := chkConstant(y, set.OutputDiff); ok {
+		return nil, &ConstantSeriesError{Func: "Identify", Series: output, Role: "output", Value: v, Diff: chkDiffText(set.OutputDiff)}
+	}
 	maxLag := set.MaxLag
 	if maxLag <= 0 {
 		maxLag = max(10, min(36, n/6))
@@ -216,6 +250,9 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			diff = nil
 		}
 		diffs[i] = diff
+		if v, ok := chkConstant(data[name], diff); ok {
+			return nil, &ConstantSeriesError{Func: "Identify", Series: name, Role: "input", Value: v, Diff: chkDiffText(diff)}
+		}
 	}
 	var joint []*ccf.Weights
 	if len(inputs) > 1 {
@@ -224,7 +261,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		var err error
 		joint, err = idfJointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
 		if err != nil {
-			return nil, err
+			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err}
 		}
 	}
 	var ids []*ccf.Identification
@@ -237,11 +274,11 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
 			var nw *prewhiten.NotWhiteError
 			if err != nil && !errors.As(err, &nw) {
-				return nil, err
+				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err}
 			}
 			w, err = ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
 			if err != nil {
-				return nil, err
+				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err}
 			}
 		}
 		prefix := ""
@@ -254,7 +291,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		}
 		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Prefix: prefix, InputDiff: diff, Penalty: penalty})
 		if err != nil {
-			return nil, err
+			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err}
 		}
 		ids = append(ids, id)
 		dp := Poly{}
@@ -283,13 +320,26 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	}
 	noises := []*arma.Noise{{}}
 	settleFirst := 0
-	if est, err := Fit(ctx, pre, data, &fs); err == nil {
+	est, err := idfFit(ctx, pre, data, &fs)
+	if cerr := ctx.Err(); cerr != nil {
+		return nil, cerr
+	}
+	var ae *ArgError
+	if err != nil && errors.As(err, &ae) && strings.HasPrefix(ae.Arg, "FitSettings.") {
+		c := *ae
+		c.Arg = "IdentifySettings.Fit." + strings.TrimPrefix(ae.Arg, "FitSettings.")
+		return nil, &c
+	}
+	if err == nil {
 		if !set.NoSettle {
 			k := fitSettleSamples(est.Model)
 			settleFirst = min(est.Conditioning.NoiseStart+max(set.MaxP, 0)+k, n/10)
 		}
 		r := est.Resid[est.Conditioning.First:]
 		nid, err := prewhiten.IdentifyNoise(ctx, r, &prewhiten.NoiseSettings{MaxP: set.MaxP, MaxQ: set.MaxQ})
+		if cerr := ctx.Err(); cerr != nil {
+			return nil, cerr
+		}
 		if err == nil {
 			noises = noises[:0]
 			for _, c := range nid.Candidates {
@@ -372,6 +422,9 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		out[i].Rank = i + 1
 		out[i].Identification = ids
 	}
+	if err := ctx.Err(); err != nil {
+		return out, err
+	}
 	if len(out) > 0 && out[0].Err != nil {
 		return out, out[0].Err
 	}
@@ -416,25 +469,49 @@ func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, f
 			defer wg.Done()
 			sem <- struct{}{}
 			defer func() { <-sem }()
-			defer prog.tick()
+			defer func() {
+				// The caller's Progress callback runs here: a panic in it
+				// must not kill the process either.
+				defer func() {
+					if r := recover(); r != nil {
+						out[k] = Candidate{Model: models[k], Score: math.Inf(1), Err: &PanicError{Stage: "calling IdentifySettings.Progress", Value: r}}
+					}
+				}()
+				prog.tick()
+			}()
 			c := Candidate{Model: models[k], Score: math.Inf(1)}
+			stage := "fitting candidate " + c.Label()
+			// The last line of defence: a panic in this goroutine would
+			// kill the caller's process.
+			defer func() {
+				if r := recover(); r != nil {
+					out[k] = Candidate{Model: models[k], Score: math.Inf(1), Err: &PanicError{Stage: stage, Value: r}}
+				}
+			}()
 			if err := ctx.Err(); err != nil {
 				c.Err = err
 				out[k] = c
 				return
 			}
 			f := fs
-			est, err := Fit(ctx, models[k], data, &f)
+			est, err := idfFit(ctx, models[k], data, &f)
 			if err != nil {
 				c.Err = err
 				out[k] = c
 				return
 			}
-			c.Estimate = est
-			c.Score = est.BIC
+			crit, score := "BIC", est.BIC
 			if set.ByAIC {
-				c.Score = est.AIC
+				crit, score = "AIC", est.AIC
 			}
+			if math.IsNaN(score) || math.IsInf(score, 0) {
+				c.Err = &ScoreError{Criterion: crit, Value: score}
+				out[k] = c
+				return
+			}
+			c.Estimate = est
+			c.Score = score
+			stage = "checking candidate " + c.Label()
 			c.Diagnostics, c.CheckErr = Check(est, data, set.Check)
 			out[k] = c
 		}(k)
@@ -442,6 +519,10 @@ func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, f
 	wg.Wait()
 	return out
 }
+
+// idfFit is the fit Identify runs; tests replace it to reach the
+// recovery at the goroutine boundary of idfFitAll.
+var idfFit = Fit
 
 // idfBest returns the candidate with the lowest score, nil if none fitted.
 func idfBest(cs []Candidate) *Candidate {
@@ -552,6 +633,18 @@ func idfValidate(output string, inputs []string, data map[string][]float64) erro
 	if !ok {
 		return &FitError{Problem: MissingSeries, Series: output, Detail: "output"}
 	}
+	seen := map[string]bool{}
+	for _, name := range inputs {
+		switch {
+		case name == "":
+			return &InputListError{Name: name, Problem: "is empty; name each input series"}
+		case name == output:
+			return &InputListError{Name: name, Problem: "is the output; an output cannot be its own input"}
+		case seen[name]:
+			return &InputListError{Name: name, Problem: "is listed twice"}
+		}
+		seen[name] = true
+	}
 	for _, name := range append([]string{output}, inputs...) {
 		x, ok := data[name]
 		if !ok {
@@ -564,10 +657,28 @@ func idfValidate(output string, inputs []string, data map[string][]float64) erro
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return &SampleError{Series: name, Index: t, Value: v}
 			}
+			if math.Abs(v) > idfMaxMagnitude {
+				return &ArgError{Arg: fmt.Sprintf("%s[%d]", name, t), Value: v,
+					Rule: "magnitude above 1e140: the correlations of the identification would overflow; rescale the series (change its units)"}
+			}
+		}
+		if lo, hi := fcRange(x); hi > lo && hi-lo < idfMinSpread {
+			return &ArgError{Arg: fmt.Sprintf("series %q", name), Value: hi - lo,
+				Rule: "varies by less than 1e-140 (the range shown): the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)"}
 		}
 	}
 	return nil
 }
+
+// idfMaxMagnitude and idfMinSpread bound the samples Identify accepts:
+// the ARMA fits of the prewhitening refuse magnitudes above 1e140, and
+// the correlations need squared deviations above the float64 underflow
+// (about 1e-308 for a square, so deviations above about 1e-140 leave
+// room for the sums).
+const (
+	idfMaxMagnitude = 1e140
+	idfMinSpread    = 1e-140
+)
 
 // idfInput builds the input term of a ccf candidate: omega with plus
 // signs (w_k = Num[k]) and delta with minus signs (d_k = -Den[k]), the

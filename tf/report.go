@@ -12,10 +12,15 @@ import (
 // values), the conditioning, a table of the coefficients with their
 // standard errors and the ratio of each value to its standard error, the
 // noise variance and information criteria, the correlations of the estimates,
-// for each input its dead time, poles, zeros and steady-state gain, and
-// the warnings. Numbers are rounded for reading; the fields of Estimate
+// for each input its dead time, poles, zeros and steady-state gain, the
+// warnings, and the soundness of the estimate (Estimate.Soundness): a
+// faulty estimate is reported as not to be trusted with every reason; a
+// sound one is not called adequate, which only the checks can say. Numbers are rounded for reading; the fields of Estimate
 // hold full precision.
 func (e *Estimate) String() string {
+	if e == nil {
+		return "no estimate (nil)\n"
+	}
 	var b strings.Builder
 	n := e.N + e.Conditioning.First
 	fmt.Fprintf(&b, "Model of %s with coefficients estimated by conditional least squares\n", e.Model.Output)
@@ -97,11 +102,26 @@ func (e *Estimate) String() string {
 			fmt.Fprintf(&b, "    - %s\n", wr.Message)
 		}
 	}
+	if bad := e.Soundness(); len(bad) > 0 {
+		b.WriteString("\n  estimate: NOT to be trusted, for control work or forecasts:\n")
+		for _, f := range bad {
+			fmt.Fprintf(&b, "    - %s\n", f)
+		}
+	} else {
+		b.WriteString("\n  estimate: no fault found in the estimate itself; whether the model is adequate is for the residual checks (Check)\n")
+	}
 	return b.String()
 }
 
-// String returns a plain-text report of the checks with their verdicts.
+// String returns a plain-text report of the checks with their verdicts;
+// the first line gives the overall verdict (Pass), and when the model
+// fails the last lines list every reason (Failures), the estimate's own
+// faults first, so that a model whose checks pass but whose estimate is
+// faulty is never reported as fine.
 func (d *Diagnostics) String() string {
+	if d == nil {
+		return "no diagnostic checks (nil)\n"
+	}
 	var b strings.Builder
 	verdict := func(ok bool) string {
 		if ok {
@@ -109,7 +129,11 @@ func (d *Diagnostics) String() string {
 		}
 		return "FAIL"
 	}
-	fmt.Fprintf(&b, "Diagnostic checks at the %s level: %s\n", fitNum(d.Alpha, 3), map[bool]string{true: "all pass", false: "some FAIL"}[d.Pass])
+	head := "all pass and the estimate is sound"
+	if !d.Pass {
+		head = "the model is NOT to be trusted (reasons at the end)"
+	}
+	fmt.Fprintf(&b, "Diagnostic checks at the %s level: %s\n", fitNum(d.Alpha, 3), head)
 	r := d.Residual
 	fmt.Fprintf(&b, "  residual autocorrelation, lags 1..%d: Ljung-Box Q = %s, df %d, p = %s  %s\n",
 		r.Lags, fitFixed(r.Q, 2), r.DF, fitNum(r.P, 3), verdict(r.Pass))

@@ -1,0 +1,127 @@
+package tf
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"strconv"
+	"strings"
+
+	"github.com/backshift/backshift/internal/poly"
+)
+
+// InputModelError reports an input model given to Forecast
+// (ForecastSettings.InputModels) that cannot forecast its input: Input
+// names the input, Field the field at fault ("Sigma2", "Mean", "AR[1]",
+// "MA", ...), Value its value (the largest root magnitude |z| for a
+// root problem) and Rule what it must satisfy.
+type InputModelError struct {
+	Input string
+	Field string
+	Value float64
+	Rule  string
+}
+
+// Error describes the problem in one line.
+func (e *InputModelError) Error() string {
+	return fmt.Sprintf("tf: Forecast: ForecastSettings.InputModels[%q].%s = %v: %s", e.Input, e.Field, e.Value, e.Rule)
+}
+
+// fcRootTol is the margin beyond the unit circle within which an input
+// model's AR root counts as on it (a unit root, integration), not
+// outside: 1e-6, well above the rounding of the companion-matrix roots of
+// a low-order polynomial and far below any real explosive root.
+const fcRootTol = 1e-6
+
+// fcMaxModelDegree bounds the degree of an input model's polynomials:
+// their roots are found from a companion matrix in O(degree^3) time, a
+// second or so at 1000, which is beyond any seasonal model (a weekly
+// period of 52 with two seasonal AR factors has degree 104).
+const fcMaxModelDegree = 1000
+
+// validate reports what makes im unusable for forecasting input name.
+// The rules: Sigma2 finite and not negative; Mean finite; AR and MA
+// coefficients finite with a non-zero constant term, degree at most
+// 1000; the MA invertible
+// (every zero |z| < 1, otherwise the innovations recursion, started
+// from zero, does not forget its start); no AR root outside the unit
+// circle (|z| > 1 + 1e-6 makes the forecasts grow without bound; a root
+// on it, integration, is allowed).
+func (im InputModel) validate(name string) error {
+	bad := func(field string, v float64, rule string) error {
+		return &InputModelError{Input: name, Field: field, Value: v, Rule: rule}
+	}
+	if math.IsNaN(im.Sigma2) || math.IsInf(im.Sigma2, 0) || im.Sigma2 < 0 {
+		return bad("Sigma2", im.Sigma2, "the innovation variance must be zero or positive and finite")
+	}
+	if math.IsNaN(im.Mean) || math.IsInf(im.Mean, 0) {
+		return bad("Mean", im.Mean, "the mean must be a finite number")
+	}
+	for _, p := range []struct {
+		field string
+		c     []float64
+	}{{"AR", im.AR}, {"MA", im.MA}} {
+		for k, v := range p.c {
+			if math.IsNaN(v) || math.IsInf(v, 0) || math.Abs(v) > FitMaxMagnitude {
+				return bad(p.field+"["+strconv.Itoa(k)+"]", v, "the coefficient must be a finite number (at most 1e150 in magnitude)")
+			}
+		}
+		if len(p.c) > 0 && p.c[0] == 0 {
+			return bad(p.field+"[0]", 0, "the constant term must not be zero (it is 1 for the stored convention)")
+		}
+		if len(p.c) > fcMaxModelDegree+1 {
+			return bad(p.field, float64(len(p.c)-1), "the degree must be at most "+strconv.Itoa(fcMaxModelDegree))
+		}
+	}
+	mz := func(c []float64) (float64, bool) {
+		c = poly.Trim(c, 0)
+		if len(c) <= 1 {
+			return 0, true
+		}
+		zs, err := poly.Roots(poly.Reciprocal(c))
+		if err != nil {
+			return math.NaN(), false
+		}
+		m := 0.0
+		for _, z := range zs {
+			m = math.Max(m, cmplx.Abs(z))
+		}
+		return m, !math.IsNaN(m)
+	}
+	if m, ok := mz(im.AR); !ok {
+		return bad("AR", m, "its roots cannot be computed; give coefficients of moderate size")
+	} else if m > 1+fcRootTol {
+		return bad("AR", m, "has a root outside the unit circle (largest |z| shown): the input forecast would grow without bound; the AR part must be stationary, or integrating at most (|z| = 1)")
+	}
+	if m, ok := mz(im.MA); !ok {
+		return bad("MA", m, "its roots cannot be computed; give coefficients of moderate size")
+	} else if m >= 1 {
+		return bad("MA", m, "has a zero on or outside the unit circle (largest |z| shown): the MA part must be invertible (every zero |z| < 1)")
+	}
+	return nil
+}
+
+// UnknownInputError reports a settings map keyed by input name (such as
+// ForecastSettings.Future, ForecastSettings.InputModels,
+// IdentifySettings.InputDiff) holding a name that is not an input:
+// Setting names the map, Name the key and Inputs the inputs there are.
+// It usually means a misspelt name, which would otherwise leave the
+// input to its default silently.
+type UnknownInputError struct {
+	Setting string
+	Name    string
+	Inputs  []string
+}
+
+// Error describes the problem in one line.
+func (e *UnknownInputError) Error() string {
+	q := make([]string, len(e.Inputs))
+	for i, s := range e.Inputs {
+		q[i] = strconv.Quote(s)
+	}
+	have := "there are no inputs"
+	if len(q) > 0 {
+		have = "the inputs are " + strings.Join(q, ", ")
+	}
+	return fmt.Sprintf("tf: %s names %q, which is not an input (%s); check the spelling", e.Setting, e.Name, have)
+}

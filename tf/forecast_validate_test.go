@@ -1,0 +1,193 @@
+package tf
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+// TestForecastIntegratingInput forecasts y = c + w0/(1 - B) B x + a,
+// fitted with ZeroPreSample, with the future input known. By the model's
+// definition (common practice: the integrator sums its input from rest),
+// the forecast mean is c + w0 sum_{k <= t-1} x_k and, the noise being
+// white, the standard error is sigma at every step; both are computed
+// here by direct summation and must agree to 1e-10 relative (summation
+// order only). Before, Forecast ignored the fit's conditioning and
+// returned +Inf means with a nil error; an estimate claiming the
+// held-input convention must now give a typed error naming the cause.
+func TestForecastIntegratingInput(t *testing.T) {
+	est, data := checkIntegratorFit(t)
+	x := data["x"]
+	n, h := len(x), 6
+	fut := []float64{5, 6, 7, 4, 5, 5}
+	fc, err := est.Forecast(data, h, &ForecastSettings{Future: map[string][]float64{"x": fut}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, _ := est.Param("c")
+	w0, _ := est.Param("w0")
+	all := append(append([]float64(nil), x...), fut...)
+	for j := 0; j < h; j++ {
+		sum := 0.0
+		for k := 0; k <= n+j-1; k++ {
+			sum += all[k]
+		}
+		want := c.Value + w0.Value*sum
+		if math.Abs(fc.Mean[j]-want) > 1e-10*math.Abs(want) {
+			t.Errorf("step %d: mean %v, direct sum %v", j+1, fc.Mean[j], want)
+		}
+		if se := math.Sqrt(est.Sigma2); math.Abs(fc.SE[j]-se) > 1e-12*se {
+			t.Errorf("step %d: SE %v, want sigma %v", j+1, fc.SE[j], se)
+		}
+	}
+	held := *est
+	held.Conditioning.ZeroPreSample = false
+	fc, err = held.Forecast(data, h, &ForecastSettings{Future: map[string][]float64{"x": fut}})
+	if !checkIntegratorRefused(err) || fc != nil {
+		t.Errorf("held-input integrator: %v, %v", fc, err)
+	}
+}
+
+// TestForecastInputModelErrors gives Forecast input models that cannot
+// forecast their input and checks each *InputModelError names the input
+// and the field; the roots are those of the polynomials as written:
+// MA 1 - 2B has its zero at z = 2 (not invertible), AR 1 - 1.5B its root
+// at z = 1.5 (explosive), while AR 1 - B (a unit root, integration) is
+// accepted.
+func TestForecastInputModelErrors(t *testing.T) {
+	est, data := fitMCEstimate(t)
+	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, Mean: 0, Sigma2: 1}
+	with := func(f func(*InputModel)) map[string]InputModel {
+		m := ok
+		m.AR = append([]float64(nil), ok.AR...)
+		m.MA = append([]float64(nil), ok.MA...)
+		f(&m)
+		return map[string]InputModel{"x": m}
+	}
+	for _, tc := range []struct {
+		name  string
+		ims   map[string]InputModel
+		field string
+		rule  string
+	}{
+		{"negative variance", with(func(m *InputModel) { m.Sigma2 = -1 }), "Sigma2", "must be zero or positive and finite"},
+		{"NaN variance", with(func(m *InputModel) { m.Sigma2 = math.NaN() }), "Sigma2", "must be zero or positive and finite"},
+		{"infinite variance", with(func(m *InputModel) { m.Sigma2 = math.Inf(1) }), "Sigma2", "must be zero or positive and finite"},
+		{"infinite mean", with(func(m *InputModel) { m.Mean = math.Inf(-1) }), "Mean", "must be a finite number"},
+		{"NaN mean", with(func(m *InputModel) { m.Mean = math.NaN() }), "Mean", "must be a finite number"},
+		{"NaN AR", with(func(m *InputModel) { m.AR[1] = math.NaN() }), "AR[1]", "must be a finite number"},
+		{"huge MA", with(func(m *InputModel) { m.MA = []float64{1, 1e209} }), "MA[1]", "must be a finite number"},
+		{"zero AR constant", with(func(m *InputModel) { m.AR[0] = 0 }), "AR[0]", "constant term must not be zero"},
+		{"non-invertible MA", with(func(m *InputModel) { m.MA = []float64{1, -2} }), "MA", "zero on or outside the unit circle"},
+		{"explosive AR", with(func(m *InputModel) { m.AR = []float64{1, -1.5} }), "AR", "root outside the unit circle"},
+	} {
+		_, err := est.Forecast(data, 5, &ForecastSettings{InputModels: tc.ims})
+		var ie *InputModelError
+		if !errors.As(err, &ie) || ie.Input != "x" || ie.Field != tc.field || !strings.Contains(err.Error(), tc.rule) ||
+			!strings.Contains(err.Error(), `ForecastSettings.InputModels["x"].`+tc.field) {
+			t.Errorf("%s: %v", tc.name, err)
+		}
+	}
+	if fc, err := est.Forecast(data, 5, &ForecastSettings{InputModels: with(func(m *InputModel) { m.AR = []float64{1, -1} })}); err != nil || fc == nil {
+		t.Errorf("unit-root AR refused: %v", err)
+	}
+	var ue *UnknownInputError
+	_, err := est.Forecast(data, 5, &ForecastSettings{InputModels: map[string]InputModel{"xx": ok}})
+	if !errors.As(err, &ue) || ue.Name != "xx" || err.Error() != `tf: ForecastSettings.InputModels names "xx", which is not an input (the inputs are "x"); check the spelling` {
+		t.Errorf("unknown input model: %v", err)
+	}
+	_, err = est.Forecast(data, 5, &ForecastSettings{Future: map[string][]float64{"valve": {1, 2, 3, 4, 5}}})
+	if !errors.As(err, &ue) || ue.Setting != "ForecastSettings.Future" || ue.Name != "valve" {
+		t.Errorf("unknown future: %v", err)
+	}
+	var ae *ArgError
+	_, err = est.Forecast(data, 2, &ForecastSettings{Future: map[string][]float64{"x": {1, 1e200}}})
+	if !errors.As(err, &ae) || ae.Arg != `ForecastSettings.Future["x"][1]` {
+		t.Errorf("huge future: %v", err)
+	}
+	for _, lv := range []float64{-0.5, 1, math.NaN(), 2} {
+		_, err = est.Forecast(data, 2, &ForecastSettings{Level: lv})
+		if !errors.As(err, &ae) || ae.Arg != "ForecastSettings.Level" {
+			t.Errorf("level %v: %v", lv, err)
+		}
+	}
+	var ee *EstimateError
+	bad := *est
+	bad.Sigma2 = math.NaN()
+	if _, err = bad.Forecast(data, 2, nil); !errors.As(err, &ee) || ee.Field != "Sigma2" {
+		t.Errorf("NaN Sigma2: %v", err)
+	}
+	var nilEst *Estimate
+	if _, err = nilEst.Forecast(data, 2, nil); !errors.As(err, &ee) || ee.Field != "estimate" {
+		t.Errorf("nil estimate: %v", err)
+	}
+}
+
+// TestForecastOverflow sets the estimated denominator of a fit to a pole
+// at z = 1.5 (unstable): the residuals over the 300 samples stay finite
+// (1.5^300 is about 1e53) but a 2000-step forecast grows as 1.5^2000,
+// beyond float64. Forecast must return a *NonFiniteResultError naming
+// the step, never NaN or infinite numbers with a nil error.
+func TestForecastOverflow(t *testing.T) {
+	est, data := fitMCEstimate(t)
+	bad := *est
+	bad.Model = est.Model.Clone()
+	bad.Model.Inputs[0].Den.Factors[0].Terms[1].Coef.Value = 1.5
+	fc, err := bad.Forecast(data, 2000, &ForecastSettings{Future: map[string][]float64{"x": make([]float64, 2000)}})
+	var ne *NonFiniteResultError
+	if !errors.As(err, &ne) || fc != nil || !strings.Contains(ne.Series, "forecast") || ne.Index < 300 || !strings.Contains(err.Error(), "overflowed float64") {
+		t.Fatalf("overflowing forecast: %v, %v", fc != nil, err)
+	}
+}
+
+// TestForecastPlanOutsideRecord gives a known future input that leaves
+// the range of the record and checks the warning names the input and
+// both ranges (the record's from the data, the plan's from the values
+// given); a plan inside the range gets no such warning, and a forecast
+// from an unsound estimate (a 20-row fit of 5 coefficients) carries the
+// estimate's faults as a warning.
+func TestForecastPlanOutsideRecord(t *testing.T) {
+	est, data := fitMCEstimate(t)
+	lo, hi := fcRange(data["x"])
+	plan := []float64{lo, hi + 1, (lo + hi) / 2}
+	fc, err := est.Forecast(data, 3, &ForecastSettings{Future: map[string][]float64{"x": plan}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(fc.Warnings) != 1 {
+		t.Fatalf("warnings %+v", fc.Warnings)
+	}
+	w := fc.Warnings[0]
+	if w.Kind != PlanOutsideRecord || w.Input != "x" || w.RecordMin != lo || w.RecordMax != hi || w.PlanMin != lo || w.PlanMax != hi+1 {
+		t.Errorf("warning %+v; record %v..%v", w, lo, hi)
+	}
+	want := `input "x": the planned values span ` + fitNum(lo, 6) + " .. " + fitNum(hi+1, 6) + ", outside the range " + fitNum(lo, 6) + " .. " + fitNum(hi, 6) + " seen in the record"
+	if !strings.HasPrefix(w.Message, want) {
+		t.Errorf("message %q, want prefix %q", w.Message, want)
+	}
+	if fc.Inputs[0].RecordMin != lo || fc.Inputs[0].RecordMax != hi {
+		t.Errorf("input record range %v..%v", fc.Inputs[0].RecordMin, fc.Inputs[0].RecordMax)
+	}
+	fc, err = est.Forecast(data, 3, &ForecastSettings{Future: map[string][]float64{"x": {lo, hi, (lo + hi) / 2, 1e9}}})
+	if err != nil || len(fc.Warnings) != 0 {
+		t.Errorf("plan inside the record (a value beyond h is not used): %v, %+v", err, fc.Warnings)
+	}
+	y, x := fitMCSim(fitRand(4), 20)
+	small := map[string][]float64{"y": y, "x": x}
+	e20, err := Fit(t.Context(), fitMCModel(), small, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fc, err = e20.Forecast(small, 2, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, w := range fc.Warnings {
+		found = found || (w.Kind == UnsoundEstimate && strings.Contains(w.Message, "not to be trusted") && strings.Contains(w.Message, "fewer than max(50, 10 per coefficient) = 50"))
+	}
+	if !found {
+		t.Errorf("no unsound-estimate warning: %+v", fc.Warnings)
+	}
+}

@@ -1,0 +1,321 @@
+package tf
+
+import (
+	"context"
+	"errors"
+	"math"
+	"strings"
+	"sync"
+	"testing"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/ccf"
+)
+
+// idfTrapData is 300 samples of fitMCModel's own simulation (x AR(1),
+// b = 3, r = 1, s = 1, AR(1) noise), on which Identify finds a response.
+func idfTrapData() map[string][]float64 {
+	y, x := fitMCSim(fitRand(3), 300)
+	return map[string][]float64{"y": y, "x": x}
+}
+
+// TestIdentifySettingsTable gives every field of IdentifySettings a bad
+// value and checks the typed error names the field (the settings
+// IdentifySettings.Fit and .Check by their path); a negative order bound
+// (MaxR, MaxS, MaxP, MaxQ) is not an error but means order zero only,
+// which the candidates must show. Before, MaxCandidates -3 and Forms -2
+// panicked with index errors.
+func TestIdentifySettingsTable(t *testing.T) {
+	data := idfTrapData()
+	for _, tc := range []struct {
+		s    IdentifySettings
+		arg  string
+		rule string
+	}{
+		{IdentifySettings{OutputDiff: []float64{1, math.NaN()}}, "IdentifySettings.OutputDiff[1]", "must be a finite number"},
+		{IdentifySettings{OutputDiff: []float64{2, -1}}, "IdentifySettings.OutputDiff[0]", "constant term of a differencing operator must be 1"},
+		{IdentifySettings{OutputDiff: append([]float64{1}, make([]float64, 150)...)}, "IdentifySettings.OutputDiff", "below half the record (300 samples)"},
+		{IdentifySettings{InputDiff: map[string][]float64{"x": {0, 1}}}, `IdentifySettings.InputDiff["x"][0]`, "constant term of a differencing operator must be 1"},
+		{IdentifySettings{InputDiff: map[string][]float64{"x": {1, math.Inf(1)}}}, `IdentifySettings.InputDiff["x"][1]`, "must be a finite number"},
+		{IdentifySettings{MaxLag: -1}, "IdentifySettings.MaxLag", "must be zero (the default) or positive"},
+		{IdentifySettings{Forms: -2}, "IdentifySettings.Forms", "must be zero (the default) or positive"},
+		{IdentifySettings{NoiseOrders: -1}, "IdentifySettings.NoiseOrders", "must be zero (the default) or positive"},
+		{IdentifySettings{MaxCandidates: -3}, "IdentifySettings.MaxCandidates", "must be zero (the default) or positive"},
+		{IdentifySettings{Workers: -1}, "IdentifySettings.Workers", "must be zero (the default) or positive"},
+		{IdentifySettings{Fit: &FitSettings{MaxIter: -1}}, "IdentifySettings.Fit.MaxIter", "zero"},
+		{IdentifySettings{Check: &CheckSettings{Alpha: 2}}, "IdentifySettings.Check.Alpha", "must lie in (0, 1)"},
+		{IdentifySettings{Check: &CheckSettings{Lags: -4}}, "IdentifySettings.Check.Lags", "must be zero"},
+	} {
+		s := tc.s
+		cands, err := Identify(context.Background(), "y", []string{"x"}, data, &s)
+		var ae *ArgError
+		if !errors.As(err, &ae) || ae.Arg != tc.arg || !strings.Contains(err.Error(), tc.rule) || cands != nil {
+			t.Errorf("%s: %v; want an *ArgError for %s: %s", tc.arg, err, tc.arg, tc.rule)
+		}
+	}
+	var ue *UnknownInputError
+	_, err := Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{InputDiff: map[string][]float64{"valve": {1, -1}}})
+	if !errors.As(err, &ue) || err.Error() != `tf: IdentifySettings.InputDiff names "valve", which is not an input (the inputs are "x"); check the spelling` {
+		t.Errorf("InputDiff for a series that is not an input: %v", err)
+	}
+	// Negative order bounds: order zero only.
+	cands, err := Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{MaxR: -1, MaxP: -1, MaxQ: -1, NoRefine: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range cands {
+		if c.Model.Inputs[0].Den.Degree() != 0 || c.Model.Noise.AR.Degree() != 0 || c.Model.Noise.MA.Degree() != 0 {
+			t.Errorf("MaxR, MaxP, MaxQ -1: candidate %s", c.Label())
+		}
+	}
+	cands, err = Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{MaxS: -1, NoRefine: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range cands {
+		if c.Model.Inputs[0].Num.Degree() != 0 {
+			t.Errorf("MaxS -1: candidate %s", c.Label())
+		}
+	}
+}
+
+// TestIdentifyBlamesTheUsersSeries checks that a constant output or
+// input is reported under the caller's name, saying it is constant (once
+// "output (filtered)" with a rounding residue such as -2.22e-15), that a
+// constant input with no differencing asked is not said to be constant
+// "after differencing", that errors of inner steps name the step and
+// the series, that samples too large (above 1e140) or too little varied
+// (below 1e-140) are refused by the series' name, and that a bad list
+// of inputs is refused by name.
+func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
+	data := idfTrapData()
+	n := len(data["y"])
+	flat := make([]float64, n)
+	line := make([]float64, n)
+	for i := range flat {
+		flat[i] = 0.3
+		line[i] = 0.1 * float64(i)
+	}
+	var ce *ConstantSeriesError
+	_, err := Identify(context.Background(), "temp", []string{"x"}, map[string][]float64{"temp": flat, "x": data["x"]}, nil)
+	if !errors.As(err, &ce) || err.Error() != `tf: Identify: output series "temp" is constant (every sample is 0.3): it carries no response; check that the right column was chosen` {
+		t.Errorf("constant output: %v", err)
+	}
+	_, err = Identify(context.Background(), "temp", []string{"x"}, map[string][]float64{"temp": line, "x": data["x"]}, &IdentifySettings{OutputDiff: []float64{1, -1}})
+	if !errors.As(err, &ce) || !strings.Contains(err.Error(), `output series "temp" is constant after its differencing (1 - B) (every differenced sample is 0.1)`) {
+		t.Errorf("straight-line output: %v", err)
+	}
+	_, err = Identify(context.Background(), "y", []string{"valve"}, map[string][]float64{"y": data["y"], "valve": flat}, nil)
+	if !errors.As(err, &ce) || ce.Role != "input" || ce.Series != "valve" || strings.Contains(err.Error(), "after") {
+		t.Errorf("constant input: %v", err)
+	}
+	// No response: the step and the user's series are named, the ccf
+	// error still reachable.
+	rng := fitRand(9)
+	noise := make([]float64, n)
+	for i := range noise {
+		noise[i] = rng.NormFloat64()
+	}
+	_, err = Identify(context.Background(), "y", []string{"valve"}, map[string][]float64{"y": data["y"], "valve": noise}, nil)
+	var nr *ccf.NoResponseError
+	var st *StageError
+	if !errors.As(err, &nr) || !errors.As(err, &st) || !strings.Contains(err.Error(), `tf: Identify: estimating the impulse response of "y" to input "valve"`) &&
+		!strings.Contains(err.Error(), `tf: Identify: choosing the dead time and orders of input "valve"`) {
+		t.Errorf("no response: %v", err)
+	}
+	// Samples too large or too little varied for the correlations are
+	// refused by the user's series name before any inner step.
+	big := make([]float64, n)
+	tiny := make([]float64, n)
+	for i := range big {
+		big[i] = data["x"][i] * 1e200
+		tiny[i] = data["y"][i] * 1e-170
+	}
+	var ae *ArgError
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": data["y"], "x": big}, nil); !errors.As(err, &ae) ||
+		ae.Arg != "x[0]" || !strings.Contains(err.Error(), "magnitude above 1e140") {
+		t.Errorf("huge input: %v", err)
+	}
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": tiny, "x": data["x"]}, nil); !errors.As(err, &ae) ||
+		ae.Arg != `series "y"` || !strings.Contains(err.Error(), "varies by less than 1e-140") {
+		t.Errorf("tiny output: %v", err)
+	}
+	var le *InputListError
+	for _, tc := range []struct {
+		inputs []string
+		want   string
+	}{
+		{[]string{"x", "x"}, `tf: Identify: inputs: "x" is listed twice`},
+		{[]string{"y"}, `tf: Identify: inputs: "y" is the output; an output cannot be its own input`},
+		{[]string{""}, `tf: Identify: inputs: "" is empty; name each input series`},
+	} {
+		if _, err := Identify(context.Background(), "y", tc.inputs, data, nil); !errors.As(err, &le) || err.Error() != tc.want {
+			t.Errorf("inputs %q: %v", tc.inputs, err)
+		}
+	}
+}
+
+// idfStub replaces the fit Identify runs for one test.
+func idfStub(t *testing.T, f func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error)) {
+	old := idfFit
+	idfFit = f
+	t.Cleanup(func() { idfFit = old })
+}
+
+// TestIdentifyRecoversPanics makes every candidate fit with a
+// second-order denominator and coloured noise panic (a slice bounds
+// error, as arma once raised for an MA degree above 32), and checks
+// that Identify returns (its process alive) with those candidates
+// carrying a *PanicError that names the candidate, ranked after the
+// candidates that fitted.
+func TestIdentifyRecoversPanics(t *testing.T) {
+	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+		if len(m.Inputs) == 1 && m.Inputs[0].Den.Degree() == 2 && !m.Noise.IsWhite() {
+			var buf [33]float64
+			k := m.Inputs[0].Den.Degree() + 40
+			_ = buf[:k] // slice bounds out of range, at run time
+		}
+		return Fit(ctx, m, data, s)
+	})
+	cands, err := Identify(context.Background(), "y", []string{"x"}, idfTrapData(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	panicked := 0
+	for i, c := range cands {
+		var pe *PanicError
+		if errors.As(c.Err, &pe) {
+			panicked++
+			if !strings.Contains(c.Err.Error(), "tf: Identify: internal error while fitting candidate x b=") || !strings.Contains(c.Err.Error(), "slice bounds out of range") ||
+				!math.IsInf(c.Score, 1) || c.Estimate != nil {
+				t.Errorf("candidate %d: %v", i, c.Err)
+			}
+		} else if panicked > 0 && c.Err == nil {
+			t.Errorf("a fitted candidate ranked after a panicked one at %d", i)
+		}
+	}
+	if panicked == 0 || cands[0].Err != nil {
+		t.Errorf("%d panicked candidates; best %v", panicked, cands[0].Err)
+	}
+	// A panic in the caller's Progress callback, called from Identify's
+	// goroutines, is caught there too.
+	idfFit = Fit
+	calls := 0
+	var mu sync.Mutex
+	cands, err = Identify(context.Background(), "y", []string{"x"}, idfTrapData(), &IdentifySettings{Workers: 1, NoRefine: true,
+		Progress: func(done, total int) {
+			mu.Lock()
+			calls++
+			mu.Unlock()
+			if done == 2 {
+				panic("progress bar broke")
+			}
+		}})
+	found := false
+	for _, c := range cands {
+		var pe *PanicError
+		found = found || errors.As(c.Err, &pe) && strings.Contains(c.Err.Error(), "while calling IdentifySettings.Progress: progress bar broke")
+	}
+	if !found || calls != len(cands) {
+		t.Errorf("panicking Progress: %v, %d calls for %d candidates", err, calls, len(cands))
+	}
+	// A panic in the caller's goroutine (the preliminary fit) is an
+	// error too.
+	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+		var p *Estimate
+		_ = p.Model // nil dereference
+		return nil, nil
+	})
+	cands, err = Identify(context.Background(), "y", []string{"x"}, idfTrapData(), nil)
+	var pe *PanicError
+	if !errors.As(err, &pe) || cands != nil || !strings.Contains(err.Error(), "nil pointer dereference") {
+		t.Errorf("panic in the preliminary fit: %v", err)
+	}
+}
+
+// TestIdentifyMaxQ40 runs Identify with MaxQ 40, which once killed the
+// caller's process from a goroutine of arma (a 33-element buffer sliced
+// past its end for an MA degree above 32). It must return, with a
+// result or a typed error. The panic happened inside arma.Select's own
+// goroutines, beyond the reach of Identify's recovery, so the test
+// needs arma's fix and is skipped while arma.Fit still panics on
+// Order{Q: 33}.
+func TestIdentifyMaxQ40(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits MA orders up to 40")
+	}
+	x := fitSimNoise(fitRand(2), 400, []float64{1}, []float64{1}, 1)
+	if armaPanics(x) {
+		t.Skip("arma.Fit still panics on an MA degree above 32 (fixed in arma on another branch); Identify cannot recover a panic in arma's goroutines")
+	}
+	cands, err := Identify(context.Background(), "y", []string{"x"}, idfTrapData(), &IdentifySettings{MaxQ: 40, MaxP: -1, NoiseOrders: 1, NoRefine: true})
+	if err != nil {
+		t.Logf("MaxQ 40: %v", err)
+		return
+	}
+	if len(cands) == 0 {
+		t.Fatal("no candidates and no error")
+	}
+}
+
+func armaPanics(x []float64) (panicked bool) {
+	defer func() { panicked = recover() != nil }()
+	_, _ = arma.Fit(context.Background(), x, arma.Order{Q: 33}, nil)
+	return false
+}
+
+// TestIdentifyNonFiniteScore makes one candidate's fit report BIC -Inf
+// (as a zero sum of squares once did) and checks it is not ranked first
+// but last, with a *ScoreError saying why.
+func TestIdentifyNonFiniteScore(t *testing.T) {
+	var once sync.Once
+	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+		e, err := Fit(ctx, m, data, s)
+		if err == nil && m.Noise != nil && !m.Noise.IsWhite() {
+			once.Do(func() { e.BIC, e.AIC = math.Inf(-1), math.NaN() })
+		}
+		return e, err
+	})
+	cands, err := Identify(context.Background(), "y", []string{"x"}, idfTrapData(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var se *ScoreError
+	last := cands[len(cands)-1]
+	if cands[0].Err != nil || math.IsInf(cands[0].Score, -1) || !errors.As(last.Err, &se) || se.Criterion != "BIC" ||
+		last.Err.Error() != "tf: Identify: the candidate's BIC is -Inf, not a finite number (a zero or overflowing sum of squares); it is not ranked" {
+		t.Errorf("best %v (score %v); last %v", cands[0].Err, cands[0].Score, last.Err)
+	}
+}
+
+// TestIdentifyStopsOnCancel cancels the context inside a candidate fit
+// that then returns ctx's error together with its estimate (Fit's
+// behaviour for a cancelled fit): Identify must stop and return the
+// context's error.
+func TestIdentifyStopsOnCancel(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	var calls int
+	var mu sync.Mutex
+	idfStub(t, func(c context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+		mu.Lock()
+		calls++
+		k := calls
+		mu.Unlock()
+		e, err := Fit(c, m, data, s)
+		if k == 2 { // the first candidate after the preliminary fit
+			cancel()
+			return e, ctx.Err()
+		}
+		return e, err
+	})
+	cands, err := Identify(ctx, "y", []string{"x"}, idfTrapData(), &IdentifySettings{Workers: 1})
+	if !errors.Is(err, context.Canceled) {
+		t.Fatalf("cancelled identification: %v (%d candidates)", err, len(cands))
+	}
+	for _, c := range cands {
+		if c.Err == nil && c.Estimate == nil {
+			t.Errorf("candidate %s without estimate or error", c.Label())
+		}
+	}
+}
