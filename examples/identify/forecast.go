@@ -95,6 +95,12 @@ func forecast(est *tf.Estimate, ds *dataset, o Options, h int, w io.Writer, out 
 	if err != nil {
 		return fmt.Errorf("forecast: %w", err)
 	}
+	for j := range f.Mean {
+		if !finite(f.Mean[j]) || !finite(f.Lower[j]) || !finite(f.Upper[j]) {
+			fmt.Fprintf(w, "\nForecast of %s: not available (it does not stay finite %d samples ahead: the model is not fit to forecast with)\n", ds.output, j+1)
+			return nil
+		}
+	}
 	out.forecast = &forecastResult{f: f, planned: first, plan: u, h: h}
 	unit := ds.timeUnit()
 	dt := ds.step()
