@@ -395,6 +395,13 @@ func TestTimeColumns(t *testing.T) {
 	if _, err := load(o, remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a time`) {
 		t.Errorf("bad time cell: %v", err)
 	}
+	// A first column named as a time in a form not read is refused,
+	// not ignored.
+	o.Time = ""
+	o.Data = writeFile(t, "us.csv", "Date,valve,temp\n"+strings.Repeat("01/02/2026,50,15\n", 12))
+	if _, err := load(o, remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `us.csv:2: column "Date": the first column looks like a time column by its name, but "01/02/2026" is neither a number nor a timestamp`) {
+		t.Errorf("unread date form: %v", err)
+	}
 	// -gaps without a time column.
 	o.Time, o.Gaps = "none", "longest"
 	if _, err := load(o, remedy{kind: "longest"}); err == nil || !strings.Contains(err.Error(), "-gaps longest needs a time column") {

@@ -43,7 +43,9 @@
 // no obstacle. -sep reads other separators (';', tab). The time column
 // (-time; by default the first column when its first cell is a
 // timestamp or a date, or when its name is a time name such as "time",
-// "minute" or "time (s)" over numbers; -time none for no time column)
+// "minute" or "time (s)" over numbers; a first column named so, or
+// "date" or "timestamp", in a form not read is refused rather than
+// ignored; -time none for no time column)
 // holds numbers (seconds, or the unit of its name or of -time-unit) or
 // RFC 3339 timestamps (also with a space for the T, or without a zone,
 // read as UTC) or dates alone (2026-01-01, for daily records). The

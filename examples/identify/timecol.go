@@ -60,6 +60,9 @@ func nameUnit(name string) (unit string, ok bool) {
 	return u, ok
 }
 
+// dateNames are column names that announce calendar times.
+var dateNames = map[string]bool{"date": true, "datetime": true, "timestamp": true, "time stamp": true, "date time": true}
+
 // calendarLayouts are the calendar forms a time cell may take.
 var calendarLayouts = []string{
 	time.RFC3339Nano,
@@ -116,7 +119,14 @@ func findTime(t *Table, flag, unit string, used map[string]bool) (*timing, error
 		_, isCal := calendar(cell)
 		_, nameOK := nameUnit(first)
 		_, numErr := strconv.ParseFloat(cell, 64)
-		if !isCal && !(nameOK && numErr == nil) {
+		switch {
+		case isCal || (nameOK && numErr == nil):
+		case nameOK || dateNames[strings.ToLower(first)]:
+			// Named as a time, but in a form not read: refuse rather
+			// than silently take the rows as evenly spaced.
+			return nil, &CSVError{File: t.File, Line: t.Lines[0], Column: first,
+				Msg: fmt.Sprintf("the first column looks like a time column by its name, but %s is neither a number nor a timestamp (2026-01-01T10:00:00Z) or a date (2026-01-01): convert it, or give -time none to read no time column", clip(cell))}
+		default:
 			return nil, nil
 		}
 		col = first
