@@ -364,7 +364,7 @@ func TestTimeColumns(t *testing.T) {
 	o.Data = writeFile(t, "jitter.csv", jitter.String())
 	_, err = load(o, remedy{kind: "linear", max: 5})
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), `line 32 ("1830") comes 1.5 intervals after line 31 ("1740"): not a whole number of intervals`) ||
-		!strings.Contains(err.Error(), "these are irregular or longer") {
+		!strings.Contains(err.Error(), "these are irregular or longer") || !strings.Contains(err.Error(), "must be resampled to the interval first") {
 		t.Errorf("irregular: %v", err)
 	}
 	ds, err = load(o, remedy{kind: "longest"})

@@ -210,7 +210,7 @@ func (t *Table) Numbers(name string) ([]float64, error) {
 			msg := fmt.Sprintf("%s is not a finite number", clip(cell))
 			switch {
 			case cell == "":
-				msg = "the cell is empty: every sample is needed (fill the gap in the file, or mark the row with a time column and use -gaps)"
+				msg = "the cell is empty: every sample is needed (fill it in the file, or delete the row and let -gaps fill it by the time column)"
 			case strings.Count(cell, ",") == 1 && !strings.ContainsAny(cell, ". "):
 				msg += " (a decimal comma? write a decimal point)"
 			}

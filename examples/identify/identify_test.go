@@ -208,6 +208,7 @@ func TestReadCSVErrors(t *testing.T) {
 		{"a,b\n1,2\n3,4,5\n", "f.csv:3: 3 fields, but the header names 2 columns (a, b)"},
 		{"a,a\n1,2\n", `f.csv:1: column "a": column names must be unique`},
 		{"a,b\n1,NaN\n", `f.csv:2: column "b": "NaN" is not a finite number`},
+		{"a,b\n1,\n", `f.csv:2: column "b": the cell is empty: every sample is needed (fill it in the file, or delete the row and let -gaps fill it`},
 	} {
 		tb, err := ReadCSV("f.csv", strings.NewReader(c.in), 0)
 		if err == nil {

@@ -296,6 +296,9 @@ func (e *GapError) Error() string {
 	} else {
 		b.WriteString("fitting across them would treat rows far apart in time as neighbours; choose a remedy: -gaps hold:N or -gaps linear:N fill gaps of up to N missing samples (holding the last value, or on a straight line), -gaps longest fits only the longest evenly spaced stretch (-time none if the column is not a time)")
 	}
+	if irregular > 0 {
+		b.WriteString("; a record whose clock jitters by more than 1 % of the interval must be resampled to the interval first")
+	}
 	return b.String()
 }
 
