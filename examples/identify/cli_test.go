@@ -181,6 +181,22 @@ func TestFailedDemoModelGetsNoInvitation(t *testing.T) {
 	if !strings.Contains(out, "verdict: NOT ADEQUATE") {
 		t.Errorf("no failed verdict:\n%s", out)
 	}
+
+	// Identified with the outdoor temperature left out, every candidate
+	// fails (the noise model cannot absorb the weather): the table says
+	// so, and the chosen model is not offered either.
+	if testing.Short() {
+		return
+	}
+	o = DefaultOptions()
+	o.Inputs, o.Horizon = []string{"valve"}, 0
+	res, out, err = run(t, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Trusted || strings.Contains(out, "To test a controller") || !strings.Contains(out, "note: the best by BIC fails its checks") {
+		t.Errorf("identified without outdoor:\n%s", out)
+	}
 }
 
 // TestExplainedShare: a simulation worse than the output's mean is said
