@@ -396,6 +396,12 @@ func TestTimeColumns(t *testing.T) {
 		t.Errorf("backwards: %v", err)
 	}
 
+	o.Data, o.TimeUnit = writeFile(t, "ts.csv", ts.String()), "min"
+	if _, err := load(o, remedy{}); err == nil || !strings.Contains(err.Error(), `-time-unit min is for a time column of numbers, and "when" holds timestamps or dates`) {
+		t.Errorf("-time-unit on timestamps: %v", err)
+	}
+	o.TimeUnit = ""
+
 	// A named time column that is missing, or is a series.
 	o.Data = writeFile(t, "ts.csv", ts.String())
 	o.Time = "stamp"

@@ -386,6 +386,12 @@ func loadFile(o Options, rem remedy, ds *dataset) error {
 	if err != nil {
 		return err
 	}
+	switch {
+	case tm == nil && o.TimeUnit != "":
+		return fmt.Errorf("-time-unit %s is the unit of a time column, and %s has none (name it with -time)", o.TimeUnit, t.File)
+	case tm != nil && tm.calendar && o.TimeUnit != "":
+		return fmt.Errorf("-time-unit %s is for a time column of numbers, and %s holds timestamps or dates: leave -time-unit out", o.TimeUnit, clip(tm.column))
+	}
 	if tm == nil {
 		if o.Gaps != "" {
 			return fmt.Errorf("-gaps %s needs a time column to find the gaps, and %s has none (name it with -time)", o.Gaps, t.File)
