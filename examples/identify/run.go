@@ -207,7 +207,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	fmt.Fprint(stdout, "\n"+caution)
 	if o.Pictures != "" {
 		pr.say("writing pictures to %s", o.Pictures)
-		files, err := pictures(o.Pictures, est, ds, out)
+		files, skipped, err := pictures(o.Pictures, est, ds, out)
 		if err != nil {
 			return nil, fmt.Errorf("pictures: %w", err)
 		}
@@ -215,6 +215,9 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 		fmt.Fprintf(stdout, "\nPictures written to %s:\n", o.Pictures)
 		for _, f := range files {
 			fmt.Fprintf(stdout, "  %s\n", f)
+		}
+		for _, s := range skipped {
+			fmt.Fprintf(stdout, "  (%s)\n", s)
 		}
 	}
 	out.Elapsed = time.Since(start)
