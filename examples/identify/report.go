@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"strconv"
+	"strings"
 
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 	"github.com/backshift/backshift/parse"
@@ -43,7 +44,11 @@ func report(ctx context.Context, est *tf.Estimate, ds *dataset, w io.Writer, pr 
 
 // writeDiagnostics prints the checks and the verdict, which names every
 // reason a failed model must not be used.
-func writeDiagnostics(w io.Writer, d *tf.Diagnostics) {
+func writeDiagnostics(w io.Writer, d *tf.Diagnostics, failures []string) {
+	if d == nil {
+		fmt.Fprintf(w, "\nDiagnostic checks: not run\n  verdict: NOT ADEQUATE, do not use this model for control work: %s\n", strings.Join(failures, "; "))
+		return
+	}
 	fmt.Fprintf(w, "\n%s", d.String())
 	if d.Pass {
 		fmt.Fprintf(w, "  verdict: the model is adequate by every check\n")

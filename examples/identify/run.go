@@ -34,7 +34,8 @@ type Outcome struct {
 	// Simulation is the chosen model's noise-free simulation from the
 	// inputs alone, and how well it follows the output.
 	Simulation *Simulation
-	// Diagnostics are the checks of the chosen model.
+	// Diagnostics are the checks of the chosen model (nil when they
+	// could not be run: then the model is not trusted).
 	Diagnostics *tf.Diagnostics
 	// Trusted reports that the model passed every check
 	// (Diagnostics.Pass): only then does the report offer it for control
@@ -181,18 +182,23 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	out := &Outcome{Estimate: est, Record: ds.notes}
 	// The checks come first: what the report offers depends on them.
 	pr.say("checking the model")
+	var failures []string
 	if out.Diagnostics, err = tf.Check(est, ds.data, nil); err != nil {
-		return nil, fmt.Errorf("checks: %w", err)
+		// The report goes on, for a model that cannot be trusted.
+		out.Diagnostics = nil
+		failures = []string{fmt.Sprintf("the diagnostic checks could not be run: %v", err)}
+	} else {
+		out.Trusted = out.Diagnostics.Pass
+		failures = out.Diagnostics.Failures
 	}
-	out.Trusted = out.Diagnostics.Pass
-	out.Validity = validity(est, ds, out.Diagnostics)
+	out.Validity = validity(est, ds, out.Trusted, failures)
 	if err := report(ctx, est, ds, stdout, pr, out); err != nil {
 		return nil, err
 	}
 	if out.Simulation, err = simulate(est, ds, skip, stdout); err != nil {
 		return nil, err
 	}
-	writeDiagnostics(stdout, out.Diagnostics)
+	writeDiagnostics(stdout, out.Diagnostics, failures)
 	if err := forecast(est, ds, o, horizon, stdout, out); err != nil {
 		return nil, err
 	}
@@ -224,7 +230,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if o.Save != "" {
 		if !out.Trusted && !o.SaveUntrusted {
 			fmt.Fprintf(stdout, "\nNot saved to %s: the model fails its checks (-save-untrusted saves it anyway, marked as untrusted).\n", o.Save)
-			return out, &SaveError{Path: o.Save, Failures: out.Diagnostics.Failures}
+			return out, &SaveError{Path: o.Save, Failures: failures}
 		}
 		out.Validity.Forced = !out.Trusted
 		if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
@@ -473,7 +479,7 @@ func sameInterval(a float64, ua string, b float64, ub string, tol float64) bool 
 }
 
 // validity is the record of the data est was fitted to.
-func validity(est *tf.Estimate, ds *dataset, d *tf.Diagnostics) *modelinfo.Validity {
+func validity(est *tf.Estimate, ds *dataset, pass bool, failures []string) *modelinfo.Validity {
 	v := &modelinfo.Validity{Samples: ds.n, Ranges: map[string][2]float64{}, Verdict: modelinfo.VerdictPassed}
 	if iv := est.Model.Interval; iv.Value > 0 {
 		v.Interval = ivText(iv.Value, iv.Unit)
@@ -482,9 +488,9 @@ func validity(est *tf.Estimate, ds *dataset, d *tf.Diagnostics) *modelinfo.Valid
 		s := ds.data[c]
 		v.Ranges[c] = [2]float64{slices.Min(s), slices.Max(s)}
 	}
-	if !d.Pass {
+	if !pass {
 		v.Verdict = modelinfo.VerdictFailed
-		v.Failures = slices.Clone(d.Failures)
+		v.Failures = slices.Clone(failures)
 	}
 	return v
 }
