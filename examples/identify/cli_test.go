@@ -424,6 +424,17 @@ func TestTimeColumns(t *testing.T) {
 	if _, err := load(o, remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `us.csv:2: column "Date": the first column looks like a time column by its name, but "01/02/2026" is neither a number nor a timestamp`) {
 		t.Errorf("unread date form: %v", err)
 	}
+	// Seconds since 1970 under the name timestamp are a time column.
+	o.Data = writeFile(t, "epoch.csv", "timestamp,valve,temp\n"+func() string {
+		var b strings.Builder
+		for i := range 12 {
+			fmt.Fprintf(&b, "%d,%d,%g\n", 1767225600+30*i, 40+i%3, 15+0.1*float64(i%4))
+		}
+		return b.String()
+	}())
+	if ds, err := load(o, remedy{}); err != nil || ds.interval != 30 || ds.unit != "s" {
+		t.Errorf("epoch seconds: %v %+v", err, ds)
+	}
 	// -gaps without a time column.
 	o.Time, o.Gaps = "none", "longest"
 	if _, err := load(o, remedy{kind: "longest"}); err == nil || !strings.Contains(err.Error(), "-gaps longest needs a time column") {

@@ -120,7 +120,9 @@ func findTime(t *Table, flag, unit string, used map[string]bool) (*timing, error
 		_, nameOK := nameUnit(first)
 		_, numErr := strconv.ParseFloat(cell, 64)
 		switch {
-		case isCal || (nameOK && numErr == nil):
+		case isCal || ((nameOK || dateNames[strings.ToLower(first)]) && numErr == nil):
+			// Calendar times, or numbers under a time's name (a
+			// "timestamp" of seconds since 1970).
 		case nameOK || dateNames[strings.ToLower(first)]:
 			// Named as a time, but in a form not read: refuse rather
 			// than silently take the rows as evenly spaced.
