@@ -115,10 +115,13 @@ func ReadCSV(name string, r io.Reader, sep rune) (*Table, error) {
 			return nil, &CSVError{File: name, Line: hline, Msg: fmt.Sprintf("the header has a single column %s; %s", clip(header[0]), hint)}
 		}
 	}
-	for _, h := range header {
+	for i, h := range header {
 		h = strings.TrimSpace(h)
-		if _, dup := t.Cells[h]; dup || h == "" {
-			return nil, &CSVError{File: name, Line: hline, Column: h, Msg: "column names must be unique and not empty"}
+		if h == "" {
+			return nil, &CSVError{File: name, Line: hline, Msg: fmt.Sprintf("column %d of %d in the header has no name (a separator too many?): every column needs a name", i+1, len(header))}
+		}
+		if _, dup := t.Cells[h]; dup {
+			return nil, &CSVError{File: name, Line: hline, Column: h, Msg: "column names must be unique"}
 		}
 		t.Names = append(t.Names, h)
 		t.Cells[h] = nil

@@ -207,6 +207,7 @@ func TestReadCSVErrors(t *testing.T) {
 		{"a,b\n1,2\n3\n", "f.csv:3: 1 field, but the header names 2 columns (a, b)"},
 		{"a,b\n1,2\n3,4,5\n", "f.csv:3: 3 fields, but the header names 2 columns (a, b)"},
 		{"a,a\n1,2\n", `f.csv:1: column "a": column names must be unique`},
+		{"a,b,\n1,2,3\n", `f.csv:1: column 3 of 3 in the header has no name (a separator too many?)`},
 		{"a,b\n1,NaN\n", `f.csv:2: column "b": "NaN" is not a finite number`},
 		{"a,b\n1,\n", `f.csv:2: column "b": the cell is empty: every sample is needed (fill it in the file, or delete the row and let -gaps fill it`},
 	} {
