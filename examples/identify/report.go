@@ -94,7 +94,8 @@ func mapCoefs(m tf.Model, fn func(*tf.Coef)) tf.Model {
 
 // saveConfig writes the fitted model, every coefficient fixed at its
 // estimate, as a one-model config in the format of examples/config, with
-// v, the record of the data it was fitted to, as its "validity".
+// v, the record of the data it was fitted to, as its "validity", and in
+// its notes what was done to the record (time column, gaps).
 func saveConfig(path string, est *tf.Estimate, ds *dataset, v *modelinfo.Validity) error {
 	type entry struct {
 		Name     string              `json:"name"`
@@ -107,7 +108,7 @@ func saveConfig(path string, est *tf.Estimate, ds *dataset, v *modelinfo.Validit
 		Models []entry `json:"models"`
 	}{Site: ds.name, Models: []entry{{
 		Name:     ds.output + " (identified)",
-		Notes:    fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2)),
+		Notes:    strings.Join(append([]string{fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2))}, ds.notes...), "; "),
 		Spec:     parse.Spec{Model: fixed(est.Model, -1)},
 		Validity: v,
 	}}}
