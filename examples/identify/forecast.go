@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -18,9 +19,13 @@ type planStep struct {
 	Value float64
 }
 
-// parsePlan reads "0:55,60:75,120:60".
+// parsePlan reads "0:55,60:75,120:60"; "hold" and "" give no steps
+// (the last value holds).
 func parsePlan(s string) ([]planStep, error) {
 	var out []planStep
+	if strings.TrimSpace(s) == "hold" {
+		return nil, nil
+	}
 	for _, f := range strings.Split(s, ",") {
 		f = strings.TrimSpace(f)
 		if f == "" {
@@ -30,7 +35,7 @@ func parsePlan(s string) ([]planStep, error) {
 		from, err1 := strconv.Atoi(strings.TrimSpace(a))
 		v, err2 := strconv.ParseFloat(strings.TrimSpace(b), 64)
 		if !ok || err1 != nil || err2 != nil || from < 0 || math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("plan %q: want from:value pairs such as 0:55,60:75 (from in samples after the record)", s)
+			return nil, fmt.Errorf("-plan %s: want from:value pairs such as 0:55,60:75 (from in samples after the record), or hold", clip(s))
 		}
 		out = append(out, planStep{from, v})
 	}
@@ -62,16 +67,26 @@ type forecastResult struct {
 	h       int
 }
 
-// forecast prints the forecast of the output for the planned schedule of
-// the first input, the other inputs forecast from their own models.
-func forecast(est *tf.Estimate, ds *dataset, o Options, w io.Writer, out *Outcome) error {
-	h := o.Horizon
+// forecast prints the forecast of the output over h samples for the
+// planned schedule of the first input (o.Plan; the demo's plan on the
+// built-in record when empty, else the last value held), the other
+// inputs forecast from their own models. A plan that leaves the range of
+// the input seen in the record is warned about, naming both ranges; a
+// forecast from a model that fails its checks is headed as such.
+func forecast(est *tf.Estimate, ds *dataset, o Options, h int, w io.Writer, out *Outcome) error {
 	if h <= 0 {
 		return nil
 	}
 	first := ds.inputs[0]
 	x := ds.data[first]
-	plan, err := parsePlan(o.Plan)
+	planText := o.Plan
+	if planText == "" {
+		planText = "hold"
+		if ds.builtin && first == "valve" {
+			planText = demoPlan
+		}
+	}
+	plan, err := parsePlan(planText)
 	if err != nil {
 		return err
 	}
@@ -80,10 +95,27 @@ func forecast(est *tf.Estimate, ds *dataset, o Options, w io.Writer, out *Outcom
 	if err != nil {
 		return fmt.Errorf("forecast: %w", err)
 	}
+	for j := range f.Mean {
+		if !finite(f.Mean[j]) || !finite(f.Lower[j]) || !finite(f.Upper[j]) {
+			fmt.Fprintf(w, "\nForecast of %s: not available (it does not stay finite %d samples ahead: the model is not fit to forecast with)\n", ds.output, j+1)
+			return nil
+		}
+	}
 	out.forecast = &forecastResult{f: f, planned: first, plan: u, h: h}
 	unit := ds.timeUnit()
 	dt := ds.step()
-	fmt.Fprintf(w, "\nForecast of %s for the planned %s (%s), %.0f %% intervals:\n", ds.output, first, o.Plan, 100*f.Level)
+	what := planText
+	if planText == "hold" {
+		what = fmt.Sprintf("held at its last value %.4g", x[len(x)-1])
+	}
+	fmt.Fprintf(w, "\nForecast of %s for the planned %s (%s), %.0f %% intervals:\n", ds.output, first, what, 100*f.Level)
+	if !out.Trusted {
+		fmt.Fprintf(w, "  (from a model that fails its checks: not to be relied on)\n")
+	}
+	if s := out.Validity.Outside(first, slices.Min(u), slices.Max(u)); s != "" {
+		out.Warnings = append(out.Warnings, s)
+		fmt.Fprintf(w, "  WARNING: the planned %s\n", s)
+	}
 	var others []string
 	for _, in := range f.Inputs {
 		if !in.Known {

@@ -43,6 +43,17 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 	if cands[0].Estimate == nil {
 		return nil, fmt.Errorf("identification: no candidate could be fitted")
 	}
+	if d := cands[0].Diagnostics; d != nil && !d.Pass {
+		// The best by BIC fails: say whether a lower-ranked one passes.
+		note := "  note: the best by BIC fails its checks, and so does every other candidate"
+		for _, c := range cands[1:] {
+			if c.Err == nil && c.Diagnostics != nil && c.Diagnostics.Pass {
+				note = fmt.Sprintf("  note: the best by BIC fails its checks; the best that passes them is rank %d: %s", c.Rank, structure(c.Model))
+				break
+			}
+		}
+		fmt.Fprintln(w, note)
+	}
 	return cands[0].Estimate, nil
 }
 

@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -50,7 +51,9 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 			t.Errorf("%s: gain %.4f, true %.4f (%+.1f %%, want within 10 %%)", r.Input, r.Gain, r.TrueGain, 100*r.GainErr)
 		}
 	}
-	for _, want := range []string{"Candidate models, best first", "Model of temp with coefficients estimated by conditional least squares", "coefficient", "standard error", "value/se", "noise variance", "Diagnostic checks", "verdict:", "time constant", "Forecast of temp", "How close the identified model is", "independent safety interlocks", "licensed practice"} {
+	for _, want := range []string{"Candidate models, best first", "Model of temp with coefficients estimated by conditional least squares", "coefficient", "standard error", "value/se", "noise variance", "Diagnostic checks", "verdict:", "time constant", "Forecast of temp", "How close the identified model is", "independent safety interlocks", "licensed practice",
+		"verdict: the model is adequate by every check", "Input paths for control work", "To test a controller on the identified model",
+		"Forecast of temp for the planned valve (0:65,60:85,120:70)"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("output lacks %q", want)
 		}
@@ -167,6 +170,21 @@ func TestSpecAndCSV(t *testing.T) {
 			t.Errorf("path %s: gain %.4f dead time %d", p.Input, p.Gain, p.DeadTime)
 		}
 	}
+	// The saved record of the data: all 5760 samples at 1 min, the
+	// ranges of the three series, passed and not forced.
+	v := savedValidity(t, o.Save)
+	g := greenhouse.Default()
+	if v.Samples != 5760 || v.Interval != "1 min" || v.Verdict != "passed" || v.Forced || len(v.Failures) != 0 || len(v.Ranges) != 3 {
+		t.Errorf("saved validity %+v", v)
+	}
+	// The CSV holds 4 decimals: the ranges agree with the record to
+	// 5e-5 (half a unit of the last decimal).
+	for name, s := range map[string][]float64{"temp": g.Temp, "valve": g.Valve, "outdoor": g.Outdoor} {
+		r := v.Ranges[name]
+		if math.Abs(r[0]-slices.Min(s)) > 5e-5 || math.Abs(r[1]-slices.Max(s)) > 5e-5 {
+			t.Errorf("range of %s %v, record %v..%v", name, r, slices.Min(s), slices.Max(s))
+		}
+	}
 	if !strings.Contains(buf.String(), "interval 1 min") {
 		t.Errorf("interval not reported:\n%s", buf.String())
 	}
@@ -189,17 +207,26 @@ func TestReadCSVErrors(t *testing.T) {
 		{"a,b\n1,2\n3\n", "f.csv:3: 1 field, but the header names 2 columns (a, b)"},
 		{"a,b\n1,2\n3,4,5\n", "f.csv:3: 3 fields, but the header names 2 columns (a, b)"},
 		{"a,a\n1,2\n", `f.csv:1: column "a": column names must be unique`},
+		{"a,b,\n1,2,3\n", `f.csv:1: column 3 of 3 in the header has no name (a separator too many?)`},
 		{"a,b\n1,NaN\n", `f.csv:2: column "b": "NaN" is not a finite number`},
+		{"a,b\n1,\n", `f.csv:2: column "b": the cell is empty: every sample is needed (fill it in the file, or delete the row and let -gaps fill it`},
 	} {
-		_, err := ReadCSV("f.csv", strings.NewReader(c.in))
+		tb, err := ReadCSV("f.csv", strings.NewReader(c.in), 0)
+		if err == nil {
+			_, err = tb.Select(tb.Names...)
+		}
 		var ce *CSVError
 		if !errors.As(err, &ce) || !strings.HasPrefix(err.Error(), c.want) {
 			t.Errorf("%q: got %v, want %s", c.in, err, c.want)
 		}
 	}
-	tb, err := ReadCSV("f.csv", strings.NewReader("# comment\nt, y\n1, 2.5\n2, 3\n"))
-	if err != nil || tb.Columns["y"][0] != 2.5 || len(tb.Columns["t"]) != 2 {
-		t.Errorf("%+v %v", tb, err)
+	tb, err := ReadCSV("f.csv", strings.NewReader("# comment\nt, y\n1, 2.5\n2, 3\n"), 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := tb.Select("y", "t")
+	if err != nil || d["y"][0] != 2.5 || len(d["t"]) != 2 || tb.Lines[0] != 3 || tb.Lines[1] != 4 {
+		t.Errorf("%+v %v %v", tb, d, err)
 	}
 	if _, err := tb.Select("y", "u"); err == nil || !strings.Contains(err.Error(), `no column "u"`) {
 		t.Errorf("select: %v", err)

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -9,12 +10,29 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode/utf8"
 )
 
 // Options are the command-line settings of one run.
 type Options struct {
 	// Data is a CSV file; empty means the built-in greenhouse record.
 	Data string
+	// Sep is the field separator of the CSV file (0 for a comma).
+	Sep rune
+	// Time names the time column of the CSV file: "" for automatic (the
+	// first column, when its first cell is a timestamp or a date, or its
+	// name is a time name such as "time", "minute" or "time (s)" over
+	// numbers), "none" for no time column. TimeUnit is the unit of a
+	// numeric time column ("s", "min", "h", "d"; "" for the unit its
+	// name announces, else seconds).
+	Time     string
+	TimeUnit string
+	// Gaps is what to do where the time column shows missing rows or
+	// uneven steps: "" refuses the record with an error naming the
+	// lines; "hold:N" and "linear:N" fill gaps of up to N missing
+	// samples by holding the last value or on a straight line;
+	// "longest" fits only the longest evenly spaced stretch.
+	Gaps string
 	// Output and Inputs name the columns of the output and the inputs
 	// (ignored with Spec: the spec names them).
 	Output string
@@ -22,22 +40,29 @@ type Options struct {
 	// Spec, when not empty, is a model to fit instead of identifying one.
 	Spec string
 	// Interval is the sample interval (Value in Unit); zero means the
-	// demo's 1 min for built-in data and the spec's, or samples, for a
-	// file.
+	// spec's, or the time column's, or 1 min for the built-in data. When
+	// more than one of them is given they must agree.
 	Interval float64
 	Unit     string
 	// Pictures is a folder to write PNG pictures to; empty for none.
 	Pictures string
 	// Save writes the fitted model as a one-model JSON config (the format
-	// of examples/config) to this file; empty for none.
-	Save string
+	// of examples/config) to this file, with the record of the data it
+	// was fitted to; empty for none. A model that fails its checks is
+	// not saved unless SaveUntrusted is set, and then its record says
+	// so.
+	Save          string
+	SaveUntrusted bool
 	// WriteData writes the built-in record as CSV to this file and stops.
 	WriteData string
-	// Horizon is the forecast horizon in samples; Plan the planned
-	// schedule of the first input as "from:value,..." (samples from the
-	// end of the record); empty holds the last value.
+	// Horizon is the forecast horizon in samples: 0 for no forecast,
+	// HorizonAuto for 180 samples but at most a quarter of the record.
 	Horizon int
-	Plan    string
+	// Plan is the planned schedule of the first input as
+	// "from:value,..." (samples from the end of the record), or "hold"
+	// to hold its last value. Empty means the demo's plan on the
+	// built-in record, and hold for a file.
+	Plan string
 	// Skip is the number of samples at the start of the record left out
 	// of the sums of squares: the input filters start from zero
 	// pre-sample values, and with inputs far from zero (a valve at 60 %)
@@ -48,40 +73,110 @@ type Options struct {
 	Quiet bool
 }
 
+// HorizonAuto asks for the default forecast horizon: 180 samples, at
+// most a quarter of the record.
+const HorizonAuto = -1
+
+// demoPlan is the valve schedule forecast on the built-in record: 65 %
+// for an hour, 85 % for an hour, then 70 %.
+const demoPlan = "0:65,60:85,120:70"
+
 // DefaultOptions are the settings of a plain `go run ./examples/identify`.
 func DefaultOptions() Options {
-	return Options{Output: "temp", Inputs: []string{"valve", "outdoor"}, Horizon: 180, Plan: "0:65,60:85,120:70", Skip: -1}
+	return Options{Output: "temp", Inputs: []string{"valve", "outdoor"}, Horizon: HorizonAuto, Skip: -1}
 }
 
-func main() {
+// usage is printed by -h above the flags.
+const usage = `identify finds a transfer-function-noise model of a process from a record
+of its output and inputs (a CSV file, or the built-in greenhouse demo),
+checks it, and prints its gains, dead times and time constants with a
+forecast. Results go to standard output, progress to standard error.
+
+Examples:
+  go run ./examples/identify                      # the built-in greenhouse demo
+  go run ./examples/identify -data plant.csv -output temp -inputs valve,outdoor -gaps linear:5
+
+Flags:
+`
+
+func main() { os.Exit(cli(os.Args[1:], os.Stdout, os.Stderr)) }
+
+// cli runs the program with the command-line arguments args and returns
+// its exit status: 0 done, 1 a failed run, 2 a bad command line.
+func cli(args []string, stdout, stderr io.Writer) int {
 	o := DefaultOptions()
-	var inputs, interval string
-	flag.StringVar(&o.Data, "data", "", "CSV file with a header line (default: the built-in greenhouse record)")
-	flag.StringVar(&o.Output, "output", o.Output, "column of the output series")
-	flag.StringVar(&inputs, "inputs", strings.Join(o.Inputs, ","), "comma-separated columns of the input series")
-	flag.StringVar(&o.Spec, "spec", "", "fit this model spec instead of identifying one")
-	flag.StringVar(&interval, "interval", "", "sample interval with a unit, e.g. 1min, 10s, 0.5h (default: 1min for the built-in data)")
-	flag.StringVar(&o.Pictures, "pictures", "", "write PNG pictures to this folder")
-	flag.StringVar(&o.Save, "save", "", "write the fitted model as a JSON config (the format of examples/config) to this file")
-	flag.StringVar(&o.WriteData, "write-data", "", "write the built-in greenhouse record as CSV to this file and exit")
-	flag.IntVar(&o.Horizon, "horizon", o.Horizon, "forecast horizon in samples (0: no forecast)")
-	flag.StringVar(&o.Plan, "plan", o.Plan, "planned first input after the record, as from:value pairs (samples from the end)")
-	flag.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500)")
-	flag.BoolVar(&o.Quiet, "quiet", false, "no progress messages on standard error")
-	flag.Parse()
+	var inputs, interval, sep string
+	fs := flag.NewFlagSet("identify", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.Usage = func() {
+		fmt.Fprint(fs.Output(), usage)
+		fs.PrintDefaults()
+	}
+	fs.StringVar(&o.Data, "data", "", "CSV file with a header line of column names (default: the built-in greenhouse record)")
+	fs.StringVar(&sep, "sep", ",", "field separator of the CSV file: a character such as ';', or tab")
+	fs.StringVar(&o.Time, "time", "", "time column of the CSV file (default: the first column, when it holds timestamps or dates, or numbers under a name such as time or minute); none: no time column")
+	fs.StringVar(&o.TimeUnit, "time-unit", "", "unit of a numeric time column: s, min, h or d (default: the unit its name says, else s)")
+	fs.StringVar(&o.Gaps, "gaps", "", "remedy for missing rows in the time column: hold:N or linear:N fill gaps of up to N samples, longest fits the longest evenly spaced stretch (default: refuse)")
+	fs.StringVar(&o.Output, "output", o.Output, "column of the output series")
+	fs.StringVar(&inputs, "inputs", strings.Join(o.Inputs, ","), "comma-separated columns of the input series")
+	fs.StringVar(&o.Spec, "spec", "", "fit this model spec instead of identifying one")
+	fs.StringVar(&interval, "interval", "", "sample interval with a unit, e.g. 1min, 10s, 0.5h (default: the spec's, the time column's, or 1min for the built-in data)")
+	fs.StringVar(&o.Pictures, "pictures", "", "write PNG pictures to this folder")
+	fs.StringVar(&o.Save, "save", "", "write the fitted model with the record of its data as a JSON config (the format of examples/config) to this file")
+	fs.BoolVar(&o.SaveUntrusted, "save-untrusted", false, "with -save: save the model even when it fails its checks, marked as untrusted")
+	fs.StringVar(&o.WriteData, "write-data", "", "write the built-in greenhouse record as CSV to this file and exit")
+	fs.IntVar(&o.Horizon, "horizon", o.Horizon, "forecast horizon in samples (0: no forecast; -1: 180, at most a quarter of the record)")
+	fs.StringVar(&o.Plan, "plan", "", "planned first input after the record, as from:value pairs (samples from the end), or hold (default: the demo plan "+demoPlan+" on the built-in record, hold for a file)")
+	fs.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500)")
+	fs.BoolVar(&o.Quiet, "quiet", false, "no progress messages on standard error")
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return 0
+		}
+		return 2
+	}
+	if fs.NArg() > 0 {
+		a := fs.Arg(0)
+		hint := ""
+		if strings.HasSuffix(strings.ToLower(a), ".csv") || strings.HasSuffix(strings.ToLower(a), ".txt") {
+			hint = fmt.Sprintf(": to read a file, use -data %s", a)
+		}
+		fmt.Fprintf(stderr, "identify: unexpected argument %s (flags come before it and every setting is a flag)%s; -h lists the flags\n", clip(a), hint)
+		return 2
+	}
 	o.Inputs = splitList(inputs)
 	if interval != "" {
 		v, u, err := parseInterval(interval)
 		if err != nil {
-			fmt.Fprintln(os.Stderr, "identify:", err)
-			os.Exit(2)
+			fmt.Fprintln(stderr, "identify:", err)
+			return 2
 		}
 		o.Interval, o.Unit = v, u
 	}
-	if _, err := Run(context.Background(), o, os.Stdout, os.Stderr); err != nil {
-		fmt.Fprintln(os.Stderr, "identify:", err)
-		os.Exit(1)
+	r, err := parseSep(sep)
+	if err != nil {
+		fmt.Fprintln(stderr, "identify:", err)
+		return 2
 	}
+	o.Sep = r
+	if _, err := Run(context.Background(), o, stdout, stderr); err != nil {
+		fmt.Fprintln(stderr, "identify:", err)
+		return 1
+	}
+	return 0
+}
+
+// parseSep reads -sep: one character other than a quote or a line end,
+// or "tab".
+func parseSep(s string) (rune, error) {
+	if s == "tab" || s == `\t` {
+		return '\t', nil
+	}
+	r, size := utf8.DecodeRuneInString(s)
+	if size == 0 || size != len(s) || r == '"' || r == '\r' || r == '\n' || r == utf8.RuneError {
+		return 0, fmt.Errorf("-sep %s: want one character such as ';' or '|', or tab", clip(s))
+	}
+	return r, nil
 }
 
 func splitList(s string) []string {

@@ -13,8 +13,12 @@ import (
 )
 
 // maxPictureLag is the largest lag shown in the correlation pictures, in
-// samples.
+// samples; a short record shows lags up to a quarter of its length
+// (pictureLag).
 const maxPictureLag = 40
+
+// pictureLag is the largest lag shown for a series of n samples.
+func pictureLag(n int) int { return max(1, min(maxPictureLag, n/4)) }
 
 // prewhitened is one input's prewhitened cross-correlation and
 // impulse-response weights, as the identification saw them.
@@ -39,11 +43,11 @@ func prewhitenAll(ds *dataset) ([]prewhitened, error) {
 		// A prewhitened input that fails the whiteness check is still
 		// usable for a picture; the identification itself reports it.
 		a, b := res.Alpha[res.Start:], res.Beta[res.Start:]
-		w, err := ccf.ImpulseWeights(a, b, maxPictureLag, name, nil)
+		w, err := ccf.ImpulseWeights(a, b, pictureLag(len(a)), name, nil)
 		if err != nil {
 			return nil, err
 		}
-		c, err := ccf.Cross(a, b, maxPictureLag, &ccf.Settings{Names: [2]string{name, ds.output}})
+		c, err := ccf.Cross(a, b, pictureLag(len(a)), &ccf.Settings{Names: [2]string{name, ds.output}})
 		if err != nil {
 			return nil, err
 		}
@@ -52,26 +56,26 @@ func prewhitenAll(ds *dataset) ([]prewhitened, error) {
 	return out, nil
 }
 
-// pictures writes every PNG into dir and returns their paths.
-func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string, error) {
+// pictures writes every PNG into dir and returns their paths, and for
+// each picture that could not be drawn (a record too short for its
+// correlations, no stable path for the step responses, ...) a sentence
+// saying why.
+func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) (files, skipped []string, err error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	unit := ds.timeUnit()
 	dt := ds.step()
-	var files []string
 	add := func(name string, f func(path string) error) error {
 		p := picturePath(dir, name)
 		if err := f(p); err != nil {
-			return fmt.Errorf("%s: %w", name, err)
+			skipped = append(skipped, fmt.Sprintf("%s.png not drawn: %v", name, err))
+			return nil
 		}
 		files = append(files, p)
 		return nil
 	}
-	pw, err := prewhitenAll(ds)
-	if err != nil {
-		return nil, err
-	}
+	pw, pwErr := prewhitenAll(ds)
 	delays := map[string]int{}
 	for _, in := range est.Model.Inputs {
 		delays[in.Series] = in.Delay
@@ -98,16 +102,20 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		}
 		return plotSeries(path, t, panels, "time ("+unit+")")
 	}); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 
 	// Prewhitened cross-correlation with the 95 % band.
 	if err := add("ccf", func(path string) error {
+		if pwErr != nil {
+			return pwErr
+		}
 		var panels []corrPanel
 		for _, p := range pw {
 			c := corrPanel{Title: fmt.Sprintf("Prewhitened cross-correlation, %s leading %s", p.Input, ds.output),
 				Band: p.Corr.Band(0.95), Mark: -1}
-			for k := -10; k <= maxPictureLag; k++ {
+			lag := len(p.Weights.V) - 1
+			for k := -min(10, lag); k <= lag; k++ {
 				c.Lags = append(c.Lags, float64(k)*dt)
 				c.R = append(c.R, p.Corr.At(k))
 			}
@@ -119,11 +127,14 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		}
 		return plotCorrelations(path, panels, "lag ("+unit+"), positive: input leads output", "cross-correlation")
 	}); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 
 	// Impulse-response weights with +-2 SE.
 	if err := add("weights", func(path string) error {
+		if pwErr != nil {
+			return pwErr
+		}
 		var panels []weightPanel
 		for _, p := range pw {
 			w := weightPanel{Title: fmt.Sprintf("Impulse-response weights, %s -> %s", p.Input, ds.output),
@@ -139,24 +150,25 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		}
 		return plotWeights(path, panels, "lag ("+unit+")")
 	}); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 
 	// Residual autocorrelation with the 95 % band.
 	if err := add("residual-acf", func(path string) error {
 		r := est.Resid[est.Conditioning.First:]
-		acf, err := arma.ACF(r, maxPictureLag)
+		lag := pictureLag(len(r))
+		acf, err := arma.ACF(r, lag)
 		if err != nil {
 			return err
 		}
 		c := corrPanel{Title: "Autocorrelation of the residuals", Band: 1.96 * acf.White, Mark: -1, LegendBottom: true}
-		for k := 1; k <= maxPictureLag; k++ {
+		for k := 1; k <= lag; k++ {
 			c.Lags = append(c.Lags, float64(k)*dt)
 			c.R = append(c.R, acf.R[k])
 		}
 		return plotCorrelations(path, []corrPanel{c}, "lag ("+unit+")", "autocorrelation")
 	}); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 
 	// Step responses with settling time.
@@ -182,7 +194,7 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		}
 		return plotSteps(path, panels, "time after the step ("+unit+")")
 	}); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 
 	// Observed against one-step-ahead fitted values.
@@ -196,7 +208,7 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 		}
 		return plotFit(path, t, y, fit, int(180/dt), est.Conditioning.First, "time ("+unit+")", ds.output+outputUnit(ds))
 	}); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 
 	// Observed against the noise-free simulation from the inputs alone.
@@ -212,17 +224,17 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) ([]string
 			}
 			return plotSimulation(path, t, y, out.Simulation.Y[from:], "time ("+unit+")", ds.output+outputUnit(ds))
 		}); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
 
 	// Forecast with its interval and the planned input.
 	if out.forecast != nil {
 		if err := add("forecast", func(path string) error { return plotForecastFrom(path, ds, out.forecast) }); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
-	return files, nil
+	return files, skipped, nil
 }
 
 // setpoint returns the demo record's setpoint series.

@@ -8,14 +8,17 @@ import (
 	"math"
 	"os"
 	"strconv"
+	"strings"
 
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
-// report prints the chosen model's estimates, diagnostics and path
-// summary.
+// report prints the chosen model's estimates and path summary. The
+// summary is offered for control work only when the model passed every
+// check (out.Trusted); otherwise it is headed with the reason not to use
+// it.
 func report(ctx context.Context, est *tf.Estimate, ds *dataset, w io.Writer, pr *progress, out *Outcome) error {
 	fmt.Fprintf(w, "\nChosen model, coefficients rounded to 4 digits:\n  %s\n\n", rounded(est.Model))
 	// The library's report: the spec with the full estimates (parse it
@@ -27,7 +30,11 @@ func report(ctx context.Context, est *tf.Estimate, ds *dataset, w io.Writer, pr 
 		return err
 	}
 	out.Paths = paths
-	fmt.Fprintf(w, "\nInput paths for control work (times in %s):\n", ds.timeUnit())
+	if out.Trusted {
+		fmt.Fprintf(w, "\nInput paths for control work (times in %s):\n", ds.timeUnit())
+	} else {
+		fmt.Fprintf(w, "\nInput paths of this model (times in %s), NOT for control work: the model fails its checks (the verdict below says which):\n", ds.timeUnit())
+	}
 	if err := modelinfo.Write(w, est.Model); err != nil {
 		return err
 	}
@@ -35,19 +42,20 @@ func report(ctx context.Context, est *tf.Estimate, ds *dataset, w io.Writer, pr 
 	return nil
 }
 
-// diagnostics runs the model checks and prints them with verdicts.
-func diagnostics(est *tf.Estimate, ds *dataset, w io.Writer) (*tf.Diagnostics, error) {
-	d, err := tf.Check(est, ds.data, nil)
-	if err != nil {
-		return nil, err
+// writeDiagnostics prints the checks and the verdict, which names every
+// reason a failed model must not be used.
+func writeDiagnostics(w io.Writer, d *tf.Diagnostics, failures []string) {
+	if d == nil {
+		fmt.Fprintf(w, "\nDiagnostic checks: not run\n  verdict: NOT ADEQUATE, do not use this model for control work: %s\n", strings.Join(failures, "; "))
+		return
 	}
 	fmt.Fprintf(w, "\n%s", d.String())
 	if d.Pass {
 		fmt.Fprintf(w, "  verdict: the model is adequate by every check\n")
-	} else {
-		fmt.Fprintf(w, "  verdict: at least one check fails: the model misses some structure (see above)\n")
+		return
 	}
-	return d, nil
+	fmt.Fprintf(w, "  verdict: NOT ADEQUATE, do not use this model for control work: %d %s, listed above under \"not to be trusted\"\n",
+		len(d.Failures), plural(len(d.Failures), "reason", "reasons"))
 }
 
 // rounded returns a copy of m with every coefficient fixed at its value
@@ -85,20 +93,24 @@ func mapCoefs(m tf.Model, fn func(*tf.Coef)) tf.Model {
 }
 
 // saveConfig writes the fitted model, every coefficient fixed at its
-// estimate, as a one-model config in the format of examples/config.
-func saveConfig(path string, est *tf.Estimate, ds *dataset) error {
+// estimate, as a one-model config in the format of examples/config, with
+// v, the record of the data it was fitted to, as its "validity", and in
+// its notes what was done to the record (time column, gaps).
+func saveConfig(path string, est *tf.Estimate, ds *dataset, v *modelinfo.Validity) error {
 	type entry struct {
-		Name  string     `json:"name"`
-		Notes string     `json:"notes"`
-		Spec  parse.Spec `json:"spec"`
+		Name     string              `json:"name"`
+		Notes    string              `json:"notes"`
+		Spec     parse.Spec          `json:"spec"`
+		Validity *modelinfo.Validity `json:"validity"`
 	}
 	cfg := struct {
 		Site   string  `json:"site"`
 		Models []entry `json:"models"`
 	}{Site: ds.name, Models: []entry{{
-		Name:  ds.output + " (identified)",
-		Notes: fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2)),
-		Spec:  parse.Spec{Model: fixed(est.Model, -1)},
+		Name:     ds.output + " (identified)",
+		Notes:    strings.Join(append([]string{fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2))}, ds.notes...), "; "),
+		Spec:     parse.Spec{Model: fixed(est.Model, -1)},
+		Validity: v,
 	}}}
 	b, err := json.MarshalIndent(cfg, "", "  ")
 	if err != nil {

@@ -5,8 +5,13 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
 	"time"
 
 	"github.com/backshift/backshift/examples/internal/greenhouse"
@@ -29,8 +34,24 @@ type Outcome struct {
 	// Simulation is the chosen model's noise-free simulation from the
 	// inputs alone, and how well it follows the output.
 	Simulation *Simulation
-	// Diagnostics are the checks of the chosen model.
+	// Diagnostics are the checks of the chosen model (nil when they
+	// could not be run: then the model is not trusted).
 	Diagnostics *tf.Diagnostics
+	// Trusted reports that the model passed every check
+	// (Diagnostics.Pass): only then does the report offer it for control
+	// work.
+	Trusted bool
+	// Record says what was done with the record before the fit: the
+	// time column read, gaps filled or the stretch kept.
+	Record []string
+	// Warnings are the warnings printed with the results (a plan that
+	// leaves the range of the record, ...).
+	Warnings []string
+	// Validity is the record of the data the model was fitted to, as
+	// -save writes it.
+	Validity *modelinfo.Validity
+	// Saved is the file the model was saved to ("" for none).
+	Saved string
 	// Elapsed is the wall time of the run.
 	Elapsed time.Duration
 
@@ -57,10 +78,35 @@ type dataset struct {
 	unit     string
 	builtin  bool
 	n        int
+	// notes say what was done to the record (time column, gaps).
+	notes []string
+	// fromSpec is true when the spec names the series.
+	fromSpec bool
+}
+
+// minSamples is the fewest samples a record may have: below it nothing
+// can be fitted at all (a model has at least a gain and a noise
+// variance, and the checks need a few lags). A model worth trusting
+// needs far more; the checks say when there are too few. Our choice.
+const minSamples = 10
+
+// SaveError reports that -save refused a model that fails its checks.
+type SaveError struct {
+	Path     string
+	Failures []string
+}
+
+// Error names the file, the failures and the flag that forces the save.
+func (e *SaveError) Error() string {
+	return fmt.Sprintf("-save %s: not saved: the model fails its checks (%s); a config is for models that may be used, and this one may not. To save it anyway, marked as untrusted in its record, add -save-untrusted",
+		e.Path, strings.Join(e.Failures, "; "))
 }
 
 // Run does the whole job described in the package documentation and
-// writes results to stdout and progress to stderr (nil for none).
+// writes results to stdout and progress to stderr (nil for none). A
+// model that fails its checks is reported as such, and with o.Save the
+// run ends in a *SaveError unless o.SaveUntrusted is set; the Outcome is
+// returned with it.
 func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, error) {
 	start := time.Now()
 	pr := &progress{w: stderr, start: start}
@@ -70,20 +116,49 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if o.WriteData != "" {
 		return &Outcome{}, writeBuiltin(o.WriteData, stdout)
 	}
-	ds, err := load(o)
+	// Settings that need no data are checked first: a mistyped flag
+	// should not wait for the fit, and a save to a missing folder should
+	// not fail after the whole report.
+	if o.Save != "" {
+		if err := checkSavePath(o.Save); err != nil {
+			return nil, err
+		}
+	}
+	if o.SaveUntrusted && o.Save == "" {
+		return nil, errors.New("-save-untrusted is given without -save: name the file to save to")
+	}
+	rem, err := parseRemedy(o.Gaps)
 	if err != nil {
 		return nil, err
 	}
-	// The forecast settings are checked before the fit, which takes
-	// seconds: a mistyped flag should not wait for it.
-	if o.Horizon < 0 || o.Horizon > ds.n {
-		return nil, fmt.Errorf("horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
+	if o.TimeUnit != "" && unitSeconds[o.TimeUnit] == 0 {
+		return nil, fmt.Errorf("-time-unit %s: want s, min, h or d", clip(o.TimeUnit))
+	}
+	if o.Data == "" && (o.Time != "" || o.TimeUnit != "" || o.Gaps != "") {
+		return nil, errors.New("-time, -time-unit and -gaps are about a CSV file: give one with -data")
 	}
 	if _, err := parsePlan(o.Plan); err != nil {
 		return nil, err
 	}
+	if o.Horizon < HorizonAuto {
+		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast), a number of samples, or -1 (automatic)", o.Horizon)
+	}
+	ds, err := load(o, rem)
+	if err != nil {
+		return nil, err
+	}
+	horizon := o.Horizon
+	if horizon == HorizonAuto {
+		horizon = min(180, ds.n/4)
+	}
+	if horizon > ds.n {
+		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
+	}
 	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
 	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
+	for _, n := range ds.notes {
+		fmt.Fprintf(stdout, "  %s\n", n)
+	}
 
 	skip := o.Skip
 	if skip < 0 {
@@ -104,36 +179,41 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if est.Model.Interval.Value == 0 && ds.interval > 0 {
 		est.Model.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 	}
-	out := &Outcome{Estimate: est}
+	out := &Outcome{Estimate: est, Record: ds.notes}
+	// The checks come first: what the report offers depends on them.
+	pr.say("checking the model")
+	var failures []string
+	if out.Diagnostics, err = tf.Check(est, ds.data, nil); err != nil {
+		// The report goes on, for a model that cannot be trusted.
+		out.Diagnostics = nil
+		failures = []string{fmt.Sprintf("the diagnostic checks could not be run: %v", err)}
+	} else {
+		out.Trusted = out.Diagnostics.Pass
+		failures = out.Diagnostics.Failures
+	}
+	out.Validity = validity(est, ds, out.Trusted, failures)
 	if err := report(ctx, est, ds, stdout, pr, out); err != nil {
 		return nil, err
 	}
 	if out.Simulation, err = simulate(est, ds, skip, stdout); err != nil {
 		return nil, err
 	}
-	pr.say("checking the model")
-	if out.Diagnostics, err = diagnostics(est, ds, stdout); err != nil {
-		return nil, err
-	}
-	if err := forecast(est, ds, o, stdout, out); err != nil {
+	writeDiagnostics(stdout, out.Diagnostics, failures)
+	if err := forecast(est, ds, o, horizon, stdout, out); err != nil {
 		return nil, err
 	}
 	if ds.builtin {
 		out.Recovery = recovery(out.Paths)
 		writeRecovery(stdout, out.Recovery)
-		fmt.Fprintf(stdout, "\nTo test a controller on the identified model:\n  go run ./examples/harness -noise %.3g -spec '%s'\n",
-			math.Sqrt(est.Sigma2), rounded(est.Model))
+		if out.Trusted {
+			fmt.Fprintf(stdout, "\nTo test a controller on the identified model:\n  go run ./examples/harness -noise %.3g -spec '%s'\n",
+				math.Sqrt(est.Sigma2), rounded(est.Model))
+		}
 	}
 	fmt.Fprint(stdout, "\n"+caution)
-	if o.Save != "" {
-		if err := saveConfig(o.Save, est, ds); err != nil {
-			return nil, fmt.Errorf("save: %w", err)
-		}
-		fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
-	}
 	if o.Pictures != "" {
 		pr.say("writing pictures to %s", o.Pictures)
-		files, err := pictures(o.Pictures, est, ds, out)
+		files, skipped, err := pictures(o.Pictures, est, ds, out)
 		if err != nil {
 			return nil, fmt.Errorf("pictures: %w", err)
 		}
@@ -142,10 +222,48 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 		for _, f := range files {
 			fmt.Fprintf(stdout, "  %s\n", f)
 		}
+		for _, s := range skipped {
+			fmt.Fprintf(stdout, "  (%s)\n", s)
+		}
 	}
 	out.Elapsed = time.Since(start)
+	if o.Save != "" {
+		if !out.Trusted && !o.SaveUntrusted {
+			fmt.Fprintf(stdout, "\nNot saved to %s: the model fails its checks (-save-untrusted saves it anyway, marked as untrusted).\n", o.Save)
+			return out, &SaveError{Path: o.Save, Failures: failures}
+		}
+		out.Validity.Forced = !out.Trusted
+		if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
+			return out, fmt.Errorf("-save: %w", err)
+		}
+		out.Saved = o.Save
+		if out.Trusted {
+			fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
+		} else {
+			fmt.Fprintf(stdout, "\nFitted model saved to %s MARKED AS UNTRUSTED (-save-untrusted): it fails its checks; do not use it for control work\n", o.Save)
+		}
+	}
 	pr.say("done in %.1f s", out.Elapsed.Seconds())
 	return out, nil
+}
+
+// checkSavePath reports a -save file whose folder does not exist or is
+// not a folder, before any work is done.
+func checkSavePath(path string) error {
+	dir := filepath.Dir(path)
+	fi, err := os.Stat(dir)
+	switch {
+	case err != nil && errors.Is(err, fs.ErrNotExist):
+		return fmt.Errorf("-save %s: the folder %s does not exist (create it first)", path, dir)
+	case err != nil:
+		return fmt.Errorf("-save %s: %w", path, err)
+	case !fi.IsDir():
+		return fmt.Errorf("-save %s: %s is not a folder", path, dir)
+	}
+	if fi, err := os.Stat(path); err == nil && fi.IsDir() {
+		return fmt.Errorf("-save %s: that is a folder; name a file in it", path)
+	}
+	return nil
 }
 
 func writeBuiltin(path string, stdout io.Writer) error {
@@ -165,21 +283,28 @@ func writeBuiltin(path string, stdout io.Writer) error {
 	return nil
 }
 
-// load reads the record named by o. With a spec, the output and inputs
-// are the spec's series.
-func load(o Options) (*dataset, error) {
+// load reads the record named by o, mending the gaps of its time column
+// as rem says. With a spec, the output and inputs are the spec's series.
+func load(o Options, rem remedy) (*dataset, error) {
 	ds := &dataset{output: o.Output, inputs: o.Inputs, interval: o.Interval, unit: o.Unit}
+	var specIv tf.Interval
 	if o.Spec != "" {
 		m, err := parse.Model(o.Spec)
 		if err != nil {
 			return nil, fmt.Errorf("the spec does not parse:\n%w", err)
 		}
+		ds.fromSpec = true
 		ds.output, ds.inputs = m.Output, nil
 		for _, in := range m.Inputs {
 			ds.inputs = append(ds.inputs, in.Series)
 		}
-		if ds.interval == 0 && m.Interval.Value > 0 {
-			ds.interval, ds.unit = m.Interval.Value, m.Interval.Unit
+		specIv = m.Interval
+		if ds.interval > 0 && specIv.Value > 0 && !sameInterval(ds.interval, ds.unit, specIv.Value, specIv.Unit, 1e-9) {
+			return nil, fmt.Errorf("-interval %s and the spec's every %s disagree: give one interval, or the same in both",
+				ivText(ds.interval, ds.unit), ivText(specIv.Value, specIv.Unit))
+		}
+		if ds.interval == 0 && specIv.Value > 0 {
+			ds.interval, ds.unit = specIv.Value, specIv.Unit
 		}
 	}
 	if len(ds.inputs) == 0 {
@@ -212,27 +337,162 @@ func load(o Options) (*dataset, error) {
 		}
 		if ds.interval == 0 {
 			ds.interval, ds.unit = greenhouse.Interval, "min"
+		} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
+			return nil, fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
 		}
 		// The truth is known for the demo's own output and inputs.
 		ds.builtin = ds.output == greenhouse.Output
 		for _, in := range ds.inputs {
 			ds.builtin = ds.builtin && (in == greenhouse.Valve || in == greenhouse.Outdoor)
 		}
-	} else {
-		t, err := ReadCSVFile(o.Data)
-		if err != nil {
-			return nil, err
-		}
-		ds.name = o.Data
-		if ds.data, err = t.Select(append([]string{ds.output}, ds.inputs...)...); err != nil {
-			return nil, err
-		}
+	} else if err := loadFile(o, rem, ds); err != nil {
+		return nil, err
 	}
 	ds.n = len(ds.data[ds.output])
 	if ds.unit == "" {
 		ds.unit = "samples"
 	}
 	return ds, nil
+}
+
+// loadFile reads the CSV file of o into ds: the named columns, checked
+// against the time column.
+func loadFile(o Options, rem remedy, ds *dataset) error {
+	t, err := ReadCSVFile(o.Data, o.Sep)
+	if err != nil {
+		return err
+	}
+	ds.name = o.Data
+	cols := append([]string{ds.output}, ds.inputs...)
+	used := map[string]bool{}
+	for i, c := range cols {
+		used[c] = true
+		if !t.Has(c) {
+			flag := "-output"
+			switch {
+			case ds.fromSpec:
+				flag = "the spec"
+			case i > 0:
+				flag = "-inputs"
+			}
+			msg := fmt.Sprintf("%s names column %s, but %s has no such column (columns: %s)", flag, clip(c), t.File, names(t.Names))
+			if len(t.Names) == 1 {
+				if hint := sepHint(t.Names[0], o.Sep); hint != "" {
+					msg += "; " + hint
+				}
+			}
+			return errors.New(msg)
+		}
+	}
+	if t.Rows() < minSamples {
+		return fmt.Errorf("%s has %d data %s: too short a record to fit a model to (at least %d samples; a model worth trusting needs hundreds)",
+			t.File, t.Rows(), plural(t.Rows(), "line", "lines"), minSamples)
+	}
+	if ds.data, err = t.Select(cols...); err != nil {
+		return err
+	}
+	tm, err := findTime(t, o.Time, o.TimeUnit, used)
+	if err != nil {
+		return err
+	}
+	switch {
+	case tm == nil && o.TimeUnit != "":
+		return fmt.Errorf("-time-unit %s is the unit of a time column, and %s has none (name it with -time)", o.TimeUnit, t.File)
+	case tm != nil && tm.calendar && o.TimeUnit != "":
+		return fmt.Errorf("-time-unit %s is for a time column of numbers, and %s holds timestamps or dates: leave -time-unit out", o.TimeUnit, clip(tm.column))
+	}
+	if tm == nil {
+		if o.Gaps != "" {
+			return fmt.Errorf("-gaps %s needs a time column to find the gaps, and %s has none (name it with -time)", o.Gaps, t.File)
+		}
+		ds.notes = append(ds.notes, "no time column: the rows are taken as equally spaced samples, none missing")
+		return checkSeries(t.File, cols, ds)
+	}
+	what := "numbers in " + unitName(tm.unit)
+	switch {
+	case tm.dates:
+		what = "dates"
+	case tm.calendar:
+		what = "timestamps"
+	}
+	// The interval: the one given (flag or spec) must agree with the
+	// steps of the time column.
+	if ds.interval > 0 {
+		given := ds.interval * unitSeconds[ds.unit]
+		if math.Abs(tm.median/given-1) > stepTolerance {
+			v, u := niceInterval(tm.median)
+			src := "-interval"
+			if o.Interval == 0 {
+				src = "the spec's every"
+			}
+			return fmt.Errorf("the time column %s of %s steps by %s (the median of its %d steps), but %s says %s: correct the one that is wrong (-time-unit sets the unit of a numeric time column)",
+				clip(tm.column), t.File, ivText(v, u), tm.steps, src, ivText(ds.interval, ds.unit))
+		}
+	} else {
+		ds.interval, ds.unit = niceInterval(tm.median)
+	}
+	ivs := ivText(ds.interval, ds.unit)
+	ds.notes = append(ds.notes, fmt.Sprintf("time column %s (%s): rows every %s", clip(tm.column), what, ivs))
+	brks := tm.breaks(t, ds.interval*unitSeconds[ds.unit])
+	if len(brks) == 0 {
+		if rem.kind != "" {
+			ds.notes = append(ds.notes, fmt.Sprintf("no gaps: -gaps %s had nothing to do", o.Gaps))
+		}
+	} else {
+		data, note, err := rem.apply(t, tm, ivs, brks, ds.data)
+		if err != nil {
+			return err
+		}
+		ds.data = data
+		ds.notes = append(ds.notes, note)
+	}
+	if n := len(ds.data[ds.output]); n < minSamples {
+		return fmt.Errorf("%s: the record left after -gaps %s has %d samples: too short to fit a model to (at least %d)", t.File, o.Gaps, n, minSamples)
+	}
+	return checkSeries(t.File, cols, ds)
+}
+
+// checkSeries refuses a constant column, naming it.
+func checkSeries(file string, cols []string, ds *dataset) error {
+	for i, c := range cols {
+		if v := ds.data[c]; slices.Min(v) == slices.Max(v) {
+			role := "the output"
+			fix := "there is nothing to explain; check that it is the right column"
+			if i > 0 {
+				role = "input"
+				fix = "it shows no effect on the output to identify; leave it out of -inputs"
+				if ds.fromSpec {
+					fix = "it shows no effect on the output to identify; leave it out of the spec"
+				}
+			}
+			return fmt.Errorf("column %s of %s (%s) is constant: every sample is %s; %s", clip(c), file, role, strconv.FormatFloat(v[0], 'g', -1, 64), fix)
+		}
+	}
+	return nil
+}
+
+// sameInterval reports whether a in unit ua and b in unit ub are the
+// same length of time, to a relative tolerance tol.
+func sameInterval(a float64, ua string, b float64, ub string, tol float64) bool {
+	x, y := a*unitSeconds[ua], b*unitSeconds[ub]
+	return math.Abs(x-y) <= tol*math.Max(x, y)
+}
+
+// validity is the record of the data est was fitted to.
+func validity(est *tf.Estimate, ds *dataset, pass bool, failures []string) *modelinfo.Validity {
+	v := &modelinfo.Validity{Samples: ds.n, Ranges: map[string][2]float64{}, Verdict: modelinfo.VerdictPassed}
+	if iv := est.Model.Interval; iv.Value > 0 {
+		v.Interval = ivText(iv.Value, iv.Unit)
+	}
+	for _, c := range append([]string{ds.output}, ds.inputs...) {
+		s := ds.data[c]
+		v.Ranges[c] = [2]float64{slices.Min(s), slices.Max(s)}
+	}
+	if !pass {
+		v.Verdict = modelinfo.VerdictFailed
+		v.Failures = slices.Clone(failures)
+	}
+	return v
 }
 
 func intervalText(ds *dataset) string {
@@ -347,7 +607,10 @@ func simulate(est *tf.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation
 	m.Noise = nil
 	y, err := m.Simulate(ds.data, &tf.SimSettings{Steady: true})
 	if err != nil {
-		return nil, fmt.Errorf("simulation: %w", err)
+		// An unstable or otherwise failed model: the report goes on
+		// without the simulation.
+		fmt.Fprintf(w, "\nSimulation from the inputs alone: not available (%v)\n", err)
+		return nil, nil
 	}
 	obs := ds.data[ds.output]
 	from := max(skip, est.Conditioning.First)
@@ -364,9 +627,26 @@ func simulate(est *tf.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation
 		sy += (obs[t] - my) * (obs[t] - my)
 	}
 	s := &Simulation{Y: y, RMS: math.Sqrt(sd / float64(k)), Explained: 1 - sd/sy, From: from}
-	fmt.Fprintf(w, "\nSimulation from the inputs alone (noise-free, from sample %d): RMS error %.3g, %.1f %% of the output variance explained\n",
-		from, s.RMS, 100*s.Explained)
+	if math.IsNaN(s.RMS) || math.IsInf(s.RMS, 0) {
+		fmt.Fprintf(w, "\nSimulation from the inputs alone (noise-free, from sample %d): it does not stay finite (the model is not stable)\n", from)
+		return nil, nil
+	}
+	fmt.Fprintf(w, "\nSimulation from the inputs alone (noise-free, from sample %d): RMS error %.3g, %s\n", from, s.RMS, explained(s.Explained))
 	return s, nil
+}
+
+// explained says what share of the output's variance a simulation
+// accounts for. A share at or below zero (the simulation strays further
+// from the output than the output's own mean does) is said in words, not
+// printed as a negative percentage; so is one that cannot be computed.
+func explained(e float64) string {
+	switch {
+	case math.IsNaN(e) || math.IsInf(e, 0):
+		return "share of the output variance explained not available"
+	case e <= 0:
+		return "none of the output variance explained (the simulation strays further from the output than the output's own mean)"
+	}
+	return fmt.Sprintf("%.1f %% of the output variance explained", 100*e)
 }
 
 // caution follows the report: what the identified model is good for.

@@ -25,6 +25,9 @@ func withParam(m tf.Model, name string, v float64) tf.Model {
 // fails near the estimate or the covariance is not available.
 func deltaSE(est *tf.Estimate, f func(tf.Model) (float64, error)) float64 {
 	k := len(est.Params)
+	if len(est.Cov) != k {
+		return math.NaN()
+	}
 	g := make([]float64, k)
 	for i, p := range est.Params {
 		h := math.Max(1e-6*math.Abs(p.Value), 1e-9)
@@ -86,13 +89,32 @@ func pathTau(i int) func(tf.Model) (float64, error) {
 // the input paths with their standard errors.
 func writeUncertainty(w io.Writer, est *tf.Estimate, ds *dataset, paths []modelinfo.Path) {
 	fmt.Fprintf(w, "\nGains and time constants with standard errors (delta method on the estimates' covariance;\ndead times are chosen by the identification, not estimated):\n")
+	missing := false
 	for i, p := range paths {
 		g := deltaSE(est, pathGain(i))
-		fmt.Fprintf(w, "  %-8s gain %.4g +- %.2g", p.Input, p.Gain, g)
+		missing = missing || math.IsNaN(g)
+		if math.IsNaN(p.Gain) {
+			fmt.Fprintf(w, "  %-8s gain none (integrating)", p.Input)
+		} else {
+			fmt.Fprintf(w, "  %-8s gain %.4g +- %s", p.Input, p.Gain, seText(g, 1))
+		}
 		if tau, err := pathTau(i)(est.Model); err == nil {
 			se := deltaSE(est, pathTau(i))
-			fmt.Fprintf(w, ", time constant %.3g +- %.2g %s", tau*ds.step(), se*ds.step(), ds.timeUnit())
+			missing = missing || math.IsNaN(se)
+			fmt.Fprintf(w, ", time constant %.3g +- %s %s", tau*ds.step(), seText(se, ds.step()), ds.timeUnit())
 		}
 		fmt.Fprintln(w)
 	}
+	if missing {
+		fmt.Fprintf(w, "  (n/a: no standard error, since the estimates' covariance is not available; the figures are not to be relied on)\n")
+	}
+}
+
+// seText formats a standard error se scaled by k, or "n/a" when there
+// is none.
+func seText(se, k float64) string {
+	if math.IsNaN(se) || math.IsInf(se, 0) {
+		return "n/a"
+	}
+	return fmt.Sprintf("%.2g", se*k)
 }
