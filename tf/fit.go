@@ -66,8 +66,14 @@ type FitSettings struct {
 // Jacobian, can overflow float64. Rescale such series (change units).
 const FitMaxMagnitude = 1e150
 
-// check reports a negative or NaN setting as an *ArgError.
-func (s FitSettings) check() error {
+// Validate checks the settings by the rule of every settings struct of
+// the package (zero means the default, a negative value is an error)
+// and returns an *ArgError naming the field ("FitSettings.Tol"), or nil.
+// Tol must also be below 1 (it is a relative reduction of the sum of
+// squares; 1 or more would stop at the start point). First is checked
+// against the data's length by Fit. The boolean fields have no bad
+// value.
+func (s FitSettings) Validate() error {
 	for _, c := range []struct {
 		name string
 		v    float64
@@ -75,6 +81,9 @@ func (s FitSettings) check() error {
 		if !(c.v >= 0) {
 			return &ArgError{Arg: "FitSettings." + c.name, Value: c.v, Rule: "must be zero (the default) or positive"}
 		}
+	}
+	if !(s.Tol < 1) {
+		return &ArgError{Arg: "FitSettings.Tol", Value: s.Tol, Rule: "must be below 1 (a relative reduction of the sum of squares; 0 means the default)"}
 	}
 	return nil
 }
@@ -240,11 +249,24 @@ type Estimate struct {
 // (N must exceed the number of free parameters), a model with nothing
 // free, free differencing coefficients, a zero constant term in a
 // denominator; *SampleError for a NaN or infinite sample (series and
-// index); *ArgError for a negative or NaN setting (FitSettings.MaxIter,
-// Starts, First, Tol) or a sample above FitMaxMagnitude (series[index]).
-// When ctx is done the best point so far is returned with
-// Converged false and Reason saying so, and a nil error. A fit that does
-// not converge also returns its best point, with a warning.
+// index); *ArgError from FitSettings.Validate (a negative or NaN
+// setting, Tol of 1 or more), for FitSettings.First at or beyond the
+// data's length, or for a sample above FitMaxMagnitude (series[index]);
+// *ModelError for a model that Model.Validate refuses (a factor power
+// below 1, a negative dead time, ...); *FitError ConstantSeries for a
+// constant output, or an input with free coefficients that never moves
+// (constant as given, or after its differencing), naming the series;
+// *FitError ZeroResiduals when the residual sum of squares at the
+// estimate is 0 (an exact fit, or samples so small that their squares
+// underflow), where sigma^2, LogLik, AIC and BIC would not exist.
+// When ctx is done before the fit converges, Fit returns the best point
+// so far (a non-nil Estimate with Converged false and Reason saying so)
+// together with a *FitError Interrupted that wraps the context's error,
+// so that errors.Is(err, context.Canceled) (or
+// context.DeadlineExceeded) holds; a caller that checks only err does
+// not use an unfinished fit by mistake. A fit that stops for another
+// reason without converging returns its best point with a nil error and
+// a NotConverged warning.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis: Forecasting and Control, 5th ed.,
@@ -255,7 +277,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	if s != nil {
 		set = *s
 	}
-	if err := set.check(); err != nil {
+	if err := set.Validate(); err != nil {
 		return nil, err
 	}
 	if ctx == nil {
@@ -267,32 +289,59 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	}
 	e, err := w.run(ctx, set)
 	w.release()
-	if err != nil || !set.Settle || !e.Converged {
-		return e, err
+	if err != nil {
+		return nil, err
 	}
-	// Settle: move First past the start-up transient of the estimated
-	// input poles and MA zeros, and refit from the estimates.
+	if set.Settle && e.Converged {
+		e = fitSettle(ctx, e, data, set, w.n, w.ar.Degree())
+	}
+	return fitFinish(ctx, e)
+}
+
+// fitSettle is FitSettings.Settle: it moves First past the start-up
+// transient of the estimated input poles and MA zeros and refits from
+// the estimates; it returns e when there is nothing to move or the
+// refit fails.
+func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set FitSettings, n, p int) *Estimate {
 	k := fitSettleSamples(e.Model)
-	first := min(e.Conditioning.NoiseStart+w.ar.Degree()+k, w.n/10)
+	first := min(e.Conditioning.NoiseStart+p+k, n/10)
 	if first <= e.Conditioning.First {
-		return e, nil
+		return e
 	}
 	s2 := set
 	s2.First = first
 	s2.Settle = false
 	w2, err := fitPrepare(e.Model, data, s2)
 	if err != nil {
-		return e, nil
+		return e
 	}
 	e2, err := w2.run(ctx, s2)
 	w2.release()
 	if err != nil {
-		return e, nil
+		return e
 	}
 	for i := range e2.Params {
 		e2.Params[i].Start = e.Params[i].Start
 	}
-	return e2, nil
+	return e2
+}
+
+// fitFinish refuses an estimate whose sum of squares is zero (sigma^2,
+// the log-likelihood and the criteria would not exist), and returns the
+// best point of a fit whose context was done before it converged
+// together with an Interrupted *FitError wrapping the context's error.
+func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
+	out := e.Model.Output
+	if !(e.SSQ > 0) || math.IsInf(e.LogLik, 0) || math.IsNaN(e.LogLik) {
+		return nil, &FitError{Problem: ZeroResiduals, Series: out, Detail: "the model reproduces the output exactly (a noise-free or constant output), " +
+			"or the samples are so small that the squares of the residuals underflow float64 (below about 1e-162); " +
+			"sigma^2, the log-likelihood and AIC/BIC would not exist: rescale the series (change its units) or check the data"}
+	}
+	if err := ctx.Err(); err != nil && !e.Converged {
+		return e, &FitError{Problem: Interrupted, Series: out, Err: err,
+			Detail: "the estimate returned is the best point after " + strconv.Itoa(e.Iter) + " iterations, not converged; do not use it as a fitted model"}
+	}
+	return e, nil
 }
 
 // fitSettleSamples returns the number of samples after which the slowest
@@ -375,6 +424,9 @@ func (w *fitWork) idx(name string) int {
 func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
 	if m.Output == "" {
 		return nil, &FitError{Problem: NoOutput}
+	}
+	if err := m.Validate(); err != nil {
+		return nil, err
 	}
 	w := &fitWork{m: m.Clone(), index: map[string]int{}}
 	held := map[string]bool{}
@@ -477,6 +529,14 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	if err := fitCheckConst(w.m); err != nil {
 		return nil, err
 	}
+	if set.First > 0 && set.First >= n {
+		return nil, &ArgError{Arg: "FitSettings.First", Value: float64(set.First),
+			Rule: "must be below the number of samples, " + strconv.Itoa(n) + " (it is the index of the first residual summed)"}
+	}
+	if n > 0 && fitConstant(y) {
+		return nil, &FitError{Problem: ConstantSeries, Series: m.Output, Detail: "every sample is " + strconv.FormatFloat(y[0], 'g', 6, 64) +
+			": there is nothing to explain; check that the right column was read"}
+	}
 	// Conditioning.
 	dc := w.m.Diff.Coeffs()
 	d := len(dc) - 1
@@ -507,8 +567,17 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample}
 	nres := n - t0
 	if nres <= len(w.names) {
-		return nil, &FitError{Problem: TooFewObservations, Series: m.Output, Len: max(nres, 0), Want: len(w.names) + 1,
-			Detail: "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"}
+		detail := "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"
+		for i := range w.m.Inputs {
+			in := &w.m.Inputs[i]
+			if ts > d && w.ins[i].d+in.Delay+in.Num.Degree() == ts && t0 == ts+p {
+				detail += "; input " + strconv.Quote(in.Series) + " with dead time " + strconv.Itoa(in.Delay) + ", numerator degree " +
+					strconv.Itoa(in.Num.Degree()) + " and differencing degree " + strconv.Itoa(w.ins[i].d) + " leaves its first " +
+					strconv.Itoa(ts) + " samples without a residual: check the dead time (it counts samples)"
+				break
+			}
+		}
+		return nil, &FitError{Problem: TooFewObservations, Series: m.Output, Len: max(nres, 0), Want: len(w.names) + 1, Detail: detail}
 	}
 	w.n = n
 	// All work series come from one slab, recycled between fits (see
@@ -541,8 +610,19 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			fi.z0 = fi.z[fi.d]
 		}
 		clear(fi.zc[:min(fi.d, n)])
+		moves := false
 		for t := fi.d; t < n; t++ {
 			fi.zc[t] = fi.z[t] - fi.z0
+			moves = moves || fi.zc[t] != 0
+		}
+		if !moves && (fi.numFree || fi.denFree) {
+			w.release()
+			why := "every sample is " + strconv.FormatFloat(fi.x[0], 'g', 6, 64) + ", and Fit takes an input as held at its first value before the record"
+			if fi.d > 0 {
+				why = "its differenced values are all zero"
+			}
+			return nil, &FitError{Problem: ConstantSeries, Series: fi.in.Series, Detail: why +
+				", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values"}
 		}
 		fi.s = take(n)
 		fi.u = take(n)
@@ -558,6 +638,16 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	clear(w.a[:t0])
 	w.maFixedOne = w.ma.IsOne()
 	return w, nil
+}
+
+// fitConstant reports whether every sample of x equals the first.
+func fitConstant(x []float64) bool {
+	for _, v := range x {
+		if v != x[0] {
+			return false
+		}
+	}
+	return true
 }
 
 // fitSlab is the backing store of a fit's work series. Fit returns its
@@ -1415,7 +1505,8 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 			e.Corr[i][j] = e.Cov[i][j] / (e.Params[i].SE * e.Params[j].SE)
 		}
 	}
-	e.Warnings = fitWarnings(e, res.JTJInv == nil)
+	w.noiseSeries() // n_t at the estimate, for the start-up transient test
+	e.Warnings = fitWarnings(e, res.JTJInv == nil, w.nn[t0:w.n])
 	return e
 }
 
