@@ -409,6 +409,7 @@ type fitWork struct {
 	// moving average of n_t and no column needs a_t.
 	maFixedOne bool
 	slab       *fitSlab
+	panicErr   error // a panic recovered in a goroutine of normalEval
 }
 
 var fitOne = []float64{1}
@@ -1141,13 +1142,25 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 	acc1 := w.scratchAcc(len(acc))
 	if fitIsOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
 		var wg sync.WaitGroup
+		var perr error
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			// Last line of defence: a panic here would kill the caller's
+			// process; it becomes a typed error that Fit returns.
+			defer func() {
+				if v := recover(); v != nil {
+					perr = &FitError{Problem: InternalError, Series: w.m.Output, Detail: fmt.Sprint(v)}
+				}
+			}()
 			w.normalRows(acc1, r, h, m, &w.blk[1])
 		}()
 		w.normalRows(acc, r, 0, h, &w.blk[0])
 		wg.Wait()
+		if perr != nil {
+			w.panicErr = perr
+			return perr
+		}
 	} else {
 		st := &w.blk[0]
 		w.normalRows(acc, r, 0, h, st)
@@ -1329,8 +1342,14 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
 			best, start, tried, err := ws.search(ctx, set, maxIter)
 			ws.release()
+			if ws.panicErr != nil {
+				return nil, ws.panicErr
+			}
 			if err == nil {
 				res, err := lm.Minimize(ctx, w.problem(), best.X, w.lmSettings(set, maxIter))
+				if w.panicErr != nil {
+					return nil, w.panicErr
+				}
 				if err == nil {
 					return w.estimate(&res, start, tried), nil
 				}
@@ -1338,6 +1357,9 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		}
 	}
 	best, start, tried, err := w.search(ctx, set, maxIter)
+	if w.panicErr != nil {
+		return nil, w.panicErr
+	}
 	if err != nil {
 		return nil, err
 	}

@@ -47,6 +47,10 @@ const (
 	// error wraps the context's error and the best point so far is
 	// returned with it.
 	Interrupted
+	// InternalError: a panic inside a goroutine of the fit was
+	// recovered (a defect of the library, to be reported with the data
+	// and model; Detail holds the panic's value).
+	InternalError
 )
 
 // String describes the problem in a few words.
@@ -78,6 +82,8 @@ func (p FitProblem) String() string {
 		return "residual sum of squares is zero"
 	case Interrupted:
 		return "fit interrupted before converging"
+	case InternalError:
+		return "internal error in the fit (a defect of the library; please report it with the model and data)"
 	}
 	return fmt.Sprintf("FitProblem(%d)", int(p))
 }
