@@ -178,8 +178,13 @@ type Estimate struct {
 // rest plus omega_i(1)/delta_i(1) x_i,0. A differenced input z_i (which
 // varies about zero) is taken as zero before index d_i, the degree of
 // D_i, with u_i zero before the start (zero pre-sample values after
-// differencing). FitSettings.ZeroPreSample takes every input as zero
-// before its record. n_t is used from NoiseStart = max(d,
+// differencing). Model.Simulate makes records of exactly this kind by
+// default, so that simulating and then fitting with the defaults agree.
+// FitSettings.ZeroPreSample takes every input as zero before its record
+// (the records of Model.Simulate with SimSettings.FromRest, for inputs
+// without differencing). A record that starts away from that assumption
+// shows a start-up transient, which the StartupTransient warning reports
+// and FitSettings.Settle leaves out. n_t is used from NoiseStart = max(d,
 // max_i(d_i + b_i + s_i)), where d is the degree of D and s_i that of
 // omega_i, so that every numerator sees only real data. The noise
 // recursion theta(B) a_t = phi(B) n_t starts at First = NoiseStart + p
@@ -243,6 +248,17 @@ type Estimate struct {
 // summation order depends only on N, so results are the same bit for bit
 // with one goroutine or two.
 //
+// # Warnings
+//
+// Estimate.Warnings lists what makes the estimate doubtful, each kind
+// with its rule on WarningKind: not converged, singular information or a
+// standard error that is NaN, infinite or zero, roots on or outside the
+// unit circle, cancelling roots, highly correlated estimates, a
+// start-up transient (false-alarm rate 1e-4 on white Gaussian
+// residuals), few residuals (N < max(50, 10 k)) and a pole too slow for
+// the record (fewer than 5 time constants in the N residuals).
+// WarningKind.Serious says which make the estimate unfit for use.
+//
 // # Errors
 //
 // *FitError for missing, extra or unequal series, too few observations
@@ -256,7 +272,10 @@ type Estimate struct {
 // below 1, a negative dead time, ...); *FitError ConstantSeries for a
 // constant output, or an input with free coefficients that never moves
 // (constant as given, or after its differencing), naming the series;
-// *FitError ZeroResiduals when the residual sum of squares at the
+// *FitError NoSettledStart for an undifferenced input whose fixed
+// denominator has a pole at z = 1 and whose first sample is not zero
+// (no steady state to hold it at); *FitError ZeroResiduals when the
+// residual sum of squares at the
 // estimate is 0 (an exact fit, or samples so small that their squares
 // underflow), where sigma^2, LogLik, AIC and BIC would not exist.
 // When ctx is done before the fit converges, Fit returns the best point
@@ -615,6 +634,12 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		for t := fi.d; t < n; t++ {
 			fi.zc[t] = fi.z[t] - fi.z0
 			moves = moves || fi.zc[t] != 0
+		}
+		if fi.z0 != 0 && !fi.denFree && fitSum(fi.in.Den.Coeffs()) == 0 {
+			w.release()
+			return nil, &FitError{Problem: NoSettledStart, Series: fi.in.Series, Detail: "its denominator has a pole at z = 1 (an integrator), so it has no steady state, " +
+				"and Fit cannot take the input as held at its first value " + strconv.FormatFloat(fi.z0, 'g', 6, 64) +
+				" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output"}
 		}
 		if !moves && (fi.numFree || fi.denFree) {
 			w.release()

@@ -47,6 +47,11 @@ const (
 	// error wraps the context's error and the best point so far is
 	// returned with it.
 	Interrupted
+	// NoSettledStart: an input without differencing whose denominator,
+	// fixed as written, has a pole at z = 1 starts at a non-zero value,
+	// so it cannot be taken as held at its first value before the record
+	// (the default conditioning of Fit).
+	NoSettledStart
 	// InternalError: a panic inside a goroutine of the fit was
 	// recovered (a defect of the library, to be reported with the data
 	// and model; Detail holds the panic's value).
@@ -82,6 +87,8 @@ func (p FitProblem) String() string {
 		return "residual sum of squares is zero"
 	case Interrupted:
 		return "fit interrupted before converging"
+	case NoSettledStart:
+		return "input has no settled start"
 	case InternalError:
 		return "internal error in the fit (a defect of the library; please report it with the model and data)"
 	}

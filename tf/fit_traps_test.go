@@ -87,6 +87,8 @@ func TestFitTraps(t *testing.T) {
 			[]string{"power of B -2 is outside 0..64"}},
 		{"noise factor power 0", noiseExp, map[string][]float64{"y": y, "x": x}, isModel("noise AR, factor 1"),
 			[]string{"power 0"}},
+		{"integrating input held at 5", parse.MustModel("y = w0 B / (1 - B) x + a"), map[string][]float64{"y": y, "x": x},
+			isFit(tf.NoSettledStart, "x"), []string{"pole at z = 1", "held at its first value", "FitSettings.ZeroPreSample"}},
 		{"dead time longer than the record", parse.MustModel("y = w0 B^250 x + a"), map[string][]float64{"y": y, "x": x},
 			isFit(tf.TooFewObservations, "y"), []string{`input "x" with dead time 250`, "check the dead time"}},
 	} {
