@@ -35,21 +35,30 @@ const (
 	// SingularInformation: J'J is singular at the estimate, so standard
 	// errors do not exist (an unidentifiable parameter).
 	SingularInformation
-	// StartupTransient: the residuals at the start of the sum of squares
-	// are far larger than the rest, a start-up transient that the
+	// StartupTransient: the start of the fit shows a transient that the
 	// pre-sample convention does not explain (an input that was not
-	// settled at its first value); FitSettings.Settle or a larger
-	// FitSettings.First leaves it out. The test: for windows of the
-	// first m = 5, 10, 20, 40, ... residuals (m at most N/4), the mean
-	// square of the window over the robust scale of the residuals after
-	// the largest window, median(a_t^2)/0.4549 (0.4549 the median of
-	// chi-squared(1)), is referred to the F distribution with m and
-	// 0.368 M degrees of freedom (M residuals in the scale: the variance
-	// of a sample median, 1/(4 M f(median)^2), makes the scale as
-	// uncertain as a variance estimate on 0.368 M degrees of freedom).
-	// The warning fires when the smallest p-value times the number of
-	// windows is below 1e-4, the false-alarm rate for white Gaussian
-	// residuals; it is not tested with fewer than 40 residuals.
+	// settled at its first value, as in a record that starts from rest);
+	// FitSettings.Settle or a larger FitSettings.First leaves it out.
+	// Two tests, each at a false-alarm rate of 5e-5 for white Gaussian
+	// residuals (1e-4 together), made with at least 40 residuals:
+	//
+	// The residuals: for windows of the first m = 5, 10, 20, 40, ...
+	// residuals (m at most N/4), the mean square of the window over the
+	// robust scale median(a_t^2)/0.4549 of the M residuals after the
+	// largest window (at most 20000 of them; 0.4549 is the median of
+	// chi-squared(1)) is referred to the F distribution with m and
+	// 0.368 M degrees of freedom (the variance of a sample median,
+	// 1/(4 M f(median)^2), makes the scale as uncertain as a variance
+	// estimate on 0.368 M degrees of freedom); the smallest p-value
+	// times the number of windows (Bonferroni) is the test's.
+	//
+	// The noise series n_t (output minus the fitted input terms), which
+	// shows a transient that a fitted AR root near an input pole removed
+	// from the residuals: the largest |n_t - median| over the first
+	// min(10, N/4) samples in standard deviations of the fitted noise
+	// model (sigma^2 times the sum of its squared psi weights), with the
+	// union bound m * 2 Phi(-z) as its p-value (valid for correlated
+	// samples); not made for a noise model with a root at |z| >= 0.999.
 	StartupTransient
 	// FewResiduals: the number of residuals N is small against the number
 	// k of free coefficients, N < max(50, 10 k) (about 50 observations
@@ -275,6 +284,7 @@ func fitTransient(a []float64) (m int, p float64, ok bool) {
 		wins = append(wins, w)
 	}
 	rest := a[wins[len(wins)-1]:]
+	rest = rest[:min(len(rest), fitScaleSamples)]
 	sq := make([]float64, len(rest))
 	for i, v := range rest {
 		sq[i] = v * v
@@ -299,6 +309,11 @@ func fitTransient(a []float64) (m int, p float64, ok bool) {
 	p = min(best*float64(len(wins)), 1)
 	return bestM, p, p < fitTransientAlpha/2
 }
+
+// fitScaleSamples caps the samples after the tested windows from which
+// the transient tests take their scale and centre (the ones nearest the
+// windows), so that the tests cost O(1) sorting for any record length.
+const fitScaleSamples = 20000
 
 // fitNoiseWindow is the number of noise samples, from the first residual
 // on, that fitNoiseTransient examines.
@@ -339,7 +354,7 @@ func fitNoiseTransient(n []float64, e *Estimate) (last int, z, p float64, ok boo
 	}
 	sd := math.Sqrt(e.Sigma2 * v)
 	m := min(fitNoiseWindow, len(n)/4)
-	med := fitMedian(append([]float64(nil), n[m:]...))
+	med := fitMedian(append([]float64(nil), n[m:min(len(n), m+fitScaleSamples)]...))
 	for _, x := range n[:m] {
 		z = math.Max(z, math.Abs(x-med)/sd)
 	}
