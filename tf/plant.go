@@ -30,8 +30,10 @@ import (
 type Plant struct {
 	st  filter.Stream // by value: one pointer less per step
 	r   Rational
-	t   int   // steps since NewPlant, Reset, SetSteady or SetHistory
-	err error // the first non-finite output (Err)
+	t   int // steps since NewPlant, Reset, SetSteady or SetHistory
+	bad int // 1 + the step of the first non-finite output, 0 for none (Err)
+	// badU and badY are the input and output of that step.
+	badU, badY float64
 }
 
 // NewPlant returns a Plant for r at rest.
@@ -52,10 +54,10 @@ func (p *Plant) Rational() Rational { return p.r }
 // comparison a step).
 func (p *Plant) Step(u float64) float64 {
 	y := p.st.Step(u)
-	if y-y != 0 && p.err == nil { // NaN or infinite (Inf - Inf is NaN)
-		p.err = p.overflow(u, y)
-	}
 	p.t++
+	if y-y != 0 && p.bad == 0 { // NaN or infinite (Inf - Inf is NaN)
+		p.bad, p.badU, p.badY = p.t, u, y
+	}
 	return y
 }
 
@@ -65,10 +67,11 @@ func (p *Plant) Step(u float64) float64 {
 // Problem naming the 0-based step counted from the last of those, the
 // value and the cause: a non-finite input, an unstable term, or inputs
 // too large for float64).
-func (p *Plant) Err() error { return p.err }
-
-// overflow describes the non-finite output y of step p.t for Err.
-func (p *Plant) overflow(u, y float64) error {
+func (p *Plant) Err() error {
+	if p.bad == 0 {
+		return nil
+	}
+	u, y := p.badU, p.badY
 	why := "float64 overflowed: the inputs are too large"
 	switch {
 	case u-u != 0:
@@ -76,14 +79,14 @@ func (p *Plant) overflow(u, y float64) error {
 	case !p.r.Stable():
 		why = "float64 overflowed: the term is unstable (a pole on or outside the unit circle) and grew without bound"
 	}
-	return &SimError{Part: "plant", Problem: "step " + strconv.Itoa(p.t) + " gave " + strconv.FormatFloat(y, 'g', -1, 64) + ": " + why}
+	return &SimError{Part: "plant", Problem: "step " + strconv.Itoa(p.bad-1) + " gave " + strconv.FormatFloat(y, 'g', -1, 64) + ": " + why}
 }
 
 // Reset returns the plant to rest: all past inputs and outputs zero. It
 // clears Err and the step count.
 func (p *Plant) Reset() {
 	p.st.Reset()
-	p.t, p.err = 0, nil
+	p.t, p.bad = 0, 0
 }
 
 // SetSteady puts the plant at the steady state of the constant input u:
@@ -102,7 +105,7 @@ func (p *Plant) SetSteady(u float64) error {
 	}
 	xh, yh := ratSteadyHistory(p.r, u, g*u)
 	p.st.SetHistory(xh, yh)
-	p.t, p.err = 0, nil
+	p.t, p.bad = 0, 0
 	return nil
 }
 
@@ -120,7 +123,7 @@ func (p *Plant) SetHistory(pastInput, pastOutput []float64) error {
 		return err
 	}
 	p.st.SetHistory(pastInput, pastOutput)
-	p.t, p.err = 0, nil
+	p.t, p.bad = 0, 0
 	return nil
 }
 
@@ -134,7 +137,7 @@ func (p *Plant) Feedthrough() bool {
 // Clone returns an independent copy of p in its current state (one
 // allocation of the state buffers).
 func (p *Plant) Clone() *Plant {
-	return &Plant{r: p.r, st: *p.st.Clone(), t: p.t, err: p.err}
+	return &Plant{r: p.r, st: *p.st.Clone(), t: p.t, bad: p.bad, badU: p.badU, badY: p.badY}
 }
 
 // ratSteadyHistory returns the b+s past inputs equal to u and r past
