@@ -272,6 +272,7 @@ type Estimate struct {
 // below 1, a negative dead time, ...); *FitError ConstantSeries for a
 // constant output, or an input with free coefficients that never moves
 // (constant as given, or after its differencing), naming the series;
+// *FitError NoStartPoint when no start point gives finite residuals;
 // *FitError NoSettledStart for an undifferenced input whose fixed
 // denominator has a pole at z = 1 and whose first sample is not zero
 // (no steady state to hold it at); *FitError ZeroResiduals when the
@@ -1467,9 +1468,9 @@ func (w *fitWork) search(ctx context.Context, set FitSettings, maxIter int) (*lm
 		}
 	}
 	if best == nil {
-		nres := w.n - w.cond.First
-		return nil, nil, 0, &FitError{Problem: TooFewObservations, Series: w.m.Output, Len: nres, Want: len(w.names) + 1,
-			Detail: "no admissible start point: " + firstErr.Error()}
+		return nil, nil, 0, &FitError{Problem: NoStartPoint, Series: w.m.Output,
+			Detail: "the residuals are not finite at any start point (" + firstErr.Error() + "); the coefficients held at fixed values may make a filter blow up on this data " +
+				"(an unstable fixed denominator, or a fixed noise MA with a zero on or outside the unit circle), or the samples are too large: check the fixed values and the units, or give start values in the spec"}
 	}
 	return best, bestStart, len(sc), nil
 }

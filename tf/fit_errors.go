@@ -52,6 +52,10 @@ const (
 	// so it cannot be taken as held at its first value before the record
 	// (the default conditioning of Fit).
 	NoSettledStart
+	// NoStartPoint: the residuals are not finite at any start point
+	// (fixed coefficients that make a filter blow up, or samples too
+	// large).
+	NoStartPoint
 	// InternalError: a panic inside a goroutine of the fit was
 	// recovered (a defect of the library, to be reported with the data
 	// and model; Detail holds the panic's value).
@@ -89,6 +93,8 @@ func (p FitProblem) String() string {
 		return "fit interrupted before converging"
 	case NoSettledStart:
 		return "input has no settled start"
+	case NoStartPoint:
+		return "no start point gives finite residuals"
 	case InternalError:
 		return "internal error in the fit (a defect of the library; please report it with the model and data)"
 	}

@@ -89,6 +89,9 @@ func TestFitTraps(t *testing.T) {
 			[]string{"power 0"}},
 		{"integrating input held at 5", parse.MustModel("y = w0 B / (1 - B) x + a"), map[string][]float64{"y": y, "x": x},
 			isFit(tf.NoSettledStart, "x"), []string{"pole at z = 1", "held at its first value", "FitSettings.ZeroPreSample"}},
+		// 1/(1 - 1.9 B) grows as 1.9^t, past float64 after about 1100 samples.
+		{"fixed non-invertible MA", parse.MustModel("y = w0 x + (1 - 1.9 B) a"), map[string][]float64{"y": trapData(8, 1500, 0), "x": trapData(9, 1500, 0)},
+			isFit(tf.NoStartPoint, "y"), []string{"not finite at any start point", "fixed noise MA", "check the fixed values"}},
 		{"dead time longer than the record", parse.MustModel("y = w0 B^250 x + a"), map[string][]float64{"y": y, "x": x},
 			isFit(tf.TooFewObservations, "y"), []string{`input "x" with dead time 250`, "check the dead time"}},
 	} {
