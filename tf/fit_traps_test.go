@@ -59,6 +59,8 @@ func TestFitTraps(t *testing.T) {
 	delayBig.Inputs[0].Delay = tf.MaxDelay + 1
 	powNeg := m.Clone()
 	powNeg.Inputs[0].Den.Factors[0].Terms[1].Power = -2
+	noName := m.Clone()
+	noName.Inputs[0].Series = ""
 	noiseExp := parse.MustModel("y = w0 x + AR(1)")
 	noiseExp.Noise.AR.Factors[0].Exp = 0
 	for _, tc := range []struct {
@@ -85,6 +87,7 @@ func TestFitTraps(t *testing.T) {
 			[]string{"10001 samples is outside 0..10000"}},
 		{"negative power of B", powNeg, map[string][]float64{"y": y, "x": x}, isModel(`input "x" denominator, factor 1`),
 			[]string{"power of B -2 is outside 0..64"}},
+		{"input without a name", noName, map[string][]float64{"y": y, "x": x}, isModel("input 1"), []string{"has no series name"}},
 		{"noise factor power 0", noiseExp, map[string][]float64{"y": y, "x": x}, isModel("noise AR, factor 1"),
 			[]string{"power 0"}},
 		{"integrating input held at 5", parse.MustModel("y = w0 B / (1 - B) x + a"), map[string][]float64{"y": y, "x": x},

@@ -114,7 +114,8 @@ func (m Model) Equal(o Model) bool {
 
 // Validate checks the structure of m as a spec would have it, so that a
 // model built in code cannot reach the numerical code with a shape it
-// does not handle: every factor's power Exp in 1..MaxDegree, every power
+// does not handle: every input named (Series not empty), every factor's
+// power Exp in 1..MaxDegree, every power
 // of B in 0..MaxDegree, every polynomial (differencing, numerator,
 // denominator, noise MA and AR) of degree at most MaxDegree, every dead
 // time in 0..MaxDelay and every coefficient value finite. It returns a
@@ -134,7 +135,7 @@ func (m Model) Validate() error {
 	for i, in := range m.Inputs {
 		part := "input " + strconv.Quote(in.Series)
 		if in.Series == "" {
-			part = "input " + strconv.Itoa(i+1) + " (no series name)"
+			return &ModelError{Part: "input " + strconv.Itoa(i+1), Problem: "has no series name (Input.Series names the data series the term acts on)"}
 		}
 		if in.Delay < 0 || in.Delay > MaxDelay {
 			return &ModelError{Part: part + " dead time", Problem: strconv.Itoa(in.Delay) + " samples is outside 0.." + strconv.Itoa(MaxDelay) + " (a dead time counts whole samples of delay, B^b with b >= 0)"}
