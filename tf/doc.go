@@ -63,8 +63,14 @@
 // *DelayError, *SampleError (series name, 0-based index, value; wraps
 // ErrNotFinite), *GainError (pole at z = 1), *UnstableError (a quantity
 // defined only for stable terms), *ArgError (an option outside its
-// range) and *SimError (a whole model that cannot be simulated). On error
-// the other results are zero values. Panics are kept for programmer
+// range, named by its field for a settings struct, where zero means the
+// default and a negative value is an error; FitSettings, SimSettings and
+// StepOptions check themselves with Validate), *ModelError (a model
+// built in code with a structure no spec can have, such as a factor power
+// of 0 or a negative dead time: Model.Validate, checked by Fit,
+// Model.Simulate and NewSystem) and *SimError (a whole model that cannot be
+// simulated). On error the other results are zero values, except that a
+// Fit interrupted by its context returns its best point with the error. Panics are kept for programmer
 // errors the types cannot exclude, each documented where it can happen
 // (a destination slice of the wrong length, a Step with the wrong number
 // of inputs). Limits: polynomial degree MaxDegree (64), dead time
@@ -77,6 +83,24 @@
 // long as none of them modifies it; Model.Clone gives a private copy.
 // Plant and System hold the state of one simulation and are not safe for
 // concurrent use: give each goroutine its own Clone.
+//
+// # Records that start settled
+//
+// Fit assumes by default that each input was held at its first value
+// before the record (the process settled there), and Model.Simulate makes
+// such records by default, so that simulating and then fitting agree.
+// SimSettings.FromRest and FitSettings.ZeroPreSample take the inputs as
+// zero before the record instead. A streaming System starts at rest until
+// SetSteady. When the residuals or the noise series at the start of a fit
+// show a transient that this assumption does not explain, Fit warns
+// (StartupTransient) and FitSettings.Settle leaves it out.
+//
+// # Overflow in streaming
+//
+// Plant.Step and System.Step return no error, to stay cheap in control
+// loops; each records the first output that is NaN or infinite (a
+// non-finite input, an unstable term, or values too large for float64),
+// and Err reports it with its step.
 //
 // # Cautions
 //

@@ -97,3 +97,20 @@ type ArgError struct {
 func (e *ArgError) Error() string {
 	return fmt.Sprintf("tf: %s = %v: %s", e.Arg, e.Value, e.Rule)
 }
+
+// ModelError reports a model built in code whose structure no spec could
+// produce: a factor power below 1, a power of B below 0, a polynomial or
+// dead time over its limit, or a coefficient that is NaN or infinite.
+// Part names the place ("input valve denominator, factor 1", "input
+// valve dead time", ...), Problem says what is wrong and how to fix it.
+// Fit, Model.Simulate and NewSystem check every model with
+// Model.Validate before using it.
+type ModelError struct {
+	Part    string
+	Problem string
+}
+
+// Error describes the problem in one line.
+func (e *ModelError) Error() string {
+	return "tf: model: " + e.Part + ": " + e.Problem
+}

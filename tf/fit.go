@@ -66,8 +66,14 @@ type FitSettings struct {
 // Jacobian, can overflow float64. Rescale such series (change units).
 const FitMaxMagnitude = 1e150
 
-// check reports a negative or NaN setting as an *ArgError.
-func (s FitSettings) check() error {
+// Validate checks the settings by the rule of every settings struct of
+// the package (zero means the default, a negative value is an error)
+// and returns an *ArgError naming the field ("FitSettings.Tol"), or nil.
+// Tol must also be below 1 (it is a relative reduction of the sum of
+// squares; 1 or more would stop at the start point). First is checked
+// against the data's length by Fit. The boolean fields have no bad
+// value.
+func (s FitSettings) Validate() error {
 	for _, c := range []struct {
 		name string
 		v    float64
@@ -75,6 +81,9 @@ func (s FitSettings) check() error {
 		if !(c.v >= 0) {
 			return &ArgError{Arg: "FitSettings." + c.name, Value: c.v, Rule: "must be zero (the default) or positive"}
 		}
+	}
+	if !(s.Tol < 1) {
+		return &ArgError{Arg: "FitSettings.Tol", Value: s.Tol, Rule: "must be below 1 (a relative reduction of the sum of squares; 0 means the default)"}
 	}
 	return nil
 }
@@ -169,8 +178,13 @@ type Estimate struct {
 // rest plus omega_i(1)/delta_i(1) x_i,0. A differenced input z_i (which
 // varies about zero) is taken as zero before index d_i, the degree of
 // D_i, with u_i zero before the start (zero pre-sample values after
-// differencing). FitSettings.ZeroPreSample takes every input as zero
-// before its record. n_t is used from NoiseStart = max(d,
+// differencing). Model.Simulate makes records of exactly this kind by
+// default, so that simulating and then fitting with the defaults agree.
+// FitSettings.ZeroPreSample takes every input as zero before its record
+// (the records of Model.Simulate with SimSettings.FromRest, for inputs
+// without differencing). A record that starts away from that assumption
+// shows a start-up transient, which the StartupTransient warning reports
+// and FitSettings.Settle leaves out. n_t is used from NoiseStart = max(d,
 // max_i(d_i + b_i + s_i)), where d is the degree of D and s_i that of
 // omega_i, so that every numerator sees only real data. The noise
 // recursion theta(B) a_t = phi(B) n_t starts at First = NoiseStart + p
@@ -234,17 +248,45 @@ type Estimate struct {
 // summation order depends only on N, so results are the same bit for bit
 // with one goroutine or two.
 //
+// # Warnings
+//
+// Estimate.Warnings lists what makes the estimate doubtful, each kind
+// with its rule on WarningKind: not converged, singular information or a
+// standard error that is NaN, infinite or zero, roots on or outside the
+// unit circle, cancelling roots, highly correlated estimates, a
+// start-up transient (false-alarm rate 1e-4 on white Gaussian
+// residuals), few residuals (N < max(50, 10 k)) and a pole too slow for
+// the record (fewer than 5 time constants in the N residuals).
+// WarningKind.Serious says which make the estimate unfit for use.
+//
 // # Errors
 //
 // *FitError for missing, extra or unequal series, too few observations
 // (N must exceed the number of free parameters), a model with nothing
 // free, free differencing coefficients, a zero constant term in a
 // denominator; *SampleError for a NaN or infinite sample (series and
-// index); *ArgError for a negative or NaN setting (FitSettings.MaxIter,
-// Starts, First, Tol) or a sample above FitMaxMagnitude (series[index]).
-// When ctx is done the best point so far is returned with
-// Converged false and Reason saying so, and a nil error. A fit that does
-// not converge also returns its best point, with a warning.
+// index); *ArgError from FitSettings.Validate (a negative or NaN
+// setting, Tol of 1 or more), for FitSettings.First at or beyond the
+// data's length, or for a sample above FitMaxMagnitude (series[index]);
+// *ModelError for a model that Model.Validate refuses (a factor power
+// below 1, a negative dead time, ...); *FitError ConstantSeries for a
+// constant output, or an input with free coefficients that never moves
+// (constant as given, or after its differencing), naming the series;
+// *FitError NoStartPoint when no start point gives finite residuals;
+// *FitError NoSettledStart for an undifferenced input whose fixed
+// denominator has a pole at z = 1 and whose first sample is not zero
+// (no steady state to hold it at); *FitError ZeroResiduals when the
+// residual sum of squares at the
+// estimate is 0 (an exact fit, or samples so small that their squares
+// underflow), where sigma^2, LogLik, AIC and BIC would not exist.
+// When ctx is done before the fit converges, Fit returns the best point
+// so far (a non-nil Estimate with Converged false and Reason saying so)
+// together with a *FitError Interrupted that wraps the context's error,
+// so that errors.Is(err, context.Canceled) (or
+// context.DeadlineExceeded) holds; a caller that checks only err does
+// not use an unfinished fit by mistake. A fit that stops for another
+// reason without converging returns its best point with a nil error and
+// a NotConverged warning.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis: Forecasting and Control, 5th ed.,
@@ -255,7 +297,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	if s != nil {
 		set = *s
 	}
-	if err := set.check(); err != nil {
+	if err := set.Validate(); err != nil {
 		return nil, err
 	}
 	if ctx == nil {
@@ -267,32 +309,59 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	}
 	e, err := w.run(ctx, set)
 	w.release()
-	if err != nil || !set.Settle || !e.Converged {
-		return e, err
+	if err != nil {
+		return nil, err
 	}
-	// Settle: move First past the start-up transient of the estimated
-	// input poles and MA zeros, and refit from the estimates.
+	if set.Settle && e.Converged {
+		e = fitSettle(ctx, e, data, set, w.n, w.ar.Degree())
+	}
+	return fitFinish(ctx, e)
+}
+
+// fitSettle is FitSettings.Settle: it moves First past the start-up
+// transient of the estimated input poles and MA zeros and refits from
+// the estimates; it returns e when there is nothing to move or the
+// refit fails.
+func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set FitSettings, n, p int) *Estimate {
 	k := fitSettleSamples(e.Model)
-	first := min(e.Conditioning.NoiseStart+w.ar.Degree()+k, w.n/10)
+	first := min(e.Conditioning.NoiseStart+p+k, n/10)
 	if first <= e.Conditioning.First {
-		return e, nil
+		return e
 	}
 	s2 := set
 	s2.First = first
 	s2.Settle = false
 	w2, err := fitPrepare(e.Model, data, s2)
 	if err != nil {
-		return e, nil
+		return e
 	}
 	e2, err := w2.run(ctx, s2)
 	w2.release()
 	if err != nil {
-		return e, nil
+		return e
 	}
 	for i := range e2.Params {
 		e2.Params[i].Start = e.Params[i].Start
 	}
-	return e2, nil
+	return e2
+}
+
+// fitFinish refuses an estimate whose sum of squares is zero (sigma^2,
+// the log-likelihood and the criteria would not exist), and returns the
+// best point of a fit whose context was done before it converged
+// together with an Interrupted *FitError wrapping the context's error.
+func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
+	out := e.Model.Output
+	if !(e.SSQ > 0) || math.IsInf(e.LogLik, 0) || math.IsNaN(e.LogLik) {
+		return nil, &FitError{Problem: ZeroResiduals, Series: out, Detail: "the model reproduces the output exactly (a noise-free or constant output), " +
+			"or the samples are so small that the squares of the residuals underflow float64 (below about 1e-162); " +
+			"sigma^2, the log-likelihood and AIC/BIC would not exist: rescale the series (change its units) or check the data"}
+	}
+	if err := ctx.Err(); err != nil && !e.Converged {
+		return e, &FitError{Problem: Interrupted, Series: out, Err: err,
+			Detail: "the estimate returned is the best point after " + strconv.Itoa(e.Iter) + " iterations, not converged; do not use it as a fitted model"}
+	}
+	return e, nil
 }
 
 // fitSettleSamples returns the number of samples after which the slowest
@@ -360,6 +429,7 @@ type fitWork struct {
 	// moving average of n_t and no column needs a_t.
 	maFixedOne bool
 	slab       *fitSlab
+	panicErr   error // a panic recovered in a goroutine of normalEval
 }
 
 var fitOne = []float64{1}
@@ -375,6 +445,9 @@ func (w *fitWork) idx(name string) int {
 func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
 	if m.Output == "" {
 		return nil, &FitError{Problem: NoOutput}
+	}
+	if err := m.Validate(); err != nil {
+		return nil, err
 	}
 	w := &fitWork{m: m.Clone(), index: map[string]int{}}
 	held := map[string]bool{}
@@ -477,6 +550,14 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	if err := fitCheckConst(w.m); err != nil {
 		return nil, err
 	}
+	if set.First > 0 && set.First >= n {
+		return nil, &ArgError{Arg: "FitSettings.First", Value: float64(set.First),
+			Rule: "must be below the number of samples, " + strconv.Itoa(n) + " (it is the index of the first residual summed)"}
+	}
+	if n > 0 && fitConstant(y) {
+		return nil, &FitError{Problem: ConstantSeries, Series: m.Output, Detail: "every sample is " + strconv.FormatFloat(y[0], 'g', 6, 64) +
+			": there is nothing to explain; check that the right column was read"}
+	}
 	// Conditioning.
 	dc := w.m.Diff.Coeffs()
 	d := len(dc) - 1
@@ -507,8 +588,17 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample}
 	nres := n - t0
 	if nres <= len(w.names) {
-		return nil, &FitError{Problem: TooFewObservations, Series: m.Output, Len: max(nres, 0), Want: len(w.names) + 1,
-			Detail: "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"}
+		detail := "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"
+		for i := range w.m.Inputs {
+			in := &w.m.Inputs[i]
+			if ts > d && w.ins[i].d+in.Delay+in.Num.Degree() == ts && t0 == ts+p {
+				detail += "; input " + strconv.Quote(in.Series) + " with dead time " + strconv.Itoa(in.Delay) + ", numerator degree " +
+					strconv.Itoa(in.Num.Degree()) + " and differencing degree " + strconv.Itoa(w.ins[i].d) + " leaves its first " +
+					strconv.Itoa(ts) + " samples without a residual: check the dead time (it counts samples)"
+				break
+			}
+		}
+		return nil, &FitError{Problem: TooFewObservations, Series: m.Output, Len: max(nres, 0), Want: len(w.names) + 1, Detail: detail}
 	}
 	w.n = n
 	// All work series come from one slab, recycled between fits (see
@@ -541,8 +631,25 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			fi.z0 = fi.z[fi.d]
 		}
 		clear(fi.zc[:min(fi.d, n)])
+		moves := false
 		for t := fi.d; t < n; t++ {
 			fi.zc[t] = fi.z[t] - fi.z0
+			moves = moves || fi.zc[t] != 0
+		}
+		if fi.z0 != 0 && !fi.denFree && fitSum(fi.in.Den.Coeffs()) == 0 {
+			w.release()
+			return nil, &FitError{Problem: NoSettledStart, Series: fi.in.Series, Detail: "its denominator has a pole at z = 1 (an integrator), so it has no steady state, " +
+				"and Fit cannot take the input as held at its first value " + strconv.FormatFloat(fi.z0, 'g', 6, 64) +
+				" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output"}
+		}
+		if !moves && (fi.numFree || fi.denFree) {
+			w.release()
+			why := "every sample is " + strconv.FormatFloat(fi.x[0], 'g', 6, 64) + ", and Fit takes an input as held at its first value before the record"
+			if fi.d > 0 {
+				why = "its differenced values are all zero"
+			}
+			return nil, &FitError{Problem: ConstantSeries, Series: fi.in.Series, Detail: why +
+				", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values"}
 		}
 		fi.s = take(n)
 		fi.u = take(n)
@@ -558,6 +665,16 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	clear(w.a[:t0])
 	w.maFixedOne = w.ma.IsOne()
 	return w, nil
+}
+
+// fitConstant reports whether every sample of x equals the first.
+func fitConstant(x []float64) bool {
+	for _, v := range x {
+		if v != x[0] {
+			return false
+		}
+	}
+	return true
 }
 
 // fitSlab is the backing store of a fit's work series. Fit returns its
@@ -1051,13 +1168,25 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 	acc1 := w.scratchAcc(len(acc))
 	if fitIsOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
 		var wg sync.WaitGroup
+		var perr error
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			// Last line of defence: a panic here would kill the caller's
+			// process; it becomes a typed error that Fit returns.
+			defer func() {
+				if v := recover(); v != nil {
+					perr = &FitError{Problem: InternalError, Series: w.m.Output, Detail: fmt.Sprint(v)}
+				}
+			}()
 			w.normalRows(acc1, r, h, m, &w.blk[1])
 		}()
 		w.normalRows(acc, r, 0, h, &w.blk[0])
 		wg.Wait()
+		if perr != nil {
+			w.panicErr = perr
+			return perr
+		}
 	} else {
 		st := &w.blk[0]
 		w.normalRows(acc, r, 0, h, st)
@@ -1239,8 +1368,14 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
 			best, start, tried, err := ws.search(ctx, set, maxIter)
 			ws.release()
+			if ws.panicErr != nil {
+				return nil, ws.panicErr
+			}
 			if err == nil {
 				res, err := lm.Minimize(ctx, w.problem(), best.X, w.lmSettings(set, maxIter))
+				if w.panicErr != nil {
+					return nil, w.panicErr
+				}
 				if err == nil {
 					return w.estimate(&res, start, tried), nil
 				}
@@ -1248,6 +1383,9 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 		}
 	}
 	best, start, tried, err := w.search(ctx, set, maxIter)
+	if w.panicErr != nil {
+		return nil, w.panicErr
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -1330,9 +1468,9 @@ func (w *fitWork) search(ctx context.Context, set FitSettings, maxIter int) (*lm
 		}
 	}
 	if best == nil {
-		nres := w.n - w.cond.First
-		return nil, nil, 0, &FitError{Problem: TooFewObservations, Series: w.m.Output, Len: nres, Want: len(w.names) + 1,
-			Detail: "no admissible start point: " + firstErr.Error()}
+		return nil, nil, 0, &FitError{Problem: NoStartPoint, Series: w.m.Output,
+			Detail: "the residuals are not finite at any start point (" + firstErr.Error() + "); the coefficients held at fixed values may make a filter blow up on this data " +
+				"(an unstable fixed denominator, or a fixed noise MA with a zero on or outside the unit circle), or the samples are too large: check the fixed values and the units, or give start values in the spec"}
 	}
 	return best, bestStart, len(sc), nil
 }
@@ -1415,7 +1553,8 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 			e.Corr[i][j] = e.Cov[i][j] / (e.Params[i].SE * e.Params[j].SE)
 		}
 	}
-	e.Warnings = fitWarnings(e, res.JTJInv == nil)
+	w.noiseSeries() // n_t at the estimate, for the start-up transient test
+	e.Warnings = fitWarnings(e, res.JTJInv == nil, w.nn[t0:w.n])
 	return e
 }
 

@@ -34,6 +34,32 @@ const (
 	// BadFuture: future input values for a forecast are missing, too
 	// short, or not finite.
 	BadFuture
+	// ConstantSeries: the output is constant, or an input with free
+	// coefficients never moves (constant, or constant after its
+	// differencing), so that nothing can be estimated from it.
+	ConstantSeries
+	// ZeroResiduals: the residual sum of squares at the estimate is 0
+	// (an exact fit, or samples so small that the squares of the
+	// residuals underflow float64), so that sigma^2, the log-likelihood
+	// and the information criteria do not exist.
+	ZeroResiduals
+	// Interrupted: the context was done before the fit converged; the
+	// error wraps the context's error and the best point so far is
+	// returned with it.
+	Interrupted
+	// NoSettledStart: an input without differencing whose denominator,
+	// fixed as written, has a pole at z = 1 starts at a non-zero value,
+	// so it cannot be taken as held at its first value before the record
+	// (the default conditioning of Fit).
+	NoSettledStart
+	// NoStartPoint: the residuals are not finite at any start point
+	// (fixed coefficients that make a filter blow up, or samples too
+	// large).
+	NoStartPoint
+	// InternalError: a panic inside a goroutine of the fit was
+	// recovered (a defect of the library, to be reported with the data
+	// and model; Detail holds the panic's value).
+	InternalError
 )
 
 // String describes the problem in a few words.
@@ -59,6 +85,18 @@ func (p FitProblem) String() string {
 		return "parameter is free in one place and held in another"
 	case BadFuture:
 		return "future input values missing or too short"
+	case ConstantSeries:
+		return "series is constant"
+	case ZeroResiduals:
+		return "residual sum of squares is zero"
+	case Interrupted:
+		return "fit interrupted before converging"
+	case NoSettledStart:
+		return "input has no settled start"
+	case NoStartPoint:
+		return "no start point gives finite residuals"
+	case InternalError:
+		return "internal error in the fit (a defect of the library; please report it with the model and data)"
 	}
 	return fmt.Sprintf("FitProblem(%d)", int(p))
 }
@@ -76,7 +114,14 @@ type FitError struct {
 	Len     int
 	Want    int
 	Detail  string
+	// Err is the underlying error, if any (the context's error for
+	// Interrupted); Unwrap returns it.
+	Err error
 }
+
+// Unwrap returns the underlying error (nil for most problems), so that
+// errors.Is(err, context.Canceled) holds for a cancelled fit.
+func (e *FitError) Unwrap() error { return e.Err }
 
 // Error describes the problem in one line.
 func (e *FitError) Error() string {
@@ -98,6 +143,10 @@ func (e *FitError) Error() string {
 		b.WriteString(" (")
 		b.WriteString(e.Detail)
 		b.WriteString(")")
+	}
+	if e.Err != nil {
+		b.WriteString(": ")
+		b.WriteString(e.Err.Error())
 	}
 	return b.String()
 }

@@ -47,7 +47,7 @@ func TestFitBadInput(t *testing.T) {
 			d := good()
 			d["x"], d["y"] = d["x"][:9], d["y"][:9]
 			return d
-		}, TooFewObservations, "y", `tf: too few observations: "y": 4 residuals, at least 6 needed (residuals are summed from index 5 of 9 samples)`},
+		}, TooFewObservations, "y", `tf: too few observations: "y": 4 residuals, at least 6 needed (residuals are summed from index 5 of 9 samples; input "x" with dead time 3, numerator degree 1 and differencing degree 0 leaves its first 4 samples without a residual: check the dead time (it counts samples))`},
 		{"nothing free", fixed, good, NothingFree, "", `tf: nothing free to estimate`},
 		{"free differencing", freeDiff, good, FixedDifferencing, "k", `tf: differencing must be fixed numbers: "k"`},
 		{"mixed freedom", mixed, good, MixedFreedom, "d1", `tf: parameter is free in one place and held in another: "d1"`},
@@ -116,14 +116,20 @@ func TestFitDoesNotModify(t *testing.T) {
 }
 
 // TestFitCancel checks that a done context stops the fit with the best
-// point so far and says so.
+// point so far and says so, in the error (wrapping the context's error)
+// as well as in the estimate.
 func TestFitCancel(t *testing.T) {
 	y, x := fitMCSim(fitRand(11), 400)
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
 	est, err := Fit(ctx, fitMCModel(), map[string][]float64{"y": y, "x": x}, nil)
-	if err != nil {
-		t.Fatal(err)
+	var fe *FitError
+	if !errors.Is(err, context.Canceled) || !errors.As(err, &fe) || fe.Problem != Interrupted || fe.Series != "y" ||
+		!strings.Contains(err.Error(), "fit interrupted before converging") || !strings.Contains(err.Error(), "best point") {
+		t.Fatalf("canceled fit: err = %v, want an Interrupted *FitError wrapping context.Canceled", err)
+	}
+	if est == nil {
+		t.Fatal("canceled fit: no estimate (the best point so far must come with the error)")
 	}
 	if est.Converged || !strings.Contains(est.Reason, "cancel") || len(est.Warnings) == 0 || est.Warnings[0].Kind != NotConverged {
 		t.Errorf("canceled fit: converged %v, reason %q, warnings %v", est.Converged, est.Reason, est.Warnings)
@@ -131,7 +137,7 @@ func TestFitCancel(t *testing.T) {
 }
 
 // A dead time outside 0..MaxDelay in a model built in code is a typed
-// DelayError, not an index panic.
+// *ModelError naming the input and the dead time, not an index panic.
 func TestFitNegativeDelay(t *testing.T) {
 	x := make([]float64, 300)
 	y := make([]float64, 300)
@@ -142,9 +148,9 @@ func TestFitNegativeDelay(t *testing.T) {
 	m := Model{Output: "y", Inputs: []Input{{Series: "x", Delay: -1,
 		Num: Poly{Factors: []Factor{{Exp: 1, Terms: []Term{{Coef: Coef{Name: "w0", Free: true}}}}}}}}}
 	_, err := Fit(context.Background(), m, map[string][]float64{"y": y, "x": x}, nil)
-	var de *DelayError
-	if !errors.As(err, &de) || de.Delay != -1 {
-		t.Fatalf("Fit with dead time -1: err = %v, want a *DelayError", err)
+	var me *ModelError
+	if !errors.As(err, &me) || me.Part != `input "x" dead time` || !strings.Contains(err.Error(), "-1 samples is outside 0..10000") {
+		t.Fatalf("Fit with dead time -1: err = %v, want a *ModelError", err)
 	}
 }
 

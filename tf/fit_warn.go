@@ -4,6 +4,10 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"sort"
+	"strings"
+
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // WarningKind classifies a Warning.
@@ -31,19 +35,43 @@ const (
 	// SingularInformation: J'J is singular at the estimate, so standard
 	// errors do not exist (an unidentifiable parameter).
 	SingularInformation
-	// StartupTransient: the residuals at the start of the sum of squares
-	// are far larger than the rest, a start-up transient that the
+	// StartupTransient: the start of the fit shows a transient that the
 	// pre-sample convention does not explain (an input that was not
-	// settled at its first value); FitSettings.Settle or a larger
-	// FitSettings.First leaves it out.
+	// settled at its first value, as in a record that starts from rest);
+	// FitSettings.Settle or a larger FitSettings.First leaves it out.
+	// Two tests, each at a false-alarm rate of 5e-5 for white Gaussian
+	// residuals (1e-4 together), made with at least 40 residuals:
+	//
+	// The residuals: for windows of the first m = 5, 10, 20, 40, ...
+	// residuals (m at most N/4), the mean square of the window over the
+	// robust scale median(a_t^2)/0.4549 of the M residuals after the
+	// largest window (at most 20000 of them; 0.4549 is the median of
+	// chi-squared(1)) is referred to the F distribution with m and
+	// 0.368 M degrees of freedom (the variance of a sample median,
+	// 1/(4 M f(median)^2), makes the scale as uncertain as a variance
+	// estimate on 0.368 M degrees of freedom); the smallest p-value
+	// times the number of windows (Bonferroni) is the test's.
+	//
+	// The noise series n_t (output minus the fitted input terms), which
+	// shows a transient that a fitted AR root near an input pole removed
+	// from the residuals: the largest |n_t - median| over the first
+	// min(10, N/4) samples in standard deviations of the fitted noise
+	// model (sigma^2 times the sum of its squared psi weights), with the
+	// union bound m * 2 Phi(-z) as its p-value (valid for correlated
+	// samples); not made for a noise model with a root at |z| >= 0.999.
 	StartupTransient
-	// FewResiduals: the number of residuals is small against the number
-	// of free coefficients, so the estimates and their standard errors
-	// are unreliable.
+	// FewResiduals: the number of residuals N is small against the number
+	// k of free coefficients, N < max(50, 10 k) (about 50 observations
+	// as the least for a time-series model, ten per coefficient: common
+	// practice), so the estimates and their standard errors are
+	// unreliable.
 	FewResiduals
-	// SlowPole: an estimated input pole or noise AR root is so slow that
-	// the record covers few of its time constants, so the gain and the
-	// time constant are poorly determined.
+	// SlowPole: an estimated input pole or noise AR root (of a
+	// polynomial with free coefficients) is so slow that the N
+	// residuals span fewer than 5 of its time constants -1/ln|z|, so
+	// the gain and the time constant are poorly determined (a
+	// first-order response reaches 99.3 % of its final value in 5 time
+	// constants; common practice).
 	SlowPole
 	// BadStandardError: a standard error is NaN, infinite or zero.
 	BadStandardError
@@ -62,6 +90,27 @@ const (
 	fitBoundaryZ   = 0.999
 	fitCancelDist  = 0.05
 	fitCorrWarning = 0.95
+	// FewResiduals fires when N < max(fitFewMin, fitFewPerParam k) for
+	// k free coefficients: about 50 observations as the least for a
+	// time-series model (Box, Jenkins & Reinsel's rule of thumb) and ten
+	// residuals per coefficient (common practice).
+	fitFewMin      = 50
+	fitFewPerParam = 10
+	// SlowPole fires when the N residuals span fewer than
+	// fitSlowSpans time constants -1/ln|z| of an estimated pole: a
+	// first-order response reaches 1 - e^-5 = 99.3 % of its final value
+	// in 5 time constants, so a shorter record leaves the gain to
+	// extrapolation (common practice).
+	fitSlowSpans = 5
+	// fitTransientAlpha is the false-alarm rate of the StartupTransient
+	// test on residuals that are white and Gaussian (all windows
+	// together, Bonferroni).
+	fitTransientAlpha = 1e-4
+	// fitChi2Median1 is the median of the chi-squared distribution with
+	// one degree of freedom (scipy.stats.chi2(1).median() =
+	// 0.454936423119572), so that median(a_t^2)/fitChi2Median1
+	// estimates sigma^2 for Gaussian a_t.
+	fitChi2Median1 = 0.454936423119572
 )
 
 // Warning is one problem found with an Estimate: its Kind, a sentence for
@@ -114,7 +163,9 @@ func fitPolyNames(p Poly) []string {
 	return out
 }
 
-func fitWarnings(e *Estimate, singular bool) []Warning {
+// fitWarnings returns the warnings of e; noise holds the noise series
+// n_t of the estimate from Conditioning.First on.
+func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
 	var ws []Warning
 	add := func(k WarningKind, names []string, format string, args ...any) {
 		ws = append(ws, Warning{Kind: k, Message: fmt.Sprintf(format, args...), Params: names})
@@ -124,6 +175,46 @@ func fitWarnings(e *Estimate, singular bool) []Warning {
 	}
 	if singular {
 		add(SingularInformation, nil, "J'J is singular at the estimate; standard errors are not available")
+	}
+	var badSE []string
+	for _, p := range e.Params {
+		if math.IsNaN(p.SE) || math.IsInf(p.SE, 0) || p.SE == 0 {
+			badSE = append(badSE, p.Name)
+		}
+	}
+	if len(badSE) > 0 {
+		add(BadStandardError, badSE, "the standard error of %s is not available (NaN, infinite or zero): the estimate's precision is unknown", strings.Join(badSE, ", "))
+	}
+	k := len(e.Params)
+	if need := max(fitFewMin, fitFewPerParam*k); e.N < need {
+		add(FewResiduals, nil, "only %d residuals for %d free coefficients (fewer than max(50, 10 per coefficient) = %d): the estimates and standard errors are unreliable; use a longer record or a smaller model", e.N, k, need)
+	}
+	remedy := "a start-up transient that the pre-sample assumption (each input held at its first value) does not explain, such as a record that starts from rest or after an upset; set FitSettings.Settle, or FitSettings.First to %d or more, to leave it out of the fit"
+	t0 := e.Conditioning.First
+	if m, p, ok := fitTransient(e.Resid[t0:]); ok {
+		add(StartupTransient, nil, "the residuals at samples %d..%d are far larger than the rest (p %s against white noise of one variance): "+remedy, t0, t0+m-1, fitFmtP(p), t0+m)
+	} else if last, z, p, ok := fitNoiseTransient(noise, e); ok {
+		add(StartupTransient, nil, "the noise series (output minus the fitted input terms) at samples %d..%d lies up to %.3g standard deviations of the fitted noise model from its median (p %s): "+remedy, t0, t0+last, z, fitFmtP(p), t0+last+1)
+	}
+	slow := func(coeffs []float64, names []string, what string) {
+		if len(names) == 0 {
+			return
+		}
+		z := fitMaxZ(coeffs)
+		if !(z > 0 && z < 1) {
+			return
+		}
+		tau := -1 / math.Log(z)
+		if float64(e.N) < fitSlowSpans*tau {
+			add(SlowPole, names, "%s has a pole with |z| = %.6g, time constant %.4g samples, and the %d residuals span only %.2g of them (fewer than 5): %s", what, z, tau, e.N, float64(e.N)/tau,
+				"its gain and time constant are poorly determined; use a longer record, or hold the pole at a known value")
+		}
+	}
+	for _, in := range e.Model.Inputs {
+		slow(in.Den.Coeffs(), fitPolyNames(in.Den), fmt.Sprintf("input %q", in.Series))
+	}
+	if e.Model.Noise != nil {
+		slow(e.Model.Noise.AR.Coeffs(), fitPolyNames(e.Model.Noise.AR), "the noise AR")
 	}
 	cancel := func(zeros, poles []complex128) (complex128, complex128, bool) {
 		for _, z := range zeros {
@@ -176,4 +267,127 @@ func fitFmtC(z complex128) string {
 		return fmt.Sprintf("%.4g", real(z))
 	}
 	return fmt.Sprintf("%.4g%+.4gi", real(z), imag(z))
+}
+
+// fitTransient tests the residuals a (from the first one summed) for a
+// start-up transient (see StartupTransient): it returns the window
+// length m of the smallest p-value, that p-value times the number of
+// windows (Bonferroni), and whether it is below half of
+// fitTransientAlpha (the other half is fitNoiseTransient's).
+func fitTransient(a []float64) (m int, p float64, ok bool) {
+	n := len(a)
+	if n < 40 {
+		return 0, 1, false
+	}
+	var wins []int
+	for w := 5; w <= n/4; w *= 2 {
+		wins = append(wins, w)
+	}
+	rest := a[wins[len(wins)-1]:]
+	rest = rest[:min(len(rest), fitScaleSamples)]
+	sq := make([]float64, len(rest))
+	for i, v := range rest {
+		sq[i] = v * v
+	}
+	s2 := fitMedian(sq) / fitChi2Median1
+	if !(s2 > 0) || math.IsInf(s2, 0) {
+		return 0, 1, false
+	}
+	nu := 0.368 * float64(len(sq))
+	best, bestM := 1.0, 0
+	sum, j := 0.0, 0
+	for _, w := range wins {
+		for ; j < w; j++ {
+			sum += a[j] * a[j]
+		}
+		f := sum / float64(w) / s2
+		q := distuv.F{D1: float64(w), D2: nu}.Survival(f)
+		if q < best || bestM == 0 {
+			best, bestM = q, w
+		}
+	}
+	p = min(best*float64(len(wins)), 1)
+	return bestM, p, p < fitTransientAlpha/2
+}
+
+// fitScaleSamples caps the samples after the tested windows from which
+// the transient tests take their scale and centre (the ones nearest the
+// windows), so that the tests cost O(1) sorting for any record length.
+const fitScaleSamples = 20000
+
+// fitNoiseWindow is the number of noise samples, from the first residual
+// on, that fitNoiseTransient examines.
+const fitNoiseWindow = 10
+
+// fitNoiseTransient tests the noise series n (from Conditioning.First
+// on) for a start-up transient that the fitted noise model absorbed (an
+// AR root near an input pole makes the residuals of a transient of that
+// pole vanish, so that fitTransient cannot see it): the largest
+// |n_t - median(n)| over the first m = min(10, N/4) samples, in units of
+// the standard deviation of the fitted noise model, sigma_n^2 = sigma^2
+// sum psi_j^2, as z. Its p-value is bounded by m * 2 Phi(-z) (the union
+// bound, valid for correlated samples), and the test fires below half of
+// fitTransientAlpha. It returns the offset of the last of the first N/4
+// samples beyond the test's critical value (the transient's extent), z,
+// the p-value and whether the test fired. It is not made for fewer than
+// 40 residuals or a noise model that is not stationary.
+func fitNoiseTransient(n []float64, e *Estimate) (last int, z, p float64, ok bool) {
+	if len(n) < 40 || !(e.Sigma2 > 0) {
+		return 0, 0, 1, false
+	}
+	v := 1.0
+	if e.Model.Noise != nil {
+		r, err := e.Model.NoiseRational()
+		if err != nil || !(r.MaxPoleMagnitude() < fitBoundaryZ) {
+			return 0, 0, 1, false
+		}
+		// psi_j decays as rho^j: enough weights for rho^j < 1e-9.
+		rho := r.MaxPoleMagnitude()
+		k := r.NumDegree() + 1
+		if rho > 0 {
+			k += int(math.Ceil(math.Log(1e-9) / math.Log(rho)))
+		}
+		v = 0
+		for _, c := range r.Impulse(k) {
+			v += c * c
+		}
+	}
+	sd := math.Sqrt(e.Sigma2 * v)
+	m := min(fitNoiseWindow, len(n)/4)
+	med := fitMedian(append([]float64(nil), n[m:min(len(n), m+fitScaleSamples)]...))
+	for _, x := range n[:m] {
+		z = math.Max(z, math.Abs(x-med)/sd)
+	}
+	p = math.Min(float64(m)*2*distuv.UnitNormal.Survival(z), 1)
+	if !(p < fitTransientAlpha/2) {
+		return 0, z, p, false
+	}
+	// The extent: the last of the first N/4 samples beyond the critical
+	// value of the test.
+	crit := distuv.UnitNormal.Quantile(1 - fitTransientAlpha/4/float64(m))
+	for t, x := range n[:len(n)/4] {
+		if math.Abs(x-med)/sd > crit {
+			last = t
+		}
+	}
+	return last, z, p, true
+}
+
+// fitFmtP formats a p-value for a message: "= 0.0012", or "< 1e-16"
+// below the resolution of float64 near 1.
+func fitFmtP(p float64) string {
+	if p < 1e-16 {
+		return "< 1e-16"
+	}
+	return fmt.Sprintf("= %.2g", p)
+}
+
+// fitMedian returns the median of x, sorting x in place.
+func fitMedian(x []float64) float64 {
+	sort.Float64s(x)
+	h := len(x) / 2
+	if len(x)%2 == 0 {
+		return 0.5 * (x[h-1] + x[h])
+	}
+	return x[h]
 }

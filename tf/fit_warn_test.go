@@ -39,7 +39,7 @@ func TestFitWarningsRules(t *testing.T) {
 	e := &Estimate{Model: m, Converged: false, Reason: "not converged: iteration limit reached",
 		Params: []Param{{Name: "w0"}, {Name: "d1"}},
 		Corr:   [][]float64{{1, 0.97}, {0.97, 1}}}
-	ws := fitWarnings(e, false)
+	ws := fitWarnings(e, false, nil)
 	for _, k := range []WarningKind{UnstableDenominator, NonStationaryNoise, NonInvertibleNoise, HighCorrelation, NotConverged} {
 		if !fitHasWarning(ws, k) {
 			t.Errorf("missing %v warning: %v", k, ws)
@@ -50,7 +50,7 @@ func TestFitWarningsRules(t *testing.T) {
 		t.Errorf("unexpected cancellation warning: %v", ws)
 	}
 	set(m.Inputs[0].Den, 0.5)
-	ws = fitWarnings(e, true)
+	ws = fitWarnings(e, true, nil)
 	if !fitHasWarning(ws, CancellingRoots) || !fitHasWarning(ws, SingularInformation) || fitHasWarning(ws, UnstableDenominator) {
 		t.Errorf("zero 0.52 beside pole 0.5, singular J'J: %v", ws)
 	}

@@ -21,7 +21,7 @@ func TestHostileSimulateBurnIn(t *testing.T) {
 	for _, b := range []int{tf.MaxBurnIn + 1, math.MaxInt} {
 		y, err := m.Simulate(in, &tf.SimSettings{Sigma: 1, BurnIn: b})
 		var ae *tf.ArgError
-		if !errors.As(err, &ae) || ae.Arg != "BurnIn" || ae.Value != float64(b) {
+		if !errors.As(err, &ae) || ae.Arg != "SimSettings.BurnIn" || ae.Value != float64(b) {
 			t.Fatalf("BurnIn %d: got %v, %v; want *tf.ArgError for BurnIn", b, y, err)
 		}
 		if !strings.Contains(err.Error(), "must be at most tf.MaxBurnIn (16777216 draws)") {

@@ -13,7 +13,8 @@ type Span struct {
 	Time    float64
 }
 
-// StepOptions tunes StepMetrics. The zero value gives the defaults.
+// StepOptions tunes StepMetrics. The zero value gives the defaults; zero
+// means the default and a negative value is an error (Validate).
 type StepOptions struct {
 	// Band is the settling band as a fraction of the final value; 0 means
 	// 0.02 (2 %). It must lie in (0, 1).
@@ -26,6 +27,24 @@ type StepOptions struct {
 	// to 1e-3 of the band, at least 4 time constants past the dead time
 	// and numerator), capped at 10^6 samples.
 	Horizon int
+}
+
+// Validate checks the options by the rule of every settings struct of
+// the package (zero means the default, a negative value is an error)
+// and the ranges documented on each field, and returns an *ArgError
+// whose Arg is the field's name ("Band", "Interval", "Horizon") and whose
+// Rule names the struct, or nil.
+func (o StepOptions) Validate() error {
+	if !(o.Band >= 0 && o.Band < 1) {
+		return &ArgError{Arg: "Band", Value: o.Band, Rule: "StepOptions.Band must lie in (0, 1), or be 0 for the default 0.02"}
+	}
+	if !(o.Interval >= 0) || math.IsInf(o.Interval, 0) {
+		return &ArgError{Arg: "Interval", Value: o.Interval, Rule: "StepOptions.Interval must be finite and >= 0 (0: not given)"}
+	}
+	if o.Horizon < 0 || o.Horizon > 1e7 {
+		return &ArgError{Arg: "Horizon", Value: float64(o.Horizon), Rule: "StepOptions.Horizon must lie in 0..10^7 (0: chosen from the slowest pole)"}
+	}
+	return nil
 }
 
 // StepSummary describes the unit step response of a stable term, for people
@@ -66,18 +85,12 @@ type StepSummary struct {
 // an *ArgError for a bad option or a zero gain (no step to measure), and
 // a *GainError when the gain does not exist.
 func (r Rational) StepMetrics(o StepOptions) (StepSummary, error) {
+	if err := o.Validate(); err != nil {
+		return StepSummary{}, err
+	}
 	band := o.Band
 	if band == 0 {
 		band = 0.02
-	}
-	if !(band > 0 && band < 1) {
-		return StepSummary{}, &ArgError{Arg: "Band", Value: o.Band, Rule: "must lie in (0, 1)"}
-	}
-	if !(o.Interval >= 0) || math.IsInf(o.Interval, 0) {
-		return StepSummary{}, &ArgError{Arg: "Interval", Value: o.Interval, Rule: "must be finite and >= 0"}
-	}
-	if o.Horizon < 0 || o.Horizon > 1e7 {
-		return StepSummary{}, &ArgError{Arg: "Horizon", Value: float64(o.Horizon), Rule: "must lie in 0..10^7"}
 	}
 	rho := r.MaxPoleMagnitude()
 	if !(rho < 1) {

@@ -1,6 +1,9 @@
 package tf
 
 import (
+	"math"
+	"strconv"
+
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/sym"
 )
@@ -107,4 +110,89 @@ func (m Model) Equal(o Model) bool {
 		}
 	}
 	return true
+}
+
+// Validate checks the structure of m as a spec would have it, so that a
+// model built in code cannot reach the numerical code with a shape it
+// does not handle: every input named (Series not empty), every factor's
+// power Exp in 1..MaxDegree, every power
+// of B in 0..MaxDegree, every polynomial (differencing, numerator,
+// denominator, noise MA and AR) of degree at most MaxDegree, every dead
+// time in 0..MaxDelay and every coefficient value finite. It returns a
+// *ModelError naming the first part at fault, or nil. It does not check
+// what depends on the values' meaning (a zero constant term of a
+// denominator, stability); Fit, Model.Simulate and NewSystem report
+// those themselves, and call Validate first.
+func (m Model) Validate() error {
+	if err := modelCheckPoly(m.Diff, "output "+m.Output+" differencing"); err != nil {
+		return err
+	}
+	if m.Const != nil {
+		if v := m.Const.Value; math.IsNaN(v) || math.IsInf(v, 0) {
+			return &ModelError{Part: "constant " + modelCoefName(*m.Const), Problem: "value " + strconv.FormatFloat(v, 'g', -1, 64) + " is not finite"}
+		}
+	}
+	for i, in := range m.Inputs {
+		part := "input " + strconv.Quote(in.Series)
+		if in.Series == "" {
+			return &ModelError{Part: "input " + strconv.Itoa(i+1), Problem: "has no series name (Input.Series names the data series the term acts on)"}
+		}
+		if in.Delay < 0 || in.Delay > MaxDelay {
+			return &ModelError{Part: part + " dead time", Problem: strconv.Itoa(in.Delay) + " samples is outside 0.." + strconv.Itoa(MaxDelay) + " (a dead time counts whole samples of delay, B^b with b >= 0)"}
+		}
+		for _, p := range []struct {
+			p    Poly
+			what string
+		}{{in.Diff, "differencing"}, {in.Num, "numerator"}, {in.Den, "denominator"}} {
+			if err := modelCheckPoly(p.p, part+" "+p.what); err != nil {
+				return err
+			}
+		}
+	}
+	if m.Noise != nil {
+		if err := modelCheckPoly(m.Noise.MA, "noise MA"); err != nil {
+			return err
+		}
+		if err := modelCheckPoly(m.Noise.AR, "noise AR"); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// modelCheckPoly checks one polynomial for Validate.
+func modelCheckPoly(p Poly, part string) error {
+	deg := 0
+	for i, f := range p.Factors {
+		fp := part + ", factor " + strconv.Itoa(i+1)
+		if f.Exp < 1 || f.Exp > MaxDegree {
+			return &ModelError{Part: fp, Problem: "power " + strconv.Itoa(f.Exp) + " is outside 1.." + strconv.Itoa(MaxDegree) +
+				" (a factor written once has Exp 1; leave a factor out rather than give it power 0)"}
+		}
+		top := 0
+		for _, t := range f.Terms {
+			if t.Power < 0 || t.Power > MaxDegree {
+				return &ModelError{Part: fp, Problem: "power of B " + strconv.Itoa(t.Power) + " is outside 0.." + strconv.Itoa(MaxDegree)}
+			}
+			if v := t.Coef.Value; math.IsNaN(v) || math.IsInf(v, 0) {
+				return &ModelError{Part: fp, Problem: "coefficient " + modelCoefName(t.Coef) + " of B^" + strconv.Itoa(t.Power) +
+					" is " + strconv.FormatFloat(v, 'g', -1, 64) + ", not finite"}
+			}
+			top = max(top, t.Power)
+		}
+		deg += top * f.Exp
+		if deg > MaxDegree {
+			return &ModelError{Part: part, Problem: "degree " + strconv.Itoa(deg) + " (up to factor " + strconv.Itoa(i+1) + ") is over the limit of " + strconv.Itoa(MaxDegree)}
+		}
+	}
+	return nil
+}
+
+// modelCoefName names a coefficient for a message: its name, or "(a
+// number)" for a fixed one.
+func modelCoefName(c Coef) string {
+	if c.Name != "" {
+		return c.Name
+	}
+	return "(a number)"
 }

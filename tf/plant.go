@@ -2,6 +2,7 @@ package tf
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/backshift/backshift/internal/filter"
 )
@@ -27,8 +28,12 @@ import (
 // A Plant is not safe for concurrent use; use Clone to give each
 // goroutine its own copy.
 type Plant struct {
-	st filter.Stream // by value: one pointer less per step
-	r  Rational
+	st  filter.Stream // by value: one pointer less per step
+	r   Rational
+	t   int // steps since NewPlant, Reset, SetSteady or SetHistory
+	bad int // 1 + the step of the first non-finite output, 0 for none (Err)
+	// badU and badY are the input and output of that step.
+	badU, badY float64
 }
 
 // NewPlant returns a Plant for r at rest.
@@ -41,13 +46,48 @@ func NewPlant(r Rational) *Plant {
 func (p *Plant) Rational() Rational { return p.r }
 
 // Step applies the input u at the current sample and returns the output
-// at that sample, then advances time by one sample. Non-finite inputs are
-// not checked here (that would cost time in a hot loop); they propagate
-// into the output and the state until Reset or SetSteady.
-func (p *Plant) Step(u float64) float64 { return p.st.Step(u) }
+// at that sample, then advances time by one sample. Inputs are not
+// checked here (that would cost time in a hot loop); a non-finite input,
+// or an unstable term or large inputs that overflow float64, propagate
+// into the output and the state until Reset, SetSteady or SetHistory.
+// The first output that is NaN or infinite is recorded for Err (one
+// comparison a step).
+func (p *Plant) Step(u float64) float64 {
+	y := p.st.Step(u)
+	p.t++
+	if y-y != 0 && p.bad == 0 { // NaN or infinite (Inf - Inf is NaN)
+		p.bad, p.badU, p.badY = p.t, u, y
+	}
+	return y
+}
 
-// Reset returns the plant to rest: all past inputs and outputs zero.
-func (p *Plant) Reset() { p.st.Reset() }
+// Err returns nil while every output of Step has been finite since
+// NewPlant, Reset, SetSteady or SetHistory (which clear it), and
+// otherwise a *SimError for the first that was not (Part "plant", a
+// Problem naming the 0-based step counted from the last of those, the
+// value and the cause: a non-finite input, an unstable term, or inputs
+// too large for float64).
+func (p *Plant) Err() error {
+	if p.bad == 0 {
+		return nil
+	}
+	u, y := p.badU, p.badY
+	why := "float64 overflowed: the inputs are too large"
+	switch {
+	case u-u != 0:
+		why = "the input sample is " + strconv.FormatFloat(u, 'g', -1, 64)
+	case !p.r.Stable():
+		why = "float64 overflowed: the term is unstable (a pole on or outside the unit circle) and grew without bound"
+	}
+	return &SimError{Part: "plant", Problem: "step " + strconv.Itoa(p.bad-1) + " gave " + strconv.FormatFloat(y, 'g', -1, 64) + ": " + why}
+}
+
+// Reset returns the plant to rest: all past inputs and outputs zero. It
+// clears Err and the step count.
+func (p *Plant) Reset() {
+	p.st.Reset()
+	p.t, p.bad = 0, 0
+}
 
 // SetSteady puts the plant at the steady state of the constant input u:
 // every past input equal to u and every past output equal to Gain()*u, so
@@ -65,6 +105,7 @@ func (p *Plant) SetSteady(u float64) error {
 	}
 	xh, yh := ratSteadyHistory(p.r, u, g*u)
 	p.st.SetHistory(xh, yh)
+	p.t, p.bad = 0, 0
 	return nil
 }
 
@@ -82,6 +123,7 @@ func (p *Plant) SetHistory(pastInput, pastOutput []float64) error {
 		return err
 	}
 	p.st.SetHistory(pastInput, pastOutput)
+	p.t, p.bad = 0, 0
 	return nil
 }
 
@@ -95,7 +137,7 @@ func (p *Plant) Feedthrough() bool {
 // Clone returns an independent copy of p in its current state (one
 // allocation of the state buffers).
 func (p *Plant) Clone() *Plant {
-	return &Plant{r: p.r, st: *p.st.Clone()}
+	return &Plant{r: p.r, st: *p.st.Clone(), t: p.t, bad: p.bad, badU: p.badU, badY: p.badY}
 }
 
 // ratSteadyHistory returns the b+s past inputs equal to u and r past

@@ -1,6 +1,7 @@
 package tf
 
 import (
+	"errors"
 	"math"
 	"strconv"
 )
@@ -21,30 +22,43 @@ const MaxBurnIn = 1 << 24
 //
 // for the input series given by name (every input of m; other series in
 // inputs are ignored; all the same length n, which is the length of the
-// result). Every coefficient is taken at its Value. Pre-sample values of
-// the inputs, the innovations and the output are zero, unless s.Steady
-// starts the input paths at the steady state of their first samples and
-// s.BurnIn warms up the noise. The innovations are s.Innovations, or
-// Gaussian draws of standard deviation s.Sigma from the seeded source
-// (none when Sigma is 0); s may be nil for a noise-free run from rest.
-// Neither m nor the input series are modified.
+// result). Every coefficient is taken at its Value.
 //
-// Simulate gives exactly the outputs of a System fed the same samples,
-// and, for a model without differencing or noise, exactly the sum of
-// c and each input's Rational().Filter.
+// The record starts settled by default, as Fit assumes (see Fit,
+// "Residuals and conditioning"): each input is taken as held at its
+// first sample x_0 before the record, so an undifferenced input's term
+// starts at its steady output Gain() x_0 and a differenced input's
+// difference starts at zero (System.SetSteady with the first samples).
+// Simulating and then fitting with the defaults therefore agree.
+// s.FromRest takes every pre-sample input as zero instead (a start-up
+// transient when an input is far from zero). The output differencing and
+// the noise start from rest, unless s.BurnIn warms up the noise. The
+// innovations are s.Innovations, or Gaussian draws of standard deviation
+// s.Sigma from the seeded source (none when Sigma is 0); s may be nil for
+// the defaults, a noise-free run. Neither m nor the input series are
+// modified.
 //
-// Errors: an *ArgError for BurnIn above MaxBurnIn (when Innovations is
-// nil); those of NewSystem; a *SimError for a missing input series,
-// series of different lengths, Innovations of the wrong length, Steady
-// for an input path without a steady state, or an output sample that
-// comes out NaN or infinite (Part "output <name>"; the noise scale, the
-// innovations, the inputs or an unstable term overflowed float64, for
-// example Sigma near 1e308); a *SampleError naming the series and index
-// of a NaN or infinite sample.
+// Simulate gives exactly the outputs of a System fed the same samples
+// (after SetSteady with the first samples, unless FromRest), and, for a
+// model without differencing or noise run FromRest, exactly the sum of c
+// and each input's Rational().Filter.
+//
+// Errors: an *ArgError from SimSettings.Validate (naming the field); a
+// *ModelError from Model.Validate; those of NewSystem; a *SimError for a
+// missing input series, series of different lengths, Innovations of the
+// wrong length, an input term with a pole at z = 1 (an integrator) whose
+// first sample is not zero, so that it has no settled start (use
+// FromRest), or an output sample that comes out NaN or infinite (Part
+// "output <name>"; the noise scale, the innovations, the inputs or an
+// unstable term overflowed float64, for example Sigma near 1e308); a
+// *SampleError naming the series and index of a NaN or infinite sample.
 func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64, error) {
 	var set SimSettings
 	if s != nil {
 		set = *s
+	}
+	if err := set.Validate(); err != nil {
+		return nil, err
 	}
 	if set.Innovations != nil {
 		set.Sigma, set.BurnIn = 0, 0
@@ -87,11 +101,16 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 		return y, nil
 	}
 	u := make([]float64, len(xs))
-	if set.Steady {
+	if !set.FromRest {
 		for i, x := range xs {
 			u[i] = x[0]
 		}
 		if err := sys.SetSteady(u); err != nil {
+			var se *SimError
+			if errors.As(err, &se) && se.Err != nil {
+				se.Problem += " (its first sample is " + strconv.FormatFloat(se.level, 'g', -1, 64) +
+					", and Simulate starts each input settled at its first sample by default); set SimSettings.FromRest to start from rest, or write the integration as differencing of the output"
+			}
 			return nil, err
 		}
 	}

@@ -55,7 +55,7 @@ func TestSimulateScipyWholeModel(t *testing.T) {
 			t.Errorf("%s: %v", c.Name, err)
 			continue
 		}
-		s := &tf.SimSettings{}
+		s := &tf.SimSettings{FromRest: true} // scipy's lfilter starts from rest
 		if m.Noise != nil {
 			s.Innovations = c.Innovations
 		}
@@ -137,14 +137,14 @@ func TestStepScipyGolden(t *testing.T) {
 		for i := range ones {
 			ones[i] = 1
 		}
-		y, err := m.Simulate(map[string][]float64{"x": ones}, nil)
+		y, err := m.Simulate(map[string][]float64{"x": ones}, &tf.SimSettings{FromRest: true}) // scipy starts from rest
 		if err != nil {
 			t.Fatal(err)
 		}
 		if ok, i := simClose(y, g.Step, tol); !ok {
 			t.Errorf("%s: step[%d] = %v, scipy %v", g.Name, i, y[i], g.Step[i])
 		}
-		y, err = m.Simulate(map[string][]float64{"x": g.Input}, nil)
+		y, err = m.Simulate(map[string][]float64{"x": g.Input}, &tf.SimSettings{FromRest: true})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -195,7 +195,7 @@ func TestSimulateMatchesHandBuilt(t *testing.T) {
 		x[i], z[i] = rng.NormFloat64(), 10+rng.NormFloat64()
 	}
 	x0 := append([]float64(nil), x...)
-	y, err := m.Simulate(map[string][]float64{"x": x, "z": z, "unused": {1}}, nil)
+	y, err := m.Simulate(map[string][]float64{"x": x, "z": z, "unused": {1}}, &tf.SimSettings{FromRest: true}) // Filter starts from rest
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -366,8 +366,9 @@ func TestSimulateErrors(t *testing.T) {
 	}
 	nan := m.Clone()
 	nan.Inputs[0].Num.Factors[0].Terms[0].Coef.Value = math.NaN()
-	var ce *tf.CoefError
-	if _, err := nan.Simulate(map[string][]float64{"x": ok, "z": ok}, nil); !errors.As(err, &se) || se.Part != "input x" || !errors.As(err, &ce) {
+	var me *tf.ModelError
+	if _, err := nan.Simulate(map[string][]float64{"x": ok, "z": ok}, nil); !errors.As(err, &me) || me.Part != `input "x" numerator, factor 1` ||
+		!strings.Contains(err.Error(), "is NaN, not finite") {
 		t.Errorf("NaN coefficient: %v", err)
 	}
 }
@@ -510,7 +511,7 @@ func TestNewSystemBurnInLimit(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) u + (1 - 0.3 B) a")
 	var ae *tf.ArgError
 	_, err := tf.NewSystem(m, &tf.SimSettings{Sigma: 1, BurnIn: tf.MaxBurnIn + 1})
-	if !errors.As(err, &ae) || ae.Arg != "BurnIn" {
+	if !errors.As(err, &ae) || ae.Arg != "SimSettings.BurnIn" {
 		t.Fatalf("BurnIn = MaxBurnIn+1: err = %v, want *ArgError for BurnIn", err)
 	}
 }

@@ -4,34 +4,78 @@ import (
 	"math"
 	"math/rand/v2"
 	"strconv"
+	"strings"
 )
 
-// SimSettings tunes Model.Simulate and NewSystem. The zero value gives a
-// noise-free run from rest (all pre-sample values zero).
+// SimSettings tunes Model.Simulate and NewSystem. The zero value (or a
+// nil pointer) gives a noise-free run of a record that starts settled
+// (Model.Simulate) or a system at rest (NewSystem); see FromRest.
+//
+// Rule for the numbers: zero means the default and a negative value is
+// an error (Validate names the field).
 type SimSettings struct {
 	// Seed1 and Seed2 seed the PCG source (math/rand/v2) of the Gaussian
-	// innovations a_t; equal seeds give equal series.
+	// innovations a_t; equal seeds give equal series. Every value is
+	// valid.
 	Seed1, Seed2 uint64
 	// Sigma is the standard deviation of the innovations a_t. Zero (the
 	// default) draws no noise: the output is the deterministic part of
-	// the model. A positive Sigma needs a model with a noise term.
+	// the model. A positive Sigma needs a model with a noise term. It
+	// must be finite.
 	Sigma float64
 	// BurnIn is the number of innovations drawn and run through the
 	// noise filter theta(B)/phi(B) before the first sample, so that the
 	// noise starts near its stationary state instead of from rest. Zero
-	// means none. A positive BurnIn needs a stationary noise model (AR
-	// poles strictly inside the unit circle).
+	// means none; at most MaxBurnIn. A positive BurnIn needs a
+	// stationary noise model (AR poles strictly inside the unit circle).
 	BurnIn int
-	// Steady, for Model.Simulate, starts each input path at the steady
-	// state of that input's first sample, as if the input had been
-	// constant at x_0 before the record (see System.SetSteady). Without
-	// it pre-sample inputs are zero, which gives a start-up transient when
-	// the inputs are far from zero.
+	// FromRest, for Model.Simulate, starts every input path from rest:
+	// inputs before the record are zero, which gives a start-up
+	// transient when an input is far from zero. By default (FromRest
+	// false) Model.Simulate starts each input path at the steady state
+	// of its first sample x_0, as if the input had been held at x_0
+	// before the record (see System.SetSteady): an undifferenced input's
+	// term starts at its steady output Gain() x_0, and a differenced
+	// input's pre-sample values are x_0, so that its difference starts
+	// at zero. That is the record Fit assumes by default (see Fit,
+	// "Residuals and conditioning"), so that simulating and then fitting
+	// with the defaults agree; FromRest matches Fit with
+	// FitSettings.ZeroPreSample only for inputs without differencing. A
+	// System from NewSystem always starts at rest (it does not know the
+	// first input before the first Step); call System.SetSteady with the
+	// first input samples to start it settled.
+	FromRest bool
+	// Steady is the former opt-in to a settled start, now the default of
+	// Model.Simulate; it has no effect.
+	//
+	// Deprecated: leave it out (a settled start is the default); setting
+	// it together with FromRest is an error.
 	Steady bool
 	// Innovations, for Model.Simulate, when not nil, is the innovation
 	// series a_t itself (one value per sample), used instead of Gaussian
-	// draws; Sigma, the seeds and BurnIn are then ignored.
+	// draws; Sigma, the seeds and BurnIn are then ignored. Every value
+	// must be finite. NewSystem ignores it.
 	Innovations []float64
+}
+
+// Validate checks the settings by the rules documented on each field and
+// returns an *ArgError naming the field ("SimSettings.Sigma") or a
+// *SampleError for a NaN or infinite innovation (Series "innovations"),
+// or nil.
+func (s SimSettings) Validate() error {
+	if !(s.Sigma >= 0) || math.IsInf(s.Sigma, 0) {
+		return &ArgError{Arg: "SimSettings.Sigma", Value: s.Sigma, Rule: "must be finite and >= 0 (0, the default, draws no noise)"}
+	}
+	if s.BurnIn < 0 {
+		return &ArgError{Arg: "SimSettings.BurnIn", Value: float64(s.BurnIn), Rule: "must be >= 0 (0, the default, runs no burn-in)"}
+	}
+	if s.BurnIn > MaxBurnIn && s.Innovations == nil {
+		return &ArgError{Arg: "SimSettings.BurnIn", Value: float64(s.BurnIn), Rule: "must be at most tf.MaxBurnIn (" + strconv.Itoa(MaxBurnIn) + " draws)"}
+	}
+	if s.Steady && s.FromRest {
+		return &ArgError{Arg: "SimSettings.Steady", Value: 1, Rule: "contradicts FromRest: a settled start is the default, so leave Steady out and set FromRest only to start from rest"}
+	}
+	return simCheck("innovations", s.Innovations)
 }
 
 // SimError reports a model or data that cannot be simulated: Part names
@@ -42,6 +86,7 @@ type SimError struct {
 	Part    string
 	Problem string
 	Err     error
+	level   float64 // the steady input refused by System.SetSteady
 }
 
 // Error describes the problem in one line.
@@ -64,61 +109,75 @@ func (e *SimError) Unwrap() error { return e.Err }
 // (the differencing D_i as one Plant, then the rational term as
 // another), the noise is a Plant on seeded Gaussian innovations, and the
 // output differencing is undone by integrating through 1/D(B), all from
-// rest unless SetSteady is called. Every coefficient is taken at its
-// Value. A Step does no allocation and costs O(total degree) operations;
-// Model.Simulate gives the same numbers in one call.
+// rest unless SetSteady is called. (Model.Simulate and Fit start each
+// input path settled at its first sample by default; a System cannot know
+// the first sample before the first Step, so it starts at rest, and
+// SetSteady with the first samples gives their settled start.) Every
+// coefficient is taken at its Value. A Step does no allocation and costs
+// O(total degree) operations; Model.Simulate gives the same numbers in
+// one call.
+//
+// Step has no error result: a step whose output is NaN or infinite
+// (a non-finite input sample, an unstable term or large inputs or noise
+// that overflow float64) is recorded, and Err reports the first one with
+// its step index. Check Err after a run, or whenever an output is not
+// finite.
 //
 // A System is not safe for concurrent use; use Clone to give each
 // goroutine its own copy.
 type System struct {
-	names []string
-	diff  []*Plant // nil where the input is not differenced
-	path  []*Plant
-	noise *Plant // nil for a noise-free model
-	integ *Plant // nil when the output is not differenced
-	c     float64
-	sigma float64
-	burn  int
-	seed1 uint64
-	seed2 uint64
-	src   *rand.PCG
-	rng   *rand.Rand
+	names  []string
+	output string
+	diff   []*Plant // nil where the input is not differenced
+	path   []*Plant
+	noise  *Plant // nil for a noise-free model
+	integ  *Plant // nil when the output is not differenced
+	c      float64
+	sigma  float64
+	burn   int
+	seed1  uint64
+	seed2  uint64
+	src    *rand.PCG
+	rng    *rand.Rand
+	t      int   // steps since NewSystem or Reset
+	err    error // the first non-finite output (Err)
 }
 
 // NewSystem returns a System for m at rest (after the noise burn-in, when
 // s asks for one); s may be nil for the defaults. The model is copied.
 //
-// Errors: a *SimError for a model with no inputs, a coefficient that
-// makes a polynomial invalid (wrapping NewRational's *CoefError or
-// *DelayError), Sigma > 0 without a noise term, or BurnIn > 0 with a
-// noise model that is not stationary; an *ArgError for a negative or
-// non-finite Sigma or a BurnIn that is negative or above MaxBurnIn.
+// Errors: a *ModelError for a model that Model.Validate refuses (a
+// factor power below 1, a negative dead time, ...); a *SimError for a
+// model with no inputs, a coefficient that makes a polynomial invalid
+// (wrapping NewRational's *CoefError or *DelayError), Sigma > 0 without a
+// noise term, or BurnIn > 0 with a noise model that is not stationary;
+// an *ArgError from SimSettings.Validate (a negative or non-finite Sigma,
+// a BurnIn that is negative or above MaxBurnIn, Steady with FromRest).
 func NewSystem(m Model, s *SimSettings) (*System, error) {
 	var set SimSettings
 	if s != nil {
 		set = *s
 	}
-	if !(set.Sigma >= 0) || math.IsInf(set.Sigma, 0) {
-		return nil, &ArgError{Arg: "Sigma", Value: set.Sigma, Rule: "must be finite and >= 0"}
+	set.Innovations = nil // not used by a System
+	if err := set.Validate(); err != nil {
+		return nil, err
 	}
-	if set.BurnIn < 0 {
-		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be >= 0"}
-	}
-	if set.BurnIn > MaxBurnIn {
-		return nil, &ArgError{Arg: "BurnIn", Value: float64(set.BurnIn), Rule: "must be at most tf.MaxBurnIn (" + strconv.Itoa(MaxBurnIn) + " draws)"}
+	if err := m.Validate(); err != nil {
+		return nil, err
 	}
 	if len(m.Inputs) == 0 {
 		return nil, &SimError{Part: "model " + m.Output, Problem: "has no input term"}
 	}
 	sys := &System{
-		names: make([]string, len(m.Inputs)),
-		diff:  make([]*Plant, len(m.Inputs)),
-		path:  make([]*Plant, len(m.Inputs)),
-		c:     m.ConstValue(),
-		sigma: set.Sigma,
-		burn:  set.BurnIn,
-		seed1: set.Seed1,
-		seed2: set.Seed2,
+		names:  make([]string, len(m.Inputs)),
+		output: m.Output,
+		diff:   make([]*Plant, len(m.Inputs)),
+		path:   make([]*Plant, len(m.Inputs)),
+		c:      m.ConstValue(),
+		sigma:  set.Sigma,
+		burn:   set.BurnIn,
+		seed1:  set.Seed1,
+		seed2:  set.Seed2,
 	}
 	if math.IsNaN(sys.c) || math.IsInf(sys.c, 0) {
 		return nil, &SimError{Part: "constant", Problem: "is " + strconv.FormatFloat(sys.c, 'g', -1, 64)}
@@ -170,7 +229,9 @@ func (s *System) Inputs() []string { return append([]string(nil), s.names...) }
 // Inputs) at the current sample, draws the innovation a_t = Sigma * N(0,
 // 1) and returns the output y_t, then advances time by one sample. It
 // panics when len(u) differs from the number of inputs (a programmer
-// error). Non-finite samples are not checked (see Plant.Step).
+// error). Inputs are not checked one by one (that would cost time in a
+// control loop), but an output that is NaN or infinite is: the first such
+// step is kept for Err, and the output is returned as it is.
 func (s *System) Step(u []float64) float64 {
 	a := 0.0
 	if s.sigma > 0 {
@@ -185,26 +246,76 @@ func (s *System) StepWith(u []float64, a float64) float64 {
 	if len(u) != len(s.path) {
 		panic("tf: System.Step: got " + strconv.Itoa(len(u)) + " input samples for " + strconv.Itoa(len(s.path)) + " inputs")
 	}
+	// The plants' streams are stepped directly: the System checks its
+	// own output once instead of each plant its own.
 	w := s.c
 	for i, p := range s.path {
 		x := u[i]
 		if d := s.diff[i]; d != nil {
-			x = d.Step(x)
+			x = d.st.Step(x)
 		}
-		w += p.Step(x)
+		w += p.st.Step(x)
 	}
 	if s.noise != nil {
-		w += s.noise.Step(a)
+		w += s.noise.st.Step(a)
 	}
 	if s.integ != nil {
-		return s.integ.Step(w)
+		w = s.integ.st.Step(w)
 	}
+	if w-w != 0 && s.err == nil { // NaN or infinite (Inf - Inf is NaN)
+		s.err = s.overflow(u, a, w)
+	}
+	s.t++
 	return w
 }
 
+// Err returns nil while every output since NewSystem or the last Reset
+// has been finite, and otherwise a *SimError for the first that was not:
+// Part "output <name>", and a Problem naming the step (0-based, counted
+// from NewSystem or Reset), the value, and what overflowed (a non-finite
+// input sample or innovation, an unstable input or noise term, or inputs
+// or a noise scale too large for float64). The error stays until Reset;
+// the outputs after it are not meaningful.
+func (s *System) Err() error { return s.err }
+
+// overflow describes the non-finite output y of step s.t for Err.
+func (s *System) overflow(u []float64, a, y float64) error {
+	why := ""
+	for i, x := range u {
+		if x-x != 0 {
+			why = "input sample of " + strconv.Quote(s.names[i]) + " is " + strconv.FormatFloat(x, 'g', -1, 64)
+			break
+		}
+	}
+	if why == "" && a-a != 0 {
+		why = "the innovation is " + strconv.FormatFloat(a, 'g', -1, 64)
+	}
+	if why == "" {
+		var unstable []string
+		for i, p := range s.path {
+			if !p.Rational().Stable() {
+				unstable = append(unstable, "input "+strconv.Quote(s.names[i]))
+			}
+		}
+		if s.noise != nil && !s.noise.Rational().Stable() {
+			unstable = append(unstable, "the noise")
+		}
+		switch {
+		case len(unstable) > 0:
+			why = "float64 overflowed: the term of " + strings.Join(unstable, ", ") + " is unstable (a pole on or outside the unit circle) and grew without bound"
+		case s.sigma > 0:
+			why = "float64 overflowed: the inputs or the noise scale Sigma = " + strconv.FormatFloat(s.sigma, 'g', -1, 64) + " are too large"
+		default:
+			why = "float64 overflowed: the inputs are too large"
+		}
+	}
+	return &SimError{Part: "output " + s.output, Problem: "step " + strconv.Itoa(s.t) + " gave " + strconv.FormatFloat(y, 'g', -1, 64) + ": " + why}
+}
+
 // Reset returns the system to its state after NewSystem: every plant at
-// rest, the innovation source reseeded and the burn-in run again, so
-// that the same inputs give the same outputs.
+// rest, the innovation source reseeded and the burn-in run again, the
+// step count and Err cleared, so that the same inputs give the same
+// outputs.
 func (s *System) Reset() {
 	for i, p := range s.path {
 		p.Reset()
@@ -215,6 +326,7 @@ func (s *System) Reset() {
 	if s.integ != nil {
 		s.integ.Reset()
 	}
+	s.t, s.err = 0, nil
 	s.src = rand.NewPCG(s.seed1, s.seed2)
 	s.rng = rand.New(s.src)
 	if s.noise != nil {
@@ -253,7 +365,7 @@ func (s *System) SetSteady(u []float64) error {
 		}
 		if level[i] != 0 {
 			if _, err := s.path[i].Rational().Gain(); err != nil {
-				return &SimError{Part: "input " + s.names[i], Problem: "has no steady state for a non-zero input", Err: err}
+				return &SimError{Part: "input " + s.names[i], Problem: "has a pole at z = 1 (an integrator), so no steady state for a non-zero input", Err: err, level: x}
 			}
 		}
 	}
