@@ -63,7 +63,6 @@ func TestSettingsValidate(t *testing.T) {
 		{tf.SimSettings{Sigma: math.Inf(1)}, "SimSettings.Sigma", "must be finite and >= 0"},
 		{tf.SimSettings{BurnIn: -1}, "SimSettings.BurnIn", "must be >= 0"},
 		{tf.SimSettings{BurnIn: tf.MaxBurnIn + 1}, "SimSettings.BurnIn", "must be at most tf.MaxBurnIn"},
-		{tf.SimSettings{Steady: true, FromRest: true}, "SimSettings.Steady", "contradicts FromRest"},
 	}
 	noisy := parse.MustModel("y = 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a")
 	for _, tc := range sim {

@@ -183,7 +183,7 @@ func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
 		}
 	}
 	if len(badSE) > 0 {
-		add(BadStandardError, badSE, "the standard error of %s is not available (NaN, infinite or zero): the estimate's precision is unknown", strings.Join(badSE, ", "))
+		add(BadStandardError, badSE, "the standard error of %s is not available (not a finite positive number): the estimate's precision is unknown", strings.Join(badSE, ", "))
 	}
 	k := len(e.Params)
 	if need := max(fitFewMin, fitFewPerParam*k); e.N < need {

@@ -28,7 +28,7 @@ func ExampleFit() {
 		}
 		power[i] = level
 	}
-	temp, err := truth.Simulate(map[string][]float64{"power": power}, &tf.SimSettings{Seed1: 3, Seed2: 4, Sigma: 0.2, BurnIn: 100, Steady: true})
+	temp, err := truth.Simulate(map[string][]float64{"power": power}, &tf.SimSettings{Seed1: 3, Seed2: 4, Sigma: 0.2, BurnIn: 100})
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -311,12 +311,12 @@ func TestSystemStreaming(t *testing.T) {
 			t.Fatalf("steady step %d = %v, want %v", i, v, want)
 		}
 	}
-	// Steady start in Simulate removes the start-up transient.
+	// The default settled start of Simulate has no start-up transient.
 	x := []float64{4, 4, 4, 4, 4}
-	y, _ := m2.Simulate(map[string][]float64{"valve": x, "feed": x}, &tf.SimSettings{Steady: true})
+	y, _ := m2.Simulate(map[string][]float64{"valve": x, "feed": x}, nil)
 	for i, v := range y {
 		if math.Abs(v-want) > 1e-12 {
-			t.Errorf("Steady Simulate y[%d] = %v, want %v", i, v, want)
+			t.Errorf("settled Simulate y[%d] = %v, want %v", i, v, want)
 		}
 	}
 	// An integrating path has no steady state for a non-zero input.
@@ -442,7 +442,7 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 	a := []float64{0.1, -0.2, 0.3, 0, 0, 0.5, -0.1, 0.2}
 	x0, z0, a0 := append([]float64(nil), x...), append([]float64(nil), z...), append([]float64(nil), a...)
 	inputs := map[string][]float64{"x": x, "z": z}
-	y1, err := m.Simulate(inputs, &tf.SimSettings{Innovations: a, Steady: true})
+	y1, err := m.Simulate(inputs, &tf.SimSettings{Innovations: a})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -454,7 +454,7 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 	if !m.Equal(m0) || len(inputs) != 2 || !slices.Equal(x, x0) || !slices.Equal(z, z0) || !slices.Equal(a, a0) {
 		t.Fatal("Simulate or NewSystem modified the model, the input map, a series or the innovations")
 	}
-	y2, err := m.Simulate(inputs, &tf.SimSettings{Innovations: a, Steady: true})
+	y2, err := m.Simulate(inputs, &tf.SimSettings{Innovations: a})
 	if err != nil || !slices.Equal(y1, y2) {
 		t.Fatalf("second run differs: %v", err)
 	}

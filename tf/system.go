@@ -45,12 +45,6 @@ type SimSettings struct {
 	// first input before the first Step); call System.SetSteady with the
 	// first input samples to start it settled.
 	FromRest bool
-	// Steady is the former opt-in to a settled start, now the default of
-	// Model.Simulate; it has no effect.
-	//
-	// Deprecated: leave it out (a settled start is the default); setting
-	// it together with FromRest is an error.
-	Steady bool
 	// Innovations, for Model.Simulate, when not nil, is the innovation
 	// series a_t itself (one value per sample), used instead of Gaussian
 	// draws; Sigma, the seeds and BurnIn are then ignored. Every value
@@ -71,9 +65,6 @@ func (s SimSettings) Validate() error {
 	}
 	if s.BurnIn > MaxBurnIn && s.Innovations == nil {
 		return &ArgError{Arg: "SimSettings.BurnIn", Value: float64(s.BurnIn), Rule: "must be at most tf.MaxBurnIn (" + strconv.Itoa(MaxBurnIn) + " draws)"}
-	}
-	if s.Steady && s.FromRest {
-		return &ArgError{Arg: "SimSettings.Steady", Value: 1, Rule: "contradicts FromRest: a settled start is the default, so leave Steady out and set FromRest only to start from rest"}
 	}
 	return simCheck("innovations", s.Innovations)
 }
@@ -152,7 +143,7 @@ type System struct {
 // (wrapping NewRational's *CoefError or *DelayError), Sigma > 0 without a
 // noise term, or BurnIn > 0 with a noise model that is not stationary;
 // an *ArgError from SimSettings.Validate (a negative or non-finite Sigma,
-// a BurnIn that is negative or above MaxBurnIn, Steady with FromRest).
+// a BurnIn that is negative or above MaxBurnIn).
 func NewSystem(m Model, s *SimSettings) (*System, error) {
 	var set SimSettings
 	if s != nil {

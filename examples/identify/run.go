@@ -605,7 +605,7 @@ type Simulation struct {
 func simulate(est *tf.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation, error) {
 	m := est.Model.Clone()
 	m.Noise = nil
-	y, err := m.Simulate(ds.data, &tf.SimSettings{Steady: true})
+	y, err := m.Simulate(ds.data, nil)
 	if err != nil {
 		// An unstable or otherwise failed model: the report goes on
 		// without the simulation.
