@@ -1,5 +1,7 @@
 package tf
 
+import "strconv"
+
 // Numeric views of the symbolic model: the polynomials of a Model or an
 // Input expanded to coefficients in ascending powers of B, every
 // coefficient at its Value (a free coefficient at its start value or
@@ -11,19 +13,32 @@ package tf
 //
 // with every coefficient at its Value. The input's differencing is not
 // part of it: the term acts on the differenced series Diff(B) x_t (see
-// DiffCoeffs). It returns NewRational's errors (*CoefError for a NaN or
-// infinite value, a denominator whose constant term is zero or a degree
-// above MaxDegree; *DelayError for a dead time outside 0..MaxDelay).
+// DiffCoeffs). It returns a *ModelError for a polynomial that
+// Model.Validate refuses (a factor power below 1, a negative power of B,
+// a degree above MaxDegree), and NewRational's errors (*CoefError for a
+// NaN or infinite value or a denominator whose constant term is zero;
+// *DelayError for a dead time outside 0..MaxDelay).
 func (in Input) Rational() (Rational, error) {
+	part := "input " + strconv.Quote(in.Series)
+	if err := modelCheckPoly(in.Num, part+" numerator"); err != nil {
+		return Rational{}, err
+	}
+	if err := modelCheckPoly(in.Den, part+" denominator"); err != nil {
+		return Rational{}, err
+	}
 	return NewRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
 }
 
 // DiffCoeffs returns the expanded differencing of the input series,
-// {1} when it is not differenced; for example {1, -1} for (1 - B).
+// {1} when it is not differenced; for example {1, -1} for (1 - B). The
+// polynomial must be one that Model.Validate accepts: a factor power
+// below 0 or a negative power of B is a programmer error and panics.
 func (in Input) DiffCoeffs() []float64 { return in.Diff.Coeffs() }
 
 // DiffCoeffs returns the expanded differencing D(B) of the output, {1}
-// when it is not differenced; for example {1, -2, 1} for (1 - B)^2.
+// when it is not differenced; for example {1, -2, 1} for (1 - B)^2. As
+// for Input.DiffCoeffs, the polynomial must be one that Model.Validate
+// accepts.
 func (m Model) DiffCoeffs() []float64 { return m.Diff.Coeffs() }
 
 // ConstValue returns the value of the constant c, 0 when the model has
@@ -38,7 +53,8 @@ func (m Model) ConstValue() float64 {
 // NoiseCoeffs returns the expanded noise polynomials theta(B) (ma) and
 // phi(B) (ar), each with constant term 1 as written, and ok = true; for
 // a noise-free model (Noise nil) it returns nil, nil, false. White noise
-// gives {1}, {1}.
+// gives {1}, {1}. The polynomials must be ones that Model.Validate
+// accepts (a negative power panics).
 func (m Model) NoiseCoeffs() (ma, ar []float64, ok bool) {
 	if m.Noise == nil {
 		return nil, nil, false
@@ -49,10 +65,17 @@ func (m Model) NoiseCoeffs() (ma, ar []float64, ok bool) {
 // NoiseRational returns the noise filter theta(B) / phi(B) (dead time
 // 0) as a Rational, for its psi weights (Impulse), poles (the AR roots
 // in the z-plane) and stationarity (Stable). A noise-free model (Noise
-// nil) gives the zero Rational. Errors are NewRational's.
+// nil) gives the zero Rational. Errors: a *ModelError for a polynomial
+// that Model.Validate refuses, and NewRational's.
 func (m Model) NoiseRational() (Rational, error) {
 	if m.Noise == nil {
 		return Rational{}, nil
+	}
+	if err := modelCheckPoly(m.Noise.MA, "noise MA"); err != nil {
+		return Rational{}, err
+	}
+	if err := modelCheckPoly(m.Noise.AR, "noise AR"); err != nil {
+		return Rational{}, err
 	}
 	return NewRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
 }

@@ -230,12 +230,15 @@ func (in Input) prAppend(b *strings.Builder) {
 		prFactor(b, f)
 		n++
 	}
-	if in.Delay > 0 {
+	if in.Delay != 0 {
+		// A negative dead time (refused by Model.Validate) prints as
+		// written, B^-1, so that the text shows the fault instead of
+		// dropping it; parse refuses it when read back.
 		if n > 0 {
 			b.WriteByte(' ')
 		}
 		b.WriteByte('B')
-		if in.Delay > 1 {
+		if in.Delay != 1 {
 			b.WriteByte('^')
 			b.WriteString(strconv.Itoa(in.Delay))
 		}
