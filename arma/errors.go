@@ -90,6 +90,24 @@ func (e *ConvergenceError) Error() string {
 	return fmt.Sprintf("arma: fit not converged after %d iterations: %s", e.Iter, e.Reason)
 }
 
+// InternalError reports a panic inside a goroutine that the library
+// started (Select runs its fits on worker goroutines). A panic there
+// would end the caller's whole process, so each worker recovers it into
+// this error as a last line of defence. It is always a bug in backshift,
+// never a problem of the data: please report it with the call that
+// caused it. Op says what was running, Value is the recovered panic
+// value and Stack the goroutine's stack at the panic.
+type InternalError struct {
+	Op    string
+	Value any
+	Stack string
+}
+
+// Error implements the error interface.
+func (e *InternalError) Error() string {
+	return fmt.Sprintf("arma: internal error in %s: %v (a bug in backshift, not a problem of the data: please report it with the call that caused it)", e.Op, e.Value)
+}
+
 // checkFinite returns a *DataError for the first NaN, infinite or
 // too large (|v| > MaxAbs) sample.
 func checkFinite(name string, x []float64) error {

@@ -958,9 +958,13 @@ func schurStable(a []float64) bool {
 	if m == 0 {
 		return true
 	}
+	// The stack buffer serves degrees up to 32; the size is checked
+	// before slicing (slicing first panicked for every degree above 32).
 	var buf [2][33]float64
-	cur, nxt := buf[0][:m+1], buf[1][:m+1]
-	if m > 32 {
+	var cur, nxt []float64
+	if m < len(buf[0]) {
+		cur, nxt = buf[0][:m+1], buf[1][:m+1]
+	} else {
 		cur, nxt = make([]float64, m+1), make([]float64, m+1)
 	}
 	for j := 0; j <= m; j++ {
