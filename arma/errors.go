@@ -108,6 +108,28 @@ func (e *InternalError) Error() string {
 	return fmt.Sprintf("arma: internal error in %s: %v (a bug in backshift, not a problem of the data: please report it with the call that caused it)", e.Op, e.Value)
 }
 
+// RootError reports that the roots of a model polynomial could not be
+// computed, so that its stationarity (Part "AR") or invertibility (Part
+// "MA") cannot be judged. Poly writes the polynomial's factor ("phi(B)"
+// or the seasonal "Phi(B^s)", "theta(B)", "Theta(B^s)") and Reason says
+// what failed. It comes from coefficients of extreme size (beyond about
+// 1e150, where the root finder's arithmetic overflows); no stationary or
+// invertible polynomial has them.
+type RootError struct {
+	Part   string
+	Poly   string
+	Reason string
+}
+
+// Error implements the error interface.
+func (e *RootError) Error() string {
+	what := "stationarity"
+	if e.Part == "MA" {
+		what = "invertibility"
+	}
+	return fmt.Sprintf("arma: the roots of the %s polynomial %s could not be computed (%s), so its %s cannot be judged; coefficients of this size belong to no stationary or invertible model: check their scale", e.Part, e.Poly, e.Reason, what)
+}
+
 // checkFinite returns a *DataError for the first NaN, infinite or
 // too large (|v| > MaxAbs) sample.
 func checkFinite(name string, x []float64) error {

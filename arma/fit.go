@@ -75,7 +75,8 @@ type Options struct {
 
 // Boundary flags a fitted polynomial with z-plane roots on or outside the
 // unit circle: modulus at least 1 - 1e-6. Part is "AR" (not stationary)
-// or "MA" (not invertible).
+// or "MA" (not invertible). Roots is nil when the root finder failed on
+// the polynomial (coefficients of extreme size), which is flagged too.
 type Boundary struct {
 	Part  string
 	Roots []complex128
@@ -623,7 +624,10 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		name string
 		c    []float64
 	}{{"AR", res.AR}, {"MA", res.MA}} {
-		if bad, err := outside(part.c, 1e-6); err == nil && len(bad) > 0 {
+		bad, err := outside(part.c, 1e-6)
+		if err != nil || len(bad) > 0 {
+			// Roots that cannot be computed are flagged too (Roots nil):
+			// the polynomial cannot be shown to be inside.
 			res.Boundary = append(res.Boundary, Boundary{Part: part.name, Roots: bad})
 		}
 	}

@@ -2,8 +2,14 @@ package arma
 
 import (
 	"context"
+	"errors"
 	"math"
+	"math/cmplx"
+	"sort"
+	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/poly"
 )
 
 // TestHighDegreeMA: every MA polynomial of degree above 32 panicked in
@@ -63,5 +69,75 @@ func TestHighDegreeMA(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestRootsOfHugeFactors: MA(1) x seasonal MA(1) with coefficients 1e200
+// expands to a B^3 coefficient of 1e400, which overflows float64; the
+// root finder then failed and Invertible returned the untyped
+// "poly: root finding failed". The roots are now found per factor:
+// theta(B) = 1 - 1e200 B has its z-plane root at 1e200 and Theta(B^2) =
+// 1 - 1e200 B^2 at z = +-1e100 (by hand: z^2 = 1e200).
+func TestRootsOfHugeFactors(t *testing.T) {
+	m := Model{MA: []float64{1e200}, SMA: []float64{1e200}, AR: []float64{-1e200}, SAR: []float64{1e200}, Period: 2}
+	for _, part := range []string{"AR", "MA"} {
+		var ok bool
+		var bad []complex128
+		var err error
+		if part == "AR" {
+			ok, bad, err = m.Stationary()
+		} else {
+			ok, bad, err = m.Invertible()
+		}
+		if err != nil || ok || len(bad) != 3 {
+			t.Fatalf("%s: %v %v %v, want false with 3 roots", part, ok, bad, err)
+		}
+		mods := []float64{cmplx.Abs(bad[0]), cmplx.Abs(bad[1]), cmplx.Abs(bad[2])}
+		sort.Float64s(mods)
+		// Relative 1e-12: the roots of a linear factor are one division;
+		// the square root adds a rounding or two.
+		for k, want := range []float64{1e100, 1e100, 1e200} {
+			if math.Abs(mods[k]/want-1) > 1e-12 {
+				t.Errorf("%s root moduli %v, want 1e100, 1e100, 1e200", part, mods)
+			}
+		}
+	}
+	// Simulation names the non-stationary AR part instead of a root
+	// finder failure.
+	if _, err := Simulate(m, 10, nil); err == nil || !strings.Contains(err.Error(), "AR part not stationary") {
+		t.Errorf("Simulate: %v", err)
+	}
+	// A failure of the root finder itself (not reachable with finite
+	// coefficients of degree <= MaxLag in 21500 random trials over
+	// magnitudes 1e-323..1e307) is a *RootError naming the factor.
+	err := rootError("MA", true, poly.ErrRoots)
+	var re *RootError
+	if !errors.As(err, &re) || re.Poly != "Theta(B^s)" {
+		t.Fatalf("%T %v", err, err)
+	}
+	for _, w := range []string{"MA polynomial Theta(B^s)", "invertibility", "check their scale"} {
+		if !strings.Contains(err.Error(), w) {
+			t.Errorf("%q lacks %q", err, w)
+		}
+	}
+	if strings.Contains(err.Error(), "poly:") {
+		t.Errorf("%q uses the internal package's name", err)
+	}
+}
+
+// TestWeightsOfHugeFactors: psi and pi weights of a model whose factors
+// expand beyond float64 blamed "ar" for an overflowing MA product; the
+// error now names the expanded polynomial.
+func TestWeightsOfHugeFactors(t *testing.T) {
+	m := Model{MA: []float64{1e200}, SMA: []float64{1e200}, Period: 2}
+	for name, f := range map[string]func() error{
+		"Psi": func() error { _, err := m.Psi(4); return err },
+		"Pi":  func() error { _, err := m.Pi(4); return err },
+	} {
+		err := f()
+		var ae *ArgError
+		if !errors.As(err, &ae) || ae.Arg != "MA" || !strings.Contains(err.Error(), "theta(B)Theta(B^s) overflows") {
+			t.Errorf("%s: %T %v", name, err, err)
+		}
 	}
 }

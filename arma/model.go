@@ -3,6 +3,7 @@ package arma
 import (
 	"fmt"
 	"math"
+	"math/cmplx"
 
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
@@ -141,9 +142,12 @@ func diffPoly(d, sd, s int) []float64 {
 
 // Stationary reports whether every z-plane root of phi(z^-1) Phi(z^-s)
 // lies strictly inside the unit circle, and returns the offending roots
-// (|z| >= 1) otherwise. The differencing is not part of this check. It
-// returns false and an *ArgError for invalid orders (see ARPoly) or a NaN
-// or infinite coefficient, and an error when the root finder fails.
+// (|z| >= 1) otherwise. The differencing is not part of this check. The
+// roots are found factor by factor (those of Phi(B^s) are the s-th roots
+// of those of Phi(B)), so that coefficients whose expanded product would
+// overflow float64 are still judged. It returns false and an *ArgError
+// for invalid orders (see ARPoly) or a NaN or infinite coefficient, and a
+// *RootError naming the polynomial when its roots cannot be computed.
 func (m Model) Stationary() (bool, []complex128, error) {
 	if err := m.Order().validate(); err != nil {
 		return false, nil, err
@@ -151,7 +155,7 @@ func (m Model) Stationary() (bool, []complex128, error) {
 	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
 		return false, nil, err
 	}
-	bad, err := outside(m.arPoly(), 0)
+	bad, err := factorOutside("AR", m.AR, m.SAR, max(m.Period, 1))
 	return err == nil && len(bad) == 0, bad, err
 }
 
@@ -165,8 +169,43 @@ func (m Model) Invertible() (bool, []complex128, error) {
 	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
 		return false, nil, err
 	}
-	bad, err := outside(m.maPoly(), 0)
+	bad, err := factorOutside("MA", m.MA, m.SMA, max(m.Period, 1))
 	return err == nil && len(bad) == 0, bad, err
+}
+
+// factorOutside returns the z-plane roots with |z| >= 1 of
+// (1 - sum c_k B^k)(1 - sum sc_k B^(k s)), found per factor: when u is a
+// z-plane root of the seasonal factor in B, its s roots in z are the s-th
+// roots of u. part ("AR" or "MA") names the polynomial in a *RootError.
+func factorOutside(part string, c, sc []float64, s int) ([]complex128, error) {
+	var bad []complex128
+	if len(c) > 0 {
+		zs, err := zRoots(lagPoly(c, 1))
+		if err != nil {
+			return nil, rootError(part, false, err)
+		}
+		for _, z := range zs {
+			if cmplx.Abs(z) >= 1 {
+				bad = append(bad, z)
+			}
+		}
+	}
+	if len(sc) > 0 {
+		us, err := zRoots(lagPoly(sc, 1))
+		if err != nil {
+			return nil, rootError(part, true, err)
+		}
+		for _, u := range us {
+			if cmplx.Abs(u) < 1 {
+				continue
+			}
+			r := math.Pow(cmplx.Abs(u), 1/float64(s))
+			for k := 0; k < s; k++ {
+				bad = append(bad, cmplx.Rect(r, (cmplx.Phase(u)+2*math.Pi*float64(k))/float64(s)))
+			}
+		}
+	}
+	return bad, nil
 }
 
 // Psi returns the first n psi weights of the model including its
@@ -178,7 +217,31 @@ func (m Model) Psi(n int) ([]float64, error) {
 	if err := m.Order().validate(); err != nil {
 		return nil, err
 	}
+	if err := m.expandedFinite(); err != nil {
+		return nil, err
+	}
 	return Psi(poly.Mul(m.arPoly(), diffPoly(m.D, m.SD, m.Period)), m.maPoly(), n)
+}
+
+// expandedFinite returns an *ArgError naming the part when a coefficient
+// is not finite or the product of the ordinary and seasonal factors
+// overflows float64 (factors of finite but huge coefficients).
+func (m Model) expandedFinite() error {
+	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
+		return err
+	}
+	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
+		return err
+	}
+	for _, p := range []struct {
+		part, text string
+		c          []float64
+	}{{"AR", "phi(B)Phi(B^s)", m.arPoly()}, {"MA", "theta(B)Theta(B^s)", m.maPoly()}} {
+		if firstNonFinite(p.c) >= 0 {
+			return &ArgError{Arg: p.part, Msg: "the expanded polynomial " + p.text + " overflows float64: coefficients far too large"}
+		}
+	}
+	return nil
 }
 
 // Pi returns the first n pi weights of the stationary part (differencing
@@ -186,6 +249,9 @@ func (m Model) Psi(n int) ([]float64, error) {
 // Errors as for Model.Psi.
 func (m Model) Pi(n int) ([]float64, error) {
 	if err := m.Order().validate(); err != nil {
+		return nil, err
+	}
+	if err := m.expandedFinite(); err != nil {
 		return nil, err
 	}
 	return Pi(m.arPoly(), m.maPoly(), n)

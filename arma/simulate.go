@@ -70,8 +70,11 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 		a = append([]float64(nil), set.Innovations...)
 	} else {
 		if set.BurnIn >= 0 {
-			bad, err := outside(ar, 0)
-			if err != nil || len(bad) > 0 {
+			ok, bad, err := m.Stationary()
+			if err != nil {
+				return nil, err
+			}
+			if !ok {
 				return nil, &ArgError{Arg: "model", Msg: "AR part not stationary (z-plane roots " + rootList(bad) + "); use BurnIn < 0"}
 			}
 			burn = set.BurnIn
