@@ -27,6 +27,12 @@ func (o Order) String() string {
 	return fmt.Sprintf("(%d,%d,%d)x(%d,%d,%d)_%d", o.P, o.D, o.Q, o.SP, o.SD, o.SQ, o.Period)
 }
 
+// Validate returns an *ArgError (Arg "order") for a negative order, a
+// seasonal part without Period >= 2, or an expanded AR, MA or
+// differencing polynomial of degree above MaxLag; nil otherwise. Fit,
+// Select and every Model method check it.
+func (o Order) Validate() error { return o.validate() }
+
 func (o Order) validate() error {
 	if o.P < 0 || o.D < 0 || o.Q < 0 || o.SP < 0 || o.SD < 0 || o.SQ < 0 {
 		return &ArgError{Arg: "order", Msg: "orders must not be negative: " + o.String()}
