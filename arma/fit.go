@@ -285,35 +285,16 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		o = *opt
 	}
 	n := len(y)
+	if err := o.Validate(); err != nil {
+		return nil, err
+	}
 	if err := checkFinite(o.Name, y); err != nil {
 		return nil, err
 	}
 	for k, x := range o.X {
 		if len(x) != n {
-			return nil, &ArgError{Arg: "X", Msg: "regressor " + itoa(k+1) + " has length " + itoa(len(x)) + ", the series " + itoa(n)}
+			return nil, &ArgError{Arg: "Options.X", Msg: "regressor " + xName(o, k) + " has " + itoa(len(x)) + " samples, " + seriesName(o.Name) + " has " + itoa(n)}
 		}
-		if err := checkFinite(xName(o, k), x); err != nil {
-			return nil, err
-		}
-	}
-	for _, m := range []map[string]float64{o.Fixed, o.Init} {
-		for nm, v := range m {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return nil, &ArgError{Arg: "Fixed/Init", Msg: "value of " + nm + " must be finite"}
-			}
-		}
-	}
-	if o.MaxIter < 0 {
-		return nil, &ArgError{Arg: "MaxIter", Msg: "must not be negative (zero means the default)"}
-	}
-	if !(o.Tol >= 0 && o.Tol < 1) {
-		return nil, &ArgError{Arg: "Tol", Msg: "must be in [0, 1) (zero means the default)"}
-	}
-	if o.Mean < MeanAuto || o.Mean > MeanFree {
-		return nil, &ArgError{Arg: "Mean", Msg: "unknown MeanMode " + itoa(int(o.Mean))}
-	}
-	if len(o.XNames) != 0 && len(o.XNames) != len(o.X) {
-		return nil, &ArgError{Arg: "XNames", Msg: "needs one name per regressor"}
 	}
 	e := &engine{n: n, ar: noise.AR, ma: noise.MA, index: map[string]int{}, kmu: -1, one: []float64{1}}
 	// Collect the free ARMA coefficients in written order.
@@ -367,7 +348,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	e.t0 = dd + degAR
 	if o.Start != 0 {
 		if o.Start < e.t0 {
-			return nil, &ArgError{Arg: "Start", Msg: "must be at least " + itoa(e.t0) + " (AR degree plus differencing)"}
+			return nil, &ArgError{Arg: "Options.Start", Msg: "must be at least " + itoa(e.t0) + " (AR degree plus differencing)"}
 		}
 		e.t0 = o.Start
 	}
@@ -387,7 +368,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	for k := range o.X {
 		nm := xName(o, k)
 		if _, dup := e.index[nm]; dup || nm == "mean" {
-			return nil, &ArgError{Arg: "XNames", Msg: "name " + nm + " used twice"}
+			return nil, &ArgError{Arg: "Options.XNames", Msg: "name " + nm + " is also a coefficient of the noise model"}
 		}
 		e.index[nm] = -1
 		if v, ok := o.Fixed[nm]; ok {
@@ -401,7 +382,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	for nm := range o.Fixed {
 		if !fixedUsed[nm] {
-			return nil, &ArgError{Arg: "Fixed", Msg: "no parameter named " + nm}
+			return nil, &ArgError{Arg: "Options.Fixed", Msg: "no parameter named " + nm}
 		}
 	}
 	np := len(names)
@@ -457,7 +438,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			}
 		}
 		if !ok || k < 0 {
-			return nil, &ArgError{Arg: "Init", Msg: "no free parameter named " + nm}
+			return nil, &ArgError{Arg: "Options.Init", Msg: "no free parameter named " + nm}
 		}
 		if k == e.kmu {
 			v -= e.shift

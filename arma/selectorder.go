@@ -49,7 +49,7 @@ type Grid struct {
 	// Criterion ranks the candidates (default ByAICc).
 	Criterion Criterion
 	// Workers bounds the number of fits run at once; zero means
-	// runtime.GOMAXPROCS(0).
+	// runtime.GOMAXPROCS(0), negative is an *ArgError.
 	Workers int
 }
 
@@ -76,8 +76,8 @@ type Candidate struct {
 // start of the grid (MaxP + SP*Period + D + SD*Period), or opt.Start if
 // larger.
 //
-// The error is an *ArgError for an invalid grid (negative orders, an
-// unknown Criterion), the *DataError of Fit for a NaN, infinite or too
+// The error is an *ArgError for an invalid grid or options (Grid.Validate,
+// Options.Validate), the *DataError of Fit for a NaN, infinite or too
 // large sample (no candidate is fitted), ctx's error when ctx is done
 // (candidates fitted so far are still returned), and, when no candidate
 // produced a result at all (a series too short or constant, for example),
@@ -89,14 +89,10 @@ func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	if g.MaxP < 0 || g.MaxQ < 0 {
-		return nil, &ArgError{Arg: "grid", Msg: "MaxP and MaxQ must not be negative"}
+	if err := g.Validate(); err != nil {
+		return nil, err
 	}
-	if g.Criterion < ByAICc || g.Criterion > ByAIC {
-		return nil, &ArgError{Arg: "grid", Msg: "unknown Criterion " + itoa(int(g.Criterion))}
-	}
-	top := Order{P: g.MaxP, D: g.D, Q: g.MaxQ, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}
-	if err := top.validate(); err != nil {
+	if err := opt.Validate(); err != nil {
 		return nil, err
 	}
 	var o Options
