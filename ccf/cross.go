@@ -1,6 +1,7 @@
 package ccf
 
 import (
+	"fmt"
 	"math"
 	"strconv"
 )
@@ -129,6 +130,9 @@ func normalQuantile(p float64) float64 {
 // (BenchmarkCrossover: about 250 lags with the AVX2/FMA kernel, 25 in pure
 // Go). Both agree with the definition to 1e-12 in r (tested).
 func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
 	names := s.names()
 	if err := validatePair(x, y, maxLag, names); err != nil {
 		return nil, err
@@ -167,15 +171,35 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 				return nil, err
 			}
 		}
-		return nil, &ArgError{Arg: names[0] + ", " + names[1], Value: "samples whose squares overflow", Want: "magnitudes below about 1e150"}
+		// Finite samples whose squares overflow: name the first sample of
+		// either series at or beyond sqrt(MaxFloat64/n), where a sum of
+		// n such squares can overflow.
+		lim := math.Sqrt(math.MaxFloat64 / float64(n))
+		for i, v := range [2][]float64{x, y} {
+			for k, a := range v {
+				if math.Abs(a) >= lim {
+					return nil, &ValueError{Name: names[i], Index: k, Value: a,
+						Want: fmt.Sprintf("a magnitude below %.3g (the sum of %d squares overflows float64 beyond it); rescale the series", lim, n)}
+				}
+			}
+		}
+		return nil, &ArgError{Arg: names[0] + ", " + names[1], Value: "samples whose sums of squares overflow", Want: fmt.Sprintf("magnitudes below about %.3g; rescale the series", lim)}
 	}
 	fn := float64(n)
 	c.SDX, c.SDY = math.Sqrt(sxx/fn), math.Sqrt(syy/fn)
 	if sxx < minSumSquares || syy < minSumSquares {
 		// Deviations so small that their squares lose precision or
 		// vanish: the normalisation would be wrong or infinite.
-		return nil, &ArgError{Arg: names[0] + ", " + names[1], Value: "deviations from the mean whose squares underflow",
-			Want: "standard deviations above about 1e-140"}
+		i, v, m := 0, x, c.MeanX
+		if sxx >= minSumSquares {
+			i, v, m = 1, y, c.MeanY
+		}
+		dev := 0.0
+		for _, a := range v {
+			dev = math.Max(dev, math.Abs(a-m))
+		}
+		return nil, &ArgError{Arg: "series " + strconv.Quote(names[i]), Value: fmt.Sprintf("deviations from its mean of at most %.3g", dev),
+			Want: "deviations above about 1e-140 (smaller ones lose their squares to underflow); rescale the series"}
 	}
 	// Square roots taken separately: the product sxx*syy can overflow
 	// or underflow where each factor does not.
