@@ -46,17 +46,26 @@ func (e *ShortError) Error() string {
 }
 
 // ConstantError reports a series whose samples are all equal (zero
-// variance after removing the mean), so that correlations and fits are
-// undefined.
+// variance after removing the mean), or all equal after the model's
+// differencing Diff (a straight line under (1 - B)), so that
+// correlations and fits are undefined. Value is the common value (of
+// the differenced series when Diff is not empty).
 type ConstantError struct {
 	Series string
 	N      int
+	Value  float64
+	// Diff is the differencing as text, "(1 - B)", empty for none.
+	Diff string
 }
 
 // Error implements the error interface.
 func (e *ConstantError) Error() string {
 	name := seriesName(e.Series)
-	return fmt.Sprintf("arma: %s is constant over its %d samples", name, e.N)
+	v := strconv.FormatFloat(e.Value, 'g', 6, 64)
+	if e.Diff != "" {
+		return fmt.Sprintf("arma: %s is constant after the differencing %s (every differenced sample is %s over its %d samples): its levels lie on a line or repeat; use less differencing", name, e.Diff, v, e.N)
+	}
+	return fmt.Sprintf("arma: %s is constant (every sample is %s over its %d samples)", name, v, e.N)
 }
 
 // ArgError reports an invalid argument that depends on the caller's
