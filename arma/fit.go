@@ -516,7 +516,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		prob := lm.Problem{M: e.m, N: np, Eval: e.eval}
 		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
-			return nil, &ArgError{Arg: "start", Msg: err.Error()}
+			// The residuals at the start point overflow (the only failure
+			// of the optimiser's start with a valid problem).
+			return nil, &ArgError{Arg: "start values", Msg: "the residuals of " + seriesName(o.Name) + " at the start values are not finite: an Options.Init or Options.Fixed value, or a coefficient value of the noise model, is too large for the series' scale"}
 		}
 	}
 	// Newton polish with the exact Hessian (after convergence only): in

@@ -155,3 +155,19 @@ func TestForecastHostile(t *testing.T) {
 		t.Errorf("nil result: %v", err)
 	}
 }
+
+// TestStartOverflowMessage: start values whose residuals overflow gave
+// "arma: start: lm: residuals cannot be computed at the start point: sum
+// of squares is +Inf", the optimiser's internal wording; the message
+// now names the series and the settings to look at.
+func TestStartOverflowMessage(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 100, &SimSettings{Seed1: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Fit(context.Background(), y, Order{P: 1, Q: 1}, &Options{Name: "flow", Init: map[string]float64{"phi1": 1e200}, AllowNonInvertible: true})
+	var ae *ArgError
+	if !errors.As(err, &ae) || !strings.Contains(err.Error(), "residuals of flow at the start values are not finite") || strings.Contains(err.Error(), "lm:") {
+		t.Errorf("%T %v", err, err)
+	}
+}

@@ -55,8 +55,8 @@ func weights(den, num []float64, n int, which string) ([]float64, error) {
 		}
 	}
 	w, err := poly.Divide(num, den, n)
-	if err != nil {
-		return nil, err
+	if err != nil { // not reached: den[0] != 0 was checked above
+		return nil, &ArgError{Arg: which, Msg: "constant term must be non-zero"}
 	}
 	if k := firstNonFinite(w); k >= 0 {
 		return nil, &ArgError{Arg: which, Msg: "weight " + itoa(k) + " overflows (roots far outside the unit circle); ask for fewer than " + itoa(k) + " weights"}

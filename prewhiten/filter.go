@@ -250,7 +250,9 @@ func num(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
 // *ValueError for NaN/Inf (with the index), *ShortError when the
 // differenced series has fewer than MaxOrder+2 samples (at least 3),
 // *ConstantError when x is constant, or constant after its
-// differencing; the errors of arma.Fit for s.Order otherwise. x is not
+// differencing; the errors of arma.Fit for s.Order otherwise. When the
+// fit of s.Order stopped without converging, the filter from its best
+// point is returned together with the *arma.ConvergenceError. x is not
 // modified.
 func Fit(x []float64, s *Settings) (Filter, error) {
 	if err := s.Validate(); err != nil {
@@ -298,7 +300,11 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 		}
 		m := res.Model
 		set.ARMA, set.Diff = &m, diff
-		return fromARMA(x, name, set, "Settings.Order")
+		f, ferr := fromARMA(x, name, set, "Settings.Order")
+		if ferr != nil {
+			return Filter{}, ferr
+		}
+		return f, err // nil, or the fit's *arma.ConvergenceError
 	}
 	if set.ARMA != nil {
 		return fromARMA(x, name, set, "Settings.ARMA")

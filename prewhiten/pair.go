@@ -1,6 +1,7 @@
 package prewhiten
 
 import (
+	"errors"
 	"math"
 	"strconv"
 
@@ -37,7 +38,10 @@ type Result struct {
 // whitens, is the common case.
 //
 // When the final filter still fails the test, Pair returns the complete
-// result together with a *NotWhiteError (use errors.As); all other errors
+// result together with a *NotWhiteError (use errors.As); when it is the
+// filter of Settings.Order and its fit did not converge, the result comes
+// with the *arma.ConvergenceError (joined with a *NotWhiteError when
+// both apply); all other errors
 // come with a nil result: *LengthError, *ValueError naming "x"/"y" or the
 // names given (Settings.Name for x, yName for y), *ShortError,
 // *ConstantError (x or y constant, x constant after its differencing),
@@ -65,14 +69,16 @@ func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 		level = 0.01
 	}
 	f, err := Fit(x, s)
+	var convErr error // the caller's Order fitted without converging
 	if err != nil {
-		return nil, err
+		var cv *arma.ConvergenceError
+		if !errors.As(err, &cv) {
+			return nil, err
+		}
+		convErr = err
 	}
 	if isConstant(y) {
 		return nil, &ConstantError{Name: yName, Value: y[0]}
-	}
-	if err != nil {
-		return nil, err
 	}
 	res, err := pairWith(f, x, y, name, yName, set.Lags, level)
 	if err != nil {
@@ -96,13 +102,18 @@ func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 			}
 			if r.Check.P > res.Check.P {
 				res = r
+				convErr = nil
 			}
 		}
 	}
 	if !res.White {
-		return res, &NotWhiteError{Name: name, Q: res.Check.Q, DF: res.Check.DF, P: res.Check.P, Lags: res.Check.Lags, Level: level}
+		nw := &NotWhiteError{Name: name, Q: res.Check.Q, DF: res.Check.DF, P: res.Check.P, Lags: res.Check.Lags, Level: level}
+		if convErr != nil {
+			return res, errors.Join(nw, convErr)
+		}
+		return res, nw
 	}
-	return res, nil
+	return res, convErr
 }
 
 // pairWith applies f to x and y and tests the filtered x.

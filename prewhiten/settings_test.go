@@ -276,3 +276,30 @@ func TestIdentifyNoiseHighMA(t *testing.T) {
 		}
 	}
 }
+
+// TestOrderNotConverged: a Settings.Order fit that stopped without
+// converging was used as the filter without a word. Fit now returns the
+// filter of the best point with the *arma.ConvergenceError, and Pair
+// returns its result with that error. The series (seed 291 of a random
+// walk of 40 samples with an over-parameterised ARIMA(3,1,3)) was found
+// by search to stop at the iteration limit.
+func TestOrderNotConverged(t *testing.T) {
+	rng := rand.New(rand.NewPCG(291, 1))
+	x := make([]float64, 40)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		if i > 0 {
+			x[i] += x[i-1]
+		}
+	}
+	s := &prewhiten.Settings{Order: &arma.Order{P: 3, D: 1, Q: 3}}
+	f, err := prewhiten.Fit(x, s)
+	var cv *arma.ConvergenceError
+	if !errors.As(err, &cv) || len(f.AR) != 4 || len(f.MA) != 4 {
+		t.Fatalf("Fit: %v %v, want the filter with an *arma.ConvergenceError", f, err)
+	}
+	res, err := prewhiten.Pair(x, walk(40, 9), "y", s)
+	if !errors.As(err, &cv) || res == nil {
+		t.Errorf("Pair: %v %v, want the result with an *arma.ConvergenceError", res, err)
+	}
+}
