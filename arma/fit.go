@@ -400,8 +400,10 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	np := len(names)
 	e.m = n - e.t0
-	if e.m < np+1 || e.m < 1 {
-		return nil, &ShortError{Series: o.Name, N: n, Need: addSat(e.t0, np+1), What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
+	// At least two residuals: a single differenced sample would be
+	// reported as "constant".
+	if e.m < np+1 || e.m < 2 {
+		return nil, &ShortError{Series: o.Name, N: n, Need: addSat(e.t0, max(np+1, 2)), What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
 	}
 	// Differenced series and free regressor columns.
 	z := append([]float64(nil), y...)

@@ -2,6 +2,7 @@ package arma
 
 import (
 	"context"
+	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -101,6 +102,12 @@ func TestConstantMessage(t *testing.T) {
 	want = "arma: level is constant (every sample is 0.3 over its 100 samples)"
 	if err == nil || err.Error() != want {
 		t.Errorf("flat: %v, want %q", err, want)
+	}
+	// Two samples under (1 - B) leave one: too short, not "constant".
+	_, err = Fit(context.Background(), []float64{1, 2}, Order{D: 1}, &Options{Name: "level"})
+	var se *ShortError
+	if !errors.As(err, &se) || se.Need != 3 {
+		t.Errorf("two samples, D = 1: %T %v, want a *ShortError needing 3", err, err)
 	}
 	_, err = Fit(context.Background(), line, Order{SD: 1, Period: 4}, &Options{Name: "level"})
 	if err == nil || !strings.Contains(err.Error(), "after the differencing (1 - B^4) (every differenced sample is 2 ") {
