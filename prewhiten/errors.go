@@ -2,19 +2,29 @@ package prewhiten
 
 import (
 	"fmt"
+	"math"
 	"strconv"
+
+	"github.com/backshift/backshift/arma"
 )
 
-// ValueError reports a NaN or infinite sample: series Name at Index (0 =
-// oldest) holds Value.
+// ValueError reports a NaN or infinite sample, or one larger in
+// magnitude than arma.MaxAbs (Want then says so): series Name at Index
+// (0 = oldest) holds Value.
 type ValueError struct {
 	Name  string
 	Index int
 	Value float64
+	// Want, when not empty, says what the series allows; it is empty for
+	// a NaN or infinite sample.
+	Want string
 }
 
 // Error describes the problem in one line, naming the series and values involved.
 func (e *ValueError) Error() string {
+	if e.Want != "" {
+		return fmt.Sprintf("prewhiten: series %q has %v at index %d, want %s", e.Name, e.Value, e.Index, e.Want)
+	}
 	return fmt.Sprintf("prewhiten: series %q has %v at index %d", e.Name, e.Value, e.Index)
 }
 
@@ -106,10 +116,16 @@ func (e *NotWhiteError) Error() string {
 		e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
 }
 
+// checkSeries returns a *ValueError for the first NaN, infinite or too
+// large sample (|v| > arma.MaxAbs, whose squares in the correlations and
+// fits could overflow).
 func checkSeries(name string, x []float64) error {
 	for i, v := range x {
 		if v-v != 0 {
 			return &ValueError{Name: name, Index: i, Value: v}
+		}
+		if math.Abs(v) > arma.MaxAbs {
+			return &ValueError{Name: name, Index: i, Value: v, Want: "a magnitude at most arma.MaxAbs = 1e140 (larger squares can overflow); rescale the series"}
 		}
 	}
 	return nil

@@ -269,7 +269,10 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 	if d := len(set.Diff) - 1; d > 0 && d+3 > len(x) {
 		return Filter{}, &ShortError{Name: name, Len: len(x), Need: d + 3, Why: "for the differencing " + strconv.Quote(polyText(set.Diff))}
 	}
-	if len(x) > 0 && isConstant(x) {
+	if len(x) < 3 {
+		return Filter{}, &ShortError{Name: name, Len: len(x), Need: 3, Why: "for a prewhitening filter"}
+	}
+	if isConstant(x) {
 		return Filter{}, &ConstantError{Name: name, Value: x[0]}
 	}
 	if set.Order != nil {
