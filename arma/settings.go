@@ -94,15 +94,15 @@ func (s *SimSettings) Validate() error {
 }
 
 // Validate checks every field of g on its own and returns an *ArgError
-// naming the first bad field: a negative MaxP, MaxQ, D, SP, SD, SQ or
-// Workers (zero Workers is the default), a seasonal part without Period
+// naming the first bad field: a negative MaxP, MaxQ, D, SP, SD, SQ,
+// Period or Workers (zero Workers is the default), a seasonal part without Period
 // >= 2, a degree above MaxLag, an unknown Criterion. Select calls it
 // first.
 func (g Grid) Validate() error {
 	for _, f := range []struct {
 		name string
 		v    int
-	}{{"Grid.MaxP", g.MaxP}, {"Grid.MaxQ", g.MaxQ}, {"Grid.D", g.D}, {"Grid.SP", g.SP}, {"Grid.SD", g.SD}, {"Grid.SQ", g.SQ}, {"Grid.Workers", g.Workers}} {
+	}{{"Grid.MaxP", g.MaxP}, {"Grid.MaxQ", g.MaxQ}, {"Grid.D", g.D}, {"Grid.SP", g.SP}, {"Grid.SD", g.SD}, {"Grid.SQ", g.SQ}, {"Grid.Period", g.Period}, {"Grid.Workers", g.Workers}} {
 		if f.v < 0 {
 			return &ArgError{Arg: f.name, Msg: "is " + itoa(f.v) + ", must not be negative"}
 		}

@@ -106,6 +106,7 @@ func TestSettingsValidate(t *testing.T) {
 		{Grid{SD: -1, Period: 4}, "Grid.SD", "must not be negative"},
 		{Grid{SQ: -1, Period: 4}, "Grid.SQ", "must not be negative"},
 		{Grid{SQ: 1, Period: 1}, "Grid", "Period >= 2"},
+		{Grid{Period: -12}, "Grid.Period", "must not be negative"},
 		{Grid{MaxP: MaxLag + 1}, "Grid", "above MaxLag"},
 		{Grid{Criterion: 9}, "Grid.Criterion", "unknown Criterion 9"},
 		{Grid{Workers: -2}, "Grid.Workers", "must not be negative"},

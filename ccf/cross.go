@@ -122,8 +122,12 @@ func normalQuantile(p float64) float64 {
 // maxLag. x and y must have the same length n > maxLag, hold only finite
 // values and not be constant; otherwise Cross returns a *LengthError,
 // *ShortError, *ValueError or *ConstantError naming the series (and the
-// index of a bad value), and a nil *Correlation. A negative maxLag gives
-// an *ArgError. x and y are not modified.
+// index of a bad value), and a nil *Correlation. A sample at or beyond
+// sqrt(MaxFloat64/n) (4.2e153 for n = 10, 1.3e151 for n = 10^6), where a
+// sum of n squares can overflow, is a *ValueError with its index; a series
+// whose deviations from its mean are below about 1e-140 (their squares
+// underflow) an *ArgError naming it. A negative maxLag or bad settings
+// (Settings.Validate) give an *ArgError. x and y are not modified.
 //
 // With Method Auto, Cross sums directly for few lags and uses the blocked
 // FFT for many, at the crossover measured on the development machine
