@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"strconv"
 
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
@@ -301,15 +302,22 @@ func (m Model) validate() error {
 	if err := m.Order().validate(); err != nil {
 		return err
 	}
-	for _, c := range [][]float64{m.AR, m.MA, m.SAR, m.SMA, {m.Mean, m.Sigma2}} {
-		for _, v := range c {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &ArgError{Arg: "model", Msg: "coefficients must be finite"}
-			}
+	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
+		return &ArgError{Arg: "model", Msg: err.(*ArgError).Msg}
+	}
+	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
+		return &ArgError{Arg: "model", Msg: err.(*ArgError).Msg}
+	}
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"Mean", m.Mean}, {"Sigma2", m.Sigma2}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+			return &ArgError{Arg: "model", Msg: "coefficients must be finite: " + f.name + " is " + fmtFloat(f.v)}
 		}
 	}
 	if m.Sigma2 < 0 {
-		return &ArgError{Arg: "model", Msg: "Sigma2 must not be negative"}
+		return &ArgError{Arg: "model", Msg: "Sigma2 must not be negative, got " + fmtFloat(m.Sigma2)}
 	}
 	return nil
 }
@@ -326,13 +334,21 @@ func (m Model) Constant() float64 {
 
 // finiteCoefs returns an *ArgError naming part when a coefficient of any
 // of the slices is NaN or infinite.
+// The message names the slice and index: "AR[1] is NaN" (the seasonal
+// slice, the second of cs, is "SAR" or "SMA").
 func finiteCoefs(part string, cs ...[]float64) error {
-	for _, c := range cs {
-		for _, v := range c {
+	for i, c := range cs {
+		for k, v := range c {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &ArgError{Arg: part, Msg: "coefficients must be finite"}
+				name := part
+				if i > 0 {
+					name = "S" + part
+				}
+				return &ArgError{Arg: part, Msg: "coefficients must be finite: " + name + "[" + itoa(k) + "] is " + fmtFloat(v)}
 			}
 		}
 	}
 	return nil
 }
+
+func fmtFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }

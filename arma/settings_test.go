@@ -126,3 +126,28 @@ func TestSettingsValidate(t *testing.T) {
 }
 
 func second[T any](_ T, err error) error { return err }
+
+// TestModelCoefficientMessages: a NaN or infinite coefficient of a
+// Model was reported as "coefficients must be finite" without saying
+// which; the message now names the slice and index.
+func TestModelCoefficientMessages(t *testing.T) {
+	nan, inf := math.NaN(), math.Inf(1)
+	cases := []struct {
+		name string
+		err  error
+		want string
+	}{
+		{"Simulate SAR", second(Simulate(Model{SAR: []float64{0.1, nan}, Period: 4, Sigma2: 1}, 5, nil)), "SAR[1] is NaN"},
+		{"Simulate Mean", second(Simulate(Model{Mean: inf, Sigma2: 1}, 5, nil)), "Mean is +Inf"},
+		{"Simulate Sigma2", second(Simulate(Model{Sigma2: -2}, 5, nil)), "Sigma2 must not be negative, got -2"},
+		{"Stationary AR", func() error { _, _, err := Model{AR: []float64{inf}}.Stationary(); return err }(), "AR[0] is +Inf"},
+		{"Invertible SMA", func() error { _, _, err := Model{SMA: []float64{nan}, Period: 2}.Invertible(); return err }(), "SMA[0] is NaN"},
+		{"Psi MA", second(Model{MA: []float64{0.2, 0.1, nan}}.Psi(3)), "MA[2] is NaN"},
+	}
+	for _, c := range cases {
+		var ae *ArgError
+		if !errors.As(c.err, &ae) || !strings.Contains(c.err.Error(), c.want) {
+			t.Errorf("%s: %T %v, want %q", c.name, c.err, c.err, c.want)
+		}
+	}
+}
