@@ -299,6 +299,17 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 		}
 		res, err := arma.Fit(context.Background(), w, ord, &arma.Options{Name: name, Mean: arma.MeanFree})
 		if res == nil {
+			// The fit saw the differenced series: report lengths and
+			// indexes of x itself.
+			var se *arma.ShortError
+			var de *arma.DataError
+			switch {
+			case errors.As(err, &se):
+				return Filter{}, &ShortError{Name: name, Len: len(x), Need: se.Need + d, Why: "for the " + ord.String() + " filter after the differencing " + strconv.Quote(polyText(diff))}
+			case errors.As(err, &de):
+				return Filter{}, &ValueError{Name: name, Index: de.Index + d, Value: x[de.Index+d],
+					Want: "differences within arma.MaxAbs = 1e140 (this one is " + strconv.FormatFloat(de.Value, 'g', 4, 64) + "); rescale the series"}
+			}
 			return Filter{}, err
 		}
 		m := res.Model

@@ -303,3 +303,21 @@ func TestOrderNotConverged(t *testing.T) {
 		t.Errorf("Pair: %v %v, want the result with an *arma.ConvergenceError", res, err)
 	}
 }
+
+// TestOrderShortMessage: the ARIMA filter of Settings.Order is fitted to
+// the differenced input, and its length error counted the differenced
+// samples ("x has 5 samples" for 6); it now counts the input's.
+func TestOrderShortMessage(t *testing.T) {
+	x := []float64{1, 3, 2, 5, 4, 7}
+	_, err := prewhiten.Fit(x, &prewhiten.Settings{Name: "valve", Order: &arma.Order{P: 2, D: 1, Q: 2}})
+	var se *prewhiten.ShortError
+	if !errors.As(err, &se) || se.Len != 6 || se.Need != 9 || !strings.Contains(err.Error(), `"valve" has 6 samples`) {
+		t.Errorf("%T %v, want a *ShortError for 6 samples needing 9", err, err)
+	}
+	y := []float64{1, 3, 2, 5, 4, 7, 1e140, -1e140, 3, 4, 2, 1, 5, 6, 2, 3}
+	_, err = prewhiten.Fit(y, &prewhiten.Settings{Name: "valve", Order: &arma.Order{D: 1, Q: 1}})
+	var ve *prewhiten.ValueError
+	if !errors.As(err, &ve) || ve.Index != 7 || !strings.Contains(err.Error(), "-2e+140") {
+		t.Errorf("%T %v, want a *ValueError at index 7", err, err)
+	}
+}
