@@ -53,7 +53,7 @@ func ACF(x []float64, maxLag int) (Correlogram, error) {
 	c := Correlogram{N: n, Cov: make([]float64, maxLag+1)}
 	c.Mean = AutocovTo(c.Cov, x)
 	if !(c.Cov[0] > 0) {
-		return Correlogram{}, &ConstantError{N: n}
+		return Correlogram{}, &ConstantError{N: n, Value: x[0]}
 	}
 	c.R = make([]float64, maxLag+1)
 	for k, v := range c.Cov {

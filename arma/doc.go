@@ -52,5 +52,10 @@
 // recursion of the fit.
 //
 // Functions never modify their inputs, return typed errors (inspect them
-// with errors.As) for bad data and are safe for concurrent use.
+// with errors.As) for bad data and are safe for concurrent use. Every
+// settings struct (Options, SimSettings, Grid) has a Validate method that
+// names the bad field; the functions that take the settings call it
+// first. Select runs its fits on worker goroutines, each of which
+// recovers a panic (a bug) into an *InternalError instead of ending the
+// caller's process.
 package arma

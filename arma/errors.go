@@ -46,17 +46,26 @@ func (e *ShortError) Error() string {
 }
 
 // ConstantError reports a series whose samples are all equal (zero
-// variance after removing the mean), so that correlations and fits are
-// undefined.
+// variance after removing the mean), or all equal after the model's
+// differencing Diff (a straight line under (1 - B)), so that
+// correlations and fits are undefined. Value is the common value (of
+// the differenced series when Diff is not empty).
 type ConstantError struct {
 	Series string
 	N      int
+	Value  float64
+	// Diff is the differencing as text, "(1 - B)", empty for none.
+	Diff string
 }
 
 // Error implements the error interface.
 func (e *ConstantError) Error() string {
 	name := seriesName(e.Series)
-	return fmt.Sprintf("arma: %s is constant over its %d samples", name, e.N)
+	v := strconv.FormatFloat(e.Value, 'g', 6, 64)
+	if e.Diff != "" {
+		return fmt.Sprintf("arma: %s is constant after the differencing %s (every differenced sample is %s over its %d samples): its levels lie on a line or repeat; use less differencing", name, e.Diff, v, e.N)
+	}
+	return fmt.Sprintf("arma: %s is constant (every sample is %s over its %d samples)", name, v, e.N)
 }
 
 // ArgError reports an invalid argument that depends on the caller's
@@ -88,6 +97,46 @@ func (e *ConvergenceError) Unwrap() error { return e.Err }
 // Error implements the error interface.
 func (e *ConvergenceError) Error() string {
 	return fmt.Sprintf("arma: fit not converged after %d iterations: %s", e.Iter, e.Reason)
+}
+
+// InternalError reports a panic inside a goroutine that the library
+// started (Select runs its fits on worker goroutines). A panic there
+// would end the caller's whole process, so each worker recovers it into
+// this error as a last line of defence. It is always a bug in backshift,
+// never a problem of the data: please report it with the call that
+// caused it. Op says what was running, Value is the recovered panic
+// value and Stack the goroutine's stack at the panic.
+type InternalError struct {
+	Op    string
+	Value any
+	Stack string
+}
+
+// Error implements the error interface.
+func (e *InternalError) Error() string {
+	return fmt.Sprintf("arma: internal error in %s: %v (a bug in backshift, not a problem of the data: please report it with the call that caused it)", e.Op, e.Value)
+}
+
+// RootError reports that the roots of a model polynomial could not be
+// computed, so that its stationarity (Part "AR") or invertibility (Part
+// "MA") cannot be judged. Poly writes the polynomial's factor ("phi(B)"
+// or the seasonal "Phi(B^s)", "theta(B)", "Theta(B^s)") and Reason says
+// what failed. It comes from coefficients of extreme size (beyond about
+// 1e150, where the root finder's arithmetic overflows); no stationary or
+// invertible polynomial has them.
+type RootError struct {
+	Part   string
+	Poly   string
+	Reason string
+}
+
+// Error implements the error interface.
+func (e *RootError) Error() string {
+	what := "stationarity"
+	if e.Part == "MA" {
+		what = "invertibility"
+	}
+	return fmt.Sprintf("arma: the roots of the %s polynomial %s could not be computed (%s), so its %s cannot be judged; coefficients of this size belong to no stationary or invertible model: check their scale", e.Part, e.Poly, e.Reason, what)
 }
 
 // checkFinite returns a *DataError for the first NaN, infinite or

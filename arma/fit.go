@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strconv"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -75,7 +76,8 @@ type Options struct {
 
 // Boundary flags a fitted polynomial with z-plane roots on or outside the
 // unit circle: modulus at least 1 - 1e-6. Part is "AR" (not stationary)
-// or "MA" (not invertible).
+// or "MA" (not invertible). Roots is nil when the root finder failed on
+// the polynomial (coefficients of extreme size), which is flagged too.
 type Boundary struct {
 	Part  string
 	Roots []complex128
@@ -111,7 +113,9 @@ type Result struct {
 	// scaling that divides SSQ by the length of the differenced series.
 	SEHessian []float64
 	// Cov and Corr are the covariance and correlation matrices of Est
-	// (nil when J'J is singular).
+	// (nil when J'J is singular). For a series of extreme scale (about
+	// 1e-150) a variance in Cov can underflow to 0; SE and Corr are
+	// computed without that loss.
 	Cov, Corr *mat.SymDense
 	// SSQ is the conditional sum of squares sum_{t >= Start} a_t^2.
 	SSQ float64
@@ -171,9 +175,15 @@ type Result struct {
 // again from zero at Start; for the mean and regressors the right side is
 // -phi*(B) of the (differenced) constant or column.
 //
-// Errors: *ArgError for a bad order or options, *DataError for NaN/Inf
-// in y or X, *ShortError when fewer residuals than parameters + 1
-// remain, *ConstantError when the differenced series is constant, and an
+// The fit works in units of a power of two near the size of the
+// differenced series' deviations (and of each free regressor column), so
+// that its results do not depend on the series' units; the powers of
+// two scale exactly, and every result is reported in the series' units.
+//
+// Errors: *ArgError for a bad order or options (Options.Validate),
+// *DataError for NaN/Inf in y or X, *ShortError when fewer residuals
+// than parameters + 1 remain, *ConstantError when the series is constant,
+// or constant after the differencing (the message says which), and an
 // *ArgError naming the series when the residual sum of squares is 0 (an
 // exact fit, or samples so small that their squares underflow) or
 // overflows, where Sigma2 and the criteria would not be finite. When
@@ -273,6 +283,10 @@ type engine struct {
 	w              []float64   // scratch: current w - mu
 	one            []float64
 	keepInvertible bool // refuse non-invertible MA polynomials in eval
+	// scale is the working unit of the differenced series (a power of
+	// two), pscale[k] that of parameter k (1 for ARMA coefficients).
+	scale  float64
+	pscale []float64
 	// curvature scratch, allocated on first use
 	hr, hlam []float64
 	hjac     [][]float64
@@ -284,35 +298,16 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		o = *opt
 	}
 	n := len(y)
+	if err := o.Validate(); err != nil {
+		return nil, err
+	}
 	if err := checkFinite(o.Name, y); err != nil {
 		return nil, err
 	}
 	for k, x := range o.X {
 		if len(x) != n {
-			return nil, &ArgError{Arg: "X", Msg: "regressor " + itoa(k+1) + " has length " + itoa(len(x)) + ", the series " + itoa(n)}
+			return nil, &ArgError{Arg: "Options.X", Msg: "regressor " + xName(o, k) + " has " + itoa(len(x)) + " samples, " + seriesName(o.Name) + " has " + itoa(n)}
 		}
-		if err := checkFinite(xName(o, k), x); err != nil {
-			return nil, err
-		}
-	}
-	for _, m := range []map[string]float64{o.Fixed, o.Init} {
-		for nm, v := range m {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return nil, &ArgError{Arg: "Fixed/Init", Msg: "value of " + nm + " must be finite"}
-			}
-		}
-	}
-	if o.MaxIter < 0 {
-		return nil, &ArgError{Arg: "MaxIter", Msg: "must not be negative (zero means the default)"}
-	}
-	if !(o.Tol >= 0 && o.Tol < 1) {
-		return nil, &ArgError{Arg: "Tol", Msg: "must be in [0, 1) (zero means the default)"}
-	}
-	if o.Mean < MeanAuto || o.Mean > MeanFree {
-		return nil, &ArgError{Arg: "Mean", Msg: "unknown MeanMode " + itoa(int(o.Mean))}
-	}
-	if len(o.XNames) != 0 && len(o.XNames) != len(o.X) {
-		return nil, &ArgError{Arg: "XNames", Msg: "needs one name per regressor"}
 	}
 	e := &engine{n: n, ar: noise.AR, ma: noise.MA, index: map[string]int{}, kmu: -1, one: []float64{1}}
 	// Collect the free ARMA coefficients in written order.
@@ -366,7 +361,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	e.t0 = dd + degAR
 	if o.Start != 0 {
 		if o.Start < e.t0 {
-			return nil, &ArgError{Arg: "Start", Msg: "must be at least " + itoa(e.t0) + " (AR degree plus differencing)"}
+			return nil, &ArgError{Arg: "Options.Start", Msg: "must be at least " + itoa(e.t0) + " (AR degree plus differencing)"}
 		}
 		e.t0 = o.Start
 	}
@@ -386,7 +381,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	for k := range o.X {
 		nm := xName(o, k)
 		if _, dup := e.index[nm]; dup || nm == "mean" {
-			return nil, &ArgError{Arg: "XNames", Msg: "name " + nm + " used twice"}
+			return nil, &ArgError{Arg: "Options.XNames", Msg: "name " + nm + " is also a coefficient of the noise model"}
 		}
 		e.index[nm] = -1
 		if v, ok := o.Fixed[nm]; ok {
@@ -400,13 +395,15 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	for nm := range o.Fixed {
 		if !fixedUsed[nm] {
-			return nil, &ArgError{Arg: "Fixed", Msg: "no parameter named " + nm}
+			return nil, &ArgError{Arg: "Options.Fixed", Msg: "no parameter named " + nm}
 		}
 	}
 	np := len(names)
 	e.m = n - e.t0
-	if e.m < np+1 || e.m < 1 {
-		return nil, &ShortError{Series: o.Name, N: n, Need: addSat(e.t0, np+1), What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
+	// At least two residuals: a single differenced sample would be
+	// reported as "constant".
+	if e.m < np+1 || e.m < 2 {
+		return nil, &ShortError{Series: o.Name, N: n, Need: addSat(e.t0, max(np+1, 2)), What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
 	}
 	// Differenced series and free regressor columns.
 	z := append([]float64(nil), y...)
@@ -426,7 +423,47 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 	}
 	if constantFrom(e.wy, dd) && len(o.X) == 0 {
-		return nil, &ConstantError{Series: o.Name, N: n}
+		ce := &ConstantError{Series: o.Name, N: n}
+		if dd < n {
+			ce.Value = e.wy[dd]
+		}
+		if dd > 0 {
+			ce.Diff = diffText(diff)
+		}
+		return nil, ce
+	}
+	// Work in units of a power of two near the size of the differenced
+	// series' deviations (and of each free regressor column), so that
+	// the normal equations of the optimiser stay well scaled whatever
+	// the series' units: at deviations of 1e8 and beyond the mean's
+	// column of J'J was 1e16 times smaller than the coefficients' and the
+	// fit stalled. Powers of two scale every operation exactly; the
+	// results are scaled back below.
+	e.scale = pow2Scale(e.wy[dd:])
+	e.pscale = make([]float64, np)
+	for k := range e.pscale {
+		e.pscale[k] = 1
+	}
+	if e.scale != 1 {
+		for t := range e.wy {
+			e.wy[t] /= e.scale
+		}
+		e.mu /= e.scale
+	}
+	if e.kmu >= 0 {
+		e.pscale[e.kmu] = e.scale
+	}
+	for k, b := range e.kb {
+		if b < 0 {
+			continue
+		}
+		c := pow2Scale(e.wx[k][dd:])
+		if c != 1 {
+			for t := range e.wx[k] {
+				e.wx[k][t] /= c
+			}
+		}
+		e.pscale[b] = e.scale / c
 	}
 	if e.kmu >= 0 {
 		// Estimate the mean as a deviation from the sample level, so that
@@ -456,8 +493,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			}
 		}
 		if !ok || k < 0 {
-			return nil, &ArgError{Arg: "Init", Msg: "no free parameter named " + nm}
+			return nil, &ArgError{Arg: "Options.Init", Msg: "no free parameter named " + nm}
 		}
+		v /= e.pscale[k]
 		if k == e.kmu {
 			v -= e.shift
 		}
@@ -480,7 +518,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		prob := lm.Problem{M: e.m, N: np, Eval: e.eval}
 		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
-			return nil, &ArgError{Arg: "start", Msg: err.Error()}
+			// The residuals at the start point overflow (the only failure
+			// of the optimiser's start with a valid problem).
+			return nil, &ArgError{Arg: "start values", Msg: "the residuals of " + seriesName(o.Name) + " at the start values are not finite: an Options.Init or Options.Fixed value, or a coefficient value of the noise model, is too large for the series' scale"}
 		}
 	}
 	// Newton polish with the exact Hessian (after convergence only): in
@@ -541,6 +581,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		finalR = polishedR
 	}
 	f = vec.Dot(finalR, finalR)
+	sigma2Scaled := f / float64(e.m) // in the working units
 	e.set(x)
 	res.Noise = Noise{AR: e.ar, MA: e.ma}
 	res.AR = e.ar.Coeffs()
@@ -548,6 +589,14 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	res.Est = append([]float64(nil), x...)
 	if e.kmu >= 0 {
 		res.Est[e.kmu] += e.shift
+	}
+	// Back to the series' units.
+	for k := range res.Est {
+		res.Est[k] *= e.pscale[k]
+	}
+	f *= e.scale * e.scale
+	for i := range finalR {
+		finalR[i] *= e.scale
 	}
 	res.SSQ = f
 	res.Sigma2 = f / float64(e.m)
@@ -567,7 +616,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 		cerr = ce
 	}
-	res.Model.Mean = e.mu
+	res.Model.Mean = e.mu * e.scale
 	if e.kmu >= 0 {
 		res.Model.Mean = res.Est[e.kmu]
 	}
@@ -575,7 +624,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	res.Beta = append([]float64(nil), e.beta...)
 	for k, b := range e.kb {
 		if b >= 0 {
-			res.Beta[k] = x[b]
+			res.Beta[k] = res.Est[b]
 		}
 	}
 	res.Resid = make([]float64, n)
@@ -592,21 +641,27 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	if inv := invSym(jtj); inv != nil {
 		res.Cov = mat.NewSymDense(np, nil)
-		res.Cov.ScaleSym(res.Sigma2, inv)
+		for i := 0; i < np; i++ {
+			for j := i; j < np; j++ {
+				res.Cov.SetSym(i, j, sigma2Scaled*inv.At(i, j)*e.pscale[i]*e.pscale[j])
+			}
+		}
+		// SE and Corr from the working units: a variance of a series at
+		// 1e-150 can underflow in Cov where its square root is fine.
 		res.Corr = mat.NewSymDense(np, nil)
 		for i := 0; i < np; i++ {
-			res.SE[i] = math.Sqrt(res.Cov.At(i, i))
+			res.SE[i] = math.Sqrt(sigma2Scaled*inv.At(i, i)) * e.pscale[i]
 			res.T[i] = res.Est[i] / res.SE[i]
 		}
 		for i := 0; i < np; i++ {
 			for j := i; j < np; j++ {
-				res.Corr.SetSym(i, j, res.Cov.At(i, j)/(res.SE[i]*res.SE[j]))
+				res.Corr.SetSym(i, j, inv.At(i, j)/math.Sqrt(inv.At(i, i)*inv.At(j, j)))
 			}
 		}
 	}
 	if inv := invSym(hess); inv != nil {
 		for k := range res.SEHessian {
-			res.SEHessian[k] = math.Sqrt(res.Sigma2 * inv.At(k, k))
+			res.SEHessian[k] = math.Sqrt(sigma2Scaled*inv.At(k, k)) * e.pscale[k]
 		}
 	}
 	nu := float64(e.m)
@@ -623,7 +678,10 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		name string
 		c    []float64
 	}{{"AR", res.AR}, {"MA", res.MA}} {
-		if bad, err := outside(part.c, 1e-6); err == nil && len(bad) > 0 {
+		bad, err := outside(part.c, 1e-6)
+		if err != nil || len(bad) > 0 {
+			// Roots that cannot be computed are flagged too (Roots nil):
+			// the polynomial cannot be shown to be inside.
 			res.Boundary = append(res.Boundary, Boundary{Part: part.name, Roots: bad})
 		}
 	}
@@ -669,6 +727,47 @@ func applyDiff(diff, x []float64) []float64 {
 		w[t] = s
 	}
 	return w
+}
+
+// pow2Scale returns the power of two nearest (in log scale) to the
+// largest deviation of w from its mean, 1 when that is zero or not
+// finite.
+func pow2Scale(w []float64) float64 {
+	if len(w) == 0 {
+		return 1
+	}
+	m := meanOf(w)
+	d := 0.0
+	for _, v := range w {
+		d = math.Max(d, math.Abs(v-m))
+	}
+	if !(d > 0) || math.IsInf(d, 0) {
+		return 1
+	}
+	return math.Ldexp(1, int(math.Round(math.Log2(d))))
+}
+
+// diffText writes a differencing polynomial for messages, "(1 - B)".
+func diffText(c []float64) string {
+	out := "(1"
+	for k, v := range c[1:] {
+		if v == 0 {
+			continue
+		}
+		sign := " + "
+		if v < 0 {
+			sign, v = " - ", -v
+		}
+		out += sign
+		if v != 1 {
+			out += strconv.FormatFloat(v, 'g', 6, 64) + " "
+		}
+		out += "B"
+		if k+1 > 1 {
+			out += "^" + itoa(k+1)
+		}
+	}
+	return out + ")"
 }
 
 func constantFrom(w []float64, from int) bool {
@@ -958,9 +1057,13 @@ func schurStable(a []float64) bool {
 	if m == 0 {
 		return true
 	}
+	// The stack buffer serves degrees up to 32; the size is checked
+	// before slicing (slicing first panicked for every degree above 32).
 	var buf [2][33]float64
-	cur, nxt := buf[0][:m+1], buf[1][:m+1]
-	if m > 32 {
+	var cur, nxt []float64
+	if m < len(buf[0]) {
+		cur, nxt = buf[0][:m+1], buf[1][:m+1]
+	} else {
 		cur, nxt = make([]float64, m+1), make([]float64, m+1)
 	}
 	for j := 0; j <= m; j++ {

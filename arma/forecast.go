@@ -65,7 +65,9 @@ type Forecast struct {
 // none).
 //
 // Errors: *ArgError for steps < 1 or above MaxHorizon, level outside
-// (0, 1), futureX of the wrong shape or non-finite, r not a result of
+// (0, 1), futureX of the wrong shape, a *DataError ("futureX column k",
+// with the index) for a NaN, infinite or too large future regressor
+// value, *ArgError for r not a result of
 // Fit or FitNoise (nil or the zero Result), or forecasts that overflow
 // float64 (an explosive fitted AR part; the Forecast is still returned,
 // finite up to the step the message names).
@@ -89,8 +91,8 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 		if len(c) != steps {
 			return Forecast{}, &ArgError{Arg: "futureX", Msg: "column " + itoa(k+1) + " needs " + itoa(steps) + " values"}
 		}
-		if err := checkFinite("futureX", c); err != nil {
-			return Forecast{}, &ArgError{Arg: "futureX", Msg: err.Error()}
+		if err := checkFinite("futureX column "+itoa(k+1), c); err != nil {
+			return Forecast{}, err
 		}
 	}
 	q := distuv.UnitNormal.Quantile((1 + level) / 2)

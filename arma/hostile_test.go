@@ -166,7 +166,7 @@ func TestHostileSizes(t *testing.T) {
 		{"Simulate BurnIn MaxInt", catch(func() error {
 			_, err := Simulate(Model{Sigma2: 1}, 5, &SimSettings{BurnIn: math.MaxInt})
 			return err
-		}), "arg", "BurnIn: n + BurnIn = 5 + " + itoa(math.MaxInt) + " is above MaxSamples"},
+		}), "arg", "SimSettings.BurnIn: is " + itoa(math.MaxInt) + ", above MaxSamples"},
 		{"FitNoise long diff", catch(func() error { _, err := FitNoise(nil, y, Noise{}, longDiff, nil); return err }), "arg", "diff: degree 4095 above MaxLag = 256"},
 	})
 	// The largest horizon itself is accepted (its cost, O(h) since the

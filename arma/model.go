@@ -3,6 +3,8 @@ package arma
 import (
 	"fmt"
 	"math"
+	"math/cmplx"
+	"strconv"
 
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
@@ -25,6 +27,12 @@ func (o Order) String() string {
 	}
 	return fmt.Sprintf("(%d,%d,%d)x(%d,%d,%d)_%d", o.P, o.D, o.Q, o.SP, o.SD, o.SQ, o.Period)
 }
+
+// Validate returns an *ArgError (Arg "order") for a negative order, a
+// seasonal part without Period >= 2, or an expanded AR, MA or
+// differencing polynomial of degree above MaxLag; nil otherwise. Fit,
+// Select and every Model method check it.
+func (o Order) Validate() error { return o.validate() }
 
 func (o Order) validate() error {
 	if o.P < 0 || o.D < 0 || o.Q < 0 || o.SP < 0 || o.SD < 0 || o.SQ < 0 {
@@ -141,9 +149,12 @@ func diffPoly(d, sd, s int) []float64 {
 
 // Stationary reports whether every z-plane root of phi(z^-1) Phi(z^-s)
 // lies strictly inside the unit circle, and returns the offending roots
-// (|z| >= 1) otherwise. The differencing is not part of this check. It
-// returns false and an *ArgError for invalid orders (see ARPoly) or a NaN
-// or infinite coefficient, and an error when the root finder fails.
+// (|z| >= 1) otherwise. The differencing is not part of this check. The
+// roots are found factor by factor (those of Phi(B^s) are the s-th roots
+// of those of Phi(B)), so that coefficients whose expanded product would
+// overflow float64 are still judged. It returns false and an *ArgError
+// for invalid orders (see ARPoly) or a NaN or infinite coefficient, and a
+// *RootError naming the polynomial when its roots cannot be computed.
 func (m Model) Stationary() (bool, []complex128, error) {
 	if err := m.Order().validate(); err != nil {
 		return false, nil, err
@@ -151,7 +162,7 @@ func (m Model) Stationary() (bool, []complex128, error) {
 	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
 		return false, nil, err
 	}
-	bad, err := outside(m.arPoly(), 0)
+	bad, err := factorOutside("AR", m.AR, m.SAR, max(m.Period, 1))
 	return err == nil && len(bad) == 0, bad, err
 }
 
@@ -165,8 +176,43 @@ func (m Model) Invertible() (bool, []complex128, error) {
 	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
 		return false, nil, err
 	}
-	bad, err := outside(m.maPoly(), 0)
+	bad, err := factorOutside("MA", m.MA, m.SMA, max(m.Period, 1))
 	return err == nil && len(bad) == 0, bad, err
+}
+
+// factorOutside returns the z-plane roots with |z| >= 1 of
+// (1 - sum c_k B^k)(1 - sum sc_k B^(k s)), found per factor: when u is a
+// z-plane root of the seasonal factor in B, its s roots in z are the s-th
+// roots of u. part ("AR" or "MA") names the polynomial in a *RootError.
+func factorOutside(part string, c, sc []float64, s int) ([]complex128, error) {
+	var bad []complex128
+	if len(c) > 0 {
+		zs, err := zRoots(lagPoly(c, 1))
+		if err != nil {
+			return nil, rootError(part, false, err)
+		}
+		for _, z := range zs {
+			if cmplx.Abs(z) >= 1 {
+				bad = append(bad, z)
+			}
+		}
+	}
+	if len(sc) > 0 {
+		us, err := zRoots(lagPoly(sc, 1))
+		if err != nil {
+			return nil, rootError(part, true, err)
+		}
+		for _, u := range us {
+			if cmplx.Abs(u) < 1 {
+				continue
+			}
+			r := math.Pow(cmplx.Abs(u), 1/float64(s))
+			for k := 0; k < s; k++ {
+				bad = append(bad, cmplx.Rect(r, (cmplx.Phase(u)+2*math.Pi*float64(k))/float64(s)))
+			}
+		}
+	}
+	return bad, nil
 }
 
 // Psi returns the first n psi weights of the model including its
@@ -178,7 +224,31 @@ func (m Model) Psi(n int) ([]float64, error) {
 	if err := m.Order().validate(); err != nil {
 		return nil, err
 	}
+	if err := m.expandedFinite(); err != nil {
+		return nil, err
+	}
 	return Psi(poly.Mul(m.arPoly(), diffPoly(m.D, m.SD, m.Period)), m.maPoly(), n)
+}
+
+// expandedFinite returns an *ArgError naming the part when a coefficient
+// is not finite or the product of the ordinary and seasonal factors
+// overflows float64 (factors of finite but huge coefficients).
+func (m Model) expandedFinite() error {
+	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
+		return err
+	}
+	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
+		return err
+	}
+	for _, p := range []struct {
+		part, text string
+		c          []float64
+	}{{"AR", "phi(B)Phi(B^s)", m.arPoly()}, {"MA", "theta(B)Theta(B^s)", m.maPoly()}} {
+		if firstNonFinite(p.c) >= 0 {
+			return &ArgError{Arg: p.part, Msg: "the expanded polynomial " + p.text + " overflows float64: coefficients far too large"}
+		}
+	}
+	return nil
 }
 
 // Pi returns the first n pi weights of the stationary part (differencing
@@ -186,6 +256,9 @@ func (m Model) Psi(n int) ([]float64, error) {
 // Errors as for Model.Psi.
 func (m Model) Pi(n int) ([]float64, error) {
 	if err := m.Order().validate(); err != nil {
+		return nil, err
+	}
+	if err := m.expandedFinite(); err != nil {
 		return nil, err
 	}
 	return Pi(m.arPoly(), m.maPoly(), n)
@@ -229,15 +302,22 @@ func (m Model) validate() error {
 	if err := m.Order().validate(); err != nil {
 		return err
 	}
-	for _, c := range [][]float64{m.AR, m.MA, m.SAR, m.SMA, {m.Mean, m.Sigma2}} {
-		for _, v := range c {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &ArgError{Arg: "model", Msg: "coefficients must be finite"}
-			}
+	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
+		return &ArgError{Arg: "model", Msg: err.(*ArgError).Msg}
+	}
+	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
+		return &ArgError{Arg: "model", Msg: err.(*ArgError).Msg}
+	}
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"Mean", m.Mean}, {"Sigma2", m.Sigma2}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+			return &ArgError{Arg: "model", Msg: "coefficients must be finite: " + f.name + " is " + fmtFloat(f.v)}
 		}
 	}
 	if m.Sigma2 < 0 {
-		return &ArgError{Arg: "model", Msg: "Sigma2 must not be negative"}
+		return &ArgError{Arg: "model", Msg: "Sigma2 must not be negative, got " + fmtFloat(m.Sigma2)}
 	}
 	return nil
 }
@@ -254,13 +334,21 @@ func (m Model) Constant() float64 {
 
 // finiteCoefs returns an *ArgError naming part when a coefficient of any
 // of the slices is NaN or infinite.
+// The message names the slice and index: "AR[1] is NaN" (the seasonal
+// slice, the second of cs, is "SAR" or "SMA").
 func finiteCoefs(part string, cs ...[]float64) error {
-	for _, c := range cs {
-		for _, v := range c {
+	for i, c := range cs {
+		for k, v := range c {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &ArgError{Arg: part, Msg: "coefficients must be finite"}
+				name := part
+				if i > 0 {
+					name = "S" + part
+				}
+				return &ArgError{Arg: part, Msg: "coefficients must be finite: " + name + "[" + itoa(k) + "] is " + fmtFloat(v)}
 			}
 		}
 	}
 	return nil
 }
+
+func fmtFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }

@@ -8,6 +8,7 @@ import (
 	"sort"
 	"testing"
 
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/testutil"
 )
 
@@ -171,6 +172,29 @@ func TestSchurStable(t *testing.T) {
 		}
 		if !near && schurStable(a) != (len(bad) == 0) {
 			t.Fatalf("%v: schurStable %v, roots %v", a, schurStable(a), zs)
+		}
+	}
+	// Degrees 30..40 cross the 32 of the stack buffer (degrees above 32
+	// panicked): polynomials built from z-plane roots of known moduli,
+	// all inside (stable) or one at 1.05 (unstable).
+	for it := 0; it < 200; it++ {
+		d := 30 + it%11
+		zs := make([]complex128, 0, d)
+		for len(zs) < d {
+			r, th := 0.2+0.7*rng.Float64(), math.Pi*rng.Float64()
+			if len(zs) == d-1 {
+				zs = append(zs, complex(r, 0))
+				continue
+			}
+			zs = append(zs, cmplx.Rect(r, th), cmplx.Rect(r, -th))
+		}
+		unstable := it%2 == 1
+		if unstable {
+			zs[0], zs[1] = cmplx.Rect(1.05, 0.3), cmplx.Rect(1.05, -0.3)
+		}
+		a := poly.FromInverseRoots(zs)
+		if len(a) != d+1 || schurStable(a) == unstable {
+			t.Fatalf("degree %d (len %d), unstable %v: schurStable %v", d, len(a), unstable, schurStable(a))
 		}
 	}
 }

@@ -10,9 +10,9 @@ import (
 // lags, with the degrees of freedom reduced by the number of estimated
 // ARMA coefficients (the mean and regressors do not count). Errors are
 // those of the package-level LjungBox, and an *ArgError for a nil Result
-// or one whose Start is outside its residuals.
+// or one whose Start is outside its residuals (the zero Result).
 func (r *Result) LjungBox(lags int) (Portmanteau, error) {
-	if r == nil || r.Start < 0 || r.Start > len(r.Resid) {
+	if r == nil || r.Start < 0 || r.Start >= len(r.Resid) {
 		return Portmanteau{}, &ArgError{Arg: "result", Msg: "LjungBox needs a result of Fit or FitNoise"}
 	}
 	return LjungBox(r.Resid[r.Start:], lags, r.narma)

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"runtime"
+	"runtime/debug"
 	"sort"
 	"sync"
 )
@@ -48,7 +49,7 @@ type Grid struct {
 	// Criterion ranks the candidates (default ByAICc).
 	Criterion Criterion
 	// Workers bounds the number of fits run at once; zero means
-	// runtime.GOMAXPROCS(0).
+	// runtime.GOMAXPROCS(0), negative is an *ArgError.
 	Workers int
 }
 
@@ -75,24 +76,23 @@ type Candidate struct {
 // start of the grid (MaxP + SP*Period + D + SD*Period), or opt.Start if
 // larger.
 //
-// The error is an *ArgError for an invalid grid (negative orders, an
-// unknown Criterion), the *DataError of Fit for a NaN, infinite or too
+// The error is an *ArgError for an invalid grid or options (Grid.Validate,
+// Options.Validate), the *DataError of Fit for a NaN, infinite or too
 // large sample (no candidate is fitted), ctx's error when ctx is done
 // (candidates fitted so far are still returned), and, when no candidate
 // produced a result at all (a series too short or constant, for example),
-// the error of the first candidate, with all candidates returned.
+// the error of the first candidate, with all candidates returned. A panic
+// in a fit (a bug) is recovered on its worker goroutine into an
+// *InternalError, which is that candidate's Err and, with all candidates,
+// Select's error.
 func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate, error) {
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	if g.MaxP < 0 || g.MaxQ < 0 {
-		return nil, &ArgError{Arg: "grid", Msg: "MaxP and MaxQ must not be negative"}
+	if err := g.Validate(); err != nil {
+		return nil, err
 	}
-	if g.Criterion < ByAICc || g.Criterion > ByAIC {
-		return nil, &ArgError{Arg: "grid", Msg: "unknown Criterion " + itoa(int(g.Criterion))}
-	}
-	top := Order{P: g.MaxP, D: g.D, Q: g.MaxQ, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}
-	if err := top.validate(); err != nil {
+	if err := opt.Validate(); err != nil {
 		return nil, err
 	}
 	var o Options
@@ -121,13 +121,7 @@ func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate
 		go func() {
 			defer wg.Done()
 			for i := range jobs {
-				c := &cands[i]
-				oc := o
-				res, err := Fit(ctx, y, c.Order, &oc)
-				c.Result, c.Err, c.Score = res, err, math.Inf(1)
-				if res != nil {
-					c.Score = score(res, g.Criterion)
-				}
+				selectOne(ctx, y, &cands[i], o, g.Criterion, o.Name)
 			}
 		}()
 	}
@@ -150,6 +144,16 @@ feed:
 		cerr = ctx.Err()
 	}
 	if cerr == nil {
+		// A recovered panic is a bug that must not pass unseen.
+		for _, c := range cands {
+			var ie *InternalError
+			if errors.As(c.Err, &ie) {
+				cerr = c.Err
+				break
+			}
+		}
+	}
+	if cerr == nil {
 		cerr = cands[0].Err
 		for _, c := range cands {
 			if c.Result != nil {
@@ -167,6 +171,30 @@ feed:
 	})
 	return cands, cerr
 }
+
+// selectOne fits one candidate of Select on a worker goroutine. A panic
+// (a bug) is recovered into an *InternalError in c.Err, so that it cannot
+// end the caller's process.
+func selectOne(ctx context.Context, y []float64, c *Candidate, o Options, crit Criterion, name string) {
+	defer func() {
+		if r := recover(); r != nil {
+			c.Result, c.Score = nil, math.Inf(1)
+			c.Err = &InternalError{Op: "Select: fit of order " + c.Order.String() + " to " + seriesName(name), Value: r, Stack: string(debug.Stack())}
+		}
+	}()
+	if testSelectHook != nil {
+		testSelectHook(c.Order)
+	}
+	res, err := Fit(ctx, y, c.Order, &o)
+	c.Result, c.Err, c.Score = res, err, math.Inf(1)
+	if res != nil {
+		c.Score = score(res, crit)
+	}
+}
+
+// testSelectHook lets tests run code (a deliberate panic) on Select's
+// worker goroutines; nil otherwise.
+var testSelectHook func(Order)
 
 func score(r *Result, c Criterion) float64 {
 	switch c {

@@ -47,6 +47,9 @@ type SimSettings struct {
 // float64 (the message gives the first sample); *DataError (Series
 // "innovations", with the index) for a NaN or infinite innovation.
 func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
 	var set SimSettings
 	if s != nil {
 		set = *s
@@ -62,7 +65,7 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 	var a []float64
 	if set.Innovations != nil {
 		if len(set.Innovations) != n {
-			return nil, &ArgError{Arg: "Innovations", Msg: "needs " + itoa(n) + " values"}
+			return nil, &ArgError{Arg: "SimSettings.Innovations", Msg: "has " + itoa(len(set.Innovations)) + " values, n is " + itoa(n)}
 		}
 		if err := checkFinite("innovations", set.Innovations); err != nil {
 			return nil, err
@@ -70,8 +73,11 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 		a = append([]float64(nil), set.Innovations...)
 	} else {
 		if set.BurnIn >= 0 {
-			bad, err := outside(ar, 0)
-			if err != nil || len(bad) > 0 {
+			ok, bad, err := m.Stationary()
+			if err != nil {
+				return nil, err
+			}
+			if !ok {
 				return nil, &ArgError{Arg: "model", Msg: "AR part not stationary (z-plane roots " + rootList(bad) + "); use BurnIn < 0"}
 			}
 			burn = set.BurnIn
@@ -79,7 +85,7 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 				burn = autoBurn(ar, len(ma)-1)
 			}
 			if burn > MaxSamples-n {
-				return nil, &ArgError{Arg: "BurnIn", Msg: "n + BurnIn = " + itoa(n) + " + " + itoa(burn) + " is above MaxSamples = " + itoa(MaxSamples)}
+				return nil, &ArgError{Arg: "SimSettings.BurnIn", Msg: "n + BurnIn = " + itoa(n) + " + " + itoa(burn) + " is above MaxSamples = " + itoa(MaxSamples)}
 			}
 		}
 		a = make([]float64, burn+n)

@@ -1,6 +1,7 @@
 package arma
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -54,8 +55,8 @@ func weights(den, num []float64, n int, which string) ([]float64, error) {
 		}
 	}
 	w, err := poly.Divide(num, den, n)
-	if err != nil {
-		return nil, err
+	if err != nil { // not reached: den[0] != 0 was checked above
+		return nil, &ArgError{Arg: which, Msg: "constant term must be non-zero"}
 	}
 	if k := firstNonFinite(w); k >= 0 {
 		return nil, &ArgError{Arg: which, Msg: "weight " + itoa(k) + " overflows (roots far outside the unit circle); ask for fewer than " + itoa(k) + " weights"}
@@ -123,6 +124,21 @@ func shrinkInside(a []float64, lim float64) []float64 {
 		out[k] *= s
 	}
 	return out
+}
+
+// rootError turns a failure of the root finder on a factor of a model
+// polynomial into a *RootError.
+func rootError(part string, seasonal bool, err error) error {
+	names := map[string][2]string{"AR": {"phi(B)", "Phi(B^s)"}, "MA": {"theta(B)", "Theta(B^s)"}}
+	i := 0
+	if seasonal {
+		i = 1
+	}
+	reason := "the eigenvalue solver failed"
+	if errors.Is(err, poly.ErrTooLong) {
+		reason = "degree above the root finder's limit"
+	}
+	return &RootError{Part: part, Poly: names[part][i], Reason: reason}
 }
 
 func cabs(z complex128) float64 { return cmplx.Abs(z) }

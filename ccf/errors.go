@@ -2,6 +2,7 @@ package ccf
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 )
 
@@ -37,16 +38,23 @@ func (e *ShortError) Error() string {
 }
 
 // ConstantError reports a series with zero variance (all samples equal to
-// Value after the mean is removed), whose correlation with anything is
-// undefined.
+// Value), whose correlation with anything is undefined. After, when not
+// empty, says the series is constant only after a filter (ImpulseWeights'
+// filtered output: the series given was then constant, or a trend that the
+// filter's differencing removed); Value is then rounding noise and not
+// printed.
 type ConstantError struct {
 	Name  string
 	Value float64
+	After string
 }
 
 // Error describes the problem in one line, naming the series and values involved.
 func (e *ConstantError) Error() string {
-	return fmt.Sprintf("ccf: series %q is constant (every sample is %g), its correlations are undefined", e.Name, e.Value)
+	if e.After != "" {
+		return fmt.Sprintf("ccf: series %q is constant after %s (the series itself is constant, or only a trend that the filter's differencing removes), its correlations are undefined", e.Name, e.After)
+	}
+	return fmt.Sprintf("ccf: series %q is constant (every sample is %s), its correlations are undefined", e.Name, strconv.FormatFloat(e.Value, 'g', 6, 64))
 }
 
 // ValueError reports a NaN or infinite sample, or a value outside what

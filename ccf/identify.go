@@ -1,7 +1,6 @@
 package ccf
 
 import (
-	"fmt"
 	"math"
 	"math/cmplx"
 	"slices"
@@ -118,9 +117,12 @@ type Candidate struct {
 // from its impulse-response weights (see the package documentation).
 //
 // It returns a *NoResponseError when no lag passes the dead-time rule, an
-// *ArgError for settings out of range, and a *ShortError when w has fewer
+// *ArgError for settings out of range (IdentifySettings.Validate), and a *ShortError when w has fewer
 // than two lags.
 func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
 	var set IdentifySettings
 	if s != nil {
 		set = *s
@@ -128,25 +130,10 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if set.Level == 0 {
 		set.Level = 0.99
 	}
-	if !(set.Level > 0 && set.Level < 1) {
-		return nil, &ArgError{Arg: "IdentifySettings.Level", Value: strconv.FormatFloat(set.Level, 'g', -1, 64), Want: "in (0, 1)"}
-	}
 	if set.Penalty == 0 {
 		set.Penalty = 2
 	}
-	if !(set.Penalty >= 0) || math.IsInf(set.Penalty, 1) {
-		return nil, &ArgError{Arg: "IdentifySettings.Penalty", Value: strconv.FormatFloat(set.Penalty, 'g', -1, 64), Want: "finite, >= 0"}
-	}
 	maxR, maxS := orderBound(set.MaxR), orderBound(set.MaxS)
-	if d := set.InputDiff; d != nil {
-		ok := len(d) > 0 && d[0] == 1
-		for _, v := range d {
-			ok = ok && v-v == 0
-		}
-		if !ok {
-			return nil, &ArgError{Arg: "IdentifySettings.InputDiff", Value: fmt.Sprint(d), Want: "finite coefficients with constant term 1"}
-		}
-	}
 	if w == nil {
 		return nil, &ArgError{Arg: "w", Value: "nil", Want: "weights"}
 	}
@@ -190,8 +177,6 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 		frac = 0.1
 	case frac < 0:
 		frac = 0
-	case frac >= 1 || math.IsNaN(frac):
-		return nil, &ArgError{Arg: "IdentifySettings.MinFraction", Value: strconv.FormatFloat(frac, 'g', -1, 64), Want: "below 1"}
 	}
 	b, err := deadTime(v, w.SE, set.Level, frac)
 	if err != nil {

@@ -64,7 +64,8 @@ type DistributedLagResult struct {
 // another, and it gives weights with standard errors for each input,
 // ready for Identify.
 //
-// Errors: *ArgError (no inputs, bad settings), *LengthError, *ValueError
+// Errors: *ArgError (no inputs, bad settings: see
+// DistributedLagSettings.Validate), *LengthError, *ValueError
 // (naming the series and index), *ShortError (fewer than twice as many
 // rows as coefficients), *ConstantError for a constant input and
 // *SingularError for a rank-deficient regression. Inputs are not
@@ -73,6 +74,9 @@ type DistributedLagResult struct {
 // References: Liu, L.-M., Hanssens, D.M. (1982), see the package
 // documentation.
 func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*DistributedLagResult, error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
 	var set DistributedLagSettings
 	if s != nil {
 		set = *s
@@ -85,12 +89,22 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	if out == "" {
 		out = "y"
 	}
+	if len(set.Names) > m {
+		return nil, &ArgError{Arg: "DistributedLagSettings.Names", Value: strconv.Itoa(len(set.Names)) + " names", Want: "at most one per input (" + strconv.Itoa(m) + ")"}
+	}
 	names := make([]string, m)
 	for i := range names {
 		if i < len(set.Names) && set.Names[i] != "" {
 			names[i] = set.Names[i]
 		} else {
 			names[i] = "x" + strconv.Itoa(i+1)
+		}
+	}
+	for i := range names {
+		for j := 0; j < i; j++ {
+			if names[i] == names[j] {
+				return nil, &ArgError{Arg: "DistributedLagSettings.Names", Value: "input " + strconv.Itoa(i+1) + " named " + strconv.Quote(names[i]) + " like input " + strconv.Itoa(j+1), Want: "one name per input (an empty entry is named x1, x2, ... by position)"}
+			}
 		}
 	}
 	n := len(y)
@@ -134,7 +148,7 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 		return nil, &ShortError{Name: out, Len: n, Need: m, Why: "for " + strconv.Itoa(m) + " inputs"}
 	}
 	maxIter := set.MaxIter
-	if maxIter <= 0 {
+	if maxIter == 0 {
 		maxIter = 50
 	}
 	ncoef := 1 + m*(K+1)

@@ -9,8 +9,12 @@ import (
 // String returns a plain-text summary for people: the weights with their
 // t-ratios (marked * when beyond the 95 % normal quantile), the dead time,
 // the corner method's pick and the ranked forms with their terms. Numbers
-// are rounded for reading; use the fields for full precision.
+// are rounded for reading; use the fields for full precision. A nil
+// Identification prints as "<nil ccf.Identification>".
 func (id *Identification) String() string {
+	if id == nil {
+		return "<nil ccf.Identification>"
+	}
 	var sb strings.Builder
 	fmt.Fprintf(&sb, "input %s: dead time %d samples", id.Input, id.DeadTime)
 	if id.Offset != 0 {

@@ -48,12 +48,17 @@ func (w *Weights) T(k int) float64 { return w.V[k] / w.SE[k] }
 // of r for a white alpha independent of the noise; when beta is strongly
 // autocorrelated beyond the response it is optimistic.
 //
-// Errors are those of Cross.
+// Errors are those of Cross, naming alpha by the input's name and beta
+// "output" unless s.Names gives names; a constant series is reported as
+// constant after the prewhitening filter.
 func ImpulseWeights(alpha, beta []float64, maxLag int, input string, s *Settings) (*Weights, error) {
 	if input == "" {
 		input = "x"
 	}
-	cs := Settings{Names: [2]string{input + " (prewhitened)", "output (filtered)"}}
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
+	cs := Settings{Names: [2]string{input, "output"}}
 	if s != nil {
 		cs.Method = s.Method
 		if s.Names[0] != "" {
@@ -65,6 +70,11 @@ func ImpulseWeights(alpha, beta []float64, maxLag int, input string, s *Settings
 	}
 	c, err := Cross(alpha, beta, maxLag, &cs)
 	if err != nil {
+		// The series are filtered ones: say so, and do not print the
+		// rounding noise a filtered constant is made of.
+		if ce, ok := err.(*ConstantError); ok {
+			ce.After = "the prewhitening filter of input " + strconv.Quote(input)
+		}
 		return nil, err
 	}
 	scale := c.SDY / c.SDX

@@ -6,8 +6,10 @@
 //
 //	alpha_t = phi(B) / theta(B) * (D(B) x_t - m)
 //
-// with D(B) the differencing of the input (empty for none), m the mean of
-// the differenced series, phi(B) an autoregression chosen by AIC
+// with D(B) the differencing of the input (empty for none), m = Filter.Mean
+// the level of the differenced input (its sample mean for an
+// autoregression, the estimated mean for a fitted ARMA filter, the
+// model's Mean for a given one), phi(B) an autoregression chosen by AIC
 // (Yule-Walker, as R's ar()) or the AR part of an ARMA model the caller
 // gives, and theta(B) its MA part. Passing the output y through the same
 // phi/theta and D (with its own mean) gives beta_t; the cross-correlation

@@ -2,19 +2,29 @@ package prewhiten
 
 import (
 	"fmt"
+	"math"
 	"strconv"
+
+	"github.com/backshift/backshift/arma"
 )
 
-// ValueError reports a NaN or infinite sample: series Name at Index (0 =
-// oldest) holds Value.
+// ValueError reports a NaN or infinite sample, or one larger in
+// magnitude than arma.MaxAbs (Want then says so): series Name at Index
+// (0 = oldest) holds Value.
 type ValueError struct {
 	Name  string
 	Index int
 	Value float64
+	// Want, when not empty, says what the series allows; it is empty for
+	// a NaN or infinite sample.
+	Want string
 }
 
 // Error describes the problem in one line, naming the series and values involved.
 func (e *ValueError) Error() string {
+	if e.Want != "" {
+		return fmt.Sprintf("prewhiten: series %q has %v at index %d, want %s", e.Name, e.Value, e.Index, e.Want)
+	}
 	return fmt.Sprintf("prewhiten: series %q has %v at index %d", e.Name, e.Value, e.Index)
 }
 
@@ -44,16 +54,35 @@ func (e *ShortError) Error() string {
 	return fmt.Sprintf("prewhiten: series %q has %d samples, need at least %d %s", e.Name, e.Len, e.Need, e.Why)
 }
 
-// ConstantError reports a series that is constant after its differencing,
-// so that no filter can be fitted to it.
+// ConstantError reports a series with no variation left to work with:
+// every sample equal (Diff empty), or every sample equal after the
+// differencing Diff (for example "(1 - B)": the series is a straight
+// line), or, After naming a filter, every sample of the filtered series
+// equal. Value is that common value.
 type ConstantError struct {
-	Name string
+	Name  string
+	Value float64
+	// Diff is the differencing applied first as text, empty for none.
+	Diff string
+	// After, when not empty, names the filter after which the series is
+	// constant (the filter fitted to the input).
+	After string
 }
 
 // Error describes the problem in one line, naming the series and values involved.
 func (e *ConstantError) Error() string {
-	return fmt.Sprintf("prewhiten: series %q is constant after differencing; it cannot be prewhitened", e.Name)
+	v := roundText(e.Value)
+	switch {
+	case e.After != "":
+		return fmt.Sprintf("prewhiten: series %q is constant after the filter %s; check that it varies", e.Name, e.After)
+	case e.Diff != "":
+		return fmt.Sprintf("prewhiten: series %q is constant after the differencing %s (every differenced sample is %s): its levels lie on a straight line or repeat; use less differencing", e.Name, e.Diff, v)
+	}
+	return fmt.Sprintf("prewhiten: series %q is constant (every sample is %s); a constant series carries no information to prewhiten or correlate", e.Name, v)
 }
+
+// roundText prints v to 6 significant digits for messages.
+func roundText(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
 
 // ArgError reports a setting out of range.
 type ArgError struct {
@@ -87,10 +116,16 @@ func (e *NotWhiteError) Error() string {
 		e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
 }
 
+// checkSeries returns a *ValueError for the first NaN, infinite or too
+// large sample (|v| > arma.MaxAbs, whose squares in the correlations and
+// fits could overflow).
 func checkSeries(name string, x []float64) error {
 	for i, v := range x {
 		if v-v != 0 {
 			return &ValueError{Name: name, Index: i, Value: v}
+		}
+		if math.Abs(v) > arma.MaxAbs {
+			return &ValueError{Name: name, Index: i, Value: v, Want: "a magnitude at most arma.MaxAbs = 1e140 (larger squares can overflow); rescale the series"}
 		}
 	}
 	return nil

@@ -3,6 +3,7 @@ package prewhiten
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/cmplx"
 	"strconv"
@@ -28,29 +29,119 @@ type Settings struct {
 	// level: a near-integrated input (common practice, a heuristic rather
 	// than a unit-root test).
 	AutoDiff bool
-	// Order, when not nil (and ARMA is nil), fits an ARIMA model of these
-	// orders to the input by conditional least squares (arma.Fit) and
-	// uses it as the filter, instead of the autoregression by AIC: for
-	// inputs that an AR of moderate order does not whiten, such as an
-	// integrated input under feedback, for which ARIMA(1,1,1) is a common
-	// choice. Its differencing is used unless Diff is set.
+	// Order, when not nil, fits an ARIMA model of these orders to the
+	// input by conditional least squares (arma.Fit) and uses it as the
+	// filter, instead of the autoregression by AIC: for inputs that an AR
+	// of moderate order does not whiten, such as an integrated input
+	// under feedback, for which ARIMA(1,1,1) is a common choice. The
+	// differencing may be written either in Order (D, SD) or in Diff, not
+	// in both (an *ArgError): Settings{Order: {D: 1, Q: 1}} and
+	// Settings{Diff: {1, -1}, Order: {Q: 1}} are the same filter. In
+	// either spelling the mean of the differenced input is estimated
+	// with the coefficients (arma.MeanFree, a drift for D = 1), as the
+	// autoregression does, so that Filter.Mean is the level removed.
 	Order *arma.Order
 	// ARMA, when not nil, is used as the filter instead of fitting one:
 	// phi(B) = ARMA.ARPoly(), theta(B) = ARMA.MAPoly(), the differencing
-	// ARMA.DiffPoly() (unless Diff is set). Its Mean and Sigma2 are kept.
+	// ARMA.DiffPoly(), or Diff when ARMA has none (both with different
+	// differencing is an *ArgError). Its Mean and Sigma2 are kept. Setting
+	// both Order and ARMA is an *ArgError.
 	ARMA *arma.Model
 	// Name names the input in errors and in the filter's text; empty
 	// means "x".
 	Name string
 	// Lags is the number of autocorrelations in the Ljung-Box check of
-	// the prewhitened input; zero means min(20, n/5).
+	// the prewhitened input; zero means min(20, n/5), negative is an
+	// *ArgError.
 	Lags int
 	// Level is the p-value below which the check reports a
-	// *NotWhiteError; zero means 0.01.
+	// *NotWhiteError; zero means 0.01, otherwise it must lie in (0, 1).
 	Level float64
 	// KeepAR stops Pair from trying ARIMA filters when the
 	// autoregression does not whiten the input.
 	KeepAR bool
+}
+
+// Validate checks every field of s on its own (nil is the defaults)
+// and returns an *ArgError naming the first bad field: MaxOrder or Lags
+// negative, Diff without constant term 1 or with a NaN or infinite
+// coefficient, an invalid Order (negative orders, a seasonal part
+// without Period >= 2, a degree above arma.MaxLag), an ARMA model with
+// invalid orders or a NaN or infinite coefficient, mean or variance, a
+// negative ARMA.Sigma2, both Order and ARMA set, differencing written
+// twice (Diff with Order's D or SD, or Diff with a different ARMA
+// differencing), and Level outside [0, 1) (zero is the default).
+// Name, AutoDiff and KeepAR accept every value. Fit and Pair call it
+// first; what depends on the series (its length against MaxOrder, Lags
+// and the differencing) is checked there.
+func (s *Settings) Validate() error {
+	if s == nil {
+		return nil
+	}
+	if s.MaxOrder < 0 {
+		return &ArgError{Arg: "Settings.MaxOrder", Value: itoa(s.MaxOrder), Want: ">= 0 (zero means the default)"}
+	}
+	if err := checkPoly("Settings.Diff", s.Diff); err != nil {
+		return err
+	}
+	if s.Order != nil {
+		if err := s.Order.Validate(); err != nil {
+			return &ArgError{Arg: "Settings.Order", Value: s.Order.String(), Want: "non-negative orders, Period >= 2 with a seasonal part, degrees up to arma.MaxLag"}
+		}
+		if s.ARMA != nil {
+			return &ArgError{Arg: "Settings.Order", Value: s.Order.String() + " together with Settings.ARMA", Want: "one of Order (fit a filter) and ARMA (use a given one)"}
+		}
+		if s.Diff != nil && (s.Order.D > 0 || s.Order.SD > 0) {
+			return &ArgError{Arg: "Settings.Order", Value: s.Order.String() + " together with Settings.Diff " + strconv.Quote(polyText(s.Diff)),
+				Want: "the differencing written once: in Diff, or in Order's D and SD"}
+		}
+	}
+	if m := s.ARMA; m != nil {
+		if m.ARPoly() == nil {
+			return &ArgError{Arg: "Settings.ARMA", Value: m.Order().String(), Want: "valid orders (D, SD >= 0, Period >= 2 with a seasonal part, degrees up to arma.MaxLag)"}
+		}
+		for _, c := range [][]float64{m.AR, m.MA, m.SAR, m.SMA, {m.Mean, m.Sigma2}} {
+			for _, v := range c {
+				if v-v != 0 {
+					return &ArgError{Arg: "Settings.ARMA", Value: "a NaN or infinite coefficient, Mean or Sigma2", Want: "finite values"}
+				}
+			}
+		}
+		if m.Sigma2 < 0 {
+			return &ArgError{Arg: "Settings.ARMA.Sigma2", Value: strconv.FormatFloat(m.Sigma2, 'g', -1, 64), Want: ">= 0"}
+		}
+		if d := normPoly(m.DiffPoly()); s.Diff != nil && len(d) > 1 && !equalPoly(d, normPoly(s.Diff)) {
+			return &ArgError{Arg: "Settings.Diff", Value: strconv.Quote(polyText(s.Diff)) + " while Settings.ARMA differences by " + strconv.Quote(polyText(d)),
+				Want: "the differencing written once, or the same in both"}
+		}
+	}
+	if s.Lags < 0 {
+		return &ArgError{Arg: "Settings.Lags", Value: itoa(s.Lags), Want: ">= 0 (zero means the default)"}
+	}
+	if !(s.Level >= 0 && s.Level < 1) {
+		return &ArgError{Arg: "Settings.Level", Value: strconv.FormatFloat(s.Level, 'g', -1, 64), Want: "in (0, 1) (zero means the default 0.01)"}
+	}
+	return nil
+}
+
+func maxAbs(zs []complex128) float64 {
+	m := 0.0
+	for _, z := range zs {
+		m = math.Max(m, cmplx.Abs(z))
+	}
+	return m
+}
+
+func equalPoly(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }
 
 func (s *Settings) name() string {
@@ -68,8 +159,10 @@ type Filter struct {
 	// Diff is D(B), AR is phi(B), MA is theta(B): ascending powers of B,
 	// signs as stored, constant terms 1 ({1} for none).
 	Diff, AR, MA []float64
-	// Mean is the mean of the differenced input removed before
-	// filtering it. Apply removes each series' own mean instead.
+	// Mean is m, the level of the differenced input that the filter
+	// removes: ApplyInput and Pair's Alpha filter D(B) x_t - Mean. Apply,
+	// meant for other series (Pair's Beta, the output), removes each
+	// series' own mean instead, since their level is not the input's.
 	Mean float64
 	// Sigma2 is the innovation variance of the fit (R's var.pred for a
 	// fitted autoregression, the model's Sigma2 for a given ARMA).
@@ -148,13 +241,23 @@ func num(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
 // s.Diff (or the automatic choice of AutoDiff), then an autoregression of
 // order 0..MaxOrder chosen by AIC with the Yule-Walker equations
 // (arma.YuleWalker, whose order and coefficients agree with R's
-// ar(method = "yule-walker")), or the caller's s.ARMA.
+// ar(method = "yule-walker")), or an ARIMA model of s.Order fitted by
+// arma.Fit, or the caller's s.ARMA. Filter.Mean is the level removed
+// from the differenced input: its sample mean for the autoregression
+// (R's x.mean), the estimated mean for s.Order, ARMA.Mean for s.ARMA.
 //
-// Errors: *ValueError for NaN/Inf (with the index), *ShortError when the
+// Errors: *ArgError for bad settings (see Settings.Validate),
+// *ValueError for NaN/Inf (with the index), *ShortError when the
 // differenced series has fewer than MaxOrder+2 samples (at least 3),
-// *ConstantError when it is constant, *ArgError for bad settings. x is
-// not modified.
+// *ConstantError when x is constant, or constant after its
+// differencing; the errors of arma.Fit for s.Order otherwise. When the
+// fit of s.Order stopped without converging, the filter from its best
+// point is returned together with the *arma.ConvergenceError. x is not
+// modified.
 func Fit(x []float64, s *Settings) (Filter, error) {
+	if err := s.Validate(); err != nil {
+		return Filter{}, err
+	}
 	name := s.name()
 	if err := checkSeries(name, x); err != nil {
 		return Filter{}, err
@@ -163,34 +266,62 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 	if s != nil {
 		set = *s
 	}
-	if set.MaxOrder < 0 {
-		return Filter{}, &ArgError{Arg: "Settings.MaxOrder", Value: itoa(set.MaxOrder), Want: ">= 0"}
-	}
-	if err := checkPoly("Settings.Diff", set.Diff); err != nil {
-		return Filter{}, err
-	}
 	if d := len(set.Diff) - 1; d > 0 && d+3 > len(x) {
 		return Filter{}, &ShortError{Name: name, Len: len(x), Need: d + 3, Why: "for the differencing " + strconv.Quote(polyText(set.Diff))}
 	}
-	if set.ARMA == nil && set.Order != nil {
+	if len(x) < 3 {
+		return Filter{}, &ShortError{Name: name, Len: len(x), Need: 3, Why: "for a prewhitening filter"}
+	}
+	if isConstant(x) {
+		return Filter{}, &ConstantError{Name: name, Value: x[0]}
+	}
+	if set.Order != nil {
+		// The differencing is applied here in either spelling (Diff or
+		// Order's D and SD), and the ARMA part is fitted to the
+		// differenced input with its mean, so that both spellings give
+		// the same filter.
 		ord := *set.Order
-		if set.Diff != nil {
-			ord.D, ord.SD = 0, 0
+		diff := normPoly(set.Diff)
+		if set.Diff == nil {
+			diff = normPoly(arma.Model{D: ord.D, SD: ord.SD, Period: ord.Period}.DiffPoly())
 		}
-		w := x
-		if set.Diff != nil {
-			d := len(set.Diff) - 1
-			w = applyFIR(x, set.Diff)[d:]
+		d := len(diff) - 1
+		if d+3 > len(x) {
+			return Filter{}, &ShortError{Name: name, Len: len(x), Need: d + 3, Why: "for the differencing " + strconv.Quote(polyText(diff))}
 		}
-		res, err := arma.Fit(context.Background(), w, ord, &arma.Options{Name: name})
+		w := applyFIR(x, diff)[d:]
+		if isConstant(w) {
+			return Filter{}, &ConstantError{Name: name, Value: w[0], Diff: polyText(diff)}
+		}
+		ord.D, ord.SD = 0, 0
+		if ord.SP == 0 && ord.SQ == 0 {
+			ord.Period = 0
+		}
+		res, err := arma.Fit(context.Background(), w, ord, &arma.Options{Name: name, Mean: arma.MeanFree})
 		if res == nil {
+			// The fit saw the differenced series: report lengths and
+			// indexes of x itself.
+			var se *arma.ShortError
+			var de *arma.DataError
+			switch {
+			case errors.As(err, &se):
+				return Filter{}, &ShortError{Name: name, Len: len(x), Need: se.Need + d, Why: "for the " + ord.String() + " filter after the differencing " + strconv.Quote(polyText(diff))}
+			case errors.As(err, &de):
+				return Filter{}, &ValueError{Name: name, Index: de.Index + d, Value: x[de.Index+d],
+					Want: "differences within arma.MaxAbs = 1e140 (this one is " + strconv.FormatFloat(de.Value, 'g', 4, 64) + "); rescale the series"}
+			}
 			return Filter{}, err
 		}
 		m := res.Model
-		set.ARMA = &m
+		set.ARMA, set.Diff = &m, diff
+		f, ferr := fromARMA(x, name, set, "Settings.Order")
+		if ferr != nil {
+			return Filter{}, ferr
+		}
+		return f, err // nil, or the fit's *arma.ConvergenceError
 	}
 	if set.ARMA != nil {
-		return fromARMA(x, name, set)
+		return fromARMA(x, name, set, "Settings.ARMA")
 	}
 	diff := normPoly(set.Diff)
 	f, err := fitAR(x, name, diff, set.MaxOrder)
@@ -220,33 +351,42 @@ func fitAR(x []float64, name string, diff []float64, maxOrder int) (Filter, erro
 		return Filter{}, &ShortError{Name: name, Len: len(x), Need: need + d, Why: "for the prewhitening autoregression"}
 	}
 	if isConstant(w) {
-		return Filter{}, &ConstantError{Name: name}
+		return Filter{}, &ConstantError{Name: name, Value: w[0], Diff: polyText(diff)}
 	}
 	ar, err := arma.YuleWalker(w, maxOrder)
 	if err != nil {
 		var ce *arma.ConstantError
 		if errors.As(err, &ce) {
-			return Filter{}, &ConstantError{Name: name}
+			return Filter{}, &ConstantError{Name: name, Value: w[0], Diff: polyText(diff)}
 		}
 		return Filter{}, err
 	}
 	return Filter{Input: name, Diff: diff, AR: ar.Poly(), MA: []float64{1}, Mean: ar.Mean, Sigma2: ar.Var}, nil
 }
 
-func fromARMA(x []float64, name string, set Settings) (Filter, error) {
+// fromARMA builds the filter of set.ARMA; arg names the setting that
+// gave the model in errors (Settings.Order for a fitted one).
+func fromARMA(x []float64, name string, set Settings, arg string) (Filter, error) {
 	m := set.ARMA
-	diff := normPoly(set.Diff)
-	if set.Diff == nil {
-		diff = normPoly(m.DiffPoly())
+	diff := normPoly(m.DiffPoly())
+	if len(diff) == 1 && set.Diff != nil {
+		diff = normPoly(set.Diff)
 	}
 	f := Filter{Input: name, Diff: diff, AR: normPoly(m.ARPoly()), MA: normPoly(m.MAPoly()), Mean: m.Mean, Sigma2: m.Sigma2}
-	for _, c := range [][]float64{f.Diff, f.AR, f.MA, {1, f.Mean}} {
-		if err := checkPoly("Settings.ARMA", c); err != nil {
+	for _, c := range [][]float64{f.Diff, f.AR, f.MA} {
+		if err := checkPoly(arg, c); err != nil {
 			return Filter{}, err
 		}
 	}
-	if ok, _, err := m.Invertible(); err != nil || !ok {
-		return Filter{}, &ArgError{Arg: "Settings.ARMA", Value: "a non-invertible MA part", Want: "an invertible model (its inverse filters the input)"}
+	if ok, roots, err := m.Invertible(); err != nil || !ok {
+		what := "a non-invertible MA part"
+		if arg == "Settings.Order" {
+			what = "the fitted filter " + strconv.Quote(f.String()) + " with a non-invertible MA part"
+		}
+		if len(roots) > 0 {
+			what += fmt.Sprintf(" (largest z-plane root modulus %.4g)", maxAbs(roots))
+		}
+		return Filter{}, &ArgError{Arg: arg, Value: what, Want: "an invertible model (its inverse filters the input); for a fitted one try a smaller Q or less differencing"}
 	}
 	if len(x) <= f.Start()+1 {
 		return Filter{}, &ShortError{Name: name, Len: len(x), Need: f.Start() + 2, Why: "for the given filter"}
@@ -314,17 +454,42 @@ func applyFIR(x, c []float64) []float64 {
 }
 
 // Apply filters y with f: w = D(B) y, then phi(B)/theta(B) (w - mean(w)),
-// mean(w) being y's own mean over the differenced samples. out has
-// len(y) values, NaN before start = f.Start(); the MA part runs with zero
-// pre-sample values from start. For the series f was fitted to, out
-// equals the autoregression residuals (R's ar()$resid).
+// mean(w) being y's own mean over the differenced samples (the level of
+// another series, such as the output, is not the input's; ApplyInput
+// removes f.Mean instead). out has len(y) values, NaN before start =
+// f.Start(); the MA part runs with zero pre-sample values from start.
+// For the series f was fitted by autoregression to, out equals the
+// autoregression residuals (R's ar()$resid) and ApplyInput's result.
 //
-// Errors: *ValueError for NaN/Inf, *ShortError when y has no more than
-// start+1 samples. y is not modified.
+// Errors: *ArgError for a filter that is not valid (see Filter),
+// *ValueError for NaN/Inf, *ShortError when y has no more than start+1
+// samples. y is not modified.
 func (f Filter) Apply(y []float64, name string) (out []float64, start int, err error) {
 	if name == "" {
 		name = "y"
 	}
+	return f.apply(y, name, 0, true)
+}
+
+// ApplyInput filters the input x the filter was fitted to as the filter
+// is written: alpha_t = phi(B)/theta(B) (D(B) x_t - f.Mean), NaN before
+// start = f.Start(), the MA part from zero pre-sample values at start.
+// Pair's Alpha is this series. Errors and naming (f.Input, or "x") as
+// for Apply.
+func (f Filter) ApplyInput(x []float64) (out []float64, start int, err error) {
+	name := f.Input
+	if name == "" {
+		name = "x"
+	}
+	if f.Mean-f.Mean != 0 {
+		return nil, 0, &ArgError{Arg: "Filter.Mean", Value: strconv.FormatFloat(f.Mean, 'g', -1, 64), Want: "a finite number"}
+	}
+	return f.apply(x, name, f.Mean, false)
+}
+
+// apply is Apply (own true: remove y's own mean) and ApplyInput (remove
+// mean).
+func (f Filter) apply(y []float64, name string, mean float64, own bool) (out []float64, start int, err error) {
 	if err := f.check(); err != nil {
 		return nil, 0, err
 	}
@@ -352,7 +517,10 @@ func (f Filter) Apply(y []float64, name string) (out []float64, start int, err e
 		}
 	}
 	w := out[d:]
-	m := meanOf(w)
+	m := mean
+	if own {
+		m = meanOf(w)
+	}
 	p := len(f.AR) - 1
 	ar := f.AR
 	// phi(B)(w_t - m) = phi(B) w_t - m phi(1).
@@ -398,7 +566,7 @@ func (f Filter) check() error {
 	if len(f.MA) > 1 {
 		roots, err := poly.Roots(f.MA)
 		if err != nil {
-			return &ArgError{Arg: "Filter.MA", Value: strconv.Quote(polyText(f.MA)), Want: "an invertible MA part: " + err.Error()}
+			return &ArgError{Arg: "Filter.MA", Value: strconv.Quote(polyText(f.MA)), Want: "an invertible MA part (its roots could not be computed: coefficients of extreme size)"}
 		}
 		for _, r := range roots {
 			if cmplx.Abs(r) <= 1 {

@@ -17,12 +17,39 @@ type NoiseSettings struct {
 	// MaxR and MaxS. A negative bound is therefore not an error.
 	MaxP, MaxQ int
 	// Lags is the number of autocorrelations reported; zero means
-	// min(24, n/4).
+	// min(24, n/4), negative is an *ArgError.
 	Lags int
 	// Criterion ranks the orders (arma.ByAICc by default).
 	Criterion arma.Criterion
 	// Name names the series in errors; empty means "noise".
 	Name string
+}
+
+// Validate checks every field of s on its own (nil is the defaults)
+// and returns an *ArgError naming the first bad field: MaxP or MaxQ
+// above arma.MaxLag (a negative bound is documented: order zero only),
+// Lags negative, an unknown Criterion. Name accepts every value.
+// IdentifyNoise calls it first; Lags against the series length is
+// checked there.
+func (s *NoiseSettings) Validate() error {
+	if s == nil {
+		return nil
+	}
+	for _, f := range []struct {
+		name string
+		v    int
+	}{{"NoiseSettings.MaxP", s.MaxP}, {"NoiseSettings.MaxQ", s.MaxQ}} {
+		if f.v > arma.MaxLag {
+			return &ArgError{Arg: f.name, Value: strconv.Itoa(f.v), Want: "at most arma.MaxLag = " + strconv.Itoa(arma.MaxLag)}
+		}
+	}
+	if s.Lags < 0 {
+		return &ArgError{Arg: "NoiseSettings.Lags", Value: strconv.Itoa(s.Lags), Want: ">= 0 (zero means the default)"}
+	}
+	if s.Criterion < arma.ByAICc || s.Criterion > arma.ByAIC {
+		return &ArgError{Arg: "NoiseSettings.Criterion", Value: s.Criterion.String(), Want: "arma.ByAICc, arma.ByBIC or arma.ByAIC"}
+	}
+	return nil
 }
 
 // NoiseIdentification describes a preliminary noise series.
@@ -57,9 +84,14 @@ type NoiseIdentification struct {
 //
 // Errors: *ValueError for NaN/Inf after the leading NaN run, *ShortError
 // for fewer than 20 samples, *ConstantError for a constant series,
-// *ArgError for bad settings; a done ctx returns its error with the
-// candidates fitted so far.
+// *ArgError for bad settings (NoiseSettings.Validate); a done ctx returns
+// its error with the candidates fitted so far, and a fit that panicked
+// (a bug, recovered on arma.Select's worker goroutine) an
+// *arma.InternalError with them.
 func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*NoiseIdentification, error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
 	var set NoiseSettings
 	if s != nil {
 		set = *s
@@ -82,7 +114,7 @@ func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 		return nil, &ShortError{Name: name, Len: len(noise), Need: start + 20, Why: "to identify a noise model"}
 	}
 	if isConstant(w) {
-		return nil, &ConstantError{Name: name}
+		return nil, &ConstantError{Name: name, Value: w[0]}
 	}
 	maxP, maxQ := bound(set.MaxP), bound(set.MaxQ)
 	lags := set.Lags

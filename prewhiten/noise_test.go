@@ -145,9 +145,10 @@ func TestIdentifyNoiseNegativeBound(t *testing.T) {
 	}
 }
 
-// TestIdentifyNoiseBadLags: a Lags setting outside 1..n-1 (n the samples
-// after the leading NaN run) is an *ArgError naming NoiseSettings.Lags
-// with the value and the allowed range.
+// TestIdentifyNoiseBadLags: a negative Lags is refused by Validate, and
+// one at or beyond n (the samples after the leading NaN run) is an
+// *ArgError naming NoiseSettings.Lags with the value and the allowed
+// range.
 func TestIdentifyNoiseBadLags(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	y := make([]float64, 52)
@@ -159,7 +160,7 @@ func TestIdentifyNoiseBadLags(t *testing.T) {
 		lags int
 		want string
 	}{
-		{-1, "prewhiten: NoiseSettings.Lags = -1, want in 1..49"},
+		{-1, "prewhiten: NoiseSettings.Lags = -1, want >= 0 (zero means the default)"}, // NoiseSettings.Validate
 		{50, "prewhiten: NoiseSettings.Lags = 50, want in 1..49"},
 	} {
 		_, err := prewhiten.IdentifyNoise(context.Background(), y, &prewhiten.NoiseSettings{Lags: c.lags})

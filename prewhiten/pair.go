@@ -1,6 +1,7 @@
 package prewhiten
 
 import (
+	"errors"
 	"math"
 	"strconv"
 
@@ -23,8 +24,9 @@ type Result struct {
 	White bool
 }
 
-// Pair fits a filter to the input x (see Fit) and applies it to x and to
-// the output y, which must have the same length. It then tests
+// Pair fits a filter to the input x (see Fit) and applies it to x (as
+// ApplyInput: the filter's Mean removed) and to the output y (as Apply:
+// y's own mean removed), which must have the same length. It then tests
 // Alpha[Start:] for whiteness with Ljung-Box.
 //
 // When the autoregression leaves the input autocorrelated and the filter
@@ -36,10 +38,14 @@ type Result struct {
 // whitens, is the common case.
 //
 // When the final filter still fails the test, Pair returns the complete
-// result together with a *NotWhiteError (use errors.As); all other errors
+// result together with a *NotWhiteError (use errors.As); when it is the
+// filter of Settings.Order and its fit did not converge, the result comes
+// with the *arma.ConvergenceError (joined with a *NotWhiteError when
+// both apply); all other errors
 // come with a nil result: *LengthError, *ValueError naming "x"/"y" or the
 // names given (Settings.Name for x, yName for y), *ShortError,
-// *ConstantError, *ArgError.
+// *ConstantError (x or y constant, x constant after its differencing),
+// *ArgError (Settings.Validate).
 func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 	name := s.name()
 	if yName == "" {
@@ -47,6 +53,9 @@ func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 	}
 	if len(x) != len(y) {
 		return nil, &LengthError{Names: [2]string{name, yName}, Lens: [2]int{len(x), len(y)}}
+	}
+	if err := s.Validate(); err != nil {
+		return nil, err
 	}
 	if err := checkSeries(yName, y); err != nil {
 		return nil, err
@@ -59,12 +68,17 @@ func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 	if level == 0 {
 		level = 0.01
 	}
-	if !(level > 0 && level < 1) {
-		return nil, &ArgError{Arg: "Settings.Level", Value: strconv.FormatFloat(level, 'g', -1, 64), Want: "in (0, 1)"}
-	}
 	f, err := Fit(x, s)
+	var convErr error // the caller's Order fitted without converging
 	if err != nil {
-		return nil, err
+		var cv *arma.ConvergenceError
+		if !errors.As(err, &cv) {
+			return nil, err
+		}
+		convErr = err
+	}
+	if isConstant(y) {
+		return nil, &ConstantError{Name: yName, Value: y[0]}
 	}
 	res, err := pairWith(f, x, y, name, yName, set.Lags, level)
 	if err != nil {
@@ -88,18 +102,23 @@ func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 			}
 			if r.Check.P > res.Check.P {
 				res = r
+				convErr = nil
 			}
 		}
 	}
 	if !res.White {
-		return res, &NotWhiteError{Name: name, Q: res.Check.Q, DF: res.Check.DF, P: res.Check.P, Lags: res.Check.Lags, Level: level}
+		nw := &NotWhiteError{Name: name, Q: res.Check.Q, DF: res.Check.DF, P: res.Check.P, Lags: res.Check.Lags, Level: level}
+		if convErr != nil {
+			return res, errors.Join(nw, convErr)
+		}
+		return res, nw
 	}
-	return res, nil
+	return res, convErr
 }
 
 // pairWith applies f to x and y and tests the filtered x.
 func pairWith(f Filter, x, y []float64, name, yName string, lags int, level float64) (*Result, error) {
-	alpha, start, err := f.Apply(x, name)
+	alpha, start, err := f.apply(x, name, f.Mean, false)
 	if err != nil {
 		return nil, err
 	}
@@ -122,7 +141,7 @@ func pairWith(f Filter, x, y []float64, name, yName string, lags int, level floa
 		return nil, &ShortError{Name: name, Len: len(x), Need: start + min(lags, math.MaxInt-start-1) + 1, Why: "to check the prewhitened input for whiteness"}
 	}
 	if isConstant(alpha[start:]) {
-		return nil, &ConstantError{Name: name}
+		return nil, &ConstantError{Name: name, Value: alpha[start], After: strconv.Quote(f.String())}
 	}
 	res.Check, err = arma.LjungBox(alpha[start:], lags, fitted)
 	if err != nil {

@@ -1,0 +1,173 @@
+package arma
+
+import (
+	"context"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+// fuzzSeries turns fuzz bytes into a short series with hostile values:
+// each pair of bytes is one sample, the first byte choosing NaN, +-Inf,
+// 1e300, 1e-300, a repeat of the previous sample (constant runs) or an
+// ordinary value from the second byte.
+func fuzzSeries(data []byte) []float64 {
+	var y []float64
+	prev := 0.0
+	for i := 0; i+1 < len(data) && len(y) < 80; i += 2 {
+		v := float64(int8(data[i+1])) / 16
+		switch data[i] % 24 {
+		case 0:
+			v = math.NaN()
+		case 1:
+			v = math.Inf(1)
+		case 2:
+			v = math.Inf(-1)
+		case 3:
+			v = 1e300
+		case 4:
+			v = 1e-300
+		case 5, 6, 7, 8:
+			v = prev
+		case 9:
+			v *= 1e12
+		}
+		y = append(y, v)
+		prev = v
+	}
+	return y
+}
+
+// FuzzFit: a short series with hostile values and small random orders
+// gives a typed error or a finite result, never a panic; a result's
+// forecast is finite or a typed error.
+func FuzzFit(f *testing.F) {
+	f.Add([]byte{10, 3, 10, 40, 10, 250, 10, 7, 10, 100, 10, 33, 10, 1, 10, 200}, uint8(1), uint8(0), uint8(1))
+	f.Add([]byte{5, 0, 5, 0, 5, 0, 5, 0, 5, 0, 5, 0}, uint8(1), uint8(1), uint8(0))
+	f.Add([]byte{10, 3, 0, 40, 10, 250, 3, 7, 10, 100, 10, 33}, uint8(0), uint8(0), uint8(2))
+	f.Add([]byte{9, 3, 9, 40, 9, 250, 9, 7, 9, 100, 9, 33, 9, 1, 9, 200, 9, 9, 9, 90}, uint8(2), uint8(1), uint8(1))
+	f.Fuzz(func(t *testing.T, data []byte, p, d, q uint8) {
+		y := fuzzSeries(data)
+		keep := append([]float64(nil), y...)
+		ord := Order{P: int(p % 3), D: int(d % 2), Q: int(q % 3)}
+		res, err := Fit(context.Background(), y, ord, &Options{Name: "fuzz", MaxIter: 50})
+		for i := range y {
+			if y[i] != keep[i] && !(math.IsNaN(y[i]) && math.IsNaN(keep[i])) {
+				t.Fatalf("input modified at %d", i)
+			}
+		}
+		if err != nil {
+			var (
+				ae *ArgError
+				de *DataError
+				se *ShortError
+				ce *ConstantError
+				cv *ConvergenceError
+				re *RootError
+			)
+			switch {
+			case errors.As(err, &cv):
+				if res == nil {
+					t.Fatalf("ConvergenceError without a result: %v", err)
+				}
+			case errors.As(err, &ae), errors.As(err, &de), errors.As(err, &se), errors.As(err, &ce), errors.As(err, &re):
+				if res != nil {
+					t.Fatalf("result with error %v", err)
+				}
+				return
+			default:
+				t.Fatalf("untyped error %T %v", err, err)
+			}
+		}
+		if !(res.Sigma2 > 0) || math.IsInf(res.Sigma2, 0) || math.IsNaN(res.LogLik) {
+			t.Fatalf("Sigma2 %v LogLik %v", res.Sigma2, res.LogLik)
+		}
+		for k, v := range res.Est {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Fatalf("%s = %v", res.Names[k], v)
+			}
+		}
+		fc, ferr := res.Forecast(5, 0.9, nil)
+		if ferr != nil {
+			var ae *ArgError
+			if !errors.As(ferr, &ae) {
+				t.Fatalf("forecast: untyped %T %v", ferr, ferr)
+			}
+			return
+		}
+		for h := range fc.Mean {
+			if math.IsNaN(fc.Mean[h]) || math.IsInf(fc.Mean[h], 0) || math.IsNaN(fc.SE[h]) || math.IsInf(fc.SE[h], 0) {
+				t.Fatalf("forecast step %d: %v +- %v", h+1, fc.Mean[h], fc.SE[h])
+			}
+		}
+	})
+}
+
+// TestForecastHostile: bad horizons, levels and future regressor values
+// are typed errors naming the argument (a NaN future value was an
+// *ArgError whose message repeated the package prefix: "arma:
+// futureX: arma: futureX sample 3 is NaN").
+func TestForecastHostile(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 120, &SimSettings{Seed1: 8})
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := make([]float64, len(y))
+	for i := range x {
+		x[i] = float64(i % 7)
+	}
+	res, err := Fit(context.Background(), y, Order{P: 1}, &Options{X: [][]float64{x}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := func(v float64) [][]float64 { return [][]float64{{1, 2, 3, v, 5}} }
+	isArg := func(err error) bool { var e *ArgError; return errors.As(err, &e) }
+	cases := []struct {
+		name  string
+		steps int
+		level float64
+		fx    [][]float64
+		ok    func(error) bool
+		want  string
+	}{
+		{"steps 0", 0, 0.9, col(4), isArg, "steps: must be in 1..MaxHorizon"},
+		{"steps -1", -1, 0.9, col(4), isArg, "got -1"},
+		{"steps huge", math.MaxInt, 0.9, col(4), isArg, "MaxHorizon"},
+		{"level 1", 5, 1, col(4), isArg, "level: must be in (0, 1)"},
+		{"level NaN", 5, math.NaN(), col(4), isArg, "level"},
+		{"futureX missing", 5, 0.9, nil, isArg, "needs 1 regressor columns"},
+		{"futureX short", 5, 0.9, [][]float64{{1}}, isArg, "column 1 needs 5 values"},
+		{"futureX NaN", 5, 0.9, col(math.NaN()), func(err error) bool {
+			var e *DataError
+			return errors.As(err, &e) && e.Index == 3 && e.Series == "futureX column 1"
+		}, "arma: futureX column 1 sample 3 is NaN"},
+		{"futureX huge", 5, 0.9, col(1e300), func(err error) bool { var e *DataError; return errors.As(err, &e) }, "beyond MaxAbs"},
+	}
+	for _, c := range cases {
+		_, err := res.Forecast(c.steps, c.level, c.fx)
+		if err == nil || !c.ok(err) || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: %T %v, want %q", c.name, err, err, c.want)
+		}
+	}
+	var zero *Result
+	if _, err := zero.Forecast(3, 0, nil); !isArg(err) {
+		t.Errorf("nil result: %v", err)
+	}
+}
+
+// TestStartOverflowMessage: start values whose residuals overflow gave
+// "arma: start: lm: residuals cannot be computed at the start point: sum
+// of squares is +Inf", the optimiser's internal wording; the message
+// now names the series and the settings to look at.
+func TestStartOverflowMessage(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 100, &SimSettings{Seed1: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Fit(context.Background(), y, Order{P: 1, Q: 1}, &Options{Name: "flow", Init: map[string]float64{"phi1": 1e200}, AllowNonInvertible: true})
+	var ae *ArgError
+	if !errors.As(err, &ae) || !strings.Contains(err.Error(), "residuals of flow at the start values are not finite") || strings.Contains(err.Error(), "lm:") {
+		t.Errorf("%T %v", err, err)
+	}
+}

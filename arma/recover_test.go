@@ -1,0 +1,58 @@
+package arma
+
+import (
+	"context"
+	"errors"
+	"strings"
+	"testing"
+)
+
+// TestSelectRecoversPanic injects a panic into one fit of Select (through
+// the unexported testSelectHook, run on the worker goroutine): the
+// process survives, the candidate carries an *InternalError naming the
+// order and the series, and Select returns that error with every
+// candidate (the others fitted normally).
+func TestSelectRecoversPanic(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.6}, Sigma2: 1}, 200, &SimSettings{Seed1: 3, Seed2: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	testSelectHook = func(o Order) {
+		if o.P == 1 && o.Q == 1 {
+			var s []int
+			_ = s[o.P+5] // an index panic, as a bug would make
+		}
+	}
+	defer func() { testSelectHook = nil }()
+	cands, err := Select(context.Background(), y, Grid{MaxP: 1, MaxQ: 1, Workers: 2}, &Options{Name: "flow"})
+	var ie *InternalError
+	if !errors.As(err, &ie) {
+		t.Fatalf("Select error %T %v, want *InternalError", err, err)
+	}
+	for _, w := range []string{"(1,0,1)", "flow", "index out of range", "bug in backshift"} {
+		if !strings.Contains(err.Error(), w) {
+			t.Errorf("message %q lacks %q", err, w)
+		}
+	}
+	if !strings.Contains(ie.Stack, "selectOne") {
+		t.Errorf("stack does not show the worker: %.200s", ie.Stack)
+	}
+	if len(cands) != 4 {
+		t.Fatalf("%d candidates, want 4", len(cands))
+	}
+	fitted := 0
+	for _, c := range cands {
+		if c.Order.P == 1 && c.Order.Q == 1 {
+			if !errors.As(c.Err, &ie) || c.Result != nil {
+				t.Errorf("panicking candidate: %v %v", c.Result, c.Err)
+			}
+			continue
+		}
+		if c.Err == nil && c.Result != nil {
+			fitted++
+		}
+	}
+	if fitted != 3 {
+		t.Errorf("%d other candidates fitted, want 3", fitted)
+	}
+}

@@ -1,0 +1,87 @@
+package ccf
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+// fuzzPair turns fuzz bytes into two series of equal or unequal length
+// with hostile values: NaN, +-Inf, 1e300, 1e-300, repeats (constant
+// runs) and values scaled by 1e150 or 1e-150.
+func fuzzPair(data []byte, cut uint8) (x, y []float64) {
+	var s []float64
+	prev := 0.0
+	for i := 0; i+1 < len(data) && len(s) < 300; i += 2 {
+		v := float64(int8(data[i+1])) / 8
+		switch data[i] % 24 {
+		case 0:
+			v = math.NaN()
+		case 1:
+			v = math.Inf(1)
+		case 2:
+			v = math.Inf(-1)
+		case 3:
+			v = 1e300
+		case 4:
+			v = 1e-300
+		case 5, 6, 7, 8:
+			v = prev
+		case 9:
+			v *= 1e150
+		case 10:
+			v *= 1e-150
+		}
+		s = append(s, v)
+		prev = v
+	}
+	h := len(s) / 2
+	x, y = s[:h], s[h:]
+	if cut%5 != 0 && len(y) > len(x) {
+		y = y[:len(x)]
+	}
+	return x, y
+}
+
+// FuzzCross: Cross on hostile series, any lag and either method gives a
+// typed error or correlations in [-1, 1] (to rounding), never a panic.
+func FuzzCross(f *testing.F) {
+	f.Add([]byte{11, 3, 11, 40, 11, 250, 11, 7, 11, 100, 11, 33, 11, 1, 11, 200, 11, 5, 11, 60, 11, 9, 11, 99}, uint8(1), 2, uint8(0))
+	f.Add([]byte{5, 1, 5, 1, 5, 1, 5, 1, 11, 3, 11, 4, 11, 5, 11, 6}, uint8(1), 1, uint8(1))
+	f.Add([]byte{11, 3, 3, 40, 11, 250, 11, 7, 9, 100, 11, 33, 11, 1, 10, 200}, uint8(1), 0, uint8(2))
+	f.Add([]byte{11, 3, 11, 40, 11, 250, 11, 7}, uint8(0), -3, uint8(2))
+	f.Fuzz(func(t *testing.T, data []byte, cut uint8, lag int, method uint8) {
+		x, y := fuzzPair(data, cut)
+		if lag > 1<<20 || lag < -(1<<20) {
+			lag = lag % (1 << 20)
+		}
+		c, err := Cross(x, y, lag, &Settings{Method: Method(method % 4), Names: [2]string{"in", "out"}})
+		if err != nil {
+			var (
+				le *LengthError
+				se *ShortError
+				ce *ConstantError
+				ve *ValueError
+				ae *ArgError
+			)
+			if !errors.As(err, &le) && !errors.As(err, &se) && !errors.As(err, &ce) && !errors.As(err, &ve) && !errors.As(err, &ae) {
+				t.Fatalf("untyped error %T %v", err, err)
+			}
+			if c != nil {
+				t.Fatalf("result with error %v", err)
+			}
+			return
+		}
+		if len(c.R) != 2*lag+1 {
+			t.Fatalf("%d correlations for lag %d", len(c.R), lag)
+		}
+		for k, r := range c.R {
+			if !(math.Abs(r) <= 1+1e-9) {
+				t.Fatalf("r(%d) = %v", k-lag, r)
+			}
+		}
+		if !(c.SDX > 0) || !(c.SDY > 0) || math.IsInf(c.SDX, 0) || math.IsInf(c.SDY, 0) {
+			t.Fatalf("SD %v %v", c.SDX, c.SDY)
+		}
+	})
+}
