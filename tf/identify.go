@@ -624,6 +624,24 @@ func idfJointWeights(output string, inputs []string, data map[string][]float64, 
 	return r.Weights, nil
 }
 
+// idfSpecName reports whether s can name a series in a model spec (the
+// models Identify returns print as specs): an ASCII letter or underscore,
+// then letters, digits or underscores, and not a word of the language.
+func idfSpecName(s string) bool {
+	switch s {
+	case "", "B", "a", "AR", "MA", "ARMA", "where", "every":
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		letter := 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' || c == '_'
+		if !letter && (i == 0 || c < '0' || c > '9') {
+			return false
+		}
+	}
+	return true
+}
+
 // idfValidate checks presence, lengths and finiteness of the series.
 func idfValidate(output string, inputs []string, data map[string][]float64) error {
 	if output == "" {
@@ -633,9 +651,14 @@ func idfValidate(output string, inputs []string, data map[string][]float64) erro
 	if !ok {
 		return &FitError{Problem: MissingSeries, Series: output, Detail: "output"}
 	}
+	if !idfSpecName(output) {
+		return &SeriesNameError{Name: output, Role: "output"}
+	}
 	seen := map[string]bool{}
 	for _, name := range inputs {
 		switch {
+		case name != "" && !idfSpecName(name):
+			return &SeriesNameError{Name: name, Role: "input"}
 		case name == "":
 			return &InputListError{Name: name, Problem: "is empty; name each input series"}
 		case name == output:

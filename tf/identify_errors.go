@@ -19,6 +19,20 @@ func (e *InputListError) Error() string {
 	return fmt.Sprintf("tf: Identify: inputs: %q %s", e.Name, e.Problem)
 }
 
+// SeriesNameError reports a series name given to Identify that a model
+// spec cannot hold (the candidates print as specs and are read back by
+// package parse): Role is "output" or "input".
+type SeriesNameError struct {
+	Name string
+	Role string
+}
+
+// Error describes the problem and the fix in one line.
+func (e *SeriesNameError) Error() string {
+	return fmt.Sprintf("tf: Identify: %s series name %q cannot be written in a model spec: "+
+		"use an ASCII letter or underscore, then letters, digits or underscores, not one of B, a, AR, MA, ARMA, where, every (rename the series)", e.Role, e.Name)
+}
+
 // ScoreError is the Err of a Candidate whose fit succeeded but whose
 // ranking criterion (BIC, or AIC) is not a finite number, which would
 // otherwise rank it first (-Inf) or anywhere (NaN): typically a sum of

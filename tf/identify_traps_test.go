@@ -153,6 +153,23 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 			t.Errorf("inputs %q: %v", tc.inputs, err)
 		}
 	}
+	// Names a spec cannot hold: the candidates print as specs, so they
+	// are refused up front under the user's name (ccf's message named its
+	// own IdentifySettings.Input field).
+	var ne *SeriesNameError
+	for _, tc := range []struct {
+		output, input, role, name string
+	}{
+		{"y", "valve-1", "input", "valve-1"},
+		{"y", "AR", "input", "AR"},
+		{"temp out", "x", "output", "temp out"},
+	} {
+		d := map[string][]float64{tc.output: data["y"], tc.input: data["x"]}
+		_, err := Identify(context.Background(), tc.output, []string{tc.input}, d, nil)
+		if !errors.As(err, &ne) || ne.Role != tc.role || ne.Name != tc.name || !strings.Contains(err.Error(), "cannot be written in a model spec") {
+			t.Errorf("%s %q: %v", tc.role, tc.name, err)
+		}
+	}
 }
 
 // idfStub replaces the fit Identify runs for one test.
