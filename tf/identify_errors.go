@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+
+	"github.com/backshift/backshift/arma"
 )
 
 // InputListError reports a list of inputs given to Identify that cannot
@@ -66,7 +68,8 @@ func (e *PanicError) Error() string {
 // input). The rule: zero means the default for every number; a negative
 // count (MaxLag, Forms, NoiseOrders, MaxCandidates, Workers) is an
 // error, while a negative order bound (MaxR, MaxS, MaxP, MaxQ) means
-// order zero only, as in packages ccf and prewhiten. A differencing
+// order zero only, as in packages ccf and prewhiten; MaxP and MaxQ are
+// at most arma.MaxLag. A differencing
 // operator must have finite coefficients, constant term 1 and a degree
 // below half the record.
 func (s *IdentifySettings) validate(inputs []string, n int) error {
@@ -76,6 +79,14 @@ func (s *IdentifySettings) validate(inputs []string, n int) error {
 	}{{"MaxLag", s.MaxLag}, {"Forms", s.Forms}, {"NoiseOrders", s.NoiseOrders}, {"MaxCandidates", s.MaxCandidates}, {"Workers", s.Workers}} {
 		if c.v < 0 {
 			return &ArgError{Arg: "IdentifySettings." + c.name, Value: float64(c.v), Rule: "must be zero (the default) or positive"}
+		}
+	}
+	for _, c := range []struct {
+		name string
+		v    int
+	}{{"MaxP", s.MaxP}, {"MaxQ", s.MaxQ}} {
+		if c.v > arma.MaxLag {
+			return &ArgError{Arg: "IdentifySettings." + c.name, Value: float64(c.v), Rule: "must be at most " + strconv.Itoa(arma.MaxLag) + " (arma.MaxLag)"}
 		}
 	}
 	diff := func(arg string, c []float64) error {

@@ -41,6 +41,8 @@ func TestIdentifySettingsTable(t *testing.T) {
 		{IdentifySettings{Forms: -2}, "IdentifySettings.Forms", "must be zero (the default) or positive"},
 		{IdentifySettings{NoiseOrders: -1}, "IdentifySettings.NoiseOrders", "must be zero (the default) or positive"},
 		{IdentifySettings{MaxCandidates: -3}, "IdentifySettings.MaxCandidates", "must be zero (the default) or positive"},
+		{IdentifySettings{MaxP: 257}, "IdentifySettings.MaxP", "must be at most 256 (arma.MaxLag)"},
+		{IdentifySettings{MaxQ: 1000}, "IdentifySettings.MaxQ", "must be at most 256 (arma.MaxLag)"},
 		{IdentifySettings{Workers: -1}, "IdentifySettings.Workers", "must be zero (the default) or positive"},
 		{IdentifySettings{Fit: &FitSettings{MaxIter: -1}}, "IdentifySettings.Fit.MaxIter", "zero"},
 		{IdentifySettings{Check: &CheckSettings{Alpha: 2}}, "IdentifySettings.Check.Alpha", "must lie in (0, 1)"},
