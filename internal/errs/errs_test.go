@@ -1,0 +1,95 @@
+package errs
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+// Each shape prints its facts in one line and matches its kind with
+// errors.Is (the wording is the library's own).
+func TestShapes(t *testing.T) {
+	for _, tc := range []struct {
+		err  error
+		kind error
+		want string
+	}{
+		{&SampleError{Op: "tf.Fit", Series: "valve", Index: 12, Value: math.NaN()}, ErrSample,
+			`tf.Fit: series "valve" sample 12 is NaN: samples must be finite numbers`},
+		{&SampleError{Op: "arma.Fit", Series: "y", Index: 3, Value: 1e300, Limit: 1e140}, ErrSample,
+			`arma.Fit: series "y" sample 3 is 1e+300, beyond the largest magnitude accepted, 1e+140 (rescale the series: change its units)`},
+		{&SeriesError{Op: "tf.Fit", Series: "temp", Kind: ErrShort, Have: 5, Need: 8, Detail: "after differencing"}, ErrShort,
+			`tf.Fit: series "temp": 5 samples, at least 8 needed (after differencing)`},
+		{&SeriesError{Series: "valve", Kind: ErrLength, Have: 9, Need: 10}, ErrLength, `series "valve" has 9 samples, 10 expected`},
+		{&SeriesError{Series: "valve", Kind: ErrConstant, Detail: "every sample is 50"}, ErrConstant, `series "valve" is constant (every sample is 50)`},
+		{&SeriesError{Series: "vlave", Kind: ErrName, Detail: "did you mean valve?"}, ErrName, `series "vlave" is not known (did you mean valve?)`},
+		{&SeriesError{Series: "y", Kind: ErrOverflow}, ErrOverflow, `series "y": result out of float64 range`},
+		{&SettingError{Op: "tf.Fit", Setting: "FitSettings.MaxIter", Value: "-1", Rule: "must be zero or positive (0 means 200)"}, ErrSetting,
+			`tf.Fit: FitSettings.MaxIter = -1: must be zero or positive (0 means 200)`},
+		{&ModelError{Op: "tf.NewSystem", Part: "input valve dead time", Problem: "-1 samples is below 0"}, ErrModel,
+			`tf.NewSystem: input valve dead time: -1 samples is below 0`},
+		{&ConvergenceError{Op: "arma.Fit", Iter: 500, Reason: "iteration limit"}, ErrConvergence, `arma.Fit: no convergence after 500 iterations: iteration limit`},
+		{&InternalError{Op: "tf.Identify", Value: "boom"}, ErrInternal,
+			`tf.Identify: internal fault: boom (a fault of the library; please report it with this message)`},
+	} {
+		if got := tc.err.Error(); got != tc.want {
+			t.Errorf("message\n got %s\nwant %s", got, tc.want)
+		}
+		if !errors.Is(tc.err, tc.kind) {
+			t.Errorf("%T does not match its kind %v", tc.err, tc.kind)
+		}
+		if errors.Is(tc.err, ErrInternal) != (tc.kind == ErrInternal) {
+			t.Errorf("%T matches a kind it is not", tc.err)
+		}
+	}
+	// A ModelError with a precise cause matches both.
+	cause := errors.New("constant term is zero")
+	me := &ModelError{Part: "den", Problem: "constant term is zero", Err: cause}
+	if !errors.Is(me, cause) || !errors.Is(me, ErrModel) {
+		t.Error("ModelError with Err does not match both Err and ErrModel")
+	}
+}
+
+func TestRecover(t *testing.T) {
+	run := func() (err error) {
+		defer Recover("tf.Identify", &err)
+		var s []int
+		_ = s[3] // an index panic, as a library fault would raise
+		return nil
+	}
+	err := run()
+	var ie *InternalError
+	if !errors.As(err, &ie) || ie.Op != "tf.Identify" || len(ie.Stack) == 0 || !errors.Is(err, ErrInternal) {
+		t.Fatalf("Recover gave %v", err)
+	}
+	quiet := func() (err error) {
+		defer Recover("x", &err)
+		return nil
+	}
+	if err := quiet(); err != nil {
+		t.Errorf("Recover without a panic set %v", err)
+	}
+}
+
+func TestRule(t *testing.T) {
+	for _, tc := range []struct {
+		err  error
+		want string
+	}{
+		{Count("tf.Fit", "FitSettings.Starts", -2, "0 means automatic"), "tf.Fit: FitSettings.Starts = -2: must be zero or positive (0 means automatic)"},
+		{NonNegative("", "FitSettings.Tol", math.NaN(), "0 means 1e-14"), "FitSettings.Tol = NaN: must be a finite number, zero or positive (0 means 1e-14)"},
+		{NonNegative("", "S.X", math.Inf(1), "0 means 1"), "S.X = +Inf: must be a finite number, zero or positive (0 means 1)"},
+		{Probability("", "CheckSettings.Alpha", 1, "0 means 0.05"), "CheckSettings.Alpha = 1: must lie strictly between 0 and 1 (0 means 0.05)"},
+	} {
+		var se *SettingError
+		if !errors.As(tc.err, &se) || tc.err.Error() != tc.want {
+			t.Errorf("got %v, want %s", tc.err, tc.want)
+		}
+	}
+	for _, err := range []error{Count("", "a", 0, ""), Count("", "a", 5, ""), NonNegative("", "b", 0, ""), NonNegative("", "b", 2.5, ""),
+		Probability("", "c", 0, ""), Probability("", "c", 0.05, "")} {
+		if err != nil {
+			t.Errorf("a valid value gave %v", err)
+		}
+	}
+}
