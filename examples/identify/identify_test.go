@@ -13,7 +13,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )

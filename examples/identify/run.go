@@ -14,7 +14,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
