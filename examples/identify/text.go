@@ -1,23 +1,11 @@
 package main
 
-import (
-	"fmt"
-	"strconv"
-	"unicode/utf8"
-)
+import "strconv"
 
-// maxQuoted is the longest text quoted whole in a message; longer text
-// is cut to its first maxQuoted characters and a note of its length.
-const maxQuoted = 40
-
-// clip quotes s for a message, cut to maxQuoted characters.
-func clip(s string) string {
-	if utf8.RuneCountInString(s) <= maxQuoted {
-		return strconv.Quote(s)
-	}
-	r := []rune(s)
-	return fmt.Sprintf("%s... (%d bytes)", strconv.Quote(string(r[:maxQuoted])), len(s))
-}
+// clip quotes a flag's value or a series name the user typed for a
+// message. Text from a file is quoted by tf/record, which cuts a damaged
+// cell short.
+func clip(s string) string { return strconv.Quote(s) }
 
 // plural returns one when n is 1, else many.
 func plural(n int, one, many string) string {
