@@ -38,7 +38,8 @@
 // A problem at a place in the file is a *LineError (file, line, column)
 // that unwraps to a kind: ErrFormat for text that is not a CSV record of
 // the expected shape, ErrSample for a cell that is not a finite number or
-// a time, ErrName for a column name that is empty or repeated. A named
+// a time, ErrName for a column name that is empty or repeated, ErrShort
+// for an empty file or a header without data lines. A named
 // series missing from the file is a *SeriesError of kind ErrName, a bad
 // setting a *SettingError, and gaps without a remedy a *GapError (kind
 // ErrSample). Messages name the settings as Settings.Gaps and so on, or
