@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 )
 

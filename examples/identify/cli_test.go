@@ -14,8 +14,9 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/tf/record"
 )
 
 // The tests of this file try the program as a new user would, with
@@ -129,11 +130,11 @@ func TestFailedFitIsNotAdequate(t *testing.T) {
 		t.Errorf("saved validity %+v", v)
 	}
 	// The ranges are those of the 20 rows, read back independently.
-	tb, err := ReadCSVFile(path, 0)
+	rec, err := record.ReadFile(path, &record.Settings{Series: []string{"temp", "valve"}})
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, _ := tb.Select("temp", "valve")
+	d := rec.Series
 	for _, c := range []string{"temp", "valve"} {
 		if r := v.Ranges[c]; r != [2]float64{slices.Min(d[c]), slices.Max(d[c])} {
 			t.Errorf("range of %s %v, want %v..%v", c, r, slices.Min(d[c]), slices.Max(d[c]))
@@ -224,15 +225,11 @@ func TestExplainedShare(t *testing.T) {
 func gapRecord(t *testing.T, from, to int) (string, map[string][]float64) {
 	t.Helper()
 	full := ghCSV(t)
-	tb, err := ReadCSV("full", strings.NewReader(full), 0)
+	rec, err := record.Read(strings.NewReader(full), &record.Settings{File: "full", Series: []string{"temp", "valve", "outdoor"}})
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, err := tb.Select("temp", "valve", "outdoor")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return writeFile(t, "gap.csv", lines(full, func(i int) bool { return i < from || i >= to })), d
+	return writeFile(t, "gap.csv", lines(full, func(i int) bool { return i < from || i >= to })), rec.Series
 }
 
 // TestGapRemedies is the issue's test of real data with a gap: the demo
@@ -247,10 +244,10 @@ func TestGapRemedies(t *testing.T) {
 	path, full := gapRecord(t, 1000, 1005)
 	o := DefaultOptions()
 	o.Data = path
-	_, err := load(o, remedy{})
-	var ge *GapError
+	_, err := load(o, record.Remedy{})
+	var ge *record.GapError
 	if !errors.As(err, &ge) || len(ge.Breaks) != 1 {
-		t.Fatalf("default: error %v, want a *GapError with one break", err)
+		t.Fatalf("default: error %v, want a *record.GapError with one break", err)
 	}
 	if b := ge.Breaks[0]; b.Line != 1002 || b.PrevLine != 1001 || b.Missing != 5 || b.Time != "1005" || b.PrevTime != "999" {
 		t.Errorf("break %+v", b)
@@ -263,13 +260,13 @@ func TestGapRemedies(t *testing.T) {
 	}
 
 	// A limit below the gap refuses it, naming the limit.
-	if _, err := load(o, remedy{kind: "hold", max: 4}); !errors.As(err, &ge) || !strings.Contains(err.Error(), "-gaps hold:4 fills gaps of whole intervals up to 4 missing samples") {
+	if _, err := load(o, record.Remedy{Kind: "hold", Max: 4}); !errors.As(err, &ge) || !strings.Contains(err.Error(), "-gaps hold:4 fills gaps of whole intervals up to 4 missing samples") {
 		t.Errorf("hold:4 on a gap of 5: %v", err)
 	}
 
 	for _, kind := range []string{"hold", "linear"} {
 		o.Gaps = kind + ":5"
-		r, err := parseRemedy(o.Gaps)
+		r, err := record.ParseRemedy(o.Gaps)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -309,7 +306,7 @@ func TestGapRemedies(t *testing.T) {
 	path, full = gapRecord(t, 2000, 2200)
 	o = DefaultOptions()
 	o.Data, o.Gaps = path, "longest"
-	ds, err := load(o, remedy{kind: "longest"})
+	ds, err := load(o, record.Remedy{Kind: "longest"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -361,7 +358,7 @@ func TestTimeColumns(t *testing.T) {
 	o.Inputs = []string{"valve"}
 
 	o.Data = writeFile(t, "ts.csv", ts.String())
-	ds, err := load(o, remedy{})
+	ds, err := load(o, record.Remedy{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -370,20 +367,20 @@ func TestTimeColumns(t *testing.T) {
 	}
 
 	o.Data = writeFile(t, "daily.csv", daily.String())
-	_, err = load(o, remedy{})
-	var ge *GapError
+	_, err = load(o, record.Remedy{})
+	var ge *record.GapError
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), "not evenly spaced at 1 d") ||
 		!strings.Contains(err.Error(), `line 30 ("1972-02-01") comes 4 intervals after line 29 ("1972-01-28"): 3 samples missing`) {
 		t.Errorf("dates: %v", err)
 	}
 
 	o.Data = writeFile(t, "jitter.csv", jitter.String())
-	_, err = load(o, remedy{kind: "linear", max: 5})
+	_, err = load(o, record.Remedy{Kind: "linear", Max: 5})
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), `line 32 ("1830") comes 1.5 intervals after line 31 ("1740"): not a whole number of intervals`) ||
 		!strings.Contains(err.Error(), "these are irregular or longer") || !strings.Contains(err.Error(), "must be resampled to the interval first") {
 		t.Errorf("irregular: %v", err)
 	}
-	ds, err = load(o, remedy{kind: "longest"})
+	ds, err = load(o, record.Remedy{Kind: "longest"})
 	if err != nil || ds.n != 30 || !strings.Contains(ds.notes[1], "fitting only lines 2 to 31 (30 samples), the longest evenly spaced stretch; 20 of 50 rows left out") {
 		t.Errorf("irregular, longest: %v %+v", err, ds)
 	}
@@ -391,13 +388,13 @@ func TestTimeColumns(t *testing.T) {
 	// Times out of order.
 	back := strings.Replace(ts.String(), "2026-01-01T10:00:20Z", "2026-01-01T09:00:20Z", 1)
 	o.Data = writeFile(t, "back.csv", back)
-	var ce *CSVError
-	if _, err := load(o, remedy{}); !errors.As(err, &ce) || ce.Line != 4 || !strings.Contains(err.Error(), `back.csv:4: column "when": the time goes back: "2026-01-01T09:00:20Z" after "2026-01-01T10:00:10Z" on line 3`) {
+	var ce *record.LineError
+	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || ce.Line != 4 || !strings.Contains(err.Error(), `back.csv:4: column "when": the time goes back: "2026-01-01T09:00:20Z" after "2026-01-01T10:00:10Z" on line 3`) {
 		t.Errorf("backwards: %v", err)
 	}
 
 	o.Data, o.TimeUnit = writeFile(t, "ts.csv", ts.String()), "min"
-	if _, err := load(o, remedy{}); err == nil || !strings.Contains(err.Error(), `-time-unit min is for a time column of numbers, and "when" holds timestamps or dates`) {
+	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time-unit = min: for a time column of numbers, and "when" holds timestamps or dates: leave -time-unit out`) {
 		t.Errorf("-time-unit on timestamps: %v", err)
 	}
 	o.TimeUnit = ""
@@ -405,23 +402,23 @@ func TestTimeColumns(t *testing.T) {
 	// A named time column that is missing, or is a series.
 	o.Data = writeFile(t, "ts.csv", ts.String())
 	o.Time = "stamp"
-	if _, err := load(o, remedy{}); err == nil || !strings.Contains(err.Error(), `-time names column "stamp", but`) {
+	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time = "stamp": `+o.Data+` has no such column (columns: when, note, valve, temp; -time none: no time column)`) {
 		t.Errorf("missing time column: %v", err)
 	}
 	o.Time = "valve"
-	if _, err := load(o, remedy{}); err == nil || !strings.Contains(err.Error(), `-time names column "valve", which is also a series of the model`) {
+	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time = "valve": the column is also a series to read`) {
 		t.Errorf("time column used as a series: %v", err)
 	}
 	// A named time column with a bad cell names its line.
 	o.Time = "note"
-	if _, err := load(o, remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a time`) {
+	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a time`) {
 		t.Errorf("bad time cell: %v", err)
 	}
 	// A first column named as a time in a form not read is refused,
 	// not ignored.
 	o.Time = ""
 	o.Data = writeFile(t, "us.csv", "Date,valve,temp\n"+strings.Repeat("01/02/2026,50,15\n", 12))
-	if _, err := load(o, remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `us.csv:2: column "Date": the first column looks like a time column by its name, but "01/02/2026" is neither a number nor a timestamp`) {
+	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `us.csv:2: column "Date": the first column looks like a time column by its name, but "01/02/2026" is neither a number nor a timestamp`) {
 		t.Errorf("unread date form: %v", err)
 	}
 	// Seconds since 1970 under the name timestamp are a time column.
@@ -432,19 +429,19 @@ func TestTimeColumns(t *testing.T) {
 		}
 		return b.String()
 	}())
-	if ds, err := load(o, remedy{}); err != nil || ds.interval != 30 || ds.unit != "s" {
+	if ds, err := load(o, record.Remedy{}); err != nil || ds.interval != 30 || ds.unit != "s" {
 		t.Errorf("epoch seconds: %v %+v", err, ds)
 	}
 	// -gaps without a time column.
 	o.Time, o.Gaps = "none", "longest"
-	if _, err := load(o, remedy{kind: "longest"}); err == nil || !strings.Contains(err.Error(), "-gaps longest needs a time column") {
+	if _, err := load(o, record.Remedy{Kind: "longest"}); err == nil || !strings.Contains(err.Error(), "-gaps = longest: needs a time column") {
 		t.Errorf("gaps without time: %v", err)
 	}
 	// A text column the run does not name is not read; one it names is
 	// reported at its first cell.
 	o = DefaultOptions()
 	o.Data, o.Inputs = writeFile(t, "ts.csv", ts.String()), []string{"note"}
-	if _, err := load(o, remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a finite number`) {
+	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a finite number`) {
 		t.Errorf("named text column: %v", err)
 	}
 }
@@ -458,8 +455,8 @@ func TestIntervalsMustAgree(t *testing.T) {
 		want                 string
 	}{
 		{"", "temp = c + w0 B^3 valve + a; every 1 min", "10s", "-interval 10 s and the spec's every 1 min disagree"},
-		{gh, "", "10s", `the time column "minute" of ` + gh + ` steps by 1 min (the median of its 5759 steps), but -interval says 10 s`},
-		{gh, "temp = c + w0 B^3 valve + a; every 2 min", "", `the time column "minute" of ` + gh + ` steps by 1 min (the median of its 5759 steps), but the spec's every says 2 min`},
+		{gh, "", "10s", `-interval = 10 s: the time column "minute" of ` + gh + ` steps by 1 min (the median of its 5759 steps): correct the one that is wrong`},
+		{gh, "temp = c + w0 B^3 valve + a; every 2 min", "", `the spec's every = 2 min: the time column "minute" of ` + gh + ` steps by 1 min (the median of its 5759 steps)`},
 		{"", "", "10s", "the built-in record is sampled every 1 min, but the interval given is 10 s"},
 	} {
 		o := DefaultOptions()
@@ -478,7 +475,7 @@ func TestIntervalsMustAgree(t *testing.T) {
 	// Agreeing sources are accepted: 60 s is 1 min.
 	o := DefaultOptions()
 	o.Data, o.Interval, o.Unit = gh, 60, "s"
-	if _, err := load(o, remedy{}); err != nil {
+	if _, err := load(o, record.Remedy{}); err != nil {
 		t.Errorf("60 s against a time column of 1 min: %v", err)
 	}
 }
@@ -583,19 +580,16 @@ func TestMessagesBlameTheRightThing(t *testing.T) {
 
 	// A byte order mark and carriage-return line ends read as plain CSV.
 	for name, content := range map[string]string{
-		"bom.csv": bom + ok,
+		"bom.csv": "\ufeff" + ok,
 		"cr.csv":  strings.ReplaceAll(ok, "\n", "\r"),
 	} {
-		tb, err := ReadCSV(name, strings.NewReader(content), 0)
+		rec, err := record.Read(strings.NewReader(content), &record.Settings{File: name, Series: []string{"temp", "valve"}})
 		if err != nil {
 			t.Errorf("%s: %v", name, err)
 			continue
 		}
-		if tb.Names[0] != "minute" || tb.Rows() != 200 || tb.Lines[199] != 201 {
-			t.Errorf("%s: columns %q, %d rows, last on line %d", name, tb.Names, tb.Rows(), tb.Lines[tb.Rows()-1])
-		}
-		if _, err := tb.Select("temp", "valve"); err != nil {
-			t.Errorf("%s: %v", name, err)
+		if rec.Columns[0] != "minute" || rec.Rows() != 200 || rec.Lines[199] != 201 || len(rec.Series["temp"]) != 200 {
+			t.Errorf("%s: columns %q, %d rows, last on line %d", name, rec.Columns, rec.Rows(), rec.Lines[rec.Rows()-1])
 		}
 	}
 }

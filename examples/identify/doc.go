@@ -56,6 +56,8 @@
 // whole intervals of up to N missing samples by holding the last value
 // or on a straight line, longest fits only the longest evenly spaced
 // stretch (ties go to the later one). The report says what was done.
+// The reading is the library's package tf/record (record.Read), which a
+// program of your own can call the same way; the flags are its Settings.
 //
 // The fits leave the first -skip samples (by default 5 % of the record,
 // at most 500) out of the sums of squares: the input filters start from

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"errors"
 	"image/png"
 	"math"
 	"os"
@@ -13,7 +12,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
@@ -196,40 +195,6 @@ func TestBadSpecIsReported(t *testing.T) {
 	_, err := Run(context.Background(), o, &bytes.Buffer{}, nil)
 	if err == nil || !strings.Contains(err.Error(), "1:13: the constant term of the denominator must be 1") {
 		t.Errorf("error %v", err)
-	}
-}
-
-func TestReadCSVErrors(t *testing.T) {
-	for _, c := range []struct{ in, want string }{
-		{"", "f.csv: the file is empty"},
-		{"a,b\n", "f.csv: no data lines"},
-		{"a,b\n1,2\n3,x\n", `f.csv:3: column "b": "x" is not a finite number`},
-		{"a,b\n1,2\n3\n", "f.csv:3: 1 field, but the header names 2 columns (a, b)"},
-		{"a,b\n1,2\n3,4,5\n", "f.csv:3: 3 fields, but the header names 2 columns (a, b)"},
-		{"a,a\n1,2\n", `f.csv:1: column "a": column names must be unique`},
-		{"a,b,\n1,2,3\n", `f.csv:1: column 3 of 3 in the header has no name (a separator too many?)`},
-		{"a,b\n1,NaN\n", `f.csv:2: column "b": "NaN" is not a finite number`},
-		{"a,b\n1,\n", `f.csv:2: column "b": the cell is empty: every sample is needed (fill it in the file, or delete the row and let -gaps fill it`},
-	} {
-		tb, err := ReadCSV("f.csv", strings.NewReader(c.in), 0)
-		if err == nil {
-			_, err = tb.Select(tb.Names...)
-		}
-		var ce *CSVError
-		if !errors.As(err, &ce) || !strings.HasPrefix(err.Error(), c.want) {
-			t.Errorf("%q: got %v, want %s", c.in, err, c.want)
-		}
-	}
-	tb, err := ReadCSV("f.csv", strings.NewReader("# comment\nt, y\n1, 2.5\n2, 3\n"), 0)
-	if err != nil {
-		t.Fatal(err)
-	}
-	d, err := tb.Select("y", "t")
-	if err != nil || d["y"][0] != 2.5 || len(d["t"]) != 2 || tb.Lines[0] != 3 || tb.Lines[1] != 4 {
-		t.Errorf("%+v %v %v", tb, d, err)
-	}
-	if _, err := tb.Select("y", "u"); err == nil || !strings.Contains(err.Error(), `no column "u"`) {
-		t.Errorf("select: %v", err)
 	}
 }
 

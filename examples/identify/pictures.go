@@ -7,7 +7,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/prewhiten"
 	"github.com/backshift/backshift/tf"
 )

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
@@ -14,10 +15,11 @@ import (
 	"strings"
 	"time"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/record"
 )
 
 // Outcome is what one run found, for tests and for callers that embed
@@ -127,11 +129,11 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if o.SaveUntrusted && o.Save == "" {
 		return nil, errors.New("-save-untrusted is given without -save: name the file to save to")
 	}
-	rem, err := parseRemedy(o.Gaps)
+	rem, err := record.ParseRemedy(o.Gaps)
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("-gaps %s: want hold:N or linear:N (fill gaps of up to N missing samples, N at least 1) or longest (fit the longest evenly spaced stretch)", clip(o.Gaps))
 	}
-	if o.TimeUnit != "" && unitSeconds[o.TimeUnit] == 0 {
+	if _, ok := record.Seconds(o.TimeUnit); o.TimeUnit != "" && !ok {
 		return nil, fmt.Errorf("-time-unit %s: want s, min, h or d", clip(o.TimeUnit))
 	}
 	if o.Data == "" && (o.Time != "" || o.TimeUnit != "" || o.Gaps != "") {
@@ -285,7 +287,7 @@ func writeBuiltin(path string, stdout io.Writer) error {
 
 // load reads the record named by o, mending the gaps of its time column
 // as rem says. With a spec, the output and inputs are the spec's series.
-func load(o Options, rem remedy) (*dataset, error) {
+func load(o Options, rem record.Remedy) (*dataset, error) {
 	ds := &dataset{output: o.Output, inputs: o.Inputs, interval: o.Interval, unit: o.Unit}
 	var specIv tf.Interval
 	if o.Spec != "" {
@@ -355,101 +357,52 @@ func load(o Options, rem remedy) (*dataset, error) {
 	return ds, nil
 }
 
-// loadFile reads the CSV file of o into ds: the named columns, checked
-// against the time column.
-func loadFile(o Options, rem remedy, ds *dataset) error {
-	t, err := ReadCSVFile(o.Data, o.Sep)
+// flagNames are the words record.Read's messages use for its settings:
+// this program's flags.
+var flagNames = map[string]string{"Gaps": "-gaps", "Time": "-time", "TimeUnit": "-time-unit", "Sep": "-sep", "Interval": "-interval"}
+
+// loadFile reads the CSV file of o into ds with record.Read: the named
+// columns, checked against the time column and mended as rem says.
+func loadFile(o Options, rem record.Remedy, ds *dataset) error {
+	cols := append([]string{ds.output}, ds.inputs...)
+	set := &record.Settings{Sep: o.Sep, Series: cols, Time: o.Time, TimeUnit: o.TimeUnit, Gaps: rem, Names: flagNames}
+	if ds.interval > 0 {
+		set.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
+		if o.Interval == 0 {
+			set.Names = maps.Clone(flagNames)
+			set.Names["Interval"] = "the spec's every"
+		}
+	}
+	rec, err := record.ReadFile(o.Data, set)
+	var se *record.SeriesError
+	if errors.As(err, &se) && se.Kind == record.ErrName {
+		flag := "-output"
+		switch {
+		case ds.fromSpec:
+			flag = "the spec"
+		case se.Series != ds.output:
+			flag = "-inputs"
+		}
+		return fmt.Errorf("%s names column %s, but %s", flag, clip(se.Series), se.Detail)
+	}
 	if err != nil {
 		return err
 	}
 	ds.name = o.Data
-	cols := append([]string{ds.output}, ds.inputs...)
-	used := map[string]bool{}
-	for i, c := range cols {
-		used[c] = true
-		if !t.Has(c) {
-			flag := "-output"
-			switch {
-			case ds.fromSpec:
-				flag = "the spec"
-			case i > 0:
-				flag = "-inputs"
-			}
-			msg := fmt.Sprintf("%s names column %s, but %s has no such column (columns: %s)", flag, clip(c), t.File, names(t.Names))
-			if len(t.Names) == 1 {
-				if hint := sepHint(t.Names[0], o.Sep); hint != "" {
-					msg += "; " + hint
-				}
-			}
-			return errors.New(msg)
-		}
-	}
-	if t.Rows() < minSamples {
+	if rec.Rows() < minSamples {
 		return fmt.Errorf("%s has %d data %s: too short a record to fit a model to (at least %d samples; a model worth trusting needs hundreds)",
-			t.File, t.Rows(), plural(t.Rows(), "line", "lines"), minSamples)
+			rec.File, rec.Rows(), plural(rec.Rows(), "line", "lines"), minSamples)
 	}
-	if ds.data, err = t.Select(cols...); err != nil {
-		return err
+	ds.data = rec.Series
+	ds.notes = append(ds.notes, rec.Notes...)
+	if rec.TimeColumn == "" {
+		return checkSeries(rec.File, cols, ds)
 	}
-	tm, err := findTime(t, o.Time, o.TimeUnit, used)
-	if err != nil {
-		return err
+	ds.interval, ds.unit = rec.Interval.Value, rec.Interval.Unit
+	if n := rec.Len(); n < minSamples {
+		return fmt.Errorf("%s: the record left after -gaps %s has %d samples: too short to fit a model to (at least %d)", rec.File, o.Gaps, n, minSamples)
 	}
-	switch {
-	case tm == nil && o.TimeUnit != "":
-		return fmt.Errorf("-time-unit %s is the unit of a time column, and %s has none (name it with -time)", o.TimeUnit, t.File)
-	case tm != nil && tm.calendar && o.TimeUnit != "":
-		return fmt.Errorf("-time-unit %s is for a time column of numbers, and %s holds timestamps or dates: leave -time-unit out", o.TimeUnit, clip(tm.column))
-	}
-	if tm == nil {
-		if o.Gaps != "" {
-			return fmt.Errorf("-gaps %s needs a time column to find the gaps, and %s has none (name it with -time)", o.Gaps, t.File)
-		}
-		ds.notes = append(ds.notes, "no time column: the rows are taken as equally spaced samples, none missing")
-		return checkSeries(t.File, cols, ds)
-	}
-	what := "numbers in " + unitName(tm.unit)
-	switch {
-	case tm.dates:
-		what = "dates"
-	case tm.calendar:
-		what = "timestamps"
-	}
-	// The interval: the one given (flag or spec) must agree with the
-	// steps of the time column.
-	if ds.interval > 0 {
-		given := ds.interval * unitSeconds[ds.unit]
-		if math.Abs(tm.median/given-1) > stepTolerance {
-			v, u := niceInterval(tm.median)
-			src := "-interval"
-			if o.Interval == 0 {
-				src = "the spec's every"
-			}
-			return fmt.Errorf("the time column %s of %s steps by %s (the median of its %d steps), but %s says %s: correct the one that is wrong (-time-unit sets the unit of a numeric time column)",
-				clip(tm.column), t.File, ivText(v, u), tm.steps, src, ivText(ds.interval, ds.unit))
-		}
-	} else {
-		ds.interval, ds.unit = niceInterval(tm.median)
-	}
-	ivs := ivText(ds.interval, ds.unit)
-	ds.notes = append(ds.notes, fmt.Sprintf("time column %s (%s): rows every %s", clip(tm.column), what, ivs))
-	brks := tm.breaks(t, ds.interval*unitSeconds[ds.unit])
-	if len(brks) == 0 {
-		if rem.kind != "" {
-			ds.notes = append(ds.notes, fmt.Sprintf("no gaps: -gaps %s had nothing to do", o.Gaps))
-		}
-	} else {
-		data, note, err := rem.apply(t, tm, ivs, brks, ds.data)
-		if err != nil {
-			return err
-		}
-		ds.data = data
-		ds.notes = append(ds.notes, note)
-	}
-	if n := len(ds.data[ds.output]); n < minSamples {
-		return fmt.Errorf("%s: the record left after -gaps %s has %d samples: too short to fit a model to (at least %d)", t.File, o.Gaps, n, minSamples)
-	}
-	return checkSeries(t.File, cols, ds)
+	return checkSeries(rec.File, cols, ds)
 }
 
 // checkSeries refuses a constant column, naming it.
@@ -474,7 +427,9 @@ func checkSeries(file string, cols []string, ds *dataset) error {
 // sameInterval reports whether a in unit ua and b in unit ub are the
 // same length of time, to a relative tolerance tol.
 func sameInterval(a float64, ua string, b float64, ub string, tol float64) bool {
-	x, y := a*unitSeconds[ua], b*unitSeconds[ub]
+	sa, _ := record.Seconds(ua)
+	sb, _ := record.Seconds(ub)
+	x, y := a*sa, b*sb
 	return math.Abs(x-y) <= tol*math.Max(x, y)
 }
 

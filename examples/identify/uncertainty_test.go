@@ -5,7 +5,7 @@ import (
 	"math"
 	"testing"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )

@@ -3,7 +3,7 @@ package modelinfo_test
 import (
 	"os"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 )
 

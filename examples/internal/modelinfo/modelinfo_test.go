@@ -6,7 +6,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/parse"
 )
 

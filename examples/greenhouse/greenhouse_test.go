@@ -120,7 +120,7 @@ func TestInnovationsAgainstScipy(t *testing.T) {
 		R1    float64
 		First []float64
 	}
-	testutil.ReadJSON(t, "examples/internal/greenhouse/testdata/innovations.json", &ref)
+	testutil.ReadJSON(t, "examples/greenhouse/testdata/innovations.json", &ref)
 	d := Default()
 	if d.Len() != ref.N {
 		t.Fatalf("record has %d samples, reference %d", d.Len(), ref.N)

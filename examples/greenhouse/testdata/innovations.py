@@ -12,7 +12,7 @@ starts after a settled warm-up), so the noise carries an unknown constant;
 the innovations are taken from sample 300 on and their mean removed.
 
 Run:  go run ./examples/identify -write-data /tmp/greenhouse.csv
-      /usr/bin/python3 examples/internal/greenhouse/testdata/innovations.py /tmp/greenhouse.csv
+      /usr/bin/python3 examples/greenhouse/testdata/innovations.py /tmp/greenhouse.csv
 Writes innovations.json next to this script (scipy 1.10.1, numpy 1.24).
 """
 import json

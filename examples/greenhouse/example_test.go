@@ -3,7 +3,7 @@ package greenhouse_test
 import (
 	"fmt"
 
-	"github.com/backshift/backshift/examples/internal/greenhouse"
+	"github.com/backshift/backshift/examples/greenhouse"
 )
 
 func Example() {
