@@ -29,4 +29,5 @@ var (
 	ErrConvergence = errs.ErrConvergence // an iterative method did not converge
 	ErrOverflow    = errs.ErrOverflow    // a result leaves float64 range
 	ErrInternal    = errs.ErrInternal    // a fault of the library
+	ErrFormat      = errs.ErrFormat      // text that does not follow its format
 )

@@ -35,6 +35,9 @@ var (
 	ErrOverflow = errors.New("result out of float64 range")
 	// ErrInternal: a fault of the library itself (a recovered panic).
 	ErrInternal = errors.New("internal fault")
+	// ErrFormat: text (a spec, a record file, a config) that does not
+	// follow its format.
+	ErrFormat = errors.New("malformed text")
 )
 
 // prefix returns "op: " or "" for an empty op.

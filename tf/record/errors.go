@@ -1,7 +1,6 @@
 package record
 
 import (
-	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -37,10 +36,11 @@ var (
 	ErrShort = errs.ErrShort
 )
 
-// ErrFormat is the kind of a *LineError for text that is not a CSV
+// ErrFormat (the shared kind of text that does not follow its format) is
+// the kind of a *LineError for text that is not a CSV
 // record of the expected shape: a stray quote, a line with more or fewer
 // fields than the header, a header read as a single column.
-var ErrFormat = errors.New("malformed record file")
+var ErrFormat = errs.ErrFormat
 
 // LineError reports a problem at a place in a file: the file name, the
 // 1-based line (0 when the problem is the whole file) and the column
