@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/poly"
 )
@@ -79,8 +80,8 @@ func (s *Settings) Validate() error {
 	if s == nil {
 		return nil
 	}
-	if s.MaxOrder < 0 {
-		return settingError("Settings.MaxOrder", itoa(s.MaxOrder), "must be zero or positive (0 means min(n-1, floor(10 log10 n)))")
+	if err := errs.Count("", "Settings.MaxOrder", s.MaxOrder, "0 means min(n-1, floor(10 log10 n))"); err != nil {
+		return err
 	}
 	if err := checkPoly("Settings.Diff", s.Diff); err != nil {
 		return err
@@ -114,13 +115,10 @@ func (s *Settings) Validate() error {
 			return settingError("Settings.Diff", strconv.Quote(polyText(s.Diff))+" while Settings.ARMA differences by "+strconv.Quote(polyText(d)), "must give the differencing written once, or the same in both")
 		}
 	}
-	if s.Lags < 0 {
-		return settingError("Settings.Lags", itoa(s.Lags), "must be zero or positive (0 means min(20, n/5))")
+	if err := errs.Count("", "Settings.Lags", s.Lags, "0 means min(20, n/5)"); err != nil {
+		return err
 	}
-	if !(s.Level >= 0 && s.Level < 1) {
-		return settingError("Settings.Level", strconv.FormatFloat(s.Level, 'g', -1, 64), "must lie strictly between 0 and 1 (0 means 0.01)")
-	}
-	return nil
+	return errs.Probability("", "Settings.Level", s.Level, "0 means 0.01")
 }
 
 func maxAbs(zs []complex128) float64 {
@@ -310,15 +308,25 @@ func fit(x []float64, s *Settings) (Filter, error) {
 		if res == nil {
 			// The fit saw the differenced series: report lengths and
 			// indexes of x itself.
+			// arma's own types today, the shared shapes once arma uses
+			// them: both are translated.
 			var se *arma.ShortError
 			var de *arma.DataError
+			var sse *SeriesError
+			var sae *SampleError
+			why := "for the filter of Settings.Order " + set.Order.String() + " after the differencing " + polyText(diff)
+			// The differenced sample beyond the limit is reported at
+			// the index of x it ends at.
+			series := name + " after the differencing " + polyText(diff)
 			switch {
 			case errors.As(err, &se):
-				return Filter{}, shortError(name, len(x), se.Need+d, "for the filter of Settings.Order "+set.Order.String()+" after the differencing "+polyText(diff))
+				return Filter{}, shortError(name, len(x), se.Need+d, why)
+			case errors.As(err, &sse) && sse.Kind == ErrShort:
+				return Filter{}, shortError(name, len(x), sse.Need+d, why)
 			case errors.As(err, &de):
-				// The differenced sample is beyond the limit: report it,
-				// at the index of x it ends at.
-				return Filter{}, &SampleError{Series: name + " after the differencing " + polyText(diff), Index: de.Index + d, Value: de.Value, Limit: arma.MaxAbs}
+				return Filter{}, &SampleError{Series: series, Index: de.Index + d, Value: de.Value, Limit: arma.MaxAbs}
+			case errors.As(err, &sae):
+				return Filter{}, &SampleError{Series: series, Index: sae.Index + d, Value: sae.Value, Limit: sae.Limit}
 			}
 			return Filter{}, err
 		}

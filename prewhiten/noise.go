@@ -6,6 +6,7 @@ import (
 	"strconv"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 )
 
 // NoiseSettings tunes IdentifyNoise. The zero value gives the defaults.
@@ -42,8 +43,8 @@ func (s *NoiseSettings) Validate() error {
 			return settingError(f.name, strconv.Itoa(f.v), "must be at most arma.MaxLag = "+strconv.Itoa(arma.MaxLag)+" (0 means 2, a negative value order zero only)")
 		}
 	}
-	if s.Lags < 0 {
-		return settingError("NoiseSettings.Lags", strconv.Itoa(s.Lags), "must be zero or positive (0 means min(24, n/4))")
+	if err := errs.Count("", "NoiseSettings.Lags", s.Lags, "0 means min(24, n/4)"); err != nil {
+		return err
 	}
 	if s.Criterion < arma.ByAICc || s.Criterion > arma.ByAIC {
 		return settingError("NoiseSettings.Criterion", s.Criterion.String(), "must be arma.ByAICc, arma.ByBIC or arma.ByAIC")
