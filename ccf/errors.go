@@ -28,8 +28,6 @@ type (
 	// ModelError reports a regression or model that cannot be used
 	// (a singular distributed-lag regression).
 	ModelError = errs.ModelError
-	// InternalError reports a fault of the library itself.
-	InternalError = errs.InternalError
 )
 
 // Kinds of error, for errors.Is; every error of the package matches one.
@@ -41,7 +39,6 @@ var (
 	ErrSetting  = errs.ErrSetting  // a setting or argument breaks its rule
 	ErrModel    = errs.ErrModel    // no usable model: no response found, singular regression
 	ErrOverflow = errs.ErrOverflow // sums leave float64 range
-	ErrInternal = errs.ErrInternal // a fault of the library
 )
 
 // NoResponseError is returned by Identify when no non-negative lag up to

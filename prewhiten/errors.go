@@ -26,8 +26,6 @@ type (
 	// SettingError reports a setting that breaks its rule, naming the
 	// field as the caller wrote it ("Settings.MaxOrder").
 	SettingError = errs.SettingError
-	// InternalError reports a fault of the library itself.
-	InternalError = errs.InternalError
 )
 
 // Kinds of error, for errors.Is; every error of the package matches one.
@@ -39,7 +37,7 @@ var (
 	ErrSetting     = errs.ErrSetting     // a setting breaks its rule
 	ErrModel       = errs.ErrModel       // the filter does not whiten the input
 	ErrConvergence = errs.ErrConvergence // the fit of Settings.Order did not converge
-	ErrInternal    = errs.ErrInternal    // a fault of the library
+	ErrInternal    = errs.ErrInternal    // a fault of the library (a fit that panicked, recovered)
 )
 
 // NotWhiteError is returned together with a valid result when the

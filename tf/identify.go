@@ -261,7 +261,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		var err error
 		joint, err = idfJointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
 		if err != nil {
-			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err}
+			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: idfInner(err)}
 		}
 	}
 	var ids []*ccf.Identification
@@ -274,11 +274,11 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
 			var nw *prewhiten.NotWhiteError
 			if err != nil && !errors.As(err, &nw) {
-				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err}
+				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: idfInner(err)}
 			}
 			w, err = ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
 			if err != nil {
-				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err}
+				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: idfInner(err)}
 			}
 		}
 		penalty := math.Log(float64(n)) // BIC-like weight, as the final ranking
@@ -287,7 +287,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		}
 		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Penalty: penalty})
 		if err != nil {
-			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err}
+			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: idfInner(err)}
 		}
 		ids = append(ids, id)
 		dp := Poly{}

@@ -1,6 +1,8 @@
 package tf
 
 import (
+	"context"
+	"errors"
 	"testing"
 
 	"github.com/backshift/backshift/ccf"
@@ -55,5 +57,31 @@ func TestIdfBuild(t *testing.T) {
 	}
 	if got := idfCoefName("valve", true, "theta", 2); got != "valve_theta2" {
 		t.Errorf("idfCoefName = %q", got)
+	}
+}
+
+// TestIdfInnerOp: an error of ccf met inside Identify names the function
+// the caller called, tf.Identify, as its Op (the Op rule of the shared
+// vocabulary), and keeps its evidence and kind. The input is white noise
+// unrelated to the output (seeded), so no lag passes the dead-time rule.
+func TestIdfInnerOp(t *testing.T) {
+	const n = 400
+	rng := fitRand(9)
+	x, y := make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		y[i] = rng.NormFloat64()
+	}
+	_, err := Identify(context.Background(), "y", []string{"valve"}, map[string][]float64{"y": y, "valve": x}, nil)
+	var nr *ccf.NoResponseError
+	if !errors.As(err, &nr) || nr.Op != "tf.Identify" || nr.Input != "valve" || !errors.Is(err, ErrModel) {
+		t.Errorf("no response: %T %v", err, err)
+	}
+	if err := idfInner(nil); err != nil {
+		t.Errorf("idfInner(nil) = %v", err)
+	}
+	se := &SeriesError{Op: "ccf.Cross", Series: "valve", Kind: ErrShort}
+	if err := idfInner(se); err != se || se.Op != "tf.Identify" {
+		t.Errorf("idfInner kept Op %q", se.Op)
 	}
 }
