@@ -46,7 +46,7 @@ func TestConcurrentUse(t *testing.T) {
 			}
 			w, _ := ImpulseWeights(x, y, 20, "x", nil)
 			id, err := Identify(w, nil)
-			if err != nil || id.DeadTime != id0.DeadTime || id.Candidates[0].Term != id0.Candidates[0].Term {
+			if err != nil || id.DeadTime != id0.DeadTime || id.Forms[0].String() != id0.Forms[0].String() || id.Forms[0].Num[0] != id0.Forms[0].Num[0] {
 				errs <- "Identify differs under concurrency"
 			}
 		}(g)

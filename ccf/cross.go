@@ -120,20 +120,26 @@ func normalQuantile(p float64) float64 {
 
 // Cross returns the sample cross-correlation r_xy(k) for k = -maxLag..
 // maxLag. x and y must have the same length n > maxLag, hold only finite
-// values and not be constant; otherwise Cross returns a *LengthError,
-// *ShortError, *ValueError or *ConstantError naming the series (and the
-// index of a bad value), and a nil *Correlation. A sample at or beyond
-// sqrt(MaxFloat64/n) (4.2e153 for n = 10, 1.3e151 for n = 10^6), where a
-// sum of n squares can overflow, is a *ValueError with its index; a series
-// whose deviations from its mean are below about 1e-140 (their squares
-// underflow) an *ArgError naming it. A negative maxLag or bad settings
-// (Settings.Validate) give an *ArgError. x and y are not modified.
+// values and not be constant; otherwise Cross returns a *SeriesError
+// (ErrLength, ErrShort, ErrConstant) or a *SampleError (with the index of
+// the bad value) naming the series, and a nil *Correlation. A sample at or
+// beyond sqrt(MaxFloat64/n) (4.2e153 for n = 10, 1.3e151 for n = 10^6),
+// where a sum of n squares can overflow, is a *SampleError with its index
+// and that Limit; a series whose deviations from its mean are below about
+// 1e-140 (their squares underflow) a *SeriesError of kind ErrOverflow
+// naming it. A negative maxLag or bad settings (Settings.Validate) give a
+// *SettingError. x and y are not modified.
 //
 // With Method Auto, Cross sums directly for few lags and uses the blocked
 // FFT for many, at the crossover measured on the development machine
 // (BenchmarkCrossover: about 250 lags with the AVX2/FMA kernel, 25 in pure
 // Go). Both agree with the definition to 1e-12 in r (tested).
 func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
+	r0, err := cross(x, y, maxLag, s)
+	return r0, withOp("ccf.Cross", err)
+}
+
+func cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
@@ -151,7 +157,7 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 		method = chooseMethod(n, maxLag)
 	case Direct, FFT:
 	default:
-		return nil, &ArgError{Arg: "Settings.Method", Value: method.String(), Want: "Auto, Direct or FFT"}
+		return nil, &SettingError{Setting: "Settings.Method", Value: method.String(), Rule: "must be Auto, Direct or FFT (the zero value is Auto)"}
 	}
 	c := &Correlation{N: n, MaxLag: maxLag, R: make([]float64, 2*maxLag+1), Method: method}
 	var sxx, syy float64
@@ -182,12 +188,11 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 		for i, v := range [2][]float64{x, y} {
 			for k, a := range v {
 				if math.Abs(a) >= lim {
-					return nil, &ValueError{Name: names[i], Index: k, Value: a,
-						Want: fmt.Sprintf("a magnitude below %.3g (the sum of %d squares overflows float64 beyond it); rescale the series", lim, n)}
+					return nil, &SampleError{Series: names[i], Index: k, Value: a, Limit: lim}
 				}
 			}
 		}
-		return nil, &ArgError{Arg: names[0] + ", " + names[1], Value: "samples whose sums of squares overflow", Want: fmt.Sprintf("magnitudes below about %.3g; rescale the series", lim)}
+		return nil, &SeriesError{Series: names[0] + ", " + names[1], Kind: ErrOverflow, Detail: fmt.Sprintf("the sums of squares overflow; keep magnitudes below about %.3g: rescale the series", lim)}
 	}
 	fn := float64(n)
 	c.SDX, c.SDY = math.Sqrt(sxx/fn), math.Sqrt(syy/fn)
@@ -202,8 +207,8 @@ func Cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 		for _, a := range v {
 			dev = math.Max(dev, math.Abs(a-m))
 		}
-		return nil, &ArgError{Arg: "series " + strconv.Quote(names[i]), Value: fmt.Sprintf("deviations from its mean of at most %.3g", dev),
-			Want: "deviations above about 1e-140 (smaller ones lose their squares to underflow); rescale the series"}
+		return nil, &SeriesError{Series: names[i], Kind: ErrOverflow,
+			Detail: fmt.Sprintf("deviations from its mean of at most %.3g lose their squares to underflow (they must exceed about 1e-140); rescale the series", dev)}
 	}
 	// Square roots taken separately: the product sxx*syy can overflow
 	// or underflow where each factor does not.
@@ -224,10 +229,10 @@ const minSumSquares = 1e-280
 // computes anyway.
 func validatePair(x, y []float64, maxLag int, names [2]string) error {
 	if maxLag < 0 {
-		return &ArgError{Arg: "maxLag", Value: strconv.Itoa(maxLag), Want: ">= 0"}
+		return &SettingError{Setting: "maxLag", Value: strconv.Itoa(maxLag), Rule: "must be zero or positive"}
 	}
 	if len(x) != len(y) {
-		return &LengthError{Names: names, Lens: [2]int{len(x), len(y)}}
+		return lengthError(names[0], names[1], len(x), len(y))
 	}
 	need := maxLag
 	if need < math.MaxInt {
@@ -236,12 +241,12 @@ func validatePair(x, y []float64, maxLag int, names [2]string) error {
 	need = max(need, 2)
 	for i, v := range [2][]float64{x, y} {
 		if len(v) < need {
-			return &ShortError{Name: names[i], Len: len(v), Need: need, Why: "for lags up to " + strconv.Itoa(maxLag)}
+			return shortError(names[i], len(v), need, "for lags up to "+strconv.Itoa(maxLag))
 		}
 	}
 	for i, v := range [2][]float64{x, y} {
 		if isConstant(v) {
-			return &ConstantError{Name: names[i], Value: v[0]}
+			return constantError(names[i], v[0])
 		}
 	}
 	return nil

@@ -218,30 +218,33 @@ func TestCrossBadInput(t *testing.T) {
 	inf := append([]float64(nil), good...)
 	inf[2] = math.Inf(-1)
 	names := &Settings{Names: [2]string{"burner", "temp"}}
-	var le *LengthError
-	if _, err := Cross(good, good[:5], 2, names); !errors.As(err, &le) || le.Lens != [2]int{7, 5} || le.Names[1] != "temp" {
+	var le *SeriesError
+	if _, err := Cross(good, good[:5], 2, names); !errors.As(err, &le) || !errors.Is(err, ErrLength) || le.Have != 5 || le.Need != 7 || le.Series != "temp" ||
+		err.Error() != `ccf.Cross: series "temp" has 5 samples, 7 expected (the length of "burner"; the series must be of equal length)` {
 		t.Errorf("unequal lengths: got %v", err)
 	}
-	var se *ShortError
-	if _, err := Cross(good, good, 7, names); !errors.As(err, &se) || se.Need != 8 || se.Name != "burner" {
+	var se *SeriesError
+	if _, err := Cross(good, good, 7, names); !errors.As(err, &se) || !errors.Is(err, ErrShort) || se.Need != 8 || se.Series != "burner" ||
+		err.Error() != `ccf.Cross: series "burner": 7 samples, at least 8 needed (for lags up to 7)` {
 		t.Errorf("too short: got %v", err)
 	}
-	var ce *ConstantError
-	if _, err := Cross(good, []float64{3, 3, 3, 3, 3, 3, 3}, 2, names); !errors.As(err, &ce) || ce.Name != "temp" || ce.Value != 3 {
+	var ce *SeriesError
+	if _, err := Cross(good, []float64{3, 3, 3, 3, 3, 3, 3}, 2, names); !errors.As(err, &ce) || !errors.Is(err, ErrConstant) || ce.Series != "temp" ||
+		err.Error() != `ccf.Cross: series "temp" is constant (every sample is 3; its correlations are undefined)` {
 		t.Errorf("constant: got %v", err)
 	}
-	var ve *ValueError
-	if _, err := Cross(nan, good, 2, names); !errors.As(err, &ve) || ve.Index != 4 || ve.Name != "burner" {
+	var ve *SampleError
+	if _, err := Cross(nan, good, 2, names); !errors.As(err, &ve) || ve.Index != 4 || ve.Series != "burner" || ve.Op != "ccf.Cross" {
 		t.Errorf("NaN: got %v", err)
 	}
-	if _, err := Cross(good, inf, 2, names); !errors.As(err, &ve) || ve.Index != 2 || ve.Name != "temp" || !math.IsInf(ve.Value, -1) {
+	if _, err := Cross(good, inf, 2, names); !errors.As(err, &ve) || ve.Index != 2 || ve.Series != "temp" || !math.IsInf(ve.Value, -1) || !errors.Is(err, ErrSample) {
 		t.Errorf("Inf: got %v", err)
 	}
-	var ae *ArgError
-	if _, err := Cross(good, good, -1, nil); !errors.As(err, &ae) {
+	var ae *SettingError
+	if _, err := Cross(good, good, -1, nil); !errors.As(err, &ae) || ae.Setting != "maxLag" || err.Error() != "ccf.Cross: maxLag = -1: must be zero or positive" {
 		t.Errorf("negative lag: got %v", err)
 	}
-	if _, err := Cross(good, good, 1, &Settings{Method: 9}); !errors.As(err, &ae) {
+	if _, err := Cross(good, good, 1, &Settings{Method: 9}); !errors.As(err, &ae) || ae.Setting != "Settings.Method" || !errors.Is(err, ErrSetting) {
 		t.Errorf("bad method: got %v", err)
 	}
 	// The largest lag representable must not overflow the length check.
@@ -257,7 +260,7 @@ func TestCrossBadInput(t *testing.T) {
 		tiny[i] = v * 1e-300
 		big[i] = v * 1e140
 	}
-	if _, err := Cross(tiny, good, 2, nil); !errors.As(err, &ae) {
+	if _, err := Cross(tiny, good, 2, nil); !errors.As(err, &se) || !errors.Is(err, ErrOverflow) {
 		t.Errorf("squares underflow: got %v", err)
 	}
 	// Both series near 1e140: each sum of squares is finite, their

@@ -2,7 +2,9 @@
 // cross-correlation of two series with significance bands, impulse-response
 // weight estimates from prewhitened series or from a joint distributed-lag
 // regression, and proposals for the dead time b and the orders (r, s) of a
-// rational input term, each written out as a spec text with start values.
+// rational input term, each returned as numbers (the dead time, the
+// orders and the fitted coefficients of omega and delta); package tf turns
+// them into model values with named coefficients.
 //
 // Cross computes the sums directly for few lags (an AVX2/FMA kernel on
 // amd64 processors that have it, Go elsewhere) and by a blocked FFT for
@@ -55,8 +57,15 @@
 // squares, ranks the forms by an information criterion, and marks the form
 // picked by the corner method (a table of determinants of Toeplitz
 // matrices of the weights whose zero pattern has its corner at lag b+s+1,
-// order r+1). Each candidate is written as a spec text with free
-// coefficients whose start values come from the fit.
+// order r+1). Each proposed Form holds the fitted omega(B) and delta(B)
+// coefficients, the start values of a later whole-model fit.
+//
+// # Errors
+//
+// Errors use the library's shared shapes (SampleError, SeriesError,
+// SettingError, ModelError) and kinds (ErrSample, ErrShort, ...), whose
+// Op names the exported function called ("ccf.Cross"); NoResponseError
+// carries the evidence of Identify's dead-time rule and matches ErrModel.
 //
 // References:
 //

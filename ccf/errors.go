@@ -1,102 +1,54 @@
 package ccf
 
 import (
+	"errors"
 	"fmt"
 	"strconv"
 	"strings"
+
+	"github.com/backshift/backshift/internal/errs"
 )
 
-// The error types below mirror prewhiten's on purpose: each package's
-// errors carry its own message prefix and are distinct types for
-// errors.As, and DESIGN.md keeps ccf and prewhiten independent.
+// The library's error vocabulary (package internal/errs, shared by every
+// package): shapes to use with errors.As and kinds to use with
+// errors.Is. Every error an exported function of ccf returns matches one
+// kind, and its Op names that function ("ccf.Cross").
+type (
+	// SampleError reports one bad sample: NaN, infinite, or beyond the
+	// largest magnitude accepted (Limit), naming the series and index.
+	SampleError = errs.SampleError
+	// SeriesError reports a problem with a whole series: too short
+	// (ErrShort), constant (ErrConstant), of the wrong length
+	// (ErrLength), overflowing (ErrOverflow) or with an unusable value
+	// (ErrSample, Detail says which).
+	SeriesError = errs.SeriesError
+	// SettingError reports a setting or argument that breaks its rule,
+	// naming the field as the caller wrote it.
+	SettingError = errs.SettingError
+	// ModelError reports a regression or model that cannot be used
+	// (a singular distributed-lag regression).
+	ModelError = errs.ModelError
+)
 
-// LengthError reports two series that must have equal lengths but do not.
-type LengthError struct {
-	// Names and Lens are the two series' names and lengths.
-	Names [2]string
-	Lens  [2]int
-}
+// Kinds of error, for errors.Is; every error of the package matches one.
+var (
+	ErrSample   = errs.ErrSample   // a sample is NaN, infinite or too large
+	ErrShort    = errs.ErrShort    // too few samples or weights
+	ErrConstant = errs.ErrConstant // a series is constant
+	ErrLength   = errs.ErrLength   // series lengths differ
+	ErrSetting  = errs.ErrSetting  // a setting or argument breaks its rule
+	ErrModel    = errs.ErrModel    // no usable model: no response found, singular regression
+	ErrOverflow = errs.ErrOverflow // sums leave float64 range
+)
 
-// Error describes the problem in one line, naming the series and values involved.
-func (e *LengthError) Error() string {
-	return fmt.Sprintf("ccf: series %q has %d samples but %q has %d; they must be of equal length",
-		e.Names[0], e.Lens[0], e.Names[1], e.Lens[1])
-}
-
-// ShortError reports a series too short for what was asked: Len samples
-// where at least Need are required, for the reason given in Why.
-type ShortError struct {
-	Name string
-	Len  int
-	Need int
-	Why  string
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ShortError) Error() string {
-	return fmt.Sprintf("ccf: series %q has %d samples, need at least %d %s", e.Name, e.Len, e.Need, e.Why)
-}
-
-// ConstantError reports a series with zero variance (all samples equal to
-// Value), whose correlation with anything is undefined. After, when not
-// empty, says the series is constant only after a filter (ImpulseWeights'
-// filtered output: the series given was then constant, or a trend that the
-// filter's differencing removed); Value is then rounding noise and not
-// printed.
-type ConstantError struct {
-	Name  string
-	Value float64
-	After string
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ConstantError) Error() string {
-	if e.After != "" {
-		return fmt.Sprintf("ccf: series %q is constant after %s (the series itself is constant, or only a trend that the filter's differencing removes), its correlations are undefined", e.Name, e.After)
-	}
-	return fmt.Sprintf("ccf: series %q is constant (every sample is %s), its correlations are undefined", e.Name, strconv.FormatFloat(e.Value, 'g', 6, 64))
-}
-
-// ValueError reports a NaN or infinite sample, or a value outside what
-// the series allows (a standard error that is not positive): series Name
-// at Index (0 = oldest sample) holds Value.
-type ValueError struct {
-	Name  string
-	Index int
-	Value float64
-	// Want, when not empty, says what the series allows ("a positive
-	// finite number"); it is empty for a NaN or infinite sample.
-	Want string
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ValueError) Error() string {
-	if e.Want != "" {
-		return fmt.Sprintf("ccf: series %q has %v at index %d, want %s", e.Name, e.Value, e.Index, e.Want)
-	}
-	return fmt.Sprintf("ccf: series %q has %v at index %d", e.Name, e.Value, e.Index)
-}
-
-// ArgError reports a setting or argument outside its valid range, such as a
-// negative number of lags or a significance level outside (0, 1).
-type ArgError struct {
-	// Arg names the argument or settings field.
-	Arg string
-	// Value is the offending value as text.
-	Value string
-	// Want says what is allowed.
-	Want string
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ArgError) Error() string {
-	return fmt.Sprintf("ccf: %s = %s, want %s", e.Arg, e.Value, e.Want)
-}
-
-// NoResponseError is returned by identification when no non-negative lag
-// up to MaxLag carries a significant weight at the level used: the data
-// show no effect of the input on the output that the method can find.
+// NoResponseError is returned by Identify when no non-negative lag up to
+// MaxLag carries a significant weight at the level used: the data show
+// no effect of the input on the output that the method can find. It
+// carries the evidence (the largest |t| and its lag), which no shared
+// shape holds, and matches ErrModel (no input term can be proposed).
 type NoResponseError struct {
+	// Op is the exported function called ("ccf.Identify").
+	Op     string
 	Input  string
 	MaxLag int
 	Level  float64
@@ -106,31 +58,78 @@ type NoResponseError struct {
 	Lag     int
 }
 
-// Error describes the problem in one line, naming the series and values involved.
+// Error describes the problem in one line, naming the input and the evidence.
 func (e *NoResponseError) Error() string {
-	return fmt.Sprintf("ccf: no significant response of the output to input %q at lags 0..%d (level %g; largest |t| = %.2f at lag %d)",
-		e.Input, e.MaxLag, e.Level, e.Largest, e.Lag)
+	op := ""
+	if e.Op != "" {
+		op = e.Op + ": "
+	}
+	return fmt.Sprintf("%sno significant response of the output to input %q at lags 0..%d (level %g; largest |t| = %.2f at lag %d); check that the input moved during the record, or lengthen the lags",
+		op, e.Input, e.MaxLag, e.Level, e.Largest, e.Lag)
 }
 
-// SingularError is returned by DistributedLag when the regression matrix
-// is rank deficient, for example when one input is an exact linear
-// function of the lags of another.
-type SingularError struct {
-	// Inputs names the inputs of the regression.
-	Inputs []string
+// Unwrap returns ErrModel.
+func (e *NoResponseError) Unwrap() error { return ErrModel }
+
+// withOp names the exported function op in the errors of the shared
+// shapes found in err and returns err (an exported function calling
+// another applies it last, so its own name wins, as the Op rule asks).
+func withOp(op string, err error) error {
+	if err == nil {
+		return nil
+	}
+	var a *SampleError
+	if errors.As(err, &a) {
+		a.Op = op
+	}
+	var b *SeriesError
+	if errors.As(err, &b) {
+		b.Op = op
+	}
+	var c *SettingError
+	if errors.As(err, &c) {
+		c.Op = op
+	}
+	var d *ModelError
+	if errors.As(err, &d) {
+		d.Op = op
+	}
+	var e *NoResponseError
+	if errors.As(err, &e) {
+		e.Op = op
+	}
+	return err
 }
 
-// Error describes the problem in one line, naming the series and values involved.
-func (e *SingularError) Error() string {
-	return fmt.Sprintf("ccf: the distributed-lag regression on inputs %s is singular (an input is a linear combination of the lags of the others)",
-		strings.Join(e.Inputs, ", "))
+// lengthError reports series b of length nb where a's length na is
+// expected.
+func lengthError(a, b string, na, nb int) error {
+	return &SeriesError{Series: b, Kind: ErrLength, Have: nb, Need: na, Detail: "the length of " + strconv.Quote(a) + "; the series must be of equal length"}
 }
 
-// checkSeries returns a *ValueError for the first NaN or infinite sample.
+// shortError reports a series of have samples where need are required
+// for the reason why.
+func shortError(name string, have, need int, why string) error {
+	return &SeriesError{Series: name, Kind: ErrShort, Have: have, Need: need, Detail: why}
+}
+
+// constantError reports a constant series (every sample v).
+func constantError(name string, v float64) error {
+	return &SeriesError{Series: name, Kind: ErrConstant,
+		Detail: "every sample is " + strconv.FormatFloat(v, 'g', 6, 64) + "; its correlations are undefined"}
+}
+
+// singularError reports a rank-deficient distributed-lag regression.
+func singularError(inputs []string) error {
+	return &ModelError{Part: "the distributed-lag regression on inputs " + strings.Join(inputs, ", "),
+		Problem: "singular: an input is a linear combination of the lags of the others; drop one of them"}
+}
+
+// checkSeries returns a *SampleError for the first NaN or infinite sample.
 func checkSeries(name string, x []float64) error {
 	for i, v := range x {
 		if v-v != 0 { // NaN or +-Inf
-			return &ValueError{Name: name, Index: i, Value: v}
+			return &SampleError{Series: name, Index: i, Value: v}
 		}
 	}
 	return nil

@@ -36,14 +36,15 @@ func ExampleIdentify() {
 		fmt.Println(err)
 		return
 	}
-	best := id.Candidates[0]
+	best := id.Forms[0]
 	fmt.Printf("dead time %d, r = %d, s = %d\n", id.DeadTime, best.R, best.S)
-	fmt.Println("temp =", best.Term, "+ a")
-	fmt.Printf("start values: w0 ~ %.2f, d1 ~ %.2f\n", best.Starts["w0"], best.Starts["d1"])
+	fmt.Println("structure", best)
+	// omega(B) = Num, delta(B) = Den, ascending powers of B.
+	fmt.Printf("omega %.2f, delta %.2f\n", best.Num, best.Den)
 	// Output:
 	// dead time 2, r = 1, s = 0
-	// temp = w0 / (1 - d1 B) B^2 valve + a
-	// start values: w0 ~ 0.77, d1 ~ 0.45
+	// structure b=2 (r=1, s=0)
+	// omega [0.77], delta [1.00 -0.45]
 }
 
 // y is x delayed by two samples: the correlation peaks at lag +2, x
@@ -100,9 +101,9 @@ func ExampleIdentification_String() {
 	//     9   0.07465     7.46 *
 	//    10   0.04479     4.48 *
 	//   corner method: r = 1, s = 1
-	//   rank  (b,r,s)  score    term
-	//      1  (2,1,1)     6.00  (w0 + w1 B) / (1 - d1 B) B^2 burner  [exponential decay]  (corner)
-	//      2  (2,1,0)   693.50  w0 / (1 - d1 B) B^2 burner  [exponential decay]
-	//      3  (2,0,1)  14392.72  (w0 + w1 B) B^2 burner  [cut-off]
-	//      4  (2,0,0)  39990.72  w0 B^2 burner  [cut-off]
+	//   rank  structure        score    shape
+	//      1  b=2 (r=1, s=1)      6.00  exponential decay  (corner)
+	//      2  b=2 (r=1, s=0)    693.50  exponential decay
+	//      3  b=2 (r=0, s=1)   14392.72  cut-off
+	//      4  b=2 (r=0, s=0)   39990.72  cut-off
 }

@@ -58,14 +58,16 @@ func FuzzCross(f *testing.F) {
 		c, err := Cross(x, y, lag, &Settings{Method: Method(method % 4), Names: [2]string{"in", "out"}})
 		if err != nil {
 			var (
-				le *LengthError
-				se *ShortError
-				ce *ConstantError
-				ve *ValueError
-				ae *ArgError
+				se *SeriesError
+				ve *SampleError
+				ae *SettingError
 			)
-			if !errors.As(err, &le) && !errors.As(err, &se) && !errors.As(err, &ce) && !errors.As(err, &ve) && !errors.As(err, &ae) {
+			if !errors.As(err, &se) && !errors.As(err, &ve) && !errors.As(err, &ae) {
 				t.Fatalf("untyped error %T %v", err, err)
+			}
+			if !errors.Is(err, ErrLength) && !errors.Is(err, ErrShort) && !errors.Is(err, ErrConstant) && !errors.Is(err, ErrSample) &&
+				!errors.Is(err, ErrSetting) && !errors.Is(err, ErrOverflow) {
+				t.Fatalf("error of no kind %T %v", err, err)
 			}
 			if c != nil {
 				t.Fatalf("result with error %v", err)

@@ -22,13 +22,9 @@ type IdentifySettings struct {
 	// means 2. Set a negative value to allow order zero only. Bounds
 	// beyond the number of weights after the dead time are cut to it.
 	MaxR, MaxS int
-	// Input is the series name written in the spec texts; empty means
+	// Input names the input in the result and in messages; empty means
 	// the weights' Input, or "x".
 	Input string
-	// Prefix is put before every coefficient name in the spec texts
-	// (w0, w1, .. for omega; d1, d2, .. for delta), so that the terms of
-	// several inputs can share one model; empty for none.
-	Prefix string
 	// Penalty is the score added per free coefficient when ranking the
 	// forms; zero means 2 (the AIC weight).
 	Penalty float64
@@ -40,17 +36,11 @@ type IdentifySettings struct {
 	// before the dead time is typical); this keeps them from being read
 	// as the dead time.
 	MinFraction float64
-	// InputDiff is the differencing applied to the input before the
-	// weights were estimated, ascending powers of B with fixed numbers
-	// ({1, -1} for 1 - B); the spec texts then read the input as
-	// "((1 - B) x)". Nil for none. The output's differencing belongs in
-	// the output text given to Candidate.Spec, as in "(1 - B) y".
-	InputDiff []float64
 }
 
 // Identification is the result of Identify for one input.
 type Identification struct {
-	// Input is the input's name as written in the spec texts.
+	// Input is the input's name.
 	Input string
 	// DeadTime is the dead time b in samples.
 	DeadTime int
@@ -62,9 +52,9 @@ type Identification struct {
 	Offset float64
 	// Weights are the weights used.
 	Weights *Weights
-	// Candidates are the fitted forms, best first: by increasing Score,
+	// Forms are the fitted structures, best first: by increasing Score,
 	// except that Redundant and TooSlow forms come after all others.
-	Candidates []Candidate
+	Forms []Form
 	// Corner is the corner-method table of the weights (nil when there
 	// are too few lags), and CornerR, CornerS the orders it points to
 	// (-1 when it cannot tell).
@@ -72,8 +62,11 @@ type Identification struct {
 	CornerR, CornerS int
 }
 
-// Candidate is one proposed input term B^b omega(B)/delta(B) x_t.
-type Candidate struct {
+// Form is one proposed structure (b, r, s) of an input term
+// B^b omega(B)/delta(B) x_t, with the numbers fitted to the weights and
+// the evidence for it. It holds numbers only: package tf turns a Form
+// into a model input with named coefficients.
+type Form struct {
 	// Delay is the dead time b, R = deg delta, S = deg omega.
 	Delay, R, S int
 	// Num is omega(B), Den is delta(B) (Den[0] = 1), ascending powers of
@@ -86,14 +79,6 @@ type Candidate struct {
 	Chi2, Score float64
 	// Corner reports whether the corner method points to these orders.
 	Corner bool
-	// Term is the input term as spec text with free coefficients, for
-	// example "(w0 + w1 B) / (1 - d1 B) B^3 x": omega written with plus
-	// signs (w_k = Num[k]), delta with minus signs (d_i = -Den[i]).
-	Term string
-	// Starts maps each coefficient name of Term to its start value.
-	Starts map[string]float64
-	// Names lists the coefficient names of Term in written order.
-	Names []string
 	// Redundant reports a zero of omega within 0.05 of a pole of delta in
 	// the z-plane: the pair nearly cancels, so a form with one order less
 	// in each describes the same weights. Identify ranks redundant forms
@@ -116,10 +101,18 @@ type Candidate struct {
 // Identify proposes the dead time and ranked (r, s) forms for an input
 // from its impulse-response weights (see the package documentation).
 //
-// It returns a *NoResponseError when no lag passes the dead-time rule, an
-// *ArgError for settings out of range (IdentifySettings.Validate), and a *ShortError when w has fewer
-// than two lags.
+// It returns a *NoResponseError when no lag passes the dead-time rule, a
+// *SettingError for settings out of range (IdentifySettings.Validate) or
+// a nil w, a *SeriesError when w has fewer than two lags (ErrShort), its
+// standard errors another length (ErrLength) or a standard error that is
+// not a positive finite number (ErrSample), and a *SampleError for a NaN
+// or infinite weight.
 func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
+	r0, err := identify(w, s)
+	return r0, withOp("ccf.Identify", err)
+}
+
+func identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
@@ -135,7 +128,7 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	}
 	maxR, maxS := orderBound(set.MaxR), orderBound(set.MaxS)
 	if w == nil {
-		return nil, &ArgError{Arg: "w", Value: "nil", Want: "weights"}
+		return nil, &SettingError{Setting: "w", Value: "nil", Rule: "must be weights (from ImpulseWeights or DistributedLag)"}
 	}
 	name := set.Input
 	if name == "" {
@@ -145,22 +138,19 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 		name = "x"
 	}
 	if len(w.SE) != len(w.V) {
-		return nil, &LengthError{Names: [2]string{name + " weights", name + " weight standard errors"}, Lens: [2]int{len(w.V), len(w.SE)}}
+		return nil, lengthError(name+" weights", name+" weight standard errors", len(w.V), len(w.SE))
 	}
 	if len(w.V) < 2 {
-		return nil, &ShortError{Name: name, Len: len(w.V), Need: 2, Why: "weights (lags 0 and 1)"}
+		return nil, shortError(name+" weights", len(w.V), 2, "lags 0 and 1 at least")
 	}
 	if err := checkSeries(name+" weights", w.V); err != nil {
 		return nil, err
 	}
 	for k := range w.V {
 		if !(w.SE[k] > 0) || math.IsInf(w.SE[k], 0) {
-			return nil, &ValueError{Name: name + " weight standard errors", Index: k, Value: w.SE[k], Want: "a positive finite number"}
+			return nil, &SeriesError{Series: name + " weight standard errors", Kind: ErrSample,
+				Detail: "lag " + strconv.Itoa(k) + " holds " + strconv.FormatFloat(w.SE[k], 'g', -1, 64) + "; standard errors must be positive finite numbers"}
 		}
-	}
-	series := name
-	if len(set.InputDiff) > 1 {
-		series = "(" + diffText(set.InputDiff) + " " + name + ")"
 	}
 	id := &Identification{Input: name, Weights: w, CornerR: -1, CornerS: -1}
 	v := w.V
@@ -206,17 +196,16 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 			if f.num == nil {
 				continue
 			}
-			c := Candidate{Delay: b, R: r, S: sd, Num: f.num, Den: f.den, Chi2: f.chi2,
+			c := Form{Delay: b, R: r, S: sd, Num: f.num, Den: f.den, Chi2: f.chi2,
 				Score: f.chi2 + set.Penalty*float64(r+sd+1), Corner: r == id.CornerR && sd == id.CornerS}
-			c.Term, c.Names, c.Starts = termText(series, set.Prefix, b, c.Num, c.Den)
 			c.Pattern = pattern(c.Den)
 			c.Redundant = nearCancel(c.Num, c.Den, 0.05)
 			c.TooSlow = tooSlow(c.Den, len(v)-b)
-			id.Candidates = append(id.Candidates, c)
+			id.Forms = append(id.Forms, c)
 		}
 	}
-	sort.SliceStable(id.Candidates, func(i, j int) bool {
-		a, c := id.Candidates[i], id.Candidates[j]
+	sort.SliceStable(id.Forms, func(i, j int) bool {
+		a, c := id.Forms[i], id.Forms[j]
 		if ra, rc := a.Redundant || a.TooSlow, c.Redundant || c.TooSlow; ra != rc {
 			return !ra
 		}
@@ -228,6 +217,14 @@ func Identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	return id, nil
 }
 
+// String writes the structure as "b=3 (r=1, s=0)": the dead time, the
+// degree of delta and the degree of omega.
+func (f Form) String() string {
+	return "b=" + strconv.Itoa(f.Delay) + " (r=" + strconv.Itoa(f.R) + ", s=" + strconv.Itoa(f.S) + ")"
+}
+
+// orderBound applies the rule of MaxR and MaxS: 2 for zero, order zero
+// only for a negative value.
 func orderBound(m int) int {
 	switch {
 	case m == 0:

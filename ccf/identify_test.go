@@ -3,41 +3,41 @@ package ccf
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 )
 
 func TestIdentifyBadInput(t *testing.T) {
 	v := []float64{0, 0, 1, 0.5, 0.25, 0.12, 0.06, 0.03}
 	se := []float64{0.05, 0.05, 0.05, 0.05, 0.05, 0.05, 0.05, 0.05}
-	var ae *ArgError
-	if _, err := Identify(nil, nil); !errors.As(err, &ae) {
+	var ae *SettingError
+	if _, err := Identify(nil, nil); !errors.As(err, &ae) || ae.Setting != "w" || ae.Op != "ccf.Identify" {
 		t.Errorf("nil weights: %v", err)
 	}
-	if _, err := Identify(&Weights{V: v, SE: se}, &IdentifySettings{Level: 1.5}); !errors.As(err, &ae) {
+	if _, err := Identify(&Weights{V: v, SE: se}, &IdentifySettings{Level: 1.5}); !errors.As(err, &ae) || ae.Setting != "IdentifySettings.Level" {
 		t.Errorf("level: %v", err)
 	}
-	if _, err := Identify(&Weights{V: v, SE: se}, &IdentifySettings{InputDiff: []float64{0, 1}}); !errors.As(err, &ae) {
-		t.Errorf("diff: %v", err)
-	}
-	var sh *ShortError
-	if _, err := Identify(&Weights{V: v[:1], SE: se[:1]}, nil); !errors.As(err, &sh) {
+	var sh *SeriesError
+	if _, err := Identify(&Weights{V: v[:1], SE: se[:1]}, nil); !errors.As(err, &sh) || !errors.Is(err, ErrShort) ||
+		err.Error() != `ccf.Identify: series "x weights": 1 samples, at least 2 needed (lags 0 and 1 at least)` {
 		t.Errorf("short: %v", err)
 	}
 	bad := append([]float64(nil), v...)
 	bad[3] = math.NaN()
-	var ve *ValueError
-	if _, err := Identify(&Weights{Input: "valve", V: bad, SE: se}, nil); !errors.As(err, &ve) || ve.Index != 3 {
+	var ve *SampleError
+	if _, err := Identify(&Weights{Input: "valve", V: bad, SE: se}, nil); !errors.As(err, &ve) || ve.Index != 3 || ve.Series != "valve weights" {
 		t.Errorf("NaN weight: %v", err)
 	}
 	zse := append([]float64(nil), se...)
 	zse[5] = 0
-	if _, err := Identify(&Weights{Input: "valve", V: v, SE: zse}, nil); !errors.As(err, &ve) || ve.Index != 5 ||
-		err.Error() != `ccf: series "valve weight standard errors" has 0 at index 5, want a positive finite number` {
+	if _, err := Identify(&Weights{Input: "valve", V: v, SE: zse}, nil); !errors.As(err, &sh) || !errors.Is(err, ErrSample) ||
+		err.Error() != `ccf.Identify: series "valve weight standard errors": bad sample (lag 5 holds 0; standard errors must be positive finite numbers)` {
 		t.Errorf("zero standard error: %v", err)
 	}
 	var nr *NoResponseError
 	flat := []float64{0.01, -0.02, 0.03, 0.0, 0.01, -0.01, 0.02, 0.0}
-	if _, err := Identify(&Weights{Input: "valve", V: flat, SE: se}, nil); !errors.As(err, &nr) || nr.Input != "valve" {
+	if _, err := Identify(&Weights{Input: "valve", V: flat, SE: se}, nil); !errors.As(err, &nr) || nr.Input != "valve" || !errors.Is(err, ErrModel) ||
+		!strings.HasPrefix(err.Error(), `ccf.Identify: no significant response of the output to input "valve" at lags 0..7 (level 0.99; largest |t| = 0.60 at lag 2)`) {
 		t.Errorf("no response: %v", err)
 	}
 	// A lone moderate spike at lag 1 (t = 3, below the lone-spike
@@ -61,7 +61,7 @@ func TestIdentifyBadInput(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := id.Candidates[0]
+	c := id.Forms[0]
 	// 2 (1 + 0.2 B) / (1 - 0.6 B) B^2: v_2 = 2, v_3 = 0.6*2 + 0.4 = 1.6, then *0.6.
 	if c.R != 1 || c.S != 1 || math.Abs(c.Num[0]-2) > 1e-8 || math.Abs(c.Num[1]-0.4) > 1e-8 || math.Abs(c.Den[1]+0.6) > 1e-8 {
 		t.Errorf("exact weights: got r=%d s=%d num %v den %v", c.R, c.S, c.Num, c.Den)
@@ -73,14 +73,14 @@ func TestIdentifyBadInput(t *testing.T) {
 	// dead time (9 here): the best form is still (1, 1), and the call
 	// returns (it used to loop over 2^40 x 2^40 orders).
 	id, err = Identify(&Weights{V: exact, SE: se11}, &IdentifySettings{MaxR: 1 << 40, MaxS: 1 << 40})
-	if err != nil || id.Candidates[0].R != 1 || id.Candidates[0].S != 1 {
+	if err != nil || id.Forms[0].R != 1 || id.Forms[0].S != 1 || id.Forms[0].String() != "b=2 (r=1, s=1)" {
 		t.Errorf("huge order bounds: %v, %v", id, err)
 	}
 	if _, err := Identify(&Weights{V: exact, SE: se11}, &IdentifySettings{Penalty: math.Inf(1)}); !errors.As(err, &ae) {
 		t.Errorf("infinite penalty: %v", err)
 	}
-	var le *LengthError
-	if _, err := Identify(&Weights{V: exact, SE: se11[:3]}, nil); !errors.As(err, &le) || le.Lens != [2]int{11, 3} {
+	var le *SeriesError
+	if _, err := Identify(&Weights{V: exact, SE: se11[:3]}, nil); !errors.As(err, &le) || !errors.Is(err, ErrLength) || le.Have != 3 || le.Need != 11 {
 		t.Errorf("standard errors shorter than the weights: %v", err)
 	}
 }
@@ -110,21 +110,21 @@ func TestNoiseSeries(t *testing.T) {
 	if !math.IsNaN(n[0]) || !math.IsNaN(n[1]) {
 		t.Error("noise before start must be NaN")
 	}
-	var le *LengthError
-	if _, _, err := NoiseSeries(y, [][]float64{x[:5]}, []*Weights{w}); !errors.As(err, &le) || le.Names[1] != "x" {
+	var le *SeriesError
+	if _, _, err := NoiseSeries(y, [][]float64{x[:5]}, []*Weights{w}); !errors.As(err, &le) || le.Series != "x" || !errors.Is(err, ErrLength) || le.Op != "ccf.NoiseSeries" {
 		t.Errorf("lengths: %v", err)
 	}
-	var ae *ArgError
-	if _, _, err := NoiseSeries(y, [][]float64{x}, nil); !errors.As(err, &ae) {
+	var ae *SettingError
+	if _, _, err := NoiseSeries(y, [][]float64{x}, nil); !errors.As(err, &ae) || err.Error() != "ccf.NoiseSeries: len(ws) = 0: must equal len(xs) = 1" {
 		t.Errorf("missing weights: %v", err)
 	}
-	var sh *ShortError
+	var sh *SeriesError
 	long := &Weights{V: make([]float64, 12), SE: make([]float64, 12)}
-	if _, _, err := NoiseSeries(y, [][]float64{x}, []*Weights{long}); !errors.As(err, &sh) {
+	if _, _, err := NoiseSeries(y, [][]float64{x}, []*Weights{long}); !errors.As(err, &sh) || !errors.Is(err, ErrShort) {
 		t.Errorf("short: %v", err)
 	}
 	// A NaN weight is an error naming the lag, not a NaN noise series.
-	var ve *ValueError
+	var ve *SampleError
 	nanw := &Weights{Input: "x", V: []float64{0, math.NaN(), 0.25}, SE: []float64{1, 1, 1}}
 	if _, _, err := NoiseSeries(y, [][]float64{x}, []*Weights{nanw}); !errors.As(err, &ve) || ve.Index != 1 {
 		t.Errorf("NaN weight: %v", err)
@@ -150,8 +150,8 @@ func TestImpulseWeightsScale(t *testing.T) {
 	if got, want := w.SE[0], c.SDY/c.SDX/math.Sqrt(12); math.Abs(got-want) > 1e-14 {
 		t.Errorf("se = %g, want %g", got, want)
 	}
-	var ce *ConstantError
-	if _, err := ImpulseWeights(x, make([]float64, len(x)), 2, "x", nil); !errors.As(err, &ce) {
+	var ce *SeriesError
+	if _, err := ImpulseWeights(x, make([]float64, len(x)), 2, "x", nil); !errors.As(err, &ce) || !errors.Is(err, ErrConstant) || ce.Op != "ccf.ImpulseWeights" {
 		t.Errorf("constant output: %v", err)
 	}
 }
@@ -201,7 +201,7 @@ func TestCornerEdges(t *testing.T) {
 	}
 	// Identify with the response at the last lag: only (0,0) fits.
 	id, err := Identify(&Weights{V: []float64{0, 0, 0, 5}, SE: []float64{0.1, 0.1, 0.1, 0.1}}, nil)
-	if err != nil || id.DeadTime != 3 || len(id.Candidates) != 1 || id.Candidates[0].Term != "w0 B^3 x" {
+	if err != nil || id.DeadTime != 3 || len(id.Forms) != 1 || id.Forms[0].String() != "b=3 (r=0, s=0)" || id.Forms[0].Num[0] != 5 {
 		t.Errorf("response at the last lag: %+v, %v", id, err)
 	}
 }
@@ -233,7 +233,7 @@ func TestNegativeLagLevel(t *testing.T) {
 	if id.DeadTime != 4 || math.Abs(id.Offset+0.2) > 1e-12 {
 		t.Errorf("dead time %d, offset %g; want 4 and -0.2 (-0.1 times s_y/s_x = 2)", id.DeadTime, id.Offset)
 	}
-	if c := id.Candidates[0]; c.R != 1 || c.S != 0 || math.Abs(c.Den[1]+0.6) > 1e-6 {
+	if c := id.Forms[0]; c.R != 1 || c.S != 0 || math.Abs(c.Den[1]+0.6) > 1e-6 {
 		t.Errorf("top form r=%d s=%d den %v, want 1 - 0.6 B", c.R, c.S, c.Den)
 	}
 	// The same weights without the cross-correlation (no negative lags to

@@ -64,16 +64,20 @@ type DistributedLagResult struct {
 // another, and it gives weights with standard errors for each input,
 // ready for Identify.
 //
-// Errors: *ArgError (no inputs, bad settings: see
-// DistributedLagSettings.Validate), *LengthError, *ValueError
-// (naming the series and index), *ShortError (fewer than twice as many
-// rows as coefficients), *ConstantError for a constant input and
-// *SingularError for a rank-deficient regression. Inputs are not
-// modified.
+// Errors: *SettingError (no inputs, bad settings: see
+// DistributedLagSettings.Validate), *SampleError (naming the series and
+// index), *SeriesError of kind ErrLength, ErrShort (fewer than twice as
+// many rows as coefficients) or ErrConstant (a constant series), and a
+// *ModelError for a rank-deficient regression. Inputs are not modified.
 //
 // References: Liu, L.-M., Hanssens, D.M. (1982), see the package
 // documentation.
 func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*DistributedLagResult, error) {
+	r0, err := distributedLag(y, xs, s)
+	return r0, withOp("ccf.DistributedLag", err)
+}
+
+func distributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*DistributedLagResult, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
@@ -83,14 +87,14 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	}
 	m := len(xs)
 	if m == 0 {
-		return nil, &ArgError{Arg: "xs", Value: "no inputs", Want: "at least one input series"}
+		return nil, &SettingError{Setting: "xs", Value: "no inputs", Rule: "must hold at least one input series"}
 	}
 	out := set.Output
 	if out == "" {
 		out = "y"
 	}
 	if len(set.Names) > m {
-		return nil, &ArgError{Arg: "DistributedLagSettings.Names", Value: strconv.Itoa(len(set.Names)) + " names", Want: "at most one per input (" + strconv.Itoa(m) + ")"}
+		return nil, &SettingError{Setting: "DistributedLagSettings.Names", Value: strconv.Itoa(len(set.Names)) + " names", Rule: "must hold at most one per input (" + strconv.Itoa(m) + ")"}
 	}
 	names := make([]string, m)
 	for i := range names {
@@ -103,7 +107,7 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	for i := range names {
 		for j := 0; j < i; j++ {
 			if names[i] == names[j] {
-				return nil, &ArgError{Arg: "DistributedLagSettings.Names", Value: "input " + strconv.Itoa(i+1) + " named " + strconv.Quote(names[i]) + " like input " + strconv.Itoa(j+1), Want: "one name per input (an empty entry is named x1, x2, ... by position)"}
+				return nil, &SettingError{Setting: "DistributedLagSettings.Names", Value: "input " + strconv.Itoa(i+1) + " named " + strconv.Quote(names[i]) + " like input " + strconv.Itoa(j+1), Rule: "must give one name per input (an empty entry is named x1, x2, ... by position)"}
 			}
 		}
 	}
@@ -113,13 +117,13 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	}
 	for i, x := range xs {
 		if len(x) != n {
-			return nil, &LengthError{Names: [2]string{out, names[i]}, Lens: [2]int{n, len(x)}}
+			return nil, lengthError(out, names[i], n, len(x))
 		}
 		if err := checkSeries(names[i], x); err != nil {
 			return nil, err
 		}
 		if n > 0 && isConstant(x) {
-			return nil, &ConstantError{Name: names[i], Value: x[0]}
+			return nil, constantError(names[i], x[0])
 		}
 	}
 	K := set.Lags
@@ -127,7 +131,7 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 		K = max(1, min(24, n/(4*m)))
 	}
 	if K < 0 {
-		return nil, &ArgError{Arg: "DistributedLagSettings.Lags", Value: strconv.Itoa(K), Want: ">= 0"}
+		return nil, &SettingError{Setting: "DistributedLagSettings.Lags", Value: strconv.Itoa(K), Rule: "must be zero or positive (0 means min(24, n/(4 inputs)), at least 1)"}
 	}
 	p := set.ARP
 	if p == 0 {
@@ -139,13 +143,13 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	// Lags and orders beyond the series cannot fit; checked here so that
 	// the counts below cannot overflow.
 	if K >= n {
-		return nil, &ShortError{Name: out, Len: n, Need: min(K, math.MaxInt-1) + 1, Why: "for lags up to " + strconv.Itoa(K)}
+		return nil, shortError(out, n, min(K, math.MaxInt-1)+1, "for lags up to "+strconv.Itoa(K))
 	}
 	if p >= n {
-		return nil, &ArgError{Arg: "DistributedLagSettings.ARP", Value: strconv.Itoa(set.ARP), Want: "below the series length " + strconv.Itoa(n)}
+		return nil, &SettingError{Setting: "DistributedLagSettings.ARP", Value: strconv.Itoa(set.ARP), Rule: "must be below the series length " + strconv.Itoa(n)}
 	}
 	if m > n {
-		return nil, &ShortError{Name: out, Len: n, Need: m, Why: "for " + strconv.Itoa(m) + " inputs"}
+		return nil, shortError(out, n, m, "for "+strconv.Itoa(m)+" inputs")
 	}
 	maxIter := set.MaxIter
 	if maxIter == 0 {
@@ -154,14 +158,14 @@ func DistributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	ncoef := 1 + m*(K+1)
 	rows := n - K - p
 	if rows < 2*ncoef {
-		return nil, &ShortError{Name: out, Len: n, Need: K + p + 2*ncoef, Why: "for " + strconv.Itoa(ncoef) + " distributed-lag coefficients"}
+		return nil, shortError(out, n, K+p+2*ncoef, "for "+strconv.Itoa(ncoef)+" distributed-lag coefficients")
 	}
 	if n > 0 && isConstant(y) {
-		return nil, &ConstantError{Name: out, Value: y[0]}
+		return nil, constantError(out, y[0])
 	}
 	f := ltfFit(y, xs, K, p, maxIter)
 	if f == nil {
-		return nil, &SingularError{Inputs: names}
+		return nil, singularError(names)
 	}
 	res := &DistributedLagResult{Iter: f.iter, Converged: f.converged, Sigma2: f.sigma2, Start: K, Noise: f.noise}
 	res.Const, res.ConstSE = f.c, f.cSE

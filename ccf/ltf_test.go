@@ -66,13 +66,13 @@ func TestDistributedLagAgainstR(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		c := id.Candidates[0]
-		t.Logf("%s: b=%d, top %s; corner (r,s) = (%d,%d)", res.Weights[i].Input, id.DeadTime, c.Term, id.CornerR, id.CornerS)
+		c := id.Forms[0]
+		t.Logf("%s: top %s; corner (r,s) = (%d,%d)", res.Weights[i].Input, c, id.CornerR, id.CornerS)
 		if id.DeadTime != want.b {
 			t.Errorf("%s: dead time %d, want %d", res.Weights[i].Input, id.DeadTime, want.b)
 		}
 		found := false
-		for _, c := range id.Candidates[:3] {
+		for _, c := range id.Forms[:3] {
 			found = found || c.R == want.r && c.S == want.s
 		}
 		if !found {
@@ -88,30 +88,30 @@ func TestDistributedLagBadInput(t *testing.T) {
 		x[i] = math.Sin(float64(i)) + float64(i%7)
 		y[i] = math.Cos(float64(i)) + float64(i%5)
 	}
-	var ae *ArgError
-	if _, err := DistributedLag(y, nil, nil); !errors.As(err, &ae) {
+	var ae *SettingError
+	if _, err := DistributedLag(y, nil, nil); !errors.As(err, &ae) || ae.Setting != "xs" || ae.Op != "ccf.DistributedLag" {
 		t.Errorf("no inputs: %v", err)
 	}
-	var le *LengthError
-	if _, err := DistributedLag(y, [][]float64{x[:50]}, nil); !errors.As(err, &le) || le.Lens != [2]int{60, 50} {
+	var le *SeriesError
+	if _, err := DistributedLag(y, [][]float64{x[:50]}, nil); !errors.As(err, &le) || !errors.Is(err, ErrLength) || le.Have != 50 || le.Need != 60 || le.Series != "x1" {
 		t.Errorf("lengths: %v", err)
 	}
 	bad := append([]float64(nil), x...)
 	bad[17] = math.Inf(1)
-	var ve *ValueError
-	if _, err := DistributedLag(y, [][]float64{x, bad}, &DistributedLagSettings{Names: []string{"valve", "outdoor"}}); !errors.As(err, &ve) || ve.Name != "outdoor" || ve.Index != 17 {
+	var ve *SampleError
+	if _, err := DistributedLag(y, [][]float64{x, bad}, &DistributedLagSettings{Names: []string{"valve", "outdoor"}}); !errors.As(err, &ve) || ve.Series != "outdoor" || ve.Index != 17 {
 		t.Errorf("Inf: %v", err)
 	}
-	var se *ShortError
-	if _, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{Lags: 30}); !errors.As(err, &se) {
+	var se *SeriesError
+	if _, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{Lags: 30}); !errors.As(err, &se) || !errors.Is(err, ErrShort) {
 		t.Errorf("short: %v", err)
 	}
-	var sg *SingularError
-	if _, err := DistributedLag(y, [][]float64{x, x}, &DistributedLagSettings{Lags: 3}); !errors.As(err, &sg) {
+	var sg *ModelError
+	if _, err := DistributedLag(y, [][]float64{x, x}, &DistributedLagSettings{Lags: 3}); !errors.As(err, &sg) || !errors.Is(err, ErrModel) ||
+		err.Error() != "ccf.DistributedLag: the distributed-lag regression on inputs x1, x2: singular: an input is a linear combination of the lags of the others; drop one of them" {
 		t.Errorf("collinear inputs: %v", err)
 	}
-	var ce *ConstantError
-	if _, err := DistributedLag(y, [][]float64{make([]float64, 60)}, nil); !errors.As(err, &ce) {
+	if _, err := DistributedLag(y, [][]float64{make([]float64, 60)}, nil); !errors.As(err, &se) || !errors.Is(err, ErrConstant) || se.Series != "x1" {
 		t.Errorf("constant: %v", err)
 	}
 	// Lags and orders beyond the series: typed errors with sensible

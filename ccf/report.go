@@ -8,7 +8,7 @@ import (
 
 // String returns a plain-text summary for people: the weights with their
 // t-ratios (marked * when beyond the 95 % normal quantile), the dead time,
-// the corner method's pick and the ranked forms with their terms. Numbers
+// the corner method's pick and the ranked forms with their scores. Numbers
 // are rounded for reading; use the fields for full precision. A nil
 // Identification prints as "<nil ccf.Identification>".
 func (id *Identification) String() string {
@@ -39,9 +39,8 @@ func (id *Identification) String() string {
 	if id.CornerR >= 0 {
 		fmt.Fprintf(&sb, "  corner method: r = %d, s = %d\n", id.CornerR, id.CornerS)
 	}
-	sb.WriteString("  rank  (b,r,s)  score    term\n")
-
-	for i, c := range id.Candidates {
+	sb.WriteString("  rank  structure        score    shape\n")
+	for i, c := range id.Forms {
 		mark := ""
 		if c.Corner {
 			mark = "  (corner)"
@@ -52,7 +51,7 @@ func (id *Identification) String() string {
 		if c.TooSlow {
 			mark += "  (pole too slow for the lags)"
 		}
-		fmt.Fprintf(&sb, "  %4d  (%d,%d,%d)  %7.2f  %s  [%s]%s\n", i+1, c.Delay, c.R, c.S, c.Score, c.Term, c.Pattern, mark)
+		fmt.Fprintf(&sb, "  %4d  %-15s  %7.2f  %s%s\n", i+1, c, c.Score, c.Pattern, mark)
 	}
 	return sb.String()
 }

@@ -8,7 +8,7 @@ import (
 )
 
 // TestSettingsValidate: every field of Settings, IdentifySettings and
-// DistributedLagSettings with a bad value gives an *ArgError naming the
+// DistributedLagSettings with a bad value gives a *SettingError naming the
 // field, from Validate and from the call that takes the settings. Fields
 // with no bad value: Settings.Names (names for messages),
 // DistributedLagSettings.Output; IdentifySettings.MaxR/MaxS and
@@ -19,9 +19,12 @@ func TestSettingsValidate(t *testing.T) {
 	nan := math.NaN()
 	check := func(how, field, want string, err error) {
 		t.Helper()
-		var ae *ArgError
-		if !errors.As(err, &ae) || ae.Arg != field || !strings.Contains(err.Error(), want) {
-			t.Errorf("%s: %T %v, want an *ArgError on %s containing %q", how, err, err, field, want)
+		var ae *SettingError
+		if !errors.As(err, &ae) || ae.Setting != field || !strings.Contains(err.Error(), want) || !errors.Is(err, ErrSetting) {
+			t.Errorf("%s: %T %v, want a *SettingError on %s containing %q", how, err, err, field, want)
+		}
+		if how != "Validate" && ae != nil && ae.Op != "ccf."+how {
+			t.Errorf("%s: Op %q, want %q", how, ae.Op, "ccf."+how)
 		}
 	}
 	for _, m := range []Method{-1, 3} {
@@ -36,28 +39,21 @@ func TestSettingsValidate(t *testing.T) {
 		field string
 		want  string
 	}{
-		{IdentifySettings{Level: 1}, "IdentifySettings.Level", "in (0, 1)"},
-		{IdentifySettings{Level: -0.5}, "IdentifySettings.Level", "in (0, 1)"},
-		{IdentifySettings{Level: nan}, "IdentifySettings.Level", "in (0, 1)"},
-		{IdentifySettings{Input: "valve position"}, "IdentifySettings.Input", "a name the spec texts can hold"},
-		{IdentifySettings{Input: "2x"}, "IdentifySettings.Input", "a letter or underscore"},
-		{IdentifySettings{Input: "B"}, "IdentifySettings.Input", "not one of B"},
-		{IdentifySettings{Prefix: "in-1"}, "IdentifySettings.Prefix", "starts every coefficient name"},
-		{IdentifySettings{Penalty: -1}, "IdentifySettings.Penalty", "finite, >= 0"},
-		{IdentifySettings{Penalty: math.Inf(1)}, "IdentifySettings.Penalty", "finite, >= 0"},
-		{IdentifySettings{Penalty: nan}, "IdentifySettings.Penalty", "finite, >= 0"},
-		{IdentifySettings{MinFraction: 1}, "IdentifySettings.MinFraction", "below 1"},
+		{IdentifySettings{Level: 1}, "IdentifySettings.Level", "IdentifySettings.Level = 1: must lie strictly between 0 and 1 (0 means 0.99)"},
+		{IdentifySettings{Level: -0.5}, "IdentifySettings.Level", "strictly between 0 and 1"},
+		{IdentifySettings{Level: nan}, "IdentifySettings.Level", "strictly between 0 and 1"},
+		{IdentifySettings{Penalty: -1}, "IdentifySettings.Penalty", "IdentifySettings.Penalty = -1: must be a finite number, zero or positive (0 means 2, the AIC weight)"},
+		{IdentifySettings{Penalty: math.Inf(1)}, "IdentifySettings.Penalty", "finite number, zero or positive"},
+		{IdentifySettings{Penalty: nan}, "IdentifySettings.Penalty", "finite number, zero or positive"},
+		{IdentifySettings{MinFraction: 1}, "IdentifySettings.MinFraction", "must be below 1 (0 means 0.1, a negative value no bound)"},
 		{IdentifySettings{MinFraction: nan}, "IdentifySettings.MinFraction", "below 1"},
-		{IdentifySettings{InputDiff: []float64{2, -1}}, "IdentifySettings.InputDiff", "constant term 1"},
-		{IdentifySettings{InputDiff: []float64{1, nan}}, "IdentifySettings.InputDiff", "finite"},
-		{IdentifySettings{InputDiff: []float64{}}, "IdentifySettings.InputDiff", "constant term 1"},
 	}
 	for _, c := range ids {
 		check("Validate", c.field, c.want, c.s.Validate())
 		check("Identify", c.field, c.want, second(Identify(w, &c.s)))
 	}
 	// Documented values are accepted.
-	for _, s := range []IdentifySettings{{MaxR: -1, MaxS: -1}, {MinFraction: -1}, {Input: "_valve2", Prefix: "v1_"}} {
+	for _, s := range []IdentifySettings{{MaxR: -1, MaxS: -1}, {MinFraction: -1}, {Input: "valve position"}} {
 		if _, err := Identify(w, &s); err != nil {
 			t.Errorf("documented settings %+v: %v", s, err)
 		}
@@ -67,8 +63,8 @@ func TestSettingsValidate(t *testing.T) {
 		field string
 		want  string
 	}{
-		{DistributedLagSettings{Lags: -1}, "DistributedLagSettings.Lags", ">= 0"},
-		{DistributedLagSettings{MaxIter: -1}, "DistributedLagSettings.MaxIter", ">= 0"},
+		{DistributedLagSettings{Lags: -1}, "DistributedLagSettings.Lags", "DistributedLagSettings.Lags = -1: must be zero or positive (0 means min(24, n/(4 inputs)), at least 1)"},
+		{DistributedLagSettings{MaxIter: -1}, "DistributedLagSettings.MaxIter", "must be zero or positive (0 means 50)"},
 		{DistributedLagSettings{Names: []string{"a", "a"}}, "DistributedLagSettings.Names", `"a" twice`},
 	}
 	for _, c := range dls {
@@ -133,11 +129,11 @@ func TestMessages(t *testing.T) {
 		not  []string
 	}{
 		{"constant", second(Cross(x, flat, 3, &Settings{Names: [2]string{"valve", "flow"}})),
-			[]string{`"flow" is constant (every sample is 0.3)`}, []string{"0.30000000000000004"}},
+			[]string{`ccf.Cross: series "flow" is constant (every sample is 0.3; its correlations are undefined)`}, []string{"0.30000000000000004"}},
 		{"filtered constant", second(ImpulseWeights(x[1:], filtered, 3, "valve", nil)),
-			[]string{`"output" is constant after the prewhitening filter of input "valve"`}, []string{"e-15", "(filtered)"}},
+			[]string{`ccf.ImpulseWeights: series "output" is constant (after the prewhitening filter of input "valve": `}, []string{"e-15", "(filtered)"}},
 		{"overflow", second(Cross(x, big, 3, &Settings{Names: [2]string{"valve", "flow"}})),
-			[]string{`"flow" has -1e+300 at index 17`, "rescale"}, nil},
+			[]string{`ccf.Cross: series "flow" sample 17 is -1e+300, beyond the largest magnitude accepted`, "rescale"}, nil},
 		{"underflow", second(Cross(tiny, x, 3, &Settings{Names: [2]string{"valve", "flow"}})),
 			[]string{`series "valve"`, "underflow", "rescale"}, []string{`"flow"`}},
 	}
@@ -157,12 +153,12 @@ func TestMessages(t *testing.T) {
 			}
 		}
 	}
-	var ve *ValueError
-	if err := cases[2].err; !errors.As(err, &ve) || ve.Index != 17 || ve.Name != "flow" {
-		t.Errorf("overflow: %T %v, want a *ValueError at flow[17]", err, err)
+	var ve *SampleError
+	if err := cases[2].err; !errors.As(err, &ve) || ve.Index != 17 || ve.Series != "flow" || !(ve.Limit > 0) {
+		t.Errorf("overflow: %T %v, want a *SampleError at flow[17]", err, err)
 	}
-	var ce *ConstantError
-	if err := cases[1].err; !errors.As(err, &ce) || ce.Name != "output" {
+	var ce *SeriesError
+	if err := cases[1].err; !errors.As(err, &ce) || ce.Series != "output" || !errors.Is(err, ErrConstant) {
 		t.Errorf("filtered constant: %T %v", err, err)
 	}
 }

@@ -1,6 +1,7 @@
 package ccf
 
 import (
+	"errors"
 	"math"
 	"strconv"
 
@@ -52,6 +53,11 @@ func (w *Weights) T(k int) float64 { return w.V[k] / w.SE[k] }
 // "output" unless s.Names gives names; a constant series is reported as
 // constant after the prewhitening filter.
 func ImpulseWeights(alpha, beta []float64, maxLag int, input string, s *Settings) (*Weights, error) {
+	r0, err := impulseWeights(alpha, beta, maxLag, input, s)
+	return r0, withOp("ccf.ImpulseWeights", err)
+}
+
+func impulseWeights(alpha, beta []float64, maxLag int, input string, s *Settings) (*Weights, error) {
 	if input == "" {
 		input = "x"
 	}
@@ -72,8 +78,10 @@ func ImpulseWeights(alpha, beta []float64, maxLag int, input string, s *Settings
 	if err != nil {
 		// The series are filtered ones: say so, and do not print the
 		// rounding noise a filtered constant is made of.
-		if ce, ok := err.(*ConstantError); ok {
-			ce.After = "the prewhitening filter of input " + strconv.Quote(input)
+		var ce *SeriesError
+		if errors.As(err, &ce) && ce.Kind == ErrConstant {
+			ce.Detail = "after the prewhitening filter of input " + strconv.Quote(input) +
+				": the series itself is constant, or only a trend that the filter's differencing removes; its correlations are undefined"
 		}
 		return nil, err
 	}
@@ -101,11 +109,17 @@ func ImpulseWeights(alpha, beta []float64, maxLag int, input string, s *Settings
 // order). The sum needs x_i at t-k for every lag k of every input, so
 // n_t is defined from start = the longest weight lag; noise has len(y)
 // samples and holds NaN before start. Series must have equal lengths and
-// finite values (*LengthError, *ValueError), be longer than the longest
-// lag (*ShortError), and len(xs) must equal len(ws) (*ArgError).
+// finite values (*SeriesError of kind ErrLength, *SampleError), be longer
+// than the longest lag (*SeriesError, ErrShort), and len(xs) must equal
+// len(ws) (*SettingError).
 func NoiseSeries(y []float64, xs [][]float64, ws []*Weights) (noise []float64, start int, err error) {
+	r0, r1, err := noiseSeries(y, xs, ws)
+	return r0, r1, withOp("ccf.NoiseSeries", err)
+}
+
+func noiseSeries(y []float64, xs [][]float64, ws []*Weights) (noise []float64, start int, err error) {
 	if len(xs) != len(ws) {
-		return nil, 0, &ArgError{Arg: "len(ws)", Value: strconv.Itoa(len(ws)), Want: "len(xs) = " + strconv.Itoa(len(xs))}
+		return nil, 0, &SettingError{Setting: "len(ws)", Value: strconv.Itoa(len(ws)), Rule: "must equal len(xs) = " + strconv.Itoa(len(xs))}
 	}
 	if err := checkSeries("output", y); err != nil {
 		return nil, 0, err
@@ -113,23 +127,23 @@ func NoiseSeries(y []float64, xs [][]float64, ws []*Weights) (noise []float64, s
 	for i, x := range xs {
 		name := inputName(ws[i], i)
 		if len(x) != len(y) {
-			return nil, 0, &LengthError{Names: [2]string{"output", name}, Lens: [2]int{len(y), len(x)}}
+			return nil, 0, lengthError("output", name, len(y), len(x))
 		}
 		if err := checkSeries(name, x); err != nil {
 			return nil, 0, err
 		}
 		if ws[i] == nil {
-			return nil, 0, &ArgError{Arg: "ws[" + strconv.Itoa(i) + "]", Value: "nil", Want: "weights"}
+			return nil, 0, &SettingError{Setting: "ws[" + strconv.Itoa(i) + "]", Value: "nil", Rule: "must be weights"}
 		}
 		for k, v := range ws[i].V {
 			if !finite(v) {
-				return nil, 0, &ValueError{Name: name + " weights", Index: k, Value: v}
+				return nil, 0, &SampleError{Series: name + " weights", Index: k, Value: v}
 			}
 		}
 		start = max(start, len(ws[i].V)-1)
 	}
 	if len(y) <= start {
-		return nil, 0, &ShortError{Name: "output", Len: len(y), Need: start + 1, Why: "for the weights' lags"}
+		return nil, 0, shortError("output", len(y), start+1, "for the weights' lags")
 	}
 	noise = make([]float64, len(y))
 	for t := 0; t < start; t++ {

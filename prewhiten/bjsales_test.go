@@ -2,12 +2,12 @@ package prewhiten_test
 
 import (
 	"context"
+	"math"
 	"testing"
 
 	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/testutil"
-	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/prewhiten"
 )
 
@@ -37,19 +37,21 @@ func TestBJSales(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for i, c := range id.Candidates {
-		t.Logf("%d: b=%d r=%d s=%d score %.2f corner %v  %s", i, c.Delay, c.R, c.S, c.Score, c.Corner, c.Spec("sales", ""))
+	for i, c := range id.Forms {
+		t.Logf("%d: %s score %.2f corner %v  omega %.4g delta %.4g", i, c, c.Score, c.Corner, c.Num, c.Den)
 	}
-	c := id.Candidates[0]
+	c := id.Forms[0]
 	if id.DeadTime != 3 || c.R != 1 || c.S != 0 {
 		t.Errorf("top candidate b=%d r=%d s=%d, want the published b=3 r=1 s=0", id.DeadTime, c.R, c.S)
 	}
 }
 
-// TestBJSalesSpec assembles the whole-model spec for BJsales from the
-// identification (differenced input and output, the noise proposed from
-// the preliminary noise series) and checks that it parses.
-func TestBJSalesSpec(t *testing.T) {
+// TestBJSalesNumbers runs the identification of BJsales as far as the
+// numbers a whole model is built from (package tf turns them into a
+// model): the form of the differenced input and the noise order
+// proposed from the preliminary noise series, with finite fitted
+// coefficients of the degrees the structure says.
+func TestBJSalesNumbers(t *testing.T) {
 	bj := testutil.ReadCSV(t, "testdata/bjsales/bjsales.csv")
 	sales, lead := bj.Column(t, "sales"), bj.Column(t, "lead")
 	pw, err := prewhiten.Pair(lead, sales, "sales", &prewhiten.Settings{Name: "lead", Diff: []float64{1, -1}})
@@ -60,11 +62,11 @@ func TestBJSalesSpec(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	id, err := ccf.Identify(w, &ccf.IdentifySettings{InputDiff: []float64{1, -1}})
+	id, err := ccf.Identify(w, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	best := id.Candidates[0]
+	best := id.Forms[0]
 	// Preliminary noise of the differenced series with the fitted form's
 	// weights (lags 0..30).
 	ds, dl := diff(sales), diff(lead)
@@ -78,21 +80,28 @@ func TestBJSalesSpec(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	starts := map[string]float64{}
-	for k, v := range best.Starts {
-		starts[k] = v
+	t.Logf("form %s, noise order %v", best, nid.Best)
+	// The published structure of Series M (Box, Jenkins & Reinsel,
+	// chapter 11): dead time 3, one denominator term.
+	if best.Delay != 3 || len(best.Num) != best.S+1 || len(best.Den) != best.R+1 || best.Den[0] != 1 {
+		t.Errorf("form %s with omega %v, delta %v", best, best.Num, best.Den)
 	}
-	for k, v := range nid.Starts {
-		starts[k] = v
+	if nid.Best.P > 1 || nid.Best.Q > 1 {
+		t.Errorf("noise order %v beyond the bounds 1, 1", nid.Best)
 	}
-	spec := "(1 - B) sales = " + best.Term + " + " + nid.Term + ccf.StartClause(append(append([]string(nil), best.Names...), nid.Names...), starts)
-	t.Logf("noise order %v; spec: %s", nid.Best, spec)
-	m, err := parse.Model(spec)
-	if err != nil {
-		t.Fatalf("%q: %v", spec, err)
-	}
-	if len(m.Inputs) != 1 || m.Inputs[0].Delay != 3 || m.Inputs[0].Diff.Degree() != 1 || m.Diff.Degree() != 1 || m.Noise == nil {
-		t.Errorf("parsed model %+v", m)
+	for _, c := range nid.Candidates {
+		if c.Order != nid.Best || c.Result == nil {
+			continue
+		}
+		m := c.Result.Model
+		if len(m.AR) != nid.Best.P || len(m.MA) != nid.Best.Q {
+			t.Errorf("best noise %v holds AR %v, MA %v", nid.Best, m.AR, m.MA)
+		}
+		for _, v := range append(append([]float64(nil), m.AR...), m.MA...) {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Errorf("best noise coefficient %v", v)
+			}
+		}
 	}
 }
 

@@ -52,7 +52,7 @@ func TestCorrelatedInputs(t *testing.T) {
 				t.Fatal(err)
 			}
 			top3 := false
-			for _, c := range id.Candidates[:3] {
+			for _, c := range id.Forms[:3] {
 				top3 = top3 || c.R == 0 && c.S == 0
 			}
 			if id.DeadTime == want {
@@ -73,7 +73,7 @@ func TestCorrelatedInputs(t *testing.T) {
 		}
 		if id, err := ccf.Identify(w, nil); err == nil && id.DeadTime == 1 {
 			top3 := false
-			for _, c := range id.Candidates[:3] {
+			for _, c := range id.Forms[:3] {
 				top3 = top3 || c.R == 0 && c.S == 0
 			}
 			if top3 {

@@ -1,104 +1,54 @@
 package prewhiten
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 )
 
-// ValueError reports a NaN or infinite sample, or one larger in
-// magnitude than arma.MaxAbs (Want then says so): series Name at Index
-// (0 = oldest) holds Value.
-type ValueError struct {
-	Name  string
-	Index int
-	Value float64
-	// Want, when not empty, says what the series allows; it is empty for
-	// a NaN or infinite sample.
-	Want string
-}
+// The library's error vocabulary (package internal/errs, shared by every
+// package): shapes to use with errors.As and kinds to use with
+// errors.Is. Every error an exported function of prewhiten returns
+// matches one kind, and its Op names that function ("prewhiten.Pair").
+type (
+	// SampleError reports one bad sample: NaN, infinite, or beyond the
+	// largest magnitude accepted (Limit), naming the series and index.
+	SampleError = errs.SampleError
+	// SeriesError reports a problem with a whole series: too short
+	// (ErrShort), constant (ErrConstant, also after the differencing or
+	// the filter, which Detail names), or of the wrong length
+	// (ErrLength).
+	SeriesError = errs.SeriesError
+	// SettingError reports a setting that breaks its rule, naming the
+	// field as the caller wrote it ("Settings.MaxOrder").
+	SettingError = errs.SettingError
+)
 
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ValueError) Error() string {
-	if e.Want != "" {
-		return fmt.Sprintf("prewhiten: series %q has %v at index %d, want %s", e.Name, e.Value, e.Index, e.Want)
-	}
-	return fmt.Sprintf("prewhiten: series %q has %v at index %d", e.Name, e.Value, e.Index)
-}
-
-// LengthError reports two series that must have equal lengths but do not.
-type LengthError struct {
-	Names [2]string
-	Lens  [2]int
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *LengthError) Error() string {
-	return fmt.Sprintf("prewhiten: series %q has %d samples but %q has %d; they must be of equal length",
-		e.Names[0], e.Lens[0], e.Names[1], e.Lens[1])
-}
-
-// ShortError reports a series of Len samples where Need are required for
-// the reason Why.
-type ShortError struct {
-	Name string
-	Len  int
-	Need int
-	Why  string
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ShortError) Error() string {
-	return fmt.Sprintf("prewhiten: series %q has %d samples, need at least %d %s", e.Name, e.Len, e.Need, e.Why)
-}
-
-// ConstantError reports a series with no variation left to work with:
-// every sample equal (Diff empty), or every sample equal after the
-// differencing Diff (for example "(1 - B)": the series is a straight
-// line), or, After naming a filter, every sample of the filtered series
-// equal. Value is that common value.
-type ConstantError struct {
-	Name  string
-	Value float64
-	// Diff is the differencing applied first as text, empty for none.
-	Diff string
-	// After, when not empty, names the filter after which the series is
-	// constant (the filter fitted to the input).
-	After string
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ConstantError) Error() string {
-	v := roundText(e.Value)
-	switch {
-	case e.After != "":
-		return fmt.Sprintf("prewhiten: series %q is constant after the filter %s; check that it varies", e.Name, e.After)
-	case e.Diff != "":
-		return fmt.Sprintf("prewhiten: series %q is constant after the differencing %s (every differenced sample is %s): its levels lie on a straight line or repeat; use less differencing", e.Name, e.Diff, v)
-	}
-	return fmt.Sprintf("prewhiten: series %q is constant (every sample is %s); a constant series carries no information to prewhiten or correlate", e.Name, v)
-}
-
-// roundText prints v to 6 significant digits for messages.
-func roundText(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
-
-// ArgError reports a setting out of range.
-type ArgError struct {
-	Arg, Value, Want string
-}
-
-// Error describes the problem in one line, naming the series and values involved.
-func (e *ArgError) Error() string {
-	return fmt.Sprintf("prewhiten: %s = %s, want %s", e.Arg, e.Value, e.Want)
-}
+// Kinds of error, for errors.Is; every error of the package matches one.
+var (
+	ErrSample      = errs.ErrSample      // a sample is NaN, infinite or too large
+	ErrShort       = errs.ErrShort       // too few samples
+	ErrConstant    = errs.ErrConstant    // a series is constant (after its differencing)
+	ErrLength      = errs.ErrLength      // series lengths differ
+	ErrSetting     = errs.ErrSetting     // a setting breaks its rule
+	ErrModel       = errs.ErrModel       // the filter does not whiten the input
+	ErrConvergence = errs.ErrConvergence // the fit of Settings.Order did not converge
+	ErrInternal    = errs.ErrInternal    // a fault of the library (a fit that panicked, recovered)
+)
 
 // NotWhiteError is returned together with a valid result when the
 // prewhitened input still fails the Ljung-Box test: the filter did not
 // whiten it, and cross-correlations computed from it can mislead. Try a
-// larger MaxOrder, differencing, or an ARMA filter.
+// larger MaxOrder, differencing, or an ARMA filter. It carries the test's
+// figures, which no shared shape holds, and matches ErrModel (the filter
+// is not usable as a whitening filter).
 type NotWhiteError struct {
+	// Op is the exported function called ("prewhiten.Pair").
+	Op   string
 	Name string
 	// Q, DF and P are the Ljung-Box statistic, its degrees of freedom and
 	// p-value; Lags the number of autocorrelations tested; Level the
@@ -110,22 +60,94 @@ type NotWhiteError struct {
 	Level float64
 }
 
-// Error describes the problem in one line, naming the series and values involved.
+// Error describes the problem in one line, naming the series and the test's figures.
 func (e *NotWhiteError) Error() string {
-	return fmt.Sprintf("prewhiten: series %q is not white after prewhitening: Ljung-Box Q = %.4g on %d df over %d lags, p = %.3g < %g",
-		e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
+	op := ""
+	if e.Op != "" {
+		op = e.Op + ": "
+	}
+	return fmt.Sprintf("%sseries %q is not white after prewhitening: Ljung-Box Q = %.4g on %d df over %d lags, p = %.3g < %g; try a larger MaxOrder, differencing or an ARMA filter",
+		op, e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
 }
 
-// checkSeries returns a *ValueError for the first NaN, infinite or too
+// Unwrap returns ErrModel.
+func (e *NotWhiteError) Unwrap() error { return ErrModel }
+
+// withOp names the exported function op in the errors of the shared
+// shapes found in err (joined ones too) and returns err; an exported
+// function calling another applies it last, so its own name wins.
+func withOp(op string, err error) error {
+	if err == nil {
+		return nil
+	}
+	var list []error
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		list = j.Unwrap()
+	} else {
+		list = []error{err}
+	}
+	for _, e := range list {
+		var a *SampleError
+		if errors.As(e, &a) {
+			a.Op = op
+		}
+		var b *SeriesError
+		if errors.As(e, &b) {
+			b.Op = op
+		}
+		var c *SettingError
+		if errors.As(e, &c) {
+			c.Op = op
+		}
+		var d *NotWhiteError
+		if errors.As(e, &d) {
+			d.Op = op
+		}
+	}
+	return err
+}
+
+// roundText prints v to 6 significant digits for messages.
+func roundText(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
+
+// lengthError reports the output y of length ny where the input x's
+// length nx is expected.
+func lengthError(x, y string, nx, ny int) error {
+	return &SeriesError{Series: y, Kind: ErrLength, Have: ny, Need: nx,
+		Detail: "the length of input " + strconv.Quote(x) + "; input and output must be of equal length"}
+}
+
+// shortError reports a series of have samples where need are required
+// for the reason why.
+func shortError(name string, have, need int, why string) error {
+	return &SeriesError{Series: name, Kind: ErrShort, Have: have, Need: need, Detail: why}
+}
+
+// constantError reports a series whose every sample is v: diff, when not
+// empty, is the differencing applied first ("(1 - B)").
+func constantError(name string, v float64, diff string) error {
+	d := "every sample is " + roundText(v) + "; a constant series carries no information to prewhiten or correlate"
+	if diff != "" {
+		d = "after the differencing " + diff + " every sample is " + roundText(v) + ": its levels lie on a straight line or repeat; use less differencing"
+	}
+	return &SeriesError{Series: name, Kind: ErrConstant, Detail: d}
+}
+
+// settingError reports a setting that breaks its rule.
+func settingError(setting, value, rule string) error {
+	return &SettingError{Setting: setting, Value: value, Rule: rule}
+}
+
+// checkSeries returns a *SampleError for the first NaN, infinite or too
 // large sample (|v| > arma.MaxAbs, whose squares in the correlations and
 // fits could overflow).
 func checkSeries(name string, x []float64) error {
 	for i, v := range x {
 		if v-v != 0 {
-			return &ValueError{Name: name, Index: i, Value: v}
+			return &SampleError{Series: name, Index: i, Value: v}
 		}
 		if math.Abs(v) > arma.MaxAbs {
-			return &ValueError{Name: name, Index: i, Value: v, Want: "a magnitude at most arma.MaxAbs = 1e140 (larger squares can overflow); rescale the series"}
+			return &SampleError{Series: name, Index: i, Value: v, Limit: arma.MaxAbs}
 		}
 	}
 	return nil

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/arma"
@@ -22,52 +23,56 @@ func TestBadInput(t *testing.T) {
 	keep := append([]float64(nil), x...)
 	s := &prewhiten.Settings{Name: "burner"}
 
-	var le *prewhiten.LengthError
-	if _, err := prewhiten.Pair(x, y[:70], "temp", s); !errors.As(err, &le) || le.Names != [2]string{"burner", "temp"} || le.Lens != [2]int{80, 70} {
+	var le *prewhiten.SeriesError
+	if _, err := prewhiten.Pair(x, y[:70], "temp", s); !errors.As(err, &le) || !errors.Is(err, prewhiten.ErrLength) || le.Series != "temp" || le.Have != 70 || le.Need != 80 ||
+		err.Error() != `prewhiten.Pair: series "temp" has 70 samples, 80 expected (the length of input "burner"; input and output must be of equal length)` {
 		t.Errorf("unequal lengths: %v", err)
 	}
 	nan := append([]float64(nil), y...)
 	nan[33] = math.NaN()
-	var ve *prewhiten.ValueError
-	if _, err := prewhiten.Pair(x, nan, "temp", s); !errors.As(err, &ve) || ve.Name != "temp" || ve.Index != 33 {
+	var ve *prewhiten.SampleError
+	if _, err := prewhiten.Pair(x, nan, "temp", s); !errors.As(err, &ve) || ve.Series != "temp" || ve.Index != 33 || ve.Op != "prewhiten.Pair" || !errors.Is(err, prewhiten.ErrSample) {
 		t.Errorf("NaN in output: %v", err)
 	}
 	inf := append([]float64(nil), x...)
 	inf[5] = math.Inf(1)
-	if _, err := prewhiten.Fit(inf, s); !errors.As(err, &ve) || ve.Name != "burner" || ve.Index != 5 {
+	if _, err := prewhiten.Fit(inf, s); !errors.As(err, &ve) || ve.Series != "burner" || ve.Index != 5 || ve.Op != "prewhiten.Fit" {
 		t.Errorf("Inf in input: %v", err)
 	}
-	var se *prewhiten.ShortError
-	if _, err := prewhiten.Fit(x[:6], &prewhiten.Settings{Name: "burner", MaxOrder: 5}); !errors.As(err, &se) || se.Name != "burner" {
+	var se *prewhiten.SeriesError
+	if _, err := prewhiten.Fit(x[:6], &prewhiten.Settings{Name: "burner", MaxOrder: 5}); !errors.As(err, &se) || se.Series != "burner" || !errors.Is(err, prewhiten.ErrShort) ||
+		err.Error() != `prewhiten.Fit: series "burner": 6 samples, at least 7 needed (for the prewhitening autoregression)` {
 		t.Errorf("too short: %v", err)
 	}
-	var ce *prewhiten.ConstantError
+	var ce *prewhiten.SeriesError
 	ramp := make([]float64, 50)
 	for i := range ramp {
 		ramp[i] = 3 + 2*float64(i)
 	}
-	if _, err := prewhiten.Fit(ramp, &prewhiten.Settings{Name: "ramp", Diff: []float64{1, -1}}); !errors.As(err, &ce) || ce.Name != "ramp" {
+	if _, err := prewhiten.Fit(ramp, &prewhiten.Settings{Name: "ramp", Diff: []float64{1, -1}}); !errors.As(err, &ce) || ce.Series != "ramp" || !errors.Is(err, prewhiten.ErrConstant) ||
+		err.Error() != `prewhiten.Fit: series "ramp" is constant (after the differencing (1 - B) every sample is 2: its levels lie on a straight line or repeat; use less differencing)` {
 		t.Errorf("constant after differencing: %v", err)
 	}
-	var ae *prewhiten.ArgError
-	if _, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: []float64{2, -1}}); !errors.As(err, &ae) {
+	var ae *prewhiten.SettingError
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: []float64{2, -1}}); !errors.As(err, &ae) ||
+		err.Error() != `prewhiten.Fit: Settings.Diff = "(2 - B)": must be a polynomial with constant term 1` {
 		t.Errorf("bad differencing: %v", err)
 	}
-	if _, err := prewhiten.Fit(x, &prewhiten.Settings{MaxOrder: -1}); !errors.As(err, &ae) {
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{MaxOrder: -1}); !errors.As(err, &ae) || ae.Setting != "Settings.MaxOrder" || !errors.Is(err, prewhiten.ErrSetting) {
 		t.Errorf("negative order: %v", err)
 	}
 	bad := arma.Model{MA: []float64{1.5}}
-	if _, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &bad}); !errors.As(err, &ae) {
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &bad}); !errors.As(err, &ae) || ae.Setting != "Settings.ARMA" {
 		t.Errorf("non-invertible MA filter: %v", err)
 	}
 	f, err := prewhiten.Fit(x, s)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, _, err := f.Apply(nan, "temp"); !errors.As(err, &ve) || ve.Index != 33 {
+	if _, _, err := f.Apply(nan, "temp"); !errors.As(err, &ve) || ve.Index != 33 || ve.Op != "prewhiten.Filter.Apply" {
 		t.Errorf("Apply NaN: %v", err)
 	}
-	if _, err := prewhiten.IdentifyNoise(context.Background(), nan, nil); !errors.As(err, &ve) || ve.Index != 33 {
+	if _, err := prewhiten.IdentifyNoise(context.Background(), nan, nil); !errors.As(err, &ve) || ve.Index != 33 || ve.Op != "prewhiten.IdentifyNoise" {
 		t.Errorf("IdentifyNoise NaN: %v", err)
 	}
 	lead := append([]float64{math.NaN(), math.NaN()}, y[:10]...)
@@ -93,7 +98,8 @@ func TestNotWhite(t *testing.T) {
 	// 1.2, -0.6: an AR(1) fit leaves strong lag-2 correlation.
 	res, err := prewhiten.Pair(x, x, "y", &prewhiten.Settings{MaxOrder: 1, KeepAR: true})
 	var nw *prewhiten.NotWhiteError
-	if !errors.As(err, &nw) || res == nil || res.White {
+	if !errors.As(err, &nw) || res == nil || res.White || !errors.Is(err, prewhiten.ErrModel) || nw.Op != "prewhiten.Pair" ||
+		!strings.HasPrefix(err.Error(), `prewhiten.Pair: series "x" is not white after prewhitening: Ljung-Box Q = `) {
 		t.Fatalf("want a NotWhiteError with the result, got %v", err)
 	}
 	t.Log(err)
@@ -190,7 +196,7 @@ func TestHostileSettings(t *testing.T) {
 	}
 	x0 := append([]float64(nil), x...)
 	y0 := append([]float64(nil), y...)
-	var se *prewhiten.ShortError
+	var se *prewhiten.SeriesError
 	long := make([]float64, 300) // (1 - B^299), longer than the series
 	long[0], long[299] = 1, -1
 	if _, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: long}); !errors.As(err, &se) || se.Need != 302 {
@@ -202,8 +208,9 @@ func TestHostileSettings(t *testing.T) {
 	if _, err := prewhiten.Pair(x, y, "y", &prewhiten.Settings{Lags: math.MaxInt}); !errors.As(err, &se) || se.Need < len(x) {
 		t.Errorf("Lags = MaxInt: %v", err)
 	}
-	var ae *prewhiten.ArgError
-	if _, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &arma.Model{AR: []float64{math.NaN()}}}); !errors.As(err, &ae) {
+	var ae *prewhiten.SettingError
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &arma.Model{AR: []float64{math.NaN()}}}); !errors.As(err, &ae) ||
+		err.Error() != "prewhiten.Fit: Settings.ARMA = a NaN or infinite coefficient, Mean or Sigma2: must be finite values" {
 		t.Errorf("caller's ARMA with a NaN coefficient: %v", err)
 	}
 	f, err := prewhiten.Fit(x, nil)
@@ -229,7 +236,7 @@ func TestHostileSettings(t *testing.T) {
 
 // TestZeroFilter: the zero Filter reports order 0 and start 0 (nil
 // polynomials count as {1}, as documented; was -1 and -2), and Apply
-// rejects it with an *ArgError naming Filter.Diff.
+// rejects it with a *SettingError naming Filter.Diff.
 func TestZeroFilter(t *testing.T) {
 	var f prewhiten.Filter
 	if f.Order() != 0 || f.Start() != 0 {
@@ -239,8 +246,9 @@ func TestZeroFilter(t *testing.T) {
 	if f.Order() != 1 || f.Start() != 1 {
 		t.Errorf("AR only: order %d, start %d; want 1 and 1", f.Order(), f.Start())
 	}
-	var ae *prewhiten.ArgError
-	if _, _, err := (prewhiten.Filter{}).Apply([]float64{1, 2, 3}, "y"); !errors.As(err, &ae) || ae.Arg != "Filter.Diff" {
+	var ae *prewhiten.SettingError
+	if _, _, err := (prewhiten.Filter{}).Apply([]float64{1, 2, 3}, "y"); !errors.As(err, &ae) || ae.Setting != "Filter.Diff" ||
+		err.Error() != "prewhiten.Filter.Apply: Filter.Diff = nil: must be a polynomial with constant term 1 ({1} for none)" {
 		t.Errorf("Apply of the zero Filter: %v", err)
 	}
 }

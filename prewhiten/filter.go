@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/poly"
 )
@@ -17,8 +18,9 @@ import (
 // Settings tunes Fit and Pair. The zero value gives the defaults.
 type Settings struct {
 	// MaxOrder bounds the autoregression order searched by AIC; zero
-	// means min(n-1, floor(10 log10 n)) for n differenced samples, as R's
-	// ar().
+	// means min(n-1, floor(10 log10 n)) for n differenced samples (a
+	// bound growing with the log of the record length); negative is a
+	// *SettingError.
 	MaxOrder int
 	// Diff is the differencing of the input, ascending powers of B, for
 	// example {1, -1} for (1 - B); nil for none. It overrides AutoDiff.
@@ -35,7 +37,7 @@ type Settings struct {
 	// of moderate order does not whiten, such as an integrated input
 	// under feedback, for which ARIMA(1,1,1) is a common choice. The
 	// differencing may be written either in Order (D, SD) or in Diff, not
-	// in both (an *ArgError): Settings{Order: {D: 1, Q: 1}} and
+	// in both (a *SettingError): Settings{Order: {D: 1, Q: 1}} and
 	// Settings{Diff: {1, -1}, Order: {Q: 1}} are the same filter. In
 	// either spelling the mean of the differenced input is estimated
 	// with the coefficients (arma.MeanFree, a drift for D = 1), as the
@@ -44,15 +46,15 @@ type Settings struct {
 	// ARMA, when not nil, is used as the filter instead of fitting one:
 	// phi(B) = ARMA.ARPoly(), theta(B) = ARMA.MAPoly(), the differencing
 	// ARMA.DiffPoly(), or Diff when ARMA has none (both with different
-	// differencing is an *ArgError). Its Mean and Sigma2 are kept. Setting
-	// both Order and ARMA is an *ArgError.
+	// differencing is a *SettingError). Its Mean and Sigma2 are kept.
+	// Setting both Order and ARMA is a *SettingError.
 	ARMA *arma.Model
 	// Name names the input in errors and in the filter's text; empty
 	// means "x".
 	Name string
 	// Lags is the number of autocorrelations in the Ljung-Box check of
 	// the prewhitened input; zero means min(20, n/5), negative is an
-	// *ArgError.
+	// *SettingError.
 	Lags int
 	// Level is the p-value below which the check reports a
 	// *NotWhiteError; zero means 0.01, otherwise it must lie in (0, 1).
@@ -63,7 +65,7 @@ type Settings struct {
 }
 
 // Validate checks every field of s on its own (nil is the defaults)
-// and returns an *ArgError naming the first bad field: MaxOrder or Lags
+// and returns a *SettingError naming the first bad field: MaxOrder or Lags
 // negative, Diff without constant term 1 or with a NaN or infinite
 // coefficient, an invalid Order (negative orders, a seasonal part
 // without Period >= 2, a degree above arma.MaxLag), an ARMA model with
@@ -78,50 +80,45 @@ func (s *Settings) Validate() error {
 	if s == nil {
 		return nil
 	}
-	if s.MaxOrder < 0 {
-		return &ArgError{Arg: "Settings.MaxOrder", Value: itoa(s.MaxOrder), Want: ">= 0 (zero means the default)"}
+	if err := errs.Count("", "Settings.MaxOrder", s.MaxOrder, "0 means min(n-1, floor(10 log10 n))"); err != nil {
+		return err
 	}
 	if err := checkPoly("Settings.Diff", s.Diff); err != nil {
 		return err
 	}
 	if s.Order != nil {
 		if err := s.Order.Validate(); err != nil {
-			return &ArgError{Arg: "Settings.Order", Value: s.Order.String(), Want: "non-negative orders, Period >= 2 with a seasonal part, degrees up to arma.MaxLag"}
+			return settingError("Settings.Order", s.Order.String(), "must be non-negative orders, Period >= 2 with a seasonal part, degrees up to arma.MaxLag")
 		}
 		if s.ARMA != nil {
-			return &ArgError{Arg: "Settings.Order", Value: s.Order.String() + " together with Settings.ARMA", Want: "one of Order (fit a filter) and ARMA (use a given one)"}
+			return settingError("Settings.Order", s.Order.String()+" together with Settings.ARMA", "must be one of Order (fit a filter) and ARMA (use a given one)")
 		}
 		if s.Diff != nil && (s.Order.D > 0 || s.Order.SD > 0) {
-			return &ArgError{Arg: "Settings.Order", Value: s.Order.String() + " together with Settings.Diff " + strconv.Quote(polyText(s.Diff)),
-				Want: "the differencing written once: in Diff, or in Order's D and SD"}
+			return settingError("Settings.Order", s.Order.String()+" together with Settings.Diff "+strconv.Quote(polyText(s.Diff)), "must give the differencing written once: in Diff, or in Order's D and SD")
 		}
 	}
 	if m := s.ARMA; m != nil {
 		if m.ARPoly() == nil {
-			return &ArgError{Arg: "Settings.ARMA", Value: m.Order().String(), Want: "valid orders (D, SD >= 0, Period >= 2 with a seasonal part, degrees up to arma.MaxLag)"}
+			return settingError("Settings.ARMA", m.Order().String(), "must be valid orders (D, SD >= 0, Period >= 2 with a seasonal part, degrees up to arma.MaxLag)")
 		}
 		for _, c := range [][]float64{m.AR, m.MA, m.SAR, m.SMA, {m.Mean, m.Sigma2}} {
 			for _, v := range c {
 				if v-v != 0 {
-					return &ArgError{Arg: "Settings.ARMA", Value: "a NaN or infinite coefficient, Mean or Sigma2", Want: "finite values"}
+					return settingError("Settings.ARMA", "a NaN or infinite coefficient, Mean or Sigma2", "must be finite values")
 				}
 			}
 		}
 		if m.Sigma2 < 0 {
-			return &ArgError{Arg: "Settings.ARMA.Sigma2", Value: strconv.FormatFloat(m.Sigma2, 'g', -1, 64), Want: ">= 0"}
+			return settingError("Settings.ARMA.Sigma2", strconv.FormatFloat(m.Sigma2, 'g', -1, 64), "must be zero or positive")
 		}
 		if d := normPoly(m.DiffPoly()); s.Diff != nil && len(d) > 1 && !equalPoly(d, normPoly(s.Diff)) {
-			return &ArgError{Arg: "Settings.Diff", Value: strconv.Quote(polyText(s.Diff)) + " while Settings.ARMA differences by " + strconv.Quote(polyText(d)),
-				Want: "the differencing written once, or the same in both"}
+			return settingError("Settings.Diff", strconv.Quote(polyText(s.Diff))+" while Settings.ARMA differences by "+strconv.Quote(polyText(d)), "must give the differencing written once, or the same in both")
 		}
 	}
-	if s.Lags < 0 {
-		return &ArgError{Arg: "Settings.Lags", Value: itoa(s.Lags), Want: ">= 0 (zero means the default)"}
+	if err := errs.Count("", "Settings.Lags", s.Lags, "0 means min(20, n/5)"); err != nil {
+		return err
 	}
-	if !(s.Level >= 0 && s.Level < 1) {
-		return &ArgError{Arg: "Settings.Level", Value: strconv.FormatFloat(s.Level, 'g', -1, 64), Want: "in (0, 1) (zero means the default 0.01)"}
-	}
-	return nil
+	return errs.Probability("", "Settings.Level", s.Level, "0 means 0.01")
 }
 
 func maxAbs(zs []complex128) float64 {
@@ -164,8 +161,12 @@ type Filter struct {
 	// meant for other series (Pair's Beta, the output), removes each
 	// series' own mean instead, since their level is not the input's.
 	Mean float64
-	// Sigma2 is the innovation variance of the fit (R's var.pred for a
-	// fitted autoregression, the model's Sigma2 for a given ARMA).
+	// Sigma2 is the innovation variance of the fit: for an
+	// autoregression of order p fitted to n samples, the lag-0
+	// autocovariance times prod_{k<=p} (1 - pacf_k^2) times n/(n-p-1)
+	// (the prediction-error variance corrected for the p coefficients
+	// and the mean); for s.Order the fit's estimate; for a given ARMA its
+	// Sigma2.
 	Sigma2 float64
 }
 
@@ -175,14 +176,14 @@ func (f Filter) Order() int { return degree(f.AR) }
 // Start returns the first index of a filtered series that does not
 // depend on samples before the start: deg D + deg phi. A nil polynomial
 // counts as {1} (degree 0), so the zero Filter gives 0; Apply still
-// rejects such a filter with an *ArgError.
+// rejects such a filter with a *SettingError.
 func (f Filter) Start() int { return degree(f.Diff) + degree(f.AR) }
 
 // degree returns len(c) - 1, or 0 for an empty c.
 func degree(c []float64) int { return max(len(c)-1, 0) }
 
-// String returns the filter as a spec fragment with the coefficients at
-// 4 significant digits, for example "(1 - 0.6431 B + 0.3558 B^2) (1 - B) x",
+// String returns the filter for reading, with the coefficients at 4
+// significant digits (a display of the numbers, not a model spec), for example "(1 - 0.6431 B + 0.3558 B^2) (1 - B) x",
 // with "/ (1 + ...)" for an MA part.
 func (f Filter) String() string {
 	var sb strings.Builder
@@ -240,21 +241,27 @@ func num(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
 // Fit fits a prewhitening filter to the input x: the differencing
 // s.Diff (or the automatic choice of AutoDiff), then an autoregression of
 // order 0..MaxOrder chosen by AIC with the Yule-Walker equations
-// (arma.YuleWalker, whose order and coefficients agree with R's
-// ar(method = "yule-walker")), or an ARIMA model of s.Order fitted by
+// (arma.YuleWalker: the order with the smallest n log(v_p) + 2p), or an
+// ARIMA model of s.Order fitted by
 // arma.Fit, or the caller's s.ARMA. Filter.Mean is the level removed
 // from the differenced input: its sample mean for the autoregression
-// (R's x.mean), the estimated mean for s.Order, ARMA.Mean for s.ARMA.
+// (the mean of the differenced samples), the estimated mean for s.Order,
+// ARMA.Mean for s.ARMA.
 //
-// Errors: *ArgError for bad settings (see Settings.Validate),
-// *ValueError for NaN/Inf (with the index), *ShortError when the
+// Errors: *SettingError for bad settings (see Settings.Validate),
+// *SampleError for NaN/Inf (with the index), *SeriesError (ErrShort) when the
 // differenced series has fewer than MaxOrder+2 samples (at least 3),
-// *ConstantError when x is constant, or constant after its
+// *SeriesError (ErrConstant) when x is constant, or constant after its
 // differencing; the errors of arma.Fit for s.Order otherwise. When the
 // fit of s.Order stopped without converging, the filter from its best
 // point is returned together with the *arma.ConvergenceError. x is not
 // modified.
 func Fit(x []float64, s *Settings) (Filter, error) {
+	r0, err := fit(x, s)
+	return r0, withOp("prewhiten.Fit", err)
+}
+
+func fit(x []float64, s *Settings) (Filter, error) {
 	if err := s.Validate(); err != nil {
 		return Filter{}, err
 	}
@@ -267,13 +274,13 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 		set = *s
 	}
 	if d := len(set.Diff) - 1; d > 0 && d+3 > len(x) {
-		return Filter{}, &ShortError{Name: name, Len: len(x), Need: d + 3, Why: "for the differencing " + strconv.Quote(polyText(set.Diff))}
+		return Filter{}, shortError(name, len(x), d+3, "for the differencing "+polyText(set.Diff))
 	}
 	if len(x) < 3 {
-		return Filter{}, &ShortError{Name: name, Len: len(x), Need: 3, Why: "for a prewhitening filter"}
+		return Filter{}, shortError(name, len(x), 3, "for a prewhitening filter")
 	}
 	if isConstant(x) {
-		return Filter{}, &ConstantError{Name: name, Value: x[0]}
+		return Filter{}, constantError(name, x[0], "")
 	}
 	if set.Order != nil {
 		// The differencing is applied here in either spelling (Diff or
@@ -287,11 +294,11 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 		}
 		d := len(diff) - 1
 		if d+3 > len(x) {
-			return Filter{}, &ShortError{Name: name, Len: len(x), Need: d + 3, Why: "for the differencing " + strconv.Quote(polyText(diff))}
+			return Filter{}, shortError(name, len(x), d+3, "for the differencing "+polyText(diff))
 		}
 		w := applyFIR(x, diff)[d:]
 		if isConstant(w) {
-			return Filter{}, &ConstantError{Name: name, Value: w[0], Diff: polyText(diff)}
+			return Filter{}, constantError(name, w[0], polyText(diff))
 		}
 		ord.D, ord.SD = 0, 0
 		if ord.SP == 0 && ord.SQ == 0 {
@@ -301,14 +308,25 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 		if res == nil {
 			// The fit saw the differenced series: report lengths and
 			// indexes of x itself.
+			// arma's own types today, the shared shapes once arma uses
+			// them: both are translated.
 			var se *arma.ShortError
 			var de *arma.DataError
+			var sse *SeriesError
+			var sae *SampleError
+			why := "for the filter of Settings.Order " + set.Order.String() + " after the differencing " + polyText(diff)
+			// The differenced sample beyond the limit is reported at
+			// the index of x it ends at.
+			series := name + " after the differencing " + polyText(diff)
 			switch {
 			case errors.As(err, &se):
-				return Filter{}, &ShortError{Name: name, Len: len(x), Need: se.Need + d, Why: "for the " + ord.String() + " filter after the differencing " + strconv.Quote(polyText(diff))}
+				return Filter{}, shortError(name, len(x), se.Need+d, why)
+			case errors.As(err, &sse) && sse.Kind == ErrShort:
+				return Filter{}, shortError(name, len(x), sse.Need+d, why)
 			case errors.As(err, &de):
-				return Filter{}, &ValueError{Name: name, Index: de.Index + d, Value: x[de.Index+d],
-					Want: "differences within arma.MaxAbs = 1e140 (this one is " + strconv.FormatFloat(de.Value, 'g', 4, 64) + "); rescale the series"}
+				return Filter{}, &SampleError{Series: series, Index: de.Index + d, Value: de.Value, Limit: arma.MaxAbs}
+			case errors.As(err, &sae):
+				return Filter{}, &SampleError{Series: series, Index: sae.Index + d, Value: sae.Value, Limit: sae.Limit}
 			}
 			return Filter{}, err
 		}
@@ -348,16 +366,16 @@ func fitAR(x []float64, name string, diff []float64, maxOrder int) (Filter, erro
 	w := applyFIR(x, diff)[d:]
 	if len(w) < 3 || maxOrder > len(w)-2 {
 		need := max(3, min(maxOrder, math.MaxInt-2-d)+2) // no overflow for huge MaxOrder
-		return Filter{}, &ShortError{Name: name, Len: len(x), Need: need + d, Why: "for the prewhitening autoregression"}
+		return Filter{}, shortError(name, len(x), need+d, "for the prewhitening autoregression")
 	}
 	if isConstant(w) {
-		return Filter{}, &ConstantError{Name: name, Value: w[0], Diff: polyText(diff)}
+		return Filter{}, constantError(name, w[0], polyText(diff))
 	}
 	ar, err := arma.YuleWalker(w, maxOrder)
 	if err != nil {
 		var ce *arma.ConstantError
 		if errors.As(err, &ce) {
-			return Filter{}, &ConstantError{Name: name, Value: w[0], Diff: polyText(diff)}
+			return Filter{}, constantError(name, w[0], polyText(diff))
 		}
 		return Filter{}, err
 	}
@@ -386,10 +404,10 @@ func fromARMA(x []float64, name string, set Settings, arg string) (Filter, error
 		if len(roots) > 0 {
 			what += fmt.Sprintf(" (largest z-plane root modulus %.4g)", maxAbs(roots))
 		}
-		return Filter{}, &ArgError{Arg: arg, Value: what, Want: "an invertible model (its inverse filters the input); for a fitted one try a smaller Q or less differencing"}
+		return Filter{}, settingError(arg, what, "must be an invertible model (its inverse filters the input); for a fitted one try a smaller Q or less differencing")
 	}
 	if len(x) <= f.Start()+1 {
-		return Filter{}, &ShortError{Name: name, Len: len(x), Need: f.Start() + 2, Why: "for the given filter"}
+		return Filter{}, shortError(name, len(x), f.Start()+2, "for the given filter")
 	}
 	return f, nil
 }
@@ -401,11 +419,11 @@ func checkPoly(arg string, c []float64) error {
 		return nil
 	}
 	if len(c) == 0 || c[0] != 1 {
-		return &ArgError{Arg: arg, Value: strconv.Quote(polyText(c)), Want: "a polynomial with constant term 1"}
+		return settingError(arg, strconv.Quote(polyText(c)), "must be a polynomial with constant term 1")
 	}
 	for _, v := range c {
 		if v-v != 0 {
-			return &ArgError{Arg: arg, Value: "NaN or Inf coefficient", Want: "finite coefficients"}
+			return settingError(arg, "NaN or Inf coefficient", "must be finite coefficients")
 		}
 	}
 	return nil
@@ -459,16 +477,18 @@ func applyFIR(x, c []float64) []float64 {
 // removes f.Mean instead). out has len(y) values, NaN before start =
 // f.Start(); the MA part runs with zero pre-sample values from start.
 // For the series f was fitted by autoregression to, out equals the
-// autoregression residuals (R's ar()$resid) and ApplyInput's result.
+// autoregression residuals e_t = phi(B)(D(B) x_t - mean) and ApplyInput's
+// result.
 //
-// Errors: *ArgError for a filter that is not valid (see Filter),
-// *ValueError for NaN/Inf, *ShortError when y has no more than start+1
+// Errors: *SettingError for a filter that is not valid (see Filter),
+// *SampleError for NaN/Inf, *SeriesError (ErrShort) when y has no more than start+1
 // samples. y is not modified.
 func (f Filter) Apply(y []float64, name string) (out []float64, start int, err error) {
 	if name == "" {
 		name = "y"
 	}
-	return f.apply(y, name, 0, true)
+	out, start, err = f.apply(y, name, 0, true)
+	return out, start, withOp("prewhiten.Filter.Apply", err)
 }
 
 // ApplyInput filters the input x the filter was fitted to as the filter
@@ -482,9 +502,10 @@ func (f Filter) ApplyInput(x []float64) (out []float64, start int, err error) {
 		name = "x"
 	}
 	if f.Mean-f.Mean != 0 {
-		return nil, 0, &ArgError{Arg: "Filter.Mean", Value: strconv.FormatFloat(f.Mean, 'g', -1, 64), Want: "a finite number"}
+		return nil, 0, withOp("prewhiten.Filter.ApplyInput", settingError("Filter.Mean", strconv.FormatFloat(f.Mean, 'g', -1, 64), "must be a finite number"))
 	}
-	return f.apply(x, name, f.Mean, false)
+	out, start, err = f.apply(x, name, f.Mean, false)
+	return out, start, withOp("prewhiten.Filter.ApplyInput", err)
 }
 
 // apply is Apply (own true: remove y's own mean) and ApplyInput (remove
@@ -498,7 +519,7 @@ func (f Filter) apply(y []float64, name string, mean float64, own bool) (out []f
 	}
 	start = f.Start()
 	if len(y) < start+2 {
-		return nil, 0, &ShortError{Name: name, Len: len(y), Need: start + 2, Why: "for the prewhitening filter"}
+		return nil, 0, shortError(name, len(y), start+2, "for the prewhitening filter")
 	}
 	// out holds w = D(B) y from index d, then phi(B)(w - mean) in place,
 	// computed from the end backwards so that every w_{t-k} is still
@@ -557,7 +578,7 @@ func (f Filter) check() error {
 		c   []float64
 	}{{"Filter.Diff", f.Diff}, {"Filter.AR", f.AR}, {"Filter.MA", f.MA}} {
 		if p.c == nil {
-			return &ArgError{Arg: p.arg, Value: "nil", Want: "a polynomial with constant term 1 ({1} for none)"}
+			return settingError(p.arg, "nil", "must be a polynomial with constant term 1 ({1} for none)")
 		}
 		if err := checkPoly(p.arg, p.c); err != nil {
 			return err
@@ -566,11 +587,11 @@ func (f Filter) check() error {
 	if len(f.MA) > 1 {
 		roots, err := poly.Roots(f.MA)
 		if err != nil {
-			return &ArgError{Arg: "Filter.MA", Value: strconv.Quote(polyText(f.MA)), Want: "an invertible MA part (its roots could not be computed: coefficients of extreme size)"}
+			return settingError("Filter.MA", strconv.Quote(polyText(f.MA)), "must be an invertible MA part (its roots could not be computed: coefficients of extreme size)")
 		}
 		for _, r := range roots {
 			if cmplx.Abs(r) <= 1 {
-				return &ArgError{Arg: "Filter.MA", Value: strconv.Quote(polyText(f.MA)), Want: "an invertible MA part (roots in B outside the unit circle)"}
+				return settingError("Filter.MA", strconv.Quote(polyText(f.MA)), "must be an invertible MA part (roots in B outside the unit circle)")
 			}
 		}
 	}

@@ -4,9 +4,9 @@ import (
 	"context"
 	"math"
 	"strconv"
-	"strings"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 )
 
 // NoiseSettings tunes IdentifyNoise. The zero value gives the defaults.
@@ -17,7 +17,7 @@ type NoiseSettings struct {
 	// MaxR and MaxS. A negative bound is therefore not an error.
 	MaxP, MaxQ int
 	// Lags is the number of autocorrelations reported; zero means
-	// min(24, n/4), negative is an *ArgError.
+	// min(24, n/4), negative is a *SettingError.
 	Lags int
 	// Criterion ranks the orders (arma.ByAICc by default).
 	Criterion arma.Criterion
@@ -26,7 +26,7 @@ type NoiseSettings struct {
 }
 
 // Validate checks every field of s on its own (nil is the defaults)
-// and returns an *ArgError naming the first bad field: MaxP or MaxQ
+// and returns a *SettingError naming the first bad field: MaxP or MaxQ
 // above arma.MaxLag (a negative bound is documented: order zero only),
 // Lags negative, an unknown Criterion. Name accepts every value.
 // IdentifyNoise calls it first; Lags against the series length is
@@ -40,14 +40,14 @@ func (s *NoiseSettings) Validate() error {
 		v    int
 	}{{"NoiseSettings.MaxP", s.MaxP}, {"NoiseSettings.MaxQ", s.MaxQ}} {
 		if f.v > arma.MaxLag {
-			return &ArgError{Arg: f.name, Value: strconv.Itoa(f.v), Want: "at most arma.MaxLag = " + strconv.Itoa(arma.MaxLag)}
+			return settingError(f.name, strconv.Itoa(f.v), "must be at most arma.MaxLag = "+strconv.Itoa(arma.MaxLag)+" (0 means 2, a negative value order zero only)")
 		}
 	}
-	if s.Lags < 0 {
-		return &ArgError{Arg: "NoiseSettings.Lags", Value: strconv.Itoa(s.Lags), Want: ">= 0 (zero means the default)"}
+	if err := errs.Count("", "NoiseSettings.Lags", s.Lags, "0 means min(24, n/4)"); err != nil {
+		return err
 	}
 	if s.Criterion < arma.ByAICc || s.Criterion > arma.ByAIC {
-		return &ArgError{Arg: "NoiseSettings.Criterion", Value: s.Criterion.String(), Want: "arma.ByAICc, arma.ByBIC or arma.ByAIC"}
+		return settingError("NoiseSettings.Criterion", s.Criterion.String(), "must be arma.ByAICc, arma.ByBIC or arma.ByAIC")
 	}
 	return nil
 }
@@ -63,17 +63,12 @@ type NoiseIdentification struct {
 	PACF arma.Partial
 	// Candidates are the ARMA(p, q) fits of arma.Select, best first.
 	Candidates []arma.Candidate
-	// Best is the order of the first candidate that fitted.
+	// Best is the order of the first candidate that fitted (white
+	// noise, the zero Order, when none did); its fitted coefficients
+	// are that candidate's Result.Model.AR and MA. The result holds
+	// numbers only: package tf turns an order into a noise model with
+	// named coefficients.
 	Best arma.Order
-	// Term is the noise term of Best as spec text with free coefficients,
-	// "(1 - theta1 B) / (1 - phi1 B) a", "1 / (1 - phi1 B) a",
-	// "(1 - theta1 B) a", or "a" for white noise; Names
-	// lists its coefficient names in written order and Starts their
-	// start values (the fitted estimates), for Candidate.Spec-style
-	// assembly (ccf.StartClause).
-	Term   string
-	Names  []string
-	Starts map[string]float64
 }
 
 // IdentifyNoise proposes an ARMA model for a preliminary noise series
@@ -82,13 +77,19 @@ type NoiseIdentification struct {
 // arma.Select (conditional least squares, all candidates summing their
 // residuals from the same index). Leading NaN samples are skipped.
 //
-// Errors: *ValueError for NaN/Inf after the leading NaN run, *ShortError
-// for fewer than 20 samples, *ConstantError for a constant series,
-// *ArgError for bad settings (NoiseSettings.Validate); a done ctx returns
+// Errors: *SampleError for NaN/Inf after the leading NaN run,
+// *SeriesError for fewer than 20 samples (ErrShort) or a constant series
+// (ErrConstant), *SettingError for bad settings (NoiseSettings.Validate);
+// a done ctx returns
 // its error with the candidates fitted so far, and a fit that panicked
 // (a bug, recovered on arma.Select's worker goroutine) an
 // *arma.InternalError with them.
 func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*NoiseIdentification, error) {
+	r0, err := identifyNoise(ctx, noise, s)
+	return r0, withOp("prewhiten.IdentifyNoise", err)
+}
+
+func identifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*NoiseIdentification, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
@@ -106,15 +107,15 @@ func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 	}
 	w := noise[start:]
 	if err := checkSeries(name, w); err != nil {
-		e := err.(*ValueError)
+		e := err.(*SampleError)
 		e.Index += start
 		return nil, e
 	}
 	if len(w) < 20 {
-		return nil, &ShortError{Name: name, Len: len(noise), Need: start + 20, Why: "to identify a noise model"}
+		return nil, shortError(name, len(noise), start+20, "to identify a noise model")
 	}
 	if isConstant(w) {
-		return nil, &ConstantError{Name: name, Value: w[0]}
+		return nil, constantError(name, w[0], "")
 	}
 	maxP, maxQ := bound(set.MaxP), bound(set.MaxQ)
 	lags := set.Lags
@@ -122,7 +123,7 @@ func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 		lags = min(24, len(w)/4)
 	}
 	if lags < 1 || lags >= len(w) {
-		return nil, &ArgError{Arg: "NoiseSettings.Lags", Value: strconv.Itoa(lags), Want: "in 1.." + strconv.Itoa(len(w)-1)}
+		return nil, settingError("NoiseSettings.Lags", strconv.Itoa(lags), "must lie in 1.."+strconv.Itoa(len(w)-1)+" for this series (0 means min(24, n/4))")
 	}
 	id := &NoiseIdentification{Start: start}
 	var err error
@@ -139,11 +140,9 @@ func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 	for _, c := range id.Candidates {
 		if c.Result != nil && !math.IsInf(c.Score, 1) {
 			id.Best = c.Order
-			id.Term, id.Names, id.Starts = noiseText(c.Result.Model)
 			return id, nil
 		}
 	}
-	id.Term, id.Starts = "a", map[string]float64{}
 	return id, nil
 }
 
@@ -156,40 +155,4 @@ func bound(m int) int {
 		return 0
 	}
 	return m
-}
-
-// noiseText writes the noise term of m with coefficients named phi1..,
-// theta1.. (Box-Jenkins signs, as arma.Model.Noise).
-func noiseText(m arma.Model) (string, []string, map[string]float64) {
-	starts := map[string]float64{}
-	var names []string
-	part := func(c []float64, name string) string {
-		if len(c) == 0 {
-			return ""
-		}
-		var sb strings.Builder
-		sb.WriteString("(1")
-		for k, v := range c {
-			n := name + strconv.Itoa(k+1)
-			sb.WriteString(" - " + n + " B")
-			if k > 0 {
-				sb.WriteString("^" + strconv.Itoa(k+1))
-			}
-			names = append(names, n)
-			starts[n] = v
-		}
-		sb.WriteString(")")
-		return sb.String()
-	}
-	ma := part(m.MA, "theta")
-	ar := part(m.AR, "phi")
-	switch {
-	case ma == "" && ar == "":
-		return "a", names, starts
-	case ar == "":
-		return ma + " a", names, starts
-	case ma == "":
-		return "1 / " + ar + " a", names, starts
-	}
-	return ma + " / " + ar + " a", names, starts
 }

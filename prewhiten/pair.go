@@ -42,17 +42,22 @@ type Result struct {
 // filter of Settings.Order and its fit did not converge, the result comes
 // with the *arma.ConvergenceError (joined with a *NotWhiteError when
 // both apply); all other errors
-// come with a nil result: *LengthError, *ValueError naming "x"/"y" or the
-// names given (Settings.Name for x, yName for y), *ShortError,
-// *ConstantError (x or y constant, x constant after its differencing),
-// *ArgError (Settings.Validate).
+// come with a nil result: *SeriesError of kind ErrLength, ErrShort or
+// ErrConstant (x or y constant, x constant after its differencing or its
+// filter), *SampleError naming "x"/"y" or the names given (Settings.Name
+// for x, yName for y), *SettingError (Settings.Validate).
 func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
+	r0, err := pair(x, y, yName, s)
+	return r0, withOp("prewhiten.Pair", err)
+}
+
+func pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 	name := s.name()
 	if yName == "" {
 		yName = "y"
 	}
 	if len(x) != len(y) {
-		return nil, &LengthError{Names: [2]string{name, yName}, Lens: [2]int{len(x), len(y)}}
+		return nil, lengthError(name, yName, len(x), len(y))
 	}
 	if err := s.Validate(); err != nil {
 		return nil, err
@@ -78,7 +83,7 @@ func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 		convErr = err
 	}
 	if isConstant(y) {
-		return nil, &ConstantError{Name: yName, Value: y[0]}
+		return nil, constantError(yName, y[0], "")
 	}
 	res, err := pairWith(f, x, y, name, yName, set.Lags, level)
 	if err != nil {
@@ -138,10 +143,10 @@ func pairWith(f Filter, x, y []float64, name, yName string, lags int, level floa
 		lags = fitted + 1
 	}
 	if lags >= m {
-		return nil, &ShortError{Name: name, Len: len(x), Need: start + min(lags, math.MaxInt-start-1) + 1, Why: "to check the prewhitened input for whiteness"}
+		return nil, shortError(name, len(x), start+min(lags, math.MaxInt-start-1)+1, "to check the prewhitened input for whiteness")
 	}
 	if isConstant(alpha[start:]) {
-		return nil, &ConstantError{Name: name, Value: alpha[start], After: strconv.Quote(f.String())}
+		return nil, &SeriesError{Series: name, Kind: ErrConstant, Detail: "after the filter " + strconv.Quote(f.String()) + "; check that it varies"}
 	}
 	res.Check, err = arma.LjungBox(alpha[start:], lags, fitted)
 	if err != nil {

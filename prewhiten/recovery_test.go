@@ -103,12 +103,12 @@ func TestRecovery(t *testing.T) {
 		} else {
 			confC[rs][3*id.CornerR+id.CornerS]++
 		}
-		c0 := id.Candidates[0]
+		c0 := id.Forms[0]
 		conf[rs][3*c0.R+c0.S]++
 		if c0.R == r && c0.S == s {
 			top1++
 		}
-		for _, c := range id.Candidates[:min(3, len(id.Candidates))] {
+		for _, c := range id.Forms[:min(3, len(id.Forms))] {
 			if c.R == r && c.S == s && c.Delay == b {
 				top3++
 			}

@@ -13,7 +13,7 @@ import (
 )
 
 // TestSettingsValidate: every field of Settings and NoiseSettings with a
-// bad value gives an *ArgError naming that field, from Validate and from
+// bad value gives a *SettingError naming that field, from Validate and from
 // the call that takes the settings. Fields with no bad value: Settings.
 // Name, AutoDiff, KeepAR and NoiseSettings.Name (any string or bool);
 // MaxP/MaxQ negative is documented (order zero only).
@@ -26,7 +26,7 @@ func TestSettingsValidate(t *testing.T) {
 		s     prewhiten.Settings
 		want  string
 	}{
-		{"Settings.MaxOrder", prewhiten.Settings{MaxOrder: -1}, ">= 0"},
+		{"Settings.MaxOrder", prewhiten.Settings{MaxOrder: -1}, "Settings.MaxOrder = -1: must be zero or positive (0 means min(n-1, floor(10 log10 n)))"},
 		{"Settings.Diff", prewhiten.Settings{Diff: []float64{2, -1}}, "constant term 1"},
 		{"Settings.Diff", prewhiten.Settings{Diff: []float64{1, nan}}, "finite"},
 		{"Settings.Diff", prewhiten.Settings{Diff: []float64{}}, "constant term 1"},
@@ -37,19 +37,22 @@ func TestSettingsValidate(t *testing.T) {
 		{"Settings.ARMA", prewhiten.Settings{ARMA: &arma.Model{D: -1}}, "valid orders"},
 		{"Settings.ARMA", prewhiten.Settings{ARMA: &arma.Model{AR: []float64{nan}}}, "finite"},
 		{"Settings.ARMA", prewhiten.Settings{ARMA: &arma.Model{Mean: math.Inf(1)}}, "finite"},
-		{"Settings.ARMA.Sigma2", prewhiten.Settings{ARMA: &arma.Model{Sigma2: -1}}, ">= 0"},
+		{"Settings.ARMA.Sigma2", prewhiten.Settings{ARMA: &arma.Model{Sigma2: -1}}, "Settings.ARMA.Sigma2 = -1: must be zero or positive"},
 		{"Settings.Diff", prewhiten.Settings{ARMA: &arma.Model{D: 1}, Diff: []float64{1, 0, -1}}, "differencing written once"},
-		{"Settings.Lags", prewhiten.Settings{Lags: -3}, ">= 0"},
-		{"Settings.Level", prewhiten.Settings{Level: 1}, "in (0, 1)"},
-		{"Settings.Level", prewhiten.Settings{Level: -0.05}, "in (0, 1)"},
-		{"Settings.Level", prewhiten.Settings{Level: nan}, "in (0, 1)"},
+		{"Settings.Lags", prewhiten.Settings{Lags: -3}, "Settings.Lags = -3: must be zero or positive (0 means min(20, n/5))"},
+		{"Settings.Level", prewhiten.Settings{Level: 1}, "Settings.Level = 1: must lie strictly between 0 and 1 (0 means 0.01)"},
+		{"Settings.Level", prewhiten.Settings{Level: -0.05}, "strictly between 0 and 1"},
+		{"Settings.Level", prewhiten.Settings{Level: nan}, "strictly between 0 and 1"},
 	}
 	for _, c := range cases {
 		check := func(how string, err error) {
 			t.Helper()
-			var ae *prewhiten.ArgError
-			if !errors.As(err, &ae) || ae.Arg != c.field || !strings.Contains(err.Error(), c.want) {
-				t.Errorf("%s %+v: %v, want an *ArgError on %s containing %q", how, c.s, err, c.field, c.want)
+			var ae *prewhiten.SettingError
+			if !errors.As(err, &ae) || ae.Setting != c.field || !strings.Contains(err.Error(), c.want) || !errors.Is(err, prewhiten.ErrSetting) {
+				t.Errorf("%s %+v: %v, want a *SettingError on %s containing %q", how, c.s, err, c.field, c.want)
+			}
+			if how != "Validate" && ae != nil && ae.Op != "prewhiten."+how {
+				t.Errorf("%s: Op %q", how, ae.Op)
 			}
 		}
 		check("Validate", c.s.Validate())
@@ -74,7 +77,7 @@ func TestSettingsValidate(t *testing.T) {
 	}{
 		{"NoiseSettings.MaxP", prewhiten.NoiseSettings{MaxP: arma.MaxLag + 1}, "at most arma.MaxLag"},
 		{"NoiseSettings.MaxQ", prewhiten.NoiseSettings{MaxQ: math.MaxInt}, "at most arma.MaxLag"},
-		{"NoiseSettings.Lags", prewhiten.NoiseSettings{Lags: -1}, ">= 0"},
+		{"NoiseSettings.Lags", prewhiten.NoiseSettings{Lags: -1}, "must be zero or positive"},
 		{"NoiseSettings.Criterion", prewhiten.NoiseSettings{Criterion: 7}, "Criterion(7)"},
 		{"NoiseSettings.Criterion", prewhiten.NoiseSettings{Criterion: -1}, "arma.ByAICc"},
 	}
@@ -86,9 +89,12 @@ func TestSettingsValidate(t *testing.T) {
 				return err
 			}(),
 		} {
-			var ae *prewhiten.ArgError
-			if !errors.As(err, &ae) || ae.Arg != c.field || !strings.Contains(err.Error(), c.want) {
-				t.Errorf("%s %+v: %v, want an *ArgError on %s containing %q", how, c.s, err, c.field, c.want)
+			var ae *prewhiten.SettingError
+			if !errors.As(err, &ae) || ae.Setting != c.field || !strings.Contains(err.Error(), c.want) || !errors.Is(err, prewhiten.ErrSetting) {
+				t.Errorf("%s %+v: %v, want a *SettingError on %s containing %q", how, c.s, err, c.field, c.want)
+			}
+			if how != "Validate" && ae != nil && ae.Op != "prewhiten."+how {
+				t.Errorf("%s: Op %q", how, ae.Op)
 			}
 		}
 	}
@@ -221,22 +227,22 @@ func TestConstantMessages(t *testing.T) {
 		not  []string
 	}{
 		{"Fit constant", second(prewhiten.Fit(flat, &prewhiten.Settings{Name: "valve"})),
-			[]string{`"valve" is constant (every sample is 0.3)`}, []string{"differenc", "0.30000000000000004"}},
+			[]string{`series "valve" is constant (every sample is 0.3;`}, []string{"differenc", "0.30000000000000004"}},
 		{"Fit constant with Diff", second(prewhiten.Fit(flat, &prewhiten.Settings{Name: "valve", Diff: []float64{1, -1}})),
-			[]string{`"valve" is constant (every sample is 0.3)`}, []string{"differenc"}},
+			[]string{`series "valve" is constant (every sample is 0.3;`}, []string{"differenc"}},
 		{"Fit ramp with Diff", second(prewhiten.Fit(ramp, &prewhiten.Settings{Name: "valve", Diff: []float64{1, -1}})),
-			[]string{`"valve" is constant after the differencing (1 - B)`, "every differenced sample is 0.5"}, nil},
+			[]string{`prewhiten.Fit: series "valve" is constant (after the differencing (1 - B) every sample is 0.5: its levels lie on a straight line or repeat; use less differencing)`}, nil},
 		{"Fit ramp with Order", second(prewhiten.Fit(ramp, &prewhiten.Settings{Name: "valve", Order: &arma.Order{D: 1, Q: 1}})),
-			[]string{`"valve" is constant after the differencing (1 - B)`}, nil},
+			[]string{`"valve" is constant (after the differencing (1 - B) every sample is 0.5`}, nil},
 		{"Pair constant output", second(prewhiten.Pair(x, flat, "flow", &prewhiten.Settings{Name: "valve"})),
-			[]string{`"flow" is constant (every sample is 0.3)`}, []string{"filtered", "e-1"}},
+			[]string{`prewhiten.Pair: series "flow" is constant (every sample is 0.3; a constant series carries no information to prewhiten or correlate)`}, []string{"filtered", "e-1"}},
 		{"IdentifyNoise constant", second(prewhiten.IdentifyNoise(context.Background(), flat, &prewhiten.NoiseSettings{Name: "level"})),
-			[]string{`"level" is constant (every sample is 0.3)`}, []string{"differenc"}},
+			[]string{`prewhiten.IdentifyNoise: series "level" is constant (every sample is 0.3;`}, []string{"differenc"}},
 	}
 	for _, c := range cases {
-		var ce *prewhiten.ConstantError
-		if !errors.As(c.err, &ce) {
-			t.Errorf("%s: %T %v, want *ConstantError", c.name, c.err, c.err)
+		var ce *prewhiten.SeriesError
+		if !errors.As(c.err, &ce) || !errors.Is(c.err, prewhiten.ErrConstant) {
+			t.Errorf("%s: %T %v, want a *SeriesError of kind ErrConstant", c.name, c.err, c.err)
 			continue
 		}
 		for _, w := range c.want {
@@ -310,14 +316,14 @@ func TestOrderNotConverged(t *testing.T) {
 func TestOrderShortMessage(t *testing.T) {
 	x := []float64{1, 3, 2, 5, 4, 7}
 	_, err := prewhiten.Fit(x, &prewhiten.Settings{Name: "valve", Order: &arma.Order{P: 2, D: 1, Q: 2}})
-	var se *prewhiten.ShortError
-	if !errors.As(err, &se) || se.Len != 6 || se.Need != 9 || !strings.Contains(err.Error(), `"valve" has 6 samples`) {
-		t.Errorf("%T %v, want a *ShortError for 6 samples needing 9", err, err)
+	var se *prewhiten.SeriesError
+	if !errors.As(err, &se) || se.Have != 6 || se.Need != 9 || err.Error() != `prewhiten.Fit: series "valve": 6 samples, at least 9 needed (for the filter of Settings.Order (2,1,2) after the differencing (1 - B))` {
+		t.Errorf("%T %v, want a *SeriesError for 6 samples needing 9", err, err)
 	}
 	y := []float64{1, 3, 2, 5, 4, 7, 1e140, -1e140, 3, 4, 2, 1, 5, 6, 2, 3}
 	_, err = prewhiten.Fit(y, &prewhiten.Settings{Name: "valve", Order: &arma.Order{D: 1, Q: 1}})
-	var ve *prewhiten.ValueError
-	if !errors.As(err, &ve) || ve.Index != 7 || !strings.Contains(err.Error(), "-2e+140") {
-		t.Errorf("%T %v, want a *ValueError at index 7", err, err)
+	var ve *prewhiten.SampleError
+	if !errors.As(err, &ve) || ve.Index != 7 || ve.Value != -2e140 || ve.Series != "valve after the differencing (1 - B)" || !strings.Contains(err.Error(), "-2e+140") {
+		t.Errorf("%T %v, want a *SampleError at index 7", err, err)
 	}
 }

@@ -261,7 +261,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		var err error
 		joint, err = idfJointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
 		if err != nil {
-			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err}
+			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: idfInner(err)}
 		}
 	}
 	var ids []*ccf.Identification
@@ -274,35 +274,31 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
 			var nw *prewhiten.NotWhiteError
 			if err != nil && !errors.As(err, &nw) {
-				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err}
+				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: idfInner(err)}
 			}
 			w, err = ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
 			if err != nil {
-				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err}
+				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: idfInner(err)}
 			}
-		}
-		prefix := ""
-		if len(inputs) > 1 {
-			prefix = name + "_"
 		}
 		penalty := math.Log(float64(n)) // BIC-like weight, as the final ranking
 		if set.ByAIC {
 			penalty = 2
 		}
-		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Prefix: prefix, InputDiff: diff, Penalty: penalty})
+		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Penalty: penalty})
 		if err != nil {
-			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err}
+			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: idfInner(err)}
 		}
 		ids = append(ids, id)
 		dp := Poly{}
 		if diff != nil {
 			dp = sym.FromCoeffs(diff)
 		}
-		for k, c := range id.Candidates {
+		for k, c := range id.Forms {
 			if k >= set.Forms {
 				break
 			}
-			forms[i] = append(forms[i], idfInput(name, prefix, dp, c))
+			forms[i] = append(forms[i], idfInput(name, len(inputs) > 1, dp, c))
 			scores[i] = append(scores[i], c.Score)
 		}
 	}
@@ -702,41 +698,6 @@ const (
 	idfMaxMagnitude = 1e140
 	idfMinSpread    = 1e-140
 )
-
-// idfInput builds the input term of a ccf candidate: omega with plus
-// signs (w_k = Num[k]) and delta with minus signs (d_k = -Den[k]), the
-// candidate's values as start values.
-func idfInput(series, prefix string, diff Poly, c ccf.Candidate) Input {
-	nf := Factor{Exp: 1}
-	for k, v := range c.Num {
-		nf.Terms = append(nf.Terms, Term{Coef: Coef{Name: prefix + "w" + strconv.Itoa(k), Value: v, Free: true}, Power: k})
-	}
-	in := Input{Series: series, Diff: diff.Clone(), Num: Poly{Factors: []Factor{nf}}, Delay: c.Delay}
-	if len(c.Den) > 1 {
-		df := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
-		for k := 1; k < len(c.Den); k++ {
-			df.Terms = append(df.Terms, Term{Neg: true, Coef: Coef{Name: prefix + "d" + strconv.Itoa(k), Value: -c.Den[k], Free: true}, Power: k})
-		}
-		in.Den = Poly{Factors: []Factor{df}}
-	}
-	return in
-}
-
-// idfNoise returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a with
-// free coefficients (start values computed by Fit).
-func idfNoise(p, q int) *arma.Noise {
-	mk := func(name string, deg int) Poly {
-		if deg == 0 {
-			return Poly{}
-		}
-		f := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
-		for k := 1; k <= deg; k++ {
-			f.Terms = append(f.Terms, Term{Neg: true, Coef: Coef{Name: name + strconv.Itoa(k), Free: true}, Power: k})
-		}
-		return Poly{Factors: []Factor{f}}
-	}
-	return &arma.Noise{MA: mk("theta", q), AR: mk("phi", p)}
-}
 
 // idfCombos returns index combinations (one form per input) ordered by
 // the sum of the forms' scores, at most limit of them.

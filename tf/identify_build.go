@@ -1,0 +1,100 @@
+package tf
+
+import (
+	"errors"
+	"strconv"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/prewhiten"
+)
+
+// The conversion of Identify from the numbers packages ccf and prewhiten
+// return (dead times, orders, fitted coefficients) to model values with
+// named coefficients. Names come from one rule, idfCoefName, and the
+// models print with the package's one printer (Model.String).
+
+// idfCoefName is the one naming rule for the coefficients of the models
+// Identify proposes: part is "w" (numerator, k from 0), "d" (denominator),
+// "phi" (noise AR) or "theta" (noise MA), k the power of B; with several
+// inputs the input name and "_" come first, so that the terms of several
+// inputs can share one model ("valve_w0", "d1", "theta1").
+func idfCoefName(input string, several bool, part string, k int) string {
+	name := part + strconv.Itoa(k)
+	if several && input != "" {
+		return input + "_" + name
+	}
+	return name
+}
+
+// idfInput builds the input term B^b omega(B)/delta(B) of a ccf form:
+// omega with plus signs (w_k = Num[k]) and delta with minus signs
+// (d_k = -Den[k]), the form's fitted numbers as start values.
+func idfInput(series string, several bool, diff Poly, f ccf.Form) Input {
+	nf := Factor{Exp: 1}
+	for k, v := range f.Num {
+		nf.Terms = append(nf.Terms, Term{Coef: Coef{Name: idfCoefName(series, several, "w", k), Value: v, Free: true}, Power: k})
+	}
+	in := Input{Series: series, Diff: diff.Clone(), Num: Poly{Factors: []Factor{nf}}, Delay: f.Delay}
+	if len(f.Den) > 1 {
+		df := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
+		for k := 1; k < len(f.Den); k++ {
+			df.Terms = append(df.Terms, Term{Neg: true, Coef: Coef{Name: idfCoefName(series, several, "d", k), Value: -f.Den[k], Free: true}, Power: k})
+		}
+		in.Den = Poly{Factors: []Factor{df}}
+	}
+	return in
+}
+
+// idfNoise returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a of
+// orders p and q with free coefficients (start values computed by Fit).
+func idfNoise(p, q int) *arma.Noise {
+	mk := func(part string, deg int) Poly {
+		if deg == 0 {
+			return Poly{}
+		}
+		f := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
+		for k := 1; k <= deg; k++ {
+			f.Terms = append(f.Terms, Term{Neg: true, Coef: Coef{Name: idfCoefName("", false, part, k), Free: true}, Power: k})
+		}
+		return Poly{Factors: []Factor{f}}
+	}
+	return &arma.Noise{MA: mk("theta", q), AR: mk("phi", p)}
+}
+
+// idfInner applies the Op rule to an error of packages ccf and prewhiten
+// met inside Identify: the function the caller called is tf.Identify, so
+// the shared shapes and the packages' own evidence types found in err
+// name it. It returns err.
+func idfInner(err error) error {
+	if err == nil {
+		return nil
+	}
+	const op = "tf.Identify"
+	var a *errs.SampleError
+	if errors.As(err, &a) {
+		a.Op = op
+	}
+	var b *errs.SeriesError
+	if errors.As(err, &b) {
+		b.Op = op
+	}
+	var c *errs.SettingError
+	if errors.As(err, &c) {
+		c.Op = op
+	}
+	var d *errs.ModelError
+	if errors.As(err, &d) {
+		d.Op = op
+	}
+	var e *ccf.NoResponseError
+	if errors.As(err, &e) {
+		e.Op = op
+	}
+	var f *prewhiten.NotWhiteError
+	if errors.As(err, &f) {
+		f.Op = op
+	}
+	return err
+}
