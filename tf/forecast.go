@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/poly"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -67,8 +68,8 @@ type ForecastSettings struct {
 // or holding a NaN, infinite or too large value, an unusable
 // InputModel.
 func (s ForecastSettings) validate(m Model, h int) error {
-	if !(s.Level >= 0 && s.Level < 1) {
-		return &ArgError{Arg: "ForecastSettings.Level", Value: s.Level, Rule: "must lie in (0, 1), zero meaning 0.95"}
+	if err := errs.Probability("", "ForecastSettings.Level", s.Level, "0 means 0.95"); err != nil {
+		return err
 	}
 	inputs := map[string]bool{}
 	var names []string
@@ -81,24 +82,24 @@ func (s ForecastSettings) validate(m Model, h int) error {
 			continue // the output's own future (say, held-out data) is not used
 		}
 		if !inputs[name] {
-			return &UnknownInputError{Setting: "ForecastSettings.Future", Name: name, Inputs: names}
+			return unknownInputErr("ForecastSettings.Future", name, names)
 		}
 		fut := s.Future[name]
 		if len(fut) < h {
-			return &FitError{Problem: BadFuture, Series: name, Len: len(fut), Want: h, Detail: "ForecastSettings.Future needs a value for every step of the horizon"}
+			return seriesErr(name, errs.ErrShort, len(fut), h, "its values in ForecastSettings.Future: one is needed for every step of the horizon")
 		}
 		for j, v := range fut[:h] {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &SampleError{Series: "future " + name, Index: j, Value: v}
+				return &errs.SampleError{Series: "future " + name, Index: j, Value: v}
 			}
 			if math.Abs(v) > FitMaxMagnitude {
-				return &ArgError{Arg: fmt.Sprintf("ForecastSettings.Future[%q][%d]", name, j), Value: v, Rule: "magnitude above 1e150: the forecast would overflow; rescale the series"}
+				return &errs.SampleError{Series: "future " + name, Index: j, Value: v, Limit: FitMaxMagnitude}
 			}
 		}
 	}
 	for _, name := range fcSortedKeys(s.InputModels) {
 		if !inputs[name] {
-			return &UnknownInputError{Setting: "ForecastSettings.InputModels", Name: name, Inputs: names}
+			return unknownInputErr("ForecastSettings.InputModels", name, names)
 		}
 		if err := s.InputModels[name].validate(name); err != nil {
 			return err
@@ -213,14 +214,15 @@ type Forecast struct {
 // naming the input and both ranges) and when the estimate is not sound
 // (UnsoundEstimate, see Estimate.Soundness).
 //
-// Errors: *ArgError for h < 1 or h > MaxHorizon, or a bad
-// ForecastSettings.Level; *EstimateError for a nil estimate, a
-// coefficient or Sigma2 that is not finite; *UnknownInputError for a Future
-// or InputModels entry naming a series that is not an input,
-// *FitError (BadFuture) for a Future shorter than h,
-// *SampleError for a non-finite future value, *ArgError for one above
-// FitMaxMagnitude; *InputModelError for an unusable input model
-// (InputModel); the data errors of Fit; *NonFiniteResultError when the
+// Errors (the shared shapes, Op "tf.Estimate.Forecast"): *SettingError
+// for h < 1 or h > MaxHorizon, a bad ForecastSettings.Level or an
+// unusable input model (ForecastSettings.InputModels["x"].AR, see
+// InputModel); *ModelError for a nil estimate, a coefficient or Sigma2
+// that is not finite; *SeriesError of kind ErrName for a Future or
+// InputModels entry naming a series that is not an input, of kind
+// ErrShort for a Future shorter than h; *SampleError for a future value
+// that is not finite or above FitMaxMagnitude (Series "future x"); the
+// data errors of Fit; *SeriesError of kind ErrOverflow when the
 // residuals or the forecast overflow float64 (never NaN or infinite
 // numbers with a nil error); *StageError wrapping the error of the
 // automatic input autoregression.
@@ -228,22 +230,24 @@ type Forecast struct {
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis, 5th ed., Wiley: the chapter on
 // forecasting with transfer-function models.
-func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSettings) (*Forecast, error) {
+func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSettings) (_ *Forecast, err error) {
+	defer setOp("tf.Estimate.Forecast", &err)
+	defer errs.Recover("tf.Estimate.Forecast", &err)
 	var set ForecastSettings
 	if s != nil {
 		set = *s
 	}
 	if h < 1 {
-		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at least 1"}
+		return nil, settingErr("h", strconv.Itoa(h), "the horizon must be at least 1")
 	}
 	if h > MaxHorizon {
-		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at most tf.MaxHorizon (" + strconv.Itoa(MaxHorizon) + " steps)"}
+		return nil, settingErr("h", strconv.Itoa(h), "the horizon must be at most tf.MaxHorizon ("+strconv.Itoa(MaxHorizon)+" steps)")
 	}
 	if err := chkEstimateUsable("Forecast", e); err != nil {
 		return nil, err
 	}
 	if math.IsNaN(e.Sigma2) || math.IsInf(e.Sigma2, 0) || e.Sigma2 < 0 {
-		return nil, &EstimateError{Func: "Forecast", Field: "Sigma2", Value: e.Sigma2, Problem: "the noise variance must be zero or positive and finite"}
+		return nil, estimateErr("Sigma2", e.Sigma2, "the noise variance must be zero or positive and finite")
 	}
 	if err := set.validate(e.Model, h); err != nil {
 		return nil, err
@@ -260,7 +264,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	w.resid()
 	for t := w.cond.First; t < w.n; t++ {
 		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, &NonFiniteResultError{Func: "Forecast", Series: "residuals", Index: t, Value: v, Hint: chkDivergeHint(e)}
+			return nil, overflowErr("residuals", t, v, chkDivergeHint(e))
 		}
 	}
 	n := w.n
@@ -271,7 +275,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	psiDen := poly.Mul(w.arC, dc)
 	psi, err := poly.Divide(w.maC, psiDen, h)
 	if err != nil {
-		return nil, &StageError{Func: "Forecast", Stage: "psi weights of the noise model", Err: err}
+		return nil, &StageError{Stage: "psi weights of the noise model", Err: err}
 	}
 	vr := make([]float64, h)
 	acc := 0.0
@@ -309,7 +313,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			if !ok {
 				yw, err := arma.YuleWalker(fi.z[fi.d:], 0)
 				if err != nil {
-					return nil, &StageError{Func: "Forecast", Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", in.Series), Err: err}
+					return nil, &StageError{Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", in.Series), Err: err}
 				}
 				im = InputModel{AR: yw.Poly(), MA: []float64{1}, Mean: yw.Mean, Sigma2: yw.Var}
 			}
@@ -331,8 +335,8 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 				}
 				xe[t] = v / dx[0]
 				if math.IsNaN(xe[t]) || math.IsInf(xe[t], 0) {
-					return nil, &NonFiniteResultError{Func: "Forecast", Series: "forecast of input " + strconv.Quote(in.Series), Index: t, Value: xe[t],
-						Hint: "the input's forecast overflowed float64; give its future in ForecastSettings.Future or a stationary model in ForecastSettings.InputModels, or shorten the horizon"}
+					return nil, overflowErr("forecast of input "+strconv.Quote(in.Series), t, xe[t],
+						"the input's forecast overflowed float64; give its future in ForecastSettings.Future or a stationary model in ForecastSettings.InputModels, or shorten the horizon")
 				}
 			}
 			// Input forecast errors through omega B^b MA/(delta AR D).
@@ -340,7 +344,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			den := poly.Mul(poly.Mul(fi.denC, im.AR), dc)
 			ps, err := poly.Divide(num, den, h)
 			if err != nil {
-				return nil, &StageError{Func: "Forecast", Stage: fmt.Sprintf("psi weights of input %q", in.Series), Err: err}
+				return nil, &StageError{Stage: fmt.Sprintf("psi weights of input %q", in.Series), Err: err}
 			}
 			acc := 0.0
 			for j := 0; j < h; j++ {
@@ -403,8 +407,8 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			v    float64
 		}{{"forecast mean", fc.Mean[j]}, {"forecast standard error", fc.SE[j]}, {"lower forecast limit", fc.Lower[j]}, {"upper forecast limit", fc.Upper[j]}} {
 			if math.IsNaN(r.v) || math.IsInf(r.v, 0) {
-				return nil, &NonFiniteResultError{Func: "Forecast", Series: r.name, Index: n + j, Value: r.v,
-					Hint: fmt.Sprintf("the forecast overflowed float64 at step %d; %s", j+1, chkDivergeHint(e))}
+				return nil, overflowErr(r.name, n+j, r.v,
+					fmt.Sprintf("the forecast overflowed float64 at step %d; %s", j+1, chkDivergeHint(e)))
 			}
 		}
 	}
