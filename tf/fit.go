@@ -166,6 +166,37 @@ type Estimate struct {
 	Warnings []Warning
 }
 
+// Held returns a copy of the fitted model with every coefficient held at
+// its estimate, so that it prints with "=" (name = value) where
+// Estimate.Model, whose estimated coefficients stay free so that it can
+// be refitted from them, prints "~" (free, start value). It is the form
+// a configuration file wants: a model to simulate, forecast or tune a
+// controller with, not one to refit. Printing it and parsing the text
+// gives the same model.
+func (e *Estimate) Held() Model { return heldModel(e.Model) }
+
+// heldModel returns a deep copy of m with every coefficient held (Free
+// false). A Model method doing the same may come with the model
+// helpers; Held would then call it.
+func heldModel(m Model) Model {
+	c := m.Clone()
+	hold := func(k *Coef) { k.Free = false }
+	if c.Const != nil {
+		hold(c.Const)
+	}
+	c.Diff.Each(hold)
+	for i := range c.Inputs {
+		c.Inputs[i].Diff.Each(hold)
+		c.Inputs[i].Num.Each(hold)
+		c.Inputs[i].Den.Each(hold)
+	}
+	if c.Noise != nil {
+		c.Noise.MA.Each(hold)
+		c.Noise.AR.Each(hold)
+	}
+	return c
+}
+
 // Corr returns the correlations of the estimates, in the order of
 // Params, computed from Cov (NaN entries where a variance is not
 // positive and finite, as when J'J is singular).
@@ -275,32 +306,33 @@ func (e *Estimate) Corr() [][]float64 { return est.Corr(e.Cov) }
 //
 // # Errors
 //
-// *FitError for missing, extra or unequal series, too few observations
-// (N must exceed the number of free parameters), a model with nothing
-// free, free differencing coefficients, a zero constant term in a
-// denominator; *SampleError for a NaN or infinite sample (series and
-// index); *ArgError from FitSettings.Validate (a negative or NaN
-// setting, Tol of 1 or more), for FitSettings.First at or beyond the
-// data's length, or for a sample above FitMaxMagnitude (series[index]);
-// *ModelError for a model that Model.Validate refuses (a factor power
-// below 1, a negative dead time, ...); *FitError ConstantSeries for a
-// constant output, or an input with free coefficients that never moves
-// (constant as given, or after its differencing), naming the series;
-// *FitError NoStartPoint when no start point gives finite residuals;
-// *FitError NoSettledStart for an undifferenced input whose fixed
-// denominator has a pole at z = 1 and whose first sample is not zero
-// (no steady state to hold it at); *FitError ZeroResiduals when the
-// residual sum of squares at the
-// estimate is 0 (an exact fit, or samples so small that their squares
-// underflow), where sigma^2, LogLik, AIC and BIC would not exist.
+// The shared shapes, with Op "tf.Fit", each matching one kind with
+// errors.Is: a *SeriesError naming the series for one missing from the
+// data or not used by the model (ErrName), of unequal length
+// (ErrLength), too short (ErrShort: N must exceed the number of free
+// parameters; Have and Need count residuals), constant, or an input with
+// free coefficients that never moves (ErrConstant), or when no start
+// point gives finite residuals (ErrOverflow); a *SampleError for a NaN
+// or infinite sample, or one above FitMaxMagnitude (series and index);
+// a *SettingError from FitSettings.Validate (a negative or NaN setting,
+// Tol of 1 or more) or for FitSettings.First at or beyond the data's
+// length; a *ModelError for a model that Model.Validate refuses (a
+// factor power below 1, a negative dead time, ...), a model with no
+// output or nothing free, free differencing coefficients, a name free
+// in one place and held in another, a zero constant term in a
+// denominator, an undifferenced input whose fixed denominator has a
+// pole at z = 1 and whose first sample is not zero (no steady state to
+// hold it at), or a residual sum of squares of 0 at the estimate (an
+// exact fit, or samples so small that their squares underflow), where
+// sigma^2, LogLik, AIC and BIC would not exist; an *InternalError for a
+// fault of the library (a recovered panic).
 // When ctx is done before the fit converges, Fit returns the best point
 // so far (a non-nil Estimate with Converged false and Reason saying so)
-// together with a *FitError Interrupted that wraps the context's error,
-// so that errors.Is(err, context.Canceled) (or
-// context.DeadlineExceeded) holds; a caller that checks only err does
-// not use an unfinished fit by mistake. A fit that stops for another
-// reason without converging returns its best point with a nil error and
-// a NotConverged warning.
+// together with an *InterruptedError that wraps the context's error, so
+// that errors.Is(err, context.Canceled) (or context.DeadlineExceeded)
+// holds; a caller that checks only err does not use an unfinished fit
+// by mistake. A fit that stops for another reason without converging
+// returns its best point with a nil error and a NotConverged warning.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis: Forecasting and Control, 5th ed.,
@@ -365,7 +397,7 @@ func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set 
 // fitFinish refuses an estimate whose sum of squares is zero (sigma^2,
 // the log-likelihood and the criteria would not exist), and returns the
 // best point of a fit whose context was done before it converged
-// together with an Interrupted *FitError wrapping the context's error.
+// together with an *InterruptedError wrapping the context's error.
 func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
 	out := e.Model.Output
 	if !(e.SSQ > 0) || math.IsInf(e.LogLik, 0) || math.IsNaN(e.LogLik) {

@@ -62,6 +62,25 @@ type ForecastSettings struct {
 	InputModels map[string]InputModel
 }
 
+// Validate checks the settings by the library's settings rule and
+// returns a *SettingError naming the field (ForecastSettings.Level, or
+// ForecastSettings.InputModels["x"].AR for an unusable input model, see
+// InputModel), or nil. What needs the model and the horizon (Future
+// entries and their lengths, names that are not inputs) is checked by
+// Forecast.
+func (s ForecastSettings) Validate() (err error) {
+	defer setOp("tf.ForecastSettings.Validate", &err)
+	if err := errs.Probability("", "ForecastSettings.Level", s.Level, "0 means 0.95"); err != nil {
+		return err
+	}
+	for _, name := range fcSortedKeys(s.InputModels) {
+		if err := s.InputModels[name].validate(name); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
 // validate reports a bad setting: the Level, a Future entry for a
 // series that is neither an input nor the output of m, an InputModels
 // entry for a series that is not an input, a Future shorter than h

@@ -28,7 +28,7 @@ type IdentifySettings struct {
 	// InputDiff gives the differencing of each input by name; an input
 	// without an entry is differenced like the output (the usual
 	// practice, so that both sides of the model are stationary). A name
-	// that is not an input is an *UnknownInputError. Every differencing
+	// that is not an input is a *SeriesError of kind ErrName. Every differencing
 	// operator (OutputDiff too) must have finite coefficients, constant
 	// term 1 and a degree below half the record.
 	InputDiff map[string][]float64
@@ -47,7 +47,7 @@ type IdentifySettings struct {
 	//
 	// The rule for every number of IdentifySettings: zero means the
 	// default; a negative count (MaxLag, Forms, NoiseOrders,
-	// MaxCandidates, Workers) is an *ArgError naming the field, while a
+	// MaxCandidates, Workers) is a *SettingError naming the field, while a
 	// negative order bound (MaxR, MaxS, MaxP, MaxQ) means order zero
 	// only, as in packages ccf and prewhiten.
 	MaxP, MaxQ int
@@ -181,12 +181,15 @@ func (c FittedCandidate) String() string {
 // Coefficients are named w0.., d1.. (with the input name and "_" before
 // them when there are several inputs), phi1.., theta1.. and c.
 //
-// Errors: the data errors of Fit; *ArgError for a sample above 1e140
-// in magnitude or a series that varies by less than 1e-140 (rescale
-// it); *InputListError for an input listed
-// twice, empty or equal to the output; *ArgError or
-// *UnknownInputError for a bad setting (see IdentifySettings);
-// *ConstantSeriesError naming the series when the output or an input is
+// Errors (the shared shapes, Op "tf.Identify"): the data errors of Fit;
+// a *SampleError for a sample above 1e140 in magnitude and a
+// *SeriesError of kind ErrConstant for a series that varies by less
+// than 1e-140 (rescale it); a *SeriesError of kind ErrName for an input
+// listed twice, empty or equal to the output, or a name a spec cannot
+// hold; a *SettingError (or a *SeriesError of kind ErrName for an
+// InputDiff entry that is not an input) for a bad setting (see
+// IdentifySettings); a *SeriesError of kind ErrConstant naming the
+// series when the output or an input is
 // constant (after its differencing); *StageError wrapping the errors of
 // packages prewhiten and ccf, with the step and series in the caller's
 // words, when an input shows no response (*ccf.NoResponseError) or a
@@ -212,7 +215,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if err := idfValidate(output, inputs, data); err != nil {
 		return nil, err
 	}
-	if err := set.validate(inputs, len(data[output])); err != nil {
+	if err := set.validate(append([]string{}, inputs...), len(data[output])); err != nil {
 		return nil, err
 	}
 	idfDefault := func(v *int, d int) {

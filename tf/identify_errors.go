@@ -26,6 +26,17 @@ func scoreErr(label, criterion string, v float64) error {
 	return modelErr("candidate "+label, "its "+criterion+" is "+fmtF(v)+", not a finite number (a zero or overflowing sum of squares); it is not ranked")
 }
 
+// Validate checks the settings by the library's settings rule and the
+// rules of IdentifySettings' fields (see its doc), and returns a
+// *SettingError naming the field ("IdentifySettings.MaxLag",
+// "IdentifySettings.Fit.MaxIter"), or nil. What needs the data (an
+// InputDiff entry that is not an input, a differencing degree against
+// the record's length) is checked by Identify.
+func (s IdentifySettings) Validate() (err error) {
+	defer setOp("tf.IdentifySettings.Validate", &err)
+	return s.validate(nil, -1)
+}
+
 // validate reports a bad setting of Identify as a *SettingError naming
 // the field (or a *SeriesError of kind ErrName for an InputDiff entry
 // that is not an input). The rule: zero means the default for every number; a negative
@@ -64,7 +75,7 @@ func (s *IdentifySettings) validate(inputs []string, n int) error {
 		if len(c) > 0 && c[0] != 1 {
 			return settingErr(arg+"[0]", fmtF(c[0]), "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B")
 		}
-		if len(c) > 1 && 2*(len(c)-1) >= n {
+		if n >= 0 && len(c) > 1 && 2*(len(c)-1) >= n {
 			return settingErr(arg, "degree "+strconv.Itoa(len(c)-1), "the degree of the differencing must be below half the record ("+strconv.Itoa(n)+" samples)")
 		}
 		return nil
@@ -77,10 +88,20 @@ func (s *IdentifySettings) validate(inputs []string, n int) error {
 		known[in] = true
 	}
 	for _, name := range fcSortedKeys(s.InputDiff) {
-		if !known[name] {
+		if inputs != nil && !known[name] {
 			return unknownInputErr("IdentifySettings.InputDiff", name, inputs)
 		}
 		if err := diff("IdentifySettings.InputDiff["+strconv.Quote(name)+"]", s.InputDiff[name]); err != nil {
+			return err
+		}
+	}
+	if s.Fit != nil {
+		if err := s.Fit.validate(); err != nil {
+			if se, ok := err.(*errs.SettingError); ok {
+				c := *se
+				c.Setting = "IdentifySettings.Fit." + se.Setting[len("FitSettings."):]
+				return &c
+			}
 			return err
 		}
 	}
