@@ -28,15 +28,17 @@ const MaxHorizon = 1 << 20
 // InputModel is an ARMA model of an input's differenced series z_t =
 // D_i(B) x_t, used to forecast the input when its future is not known:
 //
-//	AR(B) (z_t - Mean) = MA(B) e_t,  var(e_t) = Sigma2,
+//	AR(B) (z_t - c) = MA(B) e_t,  var(e_t) = Sigma2,
 //
 // AR and MA stored as ascending coefficients with constant term 1 (nil
-// for 1), signs as stored. From an arma.Model m fitted to z_t itself
-// (no further differencing, m.D = m.SD = 0), use InputModel{AR:
-// m.ARPoly(), MA: m.MAPoly(), Mean: m.Mean, Sigma2: m.Sigma2}.
+// for 1), signs as stored; C is the constant c, the level of z_t (the
+// library's one name for a model's constant, as in a spec's "c"). From
+// an arma.Model m fitted to z_t itself (no further differencing, m.D =
+// m.SD = 0), use InputModel{AR: m.ARPoly(), MA: m.MAPoly(), C: its
+// constant, Sigma2: m.Sigma2}.
 type InputModel struct {
 	AR, MA []float64
-	Mean   float64
+	C      float64
 	Sigma2 float64
 }
 
@@ -334,7 +336,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 				if err != nil {
 					return nil, &StageError{Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", in.Series), Err: err}
 				}
-				im = InputModel{AR: yw.Poly(), MA: []float64{1}, Mean: yw.Mean, Sigma2: yw.Var}
+				im = InputModel{AR: yw.Poly(), MA: []float64{1}, C: yw.Mean, Sigma2: yw.Var}
 			}
 			if len(im.AR) == 0 {
 				im.AR = []float64{1}
@@ -457,7 +459,7 @@ func fcARMA(z []float64, d int, im InputModel, h int) []float64 {
 	n := len(z)
 	zc := make([]float64, n+h)
 	for t := d; t < n; t++ {
-		zc[t] = z[t] - im.Mean
+		zc[t] = z[t] - im.C
 	}
 	e := make([]float64, n+h)
 	filter.Run(e[d:n], im.AR, im.MA, zc[d:n])
@@ -471,7 +473,7 @@ func fcARMA(z []float64, d int, im InputModel, h int) []float64 {
 			v += im.MA[k] * e[t-k]
 		}
 		zc[t] = v / im.AR[0]
-		out[t-n] = zc[t] + im.Mean
+		out[t-n] = zc[t] + im.C
 	}
 	return out
 }

@@ -23,7 +23,7 @@ const fcRootTol = 1e-6
 const fcMaxModelDegree = 1000
 
 // validate reports what makes im unusable for forecasting input name.
-// The rules: Sigma2 finite and not negative; Mean finite; AR and MA
+// The rules: Sigma2 finite and not negative; C finite; AR and MA
 // coefficients finite with a non-zero constant term, degree at most
 // 1000; the MA invertible
 // (every zero |z| < 1, otherwise the innovations recursion, started
@@ -37,8 +37,8 @@ func (im InputModel) validate(name string) error {
 	if math.IsNaN(im.Sigma2) || math.IsInf(im.Sigma2, 0) || im.Sigma2 < 0 {
 		return bad("Sigma2", im.Sigma2, "the innovation variance must be zero or positive and finite")
 	}
-	if math.IsNaN(im.Mean) || math.IsInf(im.Mean, 0) {
-		return bad("Mean", im.Mean, "the mean must be a finite number")
+	if math.IsNaN(im.C) || math.IsInf(im.C, 0) {
+		return bad("C", im.C, "the constant c must be a finite number")
 	}
 	for _, p := range []struct {
 		field string

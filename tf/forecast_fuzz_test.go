@@ -44,7 +44,7 @@ func FuzzForecast(f *testing.F) {
 			}
 			set.Future = map[string][]float64{"x": fut}
 		} else {
-			set.InputModels = map[string]InputModel{"x": {AR: []float64{1, -ar1}, MA: []float64{1, -ma1}, Mean: mean, Sigma2: sig2}}
+			set.InputModels = map[string]InputModel{"x": {AR: []float64{1, -ar1}, MA: []float64{1, -ma1}, C: mean, Sigma2: sig2}}
 		}
 		fc, err := e.Forecast(data, hh, set)
 		if err != nil {

@@ -159,7 +159,7 @@ func TestForecastARMAInput(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	im := InputModel{AR: ar.Model.ARPoly(), MA: ar.Model.MAPoly(), Mean: ar.Model.Mean, Sigma2: ar.Model.Sigma2}
+	im := InputModel{AR: ar.Model.ARPoly(), MA: ar.Model.MAPoly(), C: ar.Model.Mean, Sigma2: ar.Model.Sigma2}
 	fc, err := est.Forecast(data, h, &ForecastSettings{InputModels: map[string]InputModel{"x": im}})
 	if err != nil {
 		t.Fatal(err)

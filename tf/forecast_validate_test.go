@@ -58,7 +58,7 @@ func TestForecastIntegratingInput(t *testing.T) {
 // accepted.
 func TestForecastInputModelErrors(t *testing.T) {
 	est, data := fitMCEstimate(t)
-	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, Mean: 0, Sigma2: 1}
+	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, C: 0, Sigma2: 1}
 	with := func(f func(*InputModel)) map[string]InputModel {
 		m := ok
 		m.AR = append([]float64(nil), ok.AR...)
@@ -75,8 +75,8 @@ func TestForecastInputModelErrors(t *testing.T) {
 		{"negative variance", with(func(m *InputModel) { m.Sigma2 = -1 }), "Sigma2", "must be zero or positive and finite"},
 		{"NaN variance", with(func(m *InputModel) { m.Sigma2 = math.NaN() }), "Sigma2", "must be zero or positive and finite"},
 		{"infinite variance", with(func(m *InputModel) { m.Sigma2 = math.Inf(1) }), "Sigma2", "must be zero or positive and finite"},
-		{"infinite mean", with(func(m *InputModel) { m.Mean = math.Inf(-1) }), "Mean", "must be a finite number"},
-		{"NaN mean", with(func(m *InputModel) { m.Mean = math.NaN() }), "Mean", "must be a finite number"},
+		{"infinite constant", with(func(m *InputModel) { m.C = math.Inf(-1) }), "C", "the constant c must be a finite number"},
+		{"NaN constant", with(func(m *InputModel) { m.C = math.NaN() }), "C", "the constant c must be a finite number"},
 		{"NaN AR", with(func(m *InputModel) { m.AR[1] = math.NaN() }), "AR[1]", "must be a finite number"},
 		{"huge MA", with(func(m *InputModel) { m.MA = []float64{1, 1e209} }), "MA[1]", "must be a finite number"},
 		{"zero AR constant", with(func(m *InputModel) { m.AR[0] = 0 }), "AR[0]", "constant term must not be zero"},
