@@ -296,7 +296,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	psiDen := poly.Mul(w.arC, dc)
 	psi, err := poly.Divide(w.maC, psiDen, h)
 	if err != nil {
-		return nil, &StageError{Stage: "psi weights of the noise model", Err: err}
+		return nil, &errs.ModelError{Part: "noise of the estimate", Problem: "its psi weights do not exist (" + err.Error() + "): the noise AR polynomial times the differencing must have a non-zero constant term", Err: err}
 	}
 	vr := make([]float64, h)
 	acc := 0.0
@@ -365,7 +365,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			den := poly.Mul(poly.Mul(fi.denC, im.AR), dc)
 			ps, err := poly.Divide(num, den, h)
 			if err != nil {
-				return nil, &StageError{Stage: fmt.Sprintf("psi weights of input %q", in.Series), Err: err}
+				return nil, &errs.ModelError{Part: "input " + strconv.Quote(in.Series), Problem: "the psi weights of its forecast errors do not exist (" + err.Error() + "): its denominator, its input model's AR and the differencing must have non-zero constant terms", Err: err}
 			}
 			acc := 0.0
 			for j := 0; j < h; j++ {
