@@ -129,7 +129,8 @@ type Param = est.Param
 type Estimate struct {
 	// Model is the model with every free coefficient set to its estimate
 	// (still marked free, so that it prints as a spec with the estimates
-	// and can be refitted from them).
+	// as start values, "~", and can be refitted from them); Held gives
+	// it with the estimates held ("="), for a configuration file.
 	Model Model
 	// Params lists the free parameters in order of first appearance
 	// (constant, inputs' numerators and denominators, noise MA, noise AR).
