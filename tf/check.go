@@ -8,6 +8,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/prewhiten"
@@ -20,8 +21,9 @@ type CheckSettings struct {
 	// test. Zero means min(24, N/4), raised to the number of noise
 	// parameters + 1 when that is larger (and at most N - 1). A K of
 	// N or more, or not above the number of free noise parameters, is an
-	// *ArgError. Every field: zero means the default, negative (or NaN)
-	// is an *ArgError naming the field.
+	// *SettingError. Every field follows the settings rule of the package
+	// doc: zero means the default, a negative value is a *SettingError
+	// naming the field.
 	Lags int
 	// CrossLags is K for the residual-input cross-correlations at lags
 	// 0..K. Zero means Lags. K is cut to M - 2, M the number of samples
@@ -137,19 +139,22 @@ const (
 // with a verdict per check and overall. The overall verdict (Pass) also
 // requires a sound estimate (see Soundness). data is not modified.
 //
-// Errors: *EstimateError for a nil estimate or a coefficient that is not
-// finite; *ArgError for a bad setting (CheckSettings.Lags, CrossLags,
-// Alpha); the *FitError and *SampleError of Fit for missing, unequal or
-// non-finite series; *NonFiniteResultError when the residuals overflow
-// (the model diverges on data); *ConstantSeriesError for an input that is
-// constant after its differencing; *StageError wrapping the error of the
-// prewhitening or correlation step otherwise.
+// Errors (the shared shapes, Op "tf.Check"): *ModelError for a nil
+// estimate or a coefficient that is not finite; *SettingError for a bad
+// setting (CheckSettings.Lags, CrossLags, Alpha); the *SeriesError and
+// *SampleError of Fit for missing, unequal or non-finite series; a
+// *SeriesError of kind ErrOverflow when the residuals overflow (the
+// model diverges on data) and of kind ErrConstant for an input that is
+// constant after its differencing; *StageError wrapping the error of
+// the prewhitening or correlation step otherwise.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis, 5th ed., Wiley: the chapter on
 // diagnostic checking of transfer-function models. Ljung, G. M. and
 // Box, G. E. P. (1978). Biometrika 65(2), 297-303.
-func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnostics, error) {
+func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnostics, err error) {
+	defer setOp("tf.Check", &err)
+	defer errs.Recover("tf.Check", &err)
 	var set CheckSettings
 	if s != nil {
 		set = *s
@@ -178,25 +183,25 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 		lags = max(min(24, nres/4), noisePar+1)
 		lags = min(lags, nres-1)
 	} else if lags >= nres {
-		return nil, &ArgError{Arg: "CheckSettings.Lags", Value: float64(set.Lags),
-			Rule: "must be below the number of residuals (" + strconv.Itoa(nres) + "); zero chooses min(24, N/4)"}
+		return nil, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+			"must be below the number of residuals ("+strconv.Itoa(nres)+"); 0 means min(24, N/4)")
 	}
 	if lags < noisePar+1 {
 		if set.Lags > 0 {
-			return nil, &ArgError{Arg: "CheckSettings.Lags", Value: float64(set.Lags),
-				Rule: "must exceed the number of free noise coefficients (" + strconv.Itoa(noisePar) + ") so that the Ljung-Box test has a degree of freedom"}
+			return nil, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+				"must exceed the number of free noise coefficients ("+strconv.Itoa(noisePar)+") so that the Ljung-Box test has a degree of freedom")
 		}
-		return nil, &FitError{Problem: TooFewObservations, Series: e.Model.Output, Len: nres, Want: noisePar + 2,
-			Detail: "the Ljung-Box check needs more residuals than free noise coefficients + 1"}
+		return nil, seriesErr(e.Model.Output, errs.ErrShort, nres, noisePar+2,
+			"counting residuals: the Ljung-Box check needs more residuals than free noise coefficients + 1")
 	}
 	d := &Diagnostics{Alpha: set.Alpha, Pass: true}
 	acf, err := arma.ACF(a, lags)
 	if err != nil {
-		return nil, &StageError{Func: "Check", Stage: "residual autocorrelations", Err: err}
+		return nil, &StageError{Stage: "residual autocorrelations", Err: err}
 	}
 	lb, err := arma.LjungBox(a, lags, noisePar)
 	if err != nil {
-		return nil, &StageError{Func: "Check", Stage: "Ljung-Box test of the residuals", Err: err}
+		return nil, &StageError{Stage: "Ljung-Box test of the residuals", Err: err}
 	}
 	d.Residual = ResidualCheck{ACF: append([]float64(nil), acf.R[1:]...), Band: 1.96 / math.Sqrt(float64(nres)),
 		Q: lb.Q, Lags: lags, DF: lb.DF, P: lb.P, Pass: lb.P >= set.Alpha}
@@ -207,23 +212,23 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 	for _, in := range e.Model.Inputs {
 		x := data[in.Series]
 		if v, ok := chkConstant(x, in.Diff.Coeffs()); ok {
-			return nil, &ConstantSeriesError{Func: "Check", Series: in.Series, Role: "input", Value: v, Diff: chkDiffText(in.Diff.Coeffs())}
+			return nil, constantErr(in.Series, "input", v, chkDiffText(in.Diff.Coeffs()))
 		}
 		stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
 		f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
 		if err != nil {
-			return nil, &StageError{Func: "Check", Stage: stage, Err: err}
+			return nil, &StageError{Stage: stage, Err: err}
 		}
 		alpha, start, err := f.Apply(x, in.Series)
 		if err != nil {
-			return nil, &StageError{Func: "Check", Stage: stage, Err: err}
+			return nil, &StageError{Stage: stage, Err: err}
 		}
 		t0 := max(start, first)
 		m := len(x) - t0
 		k := min(kx, m-2)
 		c, err := ccf.Cross(alpha[t0:], resid[t0:], k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
 		if err != nil {
-			return nil, &StageError{Func: "Check", Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
+			return nil, &StageError{Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
 		}
 		cc := CrossCheck{Input: in.Series, Prewhiten: f, M: c.N, Lags: k, Band: 1.96 / math.Sqrt(float64(c.N))}
 		cc.CCF = make([]float64, k+1)
@@ -250,18 +255,26 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (*Diagnosti
 	return d, nil
 }
 
-// validate reports a bad setting as an *ArgError naming the field. The
-// rule of every CheckSettings field: zero means the default, a negative
-// or NaN value is an error.
+// Validate checks the settings by the library's settings rule (zero
+// means the default; a negative count, and an Alpha outside (0, 1), is
+// an error) and returns a *SettingError naming the field
+// ("CheckSettings.Alpha"), or nil. Lags is also checked against the
+// residuals by Check.
+func (s CheckSettings) Validate() (err error) {
+	defer setOp("tf.CheckSettings.Validate", &err)
+	return s.validate()
+}
+
+// validate is Validate without the Op.
 func (s CheckSettings) validate() error {
-	if s.Lags < 0 {
-		return &ArgError{Arg: "CheckSettings.Lags", Value: float64(s.Lags), Rule: "must be zero (the default, min(24, N/4)) or positive"}
-	}
-	if s.CrossLags < 0 {
-		return &ArgError{Arg: "CheckSettings.CrossLags", Value: float64(s.CrossLags), Rule: "must be zero (the default, Lags) or positive"}
-	}
-	if !(s.Alpha >= 0 && s.Alpha < 1) {
-		return &ArgError{Arg: "CheckSettings.Alpha", Value: s.Alpha, Rule: "must lie in (0, 1), zero meaning 0.05"}
+	for _, err := range []error{
+		errs.Count("", "CheckSettings.Lags", s.Lags, "0 means min(24, N/4)"),
+		errs.Count("", "CheckSettings.CrossLags", s.CrossLags, "0 means Lags"),
+		errs.Probability("", "CheckSettings.Alpha", s.Alpha, "0 means 0.05"),
+	} {
+		if err != nil {
+			return err
+		}
 	}
 	return nil
 }
@@ -387,7 +400,7 @@ func chkRootFailures(m Model) []string {
 // that is not finite.
 func chkEstimateUsable(fn string, e *Estimate) error {
 	if e == nil {
-		return &EstimateError{Func: fn, Field: "estimate", Problem: "the estimate is nil; pass the *Estimate that Fit returned"}
+		return estimateErr("", 0, "the estimate is nil; pass the *Estimate that Fit returned")
 	}
 	var err error
 	visit := func(c *Coef) {
@@ -396,7 +409,7 @@ func chkEstimateUsable(fn string, e *Estimate) error {
 			if name == "" {
 				name = "fixed number"
 			}
-			err = &EstimateError{Func: fn, Field: "coefficient " + name, Value: c.Value, Problem: "not a finite number; refit the model"}
+			err = estimateErr("coefficient "+name, c.Value, "not a finite number; refit the model")
 		}
 	}
 	if e.Model.Const != nil {
@@ -469,7 +482,7 @@ func chkFreeNames(ps ...Poly) []string {
 // chkResiduals returns the residuals of e's model on data (aligned to
 // the data index, zero before first) and the first residual index,
 // with e's conditioning; residuals that are not finite are a
-// *NonFiniteResultError.
+// *SeriesError of kind ErrOverflow.
 func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64, int, error) {
 	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
@@ -480,7 +493,7 @@ func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64,
 	w.resid()
 	for t := w.cond.First; t < w.n; t++ {
 		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, 0, &NonFiniteResultError{Func: fn, Series: "residuals", Index: t, Value: v, Hint: chkDivergeHint(e)}
+			return nil, 0, overflowErr("residuals", t, v, chkDivergeHint(e))
 		}
 	}
 	return w.a, w.cond.First, nil

@@ -3,6 +3,7 @@ package tf
 import (
 	"context"
 	"errors"
+	"github.com/backshift/backshift/internal/errs"
 	"math"
 	"strings"
 	"testing"
@@ -205,17 +206,17 @@ func TestCheckFixedIntegrator(t *testing.T) {
 
 // checkIntegratorRefused reports whether err refuses a held-input
 // integrator by a typed error that names the input and the remedy:
-// Check's and Forecast's *NonFiniteResultError on the residuals, or the
-// data check shared with Fit (a *FitError) where Fit refuses the case
-// itself.
+// Check's and Forecast's *SeriesError of kind ErrOverflow on the
+// residuals, or the data check shared with Fit (a *ModelError naming the
+// input) where Fit refuses the case itself.
 func checkIntegratorRefused(err error) bool {
-	var ne *NonFiniteResultError
-	var fe *FitError
+	var se *SeriesError
+	var me *errs.ModelError
 	switch {
-	case errors.As(err, &ne):
-		return ne.Series == "residuals" && strings.Contains(err.Error(), `input "x" has an integrating term`) && strings.Contains(err.Error(), "FitSettings.ZeroPreSample")
-	case errors.As(err, &fe):
-		return fe.Series == "x" && strings.Contains(err.Error(), "FitSettings.ZeroPreSample")
+	case errors.As(err, &se):
+		return se.Series == "residuals" && errors.Is(err, ErrOverflow) && strings.Contains(err.Error(), `input "x" has an integrating term`) && strings.Contains(err.Error(), "FitSettings.ZeroPreSample")
+	case errors.As(err, &me):
+		return me.Part == `input "x"` && strings.Contains(err.Error(), "FitSettings.ZeroPreSample")
 	}
 	return false
 }
@@ -307,8 +308,8 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 }
 
 // TestCheckSettingsTable gives every field of CheckSettings a bad value
-// and checks the *ArgError names the field; a nil estimate and one with
-// a coefficient that is not a number are *EstimateError; a constant
+// and checks the *SettingError names the field; a nil estimate and one
+// with a coefficient that is not a number are *ModelError; a constant
 // input is a typed error naming the user's series; the reports of a nil
 // estimate, nil checks and a candidate without estimate do not panic.
 func TestCheckSettingsTable(t *testing.T) {
@@ -318,29 +319,29 @@ func TestCheckSettingsTable(t *testing.T) {
 		arg  string
 		rule string
 	}{
-		{CheckSettings{Lags: -1}, "CheckSettings.Lags", "must be zero (the default, min(24, N/4)) or positive"},
+		{CheckSettings{Lags: -1}, "CheckSettings.Lags", "tf.Check: CheckSettings.Lags = -1: must be zero or positive (0 means min(24, N/4))"},
 		{CheckSettings{Lags: 5000}, "CheckSettings.Lags", "must be below the number of residuals (295)"},
 		{CheckSettings{Lags: 1}, "CheckSettings.Lags", "must exceed the number of free noise coefficients (1)"},
-		{CheckSettings{CrossLags: -2}, "CheckSettings.CrossLags", "must be zero (the default, Lags) or positive"},
-		{CheckSettings{Alpha: -0.1}, "CheckSettings.Alpha", "must lie in (0, 1), zero meaning 0.05"},
-		{CheckSettings{Alpha: math.NaN()}, "CheckSettings.Alpha", "must lie in (0, 1)"},
-		{CheckSettings{Alpha: 1}, "CheckSettings.Alpha", "must lie in (0, 1)"},
+		{CheckSettings{CrossLags: -2}, "CheckSettings.CrossLags", "tf.Check: CheckSettings.CrossLags = -2: must be zero or positive (0 means Lags)"},
+		{CheckSettings{Alpha: -0.1}, "CheckSettings.Alpha", "tf.Check: CheckSettings.Alpha = -0.1: must lie strictly between 0 and 1 (0 means 0.05)"},
+		{CheckSettings{Alpha: math.NaN()}, "CheckSettings.Alpha", "must lie strictly between 0 and 1"},
+		{CheckSettings{Alpha: 1}, "CheckSettings.Alpha", "must lie strictly between 0 and 1"},
 	} {
 		s := tc.s
 		_, err := Check(est, data, &s)
-		var ae *ArgError
-		if !errors.As(err, &ae) || ae.Arg != tc.arg || !strings.Contains(err.Error(), tc.rule) {
+		var ae *SettingError
+		if !errors.As(err, &ae) || ae.Setting != tc.arg || ae.Op != "tf.Check" || !strings.Contains(err.Error(), tc.rule) {
 			t.Errorf("%+v: %v; want %s: %s", tc.s, err, tc.arg, tc.rule)
 		}
 	}
-	var ee *EstimateError
-	if _, err := Check(nil, data, nil); !errors.As(err, &ee) || err.Error() != "tf: Check: the estimate is nil; pass the *Estimate that Fit returned" {
+	var ee *errs.ModelError
+	if _, err := Check(nil, data, nil); !errors.As(err, &ee) || err.Error() != "tf.Check: estimate: the estimate is nil; pass the *Estimate that Fit returned" {
 		t.Errorf("nil estimate: %v", err)
 	}
 	bad := *est
 	bad.Model = est.Model.Clone()
 	bad.Model.Inputs[0].Den.Factors[0].Terms[1].Coef.Value = math.NaN()
-	if _, err := Check(&bad, data, nil); !errors.As(err, &ee) || ee.Field != "coefficient d1" || !strings.Contains(err.Error(), "tf: Check: estimate's coefficient d1 = NaN: not a finite number") {
+	if _, err := Check(&bad, data, nil); !errors.As(err, &ee) || ee.Part != "estimate's coefficient d1 = NaN" || !strings.Contains(err.Error(), "tf.Check: estimate's coefficient d1 = NaN: not a finite number") {
 		t.Errorf("NaN coefficient: %v", err)
 	}
 	flat := map[string][]float64{"y": data["y"], "x": make([]float64, len(data["x"]))}
@@ -350,16 +351,14 @@ func TestCheckSettingsTable(t *testing.T) {
 	// Reports of nothing say so instead of panicking.
 	var ne *Estimate
 	var nd *Diagnostics
-	if ne.String() != "no estimate (nil)\n" || nd.String() != "no diagnostic checks (nil)\n" || !strings.Contains((Candidate{Model: est.Model}).String(), "fit failed") {
+	if ne.String() != "no estimate (nil)\n" || nd.String() != "no diagnostic checks (nil)\n" || !strings.Contains((FittedCandidate{Structure: est.Model}).String(), "fit failed") {
 		t.Errorf("nil reports: %q %q", ne.String(), nd.String())
 	}
 	// Refused by Check's own test, or by the data checks it shares with
 	// Fit; either way typed and naming the user's series.
-	var ce *ConstantSeriesError
-	var fe *FitError
+	var ce *SeriesError
 	_, err := Check(est, flat, nil)
-	if !(errors.As(err, &ce) && ce.Series == "x" && strings.Contains(err.Error(), `input series "x" is constant (every sample is 40)`)) &&
-		!(errors.As(err, &fe) && fe.Series == "x" && strings.Contains(err.Error(), "constant")) {
+	if !errors.As(err, &ce) || ce.Series != "x" || !errors.Is(err, ErrConstant) || !strings.Contains(err.Error(), `series "x" is constant`) || !strings.Contains(err.Error(), "every sample is 40") {
 		t.Errorf("constant input: %v", err)
 	}
 }

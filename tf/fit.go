@@ -3,15 +3,17 @@ package tf
 import (
 	"context"
 	"errors"
-	"fmt"
 	"math"
 	"math/bits"
 	"runtime"
+	"runtime/debug"
 	"sort"
 	"strconv"
 	"sync"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/est"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/lm"
 	"github.com/backshift/backshift/internal/vec"
@@ -66,24 +68,33 @@ type FitSettings struct {
 // Jacobian, can overflow float64. Rescale such series (change units).
 const FitMaxMagnitude = 1e150
 
-// Validate checks the settings by the rule of every settings struct of
-// the package (zero means the default, a negative value is an error)
-// and returns an *ArgError naming the field ("FitSettings.Tol"), or nil.
-// Tol must also be below 1 (it is a relative reduction of the sum of
-// squares; 1 or more would stop at the start point). First is checked
-// against the data's length by Fit. The boolean fields have no bad
-// value.
-func (s FitSettings) Validate() error {
-	for _, c := range []struct {
-		name string
-		v    float64
-	}{{"MaxIter", float64(s.MaxIter)}, {"Starts", float64(s.Starts)}, {"First", float64(s.First)}, {"Tol", s.Tol}} {
-		if !(c.v >= 0) {
-			return &ArgError{Arg: "FitSettings." + c.name, Value: c.v, Rule: "must be zero (the default) or positive"}
+// Validate checks the settings by the library's settings rule (zero
+// means the default, a negative or non-finite value is an error; see the
+// package doc) and returns a *SettingError naming the field
+// ("FitSettings.Tol"), or nil. Tol must also be below 1 (it is a
+// relative reduction of the sum of squares; 1 or more would stop at the
+// start point). First is checked against the data's length by Fit. The
+// boolean fields have no bad value.
+func (s FitSettings) Validate() (err error) {
+	defer setOp("tf.FitSettings.Validate", &err)
+	return s.validate()
+}
+
+// validate is Validate without the Op, for the functions taking a
+// FitSettings (they set their own).
+func (s FitSettings) validate() error {
+	for _, err := range []error{
+		errs.Count("", "FitSettings.MaxIter", s.MaxIter, "0 means 200 iterations"),
+		errs.Count("", "FitSettings.Starts", s.Starts, "0 means 2 with a free denominator or MA coefficient, 1 otherwise"),
+		errs.Count("", "FitSettings.First", s.First, "0 means the automatic first residual index"),
+		errs.NonNegative("", "FitSettings.Tol", s.Tol, "0 means 1e-14 up to 10^4 residuals, rising to 1e-9 at 10^5"),
+	} {
+		if err != nil {
+			return err
 		}
 	}
 	if !(s.Tol < 1) {
-		return &ArgError{Arg: "FitSettings.Tol", Value: s.Tol, Rule: "must be below 1 (a relative reduction of the sum of squares; 0 means the default)"}
+		return settingErr("FitSettings.Tol", fmtF(s.Tol), "must be below 1 (a relative reduction of the sum of squares; 0 means the default)")
 	}
 	return nil
 }
@@ -107,32 +118,31 @@ type Conditioning struct {
 	ZeroPreSample bool
 }
 
-// Param is one estimated parameter.
-type Param struct {
-	// Name is the coefficient's name in the model.
-	Name string
-	// Value is the estimate; Start the start value of the best start.
-	Value, Start float64
-	// SE is the standard error from sigma^2 (J'J)^-1, NaN when J'J is
-	// singular; T = Value/SE.
-	SE, T float64
-}
+// Param is one estimated parameter: its name in the model, the
+// estimate, the start value of the best start, the standard error
+// (from sigma^2 (J'J)^-1, NaN when J'J is singular) and T = Value/SE.
+// It is the one parameter type of the library (package arma uses it
+// too).
+type Param = est.Param
 
 // Estimate is the result of Fit.
 type Estimate struct {
 	// Model is the model with every free coefficient set to its estimate
 	// (still marked free, so that it prints as a spec with the estimates
-	// and can be refitted from them).
+	// as start values, "~", and can be refitted from them); Held gives
+	// it with the estimates held ("="), for a configuration file.
 	Model Model
 	// Params lists the free parameters in order of first appearance
 	// (constant, inputs' numerators and denominators, noise MA, noise AR).
 	Params []Param
-	// Cov and Corr are the covariance sigma^2 (J'J)^-1 and the correlation
-	// matrix of the estimates, in the order of Params (NaN entries when
-	// J'J is singular).
-	Cov, Corr [][]float64
+	// Cov is the covariance sigma^2 (J'J)^-1 of the estimates, in the
+	// order of Params (NaN entries when J'J is singular); Corr gives the
+	// correlations.
+	Cov [][]float64
 	// SSQ is the sum of squared residuals; Sigma2 = SSQ/(N - k) with k
-	// free parameters.
+	// free parameters, the library's one variance convention (the
+	// README's Vocabulary); multiply a standard error by
+	// sqrt((N - k)/N) to compare with a program that divides by N.
 	SSQ, Sigma2 float64
 	// LogLik is the conditional Gaussian log-likelihood at the maximum
 	// over sigma^2, -N/2 (log(2 pi SSQ/N) + 1); AIC = -2 LogLik + 2 (k+1)
@@ -156,6 +166,42 @@ type Estimate struct {
 	// Warnings lists problems found with the estimates; empty when none.
 	Warnings []Warning
 }
+
+// Held returns a copy of the fitted model with every coefficient held at
+// its estimate, so that it prints with "=" (name = value) where
+// Estimate.Model, whose estimated coefficients stay free so that it can
+// be refitted from them, prints "~" (free, start value). It is the form
+// a configuration file wants: a model to simulate, forecast or tune a
+// controller with, not one to refit. Printing it and parsing the text
+// gives the same model.
+func (e *Estimate) Held() Model { return heldModel(e.Model) }
+
+// heldModel returns a deep copy of m with every coefficient held (Free
+// false). A Model method doing the same may come with the model
+// helpers; Held would then call it.
+func heldModel(m Model) Model {
+	c := m.Clone()
+	hold := func(k *Coef) { k.Free = false }
+	if c.Const != nil {
+		hold(c.Const)
+	}
+	c.Diff.Each(hold)
+	for i := range c.Inputs {
+		c.Inputs[i].Diff.Each(hold)
+		c.Inputs[i].Num.Each(hold)
+		c.Inputs[i].Den.Each(hold)
+	}
+	if c.Noise != nil {
+		c.Noise.MA.Each(hold)
+		c.Noise.AR.Each(hold)
+	}
+	return c
+}
+
+// Corr returns the correlations of the estimates, in the order of
+// Params, computed from Cov (NaN entries where a variance is not
+// positive and finite, as when J'J is singular).
+func (e *Estimate) Corr() [][]float64 { return est.Corr(e.Cov) }
 
 // Fit estimates the free coefficients of m from data by conditional least
 // squares over all of them jointly. data maps series names to samples
@@ -261,43 +307,46 @@ type Estimate struct {
 //
 // # Errors
 //
-// *FitError for missing, extra or unequal series, too few observations
-// (N must exceed the number of free parameters), a model with nothing
-// free, free differencing coefficients, a zero constant term in a
-// denominator; *SampleError for a NaN or infinite sample (series and
-// index); *ArgError from FitSettings.Validate (a negative or NaN
-// setting, Tol of 1 or more), for FitSettings.First at or beyond the
-// data's length, or for a sample above FitMaxMagnitude (series[index]);
-// *ModelError for a model that Model.Validate refuses (a factor power
-// below 1, a negative dead time, ...); *FitError ConstantSeries for a
-// constant output, or an input with free coefficients that never moves
-// (constant as given, or after its differencing), naming the series;
-// *FitError NoStartPoint when no start point gives finite residuals;
-// *FitError NoSettledStart for an undifferenced input whose fixed
-// denominator has a pole at z = 1 and whose first sample is not zero
-// (no steady state to hold it at); *FitError ZeroResiduals when the
-// residual sum of squares at the
-// estimate is 0 (an exact fit, or samples so small that their squares
-// underflow), where sigma^2, LogLik, AIC and BIC would not exist.
+// The shared shapes, with Op "tf.Fit", each matching one kind with
+// errors.Is: a *SeriesError naming the series for one missing from the
+// data or not used by the model (ErrName), of unequal length
+// (ErrLength), too short (ErrShort: N must exceed the number of free
+// parameters; Have and Need count residuals), constant, or an input with
+// free coefficients that never moves (ErrConstant), or when no start
+// point gives finite residuals (ErrOverflow); a *SampleError for a NaN
+// or infinite sample, or one above FitMaxMagnitude (series and index);
+// a *SettingError from FitSettings.Validate (a negative or NaN setting,
+// Tol of 1 or more) or for FitSettings.First at or beyond the data's
+// length; a *ModelError for a model that Model.Validate refuses (a
+// factor power below 1, a negative dead time, ...), a model with no
+// output or nothing free, free differencing coefficients, a name free
+// in one place and held in another, a zero constant term in a
+// denominator, an undifferenced input whose fixed denominator has a
+// pole at z = 1 and whose first sample is not zero (no steady state to
+// hold it at), or a residual sum of squares of 0 at the estimate (an
+// exact fit, or samples so small that their squares underflow), where
+// sigma^2, LogLik, AIC and BIC would not exist; an *InternalError for a
+// fault of the library (a recovered panic).
 // When ctx is done before the fit converges, Fit returns the best point
 // so far (a non-nil Estimate with Converged false and Reason saying so)
-// together with a *FitError Interrupted that wraps the context's error,
-// so that errors.Is(err, context.Canceled) (or
-// context.DeadlineExceeded) holds; a caller that checks only err does
-// not use an unfinished fit by mistake. A fit that stops for another
-// reason without converging returns its best point with a nil error and
-// a NotConverged warning.
+// together with an *InterruptedError that wraps the context's error, so
+// that errors.Is(err, context.Canceled) (or context.DeadlineExceeded)
+// holds; a caller that checks only err does not use an unfinished fit
+// by mistake. A fit that stops for another reason without converging
+// returns its best point with a nil error and a NotConverged warning.
 //
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis: Forecasting and Control, 5th ed.,
 // Wiley: chapters on identification, fitting and checking of
 // transfer-function models.
-func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (_ *Estimate, err error) {
+	defer setOp("tf.Fit", &err)
+	defer errs.Recover("tf.Fit", &err)
 	var set FitSettings
 	if s != nil {
 		set = *s
 	}
-	if err := set.Validate(); err != nil {
+	if err := set.validate(); err != nil {
 		return nil, err
 	}
 	if ctx == nil {
@@ -349,17 +398,16 @@ func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set 
 // fitFinish refuses an estimate whose sum of squares is zero (sigma^2,
 // the log-likelihood and the criteria would not exist), and returns the
 // best point of a fit whose context was done before it converged
-// together with an Interrupted *FitError wrapping the context's error.
+// together with an *InterruptedError wrapping the context's error.
 func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
 	out := e.Model.Output
 	if !(e.SSQ > 0) || math.IsInf(e.LogLik, 0) || math.IsNaN(e.LogLik) {
-		return nil, &FitError{Problem: ZeroResiduals, Series: out, Detail: "the model reproduces the output exactly (a noise-free or constant output), " +
-			"or the samples are so small that the squares of the residuals underflow float64 (below about 1e-162); " +
-			"sigma^2, the log-likelihood and AIC/BIC would not exist: rescale the series (change its units) or check the data"}
+		return nil, modelErr("fit of output "+strconv.Quote(out), "the residual sum of squares is zero: the model reproduces the output exactly (a noise-free or constant output), "+
+			"or the samples are so small that the squares of the residuals underflow float64 (below about 1e-162); "+
+			"sigma^2, the log-likelihood and AIC/BIC would not exist: rescale the series (change its units) or check the data")
 	}
 	if err := ctx.Err(); err != nil && !e.Converged {
-		return e, &FitError{Problem: Interrupted, Series: out, Err: err,
-			Detail: "the estimate returned is the best point after " + strconv.Itoa(e.Iter) + " iterations, not converged; do not use it as a fitted model"}
+		return e, &InterruptedError{Series: out, Iter: e.Iter, Err: err}
 	}
 	return e, nil
 }
@@ -444,7 +492,7 @@ func (w *fitWork) idx(name string) int {
 // fitPrepare validates m and data and builds the working state.
 func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
 	if m.Output == "" {
-		return nil, &FitError{Problem: NoOutput}
+		return nil, modelErr("model", "it names no output series (Model.Output is empty)")
 	}
 	if err := m.Validate(); err != nil {
 		return nil, err
@@ -472,7 +520,7 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	noFree := func(p Poly) {
 		p.Each(func(c *Coef) {
 			if c.Name != "" && c.Free && diffErr == nil {
-				diffErr = &FitError{Problem: FixedDifferencing, Series: c.Name}
+				diffErr = modelErr("differencing coefficient "+c.Name, "differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)")
 			}
 		})
 	}
@@ -496,21 +544,21 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	}
 	for name := range held {
 		if _, ok := w.index[name]; ok {
-			return nil, &FitError{Problem: MixedFreedom, Series: name}
+			return nil, modelErr("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
 		}
 	}
 	if len(w.names) == 0 {
-		return nil, &FitError{Problem: NothingFree}
+		return nil, modelErr("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
 	}
 	// Data: presence, extras, lengths, finiteness.
 	y, ok := data[m.Output]
 	if !ok {
-		return nil, &FitError{Problem: MissingSeries, Series: m.Output, Detail: "output"}
+		return nil, seriesErr(m.Output, errs.ErrName, 0, 0, "the model's output is not in the data; check the series names")
 	}
 	used := map[string]bool{m.Output: true}
 	for _, in := range m.Inputs {
 		if _, ok := data[in.Series]; !ok {
-			return nil, &FitError{Problem: MissingSeries, Series: in.Series, Detail: "input"}
+			return nil, seriesErr(in.Series, errs.ErrName, 0, 0, "an input of the model is not in the data; check the series names")
 		}
 		used[in.Series] = true
 	}
@@ -523,7 +571,7 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		}
 		if len(extra) > 0 {
 			sort.Strings(extra)
-			return nil, &FitError{Problem: ExtraSeries, Series: extra[0]}
+			return nil, seriesErr(extra[0], errs.ErrName, 0, 0, "it is in the data but not used by the model, often a misspelt input name; set FitSettings.IgnoreExtra to allow extra series")
 		}
 	}
 	n := len(y)
@@ -535,15 +583,14 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	for _, name := range names {
 		x := data[name]
 		if len(x) != n {
-			return nil, &FitError{Problem: UnequalLengths, Series: name, Len: len(x), Want: n}
+			return nil, seriesErr(name, errs.ErrLength, len(x), n, "the length of the output "+strconv.Quote(m.Output)+"; every series of one fit has one length")
 		}
 		for t, v := range x {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return nil, &SampleError{Series: name, Index: t, Value: v}
+				return nil, &errs.SampleError{Series: name, Index: t, Value: v}
 			}
 			if math.Abs(v) > FitMaxMagnitude {
-				return nil, &ArgError{Arg: fmt.Sprintf("%s[%d]", name, t), Value: v,
-					Rule: "magnitude above 1e150: the sums of squares of the fit would overflow; rescale the series"}
+				return nil, &errs.SampleError{Series: name, Index: t, Value: v, Limit: FitMaxMagnitude}
 			}
 		}
 	}
@@ -551,12 +598,12 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		return nil, err
 	}
 	if set.First > 0 && set.First >= n {
-		return nil, &ArgError{Arg: "FitSettings.First", Value: float64(set.First),
-			Rule: "must be below the number of samples, " + strconv.Itoa(n) + " (it is the index of the first residual summed)"}
+		return nil, settingErr("FitSettings.First", strconv.Itoa(set.First),
+			"must be below the number of samples, "+strconv.Itoa(n)+" (it is the index of the first residual summed)")
 	}
 	if n > 0 && fitConstant(y) {
-		return nil, &FitError{Problem: ConstantSeries, Series: m.Output, Detail: "every sample is " + strconv.FormatFloat(y[0], 'g', 6, 64) +
-			": there is nothing to explain; check that the right column was read"}
+		return nil, seriesErr(m.Output, errs.ErrConstant, 0, 0, "the output: every sample is "+strconv.FormatFloat(y[0], 'g', 6, 64)+
+			", there is nothing to explain; check that the right column was read")
 	}
 	// Conditioning.
 	dc := w.m.Diff.Coeffs()
@@ -598,7 +645,7 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 				break
 			}
 		}
-		return nil, &FitError{Problem: TooFewObservations, Series: m.Output, Len: max(nres, 0), Want: len(w.names) + 1, Detail: detail}
+		return nil, seriesErr(m.Output, errs.ErrShort, max(nres, 0), len(w.names)+1, "counting residuals, one more than the "+strconv.Itoa(len(w.names))+" free coefficients; "+detail)
 	}
 	w.n = n
 	// All work series come from one slab, recycled between fits (see
@@ -638,9 +685,9 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		}
 		if fi.z0 != 0 && !fi.denFree && fitSum(fi.in.Den.Coeffs()) == 0 {
 			w.release()
-			return nil, &FitError{Problem: NoSettledStart, Series: fi.in.Series, Detail: "its denominator has a pole at z = 1 (an integrator), so it has no steady state, " +
-				"and Fit cannot take the input as held at its first value " + strconv.FormatFloat(fi.z0, 'g', 6, 64) +
-				" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output"}
+			return nil, modelErr("input "+strconv.Quote(fi.in.Series), "no settled start: its denominator has a pole at z = 1 (an integrator), so it has no steady state, "+
+				"and Fit cannot take the input as held at its first value "+strconv.FormatFloat(fi.z0, 'g', 6, 64)+
+				" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output")
 		}
 		if !moves && (fi.numFree || fi.denFree) {
 			w.release()
@@ -648,8 +695,8 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			if fi.d > 0 {
 				why = "its differenced values are all zero"
 			}
-			return nil, &FitError{Problem: ConstantSeries, Series: fi.in.Series, Detail: why +
-				", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values"}
+			return nil, seriesErr(fi.in.Series, errs.ErrConstant, 0, 0, "an input: "+why+
+				", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values")
 		}
 		fi.s = take(n)
 		fi.u = take(n)
@@ -716,12 +763,12 @@ func (w *fitWork) release() {
 func fitCheckConst(m Model) error {
 	chk := func(p Poly, what string) error {
 		if c := p.Coeffs(); c[0] == 0 {
-			return &FitError{Problem: BadDenominator, Series: what}
+			return modelErr(what, "the constant term is zero, so the term is not causal; write it as 1 + ... (or move the dead time to the input's delay)")
 		}
 		return nil
 	}
 	for _, in := range m.Inputs {
-		if err := chk(in.Den, in.Series); err != nil {
+		if err := chk(in.Den, "input "+strconv.Quote(in.Series)+" denominator"); err != nil {
 			return err
 		}
 	}
@@ -1176,7 +1223,7 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 			// process; it becomes a typed error that Fit returns.
 			defer func() {
 				if v := recover(); v != nil {
-					perr = &FitError{Problem: InternalError, Series: w.m.Output, Detail: fmt.Sprint(v)}
+					perr = &errs.InternalError{Value: v, Stack: debug.Stack()}
 				}
 			}()
 			w.normalRows(acc1, r, h, m, &w.blk[1])
@@ -1468,9 +1515,9 @@ func (w *fitWork) search(ctx context.Context, set FitSettings, maxIter int) (*lm
 		}
 	}
 	if best == nil {
-		return nil, nil, 0, &FitError{Problem: NoStartPoint, Series: w.m.Output,
-			Detail: "the residuals are not finite at any start point (" + firstErr.Error() + "); the coefficients held at fixed values may make a filter blow up on this data " +
-				"(an unstable fixed denominator, or a fixed noise MA with a zero on or outside the unit circle), or the samples are too large: check the fixed values and the units, or give start values in the spec"}
+		return nil, nil, 0, seriesErr(w.m.Output, errs.ErrOverflow, 0, 0,
+			"no start point gives finite residuals ("+firstErr.Error()+"); the coefficients held at fixed values may make a filter blow up on this data "+
+				"(an unstable fixed denominator, or a fixed noise MA with a zero on or outside the unit circle), or the samples are too large: check the fixed values and the units, or give start values in the spec")
 	}
 	return best, bestStart, len(sc), nil
 }
@@ -1514,7 +1561,7 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 		Converged:    res.Reason.Converged(),
 		Reason:       res.Reason.String(),
 	}
-	e.Sigma2 = ssq / float64(nres-k)
+	e.Sigma2 = est.Sigma2(ssq, nres, k)
 	ml := ssq / float64(nres)
 	e.LogLik = -0.5 * float64(nres) * (math.Log(2*math.Pi*ml) + 1)
 	e.AIC = -2*e.LogLik + 2*float64(k+1)
@@ -1528,10 +1575,8 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 		}
 	}
 	e.Cov = make([][]float64, k)
-	e.Corr = make([][]float64, k)
 	for i := range e.Cov {
 		e.Cov[i] = make([]float64, k)
-		e.Corr[i] = make([]float64, k)
 		for j := range e.Cov[i] {
 			if res.JTJInv != nil {
 				e.Cov[i][j] = e.Sigma2 * res.JTJInv.At(i, j)
@@ -1547,11 +1592,6 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 			se = math.NaN()
 		}
 		e.Params[i] = Param{Name: name, Value: res.X[i], Start: start[i], SE: se, T: res.X[i] / se}
-	}
-	for i := range e.Corr {
-		for j := range e.Corr[i] {
-			e.Corr[i][j] = e.Cov[i][j] / (e.Params[i].SE * e.Params[j].SE)
-		}
 	}
 	w.noiseSeries() // n_t at the estimate, for the start-up transient test
 	e.Warnings = fitWarnings(e, res.JTJInv == nil, w.nn[t0:w.n])

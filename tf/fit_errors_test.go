@@ -6,6 +6,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/errs"
 )
 
 // TestFitBadInput checks the typed errors of Fit and their messages.
@@ -28,36 +30,42 @@ func TestFitBadInput(t *testing.T) {
 	noOut := fitMCModel()
 	noOut.Output = ""
 	for _, tc := range []struct {
-		name    string
-		m       Model
-		data    func() map[string][]float64
-		problem FitProblem
-		series  string
-		msg     string
+		name   string
+		m      Model
+		data   func() map[string][]float64
+		kind   error
+		series string // the SeriesError's series, "" for a *ModelError
+		msg    string
 	}{
 		{"missing output", fitMCModel(), func() map[string][]float64 { d := good(); delete(d, "y"); return d },
-			MissingSeries, "y", `tf: series missing from the data: "y" (output)`},
+			ErrName, "y", `tf.Fit: series "y" is not known (the model's output is not in the data; check the series names)`},
 		{"missing input", fitMCModel(), func() map[string][]float64 { d := good(); delete(d, "x"); return d },
-			MissingSeries, "x", `tf: series missing from the data: "x" (input)`},
+			ErrName, "x", `tf.Fit: series "x" is not known (an input of the model is not in the data; check the series names)`},
 		{"extra series", fitMCModel(), func() map[string][]float64 { d := good(); d["xx"] = x; return d },
-			ExtraSeries, "xx", `tf: series in the data not used by the model: "xx"`},
+			ErrName, "xx", `tf.Fit: series "xx" is not known (it is in the data but not used by the model, often a misspelt input name; set FitSettings.IgnoreExtra to allow extra series)`},
 		{"unequal lengths", fitMCModel(), func() map[string][]float64 { d := good(); d["x"] = d["x"][:50]; return d },
-			UnequalLengths, "x", `tf: series lengths differ: "x" has 50 samples, the output 60`},
+			ErrLength, "x", `tf.Fit: series "x" has 50 samples, 60 expected (the length of the output "y"; every series of one fit has one length)`},
 		{"too few observations", fitMCModel(), func() map[string][]float64 {
 			d := good()
 			d["x"], d["y"] = d["x"][:9], d["y"][:9]
 			return d
-		}, TooFewObservations, "y", `tf: too few observations: "y": 4 residuals, at least 6 needed (residuals are summed from index 5 of 9 samples; input "x" with dead time 3, numerator degree 1 and differencing degree 0 leaves its first 4 samples without a residual: check the dead time (it counts samples))`},
-		{"nothing free", fixed, good, NothingFree, "", `tf: nothing free to estimate`},
-		{"free differencing", freeDiff, good, FixedDifferencing, "k", `tf: differencing must be fixed numbers: "k"`},
-		{"mixed freedom", mixed, good, MixedFreedom, "d1", `tf: parameter is free in one place and held in another: "d1"`},
-		{"zero denominator constant", zeroDen, good, BadDenominator, "x", `tf: constant term of a denominator is zero: "x"`},
-		{"no output", noOut, good, NoOutput, "", `tf: model names no output series`},
+		}, ErrShort, "y", `tf.Fit: series "y": 4 samples, at least 6 needed (counting residuals, one more than the 5 free coefficients; residuals are summed from index 5 of 9 samples; input "x" with dead time 3, numerator degree 1 and differencing degree 0 leaves its first 4 samples without a residual: check the dead time (it counts samples))`},
+		{"nothing free", fixed, good, ErrModel, "", `tf.Fit: model: nothing is free to estimate (every coefficient is held); mark at least one coefficient free`},
+		{"free differencing", freeDiff, good, ErrModel, "", `tf.Fit: differencing coefficient k: differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)`},
+		{"mixed freedom", mixed, good, ErrModel, "", `tf.Fit: coefficient d1: it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)`},
+		{"zero denominator constant", zeroDen, good, ErrModel, "", `tf.Fit: input "x" denominator: the constant term is zero, so the term is not causal; write it as 1 + ... (or move the dead time to the input's delay)`},
+		{"no output", noOut, good, ErrModel, "", `tf.Fit: model: it names no output series (Model.Output is empty)`},
 	} {
 		_, err := Fit(context.Background(), tc.m, tc.data(), nil)
-		var fe *FitError
-		if !errors.As(err, &fe) || fe.Problem != tc.problem || fe.Series != tc.series {
-			t.Errorf("%s: got %v, want problem %v on %q", tc.name, err, tc.problem, tc.series)
+		if !errors.Is(err, tc.kind) {
+			t.Errorf("%s: got %v, want kind %v", tc.name, err, tc.kind)
+			continue
+		}
+		var se *SeriesError
+		var me *errs.ModelError
+		if tc.series != "" && (!errors.As(err, &se) || se.Series != tc.series || se.Op != "tf.Fit") ||
+			tc.series == "" && (!errors.As(err, &me) || me.Op != "tf.Fit") {
+			t.Errorf("%s: got %T %v, want the shared shape naming %q", tc.name, err, err, tc.series)
 			continue
 		}
 		if err.Error() != tc.msg {
@@ -73,8 +81,8 @@ func TestFitBadInput(t *testing.T) {
 		d := good()
 		d[tc.series][tc.index] = tc.v
 		_, err := Fit(context.Background(), fitMCModel(), d, nil)
-		var se *SampleError
-		if !errors.As(err, &se) || se.Series != tc.series || se.Index != tc.index || !errors.Is(err, ErrNotFinite) {
+		var se *errs.SampleError
+		if !errors.As(err, &se) || se.Op != "tf.Fit" || se.Series != tc.series || se.Index != tc.index || !errors.Is(err, ErrSample) {
 			t.Errorf("%v at %s[%d]: got %v", tc.v, tc.series, tc.index, err)
 		}
 	}
@@ -123,10 +131,11 @@ func TestFitCancel(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
 	est, err := Fit(ctx, fitMCModel(), map[string][]float64{"y": y, "x": x}, nil)
-	var fe *FitError
-	if !errors.Is(err, context.Canceled) || !errors.As(err, &fe) || fe.Problem != Interrupted || fe.Series != "y" ||
-		!strings.Contains(err.Error(), "fit interrupted before converging") || !strings.Contains(err.Error(), "best point") {
-		t.Fatalf("canceled fit: err = %v, want an Interrupted *FitError wrapping context.Canceled", err)
+	var ie *InterruptedError
+	if !errors.Is(err, context.Canceled) || !errors.Is(err, ErrConvergence) || !errors.As(err, &ie) || ie.Series != "y" || ie.Op != "tf.Fit" ||
+		!strings.HasPrefix(err.Error(), `tf.Fit: fit of "y" interrupted after `) || !strings.Contains(err.Error(), "best point") ||
+		!strings.HasSuffix(err.Error(), "context canceled") {
+		t.Fatalf("canceled fit: err = %v, want an *InterruptedError wrapping context.Canceled", err)
 	}
 	if est == nil {
 		t.Fatal("canceled fit: no estimate (the best point so far must come with the error)")
@@ -154,9 +163,10 @@ func TestFitNegativeDelay(t *testing.T) {
 	}
 }
 
-// Negative or NaN settings, and a sample so large that its square
-// overflows, are *ArgError values naming the setting or the series and
-// index (a huge sample used to surface as "too few observations").
+// Negative or NaN settings are *SettingError values naming the field,
+// and a sample so large that its square overflows is a *SampleError
+// with its limit (a huge sample used to surface as "too few
+// observations").
 func TestFitBadSettingsAndMagnitude(t *testing.T) {
 	y, x := fitMCSim(fitRand(9), 80)
 	data := map[string][]float64{"y": y, "x": x}
@@ -164,22 +174,27 @@ func TestFitBadSettingsAndMagnitude(t *testing.T) {
 		set FitSettings
 		msg string
 	}{
-		{FitSettings{MaxIter: -5}, "tf: FitSettings.MaxIter = -5: must be zero (the default) or positive"},
-		{FitSettings{Starts: -1}, "tf: FitSettings.Starts = -1: must be zero (the default) or positive"},
-		{FitSettings{First: -3}, "tf: FitSettings.First = -3: must be zero (the default) or positive"},
-		{FitSettings{Tol: math.NaN()}, "tf: FitSettings.Tol = NaN: must be zero (the default) or positive"},
+		{FitSettings{MaxIter: -5}, "tf.Fit: FitSettings.MaxIter = -5: must be zero or positive (0 means 200 iterations)"},
+		{FitSettings{Starts: -1}, "tf.Fit: FitSettings.Starts = -1: must be zero or positive (0 means 2 with a free denominator or MA coefficient, 1 otherwise)"},
+		{FitSettings{First: -3}, "tf.Fit: FitSettings.First = -3: must be zero or positive (0 means the automatic first residual index)"},
+		{FitSettings{Tol: math.NaN()}, "tf.Fit: FitSettings.Tol = NaN: must be a finite number, zero or positive (0 means 1e-14 up to 10^4 residuals, rising to 1e-9 at 10^5)"},
+		{FitSettings{Tol: 1}, "tf.Fit: FitSettings.Tol = 1: must be below 1 (a relative reduction of the sum of squares; 0 means the default)"},
 	} {
 		_, err := Fit(context.Background(), fitMCModel(), data, &tc.set)
-		var ae *ArgError
-		if !errors.As(err, &ae) || err.Error() != tc.msg {
-			t.Errorf("settings %+v: err = %v, want *ArgError %q", tc.set, err, tc.msg)
+		var se *SettingError
+		if !errors.As(err, &se) || !errors.Is(err, ErrSetting) || err.Error() != tc.msg {
+			t.Errorf("settings %+v: err = %v, want *SettingError %q", tc.set, err, tc.msg)
 		}
+	}
+	// Validate called by the user names itself as Op.
+	if err := (FitSettings{MaxIter: -1}).Validate(); err == nil || !strings.HasPrefix(err.Error(), "tf.FitSettings.Validate: FitSettings.MaxIter = -1") {
+		t.Errorf("Validate: %v", err)
 	}
 	big := map[string][]float64{"y": append([]float64(nil), y...), "x": x}
 	big["y"][40] = -2e150
 	_, err := Fit(context.Background(), fitMCModel(), big, nil)
-	var ae *ArgError
-	if want := "tf: y[40] = -2e+150: magnitude above 1e150"; !errors.As(err, &ae) || !strings.HasPrefix(err.Error(), want) {
-		t.Fatalf("sample -2e150: err = %v, want *ArgError starting %q", err, want)
+	var se *errs.SampleError
+	if want := `tf.Fit: series "y" sample 40 is -2e+150, beyond the largest magnitude accepted, 1e+150 (rescale the series: change its units)`; !errors.As(err, &se) || se.Index != 40 || err.Error() != want {
+		t.Fatalf("sample -2e150: err = %v, want *SampleError %q", err, want)
 	}
 }

@@ -94,16 +94,13 @@ func FuzzFit(f *testing.F) {
 		y, x := fuzzSeries(b, mode)
 		e, err := tf.Fit(context.Background(), m, map[string][]float64{"y": y, "x": x}, &tf.FitSettings{MaxIter: 30})
 		if err != nil {
-			var (
-				fe *tf.FitError
-				se *tf.SampleError
-				ae *tf.ArgError
-				me *tf.ModelError
-			)
-			if !errors.As(err, &fe) && !errors.As(err, &se) && !errors.As(err, &ae) && !errors.As(err, &me) {
-				t.Fatalf("untyped error %T: %v", err, err)
+			var me *tf.ModelError // Model.Validate's error
+			if !errors.As(err, &me) && !errors.Is(err, tf.ErrSample) && !errors.Is(err, tf.ErrShort) && !errors.Is(err, tf.ErrConstant) &&
+				!errors.Is(err, tf.ErrLength) && !errors.Is(err, tf.ErrName) && !errors.Is(err, tf.ErrSetting) && !errors.Is(err, tf.ErrModel) &&
+				!errors.Is(err, tf.ErrConvergence) && !errors.Is(err, tf.ErrOverflow) {
+				t.Fatalf("error of no kind %T: %v", err, err)
 			}
-			if fe != nil && fe.Problem == tf.InternalError {
+			if errors.Is(err, tf.ErrInternal) {
 				t.Fatalf("internal error: %v", err)
 			}
 			return

@@ -1,6 +1,7 @@
 package tf
 
 import (
+	"errors"
 	"math/rand/v2"
 
 	"github.com/backshift/backshift/arma"
@@ -51,3 +52,14 @@ func fitSimAR1(rng *rand.Rand, n int, phi float64) []float64 {
 var _ = arma.Noise{}
 
 func fitRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, seed+1)) }
+
+// tfHasKind reports whether err matches one of the library's kinds of
+// error with errors.Is (every error of the package must).
+func tfHasKind(err error) bool {
+	for _, k := range []error{ErrSample, ErrShort, ErrConstant, ErrLength, ErrName, ErrSetting, ErrModel, ErrConvergence, ErrOverflow, ErrInternal} {
+		if errors.Is(err, k) {
+			return true
+		}
+	}
+	return false
+}

@@ -2,7 +2,9 @@ package tf_test
 
 import (
 	"context"
+	"errors"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/parse"
@@ -42,6 +44,27 @@ func TestFitSpecRoundTrip(t *testing.T) {
 	}
 	if !back.Equal(est.Model) {
 		t.Fatalf("spec %q reads back as a different model", est.Model.String())
+	}
+	// The model with the estimates held prints with "=" for every
+	// coefficient, reads back as the same model, holds the same values,
+	// and leaves nothing to fit; est.Model is unchanged (still free).
+	held := est.Held()
+	hs := held.String()
+	if strings.Contains(hs, "~") || !strings.Contains(hs, "d1 = ") || !strings.Contains(est.Model.String(), "d1 ~ ") {
+		t.Errorf("held spec %q (fitted %q)", hs, est.Model.String())
+	}
+	hb, err := parse.Model(hs)
+	if err != nil || !hb.Equal(held) {
+		t.Fatalf("held spec %q reads back as %v, %v", hs, hb, err)
+	}
+	for _, c := range held.Params() {
+		p, ok := est.Param(c.Name)
+		if c.Free || !ok || c.Value != p.Value {
+			t.Errorf("held %s = %v (free %v), estimate %v", c.Name, c.Value, c.Free, p.Value)
+		}
+	}
+	if _, err := tf.Fit(context.Background(), held, data, nil); !errors.Is(err, tf.ErrModel) || !strings.Contains(err.Error(), "nothing is free to estimate") {
+		t.Errorf("refit of the held model: %v", err)
 	}
 	again, err := tf.Fit(context.Background(), back, data, nil)
 	if err != nil {

@@ -31,28 +31,29 @@ func TestSettingsValidate(t *testing.T) {
 		field string
 		rule  string
 	}{
-		{tf.FitSettings{MaxIter: -1}, "FitSettings.MaxIter", "must be zero (the default) or positive"},
-		{tf.FitSettings{Starts: -2}, "FitSettings.Starts", "must be zero (the default) or positive"},
-		{tf.FitSettings{First: -3}, "FitSettings.First", "must be zero (the default) or positive"},
-		{tf.FitSettings{Tol: -1e-9}, "FitSettings.Tol", "must be zero (the default) or positive"},
-		{tf.FitSettings{Tol: math.NaN()}, "FitSettings.Tol", "must be zero (the default) or positive"},
+		{tf.FitSettings{MaxIter: -1}, "FitSettings.MaxIter", "FitSettings.MaxIter = -1: must be zero or positive (0 means 200 iterations)"},
+		{tf.FitSettings{Starts: -2}, "FitSettings.Starts", "FitSettings.Starts = -2: must be zero or positive"},
+		{tf.FitSettings{First: -3}, "FitSettings.First", "FitSettings.First = -3: must be zero or positive"},
+		{tf.FitSettings{Tol: -1e-9}, "FitSettings.Tol", "FitSettings.Tol = -1e-09: must be a finite number, zero or positive"},
+		{tf.FitSettings{Tol: math.NaN()}, "FitSettings.Tol", "must be a finite number, zero or positive"},
 		{tf.FitSettings{Tol: 1}, "FitSettings.Tol", "must be below 1"},
-		{tf.FitSettings{Tol: math.Inf(1)}, "FitSettings.Tol", "must be below 1"},
+		{tf.FitSettings{Tol: math.Inf(1)}, "FitSettings.Tol", "must be a finite number, zero or positive"},
 	}
 	for _, tc := range fit {
 		for _, err := range []error{tc.s.Validate(), second(tf.Fit(context.Background(), m, data, &tc.s))} {
-			var ae *tf.ArgError
-			if !errors.As(err, &ae) || ae.Arg != tc.field || !strings.Contains(err.Error(), tc.rule) {
-				t.Errorf("%+v: %v, want *ArgError for %s (%q)", tc.s, err, tc.field, tc.rule)
+			var ae *tf.SettingError
+			if !errors.As(err, &ae) || ae.Setting != tc.field || !strings.Contains(err.Error(), tc.rule) {
+				t.Errorf("%+v: %v, want *SettingError for %s (%q)", tc.s, err, tc.field, tc.rule)
 			}
 		}
 	}
 	// First is checked against the data's length by Fit.
-	var ae *tf.ArgError
-	if _, err := tf.Fit(context.Background(), m, data, &tf.FitSettings{First: 120}); !errors.As(err, &ae) || ae.Arg != "FitSettings.First" ||
+	var fse *tf.SettingError
+	if _, err := tf.Fit(context.Background(), m, data, &tf.FitSettings{First: 120}); !errors.As(err, &fse) || fse.Setting != "FitSettings.First" ||
 		!strings.Contains(err.Error(), "must be below the number of samples, 120") {
 		t.Errorf("First = n: %v", err)
 	}
+	var ae *tf.ArgError // SimSettings and StepOptions
 	sim := []struct {
 		s     tf.SimSettings
 		field string

@@ -3,6 +3,7 @@ package tf_test
 import (
 	"context"
 	"errors"
+	"github.com/backshift/backshift/internal/errs"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -70,13 +71,13 @@ func TestFitTraps(t *testing.T) {
 		is   func(error) bool
 		keys []string
 	}{
-		{"constant output", m, map[string][]float64{"y": constant(3), "x": x}, isFit(tf.ConstantSeries, "y"),
-			[]string{`series is constant: "y"`, "every sample is 3", "nothing to explain"}},
-		{"constant input", m, map[string][]float64{"y": y, "x": constant(40)}, isFit(tf.ConstantSeries, "x"),
+		{"constant output", m, map[string][]float64{"y": constant(3), "x": x}, isSeries(tf.ErrConstant, "y"),
+			[]string{`tf.Fit: series "y" is constant`, "every sample is 3", "nothing to explain"}},
+		{"constant input", m, map[string][]float64{"y": y, "x": constant(40)}, isSeries(tf.ErrConstant, "x"),
 			[]string{`"x"`, "every sample is 40", "never moves", "leave it out of the model"}},
-		{"data scaled by 1e-170", m, map[string][]float64{"y": tiny(y), "x": tiny(x)}, isFit(tf.ZeroResiduals, "y"),
+		{"data scaled by 1e-170", m, map[string][]float64{"y": tiny(y), "x": tiny(x)}, isShared(`fit of output "y"`),
 			[]string{"residual sum of squares is zero", `"y"`, "underflow", "rescale the series"}},
-		{"all-NaN input", m, map[string][]float64{"y": y, "x": nan}, isSample("x", 0), []string{"x sample 0 = NaN"}},
+		{"all-NaN input", m, map[string][]float64{"y": y, "x": nan}, isSample("x", 0), []string{`tf.Fit: series "x" sample 0 is NaN`}},
 		{"factor power 0", exp0, map[string][]float64{"y": y, "x": x}, isModel(`input "x" denominator, factor 1`),
 			[]string{"power 0 is outside 1..64"}},
 		{"factor power -1", expNeg, map[string][]float64{"y": y, "x": x}, isModel(`input "x" numerator, factor 1`),
@@ -91,12 +92,12 @@ func TestFitTraps(t *testing.T) {
 		{"noise factor power 0", noiseExp, map[string][]float64{"y": y, "x": x}, isModel("noise AR, factor 1"),
 			[]string{"power 0"}},
 		{"integrating input held at 5", parse.MustModel("y = w0 B / (1 - B) x + a"), map[string][]float64{"y": y, "x": x},
-			isFit(tf.NoSettledStart, "x"), []string{"pole at z = 1", "held at its first value", "FitSettings.ZeroPreSample"}},
+			isShared(`input "x"`), []string{"no settled start", "pole at z = 1", "held at its first value", "FitSettings.ZeroPreSample"}},
 		// 1/(1 - 1.9 B) grows as 1.9^t, past float64 after about 1100 samples.
 		{"fixed non-invertible MA", parse.MustModel("y = w0 x + (1 - 1.9 B) a"), map[string][]float64{"y": trapData(8, 1500, 0), "x": trapData(9, 1500, 0)},
-			isFit(tf.NoStartPoint, "y"), []string{"not finite at any start point", "fixed noise MA", "check the fixed values"}},
+			isSeries(tf.ErrOverflow, "y"), []string{"no start point gives finite residuals", "fixed noise MA", "check the fixed values"}},
 		{"dead time longer than the record", parse.MustModel("y = w0 B^250 x + a"), map[string][]float64{"y": y, "x": x},
-			isFit(tf.TooFewObservations, "y"), []string{`input "x" with dead time 250`, "check the dead time"}},
+			isSeries(tf.ErrShort, "y"), []string{`input "x" with dead time 250`, "check the dead time"}},
 	} {
 		est, err := tf.Fit(context.Background(), tc.m, tc.data, nil)
 		if err == nil || !tc.is(err) {
@@ -124,17 +125,25 @@ func TestFitTraps(t *testing.T) {
 	}
 }
 
-func isFit(p tf.FitProblem, series string) func(error) bool {
+func isSeries(kind error, series string) func(error) bool {
 	return func(err error) bool {
-		var fe *tf.FitError
-		return errors.As(err, &fe) && fe.Problem == p && fe.Series == series
+		var se *tf.SeriesError
+		return errors.As(err, &se) && errors.Is(err, kind) && se.Series == series && se.Op == "tf.Fit"
+	}
+}
+
+// isShared matches the shared *ModelError of Fit's own checks.
+func isShared(part string) func(error) bool {
+	return func(err error) bool {
+		var me *errs.ModelError
+		return errors.As(err, &me) && errors.Is(err, tf.ErrModel) && me.Part == part && me.Op == "tf.Fit"
 	}
 }
 
 func isSample(series string, index int) func(error) bool {
 	return func(err error) bool {
-		var se *tf.SampleError
-		return errors.As(err, &se) && se.Series == series && se.Index == index
+		var se *errs.SampleError
+		return errors.As(err, &se) && errors.Is(err, tf.ErrSample) && se.Series == series && se.Index == index
 	}
 }
 

@@ -251,9 +251,10 @@ func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
 				"noise MA zero %s nearly cancels AR root %s; a lower order may do", fitFmtC(z), fitFmtC(p))
 		}
 	}
-	for i := range e.Corr {
-		for j := i + 1; j < len(e.Corr); j++ {
-			if c := e.Corr[i][j]; math.Abs(c) > fitCorrWarning {
+	corr := e.Corr()
+	for i := range corr {
+		for j := i + 1; j < len(corr); j++ {
+			if c := corr[i][j]; math.Abs(c) > fitCorrWarning {
 				a, b := e.Params[i].Name, e.Params[j].Name
 				add(HighCorrelation, []string{a, b}, "estimates of %s and %s correlate at %.3f", a, b, c)
 			}

@@ -38,7 +38,7 @@ func TestFitWarningsRules(t *testing.T) {
 	set(m.Noise.MA, 1.0) // MA zero at z = 1
 	e := &Estimate{Model: m, Converged: false, Reason: "not converged: iteration limit reached",
 		Params: []Param{{Name: "w0"}, {Name: "d1"}},
-		Corr:   [][]float64{{1, 0.97}, {0.97, 1}}}
+		Cov:    [][]float64{{1, 0.97}, {0.97, 1}}}
 	ws := fitWarnings(e, false, nil)
 	for _, k := range []WarningKind{UnstableDenominator, NonStationaryNoise, NonInvertibleNoise, HighCorrelation, NotConverged} {
 		if !fitHasWarning(ws, k) {

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/poly"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -27,15 +28,17 @@ const MaxHorizon = 1 << 20
 // InputModel is an ARMA model of an input's differenced series z_t =
 // D_i(B) x_t, used to forecast the input when its future is not known:
 //
-//	AR(B) (z_t - Mean) = MA(B) e_t,  var(e_t) = Sigma2,
+//	AR(B) (z_t - c) = MA(B) e_t,  var(e_t) = Sigma2,
 //
 // AR and MA stored as ascending coefficients with constant term 1 (nil
-// for 1), signs as stored. From an arma.Model m fitted to z_t itself
-// (no further differencing, m.D = m.SD = 0), use InputModel{AR:
-// m.ARPoly(), MA: m.MAPoly(), Mean: m.Mean, Sigma2: m.Sigma2}.
+// for 1), signs as stored; C is the constant c, the level of z_t (the
+// library's one name for a model's constant, as in a spec's "c"). From
+// an arma.Model m fitted to z_t itself (no further differencing, m.D =
+// m.SD = 0), use InputModel{AR: m.ARPoly(), MA: m.MAPoly(), C: its
+// constant, Sigma2: m.Sigma2}.
 type InputModel struct {
 	AR, MA []float64
-	Mean   float64
+	C      float64
 	Sigma2 float64
 }
 
@@ -61,14 +64,33 @@ type ForecastSettings struct {
 	InputModels map[string]InputModel
 }
 
+// Validate checks the settings by the library's settings rule and
+// returns a *SettingError naming the field (ForecastSettings.Level, or
+// ForecastSettings.InputModels["x"].AR for an unusable input model, see
+// InputModel), or nil. What needs the model and the horizon (Future
+// entries and their lengths, names that are not inputs) is checked by
+// Forecast.
+func (s ForecastSettings) Validate() (err error) {
+	defer setOp("tf.ForecastSettings.Validate", &err)
+	if err := errs.Probability("", "ForecastSettings.Level", s.Level, "0 means 0.95"); err != nil {
+		return err
+	}
+	for _, name := range fcSortedKeys(s.InputModels) {
+		if err := s.InputModels[name].validate(name); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
 // validate reports a bad setting: the Level, a Future entry for a
 // series that is neither an input nor the output of m, an InputModels
 // entry for a series that is not an input, a Future shorter than h
 // or holding a NaN, infinite or too large value, an unusable
 // InputModel.
 func (s ForecastSettings) validate(m Model, h int) error {
-	if !(s.Level >= 0 && s.Level < 1) {
-		return &ArgError{Arg: "ForecastSettings.Level", Value: s.Level, Rule: "must lie in (0, 1), zero meaning 0.95"}
+	if err := errs.Probability("", "ForecastSettings.Level", s.Level, "0 means 0.95"); err != nil {
+		return err
 	}
 	inputs := map[string]bool{}
 	var names []string
@@ -81,24 +103,24 @@ func (s ForecastSettings) validate(m Model, h int) error {
 			continue // the output's own future (say, held-out data) is not used
 		}
 		if !inputs[name] {
-			return &UnknownInputError{Setting: "ForecastSettings.Future", Name: name, Inputs: names}
+			return unknownInputErr("ForecastSettings.Future", name, names)
 		}
 		fut := s.Future[name]
 		if len(fut) < h {
-			return &FitError{Problem: BadFuture, Series: name, Len: len(fut), Want: h, Detail: "ForecastSettings.Future needs a value for every step of the horizon"}
+			return seriesErr(name, errs.ErrShort, len(fut), h, "its values in ForecastSettings.Future: one is needed for every step of the horizon")
 		}
 		for j, v := range fut[:h] {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &SampleError{Series: "future " + name, Index: j, Value: v}
+				return &errs.SampleError{Series: "future " + name, Index: j, Value: v}
 			}
 			if math.Abs(v) > FitMaxMagnitude {
-				return &ArgError{Arg: fmt.Sprintf("ForecastSettings.Future[%q][%d]", name, j), Value: v, Rule: "magnitude above 1e150: the forecast would overflow; rescale the series"}
+				return &errs.SampleError{Series: "future " + name, Index: j, Value: v, Limit: FitMaxMagnitude}
 			}
 		}
 	}
 	for _, name := range fcSortedKeys(s.InputModels) {
 		if !inputs[name] {
-			return &UnknownInputError{Setting: "ForecastSettings.InputModels", Name: name, Inputs: names}
+			return unknownInputErr("ForecastSettings.InputModels", name, names)
 		}
 		if err := s.InputModels[name].validate(name); err != nil {
 			return err
@@ -213,14 +235,15 @@ type Forecast struct {
 // naming the input and both ranges) and when the estimate is not sound
 // (UnsoundEstimate, see Estimate.Soundness).
 //
-// Errors: *ArgError for h < 1 or h > MaxHorizon, or a bad
-// ForecastSettings.Level; *EstimateError for a nil estimate, a
-// coefficient or Sigma2 that is not finite; *UnknownInputError for a Future
-// or InputModels entry naming a series that is not an input,
-// *FitError (BadFuture) for a Future shorter than h,
-// *SampleError for a non-finite future value, *ArgError for one above
-// FitMaxMagnitude; *InputModelError for an unusable input model
-// (InputModel); the data errors of Fit; *NonFiniteResultError when the
+// Errors (the shared shapes, Op "tf.Estimate.Forecast"): *SettingError
+// for h < 1 or h > MaxHorizon, a bad ForecastSettings.Level or an
+// unusable input model (ForecastSettings.InputModels["x"].AR, see
+// InputModel); *ModelError for a nil estimate, a coefficient or Sigma2
+// that is not finite; *SeriesError of kind ErrName for a Future or
+// InputModels entry naming a series that is not an input, of kind
+// ErrShort for a Future shorter than h; *SampleError for a future value
+// that is not finite or above FitMaxMagnitude (Series "future x"); the
+// data errors of Fit; *SeriesError of kind ErrOverflow when the
 // residuals or the forecast overflow float64 (never NaN or infinite
 // numbers with a nil error); *StageError wrapping the error of the
 // automatic input autoregression.
@@ -228,22 +251,24 @@ type Forecast struct {
 // References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
 // G. M. (2015). Time Series Analysis, 5th ed., Wiley: the chapter on
 // forecasting with transfer-function models.
-func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSettings) (*Forecast, error) {
+func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSettings) (_ *Forecast, err error) {
+	defer setOp("tf.Estimate.Forecast", &err)
+	defer errs.Recover("tf.Estimate.Forecast", &err)
 	var set ForecastSettings
 	if s != nil {
 		set = *s
 	}
 	if h < 1 {
-		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at least 1"}
+		return nil, settingErr("h", strconv.Itoa(h), "the horizon must be at least 1")
 	}
 	if h > MaxHorizon {
-		return nil, &ArgError{Arg: "h", Value: float64(h), Rule: "must be at most tf.MaxHorizon (" + strconv.Itoa(MaxHorizon) + " steps)"}
+		return nil, settingErr("h", strconv.Itoa(h), "the horizon must be at most tf.MaxHorizon ("+strconv.Itoa(MaxHorizon)+" steps)")
 	}
 	if err := chkEstimateUsable("Forecast", e); err != nil {
 		return nil, err
 	}
 	if math.IsNaN(e.Sigma2) || math.IsInf(e.Sigma2, 0) || e.Sigma2 < 0 {
-		return nil, &EstimateError{Func: "Forecast", Field: "Sigma2", Value: e.Sigma2, Problem: "the noise variance must be zero or positive and finite"}
+		return nil, estimateErr("Sigma2", e.Sigma2, "the noise variance must be zero or positive and finite")
 	}
 	if err := set.validate(e.Model, h); err != nil {
 		return nil, err
@@ -260,7 +285,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	w.resid()
 	for t := w.cond.First; t < w.n; t++ {
 		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, &NonFiniteResultError{Func: "Forecast", Series: "residuals", Index: t, Value: v, Hint: chkDivergeHint(e)}
+			return nil, overflowErr("residuals", t, v, chkDivergeHint(e))
 		}
 	}
 	n := w.n
@@ -271,7 +296,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	psiDen := poly.Mul(w.arC, dc)
 	psi, err := poly.Divide(w.maC, psiDen, h)
 	if err != nil {
-		return nil, &StageError{Func: "Forecast", Stage: "psi weights of the noise model", Err: err}
+		return nil, &errs.ModelError{Part: "noise of the estimate", Problem: "its psi weights do not exist (" + err.Error() + "): the noise AR polynomial times the differencing must have a non-zero constant term", Err: err}
 	}
 	vr := make([]float64, h)
 	acc := 0.0
@@ -309,9 +334,9 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			if !ok {
 				yw, err := arma.YuleWalker(fi.z[fi.d:], 0)
 				if err != nil {
-					return nil, &StageError{Func: "Forecast", Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", in.Series), Err: err}
+					return nil, &StageError{Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", in.Series), Err: err}
 				}
-				im = InputModel{AR: yw.Poly(), MA: []float64{1}, Mean: yw.Mean, Sigma2: yw.Var}
+				im = InputModel{AR: yw.Poly(), MA: []float64{1}, C: yw.Mean, Sigma2: yw.Var}
 			}
 			if len(im.AR) == 0 {
 				im.AR = []float64{1}
@@ -331,8 +356,8 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 				}
 				xe[t] = v / dx[0]
 				if math.IsNaN(xe[t]) || math.IsInf(xe[t], 0) {
-					return nil, &NonFiniteResultError{Func: "Forecast", Series: "forecast of input " + strconv.Quote(in.Series), Index: t, Value: xe[t],
-						Hint: "the input's forecast overflowed float64; give its future in ForecastSettings.Future or a stationary model in ForecastSettings.InputModels, or shorten the horizon"}
+					return nil, overflowErr("forecast of input "+strconv.Quote(in.Series), t, xe[t],
+						"the input's forecast overflowed float64; give its future in ForecastSettings.Future or a stationary model in ForecastSettings.InputModels, or shorten the horizon")
 				}
 			}
 			// Input forecast errors through omega B^b MA/(delta AR D).
@@ -340,7 +365,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			den := poly.Mul(poly.Mul(fi.denC, im.AR), dc)
 			ps, err := poly.Divide(num, den, h)
 			if err != nil {
-				return nil, &StageError{Func: "Forecast", Stage: fmt.Sprintf("psi weights of input %q", in.Series), Err: err}
+				return nil, &errs.ModelError{Part: "input " + strconv.Quote(in.Series), Problem: "the psi weights of its forecast errors do not exist (" + err.Error() + "): its denominator, its input model's AR and the differencing must have non-zero constant terms", Err: err}
 			}
 			acc := 0.0
 			for j := 0; j < h; j++ {
@@ -403,8 +428,8 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			v    float64
 		}{{"forecast mean", fc.Mean[j]}, {"forecast standard error", fc.SE[j]}, {"lower forecast limit", fc.Lower[j]}, {"upper forecast limit", fc.Upper[j]}} {
 			if math.IsNaN(r.v) || math.IsInf(r.v, 0) {
-				return nil, &NonFiniteResultError{Func: "Forecast", Series: r.name, Index: n + j, Value: r.v,
-					Hint: fmt.Sprintf("the forecast overflowed float64 at step %d; %s", j+1, chkDivergeHint(e))}
+				return nil, overflowErr(r.name, n+j, r.v,
+					fmt.Sprintf("the forecast overflowed float64 at step %d; %s", j+1, chkDivergeHint(e)))
 			}
 		}
 	}
@@ -434,7 +459,7 @@ func fcARMA(z []float64, d int, im InputModel, h int) []float64 {
 	n := len(z)
 	zc := make([]float64, n+h)
 	for t := d; t < n; t++ {
-		zc[t] = z[t] - im.Mean
+		zc[t] = z[t] - im.C
 	}
 	e := make([]float64, n+h)
 	filter.Run(e[d:n], im.AR, im.MA, zc[d:n])
@@ -448,7 +473,7 @@ func fcARMA(z []float64, d int, im InputModel, h int) []float64 {
 			v += im.MA[k] * e[t-k]
 		}
 		zc[t] = v / im.AR[0]
-		out[t-n] = zc[t] + im.Mean
+		out[t-n] = zc[t] + im.C
 	}
 	return out
 }

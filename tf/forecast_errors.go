@@ -1,31 +1,14 @@
 package tf
 
 import (
-	"fmt"
 	"math"
 	"math/cmplx"
 	"strconv"
 	"strings"
 
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/poly"
 )
-
-// InputModelError reports an input model given to Forecast
-// (ForecastSettings.InputModels) that cannot forecast its input: Input
-// names the input, Field the field at fault ("Sigma2", "Mean", "AR[1]",
-// "MA", ...), Value its value (the largest root magnitude |z| for a
-// root problem) and Rule what it must satisfy.
-type InputModelError struct {
-	Input string
-	Field string
-	Value float64
-	Rule  string
-}
-
-// Error describes the problem in one line.
-func (e *InputModelError) Error() string {
-	return fmt.Sprintf("tf: Forecast: ForecastSettings.InputModels[%q].%s = %v: %s", e.Input, e.Field, e.Value, e.Rule)
-}
 
 // fcRootTol is the margin beyond the unit circle within which an input
 // model's AR root counts as on it (a unit root, integration), not
@@ -40,7 +23,7 @@ const fcRootTol = 1e-6
 const fcMaxModelDegree = 1000
 
 // validate reports what makes im unusable for forecasting input name.
-// The rules: Sigma2 finite and not negative; Mean finite; AR and MA
+// The rules: Sigma2 finite and not negative; C finite; AR and MA
 // coefficients finite with a non-zero constant term, degree at most
 // 1000; the MA invertible
 // (every zero |z| < 1, otherwise the innovations recursion, started
@@ -49,13 +32,13 @@ const fcMaxModelDegree = 1000
 // on it, integration, is allowed).
 func (im InputModel) validate(name string) error {
 	bad := func(field string, v float64, rule string) error {
-		return &InputModelError{Input: name, Field: field, Value: v, Rule: rule}
+		return settingErr("ForecastSettings.InputModels["+strconv.Quote(name)+"]."+field, fmtF(v), rule)
 	}
 	if math.IsNaN(im.Sigma2) || math.IsInf(im.Sigma2, 0) || im.Sigma2 < 0 {
 		return bad("Sigma2", im.Sigma2, "the innovation variance must be zero or positive and finite")
 	}
-	if math.IsNaN(im.Mean) || math.IsInf(im.Mean, 0) {
-		return bad("Mean", im.Mean, "the mean must be a finite number")
+	if math.IsNaN(im.C) || math.IsInf(im.C, 0) {
+		return bad("C", im.C, "the constant c must be a finite number")
 	}
 	for _, p := range []struct {
 		field string
@@ -101,27 +84,20 @@ func (im InputModel) validate(name string) error {
 	return nil
 }
 
-// UnknownInputError reports a settings map keyed by input name (such as
+// unknownInputErr reports a settings map keyed by input name (such as
 // ForecastSettings.Future, ForecastSettings.InputModels,
-// IdentifySettings.InputDiff) holding a name that is not an input:
-// Setting names the map, Name the key and Inputs the inputs there are.
+// IdentifySettings.InputDiff) holding a name that is not an input, as a
+// *SeriesError of kind ErrName naming the map and the inputs there are.
 // It usually means a misspelt name, which would otherwise leave the
 // input to its default silently.
-type UnknownInputError struct {
-	Setting string
-	Name    string
-	Inputs  []string
-}
-
-// Error describes the problem in one line.
-func (e *UnknownInputError) Error() string {
-	q := make([]string, len(e.Inputs))
-	for i, s := range e.Inputs {
+func unknownInputErr(setting, name string, inputs []string) error {
+	q := make([]string, len(inputs))
+	for i, s := range inputs {
 		q[i] = strconv.Quote(s)
 	}
 	have := "there are no inputs"
 	if len(q) > 0 {
 		have = "the inputs are " + strings.Join(q, ", ")
 	}
-	return fmt.Sprintf("tf: %s names %q, which is not an input (%s); check the spelling", e.Setting, e.Name, have)
+	return seriesErr(name, errs.ErrName, 0, 0, "named in "+setting+", it is not an input ("+have+"); check the spelling")
 }

@@ -3,6 +3,7 @@ package tf
 import (
 	"context"
 	"errors"
+	"github.com/backshift/backshift/internal/errs"
 	"math"
 	"testing"
 
@@ -91,18 +92,20 @@ func TestForecastRandomWalk(t *testing.T) {
 // TestForecastErrors checks the typed errors of Forecast.
 func TestForecastErrors(t *testing.T) {
 	est, data := fitMCEstimate(t)
-	if _, err := est.Forecast(data, 0, nil); !errors.As(err, new(*ArgError)) {
+	if _, err := est.Forecast(data, 0, nil); !errors.As(err, new(*SettingError)) || err.Error() != "tf.Estimate.Forecast: h = 0: the horizon must be at least 1" {
 		t.Errorf("h = 0: %v", err)
 	}
-	if _, err := est.Forecast(data, 3, &ForecastSettings{Level: 1.5}); !errors.As(err, new(*ArgError)) {
+	if _, err := est.Forecast(data, 3, &ForecastSettings{Level: 1.5}); !errors.As(err, new(*SettingError)) ||
+		err.Error() != "tf.Estimate.Forecast: ForecastSettings.Level = 1.5: must lie strictly between 0 and 1 (0 means 0.95)" {
 		t.Errorf("level 1.5: %v", err)
 	}
-	var fe *FitError
+	var fe *SeriesError
 	_, err := est.Forecast(data, 5, &ForecastSettings{Future: map[string][]float64{"x": {1, 2}}})
-	if !errors.As(err, &fe) || fe.Problem != BadFuture || fe.Len != 2 || fe.Want != 5 {
+	if !errors.As(err, &fe) || !errors.Is(err, ErrShort) || fe.Series != "x" || fe.Have != 2 || fe.Need != 5 ||
+		err.Error() != `tf.Estimate.Forecast: series "x": 2 samples, at least 5 needed (its values in ForecastSettings.Future: one is needed for every step of the horizon)` {
 		t.Errorf("short future: %v", err)
 	}
-	var se *SampleError
+	var se *errs.SampleError
 	_, err = est.Forecast(data, 2, &ForecastSettings{Future: map[string][]float64{"x": {1, math.NaN()}}})
 	if !errors.As(err, &se) || se.Index != 1 || se.Series != "future x" {
 		t.Errorf("NaN future: %v", err)
@@ -156,7 +159,7 @@ func TestForecastARMAInput(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	im := InputModel{AR: ar.Model.ARPoly(), MA: ar.Model.MAPoly(), Mean: ar.Model.Mean, Sigma2: ar.Model.Sigma2}
+	im := InputModel{AR: ar.Model.ARPoly(), MA: ar.Model.MAPoly(), C: ar.Model.Mean, Sigma2: ar.Model.Sigma2}
 	fc, err := est.Forecast(data, h, &ForecastSettings{InputModels: map[string]InputModel{"x": im}})
 	if err != nil {
 		t.Fatal(err)

@@ -2,6 +2,7 @@ package tf
 
 import (
 	"errors"
+	"github.com/backshift/backshift/internal/errs"
 	"math"
 	"strings"
 	"testing"
@@ -57,7 +58,7 @@ func TestForecastIntegratingInput(t *testing.T) {
 // accepted.
 func TestForecastInputModelErrors(t *testing.T) {
 	est, data := fitMCEstimate(t)
-	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, Mean: 0, Sigma2: 1}
+	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, C: 0, Sigma2: 1}
 	with := func(f func(*InputModel)) map[string]InputModel {
 		m := ok
 		m.AR = append([]float64(nil), ok.AR...)
@@ -74,8 +75,8 @@ func TestForecastInputModelErrors(t *testing.T) {
 		{"negative variance", with(func(m *InputModel) { m.Sigma2 = -1 }), "Sigma2", "must be zero or positive and finite"},
 		{"NaN variance", with(func(m *InputModel) { m.Sigma2 = math.NaN() }), "Sigma2", "must be zero or positive and finite"},
 		{"infinite variance", with(func(m *InputModel) { m.Sigma2 = math.Inf(1) }), "Sigma2", "must be zero or positive and finite"},
-		{"infinite mean", with(func(m *InputModel) { m.Mean = math.Inf(-1) }), "Mean", "must be a finite number"},
-		{"NaN mean", with(func(m *InputModel) { m.Mean = math.NaN() }), "Mean", "must be a finite number"},
+		{"infinite constant", with(func(m *InputModel) { m.C = math.Inf(-1) }), "C", "the constant c must be a finite number"},
+		{"NaN constant", with(func(m *InputModel) { m.C = math.NaN() }), "C", "the constant c must be a finite number"},
 		{"NaN AR", with(func(m *InputModel) { m.AR[1] = math.NaN() }), "AR[1]", "must be a finite number"},
 		{"huge MA", with(func(m *InputModel) { m.MA = []float64{1, 1e209} }), "MA[1]", "must be a finite number"},
 		{"zero AR constant", with(func(m *InputModel) { m.AR[0] = 0 }), "AR[0]", "constant term must not be zero"},
@@ -83,8 +84,8 @@ func TestForecastInputModelErrors(t *testing.T) {
 		{"explosive AR", with(func(m *InputModel) { m.AR = []float64{1, -1.5} }), "AR", "root outside the unit circle"},
 	} {
 		_, err := est.Forecast(data, 5, &ForecastSettings{InputModels: tc.ims})
-		var ie *InputModelError
-		if !errors.As(err, &ie) || ie.Input != "x" || ie.Field != tc.field || !strings.Contains(err.Error(), tc.rule) ||
+		var ie *SettingError
+		if !errors.As(err, &ie) || ie.Setting != `ForecastSettings.InputModels["x"].`+tc.field || !strings.Contains(err.Error(), tc.rule) ||
 			!strings.Contains(err.Error(), `ForecastSettings.InputModels["x"].`+tc.field) {
 			t.Errorf("%s: %v", tc.name, err)
 		}
@@ -92,34 +93,36 @@ func TestForecastInputModelErrors(t *testing.T) {
 	if fc, err := est.Forecast(data, 5, &ForecastSettings{InputModels: with(func(m *InputModel) { m.AR = []float64{1, -1} })}); err != nil || fc == nil {
 		t.Errorf("unit-root AR refused: %v", err)
 	}
-	var ue *UnknownInputError
+	var ue *SeriesError
 	_, err := est.Forecast(data, 5, &ForecastSettings{InputModels: map[string]InputModel{"xx": ok}})
-	if !errors.As(err, &ue) || ue.Name != "xx" || err.Error() != `tf: ForecastSettings.InputModels names "xx", which is not an input (the inputs are "x"); check the spelling` {
+	if !errors.As(err, &ue) || ue.Series != "xx" || !errors.Is(err, ErrName) ||
+		err.Error() != `tf.Estimate.Forecast: series "xx" is not known (named in ForecastSettings.InputModels, it is not an input (the inputs are "x"); check the spelling)` {
 		t.Errorf("unknown input model: %v", err)
 	}
 	_, err = est.Forecast(data, 5, &ForecastSettings{Future: map[string][]float64{"valve": {1, 2, 3, 4, 5}}})
-	if !errors.As(err, &ue) || ue.Setting != "ForecastSettings.Future" || ue.Name != "valve" {
+	if !errors.As(err, &ue) || !strings.Contains(ue.Detail, "ForecastSettings.Future") || ue.Series != "valve" {
 		t.Errorf("unknown future: %v", err)
 	}
-	var ae *ArgError
+	var sa *errs.SampleError
 	_, err = est.Forecast(data, 2, &ForecastSettings{Future: map[string][]float64{"x": {1, 1e200}}})
-	if !errors.As(err, &ae) || ae.Arg != `ForecastSettings.Future["x"][1]` {
+	if !errors.As(err, &sa) || sa.Series != "future x" || sa.Index != 1 || sa.Limit != FitMaxMagnitude {
 		t.Errorf("huge future: %v", err)
 	}
 	for _, lv := range []float64{-0.5, 1, math.NaN(), 2} {
 		_, err = est.Forecast(data, 2, &ForecastSettings{Level: lv})
-		if !errors.As(err, &ae) || ae.Arg != "ForecastSettings.Level" {
+		var ae *SettingError
+		if !errors.As(err, &ae) || ae.Setting != "ForecastSettings.Level" {
 			t.Errorf("level %v: %v", lv, err)
 		}
 	}
-	var ee *EstimateError
+	var ee *errs.ModelError
 	bad := *est
 	bad.Sigma2 = math.NaN()
-	if _, err = bad.Forecast(data, 2, nil); !errors.As(err, &ee) || ee.Field != "Sigma2" {
+	if _, err = bad.Forecast(data, 2, nil); !errors.As(err, &ee) || ee.Part != "estimate's Sigma2 = NaN" {
 		t.Errorf("NaN Sigma2: %v", err)
 	}
 	var nilEst *Estimate
-	if _, err = nilEst.Forecast(data, 2, nil); !errors.As(err, &ee) || ee.Field != "estimate" {
+	if _, err = nilEst.Forecast(data, 2, nil); !errors.As(err, &ee) || ee.Part != "estimate" || ee.Op != "tf.Estimate.Forecast" {
 		t.Errorf("nil estimate: %v", err)
 	}
 }
@@ -127,7 +130,8 @@ func TestForecastInputModelErrors(t *testing.T) {
 // TestForecastOverflow sets the estimated denominator of a fit to a pole
 // at z = 1.5 (unstable): the residuals over the 300 samples stay finite
 // (1.5^300 is about 1e53) but a 2000-step forecast grows as 1.5^2000,
-// beyond float64. Forecast must return a *NonFiniteResultError naming
+// beyond float64. Forecast must return a *SeriesError of kind
+// ErrOverflow naming
 // the step, never NaN or infinite numbers with a nil error.
 func TestForecastOverflow(t *testing.T) {
 	est, data := fitMCEstimate(t)
@@ -135,8 +139,8 @@ func TestForecastOverflow(t *testing.T) {
 	bad.Model = est.Model.Clone()
 	bad.Model.Inputs[0].Den.Factors[0].Terms[1].Coef.Value = 1.5
 	fc, err := bad.Forecast(data, 2000, &ForecastSettings{Future: map[string][]float64{"x": make([]float64, 2000)}})
-	var ne *NonFiniteResultError
-	if !errors.As(err, &ne) || fc != nil || !strings.Contains(ne.Series, "forecast") || ne.Index < 300 || !strings.Contains(err.Error(), "overflowed float64") {
+	var ne *SeriesError
+	if !errors.As(err, &ne) || !errors.Is(err, ErrOverflow) || fc != nil || !strings.Contains(ne.Series, "forecast") || !strings.Contains(ne.Detail, "at index ") || !strings.Contains(err.Error(), "overflowed float64") {
 		t.Fatalf("overflowing forecast: %v, %v", fc != nil, err)
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -11,7 +12,7 @@ import (
 )
 
 // TestHostileForecastHorizon checks that a horizon above MaxHorizon is
-// an *ArgError naming h and the limit, returned at once; before the limit
+// a *SettingError naming h and the limit, returned at once; before the limit
 // h = 1<<40 asked for terabytes of forecast series.
 func TestHostileForecastHorizon(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
@@ -24,11 +25,11 @@ func TestHostileForecastHorizon(t *testing.T) {
 	}
 	for _, h := range []int{MaxHorizon + 1, 1 << 40, math.MaxInt} {
 		fc, err := est.Forecast(data, h, nil)
-		var ae *ArgError
-		if !errors.As(err, &ae) || ae.Arg != "h" || ae.Value != float64(h) {
-			t.Fatalf("h = %d: got %v, %v; want *ArgError for h", h, fc != nil, err)
+		var ae *SettingError
+		if !errors.As(err, &ae) || ae.Setting != "h" || ae.Value != strconv.Itoa(h) {
+			t.Fatalf("h = %d: got %v, %v; want *SettingError for h", h, fc != nil, err)
 		}
-		if msg := err.Error(); !strings.Contains(msg, "tf: h = ") || !strings.Contains(msg, "must be at most tf.MaxHorizon (1048576 steps)") {
+		if msg := err.Error(); !strings.Contains(msg, "tf.Estimate.Forecast: h = ") || !strings.Contains(msg, "must be at most tf.MaxHorizon (1048576 steps)") {
 			t.Errorf("h = %d: message %q", h, msg)
 		}
 	}

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"runtime/debug"
 	"sort"
 	"strconv"
 	"strings"
@@ -13,6 +14,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/prewhiten"
 )
@@ -26,7 +28,7 @@ type IdentifySettings struct {
 	// InputDiff gives the differencing of each input by name; an input
 	// without an entry is differenced like the output (the usual
 	// practice, so that both sides of the model are stationary). A name
-	// that is not an input is an *UnknownInputError. Every differencing
+	// that is not an input is a *SeriesError of kind ErrName. Every differencing
 	// operator (OutputDiff too) must have finite coefficients, constant
 	// term 1 and a degree below half the record.
 	InputDiff map[string][]float64
@@ -45,7 +47,7 @@ type IdentifySettings struct {
 	//
 	// The rule for every number of IdentifySettings: zero means the
 	// default; a negative count (MaxLag, Forms, NoiseOrders,
-	// MaxCandidates, Workers) is an *ArgError naming the field, while a
+	// MaxCandidates, Workers) is a *SettingError naming the field, while a
 	// negative order bound (MaxR, MaxS, MaxP, MaxQ) means order zero
 	// only, as in packages ccf and prewhiten.
 	MaxP, MaxQ int
@@ -82,25 +84,30 @@ type IdentifySettings struct {
 	Check *CheckSettings
 }
 
-// Candidate is one model proposed and fitted by Identify.
-type Candidate struct {
+// FittedCandidate is one model structure proposed by Identify, fitted
+// and checked, with its place in the ranking.
+type FittedCandidate struct {
 	// Rank is the position in the ranking, 1 for the best.
 	Rank int
-	// Model is the model as proposed, start values from the
-	// identification as the free coefficients' values.
-	Model Model
+	// Structure is the model as proposed: its dead times, orders and
+	// coefficient names, the free coefficients holding the start values
+	// the identification gave them. The fitted model, with the
+	// estimates, is Estimate.Model.
+	Structure Model
 	// Estimate is the fit (nil when Err is not nil) and Diagnostics its
 	// checks (nil when they could not run; CheckErr says why).
 	Estimate    *Estimate
 	Diagnostics *Diagnostics
 	CheckErr    error
-	// Score is the criterion (BIC, or AIC with ByAIC) of the fit, +Inf
-	// when the fit failed.
-	Score float64
+	// Criterion names the ranking criterion, "BIC" (or "AIC" with
+	// IdentifySettings.ByAIC), and Score is its value for this fit,
+	// +Inf when the fit failed; lower is better.
+	Criterion string
+	Score     float64
 	// Err is the fit's error, nil on success: a typed error of Fit, a
-	// *ScoreError when the criterion is not a finite number (so that
-	// such a fit is never ranked first), a *PanicError when the fit or
-	// its checks panicked, or ctx's error. Candidates with an Err are
+	// *ModelError when the criterion is not a finite number (so that
+	// such a fit is never ranked first), an *InternalError when the fit
+	// or its checks panicked, or ctx's error. Candidates with an Err are
 	// ranked last, their reason kept here.
 	Err error
 	// Identification holds, per input, what the identification saw:
@@ -111,41 +118,39 @@ type Candidate struct {
 }
 
 // Label describes the candidate's structure in a few words, for
-// example "valve b=3 (r=1, s=0); outdoor b=1 (r=1, s=0); noise ARMA(1, 1)".
-func (c Candidate) Label() string {
-	var b strings.Builder
-	for i, in := range c.Model.Inputs {
-		if i > 0 {
-			b.WriteString("; ")
-		}
-		fmt.Fprintf(&b, "%s b=%d (r=%d, s=%d)", in.Series, in.Delay, in.Den.Degree(), in.Num.Degree())
+// example "valve (b=3, r=1, s=0), outdoor (b=1, r=1, s=0), noise
+// ARMA(1, 1)" (see StructureLabel).
+func (c FittedCandidate) Label() string { return StructureLabel(c.Structure) }
+
+// StructureLabel describes the structure of m in a few words, the one
+// spelling the library and its examples use for a structure: per input
+// its dead time b and the degrees r of its denominator and s of its
+// numerator, as "valve (b=3, r=1, s=0)", then the noise orders as
+// "noise ARMA(p, q)" (white noise is "noise ARMA(0, 0)"; a model without
+// a noise term says "no noise term"), separated by ", ".
+func StructureLabel(m Model) string {
+	var parts []string
+	for _, in := range m.Inputs {
+		parts = append(parts, fmt.Sprintf("%s (b=%d, r=%d, s=%d)", in.Series, in.Delay, in.Den.Degree(), in.Num.Degree()))
 	}
-	if c.Model.Noise != nil {
-		p, q := c.Model.Noise.AR.Degree(), c.Model.Noise.MA.Degree()
-		if len(c.Model.Inputs) > 0 {
-			b.WriteString("; ")
-		}
-		switch {
-		case p == 0 && q == 0:
-			b.WriteString("white noise")
-		case q == 0:
-			fmt.Fprintf(&b, "noise AR(%d)", p)
-		case p == 0:
-			fmt.Fprintf(&b, "noise MA(%d)", q)
-		default:
-			fmt.Fprintf(&b, "noise ARMA(%d, %d)", p, q)
-		}
+	noise := "no noise term"
+	if m.Noise != nil {
+		noise = fmt.Sprintf("noise ARMA(%d, %d)", m.Noise.AR.Degree(), m.Noise.MA.Degree())
 	}
-	return b.String()
+	return strings.Join(append(parts, noise), ", ")
 }
 
-// String returns a one-line summary followed by the fit's and the
-// checks' reports.
-func (c Candidate) String() string {
+// String returns a one-line summary (rank, criterion by name and value,
+// structure) followed by the fit's and the checks' reports.
+func (c FittedCandidate) String() string {
 	if c.Err != nil || c.Estimate == nil {
 		return fmt.Sprintf("#%d %s\n  fit failed: %v\n", c.Rank, c.Label(), c.Err)
 	}
-	s := fmt.Sprintf("#%d score %.2f  %s\n", c.Rank, c.Score, c.Label()) + c.Estimate.String()
+	crit := c.Criterion
+	if crit == "" {
+		crit = "criterion"
+	}
+	s := fmt.Sprintf("#%d %s %.2f  %s\n", c.Rank, crit, c.Score, c.Label()) + c.Estimate.String()
 	if c.Diagnostics != nil {
 		s += c.Diagnostics.String()
 	} else if c.CheckErr != nil {
@@ -176,12 +181,15 @@ func (c Candidate) String() string {
 // Coefficients are named w0.., d1.. (with the input name and "_" before
 // them when there are several inputs), phi1.., theta1.. and c.
 //
-// Errors: the data errors of Fit; *ArgError for a sample above 1e140
-// in magnitude or a series that varies by less than 1e-140 (rescale
-// it); *InputListError for an input listed
-// twice, empty or equal to the output; *ArgError or
-// *UnknownInputError for a bad setting (see IdentifySettings);
-// *ConstantSeriesError naming the series when the output or an input is
+// Errors (the shared shapes, Op "tf.Identify"): the data errors of Fit;
+// a *SampleError for a sample above 1e140 in magnitude and a
+// *SeriesError of kind ErrConstant for a series that varies by less
+// than 1e-140 (rescale it); a *SeriesError of kind ErrName for an input
+// listed twice, empty or equal to the output, or a name a spec cannot
+// hold; a *SettingError (or a *SeriesError of kind ErrName for an
+// InputDiff entry that is not an input) for a bad setting (see
+// IdentifySettings); a *SeriesError of kind ErrConstant naming the
+// series when the output or an input is
 // constant (after its differencing); *StageError wrapping the errors of
 // packages prewhiten and ccf, with the step and series in the caller's
 // words, when an input shows no response (*ccf.NoResponseError) or a
@@ -190,10 +198,11 @@ func (c Candidate) String() string {
 // error with the candidates fitted so far (ranked, possibly none). A
 // prewhitening filter that leaves the input visibly coloured does not
 // stop the identification.
-func Identify(ctx context.Context, output string, inputs []string, data map[string][]float64, s *IdentifySettings) (cands []Candidate, err error) {
+func Identify(ctx context.Context, output string, inputs []string, data map[string][]float64, s *IdentifySettings) (cands []FittedCandidate, err error) {
+	defer setOp("tf.Identify", &err)
 	defer func() {
 		if r := recover(); r != nil {
-			cands, err = nil, &PanicError{Stage: "identifying " + strconv.Quote(output), Value: r}
+			cands, err = nil, &errs.InternalError{Op: "tf.Identify", Value: r, Stack: debug.Stack()}
 		}
 	}()
 	var set IdentifySettings
@@ -206,7 +215,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if err := idfValidate(output, inputs, data); err != nil {
 		return nil, err
 	}
-	if err := set.validate(inputs, len(data[output])); err != nil {
+	if err := set.validate(append([]string{}, inputs...), len(data[output])); err != nil {
 		return nil, err
 	}
 	idfDefault := func(v *int, d int) {
@@ -227,7 +236,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	y := data[output]
 	n := len(y)
 	if v, ok := chkConstant(y, set.OutputDiff); ok {
-		return nil, &ConstantSeriesError{Func: "Identify", Series: output, Role: "output", Value: v, Diff: chkDiffText(set.OutputDiff)}
+		return nil, constantErr(output, "output", v, chkDiffText(set.OutputDiff))
 	}
 	maxLag := set.MaxLag
 	if maxLag <= 0 {
@@ -251,7 +260,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		}
 		diffs[i] = diff
 		if v, ok := chkConstant(data[name], diff); ok {
-			return nil, &ConstantSeriesError{Func: "Identify", Series: name, Role: "input", Value: v, Diff: chkDiffText(diff)}
+			return nil, constantErr(name, "input", v, chkDiffText(diff))
 		}
 	}
 	var joint []*ccf.Weights
@@ -261,7 +270,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		var err error
 		joint, err = idfJointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
 		if err != nil {
-			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: idfInner(err)}
+			return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err}
 		}
 	}
 	var ids []*ccf.Identification
@@ -274,11 +283,11 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
 			var nw *prewhiten.NotWhiteError
 			if err != nil && !errors.As(err, &nw) {
-				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: idfInner(err)}
+				return nil, &StageError{Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err}
 			}
 			w, err = ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
 			if err != nil {
-				return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: idfInner(err)}
+				return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err}
 			}
 		}
 		penalty := math.Log(float64(n)) // BIC-like weight, as the final ranking
@@ -287,7 +296,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		}
 		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Penalty: penalty})
 		if err != nil {
-			return nil, &StageError{Func: "Identify", Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: idfInner(err)}
+			return nil, &StageError{Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err}
 		}
 		ids = append(ids, id)
 		dp := Poly{}
@@ -320,10 +329,10 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if cerr := ctx.Err(); cerr != nil {
 		return nil, cerr
 	}
-	var ae *ArgError
-	if err != nil && errors.As(err, &ae) && strings.HasPrefix(ae.Arg, "FitSettings.") {
-		c := *ae
-		c.Arg = "IdentifySettings.Fit." + strings.TrimPrefix(ae.Arg, "FitSettings.")
+	var se *errs.SettingError
+	if err != nil && errors.As(err, &se) && strings.HasPrefix(se.Setting, "FitSettings.") {
+		c := *se
+		c.Setting = "IdentifySettings.Fit." + strings.TrimPrefix(se.Setting, "FitSettings.")
 		return nil, &c
 	}
 	if err == nil {
@@ -417,6 +426,8 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	for i := range out {
 		out[i].Rank = i + 1
 		out[i].Identification = ids
+		setOp("tf.Identify", &out[i].Err)
+		setOp("tf.Identify", &out[i].CheckErr)
 	}
 	if err := ctx.Err(); err != nil {
 		return out, err
@@ -455,8 +466,12 @@ func (p *idfProgress) tick() {
 
 // idfFitAll fits and checks the models on at most set.Workers
 // goroutines.
-func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *idfProgress) []Candidate {
-	out := make([]Candidate, len(models))
+func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *idfProgress) []FittedCandidate {
+	crit := "BIC"
+	if set.ByAIC {
+		crit = "AIC"
+	}
+	out := make([]FittedCandidate, len(models))
 	var wg sync.WaitGroup
 	sem := make(chan struct{}, set.Workers)
 	for k := range models {
@@ -470,18 +485,20 @@ func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, f
 				// must not kill the process either.
 				defer func() {
 					if r := recover(); r != nil {
-						out[k] = Candidate{Model: models[k], Score: math.Inf(1), Err: &PanicError{Stage: "calling IdentifySettings.Progress", Value: r}}
+						out[k] = FittedCandidate{Structure: models[k], Criterion: crit, Score: math.Inf(1),
+							Err: &errs.InternalError{Op: "tf.Identify", Value: fmt.Sprint("calling IdentifySettings.Progress: ", r), Stack: debug.Stack()}}
 					}
 				}()
 				prog.tick()
 			}()
-			c := Candidate{Model: models[k], Score: math.Inf(1)}
+			c := FittedCandidate{Structure: models[k], Criterion: crit, Score: math.Inf(1)}
 			stage := "fitting candidate " + c.Label()
 			// The last line of defence: a panic in this goroutine would
 			// kill the caller's process.
 			defer func() {
 				if r := recover(); r != nil {
-					out[k] = Candidate{Model: models[k], Score: math.Inf(1), Err: &PanicError{Stage: stage, Value: r}}
+					out[k] = FittedCandidate{Structure: models[k], Criterion: crit, Score: math.Inf(1),
+						Err: &errs.InternalError{Op: "tf.Identify", Value: fmt.Sprint(stage, ": ", r), Stack: debug.Stack()}}
 				}
 			}()
 			if err := ctx.Err(); err != nil {
@@ -496,12 +513,12 @@ func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, f
 				out[k] = c
 				return
 			}
-			crit, score := "BIC", est.BIC
+			score := est.BIC
 			if set.ByAIC {
-				crit, score = "AIC", est.AIC
+				score = est.AIC
 			}
 			if math.IsNaN(score) || math.IsInf(score, 0) {
-				c.Err = &ScoreError{Criterion: crit, Value: score}
+				c.Err = scoreErr(c.Label(), crit, score)
 				out[k] = c
 				return
 			}
@@ -521,8 +538,8 @@ func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, f
 var idfFit = Fit
 
 // idfBest returns the candidate with the lowest score, nil if none fitted.
-func idfBest(cs []Candidate) *Candidate {
-	var b *Candidate
+func idfBest(cs []FittedCandidate) *FittedCandidate {
+	var b *FittedCandidate
 	for i := range cs {
 		if cs[i].Err == nil && (b == nil || cs[i].Score < b.Score) {
 			b = &cs[i]
@@ -641,49 +658,47 @@ func idfSpecName(s string) bool {
 // idfValidate checks presence, lengths and finiteness of the series.
 func idfValidate(output string, inputs []string, data map[string][]float64) error {
 	if output == "" {
-		return &FitError{Problem: NoOutput}
+		return seriesErr(output, errs.ErrName, 0, 0, "the output is not named; name the output series")
 	}
 	y, ok := data[output]
 	if !ok {
-		return &FitError{Problem: MissingSeries, Series: output, Detail: "output"}
+		return seriesErr(output, errs.ErrName, 0, 0, "the output is not in the data; check the series names")
 	}
 	if !idfSpecName(output) {
-		return &SeriesNameError{Name: output, Role: "output"}
+		return specNameErr(output, "output")
 	}
 	seen := map[string]bool{}
 	for _, name := range inputs {
 		switch {
 		case name != "" && !idfSpecName(name):
-			return &SeriesNameError{Name: name, Role: "input"}
+			return specNameErr(name, "input")
 		case name == "":
-			return &InputListError{Name: name, Problem: "is empty; name each input series"}
+			return seriesErr(name, errs.ErrName, 0, 0, "an entry of the inputs is empty; name each input series")
 		case name == output:
-			return &InputListError{Name: name, Problem: "is the output; an output cannot be its own input"}
+			return seriesErr(name, errs.ErrName, 0, 0, "listed among the inputs, it is the output; an output cannot be its own input")
 		case seen[name]:
-			return &InputListError{Name: name, Problem: "is listed twice"}
+			return seriesErr(name, errs.ErrName, 0, 0, "it is listed twice among the inputs")
 		}
 		seen[name] = true
 	}
 	for _, name := range append([]string{output}, inputs...) {
 		x, ok := data[name]
 		if !ok {
-			return &FitError{Problem: MissingSeries, Series: name, Detail: "input"}
+			return seriesErr(name, errs.ErrName, 0, 0, "an input is not in the data; check the series names")
 		}
 		if len(x) != len(y) {
-			return &FitError{Problem: UnequalLengths, Series: name, Len: len(x), Want: len(y)}
+			return seriesErr(name, errs.ErrLength, len(x), len(y), "the length of the output "+strconv.Quote(output)+"; every series has one length")
 		}
 		for t, v := range x {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &SampleError{Series: name, Index: t, Value: v}
+				return &errs.SampleError{Series: name, Index: t, Value: v}
 			}
 			if math.Abs(v) > idfMaxMagnitude {
-				return &ArgError{Arg: fmt.Sprintf("%s[%d]", name, t), Value: v,
-					Rule: "magnitude above 1e140: the correlations of the identification would overflow; rescale the series (change its units)"}
+				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: idfMaxMagnitude}
 			}
 		}
 		if lo, hi := fcRange(x); hi > lo && hi-lo < idfMinSpread {
-			return &ArgError{Arg: fmt.Sprintf("series %q", name), Value: hi - lo,
-				Rule: "varies by less than 1e-140 (the range shown): the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)"}
+			return seriesErr(name, errs.ErrConstant, 0, 0, "it varies by only "+fmtF(hi-lo)+", less than 1e-140: the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)")
 		}
 	}
 	return nil

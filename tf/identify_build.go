@@ -1,13 +1,10 @@
 package tf
 
 import (
-	"errors"
 	"strconv"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
-	"github.com/backshift/backshift/internal/errs"
-	"github.com/backshift/backshift/prewhiten"
 )
 
 // The conversion of Identify from the numbers packages ccf and prewhiten
@@ -61,40 +58,4 @@ func idfNoise(p, q int) *arma.Noise {
 		return Poly{Factors: []Factor{f}}
 	}
 	return &arma.Noise{MA: mk("theta", q), AR: mk("phi", p)}
-}
-
-// idfInner applies the Op rule to an error of packages ccf and prewhiten
-// met inside Identify: the function the caller called is tf.Identify, so
-// the shared shapes and the packages' own evidence types found in err
-// name it. It returns err.
-func idfInner(err error) error {
-	if err == nil {
-		return nil
-	}
-	const op = "tf.Identify"
-	var a *errs.SampleError
-	if errors.As(err, &a) {
-		a.Op = op
-	}
-	var b *errs.SeriesError
-	if errors.As(err, &b) {
-		b.Op = op
-	}
-	var c *errs.SettingError
-	if errors.As(err, &c) {
-		c.Op = op
-	}
-	var d *errs.ModelError
-	if errors.As(err, &d) {
-		d.Op = op
-	}
-	var e *ccf.NoResponseError
-	if errors.As(err, &e) {
-		e.Op = op
-	}
-	var f *prewhiten.NotWhiteError
-	if errors.As(err, &f) {
-		f.Op = op
-	}
-	return err
 }

@@ -77,11 +77,4 @@ func TestIdfInnerOp(t *testing.T) {
 	if !errors.As(err, &nr) || nr.Op != "tf.Identify" || nr.Input != "valve" || !errors.Is(err, ErrModel) {
 		t.Errorf("no response: %T %v", err, err)
 	}
-	if err := idfInner(nil); err != nil {
-		t.Errorf("idfInner(nil) = %v", err)
-	}
-	se := &SeriesError{Op: "ccf.Cross", Series: "valve", Kind: ErrShort}
-	if err := idfInner(se); err != se || se.Op != "tf.Identify" {
-		t.Errorf("idfInner kept Op %q", se.Op)
-	}
 }

@@ -1,71 +1,45 @@
 package tf
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 )
 
-// InputListError reports a list of inputs given to Identify that cannot
-// be used: Name is the entry at fault and Problem says why (listed
-// twice, the output itself, empty).
-type InputListError struct {
-	Name    string
-	Problem string
+// specNameErr reports a series name given to Identify that a model spec
+// cannot hold (the candidates print as specs and are read back by
+// package parse), as a *SeriesError of kind ErrName: role is "output"
+// or "input".
+func specNameErr(name, role string) error {
+	return seriesErr(name, errs.ErrName, 0, 0, "the "+role+" series name cannot be written in a model spec: "+
+		"use an ASCII letter or underscore, then letters, digits or underscores, not one of B, a, AR, MA, ARMA, where, every (rename the series)")
 }
 
-// Error describes the problem in one line.
-func (e *InputListError) Error() string {
-	return fmt.Sprintf("tf: Identify: inputs: %q %s", e.Name, e.Problem)
-}
-
-// SeriesNameError reports a series name given to Identify that a model
-// spec cannot hold (the candidates print as specs and are read back by
-// package parse): Role is "output" or "input".
-type SeriesNameError struct {
-	Name string
-	Role string
-}
-
-// Error describes the problem and the fix in one line.
-func (e *SeriesNameError) Error() string {
-	return fmt.Sprintf("tf: Identify: %s series name %q cannot be written in a model spec: "+
-		"use an ASCII letter or underscore, then letters, digits or underscores, not one of B, a, AR, MA, ARMA, where, every (rename the series)", e.Role, e.Name)
-}
-
-// ScoreError is the Err of a Candidate whose fit succeeded but whose
+// scoreErr is the Err of a candidate whose fit succeeded but whose
 // ranking criterion (BIC, or AIC) is not a finite number, which would
 // otherwise rank it first (-Inf) or anywhere (NaN): typically a sum of
-// squares of zero, a model that reproduces the output exactly.
-type ScoreError struct {
-	Criterion string
-	Value     float64
+// squares of zero, a model that reproduces the output exactly. It is a
+// *ModelError.
+func scoreErr(label, criterion string, v float64) error {
+	return modelErr("candidate "+label, "its "+criterion+" is "+fmtF(v)+", not a finite number (a zero or overflowing sum of squares); it is not ranked")
 }
 
-// Error describes the problem in one line.
-func (e *ScoreError) Error() string {
-	return fmt.Sprintf("tf: Identify: the candidate's %s is %v, not a finite number (a zero or overflowing sum of squares); it is not ranked", e.Criterion, e.Value)
+// Validate checks the settings by the library's settings rule and the
+// rules of IdentifySettings' fields (see its doc), and returns a
+// *SettingError naming the field ("IdentifySettings.MaxLag",
+// "IdentifySettings.Fit.MaxIter"), or nil. What needs the data (an
+// InputDiff entry that is not an input, a differencing degree against
+// the record's length) is checked by Identify.
+func (s IdentifySettings) Validate() (err error) {
+	defer setOp("tf.IdentifySettings.Validate", &err)
+	return s.validate(nil, -1)
 }
 
-// PanicError is the Err of a Candidate whose fit or check panicked: a
-// fault of the library, caught at the boundary of the goroutine that ran
-// it so that the caller's process survives. Stage says what was being
-// done and Value is what the panic carried. Please report it.
-type PanicError struct {
-	Stage string
-	Value any
-}
-
-// Error describes the problem in one line.
-func (e *PanicError) Error() string {
-	return fmt.Sprintf("tf: Identify: internal error while %s: %v (a library fault; please report it)", e.Stage, e.Value)
-}
-
-// validate reports a bad setting of Identify as an *ArgError naming the
-// field (or an *UnknownInputError for an InputDiff entry that is not an
-// input). The rule: zero means the default for every number; a negative
+// validate reports a bad setting of Identify as a *SettingError naming
+// the field (or a *SeriesError of kind ErrName for an InputDiff entry
+// that is not an input). The rule: zero means the default for every number; a negative
 // count (MaxLag, Forms, NoiseOrders, MaxCandidates, Workers) is an
 // error, while a negative order bound (MaxR, MaxS, MaxP, MaxQ) means
 // order zero only, as in packages ccf and prewhiten; MaxP and MaxQ are
@@ -73,12 +47,15 @@ func (e *PanicError) Error() string {
 // operator must have finite coefficients, constant term 1 and a degree
 // below half the record.
 func (s *IdentifySettings) validate(inputs []string, n int) error {
-	for _, c := range []struct {
-		name string
-		v    int
-	}{{"MaxLag", s.MaxLag}, {"Forms", s.Forms}, {"NoiseOrders", s.NoiseOrders}, {"MaxCandidates", s.MaxCandidates}, {"Workers", s.Workers}} {
-		if c.v < 0 {
-			return &ArgError{Arg: "IdentifySettings." + c.name, Value: float64(c.v), Rule: "must be zero (the default) or positive"}
+	for _, err := range []error{
+		errs.Count("", "IdentifySettings.MaxLag", s.MaxLag, "0 means max(10, min(36, n/6))"),
+		errs.Count("", "IdentifySettings.Forms", s.Forms, "0 means 2"),
+		errs.Count("", "IdentifySettings.NoiseOrders", s.NoiseOrders, "0 means 2"),
+		errs.Count("", "IdentifySettings.MaxCandidates", s.MaxCandidates, "0 means 24"),
+		errs.Count("", "IdentifySettings.Workers", s.Workers, "0 means GOMAXPROCS"),
+	} {
+		if err != nil {
+			return err
 		}
 	}
 	for _, c := range []struct {
@@ -86,20 +63,20 @@ func (s *IdentifySettings) validate(inputs []string, n int) error {
 		v    int
 	}{{"MaxP", s.MaxP}, {"MaxQ", s.MaxQ}} {
 		if c.v > arma.MaxLag {
-			return &ArgError{Arg: "IdentifySettings." + c.name, Value: float64(c.v), Rule: "must be at most " + strconv.Itoa(arma.MaxLag) + " (arma.MaxLag)"}
+			return settingErr("IdentifySettings."+c.name, strconv.Itoa(c.v), "must be at most "+strconv.Itoa(arma.MaxLag)+" (arma.MaxLag); 0 means 2, a negative value order zero only")
 		}
 	}
 	diff := func(arg string, c []float64) error {
 		for k, v := range c {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &ArgError{Arg: arg + "[" + strconv.Itoa(k) + "]", Value: v, Rule: "a differencing coefficient must be a finite number"}
+				return settingErr(arg+"["+strconv.Itoa(k)+"]", fmtF(v), "a differencing coefficient must be a finite number")
 			}
 		}
 		if len(c) > 0 && c[0] != 1 {
-			return &ArgError{Arg: arg + "[0]", Value: c[0], Rule: "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B"}
+			return settingErr(arg+"[0]", fmtF(c[0]), "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B")
 		}
-		if len(c) > 1 && 2*(len(c)-1) >= n {
-			return &ArgError{Arg: arg, Value: float64(len(c) - 1), Rule: "the degree of the differencing must be below half the record (" + strconv.Itoa(n) + " samples)"}
+		if n >= 0 && len(c) > 1 && 2*(len(c)-1) >= n {
+			return settingErr(arg, "degree "+strconv.Itoa(len(c)-1), "the degree of the differencing must be below half the record ("+strconv.Itoa(n)+" samples)")
 		}
 		return nil
 	}
@@ -111,18 +88,28 @@ func (s *IdentifySettings) validate(inputs []string, n int) error {
 		known[in] = true
 	}
 	for _, name := range fcSortedKeys(s.InputDiff) {
-		if !known[name] {
-			return &UnknownInputError{Setting: "IdentifySettings.InputDiff", Name: name, Inputs: inputs}
+		if inputs != nil && !known[name] {
+			return unknownInputErr("IdentifySettings.InputDiff", name, inputs)
 		}
 		if err := diff("IdentifySettings.InputDiff["+strconv.Quote(name)+"]", s.InputDiff[name]); err != nil {
 			return err
 		}
 	}
+	if s.Fit != nil {
+		if err := s.Fit.validate(); err != nil {
+			if se, ok := err.(*errs.SettingError); ok {
+				c := *se
+				c.Setting = "IdentifySettings.Fit." + se.Setting[len("FitSettings."):]
+				return &c
+			}
+			return err
+		}
+	}
 	if s.Check != nil {
 		if err := s.Check.validate(); err != nil {
-			if ae, ok := err.(*ArgError); ok {
-				c := *ae
-				c.Arg = "IdentifySettings.Check." + ae.Arg[len("CheckSettings."):]
+			if se, ok := err.(*errs.SettingError); ok {
+				c := *se
+				c.Setting = "IdentifySettings.Check." + se.Setting[len("CheckSettings."):]
 				return &c
 			}
 			return err

@@ -26,16 +26,13 @@ func ExampleIdentify() {
 		return
 	}
 	for _, c := range cands {
-		in := c.Model.Inputs[0]
-		ma, ar, _ := c.Model.NoiseCoeffs()
-		fmt.Printf("#%d BIC %6.2f  b=%d r=%d s=%d  noise AR(%d) MA(%d)  checks pass: %v\n", c.Rank, c.Score,
-			in.Delay, in.Den.Degree(), in.Num.Degree(), len(ar)-1, len(ma)-1, c.Diagnostics.Pass)
+		fmt.Printf("#%d %s %6.2f  %-34s checks pass: %v\n", c.Rank, c.Criterion, c.Score, c.Label(), c.Diagnostics.Pass)
 	}
 	// Output:
-	// #1 BIC  -5.99  b=3 r=1 s=0  noise AR(0) MA(1)  checks pass: true
-	// #2 BIC  -1.21  b=3 r=1 s=0  noise AR(1) MA(1)  checks pass: true
-	// #3 BIC  -1.09  b=3 r=1 s=1  noise AR(0) MA(1)  checks pass: true
-	// #4 BIC   3.70  b=3 r=1 s=1  noise AR(1) MA(1)  checks pass: true
-	// #5 BIC  32.17  b=3 r=1 s=0  noise AR(0) MA(0)  checks pass: false
-	// #6 BIC 353.54  b=3 r=0 s=0  noise AR(0) MA(1)  checks pass: false
+	// #1 BIC  -5.99  lead (b=3, r=1, s=0), noise ARMA(0, 1) checks pass: true
+	// #2 BIC  -1.21  lead (b=3, r=1, s=0), noise ARMA(1, 1) checks pass: true
+	// #3 BIC  -1.09  lead (b=3, r=1, s=1), noise ARMA(0, 1) checks pass: true
+	// #4 BIC   3.70  lead (b=3, r=1, s=1), noise ARMA(1, 1) checks pass: true
+	// #5 BIC  32.17  lead (b=3, r=1, s=0), noise ARMA(0, 0) checks pass: false
+	// #6 BIC 353.54  lead (b=3, r=0, s=0), noise ARMA(0, 1) checks pass: false
 }

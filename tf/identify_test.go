@@ -3,6 +3,8 @@ package tf
 import (
 	"context"
 	"errors"
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 	"math"
 	"testing"
 )
@@ -24,9 +26,9 @@ func TestIdentifyBJsales(t *testing.T) {
 		t.Fatalf("%d candidates", len(cands))
 	}
 	best := cands[0]
-	in := best.Model.Inputs[0]
+	in := best.Structure.Inputs[0]
 	if best.Rank != 1 || in.Delay != 3 || in.Num.Degree() != 0 || in.Den.Degree() != 1 {
-		t.Errorf("best candidate %s", best.Model.String())
+		t.Errorf("best candidate %s", best.Structure.String())
 	}
 	if best.Diagnostics == nil || !best.Diagnostics.Pass {
 		t.Errorf("best candidate fails its checks: %v", best.CheckErr)
@@ -43,24 +45,25 @@ func TestIdentifyBJsales(t *testing.T) {
 		}
 	}
 	for _, cd := range cands {
-		t.Logf("%d %.2f %s", cd.Rank, cd.Score, cd.Model.String())
+		t.Logf("%d %.2f %s", cd.Rank, cd.Score, cd.Structure.String())
 	}
 }
 
 // TestIdentifyErrors checks the typed data errors of Identify.
 func TestIdentifyErrors(t *testing.T) {
 	y, x := fitMCSim(fitRand(3), 100)
-	var fe *FitError
-	if _, err := Identify(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || fe.Problem != MissingSeries || fe.Series != "u" {
+	var fe *SeriesError
+	if _, err := Identify(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || !errors.Is(err, ErrName) || fe.Series != "u" ||
+		err.Error() != `tf.Identify: series "u" is not known (an input is not in the data; check the series names)` {
 		t.Errorf("missing input: %v", err)
 	}
-	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x[:90]}, nil); !errors.As(err, &fe) || fe.Problem != UnequalLengths {
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x[:90]}, nil); !errors.As(err, &fe) || !errors.Is(err, ErrLength) || fe.Have != 90 || fe.Need != 100 {
 		t.Errorf("unequal: %v", err)
 	}
 	x2 := append([]float64(nil), x...)
 	x2[4] = math.NaN()
-	var se *SampleError
-	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x2}, nil); !errors.As(err, &se) || se.Index != 4 {
+	var se *errs.SampleError
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x2}, nil); !errors.As(err, &se) || se.Index != 4 || se.Op != "tf.Identify" {
 		t.Errorf("NaN: %v", err)
 	}
 }
@@ -91,14 +94,24 @@ func TestIdentifyProgressAndCancel(t *testing.T) {
 	}
 }
 
-// TestCandidateLabel checks the structure labels.
+// TestCandidateLabel checks the structure labels: one spelling,
+// "noise ARMA(p, q)", whatever p and q are.
 func TestCandidateLabel(t *testing.T) {
 	m := fitMCModel()
-	if got, want := (Candidate{Model: m}).Label(), "x b=3 (r=1, s=1); noise AR(1)"; got != want {
+	if got, want := (FittedCandidate{Structure: m}).Label(), "x (b=3, r=1, s=1), noise ARMA(1, 0)"; got != want {
 		t.Errorf("label %q, want %q", got, want)
 	}
 	m.Noise.MA = fitOneMinus("t1", 1)
-	if got, want := (Candidate{Model: m}).Label(), "x b=3 (r=1, s=1); noise ARMA(1, 1)"; got != want {
+	if got, want := (FittedCandidate{Structure: m}).Label(), "x (b=3, r=1, s=1), noise ARMA(1, 1)"; got != want {
+		t.Errorf("label %q, want %q", got, want)
+	}
+	m.Noise = &arma.Noise{}
+	m.Inputs = nil
+	if got, want := StructureLabel(m), "noise ARMA(0, 0)"; got != want {
+		t.Errorf("label %q, want %q", got, want)
+	}
+	m.Noise = nil
+	if got, want := StructureLabel(m), "no noise term"; got != want {
 		t.Errorf("label %q, want %q", got, want)
 	}
 }

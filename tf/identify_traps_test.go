@@ -3,6 +3,7 @@ package tf
 import (
 	"context"
 	"errors"
+	"github.com/backshift/backshift/internal/errs"
 	"math"
 	"strings"
 	"sync"
@@ -37,27 +38,28 @@ func TestIdentifySettingsTable(t *testing.T) {
 		{IdentifySettings{OutputDiff: append([]float64{1}, make([]float64, 150)...)}, "IdentifySettings.OutputDiff", "below half the record (300 samples)"},
 		{IdentifySettings{InputDiff: map[string][]float64{"x": {0, 1}}}, `IdentifySettings.InputDiff["x"][0]`, "constant term of a differencing operator must be 1"},
 		{IdentifySettings{InputDiff: map[string][]float64{"x": {1, math.Inf(1)}}}, `IdentifySettings.InputDiff["x"][1]`, "must be a finite number"},
-		{IdentifySettings{MaxLag: -1}, "IdentifySettings.MaxLag", "must be zero (the default) or positive"},
-		{IdentifySettings{Forms: -2}, "IdentifySettings.Forms", "must be zero (the default) or positive"},
-		{IdentifySettings{NoiseOrders: -1}, "IdentifySettings.NoiseOrders", "must be zero (the default) or positive"},
-		{IdentifySettings{MaxCandidates: -3}, "IdentifySettings.MaxCandidates", "must be zero (the default) or positive"},
-		{IdentifySettings{MaxP: 257}, "IdentifySettings.MaxP", "must be at most 256 (arma.MaxLag)"},
+		{IdentifySettings{MaxLag: -1}, "IdentifySettings.MaxLag", "tf.Identify: IdentifySettings.MaxLag = -1: must be zero or positive (0 means max(10, min(36, n/6)))"},
+		{IdentifySettings{Forms: -2}, "IdentifySettings.Forms", "tf.Identify: IdentifySettings.Forms = -2: must be zero or positive (0 means 2)"},
+		{IdentifySettings{NoiseOrders: -1}, "IdentifySettings.NoiseOrders", "must be zero or positive (0 means 2)"},
+		{IdentifySettings{MaxCandidates: -3}, "IdentifySettings.MaxCandidates", "must be zero or positive (0 means 24)"},
+		{IdentifySettings{MaxP: 257}, "IdentifySettings.MaxP", "tf.Identify: IdentifySettings.MaxP = 257: must be at most 256 (arma.MaxLag)"},
 		{IdentifySettings{MaxQ: 1000}, "IdentifySettings.MaxQ", "must be at most 256 (arma.MaxLag)"},
-		{IdentifySettings{Workers: -1}, "IdentifySettings.Workers", "must be zero (the default) or positive"},
-		{IdentifySettings{Fit: &FitSettings{MaxIter: -1}}, "IdentifySettings.Fit.MaxIter", "zero"},
-		{IdentifySettings{Check: &CheckSettings{Alpha: 2}}, "IdentifySettings.Check.Alpha", "must lie in (0, 1)"},
-		{IdentifySettings{Check: &CheckSettings{Lags: -4}}, "IdentifySettings.Check.Lags", "must be zero"},
+		{IdentifySettings{Workers: -1}, "IdentifySettings.Workers", "must be zero or positive (0 means GOMAXPROCS)"},
+		{IdentifySettings{Fit: &FitSettings{MaxIter: -1}}, "IdentifySettings.Fit.MaxIter", "tf.Identify: IdentifySettings.Fit.MaxIter = -1: must be zero or positive"},
+		{IdentifySettings{Check: &CheckSettings{Alpha: 2}}, "IdentifySettings.Check.Alpha", "tf.Identify: IdentifySettings.Check.Alpha = 2: must lie strictly between 0 and 1"},
+		{IdentifySettings{Check: &CheckSettings{Lags: -4}}, "IdentifySettings.Check.Lags", "must be zero or positive"},
 	} {
 		s := tc.s
 		cands, err := Identify(context.Background(), "y", []string{"x"}, data, &s)
-		var ae *ArgError
-		if !errors.As(err, &ae) || ae.Arg != tc.arg || !strings.Contains(err.Error(), tc.rule) || cands != nil {
-			t.Errorf("%s: %v; want an *ArgError for %s: %s", tc.arg, err, tc.arg, tc.rule)
+		var ae *SettingError
+		if !errors.As(err, &ae) || ae.Setting != tc.arg || ae.Op != "tf.Identify" || !strings.Contains(err.Error(), tc.rule) || cands != nil {
+			t.Errorf("%s: %v; want a *SettingError for %s: %s", tc.arg, err, tc.arg, tc.rule)
 		}
 	}
-	var ue *UnknownInputError
+	var ue *SeriesError
 	_, err := Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{InputDiff: map[string][]float64{"valve": {1, -1}}})
-	if !errors.As(err, &ue) || err.Error() != `tf: IdentifySettings.InputDiff names "valve", which is not an input (the inputs are "x"); check the spelling` {
+	if !errors.As(err, &ue) || !errors.Is(err, ErrName) ||
+		err.Error() != `tf.Identify: series "valve" is not known (named in IdentifySettings.InputDiff, it is not an input (the inputs are "x"); check the spelling)` {
 		t.Errorf("InputDiff for a series that is not an input: %v", err)
 	}
 	// Negative order bounds: order zero only.
@@ -66,7 +68,7 @@ func TestIdentifySettingsTable(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, c := range cands {
-		if c.Model.Inputs[0].Den.Degree() != 0 || c.Model.Noise.AR.Degree() != 0 || c.Model.Noise.MA.Degree() != 0 {
+		if c.Structure.Inputs[0].Den.Degree() != 0 || c.Structure.Noise.AR.Degree() != 0 || c.Structure.Noise.MA.Degree() != 0 {
 			t.Errorf("MaxR, MaxP, MaxQ -1: candidate %s", c.Label())
 		}
 	}
@@ -75,7 +77,7 @@ func TestIdentifySettingsTable(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, c := range cands {
-		if c.Model.Inputs[0].Num.Degree() != 0 {
+		if c.Structure.Inputs[0].Num.Degree() != 0 {
 			t.Errorf("MaxS -1: candidate %s", c.Label())
 		}
 	}
@@ -98,17 +100,18 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 		flat[i] = 0.3
 		line[i] = 0.1 * float64(i)
 	}
-	var ce *ConstantSeriesError
+	var ce *SeriesError
 	_, err := Identify(context.Background(), "temp", []string{"x"}, map[string][]float64{"temp": flat, "x": data["x"]}, nil)
-	if !errors.As(err, &ce) || err.Error() != `tf: Identify: output series "temp" is constant (every sample is 0.3): it carries no response; check that the right column was chosen` {
+	if !errors.As(err, &ce) || !errors.Is(err, ErrConstant) ||
+		err.Error() != `tf.Identify: series "temp" is constant (the output: every sample is 0.3, so it carries no response; check that the right column was chosen)` {
 		t.Errorf("constant output: %v", err)
 	}
 	_, err = Identify(context.Background(), "temp", []string{"x"}, map[string][]float64{"temp": line, "x": data["x"]}, &IdentifySettings{OutputDiff: []float64{1, -1}})
-	if !errors.As(err, &ce) || !strings.Contains(err.Error(), `output series "temp" is constant after its differencing (1 - B) (every differenced sample is 0.1)`) {
+	if !errors.As(err, &ce) || !strings.Contains(err.Error(), `series "temp" is constant (the output, after its differencing (1 - B): every differenced sample is 0.1`) {
 		t.Errorf("straight-line output: %v", err)
 	}
 	_, err = Identify(context.Background(), "y", []string{"valve"}, map[string][]float64{"y": data["y"], "valve": flat}, nil)
-	if !errors.As(err, &ce) || ce.Role != "input" || ce.Series != "valve" || strings.Contains(err.Error(), "after") {
+	if !errors.As(err, &ce) || !strings.Contains(ce.Detail, "the input") || ce.Series != "valve" || strings.Contains(err.Error(), "after") {
 		t.Errorf("constant input: %v", err)
 	}
 	// No response: the step and the user's series are named, the ccf
@@ -121,8 +124,8 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 	_, err = Identify(context.Background(), "y", []string{"valve"}, map[string][]float64{"y": data["y"], "valve": noise}, nil)
 	var nr *ccf.NoResponseError
 	var st *StageError
-	if !errors.As(err, &nr) || !errors.As(err, &st) || !strings.Contains(err.Error(), `tf: Identify: estimating the impulse response of "y" to input "valve"`) &&
-		!strings.Contains(err.Error(), `tf: Identify: choosing the dead time and orders of input "valve"`) {
+	if !errors.As(err, &nr) || !errors.As(err, &st) || !strings.Contains(err.Error(), `tf.Identify: estimating the impulse response of "y" to input "valve"`) &&
+		!strings.Contains(err.Error(), `tf.Identify: choosing the dead time and orders of input "valve"`) {
 		t.Errorf("no response: %v", err)
 	}
 	// Samples too large or too little varied for the correlations are
@@ -133,32 +136,32 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 		big[i] = data["x"][i] * 1e200
 		tiny[i] = data["y"][i] * 1e-170
 	}
-	var ae *ArgError
+	var ae *errs.SampleError
 	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": data["y"], "x": big}, nil); !errors.As(err, &ae) ||
-		ae.Arg != "x[0]" || !strings.Contains(err.Error(), "magnitude above 1e140") {
+		ae.Series != "x" || ae.Index != 0 || ae.Limit != 1e140 || !strings.Contains(err.Error(), "beyond the largest magnitude accepted, 1e+140") {
 		t.Errorf("huge input: %v", err)
 	}
-	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": tiny, "x": data["x"]}, nil); !errors.As(err, &ae) ||
-		ae.Arg != `series "y"` || !strings.Contains(err.Error(), "varies by less than 1e-140") {
+	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": tiny, "x": data["x"]}, nil); !errors.As(err, &ce) ||
+		ce.Series != "y" || !errors.Is(err, ErrConstant) || !strings.Contains(err.Error(), "less than 1e-140") {
 		t.Errorf("tiny output: %v", err)
 	}
-	var le *InputListError
+	var le *SeriesError
 	for _, tc := range []struct {
 		inputs []string
 		want   string
 	}{
-		{[]string{"x", "x"}, `tf: Identify: inputs: "x" is listed twice`},
-		{[]string{"y"}, `tf: Identify: inputs: "y" is the output; an output cannot be its own input`},
-		{[]string{""}, `tf: Identify: inputs: "" is empty; name each input series`},
+		{[]string{"x", "x"}, `tf.Identify: series "x" is not known (it is listed twice among the inputs)`},
+		{[]string{"y"}, `tf.Identify: series "y" is not known (listed among the inputs, it is the output; an output cannot be its own input)`},
+		{[]string{""}, `tf.Identify: series "" is not known (an entry of the inputs is empty; name each input series)`},
 	} {
-		if _, err := Identify(context.Background(), "y", tc.inputs, data, nil); !errors.As(err, &le) || err.Error() != tc.want {
+		if _, err := Identify(context.Background(), "y", tc.inputs, data, nil); !errors.As(err, &le) || !errors.Is(err, ErrName) || err.Error() != tc.want {
 			t.Errorf("inputs %q: %v", tc.inputs, err)
 		}
 	}
 	// Names a spec cannot hold: the candidates print as specs, so they
 	// are refused up front under the user's name (ccf's message named its
 	// own IdentifySettings.Input field).
-	var ne *SeriesNameError
+	var ne *SeriesError
 	for _, tc := range []struct {
 		output, input, role, name string
 	}{
@@ -168,7 +171,7 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 	} {
 		d := map[string][]float64{tc.output: data["y"], tc.input: data["x"]}
 		_, err := Identify(context.Background(), tc.output, []string{tc.input}, d, nil)
-		if !errors.As(err, &ne) || ne.Role != tc.role || ne.Name != tc.name || !strings.Contains(err.Error(), "cannot be written in a model spec") {
+		if !errors.As(err, &ne) || !errors.Is(err, ErrName) || !strings.Contains(ne.Detail, "the "+tc.role+" series name") || ne.Series != tc.name || !strings.Contains(err.Error(), "cannot be written in a model spec") {
 			t.Errorf("%s %q: %v", tc.role, tc.name, err)
 		}
 	}
@@ -185,7 +188,7 @@ func idfStub(t *testing.T, f func(ctx context.Context, m Model, data map[string]
 // second-order denominator and coloured noise panic (a slice bounds
 // error, as arma once raised for an MA degree above 32), and checks
 // that Identify returns (its process alive) with those candidates
-// carrying a *PanicError that names the candidate, ranked after the
+// carrying an *InternalError that names the candidate, ranked after the
 // candidates that fitted.
 func TestIdentifyRecoversPanics(t *testing.T) {
 	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
@@ -202,10 +205,10 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	}
 	panicked := 0
 	for i, c := range cands {
-		var pe *PanicError
+		var pe *InternalError
 		if errors.As(c.Err, &pe) {
 			panicked++
-			if !strings.Contains(c.Err.Error(), "tf: Identify: internal error while fitting candidate x b=") || !strings.Contains(c.Err.Error(), "slice bounds out of range") ||
+			if !strings.Contains(c.Err.Error(), "tf.Identify: internal fault: fitting candidate x (b=") || !errors.Is(c.Err, ErrInternal) || len(pe.Stack) == 0 || !strings.Contains(c.Err.Error(), "slice bounds out of range") ||
 				!math.IsInf(c.Score, 1) || c.Estimate != nil {
 				t.Errorf("candidate %d: %v", i, c.Err)
 			}
@@ -232,8 +235,8 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 		}})
 	found := false
 	for _, c := range cands {
-		var pe *PanicError
-		found = found || errors.As(c.Err, &pe) && strings.Contains(c.Err.Error(), "while calling IdentifySettings.Progress: progress bar broke")
+		var pe *InternalError
+		found = found || errors.As(c.Err, &pe) && strings.Contains(c.Err.Error(), "internal fault: calling IdentifySettings.Progress: progress bar broke")
 	}
 	if !found || calls != len(cands) {
 		t.Errorf("panicking Progress: %v, %d calls for %d candidates", err, calls, len(cands))
@@ -246,8 +249,8 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 		return nil, nil
 	})
 	cands, err = Identify(context.Background(), "y", []string{"x"}, idfTrapData(), nil)
-	var pe *PanicError
-	if !errors.As(err, &pe) || cands != nil || !strings.Contains(err.Error(), "nil pointer dereference") {
+	var pe *InternalError
+	if !errors.As(err, &pe) || pe.Op != "tf.Identify" || cands != nil || !strings.Contains(err.Error(), "nil pointer dereference") {
 		t.Errorf("panic in the preliminary fit: %v", err)
 	}
 }
@@ -285,7 +288,7 @@ func armaPanics(x []float64) (panicked bool) {
 
 // TestIdentifyNonFiniteScore makes one candidate's fit report BIC -Inf
 // (as a zero sum of squares once did) and checks it is not ranked first
-// but last, with a *ScoreError saying why.
+// but last, with a *ModelError saying why.
 func TestIdentifyNonFiniteScore(t *testing.T) {
 	var once sync.Once
 	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
@@ -299,10 +302,10 @@ func TestIdentifyNonFiniteScore(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var se *ScoreError
+	var se *errs.ModelError
 	last := cands[len(cands)-1]
-	if cands[0].Err != nil || math.IsInf(cands[0].Score, -1) || !errors.As(last.Err, &se) || se.Criterion != "BIC" ||
-		last.Err.Error() != "tf: Identify: the candidate's BIC is -Inf, not a finite number (a zero or overflowing sum of squares); it is not ranked" {
+	if cands[0].Err != nil || math.IsInf(cands[0].Score, -1) || !errors.As(last.Err, &se) || last.Criterion != "BIC" ||
+		last.Err.Error() != "tf.Identify: candidate "+last.Label()+": its BIC is -Inf, not a finite number (a zero or overflowing sum of squares); it is not ranked" {
 		t.Errorf("best %v (score %v); last %v", cands[0].Err, cands[0].Score, last.Err)
 	}
 }

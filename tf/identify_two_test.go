@@ -16,9 +16,9 @@ func TestIdentifyTwoInputs(t *testing.T) {
 		t.Fatal(err)
 	}
 	best := cands[0]
-	a, b := best.Model.Inputs[0], best.Model.Inputs[1]
+	a, b := best.Structure.Inputs[0], best.Structure.Inputs[1]
 	if a.Delay != 1 || a.Den.Degree() != 1 || a.Num.Degree() != 0 || b.Delay != 4 || b.Den.Degree() != 0 || b.Num.Degree() != 1 {
-		t.Errorf("best: %s", best.Model.String())
+		t.Errorf("best: %s", best.Structure.String())
 	}
 	if best.Diagnostics == nil || !best.Diagnostics.Pass {
 		t.Errorf("best fails its checks")
@@ -27,6 +27,6 @@ func TestIdentifyTwoInputs(t *testing.T) {
 		t.Errorf("names: %v", best.Estimate.Params)
 	}
 	for _, cd := range cands[:min(4, len(cands))] {
-		t.Logf("%d %.2f %s", cd.Rank, cd.Score, cd.Model.String())
+		t.Logf("%d %.2f %s", cd.Rank, cd.Score, cd.Structure.String())
 	}
 }

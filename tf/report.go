@@ -47,6 +47,7 @@ func (e *Estimate) String() string {
 	fmt.Fprintf(&b, "  conditional log-likelihood %s; information criteria AIC %s, BIC %s\n", fitFixed(e.LogLik, 2), fitFixed(e.AIC, 2), fitFixed(e.BIC, 2))
 	if len(e.Params) > 1 {
 		b.WriteString("\n  correlations of the estimates\n")
+		corr := e.Corr()
 		cw := 5
 		for _, p := range e.Params[:len(e.Params)-1] {
 			cw = max(cw, len(p.Name))
@@ -54,7 +55,7 @@ func (e *Estimate) String() string {
 		for i := 1; i < len(e.Params); i++ {
 			fmt.Fprintf(&b, "  %-*s", w, e.Params[i].Name)
 			for j := 0; j < i; j++ {
-				fmt.Fprintf(&b, " %*s", cw, fitFixed(e.Corr[i][j], 2))
+				fmt.Fprintf(&b, " %*s", cw, fitFixed(corr[i][j], 2))
 			}
 			b.WriteByte('\n')
 		}

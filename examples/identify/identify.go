@@ -30,7 +30,7 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 			break
 		}
 		if c.Err != nil {
-			fmt.Fprintf(w, "  %4d  %10s  %10s  %6s  %-6s  %s (fit failed: %v)\n", c.Rank, "-", "-", "-", "-", structure(c.Model), c.Err)
+			fmt.Fprintf(w, "  %4d  %10s  %10s  %6s  %-6s  %s (fit failed: %v)\n", c.Rank, "-", "-", "-", "-", structure(c.Structure), c.Err)
 			continue
 		}
 		e := c.Estimate
@@ -38,7 +38,7 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 		if c.Diagnostics != nil {
 			checks = map[bool]string{true: "pass", false: "FAIL"}[c.Diagnostics.Pass]
 		}
-		fmt.Fprintf(w, "  %4d  %10.1f  %10.1f  %6d  %-6s  %s\n", c.Rank, e.BIC, e.AIC, len(e.Params), checks, structure(c.Model))
+		fmt.Fprintf(w, "  %4d  %10.1f  %10.1f  %6d  %-6s  %s\n", c.Rank, e.BIC, e.AIC, len(e.Params), checks, structure(c.Structure))
 	}
 	if cands[0].Estimate == nil {
 		return nil, fmt.Errorf("identification: no candidate could be fitted")
@@ -48,7 +48,7 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 		note := "  note: the best by BIC fails its checks, and so does every other candidate"
 		for _, c := range cands[1:] {
 			if c.Err == nil && c.Diagnostics != nil && c.Diagnostics.Pass {
-				note = fmt.Sprintf("  note: the best by BIC fails its checks; the best that passes them is rank %d: %s", c.Rank, structure(c.Model))
+				note = fmt.Sprintf("  note: the best by BIC fails its checks; the best that passes them is rank %d: %s", c.Rank, structure(c.Structure))
 				break
 			}
 		}
