@@ -73,17 +73,19 @@ func (f ARFit) Residuals(x []float64) []float64 {
 // smallest AIC = n log(v_k) + 2k. maxOrder = 0 means
 // min(n-1, floor(10 log10 n)).
 //
-// Errors: *ArgError for maxOrder < 0, *ShortError when maxOrder >= n,
-// *DataError for NaN/Inf samples, *ConstantError for a constant series.
-func YuleWalker(x []float64, maxOrder int) (ARFit, error) {
+// Errors: *SettingError for maxOrder < 0, *SeriesError of kind ErrShort
+// when maxOrder >= n, *SampleError for NaN/Inf samples, *SeriesError of
+// kind ErrConstant for a constant series.
+func YuleWalker(x []float64, maxOrder int) (f ARFit, err error) {
+	defer withOp("arma.YuleWalker", &err)
 	n := len(x)
 	if maxOrder < 0 {
-		return ARFit{}, &ArgError{Arg: "maxOrder", Msg: "must not be negative"}
+		return ARFit{}, settingErr("maxOrder", itoa(maxOrder), "must not be negative (zero means automatic)")
 	}
 	if maxOrder == 0 {
 		maxOrder = min(n-1, int(math.Floor(10*math.Log10(float64(n)))))
 		if maxOrder < 1 {
-			return ARFit{}, &ShortError{N: n, Need: 2, What: "a Yule-Walker fit"}
+			return ARFit{}, shortErr("", n, 2, "a Yule-Walker fit")
 		}
 	}
 	return ywFit(x, maxOrder, -1)
@@ -92,9 +94,10 @@ func YuleWalker(x []float64, maxOrder int) (ARFit, error) {
 // YuleWalkerOrder fits an autoregression of the given order (>= 0) to x
 // by the Yule-Walker equations, with the conventions of YuleWalker but no
 // order search.
-func YuleWalkerOrder(x []float64, order int) (ARFit, error) {
+func YuleWalkerOrder(x []float64, order int) (f ARFit, err error) {
+	defer withOp("arma.YuleWalkerOrder", &err)
 	if order < 0 {
-		return ARFit{}, &ArgError{Arg: "order", Msg: "must not be negative"}
+		return ARFit{}, settingErr("order", itoa(order), "must not be negative")
 	}
 	return ywFit(x, order, order)
 }
@@ -102,9 +105,9 @@ func YuleWalkerOrder(x []float64, order int) (ARFit, error) {
 func ywFit(x []float64, maxOrder, fixed int) (ARFit, error) {
 	n := len(x)
 	if maxOrder >= n {
-		return ARFit{}, &ShortError{N: n, Need: addSat(maxOrder, 1), What: "an autoregression of order " + strconv.Itoa(maxOrder)}
+		return ARFit{}, shortErr("", n, addSat(maxOrder, 1), "an autoregression of order "+strconv.Itoa(maxOrder))
 	}
-	c, err := ACF(x, maxOrder)
+	c, err := acf(x, maxOrder)
 	if err != nil {
 		return ARFit{}, err
 	}

@@ -38,7 +38,7 @@ type Settings struct {
 	// in both (an *ArgError): Settings{Order: {D: 1, Q: 1}} and
 	// Settings{Diff: {1, -1}, Order: {Q: 1}} are the same filter. In
 	// either spelling the mean of the differenced input is estimated
-	// with the coefficients (arma.MeanFree, a drift for D = 1), as the
+	// with the coefficients (arma.ConstantFree, a drift for D = 1), as the
 	// autoregression does, so that Filter.Mean is the level removed.
 	Order *arma.Order
 	// ARMA, when not nil, is used as the filter instead of fitting one:
@@ -297,14 +297,14 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 		if ord.SP == 0 && ord.SQ == 0 {
 			ord.Period = 0
 		}
-		res, err := arma.Fit(context.Background(), w, ord, &arma.Options{Name: name, Mean: arma.MeanFree})
+		res, err := arma.Fit(context.Background(), w, ord, &arma.FitSettings{Name: name, Constant: arma.ConstantFree})
 		if res == nil {
 			// The fit saw the differenced series: report lengths and
 			// indexes of x itself.
-			var se *arma.ShortError
-			var de *arma.DataError
+			var se *arma.SeriesError
+			var de *arma.SampleError
 			switch {
-			case errors.As(err, &se):
+			case errors.As(err, &se) && se.Kind == arma.ErrShort:
 				return Filter{}, &ShortError{Name: name, Len: len(x), Need: se.Need + d, Why: "for the " + ord.String() + " filter after the differencing " + strconv.Quote(polyText(diff))}
 			case errors.As(err, &de):
 				return Filter{}, &ValueError{Name: name, Index: de.Index + d, Value: x[de.Index+d],
@@ -355,8 +355,8 @@ func fitAR(x []float64, name string, diff []float64, maxOrder int) (Filter, erro
 	}
 	ar, err := arma.YuleWalker(w, maxOrder)
 	if err != nil {
-		var ce *arma.ConstantError
-		if errors.As(err, &ce) {
+		var ce *arma.SeriesError
+		if errors.As(err, &ce) && ce.Kind == arma.ErrConstant {
 			return Filter{}, &ConstantError{Name: name, Value: w[0], Diff: polyText(diff)}
 		}
 		return Filter{}, err

@@ -19,7 +19,7 @@ type NoiseSettings struct {
 	// Lags is the number of autocorrelations reported; zero means
 	// min(24, n/4), negative is an *ArgError.
 	Lags int
-	// Criterion ranks the orders (arma.ByAICc by default).
+	// Criterion ranks the orders (arma.ByBIC by default).
 	Criterion arma.Criterion
 	// Name names the series in errors; empty means "noise".
 	Name string
@@ -46,7 +46,7 @@ func (s *NoiseSettings) Validate() error {
 	if s.Lags < 0 {
 		return &ArgError{Arg: "NoiseSettings.Lags", Value: strconv.Itoa(s.Lags), Want: ">= 0 (zero means the default)"}
 	}
-	if s.Criterion < arma.ByAICc || s.Criterion > arma.ByAIC {
+	if s.Criterion < arma.ByBIC || s.Criterion > arma.ByAIC {
 		return &ArgError{Arg: "NoiseSettings.Criterion", Value: s.Criterion.String(), Want: "arma.ByAICc, arma.ByBIC or arma.ByAIC"}
 	}
 	return nil
@@ -62,7 +62,7 @@ type NoiseIdentification struct {
 	ACF  arma.Correlogram
 	PACF arma.Partial
 	// Candidates are the ARMA(p, q) fits of arma.Select, best first.
-	Candidates []arma.Candidate
+	Candidates []arma.OrderFit
 	// Best is the order of the first candidate that fitted.
 	Best arma.Order
 	// Term is the noise term of Best as spec text with free coefficients,
@@ -132,7 +132,7 @@ func IdentifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 	if id.PACF, err = arma.PACF(w, lags); err != nil {
 		return nil, err
 	}
-	id.Candidates, err = arma.Select(ctx, w, arma.Grid{MaxP: maxP, MaxQ: maxQ, Criterion: set.Criterion}, &arma.Options{Name: name})
+	id.Candidates, err = arma.Select(ctx, w, arma.Grid{MaxP: maxP, MaxQ: maxQ, Criterion: set.Criterion}, &arma.FitSettings{Name: name})
 	if err != nil {
 		return id, err
 	}
