@@ -50,6 +50,7 @@ var (
 	ErrSample      = errs.ErrSample
 	ErrShort       = errs.ErrShort
 	ErrConstant    = errs.ErrConstant
+	ErrLength      = errs.ErrLength
 	ErrSetting     = errs.ErrSetting
 	ErrModel       = errs.ErrModel
 	ErrConvergence = errs.ErrConvergence
