@@ -33,7 +33,9 @@ func TestFitScaleEquivariant(t *testing.T) {
 		trend[i] = float64(i) * 1e9 // a regressor in large units
 		base[i] += 3e-9 * trend[i]
 	}
-	opt := func() *FitSettings { return &FitSettings{Regressors: [][]float64{trend}, RegressorNames: []string{"time"}} }
+	opt := func() *FitSettings {
+		return &FitSettings{Regressors: [][]float64{trend}, RegressorNames: []string{"time"}}
+	}
 	ref, err := Fit(ctx, base, Order{P: 1, Q: 1}, opt())
 	if err != nil {
 		t.Fatalf("unscaled fit: %v", err)
