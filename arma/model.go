@@ -71,7 +71,9 @@ const MaxLag = 256
 //	w_t = (1-B)^D (1-B^s)^SD z_t,   var(a_t) = Sigma2,
 //
 // where z_t is the modelled series (after subtracting any regression
-// part). The coefficient slices use the Box-Jenkins signs:
+// part) and Mean is the constant c, the mean of the (differenced) series
+// (the parameter "c" of a fit). The coefficient slices use the
+// Box-Jenkins signs:
 //
 //	phi(B)   = 1 - AR[0] B - ... - AR[p-1] B^p
 //	Phi(B^s) = 1 - SAR[0] B^s - ... - SAR[P-1] B^(P s)

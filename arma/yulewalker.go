@@ -13,12 +13,13 @@ type ARFit struct {
 	Order int
 	// Phi holds phi_1..phi_p (Box-Jenkins signs: phi(B) = 1 - sum phi_k B^k).
 	Phi []float64
-	// Var is the innovation variance estimate
-	//
-	//	c_0 prod_{k=1}^{p} (1 - pacf_k^2) * n / (n - (p+1))
-	//
-	// that is the Durbin-Levinson prediction-error variance with a
-	// small-sample correction for the p coefficients and the mean.
+	// Var is the innovation variance: the one-step prediction-error
+	// variance that the Durbin-Levinson recursion leaves at order p, the
+	// lag-0 autocovariance c_0 shrunk by the factor 1 - pacf_k^2 at each
+	// lag k = 1..p, then multiplied by n / (n - p - 1), because the p
+	// coefficients and the mean were estimated from the same n samples
+	// (the library's convention of dividing by the count less the
+	// estimated quantities; see internal/est).
 	Var float64
 	// Mean is the sample mean removed before fitting.
 	Mean float64
@@ -70,8 +71,12 @@ func (f ARFit) Residuals(x []float64) []float64 {
 // YuleWalker fits autoregressions of orders 0..maxOrder to x by the
 // Yule-Walker equations (sample autocovariances with divisor n, mean
 // removed, solved by Durbin-Levinson) and keeps the order with the
-// smallest AIC = n log(v_k) + 2k. maxOrder = 0 means
-// min(n-1, floor(10 log10 n)).
+// smallest AIC = n log(v_k) + 2k, v_k the prediction-error variance of
+// order k. maxOrder = 0 means automatic: a bound that grows slowly with
+// the record, ten orders per decade of samples, floor(10 log10 n) (20
+// for 100 samples, 30 for 1000), and below n, so that long records may
+// need long autoregressions while short ones keep enough samples per
+// coefficient.
 //
 // Errors: *SettingError for maxOrder < 0, *SeriesError of kind ErrShort
 // when maxOrder >= n, *SampleError for NaN/Inf samples, *SeriesError of
