@@ -36,16 +36,21 @@ type Correlogram struct {
 // ACF returns the sample autocovariances and autocorrelations of x at lags
 // 0..maxLag, with the mean removed and divisor n (see Correlogram.Cov).
 //
-// It returns an *ArgError for maxLag < 0, a *ShortError when maxLag >= n
-// or n < 2, a *DataError for NaN or infinite samples and a *ConstantError
-// for a constant series.
-func ACF(x []float64, maxLag int) (Correlogram, error) {
+// It returns a *SettingError for maxLag < 0, a *SeriesError of kind
+// ErrShort when maxLag >= n or n < 2, a *SampleError for NaN or infinite
+// samples and a *SeriesError of kind ErrConstant for a constant series.
+func ACF(x []float64, maxLag int) (c Correlogram, err error) {
+	defer withOp("arma.ACF", &err)
+	return acf(x, maxLag)
+}
+
+func acf(x []float64, maxLag int) (Correlogram, error) {
 	n := len(x)
 	if maxLag < 0 {
-		return Correlogram{}, &ArgError{Arg: "maxLag", Msg: "must not be negative"}
+		return Correlogram{}, settingErr("maxLag", itoa(maxLag), "must not be negative")
 	}
 	if n < 2 || maxLag >= n {
-		return Correlogram{}, &ShortError{N: n, Need: max(2, addSat(maxLag, 1)), What: "an autocorrelation to lag " + strconv.Itoa(maxLag)}
+		return Correlogram{}, shortErr("", n, max(2, addSat(maxLag, 1)), "an autocorrelation to lag "+strconv.Itoa(maxLag))
 	}
 	if err := checkFinite("", x); err != nil {
 		return Correlogram{}, err
@@ -53,7 +58,7 @@ func ACF(x []float64, maxLag int) (Correlogram, error) {
 	c := Correlogram{N: n, Cov: make([]float64, maxLag+1)}
 	c.Mean = AutocovTo(c.Cov, x)
 	if !(c.Cov[0] > 0) {
-		return Correlogram{}, &ConstantError{N: n, Value: x[0]}
+		return Correlogram{}, &SeriesError{Series: seriesName(""), Kind: ErrConstant, Detail: "every sample is " + strconv.FormatFloat(x[0], 'g', 6, 64) + " over its " + itoa(n) + " samples"}
 	}
 	c.R = make([]float64, maxLag+1)
 	for k, v := range c.Cov {
@@ -123,13 +128,14 @@ type Partial struct {
 
 // PACF returns the sample partial autocorrelations of x at lags
 // 1..maxLag, computed by the Durbin-Levinson recursion from the ACF
-// (divisor n, mean removed). Errors are those of ACF, plus an *ArgError
+// (divisor n, mean removed). Errors are those of ACF, plus a *SettingError
 // for maxLag < 1.
-func PACF(x []float64, maxLag int) (Partial, error) {
+func PACF(x []float64, maxLag int) (p Partial, err error) {
+	defer withOp("arma.PACF", &err)
 	if maxLag < 1 {
-		return Partial{}, &ArgError{Arg: "maxLag", Msg: "must be at least 1"}
+		return Partial{}, settingErr("maxLag", itoa(maxLag), "must be at least 1")
 	}
-	c, err := ACF(x, maxLag)
+	c, err := acf(x, maxLag)
 	if err != nil {
 		return Partial{}, err
 	}

@@ -87,23 +87,25 @@ func TestACFBands(t *testing.T) {
 }
 
 func TestACFErrors(t *testing.T) {
-	var de *DataError
+	var de *SampleError
 	if _, err := ACF([]float64{1, 2, math.NaN(), 4}, 1); !errors.As(err, &de) || de.Index != 2 {
 		t.Errorf("NaN: got %v", err)
 	}
-	var ce *ConstantError
-	if _, err := ACF([]float64{3, 3, 3, 3}, 1); !errors.As(err, &ce) {
+	var ce *SeriesError
+	if _, err := ACF([]float64{3, 3, 3, 3}, 1); !errors.As(err, &ce) || !errors.Is(err, ErrConstant) ||
+		err.Error() != `arma.ACF: series "series" is constant (every sample is 3 over its 4 samples)` {
 		t.Errorf("constant: got %v", err)
 	}
-	var se *ShortError
-	if _, err := ACF([]float64{1, 2, 3}, 3); !errors.As(err, &se) {
+	var se *SeriesError
+	if _, err := ACF([]float64{1, 2, 3}, 3); !errors.As(err, &se) || !errors.Is(err, ErrShort) || se.Have != 3 || se.Need != 4 {
 		t.Errorf("short: got %v", err)
 	}
-	var ae *ArgError
-	if _, err := LjungBox([]float64{1, 2, 3, 5, 4}, 2, 2); !errors.As(err, &ae) {
+	var ae *SettingError
+	if _, err := LjungBox([]float64{1, 2, 3, 5, 4}, 2, 2); !errors.As(err, &ae) ||
+		err.Error() != "arma.LjungBox: fitted = 2: must be in 0..lags-1 = 1" {
 		t.Errorf("fitted >= lags: got %v", err)
 	}
-	if _, err := PACF([]float64{1, 2, 3, 5, 4}, 0); !errors.As(err, &ae) {
+	if _, err := PACF([]float64{1, 2, 3, 5, 4}, 0); !errors.As(err, &ae) || ae.Op != "arma.PACF" || !errors.Is(err, ErrSetting) {
 		t.Errorf("pacf lag 0: got %v", err)
 	}
 }

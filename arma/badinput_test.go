@@ -31,19 +31,20 @@ func TestBadInputTyped(t *testing.T) {
 	cancel()
 	dataAt := func(idx int) func(error) bool {
 		return func(err error) bool {
-			var e *DataError
+			var e *SampleError
 			return errors.As(err, &e) && e.Index == idx
 		}
 	}
-	isArg := func(err error) bool { var e *ArgError; return errors.As(err, &e) }
-	isShort := func(err error) bool { var e *ShortError; return errors.As(err, &e) }
-	isConst := func(err error) bool { var e *ConstantError; return errors.As(err, &e) }
+	isArg := func(err error) bool { var e *SettingError; return errors.As(err, &e) && errors.Is(err, ErrSetting) }
+	isModel := func(err error) bool { var e *ModelError; return errors.As(err, &e) && errors.Is(err, ErrModel) }
+	isShort := func(err error) bool { var e *SeriesError; return errors.As(err, &e) && errors.Is(err, ErrShort) }
+	isConst := func(err error) bool { var e *SeriesError; return errors.As(err, &e) && errors.Is(err, ErrConstant) }
 	isCanceled := func(err error) bool {
 		var e *ConvergenceError
-		return errors.As(err, &e) && errors.Is(err, context.Canceled)
+		return errors.As(err, &e) && errors.Is(err, context.Canceled) && errors.Is(err, ErrConvergence) && e.Op == "arma.Fit"
 	}
 	selectErr := func(y []float64, g Grid) error { _, err := Select(ctx, y, g, nil); return err }
-	fitErr := func(y []float64, o Order, opt *Options) error { _, err := Fit(ctx, y, o, opt); return err }
+	fitErr := func(y []float64, o Order, opt *FitSettings) error { _, err := Fit(ctx, y, o, opt); return err }
 	cases := []struct {
 		name string
 		err  error
@@ -58,14 +59,14 @@ func TestBadInputTyped(t *testing.T) {
 		{"Fit negative order", fitErr(good, Order{P: -1}, nil), isArg},
 		{"Fit huge order", fitErr(good, Order{Q: 1 << 30}, nil), isArg},
 		{"Fit huge period", fitErr(good, Order{SP: 1, Period: 1 << 40}, nil), isArg},
-		{"Fit MaxIter < 0", fitErr(good, Order{P: 1}, &Options{MaxIter: -1}), isArg},
-		{"Fit Tol NaN", fitErr(good, Order{P: 1}, &Options{Tol: nan}), isArg},
-		{"Fit Fixed NaN", fitErr(good, Order{P: 1}, &Options{Fixed: map[string]float64{"phi1": nan}}), isArg},
-		{"Fit Fixed unknown", fitErr(good, Order{P: 1}, &Options{Fixed: map[string]float64{"phi7": 0}}), isArg},
-		{"Fit X length", fitErr(good, Order{P: 1}, &Options{X: [][]float64{nil}}), isArg},
-		{"Fit X NaN", fitErr(good, Order{P: 1}, &Options{X: [][]float64{withNaN}}), dataAt(17)},
+		{"Fit MaxIter < 0", fitErr(good, Order{P: 1}, &FitSettings{MaxIter: -1}), isArg},
+		{"Fit Tol NaN", fitErr(good, Order{P: 1}, &FitSettings{Tol: nan}), isArg},
+		{"Fit Fixed NaN", fitErr(good, Order{P: 1}, &FitSettings{Held: map[string]float64{"phi1": nan}}), isArg},
+		{"Fit Fixed unknown", fitErr(good, Order{P: 1}, &FitSettings{Held: map[string]float64{"phi7": 0}}), isArg},
+		{"Fit X length", fitErr(good, Order{P: 1}, &FitSettings{Regressors: [][]float64{nil}}), func(err error) bool { return errors.Is(err, ErrLength) }},
+		{"Fit X NaN", fitErr(good, Order{P: 1}, &FitSettings{Regressors: [][]float64{withNaN}}), dataAt(17)},
 		{"Fit canceled", func() error { _, err := Fit(canceled, good, Order{P: 1}, nil); return err }(), isCanceled},
-		{"FitNoise diff NaN", func() error { _, err := FitNoise(ctx, good, Noise{}, []float64{1, nan}, nil); return err }(), isArg},
+		{"FitNoise diff NaN", func() error { _, err := FitNoise(ctx, good, Noise{}, []float64{1, nan}, nil); return err }(), isModel},
 		{"Select NaN", selectErr(withNaN, Grid{MaxP: 1, MaxQ: 1}), dataAt(17)},
 		{"Select constant", selectErr(constant, Grid{MaxP: 1, MaxQ: 1}), isConst},
 		{"Select empty", selectErr(nil, Grid{MaxP: 1}), isShort},
@@ -78,10 +79,10 @@ func TestBadInputTyped(t *testing.T) {
 		{"LjungBox fitted", func() error { _, err := LjungBox(good, 5, 1<<30); return err }(), isArg},
 		{"YuleWalker NaN", func() error { _, err := YuleWalker(withNaN, 3); return err }(), dataAt(17)},
 		{"HannanRissanen short", func() error { _, _, err := HannanRissanen(good[:5], 1, 1, 3); return err }(), isShort},
-		{"Stationary NaN", func() error { _, _, err := Model{AR: []float64{nan}}.Stationary(); return err }(), isArg},
-		{"Invertible Inf", func() error { _, _, err := Model{SMA: []float64{inf}, Period: 4}.Invertible(); return err }(), isArg},
-		{"Psi NaN", func() error { _, err := Psi([]float64{nan}, nil, 5); return err }(), isArg},
-		{"Simulate Sigma2", func() error { _, err := Simulate(Model{Sigma2: -1}, 5, nil); return err }(), isArg},
+		{"Stationary NaN", func() error { _, _, err := Model{AR: []float64{nan}}.Stationary(); return err }(), isModel},
+		{"Invertible Inf", func() error { _, _, err := Model{SMA: []float64{inf}, Period: 4}.Invertible(); return err }(), isModel},
+		{"Psi NaN", func() error { _, err := Psi([]float64{nan}, nil, 5); return err }(), isModel},
+		{"Simulate Sigma2", func() error { _, err := Simulate(Model{Sigma2: -1}, 5, nil); return err }(), isModel},
 		{"Simulate innovations NaN", func() error {
 			_, err := Simulate(Model{Sigma2: 1}, 3, &SimSettings{Innovations: []float64{0, nan, 0}})
 			return err
@@ -151,7 +152,7 @@ func TestInputsNotModified(t *testing.T) {
 	yc, xc := slices.Clone(y), slices.Clone(trend)
 	fixed := map[string]float64{"theta1": -0.3}
 	init := map[string]float64{"phi1": 0.5}
-	opt := &Options{X: [][]float64{trend}, XNames: []string{"slope"}, Fixed: fixed, Init: init}
+	opt := &FitSettings{Regressors: [][]float64{trend}, RegressorNames: []string{"slope"}, Held: fixed, StartValues: init}
 	optc := *opt
 	res, err := Fit(ctx, y, Order{P: 1, Q: 1}, opt)
 	if err != nil {
@@ -168,7 +169,7 @@ func TestInputsNotModified(t *testing.T) {
 	if len(fixed) != 1 || fixed["theta1"] != -0.3 || len(init) != 1 || init["phi1"] != 0.5 {
 		t.Errorf("Fixed/Init maps modified: %v %v", fixed, init)
 	}
-	if opt.X[0][0] != optc.X[0][0] || len(opt.XNames) != 1 || opt.XNames[0] != "slope" {
+	if opt.Regressors[0][0] != optc.Regressors[0][0] || len(opt.RegressorNames) != 1 || opt.RegressorNames[0] != "slope" {
 		t.Error("Options modified")
 	}
 	noise := res.Noise.Clone()
@@ -187,8 +188,8 @@ func TestInputsNotModified(t *testing.T) {
 // An order of math.MaxInt is an error whose Need is not negative.
 func TestYuleWalkerHugeOrder(t *testing.T) {
 	_, err := YuleWalkerOrder([]float64{1, 2, 3, 2, 1}, math.MaxInt)
-	var se *ShortError
-	if !errors.As(err, &se) || se.Need <= 0 {
-		t.Fatalf("YuleWalkerOrder(MaxInt) = %v, want a ShortError with a positive Need", err)
+	var se *SeriesError
+	if !errors.As(err, &se) || se.Kind != ErrShort || se.Need <= 0 {
+		t.Fatalf("YuleWalkerOrder(MaxInt) = %v, want a *SeriesError of kind ErrShort with a positive Need", err)
 	}
 }

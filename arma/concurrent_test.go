@@ -30,7 +30,7 @@ func TestConcurrentUse(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := fmt.Sprint(res.Est, res.SE, res.SSQ, fc.Mean, fc.SE, lb.Q, res.String())
+	want := fmt.Sprint(ests(res), ses(res), res.SSQ, fc.Mean, fc.SE, lb.Q, res.String())
 	var wg sync.WaitGroup
 	errs := make(chan string, 8)
 	for g := 0; g < 4; g++ {
@@ -50,7 +50,7 @@ func TestConcurrentUse(t *testing.T) {
 					return
 				}
 				_, _ = ACF(y, 20)
-				if got := fmt.Sprint(r.Est, r.SE, r.SSQ, f.Mean, f.SE, l.Q, res.String()); got != want {
+				if got := fmt.Sprint(ests(r), ses(r), r.SSQ, f.Mean, f.SE, l.Q, res.String()); got != want {
 					errs <- "concurrent result differs"
 					return
 				}

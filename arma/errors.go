@@ -1,9 +1,11 @@
 package arma
 
 import (
-	"fmt"
+	"errors"
 	"math"
 	"strconv"
+
+	"github.com/backshift/backshift/internal/errs"
 )
 
 // MaxAbs is the largest magnitude accepted for a sample: beyond it the
@@ -12,146 +14,117 @@ import (
 // over 10^28 samples), and the results would be NaN without a word.
 const MaxAbs = 1e140
 
-// DataError reports a sample that is NaN, infinite or larger in magnitude
-// than MaxAbs. Index is the 0-based position in the series; Series names
-// it when the caller gave a name (Options.Name), and is empty otherwise.
-type DataError struct {
-	Series string
-	Index  int
-	Value  float64
+// The error shapes of the library (internal/errs), re-exported so that
+// callers of arma need no other import. Every error an exported function
+// of arma returns is one of them (or wraps one) and matches one of the
+// kinds below with errors.Is; Op names the exported function called
+// ("arma.Fit", "arma.Result.Forecast").
+type (
+	// SampleError reports a NaN, infinite or too large (|v| > MaxAbs)
+	// sample: the series (FitSettings.Name, "series" when empty; the
+	// regressor's name; "innovations"), its 0-based index and value.
+	SampleError = errs.SampleError
+	// SeriesError reports a series too short (Kind ErrShort, with Have
+	// and Need) or constant (ErrConstant), or whose fit overflows
+	// (ErrOverflow).
+	SeriesError = errs.SeriesError
+	// SettingError reports an argument or settings field that breaks its
+	// rule: Setting is the caller's name for it ("FitSettings.MaxIter",
+	// "maxLag").
+	SettingError = errs.SettingError
+	// ModelError reports a model, polynomial or coefficient that cannot
+	// be used, among them a polynomial whose roots cannot be computed.
+	ModelError = errs.ModelError
+	// ConvergenceError is returned by Fit together with a valid *Result
+	// when the optimiser stopped before convergence; for a fit stopped
+	// by the caller's context the error also matches the context's error
+	// (errors.Is(err, context.Canceled)).
+	ConvergenceError = errs.ConvergenceError
+	// InternalError reports a panic (a fault of the library) recovered
+	// on one of Select's worker goroutines.
+	InternalError = errs.InternalError
+)
+
+// The kinds of error, for errors.Is (see internal/errs).
+var (
+	ErrSample      = errs.ErrSample
+	ErrShort       = errs.ErrShort
+	ErrConstant    = errs.ErrConstant
+	ErrLength      = errs.ErrLength
+	ErrSetting     = errs.ErrSetting
+	ErrModel       = errs.ErrModel
+	ErrConvergence = errs.ErrConvergence
+	ErrOverflow    = errs.ErrOverflow
+	ErrInternal    = errs.ErrInternal
+)
+
+// canceled is the error of a fit stopped by the caller's context: a
+// *ConvergenceError that also matches the context's error.
+type canceled struct {
+	*ConvergenceError
+	ctx error
 }
 
-// Error implements the error interface.
-func (e *DataError) Error() string {
-	name := seriesName(e.Series)
-	if !math.IsNaN(e.Value) && !math.IsInf(e.Value, 0) {
-		return fmt.Sprintf("arma: %s sample %d is %v, beyond MaxAbs = %v", name, e.Index, e.Value, MaxAbs)
+func (e *canceled) Unwrap() []error { return []error{e.ConvergenceError, e.ctx} }
+
+// settingErr returns a *SettingError (Op filled in by withOp).
+func settingErr(setting, value, rule string) error {
+	return &SettingError{Setting: setting, Value: value, Rule: rule}
+}
+
+// modelErr returns a *ModelError (Op filled in by withOp).
+func modelErr(part, problem string) error {
+	return &ModelError{Part: part, Problem: problem}
+}
+
+// shortErr returns a *SeriesError of kind ErrShort: have samples, need
+// needed for what.
+func shortErr(series string, have, need int, what string) error {
+	return &SeriesError{Series: seriesName(series), Kind: ErrShort, Have: have, Need: need, Detail: "needed for " + what}
+}
+
+// withOp sets Op of the shared error shape in *err to op, the exported
+// function the caller called; deferred at each exported entry point, so
+// that the outermost function's name wins.
+func withOp(op string, err *error) {
+	if *err == nil {
+		return
 	}
-	return fmt.Sprintf("arma: %s sample %d is %v", name, e.Index, e.Value)
-}
-
-// ShortError reports a series too short for the requested computation:
-// N samples were given, Need are required, What says for what.
-type ShortError struct {
-	Series string
-	N      int
-	Need   int
-	What   string
-}
-
-// Error implements the error interface.
-func (e *ShortError) Error() string {
-	name := seriesName(e.Series)
-	return fmt.Sprintf("arma: %s has %d samples, %s needs at least %d", name, e.N, e.What, e.Need)
-}
-
-// ConstantError reports a series whose samples are all equal (zero
-// variance after removing the mean), or all equal after the model's
-// differencing Diff (a straight line under (1 - B)), so that
-// correlations and fits are undefined. Value is the common value (of
-// the differenced series when Diff is not empty).
-type ConstantError struct {
-	Series string
-	N      int
-	Value  float64
-	// Diff is the differencing as text, "(1 - B)", empty for none.
-	Diff string
-}
-
-// Error implements the error interface.
-func (e *ConstantError) Error() string {
-	name := seriesName(e.Series)
-	v := strconv.FormatFloat(e.Value, 'g', 6, 64)
-	if e.Diff != "" {
-		return fmt.Sprintf("arma: %s is constant after the differencing %s (every differenced sample is %s over its %d samples): its levels lie on a line or repeat; use less differencing", name, e.Diff, v, e.N)
+	var a *SampleError
+	if errors.As(*err, &a) {
+		a.Op = op
 	}
-	return fmt.Sprintf("arma: %s is constant (every sample is %s over its %d samples)", name, v, e.N)
-}
-
-// ArgError reports an invalid argument that depends on the caller's
-// configuration rather than the data: a negative order or lag, an
-// unknown parameter name, a regressor of the wrong length.
-type ArgError struct {
-	Arg string
-	Msg string
-}
-
-// Error implements the error interface.
-func (e *ArgError) Error() string { return fmt.Sprintf("arma: %s: %s", e.Arg, e.Msg) }
-
-// ConvergenceError is returned by Fit together with a valid *Result when
-// the optimiser stopped before convergence. The result holds the best
-// point reached; Reason says why the optimiser stopped and Iter after how
-// many iterations. When the stop was the caller's context, Err holds the
-// context's error (context.Canceled or context.DeadlineExceeded), so that
-// errors.Is(err, context.Canceled) works; otherwise Err is nil.
-type ConvergenceError struct {
-	Reason string
-	Iter   int
-	Err    error
-}
-
-// Unwrap returns the context's error for a cancelled fit, nil otherwise.
-func (e *ConvergenceError) Unwrap() error { return e.Err }
-
-// Error implements the error interface.
-func (e *ConvergenceError) Error() string {
-	return fmt.Sprintf("arma: fit not converged after %d iterations: %s", e.Iter, e.Reason)
-}
-
-// InternalError reports a panic inside a goroutine that the library
-// started (Select runs its fits on worker goroutines). A panic there
-// would end the caller's whole process, so each worker recovers it into
-// this error as a last line of defence. It is always a bug in backshift,
-// never a problem of the data: please report it with the call that
-// caused it. Op says what was running, Value is the recovered panic
-// value and Stack the goroutine's stack at the panic.
-type InternalError struct {
-	Op    string
-	Value any
-	Stack string
-}
-
-// Error implements the error interface.
-func (e *InternalError) Error() string {
-	return fmt.Sprintf("arma: internal error in %s: %v (a bug in backshift, not a problem of the data: please report it with the call that caused it)", e.Op, e.Value)
-}
-
-// RootError reports that the roots of a model polynomial could not be
-// computed, so that its stationarity (Part "AR") or invertibility (Part
-// "MA") cannot be judged. Poly writes the polynomial's factor ("phi(B)"
-// or the seasonal "Phi(B^s)", "theta(B)", "Theta(B^s)") and Reason says
-// what failed. It comes from coefficients of extreme size (beyond about
-// 1e150, where the root finder's arithmetic overflows); no stationary or
-// invertible polynomial has them.
-type RootError struct {
-	Part   string
-	Poly   string
-	Reason string
-}
-
-// Error implements the error interface.
-func (e *RootError) Error() string {
-	what := "stationarity"
-	if e.Part == "MA" {
-		what = "invertibility"
+	var b *SeriesError
+	if errors.As(*err, &b) {
+		b.Op = op
 	}
-	return fmt.Sprintf("arma: the roots of the %s polynomial %s could not be computed (%s), so its %s cannot be judged; coefficients of this size belong to no stationary or invertible model: check their scale", e.Part, e.Poly, e.Reason, what)
+	var c *SettingError
+	if errors.As(*err, &c) {
+		c.Op = op
+	}
+	var d *ModelError
+	if errors.As(*err, &d) {
+		d.Op = op
+	}
+	var e *ConvergenceError
+	if errors.As(*err, &e) {
+		e.Op = op
+	}
 }
 
-// checkFinite returns a *DataError for the first NaN, infinite or
+// checkFinite returns a *SampleError for the first NaN, infinite or
 // too large (|v| > MaxAbs) sample.
 func checkFinite(name string, x []float64) error {
 	for i, v := range x {
 		if !(math.Abs(v) <= MaxAbs) {
-			return &DataError{Series: name, Index: i, Value: v}
+			return &SampleError{Series: seriesName(name), Index: i, Value: v, Limit: MaxAbs}
 		}
 	}
 	return nil
 }
 
 // seriesName is the name errors print for a series: the caller's
-// Options.Name, or "series" when none was given.
+// FitSettings.Name, or "series" when none was given.
 func seriesName(s string) string {
 	if s == "" {
 		return "series"
@@ -160,7 +133,7 @@ func seriesName(s string) string {
 }
 
 // addSat returns a+b for non-negative a and b, or math.MaxInt when the sum
-// overflows, so that a ShortError's Need for a huge lag or start stays
+// overflows, so that a SeriesError's Need for a huge lag or start stays
 // positive.
 func addSat(a, b int) int {
 	if a > math.MaxInt-b {

@@ -15,17 +15,18 @@ func Example() {
 	if err != nil {
 		panic(err)
 	}
-	cands, err := arma.Select(context.Background(), y, arma.Grid{MaxP: 2, MaxQ: 2, Criterion: arma.ByBIC}, nil)
+	fits, err := arma.Select(context.Background(), y, arma.Grid{MaxP: 2, MaxQ: 2}, nil)
 	if err != nil {
 		panic(err)
 	}
-	fmt.Println("chosen order:", cands[0].Order)
+	fmt.Println("chosen:", fits[0])
+	cands := fits
 	res, err := arma.Fit(context.Background(), y, cands[0].Order, nil)
 	if err != nil {
 		panic(err)
 	}
-	for i, name := range res.Names {
-		fmt.Printf("%-6s %7.3f  se %.3f\n", name, res.Est[i], res.SE[i])
+	for _, p := range res.Params {
+		fmt.Printf("%-6s %7.3f  se %.3f\n", p.Name, p.Value, p.SE)
 	}
 	lb, _ := arma.LjungBox(res.Resid[res.Start:], 20, 2)
 	fmt.Printf("Ljung-Box Q(20) = %.1f on %d df, p = %.2f\n", lb.Q, lb.DF, lb.P)
@@ -34,13 +35,13 @@ func Example() {
 		fmt.Printf("h=%d %.2f [%.2f, %.2f]\n", h+1, fc.Mean[h], fc.Lower[h], fc.Upper[h])
 	}
 	// Output:
-	// chosen order: (1,0,1)
+	// chosen: ARIMA(1,0,1) BIC 4328.79
 	// phi1     0.712  se 0.016
 	// theta1  -0.264  se 0.021
-	// mean    50.036  se 0.040
+	// c       50.036  se 0.040
 	// Ljung-Box Q(20) = 20.3 on 18 df, p = 0.32
-	// h=1 49.88 [48.91, 50.85]
-	// h=2 49.92 [48.57, 51.28]
+	// h=1 49.88 [48.90, 50.85]
+	// h=2 49.92 [48.56, 51.28]
 	// h=3 49.96 [48.44, 51.47]
 }
 
@@ -75,10 +76,39 @@ func ExampleResult_String() {
 	// Output:
 	// ARIMA(1,0,0) fitted by conditional least squares to 400 samples (residuals 1..399, 399 summed)
 	//   name              value    sd(value)  value/sd
-	//   phi1            0.83097       0.0278     29.85
-	//   mean             20.228        0.289     70.06
-	//   innovation variance 0.95023, sum of squares 379.142
+	//   phi1            0.83097       0.0279     29.78
+	//   c                20.228        0.289     69.88
+	//   innovation variance 0.95502, sum of squares 379.142
 	//   log-likelihood -555.97; AIC 1117.94, AICc 1118.00, BIC 1129.91
 	//   converged: relative reduction of the sum of squares below tolerance after 3 iterations
 	// Ljung-Box Q(10) = 11.60 on 9 df
+}
+
+// A noise model written as factors, built from arma's own exports (the
+// polynomial vocabulary Poly, Factor, Term and Coef), with the moving
+// average coefficient held and the autoregressive one free, then fitted.
+func ExampleNoise() {
+	// (1 - phi1 B) n_t = (1 - 0.4 B) a_t: phi1 free from 0.5, the MA
+	// coefficient a number.
+	noise := arma.Noise{
+		AR: arma.Poly{Factors: []arma.Factor{{Exp: 1, Terms: []arma.Term{
+			{Coef: arma.Coef{Value: 1}},
+			{Neg: true, Power: 1, Coef: arma.Coef{Name: "phi1", Value: 0.5, Free: true}},
+		}}}},
+		MA: arma.Poly{Factors: []arma.Factor{{Exp: 1, Terms: []arma.Term{
+			{Coef: arma.Coef{Value: 1}},
+			{Neg: true, Power: 1, Coef: arma.Coef{Value: 0.4}},
+		}}}},
+	}
+	fmt.Println("AR", noise.AR.Coeffs(), "MA", noise.MA.Coeffs())
+	y, _ := arma.Simulate(arma.Model{AR: []float64{0.6}, MA: []float64{0.4}, Sigma2: 1}, 2000, &arma.SimSettings{Seed1: 7, Seed2: 8})
+	res, err := arma.FitNoise(context.Background(), y, noise, nil, &arma.FitSettings{Constant: arma.ConstantZero})
+	if err != nil {
+		panic(err)
+	}
+	p := res.Params[0]
+	fmt.Printf("%s = %.3f (se %.3f)\n", p.Name, p.Value, p.SE)
+	// Output:
+	// AR [1 -0.5] MA [1 -0.4]
+	// phi1 = 0.594 (se 0.018)
 }

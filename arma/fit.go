@@ -8,6 +8,8 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/est"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/lm"
 	"github.com/backshift/backshift/internal/poly"
@@ -16,50 +18,56 @@ import (
 	"github.com/backshift/backshift/internal/vec"
 )
 
-// MeanMode says whether Fit includes the mean of the differenced series.
-type MeanMode int
+// ConstantRule says whether Fit estimates the constant c, the mean of
+// the (differenced) series (parameter name "c").
+type ConstantRule int
 
 const (
-	// MeanAuto estimates the mean when the model has no differencing and
-	// leaves it out (zero) otherwise.
-	MeanAuto MeanMode = iota
-	// MeanNone leaves the mean out (zero), unless Options.Fixed holds
-	// "mean".
-	MeanNone
-	// MeanFree always estimates the mean of the differenced series; with
-	// differencing it is a drift (a trend of slope Mean per sample for
-	// D = 1).
-	MeanFree
+	// ConstantUnlessDifferenced, the default, estimates c when the model
+	// has no differencing and holds it at zero otherwise. The reason:
+	// after differencing, c is a drift, a trend of c per sample (for
+	// D = 1) that every forecast extends without end; a trend that strong
+	// a claim should be asked for (ConstantFree), not added by default.
+	ConstantUnlessDifferenced ConstantRule = iota
+	// ConstantZero holds c at zero, unless FitSettings.Held holds "c".
+	ConstantZero
+	// ConstantFree always estimates c; with differencing it is a drift.
+	ConstantFree
 )
 
-// Options tunes Fit and FitNoise. The zero value gives the defaults.
-type Options struct {
+// FitSettings tunes Fit, FitNoise and Select. The zero value gives the
+// defaults (the settings rule of the library: zero means the default, a
+// negative count or tolerance is a *SettingError).
+type FitSettings struct {
 	// Name names the series in errors; empty means "series".
 	Name string
-	// Mean says whether the mean of the differenced series is estimated
-	// (parameter name "mean"). Default MeanAuto.
-	Mean MeanMode
-	// X holds regressor columns, each of the series' length: the model is
-	// for z_t = y_t - sum_k beta_k X[k][t]. The regression coefficients
-	// are estimated jointly with the ARMA coefficients; the columns are
-	// differenced with the series. A linear trend is X = {0, 1, 2, ...}.
-	X [][]float64
-	// XNames names the regression coefficients (default "x1", "x2", ...).
-	XNames []string
-	// Fixed holds parameters at given values instead of estimating them,
+	// Constant says whether the constant c, the mean of the (differenced)
+	// series, is estimated. Default ConstantUnlessDifferenced.
+	Constant ConstantRule
+	// Regressors holds regressor columns, each of the series' length: the
+	// model is for z_t = y_t - sum_k beta_k Regressors[k][t]. The
+	// regression coefficients are estimated jointly with the ARMA
+	// coefficients; the columns are differenced with the series. A linear
+	// trend is the column {0, 1, 2, ...}.
+	Regressors [][]float64
+	// RegressorNames names the regression coefficients (default "x1",
+	// "x2", ...).
+	RegressorNames []string
+	// Held holds parameters at given values instead of estimating them,
 	// by name: "phi1".."phip", "Phi1".. (seasonal AR), "theta1"..,
-	// "Theta1".. (seasonal MA), "mean" and the regressor names. Unknown
-	// names are an *ArgError.
-	Fixed map[string]float64
-	// Init overrides start values by name (default: Hannan-Rissanen on
-	// the last 20000 samples for the ordinary ARMA part, zero for seasonal
-	// coefficients, least squares for the mean and regressors).
-	Init map[string]float64
-	// Start is the index of the first residual in the sum of squares.
+	// "Theta1".. (seasonal MA), "c" and the regressor names. Unknown
+	// names are a *SettingError.
+	Held map[string]float64
+	// StartValues overrides start values of the search by name (default:
+	// Hannan-Rissanen on the last 20000 samples for the ordinary ARMA
+	// part, zero for seasonal coefficients, least squares for the
+	// constant and regressors).
+	StartValues map[string]float64
+	// First is the index of the first residual in the sum of squares.
 	// Zero means the conditional default: the degree of the expanded AR
 	// polynomial (P + SP*Period) plus that of the differencing
-	// (D + SD*Period). Smaller nonzero values are an *ArgError.
-	Start int
+	// (D + SD*Period). Smaller nonzero values are a *SettingError.
+	First int
 	// AllowNonInvertible lets the optimiser leave the invertible region
 	// of the MA polynomial. By default, when the start is invertible,
 	// steps to MA roots on or outside the unit circle (z-plane) are
@@ -95,32 +103,31 @@ type Result struct {
 	// AR and MA are the fitted expanded polynomials phi(B)Phi(B^s) and
 	// theta(B)Theta(B^s); Diff is the differencing polynomial.
 	AR, MA, Diff []float64
-	// Beta holds the regression coefficients (fixed ones included), in
-	// the order of Options.X.
+	// Beta holds the regression coefficients (held ones included), in
+	// the order of FitSettings.Regressors.
 	Beta []float64
-	// Names, Est, SE and T list the estimated (free) parameters: ARMA
-	// coefficients in written order, then "mean", then the regressors.
-	// SE are sqrt(diag(Sigma2 (J'J)^-1)) with J the Jacobian of the
-	// residuals at the estimate (Gauss-Newton), T = Est/SE. SE is NaN when
-	// J'J is singular.
-	Names      []string
-	Est, SE, T []float64
+	// Params lists the estimated (free) parameters: ARMA coefficients in
+	// written order, then "c" (the constant c, the mean of the
+	// (differenced) series), then the regressors. SE are
+	// sqrt(diag(Sigma2 (J'J)^-1)) with J the Jacobian of the residuals at
+	// the estimate (Gauss-Newton), T = Value/SE; SE is NaN when J'J is
+	// singular. Start is the start value of the search.
+	Params []Param
 	// SEHessian are standard errors from the observed Hessian of the sum
-	// of squares, sqrt(diag(Sigma2 (J'J + sum_t a_t d^2 a_t)^-1)), which
-	// differs from SE when the second-derivative term matters (MA
-	// coefficients, small samples). NaN when that matrix is not positive
-	// definite. Multiply by sqrt(NUsed/(N - D - SD*Period)) for the
-	// scaling that divides SSQ by the length of the differenced series.
+	// of squares, sqrt(diag(Sigma2 (J'J + sum_t a_t d^2 a_t)^-1)), in
+	// Params order, which differ from SE when the second-derivative term
+	// matters (MA coefficients, small samples). NaN when that matrix is
+	// not positive definite.
 	SEHessian []float64
-	// Cov and Corr are the covariance and correlation matrices of Est
-	// (nil when J'J is singular). For a series of extreme scale (about
-	// 1e-150) a variance in Cov can underflow to 0; SE and Corr are
-	// computed without that loss.
-	Cov, Corr *mat.SymDense
+	// Cov and Corr are the covariance and correlation matrices of the
+	// Params, in their order (NaN entries when J'J is singular). For a
+	// series of extreme scale (about 1e-150) a variance in Cov can
+	// underflow to 0; SE and Corr are computed without that loss.
+	Cov, Corr [][]float64
 	// SSQ is the conditional sum of squares sum_{t >= Start} a_t^2.
 	SSQ float64
-	// Sigma2 = SSQ / NUsed, the innovation variance estimate (no
-	// correction for the number of parameters).
+	// Sigma2 = SSQ / (NUsed - len(Params)), the innovation variance of
+	// the library's convention (est.Sigma2; see the package doc).
 	Sigma2 float64
 	// N is the series length, Start the first summed residual, NUsed =
 	// N - Start the number of residuals summed.
@@ -130,9 +137,9 @@ type Result struct {
 	Resid []float64
 	// LogLik is the Gaussian log-likelihood of the NUsed residuals,
 	// conditional on the first Start samples and zero pre-sample
-	// innovations, at sigma^2 = Sigma2:
+	// innovations, at its maximising variance SSQ/NUsed (not Sigma2):
 	//
-	//	LogLik = -NUsed/2 (log(2 pi Sigma2) + 1)
+	//	LogLik = -NUsed/2 (log(2 pi SSQ/NUsed) + 1)
 	LogLik float64
 	// K is the number of estimated parameters including sigma^2.
 	K int
@@ -180,17 +187,24 @@ type Result struct {
 // that its results do not depend on the series' units; the powers of
 // two scale exactly, and every result is reported in the series' units.
 //
-// Errors: *ArgError for a bad order or options (Options.Validate),
-// *DataError for NaN/Inf in y or X, *ShortError when fewer residuals
-// than parameters + 1 remain, *ConstantError when the series is constant,
-// or constant after the differencing (the message says which), and an
-// *ArgError naming the series when the residual sum of squares is 0 (an
-// exact fit, or samples so small that their squares underflow) or
-// overflows, where Sigma2 and the criteria would not be finite. When
-// the optimiser stops without converging Fit returns the best point as a
-// valid *Result together with a *ConvergenceError. ctx cancels the fit
-// (the best point so far is returned with a *ConvergenceError).
-func Fit(ctx context.Context, y []float64, ord Order, opt *Options) (*Result, error) {
+// Errors: *SettingError for a bad order or settings
+// (FitSettings.Validate), *SampleError for NaN/Inf in y or a regressor,
+// *SeriesError of kind ErrShort when fewer residuals than parameters + 1
+// remain and of kind ErrConstant when the series is constant, or
+// constant after the differencing (the message says which), a
+// *ModelError naming the series when the residual sum of squares is 0
+// (an exact fit, or samples so small that their squares underflow) and a
+// *SeriesError of kind ErrOverflow when it overflows, where Sigma2 and
+// the criteria would not be finite. When the optimiser stops without
+// converging Fit returns the best point as a valid *Result together with
+// a *ConvergenceError. ctx cancels the fit (the best point so far is
+// returned with a *ConvergenceError that also matches ctx's error).
+func Fit(ctx context.Context, y []float64, ord Order, opt *FitSettings) (res *Result, err error) {
+	defer withOp("arma.Fit", &err)
+	return fit(ctx, y, ord, opt)
+}
+
+func fit(ctx context.Context, y []float64, ord Order, opt *FitSettings) (*Result, error) {
 	if err := ord.validate(); err != nil {
 		return nil, err
 	}
@@ -235,26 +249,28 @@ func coefsOf(p sym.Poly, n, sn int) (c, sc []float64) {
 // FitNoise estimates a noise model written as factors with named
 // coefficients (subset and multiplicative models, shared names) by the
 // same conditional least squares as Fit. Free named coefficients are
-// estimated from their Values as start values (Options.Init overrides);
-// unnamed or non-free coefficients are held. diff is the differencing
-// polynomial applied to the series (nil for none); MeanAuto estimates the
-// mean when diff has degree 0; its degree is at most MaxLag (an
-// *ArgError otherwise). noise is not modified.
-func FitNoise(ctx context.Context, y []float64, noise Noise, diff []float64, opt *Options) (*Result, error) {
+// estimated from their Values as start values (FitSettings.StartValues
+// overrides); unnamed or non-free coefficients are held. diff is the
+// differencing polynomial applied to the series (nil for none);
+// ConstantUnlessDifferenced estimates c when diff has degree 0; its
+// degree is at most MaxLag (a *ModelError otherwise). noise is not
+// modified.
+func FitNoise(ctx context.Context, y []float64, noise Noise, diff []float64, opt *FitSettings) (res *Result, err error) {
+	defer withOp("arma.FitNoise", &err)
 	if len(diff) == 0 {
 		diff = []float64{1}
 	}
 	for _, v := range diff {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, &ArgError{Arg: "diff", Msg: "coefficients must be finite"}
+			return nil, modelErr("diff", "coefficients must be finite")
 		}
 	}
 	if diff[0] == 0 {
-		return nil, &ArgError{Arg: "diff", Msg: "constant term must be non-zero"}
+		return nil, modelErr("diff", "constant term must be non-zero")
 	}
 	d := poly.Degree(diff)
 	if d > MaxLag {
-		return nil, &ArgError{Arg: "diff", Msg: "degree " + itoa(d) + " above MaxLag = " + itoa(MaxLag)}
+		return nil, modelErr("diff", "degree "+itoa(d)+" above MaxLag = "+itoa(MaxLag))
 	}
 	diff = diff[:d+1] // trailing zeros would only cost time
 	return fitCore(ctx, y, noise.Clone(), diff, d > 0, opt, nil)
@@ -292,21 +308,21 @@ type engine struct {
 	hjac     [][]float64
 }
 
-func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, differenced bool, opt *Options, ord *Order) (*Result, error) {
-	var o Options
+func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, differenced bool, opt *FitSettings, ord *Order) (*Result, error) {
+	var o FitSettings
 	if opt != nil {
 		o = *opt
 	}
 	n := len(y)
-	if err := o.Validate(); err != nil {
+	if err := o.validate(); err != nil {
 		return nil, err
 	}
 	if err := checkFinite(o.Name, y); err != nil {
 		return nil, err
 	}
-	for k, x := range o.X {
+	for k, x := range o.Regressors {
 		if len(x) != n {
-			return nil, &ArgError{Arg: "Options.X", Msg: "regressor " + xName(o, k) + " has " + itoa(len(x)) + " samples, " + seriesName(o.Name) + " has " + itoa(n)}
+			return nil, &SeriesError{Series: xName(o, k), Kind: errs.ErrLength, Have: len(x), Need: n, Detail: "a regressor needs the length of " + seriesName(o.Name)}
 		}
 	}
 	e := &engine{n: n, ar: noise.AR, ma: noise.MA, index: map[string]int{}, kmu: -1, one: []float64{1}}
@@ -321,7 +337,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		if c.Name == "" {
 			return
 		}
-		if v, ok := o.Fixed[c.Name]; ok {
+		if v, ok := o.Held[c.Name]; ok {
 			c.Value, c.Free = v, false
 			fixedUsed[c.Name] = true
 			return
@@ -341,50 +357,48 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	e.ma.Each(collect)
 	e.narma = len(names)
 	if badValue {
-		return nil, &ArgError{Arg: "noise", Msg: "coefficient values must be finite"}
+		return nil, modelErr("noise", "coefficient values must be finite")
 	}
-	for _, nm := range []string{"mean"} {
-		if _, dup := e.index[nm]; dup {
-			return nil, &ArgError{Arg: "noise", Msg: "coefficient name " + nm + " is reserved"}
-		}
+	if _, dup := e.index["c"]; dup {
+		return nil, modelErr("noise", `coefficient name "c" is reserved for the constant`)
 	}
 	phi0 := e.ar.Coeffs()
 	th0 := e.ma.Coeffs()
 	if phi0[0] == 0 || th0[0] == 0 {
-		return nil, &ArgError{Arg: "noise", Msg: "AR and MA polynomials need a non-zero constant term"}
+		return nil, modelErr("noise", "AR and MA polynomials need a non-zero constant term")
 	}
 	degAR, degMA := len(phi0)-1, len(th0)-1
 	if degAR > MaxLag || degMA > MaxLag {
-		return nil, &ArgError{Arg: "noise", Msg: "polynomial degree above MaxLag"}
+		return nil, modelErr("noise", "polynomial degree above MaxLag = "+itoa(MaxLag))
 	}
 	dd := poly.Degree(diff)
 	e.t0 = dd + degAR
-	if o.Start != 0 {
-		if o.Start < e.t0 {
-			return nil, &ArgError{Arg: "Options.Start", Msg: "must be at least " + itoa(e.t0) + " (AR degree plus differencing)"}
+	if o.First != 0 {
+		if o.First < e.t0 {
+			return nil, settingErr("FitSettings.First", itoa(o.First), "must be zero or at least "+itoa(e.t0)+" (AR degree plus differencing)")
 		}
-		e.t0 = o.Start
+		e.t0 = o.First
 	}
 	// Mean and regressors.
-	meanVal, meanFixed := o.Fixed["mean"]
-	hasMean := meanFixed || o.Mean == MeanFree || (o.Mean == MeanAuto && !differenced)
+	meanVal, meanFixed := o.Held["c"]
+	hasMean := meanFixed || o.Constant == ConstantFree || (o.Constant == ConstantUnlessDifferenced && !differenced)
 	if meanFixed {
-		fixedUsed["mean"] = true
+		fixedUsed["c"] = true
 		e.mu = meanVal
 	}
 	if hasMean && !meanFixed {
 		e.kmu = len(names)
-		names = append(names, "mean")
+		names = append(names, "c")
 	}
-	e.beta = make([]float64, len(o.X))
-	e.kb = make([]int, len(o.X))
-	for k := range o.X {
+	e.beta = make([]float64, len(o.Regressors))
+	e.kb = make([]int, len(o.Regressors))
+	for k := range o.Regressors {
 		nm := xName(o, k)
-		if _, dup := e.index[nm]; dup || nm == "mean" {
-			return nil, &ArgError{Arg: "Options.XNames", Msg: "name " + nm + " is also a coefficient of the noise model"}
+		if _, dup := e.index[nm]; dup || nm == "c" {
+			return nil, settingErr("FitSettings.RegressorNames", strconv.Quote(nm), "is also a coefficient of the noise model; name the regressor otherwise")
 		}
 		e.index[nm] = -1
-		if v, ok := o.Fixed[nm]; ok {
+		if v, ok := o.Held[nm]; ok {
 			fixedUsed[nm] = true
 			e.beta[k] = v
 			e.kb[k] = -1
@@ -393,9 +407,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		e.kb[k] = len(names)
 		names = append(names, nm)
 	}
-	for nm := range o.Fixed {
+	for nm := range o.Held {
 		if !fixedUsed[nm] {
-			return nil, &ArgError{Arg: "Options.Fixed", Msg: "no parameter named " + nm}
+			return nil, settingErr("FitSettings.Held", strconv.Quote(nm), "names no parameter of the model")
 		}
 	}
 	np := len(names)
@@ -403,11 +417,11 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	// At least two residuals: a single differenced sample would be
 	// reported as "constant".
 	if e.m < np+1 || e.m < 2 {
-		return nil, &ShortError{Series: o.Name, N: n, Need: addSat(e.t0, max(np+1, 2)), What: "a fit with " + itoa(np) + " parameters from index " + itoa(e.t0)}
+		return nil, shortErr(o.Name, n, addSat(e.t0, max(np+1, 2)), "a fit with "+itoa(np)+" parameters from index "+itoa(e.t0))
 	}
 	// Differenced series and free regressor columns.
 	z := append([]float64(nil), y...)
-	for k, x := range o.X {
+	for k, x := range o.Regressors {
 		if e.kb[k] < 0 {
 			for t := range z {
 				z[t] -= e.beta[k] * x[t]
@@ -415,20 +429,22 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 	}
 	e.wy = applyDiff(diff, z)
-	for k, x := range o.X {
+	for k, x := range o.Regressors {
 		if e.kb[k] >= 0 {
 			e.wx = append(e.wx, applyDiff(diff, x))
 		} else {
 			e.wx = append(e.wx, nil)
 		}
 	}
-	if constantFrom(e.wy, dd) && len(o.X) == 0 {
-		ce := &ConstantError{Series: o.Name, N: n}
+	if constantFrom(e.wy, dd) && len(o.Regressors) == 0 {
+		v := 0.0
 		if dd < n {
-			ce.Value = e.wy[dd]
+			v = e.wy[dd]
 		}
+		vs := strconv.FormatFloat(v, 'g', 6, 64)
+		ce := &SeriesError{Series: seriesName(o.Name), Kind: ErrConstant, Detail: "every sample is " + vs + " over its " + itoa(n) + " samples"}
 		if dd > 0 {
-			ce.Diff = diffText(diff)
+			ce.Detail = "after the differencing " + diffText(diff) + ": every differenced sample is " + vs + " over its " + itoa(n) + " samples; its levels lie on a line or repeat; use less differencing"
 		}
 		return nil, ce
 	}
@@ -482,9 +498,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	if err != nil {
 		return nil, err
 	}
-	for nm, v := range o.Init {
+	for nm, v := range o.StartValues {
 		k, ok := e.index[nm]
-		if nm == "mean" && e.kmu >= 0 {
+		if nm == "c" && e.kmu >= 0 {
 			k, ok = e.kmu, true
 		}
 		for j, b := range e.kb {
@@ -493,7 +509,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 			}
 		}
 		if !ok || k < 0 {
-			return nil, &ArgError{Arg: "Options.Init", Msg: "no free parameter named " + nm}
+			return nil, settingErr("FitSettings.StartValues", strconv.Quote(nm), "names no free parameter of the model")
 		}
 		v /= e.pscale[k]
 		if k == e.kmu {
@@ -501,7 +517,16 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		}
 		x0[k] = v
 	}
-	res := &Result{N: n, Start: e.t0, NUsed: e.m, Names: names, Diff: diff, narma: e.narma}
+	// The start values in the series' units, for Params.
+	starts := make([]float64, np)
+	for k := range starts {
+		starts[k] = x0[k]
+		if k == e.kmu {
+			starts[k] += e.shift
+		}
+		starts[k] *= e.pscale[k]
+	}
+	res := &Result{N: n, Start: e.t0, NUsed: e.m, Diff: diff, narma: e.narma}
 	var lres lm.Result
 	var cerr error
 	if np == 0 {
@@ -520,7 +545,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		if err != nil {
 			// The residuals at the start point overflow (the only failure
 			// of the optimiser's start with a valid problem).
-			return nil, &ArgError{Arg: "start values", Msg: "the residuals of " + seriesName(o.Name) + " at the start values are not finite: an Options.Init or Options.Fixed value, or a coefficient value of the noise model, is too large for the series' scale"}
+			return nil, modelErr("start values", "the residuals of "+seriesName(o.Name)+" at the start values are not finite: a FitSettings.StartValues or FitSettings.Held value, or a coefficient value of the noise model, is too large for the series' scale")
 		}
 	}
 	// Newton polish with the exact Hessian (after convergence only): in
@@ -581,50 +606,51 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 		finalR = polishedR
 	}
 	f = vec.Dot(finalR, finalR)
-	sigma2Scaled := f / float64(e.m) // in the working units
+	// The library's variance convention, SSQ/(N-k) (internal/est).
+	sigma2Scaled := est.Sigma2(f, e.m, np) // in the working units
 	e.set(x)
 	res.Noise = Noise{AR: e.ar, MA: e.ma}
 	res.AR = e.ar.Coeffs()
 	res.MA = e.ma.Coeffs()
-	res.Est = append([]float64(nil), x...)
+	value := append([]float64(nil), x...)
 	if e.kmu >= 0 {
-		res.Est[e.kmu] += e.shift
+		value[e.kmu] += e.shift
 	}
 	// Back to the series' units.
-	for k := range res.Est {
-		res.Est[k] *= e.pscale[k]
+	for k := range value {
+		value[k] *= e.pscale[k]
 	}
 	f *= e.scale * e.scale
 	for i := range finalR {
 		finalR[i] *= e.scale
 	}
 	res.SSQ = f
-	res.Sigma2 = f / float64(e.m)
+	res.Sigma2 = est.Sigma2(f, e.m, np)
 	switch {
 	case res.Sigma2 == 0:
-		return nil, &ArgError{Arg: seriesName(o.Name), Msg: "residual sum of squares is 0: the model fits exactly or the residuals are too small for their squares (below about 1e-162, whose square is under the smallest float64); rescale the series"}
+		return nil, modelErr("fit of "+seriesName(o.Name), "residual sum of squares is 0: the model fits exactly or the residuals are too small for their squares (below about 1e-162, whose square is under the smallest float64); rescale the series")
 	case !(res.Sigma2 < math.Inf(1)):
-		return nil, &ArgError{Arg: seriesName(o.Name), Msg: "residual sum of squares overflows: a diff or Fixed coefficient too large for the series' scale"}
+		return nil, &SeriesError{Series: seriesName(o.Name), Kind: ErrOverflow, Detail: "the residual sum of squares overflows: a diff or FitSettings.Held coefficient too large for the series' scale"}
 	}
 	res.Iter, res.Evals = lres.Iter, lres.Evals
 	res.Converged = lres.Reason.Converged()
 	res.Reason = lres.Reason.String()
 	if !res.Converged {
 		ce := &ConvergenceError{Reason: res.Reason, Iter: lres.Iter}
-		if lres.Reason == lm.Canceled {
-			ce.Err = ctx.Err()
-		}
 		cerr = ce
+		if lres.Reason == lm.Canceled {
+			cerr = &canceled{ConvergenceError: ce, ctx: ctx.Err()}
+		}
 	}
 	res.Model.Mean = e.mu * e.scale
 	if e.kmu >= 0 {
-		res.Model.Mean = res.Est[e.kmu]
+		res.Model.Mean = value[e.kmu]
 	}
 	res.Model.Sigma2 = res.Sigma2
 	res.Beta = append([]float64(nil), e.beta...)
 	for k, b := range e.kb {
 		if b >= 0 {
-			res.Beta[k] = res.Est[b]
+			res.Beta[k] = value[b]
 		}
 	}
 	res.Resid = make([]float64, n)
@@ -633,29 +659,35 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	copy(res.Resid[e.t0:], finalR)
 	// Uncertainty.
-	res.SE = make([]float64, np)
-	res.T = make([]float64, np)
+	res.Params = make([]Param, np)
 	res.SEHessian = make([]float64, np)
-	for k := range res.SE {
-		res.SE[k], res.T[k], res.SEHessian[k] = math.NaN(), math.NaN(), math.NaN()
+	res.Cov = make([][]float64, np)
+	res.Corr = make([][]float64, np)
+	for k := range res.Params {
+		res.Params[k] = Param{Name: names[k], Value: value[k], Start: starts[k], SE: math.NaN(), T: math.NaN()}
+		res.SEHessian[k] = math.NaN()
+		res.Cov[k] = make([]float64, np)
+		res.Corr[k] = make([]float64, np)
+		for j := range res.Cov[k] {
+			res.Cov[k][j], res.Corr[k][j] = math.NaN(), math.NaN()
+		}
 	}
 	if inv := invSym(jtj); inv != nil {
-		res.Cov = mat.NewSymDense(np, nil)
 		for i := 0; i < np; i++ {
-			for j := i; j < np; j++ {
-				res.Cov.SetSym(i, j, sigma2Scaled*inv.At(i, j)*e.pscale[i]*e.pscale[j])
+			for j := 0; j < np; j++ {
+				res.Cov[i][j] = sigma2Scaled * inv.At(i, j) * e.pscale[i] * e.pscale[j]
 			}
 		}
 		// SE and Corr from the working units: a variance of a series at
 		// 1e-150 can underflow in Cov where its square root is fine.
-		res.Corr = mat.NewSymDense(np, nil)
 		for i := 0; i < np; i++ {
-			res.SE[i] = math.Sqrt(sigma2Scaled*inv.At(i, i)) * e.pscale[i]
-			res.T[i] = res.Est[i] / res.SE[i]
+			p := &res.Params[i]
+			p.SE = math.Sqrt(sigma2Scaled*inv.At(i, i)) * e.pscale[i]
+			p.T = p.Value / p.SE
 		}
 		for i := 0; i < np; i++ {
-			for j := i; j < np; j++ {
-				res.Corr.SetSym(i, j, inv.At(i, j)/math.Sqrt(inv.At(i, i)*inv.At(j, j)))
+			for j := 0; j < np; j++ {
+				res.Corr[i][j] = inv.At(i, j) / math.Sqrt(inv.At(i, i)*inv.At(j, j))
 			}
 		}
 	}
@@ -666,7 +698,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	nu := float64(e.m)
 	res.K = np + 1
-	res.LogLik = -nu / 2 * (math.Log(2*math.Pi*res.Sigma2) + 1)
+	// The likelihood at its maximising variance SSQ/N, whatever the
+	// reported Sigma2 (see the package doc).
+	res.LogLik = -nu / 2 * (math.Log(2*math.Pi*res.SSQ/nu) + 1)
 	k := float64(res.K)
 	res.AIC = -2*res.LogLik + 2*k
 	res.AICc = math.Inf(1)
@@ -687,7 +721,7 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	}
 	// Forecast state.
 	zf := append([]float64(nil), y...)
-	for k, x := range o.X {
+	for k, x := range o.Regressors {
 		for t := range zf {
 			zf[t] -= res.Beta[k] * x[t]
 		}
@@ -705,9 +739,9 @@ func fitCore(ctx context.Context, y []float64, noise Noise, diff []float64, diff
 	return res, cerr
 }
 
-func xName(o Options, k int) string {
-	if k < len(o.XNames) {
-		return o.XNames[k]
+func xName(o FitSettings, k int) string {
+	if k < len(o.RegressorNames) {
+		return o.RegressorNames[k]
 	}
 	return "x" + itoa(k+1)
 }
@@ -934,7 +968,7 @@ func lagSub(dst, c, a []float64) {
 // start returns the start vector: Hannan-Rissanen for the ordinary ARMA
 // part of an Order fit, the written values for FitNoise, least squares
 // for the mean and regressors.
-func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64, error) {
+func (e *engine) start(names []string, o FitSettings, ord *Order, dd int) ([]float64, error) {
 	x0 := make([]float64, len(names))
 	for _, r := range e.refs {
 		x0[r.k] = r.c.Value
@@ -998,11 +1032,9 @@ func (e *engine) start(names []string, o Options, ord *Order, dd int) ([]float64
 	if len(resid) > hrMax {
 		resid = resid[len(resid)-hrMax:]
 	}
-	phi, theta, err := HannanRissanen(resid, ord.P, ord.Q, 0)
+	phi, theta, err := hannanRissanen(resid, ord.P, ord.Q, 0)
 	if err != nil {
-		var se *ShortError
-		var ce *ConstantError
-		if errors.As(err, &se) || errors.As(err, &ce) {
+		if errors.Is(err, ErrShort) || errors.Is(err, ErrConstant) {
 			return x0, nil // too short for the long AR: start from zero
 		}
 		return nil, err

@@ -64,32 +64,33 @@ type Forecast struct {
 // column of length steps per regressor of the fit (nil when the fit had
 // none).
 //
-// Errors: *ArgError for steps < 1 or above MaxHorizon, level outside
-// (0, 1), futureX of the wrong shape, a *DataError ("futureX column k",
+// Errors: *SettingError for steps < 1 or above MaxHorizon, level outside
+// (0, 1), futureX of the wrong shape, a *SampleError ("futureX column k",
 // with the index) for a NaN, infinite or too large future regressor
-// value, *ArgError for r not a result of
-// Fit or FitNoise (nil or the zero Result), or forecasts that overflow
-// float64 (an explosive fitted AR part; the Forecast is still returned,
-// finite up to the step the message names).
-func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Forecast, error) {
+// value, a *ModelError for r not a result of Fit or FitNoise (nil or the
+// zero Result), and a *SeriesError of kind ErrOverflow for forecasts that
+// overflow float64 (an explosive fitted AR part; the Forecast is still
+// returned, finite up to the step the message names).
+func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (fc Forecast, err error) {
+	defer withOp("arma.Result.Forecast", &err)
 	if r == nil || len(r.AR) == 0 || len(r.MA) == 0 || len(r.Diff) == 0 {
-		return Forecast{}, &ArgError{Arg: "result", Msg: "Forecast needs a result of Fit or FitNoise"}
+		return Forecast{}, modelErr("result", "Forecast needs a result of Fit or FitNoise")
 	}
 	if steps < 1 || steps > MaxHorizon {
-		return Forecast{}, &ArgError{Arg: "steps", Msg: "must be in 1..MaxHorizon = " + itoa(MaxHorizon) + ", got " + itoa(steps)}
+		return Forecast{}, settingErr("steps", itoa(steps), "must be in 1..MaxHorizon = "+itoa(MaxHorizon))
 	}
 	if level == 0 {
 		level = 0.95
 	}
 	if !(level > 0 && level < 1) {
-		return Forecast{}, &ArgError{Arg: "level", Msg: "must be in (0, 1)"}
+		return Forecast{}, settingErr("level", fmtFloat(level), "must be in (0, 1) (zero means 0.95)")
 	}
 	if len(futureX) != len(r.Beta) {
-		return Forecast{}, &ArgError{Arg: "futureX", Msg: "needs " + itoa(len(r.Beta)) + " regressor columns"}
+		return Forecast{}, settingErr("futureX", itoa(len(futureX))+" columns", "needs "+itoa(len(r.Beta))+" regressor columns, one per regressor of the fit")
 	}
 	for k, c := range futureX {
 		if len(c) != steps {
-			return Forecast{}, &ArgError{Arg: "futureX", Msg: "column " + itoa(k+1) + " needs " + itoa(steps) + " values"}
+			return Forecast{}, settingErr("futureX column "+itoa(k+1), itoa(len(c))+" values", "needs "+itoa(steps)+" values, one per step")
 		}
 		if err := checkFinite("futureX column "+itoa(k+1), c); err != nil {
 			return Forecast{}, err
@@ -115,7 +116,7 @@ func (r *Result) Forecast(steps int, level float64, futureX [][]float64) (Foreca
 	return f, checkForecast(f)
 }
 
-// checkForecast returns an *ArgError when a forecast or its interval
+// checkForecast returns a *SeriesError of kind ErrOverflow when a forecast or its interval
 // overflowed (an explosive fitted AR part over a long horizon).
 func checkForecast(f Forecast) error {
 	first := -1
@@ -127,7 +128,7 @@ func checkForecast(f Forecast) error {
 	if first < 0 {
 		return nil
 	}
-	return &ArgError{Arg: "steps", Msg: "forecast overflows at step " + itoa(first+1) + " (explosive fitted AR part); ask for fewer than " + itoa(first+1) + " steps"}
+	return &SeriesError{Series: "forecast", Kind: ErrOverflow, Detail: "the forecast overflows at step " + itoa(first+1) + " (explosive fitted AR part); ask for fewer than " + itoa(first+1) + " steps"}
 }
 
 // conditionalForecast runs the conditional recursion (arguments checked).

@@ -22,29 +22,35 @@ import (
 // as an optimiser needs; pure AR orders (q = 0) use the Yule-Walker fit of
 // order p directly.
 //
-// Errors: *ArgError for negative orders or a negative longAR, *ShortError
+// Errors: *SettingError for negative orders or a negative longAR, a
+// *SeriesError of kind ErrShort
 // when n is too small for the regression (any order or longAR of n or
 // more, however large), and the errors of ACF for bad data.
 //
 // References: Hannan, E. J. and Rissanen, J. (1982). Recursive estimation
 // of mixed autoregressive-moving average order. Biometrika 69(1), 81-94.
 func HannanRissanen(w []float64, p, q, longAR int) (phi, theta []float64, err error) {
+	defer withOp("arma.HannanRissanen", &err)
+	return hannanRissanen(w, p, q, longAR)
+}
+
+func hannanRissanen(w []float64, p, q, longAR int) (phi, theta []float64, err error) {
 	if p < 0 || q < 0 {
-		return nil, nil, &ArgError{Arg: "order", Msg: "p and q must not be negative"}
+		return nil, nil, settingErr("p, q", itoa(p)+", "+itoa(q), "orders must not be negative")
 	}
 	if longAR < 0 {
-		return nil, nil, &ArgError{Arg: "longAR", Msg: "must not be negative (zero means the default)"}
+		return nil, nil, settingErr("longAR", itoa(longAR), "must not be negative (zero means the default)")
 	}
 	n := len(w)
 	if q > 0 && (p >= n || q >= n || longAR >= n) {
 		// Bounded before any arithmetic: p+q or longAR+q could overflow.
 		k := addSat(p, q)
 		long := max(longAR, addSat(k, 1))
-		return nil, nil, &ShortError{N: n, Need: addSat(addSat(long, q), addSat(k, 1)),
-			What: "a Hannan-Rissanen start of an ARMA(" + itoa(p) + "," + itoa(q) + ")"}
+		return nil, nil, shortErr("", n, addSat(addSat(long, q), addSat(k, 1)),
+			"a Hannan-Rissanen start of an ARMA("+itoa(p)+","+itoa(q)+")")
 	}
 	if q == 0 {
-		f, err := YuleWalkerOrder(w, p)
+		f, err := ywFit(w, p, p)
 		if err != nil {
 			return nil, nil, err
 		}
@@ -57,9 +63,9 @@ func HannanRissanen(w []float64, p, q, longAR int) (phi, theta []float64, err er
 	rows := n - first
 	k := p + q
 	if rows < k+1 {
-		return nil, nil, &ShortError{N: n, Need: first + k + 1, What: "a Hannan-Rissanen start of an ARMA(" + itoa(p) + "," + itoa(q) + ")"}
+		return nil, nil, shortErr("", n, first+k+1, "a Hannan-Rissanen start of an ARMA("+itoa(p)+","+itoa(q)+")")
 	}
-	long, err := YuleWalkerOrder(w, longAR)
+	long, err := ywFit(w, longAR, longAR)
 	if err != nil {
 		return nil, nil, err
 	}

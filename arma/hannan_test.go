@@ -27,8 +27,8 @@ func TestHannanRissanenConsistent(t *testing.T) {
 	if err != nil || len(phi) != 3 || len(theta) != 1 {
 		t.Errorf("AR(2) start: %v %v %v", phi, theta, err)
 	}
-	var se *ShortError
-	if _, _, err := HannanRissanen(y[:8], 2, 2, 0); !errors.As(err, &se) {
+	var se *SeriesError
+	if _, _, err := HannanRissanen(y[:8], 2, 2, 0); !errors.As(err, &se) || se.Kind != ErrShort || se.Op != "arma.HannanRissanen" {
 		t.Errorf("short: %v", err)
 	}
 }

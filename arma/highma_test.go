@@ -46,17 +46,17 @@ func TestHighDegreeMA(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			res, err := Fit(context.Background(), y, c.m.Order(), &Options{Mean: MeanNone})
+			res, err := Fit(context.Background(), y, c.m.Order(), &FitSettings{Constant: ConstantZero})
 			if err != nil {
 				t.Fatal(err)
 			}
 			truth := append(append(append(append([]float64(nil), c.m.AR...), c.m.SAR...), c.m.MA...), c.m.SMA...)
-			if len(res.Est) != len(truth) {
-				t.Fatalf("%d estimates %v, want %d", len(res.Est), res.Names, len(truth))
+			if len(res.Params) != len(truth) {
+				t.Fatalf("%d estimates %v, want %d", len(res.Params), names(res), len(truth))
 			}
 			for k, v := range truth {
-				if d := math.Abs(res.Est[k]-v) / res.SE[k]; !(d <= 4) {
-					t.Errorf("%s = %.4f +- %.4f, truth %.4f (%.1f SE)", res.Names[k], res.Est[k], res.SE[k], v, d)
+				if d := math.Abs(ests(res)[k]-v) / ses(res)[k]; !(d <= 4) {
+					t.Errorf("%s = %.4f +- %.4f, truth %.4f (%.1f SE)", names(res)[k], ests(res)[k], ses(res)[k], v, d)
 				}
 			}
 			fc, err := res.Forecast(60, 0.95, nil)
@@ -104,15 +104,15 @@ func TestRootsOfHugeFactors(t *testing.T) {
 	}
 	// Simulation names the non-stationary AR part instead of a root
 	// finder failure.
-	if _, err := Simulate(m, 10, nil); err == nil || !strings.Contains(err.Error(), "AR part not stationary") {
+	if _, err := Simulate(m, 10, nil); err == nil || !strings.Contains(err.Error(), "arma.Simulate: model AR part: not stationary") {
 		t.Errorf("Simulate: %v", err)
 	}
 	// A failure of the root finder itself (not reachable with finite
 	// coefficients of degree <= MaxLag in 21500 random trials over
-	// magnitudes 1e-323..1e307) is a *RootError naming the factor.
+	// magnitudes 1e-323..1e307) is a *ModelError naming the factor.
 	err := rootError("MA", true, poly.ErrRoots)
-	var re *RootError
-	if !errors.As(err, &re) || re.Poly != "Theta(B^s)" {
+	var re *ModelError
+	if !errors.As(err, &re) || re.Part != "MA polynomial Theta(B^s)" || !errors.Is(err, ErrModel) {
 		t.Fatalf("%T %v", err, err)
 	}
 	for _, w := range []string{"MA polynomial Theta(B^s)", "invertibility", "check their scale"} {
@@ -135,8 +135,9 @@ func TestWeightsOfHugeFactors(t *testing.T) {
 		"Pi":  func() error { _, err := m.Pi(4); return err },
 	} {
 		err := f()
-		var ae *ArgError
-		if !errors.As(err, &ae) || ae.Arg != "MA" || !strings.Contains(err.Error(), "theta(B)Theta(B^s) overflows") {
+		var ae *ModelError
+		if !errors.As(err, &ae) || ae.Part != "MA polynomial theta(B)Theta(B^s)" || ae.Op != "arma.Model."+name ||
+			!strings.Contains(err.Error(), "its expanded coefficients overflow float64") {
 			t.Errorf("%s: %T %v", name, err, err)
 		}
 	}

@@ -15,25 +15,15 @@ import (
 type hostileCase struct {
 	name string
 	err  error
-	want string // "arg", "short", "data"
+	want string // "setting", "model", "overflow", "short", "data"
 	sub  string
 }
 
 func checkHostile(t *testing.T, cases []hostileCase) {
 	t.Helper()
 	for _, c := range cases {
-		var ok bool
-		switch c.want {
-		case "arg":
-			var e *ArgError
-			ok = errors.As(c.err, &e)
-		case "short":
-			var e *ShortError
-			ok = errors.As(c.err, &e)
-		case "data":
-			var e *DataError
-			ok = errors.As(c.err, &e)
-		}
+		kinds := map[string]error{"setting": ErrSetting, "model": ErrModel, "overflow": ErrOverflow, "short": ErrShort, "data": ErrSample}
+		ok := c.err != nil && kindOf(c.err) == kinds[c.want]
 		if !ok || !strings.Contains(c.err.Error(), c.sub) {
 			t.Errorf("%s: got %T %v, want a %s error containing %q", c.name, c.err, c.err, c.want, c.sub)
 		}
@@ -60,22 +50,22 @@ func TestHostileOrders(t *testing.T) {
 		y[i] = math.Sin(float64(i) * 0.7)
 	}
 	checkHostile(t, []hostileCase{
-		{"Order SP*Period overflow", catch(func() error { return Order{SP: 2, Period: 1 << 62}.validate() }), "arg", "above MaxLag"},
-		{"Order P MaxInt + seasonal", catch(func() error { return Order{P: math.MaxInt, SP: 1, Period: 2}.validate() }), "arg", "above MaxLag"},
+		{"Order SP*Period overflow", catch(func() error { return Order{SP: 2, Period: 1 << 62}.validate() }), "setting", "order = (0,0,0)x(2,0,0)_4611686018427387904: a polynomial's degree is above MaxLag = 256"},
+		{"Order P MaxInt + seasonal", catch(func() error { return Order{P: math.MaxInt, SP: 1, Period: 2}.validate() }), "setting", "a polynomial's degree is above MaxLag = 256"},
 		{"Simulate overflow", catch(func() error {
 			_, err := Simulate(Model{SAR: []float64{0.1, 0.1}, Period: 1 << 62}, 3, nil)
 			return err
-		}), "arg", "above MaxLag"},
-		{"Select overflow", catch(func() error { _, err := Select(nil, y, Grid{SP: 2, Period: 1 << 62}, nil); return err }), "arg", "above MaxLag"},
-		{"Model.Psi D<0", catch(func() error { _, err := Model{D: -1}.Psi(3); return err }), "arg", "must not be negative"},
-		{"Model.Psi huge D", catch(func() error { _, err := Model{D: 1 << 40}.Psi(3); return err }), "arg", "above MaxLag"},
-		{"Model.Pi huge Period", catch(func() error { _, err := Model{SAR: []float64{0.5}, Period: 1 << 40}.Pi(3); return err }), "arg", "above MaxLag"},
+		}), "setting", "arma.Simulate: order = (0,0,0)x(2,0,0)_4611686018427387904: a polynomial's degree is above MaxLag"},
+		{"Select overflow", catch(func() error { _, err := Select(nil, y, Grid{SP: 2, Period: 1 << 62}, nil); return err }), "setting", "arma.Select: Grid = (0,0,0)x(2,0,0)_4611686018427387904: a polynomial's degree is above MaxLag"},
+		{"Model.Psi D<0", catch(func() error { _, err := Model{D: -1}.Psi(3); return err }), "setting", "arma.Model.Psi: order = (0,-1,0): orders must not be negative"},
+		{"Model.Psi huge D", catch(func() error { _, err := Model{D: 1 << 40}.Psi(3); return err }), "setting", "arma.Model.Psi: order = (0,1099511627776,0): a polynomial's degree is above MaxLag"},
+		{"Model.Pi huge Period", catch(func() error { _, err := Model{SAR: []float64{0.5}, Period: 1 << 40}.Pi(3); return err }), "setting", "arma.Model.Pi: order = (0,0,0)x(1,0,0)_1099511627776: a polynomial's degree is above MaxLag"},
 		{"Stationary huge Period", catch(func() error {
 			_, _, err := Model{SAR: []float64{0.5}, Period: 1 << 40}.Stationary()
 			return err
-		}), "arg", "above MaxLag"},
-		{"Stationary Period<0", catch(func() error { _, _, err := Model{SAR: []float64{0.5}, Period: -3}.Stationary(); return err }), "arg", "Period >= 2"},
-		{"Invertible Period<0", catch(func() error { _, _, err := Model{SMA: []float64{0.5}, Period: -3}.Invertible(); return err }), "arg", "Period >= 2"},
+		}), "setting", "arma.Model.Stationary: order = (0,0,0)x(1,0,0)_1099511627776: a polynomial's degree is above MaxLag"},
+		{"Stationary Period<0", catch(func() error { _, _, err := Model{SAR: []float64{0.5}, Period: -3}.Stationary(); return err }), "setting", "arma.Model.Stationary: order = (0,0,0)x(1,0,0)_-3: a seasonal part needs Period >= 2"},
+		{"Invertible Period<0", catch(func() error { _, _, err := Model{SMA: []float64{0.5}, Period: -3}.Invertible(); return err }), "setting", "arma.Model.Invertible: order = (0,0,0)x(0,0,1)_-3: a seasonal part needs Period >= 2"},
 	})
 	for name, p := range map[string][]float64{
 		"DiffPoly D<0":       catchPoly(func() []float64 { return Model{D: -1}.DiffPoly() }),
@@ -87,7 +77,7 @@ func TestHostileOrders(t *testing.T) {
 			t.Errorf("%s = %v, want nil for invalid orders", name, p)
 		}
 	}
-	if c := (Model{D: -1, Mean: 1}).Constant(); !math.IsNaN(c) {
+	if c := (Model{D: -1, Mean: 1}).EquationConstant(); !math.IsNaN(c) {
 		t.Errorf("Constant of an invalid model = %v, want NaN", c)
 	}
 }
@@ -112,8 +102,8 @@ func TestHostileLags(t *testing.T) {
 	}
 	maxS := itoa(math.MaxInt)
 	short := func(err error) error {
-		var e *ShortError
-		if errors.As(err, &e) && e.Need <= e.N {
+		var e *SeriesError
+		if errors.As(err, &e) && e.Need <= e.Have {
 			return errors.New("Need " + itoa(e.Need) + " not above N: " + err.Error())
 		}
 		return err
@@ -122,16 +112,16 @@ func TestHostileLags(t *testing.T) {
 		return catch(func() error { _, _, err := HannanRissanen(y, p, q, long); return short(err) })
 	}
 	checkHostile(t, []hostileCase{
-		{"ACF MaxInt", short(catch(func() error { _, err := ACF(y, math.MaxInt); return err })), "short", "needs at least " + maxS},
-		{"PACF MaxInt", short(catch(func() error { _, err := PACF(y, math.MaxInt); return err })), "short", "needs at least " + maxS},
-		{"LjungBox MaxInt", short(catch(func() error { _, err := LjungBox(y, math.MaxInt, 0); return err })), "short", "needs at least " + maxS},
-		{"HR p MaxInt", hr(math.MaxInt, 1, 0), "short", "ARMA(" + maxS + ",1) needs at least " + maxS},
-		{"HR q MaxInt", hr(1, math.MaxInt, 0), "short", "needs at least " + maxS},
-		{"HR longAR MaxInt", hr(1, 1, math.MaxInt), "short", "needs at least " + maxS},
-		{"HR longAR < 0", hr(1, 1, -5), "arg", "longAR: must not be negative"},
-		{"Fit Start MaxInt", short(catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Start: math.MaxInt}); return err })), "short", "needs at least " + maxS},
-		{"Fit Mean 99", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Mean: 99}); return err }), "arg", "Mean: unknown MeanMode 99"},
-		{"Fit Mean -1", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &Options{Mean: -1}); return err }), "arg", "Mean: unknown MeanMode -1"},
+		{"ACF MaxInt", short(catch(func() error { _, err := ACF(y, math.MaxInt); return err })), "short", "at least " + maxS + " needed"},
+		{"PACF MaxInt", short(catch(func() error { _, err := PACF(y, math.MaxInt); return err })), "short", "at least " + maxS + " needed"},
+		{"LjungBox MaxInt", short(catch(func() error { _, err := LjungBox(y, math.MaxInt, 0); return err })), "short", "at least " + maxS + " needed"},
+		{"HR p MaxInt", hr(math.MaxInt, 1, 0), "short", "at least " + maxS + " needed (needed for a Hannan-Rissanen start of an ARMA(" + maxS + ",1))"},
+		{"HR q MaxInt", hr(1, math.MaxInt, 0), "short", "at least " + maxS + " needed"},
+		{"HR longAR MaxInt", hr(1, 1, math.MaxInt), "short", "at least " + maxS + " needed"},
+		{"HR longAR < 0", hr(1, 1, -5), "setting", "arma.HannanRissanen: longAR = -5: must not be negative (zero means the default)"},
+		{"Fit Start MaxInt", short(catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &FitSettings{First: math.MaxInt}); return err })), "short", "at least " + maxS + " needed"},
+		{"Fit Mean 99", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &FitSettings{Constant: 99}); return err }), "setting", "arma.Fit: FitSettings.Constant = 99: unknown ConstantRule"},
+		{"Fit Mean -1", catch(func() error { _, err := Fit(nil, y, Order{P: 1}, &FitSettings{Constant: -1}); return err }), "setting", "arma.Fit: FitSettings.Constant = -1: unknown ConstantRule"},
 	})
 }
 
@@ -154,20 +144,20 @@ func TestHostileSizes(t *testing.T) {
 	longDiff := make([]float64, 1<<12)
 	longDiff[0], longDiff[len(longDiff)-1] = 1, -1
 	checkHostile(t, []hostileCase{
-		{"Forecast 1<<40", fc(res, 1<<40), "arg", "steps: must be in 1..MaxHorizon = 65536, got 1099511627776"},
-		{"Forecast MaxInt", fc(res, math.MaxInt), "arg", "MaxHorizon"},
-		{"Forecast nil", fc(nil, 3), "arg", "result: Forecast needs a result of Fit or FitNoise"},
-		{"Forecast zero", fc(&Result{}, 3), "arg", "result: Forecast needs a result of Fit or FitNoise"},
-		{"Psi 1<<40", catch(func() error { _, err := Psi([]float64{1}, nil, 1<<40); return err }), "arg", "n: must be in 0..MaxHorizon"},
-		{"Pi MaxInt", catch(func() error { _, err := Pi(nil, []float64{1}, math.MaxInt); return err }), "arg", "n: must be in 0..MaxHorizon"},
-		{"Psi long ar", catch(func() error { _, err := Psi(longDiff, nil, 3); return err }), "arg", "degree above 2 MaxLag = 512"},
-		{"Simulate 1<<40", catch(func() error { _, err := Simulate(Model{Sigma2: 1}, 1<<40, nil); return err }), "arg", "n: must be in 0..MaxSamples = 67108864"},
-		{"Simulate MaxInt", catch(func() error { _, err := Simulate(Model{Sigma2: 1}, math.MaxInt, nil); return err }), "arg", "MaxSamples"},
+		{"Forecast 1<<40", fc(res, 1<<40), "setting", "arma.Result.Forecast: steps = 1099511627776: must be in 1..MaxHorizon = 65536"},
+		{"Forecast MaxInt", fc(res, math.MaxInt), "setting", "MaxHorizon"},
+		{"Forecast nil", fc(nil, 3), "model", "arma.Result.Forecast: result: Forecast needs a result of Fit or FitNoise"},
+		{"Forecast zero", fc(&Result{}, 3), "model", "arma.Result.Forecast: result: Forecast needs a result of Fit or FitNoise"},
+		{"Psi 1<<40", catch(func() error { _, err := Psi([]float64{1}, nil, 1<<40); return err }), "setting", "arma.Psi: n = 1099511627776: must be in 0..MaxHorizon = 65536"},
+		{"Pi MaxInt", catch(func() error { _, err := Pi(nil, []float64{1}, math.MaxInt); return err }), "setting", "arma.Pi: n = 9223372036854775807: must be in 0..MaxHorizon"},
+		{"Psi long ar", catch(func() error { _, err := Psi(longDiff, nil, 3); return err }), "model", "arma.Psi: ar/ma: polynomial degree above 2 MaxLag = 512"},
+		{"Simulate 1<<40", catch(func() error { _, err := Simulate(Model{Sigma2: 1}, 1<<40, nil); return err }), "setting", "arma.Simulate: n = 1099511627776: must be in 0..MaxSamples = 67108864"},
+		{"Simulate MaxInt", catch(func() error { _, err := Simulate(Model{Sigma2: 1}, math.MaxInt, nil); return err }), "setting", "MaxSamples"},
 		{"Simulate BurnIn MaxInt", catch(func() error {
 			_, err := Simulate(Model{Sigma2: 1}, 5, &SimSettings{BurnIn: math.MaxInt})
 			return err
-		}), "arg", "SimSettings.BurnIn: is " + itoa(math.MaxInt) + ", above MaxSamples"},
-		{"FitNoise long diff", catch(func() error { _, err := FitNoise(nil, y, Noise{}, longDiff, nil); return err }), "arg", "diff: degree 4095 above MaxLag = 256"},
+		}), "setting", "arma.Simulate: SimSettings.BurnIn = " + itoa(math.MaxInt) + ": above MaxSamples"},
+		{"FitNoise long diff", catch(func() error { _, err := FitNoise(nil, y, Noise{}, longDiff, nil); return err }), "model", "arma.FitNoise: diff: degree 4095 above MaxLag = 256"},
 	})
 	// The largest horizon itself is accepted (its cost, O(h) since the
 	// exact forecast was made a recursion, is measured by
@@ -184,18 +174,18 @@ func TestHostileOverflow(t *testing.T) {
 	_, res := hostileExplosive(t)
 	checkHostile(t, []hostileCase{
 		// 10^309 overflows: weight 309 of 1/(1 - 10B) is the first +Inf.
-		{"Psi explosive", catch(func() error { _, err := Psi([]float64{1, -10}, nil, 400); return err }), "arg", "ar: weight 309 overflows"},
+		{"Psi explosive", catch(func() error { _, err := Psi([]float64{1, -10}, nil, 400); return err }), "overflow", "arma.Psi: series \"weights\": result out of float64 range (weight 309 of ar overflows"},
 		// By hand: the pi weights of 1/(1 - 2B) are 2^j, and 2^1024 is the
 		// first power of two above MaxFloat64 = (2 - 2^-52) 2^1023.
-		{"Pi non-invertible", catch(func() error { _, err := Pi([]float64{1}, []float64{1, -2}, 2000); return err }), "arg", "ma: weight 1024 overflows"},
-		{"Model.Psi explosive", catch(func() error { _, err := (Model{AR: []float64{10}}).Psi(400); return err }), "arg", "weight 309 overflows"},
+		{"Pi non-invertible", catch(func() error { _, err := Pi([]float64{1}, []float64{1, -2}, 2000); return err }), "overflow", "weight 1024 of ma overflows"},
+		{"Model.Psi explosive", catch(func() error { _, err := (Model{AR: []float64{10}}).Psi(400); return err }), "overflow", "arma.Model.Psi: series \"weights\": result out of float64 range (weight 309 of ar overflows"},
 		{"Simulate explosive", catch(func() error {
 			_, err := Simulate(Model{AR: []float64{1.5}, Sigma2: 1}, 5000, &SimSettings{BurnIn: -1})
 			return err
-		}), "arg", "model: simulated series overflows at sample"},
+		}), "overflow", "the simulated series overflows at sample"},
 		// By hand: with D = 2, y_1 = w_1 + 2 y_0 holds about 3e308.
-		{"Simulate huge mean", catch(func() error { _, err := Simulate(Model{Mean: 1e308, D: 2, Sigma2: 1}, 50, nil); return err }), "arg", "overflows at sample 1 "},
-		{"Forecast explosive", fc1000(res), "arg", "steps: forecast overflows at step"},
+		{"Simulate huge mean", catch(func() error { _, err := Simulate(Model{Mean: 1e308, D: 2, Sigma2: 1}, 50, nil); return err }), "overflow", "overflows at sample 1 "},
+		{"Forecast explosive", fc1000(res), "overflow", "arma.Result.Forecast: series \"forecast\": result out of float64 range (the forecast overflows at step"},
 	})
 	// Finite requests are unchanged.
 	if _, err := Psi([]float64{1, -10}, nil, 300); err != nil {
@@ -227,14 +217,14 @@ func TestHostileStructs(t *testing.T) {
 	}
 	var nilRes *Result
 	checkHostile(t, []hostileCase{
-		{"LjungBox nil", catch(func() error { _, err := nilRes.LjungBox(3); return err }), "arg", "result: LjungBox needs a result"},
-		{"LjungBox Start", catch(func() error { _, err := (&Result{Start: 5}).LjungBox(3); return err }), "arg", "result: LjungBox needs a result"},
+		{"LjungBox nil", catch(func() error { _, err := nilRes.LjungBox(3); return err }), "model", "arma.Result.LjungBox: result: LjungBox needs a result of Fit or FitNoise"},
+		{"LjungBox Start", catch(func() error { _, err := (&Result{Start: 5}).LjungBox(3); return err }), "model", "arma.Result.LjungBox: result: LjungBox needs a result of Fit or FitNoise"},
 	})
 	if err := catch(func() error {
 		if s := nilRes.String(); s != "<nil arma.Result>" {
 			return errors.New("String = " + s)
 		}
-		if c, se := nilRes.Constant(); !math.IsNaN(c) || !math.IsNaN(se) {
+		if c, se := nilRes.EquationConstant(); !math.IsNaN(c) || !math.IsNaN(se) {
 			return errors.New("Constant not NaN")
 		}
 		return nil
@@ -277,8 +267,8 @@ func TestHostileScale(t *testing.T) {
 		tiny[i] = y[i] * 1e-200
 	}
 	checkHostile(t, []hostileCase{
-		{"Fit 1e-200", catch(func() error { _, err := Fit(nil, tiny, Order{P: 1}, &Options{Name: "tiny"}); return err }), "arg", "tiny: residual sum of squares is 0"},
-		{"FitNoise diff 1e300", catch(func() error { _, err := FitNoise(nil, y, Noise{}, []float64{1, 1e300}, nil); return err }), "arg", "series: residual sum of squares overflows"},
+		{"Fit 1e-200", catch(func() error { _, err := Fit(nil, tiny, Order{P: 1}, &FitSettings{Name: "tiny"}); return err }), "model", "arma.Fit: fit of tiny: residual sum of squares is 0"},
+		{"FitNoise diff 1e300", catch(func() error { _, err := FitNoise(nil, y, Noise{}, []float64{1, 1e300}, nil); return err }), "overflow", "arma.FitNoise: series \"series\": result out of float64 range (the residual sum of squares overflows"},
 	})
 }
 
@@ -290,7 +280,7 @@ func hostileExplosive(t *testing.T) ([]float64, *Result) {
 	for i := range y {
 		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
 	}
-	res, err := Fit(nil, y, Order{P: 1}, &Options{Fixed: map[string]float64{"phi1": 3}})
+	res, err := Fit(nil, y, Order{P: 1}, &FitSettings{Held: map[string]float64{"phi1": 3}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -314,7 +304,7 @@ func TestForecastDiffScale(t *testing.T) {
 	}}}}}
 	var fits [2]*Result
 	for i, d := range [][]float64{{1, -1}, {2, -2}} {
-		if fits[i], err = FitNoise(nil, y, noise, d, &Options{Mean: MeanFree}); err != nil {
+		if fits[i], err = FitNoise(nil, y, noise, d, &FitSettings{Constant: ConstantFree}); err != nil {
 			t.Fatal(err)
 		}
 	}
@@ -347,7 +337,7 @@ func TestForecastDiffScale(t *testing.T) {
 	}}}}}
 	var se [2][]float64
 	for i, d := range [][]float64{{1, -1}, {2, -2}} {
-		r, err := FitNoise(nil, short, ma, d, &Options{Mean: MeanFree})
+		r, err := FitNoise(nil, short, ma, d, &FitSettings{Constant: ConstantFree})
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -31,7 +31,7 @@ func TestInformationCriteriaR(t *testing.T) {
 		t.Fatalf("ic.json holds %d fits, want 3", len(refs))
 	}
 	for _, ref := range refs {
-		res, err := Fit(context.Background(), ds[ref.Series], Order{P: ref.P}, &Options{Mean: MeanFree})
+		res, err := Fit(context.Background(), ds[ref.Series], Order{P: ref.P}, &FitSettings{Constant: ConstantFree})
 		if err != nil {
 			t.Fatalf("%s: %v", ref.Name, err)
 		}

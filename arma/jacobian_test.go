@@ -28,7 +28,7 @@ func arxSeries(seed1, seed2 uint64, n int, level, gain, ar float64) (y, x []floa
 
 // fitEngine fits ord to y and returns the engine the fit built, so that a
 // test can probe eval and hessian directly. A non-converged fit is fine.
-func fitEngine(t *testing.T, name string, y []float64, ord Order, opt *Options) *engine {
+func fitEngine(t *testing.T, name string, y []float64, ord Order, opt *FitSettings) *engine {
 	t.Helper()
 	var eng *engine
 	testEngineHook = func(e *engine) { eng = e }
@@ -52,12 +52,12 @@ func TestJacobianFiniteDifference(t *testing.T) {
 		name string
 		y    []float64
 		ord  Order
-		opt  Options
+		opt  FitSettings
 		x    []float64
 	}{
-		{"seasonal", y, Order{P: 1, Q: 1, SP: 1, SQ: 1, Period: 4}, Options{X: [][]float64{xr}}, []float64{0.4, 0.3, 0.2, -0.3, 9, 0.25}},
-		{"diff+drift", y, Order{P: 2, D: 1, Q: 2}, Options{Mean: MeanFree}, []float64{0.3, -0.2, 0.5, 0.1, 0.02}},
-		{"Nile", datasets(t)["Nile"], Order{P: 1, Q: 1}, Options{}, []float64{0.88, 0.6, 889}},
+		{"seasonal", y, Order{P: 1, Q: 1, SP: 1, SQ: 1, Period: 4}, FitSettings{Regressors: [][]float64{xr}}, []float64{0.4, 0.3, 0.2, -0.3, 9, 0.25}},
+		{"diff+drift", y, Order{P: 2, D: 1, Q: 2}, FitSettings{Constant: ConstantFree}, []float64{0.3, -0.2, 0.5, 0.1, 0.02}},
+		{"Nile", datasets(t)["Nile"], Order{P: 1, Q: 1}, FitSettings{}, []float64{0.88, 0.6, 889}},
 	}
 	for _, c := range cases {
 		eng := fitEngine(t, c.name, c.y, c.ord, &c.opt)
@@ -104,11 +104,11 @@ func TestHessianFiniteDifference(t *testing.T) {
 	cases := []struct {
 		name string
 		ord  Order
-		opt  Options
+		opt  FitSettings
 		x    []float64
 	}{
-		{"seasonal", Order{P: 1, Q: 1, SP: 1, SQ: 1, Period: 4}, Options{X: [][]float64{xr}}, []float64{0.5, 0.3, 0.2, -0.3, 5, 0.35}},
-		{"drift", Order{P: 2, D: 1, Q: 1}, Options{Mean: MeanFree}, []float64{0.3, -0.2, 0.5, 0.01}},
+		{"seasonal", Order{P: 1, Q: 1, SP: 1, SQ: 1, Period: 4}, FitSettings{Regressors: [][]float64{xr}}, []float64{0.5, 0.3, 0.2, -0.3, 5, 0.35}},
+		{"drift", Order{P: 2, D: 1, Q: 1}, FitSettings{Constant: ConstantFree}, []float64{0.3, -0.2, 0.5, 0.01}},
 	}
 	for _, c := range cases {
 		eng := fitEngine(t, c.name, y, c.ord, &c.opt)

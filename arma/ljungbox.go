@@ -24,20 +24,26 @@ type Portmanteau struct {
 // degrees of freedom (0 for a raw series; p+q for ARMA residuals).
 //
 // Fit residuals start with NaN over the conditioning samples: pass
-// res.Resid[res.Start:]. NaN or infinite values give a *DataError; lags
-// < 1 or lags <= fitted an *ArgError; lags >= len(resid) a *ShortError;
-// a constant series a *ConstantError.
+// res.Resid[res.Start:]. NaN or infinite values give a *SampleError;
+// lags < 1 or lags <= fitted a *SettingError; lags >= len(resid) a
+// *SeriesError of kind ErrShort; a constant series one of kind
+// ErrConstant.
 //
 // References: Ljung, G. M. and Box, G. E. P. (1978). On a measure of lack
 // of fit in time series models. Biometrika 65(2), 297-303.
-func LjungBox(resid []float64, lags, fitted int) (Portmanteau, error) {
+func LjungBox(resid []float64, lags, fitted int) (pm Portmanteau, err error) {
+	defer withOp("arma.LjungBox", &err)
+	return ljungBox(resid, lags, fitted)
+}
+
+func ljungBox(resid []float64, lags, fitted int) (Portmanteau, error) {
 	if lags < 1 {
-		return Portmanteau{}, &ArgError{Arg: "lags", Msg: "must be at least 1"}
+		return Portmanteau{}, settingErr("lags", itoa(lags), "must be at least 1")
 	}
 	if fitted < 0 || fitted >= lags {
-		return Portmanteau{}, &ArgError{Arg: "fitted", Msg: "must be in 0..lags-1"}
+		return Portmanteau{}, settingErr("fitted", itoa(fitted), "must be in 0..lags-1 = "+itoa(lags-1))
 	}
-	c, err := ACF(resid, lags)
+	c, err := acf(resid, lags)
 	if err != nil {
 		return Portmanteau{}, err
 	}

@@ -28,18 +28,21 @@ func (o Order) String() string {
 	return fmt.Sprintf("(%d,%d,%d)x(%d,%d,%d)_%d", o.P, o.D, o.Q, o.SP, o.SD, o.SQ, o.Period)
 }
 
-// Validate returns an *ArgError (Arg "order") for a negative order, a
+// Validate returns a *SettingError (Setting "order") for a negative order, a
 // seasonal part without Period >= 2, or an expanded AR, MA or
 // differencing polynomial of degree above MaxLag; nil otherwise. Fit,
 // Select and every Model method check it.
-func (o Order) Validate() error { return o.validate() }
+func (o Order) Validate() (err error) {
+	defer withOp("arma.Order.Validate", &err)
+	return o.validate()
+}
 
 func (o Order) validate() error {
 	if o.P < 0 || o.D < 0 || o.Q < 0 || o.SP < 0 || o.SD < 0 || o.SQ < 0 {
-		return &ArgError{Arg: "order", Msg: "orders must not be negative: " + o.String()}
+		return settingErr("order", o.String(), "orders must not be negative")
 	}
 	if (o.SP > 0 || o.SD > 0 || o.SQ > 0) && o.Period < 2 {
-		return &ArgError{Arg: "order", Msg: "a seasonal part needs Period >= 2: " + o.String()}
+		return settingErr("order", o.String(), "a seasonal part needs Period >= 2")
 	}
 	// Each term is bounded first so that the degrees below cannot
 	// overflow (SP*Period wraps to a negative degree for a huge Period).
@@ -49,11 +52,11 @@ func (o Order) validate() error {
 	}
 	for _, v := range []int{o.P, o.D, o.Q, o.SP, o.SD, o.SQ, s} {
 		if v > MaxLag {
-			return &ArgError{Arg: "order", Msg: "polynomial degree above MaxLag: " + o.String()}
+			return settingErr("order", o.String(), "a polynomial's degree is above MaxLag = "+itoa(MaxLag))
 		}
 	}
 	if o.P+o.SP*s > MaxLag || o.Q+o.SQ*s > MaxLag || o.D+o.SD*s > MaxLag {
-		return &ArgError{Arg: "order", Msg: "polynomial degree above MaxLag: " + o.String()}
+		return settingErr("order", o.String(), "an expanded polynomial's degree is above MaxLag = "+itoa(MaxLag))
 	}
 	return nil
 }
@@ -68,7 +71,9 @@ const MaxLag = 256
 //	w_t = (1-B)^D (1-B^s)^SD z_t,   var(a_t) = Sigma2,
 //
 // where z_t is the modelled series (after subtracting any regression
-// part). The coefficient slices use the Box-Jenkins signs:
+// part) and Mean is the constant c, the mean of the (differenced) series
+// (the parameter "c" of a fit). The coefficient slices use the
+// Box-Jenkins signs:
 //
 //	phi(B)   = 1 - AR[0] B - ... - AR[p-1] B^p
 //	Phi(B^s) = 1 - SAR[0] B^s - ... - SAR[P-1] B^(P s)
@@ -104,7 +109,7 @@ func lagPoly(c []float64, step int) []float64 {
 // (ascending powers of B, constant 1). Like MAPoly and DiffPoly it returns
 // nil for a model whose orders are invalid (a negative D or SD, a seasonal
 // part with Period < 2, a degree above MaxLag); Psi, Pi, Stationary,
-// Invertible and Simulate report those as an *ArgError.
+// Invertible and Simulate report those as a *SettingError.
 func (m Model) ARPoly() []float64 {
 	if m.Order().validate() != nil {
 		return nil
@@ -152,10 +157,16 @@ func diffPoly(d, sd, s int) []float64 {
 // (|z| >= 1) otherwise. The differencing is not part of this check. The
 // roots are found factor by factor (those of Phi(B^s) are the s-th roots
 // of those of Phi(B)), so that coefficients whose expanded product would
-// overflow float64 are still judged. It returns false and an *ArgError
-// for invalid orders (see ARPoly) or a NaN or infinite coefficient, and a
-// *RootError naming the polynomial when its roots cannot be computed.
-func (m Model) Stationary() (bool, []complex128, error) {
+// overflow float64 are still judged. It returns false and a
+// *SettingError for invalid orders (see ARPoly), a *ModelError for a NaN
+// or infinite coefficient, and a *ModelError naming the polynomial when
+// its roots cannot be computed.
+func (m Model) Stationary() (ok bool, bad []complex128, err error) {
+	defer withOp("arma.Model.Stationary", &err)
+	return m.stationary()
+}
+
+func (m Model) stationary() (bool, []complex128, error) {
 	if err := m.Order().validate(); err != nil {
 		return false, nil, err
 	}
@@ -169,21 +180,22 @@ func (m Model) Stationary() (bool, []complex128, error) {
 // Invertible reports whether every z-plane root of the MA polynomial lies
 // strictly inside the unit circle, and returns the offending roots. Errors
 // as for Stationary.
-func (m Model) Invertible() (bool, []complex128, error) {
+func (m Model) Invertible() (ok bool, bad []complex128, err error) {
+	defer withOp("arma.Model.Invertible", &err)
 	if err := m.Order().validate(); err != nil {
 		return false, nil, err
 	}
 	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
 		return false, nil, err
 	}
-	bad, err := factorOutside("MA", m.MA, m.SMA, max(m.Period, 1))
+	bad, err = factorOutside("MA", m.MA, m.SMA, max(m.Period, 1))
 	return err == nil && len(bad) == 0, bad, err
 }
 
 // factorOutside returns the z-plane roots with |z| >= 1 of
 // (1 - sum c_k B^k)(1 - sum sc_k B^(k s)), found per factor: when u is a
 // z-plane root of the seasonal factor in B, its s roots in z are the s-th
-// roots of u. part ("AR" or "MA") names the polynomial in a *RootError.
+// roots of u. part ("AR" or "MA") names the polynomial in a *ModelError.
 func factorOutside(part string, c, sc []float64, s int) ([]complex128, error) {
 	var bad []complex128
 	if len(c) > 0 {
@@ -219,18 +231,19 @@ func factorOutside(part string, c, sc []float64, s int) ([]complex128, error) {
 // differencing: the coefficients of theta(B)Theta(B^s) / (phi(B)Phi(B^s)
 // (1-B)^D (1-B^s)^SD), so that the h-step forecast error variance is
 // Sigma2 sum_{j<h} psi_j^2. Errors as for the package-level Psi, and an
-// *ArgError for invalid orders (see ARPoly).
-func (m Model) Psi(n int) ([]float64, error) {
+// *SettingError for invalid orders (see ARPoly).
+func (m Model) Psi(n int) (w []float64, err error) {
+	defer withOp("arma.Model.Psi", &err)
 	if err := m.Order().validate(); err != nil {
 		return nil, err
 	}
 	if err := m.expandedFinite(); err != nil {
 		return nil, err
 	}
-	return Psi(poly.Mul(m.arPoly(), diffPoly(m.D, m.SD, m.Period)), m.maPoly(), n)
+	return weights(poly.Mul(m.arPoly(), diffPoly(m.D, m.SD, m.Period)), m.maPoly(), n, "ar")
 }
 
-// expandedFinite returns an *ArgError naming the part when a coefficient
+// expandedFinite returns a *ModelError naming the part when a coefficient
 // is not finite or the product of the ordinary and seasonal factors
 // overflows float64 (factors of finite but huge coefficients).
 func (m Model) expandedFinite() error {
@@ -245,7 +258,7 @@ func (m Model) expandedFinite() error {
 		c          []float64
 	}{{"AR", "phi(B)Phi(B^s)", m.arPoly()}, {"MA", "theta(B)Theta(B^s)", m.maPoly()}} {
 		if firstNonFinite(p.c) >= 0 {
-			return &ArgError{Arg: p.part, Msg: "the expanded polynomial " + p.text + " overflows float64: coefficients far too large"}
+			return modelErr(p.part+" polynomial "+p.text, "its expanded coefficients overflow float64: coefficients far too large")
 		}
 	}
 	return nil
@@ -254,14 +267,15 @@ func (m Model) expandedFinite() error {
 // Pi returns the first n pi weights of the stationary part (differencing
 // excluded): the coefficients of phi(B)Phi(B^s) / (theta(B)Theta(B^s)).
 // Errors as for Model.Psi.
-func (m Model) Pi(n int) ([]float64, error) {
+func (m Model) Pi(n int) (w []float64, err error) {
+	defer withOp("arma.Model.Pi", &err)
 	if err := m.Order().validate(); err != nil {
 		return nil, err
 	}
 	if err := m.expandedFinite(); err != nil {
 		return nil, err
 	}
-	return Pi(m.arPoly(), m.maPoly(), n)
+	return weights(m.maPoly(), m.arPoly(), n, "ma")
 }
 
 // Noise returns the model's noise term as named factors, the form used in
@@ -303,36 +317,37 @@ func (m Model) validate() error {
 		return err
 	}
 	if err := finiteCoefs("AR", m.AR, m.SAR); err != nil {
-		return &ArgError{Arg: "model", Msg: err.(*ArgError).Msg}
+		return err
 	}
 	if err := finiteCoefs("MA", m.MA, m.SMA); err != nil {
-		return &ArgError{Arg: "model", Msg: err.(*ArgError).Msg}
+		return err
 	}
 	for _, f := range []struct {
 		name string
 		v    float64
 	}{{"Mean", m.Mean}, {"Sigma2", m.Sigma2}} {
 		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
-			return &ArgError{Arg: "model", Msg: "coefficients must be finite: " + f.name + " is " + fmtFloat(f.v)}
+			return modelErr("model "+f.name, "is "+fmtFloat(f.v)+": coefficients must be finite")
 		}
 	}
 	if m.Sigma2 < 0 {
-		return &ArgError{Arg: "model", Msg: "Sigma2 must not be negative, got " + fmtFloat(m.Sigma2)}
+		return modelErr("model Sigma2", "is "+fmtFloat(m.Sigma2)+": a variance must not be negative")
 	}
 	return nil
 }
 
-// Constant returns c = phi(1) Phi(1) Mean, the constant of the
-// difference-equation form phi(B)Phi(B^s) w_t = c + theta(B)Theta(B^s) a_t.
-// It is NaN for a model whose orders are invalid (see ARPoly).
-func (m Model) Constant() float64 {
+// EquationConstant returns k = phi(1) Phi(1) Mean, the constant of the
+// difference-equation form phi(B)Phi(B^s) w_t = k + theta(B)Theta(B^s) a_t
+// (Mean is the constant c, the mean of the differenced series). It is
+// NaN for a model whose orders are invalid (see ARPoly).
+func (m Model) EquationConstant() float64 {
 	if m.Order().validate() != nil {
 		return math.NaN()
 	}
 	return poly.EvalReal(m.arPoly(), 1) * m.Mean
 }
 
-// finiteCoefs returns an *ArgError naming part when a coefficient of any
+// finiteCoefs returns a *ModelError naming part when a coefficient of any
 // of the slices is NaN or infinite.
 // The message names the slice and index: "AR[1] is NaN" (the seasonal
 // slice, the second of cs, is "SAR" or "SMA").
@@ -344,7 +359,7 @@ func finiteCoefs(part string, cs ...[]float64) error {
 				if i > 0 {
 					name = "S" + part
 				}
-				return &ArgError{Arg: part, Msg: "coefficients must be finite: " + name + "[" + itoa(k) + "] is " + fmtFloat(v)}
+				return modelErr("model "+name+"["+itoa(k)+"]", "is "+fmtFloat(v)+": coefficients must be finite")
 			}
 		}
 	}

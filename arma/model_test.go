@@ -6,6 +6,7 @@ import (
 	"math/cmplx"
 	"math/rand/v2"
 	"sort"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/internal/poly"
@@ -88,8 +89,8 @@ func TestStationaryInvertible(t *testing.T) {
 	want := []float64{1, -0.5, 0, 0, -0.3, 0.15}
 	checkSlice(t, "ARPoly", good.ARPoly(), want, 1e-15, 1)
 	// Simulation of a non-stationary model needs BurnIn < 0.
-	var ae *ArgError
-	if _, err := Simulate(m, 10, nil); !errors.As(err, &ae) {
+	var ae *ModelError
+	if _, err := Simulate(m, 10, nil); !errors.As(err, &ae) || !strings.Contains(err.Error(), "arma.Simulate: model AR part: not stationary") {
 		t.Errorf("Simulate non-stationary: %v", err)
 	}
 	if _, err := Simulate(m, 10, &SimSettings{BurnIn: -1}); err != nil {
@@ -202,7 +203,7 @@ func TestSchurStable(t *testing.T) {
 func TestModelConstant(t *testing.T) {
 	m := Model{AR: []float64{0.5}, SAR: []float64{0.2}, Period: 4, Mean: 10}
 	// (1 - 0.5)(1 - 0.2) * 10 = 4
-	if c := m.Constant(); math.Abs(c-4) > 1e-12 {
+	if c := m.EquationConstant(); math.Abs(c-4) > 1e-12 {
 		t.Errorf("Constant = %v, want 4", c)
 	}
 }

@@ -29,10 +29,10 @@ func TestMonteCarloARMA11(t *testing.T) {
 			t.Fatalf("replicate %d: %v", r, err)
 		}
 		for k := 0; k < 2; k++ {
-			e := res.Est[k]
+			e := ests(res)[k]
 			sum[k] += e
 			sum2[k] += e * e
-			if math.Abs(e-want[k]) <= 1.96*res.SE[k] {
+			if math.Abs(e-want[k]) <= 1.96*ses(res)[k] {
 				cover[k]++
 			}
 		}

@@ -24,17 +24,17 @@ func TestSelectRecoversPanic(t *testing.T) {
 		}
 	}
 	defer func() { testSelectHook = nil }()
-	cands, err := Select(context.Background(), y, Grid{MaxP: 1, MaxQ: 1, Workers: 2}, &Options{Name: "flow"})
+	cands, err := Select(context.Background(), y, Grid{MaxP: 1, MaxQ: 1, Workers: 2}, &FitSettings{Name: "flow"})
 	var ie *InternalError
 	if !errors.As(err, &ie) {
 		t.Fatalf("Select error %T %v, want *InternalError", err, err)
 	}
-	for _, w := range []string{"(1,0,1)", "flow", "index out of range", "bug in backshift"} {
+	for _, w := range []string{"arma.Select: internal fault: fit of order (1,0,1) to flow", "index out of range", "a fault of the library"} {
 		if !strings.Contains(err.Error(), w) {
 			t.Errorf("message %q lacks %q", err, w)
 		}
 	}
-	if !strings.Contains(ie.Stack, "selectOne") {
+	if !strings.Contains(string(ie.Stack), "selectOne") {
 		t.Errorf("stack does not show the worker: %.200s", ie.Stack)
 	}
 	if len(cands) != 4 {

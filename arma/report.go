@@ -8,14 +8,15 @@ import (
 
 // LjungBox tests the fit's residuals (from Start) for whiteness up to lag
 // lags, with the degrees of freedom reduced by the number of estimated
-// ARMA coefficients (the mean and regressors do not count). Errors are
-// those of the package-level LjungBox, and an *ArgError for a nil Result
-// or one whose Start is outside its residuals (the zero Result).
-func (r *Result) LjungBox(lags int) (Portmanteau, error) {
+// ARMA coefficients (the constant and regressors do not count). Errors
+// are those of the package-level LjungBox, and a *ModelError for a nil
+// Result or one whose Start is outside its residuals (the zero Result).
+func (r *Result) LjungBox(lags int) (pm Portmanteau, err error) {
+	defer withOp("arma.Result.LjungBox", &err)
 	if r == nil || r.Start < 0 || r.Start >= len(r.Resid) {
-		return Portmanteau{}, &ArgError{Arg: "result", Msg: "LjungBox needs a result of Fit or FitNoise"}
+		return Portmanteau{}, modelErr("result", "LjungBox needs a result of Fit or FitNoise")
 	}
-	return LjungBox(r.Resid[r.Start:], lags, r.narma)
+	return ljungBox(r.Resid[r.Start:], lags, r.narma)
 }
 
 // String returns a short report for people: the model, the estimates
@@ -34,10 +35,10 @@ func (r *Result) String() string {
 	}
 	fmt.Fprintf(&b, "%s fitted by conditional least squares to %d samples (residuals %d..%d, %d summed)\n",
 		what, r.N, r.Start, r.N-1, r.NUsed)
-	if len(r.Names) > 0 {
+	if len(r.Params) > 0 {
 		fmt.Fprintf(&b, "  %-10s %12s %12s %9s\n", "name", "value", "sd(value)", "value/sd")
-		for i, nm := range r.Names {
-			fmt.Fprintf(&b, "  %-10s %12.5g %12.3g %9.2f\n", nm, r.Est[i], r.SE[i], r.T[i])
+		for _, p := range r.Params {
+			fmt.Fprintf(&b, "  %-10s %12.5g %12.3g %9.2f\n", p.Name, p.Value, p.SE, p.T)
 		}
 	}
 	fmt.Fprintf(&b, "  innovation variance %.5g, sum of squares %.6g\n", r.Sigma2, r.SSQ)
@@ -57,22 +58,24 @@ func (r *Result) String() string {
 	return b.String()
 }
 
-// Constant returns the constant c of the difference-equation form
+// EquationConstant returns the constant k of the difference-equation
+// form
 //
-//	phi*(B) w_t = c + theta*(B) a_t,  c = phi*(1) Mean,
+//	phi*(B) w_t = k + theta*(B) a_t,  k = phi*(1) c,
 //
-// and its standard error by the delta method from Cov (NaN when Cov is
-// nil; zero when neither the mean nor any AR coefficient was estimated).
+// c the constant (Model.Mean, the mean of the differenced series), and
+// its standard error by the delta method from Cov (NaN when Cov has NaN
+// entries; zero when neither c nor any AR coefficient was estimated).
 // Both are NaN for a nil Result.
-func (r *Result) Constant() (c, se float64) {
+func (r *Result) EquationConstant() (k, se float64) {
 	if r == nil {
 		return math.NaN(), math.NaN()
 	}
 	idx := map[string]int{}
-	for i, nm := range r.Names {
-		idx[nm] = i
+	for i, p := range r.Params {
+		idx[p.Name] = i
 	}
-	np := len(r.Names)
+	np := len(r.Params)
 	phi, d := r.Noise.AR.Grad(func(name string) int {
 		if k, ok := idx[name]; ok {
 			return k
@@ -83,24 +86,29 @@ func (r *Result) Constant() (c, se float64) {
 	for _, v := range phi {
 		p1 += v
 	}
-	c = p1 * r.Model.Mean
+	k = p1 * r.Model.Mean
 	grad := make([]float64, np)
-	for k, dk := range d {
-		for _, v := range dk {
-			grad[k] += v * r.Model.Mean
+	for i, di := range d {
+		for _, v := range di {
+			grad[i] += v * r.Model.Mean
 		}
 	}
-	if k, ok := idx["mean"]; ok {
-		grad[k] = p1
+	if i, ok := idx["c"]; ok {
+		grad[i] = p1
 	}
-	if r.Cov == nil {
-		return c, math.NaN()
+	if len(r.Cov) != np {
+		return k, math.NaN()
 	}
 	v := 0.0
 	for i := range grad {
 		for j := range grad {
-			v += grad[i] * r.Cov.At(i, j) * grad[j]
+			if grad[i] != 0 && grad[j] != 0 {
+				v += grad[i] * r.Cov[i][j] * grad[j]
+			}
 		}
 	}
-	return c, math.Sqrt(math.Max(v, 0))
+	if math.IsNaN(v) {
+		return k, math.NaN()
+	}
+	return k, math.Sqrt(math.Max(v, 0))
 }

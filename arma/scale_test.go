@@ -33,7 +33,9 @@ func TestFitScaleEquivariant(t *testing.T) {
 		trend[i] = float64(i) * 1e9 // a regressor in large units
 		base[i] += 3e-9 * trend[i]
 	}
-	opt := func() *Options { return &Options{X: [][]float64{trend}, XNames: []string{"time"}} }
+	opt := func() *FitSettings {
+		return &FitSettings{Regressors: [][]float64{trend}, RegressorNames: []string{"time"}}
+	}
 	ref, err := Fit(ctx, base, Order{P: 1, Q: 1}, opt())
 	if err != nil {
 		t.Fatalf("unscaled fit: %v", err)
@@ -50,13 +52,13 @@ func TestFitScaleEquivariant(t *testing.T) {
 			t.Errorf("scale %g: %v", c, err)
 			continue
 		}
-		for k, nm := range ref.Names {
+		for k, nm := range names(ref) {
 			f := 1.0
-			if nm == "mean" || nm == "time" {
+			if nm == "c" || nm == "time" {
 				f = c
 			}
-			if !near(r.Est[k], ref.Est[k]*f) || !nearSE(r.SE[k], ref.SE[k]*f) || !nearSE(r.SEHessian[k], ref.SEHessian[k]*f) {
-				t.Errorf("scale %g, %s: %g +- %g (Hessian %g), want %g +- %g (%g)", c, nm, r.Est[k], r.SE[k], r.SEHessian[k], ref.Est[k]*f, ref.SE[k]*f, ref.SEHessian[k]*f)
+			if !near(ests(r)[k], ests(ref)[k]*f) || !nearSE(ses(r)[k], ses(ref)[k]*f) || !nearSE(r.SEHessian[k], ref.SEHessian[k]*f) {
+				t.Errorf("scale %g, %s: %g +- %g (Hessian %g), want %g +- %g (%g)", c, nm, ests(r)[k], ses(r)[k], r.SEHessian[k], ests(ref)[k]*f, ses(ref)[k]*f, ref.SEHessian[k]*f)
 			}
 		}
 		if !near(r.Sigma2, ref.Sigma2*c*c) || !near(r.Resid[len(y)-1], ref.Resid[len(y)-1]*c) || !near(r.Model.Mean, ref.Model.Mean*c) || !near(r.Beta[0], ref.Beta[0]*c) {
@@ -77,7 +79,7 @@ func TestFitScaleEquivariant(t *testing.T) {
 	for i := range y {
 		y[i] = base[i] * 1e10
 	}
-	r, err := Fit(ctx, y, Order{P: 1, Q: 1}, &Options{X: [][]float64{trend}, Fixed: map[string]float64{"mean": 2e10}, Init: map[string]float64{"x1": 3}})
+	r, err := Fit(ctx, y, Order{P: 1, Q: 1}, &FitSettings{Regressors: [][]float64{trend}, Held: map[string]float64{"c": 2e10}, StartValues: map[string]float64{"x1": 3}})
 	if err != nil || r.Model.Mean != 2e10 || math.Abs(r.Beta[0]/30-1) > 0.01 {
 		t.Errorf("held mean: %v mean %v beta %v", err, r.Model.Mean, r.Beta)
 	}
@@ -93,24 +95,24 @@ func TestConstantMessage(t *testing.T) {
 		line[i] = 3 + 0.5*float64(i)
 		flat[i] = 0.1 + 0.2
 	}
-	_, err := Fit(context.Background(), line, Order{P: 1, D: 1, Q: 1}, &Options{Name: "level"})
-	want := "arma: level is constant after the differencing (1 - B) (every differenced sample is 0.5 over its 100 samples)"
+	_, err := Fit(context.Background(), line, Order{P: 1, D: 1, Q: 1}, &FitSettings{Name: "level"})
+	want := `arma.Fit: series "level" is constant (after the differencing (1 - B): every differenced sample is 0.5 over its 100 samples; its levels lie on a line or repeat; use less differencing)`
 	if err == nil || !strings.HasPrefix(err.Error(), want) {
 		t.Errorf("line: %v, want %q", err, want)
 	}
-	_, err = Fit(context.Background(), flat, Order{P: 1}, &Options{Name: "level"})
-	want = "arma: level is constant (every sample is 0.3 over its 100 samples)"
+	_, err = Fit(context.Background(), flat, Order{P: 1}, &FitSettings{Name: "level"})
+	want = `arma.Fit: series "level" is constant (every sample is 0.3 over its 100 samples)`
 	if err == nil || err.Error() != want {
 		t.Errorf("flat: %v, want %q", err, want)
 	}
 	// Two samples under (1 - B) leave one: too short, not "constant".
-	_, err = Fit(context.Background(), []float64{1, 2}, Order{D: 1}, &Options{Name: "level"})
-	var se *ShortError
-	if !errors.As(err, &se) || se.Need != 3 {
-		t.Errorf("two samples, D = 1: %T %v, want a *ShortError needing 3", err, err)
+	_, err = Fit(context.Background(), []float64{1, 2}, Order{D: 1}, &FitSettings{Name: "level"})
+	var se *SeriesError
+	if !errors.As(err, &se) || se.Kind != ErrShort || se.Need != 3 {
+		t.Errorf("two samples, D = 1: %T %v, want a *SeriesError of kind ErrShort needing 3", err, err)
 	}
-	_, err = Fit(context.Background(), line, Order{SD: 1, Period: 4}, &Options{Name: "level"})
-	if err == nil || !strings.Contains(err.Error(), "after the differencing (1 - B^4) (every differenced sample is 2 ") {
+	_, err = Fit(context.Background(), line, Order{SD: 1, Period: 4}, &FitSettings{Name: "level"})
+	if err == nil || !strings.Contains(err.Error(), "after the differencing (1 - B^4): every differenced sample is 2 ") {
 		t.Errorf("seasonal line: %v", err)
 	}
 }

@@ -58,60 +58,61 @@ func TestFitNoiseSubset(t *testing.T) {
 	if !noise.Equal(orig) {
 		t.Fatal("FitNoise modified its input")
 	}
-	r2, err := Fit(context.Background(), y, Order{P: 3}, &Options{Fixed: map[string]float64{"phi2": 0}})
+	r2, err := Fit(context.Background(), y, Order{P: 3}, &FitSettings{Held: map[string]float64{"phi2": 0}})
 	if err != nil {
 		t.Fatal(err)
 	}
 	// Tolerance 1e-7: two optimiser paths to the same minimum.
-	if r1.Names[0] != "a1" || !closeTo(r1.Est[0], r2.Est[0], 1e-7, 0) || !closeTo(r1.Est[1], r2.Est[1], 1e-7, 0) ||
+	if names(r1)[0] != "a1" || !closeTo(ests(r1)[0], ests(r2)[0], 1e-7, 0) || !closeTo(ests(r1)[1], ests(r2)[1], 1e-7, 0) ||
 		!closeTo(r1.SSQ, r2.SSQ, 1e-12, 0) {
-		t.Errorf("FitNoise %v %v, Fit %v %v", r1.Names, r1.Est, r2.Names, r2.Est)
+		t.Errorf("FitNoise %v %v, Fit %v %v", names(r1), ests(r1), names(r2), ests(r2))
 	}
-	if r2.Model.AR[1] != 0 || len(r2.Names) != 3 {
-		t.Errorf("held phi2: AR %v names %v", r2.Model.AR, r2.Names)
+	if r2.Model.AR[1] != 0 || len(names(r2)) != 3 {
+		t.Errorf("held phi2: AR %v names %v", r2.Model.AR, names(r2))
 	}
 }
 
 func TestFitErrors(t *testing.T) {
 	ctx := context.Background()
 	y, _ := Simulate(benchModel, 200, &SimSettings{Seed1: 1, Seed2: 1})
-	var ae *ArgError
-	var se *ShortError
-	var de *DataError
-	var ce *ConstantError
-	if _, err := Fit(ctx, y[:5], Order{P: 2, Q: 2}, nil); !errors.As(err, &se) {
+	var ae *SettingError
+	var se *SeriesError
+	var de *SampleError
+	var ce *SeriesError
+	if _, err := Fit(ctx, y[:5], Order{P: 2, Q: 2}, nil); !errors.As(err, &se) || se.Kind != ErrShort {
 		t.Errorf("short: %v", err)
 	}
 	bad := append([]float64(nil), y...)
 	bad[17] = math.Inf(1)
-	if _, err := Fit(ctx, bad, Order{P: 1}, &Options{Name: "flow"}); !errors.As(err, &de) || de.Index != 17 || de.Series != "flow" {
+	if _, err := Fit(ctx, bad, Order{P: 1}, &FitSettings{Name: "flow"}); !errors.As(err, &de) || de.Index != 17 || de.Series != "flow" {
 		t.Errorf("Inf: %v", err)
 	}
-	if _, err := Fit(ctx, make([]float64, 50), Order{P: 1}, nil); !errors.As(err, &ce) {
+	if _, err := Fit(ctx, make([]float64, 50), Order{P: 1}, nil); !errors.As(err, &ce) || ce.Kind != ErrConstant {
 		t.Errorf("constant: %v", err)
 	}
 	if _, err := Fit(ctx, y, Order{P: -1}, nil); !errors.As(err, &ae) {
 		t.Errorf("negative order: %v", err)
 	}
-	if _, err := Fit(ctx, y, Order{P: 1}, &Options{Fixed: map[string]float64{"theta7": 1}}); !errors.As(err, &ae) {
+	if _, err := Fit(ctx, y, Order{P: 1}, &FitSettings{Held: map[string]float64{"theta7": 1}}); !errors.As(err, &ae) {
 		t.Errorf("unknown fixed: %v", err)
 	}
-	if _, err := Fit(ctx, y, Order{P: 1}, &Options{X: [][]float64{{1, 2}}}); !errors.As(err, &ae) {
+	if _, err := Fit(ctx, y, Order{P: 1}, &FitSettings{Regressors: [][]float64{{1, 2}}}); !errors.As(err, &se) || se.Kind != ErrLength ||
+		err.Error() != `arma.Fit: series "x1" has 2 samples, 200 expected (a regressor needs the length of series)` {
 		t.Errorf("short regressor: %v", err)
 	}
-	if _, err := Fit(ctx, y, Order{P: 2}, &Options{Start: 1}); !errors.As(err, &ae) {
+	if _, err := Fit(ctx, y, Order{P: 2}, &FitSettings{First: 1}); !errors.As(err, &ae) {
 		t.Errorf("start before the AR lags: %v", err)
 	}
 	// Non-convergence: one iteration allowed; the best point comes back.
-	res, err := Fit(ctx, y, Order{P: 2, Q: 1}, &Options{MaxIter: 1})
+	res, err := Fit(ctx, y, Order{P: 2, Q: 1}, &FitSettings{MaxIter: 1})
 	var conv *ConvergenceError
-	if !errors.As(err, &conv) || res == nil || res.Converged || len(res.Est) != 4 || !(res.SSQ > 0) {
+	if !errors.As(err, &conv) || res == nil || res.Converged || len(res.Params) != 4 || !(res.SSQ > 0) {
 		t.Errorf("non-convergence: %v", err)
 	}
 	// Boundary: an over-differenced white noise has theta1 near 1; held
 	// at exactly 1 the MA root lies on the unit circle and is flagged.
 	w, _ := Simulate(Model{Sigma2: 1}, 400, &SimSettings{Seed1: 9, Seed2: 9})
-	res, err = Fit(ctx, w, Order{D: 1, Q: 1, P: 1}, &Options{Fixed: map[string]float64{"theta1": 1}})
+	res, err = Fit(ctx, w, Order{D: 1, Q: 1, P: 1}, &FitSettings{Held: map[string]float64{"theta1": 1}})
 	if err != nil || len(res.Boundary) != 1 || res.Boundary[0].Part != "MA" || math.Abs(real(res.Boundary[0].Roots[0])-1) > 1e-12 {
 		t.Errorf("boundary flags %v (%v)", res.Boundary, err)
 	}
@@ -161,7 +162,7 @@ func TestCanceledFit(t *testing.T) {
 	cancel()
 	res, err := Fit(ctx, y, Order{P: 2, Q: 1}, nil)
 	var ce *ConvergenceError
-	if !errors.As(err, &ce) || res == nil || res.Converged || len(res.Est) != 4 {
+	if !errors.As(err, &ce) || res == nil || res.Converged || len(res.Params) != 4 {
 		t.Errorf("canceled fit: %v", err)
 	}
 	if _, err := Select(ctx, y, Grid{MaxP: 1, MaxQ: 1}, nil); !errors.Is(err, context.Canceled) {
@@ -179,15 +180,15 @@ func TestEdgeOrders(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(res.Est) != 1 || !closeTo(res.Est[0], meanOf(y), 1e-12, 0) {
-		t.Errorf("mean %v, sample mean %v", res.Est, meanOf(y))
+	if len(res.Params) != 1 || !closeTo(ests(res)[0], meanOf(y), 1e-12, 0) {
+		t.Errorf("mean %v, sample mean %v", ests(res), meanOf(y))
 	}
 	rw, err := Fit(context.Background(), y, Order{D: 1}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rw.Est) != 0 || rw.Start != 1 {
-		t.Fatalf("random walk: %v start %d", rw.Est, rw.Start)
+	if len(rw.Params) != 0 || rw.Start != 1 {
+		t.Fatalf("random walk: %v start %d", ests(rw), rw.Start)
 	}
 	fc, err := rw.Forecast(4, 0.95, nil)
 	if err != nil {
@@ -210,7 +211,7 @@ func TestConstant(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	c, se := res.Constant()
+	c, se := res.EquationConstant()
 	// OLS of y_t on (1, y_{t-1}), t = 1..n-1, closed form.
 	n := float64(len(y) - 1)
 	var sx, sy, sxx, sxy float64
@@ -223,9 +224,11 @@ func TestConstant(t *testing.T) {
 	}
 	b := (n*sxy - sx*sy) / (n*sxx - sx*sx)
 	a := (sy - b*sx) / n
-	s2 := res.SSQ / n
+	// The textbook OLS variance SSQ/(n - 2) is the library's convention
+	// (est.Sigma2 with k = 2 coefficients: phi1 and c).
+	s2 := res.SSQ / (n - 2)
 	seA := math.Sqrt(s2 * sxx / (n*sxx - sx*sx))
-	if !closeTo(c, a, 1e-6, 0) || !closeTo(se, seA, 1e-6, 0) || !closeTo(res.Est[0], b, 1e-6, 0) {
+	if !closeTo(c, a, 1e-6, 0) || !closeTo(se, seA, 1e-6, 0) || !closeTo(ests(res)[0], b, 1e-6, 0) {
 		t.Errorf("constant %v se %v, OLS %v se %v", c, se, a, seA)
 	}
 }

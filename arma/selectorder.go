@@ -3,10 +3,12 @@ package arma
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"runtime"
 	"runtime/debug"
 	"sort"
+	"strconv"
 	"sync"
 )
 
@@ -14,10 +16,14 @@ import (
 type Criterion int
 
 const (
-	// ByAICc ranks by the small-sample corrected AIC (the default).
-	ByAICc Criterion = iota
-	// ByBIC ranks by the Bayesian (Schwarz) criterion.
-	ByBIC
+	// ByBIC ranks by the Bayesian (Schwarz) criterion, the default, as
+	// tf.Identify ranks: its penalty, log(N) per parameter, grows with
+	// the record, so that on long records it does not keep adding
+	// coefficients that barely lower the sum of squares (a noise model
+	// for a controller should be small).
+	ByBIC Criterion = iota
+	// ByAICc ranks by the small-sample corrected AIC.
+	ByAICc
 	// ByAIC ranks by Akaike's criterion.
 	ByAIC
 )
@@ -46,16 +52,19 @@ type Grid struct {
 	// SP, SD, SQ and Period give the seasonal part of every candidate.
 	SP, SD, SQ int
 	Period     int
-	// Criterion ranks the candidates (default ByAICc).
+	// Criterion ranks the candidates (default ByBIC).
 	Criterion Criterion
 	// Workers bounds the number of fits run at once; zero means
-	// runtime.GOMAXPROCS(0), negative is an *ArgError.
+	// runtime.GOMAXPROCS(0), negative is a *SettingError.
 	Workers int
 }
 
-// Candidate is one fitted order of a Select grid.
-type Candidate struct {
+// OrderFit is one fitted order of a Select grid: the order, its fit and
+// the value of the criterion that ranked it.
+type OrderFit struct {
 	Order Order
+	// Criterion is the criterion Score is a value of.
+	Criterion Criterion
 	// Score is the criterion value (+Inf when the fit failed).
 	Score float64
 	// Result is the fit (nil when Err is not a *ConvergenceError).
@@ -76,8 +85,9 @@ type Candidate struct {
 // start of the grid (MaxP + SP*Period + D + SD*Period), or opt.Start if
 // larger.
 //
-// The error is an *ArgError for an invalid grid or options (Grid.Validate,
-// Options.Validate), the *DataError of Fit for a NaN, infinite or too
+// The error is a *SettingError for an invalid grid or settings
+// (Grid.Validate, FitSettings.Validate), the *SampleError of Fit for a
+// NaN, infinite or too
 // large sample (no candidate is fitted), ctx's error when ctx is done
 // (candidates fitted so far are still returned), and, when no candidate
 // produced a result at all (a series too short or constant, for example),
@@ -85,17 +95,18 @@ type Candidate struct {
 // in a fit (a bug) is recovered on its worker goroutine into an
 // *InternalError, which is that candidate's Err and, with all candidates,
 // Select's error.
-func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate, error) {
+func Select(ctx context.Context, y []float64, g Grid, opt *FitSettings) (fits []OrderFit, err error) {
+	defer withOp("arma.Select", &err)
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	if err := g.Validate(); err != nil {
+	if err := g.validate(); err != nil {
 		return nil, err
 	}
-	if err := opt.Validate(); err != nil {
+	if err := opt.validate(); err != nil {
 		return nil, err
 	}
-	var o Options
+	var o FitSettings
 	if opt != nil {
 		o = *opt
 	}
@@ -103,15 +114,15 @@ func Select(ctx context.Context, y []float64, g Grid, opt *Options) ([]Candidate
 		return nil, err
 	}
 	s := max(g.Period, 1)
-	o.Start = max(o.Start, g.MaxP+g.SP*s+g.D+g.SD*s)
+	o.First = max(o.First, g.MaxP+g.SP*s+g.D+g.SD*s)
 	workers := g.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	var cands []Candidate
+	var cands []OrderFit
 	for p := 0; p <= g.MaxP; p++ {
 		for q := 0; q <= g.MaxQ; q++ {
-			cands = append(cands, Candidate{Order: Order{P: p, D: g.D, Q: q, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}})
+			cands = append(cands, OrderFit{Order: Order{P: p, D: g.D, Q: q, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}, Criterion: g.Criterion})
 		}
 	}
 	jobs := make(chan int)
@@ -175,17 +186,17 @@ feed:
 // selectOne fits one candidate of Select on a worker goroutine. A panic
 // (a bug) is recovered into an *InternalError in c.Err, so that it cannot
 // end the caller's process.
-func selectOne(ctx context.Context, y []float64, c *Candidate, o Options, crit Criterion, name string) {
+func selectOne(ctx context.Context, y []float64, c *OrderFit, o FitSettings, crit Criterion, name string) {
 	defer func() {
 		if r := recover(); r != nil {
 			c.Result, c.Score = nil, math.Inf(1)
-			c.Err = &InternalError{Op: "Select: fit of order " + c.Order.String() + " to " + seriesName(name), Value: r, Stack: string(debug.Stack())}
+			c.Err = &InternalError{Op: "arma.Select", Value: "fit of order " + c.Order.String() + " to " + seriesName(name) + ": " + fmt.Sprint(r), Stack: debug.Stack()}
 		}
 	}()
 	if testSelectHook != nil {
 		testSelectHook(c.Order)
 	}
-	res, err := Fit(ctx, y, c.Order, &o)
+	res, err := fit(ctx, y, c.Order, &o)
 	c.Result, c.Err, c.Score = res, err, math.Inf(1)
 	if res != nil {
 		c.Score = score(res, crit)
@@ -200,13 +211,27 @@ func score(r *Result, c Criterion) float64 {
 	switch c {
 	case ByBIC:
 		return r.BIC
-	case ByAIC:
-		return r.AIC
+	case ByAICc:
+		return r.AICc
 	}
-	return r.AICc
+	return r.AIC
 }
 
-func rank(c Candidate) int {
+// String prints the fitted order and its criterion by name, as
+// "ARIMA(1,0,1) BIC 1234.56", or the error of a failed fit.
+func (c OrderFit) String() string {
+	s := "ARIMA" + c.Order.String()
+	if c.Err != nil && c.Result == nil {
+		return s + " failed: " + c.Err.Error()
+	}
+	s += " " + c.Criterion.String() + " " + strconv.FormatFloat(c.Score, 'f', 2, 64)
+	if c.Err != nil {
+		s += " (" + c.Err.Error() + ")"
+	}
+	return s
+}
+
+func rank(c OrderFit) int {
 	if c.Err == nil {
 		if len(c.Result.Boundary) > 0 {
 			return 1

@@ -30,35 +30,35 @@ func TestSettingsValidate(t *testing.T) {
 	}
 	nan := math.NaN()
 	isArg := func(field string) func(error) bool {
-		return func(err error) bool { var e *ArgError; return errors.As(err, &e) && e.Arg == field }
+		return func(err error) bool { var e *SettingError; return errors.As(err, &e) && e.Setting == field }
 	}
 	dataAt := func(series string, i int) func(error) bool {
 		return func(err error) bool {
-			var e *DataError
+			var e *SampleError
 			return errors.As(err, &e) && e.Series == series && e.Index == i
 		}
 	}
 	opts := []struct {
-		o    Options
+		o    FitSettings
 		ok   func(error) bool
 		want string
 	}{
-		{Options{Mean: 3}, isArg("Options.Mean"), "unknown MeanMode 3"},
-		{Options{Mean: -1}, isArg("Options.Mean"), "MeanFree"},
-		{Options{X: [][]float64{col(), col()[:50]}}, isArg("Options.X"), "regressor x2 has 50 samples"},
-		{Options{X: [][]float64{col(), col(nan)}, XNames: []string{"a", "valve"}}, dataAt("valve", 3), "valve sample 3 is NaN"},
-		{Options{X: [][]float64{col(1e300)}}, dataAt("x1", 3), "beyond MaxAbs"},
-		{Options{X: [][]float64{col()}, XNames: []string{"a", "b"}}, isArg("Options.XNames"), "2 names for 1 regressors"},
-		{Options{X: [][]float64{col(), col()}, XNames: []string{"a", "a"}}, isArg("Options.XNames"), `"a" used twice`},
-		{Options{X: [][]float64{col()}, XNames: []string{""}}, isArg("Options.XNames"), "empty name"},
-		{Options{X: [][]float64{col()}, XNames: []string{"mean"}}, isArg("Options.XNames"), "reserved"},
-		{Options{Fixed: map[string]float64{"phi1": nan}}, isArg("Options.Fixed"), "value of phi1 is NaN"},
-		{Options{Init: map[string]float64{"phi1": math.Inf(1)}}, isArg("Options.Init"), "value of phi1 is +Inf"},
-		{Options{Start: -2}, isArg("Options.Start"), "must not be negative"},
-		{Options{MaxIter: -1}, isArg("Options.MaxIter"), "must not be negative"},
-		{Options{Tol: -1e-3}, isArg("Options.Tol"), "[0, 1)"},
-		{Options{Tol: 1}, isArg("Options.Tol"), "[0, 1)"},
-		{Options{Tol: nan}, isArg("Options.Tol"), "[0, 1)"},
+		{FitSettings{Constant: 3}, isArg("FitSettings.Constant"), "FitSettings.Constant = 3: unknown ConstantRule"},
+		{FitSettings{Constant: -1}, isArg("FitSettings.Constant"), "ConstantFree"},
+		{FitSettings{Regressors: [][]float64{col(), col()[:50]}}, isArg("FitSettings.Regressors"), "FitSettings.Regressors = column x2 of 50 samples: every column needs the series' length, and x1 has 120"},
+		{FitSettings{Regressors: [][]float64{col(), col(nan)}, RegressorNames: []string{"a", "valve"}}, dataAt("valve", 3), `series "valve" sample 3 is NaN`},
+		{FitSettings{Regressors: [][]float64{col(1e300)}}, dataAt("x1", 3), "beyond the largest magnitude accepted, 1e+140"},
+		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{"a", "b"}}, isArg("FitSettings.RegressorNames"), "FitSettings.RegressorNames = 2 names: give one name per regressor column (1)"},
+		{FitSettings{Regressors: [][]float64{col(), col()}, RegressorNames: []string{"a", "a"}}, isArg("FitSettings.RegressorNames"), `"a": used twice`},
+		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{""}}, isArg("FitSettings.RegressorNames"), "empty name"},
+		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{"c"}}, isArg("FitSettings.RegressorNames"), `"c": is reserved for the constant c`},
+		{FitSettings{Held: map[string]float64{"phi1": nan}}, isArg(`FitSettings.Held["phi1"]`), `FitSettings.Held["phi1"] = NaN: must be finite`},
+		{FitSettings{StartValues: map[string]float64{"phi1": math.Inf(1)}}, isArg(`FitSettings.StartValues["phi1"]`), `FitSettings.StartValues["phi1"] = +Inf: must be finite`},
+		{FitSettings{First: -2}, isArg("FitSettings.First"), "FitSettings.First = -2: must not be negative"},
+		{FitSettings{MaxIter: -1}, isArg("FitSettings.MaxIter"), "FitSettings.MaxIter = -1: must not be negative (zero means 500)"},
+		{FitSettings{Tol: -1e-3}, isArg("FitSettings.Tol"), "[0, 1)"},
+		{FitSettings{Tol: 1}, isArg("FitSettings.Tol"), "[0, 1)"},
+		{FitSettings{Tol: nan}, isArg("FitSettings.Tol"), "FitSettings.Tol = NaN: must be in [0, 1) (zero means 1e-14)"},
 	}
 	for _, c := range opts {
 		calls := map[string]error{
@@ -71,6 +71,11 @@ func TestSettingsValidate(t *testing.T) {
 			if !c.ok(err) || !strings.Contains(err.Error(), c.want) {
 				t.Errorf("%s %+v: %T %v, want the field's error with %q", how, c.o, err, err, c.want)
 			}
+			// Op names the function called.
+			if op := "arma." + how; how == "Validate" && !strings.HasPrefix(err.Error(), "arma.FitSettings.Validate: ") ||
+				how != "Validate" && !strings.HasPrefix(err.Error(), op+": ") {
+				t.Errorf("%s: %v does not start with its Op", how, err)
+			}
 		}
 	}
 	sims := []struct {
@@ -79,7 +84,7 @@ func TestSettingsValidate(t *testing.T) {
 		want string
 	}{
 		{SimSettings{BurnIn: MaxSamples + 1}, isArg("SimSettings.BurnIn"), "above MaxSamples"},
-		{SimSettings{Innovations: []float64{0, 1, math.Inf(-1)}}, dataAt("innovations", 2), "innovations sample 2 is -Inf"},
+		{SimSettings{Innovations: []float64{0, 1, math.Inf(-1)}}, dataAt("innovations", 2), `series "innovations" sample 2 is -Inf`},
 	}
 	for _, c := range sims {
 		for how, err := range map[string]error{"Validate": c.s.Validate(), "Simulate": second(Simulate(Model{Sigma2: 1}, 3, &c.s))} {
@@ -88,7 +93,7 @@ func TestSettingsValidate(t *testing.T) {
 			}
 		}
 	}
-	if _, err := Simulate(Model{Sigma2: 1}, 2, &SimSettings{Innovations: []float64{1}}); !isArg("SimSettings.Innovations")(err) || !strings.Contains(err.Error(), "has 1 values, n is 2") {
+	if _, err := Simulate(Model{Sigma2: 1}, 2, &SimSettings{Innovations: []float64{1}}); !isArg("SimSettings.Innovations")(err) || err.Error() != "arma.Simulate: SimSettings.Innovations = 1 values: needs n = 2 values" {
 		t.Errorf("innovations of the wrong length: %v", err)
 	}
 	if _, err := Simulate(Model{Sigma2: 1}, 3, &SimSettings{BurnIn: -5}); err != nil {
@@ -108,17 +113,17 @@ func TestSettingsValidate(t *testing.T) {
 		{Grid{SQ: 1, Period: 1}, "Grid", "Period >= 2"},
 		{Grid{Period: -12}, "Grid.Period", "must not be negative"},
 		{Grid{MaxP: MaxLag + 1}, "Grid", "above MaxLag"},
-		{Grid{Criterion: 9}, "Grid.Criterion", "unknown Criterion 9"},
+		{Grid{Criterion: 9}, "Grid.Criterion", "Grid.Criterion = 9: unknown Criterion; use ByBIC (the default), ByAICc or ByAIC"},
 		{Grid{Workers: -2}, "Grid.Workers", "must not be negative"},
 	}
 	for _, c := range grids {
 		for how, err := range map[string]error{"Validate": c.g.Validate(), "Select": second(Select(ctx, y, c.g, nil))} {
 			if !isArg(c.field)(err) || !strings.Contains(err.Error(), c.want) {
-				t.Errorf("%s %+v: %T %v, want an *ArgError on %s with %q", how, c.g, err, err, c.field, c.want)
+				t.Errorf("%s %+v: %T %v, want a *SettingError on %s with %q", how, c.g, err, err, c.field, c.want)
 			}
 		}
 	}
-	var nilOpt *Options
+	var nilOpt *FitSettings
 	var nilSim *SimSettings
 	if nilOpt.Validate() != nil || nilSim.Validate() != nil || (Grid{}).Validate() != nil {
 		t.Error("the defaults do not validate")
@@ -137,15 +142,15 @@ func TestModelCoefficientMessages(t *testing.T) {
 		err  error
 		want string
 	}{
-		{"Simulate SAR", second(Simulate(Model{SAR: []float64{0.1, nan}, Period: 4, Sigma2: 1}, 5, nil)), "SAR[1] is NaN"},
-		{"Simulate Mean", second(Simulate(Model{Mean: inf, Sigma2: 1}, 5, nil)), "Mean is +Inf"},
-		{"Simulate Sigma2", second(Simulate(Model{Sigma2: -2}, 5, nil)), "Sigma2 must not be negative, got -2"},
-		{"Stationary AR", func() error { _, _, err := Model{AR: []float64{inf}}.Stationary(); return err }(), "AR[0] is +Inf"},
-		{"Invertible SMA", func() error { _, _, err := Model{SMA: []float64{nan}, Period: 2}.Invertible(); return err }(), "SMA[0] is NaN"},
-		{"Psi MA", second(Model{MA: []float64{0.2, 0.1, nan}}.Psi(3)), "MA[2] is NaN"},
+		{"Simulate SAR", second(Simulate(Model{SAR: []float64{0.1, nan}, Period: 4, Sigma2: 1}, 5, nil)), "arma.Simulate: model SAR[1]: is NaN: coefficients must be finite"},
+		{"Simulate Mean", second(Simulate(Model{Mean: inf, Sigma2: 1}, 5, nil)), "arma.Simulate: model Mean: is +Inf"},
+		{"Simulate Sigma2", second(Simulate(Model{Sigma2: -2}, 5, nil)), "arma.Simulate: model Sigma2: is -2: a variance must not be negative"},
+		{"Stationary AR", func() error { _, _, err := Model{AR: []float64{inf}}.Stationary(); return err }(), "arma.Model.Stationary: model AR[0]: is +Inf"},
+		{"Invertible SMA", func() error { _, _, err := Model{SMA: []float64{nan}, Period: 2}.Invertible(); return err }(), "arma.Model.Invertible: model SMA[0]: is NaN"},
+		{"Psi MA", second(Model{MA: []float64{0.2, 0.1, nan}}.Psi(3)), "arma.Model.Psi: model MA[2]: is NaN"},
 	}
 	for _, c := range cases {
-		var ae *ArgError
+		var ae *ModelError
 		if !errors.As(c.err, &ae) || !strings.Contains(c.err.Error(), c.want) {
 			t.Errorf("%s: %T %v, want %q", c.name, c.err, c.err, c.want)
 		}

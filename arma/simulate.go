@@ -9,7 +9,7 @@ import (
 
 // MaxSamples bounds n plus the burn-in of Simulate: 2^26 samples are
 // 512 MiB per series, and Simulate holds two. A larger request (n = 1<<40
-// exhausted memory, math.MaxInt panicked) is an *ArgError.
+// exhausted memory, math.MaxInt panicked) is a *SettingError.
 const MaxSamples = 1 << 26
 
 // SimSettings tunes Simulate. The zero value gives the defaults.
@@ -19,10 +19,13 @@ type SimSettings struct {
 	Seed1, Seed2 uint64
 	// BurnIn is the number of samples simulated and discarded before the
 	// returned series, so that its stationary part starts in (very
-	// nearly) its stationary distribution. Zero means automatic: enough
-	// samples for the slowest AR mode to decay by 1e-12, at least 100 +
-	// the AR and MA degrees, at most 10^6. Negative means none (start
-	// from zero pre-sample values).
+	// nearly) its stationary distribution. The library's one meaning:
+	// zero means automatic, enough draws for the noise filter's transient
+	// to decay (here: for the slowest AR mode to decay by 1e-12, at least
+	// 100 + the AR and MA degrees, at most 10^6); a positive value means
+	// that many draws; a negative value means none (the series starts
+	// from zero pre-sample values, and the AR part need not be
+	// stationary).
 	BurnIn int
 	// Innovations, when not nil, is used as the innovation series a_t
 	// (length n) instead of Gaussian draws; no burn-in is applied and
@@ -40,14 +43,16 @@ type SimSettings struct {
 // the integration of the differences starts from zero pre-sample values
 // (an integrated series has no stationary distribution).
 //
-// Errors: *ArgError for n < 0, n plus the burn-in above MaxSamples,
-// non-finite coefficients, Innovations of the wrong length, when a
-// burn-in is requested an AR part that is not stationary (the message
-// gives the offending roots), and a simulated series that overflows
-// float64 (the message gives the first sample); *DataError (Series
-// "innovations", with the index) for a NaN or infinite innovation.
-func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
-	if err := s.Validate(); err != nil {
+// Errors: *SettingError for n < 0, n plus the burn-in above MaxSamples
+// and Innovations of the wrong length; *ModelError for non-finite
+// coefficients and, when a burn-in is requested, an AR part that is not
+// stationary (the message gives the offending roots); a *SeriesError of
+// kind ErrOverflow for a simulated series that overflows float64 (the
+// message gives the first sample); a *SampleError (Series "innovations",
+// with the index) for a NaN or infinite innovation.
+func Simulate(m Model, n int, s *SimSettings) (y []float64, err error) {
+	defer withOp("arma.Simulate", &err)
+	if err := s.validate(); err != nil {
 		return nil, err
 	}
 	var set SimSettings
@@ -55,7 +60,7 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 		set = *s
 	}
 	if n < 0 || n > MaxSamples {
-		return nil, &ArgError{Arg: "n", Msg: "must be in 0..MaxSamples = " + itoa(MaxSamples) + ", got " + itoa(n)}
+		return nil, settingErr("n", itoa(n), "must be in 0..MaxSamples = "+itoa(MaxSamples))
 	}
 	if err := m.validate(); err != nil {
 		return nil, err
@@ -65,7 +70,7 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 	var a []float64
 	if set.Innovations != nil {
 		if len(set.Innovations) != n {
-			return nil, &ArgError{Arg: "SimSettings.Innovations", Msg: "has " + itoa(len(set.Innovations)) + " values, n is " + itoa(n)}
+			return nil, settingErr("SimSettings.Innovations", itoa(len(set.Innovations))+" values", "needs n = "+itoa(n)+" values")
 		}
 		if err := checkFinite("innovations", set.Innovations); err != nil {
 			return nil, err
@@ -73,19 +78,19 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 		a = append([]float64(nil), set.Innovations...)
 	} else {
 		if set.BurnIn >= 0 {
-			ok, bad, err := m.Stationary()
+			ok, bad, err := m.stationary()
 			if err != nil {
 				return nil, err
 			}
 			if !ok {
-				return nil, &ArgError{Arg: "model", Msg: "AR part not stationary (z-plane roots " + rootList(bad) + "); use BurnIn < 0"}
+				return nil, modelErr("model AR part", "not stationary (z-plane roots "+rootList(bad)+"); use SimSettings.BurnIn < 0")
 			}
 			burn = set.BurnIn
 			if burn == 0 {
 				burn = autoBurn(ar, len(ma)-1)
 			}
 			if burn > MaxSamples-n {
-				return nil, &ArgError{Arg: "SimSettings.BurnIn", Msg: "n + BurnIn = " + itoa(n) + " + " + itoa(burn) + " is above MaxSamples = " + itoa(MaxSamples)}
+				return nil, settingErr("SimSettings.BurnIn", itoa(burn), "n + BurnIn = "+itoa(n)+" + "+itoa(burn)+" is above MaxSamples = "+itoa(MaxSamples))
 			}
 		}
 		a = make([]float64, burn+n)
@@ -96,7 +101,7 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 		}
 	}
 	filter.Run(a, ma, ar, a)
-	y := a[burn:]
+	y = a[burn:]
 	for i := range y {
 		y[i] += m.Mean
 	}
@@ -104,7 +109,7 @@ func Simulate(m Model, n int, s *SimSettings) ([]float64, error) {
 		filter.Run(y, []float64{1}, diff, y)
 	}
 	if k := firstNonFinite(y); k >= 0 {
-		return nil, &ArgError{Arg: "model", Msg: "simulated series overflows at sample " + itoa(k) + " (explosive AR part or huge Mean/Sigma2)"}
+		return nil, &SeriesError{Series: "simulated", Kind: ErrOverflow, Detail: "the simulated series overflows at sample " + itoa(k) + " (explosive AR part or huge Mean/Sigma2)"}
 	}
 	return y, nil
 }

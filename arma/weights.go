@@ -17,49 +17,52 @@ import (
 // ar and ma are polynomials as stored (ascending powers of B, signs
 // included: ar = {1, -0.5} for 1 - 0.5 B); an empty ma is the constant 1.
 // Multiply seasonal factors first (Model.ARPoly does). For an ARIMA model
-// pass ar(B) times the differencing polynomial. It returns an *ArgError
-// when ar is empty or ar[0] is zero, n < 0 or n > MaxHorizon, or a
+// pass ar(B) times the differencing polynomial. It returns a *ModelError
+// when ar is empty or ar[0] is zero or a coefficient is not finite, a
+// *SettingError for n < 0 or n > MaxHorizon, a *ModelError for a
 // polynomial of degree above 2 MaxLag (the degree of a model's AR part
 // times its differencing can reach 2 MaxLag). Weights that overflow
 // float64 (an explosive ar, roots far outside the unit circle, over many
-// weights) are an *ArgError too, not +-Inf.
-func Psi(ar, ma []float64, n int) ([]float64, error) {
+// weights) are a *SeriesError of kind ErrOverflow, not +-Inf.
+func Psi(ar, ma []float64, n int) (w []float64, err error) {
+	defer withOp("arma.Psi", &err)
 	return weights(ar, ma, n, "ar")
 }
 
 // Pi returns the first n pi weights, the coefficients of ar(B)/ma(B), so
 // that a_t = sum_{j>=0} pi_j w_{t-j}. (Some texts define pi_j with the
 // opposite sign for j >= 1; here they are the plain series coefficients.)
-// It returns an *ArgError when ma is empty or ma[0] is zero, and for n and
-// degrees as Psi does.
-func Pi(ar, ma []float64, n int) ([]float64, error) {
+// It returns a *ModelError when ma is empty or ma[0] is zero, and the
+// other errors as Psi does.
+func Pi(ar, ma []float64, n int) (w []float64, err error) {
+	defer withOp("arma.Pi", &err)
 	return weights(ma, ar, n, "ma")
 }
 
 func weights(den, num []float64, n int, which string) ([]float64, error) {
 	if n < 0 || n > MaxHorizon {
-		return nil, &ArgError{Arg: "n", Msg: "must be in 0..MaxHorizon = " + itoa(MaxHorizon) + ", got " + itoa(n)}
+		return nil, settingErr("n", itoa(n), "must be in 0..MaxHorizon = "+itoa(MaxHorizon))
 	}
 	if len(den) > 2*MaxLag+1 || len(num) > 2*MaxLag+1 {
-		return nil, &ArgError{Arg: "ar/ma", Msg: "polynomial degree above 2 MaxLag = " + itoa(2*MaxLag)}
+		return nil, modelErr("ar/ma", "polynomial degree above 2 MaxLag = "+itoa(2*MaxLag))
 	}
 	if len(den) == 0 || den[0] == 0 {
-		return nil, &ArgError{Arg: which, Msg: "constant term must be non-zero"}
+		return nil, modelErr(which, "constant term must be non-zero")
 	}
 	if len(num) == 0 {
 		num = []float64{1}
 	}
 	for _, v := range append(append([]float64(nil), den...), num...) {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, &ArgError{Arg: which, Msg: "coefficients must be finite"}
+			return nil, modelErr(which, "coefficients must be finite")
 		}
 	}
 	w, err := poly.Divide(num, den, n)
 	if err != nil { // not reached: den[0] != 0 was checked above
-		return nil, &ArgError{Arg: which, Msg: "constant term must be non-zero"}
+		return nil, modelErr(which, "constant term must be non-zero")
 	}
 	if k := firstNonFinite(w); k >= 0 {
-		return nil, &ArgError{Arg: which, Msg: "weight " + itoa(k) + " overflows (roots far outside the unit circle); ask for fewer than " + itoa(k) + " weights"}
+		return nil, &SeriesError{Series: "weights", Kind: ErrOverflow, Detail: "weight " + itoa(k) + " of " + which + " overflows (roots far outside the unit circle); ask for fewer than " + itoa(k) + " weights"}
 	}
 	return w, nil
 }
@@ -127,7 +130,7 @@ func shrinkInside(a []float64, lim float64) []float64 {
 }
 
 // rootError turns a failure of the root finder on a factor of a model
-// polynomial into a *RootError.
+// polynomial into a *ModelError.
 func rootError(part string, seasonal bool, err error) error {
 	names := map[string][2]string{"AR": {"phi(B)", "Phi(B^s)"}, "MA": {"theta(B)", "Theta(B^s)"}}
 	i := 0
@@ -138,7 +141,11 @@ func rootError(part string, seasonal bool, err error) error {
 	if errors.Is(err, poly.ErrTooLong) {
 		reason = "degree above the root finder's limit"
 	}
-	return &RootError{Part: part, Poly: names[part][i], Reason: reason}
+	what := "stationarity"
+	if part == "MA" {
+		what = "invertibility"
+	}
+	return modelErr(part+" polynomial "+names[part][i], "its roots could not be computed ("+reason+"), so its "+what+" cannot be judged; coefficients of this size belong to no stationary or invertible model: check their scale")
 }
 
 func cabs(z complex128) float64 { return cmplx.Abs(z) }

@@ -13,12 +13,13 @@ type ARFit struct {
 	Order int
 	// Phi holds phi_1..phi_p (Box-Jenkins signs: phi(B) = 1 - sum phi_k B^k).
 	Phi []float64
-	// Var is the innovation variance estimate
-	//
-	//	c_0 prod_{k=1}^{p} (1 - pacf_k^2) * n / (n - (p+1))
-	//
-	// that is the Durbin-Levinson prediction-error variance with a
-	// small-sample correction for the p coefficients and the mean.
+	// Var is the innovation variance: the one-step prediction-error
+	// variance that the Durbin-Levinson recursion leaves at order p, the
+	// lag-0 autocovariance c_0 shrunk by the factor 1 - pacf_k^2 at each
+	// lag k = 1..p, then multiplied by n / (n - p - 1), because the p
+	// coefficients and the mean were estimated from the same n samples
+	// (the library's convention of dividing by the count less the
+	// estimated quantities; see internal/est).
 	Var float64
 	// Mean is the sample mean removed before fitting.
 	Mean float64
@@ -70,20 +71,26 @@ func (f ARFit) Residuals(x []float64) []float64 {
 // YuleWalker fits autoregressions of orders 0..maxOrder to x by the
 // Yule-Walker equations (sample autocovariances with divisor n, mean
 // removed, solved by Durbin-Levinson) and keeps the order with the
-// smallest AIC = n log(v_k) + 2k. maxOrder = 0 means
-// min(n-1, floor(10 log10 n)).
+// smallest AIC = n log(v_k) + 2k, v_k the prediction-error variance of
+// order k. maxOrder = 0 means automatic: a bound that grows slowly with
+// the record, ten orders per decade of samples, floor(10 log10 n) (20
+// for 100 samples, 30 for 1000), and below n, so that long records may
+// need long autoregressions while short ones keep enough samples per
+// coefficient.
 //
-// Errors: *ArgError for maxOrder < 0, *ShortError when maxOrder >= n,
-// *DataError for NaN/Inf samples, *ConstantError for a constant series.
-func YuleWalker(x []float64, maxOrder int) (ARFit, error) {
+// Errors: *SettingError for maxOrder < 0, *SeriesError of kind ErrShort
+// when maxOrder >= n, *SampleError for NaN/Inf samples, *SeriesError of
+// kind ErrConstant for a constant series.
+func YuleWalker(x []float64, maxOrder int) (f ARFit, err error) {
+	defer withOp("arma.YuleWalker", &err)
 	n := len(x)
 	if maxOrder < 0 {
-		return ARFit{}, &ArgError{Arg: "maxOrder", Msg: "must not be negative"}
+		return ARFit{}, settingErr("maxOrder", itoa(maxOrder), "must not be negative (zero means automatic)")
 	}
 	if maxOrder == 0 {
 		maxOrder = min(n-1, int(math.Floor(10*math.Log10(float64(n)))))
 		if maxOrder < 1 {
-			return ARFit{}, &ShortError{N: n, Need: 2, What: "a Yule-Walker fit"}
+			return ARFit{}, shortErr("", n, 2, "a Yule-Walker fit")
 		}
 	}
 	return ywFit(x, maxOrder, -1)
@@ -92,9 +99,10 @@ func YuleWalker(x []float64, maxOrder int) (ARFit, error) {
 // YuleWalkerOrder fits an autoregression of the given order (>= 0) to x
 // by the Yule-Walker equations, with the conventions of YuleWalker but no
 // order search.
-func YuleWalkerOrder(x []float64, order int) (ARFit, error) {
+func YuleWalkerOrder(x []float64, order int) (f ARFit, err error) {
+	defer withOp("arma.YuleWalkerOrder", &err)
 	if order < 0 {
-		return ARFit{}, &ArgError{Arg: "order", Msg: "must not be negative"}
+		return ARFit{}, settingErr("order", itoa(order), "must not be negative")
 	}
 	return ywFit(x, order, order)
 }
@@ -102,9 +110,9 @@ func YuleWalkerOrder(x []float64, order int) (ARFit, error) {
 func ywFit(x []float64, maxOrder, fixed int) (ARFit, error) {
 	n := len(x)
 	if maxOrder >= n {
-		return ARFit{}, &ShortError{N: n, Need: addSat(maxOrder, 1), What: "an autoregression of order " + strconv.Itoa(maxOrder)}
+		return ARFit{}, shortErr("", n, addSat(maxOrder, 1), "an autoregression of order "+strconv.Itoa(maxOrder))
 	}
-	c, err := ACF(x, maxOrder)
+	c, err := acf(x, maxOrder)
 	if err != nil {
 		return ARFit{}, err
 	}

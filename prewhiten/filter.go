@@ -40,7 +40,7 @@ type Settings struct {
 	// in both (a *SettingError): Settings{Order: {D: 1, Q: 1}} and
 	// Settings{Diff: {1, -1}, Order: {Q: 1}} are the same filter. In
 	// either spelling the mean of the differenced input is estimated
-	// with the coefficients (arma.MeanFree, a drift for D = 1), as the
+	// with the coefficients (arma.ConstantFree, a drift for D = 1), as the
 	// autoregression does, so that Filter.Mean is the level removed.
 	Order *arma.Order
 	// ARMA, when not nil, is used as the filter instead of fitting one:
@@ -304,14 +304,10 @@ func fit(x []float64, s *Settings) (Filter, error) {
 		if ord.SP == 0 && ord.SQ == 0 {
 			ord.Period = 0
 		}
-		res, err := arma.Fit(context.Background(), w, ord, &arma.Options{Name: name, Mean: arma.MeanFree})
+		res, err := arma.Fit(context.Background(), w, ord, &arma.FitSettings{Name: name, Constant: arma.ConstantFree})
 		if res == nil {
 			// The fit saw the differenced series: report lengths and
 			// indexes of x itself.
-			// arma's own types today, the shared shapes once arma uses
-			// them: both are translated.
-			var se *arma.ShortError
-			var de *arma.DataError
 			var sse *SeriesError
 			var sae *SampleError
 			why := "for the filter of Settings.Order " + set.Order.String() + " after the differencing " + polyText(diff)
@@ -319,12 +315,8 @@ func fit(x []float64, s *Settings) (Filter, error) {
 			// the index of x it ends at.
 			series := name + " after the differencing " + polyText(diff)
 			switch {
-			case errors.As(err, &se):
-				return Filter{}, shortError(name, len(x), se.Need+d, why)
 			case errors.As(err, &sse) && sse.Kind == ErrShort:
 				return Filter{}, shortError(name, len(x), sse.Need+d, why)
-			case errors.As(err, &de):
-				return Filter{}, &SampleError{Series: series, Index: de.Index + d, Value: de.Value, Limit: arma.MaxAbs}
 			case errors.As(err, &sae):
 				return Filter{}, &SampleError{Series: series, Index: sae.Index + d, Value: sae.Value, Limit: sae.Limit}
 			}
@@ -373,8 +365,8 @@ func fitAR(x []float64, name string, diff []float64, maxOrder int) (Filter, erro
 	}
 	ar, err := arma.YuleWalker(w, maxOrder)
 	if err != nil {
-		var ce *arma.ConstantError
-		if errors.As(err, &ce) {
+		var ce *SeriesError
+		if errors.As(err, &ce) && ce.Kind == ErrConstant {
 			return Filter{}, constantError(name, w[0], polyText(diff))
 		}
 		return Filter{}, err

@@ -98,10 +98,10 @@ func TestHostileCalls(t *testing.T) {
 	var r *arma.Result
 	try(t, "nil Result LjungBox", func() error { _, err := r.LjungBox(5); return err })
 	try(t, "nil Result String", func() error { _ = r.String(); return nil })
-	try(t, "nil Result Constant", func() error { r.Constant(); return nil })
+	try(t, "nil Result Constant", func() error { r.EquationConstant(); return nil })
 	try(t, "zero Result", func() error {
 		_ = (&arma.Result{}).String()
-		(&arma.Result{}).Constant()
+		(&arma.Result{}).EquationConstant()
 		_, err := (&arma.Result{}).LjungBox(3)
 		return err
 	})

@@ -19,7 +19,7 @@ type NoiseSettings struct {
 	// Lags is the number of autocorrelations reported; zero means
 	// min(24, n/4), negative is a *SettingError.
 	Lags int
-	// Criterion ranks the orders (arma.ByAICc by default).
+	// Criterion ranks the orders (arma.ByBIC by default).
 	Criterion arma.Criterion
 	// Name names the series in errors; empty means "noise".
 	Name string
@@ -46,8 +46,8 @@ func (s *NoiseSettings) Validate() error {
 	if err := errs.Count("", "NoiseSettings.Lags", s.Lags, "0 means min(24, n/4)"); err != nil {
 		return err
 	}
-	if s.Criterion < arma.ByAICc || s.Criterion > arma.ByAIC {
-		return settingError("NoiseSettings.Criterion", s.Criterion.String(), "must be arma.ByAICc, arma.ByBIC or arma.ByAIC")
+	if s.Criterion < arma.ByBIC || s.Criterion > arma.ByAIC {
+		return settingError("NoiseSettings.Criterion", s.Criterion.String(), "must be arma.ByBIC (the default), arma.ByAICc or arma.ByAIC")
 	}
 	return nil
 }
@@ -62,7 +62,7 @@ type NoiseIdentification struct {
 	ACF  arma.Correlogram
 	PACF arma.Partial
 	// Candidates are the ARMA(p, q) fits of arma.Select, best first.
-	Candidates []arma.Candidate
+	Candidates []arma.OrderFit
 	// Best is the order of the first candidate that fitted (white
 	// noise, the zero Order, when none did); its fitted coefficients
 	// are that candidate's Result.Model.AR and MA. The result holds
@@ -133,7 +133,7 @@ func identifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 	if id.PACF, err = arma.PACF(w, lags); err != nil {
 		return nil, err
 	}
-	id.Candidates, err = arma.Select(ctx, w, arma.Grid{MaxP: maxP, MaxQ: maxQ, Criterion: set.Criterion}, &arma.Options{Name: name})
+	id.Candidates, err = arma.Select(ctx, w, arma.Grid{MaxP: maxP, MaxQ: maxQ, Criterion: set.Criterion}, &arma.FitSettings{Name: name})
 	if err != nil {
 		return id, err
 	}
