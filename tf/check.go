@@ -287,7 +287,7 @@ func (s CheckSettings) validate() error {
 //   - a standard error is NaN, infinite or zero, or an estimate or the
 //     noise variance is not finite;
 //   - an estimated input pole, noise AR root or noise MA zero has
-//     |z| >= CheckBoundaryZ (on or outside the unit circle), computed
+//     |z| >= CheckBoundaryZ (on or near the unit circle), computed
 //     from the estimate's polynomials; a factor written with numbers
 //     only (such as a fixed integrator 1 - B) is the user's choice and
 //     does not count;
@@ -378,8 +378,12 @@ func chkRootFailures(m Model) []string {
 			}
 			mz = poly.MaxAbsRoot(zs)
 			if mz >= CheckBoundaryZ {
-				out = append(out, fmt.Sprintf("%s (%s) has a %s at |z| = %s, on or outside the unit circle: %s",
-					what, strings.Join(names, ", "), root, strconv.FormatFloat(mz, 'g', 5, 64), why))
+				where := "on or near the unit circle (|z| >= 0.999)"
+				if mz > 1 {
+					where = "outside the unit circle"
+				}
+				out = append(out, fmt.Sprintf("%s (%s) has a %s at |z| = %s, %s: %s",
+					what, strings.Join(names, ", "), root, strconv.FormatFloat(mz, 'g', 5, 64), where, why))
 			}
 		}
 	}

@@ -13,21 +13,27 @@ import (
 // cross-correlation, ARMA fitting): Op names the function the caller
 // called, Stage says in the caller's words what was being done and to
 // which series, and Err is the underlying error, one of the shared
-// shapes (errors.As reaches it, and errors.Is its kind).
+// shapes (errors.As reaches it, and errors.Is its kind). Hints, when not
+// empty, are faults of the record found by screening it (a stuck output,
+// a spike) that may explain the failure.
 type StageError struct {
 	Op    string
 	Stage string
 	Err   error
+	Hints []string
 }
 
 // Error describes the problem in one line.
 func (e *StageError) Error() string {
 	inner := e.Err.Error()
+	s := e.Stage + ": " + inner
 	if e.Op != "" {
-		inner = strings.TrimPrefix(inner, e.Op+": ")
-		return e.Op + ": " + e.Stage + ": " + inner
+		s = e.Op + ": " + e.Stage + ": " + strings.TrimPrefix(inner, e.Op+": ")
 	}
-	return e.Stage + ": " + inner
+	if len(e.Hints) > 0 {
+		s += "; the record may explain it: " + strings.Join(e.Hints, "; ")
+	}
+	return s
 }
 
 // Unwrap returns the underlying error.

@@ -1594,7 +1594,7 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 		e.Params[i] = Param{Name: name, Value: res.X[i], Start: start[i], SE: se, T: res.X[i] / se}
 	}
 	w.noiseSeries() // n_t at the estimate, for the start-up transient test
-	e.Warnings = fitWarnings(e, res.JTJInv == nil, w.nn[t0:w.n])
+	e.Warnings = append(fitWarnings(e, res.JTJInv == nil, w.nn[t0:w.n]), screenWarnings(w.m.Output, w.y[:w.n])...)
 	return e
 }
 

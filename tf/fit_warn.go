@@ -75,6 +75,18 @@ const (
 	SlowPole
 	// BadStandardError: a standard error is NaN, infinite or zero.
 	BadStandardError
+	// StuckOutput: the output holds one value for a stretch far longer
+	// than the series' own rate of repeats makes plausible (a stuck
+	// sensor or a historian that held its last value): n p^(L-1) < 1e-3
+	// for a stretch of L >= 10 samples, p the share of the other samples
+	// that equal their predecessor. The stretch biases every estimate.
+	StuckOutput
+	// OutputSpike: an output sample jumps away from both neighbours by
+	// more than 10 robust standard deviations of the first differences
+	// (1.4826 times their median absolute deviation), in opposite
+	// directions: a bad reading, which conditional least squares spreads
+	// over the estimates.
+	OutputSpike
 )
 
 // Serious reports whether a warning of this kind means the estimate must
@@ -144,6 +156,10 @@ func (k WarningKind) String() string {
 		return "few residuals"
 	case SlowPole:
 		return "pole too slow for the record"
+	case StuckOutput:
+		return "stuck output"
+	case OutputSpike:
+		return "spike in the output"
 	case BadStandardError:
 		return "standard error not available"
 	}
@@ -230,7 +246,7 @@ func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
 		den := in.Den.Coeffs()
 		poles := fitZRoots(den)
 		if m := fitMaxZ(den); m >= fitBoundaryZ {
-			add(UnstableDenominator, fitPolyNames(in.Den), "input %q: the denominator has a pole with |z| = %.4g, at or outside the unit circle", in.Series, m)
+			add(UnstableDenominator, fitPolyNames(in.Den), "input %q: the denominator has a pole with |z| = %.4g, %s", in.Series, m, fitWhere(m))
 		}
 		zeros := fitZRoots(in.Num.Coeffs())
 		if z, p, ok := cancel(zeros, poles); ok {
@@ -241,10 +257,10 @@ func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
 	if e.Model.Noise != nil {
 		ar, ma := e.Model.Noise.AR.Coeffs(), e.Model.Noise.MA.Coeffs()
 		if m := fitMaxZ(ar); m >= fitBoundaryZ {
-			add(NonStationaryNoise, fitPolyNames(e.Model.Noise.AR), "noise AR has a root with |z| = %.4g, at or outside the unit circle", m)
+			add(NonStationaryNoise, fitPolyNames(e.Model.Noise.AR), "noise AR has a root with |z| = %.4g, %s", m, fitWhere(m))
 		}
 		if m := fitMaxZ(ma); m >= fitBoundaryZ {
-			add(NonInvertibleNoise, fitPolyNames(e.Model.Noise.MA), "noise MA has a zero with |z| = %.4g, at or outside the unit circle", m)
+			add(NonInvertibleNoise, fitPolyNames(e.Model.Noise.MA), "noise MA has a zero with |z| = %.4g, %s", m, fitWhere(m))
 		}
 		if z, p, ok := cancel(fitZRoots(ma), fitZRoots(ar)); ok {
 			add(CancellingRoots, append(fitPolyNames(e.Model.Noise.MA), fitPolyNames(e.Model.Noise.AR)...),
@@ -391,4 +407,12 @@ func fitMedian(x []float64) float64 {
 		return 0.5 * (x[h-1] + x[h])
 	}
 	return x[h]
+}
+
+// fitWhere says where a root of modulus m (at least fitBoundaryZ) lies.
+func fitWhere(m float64) string {
+	if m > 1 {
+		return "outside the unit circle"
+	}
+	return "on or near the unit circle (|z| >= 0.999)"
 }

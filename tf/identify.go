@@ -218,6 +218,11 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if err := set.validate(append([]string{}, inputs...), len(data[output])); err != nil {
 		return nil, err
 	}
+	// Faults of the record that may explain a failed stage below.
+	var hints []string
+	for _, w := range screenWarnings(output, data[output]) {
+		hints = append(hints, w.Message)
+	}
 	idfDefault := func(v *int, d int) {
 		if *v == 0 {
 			*v = d
@@ -270,7 +275,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		var err error
 		joint, err = idfJointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
 		if err != nil {
-			return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err}
+			return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err, Hints: hints}
 		}
 	}
 	var ids []*ccf.Identification
@@ -283,11 +288,11 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
 			var nw *prewhiten.NotWhiteError
 			if err != nil && !errors.As(err, &nw) {
-				return nil, &StageError{Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err}
+				return nil, &StageError{Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err, Hints: hints}
 			}
 			w, err = ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
 			if err != nil {
-				return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err}
+				return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err, Hints: hints}
 			}
 		}
 		penalty := math.Log(float64(n)) // BIC-like weight, as the final ranking
@@ -296,7 +301,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		}
 		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Penalty: penalty})
 		if err != nil {
-			return nil, &StageError{Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err}
+			return nil, &StageError{Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err, Hints: hints}
 		}
 		ids = append(ids, id)
 		dp := Poly{}

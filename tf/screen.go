@@ -1,6 +1,7 @@
 package tf
 
 import (
+	"fmt"
 	"math"
 	"slices"
 )
@@ -119,4 +120,21 @@ func screenMedian(v []float64) float64 {
 		return v[m]
 	}
 	return (v[m-1] + v[m]) / 2
+}
+
+// screenWarnings returns the StuckOutput and OutputSpike warnings of the
+// output series y (named name), indexes into the record.
+func screenWarnings(name string, y []float64) []Warning {
+	var ws []Warning
+	if r, bad := screenFlat(y); bad {
+		ws = append(ws, Warning{Kind: StuckOutput, Message: fmt.Sprintf(
+			"output %q holds the value %v for %d samples, %d..%d, far longer than its own rate of repeats makes plausible: a stuck sensor or a held value? Repair or cut that stretch (fit the record before or after it) and refit",
+			name, r.Value, r.Len, r.Start, r.Start+r.Len-1)})
+	}
+	for _, s := range screenSpikes(y) {
+		ws = append(ws, Warning{Kind: OutputSpike, Message: fmt.Sprintf(
+			"output %q sample %d is %v between %v and %v, a jump of %.3g robust SDs each way: a bad reading? Repair the sample and refit",
+			name, s.Index, s.Value, s.Before, s.After, s.SDs)})
+	}
+	return ws
 }
