@@ -488,6 +488,9 @@ func chkFreeNames(ps ...Poly) []string {
 // with e's conditioning; residuals that are not finite are a
 // *SeriesError of kind ErrOverflow.
 func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64, int, error) {
+	if err := condCheck(e, data); err != nil {
+		return nil, 0, err
+	}
 	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, 0, err
@@ -514,4 +517,17 @@ func chkDivergeHint(e *Estimate) string {
 		}
 	}
 	return "the model with these estimates diverges on this data (a pole or noise root on or outside the unit circle, or samples far larger than in the fit)"
+}
+
+// condCheck reports data too short for e's conditioning (residuals are
+// summed from Conditioning.First on) as a *SeriesError of kind ErrShort
+// naming the output, instead of a message about a setting the caller
+// never made.
+func condCheck(e *Estimate, data map[string][]float64) error {
+	y, ok := data[e.Model.Output]
+	if !ok || e.Conditioning.First < len(y) {
+		return nil // a missing output is reported by the fit preparation
+	}
+	return seriesErr(e.Model.Output, errs.ErrShort, len(y), e.Conditioning.First+1,
+		"the estimate's residuals start at index "+strconv.Itoa(e.Conditioning.First)+" (its conditioning: dead times, differencing and noise order), so the record must reach beyond it")
 }

@@ -276,6 +276,9 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	if set.Level == 0 {
 		set.Level = 0.95
 	}
+	if err := condCheck(e, data); err != nil {
+		return nil, err
+	}
 	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, err

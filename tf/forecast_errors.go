@@ -49,8 +49,8 @@ func (im InputModel) validate(name string) error {
 				return bad(p.field+"["+strconv.Itoa(k)+"]", v, "the coefficient must be a finite number (at most 1e150 in magnitude)")
 			}
 		}
-		if len(p.c) > 0 && p.c[0] == 0 {
-			return bad(p.field+"[0]", 0, "the constant term must not be zero (it is 1 for the stored convention)")
+		if len(p.c) > 0 && p.c[0] != 1 {
+			return bad(p.field+"[0]", p.c[0], "the constant term must be 1: polynomials are stored with constant term 1 (divide every coefficient by it)")
 		}
 		if len(p.c) > fcMaxModelDegree+1 {
 			return bad(p.field, float64(len(p.c)-1), "the degree must be at most "+strconv.Itoa(fcMaxModelDegree))

@@ -79,7 +79,9 @@ func TestForecastInputModelErrors(t *testing.T) {
 		{"NaN constant", with(func(m *InputModel) { m.C = math.NaN() }), "C", "the constant c must be a finite number"},
 		{"NaN AR", with(func(m *InputModel) { m.AR[1] = math.NaN() }), "AR[1]", "must be a finite number"},
 		{"huge MA", with(func(m *InputModel) { m.MA = []float64{1, 1e209} }), "MA[1]", "must be a finite number"},
-		{"zero AR constant", with(func(m *InputModel) { m.AR[0] = 0 }), "AR[0]", "constant term must not be zero"},
+		{"zero AR constant", with(func(m *InputModel) { m.AR[0] = 0 }), "AR[0]", "constant term must be 1"},
+		{"AR constant 2", with(func(m *InputModel) { m.AR[0] = 2 }), "AR[0]", "constant term must be 1"},
+		{"MA constant 3", with(func(m *InputModel) { m.MA = []float64{3} }), "MA[0]", "constant term must be 1"},
 		{"non-invertible MA", with(func(m *InputModel) { m.MA = []float64{1, -2} }), "MA", "zero on or outside the unit circle"},
 		{"explosive AR", with(func(m *InputModel) { m.AR = []float64{1, -1.5} }), "AR", "root outside the unit circle"},
 	} {

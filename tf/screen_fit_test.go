@@ -92,3 +92,32 @@ func TestIdentifyNamesTheSpike(t *testing.T) {
 		t.Errorf("error without the spike's hint: %v", err)
 	}
 }
+
+// Forecast and Check on a record shorter than the estimate's
+// conditioning name the output and the reason, not a FitSettings field
+// the caller never set.
+func TestShortRecordForConditioning(t *testing.T) {
+	m := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + AR(1)")
+	n := 400
+	rng := rand.New(rand.NewPCG(3, 4))
+	x := make([]float64, n)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+	}
+	y, err := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + 1 / (1 - 0.4 B) a").Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.1, Seed1: 1, Seed2: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	e, err := tf.Fit(context.Background(), m, map[string][]float64{"x": x, "y": y}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	short := map[string][]float64{"x": x[:3], "y": y[:3]}
+	want := `series "y": 3 samples, at least 4 needed (the estimate's residuals start at index 3`
+	if _, err := e.Forecast(short, 5, nil); err == nil || !strings.Contains(err.Error(), want) || strings.Contains(err.Error(), "FitSettings") {
+		t.Errorf("Forecast on 3 samples: %v", err)
+	}
+	if _, err := tf.Check(e, short, nil); err == nil || !strings.Contains(err.Error(), want) {
+		t.Errorf("Check on 3 samples: %v", err)
+	}
+}
