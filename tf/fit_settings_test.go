@@ -12,7 +12,7 @@ import (
 )
 
 // TestSettingsValidate is the table of every field of FitSettings,
-// SimSettings and StepOptions with a bad value: each gives an *ArgError
+// SimSettings and StepSettings with a bad value: each gives an *ArgError
 // (or a *SampleError for an innovation) naming the field, both from the
 // Validate method and from the call that takes the settings. The rule is
 // the package's: zero means the default, a negative value is an error.
@@ -80,24 +80,24 @@ func TestSettingsValidate(t *testing.T) {
 		t.Errorf("innovation +Inf: %v", err)
 	}
 	step := []struct {
-		o     tf.StepOptions
+		o     tf.StepSettings
 		field string
 		rule  string
 	}{
-		{tf.StepOptions{Band: -0.1}, "Band", "StepOptions.Band must lie in (0, 1)"},
-		{tf.StepOptions{Band: 1}, "Band", "StepOptions.Band must lie in (0, 1)"},
-		{tf.StepOptions{Band: math.NaN()}, "Band", "StepOptions.Band must lie in (0, 1)"},
-		{tf.StepOptions{Interval: -1}, "Interval", "StepOptions.Interval must be finite and >= 0"},
-		{tf.StepOptions{Interval: math.Inf(1)}, "Interval", "StepOptions.Interval must be finite and >= 0"},
-		{tf.StepOptions{Horizon: -1}, "Horizon", "StepOptions.Horizon must lie in 0..10^7"},
-		{tf.StepOptions{Horizon: 1e8}, "Horizon", "StepOptions.Horizon must lie in 0..10^7"},
+		{tf.StepSettings{Band: -0.1}, "Band", "StepSettings.Band must lie in (0, 1)"},
+		{tf.StepSettings{Band: 1}, "Band", "StepSettings.Band must lie in (0, 1)"},
+		{tf.StepSettings{Band: math.NaN()}, "Band", "StepSettings.Band must lie in (0, 1)"},
+		{tf.StepSettings{Interval: -1}, "Interval", "StepSettings.Interval must be finite and >= 0"},
+		{tf.StepSettings{Interval: math.Inf(1)}, "Interval", "StepSettings.Interval must be finite and >= 0"},
+		{tf.StepSettings{Horizon: -1}, "Horizon", "StepSettings.Horizon must lie in 0..10^7"},
+		{tf.StepSettings{Horizon: 1e8}, "Horizon", "StepSettings.Horizon must lie in 0..10^7"},
 	}
 	g, err := tf.NewRational([]float64{1}, []float64{1, -0.5}, 1)
 	if err != nil {
 		t.Fatal(err)
 	}
 	for _, tc := range step {
-		_, errM := g.StepMetrics(tc.o)
+		_, errM := g.StepFigures(tc.o)
 		for _, err := range []error{tc.o.Validate(), errM} {
 			if !errors.As(err, &ae) || ae.Arg != tc.field || !strings.Contains(err.Error(), tc.rule) {
 				t.Errorf("%+v: %v, want *ArgError for %s (%q)", tc.o, err, tc.field, tc.rule)
@@ -111,7 +111,7 @@ func TestSettingsValidate(t *testing.T) {
 	if err := (tf.SimSettings{}).Validate(); err != nil {
 		t.Error(err)
 	}
-	if err := (tf.StepOptions{}).Validate(); err != nil {
+	if err := (tf.StepSettings{}).Validate(); err != nil {
 		t.Error(err)
 	}
 }

@@ -19,26 +19,26 @@ func TestStepMetricsFirstOrder(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	info, err := r.StepMetrics(tf.StepOptions{Interval: 0.5})
+	info, err := r.StepFigures(tf.StepSettings{Interval: 0.5})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(info.Rise.Samples-tau*math.Log(9)) > 0.01 {
-		t.Errorf("rise %v samples, want %v", info.Rise.Samples, tau*math.Log(9))
+	if math.Abs(info.RiseTime.Samples-tau*math.Log(9)) > 0.01 {
+		t.Errorf("rise %v samples, want %v", info.RiseTime.Samples, tau*math.Log(9))
 	}
-	if math.Abs(info.Rise.Time-0.5*info.Rise.Samples) > 1e-12 {
-		t.Errorf("rise time %v, want samples*0.5", info.Rise.Time)
+	if math.Abs(info.RiseTime.Time-0.5*info.RiseTime.Samples) > 1e-12 {
+		t.Errorf("rise time %v, want samples*0.5", info.RiseTime.Time)
 	}
-	if math.Abs(info.Settling.Samples-tau*math.Log(50)) > 0.01 {
-		t.Errorf("settling %v samples, want %v", info.Settling.Samples, tau*math.Log(50))
+	if math.Abs(info.SettleTime.Samples-tau*math.Log(50)) > 0.01 {
+		t.Errorf("settling %v samples, want %v", info.SettleTime.Samples, tau*math.Log(50))
 	}
 	if info.Overshoot != 0 || info.Undershoot != 0 || math.Abs(info.Final-3) > 1e-12 {
 		t.Errorf("overshoot %v undershoot %v final %v", info.Overshoot, info.Undershoot, info.Final)
 	}
 	// A 5 % band settles at tau ln 20.
-	info5, _ := r.StepMetrics(tf.StepOptions{Band: 0.05})
-	if math.Abs(info5.Settling.Samples-tau*math.Log(20)) > 0.01 {
-		t.Errorf("5 %% settling %v, want %v", info5.Settling.Samples, tau*math.Log(20))
+	info5, _ := r.StepFigures(tf.StepSettings{Band: 0.05})
+	if math.Abs(info5.SettleTime.Samples-tau*math.Log(20)) > 0.01 {
+		t.Errorf("5 %% settling %v, want %v", info5.SettleTime.Samples, tau*math.Log(20))
 	}
 	modes, err := r.Modes(0.5)
 	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeReal {
@@ -59,7 +59,7 @@ func TestStepMetricsUnderdamped(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	info, err := r.StepMetrics(tf.StepOptions{})
+	info, err := r.StepFigures(tf.StepSettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -68,14 +68,14 @@ func TestStepMetricsUnderdamped(t *testing.T) {
 		t.Errorf("overshoot %v, want %v", info.Overshoot, wantOS)
 	}
 	wd := wn * math.Sqrt(1-zeta*zeta)
-	if math.Abs(info.PeakTime.Samples-math.Pi/wd) > 1 {
-		t.Errorf("peak time %v, want %v", info.PeakTime.Samples, math.Pi/wd)
+	if math.Abs(info.PeakAt.Samples-math.Pi/wd) > 1 {
+		t.Errorf("peak time %v, want %v", info.PeakAt.Samples, math.Pi/wd)
 	}
 	if math.Abs(info.Peak-(-2)*(1+wantOS)) > 2e-3 {
 		t.Errorf("peak %v for a negative gain, want %v", info.Peak, -2*(1+wantOS))
 	}
-	if info.Band != 0.02 || math.IsNaN(info.Settling.Samples) {
-		t.Errorf("band %v settling %v", info.Band, info.Settling)
+	if info.Band != 0.02 || math.IsNaN(info.SettleTime.Samples) {
+		t.Errorf("band %v settling %v", info.Band, info.SettleTime)
 	}
 	modes, err := r.Modes(2)
 	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeComplex {
@@ -93,7 +93,7 @@ func TestStepMetricsUnderdamped(t *testing.T) {
 // undershoot is 0.5/(10/3) = 0.15 exactly, by hand.
 func TestStepMetricsInverseResponse(t *testing.T) {
 	r := tf.MustRational([]float64{-0.5, 0.9}, []float64{1, -1.3, 0.42}, 0)
-	info, err := r.StepMetrics(tf.StepOptions{})
+	info, err := r.StepFigures(tf.StepSettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -111,7 +111,7 @@ func TestStepMetricsInverseResponse(t *testing.T) {
 func TestBodeLongDeadTime(t *testing.T) {
 	r := tf.MustRational([]float64{1}, []float64{1}, 300)
 	w := []float64{0, 0.1, 0.2, 0.3, 1, 2, 3}
-	mag, ph, err := r.Bode(w)
+	mag, ph, err := r.GainPhase(w)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -175,11 +175,11 @@ func TestModeKinds(t *testing.T) {
 	// Step metrics of the FIR moving average: reaches 1 at sample 3, no
 	// overshoot, settled (within 2 %) from sample 3 on, interpolated
 	// entry between samples 2 (0.75) and 3 (1.0): 2 + (0.25-0.02)/0.25.
-	info, err := fir.StepMetrics(tf.StepOptions{})
+	info, err := fir.StepFigures(tf.StepSettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(info.Settling.Samples-(2+0.23/0.25)) > 1e-12 || info.Overshoot != 0 || info.PeakTime.Samples != 3 {
+	if math.Abs(info.SettleTime.Samples-(2+0.23/0.25)) > 1e-12 || info.Overshoot != 0 || info.PeakAt.Samples != 3 {
 		t.Errorf("FIR step info %+v", info)
 	}
 	// 10 % is already exceeded at sample 0 (0.25, direct feedthrough),
@@ -187,13 +187,13 @@ func TestModeKinds(t *testing.T) {
 	// (0.75) and 3 (1.0).
 	t10 := 0.0
 	t90 := 2 + (0.9-0.75)/0.25
-	if math.Abs(info.Rise.Samples-(t90-t10)) > 1e-12 {
-		t.Errorf("FIR rise %v, want %v", info.Rise.Samples, t90-t10)
+	if math.Abs(info.RiseTime.Samples-(t90-t10)) > 1e-12 {
+		t.Errorf("FIR rise %v, want %v", info.RiseTime.Samples, t90-t10)
 	}
 	// A horizon too short to settle reports NaN settling.
 	slow := tf.MustRational([]float64{0.01}, []float64{1, -0.99}, 0)
-	short, err := slow.StepMetrics(tf.StepOptions{Horizon: 50})
-	if err != nil || !math.IsNaN(short.Settling.Samples) || !math.IsNaN(short.Rise.Samples) {
+	short, err := slow.StepFigures(tf.StepSettings{Horizon: 50})
+	if err != nil || !math.IsNaN(short.SettleTime.Samples) || !math.IsNaN(short.RiseTime.Samples) {
 		t.Errorf("short horizon: %+v, %v", short, err)
 	}
 }

@@ -122,8 +122,18 @@ func (m Model) Equal(o Model) bool {
 // *ModelError naming the first part at fault, or nil. It does not check
 // what depends on the values' meaning (a zero constant term of a
 // denominator, stability); Fit, Model.Simulate and NewSystem report
-// those themselves, and call Validate first.
+// those themselves, and call Validate first (their errors carry their
+// own Op; Validate's carry "tf.Model.Validate").
 func (m Model) Validate() error {
+	if err := m.validate(); err != nil {
+		return withOp("tf.Model.Validate", err)
+	}
+	return nil
+}
+
+// validate is Validate with errors carrying no Op, for the exported
+// functions that check a model and set their own.
+func (m Model) validate() error {
 	if err := modelCheckPoly(m.Diff, "output "+m.Output+" differencing"); err != nil {
 		return err
 	}

@@ -20,13 +20,15 @@ import "strconv"
 // *DelayError for a dead time outside 0..MaxDelay).
 func (in Input) Rational() (Rational, error) {
 	part := "input " + strconv.Quote(in.Series)
+	const op = "tf.Input.Rational"
 	if err := modelCheckPoly(in.Num, part+" numerator"); err != nil {
-		return Rational{}, err
+		return Rational{}, withOp(op, err)
 	}
 	if err := modelCheckPoly(in.Den, part+" denominator"); err != nil {
-		return Rational{}, err
+		return Rational{}, withOp(op, err)
 	}
-	return NewRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
+	r, err := newRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
+	return r, composeErr(op, err)
 }
 
 // DiffCoeffs returns the expanded differencing of the input series,
@@ -71,13 +73,15 @@ func (m Model) NoiseRational() (Rational, error) {
 	if m.Noise == nil {
 		return Rational{}, nil
 	}
+	const op = "tf.Model.NoiseRational"
 	if err := modelCheckPoly(m.Noise.MA, "noise MA"); err != nil {
-		return Rational{}, err
+		return Rational{}, withOp(op, err)
 	}
 	if err := modelCheckPoly(m.Noise.AR, "noise AR"); err != nil {
-		return Rational{}, err
+		return Rational{}, withOp(op, err)
 	}
-	return NewRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
+	r, err := newRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
+	return r, composeErr(op, err)
 }
 
 // Params returns the named coefficients of m, one per name in order of
