@@ -8,7 +8,6 @@ import (
 	"strings"
 
 	"github.com/alecthomas/participle/v2/lexer"
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -372,7 +371,7 @@ func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
 		b.fail(t.Pos, ErrModel, "the noise term is added, not subtracted")
 		return
 	}
-	var n arma.Noise
+	var n tf.Noise
 	if last.Short != nil {
 		n, _ = b.shorthand(last.Short)
 		b.m.Noise = &n
@@ -413,7 +412,7 @@ func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
 //	(1 - theta1 B - ... - thetaq B^q) / (1 - phi1 B - ... - phip B^p) a
 //
 // with free coefficients starting at 0.
-func (b *builder) shorthand(s *gShort) (arma.Noise, bool) {
+func (b *builder) shorthand(s *gShort) (tf.Noise, bool) {
 	want := 1
 	if s.Kind == "ARMA" {
 		want = 2
@@ -421,17 +420,17 @@ func (b *builder) shorthand(s *gShort) (arma.Noise, bool) {
 	if len(s.Args) != want {
 		form := map[string]string{"AR": "AR(p)", "MA": "MA(q)", "ARMA": "ARMA(p, q)"}[s.Kind]
 		b.fail(s.Pos, ErrSyntax, s.Kind+" takes "+map[int]string{1: "one order", 2: "two orders"}[want]+", as in "+form)
-		return arma.Noise{}, false
+		return tf.Noise{}, false
 	}
 	ords := make([]int, want)
 	for i, a := range s.Args {
 		v, ok := b.whole(a, 0, MaxDegree, "the order", "", ErrLimit)
 		if !ok {
-			return arma.Noise{}, false
+			return tf.Noise{}, false
 		}
 		ords[i] = v
 	}
-	var n arma.Noise
+	var n tf.Noise
 	p, q := 0, 0
 	switch s.Kind {
 	case "AR":

@@ -4,7 +4,6 @@ import (
 	"math"
 	"strconv"
 
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -127,7 +126,7 @@ func (c *checker) model(m tf.Model) {
 	c.interval(m.Interval)
 }
 
-func (c *checker) noise(n arma.Noise) {
+func (c *checker) noise(n tf.Noise) {
 	c.poly(n.MA, "noise numerator", "Noise.MA", false)
 	c.poly(n.AR, "noise denominator", "Noise.AR", false)
 }

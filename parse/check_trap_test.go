@@ -7,7 +7,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -25,7 +24,7 @@ func codeModel() tf.Model {
 				Den: one(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: free("d1", 0.7), Power: 1})},
 			{Series: "feed", Num: one(tf.Term{Coef: num(0.5)})},
 		},
-		Noise: &arma.Noise{
+		Noise: &tf.Noise{
 			MA: one(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: free("t1", 0.2), Power: 1}),
 			AR: one(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: free("p1", 0.6), Power: 1}),
 		},
@@ -124,7 +123,7 @@ func TestCheckTraps(t *testing.T) {
 			t.Errorf("%s: got %v, want a *parse.Error", c.name, err)
 			continue
 		}
-		if e.Msg != c.msg || e.Path != c.path || !errors.Is(err, c.kind) {
+		if e.Msg != c.msg || e.Path != c.path || !errors.Is(err, c.kind) || !errors.Is(err, tf.ErrModel) {
 			t.Errorf("%s:\n got %s %v %q\nwant %s %v %q", c.name, e.Path, e.Kind, e.Msg, c.path, c.kind, c.msg)
 		}
 		if want := c.path + ": " + c.msg; e.Error() != want {

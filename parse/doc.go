@@ -83,7 +83,7 @@
 //	(1 - t1 B) / (1 - p1 B) / (1 - P1 B^12) a   a seasonal AR factor
 //
 // Without a noise term the model is noise free (tf.Model.Noise is nil);
-// with a alone it is white noise (a zero arma.Noise). The shorthands
+// with a alone it is white noise (a zero tf.Noise). The shorthands
 //
 //	AR(p)       1 / (1 - phi1 B - ... - phip B^p) a
 //	MA(q)       (1 - theta1 B - ... - thetaq B^q) a

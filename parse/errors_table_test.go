@@ -4,6 +4,8 @@ import (
 	"errors"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/tf"
 )
 
 // errorCases are malformed specs with the exact first error each must
@@ -166,7 +168,7 @@ func TestErrorTable(t *testing.T) {
 			t.Errorf("%q: error %T is not a *parse.Error", c.spec, err)
 			continue
 		}
-		if e.Pos.Line != c.line || e.Pos.Column != c.col || e.Msg != c.msg || !errors.Is(err, c.kind) {
+		if e.Pos.Line != c.line || e.Pos.Column != c.col || e.Msg != c.msg || !errors.Is(err, c.kind) || !errors.Is(err, tf.ErrModel) {
 			t.Errorf("%q:\n got %d:%d %v %q\nwant %d:%d %v %q", c.spec, e.Pos.Line, e.Pos.Column, e.Kind, e.Msg,
 				c.line, c.col, c.kind, c.msg)
 		}

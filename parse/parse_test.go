@@ -10,7 +10,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -72,7 +71,7 @@ func TestModelValues(t *testing.T) {
 				Num:  tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: c("w2", 0, true)})}},
 				Diff: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: num(1), Power: 12})}}},
 		},
-		Noise: &arma.Noise{
+		Noise: &tf.Noise{
 			MA: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: c("theta1", 0, true), Power: 1})}},
 			AR: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: c("phi1", 0, true), Power: 1})}},
 		},
@@ -437,11 +436,11 @@ func randomModel(rng *rand.Rand) tf.Model {
 	}
 	switch rng.IntN(4) {
 	case 1:
-		m.Noise = &arma.Noise{}
+		m.Noise = &tf.Noise{}
 	case 2:
-		m.Noise = &arma.Noise{MA: poly(rng.IntN(3), true, false), AR: poly(rng.IntN(3), true, false)}
+		m.Noise = &tf.Noise{MA: poly(rng.IntN(3), true, false), AR: poly(rng.IntN(3), true, false)}
 	case 3:
-		m.Noise = &arma.Noise{MA: shorthand("theta", rng.IntN(3)), AR: shorthand("phi", rng.IntN(4))}
+		m.Noise = &tf.Noise{MA: shorthand("theta", rng.IntN(3)), AR: shorthand("phi", rng.IntN(4))}
 	}
 	if rng.IntN(2) == 0 {
 		m.Interval = tf.Interval{Value: randValue(rng, false) + 1e-3, Unit: []string{"s", "min", "h", "d"}[rng.IntN(4)]}
@@ -549,5 +548,25 @@ func TestDocExamples(t *testing.T) {
 		if _, err := Model(s); err != nil {
 			t.Errorf("%q: %v", s, err)
 		}
+	}
+}
+
+// TestKindsShared: each kind of spec error is a precise kind under the
+// library's shared tf.ErrModel, and the three stay distinct.
+func TestKindsShared(t *testing.T) {
+	kinds := []error{ErrSyntax, ErrModel, ErrLimit}
+	for i, k := range kinds {
+		if !errors.Is(k, tf.ErrModel) {
+			t.Errorf("%v does not match tf.ErrModel", k)
+		}
+		for j, o := range kinds {
+			if (i == j) != errors.Is(k, o) {
+				t.Errorf("errors.Is(%v, %v) = %v", k, o, i != j)
+			}
+		}
+	}
+	_, err := Model("y = 0.5 x +")
+	if !errors.Is(err, ErrSyntax) || !errors.Is(err, tf.ErrModel) || errors.Is(err, ErrLimit) || errors.Is(err, tf.ErrSetting) {
+		t.Errorf("syntax error %v: kinds wrong", err)
 	}
 }

@@ -17,6 +17,12 @@ type Pos = sym.Pos
 // or estimate), or a named parameter held at Value.
 type Coef = sym.Coef
 
+// Noise is the noise term theta(B)/phi(B) a_t of a model: MA is theta,
+// AR is phi, each with constant term 1 (the zero Noise is white noise).
+// It is arma's type under tf's name, so that a program builds a model
+// from tf's exports alone.
+type Noise = arma.Noise
+
 // Term is one signed summand Coef B^Power of a factor.
 type Term = sym.Term
 
@@ -55,14 +61,14 @@ type Interval struct {
 //	Diff(B) y_t = c + sum_i Num_i(B)/Den_i(B) B^b_i Diff_i(B) x_i,t + theta(B)/phi(B) a_t
 //
 // Output names y; Const is the constant c (nil for none); Noise is the
-// noise term (nil for a noise-free model, the zero arma.Noise for white
+// noise term (nil for a noise-free model, the zero Noise for white
 // noise).
 type Model struct {
 	Output   string
 	Diff     Poly
 	Const    *Coef
 	Inputs   []Input
-	Noise    *arma.Noise
+	Noise    *Noise
 	Interval Interval
 }
 
