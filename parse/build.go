@@ -92,14 +92,18 @@ func (b *builder) every(e *gEvery) {
 		return
 	}
 	if !validUnit(e.Unit.Name) {
-		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Name))+" for the sample interval; use s, min, h or d"+unitHint(e.Unit.Name))
+		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Name))+" for the sample interval; use "+unitList+unitHint(e.Unit.Name))
 		return
 	}
 	b.m.Interval = tf.Interval{Value: v, Unit: e.Unit.Name}
 }
 
-// validUnit reports whether u is a unit of the sample interval.
-func validUnit(u string) bool { return u == "s" || u == "min" || u == "h" || u == "d" }
+// validUnit reports whether u is a unit of the sample interval: a clock
+// unit (s, min, h, d, wk) or a calendar unit (mo, qtr, yr).
+func validUnit(u string) bool { return tf.ValidUnit(u) }
+
+// unitList lists the units for a message.
+const unitList = "s, min, h, d, wk, mo, qtr or yr"
 
 // unitAliases maps other spellings of the units, in lower case, to the
 // unit to write.
@@ -108,7 +112,15 @@ var unitAliases = map[string]string{
 	"m": "min", "mn": "min", "mins": "min", "minute": "min", "minutes": "min",
 	"hr": "h", "hrs": "h", "hour": "h", "hours": "h",
 	"day": "d", "days": "d",
+	"w": "wk", "week": "wk", "weeks": "wk", "wks": "wk",
+	"month": "mo", "months": "mo", "mon": "mo", "mth": "mo", "mths": "mo",
+	"q": "qtr", "quarter": "qtr", "quarters": "qtr", "qtrs": "qtr",
+	"y": "yr", "year": "yr", "years": "yr", "yrs": "yr",
 }
+
+// unitWords names each unit in words, for a hint.
+var unitWords = map[string]string{"s": "seconds", "min": "minutes", "h": "hours", "d": "days",
+	"wk": "weeks", "mo": "months", "qtr": "quarters", "yr": "years"}
 
 // unitHint suggests the unit meant by an unknown unit u: " (for minutes
 // write min)", or "" when none is near.
@@ -118,13 +130,11 @@ func unitHint(u string) string {
 		return " (units are written in lower case: " + l + ")"
 	}
 	if to, ok := unitAliases[l]; ok {
-		return " (for " + map[string]string{"s": "seconds", "min": "minutes", "h": "hours", "d": "days"}[to] + " write " + to + ")"
+		return " (for " + unitWords[to] + " write " + to + ")"
 	}
 	switch l {
 	case "ms", "msec", "millisecond", "milliseconds":
 		return " (for milliseconds write the interval in seconds, as in every 0.1 s)"
-	case "w", "wk", "week", "weeks":
-		return " (for weeks write the interval in days, as in every 7 d)"
 	}
 	return ""
 }

@@ -142,9 +142,9 @@ func (c *checker) interval(iv tf.Interval) {
 	case !(iv.Value > 0):
 		c.fail("Interval.Value", tf.Pos{}, ErrModel, "the sample interval must be a positive number, not "+v)
 	case iv.Unit == "":
-		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "the sample interval "+v+" has no unit; use s, min, h or d")
+		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "the sample interval "+v+" has no unit; use "+unitList)
 	case !validUnit(iv.Unit):
-		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "unknown unit "+strconv.Quote(iv.Unit)+" for the sample interval; use s, min, h or d"+unitHint(iv.Unit))
+		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "unknown unit "+strconv.Quote(iv.Unit)+" for the sample interval; use "+unitList+unitHint(iv.Unit))
 	}
 }
 

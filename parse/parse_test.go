@@ -570,3 +570,51 @@ func TestKindsShared(t *testing.T) {
 		t.Errorf("syntax error %v: kinds wrong", err)
 	}
 }
+
+// TestCalendarUnits: every accepts the week and the calendar units, the
+// model prints them back, Check accepts them, and other spellings are
+// refused with the unit to write.
+func TestCalendarUnits(t *testing.T) {
+	for _, c := range []struct {
+		spec     string
+		unit     string
+		seconds  float64 // 0: no fixed length
+		months   float64
+		calendar bool
+	}{
+		{"sales = w0 B price + a every 1 mo", "mo", 0, 1, true},
+		{"sales = w0 B price + a every 1 qtr", "qtr", 0, 3, true},
+		{"sales = w0 B price + a every 2 yr", "yr", 0, 24, true},
+		{"sales = w0 B price + a every 2 wk", "wk", 2 * 604800, 0, false},
+	} {
+		m, err := Model(c.spec)
+		if err != nil {
+			t.Fatalf("%s: %v", c.spec, err)
+		}
+		if m.Interval.Unit != c.unit || m.Interval.Calendar() != c.calendar {
+			t.Errorf("%s: interval %+v, calendar %v", c.spec, m.Interval, m.Interval.Calendar())
+		}
+		sec, ok := m.Interval.Seconds()
+		if ok != (c.seconds > 0) || sec != c.seconds {
+			t.Errorf("%s: Seconds %v, %v; want %v", c.spec, sec, ok, c.seconds)
+		}
+		mo, ok := m.Interval.Months()
+		if ok != c.calendar || mo != c.months {
+			t.Errorf("%s: Months %v, %v; want %v", c.spec, mo, ok, c.months)
+		}
+		back, err := Model(m.String())
+		if err != nil || !back.Equal(m) || !strings.HasSuffix(m.String(), "every "+strings.Fields(c.spec)[len(strings.Fields(c.spec))-2]+" "+c.unit) {
+			t.Errorf("%s: round trip %q: %v", c.spec, m.String(), err)
+		}
+		if err := Check(m); err != nil {
+			t.Errorf("%s: Check: %v", c.spec, err)
+		}
+	}
+	for spelling, want := range map[string]string{"month": "(for months write mo)", "quarters": "(for quarters write qtr)",
+		"years": "(for years write yr)", "week": "(for weeks write wk)"} {
+		_, err := Model("sales = w0 price every 1 " + spelling)
+		if !errors.Is(err, ErrModel) || !strings.Contains(err.Error(), `unknown unit "`+spelling+`" for the sample interval; use s, min, h, d, wk, mo, qtr or yr `+want) {
+			t.Errorf("every 1 %s: %v", spelling, err)
+		}
+	}
+}

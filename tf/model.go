@@ -48,9 +48,18 @@ type Input struct {
 	Pos    Pos
 }
 
-// Interval is the sample interval of a model: Value in Unit, one of "s",
-// "min", "h", "d". The zero Interval means the interval is not given and
-// times are reported in samples only.
+// Interval is the sample interval of a model: Value in Unit, one of the
+// clock units "s", "min", "h", "d", "wk" (7 days) or the calendar units
+// "mo" (a month), "qtr" (3 months), "yr" (12 months); see ValidUnit. The
+// zero Interval means the interval is not given and times are reported
+// in samples only.
+//
+// Time figures (dead times, time constants, rise and settling times) are
+// reported in the interval's own unit: samples times Value, in Unit. For
+// a clock unit they convert to seconds with Seconds. A calendar unit is
+// not a fixed number of seconds (a month has 28 to 31 days), so for it
+// Seconds returns ok = false and figures stay in the calendar unit
+// (Months converts between mo, qtr and yr).
 type Interval struct {
 	Value float64
 	Unit  string

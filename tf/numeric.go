@@ -113,8 +113,10 @@ func (m Model) Params() []Coef {
 }
 
 // Seconds returns the sample interval in seconds (units s = 1 s, min =
-// 60 s, h = 3600 s, d = 86400 s) and ok = true, or 0 and false for the
-// zero Interval or an unknown unit.
+// 60 s, h = 3600 s, d = 86400 s, wk = 604800 s) and ok = true, or 0 and
+// false for the zero Interval, an unknown unit and a calendar unit (mo,
+// qtr, yr: a month is 28 to 31 days, not a fixed number of seconds; see
+// Interval).
 func (iv Interval) Seconds() (float64, bool) {
 	var f float64
 	switch iv.Unit {
@@ -126,8 +128,43 @@ func (iv Interval) Seconds() (float64, bool) {
 		f = 3600
 	case "d":
 		f = 86400
+	case "wk":
+		f = 7 * 86400
 	default:
 		return 0, false
 	}
 	return iv.Value * f, true
+}
+
+// Months returns the sample interval in months for a calendar unit (mo =
+// 1, qtr = 3, yr = 12) and ok = true, or 0 and false for a clock unit,
+// an unknown unit or the zero Interval.
+func (iv Interval) Months() (float64, bool) {
+	var f float64
+	switch iv.Unit {
+	case "mo":
+		f = 1
+	case "qtr":
+		f = 3
+	case "yr":
+		f = 12
+	default:
+		return 0, false
+	}
+	return iv.Value * f, true
+}
+
+// Calendar reports whether the unit is a calendar unit (mo, qtr, yr),
+// whose length in seconds varies.
+func (iv Interval) Calendar() bool { _, ok := iv.Months(); return ok }
+
+// ValidUnit reports whether u is a unit of a sample interval: one of the
+// clock units "s", "min", "h", "d", "wk" or the calendar units "mo",
+// "qtr", "yr".
+func ValidUnit(u string) bool {
+	switch u {
+	case "s", "min", "h", "d", "wk", "mo", "qtr", "yr":
+		return true
+	}
+	return false
 }
