@@ -130,3 +130,23 @@ func TestBurnInStationary(t *testing.T) {
 		t.Errorf("no burn-in: variance of y_0 %.3g, want 1", v)
 	}
 }
+
+// TestModelValidateOp: Model.Validate's errors name it as Op when the
+// caller called it, and name the caller's function otherwise.
+func TestModelValidateOp(t *testing.T) {
+	m := parse.MustModel("y = w0 x where w0 ~ 1")
+	m.Inputs[0].Delay = -1
+	want := `input "x" dead time: -1 samples is outside 0..10000 (a dead time counts whole samples of delay, B^b with b >= 0)`
+	for op, err := range map[string]error{
+		"tf.Model.Validate": m.Validate(),
+		"tf.NewSystem":      errOnly(tf.NewSystem(m, nil)),
+		"tf.Model.Simulate": errOnly(m.Simulate(map[string][]float64{"x": {1}}, nil)),
+	} {
+		var me *tf.ModelError
+		if !errors.As(err, &me) || !errors.Is(err, tf.ErrModel) || err.Error() != op+": "+want {
+			t.Errorf("got %v\nwant %s: %s", err, op, want)
+		}
+	}
+}
+
+func errOnly[T any](_ T, err error) error { return err }

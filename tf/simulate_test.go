@@ -378,7 +378,7 @@ func TestSimulateErrors(t *testing.T) {
 	nan := m.Clone()
 	nan.Inputs[0].Num.Factors[0].Terms[0].Coef.Value = math.NaN()
 
-	if _, err := nan.Simulate(map[string][]float64{"x": ok, "z": ok}, nil); !errors.As(err, &me) || me.Part != `input "x" numerator, factor 1` ||
+	if _, err := nan.Simulate(map[string][]float64{"x": ok, "z": ok}, nil); !errors.As(err, &me) || me.Part != `input "x" numerator, factor 1` || me.Op != "tf.Model.Simulate" ||
 		!strings.Contains(err.Error(), "is NaN, not finite") {
 		t.Errorf("NaN coefficient: %v", err)
 	}
