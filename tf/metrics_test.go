@@ -7,13 +7,13 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// TestStepMetricsFirstOrder: a first-order lag of time constant tau has
+// TestStepFiguresFirstOrder: a first-order lag of time constant tau has
 // the 10-90 % rise time tau ln 9 and the 2 % settling time tau ln 50
 // (common practice: solve 1 - e^{-t/tau} = level). The discretised lag
 // reproduces the continuous response at the samples; linear interpolation
 // between samples shifts a crossing by about 1/(8 tau) samples, hence the
 // tolerance of 0.01 samples for tau = 20.
-func TestStepMetricsFirstOrder(t *testing.T) {
+func TestStepFiguresFirstOrder(t *testing.T) {
 	const tau = 20.0
 	r, err := tf.FOPDT{Gain: 3, TimeConstant: tau}.Discretize(1)
 	if err != nil {
@@ -35,10 +35,19 @@ func TestStepMetricsFirstOrder(t *testing.T) {
 	if info.Overshoot != 0 || info.Undershoot != 0 || math.Abs(info.Final-3) > 1e-12 {
 		t.Errorf("overshoot %v undershoot %v final %v", info.Overshoot, info.Undershoot, info.Final)
 	}
+	if info.RiseFrom != 0.1 || info.RiseTo != 0.9 || info.Band != 0.02 {
+		t.Errorf("levels reported %v, %v, %v; want the defaults 0.1, 0.9, 0.02", info.RiseFrom, info.RiseTo, info.Band)
+	}
 	// A 5 % band settles at tau ln 20.
 	info5, _ := r.StepFigures(tf.StepSettings{Band: 0.05})
 	if math.Abs(info5.SettleTime.Samples-tau*math.Log(20)) > 0.01 {
 		t.Errorf("5 %% settling %v, want %v", info5.SettleTime.Samples, tau*math.Log(20))
+	}
+	// Rise levels 5 % to 95 %: tau (ln 20 - ln(20/19)) = tau ln 19 (the
+	// same closed form), reported with the figures.
+	wide, _ := r.StepFigures(tf.StepSettings{RiseFrom: 0.05, RiseTo: 0.95})
+	if math.Abs(wide.RiseTime.Samples-tau*math.Log(19)) > 0.01 || wide.RiseFrom != 0.05 || wide.RiseTo != 0.95 {
+		t.Errorf("5-95 %% rise %v samples (levels %v, %v), want %v", wide.RiseTime.Samples, wide.RiseFrom, wide.RiseTo, tau*math.Log(19))
 	}
 	modes, err := r.Modes(0.5)
 	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeReal {
@@ -49,11 +58,11 @@ func TestStepMetricsFirstOrder(t *testing.T) {
 	}
 }
 
-// TestStepMetricsUnderdamped: the standard second-order lag overshoots by
+// TestStepFiguresUnderdamped: the standard second-order lag overshoots by
 // exp(-pi zeta / sqrt(1 - zeta^2)) at the peak time pi/wd (common
 // practice). Sampling 300 times per period keeps the sampled peak within
 // 1e-3 of the continuous one and its time within a sample.
-func TestStepMetricsUnderdamped(t *testing.T) {
+func TestStepFiguresUnderdamped(t *testing.T) {
 	const zeta, wn = 0.3, 0.02 // wn in rad/sample (T = 1)
 	r, err := tf.SecondOrder{Gain: -2, NaturalFrequency: wn, Damping: zeta}.Discretize(1)
 	if err != nil {
@@ -88,10 +97,10 @@ func TestStepMetricsUnderdamped(t *testing.T) {
 	}
 }
 
-// TestStepMetricsInverseResponse: omega = -0.5 + 0.9 B over
+// TestStepFiguresInverseResponse: omega = -0.5 + 0.9 B over
 // 1 - 1.3 B + 0.42 B^2 starts at -0.5 while its gain is 0.4/0.12, so the
 // undershoot is 0.5/(10/3) = 0.15 exactly, by hand.
-func TestStepMetricsInverseResponse(t *testing.T) {
+func TestStepFiguresInverseResponse(t *testing.T) {
 	r := tf.MustRational([]float64{-0.5, 0.9}, []float64{1, -1.3, 0.42}, 0)
 	info, err := r.StepFigures(tf.StepSettings{})
 	if err != nil {
@@ -105,10 +114,10 @@ func TestStepMetricsInverseResponse(t *testing.T) {
 	}
 }
 
-// TestBodeLongDeadTime: B^300 has unit magnitude and phase -300 w exactly
+// TestGainPhaseLongDeadTime: B^300 has unit magnitude and phase -300 w exactly
 // (by hand); on a grid of spacing 0.1 rad/sample a wrapped phase would
 // jump, the exact dead-time term does not.
-func TestBodeLongDeadTime(t *testing.T) {
+func TestGainPhaseLongDeadTime(t *testing.T) {
 	r := tf.MustRational([]float64{1}, []float64{1}, 300)
 	w := []float64{0, 0.1, 0.2, 0.3, 1, 2, 3}
 	mag, ph, err := r.GainPhase(w)
