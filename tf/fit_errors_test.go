@@ -74,7 +74,7 @@ func TestFitBadInput(t *testing.T) {
 		d[tc.series][tc.index] = tc.v
 		_, err := Fit(context.Background(), fitMCModel(), d, nil)
 		var se *SampleError
-		if !errors.As(err, &se) || se.Series != tc.series || se.Index != tc.index || !errors.Is(err, ErrNotFinite) {
+		if !errors.As(err, &se) || se.Series != tc.series || se.Index != tc.index || !errors.Is(err, ErrSample) {
 			t.Errorf("%v at %s[%d]: got %v", tc.v, tc.series, tc.index, err)
 		}
 	}

@@ -76,7 +76,7 @@ func TestFitTraps(t *testing.T) {
 			[]string{`"x"`, "every sample is 40", "never moves", "leave it out of the model"}},
 		{"data scaled by 1e-170", m, map[string][]float64{"y": tiny(y), "x": tiny(x)}, isFit(tf.ZeroResiduals, "y"),
 			[]string{"residual sum of squares is zero", `"y"`, "underflow", "rescale the series"}},
-		{"all-NaN input", m, map[string][]float64{"y": y, "x": nan}, isSample("x", 0), []string{"x sample 0 = NaN"}},
+		{"all-NaN input", m, map[string][]float64{"y": y, "x": nan}, isSample("x", 0), []string{`series "x" sample 0 is NaN`}},
 		{"factor power 0", exp0, map[string][]float64{"y": y, "x": x}, isModel(`input "x" denominator, factor 1`),
 			[]string{"power 0 is outside 1..64"}},
 		{"factor power -1", expNeg, map[string][]float64{"y": y, "x": x}, isModel(`input "x" numerator, factor 1`),
