@@ -19,16 +19,20 @@ import "strconv"
 // NaN or infinite value or a denominator whose constant term is zero;
 // *DelayError for a dead time outside 0..MaxDelay).
 func (in Input) Rational() (Rational, error) {
+	r, err := in.rational()
+	return r, composeErr("tf.Input.Rational", err)
+}
+
+// rational is Rational with errors carrying no Op.
+func (in Input) rational() (Rational, error) {
 	part := "input " + strconv.Quote(in.Series)
-	const op = "tf.Input.Rational"
 	if err := modelCheckPoly(in.Num, part+" numerator"); err != nil {
-		return Rational{}, withOp(op, err)
+		return Rational{}, err
 	}
 	if err := modelCheckPoly(in.Den, part+" denominator"); err != nil {
-		return Rational{}, withOp(op, err)
+		return Rational{}, err
 	}
-	r, err := newRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
-	return r, composeErr(op, err)
+	return newRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
 }
 
 // DiffCoeffs returns the expanded differencing of the input series,
@@ -70,18 +74,22 @@ func (m Model) NoiseCoeffs() (ma, ar []float64, ok bool) {
 // nil) gives the zero Rational. Errors: a *ModelError for a polynomial
 // that Model.Validate refuses, and NewRational's.
 func (m Model) NoiseRational() (Rational, error) {
+	r, err := m.noiseRational()
+	return r, composeErr("tf.Model.NoiseRational", err)
+}
+
+// noiseRational is NoiseRational with errors carrying no Op.
+func (m Model) noiseRational() (Rational, error) {
 	if m.Noise == nil {
 		return Rational{}, nil
 	}
-	const op = "tf.Model.NoiseRational"
 	if err := modelCheckPoly(m.Noise.MA, "noise MA"); err != nil {
-		return Rational{}, withOp(op, err)
+		return Rational{}, err
 	}
 	if err := modelCheckPoly(m.Noise.AR, "noise AR"); err != nil {
-		return Rational{}, withOp(op, err)
+		return Rational{}, err
 	}
-	r, err := newRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
-	return r, composeErr(op, err)
+	return newRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
 }
 
 // Params returns the named coefficients of m, one per name in order of

@@ -215,15 +215,15 @@ func newSystem(op string, m Model, s *SimSettings) (*System, error) {
 	for i, in := range m.Inputs {
 		part := "input " + in.Series
 		sys.names[i] = in.Series
-		r, err := in.Rational()
+		r, err := in.rational()
 		if err != nil {
-			return nil, &ModelError{Op: op, Part: part, Problem: "invalid transfer function: " + errText(err), Err: err}
+			return nil, &ModelError{Op: op, Part: part, Problem: "invalid transfer function: " + err.Error(), Err: err}
 		}
 		sys.path[i] = NewPlant(r)
 		if !in.Diff.IsOne() {
 			d, err := newRational(in.DiffCoeffs(), []float64{1}, 0)
 			if err != nil {
-				return nil, &ModelError{Op: op, Part: part, Problem: "invalid differencing: " + errText(err), Err: err}
+				return nil, &ModelError{Op: op, Part: part, Problem: "invalid differencing: " + err.Error(), Err: err}
 			}
 			sys.diff[i] = NewPlant(d)
 		}
@@ -231,14 +231,14 @@ func newSystem(op string, m Model, s *SimSettings) (*System, error) {
 	if !m.Diff.IsOne() {
 		d, err := newRational([]float64{1}, m.DiffCoeffs(), 0)
 		if err != nil {
-			return nil, &ModelError{Op: op, Part: "output " + m.Output, Problem: "invalid differencing: " + errText(err), Err: err}
+			return nil, &ModelError{Op: op, Part: "output " + m.Output, Problem: "invalid differencing: " + err.Error(), Err: err}
 		}
 		sys.integ = NewPlant(d)
 	}
 	if m.Noise != nil {
-		r, err := m.NoiseRational()
+		r, err := m.noiseRational()
 		if err != nil {
-			return nil, &ModelError{Op: op, Part: "noise", Problem: "invalid noise model: " + errText(err), Err: err}
+			return nil, &ModelError{Op: op, Part: "noise", Problem: "invalid noise model: " + err.Error(), Err: err}
 		}
 		sys.noise = NewPlant(r)
 		switch {
@@ -463,24 +463,4 @@ func (s *System) Clone() *System {
 	c.src = &src
 	c.rng = rand.New(c.src)
 	return &c
-}
-
-// errText returns err's message without the "op: " prefix its Op adds,
-// for a message that embeds it under another Op.
-func errText(err error) string {
-	type opper interface{ Error() string }
-	msg := err.Error()
-	var op string
-	switch e := err.(type) {
-	case *CoefError:
-		op = e.Op
-	case *DelayError:
-		op = e.Op
-	case *ModelError:
-		op = e.Op
-	}
-	if op != "" {
-		msg = strings.TrimPrefix(msg, op+": ")
-	}
-	return msg
 }
