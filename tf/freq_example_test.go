@@ -45,7 +45,7 @@ func ExampleRational_Modes() {
 		}
 	}
 	info, _ := both.StepFigures(tf.StepSettings{Interval: 2})
-	fmt.Printf("rise %.0f s, settling (2 %%) %.0f s, overshoot %.1f %%\n", info.RiseTime.Time, info.SettleTime.Time, 100*info.Overshoot)
+	fmt.Printf("rise %.0f s, settling (2 %%) %.0f s, overshoot %.1f %%\n", info.Rise.Time, info.Settle.Time, 100*info.Overshoot)
 	// Output:
 	// oscillation: wn 0.100 rad/s, damping 0.40
 	// lag: tau 15.0 samples = 30.0 s

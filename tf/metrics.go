@@ -85,15 +85,15 @@ func (o StepSettings) rise() (from, to float64) {
 type StepFigures struct {
 	// Final is the final value, the steady-state gain.
 	Final float64
-	// RiseTime is the time from the first crossing of RiseFrom*Final to
+	// Rise is the time from the first crossing of RiseFrom*Final to
 	// the first crossing of RiseTo*Final; NaN when RiseTo is not reached
 	// within the horizon. A level already reached at sample 0 (direct
 	// feedthrough) counts as crossed at 0.
-	RiseTime Span
-	// SettleTime is the time after which the response stays within
+	Rise Span
+	// Settle is the time after which the response stays within
 	// Band*|Final| of Final until the end of the horizon; NaN when the
 	// last sample of the horizon is still outside the band.
-	SettleTime Span
+	Settle Span
 	// Peak is the extreme value in the direction of Final (the maximum for
 	// a positive gain), PeakAt the sample where it is first reached.
 	Peak   float64
@@ -167,7 +167,7 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 		}
 		return math.NaN()
 	}
-	info.RiseTime = span(cross(to) - cross(from))
+	info.Rise = span(cross(to) - cross(from))
 	peak, kPeak, under := 0.0, 0, 0.0
 	for k, v := range y {
 		u := v / g
@@ -190,12 +190,12 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 	}
 	switch {
 	case last < 0:
-		info.SettleTime = span(0)
+		info.Settle = span(0)
 	case last == len(y)-1:
-		info.SettleTime = span(math.NaN())
+		info.Settle = span(math.NaN())
 	default:
 		e0, e1 := math.Abs(y[last]/g-1), math.Abs(y[last+1]/g-1)
-		info.SettleTime = span(float64(last) + (e0-band)/(e0-e1))
+		info.Settle = span(float64(last) + (e0-band)/(e0-e1))
 	}
 	return info, nil
 }

@@ -23,14 +23,14 @@ func TestStepFiguresFirstOrder(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(info.RiseTime.Samples-tau*math.Log(9)) > 0.01 {
-		t.Errorf("rise %v samples, want %v", info.RiseTime.Samples, tau*math.Log(9))
+	if math.Abs(info.Rise.Samples-tau*math.Log(9)) > 0.01 {
+		t.Errorf("rise %v samples, want %v", info.Rise.Samples, tau*math.Log(9))
 	}
-	if math.Abs(info.RiseTime.Time-0.5*info.RiseTime.Samples) > 1e-12 {
-		t.Errorf("rise time %v, want samples*0.5", info.RiseTime.Time)
+	if math.Abs(info.Rise.Time-0.5*info.Rise.Samples) > 1e-12 {
+		t.Errorf("rise time %v, want samples*0.5", info.Rise.Time)
 	}
-	if math.Abs(info.SettleTime.Samples-tau*math.Log(50)) > 0.01 {
-		t.Errorf("settling %v samples, want %v", info.SettleTime.Samples, tau*math.Log(50))
+	if math.Abs(info.Settle.Samples-tau*math.Log(50)) > 0.01 {
+		t.Errorf("settling %v samples, want %v", info.Settle.Samples, tau*math.Log(50))
 	}
 	if info.Overshoot != 0 || info.Undershoot != 0 || math.Abs(info.Final-3) > 1e-12 {
 		t.Errorf("overshoot %v undershoot %v final %v", info.Overshoot, info.Undershoot, info.Final)
@@ -40,14 +40,14 @@ func TestStepFiguresFirstOrder(t *testing.T) {
 	}
 	// A 5 % band settles at tau ln 20.
 	info5, _ := r.StepFigures(tf.StepSettings{Band: 0.05})
-	if math.Abs(info5.SettleTime.Samples-tau*math.Log(20)) > 0.01 {
-		t.Errorf("5 %% settling %v, want %v", info5.SettleTime.Samples, tau*math.Log(20))
+	if math.Abs(info5.Settle.Samples-tau*math.Log(20)) > 0.01 {
+		t.Errorf("5 %% settling %v, want %v", info5.Settle.Samples, tau*math.Log(20))
 	}
 	// Rise levels 5 % to 95 %: tau (ln 20 - ln(20/19)) = tau ln 19 (the
 	// same closed form), reported with the figures.
 	wide, _ := r.StepFigures(tf.StepSettings{RiseFrom: 0.05, RiseTo: 0.95})
-	if math.Abs(wide.RiseTime.Samples-tau*math.Log(19)) > 0.01 || wide.RiseFrom != 0.05 || wide.RiseTo != 0.95 {
-		t.Errorf("5-95 %% rise %v samples (levels %v, %v), want %v", wide.RiseTime.Samples, wide.RiseFrom, wide.RiseTo, tau*math.Log(19))
+	if math.Abs(wide.Rise.Samples-tau*math.Log(19)) > 0.01 || wide.RiseFrom != 0.05 || wide.RiseTo != 0.95 {
+		t.Errorf("5-95 %% rise %v samples (levels %v, %v), want %v", wide.Rise.Samples, wide.RiseFrom, wide.RiseTo, tau*math.Log(19))
 	}
 	modes, err := r.Modes(0.5)
 	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeReal {
@@ -83,8 +83,8 @@ func TestStepFiguresUnderdamped(t *testing.T) {
 	if math.Abs(info.Peak-(-2)*(1+wantOS)) > 2e-3 {
 		t.Errorf("peak %v for a negative gain, want %v", info.Peak, -2*(1+wantOS))
 	}
-	if info.Band != 0.02 || math.IsNaN(info.SettleTime.Samples) {
-		t.Errorf("band %v settling %v", info.Band, info.SettleTime)
+	if info.Band != 0.02 || math.IsNaN(info.Settle.Samples) {
+		t.Errorf("band %v settling %v", info.Band, info.Settle)
 	}
 	modes, err := r.Modes(2)
 	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeComplex {
@@ -188,7 +188,7 @@ func TestModeKinds(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(info.SettleTime.Samples-(2+0.23/0.25)) > 1e-12 || info.Overshoot != 0 || info.PeakAt.Samples != 3 {
+	if math.Abs(info.Settle.Samples-(2+0.23/0.25)) > 1e-12 || info.Overshoot != 0 || info.PeakAt.Samples != 3 {
 		t.Errorf("FIR step info %+v", info)
 	}
 	// 10 % is already exceeded at sample 0 (0.25, direct feedthrough),
@@ -196,13 +196,13 @@ func TestModeKinds(t *testing.T) {
 	// (0.75) and 3 (1.0).
 	t10 := 0.0
 	t90 := 2 + (0.9-0.75)/0.25
-	if math.Abs(info.RiseTime.Samples-(t90-t10)) > 1e-12 {
-		t.Errorf("FIR rise %v, want %v", info.RiseTime.Samples, t90-t10)
+	if math.Abs(info.Rise.Samples-(t90-t10)) > 1e-12 {
+		t.Errorf("FIR rise %v, want %v", info.Rise.Samples, t90-t10)
 	}
 	// A horizon too short to settle reports NaN settling.
 	slow := tf.MustRational([]float64{0.01}, []float64{1, -0.99}, 0)
 	short, err := slow.StepFigures(tf.StepSettings{Horizon: 50})
-	if err != nil || !math.IsNaN(short.SettleTime.Samples) || !math.IsNaN(short.RiseTime.Samples) {
+	if err != nil || !math.IsNaN(short.Settle.Samples) || !math.IsNaN(short.Rise.Samples) {
 		t.Errorf("short horizon: %+v, %v", short, err)
 	}
 }

@@ -62,7 +62,7 @@ func ExampleRational_CloseLoop() {
 	}
 	info, _ := closed.StepFigures(tf.StepSettings{Interval: 10}) // 10 s samples
 	fmt.Printf("stable %v, final %.3f, overshoot %.1f %%, settling %.0f s\n",
-		closed.Stable(), info.Final, 100*info.Overshoot, info.SettleTime.Time)
+		closed.Stable(), info.Final, 100*info.Overshoot, info.Settle.Time)
 	// Output:
 	// stable true, final 1.000, overshoot 8.4 %, settling 82 s
 }

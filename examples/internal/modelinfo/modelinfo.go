@@ -127,7 +127,7 @@ func Write(w io.Writer, m tf.Model) error {
 		}
 		s := p.Step
 		fmt.Fprintf(w, "    step response    rise (10-90 %%) %s, settling (%g %%) %s, overshoot %.1f %%\n",
-			span(s.RiseTime.Samples, s.RiseTime.Time, unit), 100*s.Band, span(s.SettleTime.Samples, s.SettleTime.Time, unit), 100*s.Overshoot)
+			span(s.Rise.Samples, s.Rise.Time, unit), 100*s.Band, span(s.Settle.Samples, s.Settle.Time, unit), 100*s.Overshoot)
 	}
 	return nil
 }

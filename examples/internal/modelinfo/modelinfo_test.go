@@ -34,8 +34,8 @@ func TestPathsOfTheGreenhouse(t *testing.T) {
 		// linearly between samples, which on this convex curve is off by
 		// less than 0.1 sample.
 		st := float64(want.Delay) - 1 + want.TimeConstant()*math.Log(50)
-		if math.Abs(p.Step.SettleTime.Time-st) > 0.1 {
-			t.Errorf("%s settling %v min, want %.1f", p.Input, p.Step.SettleTime.Time, st)
+		if math.Abs(p.Step.Settle.Time-st) > 0.1 {
+			t.Errorf("%s settling %v min, want %.1f", p.Input, p.Step.Settle.Time, st)
 		}
 	}
 }
