@@ -13,8 +13,9 @@ import (
 // nil pointer) gives a noise-free run of a record that starts settled
 // (Model.Simulate) or a system at rest (NewSystem); see FromRest.
 //
-// Rule for the numbers: zero means the default and a negative value is
-// an error (Validate names the field).
+// Rule for the numbers (the library's settings rule): zero means the
+// default and a negative value is an error (Validate names the field),
+// except BurnIn, whose negative value means none, as its doc says.
 type SimSettings struct {
 	// Seed1 and Seed2 seed the PCG source (math/rand/v2) of the Gaussian
 	// innovations a_t; equal seeds give equal series. Every value is
