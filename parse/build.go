@@ -8,7 +8,6 @@ import (
 	"strings"
 
 	"github.com/alecthomas/participle/v2/lexer"
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -93,14 +92,18 @@ func (b *builder) every(e *gEvery) {
 		return
 	}
 	if !validUnit(e.Unit.Name) {
-		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Name))+" for the sample interval; use s, min, h or d"+unitHint(e.Unit.Name))
+		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Name))+" for the sample interval; use "+unitList+unitHint(e.Unit.Name))
 		return
 	}
 	b.m.Interval = tf.Interval{Value: v, Unit: e.Unit.Name}
 }
 
-// validUnit reports whether u is a unit of the sample interval.
-func validUnit(u string) bool { return u == "s" || u == "min" || u == "h" || u == "d" }
+// validUnit reports whether u is a unit of the sample interval: a clock
+// unit (s, min, h, d, wk) or a calendar unit (mo, qtr, yr).
+func validUnit(u string) bool { return tf.ValidUnit(u) }
+
+// unitList lists the units for a message.
+const unitList = "s, min, h, d, wk, mo, qtr or yr"
 
 // unitAliases maps other spellings of the units, in lower case, to the
 // unit to write.
@@ -109,7 +112,15 @@ var unitAliases = map[string]string{
 	"m": "min", "mn": "min", "mins": "min", "minute": "min", "minutes": "min",
 	"hr": "h", "hrs": "h", "hour": "h", "hours": "h",
 	"day": "d", "days": "d",
+	"w": "wk", "week": "wk", "weeks": "wk", "wks": "wk",
+	"month": "mo", "months": "mo", "mon": "mo", "mth": "mo", "mths": "mo",
+	"q": "qtr", "quarter": "qtr", "quarters": "qtr", "qtrs": "qtr",
+	"y": "yr", "year": "yr", "years": "yr", "yrs": "yr",
 }
+
+// unitWords names each unit in words, for a hint.
+var unitWords = map[string]string{"s": "seconds", "min": "minutes", "h": "hours", "d": "days",
+	"wk": "weeks", "mo": "months", "qtr": "quarters", "yr": "years"}
 
 // unitHint suggests the unit meant by an unknown unit u: " (for minutes
 // write min)", or "" when none is near.
@@ -119,13 +130,11 @@ func unitHint(u string) string {
 		return " (units are written in lower case: " + l + ")"
 	}
 	if to, ok := unitAliases[l]; ok {
-		return " (for " + map[string]string{"s": "seconds", "min": "minutes", "h": "hours", "d": "days"}[to] + " write " + to + ")"
+		return " (for " + unitWords[to] + " write " + to + ")"
 	}
 	switch l {
 	case "ms", "msec", "millisecond", "milliseconds":
 		return " (for milliseconds write the interval in seconds, as in every 0.1 s)"
-	case "w", "wk", "week", "weeks":
-		return " (for weeks write the interval in days, as in every 7 d)"
 	}
 	return ""
 }
@@ -372,7 +381,7 @@ func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
 		b.fail(t.Pos, ErrModel, "the noise term is added, not subtracted")
 		return
 	}
-	var n arma.Noise
+	var n tf.Noise
 	if last.Short != nil {
 		n, _ = b.shorthand(last.Short)
 		b.m.Noise = &n
@@ -413,7 +422,7 @@ func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
 //	(1 - theta1 B - ... - thetaq B^q) / (1 - phi1 B - ... - phip B^p) a
 //
 // with free coefficients starting at 0.
-func (b *builder) shorthand(s *gShort) (arma.Noise, bool) {
+func (b *builder) shorthand(s *gShort) (tf.Noise, bool) {
 	want := 1
 	if s.Kind == "ARMA" {
 		want = 2
@@ -421,17 +430,17 @@ func (b *builder) shorthand(s *gShort) (arma.Noise, bool) {
 	if len(s.Args) != want {
 		form := map[string]string{"AR": "AR(p)", "MA": "MA(q)", "ARMA": "ARMA(p, q)"}[s.Kind]
 		b.fail(s.Pos, ErrSyntax, s.Kind+" takes "+map[int]string{1: "one order", 2: "two orders"}[want]+", as in "+form)
-		return arma.Noise{}, false
+		return tf.Noise{}, false
 	}
 	ords := make([]int, want)
 	for i, a := range s.Args {
 		v, ok := b.whole(a, 0, MaxDegree, "the order", "", ErrLimit)
 		if !ok {
-			return arma.Noise{}, false
+			return tf.Noise{}, false
 		}
 		ords[i] = v
 	}
-	var n arma.Noise
+	var n tf.Noise
 	p, q := 0, 0
 	switch s.Kind {
 	case "AR":

@@ -4,7 +4,6 @@ import (
 	"math"
 	"strconv"
 
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -127,7 +126,7 @@ func (c *checker) model(m tf.Model) {
 	c.interval(m.Interval)
 }
 
-func (c *checker) noise(n arma.Noise) {
+func (c *checker) noise(n tf.Noise) {
 	c.poly(n.MA, "noise numerator", "Noise.MA", false)
 	c.poly(n.AR, "noise denominator", "Noise.AR", false)
 }
@@ -143,9 +142,9 @@ func (c *checker) interval(iv tf.Interval) {
 	case !(iv.Value > 0):
 		c.fail("Interval.Value", tf.Pos{}, ErrModel, "the sample interval must be a positive number, not "+v)
 	case iv.Unit == "":
-		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "the sample interval "+v+" has no unit; use s, min, h or d")
+		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "the sample interval "+v+" has no unit; use "+unitList)
 	case !validUnit(iv.Unit):
-		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "unknown unit "+strconv.Quote(iv.Unit)+" for the sample interval; use s, min, h or d"+unitHint(iv.Unit))
+		c.fail("Interval.Unit", tf.Pos{}, ErrModel, "unknown unit "+strconv.Quote(iv.Unit)+" for the sample interval; use "+unitList+unitHint(iv.Unit))
 	}
 }
 

@@ -37,7 +37,7 @@ func TestCheck(t *testing.T) {
 		{func(m *tf.Model) { m.Inputs[1].Series = "burner" },
 			"input burner appears twice (inputs 1 and 2); combine its terms into one transfer function"},
 		{func(m *tf.Model) { m.Interval = tf.Interval{Value: 3, Unit: "fortnight"} },
-			`unknown unit "fortnight" for the sample interval; use s, min, h or d`},
+			`unknown unit "fortnight" for the sample interval; use s, min, h, d, wk, mo, qtr or yr`},
 	}
 	for _, c := range cases {
 		bad := m.Clone()

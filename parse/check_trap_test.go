@@ -7,7 +7,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -25,7 +24,7 @@ func codeModel() tf.Model {
 				Den: one(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: free("d1", 0.7), Power: 1})},
 			{Series: "feed", Num: one(tf.Term{Coef: num(0.5)})},
 		},
-		Noise: &arma.Noise{
+		Noise: &tf.Noise{
 			MA: one(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: free("t1", 0.2), Power: 1}),
 			AR: one(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: free("p1", 0.6), Power: 1}),
 		},
@@ -107,9 +106,9 @@ func TestCheckTraps(t *testing.T) {
 		{"negative interval", func(m *tf.Model) { m.Interval.Value = -3 }, ErrModel, "Interval.Value",
 			"the sample interval must be a positive number, not -3"},
 		{"interval without a unit", func(m *tf.Model) { m.Interval.Unit = "" }, ErrModel, "Interval.Unit",
-			"the sample interval 1 has no unit; use s, min, h or d"},
+			"the sample interval 1 has no unit; use s, min, h, d, wk, mo, qtr or yr"},
 		{"interval in minutes spelt out", func(m *tf.Model) { m.Interval.Unit = "minutes" }, ErrModel, "Interval.Unit",
-			`unknown unit "minutes" for the sample interval; use s, min, h or d (for minutes write min)`},
+			`unknown unit "minutes" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (for minutes write min)`},
 		{"interval NaN", func(m *tf.Model) { m.Interval.Value = math.NaN() }, ErrModel, "Interval.Value", "the sample interval is NaN"},
 		{"one name, two values", func(m *tf.Model) { m.Noise.MA.Factors[0].Terms[1].Coef.Name = "p1" }, ErrModel, "Noise.AR.Factors[0].Terms[1].Coef",
 			"the coefficient p1 of the noise denominator differs from its use in the noise numerator (free from 0.6 against free from 0.2); one name is one parameter"},
@@ -124,7 +123,7 @@ func TestCheckTraps(t *testing.T) {
 			t.Errorf("%s: got %v, want a *parse.Error", c.name, err)
 			continue
 		}
-		if e.Msg != c.msg || e.Path != c.path || !errors.Is(err, c.kind) {
+		if e.Msg != c.msg || e.Path != c.path || !errors.Is(err, c.kind) || !errors.Is(err, tf.ErrModel) {
 			t.Errorf("%s:\n got %s %v %q\nwant %s %v %q", c.name, e.Path, e.Kind, e.Msg, c.path, c.kind, c.msg)
 		}
 		if want := c.path + ": " + c.msg; e.Error() != want {

@@ -83,7 +83,7 @@
 //	(1 - t1 B) / (1 - p1 B) / (1 - P1 B^12) a   a seasonal AR factor
 //
 // Without a noise term the model is noise free (tf.Model.Noise is nil);
-// with a alone it is white noise (a zero arma.Noise). The shorthands
+// with a alone it is white noise (a zero tf.Noise). The shorthands
 //
 //	AR(p)       1 / (1 - phi1 B - ... - phip B^p) a
 //	MA(q)       (1 - theta1 B - ... - thetaq B^q) a
@@ -98,9 +98,16 @@
 //
 // # Sample interval
 //
-// "every 30 s" gives the sample interval, with unit s, min, h or d, so
-// that responses can be reported in time as well as in samples. Without
-// it times are in samples.
+// "every 30 s" gives the sample interval, so that responses can be
+// reported in time as well as in samples. Without it times are in
+// samples. The units are the clock units s, min, h, d and wk (a week, 7
+// days) and the calendar units mo (a month), qtr (a quarter, 3 months)
+// and yr (a year, 12 months), as in "every 1 mo" for monthly data. A
+// calendar unit is not a fixed number of seconds (a month has 28 to 31
+// days), so time figures of such a model are reported in the interval's
+// own unit only (a dead time of 2 samples at every 1 qtr is 2 qtr, a
+// time constant 1.5 samples is 1.5 qtr), and tf.Interval.Seconds reports
+// ok = false for it.
 //
 // # Layout
 //
@@ -152,7 +159,7 @@
 //	sign        = "+" | "-" .
 //	clause      = "where" binding { "," binding } | "every" number unit .
 //	binding     = name ( "~" | "=" ) [ "-" ] number .
-//	unit        = "s" | "min" | "h" | "d" .
+//	unit        = "s" | "min" | "h" | "d" | "wk" | "mo" | "qtr" | "yr" .
 //	whole       = number .   (with a whole value: 4, or 4.0)
 //	number      = ( digit { digit } [ "." { digit } ] | "." digit { digit } )
 //	              [ ( "e" | "E" ) [ "+" | "-" ] digit { digit } ] .

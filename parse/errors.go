@@ -1,7 +1,6 @@
 package parse
 
 import (
-	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -11,18 +10,30 @@ import (
 )
 
 // Kinds of spec errors. Every *Error wraps one of them, so that callers
-// may test the kind with errors.Is.
+// may test the kind with errors.Is. Each is a precise kind under the
+// library's shared kind tf.ErrModel ("a model cannot be used"): a spec
+// that does not parse, breaks a rule of the language or is over a limit
+// describes no usable model, so errors.Is(err, tf.ErrModel) holds for
+// every error of this package, as it does for tf's own model errors.
 var (
 	// ErrSyntax marks text that is not written in the spec language.
-	ErrSyntax = errors.New("parse: syntax error")
+	ErrSyntax error = &kind{"parse: syntax error"}
 	// ErrModel marks a spec that is well formed but does not describe a
 	// valid model (a denominator whose constant term is not 1, an input
 	// named twice, ...).
-	ErrModel = errors.New("parse: invalid model")
+	ErrModel error = &kind{"parse: invalid model"}
 	// ErrLimit marks a spec over one of the documented limits (length,
 	// degree, dead time, number of inputs, nesting).
-	ErrLimit = errors.New("parse: over a limit")
+	ErrLimit error = &kind{"parse: over a limit"}
 )
+
+// kind is a kind of spec error: a sentinel that unwraps to tf.ErrModel.
+type kind struct{ msg string }
+
+func (k *kind) Error() string { return k.msg }
+
+// Unwrap returns the shared kind tf.ErrModel.
+func (k *kind) Unwrap() error { return tf.ErrModel }
 
 // Error is one problem in a spec, at a position in its text.
 //

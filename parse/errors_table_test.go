@@ -4,6 +4,8 @@ import (
 	"errors"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/tf"
 )
 
 // errorCases are malformed specs with the exact first error each must
@@ -45,8 +47,8 @@ var errorCases = []struct {
 	{"temp = w0 x where w0 ~ 1, w0 = 2", 1, 27, ErrModel, "w0 is given a value twice"},
 	{"temp = w0 x where w0 ~", 1, 23, ErrSyntax, "expected a number after '~', found the end of the spec"},
 	{"temp = w0 x where w0 2", 1, 22, ErrSyntax, "expected '~' (start value) or '=' (held value) after w0, found number 2"},
-	{"temp = w0 x every 30 sec", 1, 22, ErrModel, "unknown unit \"sec\" for the sample interval; use s, min, h or d (for seconds write s)"},
-	{"temp = w0 x every 30", 1, 21, ErrSyntax, "expected a unit after the sample interval 30, as in every 30 min (units: s, min, h, d); found the end of the spec"},
+	{"temp = w0 x every 30 sec", 1, 22, ErrModel, "unknown unit \"sec\" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (for seconds write s)"},
+	{"temp = w0 x every 30", 1, 21, ErrSyntax, "expected a unit after the sample interval 30, as in every 30 min (units: s, min, h, d, wk, mo, qtr, yr); found the end of the spec"},
 	{"temp = w0 x every -3 s", 1, 19, ErrModel, "the sample interval must be a positive number"},
 	{"temp = w0 x every 3 s every 4 s", 1, 23, ErrModel, "the sample interval is given twice"},
 	{"(1 - k B) temp = w0 x", 1, 6, ErrModel, "the differencing of the output temp takes numbers only, and k is a coefficient name; differencing is not estimated"},
@@ -91,7 +93,7 @@ var errorCases = []struct {
 	{"temp =\n  (w0 + w1 B)\n  / (1 - d1 B B^4 burner", 3, 25, ErrSyntax, "missing ')' to close the '(' at 3:5"},
 	{"# header\ntemp = w0 B^4 burner\n  + 1 / (0.5 - p1 B) a", 3, 9, ErrModel, "the constant term of the noise denominator must be 1, not 0.5; divide the numerator and the denominator by 0.5"},
 	{"temp = w0 x\nwhere w0 ~ 1,\n      d1 = 0.5", 3, 7, ErrModel, "d1 is not a coefficient of this model"},
-	{"temp = w0 x + w1\t(1 - B) y + a\nevery 1 fortnight", 2, 9, ErrModel, "unknown unit \"fortnight\" for the sample interval; use s, min, h or d"},
+	{"temp = w0 x + w1\t(1 - B) y + a\nevery 1 fortnight", 2, 9, ErrModel, "unknown unit \"fortnight\" for the sample interval; use s, min, h, d, wk, mo, qtr or yr"},
 	{"température = w0 x", 1, 5, ErrSyntax, "unexpected character 'é'"},
 	{"temp = w0 B^4 burner + (2 - t1 B) a", 1, 24, ErrModel, "the constant term of the noise numerator must be 1, not 2; the noise has no gain (its scale is its variance): write (1 - t1 B ...)"},
 	{"temp = (w0 + w1 B + w2 B^2) / ((1 - d1 B)(2 - d2 B)) x", 1, 42, ErrModel, "the constant term of the denominator must be 1, not 2; divide the numerator and the denominator by 2"},
@@ -128,10 +130,10 @@ var errorCases = []struct {
 	{"temp = (1 - d1 B**2) valve", 1, 17, ErrSyntax, "'**' is not a power here: write a power with '^', as in B^3"},
 	{"temp = w0 B^{3} valve", 1, 13, ErrSyntax, "unexpected character '{' (write a power without braces, as in B^12)"},
 	{"temp = w0 z^-3 valve", 1, 12, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '^' (the backshift operator is written B: B^3 x is x three samples back, what z^-3 or q^-3 means)"},
-	{"temp = w0 x every 1 minute", 1, 21, ErrModel, "unknown unit \"minute\" for the sample interval; use s, min, h or d (for minutes write min)"},
-	{"temp = w0 x every 2 hr", 1, 21, ErrModel, "unknown unit \"hr\" for the sample interval; use s, min, h or d (for hours write h)"},
-	{"temp = w0 x every 1 S", 1, 21, ErrModel, "unknown unit \"S\" for the sample interval; use s, min, h or d (units are written in lower case: s)"},
-	{"temp = w0 x every 100 ms", 1, 23, ErrModel, "unknown unit \"ms\" for the sample interval; use s, min, h or d (for milliseconds write the interval in seconds, as in every 0.1 s)"},
+	{"temp = w0 x every 1 minute", 1, 21, ErrModel, "unknown unit \"minute\" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (for minutes write min)"},
+	{"temp = w0 x every 2 hr", 1, 21, ErrModel, "unknown unit \"hr\" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (for hours write h)"},
+	{"temp = w0 x every 1 S", 1, 21, ErrModel, "unknown unit \"S\" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (units are written in lower case: s)"},
+	{"temp = w0 x every 100 ms", 1, 23, ErrModel, "unknown unit \"ms\" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (for milliseconds write the interval in seconds, as in every 0.1 s)"},
 	{"temp = w0 x + e", 1, 15, ErrModel, "a lone name such as e is read as the constant, not as noise; the white-noise symbol is a, as in + a, + ARMA(1, 1) or + (1 - t1 B) / (1 - p1 B) a"},
 	{"temp = c + w0 x + noise", 1, 19, ErrModel, "a lone name such as noise is read as the constant, not as noise; the white-noise symbol is a, as in + a, + ARMA(1, 1) or + (1 - t1 B) / (1 - p1 B) a"},
 	{"temp = w0 x + AR1", 1, 15, ErrModel, "a lone name such as AR1 is read as the constant; for the noise shorthand write AR(1)"},
@@ -140,7 +142,7 @@ var errorCases = []struct {
 	{"temp = w0 x where w0 := 1", 1, 22, ErrSyntax, "unexpected character ':' (the spec language has no ':'; write where w0 ~ 1 for a start value, where w0 = 1 to hold a value, every 30 s for the interval)"},
 	{"temp = w0 x + (1 \u2212 t1 B) a", 1, 18, ErrSyntax, "unexpected character '\u2212' (write the minus sign as the ASCII '-')"},
 	{"y(t) = w0 x", 1, 2, ErrSyntax, "expected '=' after the output name y, found '(' (write a series by its name alone: y, not y(t))"},
-	{"y = w0 B^3 valve every 1,5 min", 1, 25, ErrSyntax, "expected a unit after the sample interval 1, as in every 1 min (units: s, min, h, d); found ',' (the decimal mark is '.': write 1.5, not 1,5)"},
+	{"y = w0 B^3 valve every 1,5 min", 1, 25, ErrSyntax, "expected a unit after the sample interval 1, as in every 1 min (units: s, min, h, d, wk, mo, qtr, yr); found ',' (the decimal mark is '.': write 1.5, not 1,5)"},
 	{"y = (1 - 0,5 B) x", 1, 11, ErrSyntax, "unexpected ',' inside parentheses (the decimal mark is '.': write 0.5, not 0,5)"},
 	{"y = w0 x where w0 = 0,5", 1, 23, ErrSyntax, "expected a coefficient name after ',', found number 5 (the decimal mark is '.': write 0.5, not 0,5)"},
 	{"y = K / (1 + T s) x", 1, 16, ErrSyntax, "s is not an operator of the spec language: a spec is in the backshift operator B of discrete time; convert a continuous-time model first, as with tf.FOPDT.Discretize"},
@@ -166,7 +168,7 @@ func TestErrorTable(t *testing.T) {
 			t.Errorf("%q: error %T is not a *parse.Error", c.spec, err)
 			continue
 		}
-		if e.Pos.Line != c.line || e.Pos.Column != c.col || e.Msg != c.msg || !errors.Is(err, c.kind) {
+		if e.Pos.Line != c.line || e.Pos.Column != c.col || e.Msg != c.msg || !errors.Is(err, c.kind) || !errors.Is(err, tf.ErrModel) {
 			t.Errorf("%q:\n got %d:%d %v %q\nwant %d:%d %v %q", c.spec, e.Pos.Line, e.Pos.Column, e.Kind, e.Msg,
 				c.line, c.col, c.kind, c.msg)
 		}

@@ -271,7 +271,7 @@ func syntaxReason(toks []lexer.Token, i int) string {
 		case hasPrev && (prev.Value == "every" || isP(prev, "-")):
 			return "expected the sample interval as a number and a unit, as in every 30 s; found " + found
 		case hasPrev && prev.Type == tokNumber:
-			return "expected a unit after the sample interval " + clip(pv) + ", as in every " + clip(pv) + " min (units: s, min, h, d); found " + found
+			return "expected a unit after the sample interval " + clip(pv) + ", as in every " + clip(pv) + " min (units: s, min, h, d, wk, mo, qtr, yr); found " + found
 		}
 		return "expected where, every or the end of the spec after the sample interval, found " + found
 	}

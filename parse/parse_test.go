@@ -10,7 +10,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -72,7 +71,7 @@ func TestModelValues(t *testing.T) {
 				Num:  tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: c("w2", 0, true)})}},
 				Diff: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: num(1), Power: 12})}}},
 		},
-		Noise: &arma.Noise{
+		Noise: &tf.Noise{
 			MA: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: c("theta1", 0, true), Power: 1})}},
 			AR: tf.Poly{Factors: []tf.Factor{f(tf.Term{Coef: num(1)}, tf.Term{Neg: true, Coef: c("phi1", 0, true), Power: 1})}},
 		},
@@ -437,11 +436,11 @@ func randomModel(rng *rand.Rand) tf.Model {
 	}
 	switch rng.IntN(4) {
 	case 1:
-		m.Noise = &arma.Noise{}
+		m.Noise = &tf.Noise{}
 	case 2:
-		m.Noise = &arma.Noise{MA: poly(rng.IntN(3), true, false), AR: poly(rng.IntN(3), true, false)}
+		m.Noise = &tf.Noise{MA: poly(rng.IntN(3), true, false), AR: poly(rng.IntN(3), true, false)}
 	case 3:
-		m.Noise = &arma.Noise{MA: shorthand("theta", rng.IntN(3)), AR: shorthand("phi", rng.IntN(4))}
+		m.Noise = &tf.Noise{MA: shorthand("theta", rng.IntN(3)), AR: shorthand("phi", rng.IntN(4))}
 	}
 	if rng.IntN(2) == 0 {
 		m.Interval = tf.Interval{Value: randValue(rng, false) + 1e-3, Unit: []string{"s", "min", "h", "d"}[rng.IntN(4)]}
@@ -548,6 +547,74 @@ func TestDocExamples(t *testing.T) {
 	} {
 		if _, err := Model(s); err != nil {
 			t.Errorf("%q: %v", s, err)
+		}
+	}
+}
+
+// TestKindsShared: each kind of spec error is a precise kind under the
+// library's shared tf.ErrModel, and the three stay distinct.
+func TestKindsShared(t *testing.T) {
+	kinds := []error{ErrSyntax, ErrModel, ErrLimit}
+	for i, k := range kinds {
+		if !errors.Is(k, tf.ErrModel) {
+			t.Errorf("%v does not match tf.ErrModel", k)
+		}
+		for j, o := range kinds {
+			if (i == j) != errors.Is(k, o) {
+				t.Errorf("errors.Is(%v, %v) = %v", k, o, i != j)
+			}
+		}
+	}
+	_, err := Model("y = 0.5 x +")
+	if !errors.Is(err, ErrSyntax) || !errors.Is(err, tf.ErrModel) || errors.Is(err, ErrLimit) || errors.Is(err, tf.ErrSetting) {
+		t.Errorf("syntax error %v: kinds wrong", err)
+	}
+}
+
+// TestCalendarUnits: every accepts the week and the calendar units, the
+// model prints them back, Check accepts them, and other spellings are
+// refused with the unit to write.
+func TestCalendarUnits(t *testing.T) {
+	for _, c := range []struct {
+		spec     string
+		unit     string
+		seconds  float64 // 0: no fixed length
+		months   float64
+		calendar bool
+	}{
+		{"sales = w0 B price + a every 1 mo", "mo", 0, 1, true},
+		{"sales = w0 B price + a every 1 qtr", "qtr", 0, 3, true},
+		{"sales = w0 B price + a every 2 yr", "yr", 0, 24, true},
+		{"sales = w0 B price + a every 2 wk", "wk", 2 * 604800, 0, false},
+	} {
+		m, err := Model(c.spec)
+		if err != nil {
+			t.Fatalf("%s: %v", c.spec, err)
+		}
+		if m.Interval.Unit != c.unit || m.Interval.Calendar() != c.calendar {
+			t.Errorf("%s: interval %+v, calendar %v", c.spec, m.Interval, m.Interval.Calendar())
+		}
+		sec, ok := m.Interval.Seconds()
+		if ok != (c.seconds > 0) || sec != c.seconds {
+			t.Errorf("%s: Seconds %v, %v; want %v", c.spec, sec, ok, c.seconds)
+		}
+		mo, ok := m.Interval.Months()
+		if ok != c.calendar || mo != c.months {
+			t.Errorf("%s: Months %v, %v; want %v", c.spec, mo, ok, c.months)
+		}
+		back, err := Model(m.String())
+		if err != nil || !back.Equal(m) || !strings.HasSuffix(m.String(), "every "+strings.Fields(c.spec)[len(strings.Fields(c.spec))-2]+" "+c.unit) {
+			t.Errorf("%s: round trip %q: %v", c.spec, m.String(), err)
+		}
+		if err := Check(m); err != nil {
+			t.Errorf("%s: Check: %v", c.spec, err)
+		}
+	}
+	for spelling, want := range map[string]string{"month": "(for months write mo)", "quarters": "(for quarters write qtr)",
+		"years": "(for years write yr)", "week": "(for weeks write wk)"} {
+		_, err := Model("sales = w0 price every 1 " + spelling)
+		if !errors.Is(err, ErrModel) || !strings.Contains(err.Error(), `unknown unit "`+spelling+`" for the sample interval; use s, min, h, d, wk, mo, qtr or yr `+want) {
+			t.Errorf("every 1 %s: %v", spelling, err)
 		}
 	}
 }

@@ -2,6 +2,7 @@ package tf
 
 import (
 	"math"
+	"strconv"
 )
 
 // FOPDT is the continuous-time first-order-plus-dead-time process model
@@ -46,11 +47,16 @@ func (p FOPDT) StepAt(t float64) float64 {
 // input applied at sample k first shows in the output at sample k+1. A
 // fractional part within 1e-12 of 0 or 1 is rounded to the whole sample.
 //
-// It returns an *ArgError for a non-finite gain, a time constant or
+// It returns an *SettingError for a non-finite gain, a time constant or
 // interval that is not positive and finite, a time constant so long
 // against T that e^{-T/tau} rounds to 1 (about 2^53 intervals), a
 // negative dead time, or a dead time of more than MaxDelay-1 samples.
 func (p FOPDT) Discretize(T float64) (Rational, error) {
+	out, err := p.discretize(T)
+	return out, composeErr("tf.FOPDT.Discretize", err)
+}
+
+func (p FOPDT) discretize(T float64) (Rational, error) {
 	if err := ratCheckFinite("Gain", p.Gain); err != nil {
 		return Rational{}, err
 	}
@@ -72,7 +78,7 @@ func (p FOPDT) Discretize(T float64) (Rational, error) {
 	if f > 0 {
 		b2 = -math.Exp(-h/tau) * math.Expm1(-f*T/tau)
 	}
-	return NewRational([]float64{p.Gain * b1, p.Gain * b2}, []float64{1, -a}, d+1)
+	return newRational([]float64{p.Gain * b1, p.Gain * b2}, []float64{1, -a}, d+1)
 }
 
 // AsFOPDT converts a discrete first-order term back to the continuous
@@ -88,11 +94,16 @@ func (p FOPDT) Discretize(T float64) (Rational, error) {
 // so that f = 0 for b2 = 0. A fitted term whose split b1/(b1+b2) lies
 // outside [0, 1] by at most 1e-9 is clamped into it.
 //
-// It returns an *ArgError when the term is not of this form (other
+// It returns an *SettingError when the term is not of this form (other
 // orders, a pole outside (0, 1), a zero gain, no dead time, or a
 // numerator split that no fractional dead time produces), or when T is
 // not positive and finite.
 func (r Rational) AsFOPDT(T float64) (FOPDT, error) {
+	out, err := r.asFOPDT(T)
+	return out, composeErr("tf.Rational.AsFOPDT", err)
+}
+
+func (r Rational) asFOPDT(T float64) (FOPDT, error) {
 	if err := ratCheckPositive("interval", T); err != nil {
 		return FOPDT{}, err
 	}
@@ -103,14 +114,14 @@ func (r Rational) AsFOPDT(T float64) (FOPDT, error) {
 		b++
 	}
 	if len(den) != 2 {
-		return FOPDT{}, &ArgError{Arg: "denominator degree", Value: float64(len(den) - 1), Rule: "must be 1 for a first-order term"}
+		return FOPDT{}, &ModelError{Part: "term denominator degree", Problem: "is " + ratFormat(float64(len(den)-1)) + ": must be 1 for a first-order term"}
 	}
 	if len(num) > 2 {
-		return FOPDT{}, &ArgError{Arg: "numerator degree", Value: float64(len(num) - 1), Rule: "must be 0 or 1 for a first-order term"}
+		return FOPDT{}, &ModelError{Part: "term numerator degree", Problem: "is " + ratFormat(float64(len(num)-1)) + ": must be 0 or 1 for a first-order term"}
 	}
 	a := -den[1]
 	if !(a > 0 && a < 1) {
-		return FOPDT{}, &ArgError{Arg: "pole", Value: a, Rule: "must lie in (0, 1) for a first-order lag"}
+		return FOPDT{}, &ModelError{Part: "term pole", Problem: "is " + ratFormat(a) + ": must lie in (0, 1) for a first-order lag"}
 	}
 	b1 := num[0]
 	b2 := 0.0
@@ -118,17 +129,17 @@ func (r Rational) AsFOPDT(T float64) (FOPDT, error) {
 		b2 = num[1]
 	}
 	if b1+b2 == 0 {
-		return FOPDT{}, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero"}
+		return FOPDT{}, &ModelError{Part: "term gain", Problem: "is 0: must be non-zero"}
 	}
 	if b < 1 {
-		return FOPDT{}, &ArgError{Arg: "dead time", Value: float64(b), Rule: "must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
+		return FOPDT{}, &ModelError{Part: "term dead time", Problem: "is " + ratFormat(float64(b)) + ": must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
 	}
 	tau := -T / math.Log(a)
 	// Fraction of the first response step: b1/(b1+b2) = (1 - e^{-(1-f)T/tau})/(1 - a).
 	frac := b1 / (b1 + b2)
 	const slack = 1e-9
 	if frac < -slack || frac > 1+slack {
-		return FOPDT{}, &ArgError{Arg: "numerator split b1/(b1+b2)", Value: frac, Rule: "must lie in [0, 1] for a fractional dead time"}
+		return FOPDT{}, &ModelError{Part: "term numerator split b1/(b1+b2)", Problem: "is " + ratFormat(frac) + ": must lie in [0, 1] for a fractional dead time"}
 	}
 	frac = min(max(frac, 0), 1)
 	f := 0.0
@@ -206,7 +217,7 @@ func (p SecondOrder) second() (ratSecond, error) {
 	}
 	z, wn := p.Damping, p.NaturalFrequency
 	if !(z >= 0) || math.IsInf(z, 0) {
-		return ratSecond{}, &ArgError{Arg: "Damping", Value: z, Rule: "must be finite and >= 0"}
+		return ratSecond{}, setting("", "Damping", z, "must be finite and >= 0")
 	}
 	if z >= 1 {
 		// Real time constants 1/(wn (zeta -+ sqrt(zeta^2 - 1))), the second
@@ -276,7 +287,7 @@ func (s ratSecond) discretize(T float64) (Rational, error) {
 	if f == 0 {
 		num[2] = 0
 	}
-	return NewRational(num[:], den[:], d+1)
+	return newRational(num[:], den[:], d+1)
 }
 
 // StepAt returns the continuous unit step response at time t (step at
@@ -306,11 +317,16 @@ func (p SOPDT) StepAt(t float64) float64 {
 // rounding error of a few eps times |Gain|, which is relatively large
 // only when T is much shorter than the time constants.
 //
-// It returns an *ArgError for a non-finite gain, a time constant or
+// It returns an *SettingError for a non-finite gain, a time constant or
 // interval that is not positive and finite, a time constant so long
 // against T that e^{-T/Tau_i} rounds to 1 (about 2^53 intervals), or a
 // dead time that is negative or over MaxDelay-1 samples.
 func (p SOPDT) Discretize(T float64) (Rational, error) {
+	out, err := p.discretize(T)
+	return out, composeErr("tf.SOPDT.Discretize", err)
+}
+
+func (p SOPDT) discretize(T float64) (Rational, error) {
 	s, err := p.second()
 	if err != nil {
 		return Rational{}, err
@@ -337,9 +353,14 @@ func (p SecondOrder) StepAt(t float64) float64 {
 // Discretize returns the exact zero-order-hold equivalent of p for the
 // sample interval T, as SOPDT.Discretize does; for Damping < 1 the
 // denominator is 1 - 2 e^{-zeta wn T} cos(wd T) B + e^{-2 zeta wn T} B^2.
-// Its errors are those of SOPDT.Discretize, plus an *ArgError for a
+// Its errors are those of SOPDT.Discretize, plus an *SettingError for a
 // negative or non-finite Damping.
 func (p SecondOrder) Discretize(T float64) (Rational, error) {
+	out, err := p.discretize(T)
+	return out, composeErr("tf.SecondOrder.Discretize", err)
+}
+
+func (p SecondOrder) discretize(T float64) (Rational, error) {
 	s, err := p.second()
 	if err != nil {
 		return Rational{}, err
@@ -360,11 +381,11 @@ func ratSplitDelay(theta, T float64) (d int, f float64, err error) {
 		return 0, 0, err
 	}
 	if !(theta >= 0) || math.IsInf(theta, 0) {
-		return 0, 0, &ArgError{Arg: "DeadTime", Value: theta, Rule: "must be finite and >= 0"}
+		return 0, 0, setting("", "DeadTime", theta, "must be finite and >= 0")
 	}
 	x := theta / T
 	if x > MaxDelay-1 {
-		return 0, 0, &ArgError{Arg: "DeadTime", Value: theta, Rule: "must be at most MaxDelay-1 samples"}
+		return 0, 0, setting("", "DeadTime", theta, "must be at most MaxDelay-1 samples")
 	}
 	fl := math.Floor(x)
 	f = x - fl
@@ -384,21 +405,21 @@ func ratSplitDelay(theta, T float64) (d int, f float64, err error) {
 // would come out as an integrator with the gain lost.
 func ratCheckPole(name string, tau, a float64) error {
 	if a == 1 {
-		return &ArgError{Arg: name, Value: tau, Rule: "must be under 2^53 sample intervals (the sampled pole e^{-T/tau} rounds to 1)"}
+		return setting("", name, tau, "must be under 2^53 sample intervals (the sampled pole e^{-T/tau} rounds to 1)")
 	}
 	return nil
 }
 
 func ratCheckFinite(name string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return &ArgError{Arg: name, Value: v, Rule: "must be finite"}
+		return setting("", name, v, "must be finite")
 	}
 	return nil
 }
 
 func ratCheckPositive(name string, v float64) error {
 	if !(v > 0) || math.IsInf(v, 0) {
-		return &ArgError{Arg: name, Value: v, Rule: "must be positive and finite"}
+		return setting("", name, v, "must be positive and finite")
 	}
 	return nil
 }
@@ -423,11 +444,16 @@ func ratCheckPositive(name string, v float64) error {
 // difference |w - w(model)| / |w| of the numerator coefficients, so that
 // callers can judge how well the continuous model describes the term.
 //
-// It returns an *ArgError when the term is not of this form, when the
+// It returns an *SettingError when the term is not of this form, when the
 // first coefficient lies outside what a fractional dead time produces (by
 // more than 1e-9 relative; it is clamped otherwise), or when T is not
 // positive and finite or not below half the damped period.
 func (r Rational) AsSecondOrder(T float64) (p SecondOrder, mismatch float64, err error) {
+	p, mismatch, err = r.asSecondOrder(T)
+	return p, mismatch, composeErr("tf.Rational.AsSecondOrder", err)
+}
+
+func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err error) {
 	if err := ratCheckPositive("interval", T); err != nil {
 		return SecondOrder{}, 0, err
 	}
@@ -438,24 +464,24 @@ func (r Rational) AsSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 		b++
 	}
 	if len(den) != 3 {
-		return SecondOrder{}, 0, &ArgError{Arg: "denominator degree", Value: float64(len(den) - 1), Rule: "must be 2 for a second-order term"}
+		return SecondOrder{}, 0, &ModelError{Part: "term denominator degree", Problem: "is " + ratFormat(float64(len(den)-1)) + ": must be 2 for a second-order term"}
 	}
 	if len(num) > 3 {
-		return SecondOrder{}, 0, &ArgError{Arg: "numerator degree", Value: float64(len(num) - 1), Rule: "must be at most 2 for a second-order term"}
+		return SecondOrder{}, 0, &ModelError{Part: "term numerator degree", Problem: "is " + ratFormat(float64(len(num)-1)) + ": must be at most 2 for a second-order term"}
 	}
 	if b < 1 {
-		return SecondOrder{}, 0, &ArgError{Arg: "dead time", Value: float64(b), Rule: "must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
+		return SecondOrder{}, 0, &ModelError{Part: "term dead time", Problem: "is " + ratFormat(float64(b)) + ": must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
 	}
 	poles := r.Poles()
 	if len(poles) != 2 {
-		return SecondOrder{}, 0, &ArgError{Arg: "poles", Value: float64(len(poles)), Rule: "need two poles"}
+		return SecondOrder{}, 0, &ModelError{Part: "term poles", Problem: "has " + strconv.Itoa(len(poles)) + ": a second-order term needs two"}
 	}
 	z1, z2 := poles[0], poles[1]
 	var wn, zeta float64
 	if imag(z1) == 0 {
 		a1, a2 := real(z1), real(z2)
 		if !(a1 > 0 && a1 < 1 && a2 > 0 && a2 < 1) {
-			return SecondOrder{}, 0, &ArgError{Arg: "pole", Value: math.Min(a1, a2), Rule: "real poles must lie in (0, 1)"}
+			return SecondOrder{}, 0, &ModelError{Part: "term pole", Problem: "is " + ratFormat(math.Min(a1, a2)) + ": real poles must lie in (0, 1)"}
 		}
 		t1, t2 := -T/math.Log(a1), -T/math.Log(a2)
 		wn = 1 / math.Sqrt(t1*t2)
@@ -463,22 +489,22 @@ func (r Rational) AsSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 	} else {
 		m := math.Hypot(real(z1), imag(z1))
 		if !(m < 1) {
-			return SecondOrder{}, 0, &ArgError{Arg: "pole magnitude", Value: m, Rule: "must be below 1"}
+			return SecondOrder{}, 0, &ModelError{Part: "term pole magnitude", Problem: "is " + ratFormat(m) + ": must be below 1"}
 		}
 		// s = ln(z)/T = (ln|z| + i arg z)/T.
 		re, im := math.Log(m)/T, math.Abs(math.Atan2(imag(z1), real(z1)))/T
 		wn = math.Hypot(re, im)
 		zeta = -re / wn
 		if !(im*T < math.Pi) {
-			return SecondOrder{}, 0, &ArgError{Arg: "interval", Value: T, Rule: "must be below half the damped period"}
+			return SecondOrder{}, 0, setting("", "interval", T, "must be below half the damped period")
 		}
 	}
-	k, err := r.Gain()
+	k, err := r.gain()
 	if err != nil {
 		return SecondOrder{}, 0, err
 	}
 	if k == 0 {
-		return SecondOrder{}, 0, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero"}
+		return SecondOrder{}, 0, &ModelError{Part: "term gain", Problem: "is 0: must be non-zero"}
 	}
 	unit := SecondOrder{Gain: 1, NaturalFrequency: wn, Damping: zeta}
 	s, err := unit.second()
@@ -486,14 +512,14 @@ func (r Rational) AsSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 		return SecondOrder{}, 0, err
 	}
 	if s.kind == 2 && !(s.wd*T < math.Pi) {
-		return SecondOrder{}, 0, &ArgError{Arg: "interval", Value: T, Rule: "must be below half the damped period"}
+		return SecondOrder{}, 0, setting("", "interval", T, "must be below half the damped period")
 	}
 	w0 := num[0] / k
 	top := s.step(T)
 	const slack = 1e-9
 	if w0 < -slack*top || w0 > top*(1+slack) {
-		return SecondOrder{}, 0, &ArgError{Arg: "first numerator coefficient / gain", Value: w0,
-			Rule: "must lie in [0, " + ratFormat(top) + "] (the unit step response after one interval) for a fractional dead time"}
+		return SecondOrder{}, 0, &ModelError{Part: "term first numerator coefficient / gain", Problem: "is " + ratFormat(w0) +
+			": must lie in [0, " + ratFormat(top) + "] (the unit step response after one interval) for a fractional dead time"}
 	}
 	// Bisection on f in [0, 1]: step((1-f)T) decreases from top to 0.
 	lo, hi := 0.0, 1.0

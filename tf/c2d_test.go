@@ -138,18 +138,25 @@ func TestAsFOPDTRejects(t *testing.T) {
 		name     string
 		num, den []float64
 		delay    int
+		want     string
 	}{
-		{"second order", []float64{1}, []float64{1, -1.1, 0.3}, 1},
-		{"negative pole", []float64{1}, []float64{1, 0.5}, 1},
-		{"no dead time", []float64{1}, []float64{1, -0.5}, 0},
-		{"numerator split outside", []float64{1, -0.6}, []float64{1, -0.5}, 1},
-		{"integrator", []float64{1}, []float64{1, -1}, 1},
+		{"second order", []float64{1}, []float64{1, -1.1, 0.3}, 1, "tf.Rational.AsFOPDT: term denominator degree: is 2: must be 1 for a first-order term"},
+		{"negative pole", []float64{1}, []float64{1, 0.5}, 1, "tf.Rational.AsFOPDT: term pole: is -0.5: must lie in (0, 1) for a first-order lag"},
+		{"no dead time", []float64{1}, []float64{1, -0.5}, 0, "tf.Rational.AsFOPDT: term dead time: is 0: must be >= 1 sample for a zero-order-hold image (the hold adds one)"},
+		{"numerator split outside", []float64{1, -0.6}, []float64{1, -0.5}, 1, "tf.Rational.AsFOPDT: term numerator split b1/(b1+b2): is 2.5: must lie in [0, 1] for a fractional dead time"},
+		{"integrator", []float64{1}, []float64{1, -1}, 1, "tf.Rational.AsFOPDT: term pole: is 1: must lie in (0, 1) for a first-order lag"},
 	} {
 		r := tf.MustRational(c.num, c.den, c.delay)
-		var ae *tf.ArgError
-		if _, err := r.AsFOPDT(1); !errors.As(err, &ae) {
-			t.Errorf("%s: err %v, want *tf.ArgError", c.name, err)
+		var me *tf.ModelError
+		if _, err := r.AsFOPDT(1); !errors.As(err, &me) || !errors.Is(err, tf.ErrModel) || err.Error() != c.want {
+			t.Errorf("%s: err %v, want *tf.ModelError %q", c.name, err, c.want)
 		}
+	}
+	// A bad interval is a setting, under the function's name.
+	var se *tf.SettingError
+	if _, err := (tf.FOPDT{Gain: 1, TimeConstant: 2}).Discretize(-1); !errors.As(err, &se) || !errors.Is(err, tf.ErrSetting) ||
+		err.Error() != "tf.FOPDT.Discretize: interval = -1: must be positive and finite" {
+		t.Errorf("negative interval: %v", err)
 	}
 }
 
@@ -237,8 +244,9 @@ func TestAsSecondOrderRoundTrip(t *testing.T) {
 	if _, mis, err := r.AsSecondOrder(1); err != nil || !(mis > 0.01) {
 		t.Errorf("inexact term: mismatch %v, %v", mis, err)
 	}
-	var ae *tf.ArgError
-	if _, _, err := tf.MustRational([]float64{1}, []float64{1, -0.5}, 1).AsSecondOrder(1); !errors.As(err, &ae) {
+	var me *tf.ModelError
+	if _, _, err := tf.MustRational([]float64{1}, []float64{1, -0.5}, 1).AsSecondOrder(1); !errors.As(err, &me) ||
+		err.Error() != "tf.Rational.AsSecondOrder: term denominator degree: is 1: must be 2 for a second-order term" {
 		t.Errorf("first-order term: %v", err)
 	}
 }

@@ -12,47 +12,61 @@ import (
 // denominator {1}, no dead time); Constant(1) is the unity feedback path.
 // It returns a *CoefError for a non-finite k.
 func Constant(k float64) (Rational, error) {
-	return NewRational([]float64{k}, []float64{1}, 0)
+	r, err := newRational([]float64{k}, []float64{1}, 0)
+	return r, composeErr("tf.Constant", err)
 }
 
-// Series returns the series connection g*h (the output of h feeds g, or
-// the other way round; the product commutes): numerators and denominators
-// multiplied, dead times added. No pole-zero cancellation is attempted.
-// It returns a *CoefError (ErrDegree) when a product's degree exceeds
-// MaxDegree and a *DelayError when the dead times add up past MaxDelay.
-func Series(g, h Rational) (Rational, error) {
+// composeErr sets op on err, or returns nil.
+func composeErr(op string, err error) error {
+	if err == nil {
+		return nil
+	}
+	return withOp(op, err)
+}
+
+// Times returns the product g*h: the two terms one after the other, the
+// output of one feeding the other (the product commutes): numerators and
+// denominators multiplied, dead times added. No pole-zero cancellation
+// is attempted. It returns a *CoefError (ErrDegree) when a product's
+// degree exceeds MaxDegree and a *DelayError when the dead times add up
+// past MaxDelay (Op "tf.Rational.Times").
+func (g Rational) Times(h Rational) (Rational, error) {
 	gn, gd := g.coefs()
 	hn, hd := h.coefs()
-	return NewRational(poly.Mul(gn, hn), poly.Mul(gd, hd), g.delay+h.delay)
+	r, err := newRational(poly.Mul(gn, hn), poly.Mul(gd, hd), g.delay+h.delay)
+	return r, composeErr("tf.Rational.Times", err)
 }
 
-// Parallel returns the parallel connection g + h over the common
-// denominator delta_g delta_h:
+// Plus returns the sum g + h: the two terms fed the same input, their
+// outputs added, over the common denominator delta_g delta_h:
 //
 //	(omega_g B^(b_g-b) delta_h + omega_h B^(b_h-b) delta_g) / (delta_g delta_h) * B^b,  b = min(b_g, b_h).
 //
 // A difference in dead time enters the numerator as a power of B, so it
 // counts toward the degree limit. It returns a *CoefError (ErrDegree) when
-// a degree exceeds MaxDegree.
-func Parallel(g, h Rational) (Rational, error) {
+// a degree exceeds MaxDegree (Op "tf.Rational.Plus").
+func (g Rational) Plus(h Rational) (Rational, error) {
+	const op = "tf.Rational.Plus"
 	gn, gd := g.coefs()
 	hn, hd := h.coefs()
 	b := min(g.delay, h.delay)
 	if d := max(g.delay, h.delay) - b; d+max(len(gn)+len(hd), len(hn)+len(gd))-2 > MaxDegree {
-		return Rational{}, &CoefError{Poly: "num", Index: d + max(len(gn)+len(hd), len(hn)+len(gd)) - 2, Err: ErrDegree}
+		return Rational{}, &CoefError{Op: op, Poly: "num", Index: d + max(len(gn)+len(hd), len(hn)+len(gd)) - 2, Err: ErrDegree}
 	}
 	num := poly.Add(poly.Shift(poly.Mul(gn, hd), g.delay-b), poly.Shift(poly.Mul(hn, gd), h.delay-b))
-	return NewRational(num, poly.Mul(gd, hd), b)
+	r, err := newRational(num, poly.Mul(gd, hd), b)
+	return r, composeErr(op, err)
 }
 
-// Feedback returns the negative-feedback closed loop g/(1 + g h), with g in
-// the forward path and h in the feedback path:
+// CloseLoop returns g with a negative-feedback loop closed around it
+// through h, g/(1 + g h): g in the forward path, h in the return path:
 //
 //	omega_g delta_h B^(b_g) / (delta_g delta_h + omega_g omega_h B^(b_g+b_h)).
 //
 // For a controller c and a plant p, the response of the output to the
-// set-point is Feedback(Series(c, p), Constant(1)), and the response of
-// the output to a load entering at the plant input is Feedback(p, c).
+// set-point is c.Times(p) with the loop closed through Constant(1), and
+// the response of the output to a load entering at the plant input is
+// p.CloseLoop(c).
 // The loop dead time b_g + b_h enters the denominator as a power of B, so
 // loops with long dead times may exceed MaxDegree (a *CoefError with
 // ErrDegree); simulate such loops with two Plants instead.
@@ -60,13 +74,15 @@ func Parallel(g, h Rational) (Rational, error) {
 // It returns a *CoefError with ErrZeroConstant when the loop is
 // ill-posed (b_g + b_h = 0 and 1 + g_0 h_0 = 0, where g_0 and h_0 are the
 // feedthrough gains): the loop equation then has no solution; and a
-// *CoefError with ErrNotFinite when a product of coefficients overflows.
-func Feedback(g, h Rational) (Rational, error) {
+// *CoefError with ErrNotFinite when a product of coefficients overflows
+// (Op "tf.Rational.CloseLoop").
+func (g Rational) CloseLoop(h Rational) (Rational, error) {
+	const op = "tf.Rational.CloseLoop"
 	gn, gd := g.coefs()
 	hn, hd := h.coefs()
 	lb := g.delay + h.delay
 	if lb+len(gn)+len(hn)-2 > MaxDegree {
-		return Rational{}, &CoefError{Poly: "den", Index: lb + len(gn) + len(hn) - 2, Err: ErrDegree}
+		return Rational{}, &CoefError{Op: op, Poly: "den", Index: lb + len(gn) + len(hn) - 2, Err: ErrDegree}
 	}
 	den := poly.Add(poly.Mul(gd, hd), poly.Shift(poly.Mul(gn, hn), lb))
 	// den[0] is 1 + g_0 h_0 only when the loop has no dead time; then a
@@ -76,9 +92,10 @@ func Feedback(g, h Rational) (Rational, error) {
 		scale += math.Abs(gn[0] * hn[0])
 	}
 	if d0 := den[0]; !math.IsNaN(d0) && !math.IsInf(d0, 0) && (d0 == 0 || math.Abs(d0) <= 8*ratEps*scale) {
-		return Rational{}, &CoefError{Poly: "den", Index: 0, Value: den[0], Err: ErrZeroConstant}
+		return Rational{}, &CoefError{Op: op, Poly: "den", Index: 0, Value: den[0], Err: ErrZeroConstant}
 	}
-	return NewRational(poly.Mul(gn, hd), den, g.delay)
+	r, err := newRational(poly.Mul(gn, hd), den, g.delay)
+	return r, composeErr(op, err)
 }
 
 func ratFormat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
@@ -95,10 +112,12 @@ func ratFormat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 //
 // so its coefficients carry the rounding of the root finder (about 1e-12
 // relative for well separated roots). tol must lie in [0, 1); Cancel
-// returns an *ArgError otherwise, and r itself when nothing cancels.
+// returns a *SettingError (Setting "tol") otherwise, and r itself when
+// nothing cancels.
 func (r Rational) Cancel(tol float64) (Rational, error) {
+	const op = "tf.Rational.Cancel"
 	if !(tol >= 0 && tol < 1) {
-		return Rational{}, &ArgError{Arg: "tol", Value: tol, Rule: "must lie in [0, 1)"}
+		return Rational{}, setting(op, "tol", tol, "must lie in [0, 1): the largest distance of a cancelled pole-zero pair, relative to max(1, |pole|)")
 	}
 	num, _ := r.coefs()
 	poles, zeros := r.Poles(), r.Zeros()
@@ -135,5 +154,6 @@ func (r Rational) Cancel(tol float64) (Rational, error) {
 		m++
 	}
 	n := poly.Shift(poly.Scale(num[m], poly.FromInverseRoots(keepZ)), m)
-	return NewRational(n, poly.FromInverseRoots(keepP), r.delay)
+	out, err := newRational(n, poly.FromInverseRoots(keepP), r.delay)
+	return out, composeErr(op, err)
 }

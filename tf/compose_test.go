@@ -16,7 +16,7 @@ import (
 func TestCancel(t *testing.T) {
 	p := tf.MustRational([]float64{0.5}, []float64{1, -1.3, 0.4}, 2)
 	c := tf.MustRational([]float64{2, -1.6}, []float64{1, -1}, 0)
-	pc, err := tf.Series(p, c)
+	pc, err := p.Times(c)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -48,8 +48,9 @@ func TestCancel(t *testing.T) {
 	if same.String() != p.String() {
 		t.Errorf("Cancel changed %v to %v", p, same)
 	}
-	var ae *tf.ArgError
-	if _, err := p.Cancel(-1); !errors.As(err, &ae) {
+	var se *tf.SettingError
+	if _, err := p.Cancel(-1); !errors.As(err, &se) || se.Setting != "tol" || !errors.Is(err, tf.ErrSetting) ||
+		err.Error() != "tf.Rational.Cancel: tol = -1: must lie in [0, 1): the largest distance of a cancelled pole-zero pair, relative to max(1, |pole|)" {
 		t.Errorf("negative tol: %v", err)
 	}
 }

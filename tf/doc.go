@@ -56,20 +56,27 @@
 //
 // Functions and methods never modify the slices, maps and models they are
 // given, and never keep them: constructors copy. Bad data and bad
-// settings give typed errors, to be inspected with errors.As, that carry
-// the facts: *CoefError (which polynomial, which power of B, the value;
-// it wraps one of ErrEmpty, ErrZeroConstant, ErrNotFinite, ErrDegree,
-// ErrNormalise),
-// *DelayError, *SampleError (series name, 0-based index, value; wraps
-// ErrNotFinite), *GainError (pole at z = 1), *UnstableError (a quantity
-// defined only for stable terms), *ArgError (an option outside its
-// range, named by its field for a settings struct, where zero means the
-// default and a negative value is an error; FitSettings, SimSettings and
-// StepOptions check themselves with Validate), *ModelError (a model
-// built in code with a structure no spec can have, such as a factor power
-// of 0 or a negative dead time: Model.Validate, checked by Fit,
-// Model.Simulate and NewSystem) and *SimError (a whole model that cannot be
-// simulated). On error the other results are zero values, except that a
+// settings give typed errors in the library's one vocabulary (see
+// internal/errs, re-exported here): every error matches one kind with
+// errors.Is (ErrSample, ErrShort, ErrConstant, ErrLength, ErrName,
+// ErrSetting, ErrModel, ErrConvergence, ErrOverflow, ErrInternal), and its
+// shape, for errors.As, carries the facts and an Op naming the exported
+// function the caller called ("tf.NewRational", "tf.Model.Simulate"):
+// *SampleError (series name, 0-based index, value), *SeriesError (a whole
+// series too short, of the wrong length or not known), *SettingError (a
+// setting by its field name, where zero means the default; FitSettings,
+// SimSettings and StepSettings check themselves with Validate),
+// *ModelError (a model or term that cannot be used, such as a structure
+// no spec can have, checked by Model.Validate, or a model that cannot be
+// simulated). Four shapes of this package carry facts the shared ones do
+// not, and match ErrModel: *CoefError (which polynomial, which power of
+// B, the value; its precise cause is one of ErrEmpty, ErrZeroConstant,
+// ErrNotFinite, ErrDegree, ErrNormalise), *DelayError (the dead time),
+// *GainError (delta(1) and omega(1) of a pole at z = 1) and
+// *UnstableError (the largest pole magnitude of a term that must be
+// stable); *SimError (the step and value where a simulation stopped being
+// finite) matches ErrOverflow, or ErrSample for a non-finite input.
+// On error the other results are zero values, except that a
 // Fit interrupted by its context returns its best point with the error. Panics are kept for programmer
 // errors the types cannot exclude, each documented where it can happen
 // (a destination slice of the wrong length, a Step with the wrong number

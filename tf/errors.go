@@ -4,16 +4,34 @@ import (
 	"errors"
 	"fmt"
 	"strconv"
+
+	"github.com/backshift/backshift/internal/errs"
 )
 
-// Sentinel problems carried by CoefError, for use with errors.Is.
+// The shared shapes this package returns besides those of errkinds.go.
+type (
+	// SampleError reports one NaN, infinite or too large sample: the
+	// caller's name for the series ("input", "past output", "valve"), the
+	// 0-based index and the value. It matches ErrSample.
+	SampleError = errs.SampleError
+	// ModelError reports a model, polynomial or term that cannot be used:
+	// Part names the place ("input valve denominator, factor 1"), Problem
+	// says what is wrong and how to fix it, Err is a more precise cause
+	// when there is one (a *GainError, ErrZeroConstant, ...). It matches
+	// ErrModel as well as Err.
+	ModelError = errs.ModelError
+)
+
+// Precise causes of a *CoefError, for errors.Is; every *CoefError also
+// matches ErrModel.
 var (
 	// ErrEmpty says a polynomial has no coefficients at all.
 	ErrEmpty = errors.New("no coefficients")
 	// ErrZeroConstant says a denominator's constant term (the coefficient
 	// of B^0) is zero, so the term is not causal and has no power series.
 	ErrZeroConstant = errors.New("constant term is zero")
-	// ErrNotFinite says a coefficient or sample is NaN or infinite.
+	// ErrNotFinite says a coefficient is NaN or infinite. (A NaN or
+	// infinite sample of a series is a *SampleError, matching ErrSample.)
 	ErrNotFinite = errors.New("value is NaN or infinite")
 	// ErrDegree says a polynomial's degree is above MaxDegree.
 	ErrDegree = errors.New("degree above tf.MaxDegree")
@@ -22,9 +40,12 @@ var (
 // CoefError reports a bad polynomial given to a constructor: which
 // polynomial ("num" for omega(B), "den" for delta(B)), the index of the
 // offending coefficient (power of B; -1 when the polynomial as a whole is
-// at fault, such as an empty one), its value, and the problem, one of
-// ErrEmpty, ErrZeroConstant, ErrNotFinite, ErrDegree and ErrNormalise.
+// at fault, such as an empty one), its value, and the precise cause, one
+// of ErrEmpty, ErrZeroConstant, ErrNotFinite, ErrDegree and ErrNormalise.
+// It matches ErrModel as well as its cause. Op is the exported function
+// called ("tf.NewRational").
 type CoefError struct {
+	Op    string
 	Poly  string
 	Index int
 	Value float64
@@ -32,61 +53,60 @@ type CoefError struct {
 }
 
 // Error describes the problem in one line, e.g.
-// "tf: den coefficient 0 (B^0) = 0: constant term is zero".
+// "tf.NewRational: den coefficient 0 (B^0) = 0: constant term is zero".
 func (e *CoefError) Error() string {
+	p := opPrefix(e.Op)
 	if e.Index < 0 {
-		return "tf: " + e.Poly + ": " + e.Err.Error()
+		return p + e.Poly + ": " + e.Err.Error()
 	}
 	if e.Err == ErrDegree {
-		return fmt.Sprintf("tf: %s has degree %d: %v (%d)", e.Poly, e.Index, e.Err, MaxDegree)
+		return fmt.Sprintf("%s%s has degree %d: %v (%d)", p, e.Poly, e.Index, e.Err, MaxDegree)
 	}
-	return fmt.Sprintf("tf: %s coefficient %d (B^%d) = %v: %v", e.Poly, e.Index, e.Index, e.Value, e.Err)
+	return fmt.Sprintf("%s%s coefficient %d (B^%d) = %v: %v", p, e.Poly, e.Index, e.Index, e.Value, e.Err)
 }
 
-// Unwrap returns the problem sentinel.
+// Unwrap returns the precise cause.
 func (e *CoefError) Unwrap() error { return e.Err }
 
-// DelayError reports a dead time outside 0..MaxDelay samples.
+// Is reports whether target is ErrModel (whatever the cause).
+func (e *CoefError) Is(target error) bool { return target == ErrModel }
+
+// DelayError reports a dead time outside 0..MaxDelay samples. It matches
+// ErrModel.
 type DelayError struct {
+	Op    string
 	Delay int
 }
 
 // Error describes the problem in one line.
 func (e *DelayError) Error() string {
-	return "tf: dead time " + strconv.Itoa(e.Delay) + " samples outside 0.." + strconv.Itoa(MaxDelay)
+	return opPrefix(e.Op) + "dead time " + strconv.Itoa(e.Delay) + " samples outside 0.." + strconv.Itoa(MaxDelay)
 }
 
-// SampleError reports a NaN or infinite sample in a series: the series'
-// name (for example "input", "initial output"), the 0-based index and the
-// value. It unwraps to ErrNotFinite.
-type SampleError struct {
-	Series string
-	Index  int
-	Value  float64
-}
-
-// Error describes the problem in one line.
-func (e *SampleError) Error() string {
-	return fmt.Sprintf("tf: %s sample %d = %v: %v", e.Series, e.Index, e.Value, ErrNotFinite)
-}
-
-// Unwrap returns ErrNotFinite.
-func (e *SampleError) Unwrap() error { return ErrNotFinite }
+// Unwrap returns ErrModel.
+func (e *DelayError) Unwrap() error { return ErrModel }
 
 // GainError reports that a steady-state gain does not exist because the
 // denominator vanishes at B = 1 (a pole at z = 1, an integrator): Den1 is
-// delta(1) and Num1 is omega(1).
+// delta(1) and Num1 is omega(1). It matches ErrModel.
 type GainError struct {
+	Op         string
 	Num1, Den1 float64
 }
 
 // Error describes the problem in one line.
 func (e *GainError) Error() string {
-	return fmt.Sprintf("tf: no steady-state gain: denominator at B = 1 is %v (pole at z = 1), numerator %v", e.Den1, e.Num1)
+	return fmt.Sprintf("%sno steady-state gain: denominator at B = 1 is %v (pole at z = 1), numerator %v", opPrefix(e.Op), e.Den1, e.Num1)
 }
 
-// ArgError reports an argument outside its documented range: the
-// argument's name, its value and the rule it breaks.
+// Unwrap returns ErrModel.
+func (e *GainError) Unwrap() error { return ErrModel }
+
+// ArgError is the former shape of a bad setting, kept only while the
+// fitting side of the package moves to *SettingError; it matches
+// ErrSetting.
+//
+// Deprecated: use *SettingError; ArgError is to be removed.
 type ArgError struct {
 	Arg   string
 	Value float64
@@ -98,19 +118,68 @@ func (e *ArgError) Error() string {
 	return fmt.Sprintf("tf: %s = %v: %s", e.Arg, e.Value, e.Rule)
 }
 
-// ModelError reports a model built in code whose structure no spec could
-// produce: a factor power below 1, a power of B below 0, a polynomial or
-// dead time over its limit, or a coefficient that is NaN or infinite.
-// Part names the place ("input valve denominator, factor 1", "input
-// valve dead time", ...), Problem says what is wrong and how to fix it.
-// Fit, Model.Simulate and NewSystem check every model with
-// Model.Validate before using it.
-type ModelError struct {
-	Part    string
-	Problem string
+// Unwrap returns ErrSetting.
+func (e *ArgError) Unwrap() error { return ErrSetting }
+
+// opPrefix returns "op: " or "" for an empty op.
+func opPrefix(op string) string {
+	if op == "" {
+		return ""
+	}
+	return op + ": "
 }
 
-// Error describes the problem in one line.
-func (e *ModelError) Error() string {
-	return "tf: model: " + e.Part + ": " + e.Problem
+// withOp sets Op, when it is empty, on the package's error shapes that
+// carry one, so that a message names the exported function the caller
+// called; it returns err.
+func withOp(op string, err error) error {
+	switch e := err.(type) {
+	case *SampleError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *ModelError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *SettingError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *SeriesError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *CoefError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *DelayError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *GainError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *UnstableError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	case *SimError:
+		if e.Op == "" {
+			e.Op = op
+		}
+	}
+	return err
+}
+
+// setting returns a *SettingError for the field setting with the value v.
+func setting(op, field string, v float64, rule string) *SettingError {
+	return &SettingError{Op: op, Setting: field, Value: strconv.FormatFloat(v, 'g', -1, 64), Rule: rule}
+}
+
+// intSetting returns a *SettingError for the count field with the value v.
+func intSetting(op, field string, v int, rule string) *SettingError {
+	return &SettingError{Op: op, Setting: field, Value: strconv.Itoa(v), Rule: rule}
 }

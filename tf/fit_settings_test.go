@@ -12,7 +12,7 @@ import (
 )
 
 // TestSettingsValidate is the table of every field of FitSettings,
-// SimSettings and StepOptions with a bad value: each gives an *ArgError
+// SimSettings and StepSettings with a bad value: each gives an *ArgError
 // (or a *SampleError for an innovation) naming the field, both from the
 // Validate method and from the call that takes the settings. The rule is
 // the package's: zero means the default, a negative value is an error.
@@ -53,57 +53,11 @@ func TestSettingsValidate(t *testing.T) {
 		!strings.Contains(err.Error(), "must be below the number of samples, 120") {
 		t.Errorf("First = n: %v", err)
 	}
-	var ae *tf.ArgError // SimSettings and StepOptions
-	sim := []struct {
-		s     tf.SimSettings
-		field string
-		rule  string
-	}{
-		{tf.SimSettings{Sigma: -1}, "SimSettings.Sigma", "must be finite and >= 0"},
-		{tf.SimSettings{Sigma: math.NaN()}, "SimSettings.Sigma", "must be finite and >= 0"},
-		{tf.SimSettings{Sigma: math.Inf(1)}, "SimSettings.Sigma", "must be finite and >= 0"},
-		{tf.SimSettings{BurnIn: -1}, "SimSettings.BurnIn", "must be >= 0"},
-		{tf.SimSettings{BurnIn: tf.MaxBurnIn + 1}, "SimSettings.BurnIn", "must be at most tf.MaxBurnIn"},
-	}
-	noisy := parse.MustModel("y = 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a")
-	for _, tc := range sim {
-		_, errSim := noisy.Simulate(map[string][]float64{"x": x}, &tc.s)
-		_, errSys := tf.NewSystem(noisy, &tc.s)
-		for _, err := range []error{tc.s.Validate(), errSim, errSys} {
-			if !errors.As(err, &ae) || ae.Arg != tc.field || !strings.Contains(err.Error(), tc.rule) {
-				t.Errorf("%+v: %v, want *ArgError for %s (%q)", tc.s, err, tc.field, tc.rule)
-			}
-		}
-	}
+	// SimSettings and StepSettings: see TestSimSettingsRule.
 	bad := tf.SimSettings{Innovations: []float64{0, math.Inf(1), 0}}
 	var se *tf.SampleError
 	if err := bad.Validate(); !errors.As(err, &se) || se.Series != "innovations" || se.Index != 1 {
 		t.Errorf("innovation +Inf: %v", err)
-	}
-	step := []struct {
-		o     tf.StepOptions
-		field string
-		rule  string
-	}{
-		{tf.StepOptions{Band: -0.1}, "Band", "StepOptions.Band must lie in (0, 1)"},
-		{tf.StepOptions{Band: 1}, "Band", "StepOptions.Band must lie in (0, 1)"},
-		{tf.StepOptions{Band: math.NaN()}, "Band", "StepOptions.Band must lie in (0, 1)"},
-		{tf.StepOptions{Interval: -1}, "Interval", "StepOptions.Interval must be finite and >= 0"},
-		{tf.StepOptions{Interval: math.Inf(1)}, "Interval", "StepOptions.Interval must be finite and >= 0"},
-		{tf.StepOptions{Horizon: -1}, "Horizon", "StepOptions.Horizon must lie in 0..10^7"},
-		{tf.StepOptions{Horizon: 1e8}, "Horizon", "StepOptions.Horizon must lie in 0..10^7"},
-	}
-	g, err := tf.NewRational([]float64{1}, []float64{1, -0.5}, 1)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, tc := range step {
-		_, errM := g.StepMetrics(tc.o)
-		for _, err := range []error{tc.o.Validate(), errM} {
-			if !errors.As(err, &ae) || ae.Arg != tc.field || !strings.Contains(err.Error(), tc.rule) {
-				t.Errorf("%+v: %v, want *ArgError for %s (%q)", tc.o, err, tc.field, tc.rule)
-			}
-		}
 	}
 	// The zero values are the defaults and valid.
 	if err := (tf.FitSettings{}).Validate(); err != nil {
@@ -112,7 +66,7 @@ func TestSettingsValidate(t *testing.T) {
 	if err := (tf.SimSettings{}).Validate(); err != nil {
 		t.Error(err)
 	}
-	if err := (tf.StepOptions{}).Validate(); err != nil {
+	if err := (tf.StepSettings{}).Validate(); err != nil {
 		t.Error(err)
 	}
 }

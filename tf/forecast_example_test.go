@@ -27,7 +27,7 @@ func ExampleEstimate_Forecast() {
 	for i := range feed {
 		feed[i] = 10 + rng.NormFloat64()
 	}
-	level, err := truth.Simulate(map[string][]float64{"feed": feed}, &tf.SimSettings{Seed1: 7, Seed2: 8, Sigma: 0.1})
+	level, err := truth.Simulate(map[string][]float64{"feed": feed}, &tf.SimSettings{Seed1: 7, Seed2: 8, Sigma: 0.1, BurnIn: -1})
 	if err != nil {
 		fmt.Println(err)
 		return

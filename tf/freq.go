@@ -3,6 +3,7 @@ package tf
 import (
 	"math"
 	"math/cmplx"
+	"strconv"
 
 	"github.com/backshift/backshift/internal/poly"
 )
@@ -11,7 +12,7 @@ import (
 // delta(e^{-i w}) * e^{-i w b} at each angular frequency w in radians per
 // sample (0 is steady state, pi the Nyquist frequency). A frequency where
 // delta vanishes (a pole on the unit circle, such as w = 0 for an
-// integrator) gives a complex infinity or NaN there; use Bode for checked
+// integrator) gives a complex infinity or NaN there; use GainPhase for checked
 // values. w is not modified.
 func (r Rational) Freq(w []float64) []complex128 {
 	num, den := r.coefs()
@@ -23,7 +24,7 @@ func (r Rational) Freq(w []float64) []complex128 {
 	return h
 }
 
-// Bode returns the magnitude |G(e^{-i w})| and the phase in radians at
+// GainPhase returns the gain (magnitude) |G(e^{-i w})| and the phase in radians at
 // the angular frequencies w (radians per sample), which must be finite and
 // strictly increasing. The phase is unwrapped: the phase of the rational
 // part starts in (-pi, pi] at w[0] and then changes by less than pi
@@ -31,18 +32,19 @@ func (r Rational) Freq(w []float64) []complex128 {
 // numpy.unwrap does), and the dead time adds exactly -b w, so that long
 // dead times are unwrapped correctly even on a coarse grid.
 //
-// It returns an *ArgError for a non-finite or non-increasing frequency
-// and an *UnstableError (What names the frequency) when a pole lies on
-// the unit circle at one of the frequencies (the response is infinite
-// there).
-func (r Rational) Bode(w []float64) (mag, phase []float64, err error) {
+// It returns a *SettingError (Setting "w[i]") for a non-finite or
+// non-increasing frequency and an *UnstableError (What names the
+// frequency) when a pole lies on the unit circle at one of the
+// frequencies (the response is infinite there); Op "tf.Rational.GainPhase".
+func (r Rational) GainPhase(w []float64) (mag, phase []float64, err error) {
+	const op = "tf.Rational.GainPhase"
 	num, den := r.coefs()
 	for i, wi := range w {
 		if math.IsNaN(wi) || math.IsInf(wi, 0) {
-			return nil, nil, &ArgError{Arg: "frequency", Value: wi, Rule: "must be finite"}
+			return nil, nil, setting(op, "w["+strconv.Itoa(i)+"]", wi, "a frequency must be finite (radians per sample)")
 		}
 		if i > 0 && !(wi > w[i-1]) {
-			return nil, nil, &ArgError{Arg: "frequency", Value: wi, Rule: "must be strictly increasing"}
+			return nil, nil, setting(op, "w["+strconv.Itoa(i)+"]", wi, "frequencies must be strictly increasing (w["+strconv.Itoa(i-1)+"] = "+ratFormat(w[i-1])+")")
 		}
 	}
 	mag = make([]float64, len(w))
@@ -52,7 +54,7 @@ func (r Rational) Bode(w []float64) (mag, phase []float64, err error) {
 		z := cmplx.Exp(complex(0, -wi))
 		dz := poly.Eval(den, z)
 		if dz == 0 {
-			return nil, nil, &UnstableError{What: "frequency response at w = " + ratFormat(wi), MaxPole: 1}
+			return nil, nil, &UnstableError{Op: op, What: "frequency response at w = " + ratFormat(wi), MaxPole: 1}
 		}
 		g := poly.Eval(num, z) / dz
 		mag[i] = cmplx.Abs(g)

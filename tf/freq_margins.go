@@ -7,10 +7,10 @@ import (
 	"github.com/backshift/backshift/internal/poly"
 )
 
-// Margins are the classical stability margins of an open loop L under
+// LoopMargins are the classical stability margins of an open loop L under
 // negative feedback (the closed loop L/(1 + L)), read from its frequency
 // response on 0 < w <= pi rad/sample.
-type Margins struct {
+type LoopMargins struct {
 	// GainMargin is the factor by which the loop gain may grow before
 	// the closed loop reaches the stability boundary: 1/|L| at the phase
 	// crossover, where the phase is -180 degrees (mod 360), taking the
@@ -29,17 +29,17 @@ type Margins struct {
 	GainCrossover float64
 }
 
-// GainMarginDB returns the gain margin in decibels, 20 log10(GainMargin),
-// or 0 when there is none.
-func (m Margins) GainMarginDB() float64 {
+// GainMarginDecibels returns the gain margin in decibels,
+// 20 log10(GainMargin), or 0 when there is none.
+func (m LoopMargins) GainMarginDecibels() float64 {
 	if !m.HasGainMargin {
 		return 0
 	}
 	return 20 * math.Log10(m.GainMargin)
 }
 
-// Margins returns the gain and phase margins of r taken as an open loop
-// (for a controller c and a plant p, r = Series(c, p)). The frequency
+// LoopMargins returns the gain and phase margins of r taken as an open
+// loop (for a controller c and a plant p, r = c.Times(p)). The frequency
 // response is scanned on a grid of at least 4096 points in (0, pi], fine
 // enough for the dead time (at least 8 points per pi/b), and each
 // crossover is refined by bisection to 1e-13 rad/sample.
@@ -49,8 +49,9 @@ func (m Margins) GainMarginDB() float64 {
 // (check the closed loop's Stable, or the Nyquist criterion for an
 // unstable open loop). A pole of r on the unit circle within the scanned
 // range (other than an integrator at w = 0, which is excluded) makes the
-// response infinite there; Margins returns an *UnstableError then.
-func (r Rational) Margins() (Margins, error) {
+// response infinite there; LoopMargins returns an *UnstableError then
+// (Op "tf.Rational.LoopMargins").
+func (r Rational) LoopMargins() (LoopMargins, error) {
 	num, den := r.coefs()
 	b := float64(r.delay)
 	n := max(4096, 8*(r.delay+len(den)+len(num)))
@@ -63,7 +64,7 @@ func (r Rational) Margins() (Margins, error) {
 		w[i] = math.Pi * float64(i+1) / float64(n)
 		g, ok := ratEvalRational(num, den, w[i])
 		if !ok {
-			return Margins{}, &UnstableError{What: "margins (pole on the unit circle at w = " + ratFormat(w[i]) + ")", MaxPole: 1}
+			return LoopMargins{}, &UnstableError{Op: "tf.Rational.LoopMargins", What: "margins (pole on the unit circle at w = " + ratFormat(w[i]) + ")", MaxPole: 1}
 		}
 		p := cmplx.Phase(g)
 		if i > 0 {
@@ -81,7 +82,7 @@ func (r Rational) Margins() (Margins, error) {
 		p += 2 * math.Pi * math.Round((ref-p)/(2*math.Pi))
 		return p - b*v, cmplx.Abs(g)
 	}
-	var m Margins
+	var m LoopMargins
 	for i := 0; i+1 < n; i++ {
 		f0, f1 := ph[i]-b*w[i], ph[i+1]-b*w[i+1]
 		// Phase crossovers: levels -pi - 2 pi k between f0 and f1.

@@ -15,7 +15,7 @@ import (
 func TestMarginsPureDelay(t *testing.T) {
 	for _, d := range []int{1, 3, 10, 250} {
 		r := tf.MustRational([]float64{0.5}, []float64{1}, d)
-		m, err := r.Margins()
+		m, err := r.LoopMargins()
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -25,8 +25,8 @@ func TestMarginsPureDelay(t *testing.T) {
 		if m.HasPhaseMargin {
 			t.Errorf("d=%d: |L| = 0.5 has no gain crossover, got %+v", d, m)
 		}
-		if math.Abs(m.GainMarginDB()-20*math.Log10(2)) > 1e-10 {
-			t.Errorf("dB %v", m.GainMarginDB())
+		if math.Abs(m.GainMarginDecibels()-20*math.Log10(2)) > 1e-10 {
+			t.Errorf("dB %v", m.GainMarginDecibels())
 		}
 	}
 }
@@ -43,7 +43,7 @@ func TestMarginsClosedLoop(t *testing.T) {
 		tf.MustRational([]float64{0.05}, []float64{1, -1.9, 0.9}, 1),       // with an integrator
 		tf.MustRational([]float64{0.3, -0.2}, []float64{1, -1.2, 0.72}, 4), // complex poles
 	} {
-		m, err := l.Margins()
+		m, err := l.LoopMargins()
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -52,8 +52,8 @@ func TestMarginsClosedLoop(t *testing.T) {
 			continue
 		}
 		k, _ := tf.Constant(m.GainMargin)
-		scaled, _ := tf.Series(k, l)
-		cl, err := tf.Feedback(scaled, one)
+		scaled, _ := k.Times(l)
+		cl, err := scaled.CloseLoop(one)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -62,13 +62,13 @@ func TestMarginsClosedLoop(t *testing.T) {
 		}
 		// Below the margin the closed loop is stable.
 		k2, _ := tf.Constant(0.99 * m.GainMargin)
-		s2, _ := tf.Series(k2, l)
-		cl2, _ := tf.Feedback(s2, one)
+		s2, _ := k2.Times(l)
+		cl2, _ := s2.CloseLoop(one)
 		if !cl2.Stable() {
 			t.Errorf("%v: closed loop unstable below the gain margin", l)
 		}
 		if m.HasPhaseMargin {
-			mag, ph, err := l.Bode([]float64{m.GainCrossover})
+			mag, ph, err := l.GainPhase([]float64{m.GainCrossover})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -102,7 +102,7 @@ func TestMarginsNumpy(t *testing.T) {
 	near := func(a, b float64) bool { return math.Abs(a-b) <= 1e-9*math.Max(1, math.Abs(b)) }
 	for _, c := range g.Margins {
 		r := tf.MustRational(c.Num, c.Den, c.Delay)
-		m, err := r.Margins()
+		m, err := r.LoopMargins()
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -47,18 +47,18 @@ func TestHostileNormalise(t *testing.T) {
 		msg      string
 	}{
 		{"tiny den[0] overflows num", []float64{10}, []float64{1e-308},
-			"tf: den coefficient 0 (B^0) = 1e-308: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 0 = 10 divided by it is +Inf"},
+			"tf.NewRational: den coefficient 0 (B^0) = 1e-308: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 0 = 10 divided by it is +Inf"},
 		{"tiny den[0] overflows den", []float64{1e-308}, []float64{1e-308, -2},
-			"tf: den coefficient 0 (B^0) = 1e-308: normalising by den[0] (to make it 1) leaves float64 range: den coefficient 1 = -2 divided by it is -Inf"},
+			"tf.NewRational: den coefficient 0 (B^0) = 1e-308: normalising by den[0] (to make it 1) leaves float64 range: den coefficient 1 = -2 divided by it is -Inf"},
 		{"huge den[0] underflows num", []float64{1, 1e-300}, []float64{1e300},
-			"tf: den coefficient 0 (B^0) = 1e+300: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 1 = 1e-300 divided by it is 0"},
+			"tf.NewRational: den coefficient 0 (B^0) = 1e+300: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 1 = 1e-300 divided by it is 0"},
 		{"negative tiny den[0]", []float64{1e300}, []float64{-1e-300},
-			"tf: den coefficient 0 (B^0) = -1e-300: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 0 = 1e+300 divided by it is -Inf"},
+			"tf.NewRational: den coefficient 0 (B^0) = -1e-300: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 0 = 1e+300 divided by it is -Inf"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			r, err := tf.NewRational(c.num, c.den, 0)
 			var ce *tf.CoefError
-			if !errors.As(err, &ce) || ce.Poly != "den" || ce.Index != 0 || ce.Value != c.den[0] || !errors.Is(err, tf.ErrNormalise) {
+			if !errors.As(err, &ce) || ce.Poly != "den" || ce.Index != 0 || ce.Value != c.den[0] || !errors.Is(err, tf.ErrNormalise) || !errors.Is(err, tf.ErrModel) {
 				t.Fatalf("got %v, %v; want *tf.CoefError for den[0] wrapping ErrNormalise", r, err)
 			}
 			if err.Error() != c.msg {

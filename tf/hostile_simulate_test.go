@@ -3,6 +3,7 @@ package tf_test
 import (
 	"errors"
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -10,8 +11,8 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// TestHostileSimulateBurnIn checks that a burn-in above MaxBurnIn is an
-// *ArgError naming BurnIn and the limit, returned at once (BurnIn =
+// TestHostileSimulateBurnIn checks that a burn-in above MaxBurnIn is a
+// *SettingError naming BurnIn and the limit, returned at once (BurnIn =
 // math.MaxInt used to draw innovations practically for ever), and that
 // the limit itself does not apply when Innovations are given (BurnIn is
 // then ignored).
@@ -20,11 +21,11 @@ func TestHostileSimulateBurnIn(t *testing.T) {
 	in := map[string][]float64{"x": {1, 2, 3}}
 	for _, b := range []int{tf.MaxBurnIn + 1, math.MaxInt} {
 		y, err := m.Simulate(in, &tf.SimSettings{Sigma: 1, BurnIn: b})
-		var ae *tf.ArgError
-		if !errors.As(err, &ae) || ae.Arg != "SimSettings.BurnIn" || ae.Value != float64(b) {
-			t.Fatalf("BurnIn %d: got %v, %v; want *tf.ArgError for BurnIn", b, y, err)
+		var se *tf.SettingError
+		if !errors.As(err, &se) || se.Setting != "SimSettings.BurnIn" || se.Value != strconv.Itoa(b) || se.Op != "tf.Model.Simulate" || !errors.Is(err, tf.ErrSetting) {
+			t.Fatalf("BurnIn %d: got %v, %v; want *tf.SettingError for BurnIn", b, y, err)
 		}
-		if !strings.Contains(err.Error(), "must be at most tf.MaxBurnIn (16777216 draws)") {
+		if !strings.Contains(err.Error(), "must be at most tf.MaxBurnIn (16777216 draws); 0 means automatic, a negative value none") {
 			t.Errorf("BurnIn %d: message %q", b, err.Error())
 		}
 	}
@@ -51,14 +52,14 @@ func TestHostileSimulateOverflow(t *testing.T) {
 		{"Sigma 1e308", tf.SimSettings{Sigma: 1e308, Seed1: 1, Seed2: 2},
 			"the output overflowed float64 (noise scale Sigma = 1e+308)"},
 		{"Sigma 1e308 with burn-in", tf.SimSettings{Sigma: 1e308, Seed1: 1, Seed2: 2, BurnIn: 500},
-			"tf: output y: sample 0 is "},
+			"tf.Model.Simulate: output y: step 0 gave "},
 		{"max float Sigma", tf.SimSettings{Sigma: math.MaxFloat64, Seed1: 3, Seed2: 4},
 			"(noise scale Sigma = 1.7976931348623157e+308)"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			y, err := m.Simulate(map[string][]float64{"x": x}, &c.s)
 			var se *tf.SimError
-			if !errors.As(err, &se) || se.Part != "output y" {
+			if !errors.As(err, &se) || se.Part != "output y" || !errors.Is(err, tf.ErrOverflow) {
 				t.Fatalf("got %v, %v; want *tf.SimError for the output", y, err)
 			}
 			if !strings.Contains(err.Error(), c.msg) {
@@ -68,7 +69,7 @@ func TestHostileSimulateOverflow(t *testing.T) {
 	}
 	big := parse.MustModel("y = 2 x")
 	_, err := big.Simulate(map[string][]float64{"x": {1, 1e308}}, nil)
-	if err == nil || err.Error() != "tf: output y: sample 1 is +Inf: the output overflowed float64 (the inputs, the innovations or an unstable term is too large)" {
+	if err == nil || err.Error() != "tf.Model.Simulate: output y: step 1 gave +Inf: the output overflowed float64 (the inputs, the innovations or an unstable term is too large)" {
 		t.Errorf("input overflow: %v", err)
 	}
 }

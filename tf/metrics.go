@@ -3,6 +3,8 @@ package tf
 import (
 	"math"
 	"math/cmplx"
+
+	"github.com/backshift/backshift/internal/errs"
 )
 
 // Span is a duration in samples and, when a sample interval was given, in
@@ -13,11 +15,17 @@ type Span struct {
 	Time    float64
 }
 
-// StepOptions tunes StepMetrics. The zero value gives the defaults; zero
-// means the default and a negative value is an error (Validate).
-type StepOptions struct {
+// StepSettings tunes StepFigures. The zero value gives the defaults;
+// by the settings rule of the library zero means the default and a
+// value outside a field's range is an error (Validate names the field).
+type StepSettings struct {
+	// RiseFrom and RiseTo are the levels, as fractions of the final
+	// value, between which the rise time is measured; 0 means 0.1 and
+	// 0.9 (10 % and 90 %, common practice for a lag with a smooth start).
+	// Each must lie in (0, 1) and RiseFrom below RiseTo.
+	RiseFrom, RiseTo float64
 	// Band is the settling band as a fraction of the final value; 0 means
-	// 0.02 (2 %). It must lie in (0, 1).
+	// 0.02 (2 %, common practice). It must lie in (0, 1).
 	Band float64
 	// Interval is the sample interval in the caller's time unit; 0 means
 	// not given (times reported in samples only). It must be >= 0.
@@ -25,48 +33,71 @@ type StepOptions struct {
 	// Horizon is the number of samples of the step response examined; 0
 	// chooses it from the slowest pole (long enough for that mode to decay
 	// to 1e-3 of the band, at least 4 time constants past the dead time
-	// and numerator), capped at 10^6 samples.
+	// and numerator), capped at 10^6 samples. At most 10^7.
 	Horizon int
 }
 
-// Validate checks the options by the rule of every settings struct of
-// the package (zero means the default, a negative value is an error)
-// and the ranges documented on each field, and returns an *ArgError
-// whose Arg is the field's name ("Band", "Interval", "Horizon") and whose
-// Rule names the struct, or nil.
-func (o StepOptions) Validate() error {
-	if !(o.Band >= 0 && o.Band < 1) {
-		return &ArgError{Arg: "Band", Value: o.Band, Rule: "StepOptions.Band must lie in (0, 1), or be 0 for the default 0.02"}
+// Validate checks the settings by the rule of every settings struct of
+// the library (zero means the default) and the ranges documented on each
+// field, and returns a *SettingError naming the field
+// ("StepSettings.Band"), or nil.
+func (o StepSettings) Validate() error { return o.validate("tf.StepSettings.Validate") }
+
+func (o StepSettings) validate(op string) error {
+	for _, c := range []struct {
+		name string
+		v    float64
+		def  string
+	}{{"RiseFrom", o.RiseFrom, "0.1"}, {"RiseTo", o.RiseTo, "0.9"}, {"Band", o.Band, "0.02"}} {
+		if !(c.v >= 0 && c.v < 1) {
+			return setting(op, "StepSettings."+c.name, c.v, "must lie in (0, 1), or be 0 for the default "+c.def)
+		}
 	}
-	if !(o.Interval >= 0) || math.IsInf(o.Interval, 0) {
-		return &ArgError{Arg: "Interval", Value: o.Interval, Rule: "StepOptions.Interval must be finite and >= 0 (0: not given)"}
+	if from, to := o.rise(); from >= to {
+		return setting(op, "StepSettings.RiseFrom", from, "must lie below StepSettings.RiseTo ("+ratFormat(to)+")")
+	}
+	if err := errs.NonNegative(op, "StepSettings.Interval", o.Interval, "0: not given, times in samples only"); err != nil {
+		return err
 	}
 	if o.Horizon < 0 || o.Horizon > 1e7 {
-		return &ArgError{Arg: "Horizon", Value: float64(o.Horizon), Rule: "StepOptions.Horizon must lie in 0..10^7 (0: chosen from the slowest pole)"}
+		return intSetting(op, "StepSettings.Horizon", o.Horizon, "must lie in 0..10^7 (0: chosen from the slowest pole)")
 	}
 	return nil
 }
 
-// StepSummary describes the unit step response of a stable term, for people
-// tuning controllers. Times count samples from the step at t = 0 (the
-// input is 1 from sample 0 on); rise and settling times are interpolated
-// linearly between samples.
-type StepSummary struct {
+// rise returns the rise levels with their defaults.
+func (o StepSettings) rise() (from, to float64) {
+	from, to = o.RiseFrom, o.RiseTo
+	if from == 0 {
+		from = 0.1
+	}
+	if to == 0 {
+		to = 0.9
+	}
+	return from, to
+}
+
+// StepFigures describes the unit step response of a stable term, for
+// people tuning controllers. Times count samples from the step at t = 0
+// (the input is 1 from sample 0 on); rise and settling times are
+// interpolated linearly between samples. The levels used (RiseFrom,
+// RiseTo, Band) are reported with the figures.
+type StepFigures struct {
 	// Final is the final value, the steady-state gain.
 	Final float64
-	// Rise is the 10 % to 90 % rise time: from the first crossing of 10 %
-	// of Final to the first crossing of 90 %; NaN when 90 % is not reached
+	// Rise is the time from the first crossing of RiseFrom*Final to
+	// the first crossing of RiseTo*Final; NaN when RiseTo is not reached
 	// within the horizon. A level already reached at sample 0 (direct
 	// feedthrough) counts as crossed at 0.
 	Rise Span
-	// Settling is the time after which the response stays within
+	// Settle is the time after which the response stays within
 	// Band*|Final| of Final until the end of the horizon; NaN when the
 	// last sample of the horizon is still outside the band.
-	Settling Span
+	Settle Span
 	// Peak is the extreme value in the direction of Final (the maximum for
-	// a positive gain), PeakTime the sample where it is first reached.
-	Peak     float64
-	PeakTime Span
+	// a positive gain), PeakAt the sample where it is first reached.
+	Peak   float64
+	PeakAt Span
 	// Overshoot is (Peak - Final)/Final as a fraction (0.25 = 25 %), 0
 	// when the response never passes Final.
 	Overshoot float64
@@ -74,34 +105,39 @@ type StepSummary struct {
 	// of |Final| (inverse response of a non-minimum-phase term), 0 when
 	// there is none.
 	Undershoot float64
-	// Band is the settling band used; Horizon the samples examined.
-	Band    float64
-	Horizon int
+	// RiseFrom and RiseTo are the rise levels used, Band the settling
+	// band; Horizon the samples examined.
+	RiseFrom, RiseTo float64
+	Band             float64
+	Horizon          int
 }
 
-// StepMetrics returns rise time, settling time, overshoot and peak of the
-// unit step response (see StepSummary), computed on the exact sampled step
-// response. It returns an *UnstableError for a term that is not stable,
-// an *ArgError for a bad option or a zero gain (no step to measure), and
-// a *GainError when the gain does not exist.
-func (r Rational) StepMetrics(o StepOptions) (StepSummary, error) {
-	if err := o.Validate(); err != nil {
-		return StepSummary{}, err
+// StepFigures returns rise time, settling time, overshoot and peak of the
+// unit step response (see StepFigures), computed on the exact sampled
+// step response. Errors (Op "tf.Rational.StepFigures"): an
+// *UnstableError for a term that is not stable, a *SettingError for a
+// bad setting, a *ModelError for a zero gain (no step to measure), and a
+// *GainError when the gain does not exist.
+func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
+	const op = "tf.Rational.StepFigures"
+	if err := o.validate(op); err != nil {
+		return StepFigures{}, err
 	}
 	band := o.Band
 	if band == 0 {
 		band = 0.02
 	}
+	from, to := o.rise()
 	rho := r.MaxPoleMagnitude()
 	if !(rho < 1) {
-		return StepSummary{}, &UnstableError{What: "step metrics", MaxPole: rho}
+		return StepFigures{}, &UnstableError{Op: op, What: "step figures", MaxPole: rho}
 	}
-	g, err := r.Gain()
+	g, err := r.gain()
 	if err != nil {
-		return StepSummary{}, err
+		return StepFigures{}, withOp(op, err)
 	}
 	if g == 0 {
-		return StepSummary{}, &ArgError{Arg: "gain", Value: 0, Rule: "must be non-zero for step metrics"}
+		return StepFigures{}, &ModelError{Op: op, Part: "gain", Problem: "is 0: a term with no steady-state change has no step figures"}
 	}
 	n := o.Horizon
 	if n == 0 {
@@ -114,7 +150,7 @@ func (r Rational) StepMetrics(o StepOptions) (StepSummary, error) {
 		n = min(n, 1000000)
 	}
 	y := r.Step(n)
-	info := StepSummary{Final: g, Band: band, Horizon: n}
+	info := StepFigures{Final: g, RiseFrom: from, RiseTo: to, Band: band, Horizon: n}
 	span := func(s float64) Span { return Span{Samples: s, Time: s * o.Interval} }
 	// Work on the normalised response u = y/g, which rises toward 1.
 	cross := func(level float64) float64 {
@@ -131,8 +167,7 @@ func (r Rational) StepMetrics(o StepOptions) (StepSummary, error) {
 		}
 		return math.NaN()
 	}
-	t10, t90 := cross(0.1), cross(0.9)
-	info.Rise = span(t90 - t10)
+	info.Rise = span(cross(to) - cross(from))
 	peak, kPeak, under := 0.0, 0, 0.0
 	for k, v := range y {
 		u := v / g
@@ -142,7 +177,7 @@ func (r Rational) StepMetrics(o StepOptions) (StepSummary, error) {
 		under = max(under, -u)
 	}
 	info.Peak = peak * g
-	info.PeakTime = span(float64(kPeak))
+	info.PeakAt = span(float64(kPeak))
 	info.Overshoot = max(peak-1, 0)
 	info.Undershoot = under
 	// Settling: last sample outside the band, then interpolate the entry.
@@ -155,12 +190,12 @@ func (r Rational) StepMetrics(o StepOptions) (StepSummary, error) {
 	}
 	switch {
 	case last < 0:
-		info.Settling = span(0)
+		info.Settle = span(0)
 	case last == len(y)-1:
-		info.Settling = span(math.NaN())
+		info.Settle = span(math.NaN())
 	default:
 		e0, e1 := math.Abs(y[last]/g-1), math.Abs(y[last+1]/g-1)
-		info.Settling = span(float64(last) + (e0-band)/(e0-e1))
+		info.Settle = span(float64(last) + (e0-band)/(e0-e1))
 	}
 	return info, nil
 }
@@ -208,11 +243,11 @@ type Mode struct {
 
 // Modes returns one Mode per real pole and per complex-conjugate pair, in
 // the order of Poles. interval is the sample interval in the caller's
-// time unit, or 0 when not given. It returns an *ArgError for a negative
-// or non-finite interval.
+// time unit, or 0 when not given. It returns a *SettingError for a
+// negative or non-finite interval.
 func (r Rational) Modes(interval float64) ([]Mode, error) {
-	if !(interval >= 0) || math.IsInf(interval, 0) {
-		return nil, &ArgError{Arg: "interval", Value: interval, Rule: "must be finite and >= 0"}
+	if err := errs.NonNegative("tf.Rational.Modes", "interval", interval, "0: not given, times in samples only"); err != nil {
+		return nil, err
 	}
 	var out []Mode
 	for _, z := range r.Poles() {

@@ -7,19 +7,19 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// TestStepMetricsFirstOrder: a first-order lag of time constant tau has
+// TestStepFiguresFirstOrder: a first-order lag of time constant tau has
 // the 10-90 % rise time tau ln 9 and the 2 % settling time tau ln 50
 // (common practice: solve 1 - e^{-t/tau} = level). The discretised lag
 // reproduces the continuous response at the samples; linear interpolation
 // between samples shifts a crossing by about 1/(8 tau) samples, hence the
 // tolerance of 0.01 samples for tau = 20.
-func TestStepMetricsFirstOrder(t *testing.T) {
+func TestStepFiguresFirstOrder(t *testing.T) {
 	const tau = 20.0
 	r, err := tf.FOPDT{Gain: 3, TimeConstant: tau}.Discretize(1)
 	if err != nil {
 		t.Fatal(err)
 	}
-	info, err := r.StepMetrics(tf.StepOptions{Interval: 0.5})
+	info, err := r.StepFigures(tf.StepSettings{Interval: 0.5})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -29,16 +29,25 @@ func TestStepMetricsFirstOrder(t *testing.T) {
 	if math.Abs(info.Rise.Time-0.5*info.Rise.Samples) > 1e-12 {
 		t.Errorf("rise time %v, want samples*0.5", info.Rise.Time)
 	}
-	if math.Abs(info.Settling.Samples-tau*math.Log(50)) > 0.01 {
-		t.Errorf("settling %v samples, want %v", info.Settling.Samples, tau*math.Log(50))
+	if math.Abs(info.Settle.Samples-tau*math.Log(50)) > 0.01 {
+		t.Errorf("settling %v samples, want %v", info.Settle.Samples, tau*math.Log(50))
 	}
 	if info.Overshoot != 0 || info.Undershoot != 0 || math.Abs(info.Final-3) > 1e-12 {
 		t.Errorf("overshoot %v undershoot %v final %v", info.Overshoot, info.Undershoot, info.Final)
 	}
+	if info.RiseFrom != 0.1 || info.RiseTo != 0.9 || info.Band != 0.02 {
+		t.Errorf("levels reported %v, %v, %v; want the defaults 0.1, 0.9, 0.02", info.RiseFrom, info.RiseTo, info.Band)
+	}
 	// A 5 % band settles at tau ln 20.
-	info5, _ := r.StepMetrics(tf.StepOptions{Band: 0.05})
-	if math.Abs(info5.Settling.Samples-tau*math.Log(20)) > 0.01 {
-		t.Errorf("5 %% settling %v, want %v", info5.Settling.Samples, tau*math.Log(20))
+	info5, _ := r.StepFigures(tf.StepSettings{Band: 0.05})
+	if math.Abs(info5.Settle.Samples-tau*math.Log(20)) > 0.01 {
+		t.Errorf("5 %% settling %v, want %v", info5.Settle.Samples, tau*math.Log(20))
+	}
+	// Rise levels 5 % to 95 %: tau (ln 20 - ln(20/19)) = tau ln 19 (the
+	// same closed form), reported with the figures.
+	wide, _ := r.StepFigures(tf.StepSettings{RiseFrom: 0.05, RiseTo: 0.95})
+	if math.Abs(wide.Rise.Samples-tau*math.Log(19)) > 0.01 || wide.RiseFrom != 0.05 || wide.RiseTo != 0.95 {
+		t.Errorf("5-95 %% rise %v samples (levels %v, %v), want %v", wide.Rise.Samples, wide.RiseFrom, wide.RiseTo, tau*math.Log(19))
 	}
 	modes, err := r.Modes(0.5)
 	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeReal {
@@ -49,17 +58,17 @@ func TestStepMetricsFirstOrder(t *testing.T) {
 	}
 }
 
-// TestStepMetricsUnderdamped: the standard second-order lag overshoots by
+// TestStepFiguresUnderdamped: the standard second-order lag overshoots by
 // exp(-pi zeta / sqrt(1 - zeta^2)) at the peak time pi/wd (common
 // practice). Sampling 300 times per period keeps the sampled peak within
 // 1e-3 of the continuous one and its time within a sample.
-func TestStepMetricsUnderdamped(t *testing.T) {
+func TestStepFiguresUnderdamped(t *testing.T) {
 	const zeta, wn = 0.3, 0.02 // wn in rad/sample (T = 1)
 	r, err := tf.SecondOrder{Gain: -2, NaturalFrequency: wn, Damping: zeta}.Discretize(1)
 	if err != nil {
 		t.Fatal(err)
 	}
-	info, err := r.StepMetrics(tf.StepOptions{})
+	info, err := r.StepFigures(tf.StepSettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -68,14 +77,14 @@ func TestStepMetricsUnderdamped(t *testing.T) {
 		t.Errorf("overshoot %v, want %v", info.Overshoot, wantOS)
 	}
 	wd := wn * math.Sqrt(1-zeta*zeta)
-	if math.Abs(info.PeakTime.Samples-math.Pi/wd) > 1 {
-		t.Errorf("peak time %v, want %v", info.PeakTime.Samples, math.Pi/wd)
+	if math.Abs(info.PeakAt.Samples-math.Pi/wd) > 1 {
+		t.Errorf("peak time %v, want %v", info.PeakAt.Samples, math.Pi/wd)
 	}
 	if math.Abs(info.Peak-(-2)*(1+wantOS)) > 2e-3 {
 		t.Errorf("peak %v for a negative gain, want %v", info.Peak, -2*(1+wantOS))
 	}
-	if info.Band != 0.02 || math.IsNaN(info.Settling.Samples) {
-		t.Errorf("band %v settling %v", info.Band, info.Settling)
+	if info.Band != 0.02 || math.IsNaN(info.Settle.Samples) {
+		t.Errorf("band %v settling %v", info.Band, info.Settle)
 	}
 	modes, err := r.Modes(2)
 	if err != nil || len(modes) != 1 || modes[0].Kind != tf.ModeComplex {
@@ -88,12 +97,12 @@ func TestStepMetricsUnderdamped(t *testing.T) {
 	}
 }
 
-// TestStepMetricsInverseResponse: omega = -0.5 + 0.9 B over
+// TestStepFiguresInverseResponse: omega = -0.5 + 0.9 B over
 // 1 - 1.3 B + 0.42 B^2 starts at -0.5 while its gain is 0.4/0.12, so the
 // undershoot is 0.5/(10/3) = 0.15 exactly, by hand.
-func TestStepMetricsInverseResponse(t *testing.T) {
+func TestStepFiguresInverseResponse(t *testing.T) {
 	r := tf.MustRational([]float64{-0.5, 0.9}, []float64{1, -1.3, 0.42}, 0)
-	info, err := r.StepMetrics(tf.StepOptions{})
+	info, err := r.StepFigures(tf.StepSettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -105,13 +114,13 @@ func TestStepMetricsInverseResponse(t *testing.T) {
 	}
 }
 
-// TestBodeLongDeadTime: B^300 has unit magnitude and phase -300 w exactly
+// TestGainPhaseLongDeadTime: B^300 has unit magnitude and phase -300 w exactly
 // (by hand); on a grid of spacing 0.1 rad/sample a wrapped phase would
 // jump, the exact dead-time term does not.
-func TestBodeLongDeadTime(t *testing.T) {
+func TestGainPhaseLongDeadTime(t *testing.T) {
 	r := tf.MustRational([]float64{1}, []float64{1}, 300)
 	w := []float64{0, 0.1, 0.2, 0.3, 1, 2, 3}
-	mag, ph, err := r.Bode(w)
+	mag, ph, err := r.GainPhase(w)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -175,11 +184,11 @@ func TestModeKinds(t *testing.T) {
 	// Step metrics of the FIR moving average: reaches 1 at sample 3, no
 	// overshoot, settled (within 2 %) from sample 3 on, interpolated
 	// entry between samples 2 (0.75) and 3 (1.0): 2 + (0.25-0.02)/0.25.
-	info, err := fir.StepMetrics(tf.StepOptions{})
+	info, err := fir.StepFigures(tf.StepSettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(info.Settling.Samples-(2+0.23/0.25)) > 1e-12 || info.Overshoot != 0 || info.PeakTime.Samples != 3 {
+	if math.Abs(info.Settle.Samples-(2+0.23/0.25)) > 1e-12 || info.Overshoot != 0 || info.PeakAt.Samples != 3 {
 		t.Errorf("FIR step info %+v", info)
 	}
 	// 10 % is already exceeded at sample 0 (0.25, direct feedthrough),
@@ -192,8 +201,8 @@ func TestModeKinds(t *testing.T) {
 	}
 	// A horizon too short to settle reports NaN settling.
 	slow := tf.MustRational([]float64{0.01}, []float64{1, -0.99}, 0)
-	short, err := slow.StepMetrics(tf.StepOptions{Horizon: 50})
-	if err != nil || !math.IsNaN(short.Settling.Samples) || !math.IsNaN(short.Rise.Samples) {
+	short, err := slow.StepFigures(tf.StepSettings{Horizon: 50})
+	if err != nil || !math.IsNaN(short.Settle.Samples) || !math.IsNaN(short.Rise.Samples) {
 		t.Errorf("short horizon: %+v, %v", short, err)
 	}
 }

@@ -17,6 +17,12 @@ type Pos = sym.Pos
 // or estimate), or a named parameter held at Value.
 type Coef = sym.Coef
 
+// Noise is the noise term theta(B)/phi(B) a_t of a model: MA is theta,
+// AR is phi, each with constant term 1 (the zero Noise is white noise).
+// It is arma's type under tf's name, so that a program builds a model
+// from tf's exports alone.
+type Noise = arma.Noise
+
 // Term is one signed summand Coef B^Power of a factor.
 type Term = sym.Term
 
@@ -42,9 +48,18 @@ type Input struct {
 	Pos    Pos
 }
 
-// Interval is the sample interval of a model: Value in Unit, one of "s",
-// "min", "h", "d". The zero Interval means the interval is not given and
-// times are reported in samples only.
+// Interval is the sample interval of a model: Value in Unit, one of the
+// clock units "s", "min", "h", "d", "wk" (7 days) or the calendar units
+// "mo" (a month), "qtr" (3 months), "yr" (12 months); see ValidUnit. The
+// zero Interval means the interval is not given and times are reported
+// in samples only.
+//
+// Time figures (dead times, time constants, rise and settling times) are
+// reported in the interval's own unit: samples times Value, in Unit. For
+// a clock unit they convert to seconds with Seconds. A calendar unit is
+// not a fixed number of seconds (a month has 28 to 31 days), so for it
+// Seconds returns ok = false and figures stay in the calendar unit
+// (Months converts between mo, qtr and yr).
 type Interval struct {
 	Value float64
 	Unit  string
@@ -55,14 +70,14 @@ type Interval struct {
 //	Diff(B) y_t = c + sum_i Num_i(B)/Den_i(B) B^b_i Diff_i(B) x_i,t + theta(B)/phi(B) a_t
 //
 // Output names y; Const is the constant c (nil for none); Noise is the
-// noise term (nil for a noise-free model, the zero arma.Noise for white
+// noise term (nil for a noise-free model, the zero Noise for white
 // noise).
 type Model struct {
 	Output   string
 	Diff     Poly
 	Const    *Coef
 	Inputs   []Input
-	Noise    *arma.Noise
+	Noise    *Noise
 	Interval Interval
 }
 
@@ -122,8 +137,18 @@ func (m Model) Equal(o Model) bool {
 // *ModelError naming the first part at fault, or nil. It does not check
 // what depends on the values' meaning (a zero constant term of a
 // denominator, stability); Fit, Model.Simulate and NewSystem report
-// those themselves, and call Validate first.
+// those themselves, and call Validate first (their errors carry their
+// own Op; Validate's carry "tf.Model.Validate").
 func (m Model) Validate() error {
+	if err := m.validate(); err != nil {
+		return withOp("tf.Model.Validate", err)
+	}
+	return nil
+}
+
+// validate is Validate with errors carrying no Op, for the exported
+// functions that check a model and set their own.
+func (m Model) validate() error {
 	if err := modelCheckPoly(m.Diff, "output "+m.Output+" differencing"); err != nil {
 		return err
 	}

@@ -19,6 +19,12 @@ import "strconv"
 // NaN or infinite value or a denominator whose constant term is zero;
 // *DelayError for a dead time outside 0..MaxDelay).
 func (in Input) Rational() (Rational, error) {
+	r, err := in.rational()
+	return r, composeErr("tf.Input.Rational", err)
+}
+
+// rational is Rational with errors carrying no Op.
+func (in Input) rational() (Rational, error) {
 	part := "input " + strconv.Quote(in.Series)
 	if err := modelCheckPoly(in.Num, part+" numerator"); err != nil {
 		return Rational{}, err
@@ -26,7 +32,7 @@ func (in Input) Rational() (Rational, error) {
 	if err := modelCheckPoly(in.Den, part+" denominator"); err != nil {
 		return Rational{}, err
 	}
-	return NewRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
+	return newRational(in.Num.Coeffs(), in.Den.Coeffs(), in.Delay)
 }
 
 // DiffCoeffs returns the expanded differencing of the input series,
@@ -68,6 +74,12 @@ func (m Model) NoiseCoeffs() (ma, ar []float64, ok bool) {
 // nil) gives the zero Rational. Errors: a *ModelError for a polynomial
 // that Model.Validate refuses, and NewRational's.
 func (m Model) NoiseRational() (Rational, error) {
+	r, err := m.noiseRational()
+	return r, composeErr("tf.Model.NoiseRational", err)
+}
+
+// noiseRational is NoiseRational with errors carrying no Op.
+func (m Model) noiseRational() (Rational, error) {
 	if m.Noise == nil {
 		return Rational{}, nil
 	}
@@ -77,7 +89,7 @@ func (m Model) NoiseRational() (Rational, error) {
 	if err := modelCheckPoly(m.Noise.AR, "noise AR"); err != nil {
 		return Rational{}, err
 	}
-	return NewRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
+	return newRational(m.Noise.MA.Coeffs(), m.Noise.AR.Coeffs(), 0)
 }
 
 // Params returns the named coefficients of m, one per name in order of
@@ -109,8 +121,10 @@ func (m Model) Params() []Coef {
 }
 
 // Seconds returns the sample interval in seconds (units s = 1 s, min =
-// 60 s, h = 3600 s, d = 86400 s) and ok = true, or 0 and false for the
-// zero Interval or an unknown unit.
+// 60 s, h = 3600 s, d = 86400 s, wk = 604800 s) and ok = true, or 0 and
+// false for the zero Interval, an unknown unit and a calendar unit (mo,
+// qtr, yr: a month is 28 to 31 days, not a fixed number of seconds; see
+// Interval).
 func (iv Interval) Seconds() (float64, bool) {
 	var f float64
 	switch iv.Unit {
@@ -122,8 +136,43 @@ func (iv Interval) Seconds() (float64, bool) {
 		f = 3600
 	case "d":
 		f = 86400
+	case "wk":
+		f = 7 * 86400
 	default:
 		return 0, false
 	}
 	return iv.Value * f, true
+}
+
+// Months returns the sample interval in months for a calendar unit (mo =
+// 1, qtr = 3, yr = 12) and ok = true, or 0 and false for a clock unit,
+// an unknown unit or the zero Interval.
+func (iv Interval) Months() (float64, bool) {
+	var f float64
+	switch iv.Unit {
+	case "mo":
+		f = 1
+	case "qtr":
+		f = 3
+	case "yr":
+		f = 12
+	default:
+		return 0, false
+	}
+	return iv.Value * f, true
+}
+
+// Calendar reports whether the unit is a calendar unit (mo, qtr, yr),
+// whose length in seconds varies.
+func (iv Interval) Calendar() bool { _, ok := iv.Months(); return ok }
+
+// ValidUnit reports whether u is a unit of a sample interval: one of the
+// clock units "s", "min", "h", "d", "wk" or the calendar units "mo",
+// "qtr", "yr".
+func ValidUnit(u string) bool {
+	switch u {
+	case "s", "min", "h", "d", "wk", "mo", "qtr", "yr":
+		return true
+	}
+	return false
 }

@@ -79,7 +79,7 @@ func (p *Plant) Err() error {
 	case !p.r.Stable():
 		why = "float64 overflowed: the term is unstable (a pole on or outside the unit circle) and grew without bound"
 	}
-	return &SimError{Part: "plant", Problem: "step " + strconv.Itoa(p.bad-1) + " gave " + strconv.FormatFloat(y, 'g', -1, 64) + ": " + why}
+	return &SimError{Op: "tf.Plant.Step", Part: "plant", Step: p.bad - 1, Value: y, Problem: why, sample: u-u != 0}
 }
 
 // Reset returns the plant to rest: all past inputs and outputs zero. It
@@ -97,11 +97,11 @@ func (p *Plant) Reset() {
 // state is an equilibrium that any disturbance leaves.
 func (p *Plant) SetSteady(u float64) error {
 	if math.IsNaN(u) || math.IsInf(u, 0) {
-		return &SampleError{Series: "steady input", Index: 0, Value: u}
+		return &SampleError{Op: "tf.Plant.SetSteady", Series: "steady input", Index: 0, Value: u}
 	}
-	g, err := p.r.Gain()
+	g, err := p.r.gain()
 	if err != nil {
-		return err
+		return withOp("tf.Plant.SetSteady", err)
 	}
 	xh, yh := ratSteadyHistory(p.r, u, g*u)
 	p.st.SetHistory(xh, yh)
@@ -117,10 +117,10 @@ func (p *Plant) SetSteady(u float64) error {
 // infinite value, leaving the plant as it was.
 func (p *Plant) SetHistory(pastInput, pastOutput []float64) error {
 	if err := ratCheckSeries("past input", pastInput); err != nil {
-		return err
+		return withOp("tf.Plant.SetHistory", err)
 	}
 	if err := ratCheckSeries("past output", pastOutput); err != nil {
-		return err
+		return withOp("tf.Plant.SetHistory", err)
 	}
 	p.st.SetHistory(pastInput, pastOutput)
 	p.t, p.bad = 0, 0

@@ -357,3 +357,37 @@ func prNum(b *strings.Builder, v float64) {
 	var buf [32]byte
 	b.Write(strconv.AppendFloat(buf[:0], v, 'g', -1, 64))
 }
+
+// Held returns a copy of m (sharing nothing with it) in which every free
+// coefficient is held at its Value: a fitted model, whose free
+// coefficients carry the estimates, prints as "name = estimate" instead of
+// "name ~ estimate", the form a configuration file or a simulation wants,
+// where the model is to be used as it is rather than fitted again. Parsed
+// back (package parse) it equals Held's result; fitting it again leaves
+// every coefficient where it is.
+func (m Model) Held() Model {
+	h := m.Clone()
+	if h.Const != nil {
+		h.Const.Free = false
+	}
+	for i := range h.Inputs {
+		holdPoly(h.Inputs[i].Num)
+		holdPoly(h.Inputs[i].Den)
+		holdPoly(h.Inputs[i].Diff)
+	}
+	holdPoly(h.Diff)
+	if h.Noise != nil {
+		holdPoly(h.Noise.MA)
+		holdPoly(h.Noise.AR)
+	}
+	return h
+}
+
+// holdPoly marks every coefficient of p (a clone's own) as held.
+func holdPoly(p Poly) {
+	for _, f := range p.Factors {
+		for k := range f.Terms {
+			f.Terms[k].Coef.Free = false
+		}
+	}
+}

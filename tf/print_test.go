@@ -1,12 +1,13 @@
 package tf_test
 
 import (
+	"context"
 	"math"
+	"math/rand/v2"
 	"strconv"
 	"strings"
 	"testing"
 
-	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
@@ -26,7 +27,7 @@ func TestPrintCodeBuilt(t *testing.T) {
 			{Series: "flow", Diff: sym.FromCoeffs([]float64{1, -1}), Delay: 1},
 			{Series: "level", Num: tf.Poly{Factors: []tf.Factor{{Terms: []tf.Term{{Coef: tf.Coef{Name: "k", Value: 2, Free: false}}}, Exp: 1}}}},
 		},
-		Noise:    &arma.Noise{AR: sym.FromCoeffs([]float64{1, -0.5, 0.25})},
+		Noise:    &tf.Noise{AR: sym.FromCoeffs([]float64{1, -0.5, 0.25})},
 		Interval: tf.Interval{Value: 0.5, Unit: "min"},
 	}
 	// The expected text is the package's own notation (the Model.String
@@ -110,5 +111,54 @@ func TestPrintManyNames(t *testing.T) {
 	}
 	if !strings.HasSuffix(text, " where w0 ~ 1, w3 = 3, w6 = 6, w9 = 9, w12 = 12, w15 = 15, w18 = 18, w21 = 21, w24 = 24, w27 = 27, w30 = 30, w33 = 33, w36 = 36, w39 = 39") {
 		t.Errorf("where clause: %s", text)
+	}
+}
+
+// TestHeldRoundTrip: a fitted model prints its estimates as free ("~");
+// Held prints them held ("="), reads back through parse to the same
+// model, leaves the estimate untouched, and a fit of the held model
+// moves nothing (every coefficient is held, so there is nothing to fit).
+func TestHeldRoundTrip(t *testing.T) {
+	truth := parse.MustModel("y = 2 + 0.8 / (1 - 0.6 B) B x + 1 / (1 - 0.4 B) a")
+	rng := rand.New(rand.NewPCG(5, 6))
+	x := make([]float64, 300)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+	}
+	y, err := truth.Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec := parse.MustModel("y = c + w0 / (1 - d1 B) B x + 1 / (1 - p1 B) a where w0 ~ 0.5, d1 ~ 0.3")
+	est, err := tf.Fit(context.Background(), spec, map[string][]float64{"y": y, "x": x}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	before := est.Model.String()
+	if !strings.Contains(before, "w0 ~ ") {
+		t.Fatalf("fitted model prints %q, want w0 ~ estimate", before)
+	}
+	held := est.Model.Held()
+	text := held.String()
+	for _, p := range est.Params {
+		want := p.Name + " = " + strconv.FormatFloat(p.Value, 'g', -1, 64)
+		if !strings.Contains(text, want) {
+			t.Errorf("held model %q lacks %q", text, want)
+		}
+	}
+	if strings.Contains(text, "~") {
+		t.Errorf("held model %q still has a free coefficient", text)
+	}
+	back, err := parse.Model(text)
+	if err != nil || !back.Equal(held) {
+		t.Fatalf("round trip of %q: %v, %v", text, back, err)
+	}
+	if est.Model.String() != before || len(est.Model.Params()) == 0 || !est.Model.Params()[0].Free {
+		t.Errorf("Held changed the estimate's model: %q", est.Model.String())
+	}
+	for _, c := range back.Params() {
+		if c.Free {
+			t.Errorf("parsed held model has %s free", c.Name)
+		}
 	}
 }

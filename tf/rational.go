@@ -45,7 +45,8 @@ type Rational struct {
 // coefficients at the high-power end are dropped (a numerator of zeros
 // becomes {0}).
 //
-// It returns a *CoefError for an empty polynomial, a denominator with a
+// Errors carry Op "tf.NewRational". It returns a *CoefError (matching
+// ErrModel and its precise cause) for an empty polynomial, a denominator with a
 // zero constant term, a NaN or infinite coefficient, a degree (after
 // dropping trailing zeros) above MaxDegree, or a den[0] that the
 // normalisation cannot divide by (ErrNormalise, reported for den
@@ -53,6 +54,16 @@ type Rational struct {
 // delay outside 0..MaxDelay. On error the returned Rational is the zero
 // value.
 func NewRational(num, den []float64, delay int) (Rational, error) {
+	r, err := newRational(num, den, delay)
+	if err != nil {
+		return Rational{}, withOp("tf.NewRational", err)
+	}
+	return r, nil
+}
+
+// newRational is NewRational with errors carrying no Op, for the
+// exported functions that build a Rational and set their own.
+func newRational(num, den []float64, delay int) (Rational, error) {
 	if err := ratCheckPoly("num", num); err != nil {
 		return Rational{}, err
 	}
@@ -119,7 +130,7 @@ func ratNormalise(name string, c []float64, d0 float64) error {
 func MustRational(num, den []float64, delay int) Rational {
 	r, err := NewRational(num, den, delay)
 	if err != nil {
-		panic(err)
+		panic(withOp("tf.MustRational", err))
 	}
 	return r
 }
@@ -230,8 +241,8 @@ func (r Rational) Step(n int) []float64 {
 // +-Inf and then NaN within the series, as its difference equation does.
 func (r Rational) Filter(x []float64) ([]float64, error) {
 	y := make([]float64, len(x))
-	if err := r.FilterTo(y, x); err != nil {
-		return nil, err
+	if err := r.filterChecked(y, x); err != nil {
+		return nil, withOp("tf.Rational.Filter", err)
 	}
 	return y, nil
 }
@@ -244,6 +255,14 @@ func (r Rational) FilterTo(dst, x []float64) error {
 	if len(dst) != len(x) {
 		panic("tf: FilterTo: dst and x lengths differ")
 	}
+	if err := r.filterChecked(dst, x); err != nil {
+		return withOp("tf.Rational.FilterTo", err)
+	}
+	return nil
+}
+
+// filterChecked is FilterTo without the length check and the Op.
+func (r Rational) filterChecked(dst, x []float64) error {
 	num, den := r.coefs()
 	n := len(x)
 	b := min(r.delay, n)
@@ -308,11 +327,11 @@ type Past struct {
 // z = 1) and a *SampleError for a non-finite u.
 func (r Rational) SteadyPast(u float64) (Past, error) {
 	if math.IsNaN(u) || math.IsInf(u, 0) {
-		return Past{}, &SampleError{Series: "steady input", Index: 0, Value: u}
+		return Past{}, &SampleError{Op: "tf.Rational.SteadyPast", Series: "steady input", Index: 0, Value: u}
 	}
-	g, err := r.Gain()
+	g, err := r.gain()
 	if err != nil {
-		return Past{}, err
+		return Past{}, withOp("tf.Rational.SteadyPast", err)
 	}
 	xh, yh := ratSteadyHistory(r, u, g*u)
 	return Past{Input: xh, Output: yh}, nil
@@ -324,14 +343,13 @@ func (r Rational) SteadyPast(u float64) (Past, error) {
 // *SampleError (Series "input", "past input" or "past output") for a NaN
 // or infinite value. p is read, never modified.
 func (r Rational) FilterFrom(x []float64, p Past) ([]float64, error) {
-	if err := ratCheckSeries("input", x); err != nil {
-		return nil, err
-	}
-	if err := ratCheckSeries("past input", p.Input); err != nil {
-		return nil, err
-	}
-	if err := ratCheckSeries("past output", p.Output); err != nil {
-		return nil, err
+	for _, c := range [...]struct {
+		name string
+		x    []float64
+	}{{"input", x}, {"past input", p.Input}, {"past output", p.Output}} {
+		if err := ratCheckSeries(c.name, c.x); err != nil {
+			return nil, withOp("tf.Rational.FilterFrom", err)
+		}
 	}
 	num, den := r.coefs()
 	n, b := len(x), r.delay

@@ -27,7 +27,7 @@ func ExampleNewRational_error() {
 	_, err := tf.NewRational([]float64{1}, []float64{0, 1}, 0)
 	fmt.Println(err)
 	// Output:
-	// tf: den coefficient 0 (B^0) = 0: constant term is zero
+	// tf.NewRational: den coefficient 0 (B^0) = 0: constant term is zero
 }
 
 // A first-order-plus-dead-time process with gain 2, time constant 5 s and
@@ -49,20 +49,20 @@ func ExampleFOPDT_Discretize() {
 
 // Closing a loop: a proportional-integral controller on the heater, and
 // the closed-loop set-point response's metrics.
-func ExampleFeedback() {
+func ExampleRational_CloseLoop() {
 	plant := tf.MustRational([]float64{0.5}, []float64{1, -0.8}, 2)
 	// PI controller Kc = 0.6, Ti = 4 samples: (Kc (1 + 1/Ti) - Kc B)/(1 - B).
 	pi := tf.MustRational([]float64{0.6 * 1.25, -0.6}, []float64{1, -1}, 0)
-	open, _ := tf.Series(pi, plant)
+	open, _ := pi.Times(plant)
 	one, _ := tf.Constant(1)
-	closed, err := tf.Feedback(open, one)
+	closed, err := open.CloseLoop(one)
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	info, _ := closed.StepMetrics(tf.StepOptions{Interval: 10}) // 10 s samples
+	info, _ := closed.StepFigures(tf.StepSettings{Interval: 10}) // 10 s samples
 	fmt.Printf("stable %v, final %.3f, overshoot %.1f %%, settling %.0f s\n",
-		closed.Stable(), info.Final, 100*info.Overshoot, info.Settling.Time)
+		closed.Stable(), info.Final, 100*info.Overshoot, info.Settle.Time)
 	// Output:
 	// stable true, final 1.000, overshoot 8.4 %, settling 82 s
 }

@@ -122,7 +122,7 @@ func TestRationalGoldenScipy(t *testing.T) {
 			}
 			// scipy.signal.freqz 1.10.1 with numpy.unwrap of the phase.
 			if m.W != nil {
-				mag, ph, err := r.Bode(m.W)
+				mag, ph, err := r.GainPhase(m.W)
 				if err != nil {
 					t.Fatal(err)
 				}

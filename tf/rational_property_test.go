@@ -95,7 +95,7 @@ func TestRationalProperties(t *testing.T) {
 		// amplifies rounding further: 10 propTol (observed up to ~4e-12).
 		q := randomStable(rng)
 		hq := q.Impulse(n)
-		ser, err := tf.Series(g, q)
+		ser, err := g.Times(q)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -108,7 +108,7 @@ func TestRationalProperties(t *testing.T) {
 		if e := testutil.RunningRelErr(ser.Impulse(n), conv); !(e <= 10*propTol) {
 			t.Fatalf("trial %d: series vs convolution error %.3g", trial, e)
 		}
-		par, err := tf.Parallel(g, q)
+		par, err := g.Plus(q)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -213,7 +213,7 @@ func TestRationalProperties(t *testing.T) {
 		}
 
 		// Frequency response at w = 0 is the gain.
-		mag, ph0, err := g.Bode([]float64{0})
+		mag, ph0, err := g.GainPhase([]float64{0})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -238,7 +238,7 @@ func TestFeedbackLoop(t *testing.T) {
 		if g.Delay()+h.Delay() == 0 {
 			g = tf.MustRational(g.Num(), g.Den(), 1)
 		}
-		cl, err := tf.Feedback(g, h)
+		cl, err := g.CloseLoop(h)
 		if err != nil {
 			t.Fatal(err)
 		}

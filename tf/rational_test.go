@@ -26,23 +26,23 @@ func TestNewRationalBadInput(t *testing.T) {
 		msg      string
 	}{
 		{"zero leading denominator", []float64{1}, []float64{0, 1}, 0, "den", 0, tf.ErrZeroConstant,
-			"tf: den coefficient 0 (B^0) = 0: constant term is zero"},
+			"tf.NewRational: den coefficient 0 (B^0) = 0: constant term is zero"},
 		{"NaN numerator", []float64{1, nan}, []float64{1}, 0, "num", 1, tf.ErrNotFinite,
-			"tf: num coefficient 1 (B^1) = NaN: value is NaN or infinite"},
+			"tf.NewRational: num coefficient 1 (B^1) = NaN: value is NaN or infinite"},
 		{"Inf denominator", []float64{1}, []float64{1, -0.5, inf}, 0, "den", 2, tf.ErrNotFinite,
-			"tf: den coefficient 2 (B^2) = +Inf: value is NaN or infinite"},
+			"tf.NewRational: den coefficient 2 (B^2) = +Inf: value is NaN or infinite"},
 		{"-Inf leading denominator", []float64{1}, []float64{math.Inf(-1)}, 0, "den", 0, tf.ErrNotFinite,
-			"tf: den coefficient 0 (B^0) = -Inf: value is NaN or infinite"},
-		{"empty numerator", nil, []float64{1}, 0, "num", -1, tf.ErrEmpty, "tf: num: no coefficients"},
-		{"empty denominator", []float64{1}, []float64{}, 0, "den", -1, tf.ErrEmpty, "tf: den: no coefficients"},
+			"tf.NewRational: den coefficient 0 (B^0) = -Inf: value is NaN or infinite"},
+		{"empty numerator", nil, []float64{1}, 0, "num", -1, tf.ErrEmpty, "tf.NewRational: num: no coefficients"},
+		{"empty denominator", []float64{1}, []float64{}, 0, "den", -1, tf.ErrEmpty, "tf.NewRational: den: no coefficients"},
 		{"numerator degree past limit", long, []float64{1}, 0, "num", tf.MaxDegree + 1, tf.ErrDegree,
-			"tf: num has degree 65: degree above tf.MaxDegree (64)"},
+			"tf.NewRational: num has degree 65: degree above tf.MaxDegree (64)"},
 		{"denominator degree past limit", []float64{1}, long, 0, "den", tf.MaxDegree + 1, tf.ErrDegree,
-			"tf: den has degree 65: degree above tf.MaxDegree (64)"},
-		{"negative dead time", []float64{1}, []float64{1}, -1, "", 0, nil, "tf: dead time -1 samples outside 0..10000"},
-		{"huge dead time", []float64{1}, []float64{1}, tf.MaxDelay + 1, "", 0, nil, "tf: dead time 10001 samples outside 0..10000"},
+			"tf.NewRational: den has degree 65: degree above tf.MaxDegree (64)"},
+		{"negative dead time", []float64{1}, []float64{1}, -1, "", 0, nil, "tf.NewRational: dead time -1 samples outside 0..10000"},
+		{"huge dead time", []float64{1}, []float64{1}, tf.MaxDelay + 1, "", 0, nil, "tf.NewRational: dead time 10001 samples outside 0..10000"},
 		{"overflow by normalisation", []float64{1e300}, []float64{1e-300}, 0, "den", 0, tf.ErrNormalise,
-			"tf: den coefficient 0 (B^0) = 1e-300: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 0 = 1e+300 divided by it is +Inf"},
+			"tf.NewRational: den coefficient 0 (B^0) = 1e-300: normalising by den[0] (to make it 1) leaves float64 range: num coefficient 0 = 1e+300 divided by it is +Inf"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			r, err := tf.NewRational(c.num, c.den, c.delay)
@@ -51,6 +51,9 @@ func TestNewRationalBadInput(t *testing.T) {
 			}
 			if err.Error() != c.msg {
 				t.Errorf("message %q, want %q", err.Error(), c.msg)
+			}
+			if !errors.Is(err, tf.ErrModel) {
+				t.Errorf("%v does not match tf.ErrModel", err)
 			}
 			if c.poly == "" {
 				var de *tf.DelayError
@@ -83,17 +86,20 @@ func TestBadSamplesAndArguments(t *testing.T) {
 	sample := func(series string, index int) func(error) bool {
 		return func(err error) bool {
 			var se *tf.SampleError
-			return errors.As(err, &se) && se.Series == series && se.Index == index && errors.Is(err, tf.ErrNotFinite)
+			return errors.As(err, &se) && se.Series == series && se.Index == index && errors.Is(err, tf.ErrSample) && se.Op != ""
 		}
 	}
 	isArg := func(arg string) func(error) bool {
 		return func(err error) bool {
-			var ae *tf.ArgError
-			return errors.As(err, &ae) && ae.Arg == arg
+			var se *tf.SettingError
+			return errors.As(err, &se) && se.Setting == arg && errors.Is(err, tf.ErrSetting) && se.Op != ""
 		}
 	}
-	isGain := func(err error) bool { var ge *tf.GainError; return errors.As(err, &ge) }
-	isUnstable := func(err error) bool { var ue *tf.UnstableError; return errors.As(err, &ue) }
+	isGain := func(err error) bool { var ge *tf.GainError; return errors.As(err, &ge) && errors.Is(err, tf.ErrModel) }
+	isUnstable := func(err error) bool {
+		var ue *tf.UnstableError
+		return errors.As(err, &ue) && errors.Is(err, tf.ErrModel) && ue.Op != ""
+	}
 	isCoef := func(p error) func(error) bool {
 		return func(err error) bool { var ce *tf.CoefError; return errors.As(err, &ce) && errors.Is(err, p) }
 	}
@@ -114,12 +120,12 @@ func TestBadSamplesAndArguments(t *testing.T) {
 		{"integrator steady start", tf.NewPlant(integ).SetSteady(1), isGain},
 		{"unstable BIBO", first(unst.BIBOBound()), isUnstable},
 		{"integrator BIBO", first(integ.BIBOBound()), isUnstable},
-		{"unstable step metrics", first(unst.StepMetrics(tf.StepOptions{})), isUnstable},
-		{"bad band", first(g.StepMetrics(tf.StepOptions{Band: 1.5})), isArg("Band")},
-		{"negative interval", first(g.StepMetrics(tf.StepOptions{Interval: -1})), isArg("Interval")},
-		{"integrator on the unit circle", second(integ.Bode([]float64{0, 1})), isUnstable},
-		{"decreasing frequencies", second(g.Bode([]float64{1, 0.5})), isArg("frequency")},
-		{"NaN frequency", second(g.Bode([]float64{math.NaN()})), isArg("frequency")},
+		{"unstable step metrics", first(unst.StepFigures(tf.StepSettings{})), isUnstable},
+		{"bad band", first(g.StepFigures(tf.StepSettings{Band: 1.5})), isArg("StepSettings.Band")},
+		{"negative interval", first(g.StepFigures(tf.StepSettings{Interval: -1})), isArg("StepSettings.Interval")},
+		{"integrator on the unit circle", second(integ.GainPhase([]float64{0, 1})), isUnstable},
+		{"decreasing frequencies", second(g.GainPhase([]float64{1, 0.5})), isArg("w[1]")},
+		{"NaN frequency", second(g.GainPhase([]float64{math.NaN()})), isArg("w[0]")},
 		{"modes negative interval", first(g.Modes(-1)), isArg("interval")},
 		{"FOPDT zero tau", first(tf.FOPDT{Gain: 1, TimeConstant: 0, DeadTime: 1}.Discretize(1)), isArg("TimeConstant")},
 		{"FOPDT NaN gain", first(tf.FOPDT{Gain: math.NaN(), TimeConstant: 1}.Discretize(1)), isArg("Gain")},
@@ -130,25 +136,43 @@ func TestBadSamplesAndArguments(t *testing.T) {
 		{"SOPDT time constant 1e300 intervals", first(tf.SOPDT{Gain: 1, Tau1: 1, Tau2: 1e300}.Discretize(1)), isArg("time constant")},
 		{"SOPDT negative tau", first(tf.SOPDT{Gain: 1, Tau1: 1, Tau2: -2}.Discretize(1)), isArg("Tau2")},
 		{"second order negative damping", first(tf.SecondOrder{Gain: 1, NaturalFrequency: 1, Damping: -0.1}.Discretize(1)), isArg("Damping")},
-		{"ill-posed loop", first(tf.Feedback(tf.MustRational([]float64{1}, []float64{1}, 0), tf.MustRational([]float64{-1}, []float64{1}, 0))), isCoef(tf.ErrZeroConstant)},
+		{"ill-posed loop", first(tf.MustRational([]float64{1}, []float64{1}, 0).CloseLoop(tf.MustRational([]float64{-1}, []float64{1}, 0))), isCoef(tf.ErrZeroConstant)},
 		// The loop has a dead time (b_g + b_h = 3), so den[0] = 1 however
 		// large omega_g(0) omega_h(0) is: well posed.
 		{"loop with dead time and a large product gain is well posed", func() error {
-			_, err := tf.Feedback(tf.MustRational([]float64{1}, []float64{1, -2}, 3), tf.MustRational([]float64{1e300}, []float64{1, 1e300}, 0))
+			_, err := tf.MustRational([]float64{1}, []float64{1, -2}, 3).CloseLoop(tf.MustRational([]float64{1e300}, []float64{1, 1e300}, 0))
 			if err != nil {
 				return nil // reported as a failure below
 			}
 			return errors.New("ok")
 		}(), func(err error) bool { return err.Error() == "ok" }},
-		{"loop coefficients overflow", first(tf.Feedback(tf.MustRational([]float64{1e300, 1e300}, []float64{1, 1e300}, 0), tf.MustRational([]float64{1e300}, []float64{1}, 0))), isCoef(tf.ErrNotFinite)},
-		{"loop dead time past degree limit", first(tf.Feedback(tf.MustRational([]float64{1}, []float64{1, -0.5}, 60), tf.MustRational([]float64{1}, []float64{1}, 10))), isCoef(tf.ErrDegree)},
-		{"series degree past limit", first(tf.Series(tf.MustRational([]float64{1}, make40(), 0), tf.MustRational([]float64{1}, make40(), 0))), isCoef(tf.ErrDegree)},
-		{"series dead time past limit", first(tf.Series(tf.MustRational([]float64{1}, []float64{1}, tf.MaxDelay), g)), func(err error) bool { var de *tf.DelayError; return errors.As(err, &de) }},
-		{"parallel dead-time difference past degree limit", first(tf.Parallel(tf.MustRational([]float64{1}, []float64{1}, 100), g)), isCoef(tf.ErrDegree)},
+		{"loop coefficients overflow", first(tf.MustRational([]float64{1e300, 1e300}, []float64{1, 1e300}, 0).CloseLoop(tf.MustRational([]float64{1e300}, []float64{1}, 0))), isCoef(tf.ErrNotFinite)},
+		{"loop dead time past degree limit", first(tf.MustRational([]float64{1}, []float64{1, -0.5}, 60).CloseLoop(tf.MustRational([]float64{1}, []float64{1}, 10))), isCoef(tf.ErrDegree)},
+		{"series degree past limit", first(tf.MustRational([]float64{1}, make40(), 0).Times(tf.MustRational([]float64{1}, make40(), 0))), isCoef(tf.ErrDegree)},
+		{"series dead time past limit", first(tf.MustRational([]float64{1}, []float64{1}, tf.MaxDelay).Times(g)), func(err error) bool { var de *tf.DelayError; return errors.As(err, &de) }},
+		{"parallel dead-time difference past degree limit", first(tf.MustRational([]float64{1}, []float64{1}, 100).Plus(g)), isCoef(tf.ErrDegree)},
 		{"constant NaN", first(tf.Constant(math.NaN())), isCoef(tf.ErrNotFinite)},
 	} {
 		if c.err == nil || !c.ok(c.err) {
 			t.Errorf("%s: err = %v (%T)", c.name, c.err, c.err)
+		}
+	}
+	// Op names the exported function the caller called, also when the
+	// fault was found by a function it calls (Gain inside SetSteady).
+	for _, c := range []struct {
+		err  error
+		want string
+	}{
+		{tf.NewPlant(integ).SetSteady(1), "tf.Plant.SetSteady: no steady-state gain: denominator at B = 1 is 0 (pole at z = 1), numerator 1"},
+		{first(integ.Gain()), "tf.Rational.Gain: no steady-state gain: denominator at B = 1 is 0 (pole at z = 1), numerator 1"},
+		{first(g.Filter([]float64{1, 2, math.NaN()})), `tf.Rational.Filter: series "input" sample 2 is NaN: samples must be finite numbers`},
+		{g.FilterTo(make([]float64, 1), []float64{math.Inf(1)}), `tf.Rational.FilterTo: series "input" sample 0 is +Inf: samples must be finite numbers`},
+		{first(unst.StepFigures(tf.StepSettings{})), "tf.Rational.StepFigures: step figures needs a stable term; largest pole magnitude 1.2"},
+		{first(g.StepFigures(tf.StepSettings{RiseFrom: 0.5, RiseTo: 0.4})), "tf.Rational.StepFigures: StepSettings.RiseFrom = 0.5: must lie below StepSettings.RiseTo (0.4)"},
+		{first(tf.MustRational([]float64{1}, make40(), 0).Times(tf.MustRational([]float64{1}, make40(), 0))), "tf.Rational.Times: den has degree 80: degree above tf.MaxDegree (64)"},
+	} {
+		if c.err == nil || c.err.Error() != c.want {
+			t.Errorf("got  %v\nwant %s", c.err, c.want)
 		}
 	}
 }
@@ -214,7 +238,7 @@ func TestConcurrentUse(t *testing.T) {
 					}
 				}
 				_ = r.Poles()
-				_, _ = r.StepMetrics(tf.StepOptions{})
+				_, _ = r.StepFigures(tf.StepSettings{})
 				p := tf.NewPlant(r)
 				p.Step(1)
 			}

@@ -17,6 +17,15 @@ import (
 // than an infinity; delta(1) counts as 0 when it is within 8 eps of
 // rounding of zero (eps = 2^-52, scaled by sum |delta_k|).
 func (r Rational) Gain() (float64, error) {
+	g, err := r.gain()
+	if err != nil {
+		return 0, withOp("tf.Rational.Gain", err)
+	}
+	return g, nil
+}
+
+// gain is Gain with an error carrying no Op.
+func (r Rational) gain() (float64, error) {
 	num, den := r.coefs()
 	n1, d1 := poly.EvalReal(num, 1), poly.EvalReal(den, 1)
 	// delta(1) within a few roundings of zero is a pole at z = 1 that the
@@ -33,16 +42,20 @@ const ratEps = 0x1p-52
 
 // UnstableError reports that a quantity defined only for stable terms was
 // asked of a term with a pole on or outside the unit circle; MaxPole is
-// the largest pole magnitude.
+// the largest pole magnitude. It matches ErrModel.
 type UnstableError struct {
+	Op      string
 	What    string
 	MaxPole float64
 }
 
 // Error describes the problem in one line.
 func (e *UnstableError) Error() string {
-	return "tf: " + e.What + " needs a stable term; largest pole magnitude " + strconv.FormatFloat(e.MaxPole, 'g', 6, 64)
+	return opPrefix(e.Op) + e.What + " needs a stable term; largest pole magnitude " + strconv.FormatFloat(e.MaxPole, 'g', 6, 64)
 }
+
+// Unwrap returns ErrModel.
+func (e *UnstableError) Unwrap() error { return ErrModel }
 
 // Bound is the bounded-input bounded-output gain sum_k |h_k| of a stable
 // term, the largest output magnitude for an input bounded by 1: Sum is the
@@ -74,7 +87,7 @@ func (r Rational) BIBOBound() (Bound, error) {
 	num, den := r.coefs()
 	rho := r.MaxPoleMagnitude()
 	if !(rho < 1) {
-		return Bound{}, &UnstableError{What: "BIBO bound", MaxPole: rho}
+		return Bound{}, &UnstableError{Op: "tf.Rational.BIBOBound", What: "BIBO bound", MaxPole: rho}
 	}
 	deg := len(den) - 1
 	nStart := r.delay + len(num) - 1
@@ -98,13 +111,13 @@ func (r Rational) BIBOBound() (Bound, error) {
 	q := mat.Norm(a, math.Inf(1))
 	for q > 1e-6 {
 		if m >= 1<<22 {
-			return Bound{}, &UnstableError{What: "BIBO bound (poles too close to the unit circle)", MaxPole: rho}
+			return Bound{}, &UnstableError{Op: "tf.Rational.BIBOBound", What: "BIBO bound (poles too close to the unit circle)", MaxPole: rho}
 		}
 		a.Mul(a, a)
 		m *= 2
 		q = mat.Norm(a, math.Inf(1))
 		if math.IsNaN(q) || math.IsInf(q, 0) {
-			return Bound{}, &UnstableError{What: "BIBO bound", MaxPole: rho}
+			return Bound{}, &UnstableError{Op: "tf.Rational.BIBOBound", What: "BIBO bound", MaxPole: rho}
 		}
 	}
 	terms := nStart + m + 1

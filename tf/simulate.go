@@ -32,7 +32,8 @@ const MaxBurnIn = 1 << 24
 // Simulating and then fitting with the defaults therefore agree.
 // s.FromRest takes every pre-sample input as zero instead (a start-up
 // transient when an input is far from zero). The output differencing and
-// the noise start from rest, unless s.BurnIn warms up the noise. The
+// the noise start from rest, except for the noise's burn-in (automatic
+// by default, see SimSettings.BurnIn). The
 // innovations are s.Innovations, or Gaussian draws of standard deviation
 // s.Sigma from the seeded source (none when Sigma is 0); s may be nil for
 // the defaults, a noise-free run. Neither m nor the input series are
@@ -43,12 +44,13 @@ const MaxBurnIn = 1 << 24
 // model without differencing or noise run FromRest, exactly the sum of c
 // and each input's Rational().Filter.
 //
-// Errors: an *ArgError from SimSettings.Validate (naming the field); a
-// *ModelError from Model.Validate; those of NewSystem; a *SimError for a
-// missing input series, series of different lengths, Innovations of the
-// wrong length, an input term with a pole at z = 1 (an integrator) whose
-// first sample is not zero, so that it has no settled start (use
-// FromRest), or an output sample that comes out NaN or infinite (Part
+// Errors (Op "tf.Model.Simulate"): a *SettingError from
+// SimSettings.Validate (naming the field); a *ModelError from
+// Model.Validate and NewSystem, and for an input term with a pole at
+// z = 1 (an integrator) whose first sample is not zero, so that it has no
+// settled start (use FromRest); a *SeriesError for a missing input series
+// (ErrName) or series or Innovations of the wrong length (ErrLength); a
+// *SimError for an output sample that comes out NaN or infinite (Part
 // "output <name>"; the noise scale, the innovations, the inputs or an
 // unstable term overflowed float64, for example Sigma near 1e308); a
 // *SampleError naming the series and index of a NaN or infinite sample.
@@ -57,13 +59,14 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 	if s != nil {
 		set = *s
 	}
-	if err := set.Validate(); err != nil {
+	const op = "tf.Model.Simulate"
+	if err := set.validate(op); err != nil {
 		return nil, err
 	}
 	if set.Innovations != nil {
 		set.Sigma, set.BurnIn = 0, 0
 	}
-	sys, err := NewSystem(m, &set) // checks BurnIn against MaxBurnIn too
+	sys, err := newSystem(op, m, &set) // checks BurnIn against MaxBurnIn too
 	if err != nil {
 		return nil, err
 	}
@@ -72,28 +75,28 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 	for i, in := range m.Inputs {
 		x, ok := inputs[in.Series]
 		if !ok {
-			return nil, &SimError{Part: "series " + in.Series, Problem: "missing from the inputs"}
+			return nil, &SeriesError{Op: op, Series: in.Series, Kind: ErrName, Detail: "the model has an input of this name but the inputs map has no such series"}
 		}
 		if n >= 0 && len(x) != n {
-			return nil, &SimError{Part: "series " + in.Series, Problem: "has " + strconv.Itoa(len(x)) +
-				" samples, but series " + m.Inputs[0].Series + " has " + strconv.Itoa(n)}
+			return nil, &SeriesError{Op: op, Series: in.Series, Kind: ErrLength, Have: len(x), Need: n,
+				Detail: "the length of series " + strconv.Quote(m.Inputs[0].Series)}
 		}
 		n = len(x)
 		if err := simCheck(in.Series, x); err != nil {
-			return nil, err
+			return nil, withOp(op, err)
 		}
 		xs[i] = x
 	}
 	if set.Innovations != nil {
 		if len(set.Innovations) != n {
-			return nil, &SimError{Part: "innovations", Problem: "has " + strconv.Itoa(len(set.Innovations)) +
-				" samples for " + strconv.Itoa(n) + " input samples"}
+			return nil, &SeriesError{Op: op, Series: "innovations", Kind: ErrLength, Have: len(set.Innovations), Need: n,
+				Detail: "SimSettings.Innovations needs one value per input sample"}
 		}
 		if err := simCheck("innovations", set.Innovations); err != nil {
-			return nil, err
+			return nil, withOp(op, err)
 		}
 		if m.Noise == nil {
-			return nil, &SimError{Part: "noise", Problem: "Innovations given but the model has no noise term"}
+			return nil, &ModelError{Op: op, Part: "noise", Problem: "SimSettings.Innovations given but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
 		}
 	}
 	y := make([]float64, n)
@@ -105,10 +108,10 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 		for i, x := range xs {
 			u[i] = x[0]
 		}
-		if err := sys.SetSteady(u); err != nil {
-			var se *SimError
-			if errors.As(err, &se) && se.Err != nil {
-				se.Problem += " (its first sample is " + strconv.FormatFloat(se.level, 'g', -1, 64) +
+		if i, err := sys.setSteady(op, u); err != nil {
+			var me *ModelError
+			if errors.As(err, &me) && errors.As(err, new(*GainError)) {
+				me.Problem += " (its first sample is " + strconv.FormatFloat(u[i], 'g', -1, 64) +
 					", and Simulate starts each input settled at its first sample by default); set SimSettings.FromRest to start from rest, or write the integration as differencing of the output"
 			}
 			return nil, err
@@ -133,13 +136,13 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 // simOverflow returns the *SimError for the non-finite output v at
 // sample t, naming the noise scale when there is one.
 func simOverflow(output string, t int, v, sigma float64) error {
-	p := "sample " + strconv.Itoa(t) + " is " + strconv.FormatFloat(v, 'g', -1, 64) + ": the output overflowed float64"
+	p := "the output overflowed float64"
 	if sigma > 0 {
 		p += " (noise scale Sigma = " + strconv.FormatFloat(sigma, 'g', -1, 64) + ")"
 	} else {
 		p += " (the inputs, the innovations or an unstable term is too large)"
 	}
-	return &SimError{Part: "output " + output, Problem: p}
+	return &SimError{Op: "tf.Model.Simulate", Part: "output " + output, Step: t, Value: v, Problem: p}
 }
 
 // simCheck returns a *SampleError for the first NaN or infinite sample.

@@ -31,8 +31,8 @@ func ExampleSystem() {
 		fmt.Printf("t=%d level %.3f\n", t, sys.Step([]float64{1}))
 	}
 	// Output:
-	// t=0 level 0.004
-	// t=1 level 0.203
-	// t=2 level 0.405
-	// t=3 level 0.593
+	// t=0 level -0.005
+	// t=1 level 0.194
+	// t=2 level 0.384
+	// t=3 level 0.590
 }

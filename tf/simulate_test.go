@@ -257,8 +257,9 @@ func TestSimulateNoise(t *testing.T) {
 	if want := 0.25 / (1 - 0.36); math.Abs(v-want) > 0.05*want {
 		t.Errorf("noise variance %v, want %v", v, want)
 	}
-	// Without burn-in the noise starts from rest: y_0 = sigma * a_0 only.
-	y4, _ := m.Simulate(map[string][]float64{"x": x[:3]}, &tf.SimSettings{Seed1: 1, Seed2: 1, Sigma: 2})
+	// Without burn-in (BurnIn < 0) the noise starts from rest:
+	// y_0 = sigma * a_0 only.
+	y4, _ := m.Simulate(map[string][]float64{"x": x[:3]}, &tf.SimSettings{Seed1: 1, Seed2: 1, Sigma: 2, BurnIn: -1})
 	a := rand.New(rand.NewPCG(1, 1))
 	a0, a1 := 2*a.NormFloat64(), 2*a.NormFloat64()
 	if y4[0] != a0 || y4[1] != 0.6*a0+a1 {
@@ -322,9 +323,10 @@ func TestSystemStreaming(t *testing.T) {
 	// An integrating path has no steady state for a non-zero input.
 	m3 := parse.MustModel("y = 0.5 / (1 - B) x")
 	s3, _ := tf.NewSystem(m3, nil)
-	var se *tf.SimError
+	var me *tf.ModelError
 	var ge *tf.GainError
-	if err := s3.SetSteady([]float64{1}); !errors.As(err, &se) || !errors.As(err, &ge) {
+	if err := s3.SetSteady([]float64{1}); !errors.As(err, &me) || !errors.As(err, &ge) || !errors.Is(err, tf.ErrModel) ||
+		err.Error() != "tf.System.SetSteady: input x: has a pole at z = 1 (an integrator), so no steady state for a non-zero input" {
 		t.Errorf("integrator SetSteady: %v", err)
 	}
 	if err := s3.SetSteady([]float64{0}); err != nil {
@@ -335,39 +337,48 @@ func TestSystemStreaming(t *testing.T) {
 func TestSimulateErrors(t *testing.T) {
 	m := parse.MustModel("y = w0 x + w1 z + a where w0 ~ 1, w1 ~ 2")
 	ok := []float64{1, 2, 3}
-	var se *tf.SimError
-	if _, err := m.Simulate(map[string][]float64{"x": ok}, nil); !errors.As(err, &se) || se.Part != "series z" {
+	var se *tf.SeriesError
+	if _, err := m.Simulate(map[string][]float64{"x": ok}, nil); !errors.As(err, &se) || se.Series != "z" || !errors.Is(err, tf.ErrName) ||
+		err.Error() != `tf.Model.Simulate: series "z" is not known (the model has an input of this name but the inputs map has no such series)` {
 		t.Errorf("missing series: %v", err)
 	}
-	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": ok[:2]}, nil); !errors.As(err, &se) || se.Part != "series z" {
+	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": ok[:2]}, nil); !errors.As(err, &se) || se.Series != "z" || !errors.Is(err, tf.ErrLength) ||
+		err.Error() != `tf.Model.Simulate: series "z" has 2 samples, 3 expected (the length of series "x")` {
 		t.Errorf("unequal lengths: %v", err)
 	}
 	var sa *tf.SampleError
 	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": {1, math.NaN(), 3}}, nil); !errors.As(err, &sa) || sa.Series != "z" || sa.Index != 1 {
 		t.Errorf("NaN: %v", err)
 	}
-	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": ok}, &tf.SimSettings{Innovations: ok[:1]}); !errors.As(err, &se) || se.Part != "innovations" {
+	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": ok}, &tf.SimSettings{Innovations: ok[:1]}); !errors.As(err, &se) || se.Series != "innovations" || !errors.Is(err, tf.ErrLength) {
 		t.Errorf("innovations length: %v", err)
 	}
-	var ae *tf.ArgError
-	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": ok}, &tf.SimSettings{Sigma: -1}); !errors.As(err, &ae) {
+	var ae *tf.SettingError
+	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": ok}, &tf.SimSettings{Sigma: -1}); !errors.As(err, &ae) || ae.Setting != "SimSettings.Sigma" ||
+		err.Error() != "tf.Model.Simulate: SimSettings.Sigma = -1: must be a finite number, zero or positive (0, the default, draws no noise)" {
 		t.Errorf("negative Sigma: %v", err)
 	}
+	var me *tf.ModelError
 	nf := parse.MustModel("y = w0 x where w0 ~ 1")
-	if _, err := nf.Simulate(map[string][]float64{"x": ok}, &tf.SimSettings{Sigma: 1}); !errors.As(err, &se) || se.Part != "noise" {
+	if _, err := nf.Simulate(map[string][]float64{"x": ok}, &tf.SimSettings{Sigma: 1}); !errors.As(err, &me) || me.Part != "noise" || me.Op != "tf.Model.Simulate" {
 		t.Errorf("Sigma without noise: %v", err)
 	}
 	ns := parse.MustModel("y = w0 x + 1 / (1 - 1.2 B) a")
-	if _, err := ns.Simulate(map[string][]float64{"x": ok}, &tf.SimSettings{Sigma: 1, BurnIn: 10}); !errors.As(err, &se) || se.Part != "noise" {
+	if _, err := ns.Simulate(map[string][]float64{"x": ok}, &tf.SimSettings{Sigma: 1, BurnIn: 10}); !errors.As(err, &me) || me.Part != "noise" ||
+		!strings.Contains(err.Error(), "(set SimSettings.BurnIn to -1 for none)") {
 		t.Errorf("burn-in of a non-stationary noise: %v", err)
 	}
-	if _, err := ns.Simulate(map[string][]float64{"x": ok}, &tf.SimSettings{Sigma: 1}); err != nil {
-		t.Errorf("non-stationary noise without burn-in: %v", err)
+	// The automatic burn-in (BurnIn 0) runs none for a noise model with
+	// no stationary state, and so does BurnIn -1.
+	for _, b := range []int{0, -1} {
+		if _, err := ns.Simulate(map[string][]float64{"x": ok}, &tf.SimSettings{Sigma: 1, BurnIn: b}); err != nil {
+			t.Errorf("non-stationary noise, BurnIn %d: %v", b, err)
+		}
 	}
 	nan := m.Clone()
 	nan.Inputs[0].Num.Factors[0].Terms[0].Coef.Value = math.NaN()
-	var me *tf.ModelError
-	if _, err := nan.Simulate(map[string][]float64{"x": ok, "z": ok}, nil); !errors.As(err, &me) || me.Part != `input "x" numerator, factor 1` ||
+
+	if _, err := nan.Simulate(map[string][]float64{"x": ok, "z": ok}, nil); !errors.As(err, &me) || me.Part != `input "x" numerator, factor 1` || me.Op != "tf.Model.Simulate" ||
 		!strings.Contains(err.Error(), "is NaN, not finite") {
 		t.Errorf("NaN coefficient: %v", err)
 	}
@@ -480,7 +491,7 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 	}
 }
 
-// SetSteady with the wrong number of input samples is an *ArgError (it
+// SetSteady with the wrong number of input samples is a *SeriesError (it
 // used to panic), and an error leaves the system as it was.
 func TestSystemSetSteadyErrors(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) B^2 valve + 0.3 / (1 - B) feed")
@@ -488,9 +499,10 @@ func TestSystemSetSteadyErrors(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var ae *tf.ArgError
-	if err := sys.SetSteady([]float64{1}); !errors.As(err, &ae) || err.Error() != "tf: len(u) = 1: must equal the number of inputs, 2" {
-		t.Fatalf("SetSteady with 1 of 2 inputs: err = %v, want *ArgError", err)
+	var se *tf.SeriesError
+	if err := sys.SetSteady([]float64{1}); !errors.As(err, &se) || !errors.Is(err, tf.ErrLength) ||
+		err.Error() != `tf.System.SetSteady: series "u" has 1 samples, 2 expected (one steady sample per input, in the order of Inputs)` {
+		t.Fatalf("SetSteady with 1 of 2 inputs: err = %v, want *SeriesError", err)
 	}
 	ref := sys.Clone()
 	// feed passes an integrator (pole at z = 1): no steady state for a
@@ -506,12 +518,12 @@ func TestSystemSetSteadyErrors(t *testing.T) {
 }
 
 // NewSystem rejects a burn-in above tf.MaxBurnIn (it would loop for a
-// very long time) with an *ArgError, as Model.Simulate does.
+// very long time) with a *SettingError, as Model.Simulate does.
 func TestNewSystemBurnInLimit(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) u + (1 - 0.3 B) a")
-	var ae *tf.ArgError
+	var ae *tf.SettingError
 	_, err := tf.NewSystem(m, &tf.SimSettings{Sigma: 1, BurnIn: tf.MaxBurnIn + 1})
-	if !errors.As(err, &ae) || ae.Arg != "SimSettings.BurnIn" {
-		t.Fatalf("BurnIn = MaxBurnIn+1: err = %v, want *ArgError for BurnIn", err)
+	if !errors.As(err, &ae) || ae.Setting != "SimSettings.BurnIn" || ae.Op != "tf.NewSystem" {
+		t.Fatalf("BurnIn = MaxBurnIn+1: err = %v, want *SettingError for BurnIn", err)
 	}
 }

@@ -5,14 +5,17 @@ import (
 	"math/rand/v2"
 	"strconv"
 	"strings"
+
+	"github.com/backshift/backshift/internal/errs"
 )
 
 // SimSettings tunes Model.Simulate and NewSystem. The zero value (or a
 // nil pointer) gives a noise-free run of a record that starts settled
 // (Model.Simulate) or a system at rest (NewSystem); see FromRest.
 //
-// Rule for the numbers: zero means the default and a negative value is
-// an error (Validate names the field).
+// Rule for the numbers (the library's settings rule): zero means the
+// default and a negative value is an error (Validate names the field),
+// except BurnIn, whose negative value means none, as its doc says.
 type SimSettings struct {
 	// Seed1 and Seed2 seed the PCG source (math/rand/v2) of the Gaussian
 	// innovations a_t; equal seeds give equal series. Every value is
@@ -25,9 +28,20 @@ type SimSettings struct {
 	Sigma float64
 	// BurnIn is the number of innovations drawn and run through the
 	// noise filter theta(B)/phi(B) before the first sample, so that the
-	// noise starts near its stationary state instead of from rest. Zero
-	// means none; at most MaxBurnIn. A positive BurnIn needs a
-	// stationary noise model (AR poles strictly inside the unit circle).
+	// noise starts near its stationary state instead of from rest (the
+	// library's one meaning of a burn-in, as in arma.SimSettings).
+	// Zero means automatic: enough draws for the slowest mode of the
+	// noise filter to decay below 1e-12 of its start, that is
+	// ceil(ln 1e-12 / ln rho) + p + q draws with rho the largest
+	// magnitude of the roots of phi in the z-plane (its poles), p and q
+	// the AR and MA degrees, at least 100 + p + q and at most 10^6; none
+	// for a noise model with a pole on or outside the unit circle (it has
+	// no stationary state to approach) and none without noise (Sigma 0).
+	// 1e-12 puts the left-over start-up transient far below any noise
+	// a record can show. A positive value is that many draws, at most
+	// MaxBurnIn, and needs a stationary noise model (poles strictly
+	// inside the unit circle). A negative value means none: the noise
+	// starts from rest.
 	BurnIn int
 	// FromRest, for Model.Simulate, starts every input path from rest:
 	// inputs before the record are zero, which gives a start-up
@@ -53,44 +67,66 @@ type SimSettings struct {
 }
 
 // Validate checks the settings by the rules documented on each field and
-// returns an *ArgError naming the field ("SimSettings.Sigma") or a
+// returns a *SettingError naming the field ("SimSettings.Sigma") or a
 // *SampleError for a NaN or infinite innovation (Series "innovations"),
 // or nil.
 func (s SimSettings) Validate() error {
-	if !(s.Sigma >= 0) || math.IsInf(s.Sigma, 0) {
-		return &ArgError{Arg: "SimSettings.Sigma", Value: s.Sigma, Rule: "must be finite and >= 0 (0, the default, draws no noise)"}
-	}
-	if s.BurnIn < 0 {
-		return &ArgError{Arg: "SimSettings.BurnIn", Value: float64(s.BurnIn), Rule: "must be >= 0 (0, the default, runs no burn-in)"}
-	}
-	if s.BurnIn > MaxBurnIn && s.Innovations == nil {
-		return &ArgError{Arg: "SimSettings.BurnIn", Value: float64(s.BurnIn), Rule: "must be at most tf.MaxBurnIn (" + strconv.Itoa(MaxBurnIn) + " draws)"}
-	}
-	return simCheck("innovations", s.Innovations)
+	return s.validate("tf.SimSettings.Validate")
 }
 
-// SimError reports a model or data that cannot be simulated: Part names
-// the part of the model or the series concerned ("input burner",
-// "noise", "series feed", ...), Problem says what is wrong, and Err is
-// the underlying error, if any (for example a *CoefError).
+func (s SimSettings) validate(op string) error {
+	if err := errs.NonNegative(op, "SimSettings.Sigma", s.Sigma, "0, the default, draws no noise"); err != nil {
+		return err
+	}
+	if s.BurnIn > MaxBurnIn && s.Innovations == nil {
+		return intSetting(op, "SimSettings.BurnIn", s.BurnIn, "must be at most tf.MaxBurnIn ("+strconv.Itoa(MaxBurnIn)+" draws); 0 means automatic, a negative value none")
+	}
+	return withOp(op, simCheck("innovations", s.Innovations))
+}
+
+// autoBurnIn is the automatic burn-in of SimSettings.BurnIn for the noise
+// filter r = theta(B)/phi(B): 0 when r has no stationary state.
+func autoBurnIn(r Rational) int {
+	rho := r.MaxPoleMagnitude()
+	if !(rho < 1) {
+		return 0
+	}
+	num, den := r.coefs()
+	pq := len(num) - 1 + len(den) - 1
+	b := 100 + pq
+	if rho > 0 {
+		b = max(b, int(math.Ceil(math.Log(1e-12)/math.Log(rho)))+pq)
+	}
+	return min(b, 1_000_000)
+}
+
+// SimError reports a simulation whose output stopped being finite: Part
+// is "plant" or "output <name>", Step the 0-based step (sample) counted
+// from the start, Value the output there and Problem the cause. It matches
+// ErrSample when the cause is a NaN or infinite input sample or
+// innovation, and ErrOverflow otherwise (an unstable term, or inputs or a
+// noise scale too large for float64).
 type SimError struct {
+	Op      string
 	Part    string
+	Step    int
+	Value   float64
 	Problem string
-	Err     error
-	level   float64 // the steady input refused by System.SetSteady
+	sample  bool
 }
 
 // Error describes the problem in one line.
 func (e *SimError) Error() string {
-	s := "tf: " + e.Part + ": " + e.Problem
-	if e.Err != nil {
-		s += ": " + e.Err.Error()
-	}
-	return s
+	return opPrefix(e.Op) + e.Part + ": step " + strconv.Itoa(e.Step) + " gave " + strconv.FormatFloat(e.Value, 'g', -1, 64) + ": " + e.Problem
 }
 
-// Unwrap returns the underlying error.
-func (e *SimError) Unwrap() error { return e.Err }
+// Unwrap returns ErrSample or ErrOverflow, as documented on SimError.
+func (e *SimError) Unwrap() error {
+	if e.sample {
+		return ErrSample
+	}
+	return ErrOverflow
+}
 
 // System is a streaming simulator of a whole model,
 //
@@ -137,27 +173,31 @@ type System struct {
 // NewSystem returns a System for m at rest (after the noise burn-in, when
 // s asks for one); s may be nil for the defaults. The model is copied.
 //
-// Errors: a *ModelError for a model that Model.Validate refuses (a
-// factor power below 1, a negative dead time, ...); a *SimError for a
-// model with no inputs, a coefficient that makes a polynomial invalid
-// (wrapping NewRational's *CoefError or *DelayError), Sigma > 0 without a
-// noise term, or BurnIn > 0 with a noise model that is not stationary;
-// an *ArgError from SimSettings.Validate (a negative or non-finite Sigma,
-// a BurnIn that is negative or above MaxBurnIn).
+// Errors (Op "tf.NewSystem"): a *ModelError for a model that
+// Model.Validate refuses (a factor power below 1, a negative dead time,
+// ...), a model with no inputs, a coefficient that makes a polynomial
+// invalid (its Err is NewRational's *CoefError or *DelayError), Sigma > 0
+// without a noise term, or BurnIn > 0 with a noise model that is not
+// stationary; a *SettingError from SimSettings.Validate (a negative or
+// non-finite Sigma, a BurnIn above MaxBurnIn).
 func NewSystem(m Model, s *SimSettings) (*System, error) {
+	return newSystem("tf.NewSystem", m, s)
+}
+
+func newSystem(op string, m Model, s *SimSettings) (*System, error) {
 	var set SimSettings
 	if s != nil {
 		set = *s
 	}
 	set.Innovations = nil // not used by a System
-	if err := set.Validate(); err != nil {
+	if err := set.validate(op); err != nil {
 		return nil, err
 	}
-	if err := m.Validate(); err != nil {
-		return nil, err
+	if err := m.validate(); err != nil {
+		return nil, withOp(op, err)
 	}
 	if len(m.Inputs) == 0 {
-		return nil, &SimError{Part: "model " + m.Output, Problem: "has no input term"}
+		return nil, &ModelError{Op: op, Part: "model " + m.Output, Problem: "has no input term (a System simulates the response to inputs)"}
 	}
 	sys := &System{
 		names:  make([]string, len(m.Inputs)),
@@ -171,42 +211,47 @@ func NewSystem(m Model, s *SimSettings) (*System, error) {
 		seed2:  set.Seed2,
 	}
 	if math.IsNaN(sys.c) || math.IsInf(sys.c, 0) {
-		return nil, &SimError{Part: "constant", Problem: "is " + strconv.FormatFloat(sys.c, 'g', -1, 64)}
+		return nil, &ModelError{Op: op, Part: "constant", Problem: "is " + strconv.FormatFloat(sys.c, 'g', -1, 64) + ", not a finite number"}
 	}
 	for i, in := range m.Inputs {
 		part := "input " + in.Series
 		sys.names[i] = in.Series
-		r, err := in.Rational()
+		r, err := in.rational()
 		if err != nil {
-			return nil, &SimError{Part: part, Problem: "invalid transfer function", Err: err}
+			return nil, &ModelError{Op: op, Part: part, Problem: "invalid transfer function: " + err.Error(), Err: err}
 		}
 		sys.path[i] = NewPlant(r)
 		if !in.Diff.IsOne() {
-			d, err := NewRational(in.DiffCoeffs(), []float64{1}, 0)
+			d, err := newRational(in.DiffCoeffs(), []float64{1}, 0)
 			if err != nil {
-				return nil, &SimError{Part: part, Problem: "invalid differencing", Err: err}
+				return nil, &ModelError{Op: op, Part: part, Problem: "invalid differencing: " + err.Error(), Err: err}
 			}
 			sys.diff[i] = NewPlant(d)
 		}
 	}
 	if !m.Diff.IsOne() {
-		d, err := NewRational([]float64{1}, m.DiffCoeffs(), 0)
+		d, err := newRational([]float64{1}, m.DiffCoeffs(), 0)
 		if err != nil {
-			return nil, &SimError{Part: "output " + m.Output, Problem: "invalid differencing", Err: err}
+			return nil, &ModelError{Op: op, Part: "output " + m.Output, Problem: "invalid differencing: " + err.Error(), Err: err}
 		}
 		sys.integ = NewPlant(d)
 	}
 	if m.Noise != nil {
-		r, err := m.NoiseRational()
+		r, err := m.noiseRational()
 		if err != nil {
-			return nil, &SimError{Part: "noise", Problem: "invalid noise model", Err: err}
+			return nil, &ModelError{Op: op, Part: "noise", Problem: "invalid noise model: " + err.Error(), Err: err}
 		}
 		sys.noise = NewPlant(r)
-		if set.BurnIn > 0 && !r.Stable() {
-			return nil, &SimError{Part: "noise", Problem: "a burn-in needs a stationary noise model, and phi(B) has a root on or inside the unit circle"}
+		switch {
+		case set.BurnIn > 0 && !r.Stable():
+			return nil, &ModelError{Op: op, Part: "noise", Problem: "a burn-in needs a stationary noise model, and phi(B) has a root on or inside the unit circle (set SimSettings.BurnIn to -1 for none)"}
+		case set.BurnIn == 0:
+			sys.burn = autoBurnIn(r)
+		case set.BurnIn < 0:
+			sys.burn = 0
 		}
 	} else if set.Sigma > 0 {
-		return nil, &SimError{Part: "noise", Problem: "Sigma > 0 but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
+		return nil, &ModelError{Op: op, Part: "noise", Problem: "Sigma > 0 but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
 	}
 	sys.Reset()
 	return sys, nil
@@ -281,6 +326,7 @@ func (s *System) overflow(u []float64, a, y float64) error {
 	if why == "" && a-a != 0 {
 		why = "the innovation is " + strconv.FormatFloat(a, 'g', -1, 64)
 	}
+	sample := why != ""
 	if why == "" {
 		var unstable []string
 		for i, p := range s.path {
@@ -300,7 +346,7 @@ func (s *System) overflow(u []float64, a, y float64) error {
 			why = "float64 overflowed: the inputs are too large"
 		}
 	}
-	return &SimError{Part: "output " + s.output, Problem: "step " + strconv.Itoa(s.t) + " gave " + strconv.FormatFloat(y, 'g', -1, 64) + ": " + why}
+	return &SimError{Op: "tf.System.Step", Part: "output " + s.output, Step: s.t, Value: y, Problem: why, sample: sample}
 }
 
 // Reset returns the system to its state after NewSystem: every plant at
@@ -335,28 +381,35 @@ func (s *System) Reset() {
 // differencing plant at rest on u_i, the rational term at rest on the
 // differenced value D_i(1) u_i (which is 0 for differencing with a unit
 // root). The noise and the output integration are left as they are.
-// It returns a *SimError wrapping a *GainError when a path with a pole at
-// z = 1 would need a non-zero steady input, and a *SampleError for a
-// non-finite sample, and an *ArgError when len(u) differs from the number
-// of inputs; the system is then left as it was (every path is set on a
-// copy first).
+// It returns a *ModelError whose Err is a *GainError when a path with a
+// pole at z = 1 would need a non-zero steady input, a *SampleError for a
+// non-finite sample, and a *SeriesError (ErrLength, Series "u") when
+// len(u) differs from the number of inputs; the system is then left as
+// it was (every path is set on a copy first).
 func (s *System) SetSteady(u []float64) error {
+	_, err := s.setSteady("tf.System.SetSteady", u)
+	return err
+}
+
+// setSteady is SetSteady, also returning the index of the input at fault
+// for a *ModelError.
+func (s *System) setSteady(op string, u []float64) (int, error) {
 	if len(u) != len(s.path) {
-		return &ArgError{Arg: "len(u)", Value: float64(len(u)), Rule: "must equal the number of inputs, " + strconv.Itoa(len(s.path))}
+		return -1, &SeriesError{Op: op, Series: "u", Kind: ErrLength, Have: len(u), Need: len(s.path), Detail: "one steady sample per input, in the order of Inputs"}
 	}
 	level := make([]float64, len(u))
 	for i, x := range u {
 		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return &SampleError{Series: s.names[i], Index: 0, Value: x}
+			return i, &SampleError{Op: op, Series: s.names[i], Index: 0, Value: x}
 		}
 		level[i] = x
 		if d := s.diff[i]; d != nil {
-			g, _ := d.Rational().Gain() // a differencing plant has denominator 1
+			g, _ := d.Rational().gain() // a differencing plant has denominator 1
 			level[i] = g * x
 		}
 		if level[i] != 0 {
-			if _, err := s.path[i].Rational().Gain(); err != nil {
-				return &SimError{Part: "input " + s.names[i], Problem: "has a pole at z = 1 (an integrator), so no steady state for a non-zero input", Err: err, level: x}
+			if _, err := s.path[i].Rational().gain(); err != nil {
+				return i, &ModelError{Op: op, Part: "input " + s.names[i], Problem: "has a pole at z = 1 (an integrator), so no steady state for a non-zero input", Err: err}
 			}
 		}
 	}
@@ -368,14 +421,14 @@ func (s *System) SetSteady(u []float64) error {
 		if d := s.diff[i]; d != nil {
 			diff[i] = d.Clone()
 			if err := diff[i].SetSteady(x); err != nil {
-				return err
+				return i, withOp(op, err)
 			}
 		}
 		path[i] = s.path[i].Clone()
 		if level[i] == 0 {
 			path[i].Reset()
 		} else if err := path[i].SetSteady(level[i]); err != nil {
-			return err
+			return i, withOp(op, err)
 		}
 	}
 	for i := range u {
@@ -384,7 +437,7 @@ func (s *System) SetSteady(u []float64) error {
 		}
 		s.path[i] = path[i]
 	}
-	return nil
+	return -1, nil
 }
 
 // Clone returns an independent copy of s in its current state, including

@@ -27,7 +27,7 @@ func TestSystemErr(t *testing.T) {
 		}
 	}
 	var se *tf.SimError
-	if err := sys.Err(); !errors.As(err, &se) || se.Part != "output y" || !strings.Contains(err.Error(), "step 1023 gave +Inf") ||
+	if err := sys.Err(); !errors.As(err, &se) || se.Part != "output y" || se.Step != 1023 || !errors.Is(err, tf.ErrOverflow) || !strings.Contains(err.Error(), "step 1023 gave +Inf") ||
 		!strings.Contains(err.Error(), `the term of input "x" is unstable`) {
 		t.Errorf("unstable term: Err = %v", err)
 	}
@@ -38,7 +38,7 @@ func TestSystemErr(t *testing.T) {
 	// A NaN input sample is named, at its step.
 	sys.Step([]float64{1})
 	sys.Step([]float64{math.NaN()})
-	if err := sys.Err(); err == nil || !strings.Contains(err.Error(), `step 1 gave NaN: input sample of "x" is NaN`) {
+	if err := sys.Err(); !errors.Is(err, tf.ErrSample) || err.Error() != `tf.System.Step: output y: step 1 gave NaN: input sample of "x" is NaN` {
 		t.Errorf("NaN input: Err = %v", err)
 	}
 	// A stable model with inputs too large for float64.
@@ -76,7 +76,8 @@ func TestSystemErr(t *testing.T) {
 	// first sample: Simulate says so and names FromRest; FromRest runs.
 	integ := parse.MustModel("level = 0.2 B / (1 - B) inflow")
 	in := map[string][]float64{"inflow": {3, 3, 4, 4}}
-	if _, err := integ.Simulate(in, nil); !errors.As(err, &se) || se.Part != "input inflow" ||
+	var me *tf.ModelError
+	if _, err := integ.Simulate(in, nil); !errors.As(err, &me) || me.Part != "input inflow" || !errors.As(err, new(*tf.GainError)) ||
 		!strings.Contains(err.Error(), "its first sample is 3") || !strings.Contains(err.Error(), "SimSettings.FromRest") {
 		t.Errorf("integrator from 3: %v", err)
 	}

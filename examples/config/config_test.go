@@ -228,9 +228,9 @@ func TestBrokenFiles(t *testing.T) {
 		{`{"models": [{"name": "m", "spec": "temp = w0 B3 valve + a; every 1 min"}]}`, `B3 valve`,
 			`spec of model 1 ("m"): B3 reads as a coefficient name; for B to the power 3 write B^3 (B^3 x delays x by 3 samples)`},
 		{`{"models": [{"name": "m", "spec": "temp = w0 B^3 valve + a; every 1 minute"}]}`, `minute`,
-			`spec of model 1 ("m"): unknown unit "minute" for the sample interval; use s, min, h or d (for minutes write min)`},
+			`spec of model 1 ("m"): unknown unit "minute" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (for minutes write min)`},
 		{`{"models": [{"name": "m", "spec": "temp = w0 B^3 valve + a; every 5"}]}`, `"}`,
-			`spec of model 1 ("m"): expected a unit after the sample interval 5, as in every 5 min (units: s, min, h, d); found the end of the spec`},
+			`spec of model 1 ("m"): expected a unit after the sample interval 5, as in every 5 min (units: s, min, h, d, wk, mo, qtr, yr); found the end of the spec`},
 		{`{"models": [[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]}`, `[[[]]]`,
 			"JSON: nested more than 32 deep; a config nests six deep (the file, models, a model, its validity, its ranges, a range)"},
 	} {

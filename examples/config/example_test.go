@@ -24,7 +24,7 @@ func Example() {
 	fmt.Println(err)
 	// Output:
 	// heater -> temp from power dead time 2 samples
-	// bench.json:1:89: spec of model 1 ("heater"): unknown unit "minute" for the sample interval; use s, min, h or d (for minutes write min)
+	// bench.json:1:89: spec of model 1 ("heater"): unknown unit "minute" for the sample interval; use s, min, h, d, wk, mo, qtr or yr (for minutes write min)
 	//     {"models": [{"name": "heater", "spec": "temp = 0.5 / (1 - 0.8 B) B^2 power + a; every 1 minute"}]}
 	//                                                                                             ^
 }

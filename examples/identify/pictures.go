@@ -178,10 +178,10 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) (files, s
 			if p.Err != nil {
 				continue
 			}
-			n := int(math.Ceil(1.3*p.Step.Settling.Samples)) + 2
+			n := int(math.Ceil(1.3*p.Step.Settle.Samples)) + 2
 			y := p.Rational.Step(n)
 			s := stepPanel{Title: fmt.Sprintf("Step response of %s to a unit step in %s", ds.output, p.Input),
-				Y: y, Final: p.Gain, Settling: p.Step.Settling.Samples * dt, DeadTime: float64(p.DeadTime) * dt,
+				Y: y, Final: p.Gain, Settling: p.Step.Settle.Samples * dt, DeadTime: float64(p.DeadTime) * dt,
 				YLabel: ds.output + " per unit " + p.Input, Unit: unit}
 			for k := range y {
 				s.T = append(s.T, float64(k)*dt)

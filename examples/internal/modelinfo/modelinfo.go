@@ -23,7 +23,7 @@ type Path struct {
 	Stable   bool
 	// Step holds the step-response metrics of a stable path; Err says
 	// why there are none.
-	Step tf.StepSummary
+	Step tf.StepFigures
 	Err  error
 	// Slope is, for an integrating path (output differenced once by
 	// (1 - B)), the rise of the output per sample for a unit step of the
@@ -57,7 +57,7 @@ func Paths(m tf.Model, interval float64) ([]Path, error) {
 		case p.Stable && p.Gain == 0:
 			p.Err = fmt.Errorf("none: the path's gain is 0, so a step leaves the output where it was")
 		case p.Stable:
-			p.Step, p.Err = r.StepMetrics(tf.StepOptions{Interval: interval})
+			p.Step, p.Err = r.StepFigures(tf.StepSettings{Interval: interval})
 		default:
 			p.Err = fmt.Errorf("no step metrics: the path is not stable")
 		}
@@ -127,7 +127,7 @@ func Write(w io.Writer, m tf.Model) error {
 		}
 		s := p.Step
 		fmt.Fprintf(w, "    step response    rise (10-90 %%) %s, settling (%g %%) %s, overshoot %.1f %%\n",
-			span(s.Rise.Samples, s.Rise.Time, unit), 100*s.Band, span(s.Settling.Samples, s.Settling.Time, unit), 100*s.Overshoot)
+			span(s.Rise.Samples, s.Rise.Time, unit), 100*s.Band, span(s.Settle.Samples, s.Settle.Time, unit), 100*s.Overshoot)
 	}
 	return nil
 }

@@ -30,12 +30,12 @@ func TestPathsOfTheGreenhouse(t *testing.T) {
 		}
 		// The sampled step response of w B^b/(1 - d B) is
 		// g (1 - d^(k-b+1)) for k >= b, so it enters the 2 % band at
-		// k = b - 1 + tau ln 50 (closed form); StepMetrics interpolates
+		// k = b - 1 + tau ln 50 (closed form); StepFigures interpolates
 		// linearly between samples, which on this convex curve is off by
 		// less than 0.1 sample.
 		st := float64(want.Delay) - 1 + want.TimeConstant()*math.Log(50)
-		if math.Abs(p.Step.Settling.Time-st) > 0.1 {
-			t.Errorf("%s settling %v min, want %.1f", p.Input, p.Step.Settling.Time, st)
+		if math.Abs(p.Step.Settle.Time-st) > 0.1 {
+			t.Errorf("%s settling %v min, want %.1f", p.Input, p.Step.Settle.Time, st)
 		}
 	}
 }
