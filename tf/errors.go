@@ -102,25 +102,6 @@ func (e *GainError) Error() string {
 // Unwrap returns ErrModel.
 func (e *GainError) Unwrap() error { return ErrModel }
 
-// ArgError is the former shape of a bad setting, kept only while the
-// fitting side of the package moves to *SettingError; it matches
-// ErrSetting.
-//
-// Deprecated: use *SettingError; ArgError is to be removed.
-type ArgError struct {
-	Arg   string
-	Value float64
-	Rule  string
-}
-
-// Error describes the problem in one line.
-func (e *ArgError) Error() string {
-	return fmt.Sprintf("tf: %s = %v: %s", e.Arg, e.Value, e.Rule)
-}
-
-// Unwrap returns ErrSetting.
-func (e *ArgError) Unwrap() error { return ErrSetting }
-
 // opPrefix returns "op: " or "" for an empty op.
 func opPrefix(op string) string {
 	if op == "" {

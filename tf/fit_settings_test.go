@@ -11,9 +11,10 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// TestSettingsValidate is the table of every field of FitSettings,
-// SimSettings and StepSettings with a bad value: each gives an *ArgError
-// (or a *SampleError for an innovation) naming the field, both from the
+// TestSettingsValidate is the table of every field of FitSettings with a
+// bad value (SimSettings and StepSettings: TestSimSettingsRule): each
+// gives a *SettingError (or a *SampleError for an innovation) naming the
+// field, both from the
 // Validate method and from the call that takes the settings. The rule is
 // the package's: zero means the default, a negative value is an error.
 // Fields with no bad value: FitSettings.ZeroPreSample, Settle,
