@@ -59,7 +59,8 @@
 // settings give typed errors in the library's one vocabulary (see
 // internal/errs, re-exported here): every error matches one kind with
 // errors.Is (ErrSample, ErrShort, ErrConstant, ErrLength, ErrName,
-// ErrSetting, ErrModel, ErrConvergence, ErrOverflow, ErrInternal), and its
+// ErrSetting, ErrModel, ErrConvergence, ErrOverflow, ErrInternal,
+// ErrFormat), and its
 // shape, for errors.As, carries the facts and an Op naming the exported
 // function the caller called ("tf.NewRational", "tf.Model.Simulate"):
 // *SampleError (series name, 0-based index, value), *SeriesError (a whole
@@ -75,13 +76,28 @@
 // *GainError (delta(1) and omega(1) of a pole at z = 1) and
 // *UnstableError (the largest pole magnitude of a term that must be
 // stable); *SimError (the step and value where a simulation stopped being
-// finite) matches ErrOverflow, or ErrSample for a non-finite input.
-// On error the other results are zero values, except that a
-// Fit interrupted by its context returns its best point with the error. Panics are kept for programmer
+// finite) matches ErrOverflow, or ErrSample for a non-finite input. On
+// the estimation side, *StageError says which stage of Check, Forecast or
+// Identify failed (errors.As reaches the inner error), *InterruptedError
+// is a Fit stopped by its context (matching the context's error too) and
+// *InternalError a recovered panic, a fault of the library. On error the
+// other results are zero values, except that a Fit interrupted by its
+// context returns its best point with the error. Panics are kept for programmer
 // errors the types cannot exclude, each documented where it can happen
 // (a destination slice of the wrong length, a Step with the wrong number
 // of inputs). Limits: polynomial degree MaxDegree (64), dead time
 // MaxDelay (10000 samples).
+//
+// # Estimates
+//
+// Every fit of the library (tf.Fit, arma.Fit) reports its free
+// coefficients as []Param (name, estimate, start, standard error, t) and
+// their covariance as a [][]float64 in the same order, NaN where it does
+// not exist. The innovation variance is SSQ/(N - k), N residuals and k
+// free coefficients, and the covariance sigma^2 (J'J)^-1; to compare with
+// a program that divides by N, scale the standard errors by
+// sqrt((N - k)/N). The log-likelihood, AIC and BIC use SSQ/N, as their
+// formulas require.
 //
 // # Concurrency
 //

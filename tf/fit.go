@@ -174,29 +174,7 @@ type Estimate struct {
 // a configuration file wants: a model to simulate, forecast or tune a
 // controller with, not one to refit. Printing it and parsing the text
 // gives the same model.
-func (e *Estimate) Held() Model { return heldModel(e.Model) }
-
-// heldModel returns a deep copy of m with every coefficient held (Free
-// false). A Model method doing the same may come with the model
-// helpers; Held would then call it.
-func heldModel(m Model) Model {
-	c := m.Clone()
-	hold := func(k *Coef) { k.Free = false }
-	if c.Const != nil {
-		hold(c.Const)
-	}
-	c.Diff.Each(hold)
-	for i := range c.Inputs {
-		c.Inputs[i].Diff.Each(hold)
-		c.Inputs[i].Num.Each(hold)
-		c.Inputs[i].Den.Each(hold)
-	}
-	if c.Noise != nil {
-		c.Noise.MA.Each(hold)
-		c.Noise.AR.Each(hold)
-	}
-	return c
-}
+func (e *Estimate) Held() Model { return e.Model.Held() }
 
 // Corr returns the correlations of the estimates, in the order of
 // Params, computed from Cov (NaN entries where a variance is not
