@@ -45,17 +45,9 @@ func idfInput(series string, several bool, diff Poly, f ccf.Form) Input {
 }
 
 // idfNoise returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a of
-// orders p and q with free coefficients (start values computed by Fit).
+// orders p and q with free coefficients at zero (start values computed by
+// Fit), named by arma's one rule for noise coefficients (arma.Model.Noise).
 func idfNoise(p, q int) *arma.Noise {
-	mk := func(part string, deg int) Poly {
-		if deg == 0 {
-			return Poly{}
-		}
-		f := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
-		for k := 1; k <= deg; k++ {
-			f.Terms = append(f.Terms, Term{Neg: true, Coef: Coef{Name: idfCoefName("", false, part, k), Free: true}, Power: k})
-		}
-		return Poly{Factors: []Factor{f}}
-	}
-	return &arma.Noise{MA: mk("theta", q), AR: mk("phi", p)}
+	n := arma.Model{AR: make([]float64, p), MA: make([]float64, q)}.Noise()
+	return &n
 }
