@@ -425,3 +425,34 @@ func TestNoiseReport(t *testing.T) {
 		t.Errorf("never within: %d, %q", k, timeText(entryTime(k, 1), 1))
 	}
 }
+
+// TestLimitCycle runs a plant the tuning does not suit: a static valve
+// gain of 0.2 degC/% with no lag makes the PI's loop gain 8*0.2 = 1.6 per
+// sample (>1: the proportional action alone overcorrects each sample, by
+// hand), so the loop swings between the valve's limits. The summary
+// prints no steady-state error (the mean over a swing is no steady
+// state), states the rule, and calls the tuning unsuitable.
+func TestLimitCycle(t *testing.T) {
+	var buf bytes.Buffer
+	if err := runWith(&buf, options{spec: "temp = 6 + 0.2 valve + 0.5 outdoor + a; every 1 min", noise: 0}); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	for _, want := range []string{
+		"steady-state error      none: the loop does not settle (over the last quarter of the run",
+		"the temperature still swings over", "wider than the +-0.2 degC band)",
+		"WARNING: the tuning (Kc 8.0 %/degC, Ti 20 min) is unsuitable for this plant: the loop oscillates",
+		"retune (a lower Kc\n  or a longer Ti) before trying it on the plant",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("summary lacks %q:\n%s", want, out)
+		}
+	}
+	if strings.Contains(out, "steady-state error      +") || strings.Contains(out, "steady-state error      -") {
+		t.Errorf("a steady-state error printed for a loop that does not settle:\n%s", out)
+	}
+	buf.Reset()
+	if err := runWith(&buf, options{spec: PlantSpec, noise: 0}); err != nil || strings.Contains(buf.String(), "unsuitable") {
+		t.Errorf("the demo plant settles: %v\n%s", err, buf.String())
+	}
+}

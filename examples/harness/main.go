@@ -243,8 +243,9 @@ func runWith(w io.Writer, o options) error {
 	fmt.Fprintf(w, "  without noise:\n")
 	fmt.Fprintf(w, "    settling to +-%.1f degC  %s\n", PlantSettleBand, timeText(m.Settling, ts))
 	fmt.Fprintf(w, "    overshoot               %5.1f %%\n", 100*m.Overshoot)
-	fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+	steadyLine(w, m, PlantSettleBand)
 	fmt.Fprintf(w, "    valve at its limit      %s\n", minutesText(float64(atLimit(clean.Valve))*ts, ts))
+	unsuitable(w, m)
 	if noisy != nil {
 		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
 		if band >= 20-16 {
@@ -278,7 +279,8 @@ func runWith(w io.Writer, o options) error {
 		back += " (never left the band)"
 	}
 	fmt.Fprintf(w, "    back within +-%.1f degC  %s\n", PlantSettleBand, back)
-	fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+	steadyLine(w, m, PlantSettleBand)
+	unsuitable(w, m)
 	if noisy != nil {
 		mn := Measure(noisy.Temp, k0, 18, 18, band, ts)
 		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
@@ -317,6 +319,29 @@ func (pl *plant) runBoth(w io.Writer, sc Scenario, u0, sd float64) (clean Trace,
 		return Trace{}, nil, fmt.Errorf("harness: %s: the closed loop diverged with noise", sc.Name)
 	}
 	return clean, &tr, nil
+}
+
+// steadyLine prints the steady-state error of m, or, for a loop that
+// does not settle (m.Unsettled), that it has none and why: the rule is
+// a swing over the last quarter of the run wider than the band.
+func steadyLine(w io.Writer, m StepMetrics, band float64) {
+	if !m.Unsettled {
+		fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+		return
+	}
+	fmt.Fprintf(w, "    steady-state error      none: the loop does not settle (over the last quarter of the run\n"+
+		"                            the temperature still swings over %.2f degC, wider than the +-%.1f degC band)\n", m.Swing, band)
+}
+
+// unsuitable says on w that the tuning under test does not suit the
+// plant when the loop does not settle.
+func unsuitable(w io.Writer, m StepMetrics) {
+	if !m.Unsettled {
+		return
+	}
+	fmt.Fprintf(w, "  WARNING: the tuning (Kc %.1f %%/degC, Ti %.0f min) is unsuitable for this plant: the loop oscillates\n"+
+		"  and does not settle, so these figures describe an oscillation, not a response; retune (a lower Kc\n"+
+		"  or a longer Ti) before trying it on the plant\n", tuneKc, tuneTi)
 }
 
 // firstWithin returns the first index at which y is within band of
