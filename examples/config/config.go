@@ -614,6 +614,17 @@ func (p *positions) syntaxOffset(se *json.SyntaxError) int {
 // errUnexpectedEnd is what the JSON reader returns for a file cut short.
 var errUnexpectedEnd = io.ErrUnexpectedEOF
 
+// prevByte returns the last byte before off that is not JSON white
+// space, or 0.
+func prevByte(raw []byte, off int) byte {
+	for i := off - 1; i >= 0; i-- {
+		if !isSpace(raw[i]) {
+			return raw[i]
+		}
+	}
+	return 0
+}
+
 // jsonHint adds a likely fix for common slips at a JSON syntax error.
 func jsonHint(raw []byte, off int) string {
 	if off < 0 || off >= len(raw) {
@@ -622,8 +633,8 @@ func jsonHint(raw []byte, off int) string {
 	switch c := raw[off]; {
 	case c == '\'':
 		return " (JSON strings are in double quotes)"
-	case c == '}' || c == ']':
-		return " (a ',' before it with nothing after? JSON allows no trailing comma)"
+	case (c == '}' || c == ']') && prevByte(raw, off) == ',':
+		return " (JSON allows no ',' after the last member or element)"
 	case c == '/' || c == '#':
 		return " (JSON has no comments; put notes in a \"notes\" field)"
 	case c == '"':

@@ -205,11 +205,19 @@ func TestBrokenFiles(t *testing.T) {
 		{"{\n  \"site\": \"x\",\n  \"models\": [ {\"name\": \"a\" \"spec\": \"y = 1 x\"} ]\n}", `"spec"`,
 			`JSON: invalid character '"' after object key:value pair (a missing ',' between two members?)`},
 		{`{"models": [{` + ok + `},]}`, `]}`,
-			"JSON: invalid character ']' looking for beginning of value (a ',' before it with nothing after? JSON allows no trailing comma)"},
+			"JSON: invalid character ']' looking for beginning of value (JSON allows no ',' after the last member or element)"},
+		{`{"models": [{` + ok + `}], "notes": tru}`, `}`, "JSON: invalid character '}' in literal true (expecting 'e')"},
 		{`{"models": [{'name': "a"}]}`, `'name'`, `JSON: invalid character '\'' (JSON strings are in double quotes)`},
 		{"# models of the north block\n{}", "# models", `JSON: invalid character '#' looking for beginning of value (JSON has no comments; put notes in a "notes" field)`},
 		{`{"models": [{` + ok + `}]`, ``, `JSON: the file ends before the config is complete (a missing '}', ']' or '"'?)`},
 		{`{"models": [{` + ok + `}]} {}`, `{}`, "JSON: text after the end of the config object; a file holds one config object"},
+		// Text after the closing brace on the same line: placed at its
+		// first character, whatever it is (a word the decoder would read
+		// as a misspelt literal, a short literal, a stray letter).
+		{`{"models": [{` + ok + `}]} trailing`, `trailing`, "JSON: text after the end of the config object; a file holds one config object"},
+		{`{"models": [{` + ok + `}]}   nul`, `nul`, "JSON: text after the end of the config object; a file holds one config object"},
+		{`{"models": [{` + ok + `}]} x`, `x`, "JSON: text after the end of the config object; a file holds one config object"},
+		{"{\"models\": [{" + ok + "}]}\n\n  more", `more`, "JSON: text after the end of the config object; a file holds one config object"},
 		{`[{` + ok + `}]`, `[{`, `the file holds an array, not a config object; a config is a JSON object such as ` + example},
 		{`{"site": "x"}`, `{"site"`, `the config has no "models" array; a config is a JSON object such as ` + example},
 		{`{"models": []}`, `[]`, `the "models" array is empty; list at least one model, as in [{"name": "...", "spec": "y = w0 B x + a; every 1 min"}]`},

@@ -77,14 +77,22 @@ func walk(raw []byte) (*jval, error) {
 	if err != nil {
 		return nil, err
 	}
-	if _, err := w.dec.Token(); !errors.Is(err, io.EOF) {
-		if err != nil {
-			return nil, err
-		}
-		return nil, &errTrailing{off: w.skip(v.end)}
+	// Whatever follows the top value is looked at here rather than by the
+	// decoder: the decoder would read it as the start of a second value
+	// and report a syntax error placed relative to that value ("invalid
+	// character 'a' in literal true" for "trailing").
+	off := v.end
+	for off < len(raw) && isSpace(raw[off]) {
+		off++
+	}
+	if off < len(raw) {
+		return nil, &errTrailing{off: off}
 	}
 	return v, nil
 }
+
+// isSpace reports whether c is JSON white space.
+func isSpace(c byte) bool { return c == ' ' || c == '\t' || c == '\r' || c == '\n' }
 
 type walker struct {
 	raw []byte

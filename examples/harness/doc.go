@@ -30,7 +30,13 @@
 // settling times. A spec sampled every 10 s runs each scenario in 2160
 // samples. Settling is measured from the first sample at or after the
 // step; it is 0 when the temperature never leaves the band, and "not
-// reached within the run" when it is outside the band at the end.
+// reached within the run" when it is outside the band at the end. The
+// steady-state error is the mean error over the last quarter of the
+// run; when the temperature still swings over that quarter by more than
+// the band's full width (peak to peak over 0.4 degC for the +-0.2 degC
+// band: it fits in no band of that width), the loop does not settle, no
+// steady-state error is printed, and the summary says the tuning is
+// unsuitable for the plant.
 //
 // # Noise
 //

@@ -33,6 +33,7 @@ type options struct {
 	spec      string
 	specSet   bool // -spec was given
 	noise     float64
+	noiseSet  bool // -noise was given (else noise is the default NoiseSD)
 	config    string
 	model     string
 	useFailed bool
@@ -64,7 +65,10 @@ func cli(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "harness: unexpected argument %q: the harness takes flags only; give a plant with -spec '...' or -config FILE (see -h)\n", fs.Arg(0))
 		return 2
 	}
-	fs.Visit(func(f *flag.Flag) { o.specSet = o.specSet || f.Name == "spec" })
+	fs.Visit(func(f *flag.Flag) {
+		o.specSet = o.specSet || f.Name == "spec"
+		o.noiseSet = o.noiseSet || f.Name == "noise"
+	})
 	if err := runWith(stdout, o); err != nil {
 		fmt.Fprintln(stderr, err)
 		return 1
@@ -239,8 +243,9 @@ func runWith(w io.Writer, o options) error {
 	fmt.Fprintf(w, "  without noise:\n")
 	fmt.Fprintf(w, "    settling to +-%.1f degC  %s\n", PlantSettleBand, timeText(m.Settling, ts))
 	fmt.Fprintf(w, "    overshoot               %5.1f %%\n", 100*m.Overshoot)
-	fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+	steadyLine(w, m, PlantSettleBand)
 	fmt.Fprintf(w, "    valve at its limit      %s\n", minutesText(float64(atLimit(clean.Valve))*ts, ts))
+	unsuitable(w, m)
 	if noisy != nil {
 		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
 		if band >= 20-16 {
@@ -274,7 +279,8 @@ func runWith(w io.Writer, o options) error {
 		back += " (never left the band)"
 	}
 	fmt.Fprintf(w, "    back within +-%.1f degC  %s\n", PlantSettleBand, back)
-	fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+	steadyLine(w, m, PlantSettleBand)
+	unsuitable(w, m)
 	if noisy != nil {
 		mn := Measure(noisy.Temp, k0, 18, 18, band, ts)
 		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
@@ -313,6 +319,29 @@ func (pl *plant) runBoth(w io.Writer, sc Scenario, u0, sd float64) (clean Trace,
 		return Trace{}, nil, fmt.Errorf("harness: %s: the closed loop diverged with noise", sc.Name)
 	}
 	return clean, &tr, nil
+}
+
+// steadyLine prints the steady-state error of m, or, for a loop that
+// does not settle (m.Unsettled), that it has none and why: the rule is
+// a swing over the last quarter of the run wider than the band.
+func steadyLine(w io.Writer, m StepMetrics, band float64) {
+	if !m.Unsettled {
+		fmt.Fprintf(w, "    steady-state error      %+5.2f degC\n", noNegZero(m.SteadyError, 2))
+		return
+	}
+	fmt.Fprintf(w, "    steady-state error      none: the loop does not settle (over the last quarter of the run\n"+
+		"                            the temperature still swings over %.2f degC, wider than the +-%.1f degC band)\n", m.Swing, band)
+}
+
+// unsuitable says on w that the tuning under test does not suit the
+// plant when the loop does not settle.
+func unsuitable(w io.Writer, m StepMetrics) {
+	if !m.Unsettled {
+		return
+	}
+	fmt.Fprintf(w, "  WARNING: the tuning (Kc %.1f %%/degC, Ti %.0f min) is unsuitable for this plant: the loop oscillates\n"+
+		"  and does not settle, so these figures describe an oscillation, not a response; retune (a lower Kc\n"+
+		"  or a longer Ti) before trying it on the plant\n", tuneKc, tuneTi)
 }
 
 // firstWithin returns the first index at which y is within band of
@@ -375,30 +404,60 @@ func resolve(o options) (*plant, error) {
 		pl.spec, pl.saved, pl.validity = sm.Spec, sm, sm.Validity
 		pl.fail = func(err error) error { return &FlagError{Flag: "config", Value: o.config, Msg: where, Err: err} }
 	}
+	// A saved model's verdict comes first: a model that failed its checks
+	// is refused for that, whatever else is wrong with it.
+	if err := checkVerdict(pl.validity, o.useFailed); err != nil {
+		return nil, pl.fail(err)
+	}
 	p, err := NewProcess(pl.spec, 0, 0)
 	if err != nil {
 		return nil, pl.fail(err)
 	}
 	pl.proc = p
-	if sd > 0 && p.model.Noise == nil {
-		return nil, &FlagError{Flag: "noise", Value: fmt.Sprint(sd), Msg: "the plant spec has no noise term; end it with + a (or an ARMA term), or run with -noise 0"}
+	if err := checkNoise(pl, o); err != nil {
+		return nil, err
 	}
-	if sd > 0 {
-		if _, err := NewProcess(pl.spec, 0, sd); err != nil {
-			return nil, &FlagError{Flag: "noise", Value: fmt.Sprint(sd), Msg: "the plant's noise cannot be drawn from its steady state; run with -noise 0, or give a stationary noise term", Err: err}
-		}
-	}
-	if err := checkValidity(pl, o.useFailed); err != nil {
+	if err := checkInterval(pl); err != nil {
 		return nil, pl.fail(err)
 	}
 	return pl, nil
 }
 
-// checkValidity refuses a saved model whose verdict failed (unless
-// forced) or is unknown, and one whose record's interval differs from
-// its spec's.
-func checkValidity(pl *plant, force bool) error {
-	v := pl.validity
+// checkNoise refuses noise asked of a plant that cannot give it: a spec
+// without a noise term, or one whose noise model has no steady state to
+// draw it from. When -noise was given the flag is blamed; with the
+// default the model's noise term is, and -noise 0 is offered.
+func checkNoise(pl *plant, o options) error {
+	sd := o.noise
+	if sd == 0 {
+		return nil
+	}
+	problem := ""
+	var cause error
+	if pl.proc.model.Noise == nil {
+		problem = "the plant has none"
+	} else if _, err := NewProcess(pl.spec, 0, sd); err != nil {
+		problem, cause = "its noise cannot be drawn from a steady state", err
+		var pe *PlantError
+		if errors.As(err, &pe) && pe.Part == "noise term" {
+			problem += " (" + pe.Problem + ")"
+		} else {
+			problem += ": " + err.Error()
+		}
+	} else {
+		return nil
+	}
+	if o.noiseSet {
+		fix := "end the spec with + a (or a stationary ARMA term), or run with -noise 0"
+		return &FlagError{Flag: "noise", Value: fmt.Sprint(sd), Msg: "the runs with noise need the plant's noise term, and " + problem + "; " + fix}
+	}
+	return pl.fail(&PlantError{Part: "noise term", Problem: fmt.Sprintf("%s, and the runs with the plant's noise (by default SD %g degC) need one that is stationary; "+
+		"give the model a stationary noise term (+ a, or an ARMA term with its roots outside the unit circle), or run without noise: -noise 0", problem, sd), Err: cause, inline: true})
+}
+
+// checkVerdict refuses a saved model whose verdict failed (unless
+// forced) or is unknown. v may be nil (a -spec plant).
+func checkVerdict(v *modelinfo.Validity, force bool) error {
 	if v == nil {
 		return nil
 	}
@@ -411,6 +470,16 @@ func checkValidity(pl *plant, force bool) error {
 		}
 	default:
 		return fmt.Errorf("its validity record has verdict %q, neither %q nor %q", v.Verdict, modelinfo.VerdictPassed, modelinfo.VerdictFailed)
+	}
+	return nil
+}
+
+// checkInterval refuses a saved model whose record's interval differs
+// from its spec's.
+func checkInterval(pl *plant) error {
+	v := pl.validity
+	if v == nil {
+		return nil
 	}
 	if iv := pl.proc.model.Interval.String(); v.Interval != "" && v.Interval != iv {
 		return fmt.Errorf("its validity record says the data was sampled every %s but its spec says every %s; the two must agree", v.Interval, iv)

@@ -23,8 +23,20 @@ type StepMetrics struct {
 	Overshoot float64
 	// SteadyError is the mean of target - variable over the last
 	// quarter of the record after the step (at least its last sample);
-	// NaN when there is no sample after the step.
+	// NaN when there is no sample after the step, or when the variable
+	// does not settle (see Swing): a mean over an oscillation is no
+	// steady state.
 	SteadyError float64
+	// Swing is the peak-to-peak range of the variable over that last
+	// quarter (NaN when there is no sample after the step). When it
+	// exceeds the band's full width (2 band) the variable cannot lie
+	// within any band of that width there: it has not settled, and
+	// Unsettled is true.
+	Swing float64
+	// Unsettled reports a variable still swinging by more than the
+	// band's full width over the last quarter of the record after the
+	// step (an oscillating or limit-cycling loop).
+	Unsettled bool
 	// PeakDeviation is the largest |target - variable| after the step
 	// (for a disturbance step: how far the disturbance pushed it); NaN
 	// when there is no sample after the step.
@@ -37,7 +49,7 @@ type StepMetrics struct {
 func Measure(y []float64, k0 int, before, after, band, ts float64) StepMetrics {
 	nan := math.NaN()
 	if k0 < 0 || k0 >= len(y) {
-		return StepMetrics{Settling: nan, Overshoot: nan, SteadyError: nan, PeakDeviation: nan}
+		return StepMetrics{Settling: nan, Overshoot: nan, SteadyError: nan, Swing: nan, PeakDeviation: nan}
 	}
 	var m StepMetrics
 	size := after - before
@@ -64,9 +76,15 @@ func Measure(y []float64, k0 int, before, after, band, ts float64) StepMetrics {
 		m.Settling = math.Inf(1)
 	}
 	tail := y[k0+3*(len(y)-k0)/4:]
+	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, v := range tail {
 		m.SteadyError += after - v
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
 	}
 	m.SteadyError /= float64(len(tail))
+	m.Swing = hi - lo
+	if !(m.Swing <= 2*band) {
+		m.Unsettled, m.SteadyError = true, nan
+	}
 	return m
 }

@@ -68,3 +68,30 @@ func TestMeasureEdges(t *testing.T) {
 		t.Errorf("outside the band at the end: settling %v, want +Inf", m.Settling)
 	}
 }
+
+// TestMeasureUnsettled checks the rule for a loop that does not settle:
+// a sustained oscillation y = 20 + 2 sin(2 pi k/40) after the step
+// swings 4 degC peak to peak over the last quarter (by hand from the
+// sine: a quarter of 300 samples holds whole periods), wider than the
+// 0.4 degC full width of a +-0.2 band, so it has no steady-state error
+// (NaN, where the mean would read about 0); a decaying response whose
+// last quarter stays within 0.4 degC keeps its error.
+func TestMeasureUnsettled(t *testing.T) {
+	y := make([]float64, 310)
+	for k := range y {
+		y[k] = 16
+		if k >= 10 {
+			y[k] = 20 + 2*math.Sin(2*math.Pi*float64(k-10)/40)
+		}
+	}
+	m := Measure(y, 10, 16, 20, 0.2, 1)
+	if !m.Unsettled || !math.IsNaN(m.SteadyError) || abs(m.Swing-4) > 1e-9 || !math.IsInf(m.Settling, 1) {
+		t.Errorf("oscillation: %+v, want unsettled, swing 4, no steady-state error", m)
+	}
+	for k := 10; k < len(y); k++ {
+		y[k] = 19.5 + 0.1*math.Exp(-float64(k-10)/50)
+	}
+	if m := Measure(y, 10, 16, 20, 0.2, 1); m.Unsettled || math.IsNaN(m.SteadyError) || m.SteadyError < 0.4 || m.SteadyError > 0.5 {
+		t.Errorf("settled with an offset of about 0.5: %+v", m)
+	}
+}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -56,6 +57,7 @@ type PlantError struct {
 	Pos     tf.Pos
 	Problem string
 	Err     error
+	inline  bool // Problem already says what Err says
 }
 
 // Error describes the problem in one line.
@@ -65,7 +67,7 @@ func (e *PlantError) Error() string {
 		s += fmt.Sprintf(" (at %d:%d)", e.Pos.Line, e.Pos.Column)
 	}
 	s += ": " + e.Problem
-	if e.Err != nil {
+	if e.Err != nil && !e.inline {
 		s += ": " + e.Err.Error()
 	}
 	return s
@@ -116,7 +118,20 @@ func NewProcess(spec string, seed uint64, sd float64) (*Process, error) {
 		set.BurnIn = 500
 	}
 	if p.sys, err = tf.NewSystem(m, set); err != nil {
-		return nil, &PlantError{Part: "plant", Problem: "cannot be simulated", Err: err}
+		// The library's error names the part of the model; its text is
+		// said in the harness's own words, without the package prefix.
+		pe := &PlantError{Part: "model", Problem: "cannot be simulated", Err: err}
+		var se *tf.SimError
+		if errors.As(err, &se) {
+			pe.Part, pe.Problem, pe.inline = se.Part, se.Problem, true
+			if se.Part == "noise" {
+				pe.Part = "noise term"
+			}
+			if se.Err != nil {
+				pe.Problem += ": " + se.Err.Error()
+			}
+		}
+		return nil, pe
 	}
 	return p, nil
 }

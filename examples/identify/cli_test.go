@@ -96,21 +96,23 @@ func TestFailedFitIsNotAdequate(t *testing.T) {
 		"NOT for control work: the model fails its checks",
 		"gain 0.02768 +- n/a",
 		"(from a model that fails its checks: not to be relied on)",
-		"Not saved to " + o.Save,
 	} {
 		if !strings.Contains(out, want) {
 			t.Errorf("output lacks %q:\n%s", want, out)
 		}
 	}
-	for _, bad := range []string{"adequate by every check", "Input paths for control work", "To test a controller", "NaN", "Fitted model saved"} {
+	// The refusal is said once, by the error, in one short line; the
+	// failures are in the report and in the error's Failures.
+	for _, bad := range []string{"adequate by every check", "Input paths for control work", "To test a controller", "NaN", "Fitted model saved", "Not saved"} {
 		if strings.Contains(out, bad) {
 			t.Errorf("output has %q:\n%s", bad, out)
 		}
 	}
-	for _, want := range []string{"-save " + o.Save + ": not saved: the model fails its checks", "the fit did not converge", "add -save-untrusted"} {
-		if !strings.Contains(err.Error(), want) {
-			t.Errorf("error %q lacks %q", err, want)
-		}
+	if want := "-save " + o.Save + ": not saved: the model fails its checks (listed in the report); -save-untrusted saves it marked as untrusted"; err.Error() != want {
+		t.Errorf("error %q, want %q", err, want)
+	}
+	if !slices.ContainsFunc(se.Failures, func(f string) bool { return strings.HasPrefix(f, "the fit did not converge") }) {
+		t.Errorf("SaveError.Failures %q lack the failed convergence", se.Failures)
 	}
 	if _, err := os.Stat(o.Save); !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("the refused model was written: %v", err)
@@ -634,5 +636,114 @@ func TestChecksNotRun(t *testing.T) {
 	want := "Diagnostic checks: not run\n  verdict: NOT ADEQUATE, do not use this model for control work: the diagnostic checks could not be run: too few residuals\n"
 	if !strings.HasSuffix(b.String(), want) {
 		t.Errorf("got %q, want %q", b.String(), want)
+	}
+}
+
+// TestFlagsNotIgnored: flags that would be ignored, or half used, are
+// refused by name: -inputs or -output that disagree with -spec, a plan
+// step beyond the forecast horizon or given twice, a plan without a
+// forecast, and a negative -skip other than -1 (automatic).
+func TestFlagsNotIgnored(t *testing.T) {
+	spec := "temp = c + w0 / (1 - d1 B) B^3 valve + v0 B outdoor + a"
+	for _, c := range []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"-spec", spec, "-inputs", "valve"}, 2,
+			`identify: -inputs "valve" disagrees with the spec, whose inputs are valve,outdoor: with -spec the output and inputs are taken from the spec; drop -inputs`},
+		{[]string{"-spec", spec, "-output", "outdoor"}, 2,
+			`identify: -output "outdoor" disagrees with the spec, whose output is temp: with -spec the output and inputs are taken from the spec; drop -output`},
+		{[]string{"-plan", "5000:50"}, 1,
+			`identify: -plan "5000:50": the step at sample 5000 lies beyond the forecast horizon of 180 samples (the automatic horizon`},
+		{[]string{"-plan", "0:50,100:60", "-horizon", "100"}, 1,
+			`identify: -plan "0:50,100:60": the step at sample 100 lies beyond the forecast horizon of 100 samples (-horizon 100), so it would be dropped; plan steps must start before sample 100`},
+		{[]string{"-plan", "10:50", "-horizon", "0"}, 1, `identify: -plan "10:50": no forecast is made (-horizon 0), so the plan would not be used`},
+		{[]string{"-plan", "0:50,0:60"}, 1, `identify: -plan "0:50,0:60": sample 0 is given two values (50 and 60); give each step once`},
+		{[]string{"-skip=-2"}, 1, "identify: -skip -2: want a number of samples, 0 or more, or -1 (automatic"},
+	} {
+		var stdout, stderr bytes.Buffer
+		code := cli(append(c.args, "-quiet"), &stdout, &stderr)
+		if code != c.code || !strings.Contains(stderr.String(), c.want) {
+			t.Errorf("%q: exit %d, stderr %q; want exit %d and %q", c.args, code, stderr.String(), c.code, c.want)
+		}
+		if stdout.Len() > 0 {
+			t.Errorf("%q: ran anyway:\n%s", c.args, stdout.String())
+		}
+	}
+	// Flags that agree with the spec (inputs in another order) pass.
+	o := DefaultOptions()
+	o.Spec, o.Inputs = spec, []string{"outdoor", "valve"}
+	if err := specFlags(o, true, true); err != nil {
+		t.Errorf("flags that agree with the spec: %v", err)
+	}
+}
+
+// TestColumnHints: a comma file read with -sep tab names the likely
+// separator; naming the file's time column as an input says that it is
+// the time column and how to read it as a series.
+func TestColumnHints(t *testing.T) {
+	path := writeFile(t, "gh.csv", lines(ghCSV(t), func(i int) bool { return i < 200 }))
+	o := DefaultOptions()
+	o.Data, o.Sep = path, '\t'
+	_, out, err := run(t, o)
+	want := `-output names column "temp", but ` + path + ` has no such column`
+	hint := "(with -sep tab the header reads as one column holding commas: the file looks comma-separated; drop -sep, a comma is the default)"
+	if err == nil || !strings.Contains(err.Error(), want) || !strings.HasSuffix(err.Error(), hint) || out != "" {
+		t.Errorf("comma file read with -sep tab: %v", err)
+	}
+
+	o = DefaultOptions()
+	o.Data, o.Inputs = path, []string{"valve", "minute"}
+	_, out, err = run(t, o)
+	want = `-inputs names column "minute", but that is the file's time column (read as the time of each row); to read it as a series give -time none`
+	if err == nil || !strings.Contains(err.Error(), want) || out != "" {
+		t.Errorf("time column named as an input: %v", err)
+	}
+	// With -time none the column is read as a series (this pair is then
+	// collinear, which the identification reports, a different error).
+	o.Time = "none"
+	if _, _, err := run(t, o); err != nil && strings.Contains(err.Error(), "time column") {
+		t.Errorf("-time none still refused: %v", err)
+	}
+}
+
+// TestExitNotAdequate: a report whose verdict is NOT ADEQUATE ends with
+// exit status 3 after the whole report (with or without -save, which
+// then refuses in one short line on standard error); an adequate one
+// with 0.
+func TestExitNotAdequate(t *testing.T) {
+	path := writeFile(t, "short.csv", lines(ghCSV(t), func(i int) bool { return i < 20 }))
+	spec := "temp = c + w0/(1 - d1 B) B^3 valve + (1 - t1 B) a"
+	save := filepath.Join(t.TempDir(), "m.json")
+	for _, extra := range [][]string{nil, {"-save", save}} {
+		var stdout, stderr bytes.Buffer
+		code := cli(append([]string{"-quiet", "-data", path, "-spec", spec, "-inputs", "valve"}, extra...), &stdout, &stderr)
+		if code != 3 || !strings.Contains(stdout.String(), "verdict: NOT ADEQUATE") || !strings.Contains(stdout.String(), "Caution:") {
+			t.Errorf("%q: exit %d, want 3 after the report:\n%s", extra, code, stdout.String())
+		}
+		lines := strings.Split(strings.TrimSpace(stderr.String()), "\n")
+		// Short: at most 140 bytes besides the file's name (the temporary
+		// folder's name is long and varies).
+		if len(lines) != 1 || len(strings.ReplaceAll(lines[0], save, "")) > 140 {
+			t.Errorf("%q: stderr %q, want one short line", extra, stderr.String())
+		}
+	}
+	var stdout, stderr bytes.Buffer
+	if code := cli([]string{"-h"}, &stdout, &stderr); !strings.Contains(stderr.String(), "3 the report was printed but its verdict is NOT\nADEQUATE") || code != 0 {
+		t.Errorf("-h does not document exit status 3:\n%s", stderr.String())
+	}
+}
+
+// TestAmount: a count of one sample is singular.
+func TestAmount(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		unit string
+		want string
+	}{{1, "samples", "1 sample"}, {3, "samples", "3 samples"}, {1, "min", "1 min"}, {2.5, "s", "2.5 s"}} {
+		if got := amount(c.v, c.unit); got != c.want {
+			t.Errorf("amount(%g, %q) = %q, want %q", c.v, c.unit, got, c.want)
+		}
 	}
 }

@@ -21,8 +21,11 @@
 // intervals). The demo's plan (valve 65 %, 85 %, 70 %) is used only on
 // the built-in record; for a file the first input holds its last value
 // unless -plan says otherwise, and a plan that leaves the range of the
-// input seen in the record is warned about, naming both ranges. With
-// -spec it fits the given model instead. On the built-in demo data, whose
+// input seen in the record is warned about, naming both ranges; a plan
+// step at or beyond the horizon, or a sample given two values, is
+// refused. With -spec it fits the given model instead, and its output
+// and inputs are the spec's: -output or -inputs that disagree with it
+// are refused. On the built-in demo data, whose
 // true model is known, it also prints how close the identified model is
 // to the truth.
 //
@@ -36,7 +39,13 @@
 // (examples/internal/modelinfo.Validity): the sample count and interval,
 // the range of the output and of every input, the verdict, its reasons
 // and whether the save was forced. The folder of -save is checked before
-// any work is done.
+// any work is done. A refused save is said in one short line on standard
+// error (the reasons are in the report).
+//
+// Exit status: 0 for a model that passed its checks, 1 for a run that
+// failed, 2 for a command line that cannot be read, and 3 when the
+// report was printed but its verdict is NOT ADEQUATE, so that scripts
+// notice without reading the report.
 //
 // A CSV file has a header line of column names; only the columns the run
 // names are read as numbers, so a column of notes or dates elsewhere is

@@ -40,7 +40,35 @@ func parsePlan(s string) ([]planStep, error) {
 		out = append(out, planStep{from, v})
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].From < out[j].From })
+	for i := 1; i < len(out); i++ {
+		if out[i].From == out[i-1].From {
+			return nil, fmt.Errorf("-plan %s: sample %d is given two values (%g and %g); give each step once",
+				clip(s), out[i].From, out[i-1].Value, out[i].Value)
+		}
+	}
 	return out, nil
+}
+
+// checkPlan refuses a -plan that the forecast would not use in full: a
+// step at or after the horizon h (h = 0: no forecast at all). plan is
+// the text given ("" and "hold" pass).
+func checkPlan(text string, h, horizonFlag int) error {
+	steps, err := parsePlan(text)
+	if err != nil || len(steps) == 0 {
+		return err
+	}
+	if h <= 0 {
+		return fmt.Errorf("-plan %s: no forecast is made (-horizon 0), so the plan would not be used; drop -plan or give a horizon", clip(text))
+	}
+	if last := steps[len(steps)-1]; last.From >= h {
+		how := fmt.Sprintf("-horizon %d", h)
+		if horizonFlag == HorizonAuto {
+			how = fmt.Sprintf("the automatic horizon: 180 samples, at most a quarter of the record, here %d", h)
+		}
+		return fmt.Errorf("-plan %s: the step at sample %d lies beyond the forecast horizon of %d %s (%s), so it would be dropped; "+
+			"plan steps must start before sample %d, or give a longer -horizon", clip(text), last.From, h, plural(h, "sample", "samples"), how, h)
+	}
+	return nil
 }
 
 // schedule expands plan over h samples; before the first step the last

@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"strings"
 
 	"github.com/backshift/backshift/tf"
 )
@@ -30,7 +29,7 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 			break
 		}
 		if c.Err != nil {
-			fmt.Fprintf(w, "  %4d  %10s  %10s  %6s  %-6s  %s (fit failed: %v)\n", c.Rank, "-", "-", "-", "-", structure(c.Structure), c.Err)
+			fmt.Fprintf(w, "  %4d  %10s  %10s  %6s  %-6s  %s (fit failed: %v)\n", c.Rank, "-", "-", "-", "-", tf.StructureLabel(c.Structure), c.Err)
 			continue
 		}
 		e := c.Estimate
@@ -38,7 +37,7 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 		if c.Diagnostics != nil {
 			checks = map[bool]string{true: "pass", false: "FAIL"}[c.Diagnostics.Pass]
 		}
-		fmt.Fprintf(w, "  %4d  %10.1f  %10.1f  %6d  %-6s  %s\n", c.Rank, e.BIC, e.AIC, len(e.Params), checks, structure(c.Structure))
+		fmt.Fprintf(w, "  %4d  %10.1f  %10.1f  %6d  %-6s  %s\n", c.Rank, e.BIC, e.AIC, len(e.Params), checks, tf.StructureLabel(c.Structure))
 	}
 	if cands[0].Estimate == nil {
 		return nil, fmt.Errorf("identification: no candidate could be fitted")
@@ -48,27 +47,13 @@ func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progr
 		note := "  note: the best by BIC fails its checks, and so does every other candidate"
 		for _, c := range cands[1:] {
 			if c.Err == nil && c.Diagnostics != nil && c.Diagnostics.Pass {
-				note = fmt.Sprintf("  note: the best by BIC fails its checks; the best that passes them is rank %d: %s", c.Rank, structure(c.Structure))
+				note = fmt.Sprintf("  note: the best by BIC fails its checks; the best that passes them is rank %d: %s", c.Rank, tf.StructureLabel(c.Structure))
 				break
 			}
 		}
 		fmt.Fprintln(w, note)
 	}
 	return cands[0].Estimate, nil
-}
-
-// structure describes a model's form in the trade's terms: (b, r, s) per
-// input and the noise ARMA(p, q) orders.
-func structure(m tf.Model) string {
-	var parts []string
-	for _, in := range m.Inputs {
-		parts = append(parts, fmt.Sprintf("%s (b=%d, r=%d, s=%d)", in.Series, in.Delay, in.Den.Degree(), in.Num.Degree()))
-	}
-	noise := "no noise term"
-	if m.Noise != nil {
-		noise = fmt.Sprintf("noise ARMA(%d, %d)", m.Noise.AR.Degree(), m.Noise.MA.Degree())
-	}
-	return strings.Join(parts, ", ") + ", " + noise
 }
 
 // shownCandidates is the number of candidates listed.

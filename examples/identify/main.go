@@ -7,10 +7,13 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
 	"unicode/utf8"
+
+	"github.com/backshift/backshift/parse"
 )
 
 // Options are the command-line settings of one run.
@@ -33,8 +36,9 @@ type Options struct {
 	// samples by holding the last value or on a straight line;
 	// "longest" fits only the longest evenly spaced stretch.
 	Gaps string
-	// Output and Inputs name the columns of the output and the inputs
-	// (ignored with Spec: the spec names them).
+	// Output and Inputs name the columns of the output and the inputs.
+	// With Spec the spec names them and these are not read; the command
+	// line refuses -output or -inputs that disagree with the spec.
 	Output string
 	Inputs []string
 	// Spec, when not empty, is a model to fit instead of identifying one.
@@ -61,13 +65,16 @@ type Options struct {
 	// Plan is the planned schedule of the first input as
 	// "from:value,..." (samples from the end of the record), or "hold"
 	// to hold its last value. Empty means the demo's plan on the
-	// built-in record, and hold for a file.
+	// built-in record, and hold for a file. A sample given twice, or a
+	// step at or beyond the forecast horizon (which would be dropped),
+	// is refused.
 	Plan string
 	// Skip is the number of samples at the start of the record left out
 	// of the sums of squares: the input filters start from zero
 	// pre-sample values, and with inputs far from zero (a valve at 60 %)
-	// the start-up transient would otherwise be read as noise. A
-	// negative value means automatic: 5 % of the record, at most 500.
+	// the start-up transient would otherwise be read as noise. -1 means
+	// automatic: 5 % of the record, at most 500; other negative values
+	// are refused.
 	Skip int
 	// Quiet suppresses progress messages.
 	Quiet bool
@@ -96,13 +103,28 @@ Examples:
   go run ./examples/identify                      # the built-in greenhouse demo
   go run ./examples/identify -data plant.csv -output temp -inputs valve,outdoor -gaps linear:5
 
+Exit status: 0 the model passed its checks, 1 the run failed, 2 a command
+line that cannot be read, 3 the report was printed but its verdict is NOT
+ADEQUATE (the model fails its checks; -save then saves nothing).
+
 Flags:
 `
 
 func main() { os.Exit(cli(os.Args[1:], os.Stdout, os.Stderr)) }
 
+// Exit statuses of the program (documented in -h).
+const (
+	exitOK          = 0
+	exitFailed      = 1 // the run failed (a file, a setting, a fit)
+	exitUsage       = 2 // the command line cannot be read
+	exitNotAdequate = 3 // the report was printed, and its verdict is NOT ADEQUATE
+)
+
 // cli runs the program with the command-line arguments args and returns
-// its exit status: 0 done, 1 a failed run, 2 a bad command line.
+// its exit status: 0 done with an adequate model, 1 a failed run, 2 a
+// bad command line, 3 a report whose model is NOT ADEQUATE (printed in
+// full, so that scripts notice; a -save refused for that reason also
+// ends with 3).
 func cli(args []string, stdout, stderr io.Writer) int {
 	o := DefaultOptions()
 	var inputs, interval, sep string
@@ -117,8 +139,8 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.StringVar(&o.Time, "time", "", "time column of the CSV file (default: the first column, when it holds timestamps or dates, or numbers under a name such as time or minute); none: no time column")
 	fs.StringVar(&o.TimeUnit, "time-unit", "", "unit of a numeric time column: s, min, h or d (default: the unit its name says, else s)")
 	fs.StringVar(&o.Gaps, "gaps", "", "remedy for missing rows in the time column: hold:N or linear:N fill gaps of up to N samples, longest fits the longest evenly spaced stretch (default: refuse)")
-	fs.StringVar(&o.Output, "output", o.Output, "column of the output series")
-	fs.StringVar(&inputs, "inputs", strings.Join(o.Inputs, ","), "comma-separated columns of the input series")
+	fs.StringVar(&o.Output, "output", o.Output, "column of the output series (with -spec: the spec's; a different one is refused)")
+	fs.StringVar(&inputs, "inputs", strings.Join(o.Inputs, ","), "comma-separated columns of the input series (with -spec: the spec's; different ones are refused)")
 	fs.StringVar(&o.Spec, "spec", "", "fit this model spec instead of identifying one")
 	fs.StringVar(&interval, "interval", "", "sample interval with a unit, e.g. 1min, 10s, 0.5h (default: the spec's, the time column's, or 1min for the built-in data)")
 	fs.StringVar(&o.Pictures, "pictures", "", "write PNG pictures to this folder")
@@ -126,8 +148,8 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.BoolVar(&o.SaveUntrusted, "save-untrusted", false, "with -save: save the model even when it fails its checks, marked as untrusted")
 	fs.StringVar(&o.WriteData, "write-data", "", "write the built-in greenhouse record as CSV to this file and exit")
 	fs.IntVar(&o.Horizon, "horizon", o.Horizon, "forecast horizon in samples (0: no forecast; -1: 180, at most a quarter of the record)")
-	fs.StringVar(&o.Plan, "plan", "", "planned first input after the record, as from:value pairs (samples from the end), or hold (default: the demo plan "+demoPlan+" on the built-in record, hold for a file)")
-	fs.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500)")
+	fs.StringVar(&o.Plan, "plan", "", "planned first input after the record, as from:value pairs (samples from the end, each sample once, all before the -horizon), or hold (default: the demo plan "+demoPlan+" on the built-in record, hold for a file)")
+	fs.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500; other negative values are refused)")
 	fs.BoolVar(&o.Quiet, "quiet", false, "no progress messages on standard error")
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -145,6 +167,12 @@ func cli(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	o.Inputs = splitList(inputs)
+	set := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { set[f.Name] = true })
+	if err := specFlags(o, set["output"], set["inputs"]); err != nil {
+		fmt.Fprintln(stderr, "identify:", err)
+		return 2
+	}
 	if interval != "" {
 		v, u, err := parseInterval(interval)
 		if err != nil {
@@ -159,11 +187,53 @@ func cli(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	o.Sep = r
-	if _, err := Run(context.Background(), o, stdout, stderr); err != nil {
+	out, err := Run(context.Background(), o, stdout, stderr)
+	var se *SaveError
+	switch {
+	case errors.As(err, &se):
 		fmt.Fprintln(stderr, "identify:", err)
-		return 1
+		return exitNotAdequate
+	case err != nil:
+		fmt.Fprintln(stderr, "identify:", err)
+		return exitFailed
+	case out != nil && out.Estimate != nil && !out.Trusted:
+		fmt.Fprintln(stderr, "identify: verdict NOT ADEQUATE (exit status 3): the model fails its checks; see the report")
+		return exitNotAdequate
 	}
-	return 0
+	return exitOK
+}
+
+// specFlags refuses -output or -inputs given with -spec when they
+// disagree with the spec: the spec names the output and the inputs, and
+// a flag that says otherwise would be ignored. Flags that agree (the
+// same output; the same inputs, in any order) pass. A spec that does not
+// parse is left to Run to report.
+func specFlags(o Options, outputSet, inputsSet bool) error {
+	if o.Spec == "" || !(outputSet || inputsSet) {
+		return nil
+	}
+	m, err := parse.Model(o.Spec)
+	if err != nil {
+		return nil
+	}
+	if outputSet && o.Output != m.Output {
+		return fmt.Errorf("-output %s disagrees with the spec, whose output is %s: with -spec the output and inputs are taken from the spec; drop -output, or fit the spec written for %s",
+			clip(o.Output), m.Output, clip(o.Output))
+	}
+	var names []string
+	for _, in := range m.Inputs {
+		names = append(names, in.Series)
+	}
+	if inputsSet {
+		a, b := slices.Clone(o.Inputs), slices.Clone(names)
+		slices.Sort(a)
+		slices.Sort(b)
+		if !slices.Equal(a, b) {
+			return fmt.Errorf("-inputs %s disagrees with the spec, whose inputs are %s: with -spec the output and inputs are taken from the spec; drop -inputs, or write the spec with the inputs you mean",
+				clip(strings.Join(o.Inputs, ",")), strings.Join(names, ","))
+		}
+	}
+	return nil
 }
 
 // parseSep reads -sep: one character other than a quote or a line end,

@@ -121,7 +121,7 @@ func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) (files, s
 			}
 			if b, ok := delays[p.Input]; ok {
 				c.Mark = float64(b) * dt
-				c.MarkLabel = fmt.Sprintf("fitted dead time %g %s", float64(b)*dt, unit)
+				c.MarkLabel = "fitted dead time " + amount(float64(b)*dt, unit)
 			}
 			panels = append(panels, c)
 		}

@@ -203,7 +203,7 @@ func plotSteps(path string, panels []stepPanel, xlabel string) error {
 		}
 		d := vline(p, s.DeadTime, ymin, ymax, colBand)
 		d.Dashes = []vg.Length{vg.Points(1), vg.Points(2)}
-		p.addLegend(fmt.Sprintf("dead time %g %s", s.DeadTime, s.Unit), d)
+		p.addLegend("dead time "+amount(s.DeadTime, s.Unit), d)
 		p.LegendTop = s.Final < 0
 		p.setY(ymin, ymax)
 		ps = append(ps, p)

@@ -93,15 +93,17 @@ type dataset struct {
 const minSamples = 10
 
 // SaveError reports that -save refused a model that fails its checks.
+// Failures lists the checks it fails (the report prints them).
 type SaveError struct {
 	Path     string
 	Failures []string
 }
 
-// Error names the file, the failures and the flag that forces the save.
+// Error names the file and the flag that forces the save, in one short
+// line: the failures are in the report, under the verdict, and in
+// Failures.
 func (e *SaveError) Error() string {
-	return fmt.Sprintf("-save %s: not saved: the model fails its checks (%s); a config is for models that may be used, and this one may not. To save it anyway, marked as untrusted in its record, add -save-untrusted",
-		e.Path, strings.Join(e.Failures, "; "))
+	return fmt.Sprintf("-save %s: not saved: the model fails its checks (listed in the report); -save-untrusted saves it marked as untrusted", e.Path)
 }
 
 // Run does the whole job described in the package documentation and
@@ -142,6 +144,9 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if _, err := parsePlan(o.Plan); err != nil {
 		return nil, err
 	}
+	if o.Skip < -1 {
+		return nil, fmt.Errorf("-skip %d: want a number of samples, 0 or more, or -1 (automatic: 5 %% of the record, at most 500)", o.Skip)
+	}
 	if o.Horizon < HorizonAuto {
 		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast), a number of samples, or -1 (automatic)", o.Horizon)
 	}
@@ -155,6 +160,9 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	if horizon > ds.n {
 		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
+	}
+	if err := checkPlan(o.Plan, horizon, o.Horizon); err != nil {
+		return nil, err
 	}
 	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
 	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
@@ -231,7 +239,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	out.Elapsed = time.Since(start)
 	if o.Save != "" {
 		if !out.Trusted && !o.SaveUntrusted {
-			fmt.Fprintf(stdout, "\nNot saved to %s: the model fails its checks (-save-untrusted saves it anyway, marked as untrusted).\n", o.Save)
+			// Said once, by the error; the report above lists the failures.
 			return out, &SaveError{Path: o.Save, Failures: failures}
 		}
 		out.Validity.Forced = !out.Trusted
@@ -373,17 +381,25 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 			set.Names["Interval"] = "the spec's every"
 		}
 	}
+	flagOf := func(col string) string {
+		switch {
+		case ds.fromSpec:
+			return "the spec"
+		case col == ds.output:
+			return "-output"
+		}
+		return "-inputs"
+	}
+	if o.Time == "" {
+		if col := timeColumnNamed(o, cols); col != "" {
+			return fmt.Errorf("%s names column %s, but that is the file's time column (read as the time of each row); "+
+				"to read it as a series give -time none (the rows are then taken as evenly spaced), or name another column", flagOf(col), clip(col))
+		}
+	}
 	rec, err := record.ReadFile(o.Data, set)
 	var se *record.SeriesError
 	if errors.As(err, &se) && se.Kind == record.ErrName {
-		flag := "-output"
-		switch {
-		case ds.fromSpec:
-			flag = "the spec"
-		case se.Series != ds.output:
-			flag = "-inputs"
-		}
-		return fmt.Errorf("%s names column %s, but %s", flag, clip(se.Series), se.Detail)
+		return fmt.Errorf("%s names column %s, but %s%s", flagOf(se.Series), clip(se.Series), se.Detail, sepHint(o))
 	}
 	if err != nil {
 		return err
@@ -403,6 +419,78 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 		return fmt.Errorf("%s: the record left after -gaps %s has %d samples: too short to fit a model to (at least %d)", rec.File, o.Gaps, n, minSamples)
 	}
 	return checkSeries(rec.File, cols, ds)
+}
+
+// timeColumnNamed returns the column of cols that the file's automatic
+// time column would be (its first column, when record.Read takes it as
+// times) had it not been named as a series, or "". record.Read reads a
+// named first column as a series silently; the user most likely meant
+// the series beside it. The file is read once more without that column
+// (any gaps accepted: only the column's detection matters here).
+func timeColumnNamed(o Options, cols []string) string {
+	first := headerFields(o)
+	if len(first) == 0 || !slices.Contains(cols, first[0]) {
+		return ""
+	}
+	var rest []string
+	for _, c := range cols {
+		if c != first[0] && slices.Contains(first, c) {
+			rest = append(rest, c)
+		}
+	}
+	if len(rest) == 0 {
+		return ""
+	}
+	rem, _ := record.ParseRemedy("longest")
+	rec, err := record.ReadFile(o.Data, &record.Settings{Sep: o.Sep, Series: rest, TimeUnit: o.TimeUnit, Gaps: rem})
+	if err == nil && rec.TimeColumn == first[0] {
+		return first[0]
+	}
+	return ""
+}
+
+// headerFields returns the first line of the file o.Data split at the
+// separator, or nil when it cannot be read.
+func headerFields(o Options) []string {
+	f, err := os.Open(o.Data)
+	if err != nil {
+		return nil
+	}
+	defer f.Close()
+	buf := make([]byte, 64<<10)
+	n, _ := io.ReadFull(f, buf)
+	line, _, _ := strings.Cut(strings.TrimPrefix(string(buf[:n]), "\ufeff"), "\n")
+	line = strings.TrimRight(line, "\r")
+	sep := o.Sep
+	if sep == 0 {
+		sep = ','
+	}
+	fields := strings.Split(line, string(sep))
+	for i, f := range fields {
+		fields[i] = strings.Trim(strings.TrimSpace(f), `"`)
+	}
+	return fields
+}
+
+// sepHint returns a hint for a missing column when the header line read
+// as a single column holding commas: the file is likely comma-separated
+// and -sep names another separator.
+func sepHint(o Options) string {
+	if o.Sep == 0 || o.Sep == ',' {
+		return ""
+	}
+	if h := headerFields(o); len(h) == 1 && strings.Contains(h[0], ",") {
+		return fmt.Sprintf(" (with -sep %s the header reads as one column holding commas: the file looks comma-separated; drop -sep, a comma is the default)", sepName(o.Sep))
+	}
+	return ""
+}
+
+// sepName writes a separator as -sep takes it.
+func sepName(r rune) string {
+	if r == '\t' {
+		return "tab"
+	}
+	return strconv.QuoteRune(r)
 }
 
 // checkSeries refuses a constant column, naming it.

@@ -15,5 +15,14 @@ func plural(n int, one, many string) string {
 	return many
 }
 
+// amount writes a duration v in unit for people: "1 sample" and "3
+// samples" when the unit is samples (no interval known), else "2.5 min".
+func amount(v float64, unit string) string {
+	if unit == "samples" && v == 1 {
+		return "1 sample"
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64) + " " + unit
+}
+
 // ivText writes an interval for a message.
 func ivText(v float64, unit string) string { return strconv.FormatFloat(v, 'g', 6, 64) + " " + unit }
