@@ -447,9 +447,12 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 
 // interval checks that a record's interval text agrees with the spec's.
 func (l *loader) interval(v *jval, what string, spec tf.Interval) {
+	if spec.Value > 0 && v.str == spec.String() {
+		return // written as the spec writes it (calendar units included)
+	}
 	got, ok := seconds(v.str)
 	if !ok {
-		l.fail(v.start, `"interval" of %s is %q; write a number and a unit s, min, h or d, as in "1 min"`, what, v.str)
+		l.fail(v.start, `"interval" of %s is %q; write a number and a unit s, min, h or d (or the spec's own interval, such as "1 mo"), as in "1 min"`, what, v.str)
 		return
 	}
 	if want, _ := seconds(spec.String()); spec.Value > 0 && math.Abs(got-want) > 1e-9*want {

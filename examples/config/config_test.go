@@ -286,7 +286,7 @@ func TestValidityProblems(t *testing.T) {
 		{`{"samples": 100, "interval": "10 s", "ranges": {"temp": [1, 2]}, "verdict": "passed"}`, `"10 s"`,
 			`"interval" of the validity of model 1 ("m") is "10 s" but its spec says every 1 min; the model was fitted at another interval: identify it again at 1 min, or fix the spec`},
 		{`{"samples": 100, "interval": "1 minute", "ranges": {"temp": [1, 2]}, "verdict": "passed"}`, `"1 minute"`,
-			`"interval" of the validity of model 1 ("m") is "1 minute"; write a number and a unit s, min, h or d, as in "1 min"`},
+			`"interval" of the validity of model 1 ("m") is "1 minute"; write a number and a unit s, min, h or d (or the spec's own interval, such as "1 mo"), as in "1 min"`},
 		{`{"samples": 100, "ranges": {"temp": [2, 1]}, "verdict": "passed"}`, `[2, 1]`,
 			`the range of "temp" in model 1 ("m") is [2, 1]: the smallest value comes first`},
 		{`{"samples": 100, "ranges": {"temp": [1]}, "verdict": "passed"}`, `[1]`,

@@ -121,14 +121,16 @@ func NewProcess(spec string, seed uint64, sd float64) (*Process, error) {
 		// The library's error names the part of the model; its text is
 		// said in the harness's own words, without the package prefix.
 		pe := &PlantError{Part: "model", Problem: "cannot be simulated", Err: err}
-		var se *tf.SimError
-		if errors.As(err, &se) {
-			pe.Part, pe.Problem, pe.inline = se.Part, se.Problem, true
-			if se.Part == "noise" {
-				pe.Part = "noise term"
+		var me *tf.ModelError
+		if errors.As(err, &me) {
+			pe.Part, pe.Problem, pe.inline = me.Part, me.Problem, true
+			// The library's hints name its own settings, which the
+			// harness sets itself: they are no help to its user.
+			if i := strings.Index(pe.Problem, " (set SimSettings."); i >= 0 {
+				pe.Problem = pe.Problem[:i]
 			}
-			if se.Err != nil {
-				pe.Problem += ": " + se.Err.Error()
+			if me.Part == "noise" {
+				pe.Part = "noise term"
 			}
 		}
 		return nil, pe

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"github.com/backshift/backshift/tf"
 	"io"
 	"os"
 	"slices"
@@ -259,17 +260,17 @@ func splitList(s string) []string {
 	return out
 }
 
-// parseInterval reads "1min", "10 s", "0.5h", "1d".
+// parseInterval reads "1min", "10 s", "0.5h", "1d", "1mo".
 func parseInterval(s string) (float64, string, error) {
 	s = strings.TrimSpace(s)
 	i := strings.IndexFunc(s, func(r rune) bool { return r >= 'a' && r <= 'z' })
 	if i <= 0 {
-		return 0, "", fmt.Errorf("-interval %q: want a number and a unit (s, min, h, d), e.g. 1min", s)
+		return 0, "", fmt.Errorf("-interval %q: want a number and a unit (s, min, h, d, wk, or the calendar units mo, qtr, yr), e.g. 1min", s)
 	}
 	v, err := strconv.ParseFloat(strings.TrimSpace(s[:i]), 64)
 	u := s[i:]
-	if err != nil || !(v > 0) || (u != "s" && u != "min" && u != "h" && u != "d") {
-		return 0, "", fmt.Errorf("-interval %q: want a positive number and a unit (s, min, h, d), e.g. 1min", s)
+	if err != nil || !(v > 0) || !tf.ValidUnit(u) {
+		return 0, "", fmt.Errorf("-interval %q: want a positive number and a unit (s, min, h, d, wk, or the calendar units mo, qtr, yr), e.g. 1min", s)
 	}
 	return v, u, nil
 }

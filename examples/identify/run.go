@@ -399,7 +399,7 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 	rec, err := record.ReadFile(o.Data, set)
 	var se *record.SeriesError
 	if errors.As(err, &se) && se.Kind == record.ErrName {
-		return fmt.Errorf("%s names column %s, but %s%s", flagOf(se.Series), clip(se.Series), se.Detail, sepHint(o))
+		return fmt.Errorf("%s names column %s, but %s", flagOf(se.Series), clip(se.Series), se.Detail)
 	}
 	if err != nil {
 		return err
@@ -470,19 +470,6 @@ func headerFields(o Options) []string {
 		fields[i] = strings.Trim(strings.TrimSpace(f), `"`)
 	}
 	return fields
-}
-
-// sepHint returns a hint for a missing column when the header line read
-// as a single column holding commas: the file is likely comma-separated
-// and -sep names another separator.
-func sepHint(o Options) string {
-	if o.Sep == 0 || o.Sep == ',' {
-		return ""
-	}
-	if h := headerFields(o); len(h) == 1 && strings.Contains(h[0], ",") {
-		return fmt.Sprintf(" (with -sep %s the header reads as one column holding commas: the file looks comma-separated; drop -sep, a comma is the default)", sepName(o.Sep))
-	}
-	return ""
 }
 
 // sepName writes a separator as -sep takes it.

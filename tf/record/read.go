@@ -81,9 +81,9 @@ func (s *Settings) Validate() error {
 		}
 	}
 	if s.Interval.Value != 0 || s.Interval.Unit != "" {
-		if _, ok := Seconds(s.Interval.Unit); !ok || !(s.Interval.Value > 0) || math.IsInf(s.Interval.Value, 0) {
+		if !tf.ValidUnit(s.Interval.Unit) || !(s.Interval.Value > 0) || math.IsInf(s.Interval.Value, 0) {
 			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
-				Rule: "want a positive length in s, min, h or d (the zero Interval: from the time column)"}
+				Rule: "want a positive length in s, min, h, d, wk, or the calendar units mo, qtr, yr (the zero Interval: from the time column)"}
 		}
 	}
 	switch s.Gaps.Kind {
@@ -347,8 +347,11 @@ func sepHint(field string, s *Settings) string {
 	for _, c := range []struct {
 		r          rune
 		flag, code string
-	}{{';', "';'", "';'"}, {'\t', "tab", `'\t'`}, {'|', "'|'", "'|'"}} {
+	}{{',', "','", "','"}, {';', "';'", "';'"}, {'\t', "tab", `'\t'`}, {'|', "'|'", "'|'"}} {
 		if c.r != sep && strings.ContainsRune(field, c.r) {
+			if c.r == ',' {
+				return "the fields look separated by ',', the default: leave " + s.label("Sep") + " out"
+			}
 			v := c.code
 			if flag {
 				v = c.flag

@@ -66,7 +66,9 @@ func TestSeriesAndSettingErrors(t *testing.T) {
 		{Settings{Series: []string{"temp", "vlave"}}, ErrName,
 			`record.Read: series "vlave" is not known (record has no such column; its columns: minute, valve, temp)`},
 		{Settings{TimeUnit: "week"}, ErrSetting, `record.Read: Settings.TimeUnit = week: want s, min, h or d`},
-		{Settings{Interval: tf.Interval{Value: 1, Unit: "month"}}, ErrSetting, `record.Read: Settings.Interval = 1 month: want a positive length in s, min, h or d`},
+		{Settings{Interval: tf.Interval{Value: 1, Unit: "month"}}, ErrSetting, `record.Read: Settings.Interval = 1 month: want a positive length in s, min, h, d, wk, or the calendar units mo, qtr, yr`},
+		{Settings{Interval: tf.Interval{Value: 1, Unit: "mo"}}, ErrSetting,
+			`record.Read: Settings.Interval = 1 mo: a calendar interval has no fixed length, so the time column "minute" of record cannot be checked against it: read the record without its time column (Settings.Time = none)`},
 		{Settings{Interval: tf.Interval{Value: -1, Unit: "min"}}, ErrSetting, `record.Read: Settings.Interval = -1 min: want a positive length`},
 		{Settings{Gaps: Remedy{Kind: "hold"}}, ErrSetting, `record.Read: Settings.Gaps = hold:0: the longest gap filled must be at least 1 missing sample`},
 		{Settings{Gaps: Remedy{Kind: "nearest", Max: 2}}, ErrSetting, `record.Read: Settings.Gaps = nearest: want hold:N or linear:N`},
@@ -201,5 +203,17 @@ func TestReadFile(t *testing.T) {
 	_, err := ReadFile(t.TempDir()+"/x.csv", s)
 	if err == nil || s.File != "" {
 		t.Errorf("the settings were modified or no error: %+v %v", s, err)
+	}
+}
+
+// A monthly record has no time column the reader can check (a month has
+// no fixed length); without one, a calendar interval is carried as given.
+func TestCalendarIntervalWithoutTimeColumn(t *testing.T) {
+	rec, err := Read(strings.NewReader("sales,spend\n1,2\n3,4\n5,6\n"), &Settings{Time: "none", Interval: tf.Interval{Value: 1, Unit: "mo"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rec.Interval != (tf.Interval{Value: 1, Unit: "mo"}) || len(rec.Series["sales"]) != 3 {
+		t.Errorf("interval %v, %d samples", rec.Interval, len(rec.Series["sales"]))
 	}
 }

@@ -19,10 +19,11 @@ import (
 const stepTolerance = 0.01
 
 // unitSeconds is the length of each interval unit in seconds.
-var unitSeconds = map[string]float64{"s": 1, "min": 60, "h": 3600, "d": 86400}
+var unitSeconds = map[string]float64{"s": 1, "min": 60, "h": 3600, "d": 86400, "wk": 604800}
 
-// Seconds returns the length of an interval unit (s, min, h or d) in
-// seconds; ok is false for any other unit.
+// Seconds returns the length of an interval unit of fixed length (s,
+// min, h, d or wk) in seconds; ok is false for any other unit, the
+// calendar units mo, qtr and yr among them.
 func Seconds(unit string) (secs float64, ok bool) {
 	secs, ok = unitSeconds[unit]
 	return secs, ok
@@ -254,6 +255,11 @@ func (rec *Record) timing(t *table, tm *timing, s *Settings) error {
 		what = "timestamps"
 	}
 	if s.Interval.Value > 0 && tm.steps > 0 {
+		if _, fixed := Seconds(s.Interval.Unit); !fixed {
+			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
+				Rule: fmt.Sprintf("a calendar interval has no fixed length, so the time column %s of %s cannot be checked against it: read the record without its time column (%s)",
+					clip(tm.column), t.file, s.set("Time", "none"))}
+		}
 		given := s.Interval.Value * unitSeconds[s.Interval.Unit]
 		if math.Abs(tm.median/given-1) > stepTolerance {
 			iv := niceInterval(tm.median)

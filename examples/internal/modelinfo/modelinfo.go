@@ -139,6 +139,9 @@ func span(samples, t float64, unit string) string {
 		return "not reached"
 	}
 	if unit == "samples" {
+		if samples == 1 {
+			return "1 sample"
+		}
 		return fmt.Sprintf("%.3g samples", samples)
 	}
 	if samples == t {
