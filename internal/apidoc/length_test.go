@@ -1,0 +1,144 @@
+package apidoc
+
+import (
+	"fmt"
+	"go/ast"
+	"go/parser"
+	"go/token"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"testing"
+)
+
+// maxFuncLines is the longest a function may be, counted from its func
+// line to its closing brace, less the lines of table literals (composite
+// literals of more than tableLines lines) in it.
+const (
+	maxFuncLines = 100
+	tableLines   = 5
+)
+
+// longFuncs lists the functions allowed over maxFuncLines while they are
+// cut into named steps (issue "a house a newcomer can live in"); a
+// function that gets shorter must leave the list.
+var longFuncs = map[string]bool{
+	"arma/fit.go:fitCore":                    true, // 430 lines
+	"tf/identify.go:Identify":                true, // 244 lines
+	"internal/lm/lm.go:Minimize":             true, // 228 lines
+	"tf/fit.go:fitPrepare":                   true, // 223 lines
+	"tf/forecast.go:Estimate.Forecast":       true, // 191 lines
+	"examples/identify/pictures.go:pictures": true, // 176 lines
+	"ccf/ltf.go:ltfFit":                      true, // 175 lines
+	"examples/identify/run.go:Run":           true, // 145 lines
+	"arma/hessian.go:engine.curvature":       true, // 140 lines
+	"tf/fit_fir.go:fitFIR":                   true, // 129 lines
+	"parse/build.go:builder.sum":             true, // 127 lines
+	"parse/parse.go:syntaxReason":            true, // 117 lines
+	"arma/kalman.go:exactState":              true, // 112 lines
+	"ccf/ltf.go:distributedLag":              true, // 112 lines
+	"ccf/identify.go:identify":               true, // 104 lines
+	"tf/c2d.go:Rational.asSecondOrder":       true, // 104 lines
+	"tf/check.go:Check":                      true, // 102 lines
+}
+
+// funcLength is one function's length.
+type funcLength struct {
+	name  string // path:Name or path:Recv.Name
+	lines int
+}
+
+// funcLengths returns the length of every function of the module's
+// non-test Go files, longest first.
+func funcLengths(t *testing.T) []funcLength {
+	root := moduleRoot(t)
+	var out []funcLength
+	err := filepath.WalkDir(root, func(path string, d os.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if d.IsDir() {
+			if n := d.Name(); path != root && (n == "testdata" || strings.HasPrefix(n, ".") || strings.HasPrefix(n, "_")) {
+				return filepath.SkipDir
+			}
+			return nil
+		}
+		if !strings.HasSuffix(path, ".go") || strings.HasSuffix(path, "_test.go") {
+			return nil
+		}
+		fset := token.NewFileSet()
+		f, err := parser.ParseFile(fset, path, nil, 0)
+		if err != nil {
+			return err
+		}
+		rel, _ := filepath.Rel(root, path)
+		for _, d := range f.Decls {
+			fd, ok := d.(*ast.FuncDecl)
+			if !ok || fd.Body == nil {
+				continue
+			}
+			name := fd.Name.Name
+			if r := receiverName(fd.Recv); r != "" {
+				name = r + "." + name
+			}
+			n := fset.Position(fd.End()).Line - fset.Position(fd.Pos()).Line + 1
+			n -= tableSpan(fset, fd.Body)
+			out = append(out, funcLength{name: filepath.ToSlash(rel) + ":" + name, lines: n})
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sort.Slice(out, func(i, j int) bool {
+		if out[i].lines != out[j].lines {
+			return out[i].lines > out[j].lines
+		}
+		return out[i].name < out[j].name
+	})
+	return out
+}
+
+// tableSpan returns the lines taken by the outermost composite literals
+// of more than tableLines lines in n.
+func tableSpan(fset *token.FileSet, n ast.Node) int {
+	total := 0
+	ast.Inspect(n, func(x ast.Node) bool {
+		cl, ok := x.(*ast.CompositeLit)
+		if !ok {
+			return true
+		}
+		if span := fset.Position(cl.End()).Line - fset.Position(cl.Pos()).Line + 1; span > tableLines {
+			total += span
+			return false
+		}
+		return true
+	})
+	return total
+}
+
+// TestFunctionLength fails on a function over maxFuncLines that is not
+// in longFuncs, and on an entry of longFuncs that is no longer long. Run
+// with -v to see the ten longest functions.
+func TestFunctionLength(t *testing.T) {
+	fl := funcLengths(t)
+	for i := 0; i < 10 && i < len(fl); i++ {
+		t.Log(fmt.Sprintf("%4d %s", fl[i].lines, fl[i].name))
+	}
+	long := map[string]bool{}
+	for _, f := range fl {
+		if f.lines <= maxFuncLines {
+			break
+		}
+		long[f.name] = true
+		if !longFuncs[f.name] {
+			t.Errorf("%s is %d lines, over %d: cut it into named steps", f.name, f.lines, maxFuncLines)
+		}
+	}
+	for name := range longFuncs {
+		if !long[name] {
+			t.Errorf("longFuncs lists %s, which is no longer over %d lines: remove it", name, maxFuncLines)
+		}
+	}
+}
