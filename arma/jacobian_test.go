@@ -1,8 +1,6 @@
 package arma
 
 import (
-	"context"
-	"errors"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -26,19 +24,19 @@ func arxSeries(seed1, seed2 uint64, n int, level, gain, ar float64) (y, x []floa
 	return y, x
 }
 
-// fitEngine fits ord to y and returns the engine the fit built, so that a
-// test can probe eval and hessian directly. A non-converged fit is fine.
-func fitEngine(t *testing.T, name string, y []float64, ord Order, opt *FitSettings) *engine {
+// bindEngine returns the engine a fit of ord to y works with (bind), so
+// that a test can probe eval and hessian directly.
+func bindEngine(t *testing.T, name string, y []float64, ord Order, opt *FitSettings) *engine {
 	t.Helper()
-	var eng *engine
-	testEngineHook = func(e *engine) { eng = e }
-	_, err := Fit(context.Background(), y, ord, opt)
-	testEngineHook = nil
-	var ce *ConvergenceError
-	if err != nil && !errors.As(err, &ce) {
+	if err := checkInputs(y, *opt); err != nil {
 		t.Fatal(name, err)
 	}
-	return eng
+	noise, diff := ord.terms()
+	e, err := bind(y, noise, diff, ord.D+ord.SD > 0, *opt)
+	if err != nil {
+		t.Fatal(name, err)
+	}
+	return e
 }
 
 // TestJacobianFiniteDifference checks the analytic Jacobian (filtered
@@ -60,7 +58,7 @@ func TestJacobianFiniteDifference(t *testing.T) {
 		{"Nile", datasets(t)["Nile"], Order{P: 1, Q: 1}, FitSettings{}, []float64{0.88, 0.6, 889}},
 	}
 	for _, c := range cases {
-		eng := fitEngine(t, c.name, c.y, c.ord, &c.opt)
+		eng := bindEngine(t, c.name, c.y, c.ord, &c.opt)
 		np := len(c.x)
 		r := make([]float64, eng.m)
 		jac := make([][]float64, np)
@@ -111,7 +109,7 @@ func TestHessianFiniteDifference(t *testing.T) {
 		{"drift", Order{P: 2, D: 1, Q: 1}, FitSettings{Constant: ConstantFree}, []float64{0.3, -0.2, 0.5, 0.01}},
 	}
 	for _, c := range cases {
-		eng := fitEngine(t, c.name, y, c.ord, &c.opt)
+		eng := bindEngine(t, c.name, y, c.ord, &c.opt)
 		np := len(c.x)
 		H, ok := eng.hessian(c.x)
 		if !ok {

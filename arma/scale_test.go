@@ -11,17 +11,18 @@ import (
 // TestFitScaleEquivariant: conditional least squares is equivariant in
 // the series' units (common practice: scaling y by c scales the mean,
 // the regression coefficients and the residuals by c and the sum of
-// squares by c^2, and leaves the ARMA coefficients alone). The fit
-// stalled at the iteration limit for deviations of 1e8 and beyond (and
-// 1e-10 and below) because the mean's column of the normal equations
-// was too small against the coefficients' for the Cholesky solver; it
-// now works in units of a power of two. Tolerances: 1e-9 relative for
+// squares by c^2, and leaves the ARMA coefficients alone). In the
+// series' own units the fit would stall at the iteration limit for
+// deviations of 1e8 and beyond (and 1e-10 and below) because the mean's
+// column of the normal equations would be too small against the
+// coefficients' for the Cholesky solver; it works in units of a power of
+// two. Tolerances: 1e-9 relative for
 // estimates, residuals, Sigma2 and forecasts (the optimiser's path
 // differs only by the rounding of y*c and the power of two chosen);
 // 1e-6 for standard errors, which come from the curvature at the last
 // Newton iterate, and the polish may stop one step earlier or later (a
 // step below 1e-6 relative leaves the curvature unchanged to that
-// order, see fitCore).
+// order, see polish).
 func TestFitScaleEquivariant(t *testing.T) {
 	ctx := context.Background()
 	base, err := Simulate(Model{AR: []float64{0.5}, MA: []float64{-0.3}, Mean: 2, Sigma2: 1}, 300, &SimSettings{Seed1: 21, Seed2: 4})
