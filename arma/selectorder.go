@@ -115,15 +115,39 @@ func Select(ctx context.Context, y []float64, g Grid, opt *FitSettings) (fits []
 	}
 	s := max(g.Period, 1)
 	o.First = max(o.First, g.MaxP+g.SP*s+g.D+g.SD*s)
-	workers := g.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
+	cands := g.candidates()
+	cerr := fitAll(ctx, y, cands, o, g)
+	if cerr == nil {
+		cerr = gridErr(cands)
 	}
+	sort.SliceStable(cands, func(i, j int) bool {
+		ri, rj := rank(cands[i]), rank(cands[j])
+		if ri != rj {
+			return ri < rj
+		}
+		return cands[i].Score < cands[j].Score
+	})
+	return cands, cerr
+}
+
+// candidates lists the orders of the grid, p and then q increasing.
+func (g Grid) candidates() []OrderFit {
 	var cands []OrderFit
 	for p := 0; p <= g.MaxP; p++ {
 		for q := 0; q <= g.MaxQ; q++ {
 			cands = append(cands, OrderFit{Order: Order{P: p, D: g.D, Q: q, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}, Criterion: g.Criterion})
 		}
+	}
+	return cands
+}
+
+// fitAll fits every candidate on Grid.Workers goroutines (default
+// GOMAXPROCS) and returns ctx's error when ctx is done (candidates not
+// started get it as their Err, with a score of +Inf).
+func fitAll(ctx context.Context, y []float64, cands []OrderFit, o FitSettings, g Grid) error {
+	workers := g.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
 	}
 	jobs := make(chan int)
 	var wg sync.WaitGroup
@@ -154,33 +178,25 @@ feed:
 	if cerr == nil {
 		cerr = ctx.Err()
 	}
-	if cerr == nil {
-		// A recovered panic is a bug that must not pass unseen.
-		for _, c := range cands {
-			var ie *InternalError
-			if errors.As(c.Err, &ie) {
-				cerr = c.Err
-				break
-			}
+	return cerr
+}
+
+// gridErr returns Select's error from its fitted candidates: the first
+// recovered panic (a bug that must not pass unseen), else the error of
+// the first candidate when no candidate produced a result, else nil.
+func gridErr(cands []OrderFit) error {
+	for _, c := range cands {
+		var ie *InternalError
+		if errors.As(c.Err, &ie) {
+			return c.Err
 		}
 	}
-	if cerr == nil {
-		cerr = cands[0].Err
-		for _, c := range cands {
-			if c.Result != nil {
-				cerr = nil
-				break
-			}
+	for _, c := range cands {
+		if c.Result != nil {
+			return nil
 		}
 	}
-	sort.SliceStable(cands, func(i, j int) bool {
-		ri, rj := rank(cands[i]), rank(cands[j])
-		if ri != rj {
-			return ri < rj
-		}
-		return cands[i].Score < cands[j].Score
-	})
-	return cands, cerr
+	return cands[0].Err
 }
 
 // selectOne fits one candidate of Select on a worker goroutine. A panic
