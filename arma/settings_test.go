@@ -159,8 +159,7 @@ func checkGridErrors(t *testing.T, y []float64) {
 func second[T any](_ T, err error) error { return err }
 
 // TestModelCoefficientMessages: a NaN or infinite coefficient of a
-// Model was reported as "coefficients must be finite" without saying
-// which; the message now names the slice and index.
+// Model is reported with the slice and index that hold it.
 func TestModelCoefficientMessages(t *testing.T) {
 	nan, inf := math.NaN(), math.Inf(1)
 	cases := []struct {
