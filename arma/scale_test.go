@@ -3,6 +3,7 @@ package arma
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -41,54 +42,67 @@ func TestFitScaleEquivariant(t *testing.T) {
 	if err != nil {
 		t.Fatalf("unscaled fit: %v", err)
 	}
+	for _, c := range []float64{1e-150, 1e-100, 1e-10, 1e8, 1e10, 1e50, 1e130} {
+		t.Run(fmt.Sprint(c), func(t *testing.T) {
+			r, err := Fit(ctx, scaled(base, c), Order{P: 1, Q: 1}, opt())
+			if err != nil {
+				t.Fatalf("scale %g: %v", c, err)
+			}
+			checkScaledFit(t, r, ref, c)
+		})
+	}
+	t.Run("held mean", func(t *testing.T) {
+		// A mean held at a value and a start value for it are in the
+		// series' units.
+		r, err := Fit(ctx, scaled(base, 1e10), Order{P: 1, Q: 1}, &FitSettings{Regressors: [][]float64{trend}, Held: map[string]float64{"c": 2e10}, StartValues: map[string]float64{"x1": 3}})
+		if err != nil || r.Model.Mean != 2e10 || math.Abs(r.Beta[0]/30-1) > 0.01 {
+			t.Errorf("held mean: %v mean %v beta %v", err, r.Model.Mean, r.Beta)
+		}
+	})
+}
+
+// scaled returns y times c.
+func scaled(y []float64, c float64) []float64 {
+	out := make([]float64, len(y))
+	for i := range y {
+		out[i] = y[i] * c
+	}
+	return out
+}
+
+// checkScaledFit checks the fit r of the series of the fit ref scaled by
+// c (with the same trend regressor "time") against ref scaled
+// (tolerances in TestFitScaleEquivariant's doc).
+func checkScaledFit(t *testing.T, r, ref *Result, c float64) {
+	t.Helper()
 	near := func(a, b float64) bool { return math.Abs(a-b) <= 1e-9*math.Abs(b) }
 	nearSE := func(a, b float64) bool { return math.Abs(a-b) <= 1e-6*math.Abs(b) }
-	for _, c := range []float64{1e-150, 1e-100, 1e-10, 1e8, 1e10, 1e50, 1e130} {
-		y := make([]float64, len(base))
-		for i := range y {
-			y[i] = base[i] * c
+	for k, nm := range names(ref) {
+		f := 1.0
+		if nm == "c" || nm == "time" {
+			f = c
 		}
-		r, err := Fit(ctx, y, Order{P: 1, Q: 1}, opt())
-		if err != nil {
-			t.Errorf("scale %g: %v", c, err)
-			continue
-		}
-		for k, nm := range names(ref) {
-			f := 1.0
-			if nm == "c" || nm == "time" {
-				f = c
-			}
-			if !near(ests(r)[k], ests(ref)[k]*f) || !nearSE(ses(r)[k], ses(ref)[k]*f) || !nearSE(r.SEHessian[k], ref.SEHessian[k]*f) {
-				t.Errorf("scale %g, %s: %g +- %g (Hessian %g), want %g +- %g (%g)", c, nm, ests(r)[k], ses(r)[k], r.SEHessian[k], ests(ref)[k]*f, ses(ref)[k]*f, ref.SEHessian[k]*f)
-			}
-		}
-		if !near(r.Sigma2, ref.Sigma2*c*c) || !near(r.Resid[len(y)-1], ref.Resid[len(y)-1]*c) || !near(r.Model.Mean, ref.Model.Mean*c) || !near(r.Beta[0], ref.Beta[0]*c) {
-			t.Errorf("scale %g: Sigma2 %g mean %g beta %g, want %g %g %g", c, r.Sigma2, r.Model.Mean, r.Beta[0], ref.Sigma2*c*c, ref.Model.Mean*c, ref.Beta[0]*c)
-		}
-		if !near(r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c)) {
-			t.Errorf("scale %g: LogLik %g, want %g", c, r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c))
-		}
-		fc, err := r.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
-		fr, _ := ref.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
-		if err != nil || !near(fc.Mean[4], fr.Mean[4]*c) || !nearSE(fc.SE[4], fr.SE[4]*c) {
-			t.Errorf("scale %g: forecast %v %v, want %g %g", c, fc, err, fr.Mean[4]*c, fr.SE[4]*c)
+		if !near(ests(r)[k], ests(ref)[k]*f) || !nearSE(ses(r)[k], ses(ref)[k]*f) || !nearSE(r.SEHessian[k], ref.SEHessian[k]*f) {
+			t.Errorf("scale %g, %s: %g +- %g (Hessian %g), want %g +- %g (%g)", c, nm, ests(r)[k], ses(r)[k], r.SEHessian[k], ests(ref)[k]*f, ses(ref)[k]*f, ref.SEHessian[k]*f)
 		}
 	}
-	// A mean held at a value and a start value for it are in the
-	// series' units.
-	y := make([]float64, len(base))
-	for i := range y {
-		y[i] = base[i] * 1e10
+	last := len(r.Resid) - 1
+	if !near(r.Sigma2, ref.Sigma2*c*c) || !near(r.Resid[last], ref.Resid[last]*c) || !near(r.Model.Mean, ref.Model.Mean*c) || !near(r.Beta[0], ref.Beta[0]*c) {
+		t.Errorf("scale %g: Sigma2 %g mean %g beta %g, want %g %g %g", c, r.Sigma2, r.Model.Mean, r.Beta[0], ref.Sigma2*c*c, ref.Model.Mean*c, ref.Beta[0]*c)
 	}
-	r, err := Fit(ctx, y, Order{P: 1, Q: 1}, &FitSettings{Regressors: [][]float64{trend}, Held: map[string]float64{"c": 2e10}, StartValues: map[string]float64{"x1": 3}})
-	if err != nil || r.Model.Mean != 2e10 || math.Abs(r.Beta[0]/30-1) > 0.01 {
-		t.Errorf("held mean: %v mean %v beta %v", err, r.Model.Mean, r.Beta)
+	if !near(r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c)) {
+		t.Errorf("scale %g: LogLik %g, want %g", c, r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c))
+	}
+	fc, err := r.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
+	fr, _ := ref.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
+	if err != nil || !near(fc.Mean[4], fr.Mean[4]*c) || !nearSE(fc.SE[4], fr.SE[4]*c) {
+		t.Errorf("scale %g: forecast %v %v, want %g %g", c, fc, err, fr.Mean[4]*c, fr.SE[4]*c)
 	}
 }
 
-// TestConstantMessage: a straight line under (1 - B) was reported as
-// "constant over its 100 samples", blaming the data for what the
-// differencing did; a constant series prints its value to 6 digits.
+// TestConstantMessage: a straight line under (1 - B) is reported as
+// constant after the differencing, naming the differencing rather than
+// blaming the data; a constant series prints its value to 6 digits.
 func TestConstantMessage(t *testing.T) {
 	line := make([]float64, 100)
 	flat := make([]float64, 100)
