@@ -97,6 +97,15 @@ type OrderFit struct {
 // Select's error.
 func Select(ctx context.Context, y []float64, g Grid, opt *FitSettings) (fits []OrderFit, err error) {
 	defer withOp("arma.Select", &err)
+	return selectOrders(ctx, y, g, opt, fit)
+}
+
+// orderFit fits one order of a grid: fit, or in a test a function that
+// injects a fault on the worker goroutine.
+type orderFit func(ctx context.Context, y []float64, ord Order, opt *FitSettings) (*Result, error)
+
+// selectOrders is Select with the function that fits each candidate.
+func selectOrders(ctx context.Context, y []float64, g Grid, opt *FitSettings, fitOrder orderFit) ([]OrderFit, error) {
 	if ctx == nil {
 		ctx = context.Background()
 	}
@@ -116,7 +125,7 @@ func Select(ctx context.Context, y []float64, g Grid, opt *FitSettings) (fits []
 	s := max(g.Period, 1)
 	o.First = max(o.First, g.MaxP+g.SP*s+g.D+g.SD*s)
 	cands := g.candidates()
-	cerr := fitAll(ctx, y, cands, o, g)
+	cerr := fitAll(ctx, y, cands, o, g, fitOrder)
 	if cerr == nil {
 		cerr = gridErr(cands)
 	}
@@ -141,10 +150,10 @@ func (g Grid) candidates() []OrderFit {
 	return cands
 }
 
-// fitAll fits every candidate on Grid.Workers goroutines (default
-// GOMAXPROCS) and returns ctx's error when ctx is done (candidates not
-// started get it as their Err, with a score of +Inf).
-func fitAll(ctx context.Context, y []float64, cands []OrderFit, o FitSettings, g Grid) error {
+// fitAll fits every candidate with fitOrder on Grid.Workers goroutines
+// (default GOMAXPROCS) and returns ctx's error when ctx is done
+// (candidates not started get it as their Err, with a score of +Inf).
+func fitAll(ctx context.Context, y []float64, cands []OrderFit, o FitSettings, g Grid, fitOrder orderFit) error {
 	workers := g.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -156,7 +165,7 @@ func fitAll(ctx context.Context, y []float64, cands []OrderFit, o FitSettings, g
 		go func() {
 			defer wg.Done()
 			for i := range jobs {
-				selectOne(ctx, y, &cands[i], o, g.Criterion, o.Name)
+				selectOne(ctx, y, &cands[i], o, g.Criterion, fitOrder)
 			}
 		}()
 	}
@@ -199,29 +208,22 @@ func gridErr(cands []OrderFit) error {
 	return cands[0].Err
 }
 
-// selectOne fits one candidate of Select on a worker goroutine. A panic
-// (a bug) is recovered into an *InternalError in c.Err, so that it cannot
-// end the caller's process.
-func selectOne(ctx context.Context, y []float64, c *OrderFit, o FitSettings, crit Criterion, name string) {
+// selectOne fits one candidate of Select with fitOrder on a worker
+// goroutine. A panic (a bug) is recovered into an *InternalError in
+// c.Err, so that it cannot end the caller's process.
+func selectOne(ctx context.Context, y []float64, c *OrderFit, o FitSettings, crit Criterion, fitOrder orderFit) {
 	defer func() {
 		if r := recover(); r != nil {
 			c.Result, c.Score = nil, math.Inf(1)
-			c.Err = &InternalError{Op: "arma.Select", Value: "fit of order " + c.Order.String() + " to " + seriesName(name) + ": " + fmt.Sprint(r), Stack: debug.Stack()}
+			c.Err = &InternalError{Op: "arma.Select", Value: "fit of order " + c.Order.String() + " to " + seriesName(o.Name) + ": " + fmt.Sprint(r), Stack: debug.Stack()}
 		}
 	}()
-	if testSelectHook != nil {
-		testSelectHook(c.Order)
-	}
-	res, err := fit(ctx, y, c.Order, &o)
+	res, err := fitOrder(ctx, y, c.Order, &o)
 	c.Result, c.Err, c.Score = res, err, math.Inf(1)
 	if res != nil {
 		c.Score = score(res, crit)
 	}
 }
-
-// testSelectHook lets tests run code (a deliberate panic) on Select's
-// worker goroutines; nil otherwise.
-var testSelectHook func(Order)
 
 func score(r *Result, c Criterion) float64 {
 	switch c {
