@@ -11,7 +11,8 @@ import (
 
 // TestBadInputTyped checks that hostile data and settings give the
 // documented typed error, with the facts (index, value) where the type
-// carries them, and never a panic or a silent result.
+// carries them, and never a panic or a silent result. Its length is the
+// table of cases (one line each) and the bad inputs they share.
 func TestBadInputTyped(t *testing.T) {
 	ctx := context.Background()
 	nan, inf := math.NaN(), math.Inf(-1)

@@ -58,8 +58,8 @@ func BenchmarkSimulate(b *testing.B) {
 }
 
 // BenchmarkForecastMaxHorizon forecasts an ARIMA(1,1,0) fit MaxHorizon
-// steps ahead (the exact forecast is O(h): it was O(h^2), minutes at
-// h = 10^5).
+// steps ahead (the exact forecast is O(h) in the horizon: the
+// integration of the state is a recursion over the last D u's).
 func BenchmarkForecastMaxHorizon(b *testing.B) {
 	y, err := Simulate(benchModel, 2000, &SimSettings{Seed1: 3, Seed2: 4})
 	if err != nil {

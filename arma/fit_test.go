@@ -111,118 +111,148 @@ func TestFitCSSR(t *testing.T) {
 		t.Fatalf("css.json holds %d fits, want 6", len(refs))
 	}
 	for _, ref := range refs {
-		y := ds[ref.Series]
-		n := len(y)
-		var opt FitSettings
-		if ref.Xreg == "trend" {
-			tt := make([]float64, n)
-			for i := range tt {
-				tt[i] = float64(i + 1)
+		t.Run(ref.Name, func(t *testing.T) {
+			y := ds[ref.Series]
+			opt := cssSettings(ref, len(y))
+			ord := Order{P: ref.PP, D: ref.DD, Q: ref.QQ, SP: ref.SP, SD: ref.SD, SQ: ref.SQ, Period: ref.Period}
+			res, err := Fit(context.Background(), y, ord, &opt)
+			if err != nil {
+				t.Fatalf("%s: %v", ref.Name, err)
 			}
-			opt.Regressors = [][]float64{tt}
-			opt.Constant = ConstantFree
-		}
-		ord := Order{P: ref.PP, D: ref.DD, Q: ref.QQ, SP: ref.SP, SD: ref.SD, SQ: ref.SQ, Period: ref.Period}
-		res, err := Fit(context.Background(), y, ord, &opt)
-		if err != nil {
-			t.Fatalf("%s: %v", ref.Name, err)
-		}
-		ssqR := float64(ref.SSQTight[0])
-		if res.SSQ > ssqR*(1+1e-9) {
-			t.Errorf("%s: SSQ %.15g > R's %.15g", ref.Name, res.SSQ, ssqR)
-		}
-		if res.Start != ref.NCond || res.NUsed != ref.NU {
-			t.Errorf("%s: start %d nused %d, want %d %d", ref.Name, res.Start, res.NUsed, ref.NCond, ref.NU)
-		}
-		checkSlice(t, ref.Name+" coef vs R tight", inR(res, ref, false), floats(ref.CoefTight), 1e-4, 0)
-		// Against the script's Gauss-Newton polish: 1e-8 relative, except
-		// for the trend fit (2e-7): there the script's difference Jacobian
-		// (step 1e-8 on the slope) meets residual rounding of a series at
-		// level 580, which moves its fixed point by ~1e-7 relative, while
-		// our gradient there is exact (its Newton step is below 1e-12).
-		// In 50-digit arithmetic our point has the smaller sum of squares
-		// (testdata/arma/lakehuron_mp.py, mpmath 1.2.1: ours
-		// 42.35450178555684650, the polish 42.35450178555686693).
-		gnTol := 1e-8
-		if ref.Xreg == "trend" {
-			gnTol = 2e-7
-		}
-		checkSlice(t, ref.Name+" coef vs Gauss-Newton polish", inR(res, ref, false), floats(ref.CoefGN), gnTol, 0)
-		// R divides the sum of squares by the residual count, the library
-		// by the count less the free coefficients (est.Sigma2): map ours
-		// to R's with est.MLScale (squared for the variance).
-		ml := est.MLScale(res.NUsed, len(res.Params))
-		sigma2R := res.Sigma2 * ml * ml
-		if !closeTo(sigma2R, float64(ref.Sigma2Tight[0]), 1e-8, 0) {
-			t.Errorf("%s: sigma2 %.15g (R's convention), want %.15g", ref.Name, sigma2R, ref.Sigma2Tight[0])
-		}
-		seR := inR(res, ref, true)
-		for i := range seR {
-			seR[i] *= ml
-		}
-		checkSlice(t, ref.Name+" SE vs Gauss-Newton", seR, floats(ref.SEGN), 1e-5, 0)
-		// R's own SEs come from optim's numerical Hessian (step 1e-3) of
-		// 0.5 log(SSQ/nu), scaled by n.used = n - d - D s: compare our
-		// analytic-Hessian SEs, rescaled to that convention, within 1e-4
-		// relative (observed differences up to 6e-5: the accuracy of a
-		// difference Hessian with that step).
-		hres := &Result{Params: append([]Param(nil), res.Params...)}
-		for i := range hres.Params {
-			hres.Params[i].SE = res.SEHessian[i]
-		}
-		hse := inR(hres, ref, true)
-		nUsed := float64(n - ref.DD - ref.SD*ref.Period)
-		for i := range hse {
-			hse[i] *= ml * math.Sqrt(float64(res.NUsed)/nUsed)
-		}
-		checkSlice(t, ref.Name+" Hessian SE vs R", hse, floats(ref.SER), 1e-4, 0)
-		// Residual recursion at R's coefficients (all held by Fixed):
-		// R's residuals to 1e-10 of their scale.
-		fixed := FitSettings{Regressors: opt.Regressors, Constant: opt.Constant, Held: map[string]float64{}}
-		for i, nm := range ref.CoefNames {
-			ours, sign := rName(nm)
-			fixed.Held[ours] = sign * float64(ref.CoefTight[i])
-		}
-		held, err := Fit(context.Background(), y, ord, &fixed)
-		if err != nil {
-			t.Fatalf("%s fixed: %v", ref.Name, err)
-		}
-		sc := math.Sqrt(held.Sigma2)
-		checkSlice(t, ref.Name+" resid at R's coefficients", held.Resid[held.Start:], floats(ref.Resid), 1e-10, sc)
-		if !closeTo(held.SSQ, ssqR, 1e-12, 0) || len(held.Params) != 0 {
-			t.Errorf("%s: SSQ at R's coefficients %.15g, want %.15g", ref.Name, held.SSQ, ssqR)
-		}
-		// R's CSS loglik counts n - d residuals at sigma2 = SSQ/(n-d-p);
-		// ours counts the NUsed summed ones. Check R's value through its
-		// formula to pin the difference down.
-		nUsedR := float64(n - ref.DD - ref.SD*ref.Period)
-		llR := -nUsedR / 2 * (math.Log(2*math.Pi*sigma2R) + 1)
-		if !closeTo(llR, float64(ref.LogLikR[0]), 1e-8, 0) {
-			t.Errorf("%s: R-convention loglik %.12g, want %.12g", ref.Name, llR, ref.LogLikR[0])
-		}
-		var fx [][]float64
-		if ref.Xreg == "trend" {
-			c := make([]float64, ref.H)
-			for i := range c {
-				c[i] = float64(n + 1 + i)
-			}
-			fx = [][]float64{c}
-		}
-		fc, err := held.Forecast(ref.H, 0.95, fx)
-		if err != nil {
-			t.Fatal(err)
-		}
-		// predict() given equal coefficients (the held fit at R's
-		// coefficients): 1e-6 relative.
-		checkSlice(t, ref.Name+" forecast", fc.Mean, floats(ref.Pred), 1e-6, 0)
-		checkSlice(t, ref.Name+" forecast SE", fc.SE, floats(ref.PredSE), 1e-6, 0)
-		lb, err := LjungBox(res.Resid[res.Start:], 10, ref.PP+ref.QQ+ref.SP+ref.SQ)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if !closeTo(lb.Q, float64(ref.Box10[0]), 1e-5, 0) {
-			t.Errorf("%s: Ljung-Box Q %.12g, want %.12g", ref.Name, lb.Q, ref.Box10[0])
-		}
-		t.Logf("%s: SSQ %.15g (R tight %.15g, R default %.15g, GN %.15g), iter %d, %s", ref.Name, res.SSQ, ssqR, ref.SSQDefault[0], ref.SSQGN[0], res.Iter, res.Reason)
+			checkCSSEstimates(t, ref, res, len(y))
+			checkCSSAtR(t, ref, y, ord, opt)
+			t.Logf("%s: SSQ %.15g (R tight %.15g, R default %.15g, GN %.15g), iter %d, %s", ref.Name, res.SSQ, ref.SSQTight[0], ref.SSQDefault[0], ref.SSQGN[0], res.Iter, res.Reason)
+		})
 	}
+}
+
+// cssSettings returns the settings of a reference fit: the time index
+// 1..n as a regressor with a free constant for the "trend" fits.
+func cssSettings(ref cssRef, n int) FitSettings {
+	var opt FitSettings
+	if ref.Xreg == "trend" {
+		tt := make([]float64, n)
+		for i := range tt {
+			tt[i] = float64(i + 1)
+		}
+		opt.Regressors = [][]float64{tt}
+		opt.Constant = ConstantFree
+	}
+	return opt
+}
+
+// checkCSSEstimates checks a fit of the n samples of a reference series
+// against R's and the script's Gauss-Newton polish (tolerances in
+// TestFitCSSR's doc): sum of squares, conditioning, estimates, the
+// uncertainty (checkCSSUncertainty) and the Ljung-Box statistic of the
+// residuals.
+func checkCSSEstimates(t *testing.T, ref cssRef, res *Result, n int) {
+	t.Helper()
+	ssqR := float64(ref.SSQTight[0])
+	if res.SSQ > ssqR*(1+1e-9) {
+		t.Errorf("%s: SSQ %.15g > R's %.15g", ref.Name, res.SSQ, ssqR)
+	}
+	if res.Start != ref.NCond || res.NUsed != ref.NU {
+		t.Errorf("%s: start %d nused %d, want %d %d", ref.Name, res.Start, res.NUsed, ref.NCond, ref.NU)
+	}
+	checkSlice(t, ref.Name+" coef vs R tight", inR(res, ref, false), floats(ref.CoefTight), 1e-4, 0)
+	// Against the script's Gauss-Newton polish: 1e-8 relative, except
+	// for the trend fit (2e-7): there the script's difference Jacobian
+	// (step 1e-8 on the slope) meets residual rounding of a series at
+	// level 580, which moves its fixed point by ~1e-7 relative, while
+	// our gradient there is exact (its Newton step is below 1e-12).
+	// In 50-digit arithmetic our point has the smaller sum of squares
+	// (testdata/arma/lakehuron_mp.py, mpmath 1.2.1: ours
+	// 42.35450178555684650, the polish 42.35450178555686693).
+	gnTol := 1e-8
+	if ref.Xreg == "trend" {
+		gnTol = 2e-7
+	}
+	checkSlice(t, ref.Name+" coef vs Gauss-Newton polish", inR(res, ref, false), floats(ref.CoefGN), gnTol, 0)
+	checkCSSUncertainty(t, ref, res, n)
+	lb, err := LjungBox(res.Resid[res.Start:], 10, ref.PP+ref.QQ+ref.SP+ref.SQ)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !closeTo(lb.Q, float64(ref.Box10[0]), 1e-5, 0) {
+		t.Errorf("%s: Ljung-Box Q %.12g, want %.12g", ref.Name, lb.Q, ref.Box10[0])
+	}
+}
+
+// checkCSSUncertainty checks the variance, the standard errors and R's
+// log-likelihood of a fit of the n samples of a reference series, mapped
+// to R's conventions.
+func checkCSSUncertainty(t *testing.T, ref cssRef, res *Result, n int) {
+	t.Helper()
+	// R divides the sum of squares by the residual count, the library
+	// by the count less the free coefficients (est.Sigma2): map ours
+	// to R's with est.MLScale (squared for the variance).
+	ml := est.MLScale(res.NUsed, len(res.Params))
+	sigma2R := res.Sigma2 * ml * ml
+	if !closeTo(sigma2R, float64(ref.Sigma2Tight[0]), 1e-8, 0) {
+		t.Errorf("%s: sigma2 %.15g (R's convention), want %.15g", ref.Name, sigma2R, ref.Sigma2Tight[0])
+	}
+	seR := inR(res, ref, true)
+	for i := range seR {
+		seR[i] *= ml
+	}
+	checkSlice(t, ref.Name+" SE vs Gauss-Newton", seR, floats(ref.SEGN), 1e-5, 0)
+	// R's own SEs come from optim's numerical Hessian (step 1e-3) of
+	// 0.5 log(SSQ/nu), scaled by n.used = n - d - D s: compare our
+	// analytic-Hessian SEs, rescaled to that convention, within 1e-4
+	// relative (observed differences up to 6e-5: the accuracy of a
+	// difference Hessian with that step).
+	hres := &Result{Params: append([]Param(nil), res.Params...)}
+	for i := range hres.Params {
+		hres.Params[i].SE = res.SEHessian[i]
+	}
+	hse := inR(hres, ref, true)
+	nUsed := float64(n - ref.DD - ref.SD*ref.Period)
+	for i := range hse {
+		hse[i] *= ml * math.Sqrt(float64(res.NUsed)/nUsed)
+	}
+	checkSlice(t, ref.Name+" Hessian SE vs R", hse, floats(ref.SER), 1e-4, 0)
+	// R's CSS loglik counts n - d residuals at sigma2 = SSQ/(n-d-p);
+	// ours counts the NUsed summed ones. Check R's value through its
+	// formula to pin the difference down.
+	llR := -nUsed / 2 * (math.Log(2*math.Pi*sigma2R) + 1)
+	if !closeTo(llR, float64(ref.LogLikR[0]), 1e-8, 0) {
+		t.Errorf("%s: R-convention loglik %.12g, want %.12g", ref.Name, llR, ref.LogLikR[0])
+	}
+}
+
+// checkCSSAtR holds every coefficient at R's estimates and checks the
+// residual recursion (R's residuals to 1e-10 of their scale, the sum of
+// squares to 1e-12 relative) and the forecasts against predict() given
+// equal coefficients (1e-6 relative).
+func checkCSSAtR(t *testing.T, ref cssRef, y []float64, ord Order, opt FitSettings) {
+	t.Helper()
+	fixed := FitSettings{Regressors: opt.Regressors, Constant: opt.Constant, Held: map[string]float64{}}
+	for i, nm := range ref.CoefNames {
+		ours, sign := rName(nm)
+		fixed.Held[ours] = sign * float64(ref.CoefTight[i])
+	}
+	held, err := Fit(context.Background(), y, ord, &fixed)
+	if err != nil {
+		t.Fatalf("%s fixed: %v", ref.Name, err)
+	}
+	sc := math.Sqrt(held.Sigma2)
+	checkSlice(t, ref.Name+" resid at R's coefficients", held.Resid[held.Start:], floats(ref.Resid), 1e-10, sc)
+	if ssqR := float64(ref.SSQTight[0]); !closeTo(held.SSQ, ssqR, 1e-12, 0) || len(held.Params) != 0 {
+		t.Errorf("%s: SSQ at R's coefficients %.15g, want %.15g", ref.Name, held.SSQ, ssqR)
+	}
+	var fx [][]float64
+	if ref.Xreg == "trend" {
+		c := make([]float64, ref.H)
+		for i := range c {
+			c[i] = float64(len(y) + 1 + i)
+		}
+		fx = [][]float64{c}
+	}
+	fc, err := held.Forecast(ref.H, 0.95, fx)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkSlice(t, ref.Name+" forecast", fc.Mean, floats(ref.Pred), 1e-6, 0)
+	checkSlice(t, ref.Name+" forecast SE", fc.SE, floats(ref.PredSE), 1e-6, 0)
 }

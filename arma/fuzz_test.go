@@ -148,10 +148,9 @@ func TestForecastHostile(t *testing.T) {
 	}
 }
 
-// TestStartOverflowMessage: start values whose residuals overflow gave
-// "arma: start: lm: residuals cannot be computed at the start point: sum
-// of squares is +Inf", the optimiser's internal wording; the message
-// now names the series and the settings to look at.
+// TestStartOverflowMessage: start values whose residuals overflow give a
+// message that names the series and the settings to look at, not the
+// optimiser's internal wording.
 func TestStartOverflowMessage(t *testing.T) {
 	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 100, &SimSettings{Seed1: 2})
 	if err != nil {

@@ -69,8 +69,17 @@ func hannanRissanen(w []float64, p, q, longAR int) (phi, theta []float64, err er
 	if err != nil {
 		return nil, nil, err
 	}
-	e := long.Residuals(w)
-	m := long.Mean
+	phi, theta = lagRegression(w, long.Residuals(w), long.Mean, p, q, first)
+	return shrinkInside(phi, 0.95), shrinkInside(theta, 0.95), nil
+}
+
+// lagRegression is the second step of Hannan-Rissanen: the ordinary
+// least-squares regression of w_t - m on w_{t-1..t-p} - m and
+// e_{t-1..t-q} over t = first..n-1, returned as the polynomials phi(B)
+// and theta(B). Collinear regressors (for example an over-parameterised
+// model of white noise) give zero coefficients.
+func lagRegression(w, e []float64, m float64, p, q, first int) (phi, theta []float64) {
+	rows, k := len(w)-first, p+q
 	a := mat.NewDense(rows, k, nil)
 	b := mat.NewVecDense(rows, nil)
 	for i := 0; i < rows; i++ {
@@ -83,25 +92,20 @@ func hannanRissanen(w []float64, p, q, longAR int) (phi, theta []float64, err er
 			a.Set(i, p+j-1, e[t-j])
 		}
 	}
+	phi = make([]float64, p+1)
+	theta = make([]float64, q+1)
+	phi[0], theta[0] = 1, 1
 	var qr mat.QR
 	qr.Factorize(a)
 	var beta mat.VecDense
 	if err := qr.SolveVecTo(&beta, false, b); err != nil {
-		// Collinear regressors (for example an over-parameterised model
-		// of white noise): start from zero coefficients.
-		phi = make([]float64, p+1)
-		theta = make([]float64, q+1)
-		phi[0], theta[0] = 1, 1
-		return phi, theta, nil
+		return phi, theta
 	}
-	phi = make([]float64, p+1)
-	theta = make([]float64, q+1)
-	phi[0], theta[0] = 1, 1
 	for j := 1; j <= p; j++ {
 		phi[j] = -beta.AtVec(j - 1)
 	}
 	for j := 1; j <= q; j++ {
 		theta[j] = beta.AtVec(p + j - 1)
 	}
-	return shrinkInside(phi, 0.95), shrinkInside(theta, 0.95), nil
+	return phi, theta
 }

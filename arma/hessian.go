@@ -27,17 +27,69 @@ func (e *engine) hessian(x []float64) (*mat.SymDense, bool) {
 	return h, ok
 }
 
-// curvature returns H, J'J, the gradient J'r and the sum of squares at x.
+// curvature returns H, J'J, the gradient J'r and the sum of squares at x
+// (ok false when x has no parameter or the residuals cannot be
+// computed there).
 func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f float64, ok bool) {
 	np := len(x)
 	if np == 0 {
 		return nil, nil, nil, 0, false
 	}
 	na := e.narma
-	// Second derivatives of the AR and MA polynomials by differences of
-	// the analytic first derivatives.
-	d2phi := make([][][]float64, na)
-	d2th := make([][][]float64, na)
+	d2phi, d2th := e.polySecond(x)
+	e.curvatureScratch(np)
+	r, jac := e.hr, e.hjac
+	if err := e.eval(x, r, jac); err != nil {
+		return nil, nil, nil, 0, false
+	}
+	_, dphi := e.ar.Grad(e.lookup, na)
+	theta, dtheta := e.ma.Grad(e.lookup, na)
+	adj := e.adjointOf(r, theta)
+	H = mat.NewSymDense(np, nil)
+	jtj = mat.NewSymDense(np, nil)
+	g = make([]float64, np)
+	for j := 0; j < np; j++ {
+		g[j] = vec.Dot(jac[j], r)
+		for k := j; k < np; k++ {
+			q := 0.0
+			if j < na && k < na {
+				if c := d2phi[k][j]; c != nil {
+					q += adj.full(c, e.w)
+				}
+				if c := d2th[k][j]; c != nil {
+					q -= adj.win(c, r)
+				}
+			}
+			if j < na && dphi[j] != nil {
+				q += adj.regression(dphi[j], k)
+			}
+			if k < na && dphi[k] != nil {
+				q += adj.regression(dphi[k], j)
+			}
+			if j < na && dtheta[j] != nil {
+				q -= adj.win(dtheta[j], jac[k])
+			}
+			if k < na && dtheta[k] != nil {
+				q -= adj.win(dtheta[k], jac[j])
+			}
+			jj := vec.Dot(jac[j], jac[k])
+			jtj.SetSym(j, k, jj)
+			H.SetSym(j, k, jj+q)
+		}
+	}
+	return H, jtj, g, vec.Dot(r, r), true
+}
+
+// polySecond returns the second derivatives of the AR and MA polynomials
+// with respect to each pair of ARMA coefficients at x, d2phi[k][j] and
+// d2th[k][j] (nil when zero), by central differences of the analytic
+// first derivatives with step 1e-5 max(1, |x_k|). The engine's
+// coefficient values are left at the last difference point (eval sets
+// them again).
+func (e *engine) polySecond(x []float64) (d2phi, d2th [][][]float64) {
+	na := e.narma
+	d2phi = make([][][]float64, na)
+	d2th = make([][][]float64, na)
 	xp := append([]float64(nil), x...)
 	for k := 0; k < na; k++ {
 		h := 1e-5 * math.Max(1, math.Abs(x[k]))
@@ -53,25 +105,44 @@ func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f fl
 		d2phi[k] = diffPolys(pp, pm, 2*h)
 		d2th[k] = diffPolys(tp, tm, 2*h)
 	}
+	return d2phi, d2th
+}
+
+// curvatureScratch allocates, on first use, the residual, adjoint and
+// Jacobian buffers of curvature for np parameters.
+func (e *engine) curvatureScratch(np int) {
+	if e.hr != nil {
+		return
+	}
 	m := e.m
-	if e.hr == nil {
-		e.hr = make([]float64, m)
-		e.hlam = make([]float64, m)
-		e.hjac = make([][]float64, np)
-		back := make([]float64, np*m)
-		for j := range e.hjac {
-			e.hjac[j] = back[j*m : (j+1)*m]
-		}
+	e.hr = make([]float64, m)
+	e.hlam = make([]float64, m)
+	e.hjac = make([][]float64, np)
+	back := make([]float64, np*m)
+	for j := range e.hjac {
+		e.hjac[j] = back[j*m : (j+1)*m]
 	}
-	r, jac := e.hr, e.hjac
-	if err := e.eval(x, r, jac); err != nil {
-		return nil, nil, nil, 0, false
-	}
-	phi, dphi := e.ar.Grad(e.lookup, na)
-	theta, dtheta := e.ma.Grad(e.lookup, na)
-	v := e.w
-	t0 := e.t0
-	// lambda = T^-T r: the MA filter run backwards in time.
+}
+
+// adjoint is lambda = T^-T r, the residuals r filtered backwards in time
+// by the MA filter T, with what its inner products with the right sides
+// of the second-derivative recursion need.
+type adjoint struct {
+	lam    []float64
+	t0, m  int
+	sumLam float64
+	// vk[k] is the series whose negative is the derivative of v = w - mu
+	// - X beta with respect to regressor parameter k (its differenced
+	// column); isMean[k] marks the mean, whose derivative is the
+	// constant -1; both are empty for ARMA coefficients.
+	vk     [][]float64
+	isMean []bool
+}
+
+// adjointOf computes the adjoint of the residuals r for the MA
+// polynomial theta into e.hlam (one backward filtering pass).
+func (e *engine) adjointOf(r, theta []float64) adjoint {
+	m := e.m
 	lam := e.hlam
 	for i := range r {
 		lam[i] = r[m-1-i]
@@ -82,91 +153,61 @@ func (e *engine) curvature(x []float64) (H, jtj *mat.SymDense, g []float64, f fl
 	for i, j := 0, m-1; i < j; i, j = i+1, j-1 {
 		lam[i], lam[j] = lam[j], lam[i]
 	}
-	// <lambda, c(B) s> for a full-index series s (window starts at t0) and
-	// for a window series s (zero before the window).
-	full := func(c, s []float64) float64 {
-		tot := 0.0
-		for l, cl := range c {
-			if cl != 0 {
-				tot += cl * vec.Dot(lam, s[t0-l:t0-l+m])
-			}
-		}
-		return tot
-	}
-	win := func(c, s []float64) float64 {
-		tot := 0.0
-		for l, cl := range c {
-			if cl != 0 && l < m {
-				tot += cl * vec.Dot(lam[l:], s[:m-l])
-			}
-		}
-		return tot
-	}
-	// v_k: derivative of v with respect to a regression parameter k:
-	// -1 for the mean, -wx for a regressor (nil for ARMA parameters).
-	// (full() of a constant -1 is -sum(c) sum(lambda); of -wx it is
-	// minus full() of wx.)
-	vk := make([][]float64, np)
-	vsign := make([]bool, np) // true: the series is the constant -1
+	np := len(e.names)
+	adj := adjoint{lam: lam, t0: e.t0, m: m, vk: make([][]float64, np), isMean: make([]bool, np)}
 	if e.kmu >= 0 {
-		vsign[e.kmu] = true
+		adj.isMean[e.kmu] = true
 	}
 	for k, b := range e.kb {
 		if b >= 0 {
-			vk[b] = e.wx[k]
+			adj.vk[b] = e.wx[k]
 		}
 	}
-	sumLam := 0.0
 	for _, l := range lam {
-		sumLam += l
+		adj.sumLam += l
 	}
-	vfull := func(c []float64, k int) float64 {
-		if vsign[k] {
-			s := 0.0
-			for _, cl := range c {
-				s += cl
-			}
-			return -s * sumLam
-		}
-		if vk[k] == nil {
-			return 0
-		}
-		return -full(c, vk[k])
-	}
-	H = mat.NewSymDense(np, nil)
-	jtj = mat.NewSymDense(np, nil)
-	g = make([]float64, np)
-	for j := 0; j < np; j++ {
-		g[j] = vec.Dot(jac[j], r)
-		for k := j; k < np; k++ {
-			q := 0.0
-			if j < na && k < na {
-				if c := d2phi[k][j]; c != nil {
-					q += full(c, v)
-				}
-				if c := d2th[k][j]; c != nil {
-					q -= win(c, r)
-				}
-			}
-			if j < na && dphi[j] != nil {
-				q += vfull(dphi[j], k)
-			}
-			if k < na && dphi[k] != nil {
-				q += vfull(dphi[k], j)
-			}
-			if j < na && dtheta[j] != nil {
-				q -= win(dtheta[j], jac[k])
-			}
-			if k < na && dtheta[k] != nil {
-				q -= win(dtheta[k], jac[j])
-			}
-			jj := vec.Dot(jac[j], jac[k])
-			jtj.SetSym(j, k, jj)
-			H.SetSym(j, k, jj+q)
+	return adj
+}
+
+// full returns <lambda, c(B) s> for a series s indexed like the data
+// (the window of lambda starts at t0).
+func (a *adjoint) full(c, s []float64) float64 {
+	tot := 0.0
+	for l, cl := range c {
+		if cl != 0 {
+			tot += cl * vec.Dot(a.lam, s[a.t0-l:a.t0-l+a.m])
 		}
 	}
-	_ = phi
-	return H, jtj, g, vec.Dot(r, r), true
+	return tot
+}
+
+// win returns <lambda, c(B) s> for a series s of the window (zero before
+// it), such as the residuals or a Jacobian column.
+func (a *adjoint) win(c, s []float64) float64 {
+	tot := 0.0
+	for l, cl := range c {
+		if cl != 0 && l < a.m {
+			tot += cl * vec.Dot(a.lam[l:], s[:a.m-l])
+		}
+	}
+	return tot
+}
+
+// regression returns <lambda, c(B) v_k>, v_k the derivative of v with
+// respect to parameter k: -sum(c) sum(lambda) for the mean, minus full()
+// of the column for a regressor, 0 for an ARMA coefficient.
+func (a *adjoint) regression(c []float64, k int) float64 {
+	if a.isMean[k] {
+		s := 0.0
+		for _, cl := range c {
+			s += cl
+		}
+		return -s * a.sumLam
+	}
+	if a.vk[k] == nil {
+		return 0
+	}
+	return -a.full(c, a.vk[k])
 }
 
 // diffPolys returns (a[k] - b[k]) / h for each parameter k (nil when

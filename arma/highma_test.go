@@ -12,9 +12,9 @@ import (
 	"github.com/backshift/backshift/internal/poly"
 )
 
-// TestHighDegreeMA: every MA polynomial of degree above 32 panicked in
-// the stability test (a 33-element stack buffer was sliced before its
-// size was checked). Each model below is simulated, checked for
+// TestHighDegreeMA: MA polynomials of degree above 32, beyond the stack
+// buffer of the stability test (schurStable), are judged, fitted and
+// forecast like shorter ones. Each model below is simulated, checked for
 // stationarity and invertibility, fitted and forecast. The truth of a
 // simulated model is the outside source of the estimates; each must lie
 // within 4 standard errors of it (a normal deviate beyond 4 has
@@ -73,9 +73,9 @@ func TestHighDegreeMA(t *testing.T) {
 }
 
 // TestRootsOfHugeFactors: MA(1) x seasonal MA(1) with coefficients 1e200
-// expands to a B^3 coefficient of 1e400, which overflows float64; the
-// root finder then failed and Invertible returned the untyped
-// "poly: root finding failed". The roots are now found per factor:
+// expands to a B^3 coefficient of 1e400, which overflows float64, so
+// the roots of the expanded polynomial cannot be found. They are found
+// per factor:
 // theta(B) = 1 - 1e200 B has its z-plane root at 1e200 and Theta(B^2) =
 // 1 - 1e200 B^2 at z = +-1e100 (by hand: z^2 = 1e200).
 func TestRootsOfHugeFactors(t *testing.T) {
@@ -126,8 +126,8 @@ func TestRootsOfHugeFactors(t *testing.T) {
 }
 
 // TestWeightsOfHugeFactors: psi and pi weights of a model whose factors
-// expand beyond float64 blamed "ar" for an overflowing MA product; the
-// error now names the expanded polynomial.
+// expand beyond float64 give an error that names the expanded polynomial
+// that overflows.
 func TestWeightsOfHugeFactors(t *testing.T) {
 	m := Model{MA: []float64{1e200}, SMA: []float64{1e200}, Period: 2}
 	for name, f := range map[string]func() error{

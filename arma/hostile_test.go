@@ -42,8 +42,8 @@ func catch(f func() error) (err error) {
 }
 
 // TestHostileOrders: orders whose degree overflows int (SP*Period wraps
-// negative), negative differencing and huge periods in a Model were
-// panics, out-of-memory crashes or silently accepted.
+// negative), negative differencing and huge periods in a Model are
+// typed errors, with no panic and no attempt to allocate them.
 func TestHostileOrders(t *testing.T) {
 	y := make([]float64, 100)
 	for i := range y {
@@ -91,10 +91,10 @@ func catchPoly(f func() []float64) (p []float64) {
 	return f()
 }
 
-// TestHostileLags: huge lags, orders and starts gave ShortErrors with a
-// negative or wrong Need (overflow of lag+1), Hannan-Rissanen panicked in
-// mat for p or q = MaxInt and misnamed a negative longAR, and an unknown
-// MeanMode was silently taken as "no mean".
+// TestHostileLags: huge lags, orders and starts give ShortErrors with
+// the right positive Need (no overflow of lag+1), Hannan-Rissanen with p
+// or q = MaxInt gives a typed error and names a negative longAR, and an
+// unknown ConstantRule is a *SettingError.
 func TestHostileLags(t *testing.T) {
 	y := make([]float64, 200)
 	for i := range y {
@@ -126,9 +126,9 @@ func TestHostileLags(t *testing.T) {
 }
 
 // TestHostileSizes: horizons, weight counts and sample counts of 1<<40
-// exhausted memory, math.MaxInt panicked in makeslice, a horizon of 10^5
-// ran for minutes (the integration of the state was O(h^2)), and Forecast
-// on a nil or zero Result panicked.
+// or math.MaxInt are typed errors (no attempt to allocate them), the
+// largest horizon, MaxHorizon, is accepted (the integration of the state
+// is O(h)), and Forecast on a nil or zero Result is a typed error.
 func TestHostileSizes(t *testing.T) {
 	y := make([]float64, 200)
 	for i := range y {
@@ -159,9 +159,8 @@ func TestHostileSizes(t *testing.T) {
 		}), "setting", "arma.Simulate: SimSettings.BurnIn = " + itoa(math.MaxInt) + ": above MaxSamples"},
 		{"FitNoise long diff", catch(func() error { _, err := FitNoise(nil, y, Noise{}, longDiff, nil); return err }), "model", "arma.FitNoise: diff: degree 4095 above MaxLag = 256"},
 	})
-	// The largest horizon itself is accepted (its cost, O(h) since the
-	// exact forecast was made a recursion, is measured by
-	// BenchmarkForecastMaxHorizon, not timed here).
+	// The largest horizon itself is accepted (its cost, O(h), is
+	// measured by BenchmarkForecastMaxHorizon, not timed here).
 	if err := fc(res, MaxHorizon); err != nil {
 		t.Fatal(err)
 	}
@@ -169,7 +168,7 @@ func TestHostileSizes(t *testing.T) {
 
 // TestHostileOverflow: explosive polynomials, a non-stationary
 // simulation without burn-in, a huge mean and a forecast from an
-// explosive fitted AR part returned +-Inf without a word.
+// explosive fitted AR part are typed errors, never +-Inf results.
 func TestHostileOverflow(t *testing.T) {
 	_, res := hostileExplosive(t)
 	checkHostile(t, []hostileCase{
@@ -254,9 +253,9 @@ func TestHostileForecastFirstStep(t *testing.T) {
 }
 
 // TestHostileScale: a series scaled to 1e-200 (by hand: squares near
-// 1e-400, below the smallest subnormal float64, 4.9e-324, so they are 0) gave
-// Sigma2 = 0 and LogLik = +Inf without an error, and a diff coefficient
-// of 1e300 gave Sigma2 = +Inf.
+// 1e-400, below the smallest subnormal float64, 4.9e-324, so they are 0)
+// would give Sigma2 = 0 and LogLik = +Inf, and a diff coefficient of
+// 1e300 Sigma2 = +Inf: each is a typed error.
 func TestHostileScale(t *testing.T) {
 	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 500, &SimSettings{Seed1: 1})
 	if err != nil {

@@ -175,8 +175,7 @@ func TestSchurStable(t *testing.T) {
 			t.Fatalf("%v: schurStable %v, roots %v", a, schurStable(a), zs)
 		}
 	}
-	// Degrees 30..40 cross the 32 of the stack buffer (degrees above 32
-	// panicked): polynomials built from z-plane roots of known moduli,
+	// Degrees 30..40 cross the 32 of the stack buffer: polynomials built from z-plane roots of known moduli,
 	// all inside (stable) or one at 1.05 (unstable).
 	for it := 0; it < 200; it++ {
 		d := 30 + it%11

@@ -8,7 +8,7 @@ import (
 )
 
 // TestSelectRecoversPanic injects a panic into one fit of Select (through
-// the unexported testSelectHook, run on the worker goroutine): the
+// the fitting function of selectOrders, run on the worker goroutine): the
 // process survives, the candidate carries an *InternalError naming the
 // order and the series, and Select returns that error with every
 // candidate (the others fitted normally).
@@ -17,14 +17,14 @@ func TestSelectRecoversPanic(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	testSelectHook = func(o Order) {
+	faulty := func(ctx context.Context, y []float64, o Order, opt *FitSettings) (*Result, error) {
 		if o.P == 1 && o.Q == 1 {
 			var s []int
 			_ = s[o.P+5] // an index panic, as a bug would make
 		}
+		return fit(ctx, y, o, opt)
 	}
-	defer func() { testSelectHook = nil }()
-	cands, err := Select(context.Background(), y, Grid{MaxP: 1, MaxQ: 1, Workers: 2}, &FitSettings{Name: "flow"})
+	cands, err := selectOrders(context.Background(), y, Grid{MaxP: 1, MaxQ: 1, Workers: 2}, &FitSettings{Name: "flow"}, faulty)
 	var ie *InternalError
 	if !errors.As(err, &ie) {
 		t.Fatalf("Select error %T %v, want *InternalError", err, err)

@@ -3,6 +3,7 @@ package arma
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -11,17 +12,18 @@ import (
 // TestFitScaleEquivariant: conditional least squares is equivariant in
 // the series' units (common practice: scaling y by c scales the mean,
 // the regression coefficients and the residuals by c and the sum of
-// squares by c^2, and leaves the ARMA coefficients alone). The fit
-// stalled at the iteration limit for deviations of 1e8 and beyond (and
-// 1e-10 and below) because the mean's column of the normal equations
-// was too small against the coefficients' for the Cholesky solver; it
-// now works in units of a power of two. Tolerances: 1e-9 relative for
+// squares by c^2, and leaves the ARMA coefficients alone). In the
+// series' own units the fit would stall at the iteration limit for
+// deviations of 1e8 and beyond (and 1e-10 and below) because the mean's
+// column of the normal equations would be too small against the
+// coefficients' for the Cholesky solver; it works in units of a power of
+// two. Tolerances: 1e-9 relative for
 // estimates, residuals, Sigma2 and forecasts (the optimiser's path
 // differs only by the rounding of y*c and the power of two chosen);
 // 1e-6 for standard errors, which come from the curvature at the last
 // Newton iterate, and the polish may stop one step earlier or later (a
 // step below 1e-6 relative leaves the curvature unchanged to that
-// order, see fitCore).
+// order, see polish).
 func TestFitScaleEquivariant(t *testing.T) {
 	ctx := context.Background()
 	base, err := Simulate(Model{AR: []float64{0.5}, MA: []float64{-0.3}, Mean: 2, Sigma2: 1}, 300, &SimSettings{Seed1: 21, Seed2: 4})
@@ -40,54 +42,67 @@ func TestFitScaleEquivariant(t *testing.T) {
 	if err != nil {
 		t.Fatalf("unscaled fit: %v", err)
 	}
+	for _, c := range []float64{1e-150, 1e-100, 1e-10, 1e8, 1e10, 1e50, 1e130} {
+		t.Run(fmt.Sprint(c), func(t *testing.T) {
+			r, err := Fit(ctx, scaled(base, c), Order{P: 1, Q: 1}, opt())
+			if err != nil {
+				t.Fatalf("scale %g: %v", c, err)
+			}
+			checkScaledFit(t, r, ref, c)
+		})
+	}
+	t.Run("held mean", func(t *testing.T) {
+		// A mean held at a value and a start value for it are in the
+		// series' units.
+		r, err := Fit(ctx, scaled(base, 1e10), Order{P: 1, Q: 1}, &FitSettings{Regressors: [][]float64{trend}, Held: map[string]float64{"c": 2e10}, StartValues: map[string]float64{"x1": 3}})
+		if err != nil || r.Model.Mean != 2e10 || math.Abs(r.Beta[0]/30-1) > 0.01 {
+			t.Errorf("held mean: %v mean %v beta %v", err, r.Model.Mean, r.Beta)
+		}
+	})
+}
+
+// scaled returns y times c.
+func scaled(y []float64, c float64) []float64 {
+	out := make([]float64, len(y))
+	for i := range y {
+		out[i] = y[i] * c
+	}
+	return out
+}
+
+// checkScaledFit checks the fit r of the series of the fit ref scaled by
+// c (with the same trend regressor "time") against ref scaled
+// (tolerances in TestFitScaleEquivariant's doc).
+func checkScaledFit(t *testing.T, r, ref *Result, c float64) {
+	t.Helper()
 	near := func(a, b float64) bool { return math.Abs(a-b) <= 1e-9*math.Abs(b) }
 	nearSE := func(a, b float64) bool { return math.Abs(a-b) <= 1e-6*math.Abs(b) }
-	for _, c := range []float64{1e-150, 1e-100, 1e-10, 1e8, 1e10, 1e50, 1e130} {
-		y := make([]float64, len(base))
-		for i := range y {
-			y[i] = base[i] * c
+	for k, nm := range names(ref) {
+		f := 1.0
+		if nm == "c" || nm == "time" {
+			f = c
 		}
-		r, err := Fit(ctx, y, Order{P: 1, Q: 1}, opt())
-		if err != nil {
-			t.Errorf("scale %g: %v", c, err)
-			continue
-		}
-		for k, nm := range names(ref) {
-			f := 1.0
-			if nm == "c" || nm == "time" {
-				f = c
-			}
-			if !near(ests(r)[k], ests(ref)[k]*f) || !nearSE(ses(r)[k], ses(ref)[k]*f) || !nearSE(r.SEHessian[k], ref.SEHessian[k]*f) {
-				t.Errorf("scale %g, %s: %g +- %g (Hessian %g), want %g +- %g (%g)", c, nm, ests(r)[k], ses(r)[k], r.SEHessian[k], ests(ref)[k]*f, ses(ref)[k]*f, ref.SEHessian[k]*f)
-			}
-		}
-		if !near(r.Sigma2, ref.Sigma2*c*c) || !near(r.Resid[len(y)-1], ref.Resid[len(y)-1]*c) || !near(r.Model.Mean, ref.Model.Mean*c) || !near(r.Beta[0], ref.Beta[0]*c) {
-			t.Errorf("scale %g: Sigma2 %g mean %g beta %g, want %g %g %g", c, r.Sigma2, r.Model.Mean, r.Beta[0], ref.Sigma2*c*c, ref.Model.Mean*c, ref.Beta[0]*c)
-		}
-		if !near(r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c)) {
-			t.Errorf("scale %g: LogLik %g, want %g", c, r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c))
-		}
-		fc, err := r.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
-		fr, _ := ref.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
-		if err != nil || !near(fc.Mean[4], fr.Mean[4]*c) || !nearSE(fc.SE[4], fr.SE[4]*c) {
-			t.Errorf("scale %g: forecast %v %v, want %g %g", c, fc, err, fr.Mean[4]*c, fr.SE[4]*c)
+		if !near(ests(r)[k], ests(ref)[k]*f) || !nearSE(ses(r)[k], ses(ref)[k]*f) || !nearSE(r.SEHessian[k], ref.SEHessian[k]*f) {
+			t.Errorf("scale %g, %s: %g +- %g (Hessian %g), want %g +- %g (%g)", c, nm, ests(r)[k], ses(r)[k], r.SEHessian[k], ests(ref)[k]*f, ses(ref)[k]*f, ref.SEHessian[k]*f)
 		}
 	}
-	// A mean held at a value and a start value for it are in the
-	// series' units.
-	y := make([]float64, len(base))
-	for i := range y {
-		y[i] = base[i] * 1e10
+	last := len(r.Resid) - 1
+	if !near(r.Sigma2, ref.Sigma2*c*c) || !near(r.Resid[last], ref.Resid[last]*c) || !near(r.Model.Mean, ref.Model.Mean*c) || !near(r.Beta[0], ref.Beta[0]*c) {
+		t.Errorf("scale %g: Sigma2 %g mean %g beta %g, want %g %g %g", c, r.Sigma2, r.Model.Mean, r.Beta[0], ref.Sigma2*c*c, ref.Model.Mean*c, ref.Beta[0]*c)
 	}
-	r, err := Fit(ctx, y, Order{P: 1, Q: 1}, &FitSettings{Regressors: [][]float64{trend}, Held: map[string]float64{"c": 2e10}, StartValues: map[string]float64{"x1": 3}})
-	if err != nil || r.Model.Mean != 2e10 || math.Abs(r.Beta[0]/30-1) > 0.01 {
-		t.Errorf("held mean: %v mean %v beta %v", err, r.Model.Mean, r.Beta)
+	if !near(r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c)) {
+		t.Errorf("scale %g: LogLik %g, want %g", c, r.LogLik, ref.LogLik-float64(r.NUsed)*math.Log(c))
+	}
+	fc, err := r.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
+	fr, _ := ref.Forecast(5, 0.9, [][]float64{{3e11, 3.01e11, 3.02e11, 3.03e11, 3.04e11}})
+	if err != nil || !near(fc.Mean[4], fr.Mean[4]*c) || !nearSE(fc.SE[4], fr.SE[4]*c) {
+		t.Errorf("scale %g: forecast %v %v, want %g %g", c, fc, err, fr.Mean[4]*c, fr.SE[4]*c)
 	}
 }
 
-// TestConstantMessage: a straight line under (1 - B) was reported as
-// "constant over its 100 samples", blaming the data for what the
-// differencing did; a constant series prints its value to 6 digits.
+// TestConstantMessage: a straight line under (1 - B) is reported as
+// constant after the differencing, naming the differencing rather than
+// blaming the data; a constant series prints its value to 6 digits.
 func TestConstantMessage(t *testing.T) {
 	line := make([]float64, 100)
 	flat := make([]float64, 100)

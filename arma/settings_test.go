@@ -8,17 +8,46 @@ import (
 	"testing"
 )
 
-// TestSettingsValidate: every field of Options, SimSettings and Grid with
-// a bad value gives a typed error naming the field, from Validate and
-// from the call that takes the settings. Fields with no bad value:
-// Options.Name and AllowNonInvertible, SimSettings.Seed1 and Seed2 (any
-// string, bool or seed). SimSettings.BurnIn negative is documented
-// (none) and accepted.
+// TestSettingsValidate: every field of FitSettings, SimSettings and
+// Grid with a bad value gives a typed error naming the field, from
+// Validate and from the call that takes the settings. Fields with no bad
+// value: FitSettings.Name and AllowNonInvertible, SimSettings.Seed1 and
+// Seed2 (any string, bool or seed). SimSettings.BurnIn negative is
+// documented (none) and accepted.
 func TestSettingsValidate(t *testing.T) {
 	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 120, &SimSettings{Seed1: 5})
 	if err != nil {
 		t.Fatal(err)
 	}
+	t.Run("FitSettings", func(t *testing.T) { checkFitSettingsErrors(t, y) })
+	t.Run("SimSettings", checkSimSettingsErrors)
+	t.Run("Grid", func(t *testing.T) { checkGridErrors(t, y) })
+	t.Run("defaults", func(t *testing.T) {
+		var nilOpt *FitSettings
+		var nilSim *SimSettings
+		if nilOpt.Validate() != nil || nilSim.Validate() != nil || (Grid{}).Validate() != nil {
+			t.Error("the defaults do not validate")
+		}
+	})
+}
+
+// isSettingErr matches a *SettingError on field.
+func isSettingErr(field string) func(error) bool {
+	return func(err error) bool { var e *SettingError; return errors.As(err, &e) && e.Setting == field }
+}
+
+// isSampleErrAt matches a *SampleError at sample i of series.
+func isSampleErrAt(series string, i int) func(error) bool {
+	return func(err error) bool {
+		var e *SampleError
+		return errors.As(err, &e) && e.Series == series && e.Index == i
+	}
+}
+
+// checkFitSettingsErrors checks each bad FitSettings value through
+// Validate, Fit, FitNoise and Select on y (120 samples): the error, its
+// wording and its Op.
+func checkFitSettingsErrors(t *testing.T, y []float64) {
 	ctx := context.Background()
 	col := func(v ...float64) []float64 {
 		c := make([]float64, len(y))
@@ -29,36 +58,27 @@ func TestSettingsValidate(t *testing.T) {
 		return c
 	}
 	nan := math.NaN()
-	isArg := func(field string) func(error) bool {
-		return func(err error) bool { var e *SettingError; return errors.As(err, &e) && e.Setting == field }
-	}
-	dataAt := func(series string, i int) func(error) bool {
-		return func(err error) bool {
-			var e *SampleError
-			return errors.As(err, &e) && e.Series == series && e.Index == i
-		}
-	}
 	opts := []struct {
 		o    FitSettings
 		ok   func(error) bool
 		want string
 	}{
-		{FitSettings{Constant: 3}, isArg("FitSettings.Constant"), "FitSettings.Constant = 3: unknown ConstantRule"},
-		{FitSettings{Constant: -1}, isArg("FitSettings.Constant"), "ConstantFree"},
-		{FitSettings{Regressors: [][]float64{col(), col()[:50]}}, isArg("FitSettings.Regressors"), "FitSettings.Regressors = column x2 of 50 samples: every column needs the series' length, and x1 has 120"},
-		{FitSettings{Regressors: [][]float64{col(), col(nan)}, RegressorNames: []string{"a", "valve"}}, dataAt("valve", 3), `series "valve" sample 3 is NaN`},
-		{FitSettings{Regressors: [][]float64{col(1e300)}}, dataAt("x1", 3), "beyond the largest magnitude accepted, 1e+140"},
-		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{"a", "b"}}, isArg("FitSettings.RegressorNames"), "FitSettings.RegressorNames = 2 names: give one name per regressor column (1)"},
-		{FitSettings{Regressors: [][]float64{col(), col()}, RegressorNames: []string{"a", "a"}}, isArg("FitSettings.RegressorNames"), `"a": used twice`},
-		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{""}}, isArg("FitSettings.RegressorNames"), "empty name"},
-		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{"c"}}, isArg("FitSettings.RegressorNames"), `"c": is reserved for the constant c`},
-		{FitSettings{Held: map[string]float64{"phi1": nan}}, isArg(`FitSettings.Held["phi1"]`), `FitSettings.Held["phi1"] = NaN: must be finite`},
-		{FitSettings{StartValues: map[string]float64{"phi1": math.Inf(1)}}, isArg(`FitSettings.StartValues["phi1"]`), `FitSettings.StartValues["phi1"] = +Inf: must be finite`},
-		{FitSettings{First: -2}, isArg("FitSettings.First"), "FitSettings.First = -2: must not be negative"},
-		{FitSettings{MaxIter: -1}, isArg("FitSettings.MaxIter"), "FitSettings.MaxIter = -1: must not be negative (zero means 500)"},
-		{FitSettings{Tol: -1e-3}, isArg("FitSettings.Tol"), "[0, 1)"},
-		{FitSettings{Tol: 1}, isArg("FitSettings.Tol"), "[0, 1)"},
-		{FitSettings{Tol: nan}, isArg("FitSettings.Tol"), "FitSettings.Tol = NaN: must be in [0, 1) (zero means 1e-14)"},
+		{FitSettings{Constant: 3}, isSettingErr("FitSettings.Constant"), "FitSettings.Constant = 3: unknown ConstantRule"},
+		{FitSettings{Constant: -1}, isSettingErr("FitSettings.Constant"), "ConstantFree"},
+		{FitSettings{Regressors: [][]float64{col(), col()[:50]}}, isSettingErr("FitSettings.Regressors"), "FitSettings.Regressors = column x2 of 50 samples: every column needs the series' length, and x1 has 120"},
+		{FitSettings{Regressors: [][]float64{col(), col(nan)}, RegressorNames: []string{"a", "valve"}}, isSampleErrAt("valve", 3), `series "valve" sample 3 is NaN`},
+		{FitSettings{Regressors: [][]float64{col(1e300)}}, isSampleErrAt("x1", 3), "beyond the largest magnitude accepted, 1e+140"},
+		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{"a", "b"}}, isSettingErr("FitSettings.RegressorNames"), "FitSettings.RegressorNames = 2 names: give one name per regressor column (1)"},
+		{FitSettings{Regressors: [][]float64{col(), col()}, RegressorNames: []string{"a", "a"}}, isSettingErr("FitSettings.RegressorNames"), `"a": used twice`},
+		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{""}}, isSettingErr("FitSettings.RegressorNames"), "empty name"},
+		{FitSettings{Regressors: [][]float64{col()}, RegressorNames: []string{"c"}}, isSettingErr("FitSettings.RegressorNames"), `"c": is reserved for the constant c`},
+		{FitSettings{Held: map[string]float64{"phi1": nan}}, isSettingErr(`FitSettings.Held["phi1"]`), `FitSettings.Held["phi1"] = NaN: must be finite`},
+		{FitSettings{StartValues: map[string]float64{"phi1": math.Inf(1)}}, isSettingErr(`FitSettings.StartValues["phi1"]`), `FitSettings.StartValues["phi1"] = +Inf: must be finite`},
+		{FitSettings{First: -2}, isSettingErr("FitSettings.First"), "FitSettings.First = -2: must not be negative"},
+		{FitSettings{MaxIter: -1}, isSettingErr("FitSettings.MaxIter"), "FitSettings.MaxIter = -1: must not be negative (zero means 500)"},
+		{FitSettings{Tol: -1e-3}, isSettingErr("FitSettings.Tol"), "[0, 1)"},
+		{FitSettings{Tol: 1}, isSettingErr("FitSettings.Tol"), "[0, 1)"},
+		{FitSettings{Tol: nan}, isSettingErr("FitSettings.Tol"), "FitSettings.Tol = NaN: must be in [0, 1) (zero means 1e-14)"},
 	}
 	for _, c := range opts {
 		calls := map[string]error{
@@ -78,13 +98,18 @@ func TestSettingsValidate(t *testing.T) {
 			}
 		}
 	}
+}
+
+// checkSimSettingsErrors checks each bad SimSettings value through
+// Validate and Simulate, and that a negative BurnIn is accepted.
+func checkSimSettingsErrors(t *testing.T) {
 	sims := []struct {
 		s    SimSettings
 		ok   func(error) bool
 		want string
 	}{
-		{SimSettings{BurnIn: MaxSamples + 1}, isArg("SimSettings.BurnIn"), "above MaxSamples"},
-		{SimSettings{Innovations: []float64{0, 1, math.Inf(-1)}}, dataAt("innovations", 2), `series "innovations" sample 2 is -Inf`},
+		{SimSettings{BurnIn: MaxSamples + 1}, isSettingErr("SimSettings.BurnIn"), "above MaxSamples"},
+		{SimSettings{Innovations: []float64{0, 1, math.Inf(-1)}}, isSampleErrAt("innovations", 2), `series "innovations" sample 2 is -Inf`},
 	}
 	for _, c := range sims {
 		for how, err := range map[string]error{"Validate": c.s.Validate(), "Simulate": second(Simulate(Model{Sigma2: 1}, 3, &c.s))} {
@@ -93,12 +118,18 @@ func TestSettingsValidate(t *testing.T) {
 			}
 		}
 	}
-	if _, err := Simulate(Model{Sigma2: 1}, 2, &SimSettings{Innovations: []float64{1}}); !isArg("SimSettings.Innovations")(err) || err.Error() != "arma.Simulate: SimSettings.Innovations = 1 values: needs n = 2 values" {
+	if _, err := Simulate(Model{Sigma2: 1}, 2, &SimSettings{Innovations: []float64{1}}); !isSettingErr("SimSettings.Innovations")(err) || err.Error() != "arma.Simulate: SimSettings.Innovations = 1 values: needs n = 2 values" {
 		t.Errorf("innovations of the wrong length: %v", err)
 	}
 	if _, err := Simulate(Model{Sigma2: 1}, 3, &SimSettings{BurnIn: -5}); err != nil {
 		t.Errorf("documented negative BurnIn: %v", err)
 	}
+}
+
+// checkGridErrors checks each bad Grid value through Validate and Select
+// on y.
+func checkGridErrors(t *testing.T, y []float64) {
+	ctx := context.Background()
 	grids := []struct {
 		g     Grid
 		field string
@@ -118,23 +149,17 @@ func TestSettingsValidate(t *testing.T) {
 	}
 	for _, c := range grids {
 		for how, err := range map[string]error{"Validate": c.g.Validate(), "Select": second(Select(ctx, y, c.g, nil))} {
-			if !isArg(c.field)(err) || !strings.Contains(err.Error(), c.want) {
+			if !isSettingErr(c.field)(err) || !strings.Contains(err.Error(), c.want) {
 				t.Errorf("%s %+v: %T %v, want a *SettingError on %s with %q", how, c.g, err, err, c.field, c.want)
 			}
 		}
-	}
-	var nilOpt *FitSettings
-	var nilSim *SimSettings
-	if nilOpt.Validate() != nil || nilSim.Validate() != nil || (Grid{}).Validate() != nil {
-		t.Error("the defaults do not validate")
 	}
 }
 
 func second[T any](_ T, err error) error { return err }
 
 // TestModelCoefficientMessages: a NaN or infinite coefficient of a
-// Model was reported as "coefficients must be finite" without saying
-// which; the message now names the slice and index.
+// Model is reported with the slice and index that hold it.
 func TestModelCoefficientMessages(t *testing.T) {
 	nan, inf := math.NaN(), math.Inf(1)
 	cases := []struct {

@@ -8,8 +8,8 @@ import (
 )
 
 // MaxSamples bounds n plus the burn-in of Simulate: 2^26 samples are
-// 512 MiB per series, and Simulate holds two. A larger request (n = 1<<40
-// exhausted memory, math.MaxInt panicked) is a *SettingError.
+// 512 MiB per series, and Simulate holds two. A larger request is a
+// *SettingError.
 const MaxSamples = 1 << 26
 
 // SimSettings tunes Simulate. The zero value gives the defaults.
@@ -66,39 +66,9 @@ func Simulate(m Model, n int, s *SimSettings) (y []float64, err error) {
 		return nil, err
 	}
 	ar, ma, diff := m.arPoly(), m.maPoly(), diffPoly(m.D, m.SD, m.Period) // orders checked by validate
-	burn := 0
-	var a []float64
-	if set.Innovations != nil {
-		if len(set.Innovations) != n {
-			return nil, settingErr("SimSettings.Innovations", itoa(len(set.Innovations))+" values", "needs n = "+itoa(n)+" values")
-		}
-		if err := checkFinite("innovations", set.Innovations); err != nil {
-			return nil, err
-		}
-		a = append([]float64(nil), set.Innovations...)
-	} else {
-		if set.BurnIn >= 0 {
-			ok, bad, err := m.stationary()
-			if err != nil {
-				return nil, err
-			}
-			if !ok {
-				return nil, modelErr("model AR part", "not stationary (z-plane roots "+rootList(bad)+"); use SimSettings.BurnIn < 0")
-			}
-			burn = set.BurnIn
-			if burn == 0 {
-				burn = autoBurn(ar, len(ma)-1)
-			}
-			if burn > MaxSamples-n {
-				return nil, settingErr("SimSettings.BurnIn", itoa(burn), "n + BurnIn = "+itoa(n)+" + "+itoa(burn)+" is above MaxSamples = "+itoa(MaxSamples))
-			}
-		}
-		a = make([]float64, burn+n)
-		rng := rand.New(rand.NewPCG(set.Seed1, set.Seed2))
-		sd := math.Sqrt(m.Sigma2)
-		for i := range a {
-			a[i] = sd * rng.NormFloat64()
-		}
+	a, burn, err := innovations(m, n, set, ar, len(ma)-1)
+	if err != nil {
+		return nil, err
 	}
 	filter.Run(a, ma, ar, a)
 	y = a[burn:]
@@ -112,6 +82,46 @@ func Simulate(m Model, n int, s *SimSettings) (y []float64, err error) {
 		return nil, &SeriesError{Series: "simulated", Kind: ErrOverflow, Detail: "the simulated series overflows at sample " + itoa(k) + " (explosive AR part or huge Mean/Sigma2)"}
 	}
 	return y, nil
+}
+
+// innovations returns the innovation series a_t of Simulate, the
+// burn-in samples first, and the burn-in: SimSettings.Innovations when
+// given, else Gaussian draws of variance m.Sigma2 from the seeds; ar is
+// the expanded AR polynomial and q the MA degree (for the automatic
+// burn-in).
+func innovations(m Model, n int, set SimSettings, ar []float64, q int) (a []float64, burn int, err error) {
+	if set.Innovations != nil {
+		if len(set.Innovations) != n {
+			return nil, 0, settingErr("SimSettings.Innovations", itoa(len(set.Innovations))+" values", "needs n = "+itoa(n)+" values")
+		}
+		if err := checkFinite("innovations", set.Innovations); err != nil {
+			return nil, 0, err
+		}
+		return append([]float64(nil), set.Innovations...), 0, nil
+	}
+	if set.BurnIn >= 0 {
+		ok, bad, err := m.stationary()
+		if err != nil {
+			return nil, 0, err
+		}
+		if !ok {
+			return nil, 0, modelErr("model AR part", "not stationary (z-plane roots "+rootList(bad)+"); use SimSettings.BurnIn < 0")
+		}
+		burn = set.BurnIn
+		if burn == 0 {
+			burn = autoBurn(ar, q)
+		}
+		if burn > MaxSamples-n {
+			return nil, 0, settingErr("SimSettings.BurnIn", itoa(burn), "n + BurnIn = "+itoa(n)+" + "+itoa(burn)+" is above MaxSamples = "+itoa(MaxSamples))
+		}
+	}
+	a = make([]float64, burn+n)
+	rng := rand.New(rand.NewPCG(set.Seed1, set.Seed2))
+	sd := math.Sqrt(m.Sigma2)
+	for i := range a {
+		a[i] = sd * rng.NormFloat64()
+	}
+	return a, burn, nil
 }
 
 // autoBurn returns the burn-in for an AR polynomial with z-plane roots

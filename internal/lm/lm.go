@@ -132,12 +132,37 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	if p.M <= 0 || p.N <= 0 || len(x0) != p.N || p.Eval == nil {
 		return Result{}, fmt.Errorf("lm: malformed problem (M=%d, N=%d, len(x0)=%d)", p.M, p.N, len(x0))
 	}
+	set, err := withDefaults(s, p.M)
+	if err != nil {
+		return Result{}, err
+	}
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	size := (2*p.N + 2) * p.M
+	if p.Normal != nil {
+		size = 2 * p.M
+	}
+	wk := getWork(size, !p.WritesAll)
+	defer workPool.Put(wk)
+	sr := newSearch(p, set, x0, *wk)
+	if err := sr.begin(); err != nil {
+		return Result{}, err
+	}
+	reason := sr.run(ctx)
+	return sr.result(reason), nil
+}
+
+// withDefaults checks the settings s (nil for the defaults) and fills in
+// the defaults; FTol is raised to the rounding floor of a sum of m
+// squares.
+func withDefaults(s *Settings, m int) (Settings, error) {
 	var set Settings
 	if s != nil {
 		set = *s
 	}
 	if set.MaxIter < 0 || !(set.FTol >= 0) || !(set.XTol >= 0) || !(set.GTol >= 0) {
-		return Result{}, fmt.Errorf("lm: malformed settings (MaxIter=%d, FTol=%v, XTol=%v, GTol=%v): negative or NaN", set.MaxIter, set.FTol, set.XTol, set.GTol)
+		return Settings{}, fmt.Errorf("lm: malformed settings (MaxIter=%d, FTol=%v, XTol=%v, GTol=%v): negative or NaN", set.MaxIter, set.FTol, set.XTol, set.GTol)
 	}
 	if set.MaxIter == 0 {
 		set.MaxIter = 500
@@ -148,213 +173,296 @@ func Minimize(ctx context.Context, p Problem, x0 []float64, s *Settings) (Result
 	// Below the rounding floor of a sum of M squares (random-walk growth
 	// of rounding errors, ~sqrt(M) eps relative, with a margin of 10)
 	// reductions are noise.
-	set.FTol = math.Max(set.FTol, 10*epsilon*math.Sqrt(float64(p.M)))
+	set.FTol = math.Max(set.FTol, 10*epsilon*math.Sqrt(float64(m)))
 	if set.XTol == 0 {
 		set.XTol = 1e-12
 	}
 	if set.GTol == 0 {
 		set.GTol = 1e-12
 	}
-	if ctx == nil {
-		ctx = context.Background()
-	}
+	return set, nil
+}
+
+// search is the state of one Minimize call: the current point x with
+// its residuals r, J'J (a) and J'r (g) and sum of squares f; the trial
+// point's buffers (xt, tr, tjac, ta, tg), swapped with the current ones
+// when a step is accepted; the damping mu and its growth factor nu; and
+// the relative reductions of the last two accepted steps.
+type search struct {
+	p                Problem
+	set              Settings
+	x, xt, r, tr     []float64
+	jac, tjac        [][]float64
+	acc              []float64 // scratch of normal, or Problem.Normal's accumulator
+	a, ta            *mat.SymDense
+	g, tg            []float64
+	f                float64
+	mu, nu           float64
+	lastRel, prevRel float64
+	dx               []float64 // the step
+	aug              *mat.SymDense
+	chol, gnChol     mat.Cholesky
+	iter, evals      int
+}
+
+// newSearch sets up the search from x0 with the residual and Jacobian
+// buffers cut from back.
+func newSearch(p Problem, set Settings, x0, back []float64) *search {
 	m, n := p.M, p.N
-	x := append([]float64(nil), x0...)
-	size := (2*n + 2) * m
-	if p.Normal != nil {
-		size = 2 * m
+	sr := &search{
+		p: p, set: set,
+		x: append([]float64(nil), x0...), xt: make([]float64, n),
+		r: back[:m:m], tr: back[m : 2*m : 2*m],
+		acc: make([]float64, 2*n*(n+1)),
+		a:   mat.NewSymDense(n, nil), ta: mat.NewSymDense(n, nil),
+		g: make([]float64, n), tg: make([]float64, n),
+		dx: make([]float64, n), aug: mat.NewSymDense(n, nil),
+		// The damping multiplies D = diag(J'J) (Marquardt's scaling), so
+		// mu is dimensionless and starts small: the first step is nearly
+		// Gauss-Newton.
+		mu: 1e-3, nu: 2,
+		lastRel: math.Inf(1), prevRel: math.Inf(1),
 	}
-	wk := getWork(size, !p.WritesAll)
-	defer workPool.Put(wk)
-	back := *wk
-	r, tr := back[:m:m], back[m:2*m:2*m]
-	var jac, tjac [][]float64
 	if p.Normal == nil {
-		jac, tjac = cols(back[2*m:], n, m), cols(back[(n+2)*m:], n, m)
+		sr.jac, sr.tjac = cols(back[2*m:], n, m), cols(back[(n+2)*m:], n, m)
 	}
-	acc := make([]float64, 2*n*(n+1))
-	a := mat.NewSymDense(n, nil)
-	g := make([]float64, n)
-	ta := mat.NewSymDense(n, nil)
-	tg := make([]float64, n)
-	// evalJ computes the residuals, J'J and J'r at x.
-	evalJ := func(x, r []float64, jac [][]float64, a *mat.SymDense, g []float64) error {
-		if p.Normal == nil {
-			if err := p.Eval(x, r, jac); err != nil {
-				return err
-			}
-			normal(a, g, jac, r, acc)
-			return nil
-		}
-		w := n * (n + 1)
-		clear(acc[:w])
-		if err := p.Normal(x, r, acc[:w]); err != nil {
+	return sr
+}
+
+// evalJ computes the residuals r, J'J (a) and J'r (g) at x, with the
+// Jacobian columns jac or through Problem.Normal.
+func (sr *search) evalJ(x, r []float64, jac [][]float64, a *mat.SymDense, g []float64) error {
+	sr.evals++
+	if sr.p.Normal == nil {
+		if err := sr.p.Eval(x, r, jac); err != nil {
 			return err
 		}
-		fromAcc(a, g, acc[:w])
+		normal(a, g, jac, r, sr.acc)
 		return nil
 	}
-	res := Result{}
-	if err := evalJ(x, r, jac, a, g); err != nil {
-		return Result{}, fmt.Errorf("%w: %v", ErrStart, err)
+	n := sr.p.N
+	w := n * (n + 1)
+	clear(sr.acc[:w])
+	if err := sr.p.Normal(x, r, sr.acc[:w]); err != nil {
+		return err
 	}
-	res.Evals++
-	f := ssq(r)
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return Result{}, fmt.Errorf("%w: sum of squares is %v", ErrStart, f)
+	fromAcc(a, g, sr.acc[:w])
+	return nil
+}
+
+// begin evaluates the start point; a failure or a sum of squares that is
+// not finite is ErrStart.
+func (sr *search) begin() error {
+	if err := sr.evalJ(sr.x, sr.r, sr.jac, sr.a, sr.g); err != nil {
+		return fmt.Errorf("%w: %v", ErrStart, err)
 	}
-	// The damping multiplies D = diag(J'J) (Marquardt's scaling), so mu
-	// is dimensionless and starts small: the first step is nearly
-	// Gauss-Newton.
-	mu := 1e-3
-	nu := 2.0
-	lastRel, prevRel := math.Inf(1), math.Inf(1)
-	var gnChol mat.Cholesky
-	dx := make([]float64, n)
-	xt := make([]float64, n)
-	aug := mat.NewSymDense(n, nil)
-	var chol mat.Cholesky
-	reason := IterationLimit
-	for it := 0; it < set.MaxIter; it++ {
+	sr.f = ssq(sr.r)
+	if math.IsNaN(sr.f) || math.IsInf(sr.f, 0) {
+		return fmt.Errorf("%w: sum of squares is %v", ErrStart, sr.f)
+	}
+	return nil
+}
+
+// run iterates until a stopping rule holds, ctx is done or MaxIter
+// iterations are taken, and says why it stopped.
+func (sr *search) run(ctx context.Context) Reason {
+	for it := 0; it < sr.set.MaxIter; it++ {
 		if ctx.Err() != nil {
-			reason = Canceled
-			break
+			return Canceled
 		}
-		res.Iter = it + 1
-		if f == 0 || gradSmall(a, g, f, set.GTol) {
-			reason = SmallGradient
-			break
+		sr.iter = it + 1
+		if reason, stop := sr.converged(it); stop {
+			return reason
 		}
-		// The last accepted step reduced the sum of squares by less than
-		// FTol (relative): stop if a full Gauss-Newton step would not do
-		// better either, so that a slow damped step in a flat valley is not
-		// taken for convergence.
-		// Two successive small reductions also stop: the sum of squares is
-		// then at its rounding floor, where the prediction is noise too.
-		if lastRel < set.FTol && (prevRel < set.FTol || gnSmall(&gnChol, a, g, f, set.FTol)) {
-			reason = SmallReduction
-			break
+		if reason, stop := sr.step(); stop {
+			return reason
 		}
-		// After an accepted step, a full Gauss-Newton step that predicts
-		// less than FTol (relative) from a positive definite J'J also
-		// stops: near the minimum the quadratic model is accurate, and
-		// taking that step would cost a whole evaluation (residuals and
-		// Jacobian) for a change below the tolerance.
-		// The step itself is still taken, with residuals only (no
-		// Jacobian), and kept when it does not increase the sum of squares.
-		if it > 0 && lastRel < math.Inf(1) {
-			if pred, ok := gnPredict(&gnChol, a, g, dx); ok && pred <= set.FTol*f {
-				for j := range x {
-					xt[j] = x[j] + dx[j]
-				}
-				err := p.Eval(xt, tr, nil)
-				res.Evals++
-				if err == nil {
-					if ft := ssq(tr); ft <= f {
-						x, xt = xt, x
-						r, tr = tr, r
-						f = ft
-					}
-				}
-				reason = SmallReduction
-				break
-			}
-		}
-		aug.CopySym(a)
-		for j := 0; j < n; j++ {
-			d := a.At(j, j)
-			if d == 0 {
-				d = 1
-			}
-			aug.SetSym(j, j, a.At(j, j)+mu*d)
-		}
-		if !chol.Factorize(aug) {
-			mu *= nu
-			nu *= 2
-			if mu > 1e30 {
-				reason = Stalled
-				break
-			}
-			continue
-		}
-		rhs := mat.NewVecDense(n, nil)
-		for j := range g {
-			rhs.SetVec(j, -g[j])
-		}
-		sol := mat.NewVecDense(n, dx)
-		if err := chol.SolveVecTo(sol, rhs); err != nil {
-			mu *= nu
-			nu *= 2
-			continue
-		}
-		small := true
-		for j := range x {
-			xt[j] = x[j] + dx[j]
-			if math.Abs(dx[j]) > set.XTol*(math.Abs(x[j])+set.XTol) {
-				small = false
-			}
-		}
-		if small {
-			reason = SmallStep
-			break
-		}
-		// Predicted reduction of the linear model: -dx'g - 0.5 dx'(J'J)dx
-		// = 0.5 dx'(mu D dx - g).
-		pred := 0.0
-		for j := range dx {
-			d := a.At(j, j)
-			if d == 0 {
-				d = 1
-			}
-			pred += 0.5 * dx[j] * (mu*d*dx[j] - g[j])
-		}
-		var ft float64
-		err := evalJ(xt, tr, tjac, ta, tg)
-		res.Evals++
-		if err == nil {
-			ft = ssq(tr)
-		}
-		if err != nil || math.IsNaN(ft) || math.IsInf(ft, 0) || ft >= f {
-			if err == nil && ft-f <= set.FTol*f && (lastRel < set.FTol || gnSmall(&gnChol, a, g, f, set.FTol)) {
-				// A step that cannot reduce the sum of squares, after a
-				// tiny reduction or where a full Gauss-Newton step
-				// predicts less than FTol (a start at the minimum): the
-				// sum of squares is at its rounding floor.
-				reason = SmallReduction
-				break
-			}
-			mu *= nu
-			nu *= 2
-			if mu > 1e30 {
-				reason = Stalled
-				break
-			}
-			continue
-		}
-		rho := (f - ft) / math.Max(pred, math.SmallestNonzeroFloat64)
-		mu *= math.Max(1.0/3, 1-math.Pow(2*rho-1, 3))
-		nu = 2
-		rel := (f - ft) / f
-		x, xt = xt, x
-		r, tr = tr, r
-		jac, tjac = tjac, jac
-		a, ta = ta, a
-		g, tg = tg, g
-		f = ft
-		prevRel, lastRel = lastRel, rel
 	}
-	res.X = x
-	res.SSQ = f
-	res.Resid = append([]float64(nil), r...) // r is in the reused buffer
-	res.Reason = reason
+	return IterationLimit
+}
+
+// converged applies the stopping rules checked before a step of iteration
+// it: a vanishing gradient, small reductions, and a last Gauss-Newton
+// step that predicts less than FTol (finalStep).
+func (sr *search) converged(it int) (Reason, bool) {
+	set := &sr.set
+	if sr.f == 0 || gradSmall(sr.a, sr.g, sr.f, set.GTol) {
+		return SmallGradient, true
+	}
+	// The last accepted step reduced the sum of squares by less than
+	// FTol (relative): stop if a full Gauss-Newton step would not do
+	// better either, so that a slow damped step in a flat valley is not
+	// taken for convergence.
+	// Two successive small reductions also stop: the sum of squares is
+	// then at its rounding floor, where the prediction is noise too.
+	if sr.lastRel < set.FTol && (sr.prevRel < set.FTol || gnSmall(&sr.gnChol, sr.a, sr.g, sr.f, set.FTol)) {
+		return SmallReduction, true
+	}
+	if it > 0 && sr.lastRel < math.Inf(1) && sr.finalStep() {
+		return SmallReduction, true
+	}
+	return 0, false
+}
+
+// finalStep handles the point after an accepted step where a full
+// Gauss-Newton step from a positive definite J'J predicts less than FTol
+// (relative): near the minimum the quadratic model is accurate, and
+// taking that step as an iteration would cost a whole evaluation
+// (residuals and Jacobian) for a change below the tolerance. The step is
+// taken with residuals only and kept when it does not increase the sum
+// of squares. It reports whether the search stops here.
+func (sr *search) finalStep() bool {
+	pred, ok := gnPredict(&sr.gnChol, sr.a, sr.g, sr.dx)
+	if !ok || pred > sr.set.FTol*sr.f {
+		return false
+	}
+	for j := range sr.x {
+		sr.xt[j] = sr.x[j] + sr.dx[j]
+	}
+	err := sr.p.Eval(sr.xt, sr.tr, nil)
+	sr.evals++
+	if err == nil {
+		if ft := ssq(sr.tr); ft <= sr.f {
+			sr.x, sr.xt = sr.xt, sr.x
+			sr.r, sr.tr = sr.tr, sr.r
+			sr.f = ft
+		}
+	}
+	return true
+}
+
+// step solves the damped normal equations, evaluates the trial point and
+// accepts or rejects it, adjusting the damping; it reports a stop with
+// its reason (a negligible step, a sum of squares at its rounding floor,
+// or damping beyond its upper limit).
+func (sr *search) step() (Reason, bool) {
+	factored, solved := sr.solveDamped()
+	if !factored {
+		return sr.raiseDamping()
+	}
+	if !solved {
+		// A solve refused (J'J + mu D too ill-conditioned) raises the
+		// damping and tries again; the next factorisation decides on
+		// stalling.
+		sr.raiseDamping()
+		return 0, false
+	}
+	small := true
+	for j := range sr.x {
+		sr.xt[j] = sr.x[j] + sr.dx[j]
+		if math.Abs(sr.dx[j]) > sr.set.XTol*(math.Abs(sr.x[j])+sr.set.XTol) {
+			small = false
+		}
+	}
+	if small {
+		return SmallStep, true
+	}
+	pred := sr.predicted()
+	var ft float64
+	err := sr.evalJ(sr.xt, sr.tr, sr.tjac, sr.ta, sr.tg)
+	if err == nil {
+		ft = ssq(sr.tr)
+	}
+	if err != nil || math.IsNaN(ft) || math.IsInf(ft, 0) || ft >= sr.f {
+		if err == nil && ft-sr.f <= sr.set.FTol*sr.f && (sr.lastRel < sr.set.FTol || gnSmall(&sr.gnChol, sr.a, sr.g, sr.f, sr.set.FTol)) {
+			// A step that cannot reduce the sum of squares, after a
+			// tiny reduction or where a full Gauss-Newton step
+			// predicts less than FTol (a start at the minimum): the
+			// sum of squares is at its rounding floor.
+			return SmallReduction, true
+		}
+		return sr.raiseDamping()
+	}
+	sr.accept(ft, pred)
+	return 0, false
+}
+
+// solveDamped writes into dx the solution of (J'J + mu D) dx = -J'r,
+// D = diag(J'J) (1 for a zero diagonal entry). It reports whether the
+// matrix was positive definite (factored) and whether the solve
+// succeeded.
+func (sr *search) solveDamped() (factored, solved bool) {
+	n := sr.p.N
+	sr.aug.CopySym(sr.a)
+	for j := 0; j < n; j++ {
+		d := sr.a.At(j, j)
+		if d == 0 {
+			d = 1
+		}
+		sr.aug.SetSym(j, j, sr.a.At(j, j)+sr.mu*d)
+	}
+	if !sr.chol.Factorize(sr.aug) {
+		return false, false
+	}
+	rhs := mat.NewVecDense(n, nil)
+	for j := range sr.g {
+		rhs.SetVec(j, -sr.g[j])
+	}
+	sol := mat.NewVecDense(n, sr.dx)
+	return true, sr.chol.SolveVecTo(sol, rhs) == nil
+}
+
+// raiseDamping multiplies mu by nu and doubles nu after a failed step;
+// damping beyond 1e30 stops the search (Stalled).
+func (sr *search) raiseDamping() (Reason, bool) {
+	sr.mu *= sr.nu
+	sr.nu *= 2
+	if sr.mu > 1e30 {
+		return Stalled, true
+	}
+	return 0, false
+}
+
+// predicted returns the reduction of the sum of squares the linear model
+// predicts for the step dx: -dx'g - 0.5 dx'(J'J)dx = 0.5 dx'(mu D dx - g).
+func (sr *search) predicted() float64 {
+	pred := 0.0
+	for j, dxj := range sr.dx {
+		d := sr.a.At(j, j)
+		if d == 0 {
+			d = 1
+		}
+		pred += 0.5 * dxj * (sr.mu*d*dxj - sr.g[j])
+	}
+	return pred
+}
+
+// accept moves to the trial point with sum of squares ft and lowers the
+// damping by Nielsen's rule from the ratio of the actual to the
+// predicted reduction pred.
+func (sr *search) accept(ft, pred float64) {
+	rho := (sr.f - ft) / math.Max(pred, math.SmallestNonzeroFloat64)
+	sr.mu *= math.Max(1.0/3, 1-math.Pow(2*rho-1, 3))
+	sr.nu = 2
+	rel := (sr.f - ft) / sr.f
+	sr.x, sr.xt = sr.xt, sr.x
+	sr.r, sr.tr = sr.tr, sr.r
+	sr.jac, sr.tjac = sr.tjac, sr.jac
+	sr.a, sr.ta = sr.ta, sr.a
+	sr.g, sr.tg = sr.tg, sr.g
+	sr.f = ft
+	sr.prevRel, sr.lastRel = sr.lastRel, rel
+}
+
+// result returns the Result at the current point with (J'J)^-1 there
+// (nil when J'J is singular).
+func (sr *search) result(reason Reason) Result {
+	res := Result{
+		X:      sr.x,
+		SSQ:    sr.f,
+		Resid:  append([]float64(nil), sr.r...), // r is in the reused buffer
+		Iter:   sr.iter,
+		Evals:  sr.evals,
+		Reason: reason,
+	}
 	var c mat.Cholesky
-	if c.Factorize(a) {
-		inv := mat.NewSymDense(n, nil)
+	if c.Factorize(sr.a) {
+		inv := mat.NewSymDense(sr.p.N, nil)
 		if err := c.InverseTo(inv); err == nil {
 			res.JTJInv = inv
 		}
 	}
-	return res, nil
+	return res
 }
 
 // workPool holds the residual and Jacobian buffers of finished Minimize

@@ -209,33 +209,6 @@ func TestCanceled(t *testing.T) {
 // Algorithms, 2nd ed., section 3.1). Column counts odd and even, lengths
 // not multiples of the block or the unrolling.
 func TestNormalBlocked(t *testing.T) {
-	blockSum := func(a, b []float64, lo, hi int) float64 {
-		s := 0.0
-		for i := lo; i < hi; i += NormalBlock {
-			e := min(i+NormalBlock, hi)
-			s += vec.Dot(a[i:e], b[i:e])
-		}
-		return s
-	}
-	want := func(a, b []float64) float64 {
-		m := len(a)
-		if m < NormalSplit {
-			return blockSum(a, b, 0, m)
-		}
-		h := (m / 2) &^ (NormalBlock - 1)
-		return blockSum(a, b, 0, h) + blockSum(a, b, h, m)
-	}
-	exact := func(a, b []float64) (float64, float64) {
-		s := new(big.Float).SetPrec(300)
-		abs := 0.0
-		for i := range a {
-			p := new(big.Float).SetPrec(300).SetFloat64(a[i])
-			s.Add(s, p.Mul(p, new(big.Float).SetPrec(300).SetFloat64(b[i])))
-			abs += math.Abs(a[i] * b[i])
-		}
-		v, _ := s.Float64()
-		return v, float64(len(a)+1) * epsilon * abs
-	}
 	for _, procs := range []int{1, 2} {
 		old := runtime.GOMAXPROCS(procs)
 		for _, c := range []struct{ n, m int }{{1, 1}, {2, 5}, {3, 103}, {6, 1000}, {7, 257}, {3, NormalSplit + 1}, {4, 2*NormalSplit + 77}} {
@@ -251,27 +224,66 @@ func TestNormalBlocked(t *testing.T) {
 			a := mat.NewSymDense(n, nil)
 			g := make([]float64, n)
 			normal(a, g, jac, r, make([]float64, 2*n*(n+1)))
-			check := func(what string, got float64, x, y []float64) {
-				t.Helper()
-				if w := want(x, y); got != w {
-					t.Fatalf("procs=%d n=%d m=%d: %s = %v, blocked dot sums give %v", procs, n, m, what, got, w)
-				}
-				if m > 2000 {
-					return // the exact sums are slow; the small cases cover the bound
-				}
-				if e, tol := exact(x, y); math.Abs(got-e) > tol {
-					t.Fatalf("procs=%d n=%d m=%d: %s = %v, exact %v (tolerance %v)", procs, n, m, what, got, e, tol)
-				}
-			}
+			where := fmt.Sprintf("procs=%d n=%d m=%d", procs, n, m)
 			for j := 0; j < n; j++ {
-				check(fmt.Sprintf("g[%d]", j), g[j], jac[j], r)
+				checkProduct(t, where, fmt.Sprintf("g[%d]", j), g[j], jac[j], r)
 				for k := j; k < n; k++ {
-					check(fmt.Sprintf("(J'J)[%d,%d]", j, k), a.At(j, k), jac[j], jac[k])
+					checkProduct(t, where, fmt.Sprintf("(J'J)[%d,%d]", j, k), a.At(j, k), jac[j], jac[k])
 				}
 			}
 		}
 		runtime.GOMAXPROCS(old)
 	}
+}
+
+// checkProduct checks got, the product of x and y formed by normal,
+// against the blocked dot sums bit for bit and, up to 2000 rows, against
+// the exact product within the rounding bound (TestNormalBlocked).
+func checkProduct(t *testing.T, where, what string, got float64, x, y []float64) {
+	t.Helper()
+	if w := blockedDot(x, y); got != w {
+		t.Fatalf("%s: %s = %v, blocked dot sums give %v", where, what, got, w)
+	}
+	if len(x) > 2000 {
+		return // the exact sums are slow; the small cases cover the bound
+	}
+	if e, tol := exactDot(x, y); math.Abs(got-e) > tol {
+		t.Fatalf("%s: %s = %v, exact %v (tolerance %v)", where, what, got, e, tol)
+	}
+}
+
+// blockedDot sums vec.Dot over blocks of NormalBlock rows in row order,
+// from NormalSplit rows over each half separately, the halves added.
+func blockedDot(a, b []float64) float64 {
+	blockSum := func(lo, hi int) float64 {
+		s := 0.0
+		for i := lo; i < hi; i += NormalBlock {
+			e := min(i+NormalBlock, hi)
+			s += vec.Dot(a[i:e], b[i:e])
+		}
+		return s
+	}
+	m := len(a)
+	if m < NormalSplit {
+		return blockSum(0, m)
+	}
+	h := (m / 2) &^ (NormalBlock - 1)
+	return blockSum(0, h) + blockSum(h, m)
+}
+
+// exactDot returns the product of a and b rounded once from a 300-bit
+// sum (math/big), and the rounding bound of a recursive float64 sum,
+// (m+1) eps sum|a_i b_i|.
+func exactDot(a, b []float64) (v, bound float64) {
+	s := new(big.Float).SetPrec(300)
+	abs := 0.0
+	for i := range a {
+		p := new(big.Float).SetPrec(300).SetFloat64(a[i])
+		s.Add(s, p.Mul(p, new(big.Float).SetPrec(300).SetFloat64(b[i])))
+		abs += math.Abs(a[i] * b[i])
+	}
+	v, _ = s.Float64()
+	return v, float64(len(a)+1) * epsilon * abs
 }
 
 // A reused, dirty buffer must not leak into a problem that writes only

@@ -97,6 +97,15 @@ type OrderFit struct {
 // Select's error.
 func Select(ctx context.Context, y []float64, g Grid, opt *FitSettings) (fits []OrderFit, err error) {
 	defer withOp("arma.Select", &err)
+	return selectOrders(ctx, y, g, opt, fit)
+}
+
+// orderFit fits one order of a grid: fit, or in a test a function that
+// injects a fault on the worker goroutine.
+type orderFit func(ctx context.Context, y []float64, ord Order, opt *FitSettings) (*Result, error)
+
+// selectOrders is Select with the function that fits each candidate.
+func selectOrders(ctx context.Context, y []float64, g Grid, opt *FitSettings, fitOrder orderFit) ([]OrderFit, error) {
 	if ctx == nil {
 		ctx = context.Background()
 	}
@@ -115,15 +124,39 @@ func Select(ctx context.Context, y []float64, g Grid, opt *FitSettings) (fits []
 	}
 	s := max(g.Period, 1)
 	o.First = max(o.First, g.MaxP+g.SP*s+g.D+g.SD*s)
-	workers := g.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
+	cands := g.candidates()
+	cerr := fitAll(ctx, y, cands, o, g, fitOrder)
+	if cerr == nil {
+		cerr = gridErr(cands)
 	}
+	sort.SliceStable(cands, func(i, j int) bool {
+		ri, rj := rank(cands[i]), rank(cands[j])
+		if ri != rj {
+			return ri < rj
+		}
+		return cands[i].Score < cands[j].Score
+	})
+	return cands, cerr
+}
+
+// candidates lists the orders of the grid, p and then q increasing.
+func (g Grid) candidates() []OrderFit {
 	var cands []OrderFit
 	for p := 0; p <= g.MaxP; p++ {
 		for q := 0; q <= g.MaxQ; q++ {
 			cands = append(cands, OrderFit{Order: Order{P: p, D: g.D, Q: q, SP: g.SP, SD: g.SD, SQ: g.SQ, Period: g.Period}, Criterion: g.Criterion})
 		}
+	}
+	return cands
+}
+
+// fitAll fits every candidate with fitOrder on Grid.Workers goroutines
+// (default GOMAXPROCS) and returns ctx's error when ctx is done
+// (candidates not started get it as their Err, with a score of +Inf).
+func fitAll(ctx context.Context, y []float64, cands []OrderFit, o FitSettings, g Grid, fitOrder orderFit) error {
+	workers := g.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
 	}
 	jobs := make(chan int)
 	var wg sync.WaitGroup
@@ -132,7 +165,7 @@ func Select(ctx context.Context, y []float64, g Grid, opt *FitSettings) (fits []
 		go func() {
 			defer wg.Done()
 			for i := range jobs {
-				selectOne(ctx, y, &cands[i], o, g.Criterion, o.Name)
+				selectOne(ctx, y, &cands[i], o, g.Criterion, fitOrder)
 			}
 		}()
 	}
@@ -154,58 +187,43 @@ feed:
 	if cerr == nil {
 		cerr = ctx.Err()
 	}
-	if cerr == nil {
-		// A recovered panic is a bug that must not pass unseen.
-		for _, c := range cands {
-			var ie *InternalError
-			if errors.As(c.Err, &ie) {
-				cerr = c.Err
-				break
-			}
-		}
-	}
-	if cerr == nil {
-		cerr = cands[0].Err
-		for _, c := range cands {
-			if c.Result != nil {
-				cerr = nil
-				break
-			}
-		}
-	}
-	sort.SliceStable(cands, func(i, j int) bool {
-		ri, rj := rank(cands[i]), rank(cands[j])
-		if ri != rj {
-			return ri < rj
-		}
-		return cands[i].Score < cands[j].Score
-	})
-	return cands, cerr
+	return cerr
 }
 
-// selectOne fits one candidate of Select on a worker goroutine. A panic
-// (a bug) is recovered into an *InternalError in c.Err, so that it cannot
-// end the caller's process.
-func selectOne(ctx context.Context, y []float64, c *OrderFit, o FitSettings, crit Criterion, name string) {
+// gridErr returns Select's error from its fitted candidates: the first
+// recovered panic (a bug that must not pass unseen), else the error of
+// the first candidate when no candidate produced a result, else nil.
+func gridErr(cands []OrderFit) error {
+	for _, c := range cands {
+		var ie *InternalError
+		if errors.As(c.Err, &ie) {
+			return c.Err
+		}
+	}
+	for _, c := range cands {
+		if c.Result != nil {
+			return nil
+		}
+	}
+	return cands[0].Err
+}
+
+// selectOne fits one candidate of Select with fitOrder on a worker
+// goroutine. A panic (a bug) is recovered into an *InternalError in
+// c.Err, so that it cannot end the caller's process.
+func selectOne(ctx context.Context, y []float64, c *OrderFit, o FitSettings, crit Criterion, fitOrder orderFit) {
 	defer func() {
 		if r := recover(); r != nil {
 			c.Result, c.Score = nil, math.Inf(1)
-			c.Err = &InternalError{Op: "arma.Select", Value: "fit of order " + c.Order.String() + " to " + seriesName(name) + ": " + fmt.Sprint(r), Stack: debug.Stack()}
+			c.Err = &InternalError{Op: "arma.Select", Value: "fit of order " + c.Order.String() + " to " + seriesName(o.Name) + ": " + fmt.Sprint(r), Stack: debug.Stack()}
 		}
 	}()
-	if testSelectHook != nil {
-		testSelectHook(c.Order)
-	}
-	res, err := fit(ctx, y, c.Order, &o)
+	res, err := fitOrder(ctx, y, c.Order, &o)
 	c.Result, c.Err, c.Score = res, err, math.Inf(1)
 	if res != nil {
 		c.Score = score(res, crit)
 	}
 }
-
-// testSelectHook lets tests run code (a deliberate panic) on Select's
-// worker goroutines; nil otherwise.
-var testSelectHook func(Order)
 
 func score(r *Result, c Criterion) float64 {
 	switch c {
