@@ -53,8 +53,8 @@ func TestOtherPlant(t *testing.T) {
 }
 
 // TestSecondsInterval runs a plant sampled every 10 s and checks that
-// the summary's settling time is in minutes of real time. It used to
-// count one sample as one minute.
+// the summary's settling time is in minutes of real time, not one minute
+// a sample.
 //
 // The expected time is computed by hand, independently of tf.System,
 // Run and Measure: the noise-free plant temp = 6 + 0.01/(1 - 0.95 B) B^3

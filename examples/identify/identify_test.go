@@ -57,7 +57,8 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 			t.Errorf("output lacks %q", want)
 		}
 	}
-	// Every picture is a readable PNG of a sensible size.
+	// Every picture is a readable PNG large enough for print (18 cm at
+	// 220 dots per inch is 1,559 pixels wide).
 	want := []string{"data", "ccf", "weights", "residual-acf", "step", "fit", "simulation", "forecast"}
 	if len(res.Pictures) != len(want) {
 		t.Fatalf("pictures %v, want %v", res.Pictures, want)
@@ -75,7 +76,7 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
 		}
-		if b := img.Bounds(); b.Dx() < 600 || b.Dy() < 250 {
+		if b := img.Bounds(); b.Dx() < 1500 || b.Dy() < 500 {
 			t.Errorf("%s is only %dx%d pixels", name, b.Dx(), b.Dy())
 		}
 	}
@@ -227,9 +228,9 @@ func TestPlanAndInterval(t *testing.T) {
 	}
 }
 
-// TestBadForecastFlags: a horizon beyond the record (which used to run
-// the machine out of memory at 10^11), a negative one and a plan with a
-// non-number or NaN are reported before the fit starts.
+// TestBadForecastFlags: a horizon beyond the record (at 10^11 it would
+// ask for more memory than a machine has), a negative one and a plan
+// with a non-number or NaN are reported before the fit starts.
 func TestBadForecastFlags(t *testing.T) {
 	for _, c := range []struct {
 		horizon int
