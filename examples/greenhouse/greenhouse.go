@@ -63,6 +63,11 @@ var True = Truth{
 // coefficient fixed.
 const TrueSpec = "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + 0.05 / (1 - 0.9 B) B outdoor + (1 + 0.3 B) / (1 - 0.8 B) a; every 1 min"
 
+// Structure is the structure of [True] in the spec language with every
+// coefficient free: the model a fit of the record estimates (the tests
+// of the examples share it).
+const Structure = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
+
 // Interval is the sample interval of the data in minutes.
 const Interval = 1.0
 
@@ -108,6 +113,13 @@ type Data struct {
 
 // Len returns the number of samples.
 func (d Data) Len() int { return len(d.Temp) }
+
+// ByName returns the output and the two inputs by their names (Output,
+// Valve, Outdoor), as tf.Fit, tf.Identify and Estimate.Forecast take
+// them. The slices are the record's own.
+func (d Data) ByName() map[string][]float64 {
+	return map[string][]float64{Output: d.Temp, Valve: d.Valve, Outdoor: d.Outdoor}
+}
 
 // Series returns the named series (one of Output, Valve, Outdoor,
 // Setpoint, Minute) and whether the name is known. The slice is the

@@ -332,6 +332,7 @@ func TestConfigPlant(t *testing.T) {
 		name, path, model, want string
 	}{
 		{"missing file", missing, "", "harness: -config " + missing + ": open " + missing + ": no such file or directory"},
+		{"folder", filepath.Dir(missing), "", "harness: -config " + filepath.Dir(missing) + ": a folder, not a config file"},
 		{"several models, none picked", path, "", "the file holds 2 models; pick one with -model (\"air temperature\", \"air, no record\")"},
 		{"misspelt model", path, "air temprature", "no model named \"air temprature\"; did you mean air temperature? (the file holds \"air temperature\", \"air, no record\")"},
 		{"empty file", emptyFile(t), "", "the file is empty; it should hold {\"site\": ..., \"models\": [...]}"},

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 
+	"github.com/backshift/backshift/examples/internal/cmdline"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 )
 
@@ -51,15 +52,8 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.StringVar(&o.config, "config", "", "read the plant from this JSON config file (as examples/identify -save writes it) instead of -spec")
 	fs.StringVar(&o.model, "model", "", "the name of the model to use in the -config file (needed when it holds more than one)")
 	fs.BoolVar(&o.useFailed, "use-failed-model", false, "run on a -config model whose checks failed when it was saved (its results then prove nothing about the real plant)")
-	fs.Usage = func() {
-		fmt.Fprint(fs.Output(), usage)
-		fs.PrintDefaults()
-	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return 0
-		}
-		return 2
+	if status, stop := cmdline.Parse(fs, usage, args); stop {
+		return status
 	}
 	if fs.NArg() > 0 {
 		fmt.Fprintf(stderr, "harness: unexpected argument %q: the harness takes flags only; give a plant with -spec '...' or -config FILE (see -h)\n", fs.Arg(0))

@@ -66,10 +66,6 @@ func run(t *testing.T, o Options) (*Outcome, string, error) {
 	return res, out.String(), err
 }
 
-// trueSpec is the structure of the demo's true model (greenhouse.True)
-// with free coefficients.
-const trueSpec = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
-
 // TestFailedFitIsNotAdequate is item 2 of the issue: a spec fitted to 20
 // rows does not converge and has no standard errors. The report must not
 // call it adequate, must not offer its paths for control work, must
@@ -323,7 +319,7 @@ func TestGapRemedies(t *testing.T) {
 
 	// The whole run says what was done, in the report.
 	o = DefaultOptions()
-	o.Data, o.Gaps, o.Spec, o.Horizon = path, "linear:200", trueSpec, 0
+	o.Data, o.Gaps, o.Spec, o.Horizon = path, "linear:200", greenhouse.Structure, 0
 	res, out, err := run(t, o)
 	if err != nil {
 		t.Fatal(err)

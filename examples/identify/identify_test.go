@@ -93,7 +93,7 @@ func TestRecoveryOtherSeeds(t *testing.T) {
 	}
 	for seed := uint64(1); seed <= 2; seed++ {
 		g := greenhouse.Generate(greenhouse.Settings{Seed: seed})
-		data := map[string][]float64{"temp": g.Temp, "valve": g.Valve, "outdoor": g.Outdoor}
+		data := g.ByName()
 		cands, err := tf.Identify(context.Background(), "temp", []string{"valve", "outdoor"}, data, identifySettings(g.Len()/20))
 		if err != nil {
 			t.Fatal(err)
@@ -132,7 +132,7 @@ func TestSpecAndCSV(t *testing.T) {
 	o := DefaultOptions()
 	o.Data = path
 	o.Interval, o.Unit = 1, "min"
-	o.Spec = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
+	o.Spec = greenhouse.Structure
 	o.Save = filepath.Join(t.TempDir(), "fitted.json")
 	buf.Reset()
 	var progress bytes.Buffer
@@ -179,7 +179,7 @@ func TestSpecAndCSV(t *testing.T) {
 	}
 	// The CSV holds 4 decimals: the ranges agree with the record to
 	// 5e-5 (half a unit of the last decimal).
-	for name, s := range map[string][]float64{"temp": g.Temp, "valve": g.Valve, "outdoor": g.Outdoor} {
+	for name, s := range g.ByName() {
 		r := v.Ranges[name]
 		if math.Abs(r[0]-slices.Min(s)) > 5e-5 || math.Abs(r[1]-slices.Max(s)) > 5e-5 {
 			t.Errorf("range of %s %v, record %v..%v", name, r, slices.Min(s), slices.Max(s))
