@@ -335,27 +335,34 @@ func TestGapRemedies(t *testing.T) {
 	}
 }
 
-// TestTimeColumns: timestamps next to a text column, dates alone,
-// irregular steps and times out of order.
-func TestTimeColumns(t *testing.T) {
-	var ts, daily, jitter strings.Builder
-	ts.WriteString("when,note,valve,temp\n")
-	daily.WriteString("date,valve,temp\n")
-	jitter.WriteString("time (s),valve,temp\n")
+// timeRecords returns three small records of 50 rows with a time
+// column: ts (timestamps every 10 s next to a text column "note"),
+// daily (dates, with 29..31 January missing) and jitter (seconds, every
+// 60 s but 90 s from row 29 to row 30, lines 31 and 32).
+func timeRecords() (ts, daily, jitter string) {
+	var tb, db, jb strings.Builder
+	tb.WriteString("when,note,valve,temp\n")
+	db.WriteString("date,valve,temp\n")
+	jb.WriteString("time (s),valve,temp\n")
 	rng := rand.New(rand.NewPCG(1, 2))
 	for i := range 50 {
 		v, y := 40+20*rng.Float64(), 15+rng.Float64()
-		fmt.Fprintf(&ts, "2026-01-01T10:%02d:%02dZ,reading %d ok,%.3f,%.3f\n", i*10/60, i*10%60, i, v, y)
-		// Days 1..28 of January, then of February: 29..31 January are
-		// missing.
-		fmt.Fprintf(&daily, "1972-%02d-%02d,%.3f,%.3f\n", 1+i/28, 1+i%28, v, y)
-		// Every 60 s, but 90 s from row 29 to row 30 (lines 31, 32).
-		fmt.Fprintf(&jitter, "%g,%.3f,%.3f\n", 60*float64(i)+map[bool]float64{true: 30}[i >= 30], v, y)
+		fmt.Fprintf(&tb, "2026-01-01T10:%02d:%02dZ,reading %d ok,%.3f,%.3f\n", i*10/60, i*10%60, i, v, y)
+		// Days 1..28 of January, then of February.
+		fmt.Fprintf(&db, "1972-%02d-%02d,%.3f,%.3f\n", 1+i/28, 1+i%28, v, y)
+		fmt.Fprintf(&jb, "%g,%.3f,%.3f\n", 60*float64(i)+map[bool]float64{true: 30}[i >= 30], v, y)
 	}
+	return tb.String(), db.String(), jb.String()
+}
+
+// TestTimeColumns: timestamps next to a text column, dates alone and
+// irregular steps.
+func TestTimeColumns(t *testing.T) {
+	ts, daily, jitter := timeRecords()
 	o := DefaultOptions()
 	o.Inputs = []string{"valve"}
 
-	o.Data = writeFile(t, "ts.csv", ts.String())
+	o.Data = writeFile(t, "ts.csv", ts)
 	ds, err := load(o, record.Remedy{})
 	if err != nil {
 		t.Fatal(err)
@@ -364,7 +371,7 @@ func TestTimeColumns(t *testing.T) {
 		t.Errorf("timestamps: interval %v %s, n %d, notes %q", ds.interval, ds.unit, ds.n, ds.notes)
 	}
 
-	o.Data = writeFile(t, "daily.csv", daily.String())
+	o.Data = writeFile(t, "daily.csv", daily)
 	_, err = load(o, record.Remedy{})
 	var ge *record.GapError
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), "not evenly spaced at 1 d") ||
@@ -372,7 +379,7 @@ func TestTimeColumns(t *testing.T) {
 		t.Errorf("dates: %v", err)
 	}
 
-	o.Data = writeFile(t, "jitter.csv", jitter.String())
+	o.Data = writeFile(t, "jitter.csv", jitter)
 	_, err = load(o, record.Remedy{Kind: "linear", Max: 5})
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), `line 32 ("1830") comes 1.5 intervals after line 31 ("1740"): not a whole number of intervals`) ||
 		!strings.Contains(err.Error(), "these are irregular or longer") || !strings.Contains(err.Error(), "must be resampled to the interval first") {
@@ -382,23 +389,31 @@ func TestTimeColumns(t *testing.T) {
 	if err != nil || ds.n != 30 || !strings.Contains(ds.notes[1], "fitting only lines 2 to 31 (30 samples), the longest evenly spaced stretch; 20 of 50 rows left out") {
 		t.Errorf("irregular, longest: %v %+v", err, ds)
 	}
+}
 
-	// Times out of order.
-	back := strings.Replace(ts.String(), "2026-01-01T10:00:20Z", "2026-01-01T09:00:20Z", 1)
+// TestTimeColumnMistakes: times out of order, -time-unit on timestamps,
+// a named time column that is missing, a series or not times, a date
+// form not read, -gaps without a time column and a text column named as
+// a series.
+func TestTimeColumnMistakes(t *testing.T) {
+	ts, _, _ := timeRecords()
+	o := DefaultOptions()
+	o.Inputs = []string{"valve"}
+	back := strings.Replace(ts, "2026-01-01T10:00:20Z", "2026-01-01T09:00:20Z", 1)
 	o.Data = writeFile(t, "back.csv", back)
 	var ce *record.LineError
 	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || ce.Line != 4 || !strings.Contains(err.Error(), `back.csv:4: column "when": the time goes back: "2026-01-01T09:00:20Z" after "2026-01-01T10:00:10Z" on line 3`) {
 		t.Errorf("backwards: %v", err)
 	}
 
-	o.Data, o.TimeUnit = writeFile(t, "ts.csv", ts.String()), "min"
+	o.Data, o.TimeUnit = writeFile(t, "ts.csv", ts), "min"
 	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time-unit = min: for a time column of numbers, and "when" holds timestamps or dates: leave -time-unit out`) {
 		t.Errorf("-time-unit on timestamps: %v", err)
 	}
 	o.TimeUnit = ""
 
 	// A named time column that is missing, or is a series.
-	o.Data = writeFile(t, "ts.csv", ts.String())
+	o.Data = writeFile(t, "ts.csv", ts)
 	o.Time = "stamp"
 	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time = "stamp": `+o.Data+` has no such column (columns: when, note, valve, temp; -time none: no time column)`) {
 		t.Errorf("missing time column: %v", err)
@@ -438,7 +453,7 @@ func TestTimeColumns(t *testing.T) {
 	// A text column the run does not name is not read; one it names is
 	// reported at its first cell.
 	o = DefaultOptions()
-	o.Data, o.Inputs = writeFile(t, "ts.csv", ts.String()), []string{"note"}
+	o.Data, o.Inputs = writeFile(t, "ts.csv", ts), []string{"note"}
 	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a finite number`) {
 		t.Errorf("named text column: %v", err)
 	}

@@ -120,62 +120,13 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if o.WriteData != "" {
 		return &Outcome{}, writeBuiltin(o.WriteData, stdout)
 	}
-	// Settings that need no data are checked first: a mistyped flag
-	// should not wait for the fit, and a save to a missing folder should
-	// not fail after the whole report.
-	if o.Save != "" {
-		if err := checkSavePath(o.Save); err != nil {
-			return nil, err
-		}
-	}
-	if o.SaveUntrusted && o.Save == "" {
-		return nil, errors.New("-save-untrusted is given without -save: name the file to save to")
-	}
-	rem, err := record.ParseRemedy(o.Gaps)
-	if err != nil {
-		return nil, fmt.Errorf("-gaps %s: want hold:N or linear:N (fill gaps of up to N missing samples, N at least 1) or longest (fit the longest evenly spaced stretch)", clip(o.Gaps))
-	}
-	if _, ok := record.Seconds(o.TimeUnit); o.TimeUnit != "" && !ok {
-		return nil, fmt.Errorf("-time-unit %s: want s, min, h or d", clip(o.TimeUnit))
-	}
-	if o.Data == "" && (o.Time != "" || o.TimeUnit != "" || o.Gaps != "") {
-		return nil, errors.New("-time, -time-unit and -gaps are about a CSV file: give one with -data")
-	}
-	if _, err := parsePlan(o.Plan); err != nil {
-		return nil, err
-	}
-	if o.Skip < -1 {
-		return nil, fmt.Errorf("-skip %d: want a number of samples, 0 or more, or -1 (automatic: 5 %% of the record, at most 500)", o.Skip)
-	}
-	if o.Horizon < HorizonAuto {
-		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast), a number of samples, or -1 (automatic)", o.Horizon)
-	}
-	ds, err := load(o, rem)
+	rem, err := checkOptions(o)
 	if err != nil {
 		return nil, err
 	}
-	horizon := o.Horizon
-	if horizon == HorizonAuto {
-		horizon = min(180, ds.n/4)
-	}
-	if horizon > ds.n {
-		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
-	}
-	if err := checkPlan(o.Plan, horizon, o.Horizon); err != nil {
+	ds, horizon, skip, err := loadRecord(o, rem, stdout, pr)
+	if err != nil {
 		return nil, err
-	}
-	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
-	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
-	for _, n := range ds.notes {
-		fmt.Fprintf(stdout, "  %s\n", n)
-	}
-
-	skip := o.Skip
-	if skip < 0 {
-		skip = min(ds.n/20, 500)
-	}
-	if skip >= ds.n {
-		return nil, fmt.Errorf("-skip %d: want fewer samples than the record's %d (-1: automatic)", o.Skip, ds.n)
 	}
 	var est *tf.Estimate
 	if o.Spec != "" {
@@ -189,19 +140,8 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if est.Model.Interval.Value == 0 && ds.interval > 0 {
 		est.Model.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 	}
-	out := &Outcome{Estimate: est, Record: ds.notes}
 	// The checks come first: what the report offers depends on them.
-	pr.say("checking the model")
-	var failures []string
-	if out.Diagnostics, err = tf.Check(est, ds.data, nil); err != nil {
-		// The report goes on, for a model that cannot be trusted.
-		out.Diagnostics = nil
-		failures = []string{fmt.Sprintf("the diagnostic checks could not be run: %v", err)}
-	} else {
-		out.Trusted = out.Diagnostics.Pass
-		failures = out.Diagnostics.Failures
-	}
-	out.Validity = validity(est, ds, out.Trusted, failures)
+	out, failures := checkModel(est, ds, pr)
 	if err := report(ctx, est, ds, stdout, pr, out); err != nil {
 		return nil, err
 	}
@@ -222,39 +162,145 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	fmt.Fprint(stdout, "\n"+caution)
 	if o.Pictures != "" {
-		pr.say("writing pictures to %s", o.Pictures)
-		files, skipped, err := pictures(o.Pictures, est, ds, out)
-		if err != nil {
-			return nil, fmt.Errorf("pictures: %w", err)
-		}
-		out.Pictures = files
-		fmt.Fprintf(stdout, "\nPictures written to %s:\n", o.Pictures)
-		for _, f := range files {
-			fmt.Fprintf(stdout, "  %s\n", f)
-		}
-		for _, s := range skipped {
-			fmt.Fprintf(stdout, "  (%s)\n", s)
+		if err := writePictures(o.Pictures, est, ds, out, stdout, pr); err != nil {
+			return nil, err
 		}
 	}
 	out.Elapsed = time.Since(start)
 	if o.Save != "" {
-		if !out.Trusted && !o.SaveUntrusted {
-			// Said once, by the error; the report above lists the failures.
-			return out, &SaveError{Path: o.Save, Failures: failures}
-		}
-		out.Validity.Forced = !out.Trusted
-		if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
-			return out, fmt.Errorf("-save: %w", err)
-		}
-		out.Saved = o.Save
-		if out.Trusted {
-			fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
-		} else {
-			fmt.Fprintf(stdout, "\nFitted model saved to %s MARKED AS UNTRUSTED (-save-untrusted): it fails its checks; do not use it for control work\n", o.Save)
+		if err := save(o, est, ds, out, failures, stdout); err != nil {
+			return out, err
 		}
 	}
 	pr.say("done in %.1f s", out.Elapsed.Seconds())
 	return out, nil
+}
+
+// checkOptions checks the settings that need no data, so that a
+// mistyped flag does not wait for the fit and a save to a missing folder
+// does not fail after the whole report. It returns the gap remedy of
+// o.Gaps.
+func checkOptions(o Options) (record.Remedy, error) {
+	if o.Save != "" {
+		if err := checkSavePath(o.Save); err != nil {
+			return record.Remedy{}, err
+		}
+	}
+	if o.SaveUntrusted && o.Save == "" {
+		return record.Remedy{}, errors.New("-save-untrusted is given without -save: name the file to save to")
+	}
+	rem, err := record.ParseRemedy(o.Gaps)
+	if err != nil {
+		return rem, fmt.Errorf("-gaps %s: want hold:N or linear:N (fill gaps of up to N missing samples, N at least 1) or longest (fit the longest evenly spaced stretch)", clip(o.Gaps))
+	}
+	if _, ok := record.Seconds(o.TimeUnit); o.TimeUnit != "" && !ok {
+		return rem, fmt.Errorf("-time-unit %s: want s, min, h or d", clip(o.TimeUnit))
+	}
+	if o.Data == "" && (o.Time != "" || o.TimeUnit != "" || o.Gaps != "") {
+		return rem, errors.New("-time, -time-unit and -gaps are about a CSV file: give one with -data")
+	}
+	if _, err := parsePlan(o.Plan); err != nil {
+		return rem, err
+	}
+	if o.Skip < -1 {
+		return rem, fmt.Errorf("-skip %d: want a number of samples, 0 or more, or -1 (automatic: 5 %% of the record, at most 500)", o.Skip)
+	}
+	if o.Horizon < HorizonAuto {
+		return rem, fmt.Errorf("-horizon %d: want 0 (no forecast), a number of samples, or -1 (automatic)", o.Horizon)
+	}
+	return rem, nil
+}
+
+// loadRecord loads the record, checks the forecast horizon and plan and
+// the samples to skip against its length, and says what was read. It
+// returns the record, the forecast horizon and the samples left out of
+// the fit (both resolved from their automatic settings).
+func loadRecord(o Options, rem record.Remedy, stdout io.Writer, pr *progress) (ds *dataset, horizon, skip int, err error) {
+	ds, err = load(o, rem)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	horizon = o.Horizon
+	if horizon == HorizonAuto {
+		horizon = min(180, ds.n/4)
+	}
+	if horizon > ds.n {
+		return nil, 0, 0, fmt.Errorf("-horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
+	}
+	if err := checkPlan(o.Plan, horizon, o.Horizon); err != nil {
+		return nil, 0, 0, err
+	}
+	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
+	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
+	for _, n := range ds.notes {
+		fmt.Fprintf(stdout, "  %s\n", n)
+	}
+	skip = o.Skip
+	if skip < 0 {
+		skip = min(ds.n/20, 500)
+	}
+	if skip >= ds.n {
+		return nil, 0, 0, fmt.Errorf("-skip %d: want fewer samples than the record's %d (-1: automatic)", o.Skip, ds.n)
+	}
+	return ds, horizon, skip, nil
+}
+
+// checkModel runs the diagnostic checks of est and starts the Outcome
+// with them and the validity record. It returns the reasons the model
+// fails its checks (a check that cannot be run is one; the report goes
+// on, for a model that cannot be trusted).
+func checkModel(est *tf.Estimate, ds *dataset, pr *progress) (*Outcome, []string) {
+	out := &Outcome{Estimate: est, Record: ds.notes}
+	pr.say("checking the model")
+	var failures []string
+	d, err := tf.Check(est, ds.data, nil)
+	if err != nil {
+		failures = []string{fmt.Sprintf("the diagnostic checks could not be run: %v", err)}
+	} else {
+		out.Diagnostics, out.Trusted, failures = d, d.Pass, d.Failures
+	}
+	out.Validity = validity(est, ds, out.Trusted, failures)
+	return out, failures
+}
+
+// writePictures writes the pictures into dir and lists them, and those
+// not drawn with the reason, on stdout.
+func writePictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome, stdout io.Writer, pr *progress) error {
+	pr.say("writing pictures to %s", dir)
+	files, skipped, err := pictures(dir, est, ds, out)
+	if err != nil {
+		return fmt.Errorf("pictures: %w", err)
+	}
+	out.Pictures = files
+	fmt.Fprintf(stdout, "\nPictures written to %s:\n", dir)
+	for _, f := range files {
+		fmt.Fprintf(stdout, "  %s\n", f)
+	}
+	for _, s := range skipped {
+		fmt.Fprintf(stdout, "  (%s)\n", s)
+	}
+	return nil
+}
+
+// save writes the fitted model with its validity record to o.Save, or
+// refuses with a *SaveError when it fails its checks and
+// o.SaveUntrusted is not set (said once, by the error; the report lists
+// the failures).
+func save(o Options, est *tf.Estimate, ds *dataset, out *Outcome, failures []string, stdout io.Writer) error {
+	if !out.Trusted && !o.SaveUntrusted {
+		return &SaveError{Path: o.Save, Failures: failures}
+	}
+	out.Validity.Forced = !out.Trusted
+	if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
+		return fmt.Errorf("-save: %w", err)
+	}
+	out.Saved = o.Save
+	if out.Trusted {
+		fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
+	} else {
+		fmt.Fprintf(stdout, "\nFitted model saved to %s MARKED AS UNTRUSTED (-save-untrusted): it fails its checks; do not use it for control work\n", o.Save)
+	}
+	return nil
 }
 
 // checkSavePath reports a -save file whose folder does not exist or is
