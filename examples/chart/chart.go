@@ -130,32 +130,44 @@ func (c *Chart) SetY(lo, hi float64) { c.yFixed, c.ymin, c.ymax = true, lo, hi }
 // XRange returns the x range drawn: the fixed one (when it is a finite,
 // non-empty interval) or that of the data.
 func (c *Chart) XRange() (lo, hi float64) {
-	if c.xFixed && finite(c.xmin) && finite(c.xmax) && c.xmin < c.xmax {
+	if usable(c.xFixed, c.xmin, c.xmax) {
 		return c.xmin, c.xmax
 	}
-	lo, hi = math.Inf(1), math.Inf(-1)
-	for _, m := range c.marks {
-		a, b := finiteRange(m.x)
-		lo, hi = math.Min(lo, a), math.Max(hi, b)
-	}
+	lo, hi = c.dataRange(false)
 	return widen(lo, hi, 0)
 }
 
 // YRange returns the y range drawn: the fixed one (when it is a finite,
 // non-empty interval) or that of the data with 4 % room above and below.
 func (c *Chart) YRange() (lo, hi float64) {
-	if c.yFixed && finite(c.ymin) && finite(c.ymax) && c.ymin < c.ymax {
+	if usable(c.yFixed, c.ymin, c.ymax) {
 		return c.ymin, c.ymax
 	}
+	lo, hi = c.dataRange(true)
+	return widen(lo, hi, 0.04)
+}
+
+// usable reports whether a range is fixed, finite and not empty.
+func usable(fixed bool, lo, hi float64) bool {
+	return fixed && finite(lo) && finite(hi) && lo < hi
+}
+
+// dataRange returns the smallest and largest finite x values of the
+// marks (y values when y is set; those of stems with 0 among them).
+func (c *Chart) dataRange(y bool) (lo, hi float64) {
 	lo, hi = math.Inf(1), math.Inf(-1)
 	for _, m := range c.marks {
-		a, b := finiteRange(m.y)
-		if m.kind == stemsKind {
+		v := m.x
+		if y {
+			v = m.y
+		}
+		a, b := finiteRange(v)
+		if y && m.kind == stemsKind {
 			a, b = math.Min(a, 0), math.Max(b, 0)
 		}
 		lo, hi = math.Min(lo, a), math.Max(hi, b)
 	}
-	return widen(lo, hi, 0.04)
+	return lo, hi
 }
 
 // MovingAverage returns the centred moving average of y over n samples

@@ -13,20 +13,23 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 )
 
-// Colours used in every picture: data in dark grey, model in blue,
-// bands and limits in red/orange, the truth (demo only) in green.
-var (
-	colData  = color.RGBA{R: 60, G: 60, B: 60, A: 255}
-	colRaw   = color.RGBA{R: 175, G: 175, B: 175, A: 255} // a raw input under its moving average
-	colAxis  = color.Gray{Y: 120}                         // the zero line, a final value
-	colModel = color.RGBA{R: 31, G: 100, B: 190, A: 255}
-	colUnder = color.RGBA{R: 130, G: 175, B: 235, A: 255} // a model line drawn wide under the observed one
-	colBand  = color.RGBA{R: 205, G: 60, B: 40, A: 255}
-	colTrue  = color.RGBA{R: 40, G: 150, B: 60, A: 255}
-	colFill  = color.NRGBA{R: 31, G: 100, B: 190, A: 70}
-	colSEs   = color.NRGBA{R: 205, G: 60, B: 40, A: 50}
-	colMark  = color.RGBA{R: 230, G: 140, B: 20, A: 255}
-)
+// palette holds the colours of every picture: data in dark grey, model
+// in blue, bands and limits in red and orange, the truth (demo only) in
+// green.
+var palette = struct {
+	data, raw, axis, model, under, band, truth, fill, errors, mark color.Color
+}{
+	data:   color.RGBA{R: 60, G: 60, B: 60, A: 255},
+	raw:    color.RGBA{R: 175, G: 175, B: 175, A: 255}, // a raw input under its moving average
+	axis:   color.Gray{Y: 120},                         // the zero line, a final value
+	model:  color.RGBA{R: 31, G: 100, B: 190, A: 255},
+	under:  color.RGBA{R: 130, G: 175, B: 235, A: 255}, // a model line drawn wide under the observed one
+	band:   color.RGBA{R: 205, G: 60, B: 40, A: 255},
+	truth:  color.RGBA{R: 40, G: 150, B: 60, A: 255},
+	fill:   color.NRGBA{R: 31, G: 100, B: 190, A: 70}, // a forecast interval
+	errors: color.NRGBA{R: 205, G: 60, B: 40, A: 50},  // +-2 standard errors
+	mark:   color.RGBA{R: 230, G: 140, B: 20, A: 255},
+}
 
 // smoothing is the number of samples averaged in the moving average
 // drawn over each input: a quarter of an hour on the demo, whose valve
@@ -37,8 +40,8 @@ const smoothing = 15
 // inputTrace draws an input as recorded, thin and light, with its
 // moving average over smoothing samples on top.
 func inputTrace(c *chart.Chart, t, x []float64) {
-	c.Legend("as recorded", c.Line(t, x, colRaw, 0.5))
-	c.Legend(fmt.Sprintf("%d-sample mean", smoothing), c.Line(t, chart.MovingAverage(x, smoothing), colModel, 1.2))
+	c.Legend("as recorded", c.Line(t, x, palette.raw, 0.5))
+	c.Legend(fmt.Sprintf("%d-sample mean", smoothing), c.Line(t, chart.MovingAverage(x, smoothing), palette.model, 1.2))
 }
 
 // recordPicture draws the record: the output (with its setpoint on the
@@ -48,10 +51,10 @@ func recordPicture(path string, ds *dataset) error {
 	t := times(len(y), 0, ds.step())
 	xlabel := "time (" + ds.timeUnit() + ")"
 	out := chart.New("Output: "+ds.output, xlabel, ds.output+outputUnit(ds))
-	l := out.Line(t, y, colData, 0.8)
+	l := out.Line(t, y, palette.data, 0.8)
 	if sp, ok := ds.setpoint(); ds.builtin && ok {
 		out.Legend(ds.output, l)
-		out.Legend("setpoint", out.Line(t, sp, colBand, 1.2))
+		out.Legend("setpoint", out.Line(t, sp, palette.band, 1.2))
 	}
 	panels := []*chart.Chart{out}
 	for _, name := range ds.inputs {
@@ -67,10 +70,10 @@ func recordPicture(path string, ds *dataset) error {
 func correlationChart(title, xlabel, ylabel string, lags, r []float64, band float64) *chart.Chart {
 	c := chart.New(title, xlabel, ylabel)
 	lo, hi := lags[0], lags[len(lags)-1]
-	c.HLine(0, lo, hi, colAxis)
-	c.Legend("correlation", c.Stems(lags, r, colModel))
-	c.Legend(fmt.Sprintf("95 %% band (+-%.3f)", band), c.HLine(band, lo, hi, colBand).Dashed(4, 3))
-	c.HLine(-band, lo, hi, colBand).Dashed(4, 3)
+	c.HLine(0, lo, hi, palette.axis)
+	c.Legend("correlation", c.Stems(lags, r, palette.model))
+	c.Legend(fmt.Sprintf("95 %% band (+-%.3f)", band), c.HLine(band, lo, hi, palette.band).Dashed(4, 3))
+	c.HLine(-band, lo, hi, palette.band).Dashed(4, 3)
 	return c
 }
 
@@ -94,7 +97,7 @@ func correlationPicture(path string, ds *dataset, pw []prewhitened, est *tf.Esti
 				lo, hi := c.YRange()
 				c.SetY(lo, hi)
 				b := float64(in.Delay) * dt
-				c.Legend("fitted dead time "+amount(b, unit), c.VLine(b, lo, hi, colMark).Dashed(5, 3))
+				c.Legend("fitted dead time "+amount(b, unit), c.VLine(b, lo, hi, palette.mark).Dashed(5, 3))
 			}
 		}
 		panels = append(panels, c)
@@ -111,16 +114,16 @@ func weightsPicture(path string, ds *dataset, pw []prewhitened, _ *tf.Estimate) 
 		lags := times(len(v), 0, ds.step())
 		c := chart.New(fmt.Sprintf("Impulse-response weights, %s -> %s", p.Input, ds.output),
 			"lag ("+ds.timeUnit()+")", ds.output+" per unit "+p.Input)
-		c.HLine(0, lags[0], lags[len(lags)-1], colAxis)
+		c.HLine(0, lags[0], lags[len(lags)-1], palette.axis)
 		up, dn := make([]float64, len(se)), make([]float64, len(se))
 		for i, s := range se {
 			up[i], dn[i] = 2*s, -2*s
 		}
-		c.Legend("+-2 standard errors", c.Band(lags, dn, up, colSEs))
-		c.Legend("estimated weights", c.Stems(lags, v, colModel))
+		c.Legend("+-2 standard errors", c.Band(lags, dn, up, palette.errors))
+		c.Legend("estimated weights", c.Stems(lags, v, palette.model))
 		if ds.builtin {
 			c.YLabel = greenhouseUnits(p.Input)
-			c.Legend("true weights", c.Dots(lags, truePath(p.Input).Impulse(len(v)), colTrue, draw.CrossGlyph{}, 3))
+			c.Legend("true weights", c.Dots(lags, truePath(p.Input).Impulse(len(v)), palette.truth, draw.CrossGlyph{}, 3))
 		}
 		panels = append(panels, c)
 	}
@@ -155,22 +158,22 @@ func stepPicture(path string, ds *dataset, paths []modelinfo.Path) error {
 		t := times(n, 0, dt)
 		c := chart.New(fmt.Sprintf("Step response of %s to a unit step in %s", ds.output, p.Input),
 			"time after the step ("+unit+")", ds.output+" per unit "+p.Input)
-		c.Legend(fmt.Sprintf("gain %.3g", p.Gain), c.HLine(p.Gain, t[0], t[n-1], colAxis).Dashed(4, 3))
-		c.Legend("fitted model", c.Line(t, p.Rational.Step(n), colModel, 2.5))
+		c.Legend(fmt.Sprintf("gain %.3g", p.Gain), c.HLine(p.Gain, t[0], t[n-1], palette.axis).Dashed(4, 3))
+		c.Legend("fitted model", c.Line(t, p.Rational.Step(n), palette.model, 2.5))
 		if ds.builtin {
 			// Drawn over the fitted curve, dotted, so both show where
 			// they coincide.
 			c.YLabel = greenhouseUnits(p.Input)
-			c.Legend("true model", c.Line(t, truePath(p.Input).Step(n), colTrue, 1.5).Dashed(2, 3))
+			c.Legend("true model", c.Line(t, truePath(p.Input).Step(n), palette.truth, 1.5).Dashed(2, 3))
 		}
 		lo, hi := c.YRange()
 		lo, hi = math.Min(lo, 0), math.Max(hi, 0)
 		c.SetY(lo, hi)
 		if s := p.Step.Settle.Samples * dt; !math.IsNaN(s) {
-			c.Legend(fmt.Sprintf("settled within 2 %% at %.0f %s", s, unit), c.VLine(s, lo, hi, colMark).Dashed(5, 3))
+			c.Legend(fmt.Sprintf("settled within 2 %% at %.0f %s", s, unit), c.VLine(s, lo, hi, palette.mark).Dashed(5, 3))
 		}
 		d := float64(p.DeadTime) * dt
-		c.Legend("dead time "+amount(d, unit), c.VLine(d, lo, hi, colBand).Dashed(1, 2))
+		c.Legend("dead time "+amount(d, unit), c.VLine(d, lo, hi, palette.band).Dashed(1, 2))
 		panels = append(panels, c)
 	}
 	if len(panels) == 0 {
@@ -184,8 +187,8 @@ func stepPicture(path string, ds *dataset, paths []modelinfo.Path) error {
 // so that the model shows where the two part.
 func overlay(title, xlabel, ylabel, model string, t, y, m []float64) *chart.Chart {
 	c := chart.New(title, xlabel, ylabel)
-	c.Legend(model, c.Line(t, m, colUnder, 2.2))
-	c.Legend("observed", c.Line(t, y, colData, 0.5))
+	c.Legend(model, c.Line(t, m, palette.under, 2.2))
+	c.Legend("observed", c.Line(t, y, palette.data, 0.5))
 	return c
 }
 
@@ -196,8 +199,8 @@ func difference(title, xlabel, ylabel string, t, y, m []float64) *chart.Chart {
 	for i := range d {
 		d[i] = y[i] - m[i]
 	}
-	c.HLine(0, t[0], t[len(t)-1], colAxis)
-	c.Line(t, d, colData, 0.5)
+	c.HLine(0, t[0], t[len(t)-1], palette.axis)
+	c.Line(t, d, palette.data, 0.5)
 	return c
 }
 
@@ -218,8 +221,8 @@ func fitPicture(path string, ds *dataset, est *tf.Estimate) error {
 	whole := overlay("Observed and fitted (one step ahead), whole record", xlabel, ylabel, "fitted", t, y, fit)
 	k := max(0, n-int(180/dt))
 	zoom := chart.New("Last part of the record, zoomed", xlabel, ylabel)
-	zoom.Legend("observed", zoom.Dots(t[k:], y[k:], colData, draw.CircleGlyph{}, 1.6))
-	zoom.Legend("fitted", zoom.Line(t[k:], fit[k:], colModel, 1.5))
+	zoom.Legend("observed", zoom.Dots(t[k:], y[k:], palette.data, draw.CircleGlyph{}, 1.6))
+	zoom.Legend("fitted", zoom.Line(t[k:], fit[k:], palette.model, 1.5))
 	res := difference(fmt.Sprintf("Residuals (observed - fitted), summed from sample %d on", est.Conditioning.First),
 		xlabel, ylabel, t, y, fit)
 	return chart.Save(path, []*chart.Chart{whole, zoom, res}, 18, 6.5)
@@ -251,13 +254,13 @@ func forecastPicture(path string, ds *dataset, fr *forecastResult) error {
 	tf := times(fr.h, 1, dt)
 	xlabel := "time from the end of the record (" + ds.timeUnit() + ")"
 	p := chart.New("Forecast of "+ds.output+outputUnit(ds), xlabel, ds.output+outputUnit(ds))
-	b := p.Band(tf, f.Lower, f.Upper, colFill)
-	p.Legend("observed", p.Line(tp, y[n-past:], colData, 1.2))
-	p.Legend("forecast", p.Line(tf, f.Mean, colModel, 2))
+	b := p.Band(tf, f.Lower, f.Upper, palette.fill)
+	p.Legend("observed", p.Line(tp, y[n-past:], palette.data, 1.2))
+	p.Legend("forecast", p.Line(tf, f.Mean, palette.model, 2))
 	p.Legend(fmt.Sprintf("%.0f %% interval", 100*f.Level), b)
 	q := chart.New("Planned "+fr.planned, xlabel, inputUnit(ds, fr.planned))
 	inputTrace(q, tp, x[n-past:])
-	q.Legend("planned", q.Line(tf, fr.plan[:fr.h], colMark, 2.5))
+	q.Legend("planned", q.Line(tf, fr.plan[:fr.h], palette.mark, 2.5))
 	q.SetX(p.XRange())
 	return chart.Save(path, []*chart.Chart{p, q}, 18, 7)
 }
