@@ -403,9 +403,15 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 		l.missing(v, "ranges", `%s has no "ranges" (the smallest and largest value of each series of the record)`, what)
 		return
 	}
-	if !l.want(m, what, jObject, `an object of [smallest, largest] pairs by series, as in {"temp": [14.7, 22.3]}`) {
-		return
+	if l.want(m, what, jObject, `an object of [smallest, largest] pairs by series, as in {"temp": [14.7, 22.3]}`) {
+		l.ranges(m.val, of, model)
 	}
+}
+
+// ranges checks the "ranges" object obj of a validity record: each series
+// once, a series of the model's spec, with a pair of finite numbers
+// [smallest, largest] in that order.
+func (l *loader) ranges(obj *jval, of string, model *tf.Model) {
 	series := map[string]bool{}
 	var list []string
 	if model != nil {
@@ -417,7 +423,7 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 		}
 	}
 	seen := map[string]bool{}
-	for _, r := range m.val.members {
+	for _, r := range obj.members {
 		if seen[r.key] {
 			l.fail(r.start, `series %q appears twice in the ranges of %s; keep one`, r.key, of)
 			continue
