@@ -108,6 +108,7 @@ func TestSecondsInterval(t *testing.T) {
 // TestBadPlantOrFlags checks that every wrong flag value and every plant
 // the scenarios cannot run is refused before anything is printed, with
 // a message naming the flag, the part of the spec and the likely fix.
+// Its length is the table of cases.
 func TestBadPlantOrFlags(t *testing.T) {
 	const valve = "0.01 / (1 - 0.95 B) B^3 valve"
 	for _, c := range []struct {
@@ -263,6 +264,8 @@ func entry(name, validity string) string {
 // record is printed, values outside its ranges are warned about, a
 // failed model is refused unless forced, and a file or model that is not
 // there says so.
+// Its length is the cases in turn on one config file, then a table of
+// files and models that are wrong.
 func TestConfigPlant(t *testing.T) {
 	// The record saw the outdoor temperature from 0 to 5 degC; the cold
 	// front takes it from 4 to -4 degC (DisturbanceStep), so the warning

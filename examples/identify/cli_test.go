@@ -71,6 +71,8 @@ func run(t *testing.T, o Options) (*Outcome, string, error) {
 // call it adequate, must not offer its paths for control work, must
 // print no NaN, and -save must refuse it unless forced; forced, the
 // saved record says so.
+// Its length is one run followed through its report, save and
+// forced save.
 func TestFailedFitIsNotAdequate(t *testing.T) {
 	path := writeFile(t, "short.csv", lines(ghCSV(t), func(i int) bool { return i < 20 }))
 	o := DefaultOptions()
@@ -232,10 +234,11 @@ func gapRecord(t *testing.T, from, to int) (string, map[string][]float64) {
 
 // TestGapRemedies is the test of real data with a gap: the demo
 // record with a stretch deleted is refused by default, naming the rows;
-// each remedy does what it says: holding fills the missing samples with
+// each fill does what it says: holding fills the missing samples with
 // the last value before the gap, linear interpolation with the straight
-// line between the rows either side, and the longest stretch is the
-// part after the gap.
+// line between the rows either side (TestLongestStretch tries the
+// third remedy).
+// Its length is the refusal and both fills, checked sample by sample.
 func TestGapRemedies(t *testing.T) {
 	// Five minutes missing: 1000..1004. Line 1001 holds minute 999 (the
 	// header is line 1), line 1002 minute 1005.
@@ -298,11 +301,14 @@ func TestGapRemedies(t *testing.T) {
 			t.Errorf("%s: notes %q lack %q", kind, ds.notes, want)
 		}
 	}
+}
 
-	// 200 minutes missing (2000..2199): the longest stretch is the
-	// 3560 samples after the gap, lines 2002..5561.
-	path, full = gapRecord(t, 2000, 2200)
-	o = DefaultOptions()
+// TestLongestStretch: with 200 minutes missing (2000..2199), -gaps
+// longest fits the 3560 samples after the gap, lines 2002..5561, and a
+// whole run with linear:200 says in its report what was done.
+func TestLongestStretch(t *testing.T) {
+	path, full := gapRecord(t, 2000, 2200)
+	o := DefaultOptions()
 	o.Data, o.Gaps = path, "longest"
 	ds, err := load(o, record.Remedy{Kind: "longest"})
 	if err != nil {
@@ -395,6 +401,7 @@ func TestTimeColumns(t *testing.T) {
 // a named time column that is missing, a series or not times, a date
 // form not read, -gaps without a time column and a text column named as
 // a series.
+// Its length is one mistake after another on the same records.
 func TestTimeColumnMistakes(t *testing.T) {
 	ts, _, _ := timeRecords()
 	o := DefaultOptions()
@@ -541,7 +548,8 @@ func TestPlanOutsideRecord(t *testing.T) {
 // TestMessagesBlameTheRightThing is item 7 and item 22: a 1-row file, a
 // semicolon-separated file, constant columns, a decimal comma, a byte
 // order mark, carriage-return line ends, a huge cell, and stray quotes
-// (item 13, which panicked).
+// (item 13: a typed error, never a panic).
+// Its length is the table of files.
 func TestMessagesBlameTheRightThing(t *testing.T) {
 	gh := ghCSV(t)
 	ok := lines(gh, func(i int) bool { return i < 200 })

@@ -123,6 +123,8 @@ func TestRecoveryOtherSeeds(t *testing.T) {
 
 // TestSpecAndCSV writes the built-in record as CSV, reads it back with
 // the file flags and fits the true structure given as a spec.
+// Its length is one run checked through its report and its saved
+// record.
 func TestSpecAndCSV(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "greenhouse.csv")
 	var buf bytes.Buffer

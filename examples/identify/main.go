@@ -127,6 +127,8 @@ const (
 // bad command line, 3 a report whose model is NOT ADEQUATE (printed in
 // full, so that scripts notice; a -save refused for that reason also
 // ends with 3).
+//
+// Its length is the list of flags, one line each.
 func cli(args []string, stdout, stderr io.Writer) int {
 	o := DefaultOptions()
 	var inputs, interval, sep string

@@ -111,6 +111,9 @@ func (e *SaveError) Error() string {
 // model that fails its checks is reported as such, and with o.Save the
 // run ends in a *SaveError unless o.SaveUntrusted is set; the Outcome is
 // returned with it.
+//
+// Its length is the job's steps in the order the report prints them,
+// each a call.
 func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, error) {
 	start := time.Now()
 	pr := &progress{w: stderr, start: start}
@@ -343,63 +346,12 @@ func writeBuiltin(path string, stdout io.Writer) error {
 // as rem says. With a spec, the output and inputs are the spec's series.
 func load(o Options, rem record.Remedy) (*dataset, error) {
 	ds := &dataset{output: o.Output, inputs: o.Inputs, interval: o.Interval, unit: o.Unit}
-	var specIv tf.Interval
-	if o.Spec != "" {
-		m, err := parse.Model(o.Spec)
-		if err != nil {
-			return nil, fmt.Errorf("the spec does not parse:\n%w", err)
-		}
-		ds.fromSpec = true
-		ds.output, ds.inputs = m.Output, nil
-		for _, in := range m.Inputs {
-			ds.inputs = append(ds.inputs, in.Series)
-		}
-		specIv = m.Interval
-		if ds.interval > 0 && specIv.Value > 0 && !sameInterval(ds.interval, ds.unit, specIv.Value, specIv.Unit, 1e-9) {
-			return nil, fmt.Errorf("-interval %s and the spec's every %s disagree: give one interval, or the same in both",
-				ivText(ds.interval, ds.unit), ivText(specIv.Value, specIv.Unit))
-		}
-		if ds.interval == 0 && specIv.Value > 0 {
-			ds.interval, ds.unit = specIv.Value, specIv.Unit
-		}
-	}
-	if len(ds.inputs) == 0 {
-		return nil, errors.New("no input columns named (-inputs)")
-	}
-	if o.Spec == "" {
-		seen := map[string]bool{ds.output: true}
-		for _, in := range ds.inputs {
-			if seen[in] {
-				if in == ds.output {
-					return nil, fmt.Errorf("-inputs names %q, the output (-output): a series cannot drive itself", in)
-				}
-				return nil, fmt.Errorf("-inputs names %q twice", in)
-			}
-			seen[in] = true
-		}
+	if err := ds.names(o); err != nil {
+		return nil, err
 	}
 	if o.Data == "" {
-		g := greenhouse.Default()
-		ds.name = "built-in greenhouse record (4 days, PI control with a test signal)"
-		ds.builtin = true
-		ds.data = map[string][]float64{}
-		for _, n := range append([]string{ds.output}, ds.inputs...) {
-			s, ok := g.Series(n)
-			if !ok || n == greenhouse.Minute {
-				return nil, fmt.Errorf("the built-in record has no series %q (it has %s, %s, %s, %s)", n,
-					greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint)
-			}
-			ds.data[n] = s
-		}
-		if ds.interval == 0 {
-			ds.interval, ds.unit = greenhouse.Interval, "min"
-		} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
-			return nil, fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
-		}
-		// The truth is known for the demo's own output and inputs.
-		ds.builtin = ds.output == greenhouse.Output
-		for _, in := range ds.inputs {
-			ds.builtin = ds.builtin && (in == greenhouse.Valve || in == greenhouse.Outdoor)
+		if err := ds.loadBuiltin(); err != nil {
+			return nil, err
 		}
 	} else if err := loadFile(o, rem, ds); err != nil {
 		return nil, err
@@ -409,6 +361,74 @@ func load(o Options, rem record.Remedy) (*dataset, error) {
 		ds.unit = "samples"
 	}
 	return ds, nil
+}
+
+// names sets the output and inputs to read, the spec's when o has one
+// (with its interval, which must agree with -interval), and refuses no
+// inputs, an input named twice or the output named as an input.
+func (ds *dataset) names(o Options) error {
+	if o.Spec != "" {
+		m, err := parse.Model(o.Spec)
+		if err != nil {
+			return fmt.Errorf("the spec does not parse:\n%w", err)
+		}
+		ds.fromSpec = true
+		ds.output, ds.inputs = m.Output, nil
+		for _, in := range m.Inputs {
+			ds.inputs = append(ds.inputs, in.Series)
+		}
+		specIv := m.Interval
+		if ds.interval > 0 && specIv.Value > 0 && !sameInterval(ds.interval, ds.unit, specIv.Value, specIv.Unit, 1e-9) {
+			return fmt.Errorf("-interval %s and the spec's every %s disagree: give one interval, or the same in both",
+				ivText(ds.interval, ds.unit), ivText(specIv.Value, specIv.Unit))
+		}
+		if ds.interval == 0 && specIv.Value > 0 {
+			ds.interval, ds.unit = specIv.Value, specIv.Unit
+		}
+	}
+	if len(ds.inputs) == 0 {
+		return errors.New("no input columns named (-inputs)")
+	}
+	if o.Spec == "" {
+		seen := map[string]bool{ds.output: true}
+		for _, in := range ds.inputs {
+			if seen[in] {
+				if in == ds.output {
+					return fmt.Errorf("-inputs names %q, the output (-output): a series cannot drive itself", in)
+				}
+				return fmt.Errorf("-inputs names %q twice", in)
+			}
+			seen[in] = true
+		}
+	}
+	return nil
+}
+
+// loadBuiltin takes the named series from the built-in greenhouse
+// record, whose interval (1 min) any interval given must agree with.
+func (ds *dataset) loadBuiltin() error {
+	g := greenhouse.Default()
+	ds.name = "built-in greenhouse record (4 days, PI control with a test signal)"
+	ds.data = map[string][]float64{}
+	for _, n := range append([]string{ds.output}, ds.inputs...) {
+		s, ok := g.Series(n)
+		if !ok || n == greenhouse.Minute {
+			return fmt.Errorf("the built-in record has no series %q (it has %s, %s, %s, %s)", n,
+				greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint)
+		}
+		ds.data[n] = s
+	}
+	if ds.interval == 0 {
+		ds.interval, ds.unit = greenhouse.Interval, "min"
+	} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
+		return fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
+	}
+	// The truth is known for the demo's own output and inputs.
+	ds.builtin = ds.output == greenhouse.Output
+	for _, in := range ds.inputs {
+		ds.builtin = ds.builtin && (in == greenhouse.Valve || in == greenhouse.Outdoor)
+	}
+	return nil
 }
 
 // flagNames are the words record.Read's messages use for its settings:
