@@ -243,13 +243,10 @@ func setpointScenario(w io.Writer, pl *plant, u0, sd float64) error {
 	band := pl.proc.noiseBand(sd)
 	sc := SetpointStep()
 	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min)\n", sc.Name, tuneKc, tuneTi)
-	clean, noisy, err := pl.runBoth(w, sc, u0, sd)
+	clean, noisy, k0, m, err := pl.measure(w, sc, u0, sd, 16, 20)
 	if err != nil {
 		return err
 	}
-	k0 := clean.Index(sc.StepAt)
-	m := Measure(clean.Temp, k0, 16, 20, PlantSettleBand, ts)
-	fmt.Fprintf(w, "  without noise:\n")
 	fmt.Fprintf(w, "    settling to +-%.1f degC  %s\n", PlantSettleBand, timeText(m.Settling, ts))
 	fmt.Fprintf(w, "    overshoot               %5.1f %%\n", 100*m.Overshoot)
 	steadyLine(w, m, PlantSettleBand)
@@ -280,13 +277,10 @@ func disturbanceScenario(w io.Writer, pl *plant, u0, sd float64) error {
 	band := pl.proc.noiseBand(sd)
 	sc := DisturbanceStep()
 	fmt.Fprintf(w, "%s\n", sc.Name)
-	clean, noisy, err := pl.runBoth(w, sc, u0, sd)
+	clean, noisy, k0, m, err := pl.measure(w, sc, u0, sd, 18, 18)
 	if err != nil {
 		return err
 	}
-	k0 := clean.Index(sc.StepAt)
-	m := Measure(clean.Temp, k0, 18, 18, PlantSettleBand, ts)
-	fmt.Fprintf(w, "  without noise:\n")
 	fmt.Fprintf(w, "    peak deviation          %5.2f degC\n", m.PeakDeviation)
 	back := timeText(m.Settling, ts)
 	if m.Settling == 0 {
@@ -303,6 +297,20 @@ func disturbanceScenario(w io.Writer, pl *plant, u0, sd float64) error {
 	}
 	warnOutside(w, pl, clean, noisy)
 	return nil
+}
+
+// measure runs sc from valve u0 as runBoth does, measures the
+// noise-free run from the step (the output going from before to after
+// degC, within PlantSettleBand) and heads its figures. It returns both
+// runs, the sample of the step and the figures.
+func (pl *plant) measure(w io.Writer, sc Scenario, u0, sd, before, after float64) (clean Trace, noisy *Trace, k0 int, m StepMetrics, err error) {
+	if clean, noisy, err = pl.runBoth(w, sc, u0, sd); err != nil {
+		return clean, nil, 0, m, err
+	}
+	k0 = clean.Index(sc.StepAt)
+	m = Measure(clean.Temp, k0, before, after, PlantSettleBand, pl.proc.Interval())
+	fmt.Fprintf(w, "  without noise:\n")
+	return clean, noisy, k0, m, nil
 }
 
 // runBoth runs sc with the PI under test from valve u0, without noise
