@@ -13,6 +13,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/examples/internal/suggest"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
@@ -230,7 +231,7 @@ func unknownKey(key, what string, known []string) (string, string) {
 	}
 	msg := fmt.Sprintf("unknown key %q in %s (known: %s)", clip(key), what, strings.Join(known, ", "))
 	for _, k := range known {
-		if near(k, key) {
+		if suggest.Near(k, key) {
 			return msg + fmt.Sprintf("; did you mean %q?", k), k
 		}
 	}
@@ -402,9 +403,15 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 		l.missing(v, "ranges", `%s has no "ranges" (the smallest and largest value of each series of the record)`, what)
 		return
 	}
-	if !l.want(m, what, jObject, `an object of [smallest, largest] pairs by series, as in {"temp": [14.7, 22.3]}`) {
-		return
+	if l.want(m, what, jObject, `an object of [smallest, largest] pairs by series, as in {"temp": [14.7, 22.3]}`) {
+		l.ranges(m.val, of, model)
 	}
+}
+
+// ranges checks the "ranges" object obj of a validity record: each series
+// once, a series of the model's spec, with a pair of finite numbers
+// [smallest, largest] in that order.
+func (l *loader) ranges(obj *jval, of string, model *tf.Model) {
 	series := map[string]bool{}
 	var list []string
 	if model != nil {
@@ -416,7 +423,7 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 		}
 	}
 	seen := map[string]bool{}
-	for _, r := range m.val.members {
+	for _, r := range obj.members {
 		if seen[r.key] {
 			l.fail(r.start, `series %q appears twice in the ranges of %s; keep one`, r.key, of)
 			continue
@@ -473,32 +480,6 @@ func seconds(s string) (float64, bool) {
 		return 0, false
 	}
 	return v * unit, true
-}
-
-// near reports whether a and b differ by at most two single-character
-// edits (a misspelt key).
-func near(a, b string) bool {
-	a, b = strings.ToLower(a), strings.ToLower(b)
-	if len(a) > 32 || len(b) > 32 {
-		return false
-	}
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)] <= 2
 }
 
 // positions turns file offsets into lines and columns.

@@ -80,7 +80,7 @@ func TestFittedRecord(t *testing.T) {
 	if v == nil || v.Samples != d.Len() || v.Interval != "1 min" || v.Verdict != modelinfo.VerdictPassed {
 		t.Fatalf("validity %+v, record of %d samples", v, d.Len())
 	}
-	for name, s := range map[string][]float64{"temp": d.Temp, "valve": d.Valve, "outdoor": d.Outdoor} {
+	for name, s := range d.ByName() {
 		if r := v.Ranges[name]; r != [2]float64{slices.Min(s), slices.Max(s)} {
 			t.Errorf("%s: range %v, the record's is [%v, %v]", name, r, slices.Min(s), slices.Max(s))
 		}

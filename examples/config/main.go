@@ -6,9 +6,11 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"strings"
 
+	"github.com/backshift/backshift/examples/internal/cmdline"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 )
 
@@ -27,8 +29,18 @@ conditions of the record it was fitted to. Commission any controller tuned on
 it under the site's safety procedures, with independent safety interlocks;
 defer to local codes and licensed practice.`
 
-// maxFile is the largest config file read (a config holds a few specs).
-const maxFile = 16 << 20
+// usage is printed by -h above the flags.
+const usage = `config loads a site's library of process models (a JSON file whose "spec"
+fields are model specs), checks every entry with positions in the file, and
+prints what each model says about the plant: gain, dead time, time constants,
+stability, step response, and the record of the data it was fitted to.
+
+Examples:
+  go run ./examples/config                      # the built-in configs, then a broken one
+  go run ./examples/config -file fitted.json    # a model saved by examples/identify -save
+
+Flags:
+`
 
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
@@ -41,25 +53,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("config", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	file := fs.String("file", "", "config file to load (default: the built-in greenhouse.json and fitted.json, then the built-in broken.json)")
-	fs.Usage = func() {
-		fmt.Fprint(fs.Output(), `config loads a site's library of process models (a JSON file whose "spec"
-fields are model specs), checks every entry with positions in the file, and
-prints what each model says about the plant: gain, dead time, time constants,
-stability, step response, and the record of the data it was fitted to.
-
-Examples:
-  go run ./examples/config                      # the built-in configs, then a broken one
-  go run ./examples/config -file fitted.json    # a model saved by examples/identify -save
-
-Flags:
-`)
-		fs.PrintDefaults()
-	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return 0
-		}
-		return 2
+	if status, stop := cmdline.Parse(fs, usage, args); stop {
+		return status
 	}
 	if fs.NArg() > 0 {
 		fmt.Fprintf(stderr, "config takes no arguments besides its flags, and got %q; to load a file write -file %s (see -h)\n",
@@ -81,20 +76,13 @@ Flags:
 
 // showFile reads, loads and prints one config file.
 func showFile(stdout, stderr io.Writer, name string) error {
-	f, err := os.Open(name)
-	if err != nil {
+	raw, err := cmdline.ReadConfig(name)
+	var pe *fs.PathError
+	switch {
+	case errors.As(err, &pe):
 		return fmt.Errorf("-file: %w", err)
-	}
-	defer f.Close()
-	if st, err := f.Stat(); err == nil && st.IsDir() {
-		return fmt.Errorf("-file %s: a folder, not a config file", name)
-	}
-	raw, err := io.ReadAll(io.LimitReader(f, maxFile+1))
-	if err != nil {
+	case err != nil:
 		return fmt.Errorf("-file %s: %w", name, err)
-	}
-	if len(raw) > maxFile {
-		return fmt.Errorf("%s: the file is over %d MiB; a config holds a few model specs: is it the right file?", name, maxFile>>20)
 	}
 	return show(stdout, stderr, name, raw)
 }

@@ -63,6 +63,11 @@ var True = Truth{
 // coefficient fixed.
 const TrueSpec = "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + 0.05 / (1 - 0.9 B) B outdoor + (1 + 0.3 B) / (1 - 0.8 B) a; every 1 min"
 
+// Structure is the structure of [True] in the spec language with every
+// coefficient free: the model a fit of the record estimates (the tests
+// of the examples share it).
+const Structure = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
+
 // Interval is the sample interval of the data in minutes.
 const Interval = 1.0
 
@@ -109,6 +114,13 @@ type Data struct {
 // Len returns the number of samples.
 func (d Data) Len() int { return len(d.Temp) }
 
+// ByName returns the output and the two inputs by their names (Output,
+// Valve, Outdoor), as tf.Fit, tf.Identify and Estimate.Forecast take
+// them. The slices are the record's own.
+func (d Data) ByName() map[string][]float64 {
+	return map[string][]float64{Output: d.Temp, Valve: d.Valve, Outdoor: d.Outdoor}
+}
+
 // Series returns the named series (one of Output, Valve, Outdoor,
 // Setpoint, Minute) and whether the name is known. The slice is the
 // record's own: copy it before changing it.
@@ -138,25 +150,9 @@ const warmup = 720
 // Generate simulates the greenhouse under its controller. It is
 // deterministic given the settings.
 func Generate(s Settings) Data {
-	days := s.Days
-	if days <= 0 {
-		days = 4
-	}
-	seed := s.Seed
-	if seed == 0 {
-		seed = 7
-	}
-	amp := s.DitherAmplitude
-	if amp == 0 {
-		amp = 10
-	} else if amp < 0 {
-		amp = 0
-	}
+	days, seed, amp := s.resolve()
 	n := days * 1440
-	total := n + warmup
-	rng := rand.New(rand.NewPCG(seed, 0x6772656e))
-	tr := True
-
+	sim := newSimulation(seed, amp)
 	d := Data{
 		Minute:   make([]float64, n),
 		Setpoint: make([]float64, n),
@@ -164,73 +160,12 @@ func Generate(s Settings) Data {
 		Outdoor:  make([]float64, n),
 		Temp:     make([]float64, n),
 	}
-
-	// Weather: a slow front component (AR(1), time scale about 1.4 days),
-	// fast gusts and sun/cloud changes (AR(1), time scale about 5 min).
-	front := 0.0
-	gust := 0.0
-	// Plant states: the two first-order lags and the ARMA noise.
-	xv, xo := 0.0, 0.0
-	noise, aPrev := 0.0, 0.0
-	// Histories for the dead times.
-	uHist := make([]float64, tr.Valve.Delay+1)
-	oHist := make([]float64, tr.Outdoor.Delay+1)
-	// Controller state.
-	pi := 60.0 // PI part of the valve opening, %
-	ePrev := 0.0
-	yPrev := 18.0
-	lfsr := uint16(0x2b5a)
-	bit := 1.0
-
-	// Start the lags at the steady state of the first minute's inputs.
-	o0 := outdoorBase(-warmup)
-	xo = tr.Outdoor.Gain() * o0
-	xv = tr.Valve.Gain() * pi
-	for i := range uHist {
-		uHist[i] = pi
-	}
-	for i := range oHist {
-		oHist[i] = o0
-	}
-	yPrev = tr.Const + xv + xo
-
-	for k := 0; k < total; k++ {
+	for k := 0; k < n+warmup; k++ {
 		m := k - warmup // minute from the start of the record
 		sp := setpoint(m)
-
-		// Outdoor temperature.
-		front = 0.9995*front + 0.06*rng.NormFloat64()
-		gust = 0.8*gust + 0.25*rng.NormFloat64()
-		out := outdoorBase(m) + front + gust
-
-		// Controller: velocity-form PI on last minute's measurement.
-		e := sp - yPrev
-		pi += Kc * (e - ePrev + e/Ti)
-		pi = clamp(pi, 0, 100)
-		ePrev = e
-		// Test signal: a 15-bit maximum-length shift register
-		// (x^15 + x^14 + 1, period 32767 minutes, longer than any
-		// record), one bit a minute.
-		if amp > 0 {
-			fb := (lfsr>>14 ^ lfsr>>13) & 1
-			lfsr = (lfsr<<1 | fb) & 0x7fff
-			bit = float64(lfsr&1)*2 - 1
-		}
-		u := clamp(pi+amp*bit, 0, 100)
-
-		// Plant.
-		copy(uHist[1:], uHist[:len(uHist)-1])
-		uHist[0] = u
-		copy(oHist[1:], oHist[:len(oHist)-1])
-		oHist[0] = out
-		xv = tr.Valve.Delta*xv + tr.Valve.Omega*uHist[tr.Valve.Delay]
-		xo = tr.Outdoor.Delta*xo + tr.Outdoor.Omega*oHist[tr.Outdoor.Delay]
-		a := tr.Sigma * rng.NormFloat64()
-		noise = tr.Phi*noise + a + tr.Theta*aPrev
-		aPrev = a
-		y := tr.Const + xv + xo + noise
-		yPrev = y
-
+		out := sim.weather(m)
+		u := sim.valve(sp)
+		y := sim.plant(u, out)
 		if m >= 0 {
 			d.Minute[m] = float64(m)
 			d.Setpoint[m] = sp
@@ -240,6 +175,112 @@ func Generate(s Settings) Data {
 		}
 	}
 	return d
+}
+
+// resolve returns the settings with their defaults filled in: the days,
+// the seed and the amplitude of the test signal (0 when switched off).
+func (s Settings) resolve() (days int, seed uint64, amp float64) {
+	days, seed, amp = s.Days, s.Seed, s.DitherAmplitude
+	if days <= 0 {
+		days = 4
+	}
+	if seed == 0 {
+		seed = 7
+	}
+	if amp == 0 {
+		amp = 10
+	} else if amp < 0 {
+		amp = 0
+	}
+	return days, seed, amp
+}
+
+// simulation is the state of the weather, the plant (the true model) and
+// the controller while Generate runs, one step a minute.
+type simulation struct {
+	rng *rand.Rand
+	amp float64 // amplitude of the test signal, % valve
+	// Weather: a slow front component (AR(1), time scale about 1.4
+	// days), fast gusts and sun/cloud changes (AR(1), time scale about 5
+	// min).
+	front, gust float64
+	// Plant: the two first-order lags, the ARMA noise and its last
+	// innovation, and the input histories for the dead times.
+	xv, xo, noise, aPrev float64
+	uHist, oHist         []float64
+	// Controller: the PI part of the valve opening (%), the last error
+	// and measurement, and the shift register of the test signal.
+	pi, ePrev, yPrev float64
+	lfsr             uint16
+	bit              float64
+}
+
+// newSimulation returns the simulation at the start of the warm-up,
+// with the lags at the steady state of the first minute's inputs.
+func newSimulation(seed uint64, amp float64) *simulation {
+	tr := True
+	s := &simulation{
+		rng:   rand.New(rand.NewPCG(seed, 0x6772656e)),
+		amp:   amp,
+		uHist: make([]float64, tr.Valve.Delay+1),
+		oHist: make([]float64, tr.Outdoor.Delay+1),
+		pi:    60,
+		lfsr:  0x2b5a,
+		bit:   1,
+	}
+	o0 := outdoorBase(-warmup)
+	s.xo = tr.Outdoor.Gain() * o0
+	s.xv = tr.Valve.Gain() * s.pi
+	for i := range s.uHist {
+		s.uHist[i] = s.pi
+	}
+	for i := range s.oHist {
+		s.oHist[i] = o0
+	}
+	s.yPrev = tr.Const + s.xv + s.xo
+	return s
+}
+
+// weather returns the outdoor temperature at minute m.
+func (s *simulation) weather(m int) float64 {
+	s.front = 0.9995*s.front + 0.06*s.rng.NormFloat64()
+	s.gust = 0.8*s.gust + 0.25*s.rng.NormFloat64()
+	return outdoorBase(m) + s.front + s.gust
+}
+
+// valve returns the valve opening for setpoint sp: the velocity-form PI
+// on last minute's measurement plus the test signal, within 0..100 %.
+func (s *simulation) valve(sp float64) float64 {
+	e := sp - s.yPrev
+	s.pi += Kc * (e - s.ePrev + e/Ti)
+	s.pi = clamp(s.pi, 0, 100)
+	s.ePrev = e
+	// Test signal: a 15-bit maximum-length shift register
+	// (x^15 + x^14 + 1, period 32767 minutes, longer than any
+	// record), one bit a minute.
+	if s.amp > 0 {
+		fb := (s.lfsr>>14 ^ s.lfsr>>13) & 1
+		s.lfsr = (s.lfsr<<1 | fb) & 0x7fff
+		s.bit = float64(s.lfsr&1)*2 - 1
+	}
+	return clamp(s.pi+s.amp*s.bit, 0, 100)
+}
+
+// plant advances the true model one minute with valve u and outdoor
+// temperature out, and returns the air temperature.
+func (s *simulation) plant(u, out float64) float64 {
+	tr := True
+	copy(s.uHist[1:], s.uHist[:len(s.uHist)-1])
+	s.uHist[0] = u
+	copy(s.oHist[1:], s.oHist[:len(s.oHist)-1])
+	s.oHist[0] = out
+	s.xv = tr.Valve.Delta*s.xv + tr.Valve.Omega*s.uHist[tr.Valve.Delay]
+	s.xo = tr.Outdoor.Delta*s.xo + tr.Outdoor.Omega*s.oHist[tr.Outdoor.Delay]
+	a := tr.Sigma * s.rng.NormFloat64()
+	s.noise = tr.Phi*s.noise + a + tr.Theta*s.aPrev
+	s.aPrev = a
+	s.yPrev = tr.Const + s.xv + s.xo + s.noise
+	return s.yPrev
 }
 
 // setpoint returns the air temperature setpoint at minute m: 16 degC at

@@ -194,3 +194,32 @@ func TestTrueSpecIsTheTypedModel(t *testing.T) {
 		t.Errorf("TrueSpec parses to\n%v\nbut the typed truth prints as\n%v", m, True.Model())
 	}
 }
+
+// TestStructure checks that Structure is TrueSpec with its coefficients
+// made free: the same output, inputs, dead times and orders, one free
+// coefficient for each fixed one but the interval.
+func TestStructure(t *testing.T) {
+	free, err := parse.Model(Structure)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fixed := parse.MustModel(TrueSpec)
+	if free.Output != fixed.Output || len(free.Inputs) != len(fixed.Inputs) {
+		t.Fatalf("Structure %v, TrueSpec %v", free, fixed)
+	}
+	for i, in := range free.Inputs {
+		f := fixed.Inputs[i]
+		if in.Series != f.Series || in.Delay != f.Delay || in.Num.Degree() != f.Num.Degree() || in.Den.Degree() != f.Den.Degree() {
+			t.Errorf("input %d: %v, want the structure of %v", i, in, f)
+		}
+	}
+	if n := len(free.Params()); n != 7 {
+		t.Errorf("Structure has %d free coefficients, want 7 (c, w0, d1, v0, e1, t1, p1)", n)
+	}
+	d := Generate(Settings{Days: 1})
+	for name, s := range d.ByName() {
+		if want, ok := d.Series(name); !ok || &want[0] != &s[0] {
+			t.Errorf("ByName()[%q] is not the record's series", name)
+		}
+	}
+}

@@ -53,8 +53,8 @@ func TestOtherPlant(t *testing.T) {
 }
 
 // TestSecondsInterval runs a plant sampled every 10 s and checks that
-// the summary's settling time is in minutes of real time. It used to
-// count one sample as one minute.
+// the summary's settling time is in minutes of real time, not one minute
+// a sample.
 //
 // The expected time is computed by hand, independently of tf.System,
 // Run and Measure: the noise-free plant temp = 6 + 0.01/(1 - 0.95 B) B^3
@@ -108,6 +108,7 @@ func TestSecondsInterval(t *testing.T) {
 // TestBadPlantOrFlags checks that every wrong flag value and every plant
 // the scenarios cannot run is refused before anything is printed, with
 // a message naming the flag, the part of the spec and the likely fix.
+// Its length is the table of cases.
 func TestBadPlantOrFlags(t *testing.T) {
 	const valve = "0.01 / (1 - 0.95 B) B^3 valve"
 	for _, c := range []struct {
@@ -263,6 +264,8 @@ func entry(name, validity string) string {
 // record is printed, values outside its ranges are warned about, a
 // failed model is refused unless forced, and a file or model that is not
 // there says so.
+// Its length is the cases in turn on one config file, then a table of
+// files and models that are wrong.
 func TestConfigPlant(t *testing.T) {
 	// The record saw the outdoor temperature from 0 to 5 degC; the cold
 	// front takes it from 4 to -4 degC (DisturbanceStep), so the warning
@@ -332,6 +335,7 @@ func TestConfigPlant(t *testing.T) {
 		name, path, model, want string
 	}{
 		{"missing file", missing, "", "harness: -config " + missing + ": open " + missing + ": no such file or directory"},
+		{"folder", filepath.Dir(missing), "", "harness: -config " + filepath.Dir(missing) + ": a folder, not a config file"},
 		{"several models, none picked", path, "", "the file holds 2 models; pick one with -model (\"air temperature\", \"air, no record\")"},
 		{"misspelt model", path, "air temprature", "no model named \"air temprature\"; did you mean air temperature? (the file holds \"air temperature\", \"air, no record\")"},
 		{"empty file", emptyFile(t), "", "the file is empty; it should hold {\"site\": ..., \"models\": [...]}"},

@@ -5,10 +5,11 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"os"
 	"strings"
 
+	"github.com/backshift/backshift/examples/internal/cmdline"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/examples/internal/suggest"
 )
 
 // savedModel is one model entry of a config file as examples/identify
@@ -25,7 +26,7 @@ type savedModel struct {
 // (a misspelt "validity" would otherwise drop the record silently).
 // Errors name the file and, for JSON syntax, the line and column.
 func loadModel(file, name string) (*savedModel, error) {
-	raw, err := os.ReadFile(file)
+	raw, err := cmdline.ReadConfig(file)
 	if err != nil {
 		return nil, err
 	}
@@ -61,7 +62,7 @@ func loadModel(file, name string) (*savedModel, error) {
 	}
 	hint := ""
 	for _, m := range cfg.Models {
-		if d := didYouMean(name, m.Name); d != "" {
+		if d := suggest.DidYouMean(name, m.Name); d != "" {
 			hint = "; " + d
 			break
 		}

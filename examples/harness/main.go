@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 
+	"github.com/backshift/backshift/examples/internal/cmdline"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 )
 
@@ -51,15 +52,8 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.StringVar(&o.config, "config", "", "read the plant from this JSON config file (as examples/identify -save writes it) instead of -spec")
 	fs.StringVar(&o.model, "model", "", "the name of the model to use in the -config file (needed when it holds more than one)")
 	fs.BoolVar(&o.useFailed, "use-failed-model", false, "run on a -config model whose checks failed when it was saved (its results then prove nothing about the real plant)")
-	fs.Usage = func() {
-		fmt.Fprint(fs.Output(), usage)
-		fs.PrintDefaults()
-	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return 0
-		}
-		return 2
+	if status, stop := cmdline.Parse(fs, usage, args); stop {
+		return status
 	}
 	if fs.NArg() > 0 {
 		fmt.Fprintf(stderr, "harness: unexpected argument %q: the harness takes flags only; give a plant with -spec '...' or -config FILE (see -h)\n", fs.Arg(0))
@@ -212,7 +206,6 @@ func runWith(w io.Writer, o options) error {
 	if err != nil {
 		return err
 	}
-	ts := pl.proc.Interval()
 	u1, err := pl.proc.startValve(SetpointStep())
 	if err != nil {
 		return pl.fail(err)
@@ -223,31 +216,44 @@ func runWith(w io.Writer, o options) error {
 			return pl.fail(err)
 		}
 	}
-
 	fmt.Fprintf(w, "plant: %s\n", pl.spec)
 	if pl.saved != nil {
 		fmt.Fprintf(w, "  model %q of %s\n", pl.saved.Name, o.config)
 		pl.validity.Write(w, "  ")
 	}
 	fmt.Fprintf(w, "  sampled every %s; the PI acts once a sample\n\n", pl.proc.model.Interval)
+	if err := setpointScenario(w, pl, u1, o.noise); err != nil {
+		return err
+	}
+	if !pl.proc.HasOutdoor() {
+		fmt.Fprintf(w, "%s: not run, the plant has no input outdoor\n", DisturbanceStep().Name)
+	} else if err := disturbanceScenario(w, pl, u2, o.noise); err != nil {
+		return err
+	}
+	fmt.Fprint(w, "\n"+caution)
+	return nil
+}
 
-	band := pl.proc.noiseBand(o.noise)
+// setpointScenario runs the setpoint step from valve u0, without noise
+// and with noise of innovation SD sd (when above 0), and writes its
+// figures: settling, overshoot, steady state and time at the valve's
+// limits.
+func setpointScenario(w io.Writer, pl *plant, u0, sd float64) error {
+	ts := pl.proc.Interval()
+	band := pl.proc.noiseBand(sd)
 	sc := SetpointStep()
 	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min)\n", sc.Name, tuneKc, tuneTi)
-	clean, noisy, err := pl.runBoth(w, sc, u1, o.noise)
+	clean, noisy, k0, m, err := pl.measure(w, sc, u0, sd, 16, 20)
 	if err != nil {
 		return err
 	}
-	k0 := clean.Index(sc.StepAt)
-	m := Measure(clean.Temp, k0, 16, 20, PlantSettleBand, ts)
-	fmt.Fprintf(w, "  without noise:\n")
 	fmt.Fprintf(w, "    settling to +-%.1f degC  %s\n", PlantSettleBand, timeText(m.Settling, ts))
 	fmt.Fprintf(w, "    overshoot               %5.1f %%\n", 100*m.Overshoot)
 	steadyLine(w, m, PlantSettleBand)
 	fmt.Fprintf(w, "    valve at its limit      %s\n", minutesText(float64(atLimit(clean.Valve))*ts, ts))
 	unsuitable(w, m)
 	if noisy != nil {
-		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
+		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", sd, sc.Seed, band)
 		if band >= 20-16 {
 			fmt.Fprintf(w, "    (the band is as wide as the 4 degC step: these figures say little)\n")
 		}
@@ -259,20 +265,22 @@ func runWith(w io.Writer, o options) error {
 		fmt.Fprintf(w, "    valve at its limit      %s\n", minutesText(float64(atLimit(noisy.Valve))*ts, ts))
 	}
 	warnOutside(w, pl, clean, noisy)
+	return nil
+}
 
-	if !pl.proc.HasOutdoor() {
-		fmt.Fprintf(w, "%s: not run, the plant has no input outdoor\n", DisturbanceStep().Name)
-		fmt.Fprint(w, "\n"+caution)
-		return nil
-	}
-	sc = DisturbanceStep()
+// disturbanceScenario runs the outdoor disturbance step from valve u0,
+// without noise and with noise of innovation SD sd (when above 0), and
+// writes its figures: peak deviation, time back within the band and
+// steady state.
+func disturbanceScenario(w io.Writer, pl *plant, u0, sd float64) error {
+	ts := pl.proc.Interval()
+	band := pl.proc.noiseBand(sd)
+	sc := DisturbanceStep()
 	fmt.Fprintf(w, "%s\n", sc.Name)
-	if clean, noisy, err = pl.runBoth(w, sc, u2, o.noise); err != nil {
+	clean, noisy, k0, m, err := pl.measure(w, sc, u0, sd, 18, 18)
+	if err != nil {
 		return err
 	}
-	k0 = clean.Index(sc.StepAt)
-	m = Measure(clean.Temp, k0, 18, 18, PlantSettleBand, ts)
-	fmt.Fprintf(w, "  without noise:\n")
 	fmt.Fprintf(w, "    peak deviation          %5.2f degC\n", m.PeakDeviation)
 	back := timeText(m.Settling, ts)
 	if m.Settling == 0 {
@@ -283,13 +291,26 @@ func runWith(w io.Writer, o options) error {
 	unsuitable(w, m)
 	if noisy != nil {
 		mn := Measure(noisy.Temp, k0, 18, 18, band, ts)
-		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", o.noise, sc.Seed, band)
+		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", sd, sc.Seed, band)
 		fmt.Fprintf(w, "    peak deviation          %5.2f degC\n", mn.PeakDeviation)
 		fmt.Fprintf(w, "    outside the band        %5.1f %% of the time after the step\n", 100*fractionOutside(noisy.Temp[k0:], 18, band))
 	}
 	warnOutside(w, pl, clean, noisy)
-	fmt.Fprint(w, "\n"+caution)
 	return nil
+}
+
+// measure runs sc from valve u0 as runBoth does, measures the
+// noise-free run from the step (the output going from before to after
+// degC, within PlantSettleBand) and heads its figures. It returns both
+// runs, the sample of the step and the figures.
+func (pl *plant) measure(w io.Writer, sc Scenario, u0, sd, before, after float64) (clean Trace, noisy *Trace, k0 int, m StepMetrics, err error) {
+	if clean, noisy, err = pl.runBoth(w, sc, u0, sd); err != nil {
+		return clean, nil, 0, m, err
+	}
+	k0 = clean.Index(sc.StepAt)
+	m = Measure(clean.Temp, k0, before, after, PlantSettleBand, pl.proc.Interval())
+	fmt.Fprintf(w, "  without noise:\n")
+	return clean, noisy, k0, m, nil
 }
 
 // runBoth runs sc with the PI under test from valve u0, without noise

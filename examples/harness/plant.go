@@ -6,6 +6,7 @@ import (
 	"math"
 	"strings"
 
+	"github.com/backshift/backshift/examples/internal/suggest"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
@@ -143,7 +144,7 @@ func NewProcess(spec string, seed uint64, sd float64) (*Process, error) {
 func (p *Process) check() error {
 	m := p.model
 	if m.Output != outputName {
-		fix := didYouMean(m.Output, outputName)
+		fix := suggest.DidYouMean(m.Output, outputName)
 		if fix == "" {
 			fix = "rename the output to " + outputName + " if it is that temperature"
 		}
@@ -165,7 +166,7 @@ func (p *Process) check() error {
 		case outdoorName:
 			p.out = i
 		default:
-			fix := didYouMean(in.Series, valveName, outdoorName)
+			fix := suggest.DidYouMean(in.Series, valveName, outdoorName)
 			if fix == "" {
 				fix = "rename it to one of those, or remove its term"
 			}
@@ -241,38 +242,6 @@ func (p *Process) pathGain(i int) (float64, error) {
 				"check the sign of the numerator and any differencing of valve", g)}
 	}
 	return g, nil
-}
-
-// didYouMean returns "did you mean X?" when name is close to one of
-// the candidates (the same but for case, or within two edits), else "".
-func didYouMean(name string, candidates ...string) string {
-	for _, c := range candidates {
-		if strings.EqualFold(name, c) || editDistance(name, c) <= 2 {
-			return "did you mean " + c + "?"
-		}
-	}
-	return ""
-}
-
-// editDistance is the Levenshtein distance between a and b (bytes).
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
 }
 
 // Interval returns the sample interval in minutes.

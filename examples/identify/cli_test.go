@@ -66,15 +66,13 @@ func run(t *testing.T, o Options) (*Outcome, string, error) {
 	return res, out.String(), err
 }
 
-// trueSpec is the structure of the demo's true model (greenhouse.True)
-// with free coefficients.
-const trueSpec = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
-
 // TestFailedFitIsNotAdequate is item 2 of the issue: a spec fitted to 20
 // rows does not converge and has no standard errors. The report must not
 // call it adequate, must not offer its paths for control work, must
 // print no NaN, and -save must refuse it unless forced; forced, the
 // saved record says so.
+// Its length is one run followed through its report, save and
+// forced save.
 func TestFailedFitIsNotAdequate(t *testing.T) {
 	path := writeFile(t, "short.csv", lines(ghCSV(t), func(i int) bool { return i < 20 }))
 	o := DefaultOptions()
@@ -236,10 +234,11 @@ func gapRecord(t *testing.T, from, to int) (string, map[string][]float64) {
 
 // TestGapRemedies is the issue's test of real data with a gap: the demo
 // record with a stretch deleted is refused by default, naming the rows;
-// each remedy does what it says: holding fills the missing samples with
+// each fill does what it says: holding fills the missing samples with
 // the last value before the gap, linear interpolation with the straight
-// line between the rows either side, and the longest stretch is the
-// part after the gap.
+// line between the rows either side (TestLongestStretch tries the
+// third remedy).
+// Its length is the refusal and both fills, checked sample by sample.
 func TestGapRemedies(t *testing.T) {
 	// Five minutes missing: 1000..1004. Line 1001 holds minute 999 (the
 	// header is line 1), line 1002 minute 1005.
@@ -302,11 +301,14 @@ func TestGapRemedies(t *testing.T) {
 			t.Errorf("%s: notes %q lack %q", kind, ds.notes, want)
 		}
 	}
+}
 
-	// 200 minutes missing (2000..2199): the longest stretch is the
-	// 3560 samples after the gap, lines 2002..5561.
-	path, full = gapRecord(t, 2000, 2200)
-	o = DefaultOptions()
+// TestLongestStretch: with 200 minutes missing (2000..2199), -gaps
+// longest fits the 3560 samples after the gap, lines 2002..5561, and a
+// whole run with linear:200 says in its report what was done.
+func TestLongestStretch(t *testing.T) {
+	path, full := gapRecord(t, 2000, 2200)
+	o := DefaultOptions()
 	o.Data, o.Gaps = path, "longest"
 	ds, err := load(o, record.Remedy{Kind: "longest"})
 	if err != nil {
@@ -323,7 +325,7 @@ func TestGapRemedies(t *testing.T) {
 
 	// The whole run says what was done, in the report.
 	o = DefaultOptions()
-	o.Data, o.Gaps, o.Spec, o.Horizon = path, "linear:200", trueSpec, 0
+	o.Data, o.Gaps, o.Spec, o.Horizon = path, "linear:200", greenhouse.Structure, 0
 	res, out, err := run(t, o)
 	if err != nil {
 		t.Fatal(err)
@@ -339,27 +341,34 @@ func TestGapRemedies(t *testing.T) {
 	}
 }
 
-// TestTimeColumns: timestamps next to a text column, dates alone,
-// irregular steps and times out of order.
-func TestTimeColumns(t *testing.T) {
-	var ts, daily, jitter strings.Builder
-	ts.WriteString("when,note,valve,temp\n")
-	daily.WriteString("date,valve,temp\n")
-	jitter.WriteString("time (s),valve,temp\n")
+// timeRecords returns three small records of 50 rows with a time
+// column: ts (timestamps every 10 s next to a text column "note"),
+// daily (dates, with 29..31 January missing) and jitter (seconds, every
+// 60 s but 90 s from row 29 to row 30, lines 31 and 32).
+func timeRecords() (ts, daily, jitter string) {
+	var tb, db, jb strings.Builder
+	tb.WriteString("when,note,valve,temp\n")
+	db.WriteString("date,valve,temp\n")
+	jb.WriteString("time (s),valve,temp\n")
 	rng := rand.New(rand.NewPCG(1, 2))
 	for i := range 50 {
 		v, y := 40+20*rng.Float64(), 15+rng.Float64()
-		fmt.Fprintf(&ts, "2026-01-01T10:%02d:%02dZ,reading %d ok,%.3f,%.3f\n", i*10/60, i*10%60, i, v, y)
-		// Days 1..28 of January, then of February: 29..31 January are
-		// missing.
-		fmt.Fprintf(&daily, "1972-%02d-%02d,%.3f,%.3f\n", 1+i/28, 1+i%28, v, y)
-		// Every 60 s, but 90 s from row 29 to row 30 (lines 31, 32).
-		fmt.Fprintf(&jitter, "%g,%.3f,%.3f\n", 60*float64(i)+map[bool]float64{true: 30}[i >= 30], v, y)
+		fmt.Fprintf(&tb, "2026-01-01T10:%02d:%02dZ,reading %d ok,%.3f,%.3f\n", i*10/60, i*10%60, i, v, y)
+		// Days 1..28 of January, then of February.
+		fmt.Fprintf(&db, "1972-%02d-%02d,%.3f,%.3f\n", 1+i/28, 1+i%28, v, y)
+		fmt.Fprintf(&jb, "%g,%.3f,%.3f\n", 60*float64(i)+map[bool]float64{true: 30}[i >= 30], v, y)
 	}
+	return tb.String(), db.String(), jb.String()
+}
+
+// TestTimeColumns: timestamps next to a text column, dates alone and
+// irregular steps.
+func TestTimeColumns(t *testing.T) {
+	ts, daily, jitter := timeRecords()
 	o := DefaultOptions()
 	o.Inputs = []string{"valve"}
 
-	o.Data = writeFile(t, "ts.csv", ts.String())
+	o.Data = writeFile(t, "ts.csv", ts)
 	ds, err := load(o, record.Remedy{})
 	if err != nil {
 		t.Fatal(err)
@@ -368,7 +377,7 @@ func TestTimeColumns(t *testing.T) {
 		t.Errorf("timestamps: interval %v %s, n %d, notes %q", ds.interval, ds.unit, ds.n, ds.notes)
 	}
 
-	o.Data = writeFile(t, "daily.csv", daily.String())
+	o.Data = writeFile(t, "daily.csv", daily)
 	_, err = load(o, record.Remedy{})
 	var ge *record.GapError
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), "not evenly spaced at 1 d") ||
@@ -376,7 +385,7 @@ func TestTimeColumns(t *testing.T) {
 		t.Errorf("dates: %v", err)
 	}
 
-	o.Data = writeFile(t, "jitter.csv", jitter.String())
+	o.Data = writeFile(t, "jitter.csv", jitter)
 	_, err = load(o, record.Remedy{Kind: "linear", Max: 5})
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), `line 32 ("1830") comes 1.5 intervals after line 31 ("1740"): not a whole number of intervals`) ||
 		!strings.Contains(err.Error(), "these are irregular or longer") || !strings.Contains(err.Error(), "must be resampled to the interval first") {
@@ -386,23 +395,32 @@ func TestTimeColumns(t *testing.T) {
 	if err != nil || ds.n != 30 || !strings.Contains(ds.notes[1], "fitting only lines 2 to 31 (30 samples), the longest evenly spaced stretch; 20 of 50 rows left out") {
 		t.Errorf("irregular, longest: %v %+v", err, ds)
 	}
+}
 
-	// Times out of order.
-	back := strings.Replace(ts.String(), "2026-01-01T10:00:20Z", "2026-01-01T09:00:20Z", 1)
+// TestTimeColumnMistakes: times out of order, -time-unit on timestamps,
+// a named time column that is missing, a series or not times, a date
+// form not read, -gaps without a time column and a text column named as
+// a series.
+// Its length is one mistake after another on the same records.
+func TestTimeColumnMistakes(t *testing.T) {
+	ts, _, _ := timeRecords()
+	o := DefaultOptions()
+	o.Inputs = []string{"valve"}
+	back := strings.Replace(ts, "2026-01-01T10:00:20Z", "2026-01-01T09:00:20Z", 1)
 	o.Data = writeFile(t, "back.csv", back)
 	var ce *record.LineError
 	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || ce.Line != 4 || !strings.Contains(err.Error(), `back.csv:4: column "when": the time goes back: "2026-01-01T09:00:20Z" after "2026-01-01T10:00:10Z" on line 3`) {
 		t.Errorf("backwards: %v", err)
 	}
 
-	o.Data, o.TimeUnit = writeFile(t, "ts.csv", ts.String()), "min"
+	o.Data, o.TimeUnit = writeFile(t, "ts.csv", ts), "min"
 	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time-unit = min: for a time column of numbers, and "when" holds timestamps or dates: leave -time-unit out`) {
 		t.Errorf("-time-unit on timestamps: %v", err)
 	}
 	o.TimeUnit = ""
 
 	// A named time column that is missing, or is a series.
-	o.Data = writeFile(t, "ts.csv", ts.String())
+	o.Data = writeFile(t, "ts.csv", ts)
 	o.Time = "stamp"
 	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time = "stamp": `+o.Data+` has no such column (columns: when, note, valve, temp; -time none: no time column)`) {
 		t.Errorf("missing time column: %v", err)
@@ -442,7 +460,7 @@ func TestTimeColumns(t *testing.T) {
 	// A text column the run does not name is not read; one it names is
 	// reported at its first cell.
 	o = DefaultOptions()
-	o.Data, o.Inputs = writeFile(t, "ts.csv", ts.String()), []string{"note"}
+	o.Data, o.Inputs = writeFile(t, "ts.csv", ts), []string{"note"}
 	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a finite number`) {
 		t.Errorf("named text column: %v", err)
 	}
@@ -530,7 +548,8 @@ func TestPlanOutsideRecord(t *testing.T) {
 // TestMessagesBlameTheRightThing is item 7 and item 22: a 1-row file, a
 // semicolon-separated file, constant columns, a decimal comma, a byte
 // order mark, carriage-return line ends, a huge cell, and stray quotes
-// (item 13, which panicked).
+// (item 13: a typed error, never a panic).
+// Its length is the table of files.
 func TestMessagesBlameTheRightThing(t *testing.T) {
 	gh := ghCSV(t)
 	ok := lines(gh, func(i int) bool { return i < 200 })

@@ -74,16 +74,19 @@
 // dithered valve under feedback) the start-up transient would otherwise
 // be read as slow noise.
 //
-// Pictures (-pictures DIR): data.png (the record: output with its
-// setpoint on the demo, and each input), ccf.png (prewhitened cross-correlation with
-// 95 % bands), weights.png (impulse-response weights with +-2 standard
-// errors), residual-acf.png (residual autocorrelation with bands),
-// step.png (step responses in minutes with the dead time and settling
-// time marked), fit.png (observed against one-step-ahead fitted values,
-// and the residuals), simulation.png (observed against the noise-free
+// Pictures (-pictures DIR), drawn by examples/chart at 220 dots per
+// inch with their legends beside the data: data.png (the record: output
+// with its setpoint on the demo, and each input as recorded under its
+// 15-sample moving average, which shows a dithered valve's slow part),
+// ccf.png (prewhitened cross-correlation with 95 % bands), weights.png
+// (impulse-response weights with +-2 standard errors), residual-acf.png
+// (residual autocorrelation with bands), step.png (step responses in
+// minutes with the dead time and settling time marked), fit.png
+// (observed, drawn over the one-step-ahead fitted values, and the
+// residuals), simulation.png (observed, drawn over the noise-free
 // simulation from the inputs alone, the part a controller acts on, and
-// their difference) and forecast.png (forecast with its interval, and the
-// planned input).
+// their difference) and forecast.png (forecast with its interval, and
+// the planned input).
 //
 // Progress goes to standard error; results to standard output.
 //

@@ -57,7 +57,8 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 			t.Errorf("output lacks %q", want)
 		}
 	}
-	// Every picture is a readable PNG of a sensible size.
+	// Every picture is a readable PNG large enough for print (18 cm at
+	// 220 dots per inch is 1,559 pixels wide).
 	want := []string{"data", "ccf", "weights", "residual-acf", "step", "fit", "simulation", "forecast"}
 	if len(res.Pictures) != len(want) {
 		t.Fatalf("pictures %v, want %v", res.Pictures, want)
@@ -75,7 +76,7 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
 		}
-		if b := img.Bounds(); b.Dx() < 600 || b.Dy() < 250 {
+		if b := img.Bounds(); b.Dx() < 1500 || b.Dy() < 500 {
 			t.Errorf("%s is only %dx%d pixels", name, b.Dx(), b.Dy())
 		}
 	}
@@ -92,7 +93,7 @@ func TestRecoveryOtherSeeds(t *testing.T) {
 	}
 	for seed := uint64(1); seed <= 2; seed++ {
 		g := greenhouse.Generate(greenhouse.Settings{Seed: seed})
-		data := map[string][]float64{"temp": g.Temp, "valve": g.Valve, "outdoor": g.Outdoor}
+		data := g.ByName()
 		cands, err := tf.Identify(context.Background(), "temp", []string{"valve", "outdoor"}, data, identifySettings(g.Len()/20))
 		if err != nil {
 			t.Fatal(err)
@@ -122,6 +123,8 @@ func TestRecoveryOtherSeeds(t *testing.T) {
 
 // TestSpecAndCSV writes the built-in record as CSV, reads it back with
 // the file flags and fits the true structure given as a spec.
+// Its length is one run checked through its report and its saved
+// record.
 func TestSpecAndCSV(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "greenhouse.csv")
 	var buf bytes.Buffer
@@ -131,7 +134,7 @@ func TestSpecAndCSV(t *testing.T) {
 	o := DefaultOptions()
 	o.Data = path
 	o.Interval, o.Unit = 1, "min"
-	o.Spec = "temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a"
+	o.Spec = greenhouse.Structure
 	o.Save = filepath.Join(t.TempDir(), "fitted.json")
 	buf.Reset()
 	var progress bytes.Buffer
@@ -178,7 +181,7 @@ func TestSpecAndCSV(t *testing.T) {
 	}
 	// The CSV holds 4 decimals: the ranges agree with the record to
 	// 5e-5 (half a unit of the last decimal).
-	for name, s := range map[string][]float64{"temp": g.Temp, "valve": g.Valve, "outdoor": g.Outdoor} {
+	for name, s := range g.ByName() {
 		r := v.Ranges[name]
 		if math.Abs(r[0]-slices.Min(s)) > 5e-5 || math.Abs(r[1]-slices.Max(s)) > 5e-5 {
 			t.Errorf("range of %s %v, record %v..%v", name, r, slices.Min(s), slices.Max(s))
@@ -227,9 +230,9 @@ func TestPlanAndInterval(t *testing.T) {
 	}
 }
 
-// TestBadForecastFlags: a horizon beyond the record (which used to run
-// the machine out of memory at 10^11), a negative one and a plan with a
-// non-number or NaN are reported before the fit starts.
+// TestBadForecastFlags: a horizon beyond the record (at 10^11 it would
+// ask for more memory than a machine has), a negative one and a plan
+// with a non-number or NaN are reported before the fit starts.
 func TestBadForecastFlags(t *testing.T) {
 	for _, c := range []struct {
 		horizon int

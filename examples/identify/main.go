@@ -5,7 +5,6 @@ import (
 	"errors"
 	"flag"
 	"fmt"
-	"github.com/backshift/backshift/tf"
 	"io"
 	"os"
 	"slices"
@@ -14,7 +13,9 @@ import (
 	"time"
 	"unicode/utf8"
 
+	"github.com/backshift/backshift/examples/internal/cmdline"
 	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf"
 )
 
 // Options are the command-line settings of one run.
@@ -126,15 +127,13 @@ const (
 // bad command line, 3 a report whose model is NOT ADEQUATE (printed in
 // full, so that scripts notice; a -save refused for that reason also
 // ends with 3).
+//
+// Its length is the list of flags, one line each.
 func cli(args []string, stdout, stderr io.Writer) int {
 	o := DefaultOptions()
 	var inputs, interval, sep string
 	fs := flag.NewFlagSet("identify", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	fs.Usage = func() {
-		fmt.Fprint(fs.Output(), usage)
-		fs.PrintDefaults()
-	}
 	fs.StringVar(&o.Data, "data", "", "CSV file with a header line of column names (default: the built-in greenhouse record)")
 	fs.StringVar(&sep, "sep", ",", "field separator of the CSV file: a character such as ';', or tab")
 	fs.StringVar(&o.Time, "time", "", "time column of the CSV file (default: the first column, when it holds timestamps or dates, or numbers under a name such as time or minute); none: no time column")
@@ -152,11 +151,8 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.StringVar(&o.Plan, "plan", "", "planned first input after the record, as from:value pairs (samples from the end, each sample once, all before the -horizon), or hold (default: the demo plan "+demoPlan+" on the built-in record, hold for a file)")
 	fs.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500; other negative values are refused)")
 	fs.BoolVar(&o.Quiet, "quiet", false, "no progress messages on standard error")
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return 0
-		}
-		return 2
+	if status, stop := cmdline.Parse(fs, usage, args); stop {
+		return status
 	}
 	if fs.NArg() > 0 {
 		a := fs.Arg(0)

@@ -1,308 +1,266 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"image/color"
 	"math"
-	"path/filepath"
 
-	"gonum.org/v1/plot/vg"
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/examples/chart"
+	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/tf"
 	"gonum.org/v1/plot/vg/draw"
 )
 
-// Colours used in every picture: data in dark grey, model in blue,
-// bands and limits in red/orange, the truth (demo only) in green.
-var (
-	colData  = color.RGBA{R: 60, G: 60, B: 60, A: 255}
-	colModel = color.RGBA{R: 31, G: 100, B: 190, A: 255}
-	colBand  = color.RGBA{R: 205, G: 60, B: 40, A: 255}
-	colTrue  = color.RGBA{R: 40, G: 150, B: 60, A: 255}
-	colFill  = color.NRGBA{R: 31, G: 100, B: 190, A: 70}
-	colSEs   = color.NRGBA{R: 205, G: 60, B: 40, A: 50}
-	colMark  = color.RGBA{R: 230, G: 140, B: 20, A: 255}
-)
-
-// newPlot returns an empty chart with its title and axis labels.
-func newPlot(title, x, y string) *chart {
-	return &chart{Title: title, XLabel: x, YLabel: y}
+// palette holds the colours of every picture: data in dark grey, model
+// in blue, bands and limits in red and orange, the truth (demo only) in
+// green.
+var palette = struct {
+	data, raw, axis, model, under, band, truth, fill, errors, mark color.Color
+}{
+	data:   color.RGBA{R: 60, G: 60, B: 60, A: 255},
+	raw:    color.RGBA{R: 175, G: 175, B: 175, A: 255}, // a raw input under its moving average
+	axis:   color.Gray{Y: 120},                         // the zero line, a final value
+	model:  color.RGBA{R: 31, G: 100, B: 190, A: 255},
+	under:  color.RGBA{R: 130, G: 175, B: 235, A: 255}, // a model line drawn wide under the observed one
+	band:   color.RGBA{R: 205, G: 60, B: 40, A: 255},
+	truth:  color.RGBA{R: 40, G: 150, B: 60, A: 255},
+	fill:   color.NRGBA{R: 31, G: 100, B: 190, A: 70}, // a forecast interval
+	errors: color.NRGBA{R: 205, G: 60, B: 40, A: 50},  // +-2 standard errors
+	mark:   color.RGBA{R: 230, G: 140, B: 20, A: 255},
 }
 
-// stems adds a stem plot (a vertical line from 0 and a dot per lag).
-func stems(p *chart, x, y []float64, c color.Color) {
-	p.add(&mark{kind: markStems, x: x, y: y, Color: c, Width: vg.Points(1.5),
-		Glyph: draw.CircleGlyph{}, Radius: vg.Points(2)})
+// smoothing is the number of samples averaged in the moving average
+// drawn over each input: a quarter of an hour on the demo, whose valve
+// carries a test signal that changes every minute and, drawn raw, fills
+// a solid band.
+const smoothing = 15
+
+// inputTrace draws an input as recorded, thin and light, with its
+// moving average over smoothing samples on top.
+func inputTrace(c *chart.Chart, t, x []float64) {
+	c.Legend("as recorded", c.Line(t, x, palette.raw, 0.5))
+	c.Legend(fmt.Sprintf("%d-sample mean", smoothing), c.Line(t, chart.MovingAverage(x, smoothing), palette.model, 1.2))
 }
 
-// dots adds a glyph per point.
-func dots(p *chart, x, y []float64, c color.Color, g draw.GlyphDrawer, radius float64) *mark {
-	return p.add(&mark{kind: markDots, x: x, y: y, Color: c, Glyph: g, Radius: vg.Points(radius)})
-}
-
-// hline adds a horizontal line at y from x0 to x1.
-func hline(p *chart, y, x0, x1 float64, c color.Color, dashed bool) *mark {
-	m := p.add(&mark{kind: markLine, x: []float64{x0, x1}, y: []float64{y, y}, Color: c, Width: vg.Points(1)})
-	if dashed {
-		m.Dashes = []vg.Length{vg.Points(4), vg.Points(3)}
+// recordPicture draws the record: the output (with its setpoint on the
+// demo) and each input against time.
+func recordPicture(path string, ds *dataset) error {
+	y := ds.data[ds.output]
+	t := times(len(y), 0, ds.step())
+	xlabel := "time (" + ds.timeUnit() + ")"
+	out := chart.New("Output: "+ds.output, xlabel, ds.output+outputUnit(ds))
+	l := out.Line(t, y, palette.data, 0.8)
+	if sp, ok := ds.setpoint(); ds.builtin && ok {
+		out.Legend(ds.output, l)
+		out.Legend("setpoint", out.Line(t, sp, palette.band, 1.2))
 	}
-	return m
-}
-
-// vline adds a dashed vertical line at x from y0 to y1.
-func vline(p *chart, x, y0, y1 float64, c color.Color) *mark {
-	return p.add(&mark{kind: markLine, x: []float64{x, x}, y: []float64{y0, y1}, Color: c,
-		Width: vg.Points(1.5), Dashes: []vg.Length{vg.Points(5), vg.Points(3)}})
-}
-
-// line adds a polyline of x, y (broken where a value is NaN).
-func line(p *chart, x, y []float64, c color.Color, width float64) *mark {
-	return p.add(&mark{kind: markLine, x: x, y: y, Color: c, Width: vg.Points(width)})
-}
-
-// band adds a filled area between lo and hi.
-func band(p *chart, x, lo, hi []float64, c color.Color) *mark {
-	px := make([]float64, 0, 2*len(x))
-	py := make([]float64, 0, 2*len(x))
-	for i := range x {
-		px, py = append(px, x[i]), append(py, hi[i])
+	panels := []*chart.Chart{out}
+	for _, name := range ds.inputs {
+		in := chart.New("Input: "+name, xlabel, inputUnit(ds, name))
+		inputTrace(in, t, ds.data[name])
+		panels = append(panels, in)
 	}
-	for i := len(x) - 1; i >= 0; i-- {
-		px, py = append(px, x[i]), append(py, lo[i])
-	}
-	return p.add(&mark{kind: markFill, x: px, y: py, Color: c})
+	return chart.Save(path, panels, 18, 5.5)
 }
 
-// picturePath returns dir/name.png.
-func picturePath(dir, name string) string { return filepath.Join(dir, name+".png") }
-
-// corrPanel is one panel of correlations against lag with a +-band.
-type corrPanel struct {
-	Title string
-	Lags  []float64 // in time units
-	R     []float64
-	Band  float64 // half-width of the significance band
-	// Mark, when >= 0 (time units), is a lag to mark (the dead time).
-	Mark      float64
-	MarkLabel string
-	// LegendBottom puts the legend at the bottom right, below the
-	// stems.
-	LegendBottom bool
+// correlationChart returns a panel of correlations r against lags as
+// stems, with the band of +-band drawn dashed.
+func correlationChart(title, xlabel, ylabel string, lags, r []float64, band float64) *chart.Chart {
+	c := chart.New(title, xlabel, ylabel)
+	lo, hi := lags[0], lags[len(lags)-1]
+	c.HLine(0, lo, hi, palette.axis)
+	c.Legend("correlation", c.Stems(lags, r, palette.model))
+	c.Legend(fmt.Sprintf("95 %% band (+-%.3f)", band), c.HLine(band, lo, hi, palette.band).Dashed(4, 3))
+	c.HLine(-band, lo, hi, palette.band).Dashed(4, 3)
+	return c
 }
 
-// plotCorrelations writes stacked correlation panels with their bands.
-func plotCorrelations(path string, panels []corrPanel, xlabel, ylabel string) error {
-	var ps []*chart
-	for _, c := range panels {
-		p := newPlot(c.Title, xlabel, ylabel)
-		lo, hi := c.Lags[0], c.Lags[len(c.Lags)-1]
-		hline(p, 0, lo, hi, color.Gray{Y: 120}, false)
-		stems(p, c.Lags, c.R, colModel)
-		l := hline(p, c.Band, lo, hi, colBand, true)
-		hline(p, -c.Band, lo, hi, colBand, true)
-		p.addLegend(fmt.Sprintf("95 %% band (+-%.3f)", c.Band), l)
-		p.LegendTop = !c.LegendBottom
-		ymin, ymax := minMax(c.R)
-		ymin, ymax = math.Min(ymin, -c.Band), math.Max(ymax, c.Band)
-		if c.LegendBottom {
-			// Room below the stems for the legend.
-			span := ymax - ymin
-			p.setY(ymin-0.45*span, ymax+0.04*span)
+// correlationPicture draws each input's prewhitened cross-correlation
+// with the output, from lag -10 on, with its 95 % band and the fitted
+// dead time marked.
+func correlationPicture(path string, ds *dataset, pw []prewhitened, est *tf.Estimate) error {
+	dt, unit := ds.step(), ds.timeUnit()
+	var panels []*chart.Chart
+	for _, p := range pw {
+		var lags, r []float64
+		last := len(p.Weights.V) - 1
+		for k := -min(10, last); k <= last; k++ {
+			lags = append(lags, float64(k)*dt)
+			r = append(r, p.Corr.At(k))
 		}
-		if c.Mark >= 0 {
-			p.addLegend(c.MarkLabel, vline(p, c.Mark, ymin, ymax, colMark))
-		}
-		ps = append(ps, p)
-	}
-	return savePanels(path, ps, 16, 7)
-}
-
-func minMax(x []float64) (lo, hi float64) {
-	lo, hi = math.Inf(1), math.Inf(-1)
-	for _, v := range x {
-		if math.IsNaN(v) {
-			continue
-		}
-		lo, hi = math.Min(lo, v), math.Max(hi, v)
-	}
-	return lo, hi
-}
-
-// weightPanel is one panel of impulse-response weights with standard
-// errors.
-type weightPanel struct {
-	Title  string
-	Lags   []float64 // time units
-	V, SE  []float64
-	YLabel string
-	// True, when not nil, are the true weights (demo data only).
-	True []float64
-}
-
-// plotWeights writes stacked impulse-response weight panels: stems with
-// +-2 SE limits around zero.
-func plotWeights(path string, panels []weightPanel, xlabel string) error {
-	var ps []*chart
-	for _, w := range panels {
-		p := newPlot(w.Title, xlabel, w.YLabel)
-		lo, hi := w.Lags[0], w.Lags[len(w.Lags)-1]
-		hline(p, 0, lo, hi, color.Gray{Y: 120}, false)
-		up := make([]float64, len(w.SE))
-		dn := make([]float64, len(w.SE))
-		for i, s := range w.SE {
-			up[i], dn[i] = 2*s, -2*s
-		}
-		p.addLegend("+-2 standard errors", band(p, w.Lags, dn, up, colSEs))
-		stems(p, w.Lags, w.V, colModel)
-		if w.True != nil {
-			p.addLegend("true weights", dots(p, w.Lags, w.True, colTrue, draw.CrossGlyph{}, 3))
-		}
-		p.LegendTop = true
-		ps = append(ps, p)
-	}
-	return savePanels(path, ps, 16, 7)
-}
-
-// stepPanel is one input's step response.
-type stepPanel struct {
-	Title    string
-	T        []float64 // time units
-	Y        []float64 // response to a unit step
-	True     []float64 // demo only, or nil
-	Final    float64   // the gain
-	Settling float64   // time units, NaN if none
-	DeadTime float64   // time units
-	YLabel   string
-	Unit     string // time unit for the legend
-}
-
-// plotSteps writes stacked step-response panels with the final value,
-// the dead time and the settling time marked.
-func plotSteps(path string, panels []stepPanel, xlabel string) error {
-	var ps []*chart
-	for _, s := range panels {
-		p := newPlot(s.Title, xlabel, s.YLabel)
-		lo, hi := s.T[0], s.T[len(s.T)-1]
-		ymin, ymax := minMax(s.Y)
-		ymin, ymax = math.Min(ymin, 0), math.Max(ymax, 0)
-		if s.Final < 0 {
-			ymin = math.Min(ymin, s.Final*1.05)
-		} else {
-			ymax = math.Max(ymax, s.Final*1.05)
-		}
-		p.addLegend(fmt.Sprintf("gain %.3g", s.Final), hline(p, s.Final, lo, hi, color.Gray{Y: 110}, true))
-		p.addLegend("fitted model", line(p, s.T, s.Y, colModel, 2.5))
-		if s.True != nil {
-			// Drawn over the fitted curve, dotted, so both show where
-			// they coincide.
-			l := line(p, s.T, s.True, colTrue, 1.5)
-			l.Dashes = []vg.Length{vg.Points(2), vg.Points(3)}
-			p.addLegend("true model", l)
-		}
-		if !math.IsNaN(s.Settling) {
-			p.addLegend(fmt.Sprintf("settled within 2 %% at %.0f %s", s.Settling, s.Unit),
-				vline(p, s.Settling, ymin, ymax, colMark))
-		}
-		d := vline(p, s.DeadTime, ymin, ymax, colBand)
-		d.Dashes = []vg.Length{vg.Points(1), vg.Points(2)}
-		p.addLegend("dead time "+amount(s.DeadTime, s.Unit), d)
-		p.LegendTop = s.Final < 0
-		p.setY(ymin, ymax)
-		ps = append(ps, p)
-	}
-	return savePanels(path, ps, 16, 7)
-}
-
-// plotFit writes observed against fitted (one-step-ahead) values: the
-// whole record, a zoom on the last window with the observations as
-// dots, and the residuals of the whole record.
-func plotFit(path string, t, obs, fit []float64, window, first int, xlabel, ylabel string) error {
-	whole := newPlot("Observed and fitted (one step ahead), whole record", xlabel, ylabel)
-	whole.addLegend("observed", line(whole, t, obs, colData, 1.2))
-	whole.addLegend("fitted", line(whole, t, fit, colModel, 0.6))
-	n := len(t)
-	k := max(0, n-window)
-	zoom := newPlot("Last part of the record, zoomed", xlabel, ylabel)
-	zoom.addLegend("observed", dots(zoom, t[k:], obs[k:], colData, draw.CircleGlyph{}, 1.6))
-	zoom.addLegend("fitted", line(zoom, t[k:], fit[k:], colModel, 1.5))
-	zoom.LegendTop = true
-	res := newPlot(fmt.Sprintf("Residuals (observed - fitted), summed from sample %d on", first), xlabel, ylabel)
-	r := make([]float64, n)
-	for i := range r {
-		r[i] = obs[i] - fit[i]
-	}
-	hline(res, 0, t[0], t[n-1], color.Gray{Y: 120}, false)
-	line(res, t, r, colData, 0.5)
-	return savePanels(path, []*chart{whole, zoom, res}, 18, 6.5)
-}
-
-// plotForecast writes the recent past, the forecast with its interval,
-// and below it the planned input schedule.
-func plotForecast(path string, tPast, yPast, tFut, yFut, lo, hi []float64, level float64,
-	inputName string, tIn, uIn []float64, xlabel, ylabel, ulabel string) error {
-	p := newPlot("Forecast of "+ylabel, xlabel, ylabel)
-	b := band(p, tFut, lo, hi, colFill)
-	p.addLegend("observed", line(p, tPast, yPast, colData, 1.2))
-	p.addLegend("forecast", line(p, tFut, yFut, colModel, 2))
-	p.addLegend(fmt.Sprintf("%.0f %% interval", 100*level), b)
-	p.LegendLeft = true
-	q := newPlot("Planned "+inputName, xlabel, ulabel)
-	var tp, up, tf, uf []float64
-	for i, t := range tIn {
-		if t <= 0 {
-			tp, up = append(tp, t), append(up, uIn[i])
-		} else {
-			tf, uf = append(tf, t), append(uf, uIn[i])
-		}
-	}
-	q.addLegend("recorded", line(q, tp, up, color.Gray{Y: 150}, 0.7))
-	q.addLegend("planned", line(q, tf, uf, colMark, 2.5))
-	q.LegendLeft = true
-	q.setX(p.xRange())
-	return savePanels(path, []*chart{p, q}, 18, 7)
-}
-
-// seriesPanel is one panel of the record overview.
-type seriesPanel struct {
-	Title, YLabel string
-	Lines         []namedLine
-}
-
-type namedLine struct {
-	Name  string
-	Y     []float64
-	Color color.Color
-	Width float64
-}
-
-// plotSeries writes the record overview: one panel per series group
-// against time.
-func plotSeries(path string, t []float64, panels []seriesPanel, xlabel string) error {
-	var ps []*chart
-	for _, sp := range panels {
-		p := newPlot(sp.Title, xlabel, sp.YLabel)
-		for _, nl := range sp.Lines {
-			l := line(p, t, nl.Y, nl.Color, nl.Width)
-			if len(sp.Lines) > 1 {
-				p.addLegend(nl.Name, l)
+		c := correlationChart(fmt.Sprintf("Prewhitened cross-correlation, %s leading %s", p.Input, ds.output),
+			"lag ("+unit+"), positive: input leads output", "cross-correlation", lags, r, p.Corr.Band(0.95))
+		for _, in := range est.Model.Inputs {
+			if in.Series == p.Input {
+				lo, hi := c.YRange()
+				c.SetY(lo, hi)
+				b := float64(in.Delay) * dt
+				c.Legend("fitted dead time "+amount(b, unit), c.VLine(b, lo, hi, palette.mark).Dashed(5, 3))
 			}
 		}
-		ps = append(ps, p)
+		panels = append(panels, c)
 	}
-	return savePanels(path, ps, 18, 5.5)
+	return chart.Save(path, panels, 18, 7)
 }
 
-// plotSimulation writes the observed output against the model's
-// noise-free simulation from the inputs alone, and their difference (the
-// model's estimate of the disturbance).
-func plotSimulation(path string, t, obs, sim []float64, xlabel, ylabel string) error {
-	p := newPlot("Observed and simulated from the inputs alone (no noise model)", xlabel, ylabel)
-	p.addLegend("observed", line(p, t, obs, colData, 1))
-	p.addLegend("simulated", line(p, t, sim, colModel, 1.3))
-	q := newPlot("Difference: the disturbance the noise model describes", xlabel, ylabel)
+// weightsPicture draws each input's impulse-response weights as stems
+// within their +-2 standard errors (and the true weights on the demo).
+func weightsPicture(path string, ds *dataset, pw []prewhitened, _ *tf.Estimate) error {
+	var panels []*chart.Chart
+	for _, p := range pw {
+		v, se := p.Weights.V, p.Weights.SE
+		lags := times(len(v), 0, ds.step())
+		c := chart.New(fmt.Sprintf("Impulse-response weights, %s -> %s", p.Input, ds.output),
+			"lag ("+ds.timeUnit()+")", ds.output+" per unit "+p.Input)
+		c.HLine(0, lags[0], lags[len(lags)-1], palette.axis)
+		up, dn := make([]float64, len(se)), make([]float64, len(se))
+		for i, s := range se {
+			up[i], dn[i] = 2*s, -2*s
+		}
+		c.Legend("+-2 standard errors", c.Band(lags, dn, up, palette.errors))
+		c.Legend("estimated weights", c.Stems(lags, v, palette.model))
+		if ds.builtin {
+			c.YLabel = greenhouseUnits(p.Input)
+			c.Legend("true weights", c.Dots(lags, truePath(p.Input).Impulse(len(v)), palette.truth, draw.CrossGlyph{}, 3))
+		}
+		panels = append(panels, c)
+	}
+	return chart.Save(path, panels, 18, 7)
+}
+
+// residualPicture draws the autocorrelation of the residuals with its
+// 95 % band.
+func residualPicture(path string, ds *dataset, est *tf.Estimate) error {
+	r := est.Resid[est.Conditioning.First:]
+	lag := pictureLag(len(r))
+	acf, err := arma.ACF(r, lag)
+	if err != nil {
+		return err
+	}
+	c := correlationChart("Autocorrelation of the residuals", "lag ("+ds.timeUnit()+")", "autocorrelation",
+		times(lag, 1, ds.step()), acf.R[1:lag+1], 1.96*acf.White)
+	return chart.Save(path, []*chart.Chart{c}, 18, 7)
+}
+
+// stepPicture draws the step response of every path that has one, with
+// its gain, dead time and settling time marked (and the true response on
+// the demo).
+func stepPicture(path string, ds *dataset, paths []modelinfo.Path) error {
+	dt, unit := ds.step(), ds.timeUnit()
+	var panels []*chart.Chart
+	for _, p := range paths {
+		if p.Err != nil {
+			continue
+		}
+		n := int(math.Ceil(1.3*p.Step.Settle.Samples)) + 2
+		t := times(n, 0, dt)
+		c := chart.New(fmt.Sprintf("Step response of %s to a unit step in %s", ds.output, p.Input),
+			"time after the step ("+unit+")", ds.output+" per unit "+p.Input)
+		c.Legend(fmt.Sprintf("gain %.3g", p.Gain), c.HLine(p.Gain, t[0], t[n-1], palette.axis).Dashed(4, 3))
+		c.Legend("fitted model", c.Line(t, p.Rational.Step(n), palette.model, 2.5))
+		if ds.builtin {
+			// Drawn over the fitted curve, dotted, so both show where
+			// they coincide.
+			c.YLabel = greenhouseUnits(p.Input)
+			c.Legend("true model", c.Line(t, truePath(p.Input).Step(n), palette.truth, 1.5).Dashed(2, 3))
+		}
+		lo, hi := c.YRange()
+		lo, hi = math.Min(lo, 0), math.Max(hi, 0)
+		c.SetY(lo, hi)
+		if s := p.Step.Settle.Samples * dt; !math.IsNaN(s) {
+			c.Legend(fmt.Sprintf("settled within 2 %% at %.0f %s", s, unit), c.VLine(s, lo, hi, palette.mark).Dashed(5, 3))
+		}
+		d := float64(p.DeadTime) * dt
+		c.Legend("dead time "+amount(d, unit), c.VLine(d, lo, hi, palette.band).Dashed(1, 2))
+		panels = append(panels, c)
+	}
+	if len(panels) == 0 {
+		return errors.New("no input path has a step response (see the report)")
+	}
+	return chart.Save(path, panels, 18, 7)
+}
+
+// overlay returns a panel of a model's values m under the observed ones
+// y: the model drawn wide and light, the observed thin and dark on top,
+// so that the model shows where the two part.
+func overlay(title, xlabel, ylabel, model string, t, y, m []float64) *chart.Chart {
+	c := chart.New(title, xlabel, ylabel)
+	c.Legend(model, c.Line(t, m, palette.under, 2.2))
+	c.Legend("observed", c.Line(t, y, palette.data, 0.5))
+	return c
+}
+
+// difference returns a panel of y - m against t with a zero line.
+func difference(title, xlabel, ylabel string, t, y, m []float64) *chart.Chart {
+	c := chart.New(title, xlabel, ylabel)
 	d := make([]float64, len(t))
 	for i := range d {
-		d[i] = obs[i] - sim[i]
+		d[i] = y[i] - m[i]
 	}
-	hline(q, 0, t[0], t[len(t)-1], color.Gray{Y: 120}, false)
-	line(q, t, d, colData, 0.6)
-	return savePanels(path, []*chart{p, q}, 18, 6.5)
+	c.HLine(0, t[0], t[len(t)-1], palette.axis)
+	c.Line(t, d, palette.data, 0.5)
+	return c
+}
+
+// fitPicture draws the observed output against its one-step-ahead
+// fitted values: the whole record, a zoom on its last three hours (in
+// minutes; samples on a record without an interval) with the
+// observations as dots, and the residuals of the whole record.
+func fitPicture(path string, ds *dataset, est *tf.Estimate) error {
+	dt := ds.step()
+	y := ds.data[ds.output]
+	n := len(y)
+	t := times(n, 0, dt)
+	fit := make([]float64, n)
+	for i := range y {
+		fit[i] = y[i] - est.Resid[i] // NaN before the first residual
+	}
+	xlabel, ylabel := "time ("+ds.timeUnit()+")", ds.output+outputUnit(ds)
+	whole := overlay("Observed and fitted (one step ahead), whole record", xlabel, ylabel, "fitted", t, y, fit)
+	k := max(0, n-int(180/dt))
+	zoom := chart.New("Last part of the record, zoomed", xlabel, ylabel)
+	zoom.Legend("observed", zoom.Dots(t[k:], y[k:], palette.data, draw.CircleGlyph{}, 1.6))
+	zoom.Legend("fitted", zoom.Line(t[k:], fit[k:], palette.model, 1.5))
+	res := difference(fmt.Sprintf("Residuals (observed - fitted), summed from sample %d on", est.Conditioning.First),
+		xlabel, ylabel, t, y, fit)
+	return chart.Save(path, []*chart.Chart{whole, zoom, res}, 18, 6.5)
+}
+
+// simulationPicture draws the observed output against the model's
+// noise-free simulation from the inputs alone, from the first summed
+// residual on (before it the simulation is still starting up), and
+// their difference (the model's estimate of the disturbance).
+func simulationPicture(path string, ds *dataset, sim *Simulation) error {
+	from := sim.From
+	y := ds.data[ds.output][from:]
+	t := times(len(y), from, ds.step())
+	xlabel, ylabel := "time ("+ds.timeUnit()+")", ds.output+outputUnit(ds)
+	p := overlay("Observed and simulated from the inputs alone (no noise model)", xlabel, ylabel, "simulated", t, y, sim.Y[from:])
+	q := difference("Difference: the disturbance the noise model describes", xlabel, ylabel, t, y, sim.Y[from:])
+	return chart.Save(path, []*chart.Chart{p, q}, 18, 6.5)
+}
+
+// forecastPicture draws the last part of the record (twice the horizon),
+// the forecast with its interval and, below, the planned input after
+// the recorded one.
+func forecastPicture(path string, ds *dataset, fr *forecastResult) error {
+	dt, f := ds.step(), fr.f
+	y, x := ds.data[ds.output], ds.data[fr.planned]
+	n := len(y)
+	past := min(n, 2*fr.h)
+	tp := times(past, 1-past, dt)
+	tf := times(fr.h, 1, dt)
+	xlabel := "time from the end of the record (" + ds.timeUnit() + ")"
+	p := chart.New("Forecast of "+ds.output+outputUnit(ds), xlabel, ds.output+outputUnit(ds))
+	b := p.Band(tf, f.Lower, f.Upper, palette.fill)
+	p.Legend("observed", p.Line(tp, y[n-past:], palette.data, 1.2))
+	p.Legend("forecast", p.Line(tf, f.Mean, palette.model, 2))
+	p.Legend(fmt.Sprintf("%.0f %% interval", 100*f.Level), b)
+	q := chart.New("Planned "+fr.planned, xlabel, inputUnit(ds, fr.planned))
+	inputTrace(q, tp, x[n-past:])
+	q.Legend("planned", q.Line(tf, fr.plan[:fr.h], palette.mark, 2.5))
+	q.SetX(p.XRange())
+	return chart.Save(path, []*chart.Chart{p, q}, 18, 7)
 }

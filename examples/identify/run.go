@@ -111,6 +111,9 @@ func (e *SaveError) Error() string {
 // model that fails its checks is reported as such, and with o.Save the
 // run ends in a *SaveError unless o.SaveUntrusted is set; the Outcome is
 // returned with it.
+//
+// Its length is the job's steps in the order the report prints them,
+// each a call.
 func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, error) {
 	start := time.Now()
 	pr := &progress{w: stderr, start: start}
@@ -120,62 +123,13 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if o.WriteData != "" {
 		return &Outcome{}, writeBuiltin(o.WriteData, stdout)
 	}
-	// Settings that need no data are checked first: a mistyped flag
-	// should not wait for the fit, and a save to a missing folder should
-	// not fail after the whole report.
-	if o.Save != "" {
-		if err := checkSavePath(o.Save); err != nil {
-			return nil, err
-		}
-	}
-	if o.SaveUntrusted && o.Save == "" {
-		return nil, errors.New("-save-untrusted is given without -save: name the file to save to")
-	}
-	rem, err := record.ParseRemedy(o.Gaps)
-	if err != nil {
-		return nil, fmt.Errorf("-gaps %s: want hold:N or linear:N (fill gaps of up to N missing samples, N at least 1) or longest (fit the longest evenly spaced stretch)", clip(o.Gaps))
-	}
-	if _, ok := record.Seconds(o.TimeUnit); o.TimeUnit != "" && !ok {
-		return nil, fmt.Errorf("-time-unit %s: want s, min, h or d", clip(o.TimeUnit))
-	}
-	if o.Data == "" && (o.Time != "" || o.TimeUnit != "" || o.Gaps != "") {
-		return nil, errors.New("-time, -time-unit and -gaps are about a CSV file: give one with -data")
-	}
-	if _, err := parsePlan(o.Plan); err != nil {
-		return nil, err
-	}
-	if o.Skip < -1 {
-		return nil, fmt.Errorf("-skip %d: want a number of samples, 0 or more, or -1 (automatic: 5 %% of the record, at most 500)", o.Skip)
-	}
-	if o.Horizon < HorizonAuto {
-		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast), a number of samples, or -1 (automatic)", o.Horizon)
-	}
-	ds, err := load(o, rem)
+	rem, err := checkOptions(o)
 	if err != nil {
 		return nil, err
 	}
-	horizon := o.Horizon
-	if horizon == HorizonAuto {
-		horizon = min(180, ds.n/4)
-	}
-	if horizon > ds.n {
-		return nil, fmt.Errorf("-horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
-	}
-	if err := checkPlan(o.Plan, horizon, o.Horizon); err != nil {
+	ds, horizon, skip, err := loadRecord(o, rem, stdout, pr)
+	if err != nil {
 		return nil, err
-	}
-	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
-	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
-	for _, n := range ds.notes {
-		fmt.Fprintf(stdout, "  %s\n", n)
-	}
-
-	skip := o.Skip
-	if skip < 0 {
-		skip = min(ds.n/20, 500)
-	}
-	if skip >= ds.n {
-		return nil, fmt.Errorf("-skip %d: want fewer samples than the record's %d (-1: automatic)", o.Skip, ds.n)
 	}
 	var est *tf.Estimate
 	if o.Spec != "" {
@@ -189,19 +143,8 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if est.Model.Interval.Value == 0 && ds.interval > 0 {
 		est.Model.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 	}
-	out := &Outcome{Estimate: est, Record: ds.notes}
 	// The checks come first: what the report offers depends on them.
-	pr.say("checking the model")
-	var failures []string
-	if out.Diagnostics, err = tf.Check(est, ds.data, nil); err != nil {
-		// The report goes on, for a model that cannot be trusted.
-		out.Diagnostics = nil
-		failures = []string{fmt.Sprintf("the diagnostic checks could not be run: %v", err)}
-	} else {
-		out.Trusted = out.Diagnostics.Pass
-		failures = out.Diagnostics.Failures
-	}
-	out.Validity = validity(est, ds, out.Trusted, failures)
+	out, failures := checkModel(est, ds, pr)
 	if err := report(ctx, est, ds, stdout, pr, out); err != nil {
 		return nil, err
 	}
@@ -222,39 +165,145 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	fmt.Fprint(stdout, "\n"+caution)
 	if o.Pictures != "" {
-		pr.say("writing pictures to %s", o.Pictures)
-		files, skipped, err := pictures(o.Pictures, est, ds, out)
-		if err != nil {
-			return nil, fmt.Errorf("pictures: %w", err)
-		}
-		out.Pictures = files
-		fmt.Fprintf(stdout, "\nPictures written to %s:\n", o.Pictures)
-		for _, f := range files {
-			fmt.Fprintf(stdout, "  %s\n", f)
-		}
-		for _, s := range skipped {
-			fmt.Fprintf(stdout, "  (%s)\n", s)
+		if err := writePictures(o.Pictures, est, ds, out, stdout, pr); err != nil {
+			return nil, err
 		}
 	}
 	out.Elapsed = time.Since(start)
 	if o.Save != "" {
-		if !out.Trusted && !o.SaveUntrusted {
-			// Said once, by the error; the report above lists the failures.
-			return out, &SaveError{Path: o.Save, Failures: failures}
-		}
-		out.Validity.Forced = !out.Trusted
-		if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
-			return out, fmt.Errorf("-save: %w", err)
-		}
-		out.Saved = o.Save
-		if out.Trusted {
-			fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
-		} else {
-			fmt.Fprintf(stdout, "\nFitted model saved to %s MARKED AS UNTRUSTED (-save-untrusted): it fails its checks; do not use it for control work\n", o.Save)
+		if err := save(o, est, ds, out, failures, stdout); err != nil {
+			return out, err
 		}
 	}
 	pr.say("done in %.1f s", out.Elapsed.Seconds())
 	return out, nil
+}
+
+// checkOptions checks the settings that need no data, so that a
+// mistyped flag does not wait for the fit and a save to a missing folder
+// does not fail after the whole report. It returns the gap remedy of
+// o.Gaps.
+func checkOptions(o Options) (record.Remedy, error) {
+	if o.Save != "" {
+		if err := checkSavePath(o.Save); err != nil {
+			return record.Remedy{}, err
+		}
+	}
+	if o.SaveUntrusted && o.Save == "" {
+		return record.Remedy{}, errors.New("-save-untrusted is given without -save: name the file to save to")
+	}
+	rem, err := record.ParseRemedy(o.Gaps)
+	if err != nil {
+		return rem, fmt.Errorf("-gaps %s: want hold:N or linear:N (fill gaps of up to N missing samples, N at least 1) or longest (fit the longest evenly spaced stretch)", clip(o.Gaps))
+	}
+	if _, ok := record.Seconds(o.TimeUnit); o.TimeUnit != "" && !ok {
+		return rem, fmt.Errorf("-time-unit %s: want s, min, h or d", clip(o.TimeUnit))
+	}
+	if o.Data == "" && (o.Time != "" || o.TimeUnit != "" || o.Gaps != "") {
+		return rem, errors.New("-time, -time-unit and -gaps are about a CSV file: give one with -data")
+	}
+	if _, err := parsePlan(o.Plan); err != nil {
+		return rem, err
+	}
+	if o.Skip < -1 {
+		return rem, fmt.Errorf("-skip %d: want a number of samples, 0 or more, or -1 (automatic: 5 %% of the record, at most 500)", o.Skip)
+	}
+	if o.Horizon < HorizonAuto {
+		return rem, fmt.Errorf("-horizon %d: want 0 (no forecast), a number of samples, or -1 (automatic)", o.Horizon)
+	}
+	return rem, nil
+}
+
+// loadRecord loads the record, checks the forecast horizon and plan and
+// the samples to skip against its length, and says what was read. It
+// returns the record, the forecast horizon and the samples left out of
+// the fit (both resolved from their automatic settings).
+func loadRecord(o Options, rem record.Remedy, stdout io.Writer, pr *progress) (ds *dataset, horizon, skip int, err error) {
+	ds, err = load(o, rem)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	horizon = o.Horizon
+	if horizon == HorizonAuto {
+		horizon = min(180, ds.n/4)
+	}
+	if horizon > ds.n {
+		return nil, 0, 0, fmt.Errorf("-horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
+	}
+	if err := checkPlan(o.Plan, horizon, o.Horizon); err != nil {
+		return nil, 0, 0, err
+	}
+	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
+	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
+	for _, n := range ds.notes {
+		fmt.Fprintf(stdout, "  %s\n", n)
+	}
+	skip = o.Skip
+	if skip < 0 {
+		skip = min(ds.n/20, 500)
+	}
+	if skip >= ds.n {
+		return nil, 0, 0, fmt.Errorf("-skip %d: want fewer samples than the record's %d (-1: automatic)", o.Skip, ds.n)
+	}
+	return ds, horizon, skip, nil
+}
+
+// checkModel runs the diagnostic checks of est and starts the Outcome
+// with them and the validity record. It returns the reasons the model
+// fails its checks (a check that cannot be run is one; the report goes
+// on, for a model that cannot be trusted).
+func checkModel(est *tf.Estimate, ds *dataset, pr *progress) (*Outcome, []string) {
+	out := &Outcome{Estimate: est, Record: ds.notes}
+	pr.say("checking the model")
+	var failures []string
+	d, err := tf.Check(est, ds.data, nil)
+	if err != nil {
+		failures = []string{fmt.Sprintf("the diagnostic checks could not be run: %v", err)}
+	} else {
+		out.Diagnostics, out.Trusted, failures = d, d.Pass, d.Failures
+	}
+	out.Validity = validity(est, ds, out.Trusted, failures)
+	return out, failures
+}
+
+// writePictures writes the pictures into dir and lists them, and those
+// not drawn with the reason, on stdout.
+func writePictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome, stdout io.Writer, pr *progress) error {
+	pr.say("writing pictures to %s", dir)
+	files, skipped, err := pictures(dir, est, ds, out)
+	if err != nil {
+		return fmt.Errorf("pictures: %w", err)
+	}
+	out.Pictures = files
+	fmt.Fprintf(stdout, "\nPictures written to %s:\n", dir)
+	for _, f := range files {
+		fmt.Fprintf(stdout, "  %s\n", f)
+	}
+	for _, s := range skipped {
+		fmt.Fprintf(stdout, "  (%s)\n", s)
+	}
+	return nil
+}
+
+// save writes the fitted model with its validity record to o.Save, or
+// refuses with a *SaveError when it fails its checks and
+// o.SaveUntrusted is not set (said once, by the error; the report lists
+// the failures).
+func save(o Options, est *tf.Estimate, ds *dataset, out *Outcome, failures []string, stdout io.Writer) error {
+	if !out.Trusted && !o.SaveUntrusted {
+		return &SaveError{Path: o.Save, Failures: failures}
+	}
+	out.Validity.Forced = !out.Trusted
+	if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
+		return fmt.Errorf("-save: %w", err)
+	}
+	out.Saved = o.Save
+	if out.Trusted {
+		fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
+	} else {
+		fmt.Fprintf(stdout, "\nFitted model saved to %s MARKED AS UNTRUSTED (-save-untrusted): it fails its checks; do not use it for control work\n", o.Save)
+	}
+	return nil
 }
 
 // checkSavePath reports a -save file whose folder does not exist or is
@@ -297,63 +346,12 @@ func writeBuiltin(path string, stdout io.Writer) error {
 // as rem says. With a spec, the output and inputs are the spec's series.
 func load(o Options, rem record.Remedy) (*dataset, error) {
 	ds := &dataset{output: o.Output, inputs: o.Inputs, interval: o.Interval, unit: o.Unit}
-	var specIv tf.Interval
-	if o.Spec != "" {
-		m, err := parse.Model(o.Spec)
-		if err != nil {
-			return nil, fmt.Errorf("the spec does not parse:\n%w", err)
-		}
-		ds.fromSpec = true
-		ds.output, ds.inputs = m.Output, nil
-		for _, in := range m.Inputs {
-			ds.inputs = append(ds.inputs, in.Series)
-		}
-		specIv = m.Interval
-		if ds.interval > 0 && specIv.Value > 0 && !sameInterval(ds.interval, ds.unit, specIv.Value, specIv.Unit, 1e-9) {
-			return nil, fmt.Errorf("-interval %s and the spec's every %s disagree: give one interval, or the same in both",
-				ivText(ds.interval, ds.unit), ivText(specIv.Value, specIv.Unit))
-		}
-		if ds.interval == 0 && specIv.Value > 0 {
-			ds.interval, ds.unit = specIv.Value, specIv.Unit
-		}
-	}
-	if len(ds.inputs) == 0 {
-		return nil, errors.New("no input columns named (-inputs)")
-	}
-	if o.Spec == "" {
-		seen := map[string]bool{ds.output: true}
-		for _, in := range ds.inputs {
-			if seen[in] {
-				if in == ds.output {
-					return nil, fmt.Errorf("-inputs names %q, the output (-output): a series cannot drive itself", in)
-				}
-				return nil, fmt.Errorf("-inputs names %q twice", in)
-			}
-			seen[in] = true
-		}
+	if err := ds.names(o); err != nil {
+		return nil, err
 	}
 	if o.Data == "" {
-		g := greenhouse.Default()
-		ds.name = "built-in greenhouse record (4 days, PI control with a test signal)"
-		ds.builtin = true
-		ds.data = map[string][]float64{}
-		for _, n := range append([]string{ds.output}, ds.inputs...) {
-			s, ok := g.Series(n)
-			if !ok || n == greenhouse.Minute {
-				return nil, fmt.Errorf("the built-in record has no series %q (it has %s, %s, %s, %s)", n,
-					greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint)
-			}
-			ds.data[n] = s
-		}
-		if ds.interval == 0 {
-			ds.interval, ds.unit = greenhouse.Interval, "min"
-		} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
-			return nil, fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
-		}
-		// The truth is known for the demo's own output and inputs.
-		ds.builtin = ds.output == greenhouse.Output
-		for _, in := range ds.inputs {
-			ds.builtin = ds.builtin && (in == greenhouse.Valve || in == greenhouse.Outdoor)
+		if err := ds.loadBuiltin(); err != nil {
+			return nil, err
 		}
 	} else if err := loadFile(o, rem, ds); err != nil {
 		return nil, err
@@ -363,6 +361,74 @@ func load(o Options, rem record.Remedy) (*dataset, error) {
 		ds.unit = "samples"
 	}
 	return ds, nil
+}
+
+// names sets the output and inputs to read, the spec's when o has one
+// (with its interval, which must agree with -interval), and refuses no
+// inputs, an input named twice or the output named as an input.
+func (ds *dataset) names(o Options) error {
+	if o.Spec != "" {
+		m, err := parse.Model(o.Spec)
+		if err != nil {
+			return fmt.Errorf("the spec does not parse:\n%w", err)
+		}
+		ds.fromSpec = true
+		ds.output, ds.inputs = m.Output, nil
+		for _, in := range m.Inputs {
+			ds.inputs = append(ds.inputs, in.Series)
+		}
+		specIv := m.Interval
+		if ds.interval > 0 && specIv.Value > 0 && !sameInterval(ds.interval, ds.unit, specIv.Value, specIv.Unit, 1e-9) {
+			return fmt.Errorf("-interval %s and the spec's every %s disagree: give one interval, or the same in both",
+				ivText(ds.interval, ds.unit), ivText(specIv.Value, specIv.Unit))
+		}
+		if ds.interval == 0 && specIv.Value > 0 {
+			ds.interval, ds.unit = specIv.Value, specIv.Unit
+		}
+	}
+	if len(ds.inputs) == 0 {
+		return errors.New("no input columns named (-inputs)")
+	}
+	if o.Spec == "" {
+		seen := map[string]bool{ds.output: true}
+		for _, in := range ds.inputs {
+			if seen[in] {
+				if in == ds.output {
+					return fmt.Errorf("-inputs names %q, the output (-output): a series cannot drive itself", in)
+				}
+				return fmt.Errorf("-inputs names %q twice", in)
+			}
+			seen[in] = true
+		}
+	}
+	return nil
+}
+
+// loadBuiltin takes the named series from the built-in greenhouse
+// record, whose interval (1 min) any interval given must agree with.
+func (ds *dataset) loadBuiltin() error {
+	g := greenhouse.Default()
+	ds.name = "built-in greenhouse record (4 days, PI control with a test signal)"
+	ds.data = map[string][]float64{}
+	for _, n := range append([]string{ds.output}, ds.inputs...) {
+		s, ok := g.Series(n)
+		if !ok || n == greenhouse.Minute {
+			return fmt.Errorf("the built-in record has no series %q (it has %s, %s, %s, %s)", n,
+				greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint)
+		}
+		ds.data[n] = s
+	}
+	if ds.interval == 0 {
+		ds.interval, ds.unit = greenhouse.Interval, "min"
+	} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
+		return fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
+	}
+	// The truth is known for the demo's own output and inputs.
+	ds.builtin = ds.output == greenhouse.Output
+	for _, in := range ds.inputs {
+		ds.builtin = ds.builtin && (in == greenhouse.Valve || in == greenhouse.Outdoor)
+	}
+	return nil
 }
 
 // flagNames are the words record.Read's messages use for its settings:

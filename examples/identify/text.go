@@ -1,6 +1,9 @@
 package main
 
-import "strconv"
+import (
+	"math"
+	"strconv"
+)
 
 // clip quotes a flag's value or a series name the user typed for a
 // message. Text from a file is quoted by tf/record, which cuts a damaged
@@ -26,3 +29,6 @@ func amount(v float64, unit string) string {
 
 // ivText writes an interval for a message.
 func ivText(v float64, unit string) string { return strconv.FormatFloat(v, 'g', 6, 64) + " " + unit }
+
+// finite reports whether v is neither NaN nor infinite.
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

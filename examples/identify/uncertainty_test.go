@@ -19,8 +19,8 @@ import (
 // gains lie within 4 standard errors of the estimates.
 func TestDeltaSEFirstOrder(t *testing.T) {
 	g := greenhouse.Default()
-	data := map[string][]float64{"temp": g.Temp, "valve": g.Valve, "outdoor": g.Outdoor}
-	m := parse.MustModel("temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a")
+	data := g.ByName()
+	m := parse.MustModel(greenhouse.Structure)
 	est, err := tf.Fit(context.Background(), m, data, &tf.FitSettings{First: 288})
 	if err != nil {
 		t.Fatal(err)
