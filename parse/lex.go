@@ -3,7 +3,6 @@ package parse
 import (
 	"io"
 	"strings"
-	"sync"
 	"unicode/utf8"
 
 	"github.com/alecthomas/participle/v2/lexer"
@@ -176,14 +175,3 @@ func charHint(s string) string {
 
 func isDigit(c byte) bool  { return '0' <= c && c <= '9' }
 func isLetter(c byte) bool { return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' || c == '_' }
-
-// tokPool recycles token buffers between calls of Model: nothing in a
-// returned model or error points into them (token values are substrings
-// of the spec).
-var tokPool = sync.Pool{New: func() any {
-	b := make([]lexer.Token, 0, 128)
-	return &b
-}}
-
-// maxPooled is the largest token buffer kept for reuse.
-const maxPooled = 4096
