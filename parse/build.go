@@ -166,7 +166,7 @@ func (b *builder) number(p lexer.Position, text string, neg bool) (float64, bool
 
 // whole reads a whole number in lo..hi; what names it in messages and
 // unit, when not empty, follows the limit.
-func (b *builder) whole(x *whole, lo, hi int, what, unit string, kindOver error) (int, bool) {
+func (b *builder) whole(x *value, lo, hi int, what, unit string, kindOver error) (int, bool) {
 	v, err := strconv.ParseFloat(x.Num, 64)
 	text := clip(x.Num)
 	if x.Neg {

@@ -97,7 +97,7 @@ type diffSeries struct {
 // delay is B or B^k.
 type delay struct {
 	Pos lexer.Position
-	Exp *whole `parser:"\"B\" ( \"^\" @@ )?"`
+	Exp *value `parser:"\"B\" ( \"^\" @@ )?"`
 }
 
 // factor is a polynomial in parentheses, or a product of factors in
@@ -108,7 +108,7 @@ type factor struct {
 	Product *product    `parser:"      | @@ )"`
 	Close   lexer.Position
 	Paren   string `parser:"@\")\""`
-	Exp     *whole `parser:"( \"^\" @@ )?"`
+	Exp     *value `parser:"( \"^\" @@ )?"`
 }
 
 // product is a product of factors, with an optional '*' between them.
@@ -141,16 +141,10 @@ type monomial struct {
 	Bare   *delay `parser:"| @@ )"`
 }
 
-// whole is a whole-number power or order, written with an optional '-'
-// so that a negative one gets a message of its own.
-type whole struct {
-	Pos lexer.Position
-	Neg bool   `parser:"@\"-\"?"`
-	Num string `parser:"@Number"`
-}
-
-// signedNumber is a number with an optional '-'.
-type signedNumber struct {
+// value is a number with an optional '-': a power, an order, a start
+// or held value, a sample interval. A power or an order is written with
+// the '-' only so that a negative one gets a message of its own.
+type value struct {
 	Pos lexer.Position
 	Neg bool   `parser:"@\"-\"?"`
 	Num string `parser:"@Number"`
@@ -160,7 +154,7 @@ type signedNumber struct {
 type shorthand struct {
 	Pos  lexer.Position
 	Kind string   `parser:"@( \"AR\" | \"MA\" | \"ARMA\" )"`
-	Args []*whole `parser:"\"(\" @@ ( \",\" @@ )* \")\""`
+	Args []*value `parser:"\"(\" @@ ( \",\" @@ )* \")\""`
 }
 
 // clause is a where or an every clause.
@@ -173,16 +167,16 @@ type clause struct {
 // binding gives a named coefficient a start value (~) or holds it (=).
 type binding struct {
 	Pos  lexer.Position
-	Name name         `parser:"@@"`
-	Op   string       `parser:"@( \"~\" | \"=\" )"`
-	Val  signedNumber `parser:"@@"`
+	Name name   `parser:"@@"`
+	Op   string `parser:"@( \"~\" | \"=\" )"`
+	Val  value  `parser:"@@"`
 }
 
 // every is the sample interval: a number and a unit.
 type every struct {
 	Pos  lexer.Position
-	Val  signedNumber `parser:"@@"`
-	Unit name         `parser:"@@"`
+	Val  value `parser:"@@"`
+	Unit name  `parser:"@@"`
 }
 
 var specParser = participle.MustBuild[specText](

@@ -14,7 +14,10 @@ import (
 // token where the parse stopped (Position) and the rest of the production
 // it expected there (Message: "unexpected token ... (expected X)"); the
 // expected production says where in the spec the slip is, the token and
-// its neighbours say what the slip is.
+// its neighbours say what the slip is. The expected productions are
+// matched by the text participle prints for them (the names of the
+// grammar's types); TestErrorTable and TestMutations fail when a change
+// of the grammar leaves a slip without its message.
 
 // slip is a refused text: its tokens, the token at which the parse
 // stopped and the production expected there ("" after a complete
@@ -106,7 +109,7 @@ func (s *slip) explain() verdict {
 	case e == "Name":
 		v := clip(s.prev().Value)
 		return syntaxErr(s.i, "expected a unit after the sample interval "+v+", as in every "+v+" min (units: s, min, h, d, wk, mo, qtr, yr); found "+describe(s.cur()))
-	case strings.HasPrefix(e, "\"(\" Whole"):
+	case strings.HasPrefix(e, "\"(\" Value"):
 		return s.shortOpen(s.i - 1)
 	case e == "":
 		return s.after()
