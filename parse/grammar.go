@@ -89,14 +89,12 @@ type operand struct {
 
 // diffSeries is a differenced input series, ((1 - B) x).
 type diffSeries struct {
-	Pos     lexer.Position
 	Factors []*factor `parser:"\"(\" @@+"`
 	Series  name      `parser:"@@ \")\""`
 }
 
 // delay is B or B^k.
 type delay struct {
-	Pos lexer.Position
 	Exp *value `parser:"\"B\" ( \"^\" @@ )?"`
 }
 
@@ -105,10 +103,8 @@ type delay struct {
 type factor struct {
 	Pos     lexer.Position
 	Poly    *polynomial `parser:"\"(\" ( @@"`
-	Product *product    `parser:"      | @@ )"`
-	Close   lexer.Position
-	Paren   string `parser:"@\")\""`
-	Exp     *value `parser:"( \"^\" @@ )?"`
+	Product *product    `parser:"      | @@ ) \")\""`
+	Exp     *value      `parser:"( \"^\" @@ )?"`
 }
 
 // product is a product of factors, with an optional '*' between them.
@@ -166,7 +162,6 @@ type clause struct {
 
 // binding gives a named coefficient a start value (~) or holds it (=).
 type binding struct {
-	Pos  lexer.Position
 	Name name   `parser:"@@"`
 	Op   string `parser:"@( \"~\" | \"=\" )"`
 	Val  value  `parser:"@@"`
@@ -174,7 +169,6 @@ type binding struct {
 
 // every is the sample interval: a number and a unit.
 type every struct {
-	Pos  lexer.Position
 	Val  value `parser:"@@"`
 	Unit name  `parser:"@@"`
 }
