@@ -104,28 +104,7 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 		var typ lexer.TokenType
 		switch {
 		case isDigit(c) || c == '.' && i+1 < len(s) && isDigit(s[i+1]):
-			typ = tokNumber
-			for i < len(s) && isDigit(s[i]) {
-				i++
-			}
-			if i < len(s) && s[i] == '.' {
-				i++
-				for i < len(s) && isDigit(s[i]) {
-					i++
-				}
-			}
-			if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
-				j := i + 1
-				if j < len(s) && (s[j] == '+' || s[j] == '-') {
-					j++
-				}
-				if j < len(s) && isDigit(s[j]) {
-					for j < len(s) && isDigit(s[j]) {
-						j++
-					}
-					i = j
-				}
-			}
+			typ, i = tokNumber, numberEnd(s, i)
 		case isLetter(c):
 			typ = tokIdent
 			for i < len(s) && (isLetter(s[i]) || isDigit(s[i])) {
@@ -150,6 +129,32 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 	toks = append(toks, lexer.Token{Type: lexer.EOF,
 		Pos: lexer.Position{Offset: len(s), Line: line, Column: len(s) - lineStart + 1}})
 	return toks, nil
+}
+
+// numberEnd returns the end of the number that starts at s[i]: digits,
+// an optional fraction and an optional exponent (an 'e' not followed by
+// digits is not part of the number).
+func numberEnd(s string, i int) int {
+	digits := func(i int) int {
+		for i < len(s) && isDigit(s[i]) {
+			i++
+		}
+		return i
+	}
+	i = digits(i)
+	if i < len(s) && s[i] == '.' {
+		i = digits(i + 1)
+	}
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		j := i + 1
+		if j < len(s) && (s[j] == '+' || s[j] == '-') {
+			j++
+		}
+		if j < len(s) && isDigit(s[j]) {
+			i = digits(j)
+		}
+	}
+	return i
 }
 
 // charHint suggests what to write instead of a character the spec
