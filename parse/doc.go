@@ -154,7 +154,7 @@
 //	Operator = (Coefficient | Delay | ("/" Factor) | ((?! DiffSeries) Factor)) "*"? .
 //	Coefficient = (<number> | <ident>)
 //	    (?= <ident> | <number> | "(" | "B" | "/" | "*" | "a") .
-//	Operand = DiffSeries | "a" | <number> | <ident> .
+//	Operand = <ident> | "a" | DiffSeries | <number> .
 //	DiffSeries = "(" Factor+ Name ")" .
 //	Delay = "B" ("^" Value)? .
 //	Factor = "(" (Polynomial | Product) ")" ("^" Value)? .

@@ -81,10 +81,10 @@ type coefficient struct {
 // operand ends a term.
 type operand struct {
 	Pos    lexer.Position
-	Series *diffSeries `parser:"  @@"`
+	Name   string      `parser:"  @Ident"`
 	Noise  bool        `parser:"| @\"a\""`
+	Series *diffSeries `parser:"| @@"`
 	Number string      `parser:"| @Number"`
-	Name   string      `parser:"| @Ident"`
 }
 
 // diffSeries is a differenced input series, ((1 - B) x).
