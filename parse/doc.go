@@ -148,14 +148,14 @@
 //
 //	SpecText = Equation (";" | Clause)* .
 //	Equation = Factor* Name "=" LeadTerm SignedTerm* .
-//	LeadTerm = "-"? Term .
+//	LeadTerm = ("+" | "-")? Term .
 //	SignedTerm = ("+" | "-") Term .
 //	Term = Shorthand | (Operator* Operand) .
 //	Operator = (Coefficient | Delay | ("/" Factor) | ((?! DiffSeries) Factor)) "*"? .
 //	Coefficient = (<number> | <ident>)
 //	    (?= <ident> | <number> | "(" | "B" | "/" | "*" | "a") .
 //	Operand = <ident> | "a" | DiffSeries | <number> .
-//	DiffSeries = "(" Factor+ Name ")" .
+//	DiffSeries = "(" Factor ("*"? Factor)* "*"? Name ")" .
 //	Delay = "B" ("^" Value)? .
 //	Factor = "(" (Polynomial | Product) ")" ("^" Value)? .
 //	Product = Factor ("*"? Factor)* .

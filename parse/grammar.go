@@ -33,10 +33,10 @@ type name struct {
 	Name string `parser:"@Ident"`
 }
 
-// leadTerm is the first term, with an optional '-'.
+// leadTerm is the first term, with an optional sign.
 type leadTerm struct {
 	Pos  lexer.Position
-	Sign string `parser:"@\"-\"?"`
+	Sign string `parser:"@( \"+\" | \"-\" )?"`
 	Term term   `parser:"@@"`
 }
 
@@ -89,8 +89,8 @@ type operand struct {
 
 // diffSeries is a differenced input series, ((1 - B) x).
 type diffSeries struct {
-	Factors []*factor `parser:"\"(\" @@+"`
-	Series  name      `parser:"@@ \")\""`
+	Factors []*factor `parser:"\"(\" @@ ( \"*\"? @@ )*"`
+	Series  name      `parser:"\"*\"? @@ \")\""`
 }
 
 // delay is B or B^k.

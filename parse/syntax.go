@@ -83,6 +83,8 @@ func syntaxErr(k int, msg string) verdict { return verdict{at: k, kind: ErrSynta
 func (s *slip) explain() verdict {
 	e := s.expect
 	switch {
+	case isP(s.cur(), ")") && s.open(s.i) < 0:
+		return syntaxErr(s.i, "')' without a matching '('")
 	case strings.HasPrefix(e, "Name \"=\""):
 		return s.output()
 	case strings.HasPrefix(e, "\"=\""):
@@ -93,7 +95,7 @@ func (s *slip) explain() verdict {
 		return syntaxErr(s.i, "expected '(' after '/': write a denominator in parentheses, as in / (1 - d1 B); found "+describe(s.cur()))
 	case e == "Factor":
 		return s.term()
-	case strings.HasPrefix(e, "\")\""), strings.HasPrefix(e, "Factor+"), strings.HasPrefix(e, "Monomial"):
+	case strings.HasPrefix(e, "\")\""), strings.HasPrefix(e, "Factor ("), strings.HasPrefix(e, "Monomial"):
 		if k := s.open(s.i); k > 0 && s.toks[k-1].Type == tokKeyword && isShort(s.toks[k-1].Value) {
 			return s.order(k - 1)
 		}
@@ -156,6 +158,10 @@ func (s *slip) term() verdict {
 		return verdict{s.i, ErrModel, "a noise shorthand such as " + cur.Value + "(...) stands alone as the noise term"}
 	case startsTerm(prev):
 		return syntaxErr(s.i, "expected a term after '"+prev.Value+"', such as w0 B x, found "+describe(cur))
+	case !endsTerm(cur):
+		return syntaxErr(s.i, "expected a factor or the series name, found "+describe(cur)+" (a term is its factors followed by the series name, as in (w0 + w1 B) / (1 - d1 B) B^2 x)")
+	case s.strayClose() > s.i:
+		return syntaxErr(s.strayClose(), "')' without a matching '('")
 	case isP(prev, ")"):
 		k := s.open(s.i - 1)
 		if k > 0 && s.toks[k-1].Type == tokIdent && s.tok(k+1).Value == "t" {
@@ -169,6 +175,28 @@ func (s *slip) term() verdict {
 
 // noSeries is the message of a term whose operators act on nothing.
 const noSeries = "this term has no input series: end it with the series name, as in (w0 + w1 B) B^2 x"
+
+// endsTerm reports whether t may follow a whole term.
+func endsTerm(t lexer.Token) bool {
+	return t.Type == lexer.EOF || isP(t, "+") || isP(t, "-") || isP(t, ";") || isP(t, ",") || isP(t, ")") ||
+		isK(t, "where") || isK(t, "every")
+}
+
+// strayClose is the index of the first ')' that no '(' opens, or -1.
+func (s *slip) strayClose() int {
+	depth := 0
+	for k, t := range s.toks {
+		switch {
+		case isP(t, "("):
+			depth++
+		case isP(t, ")") && depth == 0:
+			return k
+		case isP(t, ")"):
+			depth--
+		}
+	}
+	return -1
+}
 
 // startsTerm reports whether a term starts after t.
 func startsTerm(t lexer.Token) bool {
@@ -198,6 +226,12 @@ func (s *slip) inParens() verdict {
 			return s.misplaced(s.i + 1)
 		}
 		return syntaxErr(s.i+1, "expected a coefficient or B after "+quoteTok(cur.Value)+", found "+describe(next))
+	case isP(cur, "^") && isK(prev, "B"):
+		return syntaxErr(s.i+1, "expected a whole number after '^', found "+describe(next))
+	case isP(cur, "^"):
+		return syntaxErr(s.i, "unexpected '^' inside parentheses: a power is written on B or on a factor in parentheses, as in B^3 or (1 - B)^2")
+	case isP(cur, "/") && !isP(next, "("):
+		return syntaxErr(s.i+1, "expected '(' after '/': write a denominator in parentheses, as in / (1 - d1 B); found "+describe(next))
 	case isP(cur, "*") && isP(next, "*") && cur.Pos.Offset+1 == next.Pos.Offset:
 		return syntaxErr(s.i, "'**' is not a power here: write a power with '^', as in B^3")
 	case isP(cur, "*") && next.Type == tokIdent && next.Value == "s", cur.Type == tokIdent && cur.Value == "s":
@@ -214,7 +248,7 @@ func (s *slip) inParens() verdict {
 		return syntaxErr(s.i, "B followed by "+clip(cur.Value)+" is not a power of B: for the term in B^"+clip(cur.Value)+" write B^"+clip(cur.Value))
 	case isK(cur, "a") || cur.Type == tokKeyword && isShort(cur.Value):
 		return s.misplaced(s.i)
-	case isP(cur, "(") || isP(prev, ")"):
+	case isP(cur, "(") || isP(prev, ")") || isP(cur, "/"):
 		return syntaxErr(s.i, "inside these parentheses write either one polynomial or a product of polynomials in parentheses, not both")
 	case cur.Type == tokIdent || cur.Type == tokNumber || isK(cur, "B"):
 		return syntaxErr(s.i, "expected '+', '-' or ')' after "+quoteTok(s.prevText())+": write a sign between the terms of a polynomial")
@@ -280,8 +314,12 @@ func (s *slip) after() verdict {
 		return verdict{s.i + 1, ErrModel, "a power cannot apply to a series; write the power on the differencing, as in ((1 - B)^2 x)"}
 	case isP(prev, ")") && startsOperator(cur):
 		return verdict{s.open(s.i - 1), ErrModel, "a differenced series such as ((1 - B) x) must come last in its term"}
+	case isK(prev, "a") && startsOperator(cur):
+		return syntaxErr(s.i, "the white-noise symbol a must come last in the noise term")
 	case cur.Type == tokKeyword && isShort(cur.Value) && !isP(s.next(), "("):
 		return s.shortOpen(s.i)
+	case cur.Type == tokKeyword && isShort(cur.Value):
+		return verdict{s.i, ErrModel, "a noise shorthand such as " + cur.Value + "(...) stands alone as the noise term"}
 	case isP(cur, ","):
 		return syntaxErr(s.i, "expected '+', '-', where, every or the end of the spec after a term, found ',' (join terms with '+'; put where and every after a space or ';')")
 	}
