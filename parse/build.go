@@ -44,11 +44,11 @@ func (b *builder) build(g *specText) {
 	b.coefs = map[string]tf.Pos{}
 	b.series = map[string]tf.Pos{}
 	eq := &g.Eq
-	b.m.Output = eq.Output.Name
-	b.series[eq.Output.Name] = toPos(eq.Output.Pos)
+	b.m.Output = eq.Output.Value
+	b.series[eq.Output.Value] = toPos(eq.Output.Pos)
 	var diff tf.Poly
 	for _, f := range eq.Diff {
-		b.diffFactors(f, &diff, "output "+eq.Output.Name)
+		b.diffFactors(f, &diff, "output "+eq.Output.Value)
 	}
 	b.m.Diff = diff
 	b.term(eq.First.Sign, eq.First.Pos, &eq.First.Term)
@@ -103,11 +103,11 @@ func (b *builder) every(e *every) {
 		b.fail(e.Val.Pos, ErrModel, "the sample interval must be a positive number")
 		return
 	}
-	if !validUnit(e.Unit.Name) {
-		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Name))+" for the sample interval; use "+unitList+unitHint(e.Unit.Name))
+	if !validUnit(e.Unit.Value) {
+		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Value))+" for the sample interval; use "+unitList+unitHint(e.Unit.Value))
 		return
 	}
-	b.m.Interval = tf.Interval{Value: v, Unit: e.Unit.Name}
+	b.m.Interval = tf.Interval{Value: v, Unit: e.Unit.Value}
 }
 
 // validUnit reports whether u is a unit of the sample interval: a clock
@@ -199,7 +199,7 @@ func (b *builder) term(sign string, p lexer.Position, t *term) {
 	case t.Short != nil || end.Noise:
 		b.noiseTerm(sign, p, t)
 	case end.Series != nil:
-		b.input(sign, p, t, end.Series.Series.Name, b.seriesDiff(end.Series))
+		b.input(sign, p, t, end.Series.Series.Value, b.seriesDiff(end.Series))
 	case len(t.Ops) == 0:
 		b.constant(sign, p, end)
 	case end.Name != "":
@@ -548,7 +548,7 @@ func wholeAfter(ops []operator, i int) string {
 func (b *builder) seriesDiff(s *diffSeries) tf.Poly {
 	var diff tf.Poly
 	for _, f := range s.Factors {
-		b.diffFactors(f, &diff, "input "+s.Series.Name)
+		b.diffFactors(f, &diff, "input "+s.Series.Value)
 	}
 	return diff
 }
@@ -780,7 +780,7 @@ func (b *builder) bind(binds []binding) {
 	vals := make(map[string]val, len(binds))
 	for i := range binds {
 		bd := &binds[i]
-		name := bd.Name.Name
+		name := bd.Name.Value
 		if _, ok := b.coefs[name]; !ok {
 			if _, isSeries := b.series[name]; isSeries {
 				b.fail(bd.Name.Pos, ErrModel, name+" is a series, not a coefficient")

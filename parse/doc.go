@@ -147,7 +147,7 @@
 // (?! x) that it must not (without reading it).
 //
 //	SpecText = Equation (";" | Clause)* .
-//	Equation = Factor* Name "=" LeadTerm SignedTerm* .
+//	Equation = Factor* <ident> "=" LeadTerm SignedTerm* .
 //	LeadTerm = ("+" | "-")? Term .
 //	SignedTerm = ("+" | "-") Term .
 //	Term = Shorthand | (Operator* Operand) .
@@ -155,7 +155,7 @@
 //	Coefficient = (<number> | <ident>)
 //	    (?= <ident> | <number> | "(" | "B" | "/" | "*" | "a") .
 //	Operand = <ident> | "a" | DiffSeries | <number> .
-//	DiffSeries = "(" Factor ("*"? Factor)* "*"? Name ")" .
+//	DiffSeries = "(" Factor ("*"? Factor)* "*"? <ident> ")" .
 //	Delay = "B" ("^" Value)? .
 //	Factor = "(" (Polynomial | Product) ")" ("^" Value)? .
 //	Product = Factor ("*"? Factor)* .
@@ -164,10 +164,9 @@
 //	Monomial = (((<number> | <ident>) ("*"? Delay)?) | Delay) .
 //	Shorthand = ("AR" | "MA" | "ARMA") "(" Value ("," Value)* ")" .
 //	Clause = ("where" Binding ("," Binding)*) | ("every" Every) .
-//	Binding = Name ("~" | "=") Value .
-//	Every = Value Name .
+//	Binding = <ident> ("~" | "=") Value .
+//	Every = Value <ident> .
 //	Value = "-"? <number> .
-//	Name = <ident> .
 //
 // A term is its operators and the operand they act on: a series name or
 // a differenced series (an input), the noise symbol a (the noise term),

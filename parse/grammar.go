@@ -22,15 +22,9 @@ type specText struct {
 // terms of the right-hand side.
 type equation struct {
 	Diff   []*factor    `parser:"@@*"`
-	Output name         `parser:"@@ \"=\""`
+	Output lexer.Token  `parser:"@Ident \"=\""`
 	First  leadTerm     `parser:"@@"`
 	Rest   []signedTerm `parser:"@@*"`
-}
-
-// name is a series or coefficient name.
-type name struct {
-	Pos  lexer.Position
-	Name string `parser:"@Ident"`
 }
 
 // leadTerm is the first term, with an optional sign.
@@ -89,8 +83,8 @@ type operand struct {
 
 // diffSeries is a differenced input series, ((1 - B) x).
 type diffSeries struct {
-	Factors []*factor `parser:"\"(\" @@ ( \"*\"? @@ )*"`
-	Series  name      `parser:"\"*\"? @@ \")\""`
+	Factors []*factor   `parser:"\"(\" @@ ( \"*\"? @@ )*"`
+	Series  lexer.Token `parser:"\"*\"? @Ident \")\""`
 }
 
 // delay is B or B^k.
@@ -162,15 +156,15 @@ type clause struct {
 
 // binding gives a named coefficient a start value (~) or holds it (=).
 type binding struct {
-	Name name   `parser:"@@"`
-	Op   string `parser:"@( \"~\" | \"=\" )"`
-	Val  value  `parser:"@@"`
+	Name lexer.Token `parser:"@Ident"`
+	Op   string      `parser:"@( \"~\" | \"=\" )"`
+	Val  value       `parser:"@@"`
 }
 
 // every is the sample interval: a number and a unit.
 type every struct {
-	Val  value `parser:"@@"`
-	Unit name  `parser:"@@"`
+	Val  value       `parser:"@@"`
+	Unit lexer.Token `parser:"@Ident"`
 }
 
 var specParser = participle.MustBuild[specText](

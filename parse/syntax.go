@@ -85,7 +85,7 @@ func (s *slip) explain() verdict {
 	switch {
 	case isP(s.cur(), ")") && s.open(s.i) < 0:
 		return syntaxErr(s.i, "')' without a matching '('")
-	case strings.HasPrefix(e, "Name \"=\""):
+	case strings.HasPrefix(e, "<ident> \"=\""):
 		return s.output()
 	case strings.HasPrefix(e, "\"=\""):
 		return s.equals()
@@ -108,7 +108,7 @@ func (s *slip) explain() verdict {
 		return syntaxErr(s.i, "expected the sample interval as a number and a unit, as in every 30 s; found "+describe(s.cur()))
 	case e == "<number>":
 		return syntaxErr(s.i, "expected a number after '"+s.prev().Value+"', found "+describe(s.cur()))
-	case e == "Name":
+	case e == "<ident>":
 		v := clip(s.prev().Value)
 		return syntaxErr(s.i, "expected a unit after the sample interval "+v+", as in every "+v+" min (units: s, min, h, d, wk, mo, qtr, yr); found "+describe(s.cur()))
 	case strings.HasPrefix(e, "\"(\" Value"):
