@@ -1,7 +1,6 @@
 package parse
 
 import (
-	"errors"
 	"math"
 	"slices"
 	"strconv"
@@ -11,8 +10,10 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// builder turns the syntax tree into a tf.Model, checking the meaning of
-// the spec and collecting errors with their positions.
+// builder turns the syntax tree into a tf.Model, checking what the
+// grammar cannot say (the meaning of the spec: names, limits, constant
+// terms, free and held coefficients) and collecting errors with their
+// positions.
 type builder struct {
 	src    string
 	errs   ErrorList
@@ -22,9 +23,6 @@ type builder struct {
 	noise  bool
 	deg    map[*tf.Poly]int // degree so far of each polynomial being built
 }
-
-// errMaxed is returned internally once maxErrors errors are collected.
-var errMaxed = errors.New("too many errors")
 
 func toPos(p lexer.Position) tf.Pos {
 	return tf.Pos{Offset: p.Offset, Line: p.Line, Column: p.Column}
@@ -42,31 +40,46 @@ func (b *builder) failAt(p tf.Pos, kind error, msg string) {
 }
 
 // build converts the tree and runs the checks of the whole model.
-func (b *builder) build(g *gSpec) {
+func (b *builder) build(g *specText) {
 	b.coefs = map[string]tf.Pos{}
 	b.series = map[string]tf.Pos{}
 	eq := &g.Eq
-	b.m.Output = eq.Output.Name
-	b.series[eq.Output.Name] = toPos(eq.Output.Pos)
+	b.m.Output = eq.Output.Value
+	b.series[eq.Output.Value] = toPos(eq.Output.Pos)
 	var diff tf.Poly
-	for _, grp := range eq.Diff {
-		b.diffFactors(grp, &diff, "output "+eq.Output.Name)
+	for _, f := range eq.Diff {
+		b.diffFactors(f, &diff, "output "+eq.Output.Value)
 	}
 	b.m.Diff = diff
-	for i := range eq.Terms {
-		b.term(&eq.Terms[i], i == 0)
+	b.term(eq.First.Sign, eq.First.Pos, &eq.First.Term)
+	for i := range eq.Rest {
+		b.term(eq.Rest[i].Sign, eq.Rest[i].Pos, &eq.Rest[i].Term)
 	}
-	if len(b.m.Inputs) == 0 && len(eq.Terms) > 0 && len(b.errs) == 0 {
-		if c := b.m.Const; c != nil && c.Name != "" {
-			b.failAt(c.Pos, ErrModel, "the model has no input term: a lone name such as "+c.Name+
-				" is the constant; write w0 "+c.Name+" (or 1 "+c.Name+" for unit gain) to make it an input")
-		} else {
-			b.fail(eq.Terms[0].Pos, ErrModel, "the model has no input term; write at least one, such as w0 B x")
-		}
+	b.requireInput(eq.First.Pos)
+	b.checkNames()
+	b.clauses(g.Clauses)
+}
+
+// requireInput refuses a model without an input term; first is where
+// the right-hand side starts.
+func (b *builder) requireInput(first lexer.Position) {
+	if len(b.m.Inputs) > 0 || len(b.errs) > 0 {
+		return
 	}
-	var binds []gBind
+	if c := b.m.Const; c != nil && c.Name != "" {
+		b.failAt(c.Pos, ErrModel, "the model has no input term: a lone name such as "+c.Name+
+			" is the constant; write w0 "+c.Name+" (or 1 "+c.Name+" for unit gain) to make it an input")
+		return
+	}
+	b.fail(first, ErrModel, "the model has no input term; write at least one, such as w0 B x")
+}
+
+// clauses applies the every clause (at most one) and the bindings of the
+// where clauses.
+func (b *builder) clauses(cs []clause) {
+	var binds []binding
 	everySeen := false
-	for _, c := range g.Clauses {
+	for _, c := range cs {
 		if c.Every != nil {
 			if everySeen {
 				b.fail(c.Pos, ErrModel, "the sample interval is given twice")
@@ -77,13 +90,12 @@ func (b *builder) build(g *gSpec) {
 		}
 		binds = append(binds, c.Where...)
 	}
-	b.checkNames()
 	b.bind(binds)
 }
 
 // every sets the sample interval.
-func (b *builder) every(e *gEvery) {
-	v, ok := b.number(&e.Val)
+func (b *builder) every(e *every) {
+	v, ok := b.number(e.Val.Pos, e.Val.Num, e.Val.Neg)
 	if !ok {
 		return
 	}
@@ -91,11 +103,11 @@ func (b *builder) every(e *gEvery) {
 		b.fail(e.Val.Pos, ErrModel, "the sample interval must be a positive number")
 		return
 	}
-	if !validUnit(e.Unit.Name) {
-		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Name))+" for the sample interval; use "+unitList+unitHint(e.Unit.Name))
+	if !validUnit(e.Unit.Value) {
+		b.fail(e.Unit.Pos, ErrModel, "unknown unit "+strconv.Quote(clip(e.Unit.Value))+" for the sample interval; use "+unitList+unitHint(e.Unit.Value))
 		return
 	}
-	b.m.Interval = tf.Interval{Value: v, Unit: e.Unit.Name}
+	b.m.Interval = tf.Interval{Value: v, Unit: e.Unit.Value}
 }
 
 // validUnit reports whether u is a unit of the sample interval: a clock
@@ -139,14 +151,14 @@ func unitHint(u string) string {
 	return ""
 }
 
-// number reads a signed number literal.
-func (b *builder) number(x *gExp) (float64, bool) {
-	v, err := strconv.ParseFloat(x.Num, 64)
+// number reads a number literal, negated when neg is set.
+func (b *builder) number(p lexer.Position, text string, neg bool) (float64, bool) {
+	v, err := strconv.ParseFloat(text, 64)
 	if err != nil {
-		b.fail(x.Pos, ErrSyntax, "number "+clip(x.Num)+" is out of range")
+		b.fail(p, ErrSyntax, "number "+clip(text)+" is out of range")
 		return 0, false
 	}
-	if x.Neg {
+	if neg {
 		v = -v
 	}
 	return v, true
@@ -154,7 +166,7 @@ func (b *builder) number(x *gExp) (float64, bool) {
 
 // whole reads a whole number in lo..hi; what names it in messages and
 // unit, when not empty, follows the limit.
-func (b *builder) whole(x *gExp, lo, hi int, what, unit string, kindOver error) (int, bool) {
+func (b *builder) whole(x *value, lo, hi int, what, unit string, kindOver error) (int, bool) {
 	v, err := strconv.ParseFloat(x.Num, 64)
 	text := clip(x.Num)
 	if x.Neg {
@@ -179,106 +191,52 @@ func (b *builder) whole(x *gExp, lo, hi int, what, unit string, kindOver error) 
 	return 0, false
 }
 
-// term classifies one summand of the right-hand side.
-func (b *builder) term(t *gTerm, first bool) {
-	items, ok := b.items(t.Items)
-	if !ok {
-		return
-	}
-	last := items[len(items)-1]
+// term sorts one summand of the right-hand side, with its sign written
+// at p, into the constant, an input or the noise term by what ends it.
+func (b *builder) term(sign string, p lexer.Position, t *term) {
+	end := t.End
 	switch {
-	case last.Short != nil:
-		if len(items) > 1 {
-			b.fail(items[0].Pos, ErrModel, "a noise shorthand such as "+last.Short.Kind+"(...) stands alone as the noise term")
-			return
-		}
-		b.noiseTerm(t, nil, last)
-	case last.Noise:
-		b.noiseTerm(t, items[:len(items)-1], last)
-	case len(items) == 1 && (last.Number != "" || last.Name != ""):
-		b.constant(t, last)
-	case last.Name != "":
-		b.input(t, items[:len(items)-1], last.Name, tf.Poly{})
-	case last.Group != nil && isDiffTarget(last.Group):
-		b.diffInput(t, items[:len(items)-1], last.Group)
-	case len(items) >= 2 && items[len(items)-2].Name != "" && last.Group != nil && startsWithT(last.Group):
-		series := items[len(items)-2].Name
-		b.fail(last.Pos, ErrModel, "a series is written by its name alone, not "+series+"(t ...); x three samples back is B^3 x, as in w0 B^3 "+series)
+	case t.Short != nil || end.Noise:
+		b.noiseTerm(sign, p, t)
+	case end.Series != nil:
+		b.input(sign, p, t, end.Series.Series.Value, b.seriesDiff(end.Series))
+	case len(t.Ops) == 0:
+		b.constant(sign, p, end)
+	case end.Name != "":
+		b.input(sign, p, t, end.Name, tf.Poly{})
 	default:
-		p := t.Items[len(t.Items)-1].Pos
-		b.fail(p, ErrModel, "this term has no input series: end it with the series name, as in (w0 + w1 B) B^2 x")
+		b.fail(end.Pos, ErrModel, "this term has no input series: end it with the series name, as in (w0 + w1 B) B^2 x")
 	}
 }
 
-// items drops the optional '*' between factors, checking that each one
-// stands between two factors.
-func (b *builder) items(in []gItem) ([]*gItem, bool) {
-	out := make([]*gItem, 0, len(in))
-	for i := range in {
-		it := &in[i]
-		if it.Star {
-			if i > 0 && in[i-1].Star && in[i-1].Pos.Offset+1 == it.Pos.Offset {
-				b.fail(in[i-1].Pos, ErrSyntax, "'**' is not a power here: write a power with '^', as in B^3")
-				return nil, false
-			}
-			if i == 0 || i == len(in)-1 || in[i-1].Star {
-				b.fail(it.Pos, ErrSyntax, "'*' must stand between two factors")
-				return nil, false
-			}
-			continue
-		}
-		out = append(out, it)
-	}
-	return out, true
-}
-
-// startsWithT reports whether a group starts with the name t, as in
-// x(t - 3).
-func startsWithT(g *gGroup) bool {
-	return len(g.Elems) > 0 && g.Elems[0].Item != nil && g.Elems[0].Item.Name == "t"
-}
-
-func isDiffTarget(g *gGroup) bool {
-	n := len(g.Elems)
-	return n >= 2 && g.Elems[n-1].Item != nil && g.Elems[n-1].Item.Name != "" && hasGroup(g)
-}
-
-func hasGroup(g *gGroup) bool {
-	for _, e := range g.Elems {
-		if e.Item != nil && e.Item.Group != nil {
-			return true
-		}
-	}
-	return false
-}
-
-func (b *builder) constant(t *gTerm, it *gItem) {
-	if hint := noiseLike(it.Name); hint != "" {
-		b.fail(it.Pos, ErrModel, hint)
+// constant sets the constant term: a lone number or name.
+func (b *builder) constant(sign string, p lexer.Position, end *operand) {
+	if hint := noiseLike(end.Name); hint != "" {
+		b.fail(end.Pos, ErrModel, hint)
 		return
 	}
 	if b.m.Const != nil {
 		msg := "a second constant term; a model has at most one"
-		if it.Name != "" {
-			msg += " (a lone name is a constant: to feed series " + it.Name + " with unit gain write 1 " + it.Name + ")"
+		if end.Name != "" {
+			msg += " (a lone name is a constant: to feed series " + end.Name + " with unit gain write 1 " + end.Name + ")"
 		}
-		b.fail(it.Pos, ErrModel, msg)
+		b.fail(end.Pos, ErrModel, msg)
 		return
 	}
-	if it.Name != "" {
-		if t.Sign == "-" {
-			b.fail(t.Pos, ErrModel, "write a named constant with '+'; its value may be negative")
+	if end.Name != "" {
+		if sign == "-" {
+			b.fail(p, ErrModel, "write a named constant with '+'; its value may be negative")
 			return
 		}
-		b.useCoef(it.Name, it.Pos)
-		b.m.Const = &tf.Coef{Name: it.Name, Free: true, Pos: toPos(it.Pos)}
+		b.useCoef(end.Name, end.Pos)
+		b.m.Const = &tf.Coef{Name: end.Name, Free: true, Pos: toPos(end.Pos)}
 		return
 	}
-	v, ok := b.number(&gExp{Pos: it.Pos, Num: it.Number, Neg: t.Sign == "-"})
+	v, ok := b.number(end.Pos, end.Number, sign == "-")
 	if !ok {
 		return
 	}
-	b.m.Const = &tf.Coef{Value: v, Pos: toPos(it.Pos)}
+	b.m.Const = &tf.Coef{Value: v, Pos: toPos(end.Pos)}
 }
 
 // noiseLike returns a message when a lone name, which the spec reads as
@@ -311,12 +269,12 @@ func noiseLike(name string) string {
 }
 
 // numAfterDen is the ordering rule shared by input and noise terms: when
-// a denominator came earlier in the term (sawDen) and it is a numerator
+// a denominator came earlier in the term (sawDen) and op is a numerator
 // factor (a number, a coefficient name or a polynomial in parentheses),
 // it records an error saying why and reports true.
-func (b *builder) numAfterDen(sawDen bool, it *gItem) bool {
-	if sawDen && (it.Number != "" || it.Name != "" || it.Group != nil) {
-		b.fail(it.Pos, ErrModel, "a numerator factor after a denominator is ambiguous: write the numerator first, then each denominator factor after its own '/', as in (w0) / (1 - d1 B) / (1 - d2 B) B x")
+func (b *builder) numAfterDen(sawDen bool, op *operator) bool {
+	if sawDen && (op.Coef != nil || op.Factor != nil) {
+		b.fail(op.Pos, ErrModel, "a numerator factor after a denominator is ambiguous: write the numerator first, then each denominator factor after its own '/', as in (w0) / (1 - d1 B) / (1 - d2 B) B x")
 		return true
 	}
 	return false
@@ -371,47 +329,47 @@ func glued(name string) string {
 	return name + " reads as one coefficient name; put a space between the coefficient and B, as in " + want
 }
 
-func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
+// noiseTerm builds the noise term: a shorthand, or theta(B) / phi(B) a.
+func (b *builder) noiseTerm(sign string, p lexer.Position, t *term) {
+	at := t.End
+	if t.Short != nil {
+		at = &operand{Pos: t.Short.Pos}
+	}
 	if b.noise {
-		b.fail(last.Pos, ErrModel, "a second noise term; a model has at most one")
+		b.fail(at.Pos, ErrModel, "a second noise term; a model has at most one")
 		return
 	}
 	b.noise = true
-	if t.Sign == "-" {
-		b.fail(t.Pos, ErrModel, "the noise term is added, not subtracted")
+	if sign == "-" {
+		b.fail(p, ErrModel, "the noise term is added, not subtracted")
 		return
 	}
 	var n tf.Noise
-	if last.Short != nil {
-		n, _ = b.shorthand(last.Short)
+	if t.Short != nil {
+		n, _ = b.shorthand(t.Short)
 		b.m.Noise = &n
 		return
 	}
 	sawDen := false
-	for _, it := range ops {
-		if b.numAfterDen(sawDen, it) {
+	for i := range t.Ops {
+		op := &t.Ops[i]
+		if b.numAfterDen(sawDen, op) {
 			return
 		}
 		switch {
-		case it.Number == "1":
+		case op.Coef != nil && op.Coef.Number == "1":
 			// 1 / phi(B) a: a unit numerator, nothing to store.
-		case it.Number != "" || it.Name != "":
-			b.fail(it.Pos, ErrModel, "the noise term takes no gain (its scale is the noise variance; a is the white-noise symbol, not a series); write theta(B) / phi(B) a")
+		case op.Coef != nil:
+			b.fail(op.Pos, ErrModel, "the noise term takes no gain (its scale is the noise variance; a is the white-noise symbol, not a series); write theta(B) / phi(B) a")
 			return
-		case it.B != nil:
-			b.fail(it.Pos, ErrModel, "the noise term takes no dead time")
+		case op.Delay != nil:
+			b.fail(op.Pos, ErrModel, "the noise term takes no dead time")
 			return
-		case it.Group != nil:
-			b.polyFactors(it.Group, &n.MA, "noise numerator", true)
-		case it.Slash != nil:
-			sawDen = true
-			b.polyFactors(it.Slash, &n.AR, "noise denominator", true)
-		case it.Noise:
-			b.fail(it.Pos, ErrSyntax, "the white-noise symbol a must come last in the noise term")
-			return
+		case op.Factor != nil:
+			b.polyFactors(op.Factor, &n.MA, "noise numerator", true)
 		default:
-			b.fail(it.Pos, ErrModel, "the noise term is theta(B) / phi(B) a, with polynomials in parentheses")
-			return
+			sawDen = true
+			b.polyFactors(op.Den, &n.AR, "noise denominator", true)
 		}
 	}
 	b.m.Noise = &n
@@ -422,7 +380,7 @@ func (b *builder) noiseTerm(t *gTerm, ops []*gItem, last *gItem) {
 //	(1 - theta1 B - ... - thetaq B^q) / (1 - phi1 B - ... - phip B^p) a
 //
 // with free coefficients starting at 0.
-func (b *builder) shorthand(s *gShort) (tf.Noise, bool) {
+func (b *builder) shorthand(s *shorthand) (tf.Noise, bool) {
 	want := 1
 	if s.Kind == "ARMA" {
 		want = 2
@@ -440,7 +398,6 @@ func (b *builder) shorthand(s *gShort) (tf.Noise, bool) {
 		}
 		ords[i] = v
 	}
-	var n tf.Noise
 	p, q := 0, 0
 	switch s.Kind {
 	case "AR":
@@ -450,121 +407,134 @@ func (b *builder) shorthand(s *gShort) (tf.Noise, bool) {
 	default:
 		p, q = ords[0], ords[1]
 	}
-	pos := toPos(s.Pos)
-	mk := func(name string, k int) tf.Factor {
-		f := tf.Factor{Terms: make([]tf.Term, 0, k+1), Exp: 1, Pos: pos}
-		f.Terms = append(f.Terms, tf.Term{Coef: tf.Coef{Value: 1, Pos: pos}})
-		for i := 1; i <= k; i++ {
-			nm := name + strconv.Itoa(i)
-			b.useCoef(nm, s.Pos)
-			f.Terms = append(f.Terms, tf.Term{Neg: true, Coef: tf.Coef{Name: nm, Free: true, Pos: pos}, Power: i})
-		}
-		return f
-	}
+	var n tf.Noise
 	if p > 0 {
-		n.AR.Factors = []tf.Factor{mk("phi", p)}
+		n.AR.Factors = []tf.Factor{b.shortFactor(s.Pos, "phi", p)}
 	}
 	if q > 0 {
-		n.MA.Factors = []tf.Factor{mk("theta", q)}
+		n.MA.Factors = []tf.Factor{b.shortFactor(s.Pos, "theta", q)}
 	}
 	return n, true
 }
 
-// input builds an input term from its operator items, its series name and
-// the differencing of the series.
-func (b *builder) input(t *gTerm, ops []*gItem, series string, diff tf.Poly) {
-	p := t.Items[0].Pos
-	if t.Sign == "-" {
-		b.fail(t.Pos, ErrModel, "an input term cannot be subtracted; put the sign in its numerator, as in (-w0 - w1 B) x")
+// shortFactor is the factor (1 - name1 B - ... - namek B^k) of a noise
+// shorthand written at p, with free coefficients.
+func (b *builder) shortFactor(p lexer.Position, name string, k int) tf.Factor {
+	pos := toPos(p)
+	f := tf.Factor{Terms: make([]tf.Term, 0, k+1), Exp: 1, Pos: pos}
+	f.Terms = append(f.Terms, tf.Term{Coef: tf.Coef{Value: 1, Pos: pos}})
+	for i := 1; i <= k; i++ {
+		nm := name + strconv.Itoa(i)
+		b.useCoef(nm, p)
+		f.Terms = append(f.Terms, tf.Term{Neg: true, Coef: tf.Coef{Name: nm, Free: true, Pos: pos}, Power: i})
+	}
+	return f
+}
+
+// input builds an input term, with its sign written at p, from its
+// operators, its series name and the differencing of the series.
+func (b *builder) input(sign string, p lexer.Position, t *term, series string, diff tf.Poly) {
+	if sign == "-" {
+		b.fail(p, ErrModel, "an input term cannot be subtracted; put the sign in its numerator, as in (-w0 - w1 B) x")
 		return
 	}
-	in := tf.Input{Series: series, Diff: diff, Pos: toPos(p)}
-	delay := 0
-	delayOK := true
-	sawDen := false
-	for i, it := range ops {
-		if b.numAfterDen(sawDen, it) {
+	in := tf.Input{Series: series, Diff: diff, Pos: toPos(t.Pos)}
+	delay, delayOK, sawDen := 0, true, false
+	for i := range t.Ops {
+		op := &t.Ops[i]
+		if b.numAfterDen(sawDen, op) {
 			return
 		}
 		switch {
-		case it.Number == "1":
+		case op.Coef != nil && op.Coef.Number == "1":
 			// a unit gain: nothing to store
-		case it.Number != "" || it.Name != "":
-			var c tf.Coef
-			if it.Name != "" {
-				b.useCoef(it.Name, it.Pos)
-				c = tf.Coef{Name: it.Name, Free: true, Pos: toPos(it.Pos)}
-			} else {
-				v, ok := b.number(&gExp{Pos: it.Pos, Num: it.Number})
-				if !ok {
-					return
-				}
-				c = tf.Coef{Value: v, Pos: toPos(it.Pos)}
-			}
-			in.Num.Factors = append(in.Num.Factors, tf.Factor{Terms: []tf.Term{{Coef: c}}, Exp: 1, Pos: toPos(it.Pos)})
-		case it.B != nil:
-			if k := wholeAfter(ops, i); it.B.Exp == nil && k != "" {
-				next := ops[i+1]
-				b.fail(next.Pos, ErrSyntax, "B followed by "+clip(k)+" reads as a delay of one sample times the gain "+clip(k)+
-					"; for a dead time of "+clip(k)+" samples write B^"+clip(k))
+		case op.Coef != nil:
+			c, ok := b.coefficient(op.Coef.Pos, op.Coef.Number, op.Coef.Name)
+			if !ok {
 				return
 			}
-			k := 1
-			if it.B.Exp != nil {
-				if it.B.Exp.Neg {
-					b.fail(it.B.Exp.Pos, ErrModel, "the dead time cannot be negative (here -"+clip(it.B.Exp.Num)+
-						"); B^k delays a series by k samples, so write B^"+clip(it.B.Exp.Num)+" for a dead time of "+clip(it.B.Exp.Num)+" samples")
-					delayOK = false
-					continue
-				}
-				v, ok := b.whole(it.B.Exp, 0, MaxDelay, "the dead time", "samples", ErrLimit)
-				if !ok {
-					delayOK = false
-					continue
-				}
-				k = v
-			}
-			if delay+k > MaxDelay && delayOK {
-				b.fail(it.Pos, ErrLimit, "the dead time adds up to "+strconv.Itoa(delay+k)+", over the limit of "+strconv.Itoa(MaxDelay)+" samples")
+			in.Num.Factors = append(in.Num.Factors, tf.Factor{Terms: []tf.Term{{Coef: c}}, Exp: 1, Pos: toPos(op.Pos)})
+		case op.Delay != nil:
+			k, ok := b.delay(t.Ops, i)
+			switch {
+			case !ok:
+				return
+			case k < 0:
 				delayOK = false
-				continue
+			case delay+k > MaxDelay && delayOK:
+				b.fail(op.Pos, ErrLimit, "the dead time adds up to "+strconv.Itoa(delay+k)+", over the limit of "+strconv.Itoa(MaxDelay)+" samples")
+				delayOK = false
+			case delayOK:
+				delay += k
 			}
-			delay += k
-		case it.Group != nil:
-			if isDiffTarget(it.Group) {
-				b.fail(it.Pos, ErrModel, "a differenced series such as ((1 - B) x) must come last in its term")
-				return
-			}
-			b.polyFactors(it.Group, &in.Num, "numerator", false)
-		case it.Slash != nil:
+		case op.Factor != nil:
+			b.polyFactors(op.Factor, &in.Num, "numerator", false)
+		default:
 			sawDen = true
-			b.polyFactors(it.Slash, &in.Den, "denominator", true)
-		case it.Noise:
-			b.fail(it.Pos, ErrSyntax, "the white-noise symbol a must come last in the noise term")
-			return
-		case it.Short != nil:
-			b.fail(it.Pos, ErrModel, "a noise shorthand such as "+it.Short.Kind+"(...) stands alone as the noise term")
-			return
+			b.polyFactors(op.Den, &in.Den, "denominator", true)
 		}
 	}
 	in.Delay = delay
 	if len(b.m.Inputs) == MaxInputs {
-		b.fail(p, ErrLimit, "more than "+strconv.Itoa(MaxInputs)+" input terms")
+		b.fail(t.Pos, ErrLimit, "more than "+strconv.Itoa(MaxInputs)+" input terms")
 		return
 	}
 	b.m.Inputs = append(b.m.Inputs, in)
 }
 
-// wholeAfter returns the text of the item after ops[i] when it is a
-// whole number, alone or in parentheses with no power (3 or (3)), else "".
-func wholeAfter(ops []*gItem, i int) string {
+// coefficient reads a coefficient written as a number or a name at p.
+func (b *builder) coefficient(p lexer.Position, number, name string) (tf.Coef, bool) {
+	if name != "" {
+		b.useCoef(name, p)
+		return tf.Coef{Name: name, Free: true, Pos: toPos(p)}, true
+	}
+	v, ok := b.number(p, number, false)
+	return tf.Coef{Value: v, Pos: toPos(p)}, ok
+}
+
+// delay reads the dead time of the power of B ops[i]: k >= 0, or -1
+// for a bad power (reported, the term goes on to be checked); ok is
+// false when B is followed by a whole number, a slip for B^k that ends
+// the term.
+func (b *builder) delay(ops []operator, i int) (k int, ok bool) {
+	d := ops[i].Delay
+	if k := wholeAfter(ops, i); d.Exp == nil && k != "" {
+		b.fail(ops[i+1].Pos, ErrSyntax, "B followed by "+clip(k)+" reads as a delay of one sample times the gain "+clip(k)+
+			"; for a dead time of "+clip(k)+" samples write B^"+clip(k))
+		return 0, false
+	}
+	if d.Exp == nil {
+		return 1, true
+	}
+	if d.Exp.Neg {
+		n := clip(d.Exp.Num)
+		b.fail(d.Exp.Pos, ErrModel, "the dead time cannot be negative (here -"+n+
+			"); B^k delays a series by k samples, so write B^"+n+" for a dead time of "+n+" samples")
+		return -1, true
+	}
+	v, good := b.whole(d.Exp, 0, MaxDelay, "the dead time", "samples", ErrLimit)
+	if !good {
+		return -1, true
+	}
+	return v, true
+}
+
+// wholeAfter returns the text of the operator after ops[i] when it is a
+// whole number, alone or in parentheses with no sign or power (3 or
+// (3)), else "".
+func wholeAfter(ops []operator, i int) string {
 	if i+1 >= len(ops) {
 		return ""
 	}
-	it := ops[i+1]
-	k := it.Number
-	if g := it.Group; g != nil && g.Exp == nil && len(g.Elems) == 1 && g.Elems[0].Item != nil {
-		k = g.Elems[0].Item.Number
+	op := &ops[i+1]
+	k := ""
+	switch f := op.Factor; {
+	case op.Coef != nil:
+		k = op.Coef.Number
+	case f != nil && f.Exp == nil && f.Poly != nil && f.Poly.Sign == "" && len(f.Poly.Rest) == 0:
+		if m := f.Poly.First; m.Power == nil && m.Bare == nil {
+			k = m.Number
+		}
 	}
 	for j := 0; j < len(k); j++ {
 		if !isDigit(k[j]) {
@@ -574,34 +544,20 @@ func wholeAfter(ops []*gItem, i int) string {
 	return k
 }
 
-// diffInput builds an input term whose series is differenced:
-// ops ((1 - B) x).
-func (b *builder) diffInput(t *gTerm, ops []*gItem, g *gGroup) {
-	if g.Exp != nil {
-		b.fail(g.Exp.Pos, ErrModel, "a power cannot apply to a series; write the power on the differencing, as in ((1 - B)^2 x)")
-		return
-	}
-	n := len(g.Elems)
-	name := g.Elems[n-1].Item
+// seriesDiff reads the differencing of a differenced input series.
+func (b *builder) seriesDiff(s *diffSeries) tf.Poly {
 	var diff tf.Poly
-	for _, e := range g.Elems[:n-1] {
-		switch {
-		case e.Item != nil && e.Item.Star:
-		case e.Item != nil && e.Item.Group != nil:
-			b.diffFactors(e.Item.Group, &diff, "input "+name.Name)
-		default:
-			b.fail(e.Pos, ErrModel, "a differenced series is written ((1 - B) x): differencing in parentheses, then the series name")
-			return
-		}
+	for _, f := range s.Factors {
+		b.diffFactors(f, &diff, "input "+s.Series.Value)
 	}
-	b.input(t, ops, name.Name, diff)
+	return diff
 }
 
 // diffFactors appends the factors of a differencing operator: fixed
 // numbers only, constant term 1.
-func (b *builder) diffFactors(g *gGroup, dst *tf.Poly, of string) {
+func (b *builder) diffFactors(f *factor, dst *tf.Poly, of string) {
 	n0 := len(dst.Factors)
-	b.polyFactors(g, dst, "differencing of the "+of, true)
+	b.polyFactors(f, dst, "differencing of the "+of, true)
 	for _, f := range dst.Factors[n0:] {
 		for _, t := range f.Terms {
 			if t.Coef.Name != "" {
@@ -612,74 +568,80 @@ func (b *builder) diffFactors(g *gGroup, dst *tf.Poly, of string) {
 	}
 }
 
-// polyFactors appends the factors of g (a polynomial in parentheses or a
+// polyFactors appends the factors of f (a polynomial in parentheses or a
 // product of them) to dst, checking the degree limit and, when unit is
 // set, that each factor's constant term is 1.
-func (b *builder) polyFactors(g *gGroup, dst *tf.Poly, what string, unit bool) {
-	b.groupFactors(g, 1, dst, what, unit)
+func (b *builder) polyFactors(f *factor, dst *tf.Poly, what string, unit bool) {
+	b.factors(f, 1, dst, what, unit)
 }
 
-func (b *builder) groupFactors(g *gGroup, exp int, dst *tf.Poly, what string, unit bool) {
-	e := 1
-	if g.Exp != nil {
-		v, ok := b.whole(g.Exp, 1, MaxDegree, "the power of a factor", "", ErrLimit)
+// factors is polyFactors for a factor inside powers whose product is exp.
+func (b *builder) factors(f *factor, exp int, dst *tf.Poly, what string, unit bool) {
+	if f.Exp != nil {
+		e, ok := b.whole(f.Exp, 1, MaxDegree, "the power of a factor", "", ErrLimit)
 		if !ok {
 			return
 		}
-		e = v
-	}
-	exp *= e
-	if exp > MaxDegree {
-		b.fail(g.Exp.Pos, ErrLimit, "the "+what+" has degree over the limit of "+strconv.Itoa(MaxDegree))
-		return
-	}
-	if hasGroup(g) {
-		for _, el := range g.Elems {
-			switch {
-			case el.Item != nil && el.Item.Star:
-			case el.Item != nil && el.Item.Group != nil:
-				b.groupFactors(el.Item.Group, exp, dst, what, unit)
-			default:
-				b.fail(el.Pos, ErrSyntax, "inside these parentheses write either one polynomial or a product of polynomials in parentheses, not both")
-				return
-			}
-		}
-		return
-	}
-	f, ok := b.sum(g, what)
-	if !ok {
-		return
-	}
-	f.Exp = exp
-	if unit {
-		c0 := 0.0
-		for _, t := range f.Terms {
-			if t.Power == 0 {
-				if t.Coef.Name != "" {
-					b.failAt(t.Coef.Pos, ErrModel, "the constant term of the "+what+" must be the number 1, not the coefficient "+t.Coef.Name)
-					return
-				}
-				c0 += t.Value()
-			}
-		}
-		if c0 != 1 {
-			msg := "the constant term of the " + what + " must be 1, not " + strconv.FormatFloat(c0, 'g', -1, 64)
-			switch {
-			case what == "noise numerator":
-				msg += "; the noise has no gain (its scale is its variance): write (1 - t1 B ...)"
-			case strings.HasPrefix(what, "differencing"):
-				msg += "; a differencing operator starts with 1, as in (1 - B) or (1 - B^12)"
-			case c0 != 0 && !math.IsInf(c0, 0):
-				msg += "; divide the numerator and the denominator by " + strconv.FormatFloat(c0, 'g', -1, 64)
-			default:
-				msg += "; write it as (1 + ...)"
-			}
-			b.fail(g.Pos, ErrModel, msg)
+		exp *= e
+		if exp > MaxDegree {
+			b.fail(f.Exp.Pos, ErrLimit, "the "+what+" has degree over the limit of "+strconv.Itoa(MaxDegree))
 			return
 		}
 	}
-	// The degree so far is kept per polynomial, so that a long product
-	// costs linear time.
+	if pr := f.Product; pr != nil {
+		b.factors(pr.First, exp, dst, what, unit)
+		for _, g := range pr.Rest {
+			b.factors(g, exp, dst, what, unit)
+		}
+		return
+	}
+	fac, ok := b.polynomial(f)
+	if !ok {
+		return
+	}
+	fac.Exp = exp
+	if unit && !b.unitConstant(f, &fac, what) {
+		return
+	}
+	b.addFactor(f, fac, dst, what)
+}
+
+// unitConstant checks that the constant term of fac, written as f, is
+// the number 1.
+func (b *builder) unitConstant(f *factor, fac *tf.Factor, what string) bool {
+	c0 := 0.0
+	for _, t := range fac.Terms {
+		if t.Power == 0 {
+			if t.Coef.Name != "" {
+				b.failAt(t.Coef.Pos, ErrModel, "the constant term of the "+what+" must be the number 1, not the coefficient "+t.Coef.Name)
+				return false
+			}
+			c0 += t.Value()
+		}
+	}
+	if c0 == 1 {
+		return true
+	}
+	c := strconv.FormatFloat(c0, 'g', -1, 64)
+	msg := "the constant term of the " + what + " must be 1, not " + c
+	switch {
+	case what == "noise numerator":
+		msg += "; the noise has no gain (its scale is its variance): write (1 - t1 B ...)"
+	case strings.HasPrefix(what, "differencing"):
+		msg += "; a differencing operator starts with 1, as in (1 - B) or (1 - B^12)"
+	case c0 != 0 && !math.IsInf(c0, 0):
+		msg += "; divide the numerator and the denominator by " + c
+	default:
+		msg += "; write it as (1 + ...)"
+	}
+	b.fail(f.Pos, ErrModel, msg)
+	return false
+}
+
+// addFactor appends fac, written as f, to dst within the degree limit.
+// The degree so far is kept per polynomial, so that a long product costs
+// linear time.
+func (b *builder) addFactor(f *factor, fac tf.Factor, dst *tf.Poly, what string) {
 	if b.deg == nil {
 		b.deg = make(map[*tf.Poly]int, 8)
 	}
@@ -688,169 +650,74 @@ func (b *builder) groupFactors(g *gGroup, exp int, dst *tf.Poly, what string, un
 		deg = dst.Degree()
 	}
 	top := 0
-	for _, t := range f.Terms {
+	for _, t := range fac.Terms {
 		top = max(top, t.Power)
 	}
-	if deg+top*f.Exp > MaxDegree {
-		b.fail(g.Pos, ErrLimit, "the "+what+" has degree "+strconv.Itoa(deg+top*f.Exp)+", over the limit of "+strconv.Itoa(MaxDegree))
+	if deg+top*fac.Exp > MaxDegree {
+		b.fail(f.Pos, ErrLimit, "the "+what+" has degree "+strconv.Itoa(deg+top*fac.Exp)+", over the limit of "+strconv.Itoa(MaxDegree))
 		return
 	}
-	b.deg[dst] = deg + top*f.Exp
-	dst.Factors = append(dst.Factors, f)
+	b.deg[dst] = deg + top*fac.Exp
+	dst.Factors = append(dst.Factors, fac)
 }
 
-// sum reads a polynomial written as signed terms c, c B^k or B^k.
-func (b *builder) sum(g *gGroup, what string) (tf.Factor, bool) {
-	f := tf.Factor{Pos: toPos(g.Pos), Terms: make([]tf.Term, 0, (len(g.Elems)+1)/2)}
-	const (
-		stStart = iota
-		stSign
-		stCoef
-		stStar
-		stB
-	)
-	st := stStart
-	var cur tf.Term
-	var prev string
-	var seen uint64 // powers 0..63 used so far
-	var seen64 bool
-	finish := func(p lexer.Position) bool {
-		k := cur.Power
-		dup := false
-		if k < 64 {
-			dup = seen&(1<<k) != 0
-			seen |= 1 << k
-		} else {
-			dup = seen64
-			seen64 = true
-		}
-		if dup {
-			b.fail(p, ErrModel, "two terms in B^"+strconv.Itoa(k)+" in one polynomial; combine them")
+// polynomial reads the polynomial in parentheses f, one term per power
+// of B.
+func (b *builder) polynomial(f *factor) (tf.Factor, bool) {
+	pl := f.Poly
+	fac := tf.Factor{Pos: toPos(f.Pos), Terms: make([]tf.Term, 0, 1+len(pl.Rest))}
+	var seen [MaxDegree + 1]bool
+	add := func(neg bool, m *monomial) bool {
+		t, ok := b.monomial(m)
+		if !ok {
 			return false
 		}
-		f.Terms = append(f.Terms, cur)
-		cur = tf.Term{}
+		if seen[t.Power] {
+			b.fail(m.Pos, ErrModel, "two terms in B^"+strconv.Itoa(t.Power)+" in one polynomial; combine them")
+			return false
+		}
+		seen[t.Power] = true
+		t.Neg = neg
+		fac.Terms = append(fac.Terms, t)
 		return true
 	}
-	for i := range g.Elems {
-		el := &g.Elems[i]
-		it := el.Item
-		switch {
-		case el.Sign != "":
-			switch st {
-			case stStart, stCoef, stB:
-				if st != stStart && !finish(el.Pos) {
-					return f, false
-				}
-				cur.Neg = el.Sign == "-"
-				st = stSign
-			default:
-				b.fail(el.Pos, ErrSyntax, "expected a coefficient or B after "+quoteTok(prev)+", found "+quoteTok(el.Sign))
-				return f, false
-			}
-		case it.Number != "" || it.Name != "":
-			if hint := glued(it.Name); it.Name != "" && hint != "" {
-				b.fail(el.Pos, ErrSyntax, hint)
-				return f, false
-			}
-			if it.Name == "s" && (st == stCoef || st == stStar) {
-				b.fail(el.Pos, ErrSyntax, "s is not an operator of the spec language: a spec is in the backshift operator B of discrete time; convert a continuous-time model first, as with tf.FOPDT.Discretize")
-				return f, false
-			}
-			if st == stB && prev == "B" && it.Number != "" && strings.Trim(it.Number, "0123456789") == "" {
-				b.fail(el.Pos, ErrSyntax, "B followed by "+clip(it.Number)+" is not a power of B: for the term in B^"+clip(it.Number)+" write B^"+clip(it.Number))
-				return f, false
-			}
-			if st != stStart && st != stSign {
-				b.fail(el.Pos, ErrSyntax, "expected '+', '-' or ')' after "+quoteTok(prev)+": write a sign between the terms of a polynomial")
-				return f, false
-			}
-			if it.Name != "" {
-				b.useCoef(it.Name, it.Pos)
-				cur.Coef = tf.Coef{Name: it.Name, Free: true, Pos: toPos(it.Pos)}
-			} else {
-				v, ok := b.number(&gExp{Pos: it.Pos, Num: it.Number})
-				if !ok {
-					return f, false
-				}
-				cur.Coef = tf.Coef{Value: v, Pos: toPos(it.Pos)}
-			}
-			st = stCoef
-		case it.Star:
-			if i+1 < len(g.Elems) && g.Elems[i+1].Item != nil && g.Elems[i+1].Item.Star && g.Elems[i+1].Pos.Offset == el.Pos.Offset+1 {
-				b.fail(el.Pos, ErrSyntax, "'**' is not a power here: write a power with '^', as in B^3")
-				return f, false
-			}
-			if st != stCoef {
-				b.fail(el.Pos, ErrSyntax, "'*' must stand between a coefficient and B")
-				return f, false
-			}
-			st = stStar
-		case it.B != nil:
-			switch st {
-			case stStart, stSign:
-				cur.Coef = tf.Coef{Value: 1, Pos: toPos(it.Pos)}
-			case stCoef, stStar:
-			default:
-				b.fail(el.Pos, ErrSyntax, "expected '+', '-' or ')' after "+quoteTok(prev)+": write a sign between the terms of a polynomial")
-				return f, false
-			}
-			cur.Power = 1
-			if it.B.Exp != nil {
-				k, ok := b.whole(it.B.Exp, 0, MaxDegree, "the power of B", "", ErrLimit)
-				if !ok {
-					return f, false
-				}
-				cur.Power = k
-			}
-			st = stB
-		case it.Group != nil || it.Slash != nil:
-			b.fail(el.Pos, ErrSyntax, "inside these parentheses write either one polynomial or a product of polynomials in parentheses, not both")
-			return f, false
-		case it.Noise:
-			b.fail(el.Pos, ErrModel, "the white-noise symbol a cannot stand inside a polynomial")
-			return f, false
-		case it.Short != nil:
-			b.fail(el.Pos, ErrModel, "a noise shorthand such as "+it.Short.Kind+"(...) cannot stand inside a polynomial")
-			return f, false
-		}
-		prev = elemText(el)
+	if !add(pl.Sign == "-", &pl.First) {
+		return fac, false
 	}
-	switch st {
-	case stSign, stStar:
-		b.fail(g.Close.Pos, ErrSyntax, "expected a coefficient or B after "+quoteTok(prev)+", found ')'")
-		return f, false
-	case stCoef, stB:
-		if !finish(g.Close.Pos) {
-			return f, false
+	for i := range pl.Rest {
+		if !add(pl.Rest[i].Sign == "-", &pl.Rest[i].Mono) {
+			return fac, false
 		}
 	}
-	return f, true
+	return fac, true
 }
 
-// elemText gives the text of an element for messages.
-func elemText(el *gElem) string {
-	it := el.Item
-	switch {
-	case el.Sign != "":
-		return el.Sign
-	case it.Number != "":
-		return it.Number
-	case it.Name != "":
-		return it.Name
-	case it.Star:
-		return "*"
-	case it.B != nil:
-		if it.B.Exp != nil {
-			s := "B^"
-			if it.B.Exp.Neg {
-				s += "-"
-			}
-			return s + it.B.Exp.Num
+// monomial reads one term of a polynomial: c, c B^k or B^k.
+func (b *builder) monomial(m *monomial) (tf.Term, bool) {
+	d := m.Power
+	var t tf.Term
+	if m.Bare != nil {
+		d = m.Bare
+		t.Coef = tf.Coef{Value: 1, Pos: toPos(m.Pos)}
+	} else {
+		c, ok := b.coefficient(m.Pos, m.Number, m.Name)
+		if !ok {
+			return t, false
 		}
-		return "B"
+		t.Coef = c
 	}
-	return ""
+	if d == nil {
+		return t, true
+	}
+	t.Power = 1
+	if d.Exp != nil {
+		k, ok := b.whole(d.Exp, 0, MaxDegree, "the power of B", "", ErrLimit)
+		if !ok {
+			return t, false
+		}
+		t.Power = k
+	}
+	return t, true
 }
 
 func quoteTok(s string) string { return "'" + clip(s) + "'" }
@@ -902,7 +769,7 @@ func (b *builder) checkNames() {
 
 // bind applies the where clause: name ~ v gives a free coefficient its
 // start value, name = v holds it at v.
-func (b *builder) bind(binds []gBind) {
+func (b *builder) bind(binds []binding) {
 	type val struct {
 		v    float64
 		free bool
@@ -913,7 +780,7 @@ func (b *builder) bind(binds []gBind) {
 	vals := make(map[string]val, len(binds))
 	for i := range binds {
 		bd := &binds[i]
-		name := bd.Name.Name
+		name := bd.Name.Value
 		if _, ok := b.coefs[name]; !ok {
 			if _, isSeries := b.series[name]; isSeries {
 				b.fail(bd.Name.Pos, ErrModel, name+" is a series, not a coefficient")
@@ -926,7 +793,7 @@ func (b *builder) bind(binds []gBind) {
 			b.fail(bd.Name.Pos, ErrModel, name+" is given a value twice")
 			continue
 		}
-		v, ok := b.number(&bd.Val)
+		v, ok := b.number(bd.Val.Pos, bd.Val.Num, bd.Val.Neg)
 		if !ok {
 			continue
 		}

@@ -138,40 +138,60 @@
 //
 // # Grammar
 //
-// In EBNF (as in the Go specification: [ ] optional, { } repeated, | or):
+// The grammar below is the one the parser runs: it is printed by the
+// participle parser (github.com/alecthomas/participle v2) from the Go
+// types in grammar.go, and a test checks that this text and the parser
+// agree. Notation: "x" a token written as is, <ident> a name and
+// <number> a number (defined below), ( ) grouping, | or, x? optional,
+// x* repeated, x+ at least once; (?= x) says that x must come next and
+// (?! x) that it must not (without reading it).
 //
-//	spec        = equation { [ ";" ] clause } [ ";" ] .
-//	equation    = { factor } name "=" [ "-" ] term { ( "+" | "-" ) term } .
-//	term        = constant | input | noise .
-//	constant    = number | name .
-//	input       = { numerator [ "*" ] } { denominator [ "*" ] } series .
-//	numerator   = coefficient | factor | delay .
-//	denominator = "/" factor | delay .
-//	delay       = "B" [ "^" whole ] .
-//	series      = name | "(" factor { factor } name ")" .
-//	noise       = [ "1" ] { factor } { "/" factor } "a"
-//	            | "AR" "(" whole ")" | "MA" "(" whole ")"
-//	            | "ARMA" "(" whole "," whole ")" .
-//	factor      = "(" ( polynomial | factor { [ "*" ] factor } ) ")" [ "^" whole ] .
-//	polynomial  = [ sign ] monomial { sign monomial } .
-//	monomial    = coefficient [ [ "*" ] "B" [ "^" whole ] ] | "B" [ "^" whole ] .
-//	coefficient = number | name .
-//	sign        = "+" | "-" .
-//	clause      = "where" binding { "," binding } | "every" number unit .
-//	binding     = name ( "~" | "=" ) [ "-" ] number .
-//	unit        = "s" | "min" | "h" | "d" | "wk" | "mo" | "qtr" | "yr" .
-//	whole       = number .   (with a whole value: 4, or 4.0)
-//	number      = ( digit { digit } [ "." { digit } ] | "." digit { digit } )
-//	              [ ( "e" | "E" ) [ "+" | "-" ] digit { digit } ] .
-//	name        = letter { letter | digit } .   (not a reserved word)
-//	letter      = "A" … "Z" | "a" … "z" | "_" .
+//	SpecText = Equation (";" | Clause)* .
+//	Equation = Factor* <ident> "=" LeadTerm SignedTerm* .
+//	LeadTerm = ("+" | "-")? Term .
+//	SignedTerm = ("+" | "-") Term .
+//	Term = Shorthand | (Operator* Operand) .
+//	Operator = (Coefficient | Delay | ("/" Factor) | ((?! DiffSeries) Factor)) "*"? .
+//	Coefficient = (<number> | <ident>)
+//	    (?= <ident> | <number> | "(" | "B" | "/" | "*" | "a") .
+//	Operand = <ident> | "a" | DiffSeries | <number> .
+//	DiffSeries = "(" Factor ("*"? Factor)* "*"? <ident> ")" .
+//	Delay = "B" ("^" Value)? .
+//	Factor = "(" (Polynomial | Product) ")" ("^" Value)? .
+//	Product = Factor ("*"? Factor)* .
+//	Polynomial = ("+" | "-")? Monomial SignedMono* .
+//	SignedMono = ("+" | "-") Monomial .
+//	Monomial = (((<number> | <ident>) ("*"? Delay)?) | Delay) .
+//	Shorthand = ("AR" | "MA" | "ARMA") "(" Value ("," Value)* ")" .
+//	Clause = ("where" Binding ("," Binding)*) | ("every" Every) .
+//	Binding = <ident> ("~" | "=") Value .
+//	Every = Value <ident> .
+//	Value = "-"? <number> .
 //
-// plus the rules the grammar cannot say: an input has at least one
-// operator (a lone name is the constant); a term may follow '-' only
-// when it is a number (the constant); at most one constant and one
-// noise term; at least one input; each denominator and noise factor has
-// constant term 1 (the number 1, not a name); differencing holds numbers
-// only, with constant term 1; one term per power of B in a polynomial.
+// A term is its operators and the operand they act on: a series name or
+// a differenced series (an input), the noise symbol a (the noise term),
+// or, with no operators, a lone number or name (the constant). A
+// coefficient is a number or name with more of its term after it, so in
+// w0 B x the name w0 is a coefficient and x the series. The tokens are
+//
+//	<number> = ( digit { digit } [ "." { digit } ] | "." digit { digit } )
+//	           [ ( "e" | "E" ) [ "+" | "-" ] digit { digit } ] .
+//	<ident>  = letter { letter | digit } .   (not a reserved word)
+//	letter   = "A" … "Z" | "a" … "z" | "_" .
+//
+// (in the notation of the Go specification: [ ] optional, { } repeated).
+// The rules the grammar does not say are checked after parsing, each with
+// a message of its own: an input has at least one operator; a term may
+// follow '-' only when it is a number (the constant); at most one
+// constant and one noise term; at least one input; numerator factors
+// come before denominator factors; the noise term's operators are
+// polynomials in parentheses, each after '/' or not, and an optional
+// leading 1 (no gain, no dead time); each denominator and noise factor
+// has constant term 1 (the number 1, not a name); differencing holds
+// numbers only, with constant term 1; one term per power of B in a
+// polynomial; powers, dead times and orders are whole numbers (4 or
+// 4.0), not negative; AR and MA take one order and ARMA two; a unit is
+// one of s, min, h, d, wk, mo, qtr and yr.
 //
 // # Errors
 //
@@ -204,12 +224,13 @@
 //
 // # Implementation
 //
-// The grammar is written for participle (github.com/alecthomas/participle
-// v2), slightly wider than the language so that the checks after parsing
-// can give precise messages; a hand-written recursive-descent parser
-// builds the same syntax tree more than ten times faster, and the participle
-// parser runs when it fails, to locate and explain the error (for texts
-// of up to 2048 tokens; beyond, the hand-written parser's position is
-// used alone, to keep memory small). Tests and the fuzz target check
-// that the two parsers agree.
+// The participle grammar (grammar.go) is the one parser; build.go turns
+// its syntax tree into a tf.Model and checks the rules above, and
+// syntax.go words the messages of texts the grammar refuses from
+// participle's error: the production it expected and the token where
+// it stopped. The participle parser allocates about 2.5 KB per token,
+// so a typical spec takes about 0.1 MB and 0.15 ms, and a hostile text
+// at MaxSpecLen up to about 150 MB and a second: a spec is read once
+// per configuration load, and clarity of the grammar is put before
+// speed here.
 package parse

@@ -5,110 +5,169 @@ import (
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
-// The participle grammar. It is deliberately a little wider than the
-// language (a term is any run of items, a parenthesised group any run of
-// elements) so that the checks in build.go can say precisely what is
-// wrong, in the spec's words, with the position of the offending part.
+// The participle grammar: the one parser of the spec language. Each type
+// below is one production of the grammar printed in the package doc (the
+// production's name is the type's name with an upper-case first letter;
+// TestGrammarDoc checks that the doc and the grammar agree). What the
+// grammar cannot say (signs of terms, the constant term of a
+// denominator, whole numbers, ...) is checked in build.go.
 
-type gSpec struct {
-	Eq      gEquation `parser:"@@"`
-	Clauses []gClause `parser:"( \";\" | @@ )*"`
+// specText is a whole spec: the equation, then its clauses.
+type specText struct {
+	Eq      equation `parser:"@@"`
+	Clauses []clause `parser:"( \";\" | @@ )*"`
 }
 
-type gEquation struct {
-	Diff   []*gGroup `parser:"@@*"`
-	Output gName     `parser:"@@"`
-	Eq     string    `parser:"@\"=\""`
-	Terms  []gTerm   `parser:"@@+"`
+// equation is the model: the output with its differencing, '=', and the
+// terms of the right-hand side.
+type equation struct {
+	Diff   []*factor    `parser:"@@*"`
+	Output lexer.Token  `parser:"@Ident \"=\""`
+	First  leadTerm     `parser:"@@"`
+	Rest   []signedTerm `parser:"@@*"`
 }
 
-type gName struct {
+// leadTerm is the first term, with an optional sign.
+type leadTerm struct {
 	Pos  lexer.Position
-	Name string `parser:"@Ident"`
+	Sign string `parser:"@( \"+\" | \"-\" )?"`
+	Term term   `parser:"@@"`
 }
 
-// gTerm is one summand of the right-hand side.
-type gTerm struct {
+// signedTerm is a term after '+' or '-'.
+type signedTerm struct {
+	Pos  lexer.Position
+	Sign string `parser:"@( \"+\" | \"-\" )"`
+	Term term   `parser:"@@"`
+}
+
+// term is one summand: a noise shorthand, or a run of operators ending in
+// what they act on (a series, the noise symbol a, or a lone number or
+// name, which is the constant).
+type term struct {
 	Pos   lexer.Position
-	Sign  string  `parser:"@(\"+\" | \"-\")?"`
-	Items []gItem `parser:"@@+"`
+	Short *shorthand `parser:"  @@"`
+	Ops   []operator `parser:"| @@*"`
+	End   *operand   `parser:"  @@"`
 }
 
-// gItem is one factor of a term.
-type gItem struct {
+// operator is one factor of a term: a coefficient, a power of B, a
+// polynomial in parentheses or one after '/', with an optional '*'
+// after it.
+type operator struct {
+	Pos       lexer.Position
+	Coef      *coefficient `parser:"( @@"`
+	Delay     *delay       `parser:"| @@"`
+	Den       *factor      `parser:"| \"/\" @@"`
+	NotSeries *diffSeries  `parser:"| (?! @@)"`
+	Factor    *factor      `parser:"  @@ )"`
+	Star      bool         `parser:"@\"*\"?"`
+}
+
+// coefficient is a number or a name with more of its term after it
+// (a number or a name that ends a term is the operand).
+type coefficient struct {
 	Pos    lexer.Position
-	Star   bool    `parser:"@\"*\""`
-	Slash  *gGroup `parser:"| \"/\" @@"`
-	Group  *gGroup `parser:"| @@"`
-	B      *gBPow  `parser:"| @@"`
-	Number string  `parser:"| @Number"`
-	Name   string  `parser:"| @Ident"`
-	Noise  bool    `parser:"| @\"a\""`
-	Short  *gShort `parser:"| @@"`
+	Number string `parser:"( @Number"`
+	Name   string `parser:"| @Ident ) (?= Ident | Number | \"(\" | \"B\" | \"/\" | \"*\" | \"a\")"`
 }
 
-// gGroup is "(" elements ")" with an optional power.
-type gGroup struct {
-	Pos   lexer.Position
-	Elems []gElem `parser:"\"(\" @@+"`
-	Close gClose  `parser:"@@"`
-	Exp   *gExp   `parser:"( \"^\" @@ )?"`
+// operand ends a term.
+type operand struct {
+	Pos    lexer.Position
+	Name   string      `parser:"  @Ident"`
+	Noise  bool        `parser:"| @\"a\""`
+	Series *diffSeries `parser:"| @@"`
+	Number string      `parser:"| @Number"`
 }
 
-type gClose struct {
-	Pos   lexer.Position
-	Paren string `parser:"@\")\""`
+// diffSeries is a differenced input series, ((1 - B) x).
+type diffSeries struct {
+	Factors []*factor   `parser:"\"(\" @@ ( \"*\"? @@ )*"`
+	Series  lexer.Token `parser:"\"*\"? @Ident \")\""`
 }
 
-// gElem is one element inside parentheses: a sign or an item.
-type gElem struct {
-	Pos  lexer.Position
-	Sign string `parser:"@(\"+\" | \"-\")"`
-	Item *gItem `parser:"| @@"`
+// delay is B or B^k.
+type delay struct {
+	Exp *value `parser:"\"B\" ( \"^\" @@ )?"`
 }
 
-// gBPow is B with an optional power.
-type gBPow struct {
-	Pos lexer.Position
-	B   string `parser:"@\"B\""`
-	Exp *gExp  `parser:"( \"^\" @@ )?"`
+// factor is a polynomial in parentheses, or a product of factors in
+// parentheses, with an optional whole power.
+type factor struct {
+	Pos     lexer.Position
+	Poly    *polynomial `parser:"\"(\" ( @@"`
+	Product *product    `parser:"      | @@ ) \")\""`
+	Exp     *value      `parser:"( \"^\" @@ )?"`
 }
 
-// gExp is a signed number: a power, a shorthand order or a clause value.
-type gExp struct {
+// product is a product of factors, with an optional '*' between them.
+type product struct {
+	First *factor   `parser:"@@"`
+	Rest  []*factor `parser:"( \"*\"? @@ )*"`
+}
+
+// polynomial is a sum of monomials, each after its sign (the first
+// one's sign is optional).
+type polynomial struct {
+	Sign  string       `parser:"@( \"+\" | \"-\" )?"`
+	First monomial     `parser:"@@"`
+	Rest  []signedMono `parser:"@@*"`
+}
+
+// signedMono is a monomial after its sign.
+type signedMono struct {
+	Sign string   `parser:"@( \"+\" | \"-\" )"`
+	Mono monomial `parser:"@@"`
+}
+
+// monomial is one term of a polynomial: c, c B^k or B^k.
+type monomial struct {
+	Pos    lexer.Position
+	Number string `parser:"( ( @Number"`
+	Name   string `parser:"  | @Ident )"`
+	Star   bool   `parser:"  ( @\"*\"?"`
+	Power  *delay `parser:"    @@ )?"`
+	Bare   *delay `parser:"| @@ )"`
+}
+
+// value is a number with an optional '-': a power, an order, a start
+// or held value, a sample interval. A power or an order is written with
+// the '-' only so that a negative one gets a message of its own.
+type value struct {
 	Pos lexer.Position
 	Neg bool   `parser:"@\"-\"?"`
 	Num string `parser:"@Number"`
 }
 
-// gShort is a noise shorthand: AR(p), MA(q) or ARMA(p, q).
-type gShort struct {
+// shorthand is a noise shorthand: AR(p), MA(q) or ARMA(p, q).
+type shorthand struct {
 	Pos  lexer.Position
-	Kind string  `parser:"@(\"AR\" | \"MA\" | \"ARMA\")"`
-	Args []*gExp `parser:"\"(\" @@ ( \",\" @@ )* \")\""`
+	Kind string   `parser:"@( \"AR\" | \"MA\" | \"ARMA\" )"`
+	Args []*value `parser:"\"(\" @@ ( \",\" @@ )* \")\""`
 }
 
-type gClause struct {
+// clause is a where or an every clause.
+type clause struct {
 	Pos   lexer.Position
-	Where []gBind `parser:"\"where\" @@ ( \",\" @@ )*"`
-	Every *gEvery `parser:"| \"every\" @@"`
+	Where []binding `parser:"  \"where\" @@ ( \",\" @@ )*"`
+	Every *every    `parser:"| \"every\" @@"`
 }
 
-// gBind gives a named coefficient a start value (~) or holds it (=).
-type gBind struct {
-	Pos  lexer.Position
-	Name gName  `parser:"@@"`
-	Op   string `parser:"@(\"=\" | \"~\")"`
-	Val  gExp   `parser:"@@"`
+// binding gives a named coefficient a start value (~) or holds it (=).
+type binding struct {
+	Name lexer.Token `parser:"@Ident"`
+	Op   string      `parser:"@( \"~\" | \"=\" )"`
+	Val  value       `parser:"@@"`
 }
 
-type gEvery struct {
-	Pos  lexer.Position
-	Val  gExp  `parser:"@@"`
-	Unit gName `parser:"@@"`
+// every is the sample interval: a number and a unit.
+type every struct {
+	Val  value       `parser:"@@"`
+	Unit lexer.Token `parser:"@Ident"`
 }
 
-var specParser = participle.MustBuild[gSpec](
+var specParser = participle.MustBuild[specText](
 	participle.Lexer(specLexer{}),
 	participle.UseLookahead(1),
 )

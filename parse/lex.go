@@ -3,7 +3,6 @@ package parse
 import (
 	"io"
 	"strings"
-	"sync"
 	"unicode/utf8"
 
 	"github.com/alecthomas/participle/v2/lexer"
@@ -105,28 +104,7 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 		var typ lexer.TokenType
 		switch {
 		case isDigit(c) || c == '.' && i+1 < len(s) && isDigit(s[i+1]):
-			typ = tokNumber
-			for i < len(s) && isDigit(s[i]) {
-				i++
-			}
-			if i < len(s) && s[i] == '.' {
-				i++
-				for i < len(s) && isDigit(s[i]) {
-					i++
-				}
-			}
-			if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
-				j := i + 1
-				if j < len(s) && (s[j] == '+' || s[j] == '-') {
-					j++
-				}
-				if j < len(s) && isDigit(s[j]) {
-					for j < len(s) && isDigit(s[j]) {
-						j++
-					}
-					i = j
-				}
-			}
+			typ, i = tokNumber, numberEnd(s, i)
 		case isLetter(c):
 			typ = tokIdent
 			for i < len(s) && (isLetter(s[i]) || isDigit(s[i])) {
@@ -153,6 +131,32 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 	return toks, nil
 }
 
+// numberEnd returns the end of the number that starts at s[i]: digits,
+// an optional fraction and an optional exponent (an 'e' not followed by
+// digits is not part of the number).
+func numberEnd(s string, i int) int {
+	digits := func(i int) int {
+		for i < len(s) && isDigit(s[i]) {
+			i++
+		}
+		return i
+	}
+	i = digits(i)
+	if i < len(s) && s[i] == '.' {
+		i = digits(i + 1)
+	}
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		j := i + 1
+		if j < len(s) && (s[j] == '+' || s[j] == '-') {
+			j++
+		}
+		if j < len(s) && isDigit(s[j]) {
+			i = digits(j)
+		}
+	}
+	return i
+}
+
 // charHint suggests what to write instead of a character the spec
 // language does not use, or returns "".
 func charHint(s string) string {
@@ -176,14 +180,3 @@ func charHint(s string) string {
 
 func isDigit(c byte) bool  { return '0' <= c && c <= '9' }
 func isLetter(c byte) bool { return 'a' <= c && c <= 'z' || 'A' <= c && c <= 'Z' || c == '_' }
-
-// tokPool recycles token buffers between calls of Model: nothing in a
-// returned model or error points into them (token values are substrings
-// of the spec).
-var tokPool = sync.Pool{New: func() any {
-	b := make([]lexer.Token, 0, 128)
-	return &b
-}}
-
-// maxPooled is the largest token buffer kept for reuse.
-const maxPooled = 4096
