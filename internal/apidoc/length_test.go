@@ -29,8 +29,6 @@ var longFuncs = map[string]bool{
 	"tf/forecast.go:Estimate.Forecast": true, // 191 lines
 	"ccf/ltf.go:ltfFit":                true, // 175 lines
 	"tf/fit_fir.go:fitFIR":             true, // 129 lines
-	"parse/build.go:builder.sum":       true, // 127 lines
-	"parse/parse.go:syntaxReason":      true, // 117 lines
 	"ccf/ltf.go:distributedLag":        true, // 112 lines
 	"ccf/identify.go:identify":         true, // 104 lines
 	"tf/c2d.go:Rational.asSecondOrder": true, // 104 lines
