@@ -114,9 +114,8 @@ func TestDistributedLagBadInput(t *testing.T) {
 	if _, err := DistributedLag(y, [][]float64{make([]float64, 60)}, nil); !errors.As(err, &se) || !errors.Is(err, ErrConstant) || se.Series != "x1" {
 		t.Errorf("constant: %v", err)
 	}
-	// Lags and orders beyond the series: typed errors with sensible
-	// counts (the coefficient counts used to overflow into negative
-	// "need at least" figures).
+	// Lags and orders beyond the series: typed errors whose "need at
+	// least" counts do not overflow (Need is math.MaxInt, not negative).
 	if _, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{Lags: math.MaxInt}); !errors.As(err, &se) || se.Need != math.MaxInt {
 		t.Errorf("Lags = MaxInt: %v", err)
 	}
