@@ -2,8 +2,10 @@ package ccf
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -75,7 +77,8 @@ type DistributedLagResult struct {
 // Errors: *SettingError (no inputs, bad settings: see
 // DistributedLagSettings.Validate), *SampleError (naming the series and
 // index), *SeriesError of kind ErrLength, ErrShort (fewer than twice as
-// many rows as coefficients) or ErrConstant (a constant series), and a
+// many rows as coefficients), ErrConstant (a constant series) or
+// ErrOverflow (magnitudes whose sums of products overflow), and a
 // *ModelError for a rank-deficient regression. Inputs are not modified.
 //
 // References: Liu, L.-M., Hanssens, D.M. (1982), see the package
@@ -118,7 +121,11 @@ func distributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	if maxIter == 0 {
 		maxIter = 50
 	}
-	f, err := newLagDesign(y, xs, K, p).fit(maxIter)
+	d := newLagDesign(y, xs, K, p)
+	if !d.finite() {
+		return nil, gramOverflowError(out, names, len(y))
+	}
+	f, err := d.fit(maxIter)
 	if err != nil {
 		return nil, err
 	}
@@ -228,16 +235,16 @@ func lagOrders(set DistributedLagSettings, n, m int, out string) (K, p int, err 
 // stands in for a design. Only M and the final noise series cost time
 // proportional to n.
 type lagDesign struct {
-	y     []float64
-	xs    [][]float64
-	K, p  int
-	Q     int
-	my    float64
-	mx    []float64
-	ucol  [][]float64 // ucol[c] is column c of U
-	gram  *mat.SymDense
-	ncoef int
-	nrows int
+	y     []float64     // the output
+	xs    [][]float64   // the inputs
+	K, p  int           // the longest lag and the AR order
+	Q     int           // the columns of E
+	my    float64       // the mean of y
+	mx    []float64     // the means of the inputs
+	gram  *mat.SymDense // M = E'E
+	ucol  [][]float64   // ucol[c] is column c of U; nil when M has no factor
+	ncoef int           // the constant and the m (K+1) weights
+	nrows int           // the rows of E, n - K - p
 }
 
 // newLagDesign forms the Gram matrix of the extended design and its
@@ -295,6 +302,28 @@ func (d *lagDesign) gramMatrix() *mat.SymDense {
 	return M
 }
 
+// finite reports whether every entry of the Gram matrix is finite.
+func (d *lagDesign) finite() bool {
+	for i := 0; i < d.Q; i++ {
+		for j := i; j < d.Q; j++ {
+			if !finite(d.gram.At(i, j)) {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// gramOverflowError is the error of series whose sums of products
+// overflow: a *SeriesError of kind ErrOverflow naming the output and the
+// inputs, with the magnitude sqrt(MaxFloat64/n) below which a sum of n
+// squares cannot overflow.
+func gramOverflowError(out string, names []string, n int) error {
+	lim := math.Sqrt(math.MaxFloat64 / float64(n))
+	return &SeriesError{Series: out + ", " + strings.Join(names, ", "), Kind: ErrOverflow,
+		Detail: fmt.Sprintf("the sums of products of the lags overflow; keep magnitudes below about %.3g: rescale the series", lim)}
+}
+
 // squareFactor returns the columns of a square U with U'U = M, from the
 // eigendecomposition M = V diag(lambda) V' (U = diag(sqrt(lambda)) V',
 // rounding's negative eigenvalues taken as zero), so that a singular M
@@ -302,12 +331,12 @@ func (d *lagDesign) gramMatrix() *mat.SymDense {
 func squareFactor(M *mat.SymDense) [][]float64 {
 	Q := M.SymmetricDim()
 	var eig mat.EigenSym
+	if !eig.Factorize(M, true) {
+		return nil
+	}
 	ucol := make([][]float64, Q)
 	for c := range ucol {
 		ucol[c] = make([]float64, Q)
-	}
-	if !eig.Factorize(M, true) {
-		return nil
 	}
 	var V mat.Dense
 	eig.VectorsTo(&V)
@@ -444,14 +473,14 @@ func (d *lagDesign) fit(maxIter int) (*lagFit, error) {
 	x := make([]float64, d.ncoef)
 	res, err := lm.Minimize(context.Background(), d.problem(0), x, set)
 	if err != nil {
-		return nil, &ModelError{Part: "the distributed-lag regression", Problem: err.Error()}
+		return nil, startError(err)
 	}
 	f.iter, x = res.Iter, res.X
 	if d.p > 0 {
 		x = append(x, make([]float64, d.p)...)
 		res, err = lm.Minimize(context.Background(), d.problem(d.p), x, set)
 		if err != nil {
-			return nil, &ModelError{Part: "the distributed-lag regression with AR noise", Problem: err.Error()}
+			return nil, startError(err)
 		}
 		f.iter += res.Iter
 		x = res.X
@@ -464,6 +493,14 @@ func (d *lagDesign) fit(maxIter int) (*lagFit, error) {
 		return nil, nil
 	}
 	return f, nil
+}
+
+// startError is the error of a fit whose sum of squares cannot be
+// computed at its start (lm.ErrStart, from magnitudes whose squares
+// overflow).
+func startError(err error) error {
+	return &ModelError{Part: "the distributed-lag regression",
+		Problem: "its sum of squares cannot be computed (" + err.Error() + "); rescale the series", Err: err}
 }
 
 // regressionInvertible reports whether the unfiltered regression (the
