@@ -7,6 +7,9 @@ import (
 	"strconv"
 	"strings"
 
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 
 	"github.com/backshift/backshift/internal/lm"
@@ -26,9 +29,8 @@ type DistributedLagSettings struct {
 	// (default "y").
 	Names  []string
 	Output string
-	// MaxIter bounds the iterations of each of the two least-squares
-	// stages (the regression without noise model, then the joint fit);
-	// zero means 50.
+	// MaxIter bounds the iterations of the least-squares solver; zero
+	// means 50.
 	MaxIter int
 }
 
@@ -51,8 +53,8 @@ type DistributedLagResult struct {
 	// length n with NaN before Start.
 	Start int
 	Noise []float64
-	// Iter is the number of least-squares iterations taken (both
-	// stages) and Converged whether the solver met its convergence tests
+	// Iter is the number of least-squares iterations taken and
+	// Converged whether the solver met its convergence tests
 	// (a relative reduction of the sum of squares below 1e-14, a step
 	// below 1e-12 of the coefficients or a vanishing gradient).
 	Iter      int
@@ -67,7 +69,8 @@ type DistributedLagResult struct {
 // inputs), the AR noise conditioned on its first p values. The
 // Levenberg-Marquardt solver of the estimators minimises the sum of
 // squared innovations over the weights, the constant and phi together,
-// starting from the ordinary least-squares weights and phi = 0; the
+// starting from zero (its first step fits the regression on the lags of
+// the inputs and of y, linearised there); the
 // standard errors are those of the phi-filtered regression at the
 // solution, given phi. Unlike prewhitening one input
 // at a time, this is valid when the inputs are correlated with one
@@ -271,35 +274,79 @@ func (d *lagDesign) xCol(i, a int) int { return 2 + d.p + i*(d.K+d.p+1) + a }
 // (index 0 is the constant).
 func (d *lagDesign) coef(i, k int) int { return 1 + i*(d.K+1) + k }
 
-// gramMatrix returns M = E'E, summed over blocks of 1024 rows.
+// gramMatrix returns M = E'E. Each entry is a lagged product
+// sum_t u_{t-a} v_{t-b} of two centred series over the rows; for one
+// pair of series and one lag difference these differ only by the terms
+// at the two ends of the rows, so lagProducts forms them from one lag
+// sum (vec.LagSums) each, adding and removing end terms: the work is
+// n times the number of lag differences, not n times Q^2/2.
 func (d *lagDesign) gramMatrix() *mat.SymDense {
-	n, Q, L := len(d.y), d.Q, d.K+d.p
-	M := mat.NewSymDense(Q, nil)
-	const blk = 1024
-	eb := mat.NewDense(blk, Q, nil)
-	for t0 := L; t0 < n; t0 += blk {
-		rb := min(blk, n-t0)
-		e := eb
-		if rb < blk {
-			e = eb.Slice(0, rb, 0, Q).(*mat.Dense)
-		}
-		for r := 0; r < rb; r++ {
-			t := t0 + r
-			row := eb.RawRowView(r)
-			row[0] = 1
-			for q := 0; q <= d.p; q++ {
-				row[d.yCol(q)] = d.y[t-q] - d.my
+	n, L := len(d.y), d.K+d.p
+	// The series as blocks of columns: y (lags 0..p), then every input
+	// (lags 0..L), centred.
+	series := [][]float64{centred(d.y, d.my)}
+	lags := []int{d.p}
+	first := []int{d.yCol(0)}
+	for i, x := range d.xs {
+		series = append(series, centred(x, d.mx[i]))
+		lags = append(lags, L)
+		first = append(first, d.xCol(i, 0))
+	}
+	M := mat.NewSymDense(d.Q, nil)
+	M.SetSym(0, 0, float64(n-L))
+	for s, u := range series {
+		// The constant column: sum_t u_{t-a}, moved one row at a time.
+		sum := accurateSum(u[L:])
+		for a := 0; a <= lags[s]; a++ {
+			if a > 0 {
+				sum += u[L-a] - u[n-a]
 			}
-			for i, x := range d.xs {
-				base := d.xCol(i, 0)
-				for a := 0; a <= L; a++ {
-					row[base+a] = x[t-a] - d.mx[i]
-				}
+			M.SetSym(0, first[s]+a, sum)
+		}
+		for t := s; t < len(series); t++ {
+			v := series[t]
+			// Entries with b >= a, then (a pair of different series) b < a.
+			lagProducts(func(a, b int, x float64) { M.SetSym(first[s]+a, first[t]+b, x) }, u, v, lags[s], lags[t], L, false)
+			if t != s {
+				lagProducts(func(b, a int, x float64) { M.SetSym(first[s]+a, first[t]+b, x) }, v, u, lags[t], lags[s], L, true)
 			}
 		}
-		M.SymRankK(M, 1, e.T())
 	}
 	return M
+}
+
+// centred returns x minus mu, a new slice.
+func centred(x []float64, mu float64) []float64 {
+	c := make([]float64, len(x))
+	for i, v := range x {
+		c[i] = v - mu
+	}
+	return c
+}
+
+// lagProducts calls set(a, b, sum_{r=t0}^{n-1} u_{r-a} v_{r-b}) for every
+// a <= au, b <= bv with b >= a (b > a when strict); t0 >= bv. For a lag
+// difference d = b - a the sums at b and b+1 differ in one term at each
+// end, so one vec.LagSums over the rows at b = bv, d = 0..bv, and two
+// terms per further entry give them all.
+func lagProducts(set func(a, b int, x float64), u, v []float64, au, bv, t0 int, strict bool) {
+	n := len(u)
+	F := make([]float64, bv+1)
+	vec.LagSums(F, v[t0-bv:n-bv], u[t0-bv:n])
+	for d := 0; d <= bv; d++ {
+		if strict && d == 0 {
+			continue
+		}
+		h := F[d] // the sum at b = bv
+		for b := bv; b >= d; b-- {
+			if b < bv {
+				h += v[n-1-b]*u[n-1-b+d] - v[t0-b-1]*u[t0-b-1+d]
+			}
+			if a := b - d; a <= au {
+				set(a, b, h)
+			}
+		}
+	}
 }
 
 // finite reports whether every entry of the Gram matrix is finite.
@@ -324,24 +371,39 @@ func gramOverflowError(out string, names []string, n int) error {
 		Detail: fmt.Sprintf("the sums of products of the lags overflow; keep magnitudes below about %.3g: rescale the series", lim)}
 }
 
-// squareFactor returns the columns of a square U with U'U = M, from the
-// eigendecomposition M = V diag(lambda) V' (U = diag(sqrt(lambda)) V',
-// rounding's negative eigenvalues taken as zero), so that a singular M
-// (an output that the lags explain exactly) factors too.
+// squareFactor returns the columns of a square U with U'U = M: the
+// Cholesky factor when M is positive definite, else (an output that the
+// lags explain exactly makes M singular) diag(sqrt(lambda)) V' from the
+// eigendecomposition M = V diag(lambda) V', rounding's negative
+// eigenvalues taken as zero. It returns nil when neither exists.
 func squareFactor(M *mat.SymDense) [][]float64 {
 	Q := M.SymmetricDim()
-	var eig mat.EigenSym
-	if !eig.Factorize(M, true) {
-		return nil
-	}
 	ucol := make([][]float64, Q)
 	for c := range ucol {
 		ucol[c] = make([]float64, Q)
 	}
+	// Cholesky without the condition estimate of mat.Cholesky: only the
+	// factor is wanted here.
+	raw := M.RawSymmetric()
+	a := blas64.Symmetric{N: Q, Stride: Q, Uplo: blas.Upper, Data: make([]float64, Q*Q)}
+	for i := 0; i < Q; i++ {
+		copy(a.Data[i*Q+i:(i+1)*Q], raw.Data[i*raw.Stride+i:i*raw.Stride+Q])
+	}
+	if u, ok := lapack64.Potrf(a); ok {
+		for k := 0; k < Q; k++ {
+			for c := k; c < Q; c++ {
+				ucol[c][k] = u.Data[k*u.Stride+c]
+			}
+		}
+		return ucol
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(M, true) {
+		return nil
+	}
 	var V mat.Dense
 	eig.VectorsTo(&V)
-	lam := eig.Values(nil)
-	for k, l := range lam {
+	for k, l := range eig.Values(nil) {
 		s := math.Sqrt(math.Max(l, 0))
 		for c := 0; c < Q; c++ {
 			ucol[c][k] = s * V.At(c, k)
@@ -424,11 +486,10 @@ func (d *lagDesign) mulU(dst, w []float64) {
 }
 
 // problem returns the reduced least-squares problem in the
-// distributed-lag coefficients and, when nar is p, the AR coefficients
-// (nar = 0 holds phi at zero: ordinary least squares).
-func (d *lagDesign) problem(nar int) lm.Problem {
+// distributed-lag coefficients (the constant, then v_ik) and phi.
+func (d *lagDesign) problem() lm.Problem {
 	w := make([]float64, d.Q)
-	return lm.Problem{M: d.Q, N: d.ncoef + nar, WritesAll: true,
+	return lm.Problem{M: d.Q, N: d.ncoef + d.p, WritesAll: true,
 		Eval: func(x, r []float64, jac [][]float64) error {
 			beta, phi := x[:d.ncoef], x[d.ncoef:]
 			d.innovation(w, beta, phi)
@@ -441,7 +502,7 @@ func (d *lagDesign) problem(nar int) lm.Problem {
 				d.regressor(w, c, j)
 				d.mulU(jac[j], w)
 			}
-			for q := 1; q <= nar; q++ {
+			for q := 1; q <= d.p; q++ {
 				d.noiseLag(w, beta, q)
 				d.mulU(jac[d.ncoef+q-1], w)
 			}
@@ -460,33 +521,22 @@ type lagFit struct {
 	converged bool
 }
 
-// fit runs the two least-squares stages: ordinary least squares of the
-// distributed lags (phi = 0), then, for p > 0, the joint fit of the
-// coefficients and phi from there. It returns nil for a singular
-// regression, and an error when the solver cannot start.
+// fit minimises the sum of squared innovations over the coefficients
+// and phi by internal/lm, from zero, and takes the covariance of the
+// coefficients from the regression filtered by the fitted phi. It
+// returns nil for a singular regression, and an error when the solver
+// cannot start.
 func (d *lagDesign) fit(maxIter int) (*lagFit, error) {
-	if d.ucol == nil || !d.regressionInvertible() {
+	if d.ucol == nil {
 		return nil, nil
 	}
-	set := &lm.Settings{MaxIter: maxIter}
-	f := &lagFit{d: d}
-	x := make([]float64, d.ncoef)
-	res, err := lm.Minimize(context.Background(), d.problem(0), x, set)
+	x0 := make([]float64, d.ncoef+d.p)
+	res, err := lm.Minimize(context.Background(), d.problem(), x0, &lm.Settings{MaxIter: maxIter})
 	if err != nil {
 		return nil, startError(err)
 	}
-	f.iter, x = res.Iter, res.X
-	if d.p > 0 {
-		x = append(x, make([]float64, d.p)...)
-		res, err = lm.Minimize(context.Background(), d.problem(d.p), x, set)
-		if err != nil {
-			return nil, startError(err)
-		}
-		f.iter += res.Iter
-		x = res.X
-	}
-	f.converged = res.Reason.Converged()
-	f.beta, f.phi = x[:d.ncoef], x[d.ncoef:]
+	f := &lagFit{d: d, iter: res.Iter, converged: res.Reason.Converged(),
+		beta: res.X[:d.ncoef], phi: res.X[d.ncoef:]}
 	f.sigma2 = math.Max(res.SSQ, 0) / float64(d.nrows-d.ncoef)
 	f.cov = d.filteredInverse(f.phi)
 	if f.cov == nil {
@@ -501,25 +551,6 @@ func (d *lagDesign) fit(maxIter int) (*lagFit, error) {
 func startError(err error) error {
 	return &ModelError{Part: "the distributed-lag regression",
 		Problem: "its sum of squares cannot be computed (" + err.Error() + "); rescale the series", Err: err}
-}
-
-// regressionInvertible reports whether the unfiltered regression (the
-// constant and the lags 0..K of every input) has an invertible Gram
-// matrix, by gramInverse's test.
-func (d *lagDesign) regressionInvertible() bool {
-	idx := []int{0}
-	for i := range d.xs {
-		for k := 0; k <= d.K; k++ {
-			idx = append(idx, d.xCol(i, k))
-		}
-	}
-	G := mat.NewSymDense(len(idx), nil)
-	for a, ia := range idx {
-		for b := a; b < len(idx); b++ {
-			G.SetSym(a, b, d.gram.At(ia, idx[b]))
-		}
-	}
-	return gramInverse(G) != nil
 }
 
 // filteredInverse returns (X'X)^-1 of the regression filtered by phi
