@@ -110,10 +110,10 @@ func distributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	if err != nil {
 		return nil, err
 	}
-	if err := checkLagSeries(y, xs, out, names); err != nil {
+	if err := checkSeriesSet(y, xs, out, names); err != nil {
 		return nil, err
 	}
-	K, p, err := lagOrders(set, len(y), len(xs), out)
+	K, p, err := ordersFor(set, len(y), len(xs), out)
 	if err != nil {
 		return nil, err
 	}
@@ -124,7 +124,7 @@ func distributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	if maxIter == 0 {
 		maxIter = 50
 	}
-	d := newLagDesign(y, xs, K, p)
+	d := newDesign(y, xs, K, p)
 	if !d.finite() {
 		return nil, gramOverflowError(out, names, len(y))
 	}
@@ -163,9 +163,9 @@ func inputNames(given []string, m int) ([]string, error) {
 	return names, nil
 }
 
-// checkLagSeries checks the output y (named out) and the inputs: finite
+// checkSeriesSet checks the output y (named out) and the inputs: finite
 // samples, the inputs as long as y and none of them constant.
-func checkLagSeries(y []float64, xs [][]float64, out string, names []string) error {
+func checkSeriesSet(y []float64, xs [][]float64, out string, names []string) error {
 	n := len(y)
 	if err := checkSeries(out, y); err != nil {
 		return err
@@ -184,11 +184,11 @@ func checkLagSeries(y []float64, xs [][]float64, out string, names []string) err
 	return nil
 }
 
-// lagOrders returns the longest lag K and the AR order p of the settings
+// ordersFor returns the longest lag K and the AR order p of the settings
 // with their defaults for n samples of m inputs, and checks that the
 // series is long enough for them: at least twice as many rows as
 // distributed-lag coefficients.
-func lagOrders(set DistributedLagSettings, n, m int, out string) (K, p int, err error) {
+func ordersFor(set DistributedLagSettings, n, m int, out string) (K, p int, err error) {
 	K = set.Lags
 	if K == 0 {
 		K = max(1, min(24, n/(4*m)))
@@ -221,7 +221,7 @@ func lagOrders(set DistributedLagSettings, n, m int, out string) (K, p int, err 
 	return K, p, nil
 }
 
-// lagDesign is the regression of DistributedLag reduced to a small
+// design is the regression of DistributedLag reduced to a small
 // equivalent problem.
 //
 // The extended design E has rows t = K+p..n-1 and Q columns: the
@@ -237,7 +237,7 @@ func lagOrders(set DistributedLagSettings, n, m int, out string) (K, p int, err 
 // J'J as the n-row one, as the triangular factor of a QR decomposition
 // stands in for a design. Only M and the final noise series cost time
 // proportional to n.
-type lagDesign struct {
+type design struct {
 	y     []float64     // the output
 	xs    [][]float64   // the inputs
 	K, p  int           // the longest lag and the AR order
@@ -250,11 +250,11 @@ type lagDesign struct {
 	nrows int           // the rows of E, n - K - p
 }
 
-// newLagDesign forms the Gram matrix of the extended design and its
+// newDesign forms the Gram matrix of the extended design and its
 // factor.
-func newLagDesign(y []float64, xs [][]float64, K, p int) *lagDesign {
+func newDesign(y []float64, xs [][]float64, K, p int) *design {
 	n, m := len(y), len(xs)
-	d := &lagDesign{y: y, xs: xs, K: K, p: p, Q: 1 + (p + 1) + m*(K+p+1),
+	d := &design{y: y, xs: xs, K: K, p: p, Q: 1 + (p + 1) + m*(K+p+1),
 		ncoef: 1 + m*(K+1), nrows: n - K - p, mx: make([]float64, m)}
 	d.my = accurateSum(y) / float64(n)
 	for i, x := range xs {
@@ -267,20 +267,20 @@ func newLagDesign(y []float64, xs [][]float64, K, p int) *lagDesign {
 
 // yCol is the column of E holding y at lag q; xCol the column of x_i at
 // lag a.
-func (d *lagDesign) yCol(q int) int    { return 1 + q }
-func (d *lagDesign) xCol(i, a int) int { return 2 + d.p + i*(d.K+d.p+1) + a }
+func (d *design) yCol(q int) int    { return 1 + q }
+func (d *design) xCol(i, a int) int { return 2 + d.p + i*(d.K+d.p+1) + a }
 
 // coef is the index of v_ik among the distributed-lag coefficients
 // (index 0 is the constant).
-func (d *lagDesign) coef(i, k int) int { return 1 + i*(d.K+1) + k }
+func (d *design) coef(i, k int) int { return 1 + i*(d.K+1) + k }
 
 // gramMatrix returns M = E'E. Each entry is a lagged product
 // sum_t u_{t-a} v_{t-b} of two centred series over the rows; for one
 // pair of series and one lag difference these differ only by the terms
-// at the two ends of the rows, so lagProducts forms them from one lag
+// at the two ends of the rows, so productsByLag forms them from one lag
 // sum (vec.LagSums) each, adding and removing end terms: the work is
 // n times the number of lag differences, not n times Q^2/2.
-func (d *lagDesign) gramMatrix() *mat.SymDense {
+func (d *design) gramMatrix() *mat.SymDense {
 	n, L := len(d.y), d.K+d.p
 	// The series as blocks of columns: y (lags 0..p), then every input
 	// (lags 0..L), centred.
@@ -306,9 +306,9 @@ func (d *lagDesign) gramMatrix() *mat.SymDense {
 		for t := s; t < len(series); t++ {
 			v := series[t]
 			// Entries with b >= a, then (a pair of different series) b < a.
-			lagProducts(func(a, b int, x float64) { M.SetSym(first[s]+a, first[t]+b, x) }, u, v, lags[s], lags[t], L, false)
+			productsByLag(func(a, b int, x float64) { M.SetSym(first[s]+a, first[t]+b, x) }, u, v, lags[s], lags[t], L, false)
 			if t != s {
-				lagProducts(func(b, a int, x float64) { M.SetSym(first[s]+a, first[t]+b, x) }, v, u, lags[t], lags[s], L, true)
+				productsByLag(func(b, a int, x float64) { M.SetSym(first[s]+a, first[t]+b, x) }, v, u, lags[t], lags[s], L, true)
 			}
 		}
 	}
@@ -324,12 +324,12 @@ func centred(x []float64, mu float64) []float64 {
 	return c
 }
 
-// lagProducts calls set(a, b, sum_{r=t0}^{n-1} u_{r-a} v_{r-b}) for every
+// productsByLag calls set(a, b, sum_{r=t0}^{n-1} u_{r-a} v_{r-b}) for every
 // a <= au, b <= bv with b >= a (b > a when strict); t0 >= bv. For a lag
 // difference d = b - a the sums at b and b+1 differ in one term at each
 // end, so one vec.LagSums over the rows at b = bv, d = 0..bv, and two
 // terms per further entry give them all.
-func lagProducts(set func(a, b int, x float64), u, v []float64, au, bv, t0 int, strict bool) {
+func productsByLag(set func(a, b int, x float64), u, v []float64, au, bv, t0 int, strict bool) {
 	n := len(u)
 	F := make([]float64, bv+1)
 	vec.LagSums(F, v[t0-bv:n-bv], u[t0-bv:n])
@@ -350,7 +350,7 @@ func lagProducts(set func(a, b int, x float64), u, v []float64, au, bv, t0 int, 
 }
 
 // finite reports whether every entry of the Gram matrix is finite.
-func (d *lagDesign) finite() bool {
+func (d *design) finite() bool {
 	for i := 0; i < d.Q; i++ {
 		for j := i; j < d.Q; j++ {
 			if !finite(d.gram.At(i, j)) {
@@ -414,7 +414,7 @@ func squareFactor(M *mat.SymDense) [][]float64 {
 
 // filter returns the coefficients c_q of phi(B): c_0 = 1, c_q = -phi_q
 // (phi shorter than p counts as zero).
-func (d *lagDesign) filter(phi []float64) []float64 {
+func (d *design) filter(phi []float64) []float64 {
 	c := make([]float64, d.p+1)
 	c[0] = 1
 	for q := range phi {
@@ -426,7 +426,7 @@ func (d *lagDesign) filter(phi []float64) []float64 {
 // innovation writes into w the combination vector of the innovations
 // a_t = phi(B) n_t for the coefficients beta (the constant of the
 // centred model, then v_ik) and phi.
-func (d *lagDesign) innovation(w, beta, phi []float64) {
+func (d *design) innovation(w, beta, phi []float64) {
 	clear(w)
 	c := d.filter(phi)
 	csum := 0.0
@@ -444,7 +444,7 @@ func (d *lagDesign) innovation(w, beta, phi []float64) {
 
 // noiseLag writes into w the combination vector of n_{t-q}, the noise
 // y - c - sum v x at lag q, times -1: the derivative of a_t by phi_q.
-func (d *lagDesign) noiseLag(w, beta []float64, q int) {
+func (d *design) noiseLag(w, beta []float64, q int) {
 	clear(w)
 	w[0] = beta[0]
 	w[d.yCol(q)] = -1
@@ -458,7 +458,7 @@ func (d *lagDesign) noiseLag(w, beta []float64, q int) {
 // regressor writes into w the combination vector of the derivative of
 // a_t by coefficient j (0 the constant, else v_ik): minus the
 // phi-filtered regressor.
-func (d *lagDesign) regressor(w []float64, c []float64, j int) {
+func (d *design) regressor(w []float64, c []float64, j int) {
 	clear(w)
 	if j == 0 {
 		for _, cq := range c {
@@ -473,7 +473,7 @@ func (d *lagDesign) regressor(w []float64, c []float64, j int) {
 }
 
 // mulU writes U w into dst.
-func (d *lagDesign) mulU(dst, w []float64) {
+func (d *design) mulU(dst, w []float64) {
 	clear(dst)
 	for c, wc := range w {
 		if wc == 0 {
@@ -487,7 +487,7 @@ func (d *lagDesign) mulU(dst, w []float64) {
 
 // problem returns the reduced least-squares problem in the
 // distributed-lag coefficients (the constant, then v_ik) and phi.
-func (d *lagDesign) problem() lm.Problem {
+func (d *design) problem() lm.Problem {
 	w := make([]float64, d.Q)
 	return lm.Problem{M: d.Q, N: d.ncoef + d.p, WritesAll: true,
 		Eval: func(x, r []float64, jac [][]float64) error {
@@ -510,9 +510,9 @@ func (d *lagDesign) problem() lm.Problem {
 		}}
 }
 
-// lagFit is the outcome of lagDesign.fit.
-type lagFit struct {
-	d         *lagDesign
+// jointFit is the outcome of design.fit.
+type jointFit struct {
+	d         *design
 	beta      []float64 // constant of the centred model, then v_ik
 	phi       []float64
 	cov       *mat.SymDense // (X'X)^-1 of the phi-filtered regression
@@ -526,7 +526,7 @@ type lagFit struct {
 // coefficients from the regression filtered by the fitted phi. It
 // returns nil for a singular regression, and an error when the solver
 // cannot start.
-func (d *lagDesign) fit(maxIter int) (*lagFit, error) {
+func (d *design) fit(maxIter int) (*jointFit, error) {
 	if d.ucol == nil {
 		return nil, nil
 	}
@@ -535,7 +535,7 @@ func (d *lagDesign) fit(maxIter int) (*lagFit, error) {
 	if err != nil {
 		return nil, startError(err)
 	}
-	f := &lagFit{d: d, iter: res.Iter, converged: res.Reason.Converged(),
+	f := &jointFit{d: d, iter: res.Iter, converged: res.Reason.Converged(),
 		beta: res.X[:d.ncoef], phi: res.X[d.ncoef:]}
 	f.sigma2 = math.Max(res.SSQ, 0) / float64(d.nrows-d.ncoef)
 	f.cov = d.filteredInverse(f.phi)
@@ -555,7 +555,7 @@ func startError(err error) error {
 
 // filteredInverse returns (X'X)^-1 of the regression filtered by phi
 // (X'X = J'J of the coefficients given phi), or nil when it is singular.
-func (d *lagDesign) filteredInverse(phi []float64) *mat.SymDense {
+func (d *design) filteredInverse(phi []float64) *mat.SymDense {
 	c := d.filter(phi)
 	w := make([]float64, d.Q)
 	cols := make([][]float64, d.ncoef)
@@ -613,7 +613,7 @@ func gramInverse(G *mat.SymDense) *mat.SymDense {
 
 // result assembles the DistributedLagResult of the fit for the inputs
 // named names.
-func (f *lagFit) result(names []string) *DistributedLagResult {
+func (f *jointFit) result(names []string) *DistributedLagResult {
 	d := f.d
 	res := &DistributedLagResult{Iter: f.iter, Converged: f.converged, Sigma2: f.sigma2, Start: d.K}
 	res.Const, res.ConstSE = f.constant()
@@ -641,7 +641,7 @@ func (f *lagFit) result(names []string) *DistributedLagResult {
 
 // constant returns the constant c of the model in the original units,
 // y - my = c~ + sum v (x - mx), and its standard error.
-func (f *lagFit) constant() (c, se float64) {
+func (f *jointFit) constant() (c, se float64) {
 	d := f.d
 	g := make([]float64, d.ncoef)
 	g[0] = 1
@@ -661,7 +661,7 @@ func (f *lagFit) constant() (c, se float64) {
 
 // noise returns the preliminary noise series n_t = y_t - c - sum v x,
 // NaN before lag K.
-func (f *lagFit) noise(c float64) []float64 {
+func (f *jointFit) noise(c float64) []float64 {
 	d := f.d
 	n := len(d.y)
 	noise := make([]float64, n)
