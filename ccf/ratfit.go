@@ -16,11 +16,11 @@ type rationalFit struct {
 	ok       bool      // converged to a stable delta
 }
 
-// rationalWeights writes into dst the weights of omega(B)/delta(B), dst[j] =
+// divideSeries writes into dst the weights of omega(B)/delta(B), dst[j] =
 // coefficient of B^j (j relative to the dead time), by the power-series
 // division of internal/poly. den[0] is always 1 here, so the division
 // cannot fail and its results equal the plain recursion bit for bit.
-func rationalWeights(dst, num, den []float64) {
+func divideSeries(dst, num, den []float64) {
 	_ = poly.DivideTo(dst, num, den)
 }
 
@@ -59,7 +59,7 @@ func fitRational(v, se []float64, corr func(i, j int) float64, b, r, s int) rati
 	}
 	rp := &rationalProblem{w: v[b:], se: se[b:], r: r, s: s, wh: newWhitener(corr, b, m),
 		vh: make([]float64, m), g: make([]float64, m), num: make([]float64, s+1), den: make([]float64, r+1)}
-	x0 := rationalStart(rp.w, r, s)
+	x0 := startPoint(rp.w, r, s)
 	res, err := lm.Minimize(context.Background(), rp.problem(), x0, &lm.Settings{MaxIter: 200})
 	x := x0
 	if err == nil {
@@ -75,10 +75,10 @@ func fitRational(v, se []float64, corr func(i, j int) float64, b, r, s int) rati
 	return fit
 }
 
-// rationalStart returns the start of fitRational's search, omega then
+// startPoint returns the start of fitRational's search, omega then
 // delta_1..delta_r: the linear solution of the weight recursion, with
 // delta = 1 instead when that solution is unstable.
-func rationalStart(w []float64, r, s int) []float64 {
+func startPoint(w []float64, r, s int) []float64 {
 	num, den := linearStart(w, r, s)
 	x0 := make([]float64, s+1+r)
 	copy(x0, num)
@@ -114,7 +114,7 @@ func (p *rationalProblem) eval(x, res []float64, jac [][]float64) error {
 	if !stableDen(p.den) {
 		return errUnstable
 	}
-	rationalWeights(p.vh, p.num, p.den)
+	divideSeries(p.vh, p.num, p.den)
 	for k := range res {
 		res[k] = (p.w[k] - p.vh[k]) / p.se[k]
 	}
@@ -134,7 +134,7 @@ func (p *rationalProblem) eval(x, res []float64, jac [][]float64) error {
 func (p *rationalProblem) jacobian(jac [][]float64) {
 	s, r, g, db := p.s, p.r, p.g, p.den
 	// d vhat / d omega_j = B^j / delta, impulse; g = 1/delta impulse.
-	rationalWeights(g, []float64{1}, db)
+	divideSeries(g, []float64{1}, db)
 	for j := 0; j <= s; j++ {
 		col := jac[j]
 		for k := range col {
@@ -168,7 +168,7 @@ func (p *rationalProblem) jacobian(jac [][]float64) {
 // chi2 returns the whitened sum of squares of the standardised
 // differences between the weights and those of num/den.
 func (p *rationalProblem) chi2(num, den []float64) float64 {
-	rationalWeights(p.vh, num, den)
+	divideSeries(p.vh, num, den)
 	d := make([]float64, len(p.w))
 	for k := range p.w {
 		d[k] = (p.w[k] - p.vh[k]) / p.se[k]
