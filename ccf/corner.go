@@ -70,32 +70,11 @@ func Corner(w *Weights, rows, cols int) *CornerTable {
 		t.Det[f] = make([]float64, cols)
 		t.T[f] = make([]float64, cols)
 		for g := 1; g <= cols; g++ {
-			a := make([]float64, g*g)
-			for i := 0; i < g; i++ {
-				for j := 0; j < g; j++ {
-					a[i*g+j] = v(f + i - j)
-				}
-			}
-			d := det(a, g)
-			// dC/dv_k = sum of the cofactors of the cells holding v_k.
-			grad := make([]float64, f+g)
-			for i := 0; i < g; i++ {
-				for j := 0; j < g; j++ {
-					k := f + i - j
-					if k < 0 {
-						continue
-					}
-					grad[k] += cofactor(a, g, i, j)
-				}
-			}
-			vr := 0.0
-			for k, gk := range grad {
-				vr += gk * gk * se(k) * se(k)
-			}
+			d, sd := cornerCell(v, se, f, g)
 			t.Det[f][g-1] = d * math.Pow(sc, float64(g))
 			switch {
-			case vr > 0:
-				t.T[f][g-1] = d / math.Sqrt(vr)
+			case sd > 0:
+				t.T[f][g-1] = d / sd
 			case d == 0:
 				t.T[f][g-1] = 0
 			default:
@@ -104,6 +83,33 @@ func Corner(w *Weights, rows, cols int) *CornerTable {
 		}
 	}
 	return t
+}
+
+// cornerCell returns C(f, g) of the weights v(k) and its approximate
+// standard error, by first-order propagation of the standard errors
+// se(k) taken as independent: dC/dv_k is the sum of the cofactors of
+// the cells holding v_k.
+func cornerCell(v, se func(k int) float64, f, g int) (d, sd float64) {
+	a := make([]float64, g*g)
+	for i := 0; i < g; i++ {
+		for j := 0; j < g; j++ {
+			a[i*g+j] = v(f + i - j)
+		}
+	}
+	d = det(a, g)
+	grad := make([]float64, f+g)
+	for i := 0; i < g; i++ {
+		for j := 0; j < g; j++ {
+			if k := f + i - j; k >= 0 {
+				grad[k] += cofactor(a, g, i, j)
+			}
+		}
+	}
+	vr := 0.0
+	for k, gk := range grad {
+		vr += gk * gk * se(k) * se(k)
+	}
+	return d, math.Sqrt(vr)
 }
 
 // pick returns the orders (r, s) whose corner fits the table best for

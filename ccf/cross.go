@@ -160,55 +160,14 @@ func cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 		return nil, &SettingError{Setting: "Settings.Method", Value: method.String(), Rule: "must be Auto, Direct or FFT (the zero value is Auto)"}
 	}
 	c := &Correlation{N: n, MaxLag: maxLag, R: make([]float64, 2*maxLag+1), Method: method}
-	var sxx, syy float64
-	if method == Direct {
-		sxx, syy, c.MeanX, c.MeanY = crossDirect(c.R, x, y, maxLag)
-	} else {
-		// The means as a provisional level plus a small correction, so
-		// that centring keeps full precision for series with a large
-		// offset (as in crossDirect).
-		px, py := headMean(x), headMean(y)
-		dx, dy := shiftedSum(x, px)/float64(n), shiftedSum(y, py)/float64(n)
-		c.MeanX, c.MeanY = px+dx, py+dy
-		if finite(c.MeanX + c.MeanY) {
-			sxx, syy = crossFFT(c.R, x, y, [2]float64{px, dx}, [2]float64{py, dy}, maxLag)
-		}
-	}
+	sxx, syy := c.accumulate(x, y)
 	if !finite(sxx + syy + c.MeanX + c.MeanY) {
-		// A NaN or Inf sample, or magnitudes whose squares overflow.
-		for i, v := range [2][]float64{x, y} {
-			if err := checkSeries(names[i], v); err != nil {
-				return nil, err
-			}
-		}
-		// Finite samples whose squares overflow: name the first sample of
-		// either series at or beyond sqrt(MaxFloat64/n), where a sum of
-		// n such squares can overflow.
-		lim := math.Sqrt(math.MaxFloat64 / float64(n))
-		for i, v := range [2][]float64{x, y} {
-			for k, a := range v {
-				if math.Abs(a) >= lim {
-					return nil, &SampleError{Series: names[i], Index: k, Value: a, Limit: lim}
-				}
-			}
-		}
-		return nil, &SeriesError{Series: names[0] + ", " + names[1], Kind: ErrOverflow, Detail: fmt.Sprintf("the sums of squares overflow; keep magnitudes below about %.3g: rescale the series", lim)}
+		return nil, overflowError(x, y, names)
 	}
 	fn := float64(n)
 	c.SDX, c.SDY = math.Sqrt(sxx/fn), math.Sqrt(syy/fn)
 	if sxx < minSumSquares || syy < minSumSquares {
-		// Deviations so small that their squares lose precision or
-		// vanish: the normalisation would be wrong or infinite.
-		i, v, m := 0, x, c.MeanX
-		if sxx >= minSumSquares {
-			i, v, m = 1, y, c.MeanY
-		}
-		dev := 0.0
-		for _, a := range v {
-			dev = math.Max(dev, math.Abs(a-m))
-		}
-		return nil, &SeriesError{Series: names[i], Kind: ErrOverflow,
-			Detail: fmt.Sprintf("deviations from its mean of at most %.3g lose their squares to underflow (they must exceed about 1e-140); rescale the series", dev)}
+		return nil, c.underflowError(x, y, sxx, names)
 	}
 	// Square roots taken separately: the product sxx*syy can overflow
 	// or underflow where each factor does not.
@@ -217,6 +176,68 @@ func cross(x, y []float64, maxLag int, s *Settings) (*Correlation, error) {
 		c.R[i] *= inv
 	}
 	return c, nil
+}
+
+// accumulate writes the unnormalised lag sums into c.R and the means into
+// c.MeanX, c.MeanY by c.Method, and returns the centred sums of squares
+// of x and y.
+func (c *Correlation) accumulate(x, y []float64) (sxx, syy float64) {
+	if c.Method == Direct {
+		sxx, syy, c.MeanX, c.MeanY = crossDirect(c.R, x, y, c.MaxLag)
+		return sxx, syy
+	}
+	// The means as a provisional level plus a small correction, so that
+	// centring keeps full precision for series with a large offset (as
+	// in crossDirect).
+	n := float64(len(x))
+	px, py := headMean(x), headMean(y)
+	dx, dy := shiftedSum(x, px)/n, shiftedSum(y, py)/n
+	c.MeanX, c.MeanY = px+dx, py+dy
+	if finite(c.MeanX + c.MeanY) {
+		sxx, syy = crossFFT(c.R, x, y, [2]float64{px, dx}, [2]float64{py, dy}, c.MaxLag)
+	}
+	return sxx, syy
+}
+
+// overflowError explains sums that are not finite: a NaN or infinite
+// sample (a *SampleError naming it), a sample whose square can overflow
+// a sum of n of them (a *SampleError with that Limit), or else the sums
+// overflowing (a *SeriesError of kind ErrOverflow).
+func overflowError(x, y []float64, names [2]string) error {
+	for i, v := range [2][]float64{x, y} {
+		if err := checkSeries(names[i], v); err != nil {
+			return err
+		}
+	}
+	// Finite samples whose squares overflow: name the first sample of
+	// either series at or beyond sqrt(MaxFloat64/n), where a sum of n
+	// such squares can overflow.
+	lim := math.Sqrt(math.MaxFloat64 / float64(len(x)))
+	for i, v := range [2][]float64{x, y} {
+		for k, a := range v {
+			if math.Abs(a) >= lim {
+				return &SampleError{Series: names[i], Index: k, Value: a, Limit: lim}
+			}
+		}
+	}
+	return &SeriesError{Series: names[0] + ", " + names[1], Kind: ErrOverflow, Detail: fmt.Sprintf("the sums of squares overflow; keep magnitudes below about %.3g: rescale the series", lim)}
+}
+
+// underflowError names the series (x unless its sum of squares sxx is
+// large enough, then y) whose deviations are so small that their
+// squares lose precision or vanish: the normalisation would be wrong or
+// infinite.
+func (c *Correlation) underflowError(x, y []float64, sxx float64, names [2]string) error {
+	i, v, m := 0, x, c.MeanX
+	if sxx >= minSumSquares {
+		i, v, m = 1, y, c.MeanY
+	}
+	dev := 0.0
+	for _, a := range v {
+		dev = math.Max(dev, math.Abs(a-m))
+	}
+	return &SeriesError{Series: names[i], Kind: ErrOverflow,
+		Detail: fmt.Sprintf("deviations from its mean of at most %.3g lose their squares to underflow (they must exceed about 1e-140); rescale the series", dev)}
 }
 
 // minSumSquares is the smallest centred sum of squares Cross accepts:

@@ -45,8 +45,8 @@ func crossDirect(r, x, y []float64, K int) (sxx, syy, mx, my float64) {
 		sx, sxx = sx+s1, sxx+s2
 		s1, s2 = center(by[:m+pad], y[t0:e], py, m)
 		sy, syy = sy+s1, syy+s2
-		lagBlock(pos, bx[:m], by[:m+pad])
-		lagBlock(neg, by[:m], bx[1:m+pad])
+		lagSums(pos, bx[:m], by[:m+pad])
+		lagSums(neg, by[:m], bx[1:m+pad])
 	}
 	fn := float64(n)
 	d, e := sx/fn, sy/fn
@@ -107,61 +107,8 @@ func center(dst, src []float64, mu float64, m int) (sum, sumsq float64) {
 	return s0 + s1, q0 + q1
 }
 
-// lagBlock adds sum_{i<len(a)} a[i] b[i+j] to out[j] for j = 0..len(out)-1,
-// where len(out) is a multiple of 8 at least the lags wanted and b holds
-// at least len(a)+len(out)-1 values. It uses the AVX2/FMA kernel for
-// groups of eight lags where the processor has it (dot_amd64.s), and
-// groups of four lags in Go otherwise (four independent accumulators keep
-// the adder busy).
-func lagBlock(out, a, b []float64) {
-	if len(a) == 0 {
-		return
-	}
-	if hasFMA {
-		lagBlockFMA(out, a, b)
-		return
-	}
-	lagBlockGo(out, a, b)
-}
-
-// lagBlockFMA is lagBlock with the AVX2/FMA kernel; only called when
-// hasFMA is true.
-func lagBlockFMA(out, a, b []float64) {
-	m := len(a)
-	for j := 0; j+8 <= len(out); j += 8 {
-		s := dot8(a, b[j:j+m+7])
-		for q, v := range s {
-			out[j+q] += v
-		}
-	}
-}
-
-// lagBlockGo is lagBlock in plain Go, on every platform.
-func lagBlockGo(out, a, b []float64) {
-	m := len(a)
-	L := len(out)
-	j := 0
-	for ; j+4 <= L; j += 4 {
-		s := dot4(a, b[j:j+m+3])
-		for q, v := range s {
-			out[j+q] += v
-		}
-	}
-	for ; j < L; j++ {
-		out[j] += vec.Dot(a, b[j:j+m])
-	}
-}
-
-// dot4 returns sum_i a[i] b[i+q] for q = 0..3; len(b) >= len(a)+3.
-func dot4(a, b []float64) [4]float64 {
-	var s0, s1, s2, s3 float64
-	m := len(a)
-	b0, b1, b2, b3 := b[0:m], b[1:m+1], b[2:m+2], b[3:m+3]
-	for i, av := range a {
-		s0 += av * b0[i]
-		s1 += av * b1[i]
-		s2 += av * b2[i]
-		s3 += av * b3[i]
-	}
-	return [4]float64{s0, s1, s2, s3}
-}
+// lagSums adds the lag products of one block of crossDirect: out[j] +=
+// sum_{i<len(a)} a[i] b[i+j] (vec.LagSums, with its AVX2/FMA kernel
+// where the processor has it). Tests set it to vec.LagSumsGo to run the
+// pure-Go loops through the whole direct path.
+var lagSums = vec.LagSums

@@ -1,6 +1,10 @@
 package ccf
 
-import "math/bits"
+import (
+	"math/bits"
+
+	"github.com/backshift/backshift/internal/vec"
+)
 
 // fftLen returns the block FFT length used for K lags: the power of two
 // at least fftFactor(2K+1) and at least 256, so that each block of
@@ -93,7 +97,7 @@ func chooseMethod(n, K int) Method {
 	M := fftLen(K)
 	lg := bits.Len(uint(M))
 	f := crossoverPureGo
-	if hasFMA {
+	if vec.HasAVX2FMA {
 		f = crossoverFMA
 	}
 	if 2*K+1 <= f*lg {

@@ -87,3 +87,56 @@ func FuzzCross(f *testing.F) {
 		}
 	})
 }
+
+// FuzzDistributedLag: DistributedLag on hostile series (the first half
+// of the samples is the input, the second the output), any lag count
+// and AR order, gives a typed error or finite weights, standard errors
+// and variance, never a panic; its inputs are not modified.
+func FuzzDistributedLag(f *testing.F) {
+	f.Add([]byte{11, 3, 11, 40, 11, 250, 11, 7, 11, 100, 11, 33, 11, 1, 11, 200, 11, 5, 11, 60, 11, 9, 11, 99, 11, 17, 11, 80, 11, 2, 11, 41}, uint8(0), 1, 1)
+	f.Add([]byte{11, 3, 11, 4, 11, 5, 11, 6, 11, 3, 11, 4, 11, 5, 11, 6, 11, 3, 11, 4, 11, 5, 11, 6, 11, 3, 11, 4, 11, 5, 11, 6}, uint8(0), 0, 2)
+	f.Add([]byte{11, 3, 9, 40, 11, 250, 11, 7, 11, 100, 11, 33, 11, 1, 11, 200}, uint8(0), 2, -1)
+	f.Fuzz(func(t *testing.T, data []byte, cut uint8, lags, arp int) {
+		x, y := fuzzPair(data, cut)
+		lags, arp = lags%64, arp%8
+		x0, y0 := append([]float64(nil), x...), append([]float64(nil), y...)
+		res, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{Lags: lags, ARP: arp})
+		for i := range x {
+			if !same(x[i], x0[i]) {
+				t.Fatalf("input modified at %d", i)
+			}
+		}
+		for i := range y {
+			if !same(y[i], y0[i]) {
+				t.Fatalf("output modified at %d", i)
+			}
+		}
+		if err != nil {
+			var (
+				se *SeriesError
+				ve *SampleError
+				ae *SettingError
+				me *ModelError
+			)
+			if !errors.As(err, &se) && !errors.As(err, &ve) && !errors.As(err, &ae) && !errors.As(err, &me) {
+				t.Fatalf("untyped error %T %v", err, err)
+			}
+			if res != nil {
+				t.Fatalf("result with error %v", err)
+			}
+			return
+		}
+		w := res.Weights[0]
+		for k := range w.V {
+			if !finite(w.V[k]) || !finite(w.SE[k]) {
+				t.Fatalf("v_%d = %v, se %v", k, w.V[k], w.SE[k])
+			}
+		}
+		if !finite(res.Sigma2) || res.Sigma2 < 0 || !finite(res.Const) {
+			t.Fatalf("sigma2 %v, constant %v", res.Sigma2, res.Const)
+		}
+	})
+}
+
+// same reports whether a and b are equal or both NaN.
+func same(a, b float64) bool { return a == b || a != a && b != b }

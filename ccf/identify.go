@@ -116,17 +116,7 @@ func identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
-	var set IdentifySettings
-	if s != nil {
-		set = *s
-	}
-	if set.Level == 0 {
-		set.Level = 0.99
-	}
-	if set.Penalty == 0 {
-		set.Penalty = 2
-	}
-	maxR, maxS := orderBound(set.MaxR), orderBound(set.MaxS)
+	set := s.withDefaults()
 	if w == nil {
 		return nil, &SettingError{Setting: "w", Value: "nil", Rule: "must be weights (from ImpulseWeights or DistributedLag)"}
 	}
@@ -137,20 +127,8 @@ func identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	if name == "" {
 		name = "x"
 	}
-	if len(w.SE) != len(w.V) {
-		return nil, lengthError(name+" weights", name+" weight standard errors", len(w.V), len(w.SE))
-	}
-	if len(w.V) < 2 {
-		return nil, shortError(name+" weights", len(w.V), 2, "lags 0 and 1 at least")
-	}
-	if err := checkSeries(name+" weights", w.V); err != nil {
+	if err := checkWeights(w, name); err != nil {
 		return nil, err
-	}
-	for k := range w.V {
-		if !(w.SE[k] > 0) || math.IsInf(w.SE[k], 0) {
-			return nil, &SeriesError{Series: name + " weight standard errors", Kind: ErrSample,
-				Detail: "lag " + strconv.Itoa(k) + " holds " + strconv.FormatFloat(w.SE[k], 'g', -1, 64) + "; standard errors must be positive finite numbers"}
-		}
 	}
 	id := &Identification{Input: name, Weights: w, CornerR: -1, CornerS: -1}
 	v := w.V
@@ -161,14 +139,7 @@ func identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 			v[k] = w.V[k] - off
 		}
 	}
-	frac := set.MinFraction
-	switch {
-	case frac == 0:
-		frac = 0.1
-	case frac < 0:
-		frac = 0
-	}
-	b, err := deadTime(v, w.SE, set.Level, frac)
+	b, err := deadTime(v, w.SE, set.Level, set.MinFraction)
 	if err != nil {
 		e := err.(*NoResponseError)
 		e.Input = name
@@ -177,35 +148,98 @@ func identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 	id.DeadTime = b
 	// No form can have more coefficients than there are weights from the
 	// dead time on: larger bounds are cut to that (and cannot make the
-	// loops below run for ever).
-	maxR, maxS = min(maxR, len(v)-b-1), min(maxS, len(v)-b-1)
-	wv := &Weights{Input: w.Input, V: v, SE: w.SE, N: w.N}
+	// loops of fitForms run for ever).
+	maxR, maxS := min(set.MaxR, len(v)-b-1), min(set.MaxS, len(v)-b-1)
+	wv := &Weights{Input: w.Input, V: v, SE: w.SE, N: w.N, Cov: w.Cov}
 	id.Corner = Corner(wv, min(len(v), b+8), 4)
 	if id.Corner != nil {
 		id.CornerR, id.CornerS = id.Corner.pick(b, maxR, maxS)
 	}
+	id.Forms = fitForms(wv, b, maxR, maxS, set.Penalty, id.CornerR, id.CornerS)
+	rankForms(id.Forms)
+	return id, nil
+}
+
+// withDefaults returns a copy of the settings (the zero value for nil)
+// with every default filled in: Level 0.99, Penalty 2, MaxR and MaxS by
+// orderBound, MinFraction 0.1 (0 for a negative value).
+func (s *IdentifySettings) withDefaults() IdentifySettings {
+	var set IdentifySettings
+	if s != nil {
+		set = *s
+	}
+	if set.Level == 0 {
+		set.Level = 0.99
+	}
+	if set.Penalty == 0 {
+		set.Penalty = 2
+	}
+	set.MaxR, set.MaxS = orderBound(set.MaxR), orderBound(set.MaxS)
+	switch {
+	case set.MinFraction == 0:
+		set.MinFraction = 0.1
+	case set.MinFraction < 0:
+		set.MinFraction = 0
+	}
+	return set
+}
+
+// checkWeights checks that w has at least two lags, finite weights and a
+// positive finite standard error for each of them; name names the input
+// in the errors.
+func checkWeights(w *Weights, name string) error {
+	if len(w.SE) != len(w.V) {
+		return lengthError(name+" weights", name+" weight standard errors", len(w.V), len(w.SE))
+	}
+	if len(w.V) < 2 {
+		return shortError(name+" weights", len(w.V), 2, "lags 0 and 1 at least")
+	}
+	if err := checkSeries(name+" weights", w.V); err != nil {
+		return err
+	}
+	for k := range w.V {
+		if !(w.SE[k] > 0) || math.IsInf(w.SE[k], 0) {
+			return &SeriesError{Series: name + " weight standard errors", Kind: ErrSample,
+				Detail: "lag " + strconv.Itoa(k) + " holds " + strconv.FormatFloat(w.SE[k], 'g', -1, 64) + "; standard errors must be positive finite numbers"}
+		}
+	}
+	return nil
+}
+
+// fitForms fits every form (b, r, s) with r <= maxR, s <= maxS to the
+// weights w (their errors correlated as w.Cov says, when it has their
+// size), scores each with penalty per coefficient and marks the one at
+// the corner (cr, cs).
+func fitForms(w *Weights, b, maxR, maxS int, penalty float64, cr, cs int) []Form {
 	var corr func(i, j int) float64
 	if w.Cov != nil {
 		if n, _ := w.Cov.Dims(); n == len(w.V) {
 			corr = func(i, j int) float64 { return w.Cov.At(i, j) / (w.SE[i] * w.SE[j]) }
 		}
 	}
+	var forms []Form
 	for r := 0; r <= maxR; r++ {
 		for sd := 0; sd <= maxS; sd++ {
-			f := fitRational(v, w.SE, corr, b, r, sd)
+			f := fitRational(w.V, w.SE, corr, b, r, sd)
 			if f.num == nil {
 				continue
 			}
 			c := Form{Delay: b, R: r, S: sd, Num: f.num, Den: f.den, Chi2: f.chi2,
-				Score: f.chi2 + set.Penalty*float64(r+sd+1), Corner: r == id.CornerR && sd == id.CornerS}
+				Score: f.chi2 + penalty*float64(r+sd+1), Corner: r == cr && sd == cs}
 			c.Pattern = pattern(c.Den)
 			c.Redundant = nearCancel(c.Num, c.Den, 0.05)
-			c.TooSlow = tooSlow(c.Den, len(v)-b)
-			id.Forms = append(id.Forms, c)
+			c.TooSlow = tooSlow(c.Den, len(w.V)-b)
+			forms = append(forms, c)
 		}
 	}
-	sort.SliceStable(id.Forms, func(i, j int) bool {
-		a, c := id.Forms[i], id.Forms[j]
+	return forms
+}
+
+// rankForms sorts the forms best first: by increasing Score, Redundant
+// and TooSlow forms after all others, ties to fewer coefficients.
+func rankForms(forms []Form) {
+	sort.SliceStable(forms, func(i, j int) bool {
+		a, c := forms[i], forms[j]
 		if ra, rc := a.Redundant || a.TooSlow, c.Redundant || c.TooSlow; ra != rc {
 			return !ra
 		}
@@ -214,7 +248,6 @@ func identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 		}
 		return a.R+a.S < c.R+c.S
 	})
-	return id, nil
 }
 
 // String writes the structure as "b=3 (r=1, s=0)": the dead time, the

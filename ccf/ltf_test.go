@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/internal/testutil"
@@ -114,13 +115,82 @@ func TestDistributedLagBadInput(t *testing.T) {
 	if _, err := DistributedLag(y, [][]float64{make([]float64, 60)}, nil); !errors.As(err, &se) || !errors.Is(err, ErrConstant) || se.Series != "x1" {
 		t.Errorf("constant: %v", err)
 	}
-	// Lags and orders beyond the series: typed errors with sensible
-	// counts (the coefficient counts used to overflow into negative
-	// "need at least" figures).
+	// Lags and orders beyond the series: typed errors whose "need at
+	// least" counts do not overflow (Need is math.MaxInt, not negative).
 	if _, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{Lags: math.MaxInt}); !errors.As(err, &se) || se.Need != math.MaxInt {
 		t.Errorf("Lags = MaxInt: %v", err)
 	}
 	if _, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{ARP: math.MaxInt}); !errors.As(err, &ae) {
 		t.Errorf("ARP = MaxInt: %v", err)
+	}
+}
+
+// TestDistributedLagExactFit: an output that the lags explain exactly,
+// y_t = 2 + 0.5 x_{t-1} + 0.25 x_{t-2}, makes the Gram matrix of the
+// extended design singular (y is a combination of the lags of x); the
+// fit still returns the weights (to 1e-9, about 1e7 times the rounding
+// of the sums of a few hundred products of unit-size values, common
+// practice) with a residual variance at the rounding floor (below 1e-12
+// of the output's variance: the sums of squares of n = 300 products
+// carry relative errors of about n eps = 7e-14), not an error.
+func TestDistributedLagExactFit(t *testing.T) {
+	n := 300
+	x := make([]float64, n)
+	y := make([]float64, n)
+	for i := range x {
+		x[i] = math.Sin(0.37*float64(i)) + 0.5*math.Cos(1.3*float64(i)) + float64(i%7)/7
+	}
+	for i := 2; i < n; i++ {
+		y[i] = 2 + 0.5*x[i-1] + 0.25*x[i-2]
+	}
+	y[0], y[1] = y[2], y[3]
+	for _, arp := range []int{-1, 1} {
+		res, err := DistributedLag(y[2:], [][]float64{x[2:]}, &DistributedLagSettings{Lags: 4, ARP: arp})
+		if err != nil {
+			t.Fatalf("ARP %d: %v", arp, err)
+		}
+		want := []float64{0, 0.5, 0.25, 0, 0}
+		for k, v := range res.Weights[0].V {
+			if math.Abs(v-want[k]) > 1e-9 {
+				t.Errorf("ARP %d: v_%d = %.12g, want %g", arp, k, v, want[k])
+			}
+		}
+		if math.Abs(res.Const-2) > 1e-9 || !(res.Sigma2 < 1e-12*variance(y[2:])) {
+			t.Errorf("ARP %d: constant %.12g (want 2), sigma2 %g (want about 0)", arp, res.Const, res.Sigma2)
+		}
+	}
+}
+
+// variance returns the variance of x with divisor len(x).
+func variance(x []float64) float64 {
+	m := 0.0
+	for _, v := range x {
+		m += v
+	}
+	m /= float64(len(x))
+	s := 0.0
+	for _, v := range x {
+		s += (v - m) * (v - m)
+	}
+	return s / float64(len(x))
+}
+
+// TestDistributedLagOverflow: an output of magnitude 1e160 (beyond
+// sqrt(MaxFloat64/n) = 7.7e152 for n = 300) overflows the sums of
+// products; the fit says so with a *SeriesError of kind ErrOverflow
+// naming the series and the limit, and no numbers.
+func TestDistributedLagOverflow(t *testing.T) {
+	n := 300
+	x := make([]float64, n)
+	y := make([]float64, n)
+	for i := range x {
+		x[i] = math.Sin(0.37*float64(i)) + float64(i%7)/7
+		y[i] = 1e160 * (math.Cos(0.11*float64(i)) + float64(i%5))
+	}
+	res, err := DistributedLag(y, [][]float64{x}, &DistributedLagSettings{Lags: 4, Names: []string{"valve"}, Output: "flow"})
+	var se *SeriesError
+	if res != nil || !errors.As(err, &se) || !errors.Is(err, ErrOverflow) || se.Series != "flow, valve" ||
+		!strings.Contains(err.Error(), "keep magnitudes below about 7.74e+152: rescale the series") {
+		t.Errorf("overflowing output: %v, %v", res, err)
 	}
 }

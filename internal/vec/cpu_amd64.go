@@ -15,7 +15,7 @@ func dot4AVX(a, b0, b1, b2, b3 *float64, n int, out *[16]float64)
 // AVX (CPUID leaf 1 ECX bits 27 OSXSAVE and 28 AVX; XCR0 bits 1-2 for
 // XMM and YMM state): Dot4 then runs its AVX kernel. HasAVX2FMA reports
 // that they also support AVX2 (leaf 7 EBX bit 5) and FMA (leaf 1 ECX
-// bit 12), for the kernels of package ccf.
+// bit 12): LagSums then runs its AVX2/FMA kernel.
 var HasAVX, HasAVX2FMA = cpuFeatures()
 
 func cpuFeatures() (avx, avx2fma bool) {

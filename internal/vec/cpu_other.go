@@ -5,7 +5,7 @@ package vec
 // HasAVX is false without the amd64 kernels: Dot4 runs in Go.
 const HasAVX = false
 
-// HasAVX2FMA is false without the amd64 kernels.
+// HasAVX2FMA is false without the amd64 kernels: LagSums runs in Go.
 const HasAVX2FMA = false
 
 var useAVX = false
