@@ -27,10 +27,7 @@ var longFuncs = map[string]bool{
 	"tf/identify.go:Identify":          true, // 244 lines
 	"tf/fit.go:fitPrepare":             true, // 223 lines
 	"tf/forecast.go:Estimate.Forecast": true, // 191 lines
-	"ccf/ltf.go:ltfFit":                true, // 175 lines
 	"tf/fit_fir.go:fitFIR":             true, // 129 lines
-	"ccf/ltf.go:distributedLag":        true, // 112 lines
-	"ccf/identify.go:identify":         true, // 104 lines
 	"tf/c2d.go:Rational.asSecondOrder": true, // 104 lines
 	"tf/check.go:Check":                true, // 102 lines
 }
