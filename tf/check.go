@@ -211,8 +211,8 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	}
 	for _, in := range e.Model.Inputs {
 		x := data[in.Series]
-		if v, ok := chkConstant(x, in.Diff.Coeffs()); ok {
-			return nil, constantErr(in.Series, "input", v, chkDiffText(in.Diff.Coeffs()))
+		if v, ok := constantAfterDiff(x, in.Diff.Coeffs()); ok {
+			return nil, constantErr(in.Series, "input", v, diffText(in.Diff.Coeffs()))
 		}
 		stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
 		f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
@@ -430,10 +430,10 @@ func chkEstimateUsable(fn string, e *Estimate) error {
 	return err
 }
 
-// chkConstant reports whether x differenced by dc (from index deg dc on)
+// constantAfterDiff reports whether x differenced by dc (from index deg dc on)
 // is constant, and its value: a spread within 1e-12 of the largest
 // magnitude of x (rounding of the differencing) counts as constant.
-func chkConstant(x, dc []float64) (float64, bool) {
+func constantAfterDiff(x, dc []float64) (float64, bool) {
 	if len(dc) == 0 {
 		dc = fitOne
 	}
@@ -460,8 +460,8 @@ func chkConstant(x, dc []float64) (float64, bool) {
 	return v, true
 }
 
-// chkDiffText writes a differencing operator for messages, "" for none.
-func chkDiffText(dc []float64) string {
+// diffText writes a differencing operator for messages, "" for none.
+func diffText(dc []float64) string {
 	if len(dc) <= 1 {
 		return ""
 	}
@@ -491,7 +491,7 @@ func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64,
 	if err := condCheck(e, data); err != nil {
 		return nil, 0, err
 	}
-	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := prepareFit(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, 0, err
 	}

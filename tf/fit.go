@@ -330,7 +330,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	w, err := fitPrepare(m, data, set)
+	w, err := prepareFit(m, data, set)
 	if err != nil {
 		return nil, err
 	}
@@ -350,7 +350,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 // the estimates; it returns e when there is nothing to move or the
 // refit fails.
 func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set FitSettings, n, p int) *Estimate {
-	k := fitSettleSamples(e.Model)
+	k := settleSamples(e.Model)
 	first := min(e.Conditioning.NoiseStart+p+k, n/10)
 	if first <= e.Conditioning.First {
 		return e
@@ -358,7 +358,7 @@ func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set 
 	s2 := set
 	s2.First = first
 	s2.Settle = false
-	w2, err := fitPrepare(e.Model, data, s2)
+	w2, err := prepareFit(e.Model, data, s2)
 	if err != nil {
 		return e
 	}
@@ -390,10 +390,10 @@ func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
 	return e, nil
 }
 
-// fitSettleSamples returns the number of samples after which the slowest
+// settleSamples returns the number of samples after which the slowest
 // estimated input pole or noise MA zero has decayed to 1 %: ln 0.01 /
 // ln |z|max (0 when all are zero, a large number near the unit circle).
-func fitSettleSamples(m Model) int {
+func settleSamples(m Model) int {
 	z := 0.0
 	for _, in := range m.Inputs {
 		z = math.Max(z, fitMaxZ(in.Den.Coeffs()))
@@ -467,8 +467,8 @@ func (w *fitWork) idx(name string) int {
 	return -1
 }
 
-// fitPrepare validates m and data and builds the working state.
-func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
+// prepareFit validates m and data and builds the working state.
+func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
 	if m.Output == "" {
 		return nil, modelErr("model", "it names no output series (Model.Output is empty)")
 	}
@@ -1390,7 +1390,7 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 	if w.n-w.cond.First >= fitStageMin {
 		auto := w.cond.NoiseStart + w.ar.Degree()
 		sub := w.window(max(fitStageWindow, fitStagePerParam*len(w.names)) + auto)
-		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
+		if ws, err := prepareFit(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
 			best, start, tried, err := ws.search(ctx, set, maxIter)
 			ws.release()
 			if ws.panicErr != nil {

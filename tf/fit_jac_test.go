@@ -53,7 +53,7 @@ func fitJacData(n int) map[string][]float64 {
 }
 
 func fitJacCheck(t *testing.T, data map[string][]float64, set FitSettings) {
-	w, err := fitPrepare(fitJacModel(), data, set)
+	w, err := prepareFit(fitJacModel(), data, set)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -35,7 +35,7 @@ func TestFitNormalBlocked(t *testing.T) {
 	for _, c := range cases {
 		for _, procs := range []int{1, 2} {
 			old := runtime.GOMAXPROCS(procs)
-			w, err := fitPrepare(c.m, c.data, FitSettings{})
+			w, err := prepareFit(c.m, c.data, FitSettings{})
 			if err != nil {
 				t.Fatal(err)
 			}

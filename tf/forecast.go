@@ -279,7 +279,7 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	if err := condCheck(e, data); err != nil {
 		return nil, err
 	}
-	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := prepareFit(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, err
 	}

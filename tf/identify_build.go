@@ -25,10 +25,10 @@ func idfCoefName(input string, several bool, part string, k int) string {
 	return name
 }
 
-// idfInput builds the input term B^b omega(B)/delta(B) of a ccf form:
+// formInput builds the input term B^b omega(B)/delta(B) of a ccf form:
 // omega with plus signs (w_k = Num[k]) and delta with minus signs
 // (d_k = -Den[k]), the form's fitted numbers as start values.
-func idfInput(series string, several bool, diff Poly, f ccf.Form) Input {
+func formInput(series string, several bool, diff Poly, f ccf.Form) Input {
 	nf := Factor{Exp: 1}
 	for k, v := range f.Num {
 		nf.Terms = append(nf.Terms, Term{Coef: Coef{Name: idfCoefName(series, several, "w", k), Value: v, Free: true}, Power: k})
@@ -44,10 +44,10 @@ func idfInput(series string, several bool, diff Poly, f ccf.Form) Input {
 	return in
 }
 
-// idfNoise returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a of
+// noiseOfOrder returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a of
 // orders p and q with free coefficients at zero (start values computed by
 // Fit), named by arma's one rule for noise coefficients (arma.Model.Noise).
-func idfNoise(p, q int) *arma.Noise {
+func noiseOfOrder(p, q int) *arma.Noise {
 	n := arma.Model{AR: make([]float64, p), MA: make([]float64, q)}.Noise()
 	return &n
 }
