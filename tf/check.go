@@ -511,7 +511,7 @@ func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64,
 func chkDivergeHint(e *Estimate) string {
 	if !e.Conditioning.ZeroPreSample {
 		for _, in := range e.Model.Inputs {
-			if in.Diff.IsOne() && math.Abs(fitSum(in.Den.Coeffs())) < 1e-12 {
+			if in.Diff.IsOne() && math.Abs(sumCoeffs(in.Den.Coeffs())) < 1e-12 {
 				return fmt.Sprintf("input %q has an integrating term (a pole at z = 1) and is taken as held at its first value before the record, a level it would integrate forever; fit with FitSettings.ZeroPreSample, or difference the input", in.Series)
 			}
 		}

@@ -428,18 +428,48 @@ type fitInput struct {
 	d          int
 }
 
-// fitWork is the working state of one fit; nothing in it is shared.
+// fitWork is the working state of one fit; nothing in it is shared. Its
+// fields come in three parts: the model binding (which coefficients the
+// parameter vector sets), the data with its conditioning, and the work
+// series and buffers the evaluations write. The methods live in fit.go
+// (evaluation, Jacobian, solver) and fit_start.go (start values).
 type fitWork struct {
-	m       Model // working clone whose coefficient values are set per evaluation
-	names   []string
-	coefs   [][]*Coef
-	index   map[string]int
-	n       int
-	y       []float64 // the output as given (not modified)
-	cond    Conditioning
-	w       []float64
-	ins     []fitInput
-	ar, ma  Poly
+	binding
+	fitData
+	fitBuffers
+}
+
+// binding ties the parameter vector to the coefficients of a working
+// clone of the model: parameter k is names[k] and sets every coefficient
+// in coefs[k].
+type binding struct {
+	m     Model // working clone whose coefficient values are set per evaluation
+	names []string
+	coefs [][]*Coef
+	index map[string]int // name -> k
+}
+
+// fitData is the data of one fit, its conditioning and the noise
+// polynomials whose coefficients the evaluations read.
+type fitData struct {
+	n    int
+	y    []float64 // the output as given (not modified)
+	cond Conditioning
+	w    []float64 // D(B) y, zero before the differencing degree
+	ins  []fitInput
+	// ar and ma are phi(B) and theta(B) of the working model (empty
+	// polynomials, that is 1, without a noise model).
+	ar, ma Poly
+	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
+	// moving average of n_t and no column needs a_t.
+	maFixedOne bool
+}
+
+// fitBuffers holds what the evaluations write: the noise polynomials'
+// coefficients and derivatives at the current values, the series n_t
+// and a_t, and the scratch of the Jacobian products, all from one slab
+// recycled between fits.
+type fitBuffers struct {
 	arC     []float64
 	maC     []float64
 	arD     [][]float64
@@ -451,31 +481,75 @@ type fitWork struct {
 	acc1    []float64   // the second half's products (normalEval)
 	blk     [2]fitBlock // block scratch of normalEval, one per goroutine
 	views   []fitView   // columns multiplied in place (normalRows)
-	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
-	// moving average of n_t and no column needs a_t.
-	maFixedOne bool
-	slab       *fitSlab
-	panicErr   error // a panic recovered in a goroutine of normalEval
+	slab    *fitSlab
+	// panicErr is a panic recovered in a goroutine of normalEval.
+	panicErr error
 }
 
 var fitOne = []float64{1}
 
-func (w *fitWork) idx(name string) int {
+// idx returns the parameter index of a coefficient name, -1 for a name
+// that is not free.
+func (w *binding) idx(name string) int {
 	if k, ok := w.index[name]; ok {
 		return k
 	}
 	return -1
 }
 
-// prepareFit validates m and data and builds the working state.
+// prepareFit validates m and data and builds the working state: the
+// model checks and parameter binding (bindModel), the data checks
+// (checkFitData), the conditioning (condition) and the work series
+// (allocate).
 func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
-	if m.Output == "" {
-		return nil, modelErr("model", "it names no output series (Model.Output is empty)")
-	}
-	if err := m.Validate(); err != nil {
+	b, err := bindModel(m)
+	if err != nil {
 		return nil, err
 	}
-	w := &fitWork{m: m.Clone(), index: map[string]int{}}
+	y, err := checkFitData(m, data, set)
+	if err != nil {
+		return nil, err
+	}
+	if err := checkConstTerms(b.m); err != nil {
+		return nil, err
+	}
+	n := len(y)
+	if set.First > 0 && set.First >= n {
+		return nil, settingErr("FitSettings.First", strconv.Itoa(set.First),
+			"must be below the number of samples, "+strconv.Itoa(n)+" (it is the index of the first residual summed)")
+	}
+	if n > 0 && isConstant(y) {
+		return nil, seriesErr(m.Output, errs.ErrConstant, 0, 0, "the output: every sample is "+strconv.FormatFloat(y[0], 'g', 6, 64)+
+			", there is nothing to explain; check that the right column was read")
+	}
+	w := &fitWork{binding: b}
+	if m.Noise != nil {
+		w.ma, w.ar = w.m.Noise.MA, w.m.Noise.AR
+	}
+	if err := w.condition(set, n); err != nil {
+		return nil, err
+	}
+	if err := w.allocate(y, data, set); err != nil {
+		w.release()
+		return nil, err
+	}
+	return w, nil
+}
+
+// bindModel checks m for fitting and binds its free coefficients to a
+// parameter vector, in order of first appearance (constant, inputs'
+// numerators and denominators, noise MA, noise AR) in a clone of m. It
+// refuses a model without an output or with nothing free, one that
+// Model.Validate refuses, free differencing coefficients and a name free
+// in one place and held in another.
+func bindModel(m Model) (binding, error) {
+	if m.Output == "" {
+		return binding{}, modelErr("model", "it names no output series (Model.Output is empty)")
+	}
+	if err := m.Validate(); err != nil {
+		return binding{}, err
+	}
+	b := binding{m: m.Clone(), index: map[string]int{}}
 	held := map[string]bool{}
 	add := func(c *Coef) {
 		if c.Name == "" {
@@ -485,14 +559,14 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			held[c.Name] = true
 			return
 		}
-		k, ok := w.index[c.Name]
+		k, ok := b.index[c.Name]
 		if !ok {
-			k = len(w.names)
-			w.index[c.Name] = k
-			w.names = append(w.names, c.Name)
-			w.coefs = append(w.coefs, nil)
+			k = len(b.names)
+			b.index[c.Name] = k
+			b.names = append(b.names, c.Name)
+			b.coefs = append(b.coefs, nil)
 		}
-		w.coefs[k] = append(w.coefs[k], c)
+		b.coefs[k] = append(b.coefs[k], c)
 	}
 	var diffErr error
 	noFree := func(p Poly) {
@@ -502,33 +576,39 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			}
 		})
 	}
-	noFree(w.m.Diff)
-	if w.m.Const != nil {
-		add(w.m.Const)
+	noFree(b.m.Diff)
+	if b.m.Const != nil {
+		add(b.m.Const)
 	}
-	for i := range w.m.Inputs {
-		in := &w.m.Inputs[i]
+	for i := range b.m.Inputs {
+		in := &b.m.Inputs[i]
 		noFree(in.Diff)
 		in.Num.Each(add)
 		in.Den.Each(add)
 	}
-	if w.m.Noise != nil {
-		w.ma, w.ar = w.m.Noise.MA, w.m.Noise.AR
-		w.ma.Each(add)
-		w.ar.Each(add)
+	if b.m.Noise != nil {
+		b.m.Noise.MA.Each(add)
+		b.m.Noise.AR.Each(add)
 	}
 	if diffErr != nil {
-		return nil, diffErr
+		return binding{}, diffErr
 	}
 	for name := range held {
-		if _, ok := w.index[name]; ok {
-			return nil, modelErr("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
+		if _, ok := b.index[name]; ok {
+			return binding{}, modelErr("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
 		}
 	}
-	if len(w.names) == 0 {
-		return nil, modelErr("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
+	if len(b.names) == 0 {
+		return binding{}, modelErr("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
 	}
-	// Data: presence, extras, lengths, finiteness.
+	return b, nil
+}
+
+// checkFitData checks the data of a fit of m: the output and every
+// input present, no series the model does not use (unless
+// set.IgnoreExtra), one length, and every sample finite and at most
+// FitMaxMagnitude (series checked in name order). It returns the output.
+func checkFitData(m Model, data map[string][]float64, set FitSettings) ([]float64, error) {
 	y, ok := data[m.Output]
 	if !ok {
 		return nil, seriesErr(m.Output, errs.ErrName, 0, 0, "the model's output is not in the data; check the series names")
@@ -572,20 +652,15 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			}
 		}
 	}
-	if err := fitCheckConst(w.m); err != nil {
-		return nil, err
-	}
-	if set.First > 0 && set.First >= n {
-		return nil, settingErr("FitSettings.First", strconv.Itoa(set.First),
-			"must be below the number of samples, "+strconv.Itoa(n)+" (it is the index of the first residual summed)")
-	}
-	if n > 0 && fitConstant(y) {
-		return nil, seriesErr(m.Output, errs.ErrConstant, 0, 0, "the output: every sample is "+strconv.FormatFloat(y[0], 'g', 6, 64)+
-			", there is nothing to explain; check that the right column was read")
-	}
-	// Conditioning.
-	dc := w.m.Diff.Coeffs()
-	d := len(dc) - 1
+	return y, nil
+}
+
+// condition sets the conditioning of a fit of n samples (see the package
+// doc, Conditioning) and the per-input facts the evaluations read (the
+// differencing degree, which parts are free); it refuses a dead time out
+// of range and too few residuals for the free parameters.
+func (w *fitWork) condition(set FitSettings, n int) error {
+	d := len(w.m.Diff.Coeffs()) - 1
 	ts := d
 	w.ins = make([]fitInput, len(w.m.Inputs))
 	for i := range w.m.Inputs {
@@ -594,7 +669,7 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		fi.in = in
 		fi.d = in.Diff.Degree()
 		if in.Delay < 0 || in.Delay > MaxDelay {
-			return nil, &DelayError{Delay: in.Delay}
+			return &DelayError{Delay: in.Delay}
 		}
 		ts = max(ts, fi.d+in.Delay+in.Num.Degree())
 		in.Num.Each(func(c *Coef) {
@@ -611,23 +686,41 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	p := w.ar.Degree()
 	t0 := max(ts+p, set.First)
 	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample}
-	nres := n - t0
-	if nres <= len(w.names) {
-		detail := "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"
-		for i := range w.m.Inputs {
-			in := &w.m.Inputs[i]
-			if ts > d && w.ins[i].d+in.Delay+in.Num.Degree() == ts && t0 == ts+p {
-				detail += "; input " + strconv.Quote(in.Series) + " with dead time " + strconv.Itoa(in.Delay) + ", numerator degree " +
-					strconv.Itoa(in.Num.Degree()) + " and differencing degree " + strconv.Itoa(w.ins[i].d) + " leaves its first " +
-					strconv.Itoa(ts) + " samples without a residual: check the dead time (it counts samples)"
-				break
-			}
-		}
-		return nil, seriesErr(m.Output, errs.ErrShort, max(nres, 0), len(w.names)+1, "counting residuals, one more than the "+strconv.Itoa(len(w.names))+" free coefficients; "+detail)
-	}
 	w.n = n
-	// All work series come from one slab, recycled between fits (see
-	// fitSlab); what the evaluations rely on being zero is cleared here.
+	if nres := n - t0; nres <= len(w.names) {
+		return w.tooFewResiduals(nres)
+	}
+	return nil
+}
+
+// tooFewResiduals is the ErrShort error of a fit with nres residuals,
+// naming the input whose dead time and degrees set the first residual
+// index when one does.
+func (w *fitWork) tooFewResiduals(nres int) error {
+	n, d, ts, t0 := w.n, w.cond.OutputDiff, w.cond.NoiseStart, w.cond.First
+	p := w.ar.Degree()
+	detail := "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"
+	for i := range w.m.Inputs {
+		in := &w.m.Inputs[i]
+		if ts > d && w.ins[i].d+in.Delay+in.Num.Degree() == ts && t0 == ts+p {
+			detail += "; input " + strconv.Quote(in.Series) + " with dead time " + strconv.Itoa(in.Delay) + ", numerator degree " +
+				strconv.Itoa(in.Num.Degree()) + " and differencing degree " + strconv.Itoa(w.ins[i].d) + " leaves its first " +
+				strconv.Itoa(ts) + " samples without a residual: check the dead time (it counts samples)"
+			break
+		}
+	}
+	return seriesErr(w.m.Output, errs.ErrShort, max(nres, 0), len(w.names)+1, "counting residuals, one more than the "+strconv.Itoa(len(w.names))+" free coefficients; "+detail)
+}
+
+// allocate takes every work series from one slab, recycled between fits
+// (see fitSlab), forms the differenced output and inputs with the
+// pre-sample levels of the conditioning, and clears what the evaluations
+// rely on being zero. It refuses an input held at a non-zero first value
+// through a fixed integrator, and an input with free coefficients that
+// never moves. The caller releases w on an error.
+func (w *fitWork) allocate(y []float64, data map[string][]float64, set FitSettings) error {
+	n, t0 := w.n, w.cond.First
+	nres := n - t0
 	size := 3 * n
 	for i := range w.ins {
 		fi := &w.ins[i]
@@ -637,7 +730,7 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			size += n + nres + ext
 		}
 	}
-	w.slab = fitGetSlab(size)
+	w.slab = getSlab(size)
 	buf := w.slab.buf
 	take := func(m int) []float64 {
 		out := buf[:m:m]
@@ -645,36 +738,15 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		return out
 	}
 	// Differenced series (fixed), zero before the differencing degree.
-	w.w = fitDiffTo(take(n), y, dc)
+	w.w = diffTo(take(n), y, w.m.Diff.Coeffs())
 	w.y = y
 	for i := range w.ins {
 		fi := &w.ins[i]
 		fi.x = data[fi.in.Series]
-		fi.z = fitDiffTo(take(n), fi.x, fi.in.Diff.Coeffs())
+		fi.z = diffTo(take(n), fi.x, fi.in.Diff.Coeffs())
 		fi.zc = take(n)
-		if !set.ZeroPreSample && fi.d == 0 && n > 0 {
-			fi.z0 = fi.z[fi.d]
-		}
-		clear(fi.zc[:min(fi.d, n)])
-		moves := false
-		for t := fi.d; t < n; t++ {
-			fi.zc[t] = fi.z[t] - fi.z0
-			moves = moves || fi.zc[t] != 0
-		}
-		if fi.z0 != 0 && !fi.denFree && fitSum(fi.in.Den.Coeffs()) == 0 {
-			w.release()
-			return nil, modelErr("input "+strconv.Quote(fi.in.Series), "no settled start: its denominator has a pole at z = 1 (an integrator), so it has no steady state, "+
-				"and Fit cannot take the input as held at its first value "+strconv.FormatFloat(fi.z0, 'g', 6, 64)+
-				" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output")
-		}
-		if !moves && (fi.numFree || fi.denFree) {
-			w.release()
-			why := "every sample is " + strconv.FormatFloat(fi.x[0], 'g', 6, 64) + ", and Fit takes an input as held at its first value before the record"
-			if fi.d > 0 {
-				why = "its differenced values are all zero"
-			}
-			return nil, seriesErr(fi.in.Series, errs.ErrConstant, 0, 0, "an input: "+why+
-				", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values")
+		if err := fi.centre(set.ZeroPreSample, n); err != nil {
+			return err
 		}
 		fi.s = take(n)
 		fi.u = take(n)
@@ -689,11 +761,42 @@ func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	w.a = take(n)
 	clear(w.a[:t0])
 	w.maFixedOne = w.ma.IsOne()
-	return w, nil
+	return nil
 }
 
-// fitConstant reports whether every sample of x equals the first.
-func fitConstant(x []float64) bool {
+// centre sets the pre-sample level z0 of the input (its first value
+// without differencing unless zeroPre, else 0) and zc = z - z0 from the
+// differencing degree on (0 before); it refuses an input that has no
+// steady state to hold at z0 or that never moves while its coefficients
+// are free.
+func (fi *fitInput) centre(zeroPre bool, n int) error {
+	if !zeroPre && fi.d == 0 && n > 0 {
+		fi.z0 = fi.z[fi.d]
+	}
+	clear(fi.zc[:min(fi.d, n)])
+	moves := false
+	for t := fi.d; t < n; t++ {
+		fi.zc[t] = fi.z[t] - fi.z0
+		moves = moves || fi.zc[t] != 0
+	}
+	if fi.z0 != 0 && !fi.denFree && sumCoeffs(fi.in.Den.Coeffs()) == 0 {
+		return modelErr("input "+strconv.Quote(fi.in.Series), "no settled start: its denominator has a pole at z = 1 (an integrator), so it has no steady state, "+
+			"and Fit cannot take the input as held at its first value "+strconv.FormatFloat(fi.z0, 'g', 6, 64)+
+			" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output")
+	}
+	if !moves && (fi.numFree || fi.denFree) {
+		why := "every sample is " + strconv.FormatFloat(fi.x[0], 'g', 6, 64) + ", and Fit takes an input as held at its first value before the record"
+		if fi.d > 0 {
+			why = "its differenced values are all zero"
+		}
+		return seriesErr(fi.in.Series, errs.ErrConstant, 0, 0, "an input: "+why+
+			", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values")
+	}
+	return nil
+}
+
+// isConstant reports whether every sample of x equals the first.
+func isConstant(x []float64) bool {
 	for _, v := range x {
 		if v != x[0] {
 			return false
@@ -712,8 +815,8 @@ type fitSlab struct{ buf []float64 }
 // capacity 1<<c.
 var fitSlabs [64]sync.Pool
 
-// fitGetSlab returns a slab of m values (contents undefined).
-func fitGetSlab(m int) *fitSlab {
+// getSlab returns a slab of m values (contents undefined).
+func getSlab(m int) *fitSlab {
 	c := bits.Len(uint(max(m-1, 1)))
 	if s, ok := fitSlabs[c].Get().(*fitSlab); ok {
 		s.buf = s.buf[:m]
@@ -736,9 +839,9 @@ func (w *fitWork) release() {
 	}
 }
 
-// fitCheckConst reports a zero constant term in a denominator or noise
+// checkConstTerms reports a zero constant term in a denominator or noise
 // polynomial as written.
-func fitCheckConst(m Model) error {
+func checkConstTerms(m Model) error {
 	chk := func(p Poly, what string) error {
 		if c := p.Coeffs(); c[0] == 0 {
 			return modelErr(what, "the constant term is zero, so the term is not causal; write it as 1 + ... (or move the dead time to the input's delay)")
@@ -764,12 +867,12 @@ func fitCheckConst(m Model) error {
 // fitDiff returns D(B) x over the full length with zeros before index
 // deg D.
 func fitDiff(x, dc []float64) []float64 {
-	return fitDiffTo(make([]float64, len(x)), x, dc)
+	return diffTo(make([]float64, len(x)), x, dc)
 }
 
-// fitDiffTo writes D(B) x into out (len(x)), zeros before index deg D,
+// diffTo writes D(B) x into out (len(x)), zeros before index deg D,
 // and returns out.
-func fitDiffTo(out, x, dc []float64) []float64 {
+func diffTo(out, x, dc []float64) []float64 {
 	d := len(dc) - 1
 	clear(out[:min(d, len(x))])
 	switch {
@@ -801,7 +904,7 @@ func fitDiffTo(out, x, dc []float64) []float64 {
 }
 
 // set writes the parameter vector into the working model.
-func (w *fitWork) set(x []float64) {
+func (w *binding) set(x []float64) {
 	for k, cs := range w.coefs {
 		for _, c := range cs {
 			c.Value = x[k]
@@ -810,7 +913,7 @@ func (w *fitWork) set(x []float64) {
 }
 
 // params returns the current parameter vector.
-func (w *fitWork) params() []float64 {
+func (w *binding) params() []float64 {
 	x := make([]float64, len(w.names))
 	for k, cs := range w.coefs {
 		x[k] = cs[0].Value
@@ -855,7 +958,7 @@ func (w *fitWork) noiseSeries() {
 		}
 		fi.gain = 0
 		if fi.z0 != 0 {
-			fi.gain = fitSum(fi.numC) / fitSum(fi.denC)
+			fi.gain = sumCoeffs(fi.numC) / sumCoeffs(fi.denC)
 		}
 	}
 	c := 0.0
@@ -1041,12 +1144,12 @@ func (w *fitWork) jacPrep() {
 			if fi.z0 == 0 {
 				continue
 			}
-			d1 := fitSum(fi.denC)
+			d1 := sumCoeffs(fi.denC)
 			if g := fi.numD[j]; g != nil {
-				kappa -= fitSum(g) * fi.z0 / d1
+				kappa -= sumCoeffs(g) * fi.z0 / d1
 			}
 			if g := fi.denD[j]; g != nil {
-				kappa += fi.gain * fitSum(g) * fi.z0 / d1
+				kappa += fi.gain * sumCoeffs(g) * fi.z0 / d1
 			}
 		}
 		w.kappa[j] = kappa * phi1
@@ -1363,7 +1466,7 @@ func (w *fitWork) scratchN(m int) []float64 {
 	return w.scratch[:m]
 }
 
-func fitSum(c []float64) float64 {
+func sumCoeffs(c []float64) float64 {
 	s := 0.0
 	for _, v := range c {
 		s += v
