@@ -165,7 +165,7 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	if set.Alpha == 0 {
 		set.Alpha = 0.05
 	}
-	if err := chkEstimateUsable("Check", e); err != nil {
+	if err := estimateUsable("Check", e); err != nil {
 		return nil, err
 	}
 	resid, first, err := chkResiduals("Check", e, data)
@@ -400,9 +400,9 @@ func chkRootFailures(m Model) []string {
 	return out
 }
 
-// chkEstimateUsable reports a nil estimate or a coefficient of its model
+// estimateUsable reports a nil estimate or a coefficient of its model
 // that is not finite.
-func chkEstimateUsable(fn string, e *Estimate) error {
+func estimateUsable(fn string, e *Estimate) error {
 	if e == nil {
 		return estimateErr("", 0, "the estimate is nil; pass the *Estimate that Fit returned")
 	}
@@ -441,7 +441,7 @@ func constantAfterDiff(x, dc []float64) (float64, bool) {
 	if len(x) <= d {
 		return 0, false
 	}
-	z := fitDiff(x, dc)[d:]
+	z := applyDiff(x, dc)[d:]
 	scale := 0.0
 	for _, v := range x {
 		scale = math.Max(scale, math.Abs(v))
@@ -500,15 +500,15 @@ func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64,
 	w.resid()
 	for t := w.cond.First; t < w.n; t++ {
 		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, 0, overflowErr("residuals", t, v, chkDivergeHint(e))
+			return nil, 0, overflowErr("residuals", t, v, divergeHint(e))
 		}
 	}
 	return w.a, w.cond.First, nil
 }
 
-// chkDivergeHint names the likely cause of residuals or forecasts that
+// divergeHint names the likely cause of residuals or forecasts that
 // overflow.
-func chkDivergeHint(e *Estimate) string {
+func divergeHint(e *Estimate) string {
 	if !e.Conditioning.ZeroPreSample {
 		for _, in := range e.Model.Inputs {
 			if in.Diff.IsOne() && math.Abs(sumCoeffs(in.Den.Coeffs())) < 1e-12 {

@@ -864,9 +864,9 @@ func checkConstTerms(m Model) error {
 	return nil
 }
 
-// fitDiff returns D(B) x over the full length with zeros before index
+// applyDiff returns D(B) x over the full length with zeros before index
 // deg D.
-func fitDiff(x, dc []float64) []float64 {
+func applyDiff(x, dc []float64) []float64 {
 	return diffTo(make([]float64, len(x)), x, dc)
 }
 

@@ -155,7 +155,7 @@ func TestForecastOverflow(t *testing.T) {
 // estimate's faults as a warning.
 func TestForecastPlanOutsideRecord(t *testing.T) {
 	est, data := fitMCEstimate(t)
-	lo, hi := fcRange(data["x"])
+	lo, hi := valueRange(data["x"])
 	plan := []float64{lo, hi + 1, (lo + hi) / 2}
 	fc, err := est.Forecast(data, 3, &ForecastSettings{Future: map[string][]float64{"x": plan}})
 	if err != nil {

@@ -686,7 +686,7 @@ func jointWeights(output string, inputs []string, data map[string][]float64, out
 		if len(dc) == 0 {
 			dc = []float64{1}
 		}
-		return fitDiff(x, dc)[d:]
+		return applyDiff(x, dc)[d:]
 	}
 	y := cut(data[output], outDiff)
 	xs := make([][]float64, len(inputs))
@@ -761,7 +761,7 @@ func validateIdentifyData(output string, inputs []string, data map[string][]floa
 				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: idfMaxMagnitude}
 			}
 		}
-		if lo, hi := fcRange(x); hi > lo && hi-lo < idfMinSpread {
+		if lo, hi := valueRange(x); hi > lo && hi-lo < idfMinSpread {
 			return seriesErr(name, errs.ErrConstant, 0, 0, "it varies by only "+fmtF(hi-lo)+", less than 1e-140: the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)")
 		}
 	}

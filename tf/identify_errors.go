@@ -87,7 +87,7 @@ func (s *IdentifySettings) validate(inputs []string, n int) error {
 	for _, in := range inputs {
 		known[in] = true
 	}
-	for _, name := range fcSortedKeys(s.InputDiff) {
+	for _, name := range sortedKeys(s.InputDiff) {
 		if inputs != nil && !known[name] {
 			return unknownInputErr("IdentifySettings.InputDiff", name, inputs)
 		}
