@@ -944,14 +944,14 @@ func (w *fitWork) noiseSeries() {
 		case len(fi.denC) == 2 && fi.denC[0] == 1 && len(fi.numC) <= 3 && fi.denFree:
 			// The common first-order denominator: s, u and q in one pass,
 			// whose two recursions overlap in the pipeline.
-			fitRun1(fi.s, fi.u, fi.q, fi.zc, b, fi.denC[1], fi.numC)
+			runFirstOrder(fi.s, fi.u, fi.q, fi.zc, b, fi.denC[1], fi.numC)
 		default:
-			if fitIsOne(fi.denC) {
+			if isOne(fi.denC) {
 				copy(fi.s[b:], fi.zc[:n-b])
 			} else {
 				filter.Run(fi.s[b:], fitOne, fi.denC, fi.zc[:n-b])
 			}
-			fitFIR(fi.u, fi.numC, fi.s, 0, false)
+			fir(fi.u, fi.numC, fi.s, 0, false)
 			if fi.denFree {
 				filter.Run(fi.q, fitOne, fi.denC, fi.u)
 			}
@@ -997,16 +997,16 @@ func (w *fitWork) noiseSeries() {
 	}
 }
 
-// fitRun1 computes, for delta(B) = 1 + d1 B and omega(B) = c0 + c1 B +
+// runFirstOrder computes, for delta(B) = 1 + d1 B and omega(B) = c0 + c1 B +
 // c2 B^2 (c of length 1..3), from zero pre-sample values and dead time b
 // (< len(zc)), with the same operations in the same order as the
-// general path (filter.Run, fitFIR, filter.Run), so bit for bit alike:
+// general path (filter.Run, fir, filter.Run), so bit for bit alike:
 //
 //	s_t = zc_{t-b} - d1 s_{t-1},  u_t = c0 s_t + c1 s_{t-1} + c2 s_{t-2},
 //	q_t = u_t - d1 q_{t-1}.
 //
 // s[:b] must already be zero.
-func fitRun1(s, u, q, zc []float64, b int, d1 float64, c []float64) {
+func runFirstOrder(s, u, q, zc []float64, b int, d1 float64, c []float64) {
 	n := len(s)
 	var cc [3]float64
 	copy(cc[:], c)
@@ -1041,8 +1041,8 @@ func (w *fitWork) resid() float64 {
 	w.arC, w.arD = w.ar.Grad(w.idx, k)
 	w.maC, w.maD = w.ma.Grad(w.idx, k)
 	ts, t0 := w.cond.NoiseStart, w.cond.First
-	if fitIsOne(w.maC) {
-		fitFIR(w.a[t0:], w.arC, w.nn, t0, false)
+	if isOne(w.maC) {
+		fir(w.a[t0:], w.arC, w.nn, t0, false)
 	} else {
 		filter.RunInit(w.a[t0:], w.arC, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
 	}
@@ -1061,7 +1061,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 		k := len(w.names)
 		w.arC, w.arD = w.ar.Grad(w.idx, k)
 		w.maC, w.maD = w.ma.Grad(w.idx, k)
-		fitFIR(r, w.arC, w.nn, t0, false)
+		fir(r, w.arC, w.nn, t0, false)
 		f = vec.Dot(r, r)
 	} else {
 		f = w.resid()
@@ -1091,7 +1091,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 // jacobian is the stored form for the tests.
 func (w *fitWork) jacobian(jac [][]float64) {
 	w.jacPrep()
-	maOne := fitIsOne(w.maC)
+	maOne := isOne(w.maC)
 	var sc []float64 // bracket for the moving-average recursion
 	if !maOne {
 		sc = w.scratchN(len(jac[0]))
@@ -1115,10 +1115,10 @@ func (w *fitWork) jacPrep() {
 		fi := &w.ins[i]
 		ext := len(fi.e) - (w.n - t0)
 		if fi.numFree { // e is read only by numerator columns
-			fitFIR(fi.e, w.arC, fi.s, t0-ext, false)
+			fir(fi.e, w.arC, fi.s, t0-ext, false)
 		}
 		if fi.denFree {
-			fitFIR(fi.f, w.arC, fi.q, t0-ext, false)
+			fir(fi.f, w.arC, fi.q, t0-ext, false)
 		}
 		fi.negNum = fitNegAll(fi.negNum, fi.numD)
 	}
@@ -1178,7 +1178,7 @@ func (w *fitWork) prepViews() {
 	}
 	w.views = w.views[:k]
 	m := w.n - w.cond.First
-	maOne := fitIsOne(w.maC)
+	maOne := isOne(w.maC)
 	for j := range w.views {
 		w.views[j] = fitView{}
 		if !maOne || w.kappa[j] != 0 {
@@ -1248,26 +1248,26 @@ func (w *fitWork) colRows(k, r0 int, dst, out, yHist []float64) {
 		// fi.e[j] holds (phi s)_{First-ext0+j}; filter it as a series
 		// whose index origin is First-ext0.
 		if g := fi.negNum[k]; g != nil {
-			fitFIR(dst, g, fi.e, ext, !first)
+			fir(dst, g, fi.e, ext, !first)
 			first = false
 		}
 		if g := fi.denD[k]; g != nil {
-			fitFIR(dst, g, fi.f, ext, !first)
+			fir(dst, g, fi.f, ext, !first)
 			first = false
 		}
 	}
 	if g := w.arD[k]; g != nil {
-		fitFIR(dst, g, w.nn, t0, !first)
+		fir(dst, g, w.nn, t0, !first)
 		first = false
 	}
 	if g := w.negMA[k]; g != nil {
-		fitFIR(dst, g, w.a, t0, !first)
+		fir(dst, g, w.a, t0, !first)
 		first = false
 	}
 	if first {
 		clear(dst)
 	}
-	if !fitIsOne(w.maC) {
+	if !isOne(w.maC) {
 		filter.RunInit(out, fitOne, w.maC, dst, nil, yHist)
 	}
 }
@@ -1294,7 +1294,7 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 		return nil
 	}
 	acc1 := w.scratchAcc(len(acc))
-	if fitIsOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
+	if isOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
 		var wg sync.WaitGroup
 		var perr error
 		wg.Add(1)
@@ -1343,7 +1343,7 @@ type fitBlock struct {
 func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 	k := len(w.names)
 	L := lm.NormalBlock
-	maOne := fitIsOne(w.maC)
+	maOne := isOne(w.maC)
 	q := len(w.maC) - 1
 	if len(st.cols) != k || len(st.back) < k*L {
 		st.back = make([]float64, k*L)

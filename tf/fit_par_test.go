@@ -123,10 +123,10 @@ func TestFitRun1(t *testing.T) {
 	}
 	for _, c := range [][]float64{{0.7}, {0.7, -0.2}, {0.7, -0.2, 0.1}} {
 		s1, u1, q1 := make([]float64, n), make([]float64, n), make([]float64, n)
-		fitRun1(s1, u1, q1, zc, b, -0.8, c)
+		runFirstOrder(s1, u1, q1, zc, b, -0.8, c)
 		s2, u2, q2 := make([]float64, n), make([]float64, n), make([]float64, n)
 		filter.Run(s2[b:], fitOne, []float64{1, -0.8}, zc[:n-b])
-		fitFIR(u2, c, s2, 0, false)
+		fir(u2, c, s2, 0, false)
 		filter.Run(q2, fitOne, []float64{1, -0.8}, u2)
 		for i := 0; i < n; i++ {
 			if s1[i] != s2[i] || u1[i] != u2[i] || q1[i] != q2[i] {

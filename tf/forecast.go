@@ -406,7 +406,7 @@ func forecastInput(fi *fitInput, set ForecastSettings, n, h int, dc, vr, what []
 		filter.Run(se[in.Delay:], fitOne, fi.denC, ze[:L-in.Delay])
 	}
 	ue := make([]float64, L)
-	fitFIR(ue, fi.numC, se, 0, false)
+	fir(ue, fi.numC, se, 0, false)
 	for j := 0; j < h; j++ {
 		what[j] += ue[n+j] + fi.gain*fi.z0
 	}
