@@ -98,7 +98,7 @@ func (g Rational) CloseLoop(h Rational) (Rational, error) {
 	return r, composeErr(op, err)
 }
 
-func ratFormat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+func formatNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // Cancel returns r with the pole-zero pairs that lie within tol of each
 // other (|p - z| <= tol max(1, |p|)) removed, as after composing a

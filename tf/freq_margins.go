@@ -64,7 +64,7 @@ func (r Rational) LoopMargins() (LoopMargins, error) {
 		w[i] = math.Pi * float64(i+1) / float64(n)
 		g, ok := ratEvalRational(num, den, w[i])
 		if !ok {
-			return LoopMargins{}, &UnstableError{Op: "tf.Rational.LoopMargins", What: "margins (pole on the unit circle at w = " + ratFormat(w[i]) + ")", MaxPole: 1}
+			return LoopMargins{}, &UnstableError{Op: "tf.Rational.LoopMargins", What: "margins (pole on the unit circle at w = " + formatNum(w[i]) + ")", MaxPole: 1}
 		}
 		p := cmplx.Phase(g)
 		if i > 0 {

@@ -54,7 +54,7 @@ func (o StepSettings) validate(op string) error {
 		}
 	}
 	if from, to := o.rise(); from >= to {
-		return setting(op, "StepSettings.RiseFrom", from, "must lie below StepSettings.RiseTo ("+ratFormat(to)+")")
+		return setting(op, "StepSettings.RiseFrom", from, "must lie below StepSettings.RiseTo ("+formatNum(to)+")")
 	}
 	if err := errs.NonNegative(op, "StepSettings.Interval", o.Interval, "0: not given, times in samples only"); err != nil {
 		return err
