@@ -168,78 +168,32 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	if err := estimateUsable("Check", e); err != nil {
 		return nil, err
 	}
-	resid, first, err := chkResiduals("Check", e, data)
+	resid, first, err := residualsOf("Check", e, data)
 	if err != nil {
 		return nil, err
 	}
 	a := resid[first:]
-	nres := len(a)
 	noisePar := 0
 	if e.Model.Noise != nil {
-		noisePar = len(chkFreeNames(e.Model.Noise.MA, e.Model.Noise.AR))
+		noisePar = len(freeNames(e.Model.Noise.MA, e.Model.Noise.AR))
 	}
-	lags := set.Lags
-	if lags == 0 {
-		lags = max(min(24, nres/4), noisePar+1)
-		lags = min(lags, nres-1)
-	} else if lags >= nres {
-		return nil, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
-			"must be below the number of residuals ("+strconv.Itoa(nres)+"); 0 means min(24, N/4)")
-	}
-	if lags < noisePar+1 {
-		if set.Lags > 0 {
-			return nil, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
-				"must exceed the number of free noise coefficients ("+strconv.Itoa(noisePar)+") so that the Ljung-Box test has a degree of freedom")
-		}
-		return nil, seriesErr(e.Model.Output, errs.ErrShort, nres, noisePar+2,
-			"counting residuals: the Ljung-Box check needs more residuals than free noise coefficients + 1")
+	lags, err := checkLags(set, len(a), noisePar, e.Model.Output)
+	if err != nil {
+		return nil, err
 	}
 	d := &Diagnostics{Alpha: set.Alpha, Pass: true}
-	acf, err := arma.ACF(a, lags)
-	if err != nil {
-		return nil, &StageError{Stage: "residual autocorrelations", Err: err}
+	if d.Residual, err = whitenessCheck(a, lags, noisePar, set.Alpha); err != nil {
+		return nil, err
 	}
-	lb, err := arma.LjungBox(a, lags, noisePar)
-	if err != nil {
-		return nil, &StageError{Stage: "Ljung-Box test of the residuals", Err: err}
-	}
-	d.Residual = ResidualCheck{ACF: append([]float64(nil), acf.R[1:]...), Band: 1.96 / math.Sqrt(float64(nres)),
-		Q: lb.Q, Lags: lags, DF: lb.DF, P: lb.P, Pass: lb.P >= set.Alpha}
 	kx := set.CrossLags
 	if kx <= 0 {
 		kx = lags
 	}
 	for _, in := range e.Model.Inputs {
-		x := data[in.Series]
-		if v, ok := constantAfterDiff(x, in.Diff.Coeffs()); ok {
-			return nil, constantErr(in.Series, "input", v, diffText(in.Diff.Coeffs()))
-		}
-		stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
-		f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
+		cc, err := crossCheck(in, data[in.Series], resid, first, kx, set.Alpha)
 		if err != nil {
-			return nil, &StageError{Stage: stage, Err: err}
+			return nil, err
 		}
-		alpha, start, err := f.Apply(x, in.Series)
-		if err != nil {
-			return nil, &StageError{Stage: stage, Err: err}
-		}
-		t0 := max(start, first)
-		m := len(x) - t0
-		k := min(kx, m-2)
-		c, err := ccf.Cross(alpha[t0:], resid[t0:], k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
-		if err != nil {
-			return nil, &StageError{Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
-		}
-		cc := CrossCheck{Input: in.Series, Prewhiten: f, M: c.N, Lags: k, Band: 1.96 / math.Sqrt(float64(c.N))}
-		cc.CCF = make([]float64, k+1)
-		for j := 0; j <= k; j++ {
-			cc.CCF[j] = c.At(j)
-			cc.S += cc.CCF[j] * cc.CCF[j]
-		}
-		cc.S *= float64(c.N)
-		cc.DF = max(k+1-len(chkFreeNames(in.Num, in.Den)), 1)
-		cc.P = distuv.ChiSquared{K: float64(cc.DF)}.Survival(cc.S)
-		cc.Pass = cc.P >= set.Alpha
 		d.Cross = append(d.Cross, cc)
 	}
 	d.Failures = e.Soundness()
@@ -253,6 +207,83 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	}
 	d.Pass = len(d.Failures) == 0
 	return d, nil
+}
+
+// checkLags returns the number of autocorrelation lags of the Ljung-Box
+// check of nres residuals (set.Lags, or min(24, nres/4) but more than
+// the noisePar free noise coefficients and below nres), refusing a
+// setting out of range and too few residuals.
+func checkLags(set CheckSettings, nres, noisePar int, output string) (int, error) {
+	lags := set.Lags
+	if lags == 0 {
+		lags = max(min(24, nres/4), noisePar+1)
+		lags = min(lags, nres-1)
+	} else if lags >= nres {
+		return 0, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+			"must be below the number of residuals ("+strconv.Itoa(nres)+"); 0 means min(24, N/4)")
+	}
+	if lags < noisePar+1 {
+		if set.Lags > 0 {
+			return 0, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+				"must exceed the number of free noise coefficients ("+strconv.Itoa(noisePar)+") so that the Ljung-Box test has a degree of freedom")
+		}
+		return 0, seriesErr(output, errs.ErrShort, nres, noisePar+2,
+			"counting residuals: the Ljung-Box check needs more residuals than free noise coefficients + 1")
+	}
+	return lags, nil
+}
+
+// whitenessCheck returns the autocorrelations of the residuals a and
+// their Ljung-Box test over lags lags with noisePar fitted noise
+// coefficients, passing at level alpha.
+func whitenessCheck(a []float64, lags, noisePar int, alpha float64) (ResidualCheck, error) {
+	acf, err := arma.ACF(a, lags)
+	if err != nil {
+		return ResidualCheck{}, &StageError{Stage: "residual autocorrelations", Err: err}
+	}
+	lb, err := arma.LjungBox(a, lags, noisePar)
+	if err != nil {
+		return ResidualCheck{}, &StageError{Stage: "Ljung-Box test of the residuals", Err: err}
+	}
+	return ResidualCheck{ACF: append([]float64(nil), acf.R[1:]...), Band: 1.96 / math.Sqrt(float64(len(a))),
+		Q: lb.Q, Lags: lags, DF: lb.DF, P: lb.P, Pass: lb.P >= alpha}, nil
+}
+
+// crossCheck prewhitens input x of term in, cross-correlates it with the
+// residuals from index first on at lags 0..kx (fewer for a short
+// record), and tests the sum of squares against chi-square with one
+// degree of freedom per lag less the term's free coefficients.
+func crossCheck(in Input, x, resid []float64, first, kx int, alpha float64) (CrossCheck, error) {
+	if v, ok := constantAfterDiff(x, in.Diff.Coeffs()); ok {
+		return CrossCheck{}, constantErr(in.Series, "input", v, diffText(in.Diff.Coeffs()))
+	}
+	stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
+	f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
+	if err != nil {
+		return CrossCheck{}, &StageError{Stage: stage, Err: err}
+	}
+	alphaX, start, err := f.Apply(x, in.Series)
+	if err != nil {
+		return CrossCheck{}, &StageError{Stage: stage, Err: err}
+	}
+	t0 := max(start, first)
+	m := len(x) - t0
+	k := min(kx, m-2)
+	c, err := ccf.Cross(alphaX[t0:], resid[t0:], k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
+	if err != nil {
+		return CrossCheck{}, &StageError{Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
+	}
+	cc := CrossCheck{Input: in.Series, Prewhiten: f, M: c.N, Lags: k, Band: 1.96 / math.Sqrt(float64(c.N))}
+	cc.CCF = make([]float64, k+1)
+	for j := 0; j <= k; j++ {
+		cc.CCF[j] = c.At(j)
+		cc.S += cc.CCF[j] * cc.CCF[j]
+	}
+	cc.S *= float64(c.N)
+	cc.DF = max(k+1-len(freeNames(in.Num, in.Den)), 1)
+	cc.P = distuv.ChiSquared{K: float64(cc.DF)}.Survival(cc.S)
+	cc.Pass = cc.P >= alpha
+	return cc, nil
 }
 
 // Validate checks the settings by the library's settings rule (zero
@@ -321,7 +352,7 @@ func (e *Estimate) Soundness() []string {
 	if !(e.Sigma2 >= 0) || math.IsInf(e.Sigma2, 0) {
 		out = append(out, "the noise variance is "+fitNum(e.Sigma2, 4)+", not a finite number")
 	}
-	out = append(out, chkRootFailures(e.Model)...)
+	out = append(out, rootFailures(e.Model)...)
 	k := len(e.Params)
 	need := max(CheckMinResiduals, CheckMinResidualsPerCoef*k)
 	few := k > 0 && e.N < need
@@ -344,10 +375,10 @@ func (e *Estimate) Soundness() []string {
 	return out
 }
 
-// chkRootFailures checks every factor of the estimated input
+// rootFailures checks every factor of the estimated input
 // denominators and noise polynomials that holds a free coefficient for a
 // root with |z| >= CheckBoundaryZ.
-func chkRootFailures(m Model) []string {
+func rootFailures(m Model) []string {
 	var out []string
 	check := func(p Poly, what, root, why string) {
 		for _, f := range p.Factors {
@@ -468,8 +499,8 @@ func diffText(dc []float64) string {
 	return FormatPoly(sym.FromCoeffs(dc))
 }
 
-// chkFreeNames returns the distinct free parameter names of the polys.
-func chkFreeNames(ps ...Poly) []string {
+// freeNames returns the distinct free parameter names of the polys.
+func freeNames(ps ...Poly) []string {
 	seen := map[string]bool{}
 	var out []string
 	for _, p := range ps {
@@ -483,11 +514,11 @@ func chkFreeNames(ps ...Poly) []string {
 	return out
 }
 
-// chkResiduals returns the residuals of e's model on data (aligned to
+// residualsOf returns the residuals of e's model on data (aligned to
 // the data index, zero before first) and the first residual index,
 // with e's conditioning; residuals that are not finite are a
 // *SeriesError of kind ErrOverflow.
-func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64, int, error) {
+func residualsOf(fn string, e *Estimate, data map[string][]float64) ([]float64, int, error) {
 	if err := condCheck(e, data); err != nil {
 		return nil, 0, err
 	}
