@@ -306,10 +306,10 @@ func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
 func settleSamples(m Model) int {
 	z := 0.0
 	for _, in := range m.Inputs {
-		z = math.Max(z, fitMaxZ(in.Den.Coeffs()))
+		z = math.Max(z, maxZ(in.Den.Coeffs()))
 	}
 	if m.Noise != nil {
-		z = math.Max(z, fitMaxZ(m.Noise.MA.Coeffs()))
+		z = math.Max(z, maxZ(m.Noise.MA.Coeffs()))
 	}
 	if z <= 0 {
 		return 0
@@ -989,7 +989,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 
 // jacobian fills the columns d a_t / d x_k for t >= First. Each column is
 // (1/theta(B)) applied to a sum of moving-average filters of series
-// already computed (see Fit):
+// already computed (see Estimation in the package doc):
 //
 //	-g_k (phi s_i), +g_k (phi q_i), -phi(1), +g_k n, -g_k a
 //
@@ -1585,7 +1585,7 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 		e.Params[i] = Param{Name: name, Value: res.X[i], Start: start[i], SE: se, T: res.X[i] / se}
 	}
 	w.noiseSeries() // n_t at the estimate, for the start-up transient test
-	e.Warnings = append(fitWarnings(e, res.JTJInv == nil, w.nn[t0:w.n]), screenWarnings(w.m.Output, w.y[:w.n])...)
+	e.Warnings = append(warningsOf(e, res.JTJInv == nil, w.nn[t0:w.n]), screenWarnings(w.m.Output, w.y[:w.n])...)
 	return e
 }
 

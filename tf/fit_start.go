@@ -79,7 +79,7 @@ func (w *fitWork) startCandidates() [][]float64 {
 		w.set(x)
 		ok := true
 		for i := range w.ins {
-			if fitMaxZ(w.ins[i].in.Den.Coeffs()) >= 0.99 {
+			if maxZ(w.ins[i].in.Den.Coeffs()) >= 0.99 {
 				ok = false
 			}
 		}
@@ -91,18 +91,18 @@ func (w *fitWork) startCandidates() [][]float64 {
 	return cands
 }
 
-// fitMaxZ returns the largest magnitude of the z-plane roots (1/roots in
+// maxZ returns the largest magnitude of the z-plane roots (1/roots in
 // B) of the polynomial c, 0 for a constant.
-func fitMaxZ(c []float64) float64 {
+func maxZ(c []float64) float64 {
 	m := 0.0
-	for _, z := range fitZRoots(c) {
+	for _, z := range zRoots(c) {
 		m = math.Max(m, cmplx.Abs(z))
 	}
 	return m
 }
 
-// fitZRoots returns the z-plane roots of c: the roots of B^deg c(1/B).
-func fitZRoots(c []float64) []complex128 {
+// zRoots returns the z-plane roots of c: the roots of B^deg c(1/B).
+func zRoots(c []float64) []complex128 {
 	c = poly.Trim(c, 0)
 	if len(c) <= 1 {
 		return nil
@@ -266,7 +266,7 @@ func fitPade(v []float64, s, r int) (num, den []float64) {
 			for l := 1; l <= r; l++ {
 				den[l] = sol.AtVec(l - 1)
 			}
-			if fitMaxZ(den) >= 0.98 || math.IsNaN(den[1]) {
+			if maxZ(den) >= 0.98 || math.IsNaN(den[1]) {
 				clear(den[1:])
 			}
 		}
@@ -306,7 +306,7 @@ func (w *fitWork) fitNoiseStart() {
 	if w.fitNeedsStart(w.ma) {
 		w.fitMatch(w.ma, theta)
 	}
-	if fitMaxZ(w.ar.Coeffs()) >= 0.99 || fitMaxZ(w.ma.Coeffs()) >= 0.99 {
+	if maxZ(w.ar.Coeffs()) >= 0.99 || maxZ(w.ma.Coeffs()) >= 0.99 {
 		w.set(before)
 	}
 }

@@ -39,7 +39,7 @@ func TestFitWarningsRules(t *testing.T) {
 	e := &Estimate{Model: m, Converged: false, Reason: "not converged: iteration limit reached",
 		Params: []Param{{Name: "w0"}, {Name: "d1"}},
 		Cov:    [][]float64{{1, 0.97}, {0.97, 1}}}
-	ws := fitWarnings(e, false, nil)
+	ws := warningsOf(e, false, nil)
 	for _, k := range []WarningKind{UnstableDenominator, NonStationaryNoise, NonInvertibleNoise, HighCorrelation, NotConverged} {
 		if !fitHasWarning(ws, k) {
 			t.Errorf("missing %v warning: %v", k, ws)
@@ -50,7 +50,7 @@ func TestFitWarningsRules(t *testing.T) {
 		t.Errorf("unexpected cancellation warning: %v", ws)
 	}
 	set(m.Inputs[0].Den, 0.5)
-	ws = fitWarnings(e, true, nil)
+	ws = warningsOf(e, true, nil)
 	if !fitHasWarning(ws, CancellingRoots) || !fitHasWarning(ws, SingularInformation) || fitHasWarning(ws, UnstableDenominator) {
 		t.Errorf("zero 0.52 beside pole 0.5, singular J'J: %v", ws)
 	}
@@ -76,7 +76,7 @@ func TestFitWarnsRedundant(t *testing.T) {
 	w1, _ := est.Param("w1")
 	d1, _ := est.Param("d1")
 	w0, _ := est.Param("w0")
-	if math.Abs(w1.Value/w0.Value-d1.Value) < fitCancelDist && !fitHasWarning(est.Warnings, CancellingRoots) {
+	if math.Abs(w1.Value/w0.Value-d1.Value) < cancelDist && !fitHasWarning(est.Warnings, CancellingRoots) {
 		t.Errorf("zero %v and pole %v cancel without a warning: %v", w1.Value/w0.Value, d1.Value, est.Warnings)
 	}
 	if !fitHasWarning(est.Warnings, CancellingRoots) || !fitHasWarning(est.Warnings, HighCorrelation) {

@@ -75,8 +75,8 @@ func (e *Estimate) String() string {
 			fmt.Fprintf(&b, " (%s %s)", fitNum(float64(in.Delay)*e.Model.Interval.Value, 4), e.Model.Interval.Unit)
 		}
 		b.WriteByte('\n')
-		poles := fitZRoots(in.Den.Coeffs())
-		zeros := fitZRoots(in.Num.Coeffs())
+		poles := zRoots(in.Den.Coeffs())
+		zeros := zRoots(in.Num.Coeffs())
 		fmt.Fprintf(&b, "    poles (z): %s\n", fitRoots(poles))
 		fmt.Fprintf(&b, "    zeros (z): %s\n", fitRoots(zeros))
 		if r, err := in.Rational(); err == nil {
@@ -93,7 +93,7 @@ func (e *Estimate) String() string {
 	}
 	if e.Model.Noise != nil && !e.Model.Noise.IsWhite() {
 		fmt.Fprintf(&b, "\n  noise: AR roots (z) %s; MA roots (z) %s\n",
-			fitRoots(fitZRoots(e.Model.Noise.AR.Coeffs())), fitRoots(fitZRoots(e.Model.Noise.MA.Coeffs())))
+			fitRoots(zRoots(e.Model.Noise.AR.Coeffs())), fitRoots(zRoots(e.Model.Noise.MA.Coeffs())))
 	}
 	if len(e.Warnings) == 0 {
 		b.WriteString("\n  warnings: none\n")
@@ -191,7 +191,7 @@ func fitRoots(zs []complex128) string {
 	}
 	parts := make([]string, len(zs))
 	for i, z := range zs {
-		parts[i] = fitFmtC(z)
+		parts[i] = formatComplex(z)
 	}
 	return strings.Join(parts, ", ")
 }

@@ -51,8 +51,8 @@ type SimSettings struct {
 	// before the record (see System.SetSteady): an undifferenced input's
 	// term starts at its steady output Gain() x_0, and a differenced
 	// input's pre-sample values are x_0, so that its difference starts
-	// at zero. That is the record Fit assumes by default (see Fit,
-	// "Residuals and conditioning"), so that simulating and then fitting
+	// at zero. That is the record Fit assumes by default (see
+	// Conditioning in the package doc), so that simulating and then fitting
 	// with the defaults agree; FromRest matches Fit with
 	// FitSettings.ZeroPreSample only for inputs without differencing. A
 	// System from NewSystem always starts at rest (it does not know the
