@@ -112,7 +112,6 @@ func screenSpikes(x []float64) []spike {
 	return out
 }
 
-
 // screenWarnings returns the StuckOutput and OutputSpike warnings of the
 // output series y (named name), indexes into the record.
 func screenWarnings(name string, y []float64) []Warning {
