@@ -198,11 +198,11 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	}
 	d.Failures = e.Soundness()
 	if !d.Residual.Pass {
-		d.Failures = append(d.Failures, fmt.Sprintf("the residuals are autocorrelated (Ljung-Box p = %s below %s)", fitNum(d.Residual.P, 3), fitNum(set.Alpha, 3)))
+		d.Failures = append(d.Failures, fmt.Sprintf("the residuals are autocorrelated (Ljung-Box p = %s below %s)", formatSig(d.Residual.P, 3), formatSig(set.Alpha, 3)))
 	}
 	for _, cc := range d.Cross {
 		if !cc.Pass {
-			d.Failures = append(d.Failures, fmt.Sprintf("the residuals correlate with input %q (p = %s below %s)", cc.Input, fitNum(cc.P, 3), fitNum(set.Alpha, 3)))
+			d.Failures = append(d.Failures, fmt.Sprintf("the residuals correlate with input %q (p = %s below %s)", cc.Input, formatSig(cc.P, 3), formatSig(set.Alpha, 3)))
 		}
 	}
 	d.Pass = len(d.Failures) == 0
@@ -350,7 +350,7 @@ func (e *Estimate) Soundness() []string {
 		out = append(out, "no standard error for "+strings.Join(bad, ", ")+" (the coefficients are not determined by the data)")
 	}
 	if !(e.Sigma2 >= 0) || math.IsInf(e.Sigma2, 0) {
-		out = append(out, "the noise variance is "+fitNum(e.Sigma2, 4)+", not a finite number")
+		out = append(out, "the noise variance is "+formatSig(e.Sigma2, 4)+", not a finite number")
 	}
 	out = append(out, rootFailures(e.Model)...)
 	k := len(e.Params)

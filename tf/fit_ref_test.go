@@ -214,7 +214,7 @@ func TestEstimateStringWording(t *testing.T) {
 		fmt.Sprintf("the %d residuals from index %d on", est.N, est.Conditioning.First),
 		"coefficient", "value", "standard error", "value/se",
 		fmt.Sprintf("noise variance %s from %d residuals less %d coefficients (sum of squares %s / %d)",
-			fitNum(est.Sigma2, 5), est.N, k, fitNum(est.SSQ, 6), est.N-k),
+			formatSig(est.Sigma2, 5), est.N, k, formatSig(est.SSQ, 6), est.N-k),
 		"information criteria AIC",
 	}
 	for _, p := range est.Params {

@@ -383,7 +383,7 @@ func forecastInput(fi *fitInput, set ForecastSettings, n, h int, dc, vr, what []
 			warn = &ForecastWarning{Kind: PlanOutsideRecord, Input: in.Series,
 				RecordMin: ifc.RecordMin, RecordMax: ifc.RecordMax, PlanMin: lo, PlanMax: hi,
 				Message: fmt.Sprintf("input %q: the planned values span %s .. %s, outside the range %s .. %s seen in the record; the forecast extrapolates the model beyond what the data showed of it",
-					in.Series, fitNum(lo, 6), fitNum(hi, 6), fitNum(ifc.RecordMin, 6), fitNum(ifc.RecordMax, 6))}
+					in.Series, formatSig(lo, 6), formatSig(hi, 6), formatSig(ifc.RecordMin, 6), formatSig(ifc.RecordMax, 6))}
 		}
 	} else {
 		im, err := inputModelFor(fi, set)

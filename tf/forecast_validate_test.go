@@ -168,7 +168,7 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	if w.Kind != PlanOutsideRecord || w.Input != "x" || w.RecordMin != lo || w.RecordMax != hi || w.PlanMin != lo || w.PlanMax != hi+1 {
 		t.Errorf("warning %+v; record %v..%v", w, lo, hi)
 	}
-	want := `input "x": the planned values span ` + fitNum(lo, 6) + " .. " + fitNum(hi+1, 6) + ", outside the range " + fitNum(lo, 6) + " .. " + fitNum(hi, 6) + " seen in the record"
+	want := `input "x": the planned values span ` + formatSig(lo, 6) + " .. " + formatSig(hi+1, 6) + ", outside the range " + formatSig(lo, 6) + " .. " + formatSig(hi, 6) + " seen in the record"
 	if !strings.HasPrefix(w.Message, want) {
 		t.Errorf("message %q, want prefix %q", w.Message, want)
 	}
