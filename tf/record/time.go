@@ -286,22 +286,8 @@ func (rec *Record) timing(t *table, tm *timing, s *Settings) error {
 	case tm.calendar:
 		what = "timestamps"
 	}
-	if s.Interval.Value > 0 && tm.steps > 0 {
-		if _, fixed := Seconds(s.Interval.Unit); !fixed {
-			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
-				Rule: fmt.Sprintf("a calendar interval has no fixed length, so the time column %s of %s cannot be checked against it: read the record without its time column (%s)",
-					clip(tm.column), t.file, s.set("Time", "none"))}
-		}
-		given := s.Interval.Value * unitSeconds[s.Interval.Unit]
-		if math.Abs(tm.median/given-1) > stepTolerance {
-			iv := niceInterval(tm.median)
-			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
-				Rule: fmt.Sprintf("the time column %s of %s steps by %s (the median of its %d steps): correct the one that is wrong (%s sets the unit of a numeric time column)",
-					clip(tm.column), t.file, ivText(iv.Value, iv.Unit), tm.steps, s.label("TimeUnit"))}
-		}
-		rec.Interval = s.Interval
-	} else if tm.median > 0 {
-		rec.Interval = niceInterval(tm.median)
+	if err := rec.setInterval(t, tm, s); err != nil {
+		return err
 	}
 	if rec.Interval.Value == 0 {
 		// A single row: no step to take an interval from.
@@ -323,5 +309,29 @@ func (rec *Record) timing(t *table, tm *timing, s *Settings) error {
 	}
 	rec.Series = data
 	rec.Notes = append(rec.Notes, note)
+	return nil
+}
+
+// setInterval sets the record's sampling interval: s.Interval, checked
+// against the median step of the time column (within stepTolerance), or
+// else that median step as a round interval.
+func (rec *Record) setInterval(t *table, tm *timing, s *Settings) error {
+	if s.Interval.Value > 0 && tm.steps > 0 {
+		if _, fixed := Seconds(s.Interval.Unit); !fixed {
+			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
+				Rule: fmt.Sprintf("a calendar interval has no fixed length, so the time column %s of %s cannot be checked against it: read the record without its time column (%s)",
+					clip(tm.column), t.file, s.set("Time", "none"))}
+		}
+		given := s.Interval.Value * unitSeconds[s.Interval.Unit]
+		if math.Abs(tm.median/given-1) > stepTolerance {
+			iv := niceInterval(tm.median)
+			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
+				Rule: fmt.Sprintf("the time column %s of %s steps by %s (the median of its %d steps): correct the one that is wrong (%s sets the unit of a numeric time column)",
+					clip(tm.column), t.file, ivText(iv.Value, iv.Unit), tm.steps, s.label("TimeUnit"))}
+		}
+		rec.Interval = s.Interval
+	} else if tm.median > 0 {
+		rec.Interval = niceInterval(tm.median)
+	}
 	return nil
 }
