@@ -218,11 +218,6 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if err := set.validate(append([]string{}, inputs...), len(data[output])); err != nil {
 		return nil, err
 	}
-	// Faults of the record that may explain a failed stage below.
-	var hints []string
-	for _, w := range screenWarnings(output, data[output]) {
-		hints = append(hints, w.Message)
-	}
 	set.fillDefaults()
 	diffs, err := inputDiffs(output, inputs, data, set)
 	if err != nil {
@@ -232,18 +227,16 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if len(set.OutputDiff) <= 1 {
 		outDiff = Poly{}
 	}
+	// Faults of the record that may explain a failed stage.
+	hints := recordHints(output, data[output])
 	forms, scores, ids, err := inputForms(output, inputs, data, diffs, set, hints)
 	if err != nil {
 		return nil, err
 	}
-	fs := FitSettings{IgnoreExtra: true}
-	if set.Fit != nil {
-		fs = *set.Fit
-		fs.IgnoreExtra = true
-	}
+	fs := set.fitSettings()
 	pre := Model{Output: output, Diff: outDiff, Const: &Coef{Name: "c", Free: true}, Noise: &arma.Noise{}}
 	for i := range inputs {
-		pre.Inputs = append(pre.Inputs, forms[i][0])
+		pre.Inputs = append(pre.Inputs, forms[i][0]) // the best form of each input
 	}
 	noises, settleFirst, err := noiseOrders(ctx, pre, data, fs, set)
 	if err != nil {
@@ -260,13 +253,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if !set.NoRefine {
 		out = refineNeighbours(ctx, out, models, data, fs, set, prog)
 	}
-	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
-	for i := range out {
-		out[i].Rank = i + 1
-		out[i].Identification = ids
-		setOp("tf.Identify", &out[i].Err)
-		setOp("tf.Identify", &out[i].CheckErr)
-	}
+	rank(out, ids)
 	if err := ctx.Err(); err != nil {
 		return out, err
 	}
@@ -274,6 +261,40 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		return out, out[0].Err
 	}
 	return out, nil
+}
+
+// fitSettings returns the settings of Identify's fits: set.Fit, with
+// extra series in the data allowed.
+func (set IdentifySettings) fitSettings() FitSettings {
+	fs := FitSettings{IgnoreExtra: true}
+	if set.Fit != nil {
+		fs = *set.Fit
+		fs.IgnoreExtra = true
+	}
+	return fs
+}
+
+// recordHints returns the messages of the faults screened in the output
+// y (named output), which may explain a failed stage of Identify.
+func recordHints(output string, y []float64) []string {
+	var hints []string
+	for _, w := range screenWarnings(output, y) {
+		hints = append(hints, w.Message)
+	}
+	return hints
+}
+
+// rank sorts the candidates by score (stable, so ties keep their order),
+// numbers them from 1, attaches the identifications and sets the Op of
+// their errors.
+func rank(out []FittedCandidate, ids []*ccf.Identification) {
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
+	for i := range out {
+		out[i].Rank = i + 1
+		out[i].Identification = ids
+		setOp("tf.Identify", &out[i].Err)
+		setOp("tf.Identify", &out[i].CheckErr)
+	}
 }
 
 // fillDefaults replaces the zero values of the settings Identify reads
