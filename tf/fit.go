@@ -840,36 +840,7 @@ func (w *fitWork) noiseSeries() {
 	ts := w.cond.NoiseStart
 	k := len(w.names)
 	for i := range w.ins {
-		fi := &w.ins[i]
-		fi.numC, fi.numD = fi.in.Num.Grad(w.idx, k)
-		fi.denC, fi.denD = fi.in.Den.Grad(w.idx, k)
-		b := fi.in.Delay
-		clear(fi.s[:min(b, n)])
-		switch {
-		case b >= n:
-			clear(fi.u)
-			if fi.denFree {
-				clear(fi.q)
-			}
-		case len(fi.denC) == 2 && fi.denC[0] == 1 && len(fi.numC) <= 3 && fi.denFree:
-			// The common first-order denominator: s, u and q in one pass,
-			// whose two recursions overlap in the pipeline.
-			runFirstOrder(fi.s, fi.u, fi.q, fi.zc, b, fi.denC[1], fi.numC)
-		default:
-			if isOne(fi.denC) {
-				copy(fi.s[b:], fi.zc[:n-b])
-			} else {
-				filter.Run(fi.s[b:], fitOne, fi.denC, fi.zc[:n-b])
-			}
-			fir(fi.u, fi.numC, fi.s, 0, false)
-			if fi.denFree {
-				filter.Run(fi.q, fitOne, fi.denC, fi.u)
-			}
-		}
-		fi.gain = 0
-		if fi.z0 != 0 {
-			fi.gain = sumCoeffs(fi.numC) / sumCoeffs(fi.denC)
-		}
+		w.ins[i].runFilters(w.idx, k, n)
 	}
 	c := 0.0
 	if w.m.Const != nil {
@@ -904,6 +875,43 @@ func (w *fitWork) noiseSeries() {
 				nn[t] -= u[t]
 			}
 		}
+	}
+}
+
+// runFilters computes, for the current values, the input's polynomial
+// coefficients and derivatives (k parameters, idx their index), s =
+// B^b zc / delta, u = omega s and, with a free denominator, q = u /
+// delta over the n samples, and the steady-state gain used with a
+// non-zero pre-sample level.
+func (fi *fitInput) runFilters(idx func(string) int, k, n int) {
+	fi.numC, fi.numD = fi.in.Num.Grad(idx, k)
+	fi.denC, fi.denD = fi.in.Den.Grad(idx, k)
+	b := fi.in.Delay
+	clear(fi.s[:min(b, n)])
+	switch {
+	case b >= n:
+		clear(fi.u)
+		if fi.denFree {
+			clear(fi.q)
+		}
+	case len(fi.denC) == 2 && fi.denC[0] == 1 && len(fi.numC) <= 3 && fi.denFree:
+		// The common first-order denominator: s, u and q in one pass,
+		// whose two recursions overlap in the pipeline.
+		runFirstOrder(fi.s, fi.u, fi.q, fi.zc, b, fi.denC[1], fi.numC)
+	default:
+		if isOne(fi.denC) {
+			copy(fi.s[b:], fi.zc[:n-b])
+		} else {
+			filter.Run(fi.s[b:], fitOne, fi.denC, fi.zc[:n-b])
+		}
+		fir(fi.u, fi.numC, fi.s, 0, false)
+		if fi.denFree {
+			filter.Run(fi.q, fitOne, fi.denC, fi.u)
+		}
+	}
+	fi.gain = 0
+	if fi.z0 != 0 {
+		fi.gain = sumCoeffs(fi.numC) / sumCoeffs(fi.denC)
 	}
 }
 
@@ -1253,21 +1261,7 @@ type fitBlock struct {
 func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 	k := len(w.names)
 	L := lm.NormalBlock
-	maOne := isOne(w.maC)
-	q := len(w.maC) - 1
-	if len(st.cols) != k || len(st.back) < k*L {
-		st.back = make([]float64, k*L)
-		st.brk = make([]float64, L)
-		st.cols = make([][]float64, k)
-		st.hist = make([][]float64, k)
-	}
-	for j := range st.hist {
-		if cap(st.hist[j]) < q {
-			st.hist[j] = make([]float64, q)
-		}
-		st.hist[j] = st.hist[j][:q]
-	}
-	blk := st.cols
+	st.size(k, L, len(w.maC)-1)
 	signed := false
 	for _, v := range w.views {
 		if v.sign == -1 {
@@ -1279,26 +1273,7 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 	}
 	for b := lo; b < hi; b += L {
 		e := min(b+L, hi)
-		for j := 0; j < k; j++ {
-			if v := w.views[j]; v.src != nil {
-				blk[j] = v.src[v.at+b : v.at+e]
-				continue
-			}
-			out := st.back[j*L : j*L+e-b]
-			dst := out
-			if !maOne {
-				dst = st.brk[:e-b]
-			}
-			var yh []float64
-			if !maOne && b > 0 {
-				yh = st.hist[j]
-			}
-			w.colRows(j, b, dst, out, yh)
-			if !maOne {
-				fitPushHist(st.hist[j], out)
-			}
-			blk[j] = out
-		}
+		blk := w.formBlock(st, b, e)
 		if !signed {
 			lm.AddBlock(acc, blk, r[b:e])
 			continue
@@ -1317,6 +1292,54 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 			row[k] += sj * trow[k]
 		}
 	}
+}
+
+// size makes the scratch hold k columns of blocks of L rows and a
+// moving-average history of q values per column.
+func (st *fitBlock) size(k, L, q int) {
+	if len(st.cols) != k || len(st.back) < k*L {
+		st.back = make([]float64, k*L)
+		st.brk = make([]float64, L)
+		st.cols = make([][]float64, k)
+		st.hist = make([][]float64, k)
+	}
+	for j := range st.hist {
+		if cap(st.hist[j]) < q {
+			st.hist[j] = make([]float64, q)
+		}
+		st.hist[j] = st.hist[j][:q]
+	}
+}
+
+// formBlock returns rows b..e-1 of every Jacobian column: a view into a
+// series already formed where there is one, else formed by colRows in
+// the scratch (the moving-average recursion carrying its history from
+// the block before).
+func (w *fitWork) formBlock(st *fitBlock, b, e int) [][]float64 {
+	L := lm.NormalBlock
+	maOne := isOne(w.maC)
+	blk := st.cols
+	for j := range blk {
+		if v := w.views[j]; v.src != nil {
+			blk[j] = v.src[v.at+b : v.at+e]
+			continue
+		}
+		out := st.back[j*L : j*L+e-b]
+		dst := out
+		if !maOne {
+			dst = st.brk[:e-b]
+		}
+		var yh []float64
+		if !maOne && b > 0 {
+			yh = st.hist[j]
+		}
+		w.colRows(j, b, dst, out, yh)
+		if !maOne {
+			fitPushHist(st.hist[j], out)
+		}
+		blk[j] = out
+	}
+	return blk
 }
 
 // sign is the sign of Jacobian column j's view (1 for a column without).
