@@ -478,21 +478,11 @@ func bindModel(m Model) (binding, error) {
 		}
 		b.coefs[k] = append(b.coefs[k], c)
 	}
-	var diffErr error
-	noFree := func(p Poly) {
-		p.Each(func(c *Coef) {
-			if c.Name != "" && c.Free && diffErr == nil {
-				diffErr = modelErr("differencing coefficient "+c.Name, "differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)")
-			}
-		})
-	}
-	noFree(b.m.Diff)
 	if b.m.Const != nil {
 		add(b.m.Const)
 	}
 	for i := range b.m.Inputs {
 		in := &b.m.Inputs[i]
-		noFree(in.Diff)
 		in.Num.Each(add)
 		in.Den.Each(add)
 	}
@@ -500,8 +490,8 @@ func bindModel(m Model) (binding, error) {
 		b.m.Noise.MA.Each(add)
 		b.m.Noise.AR.Each(add)
 	}
-	if diffErr != nil {
-		return binding{}, diffErr
+	if err := fixedDifferencing(b.m); err != nil {
+		return binding{}, err
 	}
 	for name := range held {
 		if _, ok := b.index[name]; ok {
@@ -512,6 +502,24 @@ func bindModel(m Model) (binding, error) {
 		return binding{}, modelErr("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
 	}
 	return b, nil
+}
+
+// fixedDifferencing refuses a free coefficient in the differencing of
+// the output (checked first) or of an input.
+func fixedDifferencing(m Model) error {
+	var err error
+	noFree := func(p Poly) {
+		p.Each(func(c *Coef) {
+			if c.Name != "" && c.Free && err == nil {
+				err = modelErr("differencing coefficient "+c.Name, "differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)")
+			}
+		})
+	}
+	noFree(m.Diff)
+	for _, in := range m.Inputs {
+		noFree(in.Diff)
+	}
+	return err
 }
 
 // checkFitData checks the data of a fit of m: the output and every

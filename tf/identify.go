@@ -199,6 +199,9 @@ func (c FittedCandidate) String() string {
 // prewhitening filter that leaves the input visibly coloured does not
 // stop the identification.
 func Identify(ctx context.Context, output string, inputs []string, data map[string][]float64, s *IdentifySettings) (cands []FittedCandidate, err error) {
+	// Over 60 lines as the one place where the stages read in order
+	// (checks, defaults, forms, noise orders, candidates, fits,
+	// refinement, ranking); each stage is a function of its own.
 	defer setOp("tf.Identify", &err)
 	defer func() {
 		if r := recover(); r != nil {

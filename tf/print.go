@@ -68,37 +68,42 @@ func (m Model) writeSpec(b *strings.Builder) {
 	}
 	if m.Noise != nil {
 		sep()
-		p, okAR := shorthandOrder(m.Noise.AR, "phi")
-		q, okMA := shorthandOrder(m.Noise.MA, "theta")
-		switch {
-		case m.Noise.IsWhite():
-		case okAR && okMA:
-			switch {
-			case q == 0:
-				b.WriteString("AR(" + strconv.Itoa(p) + ")")
-			case p == 0:
-				b.WriteString("MA(" + strconv.Itoa(q) + ")")
-			default:
-				b.WriteString("ARMA(" + strconv.Itoa(p) + ", " + strconv.Itoa(q) + ")")
-			}
-			m.writeWhere(b)
-			m.writeInterval(b)
-			return
-		case m.Noise.MA.IsOne():
-			b.WriteString("1 ")
-		default:
-			writePoly(b, m.Noise.MA)
-			b.WriteByte(' ')
-		}
-		for _, f := range m.Noise.AR.Factors {
-			b.WriteString("/ ")
-			writeFactor(b, f)
-			b.WriteByte(' ')
-		}
-		b.WriteByte('a')
+		m.writeNoise(b)
 	}
 	m.writeWhere(b)
 	m.writeInterval(b)
+}
+
+// writeNoise writes the noise term: white noise, the AR(p), MA(q) or
+// ARMA(p, q) shorthand when the polynomials are as it expands, else the
+// polynomials over a.
+func (m Model) writeNoise(b *strings.Builder) {
+	p, okAR := shorthandOrder(m.Noise.AR, "phi")
+	q, okMA := shorthandOrder(m.Noise.MA, "theta")
+	switch {
+	case m.Noise.IsWhite():
+	case okAR && okMA:
+		switch {
+		case q == 0:
+			b.WriteString("AR(" + strconv.Itoa(p) + ")")
+		case p == 0:
+			b.WriteString("MA(" + strconv.Itoa(q) + ")")
+		default:
+			b.WriteString("ARMA(" + strconv.Itoa(p) + ", " + strconv.Itoa(q) + ")")
+		}
+		return
+	case m.Noise.MA.IsOne():
+		b.WriteString("1 ")
+	default:
+		writePoly(b, m.Noise.MA)
+		b.WriteByte(' ')
+	}
+	for _, f := range m.Noise.AR.Factors {
+		b.WriteString("/ ")
+		writeFactor(b, f)
+		b.WriteByte(' ')
+	}
+	b.WriteByte('a')
 }
 
 // writeInterval writes the sample interval clause, when m has one.
