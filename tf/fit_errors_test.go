@@ -165,8 +165,7 @@ func TestFitNegativeDelay(t *testing.T) {
 
 // Negative or NaN settings are *SettingError values naming the field,
 // and a sample so large that its square overflows is a *SampleError
-// with its limit (a huge sample used to surface as "too few
-// observations").
+// with its limit (not an error about the number of observations).
 func TestFitBadSettingsAndMagnitude(t *testing.T) {
 	y, x := fitMCSim(fitRand(9), 80)
 	data := map[string][]float64{"y": y, "x": x}

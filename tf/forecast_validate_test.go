@@ -14,9 +14,9 @@ import (
 // the forecast mean is c + w0 sum_{k <= t-1} x_k and, the noise being
 // white, the standard error is sigma at every step; both are computed
 // here by direct summation and must agree to 1e-10 relative (summation
-// order only). Before, Forecast ignored the fit's conditioning and
-// returned +Inf means with a nil error; an estimate claiming the
-// held-input convention must now give a typed error naming the cause.
+// order only). Forecast follows the fit's conditioning: an estimate
+// claiming the held-input convention gets a typed error naming the
+// cause, never +Inf means with a nil error.
 func TestForecastIntegratingInput(t *testing.T) {
 	est, data := checkIntegratorFit(t)
 	x := data["x"]
