@@ -466,7 +466,7 @@ func estimateUsable(fn string, e *Estimate) error {
 // magnitude of x (rounding of the differencing) counts as constant.
 func constantAfterDiff(x, dc []float64) (float64, bool) {
 	if len(dc) == 0 {
-		dc = fitOne
+		dc = unitPoly
 	}
 	d := len(dc) - 1
 	if len(x) <= d {

@@ -250,16 +250,16 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 		return nil, err
 	}
 	if set.Settle && e.Converged {
-		e = fitSettle(ctx, e, data, set, w.n, w.ar.Degree())
+		e = settleRefit(ctx, e, data, set, w.n, w.ar.Degree())
 	}
-	return fitFinish(ctx, e)
+	return finishFit(ctx, e)
 }
 
-// fitSettle is FitSettings.Settle: it moves First past the start-up
+// settleRefit is FitSettings.Settle: it moves First past the start-up
 // transient of the estimated input poles and MA zeros and refits from
 // the estimates; it returns e when there is nothing to move or the
 // refit fails.
-func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set FitSettings, n, p int) *Estimate {
+func settleRefit(ctx context.Context, e *Estimate, data map[string][]float64, set FitSettings, n, p int) *Estimate {
 	k := settleSamples(e.Model)
 	first := min(e.Conditioning.NoiseStart+p+k, n/10)
 	if first <= e.Conditioning.First {
@@ -283,11 +283,11 @@ func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set 
 	return e2
 }
 
-// fitFinish refuses an estimate whose sum of squares is zero (sigma^2,
+// finishFit refuses an estimate whose sum of squares is zero (sigma^2,
 // the log-likelihood and the criteria would not exist), and returns the
 // best point of a fit whose context was done before it converged
 // together with an *InterruptedError wrapping the context's error.
-func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
+func finishFit(ctx context.Context, e *Estimate) (*Estimate, error) {
 	out := e.Model.Output
 	if !(e.SSQ > 0) || math.IsInf(e.LogLik, 0) || math.IsNaN(e.LogLik) {
 		return nil, modelErr("fit of output "+strconv.Quote(out), "the residual sum of squares is zero: the model reproduces the output exactly (a noise-free or constant output), "+
@@ -320,8 +320,8 @@ func settleSamples(m Model) int {
 	return int(math.Ceil(math.Log(0.01) / math.Log(z)))
 }
 
-// fitInput is the working state of one input term.
-type fitInput struct {
+// inputState is the working state of one input term.
+type inputState struct {
 	in         *Input    // into the working model clone
 	x          []float64 // the input as given (not modified)
 	zc         []float64 // z - z0 from index d on, 0 before
@@ -345,8 +345,8 @@ type fitInput struct {
 // (evaluation, Jacobian, solver) and fit_start.go (start values).
 type fitWork struct {
 	binding
-	fitData
-	fitBuffers
+	conditionedData
+	evalBuffers
 }
 
 // binding ties the parameter vector to the coefficients of a working
@@ -359,14 +359,14 @@ type binding struct {
 	index map[string]int // name -> k
 }
 
-// fitData is the data of one fit, its conditioning and the noise
+// conditionedData is the data of one fit, its conditioning and the noise
 // polynomials whose coefficients the evaluations read.
-type fitData struct {
+type conditionedData struct {
 	n    int
 	y    []float64 // the output as given (not modified)
 	cond Conditioning
 	w    []float64 // D(B) y, zero before the differencing degree
-	ins  []fitInput
+	ins  []inputState
 	// ar and ma are phi(B) and theta(B) of the working model (empty
 	// polynomials, that is 1, without a noise model).
 	ar, ma Poly
@@ -375,28 +375,28 @@ type fitData struct {
 	maFixedOne bool
 }
 
-// fitBuffers holds what the evaluations write: the noise polynomials'
+// evalBuffers holds what the evaluations write: the noise polynomials'
 // coefficients and derivatives at the current values, the series n_t
 // and a_t, and the scratch of the Jacobian products, all from one slab
 // recycled between fits.
-type fitBuffers struct {
+type evalBuffers struct {
 	arC     []float64
 	maC     []float64
 	arD     [][]float64
 	maD     [][]float64
 	nn, a   []float64
 	scratch []float64
-	kappa   []float64   // constant part of each Jacobian column
-	negMA   [][]float64 // -maD
-	acc1    []float64   // the second half's products (normalEval)
-	blk     [2]fitBlock // block scratch of normalEval, one per goroutine
-	views   []fitView   // columns multiplied in place (normalRows)
-	slab    *fitSlab
+	kappa   []float64       // constant part of each Jacobian column
+	negMA   [][]float64     // -maD
+	acc1    []float64       // the second half's products (normalEval)
+	blk     [2]blockScratch // block scratch of normalEval, one per goroutine
+	views   []columnView    // columns multiplied in place (normalRows)
+	slab    *workSlab
 	// panicErr is a panic recovered in a goroutine of normalEval.
 	panicErr error
 }
 
-var fitOne = []float64{1}
+var unitPoly = []float64{1}
 
 // idx returns the parameter index of a coefficient name, -1 for a name
 // that is not free.
@@ -580,7 +580,7 @@ func checkFitData(m Model, data map[string][]float64, set FitSettings) ([]float6
 func (w *fitWork) condition(set FitSettings, n int) error {
 	d := len(w.m.Diff.Coeffs()) - 1
 	ts := d
-	w.ins = make([]fitInput, len(w.m.Inputs))
+	w.ins = make([]inputState, len(w.m.Inputs))
 	for i := range w.m.Inputs {
 		in := &w.m.Inputs[i]
 		fi := &w.ins[i]
@@ -631,7 +631,7 @@ func (w *fitWork) tooFewResiduals(nres int) error {
 }
 
 // allocate takes every work series from one slab, recycled between fits
-// (see fitSlab), forms the differenced output and inputs with the
+// (see workSlab), forms the differenced output and inputs with the
 // pre-sample levels of the conditioning, and clears what the evaluations
 // rely on being zero. It refuses an input held at a non-zero first value
 // through a fixed integrator, and an input with free coefficients that
@@ -687,7 +687,7 @@ func (w *fitWork) allocate(y []float64, data map[string][]float64, set FitSettin
 // differencing degree on (0 before); it refuses an input that has no
 // steady state to hold at z0 or that never moves while its coefficients
 // are free.
-func (fi *fitInput) centre(zeroPre bool, n int) error {
+func (fi *inputState) centre(zeroPre bool, n int) error {
 	if !zeroPre && fi.d == 0 && n > 0 {
 		fi.z0 = fi.z[fi.d]
 	}
@@ -723,31 +723,31 @@ func isConstant(x []float64) bool {
 	return true
 }
 
-// fitSlab is the backing store of a fit's work series. Fit returns its
-// slab to fitSlabs when the Estimate no longer refers to it, so that
+// workSlab is the backing store of a fit's work series. Fit returns its
+// slab to slabPools when the Estimate no longer refers to it, so that
 // repeated fits (many series, many candidate models) reuse the memory
 // instead of allocating and clearing it again.
-type fitSlab struct{ buf []float64 }
+type workSlab struct{ buf []float64 }
 
-// fitSlabs holds recycled slabs by size class: class c holds slabs of
+// slabPools holds recycled slabs by size class: class c holds slabs of
 // capacity 1<<c.
-var fitSlabs [64]sync.Pool
+var slabPools [64]sync.Pool
 
 // getSlab returns a slab of m values (contents undefined).
-func getSlab(m int) *fitSlab {
+func getSlab(m int) *workSlab {
 	c := bits.Len(uint(max(m-1, 1)))
-	if s, ok := fitSlabs[c].Get().(*fitSlab); ok {
+	if s, ok := slabPools[c].Get().(*workSlab); ok {
 		s.buf = s.buf[:m]
 		return s
 	}
-	return &fitSlab{buf: make([]float64, m, 1<<c)}
+	return &workSlab{buf: make([]float64, m, 1<<c)}
 }
 
 // release returns the work series to the pool; w must not be used
 // afterwards.
 func (w *fitWork) release() {
 	if w.slab != nil {
-		fitSlabs[bits.Len(uint(cap(w.slab.buf)-1))].Put(w.slab)
+		slabPools[bits.Len(uint(cap(w.slab.buf)-1))].Put(w.slab)
 		w.slab = nil
 		w.w, w.nn, w.a = nil, nil, nil
 		for i := range w.ins {
@@ -839,7 +839,7 @@ func (w *binding) params() []float64 {
 	return x
 }
 
-var fitErrFilter = errors.New("tf: filter output not finite")
+var errFilter = errors.New("tf: filter output not finite")
 
 // noiseSeries computes u_i and n_t for the current values; it fills the
 // polynomial coefficients and derivatives.
@@ -891,7 +891,7 @@ func (w *fitWork) noiseSeries() {
 // B^b zc / delta, u = omega s and, with a free denominator, q = u /
 // delta over the n samples, and the steady-state gain used with a
 // non-zero pre-sample level.
-func (fi *fitInput) runFilters(idx func(string) int, k, n int) {
+func (fi *inputState) runFilters(idx func(string) int, k, n int) {
 	fi.numC, fi.numD = fi.in.Num.Grad(idx, k)
 	fi.denC, fi.denD = fi.in.Den.Grad(idx, k)
 	b := fi.in.Delay
@@ -910,11 +910,11 @@ func (fi *fitInput) runFilters(idx func(string) int, k, n int) {
 		if isOne(fi.denC) {
 			copy(fi.s[b:], fi.zc[:n-b])
 		} else {
-			filter.Run(fi.s[b:], fitOne, fi.denC, fi.zc[:n-b])
+			filter.Run(fi.s[b:], unitPoly, fi.denC, fi.zc[:n-b])
 		}
 		fir(fi.u, fi.numC, fi.s, 0, false)
 		if fi.denFree {
-			filter.Run(fi.q, fitOne, fi.denC, fi.u)
+			filter.Run(fi.q, unitPoly, fi.denC, fi.u)
 		}
 	}
 	fi.gain = 0
@@ -994,7 +994,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 		copy(r, w.a[t0:])
 	}
 	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return fitErrFilter
+		return errFilter
 	}
 	if jac == nil {
 		return nil
@@ -1046,9 +1046,9 @@ func (w *fitWork) jacPrep() {
 		if fi.denFree {
 			fir(fi.f, w.arC, fi.q, t0-ext, false)
 		}
-		fi.negNum = fitNegAll(fi.negNum, fi.numD)
+		fi.negNum = negateAll(fi.negNum, fi.numD)
 	}
-	w.negMA = fitNegAll(w.negMA, w.maD)
+	w.negMA = negateAll(w.negMA, w.maD)
 	phi1 := 0.0
 	for _, v := range w.arC {
 		phi1 += v
@@ -1083,9 +1083,9 @@ func (w *fitWork) jacPrep() {
 	w.prepViews()
 }
 
-// fitView describes a Jacobian column that is a shifted copy, times +1 or
+// columnView describes a Jacobian column that is a shifted copy, times +1 or
 // -1, of a series already formed: row i is sign * src[at+i].
-type fitView struct {
+type columnView struct {
 	src  []float64
 	at   int
 	sign float64
@@ -1100,26 +1100,26 @@ type fitView struct {
 func (w *fitWork) prepViews() {
 	k := len(w.names)
 	if cap(w.views) < k {
-		w.views = make([]fitView, k)
+		w.views = make([]columnView, k)
 	}
 	w.views = w.views[:k]
 	m := w.n - w.cond.First
 	maOne := isOne(w.maC)
 	for j := range w.views {
-		w.views[j] = fitView{}
+		w.views[j] = columnView{}
 		if !maOne || w.kappa[j] != 0 {
 			continue
 		}
-		var v fitView
+		var v columnView
 		count := 0
 		try := func(g, src []float64, at int) {
 			if g == nil {
 				return
 			}
 			count++
-			l, c, ok := fitSinglePower(g)
+			l, c, ok := singlePower(g)
 			if ok && (c == 1 || c == -1) && at-l >= 0 {
-				v = fitView{src: src, at: at - l, sign: c}
+				v = columnView{src: src, at: at - l, sign: c}
 			}
 		}
 		for i := range w.ins {
@@ -1137,9 +1137,9 @@ func (w *fitWork) prepViews() {
 	}
 }
 
-// fitSinglePower reports whether g has exactly one non-zero coefficient,
+// singlePower reports whether g has exactly one non-zero coefficient,
 // and its power and value.
-func fitSinglePower(g []float64) (int, float64, bool) {
+func singlePower(g []float64) (int, float64, bool) {
 	l, c, n := 0, 0.0, 0
 	for i, v := range g {
 		if v != 0 {
@@ -1194,7 +1194,7 @@ func (w *fitWork) colRows(k, r0 int, dst, out, yHist []float64) {
 		clear(dst)
 	}
 	if !isOne(w.maC) {
-		filter.RunInit(out, fitOne, w.maC, dst, nil, yHist)
+		filter.RunInit(out, unitPoly, w.maC, dst, nil, yHist)
 	}
 }
 
@@ -1252,9 +1252,9 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 	return nil
 }
 
-// fitBlock is the scratch of normalRows: one block of every column, the
+// blockScratch is the scratch of normalRows: one block of every column, the
 // moving-average bracket and each column's recursion history.
-type fitBlock struct {
+type blockScratch struct {
 	back []float64
 	cols [][]float64
 	brk  []float64
@@ -1266,7 +1266,7 @@ type fitBlock struct {
 // themselves and with r over rows lo..hi-1, block by block. With a
 // moving-average part the rows must come in order from row 0 through the
 // same st, which carries the recursion histories.
-func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
+func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *blockScratch) {
 	k := len(w.names)
 	L := lm.NormalBlock
 	st.size(k, L, len(w.maC)-1)
@@ -1304,7 +1304,7 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 
 // size makes the scratch hold k columns of blocks of L rows and a
 // moving-average history of q values per column.
-func (st *fitBlock) size(k, L, q int) {
+func (st *blockScratch) size(k, L, q int) {
 	if len(st.cols) != k || len(st.back) < k*L {
 		st.back = make([]float64, k*L)
 		st.brk = make([]float64, L)
@@ -1323,7 +1323,7 @@ func (st *fitBlock) size(k, L, q int) {
 // series already formed where there is one, else formed by colRows in
 // the scratch (the moving-average recursion carrying its history from
 // the block before).
-func (w *fitWork) formBlock(st *fitBlock, b, e int) [][]float64 {
+func (w *fitWork) formBlock(st *blockScratch, b, e int) [][]float64 {
 	L := lm.NormalBlock
 	maOne := isOne(w.maC)
 	blk := st.cols
@@ -1343,7 +1343,7 @@ func (w *fitWork) formBlock(st *fitBlock, b, e int) [][]float64 {
 		}
 		w.colRows(j, b, dst, out, yh)
 		if !maOne {
-			fitPushHist(st.hist[j], out)
+			pushHistory(st.hist[j], out)
 		}
 		blk[j] = out
 	}
@@ -1358,9 +1358,9 @@ func (w *fitWork) sign(j int) float64 {
 	return 1
 }
 
-// fitPushHist shifts the last outputs y into h (oldest first), keeping
+// pushHistory shifts the last outputs y into h (oldest first), keeping
 // len(h) values.
-func fitPushHist(h, y []float64) {
+func pushHistory(h, y []float64) {
 	q := len(h)
 	if len(y) >= q {
 		copy(h, y[len(y)-q:])
@@ -1379,9 +1379,9 @@ func (w *fitWork) scratchAcc(m int) []float64 {
 	return w.acc1
 }
 
-// fitNegAll returns the negated polynomials of g (nil stays nil), reusing
+// negateAll returns the negated polynomials of g (nil stays nil), reusing
 // dst's storage.
-func fitNegAll(dst, g [][]float64) [][]float64 {
+func negateAll(dst, g [][]float64) [][]float64 {
 	if cap(dst) < len(g) {
 		dst = make([][]float64, len(g))
 	}
@@ -1416,13 +1416,13 @@ func sumCoeffs(c []float64) float64 {
 }
 
 // Staging: a long series is first fitted on its last
-// max(fitStageWindow, fitStagePerParam k) samples (start values, screening and all starts), and the full series
+// max(stagedWindow, stagedPerParam k) samples (start values, screening and all starts), and the full series
 // is then refined from that estimate by a single Levenberg-Marquardt run,
 // which from so close a start takes a few iterations.
 const (
-	fitStageWindow   = 2500
-	fitStagePerParam = 400
-	fitStageMin      = 40000
+	stagedWindow   = 2500
+	stagedPerParam = 400
+	stagedMin      = 40000
 )
 
 // run performs the starts, the refinements and builds the Estimate.
@@ -1431,9 +1431,9 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 	if maxIter <= 0 {
 		maxIter = 200
 	}
-	if w.n-w.cond.First >= fitStageMin {
+	if w.n-w.cond.First >= stagedMin {
 		auto := w.cond.NoiseStart + w.ar.Degree()
-		sub := w.window(max(fitStageWindow, fitStagePerParam*len(w.names)) + auto)
+		sub := w.window(max(stagedWindow, stagedPerParam*len(w.names)) + auto)
 		if ws, err := prepareFit(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
 			best, start, tried, err := ws.search(ctx, set, maxIter)
 			ws.release()
@@ -1630,8 +1630,8 @@ func (e *Estimate) Param(name string) (Param, bool) {
 	return Param{}, false
 }
 
-// fitARMA is a convenience used by the start values: Hannan-Rissanen on
+// hannanRissanen is a convenience used by the start values: Hannan-Rissanen on
 // a window of n_t, NaN-free.
-func fitARMA(x []float64, p, q int) (phi, theta []float64, err error) {
+func hannanRissanen(x []float64, p, q int) (phi, theta []float64, err error) {
 	return arma.HannanRissanen(x, p, q, 0)
 }

@@ -125,9 +125,9 @@ func TestFitRun1(t *testing.T) {
 		s1, u1, q1 := make([]float64, n), make([]float64, n), make([]float64, n)
 		runFirstOrder(s1, u1, q1, zc, b, -0.8, c)
 		s2, u2, q2 := make([]float64, n), make([]float64, n), make([]float64, n)
-		filter.Run(s2[b:], fitOne, []float64{1, -0.8}, zc[:n-b])
+		filter.Run(s2[b:], unitPoly, []float64{1, -0.8}, zc[:n-b])
 		fir(u2, c, s2, 0, false)
-		filter.Run(q2, fitOne, []float64{1, -0.8}, u2)
+		filter.Run(q2, unitPoly, []float64{1, -0.8}, u2)
 		for i := 0; i < n; i++ {
 			if s1[i] != s2[i] || u1[i] != u2[i] || q1[i] != q2[i] {
 				t.Fatalf("omega %v, t=%d: fused (%v %v %v), general (%v %v %v)", c, i, s1[i], u1[i], q1[i], s2[i], u2[i], q2[i])

@@ -305,7 +305,7 @@ func (w *fitWork) startNoise() {
 	for i, v := range x {
 		xc[i] = v - mean
 	}
-	phi, theta, err := fitARMA(xc, w.ar.Degree(), w.ma.Degree())
+	phi, theta, err := hannanRissanen(xc, w.ar.Degree(), w.ma.Degree())
 	if err != nil {
 		return
 	}

@@ -368,7 +368,7 @@ func noiseErrorVariance(arC, maC, dc []float64, sigma2 float64, h int) ([]float6
 // contribution to what (the forecast of D(B) y) and, for a forecast
 // input, its forecast-error variance to vr. The warning is non-nil for a
 // plan outside the range of the record.
-func forecastInput(fi *fitInput, set ForecastSettings, n, h int, dc, vr, what []float64) (InputForecast, *ForecastWarning, error) {
+func forecastInput(fi *inputState, set ForecastSettings, n, h int, dc, vr, what []float64) (InputForecast, *ForecastWarning, error) {
 	in := fi.in
 	L := n + h
 	ifc := InputForecast{Series: in.Series}
@@ -403,7 +403,7 @@ func forecastInput(fi *fitInput, set ForecastSettings, n, h int, dc, vr, what []
 	}
 	se := make([]float64, L)
 	if in.Delay < L {
-		filter.Run(se[in.Delay:], fitOne, fi.denC, ze[:L-in.Delay])
+		filter.Run(se[in.Delay:], unitPoly, fi.denC, ze[:L-in.Delay])
 	}
 	ue := make([]float64, L)
 	fir(ue, fi.numC, se, 0, false)
@@ -417,7 +417,7 @@ func forecastInput(fi *fitInput, set ForecastSettings, n, h int, dc, vr, what []
 // set.InputModels, or an autoregression fitted to its differenced
 // values by Yule-Walker, with empty polynomials as 1 and copies of the
 // caller's coefficients.
-func inputModelFor(fi *fitInput, set ForecastSettings) (InputModel, error) {
+func inputModelFor(fi *inputState, set ForecastSettings) (InputModel, error) {
 	im, ok := set.InputModels[fi.in.Series]
 	if !ok {
 		yw, err := arma.YuleWalker(fi.z[fi.d:], 0)
@@ -440,7 +440,7 @@ func inputModelFor(fi *fitInput, set ForecastSettings) (InputModel, error) {
 // predictInput writes the forecast of input fi by im into xe[n:n+h]
 // (integrating its differencing) and adds its forecast errors, carried
 // through omega B^b MA/(delta AR D), to vr.
-func predictInput(fi *fitInput, im InputModel, xe []float64, n, h int, dc, vr []float64) error {
+func predictInput(fi *inputState, im InputModel, xe []float64, n, h int, dc, vr []float64) error {
 	in := fi.in
 	dx := in.Diff.Coeffs()
 	zf := forecastARMA(fi.z, fi.d, im, h)

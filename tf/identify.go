@@ -236,7 +236,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if err != nil {
 		return nil, err
 	}
-	fs := set.fitSettings()
+	fs := set.settingsOfFits()
 	pre := Model{Output: output, Diff: outDiff, Const: &Coef{Name: "c", Free: true}, Noise: &arma.Noise{}}
 	for i := range inputs {
 		pre.Inputs = append(pre.Inputs, forms[i][0]) // the best form of each input
@@ -252,7 +252,7 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 		total += 2 * (len(inputs) + 1)
 	}
 	prog := &identifyProgress{fn: set.Progress, total: total}
-	out := fitCandidates(ctx, models, data, fs, set, prog)
+	out := scoreCandidates(ctx, models, data, fs, set, prog)
 	if !set.NoRefine {
 		out = refineNeighbours(ctx, out, models, data, fs, set, prog)
 	}
@@ -266,9 +266,9 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	return out, nil
 }
 
-// fitSettings returns the settings of Identify's fits: set.Fit, with
+// settingsOfFits returns the settings of Identify's fits: set.Fit, with
 // extra series in the data allowed.
-func (set IdentifySettings) fitSettings() FitSettings {
+func (set IdentifySettings) settingsOfFits() FitSettings {
 	fs := FitSettings{IgnoreExtra: true}
 	if set.Fit != nil {
 		fs = *set.Fit
@@ -413,7 +413,7 @@ func inputForms(output string, inputs []string, data map[string][]float64, diffs
 // IdentifySettings name; a done context ends the search.
 func noiseOrders(ctx context.Context, pre Model, data map[string][]float64, fs FitSettings, set IdentifySettings) (noises []*arma.Noise, settleFirst int, err error) {
 	noises = []*arma.Noise{{}}
-	est, ferr := fitHook(ctx, pre, data, &fs)
+	est, ferr := identifyFit(ctx, pre, data, &fs)
 	if cerr := ctx.Err(); cerr != nil {
 		return nil, 0, cerr
 	}
@@ -516,7 +516,7 @@ func refineNeighbours(ctx context.Context, out []FittedCandidate, models []Model
 		planned += len(more)
 		prog.setTotal(planned)
 		before := b.Score
-		out = append(out, fitCandidates(ctx, more, data, fs, set, prog)...)
+		out = append(out, scoreCandidates(ctx, more, data, fs, set, prog)...)
 		if nb := bestCandidate(out); nb == nil || nb.Score >= before {
 			break
 		}
@@ -550,9 +550,9 @@ func (p *identifyProgress) tick() {
 	}
 }
 
-// fitCandidates fits and checks the models on at most set.Workers
+// scoreCandidates fits and checks the models on at most set.Workers
 // goroutines.
-func fitCandidates(ctx context.Context, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *identifyProgress) []FittedCandidate {
+func scoreCandidates(ctx context.Context, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *identifyProgress) []FittedCandidate {
 	crit := "BIC"
 	if set.ByAIC {
 		crit = "AIC"
@@ -577,18 +577,18 @@ func fitCandidates(ctx context.Context, models []Model, data map[string][]float6
 				}()
 				prog.tick()
 			}()
-			out[k] = fitCandidate(ctx, models[k], data, fs, set, crit)
+			out[k] = scoreCandidate(ctx, models[k], data, fs, set, crit)
 		}(k)
 	}
 	wg.Wait()
 	return out
 }
 
-// fitCandidate fits and checks one model and scores it by crit; it runs
-// on a goroutine of fitCandidates and recovers a panic into an
+// scoreCandidate fits and checks one model and scores it by crit; it runs
+// on a goroutine of scoreCandidates and recovers a panic into an
 // *InternalError naming the stage (the last line of defence: a panic
 // there would kill the caller's process).
-func fitCandidate(ctx context.Context, m Model, data map[string][]float64, fs FitSettings, set IdentifySettings, crit string) (c FittedCandidate) {
+func scoreCandidate(ctx context.Context, m Model, data map[string][]float64, fs FitSettings, set IdentifySettings, crit string) (c FittedCandidate) {
 	c = FittedCandidate{Structure: m, Criterion: crit, Score: math.Inf(1)}
 	stage := "fitting candidate " + c.Label()
 	defer func() {
@@ -601,7 +601,7 @@ func fitCandidate(ctx context.Context, m Model, data map[string][]float64, fs Fi
 		c.Err = err
 		return c
 	}
-	est, err := fitHook(ctx, m, data, &fs)
+	est, err := identifyFit(ctx, m, data, &fs)
 	if err != nil {
 		c.Err = err
 		return c
@@ -621,9 +621,9 @@ func fitCandidate(ctx context.Context, m Model, data map[string][]float64, fs Fi
 	return c
 }
 
-// fitHook is the fit Identify runs; tests replace it to reach the
-// recovery at the goroutine boundary of fitCandidates.
-var fitHook = Fit
+// identifyFit is the fit Identify runs; tests replace it to reach the
+// recovery at the goroutine boundary of scoreCandidates.
+var identifyFit = Fit
 
 // bestCandidate returns the candidate with the lowest score, nil if none fitted.
 func bestCandidate(cs []FittedCandidate) *FittedCandidate {
@@ -725,10 +725,10 @@ func jointWeights(output string, inputs []string, data map[string][]float64, out
 	return r.Weights, nil
 }
 
-// idfSpecName reports whether s can name a series in a model spec (the
+// isSpecName reports whether s can name a series in a model spec (the
 // models Identify returns print as specs): an ASCII letter or underscore,
 // then letters, digits or underscores, and not a word of the language.
-func idfSpecName(s string) bool {
+func isSpecName(s string) bool {
 	switch s {
 	case "", "B", "a", "AR", "MA", "ARMA", "where", "every":
 		return false
@@ -752,13 +752,13 @@ func validateIdentifyData(output string, inputs []string, data map[string][]floa
 	if !ok {
 		return seriesErr(output, errs.ErrName, 0, 0, "the output is not in the data; check the series names")
 	}
-	if !idfSpecName(output) {
+	if !isSpecName(output) {
 		return specNameErr(output, "output")
 	}
 	seen := map[string]bool{}
 	for _, name := range inputs {
 		switch {
-		case name != "" && !idfSpecName(name):
+		case name != "" && !isSpecName(name):
 			return specNameErr(name, "input")
 		case name == "":
 			return seriesErr(name, errs.ErrName, 0, 0, "an entry of the inputs is empty; name each input series")
@@ -781,25 +781,25 @@ func validateIdentifyData(output string, inputs []string, data map[string][]floa
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return &errs.SampleError{Series: name, Index: t, Value: v}
 			}
-			if math.Abs(v) > idfMaxMagnitude {
-				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: idfMaxMagnitude}
+			if math.Abs(v) > identifyMaxMagnitude {
+				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: identifyMaxMagnitude}
 			}
 		}
-		if lo, hi := valueRange(x); hi > lo && hi-lo < idfMinSpread {
+		if lo, hi := valueRange(x); hi > lo && hi-lo < identifyMinSpread {
 			return seriesErr(name, errs.ErrConstant, 0, 0, "it varies by only "+fmtF(hi-lo)+", less than 1e-140: the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)")
 		}
 	}
 	return nil
 }
 
-// idfMaxMagnitude and idfMinSpread bound the samples Identify accepts:
+// identifyMaxMagnitude and identifyMinSpread bound the samples Identify accepts:
 // the ARMA fits of the prewhitening refuse magnitudes above 1e140, and
 // the correlations need squared deviations above the float64 underflow
 // (about 1e-308 for a square, so deviations above about 1e-140 leave
 // room for the sums).
 const (
-	idfMaxMagnitude = 1e140
-	idfMinSpread    = 1e-140
+	identifyMaxMagnitude = 1e140
+	identifyMinSpread    = 1e-140
 )
 
 // formCombos returns index combinations (one form per input) ordered by

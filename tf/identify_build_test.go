@@ -55,8 +55,8 @@ func TestIdfBuild(t *testing.T) {
 	if n := noiseOfOrder(0, 0); n.AR.Degree() != 0 || n.MA.Degree() != 0 {
 		t.Errorf("white noise: %+v", n)
 	}
-	if got := idfCoefName("valve", true, "theta", 2); got != "valve_theta2" {
-		t.Errorf("idfCoefName = %q", got)
+	if got := coefName("valve", true, "theta", 2); got != "valve_theta2" {
+		t.Errorf("coefName = %q", got)
 	}
 }
 

@@ -179,9 +179,9 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 
 // idfStub replaces the fit Identify runs for one test.
 func idfStub(t *testing.T, f func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error)) {
-	old := fitHook
-	fitHook = f
-	t.Cleanup(func() { fitHook = old })
+	old := identifyFit
+	identifyFit = f
+	t.Cleanup(func() { identifyFit = old })
 }
 
 // TestIdentifyRecoversPanics makes every candidate fit with a
@@ -221,7 +221,7 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	}
 	// A panic in the caller's Progress callback, called from Identify's
 	// goroutines, is caught there too.
-	fitHook = Fit
+	identifyFit = Fit
 	calls := 0
 	var mu sync.Mutex
 	cands, err = Identify(context.Background(), "y", []string{"x"}, idfTrapData(), &IdentifySettings{Workers: 1, NoRefine: true,
