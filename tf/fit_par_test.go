@@ -19,18 +19,18 @@ import (
 // block), short and long series; the finite-difference test checks the
 // stored columns themselves. Run it with -race to check the sharing.
 func TestFitNormalBlocked(t *testing.T) {
-	ma := fitBenchModel()
-	ma.Noise.MA = fitOneMinus("t1", 1)
+	ma := benchModel()
+	ma.Noise.MA = oneMinus("t1", 1)
 	cases := []struct {
 		name string
 		m    Model
 		data map[string][]float64
 		x    []float64
 	}{
-		{"AR(2) long", fitBenchModel(), fitBenchData(lm.NormalSplit+1000, 3), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
-		{"AR(2) short", fitBenchModel(), fitBenchData(3000, 4), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
-		{"ARMA(2,1) long", ma, fitBenchData(lm.NormalSplit+777, 5), nil},
-		{"two inputs, MA factors", fitJacModel(), fitJacData(2000), nil},
+		{"AR(2) long", benchModel(), benchData(lm.NormalSplit+1000, 3), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"AR(2) short", benchModel(), benchData(3000, 4), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"ARMA(2,1) long", ma, benchData(lm.NormalSplit+777, 5), nil},
+		{"two inputs, MA factors", jacModel(), jacData(2000), nil},
 	}
 	for _, c := range cases {
 		for _, procs := range []int{1, 2} {
@@ -57,7 +57,7 @@ func TestFitNormalBlocked(t *testing.T) {
 			if err := w.eval(x, r, jac); err != nil {
 				t.Fatal(err)
 			}
-			want := fitStoredProducts(jac, r)
+			want := storedProducts(jac, r)
 			r2 := make([]float64, m)
 			got := make([]float64, k*(k+1))
 			if err := w.normalEval(x, r2, got); err != nil {
@@ -79,13 +79,13 @@ func TestFitNormalBlocked(t *testing.T) {
 			runtime.GOMAXPROCS(old)
 		}
 	}
-	if _, err := Fit(context.Background(), fitBenchModel(), fitBenchData(lm.NormalSplit+1000, 3), nil); err != nil {
+	if _, err := Fit(context.Background(), benchModel(), benchData(lm.NormalSplit+1000, 3), nil); err != nil {
 		t.Fatal(err)
 	}
 }
 
-// fitStoredProducts multiplies stored columns out as lm does.
-func fitStoredProducts(jac [][]float64, r []float64) []float64 {
+// storedProducts multiplies stored columns out as lm does.
+func storedProducts(jac [][]float64, r []float64) []float64 {
 	k, m := len(jac), len(r)
 	rows := func(acc []float64, lo, hi int) {
 		blk := make([][]float64, k)
@@ -115,7 +115,7 @@ func fitStoredProducts(jac [][]float64, r []float64) []float64 {
 // TestFitRun1 checks the fused first-order kernel against the general
 // path (recursive filter, moving average, recursive filter) bit for bit.
 func TestFitRun1(t *testing.T) {
-	rng := fitRand(71)
+	rng := newRand(71)
 	n, b := 1000, 3
 	zc := make([]float64, n)
 	for i := range zc {

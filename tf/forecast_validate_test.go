@@ -57,7 +57,7 @@ func TestForecastIntegratingInput(t *testing.T) {
 // at z = 1.5 (explosive), while AR 1 - B (a unit root, integration) is
 // accepted.
 func TestForecastInputModelErrors(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, C: 0, Sigma2: 1}
 	with := func(f func(*InputModel)) map[string]InputModel {
 		m := ok
@@ -136,7 +136,7 @@ func TestForecastInputModelErrors(t *testing.T) {
 // ErrOverflow naming
 // the step, never NaN or infinite numbers with a nil error.
 func TestForecastOverflow(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	bad := *est
 	bad.Model = est.Model.Clone()
 	bad.Model.Inputs[0].Den.Factors[0].Terms[1].Coef.Value = 1.5
@@ -154,7 +154,7 @@ func TestForecastOverflow(t *testing.T) {
 // from an unsound estimate (a 20-row fit of 5 coefficients) carries the
 // estimate's faults as a warning.
 func TestForecastPlanOutsideRecord(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	lo, hi := valueRange(data["x"])
 	plan := []float64{lo, hi + 1, (lo + hi) / 2}
 	fc, err := est.Forecast(data, 3, &ForecastSettings{Future: map[string][]float64{"x": plan}})
@@ -179,9 +179,9 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	if err != nil || len(fc.Warnings) != 0 {
 		t.Errorf("plan inside the record (a value beyond h is not used): %v, %+v", err, fc.Warnings)
 	}
-	y, x := fitMCSim(fitRand(4), 20)
+	y, x := mcSim(newRand(4), 20)
 	small := map[string][]float64{"y": y, "x": x}
-	e20, err := Fit(t.Context(), fitMCModel(), small, nil)
+	e20, err := Fit(t.Context(), mcModel(), small, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -66,7 +66,7 @@ func TestIdfBuild(t *testing.T) {
 // unrelated to the output (seeded), so no lag passes the dead-time rule.
 func TestIdfInnerOp(t *testing.T) {
 	const n = 400
-	rng := fitRand(9)
+	rng := newRand(9)
 	x, y := make([]float64, n), make([]float64, n)
 	for i := range x {
 		x[i] = rng.NormFloat64()
