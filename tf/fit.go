@@ -342,7 +342,9 @@ type inputState struct {
 // fields come in three parts: the model binding (which coefficients the
 // parameter vector sets), the data with its conditioning, and the work
 // series and buffers the evaluations write. The methods live in fit.go
-// (evaluation, Jacobian, solver) and fit_start.go (start values).
+// (preparation, evaluation, Jacobian, solver), fit_start.go (start
+// values) and forecast.go (the noise forecast, addNoiseForecast); Check,
+// Forecast and Identify reach the work through prepareFit.
 type fitWork struct {
 	binding
 	conditionedData
