@@ -24,8 +24,8 @@ type FOPDT struct {
 // that is not positive and finite, a DeadTime that is negative or not
 // finite) and for t = NaN.
 func (p FOPDT) StepAt(t float64) float64 {
-	if ratCheckFinite("Gain", p.Gain) != nil || ratCheckPositive("TimeConstant", p.TimeConstant) != nil ||
-		!ratStepArgsOK(p.DeadTime, t) {
+	if checkFinite("Gain", p.Gain) != nil || checkPositive("TimeConstant", p.TimeConstant) != nil ||
+		!stepArgsOK(p.DeadTime, t) {
 		return math.NaN()
 	}
 	if !(t > p.DeadTime) {
@@ -57,19 +57,19 @@ func (p FOPDT) Discretize(T float64) (Rational, error) {
 }
 
 func (p FOPDT) discretize(T float64) (Rational, error) {
-	if err := ratCheckFinite("Gain", p.Gain); err != nil {
+	if err := checkFinite("Gain", p.Gain); err != nil {
 		return Rational{}, err
 	}
-	if err := ratCheckPositive("TimeConstant", p.TimeConstant); err != nil {
+	if err := checkPositive("TimeConstant", p.TimeConstant); err != nil {
 		return Rational{}, err
 	}
-	d, f, err := ratSplitDelay(p.DeadTime, T)
+	d, f, err := splitDelay(p.DeadTime, T)
 	if err != nil {
 		return Rational{}, err
 	}
 	tau := p.TimeConstant
 	a := math.Exp(-T / tau)
-	if err := ratCheckPole("TimeConstant", tau, a); err != nil {
+	if err := checkPole("TimeConstant", tau, a); err != nil {
 		return Rational{}, err
 	}
 	h := (1 - f) * T // time from the delayed input's switch to the next sample
@@ -104,7 +104,7 @@ func (r Rational) AsFOPDT(T float64) (FOPDT, error) {
 }
 
 func (r Rational) asFOPDT(T float64) (FOPDT, error) {
-	if err := ratCheckPositive("interval", T); err != nil {
+	if err := checkPositive("interval", T); err != nil {
 		return FOPDT{}, err
 	}
 	num, den := r.coefs()
@@ -114,14 +114,14 @@ func (r Rational) asFOPDT(T float64) (FOPDT, error) {
 		b++
 	}
 	if len(den) != 2 {
-		return FOPDT{}, &ModelError{Part: "term denominator degree", Problem: "is " + ratFormat(float64(len(den)-1)) + ": must be 1 for a first-order term"}
+		return FOPDT{}, &ModelError{Part: "term denominator degree", Problem: "is " + formatNum(float64(len(den)-1)) + ": must be 1 for a first-order term"}
 	}
 	if len(num) > 2 {
-		return FOPDT{}, &ModelError{Part: "term numerator degree", Problem: "is " + ratFormat(float64(len(num)-1)) + ": must be 0 or 1 for a first-order term"}
+		return FOPDT{}, &ModelError{Part: "term numerator degree", Problem: "is " + formatNum(float64(len(num)-1)) + ": must be 0 or 1 for a first-order term"}
 	}
 	a := -den[1]
 	if !(a > 0 && a < 1) {
-		return FOPDT{}, &ModelError{Part: "term pole", Problem: "is " + ratFormat(a) + ": must lie in (0, 1) for a first-order lag"}
+		return FOPDT{}, &ModelError{Part: "term pole", Problem: "is " + formatNum(a) + ": must lie in (0, 1) for a first-order lag"}
 	}
 	b1 := num[0]
 	b2 := 0.0
@@ -132,14 +132,14 @@ func (r Rational) asFOPDT(T float64) (FOPDT, error) {
 		return FOPDT{}, &ModelError{Part: "term gain", Problem: "is 0: must be non-zero"}
 	}
 	if b < 1 {
-		return FOPDT{}, &ModelError{Part: "term dead time", Problem: "is " + ratFormat(float64(b)) + ": must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
+		return FOPDT{}, &ModelError{Part: "term dead time", Problem: "is " + formatNum(float64(b)) + ": must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
 	}
 	tau := -T / math.Log(a)
 	// Fraction of the first response step: b1/(b1+b2) = (1 - e^{-(1-f)T/tau})/(1 - a).
 	frac := b1 / (b1 + b2)
 	const slack = 1e-9
 	if frac < -slack || frac > 1+slack {
-		return FOPDT{}, &ModelError{Part: "term numerator split b1/(b1+b2)", Problem: "is " + ratFormat(frac) + ": must lie in [0, 1] for a fractional dead time"}
+		return FOPDT{}, &ModelError{Part: "term numerator split b1/(b1+b2)", Problem: "is " + formatNum(frac) + ": must lie in [0, 1] for a fractional dead time"}
 	}
 	frac = min(max(frac, 0), 1)
 	f := 0.0
@@ -180,8 +180,8 @@ type SecondOrder struct {
 	DeadTime         float64
 }
 
-// ratSecond is a second-order lag in one of three closed forms.
-type ratSecond struct {
+// secondOrderLag is a second-order lag in one of three closed forms.
+type secondOrderLag struct {
 	kind     int // 0 distinct real, 1 double real, 2 oscillatory
 	k, theta float64
 	t1, t2   float64 // time constants (kind 0, 1)
@@ -189,17 +189,17 @@ type ratSecond struct {
 	zr       float64 // zeta / sqrt(1 - zeta^2)
 }
 
-func (p SOPDT) second() (ratSecond, error) {
-	if err := ratCheckFinite("Gain", p.Gain); err != nil {
-		return ratSecond{}, err
+func (p SOPDT) second() (secondOrderLag, error) {
+	if err := checkFinite("Gain", p.Gain); err != nil {
+		return secondOrderLag{}, err
 	}
-	if err := ratCheckPositive("Tau1", p.Tau1); err != nil {
-		return ratSecond{}, err
+	if err := checkPositive("Tau1", p.Tau1); err != nil {
+		return secondOrderLag{}, err
 	}
-	if err := ratCheckPositive("Tau2", p.Tau2); err != nil {
-		return ratSecond{}, err
+	if err := checkPositive("Tau2", p.Tau2); err != nil {
+		return secondOrderLag{}, err
 	}
-	s := ratSecond{k: p.Gain, theta: p.DeadTime, t1: p.Tau1, t2: p.Tau2}
+	s := secondOrderLag{k: p.Gain, theta: p.DeadTime, t1: p.Tau1, t2: p.Tau2}
 	if math.Abs(p.Tau1-p.Tau2) <= 1e-6*max(p.Tau1, p.Tau2) {
 		s.kind = 1
 		s.t1 = math.Sqrt(p.Tau1 * p.Tau2)
@@ -208,16 +208,16 @@ func (p SOPDT) second() (ratSecond, error) {
 	return s, nil
 }
 
-func (p SecondOrder) second() (ratSecond, error) {
-	if err := ratCheckFinite("Gain", p.Gain); err != nil {
-		return ratSecond{}, err
+func (p SecondOrder) second() (secondOrderLag, error) {
+	if err := checkFinite("Gain", p.Gain); err != nil {
+		return secondOrderLag{}, err
 	}
-	if err := ratCheckPositive("NaturalFrequency", p.NaturalFrequency); err != nil {
-		return ratSecond{}, err
+	if err := checkPositive("NaturalFrequency", p.NaturalFrequency); err != nil {
+		return secondOrderLag{}, err
 	}
 	z, wn := p.Damping, p.NaturalFrequency
 	if !(z >= 0) || math.IsInf(z, 0) {
-		return ratSecond{}, setting("", "Damping", z, "must be finite and >= 0")
+		return secondOrderLag{}, setting("", "Damping", z, "must be finite and >= 0")
 	}
 	if z >= 1 {
 		// Real time constants 1/(wn (zeta -+ sqrt(zeta^2 - 1))), the second
@@ -227,11 +227,11 @@ func (p SecondOrder) second() (ratSecond, error) {
 		return SOPDT{Gain: p.Gain, Tau1: t1, Tau2: 1 / (wn * wn * t1), DeadTime: p.DeadTime}.second()
 	}
 	q := math.Sqrt(1 - z*z)
-	return ratSecond{kind: 2, k: p.Gain, theta: p.DeadTime, zw: z * wn, wd: wn * q, zr: z / q}, nil
+	return secondOrderLag{kind: 2, k: p.Gain, theta: p.DeadTime, zw: z * wn, wd: wn * q, zr: z / q}, nil
 }
 
 // step returns the unit step response at t (step at 0).
-func (s ratSecond) step(t float64) float64 {
+func (s secondOrderLag) step(t float64) float64 {
 	u := t - s.theta
 	if !(u > 0) {
 		return 0
@@ -250,8 +250,8 @@ func (s ratSecond) step(t float64) float64 {
 // sampled poles, numerator from the sampled step response Y_k = y(kT) by
 // G(B) = (1 - B) Y(B), that is omega = delta (1 - B) Y truncated to the
 // three terms a second-order lag with fractional dead time has.
-func (s ratSecond) discretize(T float64) (Rational, error) {
-	d, f, err := ratSplitDelay(s.theta, T)
+func (s secondOrderLag) discretize(T float64) (Rational, error) {
+	d, f, err := splitDelay(s.theta, T)
 	if err != nil {
 		return Rational{}, err
 	}
@@ -260,10 +260,10 @@ func (s ratSecond) discretize(T float64) (Rational, error) {
 	switch s.kind {
 	case 0, 1:
 		a1, a2 := math.Exp(-T/s.t1), math.Exp(-T/s.t2)
-		if err := ratCheckPole("time constant", s.t1, a1); err != nil {
+		if err := checkPole("time constant", s.t1, a1); err != nil {
 			return Rational{}, err
 		}
-		if err := ratCheckPole("time constant", s.t2, a2); err != nil {
+		if err := checkPole("time constant", s.t2, a2); err != nil {
 			return Rational{}, err
 		}
 		den[1], den[2] = -(a1 + a2), a1*a2
@@ -299,7 +299,7 @@ func (s ratSecond) discretize(T float64) (Rational, error) {
 // is negative or not finite) and for t = NaN, as FOPDT.StepAt does.
 func (p SOPDT) StepAt(t float64) float64 {
 	s, err := p.second()
-	if err != nil || !ratStepArgsOK(p.DeadTime, t) {
+	if err != nil || !stepArgsOK(p.DeadTime, t) {
 		return math.NaN()
 	}
 	return s.step(t)
@@ -344,7 +344,7 @@ func (p SOPDT) discretize(T float64) (Rational, error) {
 // t = NaN, as FOPDT.StepAt does.
 func (p SecondOrder) StepAt(t float64) float64 {
 	s, err := p.second()
-	if err != nil || !ratStepArgsOK(p.DeadTime, t) {
+	if err != nil || !stepArgsOK(p.DeadTime, t) {
 		return math.NaN()
 	}
 	return s.step(t)
@@ -368,16 +368,16 @@ func (p SecondOrder) discretize(T float64) (Rational, error) {
 	return s.discretize(T)
 }
 
-// ratStepArgsOK reports whether a dead time theta (finite, >= 0, as
+// stepArgsOK reports whether a dead time theta (finite, >= 0, as
 // Discretize requires) and a time t (not NaN) give a step response value.
-func ratStepArgsOK(theta, t float64) bool {
+func stepArgsOK(theta, t float64) bool {
 	return theta >= 0 && !math.IsInf(theta, 0) && !math.IsNaN(t)
 }
 
-// ratSplitDelay splits theta = (d + f) T, rounding f within 1e-12 of 0
+// splitDelay splits theta = (d + f) T, rounding f within 1e-12 of 0
 // or 1 to the whole sample.
-func ratSplitDelay(theta, T float64) (d int, f float64, err error) {
-	if err := ratCheckPositive("interval", T); err != nil {
+func splitDelay(theta, T float64) (d int, f float64, err error) {
+	if err := checkPositive("interval", T); err != nil {
 		return 0, 0, err
 	}
 	if !(theta >= 0) || math.IsInf(theta, 0) {
@@ -400,24 +400,24 @@ func ratSplitDelay(theta, T float64) (d int, f float64, err error) {
 	return d, f, nil
 }
 
-// ratCheckPole rejects a time constant tau so long against the sample
+// checkPole rejects a time constant tau so long against the sample
 // interval that its sampled pole a = e^{-T/tau} rounds to 1: the term
 // would come out as an integrator with the gain lost.
-func ratCheckPole(name string, tau, a float64) error {
+func checkPole(name string, tau, a float64) error {
 	if a == 1 {
 		return setting("", name, tau, "must be under 2^53 sample intervals (the sampled pole e^{-T/tau} rounds to 1)")
 	}
 	return nil
 }
 
-func ratCheckFinite(name string, v float64) error {
+func checkFinite(name string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return setting("", name, v, "must be finite")
 	}
 	return nil
 }
 
-func ratCheckPositive(name string, v float64) error {
+func checkPositive(name string, v float64) error {
 	if !(v > 0) || math.IsInf(v, 0) {
 		return setting("", name, v, "must be positive and finite")
 	}
@@ -454,7 +454,7 @@ func (r Rational) AsSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 }
 
 func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err error) {
-	if err := ratCheckPositive("interval", T); err != nil {
+	if err := checkPositive("interval", T); err != nil {
 		return SecondOrder{}, 0, err
 	}
 	num, den := r.coefs()
@@ -464,40 +464,21 @@ func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 		b++
 	}
 	if len(den) != 3 {
-		return SecondOrder{}, 0, &ModelError{Part: "term denominator degree", Problem: "is " + ratFormat(float64(len(den)-1)) + ": must be 2 for a second-order term"}
+		return SecondOrder{}, 0, &ModelError{Part: "term denominator degree", Problem: "is " + formatNum(float64(len(den)-1)) + ": must be 2 for a second-order term"}
 	}
 	if len(num) > 3 {
-		return SecondOrder{}, 0, &ModelError{Part: "term numerator degree", Problem: "is " + ratFormat(float64(len(num)-1)) + ": must be at most 2 for a second-order term"}
+		return SecondOrder{}, 0, &ModelError{Part: "term numerator degree", Problem: "is " + formatNum(float64(len(num)-1)) + ": must be at most 2 for a second-order term"}
 	}
 	if b < 1 {
-		return SecondOrder{}, 0, &ModelError{Part: "term dead time", Problem: "is " + ratFormat(float64(b)) + ": must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
+		return SecondOrder{}, 0, &ModelError{Part: "term dead time", Problem: "is " + formatNum(float64(b)) + ": must be >= 1 sample for a zero-order-hold image (the hold adds one)"}
 	}
 	poles := r.Poles()
 	if len(poles) != 2 {
 		return SecondOrder{}, 0, &ModelError{Part: "term poles", Problem: "has " + strconv.Itoa(len(poles)) + ": a second-order term needs two"}
 	}
-	z1, z2 := poles[0], poles[1]
-	var wn, zeta float64
-	if imag(z1) == 0 {
-		a1, a2 := real(z1), real(z2)
-		if !(a1 > 0 && a1 < 1 && a2 > 0 && a2 < 1) {
-			return SecondOrder{}, 0, &ModelError{Part: "term pole", Problem: "is " + ratFormat(math.Min(a1, a2)) + ": real poles must lie in (0, 1)"}
-		}
-		t1, t2 := -T/math.Log(a1), -T/math.Log(a2)
-		wn = 1 / math.Sqrt(t1*t2)
-		zeta = (t1 + t2) / (2 * math.Sqrt(t1*t2))
-	} else {
-		m := math.Hypot(real(z1), imag(z1))
-		if !(m < 1) {
-			return SecondOrder{}, 0, &ModelError{Part: "term pole magnitude", Problem: "is " + ratFormat(m) + ": must be below 1"}
-		}
-		// s = ln(z)/T = (ln|z| + i arg z)/T.
-		re, im := math.Log(m)/T, math.Abs(math.Atan2(imag(z1), real(z1)))/T
-		wn = math.Hypot(re, im)
-		zeta = -re / wn
-		if !(im*T < math.Pi) {
-			return SecondOrder{}, 0, setting("", "interval", T, "must be below half the damped period")
-		}
+	wn, zeta, err := secondOrderFromPoles(poles[0], poles[1], T)
+	if err != nil {
+		return SecondOrder{}, 0, err
 	}
 	k, err := r.gain()
 	if err != nil {
@@ -518,9 +499,52 @@ func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 	top := s.step(T)
 	const slack = 1e-9
 	if w0 < -slack*top || w0 > top*(1+slack) {
-		return SecondOrder{}, 0, &ModelError{Part: "term first numerator coefficient / gain", Problem: "is " + ratFormat(w0) +
-			": must lie in [0, " + ratFormat(top) + "] (the unit step response after one interval) for a fractional dead time"}
+		return SecondOrder{}, 0, &ModelError{Part: "term first numerator coefficient / gain", Problem: "is " + formatNum(w0) +
+			": must lie in [0, " + formatNum(top) + "] (the unit step response after one interval) for a fractional dead time"}
 	}
+	f := fractionOfInterval(s, w0, T)
+	p = SecondOrder{Gain: k, NaturalFrequency: wn, Damping: zeta, DeadTime: (float64(b-1) + f) * T}
+	img, err := p.Discretize(T)
+	if err != nil {
+		return SecondOrder{}, 0, err
+	}
+	return p, numeratorMismatch(img, b, num), nil
+}
+
+// secondOrderFromPoles returns the natural frequency and damping of the
+// continuous second-order system whose zero-order-hold image at interval
+// T has the poles z1 and z2 (real in (0, 1), or a complex pair inside
+// the unit circle below half the damped period).
+func secondOrderFromPoles(z1, z2 complex128, T float64) (wn, zeta float64, err error) {
+	if imag(z1) == 0 {
+		a1, a2 := real(z1), real(z2)
+		if !(a1 > 0 && a1 < 1 && a2 > 0 && a2 < 1) {
+			return 0, 0, &ModelError{Part: "term pole", Problem: "is " + formatNum(math.Min(a1, a2)) + ": real poles must lie in (0, 1)"}
+		}
+		t1, t2 := -T/math.Log(a1), -T/math.Log(a2)
+		wn = 1 / math.Sqrt(t1*t2)
+		zeta = (t1 + t2) / (2 * math.Sqrt(t1*t2))
+	} else {
+		m := math.Hypot(real(z1), imag(z1))
+		if !(m < 1) {
+			return 0, 0, &ModelError{Part: "term pole magnitude", Problem: "is " + formatNum(m) + ": must be below 1"}
+		}
+		// s = ln(z)/T = (ln|z| + i arg z)/T.
+		re, im := math.Log(m)/T, math.Abs(math.Atan2(imag(z1), real(z1)))/T
+		wn = math.Hypot(re, im)
+		zeta = -re / wn
+		if !(im*T < math.Pi) {
+			return 0, 0, setting("", "interval", T, "must be below half the damped period")
+		}
+	}
+	return wn, zeta, nil
+}
+
+// fractionOfInterval returns the fraction f in [0, 1] of an interval T
+// by which the unit step response s, delayed by f T, equals w0 after one
+// interval (bisection: step((1-f)T) decreases from its value at T to 0),
+// 0 below 1e-12.
+func fractionOfInterval(s secondOrderLag, w0, T float64) float64 {
 	// Bisection on f in [0, 1]: step((1-f)T) decreases from top to 0.
 	lo, hi := 0.0, 1.0
 	for it := 0; it < 200 && hi-lo > 1e-15; it++ {
@@ -533,13 +557,15 @@ func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 	}
 	f := 0.5 * (lo + hi)
 	if f < 1e-12 {
-		f = 0
+		return 0
 	}
-	p = SecondOrder{Gain: k, NaturalFrequency: wn, Damping: zeta, DeadTime: (float64(b-1) + f) * T}
-	img, err := p.Discretize(T)
-	if err != nil {
-		return SecondOrder{}, 0, err
-	}
+	return f
+}
+
+// numeratorMismatch returns the relative distance between the
+// numerator of img and num (with dead time b), aligned on the same total
+// delay.
+func numeratorMismatch(img Rational, b int, num []float64) float64 {
 	// Compare numerators aligned on the same total delay.
 	got := make([]float64, 4)
 	want := make([]float64, 4)
@@ -555,5 +581,5 @@ func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 		d += (got[i] - want[i]) * (got[i] - want[i])
 		nw += want[i] * want[i]
 	}
-	return p, math.Sqrt(d / nw), nil
+	return math.Sqrt(d / nw)
 }

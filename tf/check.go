@@ -165,94 +165,125 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	if set.Alpha == 0 {
 		set.Alpha = 0.05
 	}
-	if err := chkEstimateUsable("Check", e); err != nil {
+	if err := estimateUsable("Check", e); err != nil {
 		return nil, err
 	}
-	resid, first, err := chkResiduals("Check", e, data)
+	resid, first, err := residualsOf("Check", e, data)
 	if err != nil {
 		return nil, err
 	}
 	a := resid[first:]
-	nres := len(a)
 	noisePar := 0
 	if e.Model.Noise != nil {
-		noisePar = len(chkFreeNames(e.Model.Noise.MA, e.Model.Noise.AR))
+		noisePar = len(freeNames(e.Model.Noise.MA, e.Model.Noise.AR))
 	}
-	lags := set.Lags
-	if lags == 0 {
-		lags = max(min(24, nres/4), noisePar+1)
-		lags = min(lags, nres-1)
-	} else if lags >= nres {
-		return nil, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
-			"must be below the number of residuals ("+strconv.Itoa(nres)+"); 0 means min(24, N/4)")
-	}
-	if lags < noisePar+1 {
-		if set.Lags > 0 {
-			return nil, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
-				"must exceed the number of free noise coefficients ("+strconv.Itoa(noisePar)+") so that the Ljung-Box test has a degree of freedom")
-		}
-		return nil, seriesErr(e.Model.Output, errs.ErrShort, nres, noisePar+2,
-			"counting residuals: the Ljung-Box check needs more residuals than free noise coefficients + 1")
+	lags, err := checkLags(set, len(a), noisePar, e.Model.Output)
+	if err != nil {
+		return nil, err
 	}
 	d := &Diagnostics{Alpha: set.Alpha, Pass: true}
-	acf, err := arma.ACF(a, lags)
-	if err != nil {
-		return nil, &StageError{Stage: "residual autocorrelations", Err: err}
+	if d.Residual, err = whitenessCheck(a, lags, noisePar, set.Alpha); err != nil {
+		return nil, err
 	}
-	lb, err := arma.LjungBox(a, lags, noisePar)
-	if err != nil {
-		return nil, &StageError{Stage: "Ljung-Box test of the residuals", Err: err}
-	}
-	d.Residual = ResidualCheck{ACF: append([]float64(nil), acf.R[1:]...), Band: 1.96 / math.Sqrt(float64(nres)),
-		Q: lb.Q, Lags: lags, DF: lb.DF, P: lb.P, Pass: lb.P >= set.Alpha}
 	kx := set.CrossLags
 	if kx <= 0 {
 		kx = lags
 	}
 	for _, in := range e.Model.Inputs {
-		x := data[in.Series]
-		if v, ok := chkConstant(x, in.Diff.Coeffs()); ok {
-			return nil, constantErr(in.Series, "input", v, chkDiffText(in.Diff.Coeffs()))
-		}
-		stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
-		f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
+		cc, err := crossCheck(in, data[in.Series], resid, first, kx, set.Alpha)
 		if err != nil {
-			return nil, &StageError{Stage: stage, Err: err}
+			return nil, err
 		}
-		alpha, start, err := f.Apply(x, in.Series)
-		if err != nil {
-			return nil, &StageError{Stage: stage, Err: err}
-		}
-		t0 := max(start, first)
-		m := len(x) - t0
-		k := min(kx, m-2)
-		c, err := ccf.Cross(alpha[t0:], resid[t0:], k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
-		if err != nil {
-			return nil, &StageError{Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
-		}
-		cc := CrossCheck{Input: in.Series, Prewhiten: f, M: c.N, Lags: k, Band: 1.96 / math.Sqrt(float64(c.N))}
-		cc.CCF = make([]float64, k+1)
-		for j := 0; j <= k; j++ {
-			cc.CCF[j] = c.At(j)
-			cc.S += cc.CCF[j] * cc.CCF[j]
-		}
-		cc.S *= float64(c.N)
-		cc.DF = max(k+1-len(chkFreeNames(in.Num, in.Den)), 1)
-		cc.P = distuv.ChiSquared{K: float64(cc.DF)}.Survival(cc.S)
-		cc.Pass = cc.P >= set.Alpha
 		d.Cross = append(d.Cross, cc)
 	}
 	d.Failures = e.Soundness()
 	if !d.Residual.Pass {
-		d.Failures = append(d.Failures, fmt.Sprintf("the residuals are autocorrelated (Ljung-Box p = %s below %s)", fitNum(d.Residual.P, 3), fitNum(set.Alpha, 3)))
+		d.Failures = append(d.Failures, fmt.Sprintf("the residuals are autocorrelated (Ljung-Box p = %s below %s)", formatSig(d.Residual.P, 3), formatSig(set.Alpha, 3)))
 	}
 	for _, cc := range d.Cross {
 		if !cc.Pass {
-			d.Failures = append(d.Failures, fmt.Sprintf("the residuals correlate with input %q (p = %s below %s)", cc.Input, fitNum(cc.P, 3), fitNum(set.Alpha, 3)))
+			d.Failures = append(d.Failures, fmt.Sprintf("the residuals correlate with input %q (p = %s below %s)", cc.Input, formatSig(cc.P, 3), formatSig(set.Alpha, 3)))
 		}
 	}
 	d.Pass = len(d.Failures) == 0
 	return d, nil
+}
+
+// checkLags returns the number of autocorrelation lags of the Ljung-Box
+// check of nres residuals (set.Lags, or min(24, nres/4) but more than
+// the noisePar free noise coefficients and below nres), refusing a
+// setting out of range and too few residuals.
+func checkLags(set CheckSettings, nres, noisePar int, output string) (int, error) {
+	lags := set.Lags
+	if lags == 0 {
+		lags = max(min(24, nres/4), noisePar+1)
+		lags = min(lags, nres-1)
+	} else if lags >= nres {
+		return 0, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+			"must be below the number of residuals ("+strconv.Itoa(nres)+"); 0 means min(24, N/4)")
+	}
+	if lags < noisePar+1 {
+		if set.Lags > 0 {
+			return 0, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+				"must exceed the number of free noise coefficients ("+strconv.Itoa(noisePar)+") so that the Ljung-Box test has a degree of freedom")
+		}
+		return 0, seriesErr(output, errs.ErrShort, nres, noisePar+2,
+			"counting residuals: the Ljung-Box check needs more residuals than free noise coefficients + 1")
+	}
+	return lags, nil
+}
+
+// whitenessCheck returns the autocorrelations of the residuals a and
+// their Ljung-Box test over lags lags with noisePar fitted noise
+// coefficients, passing at level alpha.
+func whitenessCheck(a []float64, lags, noisePar int, alpha float64) (ResidualCheck, error) {
+	acf, err := arma.ACF(a, lags)
+	if err != nil {
+		return ResidualCheck{}, &StageError{Stage: "residual autocorrelations", Err: err}
+	}
+	lb, err := arma.LjungBox(a, lags, noisePar)
+	if err != nil {
+		return ResidualCheck{}, &StageError{Stage: "Ljung-Box test of the residuals", Err: err}
+	}
+	return ResidualCheck{ACF: append([]float64(nil), acf.R[1:]...), Band: 1.96 / math.Sqrt(float64(len(a))),
+		Q: lb.Q, Lags: lags, DF: lb.DF, P: lb.P, Pass: lb.P >= alpha}, nil
+}
+
+// crossCheck prewhitens input x of term in, cross-correlates it with the
+// residuals from index first on at lags 0..kx (fewer for a short
+// record), and tests the sum of squares against chi-square with one
+// degree of freedom per lag less the term's free coefficients.
+func crossCheck(in Input, x, resid []float64, first, kx int, alpha float64) (CrossCheck, error) {
+	if v, ok := constantAfterDiff(x, in.Diff.Coeffs()); ok {
+		return CrossCheck{}, constantErr(in.Series, "input", v, diffText(in.Diff.Coeffs()))
+	}
+	stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
+	f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
+	if err != nil {
+		return CrossCheck{}, &StageError{Stage: stage, Err: err}
+	}
+	alphaX, start, err := f.Apply(x, in.Series)
+	if err != nil {
+		return CrossCheck{}, &StageError{Stage: stage, Err: err}
+	}
+	t0 := max(start, first)
+	m := len(x) - t0
+	k := min(kx, m-2)
+	c, err := ccf.Cross(alphaX[t0:], resid[t0:], k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
+	if err != nil {
+		return CrossCheck{}, &StageError{Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
+	}
+	cc := CrossCheck{Input: in.Series, Prewhiten: f, M: c.N, Lags: k, Band: 1.96 / math.Sqrt(float64(c.N))}
+	cc.CCF = make([]float64, k+1)
+	for j := 0; j <= k; j++ {
+		cc.CCF[j] = c.At(j)
+		cc.S += cc.CCF[j] * cc.CCF[j]
+	}
+	cc.S *= float64(c.N)
+	cc.DF = max(k+1-len(freeNames(in.Num, in.Den)), 1)
+	cc.P = distuv.ChiSquared{K: float64(cc.DF)}.Survival(cc.S)
+	cc.Pass = cc.P >= alpha
+	return cc, nil
 }
 
 // Validate checks the settings by the library's settings rule (zero
@@ -319,9 +350,9 @@ func (e *Estimate) Soundness() []string {
 		out = append(out, "no standard error for "+strings.Join(bad, ", ")+" (the coefficients are not determined by the data)")
 	}
 	if !(e.Sigma2 >= 0) || math.IsInf(e.Sigma2, 0) {
-		out = append(out, "the noise variance is "+fitNum(e.Sigma2, 4)+", not a finite number")
+		out = append(out, "the noise variance is "+formatSig(e.Sigma2, 4)+", not a finite number")
 	}
-	out = append(out, chkRootFailures(e.Model)...)
+	out = append(out, rootFailures(e.Model)...)
 	k := len(e.Params)
 	need := max(CheckMinResiduals, CheckMinResidualsPerCoef*k)
 	few := k > 0 && e.N < need
@@ -344,10 +375,10 @@ func (e *Estimate) Soundness() []string {
 	return out
 }
 
-// chkRootFailures checks every factor of the estimated input
+// rootFailures checks every factor of the estimated input
 // denominators and noise polynomials that holds a free coefficient for a
 // root with |z| >= CheckBoundaryZ.
-func chkRootFailures(m Model) []string {
+func rootFailures(m Model) []string {
 	var out []string
 	check := func(p Poly, what, root, why string) {
 		for _, f := range p.Factors {
@@ -400,9 +431,9 @@ func chkRootFailures(m Model) []string {
 	return out
 }
 
-// chkEstimateUsable reports a nil estimate or a coefficient of its model
+// estimateUsable reports a nil estimate or a coefficient of its model
 // that is not finite.
-func chkEstimateUsable(fn string, e *Estimate) error {
+func estimateUsable(fn string, e *Estimate) error {
 	if e == nil {
 		return estimateErr("", 0, "the estimate is nil; pass the *Estimate that Fit returned")
 	}
@@ -430,18 +461,18 @@ func chkEstimateUsable(fn string, e *Estimate) error {
 	return err
 }
 
-// chkConstant reports whether x differenced by dc (from index deg dc on)
+// constantAfterDiff reports whether x differenced by dc (from index deg dc on)
 // is constant, and its value: a spread within 1e-12 of the largest
 // magnitude of x (rounding of the differencing) counts as constant.
-func chkConstant(x, dc []float64) (float64, bool) {
+func constantAfterDiff(x, dc []float64) (float64, bool) {
 	if len(dc) == 0 {
-		dc = fitOne
+		dc = unitPoly
 	}
 	d := len(dc) - 1
 	if len(x) <= d {
 		return 0, false
 	}
-	z := fitDiff(x, dc)[d:]
+	z := applyDiff(x, dc)[d:]
 	scale := 0.0
 	for _, v := range x {
 		scale = math.Max(scale, math.Abs(v))
@@ -460,16 +491,16 @@ func chkConstant(x, dc []float64) (float64, bool) {
 	return v, true
 }
 
-// chkDiffText writes a differencing operator for messages, "" for none.
-func chkDiffText(dc []float64) string {
+// diffText writes a differencing operator for messages, "" for none.
+func diffText(dc []float64) string {
 	if len(dc) <= 1 {
 		return ""
 	}
 	return FormatPoly(sym.FromCoeffs(dc))
 }
 
-// chkFreeNames returns the distinct free parameter names of the polys.
-func chkFreeNames(ps ...Poly) []string {
+// freeNames returns the distinct free parameter names of the polys.
+func freeNames(ps ...Poly) []string {
 	seen := map[string]bool{}
 	var out []string
 	for _, p := range ps {
@@ -483,15 +514,15 @@ func chkFreeNames(ps ...Poly) []string {
 	return out
 }
 
-// chkResiduals returns the residuals of e's model on data (aligned to
+// residualsOf returns the residuals of e's model on data (aligned to
 // the data index, zero before first) and the first residual index,
 // with e's conditioning; residuals that are not finite are a
 // *SeriesError of kind ErrOverflow.
-func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64, int, error) {
+func residualsOf(fn string, e *Estimate, data map[string][]float64) ([]float64, int, error) {
 	if err := condCheck(e, data); err != nil {
 		return nil, 0, err
 	}
-	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := prepareFit(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, 0, err
 	}
@@ -500,18 +531,18 @@ func chkResiduals(fn string, e *Estimate, data map[string][]float64) ([]float64,
 	w.resid()
 	for t := w.cond.First; t < w.n; t++ {
 		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, 0, overflowErr("residuals", t, v, chkDivergeHint(e))
+			return nil, 0, overflowErr("residuals", t, v, divergeHint(e))
 		}
 	}
 	return w.a, w.cond.First, nil
 }
 
-// chkDivergeHint names the likely cause of residuals or forecasts that
+// divergeHint names the likely cause of residuals or forecasts that
 // overflow.
-func chkDivergeHint(e *Estimate) string {
+func divergeHint(e *Estimate) string {
 	if !e.Conditioning.ZeroPreSample {
 		for _, in := range e.Model.Inputs {
-			if in.Diff.IsOne() && math.Abs(fitSum(in.Den.Coeffs())) < 1e-12 {
+			if in.Diff.IsOne() && math.Abs(sumCoeffs(in.Den.Coeffs())) < 1e-12 {
 				return fmt.Sprintf("input %q has an integrating term (a pole at z = 1) and is taken as held at its first value before the record, a level it would integrate forever; fit with FitSettings.ZeroPreSample, or difference the input", in.Series)
 			}
 		}

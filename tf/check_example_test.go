@@ -11,10 +11,10 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// fitLoadBJsales reads testdata/bjsales/bjsales.csv (exported from R's
+// loadBJsales reads testdata/bjsales/bjsales.csv (exported from R's
 // datasets package, BJsales and BJsales.lead) into columns by header
 // name: "sales" and "lead". The first column, the time index, is skipped.
-func fitLoadBJsales() (map[string][]float64, error) {
+func loadBJsales() (map[string][]float64, error) {
 	f, err := os.Open("../testdata/bjsales/bjsales.csv")
 	if err != nil {
 		return nil, err
@@ -45,7 +45,7 @@ func fitLoadBJsales() (map[string][]float64, error) {
 // the residuals are white and uncorrelated with the prewhitened leading
 // indicator.
 func ExampleCheck() {
-	data, err := fitLoadBJsales()
+	data, err := loadBJsales()
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -15,7 +15,7 @@ import (
 // adequate there, so both the residual Ljung-Box test and the
 // residual-input cross-correlation test pass at the 5 % level.
 func TestCheckBJsales(t *testing.T) {
-	est, data := fitRefNamed(t, "bjsales").fit(t)
+	est, data := refNamed(t, "bjsales").fit(t)
 	d, err := Check(est, data, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -40,17 +40,17 @@ func TestCheckBJsales(t *testing.T) {
 func TestCheckDetectsMisfit(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 12))
 	n := 1000
-	x := fitSimAR1(rng, n, 0.5)
+	x := simAR1(rng, n, 0.5)
 	u := make([]float64, n)
 	filter.Run(u[3:], []float64{2}, []float64{1, -0.5}, x[:n-3])
-	e := fitSimAR1(rng, n, 0.7)
+	e := simAR1(rng, n, 0.7)
 	y := make([]float64, n)
 	for i := range y {
 		y[i] = u[i] + 0.5*e[i]
 	}
 	data := map[string][]float64{"y": y, "x": x}
-	good := Model{Output: "y", Inputs: []Input{{Series: "x", Num: fitP(fitFac(fitTerm(false, "w0", 0, 0))), Den: fitOneMinus("d1", 1), Delay: 3}},
-		Noise: &arma.Noise{AR: fitOneMinus("p1", 1)}}
+	good := Model{Output: "y", Inputs: []Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 3}},
+		Noise: &arma.Noise{AR: oneMinus("p1", 1)}}
 	white := good.Clone()
 	white.Noise = &arma.Noise{}
 	wrongB := good.Clone()
@@ -85,7 +85,7 @@ func TestCheckDetectsMisfit(t *testing.T) {
 // choice). The estimates agree to ~1e-7, so the statistics agree to 1e-5
 // relative.
 func TestCheckAgainstScipy(t *testing.T) {
-	for _, c := range fitReadRef(t) {
+	for _, c := range readRef(t) {
 		t.Run(c.Name, func(t *testing.T) {
 			est, data := c.fit(t)
 			d, err := Check(est, data, nil)

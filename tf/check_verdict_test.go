@@ -15,7 +15,7 @@ import (
 // transfer function (w0 - w1 B)/(1 - d1 B) B^3 with AR(1) noise and a
 // constant, 5 free coefficients.
 func checkTwentyRowModel() Model {
-	return fitMCModel()
+	return mcModel()
 }
 
 // TestCheckVerdictTwentyRows fits a (1,1) transfer function with AR(1)
@@ -32,7 +32,7 @@ func checkTwentyRowModel() Model {
 func TestCheckVerdictTwentyRows(t *testing.T) {
 	notConv, noSE := 0, 0
 	for seed := uint64(1); seed <= 30; seed++ {
-		y, x := fitMCSim(fitRand(seed), 20)
+		y, x := mcSim(newRand(seed), 20)
 		data := map[string][]float64{"y": y, "x": x}
 		est, err := Fit(context.Background(), checkTwentyRowModel(), data, nil)
 		if err != nil {
@@ -64,10 +64,10 @@ func TestCheckVerdictTwentyRows(t *testing.T) {
 				break
 			}
 		}
-		if fitMaxZ(est.Model.Noise.AR.Coeffs()) >= CheckBoundaryZ && !strings.Contains(all, "the estimated noise AR (p1) has a root at |z|") {
+		if maxZ(est.Model.Noise.AR.Coeffs()) >= CheckBoundaryZ && !strings.Contains(all, "the estimated noise AR (p1) has a root at |z|") {
 			t.Errorf("seed %d: noise AR root on the unit circle not listed:\n%s", seed, all)
 		}
-		if fitMaxZ(est.Model.Inputs[0].Den.Coeffs()) >= CheckBoundaryZ && !strings.Contains(all, `input "x": the estimated denominator (d1) has a pole at |z|`) {
+		if maxZ(est.Model.Inputs[0].Den.Coeffs()) >= CheckBoundaryZ && !strings.Contains(all, `input "x": the estimated denominator (d1) has a pole at |z|`) {
 			t.Errorf("seed %d: input pole on the unit circle not listed:\n%s", seed, all)
 		}
 		ds, es := d.String(), est.String()
@@ -81,7 +81,7 @@ func TestCheckVerdictTwentyRows(t *testing.T) {
 	t.Logf("of 30 fits: %d not converged, %d with a missing standard error", notConv, noSE)
 }
 
-// TestCheckVerdictRoots sets the estimates of a sound fit (fitMCModel on
+// TestCheckVerdictRoots sets the estimates of a sound fit (mcModel on
 // 300 samples of its own simulation) on and beyond the unit circle, one
 // polynomial at a time, and checks that Soundness and the verdict list
 // the root from the polynomial itself (the fit's warnings are cleared
@@ -90,7 +90,7 @@ func TestCheckVerdictTwentyRows(t *testing.T) {
 // and 1.2, a noise AR p1 = 1.05; and an MA factor (1 - t1 B) with t1 =
 // 1.5 (a zero at z = 1.5) on a model with MA noise.
 func TestCheckVerdictRoots(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	if bad := est.Soundness(); len(bad) != 0 {
 		t.Fatalf("the reference fit is not sound: %v", bad)
 	}
@@ -132,7 +132,7 @@ func TestCheckVerdictRoots(t *testing.T) {
 		}
 	}
 	ma := est.Model.Clone()
-	ma.Noise = &arma.Noise{MA: fitOneMinus("t1", 1)}
+	ma.Noise = &arma.Noise{MA: oneMinus("t1", 1)}
 	ma.Noise.MA.Factors[0].Terms[1].Coef.Value = 1.5
 	e := &Estimate{Model: ma, Converged: true, N: 1000, Sigma2: 1, Params: []Param{{Name: "t1", Value: 1.5, SE: 0.1}}}
 	if got := strings.Join(e.Soundness(), "\n"); !strings.Contains(got, "the estimated noise MA (t1) has a zero at |z| = 1.5, outside the unit circle: the noise is not invertible") {
@@ -226,7 +226,7 @@ func checkIntegratorRefused(err error) bool {
 // model with the integrator written as fixed numbers, ZeroPreSample.
 func checkIntegratorFit(t *testing.T) (*Estimate, map[string][]float64) {
 	t.Helper()
-	rng := fitRand(7)
+	rng := newRand(7)
 	n := 200
 	x := make([]float64, n)
 	y := make([]float64, n)
@@ -248,8 +248,8 @@ func checkIntegratorFit(t *testing.T) (*Estimate, map[string][]float64) {
 
 func checkIntegratorModel() Model {
 	return Model{Output: "y", Const: &Coef{Name: "c", Free: true},
-		Inputs: []Input{{Series: "x", Num: fitP(fitFac(fitTerm(false, "w0", 0, 0))),
-			Den: fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "", 1, 1))), Delay: 1}},
+		Inputs: []Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))),
+			Den: mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 1, 1))), Delay: 1}},
 		Noise: &arma.Noise{}}
 }
 
@@ -262,9 +262,9 @@ func checkIntegratorModel() Model {
 // convention gives residuals whose lag-1 autocorrelation differs by more
 // than 0.05, so the comparison can fail.
 func TestCheckZeroPreSampleACF(t *testing.T) {
-	rng := fitRand(21)
+	rng := newRand(21)
 	n := 300
-	x := fitSimAR1(rng, n, 0.8)
+	x := simAR1(rng, n, 0.8)
 	for i := range x {
 		x[i] = 50 + 5*x[i]
 	}
@@ -279,7 +279,7 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 		y[i] = u[i] + 0.3*rng.NormFloat64()
 	}
 	data := map[string][]float64{"y": y, "x": x}
-	m := Model{Output: "y", Inputs: []Input{{Series: "x", Num: fitP(fitFac(fitTerm(false, "w0", 0, 0))), Den: fitOneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
+	m := Model{Output: "y", Inputs: []Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
 	est, err := Fit(context.Background(), m, data, &FitSettings{ZeroPreSample: true})
 	if err != nil {
 		t.Fatal(err)
@@ -313,7 +313,7 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 // input is a typed error naming the user's series; the reports of a nil
 // estimate, nil checks and a candidate without estimate do not panic.
 func TestCheckSettingsTable(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	for _, tc := range []struct {
 		s    CheckSettings
 		arg  string

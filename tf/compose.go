@@ -91,14 +91,14 @@ func (g Rational) CloseLoop(h Rational) (Rational, error) {
 	if lb == 0 {
 		scale += math.Abs(gn[0] * hn[0])
 	}
-	if d0 := den[0]; !math.IsNaN(d0) && !math.IsInf(d0, 0) && (d0 == 0 || math.Abs(d0) <= 8*ratEps*scale) {
+	if d0 := den[0]; !math.IsNaN(d0) && !math.IsInf(d0, 0) && (d0 == 0 || math.Abs(d0) <= 8*machineEps*scale) {
 		return Rational{}, &CoefError{Op: op, Poly: "den", Index: 0, Value: den[0], Err: ErrZeroConstant}
 	}
 	r, err := newRational(poly.Mul(gn, hd), den, g.delay)
 	return r, composeErr(op, err)
 }
 
-func ratFormat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+func formatNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // Cancel returns r with the pole-zero pairs that lie within tol of each
 // other (|p - z| <= tol max(1, |p|)) removed, as after composing a

@@ -45,7 +45,8 @@ type FitSettings struct {
 	// that by orders of magnitude.
 	Tol float64
 	// ZeroPreSample takes inputs without differencing as zero before
-	// their first sample instead of held at it (see Fit), the textbook
+	// their first sample instead of held at it (see Conditioning in the
+	// package doc), the textbook
 	// convention for inputs that vary about zero.
 	ZeroPreSample bool
 	// Settle, after a converged fit, moves the first residual index to
@@ -100,7 +101,8 @@ func (s FitSettings) validate() error {
 }
 
 // Conditioning states the start-up convention of the conditional least
-// squares fit, with indices into the data (0 = oldest sample). See Fit.
+// squares fit, with indices into the data (0 = oldest sample); the
+// package doc sets the convention out under Conditioning.
 type Conditioning struct {
 	// OutputDiff is the degree of the output differencing D(B): w_t =
 	// D(B) y_t exists from this index on.
@@ -186,102 +188,15 @@ func (e *Estimate) Corr() [][]float64 { return est.Corr(e.Cov) }
 // (index 0 oldest), all of one length n, with an entry for m.Output and
 // for every input's Series. m and data are not modified.
 //
-// # Residuals and conditioning
-//
-// With w_t = D(B) y_t and z_i,t = D_i(B) x_i,t the differenced series,
-//
-//	u_i,t = omega_i(B)/delta_i(B) B^b_i z_i,t
-//	n_t   = w_t - c - sum_i u_i,t
-//	a_t   = phi(B)/theta(B) n_t.
-//
-// The input filters run from index 0. An input without differencing is
-// taken as held at its first value x_i,0 before the record, with u_i at
-// its steady state omega_i(1)/delta_i(1) x_i,0 (the process settled at
-// the input's first level, so that an input far from zero gives no
-// start-up transient): u_i = omega_i/delta_i B^b_i (x_i - x_i,0) from
-// rest plus omega_i(1)/delta_i(1) x_i,0. A differenced input z_i (which
-// varies about zero) is taken as zero before index d_i, the degree of
-// D_i, with u_i zero before the start (zero pre-sample values after
-// differencing). Model.Simulate makes records of exactly this kind by
-// default, so that simulating and then fitting with the defaults agree.
-// FitSettings.ZeroPreSample takes every input as zero before its record
-// (the records of Model.Simulate with SimSettings.FromRest, for inputs
-// without differencing). A record that starts away from that assumption
-// shows a start-up transient, which the StartupTransient warning reports
-// and FitSettings.Settle leaves out. n_t is used from NoiseStart = max(d,
-// max_i(d_i + b_i + s_i)), where d is the degree of D and s_i that of
-// omega_i, so that every numerator sees only real data. The noise
-// recursion theta(B) a_t = phi(B) n_t starts at First = NoiseStart + p
-// with a_t = 0 for t < First and the actual n_{t-1..t-p}. The sum of
-// squares is sum_{t=First}^{n-1} a_t^2 over N = n - First residuals.
-//
-// # Jacobian
-//
-// Each derivative of a_t is itself a filtered series. Writing g_k(B) for
-// the derivative of a polynomial's expanded coefficients with respect to
-// parameter k (through products and powers of factors by the product
-// rule, sym.Poly.Grad):
-//
-//	omega_i:  d n_t = -g_k(B)/delta_i(B) B^b_i z_i,t          (numerator)
-//	delta_i:  d n_t = +g_k(B)/delta_i(B) u_i,t                (d(1/delta) = -g/delta^2)
-//	c:        d n_t = -1
-//	then      d a_t = phi(B)/theta(B) d n_t
-//	phi:      d a_t = +g_k(B)/theta(B) n_t
-//	theta:    d a_t = -g_k(B)/theta(B) a_t                    (from theta a = phi n)
-//
-// with the same conditioning (derivatives zero before First, the
-// moving-average recursion started at First), z_i and u_i standing for
-// their parts filtered from rest; an input held at x_i,0 adds the
-// constants -g_k(1)/delta_i(1) x_i,0 (numerator) and +omega_i(1) g_k(1)/
-// delta_i(1)^2 x_i,0 (denominator) to d n_t. The sums of contributions
-// give each Jacobian column; all are computed with the recursive filter
-// kernel and moving-average loops without allocation per sample, and a
-// numerator or AR column whose g_k is a single power of B is a shifted
-// copy of a series formed once per evaluation. The Jacobian is never
-// stored: the solver needs only J'J and J'r, and each block of 256 rows
-// of every column is formed in cache and multiplied there (the
-// moving-average recursion carrying its state from block to block).
-//
-// # Start values and starts
-//
-// A polynomial whose free coefficients all have Value 0 gets computed
-// start values; one with any non-zero free Value is started from the
-// values as written (the spec's start values). Computed starts: the
-// impulse-response weights of each input by least squares of w_t on
-// c and z_i,t-b_i-k, k = 0..s_i+3r_i+2 (over at most the last 20000
-// samples), turned into delta_i from the weights beyond lag s_i and into
-// omega_i = delta_i v_i (truncated) (Box, Jenkins & Reinsel, chapter on
-// transfer-function identification); the noise by Hannan-Rissanen on the
-// implied n_t. A polynomial with several factors or powers is matched to
-// the target coefficients by least squares. Further candidates (noise at
-// zero, denominators scaled by 0.5 and 1.5 when stable) are screened by
-// their sum of squares and the best FitSettings.Starts refined; the
-// lowest sum of squares wins. A long series (N >= 40000) goes through
-// all of this on its last max(2500, 400 k) samples only (k free
-// parameters), and the whole series is then refined from that estimate
-// by one Levenberg-Marquardt run, which takes a few iterations from so
-// close a start.
-//
-// # Concurrency
-//
-// Fit may be called from many goroutines at once (for many series or
-// candidate models); fits share nothing but pools of work buffers. For
-// N >= 50000 residuals the products J'J and J'r are summed over the two
-// halves of the rows separately and then added; without a moving-average
-// part the halves run on two goroutines when GOMAXPROCS > 1. The
-// summation order depends only on N, so results are the same bit for bit
-// with one goroutine or two.
-//
-// # Warnings
+// The residuals and their start-up convention are set out in the
+// package doc under Conditioning (returned in Estimate.Conditioning);
+// the Jacobian, the start values and the summation over blocks of rows
+// and goroutines under Estimation. Fit may be called from many
+// goroutines at once.
 //
 // Estimate.Warnings lists what makes the estimate doubtful, each kind
-// with its rule on WarningKind: not converged, singular information or a
-// standard error that is NaN, infinite or zero, roots on or outside the
-// unit circle, cancelling roots, highly correlated estimates, a
-// start-up transient (false-alarm rate 1e-4 on white Gaussian
-// residuals), few residuals (N < max(50, 10 k)) and a pole too slow for
-// the record (fewer than 5 time constants in the N residuals).
-// WarningKind.Serious says which make the estimate unfit for use.
+// with its rule on WarningKind; WarningKind.Serious says which make the
+// estimate unfit for use.
 //
 // # Errors
 //
@@ -312,11 +227,6 @@ func (e *Estimate) Corr() [][]float64 { return est.Corr(e.Cov) }
 // holds; a caller that checks only err does not use an unfinished fit
 // by mistake. A fit that stops for another reason without converging
 // returns its best point with a nil error and a NotConverged warning.
-//
-// References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
-// G. M. (2015). Time Series Analysis: Forecasting and Control, 5th ed.,
-// Wiley: chapters on identification, fitting and checking of
-// transfer-function models.
 func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (_ *Estimate, err error) {
 	defer setOp("tf.Fit", &err)
 	defer errs.Recover("tf.Fit", &err)
@@ -330,7 +240,7 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	w, err := fitPrepare(m, data, set)
+	w, err := prepareFit(m, data, set)
 	if err != nil {
 		return nil, err
 	}
@@ -340,17 +250,17 @@ func Fit(ctx context.Context, m Model, data map[string][]float64, s *FitSettings
 		return nil, err
 	}
 	if set.Settle && e.Converged {
-		e = fitSettle(ctx, e, data, set, w.n, w.ar.Degree())
+		e = settleRefit(ctx, e, data, set, w.n, w.ar.Degree())
 	}
-	return fitFinish(ctx, e)
+	return finishFit(ctx, e)
 }
 
-// fitSettle is FitSettings.Settle: it moves First past the start-up
+// settleRefit is FitSettings.Settle: it moves First past the start-up
 // transient of the estimated input poles and MA zeros and refits from
 // the estimates; it returns e when there is nothing to move or the
 // refit fails.
-func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set FitSettings, n, p int) *Estimate {
-	k := fitSettleSamples(e.Model)
+func settleRefit(ctx context.Context, e *Estimate, data map[string][]float64, set FitSettings, n, p int) *Estimate {
+	k := settleSamples(e.Model)
 	first := min(e.Conditioning.NoiseStart+p+k, n/10)
 	if first <= e.Conditioning.First {
 		return e
@@ -358,7 +268,7 @@ func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set 
 	s2 := set
 	s2.First = first
 	s2.Settle = false
-	w2, err := fitPrepare(e.Model, data, s2)
+	w2, err := prepareFit(e.Model, data, s2)
 	if err != nil {
 		return e
 	}
@@ -373,11 +283,11 @@ func fitSettle(ctx context.Context, e *Estimate, data map[string][]float64, set 
 	return e2
 }
 
-// fitFinish refuses an estimate whose sum of squares is zero (sigma^2,
+// finishFit refuses an estimate whose sum of squares is zero (sigma^2,
 // the log-likelihood and the criteria would not exist), and returns the
 // best point of a fit whose context was done before it converged
 // together with an *InterruptedError wrapping the context's error.
-func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
+func finishFit(ctx context.Context, e *Estimate) (*Estimate, error) {
 	out := e.Model.Output
 	if !(e.SSQ > 0) || math.IsInf(e.LogLik, 0) || math.IsNaN(e.LogLik) {
 		return nil, modelErr("fit of output "+strconv.Quote(out), "the residual sum of squares is zero: the model reproduces the output exactly (a noise-free or constant output), "+
@@ -390,16 +300,16 @@ func fitFinish(ctx context.Context, e *Estimate) (*Estimate, error) {
 	return e, nil
 }
 
-// fitSettleSamples returns the number of samples after which the slowest
+// settleSamples returns the number of samples after which the slowest
 // estimated input pole or noise MA zero has decayed to 1 %: ln 0.01 /
 // ln |z|max (0 when all are zero, a large number near the unit circle).
-func fitSettleSamples(m Model) int {
+func settleSamples(m Model) int {
 	z := 0.0
 	for _, in := range m.Inputs {
-		z = math.Max(z, fitMaxZ(in.Den.Coeffs()))
+		z = math.Max(z, maxZ(in.Den.Coeffs()))
 	}
 	if m.Noise != nil {
-		z = math.Max(z, fitMaxZ(m.Noise.MA.Coeffs()))
+		z = math.Max(z, maxZ(m.Noise.MA.Coeffs()))
 	}
 	if z <= 0 {
 		return 0
@@ -410,8 +320,8 @@ func fitSettleSamples(m Model) int {
 	return int(math.Ceil(math.Log(0.01) / math.Log(z)))
 }
 
-// fitInput is the working state of one input term.
-type fitInput struct {
+// inputState is the working state of one input term.
+type inputState struct {
 	in         *Input    // into the working model clone
 	x          []float64 // the input as given (not modified)
 	zc         []float64 // z - z0 from index d on, 0 before
@@ -428,54 +338,130 @@ type fitInput struct {
 	d          int
 }
 
-// fitWork is the working state of one fit; nothing in it is shared.
+// fitWork is the working state of one fit; nothing in it is shared. Its
+// fields come in three parts: the model binding (which coefficients the
+// parameter vector sets), the data with its conditioning, and the work
+// series and buffers the evaluations write. The methods live in fit.go
+// (preparation, evaluation, Jacobian, solver), fit_start.go (start
+// values) and forecast.go (the noise forecast, addNoiseForecast); Check,
+// Forecast and Identify reach the work through prepareFit.
 type fitWork struct {
-	m       Model // working clone whose coefficient values are set per evaluation
-	names   []string
-	coefs   [][]*Coef
-	index   map[string]int
-	n       int
-	y       []float64 // the output as given (not modified)
-	cond    Conditioning
-	w       []float64
-	ins     []fitInput
-	ar, ma  Poly
+	binding
+	conditionedData
+	evalBuffers
+}
+
+// binding ties the parameter vector to the coefficients of a working
+// clone of the model: parameter k is names[k] and sets every coefficient
+// in coefs[k].
+type binding struct {
+	m     Model // working clone whose coefficient values are set per evaluation
+	names []string
+	coefs [][]*Coef
+	index map[string]int // name -> k
+}
+
+// conditionedData is the data of one fit, its conditioning and the noise
+// polynomials whose coefficients the evaluations read.
+type conditionedData struct {
+	n    int
+	y    []float64 // the output as given (not modified)
+	cond Conditioning
+	w    []float64 // D(B) y, zero before the differencing degree
+	ins  []inputState
+	// ar and ma are phi(B) and theta(B) of the working model (empty
+	// polynomials, that is 1, without a noise model).
+	ar, ma Poly
+	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
+	// moving average of n_t and no column needs a_t.
+	maFixedOne bool
+}
+
+// evalBuffers holds what the evaluations write: the noise polynomials'
+// coefficients and derivatives at the current values, the series n_t
+// and a_t, and the scratch of the Jacobian products, all from one slab
+// recycled between fits.
+type evalBuffers struct {
 	arC     []float64
 	maC     []float64
 	arD     [][]float64
 	maD     [][]float64
 	nn, a   []float64
 	scratch []float64
-	kappa   []float64   // constant part of each Jacobian column
-	negMA   [][]float64 // -maD
-	acc1    []float64   // the second half's products (normalEval)
-	blk     [2]fitBlock // block scratch of normalEval, one per goroutine
-	views   []fitView   // columns multiplied in place (normalRows)
-	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
-	// moving average of n_t and no column needs a_t.
-	maFixedOne bool
-	slab       *fitSlab
-	panicErr   error // a panic recovered in a goroutine of normalEval
+	kappa   []float64       // constant part of each Jacobian column
+	negMA   [][]float64     // -maD
+	acc1    []float64       // the second half's products (normalEval)
+	blk     [2]blockScratch // block scratch of normalEval, one per goroutine
+	views   []columnView    // columns multiplied in place (normalRows)
+	slab    *workSlab
+	// panicErr is a panic recovered in a goroutine of normalEval.
+	panicErr error
 }
 
-var fitOne = []float64{1}
+var unitPoly = []float64{1}
 
-func (w *fitWork) idx(name string) int {
+// idx returns the parameter index of a coefficient name, -1 for a name
+// that is not free.
+func (w *binding) idx(name string) int {
 	if k, ok := w.index[name]; ok {
 		return k
 	}
 	return -1
 }
 
-// fitPrepare validates m and data and builds the working state.
-func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
-	if m.Output == "" {
-		return nil, modelErr("model", "it names no output series (Model.Output is empty)")
-	}
-	if err := m.Validate(); err != nil {
+// prepareFit validates m and data and builds the working state: the
+// model checks and parameter binding (bindModel), the data checks
+// (checkFitData), the conditioning (condition) and the work series
+// (allocate).
+func prepareFit(m Model, data map[string][]float64, set FitSettings) (*fitWork, error) {
+	b, err := bindModel(m)
+	if err != nil {
 		return nil, err
 	}
-	w := &fitWork{m: m.Clone(), index: map[string]int{}}
+	y, err := checkFitData(m, data, set)
+	if err != nil {
+		return nil, err
+	}
+	if err := checkConstTerms(b.m); err != nil {
+		return nil, err
+	}
+	n := len(y)
+	if set.First > 0 && set.First >= n {
+		return nil, settingErr("FitSettings.First", strconv.Itoa(set.First),
+			"must be below the number of samples, "+strconv.Itoa(n)+" (it is the index of the first residual summed)")
+	}
+	if n > 0 && isConstant(y) {
+		return nil, seriesErr(m.Output, errs.ErrConstant, 0, 0, "the output: every sample is "+strconv.FormatFloat(y[0], 'g', 6, 64)+
+			", there is nothing to explain; check that the right column was read")
+	}
+	w := &fitWork{binding: b}
+	if m.Noise != nil {
+		w.ma, w.ar = w.m.Noise.MA, w.m.Noise.AR
+	}
+	if err := w.condition(set, n); err != nil {
+		return nil, err
+	}
+	if err := w.allocate(y, data, set); err != nil {
+		w.release()
+		return nil, err
+	}
+	return w, nil
+}
+
+// bindModel checks m for fitting and binds its free coefficients to a
+// parameter vector, in order of first appearance (constant, inputs'
+// numerators and denominators, noise MA, noise AR) in a clone of m. It
+// refuses a model without an output or with nothing free, one that
+// Model.Validate refuses, free differencing coefficients and a name free
+// in one place and held in another.
+func bindModel(m Model) (binding, error) {
+	if m.Output == "" {
+		return binding{}, modelErr("model", "it names no output series (Model.Output is empty)")
+	}
+	if err := m.Validate(); err != nil {
+		return binding{}, err
+	}
+	b := binding{m: m.Clone(), index: map[string]int{}}
 	held := map[string]bool{}
 	add := func(c *Coef) {
 		if c.Name == "" {
@@ -485,50 +471,64 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			held[c.Name] = true
 			return
 		}
-		k, ok := w.index[c.Name]
+		k, ok := b.index[c.Name]
 		if !ok {
-			k = len(w.names)
-			w.index[c.Name] = k
-			w.names = append(w.names, c.Name)
-			w.coefs = append(w.coefs, nil)
+			k = len(b.names)
+			b.index[c.Name] = k
+			b.names = append(b.names, c.Name)
+			b.coefs = append(b.coefs, nil)
 		}
-		w.coefs[k] = append(w.coefs[k], c)
+		b.coefs[k] = append(b.coefs[k], c)
 	}
-	var diffErr error
-	noFree := func(p Poly) {
-		p.Each(func(c *Coef) {
-			if c.Name != "" && c.Free && diffErr == nil {
-				diffErr = modelErr("differencing coefficient "+c.Name, "differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)")
-			}
-		})
+	if b.m.Const != nil {
+		add(b.m.Const)
 	}
-	noFree(w.m.Diff)
-	if w.m.Const != nil {
-		add(w.m.Const)
-	}
-	for i := range w.m.Inputs {
-		in := &w.m.Inputs[i]
-		noFree(in.Diff)
+	for i := range b.m.Inputs {
+		in := &b.m.Inputs[i]
 		in.Num.Each(add)
 		in.Den.Each(add)
 	}
-	if w.m.Noise != nil {
-		w.ma, w.ar = w.m.Noise.MA, w.m.Noise.AR
-		w.ma.Each(add)
-		w.ar.Each(add)
+	if b.m.Noise != nil {
+		b.m.Noise.MA.Each(add)
+		b.m.Noise.AR.Each(add)
 	}
-	if diffErr != nil {
-		return nil, diffErr
+	if err := fixedDifferencing(b.m); err != nil {
+		return binding{}, err
 	}
 	for name := range held {
-		if _, ok := w.index[name]; ok {
-			return nil, modelErr("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
+		if _, ok := b.index[name]; ok {
+			return binding{}, modelErr("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
 		}
 	}
-	if len(w.names) == 0 {
-		return nil, modelErr("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
+	if len(b.names) == 0 {
+		return binding{}, modelErr("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
 	}
-	// Data: presence, extras, lengths, finiteness.
+	return b, nil
+}
+
+// fixedDifferencing refuses a free coefficient in the differencing of
+// the output (checked first) or of an input.
+func fixedDifferencing(m Model) error {
+	var err error
+	noFree := func(p Poly) {
+		p.Each(func(c *Coef) {
+			if c.Name != "" && c.Free && err == nil {
+				err = modelErr("differencing coefficient "+c.Name, "differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)")
+			}
+		})
+	}
+	noFree(m.Diff)
+	for _, in := range m.Inputs {
+		noFree(in.Diff)
+	}
+	return err
+}
+
+// checkFitData checks the data of a fit of m: the output and every
+// input present, no series the model does not use (unless
+// set.IgnoreExtra), one length, and every sample finite and at most
+// FitMaxMagnitude (series checked in name order). It returns the output.
+func checkFitData(m Model, data map[string][]float64, set FitSettings) ([]float64, error) {
 	y, ok := data[m.Output]
 	if !ok {
 		return nil, seriesErr(m.Output, errs.ErrName, 0, 0, "the model's output is not in the data; check the series names")
@@ -572,29 +572,24 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			}
 		}
 	}
-	if err := fitCheckConst(w.m); err != nil {
-		return nil, err
-	}
-	if set.First > 0 && set.First >= n {
-		return nil, settingErr("FitSettings.First", strconv.Itoa(set.First),
-			"must be below the number of samples, "+strconv.Itoa(n)+" (it is the index of the first residual summed)")
-	}
-	if n > 0 && fitConstant(y) {
-		return nil, seriesErr(m.Output, errs.ErrConstant, 0, 0, "the output: every sample is "+strconv.FormatFloat(y[0], 'g', 6, 64)+
-			", there is nothing to explain; check that the right column was read")
-	}
-	// Conditioning.
-	dc := w.m.Diff.Coeffs()
-	d := len(dc) - 1
+	return y, nil
+}
+
+// condition sets the conditioning of a fit of n samples (see the package
+// doc, Conditioning) and the per-input facts the evaluations read (the
+// differencing degree, which parts are free); it refuses a dead time out
+// of range and too few residuals for the free parameters.
+func (w *fitWork) condition(set FitSettings, n int) error {
+	d := len(w.m.Diff.Coeffs()) - 1
 	ts := d
-	w.ins = make([]fitInput, len(w.m.Inputs))
+	w.ins = make([]inputState, len(w.m.Inputs))
 	for i := range w.m.Inputs {
 		in := &w.m.Inputs[i]
 		fi := &w.ins[i]
 		fi.in = in
 		fi.d = in.Diff.Degree()
 		if in.Delay < 0 || in.Delay > MaxDelay {
-			return nil, &DelayError{Delay: in.Delay}
+			return &DelayError{Delay: in.Delay}
 		}
 		ts = max(ts, fi.d+in.Delay+in.Num.Degree())
 		in.Num.Each(func(c *Coef) {
@@ -611,23 +606,41 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	p := w.ar.Degree()
 	t0 := max(ts+p, set.First)
 	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample}
-	nres := n - t0
-	if nres <= len(w.names) {
-		detail := "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"
-		for i := range w.m.Inputs {
-			in := &w.m.Inputs[i]
-			if ts > d && w.ins[i].d+in.Delay+in.Num.Degree() == ts && t0 == ts+p {
-				detail += "; input " + strconv.Quote(in.Series) + " with dead time " + strconv.Itoa(in.Delay) + ", numerator degree " +
-					strconv.Itoa(in.Num.Degree()) + " and differencing degree " + strconv.Itoa(w.ins[i].d) + " leaves its first " +
-					strconv.Itoa(ts) + " samples without a residual: check the dead time (it counts samples)"
-				break
-			}
-		}
-		return nil, seriesErr(m.Output, errs.ErrShort, max(nres, 0), len(w.names)+1, "counting residuals, one more than the "+strconv.Itoa(len(w.names))+" free coefficients; "+detail)
-	}
 	w.n = n
-	// All work series come from one slab, recycled between fits (see
-	// fitSlab); what the evaluations rely on being zero is cleared here.
+	if nres := n - t0; nres <= len(w.names) {
+		return w.tooFewResiduals(nres)
+	}
+	return nil
+}
+
+// tooFewResiduals is the ErrShort error of a fit with nres residuals,
+// naming the input whose dead time and degrees set the first residual
+// index when one does.
+func (w *fitWork) tooFewResiduals(nres int) error {
+	n, d, ts, t0 := w.n, w.cond.OutputDiff, w.cond.NoiseStart, w.cond.First
+	p := w.ar.Degree()
+	detail := "residuals are summed from index " + strconv.Itoa(t0) + " of " + strconv.Itoa(n) + " samples"
+	for i := range w.m.Inputs {
+		in := &w.m.Inputs[i]
+		if ts > d && w.ins[i].d+in.Delay+in.Num.Degree() == ts && t0 == ts+p {
+			detail += "; input " + strconv.Quote(in.Series) + " with dead time " + strconv.Itoa(in.Delay) + ", numerator degree " +
+				strconv.Itoa(in.Num.Degree()) + " and differencing degree " + strconv.Itoa(w.ins[i].d) + " leaves its first " +
+				strconv.Itoa(ts) + " samples without a residual: check the dead time (it counts samples)"
+			break
+		}
+	}
+	return seriesErr(w.m.Output, errs.ErrShort, max(nres, 0), len(w.names)+1, "counting residuals, one more than the "+strconv.Itoa(len(w.names))+" free coefficients; "+detail)
+}
+
+// allocate takes every work series from one slab, recycled between fits
+// (see workSlab), forms the differenced output and inputs with the
+// pre-sample levels of the conditioning, and clears what the evaluations
+// rely on being zero. It refuses an input held at a non-zero first value
+// through a fixed integrator, and an input with free coefficients that
+// never moves. The caller releases w on an error.
+func (w *fitWork) allocate(y []float64, data map[string][]float64, set FitSettings) error {
+	n, t0 := w.n, w.cond.First
+	nres := n - t0
 	size := 3 * n
 	for i := range w.ins {
 		fi := &w.ins[i]
@@ -637,7 +650,7 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 			size += n + nres + ext
 		}
 	}
-	w.slab = fitGetSlab(size)
+	w.slab = getSlab(size)
 	buf := w.slab.buf
 	take := func(m int) []float64 {
 		out := buf[:m:m]
@@ -645,36 +658,15 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 		return out
 	}
 	// Differenced series (fixed), zero before the differencing degree.
-	w.w = fitDiffTo(take(n), y, dc)
+	w.w = diffTo(take(n), y, w.m.Diff.Coeffs())
 	w.y = y
 	for i := range w.ins {
 		fi := &w.ins[i]
 		fi.x = data[fi.in.Series]
-		fi.z = fitDiffTo(take(n), fi.x, fi.in.Diff.Coeffs())
+		fi.z = diffTo(take(n), fi.x, fi.in.Diff.Coeffs())
 		fi.zc = take(n)
-		if !set.ZeroPreSample && fi.d == 0 && n > 0 {
-			fi.z0 = fi.z[fi.d]
-		}
-		clear(fi.zc[:min(fi.d, n)])
-		moves := false
-		for t := fi.d; t < n; t++ {
-			fi.zc[t] = fi.z[t] - fi.z0
-			moves = moves || fi.zc[t] != 0
-		}
-		if fi.z0 != 0 && !fi.denFree && fitSum(fi.in.Den.Coeffs()) == 0 {
-			w.release()
-			return nil, modelErr("input "+strconv.Quote(fi.in.Series), "no settled start: its denominator has a pole at z = 1 (an integrator), so it has no steady state, "+
-				"and Fit cannot take the input as held at its first value "+strconv.FormatFloat(fi.z0, 'g', 6, 64)+
-				" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output")
-		}
-		if !moves && (fi.numFree || fi.denFree) {
-			w.release()
-			why := "every sample is " + strconv.FormatFloat(fi.x[0], 'g', 6, 64) + ", and Fit takes an input as held at its first value before the record"
-			if fi.d > 0 {
-				why = "its differenced values are all zero"
-			}
-			return nil, seriesErr(fi.in.Series, errs.ErrConstant, 0, 0, "an input: "+why+
-				", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values")
+		if err := fi.centre(set.ZeroPreSample, n); err != nil {
+			return err
 		}
 		fi.s = take(n)
 		fi.u = take(n)
@@ -689,11 +681,42 @@ func fitPrepare(m Model, data map[string][]float64, set FitSettings) (*fitWork, 
 	w.a = take(n)
 	clear(w.a[:t0])
 	w.maFixedOne = w.ma.IsOne()
-	return w, nil
+	return nil
 }
 
-// fitConstant reports whether every sample of x equals the first.
-func fitConstant(x []float64) bool {
+// centre sets the pre-sample level z0 of the input (its first value
+// without differencing unless zeroPre, else 0) and zc = z - z0 from the
+// differencing degree on (0 before); it refuses an input that has no
+// steady state to hold at z0 or that never moves while its coefficients
+// are free.
+func (fi *inputState) centre(zeroPre bool, n int) error {
+	if !zeroPre && fi.d == 0 && n > 0 {
+		fi.z0 = fi.z[fi.d]
+	}
+	clear(fi.zc[:min(fi.d, n)])
+	moves := false
+	for t := fi.d; t < n; t++ {
+		fi.zc[t] = fi.z[t] - fi.z0
+		moves = moves || fi.zc[t] != 0
+	}
+	if fi.z0 != 0 && !fi.denFree && sumCoeffs(fi.in.Den.Coeffs()) == 0 {
+		return modelErr("input "+strconv.Quote(fi.in.Series), "no settled start: its denominator has a pole at z = 1 (an integrator), so it has no steady state, "+
+			"and Fit cannot take the input as held at its first value "+strconv.FormatFloat(fi.z0, 'g', 6, 64)+
+			" before the record; set FitSettings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output")
+	}
+	if !moves && (fi.numFree || fi.denFree) {
+		why := "every sample is " + strconv.FormatFloat(fi.x[0], 'g', 6, 64) + ", and Fit takes an input as held at its first value before the record"
+		if fi.d > 0 {
+			why = "its differenced values are all zero"
+		}
+		return seriesErr(fi.in.Series, errs.ErrConstant, 0, 0, "an input: "+why+
+			", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values")
+	}
+	return nil
+}
+
+// isConstant reports whether every sample of x equals the first.
+func isConstant(x []float64) bool {
 	for _, v := range x {
 		if v != x[0] {
 			return false
@@ -702,31 +725,31 @@ func fitConstant(x []float64) bool {
 	return true
 }
 
-// fitSlab is the backing store of a fit's work series. Fit returns its
-// slab to fitSlabs when the Estimate no longer refers to it, so that
+// workSlab is the backing store of a fit's work series. Fit returns its
+// slab to slabPools when the Estimate no longer refers to it, so that
 // repeated fits (many series, many candidate models) reuse the memory
 // instead of allocating and clearing it again.
-type fitSlab struct{ buf []float64 }
+type workSlab struct{ buf []float64 }
 
-// fitSlabs holds recycled slabs by size class: class c holds slabs of
+// slabPools holds recycled slabs by size class: class c holds slabs of
 // capacity 1<<c.
-var fitSlabs [64]sync.Pool
+var slabPools [64]sync.Pool
 
-// fitGetSlab returns a slab of m values (contents undefined).
-func fitGetSlab(m int) *fitSlab {
+// getSlab returns a slab of m values (contents undefined).
+func getSlab(m int) *workSlab {
 	c := bits.Len(uint(max(m-1, 1)))
-	if s, ok := fitSlabs[c].Get().(*fitSlab); ok {
+	if s, ok := slabPools[c].Get().(*workSlab); ok {
 		s.buf = s.buf[:m]
 		return s
 	}
-	return &fitSlab{buf: make([]float64, m, 1<<c)}
+	return &workSlab{buf: make([]float64, m, 1<<c)}
 }
 
 // release returns the work series to the pool; w must not be used
 // afterwards.
 func (w *fitWork) release() {
 	if w.slab != nil {
-		fitSlabs[bits.Len(uint(cap(w.slab.buf)-1))].Put(w.slab)
+		slabPools[bits.Len(uint(cap(w.slab.buf)-1))].Put(w.slab)
 		w.slab = nil
 		w.w, w.nn, w.a = nil, nil, nil
 		for i := range w.ins {
@@ -736,9 +759,9 @@ func (w *fitWork) release() {
 	}
 }
 
-// fitCheckConst reports a zero constant term in a denominator or noise
+// checkConstTerms reports a zero constant term in a denominator or noise
 // polynomial as written.
-func fitCheckConst(m Model) error {
+func checkConstTerms(m Model) error {
 	chk := func(p Poly, what string) error {
 		if c := p.Coeffs(); c[0] == 0 {
 			return modelErr(what, "the constant term is zero, so the term is not causal; write it as 1 + ... (or move the dead time to the input's delay)")
@@ -761,15 +784,15 @@ func fitCheckConst(m Model) error {
 	return nil
 }
 
-// fitDiff returns D(B) x over the full length with zeros before index
+// applyDiff returns D(B) x over the full length with zeros before index
 // deg D.
-func fitDiff(x, dc []float64) []float64 {
-	return fitDiffTo(make([]float64, len(x)), x, dc)
+func applyDiff(x, dc []float64) []float64 {
+	return diffTo(make([]float64, len(x)), x, dc)
 }
 
-// fitDiffTo writes D(B) x into out (len(x)), zeros before index deg D,
+// diffTo writes D(B) x into out (len(x)), zeros before index deg D,
 // and returns out.
-func fitDiffTo(out, x, dc []float64) []float64 {
+func diffTo(out, x, dc []float64) []float64 {
 	d := len(dc) - 1
 	clear(out[:min(d, len(x))])
 	switch {
@@ -801,7 +824,7 @@ func fitDiffTo(out, x, dc []float64) []float64 {
 }
 
 // set writes the parameter vector into the working model.
-func (w *fitWork) set(x []float64) {
+func (w *binding) set(x []float64) {
 	for k, cs := range w.coefs {
 		for _, c := range cs {
 			c.Value = x[k]
@@ -810,7 +833,7 @@ func (w *fitWork) set(x []float64) {
 }
 
 // params returns the current parameter vector.
-func (w *fitWork) params() []float64 {
+func (w *binding) params() []float64 {
 	x := make([]float64, len(w.names))
 	for k, cs := range w.coefs {
 		x[k] = cs[0].Value
@@ -818,7 +841,7 @@ func (w *fitWork) params() []float64 {
 	return x
 }
 
-var fitErrFilter = errors.New("tf: filter output not finite")
+var errFilter = errors.New("tf: filter output not finite")
 
 // noiseSeries computes u_i and n_t for the current values; it fills the
 // polynomial coefficients and derivatives.
@@ -827,36 +850,7 @@ func (w *fitWork) noiseSeries() {
 	ts := w.cond.NoiseStart
 	k := len(w.names)
 	for i := range w.ins {
-		fi := &w.ins[i]
-		fi.numC, fi.numD = fi.in.Num.Grad(w.idx, k)
-		fi.denC, fi.denD = fi.in.Den.Grad(w.idx, k)
-		b := fi.in.Delay
-		clear(fi.s[:min(b, n)])
-		switch {
-		case b >= n:
-			clear(fi.u)
-			if fi.denFree {
-				clear(fi.q)
-			}
-		case len(fi.denC) == 2 && fi.denC[0] == 1 && len(fi.numC) <= 3 && fi.denFree:
-			// The common first-order denominator: s, u and q in one pass,
-			// whose two recursions overlap in the pipeline.
-			fitRun1(fi.s, fi.u, fi.q, fi.zc, b, fi.denC[1], fi.numC)
-		default:
-			if fitIsOne(fi.denC) {
-				copy(fi.s[b:], fi.zc[:n-b])
-			} else {
-				filter.Run(fi.s[b:], fitOne, fi.denC, fi.zc[:n-b])
-			}
-			fitFIR(fi.u, fi.numC, fi.s, 0, false)
-			if fi.denFree {
-				filter.Run(fi.q, fitOne, fi.denC, fi.u)
-			}
-		}
-		fi.gain = 0
-		if fi.z0 != 0 {
-			fi.gain = fitSum(fi.numC) / fitSum(fi.denC)
-		}
+		w.ins[i].runFilters(w.idx, k, n)
 	}
 	c := 0.0
 	if w.m.Const != nil {
@@ -894,16 +888,53 @@ func (w *fitWork) noiseSeries() {
 	}
 }
 
-// fitRun1 computes, for delta(B) = 1 + d1 B and omega(B) = c0 + c1 B +
+// runFilters computes, for the current values, the input's polynomial
+// coefficients and derivatives (k parameters, idx their index), s =
+// B^b zc / delta, u = omega s and, with a free denominator, q = u /
+// delta over the n samples, and the steady-state gain used with a
+// non-zero pre-sample level.
+func (fi *inputState) runFilters(idx func(string) int, k, n int) {
+	fi.numC, fi.numD = fi.in.Num.Grad(idx, k)
+	fi.denC, fi.denD = fi.in.Den.Grad(idx, k)
+	b := fi.in.Delay
+	clear(fi.s[:min(b, n)])
+	switch {
+	case b >= n:
+		clear(fi.u)
+		if fi.denFree {
+			clear(fi.q)
+		}
+	case len(fi.denC) == 2 && fi.denC[0] == 1 && len(fi.numC) <= 3 && fi.denFree:
+		// The common first-order denominator: s, u and q in one pass,
+		// whose two recursions overlap in the pipeline.
+		runFirstOrder(fi.s, fi.u, fi.q, fi.zc, b, fi.denC[1], fi.numC)
+	default:
+		if isOne(fi.denC) {
+			copy(fi.s[b:], fi.zc[:n-b])
+		} else {
+			filter.Run(fi.s[b:], unitPoly, fi.denC, fi.zc[:n-b])
+		}
+		fir(fi.u, fi.numC, fi.s, 0, false)
+		if fi.denFree {
+			filter.Run(fi.q, unitPoly, fi.denC, fi.u)
+		}
+	}
+	fi.gain = 0
+	if fi.z0 != 0 {
+		fi.gain = sumCoeffs(fi.numC) / sumCoeffs(fi.denC)
+	}
+}
+
+// runFirstOrder computes, for delta(B) = 1 + d1 B and omega(B) = c0 + c1 B +
 // c2 B^2 (c of length 1..3), from zero pre-sample values and dead time b
 // (< len(zc)), with the same operations in the same order as the
-// general path (filter.Run, fitFIR, filter.Run), so bit for bit alike:
+// general path (filter.Run, fir, filter.Run), so bit for bit alike:
 //
 //	s_t = zc_{t-b} - d1 s_{t-1},  u_t = c0 s_t + c1 s_{t-1} + c2 s_{t-2},
 //	q_t = u_t - d1 q_{t-1}.
 //
 // s[:b] must already be zero.
-func fitRun1(s, u, q, zc []float64, b int, d1 float64, c []float64) {
+func runFirstOrder(s, u, q, zc []float64, b int, d1 float64, c []float64) {
 	n := len(s)
 	var cc [3]float64
 	copy(cc[:], c)
@@ -938,8 +969,8 @@ func (w *fitWork) resid() float64 {
 	w.arC, w.arD = w.ar.Grad(w.idx, k)
 	w.maC, w.maD = w.ma.Grad(w.idx, k)
 	ts, t0 := w.cond.NoiseStart, w.cond.First
-	if fitIsOne(w.maC) {
-		fitFIR(w.a[t0:], w.arC, w.nn, t0, false)
+	if isOne(w.maC) {
+		fir(w.a[t0:], w.arC, w.nn, t0, false)
 	} else {
 		filter.RunInit(w.a[t0:], w.arC, w.maC, w.nn[t0:], w.nn[ts:t0], nil)
 	}
@@ -958,14 +989,14 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 		k := len(w.names)
 		w.arC, w.arD = w.ar.Grad(w.idx, k)
 		w.maC, w.maD = w.ma.Grad(w.idx, k)
-		fitFIR(r, w.arC, w.nn, t0, false)
+		fir(r, w.arC, w.nn, t0, false)
 		f = vec.Dot(r, r)
 	} else {
 		f = w.resid()
 		copy(r, w.a[t0:])
 	}
 	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return fitErrFilter
+		return errFilter
 	}
 	if jac == nil {
 		return nil
@@ -976,7 +1007,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 
 // jacobian fills the columns d a_t / d x_k for t >= First. Each column is
 // (1/theta(B)) applied to a sum of moving-average filters of series
-// already computed (see Fit):
+// already computed (see Estimation in the package doc):
 //
 //	-g_k (phi s_i), +g_k (phi q_i), -phi(1), +g_k n, -g_k a
 //
@@ -988,7 +1019,7 @@ func (w *fitWork) eval(x, r []float64, jac [][]float64) error {
 // jacobian is the stored form for the tests.
 func (w *fitWork) jacobian(jac [][]float64) {
 	w.jacPrep()
-	maOne := fitIsOne(w.maC)
+	maOne := isOne(w.maC)
 	var sc []float64 // bracket for the moving-average recursion
 	if !maOne {
 		sc = w.scratchN(len(jac[0]))
@@ -1012,14 +1043,14 @@ func (w *fitWork) jacPrep() {
 		fi := &w.ins[i]
 		ext := len(fi.e) - (w.n - t0)
 		if fi.numFree { // e is read only by numerator columns
-			fitFIR(fi.e, w.arC, fi.s, t0-ext, false)
+			fir(fi.e, w.arC, fi.s, t0-ext, false)
 		}
 		if fi.denFree {
-			fitFIR(fi.f, w.arC, fi.q, t0-ext, false)
+			fir(fi.f, w.arC, fi.q, t0-ext, false)
 		}
-		fi.negNum = fitNegAll(fi.negNum, fi.numD)
+		fi.negNum = negateAll(fi.negNum, fi.numD)
 	}
-	w.negMA = fitNegAll(w.negMA, w.maD)
+	w.negMA = negateAll(w.negMA, w.maD)
 	phi1 := 0.0
 	for _, v := range w.arC {
 		phi1 += v
@@ -1041,12 +1072,12 @@ func (w *fitWork) jacPrep() {
 			if fi.z0 == 0 {
 				continue
 			}
-			d1 := fitSum(fi.denC)
+			d1 := sumCoeffs(fi.denC)
 			if g := fi.numD[j]; g != nil {
-				kappa -= fitSum(g) * fi.z0 / d1
+				kappa -= sumCoeffs(g) * fi.z0 / d1
 			}
 			if g := fi.denD[j]; g != nil {
-				kappa += fi.gain * fitSum(g) * fi.z0 / d1
+				kappa += fi.gain * sumCoeffs(g) * fi.z0 / d1
 			}
 		}
 		w.kappa[j] = kappa * phi1
@@ -1054,9 +1085,9 @@ func (w *fitWork) jacPrep() {
 	w.prepViews()
 }
 
-// fitView describes a Jacobian column that is a shifted copy, times +1 or
+// columnView describes a Jacobian column that is a shifted copy, times +1 or
 // -1, of a series already formed: row i is sign * src[at+i].
-type fitView struct {
+type columnView struct {
 	src  []float64
 	at   int
 	sign float64
@@ -1071,26 +1102,26 @@ type fitView struct {
 func (w *fitWork) prepViews() {
 	k := len(w.names)
 	if cap(w.views) < k {
-		w.views = make([]fitView, k)
+		w.views = make([]columnView, k)
 	}
 	w.views = w.views[:k]
 	m := w.n - w.cond.First
-	maOne := fitIsOne(w.maC)
+	maOne := isOne(w.maC)
 	for j := range w.views {
-		w.views[j] = fitView{}
+		w.views[j] = columnView{}
 		if !maOne || w.kappa[j] != 0 {
 			continue
 		}
-		var v fitView
+		var v columnView
 		count := 0
 		try := func(g, src []float64, at int) {
 			if g == nil {
 				return
 			}
 			count++
-			l, c, ok := fitSinglePower(g)
+			l, c, ok := singlePower(g)
 			if ok && (c == 1 || c == -1) && at-l >= 0 {
-				v = fitView{src: src, at: at - l, sign: c}
+				v = columnView{src: src, at: at - l, sign: c}
 			}
 		}
 		for i := range w.ins {
@@ -1108,9 +1139,9 @@ func (w *fitWork) prepViews() {
 	}
 }
 
-// fitSinglePower reports whether g has exactly one non-zero coefficient,
+// singlePower reports whether g has exactly one non-zero coefficient,
 // and its power and value.
-func fitSinglePower(g []float64) (int, float64, bool) {
+func singlePower(g []float64) (int, float64, bool) {
 	l, c, n := 0, 0.0, 0
 	for i, v := range g {
 		if v != 0 {
@@ -1145,27 +1176,27 @@ func (w *fitWork) colRows(k, r0 int, dst, out, yHist []float64) {
 		// fi.e[j] holds (phi s)_{First-ext0+j}; filter it as a series
 		// whose index origin is First-ext0.
 		if g := fi.negNum[k]; g != nil {
-			fitFIR(dst, g, fi.e, ext, !first)
+			fir(dst, g, fi.e, ext, !first)
 			first = false
 		}
 		if g := fi.denD[k]; g != nil {
-			fitFIR(dst, g, fi.f, ext, !first)
+			fir(dst, g, fi.f, ext, !first)
 			first = false
 		}
 	}
 	if g := w.arD[k]; g != nil {
-		fitFIR(dst, g, w.nn, t0, !first)
+		fir(dst, g, w.nn, t0, !first)
 		first = false
 	}
 	if g := w.negMA[k]; g != nil {
-		fitFIR(dst, g, w.a, t0, !first)
+		fir(dst, g, w.a, t0, !first)
 		first = false
 	}
 	if first {
 		clear(dst)
 	}
-	if !fitIsOne(w.maC) {
-		filter.RunInit(out, fitOne, w.maC, dst, nil, yHist)
+	if !isOne(w.maC) {
+		filter.RunInit(out, unitPoly, w.maC, dst, nil, yHist)
 	}
 }
 
@@ -1191,7 +1222,7 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 		return nil
 	}
 	acc1 := w.scratchAcc(len(acc))
-	if fitIsOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
+	if isOne(w.maC) && runtime.GOMAXPROCS(0) > 1 {
 		var wg sync.WaitGroup
 		var perr error
 		wg.Add(1)
@@ -1223,9 +1254,9 @@ func (w *fitWork) normalEval(x, r, acc []float64) error {
 	return nil
 }
 
-// fitBlock is the scratch of normalRows: one block of every column, the
+// blockScratch is the scratch of normalRows: one block of every column, the
 // moving-average bracket and each column's recursion history.
-type fitBlock struct {
+type blockScratch struct {
 	back []float64
 	cols [][]float64
 	brk  []float64
@@ -1237,24 +1268,10 @@ type fitBlock struct {
 // themselves and with r over rows lo..hi-1, block by block. With a
 // moving-average part the rows must come in order from row 0 through the
 // same st, which carries the recursion histories.
-func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
+func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *blockScratch) {
 	k := len(w.names)
 	L := lm.NormalBlock
-	maOne := fitIsOne(w.maC)
-	q := len(w.maC) - 1
-	if len(st.cols) != k || len(st.back) < k*L {
-		st.back = make([]float64, k*L)
-		st.brk = make([]float64, L)
-		st.cols = make([][]float64, k)
-		st.hist = make([][]float64, k)
-	}
-	for j := range st.hist {
-		if cap(st.hist[j]) < q {
-			st.hist[j] = make([]float64, q)
-		}
-		st.hist[j] = st.hist[j][:q]
-	}
-	blk := st.cols
+	st.size(k, L, len(w.maC)-1)
 	signed := false
 	for _, v := range w.views {
 		if v.sign == -1 {
@@ -1266,26 +1283,7 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 	}
 	for b := lo; b < hi; b += L {
 		e := min(b+L, hi)
-		for j := 0; j < k; j++ {
-			if v := w.views[j]; v.src != nil {
-				blk[j] = v.src[v.at+b : v.at+e]
-				continue
-			}
-			out := st.back[j*L : j*L+e-b]
-			dst := out
-			if !maOne {
-				dst = st.brk[:e-b]
-			}
-			var yh []float64
-			if !maOne && b > 0 {
-				yh = st.hist[j]
-			}
-			w.colRows(j, b, dst, out, yh)
-			if !maOne {
-				fitPushHist(st.hist[j], out)
-			}
-			blk[j] = out
-		}
+		blk := w.formBlock(st, b, e)
 		if !signed {
 			lm.AddBlock(acc, blk, r[b:e])
 			continue
@@ -1306,6 +1304,54 @@ func (w *fitWork) normalRows(acc, r []float64, lo, hi int, st *fitBlock) {
 	}
 }
 
+// size makes the scratch hold k columns of blocks of L rows and a
+// moving-average history of q values per column.
+func (st *blockScratch) size(k, L, q int) {
+	if len(st.cols) != k || len(st.back) < k*L {
+		st.back = make([]float64, k*L)
+		st.brk = make([]float64, L)
+		st.cols = make([][]float64, k)
+		st.hist = make([][]float64, k)
+	}
+	for j := range st.hist {
+		if cap(st.hist[j]) < q {
+			st.hist[j] = make([]float64, q)
+		}
+		st.hist[j] = st.hist[j][:q]
+	}
+}
+
+// formBlock returns rows b..e-1 of every Jacobian column: a view into a
+// series already formed where there is one, else formed by colRows in
+// the scratch (the moving-average recursion carrying its history from
+// the block before).
+func (w *fitWork) formBlock(st *blockScratch, b, e int) [][]float64 {
+	L := lm.NormalBlock
+	maOne := isOne(w.maC)
+	blk := st.cols
+	for j := range blk {
+		if v := w.views[j]; v.src != nil {
+			blk[j] = v.src[v.at+b : v.at+e]
+			continue
+		}
+		out := st.back[j*L : j*L+e-b]
+		dst := out
+		if !maOne {
+			dst = st.brk[:e-b]
+		}
+		var yh []float64
+		if !maOne && b > 0 {
+			yh = st.hist[j]
+		}
+		w.colRows(j, b, dst, out, yh)
+		if !maOne {
+			pushHistory(st.hist[j], out)
+		}
+		blk[j] = out
+	}
+	return blk
+}
+
 // sign is the sign of Jacobian column j's view (1 for a column without).
 func (w *fitWork) sign(j int) float64 {
 	if v := w.views[j]; v.src != nil {
@@ -1314,9 +1360,9 @@ func (w *fitWork) sign(j int) float64 {
 	return 1
 }
 
-// fitPushHist shifts the last outputs y into h (oldest first), keeping
+// pushHistory shifts the last outputs y into h (oldest first), keeping
 // len(h) values.
-func fitPushHist(h, y []float64) {
+func pushHistory(h, y []float64) {
 	q := len(h)
 	if len(y) >= q {
 		copy(h, y[len(y)-q:])
@@ -1335,9 +1381,9 @@ func (w *fitWork) scratchAcc(m int) []float64 {
 	return w.acc1
 }
 
-// fitNegAll returns the negated polynomials of g (nil stays nil), reusing
+// negateAll returns the negated polynomials of g (nil stays nil), reusing
 // dst's storage.
-func fitNegAll(dst, g [][]float64) [][]float64 {
+func negateAll(dst, g [][]float64) [][]float64 {
 	if cap(dst) < len(g) {
 		dst = make([][]float64, len(g))
 	}
@@ -1363,7 +1409,7 @@ func (w *fitWork) scratchN(m int) []float64 {
 	return w.scratch[:m]
 }
 
-func fitSum(c []float64) float64 {
+func sumCoeffs(c []float64) float64 {
 	s := 0.0
 	for _, v := range c {
 		s += v
@@ -1372,13 +1418,13 @@ func fitSum(c []float64) float64 {
 }
 
 // Staging: a long series is first fitted on its last
-// max(fitStageWindow, fitStagePerParam k) samples (start values, screening and all starts), and the full series
+// max(stagedWindow, stagedPerParam k) samples (start values, screening and all starts), and the full series
 // is then refined from that estimate by a single Levenberg-Marquardt run,
 // which from so close a start takes a few iterations.
 const (
-	fitStageWindow   = 2500
-	fitStagePerParam = 400
-	fitStageMin      = 40000
+	stagedWindow   = 2500
+	stagedPerParam = 400
+	stagedMin      = 40000
 )
 
 // run performs the starts, the refinements and builds the Estimate.
@@ -1387,10 +1433,10 @@ func (w *fitWork) run(ctx context.Context, set FitSettings) (*Estimate, error) {
 	if maxIter <= 0 {
 		maxIter = 200
 	}
-	if w.n-w.cond.First >= fitStageMin {
+	if w.n-w.cond.First >= stagedMin {
 		auto := w.cond.NoiseStart + w.ar.Degree()
-		sub := w.window(max(fitStageWindow, fitStagePerParam*len(w.names)) + auto)
-		if ws, err := fitPrepare(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
+		sub := w.window(max(stagedWindow, stagedPerParam*len(w.names)) + auto)
+		if ws, err := prepareFit(w.m, sub, FitSettings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
 			best, start, tried, err := ws.search(ctx, set, maxIter)
 			ws.release()
 			if ws.panicErr != nil {
@@ -1572,7 +1618,7 @@ func (w *fitWork) estimate(res *lm.Result, start []float64, tried int) *Estimate
 		e.Params[i] = Param{Name: name, Value: res.X[i], Start: start[i], SE: se, T: res.X[i] / se}
 	}
 	w.noiseSeries() // n_t at the estimate, for the start-up transient test
-	e.Warnings = append(fitWarnings(e, res.JTJInv == nil, w.nn[t0:w.n]), screenWarnings(w.m.Output, w.y[:w.n])...)
+	e.Warnings = append(warningsOf(e, res.JTJInv == nil, w.nn[t0:w.n]), screenWarnings(w.m.Output, w.y[:w.n])...)
 	return e
 }
 
@@ -1586,8 +1632,8 @@ func (e *Estimate) Param(name string) (Param, bool) {
 	return Param{}, false
 }
 
-// fitARMA is a convenience used by the start values: Hannan-Rissanen on
+// hannanRissanen is a convenience used by the start values: Hannan-Rissanen on
 // a window of n_t, NaN-free.
-func fitARMA(x []float64, p, q int) (phi, theta []float64, err error) {
+func hannanRissanen(x []float64, p, q int) (phi, theta []float64, err error) {
 	return arma.HannanRissanen(x, p, q, 0)
 }

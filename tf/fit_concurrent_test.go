@@ -14,15 +14,15 @@ func TestFitConcurrent(t *testing.T) {
 	datas := make([]map[string][]float64, k)
 	want := make([]*Estimate, k)
 	for i := range datas {
-		y, x := fitMCSim(fitRand(uint64(100+i)), 300)
+		y, x := mcSim(newRand(uint64(100+i)), 300)
 		datas[i] = map[string][]float64{"y": y, "x": x}
-		e, err := Fit(context.Background(), fitMCModel(), datas[i], nil)
+		e, err := Fit(context.Background(), mcModel(), datas[i], nil)
 		if err != nil {
 			t.Fatal(err)
 		}
 		want[i] = e
 	}
-	m := fitMCModel()
+	m := mcModel()
 	got := make([]*Estimate, k)
 	var wg sync.WaitGroup
 	for i := range datas {

@@ -12,22 +12,22 @@ import (
 
 // TestFitBadInput checks the typed errors of Fit and their messages.
 func TestFitBadInput(t *testing.T) {
-	y, x := fitMCSim(fitRand(9), 60)
+	y, x := mcSim(newRand(9), 60)
 	good := func() map[string][]float64 {
 		return map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
 	}
-	fixed := fitMCModel()
+	fixed := mcModel()
 	fixed.Const = &Coef{Value: 2}
-	fixed.Inputs[0].Num = fitP(fitFac(fitTerm(false, "", 1.5, 0)))
-	fixed.Inputs[0].Den = fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "", 0.6, 1)))
-	fixed.Noise.AR = fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "", 0.5, 1)))
-	freeDiff := fitMCModel()
-	freeDiff.Diff = fitOneMinus("k", 1)
-	mixed := fitMCModel()
-	mixed.Noise.AR = fitP(fitFac(fitTerm(false, "", 1, 0), Term{Neg: true, Coef: Coef{Name: "d1", Value: 0.5}, Power: 1}))
-	zeroDen := fitMCModel()
-	zeroDen.Inputs[0].Den = fitP(fitFac(fitTerm(false, "", 0, 0), fitTerm(true, "d1", 0, 1)))
-	noOut := fitMCModel()
+	fixed.Inputs[0].Num = mkPoly(mkFactor(mkTerm(false, "", 1.5, 0)))
+	fixed.Inputs[0].Den = mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 0.6, 1)))
+	fixed.Noise.AR = mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 0.5, 1)))
+	freeDiff := mcModel()
+	freeDiff.Diff = oneMinus("k", 1)
+	mixed := mcModel()
+	mixed.Noise.AR = mkPoly(mkFactor(mkTerm(false, "", 1, 0), Term{Neg: true, Coef: Coef{Name: "d1", Value: 0.5}, Power: 1}))
+	zeroDen := mcModel()
+	zeroDen.Inputs[0].Den = mkPoly(mkFactor(mkTerm(false, "", 0, 0), mkTerm(true, "d1", 0, 1)))
+	noOut := mcModel()
 	noOut.Output = ""
 	for _, tc := range []struct {
 		name   string
@@ -37,15 +37,15 @@ func TestFitBadInput(t *testing.T) {
 		series string // the SeriesError's series, "" for a *ModelError
 		msg    string
 	}{
-		{"missing output", fitMCModel(), func() map[string][]float64 { d := good(); delete(d, "y"); return d },
+		{"missing output", mcModel(), func() map[string][]float64 { d := good(); delete(d, "y"); return d },
 			ErrName, "y", `tf.Fit: series "y" is not known (the model's output is not in the data; check the series names)`},
-		{"missing input", fitMCModel(), func() map[string][]float64 { d := good(); delete(d, "x"); return d },
+		{"missing input", mcModel(), func() map[string][]float64 { d := good(); delete(d, "x"); return d },
 			ErrName, "x", `tf.Fit: series "x" is not known (an input of the model is not in the data; check the series names)`},
-		{"extra series", fitMCModel(), func() map[string][]float64 { d := good(); d["xx"] = x; return d },
+		{"extra series", mcModel(), func() map[string][]float64 { d := good(); d["xx"] = x; return d },
 			ErrName, "xx", `tf.Fit: series "xx" is not known (it is in the data but not used by the model, often a misspelt input name; set FitSettings.IgnoreExtra to allow extra series)`},
-		{"unequal lengths", fitMCModel(), func() map[string][]float64 { d := good(); d["x"] = d["x"][:50]; return d },
+		{"unequal lengths", mcModel(), func() map[string][]float64 { d := good(); d["x"] = d["x"][:50]; return d },
 			ErrLength, "x", `tf.Fit: series "x" has 50 samples, 60 expected (the length of the output "y"; every series of one fit has one length)`},
-		{"too few observations", fitMCModel(), func() map[string][]float64 {
+		{"too few observations", mcModel(), func() map[string][]float64 {
 			d := good()
 			d["x"], d["y"] = d["x"][:9], d["y"][:9]
 			return d
@@ -80,7 +80,7 @@ func TestFitBadInput(t *testing.T) {
 	}{{"x", 7, math.NaN()}, {"y", 0, math.Inf(1)}, {"y", 59, math.Inf(-1)}} {
 		d := good()
 		d[tc.series][tc.index] = tc.v
-		_, err := Fit(context.Background(), fitMCModel(), d, nil)
+		_, err := Fit(context.Background(), mcModel(), d, nil)
 		var se *errs.SampleError
 		if !errors.As(err, &se) || se.Op != "tf.Fit" || se.Series != tc.series || se.Index != tc.index || !errors.Is(err, ErrSample) {
 			t.Errorf("%v at %s[%d]: got %v", tc.v, tc.series, tc.index, err)
@@ -89,7 +89,7 @@ func TestFitBadInput(t *testing.T) {
 	// Extra series are accepted on request.
 	d := good()
 	d["xx"] = x
-	if _, err := Fit(context.Background(), fitMCModel(), d, &FitSettings{IgnoreExtra: true}); err != nil {
+	if _, err := Fit(context.Background(), mcModel(), d, &FitSettings{IgnoreExtra: true}); err != nil {
 		t.Errorf("IgnoreExtra: %v", err)
 	}
 }
@@ -97,9 +97,9 @@ func TestFitBadInput(t *testing.T) {
 // TestFitDoesNotModify checks that Fit leaves the model and the data as
 // they were.
 func TestFitDoesNotModify(t *testing.T) {
-	y, x := fitMCSim(fitRand(10), 200)
+	y, x := mcSim(newRand(10), 200)
 	data := map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
-	m := fitMCModel()
+	m := mcModel()
 	m0 := m.Clone()
 	est, err := Fit(context.Background(), m, data, nil)
 	if err != nil {
@@ -127,10 +127,10 @@ func TestFitDoesNotModify(t *testing.T) {
 // point so far and says so, in the error (wrapping the context's error)
 // as well as in the estimate.
 func TestFitCancel(t *testing.T) {
-	y, x := fitMCSim(fitRand(11), 400)
+	y, x := mcSim(newRand(11), 400)
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	est, err := Fit(ctx, fitMCModel(), map[string][]float64{"y": y, "x": x}, nil)
+	est, err := Fit(ctx, mcModel(), map[string][]float64{"y": y, "x": x}, nil)
 	var ie *InterruptedError
 	if !errors.Is(err, context.Canceled) || !errors.Is(err, ErrConvergence) || !errors.As(err, &ie) || ie.Series != "y" || ie.Op != "tf.Fit" ||
 		!strings.HasPrefix(err.Error(), `tf.Fit: fit of "y" interrupted after `) || !strings.Contains(err.Error(), "best point") ||
@@ -165,10 +165,9 @@ func TestFitNegativeDelay(t *testing.T) {
 
 // Negative or NaN settings are *SettingError values naming the field,
 // and a sample so large that its square overflows is a *SampleError
-// with its limit (a huge sample used to surface as "too few
-// observations").
+// with its limit (not an error about the number of observations).
 func TestFitBadSettingsAndMagnitude(t *testing.T) {
-	y, x := fitMCSim(fitRand(9), 80)
+	y, x := mcSim(newRand(9), 80)
 	data := map[string][]float64{"y": y, "x": x}
 	for _, tc := range []struct {
 		set FitSettings
@@ -180,7 +179,7 @@ func TestFitBadSettingsAndMagnitude(t *testing.T) {
 		{FitSettings{Tol: math.NaN()}, "tf.Fit: FitSettings.Tol = NaN: must be a finite number, zero or positive (0 means 1e-14 up to 10^4 residuals, rising to 1e-9 at 10^5)"},
 		{FitSettings{Tol: 1}, "tf.Fit: FitSettings.Tol = 1: must be below 1 (a relative reduction of the sum of squares; 0 means the default)"},
 	} {
-		_, err := Fit(context.Background(), fitMCModel(), data, &tc.set)
+		_, err := Fit(context.Background(), mcModel(), data, &tc.set)
 		var se *SettingError
 		if !errors.As(err, &se) || !errors.Is(err, ErrSetting) || err.Error() != tc.msg {
 			t.Errorf("settings %+v: err = %v, want *SettingError %q", tc.set, err, tc.msg)
@@ -192,7 +191,7 @@ func TestFitBadSettingsAndMagnitude(t *testing.T) {
 	}
 	big := map[string][]float64{"y": append([]float64(nil), y...), "x": x}
 	big["y"][40] = -2e150
-	_, err := Fit(context.Background(), fitMCModel(), big, nil)
+	_, err := Fit(context.Background(), mcModel(), big, nil)
 	var se *errs.SampleError
 	if want := `tf.Fit: series "y" sample 40 is -2e+150, beyond the largest magnitude accepted, 1e+150 (rescale the series: change its units)`; !errors.As(err, &se) || se.Index != 40 || err.Error() != want {
 		t.Fatalf("sample -2e150: err = %v, want *SampleError %q", err, want)

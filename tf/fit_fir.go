@@ -1,6 +1,6 @@
 package tf
 
-// fitFIR writes (or, with add, adds) into dst the moving-average filter
+// fir writes (or, with add, adds) into dst the moving-average filter
 // c(B) applied to x at t = t0 .. t0+len(dst)-1:
 //
 //	dst[t-t0] (+)= sum_{k} c[k] x[t-k],  x[t-k] = 0 for t-k < 0,
@@ -8,7 +8,7 @@ package tf
 // reading the history x[t0-deg .. t0-1] from x itself. Every output is
 // independent of the others, so the loop runs at memory throughput
 // rather than at the latency of a recursion; it allocates nothing.
-func fitFIR(dst, c, x []float64, t0 int, add bool) {
+func fir(dst, c, x []float64, t0 int, add bool) {
 	// Leading zero coefficients are a pure delay: filter x at t0-l by
 	// the rest. Trailing zeros add nothing.
 	l := 0
@@ -53,7 +53,14 @@ func fitFIR(dst, c, x []float64, t0 int, add bool) {
 	if start >= n {
 		return
 	}
-	d := dst[start-t0 : n-t0]
+	firRun(dst[start-t0:n-t0], c, x, start, add)
+}
+
+// firRun is the steady part of fir, where every x[t-k] lies in x:
+// d[i] (+)= sum_k c[k] x[start+i-k], with the sums of up to three
+// coefficients unrolled (the common orders) and longer filters handed to
+// firRunLong.
+func firRun(d, c, x []float64, start int, add bool) {
 	m := len(d)
 	switch len(c) {
 	case 1:
@@ -96,6 +103,17 @@ func fitFIR(dst, c, x []float64, t0 int, add bool) {
 				d[i] = c0*x0[i] + c1*x1[i] + c2*x2[i]
 			}
 		}
+	default:
+		firRunLong(d, c, x, start, add)
+	}
+}
+
+// firRunLong is firRun for four or more coefficients: four and five
+// unrolled, higher orders (seasonal lags) one pass per non-zero
+// coefficient.
+func firRunLong(d, c, x []float64, start int, add bool) {
+	m := len(d)
+	switch len(c) {
 	case 4:
 		c0, c1, c2, c3 := c[0], c[1], c[2], c[3]
 		x0, x1, x2, x3 := x[start:start+m], x[start-1:start-1+m], x[start-2:start-2+m], x[start-3:start-3+m]
@@ -138,8 +156,8 @@ func fitFIR(dst, c, x []float64, t0 int, add bool) {
 	}
 }
 
-// fitIsOne reports whether c is the constant polynomial 1.
-func fitIsOne(c []float64) bool {
+// isOne reports whether c is the constant polynomial 1.
+func isOne(c []float64) bool {
 	if len(c) == 0 || c[0] != 1 {
 		return false
 	}

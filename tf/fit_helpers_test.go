@@ -10,31 +10,31 @@ import (
 
 // Test helpers that build models in code (no parser needed).
 
-// fitTerm returns a term: a named free coefficient (name != "") with start
+// mkTerm returns a term: a named free coefficient (name != "") with start
 // value v, or the fixed number v; neg gives the minus sign as written.
-func fitTerm(neg bool, name string, v float64, power int) Term {
+func mkTerm(neg bool, name string, v float64, power int) Term {
 	c := Coef{Name: name, Value: v, Free: name != ""}
 	return Term{Neg: neg, Coef: c, Power: power}
 }
 
-// fitFac returns the factor (terms)^1.
-func fitFac(ts ...Term) Factor { return Factor{Terms: ts, Exp: 1} }
+// mkFactor returns the factor (terms)^1.
+func mkFactor(ts ...Term) Factor { return Factor{Terms: ts, Exp: 1} }
 
-// fitP returns the product of the factors.
-func fitP(fs ...Factor) Poly { return Poly{Factors: fs} }
+// mkPoly returns the product of the factors.
+func mkPoly(fs ...Factor) Poly { return Poly{Factors: fs} }
 
-// fitOneMinus returns (1 - name B^k).
-func fitOneMinus(name string, k int) Poly {
-	return fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, name, 0, k)))
+// oneMinus returns (1 - name B^k).
+func oneMinus(name string, k int) Poly {
+	return mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, name, 0, k)))
 }
 
-// fitDiff1 is (1 - B).
-var fitDiff1 = fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "", 1, 1)))
+// diff1 is (1 - B).
+var diff1 = mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 1, 1)))
 
 // fitSim simulates u = num/den B^b x plus theta/phi a with zero
 // pre-sample values after a burn-in of the noise; returns output and
 // input(s). x is white or AR(1) Gaussian.
-func fitSimNoise(rng *rand.Rand, n int, ar, ma []float64, sd float64) []float64 {
+func simNoise(rng *rand.Rand, n int, ar, ma []float64, sd float64) []float64 {
 	burn := 500
 	e := make([]float64, n+burn)
 	for i := range e {
@@ -45,13 +45,13 @@ func fitSimNoise(rng *rand.Rand, n int, ar, ma []float64, sd float64) []float64 
 	return out[burn:]
 }
 
-func fitSimAR1(rng *rand.Rand, n int, phi float64) []float64 {
-	return fitSimNoise(rng, n, []float64{1, -phi}, []float64{1}, 1)
+func simAR1(rng *rand.Rand, n int, phi float64) []float64 {
+	return simNoise(rng, n, []float64{1, -phi}, []float64{1}, 1)
 }
 
 var _ = arma.Noise{}
 
-func fitRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, seed+1)) }
+func newRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, seed+1)) }
 
 // tfHasKind reports whether err matches one of the library's kinds of
 // error with errors.Is (every error of the package must).

@@ -8,21 +8,21 @@ import (
 	"github.com/backshift/backshift/arma"
 )
 
-// fitJacModel is a model with two inputs, differencing, a constant, a
+// jacModel is a model with two inputs, differencing, a constant, a
 // product of MA factors and a parameter shared between two places.
-func fitJacModel() Model {
-	num1 := fitP(fitFac(fitTerm(false, "w0", 0.8, 0), fitTerm(true, "w1", 0.3, 1)))
-	den1 := fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "d1", 0.5, 1)))
-	num2 := fitP(fitFac(fitTerm(false, "v0", -1.2, 0)))
-	den2 := fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "e1", 0.4, 1), fitTerm(false, "e2", 0.2, 2)))
-	ma := fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "t1", 0.3, 1)),
-		Factor{Terms: []Term{fitTerm(false, "", 1, 0), fitTerm(true, "T1", 0.2, 4)}, Exp: 2})
-	ar := fitP(fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "p1", 0.6, 1)), fitFac(fitTerm(false, "", 1, 0), fitTerm(true, "d1", 0.5, 2)))
+func jacModel() Model {
+	num1 := mkPoly(mkFactor(mkTerm(false, "w0", 0.8, 0), mkTerm(true, "w1", 0.3, 1)))
+	den1 := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "d1", 0.5, 1)))
+	num2 := mkPoly(mkFactor(mkTerm(false, "v0", -1.2, 0)))
+	den2 := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "e1", 0.4, 1), mkTerm(false, "e2", 0.2, 2)))
+	ma := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "t1", 0.3, 1)),
+		Factor{Terms: []Term{mkTerm(false, "", 1, 0), mkTerm(true, "T1", 0.2, 4)}, Exp: 2})
+	ar := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "p1", 0.6, 1)), mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "d1", 0.5, 2)))
 	c := Coef{Name: "c", Value: 0.1, Free: true}
 	return Model{
-		Output: "y", Diff: fitDiff1, Const: &c,
+		Output: "y", Diff: diff1, Const: &c,
 		Inputs: []Input{
-			{Series: "x1", Diff: fitDiff1, Num: num1, Den: den1, Delay: 2},
+			{Series: "x1", Diff: diff1, Num: num1, Den: den1, Delay: 2},
 			{Series: "x2", Num: num2, Den: den2, Delay: 1},
 		},
 		Noise: &arma.Noise{MA: ma, AR: ar},
@@ -34,14 +34,14 @@ func fitJacModel() Model {
 // error is O(h^2) ~ 1e-12 relative and rounding ~ 1e-10, so 1e-6 relative
 // to the column's scale is a safe bound).
 func TestFitJacobianFiniteDifference(t *testing.T) {
-	data := fitJacData(300)
+	data := jacData(300)
 	for _, zero := range []bool{false, true} {
-		fitJacCheck(t, data, FitSettings{ZeroPreSample: zero})
+		jacCheck(t, data, FitSettings{ZeroPreSample: zero})
 	}
 }
 
-// fitJacData is n samples of noise with a trend in y, x1 and x2.
-func fitJacData(n int) map[string][]float64 {
+// jacData is n samples of noise with a trend in y, x1 and x2.
+func jacData(n int) map[string][]float64 {
 	rng := rand.New(rand.NewPCG(1, 2))
 	data := map[string][]float64{"y": make([]float64, n), "x1": make([]float64, n), "x2": make([]float64, n)}
 	for _, k := range []string{"y", "x1", "x2"} {
@@ -52,8 +52,8 @@ func fitJacData(n int) map[string][]float64 {
 	return data
 }
 
-func fitJacCheck(t *testing.T, data map[string][]float64, set FitSettings) {
-	w, err := fitPrepare(fitJacModel(), data, set)
+func jacCheck(t *testing.T, data map[string][]float64, set FitSettings) {
+	w, err := prepareFit(jacModel(), data, set)
 	if err != nil {
 		t.Fatal(err)
 	}

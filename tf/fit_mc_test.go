@@ -10,7 +10,7 @@ import (
 	"github.com/backshift/backshift/internal/filter"
 )
 
-// fitMCModel is the Monte Carlo model of our own: b = 3, s = 1, r = 1 and
+// mcModel is the Monte Carlo model of our own: b = 3, s = 1, r = 1 and
 // AR(1) noise with a constant,
 //
 //	y_t = c + (w0 - w1 B)/(1 - d1 B) B^3 x_t + 1/(1 - p1 B) a_t,
@@ -19,25 +19,25 @@ import (
 // x an AR(1) input (phi 0.5, unit innovations). The numerator zero
 // (z = -0.53) is far from the pole (0.6): a nearly cancelling pair would
 // make the surface strongly non-quadratic and the SEs unreliable at n = 400.
-func fitMCModel() Model {
+func mcModel() Model {
 	c := Coef{Name: "c", Free: true}
-	num := fitP(fitFac(fitTerm(false, "w0", 0, 0), fitTerm(true, "w1", 0, 1)))
+	num := mkPoly(mkFactor(mkTerm(false, "w0", 0, 0), mkTerm(true, "w1", 0, 1)))
 	return Model{Output: "y", Const: &c,
-		Inputs: []Input{{Series: "x", Num: num, Den: fitOneMinus("d1", 1), Delay: 3}},
-		Noise:  &arma.Noise{AR: fitOneMinus("p1", 1)}}
+		Inputs: []Input{{Series: "x", Num: num, Den: oneMinus("d1", 1), Delay: 3}},
+		Noise:  &arma.Noise{AR: oneMinus("p1", 1)}}
 }
 
-var fitMCTruth = map[string]float64{"c": 2, "w0": 1.5, "w1": -0.8, "d1": 0.6, "p1": 0.5}
+var mcTruth = map[string]float64{"c": 2, "w0": 1.5, "w1": -0.8, "d1": 0.6, "p1": 0.5}
 
-// fitMCSim simulates n samples of fitMCModel with long burn-ins, so that
+// mcSim simulates n samples of mcModel with long burn-ins, so that
 // the series are draws from the stationary process.
-func fitMCSim(rng *rand.Rand, n int) (y, x []float64) {
+func mcSim(rng *rand.Rand, n int) (y, x []float64) {
 	burn := 200
 	m := n + burn
-	xa := fitSimAR1(rng, m, 0.5)
+	xa := simAR1(rng, m, 0.5)
 	u := make([]float64, m)
 	filter.Run(u[3:], []float64{1.5, 0.8}, []float64{1, -0.6}, xa[:m-3])
-	e := fitSimAR1(rng, m, 0.5)
+	e := simAR1(rng, m, 0.5)
 	ya := make([]float64, m)
 	for i := range ya {
 		ya[i] = 2 + u[i] + e[i]
@@ -45,15 +45,15 @@ func fitMCSim(rng *rand.Rand, n int) (y, x []float64) {
 	return ya[burn:], xa[burn:]
 }
 
-// fitMCReplicate simulates n + h samples of fitMCModel and fits the
+// mcReplicate simulates n + h samples of mcModel and fits the
 // model to the first n, failing the test on error. It returns the whole
 // simulated series (the last h samples are the future), the estimate and
 // the fitted data.
-func fitMCReplicate(t *testing.T, rng *rand.Rand, n, h int) (y, x []float64, est *Estimate, data map[string][]float64) {
+func mcReplicate(t *testing.T, rng *rand.Rand, n, h int) (y, x []float64, est *Estimate, data map[string][]float64) {
 	t.Helper()
-	y, x = fitMCSim(rng, n+h)
+	y, x = mcSim(rng, n+h)
 	data = map[string][]float64{"y": y[:n], "x": x[:n]}
-	est, err := Fit(context.Background(), fitMCModel(), data, nil)
+	est, err := Fit(context.Background(), mcModel(), data, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -73,9 +73,9 @@ func TestFitMonteCarlo(t *testing.T) {
 	cover := map[string]int{}
 	fcCover, fcTotal := 0, 0
 	for r := 0; r < reps; r++ {
-		y, x, est, data := fitMCReplicate(t, rng, n, h)
+		y, x, est, data := mcReplicate(t, rng, n, h)
 		for _, p := range est.Params {
-			if math.Abs(p.Value-fitMCTruth[p.Name]) <= 1.96*p.SE {
+			if math.Abs(p.Value-mcTruth[p.Name]) <= 1.96*p.SE {
 				cover[p.Name]++
 			}
 		}
@@ -90,7 +90,7 @@ func TestFitMonteCarlo(t *testing.T) {
 			}
 		}
 	}
-	for name := range fitMCTruth {
+	for name := range mcTruth {
 		if c := cover[name]; c < 89 || c > 99 {
 			t.Errorf("%s: 95 %% interval covers the truth in %d of %d replicates", name, c, reps)
 		}
@@ -111,7 +111,7 @@ func TestForecastInputsForecast(t *testing.T) {
 	rng := rand.New(rand.NewPCG(77, 78))
 	in, total := 0, 0
 	for r := 0; r < reps; r++ {
-		y, x, est, data := fitMCReplicate(t, rng, n, h)
+		y, x, est, data := mcReplicate(t, rng, n, h)
 		fc, err := est.Forecast(data, h, nil)
 		if err != nil {
 			t.Fatal(err)

@@ -19,23 +19,23 @@ import (
 // block), short and long series; the finite-difference test checks the
 // stored columns themselves. Run it with -race to check the sharing.
 func TestFitNormalBlocked(t *testing.T) {
-	ma := fitBenchModel()
-	ma.Noise.MA = fitOneMinus("t1", 1)
+	ma := benchModel()
+	ma.Noise.MA = oneMinus("t1", 1)
 	cases := []struct {
 		name string
 		m    Model
 		data map[string][]float64
 		x    []float64
 	}{
-		{"AR(2) long", fitBenchModel(), fitBenchData(lm.NormalSplit+1000, 3), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
-		{"AR(2) short", fitBenchModel(), fitBenchData(3000, 4), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
-		{"ARMA(2,1) long", ma, fitBenchData(lm.NormalSplit+777, 5), nil},
-		{"two inputs, MA factors", fitJacModel(), fitJacData(2000), nil},
+		{"AR(2) long", benchModel(), benchData(lm.NormalSplit+1000, 3), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"AR(2) short", benchModel(), benchData(3000, 4), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"ARMA(2,1) long", ma, benchData(lm.NormalSplit+777, 5), nil},
+		{"two inputs, MA factors", jacModel(), jacData(2000), nil},
 	}
 	for _, c := range cases {
 		for _, procs := range []int{1, 2} {
 			old := runtime.GOMAXPROCS(procs)
-			w, err := fitPrepare(c.m, c.data, FitSettings{})
+			w, err := prepareFit(c.m, c.data, FitSettings{})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -57,7 +57,7 @@ func TestFitNormalBlocked(t *testing.T) {
 			if err := w.eval(x, r, jac); err != nil {
 				t.Fatal(err)
 			}
-			want := fitStoredProducts(jac, r)
+			want := storedProducts(jac, r)
 			r2 := make([]float64, m)
 			got := make([]float64, k*(k+1))
 			if err := w.normalEval(x, r2, got); err != nil {
@@ -79,13 +79,13 @@ func TestFitNormalBlocked(t *testing.T) {
 			runtime.GOMAXPROCS(old)
 		}
 	}
-	if _, err := Fit(context.Background(), fitBenchModel(), fitBenchData(lm.NormalSplit+1000, 3), nil); err != nil {
+	if _, err := Fit(context.Background(), benchModel(), benchData(lm.NormalSplit+1000, 3), nil); err != nil {
 		t.Fatal(err)
 	}
 }
 
-// fitStoredProducts multiplies stored columns out as lm does.
-func fitStoredProducts(jac [][]float64, r []float64) []float64 {
+// storedProducts multiplies stored columns out as lm does.
+func storedProducts(jac [][]float64, r []float64) []float64 {
 	k, m := len(jac), len(r)
 	rows := func(acc []float64, lo, hi int) {
 		blk := make([][]float64, k)
@@ -115,7 +115,7 @@ func fitStoredProducts(jac [][]float64, r []float64) []float64 {
 // TestFitRun1 checks the fused first-order kernel against the general
 // path (recursive filter, moving average, recursive filter) bit for bit.
 func TestFitRun1(t *testing.T) {
-	rng := fitRand(71)
+	rng := newRand(71)
 	n, b := 1000, 3
 	zc := make([]float64, n)
 	for i := range zc {
@@ -123,11 +123,11 @@ func TestFitRun1(t *testing.T) {
 	}
 	for _, c := range [][]float64{{0.7}, {0.7, -0.2}, {0.7, -0.2, 0.1}} {
 		s1, u1, q1 := make([]float64, n), make([]float64, n), make([]float64, n)
-		fitRun1(s1, u1, q1, zc, b, -0.8, c)
+		runFirstOrder(s1, u1, q1, zc, b, -0.8, c)
 		s2, u2, q2 := make([]float64, n), make([]float64, n), make([]float64, n)
-		filter.Run(s2[b:], fitOne, []float64{1, -0.8}, zc[:n-b])
-		fitFIR(u2, c, s2, 0, false)
-		filter.Run(q2, fitOne, []float64{1, -0.8}, u2)
+		filter.Run(s2[b:], unitPoly, []float64{1, -0.8}, zc[:n-b])
+		fir(u2, c, s2, 0, false)
+		filter.Run(q2, unitPoly, []float64{1, -0.8}, u2)
 		for i := 0; i < n; i++ {
 			if s1[i] != s2[i] || u1[i] != u2[i] || q1[i] != q2[i] {
 				t.Fatalf("omega %v, t=%d: fused (%v %v %v), general (%v %v %v)", c, i, s1[i], u1[i], q1[i], s2[i], u2[i], q2[i])

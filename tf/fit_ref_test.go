@@ -13,19 +13,19 @@ import (
 	"gonum.org/v1/gonum/floats/scalar"
 )
 
-// fitRefCase is one entry of testdata/fit/ref_fit.json, written by
+// refCase is one entry of testdata/fit/ref_fit.json, written by
 // testdata/fit/ref_fit.py (scipy 1.10.1 optimize.least_squares on
 // signal.lfilter residuals with the conditioning of Fit).
-type fitRefCase struct {
+type refCase struct {
 	Name  string `json:"name"`
 	File  string `json:"file"`
 	Model struct {
 		Output string      `json:"output"`
-		Diff   []fitRefFac `json:"diff"`
+		Diff   []refFactor `json:"diff"`
 		Const  string      `json:"const"`
-		Inputs []fitRefIn  `json:"inputs"`
-		MA     []fitRefFac `json:"ma"`
-		AR     []fitRefFac `json:"ar"`
+		Inputs []refInput  `json:"inputs"`
+		MA     []refFactor `json:"ma"`
+		AR     []refFactor `json:"ar"`
 	} `json:"model"`
 	Estimates  map[string]float64 `json:"estimates"`
 	SSQ        float64            `json:"ssq"`
@@ -57,15 +57,15 @@ type fitRefCase struct {
 	} `json:"checks"`
 }
 
-type fitRefIn struct {
+type refInput struct {
 	Series string      `json:"series"`
-	Diff   []fitRefFac `json:"diff"`
+	Diff   []refFactor `json:"diff"`
 	Delay  int         `json:"delay"`
-	Num    []fitRefFac `json:"num"`
-	Den    []fitRefFac `json:"den"`
+	Num    []refFactor `json:"num"`
+	Den    []refFactor `json:"den"`
 }
 
-type fitRefFac struct {
+type refFactor struct {
 	Exp   int `json:"exp"`
 	Terms []struct {
 		Power int     `json:"power"`
@@ -75,35 +75,35 @@ type fitRefFac struct {
 	} `json:"terms"`
 }
 
-func fitRefPoly(fs []fitRefFac) Poly {
+func refPoly(fs []refFactor) Poly {
 	var p Poly
 	for _, f := range fs {
 		fac := Factor{Exp: f.Exp}
 		for _, t := range f.Terms {
-			fac.Terms = append(fac.Terms, fitTerm(t.Neg, t.Name, t.Value, t.Power))
+			fac.Terms = append(fac.Terms, mkTerm(t.Neg, t.Name, t.Value, t.Power))
 		}
 		p.Factors = append(p.Factors, fac)
 	}
 	return p
 }
 
-func (c fitRefCase) model() Model {
-	m := Model{Output: c.Model.Output, Diff: fitRefPoly(c.Model.Diff)}
+func (c refCase) model() Model {
+	m := Model{Output: c.Model.Output, Diff: refPoly(c.Model.Diff)}
 	if c.Model.Const != "" {
 		m.Const = &Coef{Name: c.Model.Const, Free: true}
 	}
 	for _, in := range c.Model.Inputs {
-		m.Inputs = append(m.Inputs, Input{Series: in.Series, Diff: fitRefPoly(in.Diff), Delay: in.Delay,
-			Num: fitRefPoly(in.Num), Den: fitRefPoly(in.Den)})
+		m.Inputs = append(m.Inputs, Input{Series: in.Series, Diff: refPoly(in.Diff), Delay: in.Delay,
+			Num: refPoly(in.Num), Den: refPoly(in.Den)})
 	}
-	m.Noise = &arma.Noise{MA: fitRefPoly(c.Model.MA), AR: fitRefPoly(c.Model.AR)}
+	m.Noise = &arma.Noise{MA: refPoly(c.Model.MA), AR: refPoly(c.Model.AR)}
 	return m
 }
 
-// fitReadRef reads every case of testdata/fit/ref_fit.json.
-func fitReadRef(t testing.TB) []fitRefCase {
+// readRef reads every case of testdata/fit/ref_fit.json.
+func readRef(t testing.TB) []refCase {
 	t.Helper()
-	var cs []fitRefCase
+	var cs []refCase
 	testutil.ReadJSON(t, "testdata/fit/ref_fit.json", &cs)
 	if len(cs) == 0 {
 		t.Fatal("testdata/fit/ref_fit.json holds no cases")
@@ -111,22 +111,22 @@ func fitReadRef(t testing.TB) []fitRefCase {
 	return cs
 }
 
-// fitRefNamed returns the case of ref_fit.json with the given name,
+// refNamed returns the case of ref_fit.json with the given name,
 // failing the test when there is none.
-func fitRefNamed(t testing.TB, name string) fitRefCase {
+func refNamed(t testing.TB, name string) refCase {
 	t.Helper()
-	for _, c := range fitReadRef(t) {
+	for _, c := range readRef(t) {
 		if c.Name == name {
 			return c
 		}
 	}
 	t.Fatalf("testdata/fit/ref_fit.json has no case %q", name)
-	return fitRefCase{}
+	return refCase{}
 }
 
 // fit fits the case's model to its data with the default settings,
 // failing the test on error, and returns the estimate and the data.
-func (c fitRefCase) fit(t testing.TB) (*Estimate, map[string][]float64) {
+func (c refCase) fit(t testing.TB) (*Estimate, map[string][]float64) {
 	t.Helper()
 	data := c.data(t)
 	est, err := Fit(context.Background(), c.model(), data, nil)
@@ -136,7 +136,7 @@ func (c fitRefCase) fit(t testing.TB) (*Estimate, map[string][]float64) {
 	return est, data
 }
 
-func (c fitRefCase) data(t testing.TB) map[string][]float64 {
+func (c refCase) data(t testing.TB) map[string][]float64 {
 	t.Helper()
 	d := testutil.ReadCSV(t, filepath.Join("testdata", "fit", c.File)).Num
 	delete(d, "t")
@@ -151,7 +151,7 @@ func (c fitRefCase) data(t testing.TB) map[string][]float64 {
 // places the estimates within ~1e-7 of the minimum in units of their own
 // scale).
 func TestFitAgainstScipy(t *testing.T) {
-	for _, c := range fitReadRef(t) {
+	for _, c := range readRef(t) {
 		t.Run(c.Name, func(t *testing.T) {
 			est, _ := c.fit(t)
 			if est.N != c.NResid || est.Conditioning.First != c.First || est.Conditioning.NoiseStart != c.NoiseStart {
@@ -186,7 +186,7 @@ func TestFitAgainstScipy(t *testing.T) {
 // between reasonable conventions); they are checked against scipy in
 // TestFitAgainstScipy and only recorded here.
 func TestFitBJsalesPublished(t *testing.T) {
-	est, _ := fitRefNamed(t, "bjsales").fit(t)
+	est, _ := refNamed(t, "bjsales").fit(t)
 	d1, _ := est.Param("d1")
 	cc, _ := est.Param("c")
 	if math.Abs(d1.Value-0.72) > 0.01 {
@@ -205,7 +205,7 @@ func TestFitBJsalesPublished(t *testing.T) {
 // variance with the counts it is formed from, and that every coefficient
 // has a row.
 func TestEstimateStringWording(t *testing.T) {
-	est, _ := fitRefNamed(t, "bjsales").fit(t)
+	est, _ := refNamed(t, "bjsales").fit(t)
 	s := est.String()
 	k := len(est.Params)
 	want := []string{
@@ -214,7 +214,7 @@ func TestEstimateStringWording(t *testing.T) {
 		fmt.Sprintf("the %d residuals from index %d on", est.N, est.Conditioning.First),
 		"coefficient", "value", "standard error", "value/se",
 		fmt.Sprintf("noise variance %s from %d residuals less %d coefficients (sum of squares %s / %d)",
-			fitNum(est.Sigma2, 5), est.N, k, fitNum(est.SSQ, 6), est.N-k),
+			formatSig(est.Sigma2, 5), est.N, k, formatSig(est.SSQ, 6), est.N-k),
 		"information criteria AIC",
 	}
 	for _, p := range est.Params {

@@ -72,7 +72,7 @@ func TestFitSpecRoundTrip(t *testing.T) {
 	}
 	for i, p := range again.Params {
 		q := est.Params[i]
-		if p.Name != q.Name || p.Start != q.Value || !(fitAbs(p.Value-q.Value) <= 1e-6*fitAbs(q.Value)) {
+		if p.Name != q.Name || p.Start != q.Value || !(absValue(p.Value-q.Value) <= 1e-6*absValue(q.Value)) {
 			t.Errorf("%s: refit %v from start %v, first fit %v", p.Name, p.Value, p.Start, q.Value)
 		}
 	}
@@ -81,7 +81,7 @@ func TestFitSpecRoundTrip(t *testing.T) {
 	}
 }
 
-func fitAbs(x float64) float64 {
+func absValue(x float64) float64 {
 	if x < 0 {
 		return -x
 	}

@@ -15,7 +15,7 @@ import (
 // the pole estimate back within 3 SE of the truth, where the plain fit
 // is biased.
 func TestFitSettle(t *testing.T) {
-	rng := fitRand(41)
+	rng := newRand(41)
 	n := 2000
 	pre := 300
 	x := make([]float64, n+pre)
@@ -33,7 +33,7 @@ func TestFitSettle(t *testing.T) {
 	}
 	data := map[string][]float64{"y": y, "x": x[pre:]}
 	m := Model{Output: "y", Const: &Coef{Name: "c", Free: true},
-		Inputs: []Input{{Series: "x", Num: fitP(fitFac(fitTerm(false, "w0", 0, 0))), Den: fitOneMinus("d1", 1), Delay: 1}}}
+		Inputs: []Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 1}}}
 	plain, err := Fit(context.Background(), m, data, nil)
 	if err != nil {
 		t.Fatal(err)

@@ -10,11 +10,11 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// fitStartWindow caps the samples used for computed start values.
-const fitStartWindow = 20000
+// startWindow caps the samples used for computed start values.
+const startWindow = 20000
 
-// fitNeedsStart reports whether p has free coefficients that are all zero.
-func (w *fitWork) fitNeedsStart(p Poly) bool {
+// needsStart reports whether p has free coefficients that are all zero.
+func (w *fitWork) needsStart(p Poly) bool {
 	free, nonzero := false, false
 	p.Each(func(c *Coef) {
 		if w.idx(c.Name) >= 0 {
@@ -33,18 +33,18 @@ func (w *fitWork) startCandidates() [][]float64 {
 	needIn := constStart
 	for i := range w.ins {
 		in := w.ins[i].in
-		if w.fitNeedsStart(in.Num) || w.fitNeedsStart(in.Den) {
+		if w.needsStart(in.Num) || w.needsStart(in.Den) {
 			needIn = true
 		}
 	}
 	if needIn {
-		w.fitImpulseStart(constStart)
+		w.startInputs(constStart)
 	}
 	noiseFree := false
 	w.ma.Each(func(c *Coef) { noiseFree = noiseFree || w.idx(c.Name) >= 0 })
 	w.ar.Each(func(c *Coef) { noiseFree = noiseFree || w.idx(c.Name) >= 0 })
-	if w.fitNeedsStart(w.ar) || w.fitNeedsStart(w.ma) {
-		w.fitNoiseStart()
+	if w.needsStart(w.ar) || w.needsStart(w.ma) {
+		w.startNoise()
 	}
 	primary := w.params()
 	cands := [][]float64{primary}
@@ -60,30 +60,7 @@ func (w *fitWork) startCandidates() [][]float64 {
 		cands = append(cands, x)
 	}
 	for _, f := range []float64{0.5, 1.5} {
-		x := append([]float64(nil), primary...)
-		changed := false
-		for i := range w.ins {
-			if !w.ins[i].denFree {
-				continue
-			}
-			w.ins[i].in.Den.Each(func(c *Coef) {
-				if k := w.idx(c.Name); k >= 0 {
-					x[k] = primary[k] * f
-					changed = changed || primary[k] != 0
-				}
-			})
-		}
-		if !changed {
-			continue
-		}
-		w.set(x)
-		ok := true
-		for i := range w.ins {
-			if fitMaxZ(w.ins[i].in.Den.Coeffs()) >= 0.99 {
-				ok = false
-			}
-		}
-		if ok {
+		if x := w.scaledDenominators(primary, f); x != nil {
 			cands = append(cands, x)
 		}
 	}
@@ -91,18 +68,51 @@ func (w *fitWork) startCandidates() [][]float64 {
 	return cands
 }
 
-// fitMaxZ returns the largest magnitude of the z-plane roots (1/roots in
+// scaledDenominators returns primary with the free denominator
+// coefficients scaled by f, or nil when that changes nothing or leaves a
+// pole at |z| >= 0.99. It leaves the values of w set to the result.
+func (w *fitWork) scaledDenominators(primary []float64, f float64) []float64 {
+	x := append([]float64(nil), primary...)
+	changed := false
+	for i := range w.ins {
+		if !w.ins[i].denFree {
+			continue
+		}
+		w.ins[i].in.Den.Each(func(c *Coef) {
+			if k := w.idx(c.Name); k >= 0 {
+				x[k] = primary[k] * f
+				changed = changed || primary[k] != 0
+			}
+		})
+	}
+	if !changed {
+		return nil
+	}
+	w.set(x)
+	ok := true
+	for i := range w.ins {
+		if maxZ(w.ins[i].in.Den.Coeffs()) >= 0.99 {
+			ok = false
+		}
+	}
+	if !ok {
+		return nil
+	}
+	return x
+}
+
+// maxZ returns the largest magnitude of the z-plane roots (1/roots in
 // B) of the polynomial c, 0 for a constant.
-func fitMaxZ(c []float64) float64 {
+func maxZ(c []float64) float64 {
 	m := 0.0
-	for _, z := range fitZRoots(c) {
+	for _, z := range zRoots(c) {
 		m = math.Max(m, cmplx.Abs(z))
 	}
 	return m
 }
 
-// fitZRoots returns the z-plane roots of c: the roots of B^deg c(1/B).
-func fitZRoots(c []float64) []complex128 {
+// zRoots returns the z-plane roots of c: the roots of B^deg c(1/B).
+func zRoots(c []float64) []complex128 {
 	c = poly.Trim(c, 0)
 	if len(c) <= 1 {
 		return nil
@@ -114,9 +124,9 @@ func fitZRoots(c []float64) []complex128 {
 	return zs
 }
 
-// fitImpulseStart sets start values of the inputs' polynomials (and the
+// startInputs sets start values of the inputs' polynomials (and the
 // constant) from least-squares impulse-response weights.
-func (w *fitWork) fitImpulseStart(constStart bool) {
+func (w *fitWork) startInputs(constStart bool) {
 	n := w.n
 	lags := make([]int, len(w.ins))
 	for attempt := 0; attempt < 2; attempt++ {
@@ -136,11 +146,11 @@ func (w *fitWork) fitImpulseStart(constStart bool) {
 			tr = max(tr, w.ins[i].d+in.Delay+lags[i])
 			p += lags[i] + 1
 		}
-		tr = max(tr, n-fitStartWindow)
+		tr = max(tr, n-startWindow)
 		if n-tr < p+5 {
 			continue
 		}
-		coef, ok := fitOLS(w, tr, lags, p)
+		coef, ok := ols(w, tr, lags, p)
 		if !ok {
 			continue
 		}
@@ -155,12 +165,12 @@ func (w *fitWork) fitImpulseStart(constStart bool) {
 			in := w.ins[i].in
 			v := coef[off : off+lags[i]+1]
 			off += lags[i] + 1
-			num, den := fitPade(v, in.Num.Degree(), in.Den.Degree())
-			if w.fitNeedsStart(in.Den) {
-				w.fitMatch(in.Den, den)
+			num, den := pade(v, in.Num.Degree(), in.Den.Degree())
+			if w.needsStart(in.Den) {
+				w.matchTarget(in.Den, den)
 			}
-			if w.fitNeedsStart(in.Num) {
-				w.fitMatch(in.Num, num)
+			if w.needsStart(in.Num) {
+				w.matchTarget(in.Num, num)
 			}
 		}
 		return
@@ -176,9 +186,9 @@ func (w *fitWork) withValue(name string, v float64) []float64 {
 	return x
 }
 
-// fitOLS regresses w_t on [1,] z_i,t-b_i-k (k = 0..lags[i]) over t in
+// ols regresses w_t on [1,] z_i,t-b_i-k (k = 0..lags[i]) over t in
 // [tr, n) and returns the coefficients.
-func fitOLS(w *fitWork, tr int, lags []int, p int) ([]float64, bool) {
+func ols(w *fitWork, tr int, lags []int, p int) ([]float64, bool) {
 	n := w.n
 	acc := make([]float64, p*p)
 	xty := make([]float64, p)
@@ -235,12 +245,12 @@ func fitOLS(w *fitWork, tr int, lags []int, p int) ([]float64, bool) {
 	return out, true
 }
 
-// fitPade turns impulse-response weights v_0..v_K (from the dead time on)
+// pade turns impulse-response weights v_0..v_K (from the dead time on)
 // into numerator (degree s) and denominator (degree r) coefficients as
 // stored: sum_{l=0..r} den_l v_{j-l} = 0 for j > s (least squares over
 // j = s+1..K), num_j = sum_{l=0..min(j,r)} den_l v_{j-l} for j <= s. An
 // unstable or unsolvable denominator falls back to 1.
-func fitPade(v []float64, s, r int) (num, den []float64) {
+func pade(v []float64, s, r int) (num, den []float64) {
 	den = make([]float64, r+1)
 	den[0] = 1
 	vk := func(j int) float64 {
@@ -266,7 +276,7 @@ func fitPade(v []float64, s, r int) (num, den []float64) {
 			for l := 1; l <= r; l++ {
 				den[l] = sol.AtVec(l - 1)
 			}
-			if fitMaxZ(den) >= 0.98 || math.IsNaN(den[1]) {
+			if maxZ(den) >= 0.98 || math.IsNaN(den[1]) {
 				clear(den[1:])
 			}
 		}
@@ -280,11 +290,11 @@ func fitPade(v []float64, s, r int) (num, den []float64) {
 	return num, den
 }
 
-// fitNoiseStart sets the noise polynomials' start values by
+// startNoise sets the noise polynomials' start values by
 // Hannan-Rissanen on n_t implied by the current input values.
-func (w *fitWork) fitNoiseStart() {
+func (w *fitWork) startNoise() {
 	w.noiseSeries()
-	lo := max(w.cond.NoiseStart, w.n-fitStartWindow)
+	lo := max(w.cond.NoiseStart, w.n-startWindow)
 	x := w.nn[lo:w.n]
 	mean := 0.0
 	for _, v := range x {
@@ -295,42 +305,30 @@ func (w *fitWork) fitNoiseStart() {
 	for i, v := range x {
 		xc[i] = v - mean
 	}
-	phi, theta, err := fitARMA(xc, w.ar.Degree(), w.ma.Degree())
+	phi, theta, err := hannanRissanen(xc, w.ar.Degree(), w.ma.Degree())
 	if err != nil {
 		return
 	}
 	before := w.params()
-	if w.fitNeedsStart(w.ar) {
-		w.fitMatch(w.ar, phi)
+	if w.needsStart(w.ar) {
+		w.matchTarget(w.ar, phi)
 	}
-	if w.fitNeedsStart(w.ma) {
-		w.fitMatch(w.ma, theta)
+	if w.needsStart(w.ma) {
+		w.matchTarget(w.ma, theta)
 	}
-	if fitMaxZ(w.ar.Coeffs()) >= 0.99 || fitMaxZ(w.ma.Coeffs()) >= 0.99 {
+	if maxZ(w.ar.Coeffs()) >= 0.99 || maxZ(w.ma.Coeffs()) >= 0.99 {
 		w.set(before)
 	}
 }
 
-// fitMatch sets the free coefficients of p so that its expanded
+// matchTarget sets the free coefficients of p so that its expanded
 // coefficients match target (index k = B^k) in least squares. Parameters
 // not in p are unchanged.
-func (w *fitWork) fitMatch(p Poly, target []float64) {
-	local := map[string]int{}
-	var ids []int
-	p.Each(func(c *Coef) {
-		k := w.idx(c.Name)
-		if k < 0 {
-			return
-		}
-		if _, ok := local[c.Name]; !ok {
-			local[c.Name] = len(ids)
-			ids = append(ids, k)
-		}
-	})
+func (w *fitWork) matchTarget(p Poly, target []float64) {
+	local, ids := w.polyParams(p)
 	if len(ids) == 0 {
 		return
 	}
-	m := p.Degree() + 1
 	orig := w.params()
 	x := w.params()
 	x0 := make([]float64, len(ids))
@@ -343,31 +341,13 @@ func (w *fitWork) fitMatch(p Poly, target []float64) {
 		}
 		return -1
 	}
-	prob := lm.Problem{M: m, N: len(ids), Eval: func(xl, r []float64, jac [][]float64) error {
+	prob := lm.Problem{M: p.Degree() + 1, N: len(ids), Eval: func(xl, r []float64, jac [][]float64) error {
 		for j, k := range ids {
 			x[k] = xl[j]
 		}
 		w.set(x)
 		c, d := p.Grad(li, len(ids))
-		for i := range r {
-			t := 0.0
-			if i < len(target) {
-				t = target[i]
-			}
-			r[i] = 0
-			if i < len(c) {
-				r[i] = c[i]
-			}
-			r[i] -= t
-		}
-		for j := range jac {
-			for i := range jac[j] {
-				jac[j][i] = 0
-				if d[j] != nil && i < len(d[j]) {
-					jac[j][i] = d[j][i]
-				}
-			}
-		}
+		matchResiduals(r, jac, c, d, target)
 		return nil
 	}}
 	res, err := lm.Minimize(context.Background(), prob, x0, &lm.Settings{MaxIter: 100})
@@ -379,4 +359,46 @@ func (w *fitWork) fitMatch(p Poly, target []float64) {
 		x[k] = res.X[j]
 	}
 	w.set(x)
+}
+
+// polyParams returns the parameter indices of the free coefficients of
+// p in order of first appearance, and each name's position among them.
+func (w *fitWork) polyParams(p Poly) (local map[string]int, ids []int) {
+	local = map[string]int{}
+	p.Each(func(c *Coef) {
+		k := w.idx(c.Name)
+		if k < 0 {
+			return
+		}
+		if _, ok := local[c.Name]; !ok {
+			local[c.Name] = len(ids)
+			ids = append(ids, k)
+		}
+	})
+	return local, ids
+}
+
+// matchResiduals sets r to the coefficients c less the target (both
+// taken as 0 beyond their length) and the columns of jac to the
+// derivatives d (nil for none).
+func matchResiduals(r []float64, jac [][]float64, c []float64, d [][]float64, target []float64) {
+	for i := range r {
+		t := 0.0
+		if i < len(target) {
+			t = target[i]
+		}
+		r[i] = 0
+		if i < len(c) {
+			r[i] = c[i]
+		}
+		r[i] -= t
+	}
+	for j := range jac {
+		for i := range jac[j] {
+			jac[j][i] = 0
+			if d[j] != nil && i < len(d[j]) {
+				jac[j][i] = d[j][i]
+			}
+		}
+	}
 }

@@ -45,7 +45,7 @@ func TestSettingsValidate(t *testing.T) {
 // names its ranking criterion (it printed "score" for the BIC) and the
 // structure in the one spelling.
 func TestCandidateStringNamesCriterion(t *testing.T) {
-	data := idfTrapData()
+	data := identifyTrapData()
 	for _, byAIC := range []bool{false, true} {
 		cands, err := Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{NoRefine: true, MaxCandidates: 2, ByAIC: byAIC})
 		if err != nil {
@@ -69,7 +69,7 @@ func TestCandidateStringNamesCriterion(t *testing.T) {
 // data check run inside Check and Forecast says tf.Check and
 // tf.Estimate.Forecast, not tf.Fit.
 func TestErrorsOfInnerStagesNameTheCaller(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	short := map[string][]float64{"y": data["y"], "x": data["x"][:100]}
 	_, err := Check(est, short, nil)
 	var se *SeriesError

@@ -99,30 +99,30 @@ func (k WarningKind) Serious() bool {
 
 // Thresholds of the warnings (common practice, not from a source).
 const (
-	fitBoundaryZ   = 0.999
-	fitCancelDist  = 0.05
-	fitCorrWarning = 0.95
-	// FewResiduals fires when N < max(fitFewMin, fitFewPerParam k) for
+	boundaryZ   = 0.999
+	cancelDist  = 0.05
+	corrWarning = 0.95
+	// FewResiduals fires when N < max(fewMin, fewPerParam k) for
 	// k free coefficients: about 50 observations as the least for a
 	// time-series model (Box, Jenkins & Reinsel's rule of thumb) and ten
 	// residuals per coefficient (common practice).
-	fitFewMin      = 50
-	fitFewPerParam = 10
+	fewMin      = 50
+	fewPerParam = 10
 	// SlowPole fires when the N residuals span fewer than
-	// fitSlowSpans time constants -1/ln|z| of an estimated pole: a
+	// slowSpans time constants -1/ln|z| of an estimated pole: a
 	// first-order response reaches 1 - e^-5 = 99.3 % of its final value
 	// in 5 time constants, so a shorter record leaves the gain to
 	// extrapolation (common practice).
-	fitSlowSpans = 5
-	// fitTransientAlpha is the false-alarm rate of the StartupTransient
+	slowSpans = 5
+	// transientAlpha is the false-alarm rate of the StartupTransient
 	// test on residuals that are white and Gaussian (all windows
 	// together, Bonferroni).
-	fitTransientAlpha = 1e-4
-	// fitChi2Median1 is the median of the chi-squared distribution with
+	transientAlpha = 1e-4
+	// chi2Median1 is the median of the chi-squared distribution with
 	// one degree of freedom (scipy.stats.chi2(1).median() =
-	// 0.454936423119572), so that median(a_t^2)/fitChi2Median1
+	// 0.454936423119572), so that median(a_t^2)/chi2Median1
 	// estimates sigma^2 for Gaussian a_t.
-	fitChi2Median1 = 0.454936423119572
+	chi2Median1 = 0.454936423119572
 )
 
 // Warning is one problem found with an Estimate: its Kind, a sentence for
@@ -166,8 +166,8 @@ func (k WarningKind) String() string {
 	return fmt.Sprintf("WarningKind(%d)", int(k))
 }
 
-// fitPolyNames returns the free parameter names of p.
-func fitPolyNames(p Poly) []string {
+// polyNames returns the free parameter names of p.
+func polyNames(p Poly) []string {
 	var out []string
 	seen := map[string]bool{}
 	p.Each(func(c *Coef) {
@@ -179,13 +179,32 @@ func fitPolyNames(p Poly) []string {
 	return out
 }
 
-// fitWarnings returns the warnings of e; noise holds the noise series
+// warningsOf returns the warnings of e; noise holds the noise series
 // n_t of the estimate from Conditioning.First on.
-func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
-	var ws []Warning
-	add := func(k WarningKind, names []string, format string, args ...any) {
-		ws = append(ws, Warning{Kind: k, Message: fmt.Sprintf(format, args...), Params: names})
-	}
+func warningsOf(e *Estimate, singular bool, noise []float64) []Warning {
+	var ws warningList
+	ws.precision(e, singular)
+	ws.transient(e, noise)
+	ws.slowPoles(e)
+	ws.roots(e)
+	ws.correlations(e)
+	return ws
+}
+
+// warningList collects the warnings of an estimate in the order the
+// checks run.
+type warningList []Warning
+
+// add appends a warning of kind k about the parameters names.
+func (ws *warningList) add(k WarningKind, names []string, format string, args ...any) {
+	*ws = append(*ws, Warning{Kind: k, Message: fmt.Sprintf(format, args...), Params: names})
+}
+
+// precision warns of a fit that did not converge, singular information,
+// standard errors that are not finite positive numbers and too few
+// residuals for the free coefficients.
+func (ws *warningList) precision(e *Estimate, singular bool) {
+	add := ws.add
 	if !e.Converged {
 		add(NotConverged, nil, "the fit stopped before converging: %s", e.Reason)
 	}
@@ -202,40 +221,58 @@ func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
 		add(BadStandardError, badSE, "the standard error of %s is not available (not a finite positive number): the estimate's precision is unknown", strings.Join(badSE, ", "))
 	}
 	k := len(e.Params)
-	if need := max(fitFewMin, fitFewPerParam*k); e.N < need {
+	if need := max(fewMin, fewPerParam*k); e.N < need {
 		add(FewResiduals, nil, "only %d residuals for %d free coefficients (fewer than max(50, 10 per coefficient) = %d): the estimates and standard errors are unreliable; use a longer record or a smaller model", e.N, k, need)
 	}
+}
+
+// transient warns of a start-up transient in the residuals, or else in
+// the noise series.
+func (ws *warningList) transient(e *Estimate, noise []float64) {
+	add := ws.add
 	remedy := "a start-up transient that the pre-sample assumption (each input held at its first value) does not explain, such as a record that starts from rest or after an upset; set FitSettings.Settle, or FitSettings.First to %d or more, to leave it out of the fit"
 	t0 := e.Conditioning.First
-	if m, p, ok := fitTransient(e.Resid[t0:]); ok {
-		add(StartupTransient, nil, "the residuals at samples %d..%d are far larger than the rest (p %s against white noise of one variance): "+remedy, t0, t0+m-1, fitFmtP(p), t0+m)
-	} else if last, z, p, ok := fitNoiseTransient(noise, e); ok {
-		add(StartupTransient, nil, "the noise series (output minus the fitted input terms) at samples %d..%d lies up to %.3g standard deviations of the fitted noise model from its median (p %s): "+remedy, t0, t0+last, z, fitFmtP(p), t0+last+1)
+	if m, p, ok := residualTransient(e.Resid[t0:]); ok {
+		add(StartupTransient, nil, "the residuals at samples %d..%d are far larger than the rest (p %s against white noise of one variance): "+remedy, t0, t0+m-1, formatP(p), t0+m)
+	} else if last, z, p, ok := noiseTransient(noise, e); ok {
+		add(StartupTransient, nil, "the noise series (output minus the fitted input terms) at samples %d..%d lies up to %.3g standard deviations of the fitted noise model from its median (p %s): "+remedy, t0, t0+last, z, formatP(p), t0+last+1)
 	}
+}
+
+// slowPoles warns of an estimated input or noise AR pole too slow for the
+// record (fewer than slowSpans time constants in the residuals).
+func (ws *warningList) slowPoles(e *Estimate) {
+	add := ws.add
 	slow := func(coeffs []float64, names []string, what string) {
 		if len(names) == 0 {
 			return
 		}
-		z := fitMaxZ(coeffs)
+		z := maxZ(coeffs)
 		if !(z > 0 && z < 1) {
 			return
 		}
 		tau := -1 / math.Log(z)
-		if float64(e.N) < fitSlowSpans*tau {
+		if float64(e.N) < slowSpans*tau {
 			add(SlowPole, names, "%s has a pole with |z| = %.6g, time constant %.4g samples, and the %d residuals span only %.2g of them (fewer than 5): %s", what, z, tau, e.N, float64(e.N)/tau,
 				"its gain and time constant are poorly determined; use a longer record, or hold the pole at a known value")
 		}
 	}
 	for _, in := range e.Model.Inputs {
-		slow(in.Den.Coeffs(), fitPolyNames(in.Den), fmt.Sprintf("input %q", in.Series))
+		slow(in.Den.Coeffs(), polyNames(in.Den), fmt.Sprintf("input %q", in.Series))
 	}
 	if e.Model.Noise != nil {
-		slow(e.Model.Noise.AR.Coeffs(), fitPolyNames(e.Model.Noise.AR), "the noise AR")
+		slow(e.Model.Noise.AR.Coeffs(), polyNames(e.Model.Noise.AR), "the noise AR")
 	}
+}
+
+// roots warns of poles and noise roots on or outside the unit circle
+// (beyond boundaryZ) and of zeros that nearly cancel poles.
+func (ws *warningList) roots(e *Estimate) {
+	add := ws.add
 	cancel := func(zeros, poles []complex128) (complex128, complex128, bool) {
 		for _, z := range zeros {
 			for _, p := range poles {
-				if cmplx.Abs(z-p) < fitCancelDist {
+				if cmplx.Abs(z-p) < cancelDist {
 					return z, p, true
 				}
 			}
@@ -244,54 +281,58 @@ func fitWarnings(e *Estimate, singular bool, noise []float64) []Warning {
 	}
 	for _, in := range e.Model.Inputs {
 		den := in.Den.Coeffs()
-		poles := fitZRoots(den)
-		if m := fitMaxZ(den); m >= fitBoundaryZ {
-			add(UnstableDenominator, fitPolyNames(in.Den), "input %q: the denominator has a pole with |z| = %.4g, %s", in.Series, m, fitWhere(m))
+		poles := zRoots(den)
+		if m := maxZ(den); m >= boundaryZ {
+			add(UnstableDenominator, polyNames(in.Den), "input %q: the denominator has a pole with |z| = %.4g, %s", in.Series, m, circleText(m))
 		}
-		zeros := fitZRoots(in.Num.Coeffs())
+		zeros := zRoots(in.Num.Coeffs())
 		if z, p, ok := cancel(zeros, poles); ok {
-			add(CancellingRoots, append(fitPolyNames(in.Num), fitPolyNames(in.Den)...),
-				"input %q: numerator zero %s nearly cancels pole %s; a lower order may do", in.Series, fitFmtC(z), fitFmtC(p))
+			add(CancellingRoots, append(polyNames(in.Num), polyNames(in.Den)...),
+				"input %q: numerator zero %s nearly cancels pole %s; a lower order may do", in.Series, formatComplex(z), formatComplex(p))
 		}
 	}
 	if e.Model.Noise != nil {
 		ar, ma := e.Model.Noise.AR.Coeffs(), e.Model.Noise.MA.Coeffs()
-		if m := fitMaxZ(ar); m >= fitBoundaryZ {
-			add(NonStationaryNoise, fitPolyNames(e.Model.Noise.AR), "noise AR has a root with |z| = %.4g, %s", m, fitWhere(m))
+		if m := maxZ(ar); m >= boundaryZ {
+			add(NonStationaryNoise, polyNames(e.Model.Noise.AR), "noise AR has a root with |z| = %.4g, %s", m, circleText(m))
 		}
-		if m := fitMaxZ(ma); m >= fitBoundaryZ {
-			add(NonInvertibleNoise, fitPolyNames(e.Model.Noise.MA), "noise MA has a zero with |z| = %.4g, %s", m, fitWhere(m))
+		if m := maxZ(ma); m >= boundaryZ {
+			add(NonInvertibleNoise, polyNames(e.Model.Noise.MA), "noise MA has a zero with |z| = %.4g, %s", m, circleText(m))
 		}
-		if z, p, ok := cancel(fitZRoots(ma), fitZRoots(ar)); ok {
-			add(CancellingRoots, append(fitPolyNames(e.Model.Noise.MA), fitPolyNames(e.Model.Noise.AR)...),
-				"noise MA zero %s nearly cancels AR root %s; a lower order may do", fitFmtC(z), fitFmtC(p))
+		if z, p, ok := cancel(zRoots(ma), zRoots(ar)); ok {
+			add(CancellingRoots, append(polyNames(e.Model.Noise.MA), polyNames(e.Model.Noise.AR)...),
+				"noise MA zero %s nearly cancels AR root %s; a lower order may do", formatComplex(z), formatComplex(p))
 		}
 	}
+}
+
+// correlations warns of pairs of estimates correlated beyond
+// corrWarning.
+func (ws *warningList) correlations(e *Estimate) {
 	corr := e.Corr()
 	for i := range corr {
 		for j := i + 1; j < len(corr); j++ {
-			if c := corr[i][j]; math.Abs(c) > fitCorrWarning {
+			if c := corr[i][j]; math.Abs(c) > corrWarning {
 				a, b := e.Params[i].Name, e.Params[j].Name
-				add(HighCorrelation, []string{a, b}, "estimates of %s and %s correlate at %.3f", a, b, c)
+				ws.add(HighCorrelation, []string{a, b}, "estimates of %s and %s correlate at %.3f", a, b, c)
 			}
 		}
 	}
-	return ws
 }
 
-func fitFmtC(z complex128) string {
+func formatComplex(z complex128) string {
 	if math.Abs(imag(z)) < 1e-12 {
 		return fmt.Sprintf("%.4g", real(z))
 	}
 	return fmt.Sprintf("%.4g%+.4gi", real(z), imag(z))
 }
 
-// fitTransient tests the residuals a (from the first one summed) for a
+// residualTransient tests the residuals a (from the first one summed) for a
 // start-up transient (see StartupTransient): it returns the window
 // length m of the smallest p-value, that p-value times the number of
 // windows (Bonferroni), and whether it is below half of
-// fitTransientAlpha (the other half is fitNoiseTransient's).
-func fitTransient(a []float64) (m int, p float64, ok bool) {
+// transientAlpha (the other half is noiseTransient's).
+func residualTransient(a []float64) (m int, p float64, ok bool) {
 	n := len(a)
 	if n < 40 {
 		return 0, 1, false
@@ -301,12 +342,12 @@ func fitTransient(a []float64) (m int, p float64, ok bool) {
 		wins = append(wins, w)
 	}
 	rest := a[wins[len(wins)-1]:]
-	rest = rest[:min(len(rest), fitScaleSamples)]
+	rest = rest[:min(len(rest), scaleSamples)]
 	sq := make([]float64, len(rest))
 	for i, v := range rest {
 		sq[i] = v * v
 	}
-	s2 := fitMedian(sq) / fitChi2Median1
+	s2 := median(sq) / chi2Median1
 	if !(s2 > 0) || math.IsInf(s2, 0) {
 		return 0, 1, false
 	}
@@ -324,38 +365,38 @@ func fitTransient(a []float64) (m int, p float64, ok bool) {
 		}
 	}
 	p = min(best*float64(len(wins)), 1)
-	return bestM, p, p < fitTransientAlpha/2
+	return bestM, p, p < transientAlpha/2
 }
 
-// fitScaleSamples caps the samples after the tested windows from which
+// scaleSamples caps the samples after the tested windows from which
 // the transient tests take their scale and centre (the ones nearest the
 // windows), so that the tests cost O(1) sorting for any record length.
-const fitScaleSamples = 20000
+const scaleSamples = 20000
 
-// fitNoiseWindow is the number of noise samples, from the first residual
-// on, that fitNoiseTransient examines.
-const fitNoiseWindow = 10
+// noiseWindow is the number of noise samples, from the first residual
+// on, that noiseTransient examines.
+const noiseWindow = 10
 
-// fitNoiseTransient tests the noise series n (from Conditioning.First
+// noiseTransient tests the noise series n (from Conditioning.First
 // on) for a start-up transient that the fitted noise model absorbed (an
 // AR root near an input pole makes the residuals of a transient of that
-// pole vanish, so that fitTransient cannot see it): the largest
+// pole vanish, so that residualTransient cannot see it): the largest
 // |n_t - median(n)| over the first m = min(10, N/4) samples, in units of
 // the standard deviation of the fitted noise model, sigma_n^2 = sigma^2
 // sum psi_j^2, as z. Its p-value is bounded by m * 2 Phi(-z) (the union
 // bound, valid for correlated samples), and the test fires below half of
-// fitTransientAlpha. It returns the offset of the last of the first N/4
+// transientAlpha. It returns the offset of the last of the first N/4
 // samples beyond the test's critical value (the transient's extent), z,
 // the p-value and whether the test fired. It is not made for fewer than
 // 40 residuals or a noise model that is not stationary.
-func fitNoiseTransient(n []float64, e *Estimate) (last int, z, p float64, ok bool) {
+func noiseTransient(n []float64, e *Estimate) (last int, z, p float64, ok bool) {
 	if len(n) < 40 || !(e.Sigma2 > 0) {
 		return 0, 0, 1, false
 	}
 	v := 1.0
 	if e.Model.Noise != nil {
 		r, err := e.Model.NoiseRational()
-		if err != nil || !(r.MaxPoleMagnitude() < fitBoundaryZ) {
+		if err != nil || !(r.MaxPoleMagnitude() < boundaryZ) {
 			return 0, 0, 1, false
 		}
 		// psi_j decays as rho^j: enough weights for rho^j < 1e-9.
@@ -370,18 +411,18 @@ func fitNoiseTransient(n []float64, e *Estimate) (last int, z, p float64, ok boo
 		}
 	}
 	sd := math.Sqrt(e.Sigma2 * v)
-	m := min(fitNoiseWindow, len(n)/4)
-	med := fitMedian(append([]float64(nil), n[m:min(len(n), m+fitScaleSamples)]...))
+	m := min(noiseWindow, len(n)/4)
+	med := median(append([]float64(nil), n[m:min(len(n), m+scaleSamples)]...))
 	for _, x := range n[:m] {
 		z = math.Max(z, math.Abs(x-med)/sd)
 	}
 	p = math.Min(float64(m)*2*distuv.UnitNormal.Survival(z), 1)
-	if !(p < fitTransientAlpha/2) {
+	if !(p < transientAlpha/2) {
 		return 0, z, p, false
 	}
 	// The extent: the last of the first N/4 samples beyond the critical
 	// value of the test.
-	crit := distuv.UnitNormal.Quantile(1 - fitTransientAlpha/4/float64(m))
+	crit := distuv.UnitNormal.Quantile(1 - transientAlpha/4/float64(m))
 	for t, x := range n[:len(n)/4] {
 		if math.Abs(x-med)/sd > crit {
 			last = t
@@ -390,17 +431,17 @@ func fitNoiseTransient(n []float64, e *Estimate) (last int, z, p float64, ok boo
 	return last, z, p, true
 }
 
-// fitFmtP formats a p-value for a message: "= 0.0012", or "< 1e-16"
+// formatP formats a p-value for a message: "= 0.0012", or "< 1e-16"
 // below the resolution of float64 near 1.
-func fitFmtP(p float64) string {
+func formatP(p float64) string {
 	if p < 1e-16 {
 		return "< 1e-16"
 	}
 	return fmt.Sprintf("= %.2g", p)
 }
 
-// fitMedian returns the median of x, sorting x in place.
-func fitMedian(x []float64) float64 {
+// median returns the median of x, sorting x in place.
+func median(x []float64) float64 {
 	sort.Float64s(x)
 	h := len(x) / 2
 	if len(x)%2 == 0 {
@@ -409,8 +450,8 @@ func fitMedian(x []float64) float64 {
 	return x[h]
 }
 
-// fitWhere says where a root of modulus m (at least fitBoundaryZ) lies.
-func fitWhere(m float64) string {
+// circleText says where a root of modulus m (at least boundaryZ) lies.
+func circleText(m float64) string {
 	if m > 1 {
 		return "outside the unit circle"
 	}

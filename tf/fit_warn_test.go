@@ -8,7 +8,7 @@ import (
 	"github.com/backshift/backshift/arma"
 )
 
-func fitHasWarning(ws []Warning, k WarningKind) bool {
+func hasWarning(ws []Warning, k WarningKind) bool {
 	for _, w := range ws {
 		if w.Kind == k {
 			return true
@@ -22,7 +22,7 @@ func fitHasWarning(ws []Warning, k WarningKind) bool {
 // at 1.0, a numerator zero at 0.52 beside a pole at 0.5, a correlation of
 // 0.97, and a fit that did not converge.
 func TestFitWarningsRules(t *testing.T) {
-	m := fitMCModel()
+	m := mcModel()
 	set := func(p Poly, v float64) {
 		p.Each(func(c *Coef) {
 			if c.Name != "" {
@@ -34,24 +34,24 @@ func TestFitWarningsRules(t *testing.T) {
 	m.Inputs[0].Num.Factors[0].Terms[1].Coef.Value = 0.52
 	set(m.Inputs[0].Den, 1.0) // pole at z = 1
 	set(m.Noise.AR, 1.2)      // AR root at z = 1.2
-	m.Noise.MA = fitOneMinus("t1", 1)
+	m.Noise.MA = oneMinus("t1", 1)
 	set(m.Noise.MA, 1.0) // MA zero at z = 1
 	e := &Estimate{Model: m, Converged: false, Reason: "not converged: iteration limit reached",
 		Params: []Param{{Name: "w0"}, {Name: "d1"}},
 		Cov:    [][]float64{{1, 0.97}, {0.97, 1}}}
-	ws := fitWarnings(e, false, nil)
+	ws := warningsOf(e, false, nil)
 	for _, k := range []WarningKind{UnstableDenominator, NonStationaryNoise, NonInvertibleNoise, HighCorrelation, NotConverged} {
-		if !fitHasWarning(ws, k) {
+		if !hasWarning(ws, k) {
 			t.Errorf("missing %v warning: %v", k, ws)
 		}
 	}
-	if fitHasWarning(ws, CancellingRoots) {
+	if hasWarning(ws, CancellingRoots) {
 		// zero 0.52 vs pole 1.0 are far apart
 		t.Errorf("unexpected cancellation warning: %v", ws)
 	}
 	set(m.Inputs[0].Den, 0.5)
-	ws = fitWarnings(e, true, nil)
-	if !fitHasWarning(ws, CancellingRoots) || !fitHasWarning(ws, SingularInformation) || fitHasWarning(ws, UnstableDenominator) {
+	ws = warningsOf(e, true, nil)
+	if !hasWarning(ws, CancellingRoots) || !hasWarning(ws, SingularInformation) || hasWarning(ws, UnstableDenominator) {
 		t.Errorf("zero 0.52 beside pole 0.5, singular J'J: %v", ws)
 	}
 }
@@ -60,15 +60,15 @@ func TestFitWarningsRules(t *testing.T) {
 // data with a pure gain and white noise: the fitted zero and pole cancel
 // and the estimates correlate near 1, and the fit says so.
 func TestFitWarnsRedundant(t *testing.T) {
-	rng := fitRand(21)
+	rng := newRand(21)
 	n := 500
-	x := fitSimAR1(rng, n, 0.3)
+	x := simAR1(rng, n, 0.3)
 	y := make([]float64, n)
 	for i := 1; i < n; i++ {
 		y[i] = 2*x[i-1] + 0.3*rng.NormFloat64()
 	}
-	num := fitP(fitFac(fitTerm(false, "w0", 0, 0), fitTerm(true, "w1", 0, 1)))
-	m := Model{Output: "y", Inputs: []Input{{Series: "x", Num: num, Den: fitOneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
+	num := mkPoly(mkFactor(mkTerm(false, "w0", 0, 0), mkTerm(true, "w1", 0, 1)))
+	m := Model{Output: "y", Inputs: []Input{{Series: "x", Num: num, Den: oneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
 	est, err := Fit(context.Background(), m, map[string][]float64{"y": y, "x": x}, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -76,10 +76,10 @@ func TestFitWarnsRedundant(t *testing.T) {
 	w1, _ := est.Param("w1")
 	d1, _ := est.Param("d1")
 	w0, _ := est.Param("w0")
-	if math.Abs(w1.Value/w0.Value-d1.Value) < fitCancelDist && !fitHasWarning(est.Warnings, CancellingRoots) {
+	if math.Abs(w1.Value/w0.Value-d1.Value) < cancelDist && !hasWarning(est.Warnings, CancellingRoots) {
 		t.Errorf("zero %v and pole %v cancel without a warning: %v", w1.Value/w0.Value, d1.Value, est.Warnings)
 	}
-	if !fitHasWarning(est.Warnings, CancellingRoots) || !fitHasWarning(est.Warnings, HighCorrelation) {
+	if !hasWarning(est.Warnings, CancellingRoots) || !hasWarning(est.Warnings, HighCorrelation) {
 		t.Errorf("warnings %v (w0 %v w1 %v d1 %v)", est.Warnings, w0.Value, w1.Value, d1.Value)
 	}
 }

@@ -75,7 +75,7 @@ func (s ForecastSettings) Validate() (err error) {
 	if err := errs.Probability("", "ForecastSettings.Level", s.Level, "0 means 0.95"); err != nil {
 		return err
 	}
-	for _, name := range fcSortedKeys(s.InputModels) {
+	for _, name := range sortedKeys(s.InputModels) {
 		if err := s.InputModels[name].validate(name); err != nil {
 			return err
 		}
@@ -98,7 +98,7 @@ func (s ForecastSettings) validate(m Model, h int) error {
 		inputs[in.Series] = true
 		names = append(names, in.Series)
 	}
-	for _, name := range fcSortedKeys(s.Future) {
+	for _, name := range sortedKeys(s.Future) {
 		if name == m.Output {
 			continue // the output's own future (say, held-out data) is not used
 		}
@@ -118,7 +118,7 @@ func (s ForecastSettings) validate(m Model, h int) error {
 			}
 		}
 	}
-	for _, name := range fcSortedKeys(s.InputModels) {
+	for _, name := range sortedKeys(s.InputModels) {
 		if !inputs[name] {
 			return unknownInputErr("ForecastSettings.InputModels", name, names)
 		}
@@ -129,9 +129,9 @@ func (s ForecastSettings) validate(m Model, h int) error {
 	return nil
 }
 
-// fcSortedKeys returns the keys of m in order, so that the first error
+// sortedKeys returns the keys of m in order, so that the first error
 // reported does not depend on map order.
-func fcSortedKeys[V any](m map[string]V) []string {
+func sortedKeys[V any](m map[string]V) []string {
 	keys := make([]string, 0, len(m))
 	for k := range m {
 		keys = append(keys, k)
@@ -258,54 +258,20 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	if s != nil {
 		set = *s
 	}
-	if h < 1 {
-		return nil, settingErr("h", strconv.Itoa(h), "the horizon must be at least 1")
-	}
-	if h > MaxHorizon {
-		return nil, settingErr("h", strconv.Itoa(h), "the horizon must be at most tf.MaxHorizon ("+strconv.Itoa(MaxHorizon)+" steps)")
-	}
-	if err := chkEstimateUsable("Forecast", e); err != nil {
+	if err := e.checkForecast(data, h, &set); err != nil {
 		return nil, err
 	}
-	if math.IsNaN(e.Sigma2) || math.IsInf(e.Sigma2, 0) || e.Sigma2 < 0 {
-		return nil, estimateErr("Sigma2", e.Sigma2, "the noise variance must be zero or positive and finite")
-	}
-	if err := set.validate(e.Model, h); err != nil {
-		return nil, err
-	}
-	if set.Level == 0 {
-		set.Level = 0.95
-	}
-	if err := condCheck(e, data); err != nil {
-		return nil, err
-	}
-	w, err := fitPrepare(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := e.residualsForForecast(data)
 	if err != nil {
 		return nil, err
 	}
-	w.set(w.params())
-	w.noiseSeries()
-	w.resid()
-	for t := w.cond.First; t < w.n; t++ {
-		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, overflowErr("residuals", t, v, chkDivergeHint(e))
-		}
-	}
 	n := w.n
-	L := n + h
 	fc := &Forecast{Origin: n, Level: set.Level, Mean: make([]float64, h), SE: make([]float64, h),
 		Lower: make([]float64, h), Upper: make([]float64, h)}
 	dc := w.m.Diff.Coeffs()
-	psiDen := poly.Mul(w.arC, dc)
-	psi, err := poly.Divide(w.maC, psiDen, h)
+	vr, err := noiseErrorVariance(w.arC, w.maC, dc, e.Sigma2, h)
 	if err != nil {
-		return nil, &errs.ModelError{Part: "noise of the estimate", Problem: "its psi weights do not exist (" + err.Error() + "): the noise AR polynomial times the differencing must have a non-zero constant term", Err: err}
-	}
-	vr := make([]float64, h)
-	acc := 0.0
-	for j := 0; j < h; j++ {
-		acc += psi[j] * psi[j]
-		vr[j] = e.Sigma2 * acc
+		return nil, err
 	}
 	c := 0.0
 	if w.m.Const != nil {
@@ -316,84 +282,199 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		what[j] = c
 	}
 	for i := range w.ins {
-		fi := &w.ins[i]
-		in := fi.in
-		ifc := InputForecast{Series: in.Series}
-		ifc.RecordMin, ifc.RecordMax = fcRange(fi.x)
-		xe := make([]float64, L)
-		copy(xe, fi.x)
-		dx := in.Diff.Coeffs()
-		if fut, ok := set.Future[in.Series]; ok {
-			copy(xe[n:], fut[:h])
-			ifc.Known = true
-			if lo, hi := fcRange(fut[:h]); n > 0 && (lo < ifc.RecordMin || hi > ifc.RecordMax) {
-				fc.Warnings = append(fc.Warnings, ForecastWarning{Kind: PlanOutsideRecord, Input: in.Series,
-					RecordMin: ifc.RecordMin, RecordMax: ifc.RecordMax, PlanMin: lo, PlanMax: hi,
-					Message: fmt.Sprintf("input %q: the planned values span %s .. %s, outside the range %s .. %s seen in the record; the forecast extrapolates the model beyond what the data showed of it",
-						in.Series, fitNum(lo, 6), fitNum(hi, 6), fitNum(ifc.RecordMin, 6), fitNum(ifc.RecordMax, 6))})
-			}
-		} else {
-			im, ok := set.InputModels[in.Series]
-			if !ok {
-				yw, err := arma.YuleWalker(fi.z[fi.d:], 0)
-				if err != nil {
-					return nil, &StageError{Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", in.Series), Err: err}
-				}
-				im = InputModel{AR: yw.Poly(), MA: []float64{1}, C: yw.Mean, Sigma2: yw.Var}
-			}
-			if len(im.AR) == 0 {
-				im.AR = []float64{1}
-			}
-			if len(im.MA) == 0 {
-				im.MA = []float64{1}
-			}
-			im.AR = append([]float64(nil), im.AR...)
-			im.MA = append([]float64(nil), im.MA...)
-			ifc.Model = im
-			zf := fcARMA(fi.z, fi.d, im, h)
-			for j := 0; j < h; j++ {
-				t := n + j
-				v := zf[j]
-				for k := 1; k < len(dx); k++ {
-					v -= dx[k] * xe[t-k]
-				}
-				xe[t] = v / dx[0]
-				if math.IsNaN(xe[t]) || math.IsInf(xe[t], 0) {
-					return nil, overflowErr("forecast of input "+strconv.Quote(in.Series), t, xe[t],
-						"the input's forecast overflowed float64; give its future in ForecastSettings.Future or a stationary model in ForecastSettings.InputModels, or shorten the horizon")
-				}
-			}
-			// Input forecast errors through omega B^b MA/(delta AR D).
-			num := poly.Mul(poly.Shift(fi.numC, in.Delay), im.MA)
-			den := poly.Mul(poly.Mul(fi.denC, im.AR), dc)
-			ps, err := poly.Divide(num, den, h)
-			if err != nil {
-				return nil, &errs.ModelError{Part: "input " + strconv.Quote(in.Series), Problem: "the psi weights of its forecast errors do not exist (" + err.Error() + "): its denominator, its input model's AR and the differencing must have non-zero constant terms", Err: err}
-			}
-			acc := 0.0
-			for j := 0; j < h; j++ {
-				acc += ps[j] * ps[j]
-				vr[j] += im.Sigma2 * acc
-			}
+		ifc, warn, err := forecastInput(&w.ins[i], set, n, h, dc, vr, what)
+		if err != nil {
+			return nil, err
 		}
-		ifc.Values = append([]float64(nil), xe[n:]...)
+		if warn != nil {
+			fc.Warnings = append(fc.Warnings, *warn)
+		}
 		fc.Inputs = append(fc.Inputs, ifc)
-		// u over the extended series with the fitted filter, as in Fit.
-		ze := fitDiff(xe, dx)
-		for t := fi.d; t < L; t++ {
-			ze[t] -= fi.z0
-		}
-		se := make([]float64, L)
-		if in.Delay < L {
-			filter.Run(se[in.Delay:], fitOne, fi.denC, ze[:L-in.Delay])
-		}
-		ue := make([]float64, L)
-		fitFIR(ue, fi.numC, se, 0, false)
-		for j := 0; j < h; j++ {
-			what[j] += ue[n+j] + fi.gain*fi.z0
+	}
+	w.addNoiseForecast(what)
+	ye := integrate(w.y, what, dc)
+	if err := fc.setIntervals(ye[n:], vr, e); err != nil {
+		return nil, err
+	}
+	if bad := e.Soundness(); len(bad) > 0 {
+		fc.Warnings = append(fc.Warnings, ForecastWarning{Kind: UnsoundEstimate,
+			Message: "the estimate is not to be trusted, nor forecasts from it: " + strings.Join(bad, "; ")})
+	}
+	return fc, nil
+}
+
+// checkForecast checks the horizon, the estimate, the settings (setting
+// the default Level) and the data against the estimate's conditioning.
+func (e *Estimate) checkForecast(data map[string][]float64, h int, set *ForecastSettings) error {
+	if h < 1 {
+		return settingErr("h", strconv.Itoa(h), "the horizon must be at least 1")
+	}
+	if h > MaxHorizon {
+		return settingErr("h", strconv.Itoa(h), "the horizon must be at most tf.MaxHorizon ("+strconv.Itoa(MaxHorizon)+" steps)")
+	}
+	if err := estimateUsable("Forecast", e); err != nil {
+		return err
+	}
+	if math.IsNaN(e.Sigma2) || math.IsInf(e.Sigma2, 0) || e.Sigma2 < 0 {
+		return estimateErr("Sigma2", e.Sigma2, "the noise variance must be zero or positive and finite")
+	}
+	if err := set.validate(e.Model, h); err != nil {
+		return err
+	}
+	if set.Level == 0 {
+		set.Level = 0.95
+	}
+	return condCheck(e, data)
+}
+
+// residualsForForecast recomputes the series of the estimate on data with
+// its conditioning (u_i, n_t, a_t at the estimates) and refuses residuals
+// that are not finite.
+func (e *Estimate) residualsForForecast(data map[string][]float64) (*fitWork, error) {
+	w, err := prepareFit(e.Model, data, FitSettings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	if err != nil {
+		return nil, err
+	}
+	w.set(w.params())
+	w.noiseSeries()
+	w.resid()
+	for t := w.cond.First; t < w.n; t++ {
+		if v := w.a[t]; math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, overflowErr("residuals", t, v, divergeHint(e))
 		}
 	}
-	// Noise forecast: phi(B) n_t = theta(B) a_t, future a = 0.
+	return w, nil
+}
+
+// noiseErrorVariance returns the variance of the noise's forecast error
+// at steps 1..h, sigma2 times the partial sums of the squared psi weights
+// of theta(B)/(phi(B) D(B)).
+func noiseErrorVariance(arC, maC, dc []float64, sigma2 float64, h int) ([]float64, error) {
+	psi, err := poly.Divide(maC, poly.Mul(arC, dc), h)
+	if err != nil {
+		return nil, &errs.ModelError{Part: "noise of the estimate", Problem: "its psi weights do not exist (" + err.Error() + "): the noise AR polynomial times the differencing must have a non-zero constant term", Err: err}
+	}
+	vr := make([]float64, h)
+	acc := 0.0
+	for j := 0; j < h; j++ {
+		acc += psi[j] * psi[j]
+		vr[j] = sigma2 * acc
+	}
+	return vr, nil
+}
+
+// forecastInput extends input fi over the horizon (its planned future
+// from set.Future, or a forecast by its input model), adds its
+// contribution to what (the forecast of D(B) y) and, for a forecast
+// input, its forecast-error variance to vr. The warning is non-nil for a
+// plan outside the range of the record.
+func forecastInput(fi *inputState, set ForecastSettings, n, h int, dc, vr, what []float64) (InputForecast, *ForecastWarning, error) {
+	in := fi.in
+	L := n + h
+	ifc := InputForecast{Series: in.Series}
+	ifc.RecordMin, ifc.RecordMax = valueRange(fi.x)
+	xe := make([]float64, L)
+	copy(xe, fi.x)
+	var warn *ForecastWarning
+	if fut, ok := set.Future[in.Series]; ok {
+		copy(xe[n:], fut[:h])
+		ifc.Known = true
+		if lo, hi := valueRange(fut[:h]); n > 0 && (lo < ifc.RecordMin || hi > ifc.RecordMax) {
+			warn = &ForecastWarning{Kind: PlanOutsideRecord, Input: in.Series,
+				RecordMin: ifc.RecordMin, RecordMax: ifc.RecordMax, PlanMin: lo, PlanMax: hi,
+				Message: fmt.Sprintf("input %q: the planned values span %s .. %s, outside the range %s .. %s seen in the record; the forecast extrapolates the model beyond what the data showed of it",
+					in.Series, formatSig(lo, 6), formatSig(hi, 6), formatSig(ifc.RecordMin, 6), formatSig(ifc.RecordMax, 6))}
+		}
+	} else {
+		im, err := inputModelFor(fi, set)
+		if err != nil {
+			return ifc, nil, err
+		}
+		ifc.Model = im
+		if err := predictInput(fi, im, xe, n, h, dc, vr); err != nil {
+			return ifc, nil, err
+		}
+	}
+	ifc.Values = append([]float64(nil), xe[n:]...)
+	// u over the extended series with the fitted filter, as in Fit.
+	ze := applyDiff(xe, in.Diff.Coeffs())
+	for t := fi.d; t < L; t++ {
+		ze[t] -= fi.z0
+	}
+	se := make([]float64, L)
+	if in.Delay < L {
+		filter.Run(se[in.Delay:], unitPoly, fi.denC, ze[:L-in.Delay])
+	}
+	ue := make([]float64, L)
+	fir(ue, fi.numC, se, 0, false)
+	for j := 0; j < h; j++ {
+		what[j] += ue[n+j] + fi.gain*fi.z0
+	}
+	return ifc, warn, nil
+}
+
+// inputModelFor returns the model that forecasts input fi: the one in
+// set.InputModels, or an autoregression fitted to its differenced
+// values by Yule-Walker, with empty polynomials as 1 and copies of the
+// caller's coefficients.
+func inputModelFor(fi *inputState, set ForecastSettings) (InputModel, error) {
+	im, ok := set.InputModels[fi.in.Series]
+	if !ok {
+		yw, err := arma.YuleWalker(fi.z[fi.d:], 0)
+		if err != nil {
+			return im, &StageError{Stage: fmt.Sprintf("fitting an autoregression to forecast input %q (give its future in ForecastSettings.Future or a model in ForecastSettings.InputModels)", fi.in.Series), Err: err}
+		}
+		im = InputModel{AR: yw.Poly(), MA: []float64{1}, C: yw.Mean, Sigma2: yw.Var}
+	}
+	if len(im.AR) == 0 {
+		im.AR = []float64{1}
+	}
+	if len(im.MA) == 0 {
+		im.MA = []float64{1}
+	}
+	im.AR = append([]float64(nil), im.AR...)
+	im.MA = append([]float64(nil), im.MA...)
+	return im, nil
+}
+
+// predictInput writes the forecast of input fi by im into xe[n:n+h]
+// (integrating its differencing) and adds its forecast errors, carried
+// through omega B^b MA/(delta AR D), to vr.
+func predictInput(fi *inputState, im InputModel, xe []float64, n, h int, dc, vr []float64) error {
+	in := fi.in
+	dx := in.Diff.Coeffs()
+	zf := forecastARMA(fi.z, fi.d, im, h)
+	for j := 0; j < h; j++ {
+		t := n + j
+		v := zf[j]
+		for k := 1; k < len(dx); k++ {
+			v -= dx[k] * xe[t-k]
+		}
+		xe[t] = v / dx[0]
+		if math.IsNaN(xe[t]) || math.IsInf(xe[t], 0) {
+			return overflowErr("forecast of input "+strconv.Quote(in.Series), t, xe[t],
+				"the input's forecast overflowed float64; give its future in ForecastSettings.Future or a stationary model in ForecastSettings.InputModels, or shorten the horizon")
+		}
+	}
+	num := poly.Mul(poly.Shift(fi.numC, in.Delay), im.MA)
+	den := poly.Mul(poly.Mul(fi.denC, im.AR), dc)
+	ps, err := poly.Divide(num, den, h)
+	if err != nil {
+		return &errs.ModelError{Part: "input " + strconv.Quote(in.Series), Problem: "the psi weights of its forecast errors do not exist (" + err.Error() + "): its denominator, its input model's AR and the differencing must have non-zero constant terms", Err: err}
+	}
+	acc := 0.0
+	for j := 0; j < h; j++ {
+		acc += ps[j] * ps[j]
+		vr[j] += im.Sigma2 * acc
+	}
+	return nil
+}
+
+// addNoiseForecast adds the forecast of the noise n_t to what, from
+// phi(B) n_t = theta(B) a_t with future a_t = 0.
+func (w *fitWork) addNoiseForecast(what []float64) {
+	n, h := w.n, len(what)
+	L := n + h
 	ts, t0 := w.cond.NoiseStart, w.cond.First
 	ne := make([]float64, L)
 	copy(ne[ts:n], w.nn[ts:n])
@@ -410,9 +491,15 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		ne[t] = v / w.arC[0]
 		what[t-n] += ne[t]
 	}
-	// Integrate the differencing with the observed outputs.
+}
+
+// integrate returns y extended by the forecast what of D(B) y,
+// integrating the differencing dc with the observed outputs.
+func integrate(y, what, dc []float64) []float64 {
+	n := len(y)
+	L := n + len(what)
 	ye := make([]float64, L)
-	copy(ye, w.y)
+	copy(ye, y)
 	for t := n; t < L; t++ {
 		v := what[t-n]
 		for k := 1; k < len(dc); k++ {
@@ -420,9 +507,17 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		}
 		ye[t] = v / dc[0]
 	}
-	z := distuv.UnitNormal.Quantile(0.5 + set.Level/2)
-	for j := 0; j < h; j++ {
-		fc.Mean[j] = ye[n+j]
+	return ye
+}
+
+// setIntervals sets the forecast means (mean), standard errors (from
+// the variances vr) and limits at fc.Level, and refuses a value that
+// overflowed.
+func (fc *Forecast) setIntervals(mean, vr []float64, e *Estimate) error {
+	n := fc.Origin
+	z := distuv.UnitNormal.Quantile(0.5 + fc.Level/2)
+	for j := range mean {
+		fc.Mean[j] = mean[j]
 		fc.SE[j] = math.Sqrt(vr[j])
 		fc.Lower[j] = fc.Mean[j] - z*fc.SE[j]
 		fc.Upper[j] = fc.Mean[j] + z*fc.SE[j]
@@ -431,20 +526,16 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			v    float64
 		}{{"forecast mean", fc.Mean[j]}, {"forecast standard error", fc.SE[j]}, {"lower forecast limit", fc.Lower[j]}, {"upper forecast limit", fc.Upper[j]}} {
 			if math.IsNaN(r.v) || math.IsInf(r.v, 0) {
-				return nil, overflowErr(r.name, n+j, r.v,
-					fmt.Sprintf("the forecast overflowed float64 at step %d; %s", j+1, chkDivergeHint(e)))
+				return overflowErr(r.name, n+j, r.v,
+					fmt.Sprintf("the forecast overflowed float64 at step %d; %s", j+1, divergeHint(e)))
 			}
 		}
 	}
-	if bad := e.Soundness(); len(bad) > 0 {
-		fc.Warnings = append(fc.Warnings, ForecastWarning{Kind: UnsoundEstimate,
-			Message: "the estimate is not to be trusted, nor forecasts from it: " + strings.Join(bad, "; ")})
-	}
-	return fc, nil
+	return nil
 }
 
-// fcRange returns the smallest and largest value of x (0, 0 when empty).
-func fcRange(x []float64) (lo, hi float64) {
+// valueRange returns the smallest and largest value of x (0, 0 when empty).
+func valueRange(x []float64) (lo, hi float64) {
 	if len(x) == 0 {
 		return 0, 0
 	}
@@ -455,10 +546,10 @@ func fcRange(x []float64) (lo, hi float64) {
 	return lo, hi
 }
 
-// fcARMA forecasts z (valid from index d) h steps ahead from its ARMA
+// forecastARMA forecasts z (valid from index d) h steps ahead from its ARMA
 // model: innovations by filtering from d with zero pre-sample values,
 // future innovations zero.
-func fcARMA(z []float64, d int, im InputModel, h int) []float64 {
+func forecastARMA(z []float64, d int, im InputModel, h int) []float64 {
 	n := len(z)
 	zc := make([]float64, n+h)
 	for t := d; t < n; t++ {

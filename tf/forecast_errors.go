@@ -10,17 +10,17 @@ import (
 	"github.com/backshift/backshift/internal/poly"
 )
 
-// fcRootTol is the margin beyond the unit circle within which an input
+// inputRootMargin is the margin beyond the unit circle within which an input
 // model's AR root counts as on it (a unit root, integration), not
 // outside: 1e-6, well above the rounding of the companion-matrix roots of
 // a low-order polynomial and far below any real explosive root.
-const fcRootTol = 1e-6
+const inputRootMargin = 1e-6
 
-// fcMaxModelDegree bounds the degree of an input model's polynomials:
+// maxInputModelDegree bounds the degree of an input model's polynomials:
 // their roots are found from a companion matrix in O(degree^3) time, a
 // second or so at 1000, which is beyond any seasonal model (a weekly
 // period of 52 with two seasonal AR factors has degree 104).
-const fcMaxModelDegree = 1000
+const maxInputModelDegree = 1000
 
 // validate reports what makes im unusable for forecasting input name.
 // The rules: Sigma2 finite and not negative; C finite; AR and MA
@@ -52,8 +52,8 @@ func (im InputModel) validate(name string) error {
 		if len(p.c) > 0 && p.c[0] != 1 {
 			return bad(p.field+"[0]", p.c[0], "the constant term must be 1: polynomials are stored with constant term 1 (divide every coefficient by it)")
 		}
-		if len(p.c) > fcMaxModelDegree+1 {
-			return bad(p.field, float64(len(p.c)-1), "the degree must be at most "+strconv.Itoa(fcMaxModelDegree))
+		if len(p.c) > maxInputModelDegree+1 {
+			return bad(p.field, float64(len(p.c)-1), "the degree must be at most "+strconv.Itoa(maxInputModelDegree))
 		}
 	}
 	mz := func(c []float64) (float64, bool) {
@@ -73,7 +73,7 @@ func (im InputModel) validate(name string) error {
 	}
 	if m, ok := mz(im.AR); !ok {
 		return bad("AR", m, "its roots cannot be computed; give coefficients of moderate size")
-	} else if m > 1+fcRootTol {
+	} else if m > 1+inputRootMargin {
 		return bad("AR", m, "has a root outside the unit circle (largest |z| shown): the input forecast would grow without bound; the AR part must be stationary, or integrating at most (|z| = 1)")
 	}
 	if m, ok := mz(im.MA); !ok {

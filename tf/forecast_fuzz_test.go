@@ -6,16 +6,16 @@ import (
 	"testing"
 )
 
-// FuzzForecast forecasts from a fit of fitMCModel (300 samples of its
+// FuzzForecast forecasts from a fit of mcModel (300 samples of its
 // own simulation) with fuzzed horizons, levels, known future values,
 // input models, estimates (the denominator, noise AR and variance
 // overwritten) and data (one sample overwritten), NaN and huge values
 // included. Every call must return a typed error of the library or a
 // result whose every number is finite; never a panic.
 func FuzzForecast(f *testing.F) {
-	y, x := fitMCSim(fitRand(5), 300)
+	y, x := mcSim(newRand(5), 300)
 	base := map[string][]float64{"y": y, "x": x}
-	est, err := Fit(context.Background(), fitMCModel(), base, nil)
+	est, err := Fit(context.Background(), mcModel(), base, nil)
 	if err != nil {
 		f.Fatal(err)
 	}

@@ -21,7 +21,7 @@ import (
 // script, R's var.pred convention), the input forecast errors entering
 // the variance.
 func TestForecastAgainstScipy(t *testing.T) {
-	for _, c := range fitReadRef(t) {
+	for _, c := range readRef(t) {
 		t.Run(c.Name, func(t *testing.T) {
 			est, data := c.fit(t)
 			o := c.Forecast.Origin
@@ -66,7 +66,7 @@ func TestForecastAgainstScipy(t *testing.T) {
 func TestForecastRandomWalk(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := Coef{Name: "c", Free: true}
-	m := Model{Output: "y", Diff: fitDiff1, Const: &c, Noise: &arma.Noise{}}
+	m := Model{Output: "y", Diff: diff1, Const: &c, Noise: &arma.Noise{}}
 	est, err := Fit(context.Background(), m, map[string][]float64{"y": y}, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -91,7 +91,7 @@ func TestForecastRandomWalk(t *testing.T) {
 
 // TestForecastErrors checks the typed errors of Forecast.
 func TestForecastErrors(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	if _, err := est.Forecast(data, 0, nil); !errors.As(err, new(*SettingError)) || err.Error() != "tf.Estimate.Forecast: h = 0: the horizon must be at least 1" {
 		t.Errorf("h = 0: %v", err)
 	}
@@ -112,11 +112,11 @@ func TestForecastErrors(t *testing.T) {
 	}
 }
 
-func fitMCEstimate(t *testing.T) (*Estimate, map[string][]float64) {
+func mcEstimate(t *testing.T) (*Estimate, map[string][]float64) {
 	t.Helper()
-	y, x := fitMCSim(fitRand(5), 300)
+	y, x := mcSim(newRand(5), 300)
 	data := map[string][]float64{"y": y, "x": x}
-	est, err := Fit(context.Background(), fitMCModel(), data, nil)
+	est, err := Fit(context.Background(), mcModel(), data, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -130,9 +130,9 @@ func fitMCEstimate(t *testing.T) (*Estimate, map[string][]float64) {
 // MA start-up has died out: theta 0.5 over 400 samples leaves 0.5^400),
 // to 1e-8 relative.
 func TestForecastARMAInput(t *testing.T) {
-	rng := fitRand(61)
+	rng := newRand(61)
 	n, h := 400, 6
-	x := fitSimNoise(rng, n, []float64{1, -0.6}, []float64{1, -0.5}, 1)
+	x := simNoise(rng, n, []float64{1, -0.6}, []float64{1, -0.5}, 1)
 	for i := range x {
 		x[i] += 5
 	}
@@ -153,7 +153,7 @@ func TestForecastARMAInput(t *testing.T) {
 		t.Fatal(err)
 	}
 	m := Model{Output: "y", Const: &Coef{Name: "c", Free: true},
-		Inputs: []Input{{Series: "x", Num: fitP(fitFac(fitTerm(false, "w0", 0, 0))), Delay: 2}}, Noise: &arma.Noise{}}
+		Inputs: []Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Delay: 2}}, Noise: &arma.Noise{}}
 	data := map[string][]float64{"y": y, "x": x}
 	est, err := Fit(context.Background(), m, data, nil)
 	if err != nil {

@@ -14,9 +14,9 @@ import (
 // the forecast mean is c + w0 sum_{k <= t-1} x_k and, the noise being
 // white, the standard error is sigma at every step; both are computed
 // here by direct summation and must agree to 1e-10 relative (summation
-// order only). Before, Forecast ignored the fit's conditioning and
-// returned +Inf means with a nil error; an estimate claiming the
-// held-input convention must now give a typed error naming the cause.
+// order only). Forecast follows the fit's conditioning: an estimate
+// claiming the held-input convention gets a typed error naming the
+// cause, never +Inf means with a nil error.
 func TestForecastIntegratingInput(t *testing.T) {
 	est, data := checkIntegratorFit(t)
 	x := data["x"]
@@ -57,7 +57,7 @@ func TestForecastIntegratingInput(t *testing.T) {
 // at z = 1.5 (explosive), while AR 1 - B (a unit root, integration) is
 // accepted.
 func TestForecastInputModelErrors(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, C: 0, Sigma2: 1}
 	with := func(f func(*InputModel)) map[string]InputModel {
 		m := ok
@@ -136,7 +136,7 @@ func TestForecastInputModelErrors(t *testing.T) {
 // ErrOverflow naming
 // the step, never NaN or infinite numbers with a nil error.
 func TestForecastOverflow(t *testing.T) {
-	est, data := fitMCEstimate(t)
+	est, data := mcEstimate(t)
 	bad := *est
 	bad.Model = est.Model.Clone()
 	bad.Model.Inputs[0].Den.Factors[0].Terms[1].Coef.Value = 1.5
@@ -154,8 +154,8 @@ func TestForecastOverflow(t *testing.T) {
 // from an unsound estimate (a 20-row fit of 5 coefficients) carries the
 // estimate's faults as a warning.
 func TestForecastPlanOutsideRecord(t *testing.T) {
-	est, data := fitMCEstimate(t)
-	lo, hi := fcRange(data["x"])
+	est, data := mcEstimate(t)
+	lo, hi := valueRange(data["x"])
 	plan := []float64{lo, hi + 1, (lo + hi) / 2}
 	fc, err := est.Forecast(data, 3, &ForecastSettings{Future: map[string][]float64{"x": plan}})
 	if err != nil {
@@ -168,7 +168,7 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	if w.Kind != PlanOutsideRecord || w.Input != "x" || w.RecordMin != lo || w.RecordMax != hi || w.PlanMin != lo || w.PlanMax != hi+1 {
 		t.Errorf("warning %+v; record %v..%v", w, lo, hi)
 	}
-	want := `input "x": the planned values span ` + fitNum(lo, 6) + " .. " + fitNum(hi+1, 6) + ", outside the range " + fitNum(lo, 6) + " .. " + fitNum(hi, 6) + " seen in the record"
+	want := `input "x": the planned values span ` + formatSig(lo, 6) + " .. " + formatSig(hi+1, 6) + ", outside the range " + formatSig(lo, 6) + " .. " + formatSig(hi, 6) + " seen in the record"
 	if !strings.HasPrefix(w.Message, want) {
 		t.Errorf("message %q, want prefix %q", w.Message, want)
 	}
@@ -179,9 +179,9 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	if err != nil || len(fc.Warnings) != 0 {
 		t.Errorf("plan inside the record (a value beyond h is not used): %v, %+v", err, fc.Warnings)
 	}
-	y, x := fitMCSim(fitRand(4), 20)
+	y, x := mcSim(newRand(4), 20)
 	small := map[string][]float64{"y": y, "x": x}
-	e20, err := Fit(t.Context(), fitMCModel(), small, nil)
+	e20, err := Fit(t.Context(), mcModel(), small, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

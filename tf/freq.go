@@ -44,7 +44,7 @@ func (r Rational) GainPhase(w []float64) (mag, phase []float64, err error) {
 			return nil, nil, setting(op, "w["+strconv.Itoa(i)+"]", wi, "a frequency must be finite (radians per sample)")
 		}
 		if i > 0 && !(wi > w[i-1]) {
-			return nil, nil, setting(op, "w["+strconv.Itoa(i)+"]", wi, "frequencies must be strictly increasing (w["+strconv.Itoa(i-1)+"] = "+ratFormat(w[i-1])+")")
+			return nil, nil, setting(op, "w["+strconv.Itoa(i)+"]", wi, "frequencies must be strictly increasing (w["+strconv.Itoa(i-1)+"] = "+formatNum(w[i-1])+")")
 		}
 	}
 	mag = make([]float64, len(w))
@@ -54,7 +54,7 @@ func (r Rational) GainPhase(w []float64) (mag, phase []float64, err error) {
 		z := cmplx.Exp(complex(0, -wi))
 		dz := poly.Eval(den, z)
 		if dz == 0 {
-			return nil, nil, &UnstableError{Op: op, What: "frequency response at w = " + ratFormat(wi), MaxPole: 1}
+			return nil, nil, &UnstableError{Op: op, What: "frequency response at w = " + formatNum(wi), MaxPole: 1}
 		}
 		g := poly.Eval(num, z) / dz
 		mag[i] = cmplx.Abs(g)

@@ -52,108 +52,138 @@ func (m LoopMargins) GainMarginDecibels() float64 {
 // response infinite there; LoopMargins returns an *UnstableError then
 // (Op "tf.Rational.LoopMargins").
 func (r Rational) LoopMargins() (LoopMargins, error) {
-	num, den := r.coefs()
-	b := float64(r.delay)
-	n := max(4096, 8*(r.delay+len(den)+len(num)))
-	// Rational-part phase, unwrapped along the grid, and magnitude.
-	w := make([]float64, n)
-	ph := make([]float64, n)
-	mag := make([]float64, n)
-	prev := 0.0
-	for i := range w {
-		w[i] = math.Pi * float64(i+1) / float64(n)
-		g, ok := ratEvalRational(num, den, w[i])
-		if !ok {
-			return LoopMargins{}, &UnstableError{Op: "tf.Rational.LoopMargins", What: "margins (pole on the unit circle at w = " + ratFormat(w[i]) + ")", MaxPole: 1}
-		}
-		p := cmplx.Phase(g)
-		if i > 0 {
-			p += 2 * math.Pi * math.Round((prev-p)/(2*math.Pi))
-		}
-		prev = p
-		ph[i] = p
-		mag[i] = cmplx.Abs(g)
-	}
-	// phaseAt returns the full unwrapped phase at v near a grid point
-	// whose rational-part phase is ref.
-	phaseAt := func(v, ref float64) (float64, float64) {
-		g, _ := ratEvalRational(num, den, v)
-		p := cmplx.Phase(g)
-		p += 2 * math.Pi * math.Round((ref-p)/(2*math.Pi))
-		return p - b*v, cmplx.Abs(g)
+	g, err := r.marginGrid()
+	if err != nil {
+		return LoopMargins{}, err
 	}
 	var m LoopMargins
-	for i := 0; i+1 < n; i++ {
-		f0, f1 := ph[i]-b*w[i], ph[i+1]-b*w[i+1]
-		// Phase crossovers: levels -pi - 2 pi k between f0 and f1.
-		lo, hi := math.Min(f0, f1), math.Max(f0, f1)
-		for k := math.Ceil((-math.Pi - hi) / (2 * math.Pi)); ; k++ {
-			level := -math.Pi - 2*math.Pi*k
-			if level < lo {
-				break
-			}
-			if level > hi || (level == f0 && i > 0) { // a grid hit counts once
-				continue
-			}
-			a, c := w[i], w[i+1]
-			ref := ph[i]
-			for it := 0; it < 100 && c-a > 1e-13; it++ {
-				mid := 0.5 * (a + c)
-				fm, _ := phaseAt(mid, ref)
-				if (fm-level)*(f0-level) > 0 {
-					a = mid
-				} else {
-					c = mid
-				}
-			}
-			wc := 0.5 * (a + c)
-			_, g := phaseAt(wc, ref)
-			if g > 0 {
-				if gm := 1 / g; !m.HasGainMargin || gm < m.GainMargin {
-					m.GainMargin, m.PhaseCrossover, m.HasGainMargin = gm, wc, true
-				}
-			}
-		}
-		// Gain crossovers: |L| - 1 changes sign, or is 0 at a grid point
-		// (counted once, at the interval it ends).
-		d0, d1 := mag[i]-1, mag[i+1]-1
-		var wc float64
-		ref := ph[i]
-		switch {
-		case d1 == 0:
-			wc, ref = w[i+1], ph[i+1]
-		case d0 == 0 && i == 0:
-			wc = w[0]
-		case d0*d1 < 0:
-			a, c := w[i], w[i+1]
-			for it := 0; it < 100 && c-a > 1e-13; it++ {
-				mid := 0.5 * (a + c)
-				_, g := phaseAt(mid, ref)
-				if (g-1)*d0 > 0 {
-					a = mid
-				} else {
-					c = mid
-				}
-			}
-			wc = 0.5 * (a + c)
-		default:
-			continue
-		}
-		f, _ := phaseAt(wc, ref)
-		pm := math.Remainder(f+math.Pi, 2*math.Pi) // in [-pi, pi]
-		if pm == -math.Pi {
-			pm = math.Pi
-		}
-		if !m.HasPhaseMargin || pm < m.PhaseMargin {
-			m.PhaseMargin, m.GainCrossover, m.HasPhaseMargin = pm, wc, true
-		}
+	for i := 0; i+1 < len(g.w); i++ {
+		g.phaseCrossovers(i, &m)
+		g.gainCrossover(i, &m)
 	}
 	return m, nil
 }
 
-// ratEvalRational returns omega/delta at B = e^{-iw}, and false when delta
+// marginGrid is the loop's frequency response on a grid of (0, pi]: the
+// rational part's phase unwrapped along the grid and its magnitude; the
+// dead time's phase -b w is added where the phase is read.
+type marginGrid struct {
+	num, den   []float64
+	b          float64
+	w, ph, mag []float64
+}
+
+// marginGrid evaluates the rational part of r on max(4096, 8 (b + r + s
+// + 2)) points of (0, pi], refusing a pole on the unit circle.
+func (r Rational) marginGrid() (*marginGrid, error) {
+	num, den := r.coefs()
+	n := max(4096, 8*(r.delay+len(den)+len(num)))
+	g := &marginGrid{num: num, den: den, b: float64(r.delay), w: make([]float64, n), ph: make([]float64, n), mag: make([]float64, n)}
+	prev := 0.0
+	for i := range g.w {
+		g.w[i] = math.Pi * float64(i+1) / float64(n)
+		v, ok := evalRational(num, den, g.w[i])
+		if !ok {
+			return nil, &UnstableError{Op: "tf.Rational.LoopMargins", What: "margins (pole on the unit circle at w = " + formatNum(g.w[i]) + ")", MaxPole: 1}
+		}
+		p := cmplx.Phase(v)
+		if i > 0 {
+			p += 2 * math.Pi * math.Round((prev-p)/(2*math.Pi))
+		}
+		prev = p
+		g.ph[i] = p
+		g.mag[i] = cmplx.Abs(v)
+	}
+	return g, nil
+}
+
+// phaseAt returns the full unwrapped phase at v near a grid point whose
+// rational-part phase is ref, and the magnitude.
+func (g *marginGrid) phaseAt(v, ref float64) (float64, float64) {
+	x, _ := evalRational(g.num, g.den, v)
+	p := cmplx.Phase(x)
+	p += 2 * math.Pi * math.Round((ref-p)/(2*math.Pi))
+	return p - g.b*v, cmplx.Abs(x)
+}
+
+// phaseCrossovers finds the phase crossovers (levels -pi - 2 pi k)
+// between grid points i and i+1 by bisection and keeps the smallest gain
+// margin in m.
+func (g *marginGrid) phaseCrossovers(i int, m *LoopMargins) {
+	w, ph, b := g.w, g.ph, g.b
+	f0, f1 := ph[i]-b*w[i], ph[i+1]-b*w[i+1]
+	lo, hi := math.Min(f0, f1), math.Max(f0, f1)
+	for k := math.Ceil((-math.Pi - hi) / (2 * math.Pi)); ; k++ {
+		level := -math.Pi - 2*math.Pi*k
+		if level < lo {
+			break
+		}
+		if level > hi || (level == f0 && i > 0) { // a grid hit counts once
+			continue
+		}
+		a, c := w[i], w[i+1]
+		ref := ph[i]
+		for it := 0; it < 100 && c-a > 1e-13; it++ {
+			mid := 0.5 * (a + c)
+			fm, _ := g.phaseAt(mid, ref)
+			if (fm-level)*(f0-level) > 0 {
+				a = mid
+			} else {
+				c = mid
+			}
+		}
+		wc := 0.5 * (a + c)
+		_, mag := g.phaseAt(wc, ref)
+		if mag > 0 {
+			if gm := 1 / mag; !m.HasGainMargin || gm < m.GainMargin {
+				m.GainMargin, m.PhaseCrossover, m.HasGainMargin = gm, wc, true
+			}
+		}
+	}
+}
+
+// gainCrossover finds a gain crossover between grid points i and i+1
+// (|L| - 1 changes sign, or is 0 at a grid point, counted once, at the
+// interval it ends) by bisection and keeps the smallest phase margin in
+// m.
+func (g *marginGrid) gainCrossover(i int, m *LoopMargins) {
+	w, ph := g.w, g.ph
+	d0, d1 := g.mag[i]-1, g.mag[i+1]-1
+	var wc float64
+	ref := ph[i]
+	switch {
+	case d1 == 0:
+		wc, ref = w[i+1], ph[i+1]
+	case d0 == 0 && i == 0:
+		wc = w[0]
+	case d0*d1 < 0:
+		a, c := w[i], w[i+1]
+		for it := 0; it < 100 && c-a > 1e-13; it++ {
+			mid := 0.5 * (a + c)
+			_, mag := g.phaseAt(mid, ref)
+			if (mag-1)*d0 > 0 {
+				a = mid
+			} else {
+				c = mid
+			}
+		}
+		wc = 0.5 * (a + c)
+	default:
+		return
+	}
+	f, _ := g.phaseAt(wc, ref)
+	pm := math.Remainder(f+math.Pi, 2*math.Pi) // in [-pi, pi]
+	if pm == -math.Pi {
+		pm = math.Pi
+	}
+	if !m.HasPhaseMargin || pm < m.PhaseMargin {
+		m.PhaseMargin, m.GainCrossover, m.HasPhaseMargin = pm, wc, true
+	}
+}
+
+// evalRational returns omega/delta at B = e^{-iw}, and false when delta
 // vanishes there.
-func ratEvalRational(num, den []float64, w float64) (complex128, bool) {
+func evalRational(num, den []float64, w float64) (complex128, bool) {
 	z := cmplx.Exp(complex(0, -w))
 	d := poly.Eval(den, z)
 	if d == 0 {

@@ -11,8 +11,8 @@ import (
 // agree: StepAt is NaN for parameters Discretize rejects whatever the
 // interval (non-finite gain, time constants that are not positive and
 // finite, negative or non-finite damping or dead time) and for t = NaN,
-// and a number for valid ones. FOPDT.StepAt used to return numbers (0, or
-// -Gain for TimeConstant 0) where the second-order models returned NaN.
+// and a number for valid ones, FOPDT.StepAt as the second-order models
+// (NaN, not 0 or -Gain, for TimeConstant 0).
 func TestHostileStepAtInvalid(t *testing.T) {
 	nan, inf := math.NaN(), math.Inf(1)
 	type stepper interface{ StepAt(float64) float64 }

@@ -17,7 +17,7 @@ import (
 func TestHostileForecastHorizon(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := Coef{Name: "c", Free: true}
-	m := Model{Output: "y", Diff: fitDiff1, Const: &c, Noise: &arma.Noise{}}
+	m := Model{Output: "y", Diff: diff1, Const: &c, Noise: &arma.Noise{}}
 	data := map[string][]float64{"y": y}
 	est, err := Fit(context.Background(), m, data, nil)
 	if err != nil {

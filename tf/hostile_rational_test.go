@@ -37,9 +37,9 @@ func TestHostileResponseLength(t *testing.T) {
 
 // TestHostileNormalise checks that a den[0] whose division takes a
 // coefficient out of float64 range is reported for den coefficient 0,
-// with its value and the coefficient concerned, wrapping ErrNormalise;
-// it used to be reported as "num coefficient 0 = +Inf", a value the
-// caller never gave.
+// with its value and the coefficient concerned, wrapping ErrNormalise,
+// never as a numerator coefficient of +Inf, a value the caller never
+// gave.
 func TestHostileNormalise(t *testing.T) {
 	for _, c := range []struct {
 		name     string

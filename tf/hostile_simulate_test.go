@@ -13,7 +13,7 @@ import (
 
 // TestHostileSimulateBurnIn checks that a burn-in above MaxBurnIn is a
 // *SettingError naming BurnIn and the limit, returned at once (BurnIn =
-// math.MaxInt used to draw innovations practically for ever), and that
+// math.MaxInt would draw innovations practically for ever), and that
 // the limit itself does not apply when Innovations are given (BurnIn is
 // then ignored).
 func TestHostileSimulateBurnIn(t *testing.T) {

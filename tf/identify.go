@@ -199,6 +199,9 @@ func (c FittedCandidate) String() string {
 // prewhitening filter that leaves the input visibly coloured does not
 // stop the identification.
 func Identify(ctx context.Context, output string, inputs []string, data map[string][]float64, s *IdentifySettings) (cands []FittedCandidate, err error) {
+	// Over 60 lines as the one place where the stages read in order
+	// (checks, defaults, forms, noise orders, candidates, fits,
+	// refinement, ranking); each stage is a function of its own.
 	defer setOp("tf.Identify", &err)
 	defer func() {
 		if r := recover(); r != nil {
@@ -212,48 +215,118 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	if err := idfValidate(output, inputs, data); err != nil {
+	if err := validateIdentifyData(output, inputs, data); err != nil {
 		return nil, err
 	}
 	if err := set.validate(append([]string{}, inputs...), len(data[output])); err != nil {
 		return nil, err
 	}
-	// Faults of the record that may explain a failed stage below.
-	var hints []string
-	for _, w := range screenWarnings(output, data[output]) {
-		hints = append(hints, w.Message)
-	}
-	idfDefault := func(v *int, d int) {
-		if *v == 0 {
-			*v = d
-		}
-	}
-	idfDefault(&set.MaxR, 2)
-	idfDefault(&set.MaxS, 2)
-	idfDefault(&set.Forms, 2)
-	idfDefault(&set.MaxP, 2)
-	idfDefault(&set.MaxQ, 2)
-	idfDefault(&set.NoiseOrders, 2)
-	idfDefault(&set.MaxCandidates, 24)
-	if set.Workers == 0 {
-		set.Workers = runtime.GOMAXPROCS(0)
-	}
-	y := data[output]
-	n := len(y)
-	if v, ok := chkConstant(y, set.OutputDiff); ok {
-		return nil, constantErr(output, "output", v, chkDiffText(set.OutputDiff))
-	}
-	maxLag := set.MaxLag
-	if maxLag <= 0 {
-		maxLag = max(10, min(36, n/6))
+	set.fillDefaults()
+	diffs, err := inputDiffs(output, inputs, data, set)
+	if err != nil {
+		return nil, err
 	}
 	outDiff := sym.FromCoeffs(set.OutputDiff)
 	if len(set.OutputDiff) <= 1 {
 		outDiff = Poly{}
 	}
-	// Forms per input.
-	forms := make([][]Input, len(inputs))
-	scores := make([][]float64, len(inputs))
+	// Faults of the record that may explain a failed stage.
+	hints := recordHints(output, data[output])
+	forms, scores, ids, err := inputForms(output, inputs, data, diffs, set, hints)
+	if err != nil {
+		return nil, err
+	}
+	fs := set.settingsOfFits()
+	pre := Model{Output: output, Diff: outDiff, Const: &Coef{Name: "c", Free: true}, Noise: &arma.Noise{}}
+	for i := range inputs {
+		pre.Inputs = append(pre.Inputs, forms[i][0]) // the best form of each input
+	}
+	noises, settleFirst, err := noiseOrders(ctx, pre, data, fs, set)
+	if err != nil {
+		return nil, err
+	}
+	models := candidateModels(output, outDiff, forms, formCombos(scores, set.MaxCandidates), noises, set.MaxCandidates)
+	fs.First = max(commonFirst(models, data, fs.First), settleFirst)
+	total := len(models)
+	if !set.NoRefine {
+		total += 2 * (len(inputs) + 1)
+	}
+	prog := &identifyProgress{fn: set.Progress, total: total}
+	out := scoreCandidates(ctx, models, data, fs, set, prog)
+	if !set.NoRefine {
+		out = refineNeighbours(ctx, out, models, data, fs, set, prog)
+	}
+	rank(out, ids)
+	if err := ctx.Err(); err != nil {
+		return out, err
+	}
+	if len(out) > 0 && out[0].Err != nil {
+		return out, out[0].Err
+	}
+	return out, nil
+}
+
+// settingsOfFits returns the settings of Identify's fits: set.Fit, with
+// extra series in the data allowed.
+func (set IdentifySettings) settingsOfFits() FitSettings {
+	fs := FitSettings{IgnoreExtra: true}
+	if set.Fit != nil {
+		fs = *set.Fit
+		fs.IgnoreExtra = true
+	}
+	return fs
+}
+
+// recordHints returns the messages of the faults screened in the output
+// y (named output), which may explain a failed stage of Identify.
+func recordHints(output string, y []float64) []string {
+	var hints []string
+	for _, w := range screenWarnings(output, y) {
+		hints = append(hints, w.Message)
+	}
+	return hints
+}
+
+// rank sorts the candidates by score (stable, so ties keep their order),
+// numbers them from 1, attaches the identifications and sets the Op of
+// their errors.
+func rank(out []FittedCandidate, ids []*ccf.Identification) {
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
+	for i := range out {
+		out[i].Rank = i + 1
+		out[i].Identification = ids
+		setOp("tf.Identify", &out[i].Err)
+		setOp("tf.Identify", &out[i].CheckErr)
+	}
+}
+
+// fillDefaults replaces the zero values of the settings Identify reads
+// by their documented defaults.
+func (set *IdentifySettings) fillDefaults() {
+	def := func(v *int, d int) {
+		if *v == 0 {
+			*v = d
+		}
+	}
+	def(&set.MaxR, 2)
+	def(&set.MaxS, 2)
+	def(&set.Forms, 2)
+	def(&set.MaxP, 2)
+	def(&set.MaxQ, 2)
+	def(&set.NoiseOrders, 2)
+	def(&set.MaxCandidates, 24)
+	if set.Workers == 0 {
+		set.Workers = runtime.GOMAXPROCS(0)
+	}
+}
+
+// inputDiffs returns the differencing of each input (the output's unless
+// set.InputDiff names one; nil for none), and refuses an output or input
+// that is constant after its differencing.
+func inputDiffs(output string, inputs []string, data map[string][]float64, set IdentifySettings) ([][]float64, error) {
+	if v, ok := constantAfterDiff(data[output], set.OutputDiff); ok {
+		return nil, constantErr(output, "output", v, diffText(set.OutputDiff))
+	}
 	diffs := make([][]float64, len(inputs))
 	for i, name := range inputs {
 		diff, ok := set.InputDiff[name]
@@ -264,21 +337,38 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			diff = nil
 		}
 		diffs[i] = diff
-		if v, ok := chkConstant(data[name], diff); ok {
-			return nil, constantErr(name, "input", v, chkDiffText(diff))
+		if v, ok := constantAfterDiff(data[name], diff); ok {
+			return nil, constantErr(name, "input", v, diffText(diff))
 		}
+	}
+	return diffs, nil
+}
+
+// inputForms estimates the impulse response of the output to each input
+// (prewhitened one at a time, or jointly with several inputs, valid when
+// the inputs are correlated with one another), chooses dead times and
+// orders from it, and returns per input the set.Forms best input terms
+// with their scores, and the identifications.
+func inputForms(output string, inputs []string, data map[string][]float64, diffs [][]float64, set IdentifySettings, hints []string) (forms [][]Input, scores [][]float64, ids []*ccf.Identification, err error) {
+	y := data[output]
+	n := len(y)
+	maxLag := set.MaxLag
+	if maxLag <= 0 {
+		maxLag = max(10, min(36, n/6))
 	}
 	var joint []*ccf.Weights
 	if len(inputs) > 1 {
-		// Several inputs: weights estimated jointly, valid when the
-		// inputs are correlated with one another.
-		var err error
-		joint, err = idfJointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
+		joint, err = jointWeights(output, inputs, data, set.OutputDiff, diffs, maxLag)
 		if err != nil {
-			return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err, Hints: hints}
+			return nil, nil, nil, &StageError{Stage: fmt.Sprintf("estimating the impulse responses of %q to all inputs jointly", output), Err: err, Hints: hints}
 		}
 	}
-	var ids []*ccf.Identification
+	forms = make([][]Input, len(inputs))
+	scores = make([][]float64, len(inputs))
+	penalty := math.Log(float64(n)) // BIC-like weight, as the final ranking
+	if set.ByAIC {
+		penalty = 2
+	}
 	for i, name := range inputs {
 		diff := diffs[i]
 		var w *ccf.Weights
@@ -288,20 +378,16 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			pr, err := prewhiten.Pair(data[name], y, output, &prewhiten.Settings{Diff: diff, Name: name})
 			var nw *prewhiten.NotWhiteError
 			if err != nil && !errors.As(err, &nw) {
-				return nil, &StageError{Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err, Hints: hints}
+				return nil, nil, nil, &StageError{Stage: fmt.Sprintf("prewhitening input %q and output %q", name, output), Err: err, Hints: hints}
 			}
 			w, err = ccf.ImpulseWeights(pr.Alpha[pr.Start:], pr.Beta[pr.Start:], min(maxLag, n-pr.Start-2), name, nil)
 			if err != nil {
-				return nil, &StageError{Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err, Hints: hints}
+				return nil, nil, nil, &StageError{Stage: fmt.Sprintf("estimating the impulse response of %q to input %q", output, name), Err: err, Hints: hints}
 			}
-		}
-		penalty := math.Log(float64(n)) // BIC-like weight, as the final ranking
-		if set.ByAIC {
-			penalty = 2
 		}
 		id, err := ccf.Identify(w, &ccf.IdentifySettings{MaxR: set.MaxR, MaxS: set.MaxS, Input: name, Penalty: penalty})
 		if err != nil {
-			return nil, &StageError{Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err, Hints: hints}
+			return nil, nil, nil, &StageError{Stage: fmt.Sprintf("choosing the dead time and orders of input %q", name), Err: err, Hints: hints}
 		}
 		ids = append(ids, id)
 		dp := Poly{}
@@ -312,61 +398,67 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			if k >= set.Forms {
 				break
 			}
-			forms[i] = append(forms[i], idfInput(name, len(inputs) > 1, dp, c))
+			forms[i] = append(forms[i], formInput(name, len(inputs) > 1, dp, c))
 			scores[i] = append(scores[i], c.Score)
 		}
 	}
-	combos := idfCombos(scores, set.MaxCandidates)
-	// Noise orders from the residuals of the best forms with white noise.
-	c0 := Coef{Name: "c", Free: true}
-	pre := Model{Output: output, Diff: outDiff, Const: &c0, Noise: &arma.Noise{}}
-	for i := range inputs {
-		pre.Inputs = append(pre.Inputs, forms[i][0])
-	}
-	fs := FitSettings{IgnoreExtra: true}
-	if set.Fit != nil {
-		fs = *set.Fit
-		fs.IgnoreExtra = true
-	}
-	noises := []*arma.Noise{{}}
-	settleFirst := 0
-	est, err := idfFit(ctx, pre, data, &fs)
+	return forms, scores, ids, nil
+}
+
+// noiseOrders fits pre (the best forms with white noise) and returns the
+// set.NoiseOrders best noise models of its residuals (white noise alone
+// when that fit or the noise identification fails) and, unless
+// set.NoSettle, the first residual index past the start-up transient of
+// its estimated poles. A bad setting in set.Fit is returned under its
+// IdentifySettings name; a done context ends the search.
+func noiseOrders(ctx context.Context, pre Model, data map[string][]float64, fs FitSettings, set IdentifySettings) (noises []*arma.Noise, settleFirst int, err error) {
+	noises = []*arma.Noise{{}}
+	est, ferr := identifyFit(ctx, pre, data, &fs)
 	if cerr := ctx.Err(); cerr != nil {
-		return nil, cerr
+		return nil, 0, cerr
 	}
 	var se *errs.SettingError
-	if err != nil && errors.As(err, &se) && strings.HasPrefix(se.Setting, "FitSettings.") {
+	if ferr != nil && errors.As(ferr, &se) && strings.HasPrefix(se.Setting, "FitSettings.") {
 		c := *se
 		c.Setting = "IdentifySettings.Fit." + strings.TrimPrefix(se.Setting, "FitSettings.")
-		return nil, &c
+		return nil, 0, &c
 	}
-	if err == nil {
-		if !set.NoSettle {
-			k := fitSettleSamples(est.Model)
-			settleFirst = min(est.Conditioning.NoiseStart+max(set.MaxP, 0)+k, n/10)
-		}
-		r := est.Resid[est.Conditioning.First:]
-		nid, err := prewhiten.IdentifyNoise(ctx, r, &prewhiten.NoiseSettings{MaxP: set.MaxP, MaxQ: set.MaxQ})
-		if cerr := ctx.Err(); cerr != nil {
-			return nil, cerr
-		}
-		if err == nil {
-			noises = noises[:0]
-			for _, c := range nid.Candidates {
-				if c.Err != nil || len(noises) >= set.NoiseOrders {
-					continue
-				}
-				noises = append(noises, idfNoise(c.Order.P, c.Order.Q))
-			}
-			if len(noises) == 0 {
-				noises = append(noises, &arma.Noise{})
-			}
-		}
+	if ferr != nil {
+		return noises, 0, nil
 	}
+	if !set.NoSettle {
+		k := settleSamples(est.Model)
+		settleFirst = min(est.Conditioning.NoiseStart+max(set.MaxP, 0)+k, len(est.Resid)/10)
+	}
+	r := est.Resid[est.Conditioning.First:]
+	nid, nerr := prewhiten.IdentifyNoise(ctx, r, &prewhiten.NoiseSettings{MaxP: set.MaxP, MaxQ: set.MaxQ})
+	if cerr := ctx.Err(); cerr != nil {
+		return nil, 0, cerr
+	}
+	if nerr != nil {
+		return noises, settleFirst, nil
+	}
+	noises = noises[:0]
+	for _, c := range nid.Candidates {
+		if c.Err != nil || len(noises) >= set.NoiseOrders {
+			continue
+		}
+		noises = append(noises, noiseOfOrder(c.Order.P, c.Order.Q))
+	}
+	if len(noises) == 0 {
+		noises = append(noises, &arma.Noise{})
+	}
+	return noises, settleFirst, nil
+}
+
+// candidateModels combines each combination of input forms with each
+// noise model, at most limit models, each with a free constant and its
+// own copies of the polynomials.
+func candidateModels(output string, outDiff Poly, forms [][]Input, combos [][]int, noises []*arma.Noise, limit int) []Model {
 	var models []Model
 	for _, cb := range combos {
 		for _, nz := range noises {
-			if len(models) >= set.MaxCandidates {
+			if len(models) >= limit {
 				break
 			}
 			c := Coef{Name: "c", Free: true}
@@ -379,88 +471,77 @@ func Identify(ctx context.Context, output string, inputs []string, data map[stri
 			models = append(models, m)
 		}
 	}
-	// A common first residual index so that the criteria compare.
-	first := fs.First
-	for _, m := range models {
-		if w, err := fitPrepare(m, data, FitSettings{IgnoreExtra: true}); err == nil {
-			first = max(first, w.cond.First)
-		}
-	}
-	fs.First = max(first, settleFirst)
-	total := len(models)
-	if !set.NoRefine {
-		total += 2 * (len(inputs) + 1)
-	}
-	prog := &idfProgress{fn: set.Progress, total: total}
-	out := idfFitAll(ctx, models, data, fs, set, prog)
-	if !set.NoRefine {
-		// Lower-order neighbours of the best fit, started from its
-		// estimates: drop the highest-power coefficient of one
-		// numerator, denominator or noise polynomial at a time; repeat
-		// from the new best while that improves the score.
-		seen := map[string]bool{}
-		for _, m := range models {
-			seen[idfKey(m)] = true
-		}
-		planned := len(models)
-		for round := 0; round < idfRounds && ctx.Err() == nil; round++ {
-			b := idfBest(out)
-			if b == nil {
-				break
-			}
-			var more []Model
-			for _, m := range idfNeighbours(b.Estimate.Model) {
-				if k := idfKey(m); !seen[k] {
-					seen[k] = true
-					more = append(more, m)
-				}
-			}
-			if len(more) == 0 {
-				break
-			}
-			planned += len(more)
-			prog.setTotal(planned)
-			before := b.Score
-			out = append(out, idfFitAll(ctx, more, data, fs, set, prog)...)
-			if nb := idfBest(out); nb == nil || nb.Score >= before {
-				break
-			}
-		}
-	}
-	sort.SliceStable(out, func(i, j int) bool { return out[i].Score < out[j].Score })
-	for i := range out {
-		out[i].Rank = i + 1
-		out[i].Identification = ids
-		setOp("tf.Identify", &out[i].Err)
-		setOp("tf.Identify", &out[i].CheckErr)
-	}
-	if err := ctx.Err(); err != nil {
-		return out, err
-	}
-	if len(out) > 0 && out[0].Err != nil {
-		return out, out[0].Err
-	}
-	return out, nil
+	return models
 }
 
-// idfRounds bounds the rounds of lower-order neighbours.
-const idfRounds = 4
+// commonFirst returns the largest automatic first residual index of the
+// models (at least first), so that their criteria compare over the same
+// residuals.
+func commonFirst(models []Model, data map[string][]float64, first int) int {
+	for _, m := range models {
+		if w, err := prepareFit(m, data, FitSettings{IgnoreExtra: true}); err == nil {
+			first = max(first, w.cond.First)
+			w.release()
+		}
+	}
+	return first
+}
 
-// idfProgress reports finished fits to the caller's callback, one call
+// refineNeighbours fits lower-order neighbours of the best fit, started
+// from its estimates: it drops the highest-power coefficient of one
+// numerator, denominator or noise polynomial at a time, and repeats from
+// the new best while that improves the score (at most refineRounds
+// rounds). It returns out with the new candidates appended.
+func refineNeighbours(ctx context.Context, out []FittedCandidate, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *identifyProgress) []FittedCandidate {
+	seen := map[string]bool{}
+	for _, m := range models {
+		seen[structureKey(m)] = true
+	}
+	planned := len(models)
+	for round := 0; round < refineRounds && ctx.Err() == nil; round++ {
+		b := bestCandidate(out)
+		if b == nil {
+			break
+		}
+		var more []Model
+		for _, m := range lowerNeighbours(b.Estimate.Model) {
+			if k := structureKey(m); !seen[k] {
+				seen[k] = true
+				more = append(more, m)
+			}
+		}
+		if len(more) == 0 {
+			break
+		}
+		planned += len(more)
+		prog.setTotal(planned)
+		before := b.Score
+		out = append(out, scoreCandidates(ctx, more, data, fs, set, prog)...)
+		if nb := bestCandidate(out); nb == nil || nb.Score >= before {
+			break
+		}
+	}
+	return out
+}
+
+// refineRounds bounds the rounds of lower-order neighbours.
+const refineRounds = 4
+
+// identifyProgress reports finished fits to the caller's callback, one call
 // at a time.
-type idfProgress struct {
+type identifyProgress struct {
 	mu          sync.Mutex
 	fn          func(done, total int)
 	done, total int
 }
 
-func (p *idfProgress) setTotal(t int) {
+func (p *identifyProgress) setTotal(t int) {
 	p.mu.Lock()
 	p.total = t
 	p.mu.Unlock()
 }
 
-func (p *idfProgress) tick() {
+func (p *identifyProgress) tick() {
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	p.done++
@@ -469,9 +550,9 @@ func (p *idfProgress) tick() {
 	}
 }
 
-// idfFitAll fits and checks the models on at most set.Workers
+// scoreCandidates fits and checks the models on at most set.Workers
 // goroutines.
-func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *idfProgress) []FittedCandidate {
+func scoreCandidates(ctx context.Context, models []Model, data map[string][]float64, fs FitSettings, set IdentifySettings, prog *identifyProgress) []FittedCandidate {
 	crit := "BIC"
 	if set.ByAIC {
 		crit = "AIC"
@@ -496,54 +577,56 @@ func idfFitAll(ctx context.Context, models []Model, data map[string][]float64, f
 				}()
 				prog.tick()
 			}()
-			c := FittedCandidate{Structure: models[k], Criterion: crit, Score: math.Inf(1)}
-			stage := "fitting candidate " + c.Label()
-			// The last line of defence: a panic in this goroutine would
-			// kill the caller's process.
-			defer func() {
-				if r := recover(); r != nil {
-					out[k] = FittedCandidate{Structure: models[k], Criterion: crit, Score: math.Inf(1),
-						Err: &errs.InternalError{Op: "tf.Identify", Value: fmt.Sprint(stage, ": ", r), Stack: debug.Stack()}}
-				}
-			}()
-			if err := ctx.Err(); err != nil {
-				c.Err = err
-				out[k] = c
-				return
-			}
-			f := fs
-			est, err := idfFit(ctx, models[k], data, &f)
-			if err != nil {
-				c.Err = err
-				out[k] = c
-				return
-			}
-			score := est.BIC
-			if set.ByAIC {
-				score = est.AIC
-			}
-			if math.IsNaN(score) || math.IsInf(score, 0) {
-				c.Err = scoreErr(c.Label(), crit, score)
-				out[k] = c
-				return
-			}
-			c.Estimate = est
-			c.Score = score
-			stage = "checking candidate " + c.Label()
-			c.Diagnostics, c.CheckErr = Check(est, data, set.Check)
-			out[k] = c
+			out[k] = scoreCandidate(ctx, models[k], data, fs, set, crit)
 		}(k)
 	}
 	wg.Wait()
 	return out
 }
 
-// idfFit is the fit Identify runs; tests replace it to reach the
-// recovery at the goroutine boundary of idfFitAll.
-var idfFit = Fit
+// scoreCandidate fits and checks one model and scores it by crit; it runs
+// on a goroutine of scoreCandidates and recovers a panic into an
+// *InternalError naming the stage (the last line of defence: a panic
+// there would kill the caller's process).
+func scoreCandidate(ctx context.Context, m Model, data map[string][]float64, fs FitSettings, set IdentifySettings, crit string) (c FittedCandidate) {
+	c = FittedCandidate{Structure: m, Criterion: crit, Score: math.Inf(1)}
+	stage := "fitting candidate " + c.Label()
+	defer func() {
+		if r := recover(); r != nil {
+			c = FittedCandidate{Structure: m, Criterion: crit, Score: math.Inf(1),
+				Err: &errs.InternalError{Op: "tf.Identify", Value: fmt.Sprint(stage, ": ", r), Stack: debug.Stack()}}
+		}
+	}()
+	if err := ctx.Err(); err != nil {
+		c.Err = err
+		return c
+	}
+	est, err := identifyFit(ctx, m, data, &fs)
+	if err != nil {
+		c.Err = err
+		return c
+	}
+	score := est.BIC
+	if set.ByAIC {
+		score = est.AIC
+	}
+	if math.IsNaN(score) || math.IsInf(score, 0) {
+		c.Err = scoreErr(c.Label(), crit, score)
+		return c
+	}
+	c.Estimate = est
+	c.Score = score
+	stage = "checking candidate " + c.Label()
+	c.Diagnostics, c.CheckErr = Check(est, data, set.Check)
+	return c
+}
 
-// idfBest returns the candidate with the lowest score, nil if none fitted.
-func idfBest(cs []FittedCandidate) *FittedCandidate {
+// identifyFit is the fit Identify runs; tests replace it to reach the
+// recovery at the goroutine boundary of scoreCandidates.
+var identifyFit = Fit
+
+// bestCandidate returns the candidate with the lowest score, nil if none fitted.
+func bestCandidate(cs []FittedCandidate) *FittedCandidate {
 	var b *FittedCandidate
 	for i := range cs {
 		if cs[i].Err == nil && (b == nil || cs[i].Score < b.Score) {
@@ -553,9 +636,9 @@ func idfBest(cs []FittedCandidate) *FittedCandidate {
 	return b
 }
 
-// idfKey describes the structure of a model: per input its dead time and
+// structureKey describes the structure of a model: per input its dead time and
 // degrees, and the noise degrees.
-func idfKey(m Model) string {
+func structureKey(m Model) string {
 	k := ""
 	for _, in := range m.Inputs {
 		k += fmt.Sprintf("%s:%d,%d,%d;", in.Series, in.Delay, in.Den.Degree(), in.Num.Degree())
@@ -566,10 +649,10 @@ func idfKey(m Model) string {
 	return k
 }
 
-// idfNeighbours returns copies of m (single-factor polynomials as
+// lowerNeighbours returns copies of m (single-factor polynomials as
 // Identify builds them) with the highest-power term of one numerator
 // (s >= 1), denominator (r >= 1) or noise polynomial removed.
-func idfNeighbours(m Model) []Model {
+func lowerNeighbours(m Model) []Model {
 	drop := func(p Poly) (Poly, bool) {
 		if len(p.Factors) != 1 || len(p.Factors[0].Terms) < 2 {
 			return p, false
@@ -615,10 +698,10 @@ func idfNeighbours(m Model) []Model {
 	return out
 }
 
-// idfJointWeights estimates the impulse-response weights of several
+// jointWeights estimates the impulse-response weights of several
 // inputs jointly (ccf.DistributedLag with AR(1) noise) on the
 // differenced series, all starting at the largest differencing degree.
-func idfJointWeights(output string, inputs []string, data map[string][]float64, outDiff []float64, diffs [][]float64, maxLag int) ([]*ccf.Weights, error) {
+func jointWeights(output string, inputs []string, data map[string][]float64, outDiff []float64, diffs [][]float64, maxLag int) ([]*ccf.Weights, error) {
 	d := max(len(outDiff)-1, 0)
 	for _, dd := range diffs {
 		d = max(d, len(dd)-1)
@@ -627,7 +710,7 @@ func idfJointWeights(output string, inputs []string, data map[string][]float64, 
 		if len(dc) == 0 {
 			dc = []float64{1}
 		}
-		return fitDiff(x, dc)[d:]
+		return applyDiff(x, dc)[d:]
 	}
 	y := cut(data[output], outDiff)
 	xs := make([][]float64, len(inputs))
@@ -642,10 +725,10 @@ func idfJointWeights(output string, inputs []string, data map[string][]float64, 
 	return r.Weights, nil
 }
 
-// idfSpecName reports whether s can name a series in a model spec (the
+// isSpecName reports whether s can name a series in a model spec (the
 // models Identify returns print as specs): an ASCII letter or underscore,
 // then letters, digits or underscores, and not a word of the language.
-func idfSpecName(s string) bool {
+func isSpecName(s string) bool {
 	switch s {
 	case "", "B", "a", "AR", "MA", "ARMA", "where", "every":
 		return false
@@ -660,8 +743,8 @@ func idfSpecName(s string) bool {
 	return true
 }
 
-// idfValidate checks presence, lengths and finiteness of the series.
-func idfValidate(output string, inputs []string, data map[string][]float64) error {
+// validateIdentifyData checks presence, lengths and finiteness of the series.
+func validateIdentifyData(output string, inputs []string, data map[string][]float64) error {
 	if output == "" {
 		return seriesErr(output, errs.ErrName, 0, 0, "the output is not named; name the output series")
 	}
@@ -669,13 +752,13 @@ func idfValidate(output string, inputs []string, data map[string][]float64) erro
 	if !ok {
 		return seriesErr(output, errs.ErrName, 0, 0, "the output is not in the data; check the series names")
 	}
-	if !idfSpecName(output) {
+	if !isSpecName(output) {
 		return specNameErr(output, "output")
 	}
 	seen := map[string]bool{}
 	for _, name := range inputs {
 		switch {
-		case name != "" && !idfSpecName(name):
+		case name != "" && !isSpecName(name):
 			return specNameErr(name, "input")
 		case name == "":
 			return seriesErr(name, errs.ErrName, 0, 0, "an entry of the inputs is empty; name each input series")
@@ -698,30 +781,30 @@ func idfValidate(output string, inputs []string, data map[string][]float64) erro
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return &errs.SampleError{Series: name, Index: t, Value: v}
 			}
-			if math.Abs(v) > idfMaxMagnitude {
-				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: idfMaxMagnitude}
+			if math.Abs(v) > identifyMaxMagnitude {
+				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: identifyMaxMagnitude}
 			}
 		}
-		if lo, hi := fcRange(x); hi > lo && hi-lo < idfMinSpread {
+		if lo, hi := valueRange(x); hi > lo && hi-lo < identifyMinSpread {
 			return seriesErr(name, errs.ErrConstant, 0, 0, "it varies by only "+fmtF(hi-lo)+", less than 1e-140: the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)")
 		}
 	}
 	return nil
 }
 
-// idfMaxMagnitude and idfMinSpread bound the samples Identify accepts:
+// identifyMaxMagnitude and identifyMinSpread bound the samples Identify accepts:
 // the ARMA fits of the prewhitening refuse magnitudes above 1e140, and
 // the correlations need squared deviations above the float64 underflow
 // (about 1e-308 for a square, so deviations above about 1e-140 leave
 // room for the sums).
 const (
-	idfMaxMagnitude = 1e140
-	idfMinSpread    = 1e-140
+	identifyMaxMagnitude = 1e140
+	identifyMinSpread    = 1e-140
 )
 
-// idfCombos returns index combinations (one form per input) ordered by
+// formCombos returns index combinations (one form per input) ordered by
 // the sum of the forms' scores, at most limit of them.
-func idfCombos(scores [][]float64, limit int) [][]int {
+func formCombos(scores [][]float64, limit int) [][]int {
 	combos := [][]int{{}}
 	for _, sc := range scores {
 		var next [][]int

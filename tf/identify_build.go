@@ -9,15 +9,15 @@ import (
 
 // The conversion of Identify from the numbers packages ccf and prewhiten
 // return (dead times, orders, fitted coefficients) to model values with
-// named coefficients. Names come from one rule, idfCoefName, and the
+// named coefficients. Names come from one rule, coefName, and the
 // models print with the package's one printer (Model.String).
 
-// idfCoefName is the one naming rule for the coefficients of the models
+// coefName is the one naming rule for the coefficients of the models
 // Identify proposes: part is "w" (numerator, k from 0), "d" (denominator),
 // "phi" (noise AR) or "theta" (noise MA), k the power of B; with several
 // inputs the input name and "_" come first, so that the terms of several
 // inputs can share one model ("valve_w0", "d1", "theta1").
-func idfCoefName(input string, several bool, part string, k int) string {
+func coefName(input string, several bool, part string, k int) string {
 	name := part + strconv.Itoa(k)
 	if several && input != "" {
 		return input + "_" + name
@@ -25,29 +25,29 @@ func idfCoefName(input string, several bool, part string, k int) string {
 	return name
 }
 
-// idfInput builds the input term B^b omega(B)/delta(B) of a ccf form:
+// formInput builds the input term B^b omega(B)/delta(B) of a ccf form:
 // omega with plus signs (w_k = Num[k]) and delta with minus signs
 // (d_k = -Den[k]), the form's fitted numbers as start values.
-func idfInput(series string, several bool, diff Poly, f ccf.Form) Input {
+func formInput(series string, several bool, diff Poly, f ccf.Form) Input {
 	nf := Factor{Exp: 1}
 	for k, v := range f.Num {
-		nf.Terms = append(nf.Terms, Term{Coef: Coef{Name: idfCoefName(series, several, "w", k), Value: v, Free: true}, Power: k})
+		nf.Terms = append(nf.Terms, Term{Coef: Coef{Name: coefName(series, several, "w", k), Value: v, Free: true}, Power: k})
 	}
 	in := Input{Series: series, Diff: diff.Clone(), Num: Poly{Factors: []Factor{nf}}, Delay: f.Delay}
 	if len(f.Den) > 1 {
 		df := Factor{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}}}
 		for k := 1; k < len(f.Den); k++ {
-			df.Terms = append(df.Terms, Term{Neg: true, Coef: Coef{Name: idfCoefName(series, several, "d", k), Value: -f.Den[k], Free: true}, Power: k})
+			df.Terms = append(df.Terms, Term{Neg: true, Coef: Coef{Name: coefName(series, several, "d", k), Value: -f.Den[k], Free: true}, Power: k})
 		}
 		in.Den = Poly{Factors: []Factor{df}}
 	}
 	return in
 }
 
-// idfNoise returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a of
+// noiseOfOrder returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a of
 // orders p and q with free coefficients at zero (start values computed by
 // Fit), named by arma's one rule for noise coefficients (arma.Model.Noise).
-func idfNoise(p, q int) *arma.Noise {
+func noiseOfOrder(p, q int) *arma.Noise {
 	n := arma.Model{AR: make([]float64, p), MA: make([]float64, q)}.Noise()
 	return &n
 }

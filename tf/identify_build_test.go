@@ -24,7 +24,7 @@ func TestIdfBuild(t *testing.T) {
 		{false, []string{"w0", "w1", "d1"}, "y = (w0 + w1 B) / (1 - d1 B) B^3 valve + ARMA(1, 1); where w0 ~ 0.8, w1 ~ 0.4, d1 ~ 0.6"},
 		{true, []string{"valve_w0", "valve_w1", "valve_d1"}, "y = (valve_w0 + valve_w1 B) / (1 - valve_d1 B) B^3 valve + ARMA(1, 1); where valve_w0 ~ 0.8, valve_w1 ~ 0.4, valve_d1 ~ 0.6"},
 	} {
-		in := idfInput("valve", tc.several, Poly{}, f)
+		in := formInput("valve", tc.several, Poly{}, f)
 		if in.Delay != 3 || in.Series != "valve" {
 			t.Errorf("input %+v", in)
 		}
@@ -47,16 +47,16 @@ func TestIdfBuild(t *testing.T) {
 				t.Errorf("coefficient %d: %+v, want free %s = %g", i, c, tc.names[i], want[i])
 			}
 		}
-		m := Model{Output: "y", Inputs: []Input{in}, Noise: idfNoise(1, 1)}
+		m := Model{Output: "y", Inputs: []Input{in}, Noise: noiseOfOrder(1, 1)}
 		if s := m.String(); s != tc.text {
 			t.Errorf("printed\n%s\nwant\n%s", s, tc.text)
 		}
 	}
-	if n := idfNoise(0, 0); n.AR.Degree() != 0 || n.MA.Degree() != 0 {
+	if n := noiseOfOrder(0, 0); n.AR.Degree() != 0 || n.MA.Degree() != 0 {
 		t.Errorf("white noise: %+v", n)
 	}
-	if got := idfCoefName("valve", true, "theta", 2); got != "valve_theta2" {
-		t.Errorf("idfCoefName = %q", got)
+	if got := coefName("valve", true, "theta", 2); got != "valve_theta2" {
+		t.Errorf("coefName = %q", got)
 	}
 }
 
@@ -66,7 +66,7 @@ func TestIdfBuild(t *testing.T) {
 // unrelated to the output (seeded), so no lag passes the dead-time rule.
 func TestIdfInnerOp(t *testing.T) {
 	const n = 400
-	rng := fitRand(9)
+	rng := newRand(9)
 	x, y := make([]float64, n), make([]float64, n)
 	for i := range x {
 		x[i] = rng.NormFloat64()

@@ -66,35 +66,45 @@ func (s *IdentifySettings) validate(inputs []string, n int) error {
 			return settingErr("IdentifySettings."+c.name, strconv.Itoa(c.v), "must be at most "+strconv.Itoa(arma.MaxLag)+" (arma.MaxLag); 0 means 2, a negative value order zero only")
 		}
 	}
-	diff := func(arg string, c []float64) error {
-		for k, v := range c {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return settingErr(arg+"["+strconv.Itoa(k)+"]", fmtF(v), "a differencing coefficient must be a finite number")
-			}
-		}
-		if len(c) > 0 && c[0] != 1 {
-			return settingErr(arg+"[0]", fmtF(c[0]), "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B")
-		}
-		if n >= 0 && len(c) > 1 && 2*(len(c)-1) >= n {
-			return settingErr(arg, "degree "+strconv.Itoa(len(c)-1), "the degree of the differencing must be below half the record ("+strconv.Itoa(n)+" samples)")
-		}
-		return nil
-	}
-	if err := diff("IdentifySettings.OutputDiff", s.OutputDiff); err != nil {
+	if err := checkDiffSetting("IdentifySettings.OutputDiff", s.OutputDiff, n); err != nil {
 		return err
 	}
 	known := map[string]bool{}
 	for _, in := range inputs {
 		known[in] = true
 	}
-	for _, name := range fcSortedKeys(s.InputDiff) {
+	for _, name := range sortedKeys(s.InputDiff) {
 		if inputs != nil && !known[name] {
 			return unknownInputErr("IdentifySettings.InputDiff", name, inputs)
 		}
-		if err := diff("IdentifySettings.InputDiff["+strconv.Quote(name)+"]", s.InputDiff[name]); err != nil {
+		if err := checkDiffSetting("IdentifySettings.InputDiff["+strconv.Quote(name)+"]", s.InputDiff[name], n); err != nil {
 			return err
 		}
 	}
+	return s.validateNested()
+}
+
+// checkDiffSetting checks the differencing coefficients c of the setting
+// arg: finite, constant term 1 and, for a record of n samples (n < 0
+// when unknown), degree below n/2.
+func checkDiffSetting(arg string, c []float64, n int) error {
+	for k, v := range c {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return settingErr(arg+"["+strconv.Itoa(k)+"]", fmtF(v), "a differencing coefficient must be a finite number")
+		}
+	}
+	if len(c) > 0 && c[0] != 1 {
+		return settingErr(arg+"[0]", fmtF(c[0]), "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B")
+	}
+	if n >= 0 && len(c) > 1 && 2*(len(c)-1) >= n {
+		return settingErr(arg, "degree "+strconv.Itoa(len(c)-1), "the degree of the differencing must be below half the record ("+strconv.Itoa(n)+" samples)")
+	}
+	return nil
+}
+
+// validateNested checks the settings of the fits and checks Identify
+// runs, naming a bad field under IdentifySettings.
+func (s *IdentifySettings) validateNested() error {
 	if s.Fit != nil {
 		if err := s.Fit.validate(); err != nil {
 			if se, ok := err.(*errs.SettingError); ok {

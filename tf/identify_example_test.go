@@ -14,7 +14,7 @@ import (
 // of the best fit (white noise, no denominator), which fail their
 // checks.
 func ExampleIdentify() {
-	data, err := fitLoadBJsales() // columns "sales" and "lead"; see the Check example
+	data, err := loadBJsales() // columns "sales" and "lead"; see the Check example
 	if err != nil {
 		fmt.Println(err)
 		return

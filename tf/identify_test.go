@@ -17,7 +17,7 @@ import (
 // have that transfer function and pass its checks, and all candidates
 // must be ranked by BIC over the same residuals.
 func TestIdentifyBJsales(t *testing.T) {
-	data := fitRefNamed(t, "bjsales").data(t)
+	data := refNamed(t, "bjsales").data(t)
 	cands, err := Identify(context.Background(), "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1}})
 	if err != nil {
 		t.Fatal(err)
@@ -51,7 +51,7 @@ func TestIdentifyBJsales(t *testing.T) {
 
 // TestIdentifyErrors checks the typed data errors of Identify.
 func TestIdentifyErrors(t *testing.T) {
-	y, x := fitMCSim(fitRand(3), 100)
+	y, x := mcSim(newRand(3), 100)
 	var fe *SeriesError
 	if _, err := Identify(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || !errors.Is(err, ErrName) || fe.Series != "u" ||
 		err.Error() != `tf.Identify: series "u" is not known (an input is not in the data; check the series names)` {
@@ -71,7 +71,7 @@ func TestIdentifyErrors(t *testing.T) {
 // TestIdentifyProgressAndCancel checks the progress callback and that a
 // done context stops the identification with its error.
 func TestIdentifyProgressAndCancel(t *testing.T) {
-	data := fitRefNamed(t, "bjsales").data(t)
+	data := refNamed(t, "bjsales").data(t)
 	calls, last := 0, 0
 	cands, err := Identify(context.Background(), "sales", []string{"lead"}, data, &IdentifySettings{OutputDiff: []float64{1, -1},
 		Progress: func(done, total int) {
@@ -97,11 +97,11 @@ func TestIdentifyProgressAndCancel(t *testing.T) {
 // TestCandidateLabel checks the structure labels: one spelling,
 // "noise ARMA(p, q)", whatever p and q are.
 func TestCandidateLabel(t *testing.T) {
-	m := fitMCModel()
+	m := mcModel()
 	if got, want := (FittedCandidate{Structure: m}).Label(), "x (b=3, r=1, s=1), noise ARMA(1, 0)"; got != want {
 		t.Errorf("label %q, want %q", got, want)
 	}
-	m.Noise.MA = fitOneMinus("t1", 1)
+	m.Noise.MA = oneMinus("t1", 1)
 	if got, want := (FittedCandidate{Structure: m}).Label(), "x (b=3, r=1, s=1), noise ARMA(1, 1)"; got != want {
 		t.Errorf("label %q, want %q", got, want)
 	}

@@ -13,10 +13,10 @@ import (
 	"github.com/backshift/backshift/ccf"
 )
 
-// idfTrapData is 300 samples of fitMCModel's own simulation (x AR(1),
+// identifyTrapData is 300 samples of mcModel's own simulation (x AR(1),
 // b = 3, r = 1, s = 1, AR(1) noise), on which Identify finds a response.
-func idfTrapData() map[string][]float64 {
-	y, x := fitMCSim(fitRand(3), 300)
+func identifyTrapData() map[string][]float64 {
+	y, x := mcSim(newRand(3), 300)
 	return map[string][]float64{"y": y, "x": x}
 }
 
@@ -27,7 +27,7 @@ func idfTrapData() map[string][]float64 {
 // which the candidates must show. Before, MaxCandidates -3 and Forms -2
 // panicked with index errors.
 func TestIdentifySettingsTable(t *testing.T) {
-	data := idfTrapData()
+	data := identifyTrapData()
 	for _, tc := range []struct {
 		s    IdentifySettings
 		arg  string
@@ -92,7 +92,7 @@ func TestIdentifySettingsTable(t *testing.T) {
 // (below 1e-140) are refused by the series' name, and that a bad list
 // of inputs is refused by name.
 func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
-	data := idfTrapData()
+	data := identifyTrapData()
 	n := len(data["y"])
 	flat := make([]float64, n)
 	line := make([]float64, n)
@@ -116,7 +116,7 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 	}
 	// No response: the step and the user's series are named, the ccf
 	// error still reachable.
-	rng := fitRand(9)
+	rng := newRand(9)
 	noise := make([]float64, n)
 	for i := range noise {
 		noise[i] = rng.NormFloat64()
@@ -177,11 +177,11 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 	}
 }
 
-// idfStub replaces the fit Identify runs for one test.
-func idfStub(t *testing.T, f func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error)) {
-	old := idfFit
-	idfFit = f
-	t.Cleanup(func() { idfFit = old })
+// stubFit replaces the fit Identify runs for one test.
+func stubFit(t *testing.T, f func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error)) {
+	old := identifyFit
+	identifyFit = f
+	t.Cleanup(func() { identifyFit = old })
 }
 
 // TestIdentifyRecoversPanics makes every candidate fit with a
@@ -191,7 +191,7 @@ func idfStub(t *testing.T, f func(ctx context.Context, m Model, data map[string]
 // carrying an *InternalError that names the candidate, ranked after the
 // candidates that fitted.
 func TestIdentifyRecoversPanics(t *testing.T) {
-	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+	stubFit(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
 		if len(m.Inputs) == 1 && m.Inputs[0].Den.Degree() == 2 && !m.Noise.IsWhite() {
 			var buf [33]float64
 			k := m.Inputs[0].Den.Degree() + 40
@@ -199,7 +199,7 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 		}
 		return Fit(ctx, m, data, s)
 	})
-	cands, err := Identify(context.Background(), "y", []string{"x"}, idfTrapData(), nil)
+	cands, err := Identify(context.Background(), "y", []string{"x"}, identifyTrapData(), nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -221,10 +221,10 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	}
 	// A panic in the caller's Progress callback, called from Identify's
 	// goroutines, is caught there too.
-	idfFit = Fit
+	identifyFit = Fit
 	calls := 0
 	var mu sync.Mutex
-	cands, err = Identify(context.Background(), "y", []string{"x"}, idfTrapData(), &IdentifySettings{Workers: 1, NoRefine: true,
+	cands, err = Identify(context.Background(), "y", []string{"x"}, identifyTrapData(), &IdentifySettings{Workers: 1, NoRefine: true,
 		Progress: func(done, total int) {
 			mu.Lock()
 			calls++
@@ -243,12 +243,12 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	}
 	// A panic in the caller's goroutine (the preliminary fit) is an
 	// error too.
-	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+	stubFit(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
 		var p *Estimate
 		_ = p.Model // nil dereference
 		return nil, nil
 	})
-	cands, err = Identify(context.Background(), "y", []string{"x"}, idfTrapData(), nil)
+	cands, err = Identify(context.Background(), "y", []string{"x"}, identifyTrapData(), nil)
 	var pe *InternalError
 	if !errors.As(err, &pe) || pe.Op != "tf.Identify" || cands != nil || !strings.Contains(err.Error(), "nil pointer dereference") {
 		t.Errorf("panic in the preliminary fit: %v", err)
@@ -266,11 +266,11 @@ func TestIdentifyMaxQ40(t *testing.T) {
 	if testing.Short() {
 		t.Skip("fits MA orders up to 40")
 	}
-	x := fitSimNoise(fitRand(2), 400, []float64{1}, []float64{1}, 1)
+	x := simNoise(newRand(2), 400, []float64{1}, []float64{1}, 1)
 	if armaPanics(x) {
 		t.Skip("arma.Fit still panics on an MA degree above 32 (fixed in arma on another branch); Identify cannot recover a panic in arma's goroutines")
 	}
-	cands, err := Identify(context.Background(), "y", []string{"x"}, idfTrapData(), &IdentifySettings{MaxQ: 40, MaxP: -1, NoiseOrders: 1, NoRefine: true})
+	cands, err := Identify(context.Background(), "y", []string{"x"}, identifyTrapData(), &IdentifySettings{MaxQ: 40, MaxP: -1, NoiseOrders: 1, NoRefine: true})
 	if err != nil {
 		t.Logf("MaxQ 40: %v", err)
 		return
@@ -291,14 +291,14 @@ func armaPanics(x []float64) (panicked bool) {
 // but last, with a *ModelError saying why.
 func TestIdentifyNonFiniteScore(t *testing.T) {
 	var once sync.Once
-	idfStub(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+	stubFit(t, func(ctx context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
 		e, err := Fit(ctx, m, data, s)
 		if err == nil && m.Noise != nil && !m.Noise.IsWhite() {
 			once.Do(func() { e.BIC, e.AIC = math.Inf(-1), math.NaN() })
 		}
 		return e, err
 	})
-	cands, err := Identify(context.Background(), "y", []string{"x"}, idfTrapData(), nil)
+	cands, err := Identify(context.Background(), "y", []string{"x"}, identifyTrapData(), nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -319,7 +319,7 @@ func TestIdentifyStopsOnCancel(t *testing.T) {
 	defer cancel()
 	var calls int
 	var mu sync.Mutex
-	idfStub(t, func(c context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
+	stubFit(t, func(c context.Context, m Model, data map[string][]float64, s *FitSettings) (*Estimate, error) {
 		mu.Lock()
 		calls++
 		k := calls
@@ -331,7 +331,7 @@ func TestIdentifyStopsOnCancel(t *testing.T) {
 		}
 		return e, err
 	})
-	cands, err := Identify(ctx, "y", []string{"x"}, idfTrapData(), &IdentifySettings{Workers: 1})
+	cands, err := Identify(ctx, "y", []string{"x"}, identifyTrapData(), &IdentifySettings{Workers: 1})
 	if !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled identification: %v (%d candidates)", err, len(cands))
 	}

@@ -10,7 +10,7 @@ import (
 // s = 1, AR(2) noise, n = 600): the best candidate has both forms and
 // passes its checks.
 func TestIdentifyTwoInputs(t *testing.T) {
-	data := fitRefNamed(t, "sim2").data(t)
+	data := refNamed(t, "sim2").data(t)
 	cands, err := Identify(context.Background(), "y", []string{"x1", "x2"}, data, nil)
 	if err != nil {
 		t.Fatal(err)

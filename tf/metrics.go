@@ -54,7 +54,7 @@ func (o StepSettings) validate(op string) error {
 		}
 	}
 	if from, to := o.rise(); from >= to {
-		return setting(op, "StepSettings.RiseFrom", from, "must lie below StepSettings.RiseTo ("+ratFormat(to)+")")
+		return setting(op, "StepSettings.RiseFrom", from, "must lie below StepSettings.RiseTo ("+formatNum(to)+")")
 	}
 	if err := errs.NonNegative(op, "StepSettings.Interval", o.Interval, "0: not given, times in samples only"); err != nil {
 		return err
@@ -141,33 +141,12 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 	}
 	n := o.Horizon
 	if n == 0 {
-		base := r.delay + r.NumDegree() + r.DenDegree() + 2
-		n = base
-		if rho > 0 {
-			tau := -1 / math.Log(rho)
-			n += int(math.Ceil(math.Max(math.Log(band*1e-3)/math.Log(rho), 4*tau)))
-		}
-		n = min(n, 1000000)
+		n = r.stepHorizon(rho, band)
 	}
 	y := r.Step(n)
 	info := StepFigures{Final: g, RiseFrom: from, RiseTo: to, Band: band, Horizon: n}
 	span := func(s float64) Span { return Span{Samples: s, Time: s * o.Interval} }
-	// Work on the normalised response u = y/g, which rises toward 1.
-	cross := func(level float64) float64 {
-		prev := 0.0 // the response before the step is 0
-		for k, v := range y {
-			u := v / g
-			if u >= level {
-				if k == 0 {
-					return 0
-				}
-				return float64(k-1) + (level-prev)/(u-prev)
-			}
-			prev = u
-		}
-		return math.NaN()
-	}
-	info.Rise = span(cross(to) - cross(from))
+	info.Rise = span(crossing(y, g, to) - crossing(y, g, from))
 	peak, kPeak, under := 0.0, 0, 0.0
 	for k, v := range y {
 		u := v / g
@@ -180,7 +159,47 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 	info.PeakAt = span(float64(kPeak))
 	info.Overshoot = max(peak-1, 0)
 	info.Undershoot = under
-	// Settling: last sample outside the band, then interpolate the entry.
+	info.Settle = span(settling(y, g, band))
+	return info, nil
+}
+
+// stepHorizon is the default horizon of StepFigures: the samples of the
+// dead time and degrees plus those in which the slowest pole (magnitude
+// rho) decays to band 1e-3, and at least four time constants; at most
+// 10^6.
+func (r Rational) stepHorizon(rho, band float64) int {
+	base := r.delay + r.NumDegree() + r.DenDegree() + 2
+	n := base
+	if rho > 0 {
+		tau := -1 / math.Log(rho)
+		n += int(math.Ceil(math.Max(math.Log(band*1e-3)/math.Log(rho), 4*tau)))
+	}
+	return min(n, 1000000)
+}
+
+// crossing returns the time, interpolated between samples, at which the
+// normalised step response y/g first reaches level (the response before
+// the step is 0); NaN when it never does.
+func crossing(y []float64, g, level float64) float64 {
+	prev := 0.0
+	for k, v := range y {
+		u := v / g
+		if u >= level {
+			if k == 0 {
+				return 0
+			}
+			return float64(k-1) + (level-prev)/(u-prev)
+		}
+		prev = u
+	}
+	return math.NaN()
+}
+
+// settling returns the settling time of the step response y (final
+// value g) into the band: after the last sample outside it, with the
+// entry interpolated; 0 when always inside, NaN when the last sample is
+// outside.
+func settling(y []float64, g, band float64) float64 {
 	last := -1
 	for k := len(y) - 1; k >= 0; k-- {
 		if math.Abs(y[k]/g-1) > band {
@@ -190,14 +209,12 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 	}
 	switch {
 	case last < 0:
-		info.Settle = span(0)
+		return 0
 	case last == len(y)-1:
-		info.Settle = span(math.NaN())
-	default:
-		e0, e1 := math.Abs(y[last]/g-1), math.Abs(y[last+1]/g-1)
-		info.Settle = span(float64(last) + (e0-band)/(e0-e1))
+		return math.NaN()
 	}
-	return info, nil
+	e0, e1 := math.Abs(y[last]/g-1), math.Abs(y[last+1]/g-1)
+	return float64(last) + (e0-band)/(e0-e1)
 }
 
 // ModeKind classifies a pole for Mode.

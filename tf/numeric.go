@@ -110,12 +110,12 @@ func (m Model) Params() []Coef {
 		add(&c)
 	}
 	for _, in := range m.Inputs {
-		prEach(in.Num, add)
-		prEach(in.Den, add)
+		eachCoefCopy(in.Num, add)
+		eachCoefCopy(in.Den, add)
 	}
 	if m.Noise != nil {
-		prEach(m.Noise.MA, add)
-		prEach(m.Noise.AR, add)
+		eachCoefCopy(m.Noise.MA, add)
+		eachCoefCopy(m.Noise.AR, add)
 	}
 	return out
 }

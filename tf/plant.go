@@ -103,7 +103,7 @@ func (p *Plant) SetSteady(u float64) error {
 	if err != nil {
 		return withOp("tf.Plant.SetSteady", err)
 	}
-	xh, yh := ratSteadyHistory(p.r, u, g*u)
+	xh, yh := steadyHistory(p.r, u, g*u)
 	p.st.SetHistory(xh, yh)
 	p.t, p.bad = 0, 0
 	return nil
@@ -116,10 +116,10 @@ func (p *Plant) SetSteady(u float64) error {
 // *SampleError (Series "past input" or "past output") for a NaN or
 // infinite value, leaving the plant as it was.
 func (p *Plant) SetHistory(pastInput, pastOutput []float64) error {
-	if err := ratCheckSeries("past input", pastInput); err != nil {
+	if err := checkSeries("past input", pastInput); err != nil {
 		return withOp("tf.Plant.SetHistory", err)
 	}
-	if err := ratCheckSeries("past output", pastOutput); err != nil {
+	if err := checkSeries("past output", pastOutput); err != nil {
 		return withOp("tf.Plant.SetHistory", err)
 	}
 	p.st.SetHistory(pastInput, pastOutput)
@@ -140,9 +140,9 @@ func (p *Plant) Clone() *Plant {
 	return &Plant{r: p.r, st: *p.st.Clone(), t: p.t, bad: p.bad, badU: p.badU, badY: p.badY}
 }
 
-// ratSteadyHistory returns the b+s past inputs equal to u and r past
+// steadyHistory returns the b+s past inputs equal to u and r past
 // outputs equal to y.
-func ratSteadyHistory(r Rational, u, y float64) (xh, yh []float64) {
+func steadyHistory(r Rational, u, y float64) (xh, yh []float64) {
 	xh = make([]float64, r.delay+r.NumDegree())
 	for i := range xh {
 		xh[i] = u

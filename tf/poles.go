@@ -20,7 +20,7 @@ import (
 // (which it does not for finite coefficients in practice).
 func (r Rational) Poles() []complex128 {
 	_, den := r.coefs()
-	return ratRoots(den)
+	return zPlaneRoots(den)
 }
 
 // Zeros returns the zeros of the numerator in the z-plane: the roots of
@@ -31,10 +31,12 @@ func (r Rational) Poles() []complex128 {
 // response). It returns nil for a constant numerator.
 func (r Rational) Zeros() []complex128 {
 	num, _ := r.coefs()
-	return ratRoots(num)
+	return zPlaneRoots(num)
 }
 
-func ratRoots(c []float64) []complex128 {
+// zPlaneRoots returns the z-plane roots of the polynomial c in B, nil
+// for a constant.
+func zPlaneRoots(c []float64) []complex128 {
 	zs, err := poly.Roots(poly.Reciprocal(c))
 	if err != nil {
 		return nil
@@ -61,21 +63,21 @@ func (r Rational) MaxPoleMagnitude() float64 {
 // not taken as stable. A constant denominator is stable.
 func (r Rational) Stable() bool {
 	_, den := r.coefs()
-	if len(den) > 1 && (ratVanishesAt(den, 1) || ratVanishesAt(den, -1)) {
+	if len(den) > 1 && (vanishesAt(den, 1) || vanishesAt(den, -1)) {
 		return false
 	}
 	return r.MaxPoleMagnitude() < 1
 }
 
-// ratVanishesAt reports whether c(x) is zero to within 8 eps of the
+// vanishesAt reports whether c(x) is zero to within 8 eps of the
 // rounding of its evaluation (scaled by sum |c_k| |x|^k), for |x| = 1.
-func ratVanishesAt(c []float64, x float64) bool {
+func vanishesAt(c []float64, x float64) bool {
 	v := poly.EvalReal(c, x)
 	scale := 0.0
 	for _, ck := range c {
 		scale += math.Abs(ck)
 	}
-	return math.Abs(v) <= 8*ratEps*scale
+	return math.Abs(v) <= 8*machineEps*scale
 }
 
 // IsMinimumPhase reports whether every zero lies strictly inside the unit

@@ -33,13 +33,14 @@ import (
 func (m Model) String() string {
 	var b strings.Builder
 	b.Grow(96 + 64*len(m.Inputs))
-	m.prAppend(&b)
+	m.writeSpec(&b)
 	return b.String()
 }
 
-func (m Model) prAppend(b *strings.Builder) {
+// writeSpec writes m as spec text (see String).
+func (m Model) writeSpec(b *strings.Builder) {
 	if !m.Diff.IsOne() {
-		prPoly(b, m.Diff)
+		writePoly(b, m.Diff)
 		b.WriteByte(' ')
 	}
 	b.WriteString(m.Output)
@@ -58,59 +59,65 @@ func (m Model) prAppend(b *strings.Builder) {
 		if m.Const.Name != "" {
 			b.WriteString(m.Const.Name)
 		} else {
-			prNum(b, m.Const.Value)
+			writeNum(b, m.Const.Value)
 		}
 	}
 	for _, in := range m.Inputs {
 		sep()
-		in.prAppend(b)
+		in.writeSpec(b)
 	}
 	if m.Noise != nil {
 		sep()
-		p, okAR := prShorthand(m.Noise.AR, "phi")
-		q, okMA := prShorthand(m.Noise.MA, "theta")
-		switch {
-		case m.Noise.IsWhite():
-		case okAR && okMA:
-			switch {
-			case q == 0:
-				b.WriteString("AR(" + strconv.Itoa(p) + ")")
-			case p == 0:
-				b.WriteString("MA(" + strconv.Itoa(q) + ")")
-			default:
-				b.WriteString("ARMA(" + strconv.Itoa(p) + ", " + strconv.Itoa(q) + ")")
-			}
-			m.prWhere(b)
-			m.prEvery(b)
-			return
-		case m.Noise.MA.IsOne():
-			b.WriteString("1 ")
-		default:
-			prPoly(b, m.Noise.MA)
-			b.WriteByte(' ')
-		}
-		for _, f := range m.Noise.AR.Factors {
-			b.WriteString("/ ")
-			prFactor(b, f)
-			b.WriteByte(' ')
-		}
-		b.WriteByte('a')
+		m.writeNoise(b)
 	}
-	m.prWhere(b)
-	m.prEvery(b)
+	m.writeWhere(b)
+	m.writeInterval(b)
 }
 
-func (m Model) prEvery(b *strings.Builder) {
+// writeNoise writes the noise term: white noise, the AR(p), MA(q) or
+// ARMA(p, q) shorthand when the polynomials are as it expands, else the
+// polynomials over a.
+func (m Model) writeNoise(b *strings.Builder) {
+	p, okAR := shorthandOrder(m.Noise.AR, "phi")
+	q, okMA := shorthandOrder(m.Noise.MA, "theta")
+	switch {
+	case m.Noise.IsWhite():
+	case okAR && okMA:
+		switch {
+		case q == 0:
+			b.WriteString("AR(" + strconv.Itoa(p) + ")")
+		case p == 0:
+			b.WriteString("MA(" + strconv.Itoa(q) + ")")
+		default:
+			b.WriteString("ARMA(" + strconv.Itoa(p) + ", " + strconv.Itoa(q) + ")")
+		}
+		return
+	case m.Noise.MA.IsOne():
+		b.WriteString("1 ")
+	default:
+		writePoly(b, m.Noise.MA)
+		b.WriteByte(' ')
+	}
+	for _, f := range m.Noise.AR.Factors {
+		b.WriteString("/ ")
+		writeFactor(b, f)
+		b.WriteByte(' ')
+	}
+	b.WriteByte('a')
+}
+
+// writeInterval writes the sample interval clause, when m has one.
+func (m Model) writeInterval(b *strings.Builder) {
 	if m.Interval != (Interval{}) {
 		b.WriteString("; every ")
 		b.WriteString(m.Interval.String())
 	}
 }
 
-// prShorthand reports whether p is written as the AR(p) or MA(q)
+// shorthandOrder reports whether p is written as the AR(p) or MA(q)
 // shorthand expands: no factors (order 0), or the one factor
 // (1 - name1 B - ... - namek B^k) with the names in order.
-func prShorthand(p Poly, name string) (int, bool) {
+func shorthandOrder(p Poly, name string) (int, bool) {
 	if p.IsOne() {
 		return 0, true
 	}
@@ -129,38 +136,14 @@ func prShorthand(p Poly, name string) (int, bool) {
 	return len(ts) - 1, true
 }
 
-// prWhere writes the where clause: each name once, at its first use,
+// writeWhere writes the where clause: each name once, at its first use,
 // when it is held or has a non-zero start value.
-func (m Model) prWhere(b *strings.Builder) {
-	// Names seen so far: a small array for the usual model, a map beyond.
-	var small [16]string
-	seen := small[:0]
-	var many map[string]struct{}
+func (m Model) writeWhere(b *strings.Builder) {
+	var seen nameSet
 	n := 0
 	fn := func(c *Coef) {
-		if c.Name == "" {
+		if c.Name == "" || !seen.add(c.Name) {
 			return
-		}
-		if many != nil {
-			if _, ok := many[c.Name]; ok {
-				return
-			}
-			many[c.Name] = struct{}{}
-		} else {
-			for _, s := range seen {
-				if s == c.Name {
-					return
-				}
-			}
-			if len(seen) < len(small) {
-				seen = append(seen, c.Name)
-			} else {
-				many = make(map[string]struct{}, 2*len(small))
-				for _, s := range seen {
-					many[s] = struct{}{}
-				}
-				many[c.Name] = struct{}{}
-			}
 		}
 		if c.Free && c.Value == 0 {
 			return
@@ -177,24 +160,59 @@ func (m Model) prWhere(b *strings.Builder) {
 		} else {
 			b.WriteString(" = ")
 		}
-		prNum(b, c.Value)
+		writeNum(b, c.Value)
 	}
 	if m.Const != nil {
 		c := *m.Const
 		fn(&c)
 	}
 	for _, in := range m.Inputs {
-		prEach(in.Num, fn)
-		prEach(in.Den, fn)
+		eachCoefCopy(in.Num, fn)
+		eachCoefCopy(in.Den, fn)
 	}
 	if m.Noise != nil {
-		prEach(m.Noise.MA, fn)
-		prEach(m.Noise.AR, fn)
+		eachCoefCopy(m.Noise.MA, fn)
+		eachCoefCopy(m.Noise.AR, fn)
 	}
 }
 
-// prEach calls fn with a copy of every coefficient of p, in written order.
-func prEach(p Poly, fn func(c *Coef)) {
+// nameSet is the set of names writeWhere has seen: a small array for the
+// usual model, a map beyond.
+type nameSet struct {
+	small [16]string
+	n     int
+	many  map[string]struct{}
+}
+
+// add adds name and reports whether it was new.
+func (s *nameSet) add(name string) bool {
+	if s.many != nil {
+		if _, ok := s.many[name]; ok {
+			return false
+		}
+		s.many[name] = struct{}{}
+		return true
+	}
+	for _, v := range s.small[:s.n] {
+		if v == name {
+			return false
+		}
+	}
+	if s.n < len(s.small) {
+		s.small[s.n] = name
+		s.n++
+		return true
+	}
+	s.many = make(map[string]struct{}, 2*len(s.small))
+	for _, v := range s.small[:s.n] {
+		s.many[v] = struct{}{}
+	}
+	s.many[name] = struct{}{}
+	return true
+}
+
+// eachCoefCopy calls fn with a copy of every coefficient of p, in written order.
+func eachCoefCopy(p Poly, fn func(c *Coef)) {
 	for _, f := range p.Factors {
 		for _, t := range f.Terms {
 			c := t.Coef
@@ -207,17 +225,18 @@ func prEach(p Poly, fn func(c *Coef)) {
 // "(w0 + w1 B) / (1 - d1 B) B^4 burner" or "1 ((1 - B) feed)".
 func (in Input) String() string {
 	var b strings.Builder
-	in.prAppend(&b)
+	in.writeSpec(&b)
 	return b.String()
 }
 
-func (in Input) prAppend(b *strings.Builder) {
+// writeSpec writes the input term as spec text (see String).
+func (in Input) writeSpec(b *strings.Builder) {
 	n := 0
 	for _, f := range in.Num.Factors {
 		if n > 0 {
 			b.WriteByte(' ')
 		}
-		prNumFactor(b, f)
+		writeNumFactor(b, f)
 		n++
 	}
 	for _, f := range in.Den.Factors {
@@ -227,7 +246,7 @@ func (in Input) prAppend(b *strings.Builder) {
 			b.WriteString("1 ")
 		}
 		b.WriteString("/ ")
-		prFactor(b, f)
+		writeFactor(b, f)
 		n++
 	}
 	if in.Delay != 0 {
@@ -257,7 +276,7 @@ func (in Input) prAppend(b *strings.Builder) {
 		return
 	}
 	b.WriteByte('(')
-	prPoly(b, in.Diff)
+	writePoly(b, in.Diff)
 	b.WriteByte(' ')
 	b.WriteString(in.Series)
 	b.WriteByte(')')
@@ -280,20 +299,21 @@ func FormatPoly(p Poly) string {
 		return "1"
 	}
 	var b strings.Builder
-	prPoly(&b, p)
+	writePoly(&b, p)
 	return b.String()
 }
 
-func prPoly(b *strings.Builder, p Poly) {
+// writePoly writes the factors of p in parentheses, one after another.
+func writePoly(b *strings.Builder, p Poly) {
 	for _, f := range p.Factors {
-		prFactor(b, f)
+		writeFactor(b, f)
 	}
 }
 
-// prNumFactor writes a numerator factor: a lone coefficient without
+// writeNumFactor writes a numerator factor: a lone coefficient without
 // parentheses when that reads back the same (a name, or a number other
 // than 1, with no sign and power 1), else in parentheses.
-func prNumFactor(b *strings.Builder, f Factor) {
+func writeNumFactor(b *strings.Builder, f Factor) {
 	if f.Exp == 1 && len(f.Terms) == 1 {
 		t := f.Terms[0]
 		c := t.Coef
@@ -301,15 +321,16 @@ func prNumFactor(b *strings.Builder, f Factor) {
 			if c.Name != "" {
 				b.WriteString(c.Name)
 			} else {
-				prNum(b, c.Value)
+				writeNum(b, c.Value)
 			}
 			return
 		}
 	}
-	prFactor(b, f)
+	writeFactor(b, f)
 }
 
-func prFactor(b *strings.Builder, f Factor) {
+// writeFactor writes one factor in parentheses, with its power.
+func writeFactor(b *strings.Builder, f Factor) {
 	b.WriteByte('(')
 	for i, t := range f.Terms {
 		neg := t.Neg
@@ -332,7 +353,7 @@ func prFactor(b *strings.Builder, f Factor) {
 		} else if v == 1 && t.Power > 0 {
 			coef = false
 		} else {
-			prNum(b, v)
+			writeNum(b, v)
 		}
 		if t.Power > 0 {
 			if coef {
@@ -352,8 +373,8 @@ func prFactor(b *strings.Builder, f Factor) {
 	}
 }
 
-// prNum writes v in the shortest form that reads back exactly.
-func prNum(b *strings.Builder, v float64) {
+// writeNum writes v in the shortest form that reads back exactly.
+func writeNum(b *strings.Builder, v float64) {
 	var buf [32]byte
 	b.Write(strconv.AppendFloat(buf[:0], v, 'g', -1, 64))
 }

@@ -64,10 +64,10 @@ func NewRational(num, den []float64, delay int) (Rational, error) {
 // newRational is NewRational with errors carrying no Op, for the
 // exported functions that build a Rational and set their own.
 func newRational(num, den []float64, delay int) (Rational, error) {
-	if err := ratCheckPoly("num", num); err != nil {
+	if err := checkPoly("num", num); err != nil {
 		return Rational{}, err
 	}
-	if err := ratCheckPoly("den", den); err != nil {
+	if err := checkPoly("den", den); err != nil {
 		return Rational{}, err
 	}
 	if den[0] == 0 {
@@ -76,8 +76,8 @@ func newRational(num, den []float64, delay int) (Rational, error) {
 	if delay < 0 || delay > MaxDelay {
 		return Rational{}, &DelayError{Delay: delay}
 	}
-	n := ratTrim(num)
-	d := ratTrim(den)
+	n := trimZeros(num)
+	d := trimZeros(den)
 	if len(n)-1 > MaxDegree {
 		return Rational{}, &CoefError{Poly: "num", Index: len(n) - 1, Value: n[len(n)-1], Err: ErrDegree}
 	}
@@ -85,10 +85,10 @@ func newRational(num, den []float64, delay int) (Rational, error) {
 		return Rational{}, &CoefError{Poly: "den", Index: len(d) - 1, Value: d[len(d)-1], Err: ErrDegree}
 	}
 	if d0 := d[0]; d0 != 1 {
-		if err := ratNormalise("num", n, d0); err != nil {
+		if err := normalise("num", n, d0); err != nil {
 			return Rational{}, err
 		}
-		if err := ratNormalise("den", d[1:], d0); err != nil {
+		if err := normalise("den", d[1:], d0); err != nil {
 			return Rational{}, err
 		}
 		d[0] = 1
@@ -105,11 +105,11 @@ func newRational(num, den []float64, delay int) (Rational, error) {
 // coefficient concerned, so errors.Is(err, ErrNormalise) holds.
 var ErrNormalise = errors.New("normalising by den[0] (to make it 1) leaves float64 range")
 
-// ratNormalise divides c (polynomial name; for "den" c starts at the
+// normalise divides c (polynomial name; for "den" c starts at the
 // coefficient of B^1) by d0 in place, returning a *CoefError for den[0]
 // wrapping ErrNormalise when a quotient overflows or a non-zero one
 // underflows to zero.
-func ratNormalise(name string, c []float64, d0 float64) error {
+func normalise(name string, c []float64, d0 float64) error {
 	off := 0
 	if name == "den" {
 		off = 1
@@ -135,7 +135,7 @@ func MustRational(num, den []float64, delay int) Rational {
 	return r
 }
 
-func ratCheckPoly(name string, c []float64) error {
+func checkPoly(name string, c []float64) error {
 	if len(c) == 0 {
 		return &CoefError{Poly: name, Index: -1, Err: ErrEmpty}
 	}
@@ -147,9 +147,9 @@ func ratCheckPoly(name string, c []float64) error {
 	return nil
 }
 
-// ratTrim returns a copy of c without exact zeros at the high-power end,
+// trimZeros returns a copy of c without exact zeros at the high-power end,
 // keeping at least one coefficient.
-func ratTrim(c []float64) []float64 {
+func trimZeros(c []float64) []float64 {
 	n := len(c)
 	for n > 1 && c[n-1] == 0 {
 		n--
@@ -273,13 +273,13 @@ func (r Rational) filterChecked(dst, x []float64) error {
 		ok = filter.RunChecked(dst[b:], num, den, x[:n-b]) && filter.FirstNonFinite(x[n-b:]) < 0
 		clear(dst[:b])
 	} else {
-		if err := ratCheckSeries("input", x); err != nil {
+		if err := checkSeries("input", x); err != nil {
 			return err
 		}
 		r.filterTo(dst, x)
 	}
 	if !ok {
-		return ratCheckSeries("input", x)
+		return checkSeries("input", x)
 	}
 	return nil
 }
@@ -303,7 +303,7 @@ func (r Rational) filterTo(dst, x []float64) {
 	filter.Run(dst[b:], num, den, dst[b:])
 }
 
-func ratCheckSeries(name string, x []float64) error {
+func checkSeries(name string, x []float64) error {
 	if i := filter.FirstNonFinite(x); i >= 0 {
 		return &SampleError{Series: name, Index: i, Value: x[i]}
 	}
@@ -333,7 +333,7 @@ func (r Rational) SteadyPast(u float64) (Past, error) {
 	if err != nil {
 		return Past{}, withOp("tf.Rational.SteadyPast", err)
 	}
-	xh, yh := ratSteadyHistory(r, u, g*u)
+	xh, yh := steadyHistory(r, u, g*u)
 	return Past{Input: xh, Output: yh}, nil
 }
 
@@ -347,7 +347,7 @@ func (r Rational) FilterFrom(x []float64, p Past) ([]float64, error) {
 		name string
 		x    []float64
 	}{{"input", x}, {"past input", p.Input}, {"past output", p.Output}} {
-		if err := ratCheckSeries(c.name, c.x); err != nil {
+		if err := checkSeries(c.name, c.x); err != nil {
 			return nil, withOp("tf.Rational.FilterFrom", err)
 		}
 	}

@@ -22,29 +22,53 @@ func (e *Estimate) String() string {
 		return "no estimate (nil)\n"
 	}
 	var b strings.Builder
+	w := e.writeSearch(&b)
+	e.writeCriteria(&b)
+	e.writeCorrelations(&b, w)
+	for _, in := range e.Model.Inputs {
+		e.writeInput(&b, in)
+	}
+	e.writeVerdict(&b)
+	return b.String()
+}
+
+// writeSearch writes the model, the record and the search, and the table
+// of estimates; it returns the width of the name column.
+func (e *Estimate) writeSearch(b *strings.Builder) int {
 	n := e.N + e.Conditioning.First
-	fmt.Fprintf(&b, "Model of %s with coefficients estimated by conditional least squares\n", e.Model.Output)
-	fmt.Fprintf(&b, "  as a spec:  %s\n", e.Model.String()) // full precision: the line reloads as the fitted model
-	fmt.Fprintf(&b, "  record:     %d samples; the sum of squares counts the %d residuals from index %d on\n", n, e.N, e.Conditioning.First)
+	fmt.Fprintf(b, "Model of %s with coefficients estimated by conditional least squares\n", e.Model.Output)
+	fmt.Fprintf(b, "  as a spec:  %s\n", e.Model.String()) // full precision: the line reloads as the fitted model
+	fmt.Fprintf(b, "  record:     %d samples; the sum of squares counts the %d residuals from index %d on\n", n, e.N, e.Conditioning.First)
 	status := "converged"
 	if !e.Converged {
 		status = "NOT converged"
 	}
-	fmt.Fprintf(&b, "  search:     %s after %d iterations (%d evaluations, %d start points screened)\n",
+	fmt.Fprintf(b, "  search:     %s after %d iterations (%d evaluations, %d start points screened)\n",
 		status, e.Iter, e.Evals, e.StartsTried)
-	fmt.Fprintf(&b, "              %s\n\n", e.Reason)
+	fmt.Fprintf(b, "              %s\n\n", e.Reason)
 	w := len("coefficient")
 	for _, p := range e.Params {
 		w = max(w, len(p.Name))
 	}
-	fmt.Fprintf(&b, "  %-*s  %12s  %14s  %8s\n", w, "coefficient", "value", "standard error", "value/se")
+	fmt.Fprintf(b, "  %-*s  %12s  %14s  %8s\n", w, "coefficient", "value", "standard error", "value/se")
 	for _, p := range e.Params {
-		fmt.Fprintf(&b, "  %-*s  %12s  %14s  %8s\n", w, p.Name, fitNum(p.Value, 5), fitNum(p.SE, 3), fitFixed(p.T, 2))
+		fmt.Fprintf(b, "  %-*s  %12s  %14s  %8s\n", w, p.Name, formatSig(p.Value, 5), formatSig(p.SE, 3), formatFixed(p.T, 2))
 	}
+	return w
+}
+
+// writeCriteria writes the noise variance, the log-likelihood and the
+// information criteria.
+func (e *Estimate) writeCriteria(b *strings.Builder) {
 	k := len(e.Params)
-	fmt.Fprintf(&b, "\n  noise variance %s from %d residuals less %d coefficients (sum of squares %s / %d)\n",
-		fitNum(e.Sigma2, 5), e.N, k, fitNum(e.SSQ, 6), e.N-k)
-	fmt.Fprintf(&b, "  conditional log-likelihood %s; information criteria AIC %s, BIC %s\n", fitFixed(e.LogLik, 2), fitFixed(e.AIC, 2), fitFixed(e.BIC, 2))
+	fmt.Fprintf(b, "\n  noise variance %s from %d residuals less %d coefficients (sum of squares %s / %d)\n",
+		formatSig(e.Sigma2, 5), e.N, k, formatSig(e.SSQ, 6), e.N-k)
+	fmt.Fprintf(b, "  conditional log-likelihood %s; information criteria AIC %s, BIC %s\n", formatFixed(e.LogLik, 2), formatFixed(e.AIC, 2), formatFixed(e.BIC, 2))
+}
+
+// writeCorrelations writes the lower triangle of the correlations of the
+// estimates (w the width of the name column).
+func (e *Estimate) writeCorrelations(b *strings.Builder, w int) {
 	if len(e.Params) > 1 {
 		b.WriteString("\n  correlations of the estimates\n")
 		corr := e.Corr()
@@ -53,65 +77,71 @@ func (e *Estimate) String() string {
 			cw = max(cw, len(p.Name))
 		}
 		for i := 1; i < len(e.Params); i++ {
-			fmt.Fprintf(&b, "  %-*s", w, e.Params[i].Name)
+			fmt.Fprintf(b, "  %-*s", w, e.Params[i].Name)
 			for j := 0; j < i; j++ {
-				fmt.Fprintf(&b, " %*s", cw, fitFixed(corr[i][j], 2))
+				fmt.Fprintf(b, " %*s", cw, formatFixed(corr[i][j], 2))
 			}
 			b.WriteByte('\n')
 		}
-		fmt.Fprintf(&b, "  %-*s", w, "")
+		fmt.Fprintf(b, "  %-*s", w, "")
 		for j := 0; j < len(e.Params)-1; j++ {
-			fmt.Fprintf(&b, " %*s", cw, e.Params[j].Name)
+			fmt.Fprintf(b, " %*s", cw, e.Params[j].Name)
 		}
 		b.WriteByte('\n')
 	}
-	for _, in := range e.Model.Inputs {
-		unit := "samples"
-		if in.Delay == 1 {
-			unit = "sample"
-		}
-		fmt.Fprintf(&b, "\n  input %s: dead time %d %s", in.Series, in.Delay, unit)
-		if e.Model.Interval.Value > 0 {
-			fmt.Fprintf(&b, " (%s %s)", fitNum(float64(in.Delay)*e.Model.Interval.Value, 4), e.Model.Interval.Unit)
-		}
-		b.WriteByte('\n')
-		poles := fitZRoots(in.Den.Coeffs())
-		zeros := fitZRoots(in.Num.Coeffs())
-		fmt.Fprintf(&b, "    poles (z): %s\n", fitRoots(poles))
-		fmt.Fprintf(&b, "    zeros (z): %s\n", fitRoots(zeros))
-		if r, err := in.Rational(); err == nil {
-			if g, err := r.Gain(); err == nil {
-				if in.Diff.IsOne() {
-					fmt.Fprintf(&b, "    steady-state gain: %s\n", fitNum(g, 4))
-				} else {
-					fmt.Fprintf(&b, "    steady-state gain on the differenced input: %s\n", fitNum(g, 4))
-				}
+}
+
+// writeInput writes the dead time, poles, zeros and gain of one input.
+func (e *Estimate) writeInput(b *strings.Builder, in Input) {
+	unit := "samples"
+	if in.Delay == 1 {
+		unit = "sample"
+	}
+	fmt.Fprintf(b, "\n  input %s: dead time %d %s", in.Series, in.Delay, unit)
+	if e.Model.Interval.Value > 0 {
+		fmt.Fprintf(b, " (%s %s)", formatSig(float64(in.Delay)*e.Model.Interval.Value, 4), e.Model.Interval.Unit)
+	}
+	b.WriteByte('\n')
+	poles := zRoots(in.Den.Coeffs())
+	zeros := zRoots(in.Num.Coeffs())
+	fmt.Fprintf(b, "    poles (z): %s\n", formatRoots(poles))
+	fmt.Fprintf(b, "    zeros (z): %s\n", formatRoots(zeros))
+	if r, err := in.Rational(); err == nil {
+		if g, err := r.Gain(); err == nil {
+			if in.Diff.IsOne() {
+				fmt.Fprintf(b, "    steady-state gain: %s\n", formatSig(g, 4))
 			} else {
-				fmt.Fprintf(&b, "    steady-state gain: none (%v)\n", err)
+				fmt.Fprintf(b, "    steady-state gain on the differenced input: %s\n", formatSig(g, 4))
 			}
+		} else {
+			fmt.Fprintf(b, "    steady-state gain: none (%v)\n", err)
 		}
 	}
+}
+
+// writeVerdict writes the noise roots, the warnings and whether the
+// estimate is to be trusted.
+func (e *Estimate) writeVerdict(b *strings.Builder) {
 	if e.Model.Noise != nil && !e.Model.Noise.IsWhite() {
-		fmt.Fprintf(&b, "\n  noise: AR roots (z) %s; MA roots (z) %s\n",
-			fitRoots(fitZRoots(e.Model.Noise.AR.Coeffs())), fitRoots(fitZRoots(e.Model.Noise.MA.Coeffs())))
+		fmt.Fprintf(b, "\n  noise: AR roots (z) %s; MA roots (z) %s\n",
+			formatRoots(zRoots(e.Model.Noise.AR.Coeffs())), formatRoots(zRoots(e.Model.Noise.MA.Coeffs())))
 	}
 	if len(e.Warnings) == 0 {
 		b.WriteString("\n  warnings: none\n")
 	} else {
 		b.WriteString("\n  warnings:\n")
 		for _, wr := range e.Warnings {
-			fmt.Fprintf(&b, "    - %s\n", wr.Message)
+			fmt.Fprintf(b, "    - %s\n", wr.Message)
 		}
 	}
 	if bad := e.Soundness(); len(bad) > 0 {
 		b.WriteString("\n  estimate: NOT to be trusted, for control work or forecasts:\n")
 		for _, f := range bad {
-			fmt.Fprintf(&b, "    - %s\n", f)
+			fmt.Fprintf(b, "    - %s\n", f)
 		}
 	} else {
 		b.WriteString("\n  estimate: no fault found in the estimate itself; whether the model is adequate is for the residual checks (Check)\n")
 	}
-	return b.String()
 }
 
 // String returns a plain-text report of the checks with their verdicts;
@@ -134,30 +164,30 @@ func (d *Diagnostics) String() string {
 	if !d.Pass {
 		head = "the model is NOT to be trusted (reasons at the end)"
 	}
-	fmt.Fprintf(&b, "Diagnostic checks at the %s level: %s\n", fitNum(d.Alpha, 3), head)
+	fmt.Fprintf(&b, "Diagnostic checks at the %s level: %s\n", formatSig(d.Alpha, 3), head)
 	r := d.Residual
 	fmt.Fprintf(&b, "  residual autocorrelation, lags 1..%d: Ljung-Box Q = %s, df %d, p = %s  %s\n",
-		r.Lags, fitFixed(r.Q, 2), r.DF, fitNum(r.P, 3), verdict(r.Pass))
+		r.Lags, formatFixed(r.Q, 2), r.DF, formatSig(r.P, 3), verdict(r.Pass))
 	var big []string
 	for k, v := range r.ACF {
 		if math.Abs(v) > r.Band {
-			big = append(big, fmt.Sprintf("lag %d (%s)", k+1, fitFixed(v, 3)))
+			big = append(big, fmt.Sprintf("lag %d (%s)", k+1, formatFixed(v, 3)))
 		}
 	}
 	if len(big) > 0 {
-		fmt.Fprintf(&b, "    outside -/+%s: %s\n", fitFixed(r.Band, 3), strings.Join(big, ", "))
+		fmt.Fprintf(&b, "    outside -/+%s: %s\n", formatFixed(r.Band, 3), strings.Join(big, ", "))
 	}
 	for _, c := range d.Cross {
 		fmt.Fprintf(&b, "  residuals vs prewhitened %s (AR(%d) filter), lags 0..%d: S = %s, df %d, p = %s  %s\n",
-			c.Input, c.Prewhiten.Order(), c.Lags, fitFixed(c.S, 2), c.DF, fitNum(c.P, 3), verdict(c.Pass))
+			c.Input, c.Prewhiten.Order(), c.Lags, formatFixed(c.S, 2), c.DF, formatSig(c.P, 3), verdict(c.Pass))
 		big = big[:0]
 		for k, v := range c.CCF {
 			if math.Abs(v) > c.Band {
-				big = append(big, fmt.Sprintf("lag %d (%s)", k, fitFixed(v, 3)))
+				big = append(big, fmt.Sprintf("lag %d (%s)", k, formatFixed(v, 3)))
 			}
 		}
 		if len(big) > 0 {
-			fmt.Fprintf(&b, "    outside -/+%s: %s\n", fitFixed(c.Band, 3), strings.Join(big, ", "))
+			fmt.Fprintf(&b, "    outside -/+%s: %s\n", formatFixed(c.Band, 3), strings.Join(big, ", "))
 		}
 	}
 	if len(d.Failures) > 0 {
@@ -169,29 +199,29 @@ func (d *Diagnostics) String() string {
 	return b.String()
 }
 
-// fitNum formats v with sig significant digits.
-func fitNum(v float64, sig int) string {
+// formatSig formats v with sig significant digits.
+func formatSig(v float64, sig int) string {
 	if math.IsNaN(v) {
 		return "n/a"
 	}
 	return strconv.FormatFloat(v, 'g', sig, 64)
 }
 
-// fitFixed formats v with dec decimals.
-func fitFixed(v float64, dec int) string {
+// formatFixed formats v with dec decimals.
+func formatFixed(v float64, dec int) string {
 	if math.IsNaN(v) {
 		return "n/a"
 	}
 	return strconv.FormatFloat(v, 'f', dec, 64)
 }
 
-func fitRoots(zs []complex128) string {
+func formatRoots(zs []complex128) string {
 	if len(zs) == 0 {
 		return "none"
 	}
 	parts := make([]string, len(zs))
 	for i, z := range zs {
-		parts[i] = fitFmtC(z)
+		parts[i] = formatComplex(z)
 	}
 	return strings.Join(parts, ", ")
 }

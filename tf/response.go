@@ -31,14 +31,14 @@ func (r Rational) gain() (float64, error) {
 	// delta(1) within a few roundings of zero is a pole at z = 1 that the
 	// coefficients cannot resolve: 8 eps times the sum of |delta_k| bounds
 	// the rounding of the sum that forms delta(1).
-	if ratVanishesAt(den, 1) || math.IsInf(n1/d1, 0) {
+	if vanishesAt(den, 1) || math.IsInf(n1/d1, 0) {
 		return 0, &GainError{Num1: n1, Den1: d1}
 	}
 	return n1 / d1, nil
 }
 
-// ratEps is the float64 machine epsilon 2^-52.
-const ratEps = 0x1p-52
+// machineEps is the float64 machine epsilon 2^-52.
+const machineEps = 0x1p-52
 
 // UnstableError reports that a quantity defined only for stable terms was
 // asked of a term with a pole on or outside the unit circle; MaxPole is

@@ -94,11 +94,11 @@ func screenSpikes(x []float64) []spike {
 		d[t-1] = x[t] - x[t-1]
 	}
 	abs := make([]float64, len(d))
-	med := screenMedian(slices.Clone(d))
+	med := median(slices.Clone(d))
 	for i, v := range d {
 		abs[i] = math.Abs(v - med)
 	}
-	s := 1.4826 * screenMedian(abs)
+	s := 1.4826 * median(abs)
 	if !(s > 0) {
 		return nil
 	}
@@ -110,16 +110,6 @@ func screenSpikes(x []float64) []spike {
 		}
 	}
 	return out
-}
-
-// screenMedian returns the median of v, reordering v.
-func screenMedian(v []float64) float64 {
-	slices.Sort(v)
-	m := len(v) / 2
-	if len(v)%2 == 1 {
-		return v[m]
-	}
-	return (v[m-1] + v[m]) / 2
 }
 
 // screenWarnings returns the StuckOutput and OutputSpike warnings of the

@@ -24,8 +24,8 @@ const MaxBurnIn = 1 << 24
 // inputs are ignored; all the same length n, which is the length of the
 // result). Every coefficient is taken at its Value.
 //
-// The record starts settled by default, as Fit assumes (see Fit,
-// "Residuals and conditioning"): each input is taken as held at its
+// The record starts settled by default, as Fit assumes (see
+// Conditioning in the package doc): each input is taken as held at its
 // first sample x_0 before the record, so an undifferenced input's term
 // starts at its steady output Gain() x_0 and a differenced input's
 // difference starts at zero (System.SetSteady with the first samples).
@@ -70,34 +70,12 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 	if err != nil {
 		return nil, err
 	}
-	xs := make([][]float64, len(m.Inputs))
-	n := -1
-	for i, in := range m.Inputs {
-		x, ok := inputs[in.Series]
-		if !ok {
-			return nil, &SeriesError{Op: op, Series: in.Series, Kind: ErrName, Detail: "the model has an input of this name but the inputs map has no such series"}
-		}
-		if n >= 0 && len(x) != n {
-			return nil, &SeriesError{Op: op, Series: in.Series, Kind: ErrLength, Have: len(x), Need: n,
-				Detail: "the length of series " + strconv.Quote(m.Inputs[0].Series)}
-		}
-		n = len(x)
-		if err := simCheck(in.Series, x); err != nil {
-			return nil, withOp(op, err)
-		}
-		xs[i] = x
+	xs, n, err := m.simInputs(op, inputs)
+	if err != nil {
+		return nil, err
 	}
-	if set.Innovations != nil {
-		if len(set.Innovations) != n {
-			return nil, &SeriesError{Op: op, Series: "innovations", Kind: ErrLength, Have: len(set.Innovations), Need: n,
-				Detail: "SimSettings.Innovations needs one value per input sample"}
-		}
-		if err := simCheck("innovations", set.Innovations); err != nil {
-			return nil, withOp(op, err)
-		}
-		if m.Noise == nil {
-			return nil, &ModelError{Op: op, Part: "noise", Problem: "SimSettings.Innovations given but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
-		}
+	if err := m.checkInnovations(op, set.Innovations, n); err != nil {
+		return nil, err
 	}
 	y := make([]float64, n)
 	if n == 0 {
@@ -131,6 +109,49 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 		}
 	}
 	return y, nil
+}
+
+// simInputs returns the model's input series from inputs, in the order
+// of m.Inputs, and their common length (-1 without inputs), refusing a
+// missing series, unequal lengths and a non-finite sample.
+func (m Model) simInputs(op string, inputs map[string][]float64) ([][]float64, int, error) {
+	xs := make([][]float64, len(m.Inputs))
+	n := -1
+	for i, in := range m.Inputs {
+		x, ok := inputs[in.Series]
+		if !ok {
+			return nil, 0, &SeriesError{Op: op, Series: in.Series, Kind: ErrName, Detail: "the model has an input of this name but the inputs map has no such series"}
+		}
+		if n >= 0 && len(x) != n {
+			return nil, 0, &SeriesError{Op: op, Series: in.Series, Kind: ErrLength, Have: len(x), Need: n,
+				Detail: "the length of series " + strconv.Quote(m.Inputs[0].Series)}
+		}
+		n = len(x)
+		if err := simCheck(in.Series, x); err != nil {
+			return nil, 0, withOp(op, err)
+		}
+		xs[i] = x
+	}
+	return xs, n, nil
+}
+
+// checkInnovations refuses given innovations (nil for none) of a length
+// other than n, with a non-finite value, or for a model without noise.
+func (m Model) checkInnovations(op string, innov []float64, n int) error {
+	if innov == nil {
+		return nil
+	}
+	if len(innov) != n {
+		return &SeriesError{Op: op, Series: "innovations", Kind: ErrLength, Have: len(innov), Need: n,
+			Detail: "SimSettings.Innovations needs one value per input sample"}
+	}
+	if err := simCheck("innovations", innov); err != nil {
+		return withOp(op, err)
+	}
+	if m.Noise == nil {
+		return &ModelError{Op: op, Part: "noise", Problem: "SimSettings.Innovations given but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
+	}
+	return nil
 }
 
 // simOverflow returns the *SimError for the non-finite output v at

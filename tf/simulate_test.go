@@ -491,8 +491,8 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 	}
 }
 
-// SetSteady with the wrong number of input samples is a *SeriesError (it
-// used to panic), and an error leaves the system as it was.
+// SetSteady with the wrong number of input samples is a *SeriesError,
+// not a panic, and an error leaves the system as it was.
 func TestSystemSetSteadyErrors(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) B^2 valve + 0.3 / (1 - B) feed")
 	sys, err := tf.NewSystem(m, nil)

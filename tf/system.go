@@ -51,8 +51,8 @@ type SimSettings struct {
 	// before the record (see System.SetSteady): an undifferenced input's
 	// term starts at its steady output Gain() x_0, and a differenced
 	// input's pre-sample values are x_0, so that its difference starts
-	// at zero. That is the record Fit assumes by default (see Fit,
-	// "Residuals and conditioning"), so that simulating and then fitting
+	// at zero. That is the record Fit assumes by default (see
+	// Conditioning in the package doc), so that simulating and then fitting
 	// with the defaults agree; FromRest matches Fit with
 	// FitSettings.ZeroPreSample only for inputs without differencing. A
 	// System from NewSystem always starts at rest (it does not know the
@@ -213,18 +213,31 @@ func newSystem(op string, m Model, s *SimSettings) (*System, error) {
 	if math.IsNaN(sys.c) || math.IsInf(sys.c, 0) {
 		return nil, &ModelError{Op: op, Part: "constant", Problem: "is " + strconv.FormatFloat(sys.c, 'g', -1, 64) + ", not a finite number"}
 	}
+	if err := sys.buildPlants(op, m); err != nil {
+		return nil, err
+	}
+	if err := sys.buildNoise(op, m, set); err != nil {
+		return nil, err
+	}
+	sys.Reset()
+	return sys, nil
+}
+
+// buildPlants makes the streaming plants of each input's path and
+// differencing, and the integration of the output's differencing.
+func (sys *System) buildPlants(op string, m Model) error {
 	for i, in := range m.Inputs {
 		part := "input " + in.Series
 		sys.names[i] = in.Series
 		r, err := in.rational()
 		if err != nil {
-			return nil, &ModelError{Op: op, Part: part, Problem: "invalid transfer function: " + err.Error(), Err: err}
+			return &ModelError{Op: op, Part: part, Problem: "invalid transfer function: " + err.Error(), Err: err}
 		}
 		sys.path[i] = NewPlant(r)
 		if !in.Diff.IsOne() {
 			d, err := newRational(in.DiffCoeffs(), []float64{1}, 0)
 			if err != nil {
-				return nil, &ModelError{Op: op, Part: part, Problem: "invalid differencing: " + err.Error(), Err: err}
+				return &ModelError{Op: op, Part: part, Problem: "invalid differencing: " + err.Error(), Err: err}
 			}
 			sys.diff[i] = NewPlant(d)
 		}
@@ -232,29 +245,35 @@ func newSystem(op string, m Model, s *SimSettings) (*System, error) {
 	if !m.Diff.IsOne() {
 		d, err := newRational([]float64{1}, m.DiffCoeffs(), 0)
 		if err != nil {
-			return nil, &ModelError{Op: op, Part: "output " + m.Output, Problem: "invalid differencing: " + err.Error(), Err: err}
+			return &ModelError{Op: op, Part: "output " + m.Output, Problem: "invalid differencing: " + err.Error(), Err: err}
 		}
 		sys.integ = NewPlant(d)
 	}
+	return nil
+}
+
+// buildNoise makes the noise plant and sets the burn-in (automatic for
+// BurnIn 0, none for -1), refusing a burn-in with a non-stationary noise
+// model and a Sigma without a noise term.
+func (sys *System) buildNoise(op string, m Model, set SimSettings) error {
 	if m.Noise != nil {
 		r, err := m.noiseRational()
 		if err != nil {
-			return nil, &ModelError{Op: op, Part: "noise", Problem: "invalid noise model: " + err.Error(), Err: err}
+			return &ModelError{Op: op, Part: "noise", Problem: "invalid noise model: " + err.Error(), Err: err}
 		}
 		sys.noise = NewPlant(r)
 		switch {
 		case set.BurnIn > 0 && !r.Stable():
-			return nil, &ModelError{Op: op, Part: "noise", Problem: "a burn-in needs a stationary noise model, and phi(B) has a root on or inside the unit circle (set SimSettings.BurnIn to -1 for none)"}
+			return &ModelError{Op: op, Part: "noise", Problem: "a burn-in needs a stationary noise model, and phi(B) has a root on or inside the unit circle (set SimSettings.BurnIn to -1 for none)"}
 		case set.BurnIn == 0:
 			sys.burn = autoBurnIn(r)
 		case set.BurnIn < 0:
 			sys.burn = 0
 		}
 	} else if set.Sigma > 0 {
-		return nil, &ModelError{Op: op, Part: "noise", Problem: "Sigma > 0 but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
+		return &ModelError{Op: op, Part: "noise", Problem: "Sigma > 0 but the model has no noise term (add a, or AR/MA/ARMA, to the spec)"}
 	}
-	sys.Reset()
-	return sys, nil
+	return nil
 }
 
 // Inputs returns the input series names in the order Step expects their

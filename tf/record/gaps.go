@@ -165,29 +165,7 @@ func (r Remedy) apply(t *table, tm *timing, ivText string, brks []Break, data ma
 		return nil, "", fail(fmt.Sprintf("fitting across them would treat rows far apart in time as neighbours; choose a remedy: %s or %s fill gaps of up to N missing samples (holding the last value, or on a straight line), %s fits only the longest evenly spaced stretch (%s if the column is not a time)",
 			s.set("Gaps", "hold:N"), s.set("Gaps", "linear:N"), s.set("Gaps", "longest"), s.set("Time", "none")), brks)
 	case "longest":
-		from, to := 0, len(tm.secs) // the stretch [from, to)
-		best := -1
-		start := 0
-		for i := 0; i <= len(brks); i++ {
-			end := len(tm.secs)
-			if i < len(brks) {
-				end = brks[i].Row
-			}
-			// Ties go to the later stretch: the plant as it is now.
-			if end-start >= best {
-				best, from, to = end-start, start, end
-			}
-			if i < len(brks) {
-				start = brks[i].Row
-			}
-		}
-		out := make(map[string][]float64, len(data))
-		for k, v := range data {
-			out[k] = slices.Clone(v[from:to])
-		}
-		note := fmt.Sprintf("%d %s in the time column: fitting only lines %d to %d (%d samples), the longest evenly spaced stretch; %d of %d rows left out",
-			len(brks), plural(len(brks), "break", "breaks"), t.lines[from], t.lines[to-1], to-from, len(tm.secs)-(to-from), len(tm.secs))
-		return out, note, nil
+		return longestStretch(t, tm, brks, data)
 	}
 	var bad []Break
 	for _, b := range brks {
@@ -198,6 +176,41 @@ func (r Remedy) apply(t *table, tm *timing, ivText string, brks []Break, data ma
 	if len(bad) > 0 {
 		return nil, "", fail(fmt.Sprintf("%s fills gaps of whole intervals up to %d missing samples; these are irregular or longer (%s fits only the longest evenly spaced stretch)", s.set("Gaps", r.String()), r.Max, s.set("Gaps", "longest")), bad)
 	}
+	return r.fill(brks, data)
+}
+
+// longestStretch keeps the rows of the longest evenly spaced stretch
+// between breaks (the later one on a tie: the plant as it is now) and
+// returns a note saying so.
+func longestStretch(t *table, tm *timing, brks []Break, data map[string][]float64) (map[string][]float64, string, error) {
+	from, to := 0, len(tm.secs) // the stretch [from, to)
+	best := -1
+	start := 0
+	for i := 0; i <= len(brks); i++ {
+		end := len(tm.secs)
+		if i < len(brks) {
+			end = brks[i].Row
+		}
+		// Ties go to the later stretch: the plant as it is now.
+		if end-start >= best {
+			best, from, to = end-start, start, end
+		}
+		if i < len(brks) {
+			start = brks[i].Row
+		}
+	}
+	out := make(map[string][]float64, len(data))
+	for k, v := range data {
+		out[k] = slices.Clone(v[from:to])
+	}
+	note := fmt.Sprintf("%d %s in the time column: fitting only lines %d to %d (%d samples), the longest evenly spaced stretch; %d of %d rows left out",
+		len(brks), plural(len(brks), "break", "breaks"), t.lines[from], t.lines[to-1], to-from, len(tm.secs)-(to-from), len(tm.secs))
+	return out, note, nil
+}
+
+// fill fills the gaps of the breaks by the remedy (holding the last value
+// or on straight lines) and returns a note listing them.
+func (r Remedy) fill(brks []Break, data map[string][]float64) (map[string][]float64, string, error) {
 	out := make(map[string][]float64, len(data))
 	filled := 0
 	for _, b := range brks {

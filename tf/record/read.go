@@ -271,6 +271,23 @@ func readTable(name string, r io.Reader, s *Settings) (*table, error) {
 		}
 		return nil, parseError(name, err)
 	}
+	t, err := readHeader(cr, name, header, s)
+	if err != nil {
+		return nil, err
+	}
+	if err := t.readRows(cr, s); err != nil {
+		return nil, err
+	}
+	if len(t.lines) == 0 {
+		return nil, &LineError{File: name, Problem: "no data lines after the header", Kind: ErrShort}
+	}
+	return t, nil
+}
+
+// readHeader starts the table of file name from its header line,
+// refusing a single column that looks like another separator, a column
+// without a name and a repeated name.
+func readHeader(cr *csv.Reader, name string, header []string, s *Settings) (*table, error) {
 	hline, _ := cr.FieldPos(0)
 	t := &table{file: name, cells: make(map[string][]string, len(header))}
 	if len(header) == 1 {
@@ -289,13 +306,20 @@ func readTable(name string, r io.Reader, s *Settings) (*table, error) {
 		t.names = append(t.names, h)
 		t.cells[h] = nil
 	}
+	return t, nil
+}
+
+// readRows reads the data lines into t, refusing a line whose number of
+// fields differs from the header's.
+func (t *table) readRows(cr *csv.Reader, s *Settings) error {
+	name := t.file
 	for {
 		row, err := cr.Read()
 		if errors.Is(err, io.EOF) {
 			break
 		}
 		if err != nil {
-			return nil, parseError(name, err)
+			return parseError(name, err)
 		}
 		line, _ := cr.FieldPos(0)
 		if len(row) != len(t.names) {
@@ -305,17 +329,14 @@ func readTable(name string, r io.Reader, s *Settings) (*table, error) {
 					msg += "; " + hint
 				}
 			}
-			return nil, &LineError{File: name, Line: line, Problem: msg}
+			return &LineError{File: name, Line: line, Problem: msg}
 		}
 		for i, cell := range row {
 			t.cells[t.names[i]] = append(t.cells[t.names[i]], strings.TrimSpace(cell))
 		}
 		t.lines = append(t.lines, line)
 	}
-	if len(t.lines) == 0 {
-		return nil, &LineError{File: name, Problem: "no data lines after the header", Kind: ErrShort}
-	}
-	return t, nil
+	return nil
 }
 
 // parseError turns an error of the CSV reader into a LineError at the

@@ -101,14 +101,47 @@ type timing struct {
 // columns used as series when it looks for one. It returns nil when
 // there is no time column.
 func findTime(t *table, s *Settings, used map[string]bool) (*timing, error) {
+	col, err := timeColumn(t, s, used)
+	if col == "" || err != nil {
+		return nil, err
+	}
+	tm := &timing{column: col, secs: make([]float64, t.rows())}
+	cells := t.cells[col]
+	_, tm.calendar = calendar(cells[0])
+	_, err = time.Parse("2006-01-02", cells[0])
+	tm.dates = err == nil
+	if !tm.calendar {
+		tm.unit = s.TimeUnit
+		if tm.unit == "" {
+			if u, ok := nameUnit(col); ok {
+				tm.unit = u
+			} else {
+				tm.unit = "s"
+			}
+		}
+	}
+	if err := tm.read(t, s, cells); err != nil {
+		return nil, err
+	}
+	if err := tm.spacing(t, cells); err != nil {
+		return nil, err
+	}
+	return tm, nil
+}
+
+// timeColumn returns the name of the time column: s.Time, or the first
+// column when it holds calendar times or numbers under a time's name;
+// "" for none. It refuses a column named as a time in a form not read,
+// an unknown column and a column that is also a series.
+func timeColumn(t *table, s *Settings, used map[string]bool) (string, error) {
 	col := s.Time
 	switch col {
 	case "none":
-		return nil, nil
+		return "", nil
 	case "":
 		first := t.names[0]
 		if used[first] {
-			return nil, nil
+			return "", nil
 		}
 		cell := t.cells[first][0]
 		_, isCal := calendar(cell)
@@ -121,37 +154,29 @@ func findTime(t *table, s *Settings, used map[string]bool) (*timing, error) {
 		case nameOK || dateNames[strings.ToLower(first)]:
 			// Named as a time, but in a form not read: refuse rather
 			// than silently take the rows as evenly spaced.
-			return nil, &LineError{File: t.file, Line: t.lines[0], Column: first, Kind: ErrSample,
+			return "", &LineError{File: t.file, Line: t.lines[0], Column: first, Kind: ErrSample,
 				Problem: fmt.Sprintf("the first column looks like a time column by its name, but %s is neither a number nor a timestamp (2026-01-01T10:00:00Z) or a date (2026-01-01): convert it, or give %s to read no time column", clip(cell), s.set("Time", "none"))}
 		default:
-			return nil, nil
+			return "", nil
 		}
 		col = first
 	default:
 		if !t.has(col) {
-			return nil, &SettingError{Op: op, Setting: s.label("Time"), Value: strconv.Quote(col),
+			return "", &SettingError{Op: op, Setting: s.label("Time"), Value: strconv.Quote(col),
 				Rule: fmt.Sprintf("%s has no such column (columns: %s; %s: no time column)", t.file, names(t.names), s.set("Time", "none"))}
 		}
 		if used[col] {
-			return nil, &SettingError{Op: op, Setting: s.label("Time"), Value: strconv.Quote(col),
+			return "", &SettingError{Op: op, Setting: s.label("Time"), Value: strconv.Quote(col),
 				Rule: "the column is also a series to read: the time column says when each row was sampled"}
 		}
 	}
-	tm := &timing{column: col, secs: make([]float64, t.rows())}
-	cells := t.cells[col]
-	_, tm.calendar = calendar(cells[0])
-	_, err := time.Parse("2006-01-02", cells[0])
-	tm.dates = err == nil
-	if !tm.calendar {
-		tm.unit = s.TimeUnit
-		if tm.unit == "" {
-			if u, ok := nameUnit(col); ok {
-				tm.unit = u
-			} else {
-				tm.unit = "s"
-			}
-		}
-	}
+	return col, nil
+}
+
+// read converts the cells of the time column to seconds, refusing a cell
+// that is not a time of the column's kind.
+func (tm *timing) read(t *table, s *Settings, cells []string) error {
+	col := tm.column
 	for i, c := range cells {
 		var v float64
 		ok := false
@@ -168,11 +193,18 @@ func findTime(t *table, s *Settings, used map[string]bool) (*timing, error) {
 			if tm.calendar {
 				want = "a timestamp (2026-01-01T10:00:00Z) or a date (2026-01-01) like row 1's " + clip(cells[0])
 			}
-			return nil, &LineError{File: t.file, Line: t.lines[i], Column: col, Kind: ErrSample,
+			return &LineError{File: t.file, Line: t.lines[i], Column: col, Kind: ErrSample,
 				Problem: fmt.Sprintf("%s is not a time: the time column wants %s (%s: no time column)", clip(c), want, s.set("Time", "none"))}
 		}
 		tm.secs[i] = v
 	}
+	return nil
+}
+
+// spacing refuses times that repeat or go back, and sets the number of
+// steps and their median.
+func (tm *timing) spacing(t *table, cells []string) error {
+	col := tm.column
 	var steps []float64
 	for i := 1; i < len(tm.secs); i++ {
 		d := tm.secs[i] - tm.secs[i-1]
@@ -181,7 +213,7 @@ func findTime(t *table, s *Settings, used map[string]bool) (*timing, error) {
 			if d < 0 {
 				what = "goes back"
 			}
-			return nil, &LineError{File: t.file, Line: t.lines[i], Column: col, Kind: ErrSample,
+			return &LineError{File: t.file, Line: t.lines[i], Column: col, Kind: ErrSample,
 				Problem: fmt.Sprintf("the time %s: %s after %s on line %d (the rows must be in time order, each sampled once)", what, clip(cells[i]), clip(cells[i-1]), t.lines[i-1])}
 		}
 		steps = append(steps, d)
@@ -191,7 +223,7 @@ func findTime(t *table, s *Settings, used map[string]bool) (*timing, error) {
 		slices.Sort(steps)
 		tm.median = steps[len(steps)/2]
 	}
-	return tm, nil
+	return nil
 }
 
 func unitName(u string) string {
@@ -254,22 +286,8 @@ func (rec *Record) timing(t *table, tm *timing, s *Settings) error {
 	case tm.calendar:
 		what = "timestamps"
 	}
-	if s.Interval.Value > 0 && tm.steps > 0 {
-		if _, fixed := Seconds(s.Interval.Unit); !fixed {
-			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
-				Rule: fmt.Sprintf("a calendar interval has no fixed length, so the time column %s of %s cannot be checked against it: read the record without its time column (%s)",
-					clip(tm.column), t.file, s.set("Time", "none"))}
-		}
-		given := s.Interval.Value * unitSeconds[s.Interval.Unit]
-		if math.Abs(tm.median/given-1) > stepTolerance {
-			iv := niceInterval(tm.median)
-			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
-				Rule: fmt.Sprintf("the time column %s of %s steps by %s (the median of its %d steps): correct the one that is wrong (%s sets the unit of a numeric time column)",
-					clip(tm.column), t.file, ivText(iv.Value, iv.Unit), tm.steps, s.label("TimeUnit"))}
-		}
-		rec.Interval = s.Interval
-	} else if tm.median > 0 {
-		rec.Interval = niceInterval(tm.median)
+	if err := rec.setInterval(t, tm, s); err != nil {
+		return err
 	}
 	if rec.Interval.Value == 0 {
 		// A single row: no step to take an interval from.
@@ -291,5 +309,29 @@ func (rec *Record) timing(t *table, tm *timing, s *Settings) error {
 	}
 	rec.Series = data
 	rec.Notes = append(rec.Notes, note)
+	return nil
+}
+
+// setInterval sets the record's sampling interval: s.Interval, checked
+// against the median step of the time column (within stepTolerance), or
+// else that median step as a round interval.
+func (rec *Record) setInterval(t *table, tm *timing, s *Settings) error {
+	if s.Interval.Value > 0 && tm.steps > 0 {
+		if _, fixed := Seconds(s.Interval.Unit); !fixed {
+			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
+				Rule: fmt.Sprintf("a calendar interval has no fixed length, so the time column %s of %s cannot be checked against it: read the record without its time column (%s)",
+					clip(tm.column), t.file, s.set("Time", "none"))}
+		}
+		given := s.Interval.Value * unitSeconds[s.Interval.Unit]
+		if math.Abs(tm.median/given-1) > stepTolerance {
+			iv := niceInterval(tm.median)
+			return &SettingError{Op: op, Setting: s.label("Interval"), Value: ivText(s.Interval.Value, s.Interval.Unit),
+				Rule: fmt.Sprintf("the time column %s of %s steps by %s (the median of its %d steps): correct the one that is wrong (%s sets the unit of a numeric time column)",
+					clip(tm.column), t.file, ivText(iv.Value, iv.Unit), tm.steps, s.label("TimeUnit"))}
+		}
+		rec.Interval = s.Interval
+	} else if tm.median > 0 {
+		rec.Interval = niceInterval(tm.median)
+	}
 	return nil
 }
