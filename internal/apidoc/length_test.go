@@ -23,14 +23,7 @@ const (
 // longFuncs lists the functions allowed over maxFuncLines while they are
 // cut into named steps (issue "a house a newcomer can live in"); a
 // function that gets shorter must leave the list.
-var longFuncs = map[string]bool{
-	"tf/identify.go:Identify":          true, // 244 lines
-	"tf/fit.go:fitPrepare":             true, // 223 lines
-	"tf/forecast.go:Estimate.Forecast": true, // 191 lines
-	"tf/fit_fir.go:fitFIR":             true, // 129 lines
-	"tf/c2d.go:Rational.asSecondOrder": true, // 104 lines
-	"tf/check.go:Check":                true, // 102 lines
-}
+var longFuncs = map[string]bool{}
 
 // funcLength is one function's length.
 type funcLength struct {
