@@ -5,7 +5,9 @@ import (
 	"fmt"
 	"strconv"
 
+	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/prewhiten"
 )
 
 // The shared shapes this package returns besides those of errkinds.go.
@@ -114,45 +116,49 @@ func opPrefix(op string) string {
 // carry one, so that a message names the exported function the caller
 // called; it returns err.
 func withOp(op string, err error) error {
-	switch e := err.(type) {
-	case *SampleError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *ModelError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *SettingError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *SeriesError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *CoefError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *DelayError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *GainError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *UnstableError:
-		if e.Op == "" {
-			e.Op = op
-		}
-	case *SimError:
-		if e.Op == "" {
-			e.Op = op
-		}
+	if p := opField(err); p != nil && *p == "" {
+		*p = op
 	}
 	return err
+}
+
+// opField returns the Op field of an error of the library that has one
+// (the shared shapes, tf's own error types, and the evidence types of
+// ccf and prewhiten that tf passes on), or nil.
+func opField(e error) *string {
+	switch v := e.(type) {
+	case *errs.SampleError:
+		return &v.Op
+	case *errs.SeriesError:
+		return &v.Op
+	case *errs.SettingError:
+		return &v.Op
+	case *errs.ModelError:
+		return &v.Op
+	case *errs.ConvergenceError:
+		return &v.Op
+	case *errs.InternalError:
+		return &v.Op
+	case *CoefError:
+		return &v.Op
+	case *DelayError:
+		return &v.Op
+	case *GainError:
+		return &v.Op
+	case *UnstableError:
+		return &v.Op
+	case *SimError:
+		return &v.Op
+	case *InterruptedError:
+		return &v.Op
+	case *StageError:
+		return &v.Op
+	case *ccf.NoResponseError:
+		return &v.Op
+	case *prewhiten.NotWhiteError:
+		return &v.Op
+	}
+	return nil
 }
 
 // setting returns a *SettingError for the field setting with the value v.

@@ -3,9 +3,7 @@ package tf
 import (
 	"strconv"
 
-	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/errs"
-	"github.com/backshift/backshift/prewhiten"
 )
 
 // InternalError reports a fault of the library itself: a panic recovered
@@ -69,27 +67,8 @@ func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 // estimation side.
 func setOp(op string, err *error) {
 	for e := *err; e != nil; {
-		switch v := e.(type) {
-		case *errs.SampleError:
-			v.Op = op
-		case *errs.SeriesError:
-			v.Op = op
-		case *errs.SettingError:
-			v.Op = op
-		case *errs.ModelError:
-			v.Op = op
-		case *errs.ConvergenceError:
-			v.Op = op
-		case *errs.InternalError:
-			v.Op = op
-		case *InterruptedError:
-			v.Op = op
-		case *StageError:
-			v.Op = op
-		case *ccf.NoResponseError:
-			v.Op = op
-		case *prewhiten.NotWhiteError:
-			v.Op = op
+		if p := opField(e); p != nil {
+			*p = op
 		}
 		if u, ok := e.(interface{ Unwrap() error }); ok {
 			e = u.Unwrap()
@@ -97,23 +76,11 @@ func setOp(op string, err *error) {
 		}
 		if u, ok := e.(interface{ Unwrap() []error }); ok {
 			for _, x := range u.Unwrap() {
-				if x != nil && !isKind(x) {
+				if x != nil && !errs.IsKind(x) {
 					setOp(op, &x)
 				}
 			}
 		}
 		break
 	}
-}
-
-// isKind reports whether e is one of the shared kinds (a sentinel, not
-// to be walked).
-func isKind(e error) bool {
-	for _, k := range []error{errs.ErrSample, errs.ErrShort, errs.ErrConstant, errs.ErrLength, errs.ErrName,
-		errs.ErrSetting, errs.ErrModel, errs.ErrConvergence, errs.ErrOverflow, errs.ErrInternal} {
-		if e == k {
-			return true
-		}
-	}
-	return false
 }

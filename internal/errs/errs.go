@@ -40,6 +40,20 @@ var (
 	ErrFormat = errors.New("malformed text")
 )
 
+// kinds lists every kind, for IsKind.
+var kinds = []error{ErrSample, ErrShort, ErrConstant, ErrLength, ErrName, ErrSetting, ErrModel, ErrConvergence, ErrOverflow, ErrInternal, ErrFormat}
+
+// IsKind reports whether e is one of the kinds itself (a sentinel, at
+// the end of an error chain), not an error that matches one.
+func IsKind(e error) bool {
+	for _, k := range kinds {
+		if e == k {
+			return true
+		}
+	}
+	return false
+}
+
 // prefix returns "op: " or "" for an empty op.
 func prefix(op string) string {
 	if op == "" {

@@ -93,3 +93,13 @@ func TestRule(t *testing.T) {
 		}
 	}
 }
+
+// IsKind tells a kind itself from an error that matches one.
+func TestIsKind(t *testing.T) {
+	if !IsKind(ErrFormat) || !IsKind(ErrSample) {
+		t.Error("a kind is not recognised")
+	}
+	if IsKind(&SampleError{}) || IsKind(errors.New("bad sample")) {
+		t.Error("an error that is not a kind is taken for one")
+	}
+}
