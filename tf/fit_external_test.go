@@ -32,10 +32,7 @@ func trapData(seed uint64, n int, level float64) []float64 {
 func TestFitTraps(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + a")
 	x := trapData(1, 200, 5)
-	y, err := parse.MustModel("y = 1 + 2 / (1 - 0.5 B) B x + a").Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
+	y := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})["y"]
 	constant := func(v float64) []float64 {
 		c := make([]float64, 200)
 		for i := range c {
@@ -186,10 +183,7 @@ func TestFitWarningTraps(t *testing.T) {
 	for i := 10; i < n; i++ {
 		step[i] = 1
 	}
-	slow, err := parse.MustModel("y = 0.01 / (1 - 0.9999 B) B u + a").Simulate(map[string][]float64{"u": step}, &tf.SimSettings{Seed1: 6, Sigma: 0.05})
-	if err != nil {
-		t.Fatal(err)
-	}
+	slow := mustRecord(t, "y = 0.01 / (1 - 0.9999 B) B u + a", map[string][]float64{"u": step}, &tf.SimSettings{Seed1: 6, Sigma: 0.05})["y"]
 	e, err = tf.Fit(context.Background(), parse.MustModel("y = w0 / (1 - d1 B) B u + a"), map[string][]float64{"y": slow, "u": step}, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -233,11 +227,7 @@ func TestFitWarningTraps(t *testing.T) {
 func TestSettingsValidate(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + AR(1)")
 	x := trapData(1, 120, 5)
-	y, err := parse.MustModel("y = 1 + 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a").Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	data := map[string][]float64{"y": y, "x": x}
+	data := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})
 	fit := []struct {
 		s     tf.FitSettings
 		field string
@@ -290,20 +280,8 @@ func second[T any](_ T, err error) error { return err }
 // refitting from there returns to the same estimates (within the
 // optimiser's tolerance, 1e-6 relative) in very few iterations.
 func TestFitSpecRoundTrip(t *testing.T) {
-	truth, err := parse.Model("y = 3 + (1.5 - 0.4 B) / (1 - 0.7 B) B^2 u + (1 - 0.3 B) a")
-	if err != nil {
-		t.Fatal(err)
-	}
-	rng := rand.New(rand.NewPCG(8, 9))
-	u := make([]float64, 800)
-	for i := range u {
-		u[i] = rng.NormFloat64()
-	}
-	y, err := truth.Simulate(map[string][]float64{"u": u}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.5})
-	if err != nil {
-		t.Fatal(err)
-	}
-	data := map[string][]float64{"y": y, "u": u}
+	u := whiteInput(8, 9, 800)
+	data := mustRecord(t, "y = 3 + (1.5 - 0.4 B) / (1 - 0.7 B) B^2 u + (1 - 0.3 B) a", map[string][]float64{"u": u}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.5})
 	m, err := parse.Model("y = c + (w0 - w1 B) / (1 - d1 B) B^2 u + (1 - t1 B) a")
 	if err != nil {
 		t.Fatal(err)
@@ -426,13 +404,8 @@ var rtCases = []rtCase{
 // start) and unit innovations.
 func rtSim(t testing.TB, c rtCase, seed uint64, n int, fromRest bool) map[string][]float64 {
 	t.Helper()
-	truth := parse.MustModel(c.truth)
 	x := c.input(rand.New(rand.NewPCG(seed, 77)), n)
-	y, err := truth.Simulate(map[string][]float64{c.in: x}, &tf.SimSettings{Seed1: seed, Seed2: 78, Sigma: 1, FromRest: fromRest})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return map[string][]float64{truth.Output: y, c.in: x}
+	return mustRecord(t, c.truth, map[string][]float64{c.in: x}, &tf.SimSettings{Seed1: seed, Seed2: 78, Sigma: 1, FromRest: fromRest})
 }
 
 // TestFitSimulateRoundTripDefaults simulates each of the three models
@@ -682,17 +655,13 @@ func FuzzFit(f *testing.F) {
 // Fit converges and the residual checks may well pass, but the estimate
 // carries a serious warning naming the samples, and Check's verdict fails.
 func TestFitScreensTheOutput(t *testing.T) {
-	truth := parse.MustModel("temp = 5 + 0.02 / (1 - 0.9 B) B^2 valve + 1 / (1 - 0.5 B) a")
 	n := 3000
 	valve := make([]float64, n)
 	for i := range valve {
 		valve[i] = 50 + 10*float64((i/40)%2) // a square wave of period 80
 	}
 	data := map[string][]float64{"valve": valve}
-	y, err := truth.Simulate(data, &tf.SimSettings{Sigma: 0.05, Seed1: 7, Seed2: 8})
-	if err != nil {
-		t.Fatal(err)
-	}
+	y := mustRecord(t, "temp = 5 + 0.02 / (1 - 0.9 B) B^2 valve + 1 / (1 - 0.5 B) a", data, &tf.SimSettings{Sigma: 0.05, Seed1: 7, Seed2: 8})["temp"]
 	spec := parse.MustModel("temp = c + w0 / (1 - d1 B) B^2 valve + AR(1)")
 	fit := func(y []float64) (*tf.Estimate, *tf.Diagnostics) {
 		d := map[string][]float64{"valve": valve, "temp": y}
@@ -766,15 +735,8 @@ func TestIdentifyNamesTheSpike(t *testing.T) {
 func TestShortRecordForConditioning(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + AR(1)")
 	n := 400
-	rng := rand.New(rand.NewPCG(3, 4))
-	x := make([]float64, n)
-	for i := range x {
-		x[i] = rng.NormFloat64()
-	}
-	y, err := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + 1 / (1 - 0.4 B) a").Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.1, Seed1: 1, Seed2: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
+	x := whiteInput(3, 4, n)
+	y := mustRecord(t, "y = 0.5 / (1 - 0.6 B) B^2 x + 1 / (1 - 0.4 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.1, Seed1: 1, Seed2: 2})["y"]
 	e, err := tf.Fit(context.Background(), m, map[string][]float64{"x": x, "y": y}, nil)
 	if err != nil {
 		t.Fatal(err)
