@@ -1,87 +1,120 @@
-package tf_test
+package tf
 
 import (
-	"encoding/csv"
-	"fmt"
+	"context"
+	"errors"
 	"math/rand/v2"
-	"os"
-	"strconv"
 	"testing"
 
-	"github.com/backshift/backshift/parse"
-	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/filter"
 )
 
-// Fixtures shared by the tests and examples of package tf_test: the
-// records they fit are either simulated from a model written as a spec
-// or read from the BJsales file in testdata.
+// Fixtures shared by the tests of package tf: models built in code (the
+// parser imports tf, so these tests cannot use it) and the simulated
+// records they are fitted to.
 
-// whiteInput returns n standard normal draws from the PCG source seeded
-// with (seed1, seed2): the white input most simulated records use.
-func whiteInput(seed1, seed2 uint64, n int) []float64 {
-	rng := rand.New(rand.NewPCG(seed1, seed2))
-	x := make([]float64, n)
-	for i := range x {
-		x[i] = rng.NormFloat64()
-	}
-	return x
+// mkTerm returns a term: a named free coefficient (name != "") with start
+// value v, or the fixed number v; neg gives the minus sign as written.
+func mkTerm(neg bool, name string, v float64, power int) Term {
+	c := Coef{Name: name, Value: v, Free: name != ""}
+	return Term{Neg: neg, Coef: c, Power: power}
 }
 
-// simulateRecord parses the model written as spec, simulates its output
-// driven by inputs with settings s, and returns the record: the inputs
-// (the caller's slices, which Simulate leaves unchanged) and the output
-// under the model's output name.
-func simulateRecord(spec string, inputs map[string][]float64, s *tf.SimSettings) (map[string][]float64, error) {
-	m, err := parse.Model(spec)
-	if err != nil {
-		return nil, err
-	}
-	y, err := m.Simulate(inputs, s)
-	if err != nil {
-		return nil, err
-	}
-	rec := map[string][]float64{m.Output: y}
-	for name, x := range inputs {
-		rec[name] = x
-	}
-	return rec, nil
+// mkFactor returns the factor (terms)^1.
+func mkFactor(ts ...Term) Factor { return Factor{Terms: ts, Exp: 1} }
+
+// mkPoly returns the product of the factors.
+func mkPoly(fs ...Factor) Poly { return Poly{Factors: fs} }
+
+// oneMinus returns (1 - name B^k).
+func oneMinus(name string, k int) Poly {
+	return mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, name, 0, k)))
 }
 
-// mustRecord is simulateRecord for tests: an error ends the test.
-func mustRecord(t testing.TB, spec string, inputs map[string][]float64, s *tf.SimSettings) map[string][]float64 {
+// diff1 is (1 - B).
+var diff1 = mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 1, 1)))
+
+// simNoise returns n samples of the ARMA noise ma/ar driven by Gaussian
+// innovations of standard deviation sd, after a burn-in of 500 samples
+// from rest so that the samples returned are close to stationary.
+func simNoise(rng *rand.Rand, n int, ar, ma []float64, sd float64) []float64 {
+	burn := 500
+	e := make([]float64, n+burn)
+	for i := range e {
+		e[i] = sd * rng.NormFloat64()
+	}
+	out := make([]float64, n+burn)
+	filter.Run(out, ma, ar, e)
+	return out[burn:]
+}
+
+// simAR1 returns n samples of the AR(1) process with coefficient phi and
+// unit innovations.
+func simAR1(rng *rand.Rand, n int, phi float64) []float64 {
+	return simNoise(rng, n, []float64{1, -phi}, []float64{1}, 1)
+}
+
+// newRand returns a PCG source seeded with (seed, seed+1).
+func newRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, seed+1)) }
+
+// hasKind reports whether err matches one of the library's kinds of
+// error with errors.Is (every error of the package must).
+func hasKind(err error) bool {
+	for _, k := range []error{ErrSample, ErrShort, ErrConstant, ErrLength, ErrName, ErrSetting, ErrModel, ErrConvergence, ErrOverflow, ErrInternal} {
+		if errors.Is(err, k) {
+			return true
+		}
+	}
+	return false
+}
+
+// mcModel is the Monte Carlo model of our own: b = 3, s = 1, r = 1 and
+// AR(1) noise with a constant,
+//
+//	y_t = c + (w0 - w1 B)/(1 - d1 B) B^3 x_t + 1/(1 - p1 B) a_t,
+//
+// truth c = 2, w0 = 1.5, w1 = -0.8, d1 = 0.6, p1 = 0.5, sigma = 1, with
+// x an AR(1) input (phi 0.5, unit innovations). The numerator zero
+// (z = -0.53) is far from the pole (0.6): a nearly cancelling pair would
+// make the surface strongly non-quadratic and the SEs unreliable at n = 400.
+func mcModel() Model {
+	c := Coef{Name: "c", Free: true}
+	num := mkPoly(mkFactor(mkTerm(false, "w0", 0, 0), mkTerm(true, "w1", 0, 1)))
+	return Model{Output: "y", Const: &c,
+		Inputs: []Input{{Series: "x", Num: num, Den: oneMinus("d1", 1), Delay: 3}},
+		Noise:  &arma.Noise{AR: oneMinus("p1", 1)}}
+}
+
+var mcTruth = map[string]float64{"c": 2, "w0": 1.5, "w1": -0.8, "d1": 0.6, "p1": 0.5}
+
+// mcSim simulates n samples of mcModel with long burn-ins, so that
+// the series are draws from the stationary process.
+func mcSim(rng *rand.Rand, n int) (y, x []float64) {
+	burn := 200
+	m := n + burn
+	xa := simAR1(rng, m, 0.5)
+	u := make([]float64, m)
+	filter.Run(u[3:], []float64{1.5, 0.8}, []float64{1, -0.6}, xa[:m-3])
+	e := simAR1(rng, m, 0.5)
+	ya := make([]float64, m)
+	for i := range ya {
+		ya[i] = 2 + u[i] + e[i]
+	}
+	return ya[burn:], xa[burn:]
+}
+
+// mcReplicate simulates n + h samples of mcModel and fits the
+// model to the first n, failing the test on error. It returns the whole
+// simulated series (the last h samples are the future), the estimate and
+// the fitted data.
+func mcReplicate(t *testing.T, rng *rand.Rand, n, h int) (y, x []float64, est *Estimate, data map[string][]float64) {
 	t.Helper()
-	rec, err := simulateRecord(spec, inputs, s)
+	y, x = mcSim(rng, n+h)
+	data = map[string][]float64{"y": y[:n], "x": x[:n]}
+	est, err := Fit(context.Background(), mcModel(), data, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return rec
-}
-
-// loadBJsales reads testdata/bjsales/bjsales.csv (exported from R's
-// datasets package, BJsales and BJsales.lead) into columns by header
-// name: "sales" and "lead". The first column, the time index, is skipped.
-func loadBJsales() (map[string][]float64, error) {
-	f, err := os.Open("../testdata/bjsales/bjsales.csv")
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		return nil, err
-	}
-	if len(rows) < 2 {
-		return nil, fmt.Errorf("bjsales.csv: %d rows, want a header and data", len(rows))
-	}
-	data := map[string][]float64{}
-	for i, row := range rows[1:] {
-		for j, name := range rows[0][1:] {
-			v, err := strconv.ParseFloat(row[j+1], 64)
-			if err != nil {
-				return nil, fmt.Errorf("bjsales.csv row %d, column %s: %w", i+2, name, err)
-			}
-			data[name] = append(data[name], v)
-		}
-	}
-	return data, nil
+	return y, x, est, data
 }

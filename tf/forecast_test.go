@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"math/rand/v2"
 	"strconv"
 	"strings"
 	"testing"
@@ -441,7 +442,7 @@ func FuzzForecast(f *testing.F) {
 		}
 		fc, err := e.Forecast(data, hh, set)
 		if err != nil {
-			if !tfHasKind(err) {
+			if !hasKind(err) {
 				t.Fatalf("error of no kind %T: %v", err, err)
 			}
 			return
@@ -461,4 +462,43 @@ func FuzzForecast(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestForecastInputsForecast checks the forecast intervals when the input
+// is itself forecast from its AR model (fitted by Yule-Walker): over 100
+// replicates x 10 steps the 95 % intervals cover 92-98 % of the futures.
+// The standard errors equal those with the input known for the first
+// b = 3 steps (which use only observed inputs) and exceed them after.
+func TestForecastInputsForecast(t *testing.T) {
+	const reps, n, h = 100, 400, 10
+	rng := rand.New(rand.NewPCG(77, 78))
+	in, total := 0, 0
+	for r := 0; r < reps; r++ {
+		y, x, est, data := mcReplicate(t, rng, n, h)
+		fc, err := est.Forecast(data, h, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if fc.Inputs[0].Known || len(fc.Inputs[0].Model.AR) < 1 {
+			t.Fatalf("input should be forecast: %+v", fc.Inputs[0])
+		}
+		known, err := est.Forecast(data, h, &ForecastSettings{Future: map[string][]float64{"x": x[n:]}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for j := 0; j < h; j++ {
+			if j < 3 && math.Abs(fc.SE[j]-known.SE[j]) > 1e-12*known.SE[j] || j >= 3 && fc.SE[j] <= known.SE[j] {
+				t.Fatalf("step %d: SE %v with the input forecast, %v with it known", j+1, fc.SE[j], known.SE[j])
+			}
+		}
+		for j := 0; j < h; j++ {
+			total++
+			if y[n+j] >= fc.Lower[j] && y[n+j] <= fc.Upper[j] {
+				in++
+			}
+		}
+	}
+	if f := float64(in) / float64(total); f < 0.92 || f > 0.98 {
+		t.Errorf("forecast intervals with forecast inputs cover %.3f of %d futures", f, total)
+	}
 }
