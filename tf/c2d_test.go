@@ -133,7 +133,7 @@ func TestFOPDTAnalytic(t *testing.T) {
 	}
 }
 
-func TestAsFOPDTRejects(t *testing.T) {
+func TestAsFOPDTBadInput(t *testing.T) {
 	for _, c := range []struct {
 		name     string
 		num, den []float64
@@ -251,13 +251,13 @@ func TestAsSecondOrderRoundTrip(t *testing.T) {
 	}
 }
 
-// TestHostileStepAtInvalid checks that the three continuous models
+// TestStepAtBadInput checks that the three continuous models
 // agree: StepAt is NaN for parameters Discretize rejects whatever the
 // interval (non-finite gain, time constants that are not positive and
 // finite, negative or non-finite damping or dead time) and for t = NaN,
 // and a number for valid ones, FOPDT.StepAt as the second-order models
 // (NaN, not 0 or -Gain, for TimeConstant 0).
-func TestHostileStepAtInvalid(t *testing.T) {
+func TestStepAtBadInput(t *testing.T) {
 	nan, inf := math.NaN(), math.Inf(1)
 	type stepper interface{ StepAt(float64) float64 }
 	bad := []struct {

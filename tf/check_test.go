@@ -412,12 +412,12 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 	t.Logf("lag-1 ACF: fit %.4f, Check %.4f, held convention %.4f", own.R[1], d.Residual.ACF[0], dh.Residual.ACF[0])
 }
 
-// TestCheckSettingsTable gives every field of CheckSettings a bad value
+// TestCheckSettingsBadInput gives every field of CheckSettings a bad value
 // and checks the *SettingError names the field; a nil estimate and one
 // with a coefficient that is not a number are *ModelError; a constant
 // input is a typed error naming the user's series; the reports of a nil
 // estimate, nil checks and a candidate without estimate do not panic.
-func TestCheckSettingsTable(t *testing.T) {
+func TestCheckSettingsBadInput(t *testing.T) {
 	est, data := mcEstimate(t)
 	for _, tc := range []struct {
 		s    CheckSettings

@@ -26,10 +26,10 @@ func trapData(seed uint64, n int, level float64) []float64 {
 	return x
 }
 
-// TestFitTraps is the table of mistakes a user makes with Fit's data and
+// TestFitDataAndModelBadInput is the table of mistakes a user makes with Fit's data and
 // models built in code: each gives a typed error naming the series or
 // the part of the model, with the key words of its message checked.
-func TestFitTraps(t *testing.T) {
+func TestFitDataAndModelBadInput(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + a")
 	x := trapData(1, 200, 5)
 	y := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})["y"]

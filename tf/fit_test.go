@@ -173,7 +173,7 @@ func TestFitNegativeDelay(t *testing.T) {
 // Negative or NaN settings are *SettingError values naming the field,
 // and a sample so large that its square overflows is a *SampleError
 // with its limit (not an error about the number of observations).
-func TestFitBadSettingsAndMagnitude(t *testing.T) {
+func TestFitSettingsAndMagnitudeBadInput(t *testing.T) {
 	y, x := mcSim(newRand(9), 80)
 	data := map[string][]float64{"y": y, "x": x}
 	for _, tc := range []struct {

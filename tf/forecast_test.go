@@ -92,8 +92,8 @@ func TestForecastRandomWalk(t *testing.T) {
 	}
 }
 
-// TestForecastErrors checks the typed errors of Forecast.
-func TestForecastErrors(t *testing.T) {
+// TestForecastBadInput checks the typed errors of Forecast.
+func TestForecastBadInput(t *testing.T) {
 	est, data := mcEstimate(t)
 	if _, err := est.Forecast(data, 0, nil); !errors.As(err, new(*SettingError)) || err.Error() != "tf.Estimate.Forecast: h = 0: the horizon must be at least 1" {
 		t.Errorf("h = 0: %v", err)
@@ -221,13 +221,13 @@ func TestForecastIntegratingInput(t *testing.T) {
 	}
 }
 
-// TestForecastInputModelErrors gives Forecast input models that cannot
+// TestForecastInputModelBadInput gives Forecast input models that cannot
 // forecast their input and checks each *InputModelError names the input
 // and the field; the roots are those of the polynomials as written:
 // MA 1 - 2B has its zero at z = 2 (not invertible), AR 1 - 1.5B its root
 // at z = 1.5 (explosive), while AR 1 - B (a unit root, integration) is
 // accepted.
-func TestForecastInputModelErrors(t *testing.T) {
+func TestForecastInputModelBadInput(t *testing.T) {
 	est, data := mcEstimate(t)
 	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, C: 0, Sigma2: 1}
 	with := func(f func(*InputModel)) map[string]InputModel {
@@ -369,10 +369,10 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	}
 }
 
-// TestHostileForecastHorizon checks that a horizon above MaxHorizon is
+// TestForecastHorizonBadInput checks that a horizon above MaxHorizon is
 // a *SettingError naming h and the limit, returned at once; before the limit
 // h = 1<<40 asked for terabytes of forecast series.
-func TestHostileForecastHorizon(t *testing.T) {
+func TestForecastHorizonBadInput(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := Coef{Name: "c", Free: true}
 	m := Model{Output: "y", Diff: diff1, Const: &c, Noise: &arma.Noise{}}

@@ -53,8 +53,8 @@ func TestIdentifyBJsales(t *testing.T) {
 	}
 }
 
-// TestIdentifyErrors checks the typed data errors of Identify.
-func TestIdentifyErrors(t *testing.T) {
+// TestIdentifyBadInput checks the typed data errors of Identify.
+func TestIdentifyBadInput(t *testing.T) {
 	y, x := mcSim(newRand(3), 100)
 	var fe *SeriesError
 	if _, err := Identify(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || !errors.Is(err, ErrName) || fe.Series != "u" ||
@@ -127,13 +127,13 @@ func identifyTrapData() map[string][]float64 {
 	return map[string][]float64{"y": y, "x": x}
 }
 
-// TestIdentifySettingsTable gives every field of IdentifySettings a bad
+// TestIdentifySettingsBadInput gives every field of IdentifySettings a bad
 // value and checks the typed error names the field (the settings
 // IdentifySettings.Fit and .Check by their path); a negative order bound
 // (MaxR, MaxS, MaxP, MaxQ) is not an error but means order zero only,
 // which the candidates must show. Before, MaxCandidates -3 and Forms -2
 // panicked with index errors.
-func TestIdentifySettingsTable(t *testing.T) {
+func TestIdentifySettingsBadInput(t *testing.T) {
 	data := identifyTrapData()
 	for _, tc := range []struct {
 		s    IdentifySettings

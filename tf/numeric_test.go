@@ -13,7 +13,7 @@ import (
 // a *ModelError from the numeric views that return errors, not the
 // polynomial package's panic; and a negative dead time prints as written
 // (B^-1) instead of being dropped, so the text shows the fault.
-func TestNumericViewsRefuseInvalidPolys(t *testing.T) {
+func TestNumericViewsBadInput(t *testing.T) {
 	for _, exp := range []int{0, -1} {
 		m := parse.MustModel("y = 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a")
 		m.Inputs[0].Den.Factors[0].Exp = exp

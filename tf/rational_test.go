@@ -84,7 +84,12 @@ func TestNewRationalBadInput(t *testing.T) {
 	}
 }
 
-func TestBadSamplesAndArguments(t *testing.T) {
+// TestRationalSamplesAndArgumentsBadInput is the table of bad samples and
+// arguments given to the methods of Rational, Plant and the continuous
+// models (filtering, steady starts, gains, step figures, frequency
+// responses, discretisation): each gives the typed error naming the
+// series and index, the setting, or the unstable or integrating model.
+func TestRationalSamplesAndArgumentsBadInput(t *testing.T) {
 	g := tf.MustRational([]float64{0.5}, []float64{1, -0.5}, 1)
 	integ := tf.MustRational([]float64{1}, []float64{1, -1}, 1)
 	unst := tf.MustRational([]float64{1}, []float64{1, -1.2}, 0)
@@ -282,11 +287,11 @@ func TestStableIntegrators(t *testing.T) {
 	}
 }
 
-// TestHostileResponseLength checks the documented lengths of Impulse and
+// TestResponseLengthBadInput checks the documented lengths of Impulse and
 // Step: nil for every n <= 0, including math.MinInt, and for a length no
 // slice can have (math.MaxInt) the runtime panic of make, recoverable,
 // rather than a hang or a wrong result.
-func TestHostileResponseLength(t *testing.T) {
+func TestResponseLengthBadInput(t *testing.T) {
 	r := tf.MustRational([]float64{0.5}, []float64{1, -0.8}, 2)
 	for _, n := range []int{0, -1, -1000, math.MinInt} {
 		if h := r.Impulse(n); h != nil {
@@ -308,12 +313,12 @@ func TestHostileResponseLength(t *testing.T) {
 	}
 }
 
-// TestHostileNormalise checks that a den[0] whose division takes a
+// TestNormaliseBadInput checks that a den[0] whose division takes a
 // coefficient out of float64 range is reported for den coefficient 0,
 // with its value and the coefficient concerned, wrapping ErrNormalise,
 // never as a numerator coefficient of +Inf, a value the caller never
 // gave.
-func TestHostileNormalise(t *testing.T) {
+func TestNormaliseBadInput(t *testing.T) {
 	for _, c := range []struct {
 		name     string
 		num, den []float64

@@ -334,7 +334,7 @@ func TestSystemStreaming(t *testing.T) {
 	}
 }
 
-func TestSimulateErrors(t *testing.T) {
+func TestSimulateBadInput(t *testing.T) {
 	m := parse.MustModel("y = w0 x + w1 z + a where w0 ~ 1, w1 ~ 2")
 	ok := []float64{1, 2, 3}
 	var se *tf.SeriesError
@@ -493,7 +493,7 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 
 // SetSteady with the wrong number of input samples is a *SeriesError,
 // not a panic, and an error leaves the system as it was.
-func TestSystemSetSteadyErrors(t *testing.T) {
+func TestSystemSetSteadyBadInput(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) B^2 valve + 0.3 / (1 - B) feed")
 	sys, err := tf.NewSystem(m, nil)
 	if err != nil {
@@ -528,12 +528,12 @@ func TestNewSystemBurnInLimit(t *testing.T) {
 	}
 }
 
-// TestHostileSimulateBurnIn checks that a burn-in above MaxBurnIn is a
+// TestSimulateBurnInBadInput checks that a burn-in above MaxBurnIn is a
 // *SettingError naming BurnIn and the limit, returned at once (BurnIn =
 // math.MaxInt would draw innovations practically for ever), and that
 // the limit itself does not apply when Innovations are given (BurnIn is
 // then ignored).
-func TestHostileSimulateBurnIn(t *testing.T) {
+func TestSimulateBurnInBadInput(t *testing.T) {
 	m := parse.MustModel("y = 0.5 x + 1 / (1 - 0.6 B) a")
 	in := map[string][]float64{"x": {1, 2, 3}}
 	for _, b := range []int{tf.MaxBurnIn + 1, math.MaxInt} {
@@ -551,14 +551,14 @@ func TestHostileSimulateBurnIn(t *testing.T) {
 	}
 }
 
-// TestHostileSimulateOverflow checks that an output that overflows
+// TestSimulateOverflow checks that an output that overflows
 // float64 is a *SimError for the output, naming the sample and the noise
 // scale, instead of +-Inf or NaN returned silently. Sigma = 1e308 times
 // a standard normal draw (|z| > 1.8 with probability 0.07 per draw)
 // overflows within the 200 samples for these seeds, and the AR filter
 // 1/(1 - 0.6 B) amplifies what does not; an input of 1e308 through the
 // gain 2 overflows at once.
-func TestHostileSimulateOverflow(t *testing.T) {
+func TestSimulateOverflow(t *testing.T) {
 	m := parse.MustModel("y = 0.5 x + 1 / (1 - 0.6 B) a")
 	x := make([]float64, 200)
 	for _, c := range []struct {

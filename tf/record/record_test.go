@@ -13,7 +13,7 @@ import (
 // A file that is not a CSV record of the expected shape is a *LineError
 // at the line, of the kind that says what is wrong (moved from the
 // identify example's TestReadCSVErrors, with the kinds added).
-func TestLineErrors(t *testing.T) {
+func TestReadLinesBadInput(t *testing.T) {
 	for _, c := range []struct {
 		in   string
 		kind error
@@ -56,7 +56,7 @@ func TestLineErrors(t *testing.T) {
 // A named series missing from the file, and settings that break their
 // rule, are the shared shapes naming the series or the setting, in the
 // caller's words when Settings.Names gives them.
-func TestSeriesAndSettingErrors(t *testing.T) {
+func TestReadSeriesAndSettingsBadInput(t *testing.T) {
 	in := "minute,valve,temp\n0,50,15\n1,51,15.1\n2,52,15.3\n"
 	for _, c := range []struct {
 		s    Settings
