@@ -216,7 +216,7 @@ func TestFitWarningTraps(t *testing.T) {
 	}
 }
 
-// TestSettingsValidate is the table of every field of FitSettings with a
+// TestFitSettingsBadInput is the table of every field of FitSettings with a
 // bad value (SimSettings and StepSettings: TestSimSettingsRule): each
 // gives a *SettingError (or a *SampleError for an innovation) naming the
 // field, both from the
@@ -224,7 +224,7 @@ func TestFitWarningTraps(t *testing.T) {
 // the package's: zero means the default, a negative value is an error.
 // Fields with no bad value: FitSettings.ZeroPreSample, Settle,
 // IgnoreExtra; SimSettings.Seed1, Seed2, FromRest (every value valid).
-func TestSettingsValidate(t *testing.T) {
+func TestFitSettingsBadInput(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + AR(1)")
 	x := trapData(1, 120, 5)
 	data := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})
@@ -648,85 +648,6 @@ func FuzzFit(f *testing.F) {
 			}
 		}
 	})
-}
-
-// A record of our own (a valve around 50 % driving a first-order
-// temperature) with a stuck output stretch or one bad reading planted:
-// Fit converges and the residual checks may well pass, but the estimate
-// carries a serious warning naming the samples, and Check's verdict fails.
-func TestFitScreensTheOutput(t *testing.T) {
-	n := 3000
-	valve := make([]float64, n)
-	for i := range valve {
-		valve[i] = 50 + 10*float64((i/40)%2) // a square wave of period 80
-	}
-	data := map[string][]float64{"valve": valve}
-	y := mustRecord(t, "temp = 5 + 0.02 / (1 - 0.9 B) B^2 valve + 1 / (1 - 0.5 B) a", data, &tf.SimSettings{Sigma: 0.05, Seed1: 7, Seed2: 8})["temp"]
-	spec := parse.MustModel("temp = c + w0 / (1 - d1 B) B^2 valve + AR(1)")
-	fit := func(y []float64) (*tf.Estimate, *tf.Diagnostics) {
-		d := map[string][]float64{"valve": valve, "temp": y}
-		e, err := tf.Fit(context.Background(), spec, d, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		dg, err := tf.Check(e, d, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		return e, dg
-	}
-	has := func(e *tf.Estimate, k tf.WarningKind) string {
-		for _, w := range e.Warnings {
-			if w.Kind == k {
-				return w.Message
-			}
-		}
-		return ""
-	}
-	clean, dg := fit(y)
-	if has(clean, tf.StuckOutput) != "" || has(clean, tf.OutputSpike) != "" || !dg.Pass {
-		t.Fatalf("clean record: warnings %v, failures %v", clean.Warnings, dg.Failures)
-	}
-	stuck := append([]float64(nil), y...)
-	for i := 1200; i < 1500; i++ {
-		stuck[i] = stuck[1199]
-	}
-	e, dg := fit(stuck)
-	if m := has(e, tf.StuckOutput); !strings.Contains(m, `output "temp" holds the value`) || !strings.Contains(m, "for 301 samples, 1199..1499") {
-		t.Errorf("stuck stretch: warning %q", m)
-	}
-	if dg.Pass || !tf.StuckOutput.Serious() {
-		t.Errorf("stuck stretch: the verdict passes (%v)", dg.Failures)
-	}
-	spiky := append([]float64(nil), y...)
-	spiky[2000] += 40
-	e, dg = fit(spiky)
-	if m := has(e, tf.OutputSpike); !strings.Contains(m, `output "temp" sample 2000 is`) {
-		t.Errorf("spike: warning %q", m)
-	}
-	if dg.Pass {
-		t.Errorf("spike: the verdict passes")
-	}
-}
-
-// When identification fails on a record with a bad reading, the error
-// names the reading (the screen's hint) beside the stage that failed.
-func TestIdentifyNamesTheSpike(t *testing.T) {
-	n := 600
-	rng := rand.New(rand.NewPCG(11, 12))
-	x, y := make([]float64, n), make([]float64, n)
-	for i := range x {
-		x[i] = rng.NormFloat64() // an input the output does not follow
-		y[i] = rng.NormFloat64()
-	}
-	y[300] = 999
-	_, err := tf.Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x}, nil)
-	if err == nil {
-		t.Fatal("identification succeeded on a record whose output does not follow its input")
-	}
-	if !strings.Contains(err.Error(), `the record may explain it: output "y" sample 300 is 999`) {
-		t.Errorf("error without the spike's hint: %v", err)
-	}
 }
 
 // Forecast and Check on a record shorter than the estimate's

@@ -550,12 +550,12 @@ func TestFitSettle(t *testing.T) {
 	t.Logf("plain d1 %.4f (%.4f) first %d; settled d1 %.4f (%.4f) first %d", d0.Value, d0.SE, plain.Conditioning.First, d1.Value, d1.SE, settled.Conditioning.First)
 }
 
-// TestSettingsValidate checks the exported Validate of every settings
+// TestSettingsValidateBadInput checks the exported Validate of every settings
 // struct of the estimation side: the one rule (zero means the default,
 // a negative count or a probability outside (0, 1) is an error), a
 // *SettingError naming the caller's field, Op naming Validate itself;
 // the zero value is valid.
-func TestSettingsValidate(t *testing.T) {
+func TestSettingsValidateBadInput(t *testing.T) {
 	for _, tc := range []struct {
 		err  error
 		want string
@@ -579,29 +579,6 @@ func TestSettingsValidate(t *testing.T) {
 		IdentifySettings{MaxR: -1, MaxP: -1, InputDiff: map[string][]float64{"x": {1, -1}}}.Validate()} {
 		if err != nil {
 			t.Errorf("valid settings refused: %v", err)
-		}
-	}
-}
-
-// TestCandidateStringNamesCriterion checks that a candidate's summary
-// names its ranking criterion (it printed "score" for the BIC) and the
-// structure in the one spelling.
-func TestCandidateStringNamesCriterion(t *testing.T) {
-	data := identifyTrapData()
-	for _, byAIC := range []bool{false, true} {
-		cands, err := Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{NoRefine: true, MaxCandidates: 2, ByAIC: byAIC})
-		if err != nil {
-			t.Fatal(err)
-		}
-		c := cands[0]
-		crit, score := "BIC", c.Estimate.BIC
-		if byAIC {
-			crit, score = "AIC", c.Estimate.AIC
-		}
-		head := strings.SplitN(c.String(), "\n", 2)[0]
-		if c.Criterion != crit || c.Score != score || !strings.HasPrefix(head, "#1 "+crit+" ") || strings.Contains(head, "score") ||
-			!strings.HasSuffix(head, "  "+StructureLabel(c.Structure)) || !strings.Contains(head, "noise ARMA(") {
-			t.Errorf("ByAIC %v: criterion %q, score %v (estimate %v), summary %q", byAIC, c.Criterion, c.Score, score, head)
 		}
 	}
 }
@@ -660,20 +637,6 @@ func BenchmarkFit(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
 				if _, err := Fit(context.Background(), m, data, nil); err != nil {
-					b.Fatal(err)
-				}
-			}
-		})
-	}
-}
-
-func BenchmarkIdentify(b *testing.B) {
-	for _, n := range []int{10000} {
-		data := benchData(n, 2)
-		b.Run(strconv.Itoa(n), func(b *testing.B) {
-			b.ReportAllocs()
-			for b.Loop() {
-				if _, err := Identify(context.Background(), "y", []string{"x"}, data, nil); err != nil {
 					b.Fatal(err)
 				}
 			}

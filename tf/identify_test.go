@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -472,5 +473,42 @@ func TestIdentifyTwoInputs(t *testing.T) {
 	}
 	for _, cd := range cands[:min(4, len(cands))] {
 		t.Logf("%d %.2f %s", cd.Rank, cd.Score, cd.Structure.String())
+	}
+}
+
+// TestCandidateStringNamesCriterion checks that a candidate's summary
+// names its ranking criterion (it printed "score" for the BIC) and the
+// structure in the one spelling.
+func TestCandidateStringNamesCriterion(t *testing.T) {
+	data := identifyTrapData()
+	for _, byAIC := range []bool{false, true} {
+		cands, err := Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{NoRefine: true, MaxCandidates: 2, ByAIC: byAIC})
+		if err != nil {
+			t.Fatal(err)
+		}
+		c := cands[0]
+		crit, score := "BIC", c.Estimate.BIC
+		if byAIC {
+			crit, score = "AIC", c.Estimate.AIC
+		}
+		head := strings.SplitN(c.String(), "\n", 2)[0]
+		if c.Criterion != crit || c.Score != score || !strings.HasPrefix(head, "#1 "+crit+" ") || strings.Contains(head, "score") ||
+			!strings.HasSuffix(head, "  "+StructureLabel(c.Structure)) || !strings.Contains(head, "noise ARMA(") {
+			t.Errorf("ByAIC %v: criterion %q, score %v (estimate %v), summary %q", byAIC, c.Criterion, c.Score, score, head)
+		}
+	}
+}
+
+func BenchmarkIdentify(b *testing.B) {
+	for _, n := range []int{10000} {
+		data := benchData(n, 2)
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Identify(context.Background(), "y", []string{"x"}, data, nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"encoding/binary"
 	"errors"
 	"math"
+	"math/rand/v2"
 	"slices"
 	"strings"
 	"testing"
@@ -87,51 +88,6 @@ func TestSystemErr(t *testing.T) {
 	y, err := integ.Simulate(in, &tf.SimSettings{FromRest: true})
 	if err != nil || y[3] != 0.2*(3+3+4) {
 		t.Errorf("integrator FromRest: %v, %v (want y[3] = 0.2 (3 + 3 + 4), the running sum)", y, err)
-	}
-}
-
-// TestSimulateSettledDefault checks the new default of Model.Simulate
-// against Fit's conditioning: a noise-free record of an input that is
-// constant at 50 stays at the steady state c + Gain 50 (the gain
-// omega(1)/delta(1) = 2/(1-0.7)), and a differenced input constant at
-// 20 leaves the output at zero; with FromRest the first gives the step
-// response from zero instead.
-func TestSimulateSettledDefault(t *testing.T) {
-	flat := []float64{50, 50, 50, 50, 50}
-	y, err := parse.MustModel("y = 10 + 2 / (1 - 0.7 B) B valve").Simulate(map[string][]float64{"valve": flat}, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	want := 10 + 2/(1-0.7)*50
-	for i, v := range y {
-		if math.Abs(v-want) > 1e-12*want {
-			t.Errorf("settled valve: y[%d] = %v, want %v", i, v, want)
-		}
-	}
-	y, err = parse.MustModel("(1 - B) level = 1.5 / (1 - 0.6 B) B ((1 - B) feed)").Simulate(map[string][]float64{"feed": {20, 20, 20, 20}}, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i, v := range y {
-		if v != 0 {
-			t.Errorf("settled differenced feed: y[%d] = %v, want 0", i, v)
-		}
-	}
-	y, err = parse.MustModel("y = 10 + 2 / (1 - 0.7 B) B valve").Simulate(map[string][]float64{"valve": flat}, &tf.SimSettings{FromRest: true})
-	if err != nil {
-		t.Fatal(err)
-	}
-	// From rest: y_t = 10 + 2 * 50 (1 - 0.7^t)/(1 - 0.7) for t >= 1 (the
-	// difference equation u_t = 0.7 u_{t-1} + 2 x_{t-1} summed by hand, a
-	// geometric series).
-	for i, v := range y {
-		w := 10.0
-		if i >= 1 {
-			w += 100 * (1 - math.Pow(0.7, float64(i))) / (1 - 0.7)
-		}
-		if math.Abs(v-w) > 1e-12*400 { // rounding of a few operations on values up to 343
-			t.Errorf("from rest: y[%d] = %v, want %v", i, v, w)
-		}
 	}
 }
 
@@ -312,4 +268,120 @@ func FuzzSystemStep(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestSystemStreaming checks Clone, Reset and SetSteady of the streaming
+// plant.
+func TestSystemStreaming(t *testing.T) {
+	m := parse.MustModel("(1 - B) y = 0.1 + 0.5 / (1 - 0.8 B) B^2 valve + 0.3 ((1 - B) feed) + (1 - 0.3 B) / (1 - 0.5 B) a")
+	sys, err := tf.NewSystem(m, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.1, BurnIn: 50})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := sys.Inputs(); len(got) != 2 || got[0] != "valve" || got[1] != "feed" {
+		t.Fatalf("Inputs() = %v", got)
+	}
+	rng := rand.New(rand.NewPCG(3, 3))
+	u := make([][]float64, 200)
+	for i := range u {
+		u[i] = []float64{rng.NormFloat64(), rng.NormFloat64()}
+	}
+	var first []float64
+	for i := range 100 {
+		first = append(first, sys.Step(u[i]))
+	}
+	c := sys.Clone()
+	for i := 100; i < 200; i++ {
+		if a, b := sys.Step(u[i]), c.Step(u[i]); a != b {
+			t.Fatalf("clone differs at %d: %v vs %v", i, a, b)
+		}
+	}
+	sys.Reset()
+	for i := range 100 {
+		if v := sys.Step(u[i]); v != first[i] {
+			t.Fatalf("after Reset step %d = %v, first run %v", i, v, first[i])
+		}
+	}
+	// Steady state of a noise-free, undifferenced model: a constant input
+	// keeps the output at c + sum_i G_i(1) u_i.
+	m2 := parse.MustModel("y = 2 + 0.5 / (1 - 0.8 B) B^2 valve + (0.2 + 0.1 B) ((1 - B) feed)")
+	s2, _ := tf.NewSystem(m2, nil)
+	if err := s2.SetSteady([]float64{4, 7}); err != nil {
+		t.Fatal(err)
+	}
+	want := 2 + 0.5/(1-0.8)*4 // the differenced feed is 0 at steady state
+	for i := range 10 {
+		if v := s2.Step([]float64{4, 7}); math.Abs(v-want) > 1e-12 {
+			t.Fatalf("steady step %d = %v, want %v", i, v, want)
+		}
+	}
+	// The default settled start of Simulate has no start-up transient.
+	x := []float64{4, 4, 4, 4, 4}
+	y, _ := m2.Simulate(map[string][]float64{"valve": x, "feed": x}, nil)
+	for i, v := range y {
+		if math.Abs(v-want) > 1e-12 {
+			t.Errorf("settled Simulate y[%d] = %v, want %v", i, v, want)
+		}
+	}
+	// An integrating path has no steady state for a non-zero input.
+	m3 := parse.MustModel("y = 0.5 / (1 - B) x")
+	s3, _ := tf.NewSystem(m3, nil)
+	var me *tf.ModelError
+	var ge *tf.GainError
+	if err := s3.SetSteady([]float64{1}); !errors.As(err, &me) || !errors.As(err, &ge) || !errors.Is(err, tf.ErrModel) ||
+		err.Error() != "tf.System.SetSteady: input x: has a pole at z = 1 (an integrator), so no steady state for a non-zero input" {
+		t.Errorf("integrator SetSteady: %v", err)
+	}
+	if err := s3.SetSteady([]float64{0}); err != nil {
+		t.Errorf("integrator SetSteady(0): %v", err)
+	}
+}
+
+// SetSteady with the wrong number of input samples is a *SeriesError,
+// not a panic, and an error leaves the system as it was.
+func TestSystemSetSteadyBadInput(t *testing.T) {
+	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) B^2 valve + 0.3 / (1 - B) feed")
+	sys, err := tf.NewSystem(m, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var se *tf.SeriesError
+	if err := sys.SetSteady([]float64{1}); !errors.As(err, &se) || !errors.Is(err, tf.ErrLength) ||
+		err.Error() != `tf.System.SetSteady: series "u" has 1 samples, 2 expected (one steady sample per input, in the order of Inputs)` {
+		t.Fatalf("SetSteady with 1 of 2 inputs: err = %v, want *SeriesError", err)
+	}
+	ref := sys.Clone()
+	// feed passes an integrator (pole at z = 1): no steady state for a
+	// non-zero level, so valve must not be moved either.
+	if err := sys.SetSteady([]float64{2, 1}); err == nil {
+		t.Fatal("SetSteady through an integrator: no error")
+	}
+	for i := range 20 {
+		if a, b := sys.Step([]float64{2, 0}), ref.Step([]float64{2, 0}); a != b {
+			t.Fatalf("step %d after a failed SetSteady: %v, untouched copy %v", i, a, b)
+		}
+	}
+}
+
+// NewSystem rejects a burn-in above tf.MaxBurnIn (it would loop for a
+// very long time) with a *SettingError, as Model.Simulate does.
+func TestNewSystemBurnInLimit(t *testing.T) {
+	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) u + (1 - 0.3 B) a")
+	var ae *tf.SettingError
+	_, err := tf.NewSystem(m, &tf.SimSettings{Sigma: 1, BurnIn: tf.MaxBurnIn + 1})
+	if !errors.As(err, &ae) || ae.Setting != "SimSettings.BurnIn" || ae.Op != "tf.NewSystem" {
+		t.Fatalf("BurnIn = MaxBurnIn+1: err = %v, want *SettingError for BurnIn", err)
+	}
+}
+
+func BenchmarkSystemStep(b *testing.B) {
+	sys, err := tf.NewSystem(simBenchModel, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.1})
+	if err != nil {
+		b.Fatal(err)
+	}
+	u := []float64{1, 2}
+	b.ReportAllocs()
+	for b.Loop() {
+		sys.Step(u)
+	}
 }
