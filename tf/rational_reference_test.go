@@ -8,15 +8,21 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
+// referenceRational is the rational transfer function a case of the
+// scipy reference files (golden.json, initial.json) is computed for.
+type referenceRational struct {
+	Name  string    `json:"name"`
+	Num   []float64 `json:"num"`
+	Den   []float64 `json:"den"`
+	Delay int       `json:"delay"`
+}
+
 // golden mirrors testdata/scipy/golden.json, written by
 // testdata/scipy/make_golden.py (scipy 1.10.1, numpy; Debian python3).
 type golden struct {
 	Source string `json:"source"`
 	Models []struct {
-		Name    string    `json:"name"`
-		Num     []float64 `json:"num"`
-		Den     []float64 `json:"den"`
-		Delay   int       `json:"delay"`
+		referenceRational
 		Impulse []float64 `json:"impulse"`
 		Step    []float64 `json:"step"`
 		DImp    []float64 `json:"dimpulse"`
@@ -151,10 +157,7 @@ func TestFilterFromScipy(t *testing.T) {
 	var ref struct {
 		Source string `json:"source"`
 		Cases  []struct {
-			Name        string    `json:"name"`
-			Num         []float64 `json:"num"`
-			Den         []float64 `json:"den"`
-			Delay       int       `json:"delay"`
+			referenceRational
 			PastInput   []float64 `json:"past_input"`
 			PastOutput  []float64 `json:"past_output"`
 			Input       []float64 `json:"input"`
