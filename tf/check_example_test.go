@@ -1,10 +1,8 @@
 package tf_test
 
 import (
-	"context"
 	"fmt"
 
-	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -18,12 +16,7 @@ func ExampleCheck() {
 		fmt.Println(err)
 		return
 	}
-	m, err := parse.Model("(1 - B) sales = c + w0 / (1 - d1 B) B^3 ((1 - B) lead) + (1 - t1 B) a")
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	est, err := tf.Fit(context.Background(), m, data, nil)
+	est, err := fitSpec("(1 - B) sales = c + w0 / (1 - d1 B) B^3 ((1 - B) lead) + (1 - t1 B) a", data) // parse.Model, then tf.Fit (fixtures_external_test.go)
 	if err != nil {
 		fmt.Println(err)
 		return

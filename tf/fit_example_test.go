@@ -23,7 +23,7 @@ func ExampleFit() {
 		}
 		power[i] = level
 	}
-	// simulateRecord (fixtures_test.go) simulates the true model.
+	// simulateRecord (fixtures_external_test.go) simulates the true model.
 	data, err := simulateRecord("temp = 20 + 0.8 / (1 - 0.9 B) B^2 power + 1 / (1 - 0.5 B) a",
 		map[string][]float64{"power": power}, &tf.SimSettings{Seed1: 3, Seed2: 4, Sigma: 0.2, BurnIn: 100})
 	if err != nil {

@@ -1,6 +1,7 @@
 package tf_test
 
 import (
+	"context"
 	"encoding/csv"
 	"fmt"
 	"math/rand/v2"
@@ -55,6 +56,17 @@ func mustRecord(t testing.TB, spec string, inputs map[string][]float64, s *tf.Si
 		t.Fatal(err)
 	}
 	return rec
+}
+
+// fitSpec parses the model written as spec and fits it to data with the
+// default settings: the set-up of the examples whose subject comes after
+// the fit (Check, Forecast); ExampleFit writes the two calls out.
+func fitSpec(spec string, data map[string][]float64) (*tf.Estimate, error) {
+	m, err := parse.Model(spec)
+	if err != nil {
+		return nil, err
+	}
+	return tf.Fit(context.Background(), m, data, nil)
 }
 
 // loadBJsales reads testdata/bjsales/bjsales.csv (exported from R's

@@ -1,11 +1,9 @@
 package tf_test
 
 import (
-	"context"
 	"fmt"
 	"math/rand/v2"
 
-	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -22,7 +20,7 @@ func ExampleEstimate_Forecast() {
 	for i := range feed {
 		feed[i] = 10 + rng.NormFloat64()
 	}
-	// simulateRecord (fixtures_test.go) simulates the true model.
+	// simulateRecord (fixtures_external_test.go) simulates the true model.
 	data, err := simulateRecord("(1 - B) level = 1.2 B^2 ((1 - B) feed) + (1 - 0.4 B) a",
 		map[string][]float64{"feed": feed}, &tf.SimSettings{Seed1: 7, Seed2: 8, Sigma: 0.1, BurnIn: -1})
 	if err != nil {
@@ -30,12 +28,7 @@ func ExampleEstimate_Forecast() {
 		return
 	}
 	level := data["level"]
-	m, err := parse.Model("(1 - B) level = w0 B^2 ((1 - B) feed) + (1 - t1 B) a")
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	est, err := tf.Fit(context.Background(), m, data, nil)
+	est, err := fitSpec("(1 - B) level = w0 B^2 ((1 - B) feed) + (1 - t1 B) a", data) // parse.Model, then tf.Fit (fixtures_external_test.go)
 	if err != nil {
 		fmt.Println(err)
 		return
