@@ -125,7 +125,7 @@ func checkTwentyRowModel() Model {
 
 // TestCheckVerdictTwentyRows fits a (1,1) transfer function with AR(1)
 // noise and a constant (5 free coefficients) to 20-row records of our own
-// simulation, the case whose report once read "adequate by every check"
+// simulation, where a report must not read "adequate by every check"
 // under "not converged" and SEs n/a. With dead time 3 and a lag-1 numerator
 // the residuals start at index 5: 15 residuals for 5 coefficients
 // break the rule N >= max(50, 10 per coefficient) (common practice and

@@ -451,8 +451,8 @@ func TestFitSimulateRoundTripDefaults(t *testing.T) {
 			t.Errorf("%s: only %d of %d seeds with every estimate within 4 SE of the truth, want >= 99", c.name, ok, seeds)
 		}
 	}
-	// The trap the new default removes: the valve model simulated from
-	// rest and fitted with the defaults misses (phi1 soaks up the
+	// The trap the settled default of Simulate avoids: the valve model
+	// simulated from rest and fitted with the defaults misses (phi1 soaks up the
 	// start-up transient) and Fit says so with a StartupTransient
 	// warning.
 	c := rtCases[0]
@@ -463,7 +463,7 @@ func TestFitSimulateRoundTripDefaults(t *testing.T) {
 	}
 	p, _ := e.Param("p1")
 	if z := math.Abs(p.Value-0.5) / p.SE; z < 4 {
-		t.Errorf("from rest: p1 = %.3g, %.1f SE from 0.5; the trap no longer reproduces", p.Value, z)
+		t.Errorf("from rest: p1 = %.3g, %.1f SE from 0.5; want the trap to show (p1 more than 4 SE from 0.5)", p.Value, z)
 	}
 	if !rtHas(e, tf.StartupTransient) {
 		t.Errorf("from rest: no StartupTransient warning: %v", e.Warnings)

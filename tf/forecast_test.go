@@ -370,8 +370,8 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 }
 
 // TestForecastHorizonBadInput checks that a horizon above MaxHorizon is
-// a *SettingError naming h and the limit, returned at once; before the limit
-// h = 1<<40 asked for terabytes of forecast series.
+// a *SettingError naming h and the limit, returned at once: without the
+// limit h = 1<<40 would ask for terabytes of forecast series.
 func TestForecastHorizonBadInput(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := Coef{Name: "c", Free: true}

@@ -132,8 +132,8 @@ func identifyTrapData() map[string][]float64 {
 // value and checks the typed error names the field (the settings
 // IdentifySettings.Fit and .Check by their path); a negative order bound
 // (MaxR, MaxS, MaxP, MaxQ) is not an error but means order zero only,
-// which the candidates must show. Before, MaxCandidates -3 and Forms -2
-// panicked with index errors.
+// which the candidates must show. MaxCandidates -3 and Forms -2 are
+// typed errors, not index panics.
 func TestIdentifySettingsBadInput(t *testing.T) {
 	data := identifyTrapData()
 	for _, tc := range []struct {
@@ -192,7 +192,7 @@ func TestIdentifySettingsBadInput(t *testing.T) {
 }
 
 // TestIdentifyBlamesTheUsersSeries checks that a constant output or
-// input is reported under the caller's name, saying it is constant (once
+// input is reported under the caller's name, saying it is constant (not
 // "output (filtered)" with a rounding residue such as -2.22e-15), that a
 // constant input with no differencing asked is not said to be constant
 // "after differencing", that errors of inner steps name the step and
@@ -294,7 +294,7 @@ func stubFit(t *testing.T, f func(ctx context.Context, m Model, data map[string]
 
 // TestIdentifyRecoversPanics makes every candidate fit with a
 // second-order denominator and coloured noise panic (a slice bounds
-// error, as arma once raised for an MA degree above 32), and checks
+// error, as a bug in arma would raise), and checks
 // that Identify returns (its process alive) with those candidates
 // carrying an *InternalError that names the candidate, ranked after the
 // candidates that fitted.
@@ -363,13 +363,11 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	}
 }
 
-// TestIdentifyMaxQ40 runs Identify with MaxQ 40, which once killed the
-// caller's process from a goroutine of arma (a 33-element buffer sliced
-// past its end for an MA degree above 32). It must return, with a
-// result or a typed error. The panic happened inside arma.Select's own
-// goroutines, beyond the reach of Identify's recovery, so the test
-// needs arma's fix and is skipped while arma.Fit still panics on
-// Order{Q: 33}.
+// TestIdentifyMaxQ40 runs Identify with MaxQ 40, an MA degree above 32
+// (the size of a fixed buffer inside arma, where an overrun would panic
+// in arma.Select's own goroutines, beyond the reach of Identify's
+// recovery). It must return, with a result or a typed error; it is
+// skipped while arma.Fit panics on Order{Q: 33}.
 func TestIdentifyMaxQ40(t *testing.T) {
 	if testing.Short() {
 		t.Skip("fits MA orders up to 40")
@@ -395,7 +393,7 @@ func armaPanics(x []float64) (panicked bool) {
 }
 
 // TestIdentifyNonFiniteScore makes one candidate's fit report BIC -Inf
-// (as a zero sum of squares once did) and checks it is not ranked first
+// (as a zero sum of squares would) and checks it is not ranked first
 // but last, with a *ModelError saying why.
 func TestIdentifyNonFiniteScore(t *testing.T) {
 	var once sync.Once

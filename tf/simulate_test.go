@@ -474,7 +474,7 @@ func BenchmarkSimulate(b *testing.B) {
 	}
 }
 
-// TestSimulateSettledDefault checks the new default of Model.Simulate
+// TestSimulateSettledDefault checks the default start of Model.Simulate
 // against Fit's conditioning: a noise-free record of an input that is
 // constant at 50 stays at the steady state c + Gain 50 (the gain
 // omega(1)/delta(1) = 2/(1-0.7)), and a differenced input constant at
