@@ -1,11 +1,9 @@
 package tf_test
 
 import (
-	"context"
 	"fmt"
 	"math/rand/v2"
 
-	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -16,29 +14,21 @@ import (
 // intervals widen with the horizon because the level integrates its
 // noise.
 func ExampleEstimate_Forecast() {
-	truth, err := parse.Model("(1 - B) level = 1.2 B^2 ((1 - B) feed) + (1 - 0.4 B) a")
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
 	n := 500
 	rng := rand.New(rand.NewPCG(5, 6))
 	feed := make([]float64, n)
 	for i := range feed {
 		feed[i] = 10 + rng.NormFloat64()
 	}
-	level, err := truth.Simulate(map[string][]float64{"feed": feed}, &tf.SimSettings{Seed1: 7, Seed2: 8, Sigma: 0.1, BurnIn: -1})
+	// simulateRecord (fixtures_external_test.go) simulates the true model.
+	data, err := simulateRecord("(1 - B) level = 1.2 B^2 ((1 - B) feed) + (1 - 0.4 B) a",
+		map[string][]float64{"feed": feed}, &tf.SimSettings{Seed1: 7, Seed2: 8, Sigma: 0.1, BurnIn: -1})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	data := map[string][]float64{"level": level, "feed": feed}
-	m, err := parse.Model("(1 - B) level = w0 B^2 ((1 - B) feed) + (1 - t1 B) a")
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	est, err := tf.Fit(context.Background(), m, data, nil)
+	level := data["level"]
+	est, err := fitSpec("(1 - B) level = w0 B^2 ((1 - B) feed) + (1 - t1 B) a", data) // parse.Model, then tf.Fit (fixtures_external_test.go)
 	if err != nil {
 		fmt.Println(err)
 		return

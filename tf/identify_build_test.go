@@ -8,13 +8,13 @@ import (
 	"github.com/backshift/backshift/ccf"
 )
 
-// TestIdfBuild: the numbers of a ccf form and a noise order become model
+// TestIdentifyBuild: the numbers of a ccf form and a noise order become model
 // values with the one naming rule (input name and "_" first when there
 // are several inputs; w from 0 with plus signs, d from 1 with minus
 // signs, so that d_k = -Den[k]; phi and theta from 1), the form's
 // numbers as start values, printed by Model.String (the noise of the
 // usual names in its short form ARMA(p, q)).
-func TestIdfBuild(t *testing.T) {
+func TestIdentifyBuild(t *testing.T) {
 	f := ccf.Form{Delay: 3, R: 1, S: 1, Num: []float64{0.8, 0.4}, Den: []float64{1, -0.6}}
 	for _, tc := range []struct {
 		several bool
@@ -60,11 +60,11 @@ func TestIdfBuild(t *testing.T) {
 	}
 }
 
-// TestIdfInnerOp: an error of ccf met inside Identify names the function
+// TestIdentifyInnerOp: an error of ccf met inside Identify names the function
 // the caller called, tf.Identify, as its Op (the Op rule of the shared
 // vocabulary), and keeps its evidence and kind. The input is white noise
 // unrelated to the output (seeded), so no lag passes the dead-time rule.
-func TestIdfInnerOp(t *testing.T) {
+func TestIdentifyInnerOp(t *testing.T) {
 	const n = 400
 	rng := newRand(9)
 	x, y := make([]float64, n), make([]float64, n)

@@ -114,43 +114,6 @@ func TestStepFiguresInverseResponse(t *testing.T) {
 	}
 }
 
-// TestGainPhaseLongDeadTime: B^300 has unit magnitude and phase -300 w exactly
-// (by hand); on a grid of spacing 0.1 rad/sample a wrapped phase would
-// jump, the exact dead-time term does not.
-func TestGainPhaseLongDeadTime(t *testing.T) {
-	r := tf.MustRational([]float64{1}, []float64{1}, 300)
-	w := []float64{0, 0.1, 0.2, 0.3, 1, 2, 3}
-	mag, ph, err := r.GainPhase(w)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i := range w {
-		if math.Abs(mag[i]-1) > 1e-15 || math.Abs(ph[i]+300*w[i]) > 1e-12 {
-			t.Errorf("w=%v: mag %v phase %v, want 1 and %v", w[i], mag[i], ph[i], -300*w[i])
-		}
-	}
-	h := r.Freq([]float64{0.1})
-	if math.Abs(real(h[0])-math.Cos(30)) > 1e-12 || math.Abs(imag(h[0])+math.Sin(30)) > 1e-12 {
-		t.Errorf("G(e^{-0.1i}) = %v, want e^{-30i}", h[0])
-	}
-}
-
-// TestBIBOFirstOrder: for 0.5/(1 - a B) with 0 < a < 1 the weights are
-// 0.5 a^k, so sum |h_k| = 0.5/(1-a); for a < 0 the same with |a| (by hand).
-func TestBIBOFirstOrder(t *testing.T) {
-	for _, a := range []float64{0.5, 0.99, -0.9, 0.999} {
-		r := tf.MustRational([]float64{0.5}, []float64{1, -a}, 2)
-		b, err := r.BIBOBound()
-		if err != nil {
-			t.Fatal(err)
-		}
-		want := 0.5 / (1 - math.Abs(a))
-		if !(b.Sum <= want*(1+1e-12) && b.Sum+b.Tail >= want*(1-1e-12)) || b.Tail > 1e-5*want {
-			t.Errorf("a=%v: bound %+v, want sum %v", a, b, want)
-		}
-	}
-}
-
 // TestModeKinds classifies poles chosen by hand.
 func TestModeKinds(t *testing.T) {
 	// Denominator (1 - B)(1 + 0.5 B)(1 - 1.5 B) with poles 1, -0.5 and

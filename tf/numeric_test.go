@@ -2,6 +2,7 @@ package tf_test
 
 import (
 	"errors"
+	"slices"
 	"strings"
 	"testing"
 
@@ -13,7 +14,7 @@ import (
 // a *ModelError from the numeric views that return errors, not the
 // polynomial package's panic; and a negative dead time prints as written
 // (B^-1) instead of being dropped, so the text shows the fault.
-func TestNumericViewsRefuseInvalidPolys(t *testing.T) {
+func TestNumericViewsBadInput(t *testing.T) {
 	for _, exp := range []int{0, -1} {
 		m := parse.MustModel("y = 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a")
 		m.Inputs[0].Den.Factors[0].Exp = exp
@@ -33,5 +34,43 @@ func TestNumericViewsRefuseInvalidPolys(t *testing.T) {
 	}
 	if _, err := parse.Model(m.String()); err == nil {
 		t.Errorf("the text %q of a negative dead time parsed back without an error", m.String())
+	}
+}
+
+func TestNumericViews(t *testing.T) {
+	m := parse.MustModel("(1 - B)^2 y = c + (w0 + w1 B) / ((1 - 0.5 B)(1 + 0.2 B)) B^4 x + ((1 - B^12) z) + (1 - t1 B) / (1 - p1 B) / (1 - P1 B^12) a where c ~ 3, w0 = 2, t1 ~ 0.3, p1 ~ 0.5, P1 ~ 0.2")
+	if d := m.DiffCoeffs(); !slices.Equal(d, []float64{1, -2, 1}) {
+		t.Errorf("output differencing %v", d)
+	}
+	if d := m.Inputs[1].DiffCoeffs(); len(d) != 13 || d[0] != 1 || d[12] != -1 || d[6] != 0 {
+		t.Errorf("input differencing %v", d)
+	}
+	if d := m.Inputs[0].DiffCoeffs(); !slices.Equal(d, []float64{1}) {
+		t.Errorf("no differencing gives %v", d)
+	}
+	r, err := m.Inputs[0].Rational()
+	if err != nil || !slices.Equal(r.Num(), []float64{2}) || !slices.Equal(r.Den(), []float64{1, -0.3, -0.1}) || r.Delay() != 4 {
+		// w1 starts at 0, so the numerator trims to {2}.
+		t.Errorf("Rational: %v/%v B^%d, %v", r.Num(), r.Den(), r.Delay(), err)
+	}
+	ma, ar, ok := m.NoiseCoeffs()
+	if !ok || !slices.Equal(ma, []float64{1, -0.3}) || len(ar) != 14 || ar[1] != -0.5 || ar[12] != -0.2 || ar[13] != 0.1 {
+		t.Errorf("noise %v / %v", ma, ar)
+	}
+	if _, _, ok := parse.MustModel("y = w0 x").NoiseCoeffs(); ok {
+		t.Error("noise-free model reports noise")
+	}
+	if nr, _ := parse.MustModel("y = w0 x").NoiseRational(); nr.Impulse(3)[0] != 0 {
+		t.Error("noise-free NoiseRational is not zero")
+	}
+	if m.ConstValue() != 3 {
+		t.Errorf("ConstValue %v", m.ConstValue())
+	}
+	var names []string
+	for _, p := range m.Params() {
+		names = append(names, p.Name)
+	}
+	if got := strings.Join(names, " "); got != "c w0 w1 t1 p1 P1" {
+		t.Errorf("Params: %s", got)
 	}
 }

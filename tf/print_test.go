@@ -3,7 +3,6 @@ package tf_test
 import (
 	"context"
 	"math"
-	"math/rand/v2"
 	"strconv"
 	"strings"
 	"testing"
@@ -119,16 +118,8 @@ func TestPrintManyNames(t *testing.T) {
 // model, leaves the estimate untouched, and a fit of the held model
 // moves nothing (every coefficient is held, so there is nothing to fit).
 func TestHeldRoundTrip(t *testing.T) {
-	truth := parse.MustModel("y = 2 + 0.8 / (1 - 0.6 B) B x + 1 / (1 - 0.4 B) a")
-	rng := rand.New(rand.NewPCG(5, 6))
-	x := make([]float64, 300)
-	for i := range x {
-		x[i] = rng.NormFloat64()
-	}
-	y, err := truth.Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.3})
-	if err != nil {
-		t.Fatal(err)
-	}
+	x := whiteInput(5, 6, 300)
+	y := mustRecord(t, "y = 2 + 0.8 / (1 - 0.6 B) B x + 1 / (1 - 0.4 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.3})["y"]
 	spec := parse.MustModel("y = c + w0 / (1 - d1 B) B x + 1 / (1 - p1 B) a where w0 ~ 0.5, d1 ~ 0.3")
 	est, err := tf.Fit(context.Background(), spec, map[string][]float64{"y": y, "x": x}, nil)
 	if err != nil {

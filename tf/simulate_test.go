@@ -267,74 +267,7 @@ func TestSimulateNoise(t *testing.T) {
 	}
 }
 
-// TestSystemStreaming checks Clone, Reset and SetSteady of the streaming
-// plant.
-func TestSystemStreaming(t *testing.T) {
-	m := parse.MustModel("(1 - B) y = 0.1 + 0.5 / (1 - 0.8 B) B^2 valve + 0.3 ((1 - B) feed) + (1 - 0.3 B) / (1 - 0.5 B) a")
-	sys, err := tf.NewSystem(m, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.1, BurnIn: 50})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if got := sys.Inputs(); len(got) != 2 || got[0] != "valve" || got[1] != "feed" {
-		t.Fatalf("Inputs() = %v", got)
-	}
-	rng := rand.New(rand.NewPCG(3, 3))
-	u := make([][]float64, 200)
-	for i := range u {
-		u[i] = []float64{rng.NormFloat64(), rng.NormFloat64()}
-	}
-	var first []float64
-	for i := range 100 {
-		first = append(first, sys.Step(u[i]))
-	}
-	c := sys.Clone()
-	for i := 100; i < 200; i++ {
-		if a, b := sys.Step(u[i]), c.Step(u[i]); a != b {
-			t.Fatalf("clone differs at %d: %v vs %v", i, a, b)
-		}
-	}
-	sys.Reset()
-	for i := range 100 {
-		if v := sys.Step(u[i]); v != first[i] {
-			t.Fatalf("after Reset step %d = %v, first run %v", i, v, first[i])
-		}
-	}
-	// Steady state of a noise-free, undifferenced model: a constant input
-	// keeps the output at c + sum_i G_i(1) u_i.
-	m2 := parse.MustModel("y = 2 + 0.5 / (1 - 0.8 B) B^2 valve + (0.2 + 0.1 B) ((1 - B) feed)")
-	s2, _ := tf.NewSystem(m2, nil)
-	if err := s2.SetSteady([]float64{4, 7}); err != nil {
-		t.Fatal(err)
-	}
-	want := 2 + 0.5/(1-0.8)*4 // the differenced feed is 0 at steady state
-	for i := range 10 {
-		if v := s2.Step([]float64{4, 7}); math.Abs(v-want) > 1e-12 {
-			t.Fatalf("steady step %d = %v, want %v", i, v, want)
-		}
-	}
-	// The default settled start of Simulate has no start-up transient.
-	x := []float64{4, 4, 4, 4, 4}
-	y, _ := m2.Simulate(map[string][]float64{"valve": x, "feed": x}, nil)
-	for i, v := range y {
-		if math.Abs(v-want) > 1e-12 {
-			t.Errorf("settled Simulate y[%d] = %v, want %v", i, v, want)
-		}
-	}
-	// An integrating path has no steady state for a non-zero input.
-	m3 := parse.MustModel("y = 0.5 / (1 - B) x")
-	s3, _ := tf.NewSystem(m3, nil)
-	var me *tf.ModelError
-	var ge *tf.GainError
-	if err := s3.SetSteady([]float64{1}); !errors.As(err, &me) || !errors.As(err, &ge) || !errors.Is(err, tf.ErrModel) ||
-		err.Error() != "tf.System.SetSteady: input x: has a pole at z = 1 (an integrator), so no steady state for a non-zero input" {
-		t.Errorf("integrator SetSteady: %v", err)
-	}
-	if err := s3.SetSteady([]float64{0}); err != nil {
-		t.Errorf("integrator SetSteady(0): %v", err)
-	}
-}
-
-func TestSimulateErrors(t *testing.T) {
+func TestSimulateBadInput(t *testing.T) {
 	m := parse.MustModel("y = w0 x + w1 z + a where w0 ~ 1, w1 ~ 2")
 	ok := []float64{1, 2, 3}
 	var se *tf.SeriesError
@@ -381,44 +314,6 @@ func TestSimulateErrors(t *testing.T) {
 	if _, err := nan.Simulate(map[string][]float64{"x": ok, "z": ok}, nil); !errors.As(err, &me) || me.Part != `input "x" numerator, factor 1` || me.Op != "tf.Model.Simulate" ||
 		!strings.Contains(err.Error(), "is NaN, not finite") {
 		t.Errorf("NaN coefficient: %v", err)
-	}
-}
-
-func TestNumericViews(t *testing.T) {
-	m := parse.MustModel("(1 - B)^2 y = c + (w0 + w1 B) / ((1 - 0.5 B)(1 + 0.2 B)) B^4 x + ((1 - B^12) z) + (1 - t1 B) / (1 - p1 B) / (1 - P1 B^12) a where c ~ 3, w0 = 2, t1 ~ 0.3, p1 ~ 0.5, P1 ~ 0.2")
-	if d := m.DiffCoeffs(); !slices.Equal(d, []float64{1, -2, 1}) {
-		t.Errorf("output differencing %v", d)
-	}
-	if d := m.Inputs[1].DiffCoeffs(); len(d) != 13 || d[0] != 1 || d[12] != -1 || d[6] != 0 {
-		t.Errorf("input differencing %v", d)
-	}
-	if d := m.Inputs[0].DiffCoeffs(); !slices.Equal(d, []float64{1}) {
-		t.Errorf("no differencing gives %v", d)
-	}
-	r, err := m.Inputs[0].Rational()
-	if err != nil || !slices.Equal(r.Num(), []float64{2}) || !slices.Equal(r.Den(), []float64{1, -0.3, -0.1}) || r.Delay() != 4 {
-		// w1 starts at 0, so the numerator trims to {2}.
-		t.Errorf("Rational: %v/%v B^%d, %v", r.Num(), r.Den(), r.Delay(), err)
-	}
-	ma, ar, ok := m.NoiseCoeffs()
-	if !ok || !slices.Equal(ma, []float64{1, -0.3}) || len(ar) != 14 || ar[1] != -0.5 || ar[12] != -0.2 || ar[13] != 0.1 {
-		t.Errorf("noise %v / %v", ma, ar)
-	}
-	if _, _, ok := parse.MustModel("y = w0 x").NoiseCoeffs(); ok {
-		t.Error("noise-free model reports noise")
-	}
-	if nr, _ := parse.MustModel("y = w0 x").NoiseRational(); nr.Impulse(3)[0] != 0 {
-		t.Error("noise-free NoiseRational is not zero")
-	}
-	if m.ConstValue() != 3 {
-		t.Errorf("ConstValue %v", m.ConstValue())
-	}
-	var names []string
-	for _, p := range m.Params() {
-		names = append(names, p.Name)
-	}
-	if got := strings.Join(names, " "); got != "c w0 w1 t1 p1 P1" {
-		t.Errorf("Params: %s", got)
 	}
 }
 
@@ -491,39 +386,135 @@ func TestSimulateInputsUnchanged(t *testing.T) {
 	}
 }
 
-// SetSteady with the wrong number of input samples is a *SeriesError,
-// not a panic, and an error leaves the system as it was.
-func TestSystemSetSteadyErrors(t *testing.T) {
-	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) B^2 valve + 0.3 / (1 - B) feed")
-	sys, err := tf.NewSystem(m, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var se *tf.SeriesError
-	if err := sys.SetSteady([]float64{1}); !errors.As(err, &se) || !errors.Is(err, tf.ErrLength) ||
-		err.Error() != `tf.System.SetSteady: series "u" has 1 samples, 2 expected (one steady sample per input, in the order of Inputs)` {
-		t.Fatalf("SetSteady with 1 of 2 inputs: err = %v, want *SeriesError", err)
-	}
-	ref := sys.Clone()
-	// feed passes an integrator (pole at z = 1): no steady state for a
-	// non-zero level, so valve must not be moved either.
-	if err := sys.SetSteady([]float64{2, 1}); err == nil {
-		t.Fatal("SetSteady through an integrator: no error")
-	}
-	for i := range 20 {
-		if a, b := sys.Step([]float64{2, 0}), ref.Step([]float64{2, 0}); a != b {
-			t.Fatalf("step %d after a failed SetSteady: %v, untouched copy %v", i, a, b)
+// TestSimulateBurnInBadInput checks that a burn-in above MaxBurnIn is a
+// *SettingError naming BurnIn and the limit, returned at once (BurnIn =
+// math.MaxInt would draw innovations practically for ever), and that
+// the limit itself does not apply when Innovations are given (BurnIn is
+// then ignored).
+func TestSimulateBurnInBadInput(t *testing.T) {
+	m := parse.MustModel("y = 0.5 x + 1 / (1 - 0.6 B) a")
+	in := map[string][]float64{"x": {1, 2, 3}}
+	for _, b := range []int{tf.MaxBurnIn + 1, math.MaxInt} {
+		y, err := m.Simulate(in, &tf.SimSettings{Sigma: 1, BurnIn: b})
+		var se *tf.SettingError
+		if !errors.As(err, &se) || se.Setting != "SimSettings.BurnIn" || se.Value != strconv.Itoa(b) || se.Op != "tf.Model.Simulate" || !errors.Is(err, tf.ErrSetting) {
+			t.Fatalf("BurnIn %d: got %v, %v; want *tf.SettingError for BurnIn", b, y, err)
 		}
+		if !strings.Contains(err.Error(), "must be at most tf.MaxBurnIn (16777216 draws); 0 means automatic, a negative value none") {
+			t.Errorf("BurnIn %d: message %q", b, err.Error())
+		}
+	}
+	if _, err := m.Simulate(in, &tf.SimSettings{BurnIn: math.MaxInt, Innovations: []float64{0, 0, 0}}); err != nil {
+		t.Errorf("BurnIn ignored with Innovations: %v", err)
 	}
 }
 
-// NewSystem rejects a burn-in above tf.MaxBurnIn (it would loop for a
-// very long time) with a *SettingError, as Model.Simulate does.
-func TestNewSystemBurnInLimit(t *testing.T) {
-	m := parse.MustModel("y = 0.5 / (1 - 0.8 B) u + (1 - 0.3 B) a")
-	var ae *tf.SettingError
-	_, err := tf.NewSystem(m, &tf.SimSettings{Sigma: 1, BurnIn: tf.MaxBurnIn + 1})
-	if !errors.As(err, &ae) || ae.Setting != "SimSettings.BurnIn" || ae.Op != "tf.NewSystem" {
-		t.Fatalf("BurnIn = MaxBurnIn+1: err = %v, want *SettingError for BurnIn", err)
+// TestSimulateOverflow checks that an output that overflows
+// float64 is a *SimError for the output, naming the sample and the noise
+// scale, instead of +-Inf or NaN returned silently. Sigma = 1e308 times
+// a standard normal draw (|z| > 1.8 with probability 0.07 per draw)
+// overflows within the 200 samples for these seeds, and the AR filter
+// 1/(1 - 0.6 B) amplifies what does not; an input of 1e308 through the
+// gain 2 overflows at once.
+func TestSimulateOverflow(t *testing.T) {
+	m := parse.MustModel("y = 0.5 x + 1 / (1 - 0.6 B) a")
+	x := make([]float64, 200)
+	for _, c := range []struct {
+		name string
+		s    tf.SimSettings
+		msg  string
+	}{
+		{"Sigma 1e308", tf.SimSettings{Sigma: 1e308, Seed1: 1, Seed2: 2},
+			"the output overflowed float64 (noise scale Sigma = 1e+308)"},
+		{"Sigma 1e308 with burn-in", tf.SimSettings{Sigma: 1e308, Seed1: 1, Seed2: 2, BurnIn: 500},
+			"tf.Model.Simulate: output y: step 0 gave "},
+		{"max float Sigma", tf.SimSettings{Sigma: math.MaxFloat64, Seed1: 3, Seed2: 4},
+			"(noise scale Sigma = 1.7976931348623157e+308)"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			y, err := m.Simulate(map[string][]float64{"x": x}, &c.s)
+			var se *tf.SimError
+			if !errors.As(err, &se) || se.Part != "output y" || !errors.Is(err, tf.ErrOverflow) {
+				t.Fatalf("got %v, %v; want *tf.SimError for the output", y, err)
+			}
+			if !strings.Contains(err.Error(), c.msg) {
+				t.Errorf("message %q, want it to contain %q", err.Error(), c.msg)
+			}
+		})
+	}
+	big := parse.MustModel("y = 2 x")
+	_, err := big.Simulate(map[string][]float64{"x": {1, 1e308}}, nil)
+	if err == nil || err.Error() != "tf.Model.Simulate: output y: step 1 gave +Inf: the output overflowed float64 (the inputs, the innovations or an unstable term is too large)" {
+		t.Errorf("input overflow: %v", err)
+	}
+}
+
+// simBenchModel is a typical two-input model with ARMA(2, 1) noise and a
+// differenced output.
+var simBenchModel = parse.MustModel("(1 - B) temp = 0.01 + (0.8 + 0.3 B) / (1 - 0.7 B) B^4 burner + (0.2 - 0.1 B) B^2 ((1 - B) feed) + ARMA(2, 1) " +
+	"where phi1 = 0.5, phi2 = -0.2, theta1 = 0.3")
+
+func BenchmarkSimulate(b *testing.B) {
+	for _, n := range []int{1000, 10000, 100000, 1000000} {
+		rng := rand.New(rand.NewPCG(1, uint64(n)))
+		in := map[string][]float64{"burner": make([]float64, n), "feed": make([]float64, n)}
+		for i := range n {
+			in["burner"][i], in["feed"][i] = rng.NormFloat64(), rng.NormFloat64()
+		}
+		s := &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.1}
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			b.SetBytes(int64(8 * n))
+			for b.Loop() {
+				if _, err := simBenchModel.Simulate(in, s); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// TestSimulateSettledDefault checks the default start of Model.Simulate
+// against Fit's conditioning: a noise-free record of an input that is
+// constant at 50 stays at the steady state c + Gain 50 (the gain
+// omega(1)/delta(1) = 2/(1-0.7)), and a differenced input constant at
+// 20 leaves the output at zero; with FromRest the first gives the step
+// response from zero instead.
+func TestSimulateSettledDefault(t *testing.T) {
+	flat := []float64{50, 50, 50, 50, 50}
+	y, err := parse.MustModel("y = 10 + 2 / (1 - 0.7 B) B valve").Simulate(map[string][]float64{"valve": flat}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 10 + 2/(1-0.7)*50
+	for i, v := range y {
+		if math.Abs(v-want) > 1e-12*want {
+			t.Errorf("settled valve: y[%d] = %v, want %v", i, v, want)
+		}
+	}
+	y, err = parse.MustModel("(1 - B) level = 1.5 / (1 - 0.6 B) B ((1 - B) feed)").Simulate(map[string][]float64{"feed": {20, 20, 20, 20}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, v := range y {
+		if v != 0 {
+			t.Errorf("settled differenced feed: y[%d] = %v, want 0", i, v)
+		}
+	}
+	y, err = parse.MustModel("y = 10 + 2 / (1 - 0.7 B) B valve").Simulate(map[string][]float64{"valve": flat}, &tf.SimSettings{FromRest: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// From rest: y_t = 10 + 2 * 50 (1 - 0.7^t)/(1 - 0.7) for t >= 1 (the
+	// difference equation u_t = 0.7 u_{t-1} + 2 x_{t-1} summed by hand, a
+	// geometric series).
+	for i, v := range y {
+		w := 10.0
+		if i >= 1 {
+			w += 100 * (1 - math.Pow(0.7, float64(i))) / (1 - 0.7)
+		}
+		if math.Abs(v-w) > 1e-12*400 { // rounding of a few operations on values up to 343
+			t.Errorf("from rest: y[%d] = %v, want %v", i, v, w)
+		}
 	}
 }

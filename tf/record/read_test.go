@@ -1,9 +1,8 @@
 package record
 
 import (
+	"bytes"
 	"errors"
-	"math"
-	"slices"
 	"strings"
 	"testing"
 
@@ -11,9 +10,8 @@ import (
 )
 
 // A file that is not a CSV record of the expected shape is a *LineError
-// at the line, of the kind that says what is wrong (moved from the
-// identify example's TestReadCSVErrors, with the kinds added).
-func TestLineErrors(t *testing.T) {
+// at the line, of the kind that says what is wrong.
+func TestReadLinesBadInput(t *testing.T) {
 	for _, c := range []struct {
 		in   string
 		kind error
@@ -56,7 +54,7 @@ func TestLineErrors(t *testing.T) {
 // A named series missing from the file, and settings that break their
 // rule, are the shared shapes naming the series or the setting, in the
 // caller's words when Settings.Names gives them.
-func TestSeriesAndSettingErrors(t *testing.T) {
+func TestReadSeriesAndSettingsBadInput(t *testing.T) {
 	in := "minute,valve,temp\n0,50,15\n1,51,15.1\n2,52,15.3\n"
 	for _, c := range []struct {
 		s    Settings
@@ -97,103 +95,6 @@ func TestSeriesAndSettingErrors(t *testing.T) {
 	}
 }
 
-// The interval is the median step in the largest unit it is a whole
-// number of, for each form of time column; steps within 1 % of it count
-// as one interval (the documented threshold).
-func TestTimeForms(t *testing.T) {
-	for _, c := range []struct {
-		in       string
-		column   string
-		interval tf.Interval
-		form     string
-	}{
-		{"time,y\n0,1\n30,2\n60,3\n", "time", tf.Interval{Value: 30, Unit: "s"}, "numbers in seconds"},
-		{"time (h),y\n0,1\n2,2\n4,3\n", "time (h)", tf.Interval{Value: 2, Unit: "h"}, "numbers in hours"},
-		{"time_s,y\n0,1\n3600,2\n7200,3\n", "time_s", tf.Interval{Value: 1, Unit: "h"}, "numbers in seconds"},
-		{"when,y\n2026-01-01T10:00:00Z,1\n2026-01-01 10:05:00,2\n2026-01-01T10:10:00+00:00,3\n", "when", tf.Interval{Value: 5, Unit: "min"}, "timestamps"},
-		// A logger's rounding: 60.4 s is within 1 % of a minute.
-		{"when,y\n2026-01-01T10:00:00Z,1\n2026-01-01T10:01:00.4Z,2\n2026-01-01T10:02:00Z,3\n2026-01-01T10:03:00Z,4\n2026-01-01T10:04:00Z,5\n", "when", tf.Interval{Value: 1, Unit: "min"}, "timestamps"},
-		{"date,y\n1972-01-01,1\n1972-01-02,2\n1972-01-03,3\n", "date", tf.Interval{Value: 1, Unit: "d"}, "dates"},
-	} {
-		rec, err := Read(strings.NewReader(c.in), nil)
-		if err != nil {
-			t.Errorf("%q: %v", c.in, err)
-			continue
-		}
-		if rec.TimeColumn != c.column || rec.Interval != c.interval || !strings.Contains(rec.Notes[0], "("+c.form+")") || len(rec.Breaks) != 0 || len(rec.Series["y"]) != rec.Rows() {
-			t.Errorf("%q: column %q interval %v notes %q breaks %v", c.in, rec.TimeColumn, rec.Interval, rec.Notes, rec.Breaks)
-		}
-	}
-	// A first column of numbers that is not named as a time is a series.
-	rec, err := Read(strings.NewReader("u,y\n0,1\n30,2\n"), nil)
-	if err != nil || rec.TimeColumn != "" || len(rec.Series) != 2 || rec.Notes[0] != "no time column: the rows are taken as equally spaced samples, none missing" {
-		t.Errorf("no time column: %+v %v", rec, err)
-	}
-}
-
-// Gaps are refused by default, naming the lines; hold and linear fill
-// them (the straight line between the rows either side: common
-// practice), longest keeps the longest stretch; the caller's series are
-// not touched between calls.
-func TestGaps(t *testing.T) {
-	in := "minute,y\n0,1\n1,2\n2,3\n5,6\n6,7\n8,9\n"
-	_, err := Read(strings.NewReader(in), &Settings{File: "g.csv"})
-	var ge *GapError
-	if !errors.As(err, &ge) || !errors.Is(err, ErrSample) || len(ge.Breaks) != 2 {
-		t.Fatalf("default: %v", err)
-	}
-	for _, want := range []string{
-		`g.csv: the time column "minute" is not evenly spaced at 1 min: 2 gaps`,
-		`line 5 ("5") comes 3 intervals after line 4 ("2"): 2 samples missing`,
-		`line 7 ("8") comes 2 intervals after line 6 ("6"): 1 sample missing`,
-		"choose a remedy: Settings.Gaps = hold:N or Settings.Gaps = linear:N fill gaps",
-	} {
-		if !strings.Contains(err.Error(), want) {
-			t.Errorf("default: message lacks %q:\n%v", want, err)
-		}
-	}
-	if b := ge.Breaks[0]; b.Line != 5 || b.PrevLine != 4 || b.Row != 3 || b.Missing != 2 || b.Intervals != 3 {
-		t.Errorf("break %+v", b)
-	}
-	_, err = Read(strings.NewReader(in), &Settings{File: "g.csv", Gaps: Remedy{Kind: "hold", Max: 1}, Names: map[string]string{"Gaps": "-gaps"}})
-	if !errors.As(err, &ge) || len(ge.Breaks) != 1 || !strings.Contains(err.Error(), "-gaps hold:1 fills gaps of whole intervals up to 1 missing samples; these are irregular or longer (-gaps longest") {
-		t.Errorf("hold:1: %v", err)
-	}
-	for _, c := range []struct {
-		r    Remedy
-		want []float64
-	}{
-		{Remedy{Kind: "hold", Max: 2}, []float64{1, 2, 3, 3, 3, 6, 7, 7, 9}},
-		{Remedy{Kind: "linear", Max: 2}, []float64{1, 2, 3, 4, 5, 6, 7, 8, 9}},
-		{Remedy{Kind: "longest"}, []float64{1, 2, 3}},
-	} {
-		rec, err := Read(strings.NewReader(in), &Settings{Gaps: c.r})
-		if err != nil {
-			t.Fatalf("%v: %v", c.r, err)
-		}
-		// 1e-15 relative: the interpolation's own rounding.
-		got := rec.Series["y"]
-		if len(got) != len(c.want) || slices.ContainsFunc(got, func(v float64) bool { return math.IsNaN(v) }) {
-			t.Fatalf("%v: %v, want %v", c.r, got, c.want)
-		}
-		for i := range got {
-			if math.Abs(got[i]-c.want[i]) > 1e-15*c.want[i] {
-				t.Errorf("%v: %v, want %v", c.r, got, c.want)
-				break
-			}
-		}
-		if rec.Len() != len(c.want) || rec.Rows() != 6 || len(rec.Notes) != 2 {
-			t.Errorf("%v: Len %d Rows %d notes %q", c.r, rec.Len(), rec.Rows(), rec.Notes)
-		}
-	}
-	// Ties between stretches go to the later one; the note names its lines.
-	rec, err := Read(strings.NewReader("minute,y\n0,1\n1,2\n5,3\n6,4\n"), &Settings{Gaps: Remedy{Kind: "longest"}})
-	if err != nil || !slices.Equal(rec.Series["y"], []float64{3, 4}) ||
-		rec.Notes[1] != "1 break in the time column: fitting only lines 4 to 5 (2 samples), the longest evenly spaced stretch; 2 of 4 rows left out" {
-		t.Errorf("longest tie: %+v %v", rec, err)
-	}
-}
-
 // ReadFile names the file by its path; a missing file is the os error.
 func TestReadFile(t *testing.T) {
 	if _, err := ReadFile("testdata/no-such-file.csv", nil); err == nil || !strings.Contains(err.Error(), "no-such-file.csv") {
@@ -215,5 +116,114 @@ func TestCalendarIntervalWithoutTimeColumn(t *testing.T) {
 	}
 	if rec.Interval != (tf.Interval{Value: 1, Unit: "mo"}) || len(rec.Series["sales"]) != 3 {
 		t.Errorf("interval %v, %d samples", rec.Interval, len(rec.Series["sales"]))
+	}
+}
+
+// FuzzRead feeds arbitrary bytes to Read (the CSV reader, the time
+// column's checks and the gap remedies): each must give an error of a
+// shared kind with a message of bounded length or a well-formed record
+// (unique non-empty column names, one sample per row in every series,
+// lines in order), and a remedy must give series of equal, expected
+// lengths. Never a panic.
+func FuzzRead(f *testing.F) {
+	for _, s := range []string{
+		"minute,valve,temp\n0,50,15\n1,51,15.1\n3,52,15.3\n",
+		"when,note,valve,temp\n2026-01-01T10:00:00Z,ok,50,15\n2026-01-01T10:00:10Z,ok,51,15\n",
+		"date,y,x\n1972-01-01,1,2\n1972-01-03,2,3\n",
+		"time (s);y;x\n0;1,5;2\n60;2;3\n",
+		"\ufefftemp,valve\r1,2\r3,4\r",
+		"temp,valve,outdoor\n1\"2,3,4\n",
+		"temp,valve\n\"1,2\n3,4\n",
+		"# c\na,a\n1,2\n",
+		"t,y\n1e308,1\n-1e308,2\n",
+		"minute,y\n0,1\n1e-300,2\n2e-300,3\n1,4\n",
+	} {
+		f.Add([]byte(s))
+	}
+	f.Fuzz(func(t *testing.T, raw []byte) {
+		for _, sep := range []rune{',', ';'} {
+			for _, r := range []Remedy{{}, {Kind: "hold", Max: 5}, {Kind: "linear", Max: 5}, {Kind: "longest"}} {
+				rec, err := Read(bytes.NewReader(raw), &Settings{File: "f.csv", Sep: sep, Gaps: r})
+				if err != nil {
+					checkError(t, r, err)
+					continue
+				}
+				checkRecord(t, r, rec)
+			}
+		}
+	})
+}
+
+// checkError asserts a typed error of a shared kind and a bounded
+// message; "longest" never refuses breaks.
+func checkError(t *testing.T, r Remedy, err error) {
+	var le *LineError
+	var ge *GapError
+	var se *SettingError
+	switch {
+	case errors.As(err, &se):
+		// A remedy for a record without a time column.
+		if r.Kind == "" || se.Setting != "Settings.Gaps" {
+			t.Fatalf("remedy %+v: %v", r, err)
+		}
+	case errors.As(err, &le):
+		if !errors.Is(err, ErrFormat) && !errors.Is(err, ErrSample) && !errors.Is(err, ErrName) && !errors.Is(err, ErrShort) {
+			t.Fatalf("line error of no kind: %v", err)
+		}
+	case errors.As(err, &ge):
+		if r.Kind == "longest" || !errors.Is(err, ErrSample) || len(ge.Breaks) == 0 {
+			t.Fatalf("remedy %+v: %v", r, err)
+		}
+	default:
+		t.Fatalf("untyped error %T %v", err, err)
+	}
+	if len(err.Error()) > 8192 {
+		t.Fatalf("a message of %d bytes", len(err.Error()))
+	}
+}
+
+func checkRecord(t *testing.T, r Remedy, rec *Record) {
+	if len(rec.Columns) == 0 || rec.Rows() == 0 {
+		t.Fatalf("record with %d columns, %d rows", len(rec.Columns), rec.Rows())
+	}
+	seen := map[string]bool{}
+	for _, n := range rec.Columns {
+		if n == "" || seen[n] {
+			t.Fatalf("column name %q empty or repeated", n)
+		}
+		seen[n] = true
+	}
+	for i := 1; i < rec.Rows(); i++ {
+		if rec.Lines[i] <= rec.Lines[i-1] || rec.Lines[0] < 2 {
+			t.Fatalf("lines out of order: %v", rec.Lines)
+		}
+	}
+	want := rec.Rows()
+	switch {
+	case r.Kind == "longest" && len(rec.Breaks) > 0:
+		want = -1 // some stretch, checked below
+	case r.Kind != "":
+		for _, b := range rec.Breaks {
+			want += b.Missing
+		}
+	}
+	n := -1
+	for name, s := range rec.Series {
+		if n >= 0 && len(s) != n {
+			t.Fatalf("series %q has %d samples, another %d", name, len(s), n)
+		}
+		n = len(s)
+		if want >= 0 && n != want {
+			t.Fatalf("remedy %+v: %q has %d samples, want %d (breaks %+v)", r, name, n, want, rec.Breaks)
+		}
+		if want < 0 && (n == 0 || n > rec.Rows()) {
+			t.Fatalf("longest: %d samples of %d rows", n, rec.Rows())
+		}
+	}
+	if rec.TimeColumn != "" && len(rec.Times) != rec.Rows() {
+		t.Fatalf("%d times for %d rows", len(rec.Times), rec.Rows())
+	}
+	if rec.TimeColumn != "" && rec.Rows() > 1 && !(rec.Median > 0 && rec.Interval.Value > 0) {
+		t.Fatalf("median step %v, interval %v with %d rows", rec.Median, rec.Interval, rec.Rows())
 	}
 }

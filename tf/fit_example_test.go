@@ -13,11 +13,6 @@ import (
 // AR(1) noise to simulated data of our own (a heater's power driving a
 // temperature) and prints the estimates and checks.
 func ExampleFit() {
-	truth, err := parse.Model("temp = 20 + 0.8 / (1 - 0.9 B) B^2 power + 1 / (1 - 0.5 B) a")
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
 	n := 2000
 	rng := rand.New(rand.NewPCG(1, 2))
 	power := make([]float64, n)
@@ -28,12 +23,13 @@ func ExampleFit() {
 		}
 		power[i] = level
 	}
-	temp, err := truth.Simulate(map[string][]float64{"power": power}, &tf.SimSettings{Seed1: 3, Seed2: 4, Sigma: 0.2, BurnIn: 100})
+	// simulateRecord (fixtures_external_test.go) simulates the true model.
+	data, err := simulateRecord("temp = 20 + 0.8 / (1 - 0.9 B) B^2 power + 1 / (1 - 0.5 B) a",
+		map[string][]float64{"power": power}, &tf.SimSettings{Seed1: 3, Seed2: 4, Sigma: 0.2, BurnIn: 100})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	data := map[string][]float64{"temp": temp, "power": power}
 	m, err := parse.Model("temp = c + w0 / (1 - d1 B) B^2 power + 1 / (1 - p1 B) a")
 	if err != nil {
 		fmt.Println(err)

@@ -15,17 +15,13 @@ import (
 // Fit converges and the residual checks may well pass, but the estimate
 // carries a serious warning naming the samples, and Check's verdict fails.
 func TestFitScreensTheOutput(t *testing.T) {
-	truth := parse.MustModel("temp = 5 + 0.02 / (1 - 0.9 B) B^2 valve + 1 / (1 - 0.5 B) a")
 	n := 3000
 	valve := make([]float64, n)
 	for i := range valve {
 		valve[i] = 50 + 10*float64((i/40)%2) // a square wave of period 80
 	}
 	data := map[string][]float64{"valve": valve}
-	y, err := truth.Simulate(data, &tf.SimSettings{Sigma: 0.05, Seed1: 7, Seed2: 8})
-	if err != nil {
-		t.Fatal(err)
-	}
+	y := mustRecord(t, "temp = 5 + 0.02 / (1 - 0.9 B) B^2 valve + 1 / (1 - 0.5 B) a", data, &tf.SimSettings{Sigma: 0.05, Seed1: 7, Seed2: 8})["temp"]
 	spec := parse.MustModel("temp = c + w0 / (1 - d1 B) B^2 valve + AR(1)")
 	fit := func(y []float64) (*tf.Estimate, *tf.Diagnostics) {
 		d := map[string][]float64{"valve": valve, "temp": y}
@@ -90,34 +86,5 @@ func TestIdentifyNamesTheSpike(t *testing.T) {
 	}
 	if !strings.Contains(err.Error(), `the record may explain it: output "y" sample 300 is 999`) {
 		t.Errorf("error without the spike's hint: %v", err)
-	}
-}
-
-// Forecast and Check on a record shorter than the estimate's
-// conditioning name the output and the reason, not a FitSettings field
-// the caller never set.
-func TestShortRecordForConditioning(t *testing.T) {
-	m := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + AR(1)")
-	n := 400
-	rng := rand.New(rand.NewPCG(3, 4))
-	x := make([]float64, n)
-	for i := range x {
-		x[i] = rng.NormFloat64()
-	}
-	y, err := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + 1 / (1 - 0.4 B) a").Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.1, Seed1: 1, Seed2: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
-	e, err := tf.Fit(context.Background(), m, map[string][]float64{"x": x, "y": y}, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	short := map[string][]float64{"x": x[:3], "y": y[:3]}
-	want := `series "y": 3 samples, at least 4 needed (the estimate's residuals start at index 3`
-	if _, err := e.Forecast(short, 5, nil); err == nil || !strings.Contains(err.Error(), want) || strings.Contains(err.Error(), "FitSettings") {
-		t.Errorf("Forecast on 3 samples: %v", err)
-	}
-	if _, err := tf.Check(e, short, nil); err == nil || !strings.Contains(err.Error(), want) {
-		t.Errorf("Check on 3 samples: %v", err)
 	}
 }
