@@ -6,14 +6,15 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 )
 
-// TestBadInputTyped checks that hostile data and settings give the
+// TestBadInput checks that hostile data and settings give the
 // documented typed error, with the facts (index, value) where the type
 // carries them, and never a panic or a silent result. Its length is the
 // table of cases (one line each) and the bad inputs they share.
-func TestBadInputTyped(t *testing.T) {
+func TestBadInput(t *testing.T) {
 	ctx := context.Background()
 	nan, inf := math.NaN(), math.Inf(-1)
 	good, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 200, &SimSettings{Seed1: 1, Seed2: 2})
@@ -192,5 +193,61 @@ func TestYuleWalkerHugeOrder(t *testing.T) {
 	var se *SeriesError
 	if !errors.As(err, &se) || se.Kind != ErrShort || se.Need <= 0 {
 		t.Fatalf("YuleWalkerOrder(MaxInt) = %v, want a *SeriesError of kind ErrShort with a positive Need", err)
+	}
+}
+
+// TestErrorKindsAndOps: every exported function's error matches one of
+// the library's kinds with errors.Is and names, as Op, the function the
+// caller called (issue 12: one vocabulary).
+func TestErrorKindsAndOps(t *testing.T) {
+	ctx := context.Background()
+	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 100, &SimSettings{Seed1: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Fit(ctx, y, Order{P: 1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	nan := math.NaN()
+	cases := []struct {
+		op   string
+		kind error
+		err  error
+	}{
+		{"arma.Fit", ErrSetting, second(Fit(ctx, y, Order{P: -1}, nil))},
+		{"arma.FitNoise", ErrModel, second(FitNoise(ctx, y, Noise{}, []float64{0, 1}, nil))},
+		{"arma.Select", ErrSample, second(Select(ctx, []float64{1, nan, 3}, Grid{}, nil))},
+		{"arma.ACF", ErrShort, second(ACF(y[:2], 5))},
+		{"arma.PACF", ErrSetting, second(PACF(y, 0))},
+		{"arma.LjungBox", ErrSetting, second(LjungBox(y, 0, 0))},
+		{"arma.YuleWalker", ErrSample, second(YuleWalker([]float64{1, 2, nan, 4}, 1))},
+		{"arma.YuleWalkerOrder", ErrSetting, second(YuleWalkerOrder(y, -1))},
+		{"arma.HannanRissanen", ErrShort, func() error { _, _, err := HannanRissanen(y[:6], 2, 2, 0); return err }()},
+		{"arma.Psi", ErrModel, second(Psi(nil, nil, 3))},
+		{"arma.Pi", ErrSetting, second(Pi(nil, nil, -1))},
+		{"arma.Simulate", ErrSetting, second(Simulate(Model{}, -1, nil))},
+		{"arma.Model.Stationary", ErrModel, func() error { _, _, err := Model{AR: []float64{nan}}.Stationary(); return err }()},
+		{"arma.Model.Invertible", ErrSetting, func() error { _, _, err := Model{MA: []float64{0.1}, D: -1}.Invertible(); return err }()},
+		{"arma.Model.Psi", ErrModel, second(Model{MA: []float64{nan}}.Psi(3))},
+		{"arma.Model.Pi", ErrModel, second(Model{AR: []float64{nan}}.Pi(3))},
+		{"arma.Result.Forecast", ErrSetting, second(res.Forecast(0, 0, nil))},
+		{"arma.Result.LjungBox", ErrSetting, second(res.LjungBox(0))},
+		{"arma.Order.Validate", ErrSetting, Order{Q: -2}.Validate()},
+		{"arma.FitSettings.Validate", ErrSetting, (&FitSettings{MaxIter: -1}).Validate()},
+		{"arma.SimSettings.Validate", ErrSample, (&SimSettings{Innovations: []float64{nan}}).Validate()},
+		{"arma.Grid.Validate", ErrSetting, Grid{MaxP: -1}.Validate()},
+	}
+	for _, c := range cases {
+		if c.err == nil {
+			t.Errorf("%s: no error", c.op)
+			continue
+		}
+		if k := kindOf(c.err); k != c.kind {
+			t.Errorf("%s: %v matches kind %v, want %v", c.op, c.err, k, c.kind)
+		}
+		if !strings.HasPrefix(c.err.Error(), c.op+": ") {
+			t.Errorf("%s: message %q does not start with its Op", c.op, c.err)
+		}
 	}
 }
