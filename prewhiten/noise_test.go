@@ -138,11 +138,11 @@ func TestIdentifyNoiseNegativeBound(t *testing.T) {
 	}
 }
 
-// TestIdentifyNoiseBadLags: a negative Lags is refused by Validate, and
+// TestIdentifyNoiseBadInput: a negative Lags is refused by Validate, and
 // one at or beyond n (the samples after the leading NaN run) is an
 // *SettingError naming NoiseSettings.Lags with the value and the allowed
 // range.
-func TestIdentifyNoiseBadLags(t *testing.T) {
+func TestIdentifyNoiseBadInput(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	y := make([]float64, 52)
 	y[0], y[1] = math.NaN(), math.NaN()
@@ -160,6 +160,29 @@ func TestIdentifyNoiseBadLags(t *testing.T) {
 		var ae *prewhiten.SettingError
 		if !errors.As(err, &ae) || ae.Setting != "NoiseSettings.Lags" || err.Error() != c.want {
 			t.Errorf("Lags %d: %v, want a *SettingError %q", c.lags, err, c.want)
+		}
+	}
+}
+
+// TestIdentifyNoiseHighMA: MaxQ 40 fitted MA polynomials of degree above
+// 32 on arma.Select's worker goroutines, where the stability test
+// panicked and killed the process. Pure MA candidates (MaxP negative:
+// order zero only) up to 40 now fit; the AR(1) series picks a model.
+func TestIdentifyNoiseHighMA(t *testing.T) {
+	y, err := arma.Simulate(arma.Model{AR: []float64{0.5}, Sigma2: 1}, 300, &arma.SimSettings{Seed1: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	id, err := prewhiten.IdentifyNoise(context.Background(), y, &prewhiten.NoiseSettings{MaxP: -1, MaxQ: 40})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(id.Candidates) != 41 {
+		t.Errorf("%d candidates, want 41", len(id.Candidates))
+	}
+	for _, c := range id.Candidates {
+		if c.Order.Q > 32 && c.Result == nil {
+			t.Errorf("%v: %v", c.Order, c.Err)
 		}
 	}
 }

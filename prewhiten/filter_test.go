@@ -1,16 +1,130 @@
 package prewhiten_test
 
 import (
-	"context"
-	"errors"
+	"encoding/csv"
 	"math"
-	"math/rand/v2"
-	"strings"
+	"os"
+	"strconv"
 	"testing"
 
+	"context"
+	"errors"
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/prewhiten"
+	"math/rand/v2"
+	"strings"
 )
+
+// TestFitAgainstR checks the prewhitening autoregression against R 4.2.2
+// stats::ar(s, aic = TRUE, order.max = m, method = "yule-walker")
+// (testdata/ccf/reference.R): the chosen order, the coefficients, the
+// innovation variance (var.pred), the mean, and the filtered series
+// against ar()$resid. Series: x (an AR(2) simulated in R), the first
+// differences of BJsales.lead (R datasets, Series M of Box, Jenkins &
+// Reinsel; here through Settings.Diff = 1 - B), and a white series w.
+// Tolerance 1e-10 relative: the same Durbin-Levinson recursion on the
+// same autocovariances in double precision.
+func TestFitAgainstR(t *testing.T) {
+	series := map[string][]float64{}
+	series["x"] = testutil.ReadCSV(t, "testdata/ccf/series.csv").Column(t, "x")
+	series["w"] = testutil.ReadCSV(t, "testdata/ccf/white.csv").Column(t, "w")
+	series["lead"] = testutil.ReadCSV(t, "testdata/bjsales/bjsales.csv").Column(t, "lead")
+
+	f, err := os.Open("../testdata/ccf/ar.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rd := csv.NewReader(f)
+	rd.FieldsPerRecord = -1
+	rows, err := rd.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	resid := residColumns(t)
+	for _, row := range rows[1:] {
+		name := row[0]
+		maxOrder, err1 := strconv.Atoi(row[1])
+		order, err2 := strconv.Atoi(row[2])
+		if err1 != nil || err2 != nil {
+			t.Fatalf("ar.csv line %q: order_max or order is not an integer", row)
+		}
+		want := make([]float64, 0, len(row)-3)
+		for _, s := range row[3:] {
+			v, err := strconv.ParseFloat(s, 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want = append(want, v)
+		}
+		varPred, mean, coef := want[0], want[1], want[2:]
+		x := series[name]
+		set := &prewhiten.Settings{MaxOrder: maxOrder, Name: name}
+		if name == "dlead" {
+			x = series["lead"]
+			set.Diff = []float64{1, -1}
+		}
+		flt, err := prewhiten.Fit(x, set)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if flt.Order() != order {
+			t.Errorf("%s order.max %d: order %d, R ar gives %d", name, maxOrder, flt.Order(), order)
+			continue
+		}
+		for k, v := range coef {
+			// ar()$ar holds phi_k of x_t = sum phi_k x_{t-k} + e_t; AR
+			// stores phi(B) = 1 - sum phi_k B^k.
+			if got := -flt.AR[k+1]; !close(got, v, 1e-10) {
+				t.Errorf("%s order.max %d: phi_%d = %.15g, R %.15g", name, maxOrder, k+1, got, v)
+			}
+		}
+		if !close(flt.Sigma2, varPred, 1e-10) || !close(flt.Mean, mean, 1e-10) {
+			t.Errorf("%s: var %.15g mean %.15g, R var.pred %.15g x.mean %.15g", name, flt.Sigma2, flt.Mean, varPred, mean)
+		}
+		t.Logf("%s order.max %d: order %d, phi %v (R ar: order %d)", name, maxOrder, flt.Order(), flt.AR, order)
+		out, start, err := flt.Apply(x, name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		// R's resid for the differenced lead has one sample less: it is
+		// indexed from the first difference, ours from the level series.
+		rr := resid[name+"/"+row[1]]
+		d := len(flt.Diff) - 1
+		for i, v := range rr {
+			got := out[i+d]
+			if math.IsNaN(v) {
+				if i+d >= start {
+					t.Errorf("%s: index %d valid, R has NA", name, i+d)
+				}
+				continue
+			}
+			if !close(got, v, 1e-9) {
+				t.Errorf("%s: filtered[%d] = %.15g, R resid %.15g", name, i+d, got, v)
+				break
+			}
+		}
+	}
+}
+
+func close(a, b, rel float64) bool {
+	return math.Abs(a-b) <= rel*math.Max(1, math.Abs(b))
+}
+
+// residColumns reads R's ar()$resid from testdata/ccf/ar_resid.csv (one
+// line per series, order.max and time index; NA before the first
+// residual) into series keyed "name/order.max".
+func residColumns(t *testing.T) map[string][]float64 {
+	tb := testutil.ReadCSV(t, "testdata/ccf/ar_resid.csv", "series", "order_max")
+	names, orders, resid := tb.Text["series"], tb.Text["order_max"], tb.Column(t, "resid")
+	out := map[string][]float64{}
+	for i, v := range resid {
+		key := names[i] + "/" + orders[i]
+		out[key] = append(out[key], v)
+	}
+	return out
+}
 
 // TestSettingsValidate: every field of Settings and NoiseSettings with a
 // bad value gives a *SettingError naming that field, from Validate and from
@@ -100,20 +214,6 @@ func TestSettingsValidate(t *testing.T) {
 	}
 }
 
-// walk returns an integrated series with drift: x_t = x_{t-1} + 0.3 +
-// a_t - 0.4 a_{t-1}, an ARIMA(0,1,1) with a drift of 0.3 per sample.
-func walk(n int, seed uint64) []float64 {
-	rng := rand.New(rand.NewPCG(seed, 99))
-	x := make([]float64, n)
-	prev := 0.0
-	for i := 1; i < n; i++ {
-		a := rng.NormFloat64()
-		x[i] = x[i-1] + 0.3 + a - 0.4*prev
-		prev = a
-	}
-	return x
-}
-
 // TestOrderSpellingsAgree: Settings{Order: {D: 1, Q: 1}} and
 // Settings{Diff: {1, -1}, Order: {Q: 1}} are the same filter (the first
 // spelling left out the mean of the differenced input: a drift of 0.3
@@ -144,142 +244,6 @@ func TestOrderSpellingsAgree(t *testing.T) {
 	}
 	if math.Abs(f1.Mean-0.3) > 4*0.035 {
 		t.Errorf("drift %v, true 0.3", f1.Mean)
-	}
-}
-
-// TestPairRemovesFilterMean: Pair's Alpha is the filter as written,
-// phi(B)/theta(B) (D(B) x_t - Mean) with the filter's Mean (it removed
-// the sample mean of the differenced input while Filter.Mean reported
-// the fitted one), equal to ApplyInput, and Beta removes the output's
-// own mean (Apply). The check recomputes both by the plain recursion
-// (common practice: the definition of the filter), to 1e-12 absolute on
-// values of order 1.
-func TestPairRemovesFilterMean(t *testing.T) {
-	x := walk(400, 7)
-	y := make([]float64, len(x))
-	for i := 2; i < len(x); i++ {
-		y[i] = 0.5*y[i-1] + 2*x[i-2] + 10
-	}
-	res, err := prewhiten.Pair(x, y, "flow", &prewhiten.Settings{Name: "valve", Order: &arma.Order{D: 1, Q: 1}, Level: 1e-9})
-	if err != nil {
-		t.Fatal(err)
-	}
-	f := res.Filter
-	if f.Mean == 0 {
-		t.Fatal("the filter's mean was not estimated")
-	}
-	manual := func(s []float64, m float64) []float64 {
-		out := make([]float64, len(s))
-		theta := -f.MA[1]
-		prev := 0.0
-		for t := 1; t < len(s); t++ {
-			a := (s[t] - s[t-1] - m) + theta*prev
-			out[t], prev = a, a
-		}
-		return out
-	}
-	mean := func(s []float64) float64 {
-		v := 0.0
-		for t := 1; t < len(s); t++ {
-			v += s[t] - s[t-1]
-		}
-		return v / float64(len(s)-1)
-	}
-	in, _, err := f.ApplyInput(x)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for name, c := range map[string]struct{ got, want []float64 }{
-		"Alpha":      {res.Alpha, manual(x, f.Mean)},
-		"ApplyInput": {in, manual(x, f.Mean)},
-		"Beta":       {res.Beta, manual(y, mean(y))},
-	} {
-		for t0 := 1; t0 < len(x); t0++ {
-			if math.Abs(c.got[t0]-c.want[t0]) > 1e-12 {
-				t.Fatalf("%s[%d] = %.15g, by the definition %.15g", name, t0, c.got[t0], c.want[t0])
-			}
-		}
-	}
-	// The sample mean of the differences is not the fitted mean here:
-	// the test would pass for the old behaviour only if they agreed.
-	if math.Abs(mean(x)-f.Mean) < 1e-6 {
-		t.Fatalf("sample mean %v equals the fitted mean %v; the test cannot tell them apart", mean(x), f.Mean)
-	}
-}
-
-// TestConstantMessages: a constant input said "constant after
-// differencing" when no differencing was asked; a constant output passed
-// the filter and failed later as "output (filtered)" with rounding noise
-// (-2.22e-15). Each message now names the user's series, the
-// differencing only when there was one, and a rounded value.
-func TestConstantMessages(t *testing.T) {
-	flat := make([]float64, 60)
-	ramp := make([]float64, 60)
-	for i := range flat {
-		flat[i] = 0.1 + 0.2 // 0.30000000000000004
-		ramp[i] = 5 + 0.5*float64(i)
-	}
-	x := walk(60, 3)
-	cases := []struct {
-		name string
-		err  error
-		want []string
-		not  []string
-	}{
-		{"Fit constant", second(prewhiten.Fit(flat, &prewhiten.Settings{Name: "valve"})),
-			[]string{`series "valve" is constant (every sample is 0.3;`}, []string{"differenc", "0.30000000000000004"}},
-		{"Fit constant with Diff", second(prewhiten.Fit(flat, &prewhiten.Settings{Name: "valve", Diff: []float64{1, -1}})),
-			[]string{`series "valve" is constant (every sample is 0.3;`}, []string{"differenc"}},
-		{"Fit ramp with Diff", second(prewhiten.Fit(ramp, &prewhiten.Settings{Name: "valve", Diff: []float64{1, -1}})),
-			[]string{`prewhiten.Fit: series "valve" is constant (after the differencing (1 - B) every sample is 0.5: its levels lie on a straight line or repeat; use less differencing)`}, nil},
-		{"Fit ramp with Order", second(prewhiten.Fit(ramp, &prewhiten.Settings{Name: "valve", Order: &arma.Order{D: 1, Q: 1}})),
-			[]string{`"valve" is constant (after the differencing (1 - B) every sample is 0.5`}, nil},
-		{"Pair constant output", second(prewhiten.Pair(x, flat, "flow", &prewhiten.Settings{Name: "valve"})),
-			[]string{`prewhiten.Pair: series "flow" is constant (every sample is 0.3; a constant series carries no information to prewhiten or correlate)`}, []string{"filtered", "e-1"}},
-		{"IdentifyNoise constant", second(prewhiten.IdentifyNoise(context.Background(), flat, &prewhiten.NoiseSettings{Name: "level"})),
-			[]string{`prewhiten.IdentifyNoise: series "level" is constant (every sample is 0.3;`}, []string{"differenc"}},
-	}
-	for _, c := range cases {
-		var ce *prewhiten.SeriesError
-		if !errors.As(c.err, &ce) || !errors.Is(c.err, prewhiten.ErrConstant) {
-			t.Errorf("%s: %T %v, want a *SeriesError of kind ErrConstant", c.name, c.err, c.err)
-			continue
-		}
-		for _, w := range c.want {
-			if !strings.Contains(c.err.Error(), w) {
-				t.Errorf("%s: %q lacks %q", c.name, c.err, w)
-			}
-		}
-		for _, w := range c.not {
-			if strings.Contains(c.err.Error(), w) {
-				t.Errorf("%s: %q holds %q", c.name, c.err, w)
-			}
-		}
-	}
-}
-
-func second[T any](_ T, err error) error { return err }
-
-// TestIdentifyNoiseHighMA: MaxQ 40 fitted MA polynomials of degree above
-// 32 on arma.Select's worker goroutines, where the stability test
-// panicked and killed the process. Pure MA candidates (MaxP negative:
-// order zero only) up to 40 now fit; the AR(1) series picks a model.
-func TestIdentifyNoiseHighMA(t *testing.T) {
-	y, err := arma.Simulate(arma.Model{AR: []float64{0.5}, Sigma2: 1}, 300, &arma.SimSettings{Seed1: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	id, err := prewhiten.IdentifyNoise(context.Background(), y, &prewhiten.NoiseSettings{MaxP: -1, MaxQ: 40})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if len(id.Candidates) != 41 {
-		t.Errorf("%d candidates, want 41", len(id.Candidates))
-	}
-	for _, c := range id.Candidates {
-		if c.Order.Q > 32 && c.Result == nil {
-			t.Errorf("%v: %v", c.Order, c.Err)
-		}
 	}
 }
 
@@ -325,5 +289,120 @@ func TestOrderShortMessage(t *testing.T) {
 	var ve *prewhiten.SampleError
 	if !errors.As(err, &ve) || ve.Index != 7 || ve.Value != -2e140 || ve.Series != "valve after the differencing (1 - B)" || !strings.Contains(err.Error(), "-2e+140") {
 		t.Errorf("%T %v, want a *SampleError at index 7", err, err)
+	}
+}
+
+// TestARMAFilter: a caller-given ARMA(1,1) filter applied to the series
+// it describes returns (nearly) the innovations: after the start-up, the
+// filtered series equals the innovations the series was built from.
+func TestARMAFilter(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	n := 300
+	a := make([]float64, n)
+	x := make([]float64, n)
+	for i := range a {
+		a[i] = rng.NormFloat64()
+	}
+	// (1 - 0.6 B) x = (1 - 0.3 B) a  (Box-Jenkins signs: phi1 0.6, theta1 0.3)
+	for i := range x {
+		x[i] = a[i]
+		if i > 0 {
+			x[i] += 0.6*x[i-1] - 0.3*a[i-1]
+		}
+	}
+	m := arma.Model{AR: []float64{0.6}, MA: []float64{0.3}}
+	f, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, start, err := f.Apply(x, "x")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Apply removes the sample mean and starts the MA recursion at zero;
+	// both effects decay as 0.3^t (and the mean offset is tiny), so after
+	// 40 samples the difference is below 1e-2 of the innovation scale.
+	mean := 0.0
+	for _, v := range x {
+		mean += v
+	}
+	mean /= float64(n)
+	shift := mean * (1 - 0.6) / (1 - 0.3)
+	for i := start + 40; i < n; i++ {
+		if math.Abs(out[i]+shift-a[i]) > 1e-2 {
+			t.Fatalf("index %d: filtered %g, innovation %g", i, out[i]+shift, a[i])
+		}
+	}
+	if got := f.String(); got != "(1 - 0.6 B) / (1 - 0.3 B) x" {
+		t.Errorf("String() = %q", got)
+	}
+}
+
+// TestHostileSettings feeds settings and hand-built filters that used to
+// panic or give unbounded numbers: each must come back as a typed error,
+// and the series must be left as they were.
+func TestHostileSettings(t *testing.T) {
+	x := make([]float64, 200)
+	y := make([]float64, 200)
+	for i := 1; i < len(x); i++ {
+		x[i] = 0.7*x[i-1] + math.Sin(float64(i)*1.3)
+		y[i] = 0.5*x[i-1] + 0.2*math.Cos(float64(i)*0.7)
+	}
+	x0 := append([]float64(nil), x...)
+	y0 := append([]float64(nil), y...)
+	var se *prewhiten.SeriesError
+	long := make([]float64, 300) // (1 - B^299), longer than the series
+	long[0], long[299] = 1, -1
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: long}); !errors.As(err, &se) || se.Need != 302 {
+		t.Errorf("differencing longer than the series: %v", err)
+	}
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{MaxOrder: math.MaxInt}); !errors.As(err, &se) || se.Need < len(x) {
+		t.Errorf("MaxOrder = MaxInt: %v", err)
+	}
+	if _, err := prewhiten.Pair(x, y, "y", &prewhiten.Settings{Lags: math.MaxInt}); !errors.As(err, &se) || se.Need < len(x) {
+		t.Errorf("Lags = MaxInt: %v", err)
+	}
+	var ae *prewhiten.SettingError
+	if _, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &arma.Model{AR: []float64{math.NaN()}}}); !errors.As(err, &ae) ||
+		err.Error() != "prewhiten.Fit: Settings.ARMA = a NaN or infinite coefficient, Mean or Sigma2: must be finite values" {
+		t.Errorf("caller's ARMA with a NaN coefficient: %v", err)
+	}
+	f, err := prewhiten.Fit(x, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, g := range map[string]prewhiten.Filter{
+		"zero value":        {},
+		"NaN in AR":         {Diff: []float64{1}, AR: []float64{1, math.NaN()}, MA: []float64{1}},
+		"AR leading 2":      {Diff: []float64{1}, AR: []float64{2, 0.5}, MA: []float64{1}},
+		"non-invertible MA": {Diff: []float64{1}, AR: f.AR, MA: []float64{1, 3}}, // root B = -1/3
+	} {
+		if _, _, err := g.Apply(y, "y"); !errors.As(err, &ae) {
+			t.Errorf("Apply with a filter %s: %v", name, err)
+		}
+	}
+	for i := range x {
+		if x[i] != x0[i] || y[i] != y0[i] {
+			t.Fatalf("series modified at %d", i)
+		}
+	}
+}
+
+// TestZeroFilter: the zero Filter reports order 0 and start 0 (nil
+// polynomials count as {1}, as documented; was -1 and -2), and Apply
+// rejects it with a *SettingError naming Filter.Diff.
+func TestZeroFilter(t *testing.T) {
+	var f prewhiten.Filter
+	if f.Order() != 0 || f.Start() != 0 {
+		t.Errorf("zero Filter: order %d, start %d; want 0 and 0", f.Order(), f.Start())
+	}
+	f.AR = []float64{1, -0.5}
+	if f.Order() != 1 || f.Start() != 1 {
+		t.Errorf("AR only: order %d, start %d; want 1 and 1", f.Order(), f.Start())
+	}
+	var ae *prewhiten.SettingError
+	if _, _, err := (prewhiten.Filter{}).Apply([]float64{1, 2, 3}, "y"); !errors.As(err, &ae) || ae.Setting != "Filter.Diff" ||
+		err.Error() != "prewhiten.Filter.Apply: Filter.Diff = nil: must be a polynomial with constant term 1 ({1} for none)" {
+		t.Errorf("Apply of the zero Filter: %v", err)
 	}
 }
