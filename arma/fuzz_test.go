@@ -6,6 +6,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // fuzzSeries turns fuzz bytes into a short series with hostile values:
@@ -13,30 +15,7 @@ import (
 // 1e300, 1e-300, a repeat of the previous sample (constant runs) or an
 // ordinary value from the second byte.
 func fuzzSeries(data []byte) []float64 {
-	var y []float64
-	prev := 0.0
-	for i := 0; i+1 < len(data) && len(y) < 80; i += 2 {
-		v := float64(int8(data[i+1])) / 16
-		switch data[i] % 24 {
-		case 0:
-			v = math.NaN()
-		case 1:
-			v = math.Inf(1)
-		case 2:
-			v = math.Inf(-1)
-		case 3:
-			v = 1e300
-		case 4:
-			v = 1e-300
-		case 5, 6, 7, 8:
-			v = prev
-		case 9:
-			v *= 1e12
-		}
-		y = append(y, v)
-		prev = v
-	}
-	return y
+	return testutil.HostileSeries(data, testutil.Hostile{Max: 80, Div: 16, Up: 1e12})
 }
 
 // FuzzFit: a short series with hostile values and small random orders

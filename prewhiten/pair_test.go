@@ -45,25 +45,12 @@ func simulateTF(rng *rand.Rand, n, b, r, s int, snr float64) (x, y []float64) {
 	noise := make([]float64, m)
 	filter.Run(noise, []float64{1, 0.4}, []float64{1, -0.5}, a)
 	x, sig, noise = x[burn:], sig[burn:], noise[burn:]
-	k := math.Sqrt(variance(sig) / (snr * variance(noise)))
+	k := math.Sqrt(testutil.Variance(sig) / (snr * testutil.Variance(noise)))
 	y = make([]float64, n)
 	for i := range y {
 		y[i] = 10 + sig[i] + k*noise[i]
 	}
 	return x, y
-}
-
-func variance(x []float64) float64 {
-	m := 0.0
-	for _, v := range x {
-		m += v
-	}
-	m /= float64(len(x))
-	s := 0.0
-	for _, v := range x {
-		s += (v - m) * (v - m)
-	}
-	return s / float64(len(x))
 }
 
 // TestRecovery simulates 200 replicates of models of our own (b = 0..6,

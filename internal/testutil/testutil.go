@@ -84,3 +84,19 @@ func Complex(re, im []float64) []complex128 {
 	}
 	return c
 }
+
+// Variance returns the variance of x with divisor len(x) (the population
+// variance, numpy.var's default), the scale the simulation tests compare
+// signal and noise with.
+func Variance(x []float64) float64 {
+	m := 0.0
+	for _, v := range x {
+		m += v
+	}
+	m /= float64(len(x))
+	s := 0.0
+	for _, v := range x {
+		s += (v - m) * (v - m)
+	}
+	return s / float64(len(x))
+}
