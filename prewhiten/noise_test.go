@@ -8,7 +8,6 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/arma"
-	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/prewhiten"
 )
@@ -39,25 +38,8 @@ func TestIdentifyNoise(t *testing.T) {
 			y[j] += noise[j]
 		}
 		x, y = x[100:], y[100:]
-		pw, err := prewhiten.Pair(x, y, "y", nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		w, err := ccf.ImpulseWeights(pw.Alpha[pw.Start:], pw.Beta[pw.Start:], 20, "x", nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		id, err := ccf.Identify(w, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		best := id.Forms[0]
-		v := make([]float64, 31)
-		copy(v[best.Delay:], impulse(t, best.Num, best.Den, 31-best.Delay))
-		nz, _, err := ccf.NoiseSeries(y, [][]float64{x}, []*ccf.Weights{{Input: "x", V: v, SE: v}})
-		if err != nil {
-			t.Fatal(err)
-		}
+		best := bestForm(t, x, y, "y", nil, 20, "x")
+		nz := formNoise(t, best, y, x, "x")
 		nid, err := prewhiten.IdentifyNoise(context.Background(), nz, nil)
 		if err != nil {
 			t.Fatal(err)

@@ -12,7 +12,6 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/filter"
-	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/prewhiten"
 )
@@ -192,28 +191,10 @@ func TestBJSales(t *testing.T) {
 func TestBJSalesNumbers(t *testing.T) {
 	bj := testutil.ReadCSV(t, "testdata/bjsales/bjsales.csv")
 	sales, lead := bj.Column(t, "sales"), bj.Column(t, "lead")
-	pw, err := prewhiten.Pair(lead, sales, "sales", &prewhiten.Settings{Name: "lead", Diff: []float64{1, -1}})
-	if err != nil {
-		t.Fatal(err)
-	}
-	w, err := ccf.ImpulseWeights(pw.Alpha[pw.Start:], pw.Beta[pw.Start:], 15, "lead", nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	id, err := ccf.Identify(w, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	best := id.Forms[0]
+	best := bestForm(t, lead, sales, "sales", &prewhiten.Settings{Name: "lead", Diff: []float64{1, -1}}, 15, "lead")
 	// Preliminary noise of the differenced series with the fitted form's
 	// weights (lags 0..30).
-	ds, dl := diff(sales), diff(lead)
-	v := make([]float64, 31)
-	copy(v[best.Delay:], impulse(t, best.Num, best.Den, 31-best.Delay))
-	noise, _, err := ccf.NoiseSeries(ds, [][]float64{dl}, []*ccf.Weights{{Input: "lead", V: v, SE: v}})
-	if err != nil {
-		t.Fatal(err)
-	}
+	noise := formNoise(t, best, diff(sales), diff(lead), "lead")
 	nid, err := prewhiten.IdentifyNoise(context.Background(), noise, &prewhiten.NoiseSettings{MaxP: 1, MaxQ: 1})
 	if err != nil {
 		t.Fatal(err)
@@ -241,25 +222,6 @@ func TestBJSalesNumbers(t *testing.T) {
 			}
 		}
 	}
-}
-
-func diff(x []float64) []float64 {
-	d := make([]float64, len(x)-1)
-	for i := range d {
-		d[i] = x[i+1] - x[i]
-	}
-	return d
-}
-
-// impulse returns n weights of num(B)/den(B) (den[0] = 1), by the
-// project's power-series division.
-func impulse(t *testing.T, num, den []float64, n int) []float64 {
-	t.Helper()
-	v, err := poly.Divide(num, den, n)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return v
 }
 
 // TestCorrelatedInputs: two strongly correlated inputs (x2 = 0.7 x1 +
