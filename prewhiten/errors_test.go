@@ -9,6 +9,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/testutil"
+
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/prewhiten"
@@ -150,16 +152,7 @@ func TestConstantMessages(t *testing.T) {
 			t.Errorf("%s: %T %v, want a *SeriesError of kind ErrConstant", c.name, c.err, c.err)
 			continue
 		}
-		for _, w := range c.want {
-			if !strings.Contains(c.err.Error(), w) {
-				t.Errorf("%s: %q lacks %q", c.name, c.err, w)
-			}
-		}
-		for _, w := range c.not {
-			if strings.Contains(c.err.Error(), w) {
-				t.Errorf("%s: %q holds %q", c.name, c.err, w)
-			}
-		}
+		testutil.CheckWords(t, c.name, c.err.Error(), c.want, c.not)
 	}
 }
 

@@ -27,11 +27,3 @@ func TestHostileSeries(t *testing.T) {
 		t.Errorf("Down zero: got %v, want 2", got[0])
 	}
 }
-
-// TestVariance: the population variance of 1, 2, 3, 4 is 1.25
-// (numpy.var([1, 2, 3, 4]) = 1.25, divisor n), exact in float64.
-func TestVariance(t *testing.T) {
-	if got := Variance([]float64{1, 2, 3, 4}); got != 1.25 {
-		t.Errorf("got %v, want 1.25", got)
-	}
-}

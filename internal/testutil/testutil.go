@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"strings"
 	"testing"
 )
 
@@ -99,4 +100,20 @@ func Variance(x []float64) float64 {
 		s += (v - m) * (v - m)
 	}
 	return s / float64(len(x))
+}
+
+// CheckWords reports, naming the case, each of want that msg lacks and
+// each of not that msg holds: the key-word check of error messages.
+func CheckWords(t testing.TB, name, msg string, want, not []string) {
+	t.Helper()
+	for _, w := range want {
+		if !strings.Contains(msg, w) {
+			t.Errorf("%s: %q lacks %q", name, msg, w)
+		}
+	}
+	for _, w := range not {
+		if strings.Contains(msg, w) {
+			t.Errorf("%s: %q holds %q", name, msg, w)
+		}
+	}
 }
