@@ -109,3 +109,16 @@ func kindOf(err error) error {
 	}
 	return nil
 }
+
+// centralStep returns copies of x moved by +h and -h in coordinate k,
+// with h = 1e-6 max(1, |x_k|), the step of the central differences the
+// derivative checks compare with (truncation error O(h^2), about 1e-12,
+// and rounding O(eps/h), about 2e-10 relative: common practice).
+func centralStep(x []float64, k int) (xp, xm []float64, h float64) {
+	h = 1e-6 * math.Max(1, math.Abs(x[k]))
+	xp = append([]float64(nil), x...)
+	xm = append([]float64(nil), x...)
+	xp[k] += h
+	xm[k] -= h
+	return xp, xm, h
+}
