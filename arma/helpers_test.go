@@ -1,7 +1,8 @@
 package arma
 
 // Shared fixtures of the arma tests: the R reference datasets and the
-// readers of a Result's Params as parallel slices.
+// readers of a Result's Params as parallel slices, an explosive fit, the
+// central-difference step.
 
 import (
 	"encoding/json"
@@ -121,4 +122,19 @@ func centralStep(x []float64, k int) (xp, xm []float64, h float64) {
 	xp[k] += h
 	xm[k] -= h
 	return xp, xm, h
+}
+
+// hostileExplosive is a short series and its fit with phi1 held at 3 (an
+// explosive AR part).
+func hostileExplosive(t *testing.T) ([]float64, *Result) {
+	t.Helper()
+	y := make([]float64, 200)
+	for i := range y {
+		y[i] = math.Sin(float64(i)*0.7) + 0.1*float64(i%5)
+	}
+	res, err := Fit(nil, y, Order{P: 1}, &FitSettings{Held: map[string]float64{"phi1": 3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return y, res
 }
