@@ -187,7 +187,7 @@ func try(t *testing.T, name string, f func() error) {
 	t.Errorf("%s: error of no kind %s %v", name, typ, err)
 }
 
-// TestHostileCalls calls every exported function and method of arma,
+// TestBadInputCalls calls every exported function and method of arma,
 // prewhiten and ccf that takes series with nil, one- and two-sample,
 // NaN, infinite, constant and 1e300 series, and lags -1, 0, 3 and
 // MaxInt: each returns a typed error or a result, never a panic.
@@ -197,7 +197,7 @@ func try(t *testing.T, name string, f func() error) {
 // named "series" instead of the input, a one-sample input reported as
 // "constant", the zero arma.Result's LjungBox blaming its series, and a
 // nil *ccf.Identification panicking in String.
-func TestHostileCalls(t *testing.T) {
+func TestBadInputCalls(t *testing.T) {
 	ctx := context.Background()
 	nan := math.NaN()
 	sets := map[string][]float64{"nil": nil, "one": {1}, "two": {1, 2}, "nan": {1, nan, 3, 4, 5, 6}, "inf": {1, 2, math.Inf(1), 4, 5}, "const": {2, 2, 2, 2, 2, 2, 2, 2}, "big": {1e300, -1e300, 1, 2, 3, 4, 5, 6, 7, 8}}

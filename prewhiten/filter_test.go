@@ -338,10 +338,10 @@ func TestARMAFilter(t *testing.T) {
 	}
 }
 
-// TestHostileSettings feeds settings and hand-built filters that used to
-// panic or give unbounded numbers: each must come back as a typed error,
-// and the series must be left as they were.
-func TestHostileSettings(t *testing.T) {
+// TestFitBadInput feeds Fit, Pair and Apply settings and hand-built
+// filters that could panic or give unbounded numbers: each must come back
+// as a typed error, and the series must be left as they were.
+func TestFitBadInput(t *testing.T) {
 	x := make([]float64, 200)
 	y := make([]float64, 200)
 	for i := 1; i < len(x); i++ {
