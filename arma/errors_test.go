@@ -441,9 +441,9 @@ func fc1000(r *Result) error {
 	return catch(func() error { _, err := r.Forecast(1000, 0, nil); return err })
 }
 
-// TestBadInputStructs: an ARFit or Result built by hand (or nil) made Poly,
-// Residuals, LjungBox, String and Constant panic with an index out of
-// range or a nil dereference.
+// TestBadInputStructs: an ARFit or Result built by hand (or nil) gives
+// Poly, Residuals, LjungBox, String and EquationConstant a defined answer
+// or a typed error, never a panic (index out of range, nil dereference).
 func TestBadInputStructs(t *testing.T) {
 	var poly, resid []float64
 	err := catch(func() error {

@@ -4,11 +4,11 @@ package ccf
 // seeded series of the benchmarks and the concurrency check.
 
 import (
+	"math/rand/v2"
 	"path/filepath"
 	"testing"
 
 	"github.com/backshift/backshift/internal/testutil"
-	"math/rand/v2"
 )
 
 // readColumns reads the named numeric columns of a CSV file with a

@@ -114,11 +114,10 @@ func TestNotWhite(t *testing.T) {
 	}
 }
 
-// TestConstantMessages: a constant input said "constant after
-// differencing" when no differencing was asked; a constant output passed
-// the filter and failed later as "output (filtered)" with rounding noise
-// (-2.22e-15). Each message now names the user's series, the
-// differencing only when there was one, and a rounded value.
+// TestConstantMessages: a constant input or output is refused before
+// filtering, and each message names the user's series (not "output
+// (filtered)"), mentions differencing only when there was one, and
+// prints a rounded value (not rounding noise such as -2.22e-15).
 func TestConstantMessages(t *testing.T) {
 	flat := make([]float64, 60)
 	ramp := make([]float64, 60)

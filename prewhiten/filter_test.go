@@ -1,19 +1,19 @@
 package prewhiten_test
 
 import (
+	"context"
 	"encoding/csv"
+	"errors"
 	"math"
+	"math/rand/v2"
 	"os"
 	"strconv"
+	"strings"
 	"testing"
 
-	"context"
-	"errors"
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/prewhiten"
-	"math/rand/v2"
-	"strings"
 )
 
 // TestFitAgainstR checks the prewhitening autoregression against R 4.2.2
@@ -216,9 +216,9 @@ func TestSettingsValidate(t *testing.T) {
 
 // TestOrderSpellingsAgree: Settings{Order: {D: 1, Q: 1}} and
 // Settings{Diff: {1, -1}, Order: {Q: 1}} are the same filter (the first
-// spelling left out the mean of the differenced input: a drift of 0.3
-// per sample dropped without a word, and the MA coefficient moved to
-// absorb it). Both now estimate the mean; the fits are the same
+// spelling must keep the mean of the differenced input, a drift of 0.3
+// per sample, or the MA coefficient moves to absorb it). Both estimate
+// the mean; the fits are the same
 // least-squares problem, so they agree to rounding (1e-9 relative: the
 // optimiser's path is identical, the differencing done in another
 // place). The estimated drift must be near the true 0.3: within 4
@@ -247,10 +247,10 @@ func TestOrderSpellingsAgree(t *testing.T) {
 	}
 }
 
-// TestOrderNotConverged: a Settings.Order fit that stopped without
-// converging was used as the filter without a word. Fit now returns the
-// filter of the best point with the *arma.ConvergenceError, and Pair
-// returns its result with that error. The series (seed 291 of a random
+// TestOrderNotConverged: a Settings.Order fit that stops without
+// converging is not used silently: Fit returns the filter of the best
+// point with the *arma.ConvergenceError, and Pair returns its result with
+// that error. The series (seed 291 of a random
 // walk of 40 samples with an over-parameterised ARIMA(3,1,3)) was found
 // by search to stop at the iteration limit.
 func TestOrderNotConverged(t *testing.T) {
@@ -275,8 +275,8 @@ func TestOrderNotConverged(t *testing.T) {
 }
 
 // TestOrderShortMessage: the ARIMA filter of Settings.Order is fitted to
-// the differenced input, and its length error counted the differenced
-// samples ("x has 5 samples" for 6); it now counts the input's.
+// the differenced input, and its length error counts the input's
+// samples ("x has 6 samples", not the 5 differenced ones).
 func TestOrderShortMessage(t *testing.T) {
 	x := []float64{1, 3, 2, 5, 4, 7}
 	_, err := prewhiten.Fit(x, &prewhiten.Settings{Name: "valve", Order: &arma.Order{P: 2, D: 1, Q: 2}})

@@ -146,10 +146,10 @@ func TestIdentifyNoiseBadInput(t *testing.T) {
 	}
 }
 
-// TestIdentifyNoiseHighMA: MaxQ 40 fitted MA polynomials of degree above
-// 32 on arma.Select's worker goroutines, where the stability test
-// panicked and killed the process. Pure MA candidates (MaxP negative:
-// order zero only) up to 40 now fit; the AR(1) series picks a model.
+// TestIdentifyNoiseHighMA: MaxQ 40 fits MA polynomials of degree above
+// 32 (beyond the stability test's stack buffer) on arma.Select's worker
+// goroutines. Pure MA candidates (MaxP negative: order zero only) up to
+// 40 fit without a panic; the AR(1) series picks a model.
 func TestIdentifyNoiseHighMA(t *testing.T) {
 	y, err := arma.Simulate(arma.Model{AR: []float64{0.5}, Sigma2: 1}, 300, &arma.SimSettings{Seed1: 1})
 	if err != nil {

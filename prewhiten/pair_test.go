@@ -2,13 +2,13 @@ package prewhiten_test
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
 
-	"errors"
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/filter"
