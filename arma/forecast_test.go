@@ -72,8 +72,8 @@ func TestForecastDiffScale(t *testing.T) {
 		}
 	}
 	// A short series with a near-unit MA root keeps the state uncertain,
-	// so the integrated state term of the exact SE matters (it too was
-	// scaled wrongly).
+	// so the integrated state term of the exact SE matters (it too must
+	// be scaled by the constant term).
 	short := []float64{0.3, 1.2, 0.7, 2.1, 1.5, 2.9, 2.2, 3.6}
 	ma := Noise{MA: sym.Poly{Factors: []sym.Factor{{Exp: 1, Terms: []sym.Term{
 		{Coef: sym.Coef{Value: 1}},
