@@ -86,7 +86,10 @@ func TestACFBands(t *testing.T) {
 	}
 }
 
-func TestACFErrors(t *testing.T) {
+// TestACFBadInput: a NaN, a constant or a short series and out-of-range
+// lags give ACF, PACF and LjungBox's typed errors with index, kind and
+// counts.
+func TestACFBadInput(t *testing.T) {
 	var de *SampleError
 	if _, err := ACF([]float64{1, 2, math.NaN(), 4}, 1); !errors.As(err, &de) || de.Index != 2 {
 		t.Errorf("NaN: got %v", err)

@@ -69,11 +69,7 @@ func TestJacobianFiniteDifference(t *testing.T) {
 		rp := make([]float64, eng.m)
 		rm := make([]float64, eng.m)
 		for k := 0; k < np; k++ {
-			h := 1e-6 * math.Max(1, math.Abs(c.x[k]))
-			xp := append([]float64(nil), c.x...)
-			xm := append([]float64(nil), c.x...)
-			xp[k] += h
-			xm[k] -= h
+			xp, xm, h := centralStep(c.x, k)
 			eng.eval(xp, rp, nil)
 			eng.eval(xm, rm, nil)
 			scale := 0.0

@@ -90,18 +90,7 @@ func withOp(op string, err *error) {
 	if *err == nil {
 		return
 	}
-	var a *SampleError
-	if errors.As(*err, &a) {
-		a.Op = op
-	}
-	var b *SeriesError
-	if errors.As(*err, &b) {
-		b.Op = op
-	}
-	var c *SettingError
-	if errors.As(*err, &c) {
-		c.Op = op
-	}
+	errs.SetOp(op, *err)
 	var d *ModelError
 	if errors.As(*err, &d) {
 		d.Op = op

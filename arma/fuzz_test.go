@@ -6,6 +6,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // fuzzSeries turns fuzz bytes into a short series with hostile values:
@@ -13,30 +15,7 @@ import (
 // 1e300, 1e-300, a repeat of the previous sample (constant runs) or an
 // ordinary value from the second byte.
 func fuzzSeries(data []byte) []float64 {
-	var y []float64
-	prev := 0.0
-	for i := 0; i+1 < len(data) && len(y) < 80; i += 2 {
-		v := float64(int8(data[i+1])) / 16
-		switch data[i] % 24 {
-		case 0:
-			v = math.NaN()
-		case 1:
-			v = math.Inf(1)
-		case 2:
-			v = math.Inf(-1)
-		case 3:
-			v = 1e300
-		case 4:
-			v = 1e-300
-		case 5, 6, 7, 8:
-			v = prev
-		case 9:
-			v *= 1e12
-		}
-		y = append(y, v)
-		prev = v
-	}
-	return y
+	return testutil.HostileSeries(data, testutil.Hostile{Max: 80, Div: 16, Up: 1e12})
 }
 
 // FuzzFit: a short series with hostile values and small random orders
@@ -94,58 +73,6 @@ func FuzzFit(f *testing.F) {
 			}
 		}
 	})
-}
-
-// TestForecastHostile: bad horizons, levels and future regressor values
-// are typed errors naming the argument (a NaN future value was an
-// error whose message repeated the package prefix: "arma:
-// futureX: arma: futureX sample 3 is NaN").
-func TestForecastHostile(t *testing.T) {
-	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 120, &SimSettings{Seed1: 8})
-	if err != nil {
-		t.Fatal(err)
-	}
-	x := make([]float64, len(y))
-	for i := range x {
-		x[i] = float64(i % 7)
-	}
-	res, err := Fit(context.Background(), y, Order{P: 1}, &FitSettings{Regressors: [][]float64{x}})
-	if err != nil {
-		t.Fatal(err)
-	}
-	col := func(v float64) [][]float64 { return [][]float64{{1, 2, 3, v, 5}} }
-	isArg := func(err error) bool { var e *SettingError; return errors.As(err, &e) && e.Op == "arma.Result.Forecast" }
-	cases := []struct {
-		name  string
-		steps int
-		level float64
-		fx    [][]float64
-		ok    func(error) bool
-		want  string
-	}{
-		{"steps 0", 0, 0.9, col(4), isArg, "arma.Result.Forecast: steps = 0: must be in 1..MaxHorizon = 65536"},
-		{"steps -1", -1, 0.9, col(4), isArg, "steps = -1: "},
-		{"steps huge", math.MaxInt, 0.9, col(4), isArg, "MaxHorizon"},
-		{"level 1", 5, 1, col(4), isArg, "level = 1: must be in (0, 1) (zero means 0.95)"},
-		{"level NaN", 5, math.NaN(), col(4), isArg, "level = NaN"},
-		{"futureX missing", 5, 0.9, nil, isArg, "futureX = 0 columns: needs 1 regressor columns"},
-		{"futureX short", 5, 0.9, [][]float64{{1}}, isArg, "futureX column 1 = 1 values: needs 5 values"},
-		{"futureX NaN", 5, 0.9, col(math.NaN()), func(err error) bool {
-			var e *SampleError
-			return errors.As(err, &e) && e.Index == 3 && e.Series == "futureX column 1"
-		}, `arma.Result.Forecast: series "futureX column 1" sample 3 is NaN`},
-		{"futureX huge", 5, 0.9, col(1e300), func(err error) bool { var e *SampleError; return errors.As(err, &e) }, "beyond the largest magnitude accepted, 1e+140"},
-	}
-	for _, c := range cases {
-		_, err := res.Forecast(c.steps, c.level, c.fx)
-		if err == nil || !c.ok(err) || !strings.Contains(err.Error(), c.want) {
-			t.Errorf("%s: %T %v, want %q", c.name, err, err, c.want)
-		}
-	}
-	var zero *Result
-	if _, err := zero.Forecast(3, 0, nil); !errors.Is(err, ErrModel) || err.Error() != "arma.Result.Forecast: result: Forecast needs a result of Fit or FitNoise" {
-		t.Errorf("nil result: %v", err)
-	}
 }
 
 // TestStartOverflowMessage: start values whose residuals overflow give a

@@ -49,11 +49,7 @@ func TestHessianFiniteDifference(t *testing.T) {
 			}
 		}
 		for k := 0; k < np; k++ {
-			h := 1e-6 * math.Max(1, math.Abs(c.x[k]))
-			xp := append([]float64(nil), c.x...)
-			xm := append([]float64(nil), c.x...)
-			xp[k] += h
-			xm[k] -= h
+			xp, xm, h := centralStep(c.x, k)
 			gp, gm := grad(xp), grad(xm)
 			for j := 0; j < np; j++ {
 				fd := (gp[j] - gm[j]) / (2 * h)

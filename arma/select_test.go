@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/internal/sym"
@@ -69,52 +70,6 @@ func TestFitNoiseSubset(t *testing.T) {
 	}
 	if r2.Model.AR[1] != 0 || len(names(r2)) != 3 {
 		t.Errorf("held phi2: AR %v names %v", r2.Model.AR, names(r2))
-	}
-}
-
-func TestFitErrors(t *testing.T) {
-	ctx := context.Background()
-	y, _ := Simulate(benchModel, 200, &SimSettings{Seed1: 1, Seed2: 1})
-	var ae *SettingError
-	var se *SeriesError
-	var de *SampleError
-	var ce *SeriesError
-	if _, err := Fit(ctx, y[:5], Order{P: 2, Q: 2}, nil); !errors.As(err, &se) || se.Kind != ErrShort {
-		t.Errorf("short: %v", err)
-	}
-	bad := append([]float64(nil), y...)
-	bad[17] = math.Inf(1)
-	if _, err := Fit(ctx, bad, Order{P: 1}, &FitSettings{Name: "flow"}); !errors.As(err, &de) || de.Index != 17 || de.Series != "flow" {
-		t.Errorf("Inf: %v", err)
-	}
-	if _, err := Fit(ctx, make([]float64, 50), Order{P: 1}, nil); !errors.As(err, &ce) || ce.Kind != ErrConstant {
-		t.Errorf("constant: %v", err)
-	}
-	if _, err := Fit(ctx, y, Order{P: -1}, nil); !errors.As(err, &ae) {
-		t.Errorf("negative order: %v", err)
-	}
-	if _, err := Fit(ctx, y, Order{P: 1}, &FitSettings{Held: map[string]float64{"theta7": 1}}); !errors.As(err, &ae) {
-		t.Errorf("unknown fixed: %v", err)
-	}
-	if _, err := Fit(ctx, y, Order{P: 1}, &FitSettings{Regressors: [][]float64{{1, 2}}}); !errors.As(err, &se) || se.Kind != ErrLength ||
-		err.Error() != `arma.Fit: series "x1" has 2 samples, 200 expected (a regressor needs the length of series)` {
-		t.Errorf("short regressor: %v", err)
-	}
-	if _, err := Fit(ctx, y, Order{P: 2}, &FitSettings{First: 1}); !errors.As(err, &ae) {
-		t.Errorf("start before the AR lags: %v", err)
-	}
-	// Non-convergence: one iteration allowed; the best point comes back.
-	res, err := Fit(ctx, y, Order{P: 2, Q: 1}, &FitSettings{MaxIter: 1})
-	var conv *ConvergenceError
-	if !errors.As(err, &conv) || res == nil || res.Converged || len(res.Params) != 4 || !(res.SSQ > 0) {
-		t.Errorf("non-convergence: %v", err)
-	}
-	// Boundary: an over-differenced white noise has theta1 near 1; held
-	// at exactly 1 the MA root lies on the unit circle and is flagged.
-	w, _ := Simulate(Model{Sigma2: 1}, 400, &SimSettings{Seed1: 9, Seed2: 9})
-	res, err = Fit(ctx, w, Order{D: 1, Q: 1, P: 1}, &FitSettings{Held: map[string]float64{"theta1": 1}})
-	if err != nil || len(res.Boundary) != 1 || res.Boundary[0].Part != "MA" || math.Abs(real(res.Boundary[0].Roots[0])-1) > 1e-12 {
-		t.Errorf("boundary flags %v (%v)", res.Boundary, err)
 	}
 }
 
@@ -230,5 +185,85 @@ func TestConstant(t *testing.T) {
 	seA := math.Sqrt(s2 * sxx / (n*sxx - sx*sx))
 	if !closeTo(c, a, 1e-6, 0) || !closeTo(se, seA, 1e-6, 0) || !closeTo(ests(res)[0], b, 1e-6, 0) {
 		t.Errorf("constant %v se %v, OLS %v se %v", c, se, a, seA)
+	}
+}
+
+// TestSelectRecoversPanic injects a panic into one fit of Select (through
+// the fitting function of selectOrders, run on the worker goroutine): the
+// process survives, the candidate carries an *InternalError naming the
+// order and the series, and Select returns that error with every
+// candidate (the others fitted normally).
+func TestSelectRecoversPanic(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.6}, Sigma2: 1}, 200, &SimSettings{Seed1: 3, Seed2: 4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	faulty := func(ctx context.Context, y []float64, o Order, opt *FitSettings) (*Result, error) {
+		if o.P == 1 && o.Q == 1 {
+			var s []int
+			_ = s[o.P+5] // an index panic, as a bug would make
+		}
+		return fit(ctx, y, o, opt)
+	}
+	cands, err := selectOrders(context.Background(), y, Grid{MaxP: 1, MaxQ: 1, Workers: 2}, &FitSettings{Name: "flow"}, faulty)
+	var ie *InternalError
+	if !errors.As(err, &ie) {
+		t.Fatalf("Select error %T %v, want *InternalError", err, err)
+	}
+	for _, w := range []string{"arma.Select: internal fault: fit of order (1,0,1) to flow", "index out of range", "a fault of the library"} {
+		if !strings.Contains(err.Error(), w) {
+			t.Errorf("message %q lacks %q", err, w)
+		}
+	}
+	if !strings.Contains(string(ie.Stack), "selectOne") {
+		t.Errorf("stack does not show the worker: %.200s", ie.Stack)
+	}
+	if len(cands) != 4 {
+		t.Fatalf("%d candidates, want 4", len(cands))
+	}
+	fitted := 0
+	for _, c := range cands {
+		if c.Order.P == 1 && c.Order.Q == 1 {
+			if !errors.As(c.Err, &ie) || c.Result != nil {
+				t.Errorf("panicking candidate: %v %v", c.Result, c.Err)
+			}
+			continue
+		}
+		if c.Err == nil && c.Result != nil {
+			fitted++
+		}
+	}
+	if fitted != 3 {
+		t.Errorf("%d other candidates fitted, want 3", fitted)
+	}
+}
+
+// TestSelectDefaultBIC: the zero Grid ranks by BIC, and each OrderFit
+// prints its criterion by name.
+func TestSelectDefaultBIC(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.7}, Sigma2: 1}, 300, &SimSettings{Seed1: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fits, err := Select(context.Background(), y, Grid{MaxP: 2, MaxQ: 1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, f := range fits {
+		if f.Criterion != ByBIC || f.Score != f.Result.BIC || i > 0 && f.Score < fits[0].Score && len(f.Result.Boundary) == 0 && len(fits[0].Result.Boundary) == 0 {
+			t.Errorf("%v: criterion %v score %v BIC %v", f.Order, f.Criterion, f.Score, f.Result.BIC)
+		}
+	}
+	want := "ARIMA" + fits[0].Order.String() + " BIC "
+	if s := fits[0].String(); !strings.HasPrefix(s, want) || strings.Contains(s, "score") {
+		t.Errorf("String() = %q, want the prefix %q", s, want)
+	}
+	failed := OrderFit{Order: Order{P: 1}, Criterion: ByAICc, Score: math.Inf(1), Err: errors.New("too short")}
+	if s := failed.String(); s != "ARIMA(1,0,0) failed: too short" {
+		t.Errorf("failed String() = %q", s)
+	}
+	aicc := OrderFit{Order: Order{Q: 1}, Criterion: ByAICc, Score: 12.345, Result: &Result{}}
+	if s := aicc.String(); s != "ARIMA(0,0,1) AICc 12.35" {
+		t.Errorf("AICc String() = %q", s)
 	}
 }

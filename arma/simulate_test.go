@@ -52,3 +52,29 @@ func TestSimulateStationaryStart(t *testing.T) {
 		t.Errorf("without burn-in the variance of y_0 is %.4g, indistinguishable from gamma0 %.4g: the test has no power", v0none, g0)
 	}
 }
+
+// TestBurnInMeaning: a positive BurnIn is that many draws discarded, the
+// same series as simulating without burn-in and dropping them (the same
+// seed draws the same innovations); zero is automatic, so it differs from
+// none.
+func TestBurnInMeaning(t *testing.T) {
+	m := Model{AR: []float64{0.9}, MA: []float64{0.2}, Mean: 1, Sigma2: 1}
+	got, err := Simulate(m, 50, &SimSettings{Seed1: 9, BurnIn: 30})
+	if err != nil {
+		t.Fatal(err)
+	}
+	all, err := Simulate(m, 80, &SimSettings{Seed1: 9, BurnIn: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range got {
+		if got[i] != all[30+i] {
+			t.Fatalf("sample %d: %v with BurnIn 30, %v after dropping 30 draws", i, got[i], all[30+i])
+		}
+	}
+	auto, _ := Simulate(m, 50, &SimSettings{Seed1: 9})
+	none, _ := Simulate(m, 50, &SimSettings{Seed1: 9, BurnIn: -1})
+	if auto[0] == none[0] {
+		t.Error("automatic burn-in gave the series without burn-in")
+	}
+}

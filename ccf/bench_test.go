@@ -14,20 +14,6 @@ func reportCPU(b *testing.B, c0 time.Duration) {
 	}
 }
 
-func benchSeries(n int) (x, y []float64) {
-	rng := rand.New(rand.NewPCG(3, 4))
-	x = make([]float64, n)
-	y = make([]float64, n)
-	for i := range x {
-		x[i] = rng.NormFloat64()
-		y[i] = rng.NormFloat64()
-		if i > 0 {
-			x[i] += 0.5 * x[i-1]
-		}
-	}
-	return x, y
-}
-
 // BenchmarkCross times Cross on both paths: K = 40 lags (direct) and
 // K = 2000 lags (FFT), n = 10^3..10^6. The peer figures come from
 // testdata/peer/ccf_numpy.py on the same sizes.

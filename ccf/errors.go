@@ -60,12 +60,8 @@ type NoResponseError struct {
 
 // Error describes the problem in one line, naming the input and the evidence.
 func (e *NoResponseError) Error() string {
-	op := ""
-	if e.Op != "" {
-		op = e.Op + ": "
-	}
 	return fmt.Sprintf("%sno significant response of the output to input %q at lags 0..%d (level %g; largest |t| = %.2f at lag %d); check that the input moved during the record, or lengthen the lags",
-		op, e.Input, e.MaxLag, e.Level, e.Largest, e.Lag)
+		errs.Prefix(e.Op), e.Input, e.MaxLag, e.Level, e.Largest, e.Lag)
 }
 
 // Unwrap returns ErrModel.
@@ -78,18 +74,7 @@ func withOp(op string, err error) error {
 	if err == nil {
 		return nil
 	}
-	var a *SampleError
-	if errors.As(err, &a) {
-		a.Op = op
-	}
-	var b *SeriesError
-	if errors.As(err, &b) {
-		b.Op = op
-	}
-	var c *SettingError
-	if errors.As(err, &c) {
-		c.Op = op
-	}
+	errs.SetOp(op, err)
 	var d *ModelError
 	if errors.As(err, &d) {
 		d.Op = op

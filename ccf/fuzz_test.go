@@ -4,37 +4,15 @@ import (
 	"errors"
 	"math"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // fuzzPair turns fuzz bytes into two series of equal or unequal length
 // with hostile values: NaN, +-Inf, 1e300, 1e-300, repeats (constant
 // runs) and values scaled by 1e150 or 1e-150.
 func fuzzPair(data []byte, cut uint8) (x, y []float64) {
-	var s []float64
-	prev := 0.0
-	for i := 0; i+1 < len(data) && len(s) < 300; i += 2 {
-		v := float64(int8(data[i+1])) / 8
-		switch data[i] % 24 {
-		case 0:
-			v = math.NaN()
-		case 1:
-			v = math.Inf(1)
-		case 2:
-			v = math.Inf(-1)
-		case 3:
-			v = 1e300
-		case 4:
-			v = 1e-300
-		case 5, 6, 7, 8:
-			v = prev
-		case 9:
-			v *= 1e150
-		case 10:
-			v *= 1e-150
-		}
-		s = append(s, v)
-		prev = v
-	}
+	s := testutil.HostileSeries(data, testutil.Hostile{Max: 300, Div: 8, Up: 1e150, Down: 1e-150})
 	h := len(s) / 2
 	x, y = s[:h], s[h:]
 	if cut%5 != 0 && len(y) > len(x) {

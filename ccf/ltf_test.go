@@ -155,24 +155,10 @@ func TestDistributedLagExactFit(t *testing.T) {
 				t.Errorf("ARP %d: v_%d = %.12g, want %g", arp, k, v, want[k])
 			}
 		}
-		if math.Abs(res.Const-2) > 1e-9 || !(res.Sigma2 < 1e-12*variance(y[2:])) {
+		if math.Abs(res.Const-2) > 1e-9 || !(res.Sigma2 < 1e-12*testutil.Variance(y[2:])) {
 			t.Errorf("ARP %d: constant %.12g (want 2), sigma2 %g (want about 0)", arp, res.Const, res.Sigma2)
 		}
 	}
-}
-
-// variance returns the variance of x with divisor len(x).
-func variance(x []float64) float64 {
-	m := 0.0
-	for _, v := range x {
-		m += v
-	}
-	m /= float64(len(x))
-	s := 0.0
-	for _, v := range x {
-		s += (v - m) * (v - m)
-	}
-	return s / float64(len(x))
 }
 
 // TestDistributedLagOverflow: an output of magnitude 1e160 (beyond

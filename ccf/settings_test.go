@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // TestSettingsValidate: every field of Settings, IdentifySettings and
@@ -142,16 +144,7 @@ func TestMessages(t *testing.T) {
 			t.Errorf("%s: no error", c.name)
 			continue
 		}
-		for _, w := range c.want {
-			if !strings.Contains(c.err.Error(), w) {
-				t.Errorf("%s: %q lacks %q", c.name, c.err, w)
-			}
-		}
-		for _, w := range c.not {
-			if strings.Contains(c.err.Error(), w) {
-				t.Errorf("%s: %q holds %q", c.name, c.err, w)
-			}
-		}
+		testutil.CheckWords(t, c.name, c.err.Error(), c.want, c.not)
 	}
 	var ve *SampleError
 	if err := cases[2].err; !errors.As(err, &ve) || ve.Index != 17 || ve.Series != "flow" || !(ve.Limit > 0) {

@@ -16,8 +16,9 @@ import (
 // expected production says where in the spec the slip is, the token and
 // its neighbours say what the slip is. The expected productions are
 // matched by the text participle prints for them (the names of the
-// grammar's types); TestErrorTable and TestMutations fail when a change
-// of the grammar leaves a slip without its message.
+// grammar's types); TestBadInput (the exact-message table) and
+// TestMutations fail when a change of the grammar leaves a slip without
+// its message.
 
 // slip is a refused text: its tokens, the token at which the parse
 // stopped and the production expected there ("" after a complete

@@ -62,12 +62,8 @@ type NotWhiteError struct {
 
 // Error describes the problem in one line, naming the series and the test's figures.
 func (e *NotWhiteError) Error() string {
-	op := ""
-	if e.Op != "" {
-		op = e.Op + ": "
-	}
 	return fmt.Sprintf("%sseries %q is not white after prewhitening: Ljung-Box Q = %.4g on %d df over %d lags, p = %.3g < %g; try a larger MaxOrder, differencing or an ARMA filter",
-		op, e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
+		errs.Prefix(e.Op), e.Name, e.Q, e.DF, e.Lags, e.P, e.Level)
 }
 
 // Unwrap returns ErrModel.
@@ -87,18 +83,7 @@ func withOp(op string, err error) error {
 		list = []error{err}
 	}
 	for _, e := range list {
-		var a *SampleError
-		if errors.As(e, &a) {
-			a.Op = op
-		}
-		var b *SeriesError
-		if errors.As(e, &b) {
-			b.Op = op
-		}
-		var c *SettingError
-		if errors.As(e, &c) {
-			c.Op = op
-		}
+		errs.SetOp(op, e)
 		var d *NotWhiteError
 		if errors.As(e, &d) {
 			d.Op = op

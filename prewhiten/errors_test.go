@@ -3,15 +3,21 @@ package prewhiten_test
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/testutil"
+
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/prewhiten"
 )
 
+// TestBadInput: bad series and settings through Fit, Pair and Apply give
+// the package's typed errors naming the series, index or setting.
 func TestBadInput(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 9))
 	x := make([]float64, 80)
@@ -108,147 +114,165 @@ func TestNotWhite(t *testing.T) {
 	}
 }
 
-// TestARMAFilter: a caller-given ARMA(1,1) filter applied to the series
-// it describes returns (nearly) the innovations: after the start-up, the
-// filtered series equals the innovations the series was built from.
-func TestARMAFilter(t *testing.T) {
-	rng := rand.New(rand.NewPCG(4, 4))
-	n := 300
-	a := make([]float64, n)
-	x := make([]float64, n)
-	for i := range a {
-		a[i] = rng.NormFloat64()
+// TestConstantMessages: a constant input or output is refused before
+// filtering, and each message names the user's series (not "output
+// (filtered)"), mentions differencing only when there was one, and
+// prints a rounded value (not rounding noise such as -2.22e-15).
+func TestConstantMessages(t *testing.T) {
+	flat := make([]float64, 60)
+	ramp := make([]float64, 60)
+	for i := range flat {
+		flat[i] = 0.1 + 0.2 // 0.30000000000000004
+		ramp[i] = 5 + 0.5*float64(i)
 	}
-	// (1 - 0.6 B) x = (1 - 0.3 B) a  (Box-Jenkins signs: phi1 0.6, theta1 0.3)
-	for i := range x {
-		x[i] = a[i]
-		if i > 0 {
-			x[i] += 0.6*x[i-1] - 0.3*a[i-1]
+	x := walk(60, 3)
+	cases := []struct {
+		name string
+		err  error
+		want []string
+		not  []string
+	}{
+		{"Fit constant", second(prewhiten.Fit(flat, &prewhiten.Settings{Name: "valve"})),
+			[]string{`series "valve" is constant (every sample is 0.3;`}, []string{"differenc", "0.30000000000000004"}},
+		{"Fit constant with Diff", second(prewhiten.Fit(flat, &prewhiten.Settings{Name: "valve", Diff: []float64{1, -1}})),
+			[]string{`series "valve" is constant (every sample is 0.3;`}, []string{"differenc"}},
+		{"Fit ramp with Diff", second(prewhiten.Fit(ramp, &prewhiten.Settings{Name: "valve", Diff: []float64{1, -1}})),
+			[]string{`prewhiten.Fit: series "valve" is constant (after the differencing (1 - B) every sample is 0.5: its levels lie on a straight line or repeat; use less differencing)`}, nil},
+		{"Fit ramp with Order", second(prewhiten.Fit(ramp, &prewhiten.Settings{Name: "valve", Order: &arma.Order{D: 1, Q: 1}})),
+			[]string{`"valve" is constant (after the differencing (1 - B) every sample is 0.5`}, nil},
+		{"Pair constant output", second(prewhiten.Pair(x, flat, "flow", &prewhiten.Settings{Name: "valve"})),
+			[]string{`prewhiten.Pair: series "flow" is constant (every sample is 0.3; a constant series carries no information to prewhiten or correlate)`}, []string{"filtered", "e-1"}},
+		{"IdentifyNoise constant", second(prewhiten.IdentifyNoise(context.Background(), flat, &prewhiten.NoiseSettings{Name: "level"})),
+			[]string{`prewhiten.IdentifyNoise: series "level" is constant (every sample is 0.3;`}, []string{"differenc"}},
+	}
+	for _, c := range cases {
+		var ce *prewhiten.SeriesError
+		if !errors.As(c.err, &ce) || !errors.Is(c.err, prewhiten.ErrConstant) {
+			t.Errorf("%s: %T %v, want a *SeriesError of kind ErrConstant", c.name, c.err, c.err)
+			continue
 		}
-	}
-	m := arma.Model{AR: []float64{0.6}, MA: []float64{0.3}}
-	f, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &m})
-	if err != nil {
-		t.Fatal(err)
-	}
-	out, start, err := f.Apply(x, "x")
-	if err != nil {
-		t.Fatal(err)
-	}
-	// Apply removes the sample mean and starts the MA recursion at zero;
-	// both effects decay as 0.3^t (and the mean offset is tiny), so after
-	// 40 samples the difference is below 1e-2 of the innovation scale.
-	mean := 0.0
-	for _, v := range x {
-		mean += v
-	}
-	mean /= float64(n)
-	shift := mean * (1 - 0.6) / (1 - 0.3)
-	for i := start + 40; i < n; i++ {
-		if math.Abs(out[i]+shift-a[i]) > 1e-2 {
-			t.Fatalf("index %d: filtered %g, innovation %g", i, out[i]+shift, a[i])
-		}
-	}
-	if got := f.String(); got != "(1 - 0.6 B) / (1 - 0.3 B) x" {
-		t.Errorf("String() = %q", got)
+		testutil.CheckWords(t, c.name, c.err.Error(), c.want, c.not)
 	}
 }
 
-// TestARIMAFallback: an integrated input with a strong MA term,
-// (1 - B) x = (1 - 0.85 B) a, is not whitened by an AR of order <= 2; Pair
-// falls back to an ARIMA(1,1,1) filter that whitens it, and with KeepAR
-// reports the failure instead.
-func TestARIMAFallback(t *testing.T) {
-	rng := rand.New(rand.NewPCG(2, 8))
-	n := 800
-	x := make([]float64, n)
-	prev := 0.0
-	for i := 1; i < n; i++ {
-		a := rng.NormFloat64()
-		x[i] = x[i-1] + a - 0.85*prev
-		prev = a
+// try runs f, failing on a panic or an error that is not one of the
+// packages' typed errors (a pointer type of arma, prewhiten or ccf, or
+// one of the shared shapes); an error of prewhiten or ccf must also
+// match one of the shared kinds.
+func try(t *testing.T, name string, f func() error) {
+	t.Helper()
+	defer func() {
+		if r := recover(); r != nil {
+			t.Errorf("%s: panic %v", name, r)
+		}
+	}()
+	err := f()
+	if err == nil {
+		return
 	}
-	var nw *prewhiten.NotWhiteError
-	if _, err := prewhiten.Pair(x, x, "y", &prewhiten.Settings{MaxOrder: 2, KeepAR: true}); !errors.As(err, &nw) {
-		t.Fatalf("AR(<=2) only: want NotWhiteError, got %v", err)
+	typ := fmt.Sprintf("%T", err)
+	if !strings.HasPrefix(typ, "*arma.") && !strings.HasPrefix(typ, "*prewhiten.") && !strings.HasPrefix(typ, "*ccf.") && !strings.HasPrefix(typ, "*errs.") {
+		t.Errorf("%s: untyped error %s %v", name, typ, err)
 	}
-	res, err := prewhiten.Pair(x, x, "y", &prewhiten.Settings{MaxOrder: 2})
-	if err != nil {
-		t.Fatalf("with the ARIMA fallback: %v", err)
+	if strings.HasPrefix(typ, "*arma.") {
+		return // arma's own errors (its migration to the shared kinds is its own)
 	}
-	// Either fallback may win (ARIMA(1,1,1), or ARIMA(1,0,1) with its AR
-	// root near 1): both carry the MA term the AR could not.
-	if len(res.Filter.MA) != 2 || !res.White {
-		t.Errorf("fallback filter %v, white %v", res.Filter, res.White)
+	for _, k := range []error{prewhiten.ErrSample, prewhiten.ErrShort, prewhiten.ErrConstant, prewhiten.ErrLength, prewhiten.ErrSetting,
+		prewhiten.ErrModel, prewhiten.ErrConvergence, prewhiten.ErrInternal, ccf.ErrOverflow} {
+		if errors.Is(err, k) {
+			return
+		}
 	}
-	t.Logf("fallback filter %v (Ljung-Box p = %.3f)", res.Filter, res.Check.P)
+	t.Errorf("%s: error of no kind %s %v", name, typ, err)
 }
 
-// TestHostileSettings feeds settings and hand-built filters that used to
-// panic or give unbounded numbers: each must come back as a typed error,
-// and the series must be left as they were.
-func TestHostileSettings(t *testing.T) {
-	x := make([]float64, 200)
-	y := make([]float64, 200)
-	for i := 1; i < len(x); i++ {
-		x[i] = 0.7*x[i-1] + math.Sin(float64(i)*1.3)
-		y[i] = 0.5*x[i-1] + 0.2*math.Cos(float64(i)*0.7)
+// TestBadInputCalls calls every exported function and method of arma,
+// prewhiten and ccf that takes series with nil, one- and two-sample,
+// NaN, infinite, constant and 1e300 series, and lags -1, 0, 3 and
+// MaxInt: each returns a typed error or a result, never a panic.
+// (arma.AutocovTo is left out: it documents a panic for more lags than
+// samples, a programmer error, and does not check its input.) This
+// probe found prewhiten.Fit passing a 1e300 sample to arma, whose error
+// named "series" instead of the input, a one-sample input reported as
+// "constant", the zero arma.Result's LjungBox blaming its series, and a
+// nil *ccf.Identification panicking in String.
+func TestBadInputCalls(t *testing.T) {
+	ctx := context.Background()
+	nan := math.NaN()
+	sets := map[string][]float64{"nil": nil, "one": {1}, "two": {1, 2}, "nan": {1, nan, 3, 4, 5, 6}, "inf": {1, 2, math.Inf(1), 4, 5}, "const": {2, 2, 2, 2, 2, 2, 2, 2}, "big": {1e300, -1e300, 1, 2, 3, 4, 5, 6, 7, 8}}
+	for nm, x := range sets {
+		for _, lag := range []int{-1, 0, 3, math.MaxInt} {
+			try(t, fmt.Sprint("ACF ", nm, lag), func() error { _, err := arma.ACF(x, lag); return err })
+			try(t, fmt.Sprint("PACF ", nm, lag), func() error { _, err := arma.PACF(x, lag); return err })
+			try(t, fmt.Sprint("LjungBox ", nm, lag), func() error { _, err := arma.LjungBox(x, lag, 0); return err })
+			try(t, fmt.Sprint("YW ", nm, lag), func() error { _, err := arma.YuleWalker(x, lag); return err })
+			try(t, fmt.Sprint("YWO ", nm, lag), func() error { _, err := arma.YuleWalkerOrder(x, lag); return err })
+			try(t, fmt.Sprint("HR ", nm, lag), func() error { _, _, err := arma.HannanRissanen(x, lag, 1, 0); return err })
+			try(t, fmt.Sprint("ImpulseWeights ", nm, lag), func() error { _, err := ccf.ImpulseWeights(x, x, lag, "", nil); return err })
+		}
+		try(t, "PACFFromACF "+nm, func() error { arma.PACFFromACF(x); return nil })
+		try(t, "pw Fit "+nm, func() error { _, err := prewhiten.Fit(x, nil); return err })
+		try(t, "pw Pair "+nm, func() error { _, err := prewhiten.Pair(x, x, "", nil); return err })
+		try(t, "pw IdentifyNoise "+nm, func() error { _, err := prewhiten.IdentifyNoise(ctx, x, nil); return err })
+		try(t, "pw Apply "+nm, func() error {
+			_, _, err := prewhiten.Filter{Diff: []float64{1}, AR: []float64{1, -0.5}, MA: []float64{1}}.Apply(x, "")
+			return err
+		})
+		try(t, "NoiseSeries "+nm, func() error {
+			_, _, err := ccf.NoiseSeries(x, [][]float64{x}, []*ccf.Weights{{V: []float64{1, 0.5}}})
+			return err
+		})
+		try(t, "DL "+nm, func() error { _, err := ccf.DistributedLag(x, [][]float64{x}, nil); return err })
+		try(t, "Identify "+nm, func() error {
+			_, err := ccf.Identify(&ccf.Weights{V: x, SE: x}, nil)
+			return err
+		})
+		try(t, "Corner "+nm, func() error { ccf.Corner(&ccf.Weights{V: x, SE: x}, 5, 5); return nil })
+		try(t, "Psi "+nm, func() error { _, err := arma.Psi(x, x, 5); return err })
+		try(t, "Select "+nm, func() error { _, err := arma.Select(ctx, x, arma.Grid{MaxP: 1, MaxQ: 1}, nil); return err })
+		try(t, "FitNoise "+nm, func() error {
+			_, err := arma.FitNoise(ctx, x, arma.Model{AR: []float64{0.3}}.Noise(), nil, nil)
+			return err
+		})
 	}
-	x0 := append([]float64(nil), x...)
-	y0 := append([]float64(nil), y...)
+	try(t, "Corner nil", func() error { ccf.Corner(nil, 5, 5); return nil })
+	try(t, "Corner neg", func() error { ccf.Corner(&ccf.Weights{V: []float64{1, 2}, SE: []float64{1, 1}}, -5, -5); return nil })
+	var r *arma.Result
+	try(t, "nil Result LjungBox", func() error { _, err := r.LjungBox(5); return err })
+	try(t, "nil Result String", func() error { _ = r.String(); return nil })
+	try(t, "nil Result Constant", func() error { r.EquationConstant(); return nil })
+	try(t, "zero Result", func() error {
+		_ = (&arma.Result{}).String()
+		(&arma.Result{}).EquationConstant()
+		_, err := (&arma.Result{}).LjungBox(3)
+		return err
+	})
+	var id *ccf.Identification
+	try(t, "nil Identification String", func() error { _ = id.String(); return nil })
+	try(t, "zero Identification String", func() error { _ = (&ccf.Identification{}).String(); return nil })
+	try(t, "Form String", func() error { _ = ccf.Form{}.String(); return nil })
+	try(t, "ARFit zero", func() error { _ = arma.ARFit{}.Poly(); _ = arma.ARFit{}.Residuals([]float64{1, 2}); return nil })
+	try(t, "ARFit nil resid", func() error {
+		f, _ := arma.YuleWalker([]float64{1, 3, 2, 5, 4, 6, 3, 7}, 2)
+		_ = f.Residuals(nil)
+		return nil
+	})
+	try(t, "Filter String zero", func() error { _ = prewhiten.Filter{}.String(); return nil })
+	try(t, "ApplyInput zero", func() error { _, _, err := prewhiten.Filter{}.ApplyInput([]float64{1, 2, 3}); return err })
+	// The fixes this probe led to.
+	var ve *prewhiten.SampleError
+	if _, err := prewhiten.Fit(sets["big"], &prewhiten.Settings{Name: "valve"}); !errors.As(err, &ve) || ve.Series != "valve" || ve.Index != 0 || ve.Limit != arma.MaxAbs ||
+		err.Error() != `prewhiten.Fit: series "valve" sample 0 is 1e+300, beyond the largest magnitude accepted, 1e+140 (rescale the series: change its units)` {
+		t.Errorf("1e300 sample: %T %v", err, err)
+	}
 	var se *prewhiten.SeriesError
-	long := make([]float64, 300) // (1 - B^299), longer than the series
-	long[0], long[299] = 1, -1
-	if _, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: long}); !errors.As(err, &se) || se.Need != 302 {
-		t.Errorf("differencing longer than the series: %v", err)
+	if _, err := prewhiten.Fit(sets["one"], nil); !errors.As(err, &se) || se.Need != 3 || !errors.Is(err, prewhiten.ErrShort) {
+		t.Errorf("one sample: %T %v", err, err)
 	}
-	if _, err := prewhiten.Fit(x, &prewhiten.Settings{MaxOrder: math.MaxInt}); !errors.As(err, &se) || se.Need < len(x) {
-		t.Errorf("MaxOrder = MaxInt: %v", err)
+	if _, err := (&arma.Result{}).LjungBox(3); err == nil || !strings.Contains(err.Error(), "needs a result of Fit or FitNoise") {
+		t.Errorf("zero Result: %v", err)
 	}
-	if _, err := prewhiten.Pair(x, y, "y", &prewhiten.Settings{Lags: math.MaxInt}); !errors.As(err, &se) || se.Need < len(x) {
-		t.Errorf("Lags = MaxInt: %v", err)
-	}
-	var ae *prewhiten.SettingError
-	if _, err := prewhiten.Fit(x, &prewhiten.Settings{ARMA: &arma.Model{AR: []float64{math.NaN()}}}); !errors.As(err, &ae) ||
-		err.Error() != "prewhiten.Fit: Settings.ARMA = a NaN or infinite coefficient, Mean or Sigma2: must be finite values" {
-		t.Errorf("caller's ARMA with a NaN coefficient: %v", err)
-	}
-	f, err := prewhiten.Fit(x, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for name, g := range map[string]prewhiten.Filter{
-		"zero value":        {},
-		"NaN in AR":         {Diff: []float64{1}, AR: []float64{1, math.NaN()}, MA: []float64{1}},
-		"AR leading 2":      {Diff: []float64{1}, AR: []float64{2, 0.5}, MA: []float64{1}},
-		"non-invertible MA": {Diff: []float64{1}, AR: f.AR, MA: []float64{1, 3}}, // root B = -1/3
-	} {
-		if _, _, err := g.Apply(y, "y"); !errors.As(err, &ae) {
-			t.Errorf("Apply with a filter %s: %v", name, err)
-		}
-	}
-	for i := range x {
-		if x[i] != x0[i] || y[i] != y0[i] {
-			t.Fatalf("series modified at %d", i)
-		}
-	}
-}
-
-// TestZeroFilter: the zero Filter reports order 0 and start 0 (nil
-// polynomials count as {1}, as documented; was -1 and -2), and Apply
-// rejects it with a *SettingError naming Filter.Diff.
-func TestZeroFilter(t *testing.T) {
-	var f prewhiten.Filter
-	if f.Order() != 0 || f.Start() != 0 {
-		t.Errorf("zero Filter: order %d, start %d; want 0 and 0", f.Order(), f.Start())
-	}
-	f.AR = []float64{1, -0.5}
-	if f.Order() != 1 || f.Start() != 1 {
-		t.Errorf("AR only: order %d, start %d; want 1 and 1", f.Order(), f.Start())
-	}
-	var ae *prewhiten.SettingError
-	if _, _, err := (prewhiten.Filter{}).Apply([]float64{1, 2, 3}, "y"); !errors.As(err, &ae) || ae.Setting != "Filter.Diff" ||
-		err.Error() != "prewhiten.Filter.Apply: Filter.Diff = nil: must be a polynomial with constant term 1 ({1} for none)" {
-		t.Errorf("Apply of the zero Filter: %v", err)
+	if got := id.String(); got != "<nil ccf.Identification>" {
+		t.Errorf("nil Identification: %q", got)
 	}
 }

@@ -8,7 +8,6 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/arma"
-	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/prewhiten"
 )
@@ -39,25 +38,8 @@ func TestIdentifyNoise(t *testing.T) {
 			y[j] += noise[j]
 		}
 		x, y = x[100:], y[100:]
-		pw, err := prewhiten.Pair(x, y, "y", nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		w, err := ccf.ImpulseWeights(pw.Alpha[pw.Start:], pw.Beta[pw.Start:], 20, "x", nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		id, err := ccf.Identify(w, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		best := id.Forms[0]
-		v := make([]float64, 31)
-		copy(v[best.Delay:], impulse(t, best.Num, best.Den, 31-best.Delay))
-		nz, _, err := ccf.NoiseSeries(y, [][]float64{x}, []*ccf.Weights{{Input: "x", V: v, SE: v}})
-		if err != nil {
-			t.Fatal(err)
-		}
+		best := bestForm(t, x, y, "y", nil, 20, "x")
+		nz := formNoise(t, best, y, x, "x")
 		nid, err := prewhiten.IdentifyNoise(context.Background(), nz, nil)
 		if err != nil {
 			t.Fatal(err)
@@ -138,11 +120,11 @@ func TestIdentifyNoiseNegativeBound(t *testing.T) {
 	}
 }
 
-// TestIdentifyNoiseBadLags: a negative Lags is refused by Validate, and
+// TestIdentifyNoiseBadInput: a negative Lags is refused by Validate, and
 // one at or beyond n (the samples after the leading NaN run) is an
 // *SettingError naming NoiseSettings.Lags with the value and the allowed
 // range.
-func TestIdentifyNoiseBadLags(t *testing.T) {
+func TestIdentifyNoiseBadInput(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	y := make([]float64, 52)
 	y[0], y[1] = math.NaN(), math.NaN()
@@ -160,6 +142,29 @@ func TestIdentifyNoiseBadLags(t *testing.T) {
 		var ae *prewhiten.SettingError
 		if !errors.As(err, &ae) || ae.Setting != "NoiseSettings.Lags" || err.Error() != c.want {
 			t.Errorf("Lags %d: %v, want a *SettingError %q", c.lags, err, c.want)
+		}
+	}
+}
+
+// TestIdentifyNoiseHighMA: MaxQ 40 fits MA polynomials of degree above
+// 32 (beyond the stability test's stack buffer) on arma.Select's worker
+// goroutines. Pure MA candidates (MaxP negative: order zero only) up to
+// 40 fit without a panic; the AR(1) series picks a model.
+func TestIdentifyNoiseHighMA(t *testing.T) {
+	y, err := arma.Simulate(arma.Model{AR: []float64{0.5}, Sigma2: 1}, 300, &arma.SimSettings{Seed1: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	id, err := prewhiten.IdentifyNoise(context.Background(), y, &prewhiten.NoiseSettings{MaxP: -1, MaxQ: 40})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(id.Candidates) != 41 {
+		t.Errorf("%d candidates, want 41", len(id.Candidates))
+	}
+	for _, c := range id.Candidates {
+		if c.Order.Q > 32 && c.Result == nil {
+			t.Errorf("%v: %v", c.Order, c.Err)
 		}
 	}
 }

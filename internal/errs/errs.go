@@ -54,12 +54,32 @@ func IsKind(e error) bool {
 	return false
 }
 
-// prefix returns "op: " or "" for an empty op.
-func prefix(op string) string {
+// Prefix returns "op: ", or "" for an empty op: the start of every
+// message of an error that names the exported function called.
+func Prefix(op string) string {
 	if op == "" {
 		return ""
 	}
 	return op + ": "
+}
+
+// SetOp names the exported function op in the first SampleError,
+// SeriesError and SettingError found in err's chain (errors.As), so that
+// an exported function calling another applies it last and its own name
+// wins. A package adds its own error types after this call.
+func SetOp(op string, err error) {
+	var a *SampleError
+	if errors.As(err, &a) {
+		a.Op = op
+	}
+	var b *SeriesError
+	if errors.As(err, &b) {
+		b.Op = op
+	}
+	var c *SettingError
+	if errors.As(err, &c) {
+		c.Op = op
+	}
 }
 
 // SampleError reports one bad sample: the caller's name for the series,
@@ -76,7 +96,7 @@ type SampleError struct {
 
 // Error describes the sample and the rule it breaks in one line.
 func (e *SampleError) Error() string {
-	s := fmt.Sprintf("%sseries %q sample %d is %v", prefix(e.Op), e.Series, e.Index, e.Value)
+	s := fmt.Sprintf("%sseries %q sample %d is %v", Prefix(e.Op), e.Series, e.Index, e.Value)
 	if e.Limit > 0 && !math.IsNaN(e.Value) && !math.IsInf(e.Value, 0) {
 		return s + ", beyond the largest magnitude accepted, " + strconv.FormatFloat(e.Limit, 'g', -1, 64) + " (rescale the series: change its units)"
 	}
@@ -102,7 +122,7 @@ type SeriesError struct {
 
 // Error describes the problem in one line.
 func (e *SeriesError) Error() string {
-	s := fmt.Sprintf("%sseries %q", prefix(e.Op), e.Series)
+	s := fmt.Sprintf("%sseries %q", Prefix(e.Op), e.Series)
 	switch e.Kind {
 	case ErrShort:
 		s += fmt.Sprintf(": %d samples, at least %d needed", e.Have, e.Need)
@@ -144,7 +164,7 @@ type SettingError struct {
 
 // Error describes the setting and its rule in one line.
 func (e *SettingError) Error() string {
-	return prefix(e.Op) + e.Setting + " = " + e.Value + ": " + e.Rule
+	return Prefix(e.Op) + e.Setting + " = " + e.Value + ": " + e.Rule
 }
 
 // Unwrap returns ErrSetting.
@@ -164,7 +184,7 @@ type ModelError struct {
 
 // Error describes the problem in one line.
 func (e *ModelError) Error() string {
-	return prefix(e.Op) + e.Part + ": " + e.Problem
+	return Prefix(e.Op) + e.Part + ": " + e.Problem
 }
 
 // Unwrap returns Err, or ErrModel when Err is nil.
@@ -189,7 +209,7 @@ type ConvergenceError struct {
 
 // Error describes the stop in one line.
 func (e *ConvergenceError) Error() string {
-	return fmt.Sprintf("%sno convergence after %d iterations: %s", prefix(e.Op), e.Iter, e.Reason)
+	return fmt.Sprintf("%sno convergence after %d iterations: %s", Prefix(e.Op), e.Iter, e.Reason)
 }
 
 // Unwrap returns ErrConvergence.
@@ -207,7 +227,7 @@ type InternalError struct {
 
 // Error describes the fault in one line (the stack is in Stack).
 func (e *InternalError) Error() string {
-	return fmt.Sprintf("%sinternal fault: %v (a fault of the library; please report it with this message)", prefix(e.Op), e.Value)
+	return fmt.Sprintf("%sinternal fault: %v (a fault of the library; please report it with this message)", Prefix(e.Op), e.Value)
 }
 
 // Unwrap returns ErrInternal.

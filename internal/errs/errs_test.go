@@ -2,7 +2,9 @@ package errs
 
 import (
 	"errors"
+	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -101,5 +103,30 @@ func TestIsKind(t *testing.T) {
 	}
 	if IsKind(&SampleError{}) || IsKind(errors.New("bad sample")) {
 		t.Error("an error that is not a kind is taken for one")
+	}
+}
+
+// TestSetOp: SetOp renames the Op of each shared shape in a wrapped
+// chain and leaves other errors alone; Prefix is "op: " or nothing.
+func TestSetOp(t *testing.T) {
+	for _, err := range []error{
+		&SampleError{Op: "inner", Series: "y", Index: 1, Value: math.NaN()},
+		&SeriesError{Op: "inner", Series: "y", Kind: ErrShort, Have: 2, Need: 5},
+		&SettingError{Op: "inner", Setting: "Lags", Value: "-1", Rule: "must be positive"},
+	} {
+		wrapped := fmt.Errorf("context: %w", err)
+		SetOp("outer.Call", wrapped)
+		if got := err.Error(); !strings.HasPrefix(got, "outer.Call: ") {
+			t.Errorf("%T: got %q, want the prefix %q", err, got, "outer.Call: ")
+		}
+	}
+	m := &ModelError{Op: "inner", Part: "AR", Problem: "not stationary"}
+	SetOp("outer.Call", m)
+	if m.Op != "inner" {
+		t.Errorf("ModelError renamed to %q: SetOp must leave the package's own types to it", m.Op)
+	}
+	SetOp("outer.Call", nil) // no error, nothing to rename: must not panic
+	if Prefix("") != "" || Prefix("tf.Fit") != "tf.Fit: " {
+		t.Errorf("Prefix: got %q and %q", Prefix(""), Prefix("tf.Fit"))
 	}
 }

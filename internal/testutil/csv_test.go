@@ -49,9 +49,9 @@ func TestReadCSV(t *testing.T) {
 	}
 }
 
-// TestLoadCSVErrors: each malformed file gives an error that starts with
+// TestLoadCSVBadInput: each malformed file gives an error that starts with
 // the file and the line at fault and says what is wrong.
-func TestLoadCSVErrors(t *testing.T) {
+func TestLoadCSVBadInput(t *testing.T) {
 	for _, c := range []struct {
 		name, body string
 		text       []string

@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"strings"
 	"testing"
 )
 
@@ -83,4 +84,36 @@ func Complex(re, im []float64) []complex128 {
 		c[i] = complex(re[i], im[i])
 	}
 	return c
+}
+
+// Variance returns the variance of x with divisor len(x) (the population
+// variance, numpy.var's default), the scale the simulation tests compare
+// signal and noise with.
+func Variance(x []float64) float64 {
+	m := 0.0
+	for _, v := range x {
+		m += v
+	}
+	m /= float64(len(x))
+	s := 0.0
+	for _, v := range x {
+		s += (v - m) * (v - m)
+	}
+	return s / float64(len(x))
+}
+
+// CheckWords reports, naming the case, each of want that msg lacks and
+// each of not that msg holds: the key-word check of error messages.
+func CheckWords(t testing.TB, name, msg string, want, not []string) {
+	t.Helper()
+	for _, w := range want {
+		if !strings.Contains(msg, w) {
+			t.Errorf("%s: %q lacks %q", name, msg, w)
+		}
+	}
+	for _, w := range not {
+		if strings.Contains(msg, w) {
+			t.Errorf("%s: %q holds %q", name, msg, w)
+		}
+	}
 }

@@ -153,7 +153,10 @@ var errorCases = []struct {
 	{"y = w0 x + w1 y", 1, 12, ErrModel, "y is the output; it cannot also be an input (past outputs enter through the denominators and the noise model, as in w0 / (1 - d1 B) x + 1 / (1 - p1 B) a)"},
 }
 
-func TestErrorTable(t *testing.T) {
+// TestBadInput: each spec of errorCases, the exact-message table of
+// refused specs, gives a *parse.Error of its kind at its line:column with
+// its message word for word.
+func TestBadInput(t *testing.T) {
 	if len(errorCases) < 40 {
 		t.Fatalf("only %d error cases", len(errorCases))
 	}
