@@ -642,7 +642,7 @@ func TestFitBadInput(t *testing.T) {
 		t.Errorf("unknown fixed: %v", err)
 	}
 	if _, err := Fit(ctx, y, Order{P: 1}, &FitSettings{Regressors: [][]float64{{1, 2}}}); !errors.As(err, &se) || se.Kind != ErrLength ||
-		err.Error() != `arma.Fit: series "x1" has 2 samples, 200 expected (a regressor needs the length of series)` {
+		err.Error() != `arma.Fit: series "x1" has 2 samples against 200 (a regressor needs the length of series)` {
 		t.Errorf("short regressor: %v", err)
 	}
 	if _, err := Fit(ctx, y, Order{P: 2}, &FitSettings{First: 1}); !errors.As(err, &ae) {

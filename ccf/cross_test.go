@@ -221,7 +221,7 @@ func TestCrossBadInput(t *testing.T) {
 	names := &Settings{Names: [2]string{"burner", "temp"}}
 	var le *SeriesError
 	if _, err := Cross(good, good[:5], 2, names); !errors.As(err, &le) || !errors.Is(err, ErrLength) || le.Have != 5 || le.Need != 7 || le.Series != "temp" ||
-		err.Error() != `ccf.Cross: series "temp" has 5 samples, 7 expected (the length of "burner"; the series must be of equal length)` {
+		err.Error() != `ccf.Cross: series "temp" has 5 samples against 7 (the length of "burner"; the series must be of equal length)` {
 		t.Errorf("unequal lengths: got %v", err)
 	}
 	var se *SeriesError

@@ -31,7 +31,7 @@ func TestBadInput(t *testing.T) {
 
 	var le *prewhiten.SeriesError
 	if _, err := prewhiten.Pair(x, y[:70], "temp", s); !errors.As(err, &le) || !errors.Is(err, prewhiten.ErrLength) || le.Series != "temp" || le.Have != 70 || le.Need != 80 ||
-		err.Error() != `prewhiten.Pair: series "temp" has 70 samples, 80 expected (the length of input "burner"; input and output must be of equal length)` {
+		err.Error() != `prewhiten.Pair: series "temp" has 70 samples against 80 (the length of input "burner"; input and output must be of equal length)` {
 		t.Errorf("unequal lengths: %v", err)
 	}
 	nan := append([]float64(nil), y...)

@@ -45,13 +45,13 @@ func TestFitBadInput(t *testing.T) {
 		msg    string
 	}{
 		{"missing output", mcModel(), func() map[string][]float64 { d := good(); delete(d, "y"); return d },
-			ErrName, "y", `tf.Fit: series "y" is not known (the model's output is not in the data; check the series names)`},
+			ErrName, "y", `tf.Fit: series "y": the model's output is not in the data; check the series names`},
 		{"missing input", mcModel(), func() map[string][]float64 { d := good(); delete(d, "x"); return d },
-			ErrName, "x", `tf.Fit: series "x" is not known (an input of the model is not in the data; check the series names)`},
+			ErrName, "x", `tf.Fit: series "x": an input of the model is not in the data; check the series names`},
 		{"extra series", mcModel(), func() map[string][]float64 { d := good(); d["xx"] = x; return d },
-			ErrName, "xx", `tf.Fit: series "xx" is not known (it is in the data but not used by the model, often a misspelt input name; set FitSettings.IgnoreExtra to allow extra series)`},
+			ErrName, "xx", `tf.Fit: series "xx": it is in the data but not used by the model, often a misspelt input name; set FitSettings.IgnoreExtra to allow extra series`},
 		{"unequal lengths", mcModel(), func() map[string][]float64 { d := good(); d["x"] = d["x"][:50]; return d },
-			ErrLength, "x", `tf.Fit: series "x" has 50 samples, 60 expected (the length of the output "y"; every series of one fit has one length)`},
+			ErrLength, "x", `tf.Fit: series "x" has 50 samples against 60 (the length of the output "y"; every series of one fit has one length)`},
 		{"too few observations", mcModel(), func() map[string][]float64 {
 			d := good()
 			d["x"], d["y"] = d["x"][:9], d["y"][:9]
@@ -592,7 +592,7 @@ func TestErrorsOfInnerStagesNameTheCaller(t *testing.T) {
 	short := map[string][]float64{"y": data["y"], "x": data["x"][:100]}
 	_, err := Check(est, short, nil)
 	var se *SeriesError
-	if !errors.As(err, &se) || se.Op != "tf.Check" || !errors.Is(err, ErrLength) || !strings.HasPrefix(err.Error(), `tf.Check: series "x" has 100 samples, 300 expected`) {
+	if !errors.As(err, &se) || se.Op != "tf.Check" || !errors.Is(err, ErrLength) || !strings.HasPrefix(err.Error(), `tf.Check: series "x" has 100 samples against 300`) {
 		t.Errorf("Check: %v", err)
 	}
 	_, err = est.Forecast(short, 3, nil)

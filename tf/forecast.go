@@ -111,10 +111,10 @@ func (s ForecastSettings) validate(m Model, h int) error {
 		}
 		for j, v := range fut[:h] {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &errs.SampleError{Series: "future " + name, Index: j, Value: v}
+				return &errs.SampleError{Series: "ForecastSettings.Future[" + name + "]", Index: j, Value: v}
 			}
 			if math.Abs(v) > FitMaxMagnitude {
-				return &errs.SampleError{Series: "future " + name, Index: j, Value: v, Limit: FitMaxMagnitude}
+				return &errs.SampleError{Series: "ForecastSettings.Future[" + name + "]", Index: j, Value: v, Limit: FitMaxMagnitude}
 			}
 		}
 	}

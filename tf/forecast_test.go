@@ -110,7 +110,7 @@ func TestForecastBadInput(t *testing.T) {
 	}
 	var se *errs.SampleError
 	_, err = est.Forecast(data, 2, &ForecastSettings{Future: map[string][]float64{"x": {1, math.NaN()}}})
-	if !errors.As(err, &se) || se.Index != 1 || se.Series != "future x" {
+	if !errors.As(err, &se) || se.Index != 1 || se.Series != "ForecastSettings.Future[x]" {
 		t.Errorf("NaN future: %v", err)
 	}
 }
@@ -269,7 +269,7 @@ func TestForecastInputModelBadInput(t *testing.T) {
 	var ue *SeriesError
 	_, err := est.Forecast(data, 5, &ForecastSettings{InputModels: map[string]InputModel{"xx": ok}})
 	if !errors.As(err, &ue) || ue.Series != "xx" || !errors.Is(err, ErrName) ||
-		err.Error() != `tf.Estimate.Forecast: series "xx" is not known (named in ForecastSettings.InputModels, it is not an input (the inputs are "x"); check the spelling)` {
+		err.Error() != `tf.Estimate.Forecast: series "xx": named in ForecastSettings.InputModels, it is not an input (the inputs are "x"); check the spelling` {
 		t.Errorf("unknown input model: %v", err)
 	}
 	_, err = est.Forecast(data, 5, &ForecastSettings{Future: map[string][]float64{"valve": {1, 2, 3, 4, 5}}})
@@ -278,7 +278,7 @@ func TestForecastInputModelBadInput(t *testing.T) {
 	}
 	var sa *errs.SampleError
 	_, err = est.Forecast(data, 2, &ForecastSettings{Future: map[string][]float64{"x": {1, 1e200}}})
-	if !errors.As(err, &sa) || sa.Series != "future x" || sa.Index != 1 || sa.Limit != FitMaxMagnitude {
+	if !errors.As(err, &sa) || sa.Series != "ForecastSettings.Future[x]" || sa.Index != 1 || sa.Limit != FitMaxMagnitude {
 		t.Errorf("huge future: %v", err)
 	}
 	for _, lv := range []float64{-0.5, 1, math.NaN(), 2} {

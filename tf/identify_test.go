@@ -59,7 +59,7 @@ func TestIdentifyBadInput(t *testing.T) {
 	y, x := mcSim(newRand(3), 100)
 	var fe *SeriesError
 	if _, err := Identify(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || !errors.Is(err, ErrName) || fe.Series != "u" ||
-		err.Error() != `tf.Identify: series "u" is not known (an input is not in the data; check the series names)` {
+		err.Error() != `tf.Identify: series "u": an input is not in the data; check the series names` {
 		t.Errorf("missing input: %v", err)
 	}
 	if _, err := Identify(context.Background(), "y", []string{"x"}, map[string][]float64{"y": y, "x": x[:90]}, nil); !errors.As(err, &fe) || !errors.Is(err, ErrLength) || fe.Have != 90 || fe.Need != 100 {
@@ -167,7 +167,7 @@ func TestIdentifySettingsBadInput(t *testing.T) {
 	var ue *SeriesError
 	_, err := Identify(context.Background(), "y", []string{"x"}, data, &IdentifySettings{InputDiff: map[string][]float64{"valve": {1, -1}}})
 	if !errors.As(err, &ue) || !errors.Is(err, ErrName) ||
-		err.Error() != `tf.Identify: series "valve" is not known (named in IdentifySettings.InputDiff, it is not an input (the inputs are "x"); check the spelling)` {
+		err.Error() != `tf.Identify: series "valve": named in IdentifySettings.InputDiff, it is not an input (the inputs are "x"); check the spelling` {
 		t.Errorf("InputDiff for a series that is not an input: %v", err)
 	}
 	// Negative order bounds: order zero only.
@@ -258,9 +258,9 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 		inputs []string
 		want   string
 	}{
-		{[]string{"x", "x"}, `tf.Identify: series "x" is not known (it is listed twice among the inputs)`},
-		{[]string{"y"}, `tf.Identify: series "y" is not known (listed among the inputs, it is the output; an output cannot be its own input)`},
-		{[]string{""}, `tf.Identify: series "" is not known (an entry of the inputs is empty; name each input series)`},
+		{[]string{"x", "x"}, `tf.Identify: series "x": it is listed twice among the inputs`},
+		{[]string{"y"}, `tf.Identify: series "y": listed among the inputs, it is the output; an output cannot be its own input`},
+		{[]string{""}, `tf.Identify: series "": an entry of the inputs is empty; name each input series`},
 	} {
 		if _, err := Identify(context.Background(), "y", tc.inputs, data, nil); !errors.As(err, &le) || !errors.Is(err, ErrName) || err.Error() != tc.want {
 			t.Errorf("inputs %q: %v", tc.inputs, err)

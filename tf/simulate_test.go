@@ -272,11 +272,11 @@ func TestSimulateBadInput(t *testing.T) {
 	ok := []float64{1, 2, 3}
 	var se *tf.SeriesError
 	if _, err := m.Simulate(map[string][]float64{"x": ok}, nil); !errors.As(err, &se) || se.Series != "z" || !errors.Is(err, tf.ErrName) ||
-		err.Error() != `tf.Model.Simulate: series "z" is not known (the model has an input of this name but the inputs map has no such series)` {
+		err.Error() != `tf.Model.Simulate: series "z": the model has an input of this name but the inputs map has no such series` {
 		t.Errorf("missing series: %v", err)
 	}
 	if _, err := m.Simulate(map[string][]float64{"x": ok, "z": ok[:2]}, nil); !errors.As(err, &se) || se.Series != "z" || !errors.Is(err, tf.ErrLength) ||
-		err.Error() != `tf.Model.Simulate: series "z" has 2 samples, 3 expected (the length of series "x")` {
+		err.Error() != `tf.Model.Simulate: series "z" has 2 samples against 3 (the length of series "x")` {
 		t.Errorf("unequal lengths: %v", err)
 	}
 	var sa *tf.SampleError

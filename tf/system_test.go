@@ -347,7 +347,7 @@ func TestSystemSetSteadyBadInput(t *testing.T) {
 	}
 	var se *tf.SeriesError
 	if err := sys.SetSteady([]float64{1}); !errors.As(err, &se) || !errors.Is(err, tf.ErrLength) ||
-		err.Error() != `tf.System.SetSteady: series "u" has 1 samples, 2 expected (one steady sample per input, in the order of Inputs)` {
+		err.Error() != `tf.System.SetSteady: series "u" has 1 samples against 2 (one steady sample per input, in the order of Inputs)` {
 		t.Fatalf("SetSteady with 1 of 2 inputs: err = %v, want *SeriesError", err)
 	}
 	ref := sys.Clone()

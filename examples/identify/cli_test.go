@@ -765,3 +765,16 @@ func TestAmount(t *testing.T) {
 		}
 	}
 }
+
+// The reader's messages speak of this program's flags, without the name
+// of the library function that found the fault.
+func TestReaderMessagesNameTheFlag(t *testing.T) {
+	path := writeFile(t, "gh.csv", lines(ghCSV(t), func(i int) bool { return i < 200 }))
+	o := DefaultOptions()
+	o.Data, o.Time = path, "minit"
+	_, _, err := run(t, o)
+	want := `-time = "minit": ` + path + ` has no such column`
+	if err == nil || !strings.HasPrefix(err.Error(), want) {
+		t.Errorf("misspelt -time: %v, want it to start %q", err, want)
+	}
+}

@@ -468,7 +468,9 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 		return fmt.Errorf("%s names column %s, but %s", flagOf(se.Series), clip(se.Series), se.Detail)
 	}
 	if err != nil {
-		return err
+		// The reader's messages name this program's flags (flagNames);
+		// the library function that found the fault is no help here.
+		return withoutOp(err)
 	}
 	ds.name = o.Data
 	if rec.Rows() < minSamples {
@@ -751,3 +753,21 @@ conditions of this record. Commission any controller tuned on it under the
 site's safety procedures, with independent safety interlocks; defer to local
 codes and licensed practice.
 `
+
+// withoutOp clears the library function's name from the reader's errors,
+// whose messages already speak of this program's flags and file.
+func withoutOp(err error) error {
+	var a *record.SettingError
+	if errors.As(err, &a) {
+		a.Op = ""
+	}
+	var b *record.SeriesError
+	if errors.As(err, &b) {
+		b.Op = ""
+	}
+	var c *record.SampleError
+	if errors.As(err, &c) {
+		c.Op = ""
+	}
+	return err
+}

@@ -127,10 +127,13 @@ func (e *SeriesError) Error() string {
 	case ErrShort:
 		s += fmt.Sprintf(": %d samples, at least %d needed", e.Have, e.Need)
 	case ErrLength:
-		s += fmt.Sprintf(" has %d samples, %d expected", e.Have, e.Need)
+		s += fmt.Sprintf(" has %d samples against %d", e.Have, e.Need)
 	case ErrConstant:
 		s += " is constant"
 	case ErrName:
+		if e.Detail != "" {
+			return s + ": " + e.Detail
+		}
 		s += " is not known"
 	default:
 		s += ": " + e.kind().Error()

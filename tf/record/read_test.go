@@ -62,7 +62,7 @@ func TestReadSeriesAndSettingsBadInput(t *testing.T) {
 		want string
 	}{
 		{Settings{Series: []string{"temp", "vlave"}}, ErrName,
-			`record.Read: series "vlave" is not known (record has no such column; its columns: minute, valve, temp)`},
+			`record.Read: series "vlave": record has no such column; its columns: minute, valve, temp`},
 		{Settings{TimeUnit: "week"}, ErrSetting, `record.Read: Settings.TimeUnit = week: want s, min, h or d`},
 		{Settings{Interval: tf.Interval{Value: 1, Unit: "month"}}, ErrSetting, `record.Read: Settings.Interval = 1 month: want a positive length in s, min, h, d, wk, or the calendar units mo, qtr, yr`},
 		{Settings{Interval: tf.Interval{Value: 1, Unit: "mo"}}, ErrSetting,
