@@ -1,6 +1,7 @@
 package testsignal
 
 import (
+	"math/bits"
 	"strconv"
 )
 
@@ -83,10 +84,7 @@ func newLFSR(n int) lfsr {
 // step returns the output (stage n) and shifts the register once.
 func (r *lfsr) step() uint32 {
 	out := r.state >> (r.n - 1) & 1
-	fb := uint32(0)
-	for t := r.state & r.tapMask; t != 0; t &= t - 1 {
-		fb ^= 1
-	}
+	fb := uint32(bits.OnesCount32(r.state&r.tapMask) & 1)
 	r.state = (r.state<<1 | fb) & r.mask
 	return out
 }
