@@ -17,12 +17,12 @@ import (
 // puts the power at low frequencies, p = 1/2 gives white noise.
 //
 // The random choices come from a PCG generator (math/rand/v2) seeded
-// with seed, so one seed always gives one signal. An n below 1 or a p
+// with seed, so one seed always gives one signal. An n outside 1..MaxSamples or a p
 // outside (0, 1) is a *SettingError.
 func BinaryNoise(n int, p float64, seed uint64) ([]float64, error) {
 	const op = "testsignal.BinaryNoise"
-	if n < 1 {
-		return nil, &SettingError{Op: op, Setting: "n", Value: strconv.Itoa(n), Rule: "the number of samples must be at least 1"}
+	if n < 1 || n > MaxSamples {
+		return nil, &SettingError{Op: op, Setting: "n", Value: strconv.Itoa(n), Rule: "the number of samples must lie between 1 and MaxSamples = " + strconv.Itoa(MaxSamples)}
 	}
 	if !(p > 0 && p < 1) {
 		return nil, &SettingError{Op: op, Setting: "p", Value: strconv.FormatFloat(p, 'g', -1, 64), Rule: "the switching probability must lie strictly between 0 and 1 (SwitchProbability chooses one from the time constant)"}

@@ -76,7 +76,8 @@ func TestBinaryNoiseBadInput(t *testing.T) {
 		err  error
 		want []string
 	}{
-		{"n zero", second(BinaryNoise(0, 0.1, 1)), []string{"testsignal.BinaryNoise", "n = 0", "at least 1"}},
+		{"n zero", second(BinaryNoise(0, 0.1, 1)), []string{"testsignal.BinaryNoise", "n = 0", "between 1 and MaxSamples = 10000000"}},
+		{"n huge", second(BinaryNoise(MaxSamples+1, 0.1, 1)), []string{"n = 10000001"}},
 		{"p zero", second(BinaryNoise(10, 0, 1)), []string{"p = 0", "strictly between 0 and 1"}},
 		{"p one", second(BinaryNoise(10, 1, 1)), []string{"p = 1"}},
 		{"p NaN", second(BinaryNoise(10, math.NaN(), 1)), []string{"p = NaN"}},

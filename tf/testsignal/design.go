@@ -104,6 +104,10 @@ func (s DesignSettings) Validate() error {
 	if s.Signal != KindMaxLength && s.Signal != KindBinaryNoise {
 		return &SettingError{Op: op, Setting: "DesignSettings.Signal", Value: strconv.Itoa(int(s.Signal)), Rule: "must be KindMaxLength or KindBinaryNoise"}
 	}
+	if s.Budget/s.Sample > MaxSamples {
+		return &SettingError{Op: op, Setting: "DesignSettings.Budget", Value: fmtG(s.Budget),
+			Rule: "Budget/Sample = " + fmtG(s.Budget/s.Sample) + " samples, more than MaxSamples = " + strconv.Itoa(MaxSamples) + " (check the units of Budget and Sample)"}
+	}
 	if s.Sample >= s.Budget {
 		return &SettingError{Op: op, Setting: "DesignSettings.Sample", Value: fmtG(s.Sample), Rule: "must be shorter than Budget = " + fmtG(s.Budget)}
 	}
@@ -144,6 +148,12 @@ type Plan struct {
 	// useless, each a sentence with the fix.
 	Warnings []string
 }
+
+// MaxSamples is the longest signal this package builds, ten million
+// samples (about 116 days at one sample a second): far beyond any plant
+// test, and small enough to allocate safely. Longer requests are a
+// *SettingError, most often a slip in the units of a setting.
+const MaxSamples = 10_000_000
 
 // halfPowerX solves (sin x / x)^2 = 1/2 (checked in the tests).
 const halfPowerX = 1.3915573782515103

@@ -128,7 +128,8 @@ func TestDesignBadInput(t *testing.T) {
 		// 2 periods of 195 = 390 needed.
 		{"short budget", with(func(s *DesignSettings) { s.Budget = 389 }), []string{"DesignSettings.Budget = 389", "too short for the slowest expected dynamics", "2 periods of the 15-value sequence at clock 13", "390 in all", "lengthen the budget"}},
 		{"short budget noise", with(func(s *DesignSettings) { s.Budget = 300; s.Signal = KindBinaryNoise }), []string{"DesignSettings.Budget = 300", "2 times 188.5", "376.99 in all"}},
-		{"dead time beyond the longest sequence", with(func(s *DesignSettings) { s.DeadTime = 1e9; s.Budget = 1e12 }), []string{"DesignSettings.DeadTime = 1e+09", "longest sequence"}},
+		{"budget in the wrong units", with(func(s *DesignSettings) { s.Budget = 1e12 }), []string{"DesignSettings.Budget = 1e+12", "more than MaxSamples", "units"}},
+		{"dead time beyond the longest sequence", with(func(s *DesignSettings) { s.DeadTime = 1e9; s.Budget = 9e6 }), []string{"DesignSettings.DeadTime = 1e+09", "longest sequence"}},
 	} {
 		_, err := Design(tc.s)
 		var se *SettingError

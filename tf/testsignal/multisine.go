@@ -31,7 +31,7 @@ type MultisineSettings struct {
 	Inputs int
 	// Period is the number of samples in one period; at least
 	// 2*Inputs + 1 so that every input gets a line below half the
-	// sampling frequency. Required.
+	// sampling frequency, and at most MaxSamples. Required.
 	Period int
 	// Lines is the number of frequency lines (cosines) of each input;
 	// 0 means as many as fit below half the sampling frequency,
@@ -71,6 +71,9 @@ func (s MultisineSettings) Validate() error {
 	if s.Period < 2*m+1 {
 		return &SettingError{Op: op, Setting: "MultisineSettings.Period", Value: strconv.Itoa(s.Period),
 			Rule: "must be at least 2*Inputs + 1 = " + strconv.Itoa(2*m+1) + " samples, so that each input has a line below half the sampling frequency"}
+	}
+	if s.Period > MaxSamples {
+		return &SettingError{Op: op, Setting: "MultisineSettings.Period", Value: strconv.Itoa(s.Period), Rule: "must not exceed MaxSamples = " + strconv.Itoa(MaxSamples)}
 	}
 	if s.Lines > 0 && m*s.Lines > (s.Period-1)/2 {
 		return &SettingError{Op: op, Setting: "MultisineSettings.Lines", Value: strconv.Itoa(s.Lines),

@@ -59,6 +59,7 @@ func TestMultisineBadInput(t *testing.T) {
 		want []string
 	}{
 		{"no period", MultisineSettings{}, []string{"testsignal.Multisine", "MultisineSettings.Period = 0", "at least 2*Inputs + 1 = 3"}},
+		{"huge period", MultisineSettings{Period: MaxSamples + 1}, []string{"MultisineSettings.Period = 10000001", "MaxSamples"}},
 		{"negative inputs", MultisineSettings{Inputs: -1, Period: 10}, []string{"MultisineSettings.Inputs = -1"}},
 		{"too many lines", MultisineSettings{Inputs: 2, Period: 20, Lines: 5}, []string{"MultisineSettings.Lines = 5", "(Period-1)/2 = 9"}},
 		{"bad amplitude", MultisineSettings{Period: 20, Amplitude: math.NaN()}, []string{"MultisineSettings.Amplitude = NaN"}},
