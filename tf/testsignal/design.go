@@ -61,12 +61,13 @@ type DesignSettings struct {
 	DeadTime float64
 	// Sample is the sample interval of the test. Required, positive.
 	Sample float64
-	// Level is the operating point the signal moves about; any finite
-	// number.
+	// Level is the operating point the signal moves about; a finite
+	// number of magnitude at most MaxMagnitude.
 	Level float64
 	// Amplitude is the largest move allowed about Level: the signal takes
 	// the values Level - Amplitude and Level + Amplitude. Required,
-	// positive; choose it within the plant's safe range.
+	// positive, at most MaxMagnitude; choose it within the plant's safe
+	// range.
 	Amplitude float64
 	// Budget is the time the test may take. Required, positive.
 	Budget float64
@@ -98,8 +99,11 @@ func (s DesignSettings) Validate() error {
 	if err := errs.NonNegative(op, "DesignSettings.DeadTime", s.DeadTime, "the expected dead time, 0 for none"); err != nil {
 		return err
 	}
-	if math.IsNaN(s.Level) || math.IsInf(s.Level, 0) {
-		return &SettingError{Op: op, Setting: "DesignSettings.Level", Value: fmtG(s.Level), Rule: "must be a finite number (the operating point)"}
+	if !(math.Abs(s.Level) <= MaxMagnitude) {
+		return &SettingError{Op: op, Setting: "DesignSettings.Level", Value: fmtG(s.Level), Rule: "must be a finite number of magnitude at most MaxMagnitude = 1e100 (the operating point)"}
+	}
+	if s.Amplitude > MaxMagnitude {
+		return &SettingError{Op: op, Setting: "DesignSettings.Amplitude", Value: fmtG(s.Amplitude), Rule: "must be at most MaxMagnitude = 1e100 (rescale: change the units)"}
 	}
 	if s.Signal != KindMaxLength && s.Signal != KindBinaryNoise {
 		return &SettingError{Op: op, Setting: "DesignSettings.Signal", Value: strconv.Itoa(int(s.Signal)), Rule: "must be KindMaxLength or KindBinaryNoise"}
@@ -154,6 +158,11 @@ type Plan struct {
 // test, and small enough to allocate safely. Longer requests are a
 // *SettingError, most often a slip in the units of a setting.
 const MaxSamples = 10_000_000
+
+// MaxMagnitude bounds Level and Amplitude, 1e100: far beyond any
+// physical unit, and small enough that the signal's values and the
+// squares of the periodogram stay finite.
+const MaxMagnitude = 1e100
 
 // halfPowerX solves (sin x / x)^2 = 1/2 (checked in the tests).
 const halfPowerX = 1.3915573782515103

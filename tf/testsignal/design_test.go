@@ -123,6 +123,8 @@ func TestDesignBadInput(t *testing.T) {
 		{"negative amplitude", with(func(s *DesignSettings) { s.Amplitude = -1 }), []string{"DesignSettings.Amplitude = -1"}},
 		{"NaN dead time", with(func(s *DesignSettings) { s.DeadTime = math.NaN() }), []string{"DesignSettings.DeadTime = NaN"}},
 		{"infinite level", with(func(s *DesignSettings) { s.Level = math.Inf(1) }), []string{"DesignSettings.Level = +Inf", "finite"}},
+		{"huge amplitude", with(func(s *DesignSettings) { s.Amplitude = 1e200 }), []string{"DesignSettings.Amplitude = 1e+200", "MaxMagnitude"}},
+		{"huge level", with(func(s *DesignSettings) { s.Level = -1e101 }), []string{"DesignSettings.Level = -1e+101"}},
 		{"bad kind", with(func(s *DesignSettings) { s.Signal = 3 }), []string{"DesignSettings.Signal = 3"}},
 		{"sample over budget", with(func(s *DesignSettings) { s.Sample = 700 }), []string{"DesignSettings.Sample = 700", "shorter than Budget"}},
 		// 2 periods of 195 = 390 needed.
