@@ -74,8 +74,11 @@ const (
 // inside (0, 1) is a = c - sqrt(c^2 - 1), c = 2 - cos w. Then p = (1-a)/2.
 // For a sample interval much shorter than the time constant this is
 // p ~ sample * BandFactor / (2 timeConstant), a mean switching time of
-// about timeConstant (Tulleken 1990 relates the switching time to the
-// process time constant in the same way, from memory).
+// about timeConstant. Sources: the signal and its switching process are
+// Tulleken's (1990); the spectrum and the half-power algebra are derived
+// here (TestSwitchProbabilityHalfPower checks them); the band edge
+// BandFactor / timeConstant is Rivera and Jun's guideline (from memory,
+// see BandFactor). This is our rule, not one quoted from Tulleken.
 //
 // A timeConstant or sample that is not a positive finite number, and a
 // sample so long that BandFactor / timeConstant lies at or beyond the
