@@ -18,10 +18,12 @@ const (
 //
 // Source: the tap table of Xilinx application note XAPP 052, P. Alfke,
 // "Efficient Shift Registers, LFSR Counters, and Long Pseudo-Random
-// Sequence Generators" (1996), Table 3. Every entry here is FROM MEMORY
-// of that table, not read from it for this code; TestMaxLengthPeriod
-// verifies each one by running the register and finding its period to
-// be exactly 2^n - 1, which holds only for a primitive polynomial.
+// Sequence Generators" (1996), its table of taps for 3 to 168 stages
+// (the 2-stage entry is x^2 + x + 1, the only primitive quadratic).
+// Every entry here is FROM MEMORY of that table, not read from it for
+// this code; TestMaxLengthPeriod verifies each one by running the
+// register and finding its period to be exactly 2^n - 1, which holds
+// only for a primitive polynomial.
 var feedback = [MaxStages + 1][]int{
 	2:  {2, 1},
 	3:  {3, 2},
