@@ -1,0 +1,48 @@
+package testsignal
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+// FuzzDesign: any settings give a *SettingError or a plan whose every
+// number is finite and whose samples are Level +- Amplitude; never a
+// panic.
+func FuzzDesign(f *testing.F) {
+	f.Add(10.0, 2.0, 1.0, 40.0, 5.0, 600.0, false, uint64(1))
+	f.Add(1.0, 0.0, 2.0, 0.0, 1.0, 200.0, true, uint64(2))
+	f.Add(1e-3, 1e6, 1e-6, -1.0, 1e300, 1.0, false, uint64(3))
+	f.Fuzz(func(t *testing.T, tau, dead, ts, level, amp, budget float64, noise bool, seed uint64) {
+		s := DesignSettings{TimeConstant: tau, DeadTime: dead, Sample: ts, Level: level, Amplitude: amp, Budget: budget, Seed: seed}
+		if noise {
+			s.Signal = KindBinaryNoise
+		}
+		d, err := Design(s)
+		if err != nil {
+			var se *SettingError
+			if !errors.As(err, &se) {
+				t.Fatalf("untyped error %v", err)
+			}
+			return
+		}
+		if len(d.Signal) == 0 || len(d.Signal) > MaxSamples {
+			t.Fatalf("%d samples", len(d.Signal))
+		}
+		for _, v := range []float64{d.Clock, d.BandLow, d.BandHigh} {
+			if math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
+				t.Fatalf("clock %v, band %v to %v", d.Clock, d.BandLow, d.BandHigh)
+			}
+		}
+		for _, v := range d.Power {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Fatalf("%v in the periodogram", v)
+			}
+		}
+		for _, v := range d.Signal {
+			if v != level+amp && v != level-amp {
+				t.Fatalf("sample %v, want %v +- %v", v, level, amp)
+			}
+		}
+	})
+}
