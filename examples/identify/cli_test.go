@@ -630,11 +630,11 @@ func TestCommandLine(t *testing.T) {
 		{[]string{"tank.csv"}, 2, `identify: unexpected argument "tank.csv" (flags come before it and every setting is a flag): to read a file, use -data tank.csv`, false},
 		{[]string{"-quiet", "-data", "x.csv", "extra"}, 2, `unexpected argument "extra"`, false},
 		{[]string{"-sep", ";;"}, 2, `-sep ";;": want one character`, false},
-		{[]string{"-save", "/no/such/folder/m.json"}, 1, "identify: -save /no/such/folder/m.json: the folder /no/such/folder does not exist (create it first)", false},
-		{[]string{"-save-untrusted"}, 1, "-save-untrusted is given without -save", false},
-		{[]string{"-gaps", "fill"}, 1, `-gaps "fill": want hold:N or linear:N`, false},
-		{[]string{"-time", "t"}, 1, "-time, -time-unit and -gaps are about a CSV file: give one with -data", false},
-		{[]string{"-horizon", "-7"}, 1, "-horizon -7: want 0 (no forecast)", false},
+		{[]string{"-save", "/no/such/folder/m.json"}, 2, "identify: -save /no/such/folder/m.json: the folder /no/such/folder does not exist (create it first)", false},
+		{[]string{"-save-untrusted"}, 2, "-save-untrusted is given without -save", false},
+		{[]string{"-gaps", "fill"}, 2, `-gaps "fill": want hold:N or linear:N`, false},
+		{[]string{"-time", "t"}, 2, "-time, -time-unit and -gaps are about a CSV file: give one with -data", false},
+		{[]string{"-horizon", "-7"}, 2, "-horizon -7: want 0 (no forecast)", false},
 	} {
 		var stdout, stderr bytes.Buffer
 		code := cli(c.args, &stdout, &stderr)
@@ -673,13 +673,13 @@ func TestFlagsNotIgnored(t *testing.T) {
 			`identify: -inputs "valve" disagrees with the spec, whose inputs are valve,outdoor: with -spec the output and inputs are taken from the spec; drop -inputs`},
 		{[]string{"-spec", spec, "-output", "outdoor"}, 2,
 			`identify: -output "outdoor" disagrees with the spec, whose output is temp: with -spec the output and inputs are taken from the spec; drop -output`},
-		{[]string{"-plan", "5000:50"}, 1,
+		{[]string{"-plan", "5000:50"}, 2,
 			`identify: -plan "5000:50": the step at sample 5000 lies beyond the forecast horizon of 180 samples (the automatic horizon`},
-		{[]string{"-plan", "0:50,100:60", "-horizon", "100"}, 1,
+		{[]string{"-plan", "0:50,100:60", "-horizon", "100"}, 2,
 			`identify: -plan "0:50,100:60": the step at sample 100 lies beyond the forecast horizon of 100 samples (-horizon 100), so it would be dropped; plan steps must start before sample 100`},
-		{[]string{"-plan", "10:50", "-horizon", "0"}, 1, `identify: -plan "10:50": no forecast is made (-horizon 0), so the plan would not be used`},
-		{[]string{"-plan", "0:50,0:60"}, 1, `identify: -plan "0:50,0:60": sample 0 is given two values (50 and 60); give each step once`},
-		{[]string{"-skip=-2"}, 1, "identify: -skip -2: want a number of samples, 0 or more, or -1 (automatic"},
+		{[]string{"-plan", "10:50", "-horizon", "0"}, 2, `identify: -plan "10:50": no forecast is made (-horizon 0), so the plan would not be used`},
+		{[]string{"-plan", "0:50,0:60"}, 2, `identify: -plan "0:50,0:60": sample 0 is given two values (50 and 60); give each step once`},
+		{[]string{"-skip=-2"}, 2, "identify: -skip -2: want a number of samples, 0 or more, or -1 (automatic"},
 	} {
 		var stdout, stderr bytes.Buffer
 		code := cli(append(c.args, "-quiet"), &stdout, &stderr)
@@ -776,5 +776,15 @@ func TestReaderMessagesNameTheFlag(t *testing.T) {
 	want := `-time = "minit": ` + path + ` has no such column`
 	if err == nil || !strings.HasPrefix(err.Error(), want) {
 		t.Errorf("misspelt -time: %v, want it to start %q", err, want)
+	}
+}
+
+// A -pictures folder that cannot be made stops the run before any work,
+// with the command-line status.
+func TestPicturesFolderFirst(t *testing.T) {
+	var out, errb strings.Builder
+	status := cli([]string{"-quiet", "-pictures", "/proc/no/such/folder"}, &out, &errb)
+	if status != 2 || !strings.HasPrefix(errb.String(), "identify: -pictures /proc/no/such/folder: the folder cannot be made") || out.Len() != 0 {
+		t.Errorf("status %d, stdout %q, stderr %q", status, out.String(), errb.String())
 	}
 }

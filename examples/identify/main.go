@@ -186,7 +186,11 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	o.Sep = r
 	out, err := Run(context.Background(), o, stdout, stderr)
 	var se *SaveError
+	var ue *UsageError
 	switch {
+	case errors.As(err, &ue):
+		fmt.Fprintln(stderr, "identify:", err)
+		return exitUsage
 	case errors.As(err, &se):
 		fmt.Fprintln(stderr, "identify:", err)
 		return exitNotAdequate

@@ -125,7 +125,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	rem, err := checkOptions(o)
 	if err != nil {
-		return nil, err
+		return nil, &UsageError{Err: err}
 	}
 	ds, horizon, skip, err := loadRecord(o, rem, stdout, pr)
 	if err != nil {
@@ -184,6 +184,13 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 // does not fail after the whole report. It returns the gap remedy of
 // o.Gaps.
 func checkOptions(o Options) (record.Remedy, error) {
+	if o.Pictures != "" {
+		// The folder is made now, so that one that cannot be made stops
+		// the run before the fit rather than after the report.
+		if err := os.MkdirAll(o.Pictures, 0o755); err != nil {
+			return record.Remedy{}, fmt.Errorf("-pictures %s: the folder cannot be made (%v)", o.Pictures, err)
+		}
+	}
 	if o.Save != "" {
 		if err := checkSavePath(o.Save); err != nil {
 			return record.Remedy{}, err
@@ -231,7 +238,7 @@ func loadRecord(o Options, rem record.Remedy, stdout io.Writer, pr *progress) (d
 		return nil, 0, 0, fmt.Errorf("-horizon %d: want 0 (no forecast) to %d samples (the record's length; a forecast beyond it says nothing the data supports)", o.Horizon, ds.n)
 	}
 	if err := checkPlan(o.Plan, horizon, o.Horizon); err != nil {
-		return nil, 0, 0, err
+		return nil, 0, 0, &UsageError{Err: err}
 	}
 	pr.say("data: %s, %d samples of %s from %v", ds.name, ds.n, ds.output, ds.inputs)
 	fmt.Fprintf(stdout, "Data: %s: %d samples, output %s, inputs %v, interval %s\n", ds.name, ds.n, ds.output, ds.inputs, intervalText(ds))
@@ -272,7 +279,7 @@ func writePictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome, stdo
 	pr.say("writing pictures to %s", dir)
 	files, skipped, err := pictures(dir, est, ds, out)
 	if err != nil {
-		return fmt.Errorf("pictures: %w", err)
+		return fmt.Errorf("-pictures %s: %w", dir, err)
 	}
 	out.Pictures = files
 	fmt.Fprintf(stdout, "\nPictures written to %s:\n", dir)
@@ -771,3 +778,14 @@ func withoutOp(err error) error {
 	}
 	return err
 }
+
+// UsageError is a setting of the command line that Run refuses (a bad
+// value, a flag that would be ignored): the program exits with 2 for it,
+// as for a flag it cannot read.
+type UsageError struct{ Err error }
+
+// Error returns the refusal, which names the flag.
+func (e *UsageError) Error() string { return e.Err.Error() }
+
+// Unwrap returns the refusal.
+func (e *UsageError) Unwrap() error { return e.Err }
