@@ -133,6 +133,8 @@ func TestBadPlantOrFlags(t *testing.T) {
 		{"no interval", options{spec: "temp = 6 + " + valve + " + a", noise: NoiseSD},
 			"harness: -spec: sample interval: the spec has none, and the harness needs it to run the scenarios in minutes; " +
 				"end the spec with the interval of the record the model came from, such as \"; every 1 min\" or \"; every 10 s\""},
+		{"calendar interval", options{spec: "temp = 6 + " + valve + " + a; every 1 mo", noise: NoiseSD},
+			"harness: -spec: sample interval: every 1 mo is not an interval the harness can use: a calendar interval (months, quarters, years) has no fixed length"},
 		{"interval too long", options{spec: "temp = 6 + " + valve + " + a; every 1 h", noise: NoiseSD},
 			"harness: -spec: sample interval: every 1 h is outside 0.1 s .. 2 min, the intervals the harness runs"},
 		{"interval too short", options{spec: "temp = 6 + " + valve + " + a; every 0.01 s", noise: NoiseSD},

@@ -206,7 +206,11 @@ func (p *Process) checkInterval() error {
 	}
 	sec, ok := iv.Seconds()
 	if !ok || !(sec > 0) {
-		return &PlantError{Part: "sample interval", Problem: fmt.Sprintf("every %s is not an interval the harness can use", iv)}
+		why := "it has no length in seconds"
+		if iv.Calendar() {
+			why = "a calendar interval (months, quarters, years) has no fixed length, and the harness runs a PI loop in minutes"
+		}
+		return &PlantError{Part: "sample interval", Problem: fmt.Sprintf("every %s is not an interval the harness can use: %s; the harness tests loops sampled every 0.1 s to 2 min", iv, why)}
 	}
 	p.ts = sec / 60
 	if p.ts < minInterval*(1-1e-12) || p.ts > maxInterval*(1+1e-12) {
