@@ -87,6 +87,8 @@ var errorCases = []struct {
 	{"temp = (1 - a) x", 1, 13, ErrModel, "the white-noise symbol a cannot stand inside a polynomial"},
 	{"temp = w0 B burner + (w1 B) temp", 1, 22, ErrModel, "temp is the output; it cannot also be an input (past outputs enter through the denominators and the noise model, as in w0 / (1 - d1 B) x + 1 / (1 - p1 B) a)"},
 	{"temp = w0 = x", 1, 11, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found '='"},
+	{"temp = w0 B x + a; wehre w0 ~ 1", 1, 20, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found name wehre (did you mean where?)"},
+	{"temp = w0 B x + a; evry 1 min", 1, 20, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found name evry (did you mean every?)"},
 	{"temp = w0 x, w1 y", 1, 12, ErrSyntax, "expected '+', '-', where, every or the end of the spec after a term, found ',' (join terms with '+'; put where and every after a space or ';')"},
 	{"temp = (((((((((1))))))))) x", 1, 16, ErrLimit, "parentheses nested more than 8 deep"},
 	{"temp = AR(1)", 1, 8, ErrModel, "the model has no input term; write at least one, such as w0 B x"},

@@ -407,9 +407,48 @@ func slipHint(toks []lexer.Token, i int) string {
 			return " (write " + strings.ToLower(t.Value) + " in lower case)"
 		case isShort(strings.ToUpper(t.Value)):
 			return " (write " + strings.ToUpper(t.Value) + " in upper case)"
+		case k == i && nearWord(t.Value) != "":
+			return " (did you mean " + nearWord(t.Value) + "?)"
 		}
 	}
 	return ""
+}
+
+// nearWord returns where or every when s is a slip of one of them (at
+// most two edits, as in wehre or evry), or "".
+func nearWord(s string) string {
+	for _, w := range []string{"where", "every"} {
+		if s != w && len(s) >= 3 && editDistance(strings.ToLower(s), w) <= 2 {
+			return w
+		}
+	}
+	return ""
+}
+
+// editDistance returns the number of single-letter insertions, deletions,
+// substitutions and swaps of neighbours that turn a into b.
+func editDistance(a, b string) int {
+	d := make([][]int, len(a)+1)
+	for i := range d {
+		d[i] = make([]int, len(b)+1)
+		d[i][0] = i
+	}
+	for j := range d[0] {
+		d[0][j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
+			if i > 1 && j > 1 && a[i-1] == b[j-2] && a[i-2] == b[j-1] {
+				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
+			}
+		}
+	}
+	return d[len(a)][len(b)]
 }
 
 func isShort(s string) bool { return s == "AR" || s == "MA" || s == "ARMA" }
