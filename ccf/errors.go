@@ -110,6 +110,13 @@ func singularError(inputs []string) error {
 		Problem: "singular: an input is a linear combination of the lags of the others; drop one of them"}
 }
 
+// undeterminedError reports a distributed-lag regression whose estimates
+// or standard errors are not finite numbers, as a *ModelError.
+func undeterminedError(inputs []string) error {
+	return &ModelError{Part: "the distributed-lag regression on inputs " + strings.Join(inputs, ", "),
+		Problem: "the weights or their standard errors are not determined by the data (an input that barely moves, or one that nearly repeats another's lags); give inputs that vary independently, or fewer lags"}
+}
+
 // checkSeries returns a *SampleError for the first NaN or infinite sample.
 func checkSeries(name string, x []float64) error {
 	for i, v := range x {

@@ -135,7 +135,31 @@ func distributedLag(y []float64, xs [][]float64, s *DistributedLagSettings) (*Di
 	if f == nil {
 		return nil, singularError(names)
 	}
-	return f.result(names), nil
+	res := f.result(names)
+	if !res.finite() {
+		// The factorisation passed its condition test, but the
+		// estimates or their standard errors left float64 range: the
+		// regression is as good as singular.
+		return nil, undeterminedError(names)
+	}
+	return res, nil
+}
+
+// finite reports whether every estimate and standard error of r is a
+// finite number.
+func (r *DistributedLagResult) finite() bool {
+	ok := func(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+	if !ok(r.Sigma2) || !ok(r.Const) || !ok(r.ConstSE) {
+		return false
+	}
+	for _, w := range r.Weights {
+		for k := range w.V {
+			if !ok(w.V[k]) || !ok(w.SE[k]) {
+				return false
+			}
+		}
+	}
+	return true
 }
 
 // inputNames returns the names of m inputs: the given ones, "x1", "x2",
