@@ -45,7 +45,7 @@ func Periodogram(x []float64, sample float64) (frequency, power []float64, err e
 
 func periodogram(x []float64, sample float64) (frequency, power []float64) {
 	n := len(x)
-	c := fourier.NewFFT(n).Coefficients(nil, x)
+	c := halfDFT(x)
 	frequency = make([]float64, len(c))
 	power = make([]float64, len(c))
 	n2 := float64(n) * float64(n)
@@ -55,4 +55,75 @@ func periodogram(x []float64, sample float64) (frequency, power []float64) {
 		power[k] = a * a / n2
 	}
 	return frequency, power
+}
+
+// maxDirectFactor is the largest prime factor of a length whose discrete
+// Fourier transform is taken directly (gonum's mixed-radix FFT costs
+// O(n p) for a prime factor p); a longer prime factor goes through
+// Bluestein's chirp transform, O(n log n) for any n.
+const maxDirectFactor = 1000
+
+// halfDFT returns X_k = sum_t x[t] exp(-2 pi i k t / n) for k = 0..n/2.
+func halfDFT(x []float64) []complex128 {
+	n := len(x)
+	if largestPrimeFactor(n) <= maxDirectFactor {
+		return fourier.NewFFT(n).Coefficients(nil, x)
+	}
+	return bluestein(x)[:n/2+1]
+}
+
+// largestPrimeFactor returns the largest prime factor of n >= 2.
+func largestPrimeFactor(n int) int {
+	p := 1
+	for f := 2; f*f <= n; f++ {
+		for n%f == 0 {
+			p, n = f, n/f
+		}
+	}
+	if n > 1 {
+		p = n
+	}
+	return p
+}
+
+// bluestein returns the whole discrete Fourier transform of x by
+// Bluestein's chirp z-transform: with w_k = exp(-i pi k^2 / n), X_k =
+// w_k sum_t (x_t w_t) conj(w_{k-t}), a convolution done with power-of-two
+// FFTs. Reference: Bluestein, L. (1970). A linear filtering approach to
+// the computation of the discrete Fourier transform. IEEE Transactions on
+// Audio and Electroacoustics 18(4), 451-455.
+func bluestein(x []float64) []complex128 {
+	n := len(x)
+	m := 1
+	for m < 2*n-1 {
+		m *= 2
+	}
+	w := make([]complex128, n)
+	for k := range w {
+		// k^2 mod 2n keeps the angle small, so that it stays exact.
+		r := (uint64(k) * uint64(k)) % uint64(2*n)
+		w[k] = cmplx.Rect(1, -math.Pi*float64(r)/float64(n))
+	}
+	a := make([]complex128, m)
+	b := make([]complex128, m)
+	for k := range x {
+		a[k] = complex(x[k], 0) * w[k]
+	}
+	b[0] = cmplx.Conj(w[0])
+	for k := 1; k < n; k++ {
+		b[k] = cmplx.Conj(w[k])
+		b[m-k] = b[k]
+	}
+	f := fourier.NewCmplxFFT(m)
+	fa := f.Coefficients(nil, a)
+	fb := f.Coefficients(nil, b)
+	for k := range fa {
+		fa[k] *= fb[k]
+	}
+	c := f.Sequence(nil, fa)
+	out := make([]complex128, n)
+	for k := range out {
+		out[k] = w[k] * c[k] / complex(float64(m), 0)
+	}
+	return out
 }
