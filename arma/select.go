@@ -17,7 +17,7 @@ type Criterion int
 
 const (
 	// ByBIC ranks by the Bayesian (Schwarz) criterion, the default, as
-	// tf.Identify ranks: its penalty, log(N) per parameter, grows with
+	// identify.Candidates ranks: its penalty, log(N) per parameter, grows with
 	// the record, so that on long records it does not keep adding
 	// coefficients that barely lower the sum of squares (a noise model
 	// for a controller should be small).

@@ -5,9 +5,7 @@ import (
 	"fmt"
 	"strconv"
 
-	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/errs"
-	"github.com/backshift/backshift/prewhiten"
 )
 
 // The shared shapes this package returns besides those of errkinds.go.
@@ -122,9 +120,8 @@ func withOp(op string, err error) error {
 	return err
 }
 
-// opField returns the Op field of an error of the library that has one
-// (the shared shapes, tf's own error types, and the evidence types of
-// ccf and prewhiten that tf passes on), or nil.
+// opField returns the Op field of an error of the package that has one
+// (the shared shapes and tf's own error types), or nil.
 func opField(e error) *string {
 	switch v := e.(type) {
 	case *errs.SampleError:
@@ -148,14 +145,6 @@ func opField(e error) *string {
 	case *UnstableError:
 		return &v.Op
 	case *SimError:
-		return &v.Op
-	case *InterruptedError:
-		return &v.Op
-	case *StageError:
-		return &v.Op
-	case *ccf.NoResponseError:
-		return &v.Op
-	case *prewhiten.NotWhiteError:
 		return &v.Op
 	}
 	return nil

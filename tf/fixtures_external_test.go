@@ -1,21 +1,15 @@
 package tf_test
 
 import (
-	"context"
-	"encoding/csv"
-	"fmt"
 	"math/rand/v2"
-	"os"
-	"strconv"
 	"testing"
 
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
-// Fixtures shared by the tests and examples of package tf_test: the
-// records they fit are either simulated from a model written as a spec
-// or read from the BJsales file in testdata.
+// Fixtures shared by the tests and examples of package tf_test: records
+// simulated from a model written as a spec.
 
 // whiteInput returns n standard normal draws from the PCG source seeded
 // with (seed1, seed2): the white input most simulated records use.
@@ -56,44 +50,4 @@ func mustRecord(t testing.TB, spec string, inputs map[string][]float64, s *tf.Si
 		t.Fatal(err)
 	}
 	return rec
-}
-
-// fitSpec parses the model written as spec and fits it to data with the
-// default settings: the set-up of the examples whose subject comes after
-// the fit (Check, Forecast); ExampleFit writes the two calls out.
-func fitSpec(spec string, data map[string][]float64) (*tf.Estimate, error) {
-	m, err := parse.Model(spec)
-	if err != nil {
-		return nil, err
-	}
-	return tf.Fit(context.Background(), m, data, nil)
-}
-
-// loadBJsales reads testdata/bjsales/bjsales.csv (exported from R's
-// datasets package, BJsales and BJsales.lead) into columns by header
-// name: "sales" and "lead". The first column, the time index, is skipped.
-func loadBJsales() (map[string][]float64, error) {
-	f, err := os.Open("../testdata/bjsales/bjsales.csv")
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		return nil, err
-	}
-	if len(rows) < 2 {
-		return nil, fmt.Errorf("bjsales.csv: %d rows, want a header and data", len(rows))
-	}
-	data := map[string][]float64{}
-	for i, row := range rows[1:] {
-		for j, name := range rows[0][1:] {
-			v, err := strconv.ParseFloat(row[j+1], 64)
-			if err != nil {
-				return nil, fmt.Errorf("bjsales.csv row %d, column %s: %w", i+2, name, err)
-			}
-			data[name] = append(data[name], v)
-		}
-	}
-	return data, nil
 }

@@ -10,6 +10,7 @@ import (
 	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // TestPrintCodeBuilt prints models built in code (not by the parser) and
@@ -121,7 +122,7 @@ func TestHeldRoundTrip(t *testing.T) {
 	x := whiteInput(5, 6, 300)
 	y := mustRecord(t, "y = 2 + 0.8 / (1 - 0.6 B) B x + 1 / (1 - 0.4 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.3})["y"]
 	spec := parse.MustModel("y = c + w0 / (1 - d1 B) B x + 1 / (1 - p1 B) a where w0 ~ 0.5, d1 ~ 0.3")
-	est, err := tf.Fit(context.Background(), spec, map[string][]float64{"y": y, "x": x}, nil)
+	est, err := fit.Model(context.Background(), spec, map[string][]float64{"y": y, "x": x}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

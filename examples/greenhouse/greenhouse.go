@@ -115,7 +115,7 @@ type Data struct {
 func (d Data) Len() int { return len(d.Temp) }
 
 // ByName returns the output and the two inputs by their names (Output,
-// Valve, Outdoor), as tf.Fit, tf.Identify and Estimate.Forecast take
+// Valve, Outdoor), as fit.Model, identify.Candidates and Estimate.Forecast take
 // them. The slices are the record's own.
 func (d Data) ByName() map[string][]float64 {
 	return map[string][]float64{Output: d.Temp, Valve: d.Valve, Outdoor: d.Outdoor}

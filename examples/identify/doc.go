@@ -29,7 +29,7 @@
 // true model is known, it also prints how close the identified model is
 // to the truth.
 //
-// The verdict follows the library's checks (tf.Diagnostics): a model
+// The verdict follows the library's checks (fit.Diagnostics): a model
 // that did not converge, has no standard errors, has roots on or outside
 // the unit circle, too few residuals, or fails a check is reported as
 // NOT ADEQUATE with its reasons. Its input paths are then not offered

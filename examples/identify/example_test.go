@@ -7,7 +7,7 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/parse"
-	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // Example is the README's ten-line example: parse a spec, fit it, print
@@ -25,14 +25,14 @@ func Example() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	est, err := tf.Fit(context.Background(), m, data, &tf.FitSettings{First: 300}) // sum residuals after the start-up
+	est, err := fit.Model(context.Background(), m, data, &fit.Settings{First: 300}) // sum residuals after the start-up
 	if err != nil {
 		log.Fatal(err)
 	}
 	for _, p := range est.Params {
 		fmt.Printf("%-2s = %7.4g  (SE %.2g)\n", p.Name, p.Value, p.SE)
 	}
-	fc, err := est.Forecast(data, 60, &tf.ForecastSettings{Future: map[string][]float64{"valve": plan}})
+	fc, err := est.Forecast(data, 60, &fit.ForecastSettings{Future: map[string][]float64{"valve": plan}})
 	if err != nil {
 		log.Fatal(err)
 	}

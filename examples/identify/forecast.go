@@ -9,7 +9,7 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // planStep is one change of a planned input: from sample From (counted
@@ -89,7 +89,7 @@ func schedule(plan []planStep, h int, last float64) []float64 {
 
 // forecastResult is kept for the picture.
 type forecastResult struct {
-	f       *tf.Forecast
+	f       *fit.Forecast
 	planned string
 	plan    []float64
 	h       int
@@ -101,7 +101,7 @@ type forecastResult struct {
 // inputs forecast from their own models. A plan that leaves the range of
 // the input seen in the record is warned about, naming both ranges; a
 // forecast from a model that fails its checks is headed as such.
-func forecast(est *tf.Estimate, ds *dataset, o Options, h int, w io.Writer, out *Outcome) error {
+func forecast(est *fit.Estimate, ds *dataset, o Options, h int, w io.Writer, out *Outcome) error {
 	if h <= 0 {
 		return nil
 	}
@@ -119,7 +119,7 @@ func forecast(est *tf.Estimate, ds *dataset, o Options, h int, w io.Writer, out 
 		return err
 	}
 	u := schedule(plan, h, x[len(x)-1])
-	f, err := est.Forecast(ds.data, h, &tf.ForecastSettings{Future: map[string][]float64{first: u}})
+	f, err := est.Forecast(ds.data, h, &fit.ForecastSettings{Future: map[string][]float64{first: u}})
 	if err != nil {
 		return fmt.Errorf("forecast: %w", err)
 	}

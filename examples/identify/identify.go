@@ -6,15 +6,17 @@ import (
 	"io"
 
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
+	"github.com/backshift/backshift/tf/identify"
 )
 
-// identify runs the one-call identification, prints the ranked
+// identifyBest runs the one-call identification, prints the ranked
 // candidates and returns the best one's estimate.
-func identify(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progress) (*tf.Estimate, error) {
+func identifyBest(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progress) (*fit.Estimate, error) {
 	pr.say("identifying: prewhitening %d inputs, impulse-response weights, (b, r, s) forms, noise orders, fitting the candidates concurrently", len(ds.inputs))
 	set := identifySettings(skip)
 	stop := pr.ticker("still identifying")
-	cands, err := tf.Identify(ctx, ds.output, ds.inputs, ds.data, set)
+	cands, err := identify.Candidates(ctx, ds.output, ds.inputs, ds.data, set)
 	stop()
 	if err != nil {
 		return nil, fmt.Errorf("identification: %w", err)
@@ -63,6 +65,6 @@ const shownCandidates = 10
 // (b, r, s) forms per input and every combination with the two best
 // noise orders, about 70 fits (a few seconds on two cores), so that the
 // simplest adequate form is among them; residuals summed from skip.
-func identifySettings(skip int) *tf.IdentifySettings {
-	return &tf.IdentifySettings{Forms: 6, MaxCandidates: 72, Fit: &tf.FitSettings{First: skip}}
+func identifySettings(skip int) *identify.Settings {
+	return &identify.Settings{Forms: 6, MaxCandidates: 72, Fit: &fit.Settings{First: skip}}
 }

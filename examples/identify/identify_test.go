@@ -14,7 +14,7 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/parse"
-	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/identify"
 )
 
 // runDefault runs the program as `go run ./examples/identify -pictures
@@ -94,7 +94,7 @@ func TestRecoveryOtherSeeds(t *testing.T) {
 	for seed := uint64(1); seed <= 2; seed++ {
 		g := greenhouse.Generate(greenhouse.Settings{Seed: seed})
 		data := g.ByName()
-		cands, err := tf.Identify(context.Background(), "temp", []string{"valve", "outdoor"}, data, identifySettings(g.Len()/20))
+		cands, err := identify.Candidates(context.Background(), "temp", []string{"valve", "outdoor"}, data, identifySettings(g.Len()/20))
 		if err != nil {
 			t.Fatal(err)
 		}

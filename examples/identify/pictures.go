@@ -9,6 +9,7 @@ import (
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/prewhiten"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // picture is one PNG file: its name without ".png" and the function that
@@ -22,12 +23,12 @@ type picture struct {
 // each picture that could not be drawn (a record too short for its
 // correlations, no stable path for the step responses, ...) a sentence
 // saying why. The drawing of each picture is in plots.go.
-func pictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome) (files, skipped []string, err error) {
+func pictures(dir string, est *fit.Estimate, ds *dataset, out *Outcome) (files, skipped []string, err error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, nil, err
 	}
 	pw, pwErr := prewhitenAll(ds)
-	withWeights := func(draw func(string, *dataset, []prewhitened, *tf.Estimate) error) func(string) error {
+	withWeights := func(draw func(string, *dataset, []prewhitened, *fit.Estimate) error) func(string) error {
 		return func(path string) error {
 			if pwErr != nil {
 				return pwErr

@@ -9,7 +9,7 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/examples/chart"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
-	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 	"gonum.org/v1/plot/vg/draw"
 )
 
@@ -80,7 +80,7 @@ func correlationChart(title, xlabel, ylabel string, lags, r []float64, band floa
 // correlationPicture draws each input's prewhitened cross-correlation
 // with the output, from lag -10 on, with its 95 % band and the fitted
 // dead time marked.
-func correlationPicture(path string, ds *dataset, pw []prewhitened, est *tf.Estimate) error {
+func correlationPicture(path string, ds *dataset, pw []prewhitened, est *fit.Estimate) error {
 	dt, unit := ds.step(), ds.timeUnit()
 	var panels []*chart.Chart
 	for _, p := range pw {
@@ -107,7 +107,7 @@ func correlationPicture(path string, ds *dataset, pw []prewhitened, est *tf.Esti
 
 // weightsPicture draws each input's impulse-response weights as stems
 // within their +-2 standard errors (and the true weights on the demo).
-func weightsPicture(path string, ds *dataset, pw []prewhitened, _ *tf.Estimate) error {
+func weightsPicture(path string, ds *dataset, pw []prewhitened, _ *fit.Estimate) error {
 	var panels []*chart.Chart
 	for _, p := range pw {
 		v, se := p.Weights.V, p.Weights.SE
@@ -132,7 +132,7 @@ func weightsPicture(path string, ds *dataset, pw []prewhitened, _ *tf.Estimate) 
 
 // residualPicture draws the autocorrelation of the residuals with its
 // 95 % band.
-func residualPicture(path string, ds *dataset, est *tf.Estimate) error {
+func residualPicture(path string, ds *dataset, est *fit.Estimate) error {
 	r := est.Resid[est.Conditioning.First:]
 	lag := pictureLag(len(r))
 	acf, err := arma.ACF(r, lag)
@@ -208,23 +208,23 @@ func difference(title, xlabel, ylabel string, t, y, m []float64) *chart.Chart {
 // fitted values: the whole record, a zoom on its last three hours (in
 // minutes; samples on a record without an interval) with the
 // observations as dots, and the residuals of the whole record.
-func fitPicture(path string, ds *dataset, est *tf.Estimate) error {
+func fitPicture(path string, ds *dataset, est *fit.Estimate) error {
 	dt := ds.step()
 	y := ds.data[ds.output]
 	n := len(y)
 	t := times(n, 0, dt)
-	fit := make([]float64, n)
+	fitted := make([]float64, n)
 	for i := range y {
-		fit[i] = y[i] - est.Resid[i] // NaN before the first residual
+		fitted[i] = y[i] - est.Resid[i] // NaN before the first residual
 	}
 	xlabel, ylabel := "time ("+ds.timeUnit()+")", ds.output+outputUnit(ds)
-	whole := overlay("Observed and fitted (one step ahead), whole record", xlabel, ylabel, "fitted", t, y, fit)
+	whole := overlay("Observed and fitted (one step ahead), whole record", xlabel, ylabel, "fitted", t, y, fitted)
 	k := max(0, n-int(180/dt))
 	zoom := chart.New("Last part of the record, zoomed", xlabel, ylabel)
 	zoom.Legend("observed", zoom.Dots(t[k:], y[k:], palette.data, draw.CircleGlyph{}, 1.6))
-	zoom.Legend("fitted", zoom.Line(t[k:], fit[k:], palette.model, 1.5))
+	zoom.Legend("fitted", zoom.Line(t[k:], fitted[k:], palette.model, 1.5))
 	res := difference(fmt.Sprintf("Residuals (observed - fitted), summed from sample %d on", est.Conditioning.First),
-		xlabel, ylabel, t, y, fit)
+		xlabel, ylabel, t, y, fitted)
 	return chart.Save(path, []*chart.Chart{whole, zoom, res}, 18, 6.5)
 }
 

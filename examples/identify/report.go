@@ -13,13 +13,14 @@ import (
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // report prints the chosen model's estimates and path summary. The
 // summary is offered for control work only when the model passed every
 // check (out.Trusted); otherwise it is headed with the reason not to use
 // it.
-func report(ctx context.Context, est *tf.Estimate, ds *dataset, w io.Writer, pr *progress, out *Outcome) error {
+func report(ctx context.Context, est *fit.Estimate, ds *dataset, w io.Writer, pr *progress, out *Outcome) error {
 	fmt.Fprintf(w, "\nChosen model, coefficients rounded to 4 digits:\n  %s\n\n", rounded(est.Model))
 	// The library's report: the spec with the full estimates (parse it
 	// to reuse the model), estimates with standard errors, correlations,
@@ -44,7 +45,7 @@ func report(ctx context.Context, est *tf.Estimate, ds *dataset, w io.Writer, pr 
 
 // writeDiagnostics prints the checks and the verdict, which names every
 // reason a failed model must not be used.
-func writeDiagnostics(w io.Writer, d *tf.Diagnostics, failures []string) {
+func writeDiagnostics(w io.Writer, d *fit.Diagnostics, failures []string) {
 	if d == nil {
 		fmt.Fprintf(w, "\nDiagnostic checks: not run\n  verdict: NOT ADEQUATE, do not use this model for control work: %s\n", strings.Join(failures, "; "))
 		return
@@ -96,7 +97,7 @@ func mapCoefs(m tf.Model, fn func(*tf.Coef)) tf.Model {
 // estimate, as a one-model config in the format of examples/config, with
 // v, the record of the data it was fitted to, as its "validity", and in
 // its notes what was done to the record (time column, gaps).
-func saveConfig(path string, est *tf.Estimate, ds *dataset, v *modelinfo.Validity) error {
+func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validity) error {
 	type entry struct {
 		Name     string              `json:"name"`
 		Notes    string              `json:"notes"`

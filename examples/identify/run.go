@@ -19,6 +19,7 @@ import (
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/record"
 )
 
@@ -26,7 +27,7 @@ import (
 // the program.
 type Outcome struct {
 	// Estimate is the chosen (or the given spec's) fitted model.
-	Estimate *tf.Estimate
+	Estimate *fit.Estimate
 	// Paths summarises each input path of the fitted model.
 	Paths []modelinfo.Path
 	// Recovery compares each path with the truth (built-in data only).
@@ -38,7 +39,7 @@ type Outcome struct {
 	Simulation *Simulation
 	// Diagnostics are the checks of the chosen model (nil when they
 	// could not be run: then the model is not trusted).
-	Diagnostics *tf.Diagnostics
+	Diagnostics *fit.Diagnostics
 	// Trusted reports that the model passed every check
 	// (Diagnostics.Pass): only then does the report offer it for control
 	// work.
@@ -131,11 +132,11 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if err != nil {
 		return nil, err
 	}
-	var est *tf.Estimate
+	var est *fit.Estimate
 	if o.Spec != "" {
 		est, err = fitSpec(ctx, o.Spec, ds, skip, pr)
 	} else {
-		est, err = identify(ctx, ds, skip, stdout, pr)
+		est, err = identifyBest(ctx, ds, skip, stdout, pr)
 	}
 	if err != nil {
 		return nil, err
@@ -259,11 +260,11 @@ func loadRecord(o Options, rem record.Remedy, stdout io.Writer, pr *progress) (d
 // with them and the validity record. It returns the reasons the model
 // fails its checks (a check that cannot be run is one; the report goes
 // on, for a model that cannot be trusted).
-func checkModel(est *tf.Estimate, ds *dataset, pr *progress) (*Outcome, []string) {
+func checkModel(est *fit.Estimate, ds *dataset, pr *progress) (*Outcome, []string) {
 	out := &Outcome{Estimate: est, Record: ds.notes}
 	pr.say("checking the model")
 	var failures []string
-	d, err := tf.Check(est, ds.data, nil)
+	d, err := fit.Check(est, ds.data, nil)
 	if err != nil {
 		failures = []string{fmt.Sprintf("the diagnostic checks could not be run: %v", err)}
 	} else {
@@ -275,7 +276,7 @@ func checkModel(est *tf.Estimate, ds *dataset, pr *progress) (*Outcome, []string
 
 // writePictures writes the pictures into dir and lists them, and those
 // not drawn with the reason, on stdout.
-func writePictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome, stdout io.Writer, pr *progress) error {
+func writePictures(dir string, est *fit.Estimate, ds *dataset, out *Outcome, stdout io.Writer, pr *progress) error {
 	pr.say("writing pictures to %s", dir)
 	files, skipped, err := pictures(dir, est, ds, out)
 	if err != nil {
@@ -296,7 +297,7 @@ func writePictures(dir string, est *tf.Estimate, ds *dataset, out *Outcome, stdo
 // refuses with a *SaveError when it fails its checks and
 // o.SaveUntrusted is not set (said once, by the error; the report lists
 // the failures).
-func save(o Options, est *tf.Estimate, ds *dataset, out *Outcome, failures []string, stdout io.Writer) error {
+func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []string, stdout io.Writer) error {
 	if !out.Trusted && !o.SaveUntrusted {
 		return &SaveError{Path: o.Save, Failures: failures}
 	}
@@ -584,7 +585,7 @@ func sameInterval(a float64, ua string, b float64, ub string, tol float64) bool 
 }
 
 // validity is the record of the data est was fitted to.
-func validity(est *tf.Estimate, ds *dataset, pass bool, failures []string) *modelinfo.Validity {
+func validity(est *fit.Estimate, ds *dataset, pass bool, failures []string) *modelinfo.Validity {
 	v := &modelinfo.Validity{Samples: ds.n, Ranges: map[string][2]float64{}, Verdict: modelinfo.VerdictPassed}
 	if iv := est.Model.Interval; iv.Value > 0 {
 		v.Interval = ivText(iv.Value, iv.Unit)
@@ -624,7 +625,7 @@ func (ds *dataset) step() float64 {
 }
 
 // fitSpec parses spec and fits it.
-func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, pr *progress) (*tf.Estimate, error) {
+func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, pr *progress) (*fit.Estimate, error) {
 	m, err := parse.Model(spec)
 	if err != nil {
 		return nil, fmt.Errorf("the spec does not parse:\n%w", err)
@@ -633,7 +634,7 @@ func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, pr *progre
 		m.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 	}
 	pr.say("fitting %s", m)
-	est, err := tf.Fit(ctx, m, ds.data, &tf.FitSettings{IgnoreExtra: true, First: skip})
+	est, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: skip})
 	if err != nil {
 		return nil, err
 	}
@@ -707,7 +708,7 @@ type Simulation struct {
 // simulate runs the fitted model without noise from the inputs and
 // prints how well it follows the output: the test that matters for
 // control, since a controller sees the deterministic part.
-func simulate(est *tf.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation, error) {
+func simulate(est *fit.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation, error) {
 	m := est.Model.Clone()
 	m.Noise = nil
 	y, err := m.Simulate(ds.data, nil)

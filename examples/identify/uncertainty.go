@@ -7,6 +7,7 @@ import (
 
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // withParam returns a copy of m with every coefficient named name set to
@@ -23,7 +24,7 @@ func withParam(m tf.Model, name string, v float64) tf.Model {
 // method, sqrt(g' Cov g) with g the gradient of f by central differences
 // (step 1e-6 times the parameter's size, at least 1e-9), and NaN when f
 // fails near the estimate or the covariance is not available.
-func deltaSE(est *tf.Estimate, f func(tf.Model) (float64, error)) float64 {
+func deltaSE(est *fit.Estimate, f func(tf.Model) (float64, error)) float64 {
 	k := len(est.Params)
 	if len(est.Cov) != k {
 		return math.NaN()
@@ -87,7 +88,7 @@ func pathTau(i int) func(tf.Model) (float64, error) {
 
 // writeUncertainty prints the gains and the longest time constants of
 // the input paths with their standard errors.
-func writeUncertainty(w io.Writer, est *tf.Estimate, ds *dataset, paths []modelinfo.Path) {
+func writeUncertainty(w io.Writer, est *fit.Estimate, ds *dataset, paths []modelinfo.Path) {
 	fmt.Fprintf(w, "\nGains and time constants with standard errors (delta method on the estimates' covariance;\ndead times are chosen by the identification, not estimated):\n")
 	missing := false
 	for i, p := range paths {

@@ -7,7 +7,7 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/parse"
-	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // TestDeltaSEFirstOrder checks the numerical delta method against the
@@ -21,7 +21,7 @@ func TestDeltaSEFirstOrder(t *testing.T) {
 	g := greenhouse.Default()
 	data := g.ByName()
 	m := parse.MustModel(greenhouse.Structure)
-	est, err := tf.Fit(context.Background(), m, data, &tf.FitSettings{First: 288})
+	est, err := fit.Model(context.Background(), m, data, &fit.Settings{First: 288})
 	if err != nil {
 		t.Fatal(err)
 	}

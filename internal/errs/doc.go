@@ -9,8 +9,8 @@
 // # Op
 //
 // Every shape has an Op: the exported function the caller called, as
-// "package.Function" ("tf.Fit", "arma.Fit"). When one exported function
-// calls another (tf.Identify runs arma and ccf), the outer one sets Op
+// "package.Function" ("fit.Model", "arma.Fit"). When one exported function
+// calls another (identify.Candidates runs arma and ccf), the outer one sets Op
 // to its own name and renames settings to the caller's fields, so that a
 // message never names an inner package's setting.
 //

@@ -237,7 +237,7 @@ func (e *InternalError) Error() string {
 func (e *InternalError) Unwrap() error { return ErrInternal }
 
 // Recover turns a panic into an *InternalError stored in *err; use it as
-// `defer errs.Recover("tf.Identify", &err)` at the top of a goroutine or
+// `defer errs.Recover("identify.Candidates", &err)` at the top of a goroutine or
 // of a function whose result is returned to the caller. Without a panic
 // it does nothing.
 func Recover(op string, err *error) {

@@ -1,4 +1,4 @@
-// Command fitpeer times tf.Fit on CSV files written by
+// Command fitpeer times fit.Model on CSV files written by
 // testdata/peer/fit_scipy.py; see that script for how to run it.
 package main
 
@@ -14,6 +14,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 func main() {
@@ -27,10 +28,10 @@ func main() {
 		}
 		m := model()
 		var best time.Duration
-		var est *tf.Estimate
+		var est *fit.Estimate
 		for r := 0; r < *reps; r++ {
 			t0 := time.Now()
-			est, err = tf.Fit(context.Background(), m, data, nil)
+			est, err = fit.Model(context.Background(), m, data, nil)
 			el := time.Since(t0)
 			if err != nil {
 				fmt.Fprintln(os.Stderr, err)
@@ -51,7 +52,7 @@ func main() {
 }
 
 // model is y_t = c + (w0 + w1 B + w2 B^2)/(1 - d1 B) B^3 x_t + 1/(1 - p1 B - p2 B^2) a_t,
-// every free coefficient started at 0 (tf.Fit computes the start values).
+// every free coefficient started at 0 (fit.Model computes the start values).
 func model() tf.Model {
 	free := func(neg bool, name string, pow int) tf.Term {
 		return tf.Term{Neg: neg, Coef: tf.Coef{Name: name, Free: true}, Power: pow}

@@ -1,0 +1,186 @@
+// Package fit estimates transfer-function-noise models (tf.Model) from
+// data by conditional least squares, checks the estimates and forecasts
+// with them.
+//
+// Model fits the free coefficients of a model to a record and returns an
+// Estimate: the estimates with their standard errors and correlations,
+// the residuals, the information criteria and Warnings that say what
+// makes the estimate doubtful. Check runs the diagnostic checks of an
+// estimate on its data (Ljung-Box on the residuals, cross-correlation of
+// the residuals with the prewhitened inputs, soundness of the roots) and
+// gives a verdict; Estimate.Forecast forecasts the output with intervals,
+// from planned or forecast inputs. Screen is the screening of an output
+// record (stuck runs, spikes) that Model runs first.
+//
+// # Conditioning
+//
+// With w_t = D(B) y_t and z_i,t = D_i(B) x_i,t the differenced series,
+//
+//	u_i,t = omega_i(B)/delta_i(B) B^b_i z_i,t
+//	n_t   = w_t - c - sum_i u_i,t
+//	a_t   = phi(B)/theta(B) n_t.
+//
+// The input filters run from index 0. An input without differencing is
+// taken as held at its first value x_i,0 before the record, with u_i at
+// its steady state omega_i(1)/delta_i(1) x_i,0 (the process settled at
+// the input's first level, so that an input far from zero gives no
+// start-up transient): u_i = omega_i/delta_i B^b_i (x_i - x_i,0) from
+// rest plus omega_i(1)/delta_i(1) x_i,0. A differenced input z_i (which
+// varies about zero) is taken as zero before index d_i, the degree of
+// D_i, with u_i zero before the start (zero pre-sample values after
+// differencing). tf.Model.Simulate makes records of exactly this kind by
+// default, so that simulating and then fitting with the defaults agree.
+// Settings.ZeroPreSample takes every input as zero before its record
+// (the records of tf.Model.Simulate with tf.SimSettings.FromRest, for inputs
+// without differencing). A record that starts away from that assumption
+// shows a start-up transient, which the StartupTransient warning reports
+// and Settings.Settle leaves out. n_t is used from NoiseStart = max(d,
+// max_i(d_i + b_i + s_i)), where d is the degree of D and s_i that of
+// omega_i, so that every numerator sees only real data. The noise
+// recursion theta(B) a_t = phi(B) n_t starts at First = NoiseStart + p
+// with a_t = 0 for t < First and the actual n_{t-1..t-p}. The sum of
+// squares is sum_{t=First}^{n-1} a_t^2 over N = n - First residuals.
+//
+// The same convention serves Check and Forecast, which recompute the
+// residuals of an estimate, and identify.Candidates, which compares candidates over
+// one common First.
+//
+// # Estimation
+//
+// Model minimises the sum of squares over all free coefficients jointly
+// by Levenberg-Marquardt.
+//
+// Each derivative of a_t is itself a filtered series. Writing g_k(B) for
+// the derivative of a polynomial's expanded coefficients with respect to
+// parameter k (through products and powers of factors by the product
+// rule, sym.Poly.Grad):
+//
+//	omega_i:  d n_t = -g_k(B)/delta_i(B) B^b_i z_i,t          (numerator)
+//	delta_i:  d n_t = +g_k(B)/delta_i(B) u_i,t                (d(1/delta) = -g/delta^2)
+//	c:        d n_t = -1
+//	then      d a_t = phi(B)/theta(B) d n_t
+//	phi:      d a_t = +g_k(B)/theta(B) n_t
+//	theta:    d a_t = -g_k(B)/theta(B) a_t                    (from theta a = phi n)
+//
+// with the same conditioning (derivatives zero before First, the
+// moving-average recursion started at First), z_i and u_i standing for
+// their parts filtered from rest; an input held at x_i,0 adds the
+// constants -g_k(1)/delta_i(1) x_i,0 (numerator) and +omega_i(1) g_k(1)/
+// delta_i(1)^2 x_i,0 (denominator) to d n_t. The sums of contributions
+// give each Jacobian column; all are computed with the recursive filter
+// kernel and moving-average loops without allocation per sample, and a
+// numerator or AR column whose g_k is a single power of B is a shifted
+// copy of a series formed once per evaluation. The Jacobian is never
+// stored: the solver needs only J'J and J'r, and each block of 256 rows
+// of every column is formed in cache and multiplied there (the
+// moving-average recursion carrying its state from block to block).
+//
+// Start values: a polynomial whose free coefficients all have Value 0
+// gets computed start values; one with any non-zero free Value is started from the
+// values as written (the spec's start values). Computed starts: the
+// impulse-response weights of each input by least squares of w_t on
+// c and z_i,t-b_i-k, k = 0..s_i+3r_i+2 (over at most the last 20000
+// samples), turned into delta_i from the weights beyond lag s_i and into
+// omega_i = delta_i v_i (truncated) (Box, Jenkins & Reinsel, chapter on
+// transfer-function identification); the noise by Hannan-Rissanen on the
+// implied n_t. A polynomial with several factors or powers is matched to
+// the target coefficients by least squares. Further candidates (noise at
+// zero, denominators scaled by 0.5 and 1.5 when stable) are screened by
+// their sum of squares and the best Settings.Starts refined; the
+// lowest sum of squares wins. A long series (N >= 40000) goes through
+// all of this on its last max(2500, 400 k) samples only (k free
+// parameters), and the whole series is then refined from that estimate
+// by one Levenberg-Marquardt run, which takes a few iterations from so
+// close a start.
+//
+// Summation: Model may be called from many goroutines at once (for many
+// series or candidate models); fits share nothing but pools of work buffers. For
+// N >= 50000 residuals the products J'J and J'r are summed over the two
+// halves of the rows separately and then added; without a moving-average
+// part the halves run on two goroutines when GOMAXPROCS > 1. The
+// summation order depends only on N, so results are the same bit for bit
+// with one goroutine or two.
+//
+// References: Box, G. E. P., Jenkins, G. M., Reinsel, G. C. and Ljung,
+// G. M. (2015). Time Series Analysis: Forecasting and Control, 5th ed.,
+// Wiley: chapters on identification, fitting and checking of
+// transfer-function models.
+//
+// # Estimates
+//
+// Every fit of the library (fit.Model, arma.Fit) reports its free
+// coefficients as []Param (name, estimate, start, standard error, t) and
+// their covariance as a [][]float64 in the same order, NaN where it does
+// not exist. The innovation variance is SSQ/(N - k), N residuals and k
+// free coefficients, and the covariance sigma^2 (J'J)^-1; to compare with
+// a program that divides by N, scale the standard errors by
+// sqrt((N - k)/N). The log-likelihood, AIC and BIC use SSQ/N, as their
+// formulas require.
+//
+// # Records that start settled
+//
+// Model assumes by default that each input was held at its first value
+// before the record (the process settled there), and tf.Model.Simulate
+// makes such records by default, so that simulating and then fitting
+// agree. Settings.ZeroPreSample takes the inputs as zero before the
+// record instead (the records of tf.SimSettings.FromRest). When the
+// residuals or the noise series at the start of a fit show a transient
+// that this assumption does not explain, Model warns (StartupTransient)
+// and Settings.Settle leaves it out.
+//
+// # Concurrency
+//
+// Model, Check and Estimate.Forecast may be called from many goroutines
+// at once (for many series or candidate models); fits share nothing but
+// pools of work buffers. An Estimate is not modified by Check or
+// Forecast and may be read by several goroutines at once.
+//
+// # Errors
+//
+// Every function of the package returns the library's shared error
+// shapes (see tf's package doc), with Op naming the function the caller
+// called ("fit.Model", "fit.Check", "fit.Estimate.Forecast"), each
+// matching one kind with errors.Is. Two shapes are the package's own:
+// *StageError says which stage of Check or Forecast failed (errors.As
+// reaches the inner error) and *InterruptedError is a fit stopped by its
+// context; *InternalError is a recovered panic, a fault of the library.
+// On error the other results are zero values, except that a fit
+// interrupted by its context returns its best point with the error.
+//
+// Model returns a *SeriesError naming the series for one missing from the
+// data or not used by the model (ErrName), of unequal length
+// (ErrLength), too short (ErrShort: N must exceed the number of free
+// parameters; Have and Need count residuals), constant, or an input with
+// free coefficients that never moves (ErrConstant), or when no start
+// point gives finite residuals (ErrOverflow); a *SampleError for a NaN
+// or infinite sample, or one above MaxMagnitude (series and index);
+// a *SettingError from Settings.Validate (a negative or NaN setting,
+// Tol of 1 or more) or for Settings.First at or beyond the data's
+// length; a *ModelError for a model that tf.Model.Validate refuses (a
+// factor power below 1, a negative dead time, ...), a model with no
+// output or nothing free, free differencing coefficients, a name free
+// in one place and held in another, a zero constant term in a
+// denominator, an undifferenced input whose fixed denominator has a
+// pole at z = 1 and whose first sample is not zero (no steady state to
+// hold it at), or a residual sum of squares of 0 at the estimate (an
+// exact fit, or samples so small that their squares underflow), where
+// sigma^2, LogLik, AIC and BIC would not exist; an *InternalError for a
+// fault of the library (a recovered panic).
+// When ctx is done before the fit converges, Model returns the best point
+// so far (a non-nil Estimate with Converged false and Reason saying so)
+// together with an *InterruptedError that wraps the context's error, so
+// that errors.Is(err, context.Canceled) (or context.DeadlineExceeded)
+// holds; a caller that checks only err does not use an unfinished fit
+// by mistake. A fit that stops for another reason without converging
+// returns its best point with a nil error and a NotConverged warning.
+//
+// # Cautions
+//
+// An estimated model is an approximation, valid near the operating
+// conditions of the data it was fitted to. A controller tuned on it must
+// be commissioned on the plant under the site's safety procedures, with
+// independent interlocks and trips that do not rely on the model, by
+// people qualified to do so; defer to local codes and licensed
+// engineering practice. A failed check or a warning is advice to the
+// person using the model, not an interlock.
+package fit

@@ -1,0 +1,129 @@
+package fit
+
+import (
+	"strconv"
+
+	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/prewhiten"
+	"github.com/backshift/backshift/tf"
+)
+
+// InternalError reports a fault of the library itself: a panic recovered
+// at the boundary of a goroutine of Fit or Identify, or of an exported
+// function, so that the caller's process survives. Value is what the
+// panic carried and Stack where it happened; please report it with the
+// model and data. It matches ErrInternal.
+type InternalError = errs.InternalError
+
+// InterruptedError reports a fit whose context was done before it
+// converged: Series is the output, Iter the iterations done, and Err the
+// context's error. Fit returns the best point so far with it (not a
+// fitted model). It matches ErrConvergence and Err, so that
+// errors.Is(err, context.Canceled) (or context.DeadlineExceeded) holds.
+type InterruptedError struct {
+	Op     string
+	Series string
+	Iter   int
+	Err    error
+}
+
+// Error describes the stop in one line.
+func (e *InterruptedError) Error() string {
+	s := "fit of " + strconv.Quote(e.Series) + " interrupted after " + strconv.Itoa(e.Iter) +
+		" iterations, not converged (the estimate returned is the best point so far; do not use it as a fitted model)"
+	if e.Op != "" {
+		s = e.Op + ": " + s
+	}
+	if e.Err != nil {
+		s += ": " + e.Err.Error()
+	}
+	return s
+}
+
+// Unwrap returns ErrConvergence and the context's error.
+func (e *InterruptedError) Unwrap() []error { return []error{errs.ErrConvergence, e.Err} }
+
+// seriesErr returns a *SeriesError of the given kind (Op is set by the
+// exported function, see setOp).
+func seriesErr(series string, kind error, have, need int, detail string) error {
+	return &errs.SeriesError{Series: series, Kind: kind, Have: have, Need: need, Detail: detail}
+}
+
+// modelErr returns a *ModelError for the part named.
+func modelErr(part, problem string) error {
+	return &errs.ModelError{Part: part, Problem: problem}
+}
+
+// settingErr returns a *SettingError for the setting named.
+func settingErr(setting, value, rule string) error {
+	return &errs.SettingError{Setting: setting, Value: value, Rule: rule}
+}
+
+// fmtF formats a float for a message.
+func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// setOp sets the Op of every shared error shape in the chain of *err to
+// op, the exported function the caller called, so that an error found
+// by an inner stage (Fit inside Check, arma inside Forecast) names the
+// caller's function. It is deferred by each exported function of the
+// estimation side.
+func setOp(op string, err *error) {
+	for e := *err; e != nil; {
+		if p := opField(e); p != nil {
+			*p = op
+		}
+		if u, ok := e.(interface{ Unwrap() error }); ok {
+			e = u.Unwrap()
+			continue
+		}
+		if u, ok := e.(interface{ Unwrap() []error }); ok {
+			for _, x := range u.Unwrap() {
+				if x != nil && !errs.IsKind(x) {
+					setOp(op, &x)
+				}
+			}
+		}
+		break
+	}
+}
+
+// opField returns the Op field of an error that can reach a caller of
+// this package and has one (the shared shapes, those of tf and of this
+// package, and the evidence types of ccf and prewhiten passed on), or
+// nil.
+func opField(e error) *string {
+	switch v := e.(type) {
+	case *errs.SampleError:
+		return &v.Op
+	case *errs.SeriesError:
+		return &v.Op
+	case *errs.SettingError:
+		return &v.Op
+	case *errs.ModelError:
+		return &v.Op
+	case *errs.ConvergenceError:
+		return &v.Op
+	case *errs.InternalError:
+		return &v.Op
+	case *tf.CoefError:
+		return &v.Op
+	case *tf.DelayError:
+		return &v.Op
+	case *tf.GainError:
+		return &v.Op
+	case *tf.UnstableError:
+		return &v.Op
+	case *tf.SimError:
+		return &v.Op
+	case *InterruptedError:
+		return &v.Op
+	case *StageError:
+		return &v.Op
+	case *ccf.NoResponseError:
+		return &v.Op
+	case *prewhiten.NotWhiteError:
+		return &v.Op
+	}
+	return nil
+}

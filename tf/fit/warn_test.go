@@ -1,0 +1,86 @@
+package fit
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/tf"
+)
+
+func hasWarning(ws []Warning, k WarningKind) bool {
+	for _, w := range ws {
+		if w.Kind == k {
+			return true
+		}
+	}
+	return false
+}
+
+// TestFitWarningsRules checks each warning rule on estimates built by
+// hand: a pole at z = 1.0 (integrator) and an AR root at 1.2, an MA zero
+// at 1.0, a numerator zero at 0.52 beside a pole at 0.5, a correlation of
+// 0.97, and a fit that did not converge.
+func TestFitWarningsRules(t *testing.T) {
+	m := plantModel()
+	set := func(p tf.Poly, v float64) {
+		p.Each(func(c *tf.Coef) {
+			if c.Name != "" {
+				c.Value = v
+			}
+		})
+	}
+	set(m.Inputs[0].Num, 1) // w0 = 1, then w1 = 0.52: zero at z = 0.52
+	m.Inputs[0].Num.Factors[0].Terms[1].Coef.Value = 0.52
+	set(m.Inputs[0].Den, 1.0) // pole at z = 1
+	set(m.Noise.AR, 1.2)      // AR root at z = 1.2
+	m.Noise.MA = oneMinus("t1", 1)
+	set(m.Noise.MA, 1.0) // MA zero at z = 1
+	e := &Estimate{Model: m, Converged: false, Reason: "not converged: iteration limit reached",
+		Params: []Param{{Name: "w0"}, {Name: "d1"}},
+		Cov:    [][]float64{{1, 0.97}, {0.97, 1}}}
+	ws := warningsOf(e, false, nil)
+	for _, k := range []WarningKind{UnstableDenominator, NonStationaryNoise, NonInvertibleNoise, HighCorrelation, NotConverged} {
+		if !hasWarning(ws, k) {
+			t.Errorf("missing %v warning: %v", k, ws)
+		}
+	}
+	if hasWarning(ws, CancellingRoots) {
+		// zero 0.52 vs pole 1.0 are far apart
+		t.Errorf("unexpected cancellation warning: %v", ws)
+	}
+	set(m.Inputs[0].Den, 0.5)
+	ws = warningsOf(e, true, nil)
+	if !hasWarning(ws, CancellingRoots) || !hasWarning(ws, SingularInformation) || hasWarning(ws, UnstableDenominator) {
+		t.Errorf("zero 0.52 beside pole 0.5, singular J'J: %v", ws)
+	}
+}
+
+// TestFitWarnsRedundant fits a first-order numerator and denominator to
+// data with a pure gain and white noise: the fitted zero and pole cancel
+// and the estimates correlate near 1, and the fit says so.
+func TestFitWarnsRedundant(t *testing.T) {
+	rng := newRand(21)
+	n := 500
+	x := simAR1(rng, n, 0.3)
+	y := make([]float64, n)
+	for i := 1; i < n; i++ {
+		y[i] = 2*x[i-1] + 0.3*rng.NormFloat64()
+	}
+	num := mkPoly(mkFactor(mkTerm(false, "w0", 0, 0), mkTerm(true, "w1", 0, 1)))
+	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: num, Den: oneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
+	est, err := Model(context.Background(), m, map[string][]float64{"y": y, "x": x}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w1, _ := est.Param("w1")
+	d1, _ := est.Param("d1")
+	w0, _ := est.Param("w0")
+	if math.Abs(w1.Value/w0.Value-d1.Value) < cancelDist && !hasWarning(est.Warnings, CancellingRoots) {
+		t.Errorf("zero %v and pole %v cancel without a warning: %v", w1.Value/w0.Value, d1.Value, est.Warnings)
+	}
+	if !hasWarning(est.Warnings, CancellingRoots) || !hasWarning(est.Warnings, HighCorrelation) {
+		t.Errorf("warnings %v (w0 %v w1 %v d1 %v)", est.Warnings, w0.Value, w1.Value, d1.Value)
+	}
+}

@@ -1,0 +1,251 @@
+package identify
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/prewhiten"
+	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
+)
+
+// specNameErr reports a series name given to Identify that a model spec
+// cannot hold (the candidates print as specs and are read back by
+// package parse), as a *SeriesError of kind ErrName: role is "output"
+// or "input".
+func specNameErr(name, role string) error {
+	return seriesErr(name, errs.ErrName, 0, 0, "the "+role+" series name cannot be written in a model spec: "+
+		"use an ASCII letter or underscore, then letters, digits or underscores, not one of B, a, AR, MA, ARMA, where, every (rename the series)")
+}
+
+// scoreErr is the Err of a candidate whose fit succeeded but whose
+// ranking criterion (BIC, or AIC) is not a finite number, which would
+// otherwise rank it first (-Inf) or anywhere (NaN): typically a sum of
+// squares of zero, a model that reproduces the output exactly. It is a
+// *ModelError.
+func scoreErr(label, criterion string, v float64) error {
+	return modelErr("candidate "+label, "its "+criterion+" is "+fmtF(v)+", not a finite number (a zero or overflowing sum of squares); it is not ranked")
+}
+
+// Validate checks the settings by the library's settings rule and the
+// rules of IdentifySettings' fields (see its doc), and returns a
+// *SettingError naming the field ("Settings.MaxLag",
+// "Settings.Fit.MaxIter"), or nil. What needs the data (an
+// InputDiff entry that is not an input, a differencing degree against
+// the record's length) is checked by Identify.
+func (s Settings) Validate() (err error) {
+	defer setOp("identify.Settings.Validate", &err)
+	return s.validate(nil, -1)
+}
+
+// validate reports a bad setting of Identify as a *SettingError naming
+// the field (or a *SeriesError of kind ErrName for an InputDiff entry
+// that is not an input). The rule: zero means the default for every number; a negative
+// count (MaxLag, Forms, NoiseOrders, MaxCandidates, Workers) is an
+// error, while a negative order bound (MaxR, MaxS, MaxP, MaxQ) means
+// order zero only, as in packages ccf and prewhiten; MaxP and MaxQ are
+// at most arma.MaxLag. A differencing
+// operator must have finite coefficients, constant term 1 and a degree
+// below half the record.
+func (s *Settings) validate(inputs []string, n int) error {
+	for _, err := range []error{
+		errs.Count("", "Settings.MaxLag", s.MaxLag, "0 means max(10, min(36, n/6))"),
+		errs.Count("", "Settings.Forms", s.Forms, "0 means 2"),
+		errs.Count("", "Settings.NoiseOrders", s.NoiseOrders, "0 means 2"),
+		errs.Count("", "Settings.MaxCandidates", s.MaxCandidates, "0 means 24"),
+		errs.Count("", "Settings.Workers", s.Workers, "0 means GOMAXPROCS"),
+	} {
+		if err != nil {
+			return err
+		}
+	}
+	for _, c := range []struct {
+		name string
+		v    int
+	}{{"MaxP", s.MaxP}, {"MaxQ", s.MaxQ}} {
+		if c.v > arma.MaxLag {
+			return settingErr("Settings."+c.name, strconv.Itoa(c.v), "must be at most "+strconv.Itoa(arma.MaxLag)+" (arma.MaxLag); 0 means 2, a negative value order zero only")
+		}
+	}
+	if err := checkDiffSetting("Settings.OutputDiff", s.OutputDiff, n); err != nil {
+		return err
+	}
+	known := map[string]bool{}
+	for _, in := range inputs {
+		known[in] = true
+	}
+	for _, name := range sortedKeys(s.InputDiff) {
+		if inputs != nil && !known[name] {
+			return unknownInputErr("Settings.InputDiff", name, inputs)
+		}
+		if err := checkDiffSetting("Settings.InputDiff["+strconv.Quote(name)+"]", s.InputDiff[name], n); err != nil {
+			return err
+		}
+	}
+	return s.validateNested()
+}
+
+// checkDiffSetting checks the differencing coefficients c of the setting
+// arg: finite, constant term 1 and, for a record of n samples (n < 0
+// when unknown), degree below n/2.
+func checkDiffSetting(arg string, c []float64, n int) error {
+	for k, v := range c {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return settingErr(arg+"["+strconv.Itoa(k)+"]", fmtF(v), "a differencing coefficient must be a finite number")
+		}
+	}
+	if len(c) > 0 && c[0] != 1 {
+		return settingErr(arg+"[0]", fmtF(c[0]), "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B")
+	}
+	if n >= 0 && len(c) > 1 && 2*(len(c)-1) >= n {
+		return settingErr(arg, "degree "+strconv.Itoa(len(c)-1), "the degree of the differencing must be below half the record ("+strconv.Itoa(n)+" samples)")
+	}
+	return nil
+}
+
+// validateNested checks the settings of the fits and checks Identify
+// runs, naming a bad field under IdentifySettings.
+func (s *Settings) validateNested() error {
+	if s.Fit != nil {
+		if err := s.Fit.Validate(); err != nil {
+			if se, ok := err.(*errs.SettingError); ok {
+				c := *se
+				c.Setting = "Settings.Fit." + se.Setting[len("Settings."):]
+				return &c
+			}
+			return err
+		}
+	}
+	if s.Check != nil {
+		if err := s.Check.Validate(); err != nil {
+			if se, ok := err.(*errs.SettingError); ok {
+				c := *se
+				c.Setting = "Settings.Check." + se.Setting[len("CheckSettings."):]
+				return &c
+			}
+			return err
+		}
+	}
+	return nil
+}
+
+// seriesErr returns a *SeriesError of the given kind (Op is set by the
+// exported function, see setOp).
+func seriesErr(series string, kind error, have, need int, detail string) error {
+	return &errs.SeriesError{Series: series, Kind: kind, Have: have, Need: need, Detail: detail}
+}
+
+// modelErr returns a *ModelError for the part named.
+func modelErr(part, problem string) error {
+	return &errs.ModelError{Part: part, Problem: problem}
+}
+
+// settingErr returns a *SettingError for the setting named.
+func settingErr(setting, value, rule string) error {
+	return &errs.SettingError{Setting: setting, Value: value, Rule: rule}
+}
+
+// fmtF formats a float for a message.
+func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// setOp sets the Op of every shared error shape in the chain of *err to
+// op, the exported function the caller called, so that an error found
+// by an inner stage (Fit inside Check, arma inside Forecast) names the
+// caller's function. It is deferred by each exported function of the
+// estimation side.
+func setOp(op string, err *error) {
+	for e := *err; e != nil; {
+		if p := opField(e); p != nil {
+			*p = op
+		}
+		if u, ok := e.(interface{ Unwrap() error }); ok {
+			e = u.Unwrap()
+			continue
+		}
+		if u, ok := e.(interface{ Unwrap() []error }); ok {
+			for _, x := range u.Unwrap() {
+				if x != nil && !errs.IsKind(x) {
+					setOp(op, &x)
+				}
+			}
+		}
+		break
+	}
+}
+
+// opField returns the Op field of an error that can reach a caller of
+// Candidates and has one (the shared shapes, those of tf and fit, and
+// the evidence types of ccf and prewhiten passed on), or nil. It is
+// fit's list: Candidates returns no error shape of its own.
+func opField(e error) *string {
+	switch v := e.(type) {
+	case *errs.SampleError:
+		return &v.Op
+	case *errs.SeriesError:
+		return &v.Op
+	case *errs.SettingError:
+		return &v.Op
+	case *errs.ModelError:
+		return &v.Op
+	case *errs.ConvergenceError:
+		return &v.Op
+	case *errs.InternalError:
+		return &v.Op
+	case *tf.CoefError:
+		return &v.Op
+	case *tf.DelayError:
+		return &v.Op
+	case *tf.GainError:
+		return &v.Op
+	case *tf.UnstableError:
+		return &v.Op
+	case *tf.SimError:
+		return &v.Op
+	case *fit.InterruptedError:
+		return &v.Op
+	case *fit.StageError:
+		return &v.Op
+	case *ccf.NoResponseError:
+		return &v.Op
+	case *prewhiten.NotWhiteError:
+		return &v.Op
+	}
+	return nil
+}
+
+// unknownInputErr reports a settings map keyed by input name (such as
+// ForecastSettings.Future, ForecastSettings.InputModels,
+// IdentifySettings.InputDiff) holding a name that is not an input, as a
+// *SeriesError of kind ErrName naming the map and the inputs there are.
+// It usually means a misspelt name, which would otherwise leave the
+// input to its default silently.
+func unknownInputErr(setting, name string, inputs []string) error {
+	q := make([]string, len(inputs))
+	for i, s := range inputs {
+		q[i] = strconv.Quote(s)
+	}
+	have := "there are no inputs"
+	if len(q) > 0 {
+		have = "the inputs are " + strings.Join(q, ", ")
+	}
+	return seriesErr(name, errs.ErrName, 0, 0, "named in "+setting+", it is not an input ("+have+"); check the spelling")
+}
+
+// constantErr reports a series (named as the caller named it) that is
+// constant, so that it carries no response to identify or check: role
+// is "output" or "input", v its constant value and diff the differencing
+// after which it is constant ("" when constant as given). It is a
+// *SeriesError of kind ErrConstant.
+func constantErr(series, role string, v float64, diff string) error {
+	val := strconv.FormatFloat(v, 'g', 6, 64)
+	if diff == "" {
+		return seriesErr(series, errs.ErrConstant, 0, 0, "the "+role+": every sample is "+val+
+			", so it carries no response; check that the right column was chosen")
+	}
+	return seriesErr(series, errs.ErrConstant, 0, 0, "the "+role+", after its differencing "+diff+": every differenced sample is "+val+
+		", so it carries no response; check the column, or ask for less differencing")
+}
