@@ -7,7 +7,7 @@ import "github.com/backshift/backshift/internal/errs"
 // kinds to use with errors.Is.
 type (
 	// SettingError reports a setting that breaks its rule, naming the
-	// field as the caller wrote it ("FitSettings.MaxIter").
+	// field as the caller wrote it ("SimSettings.BurnIn").
 	SettingError = errs.SettingError
 	// SeriesError reports a problem with a whole series: too short,
 	// constant, of the wrong length, unknown, or overflowing.

@@ -24,8 +24,8 @@ const MaxBurnIn = 1 << 24
 // inputs are ignored; all the same length n, which is the length of the
 // result). Every coefficient is taken at its Value.
 //
-// The record starts settled by default, as Fit assumes (see
-// Conditioning in the package doc): each input is taken as held at its
+// The record starts settled by default, as fit.Model assumes (see
+// Conditioning in the doc of package tf/fit): each input is taken as held at its
 // first sample x_0 before the record, so an undifferenced input's term
 // starts at its steady output Gain() x_0 and a differenced input's
 // difference starts at zero (System.SetSteady with the first samples).

@@ -51,10 +51,10 @@ type SimSettings struct {
 	// before the record (see System.SetSteady): an undifferenced input's
 	// term starts at its steady output Gain() x_0, and a differenced
 	// input's pre-sample values are x_0, so that its difference starts
-	// at zero. That is the record Fit assumes by default (see
-	// Conditioning in the package doc), so that simulating and then fitting
-	// with the defaults agree; FromRest matches Fit with
-	// FitSettings.ZeroPreSample only for inputs without differencing. A
+	// at zero. That is the record fit.Model assumes by default (see
+	// Conditioning in the doc of package tf/fit), so that simulating and then fitting
+	// with the defaults agree; FromRest matches fit.Model with
+	// fit.Settings.ZeroPreSample only for inputs without differencing. A
 	// System from NewSystem always starts at rest (it does not know the
 	// first input before the first Step); call System.SetSteady with the
 	// first input samples to start it settled.
@@ -136,7 +136,7 @@ func (e *SimError) Unwrap() error {
 // (the differencing D_i as one Plant, then the rational term as
 // another), the noise is a Plant on seeded Gaussian innovations, and the
 // output differencing is undone by integrating through 1/D(B), all from
-// rest unless SetSteady is called. (Model.Simulate and Fit start each
+// rest unless SetSteady is called. (Model.Simulate and fit.Model start each
 // input path settled at its first sample by default; a System cannot know
 // the first sample before the first Step, so it starts at rest, and
 // SetSteady with the first samples gives their settled start.) Every

@@ -143,7 +143,7 @@ const (
 // Errors (the shared shapes, Op "fit.Check"): *ModelError for a nil
 // estimate or a coefficient that is not finite; *SettingError for a bad
 // setting (CheckSettings.Lags, CrossLags, Alpha); the *SeriesError and
-// *SampleError of Fit for missing, unequal or non-finite series; a
+// *SampleError of Model for missing, unequal or non-finite series; a
 // *SeriesError of kind ErrOverflow when the residuals overflow (the
 // model diverges on data) and of kind ErrConstant for an input that is
 // constant after its differencing; *StageError wrapping the error of
@@ -436,7 +436,7 @@ func rootFailures(m tf.Model) []string {
 // that is not finite.
 func estimateUsable(fn string, e *Estimate) error {
 	if e == nil {
-		return estimateErr("", 0, "the estimate is nil; pass the *Estimate that Fit returned")
+		return estimateErr("", 0, "the estimate is nil; pass the *Estimate that fit.Model returned")
 	}
 	var err error
 	visit := func(c *tf.Coef) {
@@ -523,7 +523,7 @@ func residualsOf(fn string, e *Estimate, data map[string][]float64) ([]float64, 
 	if err := condCheck(e, data); err != nil {
 		return nil, 0, err
 	}
-	w, err := prepareFit(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, 0, err
 	}

@@ -9,7 +9,7 @@ import (
 )
 
 // StageError reports the failure of one stage of Check, Forecast or
-// Identify done by another package of the library (prewhitening,
+// identify.Candidates done by another package of the library (prewhitening,
 // cross-correlation, ARMA fitting): Op names the function the caller
 // called, Stage says in the caller's words what was being done and to
 // which series, and Err is the underlying error, one of the shared

@@ -313,8 +313,8 @@ func TestCheckFixedIntegrator(t *testing.T) {
 // checkIntegratorRefused reports whether err refuses a held-input
 // integrator by a typed error that names the input and the remedy:
 // Check's and Forecast's *SeriesError of kind ErrOverflow on the
-// residuals, or the data check shared with Fit (a *ModelError naming the
-// input) where Fit refuses the case itself.
+// residuals, or the data check shared with Model (a *ModelError naming the
+// input) where Model refuses the case itself.
 func checkIntegratorRefused(err error) bool {
 	var se *tf.SeriesError
 	var me *errs.ModelError
@@ -413,12 +413,12 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 	t.Logf("lag-1 ACF: fit %.4f, Check %.4f, held convention %.4f", own.R[1], d.Residual.ACF[0], dh.Residual.ACF[0])
 }
 
-// TestCheckSettingsBadInput gives every field of CheckSettings a bad value
+// TestBadInputCheckSettings gives every field of CheckSettings a bad value
 // and checks the *SettingError names the field; a nil estimate and one
 // with a coefficient that is not a number are *ModelError; a constant
 // input is a typed error naming the user's series; the reports of a nil
 // estimate, nil checks and a candidate without estimate do not panic.
-func TestCheckSettingsBadInput(t *testing.T) {
+func TestBadInputCheckSettings(t *testing.T) {
 	est, data := plantEstimate(t)
 	for _, tc := range []struct {
 		s    CheckSettings
@@ -441,7 +441,7 @@ func TestCheckSettingsBadInput(t *testing.T) {
 		}
 	}
 	var ee *errs.ModelError
-	if _, err := Check(nil, data, nil); !errors.As(err, &ee) || err.Error() != "fit.Check: estimate: the estimate is nil; pass the *Estimate that Fit returned" {
+	if _, err := Check(nil, data, nil); !errors.As(err, &ee) || err.Error() != "fit.Check: estimate: the estimate is nil; pass the *Estimate that fit.Model returned" {
 		t.Errorf("nil estimate: %v", err)
 	}
 	bad := *est
@@ -461,7 +461,7 @@ func TestCheckSettingsBadInput(t *testing.T) {
 		t.Errorf("nil reports: %q %q", ne.String(), nd.String())
 	}
 	// Refused by Check's own test, or by the data checks it shares with
-	// Fit; either way typed and naming the user's series.
+	// Model; either way typed and naming the user's series.
 	var ce *tf.SeriesError
 	_, err := Check(est, flat, nil)
 	if !errors.As(err, &ce) || ce.Series != "x" || !errors.Is(err, tf.ErrConstant) || !strings.Contains(err.Error(), `series "x" is constant`) || !strings.Contains(err.Error(), "every sample is 40") {

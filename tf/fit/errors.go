@@ -10,7 +10,7 @@ import (
 )
 
 // InternalError reports a fault of the library itself: a panic recovered
-// at the boundary of a goroutine of Fit or Identify, or of an exported
+// at the boundary of a goroutine of Model or identify.Candidates, or of an exported
 // function, so that the caller's process survives. Value is what the
 // panic carried and Stack where it happened; please report it with the
 // model and data. It matches ErrInternal.
@@ -18,7 +18,7 @@ type InternalError = errs.InternalError
 
 // InterruptedError reports a fit whose context was done before it
 // converged: Series is the output, Iter the iterations done, and Err the
-// context's error. Fit returns the best point so far with it (not a
+// context's error. Model returns the best point so far with it (not a
 // fitted model). It matches ErrConvergence and Err, so that
 // errors.Is(err, context.Canceled) (or context.DeadlineExceeded) holds.
 type InterruptedError struct {
@@ -65,7 +65,7 @@ func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // setOp sets the Op of every shared error shape in the chain of *err to
 // op, the exported function the caller called, so that an error found
-// by an inner stage (Fit inside Check, arma inside Forecast) names the
+// by an inner stage (Model inside Check, arma inside Forecast) names the
 // caller's function. It is deferred by each exported function of the
 // estimation side.
 func setOp(op string, err *error) {

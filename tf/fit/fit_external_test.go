@@ -27,10 +27,10 @@ func trapData(seed uint64, n int, level float64) []float64 {
 	return x
 }
 
-// TestFitDataAndModelBadInput is the table of mistakes a user makes with Fit's data and
+// TestBadInputModelDataAndModel is the table of mistakes a user makes with Model's data and
 // models built in code: each gives a typed error naming the series or
 // the part of the model, with the key words of its message checked.
-func TestFitDataAndModelBadInput(t *testing.T) {
+func TestBadInputModelDataAndModel(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + a")
 	x := trapData(1, 200, 5)
 	y := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})["y"]
@@ -132,7 +132,7 @@ func isSeries(kind error, series string) func(error) bool {
 	}
 }
 
-// isShared matches the shared *ModelError of Fit's own checks.
+// isShared matches the shared *ModelError of Model's own checks.
 func isShared(part string) func(error) bool {
 	return func(err error) bool {
 		var me *errs.ModelError
@@ -154,11 +154,11 @@ func isModel(part string) func(error) bool {
 	}
 }
 
-// TestFitWarningTraps checks the warnings for fits that converge but
+// TestModelWarningTraps checks the warnings for fits that converge but
 // must not be trusted: 2 residuals for 1 coefficient (dead time 10000 of
 // 10002 samples), a pole at 0.9999 on a record of 2000 samples, and two
 // identical inputs (no standard errors).
-func TestFitWarningTraps(t *testing.T) {
+func TestModelWarningTraps(t *testing.T) {
 	// Dead time 10000 with n = 10002: N = 2 residuals for k = 1.
 	x := trapData(2, 10002, 0)
 	y := make([]float64, len(x))
@@ -217,7 +217,7 @@ func TestFitWarningTraps(t *testing.T) {
 	}
 }
 
-// TestFitSettingsBadInput is the table of every field of FitSettings with a
+// TestBadInputModelSettings is the table of every field of Settings with a
 // bad value (SimSettings and StepSettings: TestSimSettingsRule): each
 // gives a *SettingError (or a *SampleError for an innovation) naming the
 // field, both from the
@@ -225,7 +225,7 @@ func TestFitWarningTraps(t *testing.T) {
 // the package's: zero means the default, a negative value is an error.
 // Fields with no bad value: Settings.ZeroPreSample, Settle,
 // IgnoreExtra; SimSettings.Seed1, Seed2, FromRest (every value valid).
-func TestFitSettingsBadInput(t *testing.T) {
+func TestBadInputModelSettings(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + AR(1)")
 	x := trapData(1, 120, 5)
 	data := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})
@@ -250,7 +250,7 @@ func TestFitSettingsBadInput(t *testing.T) {
 			}
 		}
 	}
-	// First is checked against the data's length by Fit.
+	// First is checked against the data's length by fit.Model.
 	var fse *tf.SettingError
 	if _, err := fit.Model(context.Background(), m, data, &fit.Settings{First: 120}); !errors.As(err, &fse) || fse.Setting != "Settings.First" ||
 		!strings.Contains(err.Error(), "must be below the number of samples, 120") {
@@ -276,11 +276,11 @@ func TestFitSettingsBadInput(t *testing.T) {
 
 func second[T any](_ T, err error) error { return err }
 
-// TestFitSpecRoundTrip checks that a fitted model prints as a spec that
+// TestModelSpecRoundTrip checks that a fitted model prints as a spec that
 // package parse reads back with the estimates as start values, and that
 // refitting from there returns to the same estimates (within the
 // optimiser's tolerance, 1e-6 relative) in very few iterations.
-func TestFitSpecRoundTrip(t *testing.T) {
+func TestModelSpecRoundTrip(t *testing.T) {
 	u := whiteInput(8, 9, 800)
 	data := mustRecord(t, "y = 3 + (1.5 - 0.4 B) / (1 - 0.7 B) B^2 u + (1 - 0.3 B) a", map[string][]float64{"u": u}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.5})
 	m, err := parse.Model("y = c + (w0 - w1 B) / (1 - d1 B) B^2 u + (1 - t1 B) a")
@@ -409,9 +409,9 @@ func simulateRoundTrip(t testing.TB, c roundTripCase, seed uint64, n int, fromRe
 	return mustRecord(t, c.truth, map[string][]float64{c.in: x}, &tf.SimSettings{Seed1: seed, Seed2: 78, Sigma: 1, FromRest: fromRest})
 }
 
-// TestFitSimulateRoundTripDefaults simulates each of the three models
+// TestModelSimulateRoundTripDefaults simulates each of the three models
 // with the defaults of Model.Simulate, fits the same structure with the
-// defaults of Fit, and counts the seeds in which every estimate lies
+// defaults of Model, and counts the seeds in which every estimate lies
 // within 4 standard errors of the truth: at least 99 of 100 per model.
 // Asymptotically the CLS estimates are normal about the truth (Box,
 // Jenkins & Reinsel, chapter on fitting transfer-function models), so
@@ -419,7 +419,7 @@ func simulateRoundTrip(t testing.TB, c roundTripCase, seed uint64, n int, fromRe
 // is for the finite sample (n = 300). With Simulate's former default
 // (inputs from rest) the valve model misses in most seeds, which this
 // test also shows.
-func TestFitSimulateRoundTripDefaults(t *testing.T) {
+func TestModelSimulateRoundTripDefaults(t *testing.T) {
 	seeds, n := 100, 300
 	for _, c := range roundTripCases {
 		m := parse.MustModel(c.spec)
@@ -454,7 +454,7 @@ func TestFitSimulateRoundTripDefaults(t *testing.T) {
 	}
 	// The trap the settled default of Simulate avoids: the valve model
 	// simulated from rest and fitted with the defaults misses (phi1 soaks up the
-	// start-up transient) and Fit says so with a StartupTransient
+	// start-up transient) and Model says so with a StartupTransient
 	// warning.
 	c := roundTripCases[0]
 	data := simulateRoundTrip(t, c, 1, n, true)
@@ -489,13 +489,13 @@ func warningText(e *fit.Estimate, k fit.WarningKind) string {
 	return ""
 }
 
-// TestFitStartupTransient checks the StartupTransient warning: no false
+// TestModelStartupTransient checks the StartupTransient warning: no false
 // alarm on records that start settled (200 seeds of each of the three
 // models; the test's stated false-alarm rate is 1e-4 a fit, so 600 fits
 // give a false alarm with probability about 0.06), a warning naming the
 // samples and the Settle remedy on a record simulated from rest with a
 // valve about 50 %, and none once Settle leaves the transient out.
-func TestFitStartupTransient(t *testing.T) {
+func TestModelStartupTransient(t *testing.T) {
 	n := 300
 	for _, c := range roundTripCases {
 		m := parse.MustModel(c.spec)
@@ -544,7 +544,7 @@ func TestFitStartupTransient(t *testing.T) {
 
 // fuzzSpecs are the structures FuzzModel draws from; the fuzzer also
 // perturbs powers and dead times (including the invalid values 0 and -1)
-// so that models no spec can express reach Fit.
+// so that models no spec can express reach fit.Model.
 func fuzzModel(sel, exp, delay, pow byte) tf.Model {
 	free := func(name string, neg bool, p int) tf.Term {
 		return tf.Term{Neg: neg, Coef: tf.Coef{Name: name, Free: true}, Power: p}
@@ -652,7 +652,7 @@ func FuzzModel(f *testing.F) {
 }
 
 // Forecast and Check on a record shorter than the estimate's
-// conditioning name the output and the reason, not a FitSettings field
+// conditioning name the output and the reason, not a Settings field
 // the caller never set.
 func TestShortRecordForConditioning(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + AR(1)")

@@ -16,7 +16,7 @@ import (
 
 // scipyCase is one entry of testdata/fit/ref_fit.json, written by
 // testdata/fit/ref_fit.py (scipy 1.10.1 optimize.least_squares on
-// signal.lfilter residuals with the conditioning of Fit).
+// signal.lfilter residuals with the conditioning of Model).
 type scipyCase struct {
 	Name  string `json:"name"`
 	File  string `json:"file"`
@@ -144,14 +144,14 @@ func (c scipyCase) data(t testing.TB) map[string][]float64 {
 	return d
 }
 
-// TestFitAgainstScipy fits the models of ref_fit.json from our own
+// TestModelAgainstScipy fits the models of ref_fit.json from our own
 // computed start values (the spec's free values are all zero) and
 // compares with the independent scipy 1.10.1 least_squares fits started
 // elsewhere: estimates and sum of squares agree to 1e-6 relative (both
 // optimisers stop at relative sum-of-squares changes near 1e-15, which
 // places the estimates within ~1e-7 of the minimum in units of their own
 // scale).
-func TestFitAgainstScipy(t *testing.T) {
+func TestModelAgainstScipy(t *testing.T) {
 	for _, c := range readScipyCases(t) {
 		t.Run(c.Name, func(t *testing.T) {
 			est, _ := c.fit(t)
@@ -179,14 +179,14 @@ func TestFitAgainstScipy(t *testing.T) {
 	}
 }
 
-// TestFitBJsalesPublished compares the BJsales fit with the estimates
+// TestModelBJsalesPublished compares the BJsales fit with the estimates
 // published for Series M (Box, Jenkins & Reinsel), recalled from memory:
 // c ~ 0.035, w0 ~ 4.82, d1 ~ 0.72, t1 ~ 0.54. d1 must agree within 0.01
 // and c within one standard error. w0 and t1 depend on the estimation
 // method and start-up convention (the MA coefficient moves by about 0.1
 // between reasonable conventions); they are checked against scipy in
-// TestFitAgainstScipy and only recorded here.
-func TestFitBJsalesPublished(t *testing.T) {
+// TestModelAgainstScipy and only recorded here.
+func TestModelBJsalesPublished(t *testing.T) {
 	est, _ := scipyCaseNamed(t, "bjsales").fit(t)
 	d1, _ := est.Param("d1")
 	cc, _ := est.Param("c")

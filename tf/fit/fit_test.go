@@ -18,8 +18,8 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// TestFitBadInput checks the typed errors of Fit and their messages.
-func TestFitBadInput(t *testing.T) {
+// TestBadInputModel checks the typed errors of Model and their messages.
+func TestBadInputModel(t *testing.T) {
 	y, x := simulatePlant(newRand(9), 60)
 	good := func() map[string][]float64 {
 		return map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
@@ -102,9 +102,9 @@ func TestFitBadInput(t *testing.T) {
 	}
 }
 
-// TestFitDoesNotModify checks that Fit leaves the model and the data as
+// TestModelDoesNotModify checks that Model leaves the model and the data as
 // they were.
-func TestFitDoesNotModify(t *testing.T) {
+func TestModelDoesNotModify(t *testing.T) {
 	y, x := simulatePlant(newRand(10), 200)
 	data := map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
 	m := plantModel()
@@ -131,10 +131,10 @@ func TestFitDoesNotModify(t *testing.T) {
 	}
 }
 
-// TestFitCancel checks that a done context stops the fit with the best
+// TestModelCancel checks that a done context stops the fit with the best
 // point so far and says so, in the error (wrapping the context's error)
 // as well as in the estimate.
-func TestFitCancel(t *testing.T) {
+func TestModelCancel(t *testing.T) {
 	y, x := simulatePlant(newRand(11), 400)
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
@@ -155,7 +155,7 @@ func TestFitCancel(t *testing.T) {
 
 // A dead time outside 0..MaxDelay in a model built in code is a typed
 // *ModelError naming the input and the dead time, not an index panic.
-func TestFitNegativeDelay(t *testing.T) {
+func TestModelNegativeDelay(t *testing.T) {
 	x := make([]float64, 300)
 	y := make([]float64, 300)
 	for i := range x {
@@ -174,7 +174,7 @@ func TestFitNegativeDelay(t *testing.T) {
 // Negative or NaN settings are *SettingError values naming the field,
 // and a sample so large that its square overflows is a *SampleError
 // with its limit (not an error about the number of observations).
-func TestFitSettingsAndMagnitudeBadInput(t *testing.T) {
+func TestBadInputModelSettingsAndMagnitude(t *testing.T) {
 	y, x := simulatePlant(newRand(9), 80)
 	data := map[string][]float64{"y": y, "x": x}
 	for _, tc := range []struct {
@@ -206,10 +206,10 @@ func TestFitSettingsAndMagnitudeBadInput(t *testing.T) {
 	}
 }
 
-// TestFitConcurrent fits one model to several series in parallel and
+// TestModelConcurrent fits one model to several series in parallel and
 // checks that every result equals the sequential fit of the same series
 // exactly (no shared state between fits).
-func TestFitConcurrent(t *testing.T) {
+func TestModelConcurrent(t *testing.T) {
 	const k = 8
 	datas := make([]map[string][]float64, k)
 	want := make([]*Estimate, k)
@@ -271,11 +271,11 @@ func jacModel() tf.Model {
 	}
 }
 
-// TestFitJacobianFiniteDifference checks the analytic Jacobian columns
+// TestModelJacobianFiniteDifference checks the analytic Jacobian columns
 // against central differences of the residuals (step 1e-6; the truncation
 // error is O(h^2) ~ 1e-12 relative and rounding ~ 1e-10, so 1e-6 relative
 // to the column's scale is a safe bound).
-func TestFitJacobianFiniteDifference(t *testing.T) {
+func TestModelJacobianFiniteDifference(t *testing.T) {
 	data := jacData(300)
 	for _, zero := range []bool{false, true} {
 		jacCheck(t, data, Settings{ZeroPreSample: zero})
@@ -295,7 +295,7 @@ func jacData(n int) map[string][]float64 {
 }
 
 func jacCheck(t *testing.T, data map[string][]float64, set Settings) {
-	w, err := prepareFit(jacModel(), data, set)
+	w, err := newWork(jacModel(), data, set)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -335,14 +335,14 @@ func jacCheck(t *testing.T, data map[string][]float64, set Settings) {
 	}
 }
 
-// TestFitMonteCarlo fits 100 replicates of n = 400 and checks that the
+// TestModelMonteCarlo fits 100 replicates of n = 400 and checks that the
 // 95 % intervals estimate -/+ 1.96 SE cover the truth in 89-99 % of the
 // replicates for every parameter (the binomial(100, 0.95) range is about
 // 90-99 at 99 %), and that the 95 % forecast intervals with the future
 // input known cover 92-98 % of the simulated futures (100 replicates x 10
 // steps; the steps of one replicate are correlated, hence the width).
 // Fixed seeds make it deterministic.
-func TestFitMonteCarlo(t *testing.T) {
+func TestModelMonteCarlo(t *testing.T) {
 	const reps, n, h = 100, 400, 10
 	rng := rand.New(rand.NewPCG(2026, 12))
 	cover := map[string]int{}
@@ -376,7 +376,7 @@ func TestFitMonteCarlo(t *testing.T) {
 	t.Logf("coverage %v, forecasts %d/%d", cover, fcCover, fcTotal)
 }
 
-// TestFitNormalBlocked checks normalEval, which forms the Jacobian a
+// TestModelNormalBlocked checks normalEval, which forms the Jacobian a
 // block of rows at a time and never stores it, against the stored
 // columns of eval multiplied out the way lm sums them (blocks of
 // lm.NormalBlock in row order; from lm.NormalSplit rows the two halves
@@ -385,7 +385,7 @@ func TestFitMonteCarlo(t *testing.T) {
 // halves on two goroutines) and one (the recursion carried from block to
 // block), short and long series; the finite-difference test checks the
 // stored columns themselves. Run it with -race to check the sharing.
-func TestFitNormalBlocked(t *testing.T) {
+func TestModelNormalBlocked(t *testing.T) {
 	ma := benchModel()
 	ma.Noise.MA = oneMinus("t1", 1)
 	cases := []struct {
@@ -402,7 +402,7 @@ func TestFitNormalBlocked(t *testing.T) {
 	for _, c := range cases {
 		for _, procs := range []int{1, 2} {
 			old := runtime.GOMAXPROCS(procs)
-			w, err := prepareFit(c.m, c.data, Settings{})
+			w, err := newWork(c.m, c.data, Settings{})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -479,9 +479,9 @@ func storedProducts(jac [][]float64, r []float64) []float64 {
 	return acc
 }
 
-// TestFitRun1 checks the fused first-order kernel against the general
+// TestModelRun1 checks the fused first-order kernel against the general
 // path (recursive filter, moving average, recursive filter) bit for bit.
-func TestFitRun1(t *testing.T) {
+func TestModelRun1(t *testing.T) {
 	rng := newRand(71)
 	n, b := 1000, 3
 	zc := make([]float64, n)
@@ -503,13 +503,13 @@ func TestFitRun1(t *testing.T) {
 	}
 }
 
-// TestFitSettle simulates a slow process (pole 0.95) whose input was not
+// TestModelSettle simulates a slow process (pole 0.95) whose input was not
 // at its first value before the record (the record starts in the middle
 // of a transient from an earlier level) and checks that Settle moves
 // the first residual index past ln 0.01/ln 0.95 = 90 samples and brings
 // the pole estimate back within 3 SE of the truth, where the plain fit
 // is biased.
-func TestFitSettle(t *testing.T) {
+func TestModelSettle(t *testing.T) {
 	rng := newRand(41)
 	n := 2000
 	pre := 300
@@ -551,12 +551,12 @@ func TestFitSettle(t *testing.T) {
 	t.Logf("plain d1 %.4f (%.4f) first %d; settled d1 %.4f (%.4f) first %d", d0.Value, d0.SE, plain.Conditioning.First, d1.Value, d1.SE, settled.Conditioning.First)
 }
 
-// TestSettingsValidateBadInput checks the exported Validate of every settings
+// TestBadInputSettingsValidate checks the exported Validate of every settings
 // struct of the estimation side: the one rule (zero means the default,
 // a negative count or a probability outside (0, 1) is an error), a
 // *SettingError naming the caller's field, Op naming Validate itself;
 // the zero value is valid.
-func TestSettingsValidateBadInput(t *testing.T) {
+func TestBadInputSettingsValidate(t *testing.T) {
 	for _, tc := range []struct {
 		err  error
 		want string
@@ -581,7 +581,7 @@ func TestSettingsValidateBadInput(t *testing.T) {
 }
 
 // TestErrorsOfInnerStagesNameTheCaller checks that an error found by an
-// inner stage carries the Op of the function the caller called: Fit's
+// inner stage carries the Op of the function the caller called: Model's
 // data check run inside Check and Forecast says fit.Check and
 // fit.Estimate.Forecast, not fit.Model.
 func TestErrorsOfInnerStagesNameTheCaller(t *testing.T) {

@@ -243,8 +243,8 @@ type Forecast struct {
 // that is not finite; *SeriesError of kind ErrName for a Future or
 // InputModels entry naming a series that is not an input, of kind
 // ErrShort for a Future shorter than h; *SampleError for a future value
-// that is not finite or above FitMaxMagnitude (Series "future x"); the
-// data errors of Fit; *SeriesError of kind ErrOverflow when the
+// that is not finite or above MaxMagnitude (Series "future x"); the
+// data errors of Model; *SeriesError of kind ErrOverflow when the
 // residuals or the forecast overflow float64 (never NaN or infinite
 // numbers with a nil error); *StageError wrapping the error of the
 // automatic input autoregression.
@@ -332,7 +332,7 @@ func (e *Estimate) checkForecast(data map[string][]float64, h int, set *Forecast
 // its conditioning (u_i, n_t, a_t at the estimates) and refuses residuals
 // that are not finite.
 func (e *Estimate) residualsForForecast(data map[string][]float64) (*work, error) {
-	w, err := prepareFit(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
 		return nil, err
 	}
@@ -397,7 +397,7 @@ func forecastInput(fi *inputState, set ForecastSettings, n, h int, dc, vr, what 
 		}
 	}
 	ifc.Values = append([]float64(nil), xe[n:]...)
-	// u over the extended series with the fitted filter, as in Fit.
+	// u over the extended series with the fitted filter, as in Model.
 	ze := applyDiff(xe, in.Diff.Coeffs())
 	for t := fi.d; t < L; t++ {
 		ze[t] -= fi.z0
@@ -469,29 +469,6 @@ func predictInput(fi *inputState, im InputModel, xe []float64, n, h int, dc, vr 
 		vr[j] += im.Sigma2 * acc
 	}
 	return nil
-}
-
-// addNoiseForecast adds the forecast of the noise n_t to what, from
-// phi(B) n_t = theta(B) a_t with future a_t = 0.
-func (w *work) addNoiseForecast(what []float64) {
-	n, h := w.n, len(what)
-	L := n + h
-	ts, t0 := w.cond.NoiseStart, w.cond.First
-	ne := make([]float64, L)
-	copy(ne[ts:n], w.nn[ts:n])
-	ae := make([]float64, L)
-	copy(ae[t0:n], w.a[t0:n])
-	for t := n; t < L; t++ {
-		v := 0.0
-		for k := 1; k < len(w.arC) && t-k >= 0; k++ {
-			v -= w.arC[k] * ne[t-k]
-		}
-		for k := 1; k < len(w.maC) && t-k >= 0; k++ {
-			v += w.maC[k] * ae[t-k]
-		}
-		ne[t] = v / w.arC[0]
-		what[t-n] += ne[t]
-	}
 }
 
 // integrate returns y extended by the forecast what of D(B) y,

@@ -86,7 +86,7 @@ func (im InputModel) validate(name string) error {
 
 // unknownInputErr reports a settings map keyed by input name (such as
 // ForecastSettings.Future, ForecastSettings.InputModels,
-// IdentifySettings.InputDiff) holding a name that is not an input, as a
+// identify.Settings.InputDiff) holding a name that is not an input, as a
 // *SeriesError of kind ErrName naming the map and the inputs there are.
 // It usually means a misspelt name, which would otherwise leave the
 // input to its default silently.

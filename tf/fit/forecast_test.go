@@ -93,8 +93,8 @@ func TestForecastRandomWalk(t *testing.T) {
 	}
 }
 
-// TestForecastBadInput checks the typed errors of Forecast.
-func TestForecastBadInput(t *testing.T) {
+// TestBadInputForecast checks the typed errors of Forecast.
+func TestBadInputForecast(t *testing.T) {
 	est, data := plantEstimate(t)
 	if _, err := est.Forecast(data, 0, nil); !errors.As(err, new(*tf.SettingError)) || err.Error() != "fit.Estimate.Forecast: h = 0: the horizon must be at least 1" {
 		t.Errorf("h = 0: %v", err)
@@ -222,13 +222,13 @@ func TestForecastIntegratingInput(t *testing.T) {
 	}
 }
 
-// TestForecastInputModelBadInput gives Forecast input models that cannot
+// TestBadInputForecastInputModel gives Forecast input models that cannot
 // forecast their input and checks each *InputModelError names the input
 // and the field; the roots are those of the polynomials as written:
 // MA 1 - 2B has its zero at z = 2 (not invertible), AR 1 - 1.5B its root
 // at z = 1.5 (explosive), while AR 1 - B (a unit root, integration) is
 // accepted.
-func TestForecastInputModelBadInput(t *testing.T) {
+func TestBadInputForecastInputModel(t *testing.T) {
 	est, data := plantEstimate(t)
 	ok := InputModel{AR: []float64{1, -0.5}, MA: []float64{1}, C: 0, Sigma2: 1}
 	with := func(f func(*InputModel)) map[string]InputModel {
@@ -370,10 +370,10 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	}
 }
 
-// TestForecastHorizonBadInput checks that a horizon above MaxHorizon is
+// TestBadInputForecastHorizon checks that a horizon above MaxHorizon is
 // a *SettingError naming h and the limit, returned at once: without the
 // limit h = 1<<40 would ask for terabytes of forecast series.
-func TestForecastHorizonBadInput(t *testing.T) {
+func TestBadInputForecastHorizon(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := tf.Coef{Name: "c", Free: true}
 	m := tf.Model{Output: "y", Diff: diff1, Const: &c, Noise: &arma.Noise{}}

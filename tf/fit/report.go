@@ -2,10 +2,11 @@ package fit
 
 import (
 	"fmt"
-	"github.com/backshift/backshift/tf"
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/backshift/backshift/tf"
 )
 
 // String returns a plain-text report of the fit for people: the fitted

@@ -14,9 +14,9 @@ import (
 
 // A record of our own (a valve around 50 % driving a first-order
 // temperature) with a stuck output stretch or one bad reading planted:
-// Fit converges and the residual checks may well pass, but the estimate
+// Model converges and the residual checks may well pass, but the estimate
 // carries a serious warning naming the samples, and Check's verdict fails.
-func TestFitScreensTheOutput(t *testing.T) {
+func TestModelScreensTheOutput(t *testing.T) {
 	n := 3000
 	valve := make([]float64, n)
 	for i := range valve {

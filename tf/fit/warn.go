@@ -39,7 +39,7 @@ const (
 	// StartupTransient: the start of the fit shows a transient that the
 	// pre-sample convention does not explain (an input that was not
 	// settled at its first value, as in a record that starts from rest);
-	// FitSettings.Settle or a larger FitSettings.First leaves it out.
+	// Settings.Settle or a larger Settings.First leaves it out.
 	// Two tests, each at a false-alarm rate of 5e-5 for white Gaussian
 	// residuals (1e-4 together), made with at least 40 residuals:
 	//

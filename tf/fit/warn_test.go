@@ -18,11 +18,11 @@ func hasWarning(ws []Warning, k WarningKind) bool {
 	return false
 }
 
-// TestFitWarningsRules checks each warning rule on estimates built by
+// TestModelWarningsRules checks each warning rule on estimates built by
 // hand: a pole at z = 1.0 (integrator) and an AR root at 1.2, an MA zero
 // at 1.0, a numerator zero at 0.52 beside a pole at 0.5, a correlation of
 // 0.97, and a fit that did not converge.
-func TestFitWarningsRules(t *testing.T) {
+func TestModelWarningsRules(t *testing.T) {
 	m := plantModel()
 	set := func(p tf.Poly, v float64) {
 		p.Each(func(c *tf.Coef) {
@@ -57,10 +57,10 @@ func TestFitWarningsRules(t *testing.T) {
 	}
 }
 
-// TestFitWarnsRedundant fits a first-order numerator and denominator to
+// TestModelWarnsRedundant fits a first-order numerator and denominator to
 // data with a pure gain and white noise: the fitted zero and pole cancel
 // and the estimates correlate near 1, and the fit says so.
-func TestFitWarnsRedundant(t *testing.T) {
+func TestModelWarnsRedundant(t *testing.T) {
 	rng := newRand(21)
 	n := 500
 	x := simAR1(rng, n, 0.3)

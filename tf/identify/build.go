@@ -8,13 +8,13 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// The conversion of Identify from the numbers packages ccf and prewhiten
+// The conversion of Candidates from the numbers packages ccf and prewhiten
 // return (dead times, orders, fitted coefficients) to model values with
 // named coefficients. Names come from one rule, coefName, and the
 // models print with the package's one printer (Model.String).
 
 // coefName is the one naming rule for the coefficients of the models
-// Identify proposes: part is "w" (numerator, k from 0), "d" (denominator),
+// Candidates proposes: part is "w" (numerator, k from 0), "d" (denominator),
 // "phi" (noise AR) or "theta" (noise MA), k the power of B; with several
 // inputs the input name and "_" come first, so that the terms of several
 // inputs can share one model ("valve_w0", "d1", "theta1").
@@ -47,7 +47,7 @@ func formInput(series string, several bool, diff tf.Poly, f ccf.Form) tf.Input {
 
 // noiseOfOrder returns the noise (1 - theta1 B - ..)/(1 - phi1 B - ..) a of
 // orders p and q with free coefficients at zero (start values computed by
-// Fit), named by arma's one rule for noise coefficients (arma.Model.Noise).
+// fit.Model), named by arma's one rule for noise coefficients (arma.Model.Noise).
 func noiseOfOrder(p, q int) *arma.Noise {
 	n := arma.Model{AR: make([]float64, p), MA: make([]float64, q)}.Noise()
 	return &n

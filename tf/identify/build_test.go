@@ -9,13 +9,13 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// TestIdentifyBuild: the numbers of a ccf form and a noise order become model
+// TestCandidatesBuild: the numbers of a ccf form and a noise order become model
 // values with the one naming rule (input name and "_" first when there
 // are several inputs; w from 0 with plus signs, d from 1 with minus
 // signs, so that d_k = -Den[k]; phi and theta from 1), the form's
 // numbers as start values, printed by Model.String (the noise of the
 // usual names in its short form ARMA(p, q)).
-func TestIdentifyBuild(t *testing.T) {
+func TestCandidatesBuild(t *testing.T) {
 	f := ccf.Form{Delay: 3, R: 1, S: 1, Num: []float64{0.8, 0.4}, Den: []float64{1, -0.6}}
 	for _, tc := range []struct {
 		several bool
@@ -61,11 +61,11 @@ func TestIdentifyBuild(t *testing.T) {
 	}
 }
 
-// TestIdentifyInnerOp: an error of ccf met inside Identify names the function
+// TestCandidatesInnerOp: an error of ccf met inside Candidates names the function
 // the caller called, identify.Candidates, as its Op (the Op rule of the shared
 // vocabulary), and keeps its evidence and kind. The input is white noise
 // unrelated to the output (seeded), so no lag passes the dead-time rule.
-func TestIdentifyInnerOp(t *testing.T) {
+func TestCandidatesInnerOp(t *testing.T) {
 	const n = 400
 	rng := newRand(9)
 	x, y := make([]float64, n), make([]float64, n)

@@ -13,7 +13,7 @@ import (
 	"github.com/backshift/backshift/tf/fit"
 )
 
-// specNameErr reports a series name given to Identify that a model spec
+// specNameErr reports a series name given to Candidates that a model spec
 // cannot hold (the candidates print as specs and are read back by
 // package parse), as a *SeriesError of kind ErrName: role is "output"
 // or "input".
@@ -32,17 +32,17 @@ func scoreErr(label, criterion string, v float64) error {
 }
 
 // Validate checks the settings by the library's settings rule and the
-// rules of IdentifySettings' fields (see its doc), and returns a
+// rules of Settings' fields (see its doc), and returns a
 // *SettingError naming the field ("Settings.MaxLag",
 // "Settings.Fit.MaxIter"), or nil. What needs the data (an
 // InputDiff entry that is not an input, a differencing degree against
-// the record's length) is checked by Identify.
+// the record's length) is checked by Candidates.
 func (s Settings) Validate() (err error) {
 	defer setOp("identify.Settings.Validate", &err)
 	return s.validate(nil, -1)
 }
 
-// validate reports a bad setting of Identify as a *SettingError naming
+// validate reports a bad setting of Candidates as a *SettingError naming
 // the field (or a *SeriesError of kind ErrName for an InputDiff entry
 // that is not an input). The rule: zero means the default for every number; a negative
 // count (MaxLag, Forms, NoiseOrders, MaxCandidates, Workers) is an
@@ -107,8 +107,8 @@ func checkDiffSetting(arg string, c []float64, n int) error {
 	return nil
 }
 
-// validateNested checks the settings of the fits and checks Identify
-// runs, naming a bad field under IdentifySettings.
+// validateNested checks the settings of the fits and checks Candidates
+// runs, naming a bad field under Settings.
 func (s *Settings) validateNested() error {
 	if s.Fit != nil {
 		if err := s.Fit.Validate(); err != nil {
@@ -154,7 +154,7 @@ func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // setOp sets the Op of every shared error shape in the chain of *err to
 // op, the exported function the caller called, so that an error found
-// by an inner stage (Fit inside Check, arma inside Forecast) names the
+// by an inner stage (fit.Model inside Check, arma inside Forecast) names the
 // caller's function. It is deferred by each exported function of the
 // estimation side.
 func setOp(op string, err *error) {
@@ -219,7 +219,7 @@ func opField(e error) *string {
 
 // unknownInputErr reports a settings map keyed by input name (such as
 // ForecastSettings.Future, ForecastSettings.InputModels,
-// IdentifySettings.InputDiff) holding a name that is not an input, as a
+// Settings.InputDiff) holding a name that is not an input, as a
 // *SeriesError of kind ErrName naming the map and the inputs there are.
 // It usually means a misspelt name, which would otherwise leave the
 // input to its default silently.

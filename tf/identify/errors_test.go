@@ -10,12 +10,12 @@ import (
 	"github.com/backshift/backshift/tf/fit"
 )
 
-// TestSettingsValidateBadInput checks Settings.Validate by the one rule
+// TestBadInputSettingsValidate checks Settings.Validate by the one rule
 // of the settings (zero means the default, a negative count is an
 // error): a *SettingError naming the caller's field, nested settings of
 // the fits named under Settings.Fit, Op naming Validate itself; the zero
 // value and negative order bounds (order zero only) are valid.
-func TestSettingsValidateBadInput(t *testing.T) {
+func TestBadInputSettingsValidate(t *testing.T) {
 	for _, tc := range []struct {
 		err  error
 		want string

@@ -21,7 +21,7 @@ import (
 	"github.com/backshift/backshift/tf/fit"
 )
 
-// IdentifySettings tunes Identify. The zero value (or nil) gives the
+// Settings tunes Candidates. The zero value (or nil) gives the
 // defaults.
 type Settings struct {
 	// OutputDiff is the differencing D(B) of the output, ascending powers
@@ -47,7 +47,7 @@ type Settings struct {
 	// (prewhiten.IdentifyNoise); zero means 2 and a negative value
 	// means order zero only (no AR, or no MA, part).
 	//
-	// The rule for every number of IdentifySettings: zero means the
+	// The rule for every number of Settings: zero means the
 	// default; a negative count (MaxLag, Forms, NoiseOrders,
 	// MaxCandidates, Workers) is a *SettingError naming the field, while a
 	// negative order bound (MaxR, MaxS, MaxP, MaxQ) means order zero
@@ -64,7 +64,7 @@ type Settings struct {
 	// NoSettle keeps the automatic first residual index. By default the
 	// common first index is moved past the start-up transient of the
 	// preliminary fit's input poles (ln 0.01 / ln |z|max samples, see
-	// FitSettings.Settle), capped at n/10, which keeps a transient of
+	// fit.Settings.Settle), capped at n/10, which keeps a transient of
 	// the pre-sample assumption (typical of closed-loop records) out of
 	// the noise model.
 	NoSettle bool
@@ -78,15 +78,15 @@ type Settings struct {
 	// number of fits done and the number planned (which may grow by the
 	// second round); calls do not overlap.
 	Progress func(done, total int)
-	// Fit and Check are passed to Fit and Check for every candidate
+	// Fit and Check are passed to fit.Model and fit.Check for every candidate
 	// (Fit.First is overridden so that all candidates sum the same
 	// residuals); their bad fields are reported as
-	// IdentifySettings.Fit.X and IdentifySettings.Check.X.
+	// Settings.Fit.X and Settings.Check.X.
 	Fit   *fit.Settings
 	Check *fit.CheckSettings
 }
 
-// FittedCandidate is one model structure proposed by Identify, fitted
+// Candidate is one model structure proposed by Candidates, fitted
 // and checked, with its place in the ranking.
 type Candidate struct {
 	// Rank is the position in the ranking, 1 for the best.
@@ -102,11 +102,11 @@ type Candidate struct {
 	Diagnostics *fit.Diagnostics
 	CheckErr    error
 	// Criterion names the ranking criterion, "BIC" (or "AIC" with
-	// IdentifySettings.ByAIC), and Score is its value for this fit,
+	// Settings.ByAIC), and Score is its value for this fit,
 	// +Inf when the fit failed; lower is better.
 	Criterion string
 	Score     float64
-	// Err is the fit's error, nil on success: a typed error of Fit, a
+	// Err is the fit's error, nil on success: a typed error of fit.Model, a
 	// *ModelError when the criterion is not a finite number (so that
 	// such a fit is never ranked first), an *InternalError when the fit
 	// or its checks panicked, or ctx's error. Candidates with an Err are
@@ -238,7 +238,7 @@ func Candidates(ctx context.Context, output string, inputs []string, data map[st
 	return out, nil
 }
 
-// settingsOfFits returns the settings of Identify's fits: set.Fit, with
+// settingsOfFits returns the settings of Candidates' fits: set.Fit, with
 // extra series in the data allowed.
 func (set Settings) settingsOfFits() fit.Settings {
 	fs := fit.Settings{IgnoreExtra: true}
@@ -250,7 +250,7 @@ func (set Settings) settingsOfFits() fit.Settings {
 }
 
 // recordHints returns the messages of the faults screened in the output
-// y (named output), which may explain a failed stage of Identify.
+// y (named output), which may explain a failed stage of Candidates.
 func recordHints(output string, y []float64) []string {
 	var hints []string
 	for _, w := range fit.Screen(output, y) {
@@ -272,7 +272,7 @@ func rank(out []Candidate, ids []*ccf.Identification) {
 	}
 }
 
-// fillDefaults replaces the zero values of the settings Identify reads
+// fillDefaults replaces the zero values of the settings Candidates reads
 // by their documented defaults.
 func (set *Settings) fillDefaults() {
 	def := func(v *int, d int) {
@@ -382,10 +382,10 @@ func inputForms(output string, inputs []string, data map[string][]float64, diffs
 // when that fit or the noise identification fails) and, unless
 // set.NoSettle, the first residual index past the start-up transient of
 // its estimated poles. A bad setting in set.Fit is returned under its
-// IdentifySettings name; a done context ends the search.
+// Settings name; a done context ends the search.
 func noiseOrders(ctx context.Context, pre tf.Model, data map[string][]float64, fs fit.Settings, set Settings) (noises []*arma.Noise, settleFirst int, err error) {
 	noises = []*arma.Noise{{}}
-	est, ferr := identifyFit(ctx, pre, data, &fs)
+	est, ferr := modelFit(ctx, pre, data, &fs)
 	if cerr := ctx.Err(); cerr != nil {
 		return nil, 0, cerr
 	}
@@ -572,7 +572,7 @@ func scoreCandidate(ctx context.Context, m tf.Model, data map[string][]float64, 
 		c.Err = err
 		return c
 	}
-	est, err := identifyFit(ctx, m, data, &fs)
+	est, err := modelFit(ctx, m, data, &fs)
 	if err != nil {
 		c.Err = err
 		return c
@@ -592,9 +592,9 @@ func scoreCandidate(ctx context.Context, m tf.Model, data map[string][]float64, 
 	return c
 }
 
-// identifyFit is the fit Identify runs; tests replace it to reach the
+// modelFit is the fit Candidates runs; tests replace it to reach the
 // recovery at the goroutine boundary of scoreCandidates.
-var identifyFit = fit.Model
+var modelFit = fit.Model
 
 // bestCandidate returns the candidate with the lowest score, nil if none fitted.
 func bestCandidate(cs []Candidate) *Candidate {
@@ -621,7 +621,7 @@ func structureKey(m tf.Model) string {
 }
 
 // lowerNeighbours returns copies of m (single-factor polynomials as
-// Identify builds them) with the highest-power term of one numerator
+// Candidates builds them) with the highest-power term of one numerator
 // (s >= 1), denominator (r >= 1) or noise polynomial removed.
 func lowerNeighbours(m tf.Model) []tf.Model {
 	drop := func(p tf.Poly) (tf.Poly, bool) {
@@ -697,7 +697,7 @@ func jointWeights(output string, inputs []string, data map[string][]float64, out
 }
 
 // isSpecName reports whether s can name a series in a model spec (the
-// models Identify returns print as specs): an ASCII letter or underscore,
+// models Candidates returns print as specs): an ASCII letter or underscore,
 // then letters, digits or underscores, and not a word of the language.
 func isSpecName(s string) bool {
 	switch s {
@@ -763,7 +763,7 @@ func validateIdentifyData(output string, inputs []string, data map[string][]floa
 	return nil
 }
 
-// identifyMaxMagnitude and identifyMinSpread bound the samples Identify accepts:
+// identifyMaxMagnitude and identifyMinSpread bound the samples Candidates accepts:
 // the ARMA fits of the prewhitening refuse magnitudes above 1e140, and
 // the correlations need squared deviations above the float64 underflow
 // (about 1e-308 for a square, so deviations above about 1e-140 leave

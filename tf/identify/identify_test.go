@@ -16,14 +16,14 @@ import (
 	"github.com/backshift/backshift/tf/fit"
 )
 
-// TestIdentifyBJsales runs the one-call identification on BJsales (R
+// TestCandidatesBJsales runs the one-call identification on BJsales (R
 // datasets package, Series M of Box, Jenkins & Reinsel) with both series
 // differenced once. The identification published for Series M is a dead
 // time of 3 samples with a first-order denominator and no numerator
 // lags (b = 3, r = 1, s = 0; from memory); the best-ranked candidate must
 // have that transfer function and pass its checks, and all candidates
 // must be ranked by BIC over the same residuals.
-func TestIdentifyBJsales(t *testing.T) {
+func TestCandidatesBJsales(t *testing.T) {
 	data := scipyRecord(t, "bjsales")
 	cands, err := Candidates(context.Background(), "sales", []string{"lead"}, data, &Settings{OutputDiff: []float64{1, -1}})
 	if err != nil {
@@ -56,8 +56,8 @@ func TestIdentifyBJsales(t *testing.T) {
 	}
 }
 
-// TestIdentifyBadInput checks the typed data errors of Identify.
-func TestIdentifyBadInput(t *testing.T) {
+// TestBadInputCandidates checks the typed data errors of Candidates.
+func TestBadInputCandidates(t *testing.T) {
 	y, x := simulatePlant(newRand(3), 100)
 	var fe *tf.SeriesError
 	if _, err := Candidates(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || !errors.Is(err, tf.ErrName) || fe.Series != "u" ||
@@ -75,9 +75,9 @@ func TestIdentifyBadInput(t *testing.T) {
 	}
 }
 
-// TestIdentifyProgressAndCancel checks the progress callback and that a
+// TestCandidatesProgressAndCancel checks the progress callback and that a
 // done context stops the identification with its error.
-func TestIdentifyProgressAndCancel(t *testing.T) {
+func TestCandidatesProgressAndCancel(t *testing.T) {
 	data := scipyRecord(t, "bjsales")
 	calls, last := 0, 0
 	cands, err := Candidates(context.Background(), "sales", []string{"lead"}, data, &Settings{OutputDiff: []float64{1, -1},
@@ -124,19 +124,19 @@ func TestCandidateLabel(t *testing.T) {
 }
 
 // identifyTrapData is 300 samples of plantModel's own simulation (x AR(1),
-// b = 3, r = 1, s = 1, AR(1) noise), on which Identify finds a response.
+// b = 3, r = 1, s = 1, AR(1) noise), on which Candidates finds a response.
 func identifyTrapData() map[string][]float64 {
 	y, x := simulatePlant(newRand(3), 300)
 	return map[string][]float64{"y": y, "x": x}
 }
 
-// TestIdentifySettingsBadInput gives every field of IdentifySettings a bad
+// TestBadInputCandidatesSettings gives every field of Settings a bad
 // value and checks the typed error names the field (the settings
 // Settings.Fit and .Check by their path); a negative order bound
 // (MaxR, MaxS, MaxP, MaxQ) is not an error but means order zero only,
 // which the candidates must show. MaxCandidates -3 and Forms -2 are
 // typed errors, not index panics.
-func TestIdentifySettingsBadInput(t *testing.T) {
+func TestBadInputCandidatesSettings(t *testing.T) {
 	data := identifyTrapData()
 	for _, tc := range []struct {
 		s    Settings
@@ -193,7 +193,7 @@ func TestIdentifySettingsBadInput(t *testing.T) {
 	}
 }
 
-// TestIdentifyBlamesTheUsersSeries checks that a constant output or
+// TestCandidatesBlamesTheUsersSeries checks that a constant output or
 // input is reported under the caller's name, saying it is constant (not
 // "output (filtered)" with a rounding residue such as -2.22e-15), that a
 // constant input with no differencing asked is not said to be constant
@@ -201,7 +201,7 @@ func TestIdentifySettingsBadInput(t *testing.T) {
 // the series, that samples too large (above 1e140) or too little varied
 // (below 1e-140) are refused by the series' name, and that a bad list
 // of inputs is refused by name.
-func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
+func TestCandidatesBlamesTheUsersSeries(t *testing.T) {
 	data := identifyTrapData()
 	n := len(data["y"])
 	flat := make([]float64, n)
@@ -287,21 +287,21 @@ func TestIdentifyBlamesTheUsersSeries(t *testing.T) {
 	}
 }
 
-// stubFit replaces the fit Identify runs for one test.
-func stubFit(t *testing.T, f func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error)) {
-	old := identifyFit
-	identifyFit = f
-	t.Cleanup(func() { identifyFit = old })
+// stubModelFit replaces the fit Candidates runs for one test.
+func stubModelFit(t *testing.T, f func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error)) {
+	old := modelFit
+	modelFit = f
+	t.Cleanup(func() { modelFit = old })
 }
 
-// TestIdentifyRecoversPanics makes every candidate fit with a
+// TestCandidatesRecoversPanics makes every candidate fit with a
 // second-order denominator and coloured noise panic (a slice bounds
 // error, as a bug in arma would raise), and checks
-// that Identify returns (its process alive) with those candidates
+// that Candidates returns (its process alive) with those candidates
 // carrying an *InternalError that names the candidate, ranked after the
 // candidates that fitted.
-func TestIdentifyRecoversPanics(t *testing.T) {
-	stubFit(t, func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
+func TestCandidatesRecoversPanics(t *testing.T) {
+	stubModelFit(t, func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
 		if len(m.Inputs) == 1 && m.Inputs[0].Den.Degree() == 2 && !m.Noise.IsWhite() {
 			var buf [33]float64
 			k := m.Inputs[0].Den.Degree() + 40
@@ -329,9 +329,9 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	if panicked == 0 || cands[0].Err != nil {
 		t.Errorf("%d panicked candidates; best %v", panicked, cands[0].Err)
 	}
-	// A panic in the caller's Progress callback, called from Identify's
+	// A panic in the caller's Progress callback, called from Candidates'
 	// goroutines, is caught there too.
-	identifyFit = fit.Model
+	modelFit = fit.Model
 	calls := 0
 	var mu sync.Mutex
 	cands, err = Candidates(context.Background(), "y", []string{"x"}, identifyTrapData(), &Settings{Workers: 1, NoRefine: true,
@@ -353,7 +353,7 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	}
 	// A panic in the caller's goroutine (the preliminary fit) is an
 	// error too.
-	stubFit(t, func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
+	stubModelFit(t, func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
 		var p *fit.Estimate
 		_ = p.Model // nil dereference
 		return nil, nil
@@ -365,12 +365,12 @@ func TestIdentifyRecoversPanics(t *testing.T) {
 	}
 }
 
-// TestIdentifyMaxQ40 runs Identify with MaxQ 40, an MA degree above 32
+// TestCandidatesMaxQ40 runs Candidates with MaxQ 40, an MA degree above 32
 // (the size of a fixed buffer inside arma, where an overrun would panic
-// in arma.Select's own goroutines, beyond the reach of Identify's
+// in arma.Select's own goroutines, beyond the reach of Candidates'
 // recovery). It must return, with a result or a typed error; it is
 // skipped while arma.Fit panics on Order{Q: 33}.
-func TestIdentifyMaxQ40(t *testing.T) {
+func TestCandidatesMaxQ40(t *testing.T) {
 	if testing.Short() {
 		t.Skip("fits MA orders up to 40")
 	}
@@ -394,12 +394,12 @@ func armaPanics(x []float64) (panicked bool) {
 	return false
 }
 
-// TestIdentifyNonFiniteScore makes one candidate's fit report BIC -Inf
+// TestCandidatesNonFiniteScore makes one candidate's fit report BIC -Inf
 // (as a zero sum of squares would) and checks it is not ranked first
 // but last, with a *ModelError saying why.
-func TestIdentifyNonFiniteScore(t *testing.T) {
+func TestCandidatesNonFiniteScore(t *testing.T) {
 	var once sync.Once
-	stubFit(t, func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
+	stubModelFit(t, func(ctx context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
 		e, err := fit.Model(ctx, m, data, s)
 		if err == nil && m.Noise != nil && !m.Noise.IsWhite() {
 			once.Do(func() { e.BIC, e.AIC = math.Inf(-1), math.NaN() })
@@ -418,16 +418,16 @@ func TestIdentifyNonFiniteScore(t *testing.T) {
 	}
 }
 
-// TestIdentifyStopsOnCancel cancels the context inside a candidate fit
-// that then returns ctx's error together with its estimate (Fit's
-// behaviour for a cancelled fit): Identify must stop and return the
+// TestCandidatesStopsOnCancel cancels the context inside a candidate fit
+// that then returns ctx's error together with its estimate (fit.Model's
+// behaviour for a cancelled fit): Candidates must stop and return the
 // context's error.
-func TestIdentifyStopsOnCancel(t *testing.T) {
+func TestCandidatesStopsOnCancel(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
 	var calls int
 	var mu sync.Mutex
-	stubFit(t, func(c context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
+	stubModelFit(t, func(c context.Context, m tf.Model, data map[string][]float64, s *fit.Settings) (*fit.Estimate, error) {
 		mu.Lock()
 		calls++
 		k := calls
@@ -450,11 +450,11 @@ func TestIdentifyStopsOnCancel(t *testing.T) {
 	}
 }
 
-// TestIdentifyTwoInputs identifies sim2 of testdata/fit (simulated by
+// TestCandidatesTwoInputs identifies sim2 of testdata/fit (simulated by
 // ref_fit.py: x1 with b = 1, r = 1, s = 0 and x2 with b = 4, r = 0,
 // s = 1, AR(2) noise, n = 600): the best candidate has both forms and
 // passes its checks.
-func TestIdentifyTwoInputs(t *testing.T) {
+func TestCandidatesTwoInputs(t *testing.T) {
 	data := scipyRecord(t, "sim2")
 	cands, err := Candidates(context.Background(), "y", []string{"x1", "x2"}, data, nil)
 	if err != nil {
