@@ -626,7 +626,7 @@ func benchData(n int, seed uint64) map[string][]float64 {
 	return map[string][]float64{"y": y, "x": x}
 }
 
-func BenchmarkFit(b *testing.B) {
+func BenchmarkModel(b *testing.B) {
 	m := benchModel()
 	for _, n := range []int{1000, 10000, 100000, 1000000} {
 		data := benchData(n, 1)

@@ -499,7 +499,7 @@ func TestCandidateStringNamesCriterion(t *testing.T) {
 	}
 }
 
-func BenchmarkIdentify(b *testing.B) {
+func BenchmarkCandidates(b *testing.B) {
 	for _, n := range []int{10000} {
 		data := benchData(n, 2)
 		b.Run(strconv.Itoa(n), func(b *testing.B) {
