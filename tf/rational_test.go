@@ -389,12 +389,12 @@ func randomSeries(rng *rand.Rand, n int) []float64 {
 // recursion (denominators of degree 6 with poles up to 0.95 have
 // coefficients up to ~6 and amplify rounding by up to ~1e3), so 1e-12
 // relative to the largest value so far (observed up to ~2e-13).
-const propTol = 1e-12
+const identityTol = 1e-12
 
-// propTrial is one random draw of TestRationalProperties: a stable term
+// randomCase is one random draw of TestRationalProperties: a stable term
 // g, a second term q, a dead-time shift, an input series, a history
 // length and a steady input level.
-type propTrial struct {
+type randomCase struct {
 	g, q tf.Rational
 	sh   int
 	x    []float64
@@ -402,11 +402,11 @@ type propTrial struct {
 	u    float64
 }
 
-// propTrials draws the 300 trials of TestRationalProperties from one
+// randomCases draws the 300 trials of TestRationalProperties from one
 // seeded generator.
-func propTrials() []propTrial {
+func randomCases() []randomCase {
 	rng := rand.New(rand.NewPCG(20261201, 2))
-	trials := make([]propTrial, 300)
+	trials := make([]randomCase, 300)
 	for i := range trials {
 		tr := &trials[i]
 		tr.g = randomStable(rng)
@@ -419,27 +419,27 @@ func propTrials() []propTrial {
 	return trials
 }
 
-// propN is the length of the impulse responses compared.
-const propN = 120
+// responseLen is the length of the impulse responses compared.
+const responseLen = 120
 
 // TestRationalProperties checks identities of random stable terms, one
 // subtest per identity, each over every trial (it stops at the first
 // trial that breaks it).
 func TestRationalProperties(t *testing.T) {
-	trials := propTrials()
+	trials := randomCases()
 	for _, p := range []struct {
 		name  string
-		check func(t *testing.T, trial int, tr propTrial)
+		check func(t *testing.T, trial int, tr randomCase)
 	}{
-		{"step is the running sum of the impulse response", propStepSum},
-		{"a filtered unit pulse is the impulse response", propPulse},
-		{"dead time shifts exactly", propShift},
-		{"series is convolution, parallel is sum", propSeriesParallel},
-		{"gain is the impulse sum within the BIBO tail", propGain},
-		{"plant equals batch filtering, clone and reset", propPlant},
-		{"a history continues the whole series", propHistory},
-		{"a steady start holds gain times input", propSteady},
-		{"frequency response at 0 is the gain", propZeroFrequency},
+		{"step is the running sum of the impulse response", stepIsRunningSum},
+		{"a filtered unit pulse is the impulse response", pulseGivesImpulse},
+		{"dead time shifts exactly", delayShiftsExactly},
+		{"series is convolution, parallel is sum", seriesAndParallel},
+		{"gain is the impulse sum within the BIBO tail", gainIsImpulseSum},
+		{"plant equals batch filtering, clone and reset", plantMatchesBatch},
+		{"a history continues the whole series", historyContinues},
+		{"a steady start holds gain times input", steadyStartHolds},
+		{"frequency response at 0 is the gain", zeroFrequencyIsGain},
 	} {
 		t.Run(p.name, func(t *testing.T) {
 			for i, tr := range trials {
@@ -449,36 +449,36 @@ func TestRationalProperties(t *testing.T) {
 	}
 }
 
-// propStepSum: step response = cumulative sum of the impulse response.
-func propStepSum(t *testing.T, trial int, tr propTrial) {
-	h := tr.g.Impulse(propN)
-	cs := make([]float64, propN)
+// stepIsRunningSum: step response = cumulative sum of the impulse response.
+func stepIsRunningSum(t *testing.T, trial int, tr randomCase) {
+	h := tr.g.Impulse(responseLen)
+	cs := make([]float64, responseLen)
 	acc := 0.0
 	for k, v := range h {
 		acc += v
 		cs[k] = acc
 	}
-	if e := testutil.RunningRelErr(tr.g.Step(propN), cs); !(e <= propTol) {
+	if e := testutil.RunningRelErr(tr.g.Step(responseLen), cs); !(e <= identityTol) {
 		t.Fatalf("trial %d %v: step vs cumsum(impulse) error %.3g", trial, tr.g, e)
 	}
 }
 
-// propPulse: filtering a unit pulse gives the impulse response.
-func propPulse(t *testing.T, trial int, tr propTrial) {
-	pulse := make([]float64, propN)
+// pulseGivesImpulse: filtering a unit pulse gives the impulse response.
+func pulseGivesImpulse(t *testing.T, trial int, tr randomCase) {
+	pulse := make([]float64, responseLen)
 	pulse[0] = 1
 	y, _ := tr.g.Filter(pulse)
-	if e := testutil.RunningRelErr(y, tr.g.Impulse(propN)); !(e <= propTol) {
+	if e := testutil.RunningRelErr(y, tr.g.Impulse(responseLen)); !(e <= identityTol) {
 		t.Fatalf("trial %d: filtered pulse vs impulse error %.3g", trial, e)
 	}
 }
 
-// propShift: a dead time longer by sh shifts the impulse response by sh
+// delayShiftsExactly: a dead time longer by sh shifts the impulse response by sh
 // samples, exactly.
-func propShift(t *testing.T, trial int, tr propTrial) {
+func delayShiftsExactly(t *testing.T, trial int, tr randomCase) {
 	g, sh := tr.g, tr.sh
-	h := g.Impulse(propN)
-	hs := tf.MustRational(g.Num(), g.Den(), g.Delay()+sh).Impulse(propN)
+	h := g.Impulse(responseLen)
+	hs := tf.MustRational(g.Num(), g.Den(), g.Delay()+sh).Impulse(responseLen)
 	for k := range hs {
 		want := 0.0
 		if k >= sh {
@@ -490,41 +490,41 @@ func propShift(t *testing.T, trial int, tr propTrial) {
 	}
 }
 
-// propSeriesParallel: series impulse response = convolution of the
+// seriesAndParallel: series impulse response = convolution of the
 // impulse responses; parallel = sum. The product denominator has degree
-// up to 12 and amplifies rounding further: 10 propTol (observed up to
+// up to 12 and amplifies rounding further: 10 identityTol (observed up to
 // ~4e-12).
-func propSeriesParallel(t *testing.T, trial int, tr propTrial) {
-	h, hq := tr.g.Impulse(propN), tr.q.Impulse(propN)
+func seriesAndParallel(t *testing.T, trial int, tr randomCase) {
+	h, hq := tr.g.Impulse(responseLen), tr.q.Impulse(responseLen)
 	ser, err := tr.g.Times(tr.q)
 	if err != nil {
 		t.Fatal(err)
 	}
-	conv := make([]float64, propN)
-	for i := 0; i < propN; i++ {
+	conv := make([]float64, responseLen)
+	for i := 0; i < responseLen; i++ {
 		for j := 0; j <= i; j++ {
 			conv[i] += h[j] * hq[i-j]
 		}
 	}
-	if e := testutil.RunningRelErr(ser.Impulse(propN), conv); !(e <= 10*propTol) {
+	if e := testutil.RunningRelErr(ser.Impulse(responseLen), conv); !(e <= 10*identityTol) {
 		t.Fatalf("trial %d: series vs convolution error %.3g", trial, e)
 	}
 	par, err := tr.g.Plus(tr.q)
 	if err != nil {
 		t.Fatal(err)
 	}
-	sum := make([]float64, propN)
+	sum := make([]float64, responseLen)
 	for i := range sum {
 		sum[i] = h[i] + hq[i]
 	}
-	if e := testutil.RunningRelErr(par.Impulse(propN), sum); !(e <= 10*propTol) {
+	if e := testutil.RunningRelErr(par.Impulse(responseLen), sum); !(e <= 10*identityTol) {
 		t.Fatalf("trial %d: parallel vs sum error %.3g", trial, e)
 	}
 }
 
-// propGain: steady-state gain = sum of the impulse response, within the
+// gainIsImpulseSum: steady-state gain = sum of the impulse response, within the
 // BIBO tail bound (|sum_{k>=N} h_k| <= sum_{k>=N} |h_k| <= Tail).
-func propGain(t *testing.T, trial int, tr propTrial) {
+func gainIsImpulseSum(t *testing.T, trial int, tr randomCase) {
 	g := tr.g
 	bound, err := g.BIBOBound()
 	if err != nil {
@@ -547,10 +547,10 @@ func propGain(t *testing.T, trial int, tr propTrial) {
 	}
 }
 
-// propPlant: the streaming plant equals batch filtering sample for
+// plantMatchesBatch: the streaming plant equals batch filtering sample for
 // sample, bit for bit (same summation order); a clone continues
 // identically; Reset returns to rest.
-func propPlant(t *testing.T, trial int, tr propTrial) {
+func plantMatchesBatch(t *testing.T, trial int, tr randomCase) {
 	x := tr.x
 	yb, _ := tr.g.Filter(x)
 	p := tf.NewPlant(tr.g)
@@ -571,10 +571,10 @@ func propPlant(t *testing.T, trial int, tr propTrial) {
 	}
 }
 
-// propHistory: filtering from a history equals filtering the whole
+// historyContinues: filtering from a history equals filtering the whole
 // series (the first m samples provide the past of the rest), and a plant
 // given the same history continues the same way.
-func propHistory(t *testing.T, trial int, tr propTrial) {
+func historyContinues(t *testing.T, trial int, tr randomCase) {
 	x, m := tr.x, tr.m
 	yb, _ := tr.g.Filter(x)
 	yr, err := tr.g.FilterFrom(x[m:], tf.Past{Input: x[:m], Output: yb[:m]})
@@ -597,10 +597,10 @@ func propHistory(t *testing.T, trial int, tr propTrial) {
 	}
 }
 
-// propSteady: a steady start with a constant input keeps the output at
+// steadyStartHolds: a steady start with a constant input keeps the output at
 // gain*u, within 1e-12 of the output's scale (rounding of the steady
 // history).
-func propSteady(t *testing.T, trial int, tr propTrial) {
+func steadyStartHolds(t *testing.T, trial int, tr randomCase) {
 	g, u := tr.g, tr.u
 	gain, err := g.Gain()
 	if err != nil {
@@ -633,9 +633,9 @@ func propSteady(t *testing.T, trial int, tr propTrial) {
 	}
 }
 
-// propZeroFrequency: the frequency response at w = 0 is the gain (phase
+// zeroFrequencyIsGain: the frequency response at w = 0 is the gain (phase
 // 0 or pi by its sign), to 1e-12.
-func propZeroFrequency(t *testing.T, trial int, tr propTrial) {
+func zeroFrequencyIsGain(t *testing.T, trial int, tr randomCase) {
 	gain, err := tr.g.Gain()
 	if err != nil {
 		t.Fatal(err)
