@@ -73,7 +73,7 @@ func TestModelScreensTheOutput(t *testing.T) {
 
 // When identification fails on a record with a bad reading, the error
 // names the reading (the screen's hint) beside the stage that failed.
-func TestIdentifyNamesTheSpike(t *testing.T) {
+func TestScreenReachesCandidates(t *testing.T) {
 	n := 600
 	rng := rand.New(rand.NewPCG(11, 12))
 	x, y := make([]float64, n), make([]float64, n)

@@ -187,7 +187,7 @@ func Candidates(ctx context.Context, output string, inputs []string, data map[st
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	if err := validateIdentifyData(output, inputs, data); err != nil {
+	if err := validateData(output, inputs, data); err != nil {
 		return nil, err
 	}
 	if err := set.validate(append([]string{}, inputs...), len(data[output])); err != nil {
@@ -223,7 +223,7 @@ func Candidates(ctx context.Context, output string, inputs []string, data map[st
 	if !set.NoRefine {
 		total += 2 * (len(inputs) + 1)
 	}
-	prog := &identifyProgress{fn: set.Progress, total: total}
+	prog := &progress{fn: set.Progress, total: total}
 	out := scoreCandidates(ctx, models, data, fs, set, prog)
 	if !set.NoRefine {
 		out = refineNeighbours(ctx, out, models, data, fs, set, prog)
@@ -463,7 +463,7 @@ func commonFirst(models []tf.Model, data map[string][]float64, first int) int {
 // numerator, denominator or noise polynomial at a time, and repeats from
 // the new best while that improves the score (at most refineRounds
 // rounds). It returns out with the new candidates appended.
-func refineNeighbours(ctx context.Context, out []Candidate, models []tf.Model, data map[string][]float64, fs fit.Settings, set Settings, prog *identifyProgress) []Candidate {
+func refineNeighbours(ctx context.Context, out []Candidate, models []tf.Model, data map[string][]float64, fs fit.Settings, set Settings, prog *progress) []Candidate {
 	seen := map[string]bool{}
 	for _, m := range models {
 		seen[structureKey(m)] = true
@@ -498,21 +498,21 @@ func refineNeighbours(ctx context.Context, out []Candidate, models []tf.Model, d
 // refineRounds bounds the rounds of lower-order neighbours.
 const refineRounds = 4
 
-// identifyProgress reports finished fits to the caller's callback, one call
+// progress reports finished fits to the caller's callback, one call
 // at a time.
-type identifyProgress struct {
+type progress struct {
 	mu          sync.Mutex
 	fn          func(done, total int)
 	done, total int
 }
 
-func (p *identifyProgress) setTotal(t int) {
+func (p *progress) setTotal(t int) {
 	p.mu.Lock()
 	p.total = t
 	p.mu.Unlock()
 }
 
-func (p *identifyProgress) tick() {
+func (p *progress) tick() {
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	p.done++
@@ -523,7 +523,7 @@ func (p *identifyProgress) tick() {
 
 // scoreCandidates fits and checks the models on at most set.Workers
 // goroutines.
-func scoreCandidates(ctx context.Context, models []tf.Model, data map[string][]float64, fs fit.Settings, set Settings, prog *identifyProgress) []Candidate {
+func scoreCandidates(ctx context.Context, models []tf.Model, data map[string][]float64, fs fit.Settings, set Settings, prog *progress) []Candidate {
 	crit := "BIC"
 	if set.ByAIC {
 		crit = "AIC"
@@ -714,8 +714,8 @@ func isSpecName(s string) bool {
 	return true
 }
 
-// validateIdentifyData checks presence, lengths and finiteness of the series.
-func validateIdentifyData(output string, inputs []string, data map[string][]float64) error {
+// validateData checks presence, lengths and finiteness of the series.
+func validateData(output string, inputs []string, data map[string][]float64) error {
 	if output == "" {
 		return seriesErr(output, errs.ErrName, 0, 0, "the output is not named; name the output series")
 	}
@@ -752,25 +752,25 @@ func validateIdentifyData(output string, inputs []string, data map[string][]floa
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return &errs.SampleError{Series: name, Index: t, Value: v}
 			}
-			if math.Abs(v) > identifyMaxMagnitude {
-				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: identifyMaxMagnitude}
+			if math.Abs(v) > maxMagnitude {
+				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: maxMagnitude}
 			}
 		}
-		if lo, hi := valueRange(x); hi > lo && hi-lo < identifyMinSpread {
+		if lo, hi := valueRange(x); hi > lo && hi-lo < minSpread {
 			return seriesErr(name, errs.ErrConstant, 0, 0, "it varies by only "+fmtF(hi-lo)+", less than 1e-140: the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)")
 		}
 	}
 	return nil
 }
 
-// identifyMaxMagnitude and identifyMinSpread bound the samples Candidates accepts:
+// maxMagnitude and minSpread bound the samples Candidates accepts:
 // the ARMA fits of the prewhitening refuse magnitudes above 1e140, and
 // the correlations need squared deviations above the float64 underflow
 // (about 1e-308 for a square, so deviations above about 1e-140 leave
 // room for the sums).
 const (
-	identifyMaxMagnitude = 1e140
-	identifyMinSpread    = 1e-140
+	maxMagnitude = 1e140
+	minSpread    = 1e-140
 )
 
 // formCombos returns index combinations (one form per input) ordered by

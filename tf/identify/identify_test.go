@@ -123,9 +123,9 @@ func TestCandidateLabel(t *testing.T) {
 	}
 }
 
-// identifyTrapData is 300 samples of plantModel's own simulation (x AR(1),
+// trapData is 300 samples of plantModel's own simulation (x AR(1),
 // b = 3, r = 1, s = 1, AR(1) noise), on which Candidates finds a response.
-func identifyTrapData() map[string][]float64 {
+func trapData() map[string][]float64 {
 	y, x := simulatePlant(newRand(3), 300)
 	return map[string][]float64{"y": y, "x": x}
 }
@@ -137,7 +137,7 @@ func identifyTrapData() map[string][]float64 {
 // which the candidates must show. MaxCandidates -3 and Forms -2 are
 // typed errors, not index panics.
 func TestBadInputCandidatesSettings(t *testing.T) {
-	data := identifyTrapData()
+	data := trapData()
 	for _, tc := range []struct {
 		s    Settings
 		arg  string
@@ -202,7 +202,7 @@ func TestBadInputCandidatesSettings(t *testing.T) {
 // (below 1e-140) are refused by the series' name, and that a bad list
 // of inputs is refused by name.
 func TestCandidatesBlamesTheUsersSeries(t *testing.T) {
-	data := identifyTrapData()
+	data := trapData()
 	n := len(data["y"])
 	flat := make([]float64, n)
 	line := make([]float64, n)
@@ -309,7 +309,7 @@ func TestCandidatesRecoversPanics(t *testing.T) {
 		}
 		return fit.Model(ctx, m, data, s)
 	})
-	cands, err := Candidates(context.Background(), "y", []string{"x"}, identifyTrapData(), nil)
+	cands, err := Candidates(context.Background(), "y", []string{"x"}, trapData(), nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -334,7 +334,7 @@ func TestCandidatesRecoversPanics(t *testing.T) {
 	modelFit = fit.Model
 	calls := 0
 	var mu sync.Mutex
-	cands, err = Candidates(context.Background(), "y", []string{"x"}, identifyTrapData(), &Settings{Workers: 1, NoRefine: true,
+	cands, err = Candidates(context.Background(), "y", []string{"x"}, trapData(), &Settings{Workers: 1, NoRefine: true,
 		Progress: func(done, total int) {
 			mu.Lock()
 			calls++
@@ -358,7 +358,7 @@ func TestCandidatesRecoversPanics(t *testing.T) {
 		_ = p.Model // nil dereference
 		return nil, nil
 	})
-	cands, err = Candidates(context.Background(), "y", []string{"x"}, identifyTrapData(), nil)
+	cands, err = Candidates(context.Background(), "y", []string{"x"}, trapData(), nil)
 	var pe *fit.InternalError
 	if !errors.As(err, &pe) || pe.Op != "identify.Candidates" || cands != nil || !strings.Contains(err.Error(), "nil pointer dereference") {
 		t.Errorf("panic in the preliminary fit: %v", err)
@@ -378,7 +378,7 @@ func TestCandidatesMaxQ40(t *testing.T) {
 	if armaPanics(x) {
 		t.Skip("arma.Fit still panics on an MA degree above 32 (fixed in arma on another branch); Identify cannot recover a panic in arma's goroutines")
 	}
-	cands, err := Candidates(context.Background(), "y", []string{"x"}, identifyTrapData(), &Settings{MaxQ: 40, MaxP: -1, NoiseOrders: 1, NoRefine: true})
+	cands, err := Candidates(context.Background(), "y", []string{"x"}, trapData(), &Settings{MaxQ: 40, MaxP: -1, NoiseOrders: 1, NoRefine: true})
 	if err != nil {
 		t.Logf("MaxQ 40: %v", err)
 		return
@@ -406,7 +406,7 @@ func TestCandidatesNonFiniteScore(t *testing.T) {
 		}
 		return e, err
 	})
-	cands, err := Candidates(context.Background(), "y", []string{"x"}, identifyTrapData(), nil)
+	cands, err := Candidates(context.Background(), "y", []string{"x"}, trapData(), nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -439,7 +439,7 @@ func TestCandidatesStopsOnCancel(t *testing.T) {
 		}
 		return e, err
 	})
-	cands, err := Candidates(ctx, "y", []string{"x"}, identifyTrapData(), &Settings{Workers: 1})
+	cands, err := Candidates(ctx, "y", []string{"x"}, trapData(), &Settings{Workers: 1})
 	if !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled identification: %v (%d candidates)", err, len(cands))
 	}
@@ -480,7 +480,7 @@ func TestCandidatesTwoInputs(t *testing.T) {
 // names its ranking criterion (it printed "score" for the BIC) and the
 // structure in the one spelling.
 func TestCandidateStringNamesCriterion(t *testing.T) {
-	data := identifyTrapData()
+	data := trapData()
 	for _, byAIC := range []bool{false, true} {
 		cands, err := Candidates(context.Background(), "y", []string{"x"}, data, &Settings{NoRefine: true, MaxCandidates: 2, ByAIC: byAIC})
 		if err != nil {
