@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Peer timing for backshift's tf.Fit: scipy least_squares on the same data.
+"""Peer timing for backshift's fit.Model: scipy least_squares on the same data.
 
 How to run, from the repository root (Debian's interpreter: scipy 1.10.1):
 
@@ -15,10 +15,10 @@ with x an AR(1) series (phi 0.6) and sigma = 0.5, writes it to a CSV file
 in a temporary directory, fits it by conditional least squares with
 scipy.optimize.least_squares (default trust-region method, 2-point
 finite-difference Jacobian, default tolerances) on residuals computed with
-scipy.signal.lfilter under the same conditioning as tf.Fit (x held at its
+scipy.signal.lfilter under the same conditioning as fit.Model (x held at its
 first value before the record, residuals from index 7; see
 testdata/fit/ref_fit.py), started from a fixed point near the truth, and
-then runs `go run ./testdata/peer/fitpeer FILE` on the same file (tf.Fit
+then runs `go run ./testdata/peer/fitpeer FILE` on the same file (fit.Model
 from its own computed start values). It prints both times (best of 5
 runs), both sums of squares and the ratio of the times.
 """
@@ -48,7 +48,7 @@ def simulate(n, seed):
 
 def residuals(p, y, xb, x0):
     c, w0, w1, w2, d1, p1, p2 = p
-    # x held at its first value x0 before the record (tf.Fit's default for
+    # x held at its first value x0 before the record (fit.Model's default for
     # an input without differencing): filter x - x0 from rest, add the
     # steady state omega(1)/delta(1) x0.
     nn = y - c - lfilter([w0, w1, w2], [1.0, -d1], xb) - (w0 + w1 + w2) / (1 - d1) * x0
@@ -86,7 +86,7 @@ def main():
                                  capture_output=True, text=True, check=True)
             g = json.loads(out.stdout.strip().splitlines()[-1])
             print(f"n = {n}: scipy least_squares {ts:.3f} s (nfev {res.nfev}, SSQ {ssq:.10g}); "
-                  f"tf.Fit {g['seconds']:.4f} s (iter {g['iter']}, SSQ {g['ssq']:.10g}); "
+                  f"fit.Model {g['seconds']:.4f} s (iter {g['iter']}, SSQ {g['ssq']:.10g}); "
                   f"ratio {ts / g['seconds']:.1f}x; SSQ tf - scipy = {g['ssq'] - ssq:.3g}")
             print("   scipy:", dict(zip(NAMES, np.round(res.x, 6).tolist())))
             print("   tf:   ", {k: round(v, 6) for k, v in g["params"].items()})
