@@ -19,7 +19,7 @@ var ownErrors = map[string]string{
 	"tf.UnstableError":        "the largest pole magnitude",
 	"tf.SimError":             "the step and value where a simulation stopped being finite",
 	"fit.InterruptedError":    "the iteration a cancelled fit reached, and the context's error",
-	"fit.StageError":          "the stage of Check, Forecast or Identify that failed, and hints",
+	"fit.StageError":          "the stage of fit.Check, Estimate.Forecast or identify.Candidates that failed, and hints",
 	"ccf.NoResponseError":     "the largest |t| and its lag",
 	"prewhiten.NotWhiteError": "the Ljung-Box figures of the prewhitened input",
 	"record.LineError":        "file, line and column of a record file",

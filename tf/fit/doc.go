@@ -42,8 +42,9 @@
 // squares is sum_{t=First}^{n-1} a_t^2 over N = n - First residuals.
 //
 // The same convention serves Check and Forecast, which recompute the
-// residuals of an estimate, and identify.Candidates, which compares candidates over
-// one common First.
+// residuals of an estimate, and identify.Candidates, which compares
+// candidates over one common First (from ConditioningOf, which returns
+// the conditioning of a fit without fitting).
 //
 // # Estimation
 //

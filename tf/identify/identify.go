@@ -162,7 +162,7 @@ func (c Candidate) String() string {
 // InputDiff entry that is not an input) for a bad setting (see
 // Settings); a *SeriesError of kind ErrConstant naming the
 // series when the output or an input is
-// constant (after its differencing); *StageError wrapping the errors of
+// constant (after its differencing); *fit.StageError wrapping the errors of
 // packages prewhiten and ccf, with the step and series in the caller's
 // words, when an input shows no response (*ccf.NoResponseError) or a
 // series is too short; when every candidate failed, the best-ranked
