@@ -14,7 +14,7 @@ import (
 	"github.com/backshift/backshift/tf/fit"
 )
 
-// Fixtures shared by the tests and examples of package tf_test: the
+// Fixtures shared by the tests and examples of package fit_test: the
 // records they fit are either simulated from a model written as a spec
 // or read from the BJsales file in testdata.
 
