@@ -1070,7 +1070,7 @@ type inputState struct {
 	s, u, q    []float64
 	numC, denC []float64
 	numD, denD [][]float64
-	e, f       []float64   // phi(B) s and phi(B) q from First - fitExt on (Jacobian)
+	e, f       []float64   // phi(B) s and phi(B) q from First - ext on (Jacobian; ext = deg omega + deg delta)
 	negNum     [][]float64 // -numD (Jacobian)
 	numFree    bool        // a numerator coefficient is estimated: the Jacobian needs e
 	denFree    bool
