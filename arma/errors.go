@@ -1,7 +1,6 @@
 package arma
 
 import (
-	"errors"
 	"math"
 	"strconv"
 
@@ -83,23 +82,10 @@ func shortErr(series string, have, need int, what string) error {
 	return &SeriesError{Series: seriesName(series), Kind: ErrShort, Have: have, Need: need, Detail: "needed for " + what}
 }
 
-// withOp sets Op of the shared error shape in *err to op, the exported
-// function the caller called; deferred at each exported entry point, so
-// that the outermost function's name wins.
-func withOp(op string, err *error) {
-	if *err == nil {
-		return
-	}
-	errs.SetOp(op, *err)
-	var d *ModelError
-	if errors.As(*err, &d) {
-		d.Op = op
-	}
-	var e *ConvergenceError
-	if errors.As(*err, &e) {
-		e.Op = op
-	}
-}
+// withOp sets Op in *err's chain to op, the exported function the caller
+// called (errs.SetOp); deferred at each exported entry point, so that the
+// outermost function's name wins.
+func withOp(op string, err *error) { errs.SetOp(op, *err) }
 
 // checkFinite returns a *SampleError for the first NaN, infinite or
 // too large (|v| > MaxAbs) sample.

@@ -1,7 +1,6 @@
 package ccf
 
 import (
-	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -67,24 +66,10 @@ func (e *NoResponseError) Error() string {
 // Unwrap returns ErrModel.
 func (e *NoResponseError) Unwrap() error { return ErrModel }
 
-// withOp names the exported function op in the errors of the shared
-// shapes found in err and returns err (an exported function calling
-// another applies it last, so its own name wins, as the Op rule asks).
-func withOp(op string, err error) error {
-	if err == nil {
-		return nil
-	}
-	errs.SetOp(op, err)
-	var d *ModelError
-	if errors.As(err, &d) {
-		d.Op = op
-	}
-	var e *NoResponseError
-	if errors.As(err, &e) {
-		e.Op = op
-	}
-	return err
-}
+// withOp names the exported function op in the errors of err's chain
+// (errs.SetOp) and returns err; an exported function calling another
+// applies it last, so its own name wins.
+func withOp(op string, err error) error { return errs.SetOp(op, err) }
 
 // lengthError reports series b of length nb where a's length na is
 // expected.

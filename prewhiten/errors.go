@@ -1,7 +1,6 @@
 package prewhiten
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -69,28 +68,10 @@ func (e *NotWhiteError) Error() string {
 // Unwrap returns ErrModel.
 func (e *NotWhiteError) Unwrap() error { return ErrModel }
 
-// withOp names the exported function op in the errors of the shared
-// shapes found in err (joined ones too) and returns err; an exported
-// function calling another applies it last, so its own name wins.
-func withOp(op string, err error) error {
-	if err == nil {
-		return nil
-	}
-	var list []error
-	if j, ok := err.(interface{ Unwrap() []error }); ok {
-		list = j.Unwrap()
-	} else {
-		list = []error{err}
-	}
-	for _, e := range list {
-		errs.SetOp(op, e)
-		var d *NotWhiteError
-		if errors.As(e, &d) {
-			d.Op = op
-		}
-	}
-	return err
-}
+// withOp names the exported function op in the errors of err's chain
+// (errs.SetOp) and returns err; an exported function calling another
+// applies it last, so its own name wins.
+func withOp(op string, err error) error { return errs.SetOp(op, err) }
 
 // roundText prints v to 6 significant digits for messages.
 func roundText(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }

@@ -110,45 +110,9 @@ func opPrefix(op string) string {
 	return op + ": "
 }
 
-// withOp sets Op, when it is empty, on the package's error shapes that
-// carry one, so that a message names the exported function the caller
-// called; it returns err.
-func withOp(op string, err error) error {
-	if p := opField(err); p != nil && *p == "" {
-		*p = op
-	}
-	return err
-}
-
-// opField returns the Op field of an error of the package that has one
-// (the shared shapes and tf's own error types), or nil.
-func opField(e error) *string {
-	switch v := e.(type) {
-	case *errs.SampleError:
-		return &v.Op
-	case *errs.SeriesError:
-		return &v.Op
-	case *errs.SettingError:
-		return &v.Op
-	case *errs.ModelError:
-		return &v.Op
-	case *errs.ConvergenceError:
-		return &v.Op
-	case *errs.InternalError:
-		return &v.Op
-	case *CoefError:
-		return &v.Op
-	case *DelayError:
-		return &v.Op
-	case *GainError:
-		return &v.Op
-	case *UnstableError:
-		return &v.Op
-	case *SimError:
-		return &v.Op
-	}
-	return nil
-}
+// withOp names op in the errors of err's chain that no inner exported
+// function has named (errs.FillOp) and returns err.
+func withOp(op string, err error) error { return errs.FillOp(op, err) }
 
 // setting returns a *SettingError for the field setting with the value v.
 func setting(op, field string, v float64, rule string) *SettingError {

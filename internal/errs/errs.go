@@ -63,25 +63,6 @@ func Prefix(op string) string {
 	return op + ": "
 }
 
-// SetOp names the exported function op in the first SampleError,
-// SeriesError and SettingError found in err's chain (errors.As), so that
-// an exported function calling another applies it last and its own name
-// wins. A package adds its own error types after this call.
-func SetOp(op string, err error) {
-	var a *SampleError
-	if errors.As(err, &a) {
-		a.Op = op
-	}
-	var b *SeriesError
-	if errors.As(err, &b) {
-		b.Op = op
-	}
-	var c *SettingError
-	if errors.As(err, &c) {
-		c.Op = op
-	}
-}
-
 // SampleError reports one bad sample: the caller's name for the series,
 // the 0-based index and the value. Limit, when positive, is the largest
 // magnitude accepted (the sample is finite but beyond it); zero means the

@@ -3,6 +3,7 @@ package errs
 import (
 	"errors"
 	"fmt"
+	"io/fs"
 	"math"
 	"strings"
 	"testing"
@@ -16,19 +17,19 @@ func TestShapes(t *testing.T) {
 		kind error
 		want string
 	}{
-		{&SampleError{Op: "tf.Fit", Series: "valve", Index: 12, Value: math.NaN()}, ErrSample,
-			`tf.Fit: series "valve" sample 12 is NaN: samples must be finite numbers`},
+		{&SampleError{Op: "fit.Model", Series: "valve", Index: 12, Value: math.NaN()}, ErrSample,
+			`fit.Model: series "valve" sample 12 is NaN: samples must be finite numbers`},
 		{&SampleError{Op: "arma.Fit", Series: "y", Index: 3, Value: 1e300, Limit: 1e140}, ErrSample,
 			`arma.Fit: series "y" sample 3 is 1e+300, beyond the largest magnitude accepted, 1e+140 (rescale the series: change its units)`},
-		{&SeriesError{Op: "tf.Fit", Series: "temp", Kind: ErrShort, Have: 5, Need: 8, Detail: "after differencing"}, ErrShort,
-			`tf.Fit: series "temp": 5 samples, at least 8 needed (after differencing)`},
+		{&SeriesError{Op: "fit.Model", Series: "temp", Kind: ErrShort, Have: 5, Need: 8, Detail: "after differencing"}, ErrShort,
+			`fit.Model: series "temp": 5 samples, at least 8 needed (after differencing)`},
 		{&SeriesError{Series: "valve", Kind: ErrLength, Have: 9, Need: 10}, ErrLength, `series "valve" has 9 samples against 10`},
 		{&SeriesError{Series: "valve", Kind: ErrConstant, Detail: "every sample is 50"}, ErrConstant, `series "valve" is constant (every sample is 50)`},
 		{&SeriesError{Series: "vlave", Kind: ErrName, Detail: "did you mean valve?"}, ErrName, `series "vlave": did you mean valve?`},
 		{&SeriesError{Series: "vlave", Kind: ErrName}, ErrName, `series "vlave" is not known`},
 		{&SeriesError{Series: "y", Kind: ErrOverflow}, ErrOverflow, `series "y": result out of float64 range`},
-		{&SettingError{Op: "tf.Fit", Setting: "FitSettings.MaxIter", Value: "-1", Rule: "must be zero or positive (0 means 200)"}, ErrSetting,
-			`tf.Fit: FitSettings.MaxIter = -1: must be zero or positive (0 means 200)`},
+		{&SettingError{Op: "fit.Model", Setting: "Settings.MaxIter", Value: "-1", Rule: "must be zero or positive (0 means 200)"}, ErrSetting,
+			`fit.Model: Settings.MaxIter = -1: must be zero or positive (0 means 200)`},
 		{&ModelError{Op: "tf.NewSystem", Part: "input valve dead time", Problem: "-1 samples is below 0"}, ErrModel,
 			`tf.NewSystem: input valve dead time: -1 samples is below 0`},
 		{&ConvergenceError{Op: "arma.Fit", Iter: 500, Reason: "iteration limit"}, ErrConvergence, `arma.Fit: no convergence after 500 iterations: iteration limit`},
@@ -79,8 +80,8 @@ func TestRule(t *testing.T) {
 		err  error
 		want string
 	}{
-		{Count("tf.Fit", "FitSettings.Starts", -2, "0 means automatic"), "tf.Fit: FitSettings.Starts = -2: must be zero or positive (0 means automatic)"},
-		{NonNegative("", "FitSettings.Tol", math.NaN(), "0 means 1e-14"), "FitSettings.Tol = NaN: must be a finite number, zero or positive (0 means 1e-14)"},
+		{Count("fit.Model", "Settings.Starts", -2, "0 means automatic"), "fit.Model: Settings.Starts = -2: must be zero or positive (0 means automatic)"},
+		{NonNegative("", "Settings.Tol", math.NaN(), "0 means 1e-14"), "Settings.Tol = NaN: must be a finite number, zero or positive (0 means 1e-14)"},
 		{NonNegative("", "S.X", math.Inf(1), "0 means 1"), "S.X = +Inf: must be a finite number, zero or positive (0 means 1)"},
 		{Probability("", "CheckSettings.Alpha", 1, "0 means 0.05"), "CheckSettings.Alpha = 1: must lie strictly between 0 and 1 (0 means 0.05)"},
 	} {
@@ -107,27 +108,39 @@ func TestIsKind(t *testing.T) {
 	}
 }
 
-// TestSetOp: SetOp renames the Op of each shared shape in a wrapped
-// chain and leaves other errors alone; Prefix is "op: " or nothing.
+// TestSetOp: SetOp renames the Op of every project error in a wrapped
+// or joined chain and leaves errors of other modules alone; FillOp names
+// only errors nobody has named; Prefix is "op: " or nothing.
 func TestSetOp(t *testing.T) {
 	for _, err := range []error{
 		&SampleError{Op: "inner", Series: "y", Index: 1, Value: math.NaN()},
 		&SeriesError{Op: "inner", Series: "y", Kind: ErrShort, Have: 2, Need: 5},
 		&SettingError{Op: "inner", Setting: "Lags", Value: "-1", Rule: "must be positive"},
+		&ModelError{Op: "inner", Part: "AR", Problem: "not stationary"},
+		&ConvergenceError{Op: "inner", Iter: 3},
 	} {
 		wrapped := fmt.Errorf("context: %w", err)
-		SetOp("outer.Call", wrapped)
+		if SetOp("outer.Call", wrapped) != wrapped {
+			t.Errorf("%T: SetOp does not return its argument", err)
+		}
 		if got := err.Error(); !strings.HasPrefix(got, "outer.Call: ") {
 			t.Errorf("%T: got %q, want the prefix %q", err, got, "outer.Call: ")
 		}
 	}
-	m := &ModelError{Op: "inner", Part: "AR", Problem: "not stationary"}
-	SetOp("outer.Call", m)
-	if m.Op != "inner" {
-		t.Errorf("ModelError renamed to %q: SetOp must leave the package's own types to it", m.Op)
+	a := &SampleError{Op: "inner", Series: "y"}
+	b := &SeriesError{Series: "y", Kind: ErrShort}
+	path := &fs.PathError{Op: "open", Path: "x.csv", Err: fs.ErrNotExist}
+	joined := errors.Join(a, fmt.Errorf("wrapped: %w", b), path)
+	FillOp("outer.Call", joined)
+	if a.Op != "inner" || b.Op != "outer.Call" {
+		t.Errorf("FillOp: got %q and %q, want %q (kept) and %q (filled)", a.Op, b.Op, "inner", "outer.Call")
+	}
+	SetOp("outer.Call", joined)
+	if a.Op != "outer.Call" || path.Op != "open" {
+		t.Errorf("SetOp on a joined chain: got %q and %q, want %q and %q (another module's error left alone)", a.Op, path.Op, "outer.Call", "open")
 	}
 	SetOp("outer.Call", nil) // no error, nothing to rename: must not panic
-	if Prefix("") != "" || Prefix("tf.Fit") != "tf.Fit: " {
-		t.Errorf("Prefix: got %q and %q", Prefix(""), Prefix("tf.Fit"))
+	if Prefix("") != "" || Prefix("fit.Model") != "fit.Model: " {
+		t.Errorf("Prefix: got %q and %q", Prefix(""), Prefix("fit.Model"))
 	}
 }

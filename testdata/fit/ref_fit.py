@@ -24,7 +24,7 @@ the future inputs known and once with every input forecast from a
 Yule-Walker/AIC autoregression of its differenced series (its forecast
 errors added to the variance through omega B^b / (delta phi_x D)).
 
-Conditioning (the same as tf.Fit, written independently here):
+Conditioning (the same as fit.Model, written independently here):
   w_t = D(B) y_t for t >= d (zero before), z_i,t = D_i(B) x_i,t for t >= d_i;
   an input without differencing is held at its first value z0 = x_i,0 before
   the record (the process settled at the input's first level), a differenced

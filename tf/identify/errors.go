@@ -6,11 +6,7 @@ import (
 	"strings"
 
 	"github.com/backshift/backshift/arma"
-	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/errs"
-	"github.com/backshift/backshift/prewhiten"
-	"github.com/backshift/backshift/tf"
-	"github.com/backshift/backshift/tf/fit"
 )
 
 // specNameErr reports a series name given to Candidates that a model spec
@@ -152,70 +148,9 @@ func settingErr(setting, value, rule string) error {
 // fmtF formats a float for a message.
 func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
-// setOp sets the Op of every shared error shape in the chain of *err to
-// op, the exported function the caller called, so that an error found
-// by an inner stage (fit.Model inside Check, arma inside Forecast) names the
-// caller's function. It is deferred by each exported function of the
-// estimation side.
-func setOp(op string, err *error) {
-	for e := *err; e != nil; {
-		if p := opField(e); p != nil {
-			*p = op
-		}
-		if u, ok := e.(interface{ Unwrap() error }); ok {
-			e = u.Unwrap()
-			continue
-		}
-		if u, ok := e.(interface{ Unwrap() []error }); ok {
-			for _, x := range u.Unwrap() {
-				if x != nil && !errs.IsKind(x) {
-					setOp(op, &x)
-				}
-			}
-		}
-		break
-	}
-}
-
-// opField returns the Op field of an error that can reach a caller of
-// Candidates and has one (the shared shapes, those of tf and fit, and
-// the evidence types of ccf and prewhiten passed on), or nil. It is
-// fit's list: Candidates returns no error shape of its own.
-func opField(e error) *string {
-	switch v := e.(type) {
-	case *errs.SampleError:
-		return &v.Op
-	case *errs.SeriesError:
-		return &v.Op
-	case *errs.SettingError:
-		return &v.Op
-	case *errs.ModelError:
-		return &v.Op
-	case *errs.ConvergenceError:
-		return &v.Op
-	case *errs.InternalError:
-		return &v.Op
-	case *tf.CoefError:
-		return &v.Op
-	case *tf.DelayError:
-		return &v.Op
-	case *tf.GainError:
-		return &v.Op
-	case *tf.UnstableError:
-		return &v.Op
-	case *tf.SimError:
-		return &v.Op
-	case *fit.InterruptedError:
-		return &v.Op
-	case *fit.StageError:
-		return &v.Op
-	case *ccf.NoResponseError:
-		return &v.Op
-	case *prewhiten.NotWhiteError:
-		return &v.Op
-	}
-	return nil
-}
+// setOp names the exported function op in *err's chain (errs.SetOp);
+// deferred at each exported entry point.
+func setOp(op string, err *error) { errs.SetOp(op, *err) }
 
 // unknownInputErr reports a settings map keyed by input name (such as
 // ForecastSettings.Future, ForecastSettings.InputModels,

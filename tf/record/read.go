@@ -106,7 +106,7 @@ type Record struct {
 	// Columns are the column names of the header line, in order.
 	Columns []string
 	// Series holds the columns read, by name, oldest sample first, after
-	// the remedy of Settings.Gaps: a map tf.Fit takes as its data.
+	// the remedy of Settings.Gaps: a map fit.Model takes as its data.
 	Series map[string][]float64
 	// Lines holds the 1-based line of the file each data row starts on
 	// (one entry per row read, before any remedy).
