@@ -48,29 +48,29 @@ type Reading struct {
 // A first-order term that AsFOPDT accepts (denominator 1 - a B, one or
 // two numerator coefficients, dead time >= 1) is read exactly by it. Any
 // other term is read from its poles and zeros (tf.Rational.Poles, Zeros):
+// a real pole z in (0, 1) is a lag of time constant -T/ln z; a pole at
+// z = 1 (one only) makes the reading integrating; a complex pair with
+// damping zeta >= 0.5 (of s = ln(z)/T) is read as two equal lags
+// zeta/wn, which keeps its group delay 2 zeta/wn; other poles (on the
+// negative real axis, outside the unit circle, a lightly damped pair)
+// are refused. A real zero z in (0, 1) is a lead -T/ln z, a real zero
+// beyond 1 an inverse response T/ln z; zeros on the negative real axis
+// and complex zeros are the sampling zeros of the hold and have no
+// continuous counterpart of their own.
 //
-//   - a real pole z in (0, 1) is a lag of time constant -T/ln z; a pole
-//     at z = 1 (one only) makes the reading integrating; a complex pair
-//     with damping zeta >= 0.5 (of s = ln(z)/T) is read as two equal lags
-//     zeta/wn, which keeps its group delay 2 zeta/wn; other poles (on the
-//     negative real axis, outside the unit circle, a lightly damped pair)
-//     are refused;
-//   - a real zero z in (0, 1) is a lead -T/ln z, a real zero beyond 1 an
-//     inverse response T/ln z; zeros on the negative real axis and
-//     complex zeros are the sampling zeros of the hold and have no
-//     continuous counterpart of their own;
-//   - the dead time is chosen so that the reading, plus the hold's delay
-//     of T/2, has the discrete model's group delay at w = 0 (the mean of
-//     its impulse response, b + omega'(1)/omega(1) - delta'(1)/delta(1)
-//     samples, with ' the derivative in B):
+// The dead time is chosen so that the reading, plus the hold's delay of
+// T/2, has the discrete model's group delay at w = 0 (the mean of its
+// impulse response, gd = b + omega'(1)/omega(1) - delta'(1)/delta(1)
+// samples, with ' the derivative in B):
 //
 //	DeadTime = T gd - sum Lags + sum Leads - sum Inverse - T/2,
 //
 // for an integrating term with the integrator's factor removed from
 // delta and T in place of T/2 (derived here: each sampled lag has group
-// delay tau/T - 1/2 + O(T/tau), each hold sampling zero about 1/2). The
-// reading is then exact for the group delay and accurate to O(T^2/tau) for
-// the dead time; a negative result is clamped to 0 with a note.
+// delay tau/T - 1/2 + O(T/tau), each sampling zero of the hold about
+// 1/2). The reading keeps the group delay exactly; its dead time is
+// accurate to O(T^2/tau) per lag. A negative result is clamped to 0 with
+// a note.
 //
 // It returns a *SettingError for an interval that is not positive and
 // finite, and a *ModelError for a term that has no such reading (zero
