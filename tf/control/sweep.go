@@ -103,17 +103,21 @@ func (a *analyzer) sweep(l *loopFreq) freqFigures {
 			f.poleOnUnitCircle = true
 			return f
 		}
-		p := cmplx.Phase(r)
+		p := math.Atan2(imag(r), real(r))
 		if i > 0 {
 			p += 2 * math.Pi * math.Round((prev-p)/(2*math.Pi))
 		}
 		prev = p
-		a.ph[i], a.mag[i] = p, cmplx.Abs(r)
-		L := l.at(w)
-		if s := 1 / cmplx.Abs(1+L); s > f.ms {
+		m2 := real(r)*real(r) + imag(r)*imag(r)
+		a.ph[i], a.mag[i] = p, math.Sqrt(m2)
+		// |1 + L|^2 = 1 + 2 Re L + |L|^2, with Re L = |r| cos(p - b w).
+		sb, cb := math.Sincos(l.b * w)
+		reL := real(r)*cb + imag(r)*sb
+		d2 := 1 + 2*reL + m2
+		if s := 1 / d2; s > f.ms {
 			f.ms, iS = s, i
 		}
-		if t := cmplx.Abs(L / (1 + L)); t > f.mt {
+		if t := m2 / d2; t > f.mt {
 			f.mt, iT = t, i
 		}
 	}
