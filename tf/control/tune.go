@@ -164,7 +164,7 @@ func (t Tuning) String() string {
 	if t.PID.Gain != 0 {
 		fmt.Fprintf(&b, "%s (times in %s)\n", t.PID, unit)
 	}
-	fmt.Fprintf(&b, "discrete controller (%s): u = %s e\n", methodName(t.Method, t.PID.Gain != 0), t.Controller)
+	fmt.Fprintf(&b, "discrete controller (%s): u = %s e\n", methodName(t.Method, t.PID.Gain != 0), shortRational(t.Controller))
 	if t.Stable {
 		fmt.Fprintf(&b, "peak sensitivity Ms = %.3g on the model\n", t.Ms)
 	} else {
@@ -420,4 +420,43 @@ func (tn *tuner) stable(c tf.Rational) bool {
 		return false
 	}
 	return poly.MaxAbsRoot(rs) < 1
+}
+
+// shortRational prints r as tf.Rational.String does, with coefficients
+// rounded to 6 significant digits for people (Controller holds them in
+// full).
+func shortRational(r tf.Rational) string {
+	poly := func(c []float64) string {
+		var b strings.Builder
+		for k, v := range c {
+			switch {
+			case k == 0:
+				b.WriteString(strconv.FormatFloat(v, 'g', 6, 64))
+				continue
+			case v < 0:
+				b.WriteString(" - ")
+			default:
+				b.WriteString(" + ")
+			}
+			if math.Abs(v) != 1 {
+				b.WriteString(strconv.FormatFloat(math.Abs(v), 'g', 6, 64) + " ")
+			}
+			b.WriteString("B")
+			if k > 1 {
+				b.WriteString("^" + strconv.Itoa(k))
+			}
+		}
+		return "(" + b.String() + ")"
+	}
+	s := poly(r.Num())
+	if d := r.Den(); len(d) > 1 {
+		s += " / " + poly(d)
+	}
+	switch b := r.Delay(); {
+	case b == 1:
+		s += " B"
+	case b > 1:
+		s += " B^" + strconv.Itoa(b)
+	}
+	return s
 }
