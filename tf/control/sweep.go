@@ -100,8 +100,16 @@ func (a *analyzer) sweep(l *loopFreq) freqFigures {
 	for i, w := range a.w {
 		r := l.rat(w)
 		if cmplx.IsInf(r) || cmplx.IsNaN(r) {
-			f.poleOnUnitCircle = true
-			return f
+			// A pole of L on the unit circle at a grid point (the
+			// integrator of a controller sits at w = 0, off the grid; a
+			// deadbeat Dahlin controller has poles at roots of unity):
+			// read the loop just beside it, where |S| is near 0.
+			w *= 1 - 1e-9
+			a.w[i] = w
+			if r = l.rat(w); cmplx.IsInf(r) || cmplx.IsNaN(r) {
+				f.poleOnUnitCircle = true
+				return f
+			}
 		}
 		p := math.Atan2(imag(r), real(r))
 		if i > 0 {
