@@ -316,6 +316,18 @@ func (tn *tuner) tune(tc float64) (Tuning, error) {
 }
 
 // pid returns the rule's PID for closed-loop time tc, in the form asked.
+//
+// The IMC rows re-derived (Rivera et al. 1986): with the model split as
+// G = G+ G- (G+ the dead time's approximation, G+(0) = 1) and the filter
+// 1/(lambda s + 1), the controller is C = G-^{-1}/((lambda s + 1) - G+).
+// For k e^{-theta s}/(tau s + 1) and e^{-theta s} ~ 1 - theta s:
+// C = (tau s + 1)/(k (lambda + theta) s), the PI row. With the Pade
+// approximation (1 - theta s/2)/(1 + theta s/2) and G- including
+// 1/(1 + theta s/2): C = (tau s + 1)(theta s/2 + 1)/(k (lambda +
+// theta/2) s), the parallel PID Kc = (2 tau + theta)/(k (2 lambda +
+// theta)), Ti = tau + theta/2, Td = tau theta/(2 tau + theta). For two
+// lags and 1 - theta s: C = (tau1 s + 1)(tau2 s + 1)/(k (lambda + theta)
+// s), the second-order row.
 func (tn *tuner) pid(tc float64) PID {
 	m := tn.model
 	k, th := m.Gain, m.DeadTime

@@ -50,6 +50,12 @@ func TestHalfRule(t *testing.T) {
 	}{
 		{"paper intro (from memory)", Reading{Gain: 1, Lags: []float64{1, 0.2}}, 1, 1, 1.1, 0, 0.1},
 		{"second order", Reading{Gain: 1, Lags: []float64{1, 0.2, 0.04}}, 2, 1, 1, 0.22, 0.02},
+		// The paper's example (from memory): (-0.3s+1)(0.08s+1) /
+		// ((2s+1)(s+1)(0.4s+1)(0.2s+1)(0.05s+1)^3); the lead 0.08 against
+		// the lag 0.2 leaves 0.12; first order tau1 = 2.5, theta = 1.47;
+		// second order tau1 = 2, tau2 = 1.2, theta = 0.77.
+		{"paper example, order 1 (from memory)", skogestadExample, 1, 1, 2.5, 0, 1.47},
+		{"paper example, order 2 (from memory)", skogestadExample, 2, 1, 2, 1.2, 0.77},
 		{"inverse response", Reading{Gain: 3, Lags: []float64{0.4, 2, 1}, Inverse: []float64{0.3}, DeadTime: 1}, 1, 3, 2.5, 0, 2.2},
 		{"sample interval h/2", Reading{Gain: 1, Lags: []float64{5, 1}, DeadTime: 2, Interval: 1}, 1, 1, 5.5, 0, 3},
 		{"integrating, order 1", Reading{Gain: 0.5, Integrating: true, Lags: []float64{4, 1}, DeadTime: 2}, 1, 0.5, 0, 0, 5},
@@ -68,6 +74,25 @@ func TestHalfRule(t *testing.T) {
 			near(t, "dead time", m.DeadTime, c.th, 1e-12)
 		})
 	}
+}
+
+// skogestadExample is the reading of the half rule's worked example in
+// Skogestad (2003), as recalled (from memory).
+var skogestadExample = Reading{Gain: 1, Lags: []float64{2, 1, 0.4, 0.2, 0.05, 0.05, 0.05}, Leads: []float64{0.08}, Inverse: []float64{0.3}}
+
+// TestSIMCPaperExample applies SIMC's PI rule to the first-order model of
+// the paper's example, tc = theta = 1.47: Kc = 2.5/(2 1.47) = 0.850,
+// Ti = min(2.5, 4 2.94) = 2.5 (the paper's settings, from memory, agree
+// to its three digits).
+func TestSIMCPaperExample(t *testing.T) {
+	m, err := HalfRule(skogestadExample, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tn := &tuner{model: m, s: TuneSettings{Rule: SIMC}}
+	c := tn.pid(tn.defaultTime())
+	near(t, "Kc", c.Gain, 0.850, 1e-3)
+	near(t, "Ti", c.Integral, 2.5, 1e-12)
 }
 
 // TestReadZOHImages reads exact zero-order-hold images back: the lags
@@ -106,8 +131,12 @@ func TestReadZOHImages(t *testing.T) {
 	near(t, "fractional dead time", r.DeadTime, 2.4, 1e-9)
 }
 
-// TestTuneFormulas checks the rules' formulas (as stated on SIMC and IMC)
-// on exact images, numbers computed by hand from the formulas.
+// TestTuneFormulas checks the rules' formulas (as stated on SIMC and IMC:
+// Skogestad 2003, eqs. for PI/PID; Rivera et al. 1986, Table 1 rows for
+// the first-order model with e^{-theta s} ~ 1 - theta s and with the
+// first-order Pade approximation, and the second-order row, from memory
+// and re-derived in the comments of the IMC rule) on exact images,
+// numbers computed by hand from the formulas.
 func TestTuneFormulas(t *testing.T) {
 	iv := tf.Interval{Value: 1, Unit: "min"}
 	p := fopdt(t, 2, 10, 3) // effective dead time 3 + h/2 = 3.5
