@@ -32,6 +32,15 @@
 // random source (ModelDraw draws them from a parameter covariance);
 // WorstCase over a grid of gain and dead-time errors the user names.
 //
+// # Concurrency and determinism
+//
+// The functions keep no state between calls and never modify their
+// arguments: Tune, Analyze, Robust and CheckWorstCase are safe to call
+// from many goroutines at once, and their results are plain values.
+// Robust calls the Draw function on the caller's goroutine, one draw
+// after another with one random source seeded by RobustSettings.Seed, so
+// a seed fixes the result.
+//
 // # Caution
 //
 // Every tuning result drives equipment. An identified model is an

@@ -98,7 +98,8 @@ type Loop struct {
 	DelayMargin tf.Span
 	// SensitivityPeak is max |S| = max 1/|1 + L| over the frequencies,
 	// at SensitivityPeakAt (radians per sample); ComplementaryPeak is
-	// max |T| = max |L/(1 + L)|.
+	// max |T| = max |L/(1 + L)|. Both are NaN in the rare case of a pole
+	// of L on the unit circle that the sweep cannot step beside.
 	SensitivityPeak     float64
 	SensitivityPeakAt   float64
 	ComplementaryPeak   float64
@@ -168,11 +169,10 @@ func (a *analyzer) analyze(c, p tf.Rational, s LoopSettings) (Loop, error) {
 	if T == 0 {
 		T = 1
 	}
-	span := func(v float64) tf.Span { return tf.Span{Samples: v, Time: v * s.Interval.Value} }
 	l := newLoopFreq(c, p)
 	f := a.sweep(&l)
 	lp.Margins = f.margins
-	lp.DelayMargin = span(f.delayMargin)
+	lp.DelayMargin = spanOf(f.delayMargin, s.Interval.Value)
 	lp.SensitivityPeak, lp.SensitivityPeakAt = f.ms, f.msAt
 	lp.ComplementaryPeak, lp.ComplementaryPeakAt = f.mt, f.mtAt
 	if f.poleOnUnitCircle {
@@ -186,6 +186,15 @@ func (a *analyzer) analyze(c, p tf.Rational, s LoopSettings) (Loop, error) {
 		return Loop{}, err
 	}
 	return lp, nil
+}
+
+// spanOf returns v samples as a tf.Span: Time is v times the interval,
+// 0 when no interval is given (tf.Span's convention).
+func spanOf(v, interval float64) tf.Span {
+	if interval == 0 {
+		return tf.Span{Samples: v}
+	}
+	return tf.Span{Samples: v, Time: v * interval}
 }
 
 // characteristic returns delta_c delta_p + omega_c omega_p B^(b_c+b_p),

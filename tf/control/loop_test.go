@@ -174,3 +174,34 @@ func TestAnalyzeBadInput(t *testing.T) {
 		}
 	}
 }
+
+// TestAnalyzeConcurrent runs Analyze from several goroutines on one
+// controller and plant (run with -race): every result equals the
+// sequential one.
+func TestAnalyzeConcurrent(t *testing.T) {
+	p := sopdt(t, 2, 10, 3, 2)
+	tu, err := Tune(p, tf.Interval{}, TuneSettings{Derivative: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := Analyze(tu.Controller, p, LoopSettings{Horizon: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := make([]Loop, 8)
+	done := make(chan int)
+	for i := range got {
+		go func() {
+			got[i], _ = Analyze(tu.Controller, p, LoopSettings{Horizon: 100})
+			done <- i
+		}()
+	}
+	for range got {
+		<-done
+	}
+	for i, g := range got {
+		if g.SensitivityPeak != want.SensitivityPeak || g.Setpoint.IAE != want.Setpoint.IAE || g.MaxPole != want.MaxPole {
+			t.Errorf("goroutine %d: Ms %v IAE %v, sequential %v %v", i, g.SensitivityPeak, g.Setpoint.IAE, want.SensitivityPeak, want.Setpoint.IAE)
+		}
+	}
+}

@@ -33,7 +33,8 @@ type Reading struct {
 	// Interval is the sample interval T the model was read with.
 	Interval float64
 	// How says which reading was used: "first-order image" (exact, by
-	// tf.Rational.AsFOPDT) or "poles, zeros and group delay".
+	// tf.Rational.AsFOPDT) or "poles, zeros and group delay"; in a
+	// Tuning by Dahlin's rule of a model Read refuses, "dead time only".
 	How string
 	// Notes record approximations made (a complex pole pair read as two
 	// lags, a dead time clamped at 0).

@@ -14,7 +14,7 @@ func (a *analyzer) responses(lp *Loop, c, p tf.Rational, n int, T float64, s Loo
 	if err != nil {
 		return err
 	}
-	span := func(v float64) tf.Span { return tf.Span{Samples: v, Time: v * s.Interval.Value} }
+	span := func(v float64) tf.Span { return spanOf(v, s.Interval.Value) }
 	sp, ld := &lp.Setpoint, &lp.Load
 	sp.Output, sp.Control = sim.run(n, 1, 0)
 	ld.Output, ld.Control = sim.run(n, 0, 1)
@@ -123,7 +123,7 @@ func figures(y []float64, g float64, o tf.StepSettings, interval float64) tf.Ste
 	if band == 0 {
 		band = 0.02
 	}
-	span := func(s float64) tf.Span { return tf.Span{Samples: s, Time: s * interval} }
+	span := func(s float64) tf.Span { return spanOf(s, interval) }
 	f := tf.StepFigures{Final: g, RiseFrom: from, RiseTo: to, Band: band, Horizon: len(y)}
 	f.Rise = span(crossing(y, g, to) - crossing(y, g, from))
 	peak, kPeak, under := 0.0, 0, 0.0

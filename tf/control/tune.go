@@ -39,7 +39,8 @@ const (
 	// second-order model: Kc = (Tau1 + Tau2)/(k (lambda + theta)),
 	// Ti = Tau1 + Tau2, Td = Tau1 Tau2/(Tau1 + Tau2). Integrating (lambda
 	// tuning, common practice): Kc = (2 lambda + theta)/(k (lambda +
-	// theta)^2), Ti = 2 lambda + theta. The default lambda is 1.7 theta
+	// theta)^2), Ti = 2 lambda + theta, a PI also when a PID is asked for.
+	// The default lambda is 1.7 theta
 	// for PI and 0.8 theta for PID, the lower bounds the paper recommends
 	// (from memory).
 	IMC Rule = "IMC"
@@ -57,7 +58,8 @@ const (
 	// longer exactly T, common practice). An integrating plant's (1 - B)
 	// cancels. It works on the discrete model directly (no reading), and
 	// its result is a rational controller. The default lambda is the
-	// dead time of the reading, at least one sample.
+	// dead time of the reading (of the model's dead time less the hold's
+	// sample when Read refuses the model), at least one sample.
 	Dahlin Rule = "Dahlin"
 )
 
@@ -258,13 +260,19 @@ func newTuner(p tf.Rational, T float64, s TuneSettings) (*tuner, error) {
 		tn.s.Rule = SIMC
 	}
 	rd, err := Read(p, T)
+	if tn.s.Rule == Dahlin {
+		// Dahlin's rule works on p itself; the reading, when there is
+		// one, only sets the default lambda.
+		if err != nil {
+			rd = Reading{DeadTime: float64(max(p.Delay()-1, 0)) * T, Interval: T, How: "dead time only"}
+		}
+		tn.reading = rd
+		return tn, nil
+	}
 	if err != nil {
 		return nil, err
 	}
 	tn.reading = rd
-	if tn.s.Rule == Dahlin {
-		return tn, nil
-	}
 	order := 1
 	if s.Derivative {
 		order = 2

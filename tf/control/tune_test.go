@@ -271,6 +271,13 @@ func TestDahlin(t *testing.T) {
 			}
 		}
 	}
+	// A lightly damped plant, which Read refuses, is tuned by Dahlin's
+	// rule on the model itself; the loop on the model is the designed
+	// first-order response, so stable.
+	ringing, _ := tf.NewRational([]float64{0.2}, []float64{1, -1.6, 0.95}, 2)
+	if tu, err := Tune(ringing, tf.Interval{}, TuneSettings{Rule: Dahlin}); err != nil || !tu.Stable || tu.Reading.How != "dead time only" {
+		t.Errorf("lightly damped plant: %v %v", tu, err)
+	}
 	// A sampling zero on the negative real axis is smoothed: the loop is
 	// stable and reaches the set point.
 	tu, err := Tune(sopdt(t, 2, 10, 3, 2), tf.Interval{}, TuneSettings{Rule: Dahlin})
