@@ -33,7 +33,8 @@ type Reading struct {
 	// Interval is the sample interval T the model was read with.
 	Interval float64
 	// How says which reading was used: "first-order image" (exact, by
-	// tf.Rational.AsFOPDT) or "poles, zeros and group delay"; in a
+	// tf.Rational.AsFOPDT), "second-order image" (exact, by
+	// AsSecondOrder) or "poles, zeros and group delay"; in a
 	// Tuning by Dahlin's rule of a model Read refuses, "dead time only".
 	How string
 	// Notes record approximations made (a complex pole pair read as two
@@ -47,8 +48,10 @@ type Reading struct {
 // process.
 //
 // A first-order term that AsFOPDT accepts (denominator 1 - a B, one or
-// two numerator coefficients, dead time >= 1) is read exactly by it. Any
-// other term is read from its poles and zeros (tf.Rational.Poles, Zeros):
+// two numerator coefficients, dead time >= 1) is read exactly by it, and
+// the exact image of an overdamped second-order lag (AsSecondOrder with a
+// numerator mismatch below 1e-9) by AsSecondOrder. Any other term is read
+// from its poles and zeros (tf.Rational.Poles, Zeros):
 // a real pole z in (0, 1) is a lag of time constant -T/ln z; a pole at
 // z = 1 (one only) makes the reading integrating; a complex pair with
 // damping zeta >= 0.5 (of s = ln(z)/T) is read as two equal lags
@@ -86,12 +89,32 @@ func Read(p tf.Rational, T float64) (Reading, error) {
 			return Reading{Gain: f.Gain, Lags: []float64{f.TimeConstant}, DeadTime: f.DeadTime, Interval: T, How: "first-order image"}, nil
 		}
 	}
+	if r, ok := readSecondOrder(p, T); ok {
+		return r, nil
+	}
 	r, err := readPolesZeros(p, T)
 	if err != nil {
 		err.(*ModelError).Op = op
 		return Reading{}, err
 	}
 	return r, nil
+}
+
+// readSecondOrder reads p exactly by tf.Rational.AsSecondOrder when p is
+// the zero-order-hold image of an overdamped second-order lag with dead
+// time (numerator mismatch below 1e-9, damping >= 1).
+func readSecondOrder(p tf.Rational, T float64) (Reading, bool) {
+	if p.DenDegree() != 2 || !p.Stable() {
+		return Reading{}, false
+	}
+	f, mismatch, err := p.AsSecondOrder(T)
+	if err != nil || !(mismatch < 1e-9) || f.Damping < 1 {
+		return Reading{}, false
+	}
+	q := math.Sqrt(f.Damping*f.Damping - 1)
+	t1 := 1 / (f.NaturalFrequency * (f.Damping - q))
+	t2 := 1 / (f.NaturalFrequency * f.NaturalFrequency * t1)
+	return Reading{Gain: f.Gain, Lags: []float64{t1, t2}, DeadTime: f.DeadTime, Interval: T, How: "second-order image"}, true
 }
 
 // readPolesZeros is the general reading of Read.

@@ -95,9 +95,8 @@ func TestSIMCPaperExample(t *testing.T) {
 	near(t, "Ti", c.Integral, 2.5, 1e-12)
 }
 
-// TestReadZOHImages reads exact zero-order-hold images back: the lags
-// come from the poles exactly (1e-9), the dead time from the group delay
-// to O(T^2/tau) (derived on Read: 1e-3 here for tau >= 3 samples).
+// TestReadZOHImages reads exact zero-order-hold images back (1e-9), and a
+// term with a lead from its poles, zeros and group delay.
 func TestReadZOHImages(t *testing.T) {
 	r, err := Read(sopdt(t, 2, 10, 3, 2), 1)
 	if err != nil {
@@ -109,7 +108,31 @@ func TestReadZOHImages(t *testing.T) {
 	near(t, "gain", r.Gain, 2, 1e-9)
 	near(t, "lag 1", r.Lags[0], 10, 1e-9)
 	near(t, "lag 2", r.Lags[1], 3, 1e-9)
-	near(t, "dead time", r.DeadTime, 2, 1e-3)
+	near(t, "dead time", r.DeadTime, 2, 1e-9)
+	if r.How != "second-order image" {
+		t.Errorf("read by %q", r.How)
+	}
+	// A second-order term with a lead is read from poles, zeros and the
+	// group delay. The exact ZOH image of 2 (4s+1) e^{-2s}/((10s+1)(3s+1))
+	// is ZOH(G) + 4 ZOH(s G), and ZOH(s G) = (1 - B) sum_k g(kT) B^k with
+	// g the impulse response 2 (e^{-u/10} - e^{-u/3})/(10 - 3), u = kT - 2
+	// (derived here), that is 2/7 (a1 - a2) (1 - B) B^3/((1 - a1 B)(1 - a2 B)).
+	// Its lead is no longer exactly a discrete zero, nor its dead time
+	// exactly 2: both to O(T^2/tau) of the reading (0.05 here).
+	lag := sopdt(t, 2, 10, 3, 2)
+	a1, a2 := math.Exp(-0.1), math.Exp(-1.0/3)
+	c := 4 * 2.0 / 7 * (a1 - a2)
+	num := lag.Num() // the image of the lags, B^3 (w0 + w1 B) / den
+	num[0], num[1] = num[0]+c, num[1]-c
+	withLead, _ := tf.NewRational(num, lag.Den(), lag.Delay())
+	r, err = Read(withLead, 1)
+	if err != nil || len(r.Leads) != 1 || r.How != "poles, zeros and group delay" {
+		t.Fatalf("%+v %v", r, err)
+	}
+	near(t, "lead", r.Leads[0], 4, 0.05)
+	near(t, "lags", r.Lags[0]+r.Lags[1], 13, 1e-9)
+	near(t, "dead time with a lead", r.DeadTime, 2, 0.05)
+	near(t, "dead time with a lead", r.DeadTime, 2, 0.05)
 	// k' e^{-dT s}/s has the exact image k' T B^(d+1)/(1 - B) (common
 	// practice: the held input integrates over one interval).
 	p, _ := tf.NewRational([]float64{0.25 * 2}, []float64{1, -1}, 4)
@@ -153,16 +176,15 @@ func TestTuneFormulas(t *testing.T) {
 		{"SIMC PI tc 1", p, TuneSettings{ClosedLoopTime: 1}, 10.0 / 9, 10, 0, 1e-9},
 		// A long lag: Ti = 4 (tc + theta) = 28 < 40.
 		{"SIMC PI long lag", fopdt(t, 2, 40, 3), TuneSettings{}, 40.0 / 14, 28, 0, 1e-9},
-		// SOPDT 2 e^{-2s}/((10s+1)(3s+1)): theta 2.5, Kc = 10/(2*5), Ti 10, Td 3 (series);
-		// the reading's dead time is within 1e-4 here.
-		{"SIMC PID", sopdt(t, 2, 10, 3, 2), TuneSettings{Derivative: true}, 1, 10, 3, 1e-4},
+		// SOPDT 2 e^{-2s}/((10s+1)(3s+1)): theta 2.5, Kc = 10/(2*5), Ti 10, Td 3 (series).
+		{"SIMC PID", sopdt(t, 2, 10, 3, 2), TuneSettings{Derivative: true}, 1, 10, 3, 1e-9},
 		// IMC PI, lambda 2: Kc = 10/(2 (2 + 3.5)), Ti = 10.
 		{"IMC PI", p, TuneSettings{Rule: IMC, ClosedLoopTime: 2}, 10.0 / 11, 10, 0, 1e-9},
 		// IMC PID on the first-order model, lambda 2:
 		// Kc = 23.5/(2 * 7.5), Ti = 11.75, Td = 35/23.5.
 		{"IMC PID Pade", p, TuneSettings{Rule: IMC, Derivative: true, ClosedLoopTime: 2}, 23.5 / 15, 11.75, 35 / 23.5, 1e-9},
 		// IMC PID on SOPDT, lambda 1: Kc = 13/(2 * 3.5), Ti = 13, Td = 30/13.
-		{"IMC PID SOPDT", sopdt(t, 2, 10, 3, 2), TuneSettings{Rule: IMC, Derivative: true, ClosedLoopTime: 1}, 13.0 / 7, 13, 30.0 / 13, 1e-4},
+		{"IMC PID SOPDT", sopdt(t, 2, 10, 3, 2), TuneSettings{Rule: IMC, Derivative: true, ClosedLoopTime: 1}, 13.0 / 7, 13, 30.0 / 13, 1e-9},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			tu, err := Tune(c.p, iv, c.s)
