@@ -155,8 +155,11 @@ type Tuning struct {
 func (t Tuning) String() string {
 	var b strings.Builder
 	unit := t.Interval.Unit
-	if unit == "" {
+	switch {
+	case t.Interval.Value == 0:
 		unit = "samples"
+	case unit == "":
+		unit = "time units"
 	}
 	fmt.Fprintf(&b, "%s tuning, closed-loop time %s %s", t.Rule, fmtG(t.ClosedLoopTime), unit)
 	if t.Model.Order > 0 {
@@ -314,7 +317,9 @@ func (tn *tuner) tune(tc float64) (Tuning, error) {
 	if t.Method == "" && tn.s.Rule != Dahlin {
 		t.Method = BackwardDifference
 	}
-	t.Stable = tn.stable(t.Controller)
+	if t.Stable, err = tn.stable(t.Controller); err != nil {
+		return Tuning{}, err
+	}
 	if !t.Stable {
 		t.Ms = math.Inf(1)
 		return t, nil
@@ -429,17 +434,18 @@ func (tn *tuner) searchMs(target float64) (float64, error) {
 	return math.Exp(hi), nil
 }
 
-// stable reports whether the loop of c on the plant model is stable.
-func (tn *tuner) stable(c tf.Rational) bool {
+// stable reports whether the loop of c on the plant model is stable; an
+// algebraic loop (no dead time in the loop) is an error.
+func (tn *tuner) stable(c tf.Rational) (bool, error) {
 	char, err := characteristic(c, tn.p)
 	if err != nil {
-		return false
+		return false, err
 	}
 	rs, err := poly.Roots(poly.Reciprocal(char))
 	if err != nil {
-		return false
+		return false, &ModelError{Part: "closed loop", Problem: "poles not found: " + err.Error(), Err: err}
 	}
-	return poly.MaxAbsRoot(rs) < 1
+	return poly.MaxAbsRoot(rs) < 1, nil
 }
 
 // shortRational prints r as tf.Rational.String does, with coefficients

@@ -19,6 +19,7 @@ func TestTuneBadInput(t *testing.T) {
 	zeroGain, _ := tf.NewRational([]float64{0.2, -0.2}, []float64{1, -0.9}, 2)
 	ringing, _ := tf.NewRational([]float64{0.2}, []float64{1, -1.6, 0.95}, 2)
 	pure, _ := tf.NewRational([]float64{0.5}, []float64{1}, 3)
+	feedthrough, _ := tf.NewRational([]float64{0.2}, []float64{1, -0.9}, 0)
 	for _, c := range []struct {
 		name string
 		p    tf.Rational
@@ -41,6 +42,7 @@ func TestTuneBadInput(t *testing.T) {
 		{"zero gain", zeroGain, tf.Interval{}, TuneSettings{}, ErrModel, "no steady-state effect"},
 		{"lightly damped", ringing, tf.Interval{}, TuneSettings{}, ErrModel, "lightly damped"},
 		{"pure dead time", pure, tf.Interval{}, TuneSettings{}, ErrModel, "pure dead time"},
+		{"algebraic loop", feedthrough, tf.Interval{}, TuneSettings{}, ErrModel, "algebraic loop"},
 		{"Ms unreachable", p, tf.Interval{}, TuneSettings{MaxSensitivity: 1.0001}, ErrModel, "MaxSensitivity target"},
 	} {
 		_, err := Tune(c.p, c.iv, c.s)
