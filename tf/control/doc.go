@@ -56,7 +56,8 @@
 //     control. 4. PID controller design, Ind. Eng. Chem. Process Des.
 //     Dev. 25:252-265.
 //   - E. B. Dahlin (1968), Designing and tuning digital controllers,
-//     Instruments and Control Systems 41(6):77-83.
+//     Instruments and Control Systems 41(6):77-83 (issue and pages from
+//     memory).
 //   - G. F. Franklin, J. D. Powell, M. L. Workman (1998), Digital Control
 //     of Dynamic Systems, 3rd ed., Addison-Wesley.
 package control

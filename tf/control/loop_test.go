@@ -17,7 +17,8 @@ import (
 //
 // reaches the stability boundary. Derived here (the Nyquist criterion for
 // sampled systems, Franklin, Powell & Workman, Digital Control of Dynamic
-// Systems, 3rd ed., section 7.4; the Jury test, section 4.5): the
+// Systems, 3rd ed., section 7.4; the Jury test, section 4.5; section
+// numbers from memory): the
 // characteristic polynomial is 1 - a B + k (1 - a) B^d. For d = 1 its
 // pole is z = a - k (1 - a), inside the unit circle while k < (1 + a)/(1 - a).
 // For d = 2, z^2 - a z + k (1 - a) satisfies Jury's conditions |k (1 - a)|

@@ -85,8 +85,9 @@ type TuneSettings struct {
 	ClosedLoopTime float64
 	// MaxSensitivity, when not 0, asks instead for the closed-loop time
 	// whose discrete loop on the model has this peak |S| (found by
-	// bisection on log tc over [1e-3, 1e3] times the dead time; Ms
-	// falls as the loop slows). It must lie in (1, 10]; 1.4 to 2 is the
+	// bisection on log tc over [1e-3, 1e3] times the rule's default
+	// closed-loop time, at least the sample interval; Ms falls as the
+	// loop slows). It must lie in (1, 10]; 1.4 to 2 is the
 	// usual range (common practice). It overrides ClosedLoopTime.
 	MaxSensitivity float64
 	// Method discretises the PID; empty means BackwardDifference.
