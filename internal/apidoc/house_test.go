@@ -29,6 +29,7 @@ var house = map[string][]string{
 	"tf/identify":   {"tf/fit", "tf", "arma", "ccf", "prewhiten", "internal/"},
 	"tf/record":     {"tf", "internal/errs"},
 	"tf/testsignal": {"internal/"},
+	"tf/control":    {"tf", "internal/"},
 	"parse":         {"tf", "internal/errs"},
 	"examples/":     {"tf", "tf/", "arma", "ccf", "prewhiten", "parse", "examples/"},
 }
