@@ -114,8 +114,8 @@ func checkFree(m tf.Model) *ModelError {
 // for an input, its column of u.
 type planned struct {
 	Part
-	input int // column of u; -1 for the noise part
-	order int // states of the rational part (after the delay states)
+	input  int // column of u; -1 for the noise part
+	order  int // states of the rational part (after the delay states)
 	absorb int
 	noise  bool // the model has a noise term (the noise part only)
 	cnum   []float64
