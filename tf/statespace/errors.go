@@ -13,9 +13,9 @@ type (
 	// SeriesError reports a whole series of the wrong length or count,
 	// of kind ErrLength.
 	SeriesError = errs.SeriesError
-	// SampleError reports one NaN or infinite sample: the series
-	// ("input \"valve\"", "innovations", "output", "start"), the 0-based
-	// index and the value. It matches ErrSample.
+	// SampleError reports one NaN or infinite sample: the series (an
+	// input's or the output's name, "innovations" or "start"), the
+	// 0-based index and the value. It matches ErrSample.
 	SampleError = errs.SampleError
 	// SettingError reports an argument that breaks its rule (an input
 	// number out of range, a negative length), naming it.

@@ -99,11 +99,11 @@ func (p *Predictor) stepError(u []float64, y, yhat float64) error {
 	const op = "statespace.Predictor.Step"
 	for i, v := range u {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return &SampleError{Op: op, Series: "input " + strconv.Quote(p.r.inputs[i]), Index: p.t, Value: v}
+			return &SampleError{Op: op, Series: p.r.inputs[i], Index: p.t, Value: v}
 		}
 	}
 	if math.IsNaN(y) || math.IsInf(y, 0) {
-		return &SampleError{Op: op, Series: "output " + strconv.Quote(p.r.output), Index: p.t, Value: y}
+		return &SampleError{Op: op, Series: p.r.output, Index: p.t, Value: y}
 	}
 	return &ModelError{Op: op, Part: "prediction", Problem: "step " + strconv.Itoa(p.t) + " gave " + strconv.FormatFloat(yhat, 'g', -1, 64) + ": the state left float64 range (an unstable path, or data far beyond the model's scale)"}
 }
@@ -140,9 +140,9 @@ func (r *Realisation) OneStep(inputs [][]float64, output, start []float64) (pred
 		return nil, nil, err
 	}
 	if r.m > 0 && len(output) != n {
-		return nil, nil, &SeriesError{Op: op, Series: "output " + strconv.Quote(r.output), Kind: ErrLength, Have: len(output), Need: n, Detail: "the length of the inputs"}
+		return nil, nil, &SeriesError{Op: op, Series: r.output, Kind: ErrLength, Have: len(output), Need: n, Detail: "the length of the inputs"}
 	}
-	if err := finite(op, "output "+strconv.Quote(r.output), output); err != nil {
+	if err := finite(op, r.output, output); err != nil {
 		return nil, nil, err
 	}
 	p := &Predictor{r: r, x: r.start(start), xn: make([]float64, r.n)}

@@ -101,7 +101,7 @@ func TestPredictorErr(t *testing.T) {
 	p.Step([]float64{1}, 2)
 	p.Step([]float64{math.NaN()}, 2)
 	var se *SampleError
-	if !errors.As(p.Err(), &se) || se.Index != 1 || se.Series != `input "x"` {
+	if !errors.As(p.Err(), &se) || se.Index != 1 || se.Series != "x" {
 		t.Errorf("Err() = %v, want a *SampleError for input x at step 1", p.Err())
 	}
 	p.Reset()

@@ -149,7 +149,7 @@ func (r *Realisation) checkRun(op string, inputs [][]float64, innovations, start
 	}
 	n := -1
 	for i, s := range inputs {
-		name := "input " + strconv.Quote(r.inputs[i])
+		name := r.inputs[i]
 		if n >= 0 && len(s) != n {
 			return 0, &SeriesError{Op: op, Series: name, Kind: ErrLength, Have: len(s), Need: n, Detail: "the length of input " + strconv.Quote(r.inputs[0])}
 		}

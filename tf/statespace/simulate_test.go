@@ -1,7 +1,9 @@
 package statespace
 
 import (
+	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/tf"
@@ -108,6 +110,47 @@ func closeSlices(t *testing.T, what string, got, want []float64, tol float64) {
 	for i := range got {
 		if !(math.Abs(got[i]-want[i]) <= tol*s) {
 			t.Fatalf("%s[%d] = %.17g, want %.17g (tolerance %g of %g)", what, i, got[i], want[i], tol, s)
+		}
+	}
+}
+
+// TestSimulateBadInput: each call the simulation methods must refuse,
+// with the kind and the words of its message.
+func TestSimulateBadInput(t *testing.T) {
+	r, err := Realise(mustModel(t, "y = 2 + 0.5 / (1 - 0.8 B) B x + 0.2 v + (1 - 0.3 B) a"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	quiet, _ := Realise(mustModel(t, "y = 0.5 B x"))
+	nan := math.NaN()
+	ok := []float64{1, 2, 3}
+	for _, c := range []struct {
+		name string
+		call func() error
+		kind error
+		want []string
+	}{
+		{"count", func() error { _, err := r.Simulate([][]float64{ok}, nil, nil); return err }, ErrLength, []string{`"inputs" has 1 samples against 2`, "one series per input"}},
+		{"lengths", func() error { _, err := r.Simulate([][]float64{ok, {1}}, nil, nil); return err }, ErrLength, []string{`series "v" has 1 samples against 3`, `input "x"`}},
+		{"nan input", func() error { _, err := r.Simulate([][]float64{ok, {1, nan, 3}}, nil, nil); return err }, ErrSample, []string{`series "v" sample 1 is NaN`}},
+		{"innovations length", func() error { _, err := r.Simulate([][]float64{ok, ok}, []float64{1}, nil); return err }, ErrLength, []string{"innovations"}},
+		{"start length", func() error { _, err := r.Simulate([][]float64{ok, ok}, nil, []float64{1}); return err }, ErrLength, []string{"start", "one value per state"}},
+		{"start nan", func() error { _, err := r.Simulate([][]float64{ok, ok}, nil, []float64{0, 0, nan}); return err }, ErrSample, []string{"start", "sample 2"}},
+		{"no noise", func() error { _, err := quiet.Simulate([][]float64{ok}, ok, nil); return err }, ErrModel, []string{"no noise term"}},
+		{"input number", func() error { _, err := r.Impulse(2, 5); return err }, ErrSetting, []string{"input = 2", "0..1"}},
+		{"length", func() error { _, err := r.Step(0, -1); return err }, ErrSetting, []string{"n = -1"}},
+		{"output length", func() error { _, _, err := r.OneStep([][]float64{ok, ok}, []float64{1}, nil); return err }, ErrLength, []string{`series "y" has 1 samples against 3`}},
+		{"output nan", func() error { _, _, err := r.OneStep([][]float64{ok, ok}, []float64{1, nan, 1}, nil); return err }, ErrSample, []string{`series "y" sample 1`}},
+	} {
+		err := c.call()
+		if !errors.Is(err, c.kind) {
+			t.Errorf("%s: %v, want kind %v", c.name, err, c.kind)
+			continue
+		}
+		for _, w := range c.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: %q does not say %q", c.name, err, w)
+			}
 		}
 	}
 }
