@@ -83,3 +83,43 @@ func TestDesignMultiLevelBadInput(t *testing.T) {
 		testutil.CheckWords(t, tc.name, err.Error(), tc.want, nil)
 	}
 }
+
+// FuzzDesignMultiLevel: any settings of a multi-level design give a
+// *SettingError or a plan whose every number is finite and whose
+// samples are Level + Amplitude times a level of MultiLevel; never a
+// panic.
+func FuzzDesignMultiLevel(f *testing.F) {
+	f.Add(10.0, 2.0, 1.0, 40.0, 5.0, 700.0, 3)
+	f.Add(1.0, 0.0, 0.5, 0.0, 1.0, 2000.0, 5)
+	f.Add(1e-3, 1e6, 1e-6, -1.0, 1e300, 1.0, 7)
+	f.Fuzz(func(t *testing.T, tau, dead, ts, level, amp, budget float64, levels int) {
+		s := DesignSettings{TimeConstant: tau, DeadTime: dead, Sample: ts, Level: level, Amplitude: amp, Budget: budget, Signal: KindMultiLevel, Levels: levels}
+		d, err := Design(s)
+		if err != nil {
+			var se *SettingError
+			if !errors.As(err, &se) {
+				t.Fatalf("untyped error %v", err)
+			}
+			return
+		}
+		q := max(levels, 3)
+		x, err := MultiLevel(q, d.Stages)
+		if err != nil || len(d.Signal) == 0 || len(d.Signal) > MaxSamples {
+			t.Fatalf("%d stages (%v), %d samples", d.Stages, err, len(d.Signal))
+		}
+		ok := map[float64]bool{}
+		for _, v := range x {
+			ok[level+amp*v] = true
+		}
+		for _, v := range d.Signal {
+			if !ok[v] {
+				t.Fatalf("sample %v is not a level", v)
+			}
+		}
+		for _, v := range append([]float64{d.Clock, d.BandLow, d.BandHigh}, d.Power...) {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Fatalf("non-finite figure %v", v)
+			}
+		}
+	})
+}
