@@ -26,8 +26,14 @@ import (
 // every root outside it and the input paths are stable). From any other
 // start the error e_t - a_t decays as the roots of theta(B) (in the
 // z-plane, the eigenvalues of A - K C on the noise part) and the poles of
-// the input paths. A model without a noise term has no innovations form:
-// a *ModelError.
+// the input paths. A path that keeps a pole on the unit circle (an
+// input integrated by the output's differencing, which its own does not
+// cancel) never forgets its start in its own states, but the noise part,
+// which holds the same differencing, takes up the difference, so that
+// the errors e_t still converge to a_t (TestPredictorMatchesFitResiduals,
+// case "integrating"); the split of the state between the two is then
+// not determined by the data. A model without a noise term has no
+// innovations form: a *ModelError.
 func (r *Realisation) Gain() (*mat.Dense, error) {
 	if !r.noise {
 		return nil, noNoise("statespace.Realisation.Gain")
