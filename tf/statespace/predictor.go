@@ -30,8 +30,7 @@ import (
 // input integrated by the output's differencing, which its own does not
 // cancel) never forgets its start in its own states, but the noise part,
 // which holds the same differencing, takes up the difference, so that
-// the errors e_t still converge to a_t (TestPredictorMatchesFitResiduals,
-// case "integrating"); the split of the state between the two is then
+// the errors e_t still converge to a_t; the split of the state between the two is then
 // not determined by the data. A model without a noise term has no
 // innovations form: a *ModelError.
 func (r *Realisation) Gain() (*mat.Dense, error) {
