@@ -53,6 +53,14 @@
 // constant state has A = 1 and no input: it holds 1 in a default start,
 // 0 in the impulse and step responses.
 //
+// # Starts
+//
+// Simulate and NewPredictor start by default with every path at rest
+// (the record of tf's Model.Simulate with SimSettings.FromRest);
+// Realisation.Steady gives the state settled at constant inputs (the
+// record Model.Simulate and the fit assume by default), for a start at
+// an operating point.
+//
 // # Minimal
 //
 // A realisation is minimal when no realisation with fewer states has the
