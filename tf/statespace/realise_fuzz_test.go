@@ -12,8 +12,8 @@ import (
 
 // FuzzRealise: any fixed coefficients, dead time and differencing give
 // a *ModelError or a realisation whose matrices are finite, whose state
-// count is the package doc's formula and which simulates a few steps
-// without a panic.
+// count is the package doc's formula, which simulates a few steps and
+// whose settled state is a typed error or finite; never a panic.
 func FuzzRealise(f *testing.F) {
 	f.Add([]byte{30, 10, 30, 200}, []byte{30, 20, 30, 246}, uint8(3), []byte{30, 240}, []byte{30, 10}, true, uint8(1))
 	f.Add([]byte{3, 1}, []byte{0, 0, 30, 1}, uint8(0), []byte{}, []byte{30, 250, 30, 1}, false, uint8(2))
@@ -58,6 +58,17 @@ func FuzzRealise(f *testing.F) {
 		}
 		if _, err := r.Simulate([][]float64{{1, 0, -1}}, nil, nil); err != nil {
 			t.Fatalf("simulate: %v", err)
+		}
+		if x, err := r.Steady([]float64{1}); err != nil {
+			if !errors.Is(err, ErrModel) {
+				t.Fatalf("steady: untyped error %v", err)
+			}
+		} else {
+			for _, v := range x {
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Fatalf("steady state %v", x)
+				}
+			}
 		}
 	})
 }

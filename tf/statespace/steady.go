@@ -20,7 +20,8 @@ import (
 // (ErrLength) for a u of the wrong length, a *SampleError for a NaN or
 // infinite value, and a *ModelError for an input path with a pole at
 // z = 1 (an integrator: an input integrated by the output's
-// differencing) and a nonzero u for it, which has no settled state.
+// differencing) and a nonzero u for it, which has no settled state, or
+// whose settled state leaves float64 range.
 func (r *Realisation) Steady(u []float64) ([]float64, error) {
 	const op = "statespace.Realisation.Steady"
 	if len(u) != r.m {
@@ -52,6 +53,10 @@ func (r *Realisation) Steady(u []float64) ([]float64, error) {
 		}
 		for a := range k {
 			x[p.First+a] = sol.AtVec(a)
+			if v := x[p.First+a]; v-v != 0 {
+				return nil, &ModelError{Op: op, Part: "input " + strconv.Quote(p.Name),
+					Problem: "the settled state for the input " + strconv.FormatFloat(u[i], 'g', -1, 64) + " leaves float64 range (a pole very near z = 1 or a huge gain); rescale the series"}
+			}
 		}
 	}
 	return x, nil
