@@ -30,6 +30,7 @@ var house = map[string][]string{
 	"tf/record":     {"tf", "internal/errs"},
 	"tf/testsignal": {"internal/"},
 	"tf/control":    {"tf", "internal/"},
+	"tf/statespace": {"tf", "arma", "internal/"},
 	"parse":         {"tf", "internal/errs"},
 	"examples/":     {"tf", "tf/", "arma", "ccf", "prewhiten", "parse", "examples/"},
 }

@@ -9,14 +9,15 @@ import (
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/control"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // fitForTest is the one call of the estimation API in this package's
-// tests (tf.Fit today; fit.Model after the move, returning *fit.Estimate
+// tests (fit.Model, returning *fit.Estimate
 // with the same Model, Params and Cov).
-func fitForTest(t *testing.T, m tf.Model, data map[string][]float64) *tf.Estimate {
+func fitForTest(t *testing.T, m tf.Model, data map[string][]float64) *fit.Estimate {
 	t.Helper()
-	est, err := tf.Fit(context.Background(), m, data, nil)
+	est, err := fit.Model(context.Background(), m, data, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -16,6 +16,10 @@ const (
 	KindMaxLength Kind = iota
 	// KindBinaryNoise: generalised binary noise, deciding at every sample.
 	KindBinaryNoise
+	// KindMultiLevel: a maximum-length sequence of DesignSettings.Levels
+	// levels (see MultiLevel), held and repeated as KindMaxLength, for a
+	// test that must show non-linearity.
+	KindMultiLevel
 )
 
 // MinPeriods is the number of whole periods of the slowest expected
@@ -71,9 +75,12 @@ type DesignSettings struct {
 	Amplitude float64
 	// Budget is the time the test may take. Required, positive.
 	Budget float64
-	// Signal chooses the family: KindMaxLength (the zero value) or
-	// KindBinaryNoise.
+	// Signal chooses the family: KindMaxLength (the zero value),
+	// KindBinaryNoise or KindMultiLevel.
 	Signal Kind
+	// Levels is the number of levels of a KindMultiLevel sequence: 3, 5
+	// or 7; 0 means 3. Unused by the other kinds.
+	Levels int
 	// Seed seeds the binary noise; unused for a maximum-length sequence.
 	Seed uint64
 }
@@ -105,8 +112,11 @@ func (s DesignSettings) Validate() error {
 	if s.Amplitude > MaxMagnitude {
 		return &SettingError{Op: op, Setting: "DesignSettings.Amplitude", Value: fmtG(s.Amplitude), Rule: "must be at most MaxMagnitude = 1e100 (rescale: change the units)"}
 	}
-	if s.Signal != KindMaxLength && s.Signal != KindBinaryNoise {
-		return &SettingError{Op: op, Setting: "DesignSettings.Signal", Value: strconv.Itoa(int(s.Signal)), Rule: "must be KindMaxLength or KindBinaryNoise"}
+	if s.Signal != KindMaxLength && s.Signal != KindBinaryNoise && s.Signal != KindMultiLevel {
+		return &SettingError{Op: op, Setting: "DesignSettings.Signal", Value: strconv.Itoa(int(s.Signal)), Rule: "must be KindMaxLength, KindBinaryNoise or KindMultiLevel"}
+	}
+	if s.Signal == KindMultiLevel && s.Levels != 0 && MaxMultiStages(s.Levels) == 0 {
+		return &SettingError{Op: op, Setting: "DesignSettings.Levels", Value: strconv.Itoa(s.Levels), Rule: "must be 3, 5 or 7 (0 means 3)"}
 	}
 	if s.Budget/s.Sample > MaxSamples {
 		return &SettingError{Op: op, Setting: "DesignSettings.Budget", Value: fmtG(s.Budget),
@@ -121,7 +131,8 @@ func (s DesignSettings) Validate() error {
 // Plan is a designed test signal and what it excites.
 type Plan struct {
 	// Signal holds one value per sample, Level - Amplitude or
-	// Level + Amplitude, for the whole test.
+	// Level + Amplitude (for KindMultiLevel, Level + Amplitude times a
+	// level of MultiLevel), for the whole test.
 	Signal []float64
 	// Sample is the sample interval (DesignSettings.Sample).
 	Sample float64
@@ -130,7 +141,8 @@ type Plan struct {
 	// sample interval for binary noise.
 	Clock float64
 	// Stages is the register length of a maximum-length sequence (its
-	// period is 2^Stages - 1 clock periods); 0 for binary noise.
+	// period is 2^Stages - 1 clock periods, q^Stages - 1 for q levels);
+	// 0 for binary noise.
 	Stages int
 	// Periods is the number of whole periods of the sequence in Signal;
 	// 0 for binary noise.
@@ -197,33 +209,8 @@ func Design(s DesignSettings) (*Plan, error) {
 		d.Clock = s.Sample
 		d.BandLow = 2 * math.Pi / (float64(n) * s.Sample)
 		d.Signal = scale(x, 1, s.Level, s.Amplitude)
-	} else {
-		hold := int(math.Floor(2 * halfPowerX / wHigh / s.Sample))
-		if hold < 1 {
-			hold = 1
-			d.Warnings = append(d.Warnings, "the sample interval "+fmtG(s.Sample)+" is longer than the clock period the band needs ("+fmtG(2*halfPowerX/wHigh)+"): the sequence excites only up to half the sampling frequency; sample faster")
-		}
-		d.Clock = float64(hold) * s.Sample
-		stages := MinStages
-		for ; stages <= MaxStages && float64(int(1)<<stages-1)*d.Clock < need; stages++ {
-		}
-		if stages > MaxStages {
-			return nil, &SettingError{Op: op, Setting: "DesignSettings.DeadTime", Value: fmtG(s.DeadTime),
-				Rule: "the slowest dynamics need " + fmtG(need) + ", more than the longest sequence (2^" + strconv.Itoa(MaxStages) + " - 1 clock periods of " + fmtG(d.Clock) + "): check the dead time and time constant"}
-		}
-		period := float64(int(1)<<stages-1) * d.Clock
-		if s.Budget < MinPeriods*period {
-			return nil, budgetError(op, s.Budget, strconv.Itoa(MinPeriods)+" periods of the "+strconv.Itoa(int(1)<<stages-1)+"-value sequence at clock "+fmtG(d.Clock)+", each covering "+fmtG(need)+", the time the slowest expected dynamics need", MinPeriods*period)
-		}
-		d.Stages = stages
-		d.Periods = int(s.Budget / period)
-		x, _ := MaxLength(stages)
-		d.Signal = scale(x, hold, s.Level, s.Amplitude)
-		for p := 1; p < d.Periods; p++ {
-			d.Signal = append(d.Signal, d.Signal[:len(x)*hold]...)
-		}
-		d.BandLow = 2 * math.Pi / period
-		d.BandHigh = heldHalfPower(hold, s.Sample)
+	} else if err := designSequence(op, s, d, wHigh, need); err != nil {
+		return nil, err
 	}
 	dev := make([]float64, len(d.Signal))
 	for i, v := range d.Signal {
@@ -279,3 +266,54 @@ func budgetError(op string, budget float64, what string, needed float64) error {
 }
 
 func fmtG(v float64) string { return strconv.FormatFloat(v, 'g', 5, 64) }
+
+// designSequence fills d with a held maximum-length sequence, binary or
+// of s.Levels levels, by the rules on DesignSettings: the clock from the
+// band's top, the shortest register whose period covers need, whole
+// periods within the budget.
+func designSequence(op string, s DesignSettings, d *Plan, wHigh, need float64) error {
+	q, lo, hi := 2, MinStages, MaxStages
+	if s.Signal == KindMultiLevel {
+		q = max(s.Levels, 3)
+		lo, hi = MinMultiStages, MaxMultiStages(q)
+	}
+	hold := int(math.Floor(2 * halfPowerX / wHigh / s.Sample))
+	if hold < 1 {
+		hold = 1
+		d.Warnings = append(d.Warnings, "the sample interval "+fmtG(s.Sample)+" is longer than the clock period the band needs ("+fmtG(2*halfPowerX/wHigh)+"): the sequence excites only up to half the sampling frequency; sample faster")
+	}
+	d.Clock = float64(hold) * s.Sample
+	length := func(n int) int { // q^n - 1
+		p := 1
+		for range n {
+			p *= q
+		}
+		return p - 1
+	}
+	stages := lo
+	for ; stages <= hi && float64(length(stages))*d.Clock < need; stages++ {
+	}
+	if stages > hi {
+		return &SettingError{Op: op, Setting: "DesignSettings.DeadTime", Value: fmtG(s.DeadTime),
+			Rule: "the slowest dynamics need " + fmtG(need) + ", more than the longest sequence (" + strconv.Itoa(q) + "^" + strconv.Itoa(hi) + " - 1 clock periods of " + fmtG(d.Clock) + "): check the dead time and time constant"}
+	}
+	period := float64(length(stages)) * d.Clock
+	if s.Budget < MinPeriods*period {
+		return budgetError(op, s.Budget, strconv.Itoa(MinPeriods)+" periods of the "+strconv.Itoa(length(stages))+"-value sequence at clock "+fmtG(d.Clock)+", each covering "+fmtG(need)+", the time the slowest expected dynamics need", MinPeriods*period)
+	}
+	d.Stages = stages
+	d.Periods = int(s.Budget / period)
+	var x []float64
+	if q == 2 {
+		x, _ = MaxLength(stages)
+	} else {
+		x, _ = MultiLevel(q, stages)
+	}
+	d.Signal = scale(x, hold, s.Level, s.Amplitude)
+	for p := 1; p < d.Periods; p++ {
+		d.Signal = append(d.Signal, d.Signal[:len(x)*hold]...)
+	}
+	d.BandLow = 2 * math.Pi / period
+	d.BandHigh = heldHalfPower(hold, s.Sample)
+	return nil
+}

@@ -2,11 +2,16 @@
 // moves a test applies to a valve or set point so that the data carry
 // enough information to identify a transfer-function model.
 //
-// Three families, all deterministic (a seed fixes every random choice):
+// Four families, all deterministic (a seed fixes every random choice):
 //
 //   - MaxLength: one period of a maximum-length binary sequence from a
 //     linear feedback shift register of 2 to 24 stages (period 2^n - 1,
 //     a flat power spectrum, a two-valued periodic autocorrelation).
+//   - MultiLevel: one period of a maximum-length sequence over GF(3),
+//     GF(5) or GF(7), with 3, 5 or 7 levels symmetric about zero (period
+//     q^n - 1, an inverse repeat, a known periodic autocorrelation), for
+//     tests that must show non-linearity, which a two-valued signal
+//     cannot.
 //   - BinaryNoise: generalised binary noise, a two-level signal that
 //     switches at each sample with a fixed probability (Tulleken 1990);
 //     SwitchProbability chooses the probability from the expected
