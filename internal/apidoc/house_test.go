@@ -27,6 +27,8 @@ var house = map[string][]string{
 	"tf":            {"arma", "ccf", "prewhiten", "internal/"},
 	"tf/record":     {"tf", "internal/errs"},
 	"tf/testsignal": {"internal/"},
+	"tf/monitor":    {"internal/"},
+	"tf/fleet":      {"internal/"},
 	"parse":         {"tf", "internal/errs"},
 	"examples/":     {"tf", "tf/", "arma", "ccf", "prewhiten", "parse", "examples/"},
 }
