@@ -96,9 +96,10 @@ type Thresholds struct {
 
 // pair is one watched (input, lag) pair of the correlation test.
 type pair struct {
-	input, lag int
-	off        int // input * ring, the start of the input's signs
-	up, down   float64
+	input    int
+	lag      int64
+	off      int // input * ring, the start of the input's signs
+	up, down float64
 }
 
 // Monitor watches a model's one-step prediction errors for drift. It is
@@ -119,7 +120,8 @@ type Monitor struct {
 	signs []float64 // ring of past input signs, input-major
 	mask  int64
 	ring  int
-	seen  []bool
+
+	started bool
 
 	n       int64
 	onAlarm func(Alarm)
@@ -148,7 +150,7 @@ func New(s *Settings) (*Monitor, error) {
 	maxLag := 0
 	for i, ls := range d.Lags {
 		for _, l := range ls {
-			m.pairs = append(m.pairs, pair{input: i, lag: l})
+			m.pairs = append(m.pairs, pair{input: i, lag: int64(l)})
 			maxLag = max(maxLag, l)
 		}
 	}
@@ -166,7 +168,6 @@ func New(s *Settings) (*Monitor, error) {
 	nin := len(d.Lags)
 	m.level = make([]float64, nin)
 	m.flip = make([]float64, nin)
-	m.seen = make([]bool, nin)
 	m.signs = make([]float64, nin*int(ring))
 	for i := range m.flip {
 		m.flip[i] = 1
@@ -200,31 +201,54 @@ func (m *Monitor) Samples() int64 { return m.n }
 // u of the wrong length is refused with a *SampleError or *SeriesError
 // and leaves the monitor as it was. Update does not allocate.
 func (m *Monitor) Update(stamp int64, e float64, u []float64) (int, error) {
+	if len(u) != len(m.level) || math.IsInf(e, 0) {
+		return 0, m.refuse(e, u)
+	}
+	for _, v := range u {
+		if !(math.Abs(v) <= MaxInput) {
+			return 0, m.refuse(e, u)
+		}
+	}
+	idx := m.n
+	m.n++
+	if len(u) > 0 {
+		m.record(idx, u)
+	}
+	if e != e {
+		return 0, nil
+	}
+	z := min(max(e*m.invSigma, -MaxError), MaxError)
+	mu := max(0, m.meanUp+z-m.t.MeanReference)
+	md := max(0, m.meanDown-z-m.t.MeanReference)
+	z2 := z * z
+	vu := max(0, m.varUp+z2-m.t.VarianceUpReference)
+	vd := max(0, m.varDown+m.t.VarianceDownReference-z2)
+	m.meanUp, m.meanDown, m.varUp, m.varDown = mu, md, vu, vd
+	fired := 0
+	if max(mu, md) > m.t.Mean {
+		fired += m.meanAlarm(idx, stamp)
+	}
+	if vu > m.t.VarianceUp || vd > m.t.VarianceDown {
+		fired += m.varianceAlarm(idx, stamp)
+	}
+	if len(m.pairs) > 0 {
+		fired += m.correlation(idx, stamp, z)
+	}
+	return fired, nil
+}
+
+// refuse returns the error for a sample Update refuses.
+func (m *Monitor) refuse(e float64, u []float64) error {
 	if len(u) != len(m.level) {
-		return 0, &SeriesError{Op: "monitor.Update", Series: "inputs", Kind: errs.ErrLength, Have: len(u), Need: len(m.level),
+		return &SeriesError{Op: "monitor.Update", Series: "inputs", Kind: errs.ErrLength, Have: len(u), Need: len(m.level),
 			Detail: "pass one value per entry of Settings.Lags"}
 	}
 	for i, v := range u {
 		if !(math.Abs(v) <= MaxInput) {
-			return 0, m.sampleError("input "+strconv.Itoa(i), v, MaxInput)
+			return m.sampleError("input "+strconv.Itoa(i), v, MaxInput)
 		}
 	}
-	if math.IsInf(e, 0) {
-		return 0, m.sampleError("error", e, 0)
-	}
-	idx := m.n
-	m.n++
-	m.record(idx, u)
-	if e != e {
-		return 0, nil
-	}
-	z := e * m.invSigma
-	if z > MaxError {
-		z = MaxError
-	} else if z < -MaxError {
-		z = -MaxError
-	}
-	return m.mean(idx, stamp, z) + m.variance(idx, stamp, z) + m.correlation(idx, stamp, z), nil
+	return m.sampleError("error", e, 0)
 }
 
 func (m *Monitor) sampleError(series string, v, limit float64) error {
@@ -237,36 +261,30 @@ func (m *Monitor) sampleError(series string, v, limit float64) error {
 // record stores the sign of each input's deviation from its running
 // level (before the level takes the sample in, so that the sign depends
 // on the input's past and present only) and updates the level. An input
-// equal to its level gets alternating signs.
+// equal to its level gets alternating signs. The first sample sets the
+// levels.
 func (m *Monitor) record(idx int64, u []float64) {
+	level, flip := m.level[:len(u)], m.flip[:len(u)]
+	if !m.started {
+		m.started = true
+		copy(level, u)
+	}
 	slot := int(idx & m.mask)
-	ring := m.ring
 	for i, v := range u {
-		if !m.seen[i] {
-			m.seen[i] = true
-			m.level[i] = v
+		d := v - level[i]
+		s := math.Copysign(1, d)
+		if d == 0 {
+			flip[i] = -flip[i]
+			s = flip[i]
 		}
-		d := v - m.level[i]
-		s := 1.0
-		if d < 0 {
-			s = -1
-		} else if d == 0 {
-			m.flip[i] = -m.flip[i]
-			s = m.flip[i]
-		}
-		m.signs[i*ring+slot] = s
-		m.level[i] += m.alpha * d
+		m.signs[i*m.ring+slot] = s
+		level[i] += m.alpha * d
 	}
 }
 
-func (m *Monitor) mean(idx, stamp int64, z float64) int {
-	k, h := m.t.MeanReference, m.t.Mean
-	m.meanUp = max(0, m.meanUp+z-k)
-	m.meanDown = max(0, m.meanDown-z-k)
-	if m.meanUp <= h && m.meanDown <= h {
-		return 0
-	}
-	a := Alarm{Kind: Mean, Direction: 1, Input: -1, Lag: -1, Index: idx, Stamp: stamp, Statistic: m.meanUp, Threshold: h}
+// meanAlarm raises the mean test's alarm and resets the test.
+func (m *Monitor) meanAlarm(idx, stamp int64) int {
+	a := Alarm{Kind: Mean, Direction: 1, Input: -1, Lag: -1, Index: idx, Stamp: stamp, Statistic: m.meanUp, Threshold: m.t.Mean}
 	if m.meanDown > m.meanUp {
 		a.Direction, a.Statistic = -1, m.meanDown
 	}
@@ -275,45 +293,45 @@ func (m *Monitor) mean(idx, stamp int64, z float64) int {
 	return 1
 }
 
-func (m *Monitor) variance(idx, stamp int64, z float64) int {
-	z2 := z * z
-	m.varUp = max(0, m.varUp+z2-m.t.VarianceUpReference)
-	m.varDown = max(0, m.varDown+m.t.VarianceDownReference-z2)
-	var a Alarm
-	switch {
-	case m.varUp > m.t.VarianceUp:
-		a = Alarm{Kind: Variance, Direction: 1, Statistic: m.varUp, Threshold: m.t.VarianceUp}
-	case m.varDown > m.t.VarianceDown:
-		a = Alarm{Kind: Variance, Direction: -1, Statistic: m.varDown, Threshold: m.t.VarianceDown}
-	default:
-		return 0
+// varianceAlarm raises the variance test's alarm and resets the test.
+func (m *Monitor) varianceAlarm(idx, stamp int64) int {
+	a := Alarm{Kind: Variance, Direction: 1, Input: -1, Lag: -1, Index: idx, Stamp: stamp, Statistic: m.varUp, Threshold: m.t.VarianceUp}
+	if !(m.varUp > m.t.VarianceUp) {
+		a.Direction, a.Statistic, a.Threshold = -1, m.varDown, m.t.VarianceDown
 	}
-	a.Input, a.Lag, a.Index, a.Stamp = -1, -1, idx, stamp
 	m.varUp, m.varDown = 0, 0
 	m.raise(a)
 	return 1
 }
 
+// correlation updates every watched pair with the signed error.
 func (m *Monitor) correlation(idx, stamp int64, z float64) int {
 	k, h := m.t.CorrelationReference, m.t.Correlation
+	signs, mask := m.signs, m.mask
 	fired := 0
 	for j := range m.pairs {
 		p := &m.pairs[j]
-		w := m.signs[p.off+int((idx-int64(p.lag))&m.mask)] * z
-		p.up = max(0, p.up+w-k)
-		p.down = max(0, p.down-w-k)
-		if p.up <= h && p.down <= h {
-			continue
+		w := signs[p.off+int((idx-p.lag)&mask)] * z
+		up := max(0, p.up+w-k)
+		down := max(0, p.down-w-k)
+		p.up, p.down = up, down
+		if max(up, down) > h {
+			fired += m.pairAlarm(p, idx, stamp)
 		}
-		a := Alarm{Kind: Correlation, Direction: 1, Input: p.input, Lag: p.lag, Index: idx, Stamp: stamp, Statistic: p.up, Threshold: h}
-		if p.down > p.up {
-			a.Direction, a.Statistic = -1, p.down
-		}
-		p.up, p.down = 0, 0
-		m.raise(a)
-		fired++
 	}
 	return fired
+}
+
+// pairAlarm raises the alarm of one pair of the correlation test and
+// resets the pair.
+func (m *Monitor) pairAlarm(p *pair, idx, stamp int64) int {
+	a := Alarm{Kind: Correlation, Direction: 1, Input: p.input, Lag: int(p.lag), Index: idx, Stamp: stamp, Statistic: p.up, Threshold: m.t.Correlation}
+	if p.down > p.up {
+		a.Direction, a.Statistic = -1, p.down
+	}
+	p.up, p.down = 0, 0
+	m.raise(a)
+	return 1
 }
 
 // raise delivers an alarm: the callback first, then a send that never
