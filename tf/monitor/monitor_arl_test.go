@@ -74,7 +74,7 @@ func TestInControlARL(t *testing.T) {
 		n      int
 		seed   uint64
 	}{{500, 1_500_000, 1}, {DefaultTargetARL, 20_000_000, 2}} {
-		if testing.Short() && c.target > 1000 {
+		if (testing.Short() || raceEnabled) && c.target > 1000 {
 			continue
 		}
 		var count [4]int

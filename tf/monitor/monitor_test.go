@@ -312,3 +312,15 @@ func BenchmarkUpdate(b *testing.B) {
 		})
 	}
 }
+
+// The memory of one monitor (B/op): the default settings and one input
+// watched at three lags (the variance thresholds come from the cache
+// after the first call).
+func BenchmarkNew(b *testing.B) {
+	s := &Settings{Lags: [][]int{{3, 4, 5}}}
+	mustNew(b, s)
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		mustNew(b, s)
+	}
+}
