@@ -70,3 +70,37 @@ func FuzzMonitor(f *testing.F) {
 		}
 	})
 }
+
+// FuzzSnapshot: any bytes restored into a monitor watching two inputs
+// are either refused with a *ModelError matching ErrFormat (the monitor
+// unchanged) or give a state whose statistics stay finite and not
+// negative over the samples that follow; never a panic.
+func FuzzSnapshot(f *testing.F) {
+	m := mustNew(f, &Settings{Lags: [][]int{{1, 3}, {2}}})
+	for i := 0; i < 50; i++ {
+		m.Update(int64(i), float64(i%5)-2, []float64{float64(i % 3), float64(i % 4)})
+	}
+	snap, _ := m.MarshalBinary()
+	f.Add(snap)
+	f.Add(snap[:len(snap)/2])
+	f.Fuzz(func(t *testing.T, data []byte) {
+		m := mustNew(t, &Settings{Lags: [][]int{{1, 3}, {2}}})
+		if err := m.UnmarshalBinary(data); err != nil {
+			if !errors.Is(err, ErrFormat) || m.Samples() != 0 {
+				t.Fatalf("refused with %v, samples %d", err, m.Samples())
+			}
+			return
+		}
+		for i := 0; i < 20; i++ {
+			if _, err := m.Update(int64(i), 3, []float64{float64(i), -float64(i)}); err != nil {
+				t.Fatal(err)
+			}
+			st := m.Status()
+			for _, v := range append(append([]float64{st.MeanUp, st.MeanDown, st.VarianceUp, st.VarianceDown}, st.CorrelationUp...), st.CorrelationDown...) {
+				if !(v >= 0) || math.IsInf(v, 0) {
+					t.Fatalf("restored state gives statistic %v", v)
+				}
+			}
+		}
+	})
+}
