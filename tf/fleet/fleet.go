@@ -93,42 +93,23 @@ func Run[T any](ctx context.Context, loops int, job func(ctx context.Context, lo
 	if workers == 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = max(1, min(workers, loops))
 	out := make([]Result[T], loops)
 	if loops == 0 {
 		return out, ctx.Err()
 	}
-	next := make(chan int)
-	done := make(chan int, workers)
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for loop := range next {
-				out[loop] = runOne(ctx, loop, job)
-				done <- loop
-			}
-		}()
-	}
 	p := Progress{Total: loops}
-	report := func(loop int) {
-		p.Loop, p.Err = loop, out[loop].Err
-		p.Done++
-		if p.Err != nil {
-			p.Failed++
-		}
-		if d.OnProgress != nil {
-			d.OnProgress(p)
-		}
-	}
-	started := feed(ctx, next, done, loops, report)
-	close(next)
-	// Drain the loops still running after the feed stopped.
-	go func() { wg.Wait(); close(done) }()
-	for loop := range done {
-		report(loop)
-	}
+	started := pool(ctx, loops, max(1, min(workers, loops)),
+		func(loop int) { out[loop] = runOne(ctx, loop, job) },
+		func(loop int) {
+			p.Loop, p.Err = loop, out[loop].Err
+			p.Done++
+			if p.Err != nil {
+				p.Failed++
+			}
+			if d.OnProgress != nil {
+				d.OnProgress(p)
+			}
+		})
 	if started < loops {
 		err := ctx.Err()
 		for i := started; i < loops; i++ {
@@ -137,6 +118,35 @@ func Run[T any](ctx context.Context, loops int, job func(ctx context.Context, lo
 		return out, fmt.Errorf("%s: stopped after starting %d of %d loops: %w", op, started, loops, err)
 	}
 	return out, nil
+}
+
+// pool runs run(loop) for the loops in [0, loops) on the given number of
+// goroutines, in order, until all are started or ctx is done; it calls
+// finished(loop) on the calling goroutine as each loop ends (after run's
+// writes, through a channel), waits for every goroutine, and returns the
+// number of loops started.
+func pool(ctx context.Context, loops, workers int, run, finished func(int)) int {
+	next := make(chan int)
+	done := make(chan int, workers)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for loop := range next {
+				run(loop)
+				done <- loop
+			}
+		}()
+	}
+	started := feed(ctx, next, done, loops, finished)
+	close(next)
+	// Drain the loops still running after the feed stopped.
+	go func() { wg.Wait(); close(done) }()
+	for loop := range done {
+		finished(loop)
+	}
+	return started
 }
 
 // feed hands the loops to the workers in order until all are handed out

@@ -26,6 +26,11 @@
 //     distribution (z_t is independent of the past, and s_{t-k} is a
 //     function of it), so the thresholds of the mean test apply.
 //
+// The tests overlap: a shift of the mean also raises z_t^2, and any
+// unmodelled part of the output (a gain change included) raises the
+// variance of w_t at every lag, so several tests may alarm for one
+// change; the test and the lag with the earliest alarm point to it.
+//
 // A test that alarms starts again from zero (both its sides; for the
 // correlation test, the pair that alarmed); the other tests go on.
 //
