@@ -80,7 +80,11 @@ def main():
     kdn = math.log(r) / (r - 1)
     for up, k, h, ratio in [(True, kup, 6, 1), (True, kup, 6, 2), (True, kup, 12, 1),
                             (True, kup, 12, 2), (False, kdn, 4, 1), (False, kdn, 4, 0.5),
-                            (False, kdn, 8, 1), (False, kdn, 8, 0.5)]:
+                            (False, kdn, 8, 1), (False, kdn, 8, 0.5),
+                            # the thresholds of the default settings (ratio 2,
+                            # each side at twice the target of 10080 samples)
+                            (True, kup, 27.4, 1), (True, kup, 27.4, 2),
+                            (False, kdn, 14.6, 1), (False, kdn, 14.6, 0.5)]:
         a = variance_arl(k, h, ratio, up, 3000)
         b = variance_arl(k, h, ratio, up, 1500)
         out["variance"].append({"up": up, "k": k, "h": h, "ratio": ratio,

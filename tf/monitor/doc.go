@@ -45,7 +45,7 @@
 // 2 P times the target. The variance test's squared errors are far from
 // normal, so its thresholds come from the Markov chain of Brook and
 // Evans (1972) with the exact distribution of z_t^2 (200 states,
-// checked against a 3000-state chain to 0.1 %).
+// checked against a 3000-state chain to 1 %).
 //
 // Measured by seeded simulation (monitor_arl_test.go; the standard
 // error of each figure is 0.5 to 2.5 %): at the default target of 10080
