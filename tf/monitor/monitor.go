@@ -202,7 +202,8 @@ func (m *Monitor) Samples() int64 { return m.n }
 //
 // An infinite e, an input that is not finite or beyond MaxInput, or a
 // u of the wrong length is refused with a *SampleError or *SeriesError
-// and leaves the monitor as it was. Update does not allocate.
+// and leaves the monitor as it was. Update does not allocate (only a
+// refused sample allocates its error).
 func (m *Monitor) Update(stamp int64, e float64, u []float64) (int, error) {
 	if len(u) != len(m.level) || math.IsInf(e, 0) {
 		return 0, m.refuse(e, u)
