@@ -28,8 +28,8 @@ const overshoot = 1.166
 // float64 and NaN for a NaN argument.
 //
 // References: Siegmund, D. (1985), Sequential Analysis: Tests and
-// Confidence Intervals, Springer, chapter X (the corrected diffusion
-// approximation); Page, E. S. (1954), Continuous inspection schemes,
+// Confidence Intervals, Springer, the chapter on corrected Brownian
+// approximations (chapter X, from memory); Page, E. S. (1954), Continuous inspection schemes,
 // Biometrika 41:100-115.
 func CusumARL(k, h, mean float64) float64 {
 	d := mean - k
