@@ -29,8 +29,8 @@ const overshoot = 1.166
 //
 // References: Siegmund, D. (1985), Sequential Analysis: Tests and
 // Confidence Intervals, Springer, the chapter on corrected Brownian
-// approximations (chapter X, from memory); Page, E. S. (1954), Continuous inspection schemes,
-// Biometrika 41:100-115.
+// approximations (chapter X, from memory); Page, E. S. (1954),
+// Continuous inspection schemes, Biometrika 41:100-115.
 func CusumARL(k, h, mean float64) float64 {
 	d := mean - k
 	b := h + overshoot
