@@ -31,6 +31,8 @@ var house = map[string][]string{
 	"tf/testsignal": {"internal/"},
 	"tf/control":    {"tf", "internal/"},
 	"tf/statespace": {"tf", "arma", "internal/"},
+	"tf/monitor":    {"internal/"},
+	"tf/fleet":      {"internal/"},
 	"parse":         {"tf", "internal/errs"},
 	"examples/":     {"tf", "tf/", "arma", "ccf", "prewhiten", "parse", "examples/"},
 }
