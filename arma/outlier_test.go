@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -344,5 +345,39 @@ func TestOutliersBadInput(t *testing.T) {
 	}
 	if _, err := Outliers(good, Noise{}, Poly{}, nil); err != nil {
 		t.Errorf("good input: %v", err)
+	}
+}
+
+// BenchmarkOutliers times the whole search (passes, joint stage) on
+// ARMA(1,1) noise (phi = 0.7, theta = 0.6, so the TC pattern needs about
+// 65 lags and the FFT path is taken) with five planted additive
+// outliers of 10 innovation sd.
+func BenchmarkOutliers(b *testing.B) {
+	for _, n := range []int{1000, 10000, 100000} {
+		rng := rand.New(rand.NewPCG(9, 9))
+		y := simNoise(rng, false, 0.6, n) // MA(1) part, then the AR(1) filter
+		for t := 1; t < n; t++ {
+			y[t] += 0.7 * y[t-1]
+		}
+		for k := 1; k <= 5; k++ {
+			y[k*n/6] += 10
+		}
+		e := make([]float64, n)
+		for t := range y {
+			e[t] = y[t]
+			if t > 0 {
+				e[t] += -0.7*y[t-1] + 0.6*e[t-1]
+			}
+		}
+		noise := Noise{AR: sym.FromCoeffs([]float64{1, -0.7}), MA: sym.FromCoeffs([]float64{1, -0.6})}
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				r, err := Outliers(e, noise, Poly{}, nil)
+				if err != nil || len(r.Outliers) < 5 {
+					b.Fatalf("%d outliers found of 5 planted, %v", len(r.Outliers), err)
+				}
+			}
+		})
 	}
 }
