@@ -488,3 +488,57 @@ func (m Model) EventData(n int, start time.Time, iv Interval) (map[string][]floa
 	}
 	return out, nil
 }
+
+// WithOutliers returns a copy of m (sharing nothing with it) with the
+// outliers found in its residuals by arma.Outliers added as event
+// inputs, so that a refit estimates their sizes jointly with the model
+// (the second stage of Chen & Liu 1993), each gain free and starting at
+// the size found, named by kind and sample:
+//
+//	additive          ao120 pulse(120)
+//	level shift       ls120 step(120)
+//	temporary change  tc120 / (1 - 0.7 B) pulse(120)   the decay held at decay
+//
+// An innovational outlier is a shock of the noise model, not an input
+// term: it is left out and returned in skipped. A *ModelError reports a
+// name or an event the model already has, and a decay of a temporary
+// change outside (0, 1).
+func (m Model) WithOutliers(outs []arma.Outlier, decay float64) (_ Model, skipped []arma.Outlier, err error) {
+	out := m.Clone()
+	used := map[string]bool{}
+	for _, c := range m.Params() {
+		used[c.Name] = true
+	}
+	for _, in := range m.Inputs {
+		used[in.Series] = true
+	}
+	for _, o := range outs {
+		var in Input
+		switch o.Kind {
+		case arma.Additive, arma.TemporaryChange:
+			in.Event = &Event{Kind: Pulse, Index: o.Index}
+		case arma.LevelShift:
+			in.Event = &Event{Kind: Step, Index: o.Index}
+		default:
+			skipped = append(skipped, o)
+			continue
+		}
+		name := map[arma.OutlierKind]string{arma.Additive: "ao", arma.LevelShift: "ls", arma.TemporaryChange: "tc"}[o.Kind] + strconv.Itoa(o.Index)
+		in.Series = in.Event.String()
+		if used[name] || used[in.Series] {
+			return Model{}, nil, withOp("tf.Model.WithOutliers", &ModelError{Part: "outlier " + name + " " + in.Series,
+				Problem: "the model already has this name or event; drop the outlier or rename the model's coefficient"})
+		}
+		used[name], used[in.Series] = true, true
+		in.Num = Poly{Factors: []Factor{{Exp: 1, Terms: []Term{{Coef: Coef{Name: name, Free: true, Value: o.Size}}}}}}
+		if o.Kind == arma.TemporaryChange {
+			if !(decay > 0 && decay < 1) {
+				return Model{}, nil, withOp("tf.Model.WithOutliers", &ModelError{Part: "outlier " + name,
+					Problem: "decay " + strconv.FormatFloat(decay, 'g', -1, 64) + " of a temporary change must lie strictly between 0 and 1 (use the OutlierReport's Decay)"})
+			}
+			in.Den = Poly{Factors: []Factor{{Exp: 1, Terms: []Term{{Coef: Coef{Value: 1}}, {Neg: true, Power: 1, Coef: Coef{Value: decay}}}}}}
+		}
+		out.Inputs = append(out.Inputs, in)
+	}
+	return out, skipped, nil
+}
