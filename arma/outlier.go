@@ -79,7 +79,9 @@ type OutlierSettings struct {
 	// median absolute deviation from the median times 1.4826 (the
 	// factor that makes it consistent for a normal distribution), or,
 	// when more than half the residuals are equal and the MAD is zero,
-	// the root mean square.
+	// the root mean square. Either way the scale is at least 1e-12 times
+	// the root mean square of all the residuals, so that t stays finite
+	// when the residuals besides the outliers vanish.
 	Sigma float64
 	// MaxCount bounds the number of outliers found; 0 means n/10, at
 	// least 1 and at most 50.

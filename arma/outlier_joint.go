@@ -26,10 +26,7 @@ func (sc *scanner) joint(fs []found, crit, sigma float64) ([]Outlier, []float64,
 			continue
 		}
 		adj := sc.adjusted(fs, w)
-		s := sigma
-		if s == 0 {
-			s = robustScale(adj, sc.mask, sc.buf)
-		}
+		s := sc.scale(adj, sigma)
 		if !(s > 0) {
 			return nil, nil, 0, &SeriesError{Series: "residuals", Kind: ErrConstant, Detail: "the residuals less the outliers' effects are all zero, so there is no scale for the t-statistics"}
 		}

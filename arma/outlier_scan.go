@@ -57,6 +57,7 @@ type scanner struct {
 	mask  []float64 // 1 where a residual is present, 0 where missing
 	pats  []kindPattern
 	trunc int
+	floor float64 // the smallest scale used (see scale)
 	fft   *fourier.FFT
 	pad   []float64
 	spec  []complex128
@@ -74,6 +75,11 @@ func newScanner(resid, pi []float64, kinds []OutlierKind, decay float64) *scanne
 		}
 	}
 	sc.cur = append([]float64(nil), sc.orig...)
+	ss := 0.0
+	for _, v := range sc.orig {
+		ss += v * v
+	}
+	sc.floor = scaleFloor * math.Sqrt(ss/float64(n))
 	pi = pi[:min(len(pi), n)]
 	for _, k := range kinds {
 		g, tail := pattern(k, pi, decay, n)
@@ -267,10 +273,7 @@ func (sc *scanner) search(crit, sigma float64, maxCount int, passes *int) ([]fou
 	var out []found
 	for len(out) < maxCount {
 		*passes++
-		s := sigma
-		if s == 0 {
-			s = robustScale(sc.cur, sc.mask, sc.buf)
-		}
+		s := sc.scale(sc.cur, sigma)
 		if !(s > 0) {
 			return nil, &SeriesError{Series: "residuals", Kind: ErrConstant, Detail: "every residual present is zero, so there is no scale for the t-statistics"}
 		}
@@ -283,6 +286,21 @@ func (sc *scanner) search(crit, sigma float64, maxCount int, passes *int) ([]fou
 		sc.remove(sc.cur, b.T, b.pat, b.size)
 	}
 	return out, nil
+}
+
+// scaleFloor bounds the scale of the t-statistics from below, relative
+// to the root mean square of the residuals, so that t stays finite when
+// the residuals besides the outliers (nearly) vanish.
+const scaleFloor = 1e-12
+
+// scale returns sigma, or the robust scale of the present values of e
+// when sigma is 0, at least sc.floor.
+func (sc *scanner) scale(e []float64, sigma float64) float64 {
+	s := sigma
+	if s == 0 {
+		s = robustScale(e, sc.mask, sc.buf)
+	}
+	return math.Max(s, sc.floor)
 }
 
 // remove subtracts w times the residual pattern of an outlier at T from

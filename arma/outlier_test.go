@@ -381,3 +381,54 @@ func BenchmarkOutliers(b *testing.B) {
 		})
 	}
 }
+
+// FuzzOutliers: a short residual series with hostile values (NaN gaps,
+// +-Inf, 1e300, constant runs) and a random ARMA(1,1) noise with
+// differencing gives a typed error or a report whose sizes, t-statistics
+// and adjusted residuals are finite (NaN only where the residuals are),
+// never a panic; the residuals are not modified.
+func FuzzOutliers(f *testing.F) {
+	f.Add([]byte{10, 3, 10, 40, 10, 250, 10, 7, 10, 100, 10, 33, 10, 1, 10, 200, 10, 9, 10, 90, 10, 5, 10, 77}, int8(50), int8(-30), false)
+	f.Add([]byte{5, 0, 5, 0, 5, 0, 5, 0, 5, 0, 5, 0, 0, 0, 10, 200, 10, 1, 10, 2, 10, 3, 10, 4}, int8(0), int8(0), true)
+	f.Add([]byte{10, 3, 0, 40, 10, 250, 3, 7, 10, 100, 10, 33, 10, 3, 10, 4, 10, 5, 10, 6}, int8(127), int8(-128), true)
+	f.Fuzz(func(t *testing.T, data []byte, ar, ma int8, diff bool) {
+		e := fuzzSeries(data)
+		keep := append([]float64(nil), e...)
+		noise := Noise{AR: sym.FromCoeffs([]float64{1, float64(ar) / 100}), MA: sym.FromCoeffs([]float64{1, float64(ma) / 100})}
+		var d Poly
+		if diff {
+			d = sym.FromCoeffs([]float64{1, -1})
+		}
+		r, err := Outliers(e, noise, d, &OutlierSettings{MaxCount: 5})
+		for i := range e {
+			if e[i] != keep[i] && !(math.IsNaN(e[i]) && math.IsNaN(keep[i])) {
+				t.Fatalf("residuals modified at %d", i)
+			}
+		}
+		if err != nil {
+			for _, k := range []error{ErrModel, ErrSample, ErrShort, ErrConstant, ErrSetting} {
+				if errors.Is(err, k) {
+					return
+				}
+			}
+			t.Fatalf("untyped error %T: %v", err, err)
+		}
+		for _, o := range r.Outliers {
+			if math.IsNaN(o.Size) || math.IsInf(o.Size, 0) || math.IsNaN(o.T) || math.IsInf(o.T, 0) {
+				t.Fatalf("outlier %+v not finite", o)
+			}
+		}
+		for i, v := range r.Adjusted {
+			if math.IsNaN(v) != math.IsNaN(e[i]) || math.IsInf(v, 0) {
+				t.Fatalf("adjusted residual %d = %v (residual %v)", i, v, e[i])
+			}
+		}
+		for k := range r.Outliers {
+			for _, v := range r.Effect(k) {
+				if math.IsNaN(v) || math.IsInf(v, 0) {
+					t.Fatalf("effect of %+v not finite", r.Outliers[k])
+				}
+			}
+		}
+	})
+}
