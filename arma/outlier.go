@@ -254,6 +254,17 @@ func (r *OutlierReport) Effects() []float64 {
 // the one with the smallest |t| below the critical value is dropped, and
 // so on until every |t| is above it.
 //
+// Gaps and ends: a time whose residual is missing is not tested (the
+// record holds no direct evidence there), and every sum runs over the
+// residuals present only, so a gap shortens an outlier's evidence
+// instead of being filled. Outliers within OutlierSettings.Edge samples
+// of a gap or of either end are marked (Outlier.NearGap, AtStart,
+// AtEnd): near the end a level shift, a temporary change and an additive
+// outlier differ in only a few residuals, and the kind reported is the
+// one with the largest |t|. The residual patterns are cut where every
+// later value is below 1e-10 times the largest (OutlierReport.Trunc),
+// at most n lags.
+//
 // The MA polynomial must be invertible (pi weights that die out): a
 // *ModelError otherwise. Errors: a *SettingError for bad settings, a
 // *SampleError for an infinite residual, a *SeriesError when fewer than
