@@ -368,7 +368,11 @@ func (in Input) validateEvent(i int) error {
 // first that can show the event). For a clock unit the count is exact
 // in nanoseconds; for a calendar unit (mo, qtr, yr, a whole number of
 // months per sample) samples are start plus whole months
-// (time.Time.AddDate). The result is negative for a time before start.
+// (time.Time.AddDate). A time within a millionth of an interval of a
+// sample (1 ms for a calendar unit) counts as that sample, so that a
+// start time rounded in floating point (tf/record keeps times as
+// float64 seconds) does not move an event by one sample. The result is
+// negative for a time before start.
 // A *ModelError reports a timestamp without a start time or interval, an
 // interval that is not a whole number of nanoseconds or months, and a
 // sample beyond MaxEventIndex.
@@ -403,20 +407,26 @@ func (e Event) Sample(start time.Time, iv Interval) (int, error) {
 	if k > MaxEventIndex || k < -MaxEventIndex {
 		return 0, &ModelError{Part: part, Problem: "lies more than " + strconv.Itoa(MaxEventIndex) + " samples from the record's start"}
 	}
-	for start.AddDate(0, k*m, 0).Before(e.At) {
+	before := func(k int) bool { return start.AddDate(0, k*m, 0).Add(time.Millisecond).Before(e.At) }
+	for before(k) {
 		k++
 	}
-	for !start.AddDate(0, (k-1)*m, 0).Before(e.At) {
+	for !before(k - 1) {
 		k--
 	}
 	return k, nil
 }
 
-// eventCount returns ceil(d / step) within MaxEventIndex.
+// eventCount returns ceil(d / step), d within step/10^6 (at least 1 ns)
+// of a multiple of step counting as that multiple, within MaxEventIndex.
 func eventCount(d, step int64, part string) (int, error) {
-	q := d / step
-	if d%step != 0 && d > 0 {
+	tol := max(step/1_000_000, 1)
+	q, r := d/step, d%step
+	switch {
+	case r > tol:
 		q++
+	case r < 0 && -r > step-tol:
+		q--
 	}
 	if q > MaxEventIndex || q < -MaxEventIndex {
 		return 0, &ModelError{Part: part, Problem: "lies more than " + strconv.Itoa(MaxEventIndex) + " samples from the record's start"}

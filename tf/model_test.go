@@ -42,6 +42,14 @@ func TestEventSample(t *testing.T) {
 		{time.Date(2019, 12, 1, 0, 0, 0, 0, time.UTC), jan, tf.Interval{Value: 1, Unit: "qtr"}, 0},
 		{time.Date(2019, 10, 1, 0, 0, 0, 0, time.UTC), jan, tf.Interval{Value: 1, Unit: "qtr"}, -1},
 		{time.Date(2030, 1, 1, 0, 0, 0, 0, time.UTC), jan, tf.Interval{Value: 1, Unit: "yr"}, 10},
+		// A start a few microseconds off (float64 seconds since 1970)
+		// keeps an event on its sample: within 30 us of 30 s.
+		{eight, day.Add(5 * time.Microsecond), tf.Interval{Value: 30, Unit: "s"}, 960},
+		{eight, day.Add(-5 * time.Microsecond), tf.Interval{Value: 30, Unit: "s"}, 960},
+		{eight.Add(-10 * time.Second), eight.Add(5 * time.Microsecond), tf.Interval{Value: 30, Unit: "s"}, 0},
+		{eight.Add(-30 * time.Second), eight.Add(5 * time.Microsecond), tf.Interval{Value: 30, Unit: "s"}, -1},
+		{time.Date(2020, 7, 1, 0, 0, 0, 0, time.UTC), jan.Add(time.Microsecond), tf.Interval{Value: 1, Unit: "mo"}, 6},
+		{time.Date(2020, 7, 1, 0, 0, 0, 0, time.UTC), jan.Add(-time.Microsecond), tf.Interval{Value: 1, Unit: "mo"}, 6},
 	}
 	for _, c := range cases {
 		e := tf.Event{Kind: tf.Step, At: c.at}
