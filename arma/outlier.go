@@ -65,11 +65,19 @@ type OutlierSettings struct {
 	// value through a Bonferroni bound over the m K tests (m times with
 	// a residual, K kinds), each two-sided:
 	//
-	//	C = z(1 - Rate / (2 m K)),   z the standard normal quantile
+	//	C = q(1 - Rate / (2 m K))
 	//
 	// so that the chance of any false detection on a clean series is at
-	// most Rate (up to the error of the scale estimate): C = 4.00 for
-	// n = 200 and 4.37 for n = 1000 with four kinds.
+	// most Rate. q is the quantile of Student's t with 0.37 m degrees of
+	// freedom when the scale is estimated (Sigma 0), of the standard
+	// normal when Sigma is given: the MAD estimates sigma about as well
+	// as the standard deviation of 0.37 m normal samples (its asymptotic
+	// efficiency, 37 %: Rousseeuw & Croux 1993, JASA 88, 1273-1283), and
+	// with the normal quantile the error of the scale estimate lifts the
+	// rate of false detections above Rate on short records (5.5 to 7.7 % at
+	// n = 200 in this package's Monte Carlo tests). With four kinds C is
+	// 4.25 for n = 200 and 4.43 for n = 1000 (4.00 and 4.37 with Sigma
+	// given).
 	Rate float64
 	// Critical, when positive, is the critical value of |t| itself and
 	// Rate is not used; 0 means the Bonferroni value above.
@@ -341,7 +349,7 @@ func outliers(op string, resid, pi []float64, psiNum, psiDen []float64, s *Outli
 	r := &OutlierReport{Rate: set.rate, Critical: set.crit, Tests: present * len(set.kinds), Decay: set.decay,
 		Robust: set.sigma == 0, Trunc: sc.trunc, n: len(resid), psiNum: psiNum, psiDen: psiDen}
 	if r.Critical == 0 {
-		r.Critical = distuv.UnitNormal.Quantile(1 - set.rate/(2*float64(r.Tests)))
+		r.Critical = critical(set.rate, r.Tests, present, set.sigma == 0)
 	}
 	found, err := sc.search(r.Critical, set.sigma, set.maxCount, &r.Passes)
 	if err != nil {
@@ -354,6 +362,21 @@ func outliers(op string, resid, pi []float64, psiNum, psiDen []float64, s *Outli
 	sc.mark(r.Outliers, set.edge)
 	return r, nil
 }
+
+// critical returns the Bonferroni critical value of OutlierSettings.Rate
+// for tests two-sided tests on m residuals, with a robust scale or a
+// known one.
+func critical(rate float64, tests, m int, robust bool) float64 {
+	p := 1 - rate/(2*float64(tests))
+	if robust {
+		return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: madEfficiency * float64(m)}.Quantile(p)
+	}
+	return distuv.UnitNormal.Quantile(p)
+}
+
+// madEfficiency is the asymptotic efficiency of the MAD as an estimate
+// of a normal standard deviation (Rousseeuw & Croux 1993, sec. 1: 37 %).
+const madEfficiency = 0.37
 
 // outlierSet is OutlierSettings with the defaults filled in.
 type outlierSet struct {

@@ -34,7 +34,7 @@ func ExampleOutliers() {
 	clean := r.Effects()
 	fmt.Printf("y[250] %.2f, less the outliers %.2f\n", y[250], y[250]-clean[250])
 	// Output:
-	// critical |t| 4.10 over 1196 tests
+	// critical |t| 4.27 over 1196 tests
 	// 80 additive: size 7.1, t 7.6
 	// 200 level shift: size -4.9, t -18.3
 	// y[250] -2.79, less the outliers 2.06

@@ -9,7 +9,6 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/sym"
-	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // ar1Noise and ma1Noise are the noise models phi(B) = 1 - phi B and
@@ -205,7 +204,7 @@ func TestOutliersPlanted(t *testing.T) {
 			t.Errorf("%+v marked", o)
 		}
 	}
-	if r.Critical < 4 || r.Critical > 4.5 || r.Tests != 4*(n-1) || !r.Robust {
+	if r.Critical < 4.2 || r.Critical > 4.6 || r.Tests != 4*(n-1) || !r.Robust {
 		t.Errorf("critical %v tests %d robust %v", r.Critical, r.Tests, r.Robust)
 	}
 	// The adjusted residuals carry no outlier: a second search finds none.
@@ -216,25 +215,31 @@ func TestOutliersPlanted(t *testing.T) {
 }
 
 // TestOutliersCritical checks the critical value against the Bonferroni
-// bound of OutlierSettings.Rate, z(1 - 0.05/(2 m K)), with the quantile
-// of gonum's distuv.Normal, and that against scipy 1.10.1
-// (scipy.stats.norm.isf(0.05/1600) = 4.0031675714504615 and
-// norm.isf(0.05/8000) = 4.368679592974323, run once by hand with
-// /usr/bin/python3): m = 200 and 1000 residuals, K = 4 kinds. The
-// tolerance 1e-9 covers two implementations of the normal quantile.
+// bound of OutlierSettings.Rate, q(1 - 0.05/(2 m K)), for m = 200 and
+// 1000 residuals and K = 4 kinds: with the robust scale q is Student's t
+// with 0.37 m degrees of freedom, with Sigma given the standard normal.
+// The values are scipy 1.10.1's (scipy.stats.t.isf(0.05/1600, 74) =
+// 4.2456382645560495, t.isf(0.05/8000, 370) = 4.4286820334973,
+// norm.isf(0.05/1600) = 4.0031675714504615, norm.isf(0.05/8000) =
+// 4.368679592974323; run once by hand with /usr/bin/python3); the
+// tolerance 1e-6 covers two implementations of the t quantile (gonum
+// inverts the regularised incomplete beta function).
 func TestOutliersCritical(t *testing.T) {
 	for _, c := range []struct {
-		n    int
-		want float64
-	}{{200, 4.0031675714504615}, {1000, 4.368679592974323}} {
+		n       int
+		sigma   float64
+		want    float64
+		tests   int
+		present int
+	}{{200, 0, 4.2456382645560495, 800, 200}, {1000, 0, 4.4286820334973, 4000, 1000},
+		{200, 1, 4.0031675714504615, 800, 200}, {1000, 1, 4.368679592974323, 4000, 1000}} {
 		e := simNoise(rand.New(rand.NewPCG(1, 1)), false, 0, c.n)
-		r, err := Outliers(e, Noise{}, Poly{}, nil)
+		r, err := Outliers(e, Noise{}, Poly{}, &OutlierSettings{Sigma: c.sigma})
 		if err != nil {
 			t.Fatal(err)
 		}
-		z := distuv.UnitNormal.Quantile(1 - 0.05/(2*4*float64(c.n)))
-		if r.Critical != z || math.Abs(z-c.want) > 1e-9 {
-			t.Errorf("n = %d: critical %v, formula %v, want about %v", c.n, r.Critical, z, c.want)
+		if r.Tests != c.tests || math.Abs(r.Critical-c.want) > 1e-6 || r.Robust != (c.sigma == 0) {
+			t.Errorf("n = %d, sigma %v: critical %.12g over %d tests, want %.12g over %d", c.n, c.sigma, r.Critical, r.Tests, c.want, c.tests)
 		}
 	}
 }
