@@ -368,10 +368,24 @@ func outliers(op string, resid, pi []float64, psiNum, psiDen []float64, s *Outli
 // known one.
 func critical(rate float64, tests, m int, robust bool) float64 {
 	p := 1 - rate/(2*float64(tests))
-	if robust {
-		return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: madEfficiency * float64(m)}.Quantile(p)
+	z := distuv.UnitNormal.Quantile(p)
+	nu := madEfficiency * float64(m)
+	switch {
+	case !robust:
+		return z
+	case nu <= 2000:
+		return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: nu}.Quantile(p)
 	}
-	return distuv.UnitNormal.Quantile(p)
+	// gonum's t quantile fails for many degrees of freedom (49.7 instead
+	// of 5.29 at 37000); there the Cornish-Fisher expansion of the t
+	// quantile about the normal one (Abramowitz & Stegun 26.7.5) is
+	// exact to about 1e-9 (its next term is of order z^11 / nu^5).
+	z2 := z * z
+	g1 := (z2 + 1) * z / 4
+	g2 := ((5*z2+16)*z2 + 3) * z / 96
+	g3 := (((3*z2+19)*z2+17)*z2 - 15) * z / 384
+	g4 := ((((79*z2+776)*z2+1482)*z2-1920)*z2 - 945) * z / 92160
+	return z + g1/nu + g2/(nu*nu) + g3/(nu*nu*nu) + g4/(nu*nu*nu*nu)
 }
 
 // madEfficiency is the asymptotic efficiency of the MAD as an estimate

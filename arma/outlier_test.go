@@ -223,8 +223,20 @@ func TestOutliersPlanted(t *testing.T) {
 // norm.isf(0.05/1600) = 4.0031675714504615, norm.isf(0.05/8000) =
 // 4.368679592974323; run once by hand with /usr/bin/python3); the
 // tolerance 1e-6 covers two implementations of the t quantile (gonum
-// inverts the regularised incomplete beta function).
+// inverts the regularised incomplete beta function). Beyond 2000
+// degrees of freedom the Cornish-Fisher expansion takes over; it is
+// checked at m = 10^4, 10^5 and 10^6 against scipy's t.isf(0.05/(8 m),
+// 0.37 m) = 4.855578719335994, 5.287063009393584, 5.692891286721281, to
+// 1e-8.
 func TestOutliersCritical(t *testing.T) {
+	for _, c := range []struct {
+		m    int
+		want float64
+	}{{10000, 4.855578719335994}, {100000, 5.287063009393584}, {1000000, 5.692891286721281}} {
+		if got := critical(0.05, 4*c.m, c.m, true); math.Abs(got-c.want) > 1e-8 {
+			t.Errorf("m = %d: critical %.12g, scipy %.12g", c.m, got, c.want)
+		}
+	}
 	for _, c := range []struct {
 		n       int
 		sigma   float64
