@@ -367,14 +367,16 @@ func outliers(op string, resid, pi []float64, psiNum, psiDen []float64, s *Outli
 // for tests two-sided tests on m residuals, with a robust scale or a
 // known one.
 func critical(rate float64, tests, m int, robust bool) float64 {
-	p := 1 - rate/(2*float64(tests))
-	z := distuv.UnitNormal.Quantile(p)
+	// The upper quantile as minus the lower one: 1 - p would lose the
+	// digits of a tail probability of 1e-8.
+	p := rate / (2 * float64(tests))
+	z := -distuv.UnitNormal.Quantile(p)
 	nu := madEfficiency * float64(m)
 	switch {
 	case !robust:
 		return z
 	case nu <= 2000:
-		return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: nu}.Quantile(p)
+		return -distuv.StudentsT{Mu: 0, Sigma: 1, Nu: nu}.Quantile(p)
 	}
 	// gonum's t quantile fails for many degrees of freedom (49.7 instead
 	// of 5.29 at 37000); there the Cornish-Fisher expansion of the t

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/sym"
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // ar1Noise and ma1Noise are the noise models phi(B) = 1 - phi B and
@@ -215,43 +216,52 @@ func TestOutliersPlanted(t *testing.T) {
 }
 
 // TestOutliersCritical checks the critical value against the Bonferroni
-// bound of OutlierSettings.Rate, q(1 - 0.05/(2 m K)), for m = 200 and
-// 1000 residuals and K = 4 kinds: with the robust scale q is Student's t
-// with 0.37 m degrees of freedom, with Sigma given the standard normal.
-// The values are scipy 1.10.1's (scipy.stats.t.isf(0.05/1600, 74) =
-// 4.2456382645560495, t.isf(0.05/8000, 370) = 4.4286820334973,
-// norm.isf(0.05/1600) = 4.0031675714504615, norm.isf(0.05/8000) =
-// 4.368679592974323; run once by hand with /usr/bin/python3); the
-// tolerance 1e-6 covers two implementations of the t quantile (gonum
-// inverts the regularised incomplete beta function). Beyond 2000
-// degrees of freedom the Cornish-Fisher expansion takes over; it is
-// checked at m = 10^4, 10^5 and 10^6 against scipy's t.isf(0.05/(8 m),
-// 0.37 m) = 4.855578719335994, 5.287063009393584, 5.692891286721281, to
-// 1e-8.
+// bound of OutlierSettings.Rate, q(1 - 0.05/(2 m K)), K = 4 kinds, m
+// residuals: with the robust scale q is Student's t with 0.37 m degrees
+// of freedom, with Sigma given the standard normal. The reference values
+// are scipy 1.10.1's t.isf and norm.isf (testdata/outliers/quantiles.json,
+// made by make_quantiles.py there). Tolerances: 1e-6 where gonum's t
+// quantile is used (up to 2000 degrees of freedom: two implementations
+// inverting the incomplete beta function), 1e-8 beyond, where the
+// Cornish-Fisher expansion is (its first omitted term is below 1e-9
+// there), 1e-12 for the normal quantile. Outliers itself is run for
+// m = 200 and 1000 to check that the report carries the value.
 func TestOutliersCritical(t *testing.T) {
-	for _, c := range []struct {
-		m    int
-		want float64
-	}{{10000, 4.855578719335994}, {100000, 5.287063009393584}, {1000000, 5.692891286721281}} {
-		if got := critical(0.05, 4*c.m, c.m, true); math.Abs(got-c.want) > 1e-8 {
-			t.Errorf("m = %d: critical %.12g, scipy %.12g", c.m, got, c.want)
-		}
+	var ref []struct {
+		M, Tests int
+		Rate     float64
+		Robust   bool
+		Value    float64
 	}
-	for _, c := range []struct {
-		n       int
-		sigma   float64
-		want    float64
-		tests   int
-		present int
-	}{{200, 0, 4.2456382645560495, 800, 200}, {1000, 0, 4.4286820334973, 4000, 1000},
-		{200, 1, 4.0031675714504615, 800, 200}, {1000, 1, 4.368679592974323, 4000, 1000}} {
-		e := simNoise(rand.New(rand.NewPCG(1, 1)), false, 0, c.n)
-		r, err := Outliers(e, Noise{}, Poly{}, &OutlierSettings{Sigma: c.sigma})
+	testutil.ReadJSON(t, "testdata/outliers/quantiles.json", &ref)
+	if len(ref) < 10 {
+		t.Fatalf("%d reference values", len(ref))
+	}
+	for _, c := range ref {
+		tol := 1e-12
+		switch {
+		case c.Robust && madEfficiency*float64(c.M) <= 2000:
+			tol = 1e-6
+		case c.Robust:
+			tol = 1e-8
+		}
+		if got := critical(c.Rate, c.Tests, c.M, c.Robust); math.Abs(got-c.Value) > tol {
+			t.Errorf("m = %d robust %v: critical %.15g, scipy %.15g", c.M, c.Robust, got, c.Value)
+		}
+		if c.M > 1000 {
+			continue
+		}
+		e := simNoise(rand.New(rand.NewPCG(1, 1)), false, 0, c.M)
+		set := &OutlierSettings{}
+		if !c.Robust {
+			set.Sigma = 1
+		}
+		r, err := Outliers(e, Noise{}, Poly{}, set)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if r.Tests != c.tests || math.Abs(r.Critical-c.want) > 1e-6 || r.Robust != (c.sigma == 0) {
-			t.Errorf("n = %d, sigma %v: critical %.12g over %d tests, want %.12g over %d", c.n, c.sigma, r.Critical, r.Tests, c.want, c.tests)
+		if r.Tests != c.Tests || math.Abs(r.Critical-c.Value) > tol || r.Robust != c.Robust {
+			t.Errorf("m = %d robust %v: report critical %.12g over %d tests, want %.12g over %d", c.M, c.Robust, r.Critical, r.Tests, c.Value, c.Tests)
 		}
 	}
 }
