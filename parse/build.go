@@ -1,10 +1,12 @@
 package parse
 
 import (
+	"errors"
 	"math"
 	"slices"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/alecthomas/participle/v2/lexer"
 	"github.com/backshift/backshift/tf"
@@ -199,11 +201,15 @@ func (b *builder) term(sign string, p lexer.Position, t *term) {
 	case t.Short != nil || end.Noise:
 		b.noiseTerm(sign, p, t)
 	case end.Series != nil:
-		b.input(sign, p, t, end.Series.Series.Value, b.seriesDiff(end.Series))
+		b.input(sign, p, t, end.Series.Series.Value, b.seriesDiff(end.Series), nil)
+	case end.Event != nil:
+		if ev, ok := b.event(end.Event); ok {
+			b.input(sign, p, t, ev.String(), tf.Poly{}, &ev)
+		}
 	case len(t.Ops) == 0:
 		b.constant(sign, p, end)
 	case end.Name != "":
-		b.input(sign, p, t, end.Name, tf.Poly{})
+		b.input(sign, p, t, end.Name, tf.Poly{}, nil)
 	default:
 		b.fail(end.Pos, ErrModel, "this term has no input series: end it with the series name, as in (w0 + w1 B) B^2 x")
 	}
@@ -431,14 +437,47 @@ func (b *builder) shortFactor(p lexer.Position, name string, k int) tf.Factor {
 	return f
 }
 
+// event reads an event: step(T) or pulse(T), T a whole sample index or
+// a time.
+func (b *builder) event(ev *event) (tf.Event, bool) {
+	e := tf.Event{Kind: tf.Step}
+	if ev.Kind == "pulse" {
+		e.Kind = tf.Pulse
+	}
+	if ev.Index != nil {
+		k, ok := b.whole(ev.Index, 0, tf.MaxEventIndex, "the sample of an event", "", ErrLimit)
+		e.Index = k
+		return e, ok
+	}
+	at, err := tf.ParseEventTime(ev.Time.Value)
+	if err != nil {
+		b.fail(ev.Time.Pos, ErrModel, "bad time "+clip(ev.Time.Value)+" for "+ev.Kind+"(...)"+timeReason(err)+
+			"; write a date, or a date and time, as in 2026-03-01, 2026-03-01T08:00 or 2026-03-01T08:00:30, in UTC or with an offset such as +01:00")
+		return e, false
+	}
+	e.At = at
+	return e, true
+}
+
+// timeReason words why time.Parse refused an event's time: a field out
+// of range (month 13, February 30, hour 25), or "" for a malformed text.
+func timeReason(err error) string {
+	var pe *time.ParseError
+	if errors.As(err, &pe) && strings.HasSuffix(pe.Message, "out of range") {
+		return " (" + strings.TrimPrefix(pe.Message, ": ") + ")"
+	}
+	return ""
+}
+
 // input builds an input term, with its sign written at p, from its
-// operators, its series name and the differencing of the series.
-func (b *builder) input(sign string, p lexer.Position, t *term, series string, diff tf.Poly) {
+// operators, its series name and the differencing of the series, or
+// from its event (Series the event's text).
+func (b *builder) input(sign string, p lexer.Position, t *term, series string, diff tf.Poly, ev *tf.Event) {
 	if sign == "-" {
 		b.fail(p, ErrModel, "an input term cannot be subtracted; put the sign in its numerator, as in (-w0 - w1 B) x")
 		return
 	}
-	in := tf.Input{Series: series, Diff: diff, Pos: toPos(t.Pos)}
+	in := tf.Input{Series: series, Diff: diff, Event: ev, Pos: toPos(t.Pos)}
 	delay, delayOK, sawDen := 0, true, false
 	for i := range t.Ops {
 		op := &t.Ops[i]

@@ -24,7 +24,10 @@ import (
 // print as a fixed number), a named coefficient in a differencing
 // operator, a name used with two different values or freedoms, and a
 // sample interval that is not a positive number with a unit s, min, h or
-// d. Those errors have Path set to the Go path of the offending field
+// d, and an event (Input.Event) of unknown kind, with a sample index
+// outside 0..tf.MaxEventIndex, both an index and a time, a year outside
+// 1..9999, a Series other
+// than its text (Event.String()) or a differencing. Those errors have Path set to the Go path of the offending field
 // (such as "Inputs[0].Num.Factors[1].Exp"), carry the element's own Pos
 // (the zero Pos for a model built in code) and no Text.
 //
@@ -94,6 +97,16 @@ func (c *checker) model(m tf.Model) {
 		path := "Inputs[" + strconv.Itoa(i) + "]"
 		label := "input " + strconv.Itoa(i+1)
 		switch {
+		case in.Event != nil:
+			if c.event(in, path, label) {
+				if j, dup := first[in.Series]; dup {
+					c.fail(path+".Event", in.Pos, ErrModel, "event "+in.Series+" appears twice (inputs "+strconv.Itoa(j+1)+" and "+
+						strconv.Itoa(i+1)+"); combine its terms into one transfer function")
+				} else {
+					first[in.Series] = i
+				}
+			}
+			label = "input " + in.Series
 		case in.Series == "":
 			c.fail(path+".Series", in.Pos, ErrModel, label+" has no series name")
 		case in.Series == m.Output:
@@ -124,6 +137,37 @@ func (c *checker) model(m tf.Model) {
 		c.noise(*m.Noise)
 	}
 	c.interval(m.Interval)
+}
+
+// event checks the event of an input: a known kind, a sample index in
+// range or a time, Series its text and no differencing. It reports
+// whether the event is sound.
+func (c *checker) event(in tf.Input, path, label string) bool {
+	e := in.Event
+	switch {
+	case e.Kind != tf.Step && e.Kind != tf.Pulse:
+		c.fail(path+".Event.Kind", in.Pos, ErrModel, "the event of "+label+" has kind "+e.Kind.String()+"; use tf.Step or tf.Pulse")
+	case e.At.IsZero() && e.Index < 0:
+		c.fail(path+".Event.Index", in.Pos, ErrModel, "the event of "+label+" is at sample "+strconv.Itoa(e.Index)+
+			"; a sample index is a whole number from 0 (the record's first sample)")
+	case e.At.IsZero() && e.Index > tf.MaxEventIndex:
+		c.fail(path+".Event.Index", in.Pos, ErrLimit, "the event of "+label+" is at sample "+strconv.Itoa(e.Index)+
+			", over the limit of "+strconv.Itoa(tf.MaxEventIndex))
+	case !e.At.IsZero() && e.Index != 0:
+		c.fail(path+".Event.Index", in.Pos, ErrModel, "the event of "+label+" has both a sample index ("+strconv.Itoa(e.Index)+
+			") and a time; give one (Index is 0 when At is set)")
+	case !e.At.IsZero() && (e.At.Year() < 1 || e.At.Year() > 9999):
+		c.fail(path+".Event.At", in.Pos, ErrModel, "the event of "+label+" is in the year "+strconv.Itoa(e.At.Year())+
+			"; a spec writes years 0001 to 9999")
+	case in.Series != e.String():
+		c.fail(path+".Series", in.Pos, ErrModel, "the series name of "+label+" is "+strconv.Quote(clipText(in.Series))+
+			", not its event's text "+strconv.Quote(e.String())+"; set Series to Event.String()")
+	case !in.Diff.IsOne():
+		c.fail(path+".Diff", in.Pos, ErrModel, "the event "+e.String()+" takes no differencing (a differenced step is a pulse)")
+	default:
+		return true
+	}
+	return false
 }
 
 func (c *checker) noise(n tf.Noise) {
@@ -292,7 +336,8 @@ func sameModel(back, m tf.Model) bool {
 	}
 	for i, a := range m.Inputs {
 		b := back.Inputs[i]
-		if a.Series != b.Series || a.Delay != b.Delay || !samePoly(a.Diff, b.Diff) || !samePoly(a.Num, b.Num) || !samePoly(a.Den, b.Den) {
+		if a.Series != b.Series || a.Delay != b.Delay || !samePoly(a.Diff, b.Diff) || !samePoly(a.Num, b.Num) || !samePoly(a.Den, b.Den) ||
+			!sameEvent(a.Event, b.Event) {
 			return false
 		}
 	}
@@ -316,4 +361,13 @@ func samePoly(p, q tf.Poly) bool {
 		}
 	}
 	return true
+}
+
+// sameEvent reports whether two events (or none) are one: kind, index
+// and time as an instant.
+func sameEvent(a, b *tf.Event) bool {
+	if a == nil || b == nil {
+		return a == b
+	}
+	return a.Kind == b.Kind && a.Index == b.Index && a.At.Equal(b.At)
 }

@@ -96,6 +96,37 @@
 // is white noise. Give them start values or hold them in the where
 // clause like any name: ARMA(1, 1) where phi1 ~ 0.5.
 //
+// # Events
+//
+// A known event at a known time (a new burner, a changed recipe, a rule
+// that took effect, a shutdown) enters as an input whose series is its
+// indicator (Box & Tiao 1975), written in place of a series name:
+//
+//	step(120)                   0 before sample 120, 1 from it on
+//	pulse(120)                  1 at sample 120, 0 elsewhere
+//	step(2026-03-01T08:00)      the same at a time of the record's clock
+//
+// It takes operators like any input and needs no data column:
+//
+//	temp = ... + k step(120)                 an abrupt permanent shift of k
+//	temp = ... + k / (1 - d1 B) step(120)    a gradual one, k / (1 - d1) in the end
+//	temp = ... + k / (1 - d1 B) pulse(120)   a jump of k that dies out as d1^t
+//	temp = ... + k B^2 pulse(120)            a one-off two samples after the event
+//
+// The time is a whole sample index (0 is the record's first sample) or
+// a time written as 2026-03-01 (midnight), 2026-03-01T08:00 or
+// 2026-03-01T08:00:30.5, read as UTC (the way package tf/record reads a
+// time column without an offset) unless an offset follows, as in
+// 2026-03-01T08:00+01:00 (a trailing Z is UTC too). A time becomes a
+// sample through the record's start time and sample interval, at fit
+// time (tf.Model.EventData): a time between two samples belongs to the
+// next sample. The event prints back as written, in the shortest of these
+// forms (tf.Event.String), and the input's series name (tf.Input.Series)
+// is that text. step and pulse are events only when '(' follows them: a
+// series may still be called step. An event takes no differencing
+// (a differenced step is a pulse), and the same event twice in one model
+// is refused like an input named twice.
+//
 // # Sample interval
 //
 // "every 30 s" gives the sample interval, so that responses can be
@@ -152,9 +183,10 @@
 //	SignedTerm = ("+" | "-") Term .
 //	Term = Shorthand | (Operator* Operand) .
 //	Operator = (Coefficient | Delay | ("/" Factor) | ((?! DiffSeries) Factor)) "*"? .
-//	Coefficient = (<number> | <ident>)
+//	Coefficient = (?! ("step" | "pulse") "(") (<number> | <ident>)
 //	    (?= <ident> | <number> | "(" | "B" | "/" | "*" | "a") .
-//	Operand = <ident> | "a" | DiffSeries | <number> .
+//	Operand = Event | <ident> | "a" | DiffSeries | <number> .
+//	Event = ("step" | "pulse") "(" (<time> | Value) ")" .
 //	DiffSeries = "(" Factor ("*"? Factor)* "*"? <ident> ")" .
 //	Delay = "B" ("^" Value)? .
 //	Factor = "(" (Polynomial | Product) ")" ("^" Value)? .
@@ -168,20 +200,29 @@
 //	Every = Value <ident> .
 //	Value = "-"? <number> .
 //
-// A term is its operators and the operand they act on: a series name or
-// a differenced series (an input), the noise symbol a (the noise term),
-// or, with no operators, a lone number or name (the constant). A
-// coefficient is a number or name with more of its term after it, so in
-// w0 B x the name w0 is a coefficient and x the series. The tokens are
+// A term is its operators and the operand they act on: a series name, a
+// differenced series or an event (an input), the noise symbol a (the
+// noise term), or, with no operators, a lone number or name (the
+// constant). A coefficient is a number or name with more of its term
+// after it, so in w0 B x the name w0 is a coefficient and x the series;
+// step or pulse before '(' is an event, never a coefficient. The tokens
+// are
 //
 //	<number> = ( digit { digit } [ "." { digit } ] | "." digit { digit } )
 //	           [ ( "e" | "E" ) [ "+" | "-" ] digit { digit } ] .
 //	<ident>  = letter { letter | digit } .   (not a reserved word)
 //	letter   = "A" … "Z" | "a" … "z" | "_" .
+//	<time>   = digit digit digit digit "-" digit digit "-" digit digit
+//	           { letter | digit | ":" | "." | "+" | "-" } .
 //
 // (in the notation of the Go specification: [ ] optional, { } repeated).
+// A <time> is one token from its date to the first other character, so
+// that a malformed time is refused whole, with its own message; it must
+// then be one of the forms of Events.
 // The rules the grammar does not say are checked after parsing, each with
-// a message of its own: an input has at least one operator; a term may
+// a message of its own: an input other than an event has at least one
+// operator; an event's sample is a whole number from 0 to
+// tf.MaxEventIndex and its time a real date and time; a term may
 // follow '-' only when it is a number (the constant); at most one
 // constant and one noise term; at least one input; numerator factors
 // come before denominator factors; the noise term's operators are
@@ -205,7 +246,9 @@
 //
 // Every *Error wraps ErrSyntax (not written in the language), ErrModel
 // (written correctly but not a valid model: denominator constant term,
-// dead time not a whole non-negative number, an input named twice, the
+// dead time not a whole non-negative number, an event's sample not a
+// whole non-negative number, a time that is not a date, an input or
+// event named twice, the
 // output used as an input, a name used as both a series and a
 // coefficient, a name in a differencing operator, an unknown unit, ...)
 // or ErrLimit. Check applies the same rules to a model built in code,

@@ -153,6 +153,21 @@ var errorCases = []struct {
 	{"y = w0 x where w0 ~ 1 and w1 ~ 2", 1, 23, ErrSyntax, "expected ',', where, every or the end of the spec after a value, found name and (separate the bindings with ',', as in where w0 ~ 1, w1 ~ 2)"},
 	{"y = w0 x where w0 ~ 1; w1 ~ 2", 1, 24, ErrSyntax, "expected where, every or the end of the spec after ';', found name w1 (';' ends the where clause: separate its bindings with ',', as in where w0 ~ 1, w1 ~ 2)"},
 	{"y = w0 x + w1 y", 1, 12, ErrModel, "y is the output; it cannot also be an input (past outputs enter through the denominators and the noise model, as in w0 / (1 - d1 B) x + 1 / (1 - p1 B) a)"},
+	// Events (interventions): bad times, each at the time itself.
+	{"y = w step(2026-13-01) + a", 1, 12, ErrModel, "bad time 2026-13-01 for step(...) (month out of range); write a date, or a date and time, as in 2026-03-01, 2026-03-01T08:00 or 2026-03-01T08:00:30, in UTC or with an offset such as +01:00"},
+	{"y = w step(2026-02-30) + a", 1, 12, ErrModel, "bad time 2026-02-30 for step(...) (day out of range); write a date, or a date and time, as in 2026-03-01, 2026-03-01T08:00 or 2026-03-01T08:00:30, in UTC or with an offset such as +01:00"},
+	{"y = w pulse(2026-03-01T25:00)", 1, 13, ErrModel, "bad time 2026-03-01T25:00 for pulse(...) (hour out of range); write a date, or a date and time, as in 2026-03-01, 2026-03-01T08:00 or 2026-03-01T08:00:30, in UTC or with an offset such as +01:00"},
+	{"y = w pulse(2026-03-01T08h00)", 1, 13, ErrModel, "bad time 2026-03-01T08h00 for pulse(...); write a date, or a date and time, as in 2026-03-01, 2026-03-01T08:00 or 2026-03-01T08:00:30, in UTC or with an offset such as +01:00"},
+	{"y = w pulse(2026-03-01 08:00)", 1, 26, ErrSyntax, "unexpected character ':' after the time 2026-03-01 (write a date and time as one word with T between them, as in 2026-03-01T08:00)"},
+	{"y = w pulse(1.5)", 1, 13, ErrModel, "the sample of an event must be a whole number, not 1.5"},
+	{"y = w pulse(-2)", 1, 13, ErrModel, "the sample of an event cannot be negative (here -2)"},
+	{"y = w pulse(2000000000)", 1, 13, ErrLimit, "the sample of an event is 2000000000, over the limit of 1073741824"},
+	{"y = w step(x) + a", 1, 12, ErrSyntax, "expected the time of the event after 'step(': a sample index as in step(120) or a date and time as in step(2026-03-01T08:00); found name x"},
+	{"y = w step() + a", 1, 12, ErrSyntax, "expected the time of the event after 'step(': a sample index as in step(120) or a date and time as in step(2026-03-01T08:00); found ')'"},
+	{"y = w step(3, 4) + a", 1, 13, ErrSyntax, "expected ')' after the time of step(...), found ',' (an event has one time, a sample index or a date and time)"},
+	{"y = w0 step(3) x", 1, 8, ErrModel, "an event such as step(...) is the series of its term and must come last in it"},
+	{"y = w step(3) + v step(3.0)", 1, 17, ErrModel, "input step(3) appears twice; combine its terms into one transfer function"},
+	{"y = w x + 2026-03-01", 1, 11, ErrSyntax, "expected a term after '+', such as w0 B x, found time 2026-03-01 (a time stands only in an event, as in step(2026-03-01))"},
 }
 
 // TestBadInput: each spec of errorCases, the exact-message table of

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"testing"
+	"time"
 
 	"github.com/backshift/backshift/tf"
 )
@@ -60,6 +61,8 @@ func FuzzCheck(f *testing.F) {
 	}
 	f.Add(goodSpecs[1], uint8(2), uint8(1), int64(0), math.NaN(), "")
 	f.Add(goodSpecs[4], uint8(5), uint8(3), int64(70), math.Inf(1), "B3")
+	f.Add(goodSpecs[0], uint8(8), uint8(1), int64(120), 0.0, "")
+	f.Add(goodSpecs[0], uint8(9), uint8(50), int64(1772352000), 0.0, "")
 	f.Fuzz(func(t *testing.T, spec string, what, which uint8, n int64, v float64, name string) {
 		m, err := Model(spec)
 		if err != nil {
@@ -88,7 +91,7 @@ func FuzzCheck(f *testing.F) {
 			add(&m.Noise.AR)
 		}
 		k := int(which)
-		switch what % 8 {
+		switch what % 10 {
 		case 0:
 			if len(facs) > 0 {
 				facs[k%len(facs)].Exp = int(n)
@@ -119,6 +122,19 @@ func FuzzCheck(f *testing.F) {
 			m.Inputs[k%len(m.Inputs)].Series = name
 		case 7:
 			m.Interval = tf.Interval{Value: v, Unit: name}
+		case 8, 9:
+			// An event at a sample index (8) or at a time in a zone
+			// offset by a multiple of 15 minutes (9), with its text as
+			// the series name unless a name is given.
+			e := tf.Event{Kind: tf.EventKind(which % 3), Index: int(n)}
+			if what%10 == 9 {
+				e.Index, e.At = 0, time.Unix(n, int64(which)*1e7).In(time.FixedZone("", (int(which)%96-48)*900))
+			}
+			in := &m.Inputs[k%len(m.Inputs)]
+			in.Event, in.Series = &e, name
+			if name == "" {
+				in.Series = e.String()
+			}
 		}
 		if err := Check(m); err != nil {
 			_ = err.Error()

@@ -68,17 +68,27 @@ type operator struct {
 // (a number or a name that ends a term is the operand).
 type coefficient struct {
 	Pos    lexer.Position
-	Number string `parser:"( @Number"`
+	Number string `parser:"(?! ( \"step\" | \"pulse\" ) \"(\" ) ( @Number"`
 	Name   string `parser:"| @Ident ) (?= Ident | Number | \"(\" | \"B\" | \"/\" | \"*\" | \"a\")"`
 }
 
 // operand ends a term.
 type operand struct {
 	Pos    lexer.Position
-	Name   string      `parser:"  @Ident"`
+	Event  *event      `parser:"  @@"`
+	Name   string      `parser:"| @Ident"`
 	Noise  bool        `parser:"| @\"a\""`
 	Series *diffSeries `parser:"| @@"`
 	Number string      `parser:"| @Number"`
+}
+
+// event is a known event, an input that needs no data column: step(T)
+// or pulse(T), T a sample index or a time.
+type event struct {
+	Pos   lexer.Position
+	Kind  string      `parser:"@( \"step\" | \"pulse\" ) \"(\""`
+	Time  lexer.Token `parser:"( @Time"`
+	Index *value      `parser:"| @@ ) \")\""`
 }
 
 // diffSeries is a differenced input series, ((1 - B) x).

@@ -16,6 +16,7 @@ const (
 	tokIdent
 	tokKeyword
 	tokPunct
+	tokTime
 )
 
 var keywords = map[string]bool{
@@ -28,7 +29,7 @@ type specLexer struct{}
 
 func (specLexer) Symbols() map[string]lexer.TokenType {
 	return map[string]lexer.TokenType{
-		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct,
+		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct, "Time": tokTime,
 	}
 }
 
@@ -103,6 +104,8 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 		start := i
 		var typ lexer.TokenType
 		switch {
+		case isDate(s[i:]):
+			typ, i = tokTime, timeEnd(s, i)
 		case isDigit(c) || c == '.' && i+1 < len(s) && isDigit(s[i+1]):
 			typ, i = tokNumber, numberEnd(s, i)
 		case isLetter(c):
@@ -116,6 +119,9 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 		case strings.IndexByte(punct, c) >= 0:
 			typ = tokPunct
 			i++
+		case c == ':' && len(toks) >= 2 && toks[len(toks)-2].Type == tokTime:
+			return nil, &lexError{pos: pos, msg: "unexpected character ':' after the time " + toks[len(toks)-2].Value +
+				" (write a date and time as one word with T between them, as in 2026-03-01T08:00)"}
 		default:
 			return nil, &lexError{pos: pos, msg: "unexpected character " + quoteChar(s[i:]) + charHint(s[i:])}
 		}
@@ -153,6 +159,34 @@ func numberEnd(s string, i int) int {
 		if j < len(s) && isDigit(s[j]) {
 			i = digits(j)
 		}
+	}
+	return i
+}
+
+// isDate reports whether s starts with a date, four digits, '-', two
+// digits, '-', two digits (2026-03-01): the start of an event's time. No
+// spec without events has such text (it would be a number followed by
+// two more constants, and a model has at most one).
+func isDate(s string) bool {
+	if len(s) < 10 || s[4] != '-' || s[7] != '-' {
+		return false
+	}
+	for _, k := range []int{0, 1, 2, 3, 5, 6, 8, 9} {
+		if !isDigit(s[k]) {
+			return false
+		}
+	}
+	return true
+}
+
+// timeEnd returns the end of the time that starts at s[i] with a date:
+// the date and every letter, digit, ':', '.', '+' and '-' after it, so
+// that a malformed time (2026-03-01T8:00, 2026-02-30) is one token that
+// the builder refuses with a message of its own.
+func timeEnd(s string, i int) int {
+	i += 10
+	for i < len(s) && (isLetter(s[i]) || isDigit(s[i]) || strings.IndexByte(":.+-", s[i]) >= 0) {
+		i++
 	}
 	return i
 }

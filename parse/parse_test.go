@@ -28,6 +28,8 @@ var goodSpecs = []string{
 	"y = w0 / (1 - d B) / (1 - e B) x",
 	"y=.5x+2.5E+3 B^0 z-1e-3+a",
 	"flow = 1 / ((1 - d1 B)(1 - d2 B)) B^10000 rain + a every 1 d",
+	"temp = w0 B burner + k / (1 - d1 B) step(120) + j pulse(2026-03-01T08:00) + 1 pulse(7) + a where d1 ~ 0.5 every 30 s",
+	"level = c + w x + s step(2026-03-01T08:00:30.25+01:00) + 1 / (1 - p1 B) a",
 }
 
 func TestGoodSpecs(t *testing.T) {

@@ -100,6 +100,10 @@ func (s *slip) explain() verdict {
 		if k := s.open(s.i); k > 0 && s.toks[k-1].Type == tokKeyword && isShort(s.toks[k-1].Value) {
 			return s.order(k - 1)
 		}
+		if k := s.open(s.i); s.eventOpen(k) && s.unclosed(s.i) < 0 {
+			return syntaxErr(s.i, "expected ')' after the time of "+s.toks[k-1].Value+"(...), found "+describe(s.cur())+
+				" (an event has one time, a sample index or a date and time)")
+		}
 		return s.inParens()
 	case strings.HasPrefix(e, "Binding"):
 		return syntaxErr(s.i, "expected a coefficient name after '"+s.prev().Value+"', found "+describe(s.cur()))
@@ -107,6 +111,10 @@ func (s *slip) explain() verdict {
 		return syntaxErr(s.i, "expected '~' (start value) or '=' (held value) after "+s.prev().Value+", found "+describe(s.cur()))
 	case e == "<number>" && (isK(s.prev(), "every") || isK(s.tok(s.i-2), "every")):
 		return syntaxErr(s.i, "expected the sample interval as a number and a unit, as in every 30 s; found "+describe(s.cur()))
+	case e == "<number>" && s.eventOpen(s.i-1):
+		kw := s.tok(s.i - 2).Value
+		return syntaxErr(s.i, "expected the time of the event after '"+kw+"(': a sample index as in "+kw+"(120) or a date and time as in "+
+			kw+"(2026-03-01T08:00); found "+describe(s.cur()))
 	case e == "<number>":
 		return syntaxErr(s.i, "expected a number after '"+s.prev().Value+"', found "+describe(s.cur()))
 	case e == "<ident>":
@@ -313,6 +321,9 @@ func (s *slip) after() verdict {
 		return syntaxErr(s.i, "')' without a matching '('")
 	case isP(prev, ")") && isP(cur, "^"):
 		return verdict{s.i + 1, ErrModel, "a power cannot apply to a series; write the power on the differencing, as in ((1 - B)^2 x)"}
+	case isP(prev, ")") && startsOperator(cur) && s.eventOpen(s.open(s.i-1)):
+		k := s.open(s.i - 1)
+		return verdict{k - 1, ErrModel, "an event such as " + s.toks[k-1].Value + "(...) is the series of its term and must come last in it"}
 	case isP(prev, ")") && startsOperator(cur):
 		return verdict{s.open(s.i - 1), ErrModel, "a differenced series such as ((1 - B) x) must come last in its term"}
 	case isK(prev, "a") && startsOperator(cur):
@@ -341,6 +352,16 @@ func (s *slip) clauseBefore() string {
 		}
 	}
 	return ""
+}
+
+// eventOpen reports whether token k is the '(' of an event, after step
+// or pulse.
+func (s *slip) eventOpen(k int) bool {
+	if k < 1 || !isP(s.tok(k), "(") {
+		return false
+	}
+	t := s.toks[k-1]
+	return t.Type == tokIdent && (t.Value == "step" || t.Value == "pulse")
 }
 
 // open is the index of the innermost '(' still open at token k, or -1.
@@ -462,6 +483,8 @@ func describe(t lexer.Token) string {
 		return "number " + clip(t.Value)
 	case tokIdent:
 		return "name " + clip(t.Value)
+	case tokTime:
+		return "time " + clip(t.Value) + " (a time stands only in an event, as in step(" + clip(t.Value) + "))"
 	}
 	return "'" + t.Value + "'"
 }

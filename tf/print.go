@@ -14,7 +14,8 @@ import (
 // The layout: the output's differencing factors and name, '=', the
 // constant, the input terms in order (numerator factors, '/' and each
 // denominator factor, B^k for the dead time, then the series, written
-// ((1 - B) x) when the input is differenced), the noise term
+// ((1 - B) x) when the input is differenced, or the event, written as
+// Event.String() prints it, step(120) or pulse(2026-03-01T08:00)), the noise term
 // theta(B) / phi(B) a (a alone for white noise, nothing when Noise is
 // nil; AR(p), MA(q) or ARMA(p, q) when the noise is written exactly as
 // that shorthand expands), then a where clause with every named coefficient that is held
@@ -222,7 +223,8 @@ func eachCoefCopy(p Poly, fn func(c *Coef)) {
 }
 
 // String returns the input term as spec text, such as
-// "(w0 + w1 B) / (1 - d1 B) B^4 burner" or "1 ((1 - B) feed)".
+// "(w0 + w1 B) / (1 - d1 B) B^4 burner", "1 ((1 - B) feed)" or, for an
+// event, "k / (1 - d1 B) step(120)".
 func (in Input) String() string {
 	var b strings.Builder
 	in.writeSpec(&b)
@@ -270,6 +272,13 @@ func (in Input) writeSpec(b *strings.Builder) {
 	}
 	if n > 0 {
 		b.WriteByte(' ')
+	}
+	if in.Event != nil {
+		// An event prints as its text whatever Series holds (Validate
+		// refuses a mismatch), and a differencing is refused, not
+		// printed.
+		b.WriteString(in.Event.String())
+		return
 	}
 	if in.Diff.IsOne() {
 		b.WriteString(in.Series)
