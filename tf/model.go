@@ -151,7 +151,7 @@ func (m Model) Equal(o Model) bool {
 // time in 0..MaxDelay and every coefficient value finite. It returns a
 // *ModelError naming the first part at fault, or nil. It does not check
 // what depends on the values' meaning (a zero constant term of a
-// denominator, stability); Fit, Model.Simulate and NewSystem report
+// denominator, stability); fit.Model, Model.Simulate and NewSystem report
 // those themselves, and call Validate first (their errors carry their
 // own Op; Validate's carry "tf.Model.Validate").
 func (m Model) Validate() error {

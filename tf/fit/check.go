@@ -523,7 +523,7 @@ func residualsOf(fn string, e *Estimate, data map[string][]float64) ([]float64, 
 	if err := condCheck(e, data); err != nil {
 		return nil, 0, err
 	}
-	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start})
 	if err != nil {
 		return nil, 0, err
 	}

@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"time"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
@@ -52,6 +53,11 @@ type Settings struct {
 	// left out of the sum of squares. Conditioning reports the index
 	// used.
 	Settle bool
+	// Start is the time of the record's sample 0, used only to place
+	// events given as times (step(2026-03-01T08:00)); events given as
+	// sample indices need none. The zero time places a timed event
+	// against 0001-01-01, so a model with one needs Start.
+	Start time.Time
 	// IgnoreExtra accepts data holding series the model does not use.
 	// By default such series are an error (ExtraSeries), because they
 	// usually mean a misspelt input name.
@@ -112,6 +118,10 @@ type Conditioning struct {
 	// first sample (Settings.ZeroPreSample) instead of held at it.
 	// Check and Forecast recompute residuals with the same convention.
 	ZeroPreSample bool
+	// Start is Settings.Start, the time of sample 0 that placed the
+	// model's events given as times; Check and Forecast place them
+	// again with it.
+	Start time.Time
 }
 
 // Param is one estimated parameter: its name in the model, the

@@ -219,7 +219,8 @@ type Forecast struct {
 // data before it, or as zero when the fit took it so). Inputs whose
 // future is given in s.Future are used as known; the others are
 // forecast from their own ARMA models and their forecast errors enter
-// the variance.
+// the variance. The future of an event input (a step or a pulse at a
+// known time) is known from the model and needs no Future.
 //
 // With psi_j the weights of theta(B)/(phi(B) D(B)) and, for an input
 // forecast from AR_i(B) z = MA_i(B) e, psi*_ij the weights of
@@ -260,6 +261,9 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 		set = *s
 	}
 	if err := e.checkForecast(data, h, &set); err != nil {
+		return nil, err
+	}
+	if set.Future, err = eventFutures(e, set.Future, len(data[e.Model.Output]), h); err != nil {
 		return nil, err
 	}
 	w, err := e.residualsForForecast(data)
@@ -332,7 +336,7 @@ func (e *Estimate) checkForecast(data map[string][]float64, h int, set *Forecast
 // its conditioning (u_i, n_t, a_t at the estimates) and refuses residuals
 // that are not finite.
 func (e *Estimate) residualsForForecast(data map[string][]float64) (*work, error) {
-	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start})
 	if err != nil {
 		return nil, err
 	}

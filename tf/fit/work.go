@@ -63,7 +63,7 @@ func (w *work) condition(set Settings, n int) error {
 	}
 	p := w.ar.Degree()
 	t0 := max(ts+p, set.First)
-	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample}
+	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample, Start: set.Start}
 	w.n = n
 	if nres := n - t0; nres <= len(w.names) {
 		return w.tooFewResiduals(nres)
@@ -575,7 +575,7 @@ func (w *work) run(ctx context.Context, set Settings) (*Estimate, error) {
 	if w.n-w.cond.First >= stagedMin {
 		auto := w.cond.NoiseStart + w.ar.Degree()
 		sub := w.window(max(stagedWindow, stagedPerParam*len(w.names)) + auto)
-		if ws, err := newWork(w.m, sub, Settings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample}); err == nil {
+		if ws, err := newWork(w.m, sub, Settings{IgnoreExtra: true, ZeroPreSample: set.ZeroPreSample, Start: set.Start}); err == nil {
 			best, start, tried, err := ws.search(ctx, set, maxIter)
 			ws.release()
 			if ws.panicErr != nil {
@@ -1188,6 +1188,10 @@ type evalBuffers struct {
 // (allocate).
 func newWork(m tf.Model, data map[string][]float64, set Settings) (*work, error) {
 	b, err := bindModel(m)
+	if err != nil {
+		return nil, err
+	}
+	data, err = withEvents(m, data, set.Start)
 	if err != nil {
 		return nil, err
 	}

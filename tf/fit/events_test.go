@@ -1,0 +1,144 @@
+package fit_test
+
+import (
+	"context"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
+)
+
+// fitEvents fits the model written as spec to data, the record starting
+// at start (fit.Settings.Start places events given as times; fit.Model
+// builds the indicators of the events itself).
+func fitEvents(t testing.TB, spec string, data map[string][]float64, start time.Time) *fit.Estimate {
+	t.Helper()
+	m, err := parse.Model(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	est, err := fit.Model(context.Background(), m, data, &fit.Settings{Start: start})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return est
+}
+
+// TestEventFitMonteCarlo plants a step intervention of known size and
+// time (Box & Tiao 1975, the law of known effect) in a record with an
+// input and AR(1) noise, 200 records of 200 samples with fixed seeds, and
+// fits the model with the event written as step(120) in one half of the
+// records and as the time of sample 120 in the other (every 1 h from
+// 2026-03-01T00:00, so step(2026-03-06T00:00)). The estimated size lies
+// within 2 standard errors of the truth in 95.4 % of records if the
+// estimator and its SE are right (a normal's +-2 sd); the check allows
+// two binomial standard errors below (sqrt(0.954 0.046 / 200) = 1.5 %),
+// so at least 92.4 %. Measured: see the log (go test -run
+// EventFitMonteCarlo -v).
+func TestEventFitMonteCarlo(t *testing.T) {
+	const n, reps, size, phi = 200, 200, 3.0, 0.5
+	start := time.Date(2026, 3, 1, 0, 0, 0, 0, time.UTC)
+	rng := rand.New(rand.NewPCG(42, 43))
+	inside, sum := 0, 0.0
+	for rep := 0; rep < reps; rep++ {
+		x := make([]float64, n)
+		y := make([]float64, n)
+		noise := 0.0
+		for i := range x {
+			x[i] = rng.NormFloat64()
+			noise = phi*noise + rng.NormFloat64()
+			y[i] = 2 + noise
+			if i > 0 {
+				y[i] += 0.8 * x[i-1]
+			}
+			if i >= 120 {
+				y[i] += size
+			}
+		}
+		spec := "y = c + w0 B x + k step(120) + 1 / (1 - p1 B) a"
+		if rep%2 == 1 {
+			spec = "y = c + w0 B x + k step(2026-03-06T00:00) + 1 / (1 - p1 B) a; every 1 h"
+		}
+		est := fitEvents(t, spec, map[string][]float64{"y": y, "x": x}, start)
+		for _, p := range est.Params {
+			if p.Name == "k" {
+				sum += p.Value
+				if math.Abs(p.Value-size) <= 2*p.SE {
+					inside++
+				}
+			}
+		}
+	}
+	frac := float64(inside) / reps
+	t.Logf("step of %v at sample 120: mean estimate %.4f, within 2 SE in %.3f of %d records", size, sum/reps, frac, reps)
+	if frac < 0.924 {
+		t.Errorf("the step's size lies within 2 SE of the truth in %.3f of records, want >= 0.924", frac)
+	}
+}
+
+// TestOutliersWholeModel runs the outlier search of package arma on the
+// residuals of a fitted transfer-function model (its noise and
+// differencing give the pi weights), turns what it finds into event
+// inputs with Model.WithOutliers and refits: a bad reading of +6 at
+// sample 80 and a level shift of +4 from sample 200 (innovation sd 1,
+// AR(1) noise 0.5, fixed seed) are found, and the refit recovers their
+// sizes within 3 standard errors and a smaller residual variance (the
+// outliers no longer count as noise).
+func TestOutliersWholeModel(t *testing.T) {
+	const n = 300
+	rng := rand.New(rand.NewPCG(7, 8))
+	x, y := make([]float64, n), make([]float64, n)
+	noise := 0.0
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		noise = 0.5*noise + rng.NormFloat64()
+		y[i] = 2 + noise
+		if i > 0 {
+			y[i] += 0.8 * x[i-1]
+		}
+		if i >= 200 {
+			y[i] += 4
+		}
+	}
+	y[80] += 6
+	data := map[string][]float64{"y": y, "x": x}
+	est := fitEvents(t, "y = c + w0 B x + 1 / (1 - p1 B) a", data, time.Time{})
+	r, err := arma.Outliers(est.Resid, *est.Model.Noise, est.Model.Diff, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Outliers) != 2 || r.Outliers[0].Index != 80 || r.Outliers[0].Kind != arma.Additive ||
+		r.Outliers[1].Kind != arma.LevelShift || r.Outliers[1].Index < 198 || r.Outliers[1].Index > 202 {
+		t.Fatalf("found %+v", r.Outliers)
+	}
+	m2, skipped, err := est.Model.WithOutliers(r.Outliers, r.Decay)
+	if err != nil || len(skipped) != 0 {
+		t.Fatal(err, skipped)
+	}
+	ls := "ls" + strconv.Itoa(r.Outliers[1].Index)
+	if !strings.Contains(m2.String(), " + ao80 pulse(80) + "+ls+" step(") {
+		t.Errorf("model with outliers: %s", m2)
+	}
+	re := fitEvents(t, m2.String(), data, time.Time{})
+	want := map[string]float64{"ao80": 6, ls: 4, "w0": 0.8}
+	for _, p := range re.Params {
+		if w, ok := want[p.Name]; ok && math.Abs(p.Value-w) > 3*p.SE {
+			t.Errorf("%s = %.3f (SE %.3f), planted %v", p.Name, p.Value, p.SE, w)
+		}
+	}
+	t.Logf("sigma^2 %.3f without the outliers, %.3f with them (model %s)", est.Sigma2, re.Sigma2, re.Model.Held())
+	if !(re.Sigma2 < est.Sigma2) {
+		t.Errorf("refit sigma^2 %v not below %v", re.Sigma2, est.Sigma2)
+	}
+	if _, _, err := m2.WithOutliers(r.Outliers[:1], r.Decay); !errors.Is(err, tf.ErrModel) || !strings.Contains(err.Error(), "ao80 pulse(80)") {
+		t.Errorf("an outlier added twice: %v", err)
+	}
+}
