@@ -142,3 +142,41 @@ func TestOutliersWholeModel(t *testing.T) {
 		t.Errorf("an outlier added twice: %v", err)
 	}
 }
+
+// TestEventForecast: the future of an event input is known from the
+// model, so Forecast needs no Future for it; far ahead, the forecast of
+// y = c + k step(T) + 1/(1 - p1 B) a is c + k, the AR(1) part's
+// forecast decaying as p1^h (Box, Jenkins, Reinsel & Ljung 2015, the
+// forecasting chapter: an AR(1)'s forecast tends to its mean).
+func TestEventForecast(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	y := make([]float64, 300)
+	noise := 0.0
+	for i := range y {
+		noise = 0.5*noise + rng.NormFloat64()
+		y[i] = 2 + noise
+		if i >= 150 {
+			y[i] += 3
+		}
+	}
+	est := fitEvents(t, "y = c + k step(150) + 1 / (1 - p1 B) a", map[string][]float64{"y": y}, time.Time{})
+	fc, err := est.Forecast(map[string][]float64{"y": y}, 200, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var c, k float64
+	for _, p := range est.Params {
+		switch p.Name {
+		case "c":
+			c = p.Value
+		case "k":
+			k = p.Value
+		}
+	}
+	if got := fc.Mean[199]; math.Abs(got-(c+k)) > 1e-9 {
+		t.Errorf("forecast 200 steps ahead %.12g, want c + k = %.12g", got, c+k)
+	}
+	if _, err := fit.Model(context.Background(), est.Model, map[string][]float64{"y": y, "step(150)": y}, nil); !errors.Is(err, tf.ErrName) || !strings.Contains(err.Error(), "named like the event input") {
+		t.Errorf("a data column named like the event: got %v, want ErrName", err)
+	}
+}
