@@ -36,6 +36,7 @@ func compile(m tf.Model, sigma2 float64, set Settings) (*plan, error) {
 		return nil, err
 	}
 	pl.first = max(pl.first, set.First)
+	pl.smallKernel()
 	pl.layout()
 	pl.fp = fingerprint(pl)
 	return pl, nil
@@ -149,16 +150,23 @@ func (pl *plan) layout() {
 		ip.off = take(2)
 		ip.xh = take(ip.d)
 		ip.ring = take(ip.delay)
+		if pl.small {
+			ip.ls = 2
+		}
 		ip.sh = take(ip.ls)
+	}
+	pl.lyh, pl.lnh, pl.lah = len(pl.dc)-1, len(pl.ar)-1, len(pl.ma)-1
+	if pl.small {
+		pl.lyh, pl.lnh, pl.lah = 2, 2, 2
 	}
 	pl.last = make([]int, len(pl.names))
 	for i := len(pl.ins) - 1; i >= 0; i-- {
 		pl.last[pl.ins[i].col] = pl.ins[i].off
 	}
 	pl.offC = take(1)
-	pl.yh = take(len(pl.dc) - 1)
-	pl.nh = take(len(pl.ar) - 1)
-	pl.ah = take(len(pl.ma) - 1)
+	pl.yh = take(pl.lyh)
+	pl.nh = take(pl.lnh)
+	pl.ah = take(pl.lah)
 	pl.psiS = take(1)
 	pl.psiH = take(len(pl.cc) - 1)
 	pl.size = n
@@ -171,4 +179,26 @@ func sum(c []float64) float64 {
 		s += v
 	}
 	return s
+}
+
+// smallKernel sets pl.small and the padded coefficients when every
+// polynomial fits advanceSmall.
+func (pl *plan) smallKernel() {
+	fits := func(c []float64, one bool) bool { return len(c) <= 3 && (!one || c[0] == 1) }
+	pl.small = fits(pl.dc, true) && fits(pl.ar, true) && fits(pl.ma, true)
+	for i := range pl.ins {
+		ip := &pl.ins[i]
+		pl.small = pl.small && ip.plain && fits(ip.den, true) && fits(ip.num, false)
+	}
+	if !pl.small {
+		return
+	}
+	for i := range pl.ins {
+		ip := &pl.ins[i]
+		copy(ip.k[:3], ip.num)
+		copy(ip.k[3:], ip.den[1:])
+	}
+	copy(pl.nk[0:2], pl.dc[1:])
+	copy(pl.nk[2:4], pl.ar[1:])
+	copy(pl.nk[4:6], pl.ma[1:])
 }

@@ -152,3 +152,14 @@ func rms(x []float64) float64 {
 	}
 	return math.Sqrt(s / float64(n))
 }
+
+// polyOf returns the polynomial c_0 + c_1 B + ... as one factor of
+// fixed numbers, for models the spec language does not write (no
+// input).
+func polyOf(c ...float64) tf.Poly {
+	f := tf.Factor{Exp: 1}
+	for k, v := range c {
+		f.Terms = append(f.Terms, tf.Term{Neg: v < 0, Coef: tf.Coef{Value: math.Abs(v)}, Power: k})
+	}
+	return tf.Poly{Factors: []tf.Factor{f}}
+}

@@ -50,6 +50,7 @@ type inputPlan struct {
 	hold  bool    // z0 = x_0 at the first sample (no differencing, not ZeroPreSample)
 	plain bool    // diff is {1}
 	gain  float64 // omega(1)/delta(1)
+	k     [5]float64 // small kernel: omega_0..2, delta_1..2, zero padded
 	// Offsets into the state: off holds x_{t-1} (the last value), off+1
 	// z0, then xh (d values, x_{t-1}..x_{t-d}), the dead-time ring
 	// (delay values) and sh (ls values, s_{t-1}..s_{t-ls}).
@@ -75,11 +76,18 @@ type plan struct {
 	zeroPre bool
 	sd, z   float64 // innovation standard deviation, normal quantile
 	level   float64
+	// small: every term fits the kernel of advanceSmall (inputs without
+	// differencing, numerators and denominators of degree <= 2, D, phi
+	// and theta of degree <= 2 with constant terms 1); nk holds D's,
+	// phi's and theta's coefficients of B and B^2, zero padded.
+	small bool
+	nk    [6]float64
 	// State layout: off (c + sum gain z0), yh (d values), nh (p values),
 	// ah (q values), psiS (the running sum of squared psi weights), psiH
 	// (the last deg cc psi weights), size in all.
 	offC, yh, nh, ah, psiS, psiH, size int
-	fp                                  uint64 // fingerprint
+	lyh, lnh, lah                      int // lengths of yh, nh, ah (padded to 2 for small)
+	fp                                 uint64 // fingerprint
 }
 
 // Predictor is the running state of a model fed one sample at a time:

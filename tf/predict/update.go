@@ -80,6 +80,9 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 // those of the fit (tf's fitWork.noiseSeries and resid), operation for
 // operation, so that the innovations equal its residuals.
 func (pl *plan) advance(st []float64, pos []int, tmp []float64, t, gap int, x []float64, y float64) (Step, int, bool) {
+	if pl.small {
+		return pl.advanceSmall(st, pos, tmp, t, gap, x, y)
+	}
 	off := st[pl.offC]
 	if t == 0 {
 		off = pl.startOffset(x)
