@@ -136,6 +136,9 @@ func row(p *predict.Predictor, data map[string][]float64, t int) []float64 {
 	return x
 }
 
+// nan is a missing sample.
+var nan = math.NaN()
+
 // near reports whether got is within tol of want relative to scale.
 func near(got, want, tol, scale float64) bool {
 	return math.Abs(got-want) <= tol*scale

@@ -46,10 +46,10 @@ type inputPlan struct {
 	num   []float64
 	den   []float64
 	delay int
-	d     int     // differencing degree
-	hold  bool    // z0 = x_0 at the first sample (no differencing, not ZeroPreSample)
-	plain bool    // diff is {1}
-	gain  float64 // omega(1)/delta(1)
+	d     int        // differencing degree
+	hold  bool       // z0 = x_0 at the first sample (no differencing, not ZeroPreSample)
+	plain bool       // diff is {1}
+	gain  float64    // omega(1)/delta(1)
 	k     [5]float64 // small kernel: omega_0..2, delta_1..2, zero padded
 	// Offsets into the state: off holds x_{t-1} (the last value), off+1
 	// z0, then xh (d values, x_{t-1}..x_{t-d}), the dead-time ring
@@ -86,7 +86,7 @@ type plan struct {
 	// ah (q values), psiS (the running sum of squared psi weights), psiH
 	// (the last deg cc psi weights), size in all.
 	offC, yh, nh, ah, psiS, psiH, size int
-	lyh, lnh, lah                      int // lengths of yh, nh, ah (padded to 2 for small)
+	lyh, lnh, lah                      int    // lengths of yh, nh, ah (padded to 2 for small)
 	fp                                 uint64 // fingerprint
 }
 
