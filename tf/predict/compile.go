@@ -134,6 +134,7 @@ func (pl *plan) compileNoise(m tf.Model) error {
 	pl.first = max(ts+len(pl.ar)-1, 0)
 	pl.cc = poly.Mul(pl.ar, pl.dc)
 	pl.psi0 = pl.ma[0] / pl.cc[0]
+	pl.se0 = pl.sd * math.Sqrt(pl.psi0*pl.psi0)
 	return nil
 }
 

@@ -34,25 +34,24 @@ import (
 func (p *Predictor) Forecast(dst []Point, plan [][]float64) error {
 	const op = "predict.Predictor.Forecast"
 	pl := p.p
-	if err := pl.checkPlan(plan, p.t); err != nil {
+	if err := pl.checkPlan(plan, p.s.t); err != nil {
 		errs.SetOp(op, err)
 		return err
 	}
 	if len(dst) == 0 {
 		return nil
 	}
-	copy(p.fst, p.st)
-	copy(p.fpos, p.pos)
-	t, gap := p.t, p.gap
+	copy(p.f.st, p.s.st)
+	copy(p.f.pos, p.s.pos)
+	p.f.t, p.f.gap = p.s.t, p.s.gap
 	for j := range dst {
-		pl.plannedInputs(p.xrow, p.fst, plan, j)
-		step, g, ok := pl.advance(p.fst, p.fpos, p.tmp, t, gap, p.xrow, math.NaN())
+		pl.plannedInputs(p.xrow, p.f.st, plan, j)
+		step, ok := pl.advance(&p.f, p.tmp, p.xrow, math.NaN())
 		if !ok {
 			return &errs.SeriesError{Op: op, Series: pl.output, Kind: errs.ErrOverflow,
 				Detail: "the forecast left float64 range at step " + itoa(j+1) + "; shorten the horizon or check the plan"}
 		}
 		dst[j] = step.Point
-		t, gap = t+1, g
 	}
 	return nil
 }

@@ -7,13 +7,15 @@ import "math"
 // of fixed length, so that the loops unroll and the histories are read
 // at fixed places. Padding adds exact zeros: its results equal
 // advance's bit for bit.
-func (pl *plan) advanceSmall(st []float64, pos []int, tmp []float64, t, gap int, x []float64, y float64) (Step, int, bool) {
+func (pl *plan) advanceSmall(s *state, tmp []float64, x []float64, y float64) (Step, bool) {
+	st, pos, t, gap := s.st, s.pos, s.t, s.gap
 	off := st[pl.offC]
 	if t == 0 {
 		off = pl.startOffset(x)
 	}
 	var bad uint64
-	tmp = tmp[:2*len(pl.ins)]
+	tmp = tmp[:3*len(pl.ins)]
+	usum := off
 	for i := range pl.ins {
 		ip := &pl.ins[i]
 		xv := x[ip.col]
@@ -23,14 +25,16 @@ func (pl *plan) advanceSmall(st []float64, pos []int, tmp []float64, t, gap int,
 		}
 		v := xv - z0
 		if ip.delay > 0 {
-			tmp[2*i] = v
+			tmp[3*i] = v
 			v = st[ip.ring+pos[i]]
 		}
 		h := (*[2]float64)(st[ip.sh:])
 		k := &ip.k
-		s := v - k[4]*h[1] - k[3]*h[0]
-		tmp[2*i+1] = s
-		bad |= finiteBits(s)
+		sv := v - k[4]*h[1] - k[3]*h[0]
+		u := k[0]*sv + k[1]*h[0] + k[2]*h[1]
+		tmp[3*i+1], tmp[3*i+2] = sv, u
+		usum += u
+		bad |= finiteBits(sv)
 	}
 	missing := y != y
 	nk := &pl.nk
@@ -45,31 +49,30 @@ func (pl *plan) advanceSmall(st []float64, pos []int, tmp []float64, t, gap int,
 		}
 		n = w - off
 		for i := range pl.ins {
-			n -= pl.ins[i].output(st, tmp[2*i+1])
+			n -= tmp[3*i+2]
 		}
 	}
-	step := Step{Index: t, Error: math.NaN(), Innov: math.NaN()}
-	step.Point = Point{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
+	nan := math.NaN()
+	mean, se, lo, hi, e, innov := nan, nan, nan, nan, nan, nan
 	if t >= pl.first {
 		nhat := nk[5]*ah[1] + nk[4]*ah[0] - nk[3]*nh[1] - nk[2]*nh[0]
-		pred := off
-		for i := range pl.ins {
-			pred += pl.ins[i].output(st, tmp[2*i+1])
+		mean = usum + nhat - nk[0]*yh[0] - nk[1]*yh[1]
+		se = pl.se0
+		if gap > 0 {
+			se = pl.sd * math.Sqrt(st[pl.psiS])
 		}
-		pred += nhat
-		pred = pred - nk[0]*yh[0] - nk[1]*yh[1]
-		step.Point = pl.newPoint(pred, pl.sd*math.Sqrt(st[pl.psiS]))
+		lo, hi = mean-pl.z*se, mean+pl.z*se
 		if missing {
-			n, y = nhat, pred
+			n, y = nhat, mean
 		} else {
 			a = n + nk[2]*nh[0] + nk[3]*nh[1] - nk[5]*ah[1] - nk[4]*ah[0]
-			step.Error, step.Innov = y-pred, a
+			e, innov = y-mean, a
 		}
-		bad |= finiteBits(pred) | finiteBits(step.Upper) | finiteBits(step.Lower)
+		bad |= finiteBits(mean) | finiteBits(hi) | finiteBits(lo)
 	}
 	bad |= finiteBits(n) | finiteBits(a) | finiteBits(off)
 	if bad>>63 != 0 {
-		return Step{}, gap, false
+		return Step{}, false
 	}
 	for i := range pl.ins {
 		ip := &pl.ins[i]
@@ -80,14 +83,14 @@ func (pl *plan) advanceSmall(st []float64, pos []int, tmp []float64, t, gap int,
 		}
 		if d := ip.delay; d > 0 {
 			r := pos[i]
-			st[ip.ring+r] = tmp[2*i]
+			st[ip.ring+r] = tmp[3*i]
 			if r++; r == d {
 				r = 0
 			}
 			pos[i] = r
 		}
 		h := (*[2]float64)(st[ip.sh:])
-		h[1], h[0] = h[0], tmp[2*i+1]
+		h[1], h[0] = h[0], tmp[3*i+1]
 	}
 	st[pl.offC] = off
 	yh[1], yh[0] = yh[0], y
@@ -100,12 +103,6 @@ func (pl *plan) advanceSmall(st []float64, pos []int, tmp []float64, t, gap int,
 		pl.resetPsi(st)
 		gap = 0
 	}
-	return step, gap, true
-}
-
-// output returns u_t = omega_0 s_t + omega_1 s_{t-1} + omega_2 s_{t-2}
-// of a small-kernel term (s the new s_t).
-func (ip *inputPlan) output(st []float64, s float64) float64 {
-	h := (*[2]float64)(st[ip.sh:])
-	return ip.k[0]*s + ip.k[1]*h[0] + ip.k[2]*h[1]
+	s.t, s.gap = t+1, gap
+	return Step{Point: Point{Mean: mean, SE: se, Lower: lo, Upper: hi}, Index: t, Error: e, Innov: innov}, true
 }

@@ -75,6 +75,7 @@ type plan struct {
 	first   int
 	zeroPre bool
 	sd, z   float64 // innovation standard deviation, normal quantile
+	se0     float64 // sd |psi_0|, the one-step standard error
 	level   float64
 	// small: every term fits the kernel of advanceSmall (inputs without
 	// differencing, numerators and denominators of degree <= 2, D, phi
@@ -99,17 +100,21 @@ type plan struct {
 // own (Clone). Building many predictors from one model, concurrently or
 // not, is safe; clones share the read-only compiled model.
 type Predictor struct {
-	p   *plan
-	st  []float64 // the state, layout in plan
+	p *plan
+	s state
+	// scratch (not state): the forecast's copy of the state, per-term
+	// values of a step, the inputs of a forecast step.
+	f    state
+	tmp  []float64
+	xrow []float64
+}
+
+// state is what a predictor carries from sample to sample.
+type state struct {
+	st  []float64 // the values, layout in plan
 	pos []int     // dead-time ring positions, one per input term
 	t   int       // samples fed
 	gap int       // consecutive missing outputs at the end
-	// scratch (not state): per-term values of a step, the inputs of a
-	// forecast step, the forecast's copy of the state.
-	tmp  []float64
-	xrow []float64
-	fst  []float64
-	fpos []int
 }
 
 // New returns a predictor at rest (no sample fed) for the model m, every
@@ -165,34 +170,34 @@ func setModelOp(op string, err error) {
 // alloc makes the state and scratch slices of p for its plan.
 func (p *Predictor) alloc() {
 	n := len(p.p.ins)
-	p.st = make([]float64, p.p.size)
-	p.pos = make([]int, n)
+	p.s.st = make([]float64, p.p.size)
+	p.s.pos = make([]int, n)
 	p.tmp = make([]float64, 3*n)
 	p.xrow = make([]float64, len(p.p.names))
-	p.fst = make([]float64, p.p.size)
-	p.fpos = make([]int, n)
+	p.f.st = make([]float64, p.p.size)
+	p.f.pos = make([]int, n)
 }
 
 // Reset returns the predictor to rest, as New left it: the next sample
 // fed is index 0 and sets the start-up levels.
 func (p *Predictor) Reset() {
-	clear(p.st)
-	clear(p.pos)
-	p.t, p.gap = 0, 0
-	p.st[p.p.offC] = p.p.c
-	p.st[p.p.psiS] = p.p.psi0 * p.p.psi0
+	clear(p.s.st)
+	clear(p.s.pos)
+	p.s.t, p.s.gap = 0, 0
+	p.s.st[p.p.offC] = p.p.c
+	p.s.st[p.p.psiS] = p.p.psi0 * p.p.psi0
 	if len(p.p.cc) > 1 {
-		p.st[p.p.psiH] = p.p.psi0
+		p.s.st[p.p.psiH] = p.p.psi0
 	}
 }
 
 // Clone returns an independent copy of p in its current state, for
 // another goroutine or to try a what-if without disturbing p.
 func (p *Predictor) Clone() *Predictor {
-	c := &Predictor{p: p.p, t: p.t, gap: p.gap}
+	c := &Predictor{p: p.p, s: state{t: p.s.t, gap: p.s.gap}}
 	c.alloc()
-	copy(c.st, p.st)
-	copy(c.pos, p.pos)
+	copy(c.s.st, p.s.st)
+	copy(c.s.pos, p.s.pos)
 	return c
 }
 
@@ -211,11 +216,11 @@ func (p *Predictor) Output() string { return p.p.output }
 func (p *Predictor) First() int { return p.p.first }
 
 // Count returns the number of samples fed since New, Reset or Warm.
-func (p *Predictor) Count() int { return p.t }
+func (p *Predictor) Count() int { return p.s.t }
 
 // Missing returns the number of consecutive samples, up to the last one
 // fed, whose output was missing.
-func (p *Predictor) Missing() int { return p.gap }
+func (p *Predictor) Missing() int { return p.s.gap }
 
 // Level returns the coverage of the intervals.
 func (p *Predictor) Level() float64 { return p.p.level }

@@ -71,7 +71,7 @@ func fingerprint(pl *plan) uint64 {
 // UnmarshalBinary after a restart. It carries a version byte and the
 // model's Fingerprint. It never fails.
 func (p *Predictor) MarshalBinary() ([]byte, error) {
-	return p.AppendBinary(make([]byte, 0, snapshotHeader+4+8*len(p.pos)+4+8*len(p.st)))
+	return p.AppendBinary(make([]byte, 0, snapshotHeader+4+8*len(p.s.pos)+4+8*len(p.s.st)))
 }
 
 // AppendBinary appends the snapshot of MarshalBinary to b (see
@@ -80,14 +80,14 @@ func (p *Predictor) AppendBinary(b []byte) ([]byte, error) {
 	le := binary.LittleEndian
 	b = append(b, snapshotVersion)
 	b = le.AppendUint64(b, p.p.fp)
-	b = le.AppendUint64(b, uint64(p.t))
-	b = le.AppendUint64(b, uint64(p.gap))
-	b = le.AppendUint32(b, uint32(len(p.pos)))
-	for _, v := range p.pos {
+	b = le.AppendUint64(b, uint64(p.s.t))
+	b = le.AppendUint64(b, uint64(p.s.gap))
+	b = le.AppendUint32(b, uint32(len(p.s.pos)))
+	for _, v := range p.s.pos {
 		b = le.AppendUint64(b, uint64(v))
 	}
-	b = le.AppendUint32(b, uint32(len(p.st)))
-	for _, v := range p.st {
+	b = le.AppendUint32(b, uint32(len(p.s.st)))
+	for _, v := range p.s.st {
 		b = le.AppendUint64(b, math.Float64bits(v))
 	}
 	return b, nil
@@ -136,7 +136,7 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 	rest := data[snapshotHeader:]
 	np := int(le.Uint32(rest))
 	rest = rest[4:]
-	if np != len(p.pos) || len(rest) != 8*np+4+8*len(p.st) || int(le.Uint32(rest[8*np:])) != len(p.st) {
+	if np != len(p.s.pos) || len(rest) != 8*np+4+8*len(p.s.st) || int(le.Uint32(rest[8*np:])) != len(p.s.st) {
 		return bad("its length does not fit this model's state (" + strconv.Itoa(len(data)) + " bytes)")
 	}
 	pos := make([]int, np)
@@ -148,15 +148,15 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 		pos[i] = int(v)
 	}
 	rest = rest[8*np+4:]
-	st := make([]float64, len(p.st))
+	st := make([]float64, len(p.s.st))
 	for i := range st {
 		st[i] = math.Float64frombits(le.Uint64(rest[8*i:]))
 		if math.IsNaN(st[i]) || math.IsInf(st[i], 0) {
 			return bad("state value " + strconv.Itoa(i) + " is not finite")
 		}
 	}
-	copy(p.st, st)
-	copy(p.pos, pos)
-	p.t, p.gap = int(t), int(gap)
+	copy(p.s.st, st)
+	copy(p.s.pos, pos)
+	p.s.t, p.s.gap = int(t), int(gap)
 	return nil
 }

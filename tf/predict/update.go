@@ -31,18 +31,24 @@ import (
 // *SeriesError of kind ErrOverflow when a state leaves float64 range.
 func (p *Predictor) Update(x []float64, y float64) (Step, error) {
 	pl := p.p
-	if err := pl.checkSample(x, y, p.t); err != nil {
+	ok := len(x) == len(pl.names) && (math.Abs(y) <= MaxMagnitude || y != y && p.s.t >= pl.first)
+	for _, v := range x {
+		ok = ok && math.Abs(v) <= MaxMagnitude
+	}
+	if !ok {
+		err := pl.checkSample(x, y, p.s.t)
 		errs.SetOp("predict.Predictor.Update", err)
 		return Step{}, err
 	}
-	step, gap, ok := pl.advance(p.st, p.pos, p.tmp, p.t, p.gap, x, y)
-	if !ok {
-		return Step{}, &errs.SeriesError{Op: "predict.Predictor.Update", Series: pl.output, Kind: errs.ErrOverflow,
-			Detail: "a state left float64 range at sample " + itoa(p.t) + "; the samples or the model's coefficients are too large (rescale the series)"}
+	if pl.small {
+		if step, ok := pl.advanceSmall(&p.s, p.tmp, x, y); ok {
+			return step, nil
+		}
+	} else if step, ok := pl.advance(&p.s, p.tmp, x, y); ok {
+		return step, nil
 	}
-	p.t++
-	p.gap = gap
-	return step, nil
+	return Step{}, &errs.SeriesError{Op: "predict.Predictor.Update", Series: pl.output, Kind: errs.ErrOverflow,
+		Detail: "a state left float64 range at sample " + itoa(p.s.t) + "; the samples or the model's coefficients are too large (rescale the series)"}
 }
 
 // checkSample checks one sample of the inputs and the output at index t.
@@ -73,16 +79,16 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 	return nil
 }
 
-// advance feeds sample t (inputs x, output y or NaN for missing) to the
-// state st, pos with gap missing outputs before it, using tmp as
-// scratch. It returns the step, the new gap and true, or false with the
-// state untouched when a value left float64 range. The recursions are
+// advance feeds the next sample (inputs x, output y or NaN for missing)
+// to the state s, using tmp as scratch. It returns the step and true,
+// or false with the state untouched when a value left float64 range. The recursions are
 // those of the fit (tf's fitWork.noiseSeries and resid), operation for
 // operation, so that the innovations equal its residuals.
-func (pl *plan) advance(st []float64, pos []int, tmp []float64, t, gap int, x []float64, y float64) (Step, int, bool) {
+func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, bool) {
 	if pl.small {
-		return pl.advanceSmall(st, pos, tmp, t, gap, x, y)
+		return pl.advanceSmall(s, tmp, x, y)
 	}
+	st, pos, t, gap := s.st, s.pos, s.t, s.gap
 	off := st[pl.offC]
 	if t == 0 {
 		off = pl.startOffset(x)
@@ -108,7 +114,7 @@ func (pl *plan) advance(st []float64, pos []int, tmp []float64, t, gap int, x []
 		for i := range pl.ins {
 			pred += tmp[3*i+2]
 		}
-		pred += nhat
+		pred += nhat // the order of the small kernel's sum
 		if !pl.plainD {
 			yh := st[pl.yh : pl.yh+len(pl.dc)-1]
 			for k := 1; k < len(pl.dc); k++ {
@@ -116,7 +122,11 @@ func (pl *plan) advance(st []float64, pos []int, tmp []float64, t, gap int, x []
 			}
 			pred /= pl.dc[0]
 		}
-		step.Point = pl.newPoint(pred, pl.sd*math.Sqrt(st[pl.psiS]))
+		se := pl.se0
+		if gap > 0 {
+			se = pl.sd * math.Sqrt(st[pl.psiS])
+		}
+		step.Point = pl.newPoint(pred, se)
 		if missing {
 			n, y = nhat, pred
 		} else {
@@ -127,7 +137,7 @@ func (pl *plan) advance(st []float64, pos []int, tmp []float64, t, gap int, x []
 	}
 	bad |= finiteBits(n) | finiteBits(a) | finiteBits(off)
 	if bad>>63 != 0 {
-		return Step{}, gap, false
+		return Step{}, false
 	}
 	pl.commit(st, pos, tmp, t, x, y, off, n, a)
 	if missing {
@@ -137,7 +147,8 @@ func (pl *plan) advance(st []float64, pos []int, tmp []float64, t, gap int, x []
 		pl.resetPsi(st)
 		gap = 0
 	}
-	return step, gap, true
+	s.t, s.gap = t+1, gap
+	return step, true
 }
 
 // startOffset returns c + sum_i gain_i z0_i, the constant part of n_t

@@ -49,8 +49,8 @@ func (p *Predictor) Warm(data map[string][]float64) error {
 			return err
 		}
 	}
-	copy(p.st, w.st)
-	copy(p.pos, w.pos)
-	p.t, p.gap = w.t, w.gap
+	copy(p.s.st, w.s.st)
+	copy(p.s.pos, w.s.pos)
+	p.s.t, p.s.gap = w.s.t, w.s.gap
 	return nil
 }
