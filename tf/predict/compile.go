@@ -148,13 +148,13 @@ func (pl *plan) layout() {
 	}
 	for i := range pl.ins {
 		ip := &pl.ins[i]
-		ip.off = take(2)
-		ip.xh = take(ip.d)
-		ip.ring = take(ip.delay)
 		if pl.small {
 			ip.ls = 2
 		}
-		ip.sh = take(ip.ls)
+		ip.off = take(2)
+		ip.sh = take(ip.ls) // right after off: the small kernel reads the four as one
+		ip.xh = take(ip.d)
+		ip.ring = take(ip.delay)
 	}
 	pl.lyh, pl.lnh, pl.lah = len(pl.dc)-1, len(pl.ar)-1, len(pl.ma)-1
 	if pl.small {
@@ -163,6 +163,12 @@ func (pl *plan) layout() {
 	pl.last = make([]int, len(pl.names))
 	for i := len(pl.ins) - 1; i >= 0; i-- {
 		pl.last[pl.ins[i].col] = pl.ins[i].off
+	}
+	if pl.small {
+		pl.terms = make([]smallTerm, len(pl.ins))
+		for i, ip := range pl.ins {
+			pl.terms[i] = smallTerm{k: ip.k, off: ip.off, ring: ip.ring, delay: ip.delay, col: ip.col}
+		}
 	}
 	pl.offC = take(1)
 	pl.yh = take(pl.lyh)

@@ -1,108 +1,90 @@
 package predict
 
-import "math"
+// smallTerm is an input term of a plan that fits the small kernel: its
+// padded coefficients omega_0..2, delta_1..2 and where its state lives
+// (off: x_{t-1}, z0, s_{t-1}, s_{t-2}; ring: the dead-time ring).
+type smallTerm struct {
+	k                     [5]float64
+	off, ring, delay, col int
+}
 
 // advanceSmall is advance for a plan whose polynomials all fit the small
-// kernel (plan.small): the same recursions on zero-padded coefficients
-// of fixed length, so that the loops unroll and the histories are read
-// at fixed places. Padding adds exact zeros: its results equal
-// advance's bit for bit.
+// kernel (plan.small) in the common case: a sample after the first,
+// from First on, with its output, after an observed output. Other
+// samples go to advance. The recursions are advance's on zero-padded
+// coefficients of fixed length (padding adds exact zeros, so the results
+// are equal bit for bit), written into the state as they are formed and
+// undone when a value left float64 range.
 func (pl *plan) advanceSmall(s *state, tmp []float64, x []float64, y float64) (Step, bool) {
-	st, pos, t, gap := s.st, s.pos, s.t, s.gap
-	off := st[pl.offC]
-	if t == 0 {
-		off = pl.startOffset(x)
+	t := s.t
+	if t == 0 || t < pl.first || s.gap > 0 || y != y {
+		return pl.advance(s, tmp, x, y)
 	}
-	var bad uint64
-	tmp = tmp[:3*len(pl.ins)]
-	usum := off
-	for i := range pl.ins {
-		ip := &pl.ins[i]
-		xv := x[ip.col]
-		z0 := st[ip.off+1]
-		if t == 0 && ip.hold {
-			z0 = xv
-		}
-		v := xv - z0
-		if ip.delay > 0 {
-			tmp[3*i] = v
-			v = st[ip.ring+pos[i]]
-		}
-		h := (*[2]float64)(st[ip.sh:])
-		k := &ip.k
-		sv := v - k[4]*h[1] - k[3]*h[0]
-		u := k[0]*sv + k[1]*h[0] + k[2]*h[1]
-		tmp[3*i+1], tmp[3*i+2] = sv, u
-		usum += u
-		bad |= finiteBits(sv)
-	}
-	missing := y != y
+	st, pos := s.st, s.pos
 	nk := &pl.nk
 	yh := (*[2]float64)(st[pl.yh:])
 	nh := (*[2]float64)(st[pl.nh:])
 	ah := (*[2]float64)(st[pl.ah:])
-	var n, a float64
-	if !missing {
-		w := 0.0
-		if t >= len(pl.dc)-1 {
-			w = y + nk[0]*yh[0] + nk[1]*yh[1]
-		}
-		n = w - off
-		for i := range pl.ins {
-			n -= tmp[3*i+2]
-		}
-	}
-	nan := math.NaN()
-	mean, se, lo, hi, e, innov := nan, nan, nan, nan, nan, nan
-	if t >= pl.first {
-		nhat := nk[5]*ah[1] + nk[4]*ah[0] - nk[3]*nh[1] - nk[2]*nh[0]
-		mean = usum + nhat - nk[0]*yh[0] - nk[1]*yh[1]
-		se = pl.se0
-		if gap > 0 {
-			se = pl.sd * math.Sqrt(st[pl.psiS])
-		}
-		lo, hi = mean-pl.z*se, mean+pl.z*se
-		if missing {
-			n, y = nhat, mean
-		} else {
-			a = n + nk[2]*nh[0] + nk[3]*nh[1] - nk[5]*ah[1] - nk[4]*ah[0]
-			e, innov = y-mean, a
-		}
-		bad |= finiteBits(mean) | finiteBits(hi) | finiteBits(lo)
-	}
-	bad |= finiteBits(n) | finiteBits(a) | finiteBits(off)
-	if bad>>63 != 0 {
-		return Step{}, false
-	}
-	for i := range pl.ins {
-		ip := &pl.ins[i]
-		xv := x[ip.col]
-		st[ip.off] = xv
-		if t == 0 && ip.hold {
-			st[ip.off+1] = xv
-		}
-		if d := ip.delay; d > 0 {
+	off := st[pl.offC]
+	n := y + nk[0]*yh[0] + nk[1]*yh[1] - off
+	usum := off
+	var bad uint64
+	terms := pl.terms
+	tmp = tmp[:4*len(terms)]
+	for i := range terms {
+		tm := &terms[i]
+		v4 := (*[4]float64)(st[tm.off:])
+		xv := x[tm.col]
+		v := xv - v4[1]
+		if d := tm.delay; d > 0 {
 			r := pos[i]
-			st[ip.ring+r] = tmp[3*i]
+			slot := &st[tm.ring+r]
+			v, *slot = *slot, v
 			if r++; r == d {
 				r = 0
 			}
 			pos[i] = r
 		}
-		h := (*[2]float64)(st[ip.sh:])
-		h[1], h[0] = h[0], tmp[3*i+1]
+		k := &tm.k
+		s1, s2 := v4[2], v4[3]
+		sv := v - k[4]*s2 - k[3]*s1
+		u := k[0]*sv + k[1]*s1 + k[2]*s2
+		tmp[4*i], tmp[4*i+1], tmp[4*i+2] = v4[0], s2, v
+		v4[0], v4[2], v4[3] = xv, sv, s1
+		usum += u
+		n -= u
+		bad |= finiteBits(sv)
 	}
-	st[pl.offC] = off
+	nhat := nk[5]*ah[1] + nk[4]*ah[0] - nk[3]*nh[1] - nk[2]*nh[0]
+	mean := usum + nhat - nk[0]*yh[0] - nk[1]*yh[1]
+	a := n + nk[2]*nh[0] + nk[3]*nh[1] - nk[5]*ah[1] - nk[4]*ah[0]
+	se := pl.se0
+	lo, hi := mean-pl.z*se, mean+pl.z*se
+	bad |= finiteBits(n) | finiteBits(a) | finiteBits(lo) | finiteBits(hi)
+	if bad>>63 != 0 {
+		pl.undoSmall(st, pos, tmp)
+		return Step{}, false
+	}
 	yh[1], yh[0] = yh[0], y
 	nh[1], nh[0] = nh[0], n
 	ah[1], ah[0] = ah[0], a
-	if missing {
-		gap++
-		pl.nextPsi(st, gap)
-	} else if gap > 0 {
-		pl.resetPsi(st)
-		gap = 0
+	s.t = t + 1
+	return Step{Point: Point{Mean: mean, SE: se, Lower: lo, Upper: hi}, Index: t, Error: y - mean, Innov: a}, true
+}
+
+// undoSmall restores the input terms' state that advanceSmall changed,
+// from what it kept in tmp.
+func (pl *plan) undoSmall(st []float64, pos []int, tmp []float64) {
+	for i, tm := range pl.terms {
+		v4 := (*[4]float64)(st[tm.off:])
+		v4[0], v4[2], v4[3] = tmp[4*i], v4[3], tmp[4*i+1]
+		if d := tm.delay; d > 0 {
+			r := pos[i] - 1
+			if r < 0 {
+				r = d - 1
+			}
+			st[tm.ring+r] = tmp[4*i+2]
+			pos[i] = r
+		}
 	}
-	s.t, s.gap = t+1, gap
-	return Step{Point: Point{Mean: mean, SE: se, Lower: lo, Upper: hi}, Index: t, Error: e, Innov: innov}, true
 }

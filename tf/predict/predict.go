@@ -83,6 +83,7 @@ type plan struct {
 	// phi's and theta's coefficients of B and B^2, zero padded.
 	small bool
 	nk    [6]float64
+	terms []smallTerm
 	// State layout: off (c + sum gain z0), yh (d values), nh (p values),
 	// ah (q values), psiS (the running sum of squared psi weights), psiH
 	// (the last deg cc psi weights), size in all.
@@ -172,7 +173,7 @@ func (p *Predictor) alloc() {
 	n := len(p.p.ins)
 	p.s.st = make([]float64, p.p.size)
 	p.s.pos = make([]int, n)
-	p.tmp = make([]float64, 3*n)
+	p.tmp = make([]float64, 4*n)
 	p.xrow = make([]float64, len(p.p.names))
 	p.f.st = make([]float64, p.p.size)
 	p.f.pos = make([]int, n)

@@ -85,9 +85,6 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 // those of the fit (tf's fitWork.noiseSeries and resid), operation for
 // operation, so that the innovations equal its residuals.
 func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, bool) {
-	if pl.small {
-		return pl.advanceSmall(s, tmp, x, y)
-	}
 	st, pos, t, gap := s.st, s.pos, s.t, s.gap
 	off := st[pl.offC]
 	if t == 0 {

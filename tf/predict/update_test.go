@@ -127,18 +127,32 @@ func TestUpdateBadInput(t *testing.T) {
 }
 
 // TestUpdateOverflow: a model whose states leave float64 range gives an
-// ErrOverflow error, never a NaN or infinite prediction.
+// ErrOverflow error, never a NaN or infinite prediction, and leaves the
+// state as it was, at the first sample and later (dead-time ring and
+// filter states included).
 func TestUpdateOverflow(t *testing.T) {
-	m := mustModel(t, "y = 1e300 u + a")
+	m := mustModel(t, "y = 1e300 u1 + 2 / (1 - 0.5 B) B^2 u2 + a")
 	p, err := predict.New(m, 1, &predict.Settings{ZeroPreSample: true})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := p.Update([]float64{1e100}, 1); !errors.Is(err, predict.ErrOverflow) {
+	if _, err := p.Update([]float64{1e100, 1}, 1); !errors.Is(err, predict.ErrOverflow) {
 		t.Fatalf("error %v, want ErrOverflow", err)
 	}
 	if p.Count() != 0 {
 		t.Fatalf("Count %d after the refused sample", p.Count())
+	}
+	for i := 0; i < 10; i++ {
+		if _, err := p.Update([]float64{0, float64(i)}, float64(i)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	before, _ := p.MarshalBinary()
+	if _, err := p.Update([]float64{1e100, 3}, 1); !errors.Is(err, predict.ErrOverflow) {
+		t.Fatalf("error %v, want ErrOverflow", err)
+	}
+	if after, _ := p.MarshalBinary(); string(after) != string(before) {
+		t.Fatal("a refused sample changed the state")
 	}
 }
 
