@@ -8,18 +8,23 @@ type smallTerm struct {
 	off, ring, delay, col int
 }
 
-// advanceSmall is advance for a plan whose polynomials all fit the small
-// kernel (plan.small) in the common case: a sample after the first,
-// from First on, with its output, after an observed output. Other
-// samples go to advance. The recursions are advance's on zero-padded
+// fast reports whether the next sample, with output y, takes
+// advanceSmall: a plan whose polynomials all fit the small kernel
+// (plan.small), and the common case: a sample after the first, from
+// First on, with its output, after an observed output.
+func (pl *plan) fast(s *state, y float64) bool {
+	return pl.small && s.t > 0 && s.t >= pl.first && s.gap == 0 && y == y
+}
+
+// advanceSmall is advance for a sample that fast admits; it returns the
+// prediction's mean and standard error and the innovation (the step's
+// other fields follow from them and y), and false with the state
+// unchanged when a value left float64 range. The recursions are advance's on zero-padded
 // coefficients of fixed length (padding adds exact zeros, so the results
 // are equal bit for bit), written into the state as they are formed and
 // undone when a value left float64 range.
-func (pl *plan) advanceSmall(s *state, tmp []float64, x []float64, y float64) (Step, bool) {
+func (pl *plan) advanceSmall(s *state, tmp []float64, x []float64, y float64) (mean, se, a float64, ok bool) {
 	t := s.t
-	if t == 0 || t < pl.first || s.gap > 0 || y != y {
-		return pl.advance(s, tmp, x, y)
-	}
 	st, pos := s.st, s.pos
 	nk := &pl.nk
 	yh := (*[2]float64)(st[pl.yh:])
@@ -56,20 +61,20 @@ func (pl *plan) advanceSmall(s *state, tmp []float64, x []float64, y float64) (S
 		bad |= finiteBits(sv)
 	}
 	nhat := nk[5]*ah[1] + nk[4]*ah[0] - nk[3]*nh[1] - nk[2]*nh[0]
-	mean := usum + nhat - nk[0]*yh[0] - nk[1]*yh[1]
-	a := n + nk[2]*nh[0] + nk[3]*nh[1] - nk[5]*ah[1] - nk[4]*ah[0]
-	se := pl.se0
+	mean = usum + nhat - nk[0]*yh[0] - nk[1]*yh[1]
+	a = n + nk[2]*nh[0] + nk[3]*nh[1] - nk[5]*ah[1] - nk[4]*ah[0]
+	se = pl.se0
 	lo, hi := mean-pl.z*se, mean+pl.z*se
 	bad |= finiteBits(n) | finiteBits(a) | finiteBits(lo) | finiteBits(hi)
 	if bad>>63 != 0 {
 		pl.undoSmall(st, pos, tmp)
-		return Step{}, false
+		return 0, 0, 0, false
 	}
 	yh[1], yh[0] = yh[0], y
 	nh[1], nh[0] = nh[0], n
 	ah[1], ah[0] = ah[0], a
 	s.t = t + 1
-	return Step{Point: Point{Mean: mean, SE: se, Lower: lo, Upper: hi}, Index: t, Error: y - mean, Innov: a}, true
+	return mean, se, a, true
 }
 
 // undoSmall restores the input terms' state that advanceSmall changed,

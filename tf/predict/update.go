@@ -40,9 +40,12 @@ func (p *Predictor) Update(x []float64, y float64) (Step, error) {
 		errs.SetOp("predict.Predictor.Update", err)
 		return Step{}, err
 	}
-	if pl.small {
-		if step, ok := pl.advanceSmall(&p.s, p.tmp, x, y); ok {
-			return step, nil
+	if pl.fast(&p.s, y) {
+		t := p.s.t
+		if mean, se, a, ok := pl.advanceSmall(&p.s, p.tmp, x, y); ok {
+			// Built here from registers: returning a Step through one more
+			// call costs a copy through memory.
+			return Step{Point: Point{Mean: mean, SE: se, Lower: mean - pl.z*se, Upper: mean + pl.z*se}, Index: t, Error: y - mean, Innov: a}, nil
 		}
 	} else if step, ok := pl.advance(&p.s, p.tmp, x, y); ok {
 		return step, nil
