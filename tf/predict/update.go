@@ -110,18 +110,7 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 	step.Point = Point{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
 	if t >= pl.first {
 		nhat := pl.noisePrediction(st)
-		pred := off
-		for i := range pl.ins {
-			pred += tmp[3*i+2]
-		}
-		pred += nhat // the order of the small kernel's sum
-		if !pl.plainD {
-			yh := st[pl.yh : pl.yh+len(pl.dc)-1]
-			for k := 1; k < len(pl.dc); k++ {
-				pred -= pl.dc[k] * yh[k-1]
-			}
-			pred /= pl.dc[0]
-		}
+		pred := pl.outputPrediction(st, tmp, off, nhat)
 		se := pl.se0
 		if gap > 0 {
 			se = pl.sd * math.Sqrt(st[pl.psiS])
@@ -149,6 +138,26 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 	}
 	s.t, s.gap = t+1, gap
 	return step, true
+}
+
+// outputPrediction returns the prediction of y_t from the input terms'
+// outputs u (in tmp), the constant part off and the noise prediction
+// nhat: (off + sum_i u_i + nhat - sum_k d_k y_{t-k}) / d_0, summed in
+// the small kernel's order.
+func (pl *plan) outputPrediction(st, tmp []float64, off, nhat float64) float64 {
+	pred := off
+	for i := range pl.ins {
+		pred += tmp[3*i+2]
+	}
+	pred += nhat
+	if !pl.plainD {
+		yh := st[pl.yh : pl.yh+len(pl.dc)-1]
+		for k := 1; k < len(pl.dc); k++ {
+			pred -= pl.dc[k] * yh[k-1]
+		}
+		pred /= pl.dc[0]
+	}
+	return pred
 }
 
 // startOffset returns c + sum_i gain_i z0_i, the constant part of n_t

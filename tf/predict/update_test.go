@@ -2,7 +2,9 @@ package predict_test
 
 import (
 	"errors"
+	"fmt"
 	"math"
+	"sync"
 	"testing"
 
 	"github.com/backshift/backshift/tf"
@@ -283,5 +285,56 @@ func TestClone(t *testing.T) {
 	c.Update([]float64{0, 0}, 0)
 	if after, _ := p.MarshalBinary(); string(after) != string(before) {
 		t.Fatal("updating the clone changed the original")
+	}
+}
+
+// TestConcurrentUse: predictors built from one model in several
+// goroutines, and clones of one predictor fed in several goroutines,
+// give the same steps as one predictor fed alone (run with -race).
+func TestConcurrentUse(t *testing.T) {
+	m := mustModel(t, benchSpec)
+	data := record(t, benchSpec, 300, 6)
+	want := make([]predict.Step, 300)
+	ref, _ := predict.New(m, 1, nil)
+	for i := range want {
+		want[i], _ = ref.Update(row(ref, data, i), data["y"][i])
+	}
+	base, _ := predict.New(m, 1, nil)
+	if err := base.Warm(window(data, 100)); err != nil {
+		t.Fatal(err)
+	}
+	const workers = 4
+	errc := make(chan string, 2*workers)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(2)
+		go func() { // a predictor of its own from the shared model
+			defer wg.Done()
+			p, err := predict.New(m, 1, nil)
+			if err != nil {
+				errc <- err.Error()
+				return
+			}
+			for i := range want {
+				if s, _ := p.Update(row(p, data, i), data["y"][i]); !sameStep(s, want[i]) {
+					errc <- fmt.Sprintf("own predictor, sample %d: %+v, want %+v", i, s, want[i])
+					return
+				}
+			}
+		}()
+		go func(c *predict.Predictor) { // a clone of the warmed predictor
+			defer wg.Done()
+			for i := 100; i < 300; i++ {
+				if s, _ := c.Update(row(c, data, i), data["y"][i]); !sameStep(s, want[i]) {
+					errc <- fmt.Sprintf("clone, sample %d: %+v, want %+v", i, s, want[i])
+					return
+				}
+			}
+		}(base.Clone())
+	}
+	wg.Wait()
+	close(errc)
+	for e := range errc {
+		t.Error(e)
 	}
 }
