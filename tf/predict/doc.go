@@ -32,6 +32,13 @@
 // A Predictor is not safe for concurrent use: give each goroutine its
 // own, with Clone. Building many from one model, concurrently, is safe.
 //
+// Caution: a prediction is the model's, and an identified model is an
+// approximation of the plant. Where predictions drive equipment (a
+// controller, an alarm), commission on the plant under the site's safety
+// procedures with independent interlocks, deferring to local codes and
+// licensed practice; an alarm raised from prediction errors is advice to
+// an operator, not an interlock.
+//
 // # The recursions
 //
 // With w_t = D(B) y_t, z_i,t = D_i(B) x_i,t, u_i,t = omega_i(B)/delta_i(B)
@@ -72,6 +79,9 @@
 // the inputs as known: a plan's uncertainty is not in it either.
 //
 // # Refused models
+//
+// A model without a noise term is taken with white noise, as the fit
+// takes it.
 //
 // New refuses a free coefficient, an input denominator with a pole on or
 // outside the unit circle (its state would grow without bound), a noise
