@@ -109,3 +109,51 @@ func finite(v ...float64) bool {
 	}
 	return true
 }
+
+// FuzzRestore restores arbitrary bytes into a predictor: a typed error
+// (ErrFormat or ErrOtherModel, the predictor unchanged) or a state from
+// which Update and Forecast give finite numbers or a typed error.
+func FuzzRestore(f *testing.F) {
+	m := mustModel(f, benchSpec)
+	p, err := predict.New(m, 1, nil)
+	if err != nil {
+		f.Fatal(err)
+	}
+	for i := 0; i < 12; i++ {
+		p.Update([]float64{float64(i), 1}, float64(i%3))
+	}
+	snap, _ := p.MarshalBinary()
+	f.Add(snap)
+	f.Add(snap[:20])
+	f.Add([]byte{1})
+	f.Fuzz(func(t *testing.T, data []byte) {
+		q, _ := predict.New(m, 1, nil)
+		before, _ := q.MarshalBinary()
+		if err := q.UnmarshalBinary(data); err != nil {
+			if !errors.Is(err, predict.ErrFormat) && !errors.Is(err, predict.ErrOtherModel) {
+				t.Fatalf("untyped error %v", err)
+			}
+			if after, _ := q.MarshalBinary(); string(after) != string(before) {
+				t.Fatal("a refused snapshot changed the predictor")
+			}
+			return
+		}
+		s, err := q.Update([]float64{3, 4}, 5)
+		if err == nil && s.Index >= q.First() && !finite(s.Mean, s.SE, s.Lower, s.Upper) {
+			t.Fatalf("step %+v with a nil error", s)
+		}
+		if err != nil && !errors.Is(err, predict.ErrOverflow) {
+			t.Fatalf("Update after restore: %v", err)
+		}
+		dst := make([]predict.Point, 5)
+		if err := q.Forecast(dst, nil); err == nil {
+			for _, d := range dst {
+				if !finite(d.Mean, d.SE, d.Lower, d.Upper) {
+					t.Fatalf("forecast %+v with a nil error", d)
+				}
+			}
+		} else if !errors.Is(err, predict.ErrShort) && !errors.Is(err, predict.ErrOverflow) {
+			t.Fatalf("Forecast after restore: %v", err)
+		}
+	})
+}

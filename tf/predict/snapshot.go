@@ -103,7 +103,7 @@ func (p *Predictor) AppendBinary(b []byte) ([]byte, error) {
 // with Err ErrFormat when data is not a snapshot of this version (empty,
 // another version byte, the wrong length, or values a predictor cannot
 // hold: a position outside its ring, a count below zero, a state value
-// that is not finite).
+// that is not finite, a variance sum that is not positive).
 func (p *Predictor) UnmarshalBinary(data []byte) error {
 	if err := p.restore(data); err != nil {
 		err.Op = "predict.Predictor.UnmarshalBinary"
@@ -154,6 +154,9 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 		if math.IsNaN(st[i]) || math.IsInf(st[i], 0) {
 			return bad("state value " + strconv.Itoa(i) + " is not finite")
 		}
+	}
+	if !(st[p.p.psiS] > 0) {
+		return bad("the sum of squared psi weights is " + strconv.FormatFloat(st[p.p.psiS], 'g', -1, 64) + ", not positive")
 	}
 	copy(p.s.st, st)
 	copy(p.s.pos, pos)
