@@ -18,11 +18,11 @@ func (pl *plan) fast(s *state, y float64) bool {
 
 // advanceSmall is advance for a sample that fast admits; it returns the
 // prediction's mean and standard error and the innovation (the step's
-// other fields follow from them and y), and false with the state
-// unchanged when a value left float64 range. The recursions are advance's on zero-padded
-// coefficients of fixed length (padding adds exact zeros, so the results
-// are equal bit for bit), written into the state as they are formed and
-// undone when a value left float64 range.
+// other fields follow from them and y), or false with the state
+// unchanged when a value left float64 range. The recursions are
+// advance's on zero-padded coefficients of fixed length (padding adds
+// exact zeros, so the results are equal bit for bit), written into the
+// state as they are formed and undone on overflow.
 func (pl *plan) advanceSmall(s *state, tmp []float64, x []float64, y float64) (mean, se, a float64, ok bool) {
 	t := s.t
 	st, pos := s.st, s.pos
