@@ -14,11 +14,21 @@ import (
 // Linux it also reports cpu-ns/op, the CPU time of the benchmark's
 // thread per sample, which leaves out the time spent waiting for a core
 // on a shared machine.
-func BenchmarkUpdate(b *testing.B) {
+func BenchmarkUpdate(b *testing.B) { benchUpdate(b, benchSpec) }
+
+// BenchmarkUpdateDifferenced times one sample of a model outside the
+// small kernel (differenced output and input), which takes the general
+// recursion.
+func BenchmarkUpdateDifferenced(b *testing.B) {
+	benchUpdate(b, "(1 - B) y = 2 / (1 - 0.7 B) B ((1 - B) u1) + (1 - 0.3 B) / (1 - 0.5 B) a")
+}
+
+// benchUpdate times Update for the model spec over a simulated record.
+func benchUpdate(b *testing.B, spec string) {
 	runtime.LockOSThread()
 	defer runtime.UnlockOSThread()
-	m := mustModel(b, benchSpec)
-	data := record(b, benchSpec, 4096, 1)
+	m := mustModel(b, spec)
+	data := record(b, spec, 4096, 1)
 	p, err := predict.New(m, 1, nil)
 	if err != nil {
 		b.Fatal(err)
