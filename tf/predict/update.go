@@ -21,6 +21,10 @@ import (
 // as they come, exactly as a batch forecast from that sample with these
 // inputs known; their standard errors grow accordingly (the psi
 // weights of theta(B)/(phi(B) D(B)) summed over the missing stretch).
+// The first output observed after a gap has the forecast error over the
+// gap as its Error (with the matching SE), and that error enters the
+// recursion as its innovation: a plain restart of the recursion, not
+// the optimal update a Kalman filter over the gap would give.
 //
 // Errors (Op "predict.Predictor.Update"), after which the state is
 // unchanged: a *SeriesError of kind ErrLength when len(x) is not the
