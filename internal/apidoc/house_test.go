@@ -33,6 +33,7 @@ var house = map[string][]string{
 	"tf/statespace": {"tf", "arma", "internal/"},
 	"tf/monitor":    {"internal/"},
 	"tf/fleet":      {"internal/"},
+	"tf/predict":    {"tf", "arma", "internal/"},
 	"parse":         {"tf", "internal/errs"},
 	"examples/":     {"tf", "tf/", "arma", "ccf", "prewhiten", "parse", "examples/"},
 }
