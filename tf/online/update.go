@@ -220,7 +220,9 @@ func (e *Estimator) ar1(o int, v float64, a []float64) float64 {
 	for j := 1; j < len(a); j++ {
 		v -= a[j] * h[j*ns+o]
 	}
-	v /= a[0]
+	if a[0] != 1 {
+		v /= a[0]
+	}
 	h[o] = v
 	return v
 }
@@ -329,14 +331,17 @@ func (e *Estimator) step(eps float64) {
 		den = e.gain(lam)
 	}
 	copy(e.old, e.x)
-	for i := range k {
-		e.x[i] += e.ppsi[i] / den * eps
+	inv, il := 1/den, 1/lam
+	pp := e.ppsi[:k]
+	for i, v := range pp {
+		e.x[i] += v * inv * eps
 	}
 	for i := range k {
-		a := e.ppsi[i] / den
+		a := pp[i] * inv
+		row := e.p[i*k : (i+1)*k]
 		for j := i; j < k; j++ {
-			v := (e.p[i*k+j] - a*e.ppsi[j]) / lam
-			e.p[i*k+j] = v
+			v := (row[j] - a*pp[j]) * il
+			row[j] = v
 			e.p[j*k+i] = v
 		}
 	}
