@@ -65,9 +65,54 @@ func record(t testing.TB, m tf.Model, n int, sigma float64, seed uint64) map[str
 // tf/fit): it returns the fitted model and its parameters.
 func batchFit(t testing.TB, m tf.Model, data map[string][]float64) (tf.Model, []tf.Param) {
 	t.Helper()
-	est, err := tf.Fit(context.Background(), m, data, nil)
+	fm, ps, err := fitParams(context.Background(), m, data)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return est.Model, est.Params
+	return fm, ps
+}
+
+// fitParams is the call of the batch fit itself (tf.Fit, to become
+// fit.Model): the fitted model and its parameters.
+func fitParams(ctx context.Context, m tf.Model, data map[string][]float64) (tf.Model, []tf.Param, error) {
+	est, err := tf.Fit(ctx, m, data, nil)
+	if err != nil {
+		return tf.Model{}, nil, err
+	}
+	return est.Model, est.Params, nil
+}
+
+// refitByFit is the batch fit in the shape of online.RefitFunc.
+func refitByFit(ctx context.Context, m tf.Model, window map[string][]float64) (tf.Model, error) {
+	fm, _, err := fitParams(ctx, m, window)
+	return fm, err
+}
+
+// perturbed returns a copy of m with every named coefficient moved:
+// numerators of the first input scaled by 0.7, the denominator of the
+// second by 0.5, the noise AR coefficients set to 0.
+func perturbed(m tf.Model) tf.Model {
+	s := m.Clone()
+	named := func(f func(c *tf.Coef)) func(c *tf.Coef) {
+		return func(c *tf.Coef) {
+			if c.Name != "" {
+				f(c)
+			}
+		}
+	}
+	s.Inputs[0].Num.Each(named(func(c *tf.Coef) { c.Value *= 0.7 }))
+	s.Inputs[1].Den.Each(named(func(c *tf.Coef) { c.Value *= 0.5 }))
+	s.Noise.AR.Each(named(func(c *tf.Coef) { c.Value = 0 }))
+	return s
+}
+
+// spliced returns the record of m up to sample at and of m2 from there
+// on, both driven by the same inputs and innovations: a plant whose
+// coefficients change at sample at.
+func spliced(t testing.TB, m, m2 tf.Model, n, at int, sigma float64, seed uint64) map[string][]float64 {
+	t.Helper()
+	a := record(t, m, n, sigma, seed)
+	b := record(t, m2, n, sigma, seed)
+	copy(a[m.Output][at:], b[m.Output][at:])
+	return a
 }
