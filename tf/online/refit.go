@@ -95,14 +95,14 @@ type Refitter struct {
 	added  int
 	due    int // sample count at which the next refit is due
 
-	ctx     context.Context
-	cancel  context.CancelFunc
-	wg      sync.WaitGroup
-	running atomic.Bool
-	launch  sync.Mutex // guards closed and the start of a refit against Close
-	closed  bool
-	mu      sync.Mutex
-	lastErr error
+	ctx                               context.Context
+	cancel                            context.CancelFunc
+	wg                                sync.WaitGroup
+	running                           atomic.Bool
+	launch                            sync.Mutex // guards closed and the start of a refit against Close
+	closed                            bool
+	mu                                sync.Mutex
+	lastErr                           error
 	started, swapped, failed, skipped atomic.Int64
 }
 

@@ -495,4 +495,3 @@ func sum(x []float64) float64 {
 	}
 	return s
 }
-
