@@ -2,9 +2,14 @@ package online_test
 
 import (
 	"fmt"
+	"errors"
 	"math"
+	"math/rand/v2"
+	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/online"
 )
@@ -140,5 +145,90 @@ func TestEstimatorTracksGainChange(t *testing.T) {
 				t.Errorf("mean deviation %.3g of the change after tracking, want <= 0.15", mean)
 			}
 		})
+	}
+}
+
+// Models and settings New refuses, each with the part or field and the
+// likely fix in the message.
+func TestNewBadInput(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		spec string
+		set  online.Settings
+		kind error
+		want []string
+		mod  func(m *tf.Model) // a change the spec language cannot write
+	}{
+		{"nothing free", "y = 2 B x + a", online.Settings{}, errs.ErrModel, []string{"nothing is free", "mark at least one"}, nil},
+		{"free differencing", "(1 - B) y = w B x + a", online.Settings{}, errs.ErrModel, []string{"differencing coefficient g", "fixed numbers"},
+			func(m *tf.Model) { m.Diff.Factors[0].Terms[1].Coef = tf.Coef{Name: "g", Value: 1, Free: true} }},
+		{"free and held", "y = w B x + v / (1 - d B) z + a; where w ~ 1, v = 1, d ~ 0.5", online.Settings{}, errs.ErrModel, []string{"coefficient w", "free in one place and held in another"},
+			func(m *tf.Model) { m.Inputs[1].Num.Factors[0].Terms[0].Coef.Name = "w" }},
+		{"unstable start", "y = w / (1 - d B) B x + a; where w ~ 1, d ~ 1.2", online.Settings{}, errs.ErrModel, []string{`input "x" denominator`, "on or outside the unit circle", "fitted model"}, nil},
+		{"non-invertible MA", "y = w B x + (1 - t B) a; where w ~ 1, t = 1", online.Settings{}, errs.ErrModel, []string{"noise MA", "not invertible"}, nil},
+		{"forgetting too small", "y = w B x + a", online.Settings{Forgetting: 0.5}, errs.ErrSetting, []string{"Settings.Forgetting = 0.5", "[0.9, 1]"}, nil},
+		{"forgetting above 1", "y = w B x + a", online.Settings{Forgetting: 1.01}, errs.ErrSetting, []string{"Settings.Forgetting = 1.01"}, nil},
+		{"negative warm-up", "y = w B x + a", online.Settings{Warmup: -1}, errs.ErrSetting, []string{"Settings.Warmup = -1", "10 per free coefficient"}, nil},
+		{"NaN trace bound", "y = w B x + a", online.Settings{MaxTrace: math.NaN()}, errs.ErrSetting, []string{"Settings.MaxTrace = NaN"}, nil},
+		{"negative dead zone", "y = w B x + a", online.Settings{DeadZone: -1}, errs.ErrSetting, []string{"Settings.DeadZone = -1", "no dead zone"}, nil},
+		{"negative ramp", "y = w B x + a", online.Settings{Ramp: -3}, errs.ErrSetting, []string{"Settings.Ramp = -3"}, nil},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			m := mustModel(t, tc.spec)
+			if tc.mod != nil {
+				tc.mod(&m)
+			}
+			_, err := online.New(m, &tc.set)
+			if !errors.Is(err, tc.kind) {
+				t.Fatalf("error %v, want kind %v", err, tc.kind)
+			}
+			testutil.CheckWords(t, tc.name, err.Error(), append(tc.want, "online.New"), nil)
+		})
+	}
+	if _, err := online.New(tf.Model{}, nil); !errors.Is(err, errs.ErrModel) {
+		t.Errorf("a model without output: %v", err)
+	}
+	if err := (online.Settings{Forgetting: 2}).Validate(); err == nil || !strings.Contains(err.Error(), "online.Settings.Validate") {
+		t.Errorf("Validate: %v", err)
+	}
+}
+
+// Model returns the start model's structure with the estimates in its
+// free coefficients (fixed and held ones untouched), and shares nothing
+// with the Estimator; the start model is not modified.
+func TestEstimatorModel(t *testing.T) {
+	m := mustModel(t, "y = c + w / (1 - d B) B x + (1 - 0.2 B) / (1 - p B) a; where c ~ 1, w ~ 0.5, d = 0.7, p ~ 0.3")
+	keep := m.Clone()
+	data := map[string][]float64{"x": telegraph(rand.New(rand.NewPCG(29, 1)), 500, 0, 2)}
+	y, err := m.Simulate(data, &tf.SimSettings{Sigma: 0.3, Seed1: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	data["y"] = y
+	e, err := online.New(m, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	feed(t, e, data, "y", 0, 500)
+	got := e.Model()
+	ps := e.Params(nil)
+	if len(ps) != 3 || ps[0].Name != "c" || ps[1].Name != "w" || ps[2].Name != "p" {
+		t.Fatalf("params %v, want c, w, p (d is held)", ps)
+	}
+	if got.Const.Value != ps[0].Value || got.Inputs[0].Num.Coeffs()[0] != ps[1].Value || -got.Noise.AR.Coeffs()[1] != ps[2].Value {
+		t.Errorf("Model %v does not carry the estimates %v", got, ps)
+	}
+	if d := got.Inputs[0].Den.Coeffs()[1]; d != -0.7 {
+		t.Errorf("held d became %v", -d)
+	}
+	if ps[1].Value == 0.5 {
+		t.Error("w did not move")
+	}
+	got.Const.Value = 99
+	if e.Model().Const.Value == 99 {
+		t.Error("Model shares the constant with the Estimator")
+	}
+	if !m.Equal(keep) {
+		t.Error("the start model was modified")
 	}
 }
