@@ -1,8 +1,8 @@
 package online_test
 
 import (
-	"fmt"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"

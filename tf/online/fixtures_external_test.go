@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
@@ -115,4 +116,10 @@ func spliced(t testing.TB, m, m2 tf.Model, n, at int, sigma float64, seed uint64
 	b := record(t, m2, n, sigma, seed)
 	copy(a[m.Output][at:], b[m.Output][at:])
 	return a
+}
+
+// testutilWords checks that err's message holds every word.
+func testutilWords(t *testing.T, err error, words ...string) {
+	t.Helper()
+	testutil.CheckWords(t, t.Name(), err.Error(), words, nil)
 }
