@@ -27,6 +27,7 @@ var house = map[string][]string{
 	"tf":            {"arma", "ccf", "prewhiten", "internal/"},
 	"tf/record":     {"tf", "internal/errs"},
 	"tf/testsignal": {"internal/"},
+	"tf/online":     {"tf", "arma", "internal/"},
 	"parse":         {"tf", "internal/errs"},
 	"examples/":     {"tf", "tf/", "arma", "ccf", "prewhiten", "parse", "examples/"},
 }
