@@ -38,6 +38,10 @@ type polyMap struct {
 	params  []int
 	affine  bool
 	c, d    []float64
+	// base and terms: an affine polynomial's fixed part and its free
+	// terms, so that eval only adds the terms.
+	base  []float64
+	terms []termMap
 	// scratch of the dual expansion: a factor's base (fc, fd) and a
 	// product (pc, pd).
 	fc, fd, pc, pd []float64
@@ -77,10 +81,19 @@ func newPolyMap(p tf.Poly, index func(tf.Coef) int, x []float64) *polyMap {
 	if !m.affine {
 		m.fc, m.pc = make([]float64, n), make([]float64, n)
 		m.fd, m.pd = make([]float64, len(m.d)), make([]float64, len(m.d))
-	} else if len(m.factors) == 1 {
-		for _, t := range m.factors[0].terms {
-			if t.l >= 0 {
-				m.d[t.l*n+t.power] += t.sign
+	} else {
+		m.base = make([]float64, n)
+		if len(m.factors) == 0 {
+			m.base[0] = 1
+		}
+		for _, f := range m.factors {
+			for _, t := range f.terms {
+				if t.l >= 0 {
+					m.d[t.l*n+t.power] += t.sign
+					m.terms = append(m.terms, t)
+				} else {
+					m.base[t.power] += t.sign * t.value
+				}
 			}
 		}
 	}
@@ -94,17 +107,9 @@ func (m *polyMap) free() bool { return len(m.params) > 0 }
 // eval sets c (and, for a product, d) at the parameter vector x.
 func (m *polyMap) eval(x []float64) {
 	if m.affine {
-		clear(m.c)
-		if len(m.factors) == 0 {
-			m.c[0] = 1
-			return
-		}
-		for _, t := range m.factors[0].terms {
-			v := t.value
-			if t.k >= 0 {
-				v = x[t.k]
-			}
-			m.c[t.power] += t.sign * v
+		copy(m.c, m.base)
+		for _, t := range m.terms {
+			m.c[t.power] += t.sign * x[t.k]
 		}
 		return
 	}
@@ -183,6 +188,9 @@ func stable(c, buf []float64) bool {
 	copy(a, c)
 	if !(a[0] != 0) || math.IsInf(a[0], 0) {
 		return false
+	}
+	if r == 1 {
+		return math.Abs(a[1]/a[0]) < 1
 	}
 	for n := r; n >= 1; n-- {
 		k := a[n] / a[0]

@@ -40,7 +40,8 @@ type RefitSettings struct {
 
 // Validate checks the settings by the library's settings rule and
 // returns a *SettingError naming the field, or nil. Window must be at
-// least 2 when given.
+// least 2 and at most 2^24 (a window of 16 million samples, 128 MB per
+// series) when given.
 func (s RefitSettings) Validate() error {
 	err := s.validate()
 	errs.SetOp("online.RefitSettings.Validate", err)
@@ -54,8 +55,8 @@ func (s RefitSettings) validate() error {
 	if err := errs.Count("", "RefitSettings.Every", s.Every, "0 means Window/4"); err != nil {
 		return err
 	}
-	if s.Window == 1 || s.Window > 1<<30 {
-		return &SettingError{Setting: "RefitSettings.Window", Value: strconv.Itoa(s.Window), Rule: "must lie in 2..2^30 samples (0 means 2000)"}
+	if s.Window == 1 || s.Window > 1<<24 {
+		return &SettingError{Setting: "RefitSettings.Window", Value: strconv.Itoa(s.Window), Rule: "must lie in 2..2^24 samples (0 means 2000)"}
 	}
 	return nil
 }

@@ -44,7 +44,10 @@ func (e *Estimator) Update(x []float64, y float64) error {
 	}
 	lam := e.set.Forgetting
 	e.lastErr = eps
-	sd := math.Sqrt(e.sumE2 / e.sumW)
+	sd := 0.0
+	if e.set.DeadZone > 0 {
+		sd = math.Sqrt(e.sumE2 / e.sumW)
+	}
 	e.sumE2 = lam*e.sumE2 + eps*eps
 	e.sumW = lam*e.sumW + 1
 	e.lamT *= lam
