@@ -58,8 +58,9 @@
 // factor raised to a power) enters through the derivatives of the
 // expanded coefficients (forward-mode dual numbers; constant for a
 // polynomial of one factor). After an update the current sample's
-// filters are computed again with the new estimates (the a posteriori
-// values of L&S, which the next sample's recursion reads).
+// input-term outputs u_i, noise n and error eps are computed again with
+// the new estimates (the a posteriori values of L&S, which the next
+// sample's recursion reads); the gradient filters run once a sample.
 //
 // The filters start as if the record had been settled before its first
 // sample: each input held at its first value and every filter at its

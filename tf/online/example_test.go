@@ -14,9 +14,10 @@ import (
 // A heating valve whose gain drops by a third at sample 1500 (a fouled
 // heat exchanger): the recursive estimate of the gain, printed every 250
 // samples with a bar as a picture of its trajectory, follows it at
-// forgetting 0.99 (a memory of about 100 samples): the numerator w within
-// about 250 samples, the gain w/(1 - d), which also needs the time
-// constant d re-estimated from the input's slow moves, within about 750.
+// forgetting 0.99 (a memory of about 100 samples) within about 750
+// samples: the numerator w and the time constant d, whose estimates are
+// strongly correlated when the input moves about a level far from zero,
+// settle together.
 func ExampleEstimator() {
 	before, _ := parse.Model("temp = 20 + w / (1 - d B) B^2 valve + 1 / (1 - p B) a; where w ~ 0.3, d ~ 0.7, p ~ 0.5")
 	after := before.Clone()
@@ -56,19 +57,19 @@ func ExampleEstimator() {
 	}
 	fmt.Printf("%+v\n", est.Counts())
 	// Output:
-	// 250  gain 1.00  (w 0.299, SE 0.002)  ####################
-	//  500  gain 1.00  (w 0.301, SE 0.002)  ####################
+	// 250  gain 1.00  (w 0.273, SE 0.005)  ####################
+	//  500  gain 1.00  (w 0.298, SE 0.003)  ####################
 	//  750  gain 1.00  (w 0.304, SE 0.003)  ####################
-	// 1000  gain 1.00  (w 0.303, SE 0.003)  ####################
+	// 1000  gain 1.00  (w 0.304, SE 0.003)  ####################
 	// 1250  gain 1.00  (w 0.299, SE 0.002)  ####################
 	// 1500  gain 1.00  (w 0.300, SE 0.002)  ####################
-	// 1750  gain 0.99  (w 0.242, SE 0.010)  ####################
-	// 2000  gain 0.95  (w 0.208, SE 0.007)  ###################
-	// 2250  gain 0.76  (w 0.197, SE 0.004)  ###############
+	// 1750  gain 0.99  (w 0.314, SE 0.006)  ####################
+	// 2000  gain 0.94  (w 0.254, SE 0.008)  ###################
+	// 2250  gain 0.76  (w 0.200, SE 0.004)  ###############
 	// 2500  gain 0.68  (w 0.200, SE 0.004)  ##############
-	// 2750  gain 0.67  (w 0.199, SE 0.004)  #############
+	// 2750  gain 0.67  (w 0.198, SE 0.004)  #############
 	// 3000  gain 0.67  (w 0.200, SE 0.003)  #############
-	// {Samples:3000 Updates:2969 DeadZone:0 Rejected:1 Bounded:0 Resets:0}
+	// {Samples:3000 Updates:2970 DeadZone:0 Rejected:0 Bounded:0 Resets:0}
 }
 
 // A Refitter keeps the live model of a service and refits it in the

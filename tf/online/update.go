@@ -34,7 +34,7 @@ func (e *Estimator) Update(x []float64, y float64) error {
 		e.settle(x, y)
 	}
 	e.push(x, y)
-	e.filter()
+	e.filter(true)
 	eps := e.hist[e.e]
 	e.gradient()
 	if !finite(eps) || !finiteAll(e.psi) {
@@ -162,9 +162,13 @@ func (e *Estimator) push(x []float64, y float64) {
 
 // filter computes the current row of the history block from the raw
 // values and the past rows, with the current estimates: each input
-// term's output u and gradient signals, the noise n, the prediction
-// error e and the noise gradient signals.
-func (e *Estimator) filter() {
+// term's output u, the noise n and the prediction error e, and, when
+// grad is set, the gradient signals. The a posteriori pass after an
+// update recomputes u, n and e only, as in Ljung & Soderstrom's
+// algorithm, where the gradient filters run once per sample; the
+// gradient signals of one sample then all come from one pass, so that
+// for the tied ARX form they sum to the regressors exactly.
+func (e *Estimator) filter(grad bool) {
 	h := e.hist
 	phi, theta := e.ar.c, e.ma.c
 	w := 0.0
@@ -190,6 +194,9 @@ func (e *Estimator) filter() {
 		}
 		u := e.ar1(it.u, acc, dc)
 		nv -= u
+		if !grad {
+			continue
+		}
 		if it.num.free() {
 			k := it.pos - it.b
 			if k < 0 {
@@ -205,6 +212,9 @@ func (e *Estimator) filter() {
 	}
 	h[e.n] = nv
 	e.arma(e.e, e.n, phi, theta)
+	if !grad {
+		return
+	}
 	if e.ar.free() {
 		e.ar1(e.nt, nv, theta)
 	}
@@ -322,8 +332,8 @@ func (e *Estimator) startP() {
 //	P = (P - P psi psi' P / (lambda + psi' P psi)) / lambda,
 //
 // followed by the stability projection and the trace bound, and by the
-// a posteriori recomputation of the current row of the histories with
-// the new estimates.
+// a posteriori recomputation of the current sample's u, n and e with the
+// new estimates.
 func (e *Estimator) step(eps float64) {
 	k := len(e.psi)
 	lam := e.lambda()
@@ -363,7 +373,7 @@ func (e *Estimator) step(eps float64) {
 		return
 	}
 	e.counts.Updates++
-	e.filter()
+	e.filter(false)
 }
 
 // lambda returns the forgetting factor of the next update (see
