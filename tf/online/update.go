@@ -349,13 +349,15 @@ func (e *Estimator) step(eps float64) {
 	for i, v := range pp {
 		e.x[i] += v * inv * eps
 	}
+	p := e.p[:k*k]
 	for i := range k {
 		a := pp[i] * inv
-		row := e.p[i*k : (i+1)*k]
-		for j := i; j < k; j++ {
+		row := p[i*k : (i+1)*k]
+		row = row[:len(pp)]
+		for j := i; j < len(row); j++ {
 			v := (row[j] - a*pp[j]) * il
 			row[j] = v
-			e.p[j*k+i] = v
+			p[j*k+i] = v
 		}
 	}
 	if tr := trace(e.p, k); tr > e.maxTrace {
@@ -391,16 +393,19 @@ const rampStart = 0.95
 
 // gain sets ppsi = P psi and returns lambda + psi' P psi.
 func (e *Estimator) gain(lam float64) float64 {
-	k := len(e.psi)
+	psi := e.psi
+	k := len(psi)
+	pp := e.ppsi[:k]
 	s := lam
-	for i := range k {
+	for i := range pp {
 		row := e.p[i*k : (i+1)*k]
+		row = row[:len(psi)]
 		v := 0.0
 		for j, p := range row {
-			v += p * e.psi[j]
+			v += p * psi[j]
 		}
-		e.ppsi[i] = v
-		s += e.psi[i] * v
+		pp[i] = v
+		s += psi[i] * v
 	}
 	return s
 }
