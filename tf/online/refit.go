@@ -24,7 +24,11 @@ type RefitFunc func(ctx context.Context, m tf.Model, window map[string][]float64
 // gives the defaults.
 type RefitSettings struct {
 	// Window is the number of latest samples kept and handed to each
-	// refit. Zero means 2000.
+	// refit. Zero means 2000: about 100 residuals for each of up to 20
+	// coefficients, and a batch fit of well under a second (a window
+	// long enough for the fit's standard errors to be small, short
+	// enough to follow a plant that drifts over days of minute samples;
+	// choose it from the plant's own time scales).
 	Window int
 	// Every is the cadence: a refit starts once Window samples have been
 	// added and then every Every samples. A refit that is due while the

@@ -60,7 +60,10 @@ type Settings struct {
 	// ridge of 1e-9 of its largest diagonal entry, so that a direction
 	// the warm-up did not excite stays finite), which is the covariance
 	// recursion least squares would have had from the first sample.
-	// Zero means 10 per free coefficient, at least 20.
+	// Zero means 10 per free coefficient, at least 20: the rule of thumb
+	// of ten observations per estimated coefficient for a least-squares
+	// information matrix that is well determined (common practice), so
+	// that the first updates are not steps of an ill-conditioned P.
 	Warmup int
 	// MaxTrace bounds the trace of P: when an update leaves it larger,
 	// P is scaled down to it (counted in Counts.Bounded). Without a
