@@ -77,6 +77,7 @@ type Estimator struct {
 	ins     []inputTerm
 	ar, ma  *polyMap
 	checks  []*polyMap // polynomials the stability projection guards
+	free    []*polyMap // polynomials with a free coefficient
 	buf     []float64  // scratch of stable
 
 	// hist holds the recursive signals, H rows of ns values: row j is
@@ -279,6 +280,10 @@ func (e *Estimator) build() error {
 	if err := e.checkNoise(); err != nil {
 		return err
 	}
+	for _, it := range e.ins {
+		e.free = appendFree(e.free, it.num, it.den)
+	}
+	e.free = appendFree(e.free, e.ma, e.ar)
 	e.h = deg + 1
 	e.ns = 5*len(e.ins) + 5
 	for i := range e.ins {
@@ -327,6 +332,16 @@ func (e *Estimator) checkNoise() error {
 		e.checks = append(e.checks, e.ma)
 	}
 	return nil
+}
+
+// appendFree appends the polynomials with a free coefficient to dst.
+func appendFree(dst []*polyMap, ms ...*polyMap) []*polyMap {
+	for _, m := range ms {
+		if m.free() {
+			dst = append(dst, m)
+		}
+	}
+	return dst
 }
 
 // scratch returns a buffer of at least m values for stable.

@@ -180,6 +180,9 @@ func (m *polyMap) sum() float64 {
 // overwritten. A zero leading coefficient c_r lowers the degree (a pole
 // at z = 0); a zero c_0 is not stable.
 func stable(c, buf []float64) bool {
+	if len(c) == 2 && c[1] != 0 {
+		return c[0] != 0 && math.Abs(c[1]/c[0]) < 1
+	}
 	r := len(c) - 1
 	for r > 0 && c[r] == 0 {
 		r--

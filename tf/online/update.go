@@ -72,13 +72,13 @@ func (e *Estimator) checkSample(x []float64, y float64) error {
 		return &SeriesError{Op: "online.Estimator.Update", Series: "inputs", Kind: errs.ErrLength, Have: len(x), Need: len(e.series),
 			Detail: "one value per input series, in the order of Estimator.Inputs()"}
 	}
-	bad := func(v float64) bool { return math.IsNaN(v) || math.IsInf(v, 0) || math.Abs(v) > MaxMagnitude }
+	// !(|v| <= MaxMagnitude) is true for NaN, infinities and too large.
 	for i, v := range x {
-		if bad(v) {
+		if !(math.Abs(v) <= MaxMagnitude) {
 			return e.sampleErr(e.series[i], v)
 		}
 	}
-	if bad(y) {
+	if !(math.Abs(y) <= MaxMagnitude) {
 		return e.sampleErr(e.output, y)
 	}
 	return nil
@@ -349,15 +349,15 @@ func (e *Estimator) step(eps float64) {
 	for i, v := range pp {
 		e.x[i] += v * inv * eps
 	}
+	// The full matrix row by row; (pp_i pp_j) inv is the same number
+	// for (i, j) and (j, i), so P stays exactly symmetric.
 	p := e.p[:k*k]
 	for i := range k {
-		a := pp[i] * inv
+		a := pp[i]
 		row := p[i*k : (i+1)*k]
 		row = row[:len(pp)]
-		for j := i; j < len(row); j++ {
-			v := (row[j] - a*pp[j]) * il
-			row[j] = v
-			p[j*k+i] = v
+		for j, v := range row {
+			row[j] = (v - a*pp[j]*inv) * il
 		}
 	}
 	if tr := trace(e.p, k); tr > e.maxTrace {
@@ -413,19 +413,8 @@ func (e *Estimator) gain(lam float64) float64 {
 // evalPolys evaluates every polynomial with a free coefficient at the
 // current estimates.
 func (e *Estimator) evalPolys() {
-	for i := range e.ins {
-		if e.ins[i].num.free() {
-			e.ins[i].num.eval(e.x)
-		}
-		if e.ins[i].den.free() {
-			e.ins[i].den.eval(e.x)
-		}
-	}
-	if e.ma.free() {
-		e.ma.eval(e.x)
-	}
-	if e.ar.free() {
-		e.ar.eval(e.x)
+	for _, m := range e.free {
+		m.eval(e.x)
 	}
 }
 
