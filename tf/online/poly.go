@@ -16,6 +16,12 @@ type termMap struct {
 	value float64
 }
 
+// freeTerm is a free term of an affine polynomial: sign * x[k] B^power.
+type freeTerm struct {
+	power, k int
+	sign     float64
+}
+
 // factorMap is one factor (sum of terms)^exp.
 type factorMap struct {
 	terms []termMap
@@ -41,7 +47,7 @@ type polyMap struct {
 	// base and terms: an affine polynomial's fixed part and its free
 	// terms, so that eval only adds the terms.
 	base  []float64
-	terms []termMap
+	terms []freeTerm
 	// scratch of the dual expansion: a factor's base (fc, fd) and a
 	// product (pc, pd).
 	fc, fd, pc, pd []float64
@@ -90,7 +96,7 @@ func newPolyMap(p tf.Poly, index func(tf.Coef) int, x []float64) *polyMap {
 			for _, t := range f.terms {
 				if t.l >= 0 {
 					m.d[t.l*n+t.power] += t.sign
-					m.terms = append(m.terms, t)
+					m.terms = append(m.terms, freeTerm{power: t.power, k: t.k, sign: t.sign})
 				} else {
 					m.base[t.power] += t.sign * t.value
 				}
@@ -107,9 +113,12 @@ func (m *polyMap) free() bool { return len(m.params) > 0 }
 // eval sets c (and, for a product, d) at the parameter vector x.
 func (m *polyMap) eval(x []float64) {
 	if m.affine {
-		copy(m.c, m.base)
+		c := m.c
+		for j, v := range m.base[:len(c)] {
+			c[j] = v
+		}
 		for _, t := range m.terms {
-			m.c[t.power] += t.sign * x[t.k]
+			c[t.power] += t.sign * x[t.k]
 		}
 		return
 	}
