@@ -112,16 +112,21 @@ func (m *polyMap) free() bool { return len(m.params) > 0 }
 
 // eval sets c (and, for a product, d) at the parameter vector x.
 func (m *polyMap) eval(x []float64) {
-	if m.affine {
-		c := m.c
-		for j, v := range m.base[:len(c)] {
-			c[j] = v
-		}
-		for _, t := range m.terms {
-			c[t.power] += t.sign * x[t.k]
-		}
+	if !m.affine {
+		m.evalProduct(x)
 		return
 	}
+	c := m.c
+	for j, v := range m.base[:len(c)] {
+		c[j] = v
+	}
+	for _, t := range m.terms {
+		c[t.power] += t.sign * x[t.k]
+	}
+}
+
+// evalProduct is eval for a product of factors: the dual expansion.
+func (m *polyMap) evalProduct(x []float64) {
 	n := m.deg + 1
 	clear(m.c)
 	clear(m.d)
@@ -190,7 +195,7 @@ func (m *polyMap) sum() float64 {
 // at z = 0); a zero c_0 is not stable.
 func stable(c, buf []float64) bool {
 	if len(c) == 2 && c[1] != 0 {
-		return c[0] != 0 && math.Abs(c[1]/c[0]) < 1
+		return math.Abs(c[1]) < math.Abs(c[0]) // |k| < 1 without the division
 	}
 	r := len(c) - 1
 	for r > 0 && c[r] == 0 {

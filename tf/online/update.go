@@ -396,15 +396,29 @@ func (e *Estimator) gain(lam float64) float64 {
 	psi := e.psi
 	k := len(psi)
 	pp := e.ppsi[:k]
-	s := lam
-	for i := range pp {
-		row := e.p[i*k : (i+1)*k]
-		row = row[:len(psi)]
-		v := 0.0
-		for j, p := range row {
-			v += p * psi[j]
+	p := e.p[:k*k]
+	i := 0
+	for ; i+2 <= k; i += 2 { // two rows at a time: two independent sums
+		r0, r1 := p[i*k:(i+1)*k], p[(i+1)*k:(i+2)*k]
+		r0, r1 = r0[:len(psi)], r1[:len(psi)]
+		var v0, v1 float64
+		for j, q := range psi {
+			v0 += r0[j] * q
+			v1 += r1[j] * q
 		}
-		pp[i] = v
+		pp[i], pp[i+1] = v0, v1
+	}
+	if i < k {
+		r0 := p[i*k : (i+1)*k]
+		r0 = r0[:len(psi)]
+		v0 := 0.0
+		for j, q := range psi {
+			v0 += r0[j] * q
+		}
+		pp[i] = v0
+	}
+	s := lam
+	for i, v := range pp {
 		s += psi[i] * v
 	}
 	return s
