@@ -77,7 +77,12 @@ type Estimator struct {
 	ins     []inputTerm
 	ar, ma  *polyMap
 	checks  []*polyMap // polynomials the stability projection guards
-	free    []*polyMap // polynomials with a free coefficient
+	// affine lists the free terms of every affine polynomial, grouped
+	// by coefficient, and products the polynomials with a free
+	// coefficient that are products of factors: evalPolys sets their
+	// coefficients at the estimates.
+	affine   []affineOp
+	products []*polyMap
 	buf     []float64  // scratch of stable
 
 	// hist holds the recursive signals, H rows of ns values: row j is
@@ -281,9 +286,11 @@ func (e *Estimator) build() error {
 		return err
 	}
 	for _, it := range e.ins {
-		e.free = appendFree(e.free, it.num, it.den)
+		e.addFree(it.num)
+		e.addFree(it.den)
 	}
-	e.free = appendFree(e.free, e.ma, e.ar)
+	e.addFree(e.ma)
+	e.addFree(e.ar)
 	e.h = deg + 1
 	e.ns = 5*len(e.ins) + 5
 	for i := range e.ins {
@@ -334,14 +341,35 @@ func (e *Estimator) checkNoise() error {
 	return nil
 }
 
-// appendFree appends the polynomials with a free coefficient to dst.
-func appendFree(dst []*polyMap, ms ...*polyMap) []*polyMap {
-	for _, m := range ms {
-		if m.free() {
-			dst = append(dst, m)
+// affineOp sets one coefficient of an affine polynomial from one free
+// term: *c = (first ? base : *c) + sign x[k].
+type affineOp struct {
+	c     *float64
+	base  float64
+	k     int
+	sign  float64
+	first bool
+}
+
+// addFree records how evalPolys sets m's coefficients, when m has a
+// free coefficient: its free terms grouped by power for an affine
+// polynomial, m itself for a product.
+func (e *Estimator) addFree(m *polyMap) {
+	switch {
+	case !m.free():
+	case !m.affine:
+		e.products = append(e.products, m)
+	default:
+		for j := range m.c {
+			first := true
+			for _, t := range m.terms {
+				if t.power == j {
+					e.affine = append(e.affine, affineOp{c: &m.c[j], base: m.base[j], k: t.k, sign: t.sign, first: first})
+					first = false
+				}
+			}
 		}
 	}
-	return dst
 }
 
 // scratch returns a buffer of at least m values for stable.

@@ -427,8 +427,18 @@ func (e *Estimator) gain(lam float64) float64 {
 // evalPolys evaluates every polynomial with a free coefficient at the
 // current estimates.
 func (e *Estimator) evalPolys() {
-	for _, m := range e.free {
-		m.eval(e.x)
+	x := e.x
+	for _, op := range e.affine {
+		v := op.sign * x[op.k]
+		if op.first {
+			v += op.base
+		} else {
+			v += *op.c
+		}
+		*op.c = v
+	}
+	for _, m := range e.products {
+		m.eval(x)
 	}
 }
 
