@@ -349,15 +349,16 @@ func (e *Estimator) step(eps float64) {
 	for i, v := range pp {
 		e.x[i] += v * inv * eps
 	}
-	// The full matrix row by row; (pp_i pp_j) inv is the same number
-	// for (i, j) and (j, i), so P stays exactly symmetric.
+	// The upper triangle, mirrored: P stays exactly symmetric.
 	p := e.p[:k*k]
 	for i := range k {
-		a := pp[i]
+		a := pp[i] * inv
 		row := p[i*k : (i+1)*k]
 		row = row[:len(pp)]
-		for j, v := range row {
-			row[j] = (v - a*pp[j]*inv) * il
+		for j := i; j < len(row); j++ {
+			v := (row[j] - a*pp[j]) * il
+			row[j] = v
+			p[j*k+i] = v
 		}
 	}
 	if tr := trace(e.p, k); tr > e.maxTrace {
