@@ -446,6 +446,12 @@ func (e *Estimator) evalPolys() {
 // stableAll reports whether every guarded polynomial is stable.
 func (e *Estimator) stableAll() bool {
 	for _, m := range e.checks {
+		if c := m.c; len(c) == 2 && c[1] != 0 { // first order, as in stable
+			if !(math.Abs(c[1]) < math.Abs(c[0])) {
+				return false
+			}
+			continue
+		}
 		if !stable(m.c, e.buf) {
 			return false
 		}
