@@ -38,7 +38,7 @@
 // squares) because PLR converges only under a strictly-positive-real
 // condition on the noise (and, for a model with separate input
 // denominators, the Box-Jenkins structure, on those denominators too;
-// Ljung & Soderstrom 1983, sec. 4.5), while RPEM converges to a local
+// Ljung & Soderstrom 1983, ch. 4), while RPEM converges to a local
 // minimum of the same prediction-error criterion that the batch fit
 // minimises: the recursive estimates of a stationary record approach
 // the batch fit's, the property the tests check. Its cost is a second
@@ -46,7 +46,7 @@
 //
 // The gradient is a sum of lagged values of a few filtered signals,
 // each computed recursively with the current estimates (the recursive
-// approximation of L&S, sec. 3.7):
+// approximation of L&S, ch. 3):
 //
 //	s_i  = B^b_i D_i(B) x_i / delta_i   d eps/d omega_i,j = -(phi/theta) B^j s_i
 //	q_i  = u_i / delta_i                d eps/d delta_i,j = +(phi/theta) B^j q_i
@@ -120,11 +120,12 @@
 // References:
 //
 // L. Ljung and T. Soderstrom, Theory and Practice of Recursive
-// Identification, MIT Press, 1983: ch. 3 (RPEM, PLR), sec. 4.5
-// (convergence of PLR), sec. 5.6 (forgetting and its schedule), ch. 6
-// (projection into the stability region).
+// Identification, MIT Press, 1983: ch. 3 (RPEM, PLR), ch. 4
+// (convergence analysis, PLR's positive-real condition), ch. 5 and 6
+// (forgetting and its schedule, projection into the stability region).
+// Chapter numbers from memory.
 //
 // K. J. Astrom and B. Wittenmark, Computer-Controlled Systems, 3rd
-// ed., Prentice Hall, 1997, sec. 3.2 (the Jury and Schur-Cohn
-// stability tests).
+// ed., Prentice Hall, 1997, ch. 3 (the Jury and Schur-Cohn stability
+// tests; chapter from memory).
 package online

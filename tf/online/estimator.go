@@ -83,7 +83,7 @@ type Estimator struct {
 	// coefficients at the estimates.
 	affine   []affineOp
 	products []*polyMap
-	buf     []float64  // scratch of stable
+	buf      []float64 // scratch of stable
 
 	// hist holds the recursive signals, H rows of ns values: row j is
 	// lag j (row 0 the current sample).

@@ -189,8 +189,8 @@ func (m *polyMap) sum() float64 {
 // with k = c_r/c_0, the polynomial is stable exactly when |k| < 1 and
 // the polynomial of degree r-1 with coefficients c_j - k c_(r-j) is
 // stable (Astrom & Wittenmark, Computer-Controlled Systems, 3rd ed.,
-// sec. 3.2, the Jury/Schur-Cohn test; the reflection coefficients of
-// the Levinson recursion). buf holds at least len(c) values and is
+// ch. 3, the Jury/Schur-Cohn test, chapter from memory; the reflection
+// coefficients of the Levinson recursion). buf holds at least len(c) values and is
 // overwritten. A zero leading coefficient c_r lowers the degree (a pole
 // at z = 0); a zero c_0 is not stable.
 func stable(c, buf []float64) bool {

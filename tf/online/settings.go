@@ -50,7 +50,7 @@ type Settings struct {
 	// counting updates: the information gathered while the estimates
 	// were still far from their values (with gradients computed at
 	// those values) is forgotten quickly, and the estimates settle
-	// with the full memory later (Ljung & Soderstrom 1983, sec. 5.6,
+	// with the full memory later (Ljung & Soderstrom 1983, ch. 5,
 	// the forgetting factor that tends to one). Zero means no ramp.
 	// Use it when the start model is not a fit of the same plant.
 	Ramp int

@@ -325,7 +325,7 @@ func (e *Estimator) startP() {
 }
 
 // step is the recursive prediction-error update with forgetting
-// lambda (Ljung & Soderstrom 1983, eq. 3.128 in its least-squares
+// lambda (Ljung & Soderstrom 1983, ch. 3, in its least-squares
 // form, P = R^-1 / gamma):
 //
 //	L = P psi / (lambda + psi' P psi),  x += L eps,
