@@ -83,7 +83,10 @@ type Estimator struct {
 	// coefficients at the estimates.
 	affine   []affineOp
 	products []*polyMap
-	buf      []float64 // scratch of stable
+	// grads and chains: how gradient sums psi (see addGrad).
+	grads  []gradTerm
+	chains []chainTerm
+	buf    []float64 // scratch of stable
 
 	// hist holds the recursive signals, H rows of ns values: row j is
 	// lag j (row 0 the current sample).
@@ -299,6 +302,12 @@ func (e *Estimator) build() error {
 	}
 	b := 5 * len(e.ins)
 	e.n, e.e, e.nt, e.et, e.g = b, b+1, b+2, b+3, b+4
+	for _, it := range e.ins {
+		e.addGrad(it.num, it.st, 1)
+		e.addGrad(it.den, it.qt, -1)
+	}
+	e.addGrad(e.ma, e.et, 1)
+	e.addGrad(e.ar, e.nt, -1)
 	e.hist = make([]float64, e.h*e.ns)
 	e.buf = make([]float64, tf.MaxDegree+1)
 	e.psi, e.ppsi = make([]float64, k), make([]float64, k)

@@ -258,13 +258,45 @@ func (e *Estimator) gradient() {
 	if e.constK >= 0 {
 		e.psi[e.constK] += e.hist[e.g]
 	}
-	for i := range e.ins {
-		it := &e.ins[i]
-		e.chain(it.num, it.st, 1)
-		e.chain(it.den, it.qt, -1)
+	h := e.hist
+	for _, g := range e.grads { // the affine polynomials: constant derivatives
+		e.psi[g.k] += g.w * h[g.at]
 	}
-	e.chain(e.ma, e.et, 1)
-	e.chain(e.ar, e.nt, -1)
+	for _, c := range e.chains { // the products: derivatives at the estimates
+		e.chain(c.m, c.sig, c.sign)
+	}
+}
+
+// gradTerm is one constant term of the gradient: psi_k += w hist[at].
+type gradTerm struct {
+	k, at int
+	w     float64
+}
+
+// chainTerm is a product polynomial whose derivatives chain sums.
+type chainTerm struct {
+	m    *polyMap
+	sig  int
+	sign float64
+}
+
+// addGrad records how gradient sums the terms of polynomial m, whose
+// coefficient of B^j multiplies signal sig at lag j with the sign.
+func (e *Estimator) addGrad(m *polyMap, sig int, sign float64) {
+	switch {
+	case !m.free():
+	case !m.affine:
+		e.chains = append(e.chains, chainTerm{m, sig, sign})
+	default:
+		n := m.deg + 1
+		for l, k := range m.params {
+			for j, d := range m.d[l*n : (l+1)*n] {
+				if d != 0 {
+					e.grads = append(e.grads, gradTerm{k: k, at: j*e.ns + sig, w: sign * d})
+				}
+			}
+		}
+	}
 }
 
 // chain adds sign * sum_j (d c_j / d x_k) sig_(t-j) to psi_k for every
