@@ -230,8 +230,12 @@ func (e *Estimator) filter(grad bool) {
 // a_0 and returns it.
 func (e *Estimator) ar1(o int, v float64, a []float64) float64 {
 	h, ns := e.hist, e.ns
-	for j := 1; j < len(a); j++ {
-		v -= a[j] * h[j*ns+o]
+	if len(a) == 2 { // first order, the usual case, without the loop
+		v -= a[1] * h[ns+o]
+	} else {
+		for j := 1; j < len(a); j++ {
+			v -= a[j] * h[j*ns+o]
+		}
 	}
 	if a[0] != 1 {
 		v /= a[0]
@@ -243,9 +247,13 @@ func (e *Estimator) ar1(o int, v float64, a []float64) float64 {
 // arma sets signal o's current value to (b(B) x)_t filtered by 1/a(B).
 func (e *Estimator) arma(o, x int, b, a []float64) {
 	h, ns := e.hist, e.ns
-	v := 0.0
-	for j, c := range b {
-		v += c * h[j*ns+x]
+	var v float64
+	if len(b) == 2 {
+		v = b[0]*h[x] + b[1]*h[ns+x]
+	} else {
+		for j, c := range b {
+			v += c * h[j*ns+x]
+		}
 	}
 	e.ar1(o, v, a)
 }
