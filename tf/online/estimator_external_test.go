@@ -52,8 +52,10 @@ func distance(got []online.Param, batch []tf.Param) float64 {
 //	perturbed  2.58       0.49        bound 5, 1
 //
 // The standard errors from P agree with the batch fit's sigma2 (J'J)^-1
-// within 3 % at n = 10^4 (asserted within 10 %: both are asymptotic
-// approximations of one covariance).
+// at n = 10^4 within 2.3 % from the true start and 7.1 % from the
+// perturbed one, whose ramp forgot the first samples' information
+// (asserted within 10 %: both are asymptotic approximations of one
+// covariance).
 func TestEstimatorConvergesToBatch(t *testing.T) {
 	m := mustModel(t, eightSpec)
 	for _, tc := range []struct {
@@ -83,11 +85,15 @@ func TestEstimatorConvergesToBatch(t *testing.T) {
 				if n < 10000 {
 					return
 				}
+				worst := 0.0
 				for i, p := range batch {
-					if r := got[i].SE / p.SE; !(math.Abs(r-1) <= 0.1) {
+					r := got[i].SE / p.SE
+					worst = math.Max(worst, math.Abs(r-1))
+					if !(math.Abs(r-1) <= 0.1) {
 						t.Errorf("%s: SE %.4g against the batch fit's %.4g", p.Name, got[i].SE, p.SE)
 					}
 				}
+				t.Logf("standard errors within %.1f %% of the batch fit's", 100*worst)
 			})
 		}
 	}
