@@ -100,7 +100,7 @@
 //
 // Update does not allocate. For the eight-coefficient model of
 // BenchmarkUpdate (two inputs with first-order terms, a constant,
-// ARMA(1,1) noise) an update took 165-168 ns on one core of a 2-core
+// ARMA(1,1) noise) an update took 165-173 ns on one core of a 2-core
 // virtual machine shared with other work (best-ns/op: the fastest blocks
 // of 1024 updates; ns/op, the mean, was 300-800 ns under a load average
 // of 8): the two O(k^2) products of the covariance recursion and about
