@@ -34,6 +34,7 @@ var house = map[string][]string{
 	"tf/monitor":    {"internal/"},
 	"tf/fleet":      {"internal/"},
 	"tf/predict":    {"tf", "arma", "internal/"},
+	"tf/online":     {"tf", "arma", "internal/"},
 	"parse":         {"tf", "internal/errs"},
 	"examples/":     {"tf", "tf/", "arma", "ccf", "prewhiten", "parse", "examples/"},
 }
