@@ -11,6 +11,7 @@ import (
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/online"
 )
 
@@ -30,7 +31,7 @@ func sum(x []float64) float64 {
 
 // distance returns the largest |recursive - batch| / batch SE over the
 // parameters.
-func distance(got []online.Param, batch []tf.Param) float64 {
+func distance(got []online.Param, batch []fit.Param) float64 {
 	d := 0.0
 	for i, p := range batch {
 		d = math.Max(d, math.Abs(got[i].Value-p.Value)/p.SE)

@@ -8,6 +8,7 @@ import (
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 )
 
 // eightSpec is the model of the convergence, tracking and speed checks:
@@ -64,7 +65,7 @@ func record(t testing.TB, m tf.Model, n int, sigma float64, seed uint64) map[str
 // batchFit is the one place where this package's tests call the batch
 // estimation API (tf.Fit, renamed fit.Model when estimation moves to
 // tf/fit): it returns the fitted model and its parameters.
-func batchFit(t testing.TB, m tf.Model, data map[string][]float64) (tf.Model, []tf.Param) {
+func batchFit(t testing.TB, m tf.Model, data map[string][]float64) (tf.Model, []fit.Param) {
 	t.Helper()
 	fm, ps, err := fitParams(context.Background(), m, data)
 	if err != nil {
@@ -75,8 +76,8 @@ func batchFit(t testing.TB, m tf.Model, data map[string][]float64) (tf.Model, []
 
 // fitParams is the call of the batch fit itself (tf.Fit, to become
 // fit.Model): the fitted model and its parameters.
-func fitParams(ctx context.Context, m tf.Model, data map[string][]float64) (tf.Model, []tf.Param, error) {
-	est, err := tf.Fit(ctx, m, data, nil)
+func fitParams(ctx context.Context, m tf.Model, data map[string][]float64) (tf.Model, []fit.Param, error) {
+	est, err := fit.Model(ctx, m, data, nil)
 	if err != nil {
 		return tf.Model{}, nil, err
 	}

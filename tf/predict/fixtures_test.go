@@ -8,6 +8,7 @@ import (
 
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/predict"
 )
 
@@ -26,21 +27,21 @@ var cases = []struct {
 	name string
 	spec string // free coefficients
 	true string // the simulated model
-	fit  tf.FitSettings
+	fit  fit.Settings
 }{
 	{"two inputs ARMA(1,1)",
 		"y = c + (w0 + w1 B) / (1 - d1 B - d2 B^2) B^2 u1 + (v0 + v1 B) / (1 - e1 B - e2 B^2) B u2 + (1 + t1 B) / (1 - p1 B) a" +
 			" where c ~ 1.4, w0 ~ 0.7, w1 ~ 0.2, d1 ~ 1.1, d2 ~ -0.3, v0 ~ -0.4, v1 ~ 0.1, e1 ~ 0.4, e2 ~ 0.1, t1 ~ 0.3, p1 ~ 0.5",
-		benchSpec, tf.FitSettings{}},
+		benchSpec, fit.Settings{}},
 	{"ARIMA(1,1,1) with a differenced input",
 		"(1 - B) y = w0 / (1 - d1 B) B ((1 - B) u1) + (1 - t1 B) / (1 - p1 B) a where w0 ~ 1.5, d1 ~ 0.6, t1 ~ 0.2, p1 ~ 0.4",
-		"(1 - B) y = 2 / (1 - 0.7 B) B ((1 - B) u1) + (1 - 0.3 B) / (1 - 0.5 B) a", tf.FitSettings{}},
+		"(1 - B) y = 2 / (1 - 0.7 B) B ((1 - B) u1) + (1 - 0.3 B) / (1 - 0.5 B) a", fit.Settings{}},
 	{"AR(2) noise, first index moved",
 		"y = c + w0 / (1 - d1 B) B^3 u1 + 1 / (1 - p1 B - p2 B^2) a where c ~ 4, w0 ~ 0.4, d1 ~ 0.7, p1 ~ 0.5, p2 ~ 0.1",
-		"y = 5 + 0.5 / (1 - 0.8 B) B^3 u1 + 1 / (1 - 0.6 B - 0.2 B^2) a", tf.FitSettings{First: 40}},
+		"y = 5 + 0.5 / (1 - 0.8 B) B^3 u1 + 1 / (1 - 0.6 B - 0.2 B^2) a", fit.Settings{First: 40}},
 	{"MA(2) noise, inputs from zero",
 		"y = w0 u1 + (w0b + w1b B) B u2 + (1 + t1 B + t2 B^2) a where w0 ~ 1, w0b ~ 0.5, w1b ~ 0.2, t1 ~ 0.3, t2 ~ 0.1",
-		"y = 1.2 u1 + (0.6 + 0.3 B) B u2 + (1 + 0.5 B + 0.2 B^2) a", tf.FitSettings{ZeroPreSample: true}},
+		"y = 1.2 u1 + (0.6 + 0.3 B) B u2 + (1 + 0.5 B + 0.2 B^2) a", fit.Settings{ZeroPreSample: true}},
 }
 
 // mustModel parses spec or fails the test.
@@ -94,9 +95,9 @@ func record(t testing.TB, spec string, n int, seed uint64) map[string][]float64 
 
 // fitModel fits spec to data with the estimation API: the one place
 // these tests call it (tf.Fit, to be fit.Model).
-func fitModel(t testing.TB, spec string, data map[string][]float64, set tf.FitSettings) *tf.Estimate {
+func fitModel(t testing.TB, spec string, data map[string][]float64, set fit.Settings) *fit.Estimate {
 	t.Helper()
-	e, err := tf.Fit(context.Background(), mustModel(t, spec), data, &set)
+	e, err := fit.Model(context.Background(), mustModel(t, spec), data, &set)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -108,7 +109,7 @@ func fitModel(t testing.TB, spec string, data map[string][]float64, set tf.FitSe
 
 // fromFit builds the predictor of a fitted estimate: its model with the
 // estimates held, its Sigma2 and the fit's start-up (Conditioning).
-func fromFit(t testing.TB, e *tf.Estimate) *predict.Predictor {
+func fromFit(t testing.TB, e *fit.Estimate) *predict.Predictor {
 	t.Helper()
 	p, err := predict.New(e.Held(), e.Sigma2, &predict.Settings{First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
 	if err != nil {
@@ -165,4 +166,13 @@ func polyOf(c ...float64) tf.Poly {
 		f.Terms = append(f.Terms, tf.Term{Neg: v < 0, Coef: tf.Coef{Value: math.Abs(v)}, Power: k})
 	}
 	return tf.Poly{Factors: []tf.Factor{f}}
+}
+
+// TestMaxMagnitudeIsFits: a predictor accepts exactly the samples the
+// fit accepts (its own constant, so that predict need not import the
+// estimator).
+func TestMaxMagnitudeIsFits(t *testing.T) {
+	if predict.MaxMagnitude != fit.MaxMagnitude {
+		t.Errorf("predict.MaxMagnitude %g, fit.MaxMagnitude %g", predict.MaxMagnitude, fit.MaxMagnitude)
+	}
 }

@@ -6,14 +6,15 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/predict"
 )
 
-// batchForecast is the fit's batch forecast (tf.Estimate.Forecast, to be
+// batchForecast is the fit's batch forecast (fit.Estimate.Forecast, to be
 // fit's) of h steps from the end of data with the inputs' futures known.
-func batchForecast(t *testing.T, e *tf.Estimate, data map[string][]float64, h int, future map[string][]float64) *tf.Forecast {
+func batchForecast(t *testing.T, e *fit.Estimate, data map[string][]float64, h int, future map[string][]float64) *fit.Forecast {
 	t.Helper()
-	fc, err := e.Forecast(data, h, &tf.ForecastSettings{Future: future})
+	fc, err := e.Forecast(data, h, &fit.ForecastSettings{Future: future})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -25,7 +26,7 @@ func batchForecast(t *testing.T, e *tf.Estimate, data map[string][]float64, h in
 // largest |mean| plus the largest SE), the target of the issue; the two
 // sum the same terms in nearly the same order, so rounding differences
 // are near 1e-15 of that scale.
-func checkPoints(t *testing.T, what string, got []predict.Point, fc *tf.Forecast) {
+func checkPoints(t *testing.T, what string, got []predict.Point, fc *fit.Forecast) {
 	t.Helper()
 	scale := 0.0
 	for j := range fc.Mean {
@@ -41,7 +42,7 @@ func checkPoints(t *testing.T, what string, got []predict.Point, fc *tf.Forecast
 
 // TestForecastEqualsBatch: after a fitted record's first n samples, the
 // predictor's k-step forecasts for planned inputs equal the batch
-// forecast from those n samples (tf.Estimate.Forecast with the inputs'
+// forecast from those n samples (fit.Estimate.Forecast with the inputs'
 // futures known) to 1e-10, intervals included; a plan shorter than the
 // horizon is held at its last value, an input without a plan at its
 // last value fed.
@@ -87,7 +88,7 @@ func TestForecastEqualsBatch(t *testing.T) {
 // TestMissingOutputs: with the output missing from sample n0 on and the
 // inputs known, the one-step predictions continue from the inputs alone
 // and equal the batch forecast from the last observed sample n0-1 with
-// those inputs as its known future (tf.Estimate.Forecast), intervals
+// those inputs as its known future (fit.Estimate.Forecast), intervals
 // included (they widen by the psi weights); a forecast after the gap
 // continues that batch forecast; an observed output ends the gap.
 func TestMissingOutputs(t *testing.T) {
@@ -130,7 +131,7 @@ func TestMissingOutputs(t *testing.T) {
 			if err := p.Forecast(after, plan); err != nil {
 				t.Fatal(err)
 			}
-			tail := &tf.Forecast{Mean: fc.Mean[gap:], SE: fc.SE[gap:], Lower: fc.Lower[gap:], Upper: fc.Upper[gap:]}
+			tail := &fit.Forecast{Mean: fc.Mean[gap:], SE: fc.SE[gap:], Lower: fc.Lower[gap:], Upper: fc.Upper[gap:]}
 			checkPoints(t, "forecast after the gap", after, tail)
 			i := n0 + gap
 			if _, err := p.Update(row(p, data, i), data["y"][i]); err != nil || p.Missing() != 0 {

@@ -10,9 +10,9 @@ import (
 )
 
 // MaxMagnitude is the largest sample magnitude a predictor accepts, the
-// fit's limit tf.FitMaxMagnitude (1e150): beyond it the states can
+// fit's limit fit.MaxMagnitude (1e150): beyond it the states can
 // overflow float64. Rescale such series (change units).
-const MaxMagnitude = tf.FitMaxMagnitude
+const MaxMagnitude = 1e150
 
 // Point is the prediction of one output sample: the minimum-mean-square
 // prediction Mean, its standard error SE and the interval Lower..Upper
