@@ -142,7 +142,7 @@ func (f *Filter) stationaryCov() bool {
 		}
 	}
 	for it := 0; it < 100; it++ {
-		matMul(W, A, S, r)     // A S
+		matMul(W, A, S, r)      // A S
 		matMulBt(f.dT, W, A, r) // A S A'
 		for i := range S {
 			S[i] += f.dT[i]
