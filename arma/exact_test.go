@@ -1,0 +1,151 @@
+package arma
+
+import (
+	"context"
+	"encoding/json"
+	"math"
+	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
+)
+
+// mlCase is one entry of testdata/arma_ml/ml.json (make_ml.R): R's
+// stats::arima(method = "ML") fit of an R dataset, with the smoothed
+// missing samples from stats::KalmanSmooth.
+type mlCase struct {
+	Y        []*float64 `json:"y"`
+	Order    []int      `json:"order"`
+	Mean     bool       `json:"mean"`
+	Trend    bool       `json:"trend"`
+	Names    []string   `json:"names"`
+	Coef     []float64  `json:"coef"`
+	SE       []float64  `json:"se"`
+	Sigma2   []float64  `json:"sigma2"`
+	LogLik   []float64  `json:"loglik"`
+	NObs     []float64  `json:"nobs"`
+	Missing  []float64  `json:"missing"`
+	Smooth   []float64  `json:"smooth"`
+	SmoothSE []float64  `json:"smooth_se"`
+}
+
+func readML(t *testing.T) map[string]mlCase {
+	var raw map[string]json.RawMessage
+	testutil.ReadJSON(t, "testdata/arma_ml/ml.json", &raw)
+	out := map[string]mlCase{}
+	for k, v := range raw {
+		var c mlCase
+		if err := json.Unmarshal(v, &c); err != nil {
+			t.Fatal(err)
+		}
+		out[k] = c
+	}
+	return out
+}
+
+func (c mlCase) series() []float64 {
+	y := make([]float64, len(c.Y))
+	for i, p := range c.Y {
+		y[i] = math.NaN()
+		if p != nil {
+			y[i] = *p
+		}
+	}
+	return y
+}
+
+// fitML fits the case's model by ExactML and returns the result and the
+// estimates in R's order and signs (ar, ma with R's sign 1 + ma1 B,
+// intercept, trend).
+func fitML(t *testing.T, c mlCase) (*Result, []float64) {
+	y := c.series()
+	o := &FitSettings{Method: ExactML}
+	if c.Trend {
+		x := make([]float64, len(y))
+		for i := range x {
+			x[i] = float64(i)
+		}
+		o.Regressors = [][]float64{x}
+	}
+	res, err := Fit(context.Background(), y, Order{P: c.Order[0], D: c.Order[1], Q: c.Order[2]}, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []float64
+	for _, p := range res.Params {
+		v := p.Value
+		if len(p.Name) > 5 && p.Name[:5] == "theta" {
+			v = -v
+		}
+		got = append(got, v)
+	}
+	return res, got
+}
+
+// TestExactMLAgainstR: estimates, standard errors, log-likelihood,
+// sigma^2 and smoothed missing samples against R's arima(method = "ML")
+// (R 4.2.2 base stats, testdata/arma_ml/make_ml.R) on R's datasets lh
+// (AR(1)), LakeHuron with a linear trend (AR(2)), Nile (ARMA(1,1)),
+// WWWusage (ARIMA(1,1,1)) and presidents (6 NAs; AR(1), ARMA(1,1)),
+// and the same series with stretches set to NA.
+//
+// Tolerances: estimates 1e-4 relative, log-likelihood 1e-6 relative and
+// n.used exactly, as the issue asks; sigma^2 1e-4 relative (it moves
+// with the estimates); standard errors 2e-3 relative (R's come from
+// optimHess, central differences with step 1e-3 on a transformed scale,
+// whose O(h^2) error is about 1e-4..1e-3; ours from steps of 1.2e-4);
+// smoothed missing values and their SEs 1e-4 relative (they move with
+// the estimates; R's SEs rescaled to the library's Sigma2 convention).
+// For WWWusage (d = 1) R uses a diffuse prior of variance 1e6 where we
+// condition on the first sample (the exact diffuse likelihood); the two
+// differ by O(1e-6), so its log-likelihood is held to 1e-6 too.
+func TestExactMLAgainstR(t *testing.T) {
+	for name, c := range readML(t) {
+		t.Run(name, func(t *testing.T) {
+			res, got := fitML(t, c)
+			if len(got) != len(c.Coef) {
+				t.Fatalf("%d estimates, R has %d (%v)", len(got), len(c.Coef), c.Names)
+			}
+			worst, worstSE := 0.0, 0.0
+			for k := range got {
+				worst = math.Max(worst, math.Abs(got[k]-c.Coef[k])/math.Abs(c.Coef[k]))
+				worstSE = math.Max(worstSE, math.Abs(res.Params[k].SE-c.SE[k])/c.SE[k])
+			}
+			t.Logf("largest relative deviation: estimates %.1e, SE %.1e, loglik %.1e", worst, worstSE, math.Abs(res.LogLik-c.LogLik[0])/math.Abs(c.LogLik[0]))
+			for k := range got {
+				if !relClose(got[k], c.Coef[k], 1e-4) {
+					t.Errorf("%s = %.8g, R %.8g", c.Names[k], got[k], c.Coef[k])
+				}
+				if !relClose(res.Params[k].SE, c.SE[k], 2e-3) {
+					t.Errorf("se(%s) = %.6g, R %.6g", c.Names[k], res.Params[k].SE, c.SE[k])
+				}
+			}
+			if !relClose(res.LogLik, c.LogLik[0], 1e-6) {
+				t.Errorf("loglik %.10g, R %.10g", res.LogLik, c.LogLik[0])
+			}
+			if res.NUsed != int(c.NObs[0]) {
+				t.Errorf("NUsed %d, R n.used %v", res.NUsed, c.NObs[0])
+			}
+			if s2 := res.SSQ / float64(res.NUsed); !relClose(s2, c.Sigma2[0], 1e-4) {
+				t.Errorf("SSQ/NUsed %.8g, R sigma2 %.8g", s2, c.Sigma2[0])
+			}
+			if res.Method != ExactML {
+				t.Errorf("Method %v", res.Method)
+			}
+			if len(res.Missing) != len(c.Missing) {
+				t.Fatalf("%d missing, R %d", len(res.Missing), len(c.Missing))
+			}
+			// R scales the smoother's variance by its ML sigma2 =
+			// SSQ/NUsed, we by the library's Sigma2 = SSQ/(NUsed - k).
+			conv := math.Sqrt(float64(res.NUsed) / float64(res.NUsed-len(res.Params)))
+			for i, m := range res.Missing {
+				if m.Index != int(c.Missing[i]) || !relClose(m.Value, c.Smooth[i], 1e-4) || !relClose(m.SE, c.SmoothSE[i]*conv, 1e-4) {
+					t.Errorf("missing %d: %.8g sd %.6g, R at %v: %.8g sd %.6g", m.Index, m.Value, m.SE, c.Missing[i], c.Smooth[i], c.SmoothSE[i])
+				}
+			}
+		})
+	}
+}
+
+func relClose(a, b, rel float64) bool {
+	return math.Abs(a-b) <= rel*math.Max(math.Abs(b), 1e-300)
+}
