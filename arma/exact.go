@@ -68,15 +68,21 @@ const hessStep = 0x1p-13
 // mlProblem is the exact likelihood over the parameter vector of an
 // engine, in its working units. Used by one goroutine.
 type mlProblem struct {
-	e       *engine
-	kf      *kalman.Filter
-	base    []float64   // (y - held regressors)/scale, less the level shift when dd = 0
-	xs      [][]float64 // free regressor columns in working units (nil for held ones)
-	z       []float64   // scratch: base - free regression part
-	std     []float64   // scratch: standardised innovations
-	obs     []int       // indices of the observed samples from Start on
-	mushift float64     // added to the working mean (the shift when dd > 0)
-	evals   int
+	e          *engine
+	kf         *kalman.Filter
+	base       []float64   // (y - held regressors)/scale, less the level shift when dd = 0
+	xs         [][]float64 // free regressor columns in working units (nil for held ones)
+	z          []float64   // scratch: base - free regression part
+	cur        []float64   // the noise series at the last load: base, or z with free regressors
+	std        []float64   // scratch: standardised innovations
+	obs        []int       // indices of the observed samples from Start on
+	mushift    float64     // added to the working mean (the shift when dd > 0)
+	evals      int
+	contiguous bool // no missing sample from Start on
+	// anyMA lets load accept a non-invertible MA polynomial (the exact
+	// likelihood is defined there): the Hessian's stencil around an
+	// estimate on the invertibility boundary may cross it.
+	anyMA bool
 }
 
 // estimateML fits by exact maximum likelihood (the ExactML method of
@@ -277,6 +283,9 @@ func newMLProblem(e *engine, y []float64, o FitSettings) (*mlProblem, error) {
 			run++
 		}
 	}
+	if len(p.obs) > 0 {
+		p.contiguous = p.obs[len(p.obs)-1]-p.obs[0] == len(p.obs)-1
+	}
 	if len(p.obs) == 0 {
 		return nil, &SeriesError{Series: seriesName(o.Name), Kind: ErrShort, Have: n, Need: e.dd + 1, Detail: "no observed sample after " + itoa(e.dd) + " consecutive observed samples to condition the differencing on"}
 	}
@@ -288,16 +297,20 @@ func newMLProblem(e *engine, y []float64, o FitSettings) (*mlProblem, error) {
 func (p *mlProblem) load(x []float64) (float64, error) {
 	e := p.e
 	e.set(x)
-	if e.keepInvertible && !schurStable(e.ma.Coeffs()) {
+	if e.keepInvertible && !p.anyMA && !schurStable(e.ma.Coeffs()) {
 		return 0, errNonInvertible
 	}
 	if err := p.kf.Set(e.ar.Coeffs(), e.ma.Coeffs()); err != nil {
 		return 0, err
 	}
-	copy(p.z, p.base)
+	p.cur = p.base
 	for k, col := range p.xs {
 		if col == nil {
 			continue
+		}
+		if p.cur != nil && &p.cur[0] == &p.base[0] {
+			copy(p.z, p.base)
+			p.cur = p.z
 		}
 		b := x[e.kb[k]]
 		for t, v := range col {
@@ -318,7 +331,7 @@ func (p *mlProblem) stats(x []float64) (kalman.Stats, error) {
 	if err != nil {
 		return kalman.Stats{}, err
 	}
-	st, err := p.kf.Run(p.z, mu, p.std, nil)
+	st, err := p.kf.Run(p.cur, mu, p.std, nil)
 	if err == nil && !(st.SSQ > 0 && st.SSQ < math.Inf(1)) {
 		err = errNonInvertible // a degenerate point: refuse the step
 	}
@@ -344,6 +357,12 @@ func (p *mlProblem) residuals(x, r []float64) error {
 		return err
 	}
 	g := math.Exp(st.SumLogF / float64(2*st.NObs))
+	if p.contiguous {
+		for i, v := range p.std[p.obs[0] : p.obs[0]+len(r)] {
+			r[i] = v * g
+		}
+		return nil
+	}
 	for i, t := range p.obs {
 		r[i] = p.std[t] * g
 	}
@@ -382,9 +401,18 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 }
 
 // hessian returns the central-difference gradient and Hessian of minus
-// the log-likelihood at x (steps hessStep max(|x_k|, 1)), ok false when
-// a point of the stencil cannot be evaluated.
+// the log-likelihood f at x, with steps h_k = hessStep max(|x_k|, 1):
+//
+//	g_i  = (f(+i) - f(-i)) / (2 h_i)
+//	H_ii = (f(+i) - 2 f0 + f(-i)) / h_i^2
+//	H_ij = (f(+i+j) - f(+i) - f(+j) + 2 f0 - f(-i) - f(-j) + f(-i-j)) / (2 h_i h_j)
+//
+// (Abramowitz & Stegun 1964, 25.3.23 and 25.3.27; all O(h^2)), 1 + 2np
+// + np(np-1) evaluations. ok is false when a point of the stencil cannot
+// be evaluated.
 func (p *mlProblem) hessian(x []float64) (g []float64, H *mat.SymDense, ok bool) {
+	p.anyMA = true
+	defer func() { p.anyMA = false }()
 	np := len(x)
 	f0 := p.negLogLik(x)
 	h := make([]float64, np)
@@ -400,15 +428,18 @@ func (p *mlProblem) hessian(x []float64) (g []float64, H *mat.SymDense, ok bool)
 		}
 		return p.negLogLik(xt)
 	}
+	fp, fm := make([]float64, np), make([]float64, np)
 	g = make([]float64, np)
 	H = mat.NewSymDense(np, nil)
 	for i := 0; i < np; i++ {
-		fp, fm := at(i, 1, -1, 0), at(i, -1, -1, 0)
-		g[i] = (fp - fm) / (2 * h[i])
-		H.SetSym(i, i, (fp-2*f0+fm)/(h[i]*h[i]))
+		fp[i], fm[i] = at(i, 1, -1, 0), at(i, -1, -1, 0)
+		g[i] = (fp[i] - fm[i]) / (2 * h[i])
+		H.SetSym(i, i, (fp[i]-2*f0+fm[i])/(h[i]*h[i]))
+	}
+	for i := 0; i < np; i++ {
 		for j := i + 1; j < np; j++ {
-			v := at(i, 1, j, 1) - at(i, 1, j, -1) - at(i, -1, j, 1) + at(i, -1, j, -1)
-			H.SetSym(i, j, v/(4*h[i]*h[j]))
+			v := at(i, 1, j, 1) - fp[i] - fp[j] + 2*f0 - fm[i] - fm[j] + at(i, -1, j, -1)
+			H.SetSym(i, j, v/(2*h[i]*h[j]))
 		}
 	}
 	for i := 0; i < np; i++ {

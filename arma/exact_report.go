@@ -124,7 +124,7 @@ func (p *mlProblem) missing(res *Result, y []float64, o FitSettings, mu float64)
 	if len(idx) == 0 {
 		return nil
 	}
-	fill, vr, _, err := p.kf.Smooth(p.z, mu)
+	fill, vr, _, err := p.kf.Smooth(p.cur, mu)
 	if err != nil {
 		return modelErr("fit of "+seriesName(o.Name), "the smoother failed at the estimates: "+err.Error())
 	}
