@@ -3,7 +3,9 @@ package arma
 import (
 	"context"
 	"encoding/json"
+	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/internal/testutil"
@@ -26,6 +28,8 @@ type mlCase struct {
 	Missing  []float64  `json:"missing"`
 	Smooth   []float64  `json:"smooth"`
 	SmoothSE []float64  `json:"smooth_se"`
+	Pred     []float64  `json:"pred"`
+	PredSE   []float64  `json:"pred_se"`
 }
 
 func readML(t *testing.T) map[string]mlCase {
@@ -146,6 +150,88 @@ func TestExactMLAgainstR(t *testing.T) {
 	}
 }
 
+// TestExactMLForecastAgainstR: forecasts 1..5 steps after the end of
+// each exact-likelihood fit (gaps included) against R's predict on the
+// arima(method = "ML") fit (testdata/arma_ml/make_ml.R), 1e-4 relative:
+// they move with the estimates; R's SEs rescaled to the library's
+// Sigma2 convention (SSQ/(NUsed - k) where R uses SSQ/NUsed).
+func TestExactMLForecastAgainstR(t *testing.T) {
+	for name, c := range readML(t) {
+		t.Run(name, func(t *testing.T) {
+			res, _ := fitML(t, c)
+			var fx [][]float64
+			if c.Trend {
+				col := make([]float64, 5)
+				for h := range col {
+					col[h] = float64(len(c.Y) + h)
+				}
+				fx = [][]float64{col}
+			}
+			fc, err := res.Forecast(5, 0.95, fx)
+			if err != nil {
+				t.Fatal(err)
+			}
+			conv := math.Sqrt(float64(res.NUsed) / float64(res.NUsed-len(res.Params)))
+			for h := range fc.Mean {
+				if !fc.Exact || !relClose(fc.Mean[h], c.Pred[h], 1e-4) || !relClose(fc.SE[h], c.PredSE[h]*conv, 1e-4) {
+					t.Errorf("h=%d: %.8g sd %.6g (exact %v), R %.8g sd %.6g", h+1, fc.Mean[h], fc.SE[h], fc.Exact, c.Pred[h], c.PredSE[h]*conv)
+				}
+			}
+		})
+	}
+}
+
 func relClose(a, b, rel float64) bool {
 	return math.Abs(a-b) <= rel*math.Max(math.Abs(b), 1e-300)
+}
+
+// TestExactMLRefusals: the method's setting is checked, least squares
+// still refuses NaN samples with their index, the exact method refuses
+// infinite samples and a series with no observed sample, and neither
+// modifies the series.
+func TestExactMLRefusals(t *testing.T) {
+	y := []float64{1, 2, math.NaN(), 1.5, 0.7, 1.1, 2.2, 0.3, 1.9, 1.2, 0.8, 1.4}
+	keep := append([]float64(nil), y...)
+	ctx := context.Background()
+	_, err := Fit(ctx, y, Order{P: 1}, &FitSettings{Method: 7})
+	var se *SettingError
+	if !errors.As(err, &se) || se.Setting != "FitSettings.Method" {
+		t.Errorf("Method 7: %T %v", err, err)
+	}
+	_, err = Fit(ctx, y, Order{P: 1}, nil)
+	var sa *SampleError
+	if !errors.As(err, &sa) || sa.Index != 2 {
+		t.Errorf("least squares with NaN: %T %v", err, err)
+	}
+	inf := append([]float64(nil), y...)
+	inf[5] = math.Inf(1)
+	_, err = Fit(ctx, inf, Order{P: 1}, &FitSettings{Method: ExactML})
+	if !errors.As(err, &sa) || sa.Index != 5 {
+		t.Errorf("exact with +Inf: %T %v", err, err)
+	}
+	_, err = Fit(ctx, []float64{math.NaN(), math.NaN(), math.NaN()}, Order{P: 1}, &FitSettings{Method: ExactML})
+	if !errors.Is(err, ErrShort) {
+		t.Errorf("all missing: %T %v", err, err)
+	}
+	res, err := Fit(ctx, y, Order{P: 1}, &FitSettings{Method: ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range y {
+		if y[i] != keep[i] && !(math.IsNaN(y[i]) && math.IsNaN(keep[i])) {
+			t.Fatalf("series modified at %d", i)
+		}
+	}
+	s := res.String()
+	for _, want := range []string{"exact maximum likelihood", "observed information", "missing sample 2: estimate"} {
+		if !strings.Contains(s, want) {
+			t.Errorf("report lacks %q:\n%s", want, s)
+		}
+	}
+	if res.Method.String() != "exact maximum likelihood" || LeastSquares.String() != "conditional least squares" {
+		t.Errorf("Method strings %q %q", res.Method, LeastSquares)
+	}
+	if _, err := res.LjungBox(3); err != nil {
+		t.Errorf("LjungBox on an exact fit with a gap: %v", err)
+	}
 }

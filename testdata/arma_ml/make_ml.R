@@ -10,7 +10,8 @@
 # log-likelihood), sigma2 (R's ML value ssq/n.used), loglik, n.used, and for series with
 # NAs the smoothed values of the missing samples with their standard errors
 # (KalmanSmooth on the model rebuilt by makeARIMA at the estimates, variance times
-# sigma2).
+# sigma2), and predict(fit, n.ahead = 5) forecasts with their standard errors (R's
+# predict runs its Kalman filter over the data, missing samples skipped).
 #
 # The series are R's datasets lh, LakeHuron (with a linear trend 0, 1, ..., 97 as xreg),
 # Nile, WWWusage and presidents (which has 6 NAs), exactly as shipped; the "_gaps" cases
@@ -53,7 +54,11 @@ add <- function(name, y, order, xreg = NULL, mean = TRUE) {
     sm_val <- sapply(miss, function(t) sum(Z * sm$smooth[t, ])) + reg[miss]
     sm_se <- sapply(miss, function(t) sqrt(drop(t(Z) %*% sm$var[t, , ] %*% Z) * fit$sigma2))
   }
+  nx <- if (is.null(xreg)) NULL else length(y) - 1 + 1:5
+  pr <- predict(fit, n.ahead = 5, newxreg = nx)
   cases[[name]] <<- paste0("{",
+    "\"pred\":", num(pr$pred), ",",
+    "\"pred_se\":", num(pr$se), ",",
     "\"y\":", num(y), ",",
     "\"order\":", num(order), ",",
     "\"mean\":", if (mean) "true" else "false", ",",
