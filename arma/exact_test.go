@@ -19,6 +19,7 @@ type mlCase struct {
 	Order    []int      `json:"order"`
 	Mean     bool       `json:"mean"`
 	Trend    bool       `json:"trend"`
+	Seasonal []int      `json:"seasonal"`
 	Names    []string   `json:"names"`
 	Coef     []float64  `json:"coef"`
 	SE       []float64  `json:"se"`
@@ -70,14 +71,18 @@ func fitML(t *testing.T, c mlCase) (*Result, []float64) {
 		}
 		o.Regressors = [][]float64{x}
 	}
-	res, err := Fit(context.Background(), y, Order{P: c.Order[0], D: c.Order[1], Q: c.Order[2]}, o)
+	ord := Order{P: c.Order[0], D: c.Order[1], Q: c.Order[2], SP: c.Seasonal[0], SD: c.Seasonal[1], SQ: c.Seasonal[2]}
+	if ord.SP+ord.SD+ord.SQ > 0 {
+		ord.Period = 12
+	}
+	res, err := Fit(context.Background(), y, ord, o)
 	if err != nil {
 		t.Fatal(err)
 	}
 	var got []float64
 	for _, p := range res.Params {
 		v := p.Value
-		if len(p.Name) > 5 && p.Name[:5] == "theta" {
+		if strings.HasPrefix(p.Name, "theta") || strings.HasPrefix(p.Name, "Theta") {
 			v = -v
 		}
 		got = append(got, v)
@@ -89,7 +94,8 @@ func fitML(t *testing.T, c mlCase) (*Result, []float64) {
 // sigma^2 and smoothed missing samples against R's arima(method = "ML")
 // (R 4.2.2 base stats, testdata/arma_ml/make_ml.R) on R's datasets lh
 // (AR(1)), LakeHuron with a linear trend (AR(2)), Nile (ARMA(1,1)),
-// WWWusage (ARIMA(1,1,1)) and presidents (6 NAs; AR(1), ARMA(1,1)),
+// WWWusage (ARIMA(1,1,1)), presidents (6 NAs; AR(1), ARMA(1,1)) and
+// log(AirPassengers) (the airline model (0,1,1)x(0,1,1)_12),
 // and the same series with stretches set to NA.
 //
 // Tolerances: estimates 1e-4 relative, log-likelihood 1e-6 relative and
@@ -99,6 +105,10 @@ func fitML(t *testing.T, c mlCase) (*Result, []float64) {
 // whose O(h^2) error is about 1e-4..1e-3; ours from steps of 1.2e-4);
 // smoothed missing values and their SEs 1e-4 relative (they move with
 // the estimates; R's SEs rescaled to the library's Sigma2 convention).
+// For the airline model R's reference runs with kappa = 1e8 (at R's
+// default 1e6 its diffuse approximation is 1.2e-5 off in the
+// log-likelihood; make_ml.R) and its SEs, from the kappa = 1e6 fit, are
+// held to 1e-2 (the approximation moves them by 5e-3).
 // For WWWusage (d = 1) R uses a diffuse prior of variance 1e6 where we
 // condition on the first sample (the exact diffuse likelihood); the two
 // differ by O(1e-6), so its log-likelihood is held to 1e-6 too.
@@ -108,6 +118,10 @@ func TestExactMLAgainstR(t *testing.T) {
 			res, got := fitML(t, c)
 			if len(got) != len(c.Coef) {
 				t.Fatalf("%d estimates, R has %d (%v)", len(got), len(c.Coef), c.Names)
+			}
+			seTol := 2e-3
+			if name == "airline" {
+				seTol = 1e-2 // R's SEs at kappa = 1e6: the diffuse approximation moves them 5e-3
 			}
 			worst, worstSE := 0.0, 0.0
 			for k := range got {
@@ -119,7 +133,7 @@ func TestExactMLAgainstR(t *testing.T) {
 				if !relClose(got[k], c.Coef[k], 1e-4) {
 					t.Errorf("%s = %.8g, R %.8g", c.Names[k], got[k], c.Coef[k])
 				}
-				if !relClose(res.Params[k].SE, c.SE[k], 2e-3) {
+				if !relClose(res.Params[k].SE, c.SE[k], seTol) {
 					t.Errorf("se(%s) = %.6g, R %.6g", c.Names[k], res.Params[k].SE, c.SE[k])
 				}
 			}

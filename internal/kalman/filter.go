@@ -276,7 +276,9 @@ func (f *Filter) sandwichAdd(pz []float64, F float64) float64 {
 				v += f.rr[i] * f.rr[j]
 			}
 			if pz != nil {
-				change = math.Max(change, math.Abs(v-P[i*m+j]-pz[i]*pz[j]/F))
+				if d := math.Abs(v - P[i*m+j] - pz[i]*pz[j]/F); d > change || d != d {
+					change = d
+				}
 			}
 			Y[i*m+j] = v
 		}
