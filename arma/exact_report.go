@@ -65,7 +65,9 @@ func (p *mlProblem) report(ctx context.Context, y []float64, o FitSettings, x0, 
 	if err := p.missing(res, y, o, mu); err != nil {
 		return nil, err
 	}
-	return res, searchEnd(ctx, res, lres)
+	err = searchEnd(ctx, res, lres)
+	res.Evals = p.evals
+	return res, err
 }
 
 // uncertainty sets SE, T, SEHessian, Cov and Corr from the inverse of

@@ -88,7 +88,10 @@ type FitSettings struct {
 	// units) and ends with Newton steps on the numerical Hessian of the
 	// log-likelihood (central differences, step 2^-13 max(|x|, 1)), whose
 	// inverse gives the standard errors (the observed information).
-	// Regressor columns must be complete under both methods.
+	// Regressor columns must be complete under both methods; First
+	// applies to the least-squares start only, Tol and MaxIter to both
+	// searches. Result.Evals counts likelihood evaluations (filter
+	// passes) for ExactML.
 	Method Method
 }
 
