@@ -118,9 +118,7 @@ func (f *Filter) run(z []float64, mu float64, std, fvar []float64, rec *recorder
 	}
 	f.initState(z, t0)
 	st := Stats{Start: t0}
-	m := f.m
 	c0 := mu * f.z[0]
-	a, pz, P, zv := f.a, f.pz, f.P, f.z
 	steady := false
 	F := 0.0
 	for t := t0; t < n; t++ {
@@ -131,63 +129,83 @@ func (f *Filter) run(z []float64, mu float64, std, fvar []float64, rec *recorder
 			}
 		}
 		if !steady {
-			F = f.gain(pz)
+			F = f.gain(f.pz)
 		}
-		za := a[0] * zv[0]
-		for j := f.r; j < m; j++ {
-			za += zv[j] * a[j]
-		}
-		y := z[t]
 		if fvar != nil {
 			fvar[t] = F
 		}
-		if math.IsNaN(y) {
-			if std != nil {
-				std[t] = math.NaN()
-			}
-			if rec != nil {
-				rec.missing(t, za, F, pz)
-			}
-			f.predict(c0)
-			f.sandwichAdd(nil, 1)
+		if math.IsNaN(z[t]) {
+			f.skip(t, F, c0, std, rec)
 			steady = false
 			continue
 		}
-		v := y - za - c0
 		if !(F > 0) {
 			return st, &errs.ModelError{Part: "noise model", Problem: "the one-step prediction variance is not positive at sample " + itoa(t)}
 		}
-		st.SSQ += v * v / F
-		st.SumLogF += math.Log(F)
-		st.NObs++
-		if std != nil {
-			std[t] = v / math.Sqrt(F)
-		}
-		k := v / F
-		if rec != nil {
-			rec.observed(t, k, F, pz)
-		}
-		for i := range a {
-			a[i] += pz[i] * k
-		}
-		f.predict(c0)
-		if steady {
-			continue
-		}
-		// Filtered covariance P - pz pz'/F, then T P T' + R R'.
-		for i := 0; i < m; i++ {
-			pi := pz[i] / F
-			row := P[i*m : (i+1)*m]
-			for j := range row {
-				row[j] -= pi * pz[j]
-			}
-		}
-		steady = f.sandwichAdd(pz, F) <= steadyTol*F
+		steady = f.observe(t, z[t], F, c0, steady, std, rec, &st)
 	}
 	if st.NObs == 0 {
 		return st, &errs.SeriesError{Kind: errs.ErrShort, Have: n, Detail: "no observed sample enters the likelihood"}
 	}
 	return st, nil
+}
+
+// za returns Z a, the prediction of the current sample less the
+// constant.
+func (f *Filter) za() float64 {
+	s := f.a[0] * f.z[0]
+	for j := f.r; j < f.m; j++ {
+		s += f.z[j] * f.a[j]
+	}
+	return s
+}
+
+// skip carries the state across the missing sample t (prediction
+// variance F): predict only.
+func (f *Filter) skip(t int, F, c0 float64, std []float64, rec *recorder) {
+	if std != nil {
+		std[t] = math.NaN()
+	}
+	if rec != nil {
+		rec.missing(t, f.za(), F, f.pz)
+	}
+	f.predict(c0)
+	f.sandwichAdd(nil, 1)
+}
+
+// observe updates the state with the observed sample y at t (prediction
+// variance F > 0, gain f.pz), adds its terms to st and predicts the
+// next state; it returns whether the covariance has settled (it stays
+// frozen once steady).
+func (f *Filter) observe(t int, y, F, c0 float64, steady bool, std []float64, rec *recorder, st *Stats) bool {
+	a, pz, P, m := f.a, f.pz, f.P, f.m
+	v := y - f.za() - c0
+	st.SSQ += v * v / F
+	st.SumLogF += math.Log(F)
+	st.NObs++
+	if std != nil {
+		std[t] = v / math.Sqrt(F)
+	}
+	k := v / F
+	if rec != nil {
+		rec.observed(t, k, F, pz)
+	}
+	for i := range a {
+		a[i] += pz[i] * k
+	}
+	f.predict(c0)
+	if steady {
+		return true
+	}
+	// Filtered covariance P - pz pz'/F, then T P T' + R R'.
+	for i := 0; i < m; i++ {
+		pi := pz[i] / F
+		row := P[i*m : (i+1)*m]
+		for j := range row {
+			row[j] -= pi * pz[j]
+		}
+	}
+	return f.sandwichAdd(pz, F) <= steadyTol*F
 }
 
 // steadyStretch carries the state of a model without differencing over
