@@ -327,3 +327,50 @@ func BenchmarkRun(b *testing.B) {
 		_, _ = f.Run(z, 0, nil, nil)
 	}
 }
+
+// TestAR1Closed: for an AR(1) the filter's outputs have closed forms
+// (Harvey 1989, sec. 3.4; Box, Jenkins, Reinsel & Ljung 2016, sec. 5.2):
+// F_0 = 1/(1 - phi^2), F_t = 1 after it, innovations z_t - mu - phi
+// (z_{t-1} - mu), a missing sample's prediction variance 1 + phi^2 one
+// step on, and h-step forecasts mu + phi^h (z_n - mu) with variance
+// sum_{j<h} phi^(2j). Tolerance 1e-12 (rounding).
+func TestAR1Closed(t *testing.T) {
+	phi, mu := 0.6, 2.0
+	z := []float64{2.5, 1.0, 3.0, math.NaN(), 2.2, 1.7}
+	f, err := New([]float64{1, -phi}, []float64{1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	std := make([]float64, len(z))
+	fv := make([]float64, len(z))
+	if _, err := f.Run(z, mu, std, fv); err != nil {
+		t.Fatal(err)
+	}
+	wantF := []float64{1 / (1 - phi*phi), 1, 1, 1, 1 + phi*phi, 1}
+	for i := range z {
+		if math.Abs(fv[i]-wantF[i]) > 1e-12 {
+			t.Errorf("F[%d] = %v, want %v", i, fv[i], wantF[i])
+		}
+	}
+	for _, i := range []int{1, 2, 5} {
+		want := z[i] - mu - phi*(z[i-1]-mu)
+		if math.Abs(std[i]-want) > 1e-12 {
+			t.Errorf("innovation %d = %v, want %v", i, std[i], want)
+		}
+	}
+	if !math.IsNaN(std[3]) {
+		t.Errorf("innovation at the missing sample %v", std[3])
+	}
+	mean, vr, err := f.Forecast(z, mu, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	acc := 0.0
+	for h := 1; h <= 3; h++ {
+		acc += math.Pow(phi, float64(2*(h-1)))
+		want := mu + math.Pow(phi, float64(h))*(z[5]-mu)
+		if math.Abs(mean[h-1]-want) > 1e-12 || math.Abs(vr[h-1]-acc) > 1e-12 {
+			t.Errorf("h=%d: %v var %v, want %v var %v", h, mean[h-1], vr[h-1], want, acc)
+		}
+	}
+}
