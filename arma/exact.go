@@ -400,8 +400,8 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 	return nil
 }
 
-// hessian returns the central-difference gradient and Hessian of minus
-// the log-likelihood f at x, with steps h_k = hessStep max(|x_k|, 1):
+// hessian returns minus the log-likelihood f0 at x and its
+// central-difference gradient and Hessian there, with steps h_k = hessStep max(|x_k|, 1):
 //
 //	g_i  = (f(+i) - f(-i)) / (2 h_i)
 //	H_ii = (f(+i) - 2 f0 + f(-i)) / h_i^2
@@ -410,11 +410,11 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 // (Abramowitz & Stegun 1964, 25.3.23 and 25.3.27; all O(h^2)), 1 + 2np
 // + np(np-1) evaluations. ok is false when a point of the stencil cannot
 // be evaluated.
-func (p *mlProblem) hessian(x []float64) (g []float64, H *mat.SymDense, ok bool) {
+func (p *mlProblem) hessian(x []float64) (f0 float64, g []float64, H *mat.SymDense, ok bool) {
 	p.anyMA = true
 	defer func() { p.anyMA = false }()
 	np := len(x)
-	f0 := p.negLogLik(x)
+	f0 = p.negLogLik(x)
 	h := make([]float64, np)
 	for k := range h {
 		h[k] = hessStep * math.Max(math.Abs(x[k]), 1)
@@ -445,11 +445,11 @@ func (p *mlProblem) hessian(x []float64) (g []float64, H *mat.SymDense, ok bool)
 	for i := 0; i < np; i++ {
 		for j := i; j < np; j++ {
 			if v := H.At(i, j); math.IsNaN(v) || math.IsInf(v, 0) {
-				return g, nil, false
+				return f0, g, nil, false
 			}
 		}
 	}
-	return g, H, !math.IsInf(f0, 0)
+	return f0, g, H, !math.IsInf(f0, 0)
 }
 
 // polish takes Newton steps with the numerical Hessian from the
@@ -464,7 +464,7 @@ func (p *mlProblem) polish(x []float64, converged bool) ([]float64, *mat.SymDens
 	}
 	var hess *mat.SymDense
 	for it := 0; it < 3; it++ {
-		g, H, ok := p.hessian(x)
+		f0, g, H, ok := p.hessian(x)
 		if !ok {
 			break
 		}
@@ -473,7 +473,7 @@ func (p *mlProblem) polish(x []float64, converged bool) ([]float64, *mat.SymDens
 			break
 		}
 		trial, step, ok := newtonStep(x, H, g)
-		if !ok || !(p.negLogLik(trial) <= p.negLogLik(x)) {
+		if !ok || !(p.negLogLik(trial) <= f0) {
 			break
 		}
 		x = trial
