@@ -10,6 +10,7 @@ import (
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/sym"
 )
 
 // Method chooses how Fit, FitNoise and Select estimate a model.
@@ -107,6 +108,7 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 	if err != nil {
 		return nil, err
 	}
+	e.shrinkMA(x0)
 	if !o.AllowNonInvertible && e.narma > 0 {
 		e.set(x0)
 		e.keepInvertible = schurStable(e.ma.Coeffs())
@@ -216,6 +218,34 @@ func clsStart(ctx context.Context, e *engine, yf []float64, noise Noise, diff []
 		return append([]float64(nil), x...), nil
 	}
 	return e.workingUnits(es.seriesUnits(x)), nil
+}
+
+// shrinkMA moves a start whose MA polynomial has a z-plane root of
+// modulus 0.98 or more into the interior: the free MA coefficients are
+// scaled by 0.7 until no root is that close to the unit circle (at most
+// 20 times). A least-squares start on the boundary would otherwise hold
+// the exact-likelihood search there, since its steps may not cross.
+func (e *engine) shrinkMA(x0 []float64) {
+	ks := map[int]bool{}
+	e.ma.Each(func(c *sym.Coef) {
+		for _, r := range e.refs {
+			if r.c == c {
+				ks[r.k] = true
+			}
+		}
+	})
+	if len(ks) == 0 {
+		return
+	}
+	for it := 0; it < 20; it++ {
+		e.set(x0)
+		if bad, err := outside(e.ma.Coeffs(), 0.02); err != nil || len(bad) == 0 {
+			return
+		}
+		for k := range ks {
+			x0[k] *= 0.7
+		}
+	}
 }
 
 // workingUnits is the inverse of seriesUnits.
