@@ -108,8 +108,8 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 	if err != nil {
 		return nil, err
 	}
-	e.shrinkMA(x0)
 	if !o.AllowNonInvertible && e.narma > 0 {
+		e.shrinkMA(x0)
 		e.set(x0)
 		e.keepInvertible = schurStable(e.ma.Coeffs())
 	}
@@ -224,7 +224,8 @@ func clsStart(ctx context.Context, e *engine, yf []float64, noise Noise, diff []
 // modulus 0.98 or more into the interior: the free MA coefficients are
 // scaled by 0.7 until no root is that close to the unit circle (at most
 // 20 times). A least-squares start on the boundary would otherwise hold
-// the exact-likelihood search there, since its steps may not cross.
+// the exact-likelihood search there, since its steps may not cross
+// (unless FitSettings.AllowNonInvertible, where shrinkMA is not used).
 func (e *engine) shrinkMA(x0 []float64) {
 	ks := map[int]bool{}
 	e.ma.Each(func(c *sym.Coef) {

@@ -249,3 +249,32 @@ func TestExactMLRefusals(t *testing.T) {
 		t.Errorf("LjungBox on an exact fit with a gap: %v", err)
 	}
 }
+
+// TestExactMLBoundaryStart: an over-fitted model whose least-squares
+// start has its MA root on the unit circle (AR(1) data, seed 3, fitted
+// as (1,0,1)x(1,0,0)_4 with a gap) still moves: the exact search starts
+// inside and reaches the interior maximum theta1 = -0.6467 (the same
+// likelihood, -87.1314, as the non-invertible solution theta1 = -1/0.6467
+// found with AllowNonInvertible: the exact likelihood is invariant to
+// flipping an MA root, Box, Jenkins, Reinsel & Ljung 2016, sec. 6.4.1).
+// Tolerance 1e-6 relative: both are converged searches.
+func TestExactMLBoundaryStart(t *testing.T) {
+	y, err := Simulate(Model{AR: []float64{0.5}, Sigma2: 1}, 60, &SimSettings{Seed1: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	y[10] = math.NaN()
+	ord := Order{P: 1, Q: 1, SP: 1, Period: 4}
+	in, err := Fit(context.Background(), y, ord, &FitSettings{Method: ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, err := Fit(context.Background(), y, ord, &FitSettings{Method: ExactML, AllowNonInvertible: true, StartValues: map[string]float64{"theta1": -1.5}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	th := in.Params[2].Value
+	if !relClose(in.LogLik, out.LogLik, 1e-6) || !relClose(th, 1/out.Params[2].Value, 1e-4) {
+		t.Errorf("invertible: theta1 %.6g loglik %.8g; flipped: theta1 %.6g loglik %.8g", th, in.LogLik, out.Params[2].Value, out.LogLik)
+	}
+}
