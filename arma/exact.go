@@ -69,17 +69,16 @@ const hessStep = 0x1p-13
 // mlProblem is the exact likelihood over the parameter vector of an
 // engine, in its working units. Used by one goroutine.
 type mlProblem struct {
-	e          *engine
-	kf         *kalman.Filter
-	base       []float64   // (y - held regressors)/scale, less the level shift when dd = 0
-	xs         [][]float64 // free regressor columns in working units (nil for held ones)
-	z          []float64   // scratch: base - free regression part
-	cur        []float64   // the noise series at the last load: base, or z with free regressors
-	std        []float64   // scratch: standardised innovations
-	obs        []int       // indices of the observed samples from Start on
-	mushift    float64     // added to the working mean (the shift when dd > 0)
-	evals      int
-	contiguous bool // no missing sample from Start on
+	e       *engine
+	kf      *kalman.Filter
+	base    []float64   // (y - held regressors)/scale, less the level shift when dd = 0
+	xs      [][]float64 // free regressor columns in working units (nil for held ones)
+	z       []float64   // scratch: base - free regression part
+	cur     []float64   // the noise series at the last load: base, or z with free regressors
+	std     []float64   // scratch: standardised innovations
+	obs     []int       // indices of the observed samples from Start on
+	mushift float64     // added to the working mean (the shift when dd > 0)
+	evals   int
 	// anyMA lets load accept a non-invertible MA polynomial (the exact
 	// likelihood is defined there): the Hessian's stencil around an
 	// estimate on the invertibility boundary may cross it.
@@ -314,9 +313,6 @@ func newMLProblem(e *engine, y []float64, o FitSettings) (*mlProblem, error) {
 			run++
 		}
 	}
-	if len(p.obs) > 0 {
-		p.contiguous = p.obs[len(p.obs)-1]-p.obs[0] == len(p.obs)-1
-	}
 	if len(p.obs) == 0 {
 		return nil, &SeriesError{Series: seriesName(o.Name), Kind: ErrShort, Have: n, Need: e.dd + 1, Detail: "no observed sample after " + itoa(e.dd) + " consecutive observed samples to condition the differencing on"}
 	}
@@ -379,25 +375,20 @@ func (p *mlProblem) negLogLik(x []float64) float64 {
 	return -st.LogLik()
 }
 
-// residuals writes the scaled innovations v_t F_t^(-1/2) (prod
-// F)^(1/(2 NObs)) of the observed samples into r: their sum of squares
-// is NObs times Stats.Objective, minimised at the maximum likelihood.
+// residuals writes the scaled innovations of the observed samples at x
+// into r (kalman.Filter.Scaled): their sum of squares is minimised at
+// the maximum of the likelihood.
 func (p *mlProblem) residuals(x, r []float64) error {
-	st, err := p.stats(x)
+	p.evals++
+	mu, err := p.load(x)
 	if err != nil {
 		return err
 	}
-	g := math.Exp(st.SumLogF / float64(2*st.NObs))
-	if p.contiguous {
-		for i, v := range p.std[p.obs[0] : p.obs[0]+len(r)] {
-			r[i] = v * g
-		}
-		return nil
+	st, err := p.kf.Scaled(r, p.cur, mu)
+	if err == nil && !(st.SSQ > 0 && st.SSQ < math.Inf(1)) {
+		err = errNonInvertible // a degenerate point: refuse the step
 	}
-	for i, t := range p.obs {
-		r[i] = p.std[t] * g
-	}
-	return nil
+	return err
 }
 
 // eval is the lm.Problem Eval: the scaled innovations and, when asked,

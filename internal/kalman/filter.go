@@ -326,3 +326,35 @@ func itoa(v int) string {
 	}
 	return string(b[i:])
 }
+
+// Scaled writes into dst, for the observed samples from Start on in
+// their order, the scaled innovations
+//
+//	e_t = v_t F_t^(-1/2) (prod_s F_s)^(1/(2 NObs)),
+//
+// whose sum of squares is NObs Stats.Objective: minimising it by least
+// squares (Gauss-Newton, Levenberg-Marquardt) maximises the exact
+// likelihood (the approach of Gardner, Harvey & Phillips 1980). dst needs
+// at least as many entries as observed samples from Start on (it is not
+// written beyond them). It returns the Stats of the pass; errors as for
+// Run. Scaled allocates a buffer of len(z) on its first call (and when z
+// grows), nothing after.
+func (f *Filter) Scaled(dst, z []float64, mu float64) (Stats, error) {
+	if cap(f.std) < len(z) {
+		f.std = make([]float64, len(z))
+	}
+	std := f.std[:len(z)]
+	st, err := f.run(z, mu, std, nil, nil)
+	if err != nil {
+		return st, err
+	}
+	g := math.Exp(st.SumLogF / float64(2*st.NObs))
+	i := 0
+	for _, v := range std[st.Start:] {
+		if v == v {
+			dst[i] = v * g
+			i++
+		}
+	}
+	return st, nil
+}

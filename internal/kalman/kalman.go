@@ -23,6 +23,7 @@ type Filter struct {
 	P, X, Y          []float64
 	// doubling scratch, r x r
 	dA, dS, dT []float64
+	std        []float64 // Scaled's innovations, grown on demand
 }
 
 // New returns the filter of phi(B) (diff(B) z_t - mu) = theta(B) a_t for

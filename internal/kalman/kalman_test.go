@@ -374,3 +374,34 @@ func TestAR1Closed(t *testing.T) {
 		}
 	}
 }
+
+// TestScaled: the scaled innovations are the standardised innovations of
+// the observed samples times (prod F)^(1/(2 NObs)), and their mean square
+// is Stats.Objective (the identity LogLik = -NObs/2 (log(2 pi
+// Objective) + 1) of the concentrated likelihood; Harvey 1989, eq.
+// 3.4.10 with sigma^2 concentrated out). No allocation after the first
+// call.
+func TestScaled(t *testing.T) {
+	z := simulate([]float64{1, -0.5}, []float64{1, 0.4}, 1, 300, 9)
+	z[50], z[51], z[200] = math.NaN(), math.NaN(), math.NaN()
+	f, _ := New([]float64{1, -0.5}, []float64{1, 0.4}, nil)
+	dst := make([]float64, len(z))
+	st, err := f.Scaled(dst, z, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ss := 0.0
+	for _, v := range dst[:st.NObs] {
+		ss += v * v
+	}
+	if math.Abs(ss/float64(st.NObs)-st.Objective()) > 1e-12*st.Objective() {
+		t.Errorf("mean square %v, Objective %v", ss/float64(st.NObs), st.Objective())
+	}
+	n := float64(st.NObs)
+	if ll := -n / 2 * (math.Log(2*math.Pi*st.Objective()) + 1); math.Abs(ll-st.LogLik()) > 1e-9*math.Abs(ll) {
+		t.Errorf("loglik from Objective %v, LogLik %v", ll, st.LogLik())
+	}
+	if a := testing.AllocsPerRun(5, func() { _, _ = f.Scaled(dst, z, 1) }); a != 0 {
+		t.Errorf("%v allocations", a)
+	}
+}
