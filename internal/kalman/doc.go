@@ -41,6 +41,17 @@
 // exact arithmetic. Samples before s are left out of the likelihood and
 // are not smoothed.
 //
+// # Use
+//
+// New builds the filter of (ar, ma, diff); Set changes the coefficients
+// during a search. Run returns the likelihood terms (Stats: LogLik,
+// Sigma2, Objective) with, optionally, the standardised innovations and
+// the prediction variances; Scaled returns the innovations whose sum of
+// squares is minimised at the maximum likelihood (for Gauss-Newton
+// searches); Smooth estimates the missing samples; Forecast predicts past
+// the end. A model with inputs calls them on its noise series, the
+// output less the transfer terms and regressors (mu the constant).
+//
 // # Missing samples
 //
 // A NaN sample is skipped exactly: the state is predicted across it and
