@@ -220,9 +220,63 @@ func (f *Filter) steadyStretch(z []float64, t int, c0, F float64, std, fvar []fl
 	for i := range g {
 		g[i] = pz[i] / F
 	}
-	isq := 1 / math.Sqrt(F)
-	ssq := 0.0
 	start := t
+	var ssq float64
+	switch {
+	case r == 2 && fvar == nil:
+		t, ssq = stretch2(z, t, a, g, tc, c0, 1/math.Sqrt(F), std)
+	default:
+		t, ssq = f.stretchN(z, t, a, g, tc, c0, 1/math.Sqrt(F), std)
+		if fvar != nil {
+			for i := start; i < t; i++ {
+				fvar[i] = F
+			}
+		}
+	}
+	cnt := t - start
+	st.SSQ += ssq / F
+	st.SumLogF += float64(cnt) * math.Log(F)
+	st.NObs += cnt
+	return t
+}
+
+// stretch2 is the settled loop for a state of dimension 2 (AR order up
+// to 2, MA order up to 1) with the state held in registers; it returns
+// where it stopped and the sum of squared innovations. The update
+// a' = T (a + g v), v = y - c0 - a_0, is regrouped so that the
+// dependence from one step to the next is one multiply-add:
+//
+//	a_0' = (t_0 - k) a_0 + a_1 + k (y - c0),  k = t_0 g_0 + g_1
+//	a_1' = t_1 (1 - g_0) a_0 + t_1 g_0 (y - c0)
+func stretch2(z []float64, t int, a, g, tc []float64, c0, isq float64, std []float64) (int, float64) {
+	a0, a1 := a[0], a[1]
+	k := tc[0]*g[0] + g[1]
+	A, B, D := tc[0]-k, tc[1]*(1-g[0]), tc[1]*g[0]
+	ssq := 0.0
+	if std != nil {
+		std = std[:len(z)]
+	}
+	for ; t < len(z); t++ {
+		y := z[t]
+		if y != y {
+			break
+		}
+		yc := y - c0
+		v := yc - a0
+		ssq += v * v
+		if std != nil {
+			std[t] = v * isq
+		}
+		a0, a1 = A*a0+(a1+k*yc), B*a0+D*yc
+	}
+	a[0], a[1] = a0, a1
+	return t, ssq
+}
+
+// stretchN is the settled loop for any state dimension.
+func (f *Filter) stretchN(z []float64, t int, a, g, tc []float64, c0, isq float64, std []float64) (int, float64) {
+	r := len(a)
+	ssq := 0.0
 	for ; t < len(z); t++ {
 		y := z[t]
 		if y != y {
@@ -233,20 +287,13 @@ func (f *Filter) steadyStretch(z []float64, t int, c0, F float64, std, fvar []fl
 		if std != nil {
 			std[t] = v * isq
 		}
-		if fvar != nil {
-			fvar[t] = F
-		}
 		a0 := a[0] + g[0]*v
 		for i := 0; i < r-1; i++ {
 			a[i] = tc[i]*a0 + a[i+1] + g[i+1]*v
 		}
 		a[r-1] = tc[r-1] * a0
 	}
-	cnt := t - start
-	st.SSQ += ssq / F
-	st.SumLogF += float64(cnt) * math.Log(F)
-	st.NObs += cnt
-	return t
+	return t, ssq
 }
 
 // gain sets pz = P Z' and returns F = Z P Z'.
