@@ -121,7 +121,7 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 		if _, err := p.stats(x0); err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" cannot be computed at the start values: "+err.Error())
 		}
-		prob := lm.Problem{M: m, N: len(e.names), Eval: p.eval}
+		prob := lm.Problem{M: m, N: len(e.names), Eval: p.eval, WritesAll: true}
 		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")

@@ -396,6 +396,14 @@ func (f *Filter) Scaled(dst, z []float64, mu float64) (Stats, error) {
 		return st, err
 	}
 	g := math.Exp(st.SumLogF / float64(2*st.NObs))
+	if st.NObs == len(z)-st.Start {
+		src := std[st.Start:]
+		d := dst[:len(src)]
+		for i, v := range src {
+			d[i] = v * g
+		}
+		return st, nil
+	}
 	i := 0
 	for _, v := range std[st.Start:] {
 		if v == v {
