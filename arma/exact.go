@@ -107,8 +107,9 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 	if err != nil {
 		return nil, err
 	}
+	e.shrinkInside(e.ar, x0)
 	if !o.AllowNonInvertible && e.narma > 0 {
-		e.shrinkMA(x0)
+		e.shrinkInside(e.ma, x0)
 		e.set(x0)
 		e.keepInvertible = schurStable(e.ma.Coeffs())
 	}
@@ -219,15 +220,16 @@ func clsStart(ctx context.Context, e *engine, yf []float64, noise Noise, diff []
 	return e.workingUnits(es.seriesUnits(x)), nil
 }
 
-// shrinkMA moves a start whose MA polynomial has a z-plane root of
-// modulus 0.98 or more into the interior: the free MA coefficients are
-// scaled by 0.7 until no root is that close to the unit circle (at most
-// 20 times). A least-squares start on the boundary would otherwise hold
-// the exact-likelihood search there, since its steps may not cross
-// (unless FitSettings.AllowNonInvertible, where shrinkMA is not used).
-func (e *engine) shrinkMA(x0 []float64) {
+// shrinkInside moves a start whose polynomial pl (the AR or the MA part
+// of e) has a z-plane root of modulus 0.98 or more into the interior:
+// its free coefficients are scaled by 0.7 until no root is that close to
+// the unit circle (at most 20 times). The exact likelihood needs a
+// stationary AR part, and a least-squares start on the MA invertibility
+// boundary would hold the search there, since its steps may not cross
+// (the MA part is not moved under FitSettings.AllowNonInvertible).
+func (e *engine) shrinkInside(pl sym.Poly, x0 []float64) {
 	ks := map[int]bool{}
-	e.ma.Each(func(c *sym.Coef) {
+	pl.Each(func(c *sym.Coef) {
 		for _, r := range e.refs {
 			if r.c == c {
 				ks[r.k] = true
@@ -239,7 +241,7 @@ func (e *engine) shrinkMA(x0 []float64) {
 	}
 	for it := 0; it < 20; it++ {
 		e.set(x0)
-		if bad, err := outside(e.ma.Coeffs(), 0.02); err != nil || len(bad) == 0 {
+		if bad, err := outside(pl.Coeffs(), 0.02); err != nil || len(bad) == 0 {
 			return
 		}
 		for k := range ks {

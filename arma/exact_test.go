@@ -278,3 +278,31 @@ func TestExactMLBoundaryStart(t *testing.T) {
 		t.Errorf("invertible: theta1 %.6g loglik %.8g; flipped: theta1 %.6g loglik %.8g", th, in.LogLik, out.Params[2].Value, out.LogLik)
 	}
 }
+
+// TestExactMLNearUnitRoot: a random walk fitted as AR(1) (seed 5), where
+// the least-squares estimate, the start, is beyond the unit circle
+// (1.0059), still gives an exact-likelihood estimate: the start is moved
+// inside and the estimate is stationary and near 1 (above 0.9; common
+// practice: the ML estimate of a random walk's AR(1) coefficient is
+// close to 1; 0.9935 here).
+func TestExactMLNearUnitRoot(t *testing.T) {
+	y := make([]float64, 200)
+	a, err := Simulate(Model{Sigma2: 1}, len(y), &SimSettings{Seed1: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := 1; i < len(y); i++ {
+		y[i] = y[i-1] + a[i]
+	}
+	cls, err := Fit(context.Background(), y, Order{P: 1}, nil)
+	if err != nil || !(cls.Params[0].Value > 1) {
+		t.Fatalf("the least-squares start is meant to be explosive: %v %v", cls.Params[0].Value, err)
+	}
+	res, err := Fit(context.Background(), y, Order{P: 1}, &FitSettings{Method: ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if phi := res.Params[0].Value; !(phi > 0.9 && phi < 1) {
+		t.Errorf("phi1 = %v", phi)
+	}
+}
