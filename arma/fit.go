@@ -76,6 +76,23 @@ type FitSettings struct {
 	// Tol is the relative reduction of the sum of squares below which the
 	// optimiser stops; zero means 1e-14.
 	Tol float64
+	// Method chooses the estimator: LeastSquares (the default,
+	// conditional least squares; NaN samples are refused) or ExactML
+	// (exact Gaussian maximum likelihood by the Kalman filter; NaN
+	// samples of the series are missing values, skipped exactly, and
+	// Result.Missing holds their smoothed estimates). ExactML starts
+	// from the least-squares estimate on the series with its gaps filled
+	// by linear interpolation (the last 20000 samples of a longer
+	// series), searches by Levenberg-Marquardt on the scaled innovations
+	// (forward-difference Jacobian, step 2^-26 max(|x|, 1) in working
+	// units) and ends with Newton steps on the numerical Hessian of the
+	// log-likelihood (central differences, step 2^-13 max(|x|, 1)), whose
+	// inverse gives the standard errors (the observed information).
+	// Regressor columns must be complete under both methods; First
+	// applies to the least-squares start only, Tol and MaxIter to both
+	// searches. Result.Evals counts likelihood evaluations (filter
+	// passes) for ExactML.
+	Method Method
 }
 
 // Boundary flags a fitted polynomial with z-plane roots on or outside the
@@ -87,8 +104,26 @@ type Boundary struct {
 	Roots []complex128
 }
 
-// Result is the outcome of a conditional least-squares fit.
+// Result is the outcome of a fit. The comments below describe the
+// conditional least-squares fit; for an exact-likelihood fit (Method
+// ExactML) Start is the first index of the likelihood (0, or after the
+// differencing's conditioning samples), NUsed the observed samples from
+// Start on, SSQ the sum of squared standardised innovations sum v_t^2/F_t
+// (series units), Resid the standardised innovations v_t F_t^(-1/2)
+// (NaN where missing and before Start), LogLik the exact log-likelihood
+// at sigma^2 = SSQ/NUsed,
+//
+//	LogLik = -NUsed/2 (log(2 pi SSQ/NUsed) + 1) - 1/2 sum_t log F_t,
+//
+// the criteria from it, SE and SEHessian both from the inverse of the
+// numerical Hessian of minus the log-likelihood (Cov and Corr too), and
+// Missing the smoothed missing samples.
 type Result struct {
+	// Method is the estimator that was used.
+	Method Method
+	// Missing lists the smoothed estimates of the NaN samples of the
+	// series, in index order (exact-likelihood fits only).
+	Missing []MissingValue
 	// Order is the order that was fitted (zero for FitNoise).
 	Order Order
 	// Model holds the fitted coefficients, Mean and Sigma2 (for FitNoise
@@ -291,6 +326,9 @@ func estimate(ctx context.Context, y []float64, noise Noise, diff []float64, dif
 	var o FitSettings
 	if opt != nil {
 		o = *opt
+	}
+	if o.Method == ExactML {
+		return estimateML(ctx, y, noise, diff, differenced, o, ord)
 	}
 	if err := checkInputs(y, o); err != nil {
 		return nil, err

@@ -16,7 +16,15 @@ func (r *Result) LjungBox(lags int) (pm Portmanteau, err error) {
 	if r == nil || r.Start < 0 || r.Start >= len(r.Resid) {
 		return Portmanteau{}, modelErr("result", "LjungBox needs a result of Fit or FitNoise")
 	}
-	return ljungBox(r.Resid[r.Start:], lags, r.narma)
+	res := r.Resid[r.Start:]
+	if r.Method == ExactML {
+		// Missing samples have no innovation: the test runs on the
+		// available standardised innovations placed end to end (their
+		// lags across a gap are taken as adjacent; common practice, the
+		// treatment of R's Box.test on na.omit'ted residuals).
+		res = dropNaN(res)
+	}
+	return ljungBox(res, lags, r.narma)
 }
 
 // String returns a short report for people: the model, the estimates
@@ -33,8 +41,14 @@ func (r *Result) String() string {
 	if r.byOrder {
 		what = "ARIMA" + r.Order.String()
 	}
-	fmt.Fprintf(&b, "%s fitted by conditional least squares to %d samples (residuals %d..%d, %d summed)\n",
-		what, r.N, r.Start, r.N-1, r.NUsed)
+	if r.Method == ExactML {
+		fmt.Fprintf(&b, "%s fitted by exact maximum likelihood (Kalman filter) to %d samples (likelihood from %d, %d observed, %d missing)\n",
+			what, r.N, r.Start, r.NUsed, len(r.Missing))
+		fmt.Fprintf(&b, "  sd from the observed information (numerical Hessian of the log-likelihood)\n")
+	} else {
+		fmt.Fprintf(&b, "%s fitted by conditional least squares to %d samples (residuals %d..%d, %d summed)\n",
+			what, r.N, r.Start, r.N-1, r.NUsed)
+	}
 	if len(r.Params) > 0 {
 		fmt.Fprintf(&b, "  %-10s %12s %12s %9s\n", "name", "value", "sd(value)", "value/sd")
 		for _, p := range r.Params {
@@ -42,6 +56,13 @@ func (r *Result) String() string {
 		}
 	}
 	fmt.Fprintf(&b, "  innovation variance %.5g, sum of squares %.6g\n", r.Sigma2, r.SSQ)
+	for i, m := range r.Missing {
+		if i == 5 {
+			fmt.Fprintf(&b, "  ... and %d more missing samples\n", len(r.Missing)-5)
+			break
+		}
+		fmt.Fprintf(&b, "  missing sample %d: estimate %.5g, sd %.3g\n", m.Index, m.Value, m.SE)
+	}
 	fmt.Fprintf(&b, "  log-likelihood %.2f; AIC %.2f, AICc %.2f, BIC %.2f\n", r.LogLik, r.AIC, r.AICc, r.BIC)
 	fmt.Fprintf(&b, "  %s after %d iterations\n", r.Reason, r.Iter)
 	for _, f := range r.Boundary {
@@ -111,4 +132,15 @@ func (r *Result) EquationConstant() (k, se float64) {
 		return k, math.NaN()
 	}
 	return k, math.Sqrt(math.Max(v, 0))
+}
+
+// dropNaN returns the non-NaN values of x.
+func dropNaN(x []float64) []float64 {
+	out := make([]float64, 0, len(x))
+	for _, v := range x {
+		if !math.IsNaN(v) {
+			out = append(out, v)
+		}
+	}
+	return out
 }

@@ -65,6 +65,9 @@ func (o *FitSettings) validate() error {
 			}
 		}
 	}
+	if o.Method < LeastSquares || o.Method > ExactML {
+		return settingErr("FitSettings.Method", itoa(int(o.Method)), "unknown Method; use LeastSquares (the default) or ExactML")
+	}
 	if o.First < 0 {
 		return settingErr("FitSettings.First", itoa(o.First), "must not be negative (zero means the default)")
 	}
