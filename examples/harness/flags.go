@@ -16,7 +16,7 @@ func resolve(o options) (*plant, error) {
 	if !(sd >= 0) || math.IsInf(sd, 1) {
 		return nil, &FlagError{Flag: "noise", Value: fmt.Sprint(sd), Msg: "the noise standard deviation must be a finite number >= 0 (degC)"}
 	}
-	pl := &plant{spec: o.spec, fail: func(err error) error { return &FlagError{Flag: "spec", Err: err} }}
+	pl := &plant{spec: o.spec, pi: handTuning, fail: func(err error) error { return &FlagError{Flag: "spec", Err: err} }}
 	switch {
 	case o.config != "" && o.specSet:
 		return nil, &FlagError{Flag: "spec", Msg: "give the plant either with -spec or with -config, not both"}

@@ -107,6 +107,8 @@ type plant struct {
 	proc     *Process
 	saved    *savedModel // nil for -spec
 	validity *modelinfo.Validity
+	// pi is the PI under test.
+	pi PITuning
 	// fail wraps a problem with the plant in the error of the flag that
 	// gave it.
 	fail func(err error) error

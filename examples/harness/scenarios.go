@@ -6,12 +6,35 @@ import (
 	"math"
 )
 
-// Tuning under test: gain 8 %/degC, integral time 20 min (about the
-// valve path's time constant, from the identified model).
+// The hand tuning that the scenarios test on a plant given with -spec or
+// -config: gain 8 %/degC, integral time 20 min (about the valve path's
+// time constant, from the identified model).
 const (
 	tuneKc = 8.0
 	tuneTi = 20.0 // min
 )
+
+// PITuning is the settings of a PI under test: Kc in % valve per degC,
+// Ti in minutes, and the name of where they came from ("hand tuning",
+// "SIMC", ...).
+type PITuning struct {
+	Name   string
+	Kc, Ti float64
+}
+
+// settings formats the settings with their units, such as "Kc 8.0
+// %/degC, Ti 20 min": Kc to a tenth (three digits below 1), Ti to three
+// digits.
+func (t PITuning) settings() string {
+	kc := fmt.Sprintf("%.1f", t.Kc)
+	if math.Abs(t.Kc) < 1 {
+		kc = fmt.Sprintf("%.3g", t.Kc)
+	}
+	return fmt.Sprintf("Kc %s %%/degC, Ti %.3g min", kc, t.Ti)
+}
+
+// handTuning is the PI the scenarios test on a given plant.
+var handTuning = PITuning{Name: "hand tuning", Kc: tuneKc, Ti: tuneTi}
 
 // The scenarios' times (min): each run lasts six hours with its step at
 // the end of the first.
@@ -60,18 +83,26 @@ func steadyValve(sp, out float64) float64 {
 	return p.ValveFor(sp, out)
 }
 
-// newPI returns the controller under test, starting at valve u0 (%), run
+// newPI returns the hand-tuned controller, starting at valve u0 (%), run
 // every ts minutes.
-func newPI(u0, ts float64) (*PI, error) { return NewPI(tuneKc, tuneTi, ts, 0, 100, u0) }
+func newPI(u0, ts float64) (*PI, error) { return handTuning.New(u0, ts) }
 
-// runWithPI runs sc with the PI under test starting at valve u0, acting
+// New returns the PI with these settings, starting at valve u0 (%), run
+// every ts minutes, its output limited to the valve's 0..100 %.
+func (t PITuning) New(u0, ts float64) (*PI, error) { return NewPI(t.Kc, t.Ti, ts, 0, 100, u0) }
+
+// runWithPI runs sc with the hand-tuned PI starting at valve u0, acting
 // once a sample of the scenario's plant.
-func runWithPI(sc Scenario, u0 float64) (Trace, error) {
+func runWithPI(sc Scenario, u0 float64) (Trace, error) { return runTuned(sc, handTuning, u0) }
+
+// runTuned runs sc with the PI of tuning tu starting at valve u0, acting
+// once a sample of the scenario's plant.
+func runTuned(sc Scenario, tu PITuning, u0 float64) (Trace, error) {
 	p, err := NewProcess(sc.spec(), 0, 0)
 	if err != nil {
 		return Trace{}, err
 	}
-	pi, err := newPI(u0, p.Interval())
+	pi, err := tu.New(u0, p.Interval())
 	if err != nil {
 		return Trace{}, err
 	}
@@ -88,7 +119,7 @@ func setpointScenario(w io.Writer, pl *plant, u0, sd float64) error {
 	ts := pl.proc.Interval()
 	band := pl.proc.noiseBand(sd)
 	sc := SetpointStep()
-	fmt.Fprintf(w, "%s (PI Kc %.1f %%/degC, Ti %.0f min)\n", sc.Name, tuneKc, tuneTi)
+	fmt.Fprintf(w, "%s (PI %s)\n", sc.Name, pl.pi.settings())
 	clean, noisy, k0, m, err := pl.measure(w, sc, u0, sd, 16, 20)
 	if err != nil {
 		return err
@@ -97,7 +128,7 @@ func setpointScenario(w io.Writer, pl *plant, u0, sd float64) error {
 	fmt.Fprintf(w, "    overshoot               %5.1f %%\n", 100*m.Overshoot)
 	steadyLine(w, m, PlantSettleBand)
 	fmt.Fprintf(w, "    valve at its limit      %s\n", minutesText(float64(atLimit(clean.Valve))*ts, ts))
-	unsuitable(w, m)
+	unsuitable(w, pl.pi, m)
 	if noisy != nil {
 		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", sd, sc.Seed, band)
 		if band >= 20-16 {
@@ -134,7 +165,7 @@ func disturbanceScenario(w io.Writer, pl *plant, u0, sd float64) error {
 	}
 	fmt.Fprintf(w, "    back within +-%.1f degC  %s\n", PlantSettleBand, back)
 	steadyLine(w, m, PlantSettleBand)
-	unsuitable(w, m)
+	unsuitable(w, pl.pi, m)
 	if noisy != nil {
 		mn := Measure(noisy.Temp, k0, 18, 18, band, ts)
 		fmt.Fprintf(w, "  with the plant's noise (innovations SD %g degC, seed %d), band +-%.2g degC:\n", sd, sc.Seed, band)
@@ -165,7 +196,7 @@ func (pl *plant) measure(w io.Writer, sc Scenario, u0, sd, before, after float64
 // returned as an error.
 func (pl *plant) runBoth(w io.Writer, sc Scenario, u0, sd float64) (clean Trace, noisy *Trace, err error) {
 	sc.Spec, sc.NoiseSD = pl.spec, 0
-	if clean, err = runWithPI(sc, u0); err != nil {
+	if clean, err = runTuned(sc, pl.pi, u0); err != nil {
 		return Trace{}, nil, err
 	}
 	final := sc.Setpoint(sc.Minutes)
@@ -177,7 +208,7 @@ func (pl *plant) runBoth(w io.Writer, sc Scenario, u0, sd float64) (clean Trace,
 		return clean, nil, nil
 	}
 	sc.NoiseSD = sd
-	tr, err := runWithPI(sc, u0)
+	tr, err := runTuned(sc, pl.pi, u0)
 	if err != nil {
 		return Trace{}, nil, err
 	}
@@ -202,13 +233,13 @@ func steadyLine(w io.Writer, m StepMetrics, band float64) {
 
 // unsuitable says on w that the tuning under test does not suit the
 // plant when the loop does not settle.
-func unsuitable(w io.Writer, m StepMetrics) {
+func unsuitable(w io.Writer, tu PITuning, m StepMetrics) {
 	if !m.Unsettled {
 		return
 	}
-	fmt.Fprintf(w, "  WARNING: the tuning (Kc %.1f %%/degC, Ti %.0f min) is unsuitable for this plant: the loop oscillates\n"+
+	fmt.Fprintf(w, "  WARNING: the tuning (%s) is unsuitable for this plant: the loop oscillates\n"+
 		"  and does not settle, so these figures describe an oscillation, not a response; retune (a lower Kc\n"+
-		"  or a longer Ti) before trying it on the plant\n", tuneKc, tuneTi)
+		"  or a longer Ti) before trying it on the plant\n", tu.settings())
 }
 
 // firstWithin returns the first index at which y is within band of
