@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 
 	"github.com/backshift/backshift/examples/internal/modelinfo"
 )
@@ -49,7 +50,16 @@ func resolve(o options) (*plant, error) {
 	if err := checkInterval(pl); err != nil {
 		return nil, pl.fail(err)
 	}
-	return pl, nil
+	if pl.u1, err = p.startValve(SetpointStep()); err != nil {
+		return nil, pl.fail(err)
+	}
+	pl.u2 = math.NaN()
+	if p.HasOutdoor() {
+		if pl.u2, err = p.startValve(DisturbanceStep()); err != nil {
+			return nil, pl.fail(err)
+		}
+	}
+	return pl, checkLoopFlags(o)
 }
 
 // checkNoise refuses noise asked of a plant that cannot give it: a spec
@@ -158,4 +168,25 @@ func warnOutside(w io.Writer, pl *plant, clean Trace, noisy *Trace) {
 	if pl.validity.Verdict == modelinfo.VerdictFailed {
 		fmt.Fprintf(w, "  WARNING: run on a model that failed its checks (-use-failed-model): these figures prove nothing about the plant\n")
 	}
+}
+
+// checkLoopFlags refuses what only the loop can do asked without it
+// (-pictures with -spec or -config), and -noise 0 for the loop: its plant
+// test needs noise (a noise-free record fits exactly and leaves no
+// uncertainty to check the tuning against). It makes the -pictures
+// folder, so that a folder that cannot be made is reported before the
+// run.
+func checkLoopFlags(o options) error {
+	switch {
+	case o.pictures != "" && !o.loop:
+		return &FlagError{Flag: "pictures", Value: o.pictures, Msg: "draws the loop of the default run (test signal, identified model, tuning); run without -spec and -config to draw it"}
+	case o.loop && o.noise == 0:
+		return &FlagError{Flag: "noise", Value: "0", Msg: "the default run simulates a plant test, and a test without noise fits exactly and leaves no uncertainty " +
+			"to check the tuning against; give a noise above 0 (the default is " + fmt.Sprint(NoiseSD) + " degC), or test a PI alone with -spec"}
+	case o.pictures != "":
+		if err := os.MkdirAll(o.pictures, 0o755); err != nil {
+			return &FlagError{Flag: "pictures", Value: o.pictures, Msg: "cannot make the folder for the pictures", Err: err}
+		}
+	}
+	return nil
 }

@@ -4,7 +4,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"math"
 	"os"
 
 	"github.com/backshift/backshift/examples/internal/cmdline"
@@ -37,6 +36,11 @@ type options struct {
 	config    string
 	model     string
 	useFailed bool
+	// loop runs the default: the loop on the greenhouse demo (neither
+	// -spec nor -config given).
+	loop bool
+	// pictures is the folder -pictures names ("" for none).
+	pictures string
 }
 
 // cli runs the program with the arguments args (without the program
@@ -50,6 +54,7 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.Float64Var(&o.noise, "noise", NoiseSD, "standard deviation of the plant's noise innovations (degC); 0 for a noise-free run")
 	fs.StringVar(&o.config, "config", "", "read the plant from this JSON config file (as examples/identify -save writes it) instead of -spec")
 	fs.StringVar(&o.model, "model", "", "the name of the model to use in the -config file (needed when it holds more than one)")
+	fs.StringVar(&o.pictures, "pictures", "", "draw the default run's pictures into this folder (made if missing): the test signal and its spectrum, the closed-loop step responses with their uncertainty bands, the sensitivity magnitude with its peak")
 	fs.BoolVar(&o.useFailed, "use-failed-model", false, "run on a -config model whose checks failed when it was saved (its results then prove nothing about the real plant)")
 	if status, stop := cmdline.Parse(fs, usage, args); stop {
 		return status
@@ -62,6 +67,7 @@ func cli(args []string, stdout, stderr io.Writer) int {
 		o.specSet = o.specSet || f.Name == "spec"
 		o.noiseSet = o.noiseSet || f.Name == "noise"
 	})
+	o.loop = !o.specSet && o.config == ""
 	if err := runWith(stdout, o); err != nil {
 		fmt.Fprintln(stderr, err)
 		return 1
@@ -99,7 +105,12 @@ func (e *FlagError) Error() string {
 
 // Unwrap returns the underlying error.
 func (e *FlagError) Unwrap() error { return e.Err }
-func run(w io.Writer) error        { return runWith(w, options{spec: PlantSpec, noise: NoiseSD}) }
+
+// run runs the default: the loop on the greenhouse demo, with the
+// plant's noise of NoiseSD.
+func run(w io.Writer) error {
+	return runWith(w, options{spec: PlantSpec, noise: NoiseSD, loop: true})
+}
 
 // plant is the plant a run uses and where it came from.
 type plant struct {
@@ -109,13 +120,18 @@ type plant struct {
 	validity *modelinfo.Validity
 	// pi is the PI under test.
 	pi PITuning
+	// u1 and u2 are the valve openings that hold the starting points of
+	// the setpoint and the disturbance scenario (u2 NaN without an
+	// outdoor input).
+	u1, u2 float64
 	// fail wraps a problem with the plant in the error of the flag that
 	// gave it.
 	fail func(err error) error
 }
 
-// runWith runs both scenarios on the plant the options give and prints
-// the summary on w.
+// runWith runs what the options ask and prints the summary on w: the
+// loop on the greenhouse demo (o.loop, see runLoop), or the controller
+// tests of the hand-tuned PI on the plant the options give.
 //
 // Every problem with the flags is reported before anything is printed
 // (a *FlagError naming the flag): a noise standard deviation that is
@@ -125,38 +141,48 @@ type plant struct {
 // that cannot be read or has no such model, a model saved with a failed
 // verdict (unless -use-failed-model) or with a record whose interval
 // differs from its spec's, a spec that does not parse (with its
-// position), and a plant the scenarios cannot run (a *PlantError: see
+// position), a plant the scenarios cannot run (a *PlantError: see
 // NewProcess, and a scenario whose starting point needs the valve
-// outside 0..100 %).
+// outside 0..100 %), -pictures without the loop or naming a folder that
+// cannot be made, and -noise 0 for the loop (its plant test needs noise).
 func runWith(w io.Writer, o options) error {
 	pl, err := resolve(o)
 	if err != nil {
 		return err
 	}
-	u1, err := pl.proc.startValve(SetpointStep())
-	if err != nil {
-		return pl.fail(err)
+	if o.loop {
+		return runLoop(w, pl, o)
 	}
-	u2 := math.NaN()
-	if pl.proc.HasOutdoor() {
-		if u2, err = pl.proc.startValve(DisturbanceStep()); err != nil {
-			return pl.fail(err)
-		}
+	writePlant(w, pl, o)
+	fmt.Fprintln(w)
+	if err := runScenarios(w, pl, o.noise); err != nil {
+		return err
 	}
+	fmt.Fprint(w, "\n"+caution)
+	return nil
+}
+
+// writePlant heads the controller tests with the plant and where it
+// came from.
+func writePlant(w io.Writer, pl *plant, o options) {
 	fmt.Fprintf(w, "plant: %s\n", pl.spec)
 	if pl.saved != nil {
 		fmt.Fprintf(w, "  model %q of %s\n", pl.saved.Name, o.config)
 		pl.validity.Write(w, "  ")
 	}
-	fmt.Fprintf(w, "  sampled every %s; the PI acts once a sample\n\n", pl.proc.model.Interval)
-	if err := setpointScenario(w, pl, u1, o.noise); err != nil {
+	fmt.Fprintf(w, "  sampled every %s; the PI acts once a sample\n", pl.proc.model.Interval)
+}
+
+// runScenarios runs both scenarios with the PI pl.pi on the plant pl
+// with noise of innovation SD sd and prints their figures.
+func runScenarios(w io.Writer, pl *plant, sd float64) error {
+	if err := setpointScenario(w, pl, pl.u1, sd); err != nil {
 		return err
 	}
 	if !pl.proc.HasOutdoor() {
 		fmt.Fprintf(w, "%s: not run, the plant has no input outdoor\n", DisturbanceStep().Name)
-	} else if err := disturbanceScenario(w, pl, u2, o.noise); err != nil {
+	} else if err := disturbanceScenario(w, pl, pl.u2, sd); err != nil {
 		return err
 	}
-	fmt.Fprint(w, "\n"+caution)
 	return nil
 }
