@@ -13,14 +13,14 @@ import (
 // What the engineer knows before the plant test of the greenhouse valve,
 // and what the test may do. The time constant and dead time are
 // expectations (from the heating's design and earlier records), not the
-// plant's true values (19.5 min and 3 min). The valve moves +-10 % about
-// 50 % opening, about +-2 degC at the expected gain of 0.2 degC/%: a
+// plant's true values (19.5 min and 3 min). The valve moves +-5 % about
+// 50 % opening, about +-1 degC at the expected gain of 0.2 degC/%: a
 // move the crop tolerates. The test may take a day.
 const (
 	testTimeConstant = 20.0   // min
 	testDeadTime     = 3.0    // min
 	testLevel        = 50.0   // % valve
-	testAmplitude    = 10.0   // % valve
+	testAmplitude    = 5.0    // % valve
 	testBudget       = 1440.0 // min
 	testSeed         = 1      // seeds the noise of the simulated test
 )

@@ -33,6 +33,8 @@ const (
 // tuned is one rule's controller and its checks on the identified model.
 type tuned struct {
 	Tuning control.Tuning
+	// Plant is the identified valve path the tuning is for.
+	Plant tf.Rational
 	// PI is the tuning as the harness's PI runs it (velocity form, the
 	// backward-difference discretisation of the parallel PI that Tune
 	// returns).
@@ -56,7 +58,7 @@ func tuneRule(ctx context.Context, id *identified, r control.Rule) (*tuned, erro
 		return nil, err
 	}
 	loop := control.LoopSettings{Interval: iv, Horizon: loopHorizon}
-	out := &tuned{Tuning: t, PI: PITuning{Name: string(r), Kc: t.PID.Gain, Ti: t.PID.Integral}}
+	out := &tuned{Tuning: t, Plant: id.Plant, PI: PITuning{Name: string(r), Kc: t.PID.Gain, Ti: t.PID.Integral}}
 	if out.Nominal, err = control.Analyze(t.Controller, id.Plant, loop); err != nil {
 		return nil, err
 	}
