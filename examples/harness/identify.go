@@ -22,8 +22,10 @@ const testStructure = greenhouse.Structure + "; every 1 min"
 
 // identified is the model fitted to the test record and its checks.
 type identified struct {
-	Est    *fit.Estimate
-	Checks *fit.Diagnostics
+	// Structure is the structure fitted, as a spec.
+	Structure string
+	Est       *fit.Estimate
+	Checks    *fit.Diagnostics
 	// Plant is the estimated valve path, the plant the tuning works on.
 	Plant tf.Rational
 }
@@ -45,7 +47,7 @@ func identifyModel(ctx context.Context, structure string, data map[string][]floa
 	if err != nil {
 		return nil, fmt.Errorf("harness: checking the fitted model: %w", err)
 	}
-	id := &identified{Est: est, Checks: d}
+	id := &identified{Structure: structure, Est: est, Checks: d}
 	for _, in := range est.Model.Inputs {
 		if in.Series == valveName {
 			if id.Plant, err = in.Rational(); err != nil {

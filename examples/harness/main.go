@@ -41,6 +41,9 @@ type options struct {
 	loop bool
 	// pictures is the folder -pictures names ("" for none).
 	pictures string
+	// structure is the structure the loop fits to its test record; ""
+	// means testStructure (the tests give others).
+	structure string
 }
 
 // cli runs the program with the arguments args (without the program

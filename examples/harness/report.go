@@ -36,7 +36,7 @@ func writeTest(w io.Writer, t *plantTest) {
 func writeModel(w io.Writer, id *identified) {
 	e := id.Est
 	fmt.Fprintf(w, "identified model (fit.Model on the known structure; identify.Candidates is for an unknown one)\n")
-	fmt.Fprintf(w, "  %s\n", testStructure)
+	fmt.Fprintf(w, "  %s\n", id.Structure)
 	line := ""
 	for i, p := range e.Params {
 		line += fmt.Sprintf("  %-3s %-20s", p.Name, fmt.Sprintf("%.4g +- %.2g", p.Value, p.SE))

@@ -46,7 +46,11 @@ func walkLoop(ctx context.Context, spec, structure string, sd float64) (*walk, e
 // its report, draws its pictures when asked, then runs the controller
 // tests of each tuning on the plant itself.
 func runLoop(w io.Writer, pl *plant, o options) error {
-	wk, err := walkLoop(context.Background(), pl.spec, testStructure, o.noise)
+	structure := o.structure
+	if structure == "" {
+		structure = testStructure
+	}
+	wk, err := walkLoop(context.Background(), pl.spec, structure, o.noise)
 	if wk != nil {
 		writeTest(w, wk.Test)
 	}

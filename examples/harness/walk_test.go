@@ -1,0 +1,315 @@
+package main
+
+import (
+	"context"
+	"math"
+	"math/cmplx"
+	"math/rand/v2"
+	"slices"
+	"sync"
+	"testing"
+
+	"github.com/backshift/backshift/tf"
+	"github.com/backshift/backshift/tf/fit"
+	"gonum.org/v1/gonum/mat"
+)
+
+// The loop of the default run, walked once for every test that reads it.
+var (
+	walkOnce   sync.Once
+	walkResult *walk
+	walkErr    error
+)
+
+// defaultWalk returns the loop of the default run on the greenhouse
+// demo (walked once).
+func defaultWalk(t *testing.T) *walk {
+	t.Helper()
+	walkOnce.Do(func() { walkResult, walkErr = walkLoop(context.Background(), PlantSpec, testStructure, NoiseSD) })
+	if walkErr != nil {
+		t.Fatal(walkErr)
+	}
+	return walkResult
+}
+
+// piLoop is a PI controller in velocity form, C(B) = (q0 + q1 B)/(1 - B),
+// closed around the first-order plant w0 B^b / (1 - d1 B), written out
+// by hand for the tests: the characteristic polynomial of the loop
+// (1 + C P = 0 times the denominators) is
+//
+//	A(B) = (1 - B)(1 - d1 B) + (q0 + q1 B) w0 B^b,
+//
+// and the sensitivity S = 1/(1 + C P) = (1 - B)(1 - d1 B)/A(B) at
+// B = e^{-i w} (Franklin, Powell & Workman 1998, the discrete loop's
+// characteristic equation; the algebra by hand).
+type piLoop struct {
+	q0, q1, w0, d1 float64
+	b              int
+}
+
+// charPoly returns A(B) in ascending powers of B.
+func (l piLoop) charPoly() []float64 {
+	a := make([]float64, max(3, l.b+2))
+	a[0], a[1], a[2] = 1, -(1 + l.d1), l.d1
+	a[l.b] += l.q0 * l.w0
+	a[l.b+1] += l.q1 * l.w0
+	return a
+}
+
+// stable reports whether every root of A(B) lies outside the unit
+// circle, by tf's poles of 1/A(B).
+func (l piLoop) stable(t *testing.T) bool {
+	r, err := tf.NewRational([]float64{1}, l.charPoly(), 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r.Stable()
+}
+
+// peakS returns max |S(e^{-i w})| over a grid of sweepPoints frequencies
+// evenly spaced on (0, pi] rad/sample. At the grid's spacing (1.6e-4
+// rad/sample) a smooth peak is read to about (spacing/2)^2 |S''|/(2 |S|),
+// below 1e-6 relative for the peaks of these loops (their |S''| is of
+// order 10 at Ms near 1.5).
+func (l piLoop) peakS() float64 {
+	a := l.charPoly()
+	peak := 0.0
+	for _, z := range sweepGrid() {
+		num := (1 - z) * (1 - complex(l.d1, 0)*z)
+		den, zk := complex(0, 0), complex(1, 0)
+		for _, c := range a {
+			den += complex(c, 0) * zk
+			zk *= z
+		}
+		peak = max(peak, cmplx.Abs(num/den))
+	}
+	return peak
+}
+
+// sweepPoints is the number of frequencies of peakS's grid.
+const sweepPoints = 20000
+
+// sweepGrid holds e^{-i w} at w = pi k/sweepPoints, k = 1..sweepPoints.
+var sweepGrid = sync.OnceValue(func() []complex128 {
+	z := make([]complex128, sweepPoints)
+	for k := range z {
+		z[k] = cmplx.Exp(complex(0, -math.Pi*float64(k+1)/sweepPoints))
+	}
+	return z
+})
+
+// msTol is the relative tolerance between the harness's Ms figures
+// (control's sweep, refined by golden-section search) and peakS: the
+// grid's error (below 1e-6) with room.
+const msTol = 1e-5
+
+// quantile7 returns the quantile at level p of sorted x by linear
+// interpolation between order statistics (R's type 7, numpy.quantile's
+// default: h = (n - 1) p).
+func quantile7(x []float64, p float64) float64 {
+	h := float64(len(x)-1) * p
+	lo := math.Floor(h)
+	if int(lo)+1 >= len(x) {
+		return x[len(x)-1]
+	}
+	return x[int(lo)] + (h-lo)*(x[int(lo)+1]-x[int(lo)])
+}
+
+// velocity returns the coefficients q0, q1 of the harness's velocity PI
+// (pi.go) with the tuning tu at the sample interval ts:
+// du_t = Kc (e_t - e_{t-1}) + Kc ts/Ti e_t.
+func velocity(tu PITuning, ts float64) (q0, q1 float64) { return tu.Kc * (1 + ts/tu.Ti), -tu.Kc }
+
+// TestTunedControllerIsTheHarnessPI checks that the discrete controller
+// each rule returns is the harness's velocity PI with the tuning's Kc and
+// Ti (backward difference of Kc (1 + 1/(Ti s)): Franklin, Powell &
+// Workman 1998, the discrete PID), to 1e-12 relative, so that the
+// controller tests on the plant run the controller the robustness
+// figures are for.
+func TestTunedControllerIsTheHarnessPI(t *testing.T) {
+	for _, r := range defaultWalk(t).Rules {
+		q0, q1 := velocity(r.PI, r.Tuning.Interval.Value)
+		num, den := r.Tuning.Controller.Num(), r.Tuning.Controller.Den()
+		if len(num) != 2 || len(den) != 2 || r.Tuning.Controller.Delay() != 0 ||
+			math.Abs(num[0]/q0-1) > 1e-12 || math.Abs(num[1]/q1-1) > 1e-12 || den[1] != -1 {
+			t.Errorf("%s: controller %v, want (%v + %v B)/(1 - B)", r.Tuning.Rule, r.Tuning.Controller, q0, q1)
+		}
+	}
+}
+
+// TestRobustness checks each rule's robustness figures against the loop
+// closed by hand on the same drawn plants: the parameters are drawn from
+// the estimate's covariance as control.ModelDraw documents it (one
+// standard normal per parameter from rand.New(rand.NewPCG(seed, 0)),
+// in the order of the estimate's parameters, times the lower Cholesky
+// factor, here gonum's), the valve path w0 B^3/(1 - d1 B) closed with
+// the velocity PI, stability from tf's poles of the characteristic
+// polynomial and Ms from a dense sweep (piLoop). The fraction stable must
+// agree exactly and every quantile of Ms to msTol (quantiles of R's type
+// 7, as control documents its Spread).
+func TestRobustness(t *testing.T) {
+	wk := defaultWalk(t)
+	for _, r := range wk.Rules {
+		checkRobust(t, wk.Model.Est, r)
+	}
+}
+
+// TestRobustnessPartlyStable repeats TestRobustness's check on an
+// estimate whose covariance is 2500 times the fitted one (standard
+// errors 50 times larger, as from a far shorter or noisier test), so
+// that some drawn loops are unstable and the fraction stable is tested
+// below 1 as well.
+func TestRobustnessPartlyStable(t *testing.T) {
+	wk := defaultWalk(t)
+	est := *wk.Model.Est
+	est.Cov = make([][]float64, len(wk.Model.Est.Cov))
+	for i, row := range wk.Model.Est.Cov {
+		est.Cov[i] = make([]float64, len(row))
+		for j, v := range row {
+			est.Cov[i][j] = 2500 * v
+		}
+	}
+	id := *wk.Model
+	id.Est = &est
+	r, err := tuneRule(context.Background(), &id, tuningRules[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fs := r.Robust.FractionStable; !(fs > 0.5 && fs < 1) {
+		t.Fatalf("fraction stable %v: the case does not test a fraction below 1", fs)
+	}
+	checkRobust(t, &est, r)
+}
+
+// checkRobust checks r's robustness figures against the loop closed by
+// hand on the same drawn plants: the parameters are drawn from est's
+// covariance as control.ModelDraw documents it (one standard normal per
+// parameter from rand.New(rand.NewPCG(seed, 0)), in the order of the
+// estimate's parameters, times the lower Cholesky factor, here gonum's),
+// the valve path w0 B^3/(1 - d1 B) closed with the velocity PI,
+// stability from tf's poles of the characteristic polynomial and Ms from
+// a dense sweep (piLoop). The fraction stable must agree exactly and
+// every quantile of Ms to msTol (quantiles of R's type 7, as control
+// documents its Spread).
+func checkRobust(t *testing.T, est *fit.Estimate, r *tuned) {
+	t.Helper()
+	n := len(est.Params)
+	var chol mat.Cholesky
+	if !chol.Factorize(mat.NewSymDense(n, slices.Concat(est.Cov...))) {
+		t.Fatal("the estimate's covariance is not positive definite")
+	}
+	var l mat.TriDense
+	chol.LTo(&l)
+	iw0, id1 := paramIndex(t, est, "w0"), paramIndex(t, est, "d1")
+	q0, q1 := velocity(r.PI, r.Tuning.Interval.Value)
+	rng := rand.New(rand.NewPCG(robustSeed, 0))
+	var ms []float64
+	z := make([]float64, n)
+	for range robustDraws {
+		for i := range z {
+			z[i] = rng.NormFloat64()
+		}
+		x := func(i int) float64 {
+			v := est.Params[i].Value
+			for j := 0; j <= i; j++ {
+				v += l.At(i, j) * z[j]
+			}
+			return v
+		}
+		lp := piLoop{q0: q0, q1: q1, w0: x(iw0), d1: x(id1), b: 3}
+		if lp.stable(t) {
+			ms = append(ms, lp.peakS())
+		}
+	}
+	rb := r.Robust
+	if got, want := rb.FractionStable, float64(len(ms))/robustDraws; got != want {
+		t.Errorf("%s: fraction stable %v, by hand %v", r.Tuning.Rule, got, want)
+	}
+	slices.Sort(ms)
+	for i, p := range rb.Levels {
+		want := quantile7(ms, p)
+		if got := rb.SensitivityPeak.Values[i]; math.Abs(got/want-1) > msTol {
+			t.Errorf("%s: Ms quantile %g: %v, by hand %v", r.Tuning.Rule, p, got, want)
+		}
+	}
+	t.Logf("%s: %d of %d stable, Ms %.4f .. %.4f", r.Tuning.Rule, len(ms), robustDraws, quantile7(ms, 0.05), quantile7(ms, 0.95))
+}
+
+// paramIndex returns the index of the named parameter of est.
+func paramIndex(t *testing.T, est *fit.Estimate, name string) int {
+	t.Helper()
+	for i, p := range est.Params {
+		if p.Name == name {
+			return i
+		}
+	}
+	t.Fatalf("no parameter %s", name)
+	return -1
+}
+
+// TestWorstCase checks each rule's worst case against the grid closed by
+// hand: the identified valve path with its gain times 1, 1.075, ..., 1.3
+// (five factors, control's default GainSteps) and its dead time of 3 or
+// 4 samples, each loop's stability from tf's poles of the characteristic
+// polynomial and Ms from the sweep (piLoop). The count of unstable cases
+// must agree and the largest Ms to msTol, on the same case.
+func TestWorstCase(t *testing.T) {
+	wk := defaultWalk(t)
+	num, den := wk.Model.Plant.Num(), wk.Model.Plant.Den()
+	if len(num) != 1 || len(den) != 2 || wk.Model.Plant.Delay() != 3 {
+		t.Fatalf("valve path %v is not w0 B^3/(1 - d1 B)", wk.Model.Plant)
+	}
+	for _, r := range wk.Rules {
+		q0, q1 := velocity(r.PI, r.Tuning.Interval.Value)
+		unstable, worst, gf, dc := 0, 0.0, 0.0, 0
+		for _, extra := range []int{0, worstDelayAbove} {
+			for k := range 5 {
+				f := 1 + worstGainAbove*float64(k)/4
+				lp := piLoop{q0: q0, q1: q1, w0: f * num[0], d1: -den[1], b: 3 + extra}
+				if !lp.stable(t) {
+					unstable++
+					continue
+				}
+				if m := lp.peakS(); m > worst {
+					worst, gf, dc = m, f, extra
+				}
+			}
+		}
+		wc := r.Worst
+		if wc.Unstable != unstable || len(wc.Cases) != 10 {
+			t.Errorf("%s: %d of %d cases unstable, by hand %d of 10", r.Tuning.Rule, wc.Unstable, len(wc.Cases), unstable)
+		}
+		k := wc.SensitivityPeak.Case
+		if k < 0 || math.Abs(wc.SensitivityPeak.Value/worst-1) > msTol ||
+			math.Abs(wc.Cases[k].GainFactor-gf) > 1e-12 || wc.Cases[k].DelayChange != dc {
+			t.Errorf("%s: worst Ms %v (case %d), by hand %v at gain x%v, dead time %+d", r.Tuning.Rule, wc.SensitivityPeak.Value, k, worst, gf, dc)
+		}
+	}
+}
+
+// TestNominalLoop checks each rule's nominal figures on the identified
+// valve path by the loop closed by hand: Ms against the sweep (to
+// msTol), and the gain margin by its definition, the factor on the
+// controller's gain at which the loop reaches the stability boundary
+// (stable at GM (1 - 1e-6), unstable at GM (1 + 1e-6); Franklin, Powell
+// & Workman 1998, on the Nyquist criterion for a stable open loop with
+// one phase crossover).
+func TestNominalLoop(t *testing.T) {
+	wk := defaultWalk(t)
+	num, den := wk.Model.Plant.Num(), wk.Model.Plant.Den()
+	for _, r := range wk.Rules {
+		q0, q1 := velocity(r.PI, r.Tuning.Interval.Value)
+		lp := piLoop{q0: q0, q1: q1, w0: num[0], d1: -den[1], b: 3}
+		if got, want := r.Nominal.SensitivityPeak, lp.peakS(); math.Abs(got/want-1) > msTol {
+			t.Errorf("%s: nominal Ms %v, by hand %v", r.Tuning.Rule, got, want)
+		}
+		gm := r.Nominal.Margins.GainMargin
+		below, above := lp, lp
+		below.q0, below.q1 = q0*gm*(1-1e-6), q1*gm*(1-1e-6)
+		above.q0, above.q1 = q0*gm*(1+1e-6), q1*gm*(1+1e-6)
+		if !below.stable(t) || above.stable(t) {
+			t.Errorf("%s: gain margin %v is not the stability boundary (stable just below: %v, just above: %v)",
+				r.Tuning.Rule, gm, below.stable(t), above.stable(t))
+		}
+	}
+}
