@@ -57,6 +57,9 @@ func tuneRule(ctx context.Context, id *identified, r control.Rule) (*tuned, erro
 	if err != nil {
 		return nil, err
 	}
+	if t.PID.Derivative != 0 || (t.Method != "" && t.Method != control.BackwardDifference) {
+		return nil, fmt.Errorf("harness: %s gave %s by %s; the harness's PI runs a backward-difference PI only", r, t.PID, t.Method)
+	}
 	loop := control.LoopSettings{Interval: iv, Horizon: loopHorizon}
 	out := &tuned{Tuning: t, Plant: id.Plant, PI: PITuning{Name: string(r), Kc: t.PID.Gain, Ti: t.PID.Integral}}
 	if out.Nominal, err = control.Analyze(t.Controller, id.Plant, loop); err != nil {
@@ -78,19 +81,5 @@ func tuneRule(ctx context.Context, id *identified, r control.Rule) (*tuned, erro
 	if out.Worst, err = control.CheckWorstCase(t.Controller, id.Plant, ws); err != nil {
 		return nil, err
 	}
-	if t.PID.Derivative != 0 || (t.Method != "" && t.Method != control.BackwardDifference) {
-		return nil, fmt.Errorf("harness: %s gave %s by %s; the harness's PI runs a backward-difference PI only", r, t.PID, t.Method)
-	}
 	return out, nil
-}
-
-// piController returns the discrete controller of the harness's velocity
-// PI with the settings tu at the sample interval ts (min):
-//
-//	u_t - u_{t-1} = Kc (e_t - e_{t-1}) + Kc ts/Ti e_t,
-//	C(B) = Kc ((1 + ts/Ti) - B) / (1 - B),
-//
-// the backward-difference image of Kc (1 + 1/(Ti s)).
-func piController(tu PITuning, ts float64) (tf.Rational, error) {
-	return tf.NewRational([]float64{tu.Kc * (1 + ts/tu.Ti), -tu.Kc}, []float64{1, -1}, 0)
 }

@@ -75,7 +75,8 @@ func runLoop(w io.Writer, pl *plant, o options) error {
 	fmt.Fprintf(w, "controller tests of each tuning on the plant itself (noise-free and noisy runs)\n")
 	writePlant(w, pl, o)
 	for _, t := range wk.Rules {
-		fmt.Fprintf(w, "\n%s tuning\n", t.PI.Name)
+		fmt.Fprintf(w, "\n%s tuning (settings from a model: commission them on the plant under the site's safety procedures,\n"+
+			"with independent interlocks, deferring to local codes and licensed practice)\n", t.PI.Name)
 		pl.pi = t.PI
 		if err := runScenarios(w, pl, o.noise); err != nil {
 			return err
