@@ -62,7 +62,7 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.SetOutput(stderr)
 	var o options
 	fs.StringVar(&o.spec, "spec", PlantSpec, "plant model spec: output temp (degC), input valve (%) and optionally outdoor (degC), every coefficient a number, and its sample interval (every ...), e.g. the one examples/identify prints")
-	fs.Float64Var(&o.noise, "noise", NoiseSD, "standard deviation of the plant's noise innovations (degC); 0 for a noise-free run")
+	fs.Float64Var(&o.noise, "noise", NoiseSD, "standard deviation of the plant's noise innovations (degC); 0 for noise-free runs with -spec or -config (the default run's plant test needs noise)")
 	fs.StringVar(&o.config, "config", "", "read the plant from this JSON config file (as examples/identify -save writes it) instead of -spec")
 	fs.StringVar(&o.model, "model", "", "the name of the model to use in the -config file (needed when it holds more than one)")
 	fs.StringVar(&o.pictures, "pictures", "", "draw the default run's pictures into this folder (made if missing): the test signal and its spectrum, the closed-loop step responses with their uncertainty bands, the sensitivity magnitude with its peak")
