@@ -1,0 +1,56 @@
+package main
+
+import (
+	"os"
+	"strings"
+	"testing"
+)
+
+// sectionBlock returns the lines of the fenced block between the markers
+// <!-- from-model:begin --> and <!-- from-model:end --> of text, and
+// whether text has them.
+func sectionBlock(text string) ([]string, bool) {
+	_, rest, ok := strings.Cut(text, "<!-- from-model:begin -->\n")
+	block, _, ok2 := strings.Cut(rest, "<!-- from-model:end -->")
+	if !ok || !ok2 {
+		return nil, false
+	}
+	var out []string
+	for _, l := range strings.Split(strings.TrimSpace(block), "\n") {
+		if !strings.HasPrefix(l, "```") {
+			out = append(out, l)
+		}
+	}
+	return out, true
+}
+
+// TestReadmeSection keeps the code of the README section "From model to
+// controller" (README-section.md, and README.md once it holds the
+// section) the same as fromModelToController, which
+// Example_fromModelToController runs and checks.
+func TestReadmeSection(t *testing.T) {
+	src, err := os.ReadFile("readme_example_test.go")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := string(src)
+	i := strings.Index(s, "func fromModelToController(")
+	j := strings.Index(s[i:], "\n}\n")
+	want := strings.Split(s[i:i+j+2], "\n")
+	for _, path := range []string{"README-section.md", "../../README.md"} {
+		raw, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, ok := sectionBlock(string(raw))
+		if !ok {
+			if path == "README-section.md" {
+				t.Fatalf("%s has no from-model block", path)
+			}
+			continue
+		}
+		if strings.Join(got, "\n") != strings.Join(want, "\n") {
+			t.Errorf("the code of %s differs from fromModelToController in readme_example_test.go:\n%s", path, strings.Join(got, "\n"))
+		}
+	}
+}
