@@ -14,8 +14,8 @@ import (
 )
 
 // Example_fromModelToController runs the code of the README's section
-// "From model to controller" (README-section.md in this folder; its
-// block is the function fromModelToController, kept equal by
+// "From model to controller" (README.md, between the from-model
+// markers; its block is the function fromModelToController, kept equal by
 // TestReadmeSection) and checks what it prints: design a plant test,
 // fit the model to its record, tune a PI, close the loop on the model,
 // over the model's uncertainty and over a named worst case.
@@ -34,7 +34,7 @@ func Example_fromModelToController() {
 	// worst case: 0 of 10 unstable, Ms up to 2.80
 }
 
-// fromModelToController is the block of README-section.md. It is one
+// fromModelToController is the block of README.md's section. It is one
 // function of over 60 lines because the README tells the loop as one
 // story, top to bottom.
 func fromModelToController(ctx context.Context, w io.Writer) error {

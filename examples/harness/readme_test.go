@@ -25,9 +25,9 @@ func sectionBlock(text string) ([]string, bool) {
 }
 
 // TestReadmeSection keeps the code of the README section "From model to
-// controller" (README-section.md, and README.md once it holds the
-// section) the same as fromModelToController, which
-// Example_fromModelToController runs and checks.
+// controller" (between the from-model markers of README.md) the same as
+// fromModelToController, which Example_fromModelToController runs and
+// checks.
 func TestReadmeSection(t *testing.T) {
 	src, err := os.ReadFile("readme_example_test.go")
 	if err != nil {
@@ -37,20 +37,15 @@ func TestReadmeSection(t *testing.T) {
 	i := strings.Index(s, "func fromModelToController(")
 	j := strings.Index(s[i:], "\n}\n")
 	want := strings.Split(s[i:i+j+2], "\n")
-	for _, path := range []string{"README-section.md", "../../README.md"} {
-		raw, err := os.ReadFile(path)
-		if err != nil {
-			t.Fatal(err)
-		}
-		got, ok := sectionBlock(string(raw))
-		if !ok {
-			if path == "README-section.md" {
-				t.Fatalf("%s has no from-model block", path)
-			}
-			continue
-		}
-		if strings.Join(got, "\n") != strings.Join(want, "\n") {
-			t.Errorf("the code of %s differs from fromModelToController in readme_example_test.go:\n%s", path, strings.Join(got, "\n"))
-		}
+	raw, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, ok := sectionBlock(string(raw))
+	if !ok {
+		t.Fatal("README.md has no from-model block")
+	}
+	if strings.Join(got, "\n") != strings.Join(want, "\n") {
+		t.Errorf("the code of README.md differs from fromModelToController in readme_example_test.go:\n%s", strings.Join(got, "\n"))
 	}
 }
