@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -466,5 +467,50 @@ func TestBadInputCheckSettings(t *testing.T) {
 	_, err := Check(est, flat, nil)
 	if !errors.As(err, &ce) || ce.Series != "x" || !errors.Is(err, tf.ErrConstant) || !strings.Contains(err.Error(), `series "x" is constant`) || !strings.Contains(err.Error(), "every sample is 40") {
 		t.Errorf("constant input: %v", err)
+	}
+}
+
+// TestCheckSeries: a series constant as given, or after its differencing
+// (a ramp under 1 - B, a ramp plus a seasonal step under 1 - B^4 is not),
+// is refused with a *SeriesError of kind ErrConstant naming it and its
+// differencing; a series that varies, or is too short to difference,
+// passes (cases worked by hand).
+func TestCheckSeries(t *testing.T) {
+	ramp := make([]float64, 30)
+	seasonal := make([]float64, 30)
+	for i := range ramp {
+		ramp[i] = 2 + 0.5*float64(i)
+		seasonal[i] = ramp[i] + float64(i%4)
+	}
+	for _, tc := range []struct {
+		name string
+		x    []float64
+		diff []float64
+		want string // "" for nil
+	}{
+		{"constant", []float64{3, 3, 3}, nil, `the input: every sample is 3,`},
+		{"ramp, no differencing", ramp, nil, ""},
+		{"ramp under 1-B", ramp, []float64{1, -1}, "after its differencing (1 - B): every differenced sample is 0.5,"},
+		{"ramp under (1-B)^2", ramp, []float64{1, -2, 1}, "every differenced sample is 0,"},
+		{"seasonal under 1-B", seasonal, []float64{1, -1}, ""},
+		{"too short to difference", []float64{1}, []float64{1, -1}, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			keep := append([]float64(nil), tc.x...)
+			err := CheckSeries("valve", "input", tc.x, tc.diff)
+			if !slices.Equal(tc.x, keep) {
+				t.Fatal("x modified")
+			}
+			if tc.want == "" {
+				if err != nil {
+					t.Fatalf("refused: %v", err)
+				}
+				return
+			}
+			var se *tf.SeriesError
+			if !errors.As(err, &se) || se.Series != "valve" || se.Op != "fit.CheckSeries" || !errors.Is(err, tf.ErrConstant) || !strings.Contains(err.Error(), tc.want) {
+				t.Fatalf("got %v, want a constant-series error with %q", err, tc.want)
+			}
+		})
 	}
 }
