@@ -145,4 +145,3 @@ func identifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 	}
 	return id, nil
 }
-

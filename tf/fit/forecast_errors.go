@@ -82,4 +82,3 @@ func (im InputModel) validate(name string) error {
 	}
 	return nil
 }
-
