@@ -49,6 +49,19 @@ func TestReadCSV(t *testing.T) {
 	}
 }
 
+// TestLoadRecord keeps the columns asked for, as numbers, and names the
+// columns the file has when one asked for is missing.
+func TestLoadRecord(t *testing.T) {
+	path := writeFile(t, "rec.csv", "t,y,x\n1,2.5,3\n2,4,NA\n")
+	rec, err := testutil.LoadRecord(path, "y", "x")
+	if err != nil || len(rec) != 2 || !slices.Equal(rec["y"], []float64{2.5, 4}) || rec["x"][0] != 3 || !math.IsNaN(rec["x"][1]) {
+		t.Errorf("record %v, error %v", rec, err)
+	}
+	if rec, err := testutil.LoadRecord(path, "y", "u"); rec != nil || err == nil || !strings.Contains(err.Error(), `no numeric column "u" (columns t, y, x)`) {
+		t.Errorf("missing column: record %v, error %v", rec, err)
+	}
+}
+
 // TestLoadCSVBadInput: each malformed file gives an error that starts with
 // the file and the line at fault and says what is wrong.
 func TestLoadCSVBadInput(t *testing.T) {
