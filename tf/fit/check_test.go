@@ -12,6 +12,7 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"gonum.org/v1/gonum/floats/scalar"
 )
@@ -46,17 +47,17 @@ func TestCheckBJsales(t *testing.T) {
 func TestCheckDetectsMisfit(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 12))
 	n := 1000
-	x := simAR1(rng, n, 0.5)
+	x := fixture.AR1(rng, n, 0.5)
 	u := make([]float64, n)
 	filter.Run(u[3:], []float64{2}, []float64{1, -0.5}, x[:n-3])
-	e := simAR1(rng, n, 0.7)
+	e := fixture.AR1(rng, n, 0.7)
 	y := make([]float64, n)
 	for i := range y {
 		y[i] = u[i] + 0.5*e[i]
 	}
 	data := map[string][]float64{"y": y, "x": x}
-	good := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 3}},
-		Noise: &arma.Noise{AR: oneMinus("p1", 1)}}
+	good := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 3}},
+		Noise: &arma.Noise{AR: fixture.OneMinus("p1", 1)}}
 	white := good.Clone()
 	white.Noise = &arma.Noise{}
 	wrongB := good.Clone()
@@ -122,7 +123,7 @@ func TestCheckAgainstScipy(t *testing.T) {
 // transfer function (w0 - w1 B)/(1 - d1 B) B^3 with AR(1) noise and a
 // constant, 5 free coefficients.
 func checkTwentyRowModel() tf.Model {
-	return plantModel()
+	return fixture.PlantModel()
 }
 
 // TestCheckVerdictTwentyRows fits a (1,1) transfer function with AR(1)
@@ -139,7 +140,7 @@ func checkTwentyRowModel() tf.Model {
 func TestCheckVerdictTwentyRows(t *testing.T) {
 	notConv, noSE := 0, 0
 	for seed := uint64(1); seed <= 30; seed++ {
-		y, x := simulatePlant(newRand(seed), 20)
+		y, x := fixture.SimulatePlant(fixture.NewRand(seed), 20)
 		data := map[string][]float64{"y": y, "x": x}
 		est, err := Model(context.Background(), checkTwentyRowModel(), data, nil)
 		if err != nil {
@@ -188,7 +189,7 @@ func TestCheckVerdictTwentyRows(t *testing.T) {
 	t.Logf("of 30 fits: %d not converged, %d with a missing standard error", notConv, noSE)
 }
 
-// TestCheckVerdictRoots sets the estimates of a sound fit (plantModel on
+// TestCheckVerdictRoots sets the estimates of a sound fit (fixture.PlantModel on
 // 300 samples of its own simulation) on and beyond the unit circle, one
 // polynomial at a time, and checks that Soundness and the verdict list
 // the root from the polynomial itself (the fit's warnings are cleared
@@ -239,7 +240,7 @@ func TestCheckVerdictRoots(t *testing.T) {
 		}
 	}
 	ma := est.Model.Clone()
-	ma.Noise = &arma.Noise{MA: oneMinus("t1", 1)}
+	ma.Noise = &arma.Noise{MA: fixture.OneMinus("t1", 1)}
 	ma.Noise.MA.Factors[0].Terms[1].Coef.Value = 1.5
 	e := &Estimate{Model: ma, Converged: true, N: 1000, Sigma2: 1, Params: []Param{{Name: "t1", Value: 1.5, SE: 0.1}}}
 	if got := strings.Join(e.Soundness(), "\n"); !strings.Contains(got, "the estimated noise MA (t1) has a zero at |z| = 1.5, outside the unit circle: the noise is not invertible") {
@@ -333,7 +334,7 @@ func checkIntegratorRefused(err error) bool {
 // model with the integrator written as fixed numbers, ZeroPreSample.
 func checkIntegratorFit(t *testing.T) (*Estimate, map[string][]float64) {
 	t.Helper()
-	rng := newRand(7)
+	rng := fixture.NewRand(7)
 	n := 200
 	x := make([]float64, n)
 	y := make([]float64, n)
@@ -355,8 +356,8 @@ func checkIntegratorFit(t *testing.T) (*Estimate, map[string][]float64) {
 
 func checkIntegratorModel() tf.Model {
 	return tf.Model{Output: "y", Const: &tf.Coef{Name: "c", Free: true},
-		Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))),
-			Den: mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 1, 1))), Delay: 1}},
+		Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))),
+			Den: fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "", 1, 1))), Delay: 1}},
 		Noise: &arma.Noise{}}
 }
 
@@ -369,9 +370,9 @@ func checkIntegratorModel() tf.Model {
 // convention gives residuals whose lag-1 autocorrelation differs by more
 // than 0.05, so the comparison can fail.
 func TestCheckZeroPreSampleACF(t *testing.T) {
-	rng := newRand(21)
+	rng := fixture.NewRand(21)
 	n := 300
-	x := simAR1(rng, n, 0.8)
+	x := fixture.AR1(rng, n, 0.8)
 	for i := range x {
 		x[i] = 50 + 5*x[i]
 	}
@@ -386,7 +387,7 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 		y[i] = u[i] + 0.3*rng.NormFloat64()
 	}
 	data := map[string][]float64{"y": y, "x": x}
-	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
+	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
 	est, err := Model(context.Background(), m, data, &Settings{ZeroPreSample: true})
 	if err != nil {
 		t.Fatal(err)
