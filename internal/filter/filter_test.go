@@ -181,14 +181,9 @@ func TestRunPanics(t *testing.T) {
 		"stream a0":    func() { NewStream([]float64{1}, []float64{0}, 0) },
 		"stream delay": func() { NewStream([]float64{1}, []float64{1}, -1) },
 	} {
-		func() {
-			defer func() {
-				if recover() == nil {
-					t.Errorf("%s: no panic", name)
-				}
-			}()
-			f()
-		}()
+		if !testutil.Panics(f) {
+			t.Errorf("%s: no panic", name)
+		}
 	}
 }
 

@@ -117,3 +117,11 @@ func CheckWords(t testing.TB, name, msg string, want, not []string) {
 		}
 	}
 }
+
+// Panics reports whether f panics: the check of a panic documented for
+// a programmer error (a negative length, mismatched slices).
+func Panics(f func()) (panicked bool) {
+	defer func() { panicked = recover() != nil }()
+	f()
+	return false
+}
