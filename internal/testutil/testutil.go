@@ -125,3 +125,14 @@ func Panics(f func()) (panicked bool) {
 	f()
 	return false
 }
+
+// WriteFile writes body to the file name in a fresh temporary directory
+// of the test and returns its path, failing the test on error.
+func WriteFile(t testing.TB, name, body string) string {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(path, []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}

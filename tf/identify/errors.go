@@ -109,25 +109,28 @@ func checkDiffSetting(arg string, c []float64, n int) error {
 func (s *Settings) validateNested() error {
 	if s.Fit != nil {
 		if err := s.Fit.Validate(); err != nil {
-			if se, ok := err.(*errs.SettingError); ok {
-				c := *se
-				c.Setting = "Settings.Fit." + se.Setting[len("Settings."):]
-				return &c
-			}
-			return err
+			return renameSetting(err, "Settings.", "Settings.Fit.")
 		}
 	}
 	if s.Check != nil {
 		if err := s.Check.Validate(); err != nil {
-			if se, ok := err.(*errs.SettingError); ok {
-				c := *se
-				c.Setting = "Settings.Check." + se.Setting[len("CheckSettings."):]
-				return &c
-			}
-			return err
+			return renameSetting(err, "CheckSettings.", "Settings.Check.")
 		}
 	}
 	return nil
+}
+
+// renameSetting returns err, a *SettingError of nested settings, with
+// the field named as the caller wrote it: the prefix from (the nested
+// struct's own name) replaced by to. Other errors are returned as they
+// are.
+func renameSetting(err error, from, to string) error {
+	if se, ok := err.(*errs.SettingError); ok {
+		c := *se
+		c.Setting = to + se.Setting[len(from):]
+		return &c
+	}
+	return err
 }
 
 // setOp names the exported function op in *err's chain (errs.SetOp);
