@@ -364,13 +364,7 @@ var roundTripCases = []roundTripCase{
 		spec:  "y = c + w0 / (1 - d1 B) B valve + 1 / (1 - p1 B) a",
 		want:  map[string]float64{"c": 10, "w0": 2, "d1": 0.7, "p1": 0.5},
 		in:    "valve",
-		input: func(rng *rand.Rand, n int) []float64 {
-			x := make([]float64, n)
-			for i := range x {
-				x[i] = 50 + 5*rng.NormFloat64()
-			}
-			return x
-		},
+		input: gaussianAbout(50, 5),
 	},
 	{
 		name:  "differenced feed about 20",
@@ -378,13 +372,7 @@ var roundTripCases = []roundTripCase{
 		spec:  "(1 - B) level = w0 / (1 - d1 B) B ((1 - B) feed) + 1 / (1 - p1 B) a",
 		want:  map[string]float64{"w0": 1.5, "d1": 0.6, "p1": 0.4},
 		in:    "feed",
-		input: func(rng *rand.Rand, n int) []float64 {
-			x := make([]float64, n)
-			for i := range x {
-				x[i] = 20 + rng.NormFloat64()
-			}
-			return x
-		},
+		input: gaussianAbout(20, 1),
 	},
 	{
 		name:  "MA noise, dead time 3",
@@ -392,14 +380,20 @@ var roundTripCases = []roundTripCase{
 		spec:  "y = c + (w0 - w1 B) / (1 - d1 B) B^3 u + (1 - t1 B) a",
 		want:  map[string]float64{"c": 5, "w0": 1.5, "w1": 0.4, "d1": 0.5, "t1": 0.6},
 		in:    "u",
-		input: func(rng *rand.Rand, n int) []float64 {
-			x := make([]float64, n)
-			for i := range x {
-				x[i] = 3 + rng.NormFloat64()
-			}
-			return x
-		},
+		input: gaussianAbout(3, 1),
 	},
+}
+
+// gaussianAbout returns the input of a round-trip case: n independent
+// normal draws of mean and standard deviation sd.
+func gaussianAbout(mean, sd float64) func(rng *rand.Rand, n int) []float64 {
+	return func(rng *rand.Rand, n int) []float64 {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = mean + sd*rng.NormFloat64()
+		}
+		return x
+	}
 }
 
 // simulateRoundTrip simulates c with the defaults of Model.Simulate (a settled
@@ -417,9 +411,9 @@ func simulateRoundTrip(t testing.TB, c roundTripCase, seed uint64, n int, fromRe
 // Asymptotically the CLS estimates are normal about the truth (Box,
 // Jenkins & Reinsel, chapter on fitting transfer-function models), so
 // that a 4 SE miss has probability 6e-5 per estimate; the 1 % allowance
-// is for the finite sample (n = 300). With Simulate's former default
-// (inputs from rest) the valve model misses in most seeds, which this
-// test also shows.
+// is for the finite sample (n = 300). Simulated from rest instead
+// (SimSettings.FromRest), the valve model misses in most seeds, which
+// this test also shows.
 func TestModelSimulateRoundTripDefaults(t *testing.T) {
 	seeds, n := 100, 300
 	for _, c := range roundTripCases {
