@@ -7,6 +7,7 @@ import (
 	"sort"
 	"strconv"
 
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/poly"
 )
 
@@ -162,7 +163,8 @@ func identify(w *Weights, s *IdentifySettings) (*Identification, error) {
 
 // withDefaults returns a copy of the settings (the zero value for nil)
 // with every default filled in: Level 0.99, Penalty 2, MaxR and MaxS by
-// orderBound, MinFraction 0.1 (0 for a negative value).
+// the order-bound rule (2 for zero, order zero only for a negative
+// value), MinFraction 0.1 (0 for a negative value).
 func (s *IdentifySettings) withDefaults() IdentifySettings {
 	var set IdentifySettings
 	if s != nil {
@@ -174,7 +176,7 @@ func (s *IdentifySettings) withDefaults() IdentifySettings {
 	if set.Penalty == 0 {
 		set.Penalty = 2
 	}
-	set.MaxR, set.MaxS = orderBound(set.MaxR), orderBound(set.MaxS)
+	set.MaxR, set.MaxS = errs.OrderBound(set.MaxR, 2), errs.OrderBound(set.MaxS, 2)
 	switch {
 	case set.MinFraction == 0:
 		set.MinFraction = 0.1
@@ -254,18 +256,6 @@ func rankForms(forms []Form) {
 // degree of delta and the degree of omega.
 func (f Form) String() string {
 	return "b=" + strconv.Itoa(f.Delay) + " (r=" + strconv.Itoa(f.R) + ", s=" + strconv.Itoa(f.S) + ")"
-}
-
-// orderBound applies the rule of MaxR and MaxS: 2 for zero, order zero
-// only for a negative value.
-func orderBound(m int) int {
-	switch {
-	case m == 0:
-		return 2
-	case m < 0:
-		return 0
-	}
-	return m
 }
 
 // deadTime applies the dead-time rule of IdentifySettings.Level to the

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -111,7 +112,7 @@ func (s *Settings) Validate() error {
 		if m.Sigma2 < 0 {
 			return settingError("Settings.ARMA.Sigma2", strconv.FormatFloat(m.Sigma2, 'g', -1, 64), "must be zero or positive")
 		}
-		if d := normPoly(m.DiffPoly()); s.Diff != nil && len(d) > 1 && !equalPoly(d, normPoly(s.Diff)) {
+		if d := normPoly(m.DiffPoly()); s.Diff != nil && len(d) > 1 && !slices.Equal(d, normPoly(s.Diff)) {
 			return settingError("Settings.Diff", strconv.Quote(polyText(s.Diff))+" while Settings.ARMA differences by "+strconv.Quote(polyText(d)), "must give the differencing written once, or the same in both")
 		}
 	}
@@ -127,18 +128,6 @@ func maxAbs(zs []complex128) float64 {
 		m = math.Max(m, cmplx.Abs(z))
 	}
 	return m
-}
-
-func equalPoly(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 func (s *Settings) name() string {

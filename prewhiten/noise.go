@@ -117,7 +117,7 @@ func identifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 	if isConstant(w) {
 		return nil, constantError(name, w[0], "")
 	}
-	maxP, maxQ := bound(set.MaxP), bound(set.MaxQ)
+	maxP, maxQ := errs.OrderBound(set.MaxP, 2), errs.OrderBound(set.MaxQ, 2)
 	lags := set.Lags
 	if lags == 0 {
 		lags = min(24, len(w)/4)
@@ -144,15 +144,4 @@ func identifyNoise(ctx context.Context, noise []float64, s *NoiseSettings) (*Noi
 		}
 	}
 	return id, nil
-}
-
-// bound returns the order bound m: 2 for zero, 0 for a negative value.
-func bound(m int) int {
-	switch {
-	case m == 0:
-		return 2
-	case m < 0:
-		return 0
-	}
-	return m
 }

@@ -52,6 +52,24 @@ func simulateTF(rng *rand.Rand, n, b, r, s int, snr float64) (x, y []float64) {
 	return x, y
 }
 
+// writeOrderConfusion writes a confusion table of (r, s) orders under
+// title: rows the true (r, s) = (i/3, i%3), one column per (r, s) of the
+// same index and, for cols = 10, a last column headed last; at(i, j) is
+// the count in row i, column j.
+func writeOrderConfusion(sb *strings.Builder, title, last string, cols int, at func(i, j int) int) {
+	sb.WriteString(title + "\n     ")
+	for j := 0; j < 9; j++ {
+		fmt.Fprintf(sb, " (%d,%d)", j/3, j%3)
+	}
+	sb.WriteString(last)
+	for i := 0; i < 9; i++ {
+		fmt.Fprintf(sb, "\n(%d,%d)", i/3, i%3)
+		for j := 0; j < cols; j++ {
+			fmt.Fprintf(sb, " %5d", at(i, j))
+		}
+	}
+}
+
 // TestRecovery simulates 200 replicates of models of our own (b = 0..6,
 // r = 0..2, s = 0..2 cycled, AR(1) input, ARMA(1,1) noise, signal-to-noise
 // variance ratio 3, n = 300, fixed seeds), prewhitens, estimates the
@@ -106,27 +124,9 @@ func TestRecovery(t *testing.T) {
 		}
 	}
 	var sb strings.Builder
-	sb.WriteString("confusion of (r,s): rows true, columns top candidate\n     ")
-	for j := 0; j < 9; j++ {
-		fmt.Fprintf(&sb, " (%d,%d)", j/3, j%3)
-	}
-	for i := 0; i < 9; i++ {
-		fmt.Fprintf(&sb, "\n(%d,%d)", i/3, i%3)
-		for j := 0; j < 9; j++ {
-			fmt.Fprintf(&sb, " %5d", conf[i][j])
-		}
-	}
-	sb.WriteString("\nconfusion of (r,s): rows true, columns the corner method's pick (last: none)\n     ")
-	for j := 0; j < 9; j++ {
-		fmt.Fprintf(&sb, " (%d,%d)", j/3, j%3)
-	}
-	sb.WriteString("  none")
-	for i := 0; i < 9; i++ {
-		fmt.Fprintf(&sb, "\n(%d,%d)", i/3, i%3)
-		for j := 0; j < 10; j++ {
-			fmt.Fprintf(&sb, " %5d", confC[i][j])
-		}
-	}
+	writeOrderConfusion(&sb, "confusion of (r,s): rows true, columns top candidate", "", 9, func(i, j int) int { return conf[i][j] })
+	sb.WriteString("\n")
+	writeOrderConfusion(&sb, "confusion of (r,s): rows true, columns the corner method's pick (last: none)", "  none", 10, func(i, j int) int { return confC[i][j] })
 	sb.WriteString("\nconfusion of b: rows true, columns found (7 = 7+ or none)\n   ")
 	for j := 0; j < 8; j++ {
 		fmt.Fprintf(&sb, " %4d", j)

@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 )
@@ -33,7 +34,7 @@ func TestCancel(t *testing.T) {
 	// Complex pair 0.6 +- 0.3i in both numerator and denominator, with a
 	// leading zero numerator coefficient (extra delay) that is kept.
 	pair := []float64{1, -1.2, 0.45}
-	g := tf.MustRational([]float64{0, 0.3, -0.36, 0.135}, mulP(pair, []float64{1, -0.9}), 1)
+	g := tf.MustRational([]float64{0, 0.3, -0.36, 0.135}, poly.Mul(pair, []float64{1, -0.9}), 1)
 	h, err := g.Cancel(1e-9)
 	if err != nil {
 		t.Fatal(err)
@@ -54,16 +55,6 @@ func TestCancel(t *testing.T) {
 		err.Error() != "tf.Rational.Cancel: tol = -1: must lie in [0, 1): the largest distance of a cancelled pole-zero pair, relative to max(1, |pole|)" {
 		t.Errorf("negative tol: %v", err)
 	}
-}
-
-func mulP(a, b []float64) []float64 {
-	c := make([]float64, len(a)+len(b)-1)
-	for i, x := range a {
-		for j, y := range b {
-			c[i+j] += x * y
-		}
-	}
-	return c
 }
 
 // TestFeedbackLoop checks the closed loop G/(1 + G H) against a direct

@@ -127,7 +127,6 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 	if band == 0 {
 		band = 0.02
 	}
-	from, to := o.rise()
 	rho := r.MaxPoleMagnitude()
 	if !(rho < 1) {
 		return StepFigures{}, &UnstableError{Op: op, What: "step figures", MaxPole: rho}
@@ -143,8 +142,37 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 	if n == 0 {
 		n = r.stepHorizon(rho, band)
 	}
-	y := r.Step(n)
-	info := StepFigures{Final: g, RiseFrom: from, RiseTo: to, Band: band, Horizon: n}
+	return o.measure(r.Step(n), g), nil
+}
+
+// Measure returns the step figures of a step response y computed
+// elsewhere (a closed loop's, a simulation's), measured as StepFigures
+// measures a term's: y[0] is the first sample after a unit step (the
+// response before it is 0), final its final value, and the Horizon of
+// the figures is len(y) (o.Horizon is not used). Errors (Op
+// "tf.StepSettings.Measure"): a *SettingError for a bad setting, a
+// *ModelError for a final value that is zero or not finite. y is not
+// modified.
+func (o StepSettings) Measure(y []float64, final float64) (StepFigures, error) {
+	const op = "tf.StepSettings.Measure"
+	if err := o.validate(op); err != nil {
+		return StepFigures{}, err
+	}
+	if final == 0 || math.IsNaN(final) || math.IsInf(final, 0) {
+		return StepFigures{}, &ModelError{Op: op, Part: "final value", Problem: "is " + formatNum(final) + ": the figures are fractions of a finite, non-zero final value"}
+	}
+	return o.measure(y, final), nil
+}
+
+// measure computes the figures of the step response y with final value
+// g, the settings valid and g finite and non-zero.
+func (o StepSettings) measure(y []float64, g float64) StepFigures {
+	band := o.Band
+	if band == 0 {
+		band = 0.02
+	}
+	from, to := o.rise()
+	info := StepFigures{Final: g, RiseFrom: from, RiseTo: to, Band: band, Horizon: len(y)}
 	span := func(s float64) Span { return Span{Samples: s, Time: s * o.Interval} }
 	info.Rise = span(crossing(y, g, to) - crossing(y, g, from))
 	peak, kPeak, under := 0.0, 0, 0.0
@@ -160,7 +188,7 @@ func (r Rational) StepFigures(o StepSettings) (StepFigures, error) {
 	info.Overshoot = max(peak-1, 0)
 	info.Undershoot = under
 	info.Settle = span(settling(y, g, band))
-	return info, nil
+	return info
 }
 
 // stepHorizon is the default horizon of StepFigures: the samples of the

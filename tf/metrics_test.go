@@ -1,6 +1,7 @@
 package tf_test
 
 import (
+	"errors"
 	"math"
 	"testing"
 
@@ -55,6 +56,41 @@ func TestStepFiguresFirstOrder(t *testing.T) {
 	}
 	if math.Abs(modes[0].TimeConstant.Samples-tau) > 1e-10 || math.Abs(modes[0].TimeConstant.Time-tau/2) > 1e-10 {
 		t.Errorf("time constant %+v, want %v samples", modes[0].TimeConstant, tau)
+	}
+}
+
+// TestStepSettingsMeasure: figures measured on a step response computed
+// elsewhere are those StepFigures reports for the term whose response it
+// is (the first-order lag of TestStepFiguresFirstOrder: rise tau ln 9,
+// common practice), and a zero or non-finite final value or a bad
+// setting is a typed error.
+func TestStepSettingsMeasure(t *testing.T) {
+	r, err := tf.FOPDT{Gain: 3, TimeConstant: 20}.Discretize(1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := tf.StepSettings{Interval: 0.5, Horizon: 400}
+	want, err := r.StepFigures(o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	y := r.Step(400)
+	got, err := o.Measure(y, want.Final)
+	if err != nil || got != want {
+		t.Errorf("Measure: %+v, %v\nwant the term's figures %+v", got, err, want)
+	}
+	if math.Abs(got.Rise.Samples-20*math.Log(9)) > 0.01 {
+		t.Errorf("rise %v samples, want %v", got.Rise.Samples, 20*math.Log(9))
+	}
+	for _, final := range []float64{0, math.NaN(), math.Inf(1)} {
+		var me *tf.ModelError
+		if _, err := o.Measure(y, final); !errors.As(err, &me) || me.Op != "tf.StepSettings.Measure" {
+			t.Errorf("final %v: %v, want a *ModelError of tf.StepSettings.Measure", final, err)
+		}
+	}
+	var se *tf.SettingError
+	if _, err := (tf.StepSettings{Band: 2}).Measure(y, 3); !errors.As(err, &se) || se.Setting != "StepSettings.Band" {
+		t.Errorf("band 2: %v, want a *SettingError naming StepSettings.Band", err)
 	}
 }
 

@@ -105,19 +105,27 @@ func (m Model) Params() []Coef {
 			out = append(out, *c)
 		}
 	}
+	m.eachCoefCopy(add)
+	return out
+}
+
+// eachCoefCopy calls fn with a copy of every coefficient of m in written
+// order: the constant, then each input's numerator and denominator, then
+// the noise's MA and AR polynomials (differencing holds no names). The
+// order of Params and of a printed spec's where-list.
+func (m Model) eachCoefCopy(fn func(c *Coef)) {
 	if m.Const != nil {
 		c := *m.Const
-		add(&c)
+		fn(&c)
 	}
 	for _, in := range m.Inputs {
-		eachCoefCopy(in.Num, add)
-		eachCoefCopy(in.Den, add)
+		eachCoefCopy(in.Num, fn)
+		eachCoefCopy(in.Den, fn)
 	}
 	if m.Noise != nil {
-		eachCoefCopy(m.Noise.MA, add)
-		eachCoefCopy(m.Noise.AR, add)
+		eachCoefCopy(m.Noise.MA, fn)
+		eachCoefCopy(m.Noise.AR, fn)
 	}
-	return out
 }
 
 // Seconds returns the sample interval in seconds (units s = 1 s, min =

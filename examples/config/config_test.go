@@ -170,6 +170,18 @@ func TestPositionsThroughEscapes(t *testing.T) {
 	}
 }
 
+// loadRefused loads raw as the file named and checks that it is refused
+// with one problem, at the text at, with the message msg.
+func loadRefused(t *testing.T, file, raw, at, msg string) {
+	t.Helper()
+	_, err := Load(file, []byte(raw))
+	pointsAt(t, raw, []byte(raw), err, at)
+	var p *Problem
+	if errors.As(err, &p) && p.Msg != msg {
+		t.Errorf("%s:\n got %s\nwant %s", raw, p.Msg, msg)
+	}
+}
+
 // TestKeys checks that keys are matched exactly: a key in another case,
 // a misspelt key or a key given twice is a problem at that key.
 func TestKeys(t *testing.T) {
@@ -188,12 +200,7 @@ func TestKeys(t *testing.T) {
 		{`{"models": [{"name": "a", "spec": "y = w0 x + a; every 1 s", "owner": "me"}]}`, `"owner"`,
 			`unknown key "owner" in model 1 ("a") (known: name, notes, spec, validity)`},
 	} {
-		_, err := Load("k.json", []byte(c.raw))
-		pointsAt(t, c.raw, []byte(c.raw), err, c.at)
-		var p *Problem
-		if errors.As(err, &p) && p.Msg != c.msg {
-			t.Errorf("%s:\n got %s\nwant %s", c.raw, p.Msg, c.msg)
-		}
+		loadRefused(t, "k.json", c.raw, c.at, c.msg)
 	}
 }
 
@@ -242,12 +249,7 @@ func TestBrokenFiles(t *testing.T) {
 		{`{"models": [[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]}`, `[[[]]]`,
 			"JSON: nested more than 32 deep; a config nests six deep (the file, models, a model, its validity, its ranges, a range)"},
 	} {
-		_, err := Load("b.json", []byte(c.raw))
-		pointsAt(t, c.raw, []byte(c.raw), err, c.at)
-		var p *Problem
-		if errors.As(err, &p) && p.Msg != c.msg {
-			t.Errorf("%s:\n got %s\nwant %s", c.raw, p.Msg, c.msg)
-		}
+		loadRefused(t, "b.json", c.raw, c.at, c.msg)
 	}
 }
 

@@ -16,6 +16,7 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/record"
 )
 
@@ -32,15 +33,6 @@ func ghCSV(t *testing.T) string {
 		t.Fatal(err)
 	}
 	return b.String()
-}
-
-func writeFile(t *testing.T, name, content string) string {
-	t.Helper()
-	p := filepath.Join(t.TempDir(), name)
-	if err := os.WriteFile(p, []byte(content), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	return p
 }
 
 // lines keeps the header and the data lines of csv for which keep(i)
@@ -74,7 +66,7 @@ func run(t *testing.T, o Options) (*Outcome, string, error) {
 // Its length is one run followed through its report, save and
 // forced save.
 func TestFailedFitIsNotAdequate(t *testing.T) {
-	path := writeFile(t, "short.csv", lines(ghCSV(t), func(i int) bool { return i < 20 }))
+	path := testutil.WriteFile(t, "short.csv", lines(ghCSV(t), func(i int) bool { return i < 20 }))
 	o := DefaultOptions()
 	o.Data = path
 	o.Spec = "temp = c + w0/(1 - d1 B) B^3 valve + (1 - t1 B) a"
@@ -229,7 +221,7 @@ func gapRecord(t *testing.T, from, to int) (string, map[string][]float64) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return writeFile(t, "gap.csv", lines(full, func(i int) bool { return i < from || i >= to })), rec.Series
+	return testutil.WriteFile(t, "gap.csv", lines(full, func(i int) bool { return i < from || i >= to })), rec.Series
 }
 
 // TestGapRemedies is the issue's test of real data with a gap: the demo
@@ -368,7 +360,7 @@ func TestTimeColumns(t *testing.T) {
 	o := DefaultOptions()
 	o.Inputs = []string{"valve"}
 
-	o.Data = writeFile(t, "ts.csv", ts)
+	o.Data = testutil.WriteFile(t, "ts.csv", ts)
 	ds, err := load(o, record.Remedy{})
 	if err != nil {
 		t.Fatal(err)
@@ -377,7 +369,7 @@ func TestTimeColumns(t *testing.T) {
 		t.Errorf("timestamps: interval %v %s, n %d, notes %q", ds.interval, ds.unit, ds.n, ds.notes)
 	}
 
-	o.Data = writeFile(t, "daily.csv", daily)
+	o.Data = testutil.WriteFile(t, "daily.csv", daily)
 	_, err = load(o, record.Remedy{})
 	var ge *record.GapError
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), "not evenly spaced at 1 d") ||
@@ -385,7 +377,7 @@ func TestTimeColumns(t *testing.T) {
 		t.Errorf("dates: %v", err)
 	}
 
-	o.Data = writeFile(t, "jitter.csv", jitter)
+	o.Data = testutil.WriteFile(t, "jitter.csv", jitter)
 	_, err = load(o, record.Remedy{Kind: "linear", Max: 5})
 	if !errors.As(err, &ge) || !strings.Contains(err.Error(), `line 32 ("1830") comes 1.5 intervals after line 31 ("1740"): not a whole number of intervals`) ||
 		!strings.Contains(err.Error(), "these are irregular or longer") || !strings.Contains(err.Error(), "must be resampled to the interval first") {
@@ -407,20 +399,20 @@ func TestTimeColumnMistakes(t *testing.T) {
 	o := DefaultOptions()
 	o.Inputs = []string{"valve"}
 	back := strings.Replace(ts, "2026-01-01T10:00:20Z", "2026-01-01T09:00:20Z", 1)
-	o.Data = writeFile(t, "back.csv", back)
+	o.Data = testutil.WriteFile(t, "back.csv", back)
 	var ce *record.LineError
 	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || ce.Line != 4 || !strings.Contains(err.Error(), `back.csv:4: column "when": the time goes back: "2026-01-01T09:00:20Z" after "2026-01-01T10:00:10Z" on line 3`) {
 		t.Errorf("backwards: %v", err)
 	}
 
-	o.Data, o.TimeUnit = writeFile(t, "ts.csv", ts), "min"
+	o.Data, o.TimeUnit = testutil.WriteFile(t, "ts.csv", ts), "min"
 	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time-unit = min: for a time column of numbers, and "when" holds timestamps or dates: leave -time-unit out`) {
 		t.Errorf("-time-unit on timestamps: %v", err)
 	}
 	o.TimeUnit = ""
 
 	// A named time column that is missing, or is a series.
-	o.Data = writeFile(t, "ts.csv", ts)
+	o.Data = testutil.WriteFile(t, "ts.csv", ts)
 	o.Time = "stamp"
 	if _, err := load(o, record.Remedy{}); err == nil || !strings.Contains(err.Error(), `-time = "stamp": `+o.Data+` has no such column (columns: when, note, valve, temp; -time none: no time column)`) {
 		t.Errorf("missing time column: %v", err)
@@ -437,12 +429,12 @@ func TestTimeColumnMistakes(t *testing.T) {
 	// A first column named as a time in a form not read is refused,
 	// not ignored.
 	o.Time = ""
-	o.Data = writeFile(t, "us.csv", "Date,valve,temp\n"+strings.Repeat("01/02/2026,50,15\n", 12))
+	o.Data = testutil.WriteFile(t, "us.csv", "Date,valve,temp\n"+strings.Repeat("01/02/2026,50,15\n", 12))
 	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `us.csv:2: column "Date": the first column looks like a time column by its name, but "01/02/2026" is neither a number nor a timestamp`) {
 		t.Errorf("unread date form: %v", err)
 	}
 	// Seconds since 1970 under the name timestamp are a time column.
-	o.Data = writeFile(t, "epoch.csv", "timestamp,valve,temp\n"+func() string {
+	o.Data = testutil.WriteFile(t, "epoch.csv", "timestamp,valve,temp\n"+func() string {
 		var b strings.Builder
 		for i := range 12 {
 			fmt.Fprintf(&b, "%d,%d,%g\n", 1767225600+30*i, 40+i%3, 15+0.1*float64(i%4))
@@ -460,7 +452,7 @@ func TestTimeColumnMistakes(t *testing.T) {
 	// A text column the run does not name is not read; one it names is
 	// reported at its first cell.
 	o = DefaultOptions()
-	o.Data, o.Inputs = writeFile(t, "ts.csv", ts), []string{"note"}
+	o.Data, o.Inputs = testutil.WriteFile(t, "ts.csv", ts), []string{"note"}
 	if _, err := load(o, record.Remedy{}); !errors.As(err, &ce) || !strings.Contains(err.Error(), `ts.csv:2: column "note": "reading 0 ok" is not a finite number`) {
 		t.Errorf("named text column: %v", err)
 	}
@@ -469,7 +461,7 @@ func TestTimeColumnMistakes(t *testing.T) {
 // TestIntervalsMustAgree is item 4: the -interval flag, the spec's every
 // and the time column must agree.
 func TestIntervalsMustAgree(t *testing.T) {
-	gh := writeFile(t, "gh.csv", ghCSV(t))
+	gh := testutil.WriteFile(t, "gh.csv", ghCSV(t))
 	for _, c := range []struct {
 		data, spec, interval string
 		want                 string
@@ -521,7 +513,7 @@ func TestPlanOutsideRecord(t *testing.T) {
 		fmt.Fprintf(&b, "%g,%.4f\n", u[i], 6+x+0.03*rng.NormFloat64())
 	}
 	o := DefaultOptions()
-	o.Data, o.Inputs, o.Spec = writeFile(t, "valve.csv", b.String()), []string{"valve"}, "temp = c + w0 / (1 - d1 B) B^3 valve + a"
+	o.Data, o.Inputs, o.Spec = testutil.WriteFile(t, "valve.csv", b.String()), []string{"valve"}, "temp = c + w0 / (1 - d1 B) B^3 valve + a"
 	o.Horizon = 180
 
 	o.Plan = demoPlan
@@ -576,7 +568,7 @@ func TestMessagesBlameTheRightThing(t *testing.T) {
 		{"open.csv", "temp,valve,outdoor\n\"1,3,4\n5,6,7\n", nil, `open.csv:2: a quoted field opened on this line is not closed (the reader ran on to line 3)`, ""},
 	} {
 		o := DefaultOptions()
-		o.Data = writeFile(t, c.name, c.content)
+		o.Data = testutil.WriteFile(t, c.name, c.content)
 		if c.inputs != nil {
 			o.Inputs = c.inputs
 		}
@@ -702,7 +694,7 @@ func TestFlagsNotIgnored(t *testing.T) {
 // separator; naming the file's time column as an input says that it is
 // the time column and how to read it as a series.
 func TestColumnHints(t *testing.T) {
-	path := writeFile(t, "gh.csv", lines(ghCSV(t), func(i int) bool { return i < 200 }))
+	path := testutil.WriteFile(t, "gh.csv", lines(ghCSV(t), func(i int) bool { return i < 200 }))
 	o := DefaultOptions()
 	o.Data, o.Sep = path, '\t'
 	_, out, err := run(t, o)
@@ -731,7 +723,7 @@ func TestColumnHints(t *testing.T) {
 // then refuses in one short line on standard error); an adequate one
 // with 0.
 func TestExitNotAdequate(t *testing.T) {
-	path := writeFile(t, "short.csv", lines(ghCSV(t), func(i int) bool { return i < 20 }))
+	path := testutil.WriteFile(t, "short.csv", lines(ghCSV(t), func(i int) bool { return i < 20 }))
 	spec := "temp = c + w0/(1 - d1 B) B^3 valve + (1 - t1 B) a"
 	save := filepath.Join(t.TempDir(), "m.json")
 	for _, extra := range [][]string{nil, {"-save", save}} {
@@ -769,7 +761,7 @@ func TestAmount(t *testing.T) {
 // The reader's messages speak of this program's flags, without the name
 // of the library function that found the fault.
 func TestReaderMessagesNameTheFlag(t *testing.T) {
-	path := writeFile(t, "gh.csv", lines(ghCSV(t), func(i int) bool { return i < 200 }))
+	path := testutil.WriteFile(t, "gh.csv", lines(ghCSV(t), func(i int) bool { return i < 200 }))
 	o := DefaultOptions()
 	o.Data, o.Time = path, "minit"
 	_, _, err := run(t, o)

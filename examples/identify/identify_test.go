@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"fmt"
 	"image/png"
 	"math"
 	"os"
@@ -230,6 +231,22 @@ func TestPlanAndInterval(t *testing.T) {
 	}
 }
 
+// refusedBeforeFit runs the program quietly with the options o (the
+// case named label) and checks that it stops with an error containing
+// want before the fit starts.
+func refusedBeforeFit(t *testing.T, label string, o Options, want string) {
+	t.Helper()
+	o.Quiet = true
+	var out bytes.Buffer
+	_, err := Run(context.Background(), o, &out, nil)
+	if err == nil || !strings.Contains(err.Error(), want) {
+		t.Errorf("%s: error %v, want it to contain %q", label, err, want)
+	}
+	if strings.Contains(out.String(), "Candidate models") {
+		t.Errorf("%s: the fit ran before the flags were checked", label)
+	}
+}
+
 // TestBadForecastFlags: a horizon beyond the record (at 10^11 it would
 // ask for more memory than a machine has), a negative one and a plan
 // with a non-number or NaN are reported before the fit starts.
@@ -245,15 +262,8 @@ func TestBadForecastFlags(t *testing.T) {
 		{180, "0:NaN", `plan "0:NaN"`},
 	} {
 		o := DefaultOptions()
-		o.Horizon, o.Plan, o.Quiet = c.horizon, c.plan, true
-		var out bytes.Buffer
-		_, err := Run(context.Background(), o, &out, nil)
-		if err == nil || !strings.Contains(err.Error(), c.want) {
-			t.Errorf("horizon %d plan %q: error %v, want it to contain %q", c.horizon, c.plan, err, c.want)
-		}
-		if strings.Contains(out.String(), "Candidate models") {
-			t.Errorf("horizon %d plan %q: the fit ran before the flags were checked", c.horizon, c.plan)
-		}
+		o.Horizon, o.Plan = c.horizon, c.plan
+		refusedBeforeFit(t, fmt.Sprintf("horizon %d plan %q", c.horizon, c.plan), o, c.want)
 	}
 }
 
@@ -271,14 +281,7 @@ func TestBadSeriesFlags(t *testing.T) {
 		{[]string{"valve"}, 5760, "-skip 5760: want fewer samples than the record's 5760"},
 	} {
 		o := DefaultOptions()
-		o.Inputs, o.Skip, o.Quiet = c.inputs, c.skip, true
-		var out bytes.Buffer
-		_, err := Run(context.Background(), o, &out, nil)
-		if err == nil || !strings.Contains(err.Error(), c.want) {
-			t.Errorf("inputs %v skip %d: error %v, want it to contain %q", c.inputs, c.skip, err, c.want)
-		}
-		if strings.Contains(out.String(), "Candidate models") {
-			t.Errorf("inputs %v skip %d: the fit ran before the flags were checked", c.inputs, c.skip)
-		}
+		o.Inputs, o.Skip = c.inputs, c.skip
+		refusedBeforeFit(t, fmt.Sprintf("inputs %v skip %d", c.inputs, c.skip), o, c.want)
 	}
 }

@@ -6,6 +6,10 @@
 // as variables, so that one errors.As target answers "bad sample in
 // series x at index i" whichever stage found it.
 //
+// The constructors Series, Model and Setting build the shapes as the
+// packages report them, UnknownInput the error for a settings map naming
+// a series that is not an input, and Num formats a number for a message.
+//
 // # Op
 //
 // Every shape has an Op: the exported function the caller called, as
@@ -23,7 +27,7 @@
 // negative value a meaning (a negative order bound means "order zero
 // only"). Every settings struct has a Validate method, and the function
 // that takes it calls Validate first. Count, NonNegative and Probability
-// apply the rule.
+// apply the rule; OrderBound applies it to the bound of an order search.
 //
 // # Goroutines
 //

@@ -33,6 +33,14 @@ func TestShapes(t *testing.T) {
 		{&ModelError{Op: "tf.NewSystem", Part: "input valve dead time", Problem: "-1 samples is below 0"}, ErrModel,
 			`tf.NewSystem: input valve dead time: -1 samples is below 0`},
 		{&ConvergenceError{Op: "arma.Fit", Iter: 500, Reason: "iteration limit"}, ErrConvergence, `arma.Fit: no convergence after 500 iterations: iteration limit`},
+		// The constructors of build.go give the same shapes, Op empty.
+		{Series("y", ErrShort, 3, 10, "to fit"), ErrShort, `series "y": 3 samples, at least 10 needed (to fit)`},
+		{Model(`input "x"`, "it is unstable"), ErrModel, `input "x": it is unstable`},
+		{Setting("Settings.Tol", "-1", "must be zero or positive"), ErrSetting, `Settings.Tol = -1: must be zero or positive`},
+		{UnknownInput("Settings.InputDiff", "vlave", []string{"valve", "feed"}), ErrName,
+			`series "vlave": named in Settings.InputDiff, it is not an input (the inputs are "valve", "feed"); check the spelling`},
+		{UnknownInput("Settings.InputDiff", "x", nil), ErrName,
+			`series "x": named in Settings.InputDiff, it is not an input (there are no inputs); check the spelling`},
 		{&InternalError{Op: "tf.Identify", Value: "boom"}, ErrInternal,
 			`tf.Identify: internal fault: boom (a fault of the library; please report it with this message)`},
 	} {

@@ -6,7 +6,10 @@
 // run forward over a series (Run, with values before the start taken as
 // zero; RunInit, continuing from given past inputs and outputs;
 // RunChecked, which also reports non-finite inputs), or fed one sample at
-// a time (Stream, with an optional input delay).
+// a time (Stream, with an optional input delay). Diff applies a
+// differencing operator D(B) to a series (the non-recursive case, with
+// zeros where the operator would reach before the record), the one
+// differencing of estimation and identification.
 //
 // Orders up to 4 with a_0 = 1 run in specialised loops that keep the
 // recursion state in registers and have no bounds checks; other filters

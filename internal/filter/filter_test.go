@@ -14,31 +14,24 @@ import (
 // documented order.
 func naive(b, a, x, xh, yh []float64) []float64 {
 	y := make([]float64, len(x))
-	xv := func(t int) float64 {
+	// at returns v[t], or for t < 0 the value of history h that far back
+	// (h oldest first), or zero before the history.
+	at := func(v, h []float64, t int) float64 {
 		if t >= 0 {
-			return x[t]
+			return v[t]
 		}
-		if k := len(xh) + t; k >= 0 {
-			return xh[k]
-		}
-		return 0
-	}
-	yv := func(t int) float64 {
-		if t >= 0 {
-			return y[t]
-		}
-		if k := len(yh) + t; k >= 0 {
-			return yh[k]
+		if k := len(h) + t; k >= 0 {
+			return h[k]
 		}
 		return 0
 	}
 	for t := range x {
 		s := 0.0
 		for k := range b {
-			s += b[k] * xv(t-k)
+			s += b[k] * at(x, xh, t-k)
 		}
 		for k := len(a) - 1; k >= 1; k-- {
-			s -= a[k] * yv(t-k)
+			s -= a[k] * at(y, yh, t-k)
 		}
 		y[t] = s / a[0]
 	}
@@ -181,14 +174,9 @@ func TestRunPanics(t *testing.T) {
 		"stream a0":    func() { NewStream([]float64{1}, []float64{0}, 0) },
 		"stream delay": func() { NewStream([]float64{1}, []float64{1}, -1) },
 	} {
-		func() {
-			defer func() {
-				if recover() == nil {
-					t.Errorf("%s: no panic", name)
-				}
-			}()
-			f()
-		}()
+		if !testutil.Panics(f) {
+			t.Errorf("%s: no panic", name)
+		}
 	}
 }
 

@@ -74,6 +74,30 @@ func LoadCSV(path string, text ...string) (*Table, error) {
 	return tb, nil
 }
 
+// LoadRecord reads the CSV file at path (relative to the repository root
+// unless absolute) with LoadCSV and returns the numeric columns named, by
+// name: a record as the estimation functions take it. A column the file
+// lacks is an error naming the file and the columns it has. For the
+// examples and programs that have no testing.TB to fail.
+func LoadRecord(path string, names ...string) (map[string][]float64, error) {
+	if !filepath.IsAbs(path) {
+		path = filepath.Join(Root(), path)
+	}
+	tb, err := LoadCSV(path)
+	if err != nil {
+		return nil, err
+	}
+	rec := make(map[string][]float64, len(names))
+	for _, name := range names {
+		c, ok := tb.Num[name]
+		if !ok {
+			return nil, fmt.Errorf("%s: no numeric column %q (columns %s)", path, name, strings.Join(tb.Names, ", "))
+		}
+		rec[name] = c
+	}
+	return rec, nil
+}
+
 // parseCSV reads a table from r; errors start with the line number.
 func parseCSV(r io.Reader, path string, text []string) (*Table, error) {
 	rd := csv.NewReader(r)

@@ -11,21 +11,10 @@ import (
 	"github.com/backshift/backshift/internal/testutil"
 )
 
-// writeFile writes body to name in a fresh temporary directory and
-// returns its path.
-func writeFile(t *testing.T, name, body string) string {
-	t.Helper()
-	path := filepath.Join(t.TempDir(), name)
-	if err := os.WriteFile(path, []byte(body), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	return path
-}
-
 // TestReadCSV reads a small file of our own: column order is kept,
 // numbers parse, NA reads as NaN and a text column keeps its cells.
 func TestReadCSV(t *testing.T) {
-	path := writeFile(t, "ok.csv", "series,t,value\nx,0,1.5\nx,1,NA\ny,0,-2e3\n")
+	path := testutil.WriteFile(t, "ok.csv", "series,t,value\nx,0,1.5\nx,1,NA\ny,0,-2e3\n")
 	tb := testutil.ReadCSV(t, path, "series")
 	if !slices.Equal(tb.Names, []string{"series", "t", "value"}) || tb.Path != path {
 		t.Errorf("names %v, path %q", tb.Names, tb.Path)
@@ -44,8 +33,21 @@ func TestReadCSV(t *testing.T) {
 		t.Errorf("value %v, want [1.5 NaN -2000]", v)
 	}
 	// A header alone is a table of empty columns.
-	if tb := testutil.ReadCSV(t, writeFile(t, "head.csv", "a,b\n")); len(tb.Column(t, "a")) != 0 || len(tb.Column(t, "b")) != 0 {
+	if tb := testutil.ReadCSV(t, testutil.WriteFile(t, "head.csv", "a,b\n")); len(tb.Column(t, "a")) != 0 || len(tb.Column(t, "b")) != 0 {
 		t.Errorf("header only: %v", tb.Num)
+	}
+}
+
+// TestLoadRecord keeps the columns asked for, as numbers, and names the
+// columns the file has when one asked for is missing.
+func TestLoadRecord(t *testing.T) {
+	path := testutil.WriteFile(t, "rec.csv", "t,y,x\n1,2.5,3\n2,4,NA\n")
+	rec, err := testutil.LoadRecord(path, "y", "x")
+	if err != nil || len(rec) != 2 || !slices.Equal(rec["y"], []float64{2.5, 4}) || rec["x"][0] != 3 || !math.IsNaN(rec["x"][1]) {
+		t.Errorf("record %v, error %v", rec, err)
+	}
+	if rec, err := testutil.LoadRecord(path, "y", "u"); rec != nil || err == nil || !strings.Contains(err.Error(), `no numeric column "u" (columns t, y, x)`) {
+		t.Errorf("missing column: record %v, error %v", rec, err)
 	}
 }
 
@@ -66,7 +68,7 @@ func TestLoadCSVBadInput(t *testing.T) {
 		{"text.csv", "a,b\n1,2\n", []string{"c"}, `text.csv:1: no column "c" to read as text (columns a, b)`},
 		{"quote.csv", "a,b\n1,2\n3,\"4\n", nil, "quote.csv:3: extraneous or missing \" in quoted-field"},
 	} {
-		path := writeFile(t, c.name, c.body)
+		path := testutil.WriteFile(t, c.name, c.body)
 		tb, err := testutil.LoadCSV(path, c.text...)
 		if err == nil || tb != nil || !strings.HasPrefix(err.Error(), filepath.Dir(path)) || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s: table %v, error %v, want one ending %q", c.name, tb, err, c.want)

@@ -117,3 +117,22 @@ func CheckWords(t testing.TB, name, msg string, want, not []string) {
 		}
 	}
 }
+
+// Panics reports whether f panics: the check of a panic documented for
+// a programmer error (a negative length, mismatched slices).
+func Panics(f func()) (panicked bool) {
+	defer func() { panicked = recover() != nil }()
+	f()
+	return false
+}
+
+// WriteFile writes body to the file name in a fresh temporary directory
+// of the test and returns its path, failing the test on error.
+func WriteFile(t testing.TB, name, body string) string {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(path, []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}

@@ -40,3 +40,10 @@ func TestCheckWords(t *testing.T) {
 		t.Errorf("satisfied lists reported %q", r.msgs)
 	}
 }
+
+// Panics tells a function that panics from one that returns.
+func TestPanics(t *testing.T) {
+	if !Panics(func() { panic("boom") }) || Panics(func() {}) {
+		t.Error("Panics does not tell a panic from a return")
+	}
+}

@@ -5,6 +5,8 @@ import (
 	"math/big"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // TestLagSumsExact runs LagSums (through the AVX2/FMA kernel where the
@@ -74,14 +76,9 @@ func TestLagSumsExact(t *testing.T) {
 func TestLagSumsShortB(t *testing.T) {
 	for name, f := range map[string]func(out, a, b []float64){"LagSums": LagSums, "LagSumsGo": LagSumsGo} {
 		out := make([]float64, 8)
-		func() {
-			defer func() {
-				if recover() == nil {
-					t.Errorf("%s: no panic for len(b) = 10 < len(a)+len(out)-1 = 11", name)
-				}
-			}()
-			f(out, make([]float64, 4), make([]float64, 10))
-		}()
+		if !testutil.Panics(func() { f(out, make([]float64, 4), make([]float64, 10)) }) {
+			t.Errorf("%s: no panic for len(b) = 10 < len(a)+len(out)-1 = 11", name)
+		}
 		for j, v := range out {
 			if v != 0 {
 				t.Errorf("%s: out[%d] = %v written before the panic", name, j, v)

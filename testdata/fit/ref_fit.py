@@ -143,10 +143,12 @@ def residuals(model, data, par, want_noise=False):
     return a
 
 
-def ar_input_forecast(x, diff, h):
-    """Forecast an input h steps from an AR model of its differenced series
-    fitted by Yule-Walker with AIC order choice (as R's ar(): divisor n,
-    var.pred = c0 prod(1 - pacf^2) n / (n - (p + 1)))."""
+def yule_walker_aic(x, diff):
+    """The AR model of x differenced by diff, fitted by Yule-Walker (divisor
+    n, mean removed) with the AIC order choice over orders 0..10 log10 n, as
+    R's ar() does. Returns the differencing degree d, the centred
+    differenced series zc, its mean, the chosen coefficients phi, the order
+    p and the innovation variances v of orders 0..m (Levinson-Durbin)."""
     d = degree(diff)
     z = diffed(x, diff)[d:]
     n = len(z)
@@ -157,7 +159,15 @@ def ar_input_forecast(x, diff, h):
     phis, v = levinson(acov, m)
     aic = [n * np.log(v[k]) + 2 * k for k in range(m + 1)]
     p = int(np.argmin(aic))
-    phi = phis[p]
+    return d, zc, mean, phis[p], p, v
+
+
+def ar_input_forecast(x, diff, h):
+    """Forecast an input h steps from an AR model of its differenced series
+    fitted by Yule-Walker with AIC order choice (as R's ar(): divisor n,
+    var.pred = c0 prod(1 - pacf^2) n / (n - (p + 1)))."""
+    d, zc, mean, phi, p, v = yule_walker_aic(x, diff)
+    n = len(zc)
     var_pred = v[p] * n / (n - (p + 1))
     ext = list(zc)
     for _ in range(h):
@@ -238,16 +248,7 @@ def levinson(acov, m):
 
 def prewhiten(x, diff):
     """AR prewhitening by Yule-Walker with AIC order choice (divisor n, mean removed)."""
-    d = degree(diff)
-    z = diffed(x, diff)[d:]
-    n = len(z)
-    zc = z - z.mean()
-    m = min(n - 1, int(np.floor(10 * np.log10(n))))
-    acov = np.array([np.dot(zc[: n - k], zc[k:]) / n for k in range(m + 1)])
-    phis, v = levinson(acov, m)
-    aic = [n * np.log(v[k]) + 2 * k for k in range(m + 1)]
-    p = int(np.argmin(aic))
-    phi = phis[p]
+    d, zc, _, phi, p, _ = yule_walker_aic(x, diff)
     alpha = np.full(len(x), np.nan)
     full = np.concatenate([np.zeros(d), zc])
     for t in range(d + p, len(x)):

@@ -220,15 +220,15 @@ func checkLags(set CheckSettings, nres, noisePar int, output string) (int, error
 		lags = max(min(24, nres/4), noisePar+1)
 		lags = min(lags, nres-1)
 	} else if lags >= nres {
-		return 0, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+		return 0, errs.Setting("CheckSettings.Lags", strconv.Itoa(set.Lags),
 			"must be below the number of residuals ("+strconv.Itoa(nres)+"); 0 means min(24, N/4)")
 	}
 	if lags < noisePar+1 {
 		if set.Lags > 0 {
-			return 0, settingErr("CheckSettings.Lags", strconv.Itoa(set.Lags),
+			return 0, errs.Setting("CheckSettings.Lags", strconv.Itoa(set.Lags),
 				"must exceed the number of free noise coefficients ("+strconv.Itoa(noisePar)+") so that the Ljung-Box test has a degree of freedom")
 		}
-		return 0, seriesErr(output, errs.ErrShort, nres, noisePar+2,
+		return 0, errs.Series(output, errs.ErrShort, nres, noisePar+2,
 			"counting residuals: the Ljung-Box check needs more residuals than free noise coefficients + 1")
 	}
 	return lags, nil
@@ -255,8 +255,8 @@ func whitenessCheck(a []float64, lags, noisePar int, alpha float64) (ResidualChe
 // record), and tests the sum of squares against chi-square with one
 // degree of freedom per lag less the term's free coefficients.
 func crossCheck(in tf.Input, x, resid []float64, first, kx int, alpha float64) (CrossCheck, error) {
-	if v, ok := constantAfterDiff(x, in.Diff.Coeffs()); ok {
-		return CrossCheck{}, constantErr(in.Series, "input", v, diffText(in.Diff.Coeffs()))
+	if err := CheckSeries(in.Series, "input", x, in.Diff.Coeffs()); err != nil {
+		return CrossCheck{}, err
 	}
 	stage := fmt.Sprintf("prewhitening input %q for the residual cross-correlation check", in.Series)
 	f, err := prewhiten.Fit(x, &prewhiten.Settings{Diff: in.Diff.Coeffs(), Name: in.Series})
@@ -462,6 +462,26 @@ func estimateUsable(fn string, e *Estimate) error {
 	return err
 }
 
+// CheckSeries refuses a series that carries no response because it is
+// constant after its differencing: name is the series' name as the
+// caller gave it, role "output" or "input" (for the message), x its
+// samples and diff the coefficients of its differencing operator D(B),
+// constant term first (nil or {1} for none). D(B) x, from index deg D
+// on, counts as constant when its spread is within 1e-12 of the largest
+// magnitude of x (the rounding of the differencing). The error is a
+// *SeriesError of kind ErrConstant naming the series, the value and the
+// differencing; a series that varies, or is too short to difference,
+// gives nil. Check (before the residual cross-correlation of an input)
+// and identify.Candidates refuse a constant series through this one
+// function, so that they agree. x is not modified.
+func CheckSeries(name, role string, x, diff []float64) (err error) {
+	defer setOp("fit.CheckSeries", &err)
+	if v, ok := constantAfterDiff(x, diff); ok {
+		return constantErr(name, role, v, diffText(diff))
+	}
+	return nil
+}
+
 // constantAfterDiff reports whether x differenced by dc (from index deg dc on)
 // is constant, and its value: a spread within 1e-12 of the largest
 // magnitude of x (rounding of the differencing) counts as constant.
@@ -560,6 +580,6 @@ func condCheck(e *Estimate, data map[string][]float64) error {
 	if !ok || e.Conditioning.First < len(y) {
 		return nil // a missing output is reported by the fit preparation
 	}
-	return seriesErr(e.Model.Output, errs.ErrShort, len(y), e.Conditioning.First+1,
+	return errs.Series(e.Model.Output, errs.ErrShort, len(y), e.Conditioning.First+1,
 		"the estimate's residuals start at index "+strconv.Itoa(e.Conditioning.First)+" (its conditioning: dead times, differencing and noise order), so the record must reach beyond it")
 }

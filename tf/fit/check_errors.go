@@ -43,9 +43,9 @@ func (e *StageError) Unwrap() error { return e.Err }
 // a *ModelError naming the part at fault.
 func estimateErr(part string, v float64, problem string) error {
 	if part == "" {
-		return modelErr("estimate", problem)
+		return errs.Model("estimate", problem)
 	}
-	return modelErr("estimate's "+part+" = "+fmtF(v), problem)
+	return errs.Model("estimate's "+part+" = "+errs.Num(v), problem)
 }
 
 // overflowErr reports a series computed by Check or Forecast that left
@@ -56,7 +56,7 @@ func overflowErr(series string, t int, v float64, hint string) error {
 	if hint != "" {
 		d += ": " + hint
 	}
-	return seriesErr(series, errs.ErrOverflow, 0, 0, d)
+	return errs.Series(series, errs.ErrOverflow, 0, 0, d)
 }
 
 // constantErr reports a series (named as the caller named it) that is
@@ -67,9 +67,9 @@ func overflowErr(series string, t int, v float64, hint string) error {
 func constantErr(series, role string, v float64, diff string) error {
 	val := strconv.FormatFloat(v, 'g', 6, 64)
 	if diff == "" {
-		return seriesErr(series, errs.ErrConstant, 0, 0, "the "+role+": every sample is "+val+
+		return errs.Series(series, errs.ErrConstant, 0, 0, "the "+role+": every sample is "+val+
 			", so it carries no response; check that the right column was chosen")
 	}
-	return seriesErr(series, errs.ErrConstant, 0, 0, "the "+role+", after its differencing "+diff+": every differenced sample is "+val+
+	return errs.Series(series, errs.ErrConstant, 0, 0, "the "+role+", after its differencing "+diff+": every differenced sample is "+val+
 		", so it carries no response; check the column, or ask for less differencing")
 }

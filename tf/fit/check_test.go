@@ -5,12 +5,14 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"gonum.org/v1/gonum/floats/scalar"
 )
@@ -45,17 +47,17 @@ func TestCheckBJsales(t *testing.T) {
 func TestCheckDetectsMisfit(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 12))
 	n := 1000
-	x := simAR1(rng, n, 0.5)
+	x := fixture.AR1(rng, n, 0.5)
 	u := make([]float64, n)
 	filter.Run(u[3:], []float64{2}, []float64{1, -0.5}, x[:n-3])
-	e := simAR1(rng, n, 0.7)
+	e := fixture.AR1(rng, n, 0.7)
 	y := make([]float64, n)
 	for i := range y {
 		y[i] = u[i] + 0.5*e[i]
 	}
 	data := map[string][]float64{"y": y, "x": x}
-	good := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 3}},
-		Noise: &arma.Noise{AR: oneMinus("p1", 1)}}
+	good := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 3}},
+		Noise: &arma.Noise{AR: fixture.OneMinus("p1", 1)}}
 	white := good.Clone()
 	white.Noise = &arma.Noise{}
 	wrongB := good.Clone()
@@ -121,7 +123,7 @@ func TestCheckAgainstScipy(t *testing.T) {
 // transfer function (w0 - w1 B)/(1 - d1 B) B^3 with AR(1) noise and a
 // constant, 5 free coefficients.
 func checkTwentyRowModel() tf.Model {
-	return plantModel()
+	return fixture.PlantModel()
 }
 
 // TestCheckVerdictTwentyRows fits a (1,1) transfer function with AR(1)
@@ -138,7 +140,7 @@ func checkTwentyRowModel() tf.Model {
 func TestCheckVerdictTwentyRows(t *testing.T) {
 	notConv, noSE := 0, 0
 	for seed := uint64(1); seed <= 30; seed++ {
-		y, x := simulatePlant(newRand(seed), 20)
+		y, x := fixture.SimulatePlant(fixture.NewRand(seed), 20)
 		data := map[string][]float64{"y": y, "x": x}
 		est, err := Model(context.Background(), checkTwentyRowModel(), data, nil)
 		if err != nil {
@@ -187,7 +189,7 @@ func TestCheckVerdictTwentyRows(t *testing.T) {
 	t.Logf("of 30 fits: %d not converged, %d with a missing standard error", notConv, noSE)
 }
 
-// TestCheckVerdictRoots sets the estimates of a sound fit (plantModel on
+// TestCheckVerdictRoots sets the estimates of a sound fit (fixture.PlantModel on
 // 300 samples of its own simulation) on and beyond the unit circle, one
 // polynomial at a time, and checks that Soundness and the verdict list
 // the root from the polynomial itself (the fit's warnings are cleared
@@ -238,7 +240,7 @@ func TestCheckVerdictRoots(t *testing.T) {
 		}
 	}
 	ma := est.Model.Clone()
-	ma.Noise = &arma.Noise{MA: oneMinus("t1", 1)}
+	ma.Noise = &arma.Noise{MA: fixture.OneMinus("t1", 1)}
 	ma.Noise.MA.Factors[0].Terms[1].Coef.Value = 1.5
 	e := &Estimate{Model: ma, Converged: true, N: 1000, Sigma2: 1, Params: []Param{{Name: "t1", Value: 1.5, SE: 0.1}}}
 	if got := strings.Join(e.Soundness(), "\n"); !strings.Contains(got, "the estimated noise MA (t1) has a zero at |z| = 1.5, outside the unit circle: the noise is not invertible") {
@@ -332,7 +334,7 @@ func checkIntegratorRefused(err error) bool {
 // model with the integrator written as fixed numbers, ZeroPreSample.
 func checkIntegratorFit(t *testing.T) (*Estimate, map[string][]float64) {
 	t.Helper()
-	rng := newRand(7)
+	rng := fixture.NewRand(7)
 	n := 200
 	x := make([]float64, n)
 	y := make([]float64, n)
@@ -354,8 +356,8 @@ func checkIntegratorFit(t *testing.T) (*Estimate, map[string][]float64) {
 
 func checkIntegratorModel() tf.Model {
 	return tf.Model{Output: "y", Const: &tf.Coef{Name: "c", Free: true},
-		Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))),
-			Den: mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 1, 1))), Delay: 1}},
+		Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))),
+			Den: fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "", 1, 1))), Delay: 1}},
 		Noise: &arma.Noise{}}
 }
 
@@ -368,9 +370,9 @@ func checkIntegratorModel() tf.Model {
 // convention gives residuals whose lag-1 autocorrelation differs by more
 // than 0.05, so the comparison can fail.
 func TestCheckZeroPreSampleACF(t *testing.T) {
-	rng := newRand(21)
+	rng := fixture.NewRand(21)
 	n := 300
-	x := simAR1(rng, n, 0.8)
+	x := fixture.AR1(rng, n, 0.8)
 	for i := range x {
 		x[i] = 50 + 5*x[i]
 	}
@@ -385,7 +387,7 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 		y[i] = u[i] + 0.3*rng.NormFloat64()
 	}
 	data := map[string][]float64{"y": y, "x": x}
-	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
+	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
 	est, err := Model(context.Background(), m, data, &Settings{ZeroPreSample: true})
 	if err != nil {
 		t.Fatal(err)
@@ -466,5 +468,50 @@ func TestBadInputCheckSettings(t *testing.T) {
 	_, err := Check(est, flat, nil)
 	if !errors.As(err, &ce) || ce.Series != "x" || !errors.Is(err, tf.ErrConstant) || !strings.Contains(err.Error(), `series "x" is constant`) || !strings.Contains(err.Error(), "every sample is 40") {
 		t.Errorf("constant input: %v", err)
+	}
+}
+
+// TestCheckSeries: a series constant as given, or after its differencing
+// (a ramp under 1 - B, a ramp plus a seasonal step under 1 - B^4 is not),
+// is refused with a *SeriesError of kind ErrConstant naming it and its
+// differencing; a series that varies, or is too short to difference,
+// passes (cases worked by hand).
+func TestCheckSeries(t *testing.T) {
+	ramp := make([]float64, 30)
+	seasonal := make([]float64, 30)
+	for i := range ramp {
+		ramp[i] = 2 + 0.5*float64(i)
+		seasonal[i] = ramp[i] + float64(i%4)
+	}
+	for _, tc := range []struct {
+		name string
+		x    []float64
+		diff []float64
+		want string // "" for nil
+	}{
+		{"constant", []float64{3, 3, 3}, nil, `the input: every sample is 3,`},
+		{"ramp, no differencing", ramp, nil, ""},
+		{"ramp under 1-B", ramp, []float64{1, -1}, "after its differencing (1 - B): every differenced sample is 0.5,"},
+		{"ramp under (1-B)^2", ramp, []float64{1, -2, 1}, "every differenced sample is 0,"},
+		{"seasonal under 1-B", seasonal, []float64{1, -1}, ""},
+		{"too short to difference", []float64{1}, []float64{1, -1}, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			keep := append([]float64(nil), tc.x...)
+			err := CheckSeries("valve", "input", tc.x, tc.diff)
+			if !slices.Equal(tc.x, keep) {
+				t.Fatal("x modified")
+			}
+			if tc.want == "" {
+				if err != nil {
+					t.Fatalf("refused: %v", err)
+				}
+				return
+			}
+			var se *tf.SeriesError
+			if !errors.As(err, &se) || se.Series != "valve" || se.Op != "fit.CheckSeries" || !errors.Is(err, tf.ErrConstant) || !strings.Contains(err.Error(), tc.want) {
+				t.Fatalf("got %v, want a constant-series error with %q", err, tc.want)
+			}
+		})
 	}
 }

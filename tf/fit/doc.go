@@ -10,7 +10,9 @@
 // the residuals with the prewhitened inputs, soundness of the roots) and
 // gives a verdict; Estimate.Forecast forecasts the output with intervals,
 // from planned or forecast inputs. Screen is the screening of an output
-// record (stuck runs, spikes) that Model runs first.
+// record (stuck runs, spikes) that Model runs first; CheckSeries refuses
+// a series that is constant after its differencing, for Check and for
+// tf/identify.
 //
 // # Conditioning
 //

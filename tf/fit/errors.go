@@ -41,25 +41,6 @@ func (e *InterruptedError) Error() string {
 // Unwrap returns ErrConvergence and the context's error.
 func (e *InterruptedError) Unwrap() []error { return []error{errs.ErrConvergence, e.Err} }
 
-// seriesErr returns a *SeriesError of the given kind (Op is set by the
-// exported function, see setOp).
-func seriesErr(series string, kind error, have, need int, detail string) error {
-	return &errs.SeriesError{Series: series, Kind: kind, Have: have, Need: need, Detail: detail}
-}
-
-// modelErr returns a *ModelError for the part named.
-func modelErr(part, problem string) error {
-	return &errs.ModelError{Part: part, Problem: problem}
-}
-
-// settingErr returns a *SettingError for the setting named.
-func settingErr(setting, value, rule string) error {
-	return &errs.SettingError{Setting: setting, Value: value, Rule: rule}
-}
-
-// fmtF formats a float for a message.
-func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
-
 // setOp names the exported function op in *err's chain (errs.SetOp);
 // deferred at each exported entry point.
 func setOp(op string, err *error) { errs.SetOp(op, *err) }

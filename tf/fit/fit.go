@@ -11,6 +11,7 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/est"
+	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -95,7 +96,7 @@ func (s Settings) validate() error {
 		}
 	}
 	if !(s.Tol < 1) {
-		return settingErr("Settings.Tol", fmtF(s.Tol), "must be below 1 (a relative reduction of the sum of squares; 0 means the default)")
+		return errs.Setting("Settings.Tol", errs.Num(s.Tol), "must be below 1 (a relative reduction of the sum of squares; 0 means the default)")
 	}
 	return nil
 }
@@ -285,7 +286,7 @@ func settleRefit(ctx context.Context, e *Estimate, data map[string][]float64, se
 func finishEstimate(ctx context.Context, e *Estimate) (*Estimate, error) {
 	out := e.Model.Output
 	if !(e.SSQ > 0) || math.IsInf(e.LogLik, 0) || math.IsNaN(e.LogLik) {
-		return nil, modelErr("fit of output "+strconv.Quote(out), "the residual sum of squares is zero: the model reproduces the output exactly (a noise-free or constant output), "+
+		return nil, errs.Model("fit of output "+strconv.Quote(out), "the residual sum of squares is zero: the model reproduces the output exactly (a noise-free or constant output), "+
 			"or the samples are so small that the squares of the residuals underflow float64 (below about 1e-162); "+
 			"sigma^2, the log-likelihood and AIC/BIC would not exist: rescale the series (change its units) or check the data")
 	}
@@ -327,7 +328,7 @@ var unitPoly = []float64{1}
 // in one place and held in another.
 func bindModel(m tf.Model) (binding, error) {
 	if m.Output == "" {
-		return binding{}, modelErr("model", "it names no output series (Model.Output is empty)")
+		return binding{}, errs.Model("model", "it names no output series (Model.Output is empty)")
 	}
 	if err := m.Validate(); err != nil {
 		return binding{}, err
@@ -368,11 +369,11 @@ func bindModel(m tf.Model) (binding, error) {
 	}
 	for name := range held {
 		if _, ok := b.index[name]; ok {
-			return binding{}, modelErr("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
+			return binding{}, errs.Model("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
 		}
 	}
 	if len(b.names) == 0 {
-		return binding{}, modelErr("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
+		return binding{}, errs.Model("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")
 	}
 	return b, nil
 }
@@ -384,7 +385,7 @@ func fixedDifferencing(m tf.Model) error {
 	noFree := func(p tf.Poly) {
 		p.Each(func(c *tf.Coef) {
 			if c.Name != "" && c.Free && err == nil {
-				err = modelErr("differencing coefficient "+c.Name, "differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)")
+				err = errs.Model("differencing coefficient "+c.Name, "differencing must be given as fixed numbers, not estimated (write the value, or hold it with =)")
 			}
 		})
 	}
@@ -402,12 +403,12 @@ func fixedDifferencing(m tf.Model) error {
 func checkData(m tf.Model, data map[string][]float64, set Settings) ([]float64, error) {
 	y, ok := data[m.Output]
 	if !ok {
-		return nil, seriesErr(m.Output, errs.ErrName, 0, 0, "the model's output is not in the data; check the series names")
+		return nil, errs.Series(m.Output, errs.ErrName, 0, 0, "the model's output is not in the data; check the series names")
 	}
 	used := map[string]bool{m.Output: true}
 	for _, in := range m.Inputs {
 		if _, ok := data[in.Series]; !ok {
-			return nil, seriesErr(in.Series, errs.ErrName, 0, 0, "an input of the model is not in the data; check the series names")
+			return nil, errs.Series(in.Series, errs.ErrName, 0, 0, "an input of the model is not in the data; check the series names")
 		}
 		used[in.Series] = true
 	}
@@ -420,7 +421,7 @@ func checkData(m tf.Model, data map[string][]float64, set Settings) ([]float64, 
 		}
 		if len(extra) > 0 {
 			sort.Strings(extra)
-			return nil, seriesErr(extra[0], errs.ErrName, 0, 0, "it is in the data but not used by the model, often a misspelt input name; set fit.Settings.IgnoreExtra to allow extra series")
+			return nil, errs.Series(extra[0], errs.ErrName, 0, 0, "it is in the data but not used by the model, often a misspelt input name; set fit.Settings.IgnoreExtra to allow extra series")
 		}
 	}
 	n := len(y)
@@ -432,7 +433,7 @@ func checkData(m tf.Model, data map[string][]float64, set Settings) ([]float64, 
 	for _, name := range names {
 		x := data[name]
 		if len(x) != n {
-			return nil, seriesErr(name, errs.ErrLength, len(x), n, "the length of the output "+strconv.Quote(m.Output)+"; every series of one fit has one length")
+			return nil, errs.Series(name, errs.ErrLength, len(x), n, "the length of the output "+strconv.Quote(m.Output)+"; every series of one fit has one length")
 		}
 		for t, v := range x {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -461,7 +462,7 @@ func isConstant(x []float64) bool {
 func checkConstTerms(m tf.Model) error {
 	chk := func(p tf.Poly, what string) error {
 		if c := p.Coeffs(); c[0] == 0 {
-			return modelErr(what, "the constant term is zero, so the term is not causal; write it as 1 + ... (or move the dead time to the input's delay)")
+			return errs.Model(what, "the constant term is zero, so the term is not causal; write it as 1 + ... (or move the dead time to the input's delay)")
 		}
 		return nil
 	}
@@ -482,42 +483,9 @@ func checkConstTerms(m tf.Model) error {
 }
 
 // applyDiff returns D(B) x over the full length with zeros before index
-// deg D.
+// deg D (filter.Diff into a new slice).
 func applyDiff(x, dc []float64) []float64 {
-	return diffTo(make([]float64, len(x)), x, dc)
-}
-
-// diffTo writes D(B) x into out (len(x)), zeros before index deg D,
-// and returns out.
-func diffTo(out, x, dc []float64) []float64 {
-	d := len(dc) - 1
-	clear(out[:min(d, len(x))])
-	switch {
-	case d == 0 && dc[0] == 1:
-		copy(out, x)
-		return out
-	case d == 1 && len(x) > 1:
-		// The same operations as the general loop, unrolled.
-		c0, c1 := dc[0], dc[1]
-		o, x0, x1 := out[1:len(x)], x[1:], x[:len(x)-1]
-		x0 = x0[:len(o)]
-		x1 = x1[:len(o)]
-		for t := range o {
-			s := 0.0
-			s += c0 * x0[t]
-			s += c1 * x1[t]
-			o[t] = s
-		}
-		return out
-	}
-	for t := d; t < len(x); t++ {
-		s := 0.0
-		for k, c := range dc {
-			s += c * x[t-k]
-		}
-		out[t] = s
-	}
-	return out
+	return filter.Diff(make([]float64, len(x)), x, dc)
 }
 
 var errFilter = errors.New("tf: filter output not finite")

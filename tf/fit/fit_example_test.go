@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math/rand/v2"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
@@ -24,8 +25,8 @@ func ExampleModel() {
 		}
 		power[i] = level
 	}
-	// simulateRecord (fixtures_external_test.go) simulates the true model.
-	data, err := simulateRecord("temp = 20 + 0.8 / (1 - 0.9 B) B^2 power + 1 / (1 - 0.5 B) a",
+	// fixture.SimulateRecord (internal/fixture) simulates the true model.
+	data, err := fixture.SimulateRecord("temp = 20 + 0.8 / (1 - 0.9 B) B^2 power + 1 / (1 - 0.5 B) a",
 		map[string][]float64{"power": power}, &tf.SimSettings{Seed1: 3, Seed2: 4, Sigma: 0.2, BurnIn: 100})
 	if err != nil {
 		fmt.Println(err)

@@ -11,6 +11,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
@@ -33,7 +34,7 @@ func trapData(seed uint64, n int, level float64) []float64 {
 func TestBadInputModelDataAndModel(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + a")
 	x := trapData(1, 200, 5)
-	y := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})["y"]
+	y := fixture.MustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})["y"]
 	constant := func(v float64) []float64 {
 		c := make([]float64, 200)
 		for i := range c {
@@ -184,7 +185,7 @@ func TestModelWarningTraps(t *testing.T) {
 	for i := 10; i < n; i++ {
 		step[i] = 1
 	}
-	slow := mustRecord(t, "y = 0.01 / (1 - 0.9999 B) B u + a", map[string][]float64{"u": step}, &tf.SimSettings{Seed1: 6, Sigma: 0.05})["y"]
+	slow := fixture.MustRecord(t, "y = 0.01 / (1 - 0.9999 B) B u + a", map[string][]float64{"u": step}, &tf.SimSettings{Seed1: 6, Sigma: 0.05})["y"]
 	e, err = fit.Model(context.Background(), parse.MustModel("y = w0 / (1 - d1 B) B u + a"), map[string][]float64{"y": slow, "u": step}, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -228,7 +229,7 @@ func TestModelWarningTraps(t *testing.T) {
 func TestBadInputModelSettings(t *testing.T) {
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + AR(1)")
 	x := trapData(1, 120, 5)
-	data := mustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})
+	data := fixture.MustRecord(t, "y = 1 + 2 / (1 - 0.5 B) B x + 1 / (1 - 0.3 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Seed1: 1, Sigma: 1})
 	cases := []struct {
 		s     fit.Settings
 		field string
@@ -281,8 +282,8 @@ func second[T any](_ T, err error) error { return err }
 // refitting from there returns to the same estimates (within the
 // optimiser's tolerance, 1e-6 relative) in very few iterations.
 func TestModelSpecRoundTrip(t *testing.T) {
-	u := whiteInput(8, 9, 800)
-	data := mustRecord(t, "y = 3 + (1.5 - 0.4 B) / (1 - 0.7 B) B^2 u + (1 - 0.3 B) a", map[string][]float64{"u": u}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.5})
+	u := fixture.WhiteInput(8, 9, 800)
+	data := fixture.MustRecord(t, "y = 3 + (1.5 - 0.4 B) / (1 - 0.7 B) B^2 u + (1 - 0.3 B) a", map[string][]float64{"u": u}, &tf.SimSettings{Seed1: 1, Seed2: 2, Sigma: 0.5})
 	m, err := parse.Model("y = c + (w0 - w1 B) / (1 - d1 B) B^2 u + (1 - t1 B) a")
 	if err != nil {
 		t.Fatal(err)
@@ -363,13 +364,7 @@ var roundTripCases = []roundTripCase{
 		spec:  "y = c + w0 / (1 - d1 B) B valve + 1 / (1 - p1 B) a",
 		want:  map[string]float64{"c": 10, "w0": 2, "d1": 0.7, "p1": 0.5},
 		in:    "valve",
-		input: func(rng *rand.Rand, n int) []float64 {
-			x := make([]float64, n)
-			for i := range x {
-				x[i] = 50 + 5*rng.NormFloat64()
-			}
-			return x
-		},
+		input: gaussianAbout(50, 5),
 	},
 	{
 		name:  "differenced feed about 20",
@@ -377,13 +372,7 @@ var roundTripCases = []roundTripCase{
 		spec:  "(1 - B) level = w0 / (1 - d1 B) B ((1 - B) feed) + 1 / (1 - p1 B) a",
 		want:  map[string]float64{"w0": 1.5, "d1": 0.6, "p1": 0.4},
 		in:    "feed",
-		input: func(rng *rand.Rand, n int) []float64 {
-			x := make([]float64, n)
-			for i := range x {
-				x[i] = 20 + rng.NormFloat64()
-			}
-			return x
-		},
+		input: gaussianAbout(20, 1),
 	},
 	{
 		name:  "MA noise, dead time 3",
@@ -391,14 +380,20 @@ var roundTripCases = []roundTripCase{
 		spec:  "y = c + (w0 - w1 B) / (1 - d1 B) B^3 u + (1 - t1 B) a",
 		want:  map[string]float64{"c": 5, "w0": 1.5, "w1": 0.4, "d1": 0.5, "t1": 0.6},
 		in:    "u",
-		input: func(rng *rand.Rand, n int) []float64 {
-			x := make([]float64, n)
-			for i := range x {
-				x[i] = 3 + rng.NormFloat64()
-			}
-			return x
-		},
+		input: gaussianAbout(3, 1),
 	},
+}
+
+// gaussianAbout returns the input of a round-trip case: n independent
+// normal draws of mean and standard deviation sd.
+func gaussianAbout(mean, sd float64) func(rng *rand.Rand, n int) []float64 {
+	return func(rng *rand.Rand, n int) []float64 {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = mean + sd*rng.NormFloat64()
+		}
+		return x
+	}
 }
 
 // simulateRoundTrip simulates c with the defaults of Model.Simulate (a settled
@@ -406,7 +401,7 @@ var roundTripCases = []roundTripCase{
 func simulateRoundTrip(t testing.TB, c roundTripCase, seed uint64, n int, fromRest bool) map[string][]float64 {
 	t.Helper()
 	x := c.input(rand.New(rand.NewPCG(seed, 77)), n)
-	return mustRecord(t, c.truth, map[string][]float64{c.in: x}, &tf.SimSettings{Seed1: seed, Seed2: 78, Sigma: 1, FromRest: fromRest})
+	return fixture.MustRecord(t, c.truth, map[string][]float64{c.in: x}, &tf.SimSettings{Seed1: seed, Seed2: 78, Sigma: 1, FromRest: fromRest})
 }
 
 // TestModelSimulateRoundTripDefaults simulates each of the three models
@@ -416,9 +411,9 @@ func simulateRoundTrip(t testing.TB, c roundTripCase, seed uint64, n int, fromRe
 // Asymptotically the CLS estimates are normal about the truth (Box,
 // Jenkins & Reinsel, chapter on fitting transfer-function models), so
 // that a 4 SE miss has probability 6e-5 per estimate; the 1 % allowance
-// is for the finite sample (n = 300). With Simulate's former default
-// (inputs from rest) the valve model misses in most seeds, which this
-// test also shows.
+// is for the finite sample (n = 300). Simulated from rest instead
+// (SimSettings.FromRest), the valve model misses in most seeds, which
+// this test also shows.
 func TestModelSimulateRoundTripDefaults(t *testing.T) {
 	seeds, n := 100, 300
 	for _, c := range roundTripCases {
@@ -657,8 +652,8 @@ func FuzzModel(f *testing.F) {
 func TestShortRecordForConditioning(t *testing.T) {
 	m := parse.MustModel("y = 0.5 / (1 - 0.6 B) B^2 x + AR(1)")
 	n := 400
-	x := whiteInput(3, 4, n)
-	y := mustRecord(t, "y = 0.5 / (1 - 0.6 B) B^2 x + 1 / (1 - 0.4 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.1, Seed1: 1, Seed2: 2})["y"]
+	x := fixture.WhiteInput(3, 4, n)
+	y := fixture.MustRecord(t, "y = 0.5 / (1 - 0.6 B) B^2 x + 1 / (1 - 0.4 B) a", map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.1, Seed1: 1, Seed2: 2})["y"]
 	e, err := fit.Model(context.Background(), m, map[string][]float64{"x": x, "y": y}, nil)
 	if err != nil {
 		t.Fatal(err)

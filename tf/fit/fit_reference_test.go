@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 	"gonum.org/v1/gonum/floats/scalar"
@@ -81,7 +82,7 @@ func polyOf(fs []factorJSON) tf.Poly {
 	for _, f := range fs {
 		fac := tf.Factor{Exp: f.Exp}
 		for _, t := range f.Terms {
-			fac.Terms = append(fac.Terms, mkTerm(t.Neg, t.Name, t.Value, t.Power))
+			fac.Terms = append(fac.Terms, fixture.Term(t.Neg, t.Name, t.Value, t.Power))
 		}
 		p.Factors = append(p.Factors, fac)
 	}

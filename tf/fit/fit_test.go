@@ -13,27 +13,28 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 )
 
 // TestBadInputModel checks the typed errors of Model and their messages.
 func TestBadInputModel(t *testing.T) {
-	y, x := simulatePlant(newRand(9), 60)
+	y, x := fixture.SimulatePlant(fixture.NewRand(9), 60)
 	good := func() map[string][]float64 {
 		return map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
 	}
-	fixed := plantModel()
+	fixed := fixture.PlantModel()
 	fixed.Const = &tf.Coef{Value: 2}
-	fixed.Inputs[0].Num = mkPoly(mkFactor(mkTerm(false, "", 1.5, 0)))
-	fixed.Inputs[0].Den = mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 0.6, 1)))
-	fixed.Noise.AR = mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "", 0.5, 1)))
-	freeDiff := plantModel()
-	freeDiff.Diff = oneMinus("k", 1)
-	mixed := plantModel()
-	mixed.Noise.AR = mkPoly(mkFactor(mkTerm(false, "", 1, 0), tf.Term{Neg: true, Coef: tf.Coef{Name: "d1", Value: 0.5}, Power: 1}))
-	zeroDen := plantModel()
-	zeroDen.Inputs[0].Den = mkPoly(mkFactor(mkTerm(false, "", 0, 0), mkTerm(true, "d1", 0, 1)))
-	noOut := plantModel()
+	fixed.Inputs[0].Num = fixture.Poly(fixture.Factor(fixture.Term(false, "", 1.5, 0)))
+	fixed.Inputs[0].Den = fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "", 0.6, 1)))
+	fixed.Noise.AR = fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "", 0.5, 1)))
+	freeDiff := fixture.PlantModel()
+	freeDiff.Diff = fixture.OneMinus("k", 1)
+	mixed := fixture.PlantModel()
+	mixed.Noise.AR = fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), tf.Term{Neg: true, Coef: tf.Coef{Name: "d1", Value: 0.5}, Power: 1}))
+	zeroDen := fixture.PlantModel()
+	zeroDen.Inputs[0].Den = fixture.Poly(fixture.Factor(fixture.Term(false, "", 0, 0), fixture.Term(true, "d1", 0, 1)))
+	noOut := fixture.PlantModel()
 	noOut.Output = ""
 	for _, tc := range []struct {
 		name   string
@@ -43,15 +44,15 @@ func TestBadInputModel(t *testing.T) {
 		series string // the SeriesError's series, "" for a *ModelError
 		msg    string
 	}{
-		{"missing output", plantModel(), func() map[string][]float64 { d := good(); delete(d, "y"); return d },
+		{"missing output", fixture.PlantModel(), func() map[string][]float64 { d := good(); delete(d, "y"); return d },
 			tf.ErrName, "y", `fit.Model: series "y": the model's output is not in the data; check the series names`},
-		{"missing input", plantModel(), func() map[string][]float64 { d := good(); delete(d, "x"); return d },
+		{"missing input", fixture.PlantModel(), func() map[string][]float64 { d := good(); delete(d, "x"); return d },
 			tf.ErrName, "x", `fit.Model: series "x": an input of the model is not in the data; check the series names`},
-		{"extra series", plantModel(), func() map[string][]float64 { d := good(); d["xx"] = x; return d },
+		{"extra series", fixture.PlantModel(), func() map[string][]float64 { d := good(); d["xx"] = x; return d },
 			tf.ErrName, "xx", `fit.Model: series "xx": it is in the data but not used by the model, often a misspelt input name; set fit.Settings.IgnoreExtra to allow extra series`},
-		{"unequal lengths", plantModel(), func() map[string][]float64 { d := good(); d["x"] = d["x"][:50]; return d },
+		{"unequal lengths", fixture.PlantModel(), func() map[string][]float64 { d := good(); d["x"] = d["x"][:50]; return d },
 			tf.ErrLength, "x", `fit.Model: series "x" has 50 samples against 60 (the length of the output "y"; every series of one fit has one length)`},
-		{"too few observations", plantModel(), func() map[string][]float64 {
+		{"too few observations", fixture.PlantModel(), func() map[string][]float64 {
 			d := good()
 			d["x"], d["y"] = d["x"][:9], d["y"][:9]
 			return d
@@ -86,7 +87,7 @@ func TestBadInputModel(t *testing.T) {
 	}{{"x", 7, math.NaN()}, {"y", 0, math.Inf(1)}, {"y", 59, math.Inf(-1)}} {
 		d := good()
 		d[tc.series][tc.index] = tc.v
-		_, err := Model(context.Background(), plantModel(), d, nil)
+		_, err := Model(context.Background(), fixture.PlantModel(), d, nil)
 		var se *errs.SampleError
 		if !errors.As(err, &se) || se.Op != "fit.Model" || se.Series != tc.series || se.Index != tc.index || !errors.Is(err, tf.ErrSample) {
 			t.Errorf("%v at %s[%d]: got %v", tc.v, tc.series, tc.index, err)
@@ -95,7 +96,7 @@ func TestBadInputModel(t *testing.T) {
 	// Extra series are accepted on request.
 	d := good()
 	d["xx"] = x
-	if _, err := Model(context.Background(), plantModel(), d, &Settings{IgnoreExtra: true}); err != nil {
+	if _, err := Model(context.Background(), fixture.PlantModel(), d, &Settings{IgnoreExtra: true}); err != nil {
 		t.Errorf("IgnoreExtra: %v", err)
 	}
 }
@@ -103,9 +104,9 @@ func TestBadInputModel(t *testing.T) {
 // TestModelDoesNotModify checks that Model leaves the model and the data as
 // they were.
 func TestModelDoesNotModify(t *testing.T) {
-	y, x := simulatePlant(newRand(10), 200)
+	y, x := fixture.SimulatePlant(fixture.NewRand(10), 200)
 	data := map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
-	m := plantModel()
+	m := fixture.PlantModel()
 	m0 := m.Clone()
 	est, err := Model(context.Background(), m, data, nil)
 	if err != nil {
@@ -133,10 +134,10 @@ func TestModelDoesNotModify(t *testing.T) {
 // point so far and says so, in the error (wrapping the context's error)
 // as well as in the estimate.
 func TestModelCancel(t *testing.T) {
-	y, x := simulatePlant(newRand(11), 400)
+	y, x := fixture.SimulatePlant(fixture.NewRand(11), 400)
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	est, err := Model(ctx, plantModel(), map[string][]float64{"y": y, "x": x}, nil)
+	est, err := Model(ctx, fixture.PlantModel(), map[string][]float64{"y": y, "x": x}, nil)
 	var ie *InterruptedError
 	if !errors.Is(err, context.Canceled) || !errors.Is(err, tf.ErrConvergence) || !errors.As(err, &ie) || ie.Series != "y" || ie.Op != "fit.Model" ||
 		!strings.HasPrefix(err.Error(), `fit.Model: fit of "y" interrupted after `) || !strings.Contains(err.Error(), "best point") ||
@@ -173,7 +174,7 @@ func TestModelNegativeDelay(t *testing.T) {
 // and a sample so large that its square overflows is a *SampleError
 // with its limit (not an error about the number of observations).
 func TestBadInputModelSettingsAndMagnitude(t *testing.T) {
-	y, x := simulatePlant(newRand(9), 80)
+	y, x := fixture.SimulatePlant(fixture.NewRand(9), 80)
 	data := map[string][]float64{"y": y, "x": x}
 	for _, tc := range []struct {
 		set Settings
@@ -185,7 +186,7 @@ func TestBadInputModelSettingsAndMagnitude(t *testing.T) {
 		{Settings{Tol: math.NaN()}, "fit.Model: Settings.Tol = NaN: must be a finite number, zero or positive (0 means 1e-14 up to 10^4 residuals, rising to 1e-9 at 10^5)"},
 		{Settings{Tol: 1}, "fit.Model: Settings.Tol = 1: must be below 1 (a relative reduction of the sum of squares; 0 means the default)"},
 	} {
-		_, err := Model(context.Background(), plantModel(), data, &tc.set)
+		_, err := Model(context.Background(), fixture.PlantModel(), data, &tc.set)
 		var se *tf.SettingError
 		if !errors.As(err, &se) || !errors.Is(err, tf.ErrSetting) || err.Error() != tc.msg {
 			t.Errorf("settings %+v: err = %v, want *SettingError %q", tc.set, err, tc.msg)
@@ -197,7 +198,7 @@ func TestBadInputModelSettingsAndMagnitude(t *testing.T) {
 	}
 	big := map[string][]float64{"y": append([]float64(nil), y...), "x": x}
 	big["y"][40] = -2e150
-	_, err := Model(context.Background(), plantModel(), big, nil)
+	_, err := Model(context.Background(), fixture.PlantModel(), big, nil)
 	var se *errs.SampleError
 	if want := `fit.Model: series "y" sample 40 is -2e+150, beyond the largest magnitude accepted, 1e+150 (rescale the series: change its units)`; !errors.As(err, &se) || se.Index != 40 || err.Error() != want {
 		t.Fatalf("sample -2e150: err = %v, want *SampleError %q", err, want)
@@ -212,15 +213,15 @@ func TestModelConcurrent(t *testing.T) {
 	datas := make([]map[string][]float64, k)
 	want := make([]*Estimate, k)
 	for i := range datas {
-		y, x := simulatePlant(newRand(uint64(100+i)), 300)
+		y, x := fixture.SimulatePlant(fixture.NewRand(uint64(100+i)), 300)
 		datas[i] = map[string][]float64{"y": y, "x": x}
-		e, err := Model(context.Background(), plantModel(), datas[i], nil)
+		e, err := Model(context.Background(), fixture.PlantModel(), datas[i], nil)
 		if err != nil {
 			t.Fatal(err)
 		}
 		want[i] = e
 	}
-	m := plantModel()
+	m := fixture.PlantModel()
 	got := make([]*Estimate, k)
 	var wg sync.WaitGroup
 	for i := range datas {
@@ -263,7 +264,7 @@ func TestModelMonteCarlo(t *testing.T) {
 	for r := 0; r < reps; r++ {
 		y, x, est, data := replicatePlant(t, rng, n, h)
 		for _, p := range est.Params {
-			if math.Abs(p.Value-plantTruth[p.Name]) <= 1.96*p.SE {
+			if math.Abs(p.Value-fixture.PlantTruth()[p.Name]) <= 1.96*p.SE {
 				cover[p.Name]++
 			}
 		}
@@ -278,7 +279,7 @@ func TestModelMonteCarlo(t *testing.T) {
 			}
 		}
 	}
-	for name := range plantTruth {
+	for name := range fixture.PlantTruth() {
 		if c := cover[name]; c < 89 || c > 99 {
 			t.Errorf("%s: 95 %% interval covers the truth in %d of %d replicates", name, c, reps)
 		}
@@ -292,7 +293,7 @@ func TestModelMonteCarlo(t *testing.T) {
 // TestModelRun1 checks the fused first-order kernel against the general
 // path (recursive filter, moving average, recursive filter) bit for bit.
 func TestModelRun1(t *testing.T) {
-	rng := newRand(71)
+	rng := fixture.NewRand(71)
 	n, b := 1000, 3
 	zc := make([]float64, n)
 	for i := range zc {
@@ -320,7 +321,7 @@ func TestModelRun1(t *testing.T) {
 // the pole estimate back within 3 SE of the truth, where the plain fit
 // is biased.
 func TestModelSettle(t *testing.T) {
-	rng := newRand(41)
+	rng := fixture.NewRand(41)
 	n := 2000
 	pre := 300
 	x := make([]float64, n+pre)
@@ -338,7 +339,7 @@ func TestModelSettle(t *testing.T) {
 	}
 	data := map[string][]float64{"y": y, "x": x[pre:]}
 	m := tf.Model{Output: "y", Const: &tf.Coef{Name: "c", Free: true},
-		Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Den: oneMinus("d1", 1), Delay: 1}}}
+		Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 1}}}
 	plain, err := Model(context.Background(), m, data, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -414,32 +415,17 @@ func TestErrorsOfInnerStagesNameTheCaller(t *testing.T) {
 //	y_t = c + (w0 + w1 B + w2 B^2)/(1 - d1 B) B^3 x_t + 1/(1 - p1 B - p2 B^2) a_t.
 func benchModel() tf.Model {
 	c := tf.Coef{Name: "c", Free: true}
-	num := mkPoly(mkFactor(mkTerm(false, "w0", 0, 0), mkTerm(false, "w1", 0, 1), mkTerm(false, "w2", 0, 2)))
-	ar := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "p1", 0, 1), mkTerm(true, "p2", 0, 2)))
+	num := fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0), fixture.Term(false, "w1", 0, 1), fixture.Term(false, "w2", 0, 2)))
+	ar := fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "p1", 0, 1), fixture.Term(true, "p2", 0, 2)))
 	return tf.Model{Output: "y", Const: &c,
-		Inputs: []tf.Input{{Series: "x", Num: num, Den: oneMinus("d1", 1), Delay: 3}},
+		Inputs: []tf.Input{{Series: "x", Num: num, Den: fixture.OneMinus("d1", 1), Delay: 3}},
 		Noise:  &arma.Noise{AR: ar}}
-}
-
-// benchData simulates benchModel with c = 1, omega = (1.2, 0.6,
-// -0.3), d1 = 0.7, phi = (0.9, -0.2), sigma = 0.5 and an AR(1) input.
-func benchData(n int, seed uint64) map[string][]float64 {
-	rng := rand.New(rand.NewPCG(seed, 7))
-	x := simAR1(rng, n, 0.6)
-	u := make([]float64, n)
-	filter.Run(u[3:], []float64{1.2, 0.6, -0.3}, []float64{1, -0.7}, x[:n-3])
-	e := simNoise(rng, n, []float64{1, -0.9, 0.2}, []float64{1}, 0.5)
-	y := make([]float64, n)
-	for i := range y {
-		y[i] = 1 + u[i] + e[i]
-	}
-	return map[string][]float64{"y": y, "x": x}
 }
 
 func BenchmarkModel(b *testing.B) {
 	m := benchModel()
 	for _, n := range []int{1000, 10000, 100000, 1000000} {
-		data := benchData(n, 1)
+		data := fixture.BenchData(n, 1)
 		b.Run(strconv.Itoa(n), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {

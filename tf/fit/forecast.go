@@ -2,8 +2,9 @@ package fit
 
 import (
 	"fmt"
+	"maps"
 	"math"
-	"sort"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -76,7 +77,7 @@ func (s ForecastSettings) Validate() (err error) {
 	if err := errs.Probability("", "ForecastSettings.Level", s.Level, "0 means 0.95"); err != nil {
 		return err
 	}
-	for _, name := range sortedKeys(s.InputModels) {
+	for _, name := range slices.Sorted(maps.Keys(s.InputModels)) {
 		if err := s.InputModels[name].validate(name); err != nil {
 			return err
 		}
@@ -99,16 +100,16 @@ func (s ForecastSettings) validate(m tf.Model, h int) error {
 		inputs[in.Series] = true
 		names = append(names, in.Series)
 	}
-	for _, name := range sortedKeys(s.Future) {
+	for _, name := range slices.Sorted(maps.Keys(s.Future)) {
 		if name == m.Output {
 			continue // the output's own future (say, held-out data) is not used
 		}
 		if !inputs[name] {
-			return unknownInputErr("ForecastSettings.Future", name, names)
+			return errs.UnknownInput("ForecastSettings.Future", name, names)
 		}
 		fut := s.Future[name]
 		if len(fut) < h {
-			return seriesErr(name, errs.ErrShort, len(fut), h, "its values in ForecastSettings.Future: one is needed for every step of the horizon")
+			return errs.Series(name, errs.ErrShort, len(fut), h, "its values in ForecastSettings.Future: one is needed for every step of the horizon")
 		}
 		for j, v := range fut[:h] {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -119,26 +120,15 @@ func (s ForecastSettings) validate(m tf.Model, h int) error {
 			}
 		}
 	}
-	for _, name := range sortedKeys(s.InputModels) {
+	for _, name := range slices.Sorted(maps.Keys(s.InputModels)) {
 		if !inputs[name] {
-			return unknownInputErr("ForecastSettings.InputModels", name, names)
+			return errs.UnknownInput("ForecastSettings.InputModels", name, names)
 		}
 		if err := s.InputModels[name].validate(name); err != nil {
 			return err
 		}
 	}
 	return nil
-}
-
-// sortedKeys returns the keys of m in order, so that the first error
-// reported does not depend on map order.
-func sortedKeys[V any](m map[string]V) []string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return keys
 }
 
 // InputForecast describes how one input's future was obtained.
@@ -312,10 +302,10 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 // the default Level) and the data against the estimate's conditioning.
 func (e *Estimate) checkForecast(data map[string][]float64, h int, set *ForecastSettings) error {
 	if h < 1 {
-		return settingErr("h", strconv.Itoa(h), "the horizon must be at least 1")
+		return errs.Setting("h", strconv.Itoa(h), "the horizon must be at least 1")
 	}
 	if h > MaxHorizon {
-		return settingErr("h", strconv.Itoa(h), "the horizon must be at most tf.MaxHorizon ("+strconv.Itoa(MaxHorizon)+" steps)")
+		return errs.Setting("h", strconv.Itoa(h), "the horizon must be at most tf.MaxHorizon ("+strconv.Itoa(MaxHorizon)+" steps)")
 	}
 	if err := estimateUsable("Forecast", e); err != nil {
 		return err

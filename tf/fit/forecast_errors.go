@@ -4,7 +4,6 @@ import (
 	"math"
 	"math/cmplx"
 	"strconv"
-	"strings"
 
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/poly"
@@ -32,7 +31,7 @@ const maxInputModelDegree = 1000
 // on it, integration, is allowed).
 func (im InputModel) validate(name string) error {
 	bad := func(field string, v float64, rule string) error {
-		return settingErr("ForecastSettings.InputModels["+strconv.Quote(name)+"]."+field, fmtF(v), rule)
+		return errs.Setting("ForecastSettings.InputModels["+strconv.Quote(name)+"]."+field, errs.Num(v), rule)
 	}
 	if math.IsNaN(im.Sigma2) || math.IsInf(im.Sigma2, 0) || im.Sigma2 < 0 {
 		return bad("Sigma2", im.Sigma2, "the innovation variance must be zero or positive and finite")
@@ -82,22 +81,4 @@ func (im InputModel) validate(name string) error {
 		return bad("MA", m, "has a zero on or outside the unit circle (largest |z| shown): the MA part must be invertible (every zero |z| < 1)")
 	}
 	return nil
-}
-
-// unknownInputErr reports a settings map keyed by input name (such as
-// ForecastSettings.Future, ForecastSettings.InputModels,
-// identify.Settings.InputDiff) holding a name that is not an input, as a
-// *SeriesError of kind ErrName naming the map and the inputs there are.
-// It usually means a misspelt name, which would otherwise leave the
-// input to its default silently.
-func unknownInputErr(setting, name string, inputs []string) error {
-	q := make([]string, len(inputs))
-	for i, s := range inputs {
-		q[i] = strconv.Quote(s)
-	}
-	have := "there are no inputs"
-	if len(q) > 0 {
-		have = "the inputs are " + strings.Join(q, ", ")
-	}
-	return seriesErr(name, errs.ErrName, 0, 0, "named in "+setting+", it is not an input ("+have+"); check the spelling")
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math/rand/v2"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -21,8 +22,8 @@ func ExampleEstimate_Forecast() {
 	for i := range feed {
 		feed[i] = 10 + rng.NormFloat64()
 	}
-	// simulateRecord (fixtures_external_test.go) simulates the true model.
-	data, err := simulateRecord("(1 - B) level = 1.2 B^2 ((1 - B) feed) + (1 - 0.4 B) a",
+	// fixture.SimulateRecord (internal/fixture) simulates the true model.
+	data, err := fixture.SimulateRecord("(1 - B) level = 1.2 B^2 ((1 - B) feed) + (1 - 0.4 B) a",
 		map[string][]float64{"feed": feed}, &tf.SimSettings{Seed1: 7, Seed2: 8, Sigma: 0.1, BurnIn: -1})
 	if err != nil {
 		fmt.Println(err)

@@ -11,6 +11,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"gonum.org/v1/gonum/floats/scalar"
 )
@@ -70,7 +71,7 @@ func TestForecastAgainstScipy(t *testing.T) {
 func TestForecastRandomWalk(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := tf.Coef{Name: "c", Free: true}
-	m := tf.Model{Output: "y", Diff: diff1, Const: &c, Noise: &arma.Noise{}}
+	m := tf.Model{Output: "y", Diff: fixture.Diff1(), Const: &c, Noise: &arma.Noise{}}
 	est, err := Model(context.Background(), m, map[string][]float64{"y": y}, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -118,9 +119,9 @@ func TestBadInputForecast(t *testing.T) {
 
 func plantEstimate(t *testing.T) (*Estimate, map[string][]float64) {
 	t.Helper()
-	y, x := simulatePlant(newRand(5), 300)
+	y, x := fixture.SimulatePlant(fixture.NewRand(5), 300)
 	data := map[string][]float64{"y": y, "x": x}
-	est, err := Model(context.Background(), plantModel(), data, nil)
+	est, err := Model(context.Background(), fixture.PlantModel(), data, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -134,9 +135,9 @@ func plantEstimate(t *testing.T) (*Estimate, map[string][]float64) {
 // MA start-up has died out: theta 0.5 over 400 samples leaves 0.5^400),
 // to 1e-8 relative.
 func TestForecastARMAInput(t *testing.T) {
-	rng := newRand(61)
+	rng := fixture.NewRand(61)
 	n, h := 400, 6
-	x := simNoise(rng, n, []float64{1, -0.6}, []float64{1, -0.5}, 1)
+	x := fixture.Noise(rng, n, []float64{1, -0.6}, []float64{1, -0.5}, 1)
 	for i := range x {
 		x[i] += 5
 	}
@@ -157,7 +158,7 @@ func TestForecastARMAInput(t *testing.T) {
 		t.Fatal(err)
 	}
 	m := tf.Model{Output: "y", Const: &tf.Coef{Name: "c", Free: true},
-		Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0))), Delay: 2}}, Noise: &arma.Noise{}}
+		Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Delay: 2}}, Noise: &arma.Noise{}}
 	data := map[string][]float64{"y": y, "x": x}
 	est, err := Model(context.Background(), m, data, nil)
 	if err != nil {
@@ -351,9 +352,9 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 	if err != nil || len(fc.Warnings) != 0 {
 		t.Errorf("plan inside the record (a value beyond h is not used): %v, %+v", err, fc.Warnings)
 	}
-	y, x := simulatePlant(newRand(4), 20)
+	y, x := fixture.SimulatePlant(fixture.NewRand(4), 20)
 	small := map[string][]float64{"y": y, "x": x}
-	e20, err := Model(t.Context(), plantModel(), small, nil)
+	e20, err := Model(t.Context(), fixture.PlantModel(), small, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -376,7 +377,7 @@ func TestForecastPlanOutsideRecord(t *testing.T) {
 func TestBadInputForecastHorizon(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := tf.Coef{Name: "c", Free: true}
-	m := tf.Model{Output: "y", Diff: diff1, Const: &c, Noise: &arma.Noise{}}
+	m := tf.Model{Output: "y", Diff: fixture.Diff1(), Const: &c, Noise: &arma.Noise{}}
 	data := map[string][]float64{"y": y}
 	est, err := Model(context.Background(), m, data, nil)
 	if err != nil {
@@ -401,16 +402,16 @@ func TestBadInputForecastHorizon(t *testing.T) {
 	}
 }
 
-// FuzzForecast forecasts from a fit of plantModel (300 samples of its
+// FuzzForecast forecasts from a fit of fixture.PlantModel (300 samples of its
 // own simulation) with fuzzed horizons, levels, known future values,
 // input models, estimates (the denominator, noise AR and variance
 // overwritten) and data (one sample overwritten), NaN and huge values
 // included. Every call must return a typed error of the library or a
 // result whose every number is finite; never a panic.
 func FuzzForecast(f *testing.F) {
-	y, x := simulatePlant(newRand(5), 300)
+	y, x := fixture.SimulatePlant(fixture.NewRand(5), 300)
 	base := map[string][]float64{"y": y, "x": x}
-	est, err := Model(context.Background(), plantModel(), base, nil)
+	est, err := Model(context.Background(), fixture.PlantModel(), base, nil)
 	if err != nil {
 		f.Fatal(err)
 	}

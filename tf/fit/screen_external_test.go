@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
@@ -23,7 +24,7 @@ func TestModelScreensTheOutput(t *testing.T) {
 		valve[i] = 50 + 10*float64((i/40)%2) // a square wave of period 80
 	}
 	data := map[string][]float64{"valve": valve}
-	y := mustRecord(t, "temp = 5 + 0.02 / (1 - 0.9 B) B^2 valve + 1 / (1 - 0.5 B) a", data, &tf.SimSettings{Sigma: 0.05, Seed1: 7, Seed2: 8})["temp"]
+	y := fixture.MustRecord(t, "temp = 5 + 0.02 / (1 - 0.9 B) B^2 valve + 1 / (1 - 0.5 B) a", data, &tf.SimSettings{Sigma: 0.05, Seed1: 7, Seed2: 8})["temp"]
 	spec := parse.MustModel("temp = c + w0 / (1 - d1 B) B^2 valve + AR(1)")
 	estimateAndCheck := func(y []float64) (*fit.Estimate, *fit.Diagnostics) {
 		d := map[string][]float64{"valve": valve, "temp": y}

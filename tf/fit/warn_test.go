@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -23,7 +24,7 @@ func hasWarning(ws []Warning, k WarningKind) bool {
 // at 1.0, a numerator zero at 0.52 beside a pole at 0.5, a correlation of
 // 0.97, and a fit that did not converge.
 func TestModelWarningsRules(t *testing.T) {
-	m := plantModel()
+	m := fixture.PlantModel()
 	set := func(p tf.Poly, v float64) {
 		p.Each(func(c *tf.Coef) {
 			if c.Name != "" {
@@ -35,7 +36,7 @@ func TestModelWarningsRules(t *testing.T) {
 	m.Inputs[0].Num.Factors[0].Terms[1].Coef.Value = 0.52
 	set(m.Inputs[0].Den, 1.0) // pole at z = 1
 	set(m.Noise.AR, 1.2)      // AR root at z = 1.2
-	m.Noise.MA = oneMinus("t1", 1)
+	m.Noise.MA = fixture.OneMinus("t1", 1)
 	set(m.Noise.MA, 1.0) // MA zero at z = 1
 	e := &Estimate{Model: m, Converged: false, Reason: "not converged: iteration limit reached",
 		Params: []Param{{Name: "w0"}, {Name: "d1"}},
@@ -61,15 +62,15 @@ func TestModelWarningsRules(t *testing.T) {
 // data with a pure gain and white noise: the fitted zero and pole cancel
 // and the estimates correlate near 1, and the fit says so.
 func TestModelWarnsRedundant(t *testing.T) {
-	rng := newRand(21)
+	rng := fixture.NewRand(21)
 	n := 500
-	x := simAR1(rng, n, 0.3)
+	x := fixture.AR1(rng, n, 0.3)
 	y := make([]float64, n)
 	for i := 1; i < n; i++ {
 		y[i] = 2*x[i-1] + 0.3*rng.NormFloat64()
 	}
-	num := mkPoly(mkFactor(mkTerm(false, "w0", 0, 0), mkTerm(true, "w1", 0, 1)))
-	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: num, Den: oneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
+	num := fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0), fixture.Term(true, "w1", 0, 1)))
+	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: num, Den: fixture.OneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
 	est, err := Model(context.Background(), m, map[string][]float64{"y": y, "x": x}, nil)
 	if err != nil {
 		t.Fatal(err)

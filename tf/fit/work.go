@@ -87,7 +87,7 @@ func (w *work) tooFewResiduals(nres int) error {
 			break
 		}
 	}
-	return seriesErr(w.m.Output, errs.ErrShort, max(nres, 0), len(w.names)+1, "counting residuals, one more than the "+strconv.Itoa(len(w.names))+" free coefficients; "+detail)
+	return errs.Series(w.m.Output, errs.ErrShort, max(nres, 0), len(w.names)+1, "counting residuals, one more than the "+strconv.Itoa(len(w.names))+" free coefficients; "+detail)
 }
 
 // allocate takes every work series from one slab, recycled between fits
@@ -116,12 +116,12 @@ func (w *work) allocate(y []float64, data map[string][]float64, set Settings) er
 		return out
 	}
 	// Differenced series (fixed), zero before the differencing degree.
-	w.w = diffTo(take(n), y, w.m.Diff.Coeffs())
+	w.w = filter.Diff(take(n), y, w.m.Diff.Coeffs())
 	w.y = y
 	for i := range w.ins {
 		fi := &w.ins[i]
 		fi.x = data[fi.in.Series]
-		fi.z = diffTo(take(n), fi.x, fi.in.Diff.Coeffs())
+		fi.z = filter.Diff(take(n), fi.x, fi.in.Diff.Coeffs())
 		fi.zc = take(n)
 		if err := fi.centre(set.ZeroPreSample, n); err != nil {
 			return err
@@ -678,7 +678,7 @@ func (w *work) search(ctx context.Context, set Settings, maxIter int) (*lm.Resul
 		}
 	}
 	if best == nil {
-		return nil, nil, 0, seriesErr(w.m.Output, errs.ErrOverflow, 0, 0,
+		return nil, nil, 0, errs.Series(w.m.Output, errs.ErrOverflow, 0, 0,
 			"no start point gives finite residuals ("+firstErr.Error()+"); the coefficients held at fixed values may make a filter blow up on this data "+
 				"(an unstable fixed denominator, or a fixed noise MA with a zero on or outside the unit circle), or the samples are too large: check the fixed values and the units, or give start values in the spec")
 	}
@@ -1093,7 +1093,7 @@ func (fi *inputState) centre(zeroPre bool, n int) error {
 		moves = moves || fi.zc[t] != 0
 	}
 	if fi.z0 != 0 && !fi.denFree && sumCoeffs(fi.in.Den.Coeffs()) == 0 {
-		return modelErr("input "+strconv.Quote(fi.in.Series), "no settled start: its denominator has a pole at z = 1 (an integrator), so it has no steady state, "+
+		return errs.Model("input "+strconv.Quote(fi.in.Series), "no settled start: its denominator has a pole at z = 1 (an integrator), so it has no steady state, "+
 			"and fit.Model cannot take the input as held at its first value "+strconv.FormatFloat(fi.z0, 'g', 6, 64)+
 			" before the record; set fit.Settings.ZeroPreSample to take it as zero before the record, or write the integration as differencing of the output")
 	}
@@ -1102,7 +1102,7 @@ func (fi *inputState) centre(zeroPre bool, n int) error {
 		if fi.d > 0 {
 			why = "its differenced values are all zero"
 		}
-		return seriesErr(fi.in.Series, errs.ErrConstant, 0, 0, "an input: "+why+
+		return errs.Series(fi.in.Series, errs.ErrConstant, 0, 0, "an input: "+why+
 			", so the input never moves and its coefficients cannot be estimated; leave it out of the model (a constant level belongs in the constant) or hold its coefficients at known values")
 	}
 	return nil
@@ -1204,11 +1204,11 @@ func newWork(m tf.Model, data map[string][]float64, set Settings) (*work, error)
 	}
 	n := len(y)
 	if set.First > 0 && set.First >= n {
-		return nil, settingErr("Settings.First", strconv.Itoa(set.First),
+		return nil, errs.Setting("Settings.First", strconv.Itoa(set.First),
 			"must be below the number of samples, "+strconv.Itoa(n)+" (it is the index of the first residual summed)")
 	}
 	if n > 0 && isConstant(y) {
-		return nil, seriesErr(m.Output, errs.ErrConstant, 0, 0, "the output: every sample is "+strconv.FormatFloat(y[0], 'g', 6, 64)+
+		return nil, errs.Series(m.Output, errs.ErrConstant, 0, 0, "the output: every sample is "+strconv.FormatFloat(y[0], 'g', 6, 64)+
 			", there is nothing to explain; check that the right column was read")
 	}
 	w := &work{binding: b}

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/lm"
 	"github.com/backshift/backshift/tf"
 )
@@ -34,16 +35,16 @@ func TestWorkJacobianFiniteDifference(t *testing.T) {
 // stored columns themselves. Run it with -race to check the sharing.
 func TestWorkNormalBlocked(t *testing.T) {
 	ma := benchModel()
-	ma.Noise.MA = oneMinus("t1", 1)
+	ma.Noise.MA = fixture.OneMinus("t1", 1)
 	cases := []struct {
 		name string
 		m    tf.Model
 		data map[string][]float64
 		x    []float64
 	}{
-		{"AR(2) long", benchModel(), benchData(lm.NormalSplit+1000, 3), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
-		{"AR(2) short", benchModel(), benchData(3000, 4), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
-		{"ARMA(2,1) long", ma, benchData(lm.NormalSplit+777, 5), nil},
+		{"AR(2) long", benchModel(), fixture.BenchData(lm.NormalSplit+1000, 3), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"AR(2) short", benchModel(), fixture.BenchData(3000, 4), []float64{1, 1.2, 0.6, -0.3, 0.7, 0.9, -0.2}},
+		{"ARMA(2,1) long", ma, fixture.BenchData(lm.NormalSplit+777, 5), nil},
 		{"two inputs, MA factors", jacModel(), jacData(2000), nil},
 	}
 	for _, c := range cases {
@@ -93,7 +94,7 @@ func TestWorkNormalBlocked(t *testing.T) {
 			runtime.GOMAXPROCS(old)
 		}
 	}
-	if _, err := Model(context.Background(), benchModel(), benchData(lm.NormalSplit+1000, 3), nil); err != nil {
+	if _, err := Model(context.Background(), benchModel(), fixture.BenchData(lm.NormalSplit+1000, 3), nil); err != nil {
 		t.Fatal(err)
 	}
 }
@@ -101,18 +102,18 @@ func TestWorkNormalBlocked(t *testing.T) {
 // jacModel is a model with two inputs, differencing, a constant, a
 // product of MA factors and a parameter shared between two places.
 func jacModel() tf.Model {
-	num1 := mkPoly(mkFactor(mkTerm(false, "w0", 0.8, 0), mkTerm(true, "w1", 0.3, 1)))
-	den1 := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "d1", 0.5, 1)))
-	num2 := mkPoly(mkFactor(mkTerm(false, "v0", -1.2, 0)))
-	den2 := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "e1", 0.4, 1), mkTerm(false, "e2", 0.2, 2)))
-	ma := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "t1", 0.3, 1)),
-		tf.Factor{Terms: []tf.Term{mkTerm(false, "", 1, 0), mkTerm(true, "T1", 0.2, 4)}, Exp: 2})
-	ar := mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "p1", 0.6, 1)), mkFactor(mkTerm(false, "", 1, 0), mkTerm(true, "d1", 0.5, 2)))
+	num1 := fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0.8, 0), fixture.Term(true, "w1", 0.3, 1)))
+	den1 := fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "d1", 0.5, 1)))
+	num2 := fixture.Poly(fixture.Factor(fixture.Term(false, "v0", -1.2, 0)))
+	den2 := fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "e1", 0.4, 1), fixture.Term(false, "e2", 0.2, 2)))
+	ma := fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "t1", 0.3, 1)),
+		tf.Factor{Terms: []tf.Term{fixture.Term(false, "", 1, 0), fixture.Term(true, "T1", 0.2, 4)}, Exp: 2})
+	ar := fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "p1", 0.6, 1)), fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(true, "d1", 0.5, 2)))
 	c := tf.Coef{Name: "c", Value: 0.1, Free: true}
 	return tf.Model{
-		Output: "y", Diff: diff1, Const: &c,
+		Output: "y", Diff: fixture.Diff1(), Const: &c,
 		Inputs: []tf.Input{
-			{Series: "x1", Diff: diff1, Num: num1, Den: den1, Delay: 2},
+			{Series: "x1", Diff: fixture.Diff1(), Num: num1, Den: den1, Delay: 2},
 			{Series: "x2", Num: num2, Den: den2, Delay: 1},
 		},
 		Noise: &arma.Noise{MA: ma, AR: ar},

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/ccf"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -67,7 +68,7 @@ func TestCandidatesBuild(t *testing.T) {
 // unrelated to the output (seeded), so no lag passes the dead-time rule.
 func TestCandidatesInnerOp(t *testing.T) {
 	const n = 400
-	rng := newRand(9)
+	rng := fixture.NewRand(9)
 	x, y := make([]float64, n), make([]float64, n)
 	for i := range x {
 		x[i] = rng.NormFloat64()

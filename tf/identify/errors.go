@@ -1,9 +1,10 @@
 package identify
 
 import (
+	"maps"
 	"math"
+	"slices"
 	"strconv"
-	"strings"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
@@ -14,7 +15,7 @@ import (
 // package parse), as a *SeriesError of kind ErrName: role is "output"
 // or "input".
 func specNameErr(name, role string) error {
-	return seriesErr(name, errs.ErrName, 0, 0, "the "+role+" series name cannot be written in a model spec: "+
+	return errs.Series(name, errs.ErrName, 0, 0, "the "+role+" series name cannot be written in a model spec: "+
 		"use an ASCII letter or underscore, then letters, digits or underscores, not one of B, a, AR, MA, ARMA, where, every (rename the series)")
 }
 
@@ -24,7 +25,7 @@ func specNameErr(name, role string) error {
 // squares of zero, a model that reproduces the output exactly. It is a
 // *ModelError.
 func scoreErr(label, criterion string, v float64) error {
-	return modelErr("candidate "+label, "its "+criterion+" is "+fmtF(v)+", not a finite number (a zero or overflowing sum of squares); it is not ranked")
+	return errs.Model("candidate "+label, "its "+criterion+" is "+errs.Num(v)+", not a finite number (a zero or overflowing sum of squares); it is not ranked")
 }
 
 // Validate checks the settings by the library's settings rule and the
@@ -64,7 +65,7 @@ func (s *Settings) validate(inputs []string, n int) error {
 		v    int
 	}{{"MaxP", s.MaxP}, {"MaxQ", s.MaxQ}} {
 		if c.v > arma.MaxLag {
-			return settingErr("Settings."+c.name, strconv.Itoa(c.v), "must be at most "+strconv.Itoa(arma.MaxLag)+" (arma.MaxLag); 0 means 2, a negative value order zero only")
+			return errs.Setting("Settings."+c.name, strconv.Itoa(c.v), "must be at most "+strconv.Itoa(arma.MaxLag)+" (arma.MaxLag); 0 means 2, a negative value order zero only")
 		}
 	}
 	if err := checkDiffSetting("Settings.OutputDiff", s.OutputDiff, n); err != nil {
@@ -74,9 +75,9 @@ func (s *Settings) validate(inputs []string, n int) error {
 	for _, in := range inputs {
 		known[in] = true
 	}
-	for _, name := range sortedKeys(s.InputDiff) {
+	for _, name := range slices.Sorted(maps.Keys(s.InputDiff)) {
 		if inputs != nil && !known[name] {
-			return unknownInputErr("Settings.InputDiff", name, inputs)
+			return errs.UnknownInput("Settings.InputDiff", name, inputs)
 		}
 		if err := checkDiffSetting("Settings.InputDiff["+strconv.Quote(name)+"]", s.InputDiff[name], n); err != nil {
 			return err
@@ -91,14 +92,14 @@ func (s *Settings) validate(inputs []string, n int) error {
 func checkDiffSetting(arg string, c []float64, n int) error {
 	for k, v := range c {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return settingErr(arg+"["+strconv.Itoa(k)+"]", fmtF(v), "a differencing coefficient must be a finite number")
+			return errs.Setting(arg+"["+strconv.Itoa(k)+"]", errs.Num(v), "a differencing coefficient must be a finite number")
 		}
 	}
 	if len(c) > 0 && c[0] != 1 {
-		return settingErr(arg+"[0]", fmtF(c[0]), "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B")
+		return errs.Setting(arg+"[0]", errs.Num(c[0]), "the constant term of a differencing operator must be 1, as in {1, -1} for 1 - B")
 	}
 	if n >= 0 && len(c) > 1 && 2*(len(c)-1) >= n {
-		return settingErr(arg, "degree "+strconv.Itoa(len(c)-1), "the degree of the differencing must be below half the record ("+strconv.Itoa(n)+" samples)")
+		return errs.Setting(arg, "degree "+strconv.Itoa(len(c)-1), "the degree of the differencing must be below half the record ("+strconv.Itoa(n)+" samples)")
 	}
 	return nil
 }
@@ -108,79 +109,30 @@ func checkDiffSetting(arg string, c []float64, n int) error {
 func (s *Settings) validateNested() error {
 	if s.Fit != nil {
 		if err := s.Fit.Validate(); err != nil {
-			if se, ok := err.(*errs.SettingError); ok {
-				c := *se
-				c.Setting = "Settings.Fit." + se.Setting[len("Settings."):]
-				return &c
-			}
-			return err
+			return renameSetting(err, "Settings.", "Settings.Fit.")
 		}
 	}
 	if s.Check != nil {
 		if err := s.Check.Validate(); err != nil {
-			if se, ok := err.(*errs.SettingError); ok {
-				c := *se
-				c.Setting = "Settings.Check." + se.Setting[len("CheckSettings."):]
-				return &c
-			}
-			return err
+			return renameSetting(err, "CheckSettings.", "Settings.Check.")
 		}
 	}
 	return nil
 }
 
-// seriesErr returns a *SeriesError of the given kind (Op is set by the
-// exported function, see setOp).
-func seriesErr(series string, kind error, have, need int, detail string) error {
-	return &errs.SeriesError{Series: series, Kind: kind, Have: have, Need: need, Detail: detail}
+// renameSetting returns err, a *SettingError of nested settings, with
+// the field named as the caller wrote it: the prefix from (the nested
+// struct's own name) replaced by to. Other errors are returned as they
+// are.
+func renameSetting(err error, from, to string) error {
+	if se, ok := err.(*errs.SettingError); ok {
+		c := *se
+		c.Setting = to + se.Setting[len(from):]
+		return &c
+	}
+	return err
 }
-
-// modelErr returns a *ModelError for the part named.
-func modelErr(part, problem string) error {
-	return &errs.ModelError{Part: part, Problem: problem}
-}
-
-// settingErr returns a *SettingError for the setting named.
-func settingErr(setting, value, rule string) error {
-	return &errs.SettingError{Setting: setting, Value: value, Rule: rule}
-}
-
-// fmtF formats a float for a message.
-func fmtF(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // setOp names the exported function op in *err's chain (errs.SetOp);
 // deferred at each exported entry point.
 func setOp(op string, err *error) { errs.SetOp(op, *err) }
-
-// unknownInputErr reports a settings map keyed by input name (such as
-// ForecastSettings.Future, ForecastSettings.InputModels,
-// Settings.InputDiff) holding a name that is not an input, as a
-// *SeriesError of kind ErrName naming the map and the inputs there are.
-// It usually means a misspelt name, which would otherwise leave the
-// input to its default silently.
-func unknownInputErr(setting, name string, inputs []string) error {
-	q := make([]string, len(inputs))
-	for i, s := range inputs {
-		q[i] = strconv.Quote(s)
-	}
-	have := "there are no inputs"
-	if len(q) > 0 {
-		have = "the inputs are " + strings.Join(q, ", ")
-	}
-	return seriesErr(name, errs.ErrName, 0, 0, "named in "+setting+", it is not an input ("+have+"); check the spelling")
-}
-
-// constantErr reports a series (named as the caller named it) that is
-// constant, so that it carries no response to identify or check: role
-// is "output" or "input", v its constant value and diff the differencing
-// after which it is constant ("" when constant as given). It is a
-// *SeriesError of kind ErrConstant.
-func constantErr(series, role string, v float64, diff string) error {
-	val := strconv.FormatFloat(v, 'g', 6, 64)
-	if diff == "" {
-		return seriesErr(series, errs.ErrConstant, 0, 0, "the "+role+": every sample is "+val+
-			", so it carries no response; check that the right column was chosen")
-	}
-	return seriesErr(series, errs.ErrConstant, 0, 0, "the "+role+", after its differencing "+diff+": every differenced sample is "+val+
-		", so it carries no response; check the column, or ask for less differencing")
-}

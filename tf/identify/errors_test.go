@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -39,7 +40,7 @@ func TestBadInputSettingsValidate(t *testing.T) {
 // TestCandidateStringOfFailedFit: a candidate without an estimate prints
 // its structure and says the fit failed.
 func TestCandidateStringOfFailedFit(t *testing.T) {
-	if s := (Candidate{Structure: plantModel()}).String(); !strings.Contains(s, "fit failed") {
+	if s := (Candidate{Structure: fixture.PlantModel()}).String(); !strings.Contains(s, "fit failed") {
 		t.Errorf("got %q", s)
 	}
 }

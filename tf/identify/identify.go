@@ -7,6 +7,7 @@ import (
 	"math"
 	"runtime"
 	"runtime/debug"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -15,6 +16,7 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/prewhiten"
 	"github.com/backshift/backshift/tf"
@@ -296,8 +298,8 @@ func (set *Settings) fillDefaults() {
 // set.InputDiff names one; nil for none), and refuses an output or input
 // that is constant after its differencing.
 func inputDiffs(output string, inputs []string, data map[string][]float64, set Settings) ([][]float64, error) {
-	if v, ok := constantAfterDiff(data[output], set.OutputDiff); ok {
-		return nil, constantErr(output, "output", v, diffText(set.OutputDiff))
+	if err := fit.CheckSeries(output, "output", data[output], set.OutputDiff); err != nil {
+		return nil, err
 	}
 	diffs := make([][]float64, len(inputs))
 	for i, name := range inputs {
@@ -309,8 +311,8 @@ func inputDiffs(output string, inputs []string, data map[string][]float64, set S
 			diff = nil
 		}
 		diffs[i] = diff
-		if v, ok := constantAfterDiff(data[name], diff); ok {
-			return nil, constantErr(name, "input", v, diffText(diff))
+		if err := fit.CheckSeries(name, "input", data[name], diff); err != nil {
+			return nil, err
 		}
 	}
 	return diffs, nil
@@ -681,7 +683,7 @@ func jointWeights(output string, inputs []string, data map[string][]float64, out
 		if len(dc) == 0 {
 			dc = []float64{1}
 		}
-		return applyDiff(x, dc)[d:]
+		return filter.Diff(make([]float64, len(x)), x, dc)[d:]
 	}
 	y := cut(data[output], outDiff)
 	xs := make([][]float64, len(inputs))
@@ -717,11 +719,11 @@ func isSpecName(s string) bool {
 // validateData checks presence, lengths and finiteness of the series.
 func validateData(output string, inputs []string, data map[string][]float64) error {
 	if output == "" {
-		return seriesErr(output, errs.ErrName, 0, 0, "the output is not named; name the output series")
+		return errs.Series(output, errs.ErrName, 0, 0, "the output is not named; name the output series")
 	}
 	y, ok := data[output]
 	if !ok {
-		return seriesErr(output, errs.ErrName, 0, 0, "the output is not in the data; check the series names")
+		return errs.Series(output, errs.ErrName, 0, 0, "the output is not in the data; check the series names")
 	}
 	if !isSpecName(output) {
 		return specNameErr(output, "output")
@@ -732,21 +734,21 @@ func validateData(output string, inputs []string, data map[string][]float64) err
 		case name != "" && !isSpecName(name):
 			return specNameErr(name, "input")
 		case name == "":
-			return seriesErr(name, errs.ErrName, 0, 0, "an entry of the inputs is empty; name each input series")
+			return errs.Series(name, errs.ErrName, 0, 0, "an entry of the inputs is empty; name each input series")
 		case name == output:
-			return seriesErr(name, errs.ErrName, 0, 0, "listed among the inputs, it is the output; an output cannot be its own input")
+			return errs.Series(name, errs.ErrName, 0, 0, "listed among the inputs, it is the output; an output cannot be its own input")
 		case seen[name]:
-			return seriesErr(name, errs.ErrName, 0, 0, "it is listed twice among the inputs")
+			return errs.Series(name, errs.ErrName, 0, 0, "it is listed twice among the inputs")
 		}
 		seen[name] = true
 	}
 	for _, name := range append([]string{output}, inputs...) {
 		x, ok := data[name]
 		if !ok {
-			return seriesErr(name, errs.ErrName, 0, 0, "an input is not in the data; check the series names")
+			return errs.Series(name, errs.ErrName, 0, 0, "an input is not in the data; check the series names")
 		}
 		if len(x) != len(y) {
-			return seriesErr(name, errs.ErrLength, len(x), len(y), "the length of the output "+strconv.Quote(output)+"; every series has one length")
+			return errs.Series(name, errs.ErrLength, len(x), len(y), "the length of the output "+strconv.Quote(output)+"; every series has one length")
 		}
 		for t, v := range x {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -756,8 +758,11 @@ func validateData(output string, inputs []string, data map[string][]float64) err
 				return &errs.SampleError{Series: name, Index: t, Value: v, Limit: maxMagnitude}
 			}
 		}
-		if lo, hi := valueRange(x); hi > lo && hi-lo < minSpread {
-			return seriesErr(name, errs.ErrConstant, 0, 0, "it varies by only "+fmtF(hi-lo)+", less than 1e-140: the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)")
+		if len(x) == 0 {
+			continue // an empty series has no spread to check
+		}
+		if lo, hi := slices.Min(x), slices.Max(x); hi > lo && hi-lo < minSpread {
+			return errs.Series(name, errs.ErrConstant, 0, 0, "it varies by only "+errs.Num(hi-lo)+", less than 1e-140: the squares of its deviations underflow, so its correlations are undefined; rescale the series (change its units)")
 		}
 	}
 	return nil

@@ -12,6 +12,7 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/ccf"
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -58,7 +59,7 @@ func TestCandidatesBJsales(t *testing.T) {
 
 // TestBadInputCandidates checks the typed data errors of Candidates.
 func TestBadInputCandidates(t *testing.T) {
-	y, x := simulatePlant(newRand(3), 100)
+	y, x := fixture.SimulatePlant(fixture.NewRand(3), 100)
 	var fe *tf.SeriesError
 	if _, err := Candidates(context.Background(), "y", []string{"u"}, map[string][]float64{"y": y, "x": x}, nil); !errors.As(err, &fe) || !errors.Is(err, tf.ErrName) || fe.Series != "u" ||
 		err.Error() != `identify.Candidates: series "u": an input is not in the data; check the series names` {
@@ -104,11 +105,11 @@ func TestCandidatesProgressAndCancel(t *testing.T) {
 // TestCandidateLabel checks the structure labels: one spelling,
 // "noise ARMA(p, q)", whatever p and q are.
 func TestCandidateLabel(t *testing.T) {
-	m := plantModel()
+	m := fixture.PlantModel()
 	if got, want := (Candidate{Structure: m}).Label(), "x (b=3, r=1, s=1), noise ARMA(1, 0)"; got != want {
 		t.Errorf("label %q, want %q", got, want)
 	}
-	m.Noise.MA = oneMinus("t1", 1)
+	m.Noise.MA = fixture.OneMinus("t1", 1)
 	if got, want := (Candidate{Structure: m}).Label(), "x (b=3, r=1, s=1), noise ARMA(1, 1)"; got != want {
 		t.Errorf("label %q, want %q", got, want)
 	}
@@ -123,10 +124,10 @@ func TestCandidateLabel(t *testing.T) {
 	}
 }
 
-// trapData is 300 samples of plantModel's own simulation (x AR(1),
+// trapData is 300 samples of fixture.PlantModel's own simulation (x AR(1),
 // b = 3, r = 1, s = 1, AR(1) noise), on which Candidates finds a response.
 func trapData() map[string][]float64 {
-	y, x := simulatePlant(newRand(3), 300)
+	y, x := fixture.SimulatePlant(fixture.NewRand(3), 300)
 	return map[string][]float64{"y": y, "x": x}
 }
 
@@ -226,7 +227,7 @@ func TestCandidatesBlamesTheUsersSeries(t *testing.T) {
 	}
 	// No response: the step and the user's series are named, the ccf
 	// error still reachable.
-	rng := newRand(9)
+	rng := fixture.NewRand(9)
 	noise := make([]float64, n)
 	for i := range noise {
 		noise[i] = rng.NormFloat64()
@@ -374,7 +375,7 @@ func TestCandidatesMaxQ40(t *testing.T) {
 	if testing.Short() {
 		t.Skip("fits MA orders up to 40")
 	}
-	x := simNoise(newRand(2), 400, []float64{1}, []float64{1}, 1)
+	x := fixture.Noise(fixture.NewRand(2), 400, []float64{1}, []float64{1}, 1)
 	if armaPanics(x) {
 		t.Skip("arma.Fit still panics on an MA degree above 32 (fixed in arma on another branch); Identify cannot recover a panic in arma's goroutines")
 	}
@@ -501,7 +502,7 @@ func TestCandidateStringNamesCriterion(t *testing.T) {
 
 func BenchmarkCandidates(b *testing.B) {
 	for _, n := range []int{10000} {
-		data := benchData(n, 2)
+		data := fixture.BenchData(n, 2)
 		b.Run(strconv.Itoa(n), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {

@@ -1,12 +1,9 @@
 package testsignal
 
 import (
-	"errors"
 	"math"
 	"slices"
 	"testing"
-
-	"github.com/backshift/backshift/internal/testutil"
 )
 
 // The rule of SwitchProbability: at the p it returns, the spectrum of a
@@ -85,12 +82,7 @@ func TestBinaryNoiseBadInput(t *testing.T) {
 		{"sample inf", second(SwitchProbability(10, math.Inf(1))), []string{"sample = +Inf"}},
 		{"sample coarse", second(SwitchProbability(10, 20)), []string{"sample = 20", "shorter than", "15.71", "sample faster"}},
 	} {
-		var se *SettingError
-		if !errors.As(tc.err, &se) {
-			t.Errorf("%s: %v, want *SettingError", tc.name, tc.err)
-			continue
-		}
-		testutil.CheckWords(t, tc.name, tc.err.Error(), tc.want, nil)
+		checkSettingError(t, tc.name, tc.err, tc.want)
 	}
 }
 

@@ -1,7 +1,6 @@
 package testsignal
 
 import (
-	"errors"
 	"math"
 	"testing"
 )
@@ -20,8 +19,7 @@ func FuzzDesign(f *testing.F) {
 		}
 		d, err := Design(s)
 		if err != nil {
-			var se *SettingError
-			if !errors.As(err, &se) {
+			if !isSettingError(err) {
 				t.Fatalf("untyped error %v", err)
 			}
 			return

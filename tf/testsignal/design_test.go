@@ -1,7 +1,6 @@
 package testsignal
 
 import (
-	"errors"
 	"math"
 	"testing"
 
@@ -134,11 +133,6 @@ func TestDesignBadInput(t *testing.T) {
 		{"dead time beyond the longest sequence", with(func(s *DesignSettings) { s.DeadTime = 1e9; s.Budget = 9e6 }), []string{"DesignSettings.DeadTime = 1e+09", "longest sequence"}},
 	} {
 		_, err := Design(tc.s)
-		var se *SettingError
-		if !errors.As(err, &se) || !errors.Is(err, ErrSetting) {
-			t.Errorf("%s: %v, want *SettingError", tc.name, err)
-			continue
-		}
-		testutil.CheckWords(t, tc.name, err.Error(), tc.want, nil)
+		checkSettingError(t, tc.name, err, tc.want)
 	}
 }

@@ -1,11 +1,8 @@
 package testsignal
 
 import (
-	"errors"
 	"math"
 	"testing"
-
-	"github.com/backshift/backshift/internal/testutil"
 )
 
 // A multi-level design follows the same rules as a binary one: clock 13
@@ -75,12 +72,7 @@ func TestDesignMultiLevelBadInput(t *testing.T) {
 		s := plant
 		s.Signal, s.Levels, s.Budget = KindMultiLevel, tc.levels, tc.budget
 		_, err := Design(s)
-		var se *SettingError
-		if !errors.As(err, &se) {
-			t.Errorf("%s: %v, want *SettingError", tc.name, err)
-			continue
-		}
-		testutil.CheckWords(t, tc.name, err.Error(), tc.want, nil)
+		checkSettingError(t, tc.name, err, tc.want)
 	}
 }
 
@@ -96,8 +88,7 @@ func FuzzDesignMultiLevel(f *testing.F) {
 		s := DesignSettings{TimeConstant: tau, DeadTime: dead, Sample: ts, Level: level, Amplitude: amp, Budget: budget, Signal: KindMultiLevel, Levels: levels}
 		d, err := Design(s)
 		if err != nil {
-			var se *SettingError
-			if !errors.As(err, &se) {
+			if !isSettingError(err) {
 				t.Fatalf("untyped error %v", err)
 			}
 			return

@@ -66,12 +66,7 @@ func TestMultisineBadInput(t *testing.T) {
 		{"bad phases", MultisineSettings{Period: 20, Phases: 7}, []string{"MultisineSettings.Phases = 7", "SchroederPhases or RandomPhases"}},
 	} {
 		_, err := Multisine(tc.s)
-		var se *SettingError
-		if !errors.As(err, &se) {
-			t.Errorf("%s: %v, want *SettingError", tc.name, err)
-			continue
-		}
-		testutil.CheckWords(t, tc.name, err.Error(), tc.want, nil)
+		checkSettingError(t, tc.name, err, tc.want)
 	}
 }
 

@@ -4,15 +4,14 @@ package main
 
 import (
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"flag"
 	"fmt"
 	"os"
-	"strconv"
 	"time"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -69,25 +68,12 @@ func model() tf.Model {
 	}
 }
 
+// readCSV reads a file of fit_scipy.py: a header line naming the
+// series, then one line of numbers per sample.
 func readCSV(path string) (map[string][]float64, error) {
-	f, err := os.Open(path)
+	tb, err := testutil.LoadCSV(path)
 	if err != nil {
 		return nil, err
 	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		return nil, err
-	}
-	out := map[string][]float64{}
-	for _, row := range rows[1:] {
-		for j, name := range rows[0] {
-			v, err := strconv.ParseFloat(row[j], 64)
-			if err != nil {
-				return nil, err
-			}
-			out[name] = append(out[name], v)
-		}
-	}
-	return out, nil
+	return tb.Num, nil
 }
