@@ -84,7 +84,9 @@ func FuzzDesignMultiLevel(f *testing.F) {
 	f.Add(10.0, 2.0, 1.0, 40.0, 5.0, 700.0, 3)
 	f.Add(1.0, 0.0, 0.5, 0.0, 1.0, 2000.0, 5)
 	f.Add(1e-3, 1e6, 1e-6, -1.0, 1e300, 1.0, 7)
+	f.Add(1e-3, 1e6, 1e-2, -1.0, 1e300, 1.0, 7)
 	f.Fuzz(func(t *testing.T, tau, dead, ts, level, amp, budget float64, levels int) {
+		skipLongDesign(t, budget, ts)
 		s := DesignSettings{TimeConstant: tau, DeadTime: dead, Sample: ts, Level: level, Amplitude: amp, Budget: budget, Signal: KindMultiLevel, Levels: levels}
 		d, err := Design(s)
 		if err != nil {
