@@ -69,3 +69,45 @@ func eventFutures(e *Estimate, futures map[string][]float64, n, h int) (map[stri
 	}
 	return out, nil
 }
+
+// eventsAfterFirst refuses an event input whose effect (its indicator
+// delayed by the input's dead time) does not change over the residuals
+// summed, from first on: a step that has already begun by then is a
+// second constant, a pulse before then never enters the sum, and either
+// way its size cannot be estimated (J'J would be singular).
+func eventsAfterFirst(m tf.Model, data map[string][]float64, first int) error {
+	for _, in := range m.Inputs {
+		if in.Event == nil {
+			continue
+		}
+		x := data[in.Series]
+		at := -1
+		for t, v := range x {
+			if v != 0 {
+				at = t
+				break
+			}
+		}
+		if at < 0 {
+			continue
+		}
+		effect := at + in.Delay
+		late := effect >= len(x)
+		early := effect < first || in.Event.Kind == tf.Step && effect == first
+		if !late && !early {
+			continue
+		}
+		what := "its effect begins at sample " + strconv.Itoa(effect)
+		if in.Delay > 0 {
+			what += " (the event's sample " + strconv.Itoa(at) + " plus the dead time " + strconv.Itoa(in.Delay) + ")"
+		}
+		if late {
+			return &errs.ModelError{Part: "input " + in.Series, Problem: what + ", after the record's last sample " + strconv.Itoa(len(x)-1) +
+				", so the record cannot show it; move the event or drop the input"}
+		}
+		return &errs.ModelError{Part: "input " + in.Series, Problem: what + ", but the residuals are summed from sample " + strconv.Itoa(first) +
+			" on (Conditioning.First: the start-up the model's orders and Settings.First need), over which the indicator does not change" +
+			", so its size cannot be estimated; place the event after sample " + strconv.Itoa(first)}
+	}
+	return nil
+}

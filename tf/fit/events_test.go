@@ -180,3 +180,33 @@ func TestEventForecast(t *testing.T) {
 		t.Errorf("a data column named like the event: got %v, want ErrName", err)
 	}
 }
+
+// TestBadInputEventBeforeFirst: an event whose effect does not change
+// over the residuals summed (a step begun by the first residual, a pulse
+// before it, a dead time that carries it past the record's end) is
+// refused by name instead of giving a singular fit with no standard
+// errors. The model y = c + k EVENT + w0 B x + a has Conditioning.First
+// = 1 (the dead time of x; worked by hand).
+func TestBadInputEventBeforeFirst(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	x, y := make([]float64, 100), make([]float64, 100)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		y[i] = 1 + rng.NormFloat64()
+	}
+	data := map[string][]float64{"y": y, "x": x}
+	for _, tc := range []struct{ event, want string }{
+		{"step(1)", "input step(1): its effect begins at sample 1, but the residuals are summed from sample 1 on"},
+		{"pulse(0)", "input pulse(0): its effect begins at sample 0, but the residuals are summed from sample 1 on"},
+		{"B^5 pulse(97)", "input pulse(97): its effect begins at sample 102 (the event's sample 97 plus the dead time 5), after the record's last sample 99"},
+	} {
+		m := parse.MustModel("y = c + k " + tc.event + " + w0 B x + a")
+		_, err := fit.Model(context.Background(), m, data, nil)
+		if !errors.Is(err, tf.ErrModel) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: got %v, want %q", tc.event, err, tc.want)
+		}
+	}
+	if _, err := fit.Model(context.Background(), parse.MustModel("y = c + k step(2) + w0 B x + a"), data, nil); err != nil {
+		t.Errorf("step(2), after the first residual: %v", err)
+	}
+}

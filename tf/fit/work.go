@@ -1218,6 +1218,9 @@ func newWork(m tf.Model, data map[string][]float64, set Settings) (*work, error)
 	if err := w.condition(set, n); err != nil {
 		return nil, err
 	}
+	if err := eventsAfterFirst(m, data, w.cond.First); err != nil {
+		return nil, err
+	}
 	if err := w.allocate(y, data, set); err != nil {
 		w.release()
 		return nil, err
