@@ -21,6 +21,12 @@ type loop struct {
 	inputs []string       // the predictor's input order
 	col    map[string]int // series name -> input index, -1 for the output
 
+	// watchFrom is the number of samples after which the monitor
+	// watches the errors: the predictor's start-up takes the inputs as
+	// held before the first sample, and the plant was not, so the first
+	// errors carry a transient (see settle).
+	watchFrom int
+
 	mu        sync.Mutex
 	pred      *predict.Predictor
 	mon       *monitor.Monitor
@@ -46,6 +52,7 @@ func newLoop(spec loopSpec, arl float64, out chan<- monitor.Alarm) (*loop, error
 		l.col[s] = i
 	}
 	l.x = make([]float64, len(l.inputs))
+	l.watchFrom = p.First() + settle(spec)
 	l.last = predict.Step{Point: predict.Point{Mean: math.NaN(), SE: math.NaN(), Lower: math.NaN(), Upper: math.NaN()},
 		Index: -1, Error: math.NaN(), Innov: math.NaN()}
 	l.mon, err = monitor.New(&monitor.Settings{TargetARL: arl, Lags: l.lags(), OnAlarm: l.keep, Alarms: out})
@@ -53,6 +60,29 @@ func newLoop(spec loopSpec, arl float64, out chan<- monitor.Alarm) (*loop, error
 		return nil, &UsageError{fmt.Errorf("-arl: %w", err)}
 	}
 	return l, nil
+}
+
+// settleTol is the fraction of its start to which the start-up transient
+// of the input paths decays before the monitor watches the errors.
+const settleTol = 1e-3
+
+// maxSettle caps the settling time, in samples.
+const maxSettle = 10000
+
+// settle returns the number of samples in which the slowest pole of the
+// model's input paths decays to settleTol of its start, |z|^n = settleTol.
+func settle(spec loopSpec) int {
+	n := 0
+	for _, in := range spec.Model.Inputs {
+		r, err := in.Rational()
+		if err != nil {
+			continue
+		}
+		if z := r.MaxPoleMagnitude(); z > 0 && z < 1 {
+			n = max(n, int(math.Ceil(math.Log(settleTol)/math.Log(z))))
+		}
+	}
+	return min(n, maxSettle)
 }
 
 // lags returns the lags the correlation test watches for each input: its
@@ -100,7 +130,7 @@ func (l *loop) take(stamp int64, y float64) (int, error) {
 		return 0, err
 	}
 	e := math.NaN()
-	if !math.IsNaN(st.Error) {
+	if !math.IsNaN(st.Error) && st.Index >= l.watchFrom {
 		e = st.Error / st.SE
 	}
 	n, err := l.mon.Update(stamp, e, l.x)

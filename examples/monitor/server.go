@@ -134,6 +134,8 @@ func (s *service) samples(w http.ResponseWriter, r *http.Request, l *loop) {
 	l.mu.Lock()
 	taken, alarms, err := l.feed(body)
 	total, last := l.samples, l.last
+	raised := l.alarmList()
+	raised = raised[max(0, len(raised)-alarms):] // this request's (the latest maxKept of them)
 	l.mu.Unlock()
 	var le *LineError
 	var mb *http.MaxBytesError
@@ -146,8 +148,8 @@ func (s *service) samples(w http.ResponseWriter, r *http.Request, l *loop) {
 	case err != nil:
 		writeError(w, http.StatusInternalServerError, &apiError{Loop: l.spec.Name, Msg: err.Error()})
 	default:
-		writeJSON(w, http.StatusOK, map[string]any{"loop": l.spec.Name, "taken": taken, "alarms": alarms,
-			"samples": total, "last": stepJSON{pointOf(last.Index, last.Point), num(last.Error)}})
+		writeJSON(w, http.StatusOK, map[string]any{"loop": l.spec.Name, "taken": taken, "samples": total,
+			"last": stepJSON{pointOf(last.Index, last.Point), num(last.Error)}, "alarms_raised": alarms, "alarms": raised})
 	}
 }
 

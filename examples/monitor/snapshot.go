@@ -5,11 +5,13 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"math"
 	"net/url"
 	"os"
 	"path/filepath"
 
 	"github.com/backshift/backshift/tf/monitor"
+	"github.com/backshift/backshift/tf/predict"
 )
 
 // snapshot is a loop's state in its file: the predictor's and the
@@ -22,8 +24,11 @@ type snapshot struct {
 	Total     int64           `json:"alarms_total"`
 	Forgotten int64           `json:"alarms_forgotten"`
 	Alarms    []monitor.Alarm `json:"alarms"`
-	Predictor []byte          `json:"predictor"`
-	Monitor   []byte          `json:"monitor"`
+	// Last is the last sample's step: its index, then the bits of Mean,
+	// SE, Lower, Upper, Error and Innov (NaN has no JSON number).
+	Last      []uint64 `json:"last"`
+	Predictor []byte   `json:"predictor"`
+	Monitor   []byte   `json:"monitor"`
 }
 
 // snapshotFile is the file of the loop named name in dir: the name
@@ -40,7 +45,7 @@ func (s *service) save(dir string) error {
 	for _, l := range s.loops {
 		l.mu.Lock()
 		snap := snapshot{Loop: l.spec.Name, Samples: l.samples, Missing: l.missing, Total: l.total,
-			Forgotten: l.forgotten, Alarms: l.alarms}
+			Forgotten: l.forgotten, Alarms: l.alarms, Last: stepBits(l.last)}
 		snap.Predictor, _ = l.pred.MarshalBinary() // never fails
 		snap.Monitor, _ = l.mon.MarshalBinary()    // never fails
 		l.mu.Unlock()
@@ -95,6 +100,10 @@ func (l *loop) restore(raw []byte) error {
 	if snap.Loop != l.spec.Name {
 		return fmt.Errorf("the snapshot is of loop %q, not %q", snap.Loop, l.spec.Name)
 	}
+	last, err := bitsStep(snap.Last)
+	if err != nil {
+		return err
+	}
 	// Each refuses a snapshot that is not its own and is then left as
 	// it was; the predictor's is tried on a clone, so that a monitor
 	// refusing its part leaves the loop whole.
@@ -105,11 +114,30 @@ func (l *loop) restore(raw []byte) error {
 	if err := l.mon.UnmarshalBinary(snap.Monitor); err != nil {
 		return fmt.Errorf("monitor: %w", err)
 	}
-	l.pred = p
+	l.pred, l.last = p, last
 	l.samples, l.missing, l.total, l.forgotten = snap.Samples, snap.Missing, snap.Total, snap.Forgotten
 	l.alarms = snap.Alarms
 	if len(l.alarms) > maxKept {
 		l.alarms = l.alarms[len(l.alarms)-maxKept:]
 	}
 	return nil
+}
+
+// stepBits stores a step for a snapshot.
+func stepBits(st predict.Step) []uint64 {
+	out := []uint64{uint64(int64(st.Index))}
+	for _, f := range []float64{st.Mean, st.SE, st.Lower, st.Upper, st.Error, st.Innov} {
+		out = append(out, math.Float64bits(f))
+	}
+	return out
+}
+
+// bitsStep reads a step stored by stepBits.
+func bitsStep(b []uint64) (predict.Step, error) {
+	if len(b) != 7 {
+		return predict.Step{}, fmt.Errorf("not a snapshot of this service: the last step has %d values, not 7", len(b))
+	}
+	f := func(i int) float64 { return math.Float64frombits(b[i]) }
+	return predict.Step{Index: int(int64(b[0])), Point: predict.Point{Mean: f(1), SE: f(2), Lower: f(3), Upper: f(4)},
+		Error: f(5), Innov: f(6)}, nil
 }
