@@ -72,7 +72,9 @@ func TestRunRestart(t *testing.T) {
 		ctx, cancel := context.WithCancel(context.Background())
 		var out, errOut syncBuffer
 		done := make(chan int)
-		go func() { done <- run(ctx, append([]string{"-addr", "127.0.0.1:0", "-state", dir}, args...), &out, &errOut) }()
+		go func() {
+			done <- run(ctx, append([]string{"-addr", "127.0.0.1:0", "-state", dir}, args...), &out, &errOut)
+		}()
 		addr := regexp.MustCompile(`listening on (http://\S+)`)
 		for i := 0; ; i++ {
 			if m := addr.FindStringSubmatch(out.String()); m != nil {
