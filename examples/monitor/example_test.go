@@ -12,6 +12,7 @@ import (
 	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/fleet"
 	"github.com/backshift/backshift/tf/monitor"
+	"github.com/backshift/backshift/tf/online"
 	"github.com/backshift/backshift/tf/predict"
 )
 
@@ -121,4 +122,39 @@ func Example_fleet() {
 	// loop 0: valve gain 0.20 degC/%
 	// loop 1: valve gain 0.20 degC/%
 	// loop 2: valve gain 0.20 degC/%
+}
+
+// Example_online keeps the fitted model current on the fourth day by
+// recursive estimation (package tf/online), as the README's section
+// shows.
+func Example_online() {
+	d := greenhouse.Default()
+	const day = 1440
+	hist := map[string][]float64{"temp": d.Temp[:3*day], "valve": d.Valve[:3*day], "outdoor": d.Outdoor[:3*day]}
+	m := parse.MustModel("temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a; every 1 min")
+	est, err := fit.Model(context.Background(), m, hist, &fit.Settings{First: 300})
+	if err != nil {
+		log.Fatal(err)
+	}
+	// README online: begin
+	rec, err := online.New(est.Model, &online.Settings{Forgetting: 0.995}) // memory about 200 samples
+	if err != nil {
+		log.Fatal(err)
+	}
+	for t := 3 * day; t < 4*day; t++ { // your stream, the inputs in the order of rec.Inputs()
+		if err := rec.Update([]float64{d.Valve[t], d.Outdoor[t]}, d.Temp[t]); err != nil {
+			log.Print(err)
+		}
+	}
+	ps := rec.Params(nil) // estimates with standard errors
+	// README online: end
+
+	batch, _ := est.Param("d1")
+	for _, p := range ps {
+		if p.Name == "d1" {
+			fmt.Printf("d1 = %.4f (SE %.1g) on day 4; the batch fit of days 1-3: %.4f\n", p.Value, p.SE, batch.Value)
+		}
+	}
+	// Output:
+	// d1 = 0.9501 (SE 0.001) on day 4; the batch fit of days 1-3: 0.9502
 }
