@@ -21,7 +21,13 @@
 // Each loop has a predictor (tf/predict) and a monitor (tf/monitor). The
 // monitor is given each one-step error divided by its standard error,
 // which is standard normal while the plant behaves as its model (also for
-// the first output after a gap, whose error spans the gap); its
+// the first output after a gap, whose error spans the gap). It starts
+// watching once the predictor's start-up transient has faded: the
+// predictor takes the inputs as held before the first sample, and the
+// plant was not, so the first errors carry a transient that decays with
+// the slowest pole of the input paths; the monitor waits the samples in
+// which it falls to 1e-3 of its start (135 samples for the greenhouse's
+// pole 0.95; "watching" in the state). A restored loop watches at once. Its
 // correlation test watches each input at its dead time b and at b + 1
 // (at least 1: lag 0 alarms falsely under feedback). -arl sets the
 // in-control average run length of each of its three tests (default

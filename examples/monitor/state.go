@@ -79,6 +79,9 @@ type loopState struct {
 	Samples  int64    `json:"samples"`
 	Missing  int64    `json:"missing_outputs"`
 	Settling bool     `json:"settling"`
+	// Watching says the monitor watches the errors: the start-up
+	// transient of the input paths has faded (loop.settle).
+	Watching bool     `json:"watching"`
 	Last     stepJSON `json:"last"`
 	// Statistics and Thresholds are the monitor's.
 	Statistics statsJSON          `json:"statistics"`
@@ -102,6 +105,7 @@ func (l *loop) state() loopState {
 		Loop: l.spec.Name, Model: l.spec.Model.String(), Output: l.spec.Model.Output, Inputs: l.inputs,
 		Sigma: num(l.spec.Sigma), Samples: l.samples, Missing: l.missing,
 		Settling: l.pred.Count() < l.pred.First(),
+		Watching: l.pred.Count() > l.watchFrom,
 		Last:     stepJSON{pointOf(l.last.Index, l.last.Point), num(l.last.Error)},
 		Statistics: statsJSON{
 			MeanUp: num(st.MeanUp), MeanDown: num(st.MeanDown),
