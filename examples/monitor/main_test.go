@@ -22,6 +22,9 @@ func TestBadInputFlags(t *testing.T) {
 	os.WriteFile(noSigma, []byte(`{"models": [{"name": "heater", "spec": "temp = 0.5 / (1 - 0.8 B) B^2 power + a; every 1 min"}]}`), 0o600)
 	free := filepath.Join(dir, "free.json")
 	os.WriteFile(free, []byte(`{"models": [{"name": "heater", "notes": "residual SD 0.1", "spec": "temp = w0 / (1 - 0.8 B) B^2 power + a; every 1 min"}]}`), 0o600)
+	failed := filepath.Join(dir, "failed.json")
+	os.WriteFile(failed, []byte(`{"models": [{"name": "heater", "notes": "residual SD 0.1", "spec": "temp = 0.5 / (1 - 0.8 B) B^2 power + a; every 1 min",
+		"validity": {"samples": 500, "ranges": {"temp": [1, 2]}, "verdict": "failed", "forced": true}}]}`), 0o600)
 	cases := []struct {
 		args   []string
 		status int
@@ -37,6 +40,7 @@ func TestBadInputFlags(t *testing.T) {
 		{[]string{"-config", filepath.Join(dir, "missing.json")}, 1, "no such file"},
 		{[]string{"-config", noSigma}, 1, `no noise standard deviation: give it with -sigma 'heater=SD'`},
 		{[]string{"-config", free}, 1, "its spec has free coefficients (w0)"},
+		{[]string{"-config", failed}, 1, "it was saved with a failed verdict (-save-untrusted)"},
 	}
 	for _, c := range cases {
 		var out, errOut bytes.Buffer
