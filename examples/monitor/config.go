@@ -1,0 +1,173 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"regexp"
+	"strconv"
+	"strings"
+
+	"github.com/backshift/backshift/examples/internal/cmdline"
+	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf"
+)
+
+// config is a site's model library in the format of examples/config (the
+// file examples/identify -save writes): each model is one loop.
+type config struct {
+	Site   string  `json:"site"`
+	Models []entry `json:"models"`
+}
+
+// entry is one model of the file.
+type entry struct {
+	Name     string              `json:"name"`
+	Notes    string              `json:"notes"`
+	Spec     parse.Spec          `json:"spec"`
+	Validity *modelinfo.Validity `json:"validity"`
+}
+
+// loopSpec is what the service needs to run one loop: its name, its
+// model with every coefficient held, and the standard deviation of the
+// model's innovations.
+type loopSpec struct {
+	Name  string
+	Model tf.Model
+	Sigma float64
+}
+
+// stampKey is the key of a sample line that holds its time stamp; no
+// series may have that name.
+const stampKey = "stamp"
+
+// residualSD finds the noise standard deviation in the notes that
+// examples/identify -save writes ("...; residual SD 0.02966; ...").
+var residualSD = regexp.MustCompile(`residual SD ([0-9.eE+-]+)`)
+
+// readConfig reads and checks the config file name; sigmas holds the
+// noise standard deviations given on the command line, by loop name.
+func readConfig(name string, sigmas map[string]float64) ([]loopSpec, error) {
+	raw, err := cmdline.ReadConfig(name)
+	if err != nil {
+		return nil, fmt.Errorf("-config %s: %w", name, err)
+	}
+	loops, err := decodeConfig(raw, sigmas)
+	if err != nil {
+		return nil, fmt.Errorf("-config %s: %w", name, err)
+	}
+	return loops, nil
+}
+
+// decodeConfig decodes a config and turns its models into loops. Unknown
+// keys are refused, as examples/config refuses them (a misspelt key would
+// otherwise be dropped silently); examples/config -file gives the
+// positioned check of a file.
+func decodeConfig(raw []byte, sigmas map[string]float64) ([]loopSpec, error) {
+	var c config
+	dec := json.NewDecoder(bytes.NewReader(bytes.TrimPrefix(raw, []byte{0xef, 0xbb, 0xbf})))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(&c); err != nil {
+		return nil, fmt.Errorf("not a model config (run examples/config -file on it for the position): %w", err)
+	}
+	if len(c.Models) == 0 {
+		return nil, errors.New(`the file lists no models; it holds {"site": ..., "models": [{"name": ..., "spec": ...}]} as examples/identify -save writes it`)
+	}
+	var loops []loopSpec
+	seen := map[string]bool{}
+	for i, e := range c.Models {
+		l, err := e.loop(sigmas)
+		if err != nil {
+			return nil, fmt.Errorf("model %d (%q): %w", i+1, e.Name, err)
+		}
+		if seen[l.Name] {
+			return nil, fmt.Errorf("model %d: the name %q is used twice; loops are named by their models", i+1, l.Name)
+		}
+		seen[l.Name] = true
+		loops = append(loops, l)
+	}
+	for name := range sigmas {
+		if !seen[name] {
+			return nil, &UsageError{fmt.Errorf("-sigma names %q, which is not a model of the config (%s)", name, names(loops))}
+		}
+	}
+	return loops, nil
+}
+
+// loop checks one model entry and returns its loop.
+func (e entry) loop(sigmas map[string]float64) (loopSpec, error) {
+	m := e.Spec.Model
+	switch {
+	case strings.TrimSpace(e.Name) == "":
+		return loopSpec{}, errors.New(`it has no "name"; loops are named by their models`)
+	case m.Output == "":
+		return loopSpec{}, errors.New(`it has no "spec"`)
+	case len(free(m)) > 0:
+		return loopSpec{}, fmt.Errorf("its spec has free coefficients (%s); the service runs models with every coefficient held, as examples/identify -save writes them", strings.Join(free(m), ", "))
+	case e.Validity != nil && e.Validity.Verdict == modelinfo.VerdictFailed:
+		return loopSpec{}, errors.New("it was saved with a failed verdict (-save-untrusted); a model that fails its checks is no base for alarms: identify it again")
+	}
+	for _, s := range append([]string{m.Output}, inputNames(m)...) {
+		if s == stampKey {
+			return loopSpec{}, fmt.Errorf("a series is named %q, the key of a sample's time stamp; rename the series", stampKey)
+		}
+	}
+	sd, ok := sigmas[e.Name]
+	if !ok {
+		mm := residualSD.FindStringSubmatch(e.Notes)
+		if mm == nil {
+			return loopSpec{}, fmt.Errorf(`no noise standard deviation: give it with -sigma '%s=SD' (the fit's residual SD, in %s units)`, e.Name, m.Output)
+		}
+		var err error
+		if sd, err = strconv.ParseFloat(mm[1], 64); err != nil {
+			return loopSpec{}, fmt.Errorf("the notes' residual SD %q is not a number", mm[1])
+		}
+	}
+	if !(sd > 0) || math.IsInf(sd, 0) {
+		return loopSpec{}, fmt.Errorf("the noise standard deviation %g is not a positive finite number", sd)
+	}
+	return loopSpec{Name: e.Name, Model: m, Sigma: sd}, nil
+}
+
+// free lists the names of m's free coefficients.
+func free(m tf.Model) []string {
+	var out []string
+	for _, c := range m.Params() {
+		if c.Free {
+			out = append(out, c.Name)
+		}
+	}
+	return out
+}
+
+// inputNames returns the model's input series, each once.
+func inputNames(m tf.Model) []string {
+	var out []string
+	for _, in := range m.Inputs {
+		if !contains(out, in.Series) {
+			out = append(out, in.Series)
+		}
+	}
+	return out
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+// names lists the loops' names, quoted.
+func names(loops []loopSpec) string {
+	q := make([]string, len(loops))
+	for i, l := range loops {
+		q[i] = strconv.Quote(l.Name)
+	}
+	return strings.Join(q, ", ")
+}

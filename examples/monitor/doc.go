@@ -1,0 +1,90 @@
+// Command monitor is a small HTTP service (net/http only) that runs the
+// models of a site's loops beside the plant: it takes each loop's
+// samples as JSON lines, predicts its output one step and k steps ahead
+// with intervals, watches its one-step prediction errors for drift, and
+// shows its state.
+//
+//	go run ./examples/monitor                                  # the built-in greenhouse loop
+//	go run ./examples/monitor -config fitted.json -state DIR -restore
+//
+// # Loops
+//
+// The config is a model library in the format of examples/config (the
+// file examples/identify -save writes): each model is one loop, named by
+// the model's "name", its spec with every coefficient held. The noise
+// standard deviation of a loop (the fit's residual SD) is taken from the
+// notes identify -save writes ("residual SD 0.02966", four significant
+// digits: a relative rounding below 5e-5, far below the estimate's own
+// sampling error of about 1/sqrt(2 n), 1 % for n = 5760), or from
+// -sigma 'name=SD'. A model saved with a failed verdict is refused.
+//
+// Each loop has a predictor (tf/predict) and a monitor (tf/monitor). The
+// monitor is given each one-step error divided by its standard error,
+// which is standard normal while the plant behaves as its model (also for
+// the first output after a gap, whose error spans the gap). It starts
+// watching once the predictor's start-up transient has faded: the
+// predictor takes the inputs as held before the first sample, and the
+// plant was not, so the first errors carry a transient that decays with
+// the slowest pole of the input paths; the monitor waits the samples in
+// which it falls to 1e-3 of its start (135 samples for the greenhouse's
+// pole 0.95; "watching" in the state). A restored loop watches at once. Its
+// correlation test watches each input at its dead time b and at b + 1
+// (at least 1: lag 0 alarms falsely under feedback). -arl sets the
+// in-control average run length of each of its three tests (default
+// 10080 samples, a week at one sample a minute); with three tests the
+// loop alarms falsely about three times as often.
+//
+// # Routes
+//
+//	GET  /                         the loops, the routes and the caution
+//	GET  /caution                  the caution, in words
+//	GET  /state                    every loop's state
+//	GET  /loops/{loop}             one loop: samples, missing outputs, last prediction,
+//	                               statistics and thresholds, alarms, dropped alarms
+//	POST /loops/{loop}/samples     JSON lines, one sample each
+//	GET  /loops/{loop}/predict?steps=K      the next K outputs, inputs held
+//	POST /loops/{loop}/predict     {"steps": K, "plan": {"valve": [60, 60, 70]}}
+//
+// A sample line is a JSON object with a number for every input, the
+// output's value (null, or no key, when it is missing) and optionally an
+// integer "stamp" in the caller's time unit (without one, the sample's
+// index):
+//
+//	{"stamp": 1700000000, "valve": 55.2, "outdoor": 3.1, "temp": 19.84}
+//
+// A request's lines are taken in order up to the first bad one, which is
+// answered with status 400 and a JSON error naming the loop, the line,
+// the field and the fix ({"loop": ..., "line": 7, "field": "valve",
+// "error": ..., "taken": 6}); the lines before it are taken. An unknown
+// loop is 404, a body over 64 MiB 413, a prediction asked before the
+// loop has settled 409. Requests for one loop take turns; loops run in
+// parallel.
+//
+// Alarms are kept with the loop's state (the latest 100) and written to
+// standard output, one line each, by a goroutine per loop fed through
+// the monitor's channel, which never blocks the samples: when it is full
+// the alarm is counted as dropped ("alarms_dropped").
+//
+// # Restart
+//
+// With -state DIR, each loop's state (the predictor's and the monitor's
+// snapshots, the counts and the kept alarms) is written to DIR on
+// shutdown, one file per loop; with -restore it is read back at start,
+// so that predictions carry on exactly as before the restart. A snapshot
+// of another model, or of a monitor with another -arl, is refused by
+// name (exit status 1).
+//
+// Exit status: 0 after a clean stop, 1 when the config, a snapshot or the
+// address cannot be used, 2 for a command line that is wrong.
+//
+// # Caution
+//
+// An alarm is advice to an operator, not an interlock: it says that the
+// errors no longer look like the model's, with a known rate of false
+// alarms, and it may come late or not at all for a change the tests are
+// not made for. Protect the plant with independent interlocks under the
+// site's safety procedures, deferring to local codes and licensed
+// practice. An identified model is an approximation of the plant. The
+// program prints this at start and serves it with every state and
+// prediction.
+package main
