@@ -17,7 +17,7 @@ import (
 )
 
 // Example is the code of the README's section "In a running service"
-// (examples/monitor/README-section.md): the model of the README's ten
+// (README.md): the model of the README's ten
 // lines, fitted to the greenhouse's first three days, runs beside the
 // plant on the fourth: it predicts each minute's temperature, watches
 // the errors for drift, looks an hour ahead for a planned valve move and
