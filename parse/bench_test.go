@@ -53,10 +53,13 @@ func BenchmarkModelLong(b *testing.B) {
 // benchLengths runs one sub-benchmark of Model for each text length n in
 // 1000, 10000 and 60000 (near MaxSpecLen), on the spec mk(n) built
 // outside the timing, and fails when Model's error does not match
-// wantErr.
+// wantErr, or, for a spec over MaxTokens, when Model does not refuse it.
 func benchLengths(b *testing.B, mk func(n int) string, wantErr bool) {
 	for _, n := range []int{1000, 10000, 60000} {
 		s := mk(n)
+		if toks, err := lexSpec(s); err != nil || len(toks)-1 > MaxTokens {
+			wantErr = true
+		}
 		b.Run(itoa(n), func(b *testing.B) {
 			b.ReportAllocs()
 			b.SetBytes(int64(len(s)))

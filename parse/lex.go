@@ -2,6 +2,7 @@ package parse
 
 import (
 	"io"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 
@@ -66,8 +67,9 @@ func (l *sliceLexer) Next() (lexer.Token, error) {
 // lexError is a lexing failure at a byte offset, turned into an *Error by
 // the caller, which has the source text.
 type lexError struct {
-	pos lexer.Position
-	msg string
+	pos  lexer.Position
+	kind error // ErrSyntax or ErrLimit
+	msg  string
 }
 
 func (e *lexError) Error() string { return e.msg }
@@ -75,7 +77,9 @@ func (e *lexError) Error() string { return e.msg }
 const punct = "=~+-*/^(),;"
 
 // lexSpec splits s into tokens, skipping spaces, line breaks and #
-// comments, and appends an EOF token. Columns count bytes, 1-based.
+// comments, and appends an EOF token. Columns count bytes, 1-based. It
+// stops at the first token over MaxTokens, so that its memory is bounded
+// whatever the text.
 func lexSpec(s string) ([]lexer.Token, error) {
 	return lexAppend(make([]lexer.Token, 0, min(len(s)/3+2, 128)), s)
 }
@@ -120,10 +124,14 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 			typ = tokPunct
 			i++
 		case c == ':' && len(toks) >= 2 && toks[len(toks)-2].Type == tokTime:
-			return nil, &lexError{pos: pos, msg: "unexpected character ':' after the time " + toks[len(toks)-2].Value +
+			return nil, &lexError{pos: pos, kind: ErrSyntax, msg: "unexpected character ':' after the time " + toks[len(toks)-2].Value +
 				" (write a date and time as one word with T between them, as in 2026-03-01T08:00)"}
 		default:
-			return nil, &lexError{pos: pos, msg: "unexpected character " + quoteChar(s[i:]) + charHint(s[i:])}
+			return nil, &lexError{pos: pos, kind: ErrSyntax, msg: "unexpected character " + quoteChar(s[i:]) + charHint(s[i:])}
+		}
+		if len(toks) == MaxTokens {
+			return nil, &lexError{pos: pos, kind: ErrLimit, msg: "the spec has more than " + strconv.Itoa(MaxTokens) +
+				" tokens (names, numbers and symbols), over the limit"}
 		}
 		if len(toks) == cap(toks) {
 			// Double (append grows large slices by only 1.25), so that the
