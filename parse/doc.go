@@ -179,22 +179,22 @@
 //
 //	SpecText = Equation (";" | Clause)* .
 //	Equation = Factor* <ident> "=" LeadTerm SignedTerm* .
-//	LeadTerm = ("+" | "-")? Term .
-//	SignedTerm = ("+" | "-") Term .
+//	LeadTerm = <sign>? Term .
+//	SignedTerm = <sign> Term .
 //	Term = Shorthand | (Operator* Operand) .
 //	Operator = (Coefficient | Delay | ("/" Factor) | ((?! DiffSeries) Factor)) "*"? .
-//	Coefficient = (?! ("step" | "pulse") "(") (<number> | <ident>)
-//	    (?= <ident> | <number> | "(" | "B" | "/" | "*" | "a") .
+//	Coefficient = (<number> | <ident>)
+//	    (?= <ident> | <number> | <event> | "(" | "B" | "/" | "*" | "a") .
 //	Operand = Event | <ident> | "a" | DiffSeries | <number> .
-//	Event = ("step" | "pulse") "(" (<time> | Value) ")" .
+//	Event = <event> "(" (<time> | Value) ")" .
 //	DiffSeries = "(" Factor ("*"? Factor)* "*"? <ident> ")" .
 //	Delay = "B" ("^" Value)? .
 //	Factor = "(" (Polynomial | Product) ")" ("^" Value)? .
 //	Product = Factor ("*"? Factor)* .
-//	Polynomial = ("+" | "-")? Monomial SignedMono* .
-//	SignedMono = ("+" | "-") Monomial .
+//	Polynomial = <sign>? Monomial SignedMono* .
+//	SignedMono = <sign> Monomial .
 //	Monomial = (((<number> | <ident>) ("*"? Delay)?) | Delay) .
-//	Shorthand = ("AR" | "MA" | "ARMA") "(" Value ("," Value)* ")" .
+//	Shorthand = <short> "(" Value ("," Value)* ")" .
 //	Clause = ("where" Binding ("," Binding)*) | ("every" Every) .
 //	Binding = <ident> ("~" | "=") Value .
 //	Every = Value <ident> .
@@ -210,8 +210,11 @@
 //
 //	<number> = ( digit { digit } [ "." { digit } ] | "." digit { digit } )
 //	           [ ( "e" | "E" ) [ "+" | "-" ] digit { digit } ] .
-//	<ident>  = letter { letter | digit } .   (not a reserved word)
+//	<ident>  = letter { letter | digit } .   (not a reserved word, not an <event>)
 //	letter   = "A" … "Z" | "a" … "z" | "_" .
+//	<sign>   = "+" | "-" .
+//	<short>  = "AR" | "MA" | "ARMA" .
+//	<event>  = "step" | "pulse" .            (only when the next token is "(")
 //	<time>   = digit digit digit digit "-" digit digit "-" digit digit
 //	           { letter | digit | ":" | "." | "+" | "-" } .
 //

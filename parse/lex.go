@@ -9,19 +9,26 @@ import (
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
-// Token types of the spec lexer. Keywords (B, a, AR, MA, ARMA, where,
-// every) have their own type so that a name in the grammar never matches
-// one.
+// Token types of the spec lexer. Keywords (B, a, where, every) have their
+// own type so that a name in the grammar never matches one. The signs,
+// the noise shorthands (AR, MA, ARMA) and the events (step or pulse
+// before '(') have a type each, so that the grammar matches each class
+// as one token type rather than as a choice of words: participle tries
+// each alternative of a choice on a branch of its own, and these choices
+// stood in every term.
 const (
 	tokNumber lexer.TokenType = iota + 1
 	tokIdent
 	tokKeyword
 	tokPunct
 	tokTime
+	tokSign
+	tokShort
+	tokEvent
 )
 
 var keywords = map[string]bool{
-	"B": true, "a": true, "AR": true, "MA": true, "ARMA": true, "where": true, "every": true,
+	"B": true, "a": true, "where": true, "every": true,
 }
 
 // specLexer is the participle lexer definition for spec text. It lexes
@@ -30,7 +37,8 @@ type specLexer struct{}
 
 func (specLexer) Symbols() map[string]lexer.TokenType {
 	return map[string]lexer.TokenType{
-		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct, "Time": tokTime,
+		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct, "Time": tokTime, "Sign": tokSign,
+		"Short": tokShort, "Event": tokEvent,
 	}
 }
 
@@ -117,9 +125,17 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 			for i < len(s) && (isLetter(s[i]) || isDigit(s[i])) {
 				i++
 			}
-			if keywords[s[start:i]] {
+			switch w := s[start:i]; {
+			case w == "AR" || w == "MA" || w == "ARMA":
+				typ = tokShort
+			case keywords[w]:
 				typ = tokKeyword
+			case (w == "step" || w == "pulse") && opens(s, i):
+				typ = tokEvent
 			}
+		case c == '+' || c == '-':
+			typ = tokSign
+			i++
 		case strings.IndexByte(punct, c) >= 0:
 			typ = tokPunct
 			i++
@@ -143,6 +159,24 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 	toks = append(toks, lexer.Token{Type: lexer.EOF,
 		Pos: lexer.Position{Offset: len(s), Line: line, Column: len(s) - lineStart + 1}})
 	return toks, nil
+}
+
+// opens reports whether the next token after s[i] is '(' (spaces, line
+// breaks and comments skipped): step and pulse are events only then.
+func opens(s string, i int) bool {
+	for i < len(s) {
+		switch c := s[i]; {
+		case c == ' ' || c == '\t' || c == '\r' || c == '\n':
+			i++
+		case c == '#':
+			for i < len(s) && s[i] != '\n' {
+				i++
+			}
+		default:
+			return c == '('
+		}
+	}
+	return false
 }
 
 // numberEnd returns the end of the number that starts at s[i]: digits,
