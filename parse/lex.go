@@ -28,7 +28,7 @@ const (
 )
 
 var keywords = map[string]bool{
-	"B": true, "a": true, "where": true, "every": true,
+	"B": true, "a": true, "AR": true, "MA": true, "ARMA": true, "where": true, "every": true,
 }
 
 // specLexer is the participle lexer definition for spec text. It lexes

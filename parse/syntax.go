@@ -74,7 +74,9 @@ func (s *slip) cur() lexer.Token  { return s.tok(s.i) }
 func (s *slip) prev() lexer.Token { return s.tok(s.i - 1) }
 func (s *slip) next() lexer.Token { return s.tok(s.i + 1) }
 
-func isP(t lexer.Token, v string) bool { return (t.Type == tokPunct || t.Type == tokSign) && t.Value == v }
+func isP(t lexer.Token, v string) bool {
+	return (t.Type == tokPunct || t.Type == tokSign) && t.Value == v
+}
 func isK(t lexer.Token, v string) bool { return t.Type == tokKeyword && t.Value == v }
 
 // syntaxErr is a syntax verdict at token k.
