@@ -60,8 +60,7 @@ type operator struct {
 	Delay     *delay       `parser:"| @@"`
 	Den       *factor      `parser:"| \"/\" @@"`
 	NotSeries *diffSeries  `parser:"| (?! @@)"`
-	Factor    *factor      `parser:"  @@ )"`
-	Star      bool         `parser:"@\"*\"?"`
+	Factor    *factor      `parser:"  @@ ) \"*\"?"`
 }
 
 // coefficient is a number or a name with more of its term after it
@@ -85,7 +84,6 @@ type operand struct {
 // event is a known event, an input that needs no data column: step(T)
 // or pulse(T), T a sample index or a time.
 type event struct {
-	Pos   lexer.Position
 	Kind  string      `parser:"@Event \"(\""`
 	Time  lexer.Token `parser:"( @Time"`
 	Index *value      `parser:"| @@ ) \")\""`
@@ -136,8 +134,7 @@ type monomial struct {
 	Pos    lexer.Position
 	Number string `parser:"( ( @Number"`
 	Name   string `parser:"  | @Ident )"`
-	Star   bool   `parser:"  ( @\"*\"?"`
-	Power  *delay `parser:"    @@ )?"`
+	Power  *delay `parser:"  ( \"*\"? @@ )?"`
 	Bare   *delay `parser:"| @@ )"`
 }
 
