@@ -27,6 +27,8 @@ const (
 	tokEvent
 )
 
+// keywords are the reserved words, never a name (AR, MA and ARMA are
+// lexed as tokShort, the others as tokKeyword).
 var keywords = map[string]bool{
 	"B": true, "a": true, "AR": true, "MA": true, "ARMA": true, "where": true, "every": true,
 }
