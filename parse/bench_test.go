@@ -96,6 +96,21 @@ func BenchmarkModelHostile(b *testing.B) {
 	}, false)
 }
 
+// BenchmarkModelNested parses a text at MaxTokens of factors nested
+// MaxNesting deep, the costliest per token found (about 3.8 KB).
+func BenchmarkModelNested(b *testing.B) {
+	s := "y = " + strings.Repeat("((((((((1))))))))", 240) + " x"
+	if toks, err := lexSpec(s); err != nil || len(toks)-1 > MaxTokens || len(toks)-1 < MaxTokens-20 {
+		b.Fatalf("spec of %d tokens (%v), want just under %d", len(toks)-1, err, MaxTokens)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Model(s); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
 // BenchmarkGrammar measures the participle parser alone on the tokens
 // of benchSpec (Model is this plus lexing and building the model).
 func BenchmarkGrammar(b *testing.B) {

@@ -13,8 +13,8 @@ const (
 	// symbols and keywords; comments and spaces are not tokens) of a
 	// spec. Lexing stops
 	// at the first token over it, before the parser runs, so that the
-	// parser's memory (about 2 KB per token: 7.4 MB for the costliest
-	// text at the limit, a product of 1,333 constant factors) stays
+	// parser's memory (2 to 4 KB per token: at most about 16 MB, for
+	// texts at the limit made of factors nested MaxNesting deep) stays
 	// bounded whatever the text. The largest sensible model is well inside it: MaxInputs
 	// inputs, each a second-order term with a dead time,
 	// (w0 + w1 B + w2 B^2) / (1 - d1 B - d2 B^2) B^3 x (28 tokens), and a
