@@ -15,7 +15,7 @@ import (
 // before '(') have a type each, so that the grammar matches each class
 // as one token type rather than as a choice of words: participle tries
 // each alternative of a choice on a branch of its own, and these choices
-// stood in every term.
+// stand in every term.
 const (
 	tokNumber lexer.TokenType = iota + 1
 	tokIdent
@@ -39,8 +39,8 @@ type specLexer struct{}
 
 func (specLexer) Symbols() map[string]lexer.TokenType {
 	return map[string]lexer.TokenType{
-		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct, "Time": tokTime, "Sign": tokSign,
-		"Short": tokShort, "Event": tokEvent,
+		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct,
+		"Time": tokTime, "Sign": tokSign, "Short": tokShort, "Event": tokEvent,
 	}
 }
 
