@@ -151,6 +151,13 @@ func TestLimits(t *testing.T) {
 		e.Pos.Column != len("y = w0 ")+2*(MaxTokens-3)+1 {
 		t.Errorf("spec of %d tokens: %v", MaxTokens+1, err)
 	}
+	// A hostile text near MaxSpecLen is refused by the lexer, before the
+	// parser (which allocates about 20 times per token) sees it: the
+	// allocations are the token slice's doublings and the error.
+	hostile := "y = w / (" + strings.Repeat("(1)", 20000) + ") x"
+	if n := testing.AllocsPerRun(3, func() { _, _ = Model(hostile) }); n > 20 { // 13 when written
+		t.Errorf("refusing %d bytes over MaxTokens took %v allocations, want at most 20", len(hostile), n)
+	}
 	deep := "y = " + strings.Repeat("(", MaxNesting) + "1 - B" + strings.Repeat(")", MaxNesting) + " x"
 	if m, err := Model(deep); err != nil || m.Inputs[0].Num.Degree() != 1 {
 		t.Errorf("nesting %d: %v", MaxNesting, err)
