@@ -155,7 +155,7 @@ func TestLimits(t *testing.T) {
 	// parser (which allocates about 20 times per token) sees it: the
 	// allocations are the token slice's doublings and the error.
 	hostile := "y = w / (" + strings.Repeat("(1)", 20000) + ") x"
-	if n := testing.AllocsPerRun(3, func() { _, _ = Model(hostile) }); n > 20 { // 13 when written
+	if n := testing.AllocsPerRun(3, func() { _, _ = Model(hostile) }); n > 20 { // the lexer makes 13
 		t.Errorf("refusing %d bytes over MaxTokens took %v allocations, want at most 20", len(hostile), n)
 	}
 	deep := "y = " + strings.Repeat("(", MaxNesting) + "1 - B" + strings.Repeat(")", MaxNesting) + " x"
