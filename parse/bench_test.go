@@ -51,12 +51,16 @@ func BenchmarkModelLong(b *testing.B) {
 }
 
 // benchLengths runs one sub-benchmark of Model for each text length n in
-// 1000, 10000 and 60000 (near MaxSpecLen), on the spec mk(n) built
-// outside the timing, and fails when Model's error does not match
-// wantErr.
+// 1000, 4000 (near MaxTokens for the hostile texts), 10000 and 60000
+// (near MaxSpecLen), on the spec mk(n) built outside the timing, and
+// fails when Model's error does not match wantErr, or, for a spec over
+// MaxTokens, when Model does not refuse it.
 func benchLengths(b *testing.B, mk func(n int) string, wantErr bool) {
-	for _, n := range []int{1000, 10000, 60000} {
+	for _, n := range []int{1000, 4000, 10000, 60000} {
 		s := mk(n)
+		if toks, err := lexSpec(s); err != nil || len(toks)-1 > MaxTokens {
+			wantErr = true
+		}
 		b.Run(itoa(n), func(b *testing.B) {
 			b.ReportAllocs()
 			b.SetBytes(int64(len(s)))
@@ -84,11 +88,27 @@ func itoa(n int) string {
 }
 
 // BenchmarkModelHostile parses long products of constant factors, the
-// longest work a spec can ask for, to show linear cost.
+// longest work per byte a spec can ask for, to show linear cost up to
+// MaxTokens (4000 bytes are 4006 tokens) and the early refusal above it.
 func BenchmarkModelHostile(b *testing.B) {
 	benchLengths(b, func(n int) string {
 		return "y = w / (" + strings.Repeat("(1)", n/3) + ") x"
 	}, false)
+}
+
+// BenchmarkModelNested parses a text at MaxTokens of factors nested
+// MaxNesting deep, the costliest per token found (about 3.8 KB).
+func BenchmarkModelNested(b *testing.B) {
+	s := "y = " + strings.Repeat("((((((((1))))))))", 240) + " x"
+	if toks, err := lexSpec(s); err != nil || len(toks)-1 > MaxTokens || len(toks)-1 < MaxTokens-20 {
+		b.Fatalf("spec of %d tokens (%v), want just under %d", len(toks)-1, err, MaxTokens)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Model(s); err != nil {
+			b.Fatal(err)
+		}
+	}
 }
 
 // BenchmarkGrammar measures the participle parser alone on the tokens

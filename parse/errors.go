@@ -23,7 +23,7 @@ var (
 	// named twice, ...).
 	ErrModel error = &kind{"parse: invalid model"}
 	// ErrLimit marks a spec over one of the documented limits (length,
-	// degree, dead time, number of inputs, nesting).
+	// tokens, degree, dead time, number of inputs, nesting).
 	ErrLimit error = &kind{"parse: over a limit"}
 )
 

@@ -73,6 +73,15 @@ func TestEventNames(t *testing.T) {
 	if len(m.Inputs) != 2 || m.Inputs[1].Event == nil || !m.Inputs[1].Num.IsOne() || m.String() != "y = 2 + w x + 1 step(5)" {
 		t.Errorf("lone event: %v", m)
 	}
+	// The '(' may follow after spaces, a line break or a comment.
+	m = MustModel("y = k pulse # the new burner\n  (7) + w step")
+	if m.Inputs[0].Event == nil || m.Inputs[0].Event.Index != 7 || m.Inputs[1].Event != nil {
+		t.Errorf("event over a line break: %v", m)
+	}
+	// A name step or pulse at the end of the text is a series.
+	if m := MustModel("y = w pulse"); m.Inputs[0].Event != nil {
+		t.Errorf("series pulse at the end: %v", m)
+	}
 }
 
 // TestCheckEvents: models built in code with a bad event are refused

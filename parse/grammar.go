@@ -30,14 +30,14 @@ type equation struct {
 // leadTerm is the first term, with an optional sign.
 type leadTerm struct {
 	Pos  lexer.Position
-	Sign string `parser:"@( \"+\" | \"-\" )?"`
+	Sign string `parser:"@Sign?"`
 	Term term   `parser:"@@"`
 }
 
 // signedTerm is a term after '+' or '-'.
 type signedTerm struct {
 	Pos  lexer.Position
-	Sign string `parser:"@( \"+\" | \"-\" )"`
+	Sign string `parser:"@Sign"`
 	Term term   `parser:"@@"`
 }
 
@@ -60,16 +60,15 @@ type operator struct {
 	Delay     *delay       `parser:"| @@"`
 	Den       *factor      `parser:"| \"/\" @@"`
 	NotSeries *diffSeries  `parser:"| (?! @@)"`
-	Factor    *factor      `parser:"  @@ )"`
-	Star      bool         `parser:"@\"*\"?"`
+	Factor    *factor      `parser:"  @@ ) \"*\"?"`
 }
 
 // coefficient is a number or a name with more of its term after it
 // (a number or a name that ends a term is the operand).
 type coefficient struct {
 	Pos    lexer.Position
-	Number string `parser:"(?! ( \"step\" | \"pulse\" ) \"(\" ) ( @Number"`
-	Name   string `parser:"| @Ident ) (?= Ident | Number | \"(\" | \"B\" | \"/\" | \"*\" | \"a\")"`
+	Number string `parser:"( @Number"`
+	Name   string `parser:"| @Ident ) (?= Ident | Number | Event | \"(\" | \"B\" | \"/\" | \"*\" | \"a\")"`
 }
 
 // operand ends a term.
@@ -85,8 +84,7 @@ type operand struct {
 // event is a known event, an input that needs no data column: step(T)
 // or pulse(T), T a sample index or a time.
 type event struct {
-	Pos   lexer.Position
-	Kind  string      `parser:"@( \"step\" | \"pulse\" ) \"(\""`
+	Kind  string      `parser:"@Event \"(\""`
 	Time  lexer.Token `parser:"( @Time"`
 	Index *value      `parser:"| @@ ) \")\""`
 }
@@ -120,14 +118,14 @@ type product struct {
 // polynomial is a sum of monomials, each after its sign (the first
 // one's sign is optional).
 type polynomial struct {
-	Sign  string       `parser:"@( \"+\" | \"-\" )?"`
+	Sign  string       `parser:"@Sign?"`
 	First monomial     `parser:"@@"`
 	Rest  []signedMono `parser:"@@*"`
 }
 
 // signedMono is a monomial after its sign.
 type signedMono struct {
-	Sign string   `parser:"@( \"+\" | \"-\" )"`
+	Sign string   `parser:"@Sign"`
 	Mono monomial `parser:"@@"`
 }
 
@@ -136,8 +134,7 @@ type monomial struct {
 	Pos    lexer.Position
 	Number string `parser:"( ( @Number"`
 	Name   string `parser:"  | @Ident )"`
-	Star   bool   `parser:"  ( @\"*\"?"`
-	Power  *delay `parser:"    @@ )?"`
+	Power  *delay `parser:"  ( \"*\"? @@ )?"`
 	Bare   *delay `parser:"| @@ )"`
 }
 
@@ -153,7 +150,7 @@ type value struct {
 // shorthand is a noise shorthand: AR(p), MA(q) or ARMA(p, q).
 type shorthand struct {
 	Pos  lexer.Position
-	Kind string   `parser:"@( \"AR\" | \"MA\" | \"ARMA\" )"`
+	Kind string   `parser:"@Short"`
 	Args []*value `parser:"\"(\" @@ ( \",\" @@ )* \")\""`
 }
 

@@ -2,23 +2,33 @@ package parse
 
 import (
 	"io"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 
 	"github.com/alecthomas/participle/v2/lexer"
 )
 
-// Token types of the spec lexer. Keywords (B, a, AR, MA, ARMA, where,
-// every) have their own type so that a name in the grammar never matches
-// one.
+// Token types of the spec lexer. Keywords (B, a, where, every) have their
+// own type so that a name in the grammar never matches one. The signs,
+// the noise shorthands (AR, MA, ARMA) and the events (step or pulse
+// before '(') have a type each, so that the grammar matches each class
+// as one token type rather than as a choice of words: participle tries
+// each alternative of a choice on a branch of its own, and these choices
+// stand in every term.
 const (
 	tokNumber lexer.TokenType = iota + 1
 	tokIdent
 	tokKeyword
 	tokPunct
 	tokTime
+	tokSign
+	tokShort
+	tokEvent
 )
 
+// keywords are the reserved words, never a name (AR, MA and ARMA are
+// lexed as tokShort, the others as tokKeyword).
 var keywords = map[string]bool{
 	"B": true, "a": true, "AR": true, "MA": true, "ARMA": true, "where": true, "every": true,
 }
@@ -29,7 +39,8 @@ type specLexer struct{}
 
 func (specLexer) Symbols() map[string]lexer.TokenType {
 	return map[string]lexer.TokenType{
-		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct, "Time": tokTime,
+		"EOF": lexer.EOF, "Number": tokNumber, "Ident": tokIdent, "Keyword": tokKeyword, "Punct": tokPunct,
+		"Time": tokTime, "Sign": tokSign, "Short": tokShort, "Event": tokEvent,
 	}
 }
 
@@ -66,8 +77,9 @@ func (l *sliceLexer) Next() (lexer.Token, error) {
 // lexError is a lexing failure at a byte offset, turned into an *Error by
 // the caller, which has the source text.
 type lexError struct {
-	pos lexer.Position
-	msg string
+	pos  lexer.Position
+	kind error // ErrSyntax or ErrLimit
+	msg  string
 }
 
 func (e *lexError) Error() string { return e.msg }
@@ -75,7 +87,9 @@ func (e *lexError) Error() string { return e.msg }
 const punct = "=~+-*/^(),;"
 
 // lexSpec splits s into tokens, skipping spaces, line breaks and #
-// comments, and appends an EOF token. Columns count bytes, 1-based.
+// comments, and appends an EOF token. Columns count bytes, 1-based. It
+// stops at the first token over MaxTokens, so that its memory is bounded
+// whatever the text.
 func lexSpec(s string) ([]lexer.Token, error) {
 	return lexAppend(make([]lexer.Token, 0, min(len(s)/3+2, 128)), s)
 }
@@ -113,17 +127,29 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 			for i < len(s) && (isLetter(s[i]) || isDigit(s[i])) {
 				i++
 			}
-			if keywords[s[start:i]] {
+			switch w := s[start:i]; {
+			case w == "AR" || w == "MA" || w == "ARMA":
+				typ = tokShort
+			case keywords[w]:
 				typ = tokKeyword
+			case (w == "step" || w == "pulse") && opens(s, i):
+				typ = tokEvent
 			}
+		case c == '+' || c == '-':
+			typ = tokSign
+			i++
 		case strings.IndexByte(punct, c) >= 0:
 			typ = tokPunct
 			i++
 		case c == ':' && len(toks) >= 2 && toks[len(toks)-2].Type == tokTime:
-			return nil, &lexError{pos: pos, msg: "unexpected character ':' after the time " + toks[len(toks)-2].Value +
+			return nil, &lexError{pos: pos, kind: ErrSyntax, msg: "unexpected character ':' after the time " + toks[len(toks)-2].Value +
 				" (write a date and time as one word with T between them, as in 2026-03-01T08:00)"}
 		default:
-			return nil, &lexError{pos: pos, msg: "unexpected character " + quoteChar(s[i:]) + charHint(s[i:])}
+			return nil, &lexError{pos: pos, kind: ErrSyntax, msg: "unexpected character " + quoteChar(s[i:]) + charHint(s[i:])}
+		}
+		if len(toks) == MaxTokens {
+			return nil, &lexError{pos: pos, kind: ErrLimit, msg: "the spec has more than " + strconv.Itoa(MaxTokens) +
+				" tokens (names, numbers and symbols), over the limit"}
 		}
 		if len(toks) == cap(toks) {
 			// Double (append grows large slices by only 1.25), so that the
@@ -135,6 +161,24 @@ func lexAppend(toks []lexer.Token, s string) ([]lexer.Token, error) {
 	toks = append(toks, lexer.Token{Type: lexer.EOF,
 		Pos: lexer.Position{Offset: len(s), Line: line, Column: len(s) - lineStart + 1}})
 	return toks, nil
+}
+
+// opens reports whether the next token after s[i] is '(' (spaces, line
+// breaks and comments skipped): step and pulse are events only then.
+func opens(s string, i int) bool {
+	for i < len(s) {
+		switch c := s[i]; {
+		case c == ' ' || c == '\t' || c == '\r' || c == '\n':
+			i++
+		case c == '#':
+			for i < len(s) && s[i] != '\n' {
+				i++
+			}
+		default:
+			return c == '('
+		}
+	}
+	return false
 }
 
 // numberEnd returns the end of the number that starts at s[i]: digits,

@@ -29,11 +29,11 @@ func Model(spec string) (tf.Model, error) {
 	if err != nil {
 		var le *lexError
 		errors.As(err, &le)
-		b.fail(le.pos, ErrSyntax, le.msg)
+		b.fail(le.pos, le.kind, le.msg)
 		return tf.Model{}, b.errs
 	}
 	if e := checkNesting(toks); e != nil {
-		b.fail(e.pos, ErrLimit, e.msg)
+		b.fail(e.pos, e.kind, e.msg)
 		return tf.Model{}, b.errs
 	}
 	if len(toks) == 1 {
@@ -74,7 +74,7 @@ func checkNesting(toks []lexer.Token) *lexError {
 		case "(":
 			depth++
 			if depth > MaxNesting {
-				return &lexError{pos: t.Pos, msg: "parentheses nested more than " + strconv.Itoa(MaxNesting) + " deep"}
+				return &lexError{pos: t.Pos, kind: ErrLimit, msg: "parentheses nested more than " + strconv.Itoa(MaxNesting) + " deep"}
 			}
 		case ")":
 			depth = max(depth-1, 0)

@@ -141,6 +141,23 @@ func TestLimits(t *testing.T) {
 	if _, err := Model(exact); err != nil {
 		t.Errorf("spec of exactly %d bytes: %v", MaxSpecLen, err)
 	}
+	delays := func(k int) string { return "y = w0 " + strings.Repeat("B ", k) + "x" } // 4 + k tokens
+	if m, err := Model(delays(MaxTokens - 4)); err != nil || m.Inputs[0].Delay != MaxTokens-4 {
+		t.Errorf("spec of exactly %d tokens: %v", MaxTokens, err)
+	}
+	_, err = Model(delays(MaxTokens - 3))
+	if e := new(Error); !errors.As(err, &e) || !errors.Is(err, ErrLimit) ||
+		e.Msg != "the spec has more than 4096 tokens (names, numbers and symbols), over the limit" ||
+		e.Pos.Column != len("y = w0 ")+2*(MaxTokens-3)+1 {
+		t.Errorf("spec of %d tokens: %v", MaxTokens+1, err)
+	}
+	// A hostile text near MaxSpecLen is refused by the lexer, before the
+	// parser (which allocates about 20 times per token) sees it: the
+	// allocations are the token slice's doublings and the error.
+	hostile := "y = w / (" + strings.Repeat("(1)", 20000) + ") x"
+	if n := testing.AllocsPerRun(3, func() { _, _ = Model(hostile) }); n > 20 { // the lexer makes 13
+		t.Errorf("refusing %d bytes over MaxTokens took %v allocations, want at most 20", len(hostile), n)
+	}
 	deep := "y = " + strings.Repeat("(", MaxNesting) + "1 - B" + strings.Repeat(")", MaxNesting) + " x"
 	if m, err := Model(deep); err != nil || m.Inputs[0].Num.Degree() != 1 {
 		t.Errorf("nesting %d: %v", MaxNesting, err)

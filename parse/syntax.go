@@ -74,7 +74,9 @@ func (s *slip) cur() lexer.Token  { return s.tok(s.i) }
 func (s *slip) prev() lexer.Token { return s.tok(s.i - 1) }
 func (s *slip) next() lexer.Token { return s.tok(s.i + 1) }
 
-func isP(t lexer.Token, v string) bool { return t.Type == tokPunct && t.Value == v }
+func isP(t lexer.Token, v string) bool {
+	return (t.Type == tokPunct || t.Type == tokSign) && t.Value == v
+}
 func isK(t lexer.Token, v string) bool { return t.Type == tokKeyword && t.Value == v }
 
 // syntaxErr is a syntax verdict at token k.
@@ -97,7 +99,7 @@ func (s *slip) explain() verdict {
 	case e == "Factor":
 		return s.term()
 	case strings.HasPrefix(e, "\")\""), strings.HasPrefix(e, "Factor ("), strings.HasPrefix(e, "Monomial"):
-		if k := s.open(s.i); k > 0 && s.toks[k-1].Type == tokKeyword && isShort(s.toks[k-1].Value) {
+		if k := s.open(s.i); k > 0 && s.toks[k-1].Type == tokShort {
 			return s.order(k - 1)
 		}
 		if k := s.open(s.i); s.eventOpen(k) && s.unclosed(s.i) < 0 {
@@ -131,7 +133,7 @@ func (s *slip) explain() verdict {
 // output explains a slip before '=': the output name is missing.
 func (s *slip) output() verdict {
 	cur := s.cur()
-	if cur.Type == tokKeyword && cur.Value != "where" && cur.Value != "every" {
+	if (cur.Type == tokKeyword || cur.Type == tokShort) && cur.Value != "where" && cur.Value != "every" {
 		return syntaxErr(s.i, cur.Value+" is a reserved word and cannot name the output; expected the output series name, found "+describe(cur))
 	}
 	return syntaxErr(s.i, "expected the output series name, after its differencing if any, as in (1 - B) y = ...; found "+describe(cur))
@@ -161,9 +163,9 @@ func (s *slip) term() verdict {
 		return syntaxErr(s.i+1, "expected '(' after '/': write a denominator in parentheses, as in / (1 - d1 B); found "+describe(next))
 	case isP(cur, "^"):
 		return syntaxErr(s.i+1, "expected a whole number after '^', found "+describe(next))
-	case cur.Type == tokKeyword && isShort(cur.Value) && !isP(next, "("):
+	case cur.Type == tokShort && !isP(next, "("):
 		return s.shortOpen(s.i)
-	case cur.Type == tokKeyword && isShort(cur.Value) && !startsTerm(prev):
+	case cur.Type == tokShort && !startsTerm(prev):
 		return verdict{s.i, ErrModel, "a noise shorthand such as " + cur.Value + "(...) stands alone as the noise term"}
 	case startsTerm(prev):
 		return syntaxErr(s.i, "expected a term after '"+prev.Value+"', such as w0 B x, found "+describe(cur))
@@ -221,17 +223,17 @@ func (s *slip) inParens() verdict {
 	}
 	switch {
 	case isP(prev, "(") && !isP(cur, "+") && !isP(cur, "-"):
-		if isK(cur, "a") || cur.Type == tokKeyword && isShort(cur.Value) {
+		if isK(cur, "a") || cur.Type == tokShort {
 			return s.misplaced(s.i)
 		}
 		return syntaxErr(s.i, "expected a polynomial after '(', found "+describe(cur))
 	case isP(prev, "+") || isP(prev, "-"):
-		if isK(cur, "a") || cur.Type == tokKeyword && isShort(cur.Value) {
+		if isK(cur, "a") || cur.Type == tokShort {
 			return s.misplaced(s.i)
 		}
 		return syntaxErr(s.i, "expected a coefficient or B after "+quoteTok(prev.Value)+", found "+describe(cur))
 	case isP(cur, "+") || isP(cur, "-"):
-		if isK(next, "a") || next.Type == tokKeyword && isShort(next.Value) {
+		if isK(next, "a") || next.Type == tokShort {
 			return s.misplaced(s.i + 1)
 		}
 		return syntaxErr(s.i+1, "expected a coefficient or B after "+quoteTok(cur.Value)+", found "+describe(next))
@@ -255,7 +257,7 @@ func (s *slip) inParens() verdict {
 		return syntaxErr(s.i, glued(cur.Value))
 	case cur.Type == tokNumber && isK(prev, "B") && strings.Trim(cur.Value, "0123456789") == "":
 		return syntaxErr(s.i, "B followed by "+clip(cur.Value)+" is not a power of B: for the term in B^"+clip(cur.Value)+" write B^"+clip(cur.Value))
-	case isK(cur, "a") || cur.Type == tokKeyword && isShort(cur.Value):
+	case isK(cur, "a") || cur.Type == tokShort:
 		return s.misplaced(s.i)
 	case isP(cur, "(") || isP(prev, ")") || isP(cur, "/"):
 		return syntaxErr(s.i, "inside these parentheses write either one polynomial or a product of polynomials in parentheses, not both")
@@ -328,9 +330,9 @@ func (s *slip) after() verdict {
 		return verdict{s.open(s.i - 1), ErrModel, "a differenced series such as ((1 - B) x) must come last in its term"}
 	case isK(prev, "a") && startsOperator(cur):
 		return syntaxErr(s.i, "the white-noise symbol a must come last in the noise term")
-	case cur.Type == tokKeyword && isShort(cur.Value) && !isP(s.next(), "("):
+	case cur.Type == tokShort && !isP(s.next(), "("):
 		return s.shortOpen(s.i)
-	case cur.Type == tokKeyword && isShort(cur.Value):
+	case cur.Type == tokShort:
 		return verdict{s.i, ErrModel, "a noise shorthand such as " + cur.Value + "(...) stands alone as the noise term"}
 	case isP(cur, ","):
 		return syntaxErr(s.i, "expected '+', '-', where, every or the end of the spec after a term, found ',' (join terms with '+'; put where and every after a space or ';')")
@@ -360,8 +362,7 @@ func (s *slip) eventOpen(k int) bool {
 	if k < 1 || !isP(s.tok(k), "(") {
 		return false
 	}
-	t := s.toks[k-1]
-	return t.Type == tokIdent && (t.Value == "step" || t.Value == "pulse")
+	return s.toks[k-1].Type == tokEvent
 }
 
 // open is the index of the innermost '(' still open at token k, or -1.
