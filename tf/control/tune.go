@@ -28,7 +28,8 @@ const (
 	//
 	// order 2 (PID, series form): the same with Td = Tau2. Integrating
 	// (k the slope): Kc = 1/(k (tc + theta)), Ti = 4 (tc + theta), and
-	// Td = Tau2 for order 2. The default tc is theta ("tight control").
+	// Td = Tau2 for order 2. The default tc is theta ("tight control"),
+	// theta here the effective dead time plus half a sample (see Tune).
 	SIMC Rule = "SIMC"
 	// IMC is lambda / internal-model-control tuning (Rivera, Morari &
 	// Skogestad 1986) on the half-rule model. Order 1 (PI, e^{-theta s}
@@ -39,10 +40,11 @@ const (
 	// second-order model: Kc = (Tau1 + Tau2)/(k (lambda + theta)),
 	// Ti = Tau1 + Tau2, Td = Tau1 Tau2/(Tau1 + Tau2). Integrating (lambda
 	// tuning, common practice): Kc = (2 lambda + theta)/(k (lambda +
-	// theta)^2), Ti = 2 lambda + theta, a PI also when a PID is asked for.
-	// The default lambda is 1.7 theta
-	// for PI and 0.8 theta for PID, the lower bounds the paper recommends
-	// (from memory).
+	// theta)^2), Ti = 2 lambda + theta, a PI also when a PID is asked for
+	// (tuned then on the order-1 model, with a note). The default lambda
+	// is 1.7 theta for PI and 0.8 theta for PID, the lower bounds the
+	// paper recommends (from memory), theta here the effective dead time
+	// plus half a sample (see Tune).
 	IMC Rule = "IMC"
 	// Dahlin is the discrete direct-synthesis rule (Dahlin 1968): the
 	// controller that makes the closed loop on the model a first-order
@@ -59,13 +61,16 @@ const (
 	// cancels. It works on the discrete model directly (no reading), and
 	// its result is a rational controller. The default lambda is the
 	// dead time of the reading (of the model's dead time less the hold's
-	// sample when Read refuses the model), at least one sample.
+	// sample when Read refuses the model), at least one sample. A plant
+	// pole on or outside the unit circle (other than one integrator) is
+	// refused: the controller would cancel it, and the loop would be
+	// internally unstable.
 	Dahlin Rule = "Dahlin"
 )
 
 // TuneSettings chooses the rule, the controller and the speed of the
-// loop. The zero value tunes a SIMC PI controller with tc = theta,
-// discretised by backward differences.
+// loop. The zero value tunes a SIMC PI controller with the default tc
+// (see Tune), discretised by backward differences.
 type TuneSettings struct {
 	// Rule is the tuning rule; empty means SIMC.
 	Rule Rule
@@ -85,10 +90,12 @@ type TuneSettings struct {
 	ClosedLoopTime float64
 	// MaxSensitivity, when not 0, asks instead for the closed-loop time
 	// whose discrete loop on the model has this peak |S| (found by
-	// bisection on log tc over [1e-3, 1e3] times the rule's default
+	// bisection on log tc over [1e-3, 1e3] times the rule's own
 	// closed-loop time, at least the sample interval; Ms falls as the
-	// loop slows). It must lie in (1, 10]; 1.4 to 2 is the
-	// usual range (common practice). It overrides ClosedLoopTime.
+	// loop slows). It must lie in (1, 10]; 1.4 to 2 is the usual range
+	// (common practice). A target that no loop of the range reaches, on
+	// the slow or the fast side, is an error that gives the Ms reached.
+	// It overrides ClosedLoopTime.
 	MaxSensitivity float64
 	// Method discretises the PID; empty means BackwardDifference.
 	Method Method
