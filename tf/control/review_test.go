@@ -137,6 +137,10 @@ func TestTuneDefaultsMs(t *testing.T) {
 	if !(tu.Ms >= 1.4 && tu.Ms <= 2) {
 		t.Errorf("one-sample dead time: Ms %v", tu.Ms)
 	}
+	old, err := Tune(rat(t, []float64{0.1}, []float64{1, -0.9}, 1), tf.Interval{}, TuneSettings{ClosedLoopTime: 0.5})
+	if err != nil || !(old.Ms > 2.2) || !strings.Contains(old.String(), "aggressive: Ms above 2") {
+		t.Errorf("tc = theta = 0.5: Ms %v, %v", old.Ms, err)
+	}
 	// IMC PID at the paper's lambda 0.8 theta = 2, set by the caller:
 	// kept, and noted.
 	tu, err = Tune(fo, tf.Interval{}, TuneSettings{Rule: IMC, Derivative: true, ClosedLoopTime: 2})
