@@ -29,8 +29,8 @@ func TestMainOutput(t *testing.T) {
 }
 
 // TestOtherPlant runs the program on a model as examples/identify prints
-// it (the greenhouse identified from the demo record, rounded), and on
-// an unstable plant.
+// it (the greenhouse identified from the demo record, rounded), and
+// refuses an unstable one.
 func TestOtherPlant(t *testing.T) {
 	var buf bytes.Buffer
 	spec := "temp = 5.97 + 0.009989 / (1 - 0.9502 B) B^3 valve + 0.04907 / (1 - 0.9021 B) B outdoor + (1 + 0.3037 B) / (1 - 0.7926 B) a; every 1 min"
@@ -40,15 +40,23 @@ func TestOtherPlant(t *testing.T) {
 	if !strings.Contains(buf.String(), "plant: "+spec) {
 		t.Errorf("summary does not name the plant:\n%s", buf.String())
 	}
-	// An unstable plant (pole 1.5, held at 16 degC by a closed valve):
-	// the loop diverges, and the summary says so instead of printing
-	// settling times of +Inf and overshoots of 10^60 %; the caution
-	// still closes it.
-	buf.Reset()
-	err := runWith(&buf, options{spec: "temp = 16 + 0.01 / (1 - 1.5 B) B^3 valve + a; every 1 min", noise: NoiseSD})
-	if err == nil || !strings.Contains(err.Error(), "diverged") || !strings.Contains(buf.String(), "the closed loop diverged") ||
-		strings.Contains(buf.String(), "Inf") || !strings.Contains(buf.String(), "licensed practice") {
-		t.Errorf("unstable plant: error %v, summary:\n%s", err, buf.String())
+	// An unstable valve path (pole 1.5, or 1.05 with a constant that
+	// would put the valve at -50 %): the plant has no steady state to
+	// start from and a fixed PI test on it says nothing, so the spec is
+	// refused with a *PlantError that names the path, the pole outside
+	// the unit circle and that reason, before any scenario (and before
+	// the check of the valve's starting point).
+	for _, c := range []struct{ spec, pole string }{
+		{"temp = 16 + 0.01 / (1 - 1.5 B) B^3 valve + a; every 1 min", "|z| = 1.5"},
+		{"temp = 6 + 0.01 / (1 - 1.05 B) B^3 valve + a; every 1 min", "|z| = 1.05"},
+	} {
+		buf.Reset()
+		err := runWith(&buf, options{spec: c.spec, noise: NoiseSD})
+		var pe *PlantError
+		if !errors.As(err, &pe) || pe.Part != "valve path" || !strings.Contains(err.Error(), "unstable (a pole outside the unit circle, "+c.pole+")") ||
+			!strings.Contains(err.Error(), "not meaningful") || strings.Contains(err.Error(), "-50 %") || buf.Len() != 0 {
+			t.Errorf("unstable plant %s: error %v, summary:\n%s", c.spec, err, buf.String())
+		}
 	}
 }
 

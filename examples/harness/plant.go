@@ -100,9 +100,10 @@ type Process struct {
 // sample interval ("every 1 min") from 0.1 s to 2 min, an input named
 // valve and optionally one named outdoor and no other, every coefficient
 // a number or held at a value (a free coefficient has no known value),
-// a valve path with a steady-state gain that is positive when the path
-// is stable (the PI is direct acting: more valve, more heat), and an
-// outdoor path with a steady-state gain. Anything else is a *PlantError
+// a stable valve path with a positive steady-state gain (the PI is
+// direct acting: more valve, more heat), and a stable outdoor path (an
+// unstable path, a pole outside the unit circle, has no steady state to
+// start from, and a PI test on it is not meaningful). Anything else is a *PlantError
 // naming the part and the likely fix; a spec that does not parse gives
 // parse's error list.
 func NewProcess(spec string, seed uint64, sd float64) (*Process, error) {
@@ -235,12 +236,20 @@ func (p *Process) pathGain(i int) (float64, error) {
 		return 0, &PlantError{Part: part, Pos: in.Pos, Problem: "has no steady-state gain (a pole at z = 1: it integrates), " +
 			"and every scenario starts from a steady state; the harness runs self-regulating plants only", Err: err}
 	}
+	if mp := r.MaxPoleMagnitude(); mp > 1 {
+		// Its steady-state gain is a number, but no steady state is ever
+		// reached: the scenarios' starting point and a PI test at fixed
+		// settings say nothing about such a plant.
+		return 0, &PlantError{Part: part, Pos: in.Pos, Problem: fmt.Sprintf(
+			"is unstable (a pole outside the unit circle, |z| = %.4g): it has no steady state to start a scenario from, "+
+				"so a test of the fixed PI on it is not meaningful; an unstable plant needs a controller designed to stabilise it, checked with control.Analyze", mp)}
+	}
 	d := 0.0
 	for _, v := range in.DiffCoeffs() {
 		d += v
 	}
 	g *= d
-	if i == p.valve && r.Stable() && !(g > 0) {
+	if i == p.valve && !(g > 0) {
 		return 0, &PlantError{Part: part, Pos: in.Pos, Problem: fmt.Sprintf(
 			"has a steady-state gain of %.4g degC per %%: the PI under test is direct acting (more valve, more heat) and needs a positive gain; "+
 				"check the sign of the numerator and any differencing of valve", g)}

@@ -24,10 +24,11 @@ import (
 //
 // Each rule's settings are checked against its formula on the reduced
 // model the rule reports (Skogestad 2003: SIMC PI Kc = tau1/(k (tc +
-// theta)), Ti = min(tau1, 4 (tc + theta)), tc = theta by default;
+// theta)), Ti = min(tau1, 4 (tc + theta)), tc = theta + T/2 by default;
 // Rivera, Morari & Skogestad 1986: IMC PI Kc = tau1/(k (lambda +
-// theta)), Ti = tau1, lambda = 1.7 theta by default, from control's
-// doc), to 1e-12 relative.
+// theta)), Ti = tau1, lambda = 1.7 (theta + T/2) by default, from
+// control.Tune's doc: the default counts the sampling's half sample
+// beyond the hold's), to 1e-12 relative.
 func TestReport(t *testing.T) {
 	var buf bytes.Buffer
 	if err := run(&buf); err != nil {
@@ -81,13 +82,16 @@ func TestReport(t *testing.T) {
 func checkRuleFormula(t *testing.T, tu control.Tuning) {
 	t.Helper()
 	m := tu.Model
+	// The default closed-loop time counts half a sample beyond the
+	// model's dead time (control.Tune's doc).
+	th := m.DeadTime + tu.Interval.Value/2
 	var kc, ti float64
 	switch tu.Rule {
 	case control.SIMC:
-		tc := m.DeadTime
+		tc := th
 		kc, ti = m.Tau1/(m.Gain*(tc+m.DeadTime)), math.Min(m.Tau1, 4*(tc+m.DeadTime))
 	case control.IMC:
-		lambda := 1.7 * m.DeadTime
+		lambda := 1.7 * th
 		kc, ti = m.Tau1/(m.Gain*(lambda+m.DeadTime)), m.Tau1
 	default:
 		t.Fatalf("no formula for %s", tu.Rule)

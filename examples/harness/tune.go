@@ -12,7 +12,8 @@ import (
 // with its default closed-loop time: SIMC (Skogestad 2003, tc equal to
 // the effective dead time, "tight control") and IMC / lambda tuning
 // (Rivera, Morari & Skogestad 1986, lambda 1.7 times the dead time),
-// both on the half-rule model of the identified valve path.
+// both on the half-rule model of the identified valve path, the dead
+// time counted with the sampling's half sample (control.Tune's doc).
 var tuningRules = []control.Rule{control.SIMC, control.IMC}
 
 // The robustness checks of each tuning.

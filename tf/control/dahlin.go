@@ -53,6 +53,29 @@ func dahlin(p tf.Rational, T, lambda float64) (tf.Rational, error) {
 	return c, nil
 }
 
+// dahlinPlant refuses a plant with a pole on or outside the unit circle
+// (besides one integrator, whose (1 - B) the loop's own cancels):
+// Dahlin's controller has the plant's denominator delta(B) in its
+// numerator, so it would cancel such a pole with a controller zero. The
+// cancelled mode is then hidden from the set point but not from a load
+// or the slightest model error: the loop is internally unstable
+// (Franklin, Powell & Workman 1998, the internal stability of
+// direct-design controllers). Zeros outside the unit circle or on the
+// negative real axis are not cancelled (smoothNumerator).
+func dahlinPlant(p tf.Rational) error {
+	den := p.Den()
+	var ge *tf.GainError
+	if _, err := p.Gain(); errors.As(err, &ge) {
+		den = deflate(den)
+	}
+	for _, z := range zplane(den) {
+		if cmplx.Abs(z) >= 1-1e-9 {
+			return &ModelError{Part: "plant poles", Problem: "pole " + fmtC(z) + " is on or outside the unit circle: Dahlin's controller would cancel it with a zero, leaving the loop internally unstable (the cancelled mode still grows from any load or model error); stabilise the plant first or use a controller checked with Analyze"}
+		}
+	}
+	return nil
+}
+
 // smoothNumerator returns omega with every zero on the negative real
 // axis or on or outside the unit circle (z-plane) replaced by its
 // factor's value at B = 1, so that the controller neither rings nor

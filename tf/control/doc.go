@@ -21,7 +21,10 @@
 // gain, lags, leads, inverse responses, dead time) reduced by the half
 // rule (HalfRule) to first or second order plus dead time, or to an
 // integrator with dead time. The user sets the closed-loop time (tc or
-// lambda) or a target peak sensitivity, and gets the rest.
+// lambda) or a target peak sensitivity, and gets the rest. The default
+// closed-loop time keeps the loop on the model at a peak sensitivity of
+// at most 2; a tuning whose loop on the model is unstable is an error,
+// and one above Ms 2 carries the note "aggressive: Ms above 2".
 //
 // # The loop
 //

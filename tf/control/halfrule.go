@@ -68,9 +68,11 @@ func (m Reduced) String() string {
 // no lag to pair is refused.
 //
 // It returns a *SettingError for an order other than 1 or 2 and a
-// *ModelError when the reading cannot be reduced (no lag for a
-// non-integrating first-order model: a pure dead time, for which a PI
-// controller degenerates into integral action alone).
+// *ModelError when the reading cannot be reduced: no lag for a
+// non-integrating model (a pure dead time, for which a PI controller
+// degenerates into integral action alone), or no lag left after a lead
+// longer than every lag took the longest as a gain factor (the rule
+// does not apply to such a lead-lag plant).
 func HalfRule(r Reading, order int) (Reduced, error) {
 	const op = "control.HalfRule"
 	if order != 1 && order != 2 {
@@ -103,6 +105,9 @@ func HalfRule(r Reading, order int) (Reduced, error) {
 		for _, v := range rest[1:] {
 			theta += v
 		}
+	}
+	if !r.Integrating && len(kept) == 0 && len(r.Lags) > 0 {
+		return Reduced{}, &ModelError{Op: op, Part: "plant zeros", Problem: "a lead longer than every lag (" + m.Notes[len(m.Notes)-1] + ") used up the plant's lags: the half rule, and SIMC and IMC with it, do not apply to this lead-lag plant; tune it by Dahlin's rule, or choose a PI by your own judgement and check it with Analyze"}
 	}
 	if !r.Integrating && len(kept) == 0 {
 		return Reduced{}, &ModelError{Op: op, Part: "plant", Problem: "has no lag: a pure dead time, for which the rules give integral action alone; use a rational controller (Dahlin)"}

@@ -15,7 +15,8 @@ import (
 // default.
 type LoopSettings struct {
 	// Interval is the sample interval; the zero Interval reports times
-	// in samples only. Integrated absolute errors are in output units
+	// in samples only. Otherwise its Value must be positive and finite
+	// and its Unit one of tf.ValidUnit's. Integrated absolute errors are in output units
 	// times the interval's time unit (times samples when not given).
 	Interval tf.Interval
 	// Horizon is the number of samples of the step responses; 0 chooses
@@ -34,7 +35,7 @@ type LoopSettings struct {
 func (s LoopSettings) Validate() error { return s.validate("control.LoopSettings.Validate") }
 
 func (s LoopSettings) validate(op string) error {
-	if err := errs.NonNegative(op, "LoopSettings.Interval.Value", s.Interval.Value, "0: times in samples"); err != nil {
+	if err := checkInterval(op, "LoopSettings.Interval", s.Interval); err != nil {
 		return err
 	}
 	if s.Horizon < 0 || s.Horizon > 1e7 {
@@ -67,9 +68,12 @@ type Response struct {
 	// responses; for set points see Figures).
 	Peak   float64
 	PeakAt tf.Span
-	// Recover is the time after which |y_t| stays within Band times
-	// Peak until the horizon ends (load responses); NaN when the last
-	// sample is outside.
+	// Recover is the load-recovery time (load responses): the time after
+	// which the output stays back at the set point, |y_t| within Band
+	// (LoopSettings.Step.Band, 2 % by default) times Peak, until the
+	// horizon ends, interpolated between samples. It is NaN when that is
+	// not reached: the loop keeps an offset beyond the band (a controller
+	// without integral action), or the last sample is outside the band.
 	Recover tf.Span
 	// IAE is the integrated absolute error sum |r_t - y_t| T over the
 	// horizon (r = 1 for the set point, 0 for the load).

@@ -22,7 +22,7 @@ import (
 // unstable loop. m is copied, never modified.
 //
 // Errors (Op "control.ModelDraw"): a *SettingError for an unknown input
-// or parameter name, a covariance that is not square of len(names),
+// or parameter name, a name given twice, a covariance that is not square of len(names),
 // not finite, not symmetric (to 1e-9 of its diagonal) or not positive
 // semi-definite (a pivot below -1e-9 of its diagonal); the errors of
 // tf.Input.Rational for the model's own path.
@@ -46,7 +46,12 @@ func ModelDraw(m tf.Model, input string, names []string, cov [][]float64) (Draw,
 	for _, c := range m.Params() {
 		known[c.Name] = c.Value
 	}
+	first := map[string]int{}
 	for i, nm := range names {
+		if j, dup := first[nm]; dup {
+			return nil, &SettingError{Op: op, Setting: "names[" + strconv.Itoa(i) + "]", Value: strconv.Quote(nm), Rule: "repeats names[" + strconv.Itoa(j) + "]: name each parameter once (its variance and covariances are one row and column of cov)"}
+		}
+		first[nm] = i
 		v, ok := known[nm]
 		if !ok {
 			return nil, &SettingError{Op: op, Setting: "names[" + strconv.Itoa(i) + "]", Value: strconv.Quote(nm), Rule: "must name a parameter of the model"}

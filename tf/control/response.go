@@ -36,7 +36,10 @@ func (a *analyzer) responses(lp *Loop, c, p tf.Rational, n int, T float64, s Loo
 		return nil
 	}
 	sp.Figures = figures(sp.Output, fs, s.Step, s.Interval.Value)
-	ld.Recover = span(recovery(ld.Output, fl, band*ld.Peak))
+	ld.Recover = span(math.NaN()) // an offset: the output never comes back
+	if math.Abs(fl) <= band*ld.Peak {
+		ld.Recover = span(recovery(ld.Output, 0, band*ld.Peak))
+	}
 	return nil
 }
 

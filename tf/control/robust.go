@@ -2,6 +2,7 @@ package control
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -100,14 +101,19 @@ type Robustness struct {
 // stable loops. It runs on the caller's goroutine; ctx is checked every
 // 64 draws.
 //
-// Errors (Op "control.Robust"): a *SettingError for bad settings; the
-// error of draw, or of a loop that cannot be analysed (see Analyze),
-// wrapped in a *ModelError naming the draw; ctx's error.
+// Errors (Op "control.Robust"): a *SettingError for bad settings, a nil
+// draw, or a draw function that panicked (naming the draw number: the
+// fault is the caller's function); the error of draw, or of a loop that
+// cannot be analysed (see Analyze), wrapped in a *ModelError naming the
+// draw; ctx's error.
 func Robust(ctx context.Context, c tf.Rational, draw Draw, s RobustSettings) (out Robustness, err error) {
 	const op = "control.Robust"
 	defer errs.Recover(op, &err)
 	if err := s.validate(op); err != nil {
 		return Robustness{}, err
+	}
+	if draw == nil {
+		return Robustness{}, &SettingError{Op: op, Setting: "draw", Value: "nil", Rule: "must be a function returning one plant per call (ModelDraw makes one from an estimate's covariance)"}
 	}
 	n := s.Draws
 	if n == 0 {
@@ -130,7 +136,10 @@ func Robust(ctx context.Context, c tf.Rational, draw Draw, s RobustSettings) (ou
 				return Robustness{}, err
 			}
 		}
-		p, err := draw(rng)
+		p, err, fault := callDraw(op, draw, rng, i)
+		if fault != nil {
+			return Robustness{}, fault
+		}
 		if err == nil {
 			var lp Loop
 			if lp, err = a.analyze(c, p, ls); err == nil && lp.Stable {
@@ -142,6 +151,19 @@ func Robust(ctx context.Context, c tf.Rational, draw Draw, s RobustSettings) (ou
 		}
 	}
 	return summarise(loops, n, levels, ls.Horizon), nil
+}
+
+// callDraw calls the caller's draw for draw number i, turning a panic in
+// it into a *SettingError that blames the draw function, not the
+// library (fault).
+func callDraw(op string, draw Draw, rng *rand.Rand, i int) (p tf.Rational, err, fault error) {
+	defer func() {
+		if v := recover(); v != nil {
+			fault = &SettingError{Op: op, Setting: "draw", Value: fmt.Sprintf("a function that panicked at draw %d: %v", i, v), Rule: "the caller's Draw function must return a plant or an error, never panic (the fault is in that function, not in the library)"}
+		}
+	}()
+	p, err = draw(rng)
+	return p, err, nil
 }
 
 // summarise builds the Robustness of the stable loops of n draws.

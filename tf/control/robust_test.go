@@ -5,8 +5,10 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 )
@@ -143,10 +145,22 @@ func TestRobustBadInput(t *testing.T) {
 	if _, err := Robust(ctx, ctl, ok, RobustSettings{}); !errors.Is(err, context.Canceled) {
 		t.Errorf("cancelled: %v", err)
 	}
-	panicky := func(*rand.Rand) (tf.Rational, error) { panic("draw fault") }
-	var ie *InternalError
-	if _, err := Robust(context.Background(), ctl, panicky, RobustSettings{Draws: 1}); !errors.As(err, &ie) {
+	// A panic in the caller's draw function is the caller's fault: a
+	// *SettingError naming the draw number (here the third, number 2),
+	// not an internal fault of the library; a nil draw is refused.
+	n := 0
+	panicky := func(*rand.Rand) (tf.Rational, error) {
+		if n++; n == 3 {
+			panic("draw fault")
+		}
+		return ok(nil)
+	}
+	_, err := Robust(context.Background(), ctl, panicky, RobustSettings{Draws: 5})
+	if !errors.Is(err, ErrSetting) || errors.Is(err, errs.ErrInternal) || !strings.Contains(err.Error(), "panicked at draw 2: draw fault") || strings.Contains(err.Error(), "please report") {
 		t.Errorf("a panic in the draw: %v", err)
+	}
+	if _, err := Robust(context.Background(), ctl, nil, RobustSettings{Draws: 1}); !errors.Is(err, ErrSetting) || !strings.Contains(err.Error(), "draw = nil") {
+		t.Errorf("nil draw: %v", err)
 	}
 }
 

@@ -28,7 +28,8 @@ const (
 	//
 	// order 2 (PID, series form): the same with Td = Tau2. Integrating
 	// (k the slope): Kc = 1/(k (tc + theta)), Ti = 4 (tc + theta), and
-	// Td = Tau2 for order 2. The default tc is theta ("tight control").
+	// Td = Tau2 for order 2. The default tc is theta ("tight control"),
+	// theta here the effective dead time plus half a sample (see Tune).
 	SIMC Rule = "SIMC"
 	// IMC is lambda / internal-model-control tuning (Rivera, Morari &
 	// Skogestad 1986) on the half-rule model. Order 1 (PI, e^{-theta s}
@@ -39,10 +40,11 @@ const (
 	// second-order model: Kc = (Tau1 + Tau2)/(k (lambda + theta)),
 	// Ti = Tau1 + Tau2, Td = Tau1 Tau2/(Tau1 + Tau2). Integrating (lambda
 	// tuning, common practice): Kc = (2 lambda + theta)/(k (lambda +
-	// theta)^2), Ti = 2 lambda + theta, a PI also when a PID is asked for.
-	// The default lambda is 1.7 theta
-	// for PI and 0.8 theta for PID, the lower bounds the paper recommends
-	// (from memory).
+	// theta)^2), Ti = 2 lambda + theta, a PI also when a PID is asked for
+	// (tuned then on the order-1 model, with a note). The default lambda
+	// is 1.7 theta for PI and 0.8 theta for PID, the lower bounds the
+	// paper recommends (from memory), theta here the effective dead time
+	// plus half a sample (see Tune).
 	IMC Rule = "IMC"
 	// Dahlin is the discrete direct-synthesis rule (Dahlin 1968): the
 	// controller that makes the closed loop on the model a first-order
@@ -59,13 +61,16 @@ const (
 	// cancels. It works on the discrete model directly (no reading), and
 	// its result is a rational controller. The default lambda is the
 	// dead time of the reading (of the model's dead time less the hold's
-	// sample when Read refuses the model), at least one sample.
+	// sample when Read refuses the model), at least one sample. A plant
+	// pole on or outside the unit circle (other than one integrator) is
+	// refused: the controller would cancel it, and the loop would be
+	// internally unstable.
 	Dahlin Rule = "Dahlin"
 )
 
 // TuneSettings chooses the rule, the controller and the speed of the
-// loop. The zero value tunes a SIMC PI controller with tc = theta,
-// discretised by backward differences.
+// loop. The zero value tunes a SIMC PI controller with the default tc
+// (see Tune), discretised by backward differences.
 type TuneSettings struct {
 	// Rule is the tuning rule; empty means SIMC.
 	Rule Rule
@@ -85,10 +90,12 @@ type TuneSettings struct {
 	ClosedLoopTime float64
 	// MaxSensitivity, when not 0, asks instead for the closed-loop time
 	// whose discrete loop on the model has this peak |S| (found by
-	// bisection on log tc over [1e-3, 1e3] times the rule's default
+	// bisection on log tc over [1e-3, 1e3] times the rule's own
 	// closed-loop time, at least the sample interval; Ms falls as the
-	// loop slows). It must lie in (1, 10]; 1.4 to 2 is the
-	// usual range (common practice). It overrides ClosedLoopTime.
+	// loop slows). It must lie in (1, 10]; 1.4 to 2 is the usual range
+	// (common practice). A target that no loop of the range reaches, on
+	// the slow or the fast side, is an error that gives the Ms reached.
+	// It overrides ClosedLoopTime.
 	MaxSensitivity float64
 	// Method discretises the PID; empty means BackwardDifference.
 	Method Method
@@ -149,7 +156,20 @@ type Tuning struct {
 	// stable; Ms is the peak of |S| of that loop (+Inf when unstable).
 	Stable bool
 	Ms     float64
+	// Notes record what the caller should know about the settings: a
+	// default closed-loop time lengthened to keep Ms at most 2, a
+	// derivative asked for but not used, and "aggressive: Ms above 2"
+	// when the loop on the model has Ms > 2 (the usual range is 1.4 to
+	// 2, common practice). String prints them.
+	Notes []string
 }
+
+// AggressiveMs is the peak sensitivity above which a Tuning carries the
+// note "aggressive: Ms above 2": the upper end of the usual range 1.4
+// to 2 (common practice; Skogestad 2003 tunes for about 1.6 to 1.7).
+// The default closed-loop time of every rule is lengthened, when needed
+// and possible, so that the loop on the model stays at or below it.
+const AggressiveMs = 2
 
 // String prints the rule, the model, the settings in their form and
 // units, and the Caution.
@@ -171,6 +191,9 @@ func (t Tuning) String() string {
 		fmt.Fprintf(&b, "%s (times in %s)\n", t.PID, unit)
 	}
 	fmt.Fprintf(&b, "discrete controller (%s): u = %s e\n", methodName(t.Method, t.PID.Gain != 0), shortRational(t.Controller))
+	for _, n := range t.Notes {
+		b.WriteString("note: " + n + "\n")
+	}
 	if t.Stable {
 		fmt.Fprintf(&b, "peak sensitivity Ms = %.3g on the model\n", t.Ms)
 	} else {
@@ -196,22 +219,48 @@ func methodName(m Method, pid bool) string {
 // work on the continuous reading of p (Read) reduced by HalfRule to the
 // order the controller needs; Dahlin's rule works on p itself.
 //
-// Errors (Op "control.Tune"): a *SettingError for bad settings or a
-// negative or non-finite interval, a *ModelError when p has no reading
-// or the rule cannot be applied (see Read and HalfRule), and when a
-// MaxSensitivity target cannot be met in the search range.
+// The default closed-loop time (ClosedLoopTime and MaxSensitivity both
+// 0) is the rule's own (see the rules), computed with the effective dead
+// time of the reduced model plus half a sample: HalfRule already counts
+// the hold's half sample, and the sampling of the measurement adds about
+// another (Skogestad 2003 counts h/2 for the hold, from memory; when
+// theta is about one sample the discrete loop needs both: on 0.1 B/(1 -
+// 0.9 B), SIMC at tc = theta = 0.5 gives Ms 2.28 on the model, at 1 Ms
+// 1.56, measured by the tests).
+// When the loop on the model then has Ms above AggressiveMs (or is
+// unstable), the default is lengthened by the search of MaxSensitivity
+// to Ms = AggressiveMs, with a note in Tuning.Notes. A closed-loop time
+// the caller sets is kept as it is, with the note "aggressive: Ms above
+// 2" when it gives such a loop.
+//
+// Errors (Op "control.Tune"):
+//   - a *SettingError for bad settings, an interval whose Value is
+//     negative or not finite, or whose Unit is not one of tf.ValidUnit's
+//     (the zero Interval means samples);
+//   - a *ModelError when p has no reading or the rule cannot be applied
+//     (see Read and HalfRule; Dahlin's rule refuses a plant with a pole
+//     on or outside the unit circle, which its controller would cancel),
+//     and when a MaxSensitivity target cannot be met in the search range
+//     on either side;
+//   - a *ModelError when the loop on the model is unstable: the Tuning
+//     is returned beside the error so that it can be inspected, and its
+//     settings must not be used;
+//   - a *ModelError when the loop on the model has a characteristic
+//     polynomial of degree above 256 (a dead time of some 250 samples or
+//     more, too long for the root finder that checks its stability):
+//     resample the data slower and fit and tune again, as with Analyze.
 func Tune(p tf.Rational, iv tf.Interval, s TuneSettings) (t Tuning, err error) {
 	const op = "control.Tune"
 	defer errs.Recover(op, &err)
 	if err := s.validate(op); err != nil {
 		return Tuning{}, err
 	}
+	if err := checkInterval(op, "Interval", iv); err != nil {
+		return Tuning{}, err
+	}
 	T := iv.Value
 	if T == 0 {
 		T = 1
-	}
-	if !(T > 0) || math.IsInf(T, 0) {
-		return Tuning{}, fsetting(op, "Interval.Value", iv.Value, "must be positive and finite (0: times in samples)")
 	}
 	tn, err := newTuner(p, T, s)
 	if err != nil {
@@ -219,15 +268,15 @@ func Tune(p tf.Rational, iv tf.Interval, s TuneSettings) (t Tuning, err error) {
 		return Tuning{}, err
 	}
 	tc := s.ClosedLoopTime
-	if tc == 0 {
-		tc = tn.defaultTime()
-	}
-	if s.MaxSensitivity != 0 {
+	switch {
+	case s.MaxSensitivity != 0:
 		tc, err = tn.searchMs(s.MaxSensitivity)
-		if err != nil {
-			setOp(op, err)
-			return Tuning{}, err
-		}
+	case tc == 0:
+		tc, err = tn.defaultTime()
+	}
+	if err != nil {
+		setOp(op, err)
+		return Tuning{}, err
 	}
 	t, err = tn.tune(tc)
 	if err != nil {
@@ -235,7 +284,30 @@ func Tune(p tf.Rational, iv tf.Interval, s TuneSettings) (t Tuning, err error) {
 		return Tuning{}, err
 	}
 	t.Interval = iv
+	t.Notes = append(t.Notes, tn.notes...)
+	if t.Stable && t.Ms > AggressiveMs {
+		t.Notes = append(t.Notes, "aggressive: Ms above 2 (Ms = "+fmtG(t.Ms)+" on the model; 1.4 to 2 is the usual range): set a longer ClosedLoopTime or a MaxSensitivity")
+	}
+	if !t.Stable {
+		return t, &ModelError{Op: op, Part: "loop on the model", Problem: "is unstable (largest closed-loop pole |z| = " + fmtG(tn.maxPole) + "): do not use these settings; set a longer ClosedLoopTime or a MaxSensitivity, or choose another rule"}
+	}
 	return t, nil
+}
+
+// checkInterval refuses an interval with a negative or non-finite
+// Value, or a Unit that is not a unit of tf.ValidUnit; the zero Interval
+// (times in samples) passes.
+func checkInterval(op, field string, iv tf.Interval) error {
+	if iv == (tf.Interval{}) {
+		return nil
+	}
+	if !(iv.Value > 0) || math.IsInf(iv.Value, 0) {
+		return fsetting(op, field+".Value", iv.Value, "must be positive and finite (the zero Interval: times in samples)")
+	}
+	if !tf.ValidUnit(iv.Unit) {
+		return &SettingError{Op: op, Setting: field + ".Unit", Value: strconv.Quote(iv.Unit), Rule: `must be one of "s", "min", "h", "d", "wk", "mo", "qtr", "yr" (as in a model's spec: "every 1 min")`}
+	}
+	return nil
 }
 
 // setOp names op in the shared shapes of err.
@@ -256,6 +328,10 @@ type tuner struct {
 	reading Reading
 	model   Reduced
 	an      *analyzer
+	// notes go to the Tuning; maxPole is the largest closed-loop pole
+	// magnitude of the last loop checked.
+	notes   []string
+	maxPole float64
 }
 
 func newTuner(p tf.Rational, T float64, s TuneSettings) (*tuner, error) {
@@ -267,6 +343,9 @@ func newTuner(p tf.Rational, T float64, s TuneSettings) (*tuner, error) {
 	if tn.s.Rule == Dahlin {
 		// Dahlin's rule works on p itself; the reading, when there is
 		// one, only sets the default lambda.
+		if err := dahlinPlant(p); err != nil {
+			return nil, err
+		}
 		if err != nil {
 			rd = Reading{DeadTime: float64(max(p.Delay()-1, 0)) * T, Interval: T, How: "dead time only"}
 		}
@@ -280,6 +359,14 @@ func newTuner(p tf.Rational, T float64, s TuneSettings) (*tuner, error) {
 	order := 1
 	if s.Derivative {
 		order = 2
+		if tn.s.Rule == IMC && rd.Integrating {
+			// IMC's integrating row is a PI: it is tuned on the
+			// order-1 model with the PI lambda (a second-order model
+			// would move a lag out of the dead time that the PI then
+			// ignores).
+			order = 1
+			tn.notes = append(tn.notes, "IMC on an integrating plant gives a PI (lambda tuning): the derivative asked for is not used")
+		}
 	}
 	if tn.model, err = HalfRule(rd, order); err != nil {
 		return nil, err
@@ -287,18 +374,53 @@ func newTuner(p tf.Rational, T float64, s TuneSettings) (*tuner, error) {
 	return tn, nil
 }
 
-// defaultTime is the rule's default closed-loop time.
-func (tn *tuner) defaultTime() float64 {
+// pidRow reports whether the rule gives a PID: a derivative asked for,
+// and not IMC on an integrating plant.
+func (tn *tuner) pidRow() bool {
+	return tn.s.Derivative && !(tn.s.Rule == IMC && tn.model.Integrating)
+}
+
+// ruleTime is the rule's own closed-loop time: for SIMC and IMC the
+// factor of the rule (1 for SIMC, 1.7 for IMC PI, 0.8 for IMC PID) times
+// the model's effective dead time plus half a sample (see Tune).
+func (tn *tuner) ruleTime() float64 {
+	th := tn.model.DeadTime + tn.T/2
 	switch tn.s.Rule {
 	case IMC:
-		if tn.s.Derivative {
-			return 0.8 * tn.model.DeadTime
+		if tn.pidRow() {
+			return 0.8 * th
 		}
-		return 1.7 * tn.model.DeadTime
+		return 1.7 * th
 	case Dahlin:
 		return max(tn.reading.DeadTime, tn.T)
 	}
-	return tn.model.DeadTime
+	return th
+}
+
+// defaultTime is the default closed-loop time: the rule's own, or the
+// one that gives the loop on the model Ms = AggressiveMs when the rule's
+// gives more (or an unstable loop) and a slower loop reaches it.
+func (tn *tuner) defaultTime() (float64, error) {
+	tc := tn.ruleTime()
+	ms, err := tn.msAt(tc)
+	if err != nil || ms <= AggressiveMs {
+		return tc, err
+	}
+	hi := max(tc, tn.T) * 1e3
+	mhi, err := tn.msAt(hi)
+	if err != nil || mhi > AggressiveMs {
+		return tc, err // no slower loop helps: Tune notes or refuses it
+	}
+	slow, err := tn.bisectMs(AggressiveMs, tc, hi)
+	if err != nil {
+		return 0, err
+	}
+	was := "Ms " + fmtG(ms)
+	if math.IsInf(ms, 1) {
+		was = "an unstable loop"
+	}
+	tn.notes = append(tn.notes, "the rule's closed-loop time "+fmtG(tc)+" gave "+was+" on the model; lengthened to "+fmtG(slow)+" for Ms = 2 (the default keeps Ms at most 2)")
+	return slow, nil
 }
 
 // tune applies the rule with closed-loop time tc and measures Ms.
@@ -394,59 +516,77 @@ func convertForm(c PID) PID {
 
 // searchMs returns the closed-loop time whose loop on the plant model
 // has the peak sensitivity target, by bisection on log tc over [1e-3,
-// 1e3] times the reference time (the dead time, or the sample interval
-// when that is longer): Ms falls as tc grows.
+// 1e3] times the reference time (the rule's own closed-loop time, or the
+// sample interval when that is longer): Ms falls as tc grows. A target
+// above the Ms of the fastest loop tried, or below that of the slowest,
+// is an error naming the setting and the Ms reached.
 func (tn *tuner) searchMs(target float64) (float64, error) {
-	ref := max(tn.defaultTime(), tn.T)
-	ms := func(tc float64) (float64, error) {
-		t, err := tn.tune(tc)
-		if err != nil {
-			return 0, err
-		}
-		return t.Ms, nil
-	}
-	lo, hi := math.Log(ref*1e-3), math.Log(ref*1e3)
-	mhi, err := ms(math.Exp(hi))
+	ref := max(tn.ruleTime(), tn.T)
+	lo, hi := ref*1e-3, ref*1e3
+	mhi, err := tn.msAt(hi)
 	if err != nil {
 		return 0, err
 	}
 	if mhi > target {
-		return 0, &ModelError{Part: "MaxSensitivity target", Problem: "not reached: the slowest loop tried (closed-loop time " + fmtG(math.Exp(hi)) + ") has Ms = " + fmtG(mhi) + "; ask for a larger target"}
+		return 0, &ModelError{Part: "TuneSettings.MaxSensitivity target", Problem: fmtG(target) + " not reached: the slowest loop tried (closed-loop time " + fmtG(hi) + ") has Ms = " + fmtG(mhi) + "; ask for a larger target"}
 	}
-	mlo, err := ms(math.Exp(lo))
+	mlo, err := tn.msAt(lo)
 	if err != nil {
 		return 0, err
 	}
 	if mlo <= target {
-		return math.Exp(lo), nil
+		return 0, &ModelError{Part: "TuneSettings.MaxSensitivity target", Problem: fmtG(target) + " not reached: the fastest loop tried (closed-loop time " + fmtG(lo) + ", 1e-3 of the rule's own) has Ms = " + fmtG(mlo) + ", about the largest this rule reaches on this plant; ask for at most " + fmtG(mlo)}
 	}
-	for it := 0; it < 100 && hi-lo > 1e-9; it++ {
-		mid := 0.5 * (lo + hi)
-		m, err := ms(math.Exp(mid))
+	return tn.bisectMs(target, lo, hi)
+}
+
+// msAt returns the Ms of the loop on the model tuned with closed-loop
+// time tc (+Inf when unstable).
+func (tn *tuner) msAt(tc float64) (float64, error) {
+	t, err := tn.tune(tc)
+	if err != nil {
+		return 0, err
+	}
+	return t.Ms, nil
+}
+
+// bisectMs returns the closed-loop time in [lo, hi] with Ms = target, by
+// bisection on log tc to 1e-9, given Ms(lo) > target >= Ms(hi).
+func (tn *tuner) bisectMs(target, lo, hi float64) (float64, error) {
+	a, b := math.Log(lo), math.Log(hi)
+	for it := 0; it < 100 && b-a > 1e-9; it++ {
+		mid := 0.5 * (a + b)
+		m, err := tn.msAt(math.Exp(mid))
 		if err != nil {
 			return 0, err
 		}
 		if m > target {
-			lo = mid
+			a = mid
 		} else {
-			hi = mid
+			b = mid
 		}
 	}
-	return math.Exp(hi), nil
+	return math.Exp(b), nil
 }
 
-// stable reports whether the loop of c on the plant model is stable; an
-// algebraic loop (no dead time in the loop) is an error.
+// stable reports whether the loop of c on the plant model is stable and
+// keeps its largest pole magnitude in tn.maxPole; an algebraic loop (no
+// dead time in the loop) and a characteristic polynomial beyond the root
+// finder's degree are errors.
 func (tn *tuner) stable(c tf.Rational) (bool, error) {
 	char, err := characteristic(c, tn.p)
 	if err != nil {
 		return false, err
 	}
+	if deg := len(char) - 1; deg > poly.MaxDegree {
+		return false, &ModelError{Part: "closed loop", Problem: "characteristic polynomial of degree " + strconv.Itoa(deg) + " is beyond the root finder's " + strconv.Itoa(poly.MaxDegree) + ", so the loop's stability cannot be checked: the plant's dead time (" + strconv.Itoa(tn.p.Delay()) + " samples) is too long in samples; resample slower (keep every k-th sample, so that the dead time is well under " + strconv.Itoa(poly.MaxDegree) + " samples), fit and tune again"}
+	}
 	rs, err := poly.Roots(poly.Reciprocal(char))
 	if err != nil {
 		return false, &ModelError{Part: "closed loop", Problem: "poles not found: " + err.Error(), Err: err}
 	}
-	return poly.MaxAbsRoot(rs) < 1, nil
+	tn.maxPole = poly.MaxAbsRoot(rs)
+	return tn.maxPole < 1, nil
 }
 
 // shortRational prints r as tf.Rational.String does, with coefficients

@@ -13,7 +13,8 @@ import (
 // two numerator and denominator coefficients with a dead time, an
 // interval, a closed-loop time, a sensitivity target and the rule. Each
 // call must return a typed error of the library's kinds (never a
-// recovered panic) or finite settings and a loop whose figures are not
+// recovered panic) or finite settings of a loop stable on the model (an
+// unstable one is an error) and a loop whose figures are not
 // NaN where the loop is stable.
 func FuzzTune(f *testing.F) {
 	f.Add(0.4, 0.0, -0.8, 0.0, uint8(3), 1.0, 0.0, 0.0, uint8(0), false)
@@ -30,6 +31,9 @@ func FuzzTune(f *testing.F) {
 		if err != nil {
 			checkKind(t, err)
 			return
+		}
+		if !tu.Stable || math.IsNaN(tu.Ms) || math.IsInf(tu.Ms, 0) {
+			t.Fatalf("nil error for a loop unstable on the model: %v", tu)
 		}
 		for _, v := range append(append(tu.Controller.Num(), tu.Controller.Den()...), tu.PID.Gain, tu.PID.Integral, tu.PID.Derivative, tu.ClosedLoopTime) {
 			if !finite(v) {

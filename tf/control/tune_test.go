@@ -90,7 +90,7 @@ func TestSIMCPaperExample(t *testing.T) {
 		t.Fatal(err)
 	}
 	tn := &tuner{model: m, s: TuneSettings{Rule: SIMC}}
-	c := tn.pid(tn.defaultTime())
+	c := tn.pid(tn.ruleTime()) // T = 0: a continuous loop, tc = theta
 	near(t, "Kc", c.Gain, 0.850, 1e-3)
 	near(t, "Ti", c.Integral, 2.5, 1e-12)
 }
@@ -170,14 +170,18 @@ func TestTuneFormulas(t *testing.T) {
 		kc, ti, td float64
 		tol        float64
 	}{
-		// SIMC, tc = theta = 3.5: Kc = 10/(2 * 7), Ti = min(10, 28).
-		{"SIMC PI", p, TuneSettings{}, 10.0 / 14, 10, 0, 1e-9},
+		// SIMC, default tc = theta + h/2 = 4 (Tune's doc): Kc = 10/(2 *
+		// 7.5), Ti = min(10, 30).
+		{"SIMC PI", p, TuneSettings{}, 10.0 / 15, 10, 0, 1e-9},
+		// SIMC, tc = theta = 3.5 set: Kc = 10/(2 * 7), Ti = min(10, 28).
+		{"SIMC PI tc theta", p, TuneSettings{ClosedLoopTime: 3.5}, 10.0 / 14, 10, 0, 1e-9},
 		// SIMC PI, tc = 1: Ti = min(10, 4 * 4.5) = 10; Kc = 10/(2*4.5).
 		{"SIMC PI tc 1", p, TuneSettings{ClosedLoopTime: 1}, 10.0 / 9, 10, 0, 1e-9},
-		// A long lag: Ti = 4 (tc + theta) = 28 < 40.
-		{"SIMC PI long lag", fopdt(t, 2, 40, 3), TuneSettings{}, 40.0 / 14, 28, 0, 1e-9},
-		// SOPDT 2 e^{-2s}/((10s+1)(3s+1)): theta 2.5, Kc = 10/(2*5), Ti 10, Td 3 (series).
-		{"SIMC PID", sopdt(t, 2, 10, 3, 2), TuneSettings{Derivative: true}, 1, 10, 3, 1e-9},
+		// A long lag: Ti = 4 (tc + theta) = 30 < 40, tc = 4.
+		{"SIMC PI long lag", fopdt(t, 2, 40, 3), TuneSettings{}, 40.0 / 15, 30, 0, 1e-9},
+		// SOPDT 2 e^{-2s}/((10s+1)(3s+1)): theta 2.5, tc = 3, Kc =
+		// 10/(2*5.5), Ti 10, Td 3 (series).
+		{"SIMC PID", sopdt(t, 2, 10, 3, 2), TuneSettings{Derivative: true}, 10.0 / 11, 10, 3, 1e-9},
 		// IMC PI, lambda 2: Kc = 10/(2 (2 + 3.5)), Ti = 10.
 		{"IMC PI", p, TuneSettings{Rule: IMC, ClosedLoopTime: 2}, 10.0 / 11, 10, 0, 1e-9},
 		// IMC PID on the first-order model, lambda 2:
@@ -202,15 +206,16 @@ func TestTuneFormulas(t *testing.T) {
 }
 
 // TestTuneIntegrating checks SIMC's integrating rule: k' = 0.25, theta =
-// 6 + h/2 = 7 (interval 2), tc = theta: Kc = 1/(0.25 * 14), Ti = 56.
+// 6 + h/2 = 7 (interval 2), default tc = theta + h/2 = 8 (Tune's doc):
+// Kc = 1/(0.25 * 15), Ti = 60.
 func TestTuneIntegrating(t *testing.T) {
 	p, _ := tf.NewRational([]float64{0.5}, []float64{1, -1}, 4)
 	tu, err := Tune(p, tf.Interval{Value: 2, Unit: "s"}, TuneSettings{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	near(t, "Kc", tu.PID.Gain, 1/(0.25*14), 1e-12)
-	near(t, "Ti", tu.PID.Integral, 56, 1e-12)
+	near(t, "Kc", tu.PID.Gain, 1/(0.25*15), 1e-12)
+	near(t, "Ti", tu.PID.Integral, 60, 1e-12)
 	if !tu.Stable {
 		t.Error("loop on the model unstable")
 	}

@@ -18,8 +18,10 @@ type WorstCaseSettings struct {
 	// GainBelow and GainAbove are fractions of the model gain; GainBelow
 	// must lie in [0, 1), GainAbove be finite and >= 0.
 	GainBelow, GainAbove float64
-	// DelayBelow and DelayAbove are whole samples, >= 0; DelayBelow at
-	// most the model's dead time.
+	// DelayBelow and DelayAbove are whole samples, >= 0. DelayBelow is
+	// at most the model's dead time, and less than it when the
+	// controller acts in the same sample as it reads (a PI or PID does):
+	// a plant without dead time would close an algebraic loop.
 	DelayBelow, DelayAbove int
 	// GainSteps is the number of gain factors on the grid, evenly spaced
 	// and including both ends; 0 means 5. At most 1000.
@@ -94,8 +96,9 @@ type WorstCase struct {
 // differ from the model only in these two ways.
 //
 // Errors (Op "control.CheckWorstCase"): a *SettingError for bad
-// settings (DelayBelow above the model's dead time included), and the
-// errors of Analyze.
+// settings (DelayBelow above the model's dead time, or leaving an
+// algebraic loop, included), and the errors of Analyze wrapped in a
+// *ModelError naming the case.
 func CheckWorstCase(c, p tf.Rational, s WorstCaseSettings) (out WorstCase, err error) {
 	const op = "control.CheckWorstCase"
 	defer errs.Recover(op, &err)
@@ -104,6 +107,15 @@ func CheckWorstCase(c, p tf.Rational, s WorstCaseSettings) (out WorstCase, err e
 	}
 	if s.DelayBelow > p.Delay() {
 		return WorstCase{}, &SettingError{Op: op, Setting: "WorstCaseSettings.DelayBelow", Value: strconv.Itoa(s.DelayBelow), Rule: "must be at most the model's dead time, " + strconv.Itoa(p.Delay()) + " samples"}
+	}
+	if s.DelayBelow > 0 {
+		q, err := tf.NewRational(p.Num(), p.Den(), p.Delay()-s.DelayBelow)
+		if err == nil {
+			_, err = characteristic(c, q)
+		}
+		if err != nil {
+			return WorstCase{}, &SettingError{Op: op, Setting: "WorstCaseSettings.DelayBelow", Value: strconv.Itoa(s.DelayBelow), Rule: "leaves the plant " + strconv.Itoa(p.Delay()-s.DelayBelow) + " samples of dead time, an algebraic loop with this controller (both act in the same sample); at most " + strconv.Itoa(max(s.DelayBelow-1, 0)) + " here: a sampled plant keeps at least the one sample of its hold"}
+		}
 	}
 	steps := s.GainSteps
 	if steps == 0 {
@@ -125,8 +137,7 @@ func CheckWorstCase(c, p tf.Rational, s WorstCaseSettings) (out WorstCase, err e
 			}
 			lp, err := a.analyze(c, q, s.Loop)
 			if err != nil {
-				setOp(op, err)
-				return WorstCase{}, err
+				return WorstCase{}, &ModelError{Op: op, Part: "plant with gain factor " + fmtG(g) + " and dead time change " + strconv.Itoa(d), Problem: err.Error(), Err: err}
 			}
 			out.Cases = append(out.Cases, Case{GainFactor: g, DelayChange: d, Loop: lp})
 		}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/tf"
@@ -129,5 +130,12 @@ func TestModelDraw(t *testing.T) {
 		if _, err := ModelDraw(m, c.input, c.names, c.cov); !errors.Is(err, ErrSetting) {
 			t.Errorf("%v %v %v: %v", c.input, c.names, c.cov, err)
 		}
+	}
+	// A repeated name (its covariance a valid 2 x 2 matrix) was drawn
+	// twice, the second value winning; it is refused, naming both.
+	_, err = ModelDraw(m, "u", []string{"w0", "w0"}, [][]float64{{0.01, 0.002}, {0.002, 0.01}})
+	var se *SettingError
+	if !errors.As(err, &se) || se.Setting != "names[1]" || !strings.Contains(err.Error(), "repeats names[0]") {
+		t.Errorf("repeated name: %v", err)
 	}
 }
