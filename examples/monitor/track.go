@@ -97,7 +97,7 @@ func plantedRecord(days int) (greenhouse.Data, int) {
 	at := n / 2
 	v := greenhouse.True.Valve
 	valve, temp := slices.Clone(d.Valve), slices.Clone(d.Temp)
-	var dx, du, dy1, dy2 float64 // dy1, dy2: dy at t-1 and t-2
+	var dx, du, dy1, dy2 float64        // dy1, dy2: dy at t-1 and t-2
 	for t := at - v.Delay; t < n; t++ { // the valve moves the output v.Delay samples later
 		du -= greenhouse.Kc * (dy1 - dy2 + dy1/greenhouse.Ti)
 		valve[t] = min(max(d.Valve[t]+du, 0), 100)
