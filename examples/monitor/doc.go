@@ -6,6 +6,7 @@
 //
 //	go run ./examples/monitor                                  # the built-in greenhouse loop
 //	go run ./examples/monitor -config fitted.json -state DIR -restore
+//	go run ./examples/monitor -track DIR                        # re-estimation pictures, no serving
 //
 // # Loops
 //
@@ -73,6 +74,48 @@
 // so that predictions carry on exactly as before the restart. A snapshot
 // of another model, or of a monitor with another -arl, is refused by
 // name (exit status 1).
+//
+// # Re-estimation pictures (-track)
+//
+// With -track DIR the program serves nothing. It shows how the recursive
+// estimator of tf/online follows a change of the plant: it takes the
+// built-in greenhouse record (-days long, default 4 days, one sample a
+// minute) and raises the valve gain by 20 % (0.2 to 0.24 degC per %)
+// from the middle sample on. The change is simulated by this program in
+// closed loop on the record's own weather, setpoints, test signal and
+// noise: the valve path with the new gain, and the greenhouse's PI
+// controller answering it (the valve settles about 1/1.2 lower and the
+// temperature stays at its setpoint). It then fits the scenario's
+// structure to the first half (fit.Model) and runs the estimator from
+// that fit over the whole record at forgetting 0.995 (the estimator's
+// default, a memory of about 200 samples). The estimator re-estimates
+// the input paths (w0, d1, v0, e1) and holds the level c and the noise
+// model (t1, p1) at the batch fit: with them free, the noise AR
+// coefficient drifts to the unit circle on this record and the level
+// with it, and the gain is confounded with the level.
+//
+// It prints each coefficient's recursive estimate and SE just before the
+// change beside the batch fit's, the largest distance between them (in
+// the recursive SE and in the batch SE), and the number of samples after
+// the change until the valve path's steady-state gain (omega(1)/delta(1)
+// of the current model, tf.Rational.Gain) first comes within 5 % of the
+// new gain. It writes two PNG pictures into DIR: coefficients.png, each
+// re-estimated coefficient over time with its +-2 SE band, the batch fit
+// and the true value before and after the change; gain.png, the gain
+// over time against its true value and the batch fit's.
+//
+// The default 4-day record measured: distance 0.47 recursive SE (1.26
+// batch SEs), the gain within 5 % of the new after 614 samples (about
+// three memory lengths); on 2 days 0.80 SE and 106 samples, on 3 days
+// 1137 samples. The delay varies with how much the valve moves after the
+// change: the steady-state gain shows mostly in the responses to large,
+// slow valve moves such as those after the setpoint steps (06:00 and
+// 20:00), little in the fast test signal; on the 4-day record the gain
+// estimate stalls near 0.204 through the night until the morning step.
+// Three memory lengths, 3/(1 - lambda), is a rule for a well excited
+// input, not a guarantee for any record. A re-estimated model is an
+// approximation fitted to recent data: review it before it retunes a
+// controller or moves an alarm (the program prints this).
 //
 // Exit status: 0 after a clean stop, 1 when the config, a snapshot or the
 // address cannot be used, 2 for a command line that is wrong.

@@ -39,10 +39,15 @@ const usage = `monitor serves predictions and drift alarms for the loops of a mo
 is one loop: POST its samples as JSON lines, GET its predictions with intervals,
 its state and its alarms. Stop it with Ctrl-C (SIGINT) or SIGTERM: with -state
 it then writes each loop's state there, and -restore carries on from it.
+With -track DIR it serves nothing: it re-estimates the built-in greenhouse
+model recursively over a record with a planted change of the valve gain, prints
+how closely and how fast the estimates follow, and draws their trajectories
+into DIR.
 
 Examples:
   go run ./examples/monitor                                   # the built-in greenhouse loop
   go run ./examples/monitor -config fitted.json -state /var/lib/monitor -restore
+  go run ./examples/monitor -track /tmp/track                 # pictures of re-estimation
   curl -X POST --data-binary @samples.jsonl localhost:8080/loops/air%20temperature/samples
 
 Flags:
@@ -61,6 +66,8 @@ func (e *UsageError) Unwrap() error { return e.Err }
 type options struct {
 	config, addr, state string
 	restore             bool
+	track               string // folder of the -track pictures; "" serves
+	days                int    // record length of -track, 0 the default
 	arl                 float64
 	sigmas              map[string]float64
 }
@@ -78,6 +85,13 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	o, status, stop := parseFlags(args, stderr)
 	if stop {
 		return status
+	}
+	if o.track != "" {
+		if err := runTrack(ctx, o, stdout); err != nil {
+			fmt.Fprintln(stderr, "monitor:", err)
+			return 1
+		}
+		return 0
 	}
 	svc, err := build(o, stdout)
 	if err != nil {
@@ -137,6 +151,8 @@ func parseFlags(args []string, stderr io.Writer) (*options, int, bool) {
 		o.sigmas[name] = f
 		return nil
 	})
+	fs.StringVar(&o.track, "track", "", "instead of serving, re-estimate the built-in greenhouse model over a record with a planted valve gain change and write pictures of the estimates into `folder`")
+	fs.IntVar(&o.days, "days", 0, fmt.Sprintf("record length of -track in `days` of 1440 samples, 1 to %d (default %d)", maxTrackDays, trackDays))
 	if status, stop := cmdline.Parse(fs, usage, args); stop {
 		return nil, status, true
 	}
@@ -154,12 +170,21 @@ func (o *options) check(rest []string) error {
 		return &UsageError{fmt.Errorf("monitor takes no arguments besides its flags, and got %q; a config is given with -config FILE (see -h)", strings.Join(rest, " "))}
 	case o.restore && o.state == "":
 		return &UsageError{errors.New("-restore is given without -state: name the folder that holds the states")}
+	case o.days != 0 && o.track == "":
+		return &UsageError{errors.New("-days is given without -track: it sets the length of the -track record")}
+	case o.track != "" && (o.config != "" || o.state != "" || o.restore):
+		return &UsageError{errors.New("-track runs the built-in greenhouse scenario and serves nothing: leave out -config, -state and -restore")}
+	case o.track != "" && (o.days < 0 || o.days > maxTrackDays):
+		return &UsageError{fmt.Errorf("-days %d: the -track record must be 1 to %d days long", o.days, maxTrackDays)}
 	case o.arl < monitor.MinTargetARL || o.arl > monitor.MaxTargetARL:
 		return &UsageError{fmt.Errorf("-arl %g: the run length must lie in [%d, %g] samples", o.arl, monitor.MinTargetARL, float64(monitor.MaxTargetARL))}
 	}
-	if o.state != "" {
-		if st, err := os.Stat(o.state); err != nil || !st.IsDir() {
-			return &UsageError{fmt.Errorf("-state %s: not a folder (create it first)", o.state)}
+	for _, f := range []struct{ flag, dir string }{{"-state", o.state}, {"-track", o.track}} {
+		if f.dir == "" {
+			continue
+		}
+		if st, err := os.Stat(f.dir); err != nil || !st.IsDir() {
+			return &UsageError{fmt.Errorf("%s %s: not a folder (create it first)", f.flag, f.dir)}
 		}
 	}
 	return nil
