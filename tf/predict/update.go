@@ -2,6 +2,7 @@ package predict
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/backshift/backshift/internal/errs"
 )
@@ -76,7 +77,7 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 	switch {
 	case math.IsNaN(y):
 		if t < pl.first {
-			return &errs.SampleError{Series: pl.output + " (missing before the first prediction, index " + itoa(pl.first) + ": the start-up samples settle the states and must be complete)", Index: t, Value: y}
+			return &startupMissing{se: &errs.SampleError{Series: pl.output, Index: t, Value: y}, first: pl.first}
 		}
 	case math.IsInf(y, 0):
 		return &errs.SampleError{Series: pl.output, Index: t, Value: y}
@@ -85,6 +86,23 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 	}
 	return nil
 }
+
+// startupMissing reports a missing output before First: a
+// *SampleError naming the output series and the index (errors.As), with
+// the reason in its message.
+type startupMissing struct {
+	se    *errs.SampleError
+	first int
+}
+
+// Error names the sample and why it must be present.
+func (e *startupMissing) Error() string {
+	return errs.Prefix(e.se.Op) + "series " + strconv.Quote(e.se.Series) + " sample " + itoa(e.se.Index) +
+		" is missing (NaN) before the first prediction, index " + itoa(e.first) + ": the start-up samples settle the states and must have their output"
+}
+
+// Unwrap returns the *SampleError.
+func (e *startupMissing) Unwrap() error { return e.se }
 
 // advance feeds the next sample (inputs x, output y or NaN for missing)
 // to the state s, using tmp as scratch. It returns the step and true,

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"sync"
 	"testing"
 
@@ -105,7 +106,7 @@ func TestUpdateBadInput(t *testing.T) {
 		{"NaN input", []float64{math.NaN(), 1}, 1, predict.ErrSample, `predict.Predictor.Update: series "u1" sample 2 is NaN: samples must be finite numbers`},
 		{"huge input", []float64{1, 1e200}, 1, predict.ErrSample, `predict.Predictor.Update: series "u2" sample 2 is 1e+200, beyond the largest magnitude accepted, 1e+150 (rescale the series: change its units)`},
 		{"infinite output", []float64{1, 1}, math.Inf(1), predict.ErrSample, `predict.Predictor.Update: series "y" sample 2 is +Inf: samples must be finite numbers`},
-		{"missing output in start-up", []float64{1, 1}, math.NaN(), predict.ErrSample, `predict.Predictor.Update: series "y (missing before the first prediction, index 4: the start-up samples settle the states and must be complete)" sample 2 is NaN: samples must be finite numbers`},
+		{"missing output in start-up", []float64{1, 1}, math.NaN(), predict.ErrSample, `predict.Predictor.Update: series "y" sample 2 is missing (NaN) before the first prediction, index 4: the start-up samples settle the states and must have their output`},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			ref := p.Clone()
@@ -115,6 +116,10 @@ func TestUpdateBadInput(t *testing.T) {
 			}
 			if p.Count() != ref.Count() {
 				t.Fatalf("Count %d after a refused sample, want %d", p.Count(), ref.Count())
+			}
+			var se *predict.SampleError
+			if c.kind == predict.ErrSample && (!errors.As(err, &se) || se.Index != 2 || strings.ContainsAny(se.Series, " (")) {
+				t.Errorf("*SampleError %+v: want the bare series name and index 2", se)
 			}
 		})
 	}
