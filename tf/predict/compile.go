@@ -174,9 +174,11 @@ func (pl *plan) layout() {
 	pl.yh = take(pl.lyh)
 	pl.nh = take(pl.lnh)
 	pl.ah = take(pl.lah)
-	pl.psiS = take(1)
-	pl.psiH = take(len(pl.cc) - 1)
+	pl.unc = take(1)
+	m := len(pl.dc) - 1 + len(pl.ar) - 1 + len(pl.ma) - 1
+	pl.cov = take(m * m)
 	pl.size = n
+	pl.compileGap()
 }
 
 // sum returns the sum of the coefficients, the polynomial at B = 1.

@@ -46,7 +46,7 @@ func (p *Predictor) Forecast(dst []Point, plan [][]float64) error {
 	p.f.t, p.f.gap = p.s.t, p.s.gap
 	for j := range dst {
 		pl.plannedInputs(p.xrow, p.f.st, plan, j)
-		step, ok := pl.advance(&p.f, p.tmp, p.xrow, math.NaN())
+		step, ok := pl.advance(&p.f, p.tmp, p.kf, p.xrow, math.NaN())
 		if !ok {
 			return &errs.SeriesError{Op: op, Series: pl.output, Kind: errs.ErrOverflow,
 				Detail: "the forecast left float64 range at step " + itoa(j+1) + "; shorten the horizon or check the plan"}

@@ -11,7 +11,7 @@ import (
 
 // snapshotVersion is the first byte of every snapshot; a snapshot of
 // another version is refused (ErrFormat).
-const snapshotVersion = 1
+const snapshotVersion = 2
 
 // Snapshot layout, little endian: the version byte, the model's
 // fingerprint (8 bytes), the count of samples fed and the missing
@@ -103,7 +103,7 @@ func (p *Predictor) AppendBinary(b []byte) ([]byte, error) {
 // with Err ErrFormat when data is not a snapshot of this version (empty,
 // another version byte, the wrong length, or values a predictor cannot
 // hold: a position outside its ring, a count below zero, a state value
-// that is not finite, a variance sum that is not positive).
+// that is not finite, a negative variance).
 func (p *Predictor) UnmarshalBinary(data []byte) error {
 	if err := p.restore(data); err != nil {
 		err.Op = "predict.Predictor.UnmarshalBinary"
@@ -155,8 +155,13 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 			return bad("state value " + strconv.Itoa(i) + " is not finite")
 		}
 	}
-	if !(st[p.p.psiS] > 0) {
-		return bad("the sum of squared psi weights is " + strconv.FormatFloat(st[p.p.psiS], 'g', -1, 64) + ", not positive")
+	if u := st[p.p.unc]; u != 0 && u != 1 {
+		return bad("the flag of an uncertain history is " + strconv.FormatFloat(u, 'g', -1, 64) + ", not 0 or 1")
+	}
+	for i := range p.p.gp.m {
+		if v := st[p.p.cov+i*p.p.gp.m+i]; v < 0 {
+			return bad("a variance of the history after a gap is " + strconv.FormatFloat(v, 'g', -1, 64) + ", negative")
+		}
 	}
 	copy(p.s.st, st)
 	copy(p.s.pos, pos)

@@ -50,9 +50,9 @@ func (p *Predictor) Update(x []float64, y float64) (Step, error) {
 		if mean, se, a, ok := pl.advanceSmall(&p.s, p.tmp, x, y); ok {
 			// Built here from registers: returning a Step through one more
 			// call costs a copy through memory.
-			return Step{Point: Point{Mean: mean, SE: se, Lower: mean - pl.z*se, Upper: mean + pl.z*se}, Index: t, Error: y - mean, Innov: a}, nil
+			return Step{Point: Point{Mean: mean, SE: se, Lower: mean - pl.z*se, Upper: mean + pl.z*se}, Index: t, Error: y - mean, Innov: a, Z: (y - mean) / se}, nil
 		}
-	} else if step, ok := pl.advance(&p.s, p.tmp, x, y); ok {
+	} else if step, ok := pl.advance(&p.s, p.tmp, p.kf, x, y); ok {
 		return step, nil
 	}
 	return Step{}, &errs.SeriesError{Op: "predict.Predictor.Update", Series: pl.output, Kind: errs.ErrOverflow,
@@ -105,11 +105,13 @@ func (e *startupMissing) Error() string {
 func (e *startupMissing) Unwrap() error { return e.se }
 
 // advance feeds the next sample (inputs x, output y or NaN for missing)
-// to the state s, using tmp as scratch. It returns the step and true,
-// or false with the state untouched when a value left float64 range. The recursions are
-// those of the fit (tf's fitWork.noiseSeries and resid), operation for
-// operation, so that the innovations equal its residuals.
-func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, bool) {
+// to the state s, using tmp and kf as scratch. It returns the step and
+// true, or false with the state untouched when a value left float64
+// range. While the held history is exact (no gap) the recursions are
+// those of the fit (fit's work.noiseSeries and resid), operation for
+// operation, so that the innovations equal its residuals; after a
+// missing output the covariance update of gap.go runs beside them.
+func (pl *plan) advance(s *state, tmp, kf []float64, x []float64, y float64) (Step, bool) {
 	st, pos, t, gap := s.st, s.pos, s.t, s.gap
 	off := st[pl.offC]
 	if t == 0 {
@@ -117,8 +119,9 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 	}
 	bad := pl.inputTerms(st, pos, tmp, t, x)
 	missing := math.IsNaN(y)
+	uncertain := t >= pl.first && (missing || gap > 0 || st[pl.unc] != 0)
 	var n, a float64
-	if !missing {
+	if !missing && !uncertain {
 		w := 0.0
 		if t >= len(pl.dc)-1 {
 			w = pl.difference(st, y)
@@ -128,21 +131,27 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 			n -= tmp[3*i+2]
 		}
 	}
-	step := Step{Index: t, Error: math.NaN(), Innov: math.NaN()}
+	step := Step{Index: t, Error: math.NaN(), Innov: math.NaN(), Z: math.NaN()}
 	step.Point = Point{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
 	if t >= pl.first {
 		nhat := pl.noisePrediction(st)
 		pred := pl.outputPrediction(st, tmp, off, nhat)
 		se := pl.se0
-		if gap > 0 {
-			se = pl.sd * math.Sqrt(st[pl.psiS])
+		if uncertain {
+			se = math.Sqrt(pl.spread(st, kf))
 		}
 		step.Point = pl.newPoint(pred, se)
-		if missing {
+		switch {
+		case missing:
 			n, y = nhat, pred
-		} else {
+		case uncertain:
+			e := y - pred
+			dn, da := pl.gain(kf, e)
+			n, a = nhat+dn, da
+			step.Error, step.Innov, step.Z = e, a, e/se
+		default:
 			a = pl.innovation(st, n)
-			step.Error, step.Innov = y-pred, a
+			step.Error, step.Innov, step.Z = y-pred, a, (y-pred)/se
 		}
 		bad |= finiteBits(pred) | finiteBits(step.Upper) | finiteBits(step.Lower)
 	}
@@ -150,12 +159,16 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 	if bad>>63 != 0 {
 		return Step{}, false
 	}
+	if uncertain && !missing {
+		pl.condition(st, kf, step.Error)
+	}
 	pl.commit(st, pos, tmp, t, x, y, off, n, a)
+	if uncertain {
+		pl.settle(st, pl.shift(st, kf))
+	}
 	if missing {
 		gap++
-		pl.nextPsi(st, gap)
-	} else if gap > 0 {
-		pl.resetPsi(st)
+	} else {
 		gap = 0
 	}
 	s.t, s.gap = t+1, gap
@@ -325,32 +338,6 @@ func (pl *plan) commit(st []float64, pos []int, tmp []float64, t int, x []float6
 	push(st[pl.yh:pl.yh+len(pl.dc)-1], y)
 	push(st[pl.nh:pl.nh+len(pl.ar)-1], n)
 	push(st[pl.ah:pl.ah+len(pl.ma)-1], a)
-}
-
-// nextPsi extends the running sum of squared psi weights by psi_j, j =
-// gap: psi_j = (theta_j - sum_i c_i psi_{j-i}) / c_0 with c = phi D.
-func (pl *plan) nextPsi(st []float64, j int) {
-	h := st[pl.psiH : pl.psiH+len(pl.cc)-1]
-	v := 0.0
-	if j < len(pl.ma) {
-		v = pl.ma[j]
-	}
-	for i := 1; i < len(pl.cc); i++ {
-		v -= pl.cc[i] * h[i-1]
-	}
-	v /= pl.cc[0]
-	st[pl.psiS] += v * v
-	push(h, v)
-}
-
-// resetPsi sets the psi recursion back to psi_0 after an observed output.
-func (pl *plan) resetPsi(st []float64) {
-	st[pl.psiS] = pl.psi0 * pl.psi0
-	h := st[pl.psiH : pl.psiH+len(pl.cc)-1]
-	clear(h)
-	if len(h) > 0 {
-		h[0] = pl.psi0
-	}
 }
 
 // push shifts the history h (most recent first) by one and puts v first.
