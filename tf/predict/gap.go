@@ -163,16 +163,24 @@ func (pl *plan) condition(st, kf []float64, e float64) {
 	for i, s := range pl.gp.slot {
 		st[s] += kf[i*M+y] / v * e
 	}
+	// C_ij -= C_iy C_yj / v for i, j != y, formed once per pair so that
+	// C stays exactly symmetric; row and column y become zero.
 	for i := range M {
 		ci := kf[i*M+y] / v
 		if ci == 0 || i == y {
 			continue
 		}
-		for j := range M {
-			kf[i*M+j] -= ci * kf[y*M+j]
+		for j := i; j < M; j++ {
+			if j == y {
+				continue
+			}
+			c := kf[i*M+j] - ci*kf[y*M+j]
+			kf[i*M+j], kf[j*M+i] = c, c
 		}
 	}
-	clear(kf[y*M : y*M+M])
+	for i := range M {
+		kf[y*M+i], kf[i*M+y] = 0, 0
+	}
 }
 
 // shift writes into st the covariance of v after the sample, taken from

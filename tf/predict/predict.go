@@ -102,9 +102,9 @@ type plan struct {
 	// missing output, else 0), cov (its covariance P, gp.m^2 values, see
 	// gap.go), size in all.
 	offC, yh, nh, ah, unc, cov, size int
-	gp                                gapPlan
-	lyh, lnh, lah                      int    // lengths of yh, nh, ah (padded to 2 for small)
-	fp                                 uint64 // fingerprint
+	gp                               gapPlan
+	lyh, lnh, lah                    int    // lengths of yh, nh, ah (padded to 2 for small)
+	fp                               uint64 // fingerprint
 }
 
 // Predictor is the running state of a model fed one sample at a time:

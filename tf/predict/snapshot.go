@@ -103,7 +103,8 @@ func (p *Predictor) AppendBinary(b []byte) ([]byte, error) {
 // with Err ErrFormat when data is not a snapshot of this version (empty,
 // another version byte, the wrong length, or values a predictor cannot
 // hold: a position outside its ring, a count below zero, a state value
-// that is not finite, a negative variance).
+// that is not finite, a covariance of the history after a gap that
+// cannot be one).
 func (p *Predictor) UnmarshalBinary(data []byte) error {
 	if err := p.restore(data); err != nil {
 		err.Op = "predict.Predictor.UnmarshalBinary"
@@ -158,13 +159,34 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 	if u := st[p.p.unc]; u != 0 && u != 1 {
 		return bad("the flag of an uncertain history is " + strconv.FormatFloat(u, 'g', -1, 64) + ", not 0 or 1")
 	}
-	for i := range p.p.gp.m {
-		if v := st[p.p.cov+i*p.p.gp.m+i]; v < 0 {
-			return bad("a variance of the history after a gap is " + strconv.FormatFloat(v, 'g', -1, 64) + ", negative")
-		}
+	if err := p.p.checkCov(st); err != "" {
+		return bad(err)
 	}
 	copy(p.s.st, st)
 	copy(p.s.pos, pos)
 	p.s.t, p.s.gap = int(t), int(gap)
 	return nil
+}
+
+// checkCov returns why the covariance of the history's errors in st
+// cannot be one (a variance below zero, a covariance beyond the
+// product of standard deviations, values while the flag says the
+// history is exact), or "".
+func (pl *plan) checkCov(st []float64) string {
+	m := pl.gp.m
+	P := st[pl.cov : pl.cov+m*m]
+	for i := range m {
+		for j := range m {
+			v := P[i*m+j]
+			switch {
+			case st[pl.unc] == 0 && v != 0:
+				return "the history is marked exact but has a covariance"
+			case i == j && v < 0:
+				return "a variance of the history after a gap is " + strconv.FormatFloat(v, 'g', -1, 64) + ", negative"
+			case P[j*m+i] != v || v*v > P[i*m+i]*P[j*m+j]*(1+1e-12):
+				return "the covariance of the history after a gap is not symmetric, or not a covariance"
+			}
+		}
+	}
+	return ""
 }

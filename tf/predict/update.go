@@ -23,9 +23,13 @@ import (
 // inputs known; their standard errors grow accordingly (the psi
 // weights of theta(B)/(phi(B) D(B)) summed over the missing stretch).
 // The first output observed after a gap has the forecast error over the
-// gap as its Error (with the matching SE), and that error enters the
-// recursion as its innovation: a plain restart of the recursion, not
-// the optimal update a Kalman filter over the gap would give.
+// gap as its Error (with the matching SE); it updates the states as the
+// Kalman filter of the model does: the outputs, noise values and
+// innovations held for the gap move to their conditional means given
+// that output, and the predictor carries the remaining uncertainty, so
+// that the next errors are the filter's, with SEs above the steady one
+// until it has died out. Step.Z = Error/SE is standard normal under the
+// model throughout (see Step and the package doc).
 //
 // Errors (Op "predict.Predictor.Update"), after which the state is
 // unchanged: a *SeriesError of kind ErrLength when len(x) is not the
