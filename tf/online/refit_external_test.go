@@ -3,8 +3,8 @@ package online_test
 import (
 	"context"
 	"errors"
-	"strings"
 	"math"
+	"strings"
 	"sync"
 	"testing"
 
