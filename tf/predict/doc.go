@@ -94,6 +94,18 @@
 // parameters (the estimates' own uncertainty is not in it) and takes
 // the inputs as known: a plan's uncertainty is not in it either.
 //
+// # Events
+//
+// Event inputs (tf.Input.Event: step(T), pulse(T)) are not fed and not
+// in Inputs(): the predictor builds their indicators from the sample
+// count, as the fit builds them from the record (tf.Model.EventData).
+// An event given as a sample index T falls at the predictor's sample
+// T, counted from the first sample fed after New, Reset or Warm, so
+// that a Warm with the fit's record keeps the fit's indices; an event
+// given as a time is placed by Settings.Start (the time of that first
+// sample) and the model's sample interval. A step is 1 from its sample
+// on and a pulse 1 at its sample only; Forecast continues them.
+//
 // # Refused models
 //
 // A model without a noise term is taken with white noise, as the fit

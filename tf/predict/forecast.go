@@ -46,6 +46,7 @@ func (p *Predictor) Forecast(dst []Point, plan [][]float64) error {
 	p.f.t, p.f.gap = p.s.t, p.s.gap
 	for j := range dst {
 		pl.plannedInputs(p.xrow, p.f.st, plan, j)
+		pl.fillEvents(p.xrow[len(pl.names):], p.f.t)
 		step, ok := pl.advance(&p.f, p.tmp, p.kf, p.xrow, math.NaN())
 		if !ok {
 			return &errs.SeriesError{Op: op, Series: pl.output, Kind: errs.ErrOverflow,
@@ -92,7 +93,7 @@ func (pl *plan) checkPlan(plan [][]float64, t int) error {
 // plannedInputs writes into row the inputs at forecast step j: the plan,
 // its last value beyond it, or the last value fed (from st).
 func (pl *plan) plannedInputs(row, st []float64, plan [][]float64, j int) {
-	for i := range row {
+	for i := range pl.names {
 		var xs []float64
 		if plan != nil {
 			xs = plan[i]

@@ -75,6 +75,8 @@ type inputPlan struct {
 type plan struct {
 	output  string
 	names   []string // distinct input series, in order of first appearance
+	events  []event  // distinct event inputs, their columns after the series'
+	evNames []string // their spec text
 	last    []int    // per series, the state offset of its last value fed
 	ins     []inputPlan
 	dc      []float64 // D(B)
@@ -122,8 +124,9 @@ type Predictor struct {
 	// values of a step, the inputs of a forecast step.
 	f    state
 	tmp  []float64
-	xrow []float64
-	kf   []float64
+	xrow  []float64
+	xfull []float64
+	kf    []float64
 }
 
 // state is what a predictor carries from sample to sample.
@@ -148,7 +151,8 @@ type state struct {
 // with a pole on or outside the unit circle (unstable), a noise AR
 // polynomial with a root there (not stationary: write differencing as
 // D(B)) or a noise MA polynomial with a zero there (not invertible: the
-// innovations would not forget their start).
+// innovations would not forget their start), or an event input given as
+// a time that cannot be placed (no sample interval in the model).
 func New(m tf.Model, sigma2 float64, s *Settings) (*Predictor, error) {
 	const op = "predict.New"
 	var set Settings
@@ -190,7 +194,8 @@ func (p *Predictor) alloc() {
 	p.s.st = make([]float64, p.p.size)
 	p.s.pos = make([]int, n)
 	p.tmp = make([]float64, 4*n)
-	p.xrow = make([]float64, len(p.p.names))
+	p.xrow = make([]float64, len(p.p.names)+len(p.p.events))
+	p.xfull = make([]float64, len(p.p.names)+len(p.p.events))
 	p.f.st = make([]float64, p.p.size)
 	p.f.pos = make([]int, n)
 	p.kf = make([]float64, p.p.kfSize())
@@ -217,7 +222,9 @@ func (p *Predictor) Clone() *Predictor {
 
 // Inputs returns the names of the input series in the order Update and
 // Forecast take their values: each series once, in order of first
-// appearance in the model.
+// appearance in the model. Event inputs (step(T), pulse(T)) are not
+// among them: the predictor builds their indicators itself (see the
+// package doc, Events).
 func (p *Predictor) Inputs() []string { return append([]string(nil), p.p.names...) }
 
 // Output returns the name of the output series.

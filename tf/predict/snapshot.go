@@ -48,7 +48,13 @@ func fingerprint(pl *plan) uint64 {
 	poly(pl.dc)
 	num(pl.c)
 	for _, ip := range pl.ins {
-		str(pl.names[ip.col])
+		if ip.col < len(pl.names) {
+			str(pl.names[ip.col])
+		} else {
+			e := pl.events[ip.col-len(pl.names)]
+			str(pl.evNames[ip.col-len(pl.names)])
+			b = binary.LittleEndian.AppendUint64(b, uint64(e.at))
+		}
 		poly(ip.diff)
 		poly(ip.num)
 		poly(ip.den)

@@ -49,6 +49,7 @@ func (p *Predictor) Update(x []float64, y float64) (Step, error) {
 		errs.SetOp("predict.Predictor.Update", err)
 		return Step{}, err
 	}
+	x = p.withEvents(x, p.s.t)
 	if pl.fast(&p.s, y) {
 		t := p.s.t
 		if mean, se, a, ok := pl.advanceSmall(&p.s, p.tmp, x, y); ok {
