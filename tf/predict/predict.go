@@ -122,8 +122,8 @@ type Predictor struct {
 	s state
 	// scratch (not state): the forecast's copy of the state, per-term
 	// values of a step, the inputs of a forecast step.
-	f    state
-	tmp  []float64
+	f     state
+	tmp   []float64
 	xrow  []float64
 	xfull []float64
 	kf    []float64
