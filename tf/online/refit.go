@@ -125,7 +125,8 @@ type Refitter struct {
 //
 // Errors (Op "online.NewRefitter"): a *SettingError from
 // RefitSettings.Validate or for a nil fn or ctx; a *ModelError from
-// tf.Model.Validate or for a model without output.
+// tf.Model.Validate, for a model without output, or for an event input
+// (step(T), pulse(T)), as New refuses it.
 func NewRefitter(ctx context.Context, m tf.Model, fn RefitFunc, s *RefitSettings) (_ *Refitter, err error) {
 	defer func() { setOp("online.NewRefitter", err) }()
 	var set RefitSettings
@@ -145,6 +146,9 @@ func NewRefitter(ctx context.Context, m tf.Model, fn RefitFunc, s *RefitSettings
 		if me, ok := err.(*ModelError); ok {
 			me.Op = ""
 		}
+		return nil, err
+	}
+	if err := noEvents(m); err != nil {
 		return nil, err
 	}
 	if set.Window == 0 {

@@ -3,6 +3,7 @@ package online_test
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"sync"
@@ -191,6 +192,10 @@ func TestRefitterBadInput(t *testing.T) {
 			}
 			testutilWords(t, err, tc.want, "online.NewRefitter")
 		})
+	}
+	ev := mustModel(t, "y = w B x + k step(10) + a; where w ~ 0.5, k ~ 1")
+	if _, err := online.NewRefitter(context.Background(), ev, refitByFit, nil); !errors.Is(err, errs.ErrModel) || !strings.Contains(fmt.Sprint(err), `input "step(10)"`) {
+		t.Errorf("event model: %v, want a *ModelError naming the event input", err)
 	}
 	r, err := online.NewRefitter(context.Background(), m, refitByFit, nil)
 	if err != nil {
