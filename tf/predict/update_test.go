@@ -267,6 +267,23 @@ func TestAllocs(t *testing.T) {
 	if n := testing.AllocsPerRun(100, func() { p.Forecast(dst, plan) }); n != 0 {
 		t.Errorf("Forecast: %v allocations, want 0", n)
 	}
+	// After a gap (the covariance update) and with event inputs.
+	i := 0
+	obs := func() float64 {
+		i++
+		if i%3 == 0 {
+			return math.NaN()
+		}
+		return y
+	}
+	if n := testing.AllocsPerRun(1000, func() { p.Update(x, obs()) }); n != 0 {
+		t.Errorf("Update across gaps: %v allocations per sample, want 0", n)
+	}
+	ev, _ := predict.New(mustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
+	ev.Update([]float64{1}, 1)
+	if n := testing.AllocsPerRun(1000, func() { ev.Update([]float64{1}, obs()) }); n != 0 {
+		t.Errorf("Update of a model with an event: %v allocations per sample, want 0", n)
+	}
 }
 
 // TestClone: a clone continues exactly as the original and does not
