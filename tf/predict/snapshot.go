@@ -21,9 +21,10 @@ const snapshotVersion = 2
 const snapshotHeader = 1 + 8 + 8 + 8
 
 // Fingerprint returns the 64-bit FNV-1a hash of what the predictor's
-// state depends on: the output and input names, every polynomial's
-// coefficients (their exact bits), the dead times, the constant, the
-// first prediction index and the pre-sample rule. sigma2 and Level do
+// state depends on: the output and input names, the samples of event
+// inputs, every polynomial's coefficients (their exact bits), the dead
+// times, the constant, the first prediction index and the pre-sample
+// rule. sigma2 and Level do
 // not enter (they change the intervals, not the state). Two predictors
 // with equal fingerprints accept each other's snapshots.
 func (p *Predictor) Fingerprint() uint64 { return p.p.fp }
