@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"runtime"
+	"runtime/debug"
 	"strconv"
 	"sync"
 
@@ -16,6 +17,9 @@ type SettingError = errs.SettingError
 
 // InternalError carries a panic of a job, recovered on the worker
 // goroutine (the shared shape of internal/errs); it matches ErrInternal.
+// A loop's Err wraps it in an error whose message says that the
+// caller's job panicked (not the library): use errors.As to reach the
+// panic's Value and Stack.
 type InternalError = errs.InternalError
 
 // The kinds of error of this package, for errors.Is.
@@ -33,7 +37,11 @@ type Settings struct {
 	// OnProgress, when not nil, is called after each loop finishes, on
 	// the goroutine that called Run, one call at a time, in the order
 	// the loops finish (which depends on scheduling; the results do
-	// not).
+	// not). If it panics, Run stops starting loops and calls it no
+	// more, waits for the running jobs (their ctx is not cancelled),
+	// and then panics again with the same value on the calling
+	// goroutine: a caller that recovers is left with no goroutine of
+	// Run running.
 	OnProgress func(Progress)
 }
 
@@ -66,8 +74,12 @@ type Result[T any] struct {
 // Run calls job(ctx, loop) for every loop in [0, loops) on at most
 // Settings.Workers goroutines (never more than loops) and returns the
 // results indexed by loop. A loop's failure is its Result.Err and does
-// not stop the others; a panic in job is recovered into an
-// *InternalError for that loop. When ctx is done, loops not yet started
+// not stop the others; a panic in job is recovered into that loop's
+// Err, whose message says that the job of that loop panicked (a fault
+// of the caller's function) and which wraps an *InternalError with the
+// panic's value and stack (errors.As; errors.Is(err, ErrInternal)). A
+// panic in Settings.OnProgress is raised again on the calling goroutine
+// after every goroutine of Run has ended (see Settings.OnProgress). When ctx is done, loops not yet started
 // are not started (their Err is ctx's error), running jobs see ctx
 // cancelled, Run waits for them, and it returns the results with an
 // error that wraps ctx's (errors.Is(err, context.Canceled)). Bad
@@ -98,7 +110,10 @@ func Run[T any](ctx context.Context, loops int, job func(ctx context.Context, lo
 		return out, ctx.Err()
 	}
 	p := Progress{Total: loops}
-	started := pool(ctx, loops, max(1, min(workers, loops)),
+	feedCtx, stopFeed := context.WithCancel(ctx)
+	defer stopFeed()
+	var cb callback
+	started := pool(feedCtx, loops, max(1, min(workers, loops)),
 		func(loop int) { out[loop] = runOne(ctx, loop, job) },
 		func(loop int) {
 			p.Loop, p.Err = loop, out[loop].Err
@@ -106,10 +121,13 @@ func Run[T any](ctx context.Context, loops int, job func(ctx context.Context, lo
 			if p.Err != nil {
 				p.Failed++
 			}
-			if d.OnProgress != nil {
-				d.OnProgress(p)
+			if d.OnProgress != nil && !cb.panicked {
+				cb.call(d.OnProgress, p, stopFeed)
 			}
 		})
+	if cb.panicked {
+		panic(cb.value)
+	}
 	if started < loops {
 		err := ctx.Err()
 		for i := started; i < loops; i++ {
@@ -170,13 +188,56 @@ func feed(ctx context.Context, next chan<- int, done <-chan int, loops int, fini
 	return i
 }
 
-// runOne runs one loop's job, turning a panic into an *InternalError
-// (with the stack of the panic).
+// callback runs Settings.OnProgress, keeping a panic of it for Run to
+// raise again once its goroutines have ended.
+type callback struct {
+	panicked bool
+	value    any
+}
+
+// call calls f(p); on a panic it keeps the value and calls stop (which
+// ends the feeding of loops).
+func (c *callback) call(f func(Progress), p Progress, stop func()) {
+	defer func() {
+		if v := recover(); v != nil {
+			c.panicked, c.value = true, v
+			stop()
+		}
+	}()
+	f(p)
+}
+
+// runOne runs one loop's job, turning a panic into a *jobPanic (an
+// *InternalError with the stack of the panic, under a message that
+// names the caller's job).
 func runOne[T any](ctx context.Context, loop int, job func(context.Context, int) (T, error)) (r Result[T]) {
-	defer errs.Recover("fleet.Run (loop "+strconv.Itoa(loop)+")", &r.Err)
+	defer func() {
+		if v := recover(); v != nil {
+			r.Err = &jobPanic{loop: loop, ie: &InternalError{Op: jobOp, Value: v, Stack: debug.Stack()}}
+		}
+	}()
 	r.Value, r.Err = job(ctx, loop)
 	return r
 }
+
+// jobOp is the Op of the *InternalError of a job's panic.
+const jobOp = "fleet.Run (the caller's job)"
+
+// jobPanic is a loop's error when its job panicked: the fault is the
+// caller's function, not the library's. It unwraps to the
+// *InternalError that carries the panic's value and stack.
+type jobPanic struct {
+	loop int
+	ie   *InternalError
+}
+
+// Error says which loop's job panicked, and with what.
+func (e *jobPanic) Error() string {
+	return fmt.Sprintf("fleet.Run: the job of loop %d panicked: %v (a panic in the caller's job function, not in the library; the stack is in the wrapped *InternalError)", e.loop, e.ie.Value)
+}
+
+// Unwrap returns the *InternalError with the panic's value and stack.
+func (e *jobPanic) Unwrap() error { return e.ie }
 
 // Seed returns a seed for loop derived from base by the SplitMix64
 // mixer (Steele, Lea and Flood 2014, "Fast splittable pseudorandom

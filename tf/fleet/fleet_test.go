@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math/rand/v2"
+	"runtime"
 	"strconv"
 	"strings"
 	"sync/atomic"
@@ -237,5 +238,54 @@ func BenchmarkRunOverhead(b *testing.B) {
 		if _, err := Run(context.Background(), 1000, job, &Settings{Workers: 2}); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// A panic in a job is reported as the caller's job panicking, naming
+// the loop, not as a fault of the library.
+func TestRunPanicBlamesJob(t *testing.T) {
+	res, err := Run(context.Background(), 3, func(_ context.Context, loop int) (int, error) {
+		if loop == 1 {
+			panic("bad loop")
+		}
+		return loop, nil
+	}, &Settings{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	msg := res[1].Err.Error()
+	if !strings.Contains(msg, "the job of loop 1 panicked: bad loop") || strings.Contains(msg, "fault of the library") {
+		t.Errorf("loop 1: %q", msg)
+	}
+}
+
+// A panic in OnProgress leaves no goroutine of Run behind: Run waits for
+// its workers and raises the panic again on the calling goroutine.
+func TestRunProgressPanicNoLeak(t *testing.T) {
+	before := runtime.NumGoroutine()
+	var got any
+	func() {
+		defer func() { got = recover() }()
+		Run(context.Background(), 100, func(ctx context.Context, loop int) (int, error) {
+			time.Sleep(time.Millisecond)
+			return loop, nil
+		}, &Settings{Workers: 2, OnProgress: func(p Progress) {
+			if p.Done == 3 {
+				panic("progress callback failed")
+			}
+		}})
+	}()
+	if got != "progress callback failed" {
+		t.Errorf("recovered %v, want the callback's panic value", got)
+	}
+	// Run has returned (by panicking) only after its goroutines ended; a
+	// goroutine that has called wg.Done may still be leaving, so allow
+	// the scheduler a moment (common practice for NumGoroutine checks).
+	deadline := time.Now().Add(2 * time.Second)
+	for runtime.NumGoroutine() > before && time.Now().Before(deadline) {
+		time.Sleep(5 * time.Millisecond)
+	}
+	if n := runtime.NumGoroutine(); n > before {
+		t.Errorf("%d goroutines after Run, %d before", n, before)
 	}
 }

@@ -42,7 +42,8 @@ type Settings struct {
 	// Sigma is the standard deviation of the one-step prediction errors
 	// while the plant behaves as its model (the noise model's sigma):
 	// Update divides each error by it. 0 means 1: the errors passed are
-	// already standardised. It must be at least MinSigma.
+	// already standardised, as tf/predict's Step.Z is (the quantity to
+	// feed: see the package doc). It must be at least MinSigma.
 	Sigma float64
 	// TargetARL is the in-control average run length, in samples, of
 	// each of the three tests (mean, variance, correlation): the mean

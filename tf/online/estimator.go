@@ -115,7 +115,10 @@ type Estimator struct {
 // or noise polynomial, a denominator with a free coefficient whose
 // start value has a pole on or outside the unit circle, or a noise MA
 // polynomial that is not invertible (a zero on or outside the unit
-// circle), since the predictor divides by it.
+// circle), since the predictor divides by it, or an event input
+// (step(T), pulse(T)), whose indicator this package does not build (the
+// message names the input; feed the indicator as an input series
+// instead, tf.Model.EventData).
 func New(m tf.Model, s *Settings) (_ *Estimator, err error) {
 	defer errs.Recover("online.New", &err)
 	defer func() { setOp("online.New", err) }()
@@ -161,6 +164,9 @@ func bind(m tf.Model) (*Estimator, error) {
 		if asModelError(err, &me) {
 			me.Op = ""
 		}
+		return nil, err
+	}
+	if err := noEvents(m); err != nil {
 		return nil, err
 	}
 	e := &Estimator{output: m.Output, work: m.Clone(), constK: -1}
@@ -219,6 +225,21 @@ func asModelError(err error, me **ModelError) bool {
 		*me = v
 	}
 	return ok
+}
+
+// noEvents refuses a model with an event input (step(T), pulse(T)),
+// naming it: the estimator's inputs are fed by the caller, and an
+// event's indicator depends on where the record starts.
+func noEvents(m tf.Model) error {
+	for _, in := range m.Inputs {
+		if in.Event != nil {
+			return &ModelError{Part: "input " + strconv.Quote(in.Series),
+				Problem: "it is an event, whose indicator this package does not build (it depends on where the record starts); " +
+					"make the event an input series that carries its indicator (tf.Model.EventData) and feed it, " +
+					"or track the model without the event (tf/predict builds event indicators for prediction)"}
+		}
+	}
+	return nil
 }
 
 // noFreeDiff refuses a free coefficient in a differencing polynomial.

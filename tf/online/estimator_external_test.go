@@ -179,6 +179,7 @@ func TestNewBadInput(t *testing.T) {
 		{"NaN trace bound", "y = w B x + a", online.Settings{MaxTrace: math.NaN()}, errs.ErrSetting, []string{"Settings.MaxTrace = NaN"}, nil},
 		{"negative dead zone", "y = w B x + a", online.Settings{DeadZone: -1}, errs.ErrSetting, []string{"Settings.DeadZone = -1", "no dead zone"}, nil},
 		{"negative ramp", "y = w B x + a", online.Settings{Ramp: -3}, errs.ErrSetting, []string{"Settings.Ramp = -3"}, nil},
+		{"event input", "y = w B x + k step(10) + a; where w ~ 0.5, k ~ 1", online.Settings{}, errs.ErrModel, []string{`input "step(10)"`, "event", "EventData"}, nil},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			m := mustModel(t, tc.spec)

@@ -2,7 +2,9 @@ package online
 
 import (
 	"context"
+	"fmt"
 	"math"
+	"runtime/debug"
 	"slices"
 	"strconv"
 	"sync"
@@ -72,8 +74,13 @@ type RefitReport struct {
 	Sample int
 	// Swapped reports that the refit's model became the live model.
 	Swapped bool
-	// Err is the refit's error (the function's, a model of another
-	// shape, or an *InternalError for a panic), nil on success.
+	// Err is the refit's error, nil on success: the function's own; a
+	// *ModelError for a model of another shape, or one that New or
+	// predict.New would refuse (an unstable input denominator, a noise
+	// AR polynomial that is not stationary or a noise MA polynomial that
+	// is not invertible), which is not swapped in; or, when the
+	// function panicked, an error saying so that wraps an
+	// *InternalError with the panic's value and stack (errors.As).
 	Err error
 }
 
@@ -118,7 +125,8 @@ type Refitter struct {
 //
 // Errors (Op "online.NewRefitter"): a *SettingError from
 // RefitSettings.Validate or for a nil fn or ctx; a *ModelError from
-// tf.Model.Validate or for a model without output.
+// tf.Model.Validate, for a model without output, or for an event input
+// (step(T), pulse(T)), as New refuses it.
 func NewRefitter(ctx context.Context, m tf.Model, fn RefitFunc, s *RefitSettings) (_ *Refitter, err error) {
 	defer func() { setOp("online.NewRefitter", err) }()
 	var set RefitSettings
@@ -138,6 +146,9 @@ func NewRefitter(ctx context.Context, m tf.Model, fn RefitFunc, s *RefitSettings
 		if me, ok := err.(*ModelError); ok {
 			me.Op = ""
 		}
+		return nil, err
+	}
+	if err := noEvents(m); err != nil {
 		return nil, err
 	}
 	if set.Window == 0 {
@@ -264,9 +275,12 @@ func (r *Refitter) refit(sample int, window map[string][]float64, m tf.Model) {
 	rep := RefitReport{Sample: sample}
 	func() {
 		defer errs.Recover("online.Refitter", &rep.Err)
-		nm, err := r.fn(r.ctx, m, window)
+		nm, err := r.call(m, window)
 		if err == nil {
 			err = r.sameShape(nm)
+		}
+		if err == nil {
+			err = liveUsable(nm)
 		}
 		if err != nil {
 			rep.Err = err
@@ -291,6 +305,66 @@ func (r *Refitter) refit(sample int, window map[string][]float64, m tf.Model) {
 			r.set.Report(rep)
 		}()
 	}
+}
+
+// call runs the refit function, turning its panic into a *refitPanic
+// (the caller's function panicked, not the library).
+func (r *Refitter) call(m tf.Model, window map[string][]float64) (nm tf.Model, err error) {
+	defer func() {
+		if v := recover(); v != nil {
+			err = &refitPanic{ie: &InternalError{Op: "online.Refitter (the caller's RefitFunc)", Value: v, Stack: debug.Stack()}}
+		}
+	}()
+	return r.fn(r.ctx, m, window)
+}
+
+// refitPanic is a refit's error when the caller's RefitFunc panicked. It
+// unwraps to the *InternalError that carries the panic's value and
+// stack.
+type refitPanic struct{ ie *InternalError }
+
+// Error says that the refit function panicked, and with what.
+func (e *refitPanic) Error() string {
+	return fmt.Sprintf("online.Refitter: the refit function panicked: %v (a panic in the caller's RefitFunc, not in the library; the stack is in the wrapped *InternalError)", e.ie.Value)
+}
+
+// Unwrap returns the *InternalError with the panic's value and stack.
+func (e *refitPanic) Unwrap() error { return e.ie }
+
+// liveUsable refuses a refitted model that New and predict.New would
+// refuse for its values: an input denominator with a pole on or outside
+// the unit circle (unstable), a noise AR polynomial with a root there
+// (not stationary) or a noise MA polynomial with a zero there (not
+// invertible), as a *ModelError naming the part.
+func liveUsable(m tf.Model) error {
+	for _, in := range m.Inputs {
+		if err := stableCoeffs(in.Den.Coeffs(), "input "+strconv.Quote(in.Series)+" denominator", "the term is unstable (its response grows without bound)"); err != nil {
+			return err
+		}
+	}
+	if m.Noise == nil {
+		return nil
+	}
+	if err := stableCoeffs(m.Noise.AR.Coeffs(), "noise AR", "the noise is not stationary"); err != nil {
+		return err
+	}
+	return stableCoeffs(m.Noise.MA.Coeffs(), "noise MA", "the noise is not invertible (the one-step predictor divides by the MA polynomial)")
+}
+
+// stableCoeffs reports a polynomial c in B with a z-plane root on or
+// outside the unit circle, by tf.Rational.Stable, as a *ModelError of
+// the refitted model's part.
+func stableCoeffs(c []float64, part, why string) error {
+	part = "refitted model, " + part
+	rat, err := tf.NewRational([]float64{1}, c, 0)
+	if err != nil {
+		return &ModelError{Op: "online.Refitter", Part: part, Problem: "it cannot be used (" + err.Error() + "); the live model is kept", Err: err}
+	}
+	if !rat.Stable() {
+		return &ModelError{Op: "online.Refitter", Part: part, Problem: "it has a root on or outside the unit circle (largest |z| = " +
+			strconv.FormatFloat(rat.MaxPoleMagnitude(), 'g', 6, 64) + "): " + why + "; the live model is kept"}
+	}
+	return nil
 }
 
 // sameShape refuses a refitted model that is not a valid model of the

@@ -3,7 +3,9 @@ package online_test
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
+	"strings"
 	"sync"
 	"testing"
 
@@ -102,6 +104,19 @@ func TestRefitterFailures(t *testing.T) {
 			return m, nil
 		}, errs.ErrModel},
 		{"panic", func(context.Context, tf.Model, map[string][]float64) (tf.Model, error) { panic("refit bug") }, errs.ErrInternal},
+		// d1 = 1.5 puts the pole of x1's term at z = 1.5, outside the unit
+		// circle (the pole of 1/(1 - d B) is z = d: DESIGN.md's convention).
+		{"unstable", func(_ context.Context, m tf.Model, _ map[string][]float64) (tf.Model, error) {
+			return mustModel(t, strings.Replace(eightSpec, "d1 ~ 0.7", "d1 ~ 1.5", 1)), nil
+		}, errs.ErrModel},
+		// t1 = -1.25: the MA zero at z = 1.25 is outside the unit circle.
+		{"not invertible", func(_ context.Context, m tf.Model, _ map[string][]float64) (tf.Model, error) {
+			return mustModel(t, strings.Replace(eightSpec, "t1 ~ 0.4", "t1 ~ -1.25", 1)), nil
+		}, errs.ErrModel},
+		// p1 = 1: the AR root on the unit circle (not stationary).
+		{"not stationary", func(_ context.Context, m tf.Model, _ map[string][]float64) (tf.Model, error) {
+			return mustModel(t, strings.Replace(eightSpec, "p1 ~ 0.6", "p1 ~ 1", 1)), nil
+		}, errs.ErrModel},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			var got error
@@ -114,6 +129,11 @@ func TestRefitterFailures(t *testing.T) {
 			r.Close()
 			if !errors.Is(r.Err(), tc.kind) || !errors.Is(got, tc.kind) {
 				t.Errorf("Err %v, reported %v, want kind %v", r.Err(), got, tc.kind)
+			}
+			want := map[string]string{"panic": "the refit function panicked: refit bug", "unstable": "input \"x1\" denominator",
+				"not invertible": "noise MA", "not stationary": "noise AR"}[tc.name]
+			if got != nil && !strings.Contains(got.Error(), want) || got != nil && strings.Contains(got.Error(), "fault of the library") {
+				t.Errorf("reported %q, want it to name %q and not blame the library", got, want)
 			}
 			if c := r.Counts(); c.Failed != 1 || c.Swapped != 0 {
 				t.Errorf("counts %+v", c)
@@ -172,6 +192,10 @@ func TestRefitterBadInput(t *testing.T) {
 			}
 			testutilWords(t, err, tc.want, "online.NewRefitter")
 		})
+	}
+	ev := mustModel(t, "y = w B x + k step(10) + a; where w ~ 0.5, k ~ 1")
+	if _, err := online.NewRefitter(context.Background(), ev, refitByFit, nil); !errors.Is(err, errs.ErrModel) || !strings.Contains(fmt.Sprint(err), `input "step(10)"`) {
+		t.Errorf("event model: %v, want a *ModelError naming the event input", err)
 	}
 	r, err := online.NewRefitter(context.Background(), m, refitByFit, nil)
 	if err != nil {

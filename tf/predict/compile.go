@@ -3,6 +3,7 @@ package predict
 import (
 	"math"
 	"strconv"
+	"time"
 
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/poly"
@@ -29,7 +30,7 @@ func compile(m tf.Model, sigma2 float64, set Settings) (*plan, error) {
 	if m.Const != nil {
 		pl.c = m.Const.Value
 	}
-	if err := pl.compileInputs(m); err != nil {
+	if err := pl.compileInputs(m, set.Start); err != nil {
 		return nil, err
 	}
 	if err := pl.compileNoise(m); err != nil {
@@ -84,12 +85,19 @@ func stable(c []float64, part, why string) error {
 // compileInputs builds the input terms: their series columns, the
 // coefficient slices, gains and the start-up rule, refusing an unstable
 // denominator.
-func (pl *plan) compileInputs(m tf.Model) error {
-	col := map[string]int{}
+func (pl *plan) compileInputs(m tf.Model, start time.Time) error {
+	col, evCol := map[string]int{}, map[string]int{}
 	for _, in := range m.Inputs {
 		part := "input " + strconv.Quote(in.Series)
-		k, ok := col[in.Series]
-		if !ok {
+		var k int
+		if in.Event != nil {
+			var err error
+			if k, err = pl.compileEvent(m, in, start, evCol); err != nil {
+				return err
+			}
+		} else if c, ok := col[in.Series]; ok {
+			k = c
+		} else {
 			k = len(pl.names)
 			col[in.Series] = k
 			pl.names = append(pl.names, in.Series)
@@ -107,6 +115,12 @@ func (pl *plan) compileInputs(m tf.Model) error {
 		ip.gain = sum(ip.num) / sum(ip.den)
 		ip.ls = max(len(ip.den), len(ip.num)) - 1
 		pl.ins = append(pl.ins, ip)
+	}
+	// The events' columns follow the series'.
+	for i := range pl.ins {
+		if c := pl.ins[i].col; c < 0 {
+			pl.ins[i].col = len(pl.names) - 1 - c
+		}
 	}
 	return nil
 }
@@ -162,7 +176,9 @@ func (pl *plan) layout() {
 	}
 	pl.last = make([]int, len(pl.names))
 	for i := len(pl.ins) - 1; i >= 0; i-- {
-		pl.last[pl.ins[i].col] = pl.ins[i].off
+		if c := pl.ins[i].col; c < len(pl.names) {
+			pl.last[c] = pl.ins[i].off
+		}
 	}
 	if pl.small {
 		pl.terms = make([]smallTerm, len(pl.ins))
@@ -174,9 +190,11 @@ func (pl *plan) layout() {
 	pl.yh = take(pl.lyh)
 	pl.nh = take(pl.lnh)
 	pl.ah = take(pl.lah)
-	pl.psiS = take(1)
-	pl.psiH = take(len(pl.cc) - 1)
+	pl.unc = take(1)
+	m := len(pl.dc) - 1 + len(pl.ar) - 1 + len(pl.ma) - 1
+	pl.cov = take(m * m)
 	pl.size = n
+	pl.compileGap()
 }
 
 // sum returns the sum of the coefficients, the polynomial at B = 1.

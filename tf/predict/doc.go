@@ -15,9 +15,11 @@
 //   - Each new sample: Update(x, y) with the inputs x (in the order of
 //     Inputs()) and the output y, or NaN when the output is missing
 //     (a failed sensor, a late laboratory value). It returns the
-//     one-step prediction of y with its interval, the prediction error
-//     and the innovation, whose standardised value Innov/sigma is what a
-//     drift monitor watches. It does not allocate.
+//     one-step prediction of y with its interval, the prediction error,
+//     the standardised error Z = Error/SE and the innovation. Z is what
+//     a drift monitor watches (tf/monitor with Settings.Sigma 1): it is
+//     standard normal under the model also after missing outputs, where
+//     Error/sigma is not. It does not allocate.
 //   - Looking ahead: Forecast(dst, plan) writes the predictions of the
 //     next len(dst) samples for planned inputs (an input is held at its
 //     last planned or last fed value beyond its plan), without changing
@@ -67,16 +69,42 @@
 // A missing output is replaced by its prediction and its innovation by
 // zero, so the predictions that follow are forecasts from the last
 // observed output, exactly the batch forecast of the fit from that
-// sample with the inputs as fed.
+// sample with the inputs as fed. The predictor then keeps the
+// covariance of the errors of the values it filled in, and the next
+// observed output corrects them as the Kalman filter of the model does
+// (the outputs, noise values and innovations held for the gap move to
+// their conditional means given that output): the errors after a gap
+// are the Kalman filter's, independent, with the standard errors in
+// SE, so that Z = Error/SE stays standard normal. The first error after
+// a gap of g outputs is the (g+1)-step forecast error; the SEs of the
+// next samples stay above the steady one until the uncertainty left by
+// the gap has died out (at the rate of the MA roots), when the
+// predictor is back on the fit's exact recursion. Checked against
+// statsmodels' SARIMAX filter (gap_reference_test.go).
 //
 // # Intervals
 //
 // The standard error of a prediction h steps after the last observed
 // output is sigma sqrt(psi_0^2 + ... + psi_{h-1}^2), psi_j the weights
-// of theta(B)/(phi(B) D(B)); the interval is Mean -/+ z SE with z the
-// normal quantile of Level. It assumes Gaussian innovations and known
+// of theta(B)/(phi(B) D(B)), when the history before that output is
+// exact (no earlier gap left uncertainty); in general it is the Kalman
+// filter's prediction variance, which the predictor carries through
+// gaps. The interval is Mean -/+ z SE with z the normal quantile of
+// Level. It assumes Gaussian innovations and known
 // parameters (the estimates' own uncertainty is not in it) and takes
 // the inputs as known: a plan's uncertainty is not in it either.
+//
+// # Events
+//
+// Event inputs (tf.Input.Event: step(T), pulse(T)) are not fed and not
+// in Inputs(): the predictor builds their indicators from the sample
+// count, as the fit builds them from the record (tf.Model.EventData).
+// An event given as a sample index T falls at the predictor's sample
+// T, counted from the first sample fed after New, Reset or Warm, so
+// that a Warm with the fit's record keeps the fit's indices; an event
+// given as a time is placed by Settings.Start (the time of that first
+// sample) and the model's sample interval. A step is 1 from its sample
+// on and a pulse 1 at its sample only; Forecast continues them.
 //
 // # Refused models
 //

@@ -46,7 +46,8 @@ func (p *Predictor) Forecast(dst []Point, plan [][]float64) error {
 	p.f.t, p.f.gap = p.s.t, p.s.gap
 	for j := range dst {
 		pl.plannedInputs(p.xrow, p.f.st, plan, j)
-		step, ok := pl.advance(&p.f, p.tmp, p.xrow, math.NaN())
+		pl.fillEvents(p.xrow[len(pl.names):], p.f.t)
+		step, ok := pl.advance(&p.f, p.tmp, p.kf, p.xrow, math.NaN())
 		if !ok {
 			return &errs.SeriesError{Op: op, Series: pl.output, Kind: errs.ErrOverflow,
 				Detail: "the forecast left float64 range at step " + itoa(j+1) + "; shorten the horizon or check the plan"}
@@ -92,7 +93,7 @@ func (pl *plan) checkPlan(plan [][]float64, t int) error {
 // plannedInputs writes into row the inputs at forecast step j: the plan,
 // its last value beyond it, or the last value fed (from st).
 func (pl *plan) plannedInputs(row, st []float64, plan [][]float64, j int) {
-	for i := range row {
+	for i := range pl.names {
 		var xs []float64
 		if plan != nil {
 			xs = plan[i]

@@ -11,9 +11,10 @@ type smallTerm struct {
 // fast reports whether the next sample, with output y, takes
 // advanceSmall: a plan whose polynomials all fit the small kernel
 // (plan.small), and the common case: a sample after the first, from
-// First on, with its output, after an observed output.
+// First on, with its output, after an observed output, with the held
+// history exact (no uncertainty left by a gap, see gap.go).
 func (pl *plan) fast(s *state, y float64) bool {
-	return pl.small && s.t > 0 && s.t >= pl.first && s.gap == 0 && y == y
+	return pl.small && s.t > 0 && s.t >= pl.first && s.gap == 0 && y == y && s.st[pl.unc] == 0
 }
 
 // advanceSmall is advance for a sample that fast admits; it returns the

@@ -27,15 +27,28 @@ type Point struct {
 // the output y_t from the inputs through t and the outputs through t-1
 // (Point; NaN while the predictor settles, before First), the sample
 // Index t (0 for the first sample fed since New, Reset or Warm), the
-// prediction error Error = y_t - Mean and the innovation Innov = a_t,
-// the fit's residual (both NaN when the output is missing or the
-// predictor settles). With constant terms 1 in D(B), phi(B) and theta(B)
-// (as specs write them) Error and Innov are equal up to rounding; in
-// general Error = theta_0 / (phi_0 d_0) Innov.
+// prediction error Error = y_t - Mean, the standardised error Z =
+// Error / SE and the innovation Innov = a_t, the fit's residual (all
+// three NaN when the output is missing or the predictor settles). With
+// constant terms 1 in D(B), phi(B) and theta(B) (as specs write them)
+// Error and Innov are equal up to rounding while every output is
+// observed; in general Error = theta_0 / (phi_0 d_0) Innov.
+//
+// Z is what a drift monitor should watch (monitor.Settings.Sigma = 1):
+// under the model, with Gaussian innovations and known parameters, the
+// Z of successive samples are independent standard normal, also after
+// missing outputs. Error is not: the first error after a gap of g
+// missing outputs is a (g+1)-step forecast error, with the larger SE
+// that comes with it, and the errors that follow have an SE above the
+// steady one until the uncertainty the gap left has died out (see
+// Update). After a gap, Innov is the innovation's conditional mean
+// given the outputs observed (the Kalman filter's estimate), not a
+// residual of the fit's recursion.
 type Step struct {
 	Point
 	Index        int
 	Error, Innov float64
+	Z            float64
 }
 
 // inputPlan is the compiled form of one input term: its polynomials as
@@ -62,6 +75,8 @@ type inputPlan struct {
 type plan struct {
 	output  string
 	names   []string // distinct input series, in order of first appearance
+	events  []event  // distinct event inputs, their columns after the series'
+	evNames []string // their spec text
 	last    []int    // per series, the state offset of its last value fed
 	ins     []inputPlan
 	dc      []float64 // D(B)
@@ -69,7 +84,7 @@ type plan struct {
 	c       float64 // the constant
 	ar, ma  []float64
 	maOne   bool
-	cc      []float64 // phi(B) D(B), the psi weights' denominator
+	cc      []float64 // phi(B) D(B)
 	psi0    float64
 	ts      int // NoiseStart
 	first   int
@@ -85,11 +100,13 @@ type plan struct {
 	nk    [6]float64
 	terms []smallTerm
 	// State layout: off (c + sum gain z0), yh (d values), nh (p values),
-	// ah (q values), psiS (the running sum of squared psi weights), psiH
-	// (the last deg cc psi weights), size in all.
-	offC, yh, nh, ah, psiS, psiH, size int
-	lyh, lnh, lah                      int    // lengths of yh, nh, ah (padded to 2 for small)
-	fp                                 uint64 // fingerprint
+	// ah (q values), unc (1 while the held history is uncertain after a
+	// missing output, else 0), cov (its covariance P, gp.m^2 values, see
+	// gap.go), size in all.
+	offC, yh, nh, ah, unc, cov, size int
+	gp                               gapPlan
+	lyh, lnh, lah                    int    // lengths of yh, nh, ah (padded to 2 for small)
+	fp                               uint64 // fingerprint
 }
 
 // Predictor is the running state of a model fed one sample at a time:
@@ -105,9 +122,11 @@ type Predictor struct {
 	s state
 	// scratch (not state): the forecast's copy of the state, per-term
 	// values of a step, the inputs of a forecast step.
-	f    state
-	tmp  []float64
-	xrow []float64
+	f     state
+	tmp   []float64
+	xrow  []float64
+	xfull []float64
+	kf    []float64
 }
 
 // state is what a predictor carries from sample to sample.
@@ -132,7 +151,8 @@ type state struct {
 // with a pole on or outside the unit circle (unstable), a noise AR
 // polynomial with a root there (not stationary: write differencing as
 // D(B)) or a noise MA polynomial with a zero there (not invertible: the
-// innovations would not forget their start).
+// innovations would not forget their start), or an event input given as
+// a time that cannot be placed (no sample interval in the model).
 func New(m tf.Model, sigma2 float64, s *Settings) (*Predictor, error) {
 	const op = "predict.New"
 	var set Settings
@@ -174,9 +194,11 @@ func (p *Predictor) alloc() {
 	p.s.st = make([]float64, p.p.size)
 	p.s.pos = make([]int, n)
 	p.tmp = make([]float64, 4*n)
-	p.xrow = make([]float64, len(p.p.names))
+	p.xrow = make([]float64, len(p.p.names)+len(p.p.events))
+	p.xfull = make([]float64, len(p.p.names)+len(p.p.events))
 	p.f.st = make([]float64, p.p.size)
 	p.f.pos = make([]int, n)
+	p.kf = make([]float64, p.p.kfSize())
 }
 
 // Reset returns the predictor to rest, as New left it: the next sample
@@ -186,10 +208,6 @@ func (p *Predictor) Reset() {
 	clear(p.s.pos)
 	p.s.t, p.s.gap = 0, 0
 	p.s.st[p.p.offC] = p.p.c
-	p.s.st[p.p.psiS] = p.p.psi0 * p.p.psi0
-	if len(p.p.cc) > 1 {
-		p.s.st[p.p.psiH] = p.p.psi0
-	}
 }
 
 // Clone returns an independent copy of p in its current state, for
@@ -204,7 +222,9 @@ func (p *Predictor) Clone() *Predictor {
 
 // Inputs returns the names of the input series in the order Update and
 // Forecast take their values: each series once, in order of first
-// appearance in the model.
+// appearance in the model. Event inputs (step(T), pulse(T)) are not
+// among them: the predictor builds their indicators itself (see the
+// package doc, Events).
 func (p *Predictor) Inputs() []string { return append([]string(nil), p.p.names...) }
 
 // Output returns the name of the output series.

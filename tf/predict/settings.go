@@ -3,6 +3,7 @@ package predict
 import (
 	"errors"
 	"strconv"
+	"time"
 
 	"github.com/backshift/backshift/internal/errs"
 )
@@ -59,6 +60,14 @@ type Settings struct {
 	// Level is the coverage of the prediction intervals, in (0, 1).
 	// Zero means 0.95.
 	Level float64
+	// Start is the time of sample 0, the first sample fed after New,
+	// Reset or Warm, used only to place the model's events given as
+	// times (step(2026-03-01T08:00)) with the model's sample interval,
+	// as fit.Settings.Start places them in the record. Events given as
+	// sample indices need none (they count from sample 0). The zero time
+	// places a timed event against 0001-01-01, so a model with one needs
+	// Start.
+	Start time.Time
 }
 
 // Validate checks the settings by the library's settings rule (zero

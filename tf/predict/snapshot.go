@@ -11,7 +11,7 @@ import (
 
 // snapshotVersion is the first byte of every snapshot; a snapshot of
 // another version is refused (ErrFormat).
-const snapshotVersion = 1
+const snapshotVersion = 2
 
 // Snapshot layout, little endian: the version byte, the model's
 // fingerprint (8 bytes), the count of samples fed and the missing
@@ -21,9 +21,10 @@ const snapshotVersion = 1
 const snapshotHeader = 1 + 8 + 8 + 8
 
 // Fingerprint returns the 64-bit FNV-1a hash of what the predictor's
-// state depends on: the output and input names, every polynomial's
-// coefficients (their exact bits), the dead times, the constant, the
-// first prediction index and the pre-sample rule. sigma2 and Level do
+// state depends on: the output and input names, the samples of event
+// inputs, every polynomial's coefficients (their exact bits), the dead
+// times, the constant, the first prediction index and the pre-sample
+// rule. sigma2 and Level do
 // not enter (they change the intervals, not the state). Two predictors
 // with equal fingerprints accept each other's snapshots.
 func (p *Predictor) Fingerprint() uint64 { return p.p.fp }
@@ -48,7 +49,13 @@ func fingerprint(pl *plan) uint64 {
 	poly(pl.dc)
 	num(pl.c)
 	for _, ip := range pl.ins {
-		str(pl.names[ip.col])
+		if ip.col < len(pl.names) {
+			str(pl.names[ip.col])
+		} else {
+			e := pl.events[ip.col-len(pl.names)]
+			str(pl.evNames[ip.col-len(pl.names)])
+			b = binary.LittleEndian.AppendUint64(b, uint64(e.at))
+		}
 		poly(ip.diff)
 		poly(ip.num)
 		poly(ip.den)
@@ -103,7 +110,8 @@ func (p *Predictor) AppendBinary(b []byte) ([]byte, error) {
 // with Err ErrFormat when data is not a snapshot of this version (empty,
 // another version byte, the wrong length, or values a predictor cannot
 // hold: a position outside its ring, a count below zero, a state value
-// that is not finite, a variance sum that is not positive).
+// that is not finite, a covariance of the history after a gap that
+// cannot be one).
 func (p *Predictor) UnmarshalBinary(data []byte) error {
 	if err := p.restore(data); err != nil {
 		err.Op = "predict.Predictor.UnmarshalBinary"
@@ -155,11 +163,37 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 			return bad("state value " + strconv.Itoa(i) + " is not finite")
 		}
 	}
-	if !(st[p.p.psiS] > 0) {
-		return bad("the sum of squared psi weights is " + strconv.FormatFloat(st[p.p.psiS], 'g', -1, 64) + ", not positive")
+	if u := st[p.p.unc]; u != 0 && u != 1 {
+		return bad("the flag of an uncertain history is " + strconv.FormatFloat(u, 'g', -1, 64) + ", not 0 or 1")
+	}
+	if err := p.p.checkCov(st); err != "" {
+		return bad(err)
 	}
 	copy(p.s.st, st)
 	copy(p.s.pos, pos)
 	p.s.t, p.s.gap = int(t), int(gap)
 	return nil
+}
+
+// checkCov returns why the covariance of the history's errors in st
+// cannot be one (a variance below zero, a covariance beyond the
+// product of standard deviations, values while the flag says the
+// history is exact), or "".
+func (pl *plan) checkCov(st []float64) string {
+	m := pl.gp.m
+	P := st[pl.cov : pl.cov+m*m]
+	for i := range m {
+		for j := range m {
+			v := P[i*m+j]
+			switch {
+			case st[pl.unc] == 0 && v != 0:
+				return "the history is marked exact but has a covariance"
+			case i == j && v < 0:
+				return "a variance of the history after a gap is " + strconv.FormatFloat(v, 'g', -1, 64) + ", negative"
+			case P[j*m+i] != v || v*v > P[i*m+i]*P[j*m+j]*(1+1e-12):
+				return "the covariance of the history after a gap is not symmetric, or not a covariance"
+			}
+		}
+	}
+	return ""
 }

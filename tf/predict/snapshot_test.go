@@ -73,7 +73,7 @@ func TestSnapshotBadInput(t *testing.T) {
 		{"another MA coefficient", other, snap, predict.ErrOtherModel},
 		{"another first index", moved, snap, predict.ErrOtherModel},
 		{"empty", fresh, nil, predict.ErrFormat},
-		{"another version", fresh, append([]byte{2}, snap[1:]...), predict.ErrFormat},
+		{"another version", fresh, append([]byte{1}, snap[1:]...), predict.ErrFormat},
 		{"cut short", fresh, snap[:len(snap)-3], predict.ErrFormat},
 		{"a byte too many", fresh, append(append([]byte{}, snap...), 0), predict.ErrFormat},
 	} {

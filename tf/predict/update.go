@@ -2,6 +2,7 @@ package predict
 
 import (
 	"math"
+	"strconv"
 
 	"github.com/backshift/backshift/internal/errs"
 )
@@ -22,9 +23,13 @@ import (
 // inputs known; their standard errors grow accordingly (the psi
 // weights of theta(B)/(phi(B) D(B)) summed over the missing stretch).
 // The first output observed after a gap has the forecast error over the
-// gap as its Error (with the matching SE), and that error enters the
-// recursion as its innovation: a plain restart of the recursion, not
-// the optimal update a Kalman filter over the gap would give.
+// gap as its Error (with the matching SE); it updates the states as the
+// Kalman filter of the model does: the outputs, noise values and
+// innovations held for the gap move to their conditional means given
+// that output, and the predictor carries the remaining uncertainty, so
+// that the next errors are the filter's, with SEs above the steady one
+// until it has died out. Step.Z = Error/SE is standard normal under the
+// model throughout (see Step and the package doc).
 //
 // Errors (Op "predict.Predictor.Update"), after which the state is
 // unchanged: a *SeriesError of kind ErrLength when len(x) is not the
@@ -44,14 +49,15 @@ func (p *Predictor) Update(x []float64, y float64) (Step, error) {
 		errs.SetOp("predict.Predictor.Update", err)
 		return Step{}, err
 	}
+	x = p.withEvents(x, p.s.t)
 	if pl.fast(&p.s, y) {
 		t := p.s.t
 		if mean, se, a, ok := pl.advanceSmall(&p.s, p.tmp, x, y); ok {
 			// Built here from registers: returning a Step through one more
 			// call costs a copy through memory.
-			return Step{Point: Point{Mean: mean, SE: se, Lower: mean - pl.z*se, Upper: mean + pl.z*se}, Index: t, Error: y - mean, Innov: a}, nil
+			return Step{Point: Point{Mean: mean, SE: se, Lower: mean - pl.z*se, Upper: mean + pl.z*se}, Index: t, Error: y - mean, Innov: a, Z: (y - mean) / se}, nil
 		}
-	} else if step, ok := pl.advance(&p.s, p.tmp, x, y); ok {
+	} else if step, ok := pl.advance(&p.s, p.tmp, p.kf, x, y); ok {
 		return step, nil
 	}
 	return Step{}, &errs.SeriesError{Op: "predict.Predictor.Update", Series: pl.output, Kind: errs.ErrOverflow,
@@ -76,7 +82,7 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 	switch {
 	case math.IsNaN(y):
 		if t < pl.first {
-			return &errs.SampleError{Series: pl.output + " (missing before the first prediction, index " + itoa(pl.first) + ": the start-up samples settle the states and must be complete)", Index: t, Value: y}
+			return &startupMissing{se: &errs.SampleError{Series: pl.output, Index: t, Value: y}, first: pl.first}
 		}
 	case math.IsInf(y, 0):
 		return &errs.SampleError{Series: pl.output, Index: t, Value: y}
@@ -86,12 +92,31 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 	return nil
 }
 
+// startupMissing reports a missing output before First: a
+// *SampleError naming the output series and the index (errors.As), with
+// the reason in its message.
+type startupMissing struct {
+	se    *errs.SampleError
+	first int
+}
+
+// Error names the sample and why it must be present.
+func (e *startupMissing) Error() string {
+	return errs.Prefix(e.se.Op) + "series " + strconv.Quote(e.se.Series) + " sample " + itoa(e.se.Index) +
+		" is missing (NaN) before the first prediction, index " + itoa(e.first) + ": the start-up samples settle the states and must have their output"
+}
+
+// Unwrap returns the *SampleError.
+func (e *startupMissing) Unwrap() error { return e.se }
+
 // advance feeds the next sample (inputs x, output y or NaN for missing)
-// to the state s, using tmp as scratch. It returns the step and true,
-// or false with the state untouched when a value left float64 range. The recursions are
-// those of the fit (tf's fitWork.noiseSeries and resid), operation for
-// operation, so that the innovations equal its residuals.
-func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, bool) {
+// to the state s, using tmp and kf as scratch. It returns the step and
+// true, or false with the state untouched when a value left float64
+// range. While the held history is exact (no gap) the recursions are
+// those of the fit (fit's work.noiseSeries and resid), operation for
+// operation, so that the innovations equal its residuals; after a
+// missing output the covariance update of gap.go runs beside them.
+func (pl *plan) advance(s *state, tmp, kf []float64, x []float64, y float64) (Step, bool) {
 	st, pos, t, gap := s.st, s.pos, s.t, s.gap
 	off := st[pl.offC]
 	if t == 0 {
@@ -99,8 +124,9 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 	}
 	bad := pl.inputTerms(st, pos, tmp, t, x)
 	missing := math.IsNaN(y)
+	uncertain := t >= pl.first && (missing || gap > 0 || st[pl.unc] != 0)
 	var n, a float64
-	if !missing {
+	if !missing && !uncertain {
 		w := 0.0
 		if t >= len(pl.dc)-1 {
 			w = pl.difference(st, y)
@@ -110,21 +136,27 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 			n -= tmp[3*i+2]
 		}
 	}
-	step := Step{Index: t, Error: math.NaN(), Innov: math.NaN()}
+	step := Step{Index: t, Error: math.NaN(), Innov: math.NaN(), Z: math.NaN()}
 	step.Point = Point{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
 	if t >= pl.first {
 		nhat := pl.noisePrediction(st)
 		pred := pl.outputPrediction(st, tmp, off, nhat)
 		se := pl.se0
-		if gap > 0 {
-			se = pl.sd * math.Sqrt(st[pl.psiS])
+		if uncertain {
+			se = math.Sqrt(pl.spread(st, kf))
 		}
 		step.Point = pl.newPoint(pred, se)
-		if missing {
+		switch {
+		case missing:
 			n, y = nhat, pred
-		} else {
+		case uncertain:
+			e := y - pred
+			dn, da := pl.gain(kf, e)
+			n, a = nhat+dn, da
+			step.Error, step.Innov, step.Z = e, a, e/se
+		default:
 			a = pl.innovation(st, n)
-			step.Error, step.Innov = y-pred, a
+			step.Error, step.Innov, step.Z = y-pred, a, (y-pred)/se
 		}
 		bad |= finiteBits(pred) | finiteBits(step.Upper) | finiteBits(step.Lower)
 	}
@@ -132,12 +164,16 @@ func (pl *plan) advance(s *state, tmp []float64, x []float64, y float64) (Step, 
 	if bad>>63 != 0 {
 		return Step{}, false
 	}
+	if uncertain && !missing {
+		pl.condition(st, kf, step.Error)
+	}
 	pl.commit(st, pos, tmp, t, x, y, off, n, a)
+	if uncertain {
+		pl.settle(st, pl.shift(st, kf))
+	}
 	if missing {
 		gap++
-		pl.nextPsi(st, gap)
-	} else if gap > 0 {
-		pl.resetPsi(st)
+	} else {
 		gap = 0
 	}
 	s.t, s.gap = t+1, gap
@@ -307,32 +343,6 @@ func (pl *plan) commit(st []float64, pos []int, tmp []float64, t int, x []float6
 	push(st[pl.yh:pl.yh+len(pl.dc)-1], y)
 	push(st[pl.nh:pl.nh+len(pl.ar)-1], n)
 	push(st[pl.ah:pl.ah+len(pl.ma)-1], a)
-}
-
-// nextPsi extends the running sum of squared psi weights by psi_j, j =
-// gap: psi_j = (theta_j - sum_i c_i psi_{j-i}) / c_0 with c = phi D.
-func (pl *plan) nextPsi(st []float64, j int) {
-	h := st[pl.psiH : pl.psiH+len(pl.cc)-1]
-	v := 0.0
-	if j < len(pl.ma) {
-		v = pl.ma[j]
-	}
-	for i := 1; i < len(pl.cc); i++ {
-		v -= pl.cc[i] * h[i-1]
-	}
-	v /= pl.cc[0]
-	st[pl.psiS] += v * v
-	push(h, v)
-}
-
-// resetPsi sets the psi recursion back to psi_0 after an observed output.
-func (pl *plan) resetPsi(st []float64) {
-	st[pl.psiS] = pl.psi0 * pl.psi0
-	h := st[pl.psiH : pl.psiH+len(pl.cc)-1]
-	clear(h)
-	if len(h) > 0 {
-		h[0] = pl.psi0
-	}
 }
 
 // push shifts the history h (most recent first) by one and puts v first.

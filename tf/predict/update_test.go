@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"sync"
 	"testing"
 
@@ -105,7 +106,7 @@ func TestUpdateBadInput(t *testing.T) {
 		{"NaN input", []float64{math.NaN(), 1}, 1, predict.ErrSample, `predict.Predictor.Update: series "u1" sample 2 is NaN: samples must be finite numbers`},
 		{"huge input", []float64{1, 1e200}, 1, predict.ErrSample, `predict.Predictor.Update: series "u2" sample 2 is 1e+200, beyond the largest magnitude accepted, 1e+150 (rescale the series: change its units)`},
 		{"infinite output", []float64{1, 1}, math.Inf(1), predict.ErrSample, `predict.Predictor.Update: series "y" sample 2 is +Inf: samples must be finite numbers`},
-		{"missing output in start-up", []float64{1, 1}, math.NaN(), predict.ErrSample, `predict.Predictor.Update: series "y (missing before the first prediction, index 4: the start-up samples settle the states and must be complete)" sample 2 is NaN: samples must be finite numbers`},
+		{"missing output in start-up", []float64{1, 1}, math.NaN(), predict.ErrSample, `predict.Predictor.Update: series "y" sample 2 is missing (NaN) before the first prediction, index 4: the start-up samples settle the states and must have their output`},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			ref := p.Clone()
@@ -115,6 +116,10 @@ func TestUpdateBadInput(t *testing.T) {
 			}
 			if p.Count() != ref.Count() {
 				t.Fatalf("Count %d after a refused sample, want %d", p.Count(), ref.Count())
+			}
+			var se *predict.SampleError
+			if c.kind == predict.ErrSample && (!errors.As(err, &se) || se.Index != 2 || strings.ContainsAny(se.Series, " (")) {
+				t.Errorf("*SampleError %+v: want the bare series name and index 2", se)
 			}
 		})
 	}
@@ -261,6 +266,23 @@ func TestAllocs(t *testing.T) {
 	plan := [][]float64{{50, 51}, nil}
 	if n := testing.AllocsPerRun(100, func() { p.Forecast(dst, plan) }); n != 0 {
 		t.Errorf("Forecast: %v allocations, want 0", n)
+	}
+	// After a gap (the covariance update) and with event inputs.
+	i := 0
+	obs := func() float64 {
+		i++
+		if i%3 == 0 {
+			return math.NaN()
+		}
+		return y
+	}
+	if n := testing.AllocsPerRun(1000, func() { p.Update(x, obs()) }); n != 0 {
+		t.Errorf("Update across gaps: %v allocations per sample, want 0", n)
+	}
+	ev, _ := predict.New(mustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
+	ev.Update([]float64{1}, 1)
+	if n := testing.AllocsPerRun(1000, func() { ev.Update([]float64{1}, obs()) }); n != 0 {
+		t.Errorf("Update of a model with an event: %v allocations per sample, want 0", n)
 	}
 }
 

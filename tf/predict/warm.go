@@ -9,7 +9,8 @@ import (
 // history's first samples settle the states by the fit's start-up
 // convention (see the package doc) and its last sample is the last one
 // fed. data maps series names to samples (index 0 oldest), all of one
-// length, with the output and every input series; other series are
+// length, with the output and every input series of Inputs() (event
+// inputs are built by the predictor, not read); other series are
 // ignored. The output may be NaN (missing) after the first First
 // samples. On error the predictor is unchanged.
 //

@@ -55,13 +55,20 @@ type Part struct {
 // one: realise a fitted model's Held() form, or fix the values); an
 // input term or noise term that tf refuses (Err holds tf's error, for
 // errors.As); an output differencing whose constant term is zero; more
-// than MaxStates states.
+// than MaxStates states; an event input (step(T), pulse(T)), whose
+// indicator this package does not build (the message names the input
+// and the remedies: tf/predict builds events, or feed the indicator as
+// an input series).
 func Realise(m tf.Model) (*Realisation, error) {
 	const op = "statespace.Realise"
 	if err := m.Validate(); err != nil {
 		return nil, &ModelError{Op: op, Part: "model", Problem: err.Error(), Err: err}
 	}
 	if err := checkFree(m); err != nil {
+		err.Op = op
+		return nil, err
+	}
+	if err := checkEvents(m); err != nil {
 		err.Op = op
 		return nil, err
 	}
@@ -90,6 +97,22 @@ func (r *Realisation) checkFinite() *ModelError {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return &ModelError{Part: "matrix " + m.name, Problem: "entry " + strconv.Itoa(i) + " is " + strconv.FormatFloat(v, 'g', -1, 64) + ": the coefficients are too large for float64 once multiplied out; rescale the series (change their units)"}
 			}
+		}
+	}
+	return nil
+}
+
+// checkEvents refuses a model with an event input (step(T), pulse(T)),
+// naming it: a realisation's inputs are fed by the caller, and an
+// event's indicator depends on where the record starts, which a
+// realisation does not know.
+func checkEvents(m tf.Model) *ModelError {
+	for _, in := range m.Inputs {
+		if in.Event != nil {
+			return &ModelError{Part: "input " + strconv.Quote(in.Series),
+				Problem: "it is an event, whose indicator this package does not build (it depends on where the record starts); " +
+					"use tf/predict, which builds event indicators from the sample count, or make the event an input series " +
+					"that carries its indicator (tf.Model.EventData) and feed it"}
 		}
 	}
 	return nil

@@ -217,6 +217,7 @@ func TestRealiseBadInput(t *testing.T) {
 		{"states", mustModel(t, "y = 0.5 / (1 - 0.8 B) B^2000 x"), []string{"needs 2000 states", "MaxStates", "dead time 2000"}},
 		{"zero constant", zeroConst, []string{"differencing", "constant term", "zero"}},
 		{"overflow", huge, []string{"matrix", "too large"}},
+		{"event", mustModel(t, "y = 0.5 B x + 2 step(10) + a"), []string{`input "step(10)"`, "event", "tf/predict", "EventData"}},
 	} {
 		_, err := Realise(c.m)
 		var me *ModelError
