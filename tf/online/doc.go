@@ -73,12 +73,15 @@
 // # Safeguards
 //
 //   - Stability projection: an update that would put a root of a free
-//     denominator delta_i(B) or of the noise MA polynomial theta(B) on or
-//     inside the unit circle in B (a pole, or a noise zero, on or outside
-//     the unit circle in z) is refused, by the Schur-Cohn step-down
-//     test; the previous estimates are kept and Counts.Rejected counts
-//     it. The predictor and the gradient filters divide by these
-//     polynomials, so they stay stable.
+//     denominator delta_i(B), of the noise MA polynomial theta(B) or of
+//     the noise AR polynomial phi(B) on or inside the unit circle in B
+//     (a pole, a noise zero or a noise pole on or outside the unit
+//     circle in z) is refused, by the Schur-Cohn step-down test; the
+//     previous estimates are kept and Counts.Rejected counts it. The
+//     predictor and the gradient filters divide by delta_i and theta, so
+//     they stay stable; phi is kept stationary because a noise AR root
+//     wandering onto the unit circle lets the level and the gains
+//     trade places (integration belongs in the model's differencing).
 //   - Trace bound: P is scaled down whenever its trace exceeds
 //     Settings.MaxTrace (Counts.Bounded), against wind-up of the
 //     covariance when the inputs stop moving under forgetting.

@@ -353,8 +353,9 @@ func (e *Estimator) checkTerm(in tf.Input, den *polyMap) error {
 	return nil
 }
 
-// checkNoise refuses a zero constant term of the noise polynomials and
-// a noise MA polynomial that is not invertible.
+// checkNoise refuses a zero constant term of the noise polynomials, a
+// noise MA polynomial that is not invertible and a free noise AR
+// polynomial that is not stationary, and guards the free ones.
 func (e *Estimator) checkNoise() error {
 	if e.ar.c[0] == 0 {
 		return &ModelError{Part: "noise AR", Problem: "the constant term is zero; write it as 1 + ..."}
@@ -367,6 +368,12 @@ func (e *Estimator) checkNoise() error {
 	}
 	if e.ma.free() {
 		e.checks = append(e.checks, e.ma)
+	}
+	if e.ar.free() {
+		if !stable(e.ar.c, e.scratch(len(e.ar.c))) {
+			return &ModelError{Part: "noise AR", Problem: "the start values put a root on or outside the unit circle (not stationary); put integration in the model's differencing and start from a stationary AR polynomial (a fitted model)"}
+		}
+		e.checks = append(e.checks, e.ar)
 	}
 	return nil
 }

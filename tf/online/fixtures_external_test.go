@@ -63,8 +63,8 @@ func record(t testing.TB, m tf.Model, n int, sigma float64, seed uint64) map[str
 }
 
 // batchFit is the one place where this package's tests call the batch
-// estimation API (tf.Fit, renamed fit.Model when estimation moves to
-// tf/fit): it returns the fitted model and its parameters.
+// estimation API (fit.Model): it returns the fitted model and its
+// parameters.
 func batchFit(t testing.TB, m tf.Model, data map[string][]float64) (tf.Model, []fit.Param) {
 	t.Helper()
 	fm, ps, err := fitParams(context.Background(), m, data)

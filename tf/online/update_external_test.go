@@ -3,6 +3,8 @@ package online_test
 import (
 	"errors"
 	"math"
+	"math/rand/v2"
+	"strings"
 	"testing"
 	"time"
 
@@ -242,5 +244,49 @@ func TestUpdateBadInput(t *testing.T) {
 		if a[i] != b[i] && !(math.IsNaN(a[i].SE) && math.IsNaN(b[i].SE)) {
 			t.Errorf("after refused samples %v, clean run %v", a[i], b[i])
 		}
+	}
+}
+
+// The noise AR polynomial is guarded like the denominators: on an output
+// whose noise is a random walk (1 - B) n = a, the prediction-error
+// criterion pulls p1 of 1/(1 - p1 B) towards 1 (the unit root); no
+// estimate may reach it (|p1| < 1, the stationarity of an AR(1),
+// common practice), and the refused updates are counted. A start that
+// is not stationary is refused by New.
+func TestUpdateKeepsNoiseARStationary(t *testing.T) {
+	m := mustModel(t, "y = w0 B x + 1 / (1 - p1 B) a; where w0 ~ 0.5, p1 ~ 0.9")
+	r := rand.New(rand.NewPCG(21, 22))
+	n := 4000
+	x, y := make([]float64, n), make([]float64, n)
+	walk := 0.0
+	for i := range x {
+		x[i] = r.NormFloat64()
+		walk += r.NormFloat64()
+		y[i] = walk
+		if i > 0 {
+			y[i] += 0.5 * x[i-1]
+		}
+	}
+	e, err := online.New(m, &online.Settings{Forgetting: 0.99})
+	if err != nil {
+		t.Fatal(err)
+	}
+	data := map[string][]float64{"x": x, "y": y}
+	ps := make([]online.Param, 0, 2)
+	for i := range y {
+		feed(t, e, data, "y", i, i+1)
+		ps = e.Params(ps[:0])
+		for _, p := range ps {
+			if p.Name == "p1" && !(math.Abs(p.Value) < 1) {
+				t.Fatalf("sample %d: p1 = %v, on or outside the unit circle", i, p.Value)
+			}
+		}
+	}
+	if c := e.Counts(); c.Rejected == 0 {
+		t.Errorf("no update was refused (%+v): the random walk should push p1 to the unit circle", c)
+	}
+	bad := mustModel(t, "y = w0 B x + 1 / (1 - p1 B) a; where w0 ~ 0.5, p1 ~ 1.2")
+	if _, err := online.New(bad, nil); !errors.Is(err, tf.ErrModel) || !strings.Contains(err.Error(), "noise AR") {
+		t.Errorf("a non-stationary start: got %v", err)
 	}
 }
