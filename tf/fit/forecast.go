@@ -237,6 +237,13 @@ type Forecast struct {
 // naming the input and both ranges) and when the estimate is not sound
 // (UnsoundEstimate, see Estimate.Soundness).
 //
+// An ExactML estimate forecasts the noise from the Kalman filter's state
+// at the end of data (missing outputs skipped, also at the end):
+// the conditional mean given every observed sample and its variance,
+// which includes the uncertainty of the state where the last outputs
+// are missing; the inputs' terms and their forecast errors are added
+// as above.
+//
 // Errors (the shared shapes, Op "fit.Estimate.Forecast"): *SettingError
 // for h < 1 or h > MaxHorizon, a bad ForecastSettings.Level or an
 // unusable input model (ForecastSettings.InputModels["x"].AR, see
@@ -265,6 +272,9 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	}
 	if set.Future, err = eventFutures(e, set.Future, len(data[e.Model.Output]), h); err != nil {
 		return nil, err
+	}
+	if e.Method == ExactML {
+		return e.forecastML(data, h, set)
 	}
 	w, err := e.residualsForForecast(data)
 	if err != nil {

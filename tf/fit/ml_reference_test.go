@@ -15,20 +15,24 @@ import (
 // mlSarimaxRef is testdata/fit_ml/sarimax.json (make_sarimax.py).
 type mlSarimaxRef struct {
 	Y, X1, X2 []float64
+	FutureX1  []float64  `json:"future_x1"`
+	FutureX2  []float64  `json:"future_x2"`
 	YGaps     []*float64 `json:"y_gaps"`
 	Full      mlRefFit
 	Gaps      mlRefFit
 }
 
 type mlRefFit struct {
-	Names    []string
-	Params   []float64
-	BSE      []float64
-	LLF      float64
-	Scale    float64
-	Missing  []int
-	Smooth   []float64
-	SmoothSE []float64 `json:"smooth_se"`
+	Names      []string
+	Params     []float64
+	BSE        []float64
+	LLF        float64
+	Scale      float64
+	Missing    []int
+	Smooth     []float64
+	SmoothSE   []float64 `json:"smooth_se"`
+	Forecast   []float64
+	ForecastSE []float64 `json:"forecast_se"`
 }
 
 // nanGaps turns a JSON array with nulls into a series with NaN.
@@ -58,7 +62,10 @@ func nanGaps(p []*float64) []float64 {
 // central differences with step 1.2e-4); SSQ/N against SARIMAX's
 // concentrated scale 1e-6 relative; smoothed missing outputs 1e-4 and
 // their SEs 1e-3 relative (ours use Sigma2 = SSQ/(N - k), SARIMAX's
-// SSQ/N: rescaled).
+// SSQ/N: rescaled); forecasts 6 steps ahead with the inputs' future
+// known, from a record whose last output is missing in the gaps case
+// (get_forecast): means 1e-4 absolute, SEs 1e-3 relative, rescaled
+// likewise.
 func TestExactMLAgainstSARIMAX(t *testing.T) {
 	var ref mlSarimaxRef
 	testutil.ReadJSON(t, "testdata/fit_ml/sarimax.json", &ref)
@@ -84,11 +91,13 @@ func TestExactMLAgainstSARIMAX(t *testing.T) {
 				t.Errorf("SSQ/N %.10g, SARIMAX scale %.10g", got, c.want.Scale)
 			}
 			mlScale := math.Sqrt(float64(e.N-len(e.Params)) / float64(e.N))
+			worst := 0.0
 			for i, name := range c.want.Names {
 				p, ok := e.Param(name)
 				if !ok {
 					t.Fatalf("no parameter %s", name)
 				}
+				worst = math.Max(worst, math.Abs(p.Value-c.want.Params[i]))
 				if !scalar.EqualWithinAbs(p.Value, c.want.Params[i], 1e-4) {
 					t.Errorf("%s = %.8f, SARIMAX %.8f", name, p.Value, c.want.Params[i])
 				}
@@ -96,6 +105,7 @@ func TestExactMLAgainstSARIMAX(t *testing.T) {
 					t.Errorf("SE(%s) = %.8f, SARIMAX %.8f", name, p.SE, c.want.BSE[i])
 				}
 			}
+			t.Logf("log-likelihood %.10f (SARIMAX %.10f), largest estimate difference %.2g", e.LogLik, c.want.LLF, worst)
 			if len(e.Missing) != len(c.want.Missing) {
 				t.Fatalf("%d missing values, SARIMAX %d", len(e.Missing), len(c.want.Missing))
 			}
@@ -109,6 +119,15 @@ func TestExactMLAgainstSARIMAX(t *testing.T) {
 			for _, mv := range e.Missing {
 				if !math.IsNaN(e.Resid[mv.Index]) {
 					t.Errorf("residual at missing sample %d is %v, want NaN", mv.Index, e.Resid[mv.Index])
+				}
+			}
+			fc, err := e.Forecast(data, 6, &fit.ForecastSettings{Future: map[string][]float64{"x1": ref.FutureX1, "x2": ref.FutureX2}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for j := range fc.Mean {
+				if !scalar.EqualWithinAbs(fc.Mean[j], c.want.Forecast[j], 1e-4) || !scalar.EqualWithinRel(fc.SE[j]*mlScale, c.want.ForecastSE[j], 1e-3) {
+					t.Errorf("forecast step %d: %.6f (SE %.6f), SARIMAX %.6f (SE %.6f)", j+1, fc.Mean[j], fc.SE[j]*mlScale, c.want.Forecast[j], c.want.ForecastSE[j])
 				}
 			}
 		})
