@@ -242,11 +242,12 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 // computed (nil when it could not be), the observed information.
 func (p *mlProblem) polish(x []float64, converged bool) ([]float64, *mat.SymDense) {
 	x = append([]float64(nil), x...)
-	p.anyMA = true
-	defer func() { p.anyMA = false }()
 	var hess *mat.SymDense
 	for it := 0; it < 3; it++ {
+		// The stencil may cross the MA boundary; the steps may not.
+		p.anyMA = true
 		f0, g, h, ok := kalman.Curvature(p.negLogLik, x, kalman.CurvatureStep)
+		p.anyMA = false
 		if !ok {
 			break
 		}
