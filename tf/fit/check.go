@@ -541,7 +541,7 @@ func residualsOf(fn string, e *Estimate, data map[string][]float64) ([]float64, 
 	if e.Method == ExactML {
 		return mlResiduals(e, data)
 	}
-	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start})
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start, InputGaps: e.Conditioning.InputGaps})
 	if err != nil {
 		return nil, 0, err
 	}

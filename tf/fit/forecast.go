@@ -346,7 +346,7 @@ func (e *Estimate) checkForecast(data map[string][]float64, h int, set *Forecast
 // its conditioning (u_i, n_t, a_t at the estimates) and refuses residuals
 // that are not finite.
 func (e *Estimate) residualsForForecast(data map[string][]float64) (*work, error) {
-	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start})
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start, InputGaps: e.Conditioning.InputGaps})
 	if err != nil {
 		return nil, err
 	}

@@ -2,12 +2,15 @@ package fit
 
 import (
 	"context"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/tf"
 )
@@ -67,4 +70,157 @@ func BenchmarkModelML(b *testing.B) {
 	}
 }
 
-var _ = math.NaN
+// withGaps returns a copy of x with the samples at idx set to NaN.
+func withGaps(x []float64, idx ...int) []float64 {
+	out := append([]float64(nil), x...)
+	for _, i := range idx {
+		out[i] = math.NaN()
+	}
+	return out
+}
+
+// TestBadInputGaps: missing samples are refused with their positions
+// and the remedy, or filled by the stated rule and reported.
+func TestBadInputGaps(t *testing.T) {
+	m := twoInputModel()
+	data := twoInputData(400, 2)
+	yGap := withGaps(data["y"], 10, 11, 12, 300)
+	x1Gap := withGaps(data["x1"], 50, 51, 200)
+	cases := []struct {
+		name string
+		y, x []float64
+		set  Settings
+		want []string
+	}{
+		{"output gap, least squares", yGap, data["x1"], Settings{},
+			[]string{`series "y" sample 10 is NaN`, "4 missing (NaN) at 10..12 (3 samples), 300", "fit.ExactML"}},
+		{"input gap, no rule", data["y"], x1Gap, Settings{Method: ExactML},
+			[]string{`series "x1" sample 50 is NaN`, "3 missing (NaN) at 50..51 (2 samples), 200", "Settings.InputGaps"}},
+		{"input gap too long", data["y"], withGaps(data["x1"], 60, 61, 62, 63), Settings{InputGaps: GapFill{Rule: HoldFill}},
+			[]string{`series "x1" sample 60 is NaN`, "60..63 (4 samples) cannot be filled", "MaxLen = 3"}},
+		{"input gap at the start", data["y"], withGaps(data["x1"], 0), Settings{InputGaps: GapFill{Rule: LinearFill}},
+			[]string{"at the start of the record"}},
+		{"input gap at the end, linear", data["y"], withGaps(data["x1"], 399), Settings{InputGaps: GapFill{Rule: LinearFill}},
+			[]string{"at the end of the record"}},
+		{"bad method", data["y"], data["x1"], Settings{Method: 7}, []string{"Settings.Method"}},
+		{"bad rule", data["y"], data["x1"], Settings{InputGaps: GapFill{Rule: 9}}, []string{"Settings.InputGaps.Rule"}},
+		{"negative MaxLen", data["y"], data["x1"], Settings{InputGaps: GapFill{Rule: HoldFill, MaxLen: -1}}, []string{"Settings.InputGaps.MaxLen"}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := Model(context.Background(), m, map[string][]float64{"y": c.y, "x1": c.x, "x2": data["x2"]}, &c.set)
+			if err == nil {
+				t.Fatal("no error")
+			}
+			for _, w := range c.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q lacks %q", err, w)
+				}
+			}
+			if !hasKind(err) {
+				t.Errorf("error of no kind: %v", err)
+			}
+			var se *errs.SampleError
+			if strings.Contains(c.name, "gap") && !errors.As(err, &se) {
+				t.Errorf("no *SampleError in %v", err)
+			}
+		})
+	}
+}
+
+// TestInputGapsFilled: HoldFill and LinearFill fill short input gaps
+// with the values the rules define, report them, and leave the
+// caller's data alone.
+func TestInputGapsFilled(t *testing.T) {
+	m := twoInputModel()
+	data := twoInputData(400, 3)
+	x1 := withGaps(data["x1"], 50, 51, 200)
+	for _, c := range []struct {
+		rule FillRule
+		want []float64 // the filled values at 50, 51, 200
+	}{
+		{HoldFill, []float64{data["x1"][49], data["x1"][49], data["x1"][199]}},
+		{LinearFill, []float64{data["x1"][49] + (data["x1"][52]-data["x1"][49])/3, data["x1"][49] + 2*(data["x1"][52]-data["x1"][49])/3,
+			(data["x1"][199] + data["x1"][201]) / 2}},
+	} {
+		t.Run(c.rule.String(), func(t *testing.T) {
+			in := map[string][]float64{"y": data["y"], "x1": x1, "x2": data["x2"]}
+			set := Settings{InputGaps: GapFill{Rule: c.rule}}
+			out, _, filled, err := prepareGaps(m, in, set)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, idx := range []int{50, 51, 200} {
+				if got := out["x1"][idx]; math.Abs(got-c.want[i]) > 1e-15*math.Abs(c.want[i]) {
+					t.Errorf("x1[%d] filled with %v, want %v", idx, got, c.want[i])
+				}
+			}
+			want := []InputFill{{"x1", 50, 2, c.rule}, {"x1", 200, 1, c.rule}}
+			if len(filled) != 2 || filled[0] != want[0] || filled[1] != want[1] {
+				t.Errorf("filled %v, want %v", filled, want)
+			}
+			if !math.IsNaN(x1[50]) {
+				t.Error("the caller's input was modified")
+			}
+			e, err := Model(context.Background(), m, in, &set)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(e.Filled) != 2 || !strings.Contains(e.String(), "x1: 2 samples from index 50, "+c.rule.String()) {
+				t.Errorf("fill not reported: %v\n%s", e.Filled, e)
+			}
+			if _, err := Check(e, in, nil); err != nil {
+				t.Errorf("Check with the filled input: %v", err)
+			}
+		})
+	}
+}
+
+// TestExactMLGapsCheckForecast: an exact-likelihood fit on a record
+// with missing outputs reports its method and the missing samples,
+// and Check and Forecast work from that record. The smoothed missing
+// outputs lie within 4 SE of the values removed (a Gaussian tail of
+// 6e-5 per sample, 8 samples).
+func TestExactMLGapsCheckForecast(t *testing.T) {
+	m := twoInputModel()
+	data := twoInputData(600, 4)
+	gaps := []int{100, 101, 102, 103, 104, 350, 598, 599}
+	in := map[string][]float64{"y": withGaps(data["y"], gaps...), "x1": data["x1"], "x2": data["x2"]}
+	e, err := Model(context.Background(), m, in, &Settings{Method: ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := e.String()
+	for _, w := range []string{"estimated by exact maximum likelihood", "exact log-likelihood", "8 output samples missing", "observed information"} {
+		if !strings.Contains(s, w) {
+			t.Errorf("report lacks %q:\n%s", w, s)
+		}
+	}
+	if len(e.Missing) != len(gaps) {
+		t.Fatalf("%d missing values, want %d", len(e.Missing), len(gaps))
+	}
+	for i, mv := range e.Missing {
+		if mv.Index != gaps[i] || !(math.Abs(mv.Value-data["y"][mv.Index]) < 4*mv.SE) {
+			t.Errorf("missing %d: %.4f (SE %.4f), removed value %.4f", mv.Index, mv.Value, mv.SE, data["y"][mv.Index])
+		}
+	}
+	d, err := Check(e, in, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.Residual.Lags == 0 || math.IsNaN(d.Residual.Q) || len(d.Cross) != 2 || math.IsNaN(d.Cross[0].S) {
+		t.Errorf("checks: %+v", d.Residual)
+	}
+	if n := e.N - len(gaps); d.Cross[0].M > e.N {
+		t.Errorf("cross-check on %d samples, more than the %d observed (%d)", d.Cross[0].M, e.N, n)
+	}
+	fc, err := e.Forecast(in, 3, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The last two outputs are missing: the one-step forecast's SE
+	// exceeds sigma (the state at the end is uncertain).
+	if !(fc.SE[0] > math.Sqrt(e.Sigma2)*1.01) {
+		t.Errorf("one-step SE %.4f not above sigma %.4f with the last outputs missing", fc.SE[0], math.Sqrt(e.Sigma2))
+	}
+}
