@@ -104,3 +104,43 @@ func mcMA(t *testing.T, m tf.Model, n int, level float64) (bias, rmse [2]float64
 	}
 	return bias, rmse, over
 }
+
+// TestExactMLCoverage: the 95 % intervals Value -/+ 1.96 SE of an
+// exact-likelihood fit, SEs from the observed information, cover the
+// truth in 92-98 % of records (the requirement; the Monte Carlo
+// standard error of a coverage of 0.95 over 300 records is 1.3 %).
+// Model of our own, plantModel (fixtures_test.go: constant, a
+// first-order input with dead time 3 and a numerator zero, AR(1)
+// noise), n = 400, 300 records, fixed seed. Measured: c 0.950, w0
+// 0.950, w1 0.940, d1 0.933, p1 0.953 (at n = 200 the denominator's
+// fell to 0.920, the edge of the band: the quadratic approximation of
+// the likelihood needs a few hundred samples for a pole).
+func TestExactMLCoverage(t *testing.T) {
+	const reps, n = 300, 400
+	rng := newRand(77)
+	cover := map[string]int{}
+	fits := 0
+	for r := 0; r < reps; r++ {
+		y, x := simulatePlant(rng, n)
+		e, err := Model(context.Background(), plantModel(), map[string][]float64{"y": y, "x": x}, &Settings{Method: ExactML})
+		if err != nil {
+			continue
+		}
+		fits++
+		for _, p := range e.Params {
+			if math.Abs(p.Value-plantTruth[p.Name]) <= 1.96*p.SE {
+				cover[p.Name]++
+			}
+		}
+	}
+	if fits < reps*95/100 {
+		t.Fatalf("only %d of %d fits", fits, reps)
+	}
+	for _, name := range []string{"c", "w0", "w1", "d1", "p1"} {
+		c := float64(cover[name]) / float64(fits)
+		t.Logf("%s: coverage %.3f", name, c)
+		if c < 0.92 || c > 0.98 {
+			t.Errorf("%s: coverage %.3f outside 0.92..0.98", name, c)
+		}
+	}
+}
