@@ -263,10 +263,10 @@ func Model(ctx context.Context, m tf.Model, data map[string][]float64, s *Settin
 	if err != nil {
 		return nil, err
 	}
-	e.Filled = filled
 	if set.Settle && e.Converged && set.Method != ExactML {
 		e = settleRefit(ctx, e, data, set, w.n, w.ar.Degree())
 	}
+	e.Filled = filled
 	return finishEstimate(ctx, e)
 }
 

@@ -80,10 +80,13 @@ func newMLProblem(w *work, y []float64) (*mlProblem, error) {
 		return nil, modelErr("output differencing", err.Error())
 	}
 	p.kf = kf
-	if err := p.load(w.params()); err != nil && !errors.Is(err, errInadmissible) {
-		return nil, err
+	for t := range p.z { // the observed pattern; load writes the values
+		p.z[t] = 0
+		if math.IsNaN(y[ts+t]) {
+			p.z[t] = math.NaN()
+		}
 	}
-	st, err := kf.Run(p.z, 0, nil, nil) // the observed pattern only
+	st, err := kf.Run(p.z, 0, nil, nil)
 	if err != nil {
 		return nil, seriesErr(w.m.Output, errs.ErrShort, countObserved(y[ts:]), len(w.names)+2,
 			"observed output samples for the exact likelihood, from index "+strconv.Itoa(ts)+" on: "+err.Error())
