@@ -427,7 +427,10 @@ func (p *mlProblem) estimate(x []float64, hess *mat.SymDense, lres lm.Result, st
 	if err := p.smoothMissing(e); err != nil {
 		return nil, err
 	}
-	e.Warnings = append(warningsOf(compactResid(e), inv == nil, nil), Screen(w.m.Output, w.y[:w.n])...)
+	// The screen reads the output as given: a NaN breaks a run of equal
+	// samples and is never a spike, where the interpolated record would
+	// show a gap held flat at an end as a stuck sensor.
+	e.Warnings = append(warningsOf(compactResid(e), inv == nil, nil), Screen(w.m.Output, p.y)...)
 	return e, nil
 }
 

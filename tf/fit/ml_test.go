@@ -261,3 +261,26 @@ func TestExactMLAgreesOnLongRecord(t *testing.T) {
 	}
 	t.Logf("largest difference %.3f SE, largest SE ratio - 1 %.4f", worstD, worstS)
 }
+
+// TestExactMLGapAtEndNotStuck: a long output gap at the end of the
+// record is not reported as a stuck sensor (the screen reads the output
+// with its NaN, not the interpolated record that the start values use).
+func TestExactMLGapAtEndNotStuck(t *testing.T) {
+	data := twoInputData(400, 5)
+	y := append([]float64(nil), data["y"]...)
+	for i := 370; i < 400; i++ {
+		y[i] = math.NaN()
+	}
+	e, err := Model(context.Background(), twoInputModel(), map[string][]float64{"y": y, "x1": data["x1"], "x2": data["x2"]}, &Settings{Method: ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range e.Warnings {
+		if w.Kind == StuckOutput {
+			t.Errorf("stuck-output warning for a gap: %s", w.Message)
+		}
+	}
+	if len(e.Missing) != 30 {
+		t.Errorf("%d missing values, want 30", len(e.Missing))
+	}
+}
