@@ -432,7 +432,7 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 func (p *mlProblem) hessian(x []float64) (f0 float64, g []float64, H *mat.SymDense, ok bool) {
 	p.anyMA = true
 	defer func() { p.anyMA = false }()
-	f0, g, h, ok := kalman.Curvature(p.negLogLik, x, hessStep)
+	f0, g, h, ok := kalman.Curvature(p.negLogLik, x, kalman.Steps(x, hessStep))
 	if !ok {
 		return f0, g, nil, false
 	}

@@ -9,9 +9,19 @@ import "math"
 // curvature of a log-likelihood for records up to 10^7 samples.
 const CurvatureStep = 0x1p-13
 
+// Steps returns the relative steps h_k = rel max(|x_k|, 1) of central
+// differences for parameters of order one (with rel = CurvatureStep).
+func Steps(x []float64, rel float64) []float64 {
+	h := make([]float64, len(x))
+	for i, v := range x {
+		h[i] = rel * math.Max(math.Abs(v), 1)
+	}
+	return h
+}
+
 // Curvature returns f at x, its central-difference gradient and its
-// central-difference Hessian (row-major, len(x)^2) with steps h_k =
-// step max(|x_k|, 1):
+// central-difference Hessian (row-major, len(x)^2) with the steps h
+// (one per parameter, positive; Steps gives the usual ones):
 //
 //	g_i  = (f(+i) - f(-i)) / (2 h_i)
 //	H_ii = (f(+i) - 2 f0 + f(-i)) / h_i^2
@@ -21,14 +31,10 @@ const CurvatureStep = 0x1p-13
 // 1 + 2k + k(k-1) evaluations for k parameters. It is the observed
 // information of an exact-likelihood fit when f is minus the
 // log-likelihood. ok is false when f is not finite at a point of the
-// stencil. x is not modified; f must not keep its argument.
-func Curvature(f func(x []float64) float64, x []float64, step float64) (f0 float64, g, H []float64, ok bool) {
+// stencil. x and h are not modified; f must not keep its argument.
+func Curvature(f func(x []float64) float64, x, h []float64) (f0 float64, g, H []float64, ok bool) {
 	k := len(x)
 	f0 = f(x)
-	h := make([]float64, k)
-	for i := range h {
-		h[i] = step * math.Max(math.Abs(x[i]), 1)
-	}
 	xt := append([]float64(nil), x...)
 	at := func(i int, si float64, j int, sj float64) float64 {
 		copy(xt, x)

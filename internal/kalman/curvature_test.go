@@ -24,7 +24,7 @@ func TestCurvatureQuadratic(t *testing.T) {
 		return s
 	}
 	x := []float64{0.3, -1.7, 12}
-	f0, g, H, ok := Curvature(f, x, CurvatureStep)
+	f0, g, H, ok := Curvature(f, x, Steps(x, CurvatureStep))
 	if !ok || f0 != f(x) {
 		t.Fatalf("ok %v, f0 %v", ok, f0)
 	}
@@ -40,7 +40,7 @@ func TestCurvatureQuadratic(t *testing.T) {
 			t.Errorf("g[%d] = %v, want %v", i, g[i], gi)
 		}
 	}
-	if _, _, _, ok := Curvature(func([]float64) float64 { return math.Inf(1) }, x, CurvatureStep); ok {
+	if _, _, _, ok := Curvature(func([]float64) float64 { return math.Inf(1) }, x, Steps(x, CurvatureStep)); ok {
 		t.Error("ok for a function that is not finite")
 	}
 }

@@ -56,8 +56,8 @@ func ExampleModel_exactML() {
 	fmt.Printf("filled: %s, %d sample at %d, %s\n", f.Series, f.Len, f.Index, f.Rule)
 	// Output:
 	// method: exact maximum likelihood
-	// c  20.0023 +- 0.0700
-	// w0  0.8017 +- 0.0028
+	// c  20.0023 +- 0.0711
+	// w0  0.8017 +- 0.0033
 	// d1  0.8999 +- 0.0004
 	// t1  0.5142 +- 0.0405
 	// p1  0.5812 +- 0.0394
