@@ -166,7 +166,7 @@
 // small fraction of a standard error (the conditioning touches only the
 // first p + q samples of N), least squares costs less (its Jacobian is
 // analytic and it needs no Hessian; exact ML of a two-input ARMA(1,1)
-// model at n = 10^5 takes 1.6 to 2.5 times as long (BenchmarkModelML),
+// model at n = 10^5 takes 1.6 to 2.8 times as long (BenchmarkModelML),
 // its least-squares start on the last samples included), and its residuals
 // are defined without a state-space model. Choose ExactML for short
 // records, for noise near the invertibility boundary (on records of 50
