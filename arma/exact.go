@@ -64,7 +64,7 @@ const startMax = 20000
 // The truncation error is O(h^2), about 1.5e-8 relative; rounding adds
 // about eps |logL| / h^2, below 1e-7 of the curvature for series up to
 // 10^7 samples.
-const hessStep = 0x1p-13
+const hessStep = kalman.CurvatureStep
 
 // mlProblem is the exact likelihood over the parameter vector of an
 // engine, in its working units. Used by one goroutine.
@@ -425,55 +425,18 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 }
 
 // hessian returns minus the log-likelihood f0 at x and its
-// central-difference gradient and Hessian there, with steps h_k = hessStep max(|x_k|, 1):
-//
-//	g_i  = (f(+i) - f(-i)) / (2 h_i)
-//	H_ii = (f(+i) - 2 f0 + f(-i)) / h_i^2
-//	H_ij = (f(+i+j) - f(+i) - f(+j) + 2 f0 - f(-i) - f(-j) + f(-i-j)) / (2 h_i h_j)
-//
-// (Abramowitz & Stegun 1964, 25.3.23 and 25.3.27; all O(h^2)), 1 + 2np
-// + np(np-1) evaluations. ok is false when a point of the stencil cannot
-// be evaluated.
+// central-difference gradient and Hessian there (kalman.Curvature with
+// steps h_k = hessStep max(|x_k|, 1), every point of the stencil
+// allowed a non-invertible MA part). ok is false when a point of the
+// stencil cannot be evaluated.
 func (p *mlProblem) hessian(x []float64) (f0 float64, g []float64, H *mat.SymDense, ok bool) {
 	p.anyMA = true
 	defer func() { p.anyMA = false }()
-	np := len(x)
-	f0 = p.negLogLik(x)
-	h := make([]float64, np)
-	for k := range h {
-		h[k] = hessStep * math.Max(math.Abs(x[k]), 1)
+	f0, g, h, ok := kalman.Curvature(p.negLogLik, x, kalman.Steps(x, hessStep))
+	if !ok {
+		return f0, g, nil, false
 	}
-	xt := append([]float64(nil), x...)
-	at := func(i int, si float64, j int, sj float64) float64 {
-		copy(xt, x)
-		xt[i] += si * h[i]
-		if j >= 0 {
-			xt[j] += sj * h[j]
-		}
-		return p.negLogLik(xt)
-	}
-	fp, fm := make([]float64, np), make([]float64, np)
-	g = make([]float64, np)
-	H = mat.NewSymDense(np, nil)
-	for i := 0; i < np; i++ {
-		fp[i], fm[i] = at(i, 1, -1, 0), at(i, -1, -1, 0)
-		g[i] = (fp[i] - fm[i]) / (2 * h[i])
-		H.SetSym(i, i, (fp[i]-2*f0+fm[i])/(h[i]*h[i]))
-	}
-	for i := 0; i < np; i++ {
-		for j := i + 1; j < np; j++ {
-			v := at(i, 1, j, 1) - fp[i] - fp[j] + 2*f0 - fm[i] - fm[j] + at(i, -1, j, -1)
-			H.SetSym(i, j, v/(2*h[i]*h[j]))
-		}
-	}
-	for i := 0; i < np; i++ {
-		for j := i; j < np; j++ {
-			if v := H.At(i, j); math.IsNaN(v) || math.IsInf(v, 0) {
-				return f0, g, nil, false
-			}
-		}
-	}
-	return f0, g, H, !math.IsInf(f0, 0)
+	return f0, g, mat.NewSymDense(len(x), h), true
 }
 
 // polish takes Newton steps with the numerical Hessian from the

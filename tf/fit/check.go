@@ -140,6 +140,15 @@ const (
 // with a verdict per check and overall. The overall verdict (Pass) also
 // requires a sound estimate (see Soundness). data is not modified.
 //
+// For an ExactML estimate the residuals are the standardised
+// innovations of the Kalman filter recomputed on data (NaN where the
+// output is missing). The checks use the available ones only: the
+// missing samples are left out and the rest taken in order as one
+// series (the autocorrelations, Ljung-Box and the cross-correlations,
+// where the prewhitened input is left out at the same samples), a
+// treatment that is exact for white residuals and, for a few short
+// gaps, changes the autocorrelation at a lag by O(gaps/N).
+//
 // Errors (the shared shapes, Op "fit.Check"): *ModelError for a nil
 // estimate or a coefficient that is not finite; *SettingError for a bad
 // setting (CheckSettings.Lags, CrossLags, Alpha); the *SeriesError and
@@ -173,7 +182,7 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	if err != nil {
 		return nil, err
 	}
-	a := resid[first:]
+	a := available(resid[first:])
 	noisePar := 0
 	if e.Model.Noise != nil {
 		noisePar = len(freeNames(e.Model.Noise.MA, e.Model.Noise.AR))
@@ -190,8 +199,13 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	if kx <= 0 {
 		kx = lags
 	}
+	// The inputs as the fit saw them (gaps filled by its rule).
+	xdata, _, _, err := prepareGaps(e.Model, data, Settings{Method: e.Method, InputGaps: e.Conditioning.InputGaps})
+	if err != nil {
+		return nil, err
+	}
 	for _, in := range e.Model.Inputs {
-		cc, err := crossCheck(in, data[in.Series], resid, first, kx, set.Alpha)
+		cc, err := crossCheck(in, xdata[in.Series], resid, first, kx, set.Alpha)
 		if err != nil {
 			return nil, err
 		}
@@ -268,9 +282,10 @@ func crossCheck(in tf.Input, x, resid []float64, first, kx int, alpha float64) (
 		return CrossCheck{}, &StageError{Stage: stage, Err: err}
 	}
 	t0 := max(start, first)
-	m := len(x) - t0
+	ax, ra := pairsAvailable(alphaX[t0:], resid[t0:])
+	m := len(ax)
 	k := min(kx, m-2)
-	c, err := ccf.Cross(alphaX[t0:], resid[t0:], k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
+	c, err := ccf.Cross(ax, ra, k, &ccf.Settings{Names: [2]string{in.Series + " prewhitened", "residuals"}})
 	if err != nil {
 		return CrossCheck{}, &StageError{Stage: fmt.Sprintf("cross-correlating the residuals with input %q", in.Series), Err: err}
 	}
@@ -543,7 +558,10 @@ func residualsOf(fn string, e *Estimate, data map[string][]float64) ([]float64, 
 	if err := condCheck(e, data); err != nil {
 		return nil, 0, err
 	}
-	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start})
+	if e.Method == ExactML {
+		return mlResiduals(e, data)
+	}
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start, InputGaps: e.Conditioning.InputGaps})
 	if err != nil {
 		return nil, 0, err
 	}

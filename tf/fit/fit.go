@@ -63,6 +63,18 @@ type Settings struct {
 	// By default such series are an error (ExtraSeries), because they
 	// usually mean a misspelt input name.
 	IgnoreExtra bool
+	// Method is the estimation method: LeastSquares (the zero value,
+	// conditional least squares) or ExactML (exact maximum likelihood,
+	// which also accepts missing output samples). The package doc's
+	// Methods section says why least squares stays the default. ExactML
+	// ignores First and Settle (its likelihood has no start-up
+	// transient to leave out: it starts the noise from its stationary
+	// distribution).
+	Method Method
+	// InputGaps fills missing (NaN) input samples by a stated rule; the
+	// zero value refuses them with their positions. The estimate
+	// reports every gap filled (Estimate.Filled).
+	InputGaps GapFill
 }
 
 // MaxMagnitude is the largest sample magnitude Model accepts (1e150):
@@ -98,7 +110,10 @@ func (s Settings) validate() error {
 	if !(s.Tol < 1) {
 		return errs.Setting("Settings.Tol", errs.Num(s.Tol), "must be below 1 (a relative reduction of the sum of squares; 0 means the default)")
 	}
-	return nil
+	if s.Method != LeastSquares && s.Method != ExactML {
+		return settingErr("Settings.Method", strconv.Itoa(int(s.Method)), "must be fit.LeastSquares (0, the default) or fit.ExactML")
+	}
+	return s.InputGaps.validate()
 }
 
 // Conditioning states the start-up convention of the conditional least
@@ -123,6 +138,9 @@ type Conditioning struct {
 	// model's events given as times; Check and Forecast place them
 	// again with it.
 	Start time.Time
+	// InputGaps is Settings.InputGaps, the rule that filled missing
+	// input samples; Check and Forecast fill their data with it.
+	InputGaps GapFill
 }
 
 // Param is one estimated parameter: its name in the model, the
@@ -132,8 +150,17 @@ type Conditioning struct {
 // too).
 type Param = est.Param
 
-// Estimate is the result of Model.
+// Estimate is the result of Model. For an ExactML fit, SSQ is the sum
+// of the squared standardised innovations v_t^2/F_t (F_t the one-step
+// prediction variance in units of sigma^2), N the number of observed
+// samples in the likelihood, Conditioning.First the first of them,
+// Resid the standardised innovations v_t/sqrt(F_t) (in the output's
+// units; NaN where the output is missing and before First), LogLik the
+// exact log-likelihood and Cov the inverse of the observed information
+// (see Methods in the package doc).
 type Estimate struct {
+	// Method is the estimation method used (Settings.Method).
+	Method Method
 	// Model is the model with every free coefficient set to its estimate
 	// (still marked free, so that it prints as a spec with the estimates
 	// as start values, "~", and can be refitted from them); Held gives
@@ -172,6 +199,14 @@ type Estimate struct {
 	Reason    string
 	// Warnings lists problems found with the estimates; empty when none.
 	Warnings []Warning
+	// Missing holds, for an ExactML fit, the smoothed estimate of each
+	// missing (NaN) output sample with its standard error, in index
+	// order; empty when none is missing.
+	Missing []MissingValue
+	// Filled lists the input gaps filled by Settings.InputGaps (series,
+	// first index, length, rule), by input name then index; empty when
+	// none was.
+	Filled []InputFill
 }
 
 // Held returns a copy of the fitted model with every coefficient held at
@@ -218,14 +253,21 @@ func Model(ctx context.Context, m tf.Model, data map[string][]float64, s *Settin
 	if err != nil {
 		return nil, err
 	}
-	e, err := w.run(ctx, set)
+	var e *Estimate
+	if set.Method == ExactML {
+		e, err = fitML(ctx, w, w.obs, set)
+	} else {
+		e, err = w.run(ctx, set)
+	}
+	filled := w.filled
 	w.release()
 	if err != nil {
 		return nil, err
 	}
-	if set.Settle && e.Converged {
+	if set.Settle && e.Converged && set.Method != ExactML {
 		e = settleRefit(ctx, e, data, set, w.n, w.ar.Degree())
 	}
+	e.Filled = filled
 	return finishEstimate(ctx, e)
 }
 

@@ -227,6 +227,13 @@ type Forecast struct {
 // naming the input and both ranges) and when the estimate is not sound
 // (UnsoundEstimate, see Estimate.Soundness).
 //
+// An ExactML estimate forecasts the noise from the Kalman filter's state
+// at the end of data (missing outputs skipped, also at the end):
+// the conditional mean given every observed sample and its variance,
+// which includes the uncertainty of the state where the last outputs
+// are missing; the inputs' terms and their forecast errors are added
+// as above.
+//
 // Errors (the shared shapes, Op "fit.Estimate.Forecast"): *SettingError
 // for h < 1 or h > MaxHorizon, a bad ForecastSettings.Level or an
 // unusable input model (ForecastSettings.InputModels["x"].AR, see
@@ -255,6 +262,9 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	}
 	if set.Future, err = eventFutures(e, set.Future, len(data[e.Model.Output]), h); err != nil {
 		return nil, err
+	}
+	if e.Method == ExactML {
+		return e.forecastML(data, h, set)
 	}
 	w, err := e.residualsForForecast(data)
 	if err != nil {
@@ -326,7 +336,7 @@ func (e *Estimate) checkForecast(data map[string][]float64, h int, set *Forecast
 // its conditioning (u_i, n_t, a_t at the estimates) and refuses residuals
 // that are not finite.
 func (e *Estimate) residualsForForecast(data map[string][]float64) (*work, error) {
-	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start})
+	w, err := newWork(e.Model, data, Settings{IgnoreExtra: true, First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample, Start: e.Conditioning.Start, InputGaps: e.Conditioning.InputGaps})
 	if err != nil {
 		return nil, err
 	}

@@ -26,6 +26,7 @@ func (e *Estimate) String() string {
 	var b strings.Builder
 	w := e.writeSearch(&b)
 	e.writeCriteria(&b)
+	e.writeGaps(&b)
 	e.writeCorrelations(&b, w)
 	for _, in := range e.Model.Inputs {
 		e.writeInput(&b, in)
@@ -38,9 +39,13 @@ func (e *Estimate) String() string {
 // of estimates; it returns the width of the name column.
 func (e *Estimate) writeSearch(b *strings.Builder) int {
 	n := e.N + e.Conditioning.First
-	fmt.Fprintf(b, "Model of %s with coefficients estimated by conditional least squares\n", e.Model.Output)
+	fmt.Fprintf(b, "Model of %s with coefficients estimated by %s\n", e.Model.Output, e.Method)
 	fmt.Fprintf(b, "  as a spec:  %s\n", e.Model.String()) // full precision: the line reloads as the fitted model
-	fmt.Fprintf(b, "  record:     %d samples; the sum of squares counts the %d residuals from index %d on\n", n, e.N, e.Conditioning.First)
+	if e.Method == ExactML {
+		e.writeLikelihoodRecord(b)
+	} else {
+		fmt.Fprintf(b, "  record:     %d samples; the sum of squares counts the %d residuals from index %d on\n", n, e.N, e.Conditioning.First)
+	}
 	status := "converged"
 	if !e.Converged {
 		status = "NOT converged"
@@ -65,7 +70,11 @@ func (e *Estimate) writeCriteria(b *strings.Builder) {
 	k := len(e.Params)
 	fmt.Fprintf(b, "\n  noise variance %s from %d residuals less %d coefficients (sum of squares %s / %d)\n",
 		formatSig(e.Sigma2, 5), e.N, k, formatSig(e.SSQ, 6), e.N-k)
-	fmt.Fprintf(b, "  conditional log-likelihood %s; information criteria AIC %s, BIC %s\n", formatFixed(e.LogLik, 2), formatFixed(e.AIC, 2), formatFixed(e.BIC, 2))
+	kind := "conditional"
+	if e.Method == ExactML {
+		kind = "exact"
+	}
+	fmt.Fprintf(b, "  %s log-likelihood %s; information criteria AIC %s, BIC %s\n", kind, formatFixed(e.LogLik, 2), formatFixed(e.AIC, 2), formatFixed(e.BIC, 2))
 }
 
 // writeCorrelations writes the lower triangle of the correlations of the

@@ -63,7 +63,7 @@ func (w *work) condition(set Settings, n int) error {
 	}
 	p := w.ar.Degree()
 	t0 := max(ts+p, set.First)
-	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample, Start: set.Start}
+	w.cond = Conditioning{OutputDiff: d, NoiseStart: ts, First: t0, ZeroPreSample: set.ZeroPreSample, Start: set.Start, InputGaps: set.InputGaps}
 	w.n = n
 	if nres := n - t0; nres <= len(w.names) {
 		return w.tooFewResiduals(nres)
@@ -1159,6 +1159,11 @@ type conditionedData struct {
 	// maFixedOne: theta(B) is 1 as written (no factors), so a_t is a
 	// moving average of n_t and no column needs a_t.
 	maFixedOne bool
+	// obs is the output as given, NaN where missing, for an ExactML fit
+	// (y then holds it with the gaps interpolated, for start values).
+	obs []float64
+	// filled lists the input gaps filled by Settings.InputGaps.
+	filled []InputFill
 }
 
 // evalBuffers holds what the evaluations write: the noise polynomials'
@@ -1195,6 +1200,10 @@ func newWork(m tf.Model, data map[string][]float64, set Settings) (*work, error)
 	if err != nil {
 		return nil, err
 	}
+	data, obs, filled, err := prepareGaps(m, data, set)
+	if err != nil {
+		return nil, err
+	}
 	y, err := checkData(m, data, set)
 	if err != nil {
 		return nil, err
@@ -1212,6 +1221,10 @@ func newWork(m tf.Model, data map[string][]float64, set Settings) (*work, error)
 			", there is nothing to explain; check that the right column was read")
 	}
 	w := &work{binding: b}
+	w.filled = filled
+	if set.Method == ExactML {
+		w.obs = obs
+	}
 	if m.Noise != nil {
 		w.ma, w.ar = w.m.Noise.MA, w.m.Noise.AR
 	}
