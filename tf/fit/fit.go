@@ -111,7 +111,7 @@ func (s Settings) validate() error {
 		return errs.Setting("Settings.Tol", errs.Num(s.Tol), "must be below 1 (a relative reduction of the sum of squares; 0 means the default)")
 	}
 	if s.Method != LeastSquares && s.Method != ExactML {
-		return settingErr("Settings.Method", strconv.Itoa(int(s.Method)), "must be fit.LeastSquares (0, the default) or fit.ExactML")
+		return errs.Setting("Settings.Method", strconv.Itoa(int(s.Method)), "must be fit.LeastSquares (0, the default) or fit.ExactML")
 	}
 	return s.InputGaps.validate()
 }

@@ -77,7 +77,7 @@ func newMLProblem(w *work, y []float64) (*mlProblem, error) {
 		v: make([]float64, n), s: make([]float64, n), z: make([]float64, n-ts)}
 	kf, err := kalman.New([]float64{1}, []float64{1}, p.dc)
 	if err != nil {
-		return nil, modelErr("output differencing", err.Error())
+		return nil, errs.Model("output differencing", err.Error())
 	}
 	p.kf = kf
 	for t := range p.z { // the observed pattern; load writes the values
@@ -88,12 +88,12 @@ func newMLProblem(w *work, y []float64) (*mlProblem, error) {
 	}
 	st, err := kf.Run(p.z, 0, nil, nil)
 	if err != nil {
-		return nil, seriesErr(w.m.Output, errs.ErrShort, countObserved(y[ts:]), len(w.names)+2,
+		return nil, errs.Series(w.m.Output, errs.ErrShort, countObserved(y[ts:]), len(w.names)+2,
 			"observed output samples for the exact likelihood, from index "+strconv.Itoa(ts)+" on: "+err.Error())
 	}
 	p.nob = st.NObs
 	if p.nob <= len(w.names)+1 {
-		return nil, seriesErr(w.m.Output, errs.ErrShort, p.nob, len(w.names)+2,
+		return nil, errs.Series(w.m.Output, errs.ErrShort, p.nob, len(w.names)+2,
 			"observed output samples in the exact likelihood (from index "+strconv.Itoa(ts+st.Start)+" on), one more than the free coefficients and sigma^2")
 	}
 	return p, nil
@@ -374,12 +374,12 @@ func fitML(ctx context.Context, w *work, y []float64, set Settings) (*Estimate, 
 	p.shrinkStart(x0)
 	p.keepMA = len(w.ma.Coeffs()) > 1 && maxZ(w.ma.Coeffs()) < 1
 	if _, err := p.stats(x0, nil); err != nil {
-		return nil, modelErr("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" cannot be computed at the least-squares start: "+err.Error())
+		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" cannot be computed at the least-squares start: "+err.Error())
 	}
 	prob := lm.Problem{M: p.nob, N: len(w.names), Eval: p.eval, WritesAll: true}
 	lres, err := lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: maxIter, FTol: set.Tol})
 	if err != nil {
-		return nil, modelErr("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" is not finite at the start values")
+		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" is not finite at the start values")
 	}
 	x, hess := p.polish(lres.X, lres.Reason.Converged(), lres)
 	e, err := p.estimate(x, hess, lres, start, tried)
@@ -430,7 +430,7 @@ func (p *mlProblem) estimate(x []float64, hess *mat.SymDense, lres lm.Result, st
 	std := make([]float64, len(p.z))
 	st, err := p.stats(x, std)
 	if err != nil {
-		return nil, modelErr("fit of output "+strconv.Quote(w.m.Output), "the exact likelihood cannot be computed at the estimates: "+err.Error())
+		return nil, errs.Model("fit of output "+strconv.Quote(w.m.Output), "the exact likelihood cannot be computed at the estimates: "+err.Error())
 	}
 	cond := w.cond
 	cond.First = p.ts + st.Start
@@ -506,7 +506,7 @@ func (p *mlProblem) smoothMissing(e *Estimate) error {
 	}
 	fill, vr, _, err := p.kf.Smooth(p.z, p.mu())
 	if err != nil {
-		return modelErr("fit of output "+strconv.Quote(p.w.m.Output), "the smoother failed at the estimates: "+err.Error())
+		return errs.Model("fit of output "+strconv.Quote(p.w.m.Output), "the smoother failed at the estimates: "+err.Error())
 	}
 	e.Missing = make([]MissingValue, len(idx))
 	for i, t := range idx {

@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
@@ -27,7 +28,7 @@ func ExampleModel_exactML() {
 		}
 		power[i] = level
 	}
-	data, err := simulateRecord("temp = 20 + 0.8 / (1 - 0.9 B) B^2 power + (1 + 0.5 B) / (1 - 0.6 B) a",
+	data, err := fixture.SimulateRecord("temp = 20 + 0.8 / (1 - 0.9 B) B^2 power + (1 + 0.5 B) / (1 - 0.6 B) a",
 		map[string][]float64{"power": power}, &tf.SimSettings{Seed1: 7, Seed2: 8, Sigma: 0.2, BurnIn: 100})
 	if err != nil {
 		fmt.Println(err)

@@ -66,7 +66,7 @@ func (g GapFill) maxLen() int {
 // validate checks the rule and the length (settings rule).
 func (g GapFill) validate() error {
 	if g.Rule < NoFill || g.Rule > LinearFill {
-		return settingErr("Settings.InputGaps.Rule", strconv.Itoa(int(g.Rule)), "must be NoFill, HoldFill or LinearFill")
+		return errs.Setting("Settings.InputGaps.Rule", strconv.Itoa(int(g.Rule)), "must be NoFill, HoldFill or LinearFill")
 	}
 	return errs.Count("", "Settings.InputGaps.MaxLen", g.MaxLen, "0 means 3 samples")
 }
@@ -180,7 +180,7 @@ func prepareGaps(m tf.Model, data map[string][]float64, set Settings) (out map[s
 			"; conditional least squares needs every output sample: set fit.Settings.Method to fit.ExactML, whose Kalman filter skips missing outputs exactly")
 	}
 	if len(gs) == 1 && gs[0].n == len(y) {
-		return nil, nil, nil, seriesErr(m.Output, errs.ErrShort, 0, 2, "every output sample is missing (NaN)")
+		return nil, nil, nil, errs.Series(m.Output, errs.ErrShort, 0, 2, "every output sample is missing (NaN)")
 	}
 	put(m.Output, interpolateGaps(y, gs))
 	return out, y, filled, nil

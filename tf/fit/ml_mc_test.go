@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -42,8 +43,8 @@ import (
 func TestExactMLMonteCarlo(t *testing.T) {
 	for _, withC := range []bool{true, false} {
 		m := tf.Model{Output: "y",
-			Inputs: []tf.Input{{Series: "x", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0, 0)))}},
-			Noise:  &arma.Noise{MA: oneMinus("t1", 1)}}
+			Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0)))}},
+			Noise:  &arma.Noise{MA: fixture.OneMinus("t1", 1)}}
 		level := 0.0
 		if withC {
 			m.Const = &tf.Coef{Name: "c", Free: true}
@@ -71,11 +72,11 @@ func TestExactMLMonteCarlo(t *testing.T) {
 // count of estimates above 1, per method (CLS, ML).
 func mcMA(t *testing.T, m tf.Model, n int, level float64) (bias, rmse [2]float64, over [2]int) {
 	const reps = 200
-	rng := newRand(uint64(4000 + n))
+	rng := fixture.NewRand(uint64(4000 + n))
 	var cnt [2]int
 	for r := 0; r < reps; r++ {
-		x := simNoise(rng, n, []float64{1}, []float64{1}, 1)
-		e := simNoise(rng, n, []float64{1}, []float64{1, -0.9}, 1)
+		x := fixture.Noise(rng, n, []float64{1}, []float64{1}, 1)
+		e := fixture.Noise(rng, n, []float64{1}, []float64{1, -0.9}, 1)
 		y := make([]float64, n)
 		for i := range y {
 			y[i] = level + 0.5*x[i] + e[i]
@@ -116,19 +117,20 @@ func mcMA(t *testing.T, m tf.Model, n int, level float64) (bias, rmse [2]float64
 // fell to 0.920, the edge of the band: the quadratic approximation of
 // the likelihood needs a few hundred samples for a pole).
 func TestExactMLCoverage(t *testing.T) {
+	truth := fixture.PlantTruth()
 	const reps, n = 300, 400
-	rng := newRand(77)
+	rng := fixture.NewRand(77)
 	cover := map[string]int{}
 	fits := 0
 	for r := 0; r < reps; r++ {
-		y, x := simulatePlant(rng, n)
-		e, err := Model(context.Background(), plantModel(), map[string][]float64{"y": y, "x": x}, &Settings{Method: ExactML})
+		y, x := fixture.SimulatePlant(rng, n)
+		e, err := Model(context.Background(), fixture.PlantModel(), map[string][]float64{"y": y, "x": x}, &Settings{Method: ExactML})
 		if err != nil {
 			continue
 		}
 		fits++
 		for _, p := range e.Params {
-			if math.Abs(p.Value-plantTruth[p.Name]) <= 1.96*p.SE {
+			if math.Abs(p.Value-truth[p.Name]) <= 1.96*p.SE {
 				cover[p.Name]++
 			}
 		}

@@ -14,6 +14,7 @@ import (
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/tf"
 )
@@ -24,11 +25,11 @@ import (
 //	y = c + w1/(1 - d1 B) B^2 x1 + w2/(1 - d2 B) B x2 + (1 + t1 B)/(1 - p1 B) a.
 func twoInputModel() tf.Model {
 	c := tf.Coef{Name: "c", Free: true}
-	one := func(name string) tf.Poly { return mkPoly(mkFactor(mkTerm(false, name, 0, 0))) }
+	one := func(name string) tf.Poly { return fixture.Poly(fixture.Factor(fixture.Term(false, name, 0, 0))) }
 	return tf.Model{Output: "y", Const: &c,
-		Inputs: []tf.Input{{Series: "x1", Num: one("w1"), Den: oneMinus("d1", 1), Delay: 2},
-			{Series: "x2", Num: one("w2"), Den: oneMinus("d2", 1), Delay: 1}},
-		Noise: &arma.Noise{AR: oneMinus("p1", 1), MA: mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(false, "t1", 0, 1)))}}
+		Inputs: []tf.Input{{Series: "x1", Num: one("w1"), Den: fixture.OneMinus("d1", 1), Delay: 2},
+			{Series: "x2", Num: one("w2"), Den: fixture.OneMinus("d2", 1), Delay: 1}},
+		Noise: &arma.Noise{AR: fixture.OneMinus("p1", 1), MA: fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(false, "t1", 0, 1)))}}
 }
 
 // twoInputData simulates twoInputModel with c = 1, w1 = 0.8, d1 = 0.6,
@@ -36,13 +37,13 @@ func twoInputModel() tf.Model {
 // inputs (0.5 and 0.8), settled at the start (long burn-in).
 func twoInputData(n int, seed uint64) map[string][]float64 {
 	rng := rand.New(rand.NewPCG(seed, 11))
-	x1 := simAR1(rng, n, 0.5)
-	x2 := simAR1(rng, n, 0.8)
+	x1 := fixture.AR1(rng, n, 0.5)
+	x2 := fixture.AR1(rng, n, 0.8)
 	u1 := make([]float64, n)
 	u2 := make([]float64, n)
 	filter.Run(u1[2:], []float64{0.8}, []float64{1, -0.6}, x1[:n-2])
 	filter.Run(u2[1:], []float64{-0.5}, []float64{1, -0.3}, x2[:n-1])
-	e := simNoise(rng, n, []float64{1, -0.7}, []float64{1, 0.4}, 0.5)
+	e := fixture.Noise(rng, n, []float64{1, -0.7}, []float64{1, 0.4}, 0.5)
 	y := make([]float64, n)
 	for i := range y {
 		y[i] = 1 + u1[i] + u2[i] + e[i]
@@ -346,8 +347,8 @@ func TestExactMLCurvatureSteps(t *testing.T) {
 		power[i] = level
 	}
 	c := tf.Coef{Name: "c", Free: true}
-	m := tf.Model{Output: "temp", Const: &c, Inputs: []tf.Input{{Series: "power", Num: mkPoly(mkFactor(mkTerm(false, "w0", 0.8, 0))), Den: oneMinus("d1", 1), Delay: 2}},
-		Noise: &arma.Noise{AR: oneMinus("p1", 1), MA: mkPoly(mkFactor(mkTerm(false, "", 1, 0), mkTerm(false, "t1", 0.5, 1)))}}
+	m := tf.Model{Output: "temp", Const: &c, Inputs: []tf.Input{{Series: "power", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0.8, 0))), Den: fixture.OneMinus("d1", 1), Delay: 2}},
+		Noise: &arma.Noise{AR: fixture.OneMinus("p1", 1), MA: fixture.Poly(fixture.Factor(fixture.Term(false, "", 1, 0), fixture.Term(false, "t1", 0.5, 1)))}}
 	truth := m.Clone()
 	truth.Const.Value = 20
 	truth.Inputs[0].Den.Factors[0].Terms[1].Coef.Value = 0.9
