@@ -19,7 +19,7 @@ type Fault struct {
 // the noise's innovation standard deviation, about 30 times the standard
 // deviation of the noise itself) at sample 2000, minute 560 of day 2
 // (09:20).
-var Spike = Fault{Sample: 1440 + 560, Size: 3}
+var Spike = Fault{Sample: 1440 + 560, Size: 1}
 
 // WithFault returns a copy of d (sharing no slice with it) whose logged
 // output has the fault f added. d is not modified: other users of the
