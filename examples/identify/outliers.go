@@ -222,6 +222,11 @@ func outlierStep(ctx context.Context, o Options, est *fit.Estimate, ds *dataset,
 	writeOutliers(w, res, ds)
 	if f := ds.fault; f != nil {
 		found := "NOT found"
+		for _, in := range est.Model.Inputs {
+			if in.Event != nil && in.Event.Kind == tf.Pulse && in.Event.At.IsZero() && in.Event.Index == f.Sample {
+				found = "modelled by the spec's event " + in.Event.String()
+			}
+		}
 		for _, x := range res.Found {
 			if x.Index == f.Sample {
 				found = fmt.Sprintf("found: %s of %.3g +- %.2g", x.Kind, x.Size, x.SE)

@@ -451,6 +451,9 @@ func (ds *dataset) names(o Options) error {
 		ds.fromSpec = true
 		ds.output, ds.inputs = m.Output, nil
 		for _, in := range m.Inputs {
+			if in.Event != nil {
+				continue // an event builds its own indicator: no column to read
+			}
 			ds.inputs = append(ds.inputs, in.Series)
 		}
 		specIv := m.Interval
