@@ -164,3 +164,42 @@ func TestSampleTime(t *testing.T) {
 		}
 	}
 }
+
+// TestOutlierTimeFromFile reads the faulty record from a CSV file whose
+// first 100 rows are cut off, kept as the longest stretch after a gap
+// (-gaps longest): the spike, sample 1900 of what is fitted, is stamped
+// with the file's own time, minute 2000 (plain arithmetic).
+func TestOutlierTimeFromFile(t *testing.T) {
+	g, err := greenhouse.Default().WithFault(greenhouse.Spike)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b bytes.Buffer
+	if err := g.WriteCSV(&b); err != nil {
+		t.Fatal(err)
+	}
+	// Rows 0..49 stay as a short stretch before a gap of 50 rows.
+	csv := lines(b.String(), func(i int) bool { return i < 50 || i >= 100 })
+	path := filepath.Join(t.TempDir(), "gh.csv")
+	if err := os.WriteFile(path, []byte(csv), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	o := DefaultOptions()
+	o.Data, o.Gaps, o.Spec, o.Horizon = path, "longest", greenhouse.Structure, 0
+	res, out, err := run(t, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, f := range res.Outliers.Found {
+		if f.Index == greenhouse.Spike.Sample-100 {
+			found = true
+			if f.When != "2000 min" || !strings.Contains(out, "2000 min") {
+				t.Errorf("spike stamped %q, want \"2000 min\"", f.When)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("the spike at sample %d of the stretch is not found: %+v\n%s", greenhouse.Spike.Sample-100, res.Outliers.Found, out)
+	}
+}

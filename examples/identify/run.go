@@ -514,6 +514,10 @@ func (ds *dataset) loadBuiltin(clean bool) error {
 	} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
 		return fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
 	}
+	// SENSOR DROPOUT, NOT YET HERE: the demo is to carry an hour of
+	// missing outputs too (see examples/greenhouse, fault.go) once the
+	// whole-model exact likelihood can fit through it; the report would
+	// then list the gap beside the outliers.
 	// The truth is known for the demo's own output and inputs.
 	ds.builtin = ds.output == greenhouse.Output
 	for _, in := range ds.inputs {
