@@ -90,7 +90,8 @@
 // the same first residual, and prints sigma^2, AIC and BIC of both fits,
 // the estimates that moved by more than one standard error of the first
 // fit, and whether the refit passes its checks; -save then saves the
-// refit, judged by its own checks. -outliers off skips the search. The
+// refit, judged by its own checks (the rest of the report, the paths,
+// forecast and pictures, is of the first fit). -outliers off skips the search. The
 // built-in demo record carries one planted bad reading of the logged
 // temperature (greenhouse.Spike: +1 degC at day 2 09:20), which the
 // report finds and names.

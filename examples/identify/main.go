@@ -114,6 +114,7 @@ forecast. Results go to standard output, progress to standard error.
 Examples:
   go run ./examples/identify                      # the built-in greenhouse demo
   go run ./examples/identify -data plant.csv -output temp -inputs valve,outdoor -gaps linear:5
+  go run ./examples/identify -outliers refit       # also refit with the outliers found as events
 
 Exit status: 0 the model passed its checks, 1 the run failed, 2 a command
 line that cannot be read, 3 the report was printed but its verdict is NOT
