@@ -11,6 +11,7 @@ import (
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/examples/greenhouse"
+	"github.com/backshift/backshift/parse"
 )
 
 // checkPlantedSpike checks that res reports the demo's planted bad
@@ -201,5 +202,33 @@ func TestOutlierTimeFromFile(t *testing.T) {
 	}
 	if !found {
 		t.Errorf("the spike at sample %d of the stretch is not found: %+v\n%s", greenhouse.Spike.Sample-100, res.Outliers.Found, out)
+	}
+}
+
+// TestPictureMarks checks what the pictures mark: every outlier found,
+// and the event inputs of the model at their samples, an event given as
+// a time placed on a calendar clock (2026-01-02T09:20 is minute 1,940
+// after 2026-01-01T01:00: plain arithmetic), one outside the record left
+// out.
+func TestPictureMarks(t *testing.T) {
+	m, err := parse.Model("y = w0 x + a1 pulse(12) + a2 step(2026-01-02T09:20) + a3 step(99999) + a")
+	if err != nil {
+		t.Fatal(err)
+	}
+	t0 := float64(time.Date(2026, 1, 1, 1, 0, 0, 0, time.UTC).Unix())
+	ds := &dataset{n: 5000, times: &sampleClock{t0: t0, step: 60, calendar: true}}
+	res := &Outliers{Found: []FoundOutlier{{Outlier: arma.Outlier{Index: 7, Kind: arma.LevelShift}}}}
+	mk := pictureMarks(m, res, ds)
+	if len(mk.outliers) != 1 || mk.outliers[0].Index != 7 {
+		t.Errorf("outlier marks %+v", mk.outliers)
+	}
+	want := []markedEvent{{12, "event pulse(12)"}, {1940, "event step(2026-01-02T09:20)"}}
+	if len(mk.events) != len(want) {
+		t.Fatalf("event marks %+v, want %+v", mk.events, want)
+	}
+	for i, w := range want {
+		if mk.events[i] != w {
+			t.Errorf("event mark %d: %+v, want %+v", i, mk.events[i], w)
+		}
 	}
 }
