@@ -74,6 +74,28 @@
 // dithered valve under feedback) the start-up transient would otherwise
 // be read as slow noise.
 //
+// Outliers (-outliers, default report): after the fit, the chosen
+// model's residuals are searched for outliers with the model's own noise
+// and differencing (arma.Outliers: additive, level shift, temporary
+// change, innovational; a critical value of |t| that bounds the chance
+// of any false finding on a clean record by 5 %, printed with the
+// report). Each is reported with its time (the record's time stamp when
+// it has a time column, else the sample; the demo's as day and time of
+// day), sample, kind, size in the output's units with its standard
+// error, t, and whether it lies near an end or a gap, where its kind or
+// size is less firm. -outliers refit also adds the outliers as event
+// inputs (tf.Model.WithOutliers: an additive one as a pulse, a level
+// shift as a step, a temporary change as a decaying pulse; an
+// innovational one is a shock of the noise and is left out), refits from
+// the same first residual, and prints sigma^2, AIC and BIC of both fits,
+// the estimates that moved by more than one standard error of the first
+// fit, and whether the refit passes its checks; -save then saves the
+// refit, judged by its own checks (the rest of the report, the paths,
+// forecast and pictures, is of the first fit). -outliers off skips the search. The
+// built-in demo record carries one planted bad reading of the logged
+// temperature (greenhouse.Spike: +1 degC at day 2 09:20), which the
+// report finds and names.
+//
 // Pictures (-pictures DIR), drawn by examples/chart at 220 dots per
 // inch with their legends beside the data: data.png (the record: output
 // with its setpoint on the demo, and each input as recorded under its
@@ -86,7 +108,10 @@
 // residuals), simulation.png (observed, drawn over the noise-free
 // simulation from the inputs alone, the part a controller acts on, and
 // their difference) and forecast.png (forecast with its interval, and
-// the planned input).
+// the planned input). data.png and fit.png mark each outlier found with
+// a ring on its sample, labelled in the legend with its kind and time,
+// and each event input of a spec (step(T), pulse(T)) with a dashed
+// vertical line at its sample.
 //
 // Progress goes to standard error; results to standard output.
 //

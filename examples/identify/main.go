@@ -80,6 +80,16 @@ type Options struct {
 	Skip int
 	// Quiet suppresses progress messages.
 	Quiet bool
+	// Outliers says what to do about outliers in the chosen model's
+	// residuals: "off" no search; "report" (or "") search them
+	// (arma.Outliers with the model's noise) and report each; "refit"
+	// also refit the model with them as event inputs, print the
+	// comparison, and save the refit with -save.
+	Outliers string
+
+	// cleanDemo uses the built-in record without its planted bad
+	// reading (for tests).
+	cleanDemo bool
 }
 
 // HorizonAuto asks for the default forecast horizon: 180 samples, at
@@ -104,6 +114,7 @@ forecast. Results go to standard output, progress to standard error.
 Examples:
   go run ./examples/identify                      # the built-in greenhouse demo
   go run ./examples/identify -data plant.csv -output temp -inputs valve,outdoor -gaps linear:5
+  go run ./examples/identify -outliers refit       # also refit with the outliers found as events
 
 Exit status: 0 the model passed its checks, 1 the run failed, 2 a command
 line that cannot be read, 3 the report was printed but its verdict is NOT
@@ -150,6 +161,7 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.IntVar(&o.Horizon, "horizon", o.Horizon, "forecast horizon in samples (0: no forecast; -1: 180, at most a quarter of the record)")
 	fs.StringVar(&o.Plan, "plan", "", "planned first input after the record, as from:value pairs (samples from the end, each sample once, all before the -horizon), or hold (default: the demo plan "+demoPlan+" on the built-in record, hold for a file)")
 	fs.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500; other negative values are refused)")
+	fs.StringVar(&o.Outliers, "outliers", outliersReport, "outliers in the residuals of the chosen model: off (no search), report (search and report them), refit (also refit with them as events, compare, and -save the refit)")
 	fs.BoolVar(&o.Quiet, "quiet", false, "no progress messages on standard error")
 	if status, stop := cmdline.Parse(fs, usage, args); stop {
 		return status

@@ -28,6 +28,7 @@ func pictures(dir string, est *fit.Estimate, ds *dataset, out *Outcome) (files, 
 		return nil, nil, err
 	}
 	pw, pwErr := prewhitenAll(ds)
+	mk := pictureMarks(est.Model, out.Outliers, ds)
 	withWeights := func(draw func(string, *dataset, []prewhitened, *fit.Estimate) error) func(string) error {
 		return func(path string) error {
 			if pwErr != nil {
@@ -37,12 +38,12 @@ func pictures(dir string, est *fit.Estimate, ds *dataset, out *Outcome) (files, 
 		}
 	}
 	list := []picture{
-		{"data", func(path string) error { return recordPicture(path, ds) }},
+		{"data", func(path string) error { return recordPicture(path, ds, mk) }},
 		{"ccf", withWeights(correlationPicture)},
 		{"weights", withWeights(weightsPicture)},
 		{"residual-acf", func(path string) error { return residualPicture(path, ds, est) }},
 		{"step", func(path string) error { return stepPicture(path, ds, out.Paths) }},
-		{"fit", func(path string) error { return fitPicture(path, ds, est) }},
+		{"fit", func(path string) error { return fitPicture(path, ds, est, mk) }},
 	}
 	if out.Simulation != nil {
 		list = append(list, picture{"simulation", func(path string) error { return simulationPicture(path, ds, out.Simulation) }})

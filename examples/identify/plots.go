@@ -46,7 +46,7 @@ func inputTrace(c *chart.Chart, t, x []float64) {
 
 // recordPicture draws the record: the output (with its setpoint on the
 // demo) and each input against time.
-func recordPicture(path string, ds *dataset) error {
+func recordPicture(path string, ds *dataset, mk *marks) error {
 	y := ds.data[ds.output]
 	t := times(len(y), 0, ds.step())
 	xlabel := "time (" + ds.timeUnit() + ")"
@@ -56,6 +56,7 @@ func recordPicture(path string, ds *dataset) error {
 		out.Legend(ds.output, l)
 		out.Legend("setpoint", out.Line(t, sp, palette.band, 1.2))
 	}
+	mk.draw(out, t, y)
 	panels := []*chart.Chart{out}
 	for _, name := range ds.inputs {
 		in := chart.New("Input: "+name, xlabel, inputUnit(ds, name))
@@ -208,7 +209,7 @@ func difference(title, xlabel, ylabel string, t, y, m []float64) *chart.Chart {
 // fitted values: the whole record, a zoom on its last three hours (in
 // minutes; samples on a record without an interval) with the
 // observations as dots, and the residuals of the whole record.
-func fitPicture(path string, ds *dataset, est *fit.Estimate) error {
+func fitPicture(path string, ds *dataset, est *fit.Estimate, mk *marks) error {
 	dt := ds.step()
 	y := ds.data[ds.output]
 	n := len(y)
@@ -219,6 +220,7 @@ func fitPicture(path string, ds *dataset, est *fit.Estimate) error {
 	}
 	xlabel, ylabel := "time ("+ds.timeUnit()+")", ds.output+outputUnit(ds)
 	whole := overlay("Observed and fitted (one step ahead), whole record", xlabel, ylabel, "fitted", t, y, fitted)
+	mk.draw(whole, t, y)
 	k := max(0, n-int(180/dt))
 	zoom := chart.New("Last part of the record, zoomed", xlabel, ylabel)
 	zoom.Legend("observed", zoom.Dots(t[k:], y[k:], palette.data, draw.CircleGlyph{}, 1.6))

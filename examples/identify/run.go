@@ -55,6 +55,9 @@ type Outcome struct {
 	Validity *modelinfo.Validity
 	// Saved is the file the model was saved to ("" for none).
 	Saved string
+	// Outliers is what the search of the residuals found, with the
+	// refit when -outliers refit asked for it (nil with -outliers off).
+	Outliers *Outliers
 	// Elapsed is the wall time of the run.
 	Elapsed time.Duration
 
@@ -85,6 +88,59 @@ type dataset struct {
 	notes []string
 	// fromSpec is true when the spec names the series.
 	fromSpec bool
+	// times is the clock of the record's time column (nil without
+	// one); demoClock marks the built-in record, which starts at
+	// midnight of day 1 and is stamped as day and time of day.
+	times     *sampleClock
+	demoClock bool
+	// fault is the bad reading planted in the built-in record (nil for
+	// the clean record or a file).
+	fault *greenhouse.Fault
+}
+
+// sampleClock gives the time stamp of a sample: t0 + i step seconds,
+// since 1970 when calendar, else in unit (unitSeconds long).
+type sampleClock struct {
+	t0, step    float64
+	calendar    bool
+	unit        string
+	unitSeconds float64
+}
+
+// recordClock is the clock of rec's samples after the gap remedy: the
+// first sample's time is the first row's, or, when only the longest
+// evenly spaced stretch was kept, that stretch's first row's (found as
+// record.Read finds it: split at the breaks, ties to the later one).
+func recordClock(rec *record.Record, rem record.Remedy) *sampleClock {
+	if len(rec.Times) == 0 {
+		return nil
+	}
+	from := 0
+	if rem.Kind == "longest" {
+		best, start := -1, 0
+		for i := 0; i <= len(rec.Breaks); i++ {
+			end := len(rec.Times)
+			if i < len(rec.Breaks) {
+				end = rec.Breaks[i].Row
+			}
+			if end-start >= best {
+				best, from = end-start, start
+			}
+			if i < len(rec.Breaks) {
+				start = rec.Breaks[i].Row
+			}
+		}
+	}
+	c := &sampleClock{t0: rec.Times[from], step: rec.Median, calendar: rec.Calendar, unit: rec.TimeUnit, unitSeconds: 1}
+	if sec, ok := record.Seconds(rec.Interval.Unit); ok {
+		c.step = rec.Interval.Value * sec
+	}
+	if sec, ok := record.Seconds(c.unit); ok && c.unit != "" {
+		c.unitSeconds = sec
+	} else {
+		c.unit = "s"
+	}
+	return c
 }
 
 // minSamples is the fewest samples a record may have: below it nothing
@@ -153,6 +209,9 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 		return nil, err
 	}
 	writeDiagnostics(stdout, out.Diagnostics, failures)
+	if err := outlierStep(ctx, o, est, ds, stdout, pr, out); err != nil {
+		return nil, err
+	}
 	if err := forecast(est, ds, o, horizon, stdout, out); err != nil {
 		return nil, err
 	}
@@ -172,6 +231,11 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	out.Elapsed = time.Since(start)
 	if o.Save != "" {
+		if r := out.Outliers; o.Outliers == outliersRefit && r != nil && r.Refit != nil {
+			// -outliers refit saves the refit, judged by its own checks.
+			est, failures = r.Refit, r.RefitFailures
+			out.Validity = validity(est, ds, r.RefitChecks != nil && r.RefitChecks.Pass, failures)
+		}
 		if err := save(o, est, ds, out, failures, stdout); err != nil {
 			return out, err
 		}
@@ -199,6 +263,9 @@ func checkOptions(o Options) (record.Remedy, error) {
 	}
 	if o.SaveUntrusted && o.Save == "" {
 		return record.Remedy{}, errors.New("-save-untrusted is given without -save: name the file to save to")
+	}
+	if err := checkOutliersFlag(o.Outliers); err != nil {
+		return record.Remedy{}, err
 	}
 	rem, err := record.ParseRemedy(o.Gaps)
 	if err != nil {
@@ -298,15 +365,16 @@ func writePictures(dir string, est *fit.Estimate, ds *dataset, out *Outcome, std
 // o.SaveUntrusted is not set (said once, by the error; the report lists
 // the failures).
 func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []string, stdout io.Writer) error {
-	if !out.Trusted && !o.SaveUntrusted {
+	trusted := out.Validity.Verdict == modelinfo.VerdictPassed
+	if !trusted && !o.SaveUntrusted {
 		return &SaveError{Path: o.Save, Failures: failures}
 	}
-	out.Validity.Forced = !out.Trusted
+	out.Validity.Forced = !trusted
 	if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
 		return fmt.Errorf("-save: %w", err)
 	}
 	out.Saved = o.Save
-	if out.Trusted {
+	if trusted {
 		fmt.Fprintf(stdout, "\nFitted model saved to %s (go run ./examples/config -file %s)\n", o.Save, o.Save)
 	} else {
 		fmt.Fprintf(stdout, "\nFitted model saved to %s MARKED AS UNTRUSTED (-save-untrusted): it fails its checks; do not use it for control work\n", o.Save)
@@ -358,7 +426,7 @@ func load(o Options, rem record.Remedy) (*dataset, error) {
 		return nil, err
 	}
 	if o.Data == "" {
-		if err := ds.loadBuiltin(); err != nil {
+		if err := ds.loadBuiltin(o.cleanDemo); err != nil {
 			return nil, err
 		}
 	} else if err := loadFile(o, rem, ds); err != nil {
@@ -383,6 +451,9 @@ func (ds *dataset) names(o Options) error {
 		ds.fromSpec = true
 		ds.output, ds.inputs = m.Output, nil
 		for _, in := range m.Inputs {
+			if in.Event != nil {
+				continue // an event builds its own indicator: no column to read
+			}
 			ds.inputs = append(ds.inputs, in.Series)
 		}
 		specIv := m.Interval
@@ -414,9 +485,21 @@ func (ds *dataset) names(o Options) error {
 
 // loadBuiltin takes the named series from the built-in greenhouse
 // record, whose interval (1 min) any interval given must agree with.
-func (ds *dataset) loadBuiltin() error {
+func (ds *dataset) loadBuiltin(clean bool) error {
 	g := greenhouse.Default()
 	ds.name = "built-in greenhouse record (4 days, PI control with a test signal)"
+	ds.demoClock = true
+	if !clean {
+		// The demo plants one bad reading of the logged temperature, for
+		// the outlier search to find.
+		f := greenhouse.Spike
+		var err error
+		if g, err = g.WithFault(f); err != nil {
+			return err
+		}
+		ds.fault = &f
+		ds.name = "built-in greenhouse record (4 days, PI control with a test signal, one bad temperature reading)"
+	}
 	ds.data = map[string][]float64{}
 	for _, n := range append([]string{ds.output}, ds.inputs...) {
 		s, ok := g.Series(n)
@@ -431,6 +514,10 @@ func (ds *dataset) loadBuiltin() error {
 	} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
 		return fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
 	}
+	// SENSOR DROPOUT, NOT YET HERE: the demo is to carry an hour of
+	// missing outputs too (see examples/greenhouse, fault.go) once the
+	// whole-model exact likelihood can fit through it; the report would
+	// then list the gap beside the outliers.
 	// The truth is known for the demo's own output and inputs.
 	ds.builtin = ds.output == greenhouse.Output
 	for _, in := range ds.inputs {
@@ -491,6 +578,7 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 		return checkSeries(rec.File, cols, ds)
 	}
 	ds.interval, ds.unit = rec.Interval.Value, rec.Interval.Unit
+	ds.times = recordClock(rec, rem)
 	if n := rec.Len(); n < minSamples {
 		return fmt.Errorf("%s: the record left after -gaps %s has %d samples: too short to fit a model to (at least %d)", rec.File, o.Gaps, n, minSamples)
 	}
