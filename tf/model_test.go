@@ -2,10 +2,12 @@ package tf_test
 
 import (
 	"errors"
+	"math"
 	"strings"
 	"testing"
 	"time"
 
+	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -138,5 +140,34 @@ func TestEventData(t *testing.T) {
 	}
 	if d, err := (tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x"}}}).EventData(10, time.Time{}, tf.Interval{}); err != nil || len(d) != 0 {
 		t.Errorf("no events: %v, %v", d, err)
+	}
+}
+
+// TestSimulateEvents: Model.Simulate builds an event input's indicator
+// itself, as estimation does. y = 0.5 B x + 2 step(10) with x = 1 and no
+// noise is 0.5 from sample 0 (settled at x's first value) and 2.5 from
+// sample 10 on (worked by hand); a series named like the event is
+// refused.
+func TestSimulateEvents(t *testing.T) {
+	m := parse.MustModel("y = 0.5 B x + 2 step(10)")
+	x := make([]float64, 20)
+	for i := range x {
+		x[i] = 1
+	}
+	y, err := m.Simulate(map[string][]float64{"x": x}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, v := range y {
+		want := 0.5
+		if i >= 10 {
+			want = 2.5
+		}
+		if math.Abs(v-want) > 1e-12 {
+			t.Errorf("y[%d] = %v, want %v", i, v, want)
+		}
+	}
+	if _, err := m.Simulate(map[string][]float64{"x": x, "step(10)": x}, nil); !errors.Is(err, tf.ErrName) || !strings.Contains(err.Error(), "event input") {
+		t.Errorf("a series named like the event: %v", err)
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"strconv"
+	"time"
 )
 
 // MaxBurnIn is the largest SimSettings.BurnIn accepted by NewSystem and
@@ -70,7 +71,7 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 	if err != nil {
 		return nil, err
 	}
-	xs, n, err := m.simInputs(op, inputs)
+	xs, n, err := m.simInputs(op, inputs, set.Start)
 	if err != nil {
 		return nil, err
 	}
@@ -113,24 +114,48 @@ func (m Model) Simulate(inputs map[string][]float64, s *SimSettings) ([]float64,
 
 // simInputs returns the model's input series from inputs, in the order
 // of m.Inputs, and their common length (-1 without inputs), refusing a
-// missing series, unequal lengths and a non-finite sample.
-func (m Model) simInputs(op string, inputs map[string][]float64) ([][]float64, int, error) {
+// missing series, unequal lengths and a non-finite sample. An event
+// input (step(T), pulse(T)) gets its indicator from the model over the
+// length of the data inputs (Model.EventData, sample 0 at start).
+func (m Model) simInputs(op string, inputs map[string][]float64, start time.Time) ([][]float64, int, error) {
 	xs := make([][]float64, len(m.Inputs))
 	n := -1
+	first := ""
 	for i, in := range m.Inputs {
+		if in.Event != nil {
+			continue
+		}
 		x, ok := inputs[in.Series]
 		if !ok {
 			return nil, 0, &SeriesError{Op: op, Series: in.Series, Kind: ErrName, Detail: "the model has an input of this name but the inputs map has no such series"}
 		}
 		if n >= 0 && len(x) != n {
 			return nil, 0, &SeriesError{Op: op, Series: in.Series, Kind: ErrLength, Have: len(x), Need: n,
-				Detail: "the length of series " + strconv.Quote(m.Inputs[0].Series)}
+				Detail: "the length of series " + strconv.Quote(first)}
 		}
-		n = len(x)
+		n, first = len(x), in.Series
 		if err := simCheck(in.Series, x); err != nil {
 			return nil, 0, withOp(op, err)
 		}
 		xs[i] = x
+	}
+	ev, err := m.EventData(n, start, Interval{})
+	if err != nil {
+		return nil, 0, withOp(op, err)
+	}
+	for i, in := range m.Inputs {
+		if in.Event == nil {
+			continue
+		}
+		if n < 0 {
+			return nil, 0, &ModelError{Op: op, Part: "input " + in.Series,
+				Problem: "every input of the model is an event, so the record's length is unknown; add a data input"}
+		}
+		if _, ok := inputs[in.Series]; ok {
+			return nil, 0, &SeriesError{Op: op, Series: in.Series, Kind: ErrName,
+				Detail: "the inputs map has a series named like the event input; the model builds that indicator itself: drop the series"}
+		}
+		xs[i] = ev[in.Series]
 	}
 	return xs, n, nil
 }

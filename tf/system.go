@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/backshift/backshift/internal/errs"
 )
@@ -17,6 +18,10 @@ import (
 // default and a negative value is an error (Validate names the field),
 // except BurnIn, whose negative value means none, as its doc says.
 type SimSettings struct {
+	// Start is the time of sample 0, used only to place event inputs
+	// given as times (step(2026-03-01T08:00)); events given as sample
+	// indices need none.
+	Start time.Time
 	// Seed1 and Seed2 seed the PCG source (math/rand/v2) of the Gaussian
 	// innovations a_t; equal seeds give equal series. Every value is
 	// valid.

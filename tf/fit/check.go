@@ -88,7 +88,10 @@ type Diagnostics struct {
 	Alpha float64
 	// Residual is the whiteness check of the residuals.
 	Residual ResidualCheck
-	// Cross holds one check per input, in the model's order.
+	// Cross holds one check per input read from the data, in the model's
+	// order; an event input (a step or a pulse at a known time) has none:
+	// its indicator is not a series to prewhiten, and its own coefficient
+	// has taken up what it explains.
 	Cross []CrossCheck
 	// Failures lists, in words, every reason the model must not be
 	// trusted, the estimate's own first (see Soundness): the fit did not
@@ -205,6 +208,9 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 		return nil, err
 	}
 	for _, in := range e.Model.Inputs {
+		if in.Event != nil {
+			continue
+		}
 		cc, err := crossCheck(in, xdata[in.Series], resid, first, kx, set.Alpha)
 		if err != nil {
 			return nil, err

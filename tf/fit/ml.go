@@ -470,7 +470,7 @@ func (p *mlProblem) estimate(x []float64, hess *mat.SymDense, lres lm.Result, st
 	// The screen reads the output as given: a NaN breaks a run of equal
 	// samples and is never a spike, where the interpolated record would
 	// show a gap held flat at an end as a stuck sensor.
-	e.Warnings = append(warningsOf(compactResid(e), inv == nil, nil), Screen(w.m.Output, p.y)...)
+	e.Warnings = append(warningsOf(compactResid(e), inv == nil, nil), w.screen(p.y)...)
 	return e, nil
 }
 

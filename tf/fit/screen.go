@@ -2,6 +2,7 @@ package fit
 
 import (
 	"fmt"
+	"github.com/backshift/backshift/tf"
 	"math"
 	"slices"
 )
@@ -117,6 +118,34 @@ func screenSpikes(x []float64) []spike {
 // of one value and OutputSpike for isolated spikes, with indexes into y.
 // It does not modify y.
 func Screen(name string, y []float64) []Warning {
+	return screenSkipping(name, y, nil)
+}
+
+// screen is Screen of the output y of w's model, without a spike warning
+// at a sample that a pulse event input of the model explains (its pulse
+// sample plus its dead time): a bad reading the model already carries as
+// an intervention is no longer a reason to doubt the fit.
+func (w *work) screen(y []float64) []Warning {
+	var explained map[int]bool
+	for _, fi := range w.ins {
+		if fi.in.Event == nil || fi.in.Event.Kind != tf.Pulse {
+			continue
+		}
+		for t, v := range fi.x {
+			if v != 0 {
+				if explained == nil {
+					explained = map[int]bool{}
+				}
+				explained[t+fi.in.Delay] = true
+			}
+		}
+	}
+	return screenSkipping(w.m.Output, y, explained)
+}
+
+// screenSkipping is Screen without spike warnings at the samples in
+// explained.
+func screenSkipping(name string, y []float64, explained map[int]bool) []Warning {
 	var ws []Warning
 	if r, bad := screenFlat(y); bad {
 		ws = append(ws, Warning{Kind: StuckOutput, Message: fmt.Sprintf(
@@ -124,6 +153,9 @@ func Screen(name string, y []float64) []Warning {
 			name, r.Value, r.Len, r.Start, r.Start+r.Len-1)})
 	}
 	for _, s := range screenSpikes(y) {
+		if explained[s.Index] {
+			continue
+		}
 		ws = append(ws, Warning{Kind: OutputSpike, Message: fmt.Sprintf(
 			"output %q sample %d is %v between %v and %v, a jump of %.3g robust SDs each way: a bad reading? Repair the sample and refit",
 			name, s.Index, s.Value, s.Before, s.After, s.SDs)})

@@ -757,7 +757,7 @@ func (w *work) estimate(res *lm.Result, start []float64, tried int) *Estimate {
 		e.Params[i] = Param{Name: name, Value: res.X[i], Start: start[i], SE: se, T: res.X[i] / se}
 	}
 	w.noiseSeries() // n_t at the estimate, for the start-up transient test
-	e.Warnings = append(warningsOf(e, res.JTJInv == nil, w.nn[t0:w.n]), Screen(w.m.Output, w.y[:w.n])...)
+	e.Warnings = append(warningsOf(e, res.JTJInv == nil, w.nn[t0:w.n]), w.screen(w.y[:w.n])...)
 	return e
 }
 

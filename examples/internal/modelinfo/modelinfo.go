@@ -31,13 +31,18 @@ type Path struct {
 	Slope float64
 }
 
-// Paths summarises every input path of m. interval is the sample
-// interval in the unit the caller reports times in (0 for samples only).
+// Paths summarises every input path of m that a controller could act
+// through: event inputs (a step or a pulse at a known time) are left
+// out. interval is the sample interval in the unit the caller reports
+// times in (0 for samples only).
 // It returns an error when an input's polynomials are not a valid
 // transfer function.
 func Paths(m tf.Model, interval float64) ([]Path, error) {
 	var out []Path
 	for _, in := range m.Inputs {
+		if in.Event != nil {
+			continue
+		}
 		r, err := rational(in, m.Diff)
 		if err != nil {
 			return nil, fmt.Errorf("input %s: %w", in.Series, err)
