@@ -3,6 +3,7 @@ package statespace
 import (
 	"errors"
 	"math"
+	"slices"
 	"strconv"
 	"testing"
 
@@ -205,22 +206,10 @@ func TestConcurrentUse(t *testing.T) {
 		}()
 	}
 	for range 4 {
-		if e := <-done; !slicesEqual(e, want) {
+		if e := <-done; !slices.Equal(e, want) {
 			t.Error("a concurrent run gave other errors")
 		}
 	}
-}
-
-func slicesEqual(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 func BenchmarkPredictorStep(b *testing.B) {

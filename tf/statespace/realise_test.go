@@ -8,6 +8,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -50,12 +51,12 @@ func TestPartsTransfer(t *testing.T) {
 			if p.Name != in.Series || p.Delay != in.Delay {
 				t.Errorf("%s input %d: part %q delay %d, want %q delay %d", f.name, i, p.Name, p.Delay, in.Series, in.Delay)
 			}
-			crossEqual(t, f.name+" "+in.Series, p.Num, p.Den, mul(g.Num(), in.DiffCoeffs()), mul(g.Den(), m.DiffCoeffs()))
+			crossEqual(t, f.name+" "+in.Series, p.Num, p.Den, poly.Mul(g.Num(), in.DiffCoeffs()), poly.Mul(g.Den(), m.DiffCoeffs()))
 		}
 		if m.Noise != nil {
 			ma, ar, _ := m.NoiseCoeffs()
 			p := parts[len(m.Inputs)]
-			crossEqual(t, f.name+" noise", p.Num, p.Den, ma, mul(ar, m.DiffCoeffs()))
+			crossEqual(t, f.name+" noise", p.Num, p.Den, ma, poly.Mul(ar, m.DiffCoeffs()))
 		}
 	}
 }
@@ -63,7 +64,7 @@ func TestPartsTransfer(t *testing.T) {
 // crossEqual fails unless n1/d1 = n2/d2, that is n1 d2 = n2 d1.
 func crossEqual(t *testing.T, what string, n1, d1, n2, d2 []float64) {
 	t.Helper()
-	a, b := trim(mul(n1, d2)), trim(mul(n2, d1))
+	a, b := trim(poly.Mul(n1, d2)), trim(poly.Mul(n2, d1))
 	if len(a) != len(b) {
 		t.Errorf("%s: %v/%v is not %v/%v", what, n1, d1, n2, d2)
 		return
