@@ -5,6 +5,7 @@ import (
 	"strconv"
 	"testing"
 
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/predict"
 )
 
@@ -42,7 +43,7 @@ func benchUpdate(b *testing.B, spec string) {
 		p.Update(rows[i], y[i])
 	}
 	b.ReportAllocs()
-	c0, ok := threadCPU()
+	c0, ok := testutil.ThreadCPU()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		k := i & 4095
@@ -51,7 +52,7 @@ func benchUpdate(b *testing.B, spec string) {
 		}
 	}
 	b.StopTimer()
-	if c1, ok1 := threadCPU(); ok && ok1 {
+	if c1, ok1 := testutil.ThreadCPU(); ok && ok1 {
 		b.ReportMetric(float64(c1-c0)/float64(b.N), "cpu-ns/op")
 	}
 }
