@@ -5,6 +5,7 @@ import (
 	"strconv"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/predict"
 )
@@ -28,7 +29,7 @@ func BenchmarkUpdateDifferenced(b *testing.B) {
 func benchUpdate(b *testing.B, spec string) {
 	runtime.LockOSThread()
 	defer runtime.UnlockOSThread()
-	m := mustModel(b, spec)
+	m := fixture.MustModel(b, spec)
 	data := record(b, spec, 4096, 1)
 	p, err := predict.New(m, 1, nil)
 	if err != nil {
@@ -60,7 +61,7 @@ func benchUpdate(b *testing.B, spec string) {
 // BenchmarkForecast times a forecast of h steps with planned inputs
 // for the same model, h = 10, 100, 1000.
 func BenchmarkForecast(b *testing.B) {
-	m := mustModel(b, benchSpec)
+	m := fixture.MustModel(b, benchSpec)
 	data := record(b, benchSpec, 500, 1)
 	p, err := predict.New(m, 1, nil)
 	if err != nil {

@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/predict"
@@ -215,7 +216,7 @@ func TestForecastClosedForms(t *testing.T) {
 // TestForecastBadInput: requests Forecast refuses, each with its typed
 // error, and a forecast leaves the predictor as it was.
 func TestForecastBadInput(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 60, 4)
 	p, _ := predict.New(m, 1, nil)
 	dst := make([]predict.Point, 5)

@@ -6,7 +6,6 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -46,16 +45,6 @@ var fixtures = []struct {
 	{"two", "y = 1.5 + 0.8 / (1 - 0.7 B) B^2 u + (0.3 - 0.1 B) / (1 - 1.2 B + 0.35 B^2) v + (1 - 0.3 B) / ((1 - 0.5 B)(1 - 0.4 B^4)) a", 10},
 	// a zero numerator realises nothing: 0 states, noise 0.
 	{"zero", "y = 0 x + a", 0},
-}
-
-// mustModel parses a fixture.
-func mustModel(t testing.TB, spec string) tf.Model {
-	t.Helper()
-	m, err := parse.Model(spec)
-	if err != nil {
-		t.Fatalf("%s: %v", spec, err)
-	}
-	return m
 }
 
 // series returns n seeded standard normal draws times s.

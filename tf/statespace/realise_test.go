@@ -8,6 +8,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/tf"
 )
@@ -16,7 +17,7 @@ import (
 // each fixture (see fixtures).
 func TestStateCount(t *testing.T) {
 	for _, f := range fixtures {
-		r, err := Realise(mustModel(t, f.spec))
+		r, err := Realise(fixture.MustModel(t, f.spec))
 		if err != nil {
 			t.Fatalf("%s: %v", f.name, err)
 		}
@@ -39,7 +40,7 @@ func TestStateCount(t *testing.T) {
 // the rounding of a few products: 1e-12 relative).
 func TestPartsTransfer(t *testing.T) {
 	for _, f := range fixtures {
-		m := mustModel(t, f.spec)
+		m := fixture.MustModel(t, f.spec)
 		r, err := Realise(m)
 		if err != nil {
 			t.Fatal(err)
@@ -139,7 +140,7 @@ func block(r *Realisation, p Part, i int) (*mat.Dense, []float64, []float64) {
 // written order and fails the test, which shows that it can fail.
 func TestMinimal(t *testing.T) {
 	for _, f := range fixtures {
-		m := mustModel(t, f.spec)
+		m := fixture.MustModel(t, f.spec)
 		r, err := Realise(m)
 		if err != nil {
 			t.Fatal(err)
@@ -158,7 +159,7 @@ func TestMinimal(t *testing.T) {
 			}
 		}
 	}
-	r, err := Realise(mustModel(t, "y = (1 - 0.5 B) / ((1 - 0.5 B)(1 - 0.8 B)) B x"))
+	r, err := Realise(fixture.MustModel(t, "y = (1 - 0.5 B) / ((1 - 0.5 B)(1 - 0.8 B)) B x"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -176,7 +177,7 @@ func TestMinimal(t *testing.T) {
 // Its pulse response is 0.5 0.8^(k-3) from k = 3 (the difference
 // equation y_t = 0.8 y_{t-1} + 0.5 x_{t-3} by hand).
 func TestDelayStates(t *testing.T) {
-	r, err := Realise(mustModel(t, "y = 0.5 / (1 - 0.8 B) B^3 x"))
+	r, err := Realise(fixture.MustModel(t, "y = 0.5 / (1 - 0.8 B) B^3 x"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -204,21 +205,21 @@ func TestDelayStates(t *testing.T) {
 // TestRealiseBadInput: each model Realise must refuse, with the kind and
 // the words of its message.
 func TestRealiseBadInput(t *testing.T) {
-	zeroConst := mustModel(t, "y = 0.5 B x")
+	zeroConst := fixture.MustModel(t, "y = 0.5 B x")
 	zeroConst.Diff = tf.Poly{Factors: []tf.Factor{{Terms: []tf.Term{{Coef: tf.Coef{Value: 1}, Power: 1}}, Exp: 1}}}
-	huge := mustModel(t, "y = 1e200 ((1 - B) x)")
+	huge := fixture.MustModel(t, "y = 1e200 ((1 - B) x)")
 	huge.Inputs[0].Diff.Factors[0].Terms[1].Coef.Value = 1e200
 	for _, c := range []struct {
 		name string
 		m    tf.Model
 		want []string
 	}{
-		{"free", mustModel(t, "y = c + w0 / (1 - d1 B) B x + a where c ~ 1, w0 ~ 0.5, d1 = 0.5"), []string{"coefficients c, w0", "free", "Held()"}},
+		{"free", fixture.MustModel(t, "y = c + w0 / (1 - d1 B) B x + a where c ~ 1, w0 ~ 0.5, d1 = 0.5"), []string{"coefficients c, w0", "free", "Held()"}},
 		{"invalid", tf.Model{Output: "y", Inputs: []tf.Input{{Series: "", Num: tf.Poly{}}}}, []string{"input 1", "no series name"}},
-		{"states", mustModel(t, "y = 0.5 / (1 - 0.8 B) B^2000 x"), []string{"needs 2000 states", "MaxStates", "dead time 2000"}},
+		{"states", fixture.MustModel(t, "y = 0.5 / (1 - 0.8 B) B^2000 x"), []string{"needs 2000 states", "MaxStates", "dead time 2000"}},
 		{"zero constant", zeroConst, []string{"differencing", "constant term", "zero"}},
 		{"overflow", huge, []string{"matrix", "too large"}},
-		{"event", mustModel(t, "y = 0.5 B x + 2 step(10) + a"), []string{`input "step(10)"`, "event", "tf/predict", "EventData"}},
+		{"event", fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + a"), []string{`input "step(10)"`, "event", "tf/predict", "EventData"}},
 	} {
 		_, err := Realise(c.m)
 		var me *ModelError

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -15,7 +16,7 @@ import (
 func TestSteadyMatchesSettledSimulate(t *testing.T) {
 	const n = 300
 	for k, f := range fixtures {
-		m := mustModel(t, f.spec)
+		m := fixture.MustModel(t, f.spec)
 		if !m.Diff.IsOne() {
 			continue
 		}
@@ -62,7 +63,7 @@ func TestSteadyMatchesSettledSimulate(t *testing.T) {
 // An integrating path has no settled state for a nonzero input; zero is
 // its rest. A u of the wrong length is refused.
 func TestSteadyBadInput(t *testing.T) {
-	r, err := Realise(mustModel(t, "(1 - B) y = 0.3 / (1 - 0.5 B) B x + a"))
+	r, err := Realise(fixture.MustModel(t, "(1 - B) y = 0.3 / (1 - 0.5 B) B x + a"))
 	if err != nil {
 		t.Fatal(err)
 	}
