@@ -57,6 +57,26 @@ func series(n int, s float64, seed uint64) []float64 {
 	return x
 }
 
+// drive returns the inputs of fixture k of model m, n seeded standard
+// normal draws plus offset for each input (as a record, and in the
+// model's order), and n innovations of SD 0.3 when m has noise (nil
+// when not).
+func drive(m tf.Model, n, k int, offset float64) (data map[string][]float64, inputs [][]float64, a []float64) {
+	data = map[string][]float64{}
+	for i, in := range m.Inputs {
+		x := series(n, 1, uint64(10*k+i))
+		for j := range x {
+			x[j] += offset
+		}
+		data[in.Series] = x
+		inputs = append(inputs, x)
+	}
+	if m.Noise != nil {
+		a = series(n, 0.3, uint64(100+k))
+	}
+	return data, inputs, a
+}
+
 // maxAbs returns the largest magnitude in x (at least 1, so that it
 // serves as the scale of a relative tolerance on small values).
 func maxAbs(x []float64) float64 {

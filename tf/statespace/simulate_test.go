@@ -74,20 +74,8 @@ func TestSimulateMatchesModel(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			data := map[string][]float64{}
-			var inputs [][]float64
-			for i, in := range m.Inputs {
-				x := series(n, 1, uint64(10*k+i))
-				data[in.Series] = x
-				inputs = append(inputs, x)
-			}
-			set := &tf.SimSettings{FromRest: true}
-			var a []float64
-			if m.Noise != nil {
-				a = series(n, 0.3, uint64(100+k))
-				set.Innovations = a
-			}
-			want, err := m.Simulate(data, set)
+			data, inputs, a := drive(m, n, k, 0)
+			want, err := m.Simulate(data, &tf.SimSettings{FromRest: true, Innovations: a})
 			if err != nil {
 				t.Fatal(err)
 			}
