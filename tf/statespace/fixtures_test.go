@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -55,6 +56,17 @@ func series(n int, s float64, seed uint64) []float64 {
 		x[i] = s * rng.NormFloat64()
 	}
 	return x
+}
+
+// mustRealise parses spec and realises it, or ends the test.
+func mustRealise(t testing.TB, spec string) (tf.Model, *Realisation) {
+	t.Helper()
+	m := fixture.MustModel(t, spec)
+	r, err := Realise(m)
+	if err != nil {
+		t.Fatalf("%s: %v", spec, err)
+	}
+	return m, r
 }
 
 // drive returns the inputs of fixture k of model m, n seeded standard

@@ -40,11 +40,7 @@ func TestStateCount(t *testing.T) {
 // the rounding of a few products: 1e-12 relative).
 func TestPartsTransfer(t *testing.T) {
 	for _, f := range fixtures {
-		m := fixture.MustModel(t, f.spec)
-		r, err := Realise(m)
-		if err != nil {
-			t.Fatal(err)
-		}
+		m, r := mustRealise(t, f.spec)
 		parts := r.Parts()
 		for i, in := range m.Inputs {
 			g, _ := in.Rational()
@@ -140,11 +136,7 @@ func block(r *Realisation, p Part, i int) (*mat.Dense, []float64, []float64) {
 // written order and fails the test, which shows that it can fail.
 func TestMinimal(t *testing.T) {
 	for _, f := range fixtures {
-		m := fixture.MustModel(t, f.spec)
-		r, err := Realise(m)
-		if err != nil {
-			t.Fatal(err)
-		}
+		m, r := mustRealise(t, f.spec)
 		for i, p := range r.Parts() {
 			if p.States == 0 || p.Name == "constant" || (p.Name == "noise" && m.Noise == nil) {
 				continue

@@ -38,11 +38,7 @@ func TestResponsesMatchTF(t *testing.T) {
 	const n = 200
 	for _, f := range fixtures {
 		t.Run(f.name, func(t *testing.T) {
-			m := fixture.MustModel(t, f.spec)
-			r, err := Realise(m)
-			if err != nil {
-				t.Fatal(err)
-			}
+			m, r := mustRealise(t, f.spec)
 			for i := range m.Inputs {
 				g := pathRational(t, r.Parts()[i])
 				imp, err := r.Impulse(i, n)
@@ -69,11 +65,7 @@ func TestSimulateMatchesModel(t *testing.T) {
 	const n = 300
 	for k, f := range fixtures {
 		t.Run(f.name, func(t *testing.T) {
-			m := fixture.MustModel(t, f.spec)
-			r, err := Realise(m)
-			if err != nil {
-				t.Fatal(err)
-			}
+			m, r := mustRealise(t, f.spec)
 			data, inputs, a := drive(m, n, k, 0)
 			want, err := m.Simulate(data, &tf.SimSettings{FromRest: true, Innovations: a})
 			if err != nil {
