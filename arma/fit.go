@@ -467,10 +467,24 @@ func (e *engine) report(ctx context.Context, y []float64, o FitSettings, x0 []fl
 		return nil, err
 	}
 	e.set(opt.x)
+	e.estimates(res, opt.x, x0)
+	e.uncertainty(res, opt, sigma2Scaled)
+	res.criteria(np)
+	res.flagBoundary()
+	res.forecastState(y, o.Regressors)
+	return res, searchEnd(ctx, res, lres)
+}
+
+// estimates sets the estimates of res in the series' units from the
+// working vector x (start vector x0), the engine's polynomials set at x:
+// the noise polynomials, the mean, the regression coefficients, the model
+// variance (res.Sigma2, set before) and the parameters, their SE and T
+// NaN until the uncertainty is known.
+func (e *engine) estimates(res *Result, x, x0 []float64) {
 	res.Noise = Noise{AR: e.ar, MA: e.ma}
 	res.AR = e.ar.Coeffs()
 	res.MA = e.ma.Coeffs()
-	value := e.seriesUnits(opt.x)
+	value := e.seriesUnits(x)
 	res.Model.Mean = e.mu * e.scale
 	if e.kmu >= 0 {
 		res.Model.Mean = value[e.kmu]
@@ -482,16 +496,11 @@ func (e *engine) report(ctx context.Context, y []float64, o FitSettings, x0 []fl
 			res.Beta[k] = value[b]
 		}
 	}
-	res.Params = make([]Param, np)
 	starts := e.seriesUnits(x0)
+	res.Params = make([]Param, len(e.names))
 	for k := range res.Params {
 		res.Params[k] = Param{Name: e.names[k], Value: value[k], Start: starts[k], SE: math.NaN(), T: math.NaN()}
 	}
-	e.uncertainty(res, opt, sigma2Scaled)
-	res.criteria(np)
-	res.flagBoundary()
-	res.forecastState(y, o.Regressors)
-	return res, searchEnd(ctx, res, lres)
 }
 
 // residuals sets the residuals (NaN before Start), SSQ and Sigma2 of res

@@ -163,18 +163,7 @@ func (m Model) writeWhere(b *strings.Builder) {
 		}
 		writeNum(b, c.Value)
 	}
-	if m.Const != nil {
-		c := *m.Const
-		fn(&c)
-	}
-	for _, in := range m.Inputs {
-		eachCoefCopy(in.Num, fn)
-		eachCoefCopy(in.Den, fn)
-	}
-	if m.Noise != nil {
-		eachCoefCopy(m.Noise.MA, fn)
-		eachCoefCopy(m.Noise.AR, fn)
-	}
+	m.eachCoefCopy(fn)
 }
 
 // nameSet is the set of names writeWhere has seen: a small array for the

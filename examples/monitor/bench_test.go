@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/examples/greenhouse"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/monitor"
 )
 
@@ -51,7 +52,7 @@ func BenchmarkPredictMonitor(b *testing.B) {
 	defer runtime.UnlockOSThread()
 	l, rows, y := benchLoop(b)
 	b.ReportAllocs()
-	c0, ok := threadCPU()
+	c0, ok := testutil.ThreadCPU()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		k := i % len(rows)
@@ -62,7 +63,7 @@ func BenchmarkPredictMonitor(b *testing.B) {
 	}
 	b.StopTimer()
 	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "samples/s")
-	if c1, ok1 := threadCPU(); ok && ok1 {
+	if c1, ok1 := testutil.ThreadCPU(); ok && ok1 {
 		b.ReportMetric(float64(c1-c0)/float64(b.N), "cpu-ns/op")
 		b.ReportMetric(float64(b.N)/(c1-c0).Seconds(), "cpu-samples/s")
 	}

@@ -16,22 +16,33 @@ import (
 	"github.com/backshift/backshift/tf/predict"
 )
 
-// Example is the code of the README's section "In a running service"
-// (README.md): the model of the README's ten
-// lines, fitted to the greenhouse's first three days, runs beside the
-// plant on the fourth: it predicts each minute's temperature, watches
-// the errors for drift, looks an hour ahead for a planned valve move and
-// stores its state for a restart. It is longer than 60 lines because it
-// holds the README's block whole, with the fit that sets it up.
-func Example() {
+// day is a day of the demo scenario in samples (one a minute).
+const day = 1440
+
+// fitFirstDays returns the demo scenario, the record of its first three
+// days and the README's model fitted to them: the set-up of the examples
+// below, which run on the fourth day.
+func fitFirstDays() (greenhouse.Data, map[string][]float64, *fit.Estimate) {
 	d := greenhouse.Default()
-	const day = 1440
 	hist := map[string][]float64{"temp": d.Temp[:3*day], "valve": d.Valve[:3*day], "outdoor": d.Outdoor[:3*day]}
 	m := parse.MustModel("temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a; every 1 min")
 	est, err := fit.Model(context.Background(), m, hist, &fit.Settings{First: 300})
 	if err != nil {
 		log.Fatal(err)
 	}
+	return d, hist, est
+}
+
+// Example is the code of the README's section "In a running service"
+// (README.md): the model of the README's ten
+// lines, fitted to the greenhouse's first three days, runs beside the
+// plant on the fourth: it predicts each minute's temperature, watches
+// the errors for drift, looks an hour ahead for a planned valve move and
+// stores its state for a restart (the fit that sets it up is
+// fitFirstDays). It is longer than 60 lines because it holds the
+// README's block whole.
+func Example() {
+	d, hist, est := fitFirstDays()
 	recent := map[string][]float64{} // the last six hours of the record
 	for k, v := range hist {
 		recent[k] = v[len(v)-360:]
@@ -129,14 +140,7 @@ func Example_fleet() {
 // recursive estimation (package tf/online), as the README's section
 // shows.
 func Example_online() {
-	d := greenhouse.Default()
-	const day = 1440
-	hist := map[string][]float64{"temp": d.Temp[:3*day], "valve": d.Valve[:3*day], "outdoor": d.Outdoor[:3*day]}
-	m := parse.MustModel("temp = c + w0 / (1 - d1 B) B^3 valve + v0 / (1 - e1 B) B outdoor + (1 + t1 B) / (1 - p1 B) a; every 1 min")
-	est, err := fit.Model(context.Background(), m, hist, &fit.Settings{First: 300})
-	if err != nil {
-		log.Fatal(err)
-	}
+	d, _, est := fitFirstDays()
 	// README online: begin
 	rec, err := online.New(est.Model, &online.Settings{Forgetting: 0.995}) // memory about 200 samples
 	if err != nil {

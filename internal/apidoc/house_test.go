@@ -76,19 +76,7 @@ func TestHouse(t *testing.T) {
 	}
 	module := strings.TrimSpace(strings.TrimPrefix(strings.SplitN(string(modBytes), "\n", 2)[0], "module"))
 	var problems []string
-	err = filepath.WalkDir(root, func(path string, d os.DirEntry, err error) error {
-		if err != nil {
-			return err
-		}
-		if d.IsDir() {
-			if n := d.Name(); path != root && (n == "testdata" || strings.HasPrefix(n, ".") || strings.HasPrefix(n, "_")) {
-				return filepath.SkipDir
-			}
-			return nil
-		}
-		if !strings.HasSuffix(path, ".go") || strings.HasSuffix(path, "_test.go") {
-			return nil
-		}
+	err = eachLibraryFile(root, func(path string) error {
 		rel, _ := filepath.Rel(root, filepath.Dir(path))
 		pkg := filepath.ToSlash(rel)
 		f, err := parser.ParseFile(token.NewFileSet(), path, nil, parser.ImportsOnly)
@@ -161,4 +149,25 @@ func TestHouseRules(t *testing.T) {
 	if _, ok := room("newpkg"); ok {
 		t.Error("a package the map does not name is placed")
 	}
+}
+
+// eachLibraryFile calls fn with the path of every non-test Go file below
+// root, outside testdata and the folders the go tool ignores (names
+// starting with "." or "_"), and returns the first error.
+func eachLibraryFile(root string, fn func(path string) error) error {
+	return filepath.WalkDir(root, func(path string, d os.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if d.IsDir() {
+			if n := d.Name(); path != root && (n == "testdata" || strings.HasPrefix(n, ".") || strings.HasPrefix(n, "_")) {
+				return filepath.SkipDir
+			}
+			return nil
+		}
+		if !strings.HasSuffix(path, ".go") || strings.HasSuffix(path, "_test.go") {
+			return nil
+		}
+		return fn(path)
+	})
 }

@@ -113,33 +113,20 @@ func finals(c, p tf.Rational) (setpoint, load float64) {
 	return gc * gp / (1 + gc*gp), gp / (1 + gc*gp)
 }
 
-// figures measures the step response y (final value g) as
-// tf.Rational.StepFigures measures a term's step response.
+// figures measures the step response y (final value g) with
+// tf.StepSettings.Measure, as tf.Rational.StepFigures measures a term's
+// step response; NaN figures when Measure refuses g (not finite).
 func figures(y []float64, g float64, o tf.StepSettings, interval float64) tf.StepFigures {
-	from, to, band := o.RiseFrom, o.RiseTo, o.Band
-	if from == 0 {
-		from = 0.1
+	o.Interval = interval
+	f, err := o.Measure(y, g)
+	if err != nil {
+		return nanFigures(len(y))
 	}
-	if to == 0 {
-		to = 0.9
+	if interval == 0 {
+		// tf.Span's convention: Time is 0 when no interval is given (Measure
+		// multiplies, which leaves a NaN time beside a NaN sample count).
+		f.Rise.Time, f.Settle.Time, f.PeakAt.Time = 0, 0, 0
 	}
-	if band == 0 {
-		band = 0.02
-	}
-	span := func(s float64) tf.Span { return spanOf(s, interval) }
-	f := tf.StepFigures{Final: g, RiseFrom: from, RiseTo: to, Band: band, Horizon: len(y)}
-	f.Rise = span(crossing(y, g, to) - crossing(y, g, from))
-	peak, kPeak, under := 0.0, 0, 0.0
-	for k, v := range y {
-		u := v / g
-		if u > peak {
-			peak, kPeak = u, k
-		}
-		under = max(under, -u)
-	}
-	f.Peak, f.PeakAt = peak*g, span(float64(kPeak))
-	f.Overshoot, f.Undershoot = max(peak-1, 0), under
-	f.Settle = span(settling(y, g, band))
 	return f
 }
 
@@ -147,44 +134,6 @@ func nanFigures(n int) tf.StepFigures {
 	nan := math.NaN()
 	s := tf.Span{Samples: nan, Time: nan}
 	return tf.StepFigures{Final: nan, Rise: s, Settle: s, Peak: nan, PeakAt: s, Overshoot: nan, Undershoot: nan, Horizon: n}
-}
-
-// crossing is the interpolated time at which y/g first reaches level;
-// NaN when it never does (tf's definition).
-func crossing(y []float64, g, level float64) float64 {
-	prev := 0.0
-	for k, v := range y {
-		u := v / g
-		if u >= level {
-			if k == 0 {
-				return 0
-			}
-			return float64(k-1) + (level-prev)/(u-prev)
-		}
-		prev = u
-	}
-	return math.NaN()
-}
-
-// settling is the time after the last sample outside the band, the
-// entry interpolated; 0 when always inside, NaN when the last sample is
-// outside (tf's definition).
-func settling(y []float64, g, band float64) float64 {
-	last := -1
-	for k := len(y) - 1; k >= 0; k-- {
-		if math.Abs(y[k]/g-1) > band {
-			last = k
-			break
-		}
-	}
-	switch {
-	case last < 0:
-		return 0
-	case last == len(y)-1:
-		return math.NaN()
-	}
-	e0, e1 := math.Abs(y[last]/g-1), math.Abs(y[last+1]/g-1)
-	return float64(last) + (e0-band)/(e0-e1)
 }
 
 // recovery is the time after which |y - final| stays within tol,

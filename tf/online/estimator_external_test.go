@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
@@ -58,7 +59,7 @@ func distance(got []online.Param, batch []fit.Param) float64 {
 // (asserted within 10 %: both are asymptotic approximations of one
 // covariance).
 func TestEstimatorConvergesToBatch(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	for _, tc := range []struct {
 		name  string
 		start tf.Model
@@ -108,7 +109,7 @@ func TestEstimatorConvergesToBatch(t *testing.T) {
 // at lambda = 0.99 and 261 at 0.995; mean deviation afterwards 0.07 and
 // 0.08 of the change.
 func TestEstimatorTracksGainChange(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	m2 := m.Clone()
 	m2.Inputs[1].Num.Each(func(c *tf.Coef) {
 		if c.Name == "w2" {
@@ -182,7 +183,7 @@ func TestNewBadInput(t *testing.T) {
 		{"event input", "y = w B x + k step(10) + a; where w ~ 0.5, k ~ 1", online.Settings{}, errs.ErrModel, []string{`input "step(10)"`, "event", "EventData"}, nil},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			m := mustModel(t, tc.spec)
+			m := fixture.MustModel(t, tc.spec)
 			if tc.mod != nil {
 				tc.mod(&m)
 			}
@@ -205,7 +206,7 @@ func TestNewBadInput(t *testing.T) {
 // free coefficients (fixed and held ones untouched), and shares nothing
 // with the Estimator; the start model is not modified.
 func TestEstimatorModel(t *testing.T) {
-	m := mustModel(t, "y = c + w / (1 - d B) B x + (1 - 0.2 B) / (1 - p B) a; where c ~ 1, w ~ 0.5, d = 0.7, p ~ 0.3")
+	m := fixture.MustModel(t, "y = c + w / (1 - d B) B x + (1 - 0.2 B) / (1 - p B) a; where c ~ 1, w ~ 0.5, d = 0.7, p ~ 0.3")
 	keep := m.Clone()
 	data := map[string][]float64{"x": telegraph(rand.New(rand.NewPCG(29, 1)), 500, 0, 2)}
 	y, err := m.Simulate(data, &tf.SimSettings{Sigma: 0.3, Seed1: 1})
@@ -247,7 +248,7 @@ func TestEstimatorModel(t *testing.T) {
 // samples from a start 30 % off, within 1 batch SE of tf.Fit (measured
 // 0.18, seed 41).
 func TestEstimatorDifferencedProduct(t *testing.T) {
-	m := mustModel(t, "(1 - B) y = w / (1 - d B)^2 B ((1 - B) x1) + (1 - t B) a; where w ~ 0.4, d ~ 0.5, t ~ 0.3")
+	m := fixture.MustModel(t, "(1 - B) y = w / (1 - d B)^2 B ((1 - B) x1) + (1 - t B) a; where w ~ 0.4, d ~ 0.5, t ~ 0.3")
 	r := rand.New(rand.NewPCG(41, 1))
 	data := map[string][]float64{"x1": telegraph(r, 10000, 0, 1)}
 	y, err := m.Simulate(data, &tf.SimSettings{Sigma: 0.1, Seed1: 41})

@@ -6,7 +6,6 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/testutil"
-	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -17,16 +16,6 @@ import (
 // coefficients.
 const eightSpec = "y = c + (w0 + w1 B) / (1 - d1 B) B^2 x1 + w2 / (1 - d2 B) B x2 + (1 + t1 B) / (1 - p1 B) a" +
 	"; where c ~ 1, w0 ~ 0.5, w1 ~ 0.3, d1 ~ 0.7, w2 ~ -0.8, d2 ~ 0.5, t1 ~ 0.4, p1 ~ 0.6"
-
-// mustModel parses a spec for a test.
-func mustModel(t testing.TB, spec string) tf.Model {
-	t.Helper()
-	m, err := parse.Model(spec)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return m
-}
 
 // telegraph returns n samples of a random two-level signal (levels lo
 // and hi) that switches with probability 0.1 a sample: a persistently

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/online"
 )
@@ -29,7 +30,7 @@ func FuzzUpdate(f *testing.F) {
 	f.Add(byte(1), byte(255), byte(1), byte(200), []byte("\x00\x00\x0b\x05\x0b\x06\x0b\x07\x0b\x08\x0b\x09\x0b\x0a\x0b\x0b"))
 	f.Add(byte(2), byte(10), byte(7), byte(40), []byte("\x0b\x01\x0b\x7f\x0b\x80\x0b\x01\x0b\x7f\x0b\x80\x0a\x7f\x0a\x80"))
 	f.Fuzz(func(t *testing.T, spec, lam, warm, zone byte, data []byte) {
-		m := mustModel(t, fuzzSpecs[int(spec)%len(fuzzSpecs)])
+		m := fixture.MustModel(t, fuzzSpecs[int(spec)%len(fuzzSpecs)])
 		set := &online.Settings{
 			Forgetting: 0.85 + float64(lam)/255*0.16, // some below 0.9 and above 1: refused
 			Warmup:     int(warm%16) - 1,             // -1 refused, 0 the default

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/online"
 )
@@ -36,7 +37,7 @@ func addAll(t testing.TB, r *online.Refitter, data map[string][]float64, y strin
 // SEs of the batch fit of the same window, which is the refit's
 // result: the swap hands over exactly what the function returned.
 func TestRefitterSwapsModel(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	m2 := m.Clone()
 	m2.Inputs[1].Num.Each(func(c *tf.Coef) {
 		if c.Name == "w2" {
@@ -90,7 +91,7 @@ func TestRefitterSwapsModel(t *testing.T) {
 // live model as it was; a refit due while one runs is skipped; Close
 // cancels the running refit's context and waits for it.
 func TestRefitterFailures(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	data := record(t, m, 400, 0.3, 37)
 	boom := errors.New("no data today")
 	for _, tc := range []struct {
@@ -107,15 +108,15 @@ func TestRefitterFailures(t *testing.T) {
 		// d1 = 1.5 puts the pole of x1's term at z = 1.5, outside the unit
 		// circle (the pole of 1/(1 - d B) is z = d: DESIGN.md's convention).
 		{"unstable", func(_ context.Context, m tf.Model, _ map[string][]float64) (tf.Model, error) {
-			return mustModel(t, strings.Replace(eightSpec, "d1 ~ 0.7", "d1 ~ 1.5", 1)), nil
+			return fixture.MustModel(t, strings.Replace(eightSpec, "d1 ~ 0.7", "d1 ~ 1.5", 1)), nil
 		}, errs.ErrModel},
 		// t1 = -1.25: the MA zero at z = 1.25 is outside the unit circle.
 		{"not invertible", func(_ context.Context, m tf.Model, _ map[string][]float64) (tf.Model, error) {
-			return mustModel(t, strings.Replace(eightSpec, "t1 ~ 0.4", "t1 ~ -1.25", 1)), nil
+			return fixture.MustModel(t, strings.Replace(eightSpec, "t1 ~ 0.4", "t1 ~ -1.25", 1)), nil
 		}, errs.ErrModel},
 		// p1 = 1: the AR root on the unit circle (not stationary).
 		{"not stationary", func(_ context.Context, m tf.Model, _ map[string][]float64) (tf.Model, error) {
-			return mustModel(t, strings.Replace(eightSpec, "p1 ~ 0.6", "p1 ~ 1", 1)), nil
+			return fixture.MustModel(t, strings.Replace(eightSpec, "p1 ~ 0.6", "p1 ~ 1", 1)), nil
 		}, errs.ErrModel},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -173,7 +174,7 @@ func TestRefitterFailures(t *testing.T) {
 
 // Bad settings, a nil function and bad samples are refused by name.
 func TestRefitterBadInput(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	for _, tc := range []struct {
 		name string
 		set  online.RefitSettings
@@ -193,7 +194,7 @@ func TestRefitterBadInput(t *testing.T) {
 			testutilWords(t, err, tc.want, "online.NewRefitter")
 		})
 	}
-	ev := mustModel(t, "y = w B x + k step(10) + a; where w ~ 0.5, k ~ 1")
+	ev := fixture.MustModel(t, "y = w B x + k step(10) + a; where w ~ 0.5, k ~ 1")
 	if _, err := online.NewRefitter(context.Background(), ev, refitByFit, nil); !errors.Is(err, errs.ErrModel) || !strings.Contains(fmt.Sprint(err), `input "step(10)"`) {
 		t.Errorf("event model: %v, want a *ModelError naming the event input", err)
 	}

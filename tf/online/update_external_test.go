@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/online"
@@ -32,7 +33,7 @@ func feed(t testing.TB, e *online.Estimator, data map[string][]float64, y string
 
 // Update allocates nothing per sample, during the warm-up or after it.
 func TestUpdateAllocs(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	data := record(t, m, 2000, 0.3, 3)
 	e, err := online.New(m, nil)
 	if err != nil {
@@ -66,7 +67,7 @@ func TestUpdateAllocs(t *testing.T) {
 // other work, the cost of an update when the process had the core to
 // itself.
 func BenchmarkUpdate(b *testing.B) {
-	m := mustModel(b, eightSpec)
+	m := fixture.MustModel(b, eightSpec)
 	const n = 1 << 14
 	data := record(b, m, n, 0.3, 5)
 	e, err := online.New(m, nil)
@@ -105,7 +106,7 @@ func BenchmarkUpdate(b *testing.B) {
 // the default bound (10 times that value) it never exceeds the bound,
 // and Counts.Bounded counts the scalings.
 func TestUpdateTraceBound(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	data := record(t, m, 4000, 0.3, 13)
 	for _, name := range []string{"x1", "x2"} {
 		x := data[name]
@@ -150,7 +151,7 @@ func TestUpdateTraceBound(t *testing.T) {
 // (|d1| or |d2| >= 1) or make the MA polynomial non-invertible
 // (|t1| >= 1) is refused and counted, so the model stays stable.
 func TestUpdateRejectsUnstable(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	data := record(t, m, 3000, 0.3, 17)
 	y := data["y"]
 	for i := 1000; i < 1040; i++ {
@@ -185,7 +186,7 @@ func TestUpdateRejectsUnstable(t *testing.T) {
 // deviation 0.007, plus the error of the running sigma estimate), and
 // the estimates still approach the batch fit (within 2 batch SEs).
 func TestUpdateDeadZone(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	const n = 5000
 	data := record(t, m, n, 0.3, 19)
 	e, err := online.New(m, &online.Settings{Forgetting: 1, DeadZone: 1})
@@ -208,7 +209,7 @@ func TestUpdateDeadZone(t *testing.T) {
 // Bad samples are refused with the series and index, and the state is
 // left as it was: the run that met them ends where a clean run ends.
 func TestUpdateBadInput(t *testing.T) {
-	m := mustModel(t, eightSpec)
+	m := fixture.MustModel(t, eightSpec)
 	data := record(t, m, 300, 0.3, 23)
 	e, err := online.New(m, nil)
 	if err != nil {
@@ -254,7 +255,7 @@ func TestUpdateBadInput(t *testing.T) {
 // common practice), and the refused updates are counted. A start that
 // is not stationary is refused by New.
 func TestUpdateKeepsNoiseARStationary(t *testing.T) {
-	m := mustModel(t, "y = w0 B x + 1 / (1 - p1 B) a; where w0 ~ 0.5, p1 ~ 0.9")
+	m := fixture.MustModel(t, "y = w0 B x + 1 / (1 - p1 B) a; where w0 ~ 0.5, p1 ~ 0.9")
 	r := rand.New(rand.NewPCG(21, 22))
 	n := 4000
 	x, y := make([]float64, n), make([]float64, n)
@@ -285,7 +286,7 @@ func TestUpdateKeepsNoiseARStationary(t *testing.T) {
 	if c := e.Counts(); c.Rejected == 0 {
 		t.Errorf("no update was refused (%+v): the random walk should push p1 to the unit circle", c)
 	}
-	bad := mustModel(t, "y = w0 B x + 1 / (1 - p1 B) a; where w0 ~ 0.5, p1 ~ 1.2")
+	bad := fixture.MustModel(t, "y = w0 B x + 1 / (1 - p1 B) a; where w0 ~ 0.5, p1 ~ 1.2")
 	if _, err := online.New(bad, nil); !errors.Is(err, tf.ErrModel) || !strings.Contains(err.Error(), "noise AR") {
 		t.Errorf("a non-stationary start: got %v", err)
 	}

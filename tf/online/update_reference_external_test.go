@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/online"
 )
@@ -36,7 +37,7 @@ func TestUpdateReferenceRLS(t *testing.T) {
 		}
 	}
 	testutil.ReadJSON(t, "testdata/online/rls.json", &ref)
-	m := mustModel(t, "y = (w0 + w1 B) / (1 - a1 B - a2 B^2) B x + 1 / (1 - a1 B - a2 B^2) a"+
+	m := fixture.MustModel(t, "y = (w0 + w1 B) / (1 - a1 B - a2 B^2) B x + 1 / (1 - a1 B - a2 B^2) a"+
 		"; where w0 ~ 0.5, w1 ~ 0, a1 ~ 1, a2 ~ -0.3")
 	for _, c := range ref.Cases {
 		e, err := online.New(m, &online.Settings{Forgetting: c.Lambda, Warmup: ref.Warmup})

@@ -5,6 +5,8 @@ import (
 	"strconv"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/predict"
 )
 
@@ -27,7 +29,7 @@ func BenchmarkUpdateDifferenced(b *testing.B) {
 func benchUpdate(b *testing.B, spec string) {
 	runtime.LockOSThread()
 	defer runtime.UnlockOSThread()
-	m := mustModel(b, spec)
+	m := fixture.MustModel(b, spec)
 	data := record(b, spec, 4096, 1)
 	p, err := predict.New(m, 1, nil)
 	if err != nil {
@@ -42,7 +44,7 @@ func benchUpdate(b *testing.B, spec string) {
 		p.Update(rows[i], y[i])
 	}
 	b.ReportAllocs()
-	c0, ok := threadCPU()
+	c0, ok := testutil.ThreadCPU()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		k := i & 4095
@@ -51,7 +53,7 @@ func benchUpdate(b *testing.B, spec string) {
 		}
 	}
 	b.StopTimer()
-	if c1, ok1 := threadCPU(); ok && ok1 {
+	if c1, ok1 := testutil.ThreadCPU(); ok && ok1 {
 		b.ReportMetric(float64(c1-c0)/float64(b.N), "cpu-ns/op")
 	}
 }
@@ -59,7 +61,7 @@ func benchUpdate(b *testing.B, spec string) {
 // BenchmarkForecast times a forecast of h steps with planned inputs
 // for the same model, h = 10, 100, 1000.
 func BenchmarkForecast(b *testing.B) {
-	m := mustModel(b, benchSpec)
+	m := fixture.MustModel(b, benchSpec)
 	data := record(b, benchSpec, 500, 1)
 	p, err := predict.New(m, 1, nil)
 	if err != nil {

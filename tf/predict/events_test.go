@@ -8,6 +8,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf/predict"
 )
 
@@ -19,7 +20,7 @@ import (
 // series, and Forecast continues the indicators. Exact to 1e-15
 // relative: one or two roundings.
 func TestEvents(t *testing.T) {
-	p, err := predict.New(mustModel(t, "y = 0.5 B x + 2 step(10) + 3 pulse(12) + a"), 1, nil)
+	p, err := predict.New(fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + 3 pulse(12) + a"), 1, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -70,7 +71,7 @@ func TestEvents(t *testing.T) {
 // the step at sample 10 (tf.Event.Sample). Without a sample interval the
 // timed event cannot be placed: a *ModelError naming the input.
 func TestEventTimes(t *testing.T) {
-	m := mustModel(t, "y = 2 step(2026-03-01T08:10) + a")
+	m := fixture.MustModel(t, "y = 2 step(2026-03-01T08:10) + a")
 	m.Interval.Value, m.Interval.Unit = 1, "min"
 	start := time.Date(2026, 3, 1, 8, 0, 0, 0, time.UTC)
 	p, err := predict.New(m, 1, &predict.Settings{Start: start})

@@ -6,7 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/predict"
@@ -44,23 +44,13 @@ var cases = []struct {
 		"y = 1.2 u1 + (0.6 + 0.3 B) B u2 + (1 + 0.5 B + 0.2 B^2) a", fit.Settings{ZeroPreSample: true}},
 }
 
-// mustModel parses spec or fails the test.
-func mustModel(t testing.TB, spec string) tf.Model {
-	t.Helper()
-	m, err := parse.Model(spec)
-	if err != nil {
-		t.Fatalf("parse %q: %v", spec, err)
-	}
-	return m
-}
-
 // record simulates n samples of the model spec with unit-variance
 // Gaussian innovations (seeded) and inputs of our own: u1 steps between
 // random levels around 50 held for 5 to 24 samples, u2 an AR(1) series
 // about 10.
 func record(t testing.TB, spec string, n int, seed uint64) map[string][]float64 {
 	t.Helper()
-	m := mustModel(t, spec)
+	m := fixture.MustModel(t, spec)
 	rng := rand.New(rand.NewPCG(seed, seed+1))
 	u1 := make([]float64, n)
 	u2 := make([]float64, n)
@@ -97,7 +87,7 @@ func record(t testing.TB, spec string, n int, seed uint64) map[string][]float64 
 // these tests call it (tf.Fit, to be fit.Model).
 func fitModel(t testing.TB, spec string, data map[string][]float64, set fit.Settings) *fit.Estimate {
 	t.Helper()
-	e, err := fit.Model(context.Background(), mustModel(t, spec), data, &set)
+	e, err := fit.Model(context.Background(), fixture.MustModel(t, spec), data, &set)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -79,11 +79,7 @@ func (pl *plan) checkPlan(plan [][]float64, t int) error {
 		}
 		for j, v := range xs {
 			if !(math.Abs(v) <= MaxMagnitude) {
-				lim := 0.0
-				if !math.IsNaN(v) && !math.IsInf(v, 0) {
-					lim = MaxMagnitude
-				}
-				return &errs.SampleError{Series: "plan[" + name + "]", Index: j, Value: v, Limit: lim}
+				return badSample("plan["+name+"]", j, v)
 			}
 		}
 	}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/predict"
@@ -164,58 +165,51 @@ func TestMissingOutputs(t *testing.T) {
 // sigma sqrt(h). Tolerance 1e-13 relative: a few roundings per step.
 func TestForecastClosedForms(t *testing.T) {
 	const h = 12
-	t.Run("AR(1)", func(t *testing.T) {
-		const c, phi, sigma2 = 10.0, 0.7, 4.0
-		k := tf.Coef{Value: c}
-		m := tf.Model{Output: "y", Const: &k, Noise: &tf.Noise{AR: polyOf(1, -phi)}}
-		p, err := predict.New(m, sigma2, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		for _, y := range []float64{9, 11, 13.5} {
-			if _, err := p.Update(nil, y); err != nil {
+	const c, phi = 10.0, 0.7
+	k := tf.Coef{Value: c}
+	for _, tc := range []struct {
+		name    string
+		m       tf.Model
+		sigma2  float64
+		ys      []float64
+		want    func(h float64) (mean, se float64) // h steps ahead of the last y
+		meanTol float64                            // relative; 0: exactly
+	}{
+		{"AR(1)", tf.Model{Output: "y", Const: &k, Noise: &tf.Noise{AR: polyOf(1, -phi)}}, 4, []float64{9, 11, 13.5},
+			func(h float64) (float64, float64) {
+				return c + math.Pow(phi, h)*(13.5-c), math.Sqrt(4 * (1 - math.Pow(phi, 2*h)) / (1 - phi*phi))
+			}, 1e-13},
+		{"random walk", tf.Model{Output: "y", Diff: polyOf(1, -1), Noise: &tf.Noise{}}, 1, []float64{1, 2, 4},
+			func(h float64) (float64, float64) { return 4, math.Sqrt(h) }, 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			p, err := predict.New(tc.m, tc.sigma2, nil)
+			if err != nil {
 				t.Fatal(err)
 			}
-		}
-		got := make([]predict.Point, h)
-		if err := p.Forecast(got, nil); err != nil {
-			t.Fatal(err)
-		}
-		for j, g := range got {
-			k := float64(j + 1)
-			mean := c + math.Pow(phi, k)*(13.5-c)
-			se := math.Sqrt(sigma2 * (1 - math.Pow(phi, 2*k)) / (1 - phi*phi))
-			if !near(g.Mean, mean, 1e-13, mean) || !near(g.SE, se, 1e-13, se) {
-				t.Fatalf("step %d: %+v, want mean %v SE %v", j+1, g, mean, se)
+			for _, y := range tc.ys {
+				if _, err := p.Update(nil, y); err != nil {
+					t.Fatal(err)
+				}
 			}
-		}
-	})
-	t.Run("random walk", func(t *testing.T) {
-		p, err := predict.New(tf.Model{Output: "y", Diff: polyOf(1, -1), Noise: &tf.Noise{}}, 1, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		for _, y := range []float64{1, 2, 4} {
-			if _, err := p.Update(nil, y); err != nil {
+			got := make([]predict.Point, h)
+			if err := p.Forecast(got, nil); err != nil {
 				t.Fatal(err)
 			}
-		}
-		got := make([]predict.Point, h)
-		if err := p.Forecast(got, nil); err != nil {
-			t.Fatal(err)
-		}
-		for j, g := range got {
-			if se := math.Sqrt(float64(j + 1)); g.Mean != 4 || !near(g.SE, se, 1e-13, se) {
-				t.Fatalf("step %d: %+v, want mean 4 SE %v", j+1, g, se)
+			for j, g := range got {
+				mean, se := tc.want(float64(j + 1))
+				if !near(g.Mean, mean, tc.meanTol, mean) || !near(g.SE, se, 1e-13, se) {
+					t.Fatalf("step %d: %+v, want mean %v SE %v", j+1, g, mean, se)
+				}
 			}
-		}
-	})
+		})
+	}
 }
 
 // TestForecastBadInput: requests Forecast refuses, each with its typed
 // error, and a forecast leaves the predictor as it was.
 func TestForecastBadInput(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 60, 4)
 	p, _ := predict.New(m, 1, nil)
 	dst := make([]predict.Point, 5)

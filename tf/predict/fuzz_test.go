@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/predict"
 )
@@ -114,7 +115,7 @@ func finite(v ...float64) bool {
 // (ErrFormat or ErrOtherModel, the predictor unchanged) or a state from
 // which Update and Forecast give finite numbers or a typed error.
 func FuzzRestore(f *testing.F) {
-	m := mustModel(f, benchSpec)
+	m := fixture.MustModel(f, benchSpec)
 	p, err := predict.New(m, 1, nil)
 	if err != nil {
 		f.Fatal(err)

@@ -5,6 +5,7 @@ import (
 	"slices"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf/predict"
 )
@@ -45,7 +46,7 @@ func TestGapReference(t *testing.T) {
 	sigma := math.Sqrt(ref.Sigma2)
 	for _, c := range ref.Cases {
 		t.Run(c.Name, func(t *testing.T) {
-			p, err := predict.New(mustModel(t, c.Spec), ref.Sigma2, nil)
+			p, err := predict.New(fixture.MustModel(t, c.Spec), ref.Sigma2, nil)
 			if err != nil {
 				t.Fatal(err)
 			}

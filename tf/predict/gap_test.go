@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf/monitor"
 	"github.com/backshift/backshift/tf/predict"
 )
@@ -21,7 +22,7 @@ import (
 // every run.
 func gapExperiment(t *testing.T, runs int, arl float64) (before, samples, after int, z []float64) {
 	const sigma = 0.1
-	m := mustModel(t, "(1 - B) y = 0.5 B (1 - B) x + (1 - 0.3 B) a")
+	m := fixture.MustModel(t, "(1 - B) y = 0.5 B (1 - B) x + (1 - 0.3 B) a")
 	for run := range runs {
 		rng := rand.New(rand.NewPCG(uint64(run), 9))
 		p, err := predict.New(m, sigma*sigma, nil)

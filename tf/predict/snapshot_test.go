@@ -4,6 +4,7 @@ import (
 	"errors"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf/predict"
 )
 
@@ -13,7 +14,7 @@ import (
 func TestSnapshotRoundTrip(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			m := mustModel(t, c.true)
+			m := fixture.MustModel(t, c.true)
 			data := record(t, c.true, 300, 8)
 			set := &predict.Settings{First: c.fit.First, ZeroPreSample: c.fit.ZeroPreSample}
 			p, err := predict.New(m, 1, set)
@@ -53,14 +54,14 @@ func TestSnapshotRoundTrip(t *testing.T) {
 // or cut short is refused with its typed error and the predictor is
 // unchanged.
 func TestSnapshotBadInput(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 8)
 	p, _ := predict.New(m, 1, nil)
 	if err := p.Warm(data); err != nil {
 		t.Fatal(err)
 	}
 	snap, _ := p.MarshalBinary()
-	other, _ := predict.New(mustModel(t, "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.5 B) / (1 - 0.6 B) a"), 1, nil)
+	other, _ := predict.New(fixture.MustModel(t, "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.5 B) / (1 - 0.6 B) a"), 1, nil)
 	moved, _ := predict.New(m, 1, &predict.Settings{First: 10})
 	fresh, _ := predict.New(m, 1, nil)
 	before, _ := fresh.MarshalBinary()

@@ -72,11 +72,7 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 	}
 	for i, v := range x {
 		if !(math.Abs(v) <= MaxMagnitude) {
-			lim := 0.0
-			if !math.IsNaN(v) && !math.IsInf(v, 0) {
-				lim = MaxMagnitude
-			}
-			return &errs.SampleError{Series: pl.names[i], Index: t, Value: v, Limit: lim}
+			return badSample(pl.names[i], t, v)
 		}
 	}
 	switch {
@@ -90,6 +86,16 @@ func (pl *plan) checkSample(x []float64, y float64, t int) error {
 		return &errs.SampleError{Series: pl.output, Index: t, Value: y, Limit: MaxMagnitude}
 	}
 	return nil
+}
+
+// badSample returns the *SampleError of a sample v that is NaN, infinite
+// or beyond MaxMagnitude, with Limit MaxMagnitude for a finite one.
+func badSample(series string, index int, v float64) error {
+	lim := 0.0
+	if !math.IsNaN(v) && !math.IsInf(v, 0) {
+		lim = MaxMagnitude
+	}
+	return &errs.SampleError{Series: series, Index: index, Value: v, Limit: lim}
 }
 
 // startupMissing reports a missing output before First: a

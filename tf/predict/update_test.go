@@ -8,6 +8,7 @@ import (
 	"sync"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/predict"
 )
@@ -59,7 +60,7 @@ func TestInnovationsEqualFitResiduals(t *testing.T) {
 // sigma for constant terms 1 and the limits are Mean -/+ 1.959963984540054
 // SE at Level 0.95 (scipy.stats.norm.ppf(0.975) = 1.959963984540054).
 func TestStepInterval(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	p, err := predict.New(m, 2.25, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -84,7 +85,7 @@ func TestStepInterval(t *testing.T) {
 // and leaves the state as it was (the next good sample gives the same
 // step as on an undisturbed clone).
 func TestUpdateBadInput(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 40, 5)
 	p, err := predict.New(m, 1, nil)
 	if err != nil {
@@ -138,7 +139,7 @@ func TestUpdateBadInput(t *testing.T) {
 // state as it was, at the first sample and later (dead-time ring and
 // filter states included).
 func TestUpdateOverflow(t *testing.T) {
-	m := mustModel(t, "y = 1e300 u1 + 2 / (1 - 0.5 B) B^2 u2 + a")
+	m := fixture.MustModel(t, "y = 1e300 u1 + 2 / (1 - 0.5 B) B^2 u2 + a")
 	p, err := predict.New(m, 1, &predict.Settings{ZeroPreSample: true})
 	if err != nil {
 		t.Fatal(err)
@@ -193,7 +194,7 @@ func TestNewBadInput(t *testing.T) {
 			"predict.New: noise MA: it has a root on or outside the unit circle (largest |z| = 2): the noise is not invertible, so the innovations would not forget their start-up values"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			_, err := predict.New(mustModel(t, c.spec), c.sigma2, c.set)
+			_, err := predict.New(fixture.MustModel(t, c.spec), c.sigma2, c.set)
 			if !errors.Is(err, c.kind) || err == nil || err.Error() != c.msg {
 				t.Fatalf("error %v\nwant %s", err, c.msg)
 			}
@@ -208,7 +209,7 @@ func TestNewBadInput(t *testing.T) {
 // sample, refuses a history without a series or with unequal lengths,
 // and leaves the predictor unchanged on error.
 func TestWarm(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 200, 9)
 	a, _ := predict.New(m, 1, nil)
 	b, _ := predict.New(m, 1, nil)
@@ -248,7 +249,7 @@ func TestWarm(t *testing.T) {
 // TestAllocs checks the zero-allocation claims of Update and Forecast
 // with testing.AllocsPerRun.
 func TestAllocs(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 1)
 	p, _ := predict.New(m, 1, nil)
 	if err := p.Warm(data); err != nil {
@@ -279,7 +280,7 @@ func TestAllocs(t *testing.T) {
 	if n := testing.AllocsPerRun(1000, func() { p.Update(x, obs()) }); n != 0 {
 		t.Errorf("Update across gaps: %v allocations per sample, want 0", n)
 	}
-	ev, _ := predict.New(mustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
+	ev, _ := predict.New(fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
 	ev.Update([]float64{1}, 1)
 	if n := testing.AllocsPerRun(1000, func() { ev.Update([]float64{1}, obs()) }); n != 0 {
 		t.Errorf("Update of a model with an event: %v allocations per sample, want 0", n)
@@ -289,7 +290,7 @@ func TestAllocs(t *testing.T) {
 // TestClone: a clone continues exactly as the original and does not
 // share its state.
 func TestClone(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 120, 2)
 	p, _ := predict.New(m, 1, nil)
 	if err := p.Warm(window(data, 60)); err != nil {
@@ -314,7 +315,7 @@ func TestClone(t *testing.T) {
 // goroutines, and clones of one predictor fed in several goroutines,
 // give the same steps as one predictor fed alone (run with -race).
 func TestConcurrentUse(t *testing.T) {
-	m := mustModel(t, benchSpec)
+	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 300, 6)
 	want := make([]predict.Step, 300)
 	ref, _ := predict.New(m, 1, nil)

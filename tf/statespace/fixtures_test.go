@@ -6,7 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -48,16 +48,6 @@ var fixtures = []struct {
 	{"zero", "y = 0 x + a", 0},
 }
 
-// mustModel parses a fixture.
-func mustModel(t testing.TB, spec string) tf.Model {
-	t.Helper()
-	m, err := parse.Model(spec)
-	if err != nil {
-		t.Fatalf("%s: %v", spec, err)
-	}
-	return m
-}
-
 // series returns n seeded standard normal draws times s.
 func series(n int, s float64, seed uint64) []float64 {
 	rng := rand.New(rand.NewPCG(seed, 7))
@@ -66,6 +56,37 @@ func series(n int, s float64, seed uint64) []float64 {
 		x[i] = s * rng.NormFloat64()
 	}
 	return x
+}
+
+// mustRealise parses spec and realises it, or ends the test.
+func mustRealise(t testing.TB, spec string) (tf.Model, *Realisation) {
+	t.Helper()
+	m := fixture.MustModel(t, spec)
+	r, err := Realise(m)
+	if err != nil {
+		t.Fatalf("%s: %v", spec, err)
+	}
+	return m, r
+}
+
+// drive returns the inputs of fixture k of model m, n seeded standard
+// normal draws plus offset for each input (as a record, and in the
+// model's order), and n innovations of SD 0.3 when m has noise (nil
+// when not).
+func drive(m tf.Model, n, k int, offset float64) (data map[string][]float64, inputs [][]float64, a []float64) {
+	data = map[string][]float64{}
+	for i, in := range m.Inputs {
+		x := series(n, 1, uint64(10*k+i))
+		for j := range x {
+			x[j] += offset
+		}
+		data[in.Series] = x
+		inputs = append(inputs, x)
+	}
+	if m.Noise != nil {
+		a = series(n, 0.3, uint64(100+k))
+	}
+	return data, inputs, a
 }
 
 // maxAbs returns the largest magnitude in x (at least 1, so that it

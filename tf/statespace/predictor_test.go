@@ -3,11 +3,13 @@ package statespace
 import (
 	"errors"
 	"math"
+	"slices"
 	"strconv"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/parse"
 
 	"github.com/backshift/backshift/tf"
@@ -39,11 +41,11 @@ func TestPredictorMatchesFitResiduals(t *testing.T) {
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			x := series(n, 1, 3)
-			y, err := mustModel(t, c.truth).Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.5, Seed1: 4})
+			y, err := fixture.MustModel(t, c.truth).Simulate(map[string][]float64{"x": x}, &tf.SimSettings{Sigma: 0.5, Seed1: 4})
 			if err != nil {
 				t.Fatal(err)
 			}
-			held, resid, first := fitModel(t, mustModel(t, c.free), map[string][]float64{"x": x, "y": y})
+			held, resid, first := fitModel(t, fixture.MustModel(t, c.free), map[string][]float64{"x": x, "y": y})
 			r, err := Realise(held)
 			if err != nil {
 				t.Fatal(err)
@@ -70,7 +72,7 @@ func TestPredictorMatchesFitResiduals(t *testing.T) {
 // Phi = 1 - 1.5 B + 0.5 B^2, so K = (-0.4 + 1.5, 0 - 0.5) = (1.1, -0.5)
 // (by hand), after the path's two states.
 func TestGain(t *testing.T) {
-	r, err := Realise(mustModel(t, "(1 - B) y = 0.5 / (1 - 0.6 B) B^2 ((1 - B) x) + (1 - 0.4 B) / (1 - 0.5 B) a"))
+	r, err := Realise(fixture.MustModel(t, "(1 - B) y = 0.5 / (1 - 0.6 B) B^2 ((1 - B) x) + (1 - 0.4 B) / (1 - 0.5 B) a"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -87,7 +89,7 @@ func TestGain(t *testing.T) {
 			t.Errorf("K[%d] = %g, want %g", i, k.At(i, 0), w)
 		}
 	}
-	r, _ = Realise(mustModel(t, "y = 0.5 B x"))
+	r, _ = Realise(fixture.MustModel(t, "y = 0.5 B x"))
 	if _, err := r.Gain(); !errors.Is(err, ErrModel) {
 		t.Errorf("noise-free Gain: %v, want ErrModel", err)
 	}
@@ -99,7 +101,7 @@ func TestGain(t *testing.T) {
 // Step records the first non-finite input or output in Err, and Reset
 // clears it; the predictor's errors after Reset are those of a fresh one.
 func TestPredictorErr(t *testing.T) {
-	r, err := Realise(mustModel(t, "y = 0.5 B x + (1 - 0.3 B) a"))
+	r, err := Realise(fixture.MustModel(t, "y = 0.5 B x + (1 - 0.3 B) a"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -152,7 +154,7 @@ func TestGainIsKalmanSteadyState(t *testing.T) {
 		"y = 0.5 B x + (1 + 0.3 B) / (1 - 1.2 B + 0.35 B^2) a",
 		"(1 - B)(1 - B^4) y = 0.3 / (1 - 0.5 B) B^2 ((1 - B)(1 - B^4) x) + (1 - 0.4 B)(1 - 0.3 B^4) a",
 	} {
-		r, err := Realise(mustModel(t, spec))
+		r, err := Realise(fixture.MustModel(t, spec))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -190,7 +192,7 @@ func TestGainIsKalmanSteadyState(t *testing.T) {
 // A Realisation is shared by many goroutines, each with its own
 // Predictor; run with -race.
 func TestConcurrentUse(t *testing.T) {
-	r, err := Realise(mustModel(t, "y = 0.5 / (1 - 0.8 B) B^2 x + (1 - 0.3 B) a"))
+	r, err := Realise(fixture.MustModel(t, "y = 0.5 / (1 - 0.8 B) B^2 x + (1 - 0.3 B) a"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -205,22 +207,10 @@ func TestConcurrentUse(t *testing.T) {
 		}()
 	}
 	for range 4 {
-		if e := <-done; !slicesEqual(e, want) {
+		if e := <-done; !slices.Equal(e, want) {
 			t.Error("a concurrent run gave other errors")
 		}
 	}
-}
-
-func slicesEqual(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }
 
 func BenchmarkPredictorStep(b *testing.B) {

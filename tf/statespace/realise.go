@@ -5,6 +5,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -158,8 +159,8 @@ func planParts(m tf.Model) ([]planned, *ModelError) {
 			return nil, &ModelError{Part: "input " + strconv.Quote(in.Series), Problem: err.Error(), Err: err}
 		}
 		extraNum, extraDen := cancelDiff(in, dOut)
-		num := trim(mul(r.Num(), extraNum))
-		den := trim(mul(r.Den(), extraDen))
+		num := trim(poly.Mul(r.Num(), extraNum))
+		den := trim(poly.Mul(r.Den(), extraDen))
 		num, den = normalise(num, den)
 		p := planned{Part: Part{Name: in.Series, Num: num, Den: den, Delay: r.Delay()}, input: i}
 		if !(len(num) == 1 && num[0] == 0) {
@@ -200,7 +201,7 @@ func planNoise(m tf.Model, dOut []float64) (planned, *ModelError) {
 		}
 		theta, phi = r.Num(), r.Den()
 	}
-	den := trim(mul(phi, dOut))
+	den := trim(poly.Mul(phi, dOut))
 	num := append([]float64(nil), theta...)
 	var cnum []float64
 	if m.Const != nil {
@@ -282,17 +283,6 @@ func divExact(p, f []float64) ([]float64, bool) {
 		}
 	}
 	return q, true
-}
-
-// mul returns the product of two polynomials in B.
-func mul(a, b []float64) []float64 {
-	c := make([]float64, len(a)+len(b)-1)
-	for i, x := range a {
-		for j, y := range b {
-			c[i+j] += x * y
-		}
-	}
-	return c
 }
 
 // scale returns s times a (nil for nil a).

@@ -20,10 +20,10 @@ func FuzzRealise(f *testing.F) {
 	f.Add([]byte{30, 127, 9, 127}, []byte{30, 128, 9, 100}, uint8(200), []byte{1, 1}, []byte{2, 2}, true, uint8(0))
 	h := testutil.Hostile{Max: 6, Div: 64, Up: 1e150, Down: 1e-150}
 	f.Fuzz(func(t *testing.T, num, den []byte, delay uint8, ma, ar []byte, konst bool, diff uint8) {
-		m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: poly(testutil.HostileSeries(num, h), 0),
-			Den: poly(testutil.HostileSeries(den, h), 1), Delay: int(delay) * 4}}}
+		m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: fixedPoly(testutil.HostileSeries(num, h), 0),
+			Den: fixedPoly(testutil.HostileSeries(den, h), 1), Delay: int(delay) * 4}}}
 		if len(ma)+len(ar) > 0 {
-			m.Noise = &tf.Noise{MA: poly(testutil.HostileSeries(ma, h), 1), AR: poly(testutil.HostileSeries(ar, h), 1)}
+			m.Noise = &tf.Noise{MA: fixedPoly(testutil.HostileSeries(ma, h), 1), AR: fixedPoly(testutil.HostileSeries(ar, h), 1)}
 		}
 		if konst {
 			m.Const = &tf.Coef{Value: 0.5}
@@ -73,10 +73,10 @@ func FuzzRealise(f *testing.F) {
 	})
 }
 
-// poly returns a polynomial of fixed numbers with the constant term
+// fixedPoly returns a polynomial of fixed numbers with the constant term
 // lead (1 for a denominator or noise polynomial, as the model requires)
 // followed by c, or c itself for lead 0 (a numerator).
-func poly(c []float64, lead float64) tf.Poly {
+func fixedPoly(c []float64, lead float64) tf.Poly {
 	if lead != 0 {
 		c = append([]float64{lead}, c...)
 	}

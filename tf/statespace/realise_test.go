@@ -8,6 +8,8 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/backshift/backshift/internal/fixture"
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -15,7 +17,7 @@ import (
 // each fixture (see fixtures).
 func TestStateCount(t *testing.T) {
 	for _, f := range fixtures {
-		r, err := Realise(mustModel(t, f.spec))
+		r, err := Realise(fixture.MustModel(t, f.spec))
 		if err != nil {
 			t.Fatalf("%s: %v", f.name, err)
 		}
@@ -38,11 +40,7 @@ func TestStateCount(t *testing.T) {
 // the rounding of a few products: 1e-12 relative).
 func TestPartsTransfer(t *testing.T) {
 	for _, f := range fixtures {
-		m := mustModel(t, f.spec)
-		r, err := Realise(m)
-		if err != nil {
-			t.Fatal(err)
-		}
+		m, r := mustRealise(t, f.spec)
 		parts := r.Parts()
 		for i, in := range m.Inputs {
 			g, _ := in.Rational()
@@ -50,12 +48,12 @@ func TestPartsTransfer(t *testing.T) {
 			if p.Name != in.Series || p.Delay != in.Delay {
 				t.Errorf("%s input %d: part %q delay %d, want %q delay %d", f.name, i, p.Name, p.Delay, in.Series, in.Delay)
 			}
-			crossEqual(t, f.name+" "+in.Series, p.Num, p.Den, mul(g.Num(), in.DiffCoeffs()), mul(g.Den(), m.DiffCoeffs()))
+			crossEqual(t, f.name+" "+in.Series, p.Num, p.Den, poly.Mul(g.Num(), in.DiffCoeffs()), poly.Mul(g.Den(), m.DiffCoeffs()))
 		}
 		if m.Noise != nil {
 			ma, ar, _ := m.NoiseCoeffs()
 			p := parts[len(m.Inputs)]
-			crossEqual(t, f.name+" noise", p.Num, p.Den, ma, mul(ar, m.DiffCoeffs()))
+			crossEqual(t, f.name+" noise", p.Num, p.Den, ma, poly.Mul(ar, m.DiffCoeffs()))
 		}
 	}
 }
@@ -63,7 +61,7 @@ func TestPartsTransfer(t *testing.T) {
 // crossEqual fails unless n1/d1 = n2/d2, that is n1 d2 = n2 d1.
 func crossEqual(t *testing.T, what string, n1, d1, n2, d2 []float64) {
 	t.Helper()
-	a, b := trim(mul(n1, d2)), trim(mul(n2, d1))
+	a, b := trim(poly.Mul(n1, d2)), trim(poly.Mul(n2, d1))
 	if len(a) != len(b) {
 		t.Errorf("%s: %v/%v is not %v/%v", what, n1, d1, n2, d2)
 		return
@@ -138,11 +136,7 @@ func block(r *Realisation, p Part, i int) (*mat.Dense, []float64, []float64) {
 // written order and fails the test, which shows that it can fail.
 func TestMinimal(t *testing.T) {
 	for _, f := range fixtures {
-		m := mustModel(t, f.spec)
-		r, err := Realise(m)
-		if err != nil {
-			t.Fatal(err)
-		}
+		m, r := mustRealise(t, f.spec)
 		for i, p := range r.Parts() {
 			if p.States == 0 || p.Name == "constant" || (p.Name == "noise" && m.Noise == nil) {
 				continue
@@ -157,7 +151,7 @@ func TestMinimal(t *testing.T) {
 			}
 		}
 	}
-	r, err := Realise(mustModel(t, "y = (1 - 0.5 B) / ((1 - 0.5 B)(1 - 0.8 B)) B x"))
+	r, err := Realise(fixture.MustModel(t, "y = (1 - 0.5 B) / ((1 - 0.5 B)(1 - 0.8 B)) B x"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -175,7 +169,7 @@ func TestMinimal(t *testing.T) {
 // Its pulse response is 0.5 0.8^(k-3) from k = 3 (the difference
 // equation y_t = 0.8 y_{t-1} + 0.5 x_{t-3} by hand).
 func TestDelayStates(t *testing.T) {
-	r, err := Realise(mustModel(t, "y = 0.5 / (1 - 0.8 B) B^3 x"))
+	r, err := Realise(fixture.MustModel(t, "y = 0.5 / (1 - 0.8 B) B^3 x"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -203,21 +197,21 @@ func TestDelayStates(t *testing.T) {
 // TestRealiseBadInput: each model Realise must refuse, with the kind and
 // the words of its message.
 func TestRealiseBadInput(t *testing.T) {
-	zeroConst := mustModel(t, "y = 0.5 B x")
+	zeroConst := fixture.MustModel(t, "y = 0.5 B x")
 	zeroConst.Diff = tf.Poly{Factors: []tf.Factor{{Terms: []tf.Term{{Coef: tf.Coef{Value: 1}, Power: 1}}, Exp: 1}}}
-	huge := mustModel(t, "y = 1e200 ((1 - B) x)")
+	huge := fixture.MustModel(t, "y = 1e200 ((1 - B) x)")
 	huge.Inputs[0].Diff.Factors[0].Terms[1].Coef.Value = 1e200
 	for _, c := range []struct {
 		name string
 		m    tf.Model
 		want []string
 	}{
-		{"free", mustModel(t, "y = c + w0 / (1 - d1 B) B x + a where c ~ 1, w0 ~ 0.5, d1 = 0.5"), []string{"coefficients c, w0", "free", "Held()"}},
+		{"free", fixture.MustModel(t, "y = c + w0 / (1 - d1 B) B x + a where c ~ 1, w0 ~ 0.5, d1 = 0.5"), []string{"coefficients c, w0", "free", "Held()"}},
 		{"invalid", tf.Model{Output: "y", Inputs: []tf.Input{{Series: "", Num: tf.Poly{}}}}, []string{"input 1", "no series name"}},
-		{"states", mustModel(t, "y = 0.5 / (1 - 0.8 B) B^2000 x"), []string{"needs 2000 states", "MaxStates", "dead time 2000"}},
+		{"states", fixture.MustModel(t, "y = 0.5 / (1 - 0.8 B) B^2000 x"), []string{"needs 2000 states", "MaxStates", "dead time 2000"}},
 		{"zero constant", zeroConst, []string{"differencing", "constant term", "zero"}},
 		{"overflow", huge, []string{"matrix", "too large"}},
-		{"event", mustModel(t, "y = 0.5 B x + 2 step(10) + a"), []string{`input "step(10)"`, "event", "tf/predict", "EventData"}},
+		{"event", fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + a"), []string{`input "step(10)"`, "event", "tf/predict", "EventData"}},
 	} {
 		_, err := Realise(c.m)
 		var me *ModelError

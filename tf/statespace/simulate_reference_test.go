@@ -3,6 +3,7 @@ package statespace
 import (
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
 )
 
@@ -44,7 +45,7 @@ func TestAgainstScipy(t *testing.T) {
 	}
 	for _, c := range ref.Cases {
 		t.Run(c.Name, func(t *testing.T) {
-			r, err := Realise(mustModel(t, c.Spec))
+			r, err := Realise(fixture.MustModel(t, c.Spec))
 			if err != nil {
 				t.Fatal(err)
 			}

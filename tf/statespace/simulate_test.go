@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -37,11 +38,7 @@ func TestResponsesMatchTF(t *testing.T) {
 	const n = 200
 	for _, f := range fixtures {
 		t.Run(f.name, func(t *testing.T) {
-			m := mustModel(t, f.spec)
-			r, err := Realise(m)
-			if err != nil {
-				t.Fatal(err)
-			}
+			m, r := mustRealise(t, f.spec)
 			for i := range m.Inputs {
 				g := pathRational(t, r.Parts()[i])
 				imp, err := r.Impulse(i, n)
@@ -68,25 +65,9 @@ func TestSimulateMatchesModel(t *testing.T) {
 	const n = 300
 	for k, f := range fixtures {
 		t.Run(f.name, func(t *testing.T) {
-			m := mustModel(t, f.spec)
-			r, err := Realise(m)
-			if err != nil {
-				t.Fatal(err)
-			}
-			data := map[string][]float64{}
-			var inputs [][]float64
-			for i, in := range m.Inputs {
-				x := series(n, 1, uint64(10*k+i))
-				data[in.Series] = x
-				inputs = append(inputs, x)
-			}
-			set := &tf.SimSettings{FromRest: true}
-			var a []float64
-			if m.Noise != nil {
-				a = series(n, 0.3, uint64(100+k))
-				set.Innovations = a
-			}
-			want, err := m.Simulate(data, set)
+			m, r := mustRealise(t, f.spec)
+			data, inputs, a := drive(m, n, k, 0)
+			want, err := m.Simulate(data, &tf.SimSettings{FromRest: true, Innovations: a})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -117,11 +98,11 @@ func closeSlices(t *testing.T, what string, got, want []float64, tol float64) {
 // TestSimulateBadInput: each call the simulation methods must refuse,
 // with the kind and the words of its message.
 func TestSimulateBadInput(t *testing.T) {
-	r, err := Realise(mustModel(t, "y = 2 + 0.5 / (1 - 0.8 B) B x + 0.2 v + (1 - 0.3 B) a"))
+	r, err := Realise(fixture.MustModel(t, "y = 2 + 0.5 / (1 - 0.8 B) B x + 0.2 v + (1 - 0.3 B) a"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	quiet, _ := Realise(mustModel(t, "y = 0.5 B x"))
+	quiet, _ := Realise(fixture.MustModel(t, "y = 0.5 B x"))
 	nan := math.NaN()
 	ok := []float64{1, 2, 3}
 	for _, c := range []struct {

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"testing"
 
+	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -15,7 +16,7 @@ import (
 func TestSteadyMatchesSettledSimulate(t *testing.T) {
 	const n = 300
 	for k, f := range fixtures {
-		m := mustModel(t, f.spec)
+		m := fixture.MustModel(t, f.spec)
 		if !m.Diff.IsOne() {
 			continue
 		}
@@ -24,25 +25,13 @@ func TestSteadyMatchesSettledSimulate(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			data := map[string][]float64{}
-			var inputs [][]float64
+			// Inputs about 5, far from zero, so that a wrong start shows.
+			data, inputs, a := drive(m, n, k, 5)
 			var first []float64
-			for i, in := range m.Inputs {
-				x := series(n, 1, uint64(10*k+i))
-				for j := range x {
-					x[j] += 5 // far from zero, so that a wrong start shows
-				}
-				data[in.Series] = x
-				inputs = append(inputs, x)
+			for _, x := range inputs {
 				first = append(first, x[0])
 			}
-			set := &tf.SimSettings{}
-			var a []float64
-			if m.Noise != nil {
-				a = series(n, 0.3, uint64(100+k))
-				set.Innovations = a
-			}
-			want, err := m.Simulate(data, set)
+			want, err := m.Simulate(data, &tf.SimSettings{Innovations: a})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -62,7 +51,7 @@ func TestSteadyMatchesSettledSimulate(t *testing.T) {
 // An integrating path has no settled state for a nonzero input; zero is
 // its rest. A u of the wrong length is refused.
 func TestSteadyBadInput(t *testing.T) {
-	r, err := Realise(mustModel(t, "(1 - B) y = 0.3 / (1 - 0.5 B) B x + a"))
+	r, err := Realise(fixture.MustModel(t, "(1 - B) y = 0.3 / (1 - 0.5 B) B x + a"))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -12,73 +12,26 @@
 package main
 
 import (
-	"bufio"
 	"context"
-	"flag"
 	"fmt"
-	"os"
 	"strconv"
 	"strings"
 	"time"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/testdata/peer/internal/timing"
 )
 
 func main() {
-	reps := flag.Int("reps", 3, "timed fits per file (the best is reported)")
-	flag.Parse()
-	if flag.NArg() == 0 || *reps < 1 {
-		fmt.Fprintln(os.Stderr, "usage: armamlpeer [-reps N] FILE...")
-		os.Exit(2)
-	}
-	for _, path := range flag.Args() {
-		y, err := readSeries(path)
-		if err != nil {
-			fmt.Fprintln(os.Stderr, err)
-			os.Exit(1)
-		}
-		var best time.Duration
-		var res *arma.Result
-		for r := 0; r < *reps; r++ {
-			start := time.Now()
-			res, err = arma.Fit(context.Background(), y, arma.Order{P: 2, Q: 1}, &arma.FitSettings{Method: arma.ExactML})
-			elapsed := time.Since(start)
-			if err != nil {
-				fmt.Fprintf(os.Stderr, "%s: %v\n", path, err)
-				os.Exit(1)
+	timing.Series("armamlpeer",
+		func(y []float64) (*arma.Result, error) {
+			return arma.Fit(context.Background(), y, arma.Order{P: 2, Q: 1}, &arma.FitSettings{Method: arma.ExactML})
+		},
+		func(y []float64, best time.Duration, res *arma.Result) string {
+			var cs []string
+			for _, p := range res.Params {
+				cs = append(cs, strconv.FormatFloat(p.Value, 'g', 8, 64))
 			}
-			if r == 0 || elapsed < best {
-				best = elapsed
-			}
-		}
-		var cs []string
-		for _, p := range res.Params {
-			cs = append(cs, strconv.FormatFloat(p.Value, 'g', 8, 64))
-		}
-		fmt.Printf("PEER n=%d seconds=%.6f loglik=%.12g coef=%s\n", len(y), best.Seconds(), res.LogLik, strings.Join(cs, ","))
-	}
-}
-
-// readSeries reads one number per line ("nan" is a missing sample); blank lines are
-// skipped.
-func readSeries(path string) ([]float64, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	var y []float64
-	sc := bufio.NewScanner(f)
-	for line := 1; sc.Scan(); line++ {
-		s := strings.TrimSpace(sc.Text())
-		if s == "" {
-			continue
-		}
-		v, err := strconv.ParseFloat(s, 64)
-		if err != nil {
-			return nil, fmt.Errorf("%s:%d: %v", path, line, err)
-		}
-		y = append(y, v)
-	}
-	return y, sc.Err()
+			return fmt.Sprintf("PEER n=%d seconds=%.6f loglik=%.12g coef=%s", len(y), best.Seconds(), res.LogLik, strings.Join(cs, ","))
+		})
 }

@@ -10,68 +10,20 @@
 package main
 
 import (
-	"bufio"
 	"context"
-	"flag"
 	"fmt"
-	"os"
-	"strconv"
-	"strings"
 	"time"
 
 	"github.com/backshift/backshift/arma"
+	"github.com/backshift/backshift/testdata/peer/internal/timing"
 )
 
 func main() {
-	reps := flag.Int("reps", 3, "timed fits per file (the best is reported)")
-	flag.Parse()
-	if flag.NArg() == 0 || *reps < 1 {
-		fmt.Fprintln(os.Stderr, "usage: armapeer [-reps N] FILE...")
-		os.Exit(2)
-	}
-	for _, path := range flag.Args() {
-		y, err := readSeries(path)
-		if err != nil {
-			fmt.Fprintln(os.Stderr, err)
-			os.Exit(1)
-		}
-		var best time.Duration
-		var res *arma.Result
-		for r := 0; r < *reps; r++ {
-			start := time.Now()
-			res, err = arma.Fit(context.Background(), y, arma.Order{P: 2, Q: 1}, nil)
-			elapsed := time.Since(start)
-			if err != nil {
-				fmt.Fprintf(os.Stderr, "%s: %v\n", path, err)
-				os.Exit(1)
-			}
-			if r == 0 || elapsed < best {
-				best = elapsed
-			}
-		}
-		fmt.Printf("PEER n=%d seconds=%.6f ssq=%.17g\n", len(y), best.Seconds(), res.SSQ)
-	}
-}
-
-// readSeries reads one number per line; blank lines are skipped.
-func readSeries(path string) ([]float64, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	var y []float64
-	sc := bufio.NewScanner(f)
-	for line := 1; sc.Scan(); line++ {
-		s := strings.TrimSpace(sc.Text())
-		if s == "" {
-			continue
-		}
-		v, err := strconv.ParseFloat(s, 64)
-		if err != nil {
-			return nil, fmt.Errorf("%s:%d: %v", path, line, err)
-		}
-		y = append(y, v)
-	}
-	return y, sc.Err()
+	timing.Series("armapeer",
+		func(y []float64) (*arma.Result, error) {
+			return arma.Fit(context.Background(), y, arma.Order{P: 2, Q: 1}, nil)
+		},
+		func(y []float64, best time.Duration, res *arma.Result) string {
+			return fmt.Sprintf("PEER n=%d seconds=%.6f ssq=%.17g", len(y), best.Seconds(), res.SSQ)
+		})
 }

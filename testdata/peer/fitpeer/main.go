@@ -8,10 +8,10 @@ import (
 	"flag"
 	"fmt"
 	"os"
-	"time"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/internal/testutil"
+	"github.com/backshift/backshift/testdata/peer/internal/timing"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -26,19 +26,14 @@ func main() {
 			os.Exit(1)
 		}
 		m := model()
-		var best time.Duration
 		var est *fit.Estimate
-		for r := 0; r < *reps; r++ {
-			t0 := time.Now()
+		best, err := timing.Best(*reps, func() (err error) {
 			est, err = fit.Model(context.Background(), m, data, nil)
-			el := time.Since(t0)
-			if err != nil {
-				fmt.Fprintln(os.Stderr, err)
-				os.Exit(1)
-			}
-			if r == 0 || el < best {
-				best = el
-			}
+			return err
+		})
+		if err != nil {
+			fmt.Fprintln(os.Stderr, err)
+			os.Exit(1)
 		}
 		par := map[string]float64{}
 		for _, p := range est.Params {

@@ -1,8 +1,0 @@
-//go:build !linux
-
-package main
-
-import "time"
-
-// threadCPU is not available here: benchmarks report wall time only.
-func threadCPU() (time.Duration, bool) { return 0, false }
