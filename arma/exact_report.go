@@ -38,25 +38,7 @@ func (p *mlProblem) report(ctx context.Context, y []float64, o FitSettings, x0, 
 	for t, v := range p.std {
 		res.Resid[t] = v * sc
 	}
-	res.Noise = Noise{AR: e.ar, MA: e.ma}
-	res.AR, res.MA = e.ar.Coeffs(), e.ma.Coeffs()
-	value := e.seriesUnits(x)
-	res.Model.Mean = e.mu * sc
-	if e.kmu >= 0 {
-		res.Model.Mean = value[e.kmu]
-	}
-	res.Model.Sigma2 = res.Sigma2
-	res.Beta = append([]float64(nil), e.beta...)
-	for k, b := range e.kb {
-		if b >= 0 {
-			res.Beta[k] = value[b]
-		}
-	}
-	starts := e.seriesUnits(x0)
-	res.Params = make([]Param, np)
-	for k := range res.Params {
-		res.Params[k] = Param{Name: e.names[k], Value: value[k], Start: starts[k], SE: math.NaN(), T: math.NaN()}
-	}
+	e.estimates(res, x, x0)
 	p.uncertainty(res, hess)
 	res.LogLik = st.LogLik() - float64(st.NObs)*math.Log(sc)
 	res.mlCriteria(np)
