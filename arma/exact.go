@@ -404,24 +404,7 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 	if jac == nil {
 		return nil
 	}
-	xt := append([]float64(nil), x...)
-	for k := range x {
-		h := 0x1p-26 * math.Max(math.Abs(x[k]), 1)
-		xt[k] = x[k] + h
-		if err := p.residuals(xt, jac[k]); err != nil {
-			// The forward point leaves the admissible region: step back.
-			h = -h
-			xt[k] = x[k] + h
-			if err := p.residuals(xt, jac[k]); err != nil {
-				return err
-			}
-		}
-		xt[k] = x[k]
-		for i := range r {
-			jac[k][i] = (jac[k][i] - r[i]) / h
-		}
-	}
-	return nil
+	return kalman.ForwardJacobian(p.residuals, x, r, jac)
 }
 
 // hessian returns minus the log-likelihood f0 at x and its
@@ -459,7 +442,7 @@ func (p *mlProblem) polish(x []float64, converged bool) ([]float64, *mat.SymDens
 		if !converged {
 			break
 		}
-		trial, step, ok := newtonStep(x, H, g)
+		trial, step, ok := kalman.NewtonStep(x, H, g)
 		if !ok || !(p.negLogLik(trial) <= f0) {
 			break
 		}

@@ -7,6 +7,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"github.com/backshift/backshift/internal/est"
+	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/internal/lm"
 	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
@@ -409,7 +410,7 @@ func (e *engine) polish(lres lm.Result) optimum {
 		if !lres.Reason.Converged() || it == 2 {
 			break
 		}
-		trial, step, ok := newtonStep(opt.x, h, g)
+		trial, step, ok := kalman.NewtonStep(opt.x, h, g)
 		if !ok || step <= 1e-10 {
 			break
 		}
@@ -429,26 +430,6 @@ func (e *engine) polish(lres lm.Result) optimum {
 		}
 	}
 	return opt
-}
-
-// newtonStep returns x - h^-1 g and the largest relative step component;
-// ok is false when h is not positive definite.
-func newtonStep(x []float64, h *mat.SymDense, g []float64) (trial []float64, step float64, ok bool) {
-	var c mat.Cholesky
-	if !c.Factorize(h) {
-		return nil, 0, false
-	}
-	var dx mat.VecDense
-	if c.SolveVecTo(&dx, mat.NewVecDense(len(x), append([]float64(nil), g...))) != nil {
-		return nil, 0, false
-	}
-	trial = make([]float64, len(x))
-	for k := range x {
-		d := -dx.AtVec(k)
-		trial[k] = x[k] + d
-		step = math.Max(step, math.Abs(d)/(math.Abs(x[k])+1e-10))
-	}
-	return trial, step, true
 }
 
 // report builds the Result at the optimum in the series' units: the

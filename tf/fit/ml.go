@@ -219,23 +219,7 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 	if jac == nil {
 		return nil
 	}
-	xt := append([]float64(nil), x...)
-	for k := range x {
-		h := 0x1p-26 * math.Max(math.Abs(x[k]), 1)
-		xt[k] = x[k] + h
-		if err := p.residuals(xt, jac[k]); err != nil {
-			h = -h // the forward point is not admissible: step back
-			xt[k] = x[k] + h
-			if err := p.residuals(xt, jac[k]); err != nil {
-				return err
-			}
-		}
-		xt[k] = x[k]
-		for i := range r {
-			jac[k][i] = (jac[k][i] - r[i]) / h
-		}
-	}
-	return nil
+	return kalman.ForwardJacobian(p.residuals, x, r, jac)
 }
 
 // polish takes up to three Newton steps with the central-difference
@@ -259,7 +243,7 @@ func (p *mlProblem) polish(x []float64, converged bool, lres lm.Result) ([]float
 		if !converged {
 			break
 		}
-		trial, step, ok := newtonStep(x, hess, g)
+		trial, step, ok := kalman.NewtonStep(x, hess, g)
 		if !ok || !(p.negLogLik(trial) <= f0) {
 			break
 		}
@@ -308,26 +292,6 @@ func curvatureSteps(x []float64, lres lm.Result) []float64 {
 		}
 	}
 	return h
-}
-
-// newtonStep returns x - H^-1 g and the largest relative change of a
-// component; ok is false when H is not positive definite.
-func newtonStep(x []float64, h *mat.SymDense, g []float64) (trial []float64, step float64, ok bool) {
-	var c mat.Cholesky
-	if !c.Factorize(h) {
-		return nil, 0, false
-	}
-	var dx mat.VecDense
-	if c.SolveVecTo(&dx, mat.NewVecDense(len(g), append([]float64(nil), g...))) != nil {
-		return nil, 0, false
-	}
-	trial = make([]float64, len(x))
-	for k := range x {
-		d := -dx.AtVec(k)
-		trial[k] = x[k] + d
-		step = math.Max(step, math.Abs(d)/(math.Abs(x[k])+1e-10))
-	}
-	return trial, step, true
 }
 
 // shrinkStart moves a start whose noise AR part is not stationary, or
