@@ -115,7 +115,7 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 	}
 	m := len(p.obs)
 	if m < len(e.names)+1 || m < 2 {
-		return nil, shortErr(o.Name, len(y), addSat(p.obs[0], max(len(e.names)+1, 2)), "an exact-likelihood fit with "+itoa(len(e.names))+" parameters ("+itoa(m)+" observed samples after the conditioning)")
+		return nil, shortErr(o.Name, m, max(len(e.names)+1, 2), "an exact-likelihood fit with "+itoa(len(e.names))+" parameters; the count is of observed (not missing) samples after the conditioning, of the record's "+itoa(len(y)))
 	}
 	lres := lm.Result{X: x0, Reason: lm.SmallGradient}
 	if len(e.names) > 0 {

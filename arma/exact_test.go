@@ -306,3 +306,19 @@ func TestExactMLNearUnitRoot(t *testing.T) {
 		t.Errorf("phi1 = %v", phi)
 	}
 }
+
+// TestBadInputExactMLFewObserved: a record of 100 samples with 3
+// observed is too short for an ARMA(1,1) with a constant (3 parameters,
+// 4 observations needed); the message counts the observed samples, not
+// the record's length.
+func TestBadInputExactMLFewObserved(t *testing.T) {
+	y := make([]float64, 100)
+	for i := range y {
+		y[i] = math.NaN()
+	}
+	y[10], y[50], y[90] = 1, 2, 1.5
+	_, err := Fit(context.Background(), y, Order{P: 1, Q: 1}, &FitSettings{Method: ExactML})
+	if !errors.Is(err, ErrShort) || !strings.Contains(err.Error(), "3 samples, at least 4 needed") || !strings.Contains(err.Error(), "of the record's 100") {
+		t.Errorf("got %v", err)
+	}
+}
