@@ -80,10 +80,47 @@ func (f *Filter) Set(ar, ma []float64) error {
 	for k := 1; k <= f.dd; k++ {
 		f.z[r+k-1] = -f.diff[k] / d0
 	}
-	if !f.stationaryCov() {
-		return &errs.ModelError{Part: "AR polynomial", Problem: "not stationary (a root in B on or inside the unit circle): the exact likelihood needs a stationary AR part; difference the series instead"}
+	var buf [128]float64
+	if !clearOfUnitCircle(ar[:p+1], buf[:0]) || !f.stationaryCov() {
+		return &errs.ModelError{Part: "AR polynomial", Problem: "not stationary (a root in B on, inside or within 1e-8 of the unit circle): the exact likelihood needs a stationary AR part; difference the series instead"}
 	}
 	return nil
+}
+
+// unitMargin is how far inside 1 every reflection coefficient of a
+// stationary AR polynomial must stay: closer, the stationary covariance
+// grows like 1/(1 - |k|) and the filter's variances lose every digit
+// (a pair of roots on the unit circle gave a negative forecast
+// variance instead of an error).
+const unitMargin = 1e-8
+
+// clearOfUnitCircle reports whether every root in B of the polynomial a
+// (a[0] != 0) lies outside the unit circle with every reflection
+// coefficient of the Schur-Cohn step-down recursion below 1 - unitMargin
+// in magnitude (Levinson-Durbin run backwards; Box, Jenkins, Reinsel &
+// Ljung 2015, the stationarity of an AR operator). buf is scratch
+// (grown when too short).
+func clearOfUnitCircle(a, buf []float64) bool {
+	p := len(a) - 1
+	if p < 1 {
+		return true
+	}
+	c := append(buf[:0], a...)
+	for i := range c {
+		c[i] /= a[0]
+	}
+	for m := p; m >= 1; m-- {
+		k := c[m]
+		if !(math.Abs(k) < 1-unitMargin) {
+			return false
+		}
+		den := 1 - k*k
+		for i, j := 1, m-1; i <= j; i, j = i+1, j-1 {
+			ci, cj := c[i], c[j]
+			c[i], c[j] = (ci-k*cj)/den, (cj-k*ci)/den
+		}
+	}
+	return true
 }
 
 // alloc sizes the state for an ARMA block of dimension r.

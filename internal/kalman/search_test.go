@@ -68,3 +68,35 @@ func TestNewtonStep(t *testing.T) {
 		t.Error("accepted an indefinite H")
 	}
 }
+
+// TestClearOfUnitCircle: the step-down test against roots worked by
+// hand. 1 - 0.78 B + B^2 has its roots on the unit circle (their product
+// is 1/1 and they are complex: 0.78^2 < 4), the input the fuzzer found
+// giving a negative forecast variance; 1 - 0.78 B + 0.9 B^2 has them at
+// |B| = 1/sqrt(0.9) > 1; 1 - 1.5 B + 0.5 B^2 = (1 - B)(1 - 0.5 B) has a
+// unit root; an AR(1) within unitMargin of 1 is refused, one at 1 - 1e-6
+// is not. Set refuses what the test refuses.
+func TestClearOfUnitCircle(t *testing.T) {
+	for _, tc := range []struct {
+		ar   []float64
+		want bool
+	}{
+		{[]float64{1, -0.78, 1}, false},
+		{[]float64{1, -0.78, 0.9}, true},
+		{[]float64{1, -1.5, 0.5}, false},
+		{[]float64{1, -(1 - 1e-6)}, true},
+		{[]float64{1, -(1 - 1e-10)}, false},
+		{[]float64{2, -1.2, 0.5}, true}, // 1 - 0.6 B + 0.25 B^2 after dividing by 2
+	} {
+		if got := clearOfUnitCircle(tc.ar, nil); got != tc.want {
+			t.Errorf("%v: got %v, want %v", tc.ar, got, tc.want)
+		}
+		f, err := New([]float64{1}, []float64{1}, []float64{1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := f.Set(tc.ar, []float64{1}); (err == nil) != tc.want {
+			t.Errorf("Set(%v): %v", tc.ar, err)
+		}
+	}
+}
