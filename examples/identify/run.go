@@ -190,9 +190,12 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	var est *fit.Estimate
 	if o.Spec != "" {
-		est, err = fitSpec(ctx, o.Spec, ds, skip, pr)
+		est, err = fitSpec(ctx, o.Spec, ds, skip, fitMethod(o.Method), pr)
 	} else {
 		est, err = identifyBest(ctx, ds, skip, stdout, pr)
+		if err == nil && o.Method == methodExact {
+			est, err = refitExact(ctx, est, ds, stdout, pr)
+		}
 	}
 	if err != nil {
 		return nil, err
@@ -265,6 +268,9 @@ func checkOptions(o Options) (record.Remedy, error) {
 		return record.Remedy{}, errors.New("-save-untrusted is given without -save: name the file to save to")
 	}
 	if err := checkOutliersFlag(o.Outliers); err != nil {
+		return record.Remedy{}, err
+	}
+	if err := checkMethodFlag(o.Method); err != nil {
 		return record.Remedy{}, err
 	}
 	rem, err := record.ParseRemedy(o.Gaps)
@@ -712,8 +718,8 @@ func (ds *dataset) step() float64 {
 	return ds.interval
 }
 
-// fitSpec parses spec and fits it.
-func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, pr *progress) (*fit.Estimate, error) {
+// fitSpec parses spec and fits it by method.
+func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, method fit.Method, pr *progress) (*fit.Estimate, error) {
 	m, err := parse.Model(spec)
 	if err != nil {
 		return nil, fmt.Errorf("the spec does not parse:\n%w", err)
@@ -722,7 +728,7 @@ func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, pr *progre
 		m.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 	}
 	pr.say("fitting %s", m)
-	est, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: skip})
+	est, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: skip, Method: method})
 	if err != nil {
 		return nil, err
 	}

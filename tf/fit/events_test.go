@@ -210,3 +210,48 @@ func TestBadInputEventBeforeFirst(t *testing.T) {
 		t.Errorf("step(2), after the first residual: %v", err)
 	}
 }
+
+// TestExactMLHonoursFirst: Settings.First keeps the samples before it
+// out of the exact likelihood as out of the sum of squares: the
+// likelihood starts there (Conditioning.LikelihoodStart), the residuals
+// before it are NaN, and a start-up transient planted before it (a
+// +5 offset over the first 100 samples of y = c + w0 B x + AR(1) noise)
+// leaves the estimates where the clean record puts them, within one
+// standard error (the two records are the same from sample 100 on).
+func TestExactMLHonoursFirst(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	n := 1500
+	x, y := make([]float64, n), make([]float64, n)
+	noise := 0.0
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		noise = 0.6*noise + rng.NormFloat64()
+		y[i] = 2 + noise
+		if i > 0 {
+			y[i] += 0.8 * x[i-1]
+		}
+	}
+	bad := append([]float64(nil), y...)
+	for i := 0; i < 100; i++ {
+		bad[i] += 5 * math.Pow(0.97, float64(i))
+	}
+	m := parse.MustModel("y = c + w0 B x + 1 / (1 - p1 B) a")
+	set := &fit.Settings{Method: fit.ExactML, First: 100}
+	clean, err := fit.Model(context.Background(), m, map[string][]float64{"y": y, "x": x}, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := fit.Model(context.Background(), m, map[string][]float64{"y": bad, "x": x}, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Conditioning.LikelihoodStart != 100 || !math.IsNaN(got.Resid[99]) || math.IsNaN(got.Resid[100]) {
+		t.Errorf("likelihood start %d, resid[99] %v, resid[100] %v", got.Conditioning.LikelihoodStart, got.Resid[99], got.Resid[100])
+	}
+	for i, p := range got.Params {
+		q := clean.Params[i]
+		if !(math.Abs(p.Value-q.Value) <= q.SE) {
+			t.Errorf("%s: %v with the transient before First, %v without (SE %v)", p.Name, p.Value, q.Value, q.SE)
+		}
+	}
+}

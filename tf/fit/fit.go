@@ -130,6 +130,10 @@ type Conditioning struct {
 	// NoiseStart + p (p the degree of phi(B)), or Settings.First when
 	// larger.
 	First int
+	// LikelihoodStart is, for an ExactML estimate, the first index of
+	// the noise series whose likelihood was computed: max(NoiseStart,
+	// Settings.First). Check and Forecast filter from it again.
+	LikelihoodStart int
 	// ZeroPreSample reports that inputs were taken as zero before their
 	// first sample (Settings.ZeroPreSample) instead of held at it.
 	// Check and Forecast recompute residuals with the same convention.

@@ -69,10 +69,14 @@ type mlProblem struct {
 	evals         int
 }
 
-// newMLProblem prepares the exact likelihood of y over w's parameters.
-func newMLProblem(w *work, y []float64) (*mlProblem, error) {
+// newMLProblem prepares the exact likelihood of y over w's parameters,
+// of the noise series from index max(NoiseStart, first) on (first is
+// Settings.First: samples before it, the start-up of the pre-sample
+// convention, stay out of the likelihood as they stay out of the sum of
+// squares).
+func newMLProblem(w *work, y []float64, first int) (*mlProblem, error) {
 	n := w.n
-	ts := w.cond.NoiseStart
+	ts := max(w.cond.NoiseStart, first)
 	p := &mlProblem{w: w, y: y, dc: w.m.Diff.Coeffs(), ts: ts,
 		v: make([]float64, n), s: make([]float64, n), z: make([]float64, n-ts)}
 	kf, err := kalman.New([]float64{1}, []float64{1}, p.dc)
@@ -330,7 +334,7 @@ func fitML(ctx context.Context, w *work, y []float64, set Settings) (*Estimate, 
 	if err != nil {
 		return nil, err
 	}
-	p, err := newMLProblem(w, y)
+	p, err := newMLProblem(w, y, set.First)
 	if err != nil {
 		return nil, err
 	}
@@ -398,6 +402,7 @@ func (p *mlProblem) estimate(x []float64, hess *mat.SymDense, lres lm.Result, st
 	}
 	cond := w.cond
 	cond.First = p.ts + st.Start
+	cond.LikelihoodStart = p.ts
 	e := &Estimate{Model: w.m.Clone(), Method: ExactML, SSQ: st.SSQ, N: st.NObs, Conditioning: cond,
 		Iter: lres.Iter, StartsTried: tried, Converged: lres.Reason.Converged(), Reason: lres.Reason.String()}
 	e.Sigma2 = est.Sigma2(st.SSQ, st.NObs, k)

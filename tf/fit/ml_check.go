@@ -13,7 +13,7 @@ func (e *Estimate) mlLoad(data map[string][]float64) (*mlProblem, error) {
 	if err != nil {
 		return nil, err
 	}
-	p, err := newMLProblem(w, w.obs)
+	p, err := newMLProblem(w, w.obs, c.LikelihoodStart)
 	if err != nil {
 		w.release()
 		return nil, err

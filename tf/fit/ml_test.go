@@ -367,7 +367,7 @@ func TestExactMLCurvatureSteps(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer w.release()
-	p, err := newMLProblem(w, w.obs)
+	p, err := newMLProblem(w, w.obs, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
