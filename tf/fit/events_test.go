@@ -49,20 +49,7 @@ func TestEventFitMonteCarlo(t *testing.T) {
 	rng := rand.New(rand.NewPCG(42, 43))
 	inside, sum := 0, 0.0
 	for rep := 0; rep < reps; rep++ {
-		x := make([]float64, n)
-		y := make([]float64, n)
-		noise := 0.0
-		for i := range x {
-			x[i] = rng.NormFloat64()
-			noise = phi*noise + rng.NormFloat64()
-			y[i] = 2 + noise
-			if i > 0 {
-				y[i] += 0.8 * x[i-1]
-			}
-			if i >= 120 {
-				y[i] += size
-			}
-		}
+		x, y := stepRecord(rng, n, phi, 120, size)
 		spec := "y = c + w0 B x + k step(120) + 1 / (1 - p1 B) a"
 		if rep%2 == 1 {
 			spec = "y = c + w0 B x + k step(2026-03-06T00:00) + 1 / (1 - p1 B) a; every 1 h"
@@ -95,19 +82,7 @@ func TestEventFitMonteCarlo(t *testing.T) {
 func TestOutliersWholeModel(t *testing.T) {
 	const n = 300
 	rng := rand.New(rand.NewPCG(7, 8))
-	x, y := make([]float64, n), make([]float64, n)
-	noise := 0.0
-	for i := range x {
-		x[i] = rng.NormFloat64()
-		noise = 0.5*noise + rng.NormFloat64()
-		y[i] = 2 + noise
-		if i > 0 {
-			y[i] += 0.8 * x[i-1]
-		}
-		if i >= 200 {
-			y[i] += 4
-		}
-	}
+	x, y := stepRecord(rng, n, 0.5, 200, 4)
 	y[80] += 6
 	data := map[string][]float64{"y": y, "x": x}
 	est := fitEvents(t, "y = c + w0 B x + 1 / (1 - p1 B) a", data, time.Time{})
@@ -221,16 +196,7 @@ func TestBadInputEventBeforeFirst(t *testing.T) {
 func TestExactMLHonoursFirst(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 10))
 	n := 1500
-	x, y := make([]float64, n), make([]float64, n)
-	noise := 0.0
-	for i := range x {
-		x[i] = rng.NormFloat64()
-		noise = 0.6*noise + rng.NormFloat64()
-		y[i] = 2 + noise
-		if i > 0 {
-			y[i] += 0.8 * x[i-1]
-		}
-	}
+	x, y := stepRecord(rng, n, 0.6, n, 0)
 	bad := append([]float64(nil), y...)
 	for i := 0; i < 100; i++ {
 		bad[i] += 5 * math.Pow(0.97, float64(i))
@@ -254,4 +220,28 @@ func TestExactMLHonoursFirst(t *testing.T) {
 			t.Errorf("%s: %v with the transient before First, %v without (SE %v)", p.Name, p.Value, q.Value, q.SE)
 		}
 	}
+}
+
+// stepRecord returns n samples of a white input x and of
+//
+//	y_t = 2 + 0.8 x_{t-1} + n_t + size [t >= at],  (1 - phi B) n_t = a_t,
+//
+// a_t standard normal, drawn from rng in the order x_t, a_t at each t
+// (at = n plants no step): the record of the event, outlier and
+// exact-likelihood tests of this package, whose truths they state.
+func stepRecord(rng *rand.Rand, n int, phi float64, at int, size float64) (x, y []float64) {
+	x, y = make([]float64, n), make([]float64, n)
+	noise := 0.0
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		noise = phi*noise + rng.NormFloat64()
+		y[i] = 2 + noise
+		if i > 0 {
+			y[i] += 0.8 * x[i-1]
+		}
+		if i >= at {
+			y[i] += size
+		}
+	}
+	return x, y
 }

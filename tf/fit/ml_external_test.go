@@ -18,20 +18,7 @@ import (
 func TestExactMLEvent(t *testing.T) {
 	const n = 300
 	rng := rand.New(rand.NewPCG(91, 92))
-	x := make([]float64, n)
-	y := make([]float64, n)
-	noise := 0.0
-	for i := range x {
-		x[i] = rng.NormFloat64()
-		noise = 0.5*noise + rng.NormFloat64()
-		y[i] = 2 + noise
-		if i > 0 {
-			y[i] += 0.8 * x[i-1]
-		}
-		if i >= 150 {
-			y[i] += 3
-		}
-	}
+	x, y := stepRecord(rng, n, 0.5, 150, 3)
 	for i := 148; i < 153; i++ {
 		y[i] = math.NaN()
 	}
