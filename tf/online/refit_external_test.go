@@ -15,21 +15,6 @@ import (
 	"github.com/backshift/backshift/tf/online"
 )
 
-// addAll feeds the record to r, failing the test on an error.
-func addAll(t testing.TB, r *online.Refitter, data map[string][]float64, y string, lo, hi int) {
-	t.Helper()
-	names := r.Inputs()
-	x := make([]float64, len(names))
-	for i := lo; i < hi; i++ {
-		for j, nm := range names {
-			x[j] = data[nm][i]
-		}
-		if err := r.Add(x, data[y][i]); err != nil {
-			t.Fatalf("sample %d: %v", i, err)
-		}
-	}
-}
-
 // A refit by the batch fit (tf.Fit) over the window of the latest 2000
 // samples replaces a live model whose gain of x2 is stale: after the
 // planted change (w2 from -0.8 to -1.2 at sample 3000) the live model,
