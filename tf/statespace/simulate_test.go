@@ -67,21 +67,33 @@ func TestSimulateMatchesModel(t *testing.T) {
 		t.Run(f.name, func(t *testing.T) {
 			m, r := mustRealise(t, f.spec)
 			data, inputs, a := drive(m, n, k, 0)
-			want, err := m.Simulate(data, &tf.SimSettings{FromRest: true, Innovations: a})
-			if err != nil {
-				t.Fatal(err)
-			}
-			got, err := r.Simulate(inputs, a, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
-			closeSlices(t, "output", got, want, 1e-12)
+			matchesModel(t, m, r, data, inputs, a, &tf.SimSettings{FromRest: true}, nil)
 		})
 	}
 }
 
 // closeSlices fails when got and want differ in length or by more than
 // tol times the largest magnitude of want (at least 1).
+// matchesModel simulates the realisation r of m from the state x0 (nil:
+// its default start) and m itself by tf's Model.Simulate with the
+// settings set, on the same inputs (data, and inputs in the model's
+// order) and innovations a, and checks that the outputs agree to 1e-12
+// of the largest (the tolerance of TestSimulateMatchesModel).
+func matchesModel(t *testing.T, m tf.Model, r *Realisation, data map[string][]float64, inputs [][]float64, a []float64, set *tf.SimSettings, x0 []float64) {
+	t.Helper()
+	s := *set
+	s.Innovations = a
+	want, err := m.Simulate(data, &s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := r.Simulate(inputs, a, x0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	closeSlices(t, "output", got, want, 1e-12)
+}
+
 func closeSlices(t *testing.T, what string, got, want []float64, tol float64) {
 	t.Helper()
 	if len(got) != len(want) {
