@@ -31,10 +31,7 @@ func benchUpdate(b *testing.B, spec string) {
 	defer runtime.UnlockOSThread()
 	m := fixture.MustModel(b, spec)
 	data := record(b, spec, 4096, 1)
-	p, err := predict.New(m, 1, nil)
-	if err != nil {
-		b.Fatal(err)
-	}
+	p := mustPredictor(b, m, 1, nil)
 	rows := make([][]float64, 4096)
 	for i := range rows {
 		rows[i] = row(p, data, i)
@@ -63,10 +60,7 @@ func benchUpdate(b *testing.B, spec string) {
 func BenchmarkForecast(b *testing.B) {
 	m := fixture.MustModel(b, benchSpec)
 	data := record(b, benchSpec, 500, 1)
-	p, err := predict.New(m, 1, nil)
-	if err != nil {
-		b.Fatal(err)
-	}
+	p := mustPredictor(b, m, 1, nil)
 	if err := p.Warm(data); err != nil {
 		b.Fatal(err)
 	}

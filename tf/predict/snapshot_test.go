@@ -17,22 +17,14 @@ func TestSnapshotRoundTrip(t *testing.T) {
 			m := fixture.MustModel(t, c.true)
 			data := record(t, c.true, 300, 8)
 			set := &predict.Settings{First: c.fit.First, ZeroPreSample: c.fit.ZeroPreSample}
-			p, err := predict.New(m, 1, set)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if err := p.Warm(window(data, 200)); err != nil {
-				t.Fatal(err)
-			}
+			p := mustPredictor(t, m, 1, set)
+			warm(t, p, data, 200)
 			p.Update(row(p, data, 200), nan)
 			snap, err := p.MarshalBinary()
 			if err != nil {
 				t.Fatal(err)
 			}
-			q, err := predict.New(m, 1, &predict.Settings{First: set.First, ZeroPreSample: set.ZeroPreSample, Level: 0.9})
-			if err != nil {
-				t.Fatal(err)
-			}
+			q := mustPredictor(t, m, 1, &predict.Settings{First: set.First, ZeroPreSample: set.ZeroPreSample, Level: 0.9})
 			if err := q.UnmarshalBinary(snap); err != nil {
 				t.Fatal(err)
 			}

@@ -26,9 +26,7 @@ import (
 func TestInnovationsEqualFitResiduals(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			data := record(t, c.true, 600, 11)
-			e := fitModel(t, c.spec, data, c.fit)
-			p := fromFit(t, e)
+			data, e, p := c.fitted(t, 600, 11)
 			if p.First() != e.Conditioning.First {
 				t.Fatalf("First = %d, fit's Conditioning.First = %d", p.First(), e.Conditioning.First)
 			}
@@ -61,12 +59,12 @@ func TestInnovationsEqualFitResiduals(t *testing.T) {
 // SE at Level 0.95 (scipy.stats.norm.ppf(0.975) = 1.959963984540054).
 func TestStepInterval(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
-	p, err := predict.New(m, 2.25, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 2.25, nil)
 	data := record(t, benchSpec, 50, 3)
-	var s predict.Step
+	var (
+		s   predict.Step
+		err error
+	)
 	for i := range data["y"] {
 		if s, err = p.Update(row(p, data, i), data["y"][i]); err != nil {
 			t.Fatal(err)
@@ -87,10 +85,7 @@ func TestStepInterval(t *testing.T) {
 func TestUpdateBadInput(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 40, 5)
-	p, err := predict.New(m, 1, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, nil)
 	for i := 0; i < 2; i++ {
 		if _, err := p.Update(row(p, data, i), data["y"][i]); err != nil {
 			t.Fatal(err)
@@ -140,10 +135,7 @@ func TestUpdateBadInput(t *testing.T) {
 // filter states included).
 func TestUpdateOverflow(t *testing.T) {
 	m := fixture.MustModel(t, "y = 1e300 u1 + 2 / (1 - 0.5 B) B^2 u2 + a")
-	p, err := predict.New(m, 1, &predict.Settings{ZeroPreSample: true})
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, &predict.Settings{ZeroPreSample: true})
 	if _, err := p.Update([]float64{1e100, 1}, 1); !errors.Is(err, predict.ErrOverflow) {
 		t.Fatalf("error %v, want ErrOverflow", err)
 	}
@@ -293,9 +285,7 @@ func TestClone(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 120, 2)
 	p, _ := predict.New(m, 1, nil)
-	if err := p.Warm(window(data, 60)); err != nil {
-		t.Fatal(err)
-	}
+	warm(t, p, data, 60)
 	c := p.Clone()
 	for i := 60; i < 120; i++ {
 		sp, _ := p.Update(row(p, data, i), data["y"][i])
@@ -323,9 +313,7 @@ func TestConcurrentUse(t *testing.T) {
 		want[i], _ = ref.Update(row(ref, data, i), data["y"][i])
 	}
 	base, _ := predict.New(m, 1, nil)
-	if err := base.Warm(window(data, 100)); err != nil {
-		t.Fatal(err)
-	}
+	warm(t, base, data, 100)
 	const workers = 4
 	errc := make(chan string, 2*workers)
 	var wg sync.WaitGroup
