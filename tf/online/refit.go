@@ -139,16 +139,7 @@ func NewRefitter(ctx context.Context, m tf.Model, fn RefitFunc, s *RefitSettings
 	if fn == nil || ctx == nil {
 		return nil, &SettingError{Setting: "fn and ctx", Value: "nil", Rule: "a refit function and a context are required"}
 	}
-	if m.Output == "" {
-		return nil, &ModelError{Part: "model", Problem: "it names no output series (Model.Output is empty)"}
-	}
-	if err := m.Validate(); err != nil {
-		if me, ok := err.(*ModelError); ok {
-			me.Op = ""
-		}
-		return nil, err
-	}
-	if err := noEvents(m); err != nil {
+	if err := checkModel(m); err != nil {
 		return nil, err
 	}
 	if set.Window == 0 {

@@ -183,6 +183,19 @@ func TestRefitterBadInput(t *testing.T) {
 	if _, err := online.NewRefitter(context.Background(), ev, refitByFit, nil); !errors.Is(err, errs.ErrModel) || !strings.Contains(fmt.Sprint(err), `input "step(10)"`) {
 		t.Errorf("event model: %v, want a *ModelError naming the event input", err)
 	}
+	// The model checks New makes (checkModel), named by NewRefitter.
+	if _, err := online.NewRefitter(context.Background(), tf.Model{}, refitByFit, nil); !errors.Is(err, errs.ErrModel) {
+		t.Errorf("a model without output: %v, want a *ModelError", err)
+	} else {
+		testutilWords(t, err, "Model.Output is empty", "online.NewRefitter")
+	}
+	bad := m.Clone()
+	bad.Inputs[0].Delay = -1
+	if _, err := online.NewRefitter(context.Background(), bad, refitByFit, nil); !errors.Is(err, errs.ErrModel) {
+		t.Errorf("a negative dead time: %v, want a *ModelError from tf.Model.Validate", err)
+	} else {
+		testutilWords(t, err, `"x1"`, "online.NewRefitter")
+	}
 	r, err := online.NewRefitter(context.Background(), m, refitByFit, nil)
 	if err != nil {
 		t.Fatal(err)
