@@ -3,7 +3,6 @@ package statespace
 import (
 	"context"
 	"math"
-	"math/rand/v2"
 	"testing"
 
 	"github.com/backshift/backshift/internal/fixture"
@@ -48,12 +47,12 @@ var fixtures = []struct {
 	{"zero", "y = 0 x + a", 0},
 }
 
-// series returns n seeded standard normal draws times s.
+// series returns n seeded standard normal draws times s (the draws of
+// fixture.WhiteInput with the PCG source seeded (seed, 7)).
 func series(n int, s float64, seed uint64) []float64 {
-	rng := rand.New(rand.NewPCG(seed, 7))
-	x := make([]float64, n)
+	x := fixture.WhiteInput(seed, 7, n)
 	for i := range x {
-		x[i] = s * rng.NormFloat64()
+		x[i] *= s
 	}
 	return x
 }
