@@ -117,6 +117,7 @@ func TestSimulateBadInput(t *testing.T) {
 	quiet, _ := Realise(fixture.MustModel(t, "y = 0.5 B x"))
 	nan := math.NaN()
 	ok := []float64{1, 2, 3}
+	big := []float64{1e308, 1e308, 1e308, 1e308, 1e308, 1e308, 1e308, 1e308}
 	for _, c := range []struct {
 		name string
 		call func() error
@@ -134,6 +135,14 @@ func TestSimulateBadInput(t *testing.T) {
 		{"length", func() error { _, err := r.Step(0, -1); return err }, ErrSetting, []string{"n = -1"}},
 		{"output length", func() error { _, _, err := r.OneStep([][]float64{ok, ok}, []float64{1}, nil); return err }, ErrLength, []string{`series "y" has 1 samples against 3`}},
 		{"output nan", func() error { _, _, err := r.OneStep([][]float64{ok, ok}, []float64{1, nan, 1}, nil); return err }, ErrSample, []string{`series "y" sample 1`}},
+		// Finite inputs whose output leaves float64 range: an error naming
+		// the step (the output is 2 + 0.2 v + 0.5 sum 0.8^k x, past 1.8e308
+		// at step 5), not a series of +Inf and NaN.
+		{"output overflow", func() error { _, err := r.Simulate([][]float64{big, big}, nil, nil); return err }, ErrModel, []string{"statespace.Realisation.Simulate", "output", "step 5 gave +Inf", "float64 range"}},
+		{"prediction overflow", func() error {
+			_, _, err := r.OneStep([][]float64{big, big}, make([]float64, len(big)), nil)
+			return err
+		}, ErrModel, []string{"statespace.Realisation.OneStep", "prediction", "gave +Inf", "float64 range"}},
 	} {
 		err := c.call()
 		if !errors.Is(err, c.kind) {
