@@ -209,4 +209,13 @@ func TestRefitterBadInput(t *testing.T) {
 	} else {
 		testutilWords(t, err, `"x2"`, "online.Refitter.Add")
 	}
+	// A finite sample beyond MaxMagnitude, which the batch fit refuses,
+	// is refused when added rather than stored in the window of every
+	// refit to come.
+	var se *online.SampleError
+	if err := r.Add([]float64{1, 2}, 1e200); !errors.As(err, &se) || se.Limit != online.MaxMagnitude || se.Series != "y" {
+		t.Errorf("huge output: %v, want a *SampleError for y with Limit MaxMagnitude", err)
+	} else {
+		testutilWords(t, err, "online.Refitter.Add", "1e+200", "largest magnitude accepted, 1e+150")
+	}
 }
