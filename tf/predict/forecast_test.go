@@ -200,7 +200,7 @@ func TestForecastClosedForms(t *testing.T) {
 func TestForecastBadInput(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 60, 4)
-	p, _ := predict.New(m, 1, nil)
+	p := mustPredictor(t, m, 1, nil)
 	dst := make([]predict.Point, 5)
 	if err := p.Forecast(dst, nil); !errors.Is(err, predict.ErrShort) ||
 		err.Error() != `predict.Predictor.Forecast: series "y": 0 samples, at least 4 needed (samples fed; forecasts start once the start-up samples have settled the states (Predictor.First))` {

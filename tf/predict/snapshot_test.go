@@ -48,14 +48,14 @@ func TestSnapshotRoundTrip(t *testing.T) {
 func TestSnapshotBadInput(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 8)
-	p, _ := predict.New(m, 1, nil)
+	p := mustPredictor(t, m, 1, nil)
 	if err := p.Warm(data); err != nil {
 		t.Fatal(err)
 	}
 	snap, _ := p.MarshalBinary()
-	other, _ := predict.New(fixture.MustModel(t, "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.5 B) / (1 - 0.6 B) a"), 1, nil)
-	moved, _ := predict.New(m, 1, &predict.Settings{First: 10})
-	fresh, _ := predict.New(m, 1, nil)
+	other := mustPredictor(t, fixture.MustModel(t, "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.5 B) / (1 - 0.6 B) a"), 1, nil)
+	moved := mustPredictor(t, m, 1, &predict.Settings{First: 10})
+	fresh := mustPredictor(t, m, 1, nil)
 	before, _ := fresh.MarshalBinary()
 	for _, c := range []struct {
 		name string

@@ -203,8 +203,8 @@ func TestNewBadInput(t *testing.T) {
 func TestWarm(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 200, 9)
-	a, _ := predict.New(m, 1, nil)
-	b, _ := predict.New(m, 1, nil)
+	a := mustPredictor(t, m, 1, nil)
+	b := mustPredictor(t, m, 1, nil)
 	for i := range data["y"] {
 		if _, err := a.Update(row(a, data, i), data["y"][i]); err != nil {
 			t.Fatal(err)
@@ -243,7 +243,7 @@ func TestWarm(t *testing.T) {
 func TestAllocs(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 1)
-	p, _ := predict.New(m, 1, nil)
+	p := mustPredictor(t, m, 1, nil)
 	if err := p.Warm(data); err != nil {
 		t.Fatal(err)
 	}
@@ -272,7 +272,7 @@ func TestAllocs(t *testing.T) {
 	if n := testing.AllocsPerRun(1000, func() { p.Update(x, obs()) }); n != 0 {
 		t.Errorf("Update across gaps: %v allocations per sample, want 0", n)
 	}
-	ev, _ := predict.New(fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
+	ev := mustPredictor(t, fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
 	ev.Update([]float64{1}, 1)
 	if n := testing.AllocsPerRun(1000, func() { ev.Update([]float64{1}, obs()) }); n != 0 {
 		t.Errorf("Update of a model with an event: %v allocations per sample, want 0", n)
@@ -284,7 +284,7 @@ func TestAllocs(t *testing.T) {
 func TestClone(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 120, 2)
-	p, _ := predict.New(m, 1, nil)
+	p := mustPredictor(t, m, 1, nil)
 	warm(t, p, data, 60)
 	c := p.Clone()
 	for i := 60; i < 120; i++ {
@@ -308,11 +308,11 @@ func TestConcurrentUse(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 300, 6)
 	want := make([]predict.Step, 300)
-	ref, _ := predict.New(m, 1, nil)
+	ref := mustPredictor(t, m, 1, nil)
 	for i := range want {
 		want[i], _ = ref.Update(row(ref, data, i), data["y"][i])
 	}
-	base, _ := predict.New(m, 1, nil)
+	base := mustPredictor(t, m, 1, nil)
 	warm(t, base, data, 100)
 	const workers = 4
 	errc := make(chan string, 2*workers)
