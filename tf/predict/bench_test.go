@@ -61,9 +61,7 @@ func BenchmarkForecast(b *testing.B) {
 	m := fixture.MustModel(b, benchSpec)
 	data := record(b, benchSpec, 500, 1)
 	p := mustPredictor(b, m, 1, nil)
-	if err := p.Warm(data); err != nil {
-		b.Fatal(err)
-	}
+	warm(b, p, data, 500)
 	for _, h := range []int{10, 100, 1000} {
 		dst := make([]predict.Point, h)
 		plan := [][]float64{make([]float64, h), nil}

@@ -49,9 +49,7 @@ func TestSnapshotBadInput(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 8)
 	p := mustPredictor(t, m, 1, nil)
-	if err := p.Warm(data); err != nil {
-		t.Fatal(err)
-	}
+	warm(t, p, data, 100)
 	snap, _ := p.MarshalBinary()
 	other := mustPredictor(t, fixture.MustModel(t, "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.5 B) / (1 - 0.6 B) a"), 1, nil)
 	moved := mustPredictor(t, m, 1, &predict.Settings{First: 10})

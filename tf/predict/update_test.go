@@ -244,9 +244,7 @@ func TestAllocs(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 1)
 	p := mustPredictor(t, m, 1, nil)
-	if err := p.Warm(data); err != nil {
-		t.Fatal(err)
-	}
+	warm(t, p, data, 100)
 	x := row(p, data, 99)
 	y := data["y"][99]
 	if n := testing.AllocsPerRun(1000, func() { p.Update(x, y) }); n != 0 {
