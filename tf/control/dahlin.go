@@ -18,12 +18,7 @@ import (
 // derived here from C = T/(G (1 - T)) with T(B) = (1 - q) B^b/(1 - q B):
 // 1 - q B - (1 - q) B^b = (1 - B) + (1 - q)(B - B^b) = (1 - B) E(B).
 func dahlin(p tf.Rational, T, lambda float64) (tf.Rational, error) {
-	num, den := p.Num(), p.Den()
-	b := p.Delay()
-	for len(num) > 1 && num[0] == 0 {
-		num = num[1:]
-		b++
-	}
+	num, den, b := leadingDelay(p)
 	if b < 1 {
 		return tf.Rational{}, &ModelError{Part: "plant dead time", Problem: "is 0: Dahlin's rule needs at least the one sample of the hold"}
 	}

@@ -67,7 +67,11 @@ func (m Reduced) String() string {
 // rules are stated from memory of the paper and simplified. A lead with
 // no lag to pair is refused.
 //
-// It returns a *SettingError for an order other than 1 or 2 and a
+// It returns a *SettingError for an order other than 1 or 2 or for a
+// reading whose figures break Reading's rules (a Gain that is not
+// finite, a lag, lead or inverse-response time constant that is not
+// positive and finite, a DeadTime or Interval that is negative or not
+// finite), naming the field, as in "Reading.Lags[0]"; and a
 // *ModelError when the reading cannot be reduced: no lag for a
 // non-integrating model (a pure dead time, for which a PI controller
 // degenerates into integral action alone), or no lag left after a lead
@@ -77,6 +81,9 @@ func HalfRule(r Reading, order int) (Reduced, error) {
 	const op = "control.HalfRule"
 	if order != 1 && order != 2 {
 		return Reduced{}, &SettingError{Op: op, Setting: "order", Value: strconv.Itoa(order), Rule: "must be 1 or 2"}
+	}
+	if err := r.validate(op); err != nil {
+		return Reduced{}, err
 	}
 	lags := append([]float64(nil), r.Lags...)
 	sort.Sort(sort.Reverse(sort.Float64Slice(lags)))
@@ -124,6 +131,32 @@ func HalfRule(r Reading, order int) (Reduced, error) {
 		}
 	}
 	return m, nil
+}
+
+// validate checks the figures of a reading built by hand (Read's own
+// readings pass): what HalfRule would otherwise carry silently into a
+// NaN or negative time constant of the reduced model.
+func (r Reading) validate(op string) error {
+	if !finite(r.Gain) {
+		return fsetting(op, "Reading.Gain", r.Gain, "must be a finite number")
+	}
+	for _, f := range []struct {
+		name string
+		v    []float64
+	}{{"Reading.Lags", r.Lags}, {"Reading.Leads", r.Leads}, {"Reading.Inverse", r.Inverse}} {
+		for i, v := range f.v {
+			if !(v > 0) || math.IsInf(v, 0) {
+				return fsetting(op, f.name+"["+strconv.Itoa(i)+"]", v, "must be a positive finite time constant")
+			}
+		}
+	}
+	if !(r.DeadTime >= 0) || math.IsInf(r.DeadTime, 0) {
+		return fsetting(op, "Reading.DeadTime", r.DeadTime, "must be a finite number, zero or positive")
+	}
+	if !(r.Interval >= 0) || math.IsInf(r.Interval, 0) {
+		return fsetting(op, "Reading.Interval", r.Interval, "must be a finite number, zero or positive (the sample interval)")
+	}
+	return nil
 }
 
 // pairLeads cancels each lead against a lag (rules T3 and T1 of the half

@@ -95,8 +95,23 @@ func (c PID) validate(op string) error {
 	if err := errs.NonNegative(op, "PID.Derivative", c.Derivative, "0: no derivative action"); err != nil {
 		return err
 	}
-	if !(c.Filter >= 0 && c.Filter <= 1) {
-		return fsetting(op, "PID.Filter", c.Filter, "must lie in (0, 1], or be 0 for the default 0.1")
+	return checkFilter(op, "PID.Filter", c.Filter)
+}
+
+// checkFilter checks a derivative filter fraction (PID.Filter,
+// TuneSettings.Filter): in (0, 1], or 0 for DefaultFilter.
+func checkFilter(op, field string, a float64) error {
+	if !(a >= 0 && a <= 1) {
+		return fsetting(op, field, a, "must lie in (0, 1], or be 0 for the default 0.1")
+	}
+	return nil
+}
+
+// check checks a discretisation method (TuneSettings.Method, the
+// argument of PID.Discrete): empty for BackwardDifference, or Tustin.
+func (m Method) check(op, field string) error {
+	if m != "" && m != BackwardDifference && m != Tustin {
+		return &SettingError{Op: op, Setting: field, Value: strconv.Quote(string(m)), Rule: `must be "backward difference" (the default) or "Tustin"`}
 	}
 	return nil
 }
@@ -114,13 +129,18 @@ func (c PID) form() Form {
 	return c.Form
 }
 
+// filter returns the derivative filter fraction with its default.
+func (c PID) filter() float64 {
+	if c.Filter == 0 {
+		return DefaultFilter
+	}
+	return c.Filter
+}
+
 // sPoly returns the continuous controller as num(s)/den(s), ascending
 // powers of s.
 func (c PID) sPoly() (num, den []float64) {
-	a := c.Filter
-	if a == 0 {
-		a = DefaultFilter
-	}
+	a := c.filter()
 	k, ti, td := c.Gain, c.Integral, c.Derivative
 	tfl := a * td
 	d := []float64{1, tfl} // derivative filter (Tf s + 1); {1, 0} without D
@@ -167,14 +187,12 @@ func (c PID) Discrete(T float64, m Method) (tf.Rational, error) {
 //
 //	sum_k c_k p^k q^(n-k).
 func substitute(op string, num, den []float64, T float64, m Method) (tf.Rational, error) {
-	var p, q []float64
-	switch m {
-	case BackwardDifference, "":
-		p, q = []float64{1 / T, -1 / T}, []float64{1}
-	case Tustin:
+	if err := m.check(op, "Method"); err != nil {
+		return tf.Rational{}, err
+	}
+	p, q := []float64{1 / T, -1 / T}, []float64{1} // backward difference
+	if m == Tustin {
 		p, q = []float64{2 / T, -2 / T}, []float64{1, 1}
-	default:
-		return tf.Rational{}, &SettingError{Op: op, Setting: "Method", Value: strconv.Quote(string(m)), Rule: `must be "backward difference" (the default) or "Tustin"`}
 	}
 	num, den = trim(num), trim(den)
 	n := max(len(num), len(den)) - 1
@@ -216,11 +234,7 @@ func (c PID) String() string {
 		s += fmt.Sprintf(", Ti = %.4g", c.Integral)
 	}
 	if c.Derivative > 0 {
-		a := c.Filter
-		if a == 0 {
-			a = DefaultFilter
-		}
-		s += fmt.Sprintf(", Td = %.4g, filter %.4g Td", c.Derivative, a)
+		s += fmt.Sprintf(", Td = %.4g, filter %.4g Td", c.Derivative, c.filter())
 	}
 	return s
 }

@@ -117,14 +117,21 @@ func readSecondOrder(p tf.Rational, T float64) (Reading, bool) {
 	return Reading{Gain: f.Gain, Lags: []float64{t1, t2}, DeadTime: f.DeadTime, Interval: T, How: "second-order image"}, true
 }
 
-// readPolesZeros is the general reading of Read.
-func readPolesZeros(p tf.Rational, T float64) (Reading, error) {
-	num, den := p.Num(), p.Den()
-	b := p.Delay()
+// leadingDelay returns p's numerator without its leading zero
+// coefficients, its denominator, and its dead time with those
+// coefficients counted in ((0 + 0.5 B) B^2 reads as 0.5 B^3).
+func leadingDelay(p tf.Rational) (num, den []float64, b int) {
+	num, den, b = p.Num(), p.Den(), p.Delay()
 	for len(num) > 1 && num[0] == 0 {
 		num = num[1:]
 		b++
 	}
+	return num, den, b
+}
+
+// readPolesZeros is the general reading of Read.
+func readPolesZeros(p tf.Rational, T float64) (Reading, error) {
+	num, den, b := leadingDelay(p)
 	r := Reading{Interval: T, How: "poles, zeros and group delay"}
 	var ge *tf.GainError
 	if _, err := p.Gain(); errors.As(err, &ge) {

@@ -102,7 +102,7 @@ type Robustness struct {
 // 64 draws.
 //
 // Errors (Op "control.Robust"): a *SettingError for bad settings, a nil
-// draw, or a draw function that panicked (naming the draw number: the
+// draw or ctx, or a draw function that panicked (naming the draw number: the
 // fault is the caller's function); the error of draw, or of a loop that
 // cannot be analysed (see Analyze), wrapped in a *ModelError naming the
 // draw; ctx's error.
@@ -114,6 +114,9 @@ func Robust(ctx context.Context, c tf.Rational, draw Draw, s RobustSettings) (ou
 	}
 	if draw == nil {
 		return Robustness{}, &SettingError{Op: op, Setting: "draw", Value: "nil", Rule: "must be a function returning one plant per call (ModelDraw makes one from an estimate's covariance)"}
+	}
+	if ctx == nil {
+		return Robustness{}, &SettingError{Op: op, Setting: "ctx", Value: "nil", Rule: "pass a context (context.Background() when nothing cancels the draws)"}
 	}
 	n := s.Draws
 	if n == 0 {

@@ -162,6 +162,12 @@ func TestRobustBadInput(t *testing.T) {
 	if _, err := Robust(context.Background(), ctl, nil, RobustSettings{Draws: 1}); !errors.Is(err, ErrSetting) || !strings.Contains(err.Error(), "draw = nil") {
 		t.Errorf("nil draw: %v", err)
 	}
+	// A nil context is the caller's slip, named as such, not an internal
+	// fault of the library.
+	draw := func(*rand.Rand) (tf.Rational, error) { return ctl, nil }
+	if _, err := Robust(nil, ctl, draw, RobustSettings{Draws: 1}); !errors.Is(err, ErrSetting) || errors.Is(err, errs.ErrInternal) || !strings.Contains(err.Error(), "ctx = nil") {
+		t.Errorf("nil ctx: %v", err)
+	}
 }
 
 // BenchmarkRobust is the speed target of the robustness check: 1000 drawn

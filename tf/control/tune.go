@@ -117,8 +117,8 @@ func (s TuneSettings) validate(op string) error {
 	if s.Form != "" && s.Form != Parallel && s.Form != Series {
 		return &SettingError{Op: op, Setting: "TuneSettings.Form", Value: strconv.Quote(string(s.Form)), Rule: `must be "parallel", "series" or empty (the rule's own)`}
 	}
-	if s.Method != "" && s.Method != BackwardDifference && s.Method != Tustin {
-		return &SettingError{Op: op, Setting: "TuneSettings.Method", Value: strconv.Quote(string(s.Method)), Rule: `must be "backward difference" (the default) or "Tustin"`}
+	if err := s.Method.check(op, "TuneSettings.Method"); err != nil {
+		return err
 	}
 	if err := errs.NonNegative(op, "TuneSettings.ClosedLoopTime", s.ClosedLoopTime, "0: the rule's default"); err != nil {
 		return err
@@ -126,10 +126,7 @@ func (s TuneSettings) validate(op string) error {
 	if ms := s.MaxSensitivity; ms != 0 && !(ms > 1 && ms <= 10) {
 		return fsetting(op, "TuneSettings.MaxSensitivity", ms, "must lie in (1, 10], or be 0 to use ClosedLoopTime")
 	}
-	if !(s.Filter >= 0 && s.Filter <= 1) {
-		return fsetting(op, "TuneSettings.Filter", s.Filter, "must lie in (0, 1], or be 0 for the default 0.1")
-	}
-	return nil
+	return checkFilter(op, "TuneSettings.Filter", s.Filter)
 }
 
 // Tuning is the result of Tune. Its settings drive equipment: see

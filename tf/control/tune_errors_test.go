@@ -2,6 +2,7 @@ package control
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -66,5 +67,24 @@ func TestTuneBadInput(t *testing.T) {
 	}
 	if _, err := HalfRule(Reading{Gain: 1, Leads: []float64{1}, Integrating: true}, 1); !errors.Is(err, ErrModel) {
 		t.Errorf("lead without lag: %v", err)
+	}
+	// A reading built by hand with figures that break Reading's rules is
+	// refused by field, not reduced to a model of NaN or negative times.
+	for _, c := range []struct {
+		r     Reading
+		field string
+	}{
+		{Reading{Gain: math.NaN(), Lags: []float64{1}}, "Reading.Gain = NaN"},
+		{Reading{Gain: 1, Lags: []float64{2, -5}}, "Reading.Lags[1] = -5"},
+		{Reading{Gain: 1, Lags: []float64{math.NaN()}}, "Reading.Lags[0] = NaN"},
+		{Reading{Gain: 1, Lags: []float64{3}, Leads: []float64{math.Inf(1)}}, "Reading.Leads[0] = +Inf"},
+		{Reading{Gain: 1, Lags: []float64{3}, Inverse: []float64{0}}, "Reading.Inverse[0] = 0"},
+		{Reading{Gain: 1, Lags: []float64{3}, DeadTime: -1}, "Reading.DeadTime = -1"},
+		{Reading{Gain: 1, Lags: []float64{3}, Interval: math.NaN()}, "Reading.Interval = NaN"},
+	} {
+		_, err := HalfRule(c.r, 1)
+		if !errors.Is(err, ErrSetting) || !strings.Contains(fmt.Sprint(err), c.field) || !strings.Contains(fmt.Sprint(err), "control.HalfRule") {
+			t.Errorf("%+v: %v, want a *SettingError naming %s", c.r, err, c.field)
+		}
 	}
 }

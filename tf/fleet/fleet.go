@@ -71,6 +71,11 @@ type Result[T any] struct {
 	Err   error
 }
 
+// MaxLoops is the largest number of loops one Run takes, 10^7: far more
+// than the loops of any site, and few enough that the results, held in
+// memory one per loop, fit (a count beyond it is most often a slip).
+const MaxLoops = 10_000_000
+
 // Run calls job(ctx, loop) for every loop in [0, loops) on at most
 // Settings.Workers goroutines (never more than loops) and returns the
 // results indexed by loop. A loop's failure is its Result.Err and does
@@ -83,8 +88,9 @@ type Result[T any] struct {
 // are not started (their Err is ctx's error), running jobs see ctx
 // cancelled, Run waits for them, and it returns the results with an
 // error that wraps ctx's (errors.Is(err, context.Canceled)). Bad
-// settings, a negative loops or a nil job are a *SettingError, with no
-// job run. Run returns only after every goroutine it started has ended.
+// settings, a loops outside 0..MaxLoops, a nil job or a nil ctx are a
+// *SettingError, with no job run. Run returns only after every
+// goroutine it started has ended.
 func Run[T any](ctx context.Context, loops int, job func(ctx context.Context, loop int) (T, error), s *Settings) ([]Result[T], error) {
 	const op = "fleet.Run"
 	if err := s.Validate(); err != nil {
@@ -94,8 +100,14 @@ func Run[T any](ctx context.Context, loops int, job func(ctx context.Context, lo
 	if loops < 0 {
 		return nil, &SettingError{Op: op, Setting: "loops", Value: strconv.Itoa(loops), Rule: "the number of loops must be zero or positive"}
 	}
+	if loops > MaxLoops {
+		return nil, &SettingError{Op: op, Setting: "loops", Value: strconv.Itoa(loops), Rule: "must be at most MaxLoops = " + strconv.Itoa(MaxLoops) + ": Run holds one result per loop in memory (split the fleet into batches)"}
+	}
 	if job == nil {
 		return nil, &SettingError{Op: op, Setting: "job", Value: "nil", Rule: "pass the function to run for each loop"}
+	}
+	if ctx == nil {
+		return nil, &SettingError{Op: op, Setting: "ctx", Value: "nil", Rule: "pass a context (context.Background() when nothing cancels the run)"}
 	}
 	var d Settings
 	if s != nil {

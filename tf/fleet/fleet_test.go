@@ -195,12 +195,21 @@ func TestRunBadArguments(t *testing.T) {
 		{3, func(context.Context, int) (int, error) { return 0, nil }, &Settings{Workers: -2}, "Settings.Workers"},
 		{-1, func(context.Context, int) (int, error) { return 0, nil }, nil, "loops"},
 		{3, nil, nil, "job"},
+		// Beyond MaxLoops: refused before the results are allocated (2^40
+		// results would not fit in memory).
+		{1 << 40, func(context.Context, int) (int, error) { return 0, nil }, nil, "loops"},
+		{MaxLoops + 1, func(context.Context, int) (int, error) { return 0, nil }, nil, "loops"},
 	} {
 		_, err := Run(context.Background(), c.loops, c.job, c.s)
 		var se *SettingError
 		if !errors.As(err, &se) || se.Setting != c.name || se.Op != "fleet.Run" || !errors.Is(err, ErrSetting) {
 			t.Errorf("%s: %v", c.name, err)
 		}
+	}
+	_, err := Run(nil, 2, fakeFit, nil) // a nil context is the bad argument here
+	var se *SettingError
+	if !errors.As(err, &se) || se.Setting != "ctx" || !strings.Contains(err.Error(), "context.Background()") {
+		t.Errorf("nil ctx: %v, want a *SettingError naming ctx", err)
 	}
 	res, err := Run(context.Background(), 0, fakeFit, nil)
 	if err != nil || len(res) != 0 {

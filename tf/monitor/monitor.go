@@ -288,11 +288,19 @@ func (m *Monitor) record(idx int64, u []float64) {
 
 // meanAlarm raises the mean test's alarm and resets the test.
 func (m *Monitor) meanAlarm(idx, stamp int64) int {
-	a := Alarm{Kind: Mean, Direction: 1, Input: -1, Lag: -1, Index: idx, Stamp: stamp, Statistic: m.meanUp, Threshold: m.t.Mean}
-	if m.meanDown > m.meanUp {
-		a.Direction, a.Statistic = -1, m.meanDown
+	return m.sideAlarm(Alarm{Kind: Mean, Input: -1, Lag: -1, Index: idx, Stamp: stamp, Threshold: m.t.Mean}, &m.meanUp, &m.meanDown)
+}
+
+// sideAlarm raises the alarm a of a two-sided CUSUM whose sides share
+// one threshold (the mean test, a pair of the correlation test): the
+// larger side gives Direction and Statistic, and both sides restart
+// from zero.
+func (m *Monitor) sideAlarm(a Alarm, up, down *float64) int {
+	a.Direction, a.Statistic = 1, *up
+	if *down > *up {
+		a.Direction, a.Statistic = -1, *down
 	}
-	m.meanUp, m.meanDown = 0, 0
+	*up, *down = 0, 0
 	m.raise(a)
 	return 1
 }
@@ -329,13 +337,7 @@ func (m *Monitor) correlation(idx, stamp int64, z float64) int {
 // pairAlarm raises the alarm of one pair of the correlation test and
 // resets the pair.
 func (m *Monitor) pairAlarm(p *pair, idx, stamp int64) int {
-	a := Alarm{Kind: Correlation, Direction: 1, Input: p.input, Lag: int(p.lag), Index: idx, Stamp: stamp, Statistic: p.up, Threshold: m.t.Correlation}
-	if p.down > p.up {
-		a.Direction, a.Statistic = -1, p.down
-	}
-	p.up, p.down = 0, 0
-	m.raise(a)
-	return 1
+	return m.sideAlarm(Alarm{Kind: Correlation, Input: p.input, Lag: int(p.lag), Index: idx, Stamp: stamp, Threshold: m.t.Correlation}, &p.up, &p.down)
 }
 
 // raise delivers an alarm: the callback first, then a send that never

@@ -56,11 +56,7 @@ func stream(t *testing.T, m *Monitor, src source) {
 func counted(t *testing.T, s Settings, c *[4]int) *Monitor {
 	t.Helper()
 	s.OnAlarm = func(a Alarm) { c[a.Kind]++ }
-	m, err := New(&s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return m
+	return mustNew(t, &s)
 }
 
 // In control, each test's false alarms come at the target rate: the mean
@@ -172,10 +168,7 @@ func TestCorrelationDelay(t *testing.T) {
 			byLag[a.Lag]++
 		}
 	}
-	m, err := New(&s)
-	if err != nil {
-		t.Fatal(err)
-	}
+	m := mustNew(t, &s)
 	const n = 2_000_000
 	stream(t, m, source{seed: 7, n: n, scale: 1, gain: d, lag: 3})
 	th := m.Thresholds()

@@ -156,17 +156,7 @@ func setOp(op string, err error) {
 // vector, in order of first appearance (constant, each input's
 // numerator and denominator, noise MA, noise AR), in a clone of m.
 func bind(m tf.Model) (*Estimator, error) {
-	if m.Output == "" {
-		return nil, &ModelError{Part: "model", Problem: "it names no output series (Model.Output is empty)"}
-	}
-	if err := m.Validate(); err != nil {
-		var me *ModelError
-		if asModelError(err, &me) {
-			me.Op = ""
-		}
-		return nil, err
-	}
-	if err := noEvents(m); err != nil {
+	if err := checkModel(m); err != nil {
 		return nil, err
 	}
 	e := &Estimator{output: m.Output, work: m.Clone(), constK: -1}
@@ -218,13 +208,21 @@ func bind(m tf.Model) (*Estimator, error) {
 	return e, nil
 }
 
-// asModelError is errors.As for *ModelError.
-func asModelError(err error, me **ModelError) bool {
-	v, ok := err.(*ModelError)
-	if ok {
-		*me = v
+// checkModel makes the checks of a model that New and NewRefitter share:
+// an output series, tf.Model.Validate (a *ModelError of it has its Op
+// cleared, so that the caller's setOp names the caller) and no event
+// input.
+func checkModel(m tf.Model) error {
+	if m.Output == "" {
+		return &ModelError{Part: "model", Problem: "it names no output series (Model.Output is empty)"}
 	}
-	return ok
+	if err := m.Validate(); err != nil {
+		if me, ok := err.(*ModelError); ok {
+			me.Op = ""
+		}
+		return err
+	}
+	return noEvents(m)
 }
 
 // noEvents refuses a model with an event input (step(T), pulse(T)),

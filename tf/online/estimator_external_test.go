@@ -73,10 +73,7 @@ func TestEstimatorConvergesToBatch(t *testing.T) {
 			t.Run(fmt.Sprintf("%s/n=%d", tc.name, n), func(t *testing.T) {
 				data := record(t, m, n, 0.3, 1)
 				_, batch := batchFit(t, m, data)
-				e, err := online.New(tc.start, &tc.set)
-				if err != nil {
-					t.Fatal(err)
-				}
+				e := mustEstimator(t, tc.start, &tc.set)
 				feed(t, e, data, "y", 0, n)
 				got := e.Params(nil)
 				d := distance(got, batch)
@@ -121,10 +118,7 @@ func TestEstimatorTracksGainChange(t *testing.T) {
 	g0, g1 := gainOf(m, 1), gainOf(m2, 1)
 	for _, lam := range []float64{0.99, 0.995} {
 		t.Run(fmt.Sprint(lam), func(t *testing.T) {
-			e, err := online.New(m, &online.Settings{Forgetting: lam})
-			if err != nil {
-				t.Fatal(err)
-			}
+			e := mustEstimator(t, m, &online.Settings{Forgetting: lam})
 			feed(t, e, data, "y", 0, at)
 			ps := make([]online.Param, 0, 8)
 			rel := func() float64 {
@@ -214,10 +208,7 @@ func TestEstimatorModel(t *testing.T) {
 		t.Fatal(err)
 	}
 	data["y"] = y
-	e, err := online.New(m, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := mustEstimator(t, m, nil)
 	feed(t, e, data, "y", 0, 500)
 	got := e.Model()
 	ps := e.Params(nil)
@@ -263,10 +254,7 @@ func TestEstimatorDifferencedProduct(t *testing.T) {
 			c.Value = 0.35
 		}
 	})
-	e, err := online.New(start, &online.Settings{Forgetting: 1, Ramp: 200})
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := mustEstimator(t, start, &online.Settings{Forgetting: 1, Ramp: 200})
 	feed(t, e, data, "y", 0, 10000)
 	d := distance(e.Params(nil), batch)
 	t.Logf("largest distance %.2f batch SEs", d)

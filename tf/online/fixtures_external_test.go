@@ -8,6 +8,7 @@ import (
 	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
+	"github.com/backshift/backshift/tf/online"
 )
 
 // eightSpec is the model of the convergence, tracking and speed checks:
@@ -112,4 +113,43 @@ func spliced(t testing.TB, m, m2 tf.Model, n, at int, sigma float64, seed uint64
 func testutilWords(t *testing.T, err error, words ...string) {
 	t.Helper()
 	testutil.CheckWords(t, t.Name(), err.Error(), words, nil)
+}
+
+// mustEstimator returns online.New(m, s), failing the test on an error.
+func mustEstimator(t testing.TB, m tf.Model, s *online.Settings) *online.Estimator {
+	t.Helper()
+	e, err := online.New(m, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return e
+}
+
+// feedRecord passes samples lo to hi (exclusive) of the record to take,
+// the inputs in the order names and the output series y, failing the
+// test on an error: the loop of feed and addAll.
+func feedRecord(t testing.TB, take func(x []float64, y float64) error, names []string, data map[string][]float64, y string, lo, hi int) {
+	t.Helper()
+	x := make([]float64, len(names))
+	for i := lo; i < hi; i++ {
+		for j, nm := range names {
+			x[j] = data[nm][i]
+		}
+		if err := take(x, data[y][i]); err != nil {
+			t.Fatalf("sample %d: %v", i, err)
+		}
+	}
+}
+
+// feed runs the record through e from sample lo to hi (exclusive),
+// failing the test on an error.
+func feed(t testing.TB, e *online.Estimator, data map[string][]float64, y string, lo, hi int) {
+	t.Helper()
+	feedRecord(t, e.Update, e.Inputs(), data, y, lo, hi)
+}
+
+// addAll feeds the record to r, failing the test on an error.
+func addAll(t testing.TB, r *online.Refitter, data map[string][]float64, y string, lo, hi int) {
+	t.Helper()
+	feedRecord(t, r.Add, r.Inputs(), data, y, lo, hi)
 }

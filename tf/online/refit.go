@@ -3,7 +3,6 @@ package online
 import (
 	"context"
 	"fmt"
-	"math"
 	"runtime/debug"
 	"slices"
 	"strconv"
@@ -139,16 +138,7 @@ func NewRefitter(ctx context.Context, m tf.Model, fn RefitFunc, s *RefitSettings
 	if fn == nil || ctx == nil {
 		return nil, &SettingError{Setting: "fn and ctx", Value: "nil", Rule: "a refit function and a context are required"}
 	}
-	if m.Output == "" {
-		return nil, &ModelError{Part: "model", Problem: "it names no output series (Model.Output is empty)"}
-	}
-	if err := m.Validate(); err != nil {
-		if me, ok := err.(*ModelError); ok {
-			me.Op = ""
-		}
-		return nil, err
-	}
-	if err := noEvents(m); err != nil {
+	if err := checkModel(m); err != nil {
 		return nil, err
 	}
 	if set.Window == 0 {
@@ -208,19 +198,12 @@ func (r *Refitter) Err() error {
 //
 // Errors (Op "online.Refitter.Add"), after which the sample is not
 // stored: a *SeriesError (ErrLength) for a wrong number of inputs, a
-// *SampleError for a NaN or infinite sample.
+// *SampleError for a NaN or infinite sample or one above MaxMagnitude
+// (which the batch fit refuses too: stored, it would fail every refit
+// whose window holds it).
 func (r *Refitter) Add(x []float64, y float64) error {
-	if len(x) != len(r.series) {
-		return &SeriesError{Op: "online.Refitter.Add", Series: "inputs", Kind: errs.ErrLength, Have: len(x), Need: len(r.series),
-			Detail: "one value per input series, in the order of Refitter.Inputs()"}
-	}
-	for i, v := range x {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return &SampleError{Op: "online.Refitter.Add", Series: r.series[i], Index: r.added, Value: v}
-		}
-	}
-	if math.IsNaN(y) || math.IsInf(y, 0) {
-		return &SampleError{Op: "online.Refitter.Add", Series: r.output, Index: r.added, Value: y}
+	if err := checkSample("online.Refitter.Add", "Refitter", r.series, r.output, r.added, x, y); err != nil {
+		return err
 	}
 	for i, v := range x {
 		r.ring[i][r.pos] = v

@@ -15,21 +15,6 @@ import (
 	"github.com/backshift/backshift/tf/online"
 )
 
-// addAll feeds the record to r, failing the test on an error.
-func addAll(t testing.TB, r *online.Refitter, data map[string][]float64, y string, lo, hi int) {
-	t.Helper()
-	names := r.Inputs()
-	x := make([]float64, len(names))
-	for i := lo; i < hi; i++ {
-		for j, nm := range names {
-			x[j] = data[nm][i]
-		}
-		if err := r.Add(x, data[y][i]); err != nil {
-			t.Fatalf("sample %d: %v", i, err)
-		}
-	}
-}
-
 // A refit by the batch fit (tf.Fit) over the window of the latest 2000
 // samples replaces a live model whose gain of x2 is stale: after the
 // planted change (w2 from -0.8 to -1.2 at sample 3000) the live model,
@@ -198,6 +183,19 @@ func TestRefitterBadInput(t *testing.T) {
 	if _, err := online.NewRefitter(context.Background(), ev, refitByFit, nil); !errors.Is(err, errs.ErrModel) || !strings.Contains(fmt.Sprint(err), `input "step(10)"`) {
 		t.Errorf("event model: %v, want a *ModelError naming the event input", err)
 	}
+	// The model checks New makes (checkModel), named by NewRefitter.
+	if _, err := online.NewRefitter(context.Background(), tf.Model{}, refitByFit, nil); !errors.Is(err, errs.ErrModel) {
+		t.Errorf("a model without output: %v, want a *ModelError", err)
+	} else {
+		testutilWords(t, err, "Model.Output is empty", "online.NewRefitter")
+	}
+	bad := m.Clone()
+	bad.Inputs[0].Delay = -1
+	if _, err := online.NewRefitter(context.Background(), bad, refitByFit, nil); !errors.Is(err, errs.ErrModel) {
+		t.Errorf("a negative dead time: %v, want a *ModelError from tf.Model.Validate", err)
+	} else {
+		testutilWords(t, err, `"x1"`, "online.NewRefitter")
+	}
 	r, err := online.NewRefitter(context.Background(), m, refitByFit, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -210,5 +208,14 @@ func TestRefitterBadInput(t *testing.T) {
 		t.Errorf("NaN sample: %v", err)
 	} else {
 		testutilWords(t, err, `"x2"`, "online.Refitter.Add")
+	}
+	// A finite sample beyond MaxMagnitude, which the batch fit refuses,
+	// is refused when added rather than stored in the window of every
+	// refit to come.
+	var se *online.SampleError
+	if err := r.Add([]float64{1, 2}, 1e200); !errors.As(err, &se) || se.Limit != online.MaxMagnitude || se.Series != "y" {
+		t.Errorf("huge output: %v, want a *SampleError for y with Limit MaxMagnitude", err)
+	} else {
+		testutilWords(t, err, "online.Refitter.Add", "1e+200", "largest magnitude accepted, 1e+150")
 	}
 }

@@ -26,10 +26,10 @@ type ModelError = errs.ModelError
 // InternalError reports a fault of the library (a recovered panic).
 type InternalError = errs.InternalError
 
-// MaxMagnitude is the largest sample magnitude Update accepts (1e150,
-// the limit of the batch fit): beyond it the products of the gradient
-// and the covariance recursion can overflow float64. Rescale such
-// series (change units).
+// MaxMagnitude is the largest sample magnitude Update and Refitter.Add
+// accept (1e150, the limit of the batch fit): beyond it the products of
+// the gradient and the covariance recursion can overflow float64.
+// Rescale such series (change units).
 const MaxMagnitude = 1e150
 
 // Settings tunes an Estimator. The zero value (or a nil pointer) gives

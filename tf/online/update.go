@@ -68,24 +68,36 @@ func (e *Estimator) Update(x []float64, y float64) error {
 
 // checkSample refuses a sample of the wrong width or with a bad value.
 func (e *Estimator) checkSample(x []float64, y float64) error {
-	if len(x) != len(e.series) {
-		return &SeriesError{Op: "online.Estimator.Update", Series: "inputs", Kind: errs.ErrLength, Have: len(x), Need: len(e.series),
-			Detail: "one value per input series, in the order of Estimator.Inputs()"}
+	return checkSample("online.Estimator.Update", "Estimator", e.series, e.output, e.counts.Samples, x, y)
+}
+
+// checkSample is the check of a sample of Estimator.Update and
+// Refitter.Add (op; owner names the type whose Inputs give the order):
+// len(x) must be len(series), and every value a number of magnitude at
+// most MaxMagnitude. The *SampleError names the series and index (and
+// the limit, for a finite value beyond it). It allocates only for an
+// error.
+func checkSample(op, owner string, series []string, output string, index int, x []float64, y float64) error {
+	if len(x) != len(series) {
+		return &SeriesError{Op: op, Series: "inputs", Kind: errs.ErrLength, Have: len(x), Need: len(series),
+			Detail: "one value per input series, in the order of " + owner + ".Inputs()"}
 	}
 	// !(|v| <= MaxMagnitude) is true for NaN, infinities and too large.
 	for i, v := range x {
 		if !(math.Abs(v) <= MaxMagnitude) {
-			return e.sampleErr(e.series[i], v)
+			return sampleErr(op, series[i], index, v)
 		}
 	}
 	if !(math.Abs(y) <= MaxMagnitude) {
-		return e.sampleErr(e.output, y)
+		return sampleErr(op, output, index, y)
 	}
 	return nil
 }
 
-func (e *Estimator) sampleErr(name string, v float64) error {
-	se := &SampleError{Op: "online.Estimator.Update", Series: name, Index: e.counts.Samples, Value: v}
+// sampleErr is the *SampleError for the bad value v of series name at
+// index, with the limit MaxMagnitude when v is finite.
+func sampleErr(op, name string, index int, v float64) error {
+	se := &SampleError{Op: op, Series: name, Index: index, Value: v}
 	if !math.IsNaN(v) && !math.IsInf(v, 0) {
 		se.Limit = MaxMagnitude
 	}

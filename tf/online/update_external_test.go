@@ -15,30 +15,11 @@ import (
 	"github.com/backshift/backshift/tf/online"
 )
 
-// feed runs the record through e from sample lo to hi (exclusive),
-// failing the test on an error.
-func feed(t testing.TB, e *online.Estimator, data map[string][]float64, y string, lo, hi int) {
-	t.Helper()
-	names := e.Inputs()
-	x := make([]float64, len(names))
-	for i := lo; i < hi; i++ {
-		for j, nm := range names {
-			x[j] = data[nm][i]
-		}
-		if err := e.Update(x, data[y][i]); err != nil {
-			t.Fatalf("sample %d: %v", i, err)
-		}
-	}
-}
-
 // Update allocates nothing per sample, during the warm-up or after it.
 func TestUpdateAllocs(t *testing.T) {
 	m := fixture.MustModel(t, eightSpec)
 	data := record(t, m, 2000, 0.3, 3)
-	e, err := online.New(m, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := mustEstimator(t, m, nil)
 	x := make([]float64, 2)
 	i := 0
 	allocs := testing.AllocsPerRun(1500, func() {
@@ -70,10 +51,7 @@ func BenchmarkUpdate(b *testing.B) {
 	m := fixture.MustModel(b, eightSpec)
 	const n = 1 << 14
 	data := record(b, m, n, 0.3, 5)
-	e, err := online.New(m, nil)
-	if err != nil {
-		b.Fatal(err)
-	}
+	e := mustEstimator(b, m, nil)
 	feed(b, e, data, "y", 0, 200)
 	x := make([]float64, 2)
 	x1, x2, y := data["x1"], data["x2"], data["y"]
@@ -120,10 +98,7 @@ func TestUpdateTraceBound(t *testing.T) {
 	}
 	data["y"] = y
 	run := func(set *online.Settings) (first, top float64, c online.Counts) {
-		e, err := online.New(m, set)
-		if err != nil {
-			t.Fatal(err)
-		}
+		e := mustEstimator(t, m, set)
 		w := set.Warmup
 		feed(t, e, data, "y", 0, w)
 		first = e.Trace()
@@ -157,10 +132,7 @@ func TestUpdateRejectsUnstable(t *testing.T) {
 	for i := 1000; i < 1040; i++ {
 		y[i] += 300 * math.Copysign(1, math.Sin(float64(i)))
 	}
-	e, err := online.New(m, &online.Settings{Forgetting: 0.99})
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := mustEstimator(t, m, &online.Settings{Forgetting: 0.99})
 	ps := make([]online.Param, 0, 8)
 	for i := range y {
 		feed(t, e, data, "y", i, i+1)
@@ -189,10 +161,7 @@ func TestUpdateDeadZone(t *testing.T) {
 	m := fixture.MustModel(t, eightSpec)
 	const n = 5000
 	data := record(t, m, n, 0.3, 19)
-	e, err := online.New(m, &online.Settings{Forgetting: 1, DeadZone: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := mustEstimator(t, m, &online.Settings{Forgetting: 1, DeadZone: 1})
 	feed(t, e, data, "y", 0, n)
 	c := e.Counts()
 	frac := float64(c.DeadZone) / float64(n-80)
@@ -211,10 +180,7 @@ func TestUpdateDeadZone(t *testing.T) {
 func TestUpdateBadInput(t *testing.T) {
 	m := fixture.MustModel(t, eightSpec)
 	data := record(t, m, 300, 0.3, 23)
-	e, err := online.New(m, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := mustEstimator(t, m, nil)
 	clean, _ := online.New(m, nil)
 	feed(t, e, data, "y", 0, 150)
 	feed(t, clean, data, "y", 0, 150)
@@ -268,10 +234,7 @@ func TestUpdateKeepsNoiseARStationary(t *testing.T) {
 			y[i] += 0.5 * x[i-1]
 		}
 	}
-	e, err := online.New(m, &online.Settings{Forgetting: 0.99})
-	if err != nil {
-		t.Fatal(err)
-	}
+	e := mustEstimator(t, m, &online.Settings{Forgetting: 0.99})
 	data := map[string][]float64{"x": x, "y": y}
 	ps := make([]online.Param, 0, 2)
 	for i := range y {

@@ -31,10 +31,7 @@ func benchUpdate(b *testing.B, spec string) {
 	defer runtime.UnlockOSThread()
 	m := fixture.MustModel(b, spec)
 	data := record(b, spec, 4096, 1)
-	p, err := predict.New(m, 1, nil)
-	if err != nil {
-		b.Fatal(err)
-	}
+	p := mustPredictor(b, m, 1, nil)
 	rows := make([][]float64, 4096)
 	for i := range rows {
 		rows[i] = row(p, data, i)
@@ -63,13 +60,8 @@ func benchUpdate(b *testing.B, spec string) {
 func BenchmarkForecast(b *testing.B) {
 	m := fixture.MustModel(b, benchSpec)
 	data := record(b, benchSpec, 500, 1)
-	p, err := predict.New(m, 1, nil)
-	if err != nil {
-		b.Fatal(err)
-	}
-	if err := p.Warm(data); err != nil {
-		b.Fatal(err)
-	}
+	p := mustPredictor(b, m, 1, nil)
+	warm(b, p, data, 500)
 	for _, h := range []int{10, 100, 1000} {
 		dst := make([]predict.Point, h)
 		plan := [][]float64{make([]float64, h), nil}

@@ -20,10 +20,7 @@ import (
 // series, and Forecast continues the indicators. Exact to 1e-15
 // relative: one or two roundings.
 func TestEvents(t *testing.T) {
-	p, err := predict.New(fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + 3 pulse(12) + a"), 1, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + 3 pulse(12) + a"), 1, nil)
 	if got := p.Inputs(); !slices.Equal(got, []string{"x"}) {
 		t.Fatalf("Inputs() = %q, want [x]", got)
 	}
@@ -74,10 +71,7 @@ func TestEventTimes(t *testing.T) {
 	m := fixture.MustModel(t, "y = 2 step(2026-03-01T08:10) + a")
 	m.Interval.Value, m.Interval.Unit = 1, "min"
 	start := time.Date(2026, 3, 1, 8, 0, 0, 0, time.UTC)
-	p, err := predict.New(m, 1, &predict.Settings{Start: start})
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, &predict.Settings{Start: start})
 	for i := range 12 {
 		s, err := p.Update(nil, 0)
 		if err != nil {
@@ -88,7 +82,7 @@ func TestEventTimes(t *testing.T) {
 		}
 	}
 	m.Interval.Value, m.Interval.Unit = 0, ""
-	_, err = predict.New(m, 1, &predict.Settings{Start: start})
+	_, err := predict.New(m, 1, &predict.Settings{Start: start})
 	var me *predict.ModelError
 	if !errors.As(err, &me) || !strings.Contains(me.Part, "step(2026-03-01T08:10)") || !strings.Contains(err.Error(), "Settings.Start") {
 		t.Errorf("timed event without an interval: %v", err)

@@ -20,15 +20,20 @@ import (
 // noise, every coefficient fixed.
 const benchSpec = "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.4 B) / (1 - 0.6 B) a"
 
-// cases are the models of the checks against the fit: the spec with
-// free coefficients (start values near the truth), the true values to
-// simulate with, and the fit's settings.
-var cases = []struct {
+// fitCase is a model of the checks against the fit: the spec with free
+// coefficients, the true values to simulate with, and the fit's
+// settings.
+type fitCase struct {
 	name string
 	spec string // free coefficients
 	true string // the simulated model
 	fit  fit.Settings
-}{
+}
+
+// cases are the models of the checks against the fit: the spec with
+// free coefficients (start values near the truth), the true values to
+// simulate with, and the fit's settings.
+var cases = []fitCase{
 	{"two inputs ARMA(1,1)",
 		"y = c + (w0 + w1 B) / (1 - d1 B - d2 B^2) B^2 u1 + (v0 + v1 B) / (1 - e1 B - e2 B^2) B u2 + (1 + t1 B) / (1 - p1 B) a" +
 			" where c ~ 1.4, w0 ~ 0.7, w1 ~ 0.2, d1 ~ 1.1, d2 ~ -0.3, v0 ~ -0.4, v1 ~ 0.1, e1 ~ 0.4, e2 ~ 0.1, t1 ~ 0.3, p1 ~ 0.5",
@@ -83,29 +88,44 @@ func record(t testing.TB, spec string, n int, seed uint64) map[string][]float64 
 	return data
 }
 
-// fitModel fits spec to data with the estimation API: the one place
-// these tests call it (tf.Fit, to be fit.Model).
-func fitModel(t testing.TB, spec string, data map[string][]float64, set fit.Settings) *fit.Estimate {
+// fitted simulates n samples of the case's true model (seeded, see
+// record), fits its spec to them with the estimation API (the one place
+// these tests call it) and builds the predictor of the estimate: its
+// model with the estimates held, its Sigma2 and the fit's start-up
+// (Conditioning).
+func (c fitCase) fitted(t testing.TB, n int, seed uint64) (map[string][]float64, *fit.Estimate, *predict.Predictor) {
 	t.Helper()
-	e, err := fit.Model(context.Background(), fixture.MustModel(t, spec), data, &set)
+	data := record(t, c.true, n, seed)
+	set := c.fit
+	e, err := fit.Model(context.Background(), fixture.MustModel(t, c.spec), data, &set)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !e.Converged {
-		t.Fatalf("fit of %q did not converge: %s", spec, e.Reason)
+		t.Fatalf("fit of %q did not converge: %s", c.spec, e.Reason)
 	}
-	return e
+	p := mustPredictor(t, e.Held(), e.Sigma2, &predict.Settings{First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	return data, e, p
 }
 
-// fromFit builds the predictor of a fitted estimate: its model with the
-// estimates held, its Sigma2 and the fit's start-up (Conditioning).
-func fromFit(t testing.TB, e *fit.Estimate) *predict.Predictor {
+// mustPredictor returns predict.New(m, sigma2, s), failing the test on
+// an error.
+func mustPredictor(t testing.TB, m tf.Model, sigma2 float64, s *predict.Settings) *predict.Predictor {
 	t.Helper()
-	p, err := predict.New(e.Held(), e.Sigma2, &predict.Settings{First: e.Conditioning.First, ZeroPreSample: e.Conditioning.ZeroPreSample})
+	p, err := predict.New(m, sigma2, s)
 	if err != nil {
 		t.Fatal(err)
 	}
 	return p
+}
+
+// warm warms p on the first n samples of data, failing the test on an
+// error.
+func warm(t testing.TB, p *predict.Predictor, data map[string][]float64, n int) {
+	t.Helper()
+	if err := p.Warm(window(data, n)); err != nil {
+		t.Fatal(err)
+	}
 }
 
 // window returns the first n samples of every series of data.

@@ -51,12 +51,8 @@ func TestForecastEqualsBatch(t *testing.T) {
 	const n, h = 500, 40
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			data := record(t, c.true, 600, 21)
-			e := fitModel(t, c.spec, data, c.fit)
-			p := fromFit(t, e)
-			if err := p.Warm(window(data, n)); err != nil {
-				t.Fatal(err)
-			}
+			data, e, p := c.fitted(t, 600, 21)
+			warm(t, p, data, n)
 			names := p.Inputs()
 			plan := make([][]float64, len(names))
 			future := map[string][]float64{}
@@ -96,12 +92,8 @@ func TestMissingOutputs(t *testing.T) {
 	const n0, gap, h = 450, 30, 20
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			data := record(t, c.true, 600, 31)
-			e := fitModel(t, c.spec, data, c.fit)
-			p := fromFit(t, e)
-			if err := p.Warm(window(data, n0)); err != nil {
-				t.Fatal(err)
-			}
+			data, e, p := c.fitted(t, 600, 31)
+			warm(t, p, data, n0)
 			steps := make([]predict.Point, gap)
 			for i := n0; i < n0+gap; i++ {
 				s, err := p.Update(row(p, data, i), math.NaN())
@@ -183,10 +175,7 @@ func TestForecastClosedForms(t *testing.T) {
 			func(h float64) (float64, float64) { return 4, math.Sqrt(h) }, 0},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			p, err := predict.New(tc.m, tc.sigma2, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
+			p := mustPredictor(t, tc.m, tc.sigma2, nil)
 			for _, y := range tc.ys {
 				if _, err := p.Update(nil, y); err != nil {
 					t.Fatal(err)
@@ -211,7 +200,7 @@ func TestForecastClosedForms(t *testing.T) {
 func TestForecastBadInput(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 60, 4)
-	p, _ := predict.New(m, 1, nil)
+	p := mustPredictor(t, m, 1, nil)
 	dst := make([]predict.Point, 5)
 	if err := p.Forecast(dst, nil); !errors.Is(err, predict.ErrShort) ||
 		err.Error() != `predict.Predictor.Forecast: series "y": 0 samples, at least 4 needed (samples fed; forecasts start once the start-up samples have settled the states (Predictor.First))` {

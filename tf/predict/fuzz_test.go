@@ -79,10 +79,7 @@ func checkRestore(t *testing.T, m tf.Model, sigma2 float64, p *predict.Predictor
 	if err != nil {
 		t.Fatal(err)
 	}
-	q, err := predict.New(m, sigma2, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	q := mustPredictor(t, m, sigma2, nil)
 	if err := q.UnmarshalBinary(snap); err != nil {
 		t.Fatalf("restoring a snapshot of the same model: %v", err)
 	}
@@ -116,10 +113,7 @@ func finite(v ...float64) bool {
 // which Update and Forecast give finite numbers or a typed error.
 func FuzzRestore(f *testing.F) {
 	m := fixture.MustModel(f, benchSpec)
-	p, err := predict.New(m, 1, nil)
-	if err != nil {
-		f.Fatal(err)
-	}
+	p := mustPredictor(f, m, 1, nil)
 	for i := 0; i < 12; i++ {
 		p.Update([]float64{float64(i), 1}, float64(i%3))
 	}

@@ -7,7 +7,6 @@ import (
 
 	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/internal/testutil"
-	"github.com/backshift/backshift/tf/predict"
 )
 
 // gapReference is testdata/predict/gap.json (make_gap.py).
@@ -46,10 +45,7 @@ func TestGapReference(t *testing.T) {
 	sigma := math.Sqrt(ref.Sigma2)
 	for _, c := range ref.Cases {
 		t.Run(c.Name, func(t *testing.T) {
-			p, err := predict.New(fixture.MustModel(t, c.Spec), ref.Sigma2, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
+			p := mustPredictor(t, fixture.MustModel(t, c.Spec), ref.Sigma2, nil)
 			for i := range c.Y {
 				y := c.Y[i]
 				missing := slices.Contains(ref.Missing, i)

@@ -7,7 +7,6 @@ import (
 
 	"github.com/backshift/backshift/internal/fixture"
 	"github.com/backshift/backshift/tf/monitor"
-	"github.com/backshift/backshift/tf/predict"
 )
 
 // gapExperiment is the reviewer's experiment: the loop (1 - B) y = 0.5 B
@@ -25,10 +24,7 @@ func gapExperiment(t *testing.T, runs int, arl float64) (before, samples, after 
 	m := fixture.MustModel(t, "(1 - B) y = 0.5 B (1 - B) x + (1 - 0.3 B) a")
 	for run := range runs {
 		rng := rand.New(rand.NewPCG(uint64(run), 9))
-		p, err := predict.New(m, sigma*sigma, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		p := mustPredictor(t, m, sigma*sigma, nil)
 		mo, err := monitor.New(&monitor.Settings{TargetARL: arl, OnAlarm: func(a monitor.Alarm) {
 			switch {
 			case a.Stamp < 200:

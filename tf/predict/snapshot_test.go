@@ -17,22 +17,14 @@ func TestSnapshotRoundTrip(t *testing.T) {
 			m := fixture.MustModel(t, c.true)
 			data := record(t, c.true, 300, 8)
 			set := &predict.Settings{First: c.fit.First, ZeroPreSample: c.fit.ZeroPreSample}
-			p, err := predict.New(m, 1, set)
-			if err != nil {
-				t.Fatal(err)
-			}
-			if err := p.Warm(window(data, 200)); err != nil {
-				t.Fatal(err)
-			}
+			p := mustPredictor(t, m, 1, set)
+			warm(t, p, data, 200)
 			p.Update(row(p, data, 200), nan)
 			snap, err := p.MarshalBinary()
 			if err != nil {
 				t.Fatal(err)
 			}
-			q, err := predict.New(m, 1, &predict.Settings{First: set.First, ZeroPreSample: set.ZeroPreSample, Level: 0.9})
-			if err != nil {
-				t.Fatal(err)
-			}
+			q := mustPredictor(t, m, 1, &predict.Settings{First: set.First, ZeroPreSample: set.ZeroPreSample, Level: 0.9})
 			if err := q.UnmarshalBinary(snap); err != nil {
 				t.Fatal(err)
 			}
@@ -56,14 +48,12 @@ func TestSnapshotRoundTrip(t *testing.T) {
 func TestSnapshotBadInput(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 8)
-	p, _ := predict.New(m, 1, nil)
-	if err := p.Warm(data); err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, nil)
+	warm(t, p, data, 100)
 	snap, _ := p.MarshalBinary()
-	other, _ := predict.New(fixture.MustModel(t, "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.5 B) / (1 - 0.6 B) a"), 1, nil)
-	moved, _ := predict.New(m, 1, &predict.Settings{First: 10})
-	fresh, _ := predict.New(m, 1, nil)
+	other := mustPredictor(t, fixture.MustModel(t, "y = 1.5 + (0.8 + 0.3 B) / (1 - 1.2 B + 0.4 B^2) B^2 u1 + (-0.5 + 0.2 B) / (1 - 0.5 B - 0.2 B^2) B u2 + (1 + 0.5 B) / (1 - 0.6 B) a"), 1, nil)
+	moved := mustPredictor(t, m, 1, &predict.Settings{First: 10})
+	fresh := mustPredictor(t, m, 1, nil)
 	before, _ := fresh.MarshalBinary()
 	for _, c := range []struct {
 		name string

@@ -26,9 +26,7 @@ import (
 func TestInnovationsEqualFitResiduals(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			data := record(t, c.true, 600, 11)
-			e := fitModel(t, c.spec, data, c.fit)
-			p := fromFit(t, e)
+			data, e, p := c.fitted(t, 600, 11)
 			if p.First() != e.Conditioning.First {
 				t.Fatalf("First = %d, fit's Conditioning.First = %d", p.First(), e.Conditioning.First)
 			}
@@ -61,12 +59,12 @@ func TestInnovationsEqualFitResiduals(t *testing.T) {
 // SE at Level 0.95 (scipy.stats.norm.ppf(0.975) = 1.959963984540054).
 func TestStepInterval(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
-	p, err := predict.New(m, 2.25, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 2.25, nil)
 	data := record(t, benchSpec, 50, 3)
-	var s predict.Step
+	var (
+		s   predict.Step
+		err error
+	)
 	for i := range data["y"] {
 		if s, err = p.Update(row(p, data, i), data["y"][i]); err != nil {
 			t.Fatal(err)
@@ -87,10 +85,7 @@ func TestStepInterval(t *testing.T) {
 func TestUpdateBadInput(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 40, 5)
-	p, err := predict.New(m, 1, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, nil)
 	for i := 0; i < 2; i++ {
 		if _, err := p.Update(row(p, data, i), data["y"][i]); err != nil {
 			t.Fatal(err)
@@ -140,10 +135,7 @@ func TestUpdateBadInput(t *testing.T) {
 // filter states included).
 func TestUpdateOverflow(t *testing.T) {
 	m := fixture.MustModel(t, "y = 1e300 u1 + 2 / (1 - 0.5 B) B^2 u2 + a")
-	p, err := predict.New(m, 1, &predict.Settings{ZeroPreSample: true})
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, &predict.Settings{ZeroPreSample: true})
 	if _, err := p.Update([]float64{1e100, 1}, 1); !errors.Is(err, predict.ErrOverflow) {
 		t.Fatalf("error %v, want ErrOverflow", err)
 	}
@@ -211,8 +203,8 @@ func TestNewBadInput(t *testing.T) {
 func TestWarm(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 200, 9)
-	a, _ := predict.New(m, 1, nil)
-	b, _ := predict.New(m, 1, nil)
+	a := mustPredictor(t, m, 1, nil)
+	b := mustPredictor(t, m, 1, nil)
 	for i := range data["y"] {
 		if _, err := a.Update(row(a, data, i), data["y"][i]); err != nil {
 			t.Fatal(err)
@@ -251,10 +243,8 @@ func TestWarm(t *testing.T) {
 func TestAllocs(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 100, 1)
-	p, _ := predict.New(m, 1, nil)
-	if err := p.Warm(data); err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, nil)
+	warm(t, p, data, 100)
 	x := row(p, data, 99)
 	y := data["y"][99]
 	if n := testing.AllocsPerRun(1000, func() { p.Update(x, y) }); n != 0 {
@@ -280,7 +270,7 @@ func TestAllocs(t *testing.T) {
 	if n := testing.AllocsPerRun(1000, func() { p.Update(x, obs()) }); n != 0 {
 		t.Errorf("Update across gaps: %v allocations per sample, want 0", n)
 	}
-	ev, _ := predict.New(fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
+	ev := mustPredictor(t, fixture.MustModel(t, "y = 0.5 B x + 2 step(10) + (1 - 0.4 B) a"), 1, nil)
 	ev.Update([]float64{1}, 1)
 	if n := testing.AllocsPerRun(1000, func() { ev.Update([]float64{1}, obs()) }); n != 0 {
 		t.Errorf("Update of a model with an event: %v allocations per sample, want 0", n)
@@ -292,10 +282,8 @@ func TestAllocs(t *testing.T) {
 func TestClone(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 120, 2)
-	p, _ := predict.New(m, 1, nil)
-	if err := p.Warm(window(data, 60)); err != nil {
-		t.Fatal(err)
-	}
+	p := mustPredictor(t, m, 1, nil)
+	warm(t, p, data, 60)
 	c := p.Clone()
 	for i := 60; i < 120; i++ {
 		sp, _ := p.Update(row(p, data, i), data["y"][i])
@@ -318,14 +306,12 @@ func TestConcurrentUse(t *testing.T) {
 	m := fixture.MustModel(t, benchSpec)
 	data := record(t, benchSpec, 300, 6)
 	want := make([]predict.Step, 300)
-	ref, _ := predict.New(m, 1, nil)
+	ref := mustPredictor(t, m, 1, nil)
 	for i := range want {
 		want[i], _ = ref.Update(row(ref, data, i), data["y"][i])
 	}
-	base, _ := predict.New(m, 1, nil)
-	if err := base.Warm(window(data, 100)); err != nil {
-		t.Fatal(err)
-	}
+	base := mustPredictor(t, m, 1, nil)
+	warm(t, base, data, 100)
 	const workers = 4
 	errc := make(chan string, 2*workers)
 	var wg sync.WaitGroup

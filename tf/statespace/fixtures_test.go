@@ -3,7 +3,6 @@ package statespace
 import (
 	"context"
 	"math"
-	"math/rand/v2"
 	"testing"
 
 	"github.com/backshift/backshift/internal/fixture"
@@ -46,14 +45,18 @@ var fixtures = []struct {
 	{"two", "y = 1.5 + 0.8 / (1 - 0.7 B) B^2 u + (0.3 - 0.1 B) / (1 - 1.2 B + 0.35 B^2) v + (1 - 0.3 B) / ((1 - 0.5 B)(1 - 0.4 B^4)) a", 10},
 	// a zero numerator realises nothing: 0 states, noise 0.
 	{"zero", "y = 0 x + a", 0},
+	// a static gain without dead time beside a dynamic input: max(0+1, 1)
+	// = 1; v 0 states, only its feedthrough 0.2 in D; noise max(0, 1) =
+	// 1; constant 1.
+	{"static", "y = 2 + 0.5 / (1 - 0.8 B) B x + 0.2 v + (1 - 0.3 B) a", 3},
 }
 
-// series returns n seeded standard normal draws times s.
+// series returns n seeded standard normal draws times s (the draws of
+// fixture.WhiteInput with the PCG source seeded (seed, 7)).
 func series(n int, s float64, seed uint64) []float64 {
-	rng := rand.New(rand.NewPCG(seed, 7))
-	x := make([]float64, n)
+	x := fixture.WhiteInput(seed, 7, n)
 	for i := range x {
-		x[i] = s * rng.NormFloat64()
+		x[i] *= s
 	}
 	return x
 }

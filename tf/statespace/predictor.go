@@ -110,7 +110,13 @@ func (p *Predictor) stepError(u []float64, y, yhat float64) error {
 	if math.IsNaN(y) || math.IsInf(y, 0) {
 		return &SampleError{Op: op, Series: p.r.output, Index: p.t, Value: y}
 	}
-	return &ModelError{Op: op, Part: "prediction", Problem: "step " + strconv.Itoa(p.t) + " gave " + strconv.FormatFloat(yhat, 'g', -1, 64) + ": the state left float64 range (an unstable path, or data far beyond the model's scale)"}
+	return outOfRange(op, "prediction", p.t, yhat)
+}
+
+// outOfRange is the *ModelError for a prediction or an output that
+// came out NaN or infinite at step t: the state left float64 range.
+func outOfRange(op, part string, t int, v float64) error {
+	return &ModelError{Op: op, Part: part, Problem: "step " + strconv.Itoa(t) + " gave " + strconv.FormatFloat(v, 'g', -1, 64) + ": the state left float64 range (an unstable path, or data far beyond the model's scale)"}
 }
 
 // Err returns the first problem recorded by Step (a *SampleError naming
@@ -133,8 +139,9 @@ func (p *Predictor) Reset() {
 // each of the length n of the record. inputs holds one series per input
 // in the order of Inputs, output the observed outputs, all of length n.
 // Errors: those of NewPredictor, a *SeriesError (ErrLength) for series
-// of the wrong count or length, and a *SampleError for a NaN or
-// infinite sample.
+// of the wrong count or length, a *SampleError for a NaN or infinite
+// sample, and a *ModelError (Part "prediction") naming the first step
+// whose prediction left float64 range.
 func (r *Realisation) OneStep(inputs [][]float64, output, start []float64) (pred, errs []float64, err error) {
 	const op = "statespace.Realisation.OneStep"
 	if !r.noise {
@@ -158,6 +165,11 @@ func (r *Realisation) OneStep(inputs [][]float64, output, start []float64) (pred
 			u[i] = s[t]
 		}
 		pred[t], errs[t] = p.Step(u, y)
+	}
+	if p.err != nil {
+		// The samples are finite (checked above): a prediction overflowed.
+		p.err.(*ModelError).Op = op
+		return nil, nil, p.err
 	}
 	return pred, errs, nil
 }

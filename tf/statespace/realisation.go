@@ -174,7 +174,9 @@ func build(m tf.Model, plan []planned) *Realisation {
 	f := 0
 	for _, p := range plan {
 		p.First = f
-		if p.input >= 0 && p.States > 0 {
+		if p.input >= 0 {
+			// An input part without states (a static gain, no dead time)
+			// has only its feedthrough omega_0, which observer places in D.
 			src := source{input: p.input, state: -1}
 			for j := range p.DelayStates {
 				w.feed(f+j, src, 1)

@@ -24,8 +24,10 @@ import (
 // (ErrLength) for a wrong number of input series, series of unequal
 // lengths, innovations or start of the wrong length; a *SampleError for
 // a NaN or infinite value in any of them; a *ModelError for innovations
-// given to a model without noise. The output is not checked: an unstable
-// path or noise term may grow without bound.
+// given to a model without noise, and a *ModelError (Part "output")
+// naming the first step whose output left float64 range (an unstable
+// path or noise term grown without bound, or data far beyond the
+// model's scale).
 func (r *Realisation) Simulate(inputs [][]float64, innovations, start []float64) ([]float64, error) {
 	const op = "statespace.Realisation.Simulate"
 	n, err := r.checkRun(op, inputs, innovations, start)
@@ -45,6 +47,9 @@ func (r *Realisation) Simulate(inputs [][]float64, innovations, start []float64)
 			a = innovations[t]
 		}
 		y[t] = r.observe(x, u) + a
+		if math.IsNaN(y[t]) || math.IsInf(y[t], 0) {
+			return nil, outOfRange(op, "output", t, y[t])
+		}
 		r.advance(xn, x, u, r.g, a)
 		x, xn = xn, x
 	}

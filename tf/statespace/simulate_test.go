@@ -67,21 +67,33 @@ func TestSimulateMatchesModel(t *testing.T) {
 		t.Run(f.name, func(t *testing.T) {
 			m, r := mustRealise(t, f.spec)
 			data, inputs, a := drive(m, n, k, 0)
-			want, err := m.Simulate(data, &tf.SimSettings{FromRest: true, Innovations: a})
-			if err != nil {
-				t.Fatal(err)
-			}
-			got, err := r.Simulate(inputs, a, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
-			closeSlices(t, "output", got, want, 1e-12)
+			matchesModel(t, m, r, data, inputs, a, &tf.SimSettings{FromRest: true}, nil)
 		})
 	}
 }
 
 // closeSlices fails when got and want differ in length or by more than
 // tol times the largest magnitude of want (at least 1).
+// matchesModel simulates the realisation r of m from the state x0 (nil:
+// its default start) and m itself by tf's Model.Simulate with the
+// settings set, on the same inputs (data, and inputs in the model's
+// order) and innovations a, and checks that the outputs agree to 1e-12
+// of the largest (the tolerance of TestSimulateMatchesModel).
+func matchesModel(t *testing.T, m tf.Model, r *Realisation, data map[string][]float64, inputs [][]float64, a []float64, set *tf.SimSettings, x0 []float64) {
+	t.Helper()
+	s := *set
+	s.Innovations = a
+	want, err := m.Simulate(data, &s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := r.Simulate(inputs, a, x0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	closeSlices(t, "output", got, want, 1e-12)
+}
+
 func closeSlices(t *testing.T, what string, got, want []float64, tol float64) {
 	t.Helper()
 	if len(got) != len(want) {
@@ -105,6 +117,7 @@ func TestSimulateBadInput(t *testing.T) {
 	quiet, _ := Realise(fixture.MustModel(t, "y = 0.5 B x"))
 	nan := math.NaN()
 	ok := []float64{1, 2, 3}
+	big := []float64{1e308, 1e308, 1e308, 1e308, 1e308, 1e308, 1e308, 1e308}
 	for _, c := range []struct {
 		name string
 		call func() error
@@ -122,6 +135,14 @@ func TestSimulateBadInput(t *testing.T) {
 		{"length", func() error { _, err := r.Step(0, -1); return err }, ErrSetting, []string{"n = -1"}},
 		{"output length", func() error { _, _, err := r.OneStep([][]float64{ok, ok}, []float64{1}, nil); return err }, ErrLength, []string{`series "y" has 1 samples against 3`}},
 		{"output nan", func() error { _, _, err := r.OneStep([][]float64{ok, ok}, []float64{1, nan, 1}, nil); return err }, ErrSample, []string{`series "y" sample 1`}},
+		// Finite inputs whose output leaves float64 range: an error naming
+		// the step (the output is 2 + 0.2 v + 0.5 sum 0.8^k x, past 1.8e308
+		// at step 5), not a series of +Inf and NaN.
+		{"output overflow", func() error { _, err := r.Simulate([][]float64{big, big}, nil, nil); return err }, ErrModel, []string{"statespace.Realisation.Simulate", "output", "step 5 gave +Inf", "float64 range"}},
+		{"prediction overflow", func() error {
+			_, _, err := r.OneStep([][]float64{big, big}, make([]float64, len(big)), nil)
+			return err
+		}, ErrModel, []string{"statespace.Realisation.OneStep", "prediction", "gave +Inf", "float64 range"}},
 	} {
 		err := c.call()
 		if !errors.Is(err, c.kind) {

@@ -31,19 +31,11 @@ func TestSteadyMatchesSettledSimulate(t *testing.T) {
 			for _, x := range inputs {
 				first = append(first, x[0])
 			}
-			want, err := m.Simulate(data, &tf.SimSettings{Innovations: a})
-			if err != nil {
-				t.Fatal(err)
-			}
 			x0, err := r.Steady(first)
 			if err != nil {
 				t.Fatal(err)
 			}
-			got, err := r.Simulate(inputs, a, x0)
-			if err != nil {
-				t.Fatal(err)
-			}
-			closeSlices(t, "output", got, want, 1e-12)
+			matchesModel(t, m, r, data, inputs, a, &tf.SimSettings{}, x0)
 		})
 	}
 }

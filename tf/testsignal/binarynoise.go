@@ -101,12 +101,17 @@ func SwitchProbability(timeConstant, sample float64) (float64, error) {
 }
 
 // switchProbability returns p for a half-power frequency w in radians
-// per sample, 0 < w < pi.
+// per sample, 0 < w < pi. With h = c - 1 = 1 - cos w = 2 sin^2(w/2)
+// and r = sqrt(c^2 - 1) = sqrt(h (2 + h)), a = 1/(c + r) and
+// p = (1 - a)/2 = (h + r) / (2 (1 + h + r)): no difference of nearly
+// equal numbers, so p keeps its digits for a sample interval many
+// orders shorter than the time constant (2 - cos w rounds to 1 below
+// w = 1.5e-8, where p ~ w/2 would come out 0).
 func switchProbability(w float64) float64 {
-	c := 2 - math.Cos(w)
-	// a = c - sqrt(c^2-1), written as 1/(c + sqrt(c^2-1)) to keep digits when c is near 1.
-	a := 1 / (c + math.Sqrt((c-1)*(c+1)))
-	return (1 - a) / 2
+	sh := math.Sin(w / 2)
+	h := 2 * sh * sh
+	r := math.Sqrt(h * (2 + h))
+	return (h + r) / (2 * (1 + h + r))
 }
 
 // positive checks a required positive finite setting.

@@ -26,6 +26,27 @@ func TestSwitchProbabilityHalfPower(t *testing.T) {
 	}
 }
 
+// The half-power property holds for sample intervals many orders shorter
+// than the time constant (w = BandFactor sample / tau down to 2e-12
+// rad/sample), where p ~ w/2 is small: the ratio S(w)/S(0) is computed
+// without cancellation, 1 - 2a cos w + a^2 = (1-a)^2 + 4a sin^2(w/2) and
+// 1 - a = 2p (algebra of the spectrum above, derived). Tolerance 1e-12
+// as above.
+func TestSwitchProbabilitySlowPlant(t *testing.T) {
+	for _, ratio := range []float64{1e3, 1e6, 1e9, 1e12} {
+		p, err := SwitchProbability(ratio, 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a := 1 - 2*p
+		sh := math.Sin(BandFactor / ratio / 2)
+		got := 4 * p * p / (4*p*p + 4*a*sh*sh)
+		if math.Abs(got-0.5) > 1e-12 || !(p > 0 && p < 0.5) {
+			t.Errorf("tau/sample %g: p = %v gives S(w)/S(0) = %v, want 1/2", ratio, p, got)
+		}
+	}
+}
+
 // The sample autocorrelation of a long BinaryNoise run follows
 // (1-2p)^k (the switching process of Tulleken 1990; a first-order
 // Markov chain on +-1). Tolerance: five standard errors of a sample

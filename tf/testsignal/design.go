@@ -171,9 +171,10 @@ type Plan struct {
 // *SettingError, most often a slip in the units of a setting.
 const MaxSamples = 10_000_000
 
-// MaxMagnitude bounds Level and Amplitude, 1e100: far beyond any
-// physical unit, and small enough that the signal's values and the
-// squares of the periodogram stay finite.
+// MaxMagnitude bounds Level and Amplitude and the samples Periodogram
+// accepts, 1e100: far beyond any physical unit, and small enough that
+// the signal's values and the squares of the periodogram stay finite
+// (|X_k| is at most MaxSamples * 1e100 = 1e107, its square 1e214).
 const MaxMagnitude = 1e100
 
 // halfPowerX solves (sin x / x)^2 = 1/2 (checked in the tests).

@@ -67,6 +67,10 @@ func (s MultisineSettings) Validate() error {
 	if s.Phases != SchroederPhases && s.Phases != RandomPhases {
 		return &SettingError{Op: op, Setting: "MultisineSettings.Phases", Value: strconv.Itoa(int(s.Phases)), Rule: "must be SchroederPhases or RandomPhases"}
 	}
+	if s.Inputs > (MaxSamples-1)/2 {
+		return &SettingError{Op: op, Setting: "MultisineSettings.Inputs", Value: strconv.Itoa(s.Inputs),
+			Rule: "must be at most (MaxSamples-1)/2 = " + strconv.Itoa((MaxSamples-1)/2) + ": the period, at most MaxSamples, holds at least 2*Inputs + 1 samples"}
+	}
 	m := max(s.Inputs, 1)
 	if s.Period < 2*m+1 {
 		return &SettingError{Op: op, Setting: "MultisineSettings.Period", Value: strconv.Itoa(s.Period),
@@ -75,7 +79,9 @@ func (s MultisineSettings) Validate() error {
 	if s.Period > MaxSamples {
 		return &SettingError{Op: op, Setting: "MultisineSettings.Period", Value: strconv.Itoa(s.Period), Rule: "must not exceed MaxSamples = " + strconv.Itoa(MaxSamples)}
 	}
-	if s.Lines > 0 && m*s.Lines > (s.Period-1)/2 {
+	// Lines > ((Period-1)/2)/Inputs is Inputs*Lines > (Period-1)/2
+	// without the product, which can overflow.
+	if s.Lines > (s.Period-1)/2/m {
 		return &SettingError{Op: op, Setting: "MultisineSettings.Lines", Value: strconv.Itoa(s.Lines),
 			Rule: "Inputs*Lines must not exceed (Period-1)/2 = " + strconv.Itoa((s.Period-1)/2) + ", the harmonics below half the sampling frequency (lengthen the period or use fewer lines)"}
 	}

@@ -64,6 +64,10 @@ func TestMultisineBadInput(t *testing.T) {
 		{"too many lines", MultisineSettings{Inputs: 2, Period: 20, Lines: 5}, []string{"MultisineSettings.Lines = 5", "(Period-1)/2 = 9"}},
 		{"bad amplitude", MultisineSettings{Period: 20, Amplitude: math.NaN()}, []string{"MultisineSettings.Amplitude = NaN"}},
 		{"bad phases", MultisineSettings{Period: 20, Phases: 7}, []string{"MultisineSettings.Phases = 7", "SchroederPhases or RandomPhases"}},
+		// Counts whose products with 2 or Inputs would overflow an int.
+		{"inputs beyond the period", MultisineSettings{Inputs: 1 << 62, Period: 11}, []string{"MultisineSettings.Inputs = 4611686018427387904", "at most (MaxSamples-1)/2 = 4999999"}},
+		{"largest int inputs", MultisineSettings{Inputs: math.MaxInt, Period: 11}, []string{"MultisineSettings.Inputs = 9223372036854775807"}},
+		{"lines overflowing", MultisineSettings{Inputs: 2, Lines: 1 << 62, Period: 11}, []string{"MultisineSettings.Lines = 4611686018427387904", "(Period-1)/2 = 5"}},
 	} {
 		_, err := Multisine(tc.s)
 		checkSettingError(t, tc.name, err, tc.want)
@@ -80,6 +84,16 @@ func TestPeriodogramBadInput(t *testing.T) {
 	var se *SampleError
 	if !errors.As(err, &se) || se.Index != 2 {
 		t.Errorf("Inf sample: %v, want *SampleError at index 2", err)
+	}
+	// A finite sample whose square overflows (1e200^2 = +Inf) is refused
+	// with the limit, MaxMagnitude, rather than giving an infinite power.
+	_, _, err = Periodogram([]float64{1e200, -1e200, 3}, 1)
+	if !errors.As(err, &se) || se.Index != 0 || se.Limit != MaxMagnitude {
+		t.Errorf("1e200 sample: %v, want *SampleError at index 0 with Limit MaxMagnitude", err)
+	}
+	testutil.CheckWords(t, "huge", errString(err), []string{"testsignal.Periodogram", `series "x" sample 0 is 1e+200`, "largest magnitude accepted, 1e+100"}, nil)
+	if _, p, err := Periodogram([]float64{MaxMagnitude, -MaxMagnitude, 3}, 1); err != nil || math.IsInf(p[1], 0) {
+		t.Errorf("samples of magnitude MaxMagnitude: power %v, error %v; want finite power", p, err)
 	}
 }
 

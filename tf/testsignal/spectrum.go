@@ -23,8 +23,9 @@ type SampleError = errs.SampleError
 // line (once the line at half the sampling frequency, for even lengths).
 // The mean is not removed: pass deviations from the operating point.
 //
-// x with fewer than 2 samples or a NaN or infinite sample, and a sample
-// interval that is not a positive finite number, are errors
+// x with fewer than 2 samples, a NaN or infinite sample or one of
+// magnitude beyond MaxMagnitude (whose square would overflow), and a
+// sample interval that is not a positive finite number, are errors
 // (*SettingError, *SampleError).
 func Periodogram(x []float64, sample float64) (frequency, power []float64, err error) {
 	const op = "testsignal.Periodogram"
@@ -37,6 +38,9 @@ func Periodogram(x []float64, sample float64) (frequency, power []float64, err e
 	for i, v := range x {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return nil, nil, &SampleError{Op: op, Series: "x", Index: i, Value: v}
+		}
+		if math.Abs(v) > MaxMagnitude {
+			return nil, nil, &SampleError{Op: op, Series: "x", Index: i, Value: v, Limit: MaxMagnitude}
 		}
 	}
 	frequency, power = periodogram(x, sample)
