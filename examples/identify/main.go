@@ -93,7 +93,7 @@ type Options struct {
 	Method string
 
 	// cleanDemo uses the built-in record without its planted bad
-	// reading (for tests).
+	// reading and sensor dropout (for tests).
 	cleanDemo bool
 }
 
