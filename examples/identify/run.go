@@ -20,7 +20,6 @@ import (
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
-	"github.com/backshift/backshift/tf/identify"
 	"github.com/backshift/backshift/tf/record"
 )
 
@@ -196,35 +195,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if err != nil {
 		return nil, err
 	}
-	// A record whose output has gaps is identified on its longest
-	// gap-free stretch and fitted whole by exact likelihood (gaps.go).
-	ds.gaps = findGaps(o, ds)
-	method := o.Method
-	if len(ds.gaps.Output) > 0 {
-		method = methodExact
-	}
-	writeGapPlan(stdout, ds.gaps, ds, o.Spec != "")
-	var est *fit.Estimate
-	if o.Spec != "" {
-		est, err = fitSpec(ctx, o.Spec, ds, skip, fitMethod(method), pr)
-	} else {
-		from, to := ds.gaps.StretchFrom, ds.gaps.StretchTo
-		if to-from < minSamples {
-			return nil, fmt.Errorf("the longest stretch of the record without a missing sample has %d samples (%d to %d): too short to identify a model on (at least %d; a model worth trusting needs hundreds); give the structure with -spec, which is fitted to the whole record by exact likelihood",
-				to-from, from, to-1, minSamples)
-		}
-		if skip >= (to-from)/2 {
-			skip = (to - from) / 20 // the stretch is much shorter than the record
-		}
-		var cands []identify.Candidate
-		est, cands, err = identifyBest(ctx, ds.stretch(from, to), skip, stdout, pr)
-		switch {
-		case err == nil && len(ds.gaps.Output) > 0:
-			est, err = chooseWhole(ctx, cands, ds, stdout, pr)
-		case err == nil && method == methodExact:
-			est, err = refitExact(ctx, est, ds, stdout, pr)
-		}
-	}
+	est, err := fitRecord(ctx, o, ds, skip, stdout, pr)
 	if err != nil {
 		return nil, err
 	}
@@ -276,6 +247,40 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	pr.say("done in %.1f s", out.Elapsed.Seconds())
 	return out, nil
+}
+
+// fitRecord fits the spec of o to ds, or identifies a model, by the
+// method o asks for. A record whose output has gaps is identified on
+// its longest gap-free stretch and fitted whole by exact likelihood
+// (gaps.go), whatever the method; the report says so first.
+func fitRecord(ctx context.Context, o Options, ds *dataset, skip int, stdout io.Writer, pr *progress) (*fit.Estimate, error) {
+	ds.gaps = findGaps(o, ds)
+	method := o.Method
+	if len(ds.gaps.Output) > 0 {
+		method = methodExact
+	}
+	writeGapPlan(stdout, ds.gaps, ds, o.Spec != "")
+	if o.Spec != "" {
+		return fitSpec(ctx, o.Spec, ds, skip, fitMethod(method), pr)
+	}
+	from, to := ds.gaps.StretchFrom, ds.gaps.StretchTo
+	if to-from < minSamples {
+		return nil, fmt.Errorf("the longest stretch of the record without a missing sample has %d samples (%d to %d): too short to identify a model on (at least %d; a model worth trusting needs hundreds); give the structure with -spec, which is fitted to the whole record by exact likelihood",
+			to-from, from, max(from, to-1), minSamples)
+	}
+	if skip >= (to-from)/2 {
+		skip = (to - from) / 20 // the stretch is much shorter than the record
+	}
+	est, cands, err := identifyBest(ctx, ds.stretch(from, to), skip, stdout, pr)
+	switch {
+	case err != nil:
+		return nil, err
+	case len(ds.gaps.Output) > 0:
+		return chooseWhole(ctx, cands, ds, stdout, pr)
+	case method == methodExact:
+		return refitExact(ctx, est, ds, stdout, pr)
+	}
+	return est, nil
 }
 
 // checkOptions checks the settings that need no data, so that a

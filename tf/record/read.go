@@ -234,9 +234,6 @@ func Read(r io.Reader, s *Settings) (rec *Record, err error) {
 	cols := s.Series
 	var notes []string
 	if cols != nil {
-		if err := checkMissing(t, s, cols); err != nil {
-			return nil, err
-		}
 		if rec.Series, notes, err = t.numbers(cols, s); err != nil {
 			return nil, err
 		}
@@ -250,9 +247,6 @@ func Read(r io.Reader, s *Settings) (rec *Record, err error) {
 			if tm == nil || n != tm.column {
 				cols = append(cols, n)
 			}
-		}
-		if err := checkMissing(t, s, cols); err != nil {
-			return nil, err
 		}
 		if rec.Series, notes, err = t.numbers(cols, s); err != nil {
 			return nil, err
@@ -434,8 +428,11 @@ func isMissingCell(cell string) bool {
 // numbers returns the named columns read as numbers, with a note for
 // each column of s.Missing that has missing cells (read as NaN), or a
 // LineError naming the line and the column of the first cell that is
-// not a finite number.
+// not a finite number (or checkMissing's error).
 func (t *table) numbers(cols []string, s *Settings) (map[string][]float64, []string, error) {
+	if err := checkMissing(t, s, cols); err != nil {
+		return nil, nil, err
+	}
 	data := make(map[string][]float64, len(cols))
 	var notes []string
 	for _, name := range cols {
