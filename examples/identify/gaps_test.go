@@ -200,3 +200,41 @@ func TestMessyLoggerFile(t *testing.T) {
 		}
 	}
 }
+
+// TestOutlierNextToGap plants a bad reading two samples before the
+// demo's dropout and checks that the search of the exact-likelihood
+// residuals finds it and notes that it lies near a gap (arma.Outliers
+// marks one within 5 samples of a missing residual: its size rests on
+// fewer residuals than its kind needs).
+func TestOutlierNextToGap(t *testing.T) {
+	g := greenhouse.SensorDropout
+	d, err := greenhouse.Default().WithDropout(g)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d, err = d.WithFault(greenhouse.Fault{Sample: g.Start - 2, Size: 1}); err != nil {
+		t.Fatal(err)
+	}
+	m, err := parse.Model(greenhouse.Structure)
+	if err != nil {
+		t.Fatal(err)
+	}
+	est, err := fit.Model(context.Background(), m, d.ByName(), &fit.Settings{IgnoreExtra: true, First: 288, Method: fit.ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := findOutliers(est, &dataset{demoClock: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range res.Found {
+		if f.Index == g.Start-2 {
+			t.Logf("found %s of %.3f +- %.3f at %s, notes %q", f.Kind, f.Size, f.SE, f.When, f.Notes)
+			if !f.NearGap || !strings.Contains(strings.Join(f.Notes, "; "), "near a gap") {
+				t.Errorf("the outlier 2 samples before the gap is not noted as near it: %+v", f)
+			}
+			return
+		}
+	}
+	t.Errorf("the bad reading 2 samples before the gap was not found: %+v", res.Found)
+}
