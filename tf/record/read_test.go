@@ -138,6 +138,7 @@ func FuzzRead(f *testing.F) {
 		"# c\na,a\n1,2\n",
 		"t,y\n1e308,1\n-1e308,2\n",
 		"minute,y\n0,1\n1e-300,2\n2e-300,3\n1,4\n",
+		"minute,valve,temp\n0,50,\n1,51,NA\n3,52,15.3\n4,,n/a\n",
 	} {
 		f.Add([]byte(s))
 	}
@@ -151,6 +152,20 @@ func FuzzRead(f *testing.F) {
 				}
 				checkRecord(t, r, rec)
 			}
+		}
+		// With the missing cells of a column "temp" read as NaN: the
+		// file may lack it (a *SeriesError of kind ErrName).
+		rec, err := Read(bytes.NewReader(raw), &Settings{File: "f.csv", Missing: []string{"temp"}, Gaps: Remedy{Kind: "linear", Max: 5}})
+		var sr *SeriesError
+		switch {
+		case errors.As(err, &sr):
+			if !errors.Is(err, ErrName) || sr.Series != "temp" {
+				t.Fatalf("Missing: %v", err)
+			}
+		case err != nil:
+			checkError(t, Remedy{Kind: "linear", Max: 5}, err)
+		default:
+			checkRecord(t, Remedy{Kind: "linear", Max: 5}, rec)
 		}
 	})
 }
