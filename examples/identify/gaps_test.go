@@ -37,6 +37,16 @@ func checkPlantedDropout(t *testing.T, res *Outcome, out string) {
 		t.Errorf("method %v, switched %v, stretch %d..%d", res.Estimate.Method, res.Gaps.Switched, res.Gaps.StretchFrom, res.Gaps.StretchTo)
 	}
 	t.Logf("gap %s to %s: smoothed %.3f to %.3f degC, SE %.3f to %.3f", og.From, og.To, og.ValueLo, og.ValueHi, og.SELo, og.SEHi)
+	// The whole record decides among the stretch's best noise orders:
+	// the chosen refit is one that passes its checks.
+	chosen := false
+	for _, w := range res.Gaps.Whole {
+		t.Logf("whole-record refit: stretch BIC %.1f, whole BIC %.1f, pass %v: %s", w.StretchBIC, w.BIC, w.Pass, w.Structure)
+		chosen = chosen || w.est == res.Estimate && w.Pass
+	}
+	if len(res.Gaps.Whole) < 2 || !chosen {
+		t.Errorf("whole-record refits %+v: want at least two, the chosen one passing its checks", res.Gaps.Whole)
+	}
 	for _, want := range []string{
 		"Gaps in the output temp: 60 missing samples in 1 gap",
 		"day 3 14:00            to day 3 14:59             samples 3720 to 3779: 60 samples, 60 min",
@@ -237,4 +247,18 @@ func TestOutlierNextToGap(t *testing.T) {
 		}
 	}
 	t.Errorf("the bad reading 2 samples before the gap was not found: %+v", res.Found)
+}
+
+// TestExactAskedWithGaps checks that with -method exact a record with
+// gaps is handled the same way without the note of a switched method.
+func TestExactAskedWithGaps(t *testing.T) {
+	o := DefaultOptions()
+	o.Method, o.Horizon, o.Outliers = methodExact, 0, outliersOff
+	res, out, err := run(t, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Gaps.Switched || strings.Contains(out, "not least squares") || res.Estimate.Method != fit.ExactML || len(res.Gaps.Whole) == 0 {
+		t.Errorf("switched %v, method %v, %d whole-record refits:\n%s", res.Gaps.Switched, res.Estimate.Method, len(res.Gaps.Whole), out)
+	}
 }
