@@ -15,10 +15,10 @@ type Fault struct {
 	Size   float64
 }
 
-// Spike is the bad reading the identify demo plants: +3 degC (100 times
-// the noise's innovation standard deviation, about 30 times the standard
-// deviation of the noise itself) at sample 2000, minute 560 of day 2
-// (09:20).
+// Spike is the bad reading the identify demo plants: +1 degC (about 33
+// times the noise's innovation standard deviation of 0.03 degC, about 16
+// times the standard deviation of the ARMA(1,1) noise itself, 0.063
+// degC) at sample 2000, minute 560 of day 2 (09:20).
 var Spike = Fault{Sample: 1440 + 560, Size: 1}
 
 // WithFault returns a copy of d (sharing no slice with it) whose logged
@@ -32,20 +32,49 @@ func (d Data) WithFault(f Fault) (Data, error) {
 	if math.IsNaN(f.Size) || math.IsInf(f.Size, 0) {
 		return Data{}, fmt.Errorf("greenhouse: fault size %v is not a finite number", f.Size)
 	}
-	c := Data{
+	c := d.clone()
+	c.Temp[f.Sample] += f.Size
+	return c, nil
+}
+
+// Dropout is a stretch of missing readings of the logged output: the
+// temperature logged at samples Start to Start+Len-1 is missing (NaN),
+// as when a sensor or its link to the logger fails. As with a [Fault],
+// the controller's own measurement is not affected: the valve goes on
+// as it did.
+type Dropout struct {
+	Start, Len int
+}
+
+// SensorDropout is the dropout the identify demo plants: an hour of
+// missing temperatures (60 samples) from day 3 14:00 (sample 3720) to
+// 14:59 (sample 3779), well away from the [Spike] and from both ends of
+// the record.
+var SensorDropout = Dropout{Start: 2*1440 + 14*60, Len: 60}
+
+// WithDropout returns a copy of d (sharing no slice with it) whose logged
+// output is NaN over the dropout. d is not modified: the plain record,
+// and the harness and monitor that use it, see no gap. A dropout that
+// is empty or does not lie wholly inside the record is an error.
+func (d Data) WithDropout(g Dropout) (Data, error) {
+	if g.Len < 1 || g.Start < 0 || g.Start > d.Len()-g.Len {
+		return Data{}, fmt.Errorf("greenhouse: dropout of %d samples from sample %d does not lie inside the record (0 to %d) with at least one sample",
+			g.Len, g.Start, d.Len()-1)
+	}
+	c := d.clone()
+	for i := g.Start; i < g.Start+g.Len; i++ {
+		c.Temp[i] = math.NaN()
+	}
+	return c, nil
+}
+
+// clone returns a copy of d that shares no slice with it.
+func (d Data) clone() Data {
+	return Data{
 		Minute:   append([]float64(nil), d.Minute...),
 		Setpoint: append([]float64(nil), d.Setpoint...),
 		Valve:    append([]float64(nil), d.Valve...),
 		Outdoor:  append([]float64(nil), d.Outdoor...),
 		Temp:     append([]float64(nil), d.Temp...),
 	}
-	c.Temp[f.Sample] += f.Size
-	return c, nil
 }
-
-// SENSOR DROPOUT, NOT YET HERE: the second fault, an hour of
-// missing temperature readings (NaN in the output), is to be added as
-// an opt-in copy like WithFault (Data.WithDropout) once fitting a
-// whole model with missing outputs (the exact likelihood) is available;
-// the conditional least squares of fit.Model cannot run through a gap
-// in the output, so the identify demo would fail on it today.

@@ -311,7 +311,9 @@ func outdoorBase(m int) float64 {
 func clamp(v, lo, hi float64) float64 { return math.Min(math.Max(v, lo), hi) }
 
 // WriteCSV writes the record as CSV with a header line: minute,
-// setpoint, valve, outdoor, temp (units: min, degC, %, degC, degC).
+// setpoint, valve, outdoor, temp (units: min, degC, %, degC, degC). A
+// missing sample (NaN, see [Data.WithDropout]) is written as an empty
+// cell, as data loggers write a reading they did not get.
 func (d Data) WriteCSV(w io.Writer) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "%s,%s,%s,%s,%s\n", Minute, Setpoint, Valve, Outdoor, Output)
@@ -321,7 +323,9 @@ func (d Data) WriteCSV(w io.Writer) error {
 		buf = strconv.AppendFloat(buf, d.Minute[t], 'f', -1, 64)
 		for _, v := range [...]float64{d.Setpoint[t], d.Valve[t], d.Outdoor[t], d.Temp[t]} {
 			buf = append(buf, ',')
-			buf = strconv.AppendFloat(buf, v, 'f', 4, 64)
+			if !math.IsNaN(v) {
+				buf = strconv.AppendFloat(buf, v, 'f', 4, 64)
+			}
 		}
 		buf = append(buf, '\n')
 		if _, err := bw.Write(buf); err != nil {

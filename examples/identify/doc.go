@@ -65,6 +65,11 @@
 // whole intervals of up to N missing samples by holding the last value
 // or on a straight line, longest fits only the longest evenly spaced
 // stretch (ties go to the later one). The report says what was done.
+// An empty cell of the output column, or one that says NaN, NA or N/A,
+// is read as a missing sample (record.Settings.Missing), as a logger
+// writes a sensor's dropout; one of an input column is refused with its
+// line and column, since an input gap cannot be skipped (fill it in the
+// file, or delete the row and let -gaps fill it).
 // The reading is the library's package tf/record (record.Read), which a
 // program of your own can call the same way; the flags are its Settings.
 //
@@ -73,6 +78,28 @@
 // the first input values, and on a record that begins in motion (here a
 // dithered valve under feedback) the start-up transient would otherwise
 // be read as slow noise.
+//
+// Gaps in the output (missing samples, NaN) are reported before the fit:
+// each gap's first and last sample, its time stamps and its length in
+// samples and in time. Identification needs consecutive samples
+// (prewhitening, cross-correlation, least-squares ranking), so it runs
+// on the longest gap-free stretch (identify.GapFree; the report names
+// it); the best-ranked candidate of each noise order (at most three) is
+// then fitted to the whole record by exact maximum likelihood, whose
+// Kalman filter skips the missing samples exactly, and the one with the
+// least whole-record BIC among those that pass their checks is chosen
+// (the stretch holds less evidence about the noise than the whole
+// record). A record with gaps is always fitted by exact likelihood, and
+// with -method least-squares (the default) the report says the method
+// was switched and why: least squares needs every output sample, and
+// filling the gap would fit invented readings as if measured; refusing
+// would leave a record with a dropout without a model for no gain. With
+// -spec the given model is fitted to the whole record so. After the fit
+// the report gives, for each gap, the range of the smoothed values
+// (Estimate.Missing: estimates from the model, not readings, used in no
+// fit or check) and of their standard errors, and any input gaps the
+// fit filled (Estimate.Filled). The checks and the outlier search use
+// the residuals present; an outlier within 5 samples of a gap is noted.
 //
 // Outliers (-outliers, default report): after the fit, the chosen
 // model's residuals are searched for outliers with the model's own noise
@@ -93,8 +120,9 @@
 // refit, judged by its own checks (the rest of the report, the paths,
 // forecast and pictures, is of the first fit). -outliers off skips the search. The
 // built-in demo record carries one planted bad reading of the logged
-// temperature (greenhouse.Spike: +1 degC at day 2 09:20), which the
-// report finds and names.
+// temperature (greenhouse.Spike: +1 degC at day 2 09:20) and an hour of
+// missing temperatures (greenhouse.SensorDropout: day 3 14:00 to
+// 14:59), both made by our own code; the report finds and names both.
 //
 // Pictures (-pictures DIR), drawn by examples/chart at 220 dots per
 // inch with their legends beside the data: data.png (the record: output
@@ -110,8 +138,12 @@
 // their difference) and forecast.png (forecast with its interval, and
 // the planned input). data.png and fit.png mark each outlier found with
 // a ring on its sample, labelled in the legend with its kind and time,
-// and each event input of a spec (step(T), pulse(T)) with a dashed
-// vertical line at its sample.
+// each event input of a spec (step(T), pulse(T)) with a dashed
+// vertical line at its sample, and each gap of the output with a grey
+// band labelled with its times; fit.png also draws the smoothed values
+// over a gap with +-2 standard errors. With gaps, ccf.png and
+// weights.png are those of the stretch the identification ran on, and
+// residual-acf.png is of the residuals present.
 //
 // Progress goes to standard error; results to standard output.
 //

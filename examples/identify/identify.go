@@ -11,15 +11,15 @@ import (
 )
 
 // identifyBest runs the one-call identification, prints the ranked
-// candidates and returns the best one's estimate.
-func identifyBest(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progress) (*fit.Estimate, error) {
+// candidates and returns the best one's estimate, and the candidates.
+func identifyBest(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *progress) (*fit.Estimate, []identify.Candidate, error) {
 	pr.say("identifying: prewhitening %d inputs, impulse-response weights, (b, r, s) forms, noise orders, fitting the candidates concurrently", len(ds.inputs))
 	set := identifySettings(skip)
 	stop := pr.ticker("still identifying")
 	cands, err := identify.Candidates(ctx, ds.output, ds.inputs, ds.data, set)
 	stop()
 	if err != nil {
-		return nil, fmt.Errorf("identification: %w", err)
+		return nil, nil, fmt.Errorf("identification: %w", err)
 	}
 	pr.say("fitted %d candidate models", len(cands))
 	fmt.Fprintf(w, "\nCandidate models, best first (ranked by BIC; checks at the 5 %% level; %d fitted):\n", len(cands))
@@ -42,7 +42,7 @@ func identifyBest(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *p
 		fmt.Fprintf(w, "  %4d  %10.1f  %10.1f  %6d  %-6s  %s\n", c.Rank, e.BIC, e.AIC, len(e.Params), checks, tf.StructureLabel(c.Structure))
 	}
 	if cands[0].Estimate == nil {
-		return nil, fmt.Errorf("identification: no candidate could be fitted")
+		return nil, nil, fmt.Errorf("identification: no candidate could be fitted")
 	}
 	if d := cands[0].Diagnostics; d != nil && !d.Pass {
 		// The best by BIC fails: say whether a lower-ranked one passes.
@@ -55,7 +55,7 @@ func identifyBest(ctx context.Context, ds *dataset, skip int, w io.Writer, pr *p
 		}
 		fmt.Fprintln(w, note)
 	}
-	return cands[0].Estimate, nil
+	return cands[0].Estimate, cands, nil
 }
 
 // shownCandidates is the number of candidates listed.

@@ -35,8 +35,9 @@ func runDefault(t *testing.T, pictures string) (*Outcome, string) {
 // TestDemoRecoversTheTruth is the check: on the built-in
 // greenhouse record the identified model has the true dead times exactly
 // and gains within 10 % of the true ones (greenhouse.True), though the
-// record carries a planted bad reading (greenhouse.Spike), which the
-// report names.
+// record carries a planted bad reading (greenhouse.Spike) and an hour of
+// missing temperatures (greenhouse.SensorDropout), which the report
+// names; the model is then fitted by exact likelihood.
 func TestDemoRecoversTheTruth(t *testing.T) {
 	dir := t.TempDir()
 	res, out := runDefault(t, dir)
@@ -55,7 +56,8 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 	}
 	// The demo record carries one planted bad reading; the report names it.
 	checkPlantedSpike(t, res, out)
-	for _, want := range []string{"Candidate models, best first", "Model of temp with coefficients estimated by conditional least squares", "coefficient", "standard error", "value/se", "noise variance", "Diagnostic checks", "verdict:", "time constant", "Forecast of temp", "How close the identified model is", "independent safety interlocks", "licensed practice",
+	checkPlantedDropout(t, res, out)
+	for _, want := range []string{"Candidate models, best first", "Model of temp with coefficients estimated by exact maximum likelihood", "coefficient", "standard error", "value/se", "noise variance", "Diagnostic checks", "verdict:", "time constant", "Forecast of temp", "How close the identified model is", "independent safety interlocks", "licensed practice",
 		"verdict: the model is adequate by every check", "Input paths for control work", "To test a controller on the identified model",
 		"Forecast of temp for the planned valve (0:65,60:85,120:70)"} {
 		if !strings.Contains(out, want) {

@@ -89,11 +89,12 @@ type Options struct {
 
 	// Method is -method: least-squares (conditional least squares, the
 	// default) or exact (exact maximum likelihood; with identification,
-	// the chosen model is refitted by it).
+	// the chosen model is refitted by it). A record whose output has
+	// gaps is fitted by exact whatever Method says (Gaps.Switched).
 	Method string
 
 	// cleanDemo uses the built-in record without its planted bad
-	// reading (for tests).
+	// reading and sensor dropout (for tests).
 	cleanDemo bool
 }
 
@@ -167,7 +168,7 @@ func cli(args []string, stdout, stderr io.Writer) int {
 	fs.StringVar(&o.Plan, "plan", "", "planned first input after the record, as from:value pairs (samples from the end, each sample once, all before the -horizon), or hold (default: the demo plan "+demoPlan+" on the built-in record, hold for a file)")
 	fs.IntVar(&o.Skip, "skip", o.Skip, "samples at the start left out of the fit while the input filters start up (-1: 5 % of the record, at most 500; other negative values are refused)")
 	fs.StringVar(&o.Outliers, "outliers", outliersReport, "outliers in the residuals of the chosen model: off (no search), report (search and report them), refit (also refit with them as events, compare, and -save the refit)")
-	fs.StringVar(&o.Method, "method", methodLeastSquares, "estimation method: least-squares (conditional least squares) or exact (exact maximum likelihood by the Kalman filter; candidates are still ranked by least squares and the chosen one is refitted)")
+	fs.StringVar(&o.Method, "method", methodLeastSquares, "estimation method: least-squares (conditional least squares) or exact (exact maximum likelihood by the Kalman filter; candidates are still ranked by least squares and the chosen one is refitted); a record whose output has gaps is always fitted by exact, and the report says so")
 	fs.BoolVar(&o.Quiet, "quiet", false, "no progress messages on standard error")
 	if status, stop := cmdline.Parse(fs, usage, args); stop {
 		return status

@@ -11,11 +11,14 @@ import (
 
 // marks are what the data and fit pictures mark on the output: the
 // outliers found in the residuals (a ring on the sample, labelled in the
-// legend with its kind and time) and the event inputs of the model (a
-// vertical line at the event's sample, labelled with the event).
+// legend with its kind and time), the event inputs of the model (a
+// vertical line at the event's sample, labelled with the event) and the
+// gaps of the output (a shaded band over the missing samples, labelled
+// with their times).
 type marks struct {
 	outliers []FoundOutlier
 	events   []markedEvent
+	gaps     []OutputGap
 }
 
 // markedEvent is an event input of the model placed on the record.
@@ -30,6 +33,9 @@ func pictureMarks(m tf.Model, res *Outliers, ds *dataset) *marks {
 	mk := &marks{}
 	if res != nil {
 		mk.outliers = res.Found
+	}
+	if ds.gaps != nil {
+		mk.gaps = ds.gaps.Output
 	}
 	for _, in := range m.Inputs {
 		if in.Event == nil {
@@ -65,6 +71,22 @@ func (mk *marks) draw(c *chart.Chart, t, y []float64) {
 		return
 	}
 	lo, hi := finiteSpan(y)
+	for i, g := range mk.gaps {
+		// Half a sample either side, so that a single missing sample
+		// shows as a band.
+		dt := 1.0
+		if len(t) > 1 {
+			dt = t[1] - t[0]
+		}
+		x := []float64{t[g.First] - dt/2, t[g.Last] + dt/2}
+		b := c.Band(x, []float64{lo, lo}, []float64{hi, hi}, palette.gap)
+		switch {
+		case i < maxGapLabels:
+			c.Legend(fmt.Sprintf("output missing: %s to %s", g.From, g.To), b)
+		case i == maxGapLabels:
+			c.Legend(fmt.Sprintf("output missing: %d more gaps", len(mk.gaps)-maxGapLabels), b)
+		}
+	}
 	for _, e := range mk.events {
 		c.Legend(e.label, c.VLine(t[e.index], lo, hi, palette.truth).Dashed(4, 3))
 	}
@@ -76,6 +98,9 @@ func (mk *marks) draw(c *chart.Chart, t, y []float64) {
 		c.Legend(label, c.Dots(t[o.Index:o.Index+1], y[o.Index:o.Index+1], palette.mark, draw.RingGlyph{}, 5))
 	}
 }
+
+// maxGapLabels is the number of gaps labelled one by one in a legend.
+const maxGapLabels = 3
 
 // finiteSpan is the range of the finite values of y (0, 1 when none).
 func finiteSpan(y []float64) (lo, hi float64) {

@@ -118,8 +118,8 @@ func seList(fs []FoundOutlier) string {
 
 // refitOutliers refits est's model with the outliers found as event
 // inputs (tf.Model.WithOutliers: an innovational outlier is a shock of
-// the noise, not an input, and is left out), from the same first
-// residual, and runs the checks on the refit.
+// the noise, not an input, and is left out), by the same method from the
+// same first residual, and runs the checks on the refit.
 func refitOutliers(ctx context.Context, est *fit.Estimate, ds *dataset, res *Outliers, pr *progress) error {
 	m, skipped, err := est.Model.WithOutliers(res.Report.Outliers, res.Report.Decay)
 	if err != nil {
@@ -129,7 +129,7 @@ func refitOutliers(ctx context.Context, est *fit.Estimate, ds *dataset, res *Out
 		return nil
 	}
 	pr.say("refitting with %d outliers as events", len(res.Report.Outliers)-len(skipped))
-	re, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: est.Conditioning.First})
+	re, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: est.Conditioning.First, Method: est.Method})
 	if err != nil {
 		return fmt.Errorf("outlier refit: %w", err)
 	}
@@ -234,6 +234,16 @@ func outlierStep(ctx context.Context, o Options, est *fit.Estimate, ds *dataset,
 		}
 		fmt.Fprintf(w, "  planted in the demo record: a bad reading of %+.3g %s at sample %d (%s): %s\n",
 			f.Size, outputUnitWord(ds), f.Sample, ds.sampleTime(f.Sample), found)
+	}
+	if g := ds.dropout; g != nil {
+		found := "NOT found"
+		for _, og := range ds.gaps.Output {
+			if og.First == g.Start && og.Len == g.Len {
+				found = fmt.Sprintf("found: the gap of %d samples, %s to %s, skipped by the exact likelihood", og.Len, og.From, og.To)
+			}
+		}
+		fmt.Fprintf(w, "  planted in the demo record: a sensor dropout of %d samples from sample %d (%s): %s\n",
+			g.Len, g.Start, ds.sampleTime(g.Start), found)
 	}
 	if o.Outliers != outliersRefit {
 		return nil

@@ -27,7 +27,12 @@ func pictures(dir string, est *fit.Estimate, ds *dataset, out *Outcome) (files, 
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, nil, err
 	}
+	// The correlations need consecutive samples: with gaps in the
+	// output they are those of the stretch the identification saw.
 	pw, pwErr := prewhitenAll(ds)
+	if g := ds.gaps; g != nil && len(g.Output) > 0 && g.StretchTo > g.StretchFrom {
+		pw, pwErr = prewhitenAll(ds.stretch(g.StretchFrom, g.StretchTo))
+	}
 	mk := pictureMarks(est.Model, out.Outliers, ds)
 	withWeights := func(draw func(string, *dataset, []prewhitened, *fit.Estimate) error) func(string) error {
 		return func(path string) error {

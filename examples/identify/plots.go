@@ -17,7 +17,7 @@ import (
 // in blue, bands and limits in red and orange, the truth (demo only) in
 // green.
 var palette = struct {
-	data, raw, axis, model, under, band, truth, fill, errors, mark color.Color
+	data, raw, axis, model, under, band, truth, fill, errors, mark, gap color.Color
 }{
 	data:   color.RGBA{R: 60, G: 60, B: 60, A: 255},
 	raw:    color.RGBA{R: 175, G: 175, B: 175, A: 255}, // a raw input under its moving average
@@ -29,6 +29,7 @@ var palette = struct {
 	fill:   color.NRGBA{R: 31, G: 100, B: 190, A: 70}, // a forecast interval
 	errors: color.NRGBA{R: 205, G: 60, B: 40, A: 50},  // +-2 standard errors
 	mark:   color.RGBA{R: 230, G: 140, B: 20, A: 255},
+	gap:    color.NRGBA{R: 120, G: 120, B: 120, A: 70}, // missing output samples
 }
 
 // smoothing is the number of samples averaged in the moving average
@@ -132,9 +133,17 @@ func weightsPicture(path string, ds *dataset, pw []prewhitened, _ *fit.Estimate)
 }
 
 // residualPicture draws the autocorrelation of the residuals with its
-// 95 % band.
+// 95 % band (the residuals present: where the output is missing there
+// is none, and the stretches either side are joined, as the checks join
+// them).
 func residualPicture(path string, ds *dataset, est *fit.Estimate) error {
-	r := est.Resid[est.Conditioning.First:]
+	// The residuals present, a gap closed up, as fit.Check treats them.
+	var r []float64
+	for _, v := range est.Resid[est.Conditioning.First:] {
+		if !math.IsNaN(v) {
+			r = append(r, v)
+		}
+	}
 	lag := pictureLag(len(r))
 	acf, err := arma.ACF(r, lag)
 	if err != nil {
@@ -221,6 +230,7 @@ func fitPicture(path string, ds *dataset, est *fit.Estimate, mk *marks) error {
 	xlabel, ylabel := "time ("+ds.timeUnit()+")", ds.output+outputUnit(ds)
 	whole := overlay("Observed and fitted (one step ahead), whole record", xlabel, ylabel, "fitted", t, y, fitted)
 	mk.draw(whole, t, y)
+	smoothedTrace(whole, t, est)
 	k := max(0, n-int(180/dt))
 	zoom := chart.New("Last part of the record, zoomed", xlabel, ylabel)
 	zoom.Legend("observed", zoom.Dots(t[k:], y[k:], palette.data, draw.CircleGlyph{}, 1.6))
@@ -265,4 +275,39 @@ func forecastPicture(path string, ds *dataset, fr *forecastResult) error {
 	q.Legend("planned", q.Line(tf, fr.plan[:fr.h], palette.mark, 2.5))
 	q.SetX(p.XRange())
 	return chart.Save(path, []*chart.Chart{p, q}, 18, 7)
+}
+
+// smoothedTrace draws the smoothed estimates of the missing outputs
+// (Estimate.Missing) with +-2 standard errors, where there are any.
+func smoothedTrace(c *chart.Chart, t []float64, est *fit.Estimate) {
+	if len(est.Missing) == 0 {
+		return
+	}
+	n := len(t)
+	v, lo, hi := make([]float64, n), make([]float64, n), make([]float64, n)
+	for i := range v {
+		v[i], lo[i], hi[i] = math.NaN(), math.NaN(), math.NaN()
+	}
+	for _, mv := range est.Missing {
+		if mv.Index >= 0 && mv.Index < n {
+			v[mv.Index], lo[mv.Index], hi[mv.Index] = mv.Value, mv.Value-2*mv.SE, mv.Value+2*mv.SE
+		}
+	}
+	// One band per gap: a band over NaN would join the gaps.
+	for i := 0; i < n; {
+		if math.IsNaN(v[i]) {
+			i++
+			continue
+		}
+		j := i
+		for j < n && !math.IsNaN(v[j]) {
+			j++
+		}
+		b := c.Band(t[i:j], lo[i:j], hi[i:j], palette.errors)
+		if i == est.Missing[0].Index {
+			c.Legend("smoothed +-2 standard errors (missing samples)", b)
+		}
+		i = j
+	}
+	c.Legend("smoothed (missing samples)", c.Line(t, v, palette.mark, 1.5))
 }

@@ -109,7 +109,7 @@ func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validi
 		Models []entry `json:"models"`
 	}{Site: ds.name, Models: []entry{{
 		Name:     ds.output + " (identified)",
-		Notes:    strings.Join(append([]string{fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2))}, ds.notes...), "; "),
+		Notes:    strings.Join(saveNotes(est, ds), "; "),
 		Spec:     parse.Spec{Model: fixed(est.Model, -1)},
 		Validity: v,
 	}}}
@@ -118,4 +118,16 @@ func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validi
 		return err
 	}
 	return os.WriteFile(path, append(b, '\n'), 0o644)
+}
+
+// saveNotes are the notes of a saved model: what it was fitted to, what
+// was done to the record, and its output's gaps.
+func saveNotes(est *fit.Estimate, ds *dataset) []string {
+	notes := append([]string{fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2))}, ds.notes...)
+	if ds.gaps != nil {
+		if n := ds.gaps.gapNote(); n != "" {
+			notes = append(notes, n)
+		}
+	}
+	return notes
 }

@@ -58,6 +58,9 @@ type Outcome struct {
 	// Outliers is what the search of the residuals found, with the
 	// refit when -outliers refit asked for it (nil with -outliers off).
 	Outliers *Outliers
+	// Gaps is the gaps report: the output's missing samples, how they
+	// were handled and what the model says about them.
+	Gaps *Gaps
 	// Elapsed is the wall time of the run.
 	Elapsed time.Duration
 
@@ -93,9 +96,13 @@ type dataset struct {
 	// midnight of day 1 and is stamped as day and time of day.
 	times     *sampleClock
 	demoClock bool
-	// fault is the bad reading planted in the built-in record (nil for
-	// the clean record or a file).
-	fault *greenhouse.Fault
+	// fault is the bad reading planted in the built-in record and
+	// dropout its hour of missing outputs (nil for the clean record or a
+	// file).
+	fault   *greenhouse.Fault
+	dropout *greenhouse.Dropout
+	// gaps are the output's gaps and how the run handles them.
+	gaps *Gaps
 }
 
 // sampleClock gives the time stamp of a sample: t0 + i step seconds,
@@ -188,15 +195,7 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if err != nil {
 		return nil, err
 	}
-	var est *fit.Estimate
-	if o.Spec != "" {
-		est, err = fitSpec(ctx, o.Spec, ds, skip, fitMethod(o.Method), pr)
-	} else {
-		est, err = identifyBest(ctx, ds, skip, stdout, pr)
-		if err == nil && o.Method == methodExact {
-			est, err = refitExact(ctx, est, ds, stdout, pr)
-		}
-	}
+	est, err := fitRecord(ctx, o, ds, skip, stdout, pr)
 	if err != nil {
 		return nil, err
 	}
@@ -208,6 +207,9 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if err := report(ctx, est, ds, stdout, pr, out); err != nil {
 		return nil, err
 	}
+	gapResults(ds.gaps, est)
+	out.Gaps = ds.gaps
+	writeGapResults(stdout, ds.gaps, ds)
 	if out.Simulation, err = simulate(est, ds, skip, stdout); err != nil {
 		return nil, err
 	}
@@ -245,6 +247,40 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	}
 	pr.say("done in %.1f s", out.Elapsed.Seconds())
 	return out, nil
+}
+
+// fitRecord fits the spec of o to ds, or identifies a model, by the
+// method o asks for. A record whose output has gaps is identified on
+// its longest gap-free stretch and fitted whole by exact likelihood
+// (gaps.go), whatever the method; the report says so first.
+func fitRecord(ctx context.Context, o Options, ds *dataset, skip int, stdout io.Writer, pr *progress) (*fit.Estimate, error) {
+	ds.gaps = findGaps(o, ds)
+	method := o.Method
+	if len(ds.gaps.Output) > 0 {
+		method = methodExact
+	}
+	writeGapPlan(stdout, ds.gaps, ds, o.Spec != "")
+	if o.Spec != "" {
+		return fitSpec(ctx, o.Spec, ds, skip, fitMethod(method), pr)
+	}
+	from, to := ds.gaps.StretchFrom, ds.gaps.StretchTo
+	if to-from < minSamples {
+		return nil, fmt.Errorf("the longest stretch of the record without a missing sample has %d samples (%d to %d): too short to identify a model on (at least %d; a model worth trusting needs hundreds); give the structure with -spec, which is fitted to the whole record by exact likelihood",
+			to-from, from, max(from, to-1), minSamples)
+	}
+	if skip >= (to-from)/2 {
+		skip = (to - from) / 20 // the stretch is much shorter than the record
+	}
+	est, cands, err := identifyBest(ctx, ds.stretch(from, to), skip, stdout, pr)
+	switch {
+	case err != nil:
+		return nil, err
+	case len(ds.gaps.Output) > 0:
+		return chooseWhole(ctx, cands, ds, stdout, pr)
+	case method == methodExact:
+		return refitExact(ctx, est, ds, stdout, pr)
+	}
+	return est, nil
 }
 
 // checkOptions checks the settings that need no data, so that a
@@ -504,7 +540,14 @@ func (ds *dataset) loadBuiltin(clean bool) error {
 			return err
 		}
 		ds.fault = &f
-		ds.name = "built-in greenhouse record (4 days, PI control with a test signal, one bad temperature reading)"
+		// And an hour of missing temperatures (a sensor dropout), which
+		// the exact likelihood skips.
+		g2 := greenhouse.SensorDropout
+		if g, err = g.WithDropout(g2); err != nil {
+			return err
+		}
+		ds.dropout = &g2
+		ds.name = "built-in greenhouse record (4 days, PI control with a test signal, one bad temperature reading, an hour of missing temperatures)"
 	}
 	ds.data = map[string][]float64{}
 	for _, n := range append([]string{ds.output}, ds.inputs...) {
@@ -520,10 +563,6 @@ func (ds *dataset) loadBuiltin(clean bool) error {
 	} else if !sameInterval(ds.interval, ds.unit, greenhouse.Interval, "min", 1e-9) {
 		return fmt.Errorf("the built-in record is sampled every 1 min, but the interval given is %s", ivText(ds.interval, ds.unit))
 	}
-	// SENSOR DROPOUT, NOT YET HERE: the demo is to carry an hour of
-	// missing outputs too (see examples/greenhouse, fault.go) once the
-	// whole-model exact likelihood can fit through it; the report would
-	// then list the gap beside the outliers.
 	// The truth is known for the demo's own output and inputs.
 	ds.builtin = ds.output == greenhouse.Output
 	for _, in := range ds.inputs {
@@ -534,13 +573,34 @@ func (ds *dataset) loadBuiltin(clean bool) error {
 
 // flagNames are the words record.Read's messages use for its settings:
 // this program's flags.
-var flagNames = map[string]string{"Gaps": "-gaps", "Time": "-time", "TimeUnit": "-time-unit", "Sep": "-sep", "Interval": "-interval"}
+// "Missing" maps to nothing: the program reads the output's missing
+// cells by itself and offers no flag for the inputs'.
+var flagNames = map[string]string{"Gaps": "-gaps", "Time": "-time", "TimeUnit": "-time-unit", "Sep": "-sep", "Interval": "-interval", "Missing": ""}
+
+// inputMissing returns the program's message for a missing cell of an
+// input column found by the reader (err), or nil for any other error:
+// an input gap cannot be skipped as an output gap is, and the message
+// says what can be done.
+func inputMissing(err error, ds *dataset) error {
+	var le *record.LineError
+	if !errors.As(err, &le) || le.Column == ds.output || !slices.Contains(ds.inputs, le.Column) ||
+		!strings.HasPrefix(le.Problem, "the cell is empty") && !strings.HasPrefix(le.Problem, "the cell says") {
+		return nil
+	}
+	cell, _, _ := strings.Cut(le.Problem, ":")
+	return fmt.Errorf("%s:%d: column %s (an input): %s, a missing input sample: the transfer filters need every past input value, "+
+		"so an input gap cannot be skipped as a gap in the output (%s) is; fill it in the file, or delete the row and let "+
+		"-gaps hold:N or -gaps linear:N fill it from the time column (the report then lists the fill)", le.File, le.Line, clip(le.Column), cell, ds.output)
+}
 
 // loadFile reads the CSV file of o into ds with record.Read: the named
 // columns, checked against the time column and mended as rem says.
 func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 	cols := append([]string{ds.output}, ds.inputs...)
-	set := &record.Settings{Sep: o.Sep, Series: cols, Time: o.Time, TimeUnit: o.TimeUnit, Gaps: rem, Names: flagNames}
+	// The output's missing cells (a sensor dropout) are read as NaN, for
+	// the exact likelihood to skip; an input's are refused (inputMissing).
+	set := &record.Settings{Sep: o.Sep, Series: cols, Time: o.Time, TimeUnit: o.TimeUnit, Gaps: rem, Names: flagNames,
+		Missing: []string{ds.output}}
 	if ds.interval > 0 {
 		set.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 		if o.Interval == 0 {
@@ -567,6 +627,9 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 	var se *record.SeriesError
 	if errors.As(err, &se) && se.Kind == record.ErrName {
 		return fmt.Errorf("%s names column %s, but %s", flagOf(se.Series), clip(se.Series), se.Detail)
+	}
+	if err := inputMissing(err, ds); err != nil {
+		return err
 	}
 	if err != nil {
 		// The reader's messages name this program's flags (flagNames);
@@ -653,7 +716,12 @@ func sepName(r rune) string {
 // checkSeries refuses a constant column, naming it.
 func checkSeries(file string, cols []string, ds *dataset) error {
 	for i, c := range cols {
-		if v := ds.data[c]; slices.Min(v) == slices.Max(v) {
+		v := ds.data[c]
+		lo, hi, ok := presentRange(v)
+		if !ok {
+			return fmt.Errorf("column %s of %s (the output) has no reading at all: every cell is missing", clip(c), file)
+		}
+		if lo == hi {
 			role := "the output"
 			fix := "there is nothing to explain; check that it is the right column"
 			if i > 0 {
@@ -663,10 +731,25 @@ func checkSeries(file string, cols []string, ds *dataset) error {
 					fix = "it shows no effect on the output to identify; leave it out of the spec"
 				}
 			}
-			return fmt.Errorf("column %s of %s (%s) is constant: every sample is %s; %s", clip(c), file, role, strconv.FormatFloat(v[0], 'g', -1, 64), fix)
+			return fmt.Errorf("column %s of %s (%s) is constant: every sample is %s; %s", clip(c), file, role, strconv.FormatFloat(lo, 'g', -1, 64), fix)
 		}
 	}
 	return nil
+}
+
+// presentRange returns the least and the largest of the samples of v
+// that are not missing (NaN), and false when every one is.
+func presentRange(v []float64) (lo, hi float64, ok bool) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, x := range v {
+		if !math.IsNaN(x) {
+			lo, hi, ok = math.Min(lo, x), math.Max(hi, x), true
+		}
+	}
+	if !ok {
+		return math.NaN(), math.NaN(), false
+	}
+	return lo, hi, true
 }
 
 // sameInterval reports whether a in unit ua and b in unit ub are the
@@ -685,8 +768,8 @@ func validity(est *fit.Estimate, ds *dataset, pass bool, failures []string) *mod
 		v.Interval = ivText(iv.Value, iv.Unit)
 	}
 	for _, c := range append([]string{ds.output}, ds.inputs...) {
-		s := ds.data[c]
-		v.Ranges[c] = [2]float64{slices.Min(s), slices.Max(s)}
+		lo, hi, _ := presentRange(ds.data[c])
+		v.Ranges[c] = [2]float64{lo, hi}
 	}
 	if !pass {
 		v.Verdict = modelinfo.VerdictFailed
@@ -793,7 +876,8 @@ type Simulation struct {
 	Y []float64
 	// RMS is the root-mean-square difference from the output and
 	// Explained the share of the output's variance it accounts for,
-	// 1 - var(y - sim)/var(y), both from the first summed residual on.
+	// 1 - var(y - sim)/var(y), both from the first summed residual on,
+	// over the output samples present (a gap is left out).
 	RMS, Explained float64
 	// From is the first sample compared.
 	From int
@@ -817,11 +901,16 @@ func simulate(est *fit.Estimate, ds *dataset, skip int, w io.Writer) (*Simulatio
 	var sd, sy, my float64
 	k := 0
 	for t := from; t < len(obs); t++ {
-		my += obs[t]
-		k++
+		if !math.IsNaN(obs[t]) { // a missing output is left out
+			my += obs[t]
+			k++
+		}
 	}
 	my /= float64(k)
 	for t := from; t < len(obs); t++ {
+		if math.IsNaN(obs[t]) {
+			continue
+		}
 		d := obs[t] - y[t]
 		sd += d * d
 		sy += (obs[t] - my) * (obs[t] - my)

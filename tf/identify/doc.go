@@ -27,6 +27,23 @@
 // fit.Check) and their structures are tf.Model values, printed by
 // tf.StructureLabel.
 //
+// # Records with gaps
+//
+// Every step of the identification needs a gap-free record: the
+// prewhitening filters and the cross-correlations run over consecutive
+// samples, and the candidates are ranked by conditional least squares,
+// which needs every output sample. Candidates therefore refuses missing
+// (NaN) samples, naming the series, the gaps and the longest gap-free
+// stretch, rather than bridge them silently. The rule for a record whose
+// output has gaps (a sensor dropout) is: identify on the longest
+// gap-free stretch (GapFree), then fit the chosen structure to the
+// whole record by exact maximum likelihood (fit.Settings.Method =
+// fit.ExactML), whose Kalman filter skips the missing outputs exactly
+// and returns their smoothed values. examples/identify does so and
+// reports it. Missing input samples cannot be skipped by any fit (the
+// transfer filters need every past input value): fill short ones by a
+// stated rule (fit.Settings.InputGaps) or cut the record.
+//
 // # Cautions
 //
 // The ranking says which structure explains the record best by a

@@ -156,7 +156,11 @@ func (c Candidate) String() string {
 // them when there are several inputs), phi1.., theta1.. and c.
 //
 // Errors (the shared shapes, Op "identify.Candidates"): the data errors of fit.Model;
-// a *SampleError for a sample above 1e140 in magnitude and a
+// for missing (NaN) samples of the output or an input, a *SampleError
+// of the first joined with a *SeriesError of kind ErrSample that lists
+// the gaps and names the longest gap-free stretch (see GapFree and the
+// package doc, "Records with gaps"); a *SampleError for an infinite
+// sample or one above 1e140 in magnitude and a
 // *SeriesError of kind ErrConstant for a series that varies by less
 // than 1e-140 (rescale it); a *SeriesError of kind ErrName for an input
 // listed twice, empty or equal to the output, or a name a spec cannot
@@ -750,8 +754,15 @@ func validateData(output string, inputs []string, data map[string][]float64) err
 		if len(x) != len(y) {
 			return errs.Series(name, errs.ErrLength, len(x), len(y), "the length of the output "+strconv.Quote(output)+"; every series has one length")
 		}
+		if slices.ContainsFunc(x, math.IsNaN) {
+			role := "input"
+			if name == output {
+				role = "output"
+			}
+			return missingErr(name, role, x, data, append([]string{output}, inputs...))
+		}
 		for t, v := range x {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
+			if math.IsInf(v, 0) {
 				return &errs.SampleError{Series: name, Index: t, Value: v}
 			}
 			if math.Abs(v) > maxMagnitude {

@@ -17,7 +17,11 @@
 // starting with # are comments; a UTF-8 byte order mark is dropped and a
 // file whose lines end in a carriage return alone is read line by line.
 // Only the columns named in Settings.Series are read as numbers, so a
-// column of notes is no obstacle.
+// column of notes is no obstacle. Every cell of them must be a finite
+// number, except in the columns named in Settings.Missing, whose empty,
+// NaN, NA and N/A cells (a sensor's dropout as a logger writes it) are
+// read as NaN for a fit that skips them (the output, by exact
+// likelihood); Record.Notes lists them by line.
 //
 // # The time column
 //

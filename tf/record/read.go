@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -46,8 +47,21 @@ type Settings struct {
 	// Gaps is the remedy for gaps and irregular steps in the time
 	// column; the zero Remedy refuses them with a *GapError.
 	Gaps Remedy
+	// Missing names the columns whose missing samples are read as NaN
+	// rather than refused: an empty cell, or one that says NaN, NA or
+	// N/A (in any case), as loggers and spreadsheets write a reading
+	// they did not get. Use it for an output that a fit can skip
+	// exactly (fit.Settings.Method = fit.ExactML); an input's gaps cannot
+	// be skipped (the transfer filters need every past value), so leave
+	// inputs out and let their empty cells be refused with their lines.
+	// Every name must be a column read (one of Series, or of the file
+	// when Series is nil). Record.Notes lists the missing cells found.
+	// At the gaps of a time column the remedies treat a NaN as any
+	// value: hold and linear next to one give NaN, which widens the
+	// output gap rather than inventing readings.
+	Missing []string
 	// Names maps a field of Settings ("Gaps", "Time", "TimeUnit",
-	// "Sep", "Interval") to the words messages use for it, for a
+	// "Sep", "Interval", "Missing") to the words messages use for it, for a
 	// program whose users set them otherwise (a flag "-gaps"); a word
 	// starting with "-" is written before its value as a flag is. nil
 	// means the field names ("Settings.Gaps").
@@ -218,8 +232,9 @@ func Read(r io.Reader, s *Settings) (rec *Record, err error) {
 		}
 	}
 	cols := s.Series
+	var notes []string
 	if cols != nil {
-		if rec.Series, err = t.numbers(cols, s); err != nil {
+		if rec.Series, notes, err = t.numbers(cols, s); err != nil {
 			return nil, err
 		}
 	}
@@ -233,13 +248,14 @@ func Read(r io.Reader, s *Settings) (rec *Record, err error) {
 				cols = append(cols, n)
 			}
 		}
-		if rec.Series, err = t.numbers(cols, s); err != nil {
+		if rec.Series, notes, err = t.numbers(cols, s); err != nil {
 			return nil, err
 		}
 	}
 	if err := rec.timing(t, tm, s); err != nil {
 		return nil, err
 	}
+	rec.Notes = append(rec.Notes, notes...)
 	return rec, nil
 }
 
@@ -383,29 +399,108 @@ func sepHint(field string, s *Settings) string {
 	return ""
 }
 
-// numbers returns the named columns read as numbers, or a LineError
-// naming the line and the column of the first cell that is not a finite
-// number.
-func (t *table) numbers(cols []string, s *Settings) (map[string][]float64, error) {
+// checkMissing refuses a name of s.Missing that is not a column read
+// (cols): a *SeriesError of kind ErrName when the file has no such
+// column, a *SettingError when it is not among the columns read.
+func checkMissing(t *table, s *Settings, cols []string) error {
+	for _, m := range s.Missing {
+		switch {
+		case !t.has(m):
+			return &SeriesError{Op: op, Series: m, Kind: ErrName,
+				Detail: fmt.Sprintf("%s names it, but %s has no such column; its columns: %s", s.label("Missing"), t.file, names(t.names))}
+		case !slices.Contains(cols, m):
+			return &SettingError{Op: op, Setting: s.label("Missing"), Value: clip(m), Rule: "name columns that are read as series (" + names(cols) + ")"}
+		}
+	}
+	return nil
+}
+
+// isMissingCell reports whether a cell says a sample is missing: empty,
+// or NaN, NA or N/A in any case.
+func isMissingCell(cell string) bool {
+	switch strings.ToLower(cell) {
+	case "", "nan", "na", "n/a":
+		return true
+	}
+	return false
+}
+
+// numbers returns the named columns read as numbers, with a note for
+// each column of s.Missing that has missing cells (read as NaN), or a
+// LineError naming the line and the column of the first cell that is
+// not a finite number (or checkMissing's error).
+func (t *table) numbers(cols []string, s *Settings) (map[string][]float64, []string, error) {
+	if err := checkMissing(t, s, cols); err != nil {
+		return nil, nil, err
+	}
 	data := make(map[string][]float64, len(cols))
+	var notes []string
 	for _, name := range cols {
 		cells := t.cells[name]
 		out := make([]float64, len(cells))
+		allowed := slices.Contains(s.Missing, name)
+		var miss []int // rows of missing cells
 		for i, cell := range cells {
+			if allowed && isMissingCell(cell) {
+				out[i] = math.NaN()
+				miss = append(miss, i)
+				continue
+			}
 			v, err := strconv.ParseFloat(cell, 64)
 			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-				msg := fmt.Sprintf("%s is not a finite number", clip(cell))
-				switch {
-				case cell == "":
-					msg = fmt.Sprintf("the cell is empty: every sample is needed (fill it in the file, or delete the row and let %s fill it by the time column)", s.label("Gaps"))
-				case strings.Count(cell, ",") == 1 && !strings.ContainsAny(cell, ". "):
-					msg += " (a decimal comma? write a decimal point)"
-				}
-				return nil, &LineError{File: t.file, Line: t.lines[i], Column: name, Problem: msg, Kind: ErrSample}
+				return nil, nil, &LineError{File: t.file, Line: t.lines[i], Column: name, Problem: cellProblem(cell, s), Kind: ErrSample}
 			}
 			out[i] = v
 		}
 		data[name] = out
+		if len(miss) > 0 {
+			notes = append(notes, t.missingNote(name, miss))
+		}
 	}
-	return data, nil
+	return data, notes, nil
+}
+
+// cellProblem says why a cell is not a sample, and what to do.
+func cellProblem(cell string, s *Settings) string {
+	fix := fmt.Sprintf("every sample is needed (fill it in the file, or delete the row and let %s fill it by the time column", s.label("Gaps"))
+	if w, ok := s.Names["Missing"]; !ok || w != "" {
+		fix += fmt.Sprintf("; an output's gaps can be read as missing with %s", s.label("Missing"))
+	}
+	fix += ")"
+	switch {
+	case cell == "":
+		return "the cell is empty: " + fix
+	case isMissingCell(cell):
+		return fmt.Sprintf("the cell says %s, a missing sample: %s", clip(cell), fix)
+	case strings.Count(cell, ",") == 1 && !strings.ContainsAny(cell, ". "):
+		return fmt.Sprintf("%s is not a finite number (a decimal comma? write a decimal point)", clip(cell))
+	}
+	return fmt.Sprintf("%s is not a finite number", clip(cell))
+}
+
+// missingNote says where the column name has missing cells (rows miss,
+// ascending): their number and the runs of lines, at most five.
+func (t *table) missingNote(name string, miss []int) string {
+	var runs []string
+	nruns := 0
+	for i := 0; i < len(miss); {
+		j := i
+		for j+1 < len(miss) && miss[j+1] == miss[j]+1 {
+			j++
+		}
+		nruns++
+		switch {
+		case nruns > 5:
+		case i == j:
+			runs = append(runs, fmt.Sprintf("line %d", t.lines[miss[i]]))
+		default:
+			runs = append(runs, fmt.Sprintf("lines %d to %d", t.lines[miss[i]], t.lines[miss[j]]))
+		}
+		i = j + 1
+	}
+	where := strings.Join(runs, ", ")
+	if nruns > 5 {
+		where += fmt.Sprintf(" and %d more", nruns-5)
+	}
+	return fmt.Sprintf("column %s: %d missing %s read as NaN (%d %s): %s", clip(name), len(miss), plural(len(miss), "cell", "cells"), nruns, plural(nruns, "run", "runs"), where)
 }

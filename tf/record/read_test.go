@@ -3,6 +3,7 @@ package record
 import (
 	"bytes"
 	"errors"
+	"math"
 	"strings"
 	"testing"
 
@@ -24,8 +25,8 @@ func TestReadLinesBadInput(t *testing.T) {
 		{"a,b\n1,2\n3,4,5\n", ErrFormat, "f.csv:3: 3 fields, but the header names 2 columns (a, b)"},
 		{"a,a\n1,2\n", ErrName, `f.csv:1: column "a": column names must be unique`},
 		{"a,b,\n1,2,3\n", ErrName, `f.csv:1: column 3 of 3 in the header has no name (a separator too many?): every column needs a name`},
-		{"a,b\n1,NaN\n", ErrSample, `f.csv:2: column "b": "NaN" is not a finite number`},
-		{"a,b\n1,\n", ErrSample, `f.csv:2: column "b": the cell is empty: every sample is needed (fill it in the file, or delete the row and let Settings.Gaps fill it by the time column)`},
+		{"a,b\n1,NaN\n", ErrSample, `f.csv:2: column "b": the cell says "NaN", a missing sample: every sample is needed (fill it in the file, or delete the row and let Settings.Gaps fill it by the time column; an output's gaps can be read as missing with Settings.Missing)`},
+		{"a,b\n1,\n", ErrSample, `f.csv:2: column "b": the cell is empty: every sample is needed (fill it in the file, or delete the row and let Settings.Gaps fill it by the time column; an output's gaps can be read as missing with Settings.Missing)`},
 		{"a;b\n1;2\n", ErrFormat, `f.csv:1: the header has a single column "a;b"; the fields look separated by ';': read the file with Settings.Sep = ';'`},
 		{"a,b\n1\"2,3\n", ErrFormat, `f.csv:2: a stray double quote (byte 2 of line 2); quote a whole field as "..." and double any quote inside it`},
 		{"a,b\n\"1,2\n3,4\n", ErrFormat, `f.csv:2: a quoted field opened on this line is not closed (the reader ran on to line 3)`},
@@ -137,6 +138,7 @@ func FuzzRead(f *testing.F) {
 		"# c\na,a\n1,2\n",
 		"t,y\n1e308,1\n-1e308,2\n",
 		"minute,y\n0,1\n1e-300,2\n2e-300,3\n1,4\n",
+		"minute,valve,temp\n0,50,\n1,51,NA\n3,52,15.3\n4,,n/a\n",
 	} {
 		f.Add([]byte(s))
 	}
@@ -150,6 +152,20 @@ func FuzzRead(f *testing.F) {
 				}
 				checkRecord(t, r, rec)
 			}
+		}
+		// With the missing cells of a column "temp" read as NaN: the
+		// file may lack it (a *SeriesError of kind ErrName).
+		rec, err := Read(bytes.NewReader(raw), &Settings{File: "f.csv", Missing: []string{"temp"}, Gaps: Remedy{Kind: "linear", Max: 5}})
+		var sr *SeriesError
+		switch {
+		case errors.As(err, &sr):
+			if !errors.Is(err, ErrName) || sr.Series != "temp" {
+				t.Fatalf("Missing: %v", err)
+			}
+		case err != nil:
+			checkError(t, Remedy{Kind: "linear", Max: 5}, err)
+		default:
+			checkRecord(t, Remedy{Kind: "linear", Max: 5}, rec)
 		}
 	})
 }
@@ -225,5 +241,55 @@ func checkRecord(t *testing.T, r Remedy, rec *Record) {
 	}
 	if rec.TimeColumn != "" && rec.Rows() > 1 && !(rec.Median > 0 && rec.Interval.Value > 0) {
 		t.Fatalf("median step %v, interval %v with %d rows", rec.Median, rec.Interval, rec.Rows())
+	}
+}
+
+// TestMissingCells checks Settings.Missing: empty, NaN, NA and N/A
+// cells of a named column read as NaN with a note of their lines, the
+// other columns' empty cells still refused with their line, a name that
+// is not a column read refused, and the remedies of the time column
+// widening a gap rather than inventing readings (counting by hand, no
+// outside source).
+func TestMissingCells(t *testing.T) {
+	src := "minute,valve,temp\n0,40,20.1\n1,41,\n2,42,NaN\n3,43,na\n4,44,20.5\n6,45,N/A\n7,46,20.7\n"
+	rem, _ := ParseRemedy("linear:2")
+	rec, err := Read(strings.NewReader(src), &Settings{File: "f.csv", Series: []string{"temp", "valve"}, Missing: []string{"temp"}, Gaps: rem})
+	if err != nil {
+		t.Fatal(err)
+	}
+	y := rec.Series["temp"]
+	want := []float64{20.1, math.NaN(), math.NaN(), math.NaN(), 20.5, math.NaN(), math.NaN(), 20.7}
+	if len(y) != len(want) {
+		t.Fatalf("temp %v, want %v", y, want)
+	}
+	for i := range y {
+		if math.IsNaN(y[i]) != math.IsNaN(want[i]) || !math.IsNaN(y[i]) && y[i] != want[i] {
+			t.Fatalf("temp %v, want %v", y, want)
+		}
+	}
+	if v := rec.Series["valve"]; v[5] != 44.5 {
+		t.Errorf("valve filled at the missing row: %v, want 44.5", v[5])
+	}
+	note := strings.Join(rec.Notes, "\n")
+	if !strings.Contains(note, `column "temp": 4 missing cells read as NaN (2 runs): lines 3 to 5, line 7`) {
+		t.Errorf("notes lack the missing cells:\n%s", note)
+	}
+	_, err = Read(strings.NewReader(src), &Settings{File: "f.csv", Series: []string{"temp", "valve"}, Missing: []string{"temp"}})
+	var ge *GapError
+	if !errors.As(err, &ge) {
+		t.Errorf("a missing row is still a gap of the time column: %v", err)
+	}
+	bad := "minute,valve,temp\n0,40,20.1\n1,,20.2\n"
+	var le *LineError
+	if _, err := Read(strings.NewReader(bad), &Settings{File: "f.csv", Series: []string{"temp", "valve"}, Missing: []string{"temp"}}); !errors.As(err, &le) || le.Line != 3 || le.Column != "valve" || !errors.Is(err, ErrSample) {
+		t.Errorf("empty input cell: %v", err)
+	}
+	var sr *SeriesError
+	if _, err := Read(strings.NewReader(bad), &Settings{Series: []string{"temp"}, Missing: []string{"tmp"}}); !errors.As(err, &sr) || sr.Series != "tmp" || !errors.Is(err, ErrName) {
+		t.Errorf("unknown column in Missing: %v", err)
+	}
+	var st *SettingError
+	if _, err := Read(strings.NewReader(bad), &Settings{Series: []string{"temp"}, Missing: []string{"valve"}}); !errors.As(err, &st) || st.Setting != "Settings.Missing" {
+		t.Errorf("a column not read in Missing: %v", err)
 	}
 }
