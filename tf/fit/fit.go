@@ -257,6 +257,12 @@ func Model(ctx context.Context, m tf.Model, data map[string][]float64, s *Settin
 	if err != nil {
 		return nil, err
 	}
+	if set.Method == ExactML {
+		if err := eventsInGaps(m, w.obs, set.Start); err != nil {
+			w.release()
+			return nil, err
+		}
+	}
 	var e *Estimate
 	if set.Method == ExactML {
 		e, err = fitML(ctx, w, w.obs, set)
