@@ -166,8 +166,8 @@
 // (Conditioning.LikelihoodStart), so that a start-up transient of the
 // pre-sample convention stays out of it as it stays out of the sum of
 // squares (left in, the noise AR part absorbs it: on the greenhouse
-// record a phi of 0.79 became 0.97). Settings.Settle applies to least
-// squares only.
+// record a phi of 0.79 became 0.97). Settings.Settle applies to it
+// too: the refit is by exact likelihood from the moved start.
 //
 // Least squares stays the default: on a long record the two agree to a
 // small fraction of a standard error (the conditioning touches only the

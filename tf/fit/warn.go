@@ -33,8 +33,10 @@ const (
 	// NotConverged: the optimiser stopped without meeting a convergence
 	// test (iteration limit, stall, or cancellation).
 	NotConverged
-	// SingularInformation: J'J is singular at the estimate, so standard
-	// errors do not exist (an unidentifiable parameter).
+	// SingularInformation: the information matrix (J'J for least
+	// squares, the observed information for ExactML) is singular at the
+	// estimate, so standard errors do not exist (an unidentifiable
+	// parameter).
 	SingularInformation
 	// StartupTransient: the start of the fit shows a transient that the
 	// pre-sample convention does not explain (an input that was not
@@ -210,7 +212,11 @@ func (ws *warningList) precision(e *Estimate, singular bool) {
 		add(NotConverged, nil, "the fit stopped before converging: %s", e.Reason)
 	}
 	if singular {
-		add(SingularInformation, nil, "J'J is singular at the estimate; standard errors are not available")
+		what := "J'J (the least-squares information)"
+		if e.Method == ExactML {
+			what = "the observed information (the Hessian of the exact log-likelihood)"
+		}
+		add(SingularInformation, nil, "%s is singular at the estimate, so standard errors are not available: a coefficient the data do not determine", what)
 	}
 	var badSE []string
 	for _, p := range e.Params {
