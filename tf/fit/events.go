@@ -50,26 +50,125 @@ func hasEvents(m tf.Model) bool {
 
 // eventFutures returns futures with the next h samples of every event
 // input of e's model added (their future is known: a step stays 1, a
-// pulse 0 after its sample), unless the caller gave them; futures itself
-// when the model has none. n is the length of the record forecast from.
+// pulse 0 after its sample; an event after the horizon is still 0),
+// unless the caller gave them; futures itself when the model has none.
+// n is the length of the record forecast from.
 func eventFutures(e *Estimate, futures map[string][]float64, n, h int) (map[string][]float64, error) {
 	if !hasEvents(e.Model) {
 		return futures, nil
 	}
-	ev, err := e.Model.EventData(n+h, e.Conditioning.Start, tf.Interval{})
-	if err != nil {
-		return nil, err
-	}
-	out := make(map[string][]float64, len(futures)+len(ev))
+	out := make(map[string][]float64, len(futures)+len(e.Model.Inputs))
 	for k, v := range futures {
 		out[k] = v
 	}
-	for k, v := range ev {
-		if _, ok := out[k]; !ok {
-			out[k] = v[n:]
+	for _, in := range e.Model.Inputs {
+		if _, ok := out[in.Series]; ok || in.Event == nil {
+			continue
 		}
+		x, err := in.Event.Indicator(n+h, e.Conditioning.Start, e.Model.Interval)
+		if err != nil {
+			return nil, err
+		}
+		out[in.Series] = x[n:]
 	}
 	return out, nil
+}
+
+// eventsAhead prepares a forecast from data of n samples, shorter than
+// the fit's record, for the event inputs whose effect (the event's
+// sample plus the dead time) is not yet in data: such an event cannot
+// be estimated from data, but its size is the estimate's and its
+// indicator is known, so it is passed on as a known series (its
+// indicator over data added to a copy of data, and the event taken off
+// a shallow copy of e whose model is a clone, its coefficients held at
+// their estimates). It returns e and data
+// themselves when every event's effect lies in data.
+func eventsAhead(e *Estimate, data map[string][]float64, n int) (*Estimate, map[string][]float64, error) {
+	var ahead []int
+	for i, in := range e.Model.Inputs {
+		if in.Event == nil {
+			continue
+		}
+		T, err := in.Event.Sample(e.Conditioning.Start, e.Model.Interval)
+		if err != nil {
+			return nil, nil, err
+		}
+		if T+in.Delay >= n {
+			ahead = append(ahead, i)
+		}
+	}
+	if len(ahead) == 0 {
+		return e, data, nil
+	}
+	e2 := *e
+	e2.Model = e.Model.Clone()
+	d2 := make(map[string][]float64, len(data)+len(ahead))
+	for k, v := range data {
+		d2[k] = v
+	}
+	for _, i := range ahead {
+		in := &e2.Model.Inputs[i]
+		if _, ok := data[in.Series]; ok {
+			return nil, nil, &errs.SeriesError{Series: in.Series, Kind: errs.ErrName,
+				Detail: "the data hold a column named like the event input " + strconv.Quote(in.Series) + "; the model builds that indicator itself: rename or drop the column"}
+		}
+		x, err := in.Event.Indicator(n, e.Conditioning.Start, e.Model.Interval)
+		if err != nil {
+			return nil, nil, err
+		}
+		d2[in.Series] = x
+		in.Event = nil
+		holdNames(&e2.Model, append(polyNames(in.Num), polyNames(in.Den)...))
+	}
+	return &e2, d2, nil
+}
+
+// holdNames holds (Free false, value kept) every coefficient of m named
+// in names, wherever it appears: a forecast needs the estimates only,
+// and an event input that does not move over the data is refused as an
+// input to estimate.
+func holdNames(m *tf.Model, names []string) {
+	hold := map[string]bool{}
+	for _, n := range names {
+		hold[n] = true
+	}
+	fix := func(c *tf.Coef) {
+		if hold[c.Name] {
+			c.Free = false
+		}
+	}
+	if m.Const != nil {
+		fix(m.Const)
+	}
+	m.Diff.Each(fix)
+	for _, in := range m.Inputs {
+		in.Num.Each(fix)
+		in.Den.Each(fix)
+		in.Diff.Each(fix)
+	}
+	if m.Noise != nil {
+		m.Noise.MA.Each(fix)
+		m.Noise.AR.Each(fix)
+	}
+}
+
+// dropEventPlanWarnings removes the PlanOutsideRecord warnings of event
+// inputs from fc: an event's future is the model's, not a plan, and a
+// step still ahead of the data's end leaves the values seen in data.
+func dropEventPlanWarnings(m tf.Model, fc *Forecast) {
+	events := map[string]bool{}
+	for _, in := range m.Inputs {
+		if in.Event != nil {
+			events[in.Series] = true
+		}
+	}
+	kept := fc.Warnings[:0]
+	for _, w := range fc.Warnings {
+		if w.Kind != PlanOutsideRecord || !events[w.Input] {
+			kept = append(kept, w)
+		}
+	}
+	fc.Warnings = kept
 }
 
 // eventsAfterFirst refuses an event input whose effect (its indicator

@@ -99,3 +99,61 @@ func TestDifferencedEventInsideOutputGap(t *testing.T) {
 		t.Errorf("a level shift into a gap: %v", err)
 	}
 }
+
+// TestEventForecastShortData: an event's future is known from the model
+// (its indicator over the horizon), also when the data forecast from
+// are shorter than the fit's record and the event lies in the horizon or
+// beyond it. The record of TestEventForecast (300 samples, a step of 3
+// at 150, AR(1) 0.5 noise); forecast from its first 140 samples, 200
+// ahead: far ahead the forecast of y = c + k step(150) + 1/(1 - p1 B) a
+// is c + k, the AR(1) part decaying as p1^h (Box, Jenkins, Reinsel &
+// Ljung 2015, the forecasting chapter: an AR(1)'s forecast tends to its
+// mean; 0.5^190 is below 1e-50, so the tolerance 1e-9 is rounding
+// only), and 9 and 10 steps ahead (samples 149 and 150) the step shows
+// as k up to the AR part's decay 0.5^9 times the last noise value (below
+// 0.05 here). From the first 100 samples 30 ahead the step (at 150)
+// lies beyond the horizon and the forecast tends to c. Both methods.
+// Before, Forecast refused: "the event falls at sample 150, after the
+// record's last sample".
+func TestEventForecastShortData(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	y := make([]float64, 300)
+	noise := 0.0
+	for i := range y {
+		noise = 0.5*noise + rng.NormFloat64()
+		y[i] = 2 + noise
+		if i >= 150 {
+			y[i] += 3
+		}
+	}
+	m := parse.MustModel("y = c + k step(150) + 1 / (1 - p1 B) a")
+	for _, meth := range []fit.Method{fit.LeastSquares, fit.ExactML} {
+		est, err := fit.Model(context.Background(), m, map[string][]float64{"y": y}, &fit.Settings{Method: meth})
+		if err != nil {
+			t.Fatal(err)
+		}
+		c, _ := est.Param("c")
+		k, _ := est.Param("k")
+		fc, err := est.Forecast(map[string][]float64{"y": y[:140]}, 200, nil)
+		if err != nil {
+			t.Fatalf("%v: %v", meth, err)
+		}
+		if got := fc.Mean[199]; math.Abs(got-(c.Value+k.Value)) > 1e-9 {
+			t.Errorf("%v: forecast 200 steps ahead of sample 139: %.12g, want c + k = %.12g", meth, got, c.Value+k.Value)
+		}
+		if jump := fc.Mean[10] - fc.Mean[9]; math.Abs(jump-k.Value) > 0.05 {
+			t.Errorf("%v: the forecast moves by %.4f at the step, want k = %.4f", meth, jump, k.Value)
+		}
+		if len(fc.Warnings) != 0 {
+			t.Errorf("%v: warnings %v", meth, fc.Warnings)
+		}
+		t.Logf("%v: c %.4f k %.4f; from sample 139: mean at 149 %.4f, at 150 %.4f, at 339 %.6f", meth, c.Value, k.Value, fc.Mean[9], fc.Mean[10], fc.Mean[199])
+		fc, err = est.Forecast(map[string][]float64{"y": y[:100]}, 30, nil)
+		if err != nil {
+			t.Fatalf("%v: %v", meth, err)
+		}
+		if got := fc.Mean[29]; math.Abs(got-c.Value) > 1e-6 {
+			t.Errorf("%v: forecast 30 steps ahead of sample 99: %.9g, want c = %.9g (the step at 150 is beyond the horizon)", meth, got, c.Value)
+		}
+	}
+}
