@@ -189,7 +189,12 @@
 // unless Settings.InputGaps gives a rule (HoldFill, LinearFill) and a
 // longest gap (MaxLen, 3 samples by default); Estimate.Filled and the
 // report list every gap filled, and Check and Forecast fill their data
-// by the same rule.
+// by the same rule. A filled value is wrong by up to what the input
+// moved during the gap: a slow process does not make a fill safe when
+// the input stepped inside the gap (routine in step and PRBS tests), so
+// Model warns (FilledGapMove) where the input moved across a filled gap
+// by more than its typical steps, or where the residuals on which the
+// filled values act exceed 5 standard deviations.
 //
 // References: Gardner, G., Harvey, A. C. & Phillips, G. D. A. (1980),
 // Applied Statistics 29(3), 311-322; Harvey, A. C. (1989), Forecasting,

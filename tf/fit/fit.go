@@ -77,7 +77,10 @@ type Settings struct {
 	Method Method
 	// InputGaps fills missing (NaN) input samples by a stated rule; the
 	// zero value refuses them with their positions. The estimate
-	// reports every gap filled (Estimate.Filled).
+	// reports every gap filled (Estimate.Filled), and warns
+	// (FilledGapMove) where the input moved across a filled gap or the
+	// residuals after it are extreme: a fill is wrong by up to what the
+	// input moved during the gap, whatever the process's speed.
 	InputGaps GapFill
 }
 
@@ -285,6 +288,7 @@ func Model(ctx context.Context, m tf.Model, data map[string][]float64, s *Settin
 		e = settleRefit(ctx, e, data, set, w.n, w.ar.Degree())
 	}
 	e.Filled = filled
+	e.Warnings = append(e.Warnings, fillWarnings(e, data)...)
 	return finishEstimate(ctx, e)
 }
 
