@@ -503,16 +503,37 @@ func (m Model) EventData(n int, start time.Time, iv Interval) (map[string][]floa
 // outliers found in its residuals by arma.Outliers added as event
 // inputs, so that a refit estimates their sizes jointly with the model
 // (the second stage of Chen & Liu 1993), each gain free and starting at
-// the size found, named by kind and sample:
+// the size found, named by kind and sample.
 //
-//	additive          ao120 pulse(120)
-//	level shift       ls120 step(120)
-//	temporary change  tc120 / (1 - 0.7 B) pulse(120)   the decay held at decay
+// An outlier is a disturbance of the output y itself (arma.OutlierKind),
+// while the model's inputs enter the differenced equation D(B) y_t =
+// ...; so each event term carries the output differencing D(B) (Box &
+// Tiao 1975: the intervention on the series as observed, differenced
+// with it). For a model without differencing, and for one with D(B) =
+// (1 - B):
 //
-// An innovational outlier is a shock of the noise model, not an input
-// term: it is left out and returned in skipped. A *ModelError reports a
-// name or an event the model already has, and a decay of a temporary
-// change outside (0, 1).
+//	kind              term                      no D(B)                        D(B) = (1 - B)
+//	additive          w D(B) pulse(T)           ao120 pulse(120)               ao120 (1 - B) pulse(120)
+//	level shift       w D(B) step(T)            ls120 step(120)                ls120 pulse(120)
+//	temporary change  w D(B)/(1 - d B) pulse(T) tc120 / (1 - 0.7 B) pulse(120) tc120 (1 - B) / (1 - 0.7 B) pulse(120)
+//
+// the decay d of a temporary change held at decay. For a level shift
+// one factor (1 - B) of D(B), when it has one, cancels the step's sum
+// and leaves a pulse ((1 - B) step(T) = pulse(T)); other factors stay as
+// written, so that with D(B) = (1 - B^12) a level shift is
+// ls120 (1 - B^12) step(120).
+//
+// An innovational outlier is a shock of the noise model, w theta(B) /
+// phi(B) at T in the differenced equation, the same as a large a_T: it
+// is not an input term and is left out, returned in skipped (its effect
+// is the residual at T of the refit).
+//
+// A *SettingError reports an outlier with a negative Index (or one above
+// MaxEventIndex), a Kind that is not one of the four, or a Size that is
+// not finite, naming it as outs[i]; a *ModelError a name or an event the
+// model already has, and a decay of a temporary change outside (0, 1).
+// An index after the record's end is refused when the model is fitted
+// (EventData).
 func (m Model) WithOutliers(outs []arma.Outlier, decay float64) (_ Model, skipped []arma.Outlier, err error) {
 	out := m.Clone()
 	used := map[string]bool{}
@@ -522,25 +543,21 @@ func (m Model) WithOutliers(outs []arma.Outlier, decay float64) (_ Model, skippe
 	for _, in := range m.Inputs {
 		used[in.Series] = true
 	}
-	for _, o := range outs {
-		var in Input
-		switch o.Kind {
-		case arma.Additive, arma.TemporaryChange:
-			in.Event = &Event{Kind: Pulse, Index: o.Index}
-		case arma.LevelShift:
-			in.Event = &Event{Kind: Step, Index: o.Index}
-		default:
+	for i, o := range outs {
+		if err := checkOutlier(i, o); err != nil {
+			return Model{}, nil, withOp("tf.Model.WithOutliers", err)
+		}
+		if o.Kind == arma.Innovational {
 			skipped = append(skipped, o)
 			continue
 		}
 		name := map[arma.OutlierKind]string{arma.Additive: "ao", arma.LevelShift: "ls", arma.TemporaryChange: "tc"}[o.Kind] + strconv.Itoa(o.Index)
-		in.Series = in.Event.String()
+		in := outlierInput(o, name, m.Diff)
 		if used[name] || used[in.Series] {
 			return Model{}, nil, withOp("tf.Model.WithOutliers", &ModelError{Part: "outlier " + name + " " + in.Series,
 				Problem: "the model already has this name or event; drop the outlier or rename the model's coefficient"})
 		}
 		used[name], used[in.Series] = true, true
-		in.Num = Poly{Factors: []Factor{{Exp: 1, Terms: []Term{{Coef: Coef{Name: name, Free: true, Value: o.Size}}}}}}
 		if o.Kind == arma.TemporaryChange {
 			if !(decay > 0 && decay < 1) {
 				return Model{}, nil, withOp("tf.Model.WithOutliers", &ModelError{Part: "outlier " + name,
@@ -551,4 +568,68 @@ func (m Model) WithOutliers(outs []arma.Outlier, decay float64) (_ Model, skippe
 		out.Inputs = append(out.Inputs, in)
 	}
 	return out, skipped, nil
+}
+
+// checkOutlier refuses an outlier WithOutliers cannot place: a sample
+// index outside 0..MaxEventIndex, an unknown kind, a size that is not
+// finite.
+func checkOutlier(i int, o arma.Outlier) error {
+	at := "outs[" + strconv.Itoa(i) + "]"
+	switch {
+	case o.Index < 0 || o.Index > MaxEventIndex:
+		return &SettingError{Setting: at + ".Index", Value: strconv.Itoa(o.Index),
+			Rule: "an outlier's sample index must lie in 0.." + strconv.Itoa(MaxEventIndex) + " (the index into the record, as arma.Outliers gives it)"}
+	case o.Kind < arma.Additive || o.Kind > arma.Innovational:
+		return &SettingError{Setting: at + ".Kind", Value: strconv.Itoa(int(o.Kind)),
+			Rule: "must be arma.Additive, arma.LevelShift, arma.TemporaryChange or arma.Innovational"}
+	case math.IsNaN(o.Size) || math.IsInf(o.Size, 0):
+		return &SettingError{Setting: at + ".Size", Value: strconv.FormatFloat(o.Size, 'g', -1, 64), Rule: "an outlier's size must be finite"}
+	}
+	return nil
+}
+
+// outlierInput returns the event input of an additive, level-shift or
+// temporary-change outlier o on the output of a model with output
+// differencing diff: gain name (free, starting at o.Size) times diff, on
+// pulse(T), or on step(T) for a level shift whose diff has no factor
+// (1 - B) to cancel the step's sum (WithOutliers). The denominator of a
+// temporary change is left to the caller.
+func outlierInput(o arma.Outlier, name string, diff Poly) Input {
+	d := diff.Clone()
+	for i := range d.Factors {
+		d.Factors[i].Pos = Pos{}
+		d.Factors[i].Terms = append([]Term(nil), d.Factors[i].Terms...)
+		for j := range d.Factors[i].Terms {
+			d.Factors[i].Terms[j].Coef.Pos = Pos{}
+		}
+	}
+	kind := Pulse
+	if o.Kind == arma.LevelShift {
+		kind = Step
+		for i, f := range d.Factors {
+			if isFirstDifference(f) {
+				kind = Pulse
+				if d.Factors[i].Exp--; d.Factors[i].Exp == 0 {
+					d.Factors = append(d.Factors[:i], d.Factors[i+1:]...)
+				}
+				break
+			}
+		}
+	}
+	in := Input{Event: &Event{Kind: kind, Index: o.Index}}
+	in.Series = in.Event.String()
+	in.Num = Poly{Factors: append([]Factor{{Exp: 1, Terms: []Term{{Coef: Coef{Name: name, Free: true, Value: o.Size}}}}}, d.Factors...)}
+	return in
+}
+
+// isFirstDifference reports whether the factor's base is (1 - B) written
+// with fixed numbers.
+func isFirstDifference(f Factor) bool {
+	for _, t := range f.Terms {
+		if t.Coef.Name != "" {
+			return false
+		}
+	}
+	c := Poly{Factors: []Factor{{Terms: f.Terms, Exp: 1}}}.Coeffs()
+	return len(c) == 2 && c[0] == 1 && c[1] == -1
 }

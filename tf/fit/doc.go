@@ -166,8 +166,8 @@
 // (Conditioning.LikelihoodStart), so that a start-up transient of the
 // pre-sample convention stays out of it as it stays out of the sum of
 // squares (left in, the noise AR part absorbs it: on the greenhouse
-// record a phi of 0.79 became 0.97). Settings.Settle applies to least
-// squares only.
+// record a phi of 0.79 became 0.97). Settings.Settle applies to it
+// too: the refit is by exact likelihood from the moved start.
 //
 // Least squares stays the default: on a long record the two agree to a
 // small fraction of a standard error (the conditioning touches only the
@@ -189,7 +189,12 @@
 // unless Settings.InputGaps gives a rule (HoldFill, LinearFill) and a
 // longest gap (MaxLen, 3 samples by default); Estimate.Filled and the
 // report list every gap filled, and Check and Forecast fill their data
-// by the same rule.
+// by the same rule. A filled value is wrong by up to what the input
+// moved during the gap: a slow process does not make a fill safe when
+// the input stepped inside the gap (routine in step and PRBS tests), so
+// Model warns (FilledGapMove) where the input moved across a filled gap
+// by more than its typical steps, or where the residuals on which the
+// filled values act exceed 5 standard deviations.
 //
 // References: Gardner, G., Harvey, A. C. & Phillips, G. D. A. (1980),
 // Applied Statistics 29(3), 311-322; Harvey, A. C. (1989), Forecasting,

@@ -48,16 +48,18 @@ type Settings struct {
 	// Settle, after a converged fit, moves the first residual index to
 	// NoiseStart + p + k, k the number of samples in which the slowest
 	// estimated input pole or noise MA zero decays to 1 % (ln 0.01 /
-	// ln |z|), capped at n/10, and refits from the estimates, so that
+	// ln |z|), capped at n/10, and refits by the same method, so that
 	// the start-up transient of the pre-sample assumption (an input that
 	// was not settled at its first value, as in closed-loop records) is
-	// left out of the sum of squares. Conditioning reports the index
-	// used.
+	// left out of the sum of squares, or of the exact likelihood
+	// (ExactML: Conditioning.LikelihoodStart). Conditioning reports the
+	// index used.
 	Settle bool
 	// Start is the time of the record's sample 0, used only to place
 	// events given as times (step(2026-03-01T08:00)); events given as
-	// sample indices need none. The zero time places a timed event
-	// against 0001-01-01, so a model with one needs Start.
+	// sample indices need none. A model with an event given as a time
+	// needs Start: with the zero time Model refuses it (a *ModelError
+	// naming the event).
 	Start time.Time
 	// IgnoreExtra accepts data holding series the model does not use.
 	// By default such series are an error (ExtraSeries), because they
@@ -66,14 +68,19 @@ type Settings struct {
 	// Method is the estimation method: LeastSquares (the zero value,
 	// conditional least squares) or ExactML (exact maximum likelihood,
 	// which also accepts missing output samples). The package doc's
-	// Methods section says why least squares stays the default. ExactML
-	// ignores First and Settle (its likelihood has no start-up
-	// transient to leave out: it starts the noise from its stationary
-	// distribution).
+	// Methods section says why least squares stays the default. First
+	// and Settle apply to both: ExactML starts the noise from its
+	// stationary distribution, but the inputs' pre-sample convention can
+	// still leave a start-up transient in the noise series, and its
+	// likelihood is taken from max(NoiseStart, First) on
+	// (Conditioning.LikelihoodStart).
 	Method Method
 	// InputGaps fills missing (NaN) input samples by a stated rule; the
 	// zero value refuses them with their positions. The estimate
-	// reports every gap filled (Estimate.Filled).
+	// reports every gap filled (Estimate.Filled), and warns
+	// (FilledGapMove) where the input moved across a filled gap or the
+	// residuals after it are extreme: a fill is wrong by up to what the
+	// input moved during the gap, whatever the process's speed.
 	InputGaps GapFill
 }
 
@@ -116,9 +123,11 @@ func (s Settings) validate() error {
 	return s.InputGaps.validate()
 }
 
-// Conditioning states the start-up convention of the conditional least
-// squares fit, with indices into the data (0 = oldest sample); the
-// package doc sets the convention out under Conditioning.
+// Conditioning states the start-up convention of a fit by either method,
+// with indices into the data (0 = oldest sample): where the least
+// squares residuals are summed from, and for ExactML where its
+// likelihood starts (LikelihoodStart); the package doc sets the
+// convention out under Conditioning.
 type Conditioning struct {
 	// OutputDiff is the degree of the output differencing D(B): w_t =
 	// D(B) y_t exists from this index on.
@@ -227,8 +236,9 @@ func (e *Estimate) Held() tf.Model { return e.Model.Held() }
 // positive and finite, as when J'J is singular).
 func (e *Estimate) Corr() [][]float64 { return est.Corr(e.Cov) }
 
-// Model estimates the free coefficients of m from data by conditional
-// least squares over all of them jointly. data maps series names to
+// Model estimates the free coefficients of m from data jointly, by
+// conditional least squares (the default) or exact maximum likelihood
+// (Settings.Method; the package doc, Methods). data maps series names to
 // samples (index 0 oldest), all of one length n, with an entry for
 // m.Output and for every input's Series; s may be nil for the defaults.
 // m and data are not modified, and Model may be called from many
@@ -257,6 +267,12 @@ func Model(ctx context.Context, m tf.Model, data map[string][]float64, s *Settin
 	if err != nil {
 		return nil, err
 	}
+	if set.Method == ExactML {
+		if err := eventsInGaps(m, w.obs, set.Start); err != nil {
+			w.release()
+			return nil, err
+		}
+	}
 	var e *Estimate
 	if set.Method == ExactML {
 		e, err = fitML(ctx, w, w.obs, set)
@@ -268,10 +284,11 @@ func Model(ctx context.Context, m tf.Model, data map[string][]float64, s *Settin
 	if err != nil {
 		return nil, err
 	}
-	if set.Settle && e.Converged && set.Method != ExactML {
+	if set.Settle && e.Converged {
 		e = settleRefit(ctx, e, data, set, w.n, w.ar.Degree())
 	}
 	e.Filled = filled
+	e.Warnings = append(e.Warnings, fillWarnings(e, data)...)
 	return finishEstimate(ctx, e)
 }
 
@@ -298,9 +315,10 @@ func ConditioningOf(m tf.Model, data map[string][]float64, s *Settings) (_ Condi
 }
 
 // settleRefit is Settings.Settle: it moves First past the start-up
-// transient of the estimated input poles and MA zeros and refits from
-// the estimates; it returns e when there is nothing to move or the
-// refit fails.
+// transient of the estimated input poles and MA zeros and refits by the
+// same method (from the estimates for least squares; the exact
+// likelihood from its own least-squares start); it returns e when there
+// is nothing to move or the refit fails.
 func settleRefit(ctx context.Context, e *Estimate, data map[string][]float64, set Settings, n, p int) *Estimate {
 	k := SettleSamples(e.Model)
 	first := min(e.Conditioning.NoiseStart+p+k, n/10)
@@ -314,7 +332,12 @@ func settleRefit(ctx context.Context, e *Estimate, data map[string][]float64, se
 	if err != nil {
 		return e
 	}
-	e2, err := w2.run(ctx, s2)
+	var e2 *Estimate
+	if set.Method == ExactML {
+		e2, err = fitML(ctx, w2, w2.obs, s2)
+	} else {
+		e2, err = w2.run(ctx, s2)
+	}
 	w2.release()
 	if err != nil {
 		return e

@@ -210,7 +210,10 @@ type Forecast struct {
 // future is given in s.Future are used as known; the others are
 // forecast from their own ARMA models and their forecast errors enter
 // the variance. The future of an event input (a step or a pulse at a
-// known time) is known from the model and needs no Future.
+// known time) is known from the model and needs no Future, also when
+// data are shorter than the fit's record and the event falls after
+// their end, in the horizon (its size is the estimate's) or beyond it
+// (its indicator is zero over the horizon).
 //
 // With psi_j the weights of theta(B)/(phi(B) D(B)) and, for an input
 // forecast from AR_i(B) z = MA_i(B) e, psi*_ij the weights of
@@ -262,6 +265,21 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	}
 	if set.Future, err = eventFutures(e, set.Future, len(data[e.Model.Output]), h); err != nil {
 		return nil, err
+	}
+	if hasEvents(e.Model) {
+		// Events still ahead of data's end go on as known series.
+		e2, d2, err := eventsAhead(e, data, len(data[e.Model.Output]))
+		if err != nil {
+			return nil, err
+		}
+		if e2 != e {
+			fc, err := e2.Forecast(d2, h, &set)
+			if err != nil {
+				return nil, err
+			}
+			dropEventPlanWarnings(e.Model, fc)
+			return fc, nil
+		}
 	}
 	if e.Method == ExactML {
 		return e.forecastML(data, h, set)

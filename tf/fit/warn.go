@@ -33,8 +33,10 @@ const (
 	// NotConverged: the optimiser stopped without meeting a convergence
 	// test (iteration limit, stall, or cancellation).
 	NotConverged
-	// SingularInformation: J'J is singular at the estimate, so standard
-	// errors do not exist (an unidentifiable parameter).
+	// SingularInformation: the information matrix (J'J for least
+	// squares, the observed information for ExactML) is singular at the
+	// estimate, so standard errors do not exist (an unidentifiable
+	// parameter).
 	SingularInformation
 	// StartupTransient: the start of the fit shows a transient that the
 	// pre-sample convention does not explain (an input that was not
@@ -88,6 +90,30 @@ const (
 	// directions: a bad reading, which conditional least squares spreads
 	// over the estimates.
 	OutputSpike
+	// FilledGapMove: an input gap filled by Settings.InputGaps where the
+	// fill is likely wrong because the input moved during the gap (a
+	// step test's move, a set-point change): the filled values then
+	// differ from the truth by up to the move, whatever the process's
+	// speed, and the output's response to the wrong values biases the
+	// estimates. Either of two rules fires it, each stated with its
+	// threshold:
+	//
+	// The input moved across the gap: |x after - x before| exceeds
+	// fillMoveSteps = 3 times what L + 1 typical steps make, (L + 1)
+	// times the median |x_t - x_(t-1)| over the observed samples, L the
+	// gap's length (any move, when the input usually holds its value,
+	// as a staircase does); a smooth input that drifts at its usual rate
+	// across the gap does not fire it.
+	//
+	// The output shows it: a residual beyond fillResidSDs = 5 standard
+	// deviations (sqrt(Sigma2)) where the filled values act on the
+	// output, from the gap's first sample plus the input's dead time to
+	// its last plus the dead time and the numerator's and the input
+	// differencing's degrees. For Gaussian residuals one sample exceeds
+	// 5 SD with probability 5.7e-7 (scipy.stats.norm.sf(5) * 2), so a
+	// gap of up to 20 such samples fires falsely with probability below
+	// 1.2e-5.
+	FilledGapMove
 )
 
 // Serious reports whether a warning of this kind means the estimate must
@@ -161,6 +187,8 @@ func (k WarningKind) String() string {
 		return "stuck output"
 	case OutputSpike:
 		return "spike in the output"
+	case FilledGapMove:
+		return "input moved across a filled gap"
 	case BadStandardError:
 		return "standard error not available"
 	}
@@ -210,7 +238,11 @@ func (ws *warningList) precision(e *Estimate, singular bool) {
 		add(NotConverged, nil, "the fit stopped before converging: %s", e.Reason)
 	}
 	if singular {
-		add(SingularInformation, nil, "J'J is singular at the estimate; standard errors are not available")
+		what := "J'J (the least-squares information)"
+		if e.Method == ExactML {
+			what = "the observed information (the Hessian of the exact log-likelihood)"
+		}
+		add(SingularInformation, nil, "%s is singular at the estimate, so standard errors are not available: a coefficient the data do not determine", what)
 	}
 	var badSE []string
 	for _, p := range e.Params {
@@ -457,4 +489,84 @@ func circleText(m float64) string {
 		return "outside the unit circle"
 	}
 	return "on or near the unit circle (|z| >= 0.999)"
+}
+
+// Thresholds of FilledGapMove (see its doc).
+const (
+	fillMoveSteps = 3
+	fillResidSDs  = 5
+)
+
+// fillWarnings returns a FilledGapMove warning for every gap of
+// e.Filled where the input moved across the gap or the residuals where
+// the filled values act on the output are extreme; data are the
+// caller's series, with the gaps as NaN.
+func fillWarnings(e *Estimate, data map[string][]float64) []Warning {
+	var ws []Warning
+	sigma := math.Sqrt(e.Sigma2)
+	for _, f := range e.Filled {
+		x := data[f.Series]
+		s, L := f.Index, f.Len
+		if s < 1 || s+L > len(x) {
+			continue
+		}
+		var why []string
+		if s+L < len(x) {
+			jump, step := math.Abs(x[s+L]-x[s-1]), typicalStep(x)
+			if jump > fillMoveSteps*float64(L+1)*step {
+				why = append(why, fmt.Sprintf("the input moved across it from %s to %s (its typical step %s)",
+					formatSig(x[s-1], 5), formatSig(x[s+L], 5), formatSig(step, 3)))
+			}
+		}
+		if at, z := fillResidual(e, f, sigma); at >= 0 {
+			why = append(why, fmt.Sprintf("the residual at %d is %.1f standard deviations", at, z))
+		}
+		if len(why) == 0 {
+			continue
+		}
+		ws = append(ws, Warning{Kind: FilledGapMove, Message: fmt.Sprintf("input %q: the gap at %d..%d (%d samples) was filled (%s), but %s: "+
+			"the filled values are likely far from the truth (the fill error comes from the input moving during the gap, not from the process's speed) and bias the estimates; "+
+			"cut the record at the gap, or fit the stretches before and after it", f.Series, s, s+L-1, L, f.Rule, strings.Join(why, ", and "))})
+	}
+	return ws
+}
+
+// typicalStep returns the median of |x_t - x_(t-1)| over consecutive
+// observed samples.
+func typicalStep(x []float64) float64 {
+	var d []float64
+	for t := 1; t < len(x); t++ {
+		if v := math.Abs(x[t] - x[t-1]); !math.IsNaN(v) {
+			d = append(d, v)
+		}
+	}
+	if len(d) == 0 {
+		return 0
+	}
+	sort.Float64s(d)
+	return d[len(d)/2]
+}
+
+// fillResidual returns the sample and size, in standard deviations
+// sigma, of the largest residual beyond fillResidSDs where the gap f's
+// filled values act on the output through each input term on its
+// series, or at = -1 when there is none.
+func fillResidual(e *Estimate, f InputFill, sigma float64) (at int, z float64) {
+	at = -1
+	if !(sigma > 0) {
+		return at, 0
+	}
+	for _, in := range e.Model.Inputs {
+		if in.Series != f.Series {
+			continue
+		}
+		lo := f.Index + in.Delay
+		hi := min(f.Index+f.Len-1+in.Delay+in.Num.Degree()+in.Diff.Degree(), len(e.Resid)-1)
+		for t := lo; t <= hi; t++ {
+			if v := math.Abs(e.Resid[t]) / sigma; v > fillResidSDs && v > z {
+				at, z = t, v
+			}
+		}
+	}
+	return at, z
 }
