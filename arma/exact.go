@@ -2,6 +2,7 @@ package arma
 
 import (
 	"context"
+	"errors"
 	"math"
 	"strconv"
 
@@ -128,7 +129,10 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
 		}
 	}
-	x, hess := p.polish(lres.X, lres.Reason.Converged())
+	x, hess, err := p.polish(ctx, lres.X, lres.Reason.Converged())
+	if err != nil {
+		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
+	}
 	return p.report(ctx, y, o, x0, x, hess, lres)
 }
 
@@ -410,32 +414,37 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 // hessian returns minus the log-likelihood f0 at x and its
 // central-difference gradient and Hessian there (kalman.Curvature with
 // steps h_k = hessStep max(|x_k|, 1), every point of the stencil
-// allowed a non-invertible MA part). ok is false when a point of the
-// stencil cannot be evaluated.
-func (p *mlProblem) hessian(x []float64) (f0 float64, g []float64, H *mat.SymDense, ok bool) {
+// allowed a non-invertible MA part). The error is ctx's when it is done
+// during the stencil, kalman.ErrNotFinite when a point of the stencil
+// cannot be evaluated.
+func (p *mlProblem) hessian(ctx context.Context, x []float64) (f0 float64, g []float64, H *mat.SymDense, err error) {
 	p.anyMA = true
 	defer func() { p.anyMA = false }()
-	f0, g, h, ok := kalman.Curvature(p.negLogLik, x, kalman.Steps(x, hessStep))
-	if !ok {
-		return f0, g, nil, false
+	f0, g, h, err := kalman.Curvature(ctx, p.negLogLik, x, kalman.Steps(x, hessStep))
+	if err != nil {
+		return f0, g, nil, err
 	}
-	return f0, g, mat.NewSymDense(len(x), h), true
+	return f0, g, mat.NewSymDense(len(x), h), nil
 }
 
 // polish takes Newton steps with the numerical Hessian from the
 // search's point x (after convergence only), kept while minus the
 // log-likelihood falls; it returns the point and the Hessian at the last
 // point where it was computed (nil when it could not be), which gives
-// the standard errors.
-func (p *mlProblem) polish(x []float64, converged bool) ([]float64, *mat.SymDense) {
+// the standard errors. The error is ctx's when ctx is done during a
+// Hessian (the point is then the last one kept, the Hessian nil).
+func (p *mlProblem) polish(ctx context.Context, x []float64, converged bool) ([]float64, *mat.SymDense, error) {
 	x = append([]float64(nil), x...)
 	if len(x) == 0 {
-		return x, nil
+		return x, nil, nil
 	}
 	var hess *mat.SymDense
 	for it := 0; it < 3; it++ {
-		f0, g, H, ok := p.hessian(x)
-		if !ok {
+		f0, g, H, err := p.hessian(ctx, x)
+		if err != nil {
+			if !errors.Is(err, kalman.ErrNotFinite) {
+				return x, nil, err // ctx is done
+			}
 			break
 		}
 		hess = H
@@ -453,5 +462,5 @@ func (p *mlProblem) polish(x []float64, converged bool) ([]float64, *mat.SymDens
 			break
 		}
 	}
-	return x, hess
+	return x, hess, nil
 }

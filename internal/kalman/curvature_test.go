@@ -1,6 +1,8 @@
 package kalman
 
 import (
+	"context"
+	"errors"
 	"math"
 	"testing"
 )
@@ -24,9 +26,9 @@ func TestCurvatureQuadratic(t *testing.T) {
 		return s
 	}
 	x := []float64{0.3, -1.7, 12}
-	f0, g, H, ok := Curvature(f, x, Steps(x, CurvatureStep))
-	if !ok || f0 != f(x) {
-		t.Fatalf("ok %v, f0 %v", ok, f0)
+	f0, g, H, err := Curvature(context.Background(), f, x, Steps(x, CurvatureStep))
+	if err != nil || f0 != f(x) {
+		t.Fatalf("err %v, f0 %v", err, f0)
 	}
 	for i := 0; i < 3; i++ {
 		gi := b[i]
@@ -40,7 +42,45 @@ func TestCurvatureQuadratic(t *testing.T) {
 			t.Errorf("g[%d] = %v, want %v", i, g[i], gi)
 		}
 	}
-	if _, _, _, ok := Curvature(func([]float64) float64 { return math.Inf(1) }, x, Steps(x, CurvatureStep)); ok {
-		t.Error("ok for a function that is not finite")
+	if _, _, _, err := Curvature(context.Background(), func([]float64) float64 { return math.Inf(1) }, x, Steps(x, CurvatureStep)); !errors.Is(err, ErrNotFinite) {
+		t.Errorf("err %v for a function that is not finite, want ErrNotFinite", err)
+	}
+}
+
+// countCtx is a context whose Err is context.Canceled from its
+// (after+1)-th call on.
+type countCtx struct {
+	context.Context
+	calls, after int
+}
+
+func (c *countCtx) Err() error {
+	if c.calls++; c.calls > c.after {
+		return context.Canceled
+	}
+	return nil
+}
+
+// TestCurvatureCanceled: a context done in the middle of the stencil
+// stops Curvature before the next evaluation, with the context's error;
+// one done before the stencil lets only f(x) run. (A check of the
+// wiring: no outside value is involved.)
+func TestCurvatureCanceled(t *testing.T) {
+	x := []float64{0.3, -1.7, 12} // 13 evaluations: f(x), 6 on the axes, 6 off them
+	for _, after := range []int{0, 1, 5, 9, 11} {
+		evals := 0
+		f := func(v []float64) float64 { evals++; return v[0]*v[0] + v[1]*v[2] }
+		ctx := &countCtx{Context: context.Background(), after: after}
+		_, g, H, err := Curvature(ctx, f, x, Steps(x, CurvatureStep))
+		if !errors.Is(err, context.Canceled) || g != nil || H != nil {
+			t.Errorf("cancelled after %d checks: err %v, g %v, H %v; want context.Canceled and no result", after, err, g, H)
+		}
+		if evals != after+1 || ctx.calls != after+1 {
+			t.Errorf("cancelled after %d checks: %d evaluations, %d checks; want %d of each", after, evals, ctx.calls, after+1)
+		}
+	}
+	ctx := &countCtx{Context: context.Background(), after: 1 << 30}
+	if _, _, _, err := Curvature(ctx, func(v []float64) float64 { return v[0] * v[1] }, x, Steps(x, CurvatureStep)); err != nil || ctx.calls != 12 {
+		t.Errorf("not cancelled: err %v, %d checks (want nil, 12: one before each evaluation after the first)", err, ctx.calls)
 	}
 }

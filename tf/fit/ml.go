@@ -231,16 +231,21 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 // of curvatureSteps) from x, each
 // kept only when the likelihood rises (after a converged search only);
 // it returns the point and the Hessian at the last point where it was
-// computed (nil when it could not be), the observed information.
-func (p *mlProblem) polish(x []float64, converged bool, lres lm.Result) ([]float64, *mat.SymDense) {
+// computed (nil when it could not be), the observed information. The
+// error is ctx's when ctx is done during a Hessian (the point is then
+// the last one kept, the Hessian nil).
+func (p *mlProblem) polish(ctx context.Context, x []float64, converged bool, lres lm.Result) ([]float64, *mat.SymDense, error) {
 	x = append([]float64(nil), x...)
 	var hess *mat.SymDense
 	for it := 0; it < 3; it++ {
 		// The stencil may cross the MA boundary; the steps may not.
 		p.anyMA = true
-		f0, g, h, ok := kalman.Curvature(p.negLogLik, x, curvatureSteps(x, lres))
+		f0, g, h, err := kalman.Curvature(ctx, p.negLogLik, x, curvatureSteps(x, lres))
 		p.anyMA = false
-		if !ok {
+		if err != nil {
+			if !errors.Is(err, kalman.ErrNotFinite) {
+				return x, nil, err // ctx is done
+			}
 			break
 		}
 		hess = mat.NewSymDense(len(x), h)
@@ -256,7 +261,7 @@ func (p *mlProblem) polish(x []float64, converged bool, lres lm.Result) ([]float
 			break // the curvature moves by about the step: SEs unchanged to that order
 		}
 	}
-	return x, hess
+	return x, hess, nil
 }
 
 // curvatureSteps returns the steps of the Hessian's central
@@ -349,7 +354,10 @@ func fitML(ctx context.Context, w *work, y []float64, set Settings) (*Estimate, 
 	if err != nil {
 		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" is not finite at the start values")
 	}
-	x, hess := p.polish(lres.X, lres.Reason.Converged(), lres)
+	x, hess, err := p.polish(ctx, lres.X, lres.Reason.Converged(), lres)
+	if err != nil {
+		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
+	}
 	e, err := p.estimate(x, hess, lres, start, tried)
 	if err != nil {
 		return nil, err
