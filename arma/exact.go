@@ -59,14 +59,6 @@ type MissingValue struct {
 // start values of an exact-likelihood fit.
 const startMax = 20000
 
-// hessStep is the relative step of the central differences of the
-// log-likelihood (2^-13, about eps^(1/4)): h_k = hessStep max(|x_k|, 1)
-// in the working units (see Fit), where the parameters are of order one.
-// The truncation error is O(h^2), about 1.5e-8 relative; rounding adds
-// about eps |logL| / h^2, below 1e-7 of the curvature for series up to
-// 10^7 samples.
-const hessStep = kalman.CurvatureStep
-
 // mlProblem is the exact likelihood over the parameter vector of an
 // engine, in its working units. Used by one goroutine.
 type mlProblem struct {
@@ -129,7 +121,7 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
 		}
 	}
-	x, hess, err := p.polish(ctx, lres.X, lres.Reason.Converged())
+	x, hess, err := p.polish(ctx, lres)
 	if err != nil {
 		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
 	}
@@ -412,35 +404,32 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 }
 
 // hessian returns minus the log-likelihood f0 at x and its
-// central-difference gradient and Hessian there (kalman.Curvature with
-// steps h_k = hessStep max(|x_k|, 1), every point of the stencil
-// allowed a non-invertible MA part). The error is ctx's when it is done
+// central-difference gradient and Hessian there (kalman.Information
+// with the Gauss-Newton information of the search's end lres, every
+// point of the stencil allowed a non-invertible MA part). The error is ctx's when it is done
 // during the stencil, kalman.ErrNotFinite when a point of the stencil
 // cannot be evaluated.
-func (p *mlProblem) hessian(ctx context.Context, x []float64) (f0 float64, g []float64, H *mat.SymDense, err error) {
+func (p *mlProblem) hessian(ctx context.Context, x []float64, lres lm.Result) (f0 float64, g []float64, H *mat.SymDense, err error) {
 	p.anyMA = true
 	defer func() { p.anyMA = false }()
-	f0, g, h, err := kalman.Curvature(ctx, p.negLogLik, x, kalman.Steps(x, hessStep))
-	if err != nil {
-		return f0, g, nil, err
-	}
-	return f0, g, mat.NewSymDense(len(x), h), nil
+	return kalman.Information(ctx, p.negLogLik, x, lres.JTJInv, lres.SSQ, len(lres.Resid))
 }
 
 // polish takes Newton steps with the numerical Hessian from the
-// search's point x (after convergence only), kept while minus the
+// search's point lres.X (after convergence only), kept while minus the
 // log-likelihood falls; it returns the point and the Hessian at the last
 // point where it was computed (nil when it could not be), which gives
 // the standard errors. The error is ctx's when ctx is done during a
 // Hessian (the point is then the last one kept, the Hessian nil).
-func (p *mlProblem) polish(ctx context.Context, x []float64, converged bool) ([]float64, *mat.SymDense, error) {
-	x = append([]float64(nil), x...)
+func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
+	x := append([]float64(nil), lres.X...)
+	converged := lres.Reason.Converged()
 	if len(x) == 0 {
 		return x, nil, nil
 	}
 	var hess *mat.SymDense
 	for it := 0; it < 3; it++ {
-		f0, g, H, err := p.hessian(ctx, x)
+		f0, g, H, err := p.hessian(ctx, x, lres)
 		if err != nil {
 			if !errors.Is(err, kalman.ErrNotFinite) {
 				return x, nil, err // ctx is done

@@ -87,8 +87,10 @@ type FitSettings struct {
 	// series), searches by Levenberg-Marquardt on the scaled innovations
 	// (forward-difference Jacobian, step 2^-26 max(|x|, 1) in working
 	// units) and ends with Newton steps on the numerical Hessian of the
-	// log-likelihood (central differences, step 2^-13 max(|x|, 1)), whose
-	// inverse gives the standard errors (the observed information).
+	// log-likelihood (central differences along the axes that the
+	// search's Gauss-Newton information makes uncorrelated, a tenth of a
+	// standard error or less; see kalman.Information), whose inverse
+	// gives the standard errors (the observed information).
 	// Regressor columns must be complete under both methods; First
 	// applies to the least-squares start only, Tol and MaxIter to both
 	// searches. Result.Evals counts likelihood evaluations (filter

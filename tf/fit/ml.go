@@ -227,8 +227,9 @@ func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
 }
 
 // polish takes up to three Newton steps with the central-difference
-// Hessian of minus the log-likelihood (kalman.Curvature with the steps
-// of curvatureSteps) from x, each
+// Hessian of minus the log-likelihood (kalman.Information, differenced
+// along the axes the Gauss-Newton information of the search's end lres
+// makes uncorrelated) from x, each
 // kept only when the likelihood rises (after a converged search only);
 // it returns the point and the Hessian at the last point where it was
 // computed (nil when it could not be), the observed information. The
@@ -240,7 +241,7 @@ func (p *mlProblem) polish(ctx context.Context, x []float64, converged bool, lre
 	for it := 0; it < 3; it++ {
 		// The stencil may cross the MA boundary; the steps may not.
 		p.anyMA = true
-		f0, g, h, err := kalman.Curvature(ctx, p.negLogLik, x, curvatureSteps(x, lres))
+		f0, g, h, err := kalman.Information(ctx, p.negLogLik, x, lres.JTJInv, lres.SSQ, len(lres.Resid))
 		p.anyMA = false
 		if err != nil {
 			if !errors.Is(err, kalman.ErrNotFinite) {
@@ -248,7 +249,7 @@ func (p *mlProblem) polish(ctx context.Context, x []float64, converged bool, lre
 			}
 			break
 		}
-		hess = mat.NewSymDense(len(x), h)
+		hess = h
 		if !converged {
 			break
 		}
@@ -262,45 +263,6 @@ func (p *mlProblem) polish(ctx context.Context, x []float64, converged bool, lre
 		}
 	}
 	return x, hess, nil
-}
-
-// curvatureSteps returns the steps of the Hessian's central
-// differences at x: h_k = min(2^-13 max(|x_k|, 1), 0.1 s_k), s_k =
-// sqrt(S / (N (J'J)_kk)) the conditional standard error of parameter k
-// (the others held) from the Gauss-Newton information at the search's
-// end (S the sum of squares of the N scaled innovations, J their
-// Jacobian: -logL = N/2 log S + const has the Hessian N J'J / S to
-// first order). The log-likelihood departs from its quadratic form on
-// the scale of the conditional standard error, which for strongly
-// correlated parameters (a gain and a slow pole) is far below the
-// marginal one: steps of 0.1 s_k keep the truncation error of the
-// second differences near 1e-3 relative or below, and their rounding
-// error is about eps |logL| / 0.01 relative, 2e-14 |logL|. A parameter
-// far below one (the gain of an input recorded in large units) gets a
-// step small against its own size likewise. Where J'J is not available
-// the steps are 2^-13 max(|x_k|, 1).
-func curvatureSteps(x []float64, lres lm.Result) []float64 {
-	h := kalman.Steps(x, kalman.CurvatureStep)
-	n := float64(len(lres.Resid))
-	if lres.JTJInv == nil || n == 0 || !(lres.SSQ > 0) {
-		return h
-	}
-	var c mat.Cholesky
-	if !c.Factorize(lres.JTJInv) {
-		return h
-	}
-	jtj := mat.NewSymDense(len(x), nil)
-	if c.InverseTo(jtj) != nil {
-		return h
-	}
-	for i := range h {
-		if d := jtj.At(i, i); d > 0 && !math.IsInf(d, 0) {
-			if s := math.Sqrt(lres.SSQ / (n * d)); s > 0 {
-				h[i] = math.Min(h[i], 0.1*s)
-			}
-		}
-	}
-	return h
 }
 
 // shrinkStart moves a start whose noise AR part is not stationary, or

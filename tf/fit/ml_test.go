@@ -294,7 +294,7 @@ func TestExactMLGapAtEndNotStuck(t *testing.T) {
 // alike and changes nothing else. The likelihood is invariant, so the
 // estimates agree to the search's precision (1e-6 relative); the
 // standard errors to 1e-3 relative (numerical Hessians with steps
-// scaled to each parameter's size, see curvatureSteps: a step of 2^-13
+// scaled to each parameter's size, see kalman.Information: a step of 2^-13
 // on a gain of 8e-5 would make its SE 77 % too large).
 func TestExactMLUnitsInvariant(t *testing.T) {
 	m := twoInputModel()
@@ -333,8 +333,9 @@ func TestExactMLUnitsInvariant(t *testing.T) {
 // correlate strongly, so that the log-likelihood departs from its
 // quadratic form within a fraction of the pole's marginal standard
 // error: the fixed steps 2^-13 max(|x_k|, 1) put the gain's SE 14 %
-// low here (0.00280 against 0.00326), the conditional-SE steps of
-// curvatureSteps do not.
+// low here (0.00280 against 0.00326), the differences of
+// kalman.Information (along the axes the Gauss-Newton information makes
+// uncorrelated) do not.
 func TestExactMLCurvatureSteps(t *testing.T) {
 	n := 600
 	rng := rand.New(rand.NewPCG(5, 6))
