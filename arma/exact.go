@@ -2,7 +2,6 @@ package arma
 
 import (
 	"context"
-	"errors"
 	"math"
 	"strconv"
 
@@ -115,7 +114,7 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 		if _, err := p.stats(x0); err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" cannot be computed at the start values: "+err.Error())
 		}
-		prob := lm.Problem{M: m, N: len(e.names), Eval: p.eval, WritesAll: true}
+		prob := lm.Problem{M: m, N: len(e.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
 		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
@@ -389,67 +388,9 @@ func (p *mlProblem) residuals(x, r []float64) error {
 	return err
 }
 
-// eval is the lm.Problem Eval: the scaled innovations and, when asked,
-// their Jacobian by forward differences with step sqrt(eps) max(|x_k|,
-// 1) (the Newton step of polish removes the O(step) error this leaves
-// in the optimum).
-func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
-	if err := p.residuals(x, r); err != nil {
-		return err
-	}
-	if jac == nil {
-		return nil
-	}
-	return kalman.ForwardJacobian(p.residuals, x, r, jac)
-}
-
-// hessian returns minus the log-likelihood f0 at x and its
-// central-difference gradient and Hessian there (kalman.Information
-// with the Gauss-Newton information of the search's end lres, every
-// point of the stencil allowed a non-invertible MA part). The error is ctx's when it is done
-// during the stencil, kalman.ErrNotFinite when a point of the stencil
-// cannot be evaluated.
-func (p *mlProblem) hessian(ctx context.Context, x []float64, lres lm.Result) (f0 float64, g []float64, H *mat.SymDense, err error) {
-	p.anyMA = true
-	defer func() { p.anyMA = false }()
-	return kalman.Information(ctx, p.negLogLik, x, lres.JTJInv, lres.SSQ, len(lres.Resid))
-}
-
-// polish takes Newton steps with the numerical Hessian from the
-// search's point lres.X (after convergence only), kept while minus the
-// log-likelihood falls; it returns the point and the Hessian at the last
-// point where it was computed (nil when it could not be), which gives
-// the standard errors. The error is ctx's when ctx is done during a
-// Hessian (the point is then the last one kept, the Hessian nil).
+// polish is kalman.Polish from the search's end lres, the stencil
+// allowed a non-invertible MA part.
 func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
-	x := append([]float64(nil), lres.X...)
-	converged := lres.Reason.Converged()
-	if len(x) == 0 {
-		return x, nil, nil
-	}
-	var hess *mat.SymDense
-	for it := 0; it < 3; it++ {
-		f0, g, H, err := p.hessian(ctx, x, lres)
-		if err != nil {
-			if !errors.Is(err, kalman.ErrNotFinite) {
-				return x, nil, err // ctx is done
-			}
-			break
-		}
-		hess = H
-		if !converged {
-			break
-		}
-		trial, step, ok := kalman.NewtonStep(x, H, g)
-		if !ok || !(p.negLogLik(trial) <= f0) {
-			break
-		}
-		x = trial
-		if step < 1e-4 {
-			// The curvature at the new point differs from H by about
-			// the step: the standard errors do not change to that order.
-			break
-		}
-	}
-	return x, hess, nil
+	widen := func(on bool) { p.anyMA = on }
+	return kalman.Polish(ctx, p.negLogLik, widen, kalman.SearchEnd{X: lres.X, Converged: lres.Reason.Converged(), JTJInv: lres.JTJInv, SSQ: lres.SSQ, N: len(lres.Resid)})
 }

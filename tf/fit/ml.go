@@ -212,57 +212,11 @@ func (p *mlProblem) residuals(x, r []float64) error {
 	return err
 }
 
-// eval is the lm Eval: the scaled innovations and, when asked, their
-// Jacobian by forward differences with steps 2^-26 max(|x_k|, 1) (about
-// sqrt(eps) relative; the Newton steps of polish remove the O(step)
-// error this leaves in the optimum).
-func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
-	if err := p.residuals(x, r); err != nil {
-		return err
-	}
-	if jac == nil {
-		return nil
-	}
-	return kalman.ForwardJacobian(p.residuals, x, r, jac)
-}
-
-// polish takes up to three Newton steps with the central-difference
-// Hessian of minus the log-likelihood (kalman.Information, differenced
-// along the axes the Gauss-Newton information of the search's end lres
-// makes uncorrelated) from x, each
-// kept only when the likelihood rises (after a converged search only);
-// it returns the point and the Hessian at the last point where it was
-// computed (nil when it could not be), the observed information. The
-// error is ctx's when ctx is done during a Hessian (the point is then
-// the last one kept, the Hessian nil).
-func (p *mlProblem) polish(ctx context.Context, x []float64, converged bool, lres lm.Result) ([]float64, *mat.SymDense, error) {
-	x = append([]float64(nil), x...)
-	var hess *mat.SymDense
-	for it := 0; it < 3; it++ {
-		// The stencil may cross the MA boundary; the steps may not.
-		p.anyMA = true
-		f0, g, h, err := kalman.Information(ctx, p.negLogLik, x, lres.JTJInv, lres.SSQ, len(lres.Resid))
-		p.anyMA = false
-		if err != nil {
-			if !errors.Is(err, kalman.ErrNotFinite) {
-				return x, nil, err // ctx is done
-			}
-			break
-		}
-		hess = h
-		if !converged {
-			break
-		}
-		trial, step, ok := kalman.NewtonStep(x, hess, g)
-		if !ok || !(p.negLogLik(trial) <= f0) {
-			break
-		}
-		x = trial
-		if step < 1e-4 {
-			break // the curvature moves by about the step: SEs unchanged to that order
-		}
-	}
-	return x, hess, nil
+// polish is kalman.Polish from the search's end lres, the stencil
+// allowed to cross the MA boundary (the steps may not).
+func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
+	widen := func(on bool) { p.anyMA = on }
+	return kalman.Polish(ctx, p.negLogLik, widen, kalman.SearchEnd{X: lres.X, Converged: lres.Reason.Converged(), JTJInv: lres.JTJInv, SSQ: lres.SSQ, N: len(lres.Resid)})
 }
 
 // shrinkStart moves a start whose noise AR part is not stationary, or
@@ -311,12 +265,12 @@ func fitML(ctx context.Context, w *work, y []float64, set Settings) (*Estimate, 
 	if _, err := p.stats(x0, nil); err != nil {
 		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" cannot be computed at the least-squares start: "+err.Error())
 	}
-	prob := lm.Problem{M: p.nob, N: len(w.names), Eval: p.eval, WritesAll: true}
+	prob := lm.Problem{M: p.nob, N: len(w.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
 	lres, err := lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: maxIter, FTol: set.Tol})
 	if err != nil {
 		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" is not finite at the start values")
 	}
-	x, hess, err := p.polish(ctx, lres.X, lres.Reason.Converged(), lres)
+	x, hess, err := p.polish(ctx, lres)
 	if err != nil {
 		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
 	}
