@@ -81,8 +81,9 @@ func (p *mlProblem) uncertainty(res *Result, hess *mat.SymDense) {
 	}
 }
 
-// mlCriteria sets K, AIC, AICc and BIC from the exact LogLik, with NUsed
-// the observed samples in the likelihood.
+// mlCriteria sets K, AIC, AICc and BIC from LogLik (the exact one of
+// an exact-likelihood fit, or the one criteria sets), with NUsed the
+// observed samples in the likelihood.
 func (res *Result) mlCriteria(np int) {
 	nu := float64(res.NUsed)
 	res.K = np + 1

@@ -580,15 +580,8 @@ func nanVector(n int) []float64 {
 // SSQ/NUsed, whatever the reported Sigma2 (see the package doc).
 func (res *Result) criteria(np int) {
 	nu := float64(res.NUsed)
-	res.K = np + 1
 	res.LogLik = -nu / 2 * (math.Log(2*math.Pi*res.SSQ/nu) + 1)
-	k := float64(res.K)
-	res.AIC = -2*res.LogLik + 2*k
-	res.AICc = math.Inf(1)
-	if nu-k-1 > 0 {
-		res.AICc = res.AIC + 2*k*(k+1)/(nu-k-1)
-	}
-	res.BIC = -2*res.LogLik + k*math.Log(nu)
+	res.mlCriteria(np)
 }
 
 // flagBoundary lists in res.Boundary the fitted AR and MA polynomials
