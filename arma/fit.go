@@ -532,6 +532,22 @@ func searchEnd(ctx context.Context, res *Result, lres lm.Result) error {
 // where the curvature is singular) from the curvature at the optimum and
 // the innovation variance of the working units.
 func (e *engine) uncertainty(res *Result, opt optimum, sigma2Scaled float64) {
+	res.setCovariance(invSym(opt.jtj), sigma2Scaled, e.pscale)
+	if inv := invSym(opt.hess); inv != nil {
+		for k := range res.SEHessian {
+			res.SEHessian[k] = math.Sqrt(sigma2Scaled*inv.At(k, k)) * e.pscale[k]
+		}
+	}
+}
+
+// setCovariance sets Cov and Corr, and the SE and T of res.Params, from
+// inv, the inverse curvature in working units, times s2 (the innovation
+// variance of those units; 1 for the inverse of an observed
+// information), pscale the parameters' units; SEHessian, Cov and Corr
+// are NaN where inv is nil (singular), SEHessian always (the caller
+// sets it). SE and Corr come from the working units: a variance of a
+// series at 1e-150 can underflow in Cov where its square root is fine.
+func (res *Result) setCovariance(inv *mat.SymDense, s2 float64, pscale []float64) {
 	np := len(res.Params)
 	res.SEHessian = nanVector(np)
 	res.Cov = make([][]float64, np)
@@ -540,29 +556,17 @@ func (e *engine) uncertainty(res *Result, opt optimum, sigma2Scaled float64) {
 		res.Cov[k] = nanVector(np)
 		res.Corr[k] = nanVector(np)
 	}
-	if inv := invSym(opt.jtj); inv != nil {
-		for i := 0; i < np; i++ {
-			for j := 0; j < np; j++ {
-				res.Cov[i][j] = sigma2Scaled * inv.At(i, j) * e.pscale[i] * e.pscale[j]
-			}
-		}
-		// SE and Corr from the working units: a variance of a series at
-		// 1e-150 can underflow in Cov where its square root is fine.
-		for i := 0; i < np; i++ {
-			p := &res.Params[i]
-			p.SE = math.Sqrt(sigma2Scaled*inv.At(i, i)) * e.pscale[i]
-			p.T = p.Value / p.SE
-		}
-		for i := 0; i < np; i++ {
-			for j := 0; j < np; j++ {
-				res.Corr[i][j] = inv.At(i, j) / math.Sqrt(inv.At(i, i)*inv.At(j, j))
-			}
-		}
+	if inv == nil {
+		return
 	}
-	if inv := invSym(opt.hess); inv != nil {
-		for k := range res.SEHessian {
-			res.SEHessian[k] = math.Sqrt(sigma2Scaled*inv.At(k, k)) * e.pscale[k]
+	for i := 0; i < np; i++ {
+		for j := 0; j < np; j++ {
+			res.Cov[i][j] = s2 * inv.At(i, j) * pscale[i] * pscale[j]
+			res.Corr[i][j] = inv.At(i, j) / math.Sqrt(inv.At(i, i)*inv.At(j, j))
 		}
+		p := &res.Params[i]
+		p.SE = math.Sqrt(s2*inv.At(i, i)) * pscale[i]
+		p.T = p.Value / p.SE
 	}
 }
 
