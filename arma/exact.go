@@ -197,14 +197,7 @@ func clsStart(ctx context.Context, e *engine, yf []float64, noise Noise, diff []
 			return nil, err
 		}
 	}
-	x0, err := es.start(ord)
-	if err != nil {
-		return nil, err
-	}
-	if err := es.applyStartValues(o, x0); err != nil {
-		return nil, err
-	}
-	lres, err := es.solve(ctx, x0, o)
+	_, lres, err := es.search(ctx, o, ord)
 	if err != nil {
 		return nil, err
 	}

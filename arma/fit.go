@@ -340,18 +340,26 @@ func estimate(ctx context.Context, y []float64, noise Noise, diff []float64, dif
 	if err != nil {
 		return nil, err
 	}
-	x0, err := e.start(ord)
-	if err != nil {
-		return nil, err
-	}
-	if err := e.applyStartValues(o, x0); err != nil {
-		return nil, err
-	}
-	lres, err := e.solve(ctx, x0, o)
+	x0, lres, err := e.search(ctx, o, ord)
 	if err != nil {
 		return nil, err
 	}
 	return e.report(ctx, y, o, x0, lres, e.polish(lres))
+}
+
+// search runs the least-squares search of e from its start values
+// (start, with FitSettings.StartValues applied) and returns the start
+// and the search's result.
+func (e *engine) search(ctx context.Context, o FitSettings, ord *Order) ([]float64, lm.Result, error) {
+	x0, err := e.start(ord)
+	if err != nil {
+		return nil, lm.Result{}, err
+	}
+	if err := e.applyStartValues(o, x0); err != nil {
+		return nil, lm.Result{}, err
+	}
+	lres, err := e.solve(ctx, x0, o)
+	return x0, lres, err
 }
 
 // solve minimises the sum of squares from x0 by Levenberg-Marquardt
