@@ -11,7 +11,12 @@ import (
 // 0.4), mean 10, unit innovation variance.
 var benchModel = Model{AR: []float64{0.6, -0.3}, MA: []float64{-0.4}, Mean: 10, Sigma2: 1}
 
-func BenchmarkFitARMA21(b *testing.B) {
+func BenchmarkFitARMA21(b *testing.B) { benchFitARMA21(b, LeastSquares) }
+
+// benchFitARMA21 times the fit of benchModel's ARMA(2,1) with a free
+// mean by method at n = 10^4, 10^5 and 10^6, reporting the iterations
+// and the likelihood evaluations (ExactML) per fit.
+func benchFitARMA21(b *testing.B, method Method) {
 	for _, n := range []int{10_000, 100_000, 1_000_000} {
 		y, err := Simulate(benchModel, n, &SimSettings{Seed1: 1, Seed2: uint64(n)})
 		if err != nil {
@@ -20,11 +25,14 @@ func BenchmarkFitARMA21(b *testing.B) {
 		b.Run(strconv.Itoa(n), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				res, err := Fit(context.Background(), y, Order{P: 2, Q: 1}, nil)
+				res, err := Fit(context.Background(), y, Order{P: 2, Q: 1}, &FitSettings{Method: method})
 				if err != nil {
 					b.Fatal(err)
 				}
 				b.ReportMetric(float64(res.Iter), "iter")
+				if method == ExactML {
+					b.ReportMetric(float64(res.Evals), "evals")
+				}
 			}
 		})
 	}

@@ -58,14 +58,6 @@ type MissingValue struct {
 // start values of an exact-likelihood fit.
 const startMax = 20000
 
-// hessStep is the relative step of the central differences of the
-// log-likelihood (2^-13, about eps^(1/4)): h_k = hessStep max(|x_k|, 1)
-// in the working units (see Fit), where the parameters are of order one.
-// The truncation error is O(h^2), about 1.5e-8 relative; rounding adds
-// about eps |logL| / h^2, below 1e-7 of the curvature for series up to
-// 10^7 samples.
-const hessStep = kalman.CurvatureStep
-
 // mlProblem is the exact likelihood over the parameter vector of an
 // engine, in its working units. Used by one goroutine.
 type mlProblem struct {
@@ -122,13 +114,16 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 		if _, err := p.stats(x0); err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" cannot be computed at the start values: "+err.Error())
 		}
-		prob := lm.Problem{M: m, N: len(e.names), Eval: p.eval, WritesAll: true}
+		prob := lm.Problem{M: m, N: len(e.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
 		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
 		}
 	}
-	x, hess := p.polish(lres.X, lres.Reason.Converged())
+	x, hess, err := p.polish(ctx, lres)
+	if err != nil {
+		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
+	}
 	return p.report(ctx, y, o, x0, x, hess, lres)
 }
 
@@ -202,14 +197,7 @@ func clsStart(ctx context.Context, e *engine, yf []float64, noise Noise, diff []
 			return nil, err
 		}
 	}
-	x0, err := es.start(ord)
-	if err != nil {
-		return nil, err
-	}
-	if err := es.applyStartValues(o, x0); err != nil {
-		return nil, err
-	}
-	lres, err := es.solve(ctx, x0, o)
+	_, lres, err := es.search(ctx, o, ord)
 	if err != nil {
 		return nil, err
 	}
@@ -393,65 +381,9 @@ func (p *mlProblem) residuals(x, r []float64) error {
 	return err
 }
 
-// eval is the lm.Problem Eval: the scaled innovations and, when asked,
-// their Jacobian by forward differences with step sqrt(eps) max(|x_k|,
-// 1) (the Newton step of polish removes the O(step) error this leaves
-// in the optimum).
-func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
-	if err := p.residuals(x, r); err != nil {
-		return err
-	}
-	if jac == nil {
-		return nil
-	}
-	return kalman.ForwardJacobian(p.residuals, x, r, jac)
-}
-
-// hessian returns minus the log-likelihood f0 at x and its
-// central-difference gradient and Hessian there (kalman.Curvature with
-// steps h_k = hessStep max(|x_k|, 1), every point of the stencil
-// allowed a non-invertible MA part). ok is false when a point of the
-// stencil cannot be evaluated.
-func (p *mlProblem) hessian(x []float64) (f0 float64, g []float64, H *mat.SymDense, ok bool) {
-	p.anyMA = true
-	defer func() { p.anyMA = false }()
-	f0, g, h, ok := kalman.Curvature(p.negLogLik, x, kalman.Steps(x, hessStep))
-	if !ok {
-		return f0, g, nil, false
-	}
-	return f0, g, mat.NewSymDense(len(x), h), true
-}
-
-// polish takes Newton steps with the numerical Hessian from the
-// search's point x (after convergence only), kept while minus the
-// log-likelihood falls; it returns the point and the Hessian at the last
-// point where it was computed (nil when it could not be), which gives
-// the standard errors.
-func (p *mlProblem) polish(x []float64, converged bool) ([]float64, *mat.SymDense) {
-	x = append([]float64(nil), x...)
-	if len(x) == 0 {
-		return x, nil
-	}
-	var hess *mat.SymDense
-	for it := 0; it < 3; it++ {
-		f0, g, H, ok := p.hessian(x)
-		if !ok {
-			break
-		}
-		hess = H
-		if !converged {
-			break
-		}
-		trial, step, ok := kalman.NewtonStep(x, H, g)
-		if !ok || !(p.negLogLik(trial) <= f0) {
-			break
-		}
-		x = trial
-		if step < 1e-4 {
-			// The curvature at the new point differs from H by about
-			// the step: the standard errors do not change to that order.
-			break
-		}
-	}
-	return x, hess
+// polish is kalman.Polish from the search's end lres, the stencil
+// allowed a non-invertible MA part.
+func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
+	widen := func(on bool) { p.anyMA = on }
+	return kalman.Polish(ctx, p.negLogLik, widen, kalman.SearchEnd{X: lres.X, Converged: lres.Reason.Converged(), JTJInv: lres.JTJInv, SSQ: lres.SSQ, N: len(lres.Resid)})
 }

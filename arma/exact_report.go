@@ -56,33 +56,18 @@ func (p *mlProblem) report(ctx context.Context, y []float64, o FitSettings, x0, 
 // the observed information hess (working units), NaN where it is not
 // positive definite.
 func (p *mlProblem) uncertainty(res *Result, hess *mat.SymDense) {
-	np := len(res.Params)
-	ps := p.e.pscale
-	res.SEHessian = nanVector(np)
-	res.Cov = make([][]float64, np)
-	res.Corr = make([][]float64, np)
-	for k := range res.Cov {
-		res.Cov[k] = nanVector(np)
-		res.Corr[k] = nanVector(np)
-	}
 	inv := invSym(hess)
-	if inv == nil {
-		return
-	}
-	for i := 0; i < np; i++ {
-		for j := 0; j < np; j++ {
-			res.Cov[i][j] = inv.At(i, j) * ps[i] * ps[j]
-			res.Corr[i][j] = inv.At(i, j) / math.Sqrt(inv.At(i, i)*inv.At(j, j))
+	res.setCovariance(inv, 1, p.e.pscale)
+	if inv != nil {
+		for i, pr := range res.Params {
+			res.SEHessian[i] = pr.SE
 		}
-		pr := &res.Params[i]
-		pr.SE = math.Sqrt(inv.At(i, i)) * ps[i]
-		pr.T = pr.Value / pr.SE
-		res.SEHessian[i] = pr.SE
 	}
 }
 
-// mlCriteria sets K, AIC, AICc and BIC from the exact LogLik, with NUsed
-// the observed samples in the likelihood.
+// mlCriteria sets K, AIC, AICc and BIC from LogLik (the exact one of
+// an exact-likelihood fit, or the one criteria sets), with NUsed the
+// observed samples in the likelihood.
 func (res *Result) mlCriteria(np int) {
 	nu := float64(res.NUsed)
 	res.K = np + 1

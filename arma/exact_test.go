@@ -322,3 +322,52 @@ func TestBadInputExactMLFewObserved(t *testing.T) {
 		t.Errorf("got %v", err)
 	}
 }
+
+// countCtx is a context whose Err is context.Canceled from its
+// (after+1)-th call on; it counts the calls.
+type countCtx struct {
+	context.Context
+	calls, after int
+}
+
+func (c *countCtx) Err() error {
+	if c.calls++; c.calls > c.after {
+		return context.Canceled
+	}
+	return nil
+}
+
+// TestExactMLCanceledInHessian: a context done during the final
+// Hessian (after the search has converged) stops the fit there, with an
+// error matching context.Canceled and ErrConvergence, as a cancelled
+// search does. The context is done from the first check of the last
+// Hessian's stencil on (2k + k(k-1) checks for k parameters before the
+// run's end, counted in an uncancelled run): the search's iterations are those of the full fit, and
+// the stencil's remaining evaluations are not made. (A check of the
+// wiring on R's Nile series; the values are not compared with R here.)
+func TestExactMLCanceledInHessian(t *testing.T) {
+	y := readML(t)["Nile"].series()
+	ord := Order{P: 1, Q: 1}
+	full := &countCtx{Context: context.Background(), after: 1 << 30}
+	ref, err := Fit(full, y, ord, &FitSettings{Method: ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	k := len(ref.Params)
+	stencil := 2*k + k*(k-1) // checks of one Hessian
+	ctx := &countCtx{Context: context.Background(), after: full.calls - stencil}
+	res, err := Fit(ctx, y, ord, &FitSettings{Method: ExactML})
+	if !errors.Is(err, context.Canceled) || !errors.Is(err, ErrConvergence) {
+		t.Fatalf("cancelled in the Hessian: err %v, want context.Canceled and ErrConvergence", err)
+	}
+	if res == nil {
+		t.Fatalf("cancelled in the Hessian: no result returned with the error")
+	}
+	if res.Iter != ref.Iter || res.Converged {
+		t.Fatalf("cancelled in the Hessian: %d iterations, converged %v; want the full search's %d, not converged", res.Iter, res.Converged, ref.Iter)
+	}
+	if res.Evals > ref.Evals-stencil+1 {
+		t.Errorf("cancelled in the Hessian: %d evaluations, the full fit %d: the stencil's %d were not skipped", res.Evals, ref.Evals, stencil-1)
+	}
+	t.Logf("full fit: %d context checks, %d evaluations; cancelled: %d checks, %d evaluations", full.calls, ref.Evals, ctx.calls, res.Evals)
+}

@@ -87,8 +87,10 @@ type FitSettings struct {
 	// series), searches by Levenberg-Marquardt on the scaled innovations
 	// (forward-difference Jacobian, step 2^-26 max(|x|, 1) in working
 	// units) and ends with Newton steps on the numerical Hessian of the
-	// log-likelihood (central differences, step 2^-13 max(|x|, 1)), whose
-	// inverse gives the standard errors (the observed information).
+	// log-likelihood (central differences along the axes that the
+	// search's Gauss-Newton information makes uncorrelated, a tenth of a
+	// standard error or less; see kalman.Information), whose inverse
+	// gives the standard errors (the observed information).
 	// Regressor columns must be complete under both methods; First
 	// applies to the least-squares start only, Tol and MaxIter to both
 	// searches. Result.Evals counts likelihood evaluations (filter
@@ -338,18 +340,26 @@ func estimate(ctx context.Context, y []float64, noise Noise, diff []float64, dif
 	if err != nil {
 		return nil, err
 	}
-	x0, err := e.start(ord)
-	if err != nil {
-		return nil, err
-	}
-	if err := e.applyStartValues(o, x0); err != nil {
-		return nil, err
-	}
-	lres, err := e.solve(ctx, x0, o)
+	x0, lres, err := e.search(ctx, o, ord)
 	if err != nil {
 		return nil, err
 	}
 	return e.report(ctx, y, o, x0, lres, e.polish(lres))
+}
+
+// search runs the least-squares search of e from its start values
+// (start, with FitSettings.StartValues applied) and returns the start
+// and the search's result.
+func (e *engine) search(ctx context.Context, o FitSettings, ord *Order) ([]float64, lm.Result, error) {
+	x0, err := e.start(ord)
+	if err != nil {
+		return nil, lm.Result{}, err
+	}
+	if err := e.applyStartValues(o, x0); err != nil {
+		return nil, lm.Result{}, err
+	}
+	lres, err := e.solve(ctx, x0, o)
+	return x0, lres, err
 }
 
 // solve minimises the sum of squares from x0 by Levenberg-Marquardt
@@ -530,6 +540,22 @@ func searchEnd(ctx context.Context, res *Result, lres lm.Result) error {
 // where the curvature is singular) from the curvature at the optimum and
 // the innovation variance of the working units.
 func (e *engine) uncertainty(res *Result, opt optimum, sigma2Scaled float64) {
+	res.setCovariance(invSym(opt.jtj), sigma2Scaled, e.pscale)
+	if inv := invSym(opt.hess); inv != nil {
+		for k := range res.SEHessian {
+			res.SEHessian[k] = math.Sqrt(sigma2Scaled*inv.At(k, k)) * e.pscale[k]
+		}
+	}
+}
+
+// setCovariance sets Cov and Corr, and the SE and T of res.Params, from
+// inv, the inverse curvature in working units, times s2 (the innovation
+// variance of those units; 1 for the inverse of an observed
+// information), pscale the parameters' units; SEHessian, Cov and Corr
+// are NaN where inv is nil (singular), SEHessian always (the caller
+// sets it). SE and Corr come from the working units: a variance of a
+// series at 1e-150 can underflow in Cov where its square root is fine.
+func (res *Result) setCovariance(inv *mat.SymDense, s2 float64, pscale []float64) {
 	np := len(res.Params)
 	res.SEHessian = nanVector(np)
 	res.Cov = make([][]float64, np)
@@ -538,29 +564,17 @@ func (e *engine) uncertainty(res *Result, opt optimum, sigma2Scaled float64) {
 		res.Cov[k] = nanVector(np)
 		res.Corr[k] = nanVector(np)
 	}
-	if inv := invSym(opt.jtj); inv != nil {
-		for i := 0; i < np; i++ {
-			for j := 0; j < np; j++ {
-				res.Cov[i][j] = sigma2Scaled * inv.At(i, j) * e.pscale[i] * e.pscale[j]
-			}
-		}
-		// SE and Corr from the working units: a variance of a series at
-		// 1e-150 can underflow in Cov where its square root is fine.
-		for i := 0; i < np; i++ {
-			p := &res.Params[i]
-			p.SE = math.Sqrt(sigma2Scaled*inv.At(i, i)) * e.pscale[i]
-			p.T = p.Value / p.SE
-		}
-		for i := 0; i < np; i++ {
-			for j := 0; j < np; j++ {
-				res.Corr[i][j] = inv.At(i, j) / math.Sqrt(inv.At(i, i)*inv.At(j, j))
-			}
-		}
+	if inv == nil {
+		return
 	}
-	if inv := invSym(opt.hess); inv != nil {
-		for k := range res.SEHessian {
-			res.SEHessian[k] = math.Sqrt(sigma2Scaled*inv.At(k, k)) * e.pscale[k]
+	for i := 0; i < np; i++ {
+		for j := 0; j < np; j++ {
+			res.Cov[i][j] = s2 * inv.At(i, j) * pscale[i] * pscale[j]
+			res.Corr[i][j] = inv.At(i, j) / math.Sqrt(inv.At(i, i)*inv.At(j, j))
 		}
+		p := &res.Params[i]
+		p.SE = math.Sqrt(s2*inv.At(i, i)) * pscale[i]
+		p.T = p.Value / p.SE
 	}
 }
 
@@ -578,15 +592,8 @@ func nanVector(n int) []float64 {
 // SSQ/NUsed, whatever the reported Sigma2 (see the package doc).
 func (res *Result) criteria(np int) {
 	nu := float64(res.NUsed)
-	res.K = np + 1
 	res.LogLik = -nu / 2 * (math.Log(2*math.Pi*res.SSQ/nu) + 1)
-	k := float64(res.K)
-	res.AIC = -2*res.LogLik + 2*k
-	res.AICc = math.Inf(1)
-	if nu-k-1 > 0 {
-		res.AICc = res.AIC + 2*k*(k+1)/(nu-k-1)
-	}
-	res.BIC = -2*res.LogLik + k*math.Log(nu)
+	res.mlCriteria(np)
 }
 
 // flagBoundary lists in res.Boundary the fitted AR and MA polynomials

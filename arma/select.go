@@ -73,24 +73,28 @@ type OrderFit struct {
 	Err error
 }
 
-// Select fits every order of the grid to y by conditional least squares
-// (Fit, with opt for every candidate) on a bounded number of goroutines
+// Select fits every order of the grid to y with Fit (opt for every
+// candidate: conditional least squares by default, exact maximum
+// likelihood with opt.Method ExactML) on a bounded number of goroutines
 // and returns all candidates ranked: converged fits by increasing score,
 // then converged fits with boundary flags (roots on or outside the unit
 // circle: typically cancelling, over-parameterised models), then fits
 // that stopped without converging, then failures.
 //
 // So that the criteria compare likelihoods of the same residuals, every
-// candidate sums its residuals from the same index: the largest default
-// start of the grid (MaxP + SP*Period + D + SD*Period), or opt.Start if
-// larger.
+// least-squares candidate sums its residuals from the same index: the
+// largest default start of the grid (MaxP + SP*Period + D + SD*Period),
+// or opt.First if larger. Under ExactML every candidate's likelihood
+// is that of all observed samples (the common index sets only the
+// least-squares start), and NaN samples are missing values, skipped
+// exactly.
 //
 // The error is a *SettingError for an invalid grid or settings
-// (Grid.Validate, FitSettings.Validate), the *SampleError of Fit for a
-// NaN, infinite or too
-// large sample (no candidate is fitted), ctx's error when ctx is done
-// (candidates fitted so far are still returned), and, when no candidate
-// produced a result at all (a series too short or constant, for example),
+// (Grid.Validate, FitSettings.Validate), the *SampleError of Fit for an
+// infinite or too large sample, or a NaN one under least squares
+// (no candidate is fitted), ctx's error when ctx is done (candidates
+// fitted so far are still returned), and, when no candidate produced a
+// result at all (a series too short or constant, for example),
 // the error of the first candidate, with all candidates returned. A panic
 // in a fit (a bug) is recovered on its worker goroutine into an
 // *InternalError, which is that candidate's Err and, with all candidates,
@@ -119,7 +123,7 @@ func selectOrders(ctx context.Context, y []float64, g Grid, opt *FitSettings, fi
 	if opt != nil {
 		o = *opt
 	}
-	if err := checkFinite(o.Name, y); err != nil {
+	if err := checkSelectSeries(y, o); err != nil {
 		return nil, err
 	}
 	s := max(g.Period, 1)
@@ -137,6 +141,16 @@ func selectOrders(ctx context.Context, y []float64, g Grid, opt *FitSettings, fi
 		return cands[i].Score < cands[j].Score
 	})
 	return cands, cerr
+}
+
+// checkSelectSeries checks y once for every candidate as Fit would:
+// NaN samples are missing values under ExactML (checkInputsML) and a
+// *SampleError under least squares, as infinite or too large ones are.
+func checkSelectSeries(y []float64, o FitSettings) error {
+	if o.Method == ExactML {
+		return checkInputsML(y, o)
+	}
+	return checkFinite(o.Name, y)
 }
 
 // candidates lists the orders of the grid, p and then q increasing.

@@ -124,13 +124,8 @@ func (s *Stream) Step(x float64) float64 {
 		return y
 	}
 	lx := s.lx
-	p := s.xpos - 1
-	if p < 0 {
-		p += lx
-	}
+	p := pushRing(s.xbuf, s.xpos, lx, x)
 	s.xpos = p
-	s.xbuf[p] = x
-	s.xbuf[p+lx] = x
 	w := s.xbuf[p+s.d : p+lx]
 	sum := 0.0
 	b := s.b
@@ -155,15 +150,23 @@ func (s *Stream) Step(x float64) float64 {
 		sum /= s.a0
 	}
 	if ly > 0 {
-		q := s.ypos - 1
-		if q < 0 {
-			q += ly
-		}
-		s.ypos = q
-		s.ybuf[q] = sum
-		s.ybuf[q+ly] = sum
+		s.ypos = pushRing(s.ybuf, s.ypos, ly, sum)
 	}
 	return sum
+}
+
+// pushRing stores v as the newest value of a doubled ring buffer of l
+// values (buf has 2l): at pos - 1, wrapped to l - 1, and l places on,
+// so that buf[p:p+l] holds the last l values newest first without a
+// wrap; it returns that new position p.
+func pushRing(buf []float64, pos, l int, v float64) int {
+	p := pos - 1
+	if p < 0 {
+		p += l
+	}
+	buf[p] = v
+	buf[p+l] = v
+	return p
 }
 
 // run filters a whole series through the stream, continuing from its

@@ -40,6 +40,12 @@ func autocov(ar, ma []float64, n int) []float64 {
 // (Anderson, T. W. (2003). An Introduction to Multivariate Statistical
 // Analysis, 3rd ed., Theorem 2.5.1): an O(n^3) reference for the filter.
 func denseLik(z []float64, mu float64, g []float64) (ll float64, cm, cv map[int]float64) {
+	return denseGauss(z, mu, func(a, b int) float64 { return g[abs(a-b)] })
+}
+
+// denseGauss is denseLik for a series z with mean mu and the
+// covariance cov(a, b) of samples a and b.
+func denseGauss(z []float64, mu float64, cov func(a, b int) float64) (ll float64, cm, cv map[int]float64) {
 	var obs, miss []int
 	for t, v := range z {
 		if math.IsNaN(v) {
@@ -51,8 +57,8 @@ func denseLik(z []float64, mu float64, g []float64) (ll float64, cm, cv map[int]
 	no := len(obs)
 	S := mat.NewSymDense(no, nil)
 	for i, a := range obs {
-		for j, b := range obs[i:] {
-			S.SetSym(i, i+j, g[abs(a-b)])
+		for j := i; j < no; j++ {
+			S.SetSym(i, j, cov(a, obs[j]))
 		}
 	}
 	var ch mat.Cholesky
@@ -72,12 +78,12 @@ func denseLik(z []float64, mu float64, g []float64) (ll float64, cm, cv map[int]
 	for _, t := range miss {
 		c := mat.NewVecDense(no, nil)
 		for i, a := range obs {
-			c.SetVec(i, g[abs(a-t)])
+			c.SetVec(i, cov(a, t))
 		}
 		var w mat.VecDense
 		_ = ch.SolveVecTo(&w, c)
 		cm[t] = mu + mat.Dot(&w, y)
-		cv[t] = g[0] - mat.Dot(&w, c)
+		cv[t] = cov(t, t) - mat.Dot(&w, c)
 	}
 	return ll, cm, cv
 }
@@ -238,46 +244,7 @@ func TestDifferenced(t *testing.T) {
 // denseLikCov is denseLik for a zero-mean series y with the covariance
 // matrix cs (n x n, row-major).
 func denseLikCov(y, cs []float64, n int) (ll float64, cm, cv map[int]float64) {
-	var obs, miss []int
-	for t, v := range y {
-		if math.IsNaN(v) {
-			miss = append(miss, t)
-		} else {
-			obs = append(obs, t)
-		}
-	}
-	no := len(obs)
-	S := mat.NewSymDense(no, nil)
-	for i, a := range obs {
-		for j := i; j < no; j++ {
-			S.SetSym(i, j, cs[a*n+obs[j]])
-		}
-	}
-	var ch mat.Cholesky
-	if !ch.Factorize(S) {
-		panic("not positive definite")
-	}
-	yv := mat.NewVecDense(no, nil)
-	for i, a := range obs {
-		yv.SetVec(i, y[a])
-	}
-	var x mat.VecDense
-	_ = ch.SolveVecTo(&x, yv)
-	q := mat.Dot(yv, &x)
-	nf := float64(no)
-	ll = -0.5*nf*(math.Log(2*math.Pi*q/nf)+1) - 0.5*ch.LogDet()
-	cm, cv = map[int]float64{}, map[int]float64{}
-	for _, t := range miss {
-		c := mat.NewVecDense(no, nil)
-		for i, a := range obs {
-			c.SetVec(i, cs[a*n+t])
-		}
-		var w mat.VecDense
-		_ = ch.SolveVecTo(&w, c)
-		cm[t] = mat.Dot(&w, yv)
-		cv[t] = cs[t*n+t] - mat.Dot(&w, c)
-	}
-	return ll, cm, cv
+	return denseGauss(y, 0, func(a, b int) float64 { return cs[a*n+b] })
 }
 
 // TestRunAllocs: a pass of the filter, gaps included, allocates nothing

@@ -1,6 +1,8 @@
 package kalman
 
 import (
+	"context"
+	"errors"
 	"math"
 
 	"gonum.org/v1/gonum/mat"
@@ -54,4 +56,81 @@ func NewtonStep(x []float64, H *mat.SymDense, g []float64) (trial []float64, ste
 		step = math.Max(step, math.Abs(d)/(math.Abs(x[k])+1e-10))
 	}
 	return trial, step, true
+}
+
+// JacobianEval returns the Eval of a least-squares search (internal/lm)
+// on the residuals of residuals: the residuals at x into r and, when
+// jac is not nil, their Jacobian by ForwardJacobian (the Newton steps of
+// Polish remove the O(step) error this leaves in the optimum).
+func JacobianEval(residuals func(x, r []float64) error) func(x, r []float64, jac [][]float64) error {
+	return func(x, r []float64, jac [][]float64) error {
+		if err := residuals(x, r); err != nil {
+			return err
+		}
+		if jac == nil {
+			return nil
+		}
+		return ForwardJacobian(residuals, x, r, jac)
+	}
+}
+
+// SearchEnd is what Polish needs of the least-squares search that
+// precedes it: its point X, whether it converged, and its Gauss-Newton
+// information (JTJInv = (J'J)^-1 and SSQ = S of its N scaled
+// innovations; see Information).
+type SearchEnd struct {
+	X         []float64
+	Converged bool
+	JTJInv    *mat.SymDense
+	SSQ       float64
+	N         int
+}
+
+// Polish takes up to three Newton steps on minus a log-likelihood f
+// from the search's point s.X with the Hessian of Information, each kept only
+// when f does not rise, after a converged search only; it stops early
+// once a step is below 1e-4 (the curvature at the new point differs
+// from the last by about the step, so the standard errors do not
+// change to that order). It returns the point and the Hessian at the
+// last point where it was computed (nil when it could not be), the
+// observed information; the error is ctx's when ctx is done during a
+// Hessian (the point is then the last one kept, the Hessian nil).
+// widen (may be nil) is called with true before each Hessian and false
+// after it, so that f may accept points of the stencil that the steps
+// may not reach (arma and tf/fit let the stencil cross the MA
+// invertibility boundary).
+func Polish(ctx context.Context, f func(x []float64) float64, widen func(bool), s SearchEnd) ([]float64, *mat.SymDense, error) {
+	x := append([]float64(nil), s.X...)
+	if len(x) == 0 {
+		return x, nil, nil
+	}
+	var hess *mat.SymDense
+	for it := 0; it < 3; it++ {
+		if widen != nil {
+			widen(true)
+		}
+		f0, g, H, err := Information(ctx, f, x, s.JTJInv, s.SSQ, s.N)
+		if widen != nil {
+			widen(false)
+		}
+		if err != nil {
+			if !errors.Is(err, ErrNotFinite) {
+				return x, nil, err // ctx is done
+			}
+			break
+		}
+		hess = H
+		if !s.Converged {
+			break
+		}
+		trial, step, ok := NewtonStep(x, H, g)
+		if !ok || !(f(trial) <= f0) {
+			break
+		}
+		x = trial
+		if step < 1e-4 {
+			break
+		}
+	}
+	return x, hess, nil
 }

@@ -212,90 +212,11 @@ func (p *mlProblem) residuals(x, r []float64) error {
 	return err
 }
 
-// eval is the lm Eval: the scaled innovations and, when asked, their
-// Jacobian by forward differences with steps 2^-26 max(|x_k|, 1) (about
-// sqrt(eps) relative; the Newton steps of polish remove the O(step)
-// error this leaves in the optimum).
-func (p *mlProblem) eval(x, r []float64, jac [][]float64) error {
-	if err := p.residuals(x, r); err != nil {
-		return err
-	}
-	if jac == nil {
-		return nil
-	}
-	return kalman.ForwardJacobian(p.residuals, x, r, jac)
-}
-
-// polish takes up to three Newton steps with the central-difference
-// Hessian of minus the log-likelihood (kalman.Curvature with the steps
-// of curvatureSteps) from x, each
-// kept only when the likelihood rises (after a converged search only);
-// it returns the point and the Hessian at the last point where it was
-// computed (nil when it could not be), the observed information.
-func (p *mlProblem) polish(x []float64, converged bool, lres lm.Result) ([]float64, *mat.SymDense) {
-	x = append([]float64(nil), x...)
-	var hess *mat.SymDense
-	for it := 0; it < 3; it++ {
-		// The stencil may cross the MA boundary; the steps may not.
-		p.anyMA = true
-		f0, g, h, ok := kalman.Curvature(p.negLogLik, x, curvatureSteps(x, lres))
-		p.anyMA = false
-		if !ok {
-			break
-		}
-		hess = mat.NewSymDense(len(x), h)
-		if !converged {
-			break
-		}
-		trial, step, ok := kalman.NewtonStep(x, hess, g)
-		if !ok || !(p.negLogLik(trial) <= f0) {
-			break
-		}
-		x = trial
-		if step < 1e-4 {
-			break // the curvature moves by about the step: SEs unchanged to that order
-		}
-	}
-	return x, hess
-}
-
-// curvatureSteps returns the steps of the Hessian's central
-// differences at x: h_k = min(2^-13 max(|x_k|, 1), 0.1 s_k), s_k =
-// sqrt(S / (N (J'J)_kk)) the conditional standard error of parameter k
-// (the others held) from the Gauss-Newton information at the search's
-// end (S the sum of squares of the N scaled innovations, J their
-// Jacobian: -logL = N/2 log S + const has the Hessian N J'J / S to
-// first order). The log-likelihood departs from its quadratic form on
-// the scale of the conditional standard error, which for strongly
-// correlated parameters (a gain and a slow pole) is far below the
-// marginal one: steps of 0.1 s_k keep the truncation error of the
-// second differences near 1e-3 relative or below, and their rounding
-// error is about eps |logL| / 0.01 relative, 2e-14 |logL|. A parameter
-// far below one (the gain of an input recorded in large units) gets a
-// step small against its own size likewise. Where J'J is not available
-// the steps are 2^-13 max(|x_k|, 1).
-func curvatureSteps(x []float64, lres lm.Result) []float64 {
-	h := kalman.Steps(x, kalman.CurvatureStep)
-	n := float64(len(lres.Resid))
-	if lres.JTJInv == nil || n == 0 || !(lres.SSQ > 0) {
-		return h
-	}
-	var c mat.Cholesky
-	if !c.Factorize(lres.JTJInv) {
-		return h
-	}
-	jtj := mat.NewSymDense(len(x), nil)
-	if c.InverseTo(jtj) != nil {
-		return h
-	}
-	for i := range h {
-		if d := jtj.At(i, i); d > 0 && !math.IsInf(d, 0) {
-			if s := math.Sqrt(lres.SSQ / (n * d)); s > 0 {
-				h[i] = math.Min(h[i], 0.1*s)
-			}
-		}
-	}
-	return h
+// polish is kalman.Polish from the search's end lres, the stencil
+// allowed to cross the MA boundary (the steps may not).
+func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
+	widen := func(on bool) { p.anyMA = on }
+	return kalman.Polish(ctx, p.negLogLik, widen, kalman.SearchEnd{X: lres.X, Converged: lres.Reason.Converged(), JTJInv: lres.JTJInv, SSQ: lres.SSQ, N: len(lres.Resid)})
 }
 
 // shrinkStart moves a start whose noise AR part is not stationary, or
@@ -344,12 +265,15 @@ func fitML(ctx context.Context, w *work, y []float64, set Settings) (*Estimate, 
 	if _, err := p.stats(x0, nil); err != nil {
 		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" cannot be computed at the least-squares start: "+err.Error())
 	}
-	prob := lm.Problem{M: p.nob, N: len(w.names), Eval: p.eval, WritesAll: true}
+	prob := lm.Problem{M: p.nob, N: len(w.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
 	lres, err := lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: maxIter, FTol: set.Tol})
 	if err != nil {
 		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" is not finite at the start values")
 	}
-	x, hess := p.polish(lres.X, lres.Reason.Converged(), lres)
+	x, hess, err := p.polish(ctx, lres)
+	if err != nil {
+		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
+	}
 	e, err := p.estimate(x, hess, lres, start, tried)
 	if err != nil {
 		return nil, err

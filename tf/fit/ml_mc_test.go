@@ -25,7 +25,7 @@ import (
 //	c,  n = 50    +0.183 / 0.304  (112)  +0.082 / 0.120  (0)
 //	c,  n = 100   +0.057 / 0.142   (65)  +0.060 / 0.088  (0)
 //	no c, n = 50  +0.028 / 0.191   (55)  +0.034 / 0.112  (0)
-//	no c, n = 100 -0.004 / 0.085   (15)  +0.026 / 0.071  (0)
+//	no c, n = 100 -0.004 / 0.084   (16)  +0.026 / 0.071  (0)
 //
 // Exact ML's error is smaller in every case (RMSE) and it never leaves
 // the invertible region, where conditional least squares does in up to

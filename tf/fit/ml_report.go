@@ -12,7 +12,7 @@ func (e *Estimate) writeLikelihoodRecord(b *strings.Builder) {
 	n := len(e.Resid)
 	fmt.Fprintf(b, "  record:     %d samples; the exact likelihood counts the %d observed samples from index %d on (%d output samples missing)\n",
 		n, e.N, e.Conditioning.First, len(e.Missing))
-	fmt.Fprintf(b, "  standard errors: from the observed information, the central-difference Hessian of the log-likelihood (steps of 0.1 conditional standard error)\n")
+	fmt.Fprintf(b, "  standard errors: from the observed information, the central-difference Hessian of the log-likelihood (steps of 0.1 standard error or less along the axes the Gauss-Newton information makes uncorrelated)\n")
 }
 
 // writeGaps writes the smoothed missing outputs (at most ten) and the

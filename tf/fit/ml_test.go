@@ -294,7 +294,7 @@ func TestExactMLGapAtEndNotStuck(t *testing.T) {
 // alike and changes nothing else. The likelihood is invariant, so the
 // estimates agree to the search's precision (1e-6 relative); the
 // standard errors to 1e-3 relative (numerical Hessians with steps
-// scaled to each parameter's size, see curvatureScale: a step of 2^-13
+// scaled to each parameter's size, see kalman.Information: a step of 2^-13
 // on a gain of 8e-5 would make its SE 77 % too large).
 func TestExactMLUnitsInvariant(t *testing.T) {
 	m := twoInputModel()
@@ -333,8 +333,9 @@ func TestExactMLUnitsInvariant(t *testing.T) {
 // correlate strongly, so that the log-likelihood departs from its
 // quadratic form within a fraction of the pole's marginal standard
 // error: the fixed steps 2^-13 max(|x_k|, 1) put the gain's SE 14 %
-// low here (0.00280 against 0.00326), the conditional-SE steps of
-// curvatureSteps do not.
+// low here (0.00280 against 0.00326), the differences of
+// kalman.Information (along the axes the Gauss-Newton information makes
+// uncorrelated) do not.
 func TestExactMLCurvatureSteps(t *testing.T) {
 	n := 600
 	rng := rand.New(rand.NewPCG(5, 6))
@@ -375,9 +376,12 @@ func TestExactMLCurvatureSteps(t *testing.T) {
 	for i, q := range e.Params {
 		x[i] = q.Value
 	}
-	_, _, h, ok := kalman.Curvature(p.negLogLik, x, kalman.Steps(x, 0x1p-17))
+	_, _, h, err := kalman.Curvature(context.Background(), p.negLogLik, x, kalman.Steps(x, 0x1p-17))
+	if err != nil {
+		t.Fatal(err)
+	}
 	inv := invertInformation(mat.NewSymDense(len(x), h), len(x))
-	if !ok || inv == nil {
+	if inv == nil {
 		t.Fatal("no Hessian with the fine steps")
 	}
 	for i, q := range e.Params {
@@ -385,4 +389,54 @@ func TestExactMLCurvatureSteps(t *testing.T) {
 			t.Errorf("SE(%s) = %.6g, with fine steps %.6g", q.Name, q.SE, se)
 		}
 	}
+}
+
+// countCtx is a context whose Err is context.Canceled from its
+// (after+1)-th call on; it counts the calls.
+type countCtx struct {
+	context.Context
+	calls, after int
+}
+
+func (c *countCtx) Err() error {
+	if c.calls++; c.calls > c.after {
+		return context.Canceled
+	}
+	return nil
+}
+
+// TestExactMLCanceledInHessian: a context done during the final
+// Hessian (after the search has converged) stops the fit there with the
+// best point and an *InterruptedError matching context.Canceled, as a
+// cancelled search does. The context is done from the first check of
+// the last Hessian's stencil on (2k + k(k-1) checks for k parameters
+// before the run's end, counted in an uncancelled run): the search's
+// iterations are those of the full fit, and the stencil's remaining
+// evaluations are not made. (A check of the wiring; no outside value.)
+func TestExactMLCanceledInHessian(t *testing.T) {
+	m := twoInputModel()
+	data := twoInputData(2000, 1)
+	full := &countCtx{Context: context.Background(), after: 1 << 30}
+	ref, err := Model(full, m, data, &Settings{Method: ExactML})
+	if err != nil {
+		t.Fatal(err)
+	}
+	k := len(ref.Params)
+	stencil := 2*k + k*(k-1)
+	ctx := &countCtx{Context: context.Background(), after: full.calls - stencil}
+	e, err := Model(ctx, m, data, &Settings{Method: ExactML})
+	var ie *InterruptedError
+	if !errors.Is(err, context.Canceled) || !errors.As(err, &ie) {
+		t.Fatalf("cancelled in the Hessian: err %v, want an *InterruptedError wrapping context.Canceled", err)
+	}
+	if e == nil {
+		t.Fatalf("cancelled in the Hessian: no estimate returned with the error")
+	}
+	if e.Iter != ref.Iter || e.Converged {
+		t.Fatalf("cancelled in the Hessian: %d iterations, converged %v; want the full search's %d, not converged", e.Iter, e.Converged, ref.Iter)
+	}
+	if e.Evals > ref.Evals-stencil+1 {
+		t.Errorf("cancelled in the Hessian: %d evaluations, the full fit %d: the stencil's %d were not skipped", e.Evals, ref.Evals, stencil-1)
+	}
+	t.Logf("full fit: %d context checks, %d evaluations; cancelled: %d checks, %d evaluations", full.calls, ref.Evals, ctx.calls, e.Evals)
 }
