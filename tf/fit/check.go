@@ -151,9 +151,12 @@ const (
 // portmanteau test of the cross-correlations between the residuals and
 // the prewhitened input at lags 0..K,
 //
-//	S = M sum_{k=0}^{K} r_alpha,a(k)^2 ~ chi-squared(K + 1 - (r + s + 1)),
+//	S = M sum_{k=0}^{K} r_alpha,a(k)^2,
 //
-// with a verdict per check and overall. The overall verdict (Pass) also
+// referred to the scaled chi-squared that S follows under an adequate
+// model given the input and the estimates (see Cross-correlation check
+// in the package doc; the textbook chi-squared(K + 1 - (r + s + 1)) is
+// reported beside it), with a verdict per check and overall. The overall verdict (Pass) also
 // requires a sound estimate (see Soundness). data is not modified.
 //
 // For an ExactML estimate the residuals are the standardised
