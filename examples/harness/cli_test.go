@@ -10,22 +10,15 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/parse"
 )
 
 // TestMainOutput runs the program as a user would and checks its summary.
 func TestMainOutput(t *testing.T) {
-	var buf bytes.Buffer
-	if err := run(&buf); err != nil {
-		t.Fatal(err)
-	}
-	for _, want := range []string{"sampled every 1 min", "settling to +-0.2 degC", "overshoot", "peak deviation",
+	testutil.CheckWords(t, "summary", defaultRunOutput(t), []string{"sampled every 1 min", "settling to +-0.2 degC", "overshoot", "peak deviation",
 		"steady-state error      +0.00 degC", "Commission the tuning on the plant itself under the site's safety procedures",
-		"independent safety interlocks", "local codes and licensed practice"} {
-		if !strings.Contains(buf.String(), want) {
-			t.Errorf("summary lacks %q:\n%s", want, buf.String())
-		}
-	}
+		"independent safety interlocks", "local codes and licensed practice"}, nil)
 }
 
 // TestOtherPlant runs the program on a model as examples/identify prints
