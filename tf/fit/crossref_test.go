@@ -167,11 +167,7 @@ func TestCrossCheckLevel(t *testing.T) {
 // common practice).
 func TestCrossReferenceTextbookCase(t *testing.T) {
 	const m, k = 100000, 12
-	rng := rand.New(rand.NewPCG(5, 6))
-	alpha := make([]float64, m)
-	for i := range alpha {
-		alpha[i] = rng.NormFloat64()
-	}
+	alpha := fixture.WhiteInput(5, 6, m)
 	for _, p := range []int{1, 2, 4} {
 		grad := make([][]float64, p)
 		for j := range grad {
