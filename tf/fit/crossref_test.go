@@ -1,7 +1,6 @@
 package fit
 
 import (
-	"context"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -38,10 +37,7 @@ func (c crossMC) run(t *testing.T) crossMCResult {
 		rng := rand.New(rand.NewPCG(seed+1, 77))
 		x := c.input(rng, c.n)
 		data := fixture.MustRecord(t, c.truth, map[string][]float64{"x": x}, &tf.SimSettings{Seed1: seed + 1, Seed2: 78, Sigma: 1})
-		est, err := Model(context.Background(), m, data, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		est := mustFit(t, m, data, nil)
 		d, err := Check(est, data, &CheckSettings{CrossLags: c.lags})
 		if err != nil {
 			t.Fatal(err)
