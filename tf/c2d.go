@@ -103,16 +103,24 @@ func (r Rational) AsFOPDT(T float64) (FOPDT, error) {
 	return out, composeErr("tf.Rational.AsFOPDT", err)
 }
 
-func (r Rational) asFOPDT(T float64) (FOPDT, error) {
-	if err := checkPositive("interval", T); err != nil {
-		return FOPDT{}, err
-	}
-	num, den := r.coefs()
-	b := r.delay
+// delayedCoefs returns r's numerator and denominator coefficients and
+// its dead time in samples, with leading zero numerator coefficients
+// moved into the dead time (omega(B) = B^k omega'(B) adds k samples).
+func (r Rational) delayedCoefs() (num, den []float64, b int) {
+	num, den = r.coefs()
+	b = r.delay
 	for len(num) > 1 && num[0] == 0 {
 		num = num[1:]
 		b++
 	}
+	return num, den, b
+}
+
+func (r Rational) asFOPDT(T float64) (FOPDT, error) {
+	if err := checkPositive("interval", T); err != nil {
+		return FOPDT{}, err
+	}
+	num, den, b := r.delayedCoefs()
 	if len(den) != 2 {
 		return FOPDT{}, &ModelError{Part: "term denominator degree", Problem: "is " + formatNum(float64(len(den)-1)) + ": must be 1 for a first-order term"}
 	}
@@ -450,12 +458,7 @@ func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 	if err := checkPositive("interval", T); err != nil {
 		return SecondOrder{}, 0, err
 	}
-	num, den := r.coefs()
-	b := r.delay
-	for len(num) > 1 && num[0] == 0 {
-		num = num[1:]
-		b++
-	}
+	num, den, b := r.delayedCoefs()
 	if len(den) != 3 {
 		return SecondOrder{}, 0, &ModelError{Part: "term denominator degree", Problem: "is " + formatNum(float64(len(den)-1)) + ": must be 2 for a second-order term"}
 	}
