@@ -352,16 +352,11 @@ func (s CheckSettings) Validate() (err error) {
 
 // validate is Validate without the Op.
 func (s CheckSettings) validate() error {
-	for _, err := range []error{
+	return firstError(
 		errs.Count("", "CheckSettings.Lags", s.Lags, "0 means min(24, N/4)"),
 		errs.Count("", "CheckSettings.CrossLags", s.CrossLags, "0 means Lags"),
 		errs.Probability("", "CheckSettings.Alpha", s.Alpha, "0 means 0.05"),
-	} {
-		if err != nil {
-			return err
-		}
-	}
-	return nil
+	)
 }
 
 // Soundness lists, in words, what makes the estimate itself
