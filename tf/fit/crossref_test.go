@@ -11,12 +11,14 @@ import (
 )
 
 // crossMC is a Monte Carlo case of the cross-correlation check: records
-// of n samples drawn from truth with the input from input(seed), fitted
-// with structure and checked with CrossLags lags.
+// of n samples drawn from truth with the input from input(seed) (the
+// outputs at 100..100+gaps-1 missing), fitted with structure and
+// settings set and checked with CrossLags lags.
 type crossMC struct {
 	name, truth, structure string
 	input                  func(rng *rand.Rand, n int) []float64
-	n, lags, records       int
+	n, lags, records, gaps int
+	set                    *Settings
 }
 
 // crossMCResult sums up the records of a case: the mean of S and of the
@@ -37,7 +39,10 @@ func (c crossMC) run(t *testing.T) crossMCResult {
 		rng := rand.New(rand.NewPCG(seed+1, 77))
 		x := c.input(rng, c.n)
 		data := fixture.MustRecord(t, c.truth, map[string][]float64{"x": x}, &tf.SimSettings{Seed1: seed + 1, Seed2: 78, Sigma: 1})
-		est := mustFit(t, m, data, nil)
+		for i := 100; i < 100+c.gaps; i++ {
+			data[m.Output][i] = math.NaN()
+		}
+		est := mustFit(t, m, data, c.set)
 		d, err := Check(est, data, &CheckSettings{CrossLags: c.lags})
 		if err != nil {
 			t.Fatal(err)
@@ -78,9 +83,11 @@ func (c crossMC) run(t *testing.T) crossMCResult {
 // reference gives it, for a white input and for a smooth one (an AR(2)
 // with both roots at 0.9, prewhitened by the AIC-chosen
 // autoregression), through a slow first-order path (pole 0.95, time
-// constant about 20 samples) and ARMA(1,1) noise, K = 12 lags. Model and
-// inputs are our own; records whose estimate is not sound (a local
-// optimum with an unstable pole: 2 of the smooth ones) are left out.
+// constant about 20 samples) and ARMA(1,1) noise, K = 12 lags, fitted by
+// least squares and (the smooth input, a third of the records) by exact
+// likelihood with 10 outputs missing. Model and inputs are our own;
+// records whose estimate is not sound (a local optimum with an unstable
+// pole: 2 of the smooth ones) are left out.
 //
 // The textbook reference, chi-squared(K + 1 - (r + s + 1)) (Box, Jenkins,
 // Reinsel & Ljung 2015, diagnostic checking of transfer-function
@@ -94,18 +101,19 @@ func (c crossMC) run(t *testing.T) crossMCResult {
 //	                                ref   textbook    ref     textbook
 //	white   11.65   11.86     11   40    55           0.0235  0.0740
 //	smooth  12.28   12.21     11   46    83           0.0336  0.1170
+//	ML      12.42   12.21     11   13    29 (of 333)  0.0576  0.1523
 //
 // (other seed sets, 1000 records from seeds 100001 and 200001: white
 // 47 and 48 rejections against 63 and 63, smooth 38 and 44 against 71
 // and 77.) Bounds: the mean of S within 3 standard errors of the
 // reference mean (the SE from the reference variance 2 c^2 nu over the
-// records: about 0.16); KS below its 1 % critical value 1.628/sqrt(n)
+// records: about 0.16, 0.29 for ML); KS below its 1 % critical value 1.628/sqrt(n)
 // (scipy.stats.kstwobign.ppf(0.99) = 1.6276, scipy 1.10.1); the
 // rejections within the 99.9 % binomial range of 5 % (n p +- 3.3
 // sqrt(n p (1 - p)), 50 +- 22.8 of 1000; normal approximation to the
 // binomial, common practice). With the textbook reference (the check
-// before this change) the KS bound fails in both cases, the mean bound
-// in both and the rejection bound for the smooth input.
+// before this change) the KS bound fails in every case, the mean bound
+// in every case and the rejection bound for the smooth input.
 func TestCrossCheckLevel(t *testing.T) {
 	const truth = "y = 0.5 / (1 - 0.95 B) B^2 x + (1 + 0.3 B) / (1 - 0.8 B) a"
 	const structure = "y = w0 / (1 - d1 B) B^2 x + (1 + t1 B) / (1 - p1 B) a"
@@ -126,6 +134,8 @@ func TestCrossCheckLevel(t *testing.T) {
 	for _, c := range []crossMC{
 		{name: "white", truth: truth, structure: structure, input: white, n: 500, lags: 12, records: records},
 		{name: "smooth", truth: truth, structure: structure, input: smooth, n: 500, lags: 12, records: records},
+		{name: "smooth, exact likelihood, 10 outputs missing", truth: truth, structure: structure, input: smooth, n: 500, lags: 12,
+			records: records / 3, gaps: 10, set: &Settings{Method: ExactML}},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			r := c.run(t)
@@ -141,10 +151,10 @@ func TestCrossCheckLevel(t *testing.T) {
 			if math.Abs(r.meanS-r.meanRef) > 3*se {
 				t.Errorf("mean S %.2f is more than 3 SE (%.2f) from the reference mean %.2f", r.meanS, se, r.meanRef)
 			}
-			p := 0.05 * float64(c.records)
+			p := 0.05 * float64(r.records)
 			half := 3.3 * math.Sqrt(p*0.95)
 			if math.Abs(float64(r.rejNew)-p) > half {
-				t.Errorf("%d rejections of %d at 5 %%, outside %.1f +- %.1f", r.rejNew, c.records, p, half)
+				t.Errorf("%d rejections of %d at 5 %%, outside %.1f +- %.1f", r.rejNew, r.records, p, half)
 			}
 		})
 	}
