@@ -103,16 +103,24 @@ func (r Rational) AsFOPDT(T float64) (FOPDT, error) {
 	return out, composeErr("tf.Rational.AsFOPDT", err)
 }
 
-func (r Rational) asFOPDT(T float64) (FOPDT, error) {
-	if err := checkPositive("interval", T); err != nil {
-		return FOPDT{}, err
-	}
-	num, den := r.coefs()
-	b := r.delay
+// delayedCoefs returns r's numerator and denominator coefficients and
+// its dead time in samples, with leading zero numerator coefficients
+// moved into the dead time (omega(B) = B^k omega'(B) adds k samples).
+func (r Rational) delayedCoefs() (num, den []float64, b int) {
+	num, den = r.coefs()
+	b = r.delay
 	for len(num) > 1 && num[0] == 0 {
 		num = num[1:]
 		b++
 	}
+	return num, den, b
+}
+
+func (r Rational) asFOPDT(T float64) (FOPDT, error) {
+	if err := checkPositive("interval", T); err != nil {
+		return FOPDT{}, err
+	}
+	num, den, b := r.delayedCoefs()
 	if len(den) != 2 {
 		return FOPDT{}, &ModelError{Part: "term denominator degree", Problem: "is " + formatNum(float64(len(den)-1)) + ": must be 1 for a first-order term"}
 	}
@@ -297,13 +305,7 @@ func (s secondOrderLag) discretize(T float64) (Rational, error) {
 // and 0 for u <= 0. It returns NaN for invalid parameters (a non-finite
 // Gain, a time constant that is not positive and finite, a DeadTime that
 // is negative or not finite) and for t = NaN, as FOPDT.StepAt does.
-func (p SOPDT) StepAt(t float64) float64 {
-	s, err := p.second()
-	if err != nil || !stepArgsOK(p.DeadTime, t) {
-		return math.NaN()
-	}
-	return s.step(t)
-}
+func (p SOPDT) StepAt(t float64) float64 { return lagStepAt(p.second, t) }
 
 // Discretize returns the exact zero-order-hold equivalent of p for the
 // sample interval T, including a dead time that is not a whole number of
@@ -322,16 +324,8 @@ func (p SOPDT) StepAt(t float64) float64 {
 // against T that e^{-T/Tau_i} rounds to 1 (about 2^53 intervals), or a
 // dead time that is negative or over MaxDelay-1 samples.
 func (p SOPDT) Discretize(T float64) (Rational, error) {
-	out, err := p.discretize(T)
+	out, err := lagDiscretize(p.second, T)
 	return out, composeErr("tf.SOPDT.Discretize", err)
-}
-
-func (p SOPDT) discretize(T float64) (Rational, error) {
-	s, err := p.second()
-	if err != nil {
-		return Rational{}, err
-	}
-	return s.discretize(T)
 }
 
 // StepAt returns the continuous unit step response at time t (step at
@@ -342,13 +336,7 @@ func (p SOPDT) discretize(T float64) (Rational, error) {
 // NaturalFrequency that is not positive and finite, a negative or
 // non-finite Damping, a DeadTime that is negative or not finite) and for
 // t = NaN, as FOPDT.StepAt does.
-func (p SecondOrder) StepAt(t float64) float64 {
-	s, err := p.second()
-	if err != nil || !stepArgsOK(p.DeadTime, t) {
-		return math.NaN()
-	}
-	return s.step(t)
-}
+func (p SecondOrder) StepAt(t float64) float64 { return lagStepAt(p.second, t) }
 
 // Discretize returns the exact zero-order-hold equivalent of p for the
 // sample interval T, as SOPDT.Discretize does; for Damping < 1 the
@@ -356,12 +344,25 @@ func (p SecondOrder) StepAt(t float64) float64 {
 // Its errors are those of SOPDT.Discretize, plus an *SettingError for a
 // negative or non-finite Damping.
 func (p SecondOrder) Discretize(T float64) (Rational, error) {
-	out, err := p.discretize(T)
+	out, err := lagDiscretize(p.second, T)
 	return out, composeErr("tf.SecondOrder.Discretize", err)
 }
 
-func (p SecondOrder) discretize(T float64) (Rational, error) {
-	s, err := p.second()
+// lagStepAt is StepAt of a second-order model whose closed form lag
+// returns (SOPDT.second, SecondOrder.second): NaN for a model lag
+// refuses, a dead time or t that stepArgsOK refuses.
+func lagStepAt(lag func() (secondOrderLag, error), t float64) float64 {
+	s, err := lag()
+	if err != nil || !stepArgsOK(s.theta, t) {
+		return math.NaN()
+	}
+	return s.step(t)
+}
+
+// lagDiscretize is Discretize of a second-order model whose closed form
+// lag returns, without the Op.
+func lagDiscretize(lag func() (secondOrderLag, error), T float64) (Rational, error) {
+	s, err := lag()
 	if err != nil {
 		return Rational{}, err
 	}
@@ -457,12 +458,7 @@ func (r Rational) asSecondOrder(T float64) (p SecondOrder, mismatch float64, err
 	if err := checkPositive("interval", T); err != nil {
 		return SecondOrder{}, 0, err
 	}
-	num, den := r.coefs()
-	b := r.delay
-	for len(num) > 1 && num[0] == 0 {
-		num = num[1:]
-		b++
-	}
+	num, den, b := r.delayedCoefs()
 	if len(den) != 3 {
 		return SecondOrder{}, 0, &ModelError{Part: "term denominator degree", Problem: "is " + formatNum(float64(len(den)-1)) + ": must be 2 for a second-order term"}
 	}

@@ -128,25 +128,22 @@ func (m Model) eachCoefCopy(fn func(c *Coef)) {
 	}
 }
 
+// clockUnits and calendarUnits are the units of a sample interval: the
+// clock units with their length in seconds, the calendar units with
+// theirs in months. Seconds, Months, Calendar and ValidUnit read them.
+var (
+	clockUnits    = map[string]float64{"s": 1, "min": 60, "h": 3600, "d": 86400, "wk": 7 * 86400}
+	calendarUnits = map[string]float64{"mo": 1, "qtr": 3, "yr": 12}
+)
+
 // Seconds returns the sample interval in seconds (units s = 1 s, min =
 // 60 s, h = 3600 s, d = 86400 s, wk = 604800 s) and ok = true, or 0 and
 // false for the zero Interval, an unknown unit and a calendar unit (mo,
 // qtr, yr: a month is 28 to 31 days, not a fixed number of seconds; see
 // Interval).
 func (iv Interval) Seconds() (float64, bool) {
-	var f float64
-	switch iv.Unit {
-	case "s":
-		f = 1
-	case "min":
-		f = 60
-	case "h":
-		f = 3600
-	case "d":
-		f = 86400
-	case "wk":
-		f = 7 * 86400
-	default:
+	f, ok := clockUnits[iv.Unit]
+	if !ok {
 		return 0, false
 	}
 	return iv.Value * f, true
@@ -156,15 +153,8 @@ func (iv Interval) Seconds() (float64, bool) {
 // 1, qtr = 3, yr = 12) and ok = true, or 0 and false for a clock unit,
 // an unknown unit or the zero Interval.
 func (iv Interval) Months() (float64, bool) {
-	var f float64
-	switch iv.Unit {
-	case "mo":
-		f = 1
-	case "qtr":
-		f = 3
-	case "yr":
-		f = 12
-	default:
+	f, ok := calendarUnits[iv.Unit]
+	if !ok {
 		return 0, false
 	}
 	return iv.Value * f, true
@@ -178,9 +168,7 @@ func (iv Interval) Calendar() bool { _, ok := iv.Months(); return ok }
 // clock units "s", "min", "h", "d", "wk" or the calendar units "mo",
 // "qtr", "yr".
 func ValidUnit(u string) bool {
-	switch u {
-	case "s", "min", "h", "d", "wk", "mo", "qtr", "yr":
-		return true
-	}
-	return false
+	_, clock := clockUnits[u]
+	_, calendar := calendarUnits[u]
+	return clock || calendar
 }

@@ -74,3 +74,25 @@ func TestNumericViews(t *testing.T) {
 		t.Errorf("Params: %s", got)
 	}
 }
+
+// TestIntervalUnits checks every unit of a sample interval, and an
+// unknown one and the empty one, through Seconds, Months, Calendar and
+// ValidUnit (lengths: 60 s a minute, 3600 s an hour, 86400 s a day, 7
+// days a week, 3 months a quarter, 12 a year; common practice).
+func TestIntervalUnits(t *testing.T) {
+	for _, c := range []struct {
+		unit            string
+		seconds, months float64 // 0: not that kind of unit
+	}{
+		{"s", 2, 0}, {"min", 120, 0}, {"h", 7200, 0}, {"d", 172800, 0}, {"wk", 1209600, 0},
+		{"mo", 0, 2}, {"qtr", 0, 6}, {"yr", 0, 24}, {"sec", 0, 0}, {"", 0, 0},
+	} {
+		iv := tf.Interval{Value: 2, Unit: c.unit}
+		s, sok := iv.Seconds()
+		m, mok := iv.Months()
+		if s != c.seconds || sok != (c.seconds > 0) || m != c.months || mok != (c.months > 0) ||
+			iv.Calendar() != (c.months > 0) || tf.ValidUnit(c.unit) != (c.seconds > 0 || c.months > 0) {
+			t.Errorf("unit %q: Seconds %g %v, Months %g %v, Calendar %v, ValidUnit %v", c.unit, s, sok, m, mok, iv.Calendar(), tf.ValidUnit(c.unit))
+		}
+	}
+}

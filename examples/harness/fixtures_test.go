@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"math"
 	"math/cmplx"
@@ -16,6 +17,28 @@ var (
 	walkResult *walk
 	walkErr    error
 )
+
+// The report of the default run, written once for every test that
+// reads it.
+var (
+	runOnce   sync.Once
+	runOutput string
+	runErr    error
+)
+
+// defaultRunOutput returns what the default run (run) writes.
+func defaultRunOutput(t *testing.T) string {
+	t.Helper()
+	runOnce.Do(func() {
+		var buf bytes.Buffer
+		runErr = run(&buf)
+		runOutput = buf.String()
+	})
+	if runErr != nil {
+		t.Fatal(runErr)
+	}
+	return runOutput
+}
 
 // defaultWalk returns the loop of the default run on the greenhouse
 // demo (walked once).

@@ -35,14 +35,35 @@ const (
 	disturbedSetting = 18.0
 )
 
-func TestSetpointStep(t *testing.T) {
-	sc := SetpointStep()
+// noiseFreeStep runs scenario sc without noise with the PI of tuning tu
+// from valve u0 and measures the step at stepAt from before to after
+// within settleBand; an error ends the test.
+func noiseFreeStep(t *testing.T, sc Scenario, tu PITuning, u0, before, after float64) (Trace, StepMetrics) {
+	t.Helper()
 	sc.NoiseSD = 0
-	tr, err := runWithPI(sc, steadyValve(setpointBefore, 2))
+	tr, err := runTuned(sc, tu, u0)
 	if err != nil {
 		t.Fatal(err)
 	}
-	m := Measure(tr.Temp, tr.Index(stepAt), setpointBefore, setpointAfter, settleBand, tr.Interval)
+	return tr, Measure(tr.Temp, tr.Index(stepAt), before, after, settleBand, tr.Interval)
+}
+
+// setpointStepRun is the noise-free setpoint step (16 -> 20 degC, 2
+// degC outside) with tuning tu, measured.
+func setpointStepRun(t *testing.T, tu PITuning) (Trace, StepMetrics) {
+	t.Helper()
+	return noiseFreeStep(t, SetpointStep(), tu, steadyValve(setpointBefore, 2), setpointBefore, setpointAfter)
+}
+
+// disturbanceStepRun is the noise-free outdoor step at the 18 degC
+// setpoint (from 4 degC outside) with tuning tu, measured.
+func disturbanceStepRun(t *testing.T, tu PITuning) (Trace, StepMetrics) {
+	t.Helper()
+	return noiseFreeStep(t, DisturbanceStep(), tu, steadyValve(disturbedSetting, 4), disturbedSetting, disturbedSetting)
+}
+
+func TestSetpointStep(t *testing.T) {
+	tr, m := setpointStepRun(t, handTuning)
 	t.Logf("settling %.0f min, overshoot %.1f %%, steady-state error %+.3f degC", m.Settling, 100*m.Overshoot, m.SteadyError)
 	if m.Settling > maxSettling {
 		t.Errorf("settling time %.0f min, want < %.0f min", m.Settling, maxSettling)
@@ -98,13 +119,7 @@ func TestSetpointStepWithNoise(t *testing.T) {
 }
 
 func TestDisturbanceStep(t *testing.T) {
-	sc := DisturbanceStep()
-	sc.NoiseSD = 0
-	tr, err := runWithPI(sc, steadyValve(disturbedSetting, 4))
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := Measure(tr.Temp, tr.Index(stepAt), disturbedSetting, disturbedSetting, settleBand, tr.Interval)
+	_, m := disturbanceStepRun(t, handTuning)
 	t.Logf("peak deviation %.2f degC, recovery %.0f min, steady-state error %+.3f degC", m.PeakDeviation, m.Settling, m.SteadyError)
 	if m.PeakDeviation > maxPeakDev {
 		t.Errorf("peak deviation %.2f degC, want < %.1f", m.PeakDeviation, maxPeakDev)

@@ -212,23 +212,12 @@ func TestNominalLoop(t *testing.T) {
 // are harness_test.go's).
 func TestTunedMeetsRequirements(t *testing.T) {
 	for _, r := range defaultWalk(t).Rules {
-		sc := SetpointStep()
-		sc.NoiseSD = 0
-		tr, err := runTuned(sc, r.PI, steadyValve(setpointBefore, 2))
-		if err != nil {
-			t.Fatal(err)
-		}
-		m := Measure(tr.Temp, tr.Index(stepAt), setpointBefore, setpointAfter, settleBand, tr.Interval)
+		_, m := setpointStepRun(t, r.PI)
 		if m.Settling > maxSettling || m.Overshoot > maxOvershoot || abs(m.SteadyError) > maxSteadyError {
 			t.Errorf("%s, setpoint step: settling %v min, overshoot %v, steady-state error %v", r.Tuning.Rule, m.Settling, m.Overshoot, m.SteadyError)
 		}
 		settle := m.Settling
-		sc = DisturbanceStep()
-		sc.NoiseSD = 0
-		if tr, err = runTuned(sc, r.PI, steadyValve(disturbedSetting, 4)); err != nil {
-			t.Fatal(err)
-		}
-		m = Measure(tr.Temp, tr.Index(stepAt), disturbedSetting, disturbedSetting, settleBand, tr.Interval)
+		_, m = disturbanceStepRun(t, r.PI)
 		if m.PeakDeviation > maxPeakDev || m.Settling > maxRecovery || abs(m.SteadyError) > maxSteadyError {
 			t.Errorf("%s, outdoor step: peak %v degC, recovery %v min, steady-state error %v", r.Tuning.Rule, m.PeakDeviation, m.Settling, m.SteadyError)
 		}

@@ -70,14 +70,27 @@ type CrossCheck struct {
 	CCF  []float64
 	M    int
 	Band float64
-	// S = M sum_{k=0}^{Lags} r_k^2 is referred to chi-squared with DF =
-	// Lags + 1 - (r + s + 1) degrees of freedom, r + s + 1 being the
-	// number of free coefficients of this input's transfer function
-	// (DF at least 1); P is the upper-tail probability.
-	S    float64
-	Lags int
-	DF   int
-	P    float64
+	// S = M sum_{k=0}^{Lags} r_k^2 is the portmanteau statistic. DF =
+	// Lags + 1 - (r + s + 1) (at least 1), r + s + 1 being the number of
+	// free coefficients of this input's transfer function, is the
+	// textbook count of its degrees of freedom, and PPlain the
+	// upper-tail chi-squared(DF) probability of S.
+	S      float64
+	Lags   int
+	DF     int
+	PPlain float64
+	// Scale and EffDF give the reference the verdict uses: S is referred
+	// to Scale * chi-squared(EffDF), the scaled chi-squared with the mean
+	// and variance that S has under an adequate model given this input
+	// and the fitted coefficients (see Cross-correlation check in the
+	// package doc); P is its upper-tail probability. For a white
+	// prewhitened input and transfer-function weights that die out
+	// within Lags, Scale is near 1 and EffDF near DF; where the
+	// reference cannot be formed (a singular information matrix),
+	// Scale is 1, EffDF is DF and P is PPlain.
+	Scale float64
+	EffDF float64
+	P     float64
 	// Pass reports P >= Alpha.
 	Pass bool
 }
@@ -138,9 +151,12 @@ const (
 // portmanteau test of the cross-correlations between the residuals and
 // the prewhitened input at lags 0..K,
 //
-//	S = M sum_{k=0}^{K} r_alpha,a(k)^2 ~ chi-squared(K + 1 - (r + s + 1)),
+//	S = M sum_{k=0}^{K} r_alpha,a(k)^2,
 //
-// with a verdict per check and overall. The overall verdict (Pass) also
+// referred to the scaled chi-squared that S follows under an adequate
+// model given the input and the estimates (see Cross-correlation check
+// in the package doc; the textbook chi-squared(K + 1 - (r + s + 1)) is
+// reported beside it), with a verdict per check and overall. The overall verdict (Pass) also
 // requires a sound estimate (see Soundness). data is not modified.
 //
 // For an ExactML estimate the residuals are the standardised
@@ -207,11 +223,17 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	if err != nil {
 		return nil, err
 	}
+	var grad [][]float64
 	for _, in := range e.Model.Inputs {
 		if in.Event != nil {
 			continue
 		}
-		cc, err := crossCheck(in, xdata[in.Series], resid, first, kx, set.Alpha)
+		if grad == nil {
+			if grad, err = residualGradient(e, data); err != nil {
+				return nil, err
+			}
+		}
+		cc, err := crossCheck(in, xdata[in.Series], resid, grad, first, kx, set.Alpha)
 		if err != nil {
 			return nil, err
 		}
@@ -272,9 +294,11 @@ func whitenessCheck(a []float64, lags, noisePar int, alpha float64) (ResidualChe
 
 // crossCheck prewhitens input x of term in, cross-correlates it with the
 // residuals from index first on at lags 0..kx (fewer for a short
-// record), and tests the sum of squares against chi-square with one
-// degree of freedom per lag less the term's free coefficients.
-func crossCheck(in tf.Input, x, resid []float64, first, kx int, alpha float64) (CrossCheck, error) {
+// record), and tests the sum of squares against the scaled chi-squared
+// that crossReference forms from the residuals' derivatives grad (and
+// reports the textbook chi-squared with one degree of freedom per lag
+// less the term's free coefficients beside it).
+func crossCheck(in tf.Input, x, resid []float64, grad [][]float64, first, kx int, alpha float64) (CrossCheck, error) {
 	if err := CheckSeries(in.Series, "input", x, in.Diff.Coeffs()); err != nil {
 		return CrossCheck{}, err
 	}
@@ -303,7 +327,15 @@ func crossCheck(in tf.Input, x, resid []float64, first, kx int, alpha float64) (
 	}
 	cc.S *= float64(c.N)
 	cc.DF = max(k+1-len(freeNames(in.Num, in.Den)), 1)
-	cc.P = distuv.ChiSquared{K: float64(cc.DF)}.Survival(cc.S)
+	cc.PPlain = distuv.ChiSquared{K: float64(cc.DF)}.Survival(cc.S)
+	cc.Scale, cc.EffDF, cc.P = 1, float64(cc.DF), cc.PPlain
+	gc := make([][]float64, len(grad))
+	for j, g := range grad {
+		gc[j], _ = pairsAvailable(g[t0:], resid[t0:])
+	}
+	if c, nu, ok := crossReference(ax, gc, k); ok {
+		cc.Scale, cc.EffDF, cc.P = c, nu, scaledChiSquareSurvival(cc.S, c, nu)
+	}
 	cc.Pass = cc.P >= alpha
 	return cc, nil
 }
@@ -320,16 +352,11 @@ func (s CheckSettings) Validate() (err error) {
 
 // validate is Validate without the Op.
 func (s CheckSettings) validate() error {
-	for _, err := range []error{
+	return firstError(
 		errs.Count("", "CheckSettings.Lags", s.Lags, "0 means min(24, N/4)"),
 		errs.Count("", "CheckSettings.CrossLags", s.CrossLags, "0 means Lags"),
 		errs.Probability("", "CheckSettings.Alpha", s.Alpha, "0 means 0.05"),
-	} {
-		if err != nil {
-			return err
-		}
-	}
-	return nil
+	)
 }
 
 // Soundness lists, in words, what makes the estimate itself

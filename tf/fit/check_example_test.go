@@ -31,5 +31,5 @@ func ExampleCheck() {
 	// Diagnostic checks at the 0.05 level: all pass and the estimate is sound
 	//   residual autocorrelation, lags 1..24: Ljung-Box Q = 20.43, df 23, p = 0.616  pass
 	//     outside -/+0.162: lag 5 (0.163)
-	//   residuals vs prewhitened lead (AR(3) filter), lags 0..24: S = 17.50, df 23, p = 0.784  pass
+	//   residuals vs prewhitened lead (AR(3) filter), lags 0..24: S = 17.50, 1.050 x chi2(21.5), p = 0.756  pass
 }

@@ -71,10 +71,7 @@ func TestCheckDetectsMisfit(t *testing.T) {
 		{"white noise for AR(1)", white, false, true},
 		{"dead time 1 for 3", wrongB, false, false},
 	} {
-		est, err := Model(context.Background(), tc.m, data, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		est := mustFit(t, tc.m, data, nil)
 		d, err := Check(est, data, nil)
 		if err != nil {
 			t.Fatal(err)
@@ -110,9 +107,9 @@ func TestCheckAgainstScipy(t *testing.T) {
 			for i, w := range want.Cross {
 				g := d.Cross[i]
 				if g.Input != w.Input || g.Prewhiten.Order() != w.AROrder || g.Lags != w.Lags || g.M != w.M || g.DF != w.DF ||
-					!scalar.EqualWithinRel(g.S, w.S, 1e-5) || !scalar.EqualWithinAbsOrRel(g.P, w.P, 1e-6, 1e-5) {
+					!scalar.EqualWithinRel(g.S, w.S, 1e-5) || !scalar.EqualWithinAbsOrRel(g.PPlain, w.P, 1e-6, 1e-5) {
 					t.Errorf("cross %s: AR %d K %d M %d df %d S %.8g p %.6g; scipy AR %d K %d M %d df %d S %.8g p %.6g",
-						g.Input, g.Prewhiten.Order(), g.Lags, g.M, g.DF, g.S, g.P, w.AROrder, w.Lags, w.M, w.DF, w.S, w.P)
+						g.Input, g.Prewhiten.Order(), g.Lags, g.M, g.DF, g.S, g.PPlain, w.AROrder, w.Lags, w.M, w.DF, w.S, w.P)
 				}
 			}
 		})
@@ -347,10 +344,7 @@ func checkIntegratorFit(t *testing.T) (*Estimate, map[string][]float64) {
 		y[i] = 10 + acc + 0.5*rng.NormFloat64()
 	}
 	data := map[string][]float64{"y": y, "x": x}
-	est, err := Model(context.Background(), checkIntegratorModel(), data, &Settings{ZeroPreSample: true})
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, checkIntegratorModel(), data, &Settings{ZeroPreSample: true})
 	return est, data
 }
 
@@ -388,10 +382,7 @@ func TestCheckZeroPreSampleACF(t *testing.T) {
 	}
 	data := map[string][]float64{"y": y, "x": x}
 	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
-	est, err := Model(context.Background(), m, data, &Settings{ZeroPreSample: true})
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, m, data, &Settings{ZeroPreSample: true})
 	own, err := arma.ACF(est.Resid[est.Conditioning.First:], 1)
 	if err != nil {
 		t.Fatal(err)

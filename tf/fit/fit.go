@@ -101,18 +101,27 @@ func (s Settings) Validate() (err error) {
 	return s.validate()
 }
 
+// firstError returns the first non-nil error of checks (the field checks
+// of a settings struct, in the order of its fields), or nil.
+func firstError(checks ...error) error {
+	for _, err := range checks {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
 // validate is Validate without the Op, for the functions taking a
 // Settings (they set their own).
 func (s Settings) validate() error {
-	for _, err := range []error{
+	if err := firstError(
 		errs.Count("", "Settings.MaxIter", s.MaxIter, "0 means 200 iterations"),
 		errs.Count("", "Settings.Starts", s.Starts, "0 means 2 with a free denominator or MA coefficient, 1 otherwise"),
 		errs.Count("", "Settings.First", s.First, "0 means the automatic first residual index"),
 		errs.NonNegative("", "Settings.Tol", s.Tol, "0 means 1e-14 up to 10^4 residuals, rising to 1e-9 at 10^5"),
-	} {
-		if err != nil {
-			return err
-		}
+	); err != nil {
+		return err
 	}
 	if !(s.Tol < 1) {
 		return errs.Setting("Settings.Tol", errs.Num(s.Tol), "must be below 1 (a relative reduction of the sum of squares; 0 means the default)")

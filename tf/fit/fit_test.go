@@ -108,10 +108,7 @@ func TestModelDoesNotModify(t *testing.T) {
 	data := map[string][]float64{"y": append([]float64(nil), y...), "x": append([]float64(nil), x...)}
 	m := fixture.PlantModel()
 	m0 := m.Clone()
-	est, err := Model(context.Background(), m, data, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, m, data, nil)
 	if !m.Equal(m0) {
 		t.Error("model modified")
 	}
@@ -215,10 +212,7 @@ func TestModelConcurrent(t *testing.T) {
 	for i := range datas {
 		y, x := fixture.SimulatePlant(fixture.NewRand(uint64(100+i)), 300)
 		datas[i] = map[string][]float64{"y": y, "x": x}
-		e, err := Model(context.Background(), fixture.PlantModel(), datas[i], nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		e := mustFit(t, fixture.PlantModel(), datas[i], nil)
 		want[i] = e
 	}
 	m := fixture.PlantModel()
@@ -340,14 +334,8 @@ func TestModelSettle(t *testing.T) {
 	data := map[string][]float64{"y": y, "x": x[pre:]}
 	m := tf.Model{Output: "y", Const: &tf.Coef{Name: "c", Free: true},
 		Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 1}}}
-	plain, err := Model(context.Background(), m, data, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	settled, err := Model(context.Background(), m, data, &Settings{Settle: true})
-	if err != nil {
-		t.Fatal(err)
-	}
+	plain := mustFit(t, m, data, nil)
+	settled := mustFit(t, m, data, &Settings{Settle: true})
 	d0, _ := plain.Param("d1")
 	d1, _ := settled.Param("d1")
 	if settled.Conditioning.First < 90 || settled.Conditioning.First > n/10 {

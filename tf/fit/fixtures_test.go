@@ -27,6 +27,17 @@ func hasKind(err error) bool {
 	return false
 }
 
+// mustFit fits m to data with settings s (fit.Model with a background
+// context), ending the test on an error.
+func mustFit(t testing.TB, m tf.Model, data map[string][]float64, s *Settings) *Estimate {
+	t.Helper()
+	est, err := Model(context.Background(), m, data, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return est
+}
+
 // replicatePlant simulates n + h samples of fixture.PlantModel and fits the
 // model to the first n, failing the test on error. It returns the whole
 // simulated series (the last h samples are the future), the estimate and
@@ -35,9 +46,5 @@ func replicatePlant(t *testing.T, rng *rand.Rand, n, h int) (y, x []float64, est
 	t.Helper()
 	y, x = fixture.SimulatePlant(rng, n+h)
 	data = map[string][]float64{"y": y[:n], "x": x[:n]}
-	est, err := Model(context.Background(), fixture.PlantModel(), data, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return y, x, est, data
+	return y, x, mustFit(t, fixture.PlantModel(), data, nil), data
 }

@@ -304,15 +304,8 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	for j := range what {
 		what[j] = c
 	}
-	for i := range w.ins {
-		ifc, warn, err := forecastInput(&w.ins[i], set, n, h, dc, vr, what)
-		if err != nil {
-			return nil, err
-		}
-		if warn != nil {
-			fc.Warnings = append(fc.Warnings, *warn)
-		}
-		fc.Inputs = append(fc.Inputs, ifc)
+	if err := fc.addInputs(w, set, n, h, dc, vr, what); err != nil {
+		return nil, err
 	}
 	w.addNoiseForecast(what)
 	ye := integrate(w.y, what, dc)
@@ -384,6 +377,24 @@ func noiseErrorVariance(arC, maC, dc []float64, sigma2 float64, h int) ([]float6
 		vr[j] = sigma2 * acc
 	}
 	return vr, nil
+}
+
+// addInputs adds every input's forecast term over the horizon h after n
+// samples to what (the forecast of D(B) y, dc the coefficients of D)
+// and its forecast-error variance to vr (forecastInput), and records
+// each input's forecast and warning in fc.
+func (fc *Forecast) addInputs(w *work, set ForecastSettings, n, h int, dc, vr, what []float64) error {
+	for i := range w.ins {
+		ifc, warn, err := forecastInput(&w.ins[i], set, n, h, dc, vr, what)
+		if err != nil {
+			return err
+		}
+		if warn != nil {
+			fc.Warnings = append(fc.Warnings, *warn)
+		}
+		fc.Inputs = append(fc.Inputs, ifc)
+	}
+	return nil
 }
 
 // forecastInput extends input fi over the horizon (its planned future

@@ -72,10 +72,7 @@ func TestForecastRandomWalk(t *testing.T) {
 	y := []float64{0, 1, 0.5, 1.5, 1, 2, 1.2, 2.5, 2, 3, 2.2, 3.4}
 	c := tf.Coef{Name: "c", Free: true}
 	m := tf.Model{Output: "y", Diff: fixture.Diff1(), Const: &c, Noise: &arma.Noise{}}
-	est, err := Model(context.Background(), m, map[string][]float64{"y": y}, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, m, map[string][]float64{"y": y}, nil)
 	// The drift c is the mean difference, (3.4 - 0)/11.
 	if !scalar.EqualWithinAbsOrRel(est.Params[0].Value, 3.4/11, 1e-12, 1e-8) {
 		t.Errorf("drift %v, want %v", est.Params[0].Value, 3.4/11)
@@ -121,10 +118,7 @@ func plantEstimate(t *testing.T) (*Estimate, map[string][]float64) {
 	t.Helper()
 	y, x := fixture.SimulatePlant(fixture.NewRand(5), 300)
 	data := map[string][]float64{"y": y, "x": x}
-	est, err := Model(context.Background(), fixture.PlantModel(), data, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, fixture.PlantModel(), data, nil)
 	return est, data
 }
 
@@ -160,10 +154,7 @@ func TestForecastARMAInput(t *testing.T) {
 	m := tf.Model{Output: "y", Const: &tf.Coef{Name: "c", Free: true},
 		Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Delay: 2}}, Noise: &arma.Noise{}}
 	data := map[string][]float64{"y": y, "x": x}
-	est, err := Model(context.Background(), m, data, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, m, data, nil)
 	im := InputModel{AR: ar.Model.ARPoly(), MA: ar.Model.MAPoly(), C: ar.Model.Mean, Sigma2: ar.Model.Sigma2}
 	fc, err := est.Forecast(data, h, &ForecastSettings{InputModels: map[string]InputModel{"x": im}})
 	if err != nil {
@@ -379,10 +370,7 @@ func TestBadInputForecastHorizon(t *testing.T) {
 	c := tf.Coef{Name: "c", Free: true}
 	m := tf.Model{Output: "y", Diff: fixture.Diff1(), Const: &c, Noise: &arma.Noise{}}
 	data := map[string][]float64{"y": y}
-	est, err := Model(context.Background(), m, data, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, m, data, nil)
 	for _, h := range []int{MaxHorizon + 1, 1 << 40, math.MaxInt} {
 		fc, err := est.Forecast(data, h, nil)
 		var ae *tf.SettingError

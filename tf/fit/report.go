@@ -189,8 +189,8 @@ func (d *Diagnostics) String() string {
 		fmt.Fprintf(&b, "    outside -/+%s: %s\n", formatFixed(r.Band, 3), strings.Join(big, ", "))
 	}
 	for _, c := range d.Cross {
-		fmt.Fprintf(&b, "  residuals vs prewhitened %s (AR(%d) filter), lags 0..%d: S = %s, df %d, p = %s  %s\n",
-			c.Input, c.Prewhiten.Order(), c.Lags, formatFixed(c.S, 2), c.DF, formatSig(c.P, 3), verdict(c.Pass))
+		fmt.Fprintf(&b, "  residuals vs prewhitened %s (AR(%d) filter), lags 0..%d: S = %s, %s x chi2(%s), p = %s  %s\n",
+			c.Input, c.Prewhiten.Order(), c.Lags, formatFixed(c.S, 2), formatFixed(c.Scale, 3), formatFixed(c.EffDF, 1), formatSig(c.P, 3), verdict(c.Pass))
 		big = big[:0]
 		for k, v := range c.CCF {
 			if math.Abs(v) > c.Band {

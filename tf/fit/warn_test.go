@@ -1,7 +1,6 @@
 package fit
 
 import (
-	"context"
 	"math"
 	"testing"
 
@@ -71,10 +70,7 @@ func TestModelWarnsRedundant(t *testing.T) {
 	}
 	num := fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0), fixture.Term(true, "w1", 0, 1)))
 	m := tf.Model{Output: "y", Inputs: []tf.Input{{Series: "x", Num: num, Den: fixture.OneMinus("d1", 1), Delay: 1}}, Noise: &arma.Noise{}}
-	est, err := Model(context.Background(), m, map[string][]float64{"y": y, "x": x}, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	est := mustFit(t, m, map[string][]float64{"y": y, "x": x}, nil)
 	w1, _ := est.Param("w1")
 	d1, _ := est.Param("d1")
 	w0, _ := est.Param("w0")
