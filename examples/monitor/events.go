@@ -1,0 +1,170 @@
+package main
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/backshift/backshift/tf"
+)
+
+// Events of a model in service.
+//
+// An event of a saved model (step(T), pulse(T): a known intervention,
+// such as a level shift the fit found) is placed in the record the model
+// was fitted to: T is a sample of that record, or a time. The predictor
+// (tf/predict) counts events from the first sample fed to it, so the
+// service moves each event to its place in the live stream before it
+// builds the predictor: to live sample T - P0 for an event at record
+// sample T when the stream starts at record sample P0, or to the live
+// sample of its time when the stream's first sample has a time. An event
+// before the stream has happened: a step is on throughout (the predictor
+// takes it as held on before the first sample, so its path starts at its
+// steady state) and a pulse is over (its term is left out). An event in
+// the stream's future comes on at its sample, as in the fit.
+//
+// Where the stream starts is given by -from 'loop=POS', POS a record
+// sample (the record's length when the stream follows the record) or the
+// time of the first live sample. Without it the stream is taken to start
+// right after the fit's record: at record sample "samples" of the
+// config's validity record, which examples/identify -save writes, so
+// that every event the fit placed in its record has happened. A timed
+// event is then taken as past too, when the model carries that record
+// (the fit placed it inside the record) and its time is before the
+// service's clock at start; otherwise -from must say where it falls. A
+// sample line's "stamp" is an integer in the caller's unit, so it does
+// not place events: the live samples follow the first at the model's
+// sample interval, one line each.
+
+// streamStart is where a loop's live stream starts against the record
+// its model was fitted to, as -from gives it: a record sample, or the
+// time of the first live sample.
+type streamStart struct {
+	Index int       // record sample of the first live sample, when At is zero
+	At    time.Time // time of the first live sample, or zero
+}
+
+// parseStreamStart reads the POS of -from 'loop=POS'.
+func parseStreamStart(v string) (streamStart, error) {
+	v = strings.TrimSpace(v)
+	if i, err := strconv.Atoi(v); err == nil {
+		if i < 0 {
+			return streamStart{}, fmt.Errorf("the record sample %d is negative; the record's first sample is 0", i)
+		}
+		return streamStart{Index: i}, nil
+	}
+	at, err := tf.ParseEventTime(v)
+	if err != nil {
+		return streamStart{}, fmt.Errorf("%q is neither a record sample (a whole number) nor a time such as 2026-03-30T08:00 or 2026-03-30T08:00+01:00", v)
+	}
+	return streamStart{At: at}, nil
+}
+
+// placement is what the service knows of where the stream starts: the
+// record sample p0 (when known0) and the time at (when not zero), and in
+// words.
+type placement struct {
+	p0     int
+	known0 bool
+	at     time.Time
+	words  string
+}
+
+// where returns the placement of e's stream: from the -from of the loop
+// (nil when not given), else right after the record of e's validity.
+func (e entry) where(from *streamStart) placement {
+	switch {
+	case from != nil && from.At.IsZero():
+		return placement{p0: from.Index, known0: true, words: fmt.Sprintf("the stream starts at record sample %d, by -from", from.Index)}
+	case from != nil:
+		return placement{at: from.At, words: "the stream starts at " + tf.FormatEventTime(from.At) + ", by -from"}
+	case e.Validity != nil && e.Validity.Samples > 0:
+		n := e.Validity.Samples
+		return placement{p0: n, known0: true, words: fmt.Sprintf("the stream starts at record sample %d, right after the fit's record of %d samples", n, n)}
+	}
+	return placement{}
+}
+
+// placeEvents returns the model the loop's predictor runs, e's model
+// with its events placed on the live stream (see the comment above), and
+// a line per event saying where it falls. from is the loop's -from or
+// nil; now is the service's clock at start. A model without events is
+// returned as it is.
+func (e entry) placeEvents(from *streamStart, now time.Time) (tf.Model, []string, error) {
+	m := e.Spec.Model
+	pl := e.where(from)
+	live := m.Clone()
+	live.Inputs = live.Inputs[:0]
+	var lines []string
+	for _, in := range m.Clone().Inputs {
+		if in.Event == nil {
+			live.Inputs = append(live.Inputs, in)
+			continue
+		}
+		at, past, err := e.liveSample(*in.Event, pl, from, now)
+		if err != nil {
+			return tf.Model{}, nil, fmt.Errorf("event %s: %w", in.Series, err)
+		}
+		kind := in.Event.Kind
+		switch {
+		case past && kind == tf.Pulse:
+			lines = append(lines, fmt.Sprintf("%s: %s: the pulse is over, its term is left out", in.Series, pl.before(*in.Event)))
+			continue
+		case past:
+			at = 0 // on from the first sample, and held on before it
+			lines = append(lines, fmt.Sprintf("%s: %s: the step is on throughout", in.Series, pl.before(*in.Event)))
+		default:
+			lines = append(lines, fmt.Sprintf("%s: at live sample %d (%s): the %s comes at that sample", in.Series, at, pl.words, kind))
+		}
+		in.Event = &tf.Event{Kind: kind, Index: at}
+		in.Series = in.Event.String()
+		live.Inputs = append(live.Inputs, in)
+	}
+	if len(lines) == 0 {
+		return m, nil, nil
+	}
+	return live, lines, nil
+}
+
+// before says that an event falls before the stream.
+func (pl placement) before(ev tf.Event) string {
+	if pl.words == "" {
+		return "inside the fit's record, before the stream (no -from given; the event's time is before the service's clock)"
+	}
+	return "before the live stream (" + pl.words + ")"
+}
+
+// liveSample returns the live sample of ev, or past when it falls
+// before the stream's first sample.
+func (e entry) liveSample(ev tf.Event, pl placement, from *streamStart, now time.Time) (int, bool, error) {
+	if ev.At.IsZero() {
+		if !pl.known0 {
+			why := "the config does not say how long the fit's record was (no \"validity\" record)"
+			if from != nil {
+				why = "-from gives the stream's start as a time, and the config does not hold the time of the record's first sample"
+			}
+			return 0, false, fmt.Errorf("it is at sample %d of the fit's record, and %s: give -from '%s=SAMPLE', the record sample of the first live sample (the record's length when the stream follows the record)",
+				ev.Index, why, e.Name)
+		}
+		at := ev.Index - pl.p0
+		return at, at < 0, nil
+	}
+	if !pl.at.IsZero() {
+		at, err := ev.Sample(pl.at, e.Spec.Model.Interval)
+		if err != nil {
+			return 0, false, err
+		}
+		return at, at < 0, nil
+	}
+	fix := fmt.Sprintf("give -from '%s=TIME', the time of the first live sample (the stream's sample interval is the model's)", e.Name)
+	switch {
+	case from != nil:
+		return 0, false, fmt.Errorf("it is given as a time, and -from gives the stream's start as a record sample while the config does not hold the time of the record's first sample: %s", fix)
+	case e.Validity == nil:
+		return 0, false, fmt.Errorf("it is given as a time, and the config holds no record of the fit (\"validity\") that would place it before the stream: %s", fix)
+	case !ev.At.Before(now):
+		return 0, false, fmt.Errorf("it is given as a time after the service's clock (%s), so it cannot lie in the fit's record: %s", tf.FormatEventTime(now.UTC().Truncate(time.Second)), fix)
+	}
+	return -1, true, nil
+}
