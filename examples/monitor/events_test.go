@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -197,5 +198,48 @@ func TestEventsCommandLine(t *testing.T) {
 		if st != c.status || !strings.Contains(out.String()+errOut.String(), c.out) {
 			t.Errorf("%q: status %d, stdout %q, stderr %q; want %d, %q", c.args, st, out.String(), errOut.String(), c.status, c.out)
 		}
+	}
+}
+
+// TestEventsRestore checks that a loop with an event carries on after a
+// restart with the same placement, and that a restart with another -from
+// (which moves the event) is refused with that reason.
+func TestEventsRestore(t *testing.T) {
+	dir := t.TempDir()
+	now := time.Date(2026, 12, 5, 0, 0, 0, 0, time.UTC)
+	raw := eventConfig("0.5 / (1 - 0.7 B) step(600)", recordOf("1000"))
+	start := func(from map[string]streamStart) *service {
+		specs, err := decodeConfigAt(raw, nil, from, now)
+		if err != nil {
+			t.Fatal(err)
+		}
+		svc, err := newService("events", specs, 0, io.Discard)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return svc
+	}
+	a := start(map[string]streamStart{"air": {Index: 500}})
+	rec := greenhouse.Generate(greenhouse.Settings{Days: 1})
+	body := sampleLines(rec, 500, 550, nil, nil)
+	l := a.loops[0]
+	l.mu.Lock()
+	if _, _, err := l.feed(bytes.NewReader(body)); err != nil {
+		t.Fatal(err)
+	}
+	l.mu.Unlock()
+	a.close()
+	if err := a.save(dir); err != nil {
+		t.Fatal(err)
+	}
+	b := start(map[string]streamStart{"air": {Index: 500}})
+	defer b.close()
+	if n, err := b.restore(dir); n != 1 || err != nil || b.loops[0].pred.Count() != 50 {
+		t.Errorf("same -from: restored %d, %v", n, err)
+	}
+	c := start(nil)
+	defer c.close()
+	if _, err := c.restore(dir); err == nil || !strings.Contains(err.Error(), "give the -from the state was saved with") {
+		t.Errorf("other -from: %v", err)
 	}
 }
