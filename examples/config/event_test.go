@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"strings"
 	"testing"
 )
@@ -27,5 +28,26 @@ func TestEventHasNoRange(t *testing.T) {
 		if strings.Contains(s, "no range recorded") {
 			t.Errorf("%s: an event is reported as a series without a range:\n%s", c.event, s)
 		}
+	}
+}
+
+// TestValidityStart checks the record's start time: shown with the
+// record, refused (pointing at it) when it is not a time.
+func TestValidityStart(t *testing.T) {
+	raw := validityFile(`{"samples": 2000, "interval": "1 min", "start": "2026-03-28T12:00", "ranges": {"temp": [15, 16]}, "verdict": "passed"}`)
+	var out, errOut bytes.Buffer
+	if err := show(&out, &errOut, "s.json", raw); err != nil {
+		t.Fatal(err)
+	}
+	if want := "    fitted to 2000 samples every 1 min from 2026-03-28T12:00\n"; !strings.Contains(out.String(), want) {
+		t.Errorf("output lacks %q:\n%s", want, out.String())
+	}
+	v := `{"samples": 2000, "start": "28.3.2026 12:00", "ranges": {"temp": [15, 16]}, "verdict": "passed"}`
+	raw = validityFile(v)
+	_, err := Load("s.json", raw)
+	pointsAt(t, v, raw, err, `"28.3.2026`)
+	var p *Problem
+	if want := `"start" of the validity of model 1 ("m") is "28.3.2026 12:00"; write the time of the record's first sample as an event's time is written, such as "2026-03-28T12:00" or "2026-03-28T12:00+01:00"`; !errors.As(err, &p) || p.Msg != want {
+		t.Errorf("bad start: %v\nwant %s", err, want)
 	}
 }

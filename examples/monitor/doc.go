@@ -51,12 +51,14 @@
 // says where the stream starts instead: POS the record sample of its
 // first sample (a replay of part of the record) or that sample's time;
 // an event after it comes on at its live sample, counted at the model's
-// sample interval, one sample line each. A timed event without -from is
-// taken as past when the model carries its validity record and the time
-// is before the service's clock; an event the service cannot place (an
-// index event without a validity record, a timed one after the clock, a
-// record sample where a time is needed or the reverse, since the config
-// holds no start time of the record) is refused at start, naming -from.
+// sample interval, one sample line each. A validity record with the
+// time of the record's first sample ("start") places every event exactly
+// and takes -from in either form. Without it, a timed event without
+// -from is taken as past when the model carries its validity record and
+// the time is before the service's clock; an event the service cannot
+// place (an index event without a validity record, a timed one after the
+// clock, a record sample where a time is needed or the reverse) is
+// refused at start, naming -from.
 // The "stamp" of a sample line is an integer in the caller's unit and
 // places nothing.
 //

@@ -29,10 +29,13 @@ import (
 // time of the first live sample. Without it the stream is taken to start
 // right after the fit's record: at record sample "samples" of the
 // config's validity record, which examples/identify -save writes, so
-// that every event the fit placed in its record has happened. A timed
-// event is then taken as past too, when the model carries that record
-// (the fit placed it inside the record) and its time is before the
-// service's clock at start; otherwise -from must say where it falls. A
+// that every event the fit placed in its record has happened. When the
+// validity record also holds the time of the record's first sample
+// ("start"), record samples and times convert into each other, so every
+// event is placed exactly and -from may be either. Without it a timed
+// event is taken as past when the model carries its validity record (the
+// fit placed it inside the record) and its time is before the service's
+// clock at start; otherwise -from must say where it falls. A
 // sample line's "stamp" is an integer in the caller's unit, so it does
 // not place events: the live samples follow the first at the model's
 // sample interval, one line each.
@@ -62,28 +65,45 @@ func parseStreamStart(v string) (streamStart, error) {
 }
 
 // placement is what the service knows of where the stream starts: the
-// record sample p0 (when known0) and the time at (when not zero), and in
-// words.
+// record sample p0 (when known0) and the time at (when not zero), in
+// words, and the time rec of the record's first sample (when not zero).
 type placement struct {
 	p0     int
 	known0 bool
 	at     time.Time
 	words  string
+	rec    time.Time
 }
 
 // where returns the placement of e's stream: from the -from of the loop
-// (nil when not given), else right after the record of e's validity.
-func (e entry) where(from *streamStart) placement {
+// (nil when not given), else right after the record of e's validity. The
+// validity's start, when given, turns a -from time into a record sample.
+func (e entry) where(from *streamStart) (placement, error) {
+	var pl placement
+	if v := e.Validity; v != nil && v.Start != "" {
+		t, err := tf.ParseEventTime(v.Start)
+		if err != nil {
+			return pl, fmt.Errorf("the start %q of its validity record is not a time such as 2026-03-28T12:00", v.Start)
+		}
+		pl.rec = t
+	}
 	switch {
 	case from != nil && from.At.IsZero():
-		return placement{p0: from.Index, known0: true, words: fmt.Sprintf("the stream starts at record sample %d, by -from", from.Index)}
+		pl.p0, pl.known0, pl.words = from.Index, true, fmt.Sprintf("the stream starts at record sample %d, by -from", from.Index)
 	case from != nil:
-		return placement{at: from.At, words: "the stream starts at " + tf.FormatEventTime(from.At) + ", by -from"}
+		pl.at, pl.words = from.At, "the stream starts at "+tf.FormatEventTime(from.At)+", by -from"
+		if !pl.rec.IsZero() {
+			p0, err := tf.Event{Kind: tf.Step, At: from.At}.Sample(pl.rec, e.Spec.Model.Interval)
+			if err != nil {
+				return pl, fmt.Errorf("-from: %w", err)
+			}
+			pl.p0, pl.known0 = p0, true
+		}
 	case e.Validity != nil && e.Validity.Samples > 0:
 		n := e.Validity.Samples
-		return placement{p0: n, known0: true, words: fmt.Sprintf("the stream starts at record sample %d, right after the fit's record of %d samples", n, n)}
+		pl.p0, pl.known0, pl.words = n, true, fmt.Sprintf("the stream starts at record sample %d, right after the fit's record of %d samples", n, n)
 	}
-	return placement{}
+	return pl, nil
 }
 
 // placeEvents returns the model the loop's predictor runs, e's model
@@ -93,7 +113,10 @@ func (e entry) where(from *streamStart) placement {
 // returned as it is.
 func (e entry) placeEvents(from *streamStart, now time.Time) (tf.Model, []string, error) {
 	m := e.Spec.Model
-	pl := e.where(from)
+	pl, err := e.where(from)
+	if err != nil {
+		return tf.Model{}, nil, err
+	}
 	live := m.Clone()
 	live.Inputs = live.Inputs[:0]
 	var lines []string
@@ -142,7 +165,7 @@ func (e entry) liveSample(ev tf.Event, pl placement, from *streamStart, now time
 		if !pl.known0 {
 			why := "the config does not say how long the fit's record was (no \"validity\" record)"
 			if from != nil {
-				why = "-from gives the stream's start as a time, and the config does not hold the time of the record's first sample"
+				why = "-from gives the stream's start as a time, and the config does not hold the time of the record's first sample (\"start\" of its validity record)"
 			}
 			return 0, false, fmt.Errorf("it is at sample %d of the fit's record, and %s: give -from '%s=SAMPLE', the record sample of the first live sample (the record's length when the stream follows the record)",
 				ev.Index, why, e.Name)
@@ -150,17 +173,21 @@ func (e entry) liveSample(ev tf.Event, pl placement, from *streamStart, now time
 		at := ev.Index - pl.p0
 		return at, at < 0, nil
 	}
-	if !pl.at.IsZero() {
-		at, err := ev.Sample(pl.at, e.Spec.Model.Interval)
+	if !pl.at.IsZero() || (pl.known0 && !pl.rec.IsZero()) {
+		t0, p0 := pl.at, 0
+		if t0.IsZero() {
+			t0, p0 = pl.rec, pl.p0 // the event's record sample, less the stream's
+		}
+		at, err := ev.Sample(t0, e.Spec.Model.Interval)
 		if err != nil {
 			return 0, false, err
 		}
-		return at, at < 0, nil
+		return at - p0, at-p0 < 0, nil
 	}
 	fix := fmt.Sprintf("give -from '%s=TIME', the time of the first live sample (the stream's sample interval is the model's)", e.Name)
 	switch {
 	case from != nil:
-		return 0, false, fmt.Errorf("it is given as a time, and -from gives the stream's start as a record sample while the config does not hold the time of the record's first sample: %s", fix)
+		return 0, false, fmt.Errorf("it is given as a time, and -from gives the stream's start as a record sample while the config does not hold the time of the record's first sample (\"start\" of its validity record): %s", fix)
 	case e.Validity == nil:
 		return 0, false, fmt.Errorf("it is given as a time, and the config holds no record of the fit (\"validity\") that would place it before the stream: %s", fix)
 	case !ev.At.Before(now):

@@ -33,6 +33,11 @@ func recordOf(n string) string {
 	return `{"samples": ` + n + `, "interval": "1 min", "ranges": {}, "verdict": "passed"}`
 }
 
+// timedRecordOf is recordOf with the time of the record's first sample.
+func timedRecordOf(n, start string) string {
+	return `{"samples": ` + n + `, "interval": "1 min", "start": "` + start + `", "ranges": {}, "verdict": "passed"}`
+}
+
 // means feeds samples from..to-1 of rec, with effect added to the
 // output, to a loop of spec and returns the one-step predictions.
 func means(t *testing.T, spec loopSpec, rec greenhouse.Data, from, to int, effect []float64) []float64 {
@@ -106,6 +111,12 @@ func TestEventsOnTheStream(t *testing.T) {
 			"step(2026-03-28T22:00): at live sample 100 (the stream starts at 2026-03-28T20:20, by -from): the step comes at that sample"},
 		{"timed step before, default", "0.5 / (1 - 0.7 B) step(2026-03-28T22:00)", recordOf("1000"), nil, 600, 1000, true,
 			"step(2026-03-28T22:00): before the live stream (the stream starts at record sample 1000, right after the fit's record of 1000 samples): the step is on throughout"},
+		{"step inside, -from time, record start", "0.5 / (1 - 0.7 B) step(600)", timedRecordOf("1000", "2026-03-28T12:00"), map[string]streamStart{"air": {At: start.Add(500 * time.Minute)}}, 600, 500, true,
+			"step(600): at live sample 100 (the stream starts at 2026-03-28T20:20, by -from): the step comes at that sample"},
+		{"timed step inside, -from sample, record start", "0.5 / (1 - 0.7 B) step(2026-03-28T22:00)", timedRecordOf("1000", "2026-03-28T13:00+01:00"), map[string]streamStart{"air": {Index: 500}}, 600, 500, true,
+			"step(2026-03-28T22:00): at live sample 100 (the stream starts at record sample 500, by -from): the step comes at that sample"},
+		{"timed step after the record, record start", "0.5 / (1 - 0.7 B) step(2026-03-29T06:20)", timedRecordOf("1000", "2026-03-28T12:00"), nil, 1100, 1000, true,
+			"step(2026-03-29T06:20): at live sample 100 (the stream starts at record sample 1000, right after the fit's record of 1000 samples): the step comes at that sample"},
 		{"pulse before, default", "0.5 / (1 - 0.7 B) pulse(900)", recordOf("1000"), nil, 900, 1000, false,
 			"pulse(900): before the live stream (the stream starts at record sample 1000, right after the fit's record of 1000 samples): the pulse is over, its term is left out"},
 	} {
@@ -143,11 +154,13 @@ func TestEventsRefused(t *testing.T) {
 		{"index, no record", "0.5 step(600)", "", nil,
 			`model 1 ("air"): event step(600): it is at sample 600 of the fit's record, and the config does not say how long the fit's record was (no "validity" record): give -from 'air=SAMPLE'`},
 		{"index, -from time", "0.5 step(600)", recordOf("1000"), map[string]streamStart{"air": {At: now}},
-			"-from gives the stream's start as a time, and the config does not hold the time of the record's first sample: give -from 'air=SAMPLE'"},
+			`-from gives the stream's start as a time, and the config does not hold the time of the record's first sample ("start" of its validity record): give -from 'air=SAMPLE'`},
 		{"time, no record", "0.5 step(2026-03-28T22:00)", "", nil,
 			`event step(2026-03-28T22:00): it is given as a time, and the config holds no record of the fit ("validity") that would place it before the stream: give -from 'air=TIME'`},
 		{"time, -from sample", "0.5 step(2026-03-28T22:00)", recordOf("1000"), map[string]streamStart{"air": {Index: 3}},
-			"-from gives the stream's start as a record sample while the config does not hold the time of the record's first sample: give -from 'air=TIME'"},
+			`-from gives the stream's start as a record sample while the config does not hold the time of the record's first sample ("start" of its validity record): give -from 'air=TIME'`},
+		{"bad record start", "0.5 step(600)", `{"samples": 1000, "start": "noon", "ranges": {}, "verdict": "passed"}`, nil,
+			`model 1 ("air"): the start "noon" of its validity record is not a time`},
 		{"time after the clock", "0.5 step(2027-01-01)", recordOf("1000"), nil,
 			"it is given as a time after the service's clock (2026-12-05), so it cannot lie in the fit's record: give -from 'air=TIME'"},
 	} {
