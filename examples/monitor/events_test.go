@@ -205,6 +205,7 @@ func TestEventsCommandLine(t *testing.T) {
 		{[]string{"-config", noRecord}, 1, "monitor: -config " + noRecord + `: model 1 ("air"): event step(600): it is at sample 600 of the fit's record, and the config does not say how long`},
 		{[]string{"-config", withRecord, "-from", "air=soon"}, 2, `invalid value "air=soon" for flag -from: "soon" is neither a record sample`},
 		{[]string{"-config", withRecord, "-from", "1000"}, 2, "write the loop's name, '=' and a record sample or a time"},
+		{[]string{"-track", dir, "-from", "air=1000"}, 2, "monitor: -from places a served loop's events on its live stream; -track serves nothing: leave it out"},
 	} {
 		var out, errOut bytes.Buffer
 		st := run(ctx, append([]string{"-addr", "127.0.0.1:0"}, c.args...), &out, &errOut)

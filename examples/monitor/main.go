@@ -187,6 +187,8 @@ func (o *options) check(rest []string) error {
 		return &UsageError{errors.New("-restore is given without -state: name the folder that holds the states")}
 	case o.days != 0 && o.track == "":
 		return &UsageError{errors.New("-days is given without -track: it sets the length of the -track record")}
+	case o.track != "" && len(o.from) > 0:
+		return &UsageError{errors.New("-from places a served loop's events on its live stream; -track serves nothing: leave it out")}
 	case o.track != "" && (o.config != "" || o.state != "" || o.restore):
 		return &UsageError{errors.New("-track runs the built-in greenhouse scenario and serves nothing: leave out -config, -state and -restore")}
 	case o.track != "" && (o.days < 0 || o.days > maxTrackDays):
