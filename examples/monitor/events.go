@@ -52,8 +52,8 @@ type streamStart struct {
 func parseStreamStart(v string) (streamStart, error) {
 	v = strings.TrimSpace(v)
 	if i, err := strconv.Atoi(v); err == nil {
-		if i < 0 {
-			return streamStart{}, fmt.Errorf("the record sample %d is negative; the record's first sample is 0", i)
+		if i < 0 || i > tf.MaxEventIndex {
+			return streamStart{}, fmt.Errorf("the record sample %d is outside 0..%d; the record's first sample is 0", i, tf.MaxEventIndex)
 		}
 		return streamStart{Index: i}, nil
 	}

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -174,7 +175,8 @@ func TestEventsRefused(t *testing.T) {
 		t.Errorf("-from of an unknown loop: %v", err)
 	}
 	for _, c := range []struct{ v, want string }{
-		{"-3", "the record sample -3 is negative"},
+		{"-3", "the record sample -3 is outside 0..1073741824"},
+		{"9223372036854775807", "the record sample 9223372036854775807 is outside 0..1073741824"},
 		{"yesterday", `"yesterday" is neither a record sample`},
 	} {
 		if _, err := parseStreamStart(c.v); err == nil || !strings.Contains(err.Error(), c.want) {
@@ -256,4 +258,37 @@ func TestEventsRestore(t *testing.T) {
 	if _, err := c.restore(dir); err == nil || !strings.Contains(err.Error(), "give the -from the state was saved with") {
 		t.Errorf("other -from: %v", err)
 	}
+}
+
+// FuzzPlaceEvents places an event of any kind, sample or time, against a
+// stream start of any text and a record of any length and start time:
+// each is placed or refused with an error, never a panic, and a placed
+// model builds a loop (its events within the predictor's range).
+func FuzzPlaceEvents(f *testing.F) {
+	f.Add("step(600)", "1000", "2026-03-28T12:00", 1000)
+	f.Add("pulse(2026-03-28T22:00)", "2026-03-28T20:20", "", 1000)
+	f.Add("step(2026-03-28T22:00)", "1073741824", "2026-03-28T12:00+01:00", 5)
+	f.Add("pulse(5)", "", "1999-01-01", 0)
+	now := time.Date(2026, 12, 5, 0, 0, 0, 0, time.UTC)
+	f.Fuzz(func(t *testing.T, event, from, start string, samples int) {
+		if strings.ContainsAny(event+start, "\"\\") || samples < 0 {
+			return
+		}
+		v := `{"samples": ` + strconv.Itoa(samples) + `, "start": "` + start + `", "ranges": {}, "verdict": "passed"}`
+		var fr map[string]streamStart
+		if from != "" {
+			s, err := parseStreamStart(from)
+			if err != nil {
+				return
+			}
+			fr = map[string]streamStart{"air": s}
+		}
+		specs, err := decodeConfigAt(eventConfig("0.5 / (1 - 0.7 B) "+event, v), nil, fr, now)
+		if err != nil {
+			return
+		}
+		if _, err := newLoop(specs[0], 0, make(chan monitor.Alarm, 1)); err != nil {
+			t.Errorf("%s against %q, record of %d from %q: placed (%q) but the loop is refused: %v", event, from, samples, start, specs[0].Events, err)
+		}
+	})
 }
