@@ -132,11 +132,11 @@ func (e entry) placeEvents(from *streamStart, now time.Time) (tf.Model, []string
 		kind := in.Event.Kind
 		switch {
 		case past && kind == tf.Pulse:
-			lines = append(lines, fmt.Sprintf("%s: %s: the pulse is over, its term is left out", in.Series, pl.before(*in.Event)))
+			lines = append(lines, fmt.Sprintf("%s: %s: the pulse is over, its term is left out", in.Series, pl.before()))
 			continue
 		case past:
 			at = 0 // on from the first sample, and held on before it
-			lines = append(lines, fmt.Sprintf("%s: %s: the step is on throughout", in.Series, pl.before(*in.Event)))
+			lines = append(lines, fmt.Sprintf("%s: %s: the step is on throughout", in.Series, pl.before()))
 		default:
 			lines = append(lines, fmt.Sprintf("%s: at live sample %d (%s): the %s comes at that sample", in.Series, at, pl.words, kind))
 		}
@@ -151,7 +151,7 @@ func (e entry) placeEvents(from *streamStart, now time.Time) (tf.Model, []string
 }
 
 // before says that an event falls before the stream.
-func (pl placement) before(ev tf.Event) string {
+func (pl placement) before() string {
 	if pl.words == "" {
 		return "inside the fit's record, before the stream (no -from given; the event's time is before the service's clock)"
 	}
