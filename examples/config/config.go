@@ -365,7 +365,7 @@ func (l *loader) spec(v *jval, what string) *tf.Model {
 // validity checks the record of the data a model was fitted to.
 func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	what := "the validity of " + of
-	ks := l.keys(v, what, "samples", "interval", "ranges", "verdict", "failures", "forced")
+	ks := l.keys(v, what, "samples", "interval", "start", "ranges", "verdict", "failures", "forced")
 	if m := ks["samples"]; m == nil {
 		l.missing(v, "samples", `%s has no "samples" (the number of samples of the record)`, what)
 	} else if l.want(m, what, jNumber, "a whole number of samples") {
@@ -375,6 +375,11 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	}
 	if m := ks["interval"]; m != nil && l.want(m, what, jString, `a string such as "1 min"`) && model != nil {
 		l.interval(m.val, what, model.Interval)
+	}
+	if m := ks["start"]; m != nil && l.want(m, what, jString, `the time of the record's first sample, such as "2026-03-28T12:00"`) {
+		if _, err := tf.ParseEventTime(m.val.str); err != nil {
+			l.fail(m.val.start, `"start" of %s is %q; write the time of the record's first sample as an event's time is written, such as "2026-03-28T12:00" or "2026-03-28T12:00+01:00"`, what, m.val.str)
+		}
 	}
 	verdict := ""
 	if m := ks["verdict"]; m == nil {

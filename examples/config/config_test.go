@@ -277,7 +277,7 @@ func TestValidityProblems(t *testing.T) {
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "fine"}`, `"fine"`,
 			`"verdict" of the validity of model 1 ("m") is "fine"; it must be "passed" or "failed"`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdcit": "failed"}`, `"verdcit"`,
-			`unknown key "verdcit" in the validity of model 1 ("m") (known: samples, interval, ranges, verdict, failures, forced); did you mean "verdict"?`},
+			`unknown key "verdcit" in the validity of model 1 ("m") (known: samples, interval, start, ranges, verdict, failures, forced); did you mean "verdict"?`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}}`, `{"samples"`, `the validity of model 1 ("m") has no "verdict"; it is "passed" or "failed"`},
 		{`{"samples": 0, "ranges": {"temp": [1, 2]}, "verdict": "passed"}`, `0,`,
 			`"samples" of the validity of model 1 ("m") is 0; it must be a whole number of samples, at least 1, written without a decimal point or exponent`},

@@ -34,7 +34,10 @@
 // (modelinfo.Validity: the record's sample count and interval, the range
 // of each series, the verdict of the checks, the failures and whether
 // the save was forced). A model without one is printed with "its range
-// of validity is unknown". One whose verdict is "failed" is flagged in
+// of validity is unknown"; a series of the spec without a recorded range
+// is named, except an event input (step(T), pulse(T)), a 0/1 indicator
+// of a known intervention, which is shown as the event at its record
+// sample or time. One whose verdict is "failed" is flagged in
 // capitals beside the model, in the heading and on standard error. The
 // record is checked against its spec: the interval must agree with the
 // spec's every clause, the ranges must name series of the spec, each

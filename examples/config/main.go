@@ -8,10 +8,12 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"strconv"
 	"strings"
 
 	"github.com/backshift/backshift/examples/internal/cmdline"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/tf"
 )
 
 //go:embed greenhouse.json
@@ -150,7 +152,9 @@ func show(stdout, stderr io.Writer, name string, raw []byte) error {
 		e.Validity.Write(stdout, "    ")
 		if e.Validity != nil {
 			for _, s := range append([]string{e.Spec.Model.Output}, inputNames(e)...) {
-				if _, ok := e.Validity.Ranges[s]; !ok {
+				if ev := eventOf(e, s); ev != nil {
+					fmt.Fprintf(stdout, "      %s: %s\n", s, eventLine(*ev))
+				} else if _, ok := e.Validity.Ranges[s]; !ok {
 					fmt.Fprintf(stdout, "      %s: no range recorded; its range of validity is unknown\n", s)
 				}
 			}
@@ -166,4 +170,25 @@ func inputNames(e Entry) []string {
 		out = append(out, in.Series)
 	}
 	return out
+}
+
+// eventOf returns the event of the input series s of e, or nil when s is
+// not an event input.
+func eventOf(e Entry, s string) *tf.Event {
+	for _, in := range e.Spec.Model.Inputs {
+		if in.Series == s && in.Event != nil {
+			return in.Event
+		}
+	}
+	return nil
+}
+
+// eventLine says what an event input is: a 0/1 indicator of a known
+// intervention, which has no range of values to record.
+func eventLine(ev tf.Event) string {
+	at := "sample " + strconv.Itoa(ev.Index) + " of the record"
+	if !ev.At.IsZero() {
+		at = tf.FormatEventTime(ev.At)
+	}
+	return "an event (a known intervention: a " + ev.Kind.String() + " at " + at + "), a 0/1 indicator with no range to record"
 }

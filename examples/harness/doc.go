@@ -103,7 +103,9 @@
 // the output temp (degC, not differenced: every scenario starts from a
 // steady state), an input valve (%), optionally an input outdoor (degC)
 // and no other input (it would be held at 0: a misspelt name is refused
-// with the likely fix), every coefficient a number or held with
+// with the likely fix; an event term, step(T) or pulse(T), a known
+// intervention in the fit's record, is left out of the plant and the
+// summary says so), every coefficient a number or held with
 // "where name = value" (a free coefficient has no known value), and a
 // sample interval "every ..." from 0.1 s to 2 min. The longest is a tenth
 // of the PI's integral time (common practice: sample a PI loop at least

@@ -39,6 +39,7 @@ func resolve(o options) (*plant, error) {
 	if err := checkVerdict(pl.validity, o.useFailed); err != nil {
 		return nil, pl.fail(err)
 	}
+	pl.spec, pl.events = withoutEvents(pl.spec)
 	p, err := NewProcess(pl.spec, 0, 0)
 	if err != nil {
 		return nil, pl.fail(err)

@@ -129,6 +129,8 @@ type plant struct {
 	proc     *Process
 	saved    *savedModel // nil for -spec
 	validity *modelinfo.Validity
+	// events are the event terms left out of spec (withoutEvents).
+	events []leftOutEvent
 	// pi is the PI under test.
 	pi PITuning
 	// u1 and u2 are the valve openings that hold the starting points of
@@ -177,6 +179,7 @@ func runWith(w io.Writer, o options) error {
 // came from.
 func writePlant(w io.Writer, pl *plant, o options) {
 	fmt.Fprintf(w, "plant: %s\n", pl.spec)
+	writeLeftOut(w, pl.events)
 	if pl.saved != nil {
 		fmt.Fprintf(w, "  model %q of %s\n", pl.saved.Name, o.config)
 		pl.validity.Write(w, "  ")

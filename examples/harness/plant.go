@@ -98,7 +98,8 @@ type Process struct {
 // named temp that is not differenced (the scenarios start from a steady
 // state, which an integrating plant does not have at a fixed valve), a
 // sample interval ("every 1 min") from 0.1 s to 2 min, an input named
-// valve and optionally one named outdoor and no other, every coefficient
+// valve and optionally one named outdoor and no other (an event term is
+// refused here; resolve leaves it out first), every coefficient
 // a number or held at a value (a free coefficient has no known value),
 // a stable valve path with a positive steady-state gain (the PI is
 // direct acting: more valve, more heat), and a stable outdoor path (an
@@ -167,6 +168,10 @@ func (p *Process) check() error {
 		case outdoorName:
 			p.out = i
 		default:
+			if in.Event != nil {
+				return &PlantError{Part: "input " + in.Series, Pos: in.Pos, Problem: fmt.Sprintf(
+					"is an event (a known intervention in the record the model was fitted to), not an input the harness drives (%s and %s); leave its term out, as -spec and -config do", valveName, outdoorName)}
+			}
 			fix := suggest.DidYouMean(in.Series, valveName, outdoorName)
 			if fix == "" {
 				fix = "rename it to one of those, or remove its term"

@@ -9,6 +9,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/backshift/backshift/examples/internal/cmdline"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
@@ -38,6 +39,11 @@ type loopSpec struct {
 	Name  string
 	Model tf.Model
 	Sigma float64
+	// Live is the model the predictor runs: Model with its events placed
+	// on the live stream (entry.placeEvents), or the zero Model when it
+	// is Model itself. Events says where each event falls, one line each.
+	Live   tf.Model
+	Events []string
 }
 
 // stampKey is the key of a sample line that holds its time stamp; no
@@ -49,13 +55,15 @@ const stampKey = "stamp"
 var residualSD = regexp.MustCompile(`residual SD ([0-9.eE+-]+)`)
 
 // readConfig reads and checks the config file name; sigmas holds the
-// noise standard deviations given on the command line, by loop name.
-func readConfig(name string, sigmas map[string]float64) ([]loopSpec, error) {
+// noise standard deviations given on the command line, by loop name, and
+// from where the loops' live streams start (-from), now the clock at
+// start (see placeEvents).
+func readConfig(name string, sigmas map[string]float64, from map[string]streamStart, now time.Time) ([]loopSpec, error) {
 	raw, err := cmdline.ReadConfig(name)
 	if err != nil {
 		return nil, fmt.Errorf("-config %s: %w", name, err)
 	}
-	loops, err := decodeConfig(raw, sigmas)
+	loops, err := decodeConfigAt(raw, sigmas, from, now)
 	if err != nil {
 		return nil, fmt.Errorf("-config %s: %w", name, err)
 	}
@@ -65,8 +73,15 @@ func readConfig(name string, sigmas map[string]float64) ([]loopSpec, error) {
 // decodeConfig decodes a config and turns its models into loops. Unknown
 // keys are refused, as examples/config refuses them (a misspelt key would
 // otherwise be dropped silently); examples/config -file gives the
-// positioned check of a file.
+// positioned check of a file. Events are placed with no -from, by the
+// clock now.
 func decodeConfig(raw []byte, sigmas map[string]float64) ([]loopSpec, error) {
+	return decodeConfigAt(raw, sigmas, nil, time.Now())
+}
+
+// decodeConfigAt is decodeConfig with the -from of the loops, by name,
+// and the clock at start.
+func decodeConfigAt(raw []byte, sigmas map[string]float64, from map[string]streamStart, now time.Time) ([]loopSpec, error) {
 	var c config
 	dec := json.NewDecoder(bytes.NewReader(bytes.TrimPrefix(raw, []byte{0xef, 0xbb, 0xbf})))
 	dec.DisallowUnknownFields()
@@ -80,6 +95,13 @@ func decodeConfig(raw []byte, sigmas map[string]float64) ([]loopSpec, error) {
 	seen := map[string]bool{}
 	for i, e := range c.Models {
 		l, err := e.loop(sigmas)
+		if err == nil {
+			var f *streamStart
+			if s, ok := from[e.Name]; ok {
+				f = &s
+			}
+			l.Live, l.Events, err = e.placeEvents(f, now)
+		}
 		if err != nil {
 			return nil, fmt.Errorf("model %d (%q): %w", i+1, e.Name, err)
 		}
@@ -92,6 +114,11 @@ func decodeConfig(raw []byte, sigmas map[string]float64) ([]loopSpec, error) {
 	for name := range sigmas {
 		if !seen[name] {
 			return nil, &UsageError{fmt.Errorf("-sigma names %q, which is not a model of the config (%s)", name, names(loops))}
+		}
+	}
+	for name := range from {
+		if !seen[name] {
+			return nil, &UsageError{fmt.Errorf("-from names %q, which is not a model of the config (%s)", name, names(loops))}
 		}
 	}
 	return loops, nil

@@ -6,6 +6,7 @@
 //
 //	go run ./examples/monitor                                  # the built-in greenhouse loop
 //	go run ./examples/monitor -config fitted.json -state DIR -restore
+//	go run ./examples/monitor -config fitted.json -from 'temp (identified)=1600'  # a replay from record sample 1600
 //	go run ./examples/monitor -track DIR                        # re-estimation pictures, no serving
 //
 // # Loops
@@ -34,6 +35,32 @@
 // in-control average run length of each of its three tests (default
 // 10080 samples, a week at one sample a minute); with three tests the
 // loop alarms falsely about three times as often.
+//
+// # Events
+//
+// A model's event (step(T), pulse(T): a known intervention such as a
+// level shift the fit found) is placed in the record the model was
+// fitted to, by record sample or time; the service places it on the live
+// stream before it builds the loop's predictor, and prints where each
+// falls ("event step(1500): before the live stream ...: the step is on
+// throughout"; also "events" in the loop's state). By default the stream
+// starts right after the fit's record (at record sample "samples" of the
+// validity record identify -save writes), so every event the fit found
+// has happened: a step is on throughout (its path starts at its steady
+// state) and a pulse is over (its term is left out). -from 'loop=POS'
+// says where the stream starts instead: POS the record sample of its
+// first sample (a replay of part of the record) or that sample's time;
+// an event after it comes on at its live sample, counted at the model's
+// sample interval, one sample line each. A validity record with the
+// time of the record's first sample ("start") places every event exactly
+// and takes -from in either form. Without it, a timed event without
+// -from is taken as past when the model carries its validity record and
+// the time is before the service's clock; an event the service cannot
+// place (an index event without a validity record, a timed one after the
+// clock, a record sample where a time is needed or the reverse) is
+// refused at start, naming -from.
+// The "stamp" of a sample line is an integer in the caller's unit and
+// places nothing.
 //
 // # Routes
 //

@@ -43,7 +43,11 @@ type loop struct {
 // monitor's in-control average run length per test, out receives its
 // alarms (by a send that never waits).
 func newLoop(spec loopSpec, arl float64, out chan<- monitor.Alarm) (*loop, error) {
-	p, err := predict.New(spec.Model, spec.Sigma*spec.Sigma, nil)
+	m := spec.Live
+	if m.Output == "" {
+		m = spec.Model
+	}
+	p, err := predict.New(m, spec.Sigma*spec.Sigma, nil)
 	if err != nil {
 		return nil, fmt.Errorf("loop %q: %w", spec.Name, err)
 	}

@@ -47,6 +47,7 @@ into DIR.
 Examples:
   go run ./examples/monitor                                   # the built-in greenhouse loop
   go run ./examples/monitor -config fitted.json -state /var/lib/monitor -restore
+  go run ./examples/monitor -config fitted.json -from 'temp (identified)=1600'   # a replay from record sample 1600
   go run ./examples/monitor -track /tmp/track                 # pictures of re-estimation
   curl -X POST --data-binary @samples.jsonl localhost:8080/loops/air%20temperature/samples
 
@@ -70,6 +71,8 @@ type options struct {
 	days                int    // record length of -track, 0 the default
 	arl                 float64
 	sigmas              map[string]float64
+	from                map[string]streamStart // -from, by loop name
+	now                 time.Time              // the clock at start, for placing timed events
 }
 
 func main() {
@@ -134,7 +137,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 
 // parseFlags reads the command line.
 func parseFlags(args []string, stderr io.Writer) (*options, int, bool) {
-	o := &options{sigmas: map[string]float64{}}
+	o := &options{sigmas: map[string]float64{}, from: map[string]streamStart{}, now: time.Now()}
 	fs := flag.NewFlagSet("monitor", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	fs.StringVar(&o.config, "config", "", "model config `file` in the format of examples/config (default: the built-in greenhouse loop)")
@@ -149,6 +152,18 @@ func parseFlags(args []string, stderr io.Writer) (*options, int, bool) {
 			return fmt.Errorf("write the loop's name, '=' and a number, as in -sigma 'air temperature=0.03'")
 		}
 		o.sigmas[name] = f
+		return nil
+	})
+	fs.Func("from", "where a loop's live stream starts against the record its model was fitted to, `name=POS`: the record sample of the first live sample, or its time (2026-03-30T08:00); it places the model's events (step, pulse) on the stream (default: right after the fit's record, so that its events have happened)", func(v string) error {
+		name, pos, ok := strings.Cut(v, "=")
+		if !ok || name == "" {
+			return fmt.Errorf("write the loop's name, '=' and a record sample or a time, as in -from 'temp (identified)=2000'")
+		}
+		s, err := parseStreamStart(pos)
+		if err != nil {
+			return err
+		}
+		o.from[name] = s
 		return nil
 	})
 	fs.StringVar(&o.track, "track", "", "instead of serving, re-estimate the built-in greenhouse model over a record with a planted valve gain change and write pictures of the estimates into `folder`")
@@ -172,6 +187,8 @@ func (o *options) check(rest []string) error {
 		return &UsageError{errors.New("-restore is given without -state: name the folder that holds the states")}
 	case o.days != 0 && o.track == "":
 		return &UsageError{errors.New("-days is given without -track: it sets the length of the -track record")}
+	case o.track != "" && len(o.from) > 0:
+		return &UsageError{errors.New("-from places a served loop's events on its live stream; -track serves nothing: leave it out")}
 	case o.track != "" && (o.config != "" || o.state != "" || o.restore):
 		return &UsageError{errors.New("-track runs the built-in greenhouse scenario and serves nothing: leave out -config, -state and -restore")}
 	case o.track != "" && (o.days < 0 || o.days > maxTrackDays):
@@ -197,10 +214,10 @@ func build(o *options, stdout io.Writer) (*service, error) {
 	var err error
 	site := "built-in greenhouse loop"
 	if o.config == "" {
-		specs, err = decodeConfig(builtin, o.sigmas)
+		specs, err = decodeConfigAt(builtin, o.sigmas, o.from, o.now)
 	} else {
 		site = o.config
-		specs, err = readConfig(o.config, o.sigmas)
+		specs, err = readConfig(o.config, o.sigmas, o.from, o.now)
 	}
 	if err != nil {
 		return nil, err
@@ -212,6 +229,9 @@ func build(o *options, stdout io.Writer) (*service, error) {
 	fmt.Fprintf(stdout, "%s\n\n", caution)
 	for _, l := range svc.loops {
 		fmt.Fprintf(stdout, "loop %q: %s (noise SD %g; inputs in the order %s)\n", l.spec.Name, l.spec.Model, l.spec.Sigma, quoted(l.inputs))
+		for _, e := range l.spec.Events {
+			fmt.Fprintf(stdout, "  event %s\n", e)
+		}
 	}
 	if o.restore {
 		n, err := svc.restore(o.state)

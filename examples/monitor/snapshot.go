@@ -109,6 +109,9 @@ func (l *loop) restore(raw []byte) error {
 	// refusing its part leaves the loop whole.
 	p := l.pred.Clone()
 	if err := p.UnmarshalBinary(snap.Predictor); err != nil {
+		if errors.Is(err, predict.ErrOtherModel) && len(l.spec.Events) > 0 {
+			return fmt.Errorf("predictor: %w; the model's events are placed on the stream by -from (or its default): give the -from the state was saved with", err)
+		}
 		return fmt.Errorf("predictor: %w", err)
 	}
 	if err := l.mon.UnmarshalBinary(snap.Monitor); err != nil {

@@ -75,6 +75,7 @@ type loopState struct {
 	Model    string   `json:"model"`
 	Output   string   `json:"output"`
 	Inputs   []string `json:"inputs"`
+	Events   []string `json:"events,omitempty"` // where each event of the model falls on the stream
 	Sigma    num      `json:"sigma"`
 	Samples  int64    `json:"samples"`
 	Missing  int64    `json:"missing_outputs"`
@@ -102,7 +103,7 @@ func (l *loop) state() loopState {
 	defer l.mu.Unlock()
 	st := l.mon.Status()
 	s := loopState{
-		Loop: l.spec.Name, Model: l.spec.Model.String(), Output: l.spec.Model.Output, Inputs: l.inputs,
+		Loop: l.spec.Name, Model: l.spec.Model.String(), Output: l.spec.Model.Output, Inputs: l.inputs, Events: l.spec.Events,
 		Sigma: num(l.spec.Sigma), Samples: l.samples, Missing: l.missing,
 		Settling: l.pred.Count() < l.pred.First(),
 		Watching: l.pred.Count() > l.watchFrom,

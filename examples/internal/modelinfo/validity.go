@@ -16,6 +16,12 @@ type Validity struct {
 	Samples int `json:"samples"`
 	// Interval is the sample interval as written in the spec ("1 min").
 	Interval string `json:"interval,omitempty"`
+	// Start is the time of the record's first sample as an event's time
+	// is written ("2026-03-28T12:00", tf.FormatEventTime), when the record
+	// has a time column, else empty. With Samples and Interval it places
+	// the record on the clock, so that a service running the model knows
+	// where its live stream sits against the model's events.
+	Start string `json:"start,omitempty"`
 	// Ranges holds the smallest and largest value of each series of the
 	// record (the output and every input), by series name.
 	Ranges map[string][2]float64 `json:"ranges"`
@@ -59,6 +65,9 @@ func (v *Validity) Write(w io.Writer, indent string) {
 	fmt.Fprintf(w, "%sfitted to %d samples", indent, v.Samples)
 	if v.Interval != "" {
 		fmt.Fprintf(w, " every %s", v.Interval)
+	}
+	if v.Start != "" {
+		fmt.Fprintf(w, " from %s", v.Start)
 	}
 	fmt.Fprintln(w)
 	names := make([]string, 0, len(v.Ranges))
