@@ -20,9 +20,13 @@ import (
 //	Innovational     y_t + w psi(B) I_t(T)           a shock passed through the noise model
 //
 // psi(B) = theta(B) / (phi(B) D(B)) is the noise model with its
-// differencing D(B). As a known event in a spec (package parse) an
-// additive outlier is w pulse(T), a level shift w step(T) and a
-// temporary change w / (1 - d B) pulse(T).
+// differencing D(B). As a known event in a spec (package parse;
+// tf.Model.WithOutliers) the disturbance enters the model's differenced
+// equation through D(B): an additive outlier is w D(B) pulse(T), a
+// level shift w D(B) step(T) (w pulse(T) when D(B) = 1 - B), a
+// temporary change w D(B) / (1 - d B) pulse(T); without differencing,
+// w pulse(T), w step(T) and w / (1 - d B) pulse(T). An innovational
+// outlier is a shock of the noise, not an input term.
 type OutlierKind int
 
 // The outlier kinds.

@@ -142,14 +142,16 @@
 // v_t F_t^(-1/2) (prod F)^(1/(2N)), whose sum of squares is least at the
 // maximum likelihood, with a forward-difference Jacobian (steps 2^-26
 // max(|x_k|, 1)), and ends with up to three Newton steps on the
-// central-difference Hessian of -logL (kalman.Curvature, steps h_k =
-// min(2^-13 max(|x_k|, 1), 0.1 s_k), s_k the conditional standard
-// error of parameter k from the Gauss-Newton information at the
-// search's end: the likelihood departs from its quadratic form on that
-// scale, far below the marginal standard error for correlated
-// parameters such as a gain and a slow pole, and a parameter far below
-// one, such as the gain of an input recorded in large units, gets a
-// step small against it), each kept only when the likelihood rises. The
+// central-difference Hessian of -logL (kalman.Polish and
+// kalman.Information: differences along the axes that the
+// Gauss-Newton information at the search's end makes uncorrelated, 0.1
+// conditional standard error or less and no more than
+// 2^-13 max(|x_k|, 1) in any parameter; axis steps where that guide is
+// poor. The likelihood departs from its quadratic form on the scale of
+// the conditional standard error, far below the marginal one for
+// correlated parameters such as a gain and a slow pole, and a parameter
+// far below one, such as the gain of an input recorded in large units,
+// gets a step small against it), each kept only when the likelihood rises. The
 // covariance of the estimates is the inverse of that Hessian, the
 // observed information (NaN when it is not positive definite). A noise
 // AR part must stay stationary and an MA part that starts invertible

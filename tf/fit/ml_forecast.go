@@ -28,7 +28,7 @@ func (e *Estimate) forecastML(data map[string][]float64, h int, set ForecastSett
 	}
 	dc := w.m.Diff.Coeffs()
 	what := make([]float64, h) // the input terms of D(B) y over the horizon
-	if err := w.forecastInputs(fc, set, n, h, dc, vr, what); err != nil {
+	if err := fc.addInputs(w, set, n, h, dc, vr, what); err != nil {
 		return nil, err
 	}
 	se := make([]float64, n+h)
@@ -52,20 +52,4 @@ func (e *Estimate) forecastML(data map[string][]float64, h int, set ForecastSett
 			Message: "the estimate is not to be trusted, nor forecasts from it: " + strings.Join(bad, "; ")})
 	}
 	return fc, nil
-}
-
-// forecastInputs adds each input's terms over the horizon to what (by
-// forecastInput) and its InputForecast and any warning to fc.
-func (w *work) forecastInputs(fc *Forecast, set ForecastSettings, n, h int, dc, vr, what []float64) error {
-	for i := range w.ins {
-		ifc, warn, err := forecastInput(&w.ins[i], set, n, h, dc, vr, what)
-		if err != nil {
-			return err
-		}
-		if warn != nil {
-			fc.Warnings = append(fc.Warnings, *warn)
-		}
-		fc.Inputs = append(fc.Inputs, ifc)
-	}
-	return nil
 }

@@ -49,9 +49,12 @@ type GapFill struct {
 	// MaxLen is the longest gap, in samples, that Rule fills; a longer
 	// one is refused with its position. Zero means 3 samples: a short
 	// dropout of a sensor or a link, across which a held or interpolated
-	// input differs little from the truth for a process slower than a
-	// few samples (common practice). A long gap is better cut out of the
-	// record (fit the stretches before or after it).
+	// input differs little from the truth when the input does not move
+	// during the gap: the fill error is what the input moved in the gap,
+	// whatever the process's speed (a step inside the gap is not made
+	// harmless by a slow process; Model warns with FilledGapMove)
+	// (common practice). A long gap is better cut out of the record (fit
+	// the stretches before or after it).
 	MaxLen int
 }
 
