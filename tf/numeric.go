@@ -109,23 +109,36 @@ func (m Model) Params() []Coef {
 	return out
 }
 
-// eachCoefCopy calls fn with a copy of every coefficient of m in written
-// order: the constant, then each input's numerator and denominator, then
-// the noise's MA and AR polynomials (differencing holds no names). The
-// order of Params and of a printed spec's where-list.
-func (m Model) eachCoefCopy(fn func(c *Coef)) {
+// EachParam calls fn with a pointer to every coefficient of m that
+// can be a parameter (named ones, and the numbers written in the spec,
+// whose Name is empty), in written order: the constant, then each input's
+// numerator and denominator, then the noise's MA and AR polynomials.
+// Differencing polynomials are not visited: they hold fixed numbers. The
+// order is that of Params and of a printed spec's where-list. The
+// pointers are into m's own polynomials, which m shares with every copy
+// of it that is not a Clone: to change coefficients, call EachParam on
+// a Clone.
+func (m Model) EachParam(fn func(c *Coef)) {
 	if m.Const != nil {
-		c := *m.Const
-		fn(&c)
+		fn(m.Const)
 	}
 	for _, in := range m.Inputs {
-		eachCoefCopy(in.Num, fn)
-		eachCoefCopy(in.Den, fn)
+		in.Num.Each(fn)
+		in.Den.Each(fn)
 	}
 	if m.Noise != nil {
-		eachCoefCopy(m.Noise.MA, fn)
-		eachCoefCopy(m.Noise.AR, fn)
+		m.Noise.MA.Each(fn)
+		m.Noise.AR.Each(fn)
 	}
+}
+
+// eachCoefCopy calls fn with a copy of every coefficient EachParam
+// visits, in the same order, so that fn cannot change m.
+func (m Model) eachCoefCopy(fn func(c *Coef)) {
+	m.EachParam(func(c *Coef) {
+		cp := *c
+		fn(&cp)
+	})
 }
 
 // clockUnits and calendarUnits are the units of a sample interval: the

@@ -96,3 +96,36 @@ func TestIntervalUnits(t *testing.T) {
 		}
 	}
 }
+
+// EachParam visits the constant, each input's numerator and denominator
+// and the noise's MA and AR coefficients in written order (the order of
+// Params), skips differencing, and hands out pointers into the model:
+// a change made through them on a Clone shows in the clone only.
+func TestEachParam(t *testing.T) {
+	m := parse.MustModel("(1 - B) y = c + (w0 + w1 B) / (1 - d1 B) B^2 x + (1 - t1 B) / (1 - p1 B) a; where c ~ 1, w0 ~ 2, w1 ~ 3, d1 ~ 0.5, t1 ~ 0.2, p1 ~ 0.4")
+	var names []string
+	m.EachParam(func(c *tf.Coef) {
+		if c.Name != "" { // a number written in the spec, such as the 1 of (1 - t1 B)
+			names = append(names, c.Name)
+		}
+	})
+	want := []string{"c", "w0", "w1", "d1", "t1", "p1"}
+	if !slices.Equal(names, want) {
+		t.Fatalf("EachParam visited %v, want %v", names, want)
+	}
+	var params []string
+	for _, p := range m.Params() {
+		params = append(params, p.Name)
+	}
+	if !slices.Equal(params, want) {
+		t.Errorf("Params gives %v, EachParam's order is %v", params, want)
+	}
+	cl := m.Clone()
+	cl.EachParam(func(c *tf.Coef) { c.Value *= 10 })
+	if got := cl.Params()[1].Value; got != 20 {
+		t.Errorf("w0 of the changed clone = %v, want 20", got)
+	}
+	if got := m.Params()[1].Value; got != 2 {
+		t.Errorf("w0 of the original = %v after changing a clone, want 2", got)
+	}
+}

@@ -201,16 +201,6 @@ func (s *nameSet) add(name string) bool {
 	return true
 }
 
-// eachCoefCopy calls fn with a copy of every coefficient of p, in written order.
-func eachCoefCopy(p Poly, fn func(c *Coef)) {
-	for _, f := range p.Factors {
-		for _, t := range f.Terms {
-			c := t.Coef
-			fn(&c)
-		}
-	}
-}
-
 // String returns the input term as spec text, such as
 // "(w0 + w1 B) / (1 - d1 B) B^4 burner", "1 ((1 - B) feed)" or, for an
 // event, "k / (1 - d1 B) step(120)".

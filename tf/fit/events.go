@@ -137,19 +137,11 @@ func holdNames(m *tf.Model, names []string) {
 			c.Free = false
 		}
 	}
-	if m.Const != nil {
-		fix(m.Const)
-	}
 	m.Diff.Each(fix)
 	for _, in := range m.Inputs {
-		in.Num.Each(fix)
-		in.Den.Each(fix)
 		in.Diff.Each(fix)
 	}
-	if m.Noise != nil {
-		m.Noise.MA.Each(fix)
-		m.Noise.AR.Each(fix)
-	}
+	m.EachParam(fix)
 }
 
 // dropEventPlanWarnings removes the PlanOutsideRecord warnings of event

@@ -430,18 +430,7 @@ func bindModel(m tf.Model) (binding, error) {
 		}
 		b.coefs[k] = append(b.coefs[k], c)
 	}
-	if b.m.Const != nil {
-		add(b.m.Const)
-	}
-	for i := range b.m.Inputs {
-		in := &b.m.Inputs[i]
-		in.Num.Each(add)
-		in.Den.Each(add)
-	}
-	if b.m.Noise != nil {
-		b.m.Noise.MA.Each(add)
-		b.m.Noise.AR.Each(add)
-	}
+	b.m.EachParam(add)
 	if err := fixedDifferencing(b.m); err != nil {
 		return binding{}, err
 	}

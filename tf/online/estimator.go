@@ -180,19 +180,8 @@ func bind(m tf.Model) (*Estimator, error) {
 		}
 		e.coefs[k] = append(e.coefs[k], c)
 	}
-	w := &e.work
-	if w.Const != nil {
-		add(w.Const)
-	}
-	for i := range w.Inputs {
-		w.Inputs[i].Num.Each(add)
-		w.Inputs[i].Den.Each(add)
-	}
-	if w.Noise != nil {
-		w.Noise.MA.Each(add)
-		w.Noise.AR.Each(add)
-	}
-	if err := noFreeDiff(*w); err != nil {
+	e.work.EachParam(add)
+	if err := noFreeDiff(e.work); err != nil {
 		return nil, err
 	}
 	for _, name := range e.names {

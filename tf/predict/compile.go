@@ -51,19 +51,11 @@ func noFree(m tf.Model) error {
 			err = &errs.ModelError{Part: "coefficient " + c.Name, Problem: "it is free (to be estimated); a predictor needs every coefficient set: build it from the fitted model with the estimates held (Estimate.Held())"}
 		}
 	}
-	if m.Const != nil {
-		visit(m.Const)
-	}
 	m.Diff.Each(visit)
 	for _, in := range m.Inputs {
 		in.Diff.Each(visit)
-		in.Num.Each(visit)
-		in.Den.Each(visit)
 	}
-	if m.Noise != nil {
-		m.Noise.MA.Each(visit)
-		m.Noise.AR.Each(visit)
-	}
+	m.EachParam(visit)
 	return err
 }
 
