@@ -344,23 +344,13 @@ func sameModel(back, m tf.Model) bool {
 	return true
 }
 
+// samePoly reports whether p and q agree term by term in power, name,
+// freedom and signed value (printing folds the sign of a negative
+// unnamed value into the term's sign), ignoring positions.
 func samePoly(p, q tf.Poly) bool {
-	if len(p.Factors) != len(q.Factors) {
-		return false
-	}
-	for i, f := range p.Factors {
-		g := q.Factors[i]
-		if f.Exp != g.Exp || len(f.Terms) != len(g.Terms) {
-			return false
-		}
-		for j, t := range f.Terms {
-			u := g.Terms[j]
-			if t.Power != u.Power || t.Coef.Name != u.Coef.Name || t.Coef.Free != u.Coef.Free || t.Value() != u.Value() {
-				return false
-			}
-		}
-	}
-	return true
+	return p.EqualFunc(q, func(t, u tf.Term) bool {
+		return t.Power == u.Power && t.Coef.Name == u.Coef.Name && t.Coef.Free == u.Coef.Free && t.Value() == u.Value()
+	})
 }
 
 // sameEvent reports whether two events (or none) are one: kind, index
