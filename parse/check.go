@@ -99,12 +99,7 @@ func (c *checker) model(m tf.Model) {
 		switch {
 		case in.Event != nil:
 			if c.event(in, path, label) {
-				if j, dup := first[in.Series]; dup {
-					c.fail(path+".Event", in.Pos, ErrModel, "event "+in.Series+" appears twice (inputs "+strconv.Itoa(j+1)+" and "+
-						strconv.Itoa(i+1)+"); combine its terms into one transfer function")
-				} else {
-					first[in.Series] = i
-				}
+				c.once(first, in, i, path+".Event", "event")
 			}
 			label = "input " + in.Series
 		case in.Series == "":
@@ -113,12 +108,7 @@ func (c *checker) model(m tf.Model) {
 			c.fail(path+".Series", in.Pos, ErrModel, label+" is "+in.Series+", the output; it cannot also be an input")
 		default:
 			c.name(in.Series, "the series name of "+label, path+".Series", in.Pos)
-			if j, dup := first[in.Series]; dup {
-				c.fail(path+".Series", in.Pos, ErrModel, "input "+in.Series+" appears twice (inputs "+strconv.Itoa(j+1)+" and "+
-					strconv.Itoa(i+1)+"); combine its terms into one transfer function")
-			} else {
-				first[in.Series] = i
-			}
+			c.once(first, in, i, path+".Series", "input")
 			label = "input " + in.Series
 		}
 		switch {
@@ -137,6 +127,18 @@ func (c *checker) model(m tf.Model) {
 		c.noise(*m.Noise)
 	}
 	c.interval(m.Interval)
+}
+
+// once records that input i (at path, called what in the message: "input"
+// or "event") is the first term of its series, or fails when an earlier
+// input, first[in.Series], already is.
+func (c *checker) once(first map[string]int, in tf.Input, i int, path, what string) {
+	if j, dup := first[in.Series]; dup {
+		c.fail(path, in.Pos, ErrModel, what+" "+in.Series+" appears twice (inputs "+strconv.Itoa(j+1)+" and "+
+			strconv.Itoa(i+1)+"); combine its terms into one transfer function")
+		return
+	}
+	first[in.Series] = i
 }
 
 // event checks the event of an input: a known kind, a sample index in
@@ -344,23 +346,13 @@ func sameModel(back, m tf.Model) bool {
 	return true
 }
 
+// samePoly reports whether p and q agree term by term in power, name,
+// freedom and signed value (printing folds the sign of a negative
+// unnamed value into the term's sign), ignoring positions.
 func samePoly(p, q tf.Poly) bool {
-	if len(p.Factors) != len(q.Factors) {
-		return false
-	}
-	for i, f := range p.Factors {
-		g := q.Factors[i]
-		if f.Exp != g.Exp || len(f.Terms) != len(g.Terms) {
-			return false
-		}
-		for j, t := range f.Terms {
-			u := g.Terms[j]
-			if t.Power != u.Power || t.Coef.Name != u.Coef.Name || t.Coef.Free != u.Coef.Free || t.Value() != u.Value() {
-				return false
-			}
-		}
-	}
-	return true
+	return p.EqualFunc(q, func(t, u tf.Term) bool {
+		return t.Power == u.Power && t.Coef.Name == u.Coef.Name && t.Coef.Free == u.Coef.Free && t.Value() == u.Value()
+	})
 }
 
 // sameEvent reports whether two events (or none) are one: kind, index

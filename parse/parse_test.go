@@ -2,6 +2,7 @@ package parse
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"runtime"
@@ -32,6 +33,23 @@ var goodSpecs = []string{
 	"level = c + w x + s step(2026-03-01T08:00:30.25+01:00) + 1 / (1 - p1 B) a",
 }
 
+// readBack checks that m prints as text that parses to a model equal to
+// m (values exactly) and that this model prints as the same text. It
+// returns the text, and what went wrong first, or nil.
+func readBack(m tf.Model) (string, error) {
+	p := m.String()
+	back, err := Model(p)
+	switch {
+	case err != nil:
+		return p, fmt.Errorf("prints as %q, which does not parse: %v", p, err)
+	case !back.Equal(m):
+		return p, fmt.Errorf("prints as %q, which reads back as %q", p, back.String())
+	case back.String() != p:
+		return p, fmt.Errorf("printing not stable: %q then %q", p, back.String())
+	}
+	return p, nil
+}
+
 func TestGoodSpecs(t *testing.T) {
 	for _, s := range goodSpecs {
 		m, err := Model(s)
@@ -39,17 +57,8 @@ func TestGoodSpecs(t *testing.T) {
 			t.Errorf("%q: %v", s, err)
 			continue
 		}
-		p := m.String()
-		m2, err := Model(p)
-		if err != nil {
-			t.Errorf("%q printed as %q: %v", s, p, err)
-			continue
-		}
-		if !m2.Equal(m) {
-			t.Errorf("%q printed as %q reads back differently", s, p)
-		}
-		if p2 := m2.String(); p2 != p {
-			t.Errorf("printing is not stable: %q then %q", p, p2)
+		if _, err := readBack(m); err != nil {
+			t.Errorf("%q %v", s, err)
 		}
 	}
 }
@@ -239,8 +248,8 @@ func TestMutations(t *testing.T) {
 		m, err := Model(s)
 		if err == nil {
 			accepted++
-			if m2, err := Model(m.String()); err != nil || !m2.Equal(m) {
-				t.Errorf("%q prints as %q, which reads back as %v, %v", s, m.String(), m2, err)
+			if _, err := readBack(m); err != nil {
+				t.Errorf("%q %v", s, err)
 			}
 			continue
 		}
@@ -311,16 +320,9 @@ func TestRoundTrip(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	for i := range 3000 {
 		m := randomModel(rng)
-		s := m.String()
-		m2, err := Model(s)
+		s, err := readBack(m)
 		if err != nil {
-			t.Fatalf("model %d prints as %q, which does not parse: %v", i, s, err)
-		}
-		if !m2.Equal(m) {
-			t.Fatalf("model %d prints as %q, which reads back as %q", i, s, m2.String())
-		}
-		if s2 := m2.String(); s2 != s {
-			t.Fatalf("model %d: printing not stable: %q then %q", i, s, s2)
+			t.Fatalf("model %d %v", i, err)
 		}
 		var sp Spec
 		if err := sp.UnmarshalText([]byte(s)); err != nil || !sp.Model.Equal(m) {

@@ -195,14 +195,22 @@ func endsTerm(t lexer.Token) bool {
 
 // strayClose is the index of the first ')' that no '(' opens, or -1.
 func (s *slip) strayClose() int {
+	return s.unmatched(0, 1, "(", ")")
+}
+
+// unmatched scans the tokens from index from in steps of step (1 forward,
+// -1 backward) and returns the index of the first closer that no opener
+// met on the way matches, or -1. Forward, the opener is '(' and the
+// closer ')'; backward, the other way round.
+func (s *slip) unmatched(from, step int, opener, closer string) int {
 	depth := 0
-	for k, t := range s.toks {
-		switch {
-		case isP(t, "("):
+	for k := from; k >= 0 && k < len(s.toks); k += step {
+		switch t := s.toks[k]; {
+		case isP(t, opener):
 			depth++
-		case isP(t, ")") && depth == 0:
+		case isP(t, closer) && depth == 0:
 			return k
-		case isP(t, ")"):
+		case isP(t, closer):
 			depth--
 		}
 	}
@@ -367,37 +375,15 @@ func (s *slip) eventOpen(k int) bool {
 
 // open is the index of the innermost '(' still open at token k, or -1.
 func (s *slip) open(k int) int {
-	depth := 0
-	for j := k - 1; j >= 0; j-- {
-		switch t := s.toks[j]; {
-		case isP(t, ")"):
-			depth++
-		case isP(t, "(") && depth == 0:
-			return j
-		case isP(t, "("):
-			depth--
-		}
-	}
-	return -1
+	return s.unmatched(k-1, -1, ")", "(")
 }
 
 // unclosed is the index of the '(' open at token k that no ')' in the
 // rest of the text closes, or -1.
 func (s *slip) unclosed(k int) int {
 	o := s.open(k)
-	if o < 0 {
+	if o < 0 || s.unmatched(o+1, 1, "(", ")") >= 0 {
 		return -1
-	}
-	depth := 0
-	for _, t := range s.toks[o+1:] {
-		switch {
-		case isP(t, "("):
-			depth++
-		case isP(t, ")") && depth == 0:
-			return -1
-		case isP(t, ")"):
-			depth--
-		}
 	}
 	return o
 }

@@ -144,6 +144,16 @@ func (p Poly) Each(fn func(c *Coef)) {
 // terms, signs, powers, names, freedom and values (values compared
 // exactly), ignoring positions.
 func (p Poly) Equal(q Poly) bool {
+	return p.EqualFunc(q, func(t, u Term) bool {
+		return t.Neg == u.Neg && t.Power == u.Power && t.Coef.Equal(u.Coef)
+	})
+}
+
+// EqualFunc reports whether p and q have as many factors, with the same
+// exponents and as many terms each, and eq holds for every pair of terms
+// in the same place (in order); positions are ignored. Equal is
+// EqualFunc with eq comparing sign, power and coefficient.
+func (p Poly) EqualFunc(q Poly, eq func(t, u Term) bool) bool {
 	if len(p.Factors) != len(q.Factors) {
 		return false
 	}
@@ -153,8 +163,7 @@ func (p Poly) Equal(q Poly) bool {
 			return false
 		}
 		for j, t := range f.Terms {
-			u := g.Terms[j]
-			if t.Neg != u.Neg || t.Power != u.Power || !t.Coef.Equal(u.Coef) {
+			if !eq(t, g.Terms[j]) {
 				return false
 			}
 		}

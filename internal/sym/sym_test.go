@@ -136,3 +136,40 @@ func TestCloneIsDeep(t *testing.T) {
 		t.Fatal("Equal does not compare values")
 	}
 }
+
+// EqualFunc walks the factors and terms in order and asks eq about each
+// pair; a different shape (factor count, exponent, term count) is never
+// equal, whatever eq says.
+func TestEqualFunc(t *testing.T) {
+	// 1 - 0.5 B written with the sign on the term, and 1 + (-0.5) B.
+	p := Poly{Factors: []Factor{{Terms: []Term{fixed(1, false, 0), fixed(0.5, true, 1)}, Exp: 1}}}
+	q := Poly{Factors: []Factor{{Terms: []Term{fixed(1, false, 0), fixed(-0.5, false, 1)}, Exp: 1}}}
+	signed := func(t, u Term) bool { return t.Power == u.Power && t.Value() == u.Value() }
+	always := func(t, u Term) bool { return true }
+	squared := Poly{Factors: []Factor{{Terms: p.Factors[0].Terms, Exp: 2}}}
+	longer := Poly{Factors: []Factor{{Terms: append(p.Clone().Factors[0].Terms, fixed(0.1, false, 2)), Exp: 1}}}
+	twoFactors := Poly{Factors: []Factor{p.Factors[0], p.Factors[0]}}
+	for _, c := range []struct {
+		name string
+		a, b Poly
+		eq   func(t, u Term) bool
+		want bool
+	}{
+		{"signed values agree", p, q, signed, true},
+		{"Equal's terms differ in sign", p, q, nil, false},
+		{"exponent", p, squared, always, false},
+		{"term count", p, longer, always, false},
+		{"factor count", p, twoFactors, always, false},
+		{"empty", Poly{}, Poly{}, always, true},
+	} {
+		var got bool
+		if c.eq == nil {
+			got = c.a.Equal(c.b)
+		} else {
+			got = c.a.EqualFunc(c.b, c.eq)
+		}
+		if got != c.want {
+			t.Errorf("%s: got %v, want %v", c.name, got, c.want)
+		}
+	}
+}

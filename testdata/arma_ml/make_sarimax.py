@@ -9,23 +9,22 @@ Our own simulated data (numpy default_rng(20261205), scipy.signal.lfilter):
 x1 a random walk, x2 = sin(2 pi t / 25), n = 300. The "gaps" case sets samples 40..51,
 150 and 299 (0-based) to NaN.
 
-SARIMAX(y, exog=[1, x1, x2], order=(1, 0, 1), trend="n", concentrate_scale=True): the
-constant enters as a column of ones, so its coefficient is the mean c of the noise, as
-in arma; the regression coefficients are estimated by maximum likelihood with the ARMA
-ones (mle_regression), the ARMA state starts from its stationary distribution, NaN
-samples are skipped by the filter. Fitted by BFGS with gtol 1e-10 (tight, so that the
-optimiser's stopping point is far below the test tolerance), standard errors from the
-observed information (cov_type="approx"). Smoothed values of the missing samples:
-smoother_results.smoothed_forecasts (observation intercept included) and
-smoothed_forecasts_error_cov times the concentrated scale.
+The fit (testdata/sarimax_ref.py): SARIMAX(y, exog=[1, x1, x2], order=(1, 0, 1), trend="n",
+concentrate_scale=True), the constant's coefficient being the mean c of the noise, as in
+arma; exact likelihood with the regression, BFGS with gtol 1e-10, standard errors from the
+observed information, smoothed values of the missing samples.
 
 Writes testdata/arma_ml/sarimax.json.
 """
 import json
+import os
+import sys
 
 import numpy as np
 from scipy.signal import lfilter
-from statsmodels.tsa.statespace.sarimax import SARIMAX
+
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+import sarimax_ref  # noqa: E402 (testdata/sarimax_ref.py)
 
 
 def data():
@@ -40,22 +39,9 @@ def data():
 
 
 def fit(y, x1, x2):
-    exog = np.column_stack([np.ones_like(y), x1, x2])
-    mod = SARIMAX(y, exog=exog, order=(1, 0, 1), trend="n", concentrate_scale=True)
-    res = mod.fit(method="bfgs", gtol=1e-10, maxiter=2000, disp=False, cov_type="approx")
-    out = {
-        "names": list(mod.param_names),
-        "params": [float(v) for v in res.params],
-        "bse": [float(v) for v in res.bse],
-        "llf": float(res.llf),
-        "scale": float(res.scale),
-        "nobs_effective": int(np.sum(~np.isnan(y))),
-    }
-    miss = np.where(np.isnan(y))[0]
-    sr = res.smoother_results
-    out["missing"] = [int(i) for i in miss]
-    out["smooth"] = [float(sr.smoothed_forecasts[0, i]) for i in miss]
-    out["smooth_se"] = [float(np.sqrt(sr.smoothed_forecasts_error_cov[0, 0, i])) for i in miss]
+    mod, res = sarimax_ref.fit(y, x1, x2)
+    out = sarimax_ref.estimates(mod, res, y, [(s, s) for s in mod.param_names])
+    out.update(sarimax_ref.smoothed_missing(res, y))
     return out
 
 

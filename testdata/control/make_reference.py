@@ -19,11 +19,14 @@ Needs Debian's python3-scipy (scipy 1.10.1, numpy 1.24.2).
 """
 import json
 import os
+import sys
 
 import numpy as np
 from scipy import signal
 
 HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, os.path.dirname(HERE))
+import loop_margins  # noqa: E402 (testdata/loop_margins.py)
 
 
 def shift(c, d):
@@ -78,12 +81,7 @@ def loop_case(plant, ctrl, n=150, grid=2 ** 20):
     ph = np.unwrap(np.angle(L))
     # gain crossovers: |L| - 1 changes sign
     pm, wc_pm, dm = None, None, np.inf
-    s = np.sign(mag - 1)
-    for i in np.nonzero(s[:-1] * s[1:] < 0)[0]:
-        f = (1 - mag[i]) / (mag[i + 1] - mag[i])
-        wc = w[i] + f * (w[i + 1] - w[i])
-        p = ph[i] + f * (ph[i + 1] - ph[i])
-        m = np.remainder(p + np.pi + np.pi, 2 * np.pi) - np.pi
+    for wc, m in loop_margins.gain_crossovers(w, mag, ph):
         if pm is None or m < pm:
             pm, wc_pm = m, wc
         dm = min(dm, max(m, 0) / wc)

@@ -14,20 +14,21 @@ continued): res.get_forecast(6, exog=...).predicted_mean and .se_mean.
 
 In the library's spec:  y = c + w1 x1 + w2 x2 + (1 + t1 B) / (1 - p1 B) a,  that is
 SARIMAX(y, exog=[1, x1, x2], order=(1, 0, 1), trend="n", concentrate_scale=True) with
-c, w1, w2 = the exog coefficients, p1 = ar.L1, t1 = ma.L1. The regression coefficients are
-estimated by maximum likelihood with the ARMA ones, the ARMA state starts from its
-stationary distribution, NaN samples are skipped by the filter. BFGS with gtol 1e-10,
-standard errors from the observed information (cov_type="approx"). Smoothed values of the
-missing samples: smoother_results.smoothed_forecasts and smoothed_forecasts_error_cov
-times the concentrated scale.
+c, w1, w2 = the exog coefficients, p1 = ar.L1, t1 = ma.L1, fitted as testdata/sarimax_ref.py
+says (exact likelihood with the regression, BFGS with gtol 1e-10, standard errors from the
+observed information, smoothed values of the missing samples).
 
 Writes testdata/fit_ml/sarimax.json.
 """
 import json
+import os
+import sys
 
 import numpy as np
 from scipy.signal import lfilter
-from statsmodels.tsa.statespace.sarimax import SARIMAX
+
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+import sarimax_ref  # noqa: E402 (testdata/sarimax_ref.py)
 
 
 def data():
@@ -42,28 +43,13 @@ def data():
 
 
 def fit(y, x1, x2, f1, f2):
-    exog = np.column_stack([np.ones_like(y), x1, x2])
-    mod = SARIMAX(y, exog=exog, order=(1, 0, 1), trend="n", concentrate_scale=True)
-    res = mod.fit(method="bfgs", gtol=1e-10, maxiter=2000, disp=False, cov_type="approx")
-    p = dict(zip(mod.param_names, res.params))
-    b = dict(zip(mod.param_names, res.bse))
+    mod, res = sarimax_ref.fit(y, x1, x2)
     order = [("c", "const"), ("w1", "x1"), ("w2", "x2"), ("t1", "ma.L1"), ("p1", "ar.L1")]
-    out = {
-        "names": [k for k, _ in order],
-        "params": [float(p[s]) for _, s in order],
-        "bse": [float(b[s]) for _, s in order],
-        "llf": float(res.llf),
-        "scale": float(res.scale),
-        "nobs_effective": int(np.sum(~np.isnan(y))),
-    }
+    out = sarimax_ref.estimates(mod, res, y, order)
     fc = res.get_forecast(len(f1), exog=np.column_stack([np.ones_like(f1), f1, f2]))
     out["forecast"] = [float(v) for v in fc.predicted_mean]
     out["forecast_se"] = [float(v) for v in fc.se_mean]
-    miss = np.where(np.isnan(y))[0]
-    sr = res.smoother_results
-    out["missing"] = [int(i) for i in miss]
-    out["smooth"] = [float(sr.smoothed_forecasts[0, i]) for i in miss]
-    out["smooth_se"] = [float(np.sqrt(sr.smoothed_forecasts_error_cov[0, 0, i])) for i in miss]
+    out.update(sarimax_ref.smoothed_missing(res, y))
     return out
 
 

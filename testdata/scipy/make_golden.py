@@ -24,11 +24,15 @@ coefficients. Functions used:
 """
 import json
 import os
+import sys
 
 import numpy as np
 import scipy
 import scipy.linalg
 import scipy.signal as sig
+
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+import loop_margins  # noqa: E402 (testdata/loop_margins.py)
 
 N_RESP = 60
 N_INPUT = 200
@@ -187,12 +191,7 @@ def add_margins(num, den, delay):
         if abs(ph[-1] - lev) < 1e-9 and (gm is None or 1 / mag[-1] < gm):
             gm, wpc = 1 / mag[-1], np.pi
     pm, wgc = None, None
-    s = np.sign(mag - 1)
-    for i in np.nonzero(s[:-1] * s[1:] < 0)[0]:
-        t = (1 - mag[i]) / (mag[i + 1] - mag[i])
-        wc = w[i] + t * (w[i + 1] - w[i])
-        p = ph[i] + t * (ph[i + 1] - ph[i])
-        v = np.remainder(p + np.pi + np.pi, 2 * np.pi) - np.pi
+    for wc, v in loop_margins.gain_crossovers(w, mag, ph):
         if pm is None or v < pm:
             pm, wgc = v, wc
     out.update({"gain_margin": gm, "phase_crossover": wpc, "phase_margin": pm, "gain_crossover": wgc})
