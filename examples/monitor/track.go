@@ -312,16 +312,6 @@ func hold(m tf.Model, names []string) tf.Model {
 			c.Free = false
 		}
 	}
-	if m.Const != nil {
-		set(m.Const)
-	}
-	for _, in := range m.Inputs {
-		in.Num.Each(set)
-		in.Den.Each(set)
-	}
-	if m.Noise != nil {
-		m.Noise.MA.Each(set)
-		m.Noise.AR.Each(set)
-	}
+	m.EachParam(set)
 	return m
 }
