@@ -56,3 +56,15 @@ func OrderBound(m, def int) int {
 	}
 	return m
 }
+
+// First returns the first non-nil error of checks, or nil: the field
+// checks of a settings struct, written in the order of its fields, so
+// that the first field that breaks its rule is the one reported.
+func First(checks ...error) error {
+	for _, err := range checks {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}

@@ -1,6 +1,9 @@
 package errs
 
-import "testing"
+import (
+	"errors"
+	"testing"
+)
 
 // The constructors are checked with the shapes, in TestShapes.
 
@@ -21,5 +24,23 @@ func TestOrderBound(t *testing.T) {
 		if got := OrderBound(tc.m, tc.def); got != tc.want {
 			t.Errorf("OrderBound(%d, %d) = %d, want %d", tc.m, tc.def, got, tc.want)
 		}
+	}
+}
+
+// First reports the first failing check in the order written, and nil
+// when every check passes.
+func TestFirst(t *testing.T) {
+	a, b := errors.New("a"), errors.New("b")
+	if got := First(nil, a, b); got != a {
+		t.Errorf("First(nil, a, b) = %v, want a", got)
+	}
+	if got := First(b, a); got != b {
+		t.Errorf("First(b, a) = %v, want b", got)
+	}
+	if got := First(nil, nil); got != nil {
+		t.Errorf("First(nil, nil) = %v, want nil", got)
+	}
+	if got := First(); got != nil {
+		t.Errorf("First() = %v, want nil", got)
 	}
 }

@@ -352,7 +352,7 @@ func (s CheckSettings) Validate() (err error) {
 
 // validate is Validate without the Op.
 func (s CheckSettings) validate() error {
-	return firstError(
+	return errs.First(
 		errs.Count("", "CheckSettings.Lags", s.Lags, "0 means min(24, N/4)"),
 		errs.Count("", "CheckSettings.CrossLags", s.CrossLags, "0 means Lags"),
 		errs.Probability("", "CheckSettings.Alpha", s.Alpha, "0 means 0.05"),

@@ -101,21 +101,10 @@ func (s Settings) Validate() (err error) {
 	return s.validate()
 }
 
-// firstError returns the first non-nil error of checks (the field checks
-// of a settings struct, in the order of its fields), or nil.
-func firstError(checks ...error) error {
-	for _, err := range checks {
-		if err != nil {
-			return err
-		}
-	}
-	return nil
-}
-
 // validate is Validate without the Op, for the functions taking a
 // Settings (they set their own).
 func (s Settings) validate() error {
-	if err := firstError(
+	if err := errs.First(
 		errs.Count("", "Settings.MaxIter", s.MaxIter, "0 means 200 iterations"),
 		errs.Count("", "Settings.Starts", s.Starts, "0 means 2 with a free denominator or MA coefficient, 1 otherwise"),
 		errs.Count("", "Settings.First", s.First, "0 means the automatic first residual index"),

@@ -108,16 +108,14 @@ func (s Settings) Validate() error {
 }
 
 func (s Settings) validate() error {
-	for _, err := range []error{
+	if err := errs.First(
 		errs.NonNegative("", "Settings.Forgetting", s.Forgetting, "0 means 0.995"),
 		errs.Count("", "Settings.Ramp", s.Ramp, "0 means no ramp"),
 		errs.Count("", "Settings.Warmup", s.Warmup, "0 means 10 per free coefficient, at least 20"),
 		errs.NonNegative("", "Settings.MaxTrace", s.MaxTrace, "0 means 10 times the trace of P after the warm-up"),
 		errs.NonNegative("", "Settings.DeadZone", s.DeadZone, "0 means no dead zone"),
-	} {
-		if err != nil {
-			return err
-		}
+	); err != nil {
+		return err
 	}
 	if f := s.Forgetting; f != 0 && !(f >= 0.9 && f <= 1) {
 		return &SettingError{Setting: "Settings.Forgetting", Value: strconv.FormatFloat(f, 'g', -1, 64),
