@@ -323,20 +323,6 @@ func TestBadInputExactMLFewObserved(t *testing.T) {
 	}
 }
 
-// countCtx is a context whose Err is context.Canceled from its
-// (after+1)-th call on; it counts the calls.
-type countCtx struct {
-	context.Context
-	calls, after int
-}
-
-func (c *countCtx) Err() error {
-	if c.calls++; c.calls > c.after {
-		return context.Canceled
-	}
-	return nil
-}
-
 // TestExactMLCanceledInHessian: a context done during the final
 // Hessian (after the search has converged) stops the fit there, with an
 // error matching context.Canceled and ErrConvergence, as a cancelled
@@ -348,14 +334,14 @@ func (c *countCtx) Err() error {
 func TestExactMLCanceledInHessian(t *testing.T) {
 	y := readML(t)["Nile"].series()
 	ord := Order{P: 1, Q: 1}
-	full := &countCtx{Context: context.Background(), after: 1 << 30}
+	full := &testutil.CountingContext{Context: context.Background(), After: 1 << 30}
 	ref, err := Fit(full, y, ord, &FitSettings{Method: ExactML})
 	if err != nil {
 		t.Fatal(err)
 	}
 	k := len(ref.Params)
 	stencil := 2*k + k*(k-1) // checks of one Hessian
-	ctx := &countCtx{Context: context.Background(), after: full.calls - stencil}
+	ctx := &testutil.CountingContext{Context: context.Background(), After: full.Calls - stencil}
 	res, err := Fit(ctx, y, ord, &FitSettings{Method: ExactML})
 	if !errors.Is(err, context.Canceled) || !errors.Is(err, ErrConvergence) {
 		t.Fatalf("cancelled in the Hessian: err %v, want context.Canceled and ErrConvergence", err)
@@ -369,5 +355,5 @@ func TestExactMLCanceledInHessian(t *testing.T) {
 	if res.Evals > ref.Evals-stencil+1 {
 		t.Errorf("cancelled in the Hessian: %d evaluations, the full fit %d: the stencil's %d were not skipped", res.Evals, ref.Evals, stencil-1)
 	}
-	t.Logf("full fit: %d context checks, %d evaluations; cancelled: %d checks, %d evaluations", full.calls, ref.Evals, ctx.calls, res.Evals)
+	t.Logf("full fit: %d context checks, %d evaluations; cancelled: %d checks, %d evaluations", full.Calls, ref.Evals, ctx.Calls, res.Evals)
 }

@@ -3,6 +3,7 @@ package fit
 import (
 	"context"
 	"errors"
+	"github.com/backshift/backshift/internal/testutil"
 	"math"
 	"math/rand/v2"
 	"strconv"
@@ -391,20 +392,6 @@ func TestExactMLCurvatureSteps(t *testing.T) {
 	}
 }
 
-// countCtx is a context whose Err is context.Canceled from its
-// (after+1)-th call on; it counts the calls.
-type countCtx struct {
-	context.Context
-	calls, after int
-}
-
-func (c *countCtx) Err() error {
-	if c.calls++; c.calls > c.after {
-		return context.Canceled
-	}
-	return nil
-}
-
 // TestExactMLCanceledInHessian: a context done during the final
 // Hessian (after the search has converged) stops the fit there with the
 // best point and an *InterruptedError matching context.Canceled, as a
@@ -416,14 +403,14 @@ func (c *countCtx) Err() error {
 func TestExactMLCanceledInHessian(t *testing.T) {
 	m := twoInputModel()
 	data := twoInputData(2000, 1)
-	full := &countCtx{Context: context.Background(), after: 1 << 30}
+	full := &testutil.CountingContext{Context: context.Background(), After: 1 << 30}
 	ref, err := Model(full, m, data, &Settings{Method: ExactML})
 	if err != nil {
 		t.Fatal(err)
 	}
 	k := len(ref.Params)
 	stencil := 2*k + k*(k-1)
-	ctx := &countCtx{Context: context.Background(), after: full.calls - stencil}
+	ctx := &testutil.CountingContext{Context: context.Background(), After: full.Calls - stencil}
 	e, err := Model(ctx, m, data, &Settings{Method: ExactML})
 	var ie *InterruptedError
 	if !errors.Is(err, context.Canceled) || !errors.As(err, &ie) {
@@ -438,5 +425,5 @@ func TestExactMLCanceledInHessian(t *testing.T) {
 	if e.Evals > ref.Evals-stencil+1 {
 		t.Errorf("cancelled in the Hessian: %d evaluations, the full fit %d: the stencil's %d were not skipped", e.Evals, ref.Evals, stencil-1)
 	}
-	t.Logf("full fit: %d context checks, %d evaluations; cancelled: %d checks, %d evaluations", full.calls, ref.Evals, ctx.calls, e.Evals)
+	t.Logf("full fit: %d context checks, %d evaluations; cancelled: %d checks, %d evaluations", full.Calls, ref.Evals, ctx.Calls, e.Evals)
 }
