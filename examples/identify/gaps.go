@@ -257,7 +257,7 @@ func chooseWhole(ctx context.Context, cands []identify.Candidate, ds *dataset, w
 		seen[key] = true
 		pr.say("refitting %s to the whole record by exact likelihood", tf.StructureLabel(c.Structure))
 		wf := WholeFit{Structure: tf.StructureLabel(c.Structure), StretchBIC: c.Estimate.BIC, BIC: math.NaN()}
-		wf.est, wf.Err = fit.Model(ctx, c.Estimate.Model, ds.data, &fit.Settings{IgnoreExtra: true, First: c.Estimate.Conditioning.First, Method: fit.ExactML})
+		wf.est, wf.Err = fit.Model(ctx, c.Estimate.Model, ds.data, ds.fitSettings(c.Estimate.Conditioning.First, fit.ExactML))
 		if wf.Err == nil {
 			wf.BIC = wf.est.BIC
 			var d *fit.Diagnostics

@@ -129,7 +129,12 @@ func refitOutliers(ctx context.Context, est *fit.Estimate, ds *dataset, res *Out
 		return nil
 	}
 	pr.say("refitting with %d outliers as events", len(res.Report.Outliers)-len(skipped))
-	re, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: est.Conditioning.First, Method: est.Method})
+	// The refit is by the first fit's method and conditioning (for the
+	// demo's dropout, the whole-record exact likelihood), so that the
+	// comparison shows the outliers' effect and nothing else.
+	c := est.Conditioning
+	re, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: c.First, Method: est.Method,
+		ZeroPreSample: c.ZeroPreSample, InputGaps: c.InputGaps, Start: c.Start})
 	if err != nil {
 		return fmt.Errorf("outlier refit: %w", err)
 	}

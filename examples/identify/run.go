@@ -810,8 +810,11 @@ func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, method fit
 	if m.Interval.Value == 0 && ds.interval > 0 {
 		m.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 	}
+	if err := checkTimedEvents(m, ds); err != nil {
+		return nil, err
+	}
 	pr.say("fitting %s", m)
-	est, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: skip, Method: method})
+	est, err := fit.Model(ctx, m, ds.data, ds.fitSettings(skip, method))
 	if err != nil {
 		return nil, err
 	}
@@ -889,7 +892,7 @@ type Simulation struct {
 func simulate(est *fit.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation, error) {
 	m := est.Model.Clone()
 	m.Noise = nil
-	y, err := m.Simulate(ds.data, nil)
+	y, err := m.Simulate(ds.data, &tf.SimSettings{Start: ds.start()})
 	if err != nil {
 		// An unstable or otherwise failed model: the report goes on
 		// without the simulation.
