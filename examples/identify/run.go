@@ -40,6 +40,11 @@ type Outcome struct {
 	// Diagnostics are the checks of the chosen model (nil when they
 	// could not be run: then the model is not trusted).
 	Diagnostics *fit.Diagnostics
+	// Caveat qualifies the verdict of a model that passes its checks
+	// when outliers were found in its residuals (outlierCaveat; "" when
+	// none were, or the model fails its checks); a saved model's notes
+	// carry it.
+	Caveat string
 	// Trusted reports that the model passed every check
 	// (Diagnostics.Pass): only then does the report offer it for control
 	// work.
@@ -213,8 +218,12 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if out.Simulation, err = simulate(est, ds, skip, stdout); err != nil {
 		return nil, err
 	}
-	writeDiagnostics(stdout, out.Diagnostics, failures)
-	if err := outlierStep(ctx, o, est, ds, stdout, pr, out); err != nil {
+	found, searchErr := searchOutliers(o, est, ds, pr)
+	if out.Trusted {
+		out.Caveat = outlierCaveat(found, o.Outliers == outliersRefit, ds)
+	}
+	writeDiagnostics(stdout, out.Diagnostics, failures, out.Caveat)
+	if err := outlierStep(ctx, o, est, ds, found, searchErr, stdout, pr, out); err != nil {
 		return nil, err
 	}
 	if err := forecast(est, ds, o, horizon, stdout, out); err != nil {
@@ -412,7 +421,13 @@ func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []st
 		return &SaveError{Path: o.Save, Failures: failures}
 	}
 	out.Validity.Forced = !trusted
-	if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
+	var extra []string
+	if r := out.Outliers; r != nil && est == r.Refit {
+		extra = append(extra, fmt.Sprintf("refitted with the %d outliers found in the first fit's residuals as events, by %s as the first fit", len(r.Found), est.Method))
+	} else if out.Caveat != "" {
+		extra = append(extra, "verdict: "+strings.Replace(out.Caveat, "; listed below)", ")", 1))
+	}
+	if err := saveConfig(o.Save, est, ds, out.Validity, extra...); err != nil {
 		return fmt.Errorf("-save: %w", err)
 	}
 	out.Saved = o.Save
