@@ -45,6 +45,10 @@ type Outliers struct {
 	Refit         *fit.Estimate
 	RefitChecks   *fit.Diagnostics
 	RefitFailures []string
+	// From and To are the first and the last sample searched (the
+	// residuals present: the samples before the fit's first residual,
+	// -skip and the model's start-up, are not searched).
+	From, To int
 	// Moved names the estimates that moved by more than one standard
 	// error of the first fit in the refit.
 	Moved []string
@@ -72,7 +76,15 @@ func findOutliers(est *fit.Estimate, ds *dataset) (*Outliers, error) {
 	if err != nil {
 		return nil, fmt.Errorf("outlier search: %w", err)
 	}
-	res := &Outliers{Report: rep}
+	res := &Outliers{Report: rep, From: -1, To: -1}
+	for i, v := range est.Resid {
+		if !math.IsNaN(v) {
+			if res.From < 0 {
+				res.From = i
+			}
+			res.To = i
+		}
+	}
 	for _, o := range rep.Outliers {
 		f := FoundOutlier{Outlier: o, When: ds.sampleTime(o.Index), SE: math.Abs(o.Size / o.T)}
 		if o.AtStart {
@@ -94,6 +106,14 @@ func writeOutliers(w io.Writer, res *Outliers, ds *dataset) {
 	r := res.Report
 	fmt.Fprintf(w, "\nOutliers in the residuals of the chosen model (|t| above %.2f: a %.0f %% chance of any false finding on a clean record, over %d tests):\n",
 		r.Critical, 100*r.Rate, r.Tests)
+	if res.From >= 0 {
+		fmt.Fprintf(w, "  searched: samples %d to %d (%s to %s)", res.From, res.To, ds.sampleTime(res.From), ds.sampleTime(res.To))
+		if res.From > 0 {
+			fmt.Fprintf(w, "; the first %d %s (-skip and the model's start-up) have no residual and are not searched: a bad reading there goes unseen",
+				res.From, plural(res.From, "sample", "samples"))
+		}
+		fmt.Fprintln(w)
+	}
 	if len(res.Found) == 0 {
 		fmt.Fprintln(w, "  none found")
 		return

@@ -143,3 +143,19 @@ func TestRefitFailsAdvice(t *testing.T) {
 		t.Errorf("the cleaned record: trusted %v, outliers %+v\n%s", res.Trusted, res.Outliers.Found, out)
 	}
 }
+
+// TestOutlierSearchRange is finding 9h: the report says which samples
+// the outlier search covered and that the first ones (-skip, here 300)
+// are not searched.
+func TestOutlierSearchRange(t *testing.T) {
+	o := DefaultOptions()
+	o.Spec, o.Horizon, o.cleanDemo, o.Skip = greenhouse.Structure, 0, true, 300
+	res, out, err := run(t, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Outliers.From != 300 || res.Outliers.To != 5759 {
+		t.Errorf("searched %d to %d, want 300 to 5759 (-skip 300, 5760 samples)", res.Outliers.From, res.Outliers.To)
+	}
+	testutil.CheckWords(t, "search range", out, []string{"searched: samples 300 to 5759 (day 1 05:00 to day 4 23:59); the first 300 samples (-skip and the model's start-up) have no residual and are not searched"}, nil)
+}
