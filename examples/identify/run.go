@@ -17,6 +17,7 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/examples/internal/suggest"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
@@ -568,8 +569,11 @@ func (ds *dataset) loadBuiltin(clean bool) error {
 	for _, n := range append([]string{ds.output}, ds.inputs...) {
 		s, ok := g.Series(n)
 		if !ok || n == greenhouse.Minute {
-			return fmt.Errorf("the built-in record has no series %q (it has %s, %s, %s, %s)", n,
-				greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint)
+			names := []string{greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint}
+			if hint := didYouMean(n, names, nil); hint != "" {
+				return fmt.Errorf("the built-in record has no series %q (it has %s): %s", n, strings.Join(names, ", "), hint)
+			}
+			return fmt.Errorf("the built-in record has no series %q (it has %s)", n, strings.Join(names, ", "))
 		}
 		ds.data[n] = s
 	}
@@ -641,6 +645,9 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 	rec, err := record.ReadFile(o.Data, set)
 	var se *record.SeriesError
 	if errors.As(err, &se) && se.Kind == record.ErrName {
+		if hint := didYouMean(se.Series, headerFields(o), append([]string{o.Time, ds.output}, ds.inputs...)); hint != "" {
+			return fmt.Errorf("%s names column %s, but %s: %s", flagOf(se.Series), clip(se.Series), se.Detail, hint)
+		}
 		return fmt.Errorf("%s names column %s, but %s", flagOf(se.Series), clip(se.Series), se.Detail)
 	}
 	if err := inputMissing(err, ds); err != nil {
@@ -667,6 +674,23 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 		return fmt.Errorf("%s: the record left after -gaps %s has %d samples: too short to fit a model to (at least %d)", rec.File, o.Gaps, n, minSamples)
 	}
 	return checkSeries(rec.File, cols, ds)
+}
+
+// didYouMean returns "did you mean X?" (or "X or Y?" when several are as
+// near) for the columns near the misspelt name (suggest.Near), leaving
+// out those named already (used: the time column and the series), or
+// "" when none is near.
+func didYouMean(name string, columns, used []string) string {
+	var near []string
+	for _, c := range columns {
+		if c != "" && !slices.Contains(used, c) && suggest.Near(name, c) {
+			near = append(near, c)
+		}
+	}
+	if len(near) == 0 {
+		return ""
+	}
+	return "did you mean " + strings.Join(near, " or ") + "?"
 }
 
 // timeColumnNamed returns the column of cols that the file's automatic

@@ -159,3 +159,31 @@ func TestOutlierSearchRange(t *testing.T) {
 	}
 	testutil.CheckWords(t, "search range", out, []string{"searched: samples 300 to 5759 (day 1 05:00 to day 4 23:59); the first 300 samples (-skip and the model's start-up) have no residual and are not searched"}, nil)
 }
+
+// TestColumnDidYouMean is finding 9j: a misspelt column gets a
+// did-you-mean (examples/internal/suggest: at most two edits) beside the
+// list of columns, in a file and in the built-in record; a name near
+// nothing gets none.
+func TestColumnDidYouMean(t *testing.T) {
+	path := testutil.WriteFile(t, "gh.csv", ghCSV(t))
+	for _, c := range []struct {
+		data, output string
+		inputs       []string
+		want         string
+	}{
+		{path, "temp", []string{"valv", "outdoor"}, `-inputs names column "valv", but ` + path + ` has no such column; its columns: minute, setpoint, valve, outdoor, temp: did you mean valve?`},
+		{path, "tmp", []string{"valve"}, "did you mean temp?"},
+		{"", "temp", []string{"outdor"}, `the built-in record has no series "outdor" (it has temp, valve, outdoor, setpoint): did you mean outdoor?`},
+		{path, "humidity", []string{"valve"}, "its columns: minute, setpoint, valve, outdoor, temp"},
+	} {
+		o := DefaultOptions()
+		o.Data, o.Output, o.Inputs = c.data, c.output, c.inputs
+		_, _, err := run(t, o)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s %v: got %v, want %q", c.output, c.inputs, err, c.want)
+		}
+		if c.output == "humidity" && err != nil && strings.Contains(err.Error(), "did you mean") {
+			t.Errorf("humidity: %v", err)
+		}
+	}
+}
