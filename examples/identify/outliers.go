@@ -6,7 +6,6 @@ import (
 	"io"
 	"math"
 	"strings"
-	"time"
 
 	"github.com/backshift/backshift/arma"
 	"github.com/backshift/backshift/tf"
@@ -119,9 +118,9 @@ func writeOutliers(w io.Writer, res *Outliers, ds *dataset) {
 		return
 	}
 	unit := outputUnitWord(ds)
-	fmt.Fprintf(w, "  %-22s  %8s  %-16s  %12s  %8s  %s\n", "time", "sample", "kind", "size", "t", "notes")
+	fmt.Fprintf(w, "  %-25s  %8s  %-16s  %12s  %8s  %s\n", "time", "sample", "kind", "size", "t", "notes")
 	for _, f := range res.Found {
-		fmt.Fprintf(w, "  %-22s  %8d  %-16s  %12.4g  %8.1f  %s\n", f.When, f.Index, f.Kind, f.Size, f.T, strings.Join(f.Notes, "; "))
+		fmt.Fprintf(w, "  %-25s  %8d  %-16s  %12.4g  %8.1f  %s\n", f.When, f.Index, f.Kind, f.Size, f.T, strings.Join(f.Notes, "; "))
 	}
 	fmt.Fprintf(w, "  sizes in %s, standard errors %s; residual scale (robust) %.4g\n",
 		unit, seList(res.Found), r.Sigma)
@@ -252,8 +251,9 @@ func sampleList(res *Outliers) string {
 	return strings.Join(s, ", ")
 }
 
-// sampleTime is the time of sample i as the record stamps it, or
-// "sample i" when the record has no time column.
+// sampleTime is the time of sample i as the record stamps it (a time
+// stamp in the offset from UTC the file writes there), or "sample i"
+// when the record has no time column.
 func (ds *dataset) sampleTime(i int) string {
 	switch {
 	case ds.times == nil && ds.demoClock:
@@ -264,7 +264,7 @@ func (ds *dataset) sampleTime(i int) string {
 	}
 	t := ds.times.t0 + float64(i)*ds.times.step
 	if ds.times.calendar {
-		return time.Unix(0, 0).UTC().Add(time.Duration(t * float64(time.Second))).Format("2006-01-02 15:04:05")
+		return ds.times.wallClock(t)
 	}
 	return fmt.Sprintf("%.6g %s", t/ds.times.unitSeconds, ds.times.unit)
 }

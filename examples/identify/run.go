@@ -118,6 +118,14 @@ type sampleClock struct {
 	calendar    bool
 	unit        string
 	unitSeconds float64
+	// rows and offsets are the time of each row of a calendar column
+	// and the offset from UTC it was written with (record.Record's
+	// Times and Offsets); zoned reports that the file writes offsets.
+	// A time is shown in the offset of the row at or before it, as the
+	// file writes it.
+	rows    []float64
+	offsets []int
+	zoned   bool
 }
 
 // recordClock is the clock of rec's samples after the gap remedy: the
@@ -144,7 +152,8 @@ func recordClock(rec *record.Record, rem record.Remedy) *sampleClock {
 			}
 		}
 	}
-	c := &sampleClock{t0: rec.Times[from], step: rec.Median, calendar: rec.Calendar, unit: rec.TimeUnit, unitSeconds: 1}
+	c := &sampleClock{t0: rec.Times[from], step: rec.Median, calendar: rec.Calendar, unit: rec.TimeUnit, unitSeconds: 1,
+		rows: rec.Times, offsets: rec.Offsets, zoned: rec.Zoned}
 	if sec, ok := record.Seconds(rec.Interval.Unit); ok {
 		c.step = rec.Interval.Value * sec
 	}

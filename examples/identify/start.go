@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
+	"sort"
 	"time"
 
 	"github.com/backshift/backshift/tf"
@@ -56,4 +57,23 @@ func checkTimedEvents(m tf.Model, ds *dataset) error {
 			e, why, e.Kind)
 	}
 	return nil
+}
+
+// wallClock writes t, seconds since 1970, as the record's time column
+// writes it: in the offset from UTC of the row at or before t (with the
+// offset, "Z" for UTC, when the file writes offsets; without one when
+// its times carry none, which are read as UTC and so shown as written).
+func (c *sampleClock) wallClock(t float64) string {
+	sec := math.Floor(t)
+	at := time.Unix(int64(sec), int64(math.Round((t-sec)*1e9))).UTC()
+	if !c.zoned {
+		return at.Format("2006-01-02 15:04:05")
+	}
+	off := 0
+	if k := sort.SearchFloat64s(c.rows, t+1e-6); k > 0 && k-1 < len(c.offsets) {
+		off = c.offsets[k-1]
+	} else if len(c.offsets) > 0 {
+		off = c.offsets[0]
+	}
+	return at.In(time.FixedZone("", off)).Format("2006-01-02 15:04:05Z07:00")
 }

@@ -104,3 +104,48 @@ func TestTimedEventWithoutClock(t *testing.T) {
 			[]string{"Settings.Start", "a record with a time column has both"})
 	}
 }
+
+// TestOutlierTimeInFileOffset is finding 9b: an outlier's time is
+// printed in the offset the file writes at that row, so that it can be
+// found in the file. The faulty demo record is stamped from
+// 2026-03-28T00:00Z with +01:00 offsets until the clock change at
+// 2026-03-29T01:00Z (minute 1500) and +02:00 after; the bad reading at
+// minute 2000 is 2026-03-29T09:20Z, written 11:20:00+02:00 (plain
+// arithmetic). A file in UTC ("Z") shows the time with Z.
+func TestOutlierTimeInFileOffset(t *testing.T) {
+	d, err := greenhouse.Default().WithFault(greenhouse.Spike)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t0 := time.Date(2026, 3, 28, 0, 0, 0, 0, time.UTC)
+	cet, cest := time.FixedZone("", 3600), time.FixedZone("", 7200)
+	for _, c := range []struct {
+		stamp func(i int) string
+		want  string
+	}{
+		{func(i int) string {
+			z := cet
+			if i >= 1500 {
+				z = cest
+			}
+			return t0.Add(time.Duration(i) * time.Minute).In(z).Format(time.RFC3339)
+		}, "2026-03-29 11:20:00+02:00"},
+		{func(i int) string { return t0.Add(time.Duration(i) * time.Minute).Format(time.RFC3339) }, "2026-03-29 09:20:00Z"},
+	} {
+		o := DefaultOptions()
+		o.Data, o.Spec, o.Horizon = stampedCSV(t, d, c.stamp), greenhouse.Structure, 0
+		res, out, err := run(t, o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, f := range res.Outliers.Found {
+			if f.Index == greenhouse.Spike.Sample {
+				found = f.When == c.want
+			}
+		}
+		if !found || !strings.Contains(out, c.want) {
+			t.Errorf("the bad reading is not stamped %q: %+v", c.want, res.Outliers.Found)
+		}
+	}
+}
