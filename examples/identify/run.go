@@ -433,7 +433,9 @@ func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []st
 	out.Validity.Forced = !trusted
 	var extra []string
 	if r := out.Outliers; r != nil && est == r.Refit {
-		extra = append(extra, fmt.Sprintf("refitted with the %d outliers found in the first fit's residuals as events, by %s as the first fit", len(r.Found), est.Method))
+		n := len(r.Found)
+		extra = append(extra, fmt.Sprintf("refitted with the %d %s found in the first fit's residuals as %s, by %s as the first fit",
+			n, plural(n, "outlier", "outliers"), plural(n, "an event", "events"), est.Method))
 	} else if out.Caveat != "" {
 		extra = append(extra, "verdict: "+strings.Replace(out.Caveat, "; listed below)", ")", 1))
 	}

@@ -93,7 +93,7 @@ func TestRefitSameMethod(t *testing.T) {
 	testutil.CheckWords(t, "refit", out, []string{"(-outliers refit), by exact maximum likelihood as the first fit",
 		"the refit below takes it as an event", "verdict of the refit: it passes its checks"}, nil)
 	testutil.CheckWords(t, "saved notes", savedNotes(t, o.Save),
-		[]string{"by exact maximum likelihood", "refitted with the 1 outliers found in the first fit's residuals as events"}, nil)
+		[]string{"by exact maximum likelihood", "refitted with the 1 outlier found in the first fit's residuals as an event"}, nil)
 }
 
 // TestRefitFailsAdvice: on the demo (the usage text's own example,
