@@ -643,7 +643,7 @@ func TestCommandLine(t *testing.T) {
 // failure that says why, not a silence.
 func TestChecksNotRun(t *testing.T) {
 	var b strings.Builder
-	writeDiagnostics(&b, nil, []string{"the diagnostic checks could not be run: too few residuals"})
+	writeDiagnostics(&b, nil, []string{"the diagnostic checks could not be run: too few residuals"}, "")
 	want := "Diagnostic checks: not run\n  verdict: NOT ADEQUATE, do not use this model for control work: the diagnostic checks could not be run: too few residuals\n"
 	if !strings.HasSuffix(b.String(), want) {
 		t.Errorf("got %q, want %q", b.String(), want)

@@ -57,7 +57,10 @@
 // ignored; -time none for no time column)
 // holds numbers (seconds, or the unit of its name or of -time-unit) or
 // RFC 3339 timestamps (also with a space for the T, or without a zone,
-// read as UTC) or dates alone (2026-01-01, for daily records). The
+// read as UTC: a local clock's times across a change of daylight saving
+// are refused, naming the likely cause) or dates alone (2026-01-01, for
+// daily records). A spec's event given as a time (step(2026-03-29T13:00))
+// is placed on the time column's clock. The
 // sample interval comes from its median step, and must agree with
 // -interval and the spec's every when they are given. Rows that are not
 // one interval apart (within 1 %) are refused with an error naming the
@@ -106,19 +109,32 @@
 // and differencing (arma.Outliers: additive, level shift, temporary
 // change, innovational; a critical value of |t| that bounds the chance
 // of any false finding on a clean record by 5 %, printed with the
-// report). Each is reported with its time (the record's time stamp when
-// it has a time column, else the sample; the demo's as day and time of
-// day), sample, kind, size in the output's units with its standard
+// report, with the samples searched: the first -skip samples and the
+// model's start-up have no residual and are not searched). Each is
+// reported with its time (the record's time stamp when it has a time
+// column, in the offset from UTC the file writes at that row, so that
+// it can be found in the file; else the sample; the demo's as day and
+// time of day), sample, kind, size in the output's units with its standard
 // error, t, and whether it lies near an end or a gap, where its kind or
 // size is less firm. -outliers refit also adds the outliers as event
 // inputs (tf.Model.WithOutliers: an additive one as a pulse, a level
 // shift as a step, a temporary change as a decaying pulse; an
-// innovational one is a shock of the noise and is left out), refits from
-// the same first residual, and prints sigma^2, AIC and BIC of both fits,
-// the estimates that moved by more than one standard error of the first
-// fit, and whether the refit passes its checks; -save then saves the
-// refit, judged by its own checks (the rest of the report, the paths,
-// forecast and pictures, is of the first fit). -outliers off skips the search. The
+// innovational one is a shock of the noise and is left out), refits by
+// the first fit's method (with a gap in the output, the whole record's
+// exact likelihood) from the same first residual, and prints sigma^2,
+// AIC and BIC of both fits, the estimates that moved by more than one
+// standard error of the first fit, and the refit's own verdict; -save
+// then saves the refit, judged by its own checks (the rest of the
+// report, the paths, forecast and pictures, is of the first fit). A
+// refit that fails its checks comes with the advice to re-identify on
+// the cleaned record (a structure chosen with the outliers in the record
+// can be bent by them): blank the output cells of the additive outliers,
+// which are then read as missing and skipped. When outliers are found,
+// the verdict of a model that passes its checks says so rather than
+// "adequate": the checks test the residuals as a whole, and one reading
+// far off can pass them while it pulls the estimates (on the demo it
+// halves the noise's MA coefficient); the saved model's notes carry the
+// same words. -outliers off skips the search. The
 // built-in demo record carries one planted bad reading of the logged
 // temperature (greenhouse.Spike: +1 degC at day 2 09:20) and an hour of
 // missing temperatures (greenhouse.SensorDropout: day 3 14:00 to

@@ -7,6 +7,7 @@ import (
 	"math"
 	"strings"
 
+	"github.com/backshift/backshift/internal/gaps"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/identify"
@@ -67,14 +68,8 @@ type Gaps struct {
 func findGaps(o Options, ds *dataset) *Gaps {
 	y := ds.data[ds.output]
 	g := &Gaps{StretchTo: len(y)}
-	for t := 0; t < len(y); t++ {
-		if !math.IsNaN(y[t]) {
-			continue
-		}
-		s := t
-		for t < len(y) && math.IsNaN(y[t]) {
-			t++
-		}
+	for _, r := range gaps.Runs(y) {
+		s, t := r[0], r[1]
 		og := OutputGap{First: s, Last: t - 1, Len: t - s, From: ds.sampleTime(s), To: ds.sampleTime(t - 1),
 			Duration: amount(float64(t-s)*ds.step(), ds.timeUnit()),
 			ValueLo:  math.NaN(), ValueHi: math.NaN(), SELo: math.NaN(), SEHi: math.NaN()}
@@ -257,7 +252,7 @@ func chooseWhole(ctx context.Context, cands []identify.Candidate, ds *dataset, w
 		seen[key] = true
 		pr.say("refitting %s to the whole record by exact likelihood", tf.StructureLabel(c.Structure))
 		wf := WholeFit{Structure: tf.StructureLabel(c.Structure), StretchBIC: c.Estimate.BIC, BIC: math.NaN()}
-		wf.est, wf.Err = fit.Model(ctx, c.Estimate.Model, ds.data, &fit.Settings{IgnoreExtra: true, First: c.Estimate.Conditioning.First, Method: fit.ExactML})
+		wf.est, wf.Err = fit.Model(ctx, c.Estimate.Model, ds.data, ds.fitSettings(c.Estimate.Conditioning.First, fit.ExactML))
 		if wf.Err == nil {
 			wf.BIC = wf.est.BIC
 			var d *fit.Diagnostics

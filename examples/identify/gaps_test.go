@@ -185,9 +185,10 @@ func TestMessyLoggerFile(t *testing.T) {
 	for _, want := range []string{
 		`column "temp": 40 missing cells read as NaN (1 run): lines 3002 to 3041`,
 		"Gaps in the output temp: 40 missing samples in 1 gap",
-		"2026-03-04 02:00:00    to 2026-03-04 02:39:00     samples 3000 to 3039: 40 samples, 40 min",
-		"samples 0 to 2999 (2026-03-02 00:00:00 to 2026-03-04 01:59:00, 3000 samples",
-		"2026-03-02 20:00:00         1200  additive ",
+		// The file writes its times in UTC ("Z"), and so does the report.
+		"2026-03-04 02:00:00Z   to 2026-03-04 02:39:00Z    samples 3000 to 3039: 40 samples, 40 min",
+		"samples 0 to 2999 (2026-03-02 00:00:00Z to 2026-03-04 01:59:00Z, 3000 samples",
+		"2026-03-02 20:00:00Z           1200  additive ",
 		`holds the value 15.769 for 30 samples, 4500..4529`,
 		"Model of temp with coefficients estimated by exact maximum likelihood",
 		"Missing outputs, smoothed by the fitted model",

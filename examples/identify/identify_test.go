@@ -58,7 +58,7 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 	checkPlantedSpike(t, res, out)
 	checkPlantedDropout(t, res, out)
 	for _, want := range []string{"Candidate models, best first", "Model of temp with coefficients estimated by exact maximum likelihood", "coefficient", "standard error", "value/se", "noise variance", "Diagnostic checks", "verdict:", "time constant", "Forecast of temp", "How close the identified model is", "independent safety interlocks", "licensed practice",
-		"verdict: the model is adequate by every check", "Input paths for control work", "To test a controller on the identified model",
+		"verdict: the model passes its checks, but 1 outlier was found in its residuals (day 2 09:20", "Input paths for control work", "To test a controller on the identified model",
 		"Forecast of temp for the planned valve (0:65,60:85,120:70)"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("output lacks %q", want)

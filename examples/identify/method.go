@@ -40,7 +40,7 @@ func fitMethod(v string) fit.Method {
 // stretch and the refit is of the whole record.
 func refitExact(ctx context.Context, est *fit.Estimate, ds *dataset, w io.Writer, pr *progress) (*fit.Estimate, error) {
 	pr.say("refitting the chosen model by exact maximum likelihood")
-	ml, err := fit.Model(ctx, est.Model, ds.data, &fit.Settings{IgnoreExtra: true, First: est.Conditioning.First, Method: fit.ExactML})
+	ml, err := fit.Model(ctx, est.Model, ds.data, ds.fitSettings(est.Conditioning.First, fit.ExactML))
 	if err != nil {
 		return nil, fmt.Errorf("the exact-likelihood refit of the chosen model: %w", err)
 	}

@@ -50,14 +50,14 @@ func checkPlantedSpike(t *testing.T, res *Outcome, out string) {
 // TestOutlierRefitSaves fits the true structure to the demo record with
 // -outliers refit: the spike is found, the refit estimates it as the
 // event ao2000 within 3 SE of the planted size, the comparison is
-// printed, and -save writes the refit (with -save-untrusted, since
-// fit.Check cannot yet check a model with event inputs). With -outliers
+// printed, and -save writes the refit, which passes its own checks (the
+// true structure with the bad reading as an event). With -outliers
 // report the saved model has no event.
 func TestOutlierRefitSaves(t *testing.T) {
 	dir := t.TempDir()
 	o := DefaultOptions()
 	o.Spec, o.Horizon, o.Outliers = greenhouse.Structure, 0, outliersRefit
-	o.Save, o.SaveUntrusted = filepath.Join(dir, "refit.json"), true
+	o.Save = filepath.Join(dir, "refit.json")
 	res, out, err := run(t, o)
 	if err != nil {
 		t.Fatal(err)
@@ -94,6 +94,9 @@ func TestOutlierRefitSaves(t *testing.T) {
 	}
 	if !bytes.Contains(saved, []byte("pulse(2000)")) {
 		t.Errorf("-outliers refit saved a model without the event:\n%s", saved)
+	}
+	if v := savedValidity(t, o.Save); v.Verdict != "passed" {
+		t.Errorf("saved refit's verdict %q (%v)", v.Verdict, v.Failures)
 	}
 	o.Outliers, o.Save = outliersReport, filepath.Join(dir, "first.json")
 	if _, _, err := run(t, o); err != nil {

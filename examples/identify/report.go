@@ -45,12 +45,18 @@ func report(ctx context.Context, est *fit.Estimate, ds *dataset, w io.Writer, pr
 
 // writeDiagnostics prints the checks and the verdict, which names every
 // reason a failed model must not be used.
-func writeDiagnostics(w io.Writer, d *fit.Diagnostics, failures []string) {
+// A model that passes them with outliers in its residuals gets the
+// qualified verdict caveat (outlierCaveat) instead of "adequate".
+func writeDiagnostics(w io.Writer, d *fit.Diagnostics, failures []string, caveat string) {
 	if d == nil {
 		fmt.Fprintf(w, "\nDiagnostic checks: not run\n  verdict: NOT ADEQUATE, do not use this model for control work: %s\n", strings.Join(failures, "; "))
 		return
 	}
 	fmt.Fprintf(w, "\n%s", d.String())
+	if d.Pass && caveat != "" {
+		fmt.Fprintf(w, "  verdict: %s\n", caveat)
+		return
+	}
 	if d.Pass {
 		fmt.Fprintf(w, "  verdict: the model is adequate by every check\n")
 		return
@@ -97,7 +103,9 @@ func mapCoefs(m tf.Model, fn func(*tf.Coef)) tf.Model {
 // estimate, as a one-model config in the format of examples/config, with
 // v, the record of the data it was fitted to, as its "validity", and in
 // its notes what was done to the record (time column, gaps).
-func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validity) error {
+//
+// extra are more notes: the verdict's caveat, the refit (see save).
+func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validity, extra ...string) error {
 	type entry struct {
 		Name     string              `json:"name"`
 		Notes    string              `json:"notes"`
@@ -109,7 +117,7 @@ func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validi
 		Models []entry `json:"models"`
 	}{Site: ds.name, Models: []entry{{
 		Name:     ds.output + " (identified)",
-		Notes:    strings.Join(saveNotes(est, ds), "; "),
+		Notes:    strings.Join(append(saveNotes(est, ds), extra...), "; "),
 		Spec:     parse.Spec{Model: fixed(est.Model, -1)},
 		Validity: v,
 	}}}
@@ -123,7 +131,7 @@ func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validi
 // saveNotes are the notes of a saved model: what it was fitted to, what
 // was done to the record, and its output's gaps.
 func saveNotes(est *fit.Estimate, ds *dataset) []string {
-	notes := append([]string{fmt.Sprintf("fitted by examples/identify to %d samples; residual SD %.4g", ds.n, math.Sqrt(est.Sigma2))}, ds.notes...)
+	notes := append([]string{fmt.Sprintf("fitted by examples/identify to %d samples by %s; residual SD %.4g", ds.n, est.Method, math.Sqrt(est.Sigma2))}, ds.notes...)
 	if ds.gaps != nil {
 		if n := ds.gaps.gapNote(); n != "" {
 			notes = append(notes, n)

@@ -17,6 +17,7 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/examples/internal/suggest"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
@@ -40,6 +41,11 @@ type Outcome struct {
 	// Diagnostics are the checks of the chosen model (nil when they
 	// could not be run: then the model is not trusted).
 	Diagnostics *fit.Diagnostics
+	// Caveat qualifies the verdict of a model that passes its checks
+	// when outliers were found in its residuals (outlierCaveat; "" when
+	// none were, or the model fails its checks); a saved model's notes
+	// carry it.
+	Caveat string
 	// Trusted reports that the model passed every check
 	// (Diagnostics.Pass): only then does the report offer it for control
 	// work.
@@ -112,6 +118,14 @@ type sampleClock struct {
 	calendar    bool
 	unit        string
 	unitSeconds float64
+	// rows and offsets are the time of each row of a calendar column
+	// and the offset from UTC it was written with (record.Record's
+	// Times and Offsets); zoned reports that the file writes offsets.
+	// A time is shown in the offset of the row at or before it, as the
+	// file writes it.
+	rows    []float64
+	offsets []int
+	zoned   bool
 }
 
 // recordClock is the clock of rec's samples after the gap remedy: the
@@ -138,7 +152,8 @@ func recordClock(rec *record.Record, rem record.Remedy) *sampleClock {
 			}
 		}
 	}
-	c := &sampleClock{t0: rec.Times[from], step: rec.Median, calendar: rec.Calendar, unit: rec.TimeUnit, unitSeconds: 1}
+	c := &sampleClock{t0: rec.Times[from], step: rec.Median, calendar: rec.Calendar, unit: rec.TimeUnit, unitSeconds: 1,
+		rows: rec.Times, offsets: rec.Offsets, zoned: rec.Zoned}
 	if sec, ok := record.Seconds(rec.Interval.Unit); ok {
 		c.step = rec.Interval.Value * sec
 	}
@@ -213,8 +228,12 @@ func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, er
 	if out.Simulation, err = simulate(est, ds, skip, stdout); err != nil {
 		return nil, err
 	}
-	writeDiagnostics(stdout, out.Diagnostics, failures)
-	if err := outlierStep(ctx, o, est, ds, stdout, pr, out); err != nil {
+	found, searchErr := searchOutliers(o, est, ds, pr)
+	if out.Trusted {
+		out.Caveat = outlierCaveat(found, o.Outliers == outliersRefit, ds)
+	}
+	writeDiagnostics(stdout, out.Diagnostics, failures, out.Caveat)
+	if err := outlierStep(ctx, o, est, ds, found, searchErr, stdout, pr, out); err != nil {
 		return nil, err
 	}
 	if err := forecast(est, ds, o, horizon, stdout, out); err != nil {
@@ -412,7 +431,15 @@ func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []st
 		return &SaveError{Path: o.Save, Failures: failures}
 	}
 	out.Validity.Forced = !trusted
-	if err := saveConfig(o.Save, est, ds, out.Validity); err != nil {
+	var extra []string
+	if r := out.Outliers; r != nil && est == r.Refit {
+		n := len(r.Found)
+		extra = append(extra, fmt.Sprintf("refitted with the %d %s found in the first fit's residuals as %s, by %s as the first fit",
+			n, plural(n, "outlier", "outliers"), plural(n, "an event", "events"), est.Method))
+	} else if out.Caveat != "" {
+		extra = append(extra, "verdict: "+strings.Replace(out.Caveat, "; listed below)", ")", 1))
+	}
+	if err := saveConfig(o.Save, est, ds, out.Validity, extra...); err != nil {
 		return fmt.Errorf("-save: %w", err)
 	}
 	out.Saved = o.Save
@@ -553,8 +580,11 @@ func (ds *dataset) loadBuiltin(clean bool) error {
 	for _, n := range append([]string{ds.output}, ds.inputs...) {
 		s, ok := g.Series(n)
 		if !ok || n == greenhouse.Minute {
-			return fmt.Errorf("the built-in record has no series %q (it has %s, %s, %s, %s)", n,
-				greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint)
+			names := []string{greenhouse.Output, greenhouse.Valve, greenhouse.Outdoor, greenhouse.Setpoint}
+			if hint := didYouMean(n, names, nil); hint != "" {
+				return fmt.Errorf("the built-in record has no series %q (it has %s): %s", n, strings.Join(names, ", "), hint)
+			}
+			return fmt.Errorf("the built-in record has no series %q (it has %s)", n, strings.Join(names, ", "))
 		}
 		ds.data[n] = s
 	}
@@ -626,6 +656,9 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 	rec, err := record.ReadFile(o.Data, set)
 	var se *record.SeriesError
 	if errors.As(err, &se) && se.Kind == record.ErrName {
+		if hint := didYouMean(se.Series, headerFields(o), append([]string{o.Time, ds.output}, ds.inputs...)); hint != "" {
+			return fmt.Errorf("%s names column %s, but %s: %s", flagOf(se.Series), clip(se.Series), se.Detail, hint)
+		}
 		return fmt.Errorf("%s names column %s, but %s", flagOf(se.Series), clip(se.Series), se.Detail)
 	}
 	if err := inputMissing(err, ds); err != nil {
@@ -652,6 +685,23 @@ func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 		return fmt.Errorf("%s: the record left after -gaps %s has %d samples: too short to fit a model to (at least %d)", rec.File, o.Gaps, n, minSamples)
 	}
 	return checkSeries(rec.File, cols, ds)
+}
+
+// didYouMean returns "did you mean X?" (or "X or Y?" when several are as
+// near) for the columns near the misspelt name (suggest.Near), leaving
+// out those named already (used: the time column and the series), or
+// "" when none is near.
+func didYouMean(name string, columns, used []string) string {
+	var near []string
+	for _, c := range columns {
+		if c != "" && !slices.Contains(used, c) && suggest.Near(name, c) {
+			near = append(near, c)
+		}
+	}
+	if len(near) == 0 {
+		return ""
+	}
+	return "did you mean " + strings.Join(near, " or ") + "?"
 }
 
 // timeColumnNamed returns the column of cols that the file's automatic
@@ -810,8 +860,11 @@ func fitSpec(ctx context.Context, spec string, ds *dataset, skip int, method fit
 	if m.Interval.Value == 0 && ds.interval > 0 {
 		m.Interval = tf.Interval{Value: ds.interval, Unit: ds.unit}
 	}
+	if err := checkTimedEvents(m, ds); err != nil {
+		return nil, err
+	}
 	pr.say("fitting %s", m)
-	est, err := fit.Model(ctx, m, ds.data, &fit.Settings{IgnoreExtra: true, First: skip, Method: method})
+	est, err := fit.Model(ctx, m, ds.data, ds.fitSettings(skip, method))
 	if err != nil {
 		return nil, err
 	}
@@ -889,7 +942,7 @@ type Simulation struct {
 func simulate(est *fit.Estimate, ds *dataset, skip int, w io.Writer) (*Simulation, error) {
 	m := est.Model.Clone()
 	m.Noise = nil
-	y, err := m.Simulate(ds.data, nil)
+	y, err := m.Simulate(ds.data, &tf.SimSettings{Start: ds.start()})
 	if err != nil {
 		// An unstable or otherwise failed model: the report goes on
 		// without the simulation.

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/backshift/backshift/internal/errs"
+	"github.com/backshift/backshift/internal/gaps"
 )
 
 // GapFree returns the longest stretch of samples [from, to) in which
@@ -56,38 +57,18 @@ func anyMissing(data map[string][]float64, names []string, t int) bool {
 	return false
 }
 
-// runs returns the runs of NaN samples of x as [start, end) pairs.
-func runs(x []float64) [][2]int {
-	var out [][2]int
-	for t := 0; t < len(x); t++ {
-		if !math.IsNaN(x[t]) {
-			continue
-		}
-		s := t
-		for t < len(x) && math.IsNaN(x[t]) {
-			t++
-		}
-		out = append(out, [2]int{s, t})
-	}
-	return out
-}
-
 // missingErr is the error for the missing (NaN) samples of a series:
 // the *SampleError of the first one joined with a *SeriesError of kind
 // ErrSample that lists the gaps (at most eight) and says what to do.
 // role is "output" or "input".
 func missingErr(name, role string, x []float64, data map[string][]float64, all []string) error {
-	rs := runs(x)
+	rs := gaps.Runs(x)
 	var parts []string
 	total := 0
 	for i, r := range rs {
 		total += r[1] - r[0]
-		switch {
-		case i >= 8:
-		case r[1]-r[0] == 1:
-			parts = append(parts, strconv.Itoa(r[0]))
-		default:
-			parts = append(parts, strconv.Itoa(r[0])+".."+strconv.Itoa(r[1]-1)+" ("+strconv.Itoa(r[1]-r[0])+" samples)")
+		if i < 8 {
+			parts = append(parts, gaps.Span(r))
 		}
 	}
 	where := strings.Join(parts, ", ")

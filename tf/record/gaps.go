@@ -25,7 +25,24 @@ type Break struct {
 	// Missing is the number of samples missing for a gap (a step of a
 	// whole number of intervals); 0 for an irregular step.
 	Missing int
+	// ClockChange reports a step of one interval and one hour exactly
+	// between two times written without an offset from UTC, on a record
+	// sampled more often than hourly: most likely a local clock that
+	// skipped an hour as daylight saving began, with no sample missing.
+	// Read blames the clock, and hold and linear do not fill it (they
+	// would invent an hour that never existed).
+	ClockChange bool
 }
+
+// clockChangeText is the advice for a record whose local clock changed
+// (Break.ClockChange, or a time that goes back by up to an hour).
+const clockChangeText = "the times carry no offset from UTC, so this is most likely a local clock changing for daylight saving, not a fault of the samples: write the times with their offset (2026-03-29T03:00:00+02:00) or in UTC, or, if no row is missing, read the rows as evenly spaced with "
+
+// clockChangeSkips is the number of seconds a local clock skips or
+// repeats when daylight saving begins or ends: an hour almost
+// everywhere (common practice; a few places change by 30 minutes, which
+// this does not recognise).
+const clockChangeSkips = 3600
 
 // GapError reports a time column with gaps or irregular steps and no
 // remedy chosen (or a remedy that does not cover them). It unwraps to
@@ -47,9 +64,11 @@ const shownBreaks = 5
 // Error lists the first breaks by line and the remedies.
 func (e *GapError) Error() string {
 	var b strings.Builder
-	gaps, irregular := 0, 0
+	gaps, irregular, clock := 0, 0, 0
 	for _, br := range e.Breaks {
-		if br.Missing > 0 {
+		if br.ClockChange {
+			clock++
+		} else if br.Missing > 0 {
 			gaps++
 		} else {
 			irregular++
@@ -65,6 +84,12 @@ func (e *GapError) Error() string {
 		}
 		fmt.Fprintf(&b, " %d irregular %s", irregular, plural(irregular, "step", "steps"))
 	}
+	if clock > 0 {
+		if gaps+irregular > 0 {
+			b.WriteString(" and")
+		}
+		fmt.Fprintf(&b, " %d skipped %s", clock, plural(clock, "hour", "hours"))
+	}
 	b.WriteString("\n")
 	for i, br := range e.Breaks {
 		if i == shownBreaks {
@@ -72,7 +97,9 @@ func (e *GapError) Error() string {
 			break
 		}
 		fmt.Fprintf(&b, "  line %d (%s) comes %s intervals after line %d (%s)", br.Line, clip(br.Time), strconv.FormatFloat(br.Intervals, 'g', 4, 64), br.PrevLine, clip(br.PrevTime))
-		if br.Missing > 0 {
+		if br.ClockChange {
+			fmt.Fprintf(&b, ": one hour more than one interval, between times without an offset: most likely the local clock skipping an hour as daylight saving began\n")
+		} else if br.Missing > 0 {
 			fmt.Fprintf(&b, ": %d %s missing\n", br.Missing, plural(br.Missing, "sample", "samples"))
 		} else {
 			b.WriteString(": not a whole number of intervals\n")
@@ -102,6 +129,10 @@ func (tm *timing) breaks(t *table, iv float64) []Break {
 		// of more is a break no remedy fills (only "longest").
 		if k := math.Round(r); k >= 2 && k <= maxGap && math.Abs(r-k) <= stepTolerance {
 			br.Missing = int(k) - 1
+		}
+		if tm.zoned != nil && !tm.zoned[i] && !tm.zoned[i-1] && iv < clockChangeSkips &&
+			math.Abs(tm.secs[i]-tm.secs[i-1]-iv-clockChangeSkips) <= stepTolerance*iv {
+			br.ClockChange = true
 		}
 		out = append(out, br)
 	}
@@ -159,6 +190,21 @@ func ParseRemedy(s string) (Remedy, error) {
 func (r Remedy) apply(t *table, tm *timing, ivText string, brks []Break, data map[string][]float64, s *Settings) (map[string][]float64, string, error) {
 	fail := func(why string, bs []Break) error {
 		return &GapError{File: t.file, Column: tm.column, Interval: ivText, Breaks: bs, Why: why}
+	}
+	var clock []Break
+	for _, b := range brks {
+		if b.ClockChange {
+			clock = append(clock, b)
+		}
+	}
+	if len(clock) > 0 && r.Kind != "longest" {
+		// A fill would invent the hour the clock skipped; the other
+		// breaks are left for after the times are mended.
+		why := clockChangeText + s.set("Time", "none")
+		if r.Kind != "" {
+			why = s.set("Gaps", r.String()) + " would fill an hour that never existed: " + why
+		}
+		return nil, "", fail(why+" ("+s.set("Gaps", "longest")+" fits only the longest evenly spaced stretch)", clock)
 	}
 	switch r.Kind {
 	case "":

@@ -70,3 +70,80 @@ func TestGaps(t *testing.T) {
 		t.Errorf("longest tie: %+v %v", rec, err)
 	}
 }
+
+// TestClockChange is finding 9c: times written without an offset from
+// UTC that skip an hour (a local clock entering daylight saving) are
+// blamed on the clock, not called 60 missing samples, and neither hold
+// nor linear fills them (the hour never existed); a time that goes back
+// by up to an hour (leaving daylight saving) is blamed on the clock too.
+// The same rows written with their offsets (+01:00, then +02:00) are
+// evenly spaced, and Offsets keeps what each row was written with; a
+// skipped hour in UTC ("Z") or on an hourly record stays an ordinary
+// gap. The EU changed clocks on 2026-03-29 at 01:00 UTC and changes
+// back on 2026-10-25 at 01:00 UTC (Directive 2000/84/EC, art. 2 and 3).
+func TestClockChange(t *testing.T) {
+	spring := "time,y\n2026-03-29T01:58:00,1\n2026-03-29T01:59:00,2\n2026-03-29T03:00:00,3\n2026-03-29T03:01:00,4\n"
+	_, err := Read(strings.NewReader(spring), &Settings{File: "s.csv"})
+	var ge *GapError
+	if !errors.As(err, &ge) || len(ge.Breaks) != 1 || !ge.Breaks[0].ClockChange {
+		t.Fatalf("spring forward: %v", err)
+	}
+	checkWords(t, "spring", err.Error(), []string{"1 skipped hour", "daylight saving", "write the times with their offset", "Settings.Time = none"},
+		[]string{"60 samples missing", "linear:N fill"})
+	for _, r := range []Remedy{{Kind: "linear", Max: 60}, {Kind: "hold", Max: 60}} {
+		_, err := Read(strings.NewReader(spring), &Settings{File: "s.csv", Gaps: r})
+		if !errors.As(err, &ge) {
+			t.Fatalf("%s: %v", r, err)
+		}
+		checkWords(t, r.String(), err.Error(), []string{"Settings.Gaps = " + r.String() + " would fill an hour that never existed", "daylight saving"}, nil)
+	}
+	if rec, err := Read(strings.NewReader(spring), &Settings{File: "s.csv", Gaps: Remedy{Kind: "longest"}}); err != nil || rec.Len() != 2 {
+		t.Errorf("longest: %v", err)
+	}
+
+	zoned := "time,y\n2026-03-29T01:58:00+01:00,1\n2026-03-29T01:59:00+01:00,2\n2026-03-29T03:00:00+02:00,3\n2026-03-29T03:01:00+02:00,4\n"
+	rec, err := Read(strings.NewReader(zoned), &Settings{File: "z.csv"})
+	if err != nil || !rec.Zoned || !slices.Equal(rec.Offsets, []int{3600, 3600, 7200, 7200}) {
+		t.Fatalf("with offsets: %v, zoned %v, offsets %v", err, rec != nil && rec.Zoned, rec)
+	}
+	if rec, err := Read(strings.NewReader(spring), &Settings{File: "s.csv", Gaps: Remedy{Kind: "longest"}}); err != nil || rec.Zoned || !slices.Equal(rec.Offsets, []int{0, 0, 0, 0}) {
+		t.Errorf("without offsets: zoned %v, offsets %v (%v)", rec.Zoned, rec.Offsets, err)
+	}
+
+	for label, in := range map[string]string{
+		"UTC":    "time,y\n2026-03-29T01:58:00Z,1\n2026-03-29T01:59:00Z,2\n2026-03-29T03:00:00Z,3\n2026-03-29T03:01:00Z,4\n",
+		"hourly": "time,y\n2026-03-29T00:00:00,1\n2026-03-29T01:00:00,2\n2026-03-29T03:00:00,3\n2026-03-29T04:00:00,4\n2026-03-29T05:00:00,5\n",
+	} {
+		_, err := Read(strings.NewReader(in), &Settings{File: "u.csv"})
+		if !errors.As(err, &ge) || ge.Breaks[0].ClockChange || strings.Contains(err.Error(), "daylight") {
+			t.Errorf("%s: %v", label, err)
+		}
+	}
+
+	autumn := "time,y\n2026-10-25T02:58:00,1\n2026-10-25T02:59:00,2\n2026-10-25T02:00:00,3\n2026-10-25T02:01:00,4\n"
+	_, err = Read(strings.NewReader(autumn), &Settings{File: "a.csv", Names: map[string]string{"Time": "-time"}})
+	var le *LineError
+	if !errors.As(err, &le) || le.Line != 4 {
+		t.Fatalf("autumn: %v", err)
+	}
+	checkWords(t, "autumn", err.Error(), []string{"goes back", "daylight saving", "write the times with their offset", "-time none"}, nil)
+	if _, err := Read(strings.NewReader(strings.ReplaceAll(autumn, ":00,", ":00Z,")), &Settings{File: "a.csv"}); err == nil || strings.Contains(err.Error(), "daylight") {
+		t.Errorf("autumn in UTC: %v", err)
+	}
+}
+
+// checkWords reports the words of want missing from msg and those of not
+// found in it.
+func checkWords(t *testing.T, label, msg string, want, not []string) {
+	t.Helper()
+	for _, w := range want {
+		if !strings.Contains(msg, w) {
+			t.Errorf("%s: message lacks %q:\n%s", label, w, msg)
+		}
+	}
+	for _, w := range not {
+		if strings.Contains(msg, w) {
+			t.Errorf("%s: message holds %q:\n%s", label, w, msg)
+		}
+	}
+}

@@ -136,6 +136,14 @@ type Record struct {
 	// Times holds the time of every row read in seconds (since 1970 for
 	// calendar times).
 	Times []float64
+	// Offsets holds, for a time column of timestamps, the offset from
+	// UTC in seconds east that each row's time was written with (0 for
+	// "Z" and for a time written without one), so that a time can be
+	// shown as the file writes it; nil for other time columns. Zoned
+	// reports that the times carry an offset or "Z" (false: wall-clock
+	// times of an unknown zone, read as UTC).
+	Offsets []int
+	Zoned   bool
 	// Interval is the sample interval: Settings.Interval when given,
 	// else the median step of the time column in the largest unit it is
 	// a whole number of.

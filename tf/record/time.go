@@ -75,12 +75,22 @@ var calendarLayouts = []string{
 // calendar reads a calendar time as seconds since 1970 (UTC when no
 // zone is given).
 func calendar(cell string) (float64, bool) {
+	secs, _, _, ok := calendarZone(cell)
+	return secs, ok
+}
+
+// calendarZone reads a calendar time as seconds since 1970, with the
+// offset from UTC it was written with in seconds (0 for "Z") and
+// whether it was written with one at all (a time without a zone is read
+// as UTC: it is a wall-clock reading of an unknown zone).
+func calendarZone(cell string) (secs float64, offset int, zoned, ok bool) {
 	for _, l := range calendarLayouts {
 		if t, err := time.Parse(l, cell); err == nil {
-			return float64(t.Unix()) + float64(t.Nanosecond())/1e9, true
+			_, offset = t.Zone()
+			return float64(t.Unix()) + float64(t.Nanosecond())/1e9, offset, strings.Contains(l, "Z07"), true
 		}
 	}
-	return 0, false
+	return 0, 0, false, false
 }
 
 // timing is a time column read: the time of every row in seconds.
@@ -92,6 +102,11 @@ type timing struct {
 	calendar, dates bool
 	// unit is the unit of numeric times.
 	unit string
+	// offsets are the offsets from UTC each calendar row was written
+	// with (seconds east; 0 for "Z" or none), zoned whether it was
+	// written with one.
+	offsets []int
+	zoned   []bool
 	// median is the median step between rows, in seconds.
 	median float64
 	steps  int
@@ -123,7 +138,7 @@ func findTime(t *table, s *Settings, used map[string]bool) (*timing, error) {
 	if err := tm.read(t, s, cells); err != nil {
 		return nil, err
 	}
-	if err := tm.spacing(t, cells); err != nil {
+	if err := tm.spacing(t, s, cells); err != nil {
 		return nil, err
 	}
 	return tm, nil
@@ -181,7 +196,10 @@ func (tm *timing) read(t *table, s *Settings, cells []string) error {
 		var v float64
 		ok := false
 		if tm.calendar {
-			v, ok = calendar(c)
+			if tm.offsets == nil {
+				tm.offsets, tm.zoned = make([]int, len(cells)), make([]bool, len(cells))
+			}
+			v, tm.offsets[i], tm.zoned[i], ok = calendarZone(c)
 		} else {
 			x, err := strconv.ParseFloat(c, 64)
 			ok = err == nil && !math.IsNaN(x) && !math.IsInf(x, 0)
@@ -203,7 +221,7 @@ func (tm *timing) read(t *table, s *Settings, cells []string) error {
 
 // spacing refuses times that repeat or go back, and sets the number of
 // steps and their median.
-func (tm *timing) spacing(t *table, cells []string) error {
+func (tm *timing) spacing(t *table, s *Settings, cells []string) error {
 	col := tm.column
 	var steps []float64
 	for i := 1; i < len(tm.secs); i++ {
@@ -213,8 +231,12 @@ func (tm *timing) spacing(t *table, cells []string) error {
 			if d < 0 {
 				what = "goes back"
 			}
-			return &LineError{File: t.file, Line: t.lines[i], Column: col, Kind: ErrSample,
-				Problem: fmt.Sprintf("the time %s: %s after %s on line %d (the rows must be in time order, each sampled once)", what, clip(cells[i]), clip(cells[i-1]), t.lines[i-1])}
+			problem := fmt.Sprintf("the time %s: %s after %s on line %d (the rows must be in time order, each sampled once)", what, clip(cells[i]), clip(cells[i-1]), t.lines[i-1])
+			if d < 0 && d >= -clockChangeSkips && tm.zoned != nil && !tm.zoned[i] && !tm.zoned[i-1] {
+				// A local clock going back as daylight saving ends.
+				problem += "; " + clockChangeText + s.set("Time", "none")
+			}
+			return &LineError{File: t.file, Line: t.lines[i], Column: col, Kind: ErrSample, Problem: problem}
 		}
 		steps = append(steps, d)
 	}
@@ -279,6 +301,8 @@ func (rec *Record) timing(t *table, tm *timing, s *Settings) error {
 	}
 	rec.TimeColumn, rec.Times, rec.Calendar, rec.Dates, rec.TimeUnit = tm.column, tm.secs, tm.calendar, tm.dates, tm.unit
 	rec.Steps, rec.Median = tm.steps, tm.median
+	rec.Offsets = tm.offsets
+	rec.Zoned = slices.Contains(tm.zoned, true)
 	what := "numbers in " + unitName(tm.unit)
 	switch {
 	case tm.dates:
