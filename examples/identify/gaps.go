@@ -7,7 +7,6 @@ import (
 	"math"
 	"strings"
 
-	"github.com/backshift/backshift/internal/gaps"
 	"github.com/backshift/backshift/tf"
 	"github.com/backshift/backshift/tf/fit"
 	"github.com/backshift/backshift/tf/identify"
@@ -68,7 +67,7 @@ type Gaps struct {
 func findGaps(o Options, ds *dataset) *Gaps {
 	y := ds.data[ds.output]
 	g := &Gaps{StretchTo: len(y)}
-	for _, r := range gaps.Runs(y) {
+	for _, r := range identify.Gaps(y) {
 		s, t := r[0], r[1]
 		og := OutputGap{First: s, Last: t - 1, Len: t - s, From: ds.sampleTime(s), To: ds.sampleTime(t - 1),
 			Duration: amount(float64(t-s)*ds.step(), ds.timeUnit()),

@@ -2,6 +2,7 @@ package fit
 
 import (
 	"errors"
+	"github.com/backshift/backshift/internal/gaps"
 	"math"
 	"sort"
 	"strconv"
@@ -88,15 +89,8 @@ type gap struct{ start, n int }
 // gapsOf returns the runs of NaN samples of x.
 func gapsOf(x []float64) []gap {
 	var out []gap
-	for t := 0; t < len(x); t++ {
-		if !math.IsNaN(x[t]) {
-			continue
-		}
-		s := t
-		for t < len(x) && math.IsNaN(x[t]) {
-			t++
-		}
-		out = append(out, gap{s, t - s})
+	for _, r := range gaps.Runs(x) {
+		out = append(out, gap{r[0], r[1] - r[0]})
 	}
 	return out
 }
@@ -111,11 +105,7 @@ func gapText(gs []gap) string {
 		if i >= 8 {
 			continue
 		}
-		if g.n == 1 {
-			parts = append(parts, strconv.Itoa(g.start))
-		} else {
-			parts = append(parts, strconv.Itoa(g.start)+".."+strconv.Itoa(g.start+g.n-1)+" ("+strconv.Itoa(g.n)+" samples)")
-		}
+		parts = append(parts, gaps.Span([2]int{g.start, g.start + g.n}))
 	}
 	s := strconv.Itoa(total) + " missing (NaN) at " + strings.Join(parts, ", ")
 	if len(gs) > 8 {
@@ -207,8 +197,7 @@ func fillInput(name string, x []float64, gs []gap, g GapFill) ([]float64, []Inpu
 			why = "at the end of the record, with no value after it to interpolate to; cut the record before it, or use HoldFill"
 		}
 		if why != "" {
-			return nil, nil, gapErr(name, gp.start, "an input: the gap at "+strconv.Itoa(gp.start)+".."+strconv.Itoa(gp.start+gp.n-1)+
-				" ("+strconv.Itoa(gp.n)+" samples) cannot be filled: "+why)
+			return nil, nil, gapErr(name, gp.start, "an input: the gap at "+gaps.Span([2]int{gp.start, gp.start + gp.n})+" cannot be filled: "+why)
 		}
 	}
 	out := append([]float64(nil), x...)

@@ -10,6 +10,13 @@ import (
 	"github.com/backshift/backshift/internal/gaps"
 )
 
+// Gaps returns the runs of missing samples (NaN) of x, oldest first,
+// each as a half-open range [start, end) of indices: x[start:end] is all
+// NaN and the samples either side (when inside x) are not. A series with
+// no missing sample gives nil. Gaps is safe for concurrent use and does
+// not modify x.
+func Gaps(x []float64) [][2]int { return gaps.Runs(x) }
+
 // GapFree returns the longest stretch of samples [from, to) in which
 // none of the named series of data is NaN (a missing sample), the later
 // one on a tie (the process as it is now). A name that is not in data,
