@@ -118,8 +118,9 @@
 // error, t, and whether it lies near an end or a gap, where its kind or
 // size is less firm. -outliers refit also adds the outliers as event
 // inputs (tf.Model.WithOutliers: an additive one as a pulse, a level
-// shift as a step, a temporary change as a decaying pulse; an
-// innovational one is a shock of the noise and is left out), refits by
+// shift as a step, a temporary change as a decaying pulse, each through
+// the output's differencing D(B) when the spec differences the output;
+// an innovational one is a shock of the noise and is left out), refits by
 // the first fit's method (with a gap in the output, the whole record's
 // exact likelihood) from the same first residual, and prints sigma^2,
 // AIC and BIC of both fits, the estimates that moved by more than one
