@@ -3,11 +3,12 @@ package main
 import (
 	"bytes"
 	"errors"
-	"image/png"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // TestPictures draws the loop's pictures through the command line and
@@ -20,15 +21,7 @@ func TestPictures(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errb.String())
 	}
 	for _, name := range []string{signalPicture, stepPicture, sensitivityPicture} {
-		f, err := os.Open(filepath.Join(dir, name))
-		if err != nil {
-			t.Fatal(err)
-		}
-		img, err := png.Decode(f)
-		f.Close()
-		if err != nil {
-			t.Fatalf("%s: %v", name, err)
-		}
+		img := testutil.ReadPNG(t, filepath.Join(dir, name))
 		if w := img.Bounds().Dx(); w < 1555 || w > 1563 {
 			t.Errorf("%s is %d pixels wide, want about 1559", name, w)
 		}

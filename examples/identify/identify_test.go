@@ -5,7 +5,6 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
-	"image/png"
 	"math"
 	"os"
 	"path/filepath"
@@ -14,6 +13,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/examples/greenhouse"
+	"github.com/backshift/backshift/internal/testutil"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf/identify"
 )
@@ -74,15 +74,7 @@ func TestDemoRecoversTheTruth(t *testing.T) {
 		if filepath.Base(res.Pictures[i]) != name+".png" {
 			t.Errorf("picture %d is %s, want %s.png", i, res.Pictures[i], name)
 		}
-		f, err := os.Open(res.Pictures[i])
-		if err != nil {
-			t.Fatal(err)
-		}
-		img, err := png.Decode(f)
-		f.Close()
-		if err != nil {
-			t.Fatalf("%s: %v", name, err)
-		}
+		img := testutil.ReadPNG(t, res.Pictures[i])
 		if b := img.Bounds(); b.Dx() < 1500 || b.Dy() < 500 {
 			t.Errorf("%s is only %dx%d pixels", name, b.Dx(), b.Dy())
 		}

@@ -2,6 +2,8 @@ package testutil
 
 import (
 	"encoding/json"
+	"image"
+	"image/png"
 	"math"
 	"math/cmplx"
 	"os"
@@ -135,4 +137,20 @@ func WriteFile(t testing.TB, name, body string) string {
 		t.Fatal(err)
 	}
 	return path
+}
+
+// ReadPNG decodes the PNG picture at path, failing t (with the path)
+// when it cannot be opened or decoded.
+func ReadPNG(t testing.TB, path string) image.Image {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	img, err := png.Decode(f)
+	if err != nil {
+		t.Fatalf("%s: %v", path, err)
+	}
+	return img
 }

@@ -116,16 +116,7 @@ func TestDifferencedEventInsideOutputGap(t *testing.T) {
 // Before, Forecast refused: "the event falls at sample 150, after the
 // record's last sample".
 func TestEventForecastShortData(t *testing.T) {
-	rng := rand.New(rand.NewPCG(3, 4))
-	y := make([]float64, 300)
-	noise := 0.0
-	for i := range y {
-		noise = 0.5*noise + rng.NormFloat64()
-		y[i] = 2 + noise
-		if i >= 150 {
-			y[i] += 3
-		}
-	}
+	y := eventForecastRecord()
 	m := parse.MustModel("y = c + k step(150) + 1 / (1 - p1 B) a")
 	for _, meth := range []fit.Method{fit.LeastSquares, fit.ExactML} {
 		est, err := fit.Model(context.Background(), m, map[string][]float64{"y": y}, &fit.Settings{Method: meth})

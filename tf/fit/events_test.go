@@ -124,16 +124,7 @@ func TestOutliersWholeModel(t *testing.T) {
 // forecast decaying as p1^h (Box, Jenkins, Reinsel & Ljung 2015, the
 // forecasting chapter: an AR(1)'s forecast tends to its mean).
 func TestEventForecast(t *testing.T) {
-	rng := rand.New(rand.NewPCG(3, 4))
-	y := make([]float64, 300)
-	noise := 0.0
-	for i := range y {
-		noise = 0.5*noise + rng.NormFloat64()
-		y[i] = 2 + noise
-		if i >= 150 {
-			y[i] += 3
-		}
-	}
+	y := eventForecastRecord()
 	est := fitEvents(t, "y = c + k step(150) + 1 / (1 - p1 B) a", map[string][]float64{"y": y}, time.Time{})
 	fc, err := est.Forecast(map[string][]float64{"y": y}, 200, nil)
 	if err != nil {
@@ -244,4 +235,21 @@ func stepRecord(rng *rand.Rand, n int, phi float64, at int, size float64) (x, y 
 		}
 	}
 	return x, y
+}
+
+// eventForecastRecord is the record of the event forecast tests: 300
+// samples of y_t = 2 + n_t + 3 [t >= 150], (1 - 0.5 B) n_t = a_t, a_t
+// standard normal from a fixed seed.
+func eventForecastRecord() []float64 {
+	rng := rand.New(rand.NewPCG(3, 4))
+	y := make([]float64, 300)
+	noise := 0.0
+	for i := range y {
+		noise = 0.5*noise + rng.NormFloat64()
+		y[i] = 2 + noise
+		if i >= 150 {
+			y[i] += 3
+		}
+	}
+	return y
 }

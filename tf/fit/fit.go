@@ -12,6 +12,7 @@ import (
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/est"
 	"github.com/backshift/backshift/internal/filter"
+	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -400,33 +401,14 @@ func bindModel(m tf.Model) (binding, error) {
 	if err := m.Validate(); err != nil {
 		return binding{}, err
 	}
-	b := binding{m: m.Clone(), index: map[string]int{}}
-	held := map[string]bool{}
-	add := func(c *tf.Coef) {
-		if c.Name == "" {
-			return
-		}
-		if !c.Free {
-			held[c.Name] = true
-			return
-		}
-		k, ok := b.index[c.Name]
-		if !ok {
-			k = len(b.names)
-			b.index[c.Name] = k
-			b.names = append(b.names, c.Name)
-			b.coefs = append(b.coefs, nil)
-		}
-		b.coefs[k] = append(b.coefs[k], c)
-	}
-	b.m.EachParam(add)
+	b := binding{m: m.Clone()}
+	p := sym.GroupParams(b.m.EachParam)
+	b.names, b.coefs, b.index = p.Names, p.Coefs, p.Index
 	if err := fixedDifferencing(b.m); err != nil {
 		return binding{}, err
 	}
-	for name := range held {
-		if _, ok := b.index[name]; ok {
-			return binding{}, errs.Model("coefficient "+name, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
-		}
+	if p.Conflict != "" {
+		return binding{}, errs.Model("coefficient "+p.Conflict, "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)")
 	}
 	if len(b.names) == 0 {
 		return binding{}, errs.Model("model", "nothing is free to estimate (every coefficient is held); mark at least one coefficient free")

@@ -315,23 +315,8 @@ func TestModelRun1(t *testing.T) {
 // the pole estimate back within 3 SE of the truth, where the plain fit
 // is biased.
 func TestModelSettle(t *testing.T) {
-	rng := fixture.NewRand(41)
 	n := 2000
-	pre := 300
-	x := make([]float64, n+pre)
-	for i := range x {
-		x[i] = 0.2 * rng.NormFloat64()
-		if i < pre {
-			x[i] += 10 // an earlier operating level
-		}
-	}
-	u := make([]float64, n+pre)
-	filter.Run(u[1:], []float64{0.5}, []float64{1, -0.95}, x[:n+pre-1])
-	y := make([]float64, n)
-	for i := range y {
-		y[i] = u[pre+i] + 0.05*rng.NormFloat64()
-	}
-	data := map[string][]float64{"y": y, "x": x[pre:]}
+	data := fixture.TransientRecord(41, n, 300)
 	m := tf.Model{Output: "y", Const: &tf.Coef{Name: "c", Free: true},
 		Inputs: []tf.Input{{Series: "x", Num: fixture.Poly(fixture.Factor(fixture.Term(false, "w0", 0, 0))), Den: fixture.OneMinus("d1", 1), Delay: 1}}}
 	plain := mustFit(t, m, data, nil)

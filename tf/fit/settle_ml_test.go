@@ -6,7 +6,6 @@ import (
 	"math"
 	"testing"
 
-	"github.com/backshift/backshift/internal/filter"
 	"github.com/backshift/backshift/parse"
 	"github.com/backshift/backshift/tf/fit"
 )
@@ -23,22 +22,8 @@ import (
 // within 3 SE of 0.95 (common practice). Before, ExactML ignored
 // Settle without a word.
 func TestSettleExactML(t *testing.T) {
-	rng := fixture.NewRand(41) // the draws of TestModelSettle
-	n, pre := 2000, 300
-	x := make([]float64, n+pre)
-	for i := range x {
-		x[i] = 0.2 * rng.NormFloat64()
-		if i < pre {
-			x[i] += 10
-		}
-	}
-	u := make([]float64, n+pre)
-	filter.Run(u[1:], []float64{0.5}, []float64{1, -0.95}, x[:n+pre-1])
-	y := make([]float64, n)
-	for i := range y {
-		y[i] = u[pre+i] + 0.05*rng.NormFloat64()
-	}
-	data := map[string][]float64{"y": y, "x": x[pre:]}
+	n := 2000
+	data := fixture.TransientRecord(41, n, 300) // the record of TestModelSettle
 	m := parse.MustModel("y = c + w0 / (1 - d1 B) B x + a")
 	plain, err := fit.Model(context.Background(), m, data, &fit.Settings{Method: fit.ExactML})
 	if err != nil {

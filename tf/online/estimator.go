@@ -6,6 +6,7 @@ import (
 
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/est"
+	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -160,34 +161,16 @@ func bind(m tf.Model) (*Estimator, error) {
 		return nil, err
 	}
 	e := &Estimator{output: m.Output, work: m.Clone(), constK: -1}
-	index := map[string]int{}
-	held := map[string]bool{}
-	add := func(c *tf.Coef) {
-		if c.Name == "" {
-			return
-		}
-		if !c.Free {
-			held[c.Name] = true
-			return
-		}
-		k, ok := index[c.Name]
-		if !ok {
-			k = len(e.names)
-			index[c.Name] = k
-			e.names = append(e.names, c.Name)
-			e.start = append(e.start, c.Value)
-			e.coefs = append(e.coefs, nil)
-		}
-		e.coefs[k] = append(e.coefs[k], c)
+	p := sym.GroupParams(e.work.EachParam)
+	e.names, e.coefs = p.Names, p.Coefs
+	for _, cs := range p.Coefs {
+		e.start = append(e.start, cs[0].Value)
 	}
-	e.work.EachParam(add)
 	if err := noFreeDiff(e.work); err != nil {
 		return nil, err
 	}
-	for _, name := range e.names {
-		if held[name] {
-			return nil, &ModelError{Part: "coefficient " + name, Problem: "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)"}
-		}
+	if name := p.Conflict; name != "" {
+		return nil, &ModelError{Part: "coefficient " + name, Problem: "it is free in one place and held in another; one name is one parameter, so mark it the same way everywhere (or rename one)"}
 	}
 	if len(e.names) == 0 {
 		return nil, &ModelError{Part: "model", Problem: "nothing is free to estimate (every coefficient is held); mark at least one coefficient free"}
