@@ -250,6 +250,7 @@ func Fit(x []float64, s *Settings) (Filter, error) {
 	return r0, withOp("prewhiten.Fit", err)
 }
 
+// fit is Fit without the Op.
 func fit(x []float64, s *Settings) (Filter, error) {
 	if err := s.Validate(); err != nil {
 		return Filter{}, err
@@ -272,52 +273,7 @@ func fit(x []float64, s *Settings) (Filter, error) {
 		return Filter{}, constantError(name, x[0], "")
 	}
 	if set.Order != nil {
-		// The differencing is applied here in either spelling (Diff or
-		// Order's D and SD), and the ARMA part is fitted to the
-		// differenced input with its mean, so that both spellings give
-		// the same filter.
-		ord := *set.Order
-		diff := normPoly(set.Diff)
-		if set.Diff == nil {
-			diff = normPoly(arma.Model{D: ord.D, SD: ord.SD, Period: ord.Period}.DiffPoly())
-		}
-		d := len(diff) - 1
-		if d+3 > len(x) {
-			return Filter{}, shortError(name, len(x), d+3, "for the differencing "+polyText(diff))
-		}
-		w := applyFIR(x, diff)[d:]
-		if isConstant(w) {
-			return Filter{}, constantError(name, w[0], polyText(diff))
-		}
-		ord.D, ord.SD = 0, 0
-		if ord.SP == 0 && ord.SQ == 0 {
-			ord.Period = 0
-		}
-		res, err := arma.Fit(context.Background(), w, ord, &arma.FitSettings{Name: name, Constant: arma.ConstantFree})
-		if res == nil {
-			// The fit saw the differenced series: report lengths and
-			// indexes of x itself.
-			var sse *SeriesError
-			var sae *SampleError
-			why := "for the filter of Settings.Order " + set.Order.String() + " after the differencing " + polyText(diff)
-			// The differenced sample beyond the limit is reported at
-			// the index of x it ends at.
-			series := name + " after the differencing " + polyText(diff)
-			switch {
-			case errors.As(err, &sse) && sse.Kind == ErrShort:
-				return Filter{}, shortError(name, len(x), sse.Need+d, why)
-			case errors.As(err, &sae):
-				return Filter{}, &SampleError{Series: series, Index: sae.Index + d, Value: sae.Value, Limit: sae.Limit}
-			}
-			return Filter{}, err
-		}
-		m := res.Model
-		set.ARMA, set.Diff = &m, diff
-		f, ferr := fromARMA(x, name, set, "Settings.Order")
-		if ferr != nil {
-			return Filter{}, ferr
-		}
-		return f, err // nil, or the fit's *arma.ConvergenceError
+		return fitOrder(x, name, set)
 	}
 	if set.ARMA != nil {
 		return fromARMA(x, name, set, "Settings.ARMA")
@@ -342,6 +298,58 @@ func fit(x []float64, s *Settings) (Filter, error) {
 	return f, nil
 }
 
+// fitOrder fits the filter of Settings.Order: the differencing, in
+// either spelling (Diff or Order's D and SD), is applied here, and the
+// ARMA part is fitted to the differenced input with its mean, so that
+// both spellings give the same filter. Errors of the fit are reported
+// in lengths and indexes of x itself.
+func fitOrder(x []float64, name string, set Settings) (Filter, error) {
+	ord := *set.Order
+	diff := normPoly(set.Diff)
+	if set.Diff == nil {
+		diff = normPoly(arma.Model{D: ord.D, SD: ord.SD, Period: ord.Period}.DiffPoly())
+	}
+	d := len(diff) - 1
+	if d+3 > len(x) {
+		return Filter{}, shortError(name, len(x), d+3, "for the differencing "+polyText(diff))
+	}
+	w := applyFIR(x, diff)[d:]
+	if isConstant(w) {
+		return Filter{}, constantError(name, w[0], polyText(diff))
+	}
+	ord.D, ord.SD = 0, 0
+	if ord.SP == 0 && ord.SQ == 0 {
+		ord.Period = 0
+	}
+	res, err := arma.Fit(context.Background(), w, ord, &arma.FitSettings{Name: name, Constant: arma.ConstantFree})
+	if res == nil {
+		// The fit saw the differenced series: report lengths and
+		// indexes of x itself.
+		var sse *SeriesError
+		var sae *SampleError
+		why := "for the filter of Settings.Order " + set.Order.String() + " after the differencing " + polyText(diff)
+		// The differenced sample beyond the limit is reported at
+		// the index of x it ends at.
+		series := name + " after the differencing " + polyText(diff)
+		switch {
+		case errors.As(err, &sse) && sse.Kind == ErrShort:
+			return Filter{}, shortError(name, len(x), sse.Need+d, why)
+		case errors.As(err, &sae):
+			return Filter{}, &SampleError{Series: series, Index: sae.Index + d, Value: sae.Value, Limit: sae.Limit}
+		}
+		return Filter{}, err
+	}
+	m := res.Model
+	set.ARMA, set.Diff = &m, diff
+	f, ferr := fromARMA(x, name, set, "Settings.Order")
+	if ferr != nil {
+		return Filter{}, ferr
+	}
+	return f, err // nil, or the fit's *arma.ConvergenceError
+}
+
+// fitAR fits the autoregressive filter of the series x after the
+// differencing diff, its order chosen up to maxOrder.
 func fitAR(x []float64, name string, diff []float64, maxOrder int) (Filter, error) {
 	d := len(diff) - 1
 	w := applyFIR(x, diff)[d:]

@@ -218,26 +218,8 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	if kx <= 0 {
 		kx = lags
 	}
-	// The inputs as the fit saw them (gaps filled by its rule).
-	xdata, _, _, err := prepareGaps(e.Model, data, Settings{Method: e.Method, InputGaps: e.Conditioning.InputGaps})
-	if err != nil {
+	if d.Cross, err = crossChecks(e, data, resid, first, kx, set.Alpha); err != nil {
 		return nil, err
-	}
-	var grad [][]float64
-	for _, in := range e.Model.Inputs {
-		if in.Event != nil {
-			continue
-		}
-		if grad == nil {
-			if grad, err = residualGradient(e, data); err != nil {
-				return nil, err
-			}
-		}
-		cc, err := crossCheck(in, xdata[in.Series], resid, grad, first, kx, set.Alpha)
-		if err != nil {
-			return nil, err
-		}
-		d.Cross = append(d.Cross, cc)
 	}
 	d.Failures = e.Soundness()
 	if !d.Residual.Pass {
@@ -250,6 +232,34 @@ func Check(e *Estimate, data map[string][]float64, s *CheckSettings) (_ *Diagnos
 	}
 	d.Pass = len(d.Failures) == 0
 	return d, nil
+}
+
+// crossChecks runs the cross-check of the residuals resid (from first
+// on) against each input that is not an event, at lags 0..kx, on the
+// inputs as the fit saw them (gaps filled by its rule).
+func crossChecks(e *Estimate, data map[string][]float64, resid []float64, first, kx int, alpha float64) ([]CrossCheck, error) {
+	xdata, _, _, err := prepareGaps(e.Model, data, Settings{Method: e.Method, InputGaps: e.Conditioning.InputGaps})
+	if err != nil {
+		return nil, err
+	}
+	var out []CrossCheck
+	var grad [][]float64
+	for _, in := range e.Model.Inputs {
+		if in.Event != nil {
+			continue
+		}
+		if grad == nil {
+			if grad, err = residualGradient(e, data); err != nil {
+				return nil, err
+			}
+		}
+		cc, err := crossCheck(in, xdata[in.Series], resid, grad, first, kx, alpha)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, cc)
+	}
+	return out, nil
 }
 
 // checkLags returns the number of autocorrelation lags of the Ljung-Box

@@ -266,20 +266,8 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 	if set.Future, err = eventFutures(e, set.Future, len(data[e.Model.Output]), h); err != nil {
 		return nil, err
 	}
-	if hasEvents(e.Model) {
-		// Events still ahead of data's end go on as known series.
-		e2, d2, err := eventsAhead(e, data, len(data[e.Model.Output]))
-		if err != nil {
-			return nil, err
-		}
-		if e2 != e {
-			fc, err := e2.Forecast(d2, h, &set)
-			if err != nil {
-				return nil, err
-			}
-			dropEventPlanWarnings(e.Model, fc)
-			return fc, nil
-		}
+	if fc, done, err := e.forecastEventsAhead(data, h, set); done || err != nil {
+		return fc, err
 	}
 	if e.Method == ExactML {
 		return e.forecastML(data, h, set)
@@ -317,6 +305,24 @@ func (e *Estimate) Forecast(data map[string][]float64, h int, s *ForecastSetting
 			Message: "the estimate is not to be trusted, nor forecasts from it: " + strings.Join(bad, "; ")})
 	}
 	return fc, nil
+}
+
+// forecastEventsAhead forecasts with the events still ahead of data's
+// end passed on as known series (done true), or does nothing (done
+// false) when e has no such event.
+func (e *Estimate) forecastEventsAhead(data map[string][]float64, h int, set ForecastSettings) (fc *Forecast, done bool, err error) {
+	if !hasEvents(e.Model) {
+		return nil, false, nil
+	}
+	e2, d2, err := eventsAhead(e, data, len(data[e.Model.Output]))
+	if err != nil || e2 == e {
+		return nil, err != nil, err
+	}
+	if fc, err = e2.Forecast(d2, h, &set); err != nil {
+		return nil, true, err
+	}
+	dropEventPlanWarnings(e.Model, fc)
+	return fc, true, nil
 }
 
 // checkForecast checks the horizon, the estimate, the settings (setting
