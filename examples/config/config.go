@@ -18,7 +18,10 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// Config is a site's model library.
+// Config is a site's model library. It is written out here, with a
+// parse.Spec as a field of the program's own struct, to show the pattern;
+// the other examples share the same format as modelinfo.Library
+// (TestSameAsLibrary keeps the two in step).
 type Config struct {
 	// Site names the plant.
 	Site string `json:"site"`

@@ -13,13 +13,10 @@ import (
 )
 
 // savedModel is one model entry of a config file as examples/identify
-// -save writes it and examples/config reads it.
-type savedModel struct {
-	Name     string              `json:"name"`
-	Notes    string              `json:"notes"`
-	Spec     string              `json:"spec"`
-	Validity *modelinfo.Validity `json:"validity"`
-}
+// -save writes it and examples/config reads it; its spec is kept as text,
+// parsed when the plant is built (after the verdict is checked, and with
+// the model's name in the message).
+type savedModel = modelinfo.Saved[string]
 
 // loadModel reads the config file and returns the model entry named
 // name, or the only entry when name is empty. Unknown keys are refused
@@ -33,13 +30,8 @@ func loadModel(file, name string) (*savedModel, error) {
 	if len(bytes.TrimSpace(raw)) == 0 {
 		return nil, errors.New("the file is empty; it should hold {\"site\": ..., \"models\": [...]} as examples/identify -save writes it")
 	}
-	var cfg struct {
-		Site   string       `json:"site"`
-		Models []savedModel `json:"models"`
-	}
-	dec := json.NewDecoder(bytes.NewReader(raw))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(&cfg); err != nil {
+	cfg, err := modelinfo.DecodeLibrary[string](raw)
+	if err != nil {
 		var se *json.SyntaxError
 		if errors.As(err, &se) {
 			line, col := lineCol(raw, se.Offset-1) // Offset counts the bytes read, the bad one included

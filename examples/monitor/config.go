@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -17,20 +16,10 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// config is a site's model library in the format of examples/config (the
-// file examples/identify -save writes): each model is one loop.
-type config struct {
-	Site   string  `json:"site"`
-	Models []entry `json:"models"`
-}
-
-// entry is one model of the file.
-type entry struct {
-	Name     string              `json:"name"`
-	Notes    string              `json:"notes"`
-	Spec     parse.Spec          `json:"spec"`
-	Validity *modelinfo.Validity `json:"validity"`
-}
+// entry is one model of a site's model library (the file of
+// examples/config, which examples/identify -save writes): each model is
+// one loop.
+type entry struct{ modelinfo.Saved[parse.Spec] }
 
 // loopSpec is what the service needs to run one loop: its name, its
 // model with every coefficient held, and the standard deviation of the
@@ -82,10 +71,8 @@ func decodeConfig(raw []byte, sigmas map[string]float64) ([]loopSpec, error) {
 // decodeConfigAt is decodeConfig with the -from of the loops, by name,
 // and the clock at start.
 func decodeConfigAt(raw []byte, sigmas map[string]float64, from map[string]streamStart, now time.Time) ([]loopSpec, error) {
-	var c config
-	dec := json.NewDecoder(bytes.NewReader(bytes.TrimPrefix(raw, []byte{0xef, 0xbb, 0xbf})))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(&c); err != nil {
+	c, err := modelinfo.DecodeLibrary[parse.Spec](bytes.TrimPrefix(raw, []byte{0xef, 0xbb, 0xbf}))
+	if err != nil {
 		return nil, fmt.Errorf("not a model config (run examples/config -file on it for the position): %w", err)
 	}
 	if len(c.Models) == 0 {
@@ -93,7 +80,8 @@ func decodeConfigAt(raw []byte, sigmas map[string]float64, from map[string]strea
 	}
 	var loops []loopSpec
 	seen := map[string]bool{}
-	for i, e := range c.Models {
+	for i, saved := range c.Models {
+		e := entry{saved}
 		l, err := e.loop(sigmas)
 		if err == nil {
 			var f *streamStart
@@ -134,7 +122,7 @@ func (e entry) loop(sigmas map[string]float64) (loopSpec, error) {
 		return loopSpec{}, errors.New(`it has no "spec"`)
 	case len(free(m)) > 0:
 		return loopSpec{}, fmt.Errorf("its spec has free coefficients (%s); the service runs models with every coefficient held, as examples/identify -save writes them", strings.Join(free(m), ", "))
-	case e.Validity != nil && e.Validity.Verdict == modelinfo.VerdictFailed:
+	case e.Failed():
 		return loopSpec{}, errors.New("it was saved with a failed verdict (-save-untrusted); a model that fails its checks is no base for alarms: identify it again")
 	}
 	for _, s := range append([]string{m.Output}, inputNames(m)...) {

@@ -2,7 +2,8 @@
 // input path of a model: gain, dead time, time constants (or natural
 // frequency and damping), poles, stability and step-response metrics, in
 // samples and, when the model has a sample interval, in its time unit.
-// It is shared by the examples.
+// It is shared by the examples, with the file they keep models in
+// (Library: a site's saved models, each with its Validity record).
 //
 // A path is the transfer function from one input to the output, including
 // the input's and the output's differencing: with (1 - B) on the output it

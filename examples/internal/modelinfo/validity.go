@@ -9,8 +9,9 @@ import (
 
 // Validity is what a saved model carries about the record it was fitted
 // to, so that whoever loads it later knows where it may be trusted. It is
-// the "validity" object of a model entry in the config files that
-// examples/identify writes and examples/config and examples/harness read.
+// the "validity" object of a model of a Library, the config file that
+// examples/identify writes and examples/config, examples/harness and
+// examples/monitor read.
 type Validity struct {
 	// Samples is the number of samples of the record.
 	Samples int `json:"samples"`
