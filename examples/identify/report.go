@@ -2,11 +2,9 @@ package main
 
 import (
 	"context"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 
@@ -106,26 +104,13 @@ func mapCoefs(m tf.Model, fn func(*tf.Coef)) tf.Model {
 //
 // extra are more notes: the verdict's caveat, the refit (see save).
 func saveConfig(path string, est *fit.Estimate, ds *dataset, v *modelinfo.Validity, extra ...string) error {
-	type entry struct {
-		Name     string              `json:"name"`
-		Notes    string              `json:"notes"`
-		Spec     parse.Spec          `json:"spec"`
-		Validity *modelinfo.Validity `json:"validity"`
-	}
-	cfg := struct {
-		Site   string  `json:"site"`
-		Models []entry `json:"models"`
-	}{Site: ds.name, Models: []entry{{
+	lib := modelinfo.Library[parse.Spec]{Site: ds.name, Models: []modelinfo.Saved[parse.Spec]{{
 		Name:     ds.output + " (identified)",
 		Notes:    strings.Join(append(saveNotes(est, ds), extra...), "; "),
 		Spec:     parse.Spec{Model: fixed(est.Model, -1)},
 		Validity: v,
 	}}}
-	b, err := json.MarshalIndent(cfg, "", "  ")
-	if err != nil {
-		return err
-	}
-	return os.WriteFile(path, append(b, '\n'), 0o644)
+	return lib.WriteFile(path)
 }
 
 // saveNotes are the notes of a saved model: what it was fitted to, what
