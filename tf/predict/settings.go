@@ -57,7 +57,8 @@ type Settings struct {
 	First int
 	// ZeroPreSample takes inputs without differencing as zero before
 	// their first sample instead of held at it, as
-	// Conditioning.ZeroPreSample of the fit.
+	// Conditioning.ZeroPreSample of the fit; a step event before sample
+	// 0 is held at 1 all the same (see Offset).
 	ZeroPreSample bool
 	// Level is the coverage of the prediction intervals, in (0, 1).
 	// Zero means 0.95.
