@@ -3,7 +3,6 @@ package predict
 import (
 	"math"
 	"strconv"
-	"time"
 
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/poly"
@@ -30,7 +29,7 @@ func compile(m tf.Model, sigma2 float64, set Settings) (*plan, error) {
 	if m.Const != nil {
 		pl.c = m.Const.Value
 	}
-	if err := pl.compileInputs(m, set.Start); err != nil {
+	if err := pl.compileInputs(m, set); err != nil {
 		return nil, err
 	}
 	if err := pl.compileNoise(m); err != nil {
@@ -39,7 +38,7 @@ func compile(m tf.Model, sigma2 float64, set Settings) (*plan, error) {
 	pl.first = max(pl.first, set.First)
 	pl.smallKernel()
 	pl.layout()
-	pl.fp = fingerprint(pl)
+	pl.fp, pl.shape = fingerprint(pl, true), fingerprint(pl, false)
 	return pl, nil
 }
 
@@ -77,14 +76,14 @@ func stable(c []float64, part, why string) error {
 // compileInputs builds the input terms: their series columns, the
 // coefficient slices, gains and the start-up rule, refusing an unstable
 // denominator.
-func (pl *plan) compileInputs(m tf.Model, start time.Time) error {
+func (pl *plan) compileInputs(m tf.Model, set Settings) error {
 	col, evCol := map[string]int{}, map[string]int{}
 	for _, in := range m.Inputs {
 		part := "input " + strconv.Quote(in.Series)
 		var k int
 		if in.Event != nil {
 			var err error
-			if k, err = pl.compileEvent(m, in, start, evCol); err != nil {
+			if k, err = pl.compileEvent(m, in, set, evCol); err != nil {
 				return err
 			}
 		} else if c, ok := col[in.Series]; ok {
@@ -103,16 +102,19 @@ func (pl *plan) compileInputs(m tf.Model, start time.Time) error {
 		}
 		ip.d = len(ip.diff) - 1
 		ip.plain = ip.d == 0 && ip.diff[0] == 1
-		ip.hold = ip.d == 0 && !pl.zeroPre
+		ip.hold = ip.d == 0 && !pl.zeroPre // events before sample 0: below
 		ip.gain = sum(ip.num) / sum(ip.den)
 		ip.ls = max(len(ip.den), len(ip.num)) - 1
 		pl.ins = append(pl.ins, ip)
 	}
-	// The events' columns follow the series'.
+	// The events' columns follow the series'; a step before sample 0 is
+	// held at 1 before it, in its steady state.
 	for i := range pl.ins {
-		if c := pl.ins[i].col; c < 0 {
-			pl.ins[i].col = len(pl.names) - 1 - c
+		ip := &pl.ins[i]
+		if c := ip.col; c < 0 {
+			ip.col = len(pl.names) - 1 - c
 		}
+		ip.hold = ip.hold || ip.d == 0 && pl.past(ip.col)
 	}
 	return nil
 }

@@ -100,11 +100,19 @@
 // in Inputs(): the predictor builds their indicators from the sample
 // count, as the fit builds them from the record (tf.Model.EventData).
 // An event given as a sample index T falls at the predictor's sample
-// T, counted from the first sample fed after New, Reset or Warm, so
-// that a Warm with the fit's record keeps the fit's indices; an event
-// given as a time is placed by Settings.Start (the time of that first
-// sample) and the model's sample interval. A step is 1 from its sample
-// on and a pulse 1 at its sample only; Forecast continues them.
+// T - Settings.Offset, counted from the first sample fed after New,
+// Reset or Warm: Offset is the record sample of that first sample, so
+// that a predictor started on a live stream that begins at record
+// sample P (Offset P) places the fit's events where the fit placed
+// them, and Offset 0 with a Warm from the fit's record keeps the fit's
+// indices. An event given as a time is placed by Settings.Start (the
+// time of that first sample) and the model's sample interval. A step is
+// 1 from its sample on and a pulse 1 at its sample only; Forecast
+// continues them. An event that falls before the first sample has
+// happened: a step is 1 throughout and held at 1 before the first
+// sample, so that its term starts in its steady state, and a pulse
+// never shows. The placement is part of the Fingerprint: a snapshot
+// taken under another Offset or Start is refused.
 //
 // # Refused models
 //

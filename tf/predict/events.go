@@ -2,7 +2,6 @@ package predict
 
 import (
 	"strconv"
-	"time"
 
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/tf"
@@ -11,13 +10,15 @@ import (
 // An event input (tf.Input.Event: step(T), pulse(T)) is not fed: the
 // predictor builds its indicator from the sample count, as the fit
 // builds it from the record (tf.Model.EventData). An event given as a
-// sample index T is at the predictor's sample T, counted from the first
-// sample fed after New, Reset or Warm (so that Warm with the fit's
-// record keeps the fit's indices); an event given as a time is placed
-// by Settings.Start, the time of that first sample, and the model's
-// sample interval (tf.Event.Sample). A step is 1 from its sample on, a
-// pulse 1 at its sample only; an event before sample 0 gives a step
-// that is 1 throughout and a pulse that never shows.
+// sample index T is at the predictor's sample T - Settings.Offset,
+// counted from the first sample fed after New, Reset or Warm (so that
+// Offset 0 and Warm with the fit's record keep the fit's indices); an
+// event given as a time is placed by Settings.Start, the time of that
+// first sample, and the model's sample interval (tf.Event.Sample). A
+// step is 1 from its sample on, a pulse 1 at its sample only; an event
+// before sample 0 gives a step that is 1 throughout (held at 1 before
+// the first sample, whatever ZeroPreSample says: it is in its steady
+// state) and a pulse that never shows.
 
 // event is a compiled event input: its kind and sample.
 type event struct {
@@ -28,11 +29,14 @@ type event struct {
 // compileEvent places the event of input in and returns its column
 // (encoded as -1 - k for the k-th distinct event, fixed up once the
 // series are counted); inputs with the same event share a column.
-func (pl *plan) compileEvent(m tf.Model, in tf.Input, start time.Time, seen map[string]int) (int, error) {
+func (pl *plan) compileEvent(m tf.Model, in tf.Input, set Settings, seen map[string]int) (int, error) {
 	if k, ok := seen[in.Series]; ok {
 		return -1 - k, nil
 	}
-	at, err := in.Event.Sample(start, m.Interval)
+	at, err := in.Event.Sample(set.Start, m.Interval)
+	if in.Event.At.IsZero() {
+		at -= set.Offset // Offset >= 0 and at <= tf.MaxEventIndex: no overflow
+	}
 	if err != nil {
 		return 0, &errs.ModelError{Part: "input " + strconv.Quote(in.Series),
 			Problem: "the event cannot be placed (" + err.Error() + "); give Settings.Start, the time of the first sample fed, and the model's sample interval, or the event as a sample index", Err: err}
@@ -42,6 +46,14 @@ func (pl *plan) compileEvent(m tf.Model, in tf.Input, start time.Time, seen map[
 	pl.events = append(pl.events, event{step: in.Event.Kind == tf.Step, at: at})
 	pl.evNames = append(pl.evNames, in.Series)
 	return -1 - k, nil
+}
+
+// past reports whether column k (of the series and events) is an event
+// that falls before sample 0: a step held at 1 before the first sample,
+// or a pulse that never shows.
+func (pl *plan) past(k int) bool {
+	n := len(pl.names)
+	return k >= n && pl.events[k-n].at < 0
 }
 
 // fillEvents writes the events' indicators at sample t into dst.

@@ -57,3 +57,30 @@ func Example() {
 	// in 30 samples: 104.2 (103.8 to 104.7)
 	// restored after 23 samples
 }
+
+// A live stream that starts after the fit's record: the model was
+// fitted to 1000 samples and found a level shift at record sample 600
+// (step(600)) and a pulse at 990; the stream's first sample is record
+// sample 1000, so Offset 1000 places both before it. The step is on
+// from the start, in its steady state 0.5/(1 - 0.7) = 1.67 above the
+// base level 20; the pulse is over.
+func ExampleSettings_offset() {
+	m, err := parse.Model("temp = 20 + 0.5 / (1 - 0.7 B) step(600) + 3 pulse(990) + a")
+	if err != nil {
+		log.Fatal(err)
+	}
+	p, err := predict.New(m, 0.01, &predict.Settings{Offset: 1000})
+	if err != nil {
+		log.Fatal(err)
+	}
+	for _, y := range []float64{21.7, 21.6} {
+		st, err := p.Update(nil, y)
+		if err != nil {
+			log.Fatal(err)
+		}
+		fmt.Printf("sample %d (record sample %d): predicted %.2f\n", st.Index, 1000+st.Index, st.Mean)
+	}
+	// Output:
+	// sample 0 (record sample 1000): predicted 21.67
+	// sample 1 (record sample 1001): predicted 21.67
+}

@@ -121,6 +121,8 @@ func FuzzRestore(f *testing.F) {
 	f.Add(snap)
 	f.Add(snap[:20])
 	f.Add([]byte{1})
+	f.Add(append(append([]byte{2}, snap[1:25]...), snap[33:]...)) // the same state as version 2
+
 	f.Fuzz(func(t *testing.T, data []byte) {
 		q, _ := predict.New(m, 1, nil)
 		before, _ := q.MarshalBinary()

@@ -106,7 +106,7 @@ type plan struct {
 	offC, yh, nh, ah, unc, cov, size int
 	gp                               gapPlan
 	lyh, lnh, lah                    int    // lengths of yh, nh, ah (padded to 2 for small)
-	fp                               uint64 // fingerprint
+	fp, shape                        uint64 // fingerprint, and without the events' placement
 }
 
 // Predictor is the running state of a model fed one sample at a time:

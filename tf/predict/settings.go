@@ -39,7 +39,9 @@ var (
 
 // ErrOtherModel is the precise cause (Err of a *ModelError) when a
 // snapshot taken from one model is restored into a predictor of another
-// model or other Settings.First/ZeroPreSample: the fingerprints differ.
+// model, other Settings.First/ZeroPreSample, or with the model's events
+// placed otherwise (other Settings.Offset or Start): the fingerprints
+// differ.
 var ErrOtherModel = errors.New("snapshot taken from a different model")
 
 // Settings tunes New. The zero value (or a nil pointer) gives the
@@ -55,18 +57,30 @@ type Settings struct {
 	First int
 	// ZeroPreSample takes inputs without differencing as zero before
 	// their first sample instead of held at it, as
-	// Conditioning.ZeroPreSample of the fit.
+	// Conditioning.ZeroPreSample of the fit; a step event before sample
+	// 0 is held at 1 all the same (see Offset).
 	ZeroPreSample bool
 	// Level is the coverage of the prediction intervals, in (0, 1).
 	// Zero means 0.95.
 	Level float64
+	// Offset is the record sample of sample 0, the first sample fed
+	// after New, Reset or Warm: the index in the fit's record of the
+	// stream's first sample, so that an event given as a sample index T
+	// (step(120)) falls at the predictor's sample T - Offset. An event
+	// that falls before sample 0 has happened: a step is 1 throughout,
+	// held at 1 before the first sample (its steady state, also with
+	// ZeroPreSample), and a pulse never shows. Zero keeps the fit's
+	// indices (a stream that starts with the record, or Warm with it).
+	// Events given as times are placed by Start instead.
+	Offset int
 	// Start is the time of sample 0, the first sample fed after New,
 	// Reset or Warm, used only to place the model's events given as
 	// times (step(2026-03-01T08:00)) with the model's sample interval,
-	// as fit.Settings.Start places them in the record. Events given as
-	// sample indices need none (they count from sample 0). The zero time
-	// places a timed event against 0001-01-01, so a model with one needs
-	// Start.
+	// as fit.Settings.Start places them in the record; an event before
+	// Start has happened, as for Offset. Events given as sample indices
+	// need none (they are placed by Offset). A model with a timed event
+	// needs Start: New refuses the zero time there (a *ModelError naming
+	// the event).
 	Start time.Time
 }
 
@@ -79,6 +93,9 @@ func (s Settings) Validate() error {
 
 func (s Settings) validate(op string) error {
 	if err := errs.Count(op, "Settings.First", s.First, "0 means the automatic first index NoiseStart + p"); err != nil {
+		return err
+	}
+	if err := errs.Count(op, "Settings.Offset", s.Offset, "the record sample of the first sample fed; 0 keeps the fit's indices"); err != nil {
 		return err
 	}
 	return errs.Probability(op, "Settings.Level", s.Level, "0 means 0.95")

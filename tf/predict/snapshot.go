@@ -11,26 +11,31 @@ import (
 
 // snapshotVersion is the first byte of every snapshot; a snapshot of
 // another version is refused (ErrFormat).
-const snapshotVersion = 2
+const snapshotVersion = 3
 
 // Snapshot layout, little endian: the version byte, the model's
 // fingerprint (8 bytes), the count of samples fed and the missing
-// outputs at the end (8 bytes each), the number of ring positions (4
-// bytes) and each (8 bytes), the number of state values (4 bytes) and
-// each as its IEEE 754 bits (8 bytes).
-const snapshotHeader = 1 + 8 + 8 + 8
+// outputs at the end (8 bytes each), the fingerprint with the events'
+// placement left out (8 bytes, so that a refusal can say whether only
+// the placement differs), the number of ring positions (4 bytes) and
+// each (8 bytes), the number of state values (4 bytes) and each as its
+// IEEE 754 bits (8 bytes). Version 2 had no second fingerprint; its
+// snapshots are still read.
+const snapshotHeader = 1 + 8 + 8 + 8 + 8
 
 // Fingerprint returns the 64-bit FNV-1a hash of what the predictor's
 // state depends on: the output and input names, the samples of event
-// inputs, every polynomial's coefficients (their exact bits), the dead
+// inputs as placed (so Settings.Offset and Start for a model with
+// events), every polynomial's coefficients (their exact bits), the dead
 // times, the constant, the first prediction index and the pre-sample
-// rule. sigma2 and Level do
-// not enter (they change the intervals, not the state). Two predictors
-// with equal fingerprints accept each other's snapshots.
+// rule. sigma2 and Level do not enter (they change the intervals, not
+// the state). Two predictors with equal fingerprints accept each
+// other's snapshots.
 func (p *Predictor) Fingerprint() uint64 { return p.p.fp }
 
-// fingerprint hashes the plan's state-defining facts.
-func fingerprint(pl *plan) uint64 {
+// fingerprint hashes the plan's state-defining facts, the events'
+// samples only when placed is true.
+func fingerprint(pl *plan, placed bool) uint64 {
 	h := fnv.New64a()
 	var b []byte
 	str := func(s string) {
@@ -54,7 +59,9 @@ func fingerprint(pl *plan) uint64 {
 		} else {
 			e := pl.events[ip.col-len(pl.names)]
 			str(pl.evNames[ip.col-len(pl.names)])
-			b = binary.LittleEndian.AppendUint64(b, uint64(e.at))
+			if placed {
+				b = binary.LittleEndian.AppendUint64(b, uint64(e.at))
+			}
 		}
 		poly(ip.diff)
 		poly(ip.num)
@@ -89,6 +96,7 @@ func (p *Predictor) AppendBinary(b []byte) ([]byte, error) {
 	b = le.AppendUint64(b, p.p.fp)
 	b = le.AppendUint64(b, uint64(p.s.t))
 	b = le.AppendUint64(b, uint64(p.s.gap))
+	b = le.AppendUint64(b, p.p.shape)
 	b = le.AppendUint32(b, uint32(len(p.s.pos)))
 	for _, v := range p.s.pos {
 		b = le.AppendUint64(b, uint64(v))
@@ -102,11 +110,13 @@ func (p *Predictor) AppendBinary(b []byte) ([]byte, error) {
 
 // UnmarshalBinary restores a snapshot made by MarshalBinary into p,
 // which must have been built by New from the same model and
-// Settings.First and ZeroPreSample (its Fingerprint); sigma2 and Level
-// may differ. On error p is unchanged.
+// Settings.First, ZeroPreSample, and, for a model with events, Offset
+// and Start (its Fingerprint); sigma2 and Level may differ. Snapshots of
+// the previous version (2) are read too. On error p is unchanged.
 //
 // Errors (Op "predict.Predictor.UnmarshalBinary"): a *ModelError with
-// Err ErrOtherModel when the snapshot was taken from another model, and
+// Err ErrOtherModel when the snapshot was taken from another model or
+// with the model's events placed otherwise (the message says which), and
 // with Err ErrFormat when data is not a snapshot of this version (empty,
 // another version byte, the wrong length, or values a predictor cannot
 // hold: a position outside its ring, a count below zero, a state value
@@ -126,22 +136,24 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 		return &errs.ModelError{Part: "snapshot", Problem: why, Err: errs.ErrFormat}
 	}
 	le := binary.LittleEndian
-	if len(data) < snapshotHeader+4 {
+	header := snapshotHeader
+	if len(data) > 0 && data[0] == 2 {
+		header -= 8 // version 2: no fingerprint without the placement
+	}
+	if len(data) < header+4 {
 		return bad(strconv.Itoa(len(data)) + " bytes, too short for a predictor snapshot")
 	}
-	if data[0] != snapshotVersion {
-		return bad("version " + strconv.Itoa(int(data[0])) + ", not " + strconv.Itoa(snapshotVersion) + " (a snapshot of another release, or not a snapshot)")
+	if data[0] != snapshotVersion && data[0] != 2 {
+		return bad("version " + strconv.Itoa(int(data[0])) + ", not " + strconv.Itoa(snapshotVersion) + " or 2 (a snapshot of another release, or not a snapshot)")
 	}
 	if fp := le.Uint64(data[1:]); fp != p.p.fp {
-		return &errs.ModelError{Part: "snapshot", Err: ErrOtherModel, Problem: "it was taken from another model (fingerprint " +
-			strconv.FormatUint(fp, 16) + ", this predictor's " + strconv.FormatUint(p.p.fp, 16) +
-			"); restore it into a predictor built from the same model with the same Settings.First and ZeroPreSample"}
+		return p.p.otherModel(fp, data[0] == snapshotVersion && le.Uint64(data[25:]) == p.p.shape)
 	}
 	t, gap := le.Uint64(data[9:]), le.Uint64(data[17:])
 	if t > math.MaxInt64 || gap > t {
 		return bad("the counts of samples (" + strconv.FormatUint(t, 10) + ") and missing outputs (" + strconv.FormatUint(gap, 10) + ") are not possible")
 	}
-	rest := data[snapshotHeader:]
+	rest := data[header:]
 	np := int(le.Uint32(rest))
 	rest = rest[4:]
 	if np != len(p.s.pos) || len(rest) != 8*np+4+8*len(p.s.st) || int(le.Uint32(rest[8*np:])) != len(p.s.st) {
@@ -173,6 +185,18 @@ func (p *Predictor) restore(data []byte) *errs.ModelError {
 	copy(p.s.pos, pos)
 	p.s.t, p.s.gap = int(t), int(gap)
 	return nil
+}
+
+// otherModel is the refusal of a snapshot with fingerprint fp; placed
+// tells that only the placement of the model's events differs.
+func (pl *plan) otherModel(fp uint64, placed bool) *errs.ModelError {
+	fps := " (fingerprint " + strconv.FormatUint(fp, 16) + ", this predictor's " + strconv.FormatUint(pl.fp, 16) + ")"
+	if placed {
+		return &errs.ModelError{Part: "snapshot", Err: ErrOtherModel, Problem: "it was taken from the same model with its events placed otherwise" + fps +
+			": the stream started at another record sample (Settings.Offset) or time (Settings.Start); restore it into a predictor built with the Offset and Start it was taken with"}
+	}
+	return &errs.ModelError{Part: "snapshot", Err: ErrOtherModel, Problem: "it was taken from another model" + fps +
+		"; restore it into a predictor built from the same model with the same Settings.First, ZeroPreSample, Offset and Start"}
 }
 
 // checkCov returns why the covariance of the history's errors in st
