@@ -51,6 +51,7 @@ func Pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 	return r0, withOp("prewhiten.Pair", err)
 }
 
+// pair is Pair without the Op.
 func pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 	name := s.name()
 	if yName == "" {
@@ -90,25 +91,8 @@ func pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 		return nil, err
 	}
 	if !res.White && set.ARMA == nil && set.Order == nil && !set.KeepAR {
-		orders := []arma.Order{{P: 1, D: 1, Q: 1}, {P: 1, Q: 1}}
-		if set.Diff != nil {
-			orders = orders[1:]
-		}
-		for _, o := range orders {
-			alt := set
-			alt.Order = &o
-			g, err := Fit(x, &alt)
-			if err != nil {
-				continue
-			}
-			r, err := pairWith(g, x, y, name, yName, set.Lags, level)
-			if err != nil {
-				continue
-			}
-			if r.Check.P > res.Check.P {
-				res = r
-				convErr = nil
-			}
+		if r := tryARMAFilters(x, y, name, yName, set, level); r != nil && r.Check.P > res.Check.P {
+			res, convErr = r, nil
 		}
 	}
 	if !res.White {
@@ -119,6 +103,35 @@ func pair(x, y []float64, yName string, s *Settings) (*Result, error) {
 		return res, nw
 	}
 	return res, convErr
+}
+
+// tryARMAFilters fits the ARMA filters tried when the autoregressive
+// one leaves the filtered input autocorrelated (ARIMA(1,1,1), skipped
+// when Settings.Diff is given, then ARMA(1,1)) and returns the result of
+// the one whose filtered input is whitest by the check's p-value, nil
+// when none could be fitted.
+func tryARMAFilters(x, y []float64, name, yName string, set Settings, level float64) *Result {
+	orders := []arma.Order{{P: 1, D: 1, Q: 1}, {P: 1, Q: 1}}
+	if set.Diff != nil {
+		orders = orders[1:]
+	}
+	var best *Result
+	for _, o := range orders {
+		alt := set
+		alt.Order = &o
+		g, err := Fit(x, &alt)
+		if err != nil {
+			continue
+		}
+		r, err := pairWith(g, x, y, name, yName, set.Lags, level)
+		if err != nil {
+			continue
+		}
+		if best == nil || r.Check.P > best.Check.P {
+			best = r
+		}
+	}
+	return best
 }
 
 // pairWith applies f to x and y and tests the filtered x.

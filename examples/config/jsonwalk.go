@@ -114,8 +114,9 @@ func (w *walker) skip(off int) int {
 }
 
 // value reads the JSON value at the walker's position, depth levels of
-// nesting deep, with the file offsets of its parts. Its length is one
-// case per kind of JSON token.
+// nesting deep, with the file offsets of its parts.
+//
+// Over 60 lines: one case per kind of JSON token.
 func (w *walker) value(depth int) (*jval, error) {
 	start := w.skip(int(w.dec.InputOffset()))
 	tok, err := w.dec.Token()

@@ -145,7 +145,7 @@ const (
 // full, so that scripts notice; a -save refused for that reason also
 // ends with 3).
 //
-// Its length is the list of flags, one line each.
+// Over 60 lines: the list of flags, one line each.
 func cli(args []string, stdout, stderr io.Writer) int {
 	o := DefaultOptions()
 	var inputs, interval, sep string

@@ -191,7 +191,7 @@ func (e *SaveError) Error() string {
 // run ends in a *SaveError unless o.SaveUntrusted is set; the Outcome is
 // returned with it.
 //
-// Its length is the job's steps in the order the report prints them,
+// Over 60 lines: the job's steps in the order the report prints them,
 // each a call.
 func Run(ctx context.Context, o Options, stdout, stderr io.Writer) (*Outcome, error) {
 	start := time.Now()
@@ -625,6 +625,9 @@ func inputMissing(err error, ds *dataset) error {
 
 // loadFile reads the CSV file of o into ds with record.Read: the named
 // columns, checked against the time column and mended as rem says.
+//
+// Over 60 lines: the reading of a user's file in the order its report
+// prints what was done (columns, time column, gaps, missing readings).
 func loadFile(o Options, rem record.Remedy, ds *dataset) error {
 	cols := append([]string{ds.output}, ds.inputs...)
 	// The output's missing cells (a sensor dropout) are read as NaN, for

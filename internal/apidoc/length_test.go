@@ -7,6 +7,7 @@ import (
 	"go/token"
 	"path/filepath"
 	"sort"
+	"strings"
 	"testing"
 )
 
@@ -16,6 +17,9 @@ import (
 const (
 	maxFuncLines = 100
 	tableLines   = 5
+	// reasonLines is the length above which a function must say why in
+	// a comment of its own (doc or body) that starts "Over 60 lines".
+	reasonLines = 60
 )
 
 // longFuncs lists functions allowed over maxFuncLines, each with the
@@ -25,8 +29,9 @@ var longFuncs = map[string]bool{}
 
 // funcLength is one function's length.
 type funcLength struct {
-	name  string // path:Name or path:Recv.Name
-	lines int
+	name   string // path:Name or path:Recv.Name
+	lines  int
+	reason bool // a comment of the function starts "Over 60 lines"
 }
 
 // funcLengths returns the length of every function of the module's
@@ -36,7 +41,7 @@ func funcLengths(t *testing.T) []funcLength {
 	var out []funcLength
 	err := eachLibraryFile(root, func(path string) error {
 		fset := token.NewFileSet()
-		f, err := parser.ParseFile(fset, path, nil, 0)
+		f, err := parser.ParseFile(fset, path, nil, parser.ParseComments)
 		if err != nil {
 			return err
 		}
@@ -52,7 +57,7 @@ func funcLengths(t *testing.T) []funcLength {
 			}
 			n := fset.Position(fd.End()).Line - fset.Position(fd.Pos()).Line + 1
 			n -= tableSpan(fset, fd.Body)
-			out = append(out, funcLength{name: filepath.ToSlash(rel) + ":" + name, lines: n})
+			out = append(out, funcLength{name: filepath.ToSlash(rel) + ":" + name, lines: n, reason: hasReason(f, fd)})
 		}
 		return nil
 	})
@@ -66,6 +71,22 @@ func funcLengths(t *testing.T) []funcLength {
 		return out[i].name < out[j].name
 	})
 	return out
+}
+
+// hasReason reports whether a comment in fd's doc or body starts "Over
+// 60 lines" (the reason a function is longer than reasonLines).
+func hasReason(f *ast.File, fd *ast.FuncDecl) bool {
+	for _, g := range f.Comments {
+		if g.Pos() < fd.Pos() && g != fd.Doc || g.Pos() > fd.End() {
+			continue
+		}
+		for _, c := range g.List {
+			if strings.Contains(c.Text, "Over 60 lines") {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // tableSpan returns the lines taken by the outermost composite literals
@@ -93,6 +114,11 @@ func TestFunctionLength(t *testing.T) {
 	fl := funcLengths(t)
 	for i := 0; i < 10 && i < len(fl); i++ {
 		t.Log(fmt.Sprintf("%4d %s", fl[i].lines, fl[i].name))
+	}
+	for _, f := range fl {
+		if f.lines > reasonLines && f.lines <= maxFuncLines && !f.reason {
+			t.Errorf("%s is %d lines, over %d, with no comment that starts \"Over 60 lines\" and gives the reason: cut it into named steps or say why it reads better whole", f.name, f.lines, reasonLines)
+		}
 	}
 	long := map[string]bool{}
 	for _, f := range fl {

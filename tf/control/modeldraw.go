@@ -26,6 +26,9 @@ import (
 // not finite, not symmetric (to 1e-9 of its diagonal) or not positive
 // semi-definite (a pivot below -1e-9 of its diagonal); the errors of
 // tf.Input.Rational for the model's own path.
+//
+// Over 60 lines: the checks of the model and the covariance, then the
+// drawing function, which closes over what the checks computed.
 func ModelDraw(m tf.Model, input string, names []string, cov [][]float64) (Draw, error) {
 	const op = "control.ModelDraw"
 	m = m.Clone()

@@ -232,6 +232,10 @@ func noFreeDiff(m tf.Model) error {
 // build lays out the recursive state: the polynomial maps, the input
 // terms, the history block and the covariance buffers, and checks the
 // start model's constant terms and stability.
+//
+// Over 60 lines: one layout of the state vector, whose parts take offsets
+// that depend on the parts laid out before them; the steps read in the
+// order of the layout.
 func (e *Estimator) build() error {
 	k := len(e.names)
 	index := func(c tf.Coef) int {

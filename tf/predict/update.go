@@ -122,6 +122,10 @@ func (e *startupMissing) Unwrap() error { return e.se }
 // those of the fit (fit's work.noiseSeries and resid), operation for
 // operation, so that the innovations equal its residuals; after a
 // missing output the covariance update of gap.go runs beside them.
+//
+// Over 60 lines: one step of the predictor's recursion, kept operation for
+// operation in the order of the fit's, so that the two can be read side
+// by side.
 func (pl *plan) advance(s *state, tmp, kf []float64, x []float64, y float64) (Step, bool) {
 	st, pos, t, gap := s.st, s.pos, s.t, s.gap
 	off := st[pl.offC]
