@@ -56,28 +56,11 @@ func Roots(a []float64) ([]complex128, error) {
 	case m == 2:
 		roots = append(roots, quadratic(c[0], c[1], c[2])...)
 	case m > 2:
-		// Companion matrix of the monic c/c[m]: ones on the subdiagonal,
-		// -c[k]/c[m] in the last column.
-		comp := mat.NewDense(m, m, nil)
-		for i := 1; i < m; i++ {
-			comp.Set(i, i-1, 1)
+		rs, err := companionRoots(c)
+		if err != nil {
+			return nil, err
 		}
-		for i := 0; i < m; i++ {
-			comp.Set(i, m-1, -c[i]/c[m])
-		}
-		var eig mat.Eigen
-		if !eig.Factorize(comp, mat.EigenNone) {
-			return nil, ErrRoots
-		}
-		for _, r := range eig.Values(nil) {
-			roots = append(roots, polish(c, r))
-		}
-		// Keep conjugate symmetry exact for real polynomials.
-		for i, r := range roots {
-			if math.Abs(imag(r)) <= 1e-14*cmplx.Abs(r) {
-				roots[i] = complex(real(r), 0)
-			}
-		}
+		roots = append(roots, rs...)
 	}
 	sort.SliceStable(roots, func(i, j int) bool {
 		ai, aj := cmplx.Abs(roots[i]), cmplx.Abs(roots[j])
@@ -86,6 +69,37 @@ func Roots(a []float64) ([]complex128, error) {
 		}
 		return cmplx.Phase(roots[i]) < cmplx.Phase(roots[j])
 	})
+	return roots, nil
+}
+
+// companionRoots returns the roots of c (degree m > 2, c[m] != 0) as the
+// eigenvalues of the companion matrix of the monic c/c[m], each polished
+// on c, with imaginary parts below 1e-14 of the magnitude set to 0 so
+// that conjugate symmetry is exact for real polynomials.
+func companionRoots(c []float64) ([]complex128, error) {
+	m := len(c) - 1
+	roots := make([]complex128, 0, m)
+	// Companion matrix of the monic c/c[m]: ones on the subdiagonal,
+	// -c[k]/c[m] in the last column.
+	comp := mat.NewDense(m, m, nil)
+	for i := 1; i < m; i++ {
+		comp.Set(i, i-1, 1)
+	}
+	for i := 0; i < m; i++ {
+		comp.Set(i, m-1, -c[i]/c[m])
+	}
+	var eig mat.Eigen
+	if !eig.Factorize(comp, mat.EigenNone) {
+		return nil, ErrRoots
+	}
+	for _, r := range eig.Values(nil) {
+		roots = append(roots, polish(c, r))
+	}
+	for i, r := range roots {
+		if math.Abs(imag(r)) <= 1e-14*cmplx.Abs(r) {
+			roots[i] = complex(real(r), 0)
+		}
+	}
 	return roots, nil
 }
 
