@@ -368,7 +368,7 @@ func (l *loader) spec(v *jval, what string) *tf.Model {
 // validity checks the record of the data a model was fitted to.
 func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	what := "the validity of " + of
-	ks := l.keys(v, what, "samples", "interval", "start", "ranges", "verdict", "failures", "forced")
+	ks := l.keys(v, what, "samples", "interval", "start", "ranges", "verdict", "failures", "forced", "cautions")
 	if m := ks["samples"]; m == nil {
 		l.missing(v, "samples", `%s has no "samples" (the number of samples of the record)`, what)
 	} else if l.want(m, what, jNumber, "a whole number of samples") {
@@ -405,6 +405,13 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	}
 	if m := ks["forced"]; m != nil {
 		l.want(m, what, jBool, "true or false")
+	}
+	if m := ks["cautions"]; m != nil && l.want(m, what, jArray, "an array of strings") {
+		for _, c := range m.val.elems {
+			if c.kind != jString {
+				l.fail(c.start, `"cautions" of %s holds %s; each caution is a string`, what, c.kind)
+			}
+		}
 	}
 	m := ks["ranges"]
 	if m == nil {

@@ -437,7 +437,9 @@ func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []st
 		extra = append(extra, fmt.Sprintf("refitted with the %d %s found in the first fit's residuals as %s, by %s as the first fit",
 			n, plural(n, "outlier", "outliers"), plural(n, "an event", "events"), est.Method))
 	} else if out.Caveat != "" {
-		extra = append(extra, "verdict: "+strings.Replace(out.Caveat, "; listed below)", ")", 1))
+		caveat := strings.Replace(out.Caveat, "; listed below)", ")", 1)
+		extra = append(extra, "verdict: "+caveat)
+		out.Validity.Cautions = append(out.Validity.Cautions, caveat)
 	}
 	if err := saveConfig(o.Save, est, ds, out.Validity, extra...); err != nil {
 		return fmt.Errorf("-save: %w", err)

@@ -54,8 +54,8 @@ func TestOutlierQualifiesVerdict(t *testing.T) {
 	testutil.CheckWords(t, "verdict", out,
 		[]string{"verdict: the model passes its checks, but 1 outlier was found in its residuals (day 2 09:20, t ", "the estimates may be biased by it", "-outliers refit"},
 		[]string{"adequate by every check"})
-	if v := savedValidity(t, o.Save); v.Verdict != "passed" {
-		t.Errorf("saved verdict %q", v.Verdict)
+	if v := savedValidity(t, o.Save); v.Verdict != "passed" || len(v.Cautions) != 1 || !strings.Contains(v.Cautions[0], "1 outlier was found") {
+		t.Errorf("saved verdict %q with cautions %q, want passed with the outlier's caution", v.Verdict, v.Cautions)
 	}
 	testutil.CheckWords(t, "saved notes", savedNotes(t, o.Save),
 		[]string{"1 outlier was found", "biased", "by exact maximum likelihood"}, []string{"listed below"}) // the demo's dropout asks for it

@@ -79,6 +79,13 @@ func TestValidityWrite(t *testing.T) {
 	if b.String() != want {
 		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
 	}
+	b.Reset()
+	v = &Validity{Samples: 20, Verdict: VerdictPassed, Cautions: []string{"1 outlier was found in its residuals"}}
+	v.Write(&b, "  ")
+	want = "  fitted to 20 samples\n  verdict when saved: passed every check\n    but: 1 outlier was found in its residuals\n"
+	if b.String() != want {
+		t.Errorf("a passed verdict with a caution: got\n%s\nwant\n%s", b.String(), want)
+	}
 }
 
 // A path whose numerator sums to zero (1 - B: a pure rate effect) has a

@@ -34,6 +34,10 @@ type Validity struct {
 	// Forced reports that the model was saved despite a failed verdict,
 	// on the user's explicit request.
 	Forced bool `json:"forced,omitempty"`
+	// Cautions qualify a verdict that passed: what the checks do not
+	// cover but the run found, such as outliers in the residuals that may
+	// bias the estimates (empty when there is nothing to add).
+	Cautions []string `json:"cautions,omitempty"`
 }
 
 // Verdicts of a Validity record.
@@ -83,6 +87,9 @@ func (v *Validity) Write(w io.Writer, indent string) {
 	switch {
 	case v.Verdict == VerdictPassed:
 		fmt.Fprintf(w, "%sverdict when saved: passed every check\n", indent)
+		for _, c := range v.Cautions {
+			fmt.Fprintf(w, "%s  but: %s\n", indent, c)
+		}
 	default:
 		fmt.Fprintf(w, "%sverdict when saved: %s\n", indent, v.Verdict)
 		for _, f := range v.Failures {
