@@ -126,3 +126,49 @@ func polish(c []float64, r complex128) complex128 {
 	}
 	return r
 }
+
+// InvertInside returns a with every root in B strictly inside the unit
+// circle (|B| < 1, a z-plane root z = 1/B outside it) replaced by its
+// inverse 1/B, the constant term kept: a(B) = a_0 prod_i (1 - z_i B)
+// becomes a_0 prod_i (1 - w_i B) with w_i = 1/z_i where |z_i| > 1 and
+// w_i = z_i otherwise. ratio is prod |z_i|^2 over the inverted roots, so
+// that an MA polynomial a with innovation variance s2 and the result
+// with variance s2*ratio have the same autocovariances (Brockwell &
+// Davis 1991, section 4.4): the exact Gaussian likelihood of an MA part
+// is the same for both. changed reports whether any root was inverted
+// (out is then a new slice of len(a); otherwise out is a copy of a).
+// Roots on the circle are kept. The error is the root finder's
+// (ErrRoots, ErrTooLong), or ErrRoots when a_0 is 0.
+func InvertInside(a []float64) (out []float64, ratio float64, changed bool, err error) {
+	out = append([]float64(nil), a...)
+	d := Degree(a)
+	if d <= 0 {
+		return out, 1, false, nil
+	}
+	if a[0] == 0 {
+		return out, 1, false, ErrRoots
+	}
+	zs, err := Roots(Reciprocal(a[:d+1]))
+	if err != nil {
+		return out, 1, false, err
+	}
+	ratio = 1
+	for i, z := range zs {
+		if m := cmplx.Abs(z); m > 1 {
+			zs[i] = 1 / z
+			ratio *= m * m
+			changed = true
+		}
+	}
+	if !changed {
+		return out, 1, false, nil
+	}
+	c := FromInverseRoots(zs)
+	for k := range out {
+		out[k] = 0
+		if k < len(c) {
+			out[k] = a[0] * c[k]
+		}
+	}
+	return out, ratio, true, nil
+}
