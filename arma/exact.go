@@ -75,6 +75,10 @@ type mlProblem struct {
 	// likelihood is defined there): the Hessian's stencil around an
 	// estimate on the invertibility boundary may cross it.
 	anyMA bool
+	// cross lets load accept a non-invertible MA polynomial for the
+	// whole fit: the search may cross the boundary and is mapped back
+	// by root inversion (maFlip; see exact_flip.go).
+	cross bool
 }
 
 // estimateML fits by exact maximum likelihood (the ExactML method of
@@ -109,18 +113,23 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 	if m < len(e.names)+1 || m < 2 {
 		return nil, shortErr(o.Name, m, max(len(e.names)+1, 2), "an exact-likelihood fit with "+itoa(len(e.names))+" parameters; the count is of observed (not missing) samples after the conditioning, of the record's "+itoa(len(y)))
 	}
+	var fl *maFlip
+	if e.keepInvertible {
+		fl = newMAFlip(e)
+		p.cross = fl != nil
+	}
 	lres := lm.Result{X: x0, Reason: lm.SmallGradient}
 	if len(e.names) > 0 {
 		if _, err := p.stats(x0); err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" cannot be computed at the start values: "+err.Error())
 		}
 		prob := lm.Problem{M: m, N: len(e.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
-		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
+		lres, err = p.search(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol}, fl)
 		if err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
 		}
 	}
-	x, hess, err := p.polish(ctx, lres)
+	x, hess, err := p.polishFlip(ctx, lres, fl)
 	if err != nil {
 		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
 	}
@@ -213,8 +222,9 @@ func clsStart(ctx context.Context, e *engine, yf []float64, noise Noise, diff []
 // its free coefficients are scaled by 0.7 until no root is that close to
 // the unit circle (at most 20 times). The exact likelihood needs a
 // stationary AR part, and a least-squares start on the MA invertibility
-// boundary would hold the search there, since its steps may not cross
-// (the MA part is not moved under FitSettings.AllowNonInvertible).
+// boundary would hold the search there when its steps may not cross
+// (an MA part that root inversion cannot rewrite, see newMAFlip; the MA
+// part is not moved under FitSettings.AllowNonInvertible).
 func (e *engine) shrinkInside(pl sym.Poly, x0 []float64) {
 	ks := map[int]bool{}
 	pl.Each(func(c *sym.Coef) {
@@ -314,7 +324,7 @@ func newMLProblem(e *engine, y []float64, o FitSettings) (*mlProblem, error) {
 func (p *mlProblem) load(x []float64) (float64, error) {
 	e := p.e
 	e.set(x)
-	if e.keepInvertible && !p.anyMA && !schurStable(e.ma.Coeffs()) {
+	if e.keepInvertible && !p.anyMA && !p.cross && !schurStable(e.ma.Coeffs()) {
 		return 0, errNonInvertible
 	}
 	if err := p.kf.Set(e.ar.Coeffs(), e.ma.Coeffs()); err != nil {
