@@ -5,8 +5,6 @@ import (
 	"math"
 	"strconv"
 
-	"gonum.org/v1/gonum/mat"
-
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/internal/lm"
@@ -119,17 +117,18 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 		p.cross = fl != nil
 	}
 	lres := lm.Result{X: x0, Reason: lm.SmallGradient}
+	atBoundary := false
 	if len(e.names) > 0 {
 		if _, err := p.stats(x0); err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" cannot be computed at the start values: "+err.Error())
 		}
 		prob := lm.Problem{M: m, N: len(e.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
-		lres, err = p.search(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol}, fl)
+		lres, atBoundary, err = p.search(ctx, prob, x0, lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol}, fl)
 		if err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
 		}
 	}
-	x, hess, err := p.polishFlip(ctx, lres, fl)
+	x, hess, err := p.finish(ctx, &lres, fl, atBoundary)
 	if err != nil {
 		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
 	}
@@ -389,11 +388,4 @@ func (p *mlProblem) residuals(x, r []float64) error {
 		err = errNonInvertible // a degenerate point: refuse the step
 	}
 	return err
-}
-
-// polish is kalman.Polish from the search's end lres, the stencil
-// allowed a non-invertible MA part.
-func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
-	widen := func(on bool) { p.anyMA = on }
-	return kalman.Polish(ctx, p.negLogLik, widen, kalman.SearchEnd{X: lres.X, Converged: lres.Reason.Converged(), JTJInv: lres.JTJInv, SSQ: lres.SSQ, N: len(lres.Resid)})
 }

@@ -45,3 +45,59 @@ func TestExactMLCrossesMABoundaryLhGaps(t *testing.T) {
 		t.Errorf("ma1 %v, R's -1.0000", r.MA[1])
 	}
 }
+
+// ma1Case is one fit of testdata/arma_maboundary/ma1.json.
+type ma1Case struct {
+	Seed   int        `json:"seed"`
+	Theta  float64    `json:"theta"`
+	Mean   bool       `json:"mean"`
+	Y      []*float64 `json:"y"`
+	Coef   []float64  `json:"coef"`
+	LogLik float64    `json:"loglik"`
+	NObs   int        `json:"nobs"`
+}
+
+// TestExactMLMA1NearBoundaryAgainstR: MA(1) series of our own with
+// theta -0.9, -0.95 and -1 on n = 30 and 60 samples (some with two
+// NAs, some with a mean), fitted by exact maximum likelihood, against
+// R 4.2.2's arima(method = "ML") (base stats,
+// testdata/arma_maboundary/make_ma1.R, optimiser at reltol 1e-14). On
+// 9 of the 12 R ends with ma1 on the circle (within 1e-7 of -1; the
+// pile-up of Davis & Dunsmuir 1996). The search must not stall inside:
+// our log-likelihood is at least R's less 1e-6 (the tolerance of
+// TestExactMLAgainstR: both searches end within about 1e-8 of the
+// optimum), the observed count is R's, a fit R ends on the circle is
+// flagged on the MA boundary with ma1 within mlBoundaryTol of -1, and a
+// fit R ends inside is not flagged and has R's ma1 to 1e-4 (relative
+// tolerance of the estimates in TestExactMLAgainstR).
+func TestExactMLMA1NearBoundaryAgainstR(t *testing.T) {
+	var cases []ma1Case
+	testutil.ReadJSON(t, "testdata/arma_maboundary/ma1.json", &cases)
+	if len(cases) != 12 {
+		t.Fatalf("%d cases", len(cases))
+	}
+	for _, c := range cases {
+		y := mlCase{Y: c.Y}.series()
+		o := &FitSettings{Method: ExactML, Constant: ConstantZero}
+		if c.Mean {
+			o.Constant = ConstantFree
+		}
+		r, err := Fit(context.Background(), y, Order{Q: 1}, o)
+		if err != nil {
+			t.Fatalf("seed %d: %v", c.Seed, err)
+		}
+		t.Logf("seed %d: loglik %.9f (R %.9f, diff %.2g) ma1 %.9f (R %.9f) iter %d %s", c.Seed, r.LogLik, c.LogLik, r.LogLik-c.LogLik, r.MA[1], c.Coef[0], r.Iter, r.Reason)
+		onCircle := math.Abs(c.Coef[0]) > 1-mlBoundaryTol
+		flagged := len(r.Boundary) > 0
+		ok := r.LogLik >= c.LogLik-1e-6 && r.NUsed == c.NObs && flagged == onCircle
+		if onCircle {
+			ok = ok && math.Abs(r.MA[1]+1) <= mlBoundaryTol
+		} else {
+			ok = ok && relClose(r.MA[1], c.Coef[0], 1e-4)
+		}
+		if !ok {
+			t.Errorf("seed %d (theta %v, n %d): loglik %.9f ma1 %.9f n %d boundary %v; R %.9f %.9f %d",
+				c.Seed, c.Theta, len(y), r.LogLik, r.MA[1], r.NUsed, r.Boundary, c.LogLik, c.Coef[0], c.NObs)
+		}
+	}
+}
