@@ -100,3 +100,19 @@ func TestClearOfUnitCircle(t *testing.T) {
 		}
 	}
 }
+
+// TestDecrement: g'H^-1 g for H = diag(2, 4), g = (2, 4) is 4/2 + 16/4
+// = 6 (the definition, Boyd & Vandenberghe 2004, eq. 9.28; exact in
+// floating point); a Hessian that is not positive definite gives ok
+// false; H and g are not modified.
+func TestDecrement(t *testing.T) {
+	H := mat.NewSymDense(2, []float64{2, 0, 0, 4})
+	g := []float64{2, 4}
+	dec, ok := Decrement(H, g)
+	if !ok || dec != 6 || g[0] != 2 || H.At(0, 0) != 2 {
+		t.Errorf("got %v %v", dec, ok)
+	}
+	if _, ok := Decrement(mat.NewSymDense(2, []float64{1, 2, 2, 1}), g); ok {
+		t.Error("indefinite H accepted")
+	}
+}
