@@ -8,6 +8,7 @@ import (
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
 )
 
@@ -75,8 +76,9 @@ type mlProblem struct {
 	anyMA bool
 	// cross lets load accept a non-invertible MA polynomial for the
 	// whole fit: the search may cross the boundary and is mapped back
-	// by root inversion (maFlip; see exact_flip.go).
+	// by root inversion of flip (see exact_flip.go).
 	cross bool
+	flip  []poly.FactorMap
 }
 
 // estimateML fits by exact maximum likelihood (the ExactML method of
@@ -111,10 +113,9 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 	if m < len(e.names)+1 || m < 2 {
 		return nil, shortErr(o.Name, m, max(len(e.names)+1, 2), "an exact-likelihood fit with "+itoa(len(e.names))+" parameters; the count is of observed (not missing) samples after the conditioning, of the record's "+itoa(len(y)))
 	}
-	var fl *maFlip
 	if e.keepInvertible {
-		fl = newMAFlip(e)
-		p.cross = fl != nil
+		p.flip = newMAFlip(e)
+		p.cross = p.flip != nil
 	}
 	lres := lm.Result{X: x0, Reason: lm.SmallGradient}
 	atBoundary := false
@@ -123,12 +124,12 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" cannot be computed at the start values: "+err.Error())
 		}
 		prob := lm.Problem{M: m, N: len(e.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
-		lres, atBoundary, err = p.search(ctx, prob, x0, lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol}, fl)
+		lres, atBoundary, err = p.search(ctx, prob, x0, lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
 		}
 	}
-	x, hess, err := p.finish(ctx, &lres, fl, atBoundary)
+	x, hess, err := p.finish(ctx, &lres, atBoundary)
 	if err != nil {
 		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
 	}

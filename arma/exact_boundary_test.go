@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/internal/testutil"
 )
 
@@ -18,7 +19,7 @@ import (
 // and maps back by root inversion, so it reaches R's log-likelihood to
 // 1e-4 (R's own optimum on the circle is approached from either side
 // only to the searches' tolerances) or above it, and the fit is flagged
-// on the MA boundary (a root within mlBoundaryTol of the circle).
+// on the MA boundary (a root within kalman.BoundaryTol of the circle).
 func TestExactMLCrossesMABoundaryLhGaps(t *testing.T) {
 	var cases map[string]selectCase
 	testutil.ReadJSON(t, "testdata/arma_select/select.json", &cases)
@@ -67,7 +68,7 @@ type ma1Case struct {
 // our log-likelihood is at least R's less 1e-6 (the tolerance of
 // TestExactMLAgainstR: both searches end within about 1e-8 of the
 // optimum), the observed count is R's, a fit R ends on the circle is
-// flagged on the MA boundary with ma1 within mlBoundaryTol of -1, and a
+// flagged on the MA boundary with ma1 within kalman.BoundaryTol of -1, and a
 // fit R ends inside is not flagged and has R's ma1 to 1e-4 (relative
 // tolerance of the estimates in TestExactMLAgainstR).
 func TestExactMLMA1NearBoundaryAgainstR(t *testing.T) {
@@ -87,11 +88,11 @@ func TestExactMLMA1NearBoundaryAgainstR(t *testing.T) {
 			t.Fatalf("seed %d: %v", c.Seed, err)
 		}
 		t.Logf("seed %d: loglik %.9f (R %.9f, diff %.2g) ma1 %.9f (R %.9f) iter %d %s", c.Seed, r.LogLik, c.LogLik, r.LogLik-c.LogLik, r.MA[1], c.Coef[0], r.Iter, r.Reason)
-		onCircle := math.Abs(c.Coef[0]) > 1-mlBoundaryTol
+		onCircle := math.Abs(c.Coef[0]) > 1-kalman.BoundaryTol
 		flagged := len(r.Boundary) > 0
 		ok := r.LogLik >= c.LogLik-1e-6 && r.NUsed == c.NObs && flagged == onCircle
 		if onCircle {
-			ok = ok && math.Abs(r.MA[1]+1) <= mlBoundaryTol
+			ok = ok && math.Abs(r.MA[1]+1) <= kalman.BoundaryTol
 		} else {
 			ok = ok && relClose(r.MA[1], c.Coef[0], 1e-4)
 		}

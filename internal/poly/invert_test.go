@@ -92,3 +92,33 @@ func TestInvertInsideErrors(t *testing.T) {
 		t.Errorf("NaN: %v", err)
 	}
 }
+
+// TestInvertFactors: (1 + x0 B - x1 B^2) (1 + x2 B^4) with x = (2.5, -1,
+// 3): the first factor 1 + 2.5B + B^2 = (1 + 2B)(1 + 0.5B) becomes
+// (1 + 0.5B)^2 = 1 + B + 0.25B^2, so x0 = 1, x1 = -0.25; the one-term
+// factor 1 + 3B^4 becomes 1 + B^4/3 (all four roots inverted,
+// Brockwell & Davis 1991, section 4.4). Hand-computed; tolerance 1e-13,
+// the root finder's accuracy for well separated roots. An invertible x
+// is left as it is.
+func TestInvertFactors(t *testing.T) {
+	fs := []FactorMap{
+		{C0: 1, Index: []int{-1, 0, 1}, Sign: []float64{0, 1, -1}},
+		{C0: 1, Index: []int{-1, -1, -1, -1, 2}, Sign: []float64{0, 0, 0, 0, 1}},
+	}
+	x := []float64{2.5, -1, 3}
+	changed, err := InvertFactors(fs, x)
+	want := []float64{1, -0.25, 1.0 / 3}
+	if err != nil || !changed {
+		t.Fatal(changed, err)
+	}
+	for k := range x {
+		if math.Abs(x[k]-want[k]) > 1e-13 {
+			t.Errorf("x = %v, want %v", x, want)
+			break
+		}
+	}
+	changed, err = InvertFactors(fs, x)
+	if err != nil || changed {
+		t.Errorf("invertible x changed: %v %v", changed, err)
+	}
+}

@@ -172,3 +172,60 @@ func InvertInside(a []float64) (out []float64, ratio float64, changed bool, err 
 	}
 	return out, ratio, true, nil
 }
+
+// FactorMap ties one factor of a product polynomial to a parameter
+// vector x: the factor is C0 + sum_p Sign[p] x[Index[p]] B^p over the
+// powers p >= 1 with Index[p] >= 0 (Index[0] and Sign[0] are unused).
+// A factor is rewritable by InvertFactors when it has one such term (all
+// its roots then have one modulus, so inverting them keeps its form) or
+// one at every power 1..len(Index)-1.
+type FactorMap struct {
+	C0    float64
+	Index []int
+	Sign  []float64
+}
+
+// InvertFactors inverts, in x, the roots of each factor fs[i] inside
+// the unit circle in B (z-plane roots outside it), as InvertInside: the
+// MA part that is their product then has the same exact Gaussian
+// likelihood with sigma^2 concentrated out. A one-term factor
+// C0 + c B^s becomes C0 + (C0^2/c) B^s when |c| > |C0|. changed reports
+// whether x was modified; the error is the root finder's (the factors
+// before it are inverted).
+func InvertFactors(fs []FactorMap, x []float64) (changed bool, err error) {
+	for _, f := range fs {
+		base := make([]float64, len(f.Index))
+		base[0] = f.C0
+		nfree, last := 0, 0
+		for p := 1; p < len(f.Index); p++ {
+			if k := f.Index[p]; k >= 0 {
+				base[p] = f.Sign[p] * x[k]
+				nfree, last = nfree+1, p
+			}
+		}
+		var out []float64
+		if nfree == 1 {
+			c := base[last]
+			if !(math.Abs(c) > math.Abs(f.C0)) {
+				continue
+			}
+			out = append([]float64(nil), base...)
+			out[last] = f.C0 * f.C0 / c
+		} else {
+			var ch bool
+			if out, _, ch, err = InvertInside(base); err != nil {
+				return changed, err
+			}
+			if !ch {
+				continue
+			}
+		}
+		for p := 1; p < len(f.Index); p++ {
+			if k := f.Index[p]; k >= 0 {
+				x[k] = f.Sign[p] * out[p]
+			}
+		}
+		changed = true
+	}
+	return changed, nil
+}
