@@ -20,13 +20,11 @@ import (
 // left unoptimised.
 
 // newMAFlip returns the root inversion of e's MA part, one map per
-// factor with free coefficients (see poly.FactorMap), nil when a factor
-// cannot be rewritten in its own coefficients: its constant term is
-// free or missing, a coefficient is held or appears elsewhere in the
-// model, two terms share a power, or it is sparse with more than one
-// free term (inverting some of its roots would give powers it does not
-// have). A factor with one free term c B^s (a seasonal MA) keeps its
-// form: all its roots have one modulus.
+// factor with free coefficients, nil when a factor cannot be rewritten
+// in its own coefficients (see poly.NewFactorMap: a held coefficient, a
+// name used elsewhere in the model, a sparse factor with several free
+// terms). A factor with one free term c B^s (a seasonal MA) keeps its
+// form.
 func newMAFlip(e *engine) []poly.FactorMap {
 	uses := map[int]int{}
 	for _, r := range e.refs {
@@ -34,7 +32,7 @@ func newMAFlip(e *engine) []poly.FactorMap {
 	}
 	var fs []poly.FactorMap
 	for _, f := range e.ma.Factors {
-		fm, free, ok := factorMap(f.Terms, func(name string) int { return e.index[name] }, uses)
+		fm, free, ok := poly.NewFactorMap(termRefs(f.Terms, e.place), func(k int) int { return uses[k] })
 		if !ok {
 			return nil
 		}
@@ -45,47 +43,26 @@ func newMAFlip(e *engine) []poly.FactorMap {
 	return fs
 }
 
-// factorMap describes one factor's terms for newMAFlip (index gives a
-// free coefficient's place in x, uses how many coefficients of the model
-// refer to each place): free reports whether it has free coefficients,
-// ok whether it can be rewritten (a factor without free coefficients
-// never changes: ok).
-func factorMap(terms []sym.Term, index func(string) int, uses map[int]int) (fm poly.FactorMap, free, ok bool) {
-	m, nfree := 0, 0
-	for _, t := range terms {
-		m = max(m, t.Power)
-		if t.Coef.Free && t.Coef.Name != "" {
-			nfree++
+// termRefs describes terms for poly.NewFactorMap, index giving a
+// coefficient's place in the parameter vector (< 0: fixed).
+func termRefs(terms []sym.Term, index func(c sym.Coef) int) []poly.TermRef {
+	ts := make([]poly.TermRef, len(terms))
+	for i, t := range terms {
+		sign := 1.0
+		if t.Neg {
+			sign = -1
 		}
+		ts[i] = poly.TermRef{Power: t.Power, Index: index(t.Coef), Sign: sign, Value: t.Coef.Value}
 	}
-	if nfree == 0 {
-		return fm, false, true
+	return ts
+}
+
+// place is the index in x of a free named coefficient, -1 for others.
+func (e *engine) place(c sym.Coef) int {
+	if k, ok := e.index[c.Name]; ok && c.Free && c.Name != "" && k >= 0 && k < e.narma {
+		return k
 	}
-	fm = poly.FactorMap{Index: make([]int, m+1), Sign: make([]float64, m+1)}
-	for p := range fm.Index {
-		fm.Index[p] = -1
-	}
-	c0set := false
-	for _, t := range terms {
-		isFree := t.Coef.Free && t.Coef.Name != ""
-		k := -1
-		if isFree {
-			k = index(t.Coef.Name)
-		}
-		switch {
-		case t.Power == 0 && !isFree && !c0set:
-			fm.C0, c0set = t.Value(), true
-		case t.Power > 0 && isFree && k >= 0 && fm.Index[t.Power] < 0 && uses[k] == 1:
-			fm.Index[t.Power], fm.Sign[t.Power] = k, 1
-			if t.Neg {
-				fm.Sign[t.Power] = -1
-			}
-		default:
-			return fm, true, false
-		}
-	}
-	ok = c0set && fm.C0 != 0 && (nfree == 1 || nfree == m)
-	return fm, true, ok
+	return -1
 }
 
 // invertMA inverts the non-invertible MA roots of x in place (nil when

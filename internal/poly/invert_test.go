@@ -122,3 +122,35 @@ func TestInvertFactors(t *testing.T) {
 		t.Errorf("invertible x changed: %v %v", changed, err)
 	}
 }
+
+// TestNewFactorMap: which factors InvertFactors can rewrite (the rule
+// of NewFactorMap's doc): 1 + x0 B - x1 B^2 (dense) yes, 1 + x0 B^12
+// (one term) yes, 1 + x0 B + x1 B^12 (sparse) no, a parameter used twice
+// no, a fixed coefficient beside a free one no, a fixed factor yes with
+// no free terms.
+func TestNewFactorMap(t *testing.T) {
+	once := func(int) int { return 1 }
+	one := TermRef{Power: 0, Index: -1, Sign: 1, Value: 1}
+	cases := []struct {
+		name     string
+		ts       []TermRef
+		uses     func(int) int
+		free, ok bool
+	}{
+		{"dense", []TermRef{one, {1, 0, 1, 0}, {2, 1, -1, 0}}, once, true, true},
+		{"seasonal", []TermRef{one, {12, 0, 1, 0}}, once, true, true},
+		{"sparse", []TermRef{one, {1, 0, 1, 0}, {12, 1, 1, 0}}, once, true, false},
+		{"shared", []TermRef{one, {1, 0, 1, 0}}, func(int) int { return 2 }, true, false},
+		{"held beside free", []TermRef{one, {1, -1, 1, 0.3}, {2, 0, 1, 0}}, once, true, false},
+		{"fixed", []TermRef{one, {1, -1, 1, 0.3}}, once, false, true},
+	}
+	for _, c := range cases {
+		fm, free, ok := NewFactorMap(c.ts, c.uses)
+		if free != c.free || ok != c.ok {
+			t.Errorf("%s: free %v ok %v, want %v %v", c.name, free, ok, c.free, c.ok)
+		}
+		if c.name == "dense" && (fm.C0 != 1 || fm.Index[2] != 1 || fm.Sign[2] != -1) {
+			t.Errorf("dense: %+v", fm)
+		}
+	}
+}

@@ -229,3 +229,51 @@ func InvertFactors(fs []FactorMap, x []float64) (changed bool, err error) {
 	}
 	return changed, nil
 }
+
+// TermRef is one term of a factor as NewFactorMap reads it: Sign * v *
+// B^Power, where v is x[Index] for a free coefficient (Index >= 0) and
+// Value for a fixed one (Index < 0).
+type TermRef struct {
+	Power int
+	Index int
+	Sign  float64
+	Value float64
+}
+
+// NewFactorMap returns the FactorMap of a factor with terms ts, where
+// uses(k) counts the coefficients of the whole model that x[k] sets.
+// free reports whether the factor has free terms; ok whether
+// InvertFactors can rewrite it in its own coefficients (a factor without
+// free terms never changes: ok): one fixed non-zero constant term, every
+// other term free with a power of its own and a parameter used nowhere
+// else, and one free term or one at every power up to the degree
+// (inverting some roots of a sparse factor would give powers it does not
+// have).
+func NewFactorMap(ts []TermRef, uses func(k int) int) (fm FactorMap, free, ok bool) {
+	m, nfree := 0, 0
+	for _, t := range ts {
+		m = max(m, t.Power)
+		if t.Index >= 0 {
+			nfree++
+		}
+	}
+	if nfree == 0 {
+		return fm, false, true
+	}
+	fm = FactorMap{Index: make([]int, m+1), Sign: make([]float64, m+1)}
+	for p := range fm.Index {
+		fm.Index[p] = -1
+	}
+	c0set := false
+	for _, t := range ts {
+		switch {
+		case t.Power == 0 && t.Index < 0 && !c0set:
+			fm.C0, c0set = t.Sign*t.Value, true
+		case t.Power > 0 && t.Index >= 0 && fm.Index[t.Power] < 0 && uses(t.Index) == 1:
+			fm.Index[t.Power], fm.Sign[t.Power] = t.Index, t.Sign
+		default:
+			return fm, true, false
+		}
+	}
+	return fm, true, c0set && fm.C0 != 0 && (nfree == 1 || nfree == m)
+}
