@@ -116,3 +116,40 @@ func TestDecrement(t *testing.T) {
 		t.Error("indefinite H accepted")
 	}
 }
+
+// TestGaussNewtonInverse: for the linear residuals r = A x - b, J = A
+// and (J'J)^-1 = (A'A)^-1; A = [[1 0] [1 1] [1 2]] gives A'A = [[3 3]
+// [3 5]] and its inverse [[5 -3] [-3 3]]/6 (hand-computed, common
+// practice; forward differences are exact for linear residuals up to
+// rounding: tolerance 1e-6, the 2^-26 step's rounding). A failing
+// residual function gives nil.
+func TestGaussNewtonInverse(t *testing.T) {
+	A := [][]float64{{1, 0}, {1, 1}, {1, 2}}
+	b := []float64{1, 2, 4}
+	res := func(x, r []float64) error {
+		for i, a := range A {
+			r[i] = a[0]*x[0] + a[1]*x[1] - b[i]
+		}
+		return nil
+	}
+	x := []float64{0.3, -0.7}
+	inv := GaussNewtonInverse(JacobianEval(res), x, 3)
+	want := [][]float64{{5.0 / 6, -0.5}, {-0.5, 0.5}}
+	if inv == nil {
+		t.Fatal("nil")
+	}
+	for i := range want {
+		for j := range want[i] {
+			if math.Abs(inv.At(i, j)-want[i][j]) > 1e-6 {
+				t.Errorf("(%d,%d) %v, want %v", i, j, inv.At(i, j), want[i][j])
+			}
+		}
+	}
+	if x[0] != 0.3 {
+		t.Error("x modified")
+	}
+	fail := func(x, r []float64, jac [][]float64) error { return ErrNotFinite }
+	if GaussNewtonInverse(fail, x, 3) != nil {
+		t.Error("failing residuals gave a matrix")
+	}
+}
