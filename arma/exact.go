@@ -26,6 +26,15 @@ const (
 	// ExactML is exact Gaussian maximum likelihood through the Kalman
 	// filter of internal/kalman, with sigma^2 concentrated out; NaN
 	// samples of the series are skipped exactly (see FitSettings.Method).
+	// The search may cross the MA invertibility boundary, where the
+	// likelihood is the same for a polynomial and for the one with its
+	// roots inverted (Brockwell & Davis 1991, 4.4), and maps its point
+	// back by inverting the roots outside the unit circle, as R's arima
+	// does; an estimate with an MA root within 1e-3 of the circle
+	// (kalman.BoundaryTol) is flagged in Result.Boundary. MA parts whose
+	// factors cannot be rewritten so (a held coefficient beside free
+	// ones, a name shared with another polynomial, a sparse factor with
+	// several free terms) keep the search inside instead.
 	ExactML
 )
 
