@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/backshift/backshift/internal/kalman"
+	"github.com/backshift/backshift/internal/sym"
 	"github.com/backshift/backshift/internal/testutil"
 )
 
@@ -100,5 +101,49 @@ func TestExactMLMA1NearBoundaryAgainstR(t *testing.T) {
 			t.Errorf("seed %d (theta %v, n %d): loglik %.9f ma1 %.9f n %d boundary %v; R %.9f %.9f %d",
 				c.Seed, c.Theta, len(y), r.LogLik, r.MA[1], r.NUsed, r.Boundary, c.LogLik, c.Coef[0], c.NObs)
 		}
+	}
+}
+
+// TestNewMAFlip: which MA parts the exact-likelihood search may carry
+// across the invertibility boundary (newMAFlip, rule of
+// poly.NewFactorMap): a dense MA(2) and a seasonal (1 + theta B)(1 +
+// Theta B^4) yes, one map per factor; MA(2) with theta2 held, and a
+// subset factor 1 + a B + b B^4, no (the search then stays inside).
+// Then the root inversion of the seasonal part: theta = -2, Theta = 3
+// become -0.5 and 1/3 (Brockwell & Davis 1991, 4.4; exact here, one
+// real root and a one-term factor: tolerance 1e-15).
+func TestNewMAFlip(t *testing.T) {
+	y := make([]float64, 40)
+	for i := range y {
+		y[i] = math.Sin(float64(i))
+	}
+	flipOf := func(noise Noise, held map[string]float64) *mlProblem {
+		e, err := bind(y, noise, []float64{1}, false, FitSettings{Held: held})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return &mlProblem{e: e, flip: newMAFlip(e)}
+	}
+	dense, _ := Order{Q: 2}.terms()
+	if p := flipOf(dense, nil); len(p.flip) != 1 {
+		t.Errorf("dense MA(2): %d maps", len(p.flip))
+	}
+	if p := flipOf(dense, map[string]float64{"theta2": 0.1}); p.flip != nil {
+		t.Errorf("MA(2) with theta2 held: %v", p.flip)
+	}
+	seas, _ := Order{Q: 1, SQ: 1, Period: 4}.terms()
+	p := flipOf(seas, nil)
+	if len(p.flip) != 2 {
+		t.Fatalf("seasonal: %d maps", len(p.flip))
+	}
+	x := make([]float64, len(p.e.names))
+	x[p.e.index["theta1"]], x[p.e.index["Theta1"]] = -2, 3
+	if !p.invertMA()(x) || math.Abs(x[p.e.index["theta1"]]+0.5) > 1e-15 || math.Abs(x[p.e.index["Theta1"]]-1.0/3) > 1e-15 {
+		t.Errorf("seasonal inverted to %v (names %v)", x, p.e.names)
+	}
+	subset := Noise{MA: sym.Poly{Factors: []sym.Factor{{Exp: 1, Terms: []sym.Term{
+		{Coef: sym.Coef{Value: 1}}, {Coef: sym.Coef{Name: "a", Free: true}, Power: 1}, {Coef: sym.Coef{Name: "b", Free: true}, Power: 4}}}}}}
+	if p := flipOf(subset, nil); p.flip != nil {
+		t.Errorf("subset factor: %v", p.flip)
 	}
 }
