@@ -5,11 +5,10 @@ import (
 	"math"
 	"strconv"
 
-	"gonum.org/v1/gonum/mat"
-
 	"github.com/backshift/backshift/internal/errs"
 	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/internal/sym"
 )
 
@@ -27,6 +26,15 @@ const (
 	// ExactML is exact Gaussian maximum likelihood through the Kalman
 	// filter of internal/kalman, with sigma^2 concentrated out; NaN
 	// samples of the series are skipped exactly (see FitSettings.Method).
+	// The search may cross the MA invertibility boundary, where the
+	// likelihood is the same for a polynomial and for the one with its
+	// roots inverted (Brockwell & Davis 1991, 4.4), and maps its point
+	// back by inverting the roots outside the unit circle, as R's arima
+	// does; an estimate with an MA root within 1e-3 of the circle
+	// (kalman.BoundaryTol) is flagged in Result.Boundary. MA parts whose
+	// factors cannot be rewritten so (a held coefficient beside free
+	// ones, a name shared with another polynomial, a sparse factor with
+	// several free terms) keep the search inside instead.
 	ExactML
 )
 
@@ -75,6 +83,11 @@ type mlProblem struct {
 	// likelihood is defined there): the Hessian's stencil around an
 	// estimate on the invertibility boundary may cross it.
 	anyMA bool
+	// cross lets load accept a non-invertible MA polynomial for the
+	// whole fit: the search may cross the boundary and is mapped back
+	// by root inversion of flip (see exact_flip.go).
+	cross bool
+	flip  []poly.FactorMap
 }
 
 // estimateML fits by exact maximum likelihood (the ExactML method of
@@ -109,18 +122,23 @@ func estimateML(ctx context.Context, y []float64, noise Noise, diff []float64, d
 	if m < len(e.names)+1 || m < 2 {
 		return nil, shortErr(o.Name, m, max(len(e.names)+1, 2), "an exact-likelihood fit with "+itoa(len(e.names))+" parameters; the count is of observed (not missing) samples after the conditioning, of the record's "+itoa(len(y)))
 	}
+	if e.keepInvertible {
+		p.flip = newMAFlip(e)
+		p.cross = p.flip != nil
+	}
 	lres := lm.Result{X: x0, Reason: lm.SmallGradient}
+	atBoundary := false
 	if len(e.names) > 0 {
 		if _, err := p.stats(x0); err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" cannot be computed at the start values: "+err.Error())
 		}
 		prob := lm.Problem{M: m, N: len(e.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
-		lres, err = lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
+		lres, atBoundary, err = p.search(ctx, prob, x0, lm.Settings{MaxIter: o.MaxIter, FTol: o.Tol})
 		if err != nil {
 			return nil, modelErr("start values", "the exact likelihood of "+seriesName(o.Name)+" is not finite at the start values")
 		}
 	}
-	x, hess, err := p.polish(ctx, lres)
+	x, hess, err := p.finish(ctx, &lres, atBoundary)
 	if err != nil {
 		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
 	}
@@ -213,8 +231,9 @@ func clsStart(ctx context.Context, e *engine, yf []float64, noise Noise, diff []
 // its free coefficients are scaled by 0.7 until no root is that close to
 // the unit circle (at most 20 times). The exact likelihood needs a
 // stationary AR part, and a least-squares start on the MA invertibility
-// boundary would hold the search there, since its steps may not cross
-// (the MA part is not moved under FitSettings.AllowNonInvertible).
+// boundary would hold the search there when its steps may not cross
+// (an MA part that root inversion cannot rewrite, see newMAFlip; the MA
+// part is not moved under FitSettings.AllowNonInvertible).
 func (e *engine) shrinkInside(pl sym.Poly, x0 []float64) {
 	ks := map[int]bool{}
 	pl.Each(func(c *sym.Coef) {
@@ -314,7 +333,7 @@ func newMLProblem(e *engine, y []float64, o FitSettings) (*mlProblem, error) {
 func (p *mlProblem) load(x []float64) (float64, error) {
 	e := p.e
 	e.set(x)
-	if e.keepInvertible && !p.anyMA && !schurStable(e.ma.Coeffs()) {
+	if e.keepInvertible && !p.anyMA && !p.cross && !schurStable(e.ma.Coeffs()) {
 		return 0, errNonInvertible
 	}
 	if err := p.kf.Set(e.ar.Coeffs(), e.ma.Coeffs()); err != nil {
@@ -379,11 +398,4 @@ func (p *mlProblem) residuals(x, r []float64) error {
 		err = errNonInvertible // a degenerate point: refuse the step
 	}
 	return err
-}
-
-// polish is kalman.Polish from the search's end lres, the stencil
-// allowed a non-invertible MA part.
-func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
-	widen := func(on bool) { p.anyMA = on }
-	return kalman.Polish(ctx, p.negLogLik, widen, kalman.SearchEnd{X: lres.X, Converged: lres.Reason.Converged(), JTJInv: lres.JTJInv, SSQ: lres.SSQ, N: len(lres.Resid)})
 }

@@ -43,6 +43,9 @@ func (p *mlProblem) report(ctx context.Context, y []float64, o FitSettings, x0, 
 	res.LogLik = st.LogLik() - float64(st.NObs)*math.Log(sc)
 	res.mlCriteria(np)
 	res.flagBoundary()
+	if e.keepInvertible {
+		res.flagNearMA()
+	}
 	res.forecastState(y, o.Regressors)
 	if err := p.missing(res, y, o, mu); err != nil {
 		return nil, err

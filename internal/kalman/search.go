@@ -134,3 +134,22 @@ func Polish(ctx context.Context, f func(x []float64) float64, widen func(bool), 
 	}
 	return x, hess, nil
 }
+
+// Decrement returns the Newton decrement g'H^-1 g at a point with
+// gradient g and Hessian H of a function to minimise: twice the decrease
+// that the local quadratic model still promises (Boyd & Vandenberghe
+// 2004, section 9.5.1), a convergence test that does not depend on the
+// parameters' units. ok is false when H is not positive definite. H and
+// g are not modified.
+func Decrement(H *mat.SymDense, g []float64) (dec float64, ok bool) {
+	var c mat.Cholesky
+	if !c.Factorize(H) {
+		return 0, false
+	}
+	var dx mat.VecDense
+	gv := mat.NewVecDense(len(g), append([]float64(nil), g...))
+	if c.SolveVecTo(&dx, gv) != nil {
+		return 0, false
+	}
+	return mat.Dot(gv, &dx), true
+}

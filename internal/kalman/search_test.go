@@ -100,3 +100,56 @@ func TestClearOfUnitCircle(t *testing.T) {
 		}
 	}
 }
+
+// TestDecrement: g'H^-1 g for H = diag(2, 4), g = (2, 4) is 4/2 + 16/4
+// = 6 (the definition, Boyd & Vandenberghe 2004, eq. 9.28; exact in
+// floating point); a Hessian that is not positive definite gives ok
+// false; H and g are not modified.
+func TestDecrement(t *testing.T) {
+	H := mat.NewSymDense(2, []float64{2, 0, 0, 4})
+	g := []float64{2, 4}
+	dec, ok := Decrement(H, g)
+	if !ok || dec != 6 || g[0] != 2 || H.At(0, 0) != 2 {
+		t.Errorf("got %v %v", dec, ok)
+	}
+	if _, ok := Decrement(mat.NewSymDense(2, []float64{1, 2, 2, 1}), g); ok {
+		t.Error("indefinite H accepted")
+	}
+}
+
+// TestGaussNewtonInverse: for the linear residuals r = A x - b, J = A
+// and (J'J)^-1 = (A'A)^-1; A = [[1 0] [1 1] [1 2]] gives A'A = [[3 3]
+// [3 5]] and its inverse [[5 -3] [-3 3]]/6 (hand-computed, common
+// practice; forward differences are exact for linear residuals up to
+// rounding: tolerance 1e-6, the 2^-26 step's rounding). A failing
+// residual function gives nil.
+func TestGaussNewtonInverse(t *testing.T) {
+	A := [][]float64{{1, 0}, {1, 1}, {1, 2}}
+	b := []float64{1, 2, 4}
+	res := func(x, r []float64) error {
+		for i, a := range A {
+			r[i] = a[0]*x[0] + a[1]*x[1] - b[i]
+		}
+		return nil
+	}
+	x := []float64{0.3, -0.7}
+	inv := GaussNewtonInverse(JacobianEval(res), x, 3)
+	want := [][]float64{{5.0 / 6, -0.5}, {-0.5, 0.5}}
+	if inv == nil {
+		t.Fatal("nil")
+	}
+	for i := range want {
+		for j := range want[i] {
+			if math.Abs(inv.At(i, j)-want[i][j]) > 1e-6 {
+				t.Errorf("(%d,%d) %v, want %v", i, j, inv.At(i, j), want[i][j])
+			}
+		}
+	}
+	if x[0] != 0.3 {
+		t.Error("x modified")
+	}
+	fail := func(x, r []float64, jac [][]float64) error { return ErrNotFinite }
+	if GaussNewtonInverse(fail, x, 3) != nil {
+		t.Error("failing residuals gave a matrix")
+	}
+}

@@ -13,6 +13,7 @@ import (
 	"github.com/backshift/backshift/internal/est"
 	"github.com/backshift/backshift/internal/kalman"
 	"github.com/backshift/backshift/internal/lm"
+	"github.com/backshift/backshift/internal/poly"
 	"github.com/backshift/backshift/tf"
 )
 
@@ -66,7 +67,12 @@ type mlProblem struct {
 	// keepMA refuses points whose MA part is not invertible (the search
 	// started inside); anyMA lifts that for the curvature's stencil.
 	keepMA, anyMA bool
-	evals         int
+	// cross lets load accept a non-invertible MA part for the whole fit:
+	// the search may cross the boundary and is mapped back by root
+	// inversion of flip (see ml_boundary.go).
+	cross bool
+	flip  []poly.FactorMap
+	evals int
 }
 
 // newMLProblem prepares the exact likelihood of y over w's parameters,
@@ -111,7 +117,7 @@ func (p *mlProblem) load(x []float64) error {
 	w.set(x)
 	k := len(w.names)
 	ar, ma := w.ar.Coeffs(), w.ma.Coeffs()
-	if p.keepMA && !p.anyMA && len(ma) > 1 && maxZ(ma) >= 1 {
+	if p.keepMA && !p.anyMA && !p.cross && len(ma) > 1 && maxZ(ma) >= 1 {
 		return errInadmissible
 	}
 	if err := p.kf.Set(ar, ma); err != nil {
@@ -212,18 +218,12 @@ func (p *mlProblem) residuals(x, r []float64) error {
 	return err
 }
 
-// polish is kalman.Polish from the search's end lres, the stencil
-// allowed to cross the MA boundary (the steps may not).
-func (p *mlProblem) polish(ctx context.Context, lres lm.Result) ([]float64, *mat.SymDense, error) {
-	widen := func(on bool) { p.anyMA = on }
-	return kalman.Polish(ctx, p.negLogLik, widen, kalman.SearchEnd{X: lres.X, Converged: lres.Reason.Converged(), JTJInv: lres.JTJInv, SSQ: lres.SSQ, N: len(lres.Resid)})
-}
-
 // shrinkStart moves a start whose noise AR part is not stationary, or
 // whose MA part has a zero at |z| >= 0.98, inside: the free
 // coefficients of that part are scaled by 0.7 until it is (at most 20
 // times). The exact likelihood needs a stationary AR part, and a start
-// on the MA boundary would hold the search there.
+// on the MA boundary would hold the search there when it may not cross
+// (an MA part that root inversion cannot rewrite, see maFlip).
 func (p *mlProblem) shrinkStart(x []float64) {
 	w := p.w
 	for _, pl := range []tf.Poly{w.ar, w.ma} {
@@ -262,15 +262,19 @@ func fitML(ctx context.Context, w *work, y []float64, set Settings) (*Estimate, 
 	x0 = append([]float64(nil), x0...)
 	p.shrinkStart(x0)
 	p.keepMA = len(w.ma.Coeffs()) > 1 && maxZ(w.ma.Coeffs()) < 1
+	if p.keepMA {
+		p.flip = w.maFlip()
+		p.cross = p.flip != nil
+	}
 	if _, err := p.stats(x0, nil); err != nil {
 		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" cannot be computed at the least-squares start: "+err.Error())
 	}
 	prob := lm.Problem{M: p.nob, N: len(w.names), Eval: kalman.JacobianEval(p.residuals), WritesAll: true}
-	lres, err := lm.Minimize(ctx, prob, x0, &lm.Settings{MaxIter: maxIter, FTol: set.Tol})
+	lres, atBoundary, err := p.search(ctx, prob, x0, lm.Settings{MaxIter: maxIter, FTol: set.Tol})
 	if err != nil {
 		return nil, errs.Model("start values", "the exact likelihood of output "+strconv.Quote(w.m.Output)+" is not finite at the start values")
 	}
-	x, hess, err := p.polish(ctx, lres)
+	x, hess, err := p.finish(ctx, &lres, atBoundary)
 	if err != nil {
 		lres.Reason = lm.Canceled // ctx was done during a Hessian: report as a cancelled search
 	}
