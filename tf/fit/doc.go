@@ -125,51 +125,54 @@
 //
 // an ARIMA model whose likelihood the Kalman filter of internal/kalman
 // computes exactly: the ARMA part started from its stationary
-// distribution (Gardner, Harvey & Phillips 1980; Harvey 1989, sec.
-// 3.4), the differencing conditioned on the first deg D consecutive
-// observed samples of z (the exact diffuse likelihood of the
-// differenced model when nothing is missing: Ansley & Kohn 1985), over
-// the samples from NoiseStart on (the input numerators see only real
-// data there, as in least squares), missing output samples (NaN)
-// skipped exactly by predicting across them. sigma^2 is concentrated
-// out: logL = -N/2 (log(2 pi SSQ/N) + 1) - 1/2 sum log F_t, N the
-// observed samples in the likelihood, v_t the innovations, F_t their
-// variances in units of sigma^2 and SSQ = sum v_t^2/F_t. The search
-// starts from the least-squares estimate on the record with its output
-// gaps interpolated (for a record of 40000 residuals or more, the
-// least-squares fit of its last samples, as in Model's first stage),
-// runs Levenberg-Marquardt on the scaled innovations
-// v_t F_t^(-1/2) (prod F)^(1/(2N)), whose sum of squares is least at the
-// maximum likelihood, with a forward-difference Jacobian (steps 2^-26
-// max(|x_k|, 1)), and ends with up to three Newton steps on the
-// central-difference Hessian of -logL (kalman.Polish and
-// kalman.Information: differences along the axes that the
-// Gauss-Newton information at the search's end makes uncorrelated, 0.1
-// conditional standard error or less and no more than
-// 2^-13 max(|x_k|, 1) in any parameter; axis steps where that guide is
-// poor. The likelihood departs from its quadratic form on the scale of
-// the conditional standard error, far below the marginal one for
-// correlated parameters such as a gain and a slow pole, and a parameter
-// far below one, such as the gain of an input recorded in large units,
-// gets a step small against it), each kept only when the likelihood rises. The
-// covariance of the estimates is the inverse of that Hessian, the
-// observed information (NaN when it is not positive definite). A noise
-// AR part must stay stationary and an MA part that starts invertible
-// stays so. LogLik is the exact log-likelihood and AIC = -2 LogLik +
-// 2 (k+1), BIC = -2 LogLik + (k+1) log N; Sigma2 = SSQ/(N - k) as in
-// the library's convention. Residuals are the standardised innovations
-// v_t/sqrt(F_t), NaN where the output is missing; Estimate.Missing
-// holds the fixed-interval smoothed estimates of the missing outputs
-// with their standard errors (Durbin & Koopman 2012, sec. 4.4 and
-// 4.10); Check runs its tests on the available residuals, and
-// Estimate.Forecast starts from the filter's state at the end of the
+// distribution (Gardner, Harvey & Phillips 1980; Harvey 1989, sec. 3.4),
+// the differencing conditioned on the first deg D consecutive observed
+// samples of z (the exact diffuse likelihood of the differenced model
+// when nothing is missing: Ansley & Kohn 1985), over the samples from
+// NoiseStart on (the input numerators see only real data there, as in
+// least squares), missing output samples (NaN) skipped exactly by
+// predicting across them. sigma^2 is concentrated out: logL = -N/2
+// (log(2 pi SSQ/N) + 1) - 1/2 sum log F_t, N the observed samples in the
+// likelihood, v_t the innovations, F_t their variances in units of
+// sigma^2 and SSQ = sum v_t^2/F_t. The search starts from the
+// least-squares estimate on the record with its output gaps interpolated
+// (for a record of 40000 residuals or more, the least-squares fit of its
+// last samples, as in Model's first stage), runs Levenberg-Marquardt on
+// the scaled innovations v_t F_t^(-1/2) (prod F)^(1/(2N)), whose sum of
+// squares is least at the maximum likelihood, with a forward-difference
+// Jacobian (steps 2^-26 max(|x_k|, 1)), and ends with up to three Newton
+// steps on the central-difference Hessian of -logL (kalman.Polish and
+// kalman.Information: differences along the axes that the Gauss-Newton
+// information at the search's end makes uncorrelated, 0.1 conditional
+// standard error or less and no more than 2^-13 max(|x_k|, 1) in any
+// parameter; axis steps where that guide is poor. The likelihood departs
+// from its quadratic form on the scale of the conditional standard
+// error, far below the marginal one for correlated parameters such as a
+// gain and a slow pole, and a parameter far below one, such as the gain
+// of an input recorded in large units, gets a step small against it),
+// each kept only when the likelihood rises. The covariance of the
+// estimates is the inverse of that Hessian, the observed information
+// (NaN when it is not positive definite). A noise AR part must stay
+// stationary; an MA part that starts invertible may cross the unit
+// circle during the search (the exact likelihood is the same for a
+// polynomial and for the one with its roots inverted, Brockwell & Davis
+// 1991, 4.4) and is mapped back by inverting the roots outside, so the
+// estimate is invertible; a zero within 1e-3 of the circle gives
+// NonInvertibleNoise. LogLik is the exact log-likelihood and AIC = -2
+// LogLik + 2 (k+1), BIC = -2 LogLik + (k+1) log N; Sigma2 = SSQ/(N - k)
+// as in the library's convention. Residuals are the standardised
+// innovations v_t/sqrt(F_t), NaN where the output is missing;
+// Estimate.Missing holds the fixed-interval smoothed estimates of the
+// missing outputs with their standard errors (Durbin & Koopman 2012,
+// sec. 4.4 and 4.10); Check runs its tests on the available residuals,
+// and Estimate.Forecast starts from the filter's state at the end of the
 // record. Settings.First applies to both methods: the exact likelihood
 // is that of the noise series from max(NoiseStart, Settings.First) on
 // (Conditioning.LikelihoodStart), so that a start-up transient of the
 // pre-sample convention stays out of it as it stays out of the sum of
 // squares (left in, the noise AR part absorbs it: on the greenhouse
-// record a phi of 0.79 became 0.97). Settings.Settle applies to it
-// too: the refit is by exact likelihood from the moved start.
+// record a phi of 0.79 became 0.97). Settings.Settle applies to it too:
+// the refit is by exact likelihood from the moved start.
 //
 // Least squares stays the default: on a long record the two agree to a
 // small fraction of a standard error (the conditioning touches only the
