@@ -40,7 +40,9 @@ type Poly = sym.Poly
 //
 // with x the series named Series: Num is omega(B), Den is delta(B) with
 // constant term 1, Delay the dead time b in samples, Diff the differencing
-// applied to the input (empty for none).
+// applied to the input (empty for none). The term alone (Input.Rational)
+// acts on the model's differenced output; the effect of x on y itself,
+// the plant a controller sees, is Model.Path.
 //
 // An input with Event set is an intervention (Box & Tiao 1975): x is
 // the event's indicator (see Event), built from the record's length
@@ -81,7 +83,8 @@ type Interval struct {
 //
 // Output names y; Const is the constant c (nil for none); Noise is the
 // noise term (nil for a noise-free model, the zero Noise for white
-// noise).
+// noise). Path returns the whole path from one input to y,
+// Num_i/Den_i B^b_i D_i(B)/D(B).
 type Model struct {
 	Output   string
 	Diff     Poly

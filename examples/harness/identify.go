@@ -26,7 +26,8 @@ type identified struct {
 	Structure string
 	Est       *fit.Estimate
 	Checks    *fit.Diagnostics
-	// Plant is the estimated valve path, the plant the tuning works on.
+	// Plant is the estimated valve path (tf.Model.Path: the whole path to
+	// temp), the plant the tuning works on.
 	Plant tf.Rational
 }
 
@@ -50,7 +51,9 @@ func identifyModel(ctx context.Context, structure string, data map[string][]floa
 	id := &identified{Structure: structure, Est: est, Checks: d}
 	for _, in := range est.Model.Inputs {
 		if in.Series == valveName {
-			if id.Plant, err = in.Rational(); err != nil {
+			// The whole path from the valve to temp (differencing
+			// included), the plant a controller sees.
+			if id.Plant, err = est.Model.Path(valveName); err != nil {
 				return nil, err
 			}
 		}

@@ -63,7 +63,7 @@ func fromModelToController(ctx context.Context, w io.Writer) error {
 		return fmt.Errorf("no tuning on this model: %v %v", err, checks)
 	}
 
-	plant, err := est.Model.Inputs[0].Rational() // valve -> temperature
+	plant, err := est.Model.Path("valve") // the whole path, valve -> temperature
 	if err != nil {
 		return err
 	}

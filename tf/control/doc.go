@@ -6,8 +6,13 @@
 //
 // # Plants and controllers
 //
-// A plant is the tf.Rational of one input path of a model (Input.Rational),
-// in samples of the model's interval; a controller is any tf.Rational
+// A plant is the tf.Rational of one input's whole path to the output,
+// tf.Model.Path, in samples of the model's interval. Use the whole path,
+// not Input.Rational: a model with differencing, D(B) y = G(B) D_i(B) u,
+// has the plant G(B) D_i(B) / D(B), so (1 - B) y = G(B) u is the
+// integrating G(B)/(1 - B), and a controller tuned on G(B) alone may
+// destabilise the real loop (for a model without differencing the two
+// are the same). A controller is any tf.Rational
 // u = C(B) e acting on the control error e = r - y. PID holds continuous
 // PI/PID parameters in either Form, in the time unit of the interval, and
 // Discrete makes the discrete controller by a stated Method (backward

@@ -9,7 +9,10 @@ import (
 )
 
 // ModelDraw returns a Draw of the plant path of the model m from the
-// input series named input, with the parameters named in names drawn
+// input series named input: the whole path to the output y itself,
+// tf.Model.Path, with the model's output differencing and the input's
+// differencing included (for (1 - B) y = G(B) u the plant is the
+// integrating G(B)/(1 - B), not G(B)), with the parameters named in names drawn
 // from the normal distribution with mean their values in m and
 // covariance cov (cov[i][j] the covariance of names[i] and names[j], in
 // the model's own units, as an estimate reports it). Parameters not
@@ -19,19 +22,23 @@ import (
 //
 // The draws are of the linearised sampling distribution of the
 // estimate: a drawn plant may be unstable, which Robust counts as an
-// unstable loop. m is copied, never modified.
+// unstable loop. m and names are copied, never kept or modified: a
+// caller may reuse its slice after the call without changing later
+// draws.
 //
 // Errors (Op "control.ModelDraw"): a *SettingError for an unknown input
 // or parameter name, a name given twice, a covariance that is not square of len(names),
 // not finite, not symmetric (to 1e-9 of its diagonal) or not positive
 // semi-definite (a pivot below -1e-9 of its diagonal); the errors of
-// tf.Input.Rational for the model's own path.
+// tf.Model.Path for the model's own path (Op "tf.Model.Path"). A drawn
+// plant returns Path's errors for its drawn values.
 //
 // Over 60 lines: the checks of the model and the covariance, then the
 // drawing function, which closes over what the checks computed.
 func ModelDraw(m tf.Model, input string, names []string, cov [][]float64) (Draw, error) {
 	const op = "control.ModelDraw"
 	m = m.Clone()
+	names = append([]string(nil), names...)
 	idx := -1
 	for i, in := range m.Inputs {
 		if in.Series == input {
@@ -41,9 +48,11 @@ func ModelDraw(m tf.Model, input string, names []string, cov [][]float64) (Draw,
 	if idx < 0 {
 		return nil, &SettingError{Op: op, Setting: "input", Value: strconv.Quote(input), Rule: "must name an input series of the model"}
 	}
-	if _, err := m.Inputs[idx].Rational(); err != nil {
+	if _, err := m.Path(input); err != nil {
 		return nil, err
 	}
+	// The model of the one path, cloned afresh for each draw.
+	one := tf.Model{Output: m.Output, Diff: m.Diff, Inputs: []tf.Input{m.Inputs[idx]}}
 	mean := make([]float64, len(names))
 	known := map[string]float64{}
 	for _, c := range m.Params() {
@@ -78,16 +87,13 @@ func ModelDraw(m tf.Model, input string, names []string, cov [][]float64) (Draw,
 			}
 			vals[nm] = v
 		}
-		in := m.Inputs[idx]
-		in.Num, in.Den = in.Num.Clone(), in.Den.Clone()
-		set := func(c *tf.Coef) {
+		d := one.Clone()
+		d.EachParam(func(c *tf.Coef) {
 			if v, ok := vals[c.Name]; ok && c.Name != "" {
 				c.Value = v
 			}
-		}
-		in.Num.Each(set)
-		in.Den.Each(set)
-		return in.Rational()
+		})
+		return d.Path(input)
 	}, nil
 }
 

@@ -57,7 +57,7 @@ func TestRobustOverEstimate(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	plant, err := est.Model.Inputs[0].Rational()
+	plant, err := est.Model.Path("valve")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -43,19 +43,21 @@ func Paths(m tf.Model, interval float64) ([]Path, error) {
 		if in.Event != nil {
 			continue
 		}
-		r, err := rational(in, m.Diff)
+		// The whole path to y: the term, the input's differencing over the
+		// output's (tf.Model.Path).
+		r, err := m.Path(in.Series)
 		if err != nil {
 			return nil, fmt.Errorf("input %s: %w", in.Series, err)
 		}
 		p := Path{Input: in.Series, Rational: r, DeadTime: r.Delay(), Stable: r.Stable(), Gain: math.NaN(), Slope: math.NaN()}
-		if c := m.Diff.Coeffs(); len(c) == 2 && c[0] == 1 && c[1] == -1 {
-			// y = G(B)/(1 - B) x: the ramp rate of a step is G's gain.
-			if g, err := rational(in, tf.Poly{}); err == nil {
-				p.Slope, _ = g.Gain()
-			}
-		}
 		if g, err := r.Gain(); err == nil {
 			p.Gain = g
+		} else if c := m.Diff.Coeffs(); len(c) == 2 && c[0] == 1 && c[1] == -1 {
+			// y = G(B)/(1 - B) x: the ramp rate of a step is G's gain, G
+			// the path of the model without its output differencing.
+			if g, err := (tf.Model{Output: m.Output, Inputs: []tf.Input{in}}).Path(in.Series); err == nil {
+				p.Slope, _ = g.Gain()
+			}
 		}
 		p.Modes, _ = r.Modes(interval)
 		switch {
@@ -163,28 +165,4 @@ func zstr(z complex128) string {
 		return fmt.Sprintf("%.4f", real(z))
 	}
 	return strings.TrimSpace(fmt.Sprintf("%.4f +- %.4fi (|z| %.4f)", real(z), math.Abs(imag(z)), cmplx.Abs(z)))
-}
-
-// rational returns the input path from x to y as a transfer function:
-// the numerator times the input's differencing, over the denominator
-// times the output's differencing outDiff, with its dead time.
-func rational(in tf.Input, outDiff tf.Poly) (tf.Rational, error) {
-	num, den := in.Num.Coeffs(), in.Den.Coeffs()
-	if !in.Diff.IsOne() {
-		num = mul(num, in.Diff.Coeffs())
-	}
-	if !outDiff.IsOne() {
-		den = mul(den, outDiff.Coeffs())
-	}
-	return tf.NewRational(num, den, in.Delay)
-}
-
-func mul(a, b []float64) []float64 {
-	prod := make([]float64, len(a)+len(b)-1)
-	for i, x := range a {
-		for j, y := range b {
-			prod[i+j] += x * y
-		}
-	}
-	return prod
 }
