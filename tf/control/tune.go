@@ -357,7 +357,9 @@ func (tn *tuner) loadNote(c tf.Rational, iv tf.Interval) string {
 // next, so the valve or drive visibly chatters for several samples after
 // each step of the set point or load (at 0.9, some 20 samples to fall to
 // a tenth), common practice. Tustin's rule with a derivative filter time
-// below T/2 gives one (see Method).
+// below T/2 gives one (see Method). Only the PI and PID controllers of
+// SIMC and IMC are checked: the poles of a Dahlin controller's E(B)
+// cancel in the loop on the model, whose response is the first-order T.
 const RingingPole = 0.5
 
 // ringingNote returns the note for a controller pole with a negative
