@@ -87,7 +87,11 @@ type Loop struct {
 	// Poles are the closed-loop poles in the z-plane, the roots of the
 	// characteristic polynomial delta_c delta_p + omega_c omega_p B^(b_c +
 	// b_p) read as z = 1/B, sorted by magnitude; MaxPole the largest
-	// magnitude; Stable reports MaxPole < 1.
+	// magnitude; Stable reports MaxPole < 1. When the loop is unstable
+	// the frequency figures below would be meaningless and are marked:
+	// SensitivityPeak and ComplementaryPeak +Inf (as Tuning.Ms), the
+	// margins, DelayMargin and the peak frequencies NaN, with
+	// HasGainMargin and HasPhaseMargin false.
 	Poles   []complex128
 	MaxPole float64
 	Stable  bool
@@ -182,6 +186,9 @@ func (a *analyzer) analyze(c, p tf.Rational, s LoopSettings) (Loop, error) {
 	if f.poleOnUnitCircle {
 		lp.SensitivityPeak, lp.ComplementaryPeak = math.NaN(), math.NaN()
 	}
+	if !lp.Stable {
+		unstableFigures(&lp, s.Interval.Value)
+	}
 	n := s.Horizon
 	if n == 0 {
 		n = defaultHorizon(lp, s.Step.Band)
@@ -190,6 +197,19 @@ func (a *analyzer) analyze(c, p tf.Rational, s LoopSettings) (Loop, error) {
 		return Loop{}, err
 	}
 	return lp, nil
+}
+
+// unstableFigures marks the frequency figures of an unstable loop: the
+// peaks +Inf (as Tuning.Ms), the margins and their frequencies NaN with
+// HasGainMargin and HasPhaseMargin false. Read from the open loop alone,
+// they would be finite numbers that describe no stable loop (a margin
+// measures the distance to instability).
+func unstableFigures(lp *Loop, interval float64) {
+	nan := math.NaN()
+	lp.Margins = tf.LoopMargins{GainMargin: nan, PhaseCrossover: nan, PhaseMargin: nan, GainCrossover: nan}
+	lp.DelayMargin = spanOf(nan, interval)
+	lp.SensitivityPeak, lp.ComplementaryPeak = math.Inf(1), math.Inf(1)
+	lp.SensitivityPeakAt, lp.ComplementaryPeakAt = nan, nan
 }
 
 // spanOf returns v samples as a tf.Span: Time is v times the interval,

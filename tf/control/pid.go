@@ -45,7 +45,8 @@ const (
 	// transform; it keeps the frequency response closest to the
 	// continuous one below the Nyquist frequency, but a derivative filter
 	// whose time constant is below T/2 gives a pole on the negative real
-	// axis (a controller output that alternates in sign each sample).
+	// axis (a controller output that alternates in sign each sample);
+	// Tune notes such a pole beyond RingingPole in Tuning.Notes.
 	Tustin Method = "Tustin"
 )
 

@@ -24,7 +24,9 @@ var DefaultLevels = []float64{0.05, 0.5, 0.95}
 // RobustSettings chooses the draws of Robust. The zero value is the
 // default.
 type RobustSettings struct {
-	// Draws is the number of plants drawn; 0 means 1000. At most 10^6.
+	// Draws is the number of plants drawn; 0 means 1000. At most 10^6,
+	// and Draws times the horizon (Loop.Horizon, 200 when 0) at most
+	// MaxBandSamples.
 	Draws int
 	// Seed seeds the random source rand.New(rand.NewPCG(Seed, 0)) passed
 	// to the Draw function.
@@ -37,6 +39,17 @@ type RobustSettings struct {
 	Loop LoopSettings
 }
 
+// MaxBandSamples is the largest Draws times horizon that Robust
+// accepts. The bands are exact quantiles over the stable loops at each
+// sample, so Robust keeps three responses (set-point output and control,
+// load output) of every stable loop: 3 x 8 bytes per draw and sample,
+// 240 MB at this bound. A larger product (10^6 draws of the default 200
+// samples, or 1000 draws of 10^7 samples) would exhaust memory, which
+// ends the process with a fatal error no caller can recover from, so it
+// is refused up front: fewer draws (1000 to 10^4 give quantiles at 5 %
+// and 95 % to a few per cent) or a shorter horizon.
+const MaxBandSamples = 10_000_000
+
 // Validate checks the settings and returns a *SettingError naming the
 // field, or nil.
 func (s RobustSettings) Validate() error { return s.validate("control.RobustSettings.Validate") }
@@ -45,12 +58,32 @@ func (s RobustSettings) validate(op string) error {
 	if s.Draws < 0 || s.Draws > 1e6 {
 		return &SettingError{Op: op, Setting: "RobustSettings.Draws", Value: strconv.Itoa(s.Draws), Rule: "must lie in 0..10^6 (0 means 1000)"}
 	}
+	if err := s.Loop.validate(op); err != nil {
+		return err
+	}
+	if n, h := s.sizes(); n*h > MaxBandSamples {
+		return &SettingError{Op: op, Setting: "RobustSettings.Draws and RobustSettings.Loop.Horizon", Value: strconv.Itoa(n) + " x " + strconv.Itoa(h) + " samples",
+			Rule: "their product must be at most MaxBandSamples = 10^7 (the bands keep three responses of every stable draw: 3 x 8 bytes per draw and sample); use fewer draws or a shorter horizon"}
+	}
 	for i, v := range s.Levels {
 		if !(v > 0 && v < 1) {
 			return fsetting(op, "RobustSettings.Levels["+strconv.Itoa(i)+"]", v, "a quantile level must lie strictly between 0 and 1")
 		}
 	}
-	return s.Loop.validate(op)
+	return nil
+}
+
+// sizes returns the number of draws and the horizon with the defaults
+// applied (1000 draws, 200 samples).
+func (s RobustSettings) sizes() (draws, horizon int) {
+	draws, horizon = s.Draws, s.Loop.Horizon
+	if draws == 0 {
+		draws = 1000
+	}
+	if horizon == 0 {
+		horizon = 200
+	}
+	return draws, horizon
 }
 
 // Spread holds quantiles of one figure over the stable drawn loops:
@@ -99,7 +132,8 @@ type Robustness struct {
 // the result is deterministic) and returns the fraction of stable loops,
 // the quantiles of each figure and bands of the step responses over the
 // stable loops. It runs on the caller's goroutine; ctx is checked every
-// 64 draws.
+// 64 draws. Its memory grows with Draws times the horizon (see
+// MaxBandSamples, the bound it enforces).
 //
 // Errors (Op "control.Robust"): a *SettingError for bad settings, a nil
 // draw or ctx, or a draw function that panicked (naming the draw number: the
@@ -118,14 +152,9 @@ func Robust(ctx context.Context, c tf.Rational, draw Draw, s RobustSettings) (ou
 	if ctx == nil {
 		return Robustness{}, &SettingError{Op: op, Setting: "ctx", Value: "nil", Rule: "pass a context (context.Background() when nothing cancels the draws)"}
 	}
-	n := s.Draws
-	if n == 0 {
-		n = 1000
-	}
+	n, h := s.sizes()
 	ls := s.Loop
-	if ls.Horizon == 0 {
-		ls.Horizon = 200
-	}
+	ls.Horizon = h
 	levels := s.Levels
 	if levels == nil {
 		levels = DefaultLevels
@@ -146,6 +175,9 @@ func Robust(ctx context.Context, c tf.Rational, draw Draw, s RobustSettings) (ou
 		if err == nil {
 			var lp Loop
 			if lp, err = a.analyze(c, p, ls); err == nil && lp.Stable {
+				// Keep only what the result reads: the load's control
+				// output is not banded.
+				lp.Load.Control, lp.Poles = nil, nil
 				loops = append(loops, lp)
 			}
 		}

@@ -191,3 +191,33 @@ func BenchmarkRobust(b *testing.B) {
 		}
 	}
 }
+
+// TestRobustMemoryBound checks that settings whose bands would not fit
+// in memory are refused up front with a *SettingError naming both
+// settings and the bound (review finding: Draws 1000 x Horizon 10^7
+// ended the process with a fatal out-of-memory error), and that the
+// bound itself is accepted. The figures are 3 x 8 bytes per draw and
+// sample (three float64 responses kept per stable draw).
+func TestRobustMemoryBound(t *testing.T) {
+	for _, s := range []RobustSettings{
+		{Draws: 1000, Loop: LoopSettings{Horizon: 10_000_000}},
+		{Draws: 1_000_000},                    // the default horizon 200
+		{Loop: LoopSettings{Horizon: 10_001}}, // the default 1000 draws
+	} {
+		err := s.Validate()
+		var se *errs.SettingError
+		if !errors.As(err, &se) || !strings.Contains(se.Setting, "Draws") || !strings.Contains(se.Setting, "Horizon") || !strings.Contains(err.Error(), "10^7") {
+			t.Errorf("%+v: got %v, want a *SettingError naming Draws, Horizon and the bound", s, err)
+		}
+		ctl, _ := tf.Constant(1)
+		draw, _ := gainDraw(1, 0.5, 1)
+		if _, err := Robust(context.Background(), ctl, draw, s); !errors.As(err, &se) {
+			t.Errorf("Robust %+v: got %v, want the *SettingError", s, err)
+		}
+	}
+	for _, s := range []RobustSettings{{Draws: 50_000}, {Loop: LoopSettings{Horizon: 10_000}}, {Draws: 1, Loop: LoopSettings{Horizon: 10_000_000}}} {
+		if err := s.Validate(); err != nil {
+			t.Errorf("%+v at the bound: %v", s, err)
+		}
+	}
+}

@@ -3,6 +3,7 @@ package control
 import (
 	"fmt"
 	"math"
+	"math/cmplx"
 	"strconv"
 	"strings"
 
@@ -155,9 +156,12 @@ type Tuning struct {
 	Ms     float64
 	// Notes record what the caller should know about the settings: a
 	// default closed-loop time lengthened to keep Ms at most 2, a
-	// derivative asked for but not used, and "aggressive: Ms above 2"
-	// when the loop on the model has Ms > 2 (the usual range is 1.4 to
-	// 2, common practice). String prints them.
+	// derivative asked for but not used (IMC on an integrating plant,
+	// SIMC on a model with one lag), "aggressive: Ms above 2" when the
+	// loop on the model has Ms > 2 (the usual range is 1.4 to 2, common
+	// practice), a ringing controller (a pole with negative real part
+	// and magnitude above RingingPole), and a slow load recovery (see
+	// SlowLoadRecovery). String prints them.
 	Notes []string
 }
 
@@ -281,14 +285,117 @@ func Tune(p tf.Rational, iv tf.Interval, s TuneSettings) (t Tuning, err error) {
 		return Tuning{}, err
 	}
 	t.Interval = iv
+	tn.addNotes(&t)
+	if !t.Stable {
+		advice := "set a longer ClosedLoopTime or a MaxSensitivity, or choose another rule"
+		if rt := tn.ruleTime(); s.MaxSensitivity == 0 && tc > rt {
+			// A closed-loop time far beyond the rule's own leaves a
+			// controller so weak that its integrator's pole stays on the
+			// unit circle in floating point: a longer one cannot help.
+			advice = "the closed-loop time " + fmtG(tc) + " is longer than the rule's own " + fmtG(rt) + " and leaves the controller too weak to move the loop's poles inside the unit circle; set a shorter ClosedLoopTime (0 for the rule's default) or a MaxSensitivity"
+		}
+		return t, &ModelError{Op: op, Part: "loop on the model", Problem: "is unstable (largest closed-loop pole |z| = " + fmtG(tn.maxPole) + "): do not use these settings; " + advice}
+	}
+	return t, nil
+}
+
+// addNotes writes the tuner's notes and those on the result into t.
+func (tn *tuner) addNotes(t *Tuning) {
 	t.Notes = append(t.Notes, tn.notes...)
 	if t.Stable && t.Ms > AggressiveMs {
 		t.Notes = append(t.Notes, "aggressive: Ms above 2 (Ms = "+fmtG(t.Ms)+" on the model; 1.4 to 2 is the usual range): set a longer ClosedLoopTime or a MaxSensitivity")
 	}
-	if !t.Stable {
-		return t, &ModelError{Op: op, Part: "loop on the model", Problem: "is unstable (largest closed-loop pole |z| = " + fmtG(tn.maxPole) + "): do not use these settings; set a longer ClosedLoopTime or a MaxSensitivity, or choose another rule"}
+	if tn.s.Rule != Dahlin {
+		// Dahlin's controller poles (of E(B)) cancel in the loop on the
+		// model, whose response is the first-order T: not flagged.
+		if n := ringingNote(t.Controller); n != "" {
+			t.Notes = append(t.Notes, n)
+		}
 	}
-	return t, nil
+	if t.Stable {
+		if n := tn.loadNote(t.Controller, t.Interval); n != "" {
+			t.Notes = append(t.Notes, n)
+		}
+	}
+}
+
+// SlowLoadRecovery is the multiple of the set-point settling time
+// beyond which the loop's load recovery time (Response.Recover, on the
+// model with the default LoopSettings) draws a note in Tuning.Notes.
+// Rules that cancel a slow plant lag with the integral time (IMC with
+// Ti = Tau1) settle a set-point step in about the closed-loop time but
+// take about Tau1 to remove a load: on 0.001 B^2/(1 - 0.999 B) every
+// hour, IMC's PI settles the set point in tens of hours and recovers
+// from a load step in thousands. A factor of 10 flags that case and
+// not the ordinary ratio of two to four (common practice: load
+// recovery is slower than set-point settling by about Ti/tc); SIMC's
+// Ti = min(Tau1, 4 (tc + theta)) avoids it.
+const SlowLoadRecovery = 10
+
+// loadNote returns the note for a load recovery slower than
+// SlowLoadRecovery times the set-point settling, or "".
+func (tn *tuner) loadNote(c tf.Rational, iv tf.Interval) string {
+	lp, err := tn.an.analyze(c, tn.p, LoopSettings{Interval: iv})
+	if err != nil {
+		return ""
+	}
+	st, rc := lp.Setpoint.Figures.Settle.Samples, lp.Load.Recover.Samples
+	if !(st > 0) || !(rc > SlowLoadRecovery*st) {
+		return ""
+	}
+	unit := " samples"
+	if iv.Value != 0 {
+		st, rc, unit = st*iv.Value, rc*iv.Value, " "+iv.Unit
+	}
+	return "slow load recovery: a load step at the plant input takes " + fmtG(rc) + unit + " to recover against " + fmtG(st) + unit + " for the set point to settle (more than 10 times); a shorter integral time (SIMC) or a shorter closed-loop time rejects loads faster"
+}
+
+// RingingPole is the magnitude above which a controller pole with a
+// negative real part draws a note in Tuning.Notes. Such a pole is a mode
+// of the controller output that changes sign every sample (at z = -r it
+// is (-r)^t): above 0.5 it keeps half its size from one sample to the
+// next, so the valve or drive visibly chatters for several samples after
+// each step of the set point or load (at 0.9, some 20 samples to fall to
+// a tenth), common practice. Tustin's rule with a derivative filter time
+// below T/2 gives one (see Method). Only the PI and PID controllers of
+// SIMC and IMC are checked: the poles of a Dahlin controller's E(B)
+// cancel in the loop on the model, whose response is the first-order T.
+const RingingPole = 0.5
+
+// ringingNote returns the note for a controller pole with a negative
+// real part and magnitude above RingingPole, or "".
+func ringingNote(c tf.Rational) string {
+	den := c.Den()
+	if len(den) < 2 {
+		return ""
+	}
+	rs, err := poly.Roots(poly.Reciprocal(den))
+	if err != nil {
+		return ""
+	}
+	var worst complex128
+	for _, z := range rs {
+		if real(z) < 0 && cmplx.Abs(z) > RingingPole && cmplx.Abs(z) > cmplx.Abs(worst) {
+			worst = z
+		}
+	}
+	if worst == 0 {
+		return ""
+	}
+	const fix = "discretise by backward difference, or lengthen the derivative filter (a larger Filter)"
+	return "ringing controller: a pole at z = " + fmtZ(worst) + " (negative real part, |z| = " + fmtG(cmplx.Abs(worst)) + " above 0.5) makes the controller output alternate in sign from sample to sample after a step; " + fix
+}
+
+// fmtZ prints a pole to 3 significant digits.
+func fmtZ(z complex128) string {
+	if math.Abs(imag(z)) < 1e-9*cmplx.Abs(z) {
+		return strconv.FormatFloat(real(z), 'g', 3, 64)
+	}
+	sign := " + "
+	if imag(z) < 0 {
+		sign = " - "
+	}
+	return strconv.FormatFloat(real(z), 'g', 3, 64) + sign + strconv.FormatFloat(math.Abs(imag(z)), 'g', 3, 64) + "i"
 }
 
 // checkInterval refuses an interval with a negative or non-finite
@@ -367,6 +474,9 @@ func newTuner(p tf.Rational, T float64, s TuneSettings) (*tuner, error) {
 	}
 	if tn.model, err = HalfRule(rd, order); err != nil {
 		return nil, err
+	}
+	if order == 2 && tn.s.Rule == SIMC && tn.model.Tau2 == 0 {
+		tn.notes = append(tn.notes, "SIMC on a model with one lag gives a PI (Td = Tau2 = 0): the derivative asked for is not used")
 	}
 	return tn, nil
 }
@@ -594,6 +704,8 @@ func shortRational(r tf.Rational) string {
 		var b strings.Builder
 		for k, v := range c {
 			switch {
+			case k > 0 && v == 0:
+				continue // a zero term is left out, as in a model's spec
 			case k == 0:
 				b.WriteString(strconv.FormatFloat(v, 'g', 6, 64))
 				continue

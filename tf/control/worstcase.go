@@ -97,7 +97,9 @@ type WorstCase struct {
 //
 // Errors (Op "control.CheckWorstCase"): a *SettingError for bad
 // settings (DelayBelow above the model's dead time, or leaving an
-// algebraic loop, included), and the errors of Analyze wrapped in a
+// algebraic loop, and a DelayAbove whose longest case has a
+// characteristic polynomial beyond the root finder's degree 256,
+// checked before any case is run, included), and the errors of Analyze wrapped in a
 // *ModelError naming the case.
 func CheckWorstCase(c, p tf.Rational, s WorstCaseSettings) (out WorstCase, err error) {
 	const op = "control.CheckWorstCase"
@@ -116,6 +118,9 @@ func CheckWorstCase(c, p tf.Rational, s WorstCaseSettings) (out WorstCase, err e
 		if err != nil {
 			return WorstCase{}, &SettingError{Op: op, Setting: "WorstCaseSettings.DelayBelow", Value: strconv.Itoa(s.DelayBelow), Rule: "leaves the plant " + strconv.Itoa(p.Delay()-s.DelayBelow) + " samples of dead time, an algebraic loop with this controller (both act in the same sample); at most " + strconv.Itoa(max(s.DelayBelow-1, 0)) + " here: a sampled plant keeps at least the one sample of its hold"}
 		}
+	}
+	if err := checkLongestCase(op, c, p, s.DelayAbove); err != nil {
+		return WorstCase{}, err
 	}
 	steps := s.GainSteps
 	if steps == 0 {
@@ -185,4 +190,29 @@ func orInf(v float64, ok bool) float64 {
 		return math.Inf(1)
 	}
 	return v
+}
+
+// checkLongestCase refuses, before any case is run, a DelayAbove whose
+// longest plant gives a characteristic polynomial beyond the root
+// finder's degree (every case up to it would be analysed first).
+func checkLongestCase(op string, c, p tf.Rational, above int) error {
+	if above == 0 {
+		return nil
+	}
+	q, err := tf.NewRational(p.Num(), p.Den(), p.Delay()+above)
+	if err != nil {
+		return &SettingError{Op: op, Setting: "WorstCaseSettings.DelayAbove", Value: strconv.Itoa(above), Rule: "gives a plant the model cannot hold: " + err.Error()}
+	}
+	char, err := characteristic(c, q)
+	if err != nil || len(char)-1 <= poly.MaxDegree {
+		return nil // the cases report it
+	}
+	most := above - (len(char) - 1 - poly.MaxDegree)
+	rule := "the longest case's closed loop has a characteristic polynomial of degree " + strconv.Itoa(len(char)-1) + ", beyond the root finder's " + strconv.Itoa(poly.MaxDegree) + ": "
+	if base, err := characteristic(c, p); err == nil && len(base)-1 > poly.MaxDegree || most < 0 {
+		rule += "the model's loop is already too long in samples; resample slower"
+	} else {
+		rule += "at most " + strconv.Itoa(most) + " here, or resample slower"
+	}
+	return &SettingError{Op: op, Setting: "WorstCaseSettings.DelayAbove", Value: strconv.Itoa(above), Rule: rule}
 }

@@ -2,7 +2,9 @@ package online
 
 import (
 	"context"
+	"errors"
 	"fmt"
+	"math"
 	"runtime/debug"
 	"slices"
 	"strconv"
@@ -37,6 +39,17 @@ type RefitSettings struct {
 	// next is due Every samples later. Zero means Window/4 (at least 1),
 	// so that each refit sees three quarters of the samples of the last.
 	Every int
+	// MissingOutputs stores a NaN output as a missing sample: it stays
+	// in the window, in its place, and the refit function receives it as
+	// NaN. Set it only with a refit function that takes missing outputs:
+	// the batch fit by exact likelihood does (fit.Model with Settings.Method
+	// fit.ExactML, which carries the noise across the gap); the
+	// least-squares fit refuses a NaN output, so a function over it should
+	// switch to ExactML when its window holds one
+	// (slices.ContainsFunc(window[m.Output], math.IsNaN)). False (the
+	// default) refuses a NaN output in Add, and the window restarts after
+	// it (see Add).
+	MissingOutputs bool
 	// Report, when not nil, is called in the refit's goroutine after
 	// every refit with its outcome. It must not block for long (the next
 	// refit waits for it) and may be called while Add runs.
@@ -196,13 +209,36 @@ func (r *Refitter) Err() error {
 // window handed to it). After Close, or once the context is done, it
 // still stores samples but starts no refit.
 //
+// A NaN output is a missing sample: with RefitSettings.MissingOutputs
+// it is stored as NaN and handed to the refit function in its place.
+//
 // Errors (Op "online.Refitter.Add"), after which the sample is not
-// stored: a *SeriesError (ErrLength) for a wrong number of inputs, a
-// *SampleError for a NaN or infinite sample or one above MaxMagnitude
-// (which the batch fit refuses too: stored, it would fail every refit
-// whose window holds it).
+// stored: a *SeriesError (ErrLength) for a wrong number of inputs; a
+// *SampleError (errors.As) for a NaN output without MissingOutputs, a
+// NaN or infinite input, an infinite output, or a value above
+// MaxMagnitude. A refused value leaves a hole in the record: the
+// samples on its two sides are not adjacent, and a refit that took them
+// as adjacent would fit a jump that the plant never made. So after a
+// *SampleError the window restarts: the samples before the hole are
+// dropped from later refits, and the next refit is due once Window
+// samples have been added after it (RefitCounts and the reports show the
+// delay).
 func (r *Refitter) Add(x []float64, y float64) error {
-	if err := checkSample("online.Refitter.Add", "Refitter", r.series, r.output, r.added, x, y); err != nil {
+	cy := y
+	if r.set.MissingOutputs && math.IsNaN(y) {
+		cy = 0 // a missing output: stored as NaN
+	}
+	if err := checkSample("online.Refitter.Add", "Refitter", r.series, r.output, r.added, x, cy); err != nil {
+		var se *SampleError
+		if errors.As(err, &se) {
+			// The window restarts after the hole: it is full of samples
+			// added after it once Window more have been stored.
+			r.due = r.added + r.set.Window
+			if se.Series == r.output && math.IsNaN(y) {
+				return fmt.Errorf("%w; a missing output (set RefitSettings.MissingOutputs with a refit by exact likelihood to keep it in the window): the window restarts after it, the next refit is due in %d samples", err, r.set.Window)
+			}
+			return fmt.Errorf("%w; the window restarts after it (the samples on its two sides are not adjacent), the next refit is due in %d samples", err, r.set.Window)
+		}
 		return err
 	}
 	for i, v := range x {
