@@ -10,8 +10,9 @@ import (
 	"github.com/backshift/backshift/tf"
 )
 
-// Tests of the findings of a review of the package by a new user; each
-// fails on the code before its fix. The plants are those of the review.
+// Tuning cases at the edges of the rules (integrating and unstable
+// plants, lead longer than lag, long dead times, unreachable targets),
+// each of which went wrong once; the plants are hand-picked to show it.
 
 func rat(t *testing.T, num, den []float64, b int) tf.Rational {
 	t.Helper()
