@@ -17,7 +17,10 @@ import "strconv"
 // Model.Validate refuses (a factor power below 1, a negative power of B,
 // a degree above MaxDegree), and NewRational's errors (*CoefError for a
 // NaN or infinite value or a denominator whose constant term is zero;
-// *DelayError for a dead time outside 0..MaxDelay).
+// *DelayError for a dead time outside 0..MaxDelay). The effect of the
+// input on the output itself, the plant for control, is Model.Path,
+// which also multiplies by the input's differencing and divides by the
+// output's.
 func (in Input) Rational() (Rational, error) {
 	r, err := in.rational()
 	return r, composeErr("tf.Input.Rational", err)

@@ -36,9 +36,12 @@
 // Analyze closes a controller around a plant: closed-loop poles and
 // stability, gain, phase and delay margins, peaks of |S| and |T|,
 // set-point and load step responses with their figures and integrated
-// absolute errors. Robust repeats it over plants drawn from a seeded
-// random source (ModelDraw draws them from a parameter covariance);
-// WorstCase over a grid of gain and dead-time errors the user names.
+// absolute errors; for an unstable closed loop the frequency figures
+// are marked (Ms and Mt +Inf, margins NaN), not computed. Robust repeats
+// it over plants drawn from a seeded random source (ModelDraw draws them
+// from a parameter covariance), keeping Draws x Horizon samples of
+// three series, at most MaxBandSamples; WorstCase over a grid of gain
+// and dead-time errors the user names.
 //
 // # Concurrency and determinism
 //

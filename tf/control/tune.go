@@ -215,6 +215,7 @@ func methodName(m Method, pid bool) string {
 }
 
 // Tune returns controller settings for the plant path p of a model
+// (tf.Model.Path: the whole path to the output, differencing included)
 // sampled at the interval iv (the model's Interval; the zero Interval
 // reads times in samples), by the rule and targets of s. SIMC and IMC
 // work on the continuous reading of p (Read) reduced by HalfRule to the

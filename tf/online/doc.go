@@ -116,7 +116,12 @@
 // the window and the live model to a caller-supplied refit function in
 // a goroutine of its own; a model it returns replaces the live one
 // atomically. Errors (and panics) of the refit are reported, never
-// raised; Close cancels a refit in progress and waits for it.
+// raised; Close cancels a refit in progress and waits for it. A sample
+// the Refitter refuses (a NaN output, unless RefitSettings.MissingOutputs
+// is set) restarts its window, so that no refit joins the two sides of a
+// dropout as adjacent samples; with MissingOutputs a NaN output stays in
+// its place in the window, for a refit function that fits by exact
+// likelihood (fit.ExactML), which skips it exactly.
 //
 // A re-estimated model is an approximation of the plant fitted to
 // recent data: before it retunes a controller or moves an alarm,
