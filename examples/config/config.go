@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"math/cmplx"
 	"slices"
 	"strconv"
 	"strings"
@@ -135,8 +136,9 @@ const example = `{"site": "...", "models": [{"name": "...", "spec": "y = w0 B x 
 // the file is silently ignored or overridden); a value of the wrong type;
 // a missing or repeated model name; a missing spec, a spec that does not
 // parse (each spec error positioned in the file) or one without a sample
-// interval; and a validity record that is incomplete or disagrees with
-// its spec. A UTF-8 byte order mark at the start is skipped.
+// interval or with a noise model that tf/predict refuses (an MA zero or
+// AR root on or outside the unit circle, each named); and a validity
+// record that is incomplete or disagrees with its spec. A UTF-8 byte order mark at the start is skipped.
 func Load(file string, raw []byte) (*Config, error) {
 	raw = bytes.TrimPrefix(raw, bom)
 	pos := newPositions(file, raw)
@@ -362,7 +364,46 @@ func (l *loader) spec(v *jval, what string) *tf.Model {
 	if m.Interval.Value == 0 {
 		l.fail(v.offs[len(v.offs)-1], `%s has no sample interval; end its spec with "every 1 min" (or s, h, d)`, what)
 	}
+	l.noise(v, what, m)
 	return &m
+}
+
+// noise refuses a noise model that tf/predict (and so examples/monitor)
+// refuses: an MA with a zero on or outside the unit circle (not
+// invertible: the one-step errors would not forget their start-up
+// values) or an AR with a root there (not stationary). It names each such
+// root, and for an MA the fix: the root's reciprocal gives the same
+// autocorrelations (Box, Jenkins & Reinsel, Time Series Analysis, 4th
+// ed., sec. 6.4.1), so a factor (1 - z B) with |z| > 1 becomes (1 - B/z)
+// with the innovation SD times |z|.
+func (l *loader) noise(v *jval, what string, m tf.Model) {
+	if m.Noise == nil {
+		return
+	}
+	check := func(c []float64, part, why string) {
+		r, err := tf.NewRational([]float64{1}, c, 0)
+		if err != nil || r.Stable() {
+			return
+		}
+		var out []string
+		for _, z := range r.Poles() {
+			if cmplx.Abs(z) >= 1-1e-12 {
+				out = append(out, fmt.Sprintf("z = %s (|z| = %.4g)", rootText(z), cmplx.Abs(z)))
+			}
+		}
+		l.fail(v.start, "spec of %s: the noise %s has a root on or outside the unit circle, at %s: %s; examples/monitor and tf/predict refuse this model", what, part, strings.Join(out, ", "), why)
+	}
+	check(m.Noise.MA.Coeffs(), "MA", "the noise is not invertible, so the one-step prediction errors would not forget their start-up values; write each factor (1 - z B) with |z| > 1 as (1 - B/z), which has the same autocorrelations, and multiply the innovation SD by |z|")
+	check(m.Noise.AR.Coeffs(), "AR", "the noise is not stationary; write differencing as the output's D(B), as in \"(1 - B) y = ...\", instead")
+}
+
+// rootText writes a z-plane root: a real one as a number, a complex one
+// as a + bi.
+func rootText(z complex128) string {
+	if math.Abs(imag(z)) <= 1e-12*cmplx.Abs(z) {
+		return strconv.FormatFloat(real(z), 'g', 4, 64)
+	}
+	return fmt.Sprintf("%.4g%+.4gi", real(z), imag(z))
 }
 
 // validity checks the record of the data a model was fitted to.

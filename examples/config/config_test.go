@@ -12,6 +12,8 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf/predict"
 )
 
 func TestDemoRuns(t *testing.T) {
@@ -452,4 +454,36 @@ func TestManyProblems(t *testing.T) {
 		}
 	}
 	pointsAt(t, "first", []byte(b.String()), ps[:1], `"sepc"`)
+}
+
+// TestNoiseRefused checks that a spec whose noise tf/predict refuses is
+// reported by the loader, naming the model and the root (review finding
+// 8: "every spec valid" was printed for (1 + 1.5 B) a, which
+// examples/monitor then refused). The root of 1 + 1.5 B is at
+// z = -1.5 (z + 1.5 = 0, arithmetic), that of 1 - 1.0 B at z = 1; the
+// invertible 1 + 0.3 B loads. The predictor's refusal is checked beside it.
+func TestNoiseRefused(t *testing.T) {
+	cases := []struct{ noise, want string }{
+		{"(1 + 1.5 B) / (1 - 0.8 B) a", `model 1 ("kiln"): the noise MA has a root on or outside the unit circle, at z = -1.5 (|z| = 1.5)`},
+		{"1 / (1 - 1.0 B) a", `model 1 ("kiln"): the noise AR has a root on or outside the unit circle, at z = 1 (|z| = 1)`},
+		{"(1 + 0.3 B) / (1 - 0.8 B) a", ""},
+	}
+	for _, c := range cases {
+		spec := "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + " + c.noise + "; every 1 min"
+		raw := []byte(`{"site": "s", "models": [{"name": "kiln", "spec": "` + spec + `"}]}`)
+		_, err := Load("one.json", raw)
+		_, perr := predict.New(parse.MustModel(spec), 1, nil)
+		if c.want == "" {
+			if err != nil || perr != nil {
+				t.Errorf("%s: refused: %v / predictor: %v", c.noise, err, perr)
+			}
+			continue
+		}
+		if err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "examples/monitor and tf/predict refuse this model") {
+			t.Errorf("%s: got %v, want %q", c.noise, err, c.want)
+		}
+		if perr == nil {
+			t.Errorf("%s: tf/predict accepts what the loader refuses", c.noise)
+		}
+	}
 }
