@@ -409,7 +409,7 @@ func rootText(z complex128) string {
 // validity checks the record of the data a model was fitted to.
 func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	what := "the validity of " + of
-	ks := l.keys(v, what, "samples", "interval", "start", "ranges", "verdict", "failures", "forced", "cautions")
+	ks := l.keys(v, what, "samples", "interval", "start", "ranges", "verdict", "failures", "forced", "cautions", "sigma")
 	if m := ks["samples"]; m == nil {
 		l.missing(v, "samples", `%s has no "samples" (the number of samples of the record)`, what)
 	} else if l.want(m, what, jNumber, "a whole number of samples") {
@@ -446,6 +446,11 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	}
 	if m := ks["forced"]; m != nil {
 		l.want(m, what, jBool, "true or false")
+	}
+	if m := ks["sigma"]; m != nil && l.want(m, what, jNumber, "the noise SD to expect on clean data, a positive number in the output's units") {
+		if x, err := strconv.ParseFloat(string(m.val.num), 64); err != nil || !(x > 0) || math.IsInf(x, 0) {
+			l.fail(m.val.start, `"sigma" of %s is %s; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`, what, m.val.num)
+		}
 	}
 	if m := ks["cautions"]; m != nil && l.want(m, what, jArray, "an array of strings") {
 		for _, c := range m.val.elems {

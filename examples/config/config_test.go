@@ -279,7 +279,7 @@ func TestValidityProblems(t *testing.T) {
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "fine"}`, `"fine"`,
 			`"verdict" of the validity of model 1 ("m") is "fine"; it must be "passed" or "failed"`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdcit": "failed"}`, `"verdcit"`,
-			`unknown key "verdcit" in the validity of model 1 ("m") (known: samples, interval, start, ranges, verdict, failures, forced, cautions); did you mean "verdict"?`},
+			`unknown key "verdcit" in the validity of model 1 ("m") (known: samples, interval, start, ranges, verdict, failures, forced, cautions, sigma); did you mean "verdict"?`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "cautions": [3]}`, `3]`,
 			`"cautions" of the validity of model 1 ("m") holds a number; each caution is a string`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}}`, `{"samples"`, `the validity of model 1 ("m") has no "verdict"; it is "passed" or "failed"`},
@@ -303,6 +303,12 @@ func TestValidityProblems(t *testing.T) {
 			`the validity of model 1 ("m") says "passed" but lists failures; the record contradicts itself: identify the model again`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "failed", "forced": "yes"}`, `"yes"`,
 			`"forced" of the validity of model 1 ("m") holds a string; it must be true or false`},
+		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "sigma": -0.03}`, `-0.03`,
+			`"sigma" of the validity of model 1 ("m") is -0.03; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`},
+		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "sigma": 0}`, `0}`,
+			`"sigma" of the validity of model 1 ("m") is 0; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`},
+		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "sigma": "0.03"}`, `"0.03"`,
+			`"sigma" of the validity of model 1 ("m") holds a string; it must be the noise SD to expect on clean data, a positive number in the output's units`},
 		{`"passed"`, `"passed"`,
 			`"validity" of model 1 ("m") holds a string; it must be an object as examples/identify -save writes it: {"samples": ..., "ranges": {...}, "verdict": "passed"}`},
 	} {
@@ -321,7 +327,7 @@ func TestValidityProblems(t *testing.T) {
 // without one loads with a nil record.
 func TestValidityRoundTrip(t *testing.T) {
 	v := modelinfo.Validity{Samples: 1440, Interval: "1 min", Ranges: map[string][2]float64{"temp": {14.5, 22}, "valve": {0, 100}},
-		Verdict: modelinfo.VerdictFailed, Failures: []string{"the fit did not converge"}, Forced: true}
+		Verdict: modelinfo.VerdictFailed, Failures: []string{"the fit did not converge"}, Forced: true, Sigma: 0.03034}
 	b, err := json.Marshal(v)
 	if err != nil {
 		t.Fatal(err)
@@ -331,7 +337,7 @@ func TestValidityRoundTrip(t *testing.T) {
 		t.Fatal(err)
 	}
 	got := c.Models[0].Validity
-	if got == nil || got.Samples != v.Samples || got.Verdict != v.Verdict || !got.Forced || len(got.Failures) != 1 || got.Ranges["valve"] != v.Ranges["valve"] {
+	if got == nil || got.Samples != v.Samples || got.Verdict != v.Verdict || !got.Forced || len(got.Failures) != 1 || got.Ranges["valve"] != v.Ranges["valve"] || got.Sigma != v.Sigma {
 		t.Errorf("loaded %+v, saved %+v", got, v)
 	}
 	for _, raw := range []string{
