@@ -447,11 +447,7 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	if m := ks["forced"]; m != nil {
 		l.want(m, what, jBool, "true or false")
 	}
-	if m := ks["sigma"]; m != nil && l.want(m, what, jNumber, "the noise SD to expect on clean data, a positive number in the output's units") {
-		if x, err := strconv.ParseFloat(string(m.val.num), 64); err != nil || !(x > 0) || math.IsInf(x, 0) {
-			l.fail(m.val.start, `"sigma" of %s is %s; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`, what, m.val.num)
-		}
-	}
+	l.sigma(ks["sigma"], what)
 	if m := ks["cautions"]; m != nil && l.want(m, what, jArray, "an array of strings") {
 		for _, c := range m.val.elems {
 			if c.kind != jString {
@@ -466,6 +462,17 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	}
 	if l.want(m, what, jObject, `an object of [smallest, largest] pairs by series, as in {"temp": [14.7, 22.3]}`) {
 		l.ranges(m.val, of, model)
+	}
+}
+
+// sigma checks the "sigma" of a validity record (m nil when absent): the
+// noise SD to expect on clean data, a positive finite number.
+func (l *loader) sigma(m *jmember, what string) {
+	if m == nil || !l.want(m, what, jNumber, "the noise SD to expect on clean data, a positive number in the output's units") {
+		return
+	}
+	if x, err := strconv.ParseFloat(string(m.val.num), 64); err != nil || !(x > 0) || math.IsInf(x, 0) {
+		l.fail(m.val.start, `"sigma" of %s is %s; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`, what, m.val.num)
 	}
 }
 
