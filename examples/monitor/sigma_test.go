@@ -5,8 +5,10 @@ import (
 	"net/http/httptest"
 	"net/url"
 	"os"
+	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/tf/monitor"
@@ -99,5 +101,46 @@ func TestSavedSigmaNoFalseAlarms(t *testing.T) {
 	t.Logf("noise SD %.5g from the notes: %d variance-down alarms", sigma, down)
 	if down <= 3 {
 		t.Errorf("the notes' inflated SD %v gave only %d variance-down alarms: the test would not catch the fault", sigma, down)
+	}
+}
+
+// TestSigmaSource checks where a loop's noise SD comes from, as build
+// prints it: the validity's "sigma"; -sigma over it; and, for a file
+// without "sigma", the notes' residual SD with a line saying so.
+func TestSigmaSource(t *testing.T) {
+	raw, err := os.ReadFile(identifiedFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	i := bytes.Index(raw, []byte(`,
+        "sigma"`))
+	j := bytes.IndexByte(raw[i+2:], '\n')
+	dir := t.TempDir()
+	old := filepath.Join(dir, "old.json")
+	if err := os.WriteFile(old, append(append([]byte{}, raw[:i]...), raw[i+2+j:]...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		file   string
+		sigmas map[string]float64
+		want   string
+		note   bool
+	}{
+		{identifiedFile, nil, "noise SD 0.03033874137811231;", false},
+		{identifiedFile, map[string]float64{"temp (identified)": 0.05}, "noise SD 0.05;", false},
+		{old, nil, "noise SD 0.0356;", true},
+		{old, map[string]float64{"temp (identified)": 0.05}, "noise SD 0.05;", false},
+	} {
+		o := &options{config: c.file, sigmas: c.sigmas, from: map[string]streamStart{}, now: time.Now(), arl: monitor.DefaultTargetARL}
+		var out bytes.Buffer
+		svc, err := build(o, &out)
+		if err != nil {
+			t.Fatalf("%s %v: %v", c.file, c.sigmas, err)
+		}
+		svc.close()
+		s := out.String()
+		if !strings.Contains(s, c.want) || strings.Contains(s, `noise SD from the notes' "residual SD"`) != c.note {
+			t.Errorf("%s %v: want %q, note %v:\n%s", c.file, c.sigmas, c.want, c.note, s)
+		}
 	}
 }
