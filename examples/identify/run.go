@@ -473,7 +473,10 @@ func noiseSD(est *fit.Estimate, res *Outliers) (float64, string) {
 		return res.Report.Sigma, fmt.Sprintf("noise SD %.4g: the robust residual scale of the outlier search, not the residual SD %.4g, which the %d %s found %s",
 			res.Report.Sigma, sd, n, plural(n, "outlier", "outliers"), plural(n, "inflates", "inflate"))
 	}
-	return sd, fmt.Sprintf("noise SD %.4g: the residual SD", sd)
+	if res == nil {
+		return sd, fmt.Sprintf("noise SD %.4g: the residual SD (no outlier search, -outliers off: an outlier in the record would inflate it)", sd)
+	}
+	return sd, fmt.Sprintf("noise SD %.4g: the residual SD (no outliers found)", sd)
 }
 
 // checkSavePath reports a -save file whose folder does not exist or is

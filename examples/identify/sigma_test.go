@@ -18,7 +18,8 @@ import (
 // 0.032, about 3 standard errors sqrt(1/(2 n)) = 0.9 % of a scale
 // estimate from 5700 residuals, common practice) where the residual SD
 // is inflated above 0.035; under -outliers refit the refit's residual
-// SD; on the clean record the residual SD itself.
+// SD; on the clean record, or without the search, the residual SD
+// itself.
 func TestSaveSigma(t *testing.T) {
 	dir := t.TempDir()
 	o := DefaultOptions()
@@ -56,7 +57,21 @@ func TestSaveSigma(t *testing.T) {
 	if len(res.Outliers.Found) != 0 || v.Sigma != math.Sqrt(res.Estimate.Sigma2) {
 		t.Errorf("clean record: %d outliers, saved sigma %v, residual SD %v", len(res.Outliers.Found), v.Sigma, math.Sqrt(res.Estimate.Sigma2))
 	}
-	if n := savedNotes(t, o.Save); !strings.Contains(n, ": the residual SD") {
+	if n := savedNotes(t, o.Save); !strings.Contains(n, ": the residual SD (no outliers found)") {
 		t.Errorf("clean record notes %q", n)
+	}
+
+	// Without the search the residual SD is all there is, and the notes
+	// say that an outlier would inflate it.
+	o.Outliers, o.cleanDemo, o.Save = outliersOff, false, filepath.Join(dir, "off.json")
+	res, _, err = run(t, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v = savedValidity(t, o.Save); v.Sigma != math.Sqrt(res.Estimate.Sigma2) {
+		t.Errorf("-outliers off: saved sigma %v, residual SD %v", v.Sigma, math.Sqrt(res.Estimate.Sigma2))
+	}
+	if n := savedNotes(t, o.Save); !strings.Contains(n, "no outlier search, -outliers off") {
+		t.Errorf("-outliers off notes %q", n)
 	}
 }
