@@ -373,8 +373,8 @@ func (l *loader) spec(v *jval, what string) *tf.Model {
 // invertible: the one-step errors would not forget their start-up
 // values) or an AR with a root there (not stationary). It names each such
 // root, and for an MA the fix: the root's reciprocal gives the same
-// autocorrelations (Box, Jenkins & Reinsel, Time Series Analysis, 4th
-// ed., sec. 6.4.1), so a factor (1 - z B) with |z| > 1 becomes (1 - B/z)
+// autocorrelations (Box, Jenkins & Reinsel, Time Series Analysis, the
+// invertibility of MA models; from memory), so a factor (1 - z B) with |z| > 1 becomes (1 - B/z)
 // with the innovation SD times |z|.
 func (l *loader) noise(v *jval, what string, m tf.Model) {
 	if m.Noise == nil {

@@ -24,7 +24,8 @@ import (
 // integral recovers it over Ti: the faster tuning then looks the
 // slower). The back-calculation term pulls the integral towards the
 // value that would put the output at the limit, with time constant Tt
-// (rule: Åström & Hägglund, Advanced PID Control, 2006, sec. 3.5).
+// (rule: Åström & Hägglund, Advanced PID Control, 2006, the section on
+// integrator windup; from memory).
 // With Tt = Ti the integral of a long spell at a limit settles where,
 // with the sample's increment, it equals the limit (I_t + Kc Ts/Ti e_t =
 // Max: the fixed point of the update with e constant), so it does not

@@ -88,9 +88,8 @@ func TestModelWarnsRedundant(t *testing.T) {
 // samples (arithmetic), with a longer record as the remedy; d1 = -0.997
 // (the fit of review finding 7) is a mode that changes sign every sample,
 // which no sampled lag has (a zero-order hold maps a real pole -1/T to
-// e^(-Ts/T) > 0: Franklin, Powell & Workman, Digital Control of Dynamic
-// Systems, 3rd ed., sec. 4.3), so the message must not call it a time
-// constant to be cured by a longer record.
+// z = e^(-Ts/T) > 0, z = e^(sTs): common practice), so the message must
+// not call it a time constant to be cured by a longer record.
 func TestSlowPoleWording(t *testing.T) {
 	m := fixture.PlantModel()
 	setDen := func(v float64) {
