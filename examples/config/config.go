@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"math/cmplx"
 	"slices"
 	"strconv"
 	"strings"
@@ -135,8 +136,9 @@ const example = `{"site": "...", "models": [{"name": "...", "spec": "y = w0 B x 
 // the file is silently ignored or overridden); a value of the wrong type;
 // a missing or repeated model name; a missing spec, a spec that does not
 // parse (each spec error positioned in the file) or one without a sample
-// interval; and a validity record that is incomplete or disagrees with
-// its spec. A UTF-8 byte order mark at the start is skipped.
+// interval or with a noise model that tf/predict refuses (an MA zero or
+// AR root on or outside the unit circle, each named); and a validity
+// record that is incomplete or disagrees with its spec. A UTF-8 byte order mark at the start is skipped.
 func Load(file string, raw []byte) (*Config, error) {
 	raw = bytes.TrimPrefix(raw, bom)
 	pos := newPositions(file, raw)
@@ -362,13 +364,52 @@ func (l *loader) spec(v *jval, what string) *tf.Model {
 	if m.Interval.Value == 0 {
 		l.fail(v.offs[len(v.offs)-1], `%s has no sample interval; end its spec with "every 1 min" (or s, h, d)`, what)
 	}
+	l.noise(v, what, m)
 	return &m
+}
+
+// noise refuses a noise model that tf/predict (and so examples/monitor)
+// refuses: an MA with a zero on or outside the unit circle (not
+// invertible: the one-step errors would not forget their start-up
+// values) or an AR with a root there (not stationary). It names each such
+// root, and for an MA the fix: the root's reciprocal gives the same
+// autocorrelations (Box, Jenkins & Reinsel, Time Series Analysis, the
+// invertibility of MA models; from memory), so a factor (1 - z B) with |z| > 1 becomes (1 - B/z)
+// with the innovation SD times |z|.
+func (l *loader) noise(v *jval, what string, m tf.Model) {
+	if m.Noise == nil {
+		return
+	}
+	check := func(c []float64, part, why string) {
+		r, err := tf.NewRational([]float64{1}, c, 0)
+		if err != nil || r.Stable() {
+			return
+		}
+		var out []string
+		for _, z := range r.Poles() {
+			if cmplx.Abs(z) >= 1-1e-12 {
+				out = append(out, fmt.Sprintf("z = %s (|z| = %.4g)", rootText(z), cmplx.Abs(z)))
+			}
+		}
+		l.fail(v.start, "spec of %s: the noise %s has a root on or outside the unit circle, at %s: %s; examples/monitor and tf/predict refuse this model", what, part, strings.Join(out, ", "), why)
+	}
+	check(m.Noise.MA.Coeffs(), "MA", "the noise is not invertible, so the one-step prediction errors would not forget their start-up values; write each factor (1 - z B) with |z| > 1 as (1 - B/z), which has the same autocorrelations, and multiply the innovation SD by |z|")
+	check(m.Noise.AR.Coeffs(), "AR", "the noise is not stationary; write differencing as the output's D(B), as in \"(1 - B) y = ...\", instead")
+}
+
+// rootText writes a z-plane root: a real one as a number, a complex one
+// as a + bi.
+func rootText(z complex128) string {
+	if math.Abs(imag(z)) <= 1e-12*cmplx.Abs(z) {
+		return strconv.FormatFloat(real(z), 'g', 4, 64)
+	}
+	return fmt.Sprintf("%.4g%+.4gi", real(z), imag(z))
 }
 
 // validity checks the record of the data a model was fitted to.
 func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	what := "the validity of " + of
-	ks := l.keys(v, what, "samples", "interval", "start", "ranges", "verdict", "failures", "forced", "cautions")
+	ks := l.keys(v, what, "samples", "interval", "start", "ranges", "verdict", "failures", "forced", "cautions", "sigma")
 	if m := ks["samples"]; m == nil {
 		l.missing(v, "samples", `%s has no "samples" (the number of samples of the record)`, what)
 	} else if l.want(m, what, jNumber, "a whole number of samples") {
@@ -406,6 +447,7 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	if m := ks["forced"]; m != nil {
 		l.want(m, what, jBool, "true or false")
 	}
+	l.sigma(ks["sigma"], what)
 	if m := ks["cautions"]; m != nil && l.want(m, what, jArray, "an array of strings") {
 		for _, c := range m.val.elems {
 			if c.kind != jString {
@@ -420,6 +462,17 @@ func (l *loader) validity(v *jval, of string, model *tf.Model) {
 	}
 	if l.want(m, what, jObject, `an object of [smallest, largest] pairs by series, as in {"temp": [14.7, 22.3]}`) {
 		l.ranges(m.val, of, model)
+	}
+}
+
+// sigma checks the "sigma" of a validity record (m nil when absent): the
+// noise SD to expect on clean data, a positive finite number.
+func (l *loader) sigma(m *jmember, what string) {
+	if m == nil || !l.want(m, what, jNumber, "the noise SD to expect on clean data, a positive number in the output's units") {
+		return
+	}
+	if x, err := strconv.ParseFloat(string(m.val.num), 64); err != nil || !(x > 0) || math.IsInf(x, 0) {
+		l.fail(m.val.start, `"sigma" of %s is %s; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`, what, m.val.num)
 	}
 }
 

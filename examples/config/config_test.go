@@ -12,6 +12,8 @@ import (
 
 	"github.com/backshift/backshift/examples/greenhouse"
 	"github.com/backshift/backshift/examples/internal/modelinfo"
+	"github.com/backshift/backshift/parse"
+	"github.com/backshift/backshift/tf/predict"
 )
 
 func TestDemoRuns(t *testing.T) {
@@ -277,7 +279,7 @@ func TestValidityProblems(t *testing.T) {
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "fine"}`, `"fine"`,
 			`"verdict" of the validity of model 1 ("m") is "fine"; it must be "passed" or "failed"`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdcit": "failed"}`, `"verdcit"`,
-			`unknown key "verdcit" in the validity of model 1 ("m") (known: samples, interval, start, ranges, verdict, failures, forced, cautions); did you mean "verdict"?`},
+			`unknown key "verdcit" in the validity of model 1 ("m") (known: samples, interval, start, ranges, verdict, failures, forced, cautions, sigma); did you mean "verdict"?`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "cautions": [3]}`, `3]`,
 			`"cautions" of the validity of model 1 ("m") holds a number; each caution is a string`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}}`, `{"samples"`, `the validity of model 1 ("m") has no "verdict"; it is "passed" or "failed"`},
@@ -301,6 +303,12 @@ func TestValidityProblems(t *testing.T) {
 			`the validity of model 1 ("m") says "passed" but lists failures; the record contradicts itself: identify the model again`},
 		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "failed", "forced": "yes"}`, `"yes"`,
 			`"forced" of the validity of model 1 ("m") holds a string; it must be true or false`},
+		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "sigma": -0.03}`, `-0.03`,
+			`"sigma" of the validity of model 1 ("m") is -0.03; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`},
+		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "sigma": 0}`, `0}`,
+			`"sigma" of the validity of model 1 ("m") is 0; it is the standard deviation of the model's one-step prediction errors on clean data, a positive finite number in the output's units (drop the key if it is not known: examples/monitor then wants -sigma)`},
+		{`{"samples": 100, "ranges": {"temp": [1, 2]}, "verdict": "passed", "sigma": "0.03"}`, `"0.03"`,
+			`"sigma" of the validity of model 1 ("m") holds a string; it must be the noise SD to expect on clean data, a positive number in the output's units`},
 		{`"passed"`, `"passed"`,
 			`"validity" of model 1 ("m") holds a string; it must be an object as examples/identify -save writes it: {"samples": ..., "ranges": {...}, "verdict": "passed"}`},
 	} {
@@ -319,7 +327,7 @@ func TestValidityProblems(t *testing.T) {
 // without one loads with a nil record.
 func TestValidityRoundTrip(t *testing.T) {
 	v := modelinfo.Validity{Samples: 1440, Interval: "1 min", Ranges: map[string][2]float64{"temp": {14.5, 22}, "valve": {0, 100}},
-		Verdict: modelinfo.VerdictFailed, Failures: []string{"the fit did not converge"}, Forced: true}
+		Verdict: modelinfo.VerdictFailed, Failures: []string{"the fit did not converge"}, Forced: true, Sigma: 0.03034}
 	b, err := json.Marshal(v)
 	if err != nil {
 		t.Fatal(err)
@@ -329,7 +337,7 @@ func TestValidityRoundTrip(t *testing.T) {
 		t.Fatal(err)
 	}
 	got := c.Models[0].Validity
-	if got == nil || got.Samples != v.Samples || got.Verdict != v.Verdict || !got.Forced || len(got.Failures) != 1 || got.Ranges["valve"] != v.Ranges["valve"] {
+	if got == nil || got.Samples != v.Samples || got.Verdict != v.Verdict || !got.Forced || len(got.Failures) != 1 || got.Ranges["valve"] != v.Ranges["valve"] || got.Sigma != v.Sigma {
 		t.Errorf("loaded %+v, saved %+v", got, v)
 	}
 	for _, raw := range []string{
@@ -452,4 +460,36 @@ func TestManyProblems(t *testing.T) {
 		}
 	}
 	pointsAt(t, "first", []byte(b.String()), ps[:1], `"sepc"`)
+}
+
+// TestNoiseRefused checks that a spec whose noise tf/predict refuses is
+// reported by the loader, naming the model and the root (review finding
+// 8: "every spec valid" was printed for (1 + 1.5 B) a, which
+// examples/monitor then refused). The root of 1 + 1.5 B is at
+// z = -1.5 (z + 1.5 = 0, arithmetic), that of 1 - 1.0 B at z = 1; the
+// invertible 1 + 0.3 B loads. The predictor's refusal is checked beside it.
+func TestNoiseRefused(t *testing.T) {
+	cases := []struct{ noise, want string }{
+		{"(1 + 1.5 B) / (1 - 0.8 B) a", `model 1 ("kiln"): the noise MA has a root on or outside the unit circle, at z = -1.5 (|z| = 1.5)`},
+		{"1 / (1 - 1.0 B) a", `model 1 ("kiln"): the noise AR has a root on or outside the unit circle, at z = 1 (|z| = 1)`},
+		{"(1 + 0.3 B) / (1 - 0.8 B) a", ""},
+	}
+	for _, c := range cases {
+		spec := "temp = 6 + 0.01 / (1 - 0.95 B) B^3 valve + " + c.noise + "; every 1 min"
+		raw := []byte(`{"site": "s", "models": [{"name": "kiln", "spec": "` + spec + `"}]}`)
+		_, err := Load("one.json", raw)
+		_, perr := predict.New(parse.MustModel(spec), 1, nil)
+		if c.want == "" {
+			if err != nil || perr != nil {
+				t.Errorf("%s: refused: %v / predictor: %v", c.noise, err, perr)
+			}
+			continue
+		}
+		if err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "examples/monitor and tf/predict refuse this model") {
+			t.Errorf("%s: got %v, want %q", c.noise, err, c.want)
+		}
+		if perr == nil {
+			t.Errorf("%s: tf/predict accepts what the loader refuses", c.noise)
+		}
+	}
 }

@@ -32,8 +32,9 @@
 //
 // The "validity" object is optional: examples/identify -save writes it
 // (modelinfo.Validity: the record's sample count and interval, the range
-// of each series, the verdict of the checks, the failures and whether
-// the save was forced). A model without one is printed with "its range
+// of each series, the verdict of the checks, the failures, whether the
+// save was forced, and "sigma", the noise SD to expect on clean data,
+// which examples/monitor takes: a positive number when present). A model without one is printed with "its range
 // of validity is unknown"; a series of the spec without a recorded range
 // is named, except an event input (step(T), pulse(T)), a 0/1 indicator
 // of a known intervention, which is shown as the event at its record

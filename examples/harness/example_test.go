@@ -2,7 +2,7 @@ package main
 
 import "fmt"
 
-// ExamplePI shows the velocity-form PI at work on a constant error of
+// ExamplePI shows the PI at work on a constant error of
 // 1 degC: the error does not change, so the proportional part adds
 // nothing and the integral part adds Kc*Ts/Ti*e = 0.4 % each minute.
 func ExamplePI() {

@@ -37,8 +37,14 @@
 // it unless -save-untrusted is given, in which case the saved record
 // says so. -save writes, beside the model, its "validity" record
 // (examples/internal/modelinfo.Validity): the sample count and interval,
-// the range of the output and of every input, the verdict, its reasons
-// and whether the save was forced. The folder of -save is checked before
+// the range of the output and of every input, the verdict, its reasons,
+// whether the save was forced, and "sigma", the noise SD that
+// examples/monitor should expect on clean data: the residual SD of the
+// fit, or, when outliers were found in the residuals, the robust
+// residual scale of the outlier search (the outliers inflate the
+// residual SD, and a monitor given it sees clean data as a fall in
+// variance), or under -outliers refit the refit's residual SD; the
+// notes say which. The folder of -save is checked before
 // any work is done. A refused save is said in one short line on standard
 // error (the reasons are in the report).
 //

@@ -431,7 +431,9 @@ func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []st
 		return &SaveError{Path: o.Save, Failures: failures}
 	}
 	out.Validity.Forced = !trusted
-	var extra []string
+	sd, sdNote := noiseSD(est, out.Outliers)
+	out.Validity.Sigma = sd
+	extra := []string{sdNote}
 	if r := out.Outliers; r != nil && est == r.Refit {
 		n := len(r.Found)
 		extra = append(extra, fmt.Sprintf("refitted with the %d %s found in the first fit's residuals as %s, by %s as the first fit",
@@ -451,6 +453,30 @@ func save(o Options, est *fit.Estimate, ds *dataset, out *Outcome, failures []st
 		fmt.Fprintf(stdout, "\nFitted model saved to %s MARKED AS UNTRUSTED (-save-untrusted): it fails its checks; do not use it for control work\n", o.Save)
 	}
 	return nil
+}
+
+// noiseSD returns the noise SD a monitor of the saved model should
+// expect on clean data (Validity.Sigma) and a note saying which it is:
+// the residual SD of est, or, when the outlier search of est's residuals
+// found outliers, its robust residual scale (arma.OutlierReport.Sigma,
+// which the outliers do not inflate, where they do inflate the residual
+// SD: one bad reading of 45 SDs in 5760 samples adds 45^2/5760 = 35 % to
+// the variance); under -outliers refit (est the refit, the outliers as
+// events) the refit's residual SD.
+func noiseSD(est *fit.Estimate, res *Outliers) (float64, string) {
+	sd := math.Sqrt(est.Sigma2)
+	switch {
+	case res != nil && est == res.Refit:
+		return sd, fmt.Sprintf("noise SD %.4g: the residual SD of the refit with the outliers as events", sd)
+	case res != nil && len(res.Found) > 0 && res.Report != nil && res.Report.Sigma > 0:
+		n := len(res.Found)
+		return res.Report.Sigma, fmt.Sprintf("noise SD %.4g: the robust residual scale of the outlier search, not the residual SD %.4g, which the %d %s found %s",
+			res.Report.Sigma, sd, n, plural(n, "outlier", "outliers"), plural(n, "inflates", "inflate"))
+	}
+	if res == nil {
+		return sd, fmt.Sprintf("noise SD %.4g: the residual SD (no outlier search, -outliers off: an outlier in the record would inflate it)", sd)
+	}
+	return sd, fmt.Sprintf("noise SD %.4g: the residual SD (no outliers found)", sd)
 }
 
 // checkSavePath reports a -save file whose folder does not exist or is

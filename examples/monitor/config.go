@@ -28,6 +28,9 @@ type loopSpec struct {
 	Name  string
 	Model tf.Model
 	Sigma float64
+	// SigmaNote is a line printed at start about where Sigma came from
+	// when it is the notes' fallback (empty otherwise).
+	SigmaNote string
 	// Live is the model the predictor runs: Model with its events placed
 	// on the live stream (entry.placeEvents), or the zero Model when it
 	// is Model itself. Events says where each event falls, one line each.
@@ -131,6 +134,16 @@ func (e entry) loop(sigmas map[string]float64) (loopSpec, error) {
 		}
 	}
 	sd, ok := sigmas[e.Name]
+	note := ""
+	if !ok && e.Validity != nil && e.Validity.Sigma != 0 {
+		sd, ok = e.Validity.Sigma, true
+	}
+	if !ok && e.Validity != nil {
+		// Saved by examples/identify before the validity record held the
+		// noise SD; a model written by hand (no validity record) states
+		// its residual SD in its notes on its author's word.
+		note = "noise SD from the notes' \"residual SD\": the model's validity record has no \"sigma\" (saved before examples/identify wrote it); that SD is inflated if the record had outliers, which shows as false \"variance down\" alarms: save the model again, or give -sigma"
+	}
 	if !ok {
 		mm := residualSD.FindStringSubmatch(e.Notes)
 		if mm == nil {
@@ -144,7 +157,7 @@ func (e entry) loop(sigmas map[string]float64) (loopSpec, error) {
 	if !(sd > 0) || math.IsInf(sd, 0) {
 		return loopSpec{}, fmt.Errorf("the noise standard deviation %g is not a positive finite number", sd)
 	}
-	return loopSpec{Name: e.Name, Model: m, Sigma: sd}, nil
+	return loopSpec{Name: e.Name, Model: m, Sigma: sd, SigmaNote: note}, nil
 }
 
 // free lists the names of m's free coefficients.

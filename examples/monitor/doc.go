@@ -14,11 +14,16 @@
 // The config is a model library in the format of examples/config (the
 // file examples/identify -save writes): each model is one loop, named by
 // the model's "name", its spec with every coefficient held. The noise
-// standard deviation of a loop (the fit's residual SD) is taken from the
-// notes identify -save writes ("residual SD 0.02966", four significant
-// digits: a relative rounding below 5e-5, far below the estimate's own
-// sampling error of about 1/sqrt(2 n), 1 % for n = 5760), or from
-// -sigma 'name=SD'. A model saved with a failed verdict is refused.
+// standard deviation of a loop is -sigma 'name=SD' when given, else the
+// "sigma" of the model's validity record (what identify -save writes as
+// the SD to expect on clean data: the robust residual scale when the fit
+// found outliers, which inflate the residual SD), else, for a file saved
+// before that field, the "residual SD" of its notes ("residual SD
+// 0.02966", four significant digits: a relative rounding below 5e-5, far
+// below the estimate's own sampling error of about 1/sqrt(2 n), 1 % for
+// n = 5760), with a line at start saying so, since that SD is inflated
+// when the record had outliers and then gives false "variance down"
+// alarms. A model saved with a failed verdict is refused.
 //
 // Each loop has a predictor (tf/predict) and a monitor (tf/monitor). The
 // monitor is given each one-step error divided by its standard error,

@@ -145,7 +145,7 @@ func parseFlags(args []string, stderr io.Writer) (*options, int, bool) {
 	fs.StringVar(&o.state, "state", "", "`folder` where each loop's state is written on shutdown")
 	fs.BoolVar(&o.restore, "restore", false, "carry on from the states in the -state folder at start")
 	fs.Float64Var(&o.arl, "arl", monitor.DefaultTargetARL, "in-control average run length of each test, in `samples` (the mean time between its false alarms)")
-	fs.Func("sigma", "noise standard deviation of a loop, `name=SD` (repeat for several loops; default: the \"residual SD\" in the model's notes, as examples/identify -save writes it)", func(v string) error {
+	fs.Func("sigma", "noise standard deviation of a loop, `name=SD` (repeat for several loops; default: the \"sigma\" of the model's validity record, as examples/identify -save writes it, or for an older file the \"residual SD\" in its notes)", func(v string) error {
 		name, sd, ok := strings.Cut(v, "=")
 		f, err := strconv.ParseFloat(strings.TrimSpace(sd), 64)
 		if !ok || name == "" || err != nil {
@@ -229,6 +229,9 @@ func build(o *options, stdout io.Writer) (*service, error) {
 	fmt.Fprintf(stdout, "%s\n\n", caution)
 	for _, l := range svc.loops {
 		fmt.Fprintf(stdout, "loop %q: %s (noise SD %g; inputs in the order %s)\n", l.spec.Name, l.spec.Model, l.spec.Sigma, quoted(l.inputs))
+		if l.spec.SigmaNote != "" {
+			fmt.Fprintf(stdout, "  %s\n", l.spec.SigmaNote)
+		}
 		for _, e := range l.spec.Events {
 			fmt.Fprintf(stdout, "  event %s\n", e)
 		}

@@ -74,7 +74,12 @@ const (
 	// residuals span fewer than 5 of its time constants -1/ln|z|, so
 	// the gain and the time constant are poorly determined (a
 	// first-order response reaches 99.3 % of its final value in 5 time
-	// constants; common practice).
+	// constants; common practice). The message says where the pole
+	// lies: a pole on the negative real axis is no slow lag but a mode
+	// that changes sign every sample (an oscillation at the Nyquist
+	// frequency, which no sampled lag has), and a complex pair an
+	// oscillation; for a negative real pole the message advises a lower
+	// order or another dead time, not a longer record.
 	SlowPole
 	// BadStandardError: a standard error is NaN, infinite or zero.
 	BadStandardError
@@ -273,21 +278,26 @@ func (ws *warningList) transient(e *Estimate, noise []float64) {
 }
 
 // slowPoles warns of an estimated input or noise AR pole too slow for the
-// record (fewer than slowSpans time constants in the residuals).
+// record (fewer than slowSpans time constants in the residuals). The
+// message names where the dominant pole lies: a positive real pole is a
+// lag; a negative real one a mode that changes sign every sample (an
+// oscillation at the Nyquist frequency, which no sampled lag makes); a
+// complex pair an oscillation of period 2 pi / |arg z| samples.
 func (ws *warningList) slowPoles(e *Estimate) {
 	add := ws.add
 	slow := func(coeffs []float64, names []string, what string) {
 		if len(names) == 0 {
 			return
 		}
-		z := maxZ(coeffs)
-		if !(z > 0 && z < 1) {
+		p, ok := dominantRoot(coeffs)
+		z := cmplx.Abs(p)
+		if !ok || !(z > 0 && z < 1) {
 			return
 		}
 		tau := -1 / math.Log(z)
 		if float64(e.N) < slowSpans*tau {
-			add(SlowPole, names, "%s has a pole with |z| = %.6g, time constant %.4g samples, and the %d residuals span only %.2g of them (fewer than 5): %s", what, z, tau, e.N, float64(e.N)/tau,
-				"its gain and time constant are poorly determined; use a longer record, or hold the pole at a known value")
+			spans := fmt.Sprintf("the %d residuals span only %.2g of them (fewer than 5)", e.N, float64(e.N)/tau)
+			add(SlowPole, names, "%s has %s", what, slowPoleText(p, tau, spans))
 		}
 	}
 	for _, in := range e.Model.Inputs {
@@ -295,6 +305,42 @@ func (ws *warningList) slowPoles(e *Estimate) {
 	}
 	if e.Model.Noise != nil {
 		slow(e.Model.Noise.AR.Coeffs(), polyNames(e.Model.Noise.AR), "the noise AR")
+	}
+}
+
+// dominantRoot returns the z-plane root of c of largest modulus (the
+// one with the positive imaginary part of a complex pair), and false if c
+// has none.
+func dominantRoot(c []float64) (complex128, bool) {
+	var best complex128
+	found := false
+	for _, z := range zRoots(c) {
+		if !found || cmplx.Abs(z) > cmplx.Abs(best)*(1+1e-12) || (cmplx.Abs(z) >= cmplx.Abs(best)*(1-1e-12) && imag(z) > imag(best)) {
+			best, found = z, true
+		}
+	}
+	return best, found
+}
+
+// slowPoleText words a SlowPole warning for the dominant pole p of
+// modulus e^(-1/tau): a lag for a positive real pole, an alternating
+// mode for a negative real one, an oscillation for a complex pair. A
+// root whose imaginary part is below 1e-9 |p| is taken as real (the
+// eigenvalue solver's rounding of a double root).
+func slowPoleText(p complex128, tau float64, spans string) string {
+	z := cmplx.Abs(p)
+	switch {
+	case math.Abs(imag(p)) <= 1e-9*z && real(p) > 0:
+		return fmt.Sprintf("a pole with |z| = %.6g, time constant %.4g samples, and %s: %s", real(p), tau, spans,
+			"its gain and time constant are poorly determined; use a longer record, or hold the pole at a known value")
+	case math.Abs(imag(p)) <= 1e-9*z:
+		return fmt.Sprintf("a pole on the negative real axis at z = %.6g: a mode that changes sign every sample (an oscillation at the Nyquist frequency, period 2 samples) whose envelope decays with time constant %.4g samples; %s. "+
+			"No sampled lag has such a pole (a zero-order hold of a real continuous-time pole lands on the positive real axis), so it is the fit's, not the plant's: usually a denominator of too high an order, a wrong dead time, or a path the data do not excite; "+
+			"a longer record does not cure it: try a lower denominator order or another dead time, and compare the candidates' residual checks", real(p), tau, spans)
+	default:
+		period := 2 * math.Pi / math.Abs(cmplx.Phase(p))
+		return fmt.Sprintf("a complex pole pair at z = %s (|z| = %.6g): an oscillation of period %.4g samples whose envelope decays with time constant %.4g samples, and %s: %s", formatComplex(p), z, period, tau, spans,
+			"its gain, damping and period are poorly determined; use a longer record, or check whether the plant really oscillates (if not, try a lower denominator order)")
 	}
 }
 

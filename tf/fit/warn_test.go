@@ -2,6 +2,7 @@ package fit
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/backshift/backshift/arma"
@@ -79,5 +80,52 @@ func TestModelWarnsRedundant(t *testing.T) {
 	}
 	if !hasWarning(est.Warnings, CancellingRoots) || !hasWarning(est.Warnings, HighCorrelation) {
 		t.Errorf("warnings %v (w0 %v w1 %v d1 %v)", est.Warnings, w0.Value, w1.Value, d1.Value)
+	}
+}
+
+// TestSlowPoleWording checks that the SlowPole warning names where the
+// pole lies: d1 = 0.997 is a lag of time constant -1/ln 0.997 = 332.8
+// samples (arithmetic), with a longer record as the remedy; d1 = -0.997
+// (the fit of review finding 7) is a mode that changes sign every sample,
+// which no sampled lag has (a zero-order hold maps a real pole -1/T to
+// z = e^(-Ts/T) > 0, z = e^(sTs): common practice), so the message must
+// not call it a time constant to be cured by a longer record.
+func TestSlowPoleWording(t *testing.T) {
+	m := fixture.PlantModel()
+	setDen := func(v float64) {
+		m.Inputs[0].Den.Each(func(c *tf.Coef) {
+			if c.Name != "" {
+				c.Value = v
+			}
+		})
+	}
+	e := &Estimate{Model: m, Converged: true, N: 500}
+	find := func() string {
+		var ws warningList
+		ws.slowPoles(e)
+		for _, w := range ws {
+			if w.Kind == SlowPole && len(w.Params) > 0 && w.Params[0] == "d1" {
+				return w.Message
+			}
+		}
+		return ""
+	}
+	setDen(0.997)
+	msg := find()
+	if !strings.Contains(msg, "time constant 332.8 samples") || !strings.Contains(msg, "use a longer record") {
+		t.Errorf("positive pole 0.997: %q", msg)
+	}
+	setDen(-0.997)
+	msg = find()
+	if msg == "" {
+		t.Fatal("no SlowPole warning for a pole at -0.997")
+	}
+	for _, want := range []string{"negative real axis at z = -0.997", "changes sign every sample", "Nyquist", "a longer record does not cure it", "lower denominator order"} {
+		if !strings.Contains(msg, want) {
+			t.Errorf("pole -0.997: missing %q in %q", want, msg)
+		}
+	}
+	if strings.Contains(msg, "use a longer record") || strings.Contains(msg, "time constant 332.8 samples,") {
+		t.Errorf("pole -0.997 worded as a slow lag: %q", msg)
 	}
 }

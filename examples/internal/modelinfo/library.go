@@ -38,7 +38,11 @@ type SpecForm interface {
 type Saved[S SpecForm] struct {
 	Name string `json:"name"`
 	// Notes say what the model was fitted to and how; examples/identify
-	// writes the fit's residual SD there ("residual SD 0.0356").
+	// writes the fit's residual SD there ("residual SD 0.0356") and which
+	// noise SD it saved as Validity.Sigma. A reader wanting the noise SD
+	// takes Validity.Sigma; the notes' residual SD is the fallback for
+	// files saved before that field, and is inflated when the record had
+	// outliers.
 	Notes string `json:"notes,omitempty"`
 	Spec  S      `json:"spec"`
 	// Validity is the record of the data the model was fitted to, as

@@ -38,6 +38,16 @@ type Validity struct {
 	// cover but the run found, such as outliers in the residuals that may
 	// bias the estimates (empty when there is nothing to add).
 	Cautions []string `json:"cautions,omitempty"`
+	// Sigma is the standard deviation of the model's innovations (its
+	// one-step prediction errors) to expect on clean data, in output
+	// units: the noise SD a monitor of the model should assume.
+	// examples/identify -save writes the fit's residual SD, or, when it
+	// found outliers in the residuals, the robust residual scale of the
+	// outlier search (which the outliers do not inflate), or under
+	// -outliers refit the refit's residual SD; its notes say which. 0
+	// (absent) in a file saved before the field existed: a reader then
+	// falls back on the notes' "residual SD" and says so.
+	Sigma float64 `json:"sigma,omitempty"`
 }
 
 // Verdicts of a Validity record.
@@ -83,6 +93,9 @@ func (v *Validity) Write(w io.Writer, indent string) {
 	for _, k := range names {
 		r := v.Ranges[k]
 		fmt.Fprintf(w, "%s  %s seen from %s to %s\n", indent, k, num(r[0]), num(r[1]))
+	}
+	if v.Sigma > 0 {
+		fmt.Fprintf(w, "%snoise SD to expect on clean data: %s\n", indent, num(v.Sigma))
 	}
 	switch {
 	case v.Verdict == VerdictPassed:
