@@ -61,7 +61,7 @@ func TestOtherPlant(t *testing.T) {
 // Run and Measure: the noise-free plant temp = 6 + 0.01/(1 - 0.95 B) B^3
 // valve is the difference equation v_k = 0.95 v_{k-1} + 0.01 u_{k-3},
 // temp_k = 6 + v_k, at rest at v = 0.2 * 50 = 10 (16 degC with the valve
-// at 50 %); the PI is its velocity form with Ts = 10 s = 1/6 min; the
+// at 50 %); the PI, written in velocity form, with Ts = 10 s = 1/6 min; the
 // setpoint steps to 20 at 60 min, sample 60*6 = 360; the settling time
 // is (the last sample outside 20 +- 0.2, plus one, minus 360) samples of
 // 10 s, divided by 6 for minutes.

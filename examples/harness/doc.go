@@ -55,8 +55,9 @@
 //
 // # The controller tests
 //
-// A PI controller in velocity form with output limits and anti-windup
-// closes the loop, acting once a sample. Two scenarios run, six hours
+// A PI controller in position form with output limits and
+// back-calculation anti-windup (tracking time Ti; see pi.go) closes the
+// loop, acting once a sample. Two scenarios run, six hours
 // each: a setpoint step (16 -> 20 degC at minute 60) and a disturbance
 // step (a cold front: outdoor temperature down by 8 degC at minute 60).
 // The program prints settling time, overshoot, steady-state error and

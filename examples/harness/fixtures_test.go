@@ -134,7 +134,8 @@ func quantile7(x []float64, p float64) float64 {
 	return x[int(lo)] + (h-lo)*(x[int(lo)+1]-x[int(lo)])
 }
 
-// velocity returns the coefficients q0, q1 of the harness's velocity PI
-// (pi.go) with the tuning tu at the sample interval ts:
+// velocity returns the coefficients q0, q1 of the harness's PI (pi.go)
+// within its limits, written in velocity form, with the tuning tu at the
+// sample interval ts:
 // du_t = Kc (e_t - e_{t-1}) + Kc ts/Ti e_t.
 func velocity(tu PITuning, ts float64) (q0, q1 float64) { return tu.Kc * (1 + ts/tu.Ti), -tu.Kc }

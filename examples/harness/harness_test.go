@@ -136,7 +136,7 @@ func TestDisturbanceStep(t *testing.T) {
 // cold spell (-16 degC outside) that the heating cannot cover at the
 // 20 degC setpoint. When the weather returns to -11 degC, a controller
 // that wound up its integral during the spell would keep the valve open
-// and overshoot; the velocity form must leave the limit at once and
+// and overshoot; the back-calculation must leave the limit at once and
 // overshoot the setpoint by less than the step limit.
 func TestAntiWindup(t *testing.T) {
 	sc := DisturbanceStep()

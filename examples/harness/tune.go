@@ -36,9 +36,9 @@ type tuned struct {
 	Tuning control.Tuning
 	// Plant is the identified valve path the tuning is for.
 	Plant tf.Rational
-	// PI is the tuning as the harness's PI runs it (velocity form, the
-	// backward-difference discretisation of the parallel PI that Tune
-	// returns).
+	// PI is the tuning as the harness's PI runs it (within its limits,
+	// the backward-difference discretisation of the parallel PI that
+	// Tune returns).
 	PI PITuning
 	// Nominal is the loop on the identified valve path.
 	Nominal control.Loop
