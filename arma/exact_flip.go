@@ -86,43 +86,21 @@ func (p *mlProblem) invertMA() func(x []float64) bool {
 // kalman.BoundaryTol of the unit circle (atBoundary: finished by Newton
 // steps, see kalman.FinishCrossing); otherwise it continues with the
 // rest of FitSettings.MaxIter.
-func (p *mlProblem) search(ctx context.Context, prob lm.Problem, x0 []float64, set lm.Settings) (lres lm.Result, atBoundary bool, err error) {
+func (p *mlProblem) search(ctx context.Context, prob lm.Problem, x0 []float64, set lm.Settings) (lm.Result, bool, error) {
 	invert := p.invertMA()
 	if invert == nil {
-		lres, err = lm.Minimize(ctx, prob, x0, &set)
+		lres, err := lm.Minimize(ctx, prob, x0, &set)
 		return lres, false, err
 	}
-	limit := set.MaxIter
-	if limit == 0 {
-		limit = 500 // lm's default
-	}
-	first := set
-	first.MaxIter = min(limit, kalman.BoundaryIter)
-	if lres, err = lm.Minimize(ctx, prob, x0, &first); err != nil {
-		return lres, false, err
-	}
-	mapBack := func(r *lm.Result) {
-		if invert(r.X) {
-			r.JTJInv = kalman.GaussNewtonInverse(prob.Eval, r.X, prob.M)
-		}
-	}
-	mapBack(&lres)
-	if lres.Reason != lm.IterationLimit || limit <= first.MaxIter {
-		return lres, false, nil
-	}
-	if bad, err := outside(p.e.ma.Coeffs(), kalman.BoundaryTol); err == nil && len(bad) > 0 {
-		return lres, true, nil
-	}
-	rest := set
-	rest.MaxIter = limit - lres.Iter
-	next, err := lm.Minimize(ctx, prob, lres.X, &rest)
-	if err != nil {
-		return lres, false, nil
-	}
-	next.Iter += lres.Iter
-	next.Evals += lres.Evals
-	mapBack(&next)
-	return next, false, nil
+	return lm.MinimizeCrossing(ctx, prob, x0, &set, lm.Crossing{
+		Invert:      invert,
+		Information: func(x []float64) *mat.SymDense { return kalman.GaussNewtonInverse(prob.Eval, x, prob.M) },
+		AtBoundary: func([]float64) bool {
+			bad, err := outside(p.e.ma.Coeffs(), kalman.BoundaryTol) // e is at the point (invertMA sets it)
+			return err == nil && len(bad) > 0
+		},
+		FirstIter: kalman.BoundaryIter,
+	})
 }
 
 // finish is kalman.FinishCrossing from the search's end lres: the

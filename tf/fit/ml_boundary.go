@@ -70,41 +70,21 @@ func (p *mlProblem) invertMA() func(x []float64) bool {
 // kalman.BoundaryTol of the unit circle (atBoundary: finished by Newton
 // steps, see kalman.FinishCrossing); otherwise it continues with the
 // rest of the iterations.
-func (p *mlProblem) search(ctx context.Context, prob lm.Problem, x0 []float64, set lm.Settings) (lres lm.Result, atBoundary bool, err error) {
+func (p *mlProblem) search(ctx context.Context, prob lm.Problem, x0 []float64, set lm.Settings) (lm.Result, bool, error) {
 	invert := p.invertMA()
 	if invert == nil {
-		lres, err = lm.Minimize(ctx, prob, x0, &set)
+		lres, err := lm.Minimize(ctx, prob, x0, &set)
 		return lres, false, err
 	}
-	limit := set.MaxIter
-	first := set
-	first.MaxIter = min(limit, kalman.BoundaryIter)
-	if lres, err = lm.Minimize(ctx, prob, x0, &first); err != nil {
-		return lres, false, err
-	}
-	mapBack := func(r *lm.Result) {
-		if invert(r.X) {
-			r.JTJInv = kalman.GaussNewtonInverse(prob.Eval, r.X, prob.M)
-		}
-	}
-	mapBack(&lres)
-	if lres.Reason != lm.IterationLimit || limit <= first.MaxIter {
-		return lres, false, nil
-	}
-	p.w.set(lres.X)
-	if maxZ(p.w.ma.Coeffs()) >= 1-kalman.BoundaryTol {
-		return lres, true, nil
-	}
-	rest := set
-	rest.MaxIter = limit - lres.Iter
-	next, err := lm.Minimize(ctx, prob, lres.X, &rest)
-	if err != nil {
-		return lres, false, nil
-	}
-	next.Iter += lres.Iter
-	next.Evals += lres.Evals
-	mapBack(&next)
-	return next, false, nil
+	return lm.MinimizeCrossing(ctx, prob, x0, &set, lm.Crossing{
+		Invert:      invert,
+		Information: func(x []float64) *mat.SymDense { return kalman.GaussNewtonInverse(prob.Eval, x, prob.M) },
+		AtBoundary: func(x []float64) bool {
+			p.w.set(x)
+			return maxZ(p.w.ma.Coeffs()) >= 1-kalman.BoundaryTol
+		},
+		FirstIter: kalman.BoundaryIter,
+	})
 }
 
 // finish is kalman.FinishCrossing from the search's end lres: the
