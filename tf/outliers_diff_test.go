@@ -12,7 +12,7 @@ import (
 )
 
 // TestWithOutliersRefuses: an outlier WithOutliers cannot place is a
-// typed *SettingError naming outs[i] and the field (the review's
+// typed *SettingError naming outs[i] and the field (the
 // finding: Index -3 printed "ao-3 pulse(-3)", a spec that does not parse
 // back, and Kind 0 was skipped as if innovational), and the caller's
 // model is not modified. The forms of the accepted kinds on a model

@@ -66,7 +66,7 @@ func TestModelPathStep(t *testing.T) {
 	}
 }
 
-// TestModelPathForms checks the path's polynomials for the review's model
+// TestModelPathForms checks the path's polynomials for the integrating model
 // and the cancellations, by hand algebra (common practice: D(B) y = G x
 // is y = G/D x; (1 - B^4) = (1 - B)(1 + B + B^2 + B^3)).
 func TestModelPathForms(t *testing.T) {
@@ -76,7 +76,7 @@ func TestModelPathForms(t *testing.T) {
 		delay    int
 		stable   bool
 	}{
-		// The review's model: 0.05 B^2 / ((1 - 0.5 B)(1 - B)), integrating.
+		// The integrating model: 0.05 B^2 / ((1 - 0.5 B)(1 - B)), integrating.
 		{"(1 - B) y = 0.05 / (1 - 0.5 B) B^2 u", []float64{0.05}, []float64{1, -1.5, 0.5}, 2, false},
 		// Input differencing: the (1 - B) stays in the numerator, gain 0.
 		{"y = 0.5 / (1 - 0.5 B) B ((1 - B) u)", []float64{0.5, -0.5}, []float64{1, -0.5}, 1, true},

@@ -463,8 +463,8 @@ func TestManyProblems(t *testing.T) {
 }
 
 // TestNoiseRefused checks that a spec whose noise tf/predict refuses is
-// reported by the loader, naming the model and the root (review finding
-// 8: "every spec valid" was printed for (1 + 1.5 B) a, which
+// reported by the loader, naming the model and the root (before:
+// "every spec valid" was printed for (1 + 1.5 B) a, which
 // examples/monitor then refused). The root of 1 + 1.5 B is at
 // z = -1.5 (z + 1.5 = 0, arithmetic), that of 1 - 1.0 B at z = 1; the
 // invertible 1 + 0.3 B loads. The predictor's refusal is checked beside it.

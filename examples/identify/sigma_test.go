@@ -10,7 +10,7 @@ import (
 	"github.com/backshift/backshift/internal/testutil"
 )
 
-// TestSaveSigma is review finding 2: -save writes the noise SD a monitor
+// TestSaveSigma: -save writes the noise SD a monitor
 // should expect on clean data as the validity's "sigma", and the notes
 // say which it is. On the demo record (one planted bad reading, found by
 // the outlier search) it is the search's robust residual scale, near the

@@ -37,7 +37,7 @@ func shiftedRecord(t *testing.T) string {
 	return stampedCSV(t, d, func(i int) string { return t0.Add(time.Duration(i) * time.Minute).Format(time.RFC3339) })
 }
 
-// TestTimedEventFromTimeColumn is finding 2: a spec whose event is given
+// TestTimedEventFromTimeColumn: a spec whose event is given
 // as a time is fitted on a record with a time column (the record's first
 // stamp is the fit's Start), by either method, to the same estimates as
 // the event given as the sample index (the same model, so equal to
@@ -105,7 +105,7 @@ func TestTimedEventWithoutClock(t *testing.T) {
 	}
 }
 
-// TestOutlierTimeInFileOffset is finding 9b: an outlier's time is
+// TestOutlierTimeInFileOffset: an outlier's time is
 // printed in the offset the file writes at that row, so that it can be
 // found in the file. The faulty demo record is stamped from
 // 2026-03-28T00:00Z with +01:00 offsets until the clock change at

@@ -33,7 +33,7 @@ func savedNotes(t *testing.T, path string) string {
 	return cfg.Models[0].Notes
 }
 
-// TestOutlierQualifiesVerdict is finding 6: the true structure fitted to
+// TestOutlierQualifiesVerdict: the true structure fitted to
 // the demo record passes its checks with the planted bad reading in
 // the record (t about 45 in its residuals), so the verdict does not call
 // it adequate without qualification: it says that one outlier was found
@@ -70,7 +70,7 @@ func TestOutlierQualifiesVerdict(t *testing.T) {
 	}
 }
 
-// TestRefitSameMethod is finding 3: with -method exact -outliers refit
+// TestRefitSameMethod: with -method exact -outliers refit
 // the refit is by exact likelihood as the first fit (so that the
 // comparison of sigma^2, AIC and BIC shows the outliers' effect, not a
 // change of method), the report says which method, and -save writes the
@@ -144,7 +144,7 @@ func TestRefitFailsAdvice(t *testing.T) {
 	}
 }
 
-// TestOutlierSearchRange is finding 9h: the report says which samples
+// TestOutlierSearchRange: the report says which samples
 // the outlier search covered and that the first ones (-skip, here 300)
 // are not searched.
 func TestOutlierSearchRange(t *testing.T) {
@@ -160,7 +160,7 @@ func TestOutlierSearchRange(t *testing.T) {
 	testutil.CheckWords(t, "search range", out, []string{"searched: samples 300 to 5759 (day 1 05:00 to day 4 23:59); the first 300 samples (-skip and the model's start-up) have no residual and are not searched"}, nil)
 }
 
-// TestColumnDidYouMean is finding 9j: a misspelt column gets a
+// TestColumnDidYouMean: a misspelt column gets a
 // did-you-mean (examples/internal/suggest: at most two edits) beside the
 // list of columns, in a file and in the built-in record; a name near
 // nothing gets none.

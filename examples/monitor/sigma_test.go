@@ -26,7 +26,7 @@ const identifiedFile = "testdata/identified.json"
 
 // cleanAlarms runs the loop of identifiedFile, its sigma as the loader
 // takes it from raw, over a clean 4-day stream of the same plant
-// (greenhouse.Generate seed 11, the reviewer's reproduction) with the
+// (greenhouse.Generate seed 11, the reproduction) with the
 // default run length, and returns the variance alarms raised, downwards
 // and upwards, and the loop's noise SD.
 func cleanAlarms(t *testing.T, raw []byte) (down, up int, sigma float64) {
@@ -57,7 +57,7 @@ func cleanAlarms(t *testing.T, raw []byte) (down, up int, sigma float64) {
 	return down, up, specs[0].Sigma
 }
 
-// TestSavedSigmaNoFalseAlarms is review finding 2: a model saved by
+// TestSavedSigmaNoFalseAlarms: a model saved by
 // identify from a record with an outlier, monitored on a clean stream of
 // the same plant, must not see that stream as a fall in variance. Each
 // test of tf/monitor has an in-control run length of
@@ -67,8 +67,8 @@ func cleanAlarms(t *testing.T, raw []byte) (down, up int, sigma float64) {
 // exceeds 3 with probability 0.28 %, scipy.stats.poisson(5760/10080).sf(3) =
 // 0.00283; the stream is fixed, so the check is deterministic). With the
 // notes' residual SD (the old reading, a file without "sigma") the same
-// stream raised 10 "variance down" alarms (the review's count, reproduced
-// here as the check that the test can fail).
+// stream raised 10 "variance down" alarms (the count before
+// the fix, reproduced here as the check that the test can fail).
 func TestSavedSigmaNoFalseAlarms(t *testing.T) {
 	raw, err := os.ReadFile(identifiedFile)
 	if err != nil {

@@ -52,7 +52,7 @@ func TestModelDrawWholePath(t *testing.T) {
 	}
 }
 
-// TestModelDrawCopiesNames is review2 finding 5: a caller who reorders
+// TestModelDrawCopiesNames: a caller who reorders
 // its names slice after ModelDraw must not change later draws. The draws
 // after the reorder equal those of a ModelDraw given its own slice, with
 // the same seed.
@@ -116,10 +116,10 @@ func closedLoopStep(c, p tf.Rational, n int) []float64 {
 	return y
 }
 
-// TestTuneOnWholePath is review2 finding 1 on the reviewer's model
+// TestTuneOnWholePath on an integrating model
 // (1 - B) y = 0.05/(1 - 0.5 B) B^2 u, every 1 min. Tuned on the term
 // alone (Input.Rational, a self-regulating plant of gain 0.1) SIMC's PI
-// closed around the model's real path is unstable (the review measured
+// closed around the model's real path is unstable (measured
 // a largest closed-loop pole of 1.125). Tuned on the whole path
 // (Model.Path, an integrator) SIMC takes its integrating row (Skogestad
 // 2003, Table 1 with tau1 -> infinity: Kc = 1/(k' (tc + theta)),
@@ -147,7 +147,7 @@ func TestTuneOnWholePath(t *testing.T) {
 		t.Fatal(err)
 	}
 	if real.Stable || math.Abs(real.MaxPole-1.125) > 0.005 {
-		t.Errorf("tuned on the term alone, closed on the path: stable %v, max pole %.4f, want unstable near the review's 1.125", real.Stable, real.MaxPole)
+		t.Errorf("tuned on the term alone, closed on the path: stable %v, max pole %.4f, want unstable near 1.125", real.Stable, real.MaxPole)
 	}
 	for _, rule := range []control.Rule{control.SIMC, control.IMC, control.Dahlin} {
 		tu, err := control.Tune(path, m.Interval, control.TuneSettings{Rule: rule})

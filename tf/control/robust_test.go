@@ -194,7 +194,7 @@ func BenchmarkRobust(b *testing.B) {
 
 // TestRobustMemoryBound checks that settings whose bands would not fit
 // in memory are refused up front with a *SettingError naming both
-// settings and the bound (review finding: Draws 1000 x Horizon 10^7
+// settings and the bound (before: Draws 1000 x Horizon 10^7
 // ended the process with a fatal out-of-memory error), and that the
 // bound itself is accepted. The figures are 3 x 8 bytes per draw and
 // sample (three float64 responses kept per stable draw).

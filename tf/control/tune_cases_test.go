@@ -89,7 +89,7 @@ func TestTuneUnstableOnModel(t *testing.T) {
 	}
 }
 
-// TestTuneDefaultsMs: the default tunings of the review's plants had Ms
+// TestTuneDefaultsMs: the default tunings of these plants had Ms
 // 2.76 to 4.79 on the model. The usual range is 1.4 to 2 (common
 // practice; Skogestad 2003); the defaults now land in it. Ms is checked
 // against Analyze's sweep (1e-9). A closed-loop time set by the caller

@@ -34,7 +34,7 @@ func hasNote(tu Tuning, part string) bool {
 // TestTuneRingingNote: Tustin with a derivative filter time below T/2
 // maps the filter pole s = -1/(a Td) to z = (1 - T/(2 a Td))/(1 + T/(2
 // a Td)) < 0 (the bilinear map, a published formula: Franklin, Powell &
-// Workman, Digital Control, sec. 6.3.1, from memory). The review's case,
+// Workman, Digital Control, sec. 6.3.1, from memory). The case,
 // 0.01 B^2/((1 - 0.9 B)(1 - 0.7 B)) every 2 h, SIMC PID, Filter 0.01,
 // has its controller pole at -0.894 (so its output alternates in sign:
 // 72.8, -35.7, ...) and must carry the note, in String too; the
@@ -87,8 +87,8 @@ func TestTuneSIMCDerivativeUnused(t *testing.T) {
 
 // TestTuneSlowLoadNote: IMC's PI (Ti = Tau1, Rivera et al. 1986) on
 // 0.001 B^2/(1 - 0.999 B) every hour settles the set point in about 13 h
-// and recovers from a load in about 3934 h (the review's figures, its
-// Analyze run); SIMC (Ti = 4 (tc + theta)) recovers in some 49 h against
+// and recovers from a load in about 3934 h (its Analyze
+// run); SIMC (Ti = 4 (tc + theta)) recovers in some 49 h against
 // 35 h. The first must carry the note, the second not (threshold
 // SlowLoadRecovery = 10, checked here against Analyze's own figures).
 func TestTuneSlowLoadNote(t *testing.T) {
@@ -113,7 +113,7 @@ func TestTuneSlowLoadNote(t *testing.T) {
 	}
 }
 
-// TestAnalyzeUnstableFigures: the review's loop (SIMC PI tuned on 0.05
+// TestAnalyzeUnstableFigures: the loop (SIMC PI tuned on 0.05
 // B^2/(1 - 0.5 B), closed around the integrating path 0.05 B^2/((1 - 0.5
 // B)(1 - B))) is unstable; Analyze must say so in its figures (+Inf Ms,
 // as Tuning.Ms, and NaN margins), not report Ms 2.25.
@@ -200,7 +200,7 @@ func readTerms(t *testing.T, s string) map[int]float64 {
 }
 
 // TestWorstCaseDelayBound: DelayAbove 2000 would run some 250 cases
-// before the 256-degree limit (3 s in the review); it is refused up
+// before the 256-degree limit (3 s before); it is refused up
 // front, naming the most that fits (a plant of 250 samples of dead time
 // keeps the accepted run short).
 func TestWorstCaseDelayBound(t *testing.T) {

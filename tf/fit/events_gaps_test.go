@@ -32,7 +32,7 @@ func gapRecord(gaps ...[2]int) map[string][]float64 {
 // likelihood does not depend on its size: a singular information
 // matrix, common practice); it is refused by name and place, like a
 // pulse before Conditioning.First, instead of a fit whose standard
-// errors are all NaN (the review's finding: j pulse(300) with the
+// errors are all NaN (before: j pulse(300) with the
 // output missing at 290..309 gave j = -0.42 and NaN for every SE).
 // Events whose effect reaches an observed sample are fitted, with a
 // finite SE.

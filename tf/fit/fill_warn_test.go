@@ -38,7 +38,7 @@ func withGap(data map[string][]float64, name string, from, to int) map[string][]
 }
 
 // TestFillAcrossInputMove: an input gap filled by Settings.InputGaps
-// while the input moved (the review's case: a 15-sample staircase whose
+// while the input moved (the case: a 15-sample staircase whose
 // move at sample 600 falls in the gap 599..601) gives filled values far
 // from the truth; the fit warns (FilledGapMove, with the gap and the
 // move, and the report shows it) instead of passing silently. Truth

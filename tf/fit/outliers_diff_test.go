@@ -50,7 +50,7 @@ func simulateDiff(t *testing.T, truth string, n, aoAt int, ao float64, lsAt int,
 // event term must carry D(B) (Box & Tiao 1975; Chen & Liu 1993, the
 // outlier forms on the observed series): with D(B) = (1 - B) an
 // additive outlier of size w at T is w (1 - B) pulse(T) and a level
-// shift w pulse(T). The review's reproduction: truth
+// shift w pulse(T). The reproduction: truth
 // (1 - B) temp = 0.5/(1 - 0.8 B) B^2 (1 - B) valve + (1 + 0.4 B)/(1 - 0.6 B) a,
 // sigma 0.2, n 1000, an additive outlier +3 at 500 and a level shift +2
 // from 700 planted in temp. Found by arma.Outliers and refitted through

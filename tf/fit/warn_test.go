@@ -86,7 +86,7 @@ func TestModelWarnsRedundant(t *testing.T) {
 // TestSlowPoleWording checks that the SlowPole warning names where the
 // pole lies: d1 = 0.997 is a lag of time constant -1/ln 0.997 = 332.8
 // samples (arithmetic), with a longer record as the remedy; d1 = -0.997
-// (the fit of review finding 7) is a mode that changes sign every sample,
+// (a fit of the harness with noise 1.5) is a mode that changes sign every sample,
 // which no sampled lag has (a zero-order hold maps a real pole -1/T to
 // z = e^(-Ts/T) > 0, z = e^(sTs): common practice), so the message must
 // not call it a time constant to be cured by a longer record.

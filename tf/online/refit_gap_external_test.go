@@ -30,7 +30,7 @@ func (k *windowKeeper) refit(_ context.Context, m tf.Model, w map[string][]float
 	return m, nil
 }
 
-// A refused NaN output restarts the window (review finding: a service
+// A refused NaN output restarts the window (before: a service
 // that skips the refused sample splices the window across the dropout,
 // and the refit fits the two sides as adjacent samples). Window 100:
 // with the NaN at record index 80, no refit may start until 100 samples

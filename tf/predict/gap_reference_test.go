@@ -26,7 +26,7 @@ type gapReference struct {
 // shortcut; testdata/predict/make_gap.py): from sample 150 on, the
 // prediction errors and their variances SE^2, at observed and missing
 // samples, over a gap of 60 outputs and one of 5, for ARIMA(0,1,1)
-// (the reviewer's loop), ARMA(1,1) and ARIMA(2,1,1) noise. Tolerance:
+// (the loop), ARMA(1,1) and ARIMA(2,1,1) noise. Tolerance:
 // 1e-9 of sigma for the errors and 1e-9 relative for the variances. The
 // predictor starts by the fit's conditioning, the filter from a diffuse
 // start; by sample 150 the difference has decayed by the slowest root

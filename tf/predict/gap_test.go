@@ -9,7 +9,7 @@ import (
 	"github.com/backshift/backshift/tf/monitor"
 )
 
-// gapExperiment is the reviewer's experiment: the loop (1 - B) y = 0.5 B
+// gapExperiment is the experiment: the loop (1 - B) y = 0.5 B
 // (1 - B) x + (1 - 0.3 B) a with sigma = 0.1 in control (x held at 0),
 // its output missing for samples 200-259, the predictor's standardised
 // errors Z fed to a drift monitor (Sigma 1, the given target run
@@ -63,13 +63,13 @@ func gapExperiment(t *testing.T, runs int, arl float64) (before, samples, after 
 	return before, samples, after, z
 }
 
-// TestGapNoFalseAlarms: in the reviewer's seeded experiment (runs
+// TestGapNoFalseAlarms: in a seeded experiment (runs
 // seeded 0..199), a monitor fed the standardised errors Z alarms after
 // a 60-sample gap no more often than before it: the alarms in the 15
 // samples after the gap stay within the count the rate before the gap
 // predicts for 15 samples, plus 3 Poisson standard deviations, plus 1
 // (common practice for a count near zero). Checked at the monitor's
-// default target run length (the reviewer's setting, where 77 of 200
+// default target run length (the setting, where 77 of 200
 // runs alarmed after the gap when the raw errors were fed) and at a
 // target of 200 samples, where false alarms are frequent enough for the
 // comparison to have power. Over 1000 runs the Z after the gap have

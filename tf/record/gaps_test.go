@@ -71,7 +71,7 @@ func TestGaps(t *testing.T) {
 	}
 }
 
-// TestClockChange is finding 9c: times written without an offset from
+// TestClockChange: times written without an offset from
 // UTC that skip an hour (a local clock entering daylight saving) are
 // blamed on the clock, not called 60 missing samples, and neither hold
 // nor linear fills them (the hour never existed); a time that goes back
