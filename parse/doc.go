@@ -287,15 +287,14 @@
 // on a branch of its own and fills the syntax tree by reflection, about
 // 20 allocations and 2 to 4 KB per token. The benchmark's spec (two
 // inputs, ARMA(2, 1) noise, start values and an interval: 50 tokens)
-// takes 1,141 allocations, 102 KB and about 0.25 ms (best of six runs on
-// a shared 2-core machine); the costliest texts at MaxTokens, factors
-// nested MaxNesting deep, take about 16 MB, and a longer hostile one is
-// refused by the lexer with 0.6 MB. A spec is read once per
-// configuration load, so the grammar is kept as narrow and as readable
-// as the language, at the cost of not reaching 0.1 ms per spec: that
-// would need a grammar shaped for participle's search rather than for
-// the reader (fewer, wider productions, no lookahead on coefficients) or
-// a hand-written parser.
+// takes 1,141 allocations, 102 KB and 75 to 89 us on a quiet 2-core
+// machine (load 0.3; up to 0.3 ms when the machine is loaded); the
+// costliest texts at MaxTokens, factors nested MaxNesting deep, take
+// about 16 MB, and a longer hostile one is refused by the lexer with
+// 0.6 MB. A spec is read once per configuration load, so the grammar is
+// kept as narrow and as readable as the language rather than shaped for
+// participle's search (fewer, wider productions, no lookahead on
+// coefficients), which would cut the allocations further.
 //
 //	go test ./parse -run '^$' -bench 'Model$|Hostile|Nested' -cpu 1 -benchmem
 package parse
