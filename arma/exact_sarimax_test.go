@@ -12,19 +12,8 @@ import (
 type sarimaxRef struct {
 	Y, X1, X2 []float64
 	YGaps     []*float64 `json:"y_gaps"`
-	Full      sarimaxFit
-	Gaps      sarimaxFit
-}
-
-type sarimaxFit struct {
-	Names    []string
-	Params   []float64
-	BSE      []float64
-	LLF      float64
-	Scale    float64
-	Missing  []int
-	Smooth   []float64
-	SmoothSE []float64 `json:"smooth_se"`
+	Full      testutil.SARIMAXFit
+	Gaps      testutil.SARIMAXFit
 }
 
 // TestExactMLAgainstSARIMAX: a regression with ARMA(1,1) errors
@@ -54,7 +43,7 @@ func TestExactMLAgainstSARIMAX(t *testing.T) {
 	for _, c := range []struct {
 		name string
 		y    []float64
-		want sarimaxFit
+		want testutil.SARIMAXFit
 	}{{"full", ref.Y, ref.Full}, {"gaps", gaps, ref.Gaps}} {
 		t.Run(c.name, func(t *testing.T) {
 			o := &FitSettings{Method: ExactML, Regressors: [][]float64{ref.X1, ref.X2}}

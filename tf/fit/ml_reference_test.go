@@ -18,21 +18,8 @@ type mlSarimaxRef struct {
 	FutureX1  []float64  `json:"future_x1"`
 	FutureX2  []float64  `json:"future_x2"`
 	YGaps     []*float64 `json:"y_gaps"`
-	Full      mlRefFit
-	Gaps      mlRefFit
-}
-
-type mlRefFit struct {
-	Names      []string
-	Params     []float64
-	BSE        []float64
-	LLF        float64
-	Scale      float64
-	Missing    []int
-	Smooth     []float64
-	SmoothSE   []float64 `json:"smooth_se"`
-	Forecast   []float64
-	ForecastSE []float64 `json:"forecast_se"`
+	Full      testutil.SARIMAXFit
+	Gaps      testutil.SARIMAXFit
 }
 
 // nanGaps turns a JSON array with nulls into a series with NaN.
@@ -73,7 +60,7 @@ func TestExactMLAgainstSARIMAX(t *testing.T) {
 	for _, c := range []struct {
 		name string
 		y    []float64
-		want mlRefFit
+		want testutil.SARIMAXFit
 	}{{"full", ref.Y, ref.Full}, {"gaps", nanGaps(ref.YGaps), ref.Gaps}} {
 		t.Run(c.name, func(t *testing.T) {
 			data := map[string][]float64{"y": c.y, "x1": ref.X1, "x2": ref.X2}

@@ -6,6 +6,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"github.com/backshift/backshift/internal/testutil"
 )
 
 // Gaps are refused by default, naming the lines; hold and linear fill
@@ -88,14 +90,14 @@ func TestClockChange(t *testing.T) {
 	if !errors.As(err, &ge) || len(ge.Breaks) != 1 || !ge.Breaks[0].ClockChange {
 		t.Fatalf("spring forward: %v", err)
 	}
-	checkWords(t, "spring", err.Error(), []string{"1 skipped hour", "daylight saving", "write the times with their offset", "Settings.Time = none"},
+	testutil.CheckWords(t, "spring", err.Error(), []string{"1 skipped hour", "daylight saving", "write the times with their offset", "Settings.Time = none"},
 		[]string{"60 samples missing", "linear:N fill"})
 	for _, r := range []Remedy{{Kind: "linear", Max: 60}, {Kind: "hold", Max: 60}} {
 		_, err := Read(strings.NewReader(spring), &Settings{File: "s.csv", Gaps: r})
 		if !errors.As(err, &ge) {
 			t.Fatalf("%s: %v", r, err)
 		}
-		checkWords(t, r.String(), err.Error(), []string{"Settings.Gaps = " + r.String() + " would fill an hour that never existed", "daylight saving"}, nil)
+		testutil.CheckWords(t, r.String(), err.Error(), []string{"Settings.Gaps = " + r.String() + " would fill an hour that never existed", "daylight saving"}, nil)
 	}
 	if rec, err := Read(strings.NewReader(spring), &Settings{File: "s.csv", Gaps: Remedy{Kind: "longest"}}); err != nil || rec.Len() != 2 {
 		t.Errorf("longest: %v", err)
@@ -126,24 +128,8 @@ func TestClockChange(t *testing.T) {
 	if !errors.As(err, &le) || le.Line != 4 {
 		t.Fatalf("autumn: %v", err)
 	}
-	checkWords(t, "autumn", err.Error(), []string{"goes back", "daylight saving", "write the times with their offset", "-time none"}, nil)
+	testutil.CheckWords(t, "autumn", err.Error(), []string{"goes back", "daylight saving", "write the times with their offset", "-time none"}, nil)
 	if _, err := Read(strings.NewReader(strings.ReplaceAll(autumn, ":00,", ":00Z,")), &Settings{File: "a.csv"}); err == nil || strings.Contains(err.Error(), "daylight") {
 		t.Errorf("autumn in UTC: %v", err)
-	}
-}
-
-// checkWords reports the words of want missing from msg and those of not
-// found in it.
-func checkWords(t *testing.T, label, msg string, want, not []string) {
-	t.Helper()
-	for _, w := range want {
-		if !strings.Contains(msg, w) {
-			t.Errorf("%s: message lacks %q:\n%s", label, w, msg)
-		}
-	}
-	for _, w := range not {
-		if strings.Contains(msg, w) {
-			t.Errorf("%s: message holds %q:\n%s", label, w, msg)
-		}
 	}
 }
